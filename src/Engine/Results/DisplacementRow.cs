@@ -1,0 +1,10 @@
+namespace LatticeSweep.Engine.Results;
+
+/// <summary>Mean-square displacement of one site at one temperature, per Cartesian direction, in nm^2.</summary>
+public sealed record DisplacementRow(
+    double TemperatureK,
+    int Site,
+    string SiteLabel,
+    double MsdXNm2,
+    double MsdYNm2,
+    double MsdZNm2);

@@ -1,0 +1,33 @@
+using System.Collections.Immutable;
+
+namespace LatticeSweep.Engine.Solving;
+
+/// <summary>What to compute for one model besides the summary.</summary>
+public sealed record SolveOptions
+{
+    /// <summary>Temperatures (K) of the thermal table; each must be >= 0.</summary>
+    public ImmutableArray<double> TemperaturesK { get; init; } = [10, 50, 100, 200, 300, 500, 1000];
+
+    /// <summary>Temperature (K) of the summary's thermal numbers.</summary>
+    public double ReferenceTemperatureK { get; init; } = 300.0;
+
+    /// <summary>Number of DOS bins from 0 to just above the highest frequency.</summary>
+    public int DosBins { get; init; } = 200;
+
+    public DosMethod DosMethod { get; init; } = DosMethod.Auto;
+
+    /// <summary>Gaussian standard deviation (THz) when <see cref="DosMethod"/> is Gaussian.</summary>
+    public double GaussianSigmaThz { get; init; } = 0.05;
+
+    /// <summary>Per-site (partial) densities of states from eigenvector weights.</summary>
+    public bool PartialDos { get; init; } = true;
+
+    /// <summary>Optional dispersion path with group velocities.</summary>
+    public DispersionPath? Dispersion { get; init; }
+
+    /// <summary>Exact list of distinct frequencies of a finite crystal, when it has at most this many modes (0 = never).</summary>
+    public long ModeListMaxModes { get; init; } = 20_000;
+
+    /// <summary>Upper bound on the working memory a finite crystal may claim, in bytes.</summary>
+    public long MemoryLimitBytes { get; init; } = 2L << 30;
+}

@@ -1,0 +1,19 @@
+using System.Collections.Immutable;
+
+namespace LatticeSweep.Worker.Planning;
+
+/// <summary>Which tables a sweep writes. <c>points</c> is always written.</summary>
+public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements)
+{
+    public static OutputSelection Default => new(Dos: true, Thermal: true, Dispersion: false, Modes: true, Displacements: true);
+
+    public ImmutableArray<string> TableNames =>
+        [
+            "points",
+            .. Dos ? new[] { "dos" } : [],
+            .. Thermal ? new[] { "thermal" } : [],
+            .. Dispersion ? new[] { "dispersion" } : [],
+            .. Modes ? new[] { "modes" } : [],
+            .. Displacements ? new[] { "displacements" } : [],
+        ];
+}
