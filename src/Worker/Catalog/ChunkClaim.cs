@@ -19,7 +19,8 @@ public enum ChunkDecision
 }
 
 /// <summary>The catalog's answer to a worker starting a chunk: the points to run, each with its attempt number.</summary>
-public sealed record ChunkClaim(ChunkDecision Decision, ImmutableArray<ClaimedPoint> Points);
+/// <see cref="SweepStarted"/> is true when this chunk moved the sweep from queued to running.
+public sealed record ChunkClaim(ChunkDecision Decision, ImmutableArray<ClaimedPoint> Points, bool SweepStarted = false);
 
 /// <summary>A point handed to a worker; <see cref="Attempt"/> counts from 1.</summary>
 public sealed record ClaimedPoint(string PointId, int Attempt);

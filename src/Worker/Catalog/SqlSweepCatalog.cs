@@ -183,7 +183,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             WHERE sweep_id = @sweep AND chunk_id = @chunk
             """,
             ("running", Text(PointState.Running)), ("now", now), ("worker", workerName), ("sweep", sweepId), ("chunk", chunkId));
-        Execute(c, tx, """
+        var started = Execute(c, tx, """
             UPDATE latsweep_sweeps SET state = @running, started_ms = COALESCE(started_ms, @now)
             WHERE sweep_id = @sweep AND state = @queued
             """,
@@ -202,7 +202,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         tx.Commit();
-        return new ChunkClaim(ChunkDecision.Run, claimed.ToImmutable());
+        return new ChunkClaim(ChunkDecision.Run, claimed.ToImmutable(), SweepStarted: started > 0);
     }
 
     public ChunkCompletion CompleteChunk(string sweepId, string chunkId, IReadOnlyList<PointCompletion> points)
