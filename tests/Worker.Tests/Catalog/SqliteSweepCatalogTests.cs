@@ -22,7 +22,7 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void Register_stores_the_sweep_queued_with_every_point_waiting()
     {
-        var (id, chunks) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
 
         var sweep = _catalog.FindSweep(id)!;
         Assert.Equal(SweepState.Queued, sweep.State);
@@ -38,7 +38,7 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void Register_twice_keeps_the_first_and_says_so()
     {
-        var plan = Some.Plan();
+        var plan = SomeSweep.Plan();
         TestCatalog.Register(_catalog, plan, _dir.Combine("out"));
         var (id, _) = TestCatalog.Register(_catalog, plan, _dir.Combine("elsewhere"));
 
@@ -50,21 +50,21 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void Points_read_back_with_typed_parameters_in_plan_order()
     {
-        var (id, _) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, _) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
 
         var points = _catalog.GetPoints(id, new PointQuery());
 
         Assert.Equal(Enumerable.Range(0, 6), points.Select(p => p.Index));
-        Assert.IsType<double>(points[0].Parameters[Some.MassColumn]);
-        Assert.IsType<long>(points[0].Parameters[Some.CellsColumn]);
-        Assert.Equal(30.0, points[5].Parameters[Some.MassColumn]);
+        Assert.IsType<double>(points[0].Parameters[SomeSweep.MassColumn]);
+        Assert.IsType<long>(points[0].Parameters[SomeSweep.CellsColumn]);
+        Assert.Equal(30.0, points[5].Parameters[SomeSweep.MassColumn]);
         Assert.All(points, p => Assert.Equal(0, p.Attempts));
     }
 
     [Fact]
     public void A_chunk_moves_waiting_to_running_to_done_and_the_last_chunk_finishes_the_sweep()
     {
-        var (id, chunks) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
 
         var claim = _catalog.BeginChunk(id, chunks[0], "test:1");
         Assert.Equal(ChunkDecision.Run, claim.Decision);
@@ -96,7 +96,7 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void A_chunk_whose_points_all_have_results_is_not_run_again()
     {
-        var (id, chunks) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
         var claim = _catalog.BeginChunk(id, chunks[0], "test:1");
         _catalog.CompleteChunk(id, chunks[0], Done(claim));
 
@@ -109,7 +109,7 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void A_chunk_started_again_after_a_crash_counts_a_second_attempt()
     {
-        var (id, chunks) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
         _catalog.BeginChunk(id, chunks[0], "test:1");
 
         var again = _catalog.BeginChunk(id, chunks[0], "test:2");
@@ -122,7 +122,7 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void Failures_finish_the_sweep_as_failed_and_group_by_reason()
     {
-        var (id, chunks) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
         foreach (var chunk in chunks)
         {
             var claim = _catalog.BeginChunk(id, chunk, "t");
@@ -145,7 +145,7 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void Requeue_puts_back_chunks_without_results_but_not_model_failures()
     {
-        var (id, chunks) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
         var c0 = _catalog.BeginChunk(id, chunks[0], "t");
         _catalog.CompleteChunk(id, chunks[0], [.. c0.Points.Select(p => Completion(p.PointId, PointState.Failed, FailureKind.Model, "bad"))]);
         var c1 = _catalog.BeginChunk(id, chunks[1], "t");
@@ -163,7 +163,7 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void Cancel_stops_waiting_points_and_later_chunks_are_skipped()
     {
-        var (id, chunks) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
         var running = _catalog.BeginChunk(id, chunks[0], "t");
 
         Assert.True(_catalog.Cancel(id));
@@ -182,17 +182,17 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void Axis_coverage_counts_points_per_value()
     {
-        var (id, chunks) = TestCatalog.Register(_catalog, Some.Plan(), _dir.Combine("out"));
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
         var claim = _catalog.BeginChunk(id, chunks[0], "t"); // mass 10, cells 4 and 8
         _catalog.CompleteChunk(id, chunks[0], Done(claim));
 
         var coverage = _catalog.GetAxisCoverage(id);
 
-        var mass = coverage.Single(a => a.ColumnName == Some.MassColumn);
+        var mass = coverage.Single(a => a.ColumnName == SomeSweep.MassColumn);
         Assert.Equal([10.0, 20.0, 30.0], mass.Values.Select(v => (double)v.Value));
         Assert.Equal([2L, 0L, 0L], mass.Values.Select(v => v.Done));
         Assert.Equal([0L, 2L, 2L], mass.Values.Select(v => v.Pending));
-        var cells = coverage.Single(a => a.ColumnName == Some.CellsColumn);
+        var cells = coverage.Single(a => a.ColumnName == SomeSweep.CellsColumn);
         Assert.Equal([1L, 1L], cells.Values.Select(v => v.Done));
         Assert.Equal([3L, 3L], cells.Values.Select(v => v.Total));
     }
@@ -200,7 +200,7 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     [Fact]
     public void Find_by_name_returns_the_sweep()
     {
-        var (id, _) = TestCatalog.Register(_catalog, Some.Plan(name: "Named Sweep"), _dir.Combine("out"));
+        var (id, _) = TestCatalog.Register(_catalog, SomeSweep.Plan(name: "Named Sweep"), _dir.Combine("out"));
 
         Assert.Equal(id, _catalog.FindSweep("Named Sweep")!.SweepId);
         Assert.Null(_catalog.FindSweep("unknown"));

@@ -6,7 +6,7 @@ using LatticeSweep.Worker.Queue;
 
 namespace LatticeSweep.Worker.Tests.Support;
 
-/// <summary>A test double for the Engine: results from <see cref="Some.Result"/>, model failures on request, calls counted.</summary>
+/// <summary>A test double for the Engine: results from <see cref="SomeSweep.Result"/>, model failures on request, calls counted.</summary>
 internal sealed class FakeSolver : IPointSolver
 {
     public ConcurrentDictionary<string, int> Calls { get; } = new();
@@ -50,7 +50,7 @@ internal sealed class FakeSolver : IPointSolver
             throw new InvalidOperationException("invented engine defect");
         }
 
-        return Some.Result(point);
+        return SomeSweep.Result(point);
     }
 }
 

@@ -1,92 +1,74 @@
-using System.Collections.Immutable;
-using LatticeSweep.Engine.Results;
+using LatticeSweep.Worker.JobFiles;
 using LatticeSweep.Worker.Planning;
 
 namespace LatticeSweep.Worker.Tests.Support;
 
-/// <summary>Invented test data (demo values, not physics): plans, points and results built by hand.</summary>
-internal static class Some
+/// <summary>Small job files for tests (invented parameters) and helpers to load them.</summary>
+public static class Some
 {
-    public const string MassColumn = "mass_amu";
-    public const string CellsColumn = "cells";
+    /// <summary>A valid diatomic chain with a finite sample; <paramref name="sweep"/> is inserted as the [sweep] part.</summary>
+    public static string ChainJob(string sweep = "", string sample = "kind = \"finite\"\ncells = 16", string output = "") => $"""
+        [sweep]
+        name = "test-chain"
+        {sweep}
 
-    public static AxisInfo MassAxis(params double[] values) =>
-        new("model.sites.A.mass_amu", MassColumn, "amu", AxisValueType.Double, [.. values.Select(v => (object)v)]);
+        [model]
+        lattice = "chain"
+        constant_nm = 0.5
 
-    public static AxisInfo CellsAxis(params long[] values) =>
-        new("sample.cells", CellsColumn, "", AxisValueType.Integer, [.. values.Select(v => (object)v)]);
+        [[model.sites]]
+        label = "A"
+        mass_amu = 10.0
+        position = [0.0]
 
-    /// <summary>A full grid of masses x cells, point ids made from the parameters.</summary>
-    public static SweepPlan Plan(string name = "demo grid", double[]? masses = null, long[]? cells = null, OutputSelection? outputs = null, string? sourcePath = null)
+        [[model.sites]]
+        label = "B"
+        mass_amu = 20.0
+        position = [0.5]
+
+        [[model.springs]]
+        from = "A"
+        to = "B"
+        longitudinal_n_per_m = 30.0
+        transverse_n_per_m = 5.0
+
+        [sample]
+        {sample}
+
+        [output]
+        temperatures_k = [10, 100, 300]
+        {output}
+        """;
+
+    public static SweepPlan Load(TempDirectory dir, string text, string name = "job.toml") => JobFileLoader.Load(dir.Write(name, text));
+
+    /// <summary>Loads a job that must fail and returns its exception.</summary>
+    public static JobFileException Fails(TempDirectory dir, string text, string name = "job.toml") =>
+        Assert.Throws<JobFileException>(() => JobFileLoader.Load(dir.Write(name, text)));
+
+    /// <summary>The 1-based line of the first line of <paramref name="text"/> that contains <paramref name="fragment"/>.</summary>
+    public static int LineOf(string text, string fragment)
     {
-        masses ??= [10.0, 20.0, 30.0];
-        cells ??= [4, 8];
-        var points = new List<PlannedPoint>();
-        foreach (var m in masses)
+        var lines = text.ReplaceLineEndings("\n").Split('\n');
+        for (var i = 0; i < lines.Length; i++)
         {
-            foreach (var n in cells)
+            if (lines[i].Contains(fragment, StringComparison.Ordinal))
             {
-                var parameters = ImmutableSortedDictionary.CreateRange(StringComparer.Ordinal,
-                    [new KeyValuePair<string, object>(MassColumn, m), new KeyValuePair<string, object>(CellsColumn, n)]);
-                points.Add(new PlannedPoint($"p{points.Count:D3}-m{m}-n{n}", points.Count, parameters));
+                return i + 1;
             }
         }
 
-        return new SweepPlan
-        {
-            SweepName = name,
-            Description = "invented demo sweep",
-            SourcePath = sourcePath ?? "/tmp/none.toml",
-            SpecText = "# invented\n[sweep]\nname = \"" + name + "\"\n",
-            Axes = [MassAxis(masses), CellsAxis(cells)],
-            Points = [.. points],
-            Outputs = outputs ?? OutputSelection.Default,
-            Template = new JobTemplate(),
-            SpecHash = "0123abcd" + string.Concat(name.Select(c => ((int)c).ToString("x2", System.Globalization.CultureInfo.InvariantCulture))),
-        };
+        throw new ArgumentException($"'{fragment}' is not in the text");
     }
 
-    /// <summary>A made-up result whose numbers depend on the point's mass, so rows can be told apart.</summary>
-    public static PointResult Result(PlannedPoint point)
+    public static string RepositoryRoot()
     {
-        var mass = point.Parameters.TryGetValue(MassColumn, out var m) ? (double)m : 1.0;
-        var scale = 10.0 / Math.Sqrt(mass);
-        var freqs = Enumerable.Range(0, 5).Select(i => scale * (i + 0.5) / 5).ToImmutableArray();
-        var summary = new PointSummary
+        var dir = new DirectoryInfo(AppContext.BaseDirectory);
+        while (dir is not null && !File.Exists(Path.Combine(dir.FullName, "Batch.sln")))
         {
-            Dimension = 1,
-            SitesPerCell = 2,
-            BranchCount = 2,
-            SampleKind = "finite",
-            CellsOrMeshPoints = point.Parameters.TryGetValue(CellsColumn, out var n) ? (long)n : 1,
-            QPointsSolved = 3,
-            ModeCount = 8,
-            RigidModesExcluded = 1,
-            MaxFrequencyThz = scale,
-            MinFrequencyThz = 0,
-            Stable = true,
-            WorstQReduced = null,
-            Gaps = [new BandGap(0.4 * scale, 0.6 * scale), new BandGap(0.8 * scale, 0.85 * scale)],
-            SoundSpeeds = [new SoundSpeed("x", [1000 * scale])],
-            ReferenceTemperatureK = 300,
-            HeatCapacityJPerMolK = 20 + mass / 100,
-            EntropyJPerMolK = 30,
-            FreeEnergyJPerMol = -1000,
-            InternalEnergyJPerMol = 5000,
-            ZeroPointEnergyJPerMol = 800,
-            DebyeTemperatureFromCvK = 250,
-            DebyeTemperatureMomentMinus2K = 240,
-            DebyeTemperatureMomentLogK = 245,
-            DebyeTemperatureMoment2K = 260,
-            MolarMassKgPerMol = mass / 1000,
-        };
-        var dos = new DosCurve(freqs, [.. freqs.Select(f => f / scale)], [[.. freqs.Select(f => f / scale / 2)], [.. freqs.Select(f => f / scale / 2)]], "histogram");
-        return new PointResult(
-            summary,
-            dos,
-            [new ThermalRow(100, 1000 + mass, -50, 10, 15, 200), new ThermalRow(300, 3000 + mass, -900, 30, 20 + mass / 100, double.NaN)],
-            [new DisplacementRow(300, 0, "A", 1e-4, 1e-4, 1e-4)],
-            [],
-            [new ModeLevel(0.0, 1), new ModeLevel(scale, 2)]);
+            dir = dir.Parent;
+        }
+
+        return dir?.FullName ?? throw new InvalidOperationException("Batch.sln not found above the test output folder");
     }
 }
