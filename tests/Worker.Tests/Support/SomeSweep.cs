@@ -41,10 +41,17 @@ internal static class SomeSweep
             Axes = [MassAxis(masses), CellsAxis(cells)],
             Points = [.. points],
             Outputs = outputs ?? OutputSelection.Default,
-            Template = new JobTemplate(),
+            Template = Template.Value,
             SpecHash = "0123abcd" + string.Concat(name.Select(c => ((int)c).ToString("x2", System.Globalization.CultureInfo.InvariantCulture))),
         };
     }
+
+    /// <summary>A real template (from a tiny chain job file); these plans only go to a fake solver.</summary>
+    private static readonly Lazy<JobTemplate> Template = new(() =>
+    {
+        using var dir = new TempDirectory();
+        return Some.Load(dir, Some.ChainJob()).Template;
+    });
 
     /// <summary>A made-up result whose numbers depend on the point's mass, so rows can be told apart.</summary>
     public static PointResult Result(PlannedPoint point)
