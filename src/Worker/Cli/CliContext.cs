@@ -14,7 +14,7 @@ public sealed record CliContext
 
     public TimeProvider Time { get; init; } = TimeProvider.System;
     public IPointSolver Solver { get; init; } = EnginePointSolver.Instance;
-    public ChunkPlanner Chunks { get; init; } = ChunkPlanner.Default;
+    public ChunkPlanner Chunks { get; init; } = ChunkPlanner.FromEnvironment();
     public RetryPolicy Retry { get; init; } = RetryPolicy.Default;
 
     /// <summary>Ctrl+C or a termination signal.</summary>
