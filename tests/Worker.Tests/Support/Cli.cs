@@ -8,7 +8,9 @@ internal static class Cli
 {
     public sealed record Result(int ExitCode, string Stdout, string Stderr);
 
-    public static Result Run(string folder, params string[] args)
+    public static Result Run(string folder, params string[] args) => Run(folder, null, args);
+
+    public static Result Run(string folder, LatticeSweep.Worker.Queue.ChunkPlanner? chunks, params string[] args)
     {
         var stdout = new StringWriter();
         var stderr = new StringWriter();
@@ -19,6 +21,7 @@ internal static class Cli
             CurrentDirectory = folder,
             StderrIsTerminal = false,
             PollInterval = TimeSpan.FromMilliseconds(100),
+            Chunks = chunks ?? LatticeSweep.Worker.Queue.ChunkPlanner.Default,
         });
         return new Result(code, stdout.ToString(), stderr.ToString());
     }
