@@ -30,6 +30,9 @@ public sealed record PointSummary
     /// <summary>Zero-frequency rigid translations at q = 0 left out of the thermal sums.</summary>
     public required int RigidModesExcluded { get; init; }
 
+    /// <summary>Other modes of zero frequency (directions with no restoring spring at some q), also left out.</summary>
+    public long ZeroModesExcluded { get; init; }
+
     public required double MaxFrequencyThz { get; init; }
 
     /// <summary>Lowest frequency found; negative (as -sqrt|lambda|) for an unstable model.</summary>

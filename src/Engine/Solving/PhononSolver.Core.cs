@@ -1,14 +1,241 @@
+using System.Collections.Immutable;
+using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Results;
 using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Thermal;
+using LatticeSweep.Engine.Units;
 
 namespace LatticeSweep.Engine.Solving;
 
 public static partial class PhononSolver
 {
-    private static PointResult SolveCore(CrystalModel model, Sample sample, SolveOptions options, CancellationToken cancellationToken)
-        => throw new NotImplementedException();
+    private static PointResult SolveCore(CrystalModel model, Sample sample, SolveOptions options, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(sample);
+        ArgumentNullException.ThrowIfNull(options);
+        OptionsValidation.Check(options);
+        CheckSample(model, sample);
+
+        var crystal = CompiledCrystal.From(model);
+        var solver = new ModeSolver(new DynamicalMatrix(crystal));
+        CheckNoFloppyBranch(solver);
+
+        var temperatures = TemperatureList(options);
+        var channelMasses = Enumerable.Range(0, crystal.Size).Select(c => crystal.MassesKg[c / crystal.Components]).ToArray();
+        var sink = new ModeSink(temperatures, crystal.Size, channelMasses, options.MeanSquareDisplacement);
+        var outcome = sample switch
+        {
+            FiniteSample finite => FiniteCrystalSolver.Solve(solver, finite, options, temperatures, sink, ct),
+            BulkSample bulk => BulkSolver.Solve(solver, bulk, options, sink, ct),
+            _ => throw new ArgumentException($"unknown sample type {sample.GetType().Name}", nameof(sample)),
+        };
+
+        var speeds = SoundSpeedFinder.Find(solver);
+        var dispersion = options.Dispersion is null ? [] : DispersionCalculator.Compute(solver, options.Dispersion, ct);
+        return Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion);
+    }
 
     private static WorkEstimate EstimateCore(CrystalModel model, Sample sample, SolveOptions options)
-        => throw new NotImplementedException();
+    {
+        var n = model.BranchCount;
+        var vectors = options.PartialDos || options.MeanSquareDisplacement;
+        long solves;
+        long bytes;
+        switch (sample)
+        {
+            case FiniteSample f:
+                solves = (f.CellCount + 1) / 2 * (vectors ? 2 : 2);
+                bytes = Math.Min(f.CellCount * n, FiniteCrystalSolver.StoredModeLimit) * 8L;
+                break;
+            case BulkSample b:
+                solves = (b.PointCount + 1) / 2;
+                bytes = BulkSolver.EstimateBytes(b.PointCount, n, vectors);
+                break;
+            default:
+                throw new ArgumentException($"unknown sample type {sample.GetType().Name}", nameof(sample));
+        }
+
+        // Householder + QL: about 4/3 n^3 for values, about 9 n^3 with vectors (complex arithmetic counts 4x).
+        var perSolve = 4.0 * (vectors ? 9.0 : 4.0 / 3.0) * n * (double)n * n + 8.0 * n * n;
+        var modeWork = (double)solves * n * options.TemperaturesK.Length * 30.0;
+        return new WorkEstimate(solves, n, solves * perSolve + modeWork, bytes);
+    }
+
+    private static void CheckSample(CrystalModel model, Sample sample)
+    {
+        switch (sample)
+        {
+            case FiniteSample f:
+                f.CheckAgainst(model.Lattice);
+                break;
+            case BulkSample b:
+                var d = model.Lattice.Dimension;
+                if ((d < 3 && b.M3 != 1) || (d < 2 && b.M2 != 1))
+                {
+                    throw Guard.Single(ModelProblemKind.DimensionMismatch, "sample.mesh",
+                        $"a {d}D lattice takes {d} mesh count(s); the others must be 1, got [{b.M1}, {b.M2}, {b.M3}]");
+                }
+
+                break;
+        }
+    }
+
+    /// <summary>
+    /// A branch of zero frequency at a general wave vector means some motion meets no spring at all
+    /// (a floppy model): its thermal sums would diverge, so it is refused with the site it moves.
+    /// </summary>
+    private static void CheckNoFloppyBranch(ModeSolver solver)
+    {
+        var lattice = solver.Matrix.Crystal.Lattice;
+        var reduced = new Vec3(0.1234567, lattice.Dimension >= 2 ? 0.2718281 : 0, lattice.Dimension >= 3 ? 0.3141592 : 0);
+        solver.SolveWithVectors(lattice.ToCartesianQ(reduced));
+        var values = solver.Values;
+        var top = Math.Abs(values[^1]);
+        if (top == 0 || values[0] > 1e-10 * top)
+        {
+            return;
+        }
+
+        if (values[0] < -1e-8 * top)
+        {
+            return; // unstable, not floppy: reported in the summary
+        }
+
+        var crystal = solver.Matrix.Crystal;
+        var fractions = new double[solver.Size];
+        solver.ChannelFractions(0, fractions);
+        var channel = Array.IndexOf(fractions, fractions.Max());
+        var site = crystal.Model.Sites[channel / crystal.Components];
+        var axis = crystal.Components == 1 ? "" : " along " + "xyz"[channel % 3];
+        throw Guard.Single(ModelProblemKind.UnconnectedSite, "springs",
+            $"a branch has zero frequency at a general wave vector: site '{site.Label}' can move{axis} without stretching any spring. Add springs (a transverse constant or another shell) or use the scalar model");
+    }
+
+    private static double[] TemperatureList(SolveOptions options)
+    {
+        var list = options.TemperaturesK.ToList();
+        if (!list.Contains(options.ReferenceTemperatureK))
+        {
+            list.Add(options.ReferenceTemperatureK);
+        }
+
+        return [.. list];
+    }
+
+    private static PointResult Assemble(
+        CrystalModel model, CompiledCrystal crystal, SolveOptions options, double[] temperatures,
+        SpectrumOutcome outcome, List<SoundSpeed> speeds, ImmutableArray<DispersionRow> dispersion)
+    {
+        var stats = outcome.Statistics;
+        var maxLambda = stats.MaxLambda;
+        var unstable = stats.WorstLambda < -1e-8 * maxLambda;
+        var sink = outcome.Sink;
+        var r = model.Sites.Length;
+        var perMolAtoms = PhysicalConstants.AvogadroPerMol / r;
+        var classicalCv = crystal.Components * PhysicalConstants.GasConstantJPerMolK;
+        var dimension = model.Lattice.Dimension;
+
+        var rows = ImmutableArray.CreateBuilder<ThermalRow>(options.TemperaturesK.Length);
+        ThermalRow? reference = null;
+        for (var t = 0; t < temperatures.Length; t++)
+        {
+            var s = sink.Sums(t);
+            var cv = s.HeatCapacity * perMolAtoms;
+            var row = unstable
+                ? new ThermalRow(temperatures[t], double.NaN, double.NaN, double.NaN, double.NaN, double.NaN)
+                : new ThermalRow(
+                    temperatures[t],
+                    s.Internal * perMolAtoms,
+                    s.Free * perMolAtoms,
+                    s.Entropy * perMolAtoms,
+                    cv,
+                    DebyeModel.TemperatureFromHeatCapacity(temperatures[t], cv / classicalCv, dimension));
+            if (t < options.TemperaturesK.Length)
+            {
+                rows.Add(row);
+            }
+
+            if (temperatures[t] == options.ReferenceTemperatureK)
+            {
+                reference = row;
+            }
+        }
+
+        var displacements = ImmutableArray.CreateBuilder<DisplacementRow>();
+        if (options.MeanSquareDisplacement)
+        {
+            for (var t = 0; t < options.TemperaturesK.Length; t++)
+            {
+                for (var site = 0; site < r; site++)
+                {
+                    double Get(int axis) => unstable || axis >= crystal.Components
+                        ? double.NaN
+                        : sink.Msd(t, site * crystal.Components + axis) * 1e18;
+                    displacements.Add(new DisplacementRow(temperatures[t], site, model.Sites[site].Label, Get(0), Get(1), Get(2)));
+                }
+            }
+        }
+
+        var states = sink.StatesCounted;
+        var zeroPoint = sink.Sums(0).ZeroPoint * perMolAtoms;
+        var thetaMinus2 = dimension >= 3 && states > 0
+            ? DebyeModel.TemperatureFromMoment(sink.SumInverseOmegaSquared / states, -2, dimension)
+            : double.NaN;
+        var thetaLog = states > 0 ? DebyeModel.TemperatureFromLogMoment(sink.SumLnOmega / states, dimension) : double.NaN;
+        var theta2 = states > 0 ? DebyeModel.TemperatureFromMoment(sink.SumOmegaSquared / states, 2, dimension) : double.NaN;
+        var nan = unstable;
+
+        var summary = new PointSummary
+        {
+            Dimension = dimension,
+            SitesPerCell = r,
+            BranchCount = crystal.Size,
+            SampleKind = outcome.SampleKind,
+            CellsOrMeshPoints = outcome.CellsOrMeshPoints,
+            QPointsSolved = outcome.QPointsSolved,
+            ModeCount = outcome.ModeCount,
+            RigidModesExcluded = outcome.RigidModesExcluded,
+            ZeroModesExcluded = outcome.ZeroModesExcluded,
+            MaxFrequencyThz = ModeSolver.SignedThz(maxLambda),
+            MinFrequencyThz = ModeSolver.SignedThz(Math.Min(stats.WorstLambda, stats.BranchMin.Min())),
+            Stable = !unstable,
+            WorstQReduced = unstable ? stats.WorstQReduced : null,
+            Gaps = Gaps(stats),
+            SoundSpeeds = [.. speeds],
+            ReferenceTemperatureK = options.ReferenceTemperatureK,
+            HeatCapacityJPerMolK = reference?.HeatCapacityJPerMolK ?? double.NaN,
+            EntropyJPerMolK = reference?.EntropyJPerMolK ?? double.NaN,
+            FreeEnergyJPerMol = reference?.FreeEnergyJPerMol ?? double.NaN,
+            InternalEnergyJPerMol = reference?.InternalEnergyJPerMol ?? double.NaN,
+            ZeroPointEnergyJPerMol = nan ? double.NaN : zeroPoint,
+            DebyeTemperatureFromCvK = reference?.DebyeTemperatureK ?? double.NaN,
+            DebyeTemperatureMomentMinus2K = nan ? double.NaN : thetaMinus2,
+            DebyeTemperatureMomentLogK = nan ? double.NaN : thetaLog,
+            DebyeTemperatureMoment2K = nan ? double.NaN : theta2,
+            MolarMassKgPerMol = model.CellMassAmu / r * 1e-3,
+        };
+
+        return new PointResult(summary, outcome.Dos, rows.ToImmutable(), displacements.ToImmutable(), dispersion, outcome.Modes);
+    }
+
+    /// <summary>Gaps between consecutive branches: the top of branch k below the bottom of branch k + 1.</summary>
+    private static ImmutableArray<BandGap> Gaps(SpectrumStatistics stats)
+    {
+        var gaps = ImmutableArray.CreateBuilder<BandGap>();
+        var top = ModeSolver.SignedThz(stats.MaxLambda);
+        for (var k = 0; k + 1 < stats.BranchMax.Length; k++)
+        {
+            var lower = ModeSolver.SignedThz(stats.BranchMax[k]);
+            var upper = ModeSolver.SignedThz(stats.BranchMin[k + 1]);
+            if (upper - lower > 1e-6 * top)
+            {
+                gaps.Add(new BandGap(lower, upper));
+            }
+        }
+
+        return gaps.ToImmutable();
+    }
 }

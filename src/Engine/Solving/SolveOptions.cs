@@ -22,6 +22,9 @@ public sealed record SolveOptions
     /// <summary>Per-site (partial) densities of states from eigenvector weights.</summary>
     public bool PartialDos { get; init; } = true;
 
+    /// <summary>Mean-square displacement per site and direction at each temperature.</summary>
+    public bool MeanSquareDisplacement { get; init; } = true;
+
     /// <summary>Optional dispersion path with group velocities.</summary>
     public DispersionPath? Dispersion { get; init; }
 

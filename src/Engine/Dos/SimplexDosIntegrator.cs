@@ -1,0 +1,135 @@
+namespace LatticeSweep.Engine.Dos;
+
+/// <summary>
+/// Bulk density of states by linear interpolation of each branch inside simplices of a periodic
+/// Gamma-centred mesh: intervals (1D), two triangles per mesh square (2D), six tetrahedra per mesh
+/// cube sharing one main diagonal (3D). Each branch contributes one state per cell in all.
+/// Partial (channel) densities use the mean of the corner weights of each simplex.
+/// </summary>
+internal static class SimplexDosIntegrator
+{
+    // Cube corners are numbered x + 2y + 4z; all six tetrahedra share the diagonal 0-7.
+    private static readonly int[][] Tetrahedra =
+    [
+        [0, 1, 3, 7], [0, 1, 5, 7], [0, 2, 3, 7], [0, 2, 6, 7], [0, 4, 5, 7], [0, 4, 6, 7],
+    ];
+
+    private static readonly int[][] Triangles = [[0, 1, 3], [0, 2, 3]];
+
+    /// <param name="mesh">Mesh counts (unused directions 1).</param>
+    /// <param name="frequencyThz">Frequency at [point * branches + branch], point = (i1 * M2 + i2) * M3 + i3.</param>
+    /// <param name="weights">Optional channel weights at [(point * branches + branch) * channels + c]; per mode they sum to 1.</param>
+    /// <param name="total">Accumulates states per cell in each bin.</param>
+    /// <param name="partial">Accumulates per channel, [c * bins + bin]; may be empty.</param>
+    public static void Accumulate(
+        int dimension, (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz,
+        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial)
+    {
+        var (m1, m2, m3) = mesh;
+        var cells = (long)m1 * m2 * m3;
+        var simplexShare = dimension switch { 1 => 1.0, 2 => 0.5, _ => 1.0 / 6.0 } / cells;
+        var corners = new int[8];
+        var e = new double[4];
+        var order = new int[4];
+        var meanWeight = new double[Math.Max(channels, 1)];
+
+        for (var i1 = 0; i1 < m1; i1++)
+        {
+            for (var i2 = 0; i2 < (dimension >= 2 ? m2 : 1); i2++)
+            {
+                for (var i3 = 0; i3 < (dimension >= 3 ? m3 : 1); i3++)
+                {
+                    for (var c = 0; c < 8; c++)
+                    {
+                        var j1 = (i1 + (c & 1)) % m1;
+                        var j2 = (i2 + ((c >> 1) & 1)) % m2;
+                        var j3 = (i3 + ((c >> 2) & 1)) % m3;
+                        corners[c] = (j1 * m2 + j2) * m3 + j3;
+                    }
+
+                    var simplices = dimension switch { 1 => [[0, 1]], 2 => Triangles, _ => Tetrahedra };
+                    foreach (var simplex in simplices)
+                    {
+                        for (var b = 0; b < branches; b++)
+                        {
+                            AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight);
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    private static void AddSimplex(
+        int[] simplex, int[] corners, int branch, int branches, double[] frequencyThz, double[]? weights, int channels,
+        FrequencyGrid grid, double share, double[] total, double[] partial, double[] e, int[] order, double[] meanWeight)
+    {
+        var k = simplex.Length;
+        for (var v = 0; v < k; v++)
+        {
+            order[v] = corners[simplex[v]];
+            e[v] = frequencyThz[order[v] * branches + branch];
+        }
+
+        Array.Sort(e, 0, k);
+        if (weights is not null && channels > 0)
+        {
+            Array.Clear(meanWeight);
+            for (var v = 0; v < k; v++)
+            {
+                var baseIndex = (order[v] * branches + branch) * channels;
+                for (var c = 0; c < channels; c++)
+                {
+                    meanWeight[c] += weights[baseIndex + c] / k;
+                }
+            }
+        }
+
+        var spread = e[k - 1] - e[0];
+        var firstBin = grid.BinOf(e[0]);
+        var lastBin = grid.BinOf(e[k - 1]);
+        if (firstBin == lastBin || spread <= 1e-12 * Math.Max(Math.Abs(e[k - 1]), grid.WidthThz))
+        {
+            Deposit(firstBin, share, total, partial, grid.Bins, weights is null ? 0 : channels, meanWeight);
+            return;
+        }
+
+        // Separate coincident corners by a hair so the closed forms never divide by zero; the
+        // shift is far below a bin width, so the binned result is unchanged.
+        var delta = 1e-9 * spread;
+        for (var v = 1; v < k; v++)
+        {
+            if (e[v] < e[v - 1] + delta)
+            {
+                e[v] = e[v - 1] + delta;
+            }
+        }
+
+        var below = 0.0;
+        for (var bin = firstBin; bin <= lastBin; bin++)
+        {
+            var upperEdge = grid.Edge(bin + 1);
+            var cumulative = bin == lastBin ? 1.0 : k switch
+            {
+                2 => SimplexCumulative.Interval(upperEdge, e[0], e[1]),
+                3 => SimplexCumulative.Triangle(upperEdge, e[0], e[1], e[2]),
+                _ => SimplexCumulative.Tetrahedron(upperEdge, e[0], e[1], e[2], e[3]),
+            };
+            var amount = (cumulative - below) * share;
+            below = cumulative;
+            if (amount != 0)
+            {
+                Deposit(bin, amount, total, partial, grid.Bins, weights is null ? 0 : channels, meanWeight);
+            }
+        }
+    }
+
+    private static void Deposit(int bin, double amount, double[] total, double[] partial, int bins, int channels, double[] meanWeight)
+    {
+        total[bin] += amount;
+        for (var c = 0; c < channels; c++)
+        {
+            partial[c * bins + bin] += amount * meanWeight[c];
+        }
+    }
+}

@@ -1,0 +1,149 @@
+using LatticeSweep.Engine.Dos;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+
+namespace LatticeSweep.Engine.Solving;
+
+/// <summary>
+/// The bulk limit: eigenvalues (and eigenvector weights) on a Gamma-centred mesh, integrated into a
+/// fine density of states by the linear simplex method (or Gaussian broadening); thermal functions,
+/// moments and displacements are integrals over that fine DOS.
+/// </summary>
+internal static class BulkSolver
+{
+    /// <summary>Fine bins per output bin target: the thermal integrals use at least this many bins.</summary>
+    public const int FineBinsTarget = 4096;
+
+    public static long EstimateBytes(long meshPoints, int branches, bool weights) =>
+        meshPoints * branches * 8L * (weights ? 1 + branches : 1);
+
+    public static SpectrumOutcome Solve(ModeSolver solver, BulkSample sample, SolveOptions options, ModeSink sink, CancellationToken ct)
+    {
+        var n = solver.Size;
+        var crystal = solver.Matrix.Crystal;
+        var lattice = crystal.Lattice;
+        var dimension = lattice.Dimension;
+        var grid = new PeriodicGrid(sample.M1, sample.M2, sample.M3);
+        var wantWeights = sink.WantsChannelFractions || options.PartialDos;
+        var bytes = EstimateBytes(grid.Count, n, wantWeights);
+        if (bytes > options.MemoryLimitBytes)
+        {
+            throw Guard.Single(ModelProblemKind.TooLarge, "sample.mesh",
+                $"a {sample.M1}x{sample.M2}x{sample.M3} mesh with {n} branches needs about {bytes / (1 << 20)} MiB, more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");
+        }
+
+        var frequencies = new double[grid.Count * n];
+        var weights = wantWeights ? new double[grid.Count * n * n] : null;
+        var stats = new SpectrumStatistics(n);
+        var fractions = new double[n];
+        foreach (var point in grid.HalfSet())
+        {
+            ct.ThrowIfCancellationRequested();
+            var q = lattice.ToCartesianQ(point.Reduced);
+            if (wantWeights)
+            {
+                solver.SolveWithVectors(q);
+            }
+            else
+            {
+                solver.SolveValues(q);
+            }
+
+            stats.Observe(solver.Values, point.Reduced, point.IsGamma ? crystal.Components : 0);
+            foreach (var index in point.Weight == 2 ? [point.Index, point.PartnerIndex] : new[] { point.Index })
+            {
+                for (var k = 0; k < n; k++)
+                {
+                    frequencies[index * n + k] = ModeSolver.SignedThz(solver.Values[k]);
+                    if (weights is not null)
+                    {
+                        // |e(-q)|^2 = |e(q)*|^2: the partner shares the weights.
+                        solver.ChannelFractions(k, fractions);
+                        Array.Copy(fractions, 0, weights, (index * n + k) * n, n);
+                    }
+                }
+            }
+        }
+
+        var lowest = ModeSolver.SignedThz(Math.Min(0, stats.WorstLambda));
+        var highest = ModeSolver.SignedThz(stats.MaxLambda);
+        var perOutput = Math.Max(1, (FineBinsTarget + options.DosBins - 1) / options.DosBins);
+        var gaussian = options.DosMethod == DosMethod.Gaussian;
+
+        // Gaussian tails reach 6 sigma past the spectrum; the grid takes them in so no state is lost.
+        var tail = gaussian ? 6 * options.GaussianSigmaThz : 0;
+        var fine = FrequencyGrid.Covering(lowest - tail, highest + tail, options.DosBins * perOutput);
+        var total = new double[fine.Bins];
+        var partial = weights is null ? [] : new double[n * fine.Bins];
+        if (gaussian)
+        {
+            var share = 1.0 / grid.Count;
+            for (long p = 0; p < grid.Count; p++)
+            {
+                for (var k = 0; k < n; k++)
+                {
+                    var w = weights is null ? default : new ReadOnlySpan<double>(weights, (int)((p * n + k) * n), n);
+                    GaussianBroadening.Deposit(frequencies[p * n + k], share, options.GaussianSigmaThz, fine, total, partial, w);
+                }
+            }
+        }
+        else
+        {
+            SimplexDosIntegrator.Accumulate(dimension, (sample.M1, sample.M2, sample.M3), n, frequencies, weights, weights is null ? 0 : n, fine, total, partial);
+        }
+
+        ct.ThrowIfCancellationRequested();
+        for (var b = 0; b < fine.Bins; b++)
+        {
+            if (total[b] <= 0)
+            {
+                continue;
+            }
+
+            if (sink.WantsChannelFractions && weights is not null)
+            {
+                for (var c = 0; c < n; c++)
+                {
+                    fractions[c] = partial[c * fine.Bins + b] / total[b];
+                }
+            }
+
+            var omega = 2.0 * Math.PI * 1e12 * fine.Centre(b);
+            sink.Add(omega, total[b], sink.WantsChannelFractions ? fractions : default);
+        }
+
+        var outGrid = new FrequencyGrid(fine.StartThz, fine.WidthThz * perOutput, options.DosBins);
+        var outTotal = new double[outGrid.Bins];
+        var sites = crystal.Sites;
+        var outPartial = options.PartialDos && weights is not null ? new double[sites * outGrid.Bins] : [];
+        for (var b = 0; b < fine.Bins; b++)
+        {
+            var ob = b / perOutput;
+            outTotal[ob] += total[b];
+            if (outPartial.Length > 0)
+            {
+                for (var c = 0; c < n; c++)
+                {
+                    outPartial[(c / crystal.Components) * outGrid.Bins + ob] += partial[c * fine.Bins + b];
+                }
+            }
+        }
+
+        var method = gaussian ? "gaussian" : dimension switch { 1 => "linear intervals", 2 => "linear triangles", _ => "linear tetrahedra" };
+        return new SpectrumOutcome
+        {
+            SampleKind = "bulk",
+            CellsOrMeshPoints = grid.Count,
+            QPointsSolved = grid.HalfCount,
+            ModeCount = grid.Count * n,
+            RigidModesExcluded = 0,
+            ZeroModesExcluded = 0,
+            Statistics = stats,
+            Sink = sink,
+            Dos = DosAssembly.FromStates(outGrid, outTotal, outPartial, sites, method),
+            Modes = [],
+        };
+    }
+}

@@ -1,0 +1,175 @@
+using System.Collections.Immutable;
+using LatticeSweep.Engine.Dos;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Results;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+
+namespace LatticeSweep.Engine.Solving;
+
+/// <summary>
+/// Exact mode sums over the allowed wave vectors of a Born-von Karman crystal. Memory does not grow
+/// with the crystal: pass 1 streams eigenvalues into the thermal sums (and keeps them only while
+/// they fit a fixed budget), pass 2 (only when eigenvectors or a re-scan are needed) streams the
+/// density of states and the displacements.
+/// </summary>
+internal static class FiniteCrystalSolver
+{
+    /// <summary>Modes kept in memory between passes (8 bytes each).</summary>
+    public const long StoredModeLimit = 8_000_000;
+
+    /// <summary>Largest crystal accepted, in modes: beyond this one solve would run for days.</summary>
+    public const long MaxModes = 4_000_000_000;
+
+    public static SpectrumOutcome Solve(ModeSolver solver, FiniteSample sample, SolveOptions options, double[] temperaturesK, ModeSink sink, CancellationToken ct)
+    {
+        var n = solver.Size;
+        var crystal = solver.Matrix.Crystal;
+        var lattice = crystal.Lattice;
+        var grid = new PeriodicGrid(sample.N1, sample.N2, sample.N3);
+        var modes = grid.Count * n;
+        if (modes > MaxModes)
+        {
+            throw Guard.Single(ModelProblemKind.TooLarge, "sample.cells",
+                $"{grid.Count} cells x {n} branches = {modes} modes is more than the {MaxModes} this engine accepts for an exact sum; use a bulk mesh or a smaller crystal");
+        }
+
+        var perCell = 1.0 / grid.Count;
+        var stats = new SpectrumStatistics(n);
+        var store = modes <= StoredModeLimit ? new double[modes] : null;
+        var storedCount = 0L;
+        var rigid = crystal.Components;
+        long zeroModes = 0;
+        var wantVectors = sink.WantsChannelFractions || options.PartialDos;
+
+        // Pass 1: eigenvalues only. The range is needed before any histogram can be binned.
+        var scaleLambda = 0.0;
+        foreach (var point in grid.HalfSet())
+        {
+            ct.ThrowIfCancellationRequested();
+            solver.SolveValues(lattice.ToCartesianQ(point.Reduced));
+            var skip = point.IsGamma ? rigid : 0;
+            stats.Observe(solver.Values, point.Reduced, skip);
+            scaleLambda = Math.Max(scaleLambda, solver.Values[n - 1]);
+            if (store is not null)
+            {
+                for (var k = skip; k < n; k++)
+                {
+                    for (var w = 0; w < point.Weight; w++)
+                    {
+                        store[storedCount++] = ModeSolver.SignedThz(solver.Values[k]);
+                    }
+                }
+            }
+        }
+
+        // Eigenvalues within the eigen-solver's round-off of zero (about 1e-14 of the largest) are
+        // zero modes: a 1e7-cell chain's lowest mode (ratio ~1e-13) still counts as a mode.
+        var zeroTolerance = 1e-14 * scaleLambda;
+        var tail = options.DosMethod == DosMethod.Gaussian ? 6 * options.GaussianSigmaThz : 0;
+        var grid0 = FrequencyGrid.Covering(ModeSolver.SignedThz(Math.Min(0, stats.WorstLambda)) - tail, ModeSolver.SignedThz(scaleLambda) + tail, options.DosBins);
+        var channels = n;
+        var sites = crystal.Sites;
+        var total = new double[grid0.Bins];
+        var partial = options.PartialDos ? new double[sites * grid0.Bins] : [];
+        var siteFractions = new double[sites];
+        var fractions = new double[channels];
+        var gaussian = options.DosMethod == DosMethod.Gaussian;
+
+        // Pass 2: thermal sums, histogram and displacements, mode by mode.
+        foreach (var point in grid.HalfSet())
+        {
+            ct.ThrowIfCancellationRequested();
+            var q = lattice.ToCartesianQ(point.Reduced);
+            if (wantVectors)
+            {
+                solver.SolveWithVectors(q);
+            }
+            else
+            {
+                solver.SolveValues(q);
+            }
+
+            var skip = point.IsGamma ? rigid : 0;
+            var weight = point.Weight * perCell;
+            for (var k = skip; k < n; k++)
+            {
+                var lambda = solver.Values[k];
+                if (wantVectors)
+                {
+                    solver.ChannelFractions(k, fractions);
+                    SumSites(fractions, siteFractions, crystal.Components);
+                }
+
+                var thz = ModeSolver.SignedThz(lambda);
+                Deposit(thz, weight, gaussian, options.GaussianSigmaThz, grid0, total, partial, options.PartialDos ? siteFractions : default);
+                if (Math.Abs(lambda) <= zeroTolerance)
+                {
+                    zeroModes += point.Weight;
+                    continue;
+                }
+
+                if (lambda > 0)
+                {
+                    sink.Add(Math.Sqrt(lambda), weight, wantVectors ? fractions : default);
+                }
+            }
+        }
+
+        // Rigid translations sit at zero frequency: in the histogram, out of the sums.
+        // Their eigenvectors are sqrt(m_I) / sqrt(sum m): each site carries its share of the mass.
+        var massTotal = crystal.MassesKg.Sum();
+        var rigidFractions = options.PartialDos ? crystal.MassesKg.Select(m => m / massTotal).ToArray() : [];
+        Deposit(0, rigid * perCell, gaussian, options.GaussianSigmaThz, grid0, total, partial, rigidFractions);
+
+        var dos = DosAssembly.FromStates(grid0, total, partial, sites, gaussian ? "gaussian" : "exact modes");
+        var modeList = store is not null && modes <= options.ModeListMaxModes
+            ? ModeLevels.Distinct(store, storedCount, rigid)
+            : [];
+
+        return new SpectrumOutcome
+        {
+            SampleKind = "finite",
+            CellsOrMeshPoints = grid.Count,
+            QPointsSolved = grid.HalfCount,
+            ModeCount = modes,
+            RigidModesExcluded = rigid,
+            ZeroModesExcluded = zeroModes,
+            Statistics = stats,
+            Sink = sink,
+            Dos = dos,
+            Modes = modeList,
+        };
+    }
+
+    internal static void SumSites(ReadOnlySpan<double> channelFractions, Span<double> siteFractions, int components)
+    {
+        for (var s = 0; s < siteFractions.Length; s++)
+        {
+            var sum = 0.0;
+            for (var a = 0; a < components; a++)
+            {
+                sum += channelFractions[s * components + a];
+            }
+
+            siteFractions[s] = sum;
+        }
+    }
+
+    private static void Deposit(double thz, double weight, bool gaussian, double sigmaThz, FrequencyGrid grid, double[] total, double[] partial, ReadOnlySpan<double> siteFractions)
+    {
+        if (gaussian)
+        {
+            GaussianBroadening.Deposit(thz, weight, sigmaThz, grid, total, partial, siteFractions);
+            return;
+        }
+
+        var bin = grid.BinOf(thz);
+        total[bin] += weight;
+        for (var s = 0; s < siteFractions.Length; s++)
+        {
+            partial[s * grid.Bins + bin] += weight * siteFractions[s];
+        }
+    }
+}

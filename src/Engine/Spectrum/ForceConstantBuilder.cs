@@ -1,0 +1,177 @@
+using System.Collections.Immutable;
+using System.Globalization;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Springs;
+
+namespace LatticeSweep.Engine.Spectrum;
+
+/// <summary>
+/// Turns shell and bond springs into directed couplings. Each undirected spring is emitted once in
+/// each direction (so D(q) is Hermitian), and every coupling adds its tensor to the self-term of
+/// the site it starts from (so rigid translations cost nothing: the acoustic sum rule).
+/// </summary>
+internal static class ForceConstantBuilder
+{
+    public static CompiledCrystal Build(CrystalModel model)
+    {
+        var lattice = model.Lattice;
+        var sites = model.Sites;
+        var positions = sites.Select(s => lattice.ToCartesianM(s.Fractional)).ToArray();
+        var scalar = model.DegreesOfFreedom == DegreesOfFreedom.Scalar;
+        var bonds = new Dictionary<BondKey, Matrix3>();
+        var problems = new List<ModelProblem>();
+
+        for (var s = 0; s < model.ShellSprings.Length; s++)
+        {
+            AddShell(model, positions, s, scalar, bonds, problems);
+        }
+
+        for (var b = 0; b < model.BondSprings.Length; b++)
+        {
+            var bond = model.BondSprings[b];
+            var i = model.SiteIndex(bond.SiteA);
+            var j = model.SiteIndex(bond.SiteB);
+            var d = lattice.ToCartesianM(bond.CellOffset.AsVec3()) + positions[j] - positions[i];
+            var tensor = bond.TensorNPerM ?? SpringTensor(d, bond.LongitudinalNPerM, bond.TransverseNPerM, scalar);
+            if (d.Length < model.ShellToleranceNm * 1e-9)
+            {
+                problems.Add(new(ModelProblemKind.OverlappingSites, $"bonds[{b}]", $"bond from '{bond.SiteA}' to '{bond.SiteB}' has zero length"));
+                continue;
+            }
+
+            Accumulate(bonds, Canonical(i, j, bond.CellOffset), tensor);
+        }
+
+        if (problems.Count > 0)
+        {
+            throw new ModelException(problems);
+        }
+
+        var couplings = ImmutableArray.CreateBuilder<PairCoupling>(bonds.Count * 2);
+        var selfTerms = new Matrix3[sites.Length];
+        foreach (var (key, k) in bonds)
+        {
+            var d = lattice.ToCartesianM(key.Offset.AsVec3()) + positions[key.J] - positions[key.I];
+            couplings.Add(new PairCoupling(key.I, key.J, d, k));
+            couplings.Add(new PairCoupling(key.J, key.I, -d, k));
+            selfTerms[key.I] += k;
+            selfTerms[key.J] += k;
+        }
+
+        CheckEverySiteConnected(model, selfTerms, scalar);
+
+        return new CompiledCrystal
+        {
+            Model = model,
+            MassesKg = [.. sites.Select(s => CompiledCrystal.KgFromAmu(s.MassAmu))],
+            Couplings = couplings.ToImmutable(),
+            SelfTerms = [.. selfTerms],
+        };
+    }
+
+    /// <summary>K = L e e^T + T (1 - e e^T) for a bond along e; the scalar model keeps L alone.</summary>
+    public static Matrix3 SpringTensor(Vec3 separation, double longitudinal, double transverse, bool scalar)
+    {
+        if (scalar)
+        {
+            return Matrix3.Diagonal(longitudinal);
+        }
+
+        var e = separation.Unit();
+        return Matrix3.Outer(e, longitudinal - transverse) + Matrix3.Diagonal(transverse);
+    }
+
+    private static void AddShell(CrystalModel model, Vec3[] positions, int springIndex, bool scalar, Dictionary<BondKey, Matrix3> bonds, List<ModelProblem> problems)
+    {
+        var spring = model.ShellSprings[springIndex];
+        var sites = model.Sites;
+        var tolM = model.ShellToleranceNm * 1e-9;
+        var found = new HashSet<BondKey>();
+        var any = false;
+        for (var i = 0; i < sites.Length; i++)
+        {
+            if (sites[i].Kind != spring.KindA)
+            {
+                continue;
+            }
+
+            var shell = NeighbourShells.Find(model.Lattice, positions, i, j => sites[j].Kind == spring.KindB, spring.Shell, tolM);
+            if (shell is null)
+            {
+                continue;
+            }
+
+            foreach (var (j, offset) in shell)
+            {
+                var key = Canonical(i, j, offset);
+                if (found.Add(key))
+                {
+                    any = true;
+                    var d = model.Lattice.ToCartesianM(offset.AsVec3()) + positions[j] - positions[i];
+                    Accumulate(bonds, key, SpringTensor(d, spring.LongitudinalNPerM, spring.TransverseNPerM, scalar));
+                }
+            }
+        }
+
+        if (!any)
+        {
+            problems.Add(new(ModelProblemKind.NoNeighbourShell, $"springs[{springIndex}]",
+                $"no site of kind '{spring.KindB}' was found in shell {spring.Shell} of a site of kind '{spring.KindA}'"));
+        }
+    }
+
+    private static void Accumulate(Dictionary<BondKey, Matrix3> bonds, BondKey key, Matrix3 tensor)
+    {
+        bonds[key] = bonds.TryGetValue(key, out var existing) ? existing + tensor : tensor;
+    }
+
+    /// <summary>The same undirected spring seen from either end maps to one key.</summary>
+    private static BondKey Canonical(int i, int j, IntVec3 offset)
+    {
+        if (i < j)
+        {
+            return new BondKey(i, j, offset);
+        }
+
+        if (j < i)
+        {
+            return new BondKey(j, i, -offset);
+        }
+
+        var positive = offset.N1 > 0 || (offset.N1 == 0 && (offset.N2 > 0 || (offset.N2 == 0 && offset.N3 > 0)));
+        return new BondKey(i, i, positive ? offset : -offset);
+    }
+
+    private static void CheckEverySiteConnected(CrystalModel model, Matrix3[] selfTerms, bool scalar)
+    {
+        var problems = new List<ModelProblem>();
+        var scale = selfTerms.Select(t => Math.Abs(t.Trace)).DefaultIfEmpty(0).Max();
+        for (var i = 0; i < selfTerms.Length; i++)
+        {
+            var t = selfTerms[i];
+            var weakest = scalar ? Math.Abs(t.Xx) : Math.Min(Math.Abs(t.Xx), Math.Min(Math.Abs(t.Yy), Math.Abs(t.Zz)));
+            if (scale == 0 || Math.Abs(t.Trace) <= 1e-12 * scale)
+            {
+                problems.Add(new(ModelProblemKind.UnconnectedSite, $"sites[{i}]",
+                    $"site '{model.Sites[i].Label}' has no springs; it would vibrate at zero frequency. Add a spring or bond that reaches it"));
+            }
+            else if (!scalar && weakest <= 1e-12 * scale)
+            {
+                var axis = Math.Abs(t.Xx) == weakest ? "x" : Math.Abs(t.Yy) == weakest ? "y" : "z";
+                problems.Add(new(ModelProblemKind.UnconnectedSite, $"sites[{i}]",
+                    $"site '{model.Sites[i].Label}' has no spring acting along {axis}; give a transverse constant, more shells, or use the scalar model"));
+            }
+        }
+
+        if (problems.Count > 0)
+        {
+            throw new ModelException(problems);
+        }
+    }
+
+    private readonly record struct BondKey(int I, int J, IntVec3 Offset)
+    {
+        public override string ToString() => string.Create(CultureInfo.InvariantCulture, $"{I}->{J}@{Offset}");
+    }
+}

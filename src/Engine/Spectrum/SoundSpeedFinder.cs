@@ -1,0 +1,54 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Results;
+
+namespace LatticeSweep.Engine.Spectrum;
+
+/// <summary>
+/// Sound speeds from the slopes of the acoustic branches at q -> 0 along principal directions:
+/// [100], [110], [111] (3D), [10], [11] (2D), the chain axis (1D), in Cartesian axes. The slope
+/// uses two small wave vectors and Richardson extrapolation, v^2 = (4 l(d) - l(2d)/4) / (3 d^2),
+/// which cancels the q^4 term of omega^2 (common practice, no source).
+/// </summary>
+internal static class SoundSpeedFinder
+{
+    public static List<SoundSpeed> Find(ModeSolver solver)
+    {
+        var crystal = solver.Matrix.Crystal;
+        var lattice = crystal.Lattice;
+        var directions = lattice.Dimension switch
+        {
+            1 => new[] { ("[1]", new Vec3(1, 0, 0)) },
+            2 => [("[10]", new Vec3(1, 0, 0)), ("[11]", new Vec3(1, 1, 0))],
+            _ => [("[100]", new Vec3(1, 0, 0)), ("[110]", new Vec3(1, 1, 0)), ("[111]", new Vec3(1, 1, 1))],
+        };
+
+        var bMin = double.PositiveInfinity;
+        for (var k = 0; k < lattice.Dimension; k++)
+        {
+            bMin = Math.Min(bMin, lattice.ReciprocalVector(k).Length);
+        }
+
+        var delta = 1e-3 * bMin;
+        var acoustic = crystal.Components;
+        var result = new List<SoundSpeed>(directions.Length);
+        foreach (var (label, direction) in directions)
+        {
+            var u = direction.Unit();
+            solver.SolveValues(delta * u);
+            var small = solver.Values.Take(acoustic).ToArray();
+            solver.SolveValues(2 * delta * u);
+            var twice = solver.Values.Take(acoustic).ToArray();
+            var speeds = new double[acoustic];
+            for (var k = 0; k < acoustic; k++)
+            {
+                var v2 = (4 * small[k] - twice[k] / 4) / (3 * delta * delta);
+                speeds[k] = v2 > 0 ? Math.Sqrt(v2) : (v2 < 0 ? -Math.Sqrt(-v2) : 0);
+            }
+
+            Array.Sort(speeds);
+            result.Add(new SoundSpeed(label, speeds));
+        }
+
+        return result;
+    }
+}

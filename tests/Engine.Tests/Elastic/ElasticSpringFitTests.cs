@@ -1,0 +1,48 @@
+using LatticeSweep.Engine.Elastic;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Tests.Support;
+
+namespace LatticeSweep.Engine.Tests.Elastic;
+
+public class ElasticSpringFitTests
+{
+    [Fact]
+    public void Fcc_nearest_neighbour_central_springs_reproduce_C11_and_C12_equal_C44_equal_half_C11()
+    {
+        // fcc, central nearest-neighbour springs K: C11 = 2K/a, C12 = C44 = K/a (Born and Huang, ch. 3; from memory).
+        const double a = 0.4, c11 = 100;
+        var fit = ElasticSpringFit.Fit(LatticeKind.FaceCentredCubic, a, 50, new CubicElasticConstants(c11, c11 / 2, c11 / 2), includeNextNearest: false);
+        Assert.True(fit.RelativeResidual < 1e-12, $"residual {fit.RelativeResidual}");
+        Approx.Equal(c11 * 1e9 * a * 1e-9 / 2, fit.NearestNPerM, 1e-12, "K = C11 a / 2");
+        Approx.Equal(c11 / 2, fit.Reproduced.C44Gpa, 1e-12, "C44");
+    }
+
+    [Fact]
+    public void Fitted_model_acoustic_slopes_give_the_Christoffel_sound_speeds()
+    {
+        // Long-wave limit of the lattice model equals elasticity: Christoffel speeds along [100], [110], [111] (Kittel ch. 3).
+        var model = ElasticSpringFit.BuildModel(LatticeKind.FaceCentredCubic, 0.36, 63.5, new CubicElasticConstants(170, 120, 75), true, DegreesOfFreedom.Cartesian, out var fit);
+        var result = PhononSolver.Solve(model, BulkSample.Uniform(3, 4), new SolveOptions { TemperaturesK = [300], MeanSquareDisplacement = false, PartialDos = false });
+        Assert.True(fit.RelativeResidual > 0.01, "C12 != C44 cannot be met by central springs: the residual says so");
+        foreach (var expected in fit.SoundSpeeds)
+        {
+            var actual = result.Summary.SoundSpeeds.Single(s => s.Direction == expected.Direction);
+            for (var k = 0; k < 3; k++)
+            {
+                Approx.Equal(expected.SpeedsMPerS[k], actual.SpeedsMPerS[k], 1e-5, $"{expected.Direction} branch {k}");
+            }
+        }
+    }
+
+    [Fact]
+    public void Next_nearest_springs_fit_C11_and_C44_of_a_simple_cubic_crystal()
+    {
+        // sc: nearest springs give only C11 = K1/a; next-nearest add C11 += 2K2/a, C12 = C44 = K2/a (same long-wave sums).
+        var fit = ElasticSpringFit.Fit(LatticeKind.SimpleCubic, 0.3, 30, new CubicElasticConstants(200, 50, 50), includeNextNearest: true);
+        Assert.True(fit.RelativeResidual < 1e-12);
+        Approx.Equal(50, fit.Reproduced.C12Gpa, 1e-12, "C12");
+        Approx.Equal(200, fit.Reproduced.C11Gpa, 1e-12, "C11");
+    }
+}
