@@ -327,5 +327,22 @@ public sealed class BadInputTests : IDisposable
         Assert.Contains("[output.dispersion]", p.Message, StringComparison.Ordinal);
     }
 
+    [Fact]
+    public void Scalar_model_rejects_transverse_constants_at_plan_time()
+    {
+        var text = Some.ChainJob().Replace("constant_nm = 0.5", "constant_nm = 0.5\nmotion = \"scalar\"", StringComparison.Ordinal);
+        var p = Single(text, "model.springs[0].transverse_n_per_m");
+        Assert.Contains("scalar model", p.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Misspelt_key_suggests_the_intended_one()
+    {
+        var text = Some.ChainJob().Replace("constant_nm = 0.5", "constant_mn = 0.5", StringComparison.Ordinal);
+        var e = Some.Fails(_dir, text);
+        Assert.Contains(e.Problems, p => p.Key == "model.constant_mn" && p.Message.Contains("did you mean 'constant_nm'?", StringComparison.Ordinal));
+        Assert.Contains(e.Problems, p => p.Key == "model.constant_nm" && p.Message == "is required");
+    }
+
     private static object Planning_Load(string path) => LatticeSweep.Worker.Planning.JobFileLoader.Load(path);
 }
