@@ -5,8 +5,9 @@ namespace LatticeSweep.Worker.Catalog;
 
 /// <summary>
 /// The catalog in the PostgreSQL database that also holds the queue, shared by every worker
-/// process and machine. Schema creation takes a transaction-scoped advisory lock so that workers
-/// starting together do not race on CREATE TABLE.
+/// process and machine. Its tables live in the store's schema (the connection's search path is
+/// that schema alone), beside the queue's tables. Schema creation takes a transaction-scoped
+/// advisory lock so that workers starting together do not race on CREATE SCHEMA / CREATE TABLE.
 /// </summary>
 public sealed class PostgresSweepCatalog : SqlSweepCatalog
 {
@@ -14,18 +15,34 @@ public sealed class PostgresSweepCatalog : SqlSweepCatalog
     private const long SchemaLockKey = 0x4C_61_74_53_77_70;
 
     private readonly NpgsqlDataSource _dataSource;
+    private readonly string _schema;
 
-    public PostgresSweepCatalog(string connectionString, TimeProvider time)
+    /// <param name="connectionString">Npgsql key-value connection string.</param>
+    /// <param name="schema">Schema of the catalog tables (a plain lower-case name; created when missing).</param>
+    /// <param name="time">The clock of the recorded times.</param>
+    public PostgresSweepCatalog(string connectionString, string schema, TimeProvider time)
         : base(time)
     {
-        _dataSource = NpgsqlDataSource.Create(connectionString);
+        if (!SchemaNames.IsPlain(schema))
+        {
+            throw new ArgumentException($"'{schema}' is not a plain lower-case schema name", nameof(schema));
+        }
+
+        _schema = schema;
+        _dataSource = NpgsqlDataSource.Create(new NpgsqlConnectionStringBuilder(connectionString) { SearchPath = schema }.ConnectionString);
         EnsureSchema();
     }
 
     protected override DbConnection Open() => _dataSource.OpenConnection();
 
-    protected override void BeforeSchema(DbConnection connection, DbTransaction transaction) =>
+    protected override void BeforeSchema(DbConnection connection, DbTransaction transaction)
+    {
         Execute(connection, transaction, "SELECT pg_advisory_xact_lock(@key)", ("key", SchemaLockKey));
+        Execute(connection, transaction, $"CREATE SCHEMA IF NOT EXISTS \"{_schema}\"");
+    }
+
+    /// <summary>Drops pooled connections (after the server restarted they are all broken).</summary>
+    public void ClearPool() => _dataSource.Clear();
 
     public override void Dispose()
     {

@@ -189,6 +189,14 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             """,
             ("running", Text(SweepState.Running)), ("now", now), ("sweep", sweepId), ("queued", Text(SweepState.Queued)));
 
+        // A late delivery of a chunk whose points failed without results (e.g. its last queue attempt
+        // gave up while another copy was still queued) makes a finished sweep run again.
+        Execute(c, tx, """
+            UPDATE latsweep_sweeps SET state = @running, finished_ms = NULL
+            WHERE sweep_id = @sweep AND state IN (@done, @failed)
+            """,
+            ("running", Text(SweepState.Running)), ("sweep", sweepId), ("done", Text(SweepState.Done)), ("failed", Text(SweepState.Failed)));
+
         var claimed = ImmutableArray.CreateBuilder<ClaimedPoint>();
         using (var cmd = Command(c, tx, "SELECT point_id, attempts FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk ORDER BY point_index"))
         {
@@ -243,12 +251,16 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         var counts = ReadCounts(c, tx, sweepId);
         var state = ReadSweepState(c, tx, sweepId) ?? SweepState.Queued;
         var finishedNow = false;
-        if (counts.Unfinished == 0 && state is SweepState.Queued or SweepState.Running)
+        if (counts.Unfinished == 0 && state != SweepState.Cancelled)
         {
-            state = counts.Failed > 0 ? SweepState.Failed : SweepState.Done;
-            Execute(c, tx, "UPDATE latsweep_sweeps SET state = @state, finished_ms = @now WHERE sweep_id = @sweep",
-                ("state", Text(state)), ("now", Ms(_time.GetUtcNow())), ("sweep", sweepId));
-            finishedNow = true;
+            var end = counts.Failed > 0 ? SweepState.Failed : SweepState.Done;
+            if (end != state || state is SweepState.Queued or SweepState.Running)
+            {
+                state = end;
+                Execute(c, tx, "UPDATE latsweep_sweeps SET state = @state, finished_ms = @now WHERE sweep_id = @sweep",
+                    ("state", Text(state)), ("now", Ms(_time.GetUtcNow())), ("sweep", sweepId));
+                finishedNow = true;
+            }
         }
 
         tx.Commit();

@@ -34,10 +34,10 @@ public static class CliApp
         {
             return command switch
             {
-                "run" => SweepCommands.Run(CommandLine.Parse(command, rest, Options("out", "store", "workers"), 1, 1), context),
+                "run" => SweepCommands.Run(CommandLine.Parse(command, rest, Options("out", "store", "workers", "reclaim-after"), 1, 1), context),
                 "submit" => SweepCommands.Submit(CommandLine.Parse(command, rest, Options("out", "store"), 1, 1), context),
-                "resume" => SweepCommands.Resume(CommandLine.Parse(command, rest, Options("store", "workers", "!queue-only"), 1, 1), context),
-                "work" => SweepCommands.Work(CommandLine.Parse(command, rest, Options("store", "workers", "!stay"), 0, 0), context),
+                "resume" => SweepCommands.Resume(CommandLine.Parse(command, rest, Options("store", "workers", "reclaim-after", "!queue-only"), 1, 1), context),
+                "work" => SweepCommands.Work(CommandLine.Parse(command, rest, Options("store", "workers", "reclaim-after", "!stay"), 0, 0), context),
                 "status" => StatusCommand.Run(CommandLine.Parse(command, rest, Options("store"), 0, 1), context),
                 "cancel" => SweepCommands.Cancel(CommandLine.Parse(command, rest, Options("store"), 1, 1), context),
                 "check" => CheckCommand.Run(PathIn(context, CommandLine.Parse(command, rest, Options(), 1, 1).Arguments[0]), context.Stdout, context.Stderr),

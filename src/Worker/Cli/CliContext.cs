@@ -20,6 +20,9 @@ public sealed record CliContext
     /// <summary>Ctrl+C or a termination signal.</summary>
     public CancellationToken Stop { get; init; }
 
+    /// <summary>Reads an environment variable (tests pass their own).</summary>
+    public Func<string, string?> Environment { get; init; } = System.Environment.GetEnvironmentVariable;
+
     /// <summary>How often run/work look at the catalog and queue.</summary>
     public TimeSpan PollInterval { get; init; } = TimeSpan.FromMilliseconds(250);
 }

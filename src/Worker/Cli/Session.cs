@@ -34,6 +34,7 @@ internal sealed class Session : IDisposable
             throw new UsageException(ex.Message, ex);
         }
 
+        var options = new StoreOptions { ReclaimAfter = ReclaimAfter(line, context, location) };
         var progress = new ProgressDisplay(context.Stderr, context.StderrIsTerminal, context.Time);
         var log = LogSetup.Create(progress.WriteLine, location.LogFolder(context.CurrentDirectory), line.Command, context.Time, out var logFile);
 
@@ -41,13 +42,46 @@ internal sealed class Session : IDisposable
         Serilog.Log.Logger = log;
         try
         {
-            return new Session(QueueStore.Open(location, context.Time), log, progress, logFile);
+            return new Session(QueueStore.Open(location, context.Time, options, log), log, progress, logFile);
         }
         catch
         {
             log.Dispose();
             throw;
         }
+    }
+
+    /// <summary>
+    /// <c>--reclaim-after SECONDS</c>, else <see cref="QueueTimings.ReclaimAfterVariable"/>, else the
+    /// default. It means something only on PostgreSQL (the SQLite store has one worker process and
+    /// no heartbeat), so the option is refused there and the variable ignored.
+    /// </summary>
+    private static TimeSpan ReclaimAfter(CommandLine line, CliContext context, StoreLocation location)
+    {
+        var min = (int)QueueTimings.MinReclaimAfter.TotalSeconds;
+        var max = (int)QueueTimings.MaxReclaimAfter.TotalSeconds;
+        if (line.Option("reclaim-after") is not null)
+        {
+            if (location.Kind != StoreKind.Postgres)
+            {
+                throw new UsageException("--reclaim-after applies to a PostgreSQL --store only (the SQLite store has one worker process; after a crash, resume queues its chunks again)");
+            }
+
+            return TimeSpan.FromSeconds(line.IntOption("reclaim-after", 0, min, max));
+        }
+
+        var text = context.Environment(QueueTimings.ReclaimAfterVariable);
+        if (location.Kind != StoreKind.Postgres || string.IsNullOrWhiteSpace(text))
+        {
+            return QueueTimings.DefaultReclaimAfter;
+        }
+
+        if (!int.TryParse(text.Trim(), System.Globalization.NumberStyles.Integer, System.Globalization.CultureInfo.InvariantCulture, out var seconds) || seconds < min || seconds > max)
+        {
+            throw new UsageException($"the environment variable {QueueTimings.ReclaimAfterVariable} takes whole seconds from {min} to {max}, got '{text}'");
+        }
+
+        return TimeSpan.FromSeconds(seconds);
     }
 
     /// <summary>The sweep by id or name, or a usage error that says how to list them.</summary>

@@ -1,6 +1,7 @@
 using System.Globalization;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Commands;
+using LatticeSweep.Worker.Queue;
 
 namespace LatticeSweep.Worker.Cli;
 
@@ -36,6 +37,11 @@ internal static class StatusCommand
         o.WriteLine($"Sweep      {sweep.SweepId} ({sweep.Name})");
         o.WriteLine($"State      {State(sweep.State)}");
         o.WriteLine($"Points     {N(sweep.Counts.Total)} in {N(sweep.ChunkCount)} chunks: {N(sweep.Counts.Done)} done, {N(sweep.Counts.Failed)} failed, {N(sweep.Counts.Waiting)} waiting, {N(sweep.Counts.Running)} running, {N(sweep.Counts.Cancelled)} cancelled");
+        if (sweep.Counts.Running > 0)
+        {
+            WriteRunning(session, context, sweep);
+        }
+
         o.WriteLine($"Created    {Time(sweep.CreatedAt)}");
         o.WriteLine($"Started    {Time(sweep.StartedAt)}");
         o.WriteLine($"Finished   {Time(sweep.FinishedAt)}");
@@ -76,6 +82,56 @@ internal static class StatusCommand
 
         return ExitCodes.Ok;
     }
+
+    /// <summary>
+    /// Who holds the running points, and whether that worker process still answers: after a crash
+    /// its points stay 'running' until another worker takes the chunk over (PostgreSQL, after the
+    /// reclaim time) or <c>resume</c> queues them again (SQLite).
+    /// </summary>
+    private static void WriteRunning(Session session, CliContext context, SweepRecord sweep)
+    {
+        var o = context.Stdout;
+        var running = session.Catalog.GetPoints(sweep.SweepId, new PointQuery(PointState.Running, 0, int.MaxValue));
+        IReadOnlyList<WorkerProcess>? processes;
+        try
+        {
+            processes = session.Store.WorkerProcesses();
+        }
+        catch (Exception ex) when (ex is not OutOfMemoryException)
+        {
+            processes = null;
+        }
+
+        var now = context.Time.GetUtcNow();
+        var first = true;
+        foreach (var group in running.GroupBy(p => p.Worker ?? "?").OrderBy(g => g.Key, StringComparer.Ordinal))
+        {
+            var prefix = group.Key.ToLowerInvariant() + ":";
+            var process = processes?.Where(p => p.Name.StartsWith(prefix, StringComparison.Ordinal)).MaxBy(p => p.LastHeartbeat);
+            var age = process?.LastHeartbeat is { } beat ? now - beat : (TimeSpan?)null;
+            string health;
+            if (processes is null)
+            {
+                health = "worker state unknown";
+            }
+            else if (age is { } a && a <= 3 * QueueTimings.ServerHeartbeat)
+            {
+                health = $"worker answering (last heard {Seconds(a)} ago)";
+            }
+            else
+            {
+                var heard = age is { } old ? $"not heard from for {Seconds(old)}" : "not running";
+                health = session.Store.Location.Kind == StoreKind.Postgres
+                    ? $"worker {heard}: its chunk goes to another worker at most {Seconds(session.Store.Options.ReclaimAfter)} after its last confirmation"
+                    : $"worker {heard}: 'latsweep resume {sweep.SweepId}' queues these points again";
+            }
+
+            o.WriteLine($"{(first ? "Running on" : "          ")} {group.Key}: {N(group.Count())} points, {health}");
+            first = false;
+        }
+    }
+
+    private static string Seconds(TimeSpan t) => $"{Math.Max(0, t.TotalSeconds):F0} s";
 
     private static string State(SweepState s) => s.ToString().ToLowerInvariant();
 

@@ -56,12 +56,13 @@ internal static class SweepCommands
         var stay = line.Flag("stay");
         using var session = Session.Open(line, context);
         var runner = Runner(session, context, new JobFilePlanSource());
-        var monitoring = session.Store.Storage.GetMonitoringApi();
+        var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
         var interrupted = false;
         using (new WorkerPool(session.Store, runner, workers))
         {
-            session.Log.Information("Working the queue of {Store} with {Workers} workers{Mode}",
-                session.Store.Location.Display, workers, stay ? " (staying until stopped)" : " until it is empty");
+            session.Log.Information("Working the queue of {Store} with {Workers} workers ({Mode})",
+                session.Store.Location.Display, workers, stay ? "staying until stopped" : "until the queue is empty");
+            LogReclaim(session);
             var idlePolls = 0;
             while (true)
             {
@@ -71,8 +72,9 @@ internal static class SweepCommands
                     break;
                 }
 
-                var waiting = monitoring.EnqueuedCount(ChunkJob.QueueName) + monitoring.ScheduledCount();
-                idlePolls = waiting == 0 && runner.ActiveChunks == 0 ? idlePolls + 1 : 0;
+                // Held chunks count too (PostgreSQL): a dead worker's chunk returns after the reclaim time.
+                var looked = watch.TryLook(session.Store.ChunksNeedingWork, out var waiting);
+                idlePolls = looked && waiting == 0 && runner.ActiveChunks == 0 ? idlePolls + 1 : 0;
 
                 // Idle over a few polls: a chunk between leaving the queue and starting is not lost.
                 if (!stay && idlePolls >= 4)
@@ -111,17 +113,21 @@ internal static class SweepCommands
     private static int WorkSweep(Session session, CliContext context, IPlanSource plans, string sweepId, int workers)
     {
         var runner = Runner(session, context, plans);
+        var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
         var interrupted = false;
         using (new WorkerPool(session.Store, runner, workers))
         {
             session.Log.Information("Working sweep {SweepId} with {Workers} workers", sweepId, workers);
+            LogReclaim(session);
             while (true)
             {
-                var sweep = session.Catalog.FindSweep(sweepId)!;
-                session.Progress.Update(sweep.Counts);
-                if (sweep.Counts.Unfinished == 0 || (sweep.State == SweepState.Cancelled && sweep.Counts.Running == 0))
+                if (watch.TryLook(() => session.Catalog.FindSweep(sweepId)!, out var sweep))
                 {
-                    break;
+                    session.Progress.Update(sweep.Counts);
+                    if (sweep.Counts.Unfinished == 0 || (sweep.State == SweepState.Cancelled && sweep.Counts.Running == 0))
+                    {
+                        break;
+                    }
                 }
 
                 if (context.Stop.IsCancellationRequested)
@@ -172,6 +178,15 @@ internal static class SweepCommands
         if (session.LogFile is not null)
         {
             o.WriteLine($"Log: {session.LogFile}");
+        }
+    }
+
+    private static void LogReclaim(Session session)
+    {
+        if (session.Store.Location.Kind == StoreKind.Postgres)
+        {
+            session.Log.Information("A chunk held by a worker that stops answering goes to another worker after {ReclaimSeconds} s (--reclaim-after)",
+                session.Store.Options.ReclaimAfter.TotalSeconds);
         }
     }
 

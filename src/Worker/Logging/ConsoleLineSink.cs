@@ -4,7 +4,11 @@ using Serilog.Formatting;
 
 namespace LatticeSweep.Worker.Logging;
 
-/// <summary>Readable log lines on the console, written through the progress display so they do not break its bar.</summary>
+/// <summary>
+/// Readable log lines on the console, written through the progress display so they do not break
+/// its bar. An event's exception is shown as its type and first message line, never as a stack
+/// trace (the JSON log file has the whole exception).
+/// </summary>
 internal sealed class ConsoleLineSink : ILogEventSink
 {
     private readonly ITextFormatter _formatter;
@@ -20,6 +24,13 @@ internal sealed class ConsoleLineSink : ILogEventSink
     {
         using var text = new StringWriter(System.Globalization.CultureInfo.InvariantCulture);
         _formatter.Format(logEvent, text);
+        if (logEvent.Exception is { } ex)
+        {
+            var message = ex.Message;
+            var newline = message.IndexOf('\n', StringComparison.Ordinal);
+            text.Write($" ({ex.GetType().Name}: {(newline < 0 ? message : message[..newline].TrimEnd())})");
+        }
+
         _writeLine(text.ToString());
     }
 }

@@ -11,11 +11,12 @@ namespace LatticeSweep.Worker.Logging;
 /// Logging of one <c>latsweep</c> run: a readable line per event that matters on the console
 /// (information and up), and every event as compact JSON in
 /// <c>&lt;log folder&gt;/latsweep-&lt;UTC time&gt;-&lt;process id&gt;.json</c>. The queue library's own
-/// messages are kept to warnings and up.
+/// messages are kept to warnings and up; the console never shows a stack trace.
 /// </summary>
 public static class LogSetup
 {
-    public const string ConsoleTemplate = "[{Timestamp:HH:mm:ss} {Level:u3}] {Message:lj}{NewLine}{Exception}";
+    /// <summary>The console line; an exception is added as one short line (its details go to the JSON log file only).</summary>
+    public const string ConsoleTemplate = "[{Timestamp:HH:mm:ss} {Level:u3}] {Message:lj}";
 
     /// <summary>Creates the logger; <paramref name="logFolder"/> null means console only.</summary>
     public static Logger Create(Action<string> consoleLine, string? logFolder, string command, TimeProvider time, out string? logFile)

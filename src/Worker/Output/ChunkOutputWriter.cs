@@ -8,6 +8,11 @@ namespace LatticeSweep.Worker.Output;
 /// chunk's points finished only after this returns, so a chunk interrupted before that is run
 /// again as a whole and its parts are replaced, never appended to.
 /// </summary>
+/// <remarks>
+/// Every table's part is first written to a temporary file; only when all of them are on disk are
+/// they renamed into place. A write that fails (disk full, folder read-only) so leaves every table
+/// as it was: no part of this run appears, and parts from an earlier run of the chunk are not touched.
+/// </remarks>
 public static class ChunkOutputWriter
 {
     public static async Task WriteAsync(SweepRecord sweep, OutputSelection outputs, string chunkId, IReadOnlyList<PointOutcome> outcomes, CancellationToken ct)
@@ -20,18 +25,55 @@ public static class ChunkOutputWriter
             ["latticesweep.chunk_id"] = chunkId,
             ["latticesweep.engine_version"] = outcomes.Count > 0 ? outcomes[0].EngineVersion : sweep.EngineVersion,
         };
-        foreach (var rows in ChunkTables.Build(schemas, outputs, outcomes))
+        var prepared = new List<PreparedPart>();
+        var stale = new List<string>();
+        try
         {
-            var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
-            if (rows.Rows.Count == 0 && rows.Table != TableNames.Points)
+            foreach (var rows in ChunkTables.Build(schemas, outputs, outcomes))
             {
-                // No rows for this table in this run: a part from an earlier run would be stale.
-                ParquetPartWriter.Remove(folder, chunkId);
-                continue;
+                var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
+                if (rows.Rows.Count == 0 && rows.Table != TableNames.Points)
+                {
+                    // No rows for this table in this run: a part from an earlier run would be stale.
+                    stale.Add(folder);
+                    continue;
+                }
+
+                var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
+                prepared.Add(await ParquetPartWriter.PrepareAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false));
+            }
+        }
+        catch
+        {
+            foreach (var part in prepared)
+            {
+                part.Discard();
             }
 
-            var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
-            await ParquetPartWriter.WriteAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false);
+            throw;
+        }
+
+        for (var i = 0; i < prepared.Count; i++)
+        {
+            try
+            {
+                prepared[i].Commit();
+            }
+            catch
+            {
+                // The run is repeated as a whole; leave no temporary files behind.
+                foreach (var rest in prepared.Skip(i))
+                {
+                    rest.Discard();
+                }
+
+                throw;
+            }
+        }
+
+        foreach (var folder in stale)
+        {
+            ParquetPartWriter.Remove(folder, chunkId);
         }
     }
 

@@ -5,11 +5,13 @@ using Parquet.Schema;
 namespace LatticeSweep.Worker.Output;
 
 /// <summary>
-/// Writes one table's rows for one chunk as <c>&lt;table&gt;/part-&lt;chunk&gt;.parquet</c>: first to a
-/// hidden temporary file in the same folder, flushed to disk, then renamed over the final name.
-/// The rename is atomic, so a reader sees either the old part or the new one, never half a file;
-/// and because the name is the chunk id, a chunk that runs twice (a repeated queue delivery, a
-/// resume) replaces its own part instead of adding a second copy of its rows.
+/// Writes one table's rows for one chunk as <c>&lt;table&gt;/part-&lt;chunk&gt;.parquet</c> in two steps:
+/// <see cref="PrepareAsync"/> writes a hidden temporary file in the same folder and flushes it to
+/// disk; <see cref="PreparedPart.Commit"/> renames it over the final name. The rename is atomic, so
+/// a reader sees either the old part or the new one, never half a file; and because the name is
+/// the chunk id, a chunk that runs twice (a repeated queue delivery, a resume) replaces its own
+/// part instead of adding a second copy of its rows. A write that fails (disk full, read-only
+/// folder) leaves no temporary file and never touches the part already there.
 /// </summary>
 internal static class ParquetPartWriter
 {
@@ -18,7 +20,15 @@ internal static class ParquetPartWriter
 
     public static string PartFileName(string chunkId) => $"part-{chunkId}.parquet";
 
+    /// <summary>Writes and commits one part at once.</summary>
     public static async Task WriteAsync(string tableFolder, string chunkId, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    {
+        var part = await PrepareAsync(tableFolder, chunkId, rows, metadata, ct).ConfigureAwait(false);
+        part.Commit();
+    }
+
+    /// <summary>Writes the part to its temporary file; nothing is visible until <see cref="PreparedPart.Commit"/>.</summary>
+    public static async Task<PreparedPart> PrepareAsync(string tableFolder, string chunkId, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
     {
         Directory.CreateDirectory(tableFolder);
         var final = Path.Combine(tableFolder, PartFileName(chunkId));
@@ -26,13 +36,16 @@ internal static class ParquetPartWriter
         var temporary = Path.Combine(tableFolder, $".part-{chunkId}.{Guid.NewGuid():N}.tmp");
         try
         {
-            await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None))
+            await using (var file = new FileStream(temporary, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None))
             {
+                // Tests stand in a full disk here (SimulatedDiskFull); otherwise the file itself.
+                await using var stream = SimulatedDiskFull.Wrap(file, temporary);
                 await WriteParquetAsync(stream, rows, metadata, ct).ConfigureAwait(false);
-                stream.Flush(flushToDisk: true);
+                await stream.FlushAsync(ct).ConfigureAwait(false);
+                file.Flush(flushToDisk: true);
             }
 
-            File.Move(temporary, final, overwrite: true);
+            return new PreparedPart(temporary, final);
         }
         catch
         {
@@ -111,7 +124,7 @@ internal static class ParquetPartWriter
         }
     }
 
-    private static void TryDelete(string path)
+    internal static void TryDelete(string path)
     {
         try
         {

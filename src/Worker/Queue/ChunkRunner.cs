@@ -54,12 +54,31 @@ public sealed class ChunkRunner
     /// <summary>Points that failed in this process so far.</summary>
     public long FailedPoints => Interlocked.Read(ref _failedPoints);
 
-    public async Task RunAsync(string sweepId, string chunkId, CancellationToken ct)
+    public Task RunAsync(string sweepId, string chunkId, CancellationToken ct) => RunAsync(sweepId, chunkId, lastAttempt: false, ct);
+
+    /// <summary>
+    /// Runs the chunk. When something outside the points fails (the exception leaves this method
+    /// and the queue retries the chunk) and <paramref name="lastAttempt"/> is true, the chunk's
+    /// points are first recorded as failed with the reason, if the catalog can still be reached.
+    /// </summary>
+    public async Task RunAsync(string sweepId, string chunkId, bool lastAttempt, CancellationToken ct)
     {
         Interlocked.Increment(ref _activeChunks);
+        ChunkClaim? claim = null;
         try
         {
-            await RunChunkAsync(sweepId, chunkId, ct).ConfigureAwait(false);
+            await RunChunkAsync(sweepId, chunkId, c => claim = c, ct).ConfigureAwait(false);
+        }
+        catch (Exception ex) when (!(ex is OperationCanceledException && ct.IsCancellationRequested))
+        {
+            _log.Error("Chunk {ChunkId} of sweep {SweepId} stopped on an error{Then}: {Error}",
+                chunkId, sweepId, lastAttempt ? "; the queue gives it up" : "; the queue runs it again later", ex.Message);
+            if (lastAttempt && claim is { Decision: ChunkDecision.Run } claimed)
+            {
+                RecordGivenUp(sweepId, chunkId, claimed, ex);
+            }
+
+            throw;
         }
         finally
         {
@@ -67,9 +86,26 @@ public sealed class ChunkRunner
         }
     }
 
-    private async Task RunChunkAsync(string sweepId, string chunkId, CancellationToken ct)
+    private void RecordGivenUp(string sweepId, string chunkId, ChunkClaim claim, Exception ex)
+    {
+        var now = _time.GetUtcNow();
+        var reason = $"the chunk failed {ChunkJob.Retries + 1} times outside its points ({ex.GetType().Name}: {ex.Message}); run resume to try again";
+        try
+        {
+            _catalog.CompleteChunk(sweepId, chunkId,
+                [.. claim.Points.Select(p => new PointCompletion(p.PointId, PointState.Failed, FailureKind.Io, reason, now, now, 0))]);
+        }
+        catch (Exception recordFault) when (recordFault is not OutOfMemoryException)
+        {
+            // Best effort: the database may be what failed. The points stay 'running' and resume re-queues them.
+            _log.Warning("Chunk {ChunkId} of sweep {SweepId}: its failure could not be recorded: {Error}", chunkId, sweepId, recordFault.Message);
+        }
+    }
+
+    private async Task RunChunkAsync(string sweepId, string chunkId, Action<ChunkClaim> claimed, CancellationToken ct)
     {
         var claim = _catalog.BeginChunk(sweepId, chunkId, _workerName);
+        claimed(claim);
         switch (claim.Decision)
         {
             case ChunkDecision.Unknown:
@@ -205,7 +241,7 @@ public sealed class ChunkRunner
         {
             _log.Error("Chunk {ChunkId} of sweep {SweepId}: results could not be written to {OutputFolder} after {Retries} retries: {Error}",
                 chunkId, sweep.SweepId, sweep.OutputFolder, _retry.Retries, ex.Message);
-            var reason = $"results could not be written to {sweep.OutputFolder}: {ex.Message} (run resume once the folder is writable)";
+            var reason = $"results could not be written to {sweep.OutputFolder}: {IoFaultText.Describe(ex)} (run resume once the folder is writable)";
             return [.. outcomes.Select(o => o with { State = PointState.Failed, FailureKind = FailureKind.Io, Error = reason, Result = null })];
         }
     }

@@ -6,9 +6,10 @@ using LatticeSweep.Worker.Planning;
 namespace LatticeSweep.Worker.Queue;
 
 /// <summary>
-/// Plans by sweep id: those this process planned itself, else loaded again from the job file the
-/// sweep was submitted from and checked against its spec hash (a worker on another machine needs
-/// the same path, e.g. on the shared folder).
+/// Plans by sweep id: those this process planned itself, else planned again from the job-file
+/// text stored in the catalog at submit time and checked against the sweep's spec hash. A worker
+/// on another machine so needs no copy of the job file; only a candidates file it names must be
+/// readable at the same path (e.g. on the shared folder), since its rows are part of the plan.
 /// </summary>
 public sealed class JobFilePlanSource : IPlanSource
 {
@@ -24,24 +25,21 @@ public sealed class JobFilePlanSource : IPlanSource
 
     private static SweepPlan Load(SweepRecord sweep)
     {
-        if (!File.Exists(sweep.SourcePath))
-        {
-            throw new PlanUnavailableException($"the job file {sweep.SourcePath} of sweep {sweep.SweepId} is not there; restore it (or put it at that path on this machine) and resume");
-        }
-
         SweepPlan plan;
         try
         {
-            plan = JobFileLoader.Load(sweep.SourcePath);
+            plan = JobFileLoader.Load(sweep.SourcePath, sweep.SpecText);
         }
         catch (JobFileException ex)
         {
-            throw new PlanUnavailableException($"the job file {sweep.SourcePath} of sweep {sweep.SweepId} no longer loads: {ex.Message}", ex);
+            throw new PlanUnavailableException($"the job file of sweep {sweep.SweepId} (submitted from {sweep.SourcePath}) cannot be planned on this machine: {ex.Message}", ex);
         }
 
         if (!string.Equals(plan.SpecHash, sweep.SpecHash, StringComparison.Ordinal))
         {
-            throw new PlanUnavailableException($"the job file {sweep.SourcePath} changed after sweep {sweep.SweepId} was submitted; put the submitted version back (it is in sweep.json under \"spec\") and resume, or submit the changed file as a new sweep");
+            throw new PlanUnavailableException(plan.CandidatesFile is { } candidates
+                ? $"the candidates file {candidates} of sweep {sweep.SweepId} changed after the sweep was submitted; put the submitted version back and resume, or submit again as a new sweep"
+                : $"the plan of sweep {sweep.SweepId} differs on this machine from the submitted one (another engine or program version?); run the same latsweep version on every machine and resume");
         }
 
         return plan;

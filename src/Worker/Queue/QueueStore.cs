@@ -3,6 +3,8 @@ using Hangfire.PostgreSql;
 using Hangfire.PostgreSql.Factories;
 using Hangfire.Storage.SQLite;
 using LatticeSweep.Worker.Catalog;
+using Npgsql;
+using Serilog;
 
 namespace LatticeSweep.Worker.Queue;
 
@@ -10,32 +12,47 @@ namespace LatticeSweep.Worker.Queue;
 /// The queue's storage and the sweep catalog for one <c>--store</c>: the single place that knows
 /// which back-end is in use. For the SQLite file, a process that runs workers first takes an
 /// exclusive lock on <c>&lt;store&gt;.lock</c>: the SQLite queue claims chunks under an in-process lock
-/// only, so two worker processes on one file could run the same chunk at once.
+/// only, so two worker processes on one file could run the same chunk at once. On PostgreSQL any
+/// number of processes work one store: the queue hands each chunk to one worker (row locks), a
+/// worker confirms the chunks it holds (sliding invisibility timeout), and nothing else is locked
+/// while points are computed.
 /// </summary>
 public sealed class QueueStore : IDisposable
 {
     private readonly IDisposable? _storageDisposable;
     private FileStream? _workerLock;
 
-    private QueueStore(StoreLocation location, JobStorage storage, ISweepCatalog catalog)
+    // An arbitrary fixed key for the session lock that serialises installing the queue's tables (common practice, no source).
+    private const long InstallLockKey = 0x4C_61_74_51_75_65;
+
+    private QueueStore(StoreLocation location, JobStorage storage, ISweepCatalog catalog, StoreOptions options)
     {
         Location = location;
         Storage = storage;
         Catalog = catalog;
+        Options = options;
         _storageDisposable = storage as IDisposable;
     }
 
     public StoreLocation Location { get; }
     public JobStorage Storage { get; }
     public ISweepCatalog Catalog { get; }
+    public StoreOptions Options { get; }
 
-    /// <summary>Opens (creating when needed) the store. Throws <see cref="StoreUnavailableException"/> with a plain reason.</summary>
-    public static QueueStore Open(StoreLocation location, TimeProvider time)
+    /// <summary>Opens (creating when needed) the store with the default options.</summary>
+    public static QueueStore Open(StoreLocation location, TimeProvider time) => Open(location, time, StoreOptions.Default, null);
+
+    /// <summary>
+    /// Opens (creating when needed) the store. Throws <see cref="StoreUnavailableException"/> with a
+    /// plain reason. <paramref name="log"/> (default: Serilog's static logger) hears of database retries.
+    /// </summary>
+    public static QueueStore Open(StoreLocation location, TimeProvider time, StoreOptions options, ILogger? log)
     {
         ArgumentNullException.ThrowIfNull(location);
+        ArgumentNullException.ThrowIfNull(options);
         try
         {
-            return location.Kind == StoreKind.Sqlite ? OpenSqlite(location, time) : OpenPostgres(location, time);
+            return location.Kind == StoreKind.Sqlite ? OpenSqlite(location, time, options) : OpenPostgres(location, time, options, log ?? Serilog.Log.Logger);
         }
         catch (Exception ex) when (ex is not StoreUnavailableException and not OutOfMemoryException)
         {
@@ -71,7 +88,25 @@ public sealed class QueueStore : IDisposable
         _storageDisposable?.Dispose();
     }
 
-    private static QueueStore OpenSqlite(StoreLocation location, TimeProvider time)
+    /// <summary>
+    /// Chunks that still need a worker: queued, waiting for a retry, or (PostgreSQL) held by a
+    /// worker. On PostgreSQL a held chunk may belong to a worker that died; it comes back to the
+    /// queue after the reclaim time, so a worker must not leave while any is held. On SQLite only
+    /// this process works the file, so a chunk held by no running chunk of this process was left by
+    /// a dead one: <c>resume</c> queues it again.
+    /// </summary>
+    public long ChunksNeedingWork()
+    {
+        var monitoring = Storage.GetMonitoringApi();
+        var held = Location.Kind == StoreKind.Postgres ? monitoring.FetchedCount(ChunkJob.QueueName) : 0;
+        return monitoring.EnqueuedCount(ChunkJob.QueueName) + held + monitoring.ScheduledCount();
+    }
+
+    /// <summary>The worker processes the queue knows (name, last sign of life), for <c>status</c>.</summary>
+    public IReadOnlyList<WorkerProcess> WorkerProcesses() =>
+        [.. Storage.GetMonitoringApi().Servers().Select(s => new WorkerProcess(s.Name, s.Heartbeat is { } h ? new DateTimeOffset(DateTime.SpecifyKind(h, DateTimeKind.Utc)) : null, s.WorkersCount))];
+
+    private static QueueStore OpenSqlite(StoreLocation location, TimeProvider time, StoreOptions options)
     {
         var folder = Path.GetDirectoryName(location.Value)!;
         Directory.CreateDirectory(folder);
@@ -85,7 +120,7 @@ public sealed class QueueStore : IDisposable
                 QueuePollInterval = QueueTimings.PollInterval,
                 InvisibilityTimeout = QueueTimings.SqliteInvisibilityTimeout,
             });
-            return new QueueStore(location, storage, catalog);
+            return new QueueStore(location, storage, catalog, options);
         }
         catch
         {
@@ -94,28 +129,47 @@ public sealed class QueueStore : IDisposable
         }
     }
 
-    private static QueueStore OpenPostgres(StoreLocation location, TimeProvider time)
+    private static QueueStore OpenPostgres(StoreLocation location, TimeProvider time, StoreOptions options, ILogger log)
     {
-        var options = new PostgreSqlStorageOptions
+        var queueOptions = new PostgreSqlStorageOptions
         {
-            SchemaName = "latsweep_queue",
+            SchemaName = location.Schema,
             PrepareSchemaIfNecessary = true,
             QueuePollInterval = QueueTimings.PollInterval,
             UseSlidingInvisibilityTimeout = true,
-            InvisibilityTimeout = QueueTimings.PostgresInvisibilityTimeout,
+            InvisibilityTimeout = options.ReclaimAfter,
             DistributedLockTimeout = QueueTimings.PostgresDistributedLockTimeout,
         };
-        var catalog = new PostgresSweepCatalog(location.Value, time);
+
+        // Workers starting together would otherwise run the queue's install scripts at the same time.
+        using var installLock = new NpgsqlConnection(location.Value);
+        installLock.Open();
+        using (var take = new NpgsqlCommand($"SELECT pg_advisory_lock({InstallLockKey})", installLock))
+        {
+            take.ExecuteNonQuery();
+        }
+
+        var inner = new PostgresSweepCatalog(location.Value, location.Schema!, time);
+        var catalog = new RetryingSweepCatalog(inner, options.DatabaseRetryDelays,
+            (retry, delay, ex) => log.Warning("Database {Store} unreachable ({Error}); catalog retry {Retry} of {Retries} in {DelaySeconds} s",
+                location.Display, FirstLine(ex.Message), retry, options.DatabaseRetryDelays.Count, delay.TotalSeconds),
+            inner.ClearPool, time);
         try
         {
-            var storage = new PostgreSqlStorage(new NpgsqlConnectionFactory(location.Value, options), options);
-            return new QueueStore(location, storage, catalog);
+            var storage = new PostgreSqlStorage(new NpgsqlConnectionFactory(location.Value, queueOptions), queueOptions);
+            return new QueueStore(location, storage, catalog, options);
         }
         catch
         {
             catalog.Dispose();
             throw;
         }
+    }
+
+    private static string FirstLine(string text)
+    {
+        var i = text.IndexOf('\n', StringComparison.Ordinal);
+        return i < 0 ? text : text[..i].TrimEnd();
     }
 }
 

@@ -1,8 +1,8 @@
 namespace LatticeSweep.Worker.Queue;
 
 /// <summary>
-/// The queue's timing settings, chosen deliberately (the packages' defaults are 15 s polling and a
-/// 30 min invisibility timeout).
+/// The queue's timing settings, chosen deliberately (the packages' defaults are 15 s polling, a
+/// 30 min invisibility timeout and a 10 min lock timeout). docs/many-machines.md explains them to users.
 /// </summary>
 public static class QueueTimings
 {
@@ -17,13 +17,42 @@ public static class QueueTimings
     public static readonly TimeSpan SqliteInvisibilityTimeout = TimeSpan.FromMinutes(10);
 
     /// <summary>
-    /// PostgreSQL store (sliding): a live worker keeps extending its chunk, so a chunk comes back
-    /// this long after its worker's heartbeats stop.
+    /// PostgreSQL store, default of <c>--reclaim-after</c>: a worker holding a chunk confirms it every
+    /// fifth of this time (the queue's sliding invisibility timeout), so a live worker keeps its
+    /// chunk however long it runs, and a dead worker's chunk is handed to another worker between
+    /// 4/5 of this time and this time after its last confirmation.
     /// </summary>
-    public static readonly TimeSpan PostgresInvisibilityTimeout = TimeSpan.FromMinutes(2);
+    public static readonly TimeSpan DefaultReclaimAfter = TimeSpan.FromSeconds(60);
 
-    /// <summary>PostgreSQL store: a lock left by a worker killed mid state change is broken after this (default 10 min).</summary>
+    /// <summary>Shortest allowed reclaim time: the queue confirms held chunks at most once a second, so a fifth of this is 1 s.</summary>
+    public static readonly TimeSpan MinReclaimAfter = TimeSpan.FromSeconds(5);
+
+    /// <summary>Longest allowed reclaim time (one day).</summary>
+    public static readonly TimeSpan MaxReclaimAfter = TimeSpan.FromDays(1);
+
+    /// <summary>Environment variable read when <c>--reclaim-after</c> is not given (whole seconds).</summary>
+    public const string ReclaimAfterVariable = "LATSWEEP_RECLAIM_AFTER";
+
+    /// <summary>
+    /// PostgreSQL store: a queue lock row left by a worker killed during a job's state change is
+    /// broken after this (the package's default is 10 min, which would hold that chunk for minutes).
+    /// The queue's own locks are held for milliseconds, so 30 s never breaks a live one.
+    /// </summary>
     public static readonly TimeSpan PostgresDistributedLockTimeout = TimeSpan.FromSeconds(30);
+
+    /// <summary>How often a worker process tells the store it is alive (what <c>status</c> shows per worker).</summary>
+    public static readonly TimeSpan ServerHeartbeat = TimeSpan.FromSeconds(5);
+
+    /// <summary>A worker process not heard from for this long is shown by <c>status</c> as gone and dropped from the queue's server list.</summary>
+    public static readonly TimeSpan ServerGoneAfter = TimeSpan.FromSeconds(30);
+
+    /// <summary>
+    /// PostgreSQL: waits before each new try of a catalog call that met a transient database fault
+    /// (about 90 s in all, enough for a server restart). After that the call fails and the queue
+    /// retries the chunk later.
+    /// </summary>
+    public static readonly IReadOnlyList<TimeSpan> DatabaseRetryDelays =
+        [.. new[] { 0.5, 1, 2, 4, 8, 15, 15, 15, 15, 15 }.Select(TimeSpan.FromSeconds)];
 
     /// <summary>How long stopping the worker pool waits for running chunks before leaving them to the queue.</summary>
     public static readonly TimeSpan ShutdownTimeout = TimeSpan.FromSeconds(15);

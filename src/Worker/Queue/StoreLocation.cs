@@ -1,3 +1,4 @@
+using LatticeSweep.Worker.Catalog;
 using Npgsql;
 
 namespace LatticeSweep.Worker.Queue;
@@ -5,22 +6,38 @@ namespace LatticeSweep.Worker.Queue;
 /// <summary>
 /// The value of <c>--store</c>: a file path (SQLite, the default) or a PostgreSQL connection
 /// string (<c>Host=...</c> key-value form, or a <c>postgres://</c> / <c>postgresql://</c> address).
+/// On PostgreSQL the queue's and the catalog's tables live in one schema: the first name of the
+/// connection string's <c>Search Path</c> (<c>?schema=</c> in the address form), else
+/// <see cref="DefaultSchema"/>. One database can so hold several independent stores.
 /// </summary>
 public sealed record StoreLocation
 {
     /// <summary>Default store file, relative to the current folder.</summary>
     public const string DefaultRelativePath = ".latsweep/store.db";
 
-    private StoreLocation(StoreKind kind, string value)
+    /// <summary>PostgreSQL schema of the queue and the catalog when the connection string names none.</summary>
+    public const string DefaultSchema = "latsweep";
+
+    private StoreLocation(StoreKind kind, string value, string? schema)
     {
         Kind = kind;
         Value = value;
+        Schema = schema;
     }
 
     public StoreKind Kind { get; }
 
     /// <summary>Absolute file path (SQLite) or an Npgsql key-value connection string (PostgreSQL).</summary>
     public string Value { get; }
+
+    /// <summary>PostgreSQL: the schema of the queue and catalog tables (lower case). Null for SQLite.</summary>
+    public string? Schema { get; }
+
+    /// <summary>PostgreSQL: <see cref="Value"/> with its search path set to <see cref="Schema"/> alone.</summary>
+    public string ConnectionStringInSchema =>
+        Kind == StoreKind.Postgres
+            ? new NpgsqlConnectionStringBuilder(Value) { SearchPath = Schema }.ConnectionString
+            : throw new InvalidOperationException("a SQLite store has no connection string");
 
     /// <summary>Folder for the JSON log files: the store file's folder, or ./.latsweep/logs for a database.</summary>
     public string LogFolder(string currentDirectory) =>
@@ -30,7 +47,7 @@ public sealed record StoreLocation
 
     /// <summary>A description safe to print and log (no password).</summary>
     public string Display =>
-        Kind == StoreKind.Sqlite ? Value : DescribeDatabase(Value);
+        Kind == StoreKind.Sqlite ? Value : $"{DescribeDatabase(Value)} (schema {Schema})";
 
     /// <summary>Parses a <c>--store</c> value; null or empty means the default file under <paramref name="currentDirectory"/>.</summary>
     /// <exception cref="ArgumentException">The value cannot be used (the message says why).</exception>
@@ -38,14 +55,14 @@ public sealed record StoreLocation
     {
         if (string.IsNullOrWhiteSpace(text))
         {
-            return new StoreLocation(StoreKind.Sqlite, Path.GetFullPath(Path.Combine(currentDirectory, DefaultRelativePath)));
+            return new StoreLocation(StoreKind.Sqlite, Path.GetFullPath(Path.Combine(currentDirectory, DefaultRelativePath)), null);
         }
 
         var trimmed = text.Trim();
         if (trimmed.StartsWith("postgres://", StringComparison.OrdinalIgnoreCase)
             || trimmed.StartsWith("postgresql://", StringComparison.OrdinalIgnoreCase))
         {
-            return new StoreLocation(StoreKind.Postgres, FromAddress(trimmed));
+            return Postgres(FromAddress(trimmed));
         }
 
         if (trimmed.StartsWith("Host=", StringComparison.OrdinalIgnoreCase))
@@ -54,15 +71,28 @@ public sealed record StoreLocation
             {
                 _ = new NpgsqlConnectionStringBuilder(trimmed);
             }
-            catch (ArgumentException ex)
+            catch (Exception ex) when (ex is ArgumentException or FormatException or InvalidCastException)
             {
                 throw new ArgumentException($"--store: not a valid PostgreSQL connection string: {ex.Message}", ex);
             }
 
-            return new StoreLocation(StoreKind.Postgres, trimmed);
+            return Postgres(trimmed);
         }
 
-        return new StoreLocation(StoreKind.Sqlite, Path.GetFullPath(Path.Combine(currentDirectory, trimmed)));
+        return new StoreLocation(StoreKind.Sqlite, Path.GetFullPath(Path.Combine(currentDirectory, trimmed)), null);
+    }
+
+    private static StoreLocation Postgres(string connectionString)
+    {
+        var searchPath = new NpgsqlConnectionStringBuilder(connectionString).SearchPath;
+        var schema = string.IsNullOrWhiteSpace(searchPath) ? DefaultSchema : searchPath.Split(',')[0].Trim().Trim('"');
+        if (!SchemaNames.IsPlain(schema))
+        {
+            throw new ArgumentException(
+                $"--store: the schema '{schema}' (the first name of Search Path) must be lower-case letters, digits and underscores, starting with a letter or underscore, at most 63 characters");
+        }
+
+        return new StoreLocation(StoreKind.Postgres, connectionString, schema);
     }
 
     private static string FromAddress(string address)
@@ -76,6 +106,12 @@ public sealed record StoreLocation
         if (uri.Port > 0)
         {
             builder.Port = uri.Port;
+        }
+
+        var schema = QueryValue(uri.Query, "schema");
+        if (schema is not null)
+        {
+            builder.SearchPath = schema;
         }
 
         var database = uri.AbsolutePath.Trim('/');
@@ -95,6 +131,20 @@ public sealed record StoreLocation
         }
 
         return builder.ConnectionString;
+    }
+
+    private static string? QueryValue(string query, string name)
+    {
+        foreach (var pair in query.TrimStart('?').Split('&', StringSplitOptions.RemoveEmptyEntries))
+        {
+            var eq = pair.IndexOf('=', StringComparison.Ordinal);
+            if (eq > 0 && string.Equals(Uri.UnescapeDataString(pair[..eq]), name, StringComparison.OrdinalIgnoreCase))
+            {
+                return Uri.UnescapeDataString(pair[(eq + 1)..]);
+            }
+        }
+
+        return null;
     }
 
     private static string RedactAddress(string address)

@@ -96,7 +96,7 @@ public sealed class SweepSubmitter
         var client = new BackgroundJobClient(_store.Storage);
         foreach (var chunkId in chunkIds)
         {
-            client.Create(Job.FromExpression<ChunkJob>(j => j.RunAsync(sweepId, chunkId, CancellationToken.None)), new EnqueuedState(ChunkJob.QueueName));
+            client.Create(Job.FromExpression<ChunkJob>(j => j.RunAsync(sweepId, chunkId, null, CancellationToken.None)), new EnqueuedState(ChunkJob.QueueName));
         }
     }
 }

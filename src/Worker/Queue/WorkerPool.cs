@@ -26,6 +26,9 @@ public sealed class WorkerPool : IDisposable
                 ServerName = ChunkRunner.DefaultWorkerName,
                 ShutdownTimeout = QueueTimings.ShutdownTimeout,
                 SchedulePollingInterval = TimeSpan.FromSeconds(1),
+                HeartbeatInterval = QueueTimings.ServerHeartbeat,
+                ServerTimeout = QueueTimings.ServerGoneAfter,
+                ServerCheckInterval = QueueTimings.ServerGoneAfter / 2,
             },
             store.Storage);
     }

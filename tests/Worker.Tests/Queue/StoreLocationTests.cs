@@ -31,7 +31,7 @@ public sealed class StoreLocationTests
         Assert.Contains("Database=campaign", s.Value, StringComparison.Ordinal);
         Assert.Contains("Password=s@cret", s.Value, StringComparison.Ordinal);
         Assert.DoesNotContain("cret", s.Display, StringComparison.Ordinal);
-        Assert.Equal("postgres sweeper@db.local:5433/campaign", s.Display);
+        Assert.Equal("postgres sweeper@db.local:5433/campaign (schema latsweep)", s.Display);
     }
 
     [Fact]
@@ -41,5 +41,25 @@ public sealed class StoreLocationTests
 
         Assert.Equal(StoreKind.Postgres, s.Kind);
         Assert.Equal("Host=127.0.0.1;Port=5432;Database=q;Username=u", s.Value);
+        Assert.Equal(StoreLocation.DefaultSchema, s.Schema);
+    }
+
+    [Fact]
+    public void The_schema_is_the_first_name_of_the_search_path_or_the_address_schema_parameter()
+    {
+        Assert.Equal("night_run", StoreLocation.Parse("Host=h;Database=q;Search Path=night_run,public", "/w").Schema);
+        Assert.Equal("campaign_2", StoreLocation.Parse("postgres://u@h/q?schema=campaign_2", "/w").Schema);
+        Assert.Contains("Search Path=night_run", StoreLocation.Parse("Host=h;Search Path=night_run,public", "/w").ConnectionStringInSchema, StringComparison.Ordinal);
+        Assert.Null(StoreLocation.Parse("a.db", "/w").Schema);
+    }
+
+    [Theory]
+    [InlineData("Host=h;Search Path=Night")]
+    [InlineData("Host=h;Search Path=1st")]
+    [InlineData("postgres://u@h/q?schema=a-b")]
+    public void A_schema_name_that_would_need_quoting_is_refused_with_the_rule(string store)
+    {
+        var ex = Assert.Throws<ArgumentException>(() => StoreLocation.Parse(store, "/w"));
+        Assert.Contains("lower-case letters, digits and underscores", ex.Message, StringComparison.Ordinal);
     }
 }
