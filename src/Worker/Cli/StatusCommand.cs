@@ -84,46 +84,58 @@ internal static class StatusCommand
     }
 
     /// <summary>
-    /// Who holds the running points, and whether that worker process still answers: after a crash
-    /// its points stay 'running' until another worker takes the chunk over (PostgreSQL, after the
-    /// reclaim time) or <c>resume</c> queues them again (SQLite).
+    /// Who holds the running points, and whether that worker process still runs: after a crash its
+    /// points stay 'running' until another worker takes the chunk over (PostgreSQL, after the
+    /// reclaim time) or <c>resume</c> queues them again (SQLite, where at most one process works
+    /// the file and holds its lock).
     /// </summary>
     private static void WriteRunning(Session session, CliContext context, SweepRecord sweep)
     {
         var o = context.Stdout;
         var running = session.Catalog.GetPoints(sweep.SweepId, new PointQuery(PointState.Running, 0, int.MaxValue));
-        IReadOnlyList<WorkerProcess>? processes;
-        try
+        var sqliteWorker = session.Store.SqliteWorkerRunning();
+        IReadOnlyList<WorkerProcess>? processes = null;
+        if (sqliteWorker is null)
         {
-            processes = session.Store.WorkerProcesses();
-        }
-        catch (Exception ex) when (ex is not OutOfMemoryException)
-        {
-            processes = null;
+            try
+            {
+                processes = session.Store.WorkerProcesses();
+            }
+            catch (Exception ex) when (ex is not OutOfMemoryException)
+            {
+                processes = null;
+            }
         }
 
         var now = context.Time.GetUtcNow();
         var first = true;
         foreach (var group in running.GroupBy(p => p.Worker ?? "?").OrderBy(g => g.Key, StringComparer.Ordinal))
         {
-            var prefix = group.Key.ToLowerInvariant() + ":";
-            var process = processes?.Where(p => p.Name.StartsWith(prefix, StringComparison.Ordinal)).MaxBy(p => p.LastHeartbeat);
-            var age = process?.LastHeartbeat is { } beat ? now - beat : (TimeSpan?)null;
             string health;
-            if (processes is null)
+            if (sqliteWorker is { } alive)
             {
-                health = "worker state unknown";
+                health = alive
+                    ? "a worker process is running on this store"
+                    : $"no worker process is running on this store: 'latsweep resume {sweep.SweepId}' queues these points again";
             }
-            else if (age is { } a && a <= 3 * QueueTimings.ServerHeartbeat)
+            else if (processes is null)
             {
-                health = $"worker answering (last heard {Seconds(a)} ago)";
+                health = "worker state unknown (the queue's server list could not be read)";
             }
             else
             {
-                var heard = age is { } old ? $"not heard from for {Seconds(old)}" : "not running";
-                health = session.Store.Location.Kind == StoreKind.Postgres
-                    ? $"worker {heard}: its chunk goes to another worker at most {Seconds(session.Store.Options.ReclaimAfter)} after its last confirmation"
-                    : $"worker {heard}: 'latsweep resume {sweep.SweepId}' queues these points again";
+                var prefix = group.Key.ToLowerInvariant() + ":";
+                var process = processes.Where(p => p.Name.StartsWith(prefix, StringComparison.Ordinal)).MaxBy(p => p.LastHeartbeat);
+                var age = process?.LastHeartbeat is { } beat ? now - beat : (TimeSpan?)null;
+                if (age is { } a && a <= QueueTimings.ServerSilentAfter)
+                {
+                    health = $"worker answering (last heard {Seconds(a)} ago)";
+                }
+                else
+                {
+                    var heard = age is { } old ? $"not heard from for {Seconds(old)}" : "gone";
+                    health = $"worker {heard}: its chunk goes to another worker at most {Seconds(session.Store.Options.ReclaimAfter)} after its last confirmation";
+                }
             }
 
             o.WriteLine($"{(first ? "Running on" : "          ")} {group.Key}: {N(group.Count())} points, {health}");

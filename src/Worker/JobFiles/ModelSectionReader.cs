@@ -68,7 +68,7 @@ internal static class ModelSectionReader
         }
         else if (latticeName is not null)
         {
-            constant = model.Double("constant_nm", required: true, check: Checks.Positive) ?? 1;
+            constant = model.Double("constant_nm", required: true, check: Checks.LengthNm) ?? 1;
             if (model.Has("vectors_nm"))
             {
                 model.Error("vectors_nm", "only lattice = \"explicit\" takes vectors_nm");
@@ -80,11 +80,11 @@ internal static class ModelSectionReader
             }
             else
             {
-                c = model.Double("c_nm", check: Checks.Positive);
+                c = model.Double("c_nm", check: Checks.LengthNm);
             }
         }
 
-        var tolerance = model.Double("shell_tolerance_nm", check: Checks.Positive) ?? CrystalModel.DefaultShellToleranceNm;
+        var tolerance = model.Double("shell_tolerance_nm", check: Checks.Between(1e-12, 1)) ?? CrystalModel.DefaultShellToleranceNm;
         var dimension = kind switch
         {
             LatticeKind.Chain => 1,
@@ -148,7 +148,7 @@ internal static class ModelSectionReader
             var xyz = new double[3];
             for (var k = 0; k < v.Count; k++)
             {
-                xyz[k] = model.ToDouble(v[k], $"vectors_nm[{i}][{k}]", locateKey: "vectors_nm") ?? 0;
+                xyz[k] = model.ToDouble(v[k], $"vectors_nm[{i}][{k}]", Checks.VectorNm, locateKey: "vectors_nm") ?? 0;
             }
 
             vectors.Add(new Vec3(xyz[0], xyz[1], xyz[2]));
@@ -176,14 +176,14 @@ internal static class ModelSectionReader
                 t.Error("element", bad);
             }
 
-            var mass = t.Double("mass_amu", check: Checks.Positive);
+            var mass = t.Double("mass_amu", check: Checks.MassAmu);
             if (!t.Has("mass_amu") && !t.Has("element"))
             {
                 t.TableError("give mass_amu (amu) or element (a symbol such as \"Si\") for every site");
             }
 
             var kind = t.String("kind") ?? element ?? label ?? "";
-            var position = t.DoubleList("position", maxCount: 3) ?? [];
+            var position = t.DoubleList("position", check: Checks.Fraction, maxCount: 3) ?? [];
             if (position.Count > dimension)
             {
                 t.Error("position", $"a {dimension}D lattice takes {dimension} fractional coordinate(s), got {position.Count}");
@@ -205,8 +205,8 @@ internal static class ModelSectionReader
             var from = ReadReference(t, "from", kinds, "kind");
             var to = ReadReference(t, "to", kinds, "kind");
             var shell = (int)(t.Integer("shell", 1, MaxShell) ?? 1);
-            var longitudinal = t.Double("longitudinal_n_per_m", required: true) ?? 0;
-            var transverse = t.Double("transverse_n_per_m") ?? 0;
+            var longitudinal = t.Double("longitudinal_n_per_m", required: true, check: Checks.SpringNPerM) ?? 0;
+            var transverse = t.Double("transverse_n_per_m", check: Checks.SpringNPerM) ?? 0;
             if (motion == DegreesOfFreedom.Scalar && t.Has("transverse_n_per_m"))
             {
                 t.Error("transverse_n_per_m", "the scalar model uses longitudinal constants only; remove this key or use motion = \"3d\"");
@@ -255,7 +255,7 @@ internal static class ModelSectionReader
                     t.Error("tensor_n_per_m", "give either tensor_n_per_m or longitudinal_n_per_m/transverse_n_per_m, not both");
                 }
 
-                var nine = t.DoubleList("tensor_n_per_m", minCount: 9, maxCount: 9);
+                var nine = t.DoubleList("tensor_n_per_m", check: Checks.SpringNPerM, minCount: 9, maxCount: 9);
                 if (nine is not null)
                 {
                     tensor = Matrix3.FromRows(nine);
@@ -270,8 +270,8 @@ internal static class ModelSectionReader
                 continue;
             }
 
-            var longitudinal = t.Double("longitudinal_n_per_m", required: true) ?? 0;
-            var transverse = t.Double("transverse_n_per_m") ?? 0;
+            var longitudinal = t.Double("longitudinal_n_per_m", required: true, check: Checks.SpringNPerM) ?? 0;
+            var transverse = t.Double("transverse_n_per_m", check: Checks.SpringNPerM) ?? 0;
             bonds.Add(new BondSpring(from ?? "", to ?? "", offset, longitudinal, transverse));
         }
 
@@ -300,7 +300,7 @@ internal static class ModelSectionReader
         var before = t.Problems.Count;
         t.RejectUnknown(LayerKeys);
         var host = t.String("host", required: true, allowed: [.. Names.Hosts.Keys]);
-        var spacing = t.Double("spacing_nm", required: true, check: Checks.Positive);
+        var spacing = t.Double("spacing_nm", required: true, check: Checks.LengthNm);
         var r = t.Integer("sites_per_cell", 1, LayeredModelBuilder.MaxSitesPerCell, required: true);
         var twoBlocks = t.Has("count_a") || t.Has("mass_a_amu") || t.Has("mass_b_amu");
         int? countA = null;
@@ -313,8 +313,8 @@ internal static class ModelSectionReader
         else if (twoBlocks)
         {
             countA = (int?)t.Integer("count_a", 0, LayeredModelBuilder.MaxSitesPerCell, required: true);
-            massA = t.Double("mass_a_amu", required: true, check: Checks.Positive);
-            massB = t.Double("mass_b_amu", required: true, check: Checks.Positive);
+            massA = t.Double("mass_a_amu", required: true, check: Checks.MassAmu);
+            massB = t.Double("mass_b_amu", required: true, check: Checks.MassAmu);
             if (countA is { } a && r is { } rr && a > rr)
             {
                 t.Error("count_a", $"count_a ({a}) must not exceed sites_per_cell ({rr})");
@@ -322,11 +322,11 @@ internal static class ModelSectionReader
         }
         else
         {
-            masses = t.DoubleList("masses_amu", required: true, check: Checks.Positive);
+            masses = t.DoubleList("masses_amu", required: true, check: Checks.MassAmu);
         }
 
-        var longitudinal = t.Double("longitudinal_n_per_m", required: true);
-        var transverse = t.Double("transverse_n_per_m") ?? 0;
+        var longitudinal = t.Double("longitudinal_n_per_m", required: true, check: Checks.SpringNPerM);
+        var transverse = t.Double("transverse_n_per_m", check: Checks.SpringNPerM) ?? 0;
         if (t.Problems.Count > before)
         {
             return null;
@@ -357,22 +357,22 @@ internal static class ModelSectionReader
         var before = t.Problems.Count;
         t.RejectUnknown(ElasticKeys);
         var lattice = t.String("lattice", required: true, allowed: [.. Names.CubicLattices.Keys]);
-        var constant = t.Double("constant_nm", required: true, check: Checks.Positive);
+        var constant = t.Double("constant_nm", required: true, check: Checks.LengthNm);
         var element = t.String("element");
         if (element is not null && Names.CheckElement(element) is { } bad)
         {
             t.Error("element", bad);
         }
 
-        var mass = t.Double("mass_amu", check: Checks.Positive);
+        var mass = t.Double("mass_amu", check: Checks.MassAmu);
         if (!t.Has("element") && !t.Has("mass_amu"))
         {
             t.TableError("give mass_amu (amu) or element (a symbol such as \"Cu\")");
         }
 
-        var c11 = t.Double("c11_gpa", required: true, check: Checks.Positive);
-        var c12 = t.Double("c12_gpa", required: true);
-        var c44 = t.Double("c44_gpa", required: true, check: Checks.Positive);
+        var c11 = t.Double("c11_gpa", required: true, check: Checks.ModulusGpa);
+        var c12 = t.Double("c12_gpa", required: true, check: Checks.SignedModulusGpa);
+        var c44 = t.Double("c44_gpa", required: true, check: Checks.ModulusGpa);
         var nextNearest = t.Bool("next_nearest") ?? true;
         if (t.Problems.Count > before)
         {

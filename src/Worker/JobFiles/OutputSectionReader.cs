@@ -34,7 +34,7 @@ internal static class OutputSectionReader
         var reference = t.Double("reference_temperature_k", check: Checks.Between(0, MaxTemperatureK)) ?? defaults.ReferenceTemperatureK;
         var bins = (int)(t.Integer("dos_bins", 10, 100_000) ?? defaults.DosBins);
         var method = t.String("dos_method", allowed: ["auto", "gaussian"]) == "gaussian" ? DosMethod.Gaussian : DosMethod.Auto;
-        var sigma = t.Double("gaussian_sigma_thz", check: Checks.Positive) ?? defaults.GaussianSigmaThz;
+        var sigma = t.Double("gaussian_sigma_thz", check: Checks.Between(1e-6, 1e4)) ?? defaults.GaussianSigmaThz;
         if (t.Has("gaussian_sigma_thz") && method != DosMethod.Gaussian)
         {
             t.Error("gaussian_sigma_thz", "only used with dos_method = \"gaussian\"");

@@ -41,7 +41,7 @@ internal static class SampleSectionReader
             }
             else if (t.Has("length_nm"))
             {
-                lengths = PerDirection(t, "length_nm", dimension, t.DoubleList("length_nm", check: Checks.Positive, allowScalar: true));
+                lengths = PerDirection(t, "length_nm", dimension, t.DoubleList("length_nm", check: Checks.SampleLengthNm, allowScalar: true));
             }
             else if (t.Has("cells"))
             {

@@ -16,6 +16,7 @@ namespace LatticeSweep.Worker.Planning;
 internal static class SweepPlanner
 {
     private const int MaxPointProblemsShown = 5;
+    private const int MaxValueProblemsShown = 5;
 
     private static readonly Dictionary<CombineMode, string> CombineNames = new()
     {
@@ -207,23 +208,32 @@ internal static class SweepPlanner
     private static PlanAxis? FromValues(SweepField field, IReadOnlyList<object> raw, TableReader t, string key, bool distinct = true)
     {
         var values = new List<object>(raw.Count);
-        var ok = true;
+        var seen = new HashSet<object>(); // an axis may have up to a million values: no quadratic search
+        var bad = 0;
         for (var k = 0; k < raw.Count; k++)
         {
             var v = FieldValues.Coerce(field, raw[k], out var error);
             if (v is null)
             {
-                t.Problems.Add(t.Where(key), $"{t.KeyPath(key)}[{k}]", error!);
-                ok = false;
+                // A few located examples say what is wrong; a million copies of the same message would not.
+                if (++bad <= MaxValueProblemsShown)
+                {
+                    t.Problems.Add(t.Where(key), $"{t.KeyPath(key)}[{k}]", error!);
+                }
             }
-            else if (!distinct || !values.Contains(v))
+            else if (!distinct || seen.Add(v))
             {
                 // A repeated value adds nothing to a grid; in a zip it pairs with another axis's value.
                 values.Add(v);
             }
         }
 
-        return ok ? Axis(field, values, null) : null;
+        if (bad > MaxValueProblemsShown)
+        {
+            t.Problems.Add(t.Where(key), t.KeyPath(key), $"{bad - MaxValueProblemsShown} more values of this axis have the same kind of problem");
+        }
+
+        return bad == 0 ? Axis(field, values, null) : null;
     }
 
     private static PlanAxis? FromRange(SweepField field, RangeSource r, TableReader t)

@@ -34,6 +34,7 @@ public sealed class EnginePointSolver : IPointSolver
 
     public PointResult Solve(SweepPlan plan, PlannedPoint point, CancellationToken ct)
     {
+        SimulatedSlowPoints.Wait(ct);
         var request = PointBinder.Bind(plan, point);
         return PhononSolver.Solve(request.Model, request.Sample, request.Options, ct);
     }

@@ -69,14 +69,23 @@ public sealed class QueueStore : IDisposable
         }
 
         var lockPath = Location.Value + ".lock";
-        try
+        for (var attempt = 1; ; attempt++)
         {
-            _workerLock = new FileStream(lockPath, FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None);
-        }
-        catch (IOException ex)
-        {
-            throw new StoreUnavailableException(
+            try
+            {
+                _workerLock = new FileStream(lockPath, FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None);
+                return;
+            }
+            catch (IOException) when (attempt < 5)
+            {
+                // 'status' may hold the lock for an instant while it checks whether a worker runs.
+                Thread.Sleep(100);
+            }
+            catch (IOException ex)
+            {
+                throw new StoreUnavailableException(
                 $"another latsweep process is working on the store {Location.Value}; a SQLite store takes one worker process at a time (use --workers for more threads, or a PostgreSQL --store for several processes)", ex);
+            }
         }
     }
 
@@ -100,6 +109,33 @@ public sealed class QueueStore : IDisposable
         var monitoring = Storage.GetMonitoringApi();
         var held = Location.Kind == StoreKind.Postgres ? monitoring.FetchedCount(ChunkJob.QueueName) : 0;
         return monitoring.EnqueuedCount(ChunkJob.QueueName) + held + monitoring.ScheduledCount();
+    }
+
+    /// <summary>
+    /// SQLite: whether some process runs workers on this file right now (it holds the worker lock).
+    /// Null on PostgreSQL, where <see cref="WorkerProcesses"/> tells from the heartbeats.
+    /// </summary>
+    public bool? SqliteWorkerRunning()
+    {
+        if (Location.Kind != StoreKind.Sqlite)
+        {
+            return null;
+        }
+
+        if (_workerLock is not null)
+        {
+            return true;
+        }
+
+        try
+        {
+            using var probe = new FileStream(Location.Value + ".lock", FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None);
+            return false;
+        }
+        catch (IOException)
+        {
+            return true;
+        }
     }
 
     /// <summary>The worker processes the queue knows (name, last sign of life), for <c>status</c>.</summary>
@@ -142,28 +178,38 @@ public sealed class QueueStore : IDisposable
         };
 
         // Workers starting together would otherwise run the queue's install scripts at the same time.
-        using var installLock = new NpgsqlConnection(location.Value);
+        // A session lock on an unpooled connection: a pooled one would keep the lock after Close.
+        using var installLock = new NpgsqlConnection(new NpgsqlConnectionStringBuilder(location.Value) { Pooling = false }.ConnectionString);
         installLock.Open();
-        using (var take = new NpgsqlCommand($"SELECT pg_advisory_lock({InstallLockKey})", installLock))
-        {
-            take.ExecuteNonQuery();
-        }
-
-        var inner = new PostgresSweepCatalog(location.Value, location.Schema!, time);
-        var catalog = new RetryingSweepCatalog(inner, options.DatabaseRetryDelays,
-            (retry, delay, ex) => log.Warning("Database {Store} unreachable ({Error}); catalog retry {Retry} of {Retries} in {DelaySeconds} s",
-                location.Display, FirstLine(ex.Message), retry, options.DatabaseRetryDelays.Count, delay.TotalSeconds),
-            inner.ClearPool, time);
+        Execute(installLock, $"SELECT pg_advisory_lock({InstallLockKey})");
         try
         {
-            var storage = new PostgreSqlStorage(new NpgsqlConnectionFactory(location.Value, queueOptions), queueOptions);
-            return new QueueStore(location, storage, catalog, options);
+            var inner = new PostgresSweepCatalog(location.Value, location.Schema!, time);
+            var catalog = new RetryingSweepCatalog(inner, options.DatabaseRetryDelays,
+                (retry, delay, ex) => log.Warning("Database {Store} unreachable ({Error}); catalog retry {Retry} of {Retries} in {DelaySeconds} s",
+                    location.Display, FirstLine(ex.Message), retry, options.DatabaseRetryDelays.Count, delay.TotalSeconds),
+                inner.ClearPool, time);
+            try
+            {
+                var storage = new PostgreSqlStorage(new NpgsqlConnectionFactory(location.Value, queueOptions), queueOptions);
+                return new QueueStore(location, storage, catalog, options);
+            }
+            catch
+            {
+                catalog.Dispose();
+                throw;
+            }
         }
-        catch
+        finally
         {
-            catalog.Dispose();
-            throw;
+            Execute(installLock, $"SELECT pg_advisory_unlock({InstallLockKey})");
         }
+    }
+
+    private static void Execute(NpgsqlConnection connection, string sql)
+    {
+        using var command = new NpgsqlCommand(sql, connection);
+        command.ExecuteNonQuery();
     }
 
     private static string FirstLine(string text)

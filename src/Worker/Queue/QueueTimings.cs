@@ -41,10 +41,13 @@ public static class QueueTimings
     public static readonly TimeSpan PostgresDistributedLockTimeout = TimeSpan.FromSeconds(30);
 
     /// <summary>How often a worker process tells the store it is alive (what <c>status</c> shows per worker).</summary>
-    public static readonly TimeSpan ServerHeartbeat = TimeSpan.FromSeconds(5);
+    public static readonly TimeSpan ServerHeartbeat = TimeSpan.FromSeconds(2);
 
-    /// <summary>A worker process not heard from for this long is shown by <c>status</c> as gone and dropped from the queue's server list.</summary>
-    public static readonly TimeSpan ServerGoneAfter = TimeSpan.FromSeconds(30);
+    /// <summary><c>status</c> shows a worker process not heard from for this long as silent (probably stopped).</summary>
+    public static readonly TimeSpan ServerSilentAfter = TimeSpan.FromSeconds(10);
+
+    /// <summary>A worker process not heard from for this long is dropped from the queue's server list.</summary>
+    public static readonly TimeSpan ServerGoneAfter = TimeSpan.FromSeconds(60);
 
     /// <summary>
     /// PostgreSQL: waits before each new try of a catalog call that met a transient database fault

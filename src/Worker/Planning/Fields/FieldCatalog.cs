@@ -85,12 +85,12 @@ internal sealed class FieldCatalog
     {
         if (m.Lattice != LatticeKind.Explicit)
         {
-            Number("model.constant_nm", Checks.Positive, (s, v) => s with { Model = L(s) with { ConstantNm = v } });
+            Number("model.constant_nm", Checks.LengthNm, (s, v) => s with { Model = L(s) with { ConstantNm = v } });
         }
 
         if (m.CNm is not null)
         {
-            Number("model.c_nm", Checks.Positive, (s, v) => s with { Model = L(s) with { CNm = v } });
+            Number("model.c_nm", Checks.LengthNm, (s, v) => s with { Model = L(s) with { CNm = v } });
         }
 
         for (var i = 0; i < m.VectorsNm.Length; i++)
@@ -98,7 +98,7 @@ internal sealed class FieldCatalog
             for (var k = 0; k < 3; k++)
             {
                 var (vi, vk) = (i, k);
-                Number($"model.vectors_nm[{Index(i)}][{Index(k)}]", Checks.Any, (s, v) =>
+                Number($"model.vectors_nm[{Index(i)}][{Index(k)}]", Checks.VectorNm, (s, v) =>
                 {
                     var l = L(s);
                     return s with { Model = l with { VectorsNm = l.VectorsNm.SetItem(vi, With(l.VectorsNm[vi], vk, v)) } };
@@ -113,11 +113,11 @@ internal sealed class FieldCatalog
             var byLabel = $"model.sites.{label}";
             var byIndex = $"model.sites[{Index(i)}]";
             Text(byLabel + ".element", Names.CheckElement, (s, v) => SetSite(s, si, site => site with { Element = v, MassAmu = null }), 0, byIndex + ".element");
-            Number(byLabel + ".mass_amu", Checks.Positive, (s, v) => SetSite(s, si, site => site with { MassAmu = v }), byIndex + ".mass_amu");
+            Number(byLabel + ".mass_amu", Checks.MassAmu, (s, v) => SetSite(s, si, site => site with { MassAmu = v }), byIndex + ".mass_amu");
             for (var k = 0; k < m.Dimension; k++)
             {
                 var sk = k;
-                Number($"{byLabel}.position[{Index(k)}]", Checks.Any, (s, v) => SetSite(s, si, site => site with { Position = With(site.Position, sk, v) }), $"{byIndex}.position[{Index(k)}]");
+                Number($"{byLabel}.position[{Index(k)}]", Checks.Fraction, (s, v) => SetSite(s, si, site => site with { Position = With(site.Position, sk, v) }), $"{byIndex}.position[{Index(k)}]");
             }
         }
 
@@ -125,10 +125,10 @@ internal sealed class FieldCatalog
         {
             var pi = i;
             var p = $"model.springs[{Index(i)}]";
-            Number(p + ".longitudinal_n_per_m", Checks.Any, (s, v) => SetSpring(s, pi, x => x with { LongitudinalNPerM = v }));
+            Number(p + ".longitudinal_n_per_m", Checks.SpringNPerM, (s, v) => SetSpring(s, pi, x => x with { LongitudinalNPerM = v }));
             if (m.Motion == DegreesOfFreedom.Cartesian)
             {
-                Number(p + ".transverse_n_per_m", Checks.Any, (s, v) => SetSpring(s, pi, x => x with { TransverseNPerM = v }));
+                Number(p + ".transverse_n_per_m", Checks.SpringNPerM, (s, v) => SetSpring(s, pi, x => x with { TransverseNPerM = v }));
             }
 
             Whole(p + ".shell", 1, ModelSectionReader.MaxShell, (s, v) => SetSpring(s, pi, x => x with { Shell = v }));
@@ -144,10 +144,10 @@ internal sealed class FieldCatalog
 
             var bi = i;
             var p = $"model.bonds[{Index(i)}]";
-            Number(p + ".longitudinal_n_per_m", Checks.Any, (s, v) => SetBond(s, bi, x => x with { LongitudinalNPerM = v }));
+            Number(p + ".longitudinal_n_per_m", Checks.SpringNPerM, (s, v) => SetBond(s, bi, x => x with { LongitudinalNPerM = v }));
             if (m.Motion == DegreesOfFreedom.Cartesian)
             {
-                Number(p + ".transverse_n_per_m", Checks.Any, (s, v) => SetBond(s, bi, x => x with { TransverseNPerM = v }));
+                Number(p + ".transverse_n_per_m", Checks.SpringNPerM, (s, v) => SetBond(s, bi, x => x with { TransverseNPerM = v }));
             }
         }
     }
@@ -155,37 +155,37 @@ internal sealed class FieldCatalog
     private void AddLayers(LayeredSpec l)
     {
         const string p = "model.layers.";
-        Number(p + "spacing_nm", Checks.Positive, (s, v) => s with { Model = Y(s) with { SpacingNm = v } });
+        Number(p + "spacing_nm", Checks.LengthNm, (s, v) => s with { Model = Y(s) with { SpacingNm = v } });
         Whole(p + "sites_per_cell", 1, LayeredModelBuilder.MaxSitesPerCell, (s, v) => s with { Model = Y(s) with { SitesPerCell = v } });
         if (l.CountA is not null)
         {
             Whole(p + "count_a", 0, LayeredModelBuilder.MaxSitesPerCell, (s, v) => s with { Model = Y(s) with { CountA = v } });
-            Number(p + "mass_a_amu", Checks.Positive, (s, v) => s with { Model = Y(s) with { MassAAmu = v } });
-            Number(p + "mass_b_amu", Checks.Positive, (s, v) => s with { Model = Y(s) with { MassBAmu = v } });
+            Number(p + "mass_a_amu", Checks.MassAmu, (s, v) => s with { Model = Y(s) with { MassAAmu = v } });
+            Number(p + "mass_b_amu", Checks.MassAmu, (s, v) => s with { Model = Y(s) with { MassBAmu = v } });
         }
 
         for (var i = 0; i < l.MassesAmu.Length; i++)
         {
             var mi = i;
-            Number($"{p}masses_amu[{Index(i)}]", Checks.Positive, (s, v) => s with { Model = Y(s) with { MassesAmu = Y(s).MassesAmu.SetItem(mi, v) } });
+            Number($"{p}masses_amu[{Index(i)}]", Checks.MassAmu, (s, v) => s with { Model = Y(s) with { MassesAmu = Y(s).MassesAmu.SetItem(mi, v) } });
         }
 
-        Number(p + "longitudinal_n_per_m", Checks.Any, (s, v) => s with { Model = Y(s) with { LongitudinalNPerM = v } });
+        Number(p + "longitudinal_n_per_m", Checks.SpringNPerM, (s, v) => s with { Model = Y(s) with { LongitudinalNPerM = v } });
         if (l.Motion == DegreesOfFreedom.Cartesian)
         {
-            Number(p + "transverse_n_per_m", Checks.Any, (s, v) => s with { Model = Y(s) with { TransverseNPerM = v } });
+            Number(p + "transverse_n_per_m", Checks.SpringNPerM, (s, v) => s with { Model = Y(s) with { TransverseNPerM = v } });
         }
     }
 
     private void AddElastic(ElasticSpec e)
     {
         const string p = "model.elastic.";
-        Number(p + "constant_nm", Checks.Positive, (s, v) => s with { Model = E(s) with { ConstantNm = v } });
+        Number(p + "constant_nm", Checks.LengthNm, (s, v) => s with { Model = E(s) with { ConstantNm = v } });
         Text(p + "element", Names.CheckElement, (s, v) => s with { Model = E(s) with { Element = v, MassAmu = null } }, 0);
-        Number(p + "mass_amu", Checks.Positive, (s, v) => s with { Model = E(s) with { MassAmu = v } });
-        Number(p + "c11_gpa", Checks.Positive, (s, v) => s with { Model = E(s) with { C11Gpa = v } });
-        Number(p + "c12_gpa", Checks.Any, (s, v) => s with { Model = E(s) with { C12Gpa = v } });
-        Number(p + "c44_gpa", Checks.Positive, (s, v) => s with { Model = E(s) with { C44Gpa = v } });
+        Number(p + "mass_amu", Checks.MassAmu, (s, v) => s with { Model = E(s) with { MassAmu = v } });
+        Number(p + "c11_gpa", Checks.ModulusGpa, (s, v) => s with { Model = E(s) with { C11Gpa = v } });
+        Number(p + "c12_gpa", Checks.SignedModulusGpa, (s, v) => s with { Model = E(s) with { C12Gpa = v } });
+        Number(p + "c44_gpa", Checks.ModulusGpa, (s, v) => s with { Model = E(s) with { C44Gpa = v } });
     }
 
     private void AddSample(SampleSpec sample, int dimension)
@@ -198,7 +198,7 @@ internal sealed class FieldCatalog
             // A swept cell count replaces a length and vice versa: the sample is given one way per point.
             Whole("sample.cells", 1, SampleSectionReader.MaxCellsPerDirection,
                 (s, v) => s with { Sample = s.Sample with { Cells = [.. Enumerable.Repeat(v, dimension)], LengthNm = [] } });
-            Number("sample.length_nm", Checks.Positive,
+            Number("sample.length_nm", Checks.SampleLengthNm,
                 (s, v) => s with { Sample = s.Sample with { LengthNm = [.. Enumerable.Repeat(v, dimension)], Cells = [] } });
         }
 
@@ -214,7 +214,7 @@ internal sealed class FieldCatalog
 
                 if (!sample.LengthNm.IsEmpty)
                 {
-                    Number($"sample.length_nm[{Index(k)}]", Checks.Positive, (s, v) => s with { Sample = s.Sample with { LengthNm = s.Sample.LengthNm.SetItem(dk, v) } });
+                    Number($"sample.length_nm[{Index(k)}]", Checks.SampleLengthNm, (s, v) => s with { Sample = s.Sample with { LengthNm = s.Sample.LengthNm.SetItem(dk, v) } });
                 }
 
                 if (!sample.Mesh.IsEmpty)
