@@ -70,7 +70,8 @@ internal sealed class Session : IDisposable
             return TimeSpan.FromSeconds(line.IntOption("reclaim-after", 0, min, max));
         }
 
-        var text = context.Environment(QueueTimings.ReclaimAfterVariable);
+        // Only commands that run workers hand out chunks; the others ignore the setting.
+        var text = line.Command is "run" or "work" or "resume" ? context.Environment(QueueTimings.ReclaimAfterVariable) : null;
         if (location.Kind != StoreKind.Postgres || string.IsNullOrWhiteSpace(text))
         {
             return QueueTimings.DefaultReclaimAfter;

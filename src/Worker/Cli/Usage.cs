@@ -7,19 +7,19 @@ internal static class Usage
         latsweep: batch lattice-vibration sweeps on a durable queue, results as Parquet datasets.
 
         Usage:
-          latsweep run FILE [--out DIR] [--store STORE] [--workers N]
+          latsweep run FILE [--out DIR] [--store STORE] [--workers N] [--reclaim-after SECONDS]
                 plan the job file, queue it and work it on this machine until done
           latsweep check FILE          validate a job file and print the plan
           latsweep solve FILE          solve the job file's model once and print its summary
           latsweep submit FILE [--out DIR] [--store STORE]
                 plan and queue a sweep for workers (does not work on it)
-          latsweep work [--store STORE] [--workers N] [--stay]
+          latsweep work [--store STORE] [--workers N] [--reclaim-after SECONDS] [--stay]
                 work queued chunks until the queue is empty (--stay: keep waiting for more)
           latsweep status [SWEEP] [--store STORE]
                 list sweeps, or show one sweep's counts, failures and coverage
           latsweep cancel SWEEP [--store STORE]
                 stop a sweep: waiting points are not run
-          latsweep resume SWEEP [--store STORE] [--workers N] [--queue-only]
+          latsweep resume SWEEP [--store STORE] [--workers N] [--reclaim-after SECONDS] [--queue-only]
                 queue again every point without results and work them (--queue-only: just queue)
 
         Options:
@@ -27,8 +27,14 @@ internal static class Usage
           --store STORE   queue and catalog: a file path for the embedded SQLite store
                           (default ./.latsweep/store.db; one worker process at a time), or a
                           PostgreSQL connection string (Host=...;Database=... or postgres://...)
-                          for workers on several machines
+                          for workers on several machines; its Search Path (?schema= in the
+                          postgres:// form) names the schema of the store (default latsweep)
           --workers N     worker threads, one point at a time each (default: the number of cores)
+          --reclaim-after SECONDS
+                          PostgreSQL: a chunk whose worker stopped answering goes to another
+                          worker this long after its last sign of life (default 60, 5 to 86400;
+                          or the environment variable LATSWEEP_RECLAIM_AFTER); use one value
+                          on every machine
 
         SWEEP is a sweep id (as printed by run, submit and status) or a sweep name.
         Exit codes: 0 all points done, 2 bad input, 3 some points failed, 130 interrupted.

@@ -78,6 +78,14 @@ public sealed class CrashAndResumeTests : IDisposable
         var doneBefore = before.Where(p => p.State == PointState.Done).ToDictionary(p => p.PointId);
         Assert.InRange(doneBefore.Count, 8, plan.Points.Length - 1);
 
+        // status tells the truth after the crash: the killed run's points are not being worked on.
+        var status = Support.Cli.Run(_dir.Path, "status", sweepId);
+        if (before.Any(p => p.State == PointState.Running))
+        {
+            Assert.Contains("no worker process is running on this store", status.Stdout, StringComparison.Ordinal);
+            Assert.Contains($"latsweep resume {sweepId}", status.Stdout, StringComparison.Ordinal);
+        }
+
         var resumed = Support.Cli.Run(_dir.Path, "resume", sweepId, "--workers", "2");
 
         Assert.True(resumed.ExitCode == 0, resumed.Stdout + resumed.Stderr);

@@ -50,6 +50,29 @@ public sealed class QueueCommandsTests : IDisposable
     }
 
     [Fact]
+    public void The_reclaim_time_is_refused_on_the_sqlite_store_and_checked_from_the_environment_on_postgres()
+    {
+        var onSqlite = Support.Cli.Run(_dir.Path, "work", "--reclaim-after", "30");
+        Assert.Equal(2, onSqlite.ExitCode);
+        Assert.Contains("--reclaim-after applies to a PostgreSQL --store only", onSqlite.Stderr, StringComparison.Ordinal);
+
+        // Checked before any connection is made, so no server is needed here.
+        var stderr = new StringWriter();
+        var badVariable = LatticeSweep.Worker.Cli.CliApp.Run(["work", "--store", "Host=127.0.0.1;Port=1;Database=none"], new LatticeSweep.Worker.Cli.CliContext
+        {
+            Stdout = new StringWriter(),
+            Stderr = stderr,
+            CurrentDirectory = _dir.Path,
+            Environment = name => name == QueueTimings.ReclaimAfterVariable ? "soon" : null,
+        });
+        Assert.Equal(2, badVariable);
+        Assert.Contains("LATSWEEP_RECLAIM_AFTER takes whole seconds from 5 to 86400, got 'soon'", stderr.ToString(), StringComparison.Ordinal);
+        var tooShort = Support.Cli.Run(_dir.Path, "work", "--store", "Host=127.0.0.1;Port=1;Database=none", "--reclaim-after", "2");
+        Assert.Equal(2, tooShort.ExitCode);
+        Assert.Contains("--reclaim-after takes a whole number from 5 to 86400, got '2'", tooShort.Stderr, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void A_second_worker_process_on_one_sqlite_store_is_refused_with_the_reason()
     {
         Assert.Equal(0, Support.Cli.Run(_dir.Path, "submit", Quickstart).ExitCode);
