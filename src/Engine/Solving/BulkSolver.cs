@@ -70,10 +70,13 @@ internal static class BulkSolver
         var lowest = ModeSolver.SignedThz(Math.Min(0, stats.WorstLambda));
         var highest = ModeSolver.SignedThz(stats.MaxLambda);
         var perOutput = Math.Max(1, (FineBinsTarget + options.DosBins - 1) / options.DosBins);
-        var fine = FrequencyGrid.Covering(lowest, highest, options.DosBins * perOutput);
+        var gaussian = options.DosMethod == DosMethod.Gaussian;
+
+        // Gaussian tails reach 6 sigma past the spectrum; the grid takes them in so no state is lost.
+        var tail = gaussian ? 6 * options.GaussianSigmaThz : 0;
+        var fine = FrequencyGrid.Covering(lowest - tail, highest + tail, options.DosBins * perOutput);
         var total = new double[fine.Bins];
         var partial = weights is null ? [] : new double[n * fine.Bins];
-        var gaussian = options.DosMethod == DosMethod.Gaussian;
         if (gaussian)
         {
             var share = 1.0 / grid.Count;

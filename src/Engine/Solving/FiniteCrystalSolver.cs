@@ -64,8 +64,11 @@ internal static class FiniteCrystalSolver
             }
         }
 
-        var zeroTolerance = 1e-8 * scaleLambda;
-        var grid0 = FrequencyGrid.Covering(ModeSolver.SignedThz(Math.Min(0, stats.WorstLambda)), ModeSolver.SignedThz(scaleLambda), options.DosBins);
+        // Eigenvalues within the eigen-solver's round-off of zero (about 1e-14 of the largest) are
+        // zero modes: a 1e7-cell chain's lowest mode (ratio ~1e-13) still counts as a mode.
+        var zeroTolerance = 1e-14 * scaleLambda;
+        var tail = options.DosMethod == DosMethod.Gaussian ? 6 * options.GaussianSigmaThz : 0;
+        var grid0 = FrequencyGrid.Covering(ModeSolver.SignedThz(Math.Min(0, stats.WorstLambda)) - tail, ModeSolver.SignedThz(scaleLambda) + tail, options.DosBins);
         var channels = n;
         var sites = crystal.Sites;
         var total = new double[grid0.Bins];

@@ -95,7 +95,7 @@ public class ChainTests
         const int n = 12;
         var grid = new QPoints.PeriodicGrid(n, 1, 1);
         var lattice = Crystals.ScalarChain().Lattice;
-        var qs = Enumerable.Range(0, n).Select(i => lattice.ToCartesianQ(new Models.Vec3(QPoints.PeriodicGrid.Reduced(i, n), 0, 0)).X).Order().ToArray();
+        var qs = Enumerable.Range(0, n).Select(i => lattice.ToCartesianQ(new global::LatticeSweep.Engine.Models.Vec3(QPoints.PeriodicGrid.Reduced(i, n), 0, 0)).X).Order().ToArray();
         for (var i = 1; i < n; i++)
         {
             Approx.Equal(2 * Math.PI / (n * Crystals.SpacingNm * 1e-9), qs[i] - qs[i - 1], 1e-12, "q spacing");
