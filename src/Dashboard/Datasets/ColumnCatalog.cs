@@ -8,6 +8,29 @@ internal sealed class ColumnCatalog
 {
     private const string SweptPrefix = "swept parameter ";
 
+    /// <summary>Short headers for the summary table's usual columns; the full description goes in the tooltip.</summary>
+    private static readonly Dictionary<string, string> Short = new(StringComparer.Ordinal)
+    {
+        ["point_index"] = "Plan position",
+        ["state"] = "State",
+        ["max_freq_thz"] = "Highest frequency",
+        ["min_freq_thz"] = "Lowest frequency",
+        ["largest_gap_width_thz"] = "Widest gap",
+        ["largest_gap_lower_thz"] = "Widest gap from",
+        ["largest_gap_upper_thz"] = "Widest gap to",
+        ["gap_count"] = "Gaps",
+        ["sound_speed_min_m_per_s"] = "Slowest sound",
+        ["sound_speed_mean_m_per_s"] = "Mean sound speed",
+        ["sound_speed_max_m_per_s"] = "Fastest sound",
+        ["reference_temperature_k"] = "Reference T",
+        ["cv_j_per_mol_k"] = "Cv at reference T",
+        ["cv_j_per_kg_k"] = "Cv at reference T",
+        ["entropy_j_per_mol_k"] = "Entropy at reference T",
+        ["debye_temperature_from_cv_k"] = "Debye T from Cv",
+        ["stable"] = "Stable",
+        ["duration_s"] = "Time taken",
+    };
+
     private readonly Dictionary<string, ColumnDef> _defs = new(StringComparer.Ordinal);
 
     public ColumnCatalog(SweepRecord sweep, string table)
@@ -34,9 +57,17 @@ internal sealed class ColumnCatalog
             return column.Replace('_', ' ');
         }
 
-        var text = def.Description.StartsWith(SweptPrefix, StringComparison.Ordinal) ? def.Description[SweptPrefix.Length..] : def.Description;
+        if (def.Description.StartsWith(SweptPrefix, StringComparison.Ordinal))
+        {
+            return def.Description[SweptPrefix.Length..];
+        }
+
+        var text = def.Description;
         return text.Length == 0 ? column : char.ToUpperInvariant(text[0]) + text[1..];
     }
+
+    /// <summary>A header short enough for a table column.</summary>
+    public string ShortLabel(string column) => Short.TryGetValue(column, out var s) ? s : Label(column);
 
     /// <summary>The unit from the file when it says, else from the schema.</summary>
     public string Unit(ResultColumn column)

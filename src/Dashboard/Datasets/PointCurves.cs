@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using System.Text.Json.Serialization;
 
 namespace LatticeSweep.Dashboard.Datasets;
 
@@ -8,12 +9,12 @@ public sealed record Curve(string Name, ImmutableArray<double> X, ImmutableArray
 /// <summary>Total and partial (per site) density of states.</summary>
 public sealed record DosCurves(string FrequencyUnit, string DensityUnit, ImmutableArray<Curve> Curves);
 
-/// <summary>Thermal functions against temperature; <see cref="ConductivityWPerMK"/> only when the table has the column.</summary>
+/// <summary>Thermal functions against temperature; <see cref="KappaWPerMK"/> only when the table has the column.</summary>
 public sealed record ThermalCurves(
     ImmutableArray<double> TemperatureK,
     ImmutableArray<double?> HeatCapacityJPerMolK,
     ImmutableArray<double?> DebyeTemperatureK,
-    ImmutableArray<double?>? ConductivityWPerMK);
+    [property: JsonPropertyName(PointCurves.ConductivityColumn)] ImmutableArray<double?>? KappaWPerMK);
 
 /// <summary>A labelled corner of the dispersion path.</summary>
 public sealed record PathCorner(double Position, string Label);

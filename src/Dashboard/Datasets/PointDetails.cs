@@ -25,7 +25,7 @@ public static class PointDetails
         ("Run", c => c is "point_index" or "chunk_id" or "state" or "failure_kind" or "error" or "attempt" or "started_at" or "finished_at" or "duration_s" or "engine_version"),
     ];
 
-    /// <summary>Groups the point's row (one row of <paramref name="row"/>); the swept parameters come first.</summary>
+    /// <summary>Groups the point's row (one row of <paramref name="row"/>) by topic.</summary>
     internal static ImmutableArray<PointNumberGroup> Build(SweepRecord sweep, ResultTable row)
     {
         ArgumentNullException.ThrowIfNull(row);
@@ -37,10 +37,8 @@ public static class PointDetails
         var names = new ColumnCatalog(sweep, TableNames.Points);
         var values = row.Rows[0];
         var numbers = row.Columns.Select((c, i) => Number(c, names, values[i])).Where(n => n.Column != "point_id").ToList();
-        var result = new List<PointNumberGroup>
-        {
-            new("Swept parameters", [.. numbers.Where(n => names.IsParameter(n.Column))]),
-        };
+        // The swept parameters are shown apart (with the catalog's values), so they are left out here.
+        var result = new List<PointNumberGroup>();
         var taken = new HashSet<string>(names.Parameters, StringComparer.Ordinal) { "point_id" };
         foreach (var (title, takes) in Groups)
         {

@@ -12,7 +12,7 @@ public sealed record SummaryQuery(string? Sort = null, bool Descending = false, 
 }
 
 /// <summary>A column of the summary table as shown: label and unit in plain words, the dataset's name beside.</summary>
-public sealed record SummaryColumn(string Name, string Label, string Unit, bool IsNumeric, bool IsParameter);
+public sealed record SummaryColumn(string Name, string Label, string Description, string Unit, bool IsNumeric, bool IsParameter);
 
 /// <summary>One finished point's row.</summary>
 public sealed record SummaryRow(string PointId, ImmutableArray<object?> Values);
@@ -67,7 +67,7 @@ public sealed record SummaryTable(
     }
 
     private static SummaryColumn View(ResultColumn c, ColumnCatalog names) =>
-        new(c.Name, names.Label(c.Name), names.Unit(c), c.IsNumeric, names.IsParameter(c.Name));
+        new(c.Name, names.ShortLabel(c.Name), names.Label(c.Name), names.Unit(c), c.IsNumeric, names.IsParameter(c.Name));
 
     /// <summary>Sorted by one column; empty cells last whichever the direction; ties keep plan order.</summary>
     private static IEnumerable<ImmutableArray<object?>> Order(ImmutableArray<ImmutableArray<object?>> rows, int column, bool descending)

@@ -37,15 +37,15 @@ public sealed record SweepLine(
             s.SweepId, s.Name, s.Description, StateText(s.State), c.Total, c.Waiting, c.Running, c.Done, c.Failed, c.Cancelled,
             p.FractionFinished, p.RatePointsPerMinute, p.Remaining?.TotalSeconds, p.Elapsed?.TotalSeconds,
             s.CreatedAt, s.StartedAt, s.FinishedAt, Links.Sweep(s.SweepId),
-            new SweepLineText(Show.Percent(p.FractionFinished), Show.Rate(p.RatePointsPerMinute), p.IsActive ? Show.Duration(p.Remaining) : Show.Missing,
-                Show.Duration(p.Elapsed), Show.Time(s.StartedAt), Show.Time(s.FinishedAt)));
+            new SweepLineText(Show.Percent(p.FractionFinished), Show.Rate(p.RatePointsPerMinute), Show.Number(p.RatePointsPerMinute),
+                p.IsActive ? Show.Duration(p.Remaining) : Show.Missing, Show.Duration(p.Elapsed), Show.Clock(s.StartedAt), Show.Clock(s.FinishedAt)));
     }
 
     public static string StateText(SweepState state) => state.ToString().ToLowerInvariant();
 }
 
-/// <summary>The display texts of a <see cref="SweepLine"/>, formatted once on the server.</summary>
-public sealed record SweepLineText(string Finished, string Rate, string Eta, string Elapsed, string Started, string FinishedAt);
+/// <summary>The display texts of a <see cref="SweepLine"/>, formatted once on the server (times in UTC).</summary>
+public sealed record SweepLineText(string Finished, string Rate, string RateNumber, string Eta, string Elapsed, string Started, string FinishedAt);
 
 /// <summary>The sweeps list.</summary>
 public sealed record SweepList(DateTimeOffset GeneratedAt, ImmutableArray<SweepLine> Sweeps);

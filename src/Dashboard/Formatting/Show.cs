@@ -43,7 +43,11 @@ public static class Show
     };
 
     public static string Time(DateTimeOffset? t) =>
-        t is { } v ? v.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", Invariant) + " UTC" : Missing;
+        t is { } v ? Clock(v) + " UTC" : Missing;
+
+    /// <summary>A UTC time without the zone, for tables whose header says UTC.</summary>
+    public static string Clock(DateTimeOffset? t) =>
+        t is { } v ? v.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", Invariant) : Missing;
 
     /// <summary>A duration in words: "45 s", "3 min 20 s", "2 h 05 min", "3 d 4 h".</summary>
     public static string Duration(TimeSpan? span)
@@ -69,7 +73,9 @@ public static class Show
     }
 
     public static string Rate(double? pointsPerMinute) =>
-        pointsPerMinute is { } r ? WithUnit(Significant(r), "points/min") : Missing;
+        pointsPerMinute is { } r ? WithUnit(Significant(r), RateUnit) : Missing;
+
+    public const string RateUnit = "points/min";
 
     public static string Percent(double fraction) => (fraction * 100).ToString("0.#", Invariant) + " %";
 
@@ -78,7 +84,7 @@ public static class Show
     {
         if (double.IsNaN(v))
         {
-            return "NaN";
+            return "not defined";
         }
 
         if (double.IsInfinity(v))

@@ -13,28 +13,20 @@ namespace LatticeSweep.Dashboard.Tests.Browser;
 /// plots. Screenshots of each page go to the test output folder (screenshots/), and the sweep page
 /// of the quick demo to docs/screenshots/sweep-page.png for the README.
 /// </summary>
-public sealed class BrowserTests : IAsyncLifetime
+public sealed class BrowserTests : IClassFixture<BrowserFixture>
 {
-    private DemoStore _store = null!;
-    private DashboardServer _server = null!;
-    private Chromium _browser = null!;
+    private readonly DemoStore _store;
+    private readonly DashboardServer _server;
+    private readonly Chromium _browser;
+
+    public BrowserTests(BrowserFixture f)
+    {
+        _store = f.Store;
+        _server = f.Server;
+        _browser = f.Browser;
+    }
 
     private static string Shots => Path.Combine(AppContext.BaseDirectory, "screenshots");
-
-    public async Task InitializeAsync()
-    {
-        _store = await DemoStore.StandardAsync();
-        _server = await DashboardServer.StartAsync(_store);
-        _browser = await Chromium.LaunchAsync();
-        Directory.CreateDirectory(Shots);
-    }
-
-    public async Task DisposeAsync()
-    {
-        await _browser.DisposeAsync();
-        await _server.DisposeAsync();
-        _store.Dispose();
-    }
 
     [Fact]
     public async Task Sweeps_page_leads_to_a_sweep_and_a_point_whose_plots_have_data()
@@ -60,6 +52,7 @@ public sealed class BrowserTests : IAsyncLifetime
             }
         }
 
+        Directory.CreateDirectory(Shots);
         await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweeps-page.png"), FullPage = true });
 
         // Follow the finished demo sweep.
@@ -164,4 +157,28 @@ public sealed class BrowserTests : IAsyncLifetime
                 return inked;
             }
             """);
+}
+
+/// <summary>The standard demo store (its own: the refresh test changes it), a dashboard over it, and one browser.</summary>
+public sealed class BrowserFixture : IAsyncLifetime
+{
+    internal DemoStore Store { get; private set; } = null!;
+
+    internal DashboardServer Server { get; private set; } = null!;
+
+    internal Chromium Browser { get; private set; } = null!;
+
+    public async Task InitializeAsync()
+    {
+        Store = await DemoStore.StandardAsync();
+        Server = await DashboardServer.StartAsync(Store);
+        Browser = await Chromium.LaunchAsync();
+    }
+
+    public async Task DisposeAsync()
+    {
+        await Browser.DisposeAsync();
+        await Server.DisposeAsync();
+        Store.Dispose();
+    }
 }

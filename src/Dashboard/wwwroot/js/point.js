@@ -63,8 +63,8 @@
             "Temperature (K)", "Heat capacity (J/(mol K))", (o) => { o.scales.y.beginAtZero = true; });
         line("chart-debye", [series("Debye temperature", against(t.debye_temperature_k), palette[1])],
             "Temperature (K)", "Debye temperature (K)");
-        if (t.conductivity_w_per_m_k) {
-            line("chart-kappa", [series("Thermal conductivity", against(t.conductivity_w_per_m_k), palette[2])],
+        if (t.kappa_w_per_m_k) {
+            line("chart-kappa", [series("Thermal conductivity", against(t.kappa_w_per_m_k), palette[2])],
                 "Temperature (K)", "Thermal conductivity (W/(m K))", (o) => { o.scales.y.beginAtZero = true; });
         }
     }

@@ -70,7 +70,7 @@
             cell(count(s.failed), "failed", s.failed, true),
             cell(count(s.running), "running", s.running, true),
             cell(count(s.waiting), "waiting", s.waiting, true),
-            cell(s.text.rate, "rate", s.rate_points_per_min, true),
+            cell(s.text.rate_number, "rate", s.rate_points_per_min, true),
             cell(s.text.eta, "eta", s.eta_s, true),
             cell(s.text.started, "started"),
             cell(s.text.finished_at, "finished_at"));
