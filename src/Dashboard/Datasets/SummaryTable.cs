@@ -32,7 +32,7 @@ public sealed record SummaryTable(
     public static readonly ImmutableArray<string> DefaultColumns =
     [
         "state", "max_freq_thz", "largest_gap_width_thz", "sound_speed_mean_m_per_s", "cv_j_per_mol_k",
-        "entropy_j_per_mol_k", "debye_temperature_from_cv_k", "stable", "duration_s",
+        "debye_temperature_from_cv_k", "stable", "duration_s",
     ];
 
     private const string DefaultSort = "point_index";
