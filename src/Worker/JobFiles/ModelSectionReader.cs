@@ -102,7 +102,7 @@ internal static class ModelSectionReader
 
         var sites = ReadSites(siteTables, dimension);
         var springs = ReadSprings(model.TableList("springs"), sites, motion);
-        var bonds = ReadBonds(model.TableList("bonds"), sites, dimension);
+        var bonds = ReadBonds(model.TableList("bonds"), sites, dimension, motion);
         if (model.Problems.Count > before)
         {
             return null;
@@ -218,7 +218,7 @@ internal static class ModelSectionReader
         return [.. springs];
     }
 
-    private static ImmutableArray<BondSpring> ReadBonds(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites, int dimension)
+    private static ImmutableArray<BondSpring> ReadBonds(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites, int dimension, DegreesOfFreedom motion)
     {
         var labels = sites.Select(s => s.Label).ToList();
         var bonds = new List<BondSpring>();
@@ -237,6 +237,14 @@ internal static class ModelSectionReader
             if (from is not null && from == to && offset == IntVec3.Zero)
             {
                 t.Error("cell", "a bond from a site to itself needs a non-zero cell offset");
+            }
+
+            foreach (var key in new[] { "transverse_n_per_m", "tensor_n_per_m" })
+            {
+                if (motion == DegreesOfFreedom.Scalar && t.Has(key))
+                {
+                    t.Error(key, "the scalar model couples by longitudinal constants only; use longitudinal_n_per_m or motion = \"3d\"");
+                }
             }
 
             Matrix3? tensor = null;

@@ -36,7 +36,7 @@ internal static class Names
         ["cubic_stack"] = LayeredHost.CubicStack,
     };
 
-    /// <summary>Standard atomic weight of an element symbol, or a message saying what is wrong.</summary>
+    /// <summary>Null when the symbol has a mass in the Engine's element table, else what is wrong and the nearest symbol.</summary>
     public static string? CheckElement(string symbol)
     {
         if (Elements.TryGetStandardAtomicWeightAmu(symbol, out _))
@@ -45,11 +45,7 @@ internal static class Names
         }
 
         var fixedCase = symbol.Length == 0 ? symbol : char.ToUpperInvariant(symbol[0]) + symbol[1..].ToLowerInvariant();
-        if (fixedCase != symbol && Elements.TryGetStandardAtomicWeightAmu(fixedCase, out _))
-        {
-            return $"unknown element symbol '{symbol}'; did you mean '{fixedCase}'?";
-        }
-
-        return $"unknown element symbol '{symbol}' (or one without a standard atomic weight); give mass_amu instead";
+        var hint = Elements.TryGetStandardAtomicWeightAmu(fixedCase, out _) ? fixedCase : KeySuggestions.Nearest(symbol, Elements.Symbols);
+        return $"unknown element symbol '{symbol}' (symbols are case-sensitive, H to U)" + (hint is null ? "; or give mass_amu" : $"; did you mean '{hint}'?");
     }
 }

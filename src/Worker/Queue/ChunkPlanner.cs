@@ -13,6 +13,15 @@ public sealed record ChunkPlanner(double TargetSeconds, int MaxPointsPerChunk)
 {
     public static ChunkPlanner Default { get; } = new(TargetSeconds: 2.0, MaxPointsPerChunk: 64);
 
+    /// <summary>Environment variable that lowers the cap on points per chunk (a tuning knob, also used by tests).</summary>
+    public const string MaxPointsVariable = "LATSWEEP_MAX_CHUNK_POINTS";
+
+    /// <summary>The default planner, with the cap from <see cref="MaxPointsVariable"/> when it is set to a whole number from 1 to 64.</summary>
+    public static ChunkPlanner FromEnvironment() =>
+        int.TryParse(Environment.GetEnvironmentVariable(MaxPointsVariable), NumberStyles.Integer, CultureInfo.InvariantCulture, out var cap) && cap is >= 1 and <= 64
+            ? Default with { MaxPointsPerChunk = cap }
+            : Default;
+
     public static string ChunkId(int index) => "c" + index.ToString("D5", CultureInfo.InvariantCulture);
 
     /// <summary>Chunk id of every point, in plan order. <paramref name="estimateSeconds"/> may return NaN (counted as the target).</summary>

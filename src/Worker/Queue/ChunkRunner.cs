@@ -43,9 +43,31 @@ public sealed class ChunkRunner
         _workerName = workerName;
     }
 
+    private int _activeChunks;
+    private long _failedPoints;
+
     public static string DefaultWorkerName => $"{Environment.MachineName}:{Environment.ProcessId}";
 
+    /// <summary>Chunks running in this process right now.</summary>
+    public int ActiveChunks => Volatile.Read(ref _activeChunks);
+
+    /// <summary>Points that failed in this process so far.</summary>
+    public long FailedPoints => Interlocked.Read(ref _failedPoints);
+
     public async Task RunAsync(string sweepId, string chunkId, CancellationToken ct)
+    {
+        Interlocked.Increment(ref _activeChunks);
+        try
+        {
+            await RunChunkAsync(sweepId, chunkId, ct).ConfigureAwait(false);
+        }
+        finally
+        {
+            Interlocked.Decrement(ref _activeChunks);
+        }
+    }
+
+    private async Task RunChunkAsync(string sweepId, string chunkId, CancellationToken ct)
     {
         var claim = _catalog.BeginChunk(sweepId, chunkId, _workerName);
         switch (claim.Decision)
@@ -76,6 +98,7 @@ public sealed class ChunkRunner
 
         foreach (var failed in outcomes.Where(o => o.State == PointState.Failed))
         {
+            Interlocked.Increment(ref _failedPoints);
             _log.Warning("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) failed, {FailureKind}: {Error}",
                 failed.Point.PointId, sweepId, chunkId, failed.FailureKind, failed.Error);
         }
