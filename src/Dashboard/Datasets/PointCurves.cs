@@ -28,6 +28,9 @@ public sealed record PointCurves(DosCurves? Dos, ThermalCurves? Thermal, Dispers
     /// <summary>Column of the thermal table that, when present, gets its own plot against temperature.</summary>
     public const string ConductivityColumn = "kappa_w_per_m_k";
 
+    /// <summary>Distance along the dispersion path in reciprocal space.</summary>
+    public const string PositionColumn = "path_position_per_nm";
+
     internal static PointCurves Build(ResultTable dos, ResultTable thermal, ResultTable dispersion) =>
         new(BuildDos(dos), BuildThermal(thermal), BuildDispersion(dispersion));
 
@@ -70,12 +73,14 @@ public sealed record PointCurves(DosCurves? Dos, ThermalCurves? Thermal, Dispers
 
     private static DispersionCurves? BuildDispersion(ResultTable t)
     {
-        if (t.Rows.Length == 0 || !t.Has("path_position") || !t.Has("freq_thz") || !t.Has("branch"))
+        // Files from before the position got its unit call the column path_position.
+        var position = t.Has(PositionColumn) ? PositionColumn : "path_position";
+        if (t.Rows.Length == 0 || !t.Has(position) || !t.Has("freq_thz") || !t.Has("branch"))
         {
             return null;
         }
 
-        int iP = t.IndexOf("path_position"), iF = t.IndexOf("freq_thz"), iB = t.IndexOf("branch"), iL = t.IndexOf("corner_label");
+        int iP = t.IndexOf(position), iF = t.IndexOf("freq_thz"), iB = t.IndexOf("branch"), iL = t.IndexOf("corner_label");
         int[] iV = [t.IndexOf("group_velocity_x_m_per_s"), t.IndexOf("group_velocity_y_m_per_s"), t.IndexOf("group_velocity_z_m_per_s")];
         var rows = t.Rows.Where(r => Finite(r[iP]) is not null).OrderBy(r => ResultTable.ToDouble(r[iP])).ToList();
         var corners = iL < 0
@@ -92,7 +97,7 @@ public sealed record PointCurves(DosCurves? Dos, ThermalCurves? Thermal, Dispers
         ImmutableArray<Curve>? speeds = hasVelocity
             ? branches.Select(g => new Curve($"branch {g.Key}", [.. g.Select(r => ResultTable.ToDouble(r[iP])!.Value)], [.. g.Select(r => Speed(r, iV))])).ToImmutableArray()
             : null;
-        return new DispersionCurves(Unit(t, "path_position", ""), corners, frequencies, speeds);
+        return new DispersionCurves(Unit(t, position, position == PositionColumn ? "1/nm" : ""), corners, frequencies, speeds);
     }
 
     private static double? Speed(ImmutableArray<object?> row, int[] components)

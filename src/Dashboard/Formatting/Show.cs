@@ -11,7 +11,12 @@ public static class Show
 
     /// <summary>A number with about four significant digits, and its unit when it has one.</summary>
     public static string Number(double? value, string unit = "") =>
-        value is not { } v ? Missing : WithUnit(Significant(v), unit);
+        value switch
+        {
+            null => Missing,
+            double.NaN => Significant(double.NaN),
+            { } v => WithUnit(Significant(v), unit),
+        };
 
     /// <summary>A count with its unit, digits grouped by thousands.</summary>
     public static string Count(long value, string unit = "") => WithUnit(value.ToString("N0", Invariant), unit);

@@ -8,10 +8,11 @@ namespace LatticeSweep.Dashboard.Hosting;
 public static class DashboardArguments
 {
     public const string Usage = """
-        usage: dashboard --out DIR [--store STORE] [--port N] [--bind ADDR] [--token T]
+        usage: dashboard [--out DIR] [--store STORE] [--port N] [--bind ADDR] [--token T]
 
-          --out DIR      output root holding the sweeps' result folders (required)
-          --store STORE  the sweeps' store: a SQLite file (default .latsweep/store.db) or a
+          --out DIR      output root holding the sweeps' result folders (default ./results);
+                         no page reads a file outside it
+          --store STORE  the sweeps' store: a SQLite file (default ./.latsweep/store.db) or a
                          PostgreSQL connection string / postgres:// address
           --port N       TCP port (default 5080)
           --bind ADDR    address to listen on (default 127.0.0.1, this machine only); any other
@@ -19,6 +20,9 @@ public static class DashboardArguments
           --token T      access token (at least 12 characters) every request must carry; also read
                          from the LATSWEEP_DASHBOARD_TOKEN environment variable
         """;
+
+    /// <summary>The output root when <c>--out</c> is not given: the one <c>latsweep run</c> writes to by default.</summary>
+    public const string DefaultOutput = "results";
 
     /// <summary>Parses <paramref name="args"/>; throws <see cref="DashboardStartException"/> naming the option at fault.</summary>
     public static DashboardOptions Parse(IReadOnlyList<string> args, string currentDirectory, Func<string, string?> environment)
@@ -65,9 +69,9 @@ public static class DashboardArguments
             target = inline;
         }
 
-        if (string.IsNullOrWhiteSpace(output))
+        if (output is { Length: > 0 } && string.IsNullOrWhiteSpace(output))
         {
-            throw new DashboardStartException($"--out is required: the output root that holds the sweeps' result folders\n{Usage}");
+            throw new DashboardStartException("--out: give the output root that holds the sweeps' result folders");
         }
 
         StoreLocation location;
@@ -83,7 +87,7 @@ public static class DashboardArguments
         return new DashboardOptions
         {
             Store = location,
-            OutputRoot = Path.GetFullPath(Path.Combine(currentDirectory, output)),
+            OutputRoot = Path.GetFullPath(Path.Combine(currentDirectory, output ?? DefaultOutput)),
             Port = ParsePort(port),
             BindAddress = ParseAddress(bind),
             AccessToken = string.IsNullOrEmpty(token) ? NullIfEmpty(environment(DashboardOptions.TokenEnvironmentVariable)) : token,

@@ -84,12 +84,14 @@ internal sealed partial class SweepModel : PageModel
 
         try
         {
+            // As `latsweep resume` does: a job file that no longer loads is reported here, not in every chunk.
+            new JobFilePlanSource().Get(sweep);
             var submitter = new SweepSubmitter(_board.Store, EnginePointSolver.Instance, ChunkPlanner.Default, _board.Time, Serilog.Core.Logger.None);
             var result = submitter.Resume(sweep);
             LogResumed(_log, sweep.SweepId, result.ChunksQueued);
             return RedirectToPage(new { sweepId, notice = result.ChunksQueued > 0 ? "resumed" : "unchanged" });
         }
-        catch (OutputFolderException ex)
+        catch (Exception ex) when (ex is OutputFolderException or PlanUnavailableException)
         {
             Problem = $"Cannot resume: {ex.Message}";
             await LoadAsync(_board.Find(sweepId) ?? sweep, new SummaryQuery(), ct).ConfigureAwait(false);

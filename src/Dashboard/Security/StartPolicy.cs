@@ -28,7 +28,7 @@ internal static class StartPolicy
         if (!Directory.Exists(options.OutputRoot))
         {
             throw new DashboardStartException(
-                $"--out: the output root {options.OutputRoot} does not exist; give the folder the sweeps were run with (their --out)");
+                $"--out: the output root {options.OutputRoot} does not exist; give the folder the sweeps write their results to (their --out; latsweep's default is ./results)");
         }
     }
 }

@@ -61,7 +61,6 @@ public sealed class DashboardArgumentsTests
     [InlineData(new[] { "--port", "80000", "--out", "o" }, "--port: '80000' is not a port number")]
     [InlineData(new[] { "--port", "http", "--out", "o" }, "--port: 'http'")]
     [InlineData(new[] { "--bind", "my-laptop", "--out", "o" }, "--bind: 'my-laptop' is not an IP address")]
-    [InlineData(new[] { "--store", "s.db" }, "--out is required")]
     [InlineData(new[] { "--out" }, "--out needs a value")]
     [InlineData(new[] { "--out", "o", "--colour", "blue" }, "unknown option '--colour'")]
     [InlineData(new[] { "--out", "o", "--store", "postgres://" }, "--store:")]
@@ -70,6 +69,10 @@ public sealed class DashboardArgumentsTests
         var ex = Assert.Throws<DashboardStartException>(() => Parse(args));
         Assert.Contains(message, ex.Message, StringComparison.Ordinal);
     }
+
+    [Fact]
+    public void The_output_root_defaults_to_the_one_latsweep_writes() =>
+        Assert.Equal("/work/here/results", Parse().OutputRoot);
 
     [Fact]
     public void A_missing_output_root_refuses_to_start()

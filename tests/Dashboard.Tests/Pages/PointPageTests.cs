@@ -111,10 +111,11 @@ public sealed class PointPageTests
         var branches = (long)duck.Scalar($"SELECT COUNT(DISTINCT branch) FROM {DuckDb.Table(folder, "dispersion")} WHERE point_id = {id}")!;
         Assert.Equal(branches, dispersion.GetProperty("frequencies").GetArrayLength());
         Assert.Equal(branches, dispersion.GetProperty("group_speeds").GetArrayLength());
+        Assert.Equal("1/nm", dispersion.GetProperty("position_unit").GetString());
         Assert.Equal(["G", "X"], dispersion.GetProperty("corners").EnumerateArray().Select(c => c.GetProperty("label").GetString()));
         var top = duck.Rows($"""
-            SELECT path_position, freq_thz, sqrt(group_velocity_x_m_per_s^2 + group_velocity_y_m_per_s^2 + group_velocity_z_m_per_s^2)
-            FROM {DuckDb.Table(folder, "dispersion")} WHERE point_id = {id} AND branch = {branches - 1} ORDER BY path_position
+            SELECT path_position_per_nm, freq_thz, sqrt(group_velocity_x_m_per_s^2 + group_velocity_y_m_per_s^2 + group_velocity_z_m_per_s^2)
+            FROM {DuckDb.Table(folder, "dispersion")} WHERE point_id = {id} AND branch = {branches - 1} ORDER BY path_position_per_nm
             """);
         var lastBranch = dispersion.GetProperty("frequencies")[(int)branches - 1];
         Assert.Equal(top.Select(r => (double)r[0]!), lastBranch.GetProperty("x").EnumerateArray().Select(x => x.GetDouble()));

@@ -56,6 +56,36 @@ public sealed class SweepActionTests
         Assert.NotNull(page.QuerySelector("form[action*='handler=cancel']"));
     }
 
+    [Fact]
+    public async Task Resume_says_why_when_the_job_file_is_gone_and_changes_nothing()
+    {
+        using var demo = DemoStore.Create();
+        var sweepId = await demo.AddAsync("chain.toml", DemoJobs.Dispersion, DemoProgress.Queued, pointsPerChunk: 2);
+        using (var catalog = demo.OpenCatalog())
+        {
+            catalog.Cancel(sweepId);
+        }
+
+        File.Delete(Path.Combine(demo.Folder, "jobs", "chain.toml"));
+        await using var server = await DashboardServer.StartAsync(demo);
+        using var http = server.Client();
+        long enqueued = Enqueued(demo);
+        var page = await Html.GetAsync(http, $"/sweeps/{sweepId}");
+        var form = page.QuerySelector("form[action*='handler=resume']")!;
+        var fields = form.QuerySelectorAll("input[type='hidden']").Select(i => new KeyValuePair<string, string>(i.GetAttribute("name")!, i.GetAttribute("value")!));
+        using var response = await http.PostAsync(form.GetAttribute("action"), new FormUrlEncodedContent(fields));
+        Assert.Equal(HttpStatusCode.OK, response.StatusCode);
+        var after = new AngleSharp.Html.Parser.HtmlParser().ParseDocument(await response.Content.ReadAsStringAsync());
+        Assert.Contains("Cannot resume", after.QuerySelector(".problem")!.TextContent, StringComparison.Ordinal);
+        Assert.Contains("chain.toml", after.QuerySelector(".problem")!.TextContent, StringComparison.Ordinal);
+        using (var catalog = demo.OpenCatalog())
+        {
+            Assert.Equal(SweepState.Cancelled, catalog.FindSweep(sweepId)!.State);
+        }
+
+        Assert.Equal(enqueued, Enqueued(demo));
+    }
+
     /// <summary>Submits the page's form for <paramref name="handler"/> as a browser would (its hidden token and the cookie); returns the redirect.</summary>
     private static async Task<string> PostFormAsync(HttpClient http, IDocument page, string handler)
     {

@@ -9,8 +9,8 @@ namespace LatticeSweep.Dashboard.Tests.Support;
 /// </summary>
 internal sealed class Chromium : IAsyncDisposable
 {
-    /// <summary>Environment variable that overrides the browser path.</summary>
-    public const string PathVariable = "LATSWEEP_CHROMIUM";
+    /// <summary>Environment variable that gives the browser path (scripts/test.sh sets it).</summary>
+    public const string PathVariable = "LATSWEEP_TEST_CHROMIUM";
 
     public const string DefaultPath = "/usr/bin/chromium";
 
