@@ -102,7 +102,7 @@ internal sealed partial class SweepModel : PageModel
     /// <summary>The sort link of a column: ascending first, then toggles.</summary>
     public string SortLink(string column)
     {
-        var descending = Results.Sort == column ? !Results.Descending : false;
+        var descending = Results.Sort == column && !Results.Descending;
         return $"{Links.Sweep(Sweep.SweepId)}?sort={Uri.EscapeDataString(column)}&dir={(descending ? "desc" : "asc")}#results";
     }
 

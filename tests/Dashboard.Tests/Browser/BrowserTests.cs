@@ -105,6 +105,11 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
         await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-failures-page.png"), FullPage = true });
 
         Assert.Empty(errors);
+
+        // The queue's own pages, for the curious.
+        await page.GotoAsync(new Uri(_server.Address, "/queue").ToString());
+        Assert.Contains("LatticeSweep queue", await page.TitleAsync(), StringComparison.Ordinal);
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "queue-page.png"), FullPage = true });
     }
 
     [Fact]
@@ -116,6 +121,10 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
         var row = page.Locator($"tr[data-sweep-id='{runningId}']");
         var doneBefore = await Count(row, "done");
         await page.EvaluateAsync("() => { window.notReloaded = true; }");
+        var sweepPage = await _browser.Context.NewPageAsync();
+        await sweepPage.GotoAsync(new Uri(_server.Address, $"/sweeps/{runningId}").ToString());
+        Assert.Equal(doneBefore, await Count(sweepPage.Locator("#progress"), "done"));
+        await sweepPage.EvaluateAsync("() => { window.notReloaded = true; }");
 
         // A worker finishes the running chunk meanwhile.
         long doneAfter;
@@ -134,6 +143,12 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
             $"() => document.querySelector(\"tr[data-sweep-id='{runningId}'] [data-field='done']\").dataset.value === '{doneAfter.ToString(CultureInfo.InvariantCulture)}'",
             null, new PageWaitForFunctionOptions { Timeout = 12_000 });
         Assert.True(await page.EvaluateAsync<bool>("() => window.notReloaded === true"), "the page was reloaded");
+
+        // The sweep page updates its progress numbers the same way.
+        await sweepPage.WaitForFunctionAsync(
+            $"() => document.querySelector(\"#progress [data-field='done']\").dataset.value === '{doneAfter.ToString(CultureInfo.InvariantCulture)}'",
+            null, new PageWaitForFunctionOptions { Timeout = 12_000 });
+        Assert.True(await sweepPage.EvaluateAsync<bool>("() => window.notReloaded === true"), "the sweep page was reloaded");
     }
 
     private static async Task<long> Count(ILocator scope, string field) =>
