@@ -7,8 +7,9 @@ namespace LatticeSweep.Dashboard.Datasets;
 
 /// <summary>
 /// The dashboard's read access to the sweeps' Parquet datasets, always through the output root.
-/// A point's rows are read from its chunk's part file alone (parts are named by chunk id). Parsed
-/// files are cached and re-read when their size or time changes (a chunk re-run replaces its part).
+/// A point's rows are read from its chunk's part file alone (parts are named by chunk id). Parts of
+/// <c>points/</c> (small: one row per point) are cached and re-read when their size or time changes
+/// (a chunk re-run replaces its part); the larger curve tables are read when asked.
 /// </summary>
 internal sealed class ResultStore
 {
@@ -62,7 +63,10 @@ internal sealed class ResultStore
             return ResultTable.Empty;
         }
 
-        return (await ReadCachedAsync(file, ct).ConfigureAwait(false)).Where("point_id", pointId);
+        var rows = table == TableNames.Points
+            ? await ReadCachedAsync(file, ct).ConfigureAwait(false)
+            : await ParquetTableReader.ReadFileAsync(file, ct).ConfigureAwait(false);
+        return rows.Where("point_id", pointId);
     }
 
     private async Task<ResultTable> ReadCachedAsync(string file, CancellationToken ct)

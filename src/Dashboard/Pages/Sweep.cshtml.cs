@@ -109,8 +109,6 @@ internal sealed partial class SweepModel : PageModel
     public string PageLink(int offset) =>
         $"{Links.Sweep(Sweep.SweepId)}?sort={Uri.EscapeDataString(Results.Sort)}&dir={(Results.Descending ? "desc" : "asc")}&offset={offset}#results";
 
-    public string Unit(string column) => Sweep.Axes.FirstOrDefault(a => a.ColumnName == column)?.Unit ?? "";
-
     private async Task LoadAsync(SweepRecord sweep, SummaryQuery query, CancellationToken ct)
     {
         Sweep = sweep;

@@ -15,9 +15,6 @@ public sealed record FailureGroupView(FailureGroup Group, ImmutableArray<PointRe
         FailureKind.Input => "the job file could not be loaded by the worker; resume runs these again",
         _ => Group.Kind.ToString(),
     };
-
-    /// <summary>Failed points of this reason not listed (beyond the limit).</summary>
-    public long NotListed => Math.Max(0, Group.Count - Points.Length);
 }
 
 /// <summary>Builds the sweep's failure groups: counts from the catalog's grouping, points from its failed list.</summary>
