@@ -12,11 +12,8 @@ internal static class ConductivityOptionsValidation
 {
     public const string Root = "output.conductivity";
 
-    /// <summary>Smallest bulk mesh per direction: its half-density mesh still has 2 points.</summary>
-    public const int MinimumMesh = 4;
-
-    /// <summary>Largest relative difference between a composition's mean mass and the model's site mass.</summary>
-    public const double MassMismatchTolerance = 0.01;
+    private const int MinimumMesh = ConductivityLimits.MinimumMesh;
+    private const double MassMismatchTolerance = ConductivityLimits.MassMismatchTolerance;
 
     public static void Check(CrystalModel model, Sample sample, ConductivityOptions options)
     {
