@@ -22,14 +22,10 @@ public static class ChunkOutputWriter
         };
         foreach (var rows in ChunkTables.Build(schemas, outputs, outcomes))
         {
+            // A table with no rows in this chunk still gets an empty part: it carries the schema, so
+            // every listed table folder exists and a reader's glob over it works (and a stale part
+            // from an earlier run of the chunk is replaced).
             var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
-            if (rows.Rows.Count == 0 && rows.Table != TableNames.Points)
-            {
-                // No rows for this table in this run: a part from an earlier run would be stale.
-                ParquetPartWriter.Remove(folder, chunkId);
-                continue;
-            }
-
             var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
             await ParquetPartWriter.WriteAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false);
         }

@@ -40,7 +40,7 @@ internal sealed class ResultSchemas
         Thermal = Spec<ThermalValue>(TableNames.Thermal, axes, ThermalColumns());
         Dispersion = Spec<DispersionRow>(TableNames.Dispersion, axes,
             C<RowOf<DispersionRow>>("path_index", ColumnType.Int32, "", "index of the q point along the path", r => r.Item.PathIndex),
-            C<RowOf<DispersionRow>>("path_position", ColumnType.Double, "", "position along the path as the Engine reports it", r => r.Item.PathPosition),
+            C<RowOf<DispersionRow>>("path_position_per_nm", ColumnType.Double, "1/nm", "distance travelled along the path in reciprocal space", r => r.Item.PathPositionPerNm),
             C<RowOf<DispersionRow>>("corner_label", ColumnType.Text, "", "label when the q point is a path corner", r => r.Item.CornerLabel),
             C<RowOf<DispersionRow>>("qx_per_nm", ColumnType.Double, "1/nm", "wave vector x", r => r.Item.QxPerNm),
             C<RowOf<DispersionRow>>("qy_per_nm", ColumnType.Double, "1/nm", "wave vector y", r => r.Item.QyPerNm),
@@ -103,19 +103,21 @@ internal sealed class ResultSchemas
     private static IEnumerable<TableColumn<T>> PointHead<T>(IReadOnlyList<AxisInfo> axes, bool includeRunColumns, Func<T, PointOutcome> outcome, IEnumerable<string>? ownNames = null)
     {
         yield return C<T>("point_id", ColumnType.Text, "", "stable id of the point (a hash of its parameters)", r => outcome(r).Point.PointId);
+        // A swept parameter keeps one column name in every table: names taken by the points
+        // table's own columns are reserved everywhere (a swept `sample.kind` becomes `axis_sample_kind`).
         var reserved = new HashSet<string>(StringComparer.Ordinal) { "point_id" };
-        if (includeRunColumns)
+        foreach (var c in RunColumns<T>(outcome))
         {
-            foreach (var c in RunColumns<T>(outcome))
+            reserved.Add(c.Def.Name);
+            if (includeRunColumns)
             {
-                reserved.Add(c.Def.Name);
                 yield return c;
             }
+        }
 
-            foreach (var c in SummaryColumns())
-            {
-                reserved.Add(c.Def.Name);
-            }
+        foreach (var c in SummaryColumns())
+        {
+            reserved.Add(c.Def.Name);
         }
 
         foreach (var n in ownNames ?? [])
