@@ -38,11 +38,32 @@ public sealed record ConductivityOptions
     public bool MeanFreePathTable { get; init; }
 
     /// <summary>The channels that are on, in the fixed order of <see cref="ScatteringChannel"/>.</summary>
-    public ImmutableArray<ScatteringChannel> Channels =>
-    [
-        .. Boundary is null ? Array.Empty<ScatteringChannel>() : [ScatteringChannel.Boundary],
-        .. PointDefects is null ? Array.Empty<ScatteringChannel>() : [ScatteringChannel.PointDefect],
-        .. Umklapp is null ? Array.Empty<ScatteringChannel>() : [ScatteringChannel.Umklapp],
-        .. Constant is null ? Array.Empty<ScatteringChannel>() : [ScatteringChannel.Constant],
-    ];
+    public ImmutableArray<ScatteringChannel> Channels
+    {
+        get
+        {
+            var on = ImmutableArray.CreateBuilder<ScatteringChannel>(4);
+            if (Boundary is not null)
+            {
+                on.Add(ScatteringChannel.Boundary);
+            }
+
+            if (PointDefects is not null)
+            {
+                on.Add(ScatteringChannel.PointDefect);
+            }
+
+            if (Umklapp is not null)
+            {
+                on.Add(ScatteringChannel.Umklapp);
+            }
+
+            if (Constant is not null)
+            {
+                on.Add(ScatteringChannel.Constant);
+            }
+
+            return on.ToImmutable();
+        }
+    }
 }
