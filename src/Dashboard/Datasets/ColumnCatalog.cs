@@ -27,6 +27,7 @@ internal sealed class ColumnCatalog
         ["cv_j_per_kg_k"] = "Cv at reference T",
         ["entropy_j_per_mol_k"] = "Entropy at reference T",
         ["debye_temperature_from_cv_k"] = "Debye T from Cv",
+        ["kappa_w_per_m_k"] = "Conductivity at reference T",
         ["stable"] = "Stable",
         ["duration_s"] = "Time taken",
     };

@@ -9,12 +9,17 @@ public sealed record Curve(string Name, ImmutableArray<double> X, ImmutableArray
 /// <summary>Total and partial (per site) density of states.</summary>
 public sealed record DosCurves(string FrequencyUnit, string DensityUnit, ImmutableArray<Curve> Curves);
 
-/// <summary>Thermal functions against temperature; <see cref="KappaWPerMK"/> only when the table has the column.</summary>
+/// <summary>
+/// Thermal functions against temperature. <see cref="KappaWPerMK"/> (the mean over directions) and
+/// the per-direction <see cref="KappaComponents"/> are there only when the table has the column
+/// with at least one finite value (a point that asked for no conductivity leaves it empty).
+/// </summary>
 public sealed record ThermalCurves(
     ImmutableArray<double> TemperatureK,
     ImmutableArray<double?> HeatCapacityJPerMolK,
     ImmutableArray<double?> DebyeTemperatureK,
-    [property: JsonPropertyName(PointCurves.ConductivityColumn)] ImmutableArray<double?>? KappaWPerMK);
+    [property: JsonPropertyName(PointCurves.ConductivityColumn)] ImmutableArray<double?>? KappaWPerMK,
+    ImmutableArray<Curve> KappaComponents);
 
 /// <summary>A labelled corner of the dispersion path.</summary>
 public sealed record PathCorner(double Position, string Label);
@@ -64,11 +69,14 @@ public sealed record PointCurves(DosCurves? Dos, ThermalCurves? Thermal, Dispers
         var iT = t.IndexOf("temperature_k");
         var rows = t.Rows.Where(r => Finite(r[iT]) is not null).OrderBy(r => ResultTable.ToDouble(r[iT])).ToList();
         ImmutableArray<double?> Column(string name) => t.IndexOf(name) is var i and >= 0 ? [.. rows.Select(r => Finite(r[i]))] : [.. rows.Select(_ => (double?)null)];
-        return new ThermalCurves(
-            [.. rows.Select(r => ResultTable.ToDouble(r[iT])!.Value)],
-            Column("cv_j_per_mol_k"),
-            Column("debye_temperature_k"),
-            t.Has(ConductivityColumn) ? Column(ConductivityColumn) : null);
+        ImmutableArray<double?>? Plotted(string name) => Column(name) is var c && c.Any(v => v is not null) ? c : null;
+        var temperatures = rows.Select(r => ResultTable.ToDouble(r[iT])!.Value).ToImmutableArray();
+        var components = new[] { ("xx", "along x"), ("yy", "along y"), ("zz", "along z") }
+            .Select(d => (Name: d.Item2, Values: Plotted($"kappa_{d.Item1}_w_per_m_k")))
+            .Where(d => d.Values is not null)
+            .Select(d => new Curve(d.Name, temperatures, d.Values!.Value))
+            .ToImmutableArray();
+        return new ThermalCurves(temperatures, Column("cv_j_per_mol_k"), Column("debye_temperature_k"), Plotted(ConductivityColumn), components);
     }
 
     private static DispersionCurves? BuildDispersion(ResultTable t)

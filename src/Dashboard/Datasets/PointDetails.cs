@@ -21,6 +21,7 @@ public static class PointDetails
         ("Thermal at the reference temperature", c => c is "reference_temperature_k" || c.StartsWith("cv_", StringComparison.Ordinal) || c.StartsWith("entropy_", StringComparison.Ordinal)
             || c.StartsWith("free_energy", StringComparison.Ordinal) || c.StartsWith("internal_energy", StringComparison.Ordinal) || c.StartsWith("zero_point", StringComparison.Ordinal)),
         ("Debye temperatures", c => c.StartsWith("debye_", StringComparison.Ordinal)),
+        ("Thermal conductivity", c => c.StartsWith("kappa_", StringComparison.Ordinal) || c == "acoustic_debye_temperature_k"),
         ("Model and sample", c => c is "dimension" or "sites_per_cell" or "branch_count" or "sample_kind" or "cells_or_mesh_points" or "q_points_solved" or "mode_count" or "rigid_modes_excluded" or "molar_mass_kg_per_mol" or "dos_method"),
         ("Run", c => c is "point_index" or "chunk_id" or "state" or "failure_kind" or "error" or "attempt" or "started_at" or "finished_at" or "duration_s" or "engine_version"),
     ];
@@ -48,7 +49,8 @@ public static class PointDetails
         }
 
         result.Add(new PointNumberGroup("Other", [.. numbers.Where(n => !taken.Contains(n.Column))]));
-        return [.. result.Where(g => g.Numbers.Length > 0)];
+        // A group with no number at all (e.g. conductivity for a point that asked for none) is left out.
+        return [.. result.Where(g => g.Numbers.Any(n => n.Value is not null))];
     }
 
     private static PointNumber Number(ResultColumn column, ColumnCatalog names, object? value)

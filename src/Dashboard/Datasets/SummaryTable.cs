@@ -45,7 +45,7 @@ public sealed record SummaryTable(
         var sort = query.Sort is { } s && points.Has(s) ? s : DefaultSort;
         var shown = names.Parameters
             .Concat(DefaultColumns)
-            .Concat(points.Columns.Select(c => c.Name).Where(n => n.Contains("kappa", StringComparison.Ordinal)))
+            .Append(points.Numbers(PointCurves.ConductivityColumn).Any(v => v is not null) ? PointCurves.ConductivityColumn : "")
             .Append(sort == DefaultSort ? "" : sort)
             .Where(points.Has)
             .Distinct(StringComparer.Ordinal)

@@ -101,6 +101,19 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
         Assert.True(await InkedPixels(page, "chart-dispersion") > 500, "the dispersion canvas is blank");
         await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "point-dispersion-page.png"), FullPage = true });
 
+        // A point with thermal conductivity: its plot against temperature has data.
+        var kappaId = _store.Ids["fcc-conductivity"];
+        string kappaPoint;
+        using (var catalog = _store.OpenCatalog())
+        {
+            kappaPoint = catalog.GetPoints(kappaId, new PointQuery(PointState.Done)).First().PointId;
+        }
+
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{kappaId}/points/{kappaPoint}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.True(await PlottedPoints(page, "chart-kappa") >= 6);
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "point-conductivity-page.png"), FullPage = true });
+
         await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{_store.Ids["springs-off"]}").ToString());
         await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-failures-page.png"), FullPage = true });
 
@@ -186,6 +199,7 @@ public sealed class BrowserFixture : IAsyncLifetime
     public async Task InitializeAsync()
     {
         Store = await DemoStore.StandardAsync();
+        await Store.AddAsync("fcc-conductivity.toml", DemoJobs.Conductivity, DemoProgress.Finished);
         Server = await DashboardServer.StartAsync(Store);
         Browser = await Chromium.LaunchAsync();
     }

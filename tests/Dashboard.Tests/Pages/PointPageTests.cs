@@ -37,7 +37,13 @@ public sealed class PointPageTests
                 continue;
             }
 
-            Assert.NotNull(cell);
+            if (cell is null)
+            {
+                // Only a group with no number at all is left out (conductivity that was not asked for).
+                Assert.True(row[i] is null && (numeric[i].StartsWith("kappa_", StringComparison.Ordinal) || numeric[i] == "acoustic_debye_temperature_k"), $"{numeric[i]} is not shown");
+                continue;
+            }
+
             var shown = cell.GetAttribute("data-value")!;
             if (row[i] is null)
             {

@@ -108,4 +108,48 @@ internal static class DemoJobs
         temperatures_k = [10, 100, 300]
         dos_bins = 40
         """;
+
+    /// <summary>Thermal conductivity estimates (boundary and Umklapp scattering) for two boundary lengths of a small bulk fcc crystal.</summary>
+    public const string Conductivity = """
+        # Invented demo values: a monatomic fcc crystal, bulk, with conductivity estimates.
+        [sweep]
+        name = "fcc-conductivity"
+        description = "Bulk fcc crystal: thermal conductivity for two boundary lengths (invented values)"
+
+        [[sweep.axes]]
+        path = "output.conductivity.boundary.length_nm"
+        values = [10.0, 1000.0]
+
+        [model]
+        lattice = "fcc"
+        constant_nm = 0.42
+
+        [[model.sites]]
+        label = "M"
+        mass_amu = 40.0
+
+        [[model.springs]]
+        from = "M"
+        to = "M"
+        shell = 1
+        longitudinal_n_per_m = 30.0
+        transverse_n_per_m = 4.0
+
+        [sample]
+        kind = "bulk"
+        mesh = 6
+
+        [output]
+        temperatures_k = [20, 50, 100, 200, 300, 500]
+        reference_temperature_k = 300
+        tables = ["dos", "thermal"]
+
+        [output.conductivity]
+        grueneisen_parameter = 1.6
+
+        [output.conductivity.boundary]
+        length_nm = 100.0
+
+        [output.conductivity.umklapp]
+        """;
 }

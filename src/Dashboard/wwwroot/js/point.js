@@ -64,8 +64,9 @@
         line("chart-debye", [series("Debye temperature", against(t.debye_temperature_k), palette[1])],
             "Temperature (K)", "Debye temperature (K)");
         if (t.kappa_w_per_m_k) {
-            line("chart-kappa", [series("Thermal conductivity", against(t.kappa_w_per_m_k), palette[2])],
-                "Temperature (K)", "Thermal conductivity (W/(m K))", (o) => { o.scales.y.beginAtZero = true; });
+            const sets = [series("mean over directions", against(t.kappa_w_per_m_k), palette[2])];
+            (t.kappa_components || []).forEach((c, i) => sets.push(series(c.name, xy(c), palette[(i + 3) % palette.length], { borderWidth: 1.4, borderDash: [6, 3] })));
+            line("chart-kappa", sets, "Temperature (K)", "Thermal conductivity (W/(m K))", (o) => { o.scales.y.beginAtZero = true; });
         }
     }
 
