@@ -1,0 +1,90 @@
+using System.Numerics;
+using System.Runtime.InteropServices;
+using System.Text.Json;
+using LatticeSweep.Engine.Numerics;
+
+namespace LatticeSweep.Bench;
+
+/// <summary>
+/// Case (a): eigenvalues alone and with vectors of random complex Hermitian matrices, one matrix at a
+/// time on one core. The matrices are written to disk so the peer solves exactly the same inputs.
+/// </summary>
+internal static class EigenCase
+{
+    public static Dictionary<string, object> Run(CaseFile cases, string dataDir, int repeats)
+    {
+        var section = cases.Section("eigen");
+        var seed = section.GetProperty("seed").GetInt32();
+        var results = new Dictionary<string, object>();
+        foreach (var n in CaseFile.Ints(section.GetProperty("sizes")))
+        {
+            var batch = section.GetProperty("batch").GetProperty(n.ToString(System.Globalization.CultureInfo.InvariantCulture)).GetInt32();
+            var a = RandomHermitian(n, batch, seed + n);
+            File.WriteAllBytes(Path.Combine(dataDir, $"eig_{n}_matrices.c128"), MemoryMarshal.AsBytes(a.AsSpan()).ToArray());
+
+            var values = new double[batch * n];
+            var vectors = new Complex[n * n];
+            var valuesWithVectors = new double[n];
+            var nn = n * n;
+
+            void ValuesOnly()
+            {
+                for (var b = 0; b < batch; b++)
+                {
+                    HermitianEigenSolver.Eigenvalues(a.AsSpan(b * nn, nn), n, values.AsSpan(b * n, n));
+                }
+            }
+
+            void WithVectors()
+            {
+                for (var b = 0; b < batch; b++)
+                {
+                    HermitianEigenSolver.EigenSystem(a.AsSpan(b * nn, nn), n, valuesWithVectors, vectors);
+                }
+            }
+
+            var tValues = Timing.Measure(ValuesOnly, warmups: 3, repeats: repeats, minSeconds: 0.5);
+            var tVectors = Timing.Measure(WithVectors, warmups: 3, repeats: repeats, minSeconds: 0.5);
+            File.WriteAllBytes(Path.Combine(dataDir, $"eig_{n}_values_ours.f64"), MemoryMarshal.AsBytes(values.AsSpan()).ToArray());
+
+            results[$"{n}"] = new Dictionary<string, object>
+            {
+                ["n"] = n,
+                ["batch"] = batch,
+                ["values_us_per_matrix"] = tValues.MedianSeconds / batch * 1e6,
+                ["vectors_us_per_matrix"] = tVectors.MedianSeconds / batch * 1e6,
+                ["values_runs"] = tValues.Samples.Length,
+                ["vectors_runs"] = tVectors.Samples.Length,
+            };
+            Console.Error.WriteLine($"  eigen {n}x{n}: values {tValues.MedianSeconds / batch * 1e6:F3} us, with vectors {tVectors.MedianSeconds / batch * 1e6:F3} us per matrix");
+        }
+
+        return results;
+    }
+
+    /// <summary>(X + X^H) / 2 with X of independent standard normal real and imaginary parts (Box-Muller).</summary>
+    private static Complex[] RandomHermitian(int n, int batch, int seed)
+    {
+        var random = new Random(seed);
+        double Normal() => Math.Sqrt(-2.0 * Math.Log(1.0 - random.NextDouble())) * Math.Cos(2.0 * Math.PI * random.NextDouble());
+        var a = new Complex[batch * n * n];
+        for (var b = 0; b < batch; b++)
+        {
+            var x = new Complex[n * n];
+            for (var i = 0; i < n * n; i++)
+            {
+                x[i] = new Complex(Normal(), Normal());
+            }
+
+            for (var i = 0; i < n; i++)
+            {
+                for (var j = 0; j < n; j++)
+                {
+                    a[(b * n * n) + (i * n) + j] = 0.5 * (x[(i * n) + j] + Complex.Conjugate(x[(j * n) + i]));
+                }
+            }
+        }
+
+        return a;
+    }
+}
