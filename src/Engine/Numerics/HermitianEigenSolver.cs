@@ -72,6 +72,19 @@ public static class HermitianEigenSolver
             return;
         }
 
+        if (n == 1)
+        {
+            // The scalar models' 1 x 1 case: the (real) element is the eigenvalue, the vector is 1.
+            ScanHermitian(a, 1);
+            values[0] = a[0].Real;
+            if (wantVectors)
+            {
+                vectors[0] = Complex.One;
+            }
+
+            return;
+        }
+
         double maxAbs = ScanHermitian(a, n);
         if (maxAbs == 0.0)
         {

@@ -22,6 +22,8 @@ internal static class FiniteCrystalSolver
     /// <summary>Largest crystal accepted, in modes: beyond this one solve would run for days.</summary>
     public const long MaxModes = 4_000_000_000;
 
+    private const double ThzPerRadPerS = 1.0 / (2.0 * Math.PI) / 1e12;
+
     public static SpectrumOutcome Solve(ModeSolver solver, FiniteSample sample, SolveOptions options, double[] temperaturesK, ModeSink sink, CancellationToken ct)
     {
         var n = solver.Size;
@@ -37,11 +39,16 @@ internal static class FiniteCrystalSolver
 
         var perCell = 1.0 / grid.Count;
         var stats = new SpectrumStatistics(n);
-        var store = modes <= StoredModeLimit ? new double[modes] : null;
+        var store = modes <= Math.Min(StoredModeLimit, options.ModeListMaxModes) ? new double[modes] : null;
         var storedCount = 0L;
         var rigid = crystal.Components;
         long zeroModes = 0;
         var wantVectors = sink.WantsChannelFractions || options.PartialDos;
+
+        // Without eigenvectors, pass 2 reads pass 1's eigenvalues back when they fit the same fixed
+        // budget (memory still does not grow with the crystal: beyond it, pass 2 solves again).
+        var cached = !wantVectors && grid.HalfCount * n <= StoredModeLimit ? new double[grid.HalfCount * n] : null;
+        var visited = 0L;
 
         // Pass 1: eigenvalues only. The range is needed before any histogram can be binned.
         var scaleLambda = 0.0;
@@ -52,6 +59,12 @@ internal static class FiniteCrystalSolver
             var skip = point.IsGamma ? rigid : 0;
             stats.Observe(solver.Values, point.Reduced, skip);
             scaleLambda = Math.Max(scaleLambda, solver.Values[n - 1]);
+            if (cached is not null)
+            {
+                Array.Copy(solver.Values, 0, cached, visited * n, n);
+            }
+
+            visited++;
             if (store is not null)
             {
                 for (var k = skip; k < n; k++)
@@ -77,32 +90,51 @@ internal static class FiniteCrystalSolver
         var fractions = new double[channels];
         var gaussian = options.DosMethod == DosMethod.Gaussian;
 
-        // Pass 2: thermal sums, histogram and displacements, mode by mode.
+        // Pass 2: thermal sums, histogram and displacements, mode by mode. The top is known now, so the
+        // sink may bin the modes (exact to 1e-12) instead of summing each at every temperature.
+        if (scaleLambda > 0)
+        {
+            sink.PrepareBins(Math.Sqrt(scaleLambda), modes);
+        }
+
+        visited = 0L;
         foreach (var point in grid.HalfSet())
         {
             ct.ThrowIfCancellationRequested();
-            var q = lattice.ToCartesianQ(point.Reduced);
-            if (wantVectors)
+            ReadOnlySpan<double> values;
+            if (cached is not null)
             {
-                solver.SolveWithVectors(q);
+                values = cached.AsSpan((int)(visited * n), n);
             }
             else
             {
-                solver.SolveValues(q);
+                var q = lattice.ToCartesianQ(point.Reduced);
+                if (wantVectors)
+                {
+                    solver.SolveWithVectors(q);
+                }
+                else
+                {
+                    solver.SolveValues(q);
+                }
+
+                values = solver.Values;
             }
 
+            visited++;
             var skip = point.IsGamma ? rigid : 0;
             var weight = point.Weight * perCell;
             for (var k = skip; k < n; k++)
             {
-                var lambda = solver.Values[k];
+                var lambda = values[k];
                 if (wantVectors)
                 {
                     solver.ChannelFractions(k, fractions);
                     SumSites(fractions, siteFractions, crystal.Components);
                 }
 
-                var thz = ModeSolver.SignedThz(lambda);
+                var omega = Math.Sqrt(Math.Abs(lambda));
+                var thz = lambda < 0 ? -omega * ThzPerRadPerS : omega * ThzPerRadPerS;
                 Deposit(thz, weight, gaussian, options.GaussianSigmaThz, grid0, total, partial, options.PartialDos ? siteFractions : default);
                 if (Math.Abs(lambda) <= zeroTolerance)
                 {
@@ -112,7 +144,7 @@ internal static class FiniteCrystalSolver
 
                 if (lambda > 0)
                 {
-                    sink.Add(Math.Sqrt(lambda), weight, wantVectors ? fractions : default);
+                    sink.Add(omega, weight, wantVectors ? fractions : default);
                 }
             }
         }
