@@ -35,6 +35,7 @@ internal static class SolveCase
     {
         ["median_s"] = t.MedianSeconds,
         ["min_s"] = t.MinSeconds,
+        ["median_cpu_s"] = t.MedianCpuSeconds,
         ["runs"] = t.Samples.Length,
         ["q_points_solved"] = r.Summary.QPointsSolved,
         ["modes"] = r.Summary.ModeCount,

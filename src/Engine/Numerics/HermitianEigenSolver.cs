@@ -21,7 +21,7 @@ namespace LatticeSweep.Engine.Numerics;
 /// </para>
 /// </summary>
 [SkipLocalsInit]
-public static class HermitianEigenSolver
+public static partial class HermitianEigenSolver
 {
     /// <summary>Largest allowed |a_ij - conj(a_ji)| (and |Im a_ii|) relative to max |a_ij|.</summary>
     internal const double HermitianTolerance = 1e-10;
