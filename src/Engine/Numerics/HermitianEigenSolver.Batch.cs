@@ -55,7 +55,7 @@ public static partial class HermitianEigenSolver
     private static readonly int[][] PairOrders = [.. Enumerable.Range(0, 33).Select(RoundRobinPairs)];
 
     /// <summary>True where the batched path is worth taking (SIMD available and the order small enough).</summary>
-    internal static bool BatchPreferred(int n) => n is >= 2 and <= 32 && Vector256.IsHardwareAccelerated;
+    internal static bool BatchPreferred(int n) => n is >= 2 and <= 24 && Vector256.IsHardwareAccelerated;
 
     /// <summary>
     /// Eigenvalues (ascending, <paramref name="values"/>[m * n + k]) and, when <paramref name="vectors"/>

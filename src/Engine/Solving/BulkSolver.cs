@@ -38,34 +38,25 @@ internal static class BulkSolver
         var weights = wantWeights ? new double[grid.Count * n * n] : null;
         var stats = new SpectrumStatistics(n);
         var fractions = new double[n];
-        foreach (var point in grid.HalfSet())
+        solver.SolveHalfSet(grid, wantWeights, (in GridPoint point, int slot) =>
         {
-            ct.ThrowIfCancellationRequested();
-            var q = lattice.ToCartesianQ(point.Reduced);
-            if (wantWeights)
+            var values = solver.BatchValues(slot);
+            stats.Observe(values, point.Reduced, point.IsGamma ? crystal.Components : 0);
+            for (var copy = 0; copy < point.Weight; copy++)
             {
-                solver.SolveWithVectors(q);
-            }
-            else
-            {
-                solver.SolveValues(q);
-            }
-
-            stats.Observe(solver.Values, point.Reduced, point.IsGamma ? crystal.Components : 0);
-            foreach (var index in point.Weight == 2 ? [point.Index, point.PartnerIndex] : new[] { point.Index })
-            {
+                var index = copy == 0 ? point.Index : point.PartnerIndex;
                 for (var k = 0; k < n; k++)
                 {
-                    frequencies[index * n + k] = ModeSolver.SignedThz(solver.Values[k]);
+                    frequencies[index * n + k] = ModeSolver.SignedThz(values[k]);
                     if (weights is not null)
                     {
                         // |e(-q)|^2 = |e(q)*|^2: the partner shares the weights.
-                        solver.ChannelFractions(k, fractions);
+                        solver.BatchChannelFractions(slot, k, fractions);
                         Array.Copy(fractions, 0, weights, (index * n + k) * n, n);
                     }
                 }
             }
-        }
+        }, ct);
 
         var lowest = ModeSolver.SignedThz(Math.Min(0, stats.WorstLambda));
         var highest = ModeSolver.SignedThz(stats.MaxLambda);

@@ -52,16 +52,15 @@ internal static class FiniteCrystalSolver
 
         // Pass 1: eigenvalues only. The range is needed before any histogram can be binned.
         var scaleLambda = 0.0;
-        foreach (var point in grid.HalfSet())
+        solver.SolveHalfSet(grid, withVectors: false, (in GridPoint point, int slot) =>
         {
-            ct.ThrowIfCancellationRequested();
-            solver.SolveValues(lattice.ToCartesianQ(point.Reduced));
+            var values = solver.BatchValues(slot);
             var skip = point.IsGamma ? rigid : 0;
-            stats.Observe(solver.Values, point.Reduced, skip);
-            scaleLambda = Math.Max(scaleLambda, solver.Values[n - 1]);
+            stats.Observe(values, point.Reduced, skip);
+            scaleLambda = Math.Max(scaleLambda, values[n - 1]);
             if (cached is not null)
             {
-                Array.Copy(solver.Values, 0, cached, visited * n, n);
+                values.CopyTo(cached.AsSpan((int)(visited * n), n));
             }
 
             visited++;
@@ -71,11 +70,11 @@ internal static class FiniteCrystalSolver
                 {
                     for (var w = 0; w < point.Weight; w++)
                     {
-                        store[storedCount++] = ModeSolver.SignedThz(solver.Values[k]);
+                        store[storedCount++] = ModeSolver.SignedThz(values[k]);
                     }
                 }
             }
-        }
+        }, ct);
 
         // Eigenvalues within the eigen-solver's round-off of zero (about 1e-14 of the largest) are
         // zero modes: a 1e7-cell chain's lowest mode (ratio ~1e-13) still counts as a mode.
@@ -97,31 +96,23 @@ internal static class FiniteCrystalSolver
             sink.PrepareBins(Math.Sqrt(scaleLambda), modes);
         }
 
-        visited = 0L;
-        foreach (var point in grid.HalfSet())
+        if (cached is not null)
         {
-            ct.ThrowIfCancellationRequested();
-            ReadOnlySpan<double> values;
-            if (cached is not null)
+            visited = 0L;
+            foreach (var point in grid.HalfSet())
             {
-                values = cached.AsSpan((int)(visited * n), n);
+                ct.ThrowIfCancellationRequested();
+                Collect(point, cached.AsSpan((int)(visited * n), n), -1);
+                visited++;
             }
-            else
-            {
-                var q = lattice.ToCartesianQ(point.Reduced);
-                if (wantVectors)
-                {
-                    solver.SolveWithVectors(q);
-                }
-                else
-                {
-                    solver.SolveValues(q);
-                }
+        }
+        else
+        {
+            solver.SolveHalfSet(grid, wantVectors, (in GridPoint point, int slot) => Collect(point, solver.BatchValues(slot), slot), ct);
+        }
 
-                values = solver.Values;
-            }
-
-            visited++;
+        void Collect(in GridPoint point, ReadOnlySpan<double> values, int slot)
+        {
             var skip = point.IsGamma ? rigid : 0;
             var weight = point.Weight * perCell;
             for (var k = skip; k < n; k++)
@@ -129,7 +120,7 @@ internal static class FiniteCrystalSolver
                 var lambda = values[k];
                 if (wantVectors)
                 {
-                    solver.ChannelFractions(k, fractions);
+                    solver.BatchChannelFractions(slot, k, fractions);
                     SumSites(fractions, siteFractions, crystal.Components);
                 }
 
