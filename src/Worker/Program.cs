@@ -1,3 +1,6 @@
+using System.Runtime.InteropServices;
+using LatticeSweep.Worker.Cli;
+
 namespace LatticeSweep.Worker;
 
 /// <summary>The <c>latsweep</c> command line.</summary>
@@ -5,7 +8,43 @@ internal static class Program
 {
     private static int Main(string[] args)
     {
-        Console.Error.WriteLine("latsweep: commands are being built");
-        return args.Length == 0 ? 2 : 2;
+        using var stop = new CancellationTokenSource();
+        Console.CancelKeyPress += (_, e) =>
+        {
+            // First Ctrl+C stops gracefully (running chunks finish or go back to the queue); a second one kills.
+            if (!stop.IsCancellationRequested)
+            {
+                e.Cancel = true;
+                stop.Cancel();
+            }
+        };
+        using var term = PosixSignalRegistration.Create(PosixSignal.SIGTERM, ctx =>
+        {
+            ctx.Cancel = true;
+            stop.Cancel();
+        });
+
+        try
+        {
+            return CliApp.Run(args, new CliContext
+            {
+                Stdout = Console.Out,
+                Stderr = Console.Error,
+                CurrentDirectory = Environment.CurrentDirectory,
+                StderrIsTerminal = !Console.IsErrorRedirected,
+                Stop = stop.Token,
+            });
+        }
+        catch (Exception ex) when (ex is not OutOfMemoryException)
+        {
+            // A defect, not the user's input: say what happened in one line; the log file has the details.
+            Serilog.Log.Logger.Fatal(ex, "latsweep stopped on an unexpected error");
+            Console.Error.WriteLine($"latsweep: unexpected error: {ex.GetType().Name}: {ex.Message}");
+            return ExitCodes.Internal;
+        }
+        finally
+        {
+            Serilog.Log.CloseAndFlush();
+        }
     }
 }

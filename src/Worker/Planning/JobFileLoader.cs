@@ -1,8 +1,40 @@
+using System.Collections.Immutable;
+using LatticeSweep.Worker.JobFiles;
+
 namespace LatticeSweep.Worker.Planning;
 
 /// <summary>Reads a job file, validates it and expands its sweep into a <see cref="SweepPlan"/>.</summary>
 public static class JobFileLoader
 {
-    /// <summary>Throws <see cref="JobFiles.JobFileException"/> listing every problem, located.</summary>
-    public static SweepPlan Load(string path) => throw new NotImplementedException("job-file loading is being built");
+    /// <summary>Throws <see cref="JobFileException"/> listing every problem, located.</summary>
+    public static SweepPlan Load(string path)
+    {
+        ArgumentNullException.ThrowIfNull(path);
+        string text;
+        try
+        {
+            text = File.ReadAllText(path);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException or ArgumentException or NotSupportedException)
+        {
+            var reason = e is FileNotFoundException or DirectoryNotFoundException ? "job file not found" : "cannot read the job file: " + e.Message;
+            throw new JobFileException(new JobFileProblem(path, 0, 0, "", reason));
+        }
+
+        return Load(path, text);
+    }
+
+    /// <summary>Plans job-file text; <paramref name="path"/> names it in messages and anchors relative candidate files.</summary>
+    internal static SweepPlan Load(string path, string text)
+    {
+        var problems = new ProblemCollector(path);
+        var document = TomlDocument.Parse(text, path, problems);
+        if (document is null)
+        {
+            problems.ThrowIfAny();
+            throw new JobFileException(new JobFileProblem(path, 0, 0, "", "the file could not be read as TOML"));
+        }
+
+        return SweepPlanner.Plan(document, text, problems);
+    }
 }

@@ -21,4 +21,13 @@ public sealed record SweepPlan
 
     /// <summary>A hash of the canonical spec: a sweep re-submitted unchanged has the same id.</summary>
     public required string SpecHash { get; init; }
+
+    /// <summary>Points that came out of the expansion twice with the same parameters and were kept once.</summary>
+    public int DuplicatePointsCollapsed { get; init; }
+
+    /// <summary>"grid", "zip", "latin_hypercube" or "random": how the axes were combined.</summary>
+    public string Combine { get; init; } = "grid";
+
+    /// <summary>The candidates file the sweep read, if any (its content is part of <see cref="SpecHash"/>).</summary>
+    public string? CandidatesFile { get; init; }
 }

@@ -1,0 +1,122 @@
+using System.Collections.Immutable;
+using System.Globalization;
+using System.Text.Json;
+using System.Text.Json.Nodes;
+using LatticeSweep.Worker.Planning;
+
+namespace LatticeSweep.Worker.Catalog;
+
+/// <summary>JSON forms of axes and point parameters as the catalog stores them, typed by the axes on the way back.</summary>
+internal static class CatalogJson
+{
+    public static string WriteAxes(IEnumerable<AxisInfo> axes)
+    {
+        var array = new JsonArray();
+        foreach (var axis in axes)
+        {
+            var values = new JsonArray();
+            foreach (var v in axis.Values)
+            {
+                values.Add(ToNode(v));
+            }
+
+            array.Add(new JsonObject
+            {
+                ["path"] = axis.Path,
+                ["column"] = axis.ColumnName,
+                ["unit"] = axis.Unit,
+                ["type"] = axis.ValueType.ToString().ToLowerInvariant(),
+                ["values"] = values,
+            });
+        }
+
+        return array.ToJsonString();
+    }
+
+    public static ImmutableArray<AxisInfo> ReadAxes(string json)
+    {
+        var result = ImmutableArray.CreateBuilder<AxisInfo>();
+        foreach (var node in JsonNode.Parse(json)!.AsArray())
+        {
+            var type = Enum.Parse<AxisValueType>((string)node!["type"]!, ignoreCase: true);
+            var values = node["values"]!.AsArray().Select(v => FromElement(v!, type)).ToImmutableArray();
+            result.Add(new AxisInfo((string)node["path"]!, (string)node["column"]!, (string)node["unit"]!, type, values));
+        }
+
+        return result.ToImmutable();
+    }
+
+    public static string WriteParameters(IReadOnlyDictionary<string, object> parameters)
+    {
+        var obj = new JsonObject();
+        foreach (var (key, value) in parameters)
+        {
+            obj[key] = ToNode(value);
+        }
+
+        return obj.ToJsonString();
+    }
+
+    public static ImmutableSortedDictionary<string, object> ReadParameters(string json, IReadOnlyDictionary<string, AxisValueType> types)
+    {
+        var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
+        foreach (var (key, node) in JsonNode.Parse(json)!.AsObject())
+        {
+            if (node is null)
+            {
+                continue;
+            }
+
+            var type = types.TryGetValue(key, out var t) ? t : Infer(node);
+            builder[key] = FromElement(node, type);
+        }
+
+        return builder.ToImmutable();
+    }
+
+    /// <summary>Text of a parameter value as shown to people and used to group coverage.</summary>
+    public static string Show(object value) => value switch
+    {
+        double d => d.ToString("R", CultureInfo.InvariantCulture),
+        float f => f.ToString("R", CultureInfo.InvariantCulture),
+        IFormattable x => x.ToString(null, CultureInfo.InvariantCulture),
+        _ => value.ToString() ?? "",
+    };
+
+    private static AxisValueType Infer(JsonNode node) =>
+        node.GetValueKind() switch
+        {
+            JsonValueKind.Number => node.ToJsonString().Contains('.', StringComparison.Ordinal) || node.ToJsonString().Contains('e', StringComparison.OrdinalIgnoreCase)
+                ? AxisValueType.Double
+                : AxisValueType.Integer,
+            _ => AxisValueType.Text,
+        };
+
+    private static JsonNode? ToNode(object? value) => value switch
+    {
+        null => null,
+        double d when double.IsFinite(d) => JsonValue.Create(d),
+        double d => JsonValue.Create(d.ToString("R", CultureInfo.InvariantCulture)),
+        float f => JsonValue.Create((double)f),
+        int i => JsonValue.Create((long)i),
+        long l => JsonValue.Create(l),
+        bool b => JsonValue.Create(b),
+        string s => JsonValue.Create(s),
+        IFormattable x => JsonValue.Create(x.ToString(null, CultureInfo.InvariantCulture)),
+        _ => JsonValue.Create(value.ToString()),
+    };
+
+    private static object FromElement(JsonNode node, AxisValueType type)
+    {
+        var kind = node.GetValueKind();
+        return type switch
+        {
+            AxisValueType.Double when kind == JsonValueKind.Number => node.GetValue<double>(),
+            AxisValueType.Double => double.Parse(node.ToString(), CultureInfo.InvariantCulture),
+            AxisValueType.Integer when kind == JsonValueKind.Number => node.GetValue<long>(),
+            AxisValueType.Integer => long.Parse(node.ToString(), CultureInfo.InvariantCulture),
+            _ when kind is JsonValueKind.True or JsonValueKind.False => node.GetValue<bool>() ? "true" : "false",
+            _ => node.GetValueKind() == JsonValueKind.String ? node.GetValue<string>() : node.ToJsonString(),
+        };
+    }
+}

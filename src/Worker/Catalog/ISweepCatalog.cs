@@ -1,0 +1,50 @@
+namespace LatticeSweep.Worker.Catalog;
+
+/// <summary>
+/// The sweep catalog: each sweep's and each point's state, kept in the queue's storage (the
+/// SQLite store file, or the PostgreSQL database). Workers write it; <c>latsweep status</c> and
+/// the dashboard read it. Every method is safe to call from several threads; on PostgreSQL also
+/// from several processes.
+/// </summary>
+public interface ISweepCatalog : IDisposable
+{
+    // ---- writes (the queue side) ----
+
+    /// <summary>Registers a planned sweep and its points; returns false (and changes nothing) when the sweep id exists.</summary>
+    bool Register(NewSweep sweep);
+
+    /// <summary>
+    /// Puts every point without a result (waiting, running, cancelled, or failed for an I/O or
+    /// input reason) back to waiting and the sweep back to queued; returns the chunks to enqueue.
+    /// </summary>
+    IReadOnlyList<string> RequeueUnfinished(string sweepId);
+
+    /// <summary>A worker starts a chunk: marks its points running and counts the attempt.</summary>
+    ChunkClaim BeginChunk(string sweepId, string chunkId, string workerName);
+
+    /// <summary>A worker finished a chunk (its part files are written): records each point's end.</summary>
+    ChunkCompletion CompleteChunk(string sweepId, string chunkId, IReadOnlyList<PointCompletion> points);
+
+    /// <summary>Cancels a sweep: waiting points become cancelled, running chunks finish. False when unknown.</summary>
+    bool Cancel(string sweepId);
+
+    // ---- reads (status, dashboard) ----
+
+    /// <summary>Every sweep, newest first, with counts.</summary>
+    IReadOnlyList<SweepRecord> ListSweeps();
+
+    /// <summary>One sweep with counts, by id or by unique name; null when there is none.</summary>
+    SweepRecord? FindSweep(string sweepIdOrName);
+
+    /// <summary>Points of a sweep in plan order, with parameters, state, errors and timing.</summary>
+    IReadOnlyList<PointRecord> GetPoints(string sweepId, PointQuery query);
+
+    /// <summary>Points of one chunk in plan order.</summary>
+    IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId);
+
+    /// <summary>Failed points grouped by reason, largest group first.</summary>
+    IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId);
+
+    /// <summary>For each swept parameter, point counts per value.</summary>
+    IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId);
+}

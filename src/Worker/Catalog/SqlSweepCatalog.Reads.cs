@@ -1,0 +1,262 @@
+using System.Collections.Immutable;
+using System.Data.Common;
+using LatticeSweep.Worker.Planning;
+
+namespace LatticeSweep.Worker.Catalog;
+
+/// <summary>The read side: what <c>status</c> and the dashboard show.</summary>
+public abstract partial class SqlSweepCatalog
+{
+    private const string SweepColumns = """
+        sweep_id, name, description, state, spec_hash, source_path, spec_text, output_folder, axes_json,
+        tables_csv, engine_version, created_ms, started_ms, finished_ms, chunk_count
+        """;
+
+    private const string PointColumns = """
+        sweep_id, point_id, point_index, chunk_id, state, failure_kind, error, parameters_json, attempts,
+        started_ms, finished_ms, duration_us, worker
+        """;
+
+    public IReadOnlyList<SweepRecord> ListSweeps()
+    {
+        using var c = Open();
+        var sweeps = ReadSweeps(c, $"SELECT {SweepColumns} FROM latsweep_sweeps ORDER BY created_ms DESC, sweep_id", []);
+        var counts = ReadAllCounts(c);
+        return sweeps.Select(s => s with { Counts = counts.GetValueOrDefault(s.SweepId, SweepCounts.Empty) }).ToList();
+    }
+
+    public SweepRecord? FindSweep(string sweepIdOrName)
+    {
+        using var c = Open();
+        var found = ReadSweeps(c, $"SELECT {SweepColumns} FROM latsweep_sweeps WHERE sweep_id = @key", [("key", sweepIdOrName)]);
+        if (found.Count == 0)
+        {
+            // By name: the newest sweep of that name.
+            found = ReadSweeps(c, $"SELECT {SweepColumns} FROM latsweep_sweeps WHERE name = @key ORDER BY created_ms DESC, sweep_id", [("key", sweepIdOrName)]);
+        }
+
+        if (found.Count == 0)
+        {
+            return null;
+        }
+
+        var sweep = found[0];
+        return sweep with { Counts = ReadCounts(c, null, sweep.SweepId) };
+    }
+
+    public IReadOnlyList<PointRecord> GetPoints(string sweepId, PointQuery query)
+    {
+        ArgumentNullException.ThrowIfNull(query);
+        using var c = Open();
+        var types = ReadAxisTypes(c, sweepId);
+        var where = query.State is { } s ? " AND state = @state" : "";
+        using var cmd = Command(c, null, $"""
+            SELECT {PointColumns} FROM latsweep_points WHERE sweep_id = @sweep{where}
+            ORDER BY point_index LIMIT @limit OFFSET @offset
+            """);
+        Add(cmd, "sweep", sweepId);
+        if (query.State is { } state)
+        {
+            Add(cmd, "state", Text(state));
+        }
+
+        Add(cmd, "limit", (long)Math.Max(0, query.Limit));
+        Add(cmd, "offset", (long)Math.Max(0, query.Offset));
+        return ReadPoints(cmd, types);
+    }
+
+    public IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId)
+    {
+        using var c = Open();
+        var types = ReadAxisTypes(c, sweepId);
+        using var cmd = Command(c, null, $"SELECT {PointColumns} FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk ORDER BY point_index");
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "chunk", chunkId);
+        return ReadPoints(cmd, types);
+    }
+
+    public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId)
+    {
+        using var c = Open();
+        using var cmd = Command(c, null, """
+            SELECT failure_kind, error, point_id FROM latsweep_points
+            WHERE sweep_id = @sweep AND state = @failed ORDER BY point_index
+            """);
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "failed", Text(PointState.Failed));
+        var groups = new Dictionary<(FailureKind, string), (long Count, List<string> Examples)>();
+        using (var r = cmd.ExecuteReader())
+        {
+            while (r.Read())
+            {
+                var kind = r.IsDBNull(0) ? FailureKind.Engine : ParseFailureKind(r.GetString(0));
+                var key = (kind, r.IsDBNull(1) ? "" : r.GetString(1));
+                if (!groups.TryGetValue(key, out var g))
+                {
+                    g = (0, []);
+                }
+
+                if (g.Examples.Count < 5)
+                {
+                    g.Examples.Add(r.GetString(2));
+                }
+
+                groups[key] = (g.Count + 1, g.Examples);
+            }
+        }
+
+        return groups
+            .Select(kv => new FailureGroup(kv.Key.Item1, kv.Key.Item2, kv.Value.Count, [.. kv.Value.Examples]))
+            .OrderByDescending(g => g.Count).ThenBy(g => g.Reason, StringComparer.Ordinal)
+            .ToList();
+    }
+
+    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId)
+    {
+        var sweep = FindSweep(sweepId);
+        if (sweep is null || sweep.SweepId != sweepId)
+        {
+            return [];
+        }
+
+        var points = GetPoints(sweepId, new PointQuery(Limit: int.MaxValue));
+        var result = new List<AxisCoverage>();
+        foreach (var axis in sweep.Axes)
+        {
+            var byValue = new Dictionary<string, (object Value, long Total, long Done, long Failed, long Pending, long Cancelled)>(StringComparer.Ordinal);
+            var order = new List<string>();
+            foreach (var v in axis.Values)
+            {
+                var key = CatalogJson.Show(v);
+                if (byValue.TryAdd(key, (v, 0, 0, 0, 0, 0)))
+                {
+                    order.Add(key);
+                }
+            }
+
+            foreach (var p in points)
+            {
+                if (!p.Parameters.TryGetValue(axis.ColumnName, out var value))
+                {
+                    continue;
+                }
+
+                var key = CatalogJson.Show(value);
+                if (!byValue.TryGetValue(key, out var e))
+                {
+                    e = (value, 0, 0, 0, 0, 0);
+                    order.Add(key);
+                }
+
+                byValue[key] = p.State switch
+                {
+                    PointState.Done => e with { Total = e.Total + 1, Done = e.Done + 1 },
+                    PointState.Failed => e with { Total = e.Total + 1, Failed = e.Failed + 1 },
+                    PointState.Cancelled => e with { Total = e.Total + 1, Cancelled = e.Cancelled + 1 },
+                    _ => e with { Total = e.Total + 1, Pending = e.Pending + 1 },
+                };
+            }
+
+            result.Add(new AxisCoverage(axis.ColumnName, axis.Path, axis.Unit,
+                [.. order.Select(k => byValue[k]).Select(e => new AxisValueCoverage(e.Value, e.Total, e.Done, e.Failed, e.Pending, e.Cancelled))]));
+        }
+
+        return result;
+    }
+
+    private static List<SweepRecord> ReadSweeps(DbConnection c, string sql, (string, object)[] parameters)
+    {
+        using var cmd = Command(c, null, sql);
+        foreach (var (name, value) in parameters)
+        {
+            Add(cmd, name, value);
+        }
+
+        using var r = cmd.ExecuteReader();
+        var list = new List<SweepRecord>();
+        while (r.Read())
+        {
+            list.Add(new SweepRecord
+            {
+                SweepId = r.GetString(0),
+                Name = r.GetString(1),
+                Description = r.GetString(2),
+                State = ParseSweepState(r.GetString(3)),
+                SpecHash = r.GetString(4),
+                SourcePath = r.GetString(5),
+                SpecText = r.GetString(6),
+                OutputFolder = r.GetString(7),
+                Axes = CatalogJson.ReadAxes(r.GetString(8)),
+                Tables = [.. r.GetString(9).Split(',', StringSplitOptions.RemoveEmptyEntries)],
+                EngineVersion = r.GetString(10),
+                CreatedAt = DateTimeOffset.FromUnixTimeMilliseconds(r.GetInt64(11)),
+                StartedAt = FromMs(r, 12),
+                FinishedAt = FromMs(r, 13),
+                ChunkCount = (int)r.GetInt64(14),
+                Counts = SweepCounts.Empty,
+            });
+        }
+
+        return list;
+    }
+
+    private static Dictionary<string, SweepCounts> ReadAllCounts(DbConnection c)
+    {
+        using var cmd = Command(c, null, "SELECT sweep_id, state, COUNT(*) FROM latsweep_points GROUP BY sweep_id, state");
+        using var r = cmd.ExecuteReader();
+        var map = new Dictionary<string, SweepCounts>(StringComparer.Ordinal);
+        while (r.Read())
+        {
+            var id = r.GetString(0);
+            var n = r.GetInt64(2);
+            var x = map.GetValueOrDefault(id, SweepCounts.Empty) with { };
+            x = ParsePointState(r.GetString(1)) switch
+            {
+                PointState.Waiting => x with { Waiting = x.Waiting + n },
+                PointState.Running => x with { Running = x.Running + n },
+                PointState.Done => x with { Done = x.Done + n },
+                PointState.Failed => x with { Failed = x.Failed + n },
+                _ => x with { Cancelled = x.Cancelled + n },
+            };
+            map[id] = x with { Total = x.Total + n };
+        }
+
+        return map;
+    }
+
+    private static Dictionary<string, AxisValueType> ReadAxisTypes(DbConnection c, string sweepId)
+    {
+        using var cmd = Command(c, null, "SELECT axes_json FROM latsweep_sweeps WHERE sweep_id = @sweep");
+        Add(cmd, "sweep", sweepId);
+        return cmd.ExecuteScalar() is string json
+            ? CatalogJson.ReadAxes(json).ToDictionary(a => a.ColumnName, a => a.ValueType, StringComparer.Ordinal)
+            : [];
+    }
+
+    private static List<PointRecord> ReadPoints(DbCommand cmd, Dictionary<string, AxisValueType> types)
+    {
+        using var r = cmd.ExecuteReader();
+        var list = new List<PointRecord>();
+        while (r.Read())
+        {
+            list.Add(new PointRecord
+            {
+                SweepId = r.GetString(0),
+                PointId = r.GetString(1),
+                Index = (int)r.GetInt64(2),
+                ChunkId = r.GetString(3),
+                State = ParsePointState(r.GetString(4)),
+                FailureKind = r.IsDBNull(5) ? null : ParseFailureKind(r.GetString(5)),
+                Error = r.IsDBNull(6) ? null : r.GetString(6),
+                Parameters = CatalogJson.ReadParameters(r.GetString(7), types),
+                Attempts = (int)r.GetInt64(8),
+                StartedAt = FromMs(r, 9),
+                FinishedAt = FromMs(r, 10),
+                DurationSeconds = r.IsDBNull(11) ? null : r.GetInt64(11) / 1e6,
+                Worker = r.IsDBNull(12) ? null : r.GetString(12),
+            });
+        }
+
+        return list;
+    }
+}

@@ -1,0 +1,331 @@
+using System.Collections.Immutable;
+using System.Data.Common;
+
+namespace LatticeSweep.Worker.Catalog;
+
+/// <summary>
+/// The catalog on a SQL database, written in the SQL that SQLite and PostgreSQL share
+/// (<c>INSERT ... ON CONFLICT</c>, <c>@name</c> parameters, BIGINT and TEXT columns). Each back-end
+/// supplies its connections and its way to serialise schema creation.
+/// </summary>
+/// <remarks>
+/// Concurrency: a chunk's points are updated in one transaction that then locks the sweep's row
+/// (an UPDATE, which both databases treat as a row or database write lock) before counting what is
+/// left, so when two chunks finish at once exactly one of them sees the sweep finished.
+/// </remarks>
+public abstract partial class SqlSweepCatalog : ISweepCatalog
+{
+    private readonly TimeProvider _time;
+
+    protected SqlSweepCatalog(TimeProvider time)
+    {
+        _time = time;
+    }
+
+    /// <summary>Opens a new connection (pooled by the provider).</summary>
+    protected abstract DbConnection Open();
+
+    /// <summary>Runs inside the schema transaction before the DDL (PostgreSQL takes an advisory lock so concurrent workers do not race).</summary>
+    protected virtual void BeforeSchema(DbConnection connection, DbTransaction transaction)
+    {
+    }
+
+    /// <summary>Creates the catalog tables when missing. Call once after construction.</summary>
+    protected void EnsureSchema()
+    {
+        using var c = Open();
+        using var tx = c.BeginTransaction();
+        BeforeSchema(c, tx);
+        foreach (var statement in CatalogSchema.Statements)
+        {
+            Execute(c, tx, statement);
+        }
+
+        tx.Commit();
+    }
+
+    public bool Register(NewSweep sweep)
+    {
+        ArgumentNullException.ThrowIfNull(sweep);
+        var duplicate = sweep.Points.GroupBy(p => p.PointId, StringComparer.Ordinal).FirstOrDefault(g => g.Count() > 1);
+        if (duplicate is not null)
+        {
+            throw new ArgumentException($"the plan has point id {duplicate.Key} more than once", nameof(sweep));
+        }
+
+        using var c = Open();
+        using var tx = c.BeginTransaction();
+        var inserted = Execute(c, tx, """
+            INSERT INTO latsweep_sweeps (sweep_id, name, description, state, spec_hash, source_path, spec_text,
+                output_folder, axes_json, tables_csv, engine_version, created_ms, started_ms, finished_ms, point_count, chunk_count)
+            VALUES (@id, @name, @description, @state, @hash, @source, @spec, @out, @axes, @tables, @engine, @now, NULL, NULL, @points, @chunks)
+            ON CONFLICT (sweep_id) DO NOTHING
+            """,
+            ("id", sweep.SweepId), ("name", sweep.Name), ("description", sweep.Description), ("state", Text(SweepState.Queued)),
+            ("hash", sweep.SpecHash), ("source", sweep.SourcePath), ("spec", sweep.SpecText), ("out", sweep.OutputFolder),
+            ("axes", CatalogJson.WriteAxes(sweep.Axes)), ("tables", string.Join(',', sweep.Tables)), ("engine", sweep.EngineVersion),
+            ("now", Ms(_time.GetUtcNow())), ("points", (long)sweep.Points.Length),
+            ("chunks", (long)sweep.Points.Select(p => p.ChunkId).Distinct(StringComparer.Ordinal).Count()));
+        if (inserted == 0)
+        {
+            tx.Rollback();
+            return false;
+        }
+
+        using (var insert = Command(c, tx, """
+            INSERT INTO latsweep_points (sweep_id, point_id, point_index, chunk_id, state, parameters_json, attempts)
+            VALUES (@sweep, @point, @index, @chunk, @state, @parameters, 0)
+            """))
+        {
+            var pSweep = Add(insert, "sweep", sweep.SweepId);
+            var pPoint = Add(insert, "point", "");
+            var pIndex = Add(insert, "index", 0L);
+            var pChunk = Add(insert, "chunk", "");
+            var pState = Add(insert, "state", Text(PointState.Waiting));
+            var pParameters = Add(insert, "parameters", "");
+            insert.Prepare();
+            foreach (var point in sweep.Points)
+            {
+                pPoint.Value = point.PointId;
+                pIndex.Value = (long)point.Index;
+                pChunk.Value = point.ChunkId;
+                pParameters.Value = CatalogJson.WriteParameters(point.Parameters);
+                insert.ExecuteNonQuery();
+            }
+
+            _ = pSweep;
+            _ = pState;
+        }
+
+        tx.Commit();
+        return true;
+    }
+
+    public IReadOnlyList<string> RequeueUnfinished(string sweepId)
+    {
+        using var c = Open();
+        using var tx = c.BeginTransaction();
+        var chunks = new List<string>();
+        using (var cmd = Command(c, tx, $"""
+            SELECT DISTINCT chunk_id FROM latsweep_points
+            WHERE sweep_id = @sweep AND NOT ({HasResultSql})
+            ORDER BY chunk_id
+            """))
+        {
+            Add(cmd, "sweep", sweepId);
+            using var r = cmd.ExecuteReader();
+            while (r.Read())
+            {
+                chunks.Add(r.GetString(0));
+            }
+        }
+
+        // The whole chunk goes back: its part files are rewritten as one (see ChunkRunner).
+        foreach (var chunk in chunks)
+        {
+            Execute(c, tx, """
+                UPDATE latsweep_points SET state = @waiting, failure_kind = NULL, error = NULL
+                WHERE sweep_id = @sweep AND chunk_id = @chunk
+                """,
+                ("waiting", Text(PointState.Waiting)), ("sweep", sweepId), ("chunk", chunk));
+        }
+
+        if (chunks.Count > 0)
+        {
+            Execute(c, tx, "UPDATE latsweep_sweeps SET state = @queued, finished_ms = NULL WHERE sweep_id = @sweep",
+                ("queued", Text(SweepState.Queued)), ("sweep", sweepId));
+        }
+
+        tx.Commit();
+        return chunks;
+    }
+
+    public ChunkClaim BeginChunk(string sweepId, string chunkId, string workerName)
+    {
+        using var c = Open();
+        using var tx = c.BeginTransaction();
+        var sweepState = ReadSweepState(c, tx, sweepId);
+        if (sweepState is null)
+        {
+            tx.Rollback();
+            return new ChunkClaim(ChunkDecision.Unknown, []);
+        }
+
+        var points = ReadChunkStates(c, tx, sweepId, chunkId);
+        if (points.Count == 0)
+        {
+            tx.Rollback();
+            return new ChunkClaim(ChunkDecision.Unknown, []);
+        }
+
+        if (sweepState == SweepState.Cancelled)
+        {
+            Execute(c, tx, """
+                UPDATE latsweep_points SET state = @cancelled
+                WHERE sweep_id = @sweep AND chunk_id = @chunk AND state IN (@waiting, @running)
+                """,
+                ("cancelled", Text(PointState.Cancelled)), ("sweep", sweepId), ("chunk", chunkId),
+                ("waiting", Text(PointState.Waiting)), ("running", Text(PointState.Running)));
+            tx.Commit();
+            return new ChunkClaim(ChunkDecision.Cancelled, []);
+        }
+
+        if (points.All(p => HasResult(p.State, p.Kind)))
+        {
+            tx.Rollback();
+            return new ChunkClaim(ChunkDecision.AlreadyFinished, []);
+        }
+
+        var now = Ms(_time.GetUtcNow());
+        Execute(c, tx, """
+            UPDATE latsweep_points SET state = @running, attempts = attempts + 1, started_ms = @now,
+                finished_ms = NULL, duration_us = NULL, failure_kind = NULL, error = NULL, worker = @worker
+            WHERE sweep_id = @sweep AND chunk_id = @chunk
+            """,
+            ("running", Text(PointState.Running)), ("now", now), ("worker", workerName), ("sweep", sweepId), ("chunk", chunkId));
+        var started = Execute(c, tx, """
+            UPDATE latsweep_sweeps SET state = @running, started_ms = COALESCE(started_ms, @now)
+            WHERE sweep_id = @sweep AND state = @queued
+            """,
+            ("running", Text(SweepState.Running)), ("now", now), ("sweep", sweepId), ("queued", Text(SweepState.Queued)));
+
+        var claimed = ImmutableArray.CreateBuilder<ClaimedPoint>();
+        using (var cmd = Command(c, tx, "SELECT point_id, attempts FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk ORDER BY point_index"))
+        {
+            Add(cmd, "sweep", sweepId);
+            Add(cmd, "chunk", chunkId);
+            using var r = cmd.ExecuteReader();
+            while (r.Read())
+            {
+                claimed.Add(new ClaimedPoint(r.GetString(0), (int)r.GetInt64(1)));
+            }
+        }
+
+        tx.Commit();
+        return new ChunkClaim(ChunkDecision.Run, claimed.ToImmutable(), SweepStarted: started > 0);
+    }
+
+    public ChunkCompletion CompleteChunk(string sweepId, string chunkId, IReadOnlyList<PointCompletion> points)
+    {
+        ArgumentNullException.ThrowIfNull(points);
+        using var c = Open();
+        using var tx = c.BeginTransaction();
+        using (var cmd = Command(c, tx, """
+            UPDATE latsweep_points SET state = @state, failure_kind = @kind, error = @error,
+                started_ms = @started, finished_ms = @finished, duration_us = @duration
+            WHERE sweep_id = @sweep AND chunk_id = @chunk AND point_id = @point
+            """))
+        {
+            Add(cmd, "sweep", sweepId);
+            Add(cmd, "chunk", chunkId);
+            var pState = Add(cmd, "state", "");
+            var pKind = Add(cmd, "kind", DBNull.Value);
+            var pError = Add(cmd, "error", DBNull.Value);
+            var pStarted = Add(cmd, "started", 0L);
+            var pFinished = Add(cmd, "finished", 0L);
+            var pDuration = Add(cmd, "duration", 0L);
+            var pPoint = Add(cmd, "point", "");
+            foreach (var p in points)
+            {
+                pState.Value = Text(p.State);
+                pKind.Value = p.FailureKind is { } k ? Text(k) : DBNull.Value;
+                pError.Value = (object?)p.Error ?? DBNull.Value;
+                pStarted.Value = Ms(p.StartedAt);
+                pFinished.Value = Ms(p.FinishedAt);
+                pDuration.Value = (long)Math.Round(p.DurationSeconds * 1e6);
+                pPoint.Value = p.PointId;
+                cmd.ExecuteNonQuery();
+            }
+        }
+
+        // Lock the sweep row, then count: see the class remarks.
+        Execute(c, tx, "UPDATE latsweep_sweeps SET sweep_id = sweep_id WHERE sweep_id = @sweep", ("sweep", sweepId));
+        var counts = ReadCounts(c, tx, sweepId);
+        var state = ReadSweepState(c, tx, sweepId) ?? SweepState.Queued;
+        var finishedNow = false;
+        if (counts.Unfinished == 0 && state is SweepState.Queued or SweepState.Running)
+        {
+            state = counts.Failed > 0 ? SweepState.Failed : SweepState.Done;
+            Execute(c, tx, "UPDATE latsweep_sweeps SET state = @state, finished_ms = @now WHERE sweep_id = @sweep",
+                ("state", Text(state)), ("now", Ms(_time.GetUtcNow())), ("sweep", sweepId));
+            finishedNow = true;
+        }
+
+        tx.Commit();
+        return new ChunkCompletion(state, counts, finishedNow);
+    }
+
+    public bool Cancel(string sweepId)
+    {
+        using var c = Open();
+        using var tx = c.BeginTransaction();
+        var updated = Execute(c, tx, "UPDATE latsweep_sweeps SET state = @cancelled, finished_ms = @now WHERE sweep_id = @sweep",
+            ("cancelled", Text(SweepState.Cancelled)), ("now", Ms(_time.GetUtcNow())), ("sweep", sweepId));
+        if (updated == 0)
+        {
+            tx.Rollback();
+            return false;
+        }
+
+        Execute(c, tx, "UPDATE latsweep_points SET state = @cancelled WHERE sweep_id = @sweep AND state = @waiting",
+            ("cancelled", Text(PointState.Cancelled)), ("sweep", sweepId), ("waiting", Text(PointState.Waiting)));
+        tx.Commit();
+        return true;
+    }
+
+    public virtual void Dispose()
+    {
+        GC.SuppressFinalize(this);
+    }
+
+    /// <summary>SQL condition: the point has its row in the results (done, or failed for a model or engine reason).</summary>
+    private static readonly string HasResultSql =
+        $"state = '{Text(PointState.Done)}' OR (state = '{Text(PointState.Failed)}' AND failure_kind IN ('{Text(FailureKind.Model)}', '{Text(FailureKind.Engine)}'))";
+
+    private static bool HasResult(PointState state, FailureKind? kind) =>
+        state == PointState.Done || (state == PointState.Failed && kind is { } k && k.HasResult());
+
+    private static SweepState? ReadSweepState(DbConnection c, DbTransaction? tx, string sweepId)
+    {
+        using var cmd = Command(c, tx, "SELECT state FROM latsweep_sweeps WHERE sweep_id = @sweep");
+        Add(cmd, "sweep", sweepId);
+        return cmd.ExecuteScalar() is string s ? ParseSweepState(s) : null;
+    }
+
+    private static List<(PointState State, FailureKind? Kind)> ReadChunkStates(DbConnection c, DbTransaction tx, string sweepId, string chunkId)
+    {
+        using var cmd = Command(c, tx, "SELECT state, failure_kind FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk");
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "chunk", chunkId);
+        using var r = cmd.ExecuteReader();
+        var list = new List<(PointState, FailureKind?)>();
+        while (r.Read())
+        {
+            list.Add((ParsePointState(r.GetString(0)), r.IsDBNull(1) ? null : ParseFailureKind(r.GetString(1))));
+        }
+
+        return list;
+    }
+
+    private static SweepCounts ReadCounts(DbConnection c, DbTransaction? tx, string sweepId)
+    {
+        using var cmd = Command(c, tx, "SELECT state, COUNT(*) FROM latsweep_points WHERE sweep_id = @sweep GROUP BY state");
+        Add(cmd, "sweep", sweepId);
+        using var r = cmd.ExecuteReader();
+        long waiting = 0, running = 0, done = 0, failed = 0, cancelled = 0;
+        while (r.Read())
+        {
+            var n = r.GetInt64(1);
+            switch (ParsePointState(r.GetString(0)))
+            {
+                case PointState.Waiting: waiting += n; break;
+                case PointState.Running: running += n; break;
+                case PointState.Done: done += n; break;
+                case PointState.Failed: failed += n; break;
+                case PointState.Cancelled: cancelled += n; break;
+            }
+        }
+
+        return new SweepCounts(waiting + running + done + failed + cancelled, waiting, running, done, failed, cancelled);
+    }
+}

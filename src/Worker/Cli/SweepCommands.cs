@@ -1,0 +1,201 @@
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Planning;
+using LatticeSweep.Worker.Queue;
+
+namespace LatticeSweep.Worker.Cli;
+
+/// <summary>The queue commands: run, submit, resume, work and cancel.</summary>
+internal static class SweepCommands
+{
+    public static int Run(CommandLine line, CliContext context)
+    {
+        var workers = line.IntOption("workers", WorkerPool.DefaultWorkers, 1, 1024);
+        var outRoot = OutRoot(line, context);
+        var plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
+        using var session = Session.Open(line, context);
+        var plans = new JobFilePlanSource();
+        var submitted = Submitter(session, context).Submit(plan, outRoot);
+        plans.Add(submitted.Sweep.SweepId, plan);
+        return WorkSweep(session, context, plans, submitted.Sweep.SweepId, workers);
+    }
+
+    public static int Submit(CommandLine line, CliContext context)
+    {
+        var outRoot = OutRoot(line, context);
+        var plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
+        using var session = Session.Open(line, context);
+        var submitted = Submitter(session, context).Submit(plan, outRoot);
+        var sweep = submitted.Sweep;
+        context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} chunks to run ({sweep.Counts.Unfinished} points without results).");
+        context.Stdout.WriteLine($"Results will be in {sweep.OutputFolder}");
+        context.Stdout.WriteLine($"Work it with: latsweep work{StoreHint(line)}");
+        return ExitCodes.Ok;
+    }
+
+    public static int Resume(CommandLine line, CliContext context)
+    {
+        var workers = line.IntOption("workers", WorkerPool.DefaultWorkers, 1, 1024);
+        using var session = Session.Open(line, context);
+        var sweep = session.Sweep(line.Arguments[0]);
+        var plans = new JobFilePlanSource();
+        plans.Get(sweep); // fails here, with its reason, rather than in every chunk
+        var resumed = Submitter(session, context).Resume(sweep);
+        if (line.Flag("queue-only"))
+        {
+            context.Stdout.WriteLine($"Sweep {sweep.SweepId}: {resumed.ChunksQueued} chunks queued again ({resumed.Sweep.Counts.Unfinished} points without results).");
+            return ExitCodes.Ok;
+        }
+
+        return WorkSweep(session, context, plans, sweep.SweepId, workers);
+    }
+
+    public static int Work(CommandLine line, CliContext context)
+    {
+        var workers = line.IntOption("workers", WorkerPool.DefaultWorkers, 1, 1024);
+        var stay = line.Flag("stay");
+        using var session = Session.Open(line, context);
+        var runner = Runner(session, context, new JobFilePlanSource());
+        var monitoring = session.Store.Storage.GetMonitoringApi();
+        var interrupted = false;
+        using (new WorkerPool(session.Store, runner, workers))
+        {
+            session.Log.Information("Working the queue of {Store} with {Workers} workers{Mode}",
+                session.Store.Location.Display, workers, stay ? " (staying until stopped)" : " until it is empty");
+            var idlePolls = 0;
+            while (true)
+            {
+                if (context.Stop.IsCancellationRequested)
+                {
+                    interrupted = true;
+                    break;
+                }
+
+                var waiting = monitoring.EnqueuedCount(ChunkJob.QueueName) + monitoring.ScheduledCount();
+                idlePolls = waiting == 0 && runner.ActiveChunks == 0 ? idlePolls + 1 : 0;
+
+                // Idle over a few polls: a chunk between leaving the queue and starting is not lost.
+                if (!stay && idlePolls >= 4)
+                {
+                    break;
+                }
+
+                context.Stop.WaitHandle.WaitOne(context.PollInterval);
+            }
+        }
+
+        context.Stdout.WriteLine(interrupted
+            ? "Stopped; unfinished chunks stay queued."
+            : $"The queue is empty. Points failed here: {runner.FailedPoints}.");
+        if (session.LogFile is not null)
+        {
+            context.Stdout.WriteLine($"Log: {session.LogFile}");
+        }
+
+        return interrupted ? ExitCodes.Interrupted : runner.FailedPoints > 0 ? ExitCodes.SomeFailed : ExitCodes.Ok;
+    }
+
+    public static int Cancel(CommandLine line, CliContext context)
+    {
+        using var session = Session.Open(line, context);
+        var sweep = session.Sweep(line.Arguments[0]);
+        session.Catalog.Cancel(sweep.SweepId);
+        var after = session.Catalog.FindSweep(sweep.SweepId)!;
+        TryWriteManifest(session, context, after);
+        session.Log.Information("Sweep {SweepId} cancelled: {Cancelled} points will not run", sweep.SweepId, after.Counts.Cancelled);
+        context.Stdout.WriteLine($"Sweep {sweep.SweepId} cancelled: {after.Counts.Cancelled} points will not run; chunks already running finish.");
+        context.Stdout.WriteLine($"Continue it later with: latsweep resume {sweep.SweepId}{StoreHint(line)}");
+        return ExitCodes.Ok;
+    }
+
+    private static int WorkSweep(Session session, CliContext context, IPlanSource plans, string sweepId, int workers)
+    {
+        var runner = Runner(session, context, plans);
+        var interrupted = false;
+        using (new WorkerPool(session.Store, runner, workers))
+        {
+            session.Log.Information("Working sweep {SweepId} with {Workers} workers", sweepId, workers);
+            while (true)
+            {
+                var sweep = session.Catalog.FindSweep(sweepId)!;
+                session.Progress.Update(sweep.Counts);
+                if (sweep.Counts.Unfinished == 0 || (sweep.State == SweepState.Cancelled && sweep.Counts.Running == 0))
+                {
+                    break;
+                }
+
+                if (context.Stop.IsCancellationRequested)
+                {
+                    interrupted = true;
+                    break;
+                }
+
+                context.Stop.WaitHandle.WaitOne(context.PollInterval);
+            }
+        }
+
+        session.Progress.Finish();
+        var final = session.Catalog.FindSweep(sweepId)!;
+        if (interrupted)
+        {
+            context.Stdout.WriteLine($"Interrupted: {final.Counts.Finished} of {final.Counts.Total} points finished. Continue with: latsweep resume {sweepId}");
+            return ExitCodes.Interrupted;
+        }
+
+        PrintSummary(session, context, final);
+        return final.Counts.Done == final.Counts.Total ? ExitCodes.Ok : ExitCodes.SomeFailed;
+    }
+
+    private static void PrintSummary(Session session, CliContext context, SweepRecord sweep)
+    {
+        var o = context.Stdout;
+        var took = sweep.StartedAt is { } s && sweep.FinishedAt is { } f ? $" in {ProgressDisplay.FormatDuration(f - s)}" : "";
+        o.WriteLine($"Sweep {sweep.SweepId} {sweep.State.ToString().ToLowerInvariant()}: {sweep.Counts.Total} points, {sweep.Counts.Done} done, {sweep.Counts.Failed} failed, {sweep.Counts.Cancelled} cancelled{took}.");
+        var groups = session.Catalog.GetFailureGroups(sweep.SweepId);
+        if (groups.Count > 0)
+        {
+            o.WriteLine("Failures by reason:");
+            foreach (var g in groups.Take(5))
+            {
+                o.WriteLine($"  {g.Count} x {g.Kind.ToString().ToLowerInvariant()}: {g.Reason}");
+            }
+
+            if (groups.Count > 5)
+            {
+                o.WriteLine($"  ... {groups.Count - 5} more reasons: latsweep status {sweep.SweepId}");
+            }
+        }
+
+        o.WriteLine($"Results: {sweep.OutputFolder}");
+        o.WriteLine($"  tables {string.Join(", ", sweep.Tables.Select(t => t + "/"))} and sweep.json");
+        o.WriteLine($"  e.g. duckdb -c \"SELECT * FROM read_parquet('{Path.Combine(sweep.OutputFolder, "points", "*.parquet")}')\"");
+        if (session.LogFile is not null)
+        {
+            o.WriteLine($"Log: {session.LogFile}");
+        }
+    }
+
+    private static ChunkRunner Runner(Session session, CliContext context, IPlanSource plans) =>
+        new(session.Catalog, plans, context.Solver, context.Time, session.Log, context.Retry, ChunkRunner.DefaultWorkerName);
+
+    private static SweepSubmitter Submitter(Session session, CliContext context) =>
+        new(session.Store, context.Solver, context.Chunks, context.Time, session.Log);
+
+    private static string OutRoot(CommandLine line, CliContext context) =>
+        CliApp.PathIn(context, line.Option("out") ?? "results");
+
+    private static string StoreHint(CommandLine line) =>
+        line.Option("store") is { } s ? $" --store \"{s}\"" : "";
+
+    private static void TryWriteManifest(Session session, CliContext context, SweepRecord sweep)
+    {
+        try
+        {
+            SweepManifest.Write(sweep, context.Time.GetUtcNow());
+        }
+        catch (Exception ex) when (RetryPolicy.IsTransient(ex))
+        {
+            session.Log.Warning("Sweep {SweepId}: sweep.json could not be rewritten: {Error}", sweep.SweepId, ex.Message);
+        }
+    }
+}

@@ -1,0 +1,37 @@
+namespace LatticeSweep.Worker.Cli;
+
+/// <summary>The text of <c>latsweep --help</c>.</summary>
+internal static class Usage
+{
+    public const string Text = """
+        latsweep: batch lattice-vibration sweeps on a durable queue, results as Parquet datasets.
+
+        Usage:
+          latsweep run FILE [--out DIR] [--store STORE] [--workers N]
+                plan the job file, queue it and work it on this machine until done
+          latsweep check FILE          validate a job file and print the plan
+          latsweep solve FILE          solve the job file's model once and print its summary
+          latsweep submit FILE [--out DIR] [--store STORE]
+                plan and queue a sweep for workers (does not work on it)
+          latsweep work [--store STORE] [--workers N] [--stay]
+                work queued chunks until the queue is empty (--stay: keep waiting for more)
+          latsweep status [SWEEP] [--store STORE]
+                list sweeps, or show one sweep's counts, failures and coverage
+          latsweep cancel SWEEP [--store STORE]
+                stop a sweep: waiting points are not run
+          latsweep resume SWEEP [--store STORE] [--workers N] [--queue-only]
+                queue again every point without results and work them (--queue-only: just queue)
+
+        Options:
+          --out DIR       output root; each sweep gets a folder DIR/<sweep id> (default ./results)
+          --store STORE   queue and catalog: a file path for the embedded SQLite store
+                          (default ./.latsweep/store.db; one worker process at a time), or a
+                          PostgreSQL connection string (Host=...;Database=... or postgres://...)
+                          for workers on several machines
+          --workers N     worker threads, one point at a time each (default: the number of cores)
+
+        SWEEP is a sweep id (as printed by run, submit and status) or a sweep name.
+        Exit codes: 0 all points done, 2 bad input, 3 some points failed, 130 interrupted.
+        Results are model estimates: check them against measurements before design decisions.
+        """;
+}

@@ -1,0 +1,110 @@
+using System.Globalization;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Results;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Worker.JobFiles;
+using LatticeSweep.Worker.Planning;
+
+namespace LatticeSweep.Worker.Commands;
+
+/// <summary>
+/// <c>latsweep solve FILE</c>: solves one model at once (the first point of the sweep, which is the
+/// unswept model when there are no axes) and prints its summary as a table with units.
+/// Exit codes: 0 solved, 2 bad input, 3 the model cannot be solved (with the reason).
+/// </summary>
+public static class SolveCommand
+{
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr)
+    {
+        ArgumentNullException.ThrowIfNull(stdout);
+        ArgumentNullException.ThrowIfNull(stderr);
+        SweepPlan plan;
+        try
+        {
+            plan = JobFileLoader.Load(jobFile);
+        }
+        catch (JobFileException e)
+        {
+            stderr.WriteLine(e.Message);
+            return 2;
+        }
+
+        var point = plan.Points[0];
+        PointResult result;
+        try
+        {
+            var request = PointBinder.Bind(plan, point);
+            result = PhononSolver.Solve(request.Model, request.Sample, request.Options);
+        }
+        catch (ModelException e)
+        {
+            stderr.WriteLine($"{jobFile}: the model cannot be solved:");
+            stderr.WriteLine(e.Message);
+            return 3;
+        }
+
+        stdout.WriteLine($"Sweep  {plan.SweepName}");
+        stdout.WriteLine(plan.Points.Length > 1
+            ? $"Point  {point.PointId}, the first of {plan.Points.Length} ({Parameters(point)})"
+            : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
+        stdout.WriteLine();
+        SummaryTable(result.Summary).WriteTo(stdout);
+        return 0;
+    }
+
+    internal static TextTable SummaryTable(PointSummary s)
+    {
+        var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
+        t.Add("dimension", I(s.Dimension), "");
+        t.Add("sites per cell", I(s.SitesPerCell), "");
+        t.Add("branches", I(s.BranchCount), "");
+        t.Add("sample", s.SampleKind, "");
+        t.Add(s.SampleKind == "finite" ? "cells" : "mesh wave vectors", I(s.CellsOrMeshPoints), "");
+        t.Add("wave vectors solved", I(s.QPointsSolved), "");
+        t.Add("modes", I(s.ModeCount), "");
+        t.Add("rigid modes excluded", I(s.RigidModesExcluded), "");
+        t.Add("stable", s.Stable ? "yes" : "NO", "");
+        if (s.WorstQReduced is { } q)
+        {
+            t.Add("worst wave vector (reduced)", q.ToString(), "");
+        }
+
+        t.Add("highest frequency", D(s.MaxFrequencyThz), "THz");
+        t.Add("lowest frequency", D(s.MinFrequencyThz), "THz");
+        foreach (var gap in s.Gaps)
+        {
+            t.Add("band gap", $"{D(gap.LowerThz)} - {D(gap.UpperThz)}", "THz");
+        }
+
+        foreach (var speed in s.SoundSpeeds)
+        {
+            t.Add($"sound speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(D)), "m/s");
+        }
+
+        t.Add("reference temperature", D(s.ReferenceTemperatureK), "K");
+        t.Add("heat capacity Cv", D(s.HeatCapacityJPerMolK), "J/(mol K)");
+        t.Add("entropy S", D(s.EntropyJPerMolK), "J/(mol K)");
+        t.Add("free energy F", D(s.FreeEnergyJPerMol), "J/mol");
+        t.Add("internal energy U", D(s.InternalEnergyJPerMol), "J/mol");
+        t.Add("zero-point energy", D(s.ZeroPointEnergyJPerMol), "J/mol");
+        t.Add("Debye temperature from Cv", D(s.DebyeTemperatureFromCvK), "K");
+        t.Add("Debye temperature, moment -2", D(s.DebyeTemperatureMomentMinus2K), "K");
+        t.Add("Debye temperature, log moment", D(s.DebyeTemperatureMomentLogK), "K");
+        t.Add("Debye temperature, moment 2", D(s.DebyeTemperatureMoment2K), "K");
+        t.Add("molar mass (mean per atom)", D(s.MolarMassKgPerMol * 1000), "g/mol");
+        if (!double.IsNaN(s.KappaWPerMK) || !double.IsNaN(s.KappaMinWPerMK))
+        {
+            t.Add("thermal conductivity (estimate)", D(s.KappaWPerMK), "W/(m K)");
+            t.Add("minimum conductivity (Cahill-Pohl-Watson)", D(s.KappaMinWPerMK), "W/(m K)");
+        }
+
+        return t;
+    }
+
+    private static string Parameters(PlannedPoint point) =>
+        string.Join(", ", point.Parameters.Select(p => $"{p.Key} = {Convert.ToString(p.Value, CultureInfo.InvariantCulture)}"));
+
+    private static string I(long v) => v.ToString(CultureInfo.InvariantCulture);
+
+    private static string D(double v) => double.IsNaN(v) ? "n/a" : v.ToString("G6", CultureInfo.InvariantCulture);
+}

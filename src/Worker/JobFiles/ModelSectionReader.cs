@@ -1,0 +1,399 @@
+using System.Collections.Immutable;
+using LatticeSweep.Engine.Builders;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Springs;
+using LatticeSweep.Worker.Planning.Specs;
+using Tomlyn.Model;
+
+namespace LatticeSweep.Worker.JobFiles;
+
+/// <summary>Reads <c>[model]</c>: a lattice with sites and springs, or <c>[model.layers]</c>, or <c>[model.elastic]</c>.</summary>
+internal static class ModelSectionReader
+{
+    public const int MaxShell = 50;
+
+    private static readonly string[] LatticeKeys = ["lattice", "constant_nm", "c_nm", "vectors_nm", "motion", "shell_tolerance_nm", "sites", "springs", "bonds"];
+    private static readonly string[] SiteKeys = ["label", "kind", "position", "mass_amu", "element"];
+    private static readonly string[] SpringKeys = ["from", "to", "shell", "longitudinal_n_per_m", "transverse_n_per_m"];
+    private static readonly string[] BondKeys = ["from", "to", "cell", "longitudinal_n_per_m", "transverse_n_per_m", "tensor_n_per_m"];
+    private static readonly string[] LayerKeys = ["host", "spacing_nm", "sites_per_cell", "count_a", "mass_a_amu", "mass_b_amu", "masses_amu", "longitudinal_n_per_m", "transverse_n_per_m"];
+    private static readonly string[] ElasticKeys = ["lattice", "constant_nm", "element", "mass_amu", "c11_gpa", "c12_gpa", "c44_gpa", "next_nearest"];
+
+    public static ModelSpec? Read(TableReader model)
+    {
+        var motion = model.String("motion", allowed: [.. Names.Motions.Keys]) is { } m ? Names.Motions[m] : DegreesOfFreedom.Cartesian;
+        var hasLayers = model.Has("layers");
+        var hasElastic = model.Has("elastic");
+        if (hasLayers || hasElastic)
+        {
+            var builder = hasLayers ? "layers" : "elastic";
+            var clash = model.Table.Keys.Where(k => k != "motion" && k != builder).ToList();
+            foreach (var key in clash)
+            {
+                model.Error(key, $"[model.{builder}] builds the whole model; remove '{key}' (or remove [model.{builder}])");
+            }
+
+            if (clash.Count > 0)
+            {
+                return null;
+            }
+
+            return hasLayers
+                ? ReadLayers(model.SubTable("layers", required: true), motion)
+                : ReadElastic(model.SubTable("elastic", required: true), motion);
+        }
+
+        return ReadLattice(model, motion);
+    }
+
+    private static LatticeModelSpec? ReadLattice(TableReader model, DegreesOfFreedom motion)
+    {
+        model.RejectUnknown([.. LatticeKeys, "layers", "elastic"]);
+        var before = model.Problems.Count;
+        var latticeName = model.String("lattice", required: true, allowed: [.. Names.Lattices.Keys]);
+        var kind = latticeName is null ? LatticeKind.Chain : Names.Lattices[latticeName];
+        double constant = 0;
+        double? c = null;
+        var vectors = ImmutableArray<Vec3>.Empty;
+        if (kind == LatticeKind.Explicit)
+        {
+            vectors = ReadVectors(model);
+            foreach (var key in new[] { "constant_nm", "c_nm" })
+            {
+                if (model.Has(key))
+                {
+                    model.Error(key, "an explicit lattice takes its lengths from vectors_nm; remove this key");
+                }
+            }
+        }
+        else if (latticeName is not null)
+        {
+            constant = model.Double("constant_nm", required: true, check: Checks.Positive) ?? 1;
+            if (model.Has("vectors_nm"))
+            {
+                model.Error("vectors_nm", "only lattice = \"explicit\" takes vectors_nm");
+            }
+
+            if (model.Has("c_nm") && kind != LatticeKind.Hexagonal)
+            {
+                model.Error("c_nm", "only lattice = \"hexagonal\" takes c_nm (it makes the lattice 3D)");
+            }
+            else
+            {
+                c = model.Double("c_nm", check: Checks.Positive);
+            }
+        }
+
+        var tolerance = model.Double("shell_tolerance_nm", check: Checks.Positive) ?? CrystalModel.DefaultShellToleranceNm;
+        var dimension = kind switch
+        {
+            LatticeKind.Chain => 1,
+            LatticeKind.Square => 2,
+            LatticeKind.Hexagonal => c is null ? 2 : 3,
+            LatticeKind.Explicit => Math.Max(1, vectors.Length),
+            _ => 3,
+        };
+
+        var siteTables = model.TableList("sites", required: true);
+        if (model.Has("sites") && siteTables.Count == 0 && model.Problems.Count == before)
+        {
+            model.Error("sites", "the basis needs at least one site");
+        }
+
+        var sites = ReadSites(siteTables, dimension);
+        var springs = ReadSprings(model.TableList("springs"), sites, motion);
+        var bonds = ReadBonds(model.TableList("bonds"), sites, dimension, motion);
+        if (model.Problems.Count > before)
+        {
+            return null;
+        }
+
+        return new LatticeModelSpec
+        {
+            Motion = motion,
+            Lattice = kind,
+            ConstantNm = constant,
+            CNm = c,
+            VectorsNm = vectors,
+            ShellToleranceNm = tolerance,
+            Sites = sites,
+            Springs = springs,
+            Bonds = bonds,
+        };
+    }
+
+    private static ImmutableArray<Vec3> ReadVectors(TableReader model)
+    {
+        var raw = model.Array("vectors_nm", required: true);
+        if (raw is null)
+        {
+            return [];
+        }
+
+        if (raw.Count is < 1 or > 3)
+        {
+            model.Error("vectors_nm", $"give 1, 2 or 3 lattice vectors, got {raw.Count}");
+            return [];
+        }
+
+        var vectors = new List<Vec3>();
+        for (var i = 0; i < raw.Count; i++)
+        {
+            if (raw[i] is not TomlArray v || v.Count is < 1 or > 3)
+            {
+                model.Problems.Add(model.Where("vectors_nm"), $"model.vectors_nm[{i}]", "each lattice vector is an array of 1 to 3 numbers (nm), e.g. [0.5, 0, 0]");
+                continue;
+            }
+
+            var xyz = new double[3];
+            for (var k = 0; k < v.Count; k++)
+            {
+                xyz[k] = model.ToDouble(v[k], $"vectors_nm[{i}][{k}]", locateKey: "vectors_nm") ?? 0;
+            }
+
+            vectors.Add(new Vec3(xyz[0], xyz[1], xyz[2]));
+        }
+
+        return [.. vectors];
+    }
+
+    private static ImmutableArray<SiteSpec> ReadSites(IReadOnlyList<TableReader> tables, int dimension)
+    {
+        var sites = new List<SiteSpec>();
+        var labels = new HashSet<string>(StringComparer.Ordinal);
+        foreach (var t in tables)
+        {
+            t.RejectUnknown(SiteKeys);
+            var label = t.String("label", required: true);
+            if (label is not null && (label.Length == 0 || !labels.Add(label)))
+            {
+                t.Error("label", label.Length == 0 ? "a site label must not be empty" : $"label '{label}' is used by two sites; labels must be unique");
+            }
+
+            var element = t.String("element");
+            if (element is not null && Names.CheckElement(element) is { } bad)
+            {
+                t.Error("element", bad);
+            }
+
+            var mass = t.Double("mass_amu", check: Checks.Positive);
+            if (!t.Has("mass_amu") && !t.Has("element"))
+            {
+                t.TableError("give mass_amu (amu) or element (a symbol such as \"Si\") for every site");
+            }
+
+            var kind = t.String("kind") ?? element ?? label ?? "";
+            var position = t.DoubleList("position", maxCount: 3) ?? [];
+            if (position.Count > dimension)
+            {
+                t.Error("position", $"a {dimension}D lattice takes {dimension} fractional coordinate(s), got {position.Count}");
+            }
+
+            sites.Add(new SiteSpec(label ?? "", kind, new Vec3(At(position, 0), At(position, 1), At(position, 2)), mass, element));
+        }
+
+        return [.. sites];
+    }
+
+    private static ImmutableArray<ShellSpring> ReadSprings(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites, DegreesOfFreedom motion)
+    {
+        var kinds = sites.Select(s => s.Kind).Distinct(StringComparer.Ordinal).ToList();
+        var springs = new List<ShellSpring>();
+        foreach (var t in tables)
+        {
+            t.RejectUnknown(SpringKeys);
+            var from = ReadReference(t, "from", kinds, "kind");
+            var to = ReadReference(t, "to", kinds, "kind");
+            var shell = (int)(t.Integer("shell", 1, MaxShell) ?? 1);
+            var longitudinal = t.Double("longitudinal_n_per_m", required: true) ?? 0;
+            var transverse = t.Double("transverse_n_per_m") ?? 0;
+            if (motion == DegreesOfFreedom.Scalar && t.Has("transverse_n_per_m"))
+            {
+                t.Error("transverse_n_per_m", "the scalar model uses longitudinal constants only; remove this key or use motion = \"3d\"");
+            }
+
+            springs.Add(new ShellSpring(from ?? "", to ?? "", shell, longitudinal, transverse));
+        }
+
+        return [.. springs];
+    }
+
+    private static ImmutableArray<BondSpring> ReadBonds(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites, int dimension, DegreesOfFreedom motion)
+    {
+        var labels = sites.Select(s => s.Label).ToList();
+        var bonds = new List<BondSpring>();
+        foreach (var t in tables)
+        {
+            t.RejectUnknown(BondKeys);
+            var from = ReadReference(t, "from", labels, "site label");
+            var to = ReadReference(t, "to", labels, "site label");
+            var cell = t.IntegerList("cell", -1000, 1000, maxCount: 3) ?? [];
+            if (cell.Count > dimension)
+            {
+                t.Error("cell", $"a {dimension}D lattice takes {dimension} cell offset(s), got {cell.Count}");
+            }
+
+            var offset = new IntVec3((int)At(cell, 0), (int)At(cell, 1), (int)At(cell, 2));
+            if (from is not null && from == to && offset == IntVec3.Zero)
+            {
+                t.Error("cell", "a bond from a site to itself needs a non-zero cell offset");
+            }
+
+            foreach (var key in new[] { "transverse_n_per_m", "tensor_n_per_m" })
+            {
+                if (motion == DegreesOfFreedom.Scalar && t.Has(key))
+                {
+                    t.Error(key, "the scalar model couples by longitudinal constants only; use longitudinal_n_per_m or motion = \"3d\"");
+                }
+            }
+
+            Matrix3? tensor = null;
+            if (t.Has("tensor_n_per_m"))
+            {
+                if (t.Has("longitudinal_n_per_m") || t.Has("transverse_n_per_m"))
+                {
+                    t.Error("tensor_n_per_m", "give either tensor_n_per_m or longitudinal_n_per_m/transverse_n_per_m, not both");
+                }
+
+                var nine = t.DoubleList("tensor_n_per_m", minCount: 9, maxCount: 9);
+                if (nine is not null)
+                {
+                    tensor = Matrix3.FromRows(nine);
+                    var scale = Math.Max(1e-300, nine.Max(Math.Abs));
+                    if (Math.Abs(nine[1] - nine[3]) > 1e-9 * scale || Math.Abs(nine[2] - nine[6]) > 1e-9 * scale || Math.Abs(nine[5] - nine[7]) > 1e-9 * scale)
+                    {
+                        t.Error("tensor_n_per_m", "the force-constant tensor must be symmetric (row by row: xy = yx, xz = zx, yz = zy)");
+                    }
+                }
+
+                bonds.Add(new BondSpring(from ?? "", to ?? "", offset, 0, 0, tensor));
+                continue;
+            }
+
+            var longitudinal = t.Double("longitudinal_n_per_m", required: true) ?? 0;
+            var transverse = t.Double("transverse_n_per_m") ?? 0;
+            bonds.Add(new BondSpring(from ?? "", to ?? "", offset, longitudinal, transverse));
+        }
+
+        return [.. bonds];
+    }
+
+    private static string? ReadReference(TableReader t, string key, IReadOnlyList<string> known, string what)
+    {
+        var name = t.String(key, required: true);
+        if (name is not null && !known.Contains(name, StringComparer.Ordinal))
+        {
+            t.Error(key, $"no site has {what} '{name}'; " + KeySuggestions.Hint(name, known.ToList()));
+            return null;
+        }
+
+        return name;
+    }
+
+    private static LayeredSpec? ReadLayers(TableReader? t, DegreesOfFreedom motion)
+    {
+        if (t is null)
+        {
+            return null;
+        }
+
+        var before = t.Problems.Count;
+        t.RejectUnknown(LayerKeys);
+        var host = t.String("host", required: true, allowed: [.. Names.Hosts.Keys]);
+        var spacing = t.Double("spacing_nm", required: true, check: Checks.Positive);
+        var r = t.Integer("sites_per_cell", 1, LayeredModelBuilder.MaxSitesPerCell, required: true);
+        var twoBlocks = t.Has("count_a") || t.Has("mass_a_amu") || t.Has("mass_b_amu");
+        int? countA = null;
+        double? massA = null, massB = null;
+        IReadOnlyList<double>? masses = null;
+        if (twoBlocks && t.Has("masses_amu"))
+        {
+            t.Error("masses_amu", "give either masses_amu (a repeated sequence) or count_a with mass_a_amu and mass_b_amu, not both");
+        }
+        else if (twoBlocks)
+        {
+            countA = (int?)t.Integer("count_a", 0, LayeredModelBuilder.MaxSitesPerCell, required: true);
+            massA = t.Double("mass_a_amu", required: true, check: Checks.Positive);
+            massB = t.Double("mass_b_amu", required: true, check: Checks.Positive);
+            if (countA is { } a && r is { } rr && a > rr)
+            {
+                t.Error("count_a", $"count_a ({a}) must not exceed sites_per_cell ({rr})");
+            }
+        }
+        else
+        {
+            masses = t.DoubleList("masses_amu", required: true, check: Checks.Positive);
+        }
+
+        var longitudinal = t.Double("longitudinal_n_per_m", required: true);
+        var transverse = t.Double("transverse_n_per_m") ?? 0;
+        if (t.Problems.Count > before)
+        {
+            return null;
+        }
+
+        return new LayeredSpec
+        {
+            Motion = motion,
+            Host = Names.Hosts[host!],
+            SpacingNm = spacing!.Value,
+            SitesPerCell = (int)r!.Value,
+            CountA = countA,
+            MassAAmu = massA,
+            MassBAmu = massB,
+            MassesAmu = masses is null ? [] : [.. masses],
+            LongitudinalNPerM = longitudinal!.Value,
+            TransverseNPerM = transverse,
+        };
+    }
+
+    private static ElasticSpec? ReadElastic(TableReader? t, DegreesOfFreedom motion)
+    {
+        if (t is null)
+        {
+            return null;
+        }
+
+        var before = t.Problems.Count;
+        t.RejectUnknown(ElasticKeys);
+        var lattice = t.String("lattice", required: true, allowed: [.. Names.CubicLattices.Keys]);
+        var constant = t.Double("constant_nm", required: true, check: Checks.Positive);
+        var element = t.String("element");
+        if (element is not null && Names.CheckElement(element) is { } bad)
+        {
+            t.Error("element", bad);
+        }
+
+        var mass = t.Double("mass_amu", check: Checks.Positive);
+        if (!t.Has("element") && !t.Has("mass_amu"))
+        {
+            t.TableError("give mass_amu (amu) or element (a symbol such as \"Cu\")");
+        }
+
+        var c11 = t.Double("c11_gpa", required: true, check: Checks.Positive);
+        var c12 = t.Double("c12_gpa", required: true);
+        var c44 = t.Double("c44_gpa", required: true, check: Checks.Positive);
+        var nextNearest = t.Bool("next_nearest") ?? true;
+        if (t.Problems.Count > before)
+        {
+            return null;
+        }
+
+        return new ElasticSpec
+        {
+            Motion = motion,
+            Lattice = Names.CubicLattices[lattice!],
+            ConstantNm = constant!.Value,
+            MassAmu = mass,
+            Element = element,
+            C11Gpa = c11!.Value,
+            C12Gpa = c12!.Value,
+            C44Gpa = c44!.Value,
+            NextNearest = nextNearest,
+        };
+    }
+
+    private static double At(IReadOnlyList<double> list, int i) => i < list.Count ? list[i] : 0;
+
+    private static long At(IReadOnlyList<long> list, int i) => i < list.Count ? list[i] : 0;
+}

@@ -1,0 +1,47 @@
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Planning;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// Writes all part files of one chunk. A chunk's parts are its commit: the catalog marks the
+/// chunk's points finished only after this returns, so a chunk interrupted before that is run
+/// again as a whole and its parts are replaced, never appended to.
+/// </summary>
+public static class ChunkOutputWriter
+{
+    public static async Task WriteAsync(SweepRecord sweep, OutputSelection outputs, string chunkId, IReadOnlyList<PointOutcome> outcomes, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(sweep);
+        var schemas = new ResultSchemas(sweep.Axes);
+        var metadata = new Dictionary<string, string>
+        {
+            ["latticesweep.sweep_id"] = sweep.SweepId,
+            ["latticesweep.chunk_id"] = chunkId,
+            ["latticesweep.engine_version"] = outcomes.Count > 0 ? outcomes[0].EngineVersion : sweep.EngineVersion,
+        };
+        foreach (var rows in ChunkTables.Build(schemas, outputs, outcomes))
+        {
+            // A table with no rows in this chunk still gets an empty part: it carries the schema, so
+            // every listed table folder exists and a reader's glob over it works (and a stale part
+            // from an earlier run of the chunk is replaced).
+            var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
+            var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
+            await ParquetPartWriter.WriteAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false);
+        }
+    }
+
+    /// <summary>The output selection that a sweep's table list stands for.</summary>
+    public static OutputSelection OutputsOf(SweepRecord sweep)
+    {
+        ArgumentNullException.ThrowIfNull(sweep);
+        var t = sweep.Tables;
+        return new OutputSelection(
+            Dos: t.Contains(TableNames.Dos),
+            Thermal: t.Contains(TableNames.Thermal),
+            Dispersion: t.Contains(TableNames.Dispersion),
+            Modes: t.Contains(TableNames.Modes),
+            Displacements: t.Contains(TableNames.Displacements),
+            CumulativeKappa: t.Contains(TableNames.CumulativeKappa));
+    }
+}

@@ -1,0 +1,84 @@
+using LatticeSweep.Engine.Transport;
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Planning;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>Turns a chunk's point outcomes into the rows of every table the sweep writes.</summary>
+internal static class ChunkTables
+{
+    public static IReadOnlyList<TableRows> Build(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> outcomes)
+    {
+        // Points without a result row (I/O or input failures) are left out: resume runs them again.
+        var rowed = outcomes.Where(o => o.State == PointState.Done || (o.State == PointState.Failed && o.FailureKind is { } k && k.HasResult())).ToList();
+        var solved = rowed.Where(o => o.Result is not null).ToList();
+        var tables = new List<TableRows>
+        {
+            schemas.Points.Rows(rowed),
+            schemas.SoundSpeeds.Rows(solved.SelectMany(o => o.Result!.Summary.SoundSpeeds.SelectMany(s =>
+                s.SpeedsMPerS.Select((v, i) => new RowOf<SoundSpeedValue>(o, new SoundSpeedValue(s.Direction, i, v)))))),
+        };
+
+        if (outputs.Dos)
+        {
+            tables.Add(schemas.Dos.Rows(solved.SelectMany(DosRows)));
+        }
+
+        if (outputs.Thermal)
+        {
+            tables.Add(schemas.Thermal.Rows(solved.SelectMany(ThermalRows)));
+        }
+
+        if (outputs.Dispersion)
+        {
+            tables.Add(schemas.Dispersion.Rows(solved.SelectMany(o => o.Result!.Dispersion.Select(d => new RowOf<Engine.Results.DispersionRow>(o, d)))));
+        }
+
+        if (outputs.Modes)
+        {
+            tables.Add(schemas.Modes.Rows(solved.SelectMany(o => o.Result!.Modes.Select(m => new RowOf<Engine.Results.ModeLevel>(o, m)))));
+        }
+
+        if (outputs.Displacements)
+        {
+            tables.Add(schemas.Displacements.Rows(solved.SelectMany(o => o.Result!.Displacements.Select(d => new RowOf<Engine.Results.DisplacementRow>(o, d)))));
+        }
+
+        if (outputs.CumulativeKappa)
+        {
+            tables.Add(schemas.CumulativeKappa.Rows(solved.SelectMany(o => (o.Result!.Conductivity?.CumulativeByMeanFreePath ?? []).Select(m => new RowOf<MeanFreePathRow>(o, m)))));
+        }
+
+        return tables;
+    }
+
+    /// <summary>Each thermal row with the conductivity at the same temperature (the Engine lists both in the order of the temperatures asked for).</summary>
+    private static IEnumerable<RowOf<ThermalValue>> ThermalRows(PointOutcome o)
+    {
+        var thermal = o.Result!.Thermal;
+        var kappa = o.Result.Conductivity?.ByTemperature ?? [];
+        for (var i = 0; i < thermal.Length; i++)
+        {
+            var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
+            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k));
+        }
+    }
+
+    private static IEnumerable<RowOf<DosValue>> DosRows(PointOutcome o)
+    {
+        var dos = o.Result!.Dos;
+        for (var i = 0; i < dos.FrequencyThz.Length; i++)
+        {
+            yield return new RowOf<DosValue>(o, new DosValue(null, dos.FrequencyThz[i], dos.Total[i]));
+        }
+
+        for (var site = 0; site < dos.PartialBySite.Length; site++)
+        {
+            var curve = dos.PartialBySite[site];
+            for (var i = 0; i < dos.FrequencyThz.Length && i < curve.Length; i++)
+            {
+                yield return new RowOf<DosValue>(o, new DosValue(site, dos.FrequencyThz[i], curve[i]));
+            }
+        }
+    }
+}

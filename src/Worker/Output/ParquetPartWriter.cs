@@ -1,0 +1,127 @@
+using System.Text.Json;
+using Parquet;
+using Parquet.Schema;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// Writes one table's rows for one chunk as <c>&lt;table&gt;/part-&lt;chunk&gt;.parquet</c>: first to a
+/// hidden temporary file in the same folder, flushed to disk, then renamed over the final name.
+/// The rename is atomic, so a reader sees either the old part or the new one, never half a file;
+/// and because the name is the chunk id, a chunk that runs twice (a repeated queue delivery, a
+/// resume) replaces its own part instead of adding a second copy of its rows.
+/// </summary>
+internal static class ParquetPartWriter
+{
+    /// <summary>Key of the file-level metadata entry that maps every column to its unit (JSON object).</summary>
+    public const string UnitsKey = "latticesweep.units";
+
+    public static string PartFileName(string chunkId) => $"part-{chunkId}.parquet";
+
+    public static async Task WriteAsync(string tableFolder, string chunkId, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    {
+        Directory.CreateDirectory(tableFolder);
+        var final = Path.Combine(tableFolder, PartFileName(chunkId));
+        RemoveStaleTemporaries(tableFolder, chunkId);
+        var temporary = Path.Combine(tableFolder, $".part-{chunkId}.{Guid.NewGuid():N}.tmp");
+        try
+        {
+            await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None))
+            {
+                await WriteParquetAsync(stream, rows, metadata, ct).ConfigureAwait(false);
+                stream.Flush(flushToDisk: true);
+            }
+
+            File.Move(temporary, final, overwrite: true);
+        }
+        catch
+        {
+            TryDelete(temporary);
+            throw;
+        }
+    }
+
+    /// <summary>Removes a chunk's part of a table (when a new run of the chunk has no rows for it).</summary>
+    public static void Remove(string tableFolder, string chunkId)
+    {
+        var final = Path.Combine(tableFolder, PartFileName(chunkId));
+        if (File.Exists(final))
+        {
+            File.Delete(final);
+        }
+    }
+
+    public static string UnitsJson(IEnumerable<ColumnDef> columns) =>
+        JsonSerializer.Serialize(columns.ToDictionary(c => c.Name, c => c.Unit));
+
+    private static async Task WriteParquetAsync(Stream stream, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    {
+        var fields = rows.Columns.Select(Field).ToArray();
+        var schema = new ParquetSchema(fields);
+        await using var writer = await ParquetWriter.CreateAsync(schema, stream, cancellationToken: ct).ConfigureAwait(false);
+        var meta = new Dictionary<string, string>(metadata) { [UnitsKey] = UnitsJson(rows.Columns) };
+        writer.CustomMetadata = meta;
+        using var group = writer.CreateRowGroup();
+        for (var c = 0; c < fields.Length; c++)
+        {
+            var column = c;
+            var field = fields[c];
+            switch (rows.Columns[c].Type)
+            {
+                case ColumnType.Text:
+                    await group.WriteAsync(field, rows.Rows.Select(r => (string?)r[column]).ToArray()!).ConfigureAwait(false);
+                    break;
+                case ColumnType.Double:
+                    await group.WriteAsync<double>(field, rows.Rows.Select(r => r[column] is null ? (double?)null : Convert.ToDouble(r[column], System.Globalization.CultureInfo.InvariantCulture)).ToArray(), cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                case ColumnType.Int32:
+                    await group.WriteAsync<int>(field, rows.Rows.Select(r => r[column] is null ? (int?)null : Convert.ToInt32(r[column], System.Globalization.CultureInfo.InvariantCulture)).ToArray(), cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                case ColumnType.Int64:
+                    await group.WriteAsync<long>(field, rows.Rows.Select(r => r[column] is null ? (long?)null : Convert.ToInt64(r[column], System.Globalization.CultureInfo.InvariantCulture)).ToArray(), cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                case ColumnType.Bool:
+                    await group.WriteAsync<bool>(field, rows.Rows.Select(r => (bool?)r[column]).ToArray(), cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                case ColumnType.Timestamp:
+                    await group.WriteAsync<DateTime>(field, rows.Rows.Select(r => r[column] is DateTimeOffset t ? t.UtcDateTime : (DateTime?)null).ToArray(), cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                default:
+                    throw new InvalidOperationException($"unknown column type {rows.Columns[c].Type}");
+            }
+        }
+    }
+
+    private static DataField Field(ColumnDef def) => def.Type switch
+    {
+        ColumnType.Text => new DataField<string>(def.Name, nullable: true),
+        ColumnType.Double => new DataField<double?>(def.Name),
+        ColumnType.Int32 => new DataField<int?>(def.Name),
+        ColumnType.Int64 => new DataField<long?>(def.Name),
+        ColumnType.Bool => new DataField<bool?>(def.Name),
+        ColumnType.Timestamp => new DateTimeDataField(def.Name, DateTimeFormat.Timestamp, isAdjustedToUTC: true, unit: DateTimeTimeUnit.Millis, isNullable: true),
+        _ => throw new InvalidOperationException($"unknown column type {def.Type}"),
+    };
+
+    private static void RemoveStaleTemporaries(string folder, string chunkId)
+    {
+        foreach (var stale in Directory.EnumerateFiles(folder, $".part-{chunkId}.*.tmp"))
+        {
+            TryDelete(stale);
+        }
+    }
+
+    private static void TryDelete(string path)
+    {
+        try
+        {
+            File.Delete(path);
+        }
+        catch (IOException)
+        {
+        }
+        catch (UnauthorizedAccessException)
+        {
+        }
+    }
+}

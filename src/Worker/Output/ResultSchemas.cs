@@ -1,0 +1,285 @@
+using System.Collections.Immutable;
+using LatticeSweep.Engine.Results;
+using LatticeSweep.Engine.Transport;
+using LatticeSweep.Worker.Planning;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>A point's outcome paired with one item of its result (one DOS bin, one thermal row, ...).</summary>
+internal sealed record RowOf<T>(PointOutcome Outcome, T Item);
+
+/// <summary>One DOS value: <see cref="Site"/> is null for the total curve.</summary>
+internal sealed record DosValue(int? Site, double FrequencyThz, double Density);
+
+/// <summary>One sound speed: direction, branch (slowest first) and speed.</summary>
+internal sealed record SoundSpeedValue(string Direction, int Branch, double SpeedMPerS);
+
+/// <summary>Thermal functions at one temperature and, when computed, the conductivity at the same temperature.</summary>
+internal sealed record ThermalValue(ThermalRow Thermal, ConductivityRow? Conductivity);
+
+/// <summary>
+/// Every result table's columns, names carrying their units. Each table starts with
+/// <c>point_id</c> and the swept parameters (so each table can be filtered without a join).
+/// To add a column: add it here; writers, the manifest and the units metadata follow.
+/// </summary>
+internal sealed class ResultSchemas
+{
+    public ResultSchemas(IReadOnlyList<AxisInfo> axes)
+    {
+        ArgumentNullException.ThrowIfNull(axes);
+        Points = new TableSpec<PointOutcome>(TableNames.Points, [.. PointHead<PointOutcome>(axes, includeRunColumns: true, o => o), .. SummaryColumns()]);
+        SoundSpeeds = Spec<SoundSpeedValue>(TableNames.SoundSpeeds, axes,
+            C<RowOf<SoundSpeedValue>>("direction", ColumnType.Text, "", "direction of propagation", r => r.Item.Direction),
+            C<RowOf<SoundSpeedValue>>("branch", ColumnType.Int32, "", "acoustic branch, slowest first (0-based)", r => r.Item.Branch),
+            C<RowOf<SoundSpeedValue>>("speed_m_per_s", ColumnType.Double, "m/s", "sound speed from the acoustic slope at q = 0", r => r.Item.SpeedMPerS));
+        Dos = Spec<DosValue>(TableNames.Dos, axes,
+            C<RowOf<DosValue>>("curve", ColumnType.Text, "", "total, or site for a partial density of states", r => r.Item.Site is null ? "total" : "site"),
+            C<RowOf<DosValue>>("site", ColumnType.Int32, "", "basis site (0-based); empty for the total", r => r.Item.Site),
+            C<RowOf<DosValue>>("freq_thz", ColumnType.Double, "THz", "bin centre frequency", r => r.Item.FrequencyThz),
+            C<RowOf<DosValue>>("dos_per_thz_per_cell", ColumnType.Double, "1/(THz cell)", "states per THz per cell; the total integrates to the branch count", r => r.Item.Density));
+        Thermal = Spec<ThermalValue>(TableNames.Thermal, axes, ThermalColumns());
+        Dispersion = Spec<DispersionRow>(TableNames.Dispersion, axes,
+            C<RowOf<DispersionRow>>("path_index", ColumnType.Int32, "", "index of the q point along the path", r => r.Item.PathIndex),
+            C<RowOf<DispersionRow>>("path_position_per_nm", ColumnType.Double, "1/nm", "distance travelled along the path in reciprocal space", r => r.Item.PathPositionPerNm),
+            C<RowOf<DispersionRow>>("corner_label", ColumnType.Text, "", "label when the q point is a path corner", r => r.Item.CornerLabel),
+            C<RowOf<DispersionRow>>("qx_per_nm", ColumnType.Double, "1/nm", "wave vector x", r => r.Item.QxPerNm),
+            C<RowOf<DispersionRow>>("qy_per_nm", ColumnType.Double, "1/nm", "wave vector y", r => r.Item.QyPerNm),
+            C<RowOf<DispersionRow>>("qz_per_nm", ColumnType.Double, "1/nm", "wave vector z", r => r.Item.QzPerNm),
+            C<RowOf<DispersionRow>>("branch", ColumnType.Int32, "", "branch, lowest first (0-based)", r => r.Item.Branch),
+            C<RowOf<DispersionRow>>("freq_thz", ColumnType.Double, "THz", "frequency", r => r.Item.FrequencyThz),
+            C<RowOf<DispersionRow>>("group_velocity_x_m_per_s", ColumnType.Double, "m/s", "group velocity x", r => r.Item.GroupVelocityXMPerS),
+            C<RowOf<DispersionRow>>("group_velocity_y_m_per_s", ColumnType.Double, "m/s", "group velocity y", r => r.Item.GroupVelocityYMPerS),
+            C<RowOf<DispersionRow>>("group_velocity_z_m_per_s", ColumnType.Double, "m/s", "group velocity z", r => r.Item.GroupVelocityZMPerS));
+        Modes = Spec<ModeLevel>(TableNames.Modes, axes,
+            C<RowOf<ModeLevel>>("freq_thz", ColumnType.Double, "THz", "a distinct mode frequency of the finite crystal", r => r.Item.FrequencyThz),
+            C<RowOf<ModeLevel>>("multiplicity", ColumnType.Int64, "", "modes sharing this frequency", r => r.Item.Multiplicity));
+        Displacements = Spec<DisplacementRow>(TableNames.Displacements, axes,
+            C<RowOf<DisplacementRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
+            C<RowOf<DisplacementRow>>("site", ColumnType.Int32, "", "basis site (0-based)", r => r.Item.Site),
+            C<RowOf<DisplacementRow>>("site_label", ColumnType.Text, "", "basis site label", r => r.Item.SiteLabel),
+            C<RowOf<DisplacementRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x", r => r.Item.MsdXNm2),
+            C<RowOf<DisplacementRow>>("msd_y_nm2", ColumnType.Double, "nm^2", "mean-square displacement along y", r => r.Item.MsdYNm2),
+            C<RowOf<DisplacementRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "mean-square displacement along z", r => r.Item.MsdZNm2));
+        CumulativeKappa = Spec<MeanFreePathRow>(TableNames.CumulativeKappa, axes,
+            C<RowOf<MeanFreePathRow>>("temperature_k", ColumnType.Double, "K", "the reference temperature the accumulation is taken at", r => r.Outcome.Result?.Conductivity?.ReferenceTemperatureK),
+            C<RowOf<MeanFreePathRow>>("mfp_nm", ColumnType.Double, "nm", "phonon mean free path |v| tau (upper edge of a log bin, 10 per decade)", r => r.Item.MeanFreePathNm),
+            C<RowOf<MeanFreePathRow>>("kappa_cumulative_w_per_m_k", ColumnType.Double, "W/(m K)", "conductivity carried by modes with a mean free path up to mfp_nm (mean over the lattice's directions)", r => r.Item.CumulativeKappaWPerMK),
+            C<RowOf<MeanFreePathRow>>("kappa_fraction", ColumnType.Double, "1", "that part as a fraction of the whole", r => r.Item.CumulativeFraction));
+    }
+
+    public TableSpec<PointOutcome> Points { get; }
+    public TableSpec<RowOf<SoundSpeedValue>> SoundSpeeds { get; }
+    public TableSpec<RowOf<DosValue>> Dos { get; }
+    public TableSpec<RowOf<ThermalValue>> Thermal { get; }
+    public TableSpec<RowOf<DispersionRow>> Dispersion { get; }
+    public TableSpec<RowOf<ModeLevel>> Modes { get; }
+    public TableSpec<RowOf<DisplacementRow>> Displacements { get; }
+    public TableSpec<RowOf<MeanFreePathRow>> CumulativeKappa { get; }
+
+    /// <summary>Columns of a table by name (for the manifest and the units metadata).</summary>
+    public IReadOnlyList<ColumnDef> ColumnsOf(string table) => table switch
+    {
+        TableNames.Points => Points.Defs,
+        TableNames.SoundSpeeds => SoundSpeeds.Defs,
+        TableNames.Dos => Dos.Defs,
+        TableNames.Thermal => Thermal.Defs,
+        TableNames.Dispersion => Dispersion.Defs,
+        TableNames.Modes => Modes.Defs,
+        TableNames.Displacements => Displacements.Defs,
+        TableNames.CumulativeKappa => CumulativeKappa.Defs,
+        _ => throw new ArgumentException($"no table named {table}", nameof(table)),
+    };
+
+    /// <summary>The column name a swept parameter gets: its own, unless a fixed column already has it.</summary>
+    public static string AxisColumnName(AxisInfo axis, ISet<string> reserved) =>
+        reserved.Contains(axis.ColumnName) ? "axis_" + axis.ColumnName : axis.ColumnName;
+
+    private static TableColumn<T> C<T>(string name, ColumnType type, string unit, string description, Func<T, object?> get) =>
+        new(new ColumnDef(name, type, unit, description), get);
+
+    private static TableSpec<RowOf<T>> Spec<T>(string name, IReadOnlyList<AxisInfo> axes, params TableColumn<RowOf<T>>[] own) =>
+        new(name, [.. PointHead<RowOf<T>>(axes, includeRunColumns: false, r => r.Outcome, own.Select(c => c.Def.Name)), .. own]);
+
+    private static IEnumerable<TableColumn<T>> PointHead<T>(IReadOnlyList<AxisInfo> axes, bool includeRunColumns, Func<T, PointOutcome> outcome, IEnumerable<string>? ownNames = null)
+    {
+        yield return C<T>("point_id", ColumnType.Text, "", "stable id of the point (a hash of its parameters)", r => outcome(r).Point.PointId);
+        // A swept parameter keeps one column name in every table: names taken by the points
+        // table's own columns are reserved everywhere (a swept `sample.kind` becomes `axis_sample_kind`).
+        var reserved = new HashSet<string>(StringComparer.Ordinal) { "point_id" };
+        foreach (var c in RunColumns<T>(outcome))
+        {
+            reserved.Add(c.Def.Name);
+            if (includeRunColumns)
+            {
+                yield return c;
+            }
+        }
+
+        foreach (var c in SummaryColumns())
+        {
+            reserved.Add(c.Def.Name);
+        }
+
+        foreach (var n in ownNames ?? [])
+        {
+            reserved.Add(n);
+        }
+
+        foreach (var axis in axes)
+        {
+            var name = AxisColumnName(axis, reserved);
+            var type = axis.ValueType switch
+            {
+                AxisValueType.Double => ColumnType.Double,
+                AxisValueType.Integer => ColumnType.Int64,
+                _ => ColumnType.Text,
+            };
+            var key = axis.ColumnName;
+            yield return C<T>(name, type, axis.Unit, $"swept parameter {axis.Path}",
+                r => outcome(r).Point.Parameters.TryGetValue(key, out var v) ? AxisValue(v, type) : null);
+        }
+    }
+
+    private static object? AxisValue(object value, ColumnType type) => type switch
+    {
+        ColumnType.Double => Convert.ToDouble(value, System.Globalization.CultureInfo.InvariantCulture),
+        ColumnType.Int64 => Convert.ToInt64(value, System.Globalization.CultureInfo.InvariantCulture),
+        _ => Catalog.CatalogJson.Show(value),
+    };
+
+    private static IEnumerable<TableColumn<T>> RunColumns<T>(Func<T, PointOutcome> o) =>
+    [
+        C<T>("point_index", ColumnType.Int64, "", "position of the point in the plan", r => (long)o(r).Point.Index),
+        C<T>("chunk_id", ColumnType.Text, "", "the queue chunk (and part file) that wrote this row", r => o(r).ChunkId),
+        C<T>("state", ColumnType.Text, "", "done or failed", r => o(r).State.ToString().ToLowerInvariant()),
+        C<T>("failure_kind", ColumnType.Text, "", "model or engine, for a failed point", r => o(r).FailureKind?.ToString().ToLowerInvariant()),
+        C<T>("error", ColumnType.Text, "", "why the point failed", r => o(r).Error),
+        C<T>("attempt", ColumnType.Int32, "", "how many times this point was started (1 = first run)", r => o(r).Attempt),
+        C<T>("started_at", ColumnType.Timestamp, "UTC", "when the point started", r => o(r).StartedAt),
+        C<T>("finished_at", ColumnType.Timestamp, "UTC", "when the point ended", r => o(r).FinishedAt),
+        C<T>("duration_s", ColumnType.Double, "s", "time the point took", r => o(r).DurationSeconds),
+        C<T>("engine_version", ColumnType.Text, "", "version of the solver that computed the row", r => o(r).EngineVersion),
+    ];
+
+    private static IEnumerable<TableColumn<PointOutcome>> SummaryColumns()
+    {
+        static PointSummary? S(PointOutcome o) => o.Result?.Summary;
+        static BandGap? Largest(PointOutcome o) =>
+            S(o) is { Gaps.Length: > 0 } s ? s.Gaps.MaxBy(g => g.WidthThz) : null;
+        static BandGap? Lowest(PointOutcome o) =>
+            S(o) is { Gaps.Length: > 0 } s ? s.Gaps.MinBy(g => g.LowerThz) : null;
+        static double[] Speeds(PointOutcome o) =>
+            S(o) is { } s ? [.. s.SoundSpeeds.SelectMany(x => x.SpeedsMPerS).Where(double.IsFinite)] : [];
+        static double? PerKg(PointOutcome o, Func<PointSummary, double> perMol) =>
+            S(o) is { } s ? perMol(s) * ThermalScale.PerKgFactor(s.MolarMassKgPerMol) : null;
+        static double? PerCell(PointOutcome o, Func<PointSummary, double> perMol) =>
+            S(o) is { } s ? perMol(s) * ThermalScale.PerCellFactor(s.SitesPerCell) : null;
+
+        return
+        [
+            C<PointOutcome>("dimension", ColumnType.Int32, "", "lattice dimension", o => S(o)?.Dimension),
+            C<PointOutcome>("sites_per_cell", ColumnType.Int32, "", "basis sites per primitive cell", o => S(o)?.SitesPerCell),
+            C<PointOutcome>("branch_count", ColumnType.Int32, "", "phonon branches", o => S(o)?.BranchCount),
+            C<PointOutcome>("sample_kind", ColumnType.Text, "", "finite or bulk", o => S(o)?.SampleKind),
+            C<PointOutcome>("cells_or_mesh_points", ColumnType.Int64, "", "cells of a finite crystal, or wave vectors of a bulk mesh", o => S(o)?.CellsOrMeshPoints),
+            C<PointOutcome>("q_points_solved", ColumnType.Int64, "", "wave vectors diagonalised", o => S(o)?.QPointsSolved),
+            C<PointOutcome>("mode_count", ColumnType.Int64, "", "modes in the calculation", o => S(o)?.ModeCount),
+            C<PointOutcome>("rigid_modes_excluded", ColumnType.Int32, "", "zero-frequency translations left out of thermal sums", o => S(o)?.RigidModesExcluded),
+            C<PointOutcome>("max_freq_thz", ColumnType.Double, "THz", "highest frequency", o => S(o)?.MaxFrequencyThz),
+            C<PointOutcome>("min_freq_thz", ColumnType.Double, "THz", "lowest frequency (negative for an unstable model)", o => S(o)?.MinFrequencyThz),
+            C<PointOutcome>("stable", ColumnType.Bool, "", "no negative eigenvalue beyond round-off", o => S(o)?.Stable),
+            C<PointOutcome>("worst_q_reduced_x", ColumnType.Double, "reduced", "reduced wave vector of the worst instability", o => S(o)?.WorstQReduced?.X),
+            C<PointOutcome>("worst_q_reduced_y", ColumnType.Double, "reduced", "reduced wave vector of the worst instability", o => S(o)?.WorstQReduced?.Y),
+            C<PointOutcome>("worst_q_reduced_z", ColumnType.Double, "reduced", "reduced wave vector of the worst instability", o => S(o)?.WorstQReduced?.Z),
+            C<PointOutcome>("gap_count", ColumnType.Int32, "", "band gaps found", o => S(o)?.Gaps.Length),
+            C<PointOutcome>("largest_gap_lower_thz", ColumnType.Double, "THz", "lower edge of the widest gap", o => Largest(o)?.LowerThz),
+            C<PointOutcome>("largest_gap_upper_thz", ColumnType.Double, "THz", "upper edge of the widest gap", o => Largest(o)?.UpperThz),
+            C<PointOutcome>("largest_gap_width_thz", ColumnType.Double, "THz", "width of the widest gap", o => Largest(o)?.WidthThz),
+            C<PointOutcome>("lowest_gap_lower_thz", ColumnType.Double, "THz", "lower edge of the lowest gap", o => Lowest(o)?.LowerThz),
+            C<PointOutcome>("lowest_gap_upper_thz", ColumnType.Double, "THz", "upper edge of the lowest gap", o => Lowest(o)?.UpperThz),
+            C<PointOutcome>("sound_direction_count", ColumnType.Int32, "", "directions with sound speeds (each in sound_speeds/)", o => S(o)?.SoundSpeeds.Length),
+            C<PointOutcome>("sound_speed_min_m_per_s", ColumnType.Double, "m/s", "slowest sound speed over directions and branches", o => Speeds(o) is { Length: > 0 } v ? v.Min() : null),
+            C<PointOutcome>("sound_speed_mean_m_per_s", ColumnType.Double, "m/s", "mean sound speed over directions and branches", o => Speeds(o) is { Length: > 0 } v ? v.Average() : null),
+            C<PointOutcome>("sound_speed_max_m_per_s", ColumnType.Double, "m/s", "fastest sound speed over directions and branches", o => Speeds(o) is { Length: > 0 } v ? v.Max() : null),
+            C<PointOutcome>("reference_temperature_k", ColumnType.Double, "K", "temperature of the summary thermal numbers", o => S(o)?.ReferenceTemperatureK),
+            C<PointOutcome>("cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity per mole of atoms", o => S(o)?.HeatCapacityJPerMolK),
+            C<PointOutcome>("cv_j_per_kg_k", ColumnType.Double, "J/(kg K)", "heat capacity per kg", o => PerKg(o, s => s.HeatCapacityJPerMolK)),
+            C<PointOutcome>("cv_j_per_cell_k", ColumnType.Double, "J/(cell K)", "heat capacity per primitive cell", o => PerCell(o, s => s.HeatCapacityJPerMolK)),
+            C<PointOutcome>("entropy_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy per mole of atoms", o => S(o)?.EntropyJPerMolK),
+            C<PointOutcome>("entropy_j_per_kg_k", ColumnType.Double, "J/(kg K)", "entropy per kg", o => PerKg(o, s => s.EntropyJPerMolK)),
+            C<PointOutcome>("free_energy_j_per_mol", ColumnType.Double, "J/mol", "Helmholtz free energy per mole of atoms", o => S(o)?.FreeEnergyJPerMol),
+            C<PointOutcome>("internal_energy_j_per_mol", ColumnType.Double, "J/mol", "internal energy per mole of atoms", o => S(o)?.InternalEnergyJPerMol),
+            C<PointOutcome>("zero_point_energy_j_per_mol", ColumnType.Double, "J/mol", "zero-point energy per mole of atoms", o => S(o)?.ZeroPointEnergyJPerMol),
+            C<PointOutcome>("debye_temperature_from_cv_k", ColumnType.Double, "K", "Debye temperature whose Debye Cv equals Cv at the reference temperature", o => S(o)?.DebyeTemperatureFromCvK),
+            C<PointOutcome>("debye_temperature_moment_minus2_k", ColumnType.Double, "K", "Debye temperature from the n = -2 frequency moment", o => S(o)?.DebyeTemperatureMomentMinus2K),
+            C<PointOutcome>("debye_temperature_moment_log_k", ColumnType.Double, "K", "Debye temperature from the logarithmic moment", o => S(o)?.DebyeTemperatureMomentLogK),
+            C<PointOutcome>("debye_temperature_moment_2_k", ColumnType.Double, "K", "Debye temperature from the n = 2 frequency moment", o => S(o)?.DebyeTemperatureMoment2K),
+            C<PointOutcome>("molar_mass_kg_per_mol", ColumnType.Double, "kg/mol", "mean molar mass of the atoms", o => S(o)?.MolarMassKgPerMol),
+            C<PointOutcome>("dos_method", ColumnType.Text, "", "how the density of states was integrated", o => o.Result?.Dos.Method),
+            .. ConductivitySummaryColumns(),
+        ];
+    }
+
+    /// <summary>Conductivity numbers of a point (empty when it asked for none); NaN becomes empty, an unbounded kappa +Infinity.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ConductivitySummaryColumns()
+    {
+        static ConductivityResult? K(PointOutcome o) => o.Result?.Conductivity;
+        static string? Mesh(ImmutableArray<int> mesh) => mesh.IsDefaultOrEmpty ? null : string.Join('x', mesh);
+        const string w = "W/(m K)";
+        return
+        [
+            C<PointOutcome>("kappa_w_per_m_k", ColumnType.Double, w, "lattice thermal conductivity at the reference temperature, mean over the lattice's directions (trace/3 in 3D)", o => V(K(o)?.AtReference.KappaWPerMK)),
+            C<PointOutcome>("kappa_xx_w_per_m_k", ColumnType.Double, w, "kappa_xx at the reference temperature", o => V(K(o)?.AtReference.KappaXxWPerMK)),
+            C<PointOutcome>("kappa_yy_w_per_m_k", ColumnType.Double, w, "kappa_yy at the reference temperature (empty for a chain)", o => V(K(o)?.AtReference.KappaYyWPerMK)),
+            C<PointOutcome>("kappa_zz_w_per_m_k", ColumnType.Double, w, "kappa_zz at the reference temperature (empty for a chain or sheet)", o => V(K(o)?.AtReference.KappaZzWPerMK)),
+            C<PointOutcome>("kappa_mesh_change", ColumnType.Double, "1", "relative change of kappa from the half-density mesh (bulk; empty for exact finite-crystal sums)", o => V(K(o)?.MeshRelativeChange)),
+            C<PointOutcome>("kappa_mesh", ColumnType.Text, "", "wave vectors per direction of the conductivity sum", o => K(o) is { } k ? Mesh(k.Mesh) : null),
+            C<PointOutcome>("kappa_check_mesh", ColumnType.Text, "", "the half-density mesh of the convergence check", o => K(o) is { } k ? Mesh(k.ConvergenceMesh) : null),
+            C<PointOutcome>("kappa_min_w_per_m_k", ColumnType.Double, w, "Cahill-Pohl-Watson minimum conductivity at the reference temperature (3D)", o => V(K(o)?.KappaMinWPerMK)),
+            C<PointOutcome>("kappa_min_high_t_w_per_m_k", ColumnType.Double, w, "its high-temperature limit", o => V(K(o)?.KappaMinHighTemperatureWPerMK)),
+            C<PointOutcome>("kappa_slack_at_debye_w_per_m_k", ColumnType.Double, w, "Slack's Umklapp-limited estimate at the acoustic Debye temperature (3D, with a Grueneisen parameter)", o => V(K(o)?.SlackKappaAtDebyeTemperatureWPerMK)),
+            C<PointOutcome>("kappa_slack_w_per_m_k", ColumnType.Double, w, "Slack's estimate at the reference temperature", o => V(K(o)?.SlackKappaAtReferenceWPerMK)),
+            C<PointOutcome>("kappa_share_boundary", ColumnType.Double, "1", "share of boundary scattering at the reference temperature", o => V(K(o)?.SharesAtReference.Boundary)),
+            C<PointOutcome>("kappa_share_point_defect", ColumnType.Double, "1", "share of point-defect and isotope scattering", o => V(K(o)?.SharesAtReference.PointDefect)),
+            C<PointOutcome>("kappa_share_umklapp", ColumnType.Double, "1", "share of Umklapp scattering", o => V(K(o)?.SharesAtReference.Umklapp)),
+            C<PointOutcome>("kappa_share_constant", ColumnType.Double, "1", "share of the constant relaxation time", o => V(K(o)?.SharesAtReference.Constant)),
+            C<PointOutcome>("kappa_boundary_length_nm", ColumnType.Double, "nm", "effective boundary length used", o => V(K(o)?.BoundaryLengthNm)),
+            C<PointOutcome>("kappa_mass_variance", ColumnType.Double, "1", "mass-variance parameter Gamma used", o => V(K(o)?.MassVarianceGamma)),
+            C<PointOutcome>("kappa_umklapp_debye_temperature_k", ColumnType.Double, "K", "theta of the Umklapp rate", o => V(K(o)?.UmklappDebyeTemperatureK)),
+            C<PointOutcome>("kappa_umklapp_sound_speed_m_per_s", ColumnType.Double, "m/s", "v of the Umklapp rate", o => V(K(o)?.UmklappSoundSpeedMPerS)),
+            C<PointOutcome>("acoustic_debye_temperature_k", ColumnType.Double, "K", "acoustic Debye temperature from the direction-averaged sound speeds", o => V(K(o)?.AcousticDebyeTemperatureK)),
+            C<PointOutcome>("debye_sound_speed_m_per_s", ColumnType.Double, "m/s", "Debye average of the acoustic sound speeds over directions", o => V(K(o)?.DebyeAverageSoundSpeedMPerS)),
+        ];
+    }
+
+    private static double? V(double? x) => x is { } v && !double.IsNaN(v) ? v : null;
+
+    private static TableColumn<RowOf<ThermalValue>>[] ThermalColumns()
+    {
+        static double Cell(RowOf<ThermalValue> r, double v) => v * ThermalScale.PerCellFactor(r.Outcome.Result!.Summary.SitesPerCell);
+        static double Kg(RowOf<ThermalValue> r, double v) => v * ThermalScale.PerKgFactor(r.Outcome.Result!.Summary.MolarMassKgPerMol);
+        const string w = "W/(m K)";
+        return
+        [
+            C<RowOf<ThermalValue>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.Thermal.TemperatureK),
+            C<RowOf<ThermalValue>>("internal_energy_j_per_mol", ColumnType.Double, "J/mol", "internal energy per mole of atoms", r => r.Item.Thermal.InternalEnergyJPerMol),
+            C<RowOf<ThermalValue>>("free_energy_j_per_mol", ColumnType.Double, "J/mol", "Helmholtz free energy per mole of atoms", r => r.Item.Thermal.FreeEnergyJPerMol),
+            C<RowOf<ThermalValue>>("entropy_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy per mole of atoms", r => r.Item.Thermal.EntropyJPerMolK),
+            C<RowOf<ThermalValue>>("cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity per mole of atoms", r => r.Item.Thermal.HeatCapacityJPerMolK),
+            C<RowOf<ThermalValue>>("debye_temperature_k", ColumnType.Double, "K", "Debye temperature matching this Cv (empty where undefined)", r => double.IsNaN(r.Item.Thermal.DebyeTemperatureK) ? null : r.Item.Thermal.DebyeTemperatureK),
+            C<RowOf<ThermalValue>>("internal_energy_j_per_cell", ColumnType.Double, "J/cell", "internal energy per primitive cell", r => Cell(r, r.Item.Thermal.InternalEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("free_energy_j_per_cell", ColumnType.Double, "J/cell", "free energy per primitive cell", r => Cell(r, r.Item.Thermal.FreeEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("entropy_j_per_cell_k", ColumnType.Double, "J/(cell K)", "entropy per primitive cell", r => Cell(r, r.Item.Thermal.EntropyJPerMolK)),
+            C<RowOf<ThermalValue>>("cv_j_per_cell_k", ColumnType.Double, "J/(cell K)", "heat capacity per primitive cell", r => Cell(r, r.Item.Thermal.HeatCapacityJPerMolK)),
+            C<RowOf<ThermalValue>>("internal_energy_j_per_kg", ColumnType.Double, "J/kg", "internal energy per kg", r => Kg(r, r.Item.Thermal.InternalEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("free_energy_j_per_kg", ColumnType.Double, "J/kg", "free energy per kg", r => Kg(r, r.Item.Thermal.FreeEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("entropy_j_per_kg_k", ColumnType.Double, "J/(kg K)", "entropy per kg", r => Kg(r, r.Item.Thermal.EntropyJPerMolK)),
+            C<RowOf<ThermalValue>>("cv_j_per_kg_k", ColumnType.Double, "J/(kg K)", "heat capacity per kg", r => Kg(r, r.Item.Thermal.HeatCapacityJPerMolK)),
+            C<RowOf<ThermalValue>>("kappa_xx_w_per_m_k", ColumnType.Double, w, "lattice thermal conductivity along x (empty when not computed)", r => V(r.Item.Conductivity?.KappaXxWPerMK)),
+            C<RowOf<ThermalValue>>("kappa_yy_w_per_m_k", ColumnType.Double, w, "along y (empty for a chain)", r => V(r.Item.Conductivity?.KappaYyWPerMK)),
+            C<RowOf<ThermalValue>>("kappa_zz_w_per_m_k", ColumnType.Double, w, "along z (empty for a chain or sheet)", r => V(r.Item.Conductivity?.KappaZzWPerMK)),
+            C<RowOf<ThermalValue>>("kappa_w_per_m_k", ColumnType.Double, w, "mean over the lattice's directions (trace/3 in 3D); +Infinity when the channels leave modes unscattered", r => V(r.Item.Conductivity?.KappaWPerMK)),
+            C<RowOf<ThermalValue>>("kappa_mesh_change", ColumnType.Double, "1", "relative change of kappa from the half-density mesh (bulk only)", r => V(r.Item.Conductivity?.MeshRelativeChange)),
+        ];
+    }
+}

@@ -1,0 +1,25 @@
+using LatticeSweep.Worker.Planning;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>The result tables (one folder of part files each) under a sweep's folder.</summary>
+public static class TableNames
+{
+    public const string Points = "points";
+    public const string SoundSpeeds = "sound_speeds";
+    public const string Dos = "dos";
+    public const string Thermal = "thermal";
+    public const string Dispersion = "dispersion";
+    public const string Modes = "modes";
+    public const string Displacements = "displacements";
+    public const string CumulativeKappa = "cumulative_kappa";
+
+    /// <summary>Every table a sweep with these outputs writes, points first. Sound speeds go with points.</summary>
+    public static IReadOnlyList<string> For(OutputSelection outputs)
+    {
+        ArgumentNullException.ThrowIfNull(outputs);
+        var names = new List<string> { Points, SoundSpeeds };
+        names.AddRange(outputs.TableNames.Where(t => t != Points));
+        return names;
+    }
+}

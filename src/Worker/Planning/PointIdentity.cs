@@ -1,0 +1,41 @@
+using System.Globalization;
+using System.Security.Cryptography;
+using System.Text;
+using LatticeSweep.Worker.Planning.Specs;
+
+namespace LatticeSweep.Worker.Planning;
+
+/// <summary>
+/// Stable ids: the first 16 hex digits of SHA-256 over a canonical, culture-invariant text. A point's
+/// id covers its whole spec after its parameters are applied (so it does not depend on key order,
+/// spacing or comments in the file, and an axis that gains values keeps the ids of the old points)
+/// plus its sorted "column=value" lines (so text-only columns such as a candidate's name count too).
+/// </summary>
+internal static class PointIdentity
+{
+    public static string PointId(string canonicalSpec, IEnumerable<KeyValuePair<string, object>> parameters) =>
+        Hash(canonicalSpec + "--\n" + ParameterText(parameters));
+
+    public static string ParameterText(IEnumerable<KeyValuePair<string, object>> parameters)
+    {
+        var sb = new StringBuilder();
+        foreach (var (column, value) in parameters.OrderBy(p => p.Key, StringComparer.Ordinal))
+        {
+            sb.Append(column).Append('=').Append(Format(value)).Append('\n');
+        }
+
+        return sb.ToString();
+    }
+
+    public static string Format(object value) => value switch
+    {
+        double d => "d:" + CanonicalSpec.D(d),
+        long l => "i:" + l.ToString(CultureInfo.InvariantCulture),
+        bool b => b ? "b:true" : "b:false",
+        string s => "s:" + CanonicalSpec.Quote(s),
+        _ => "?:" + Convert.ToString(value, CultureInfo.InvariantCulture),
+    };
+
+    public static string Hash(string text) =>
+        Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(text)))[..16];
+}

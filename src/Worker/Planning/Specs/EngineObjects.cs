@@ -1,0 +1,88 @@
+using LatticeSweep.Engine.Builders;
+using LatticeSweep.Engine.Elastic;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
+
+namespace LatticeSweep.Worker.Planning.Specs;
+
+/// <summary>Builds the Engine's model and sample from a point's spec. Engine validation errors propagate as <see cref="ModelException"/>.</summary>
+internal static class EngineObjects
+{
+    public static CrystalModel BuildModel(ModelSpec model) => model switch
+    {
+        LatticeModelSpec m => CrystalModel.Create(
+            BuildLattice(m),
+            m.Sites.Select(s => new Site(s.Label, s.Kind, s.Position, MassOf(s.MassAmu, s.Element, $"sites '{s.Label}'"))),
+            m.Springs,
+            m.Bonds,
+            m.Motion,
+            m.ShellToleranceNm),
+        LayeredSpec l => LayeredModelBuilder.Build(new LayeredModelSpec(
+            l.Host,
+            l.SpacingNm,
+            l.SitesPerCell,
+            l.CountA is { } a ? MassPattern.TwoBlocks(a, l.MassAAmu ?? 0, l.MassBAmu ?? 0) : MassPattern.Repeated(l.MassesAmu),
+            l.LongitudinalNPerM,
+            l.TransverseNPerM,
+            l.Motion)),
+        ElasticSpec e => ElasticSpringFit.BuildModel(
+            e.Lattice,
+            e.ConstantNm,
+            MassOf(e.MassAmu, e.Element, "model.elastic"),
+            new CubicElasticConstants(e.C11Gpa, e.C12Gpa, e.C44Gpa),
+            e.NextNearest,
+            e.Motion,
+            out _),
+        _ => throw new ArgumentOutOfRangeException(nameof(model), model.GetType().Name, "unknown model spec"),
+    };
+
+    /// <summary>
+    /// The sample for a model's lattice. Lengths become cells as N = max(1, round(L / |a_i|)),
+    /// rounding half away from zero (the Engine's rule).
+    /// </summary>
+    public static Sample BuildSample(SampleSpec sample, Lattice lattice)
+    {
+        if (sample.Kind == SampleKind.Bulk)
+        {
+            var m = sample.Mesh;
+            return BulkSample.Create(m[0], m.Length > 1 ? m[1] : 1, m.Length > 2 ? m[2] : 1);
+        }
+
+        if (!sample.LengthNm.IsEmpty)
+        {
+            return FiniteSample.FromLengthNm(lattice, sample.LengthNm);
+        }
+
+        var c = sample.Cells;
+        var finite = FiniteSample.Create(c[0], c.Length > 1 ? c[1] : 1, c.Length > 2 ? c[2] : 1);
+        finite.CheckAgainst(lattice);
+        return finite;
+    }
+
+    private static Lattice BuildLattice(LatticeModelSpec m) => m.Lattice switch
+    {
+        LatticeKind.Chain => Lattice.Chain(m.ConstantNm),
+        LatticeKind.Square => Lattice.Square(m.ConstantNm),
+        LatticeKind.Hexagonal => Lattice.Hexagonal(m.ConstantNm, m.CNm),
+        LatticeKind.SimpleCubic => Lattice.SimpleCubic(m.ConstantNm),
+        LatticeKind.BodyCentredCubic => Lattice.BodyCentredCubic(m.ConstantNm),
+        LatticeKind.FaceCentredCubic => Lattice.FaceCentredCubic(m.ConstantNm),
+        _ => Lattice.Explicit(m.VectorsNm),
+    };
+
+    private static double MassOf(double? massAmu, string? element, string where)
+    {
+        if (massAmu is { } m)
+        {
+            return m;
+        }
+
+        if (element is not null && Elements.TryGetStandardAtomicWeightAmu(element, out var w))
+        {
+            return w;
+        }
+
+        throw Guard.Single(ModelProblemKind.UnknownElement, where, $"no mass: element '{element}' has no standard atomic weight; give mass_amu");
+    }
+}

@@ -1,0 +1,36 @@
+using System.Collections.Immutable;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Springs;
+
+namespace LatticeSweep.Worker.Planning.Specs;
+
+/// <summary>A Bravais lattice with a basis of sites, joined by springs by shell and by explicit bonds.</summary>
+internal sealed record LatticeModelSpec : ModelSpec
+{
+    public required LatticeKind Lattice { get; init; }
+
+    /// <summary>Lattice constant a (nm); unused for explicit vectors.</summary>
+    public double ConstantNm { get; init; }
+
+    /// <summary>c (nm) of the 3D hexagonal lattice; null for the 2D triangular net.</summary>
+    public double? CNm { get; init; }
+
+    public ImmutableArray<Vec3> VectorsNm { get; init; } = [];
+
+    public double ShellToleranceNm { get; init; } = CrystalModel.DefaultShellToleranceNm;
+
+    public required ImmutableArray<SiteSpec> Sites { get; init; }
+
+    public ImmutableArray<ShellSpring> Springs { get; init; } = [];
+
+    public ImmutableArray<BondSpring> Bonds { get; init; } = [];
+
+    public override int Dimension => Lattice switch
+    {
+        LatticeKind.Chain => 1,
+        LatticeKind.Square => 2,
+        LatticeKind.Hexagonal => CNm is null ? 2 : 3,
+        LatticeKind.Explicit => VectorsNm.Length,
+        _ => 3,
+    };
+}

@@ -1,0 +1,388 @@
+using System.Collections.Immutable;
+using System.Globalization;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Worker.JobFiles;
+using LatticeSweep.Worker.Planning.Expansion;
+using LatticeSweep.Worker.Planning.Fields;
+using LatticeSweep.Worker.Planning.Specs;
+
+namespace LatticeSweep.Worker.Planning;
+
+/// <summary>
+/// From a parsed job file to a plan: reads the sections, resolves each axis path to a field,
+/// checks every value, expands the points, checks each point's combination of values, gives each
+/// point its id and collapses duplicates. All problems are collected and thrown together.
+/// </summary>
+internal static class SweepPlanner
+{
+    private const int MaxPointProblemsShown = 5;
+
+    private static readonly Dictionary<CombineMode, string> CombineNames = new()
+    {
+        [CombineMode.Grid] = "grid",
+        [CombineMode.Zip] = "zip",
+        [CombineMode.LatinHypercube] = "latin_hypercube",
+        [CombineMode.Random] = "random",
+    };
+
+    public static SweepPlan Plan(TomlDocument document, string text, ProblemCollector problems)
+    {
+        var root = new TableReader(document, document.Root, "", problems, new SourceLocation(1, 1));
+        root.RejectUnknown("sweep", "model", "sample", "output");
+        var sweep = SweepSectionReader.Read(root.SubTable("sweep"), document.File);
+        var kindSwept = sweep.Axes.Any(a => a.Path == "sample.kind")
+            || (sweep.Candidates?.Columns.Any(c => c.Value == "sample.kind") ?? false);
+
+        var modelTable = root.SubTable("model", required: true);
+        var model = modelTable is null ? null : ModelSectionReader.Read(modelTable);
+        var dimension = model?.Dimension ?? 0;
+        var sample = SampleSectionReader.Read(root.SubTable("sample", required: true), dimension, kindSwept);
+        var output = OutputSectionReader.Read(root.SubTable("output"), dimension, model, sample, kindSwept);
+        problems.ThrowIfAny();
+
+        var (options, tables) = output!.Value;
+        var baseSpec = new BoundSpec(model!, sample!, options.Conductivity);
+        var catalog = FieldCatalog.Build(baseSpec);
+        var axes = ResolveAxes(sweep, catalog, problems);
+        var candidateTable = sweep.Candidates is { } cd ? CandidateTableReader.Read(cd, problems) : null;
+        var candidates = candidateTable is null ? null : ResolveCandidates(sweep.Candidates!, candidateTable, catalog, problems);
+        CheckColumns(axes, candidates, problems);
+        problems.ThrowIfAny();
+
+        var total = SweepExpansion.Count(sweep.Combine, sweep.Count, candidates, axes);
+        if (total > sweep.MaxPoints)
+        {
+            var at = root.SubTable("sweep");
+            var where = at is null ? new SourceLocation(1, 1) : at.Where("max_points");
+            problems.Add(where, "sweep.max_points",
+                $"the sweep expands to {Show(total)} points, more than max_points = {Show(sweep.MaxPoints)}; "
+                + $"raise [sweep] max_points (up to {Show(SweepSectionReader.HardMaxPoints)}) or use fewer values");
+            problems.ThrowIfAny();
+        }
+
+        var columns = (candidates?.Columns ?? []).Concat(axes).ToList();
+        var bindings = columns
+            .Select((c, i) => (c, i))
+            .Where(x => x.c.Field is not null)
+            .OrderBy(x => x.c.Field!.ApplyOrder).ThenBy(x => x.i)
+            .Select(x => new ParameterBinding(x.c.Column, x.c.Field!))
+            .ToImmutableArray();
+        var template = new JobTemplate(baseSpec, options, bindings);
+
+        var points = Expand(sweep, candidates, axes, columns, template, options, problems, out var duplicates);
+        problems.ThrowIfAny();
+
+        var axisInfos = columns.Select(c => new AxisInfo(
+            c.Path,
+            c.Column,
+            c.Unit,
+            c.ValueType,
+            [.. points.Select(p => p.Parameters[c.Column]).Distinct()])).ToImmutableArray();
+
+        var specHash = PointIdentity.Hash(
+            "name=" + sweep.Name + "\ncombine=" + CombineNames[sweep.Combine] + "\ncandidates=" + (candidateTable?.ContentHash ?? "-") + "\n"
+            + CanonicalSpec.Write(baseSpec, options) + string.Join('\n', points.Select(p => p.PointId)));
+
+        return new SweepPlan
+        {
+            SweepName = sweep.Name,
+            Description = sweep.Description,
+            SourcePath = Path.GetFullPath(document.File),
+            SpecText = text,
+            Axes = axisInfos,
+            Points = points,
+            Outputs = tables,
+            Template = template,
+            SpecHash = specHash,
+            DuplicatePointsCollapsed = duplicates,
+            Combine = CombineNames[sweep.Combine],
+            CandidatesFile = candidateTable?.File,
+        };
+    }
+
+    private static ImmutableArray<PlannedPoint> Expand(
+        SweepDeclaration sweep,
+        CandidateBlock? candidates,
+        IReadOnlyList<PlanAxis> axes,
+        IReadOnlyList<PlanAxis> columns,
+        JobTemplate template,
+        SolveOptions options,
+        ProblemCollector problems,
+        out int duplicates)
+    {
+        var points = new List<PlannedPoint>();
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        var badCombinations = new List<string>();
+        var badCount = 0;
+        duplicates = 0;
+        foreach (var values in SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes))
+        {
+            var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
+            for (var j = 0; j < columns.Count; j++)
+            {
+                builder[columns[j].Column] = values[j];
+            }
+
+            var parameters = builder.ToImmutable();
+            var provisional = new PlannedPoint("", points.Count, parameters);
+            var spec = PointBinder.Apply(template, provisional);
+            if (SpecChecks.Check(spec) is { } wrong)
+            {
+                badCount++;
+                if (badCombinations.Count < MaxPointProblemsShown)
+                {
+                    badCombinations.Add($"{wrong} (at {Describe(parameters)})");
+                }
+
+                continue;
+            }
+
+            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options), parameters);
+            if (!seen.Add(id))
+            {
+                duplicates++;
+                continue;
+            }
+
+            points.Add(provisional with { PointId = id });
+        }
+
+        foreach (var message in badCombinations)
+        {
+            problems.Add(new SourceLocation(1, 1), "sweep.axes", message);
+        }
+
+        if (badCount > badCombinations.Count)
+        {
+            problems.Add(new SourceLocation(1, 1), "sweep.axes", $"... and {Show(badCount - badCombinations.Count)} more point(s) with invalid combinations of values");
+        }
+
+        return [.. points];
+    }
+
+    private static List<PlanAxis> ResolveAxes(SweepDeclaration sweep, FieldCatalog catalog, ProblemCollector problems)
+    {
+        var axes = new List<PlanAxis>();
+        var tables = new List<TableReader>();
+        for (var i = 0; i < sweep.Axes.Length; i++)
+        {
+            var decl = sweep.Axes[i];
+            var t = decl.Table;
+            if (!catalog.TryResolve(decl.Path, out var field))
+            {
+                t.Error("path", $"'{decl.Path}' names no sweepable field; {catalog.Suggest(decl.Path)}");
+                continue;
+            }
+
+            var axis = decl.Source switch
+            {
+                ValueListSource v => FromValues(field, v.Values, t, "values", distinct: sweep.Combine != CombineMode.Zip),
+                RangeSource { Steps: null } r => FromInterval(field, r, t, "range"),
+                RangeSource r => FromRange(field, r, t),
+                RandomSource r => FromRandom(field, r, sweep.Seed, (ulong)i, t),
+                _ => null,
+            };
+            if (axis is not null)
+            {
+                axes.Add(axis);
+                tables.Add(t);
+            }
+        }
+
+        if (sweep.Combine == CombineMode.Zip && axes.Count > 1)
+        {
+            var n = axes[0].Values.Length;
+            for (var i = 1; i < axes.Count; i++)
+            {
+                if (axes[i].Values.Length != n)
+                {
+                    tables[i].TableError($"combine = \"zip\" needs axes of equal length: '{axes[0].Path}' has {n} values, '{axes[i].Path}' has {axes[i].Values.Length}");
+                }
+            }
+        }
+
+        return axes;
+    }
+
+    private static PlanAxis? FromValues(SweepField field, IReadOnlyList<object> raw, TableReader t, string key, bool distinct = true)
+    {
+        var values = new List<object>(raw.Count);
+        var ok = true;
+        for (var k = 0; k < raw.Count; k++)
+        {
+            var v = FieldValues.Coerce(field, raw[k], out var error);
+            if (v is null)
+            {
+                t.Problems.Add(t.Where(key), $"{t.KeyPath(key)}[{k}]", error!);
+                ok = false;
+            }
+            else if (!distinct || !values.Contains(v))
+            {
+                // A repeated value adds nothing to a grid; in a zip it pairs with another axis's value.
+                values.Add(v);
+            }
+        }
+
+        return ok ? Axis(field, values, null) : null;
+    }
+
+    private static PlanAxis? FromRange(SweepField field, RangeSource r, TableReader t)
+    {
+        if (field.ValueType == AxisValueType.Text)
+        {
+            t.Error("range", $"{field.Path} takes text; list its values with values = [...]");
+            return null;
+        }
+
+        IEnumerable<object> values = field.ValueType == AxisValueType.Integer
+            ? Spacing.Points(r.From, r.To, r.Steps!.Value, r.Log).Select(x => (object)(long)Math.Round(x, MidpointRounding.AwayFromZero))
+            : Spacing.Points(r.From, r.To, r.Steps!.Value, r.Log).Select(x => (object)x);
+
+        // Rounding a range of whole numbers may repeat a value; each value is kept once.
+        return FromValues(field, values.Distinct().ToList(), t, "range");
+    }
+
+    private static PlanAxis? FromRandom(SweepField field, RandomSource r, ulong seed, ulong axisIndex, TableReader t)
+    {
+        if (field.ValueType == AxisValueType.Text)
+        {
+            t.Error("random", $"{field.Path} takes text; list its values with values = [...]");
+            return null;
+        }
+
+        var interval = FromInterval(field, new RangeSource(r.From, r.To, null, r.Log), t, "random");
+        if (interval is null)
+        {
+            return null;
+        }
+
+        var rng = new SplitMix64(seed, 100 + axisIndex);
+        var values = Enumerable.Range(0, r.Count).Select(_ => interval.ValueAt(rng.NextDouble())).Distinct().ToList();
+        return Axis(field, values, null);
+    }
+
+    /// <summary>An interval to sample; its ends are checked, which covers every value inside for the interval-shaped checks fields have.</summary>
+    private static PlanAxis? FromInterval(SweepField field, RangeSource r, TableReader t, string key)
+    {
+        if (field.ValueType == AxisValueType.Text)
+        {
+            t.Error(key, $"{field.Path} takes text; list its values with values = [...]");
+            return null;
+        }
+
+        var ok = true;
+        foreach (var end in new[] { r.From, r.To })
+        {
+            object raw = field.ValueType == AxisValueType.Integer ? Math.Round(end) : end;
+            if (FieldValues.Coerce(field, raw, out var error) is null)
+            {
+                t.Error(key, error!);
+                ok = false;
+            }
+        }
+
+        if (ok && field.ValueType == AxisValueType.Integer && Math.Ceiling(r.From) > Math.Floor(r.To))
+        {
+            t.Error(key, $"{field.Path} takes whole numbers, and none lies between {TableReader.Show(r.From)} and {TableReader.Show(r.To)}");
+            ok = false;
+        }
+
+        return ok ? Axis(field, [], r) : null;
+    }
+
+    private static PlanAxis Axis(SweepField field, IReadOnlyList<object> values, RangeSource? interval) =>
+        new(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [.. values], interval);
+
+    private static CandidateBlock? ResolveCandidates(CandidatesDeclaration decl, CandidateTable table, FieldCatalog catalog, ProblemCollector problems)
+    {
+        var before = problems.Count;
+        var t = decl.Table;
+        var columns = new List<(int Index, PlanAxis Axis)>();
+        var headers = table.Columns.ToList();
+        foreach (var (csvColumn, path) in decl.Columns)
+        {
+            var index = table.ColumnIndex(csvColumn);
+            if (index < 0)
+            {
+                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"the candidates file has no column '{csvColumn}'; " + KeySuggestions.Hint(csvColumn, headers));
+                continue;
+            }
+
+            if (!catalog.TryResolve(path, out var field))
+            {
+                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"'{path}' names no sweepable field; {catalog.Suggest(path)}");
+                continue;
+            }
+
+            columns.Add((index, new PlanAxis(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [], null)));
+        }
+
+        foreach (var keep in decl.Keep)
+        {
+            var index = table.ColumnIndex(keep);
+            if (index < 0)
+            {
+                t.Error("keep", $"the candidates file has no column '{keep}'; " + KeySuggestions.Hint(keep, headers));
+                continue;
+            }
+
+            columns.Add((index, new PlanAxis($"candidates.{keep}", ColumnNames.Snake(keep), "", AxisValueType.Text, null, [], null)));
+        }
+
+        if (problems.Count > before)
+        {
+            return null;
+        }
+
+        var rows = new List<ImmutableArray<object>>(table.Rows.Length);
+        for (var r = 0; r < table.Rows.Length; r++)
+        {
+            var row = new object[columns.Count];
+            for (var j = 0; j < columns.Count; j++)
+            {
+                var (index, axis) = columns[j];
+                var cell = table.Rows[r][index];
+                if (axis.Field is null)
+                {
+                    row[j] = Convert.ToString(cell, CultureInfo.InvariantCulture) ?? "";
+                    continue;
+                }
+
+                var value = FieldValues.Coerce(axis.Field, cell is string s && s.Length == 0 ? null : cell, out var error);
+                if (value is null)
+                {
+                    problems.Add(new JobFileProblem(table.File, table.RowLines[r], index + 1, table.Columns[index], error!));
+                }
+
+                row[j] = value!;
+            }
+
+            rows.Add([.. row]);
+        }
+
+        return problems.Count > before ? null : new CandidateBlock([.. columns.Select(c => c.Axis)], [.. rows]);
+    }
+
+    private static void CheckColumns(IReadOnlyList<PlanAxis> axes, CandidateBlock? candidates, ProblemCollector problems)
+    {
+        var all = (candidates?.Columns ?? []).Concat(axes).ToList();
+        var fields = new HashSet<string>(StringComparer.Ordinal);
+        var names = new HashSet<string>(StringComparer.Ordinal);
+        foreach (var c in all)
+        {
+            if (c.Field is not null && !fields.Add(c.Field.Path))
+            {
+                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"'{c.Path}' is set by two axes (or an axis and a candidates column); each field may be swept once");
+            }
+            else if (!names.Add(c.Column))
+            {
+                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"two swept fields would both be named column '{c.Column}' ({c.Path}); rename a site label or a candidates column");
+            }
+        }
+    }
+
+    private static string Describe(IEnumerable<KeyValuePair<string, object>> parameters) =>
+        string.Join(", ", parameters.Select(p => $"{p.Key} = {PointIdentity.Format(p.Value)[2..]}"));
+
+    private static string Show(long n) => n.ToString("N0", CultureInfo.InvariantCulture);
+}

@@ -1,0 +1,243 @@
+using System.Runtime.CompilerServices;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Results;
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Planning;
+using Serilog;
+
+namespace LatticeSweep.Worker.Queue;
+
+/// <summary>
+/// Runs one queue chunk: claims its points in the catalog, solves them one after another on this
+/// thread (the worker pool is the only parallel layer), writes the chunk's part files, then records
+/// each point's end.
+/// </summary>
+/// <remarks>
+/// The queue delivers a chunk at least once: again after a crash, after the SQLite store's
+/// invisibility timeout, or after <c>resume</c>. Each step is harmless to repeat. The claim refuses
+/// a chunk whose points all have results; the part files are named by chunk id and replaced by
+/// rename, so a second run rewrites the same rows instead of adding them; and the catalog is
+/// updated only after the parts are on disk, so a point is never marked done without its rows.
+/// </remarks>
+public sealed class ChunkRunner
+{
+    private static readonly ConditionalWeakTable<SweepPlan, Dictionary<string, PlannedPoint>> PointIndex = [];
+
+    private readonly ISweepCatalog _catalog;
+    private readonly IPlanSource _plans;
+    private readonly IPointSolver _solver;
+    private readonly TimeProvider _time;
+    private readonly ILogger _log;
+    private readonly RetryPolicy _retry;
+    private readonly string _workerName;
+
+    public ChunkRunner(ISweepCatalog catalog, IPlanSource plans, IPointSolver solver, TimeProvider time, ILogger log, RetryPolicy retry, string workerName)
+    {
+        _catalog = catalog;
+        _plans = plans;
+        _solver = solver;
+        _time = time;
+        _log = log;
+        _retry = retry;
+        _workerName = workerName;
+    }
+
+    private int _activeChunks;
+    private long _failedPoints;
+
+    public static string DefaultWorkerName => $"{Environment.MachineName}:{Environment.ProcessId}";
+
+    /// <summary>Chunks running in this process right now.</summary>
+    public int ActiveChunks => Volatile.Read(ref _activeChunks);
+
+    /// <summary>Points that failed in this process so far.</summary>
+    public long FailedPoints => Interlocked.Read(ref _failedPoints);
+
+    public async Task RunAsync(string sweepId, string chunkId, CancellationToken ct)
+    {
+        Interlocked.Increment(ref _activeChunks);
+        try
+        {
+            await RunChunkAsync(sweepId, chunkId, ct).ConfigureAwait(false);
+        }
+        finally
+        {
+            Interlocked.Decrement(ref _activeChunks);
+        }
+    }
+
+    private async Task RunChunkAsync(string sweepId, string chunkId, CancellationToken ct)
+    {
+        var claim = _catalog.BeginChunk(sweepId, chunkId, _workerName);
+        switch (claim.Decision)
+        {
+            case ChunkDecision.Unknown:
+                _log.Warning("Chunk {ChunkId} of sweep {SweepId} is not in the catalog; skipped", chunkId, sweepId);
+                return;
+            case ChunkDecision.AlreadyFinished:
+                _log.Debug("Chunk {ChunkId} of sweep {SweepId} was already finished; nothing to do", chunkId, sweepId);
+                return;
+            case ChunkDecision.Cancelled:
+                _log.Debug("Chunk {ChunkId} of sweep {SweepId} skipped: the sweep is cancelled", chunkId, sweepId);
+                return;
+        }
+
+        var sweep = _catalog.FindSweep(sweepId)!;
+        if (claim.SweepStarted)
+        {
+            _log.Information("Sweep {SweepId} started", sweepId);
+            WriteManifest(sweepId);
+        }
+
+        var outcomes = await SolveAllAsync(sweep, chunkId, claim, ct).ConfigureAwait(false);
+        outcomes = await WritePartsAsync(sweep, chunkId, outcomes, ct).ConfigureAwait(false);
+
+        var completion = _catalog.CompleteChunk(sweepId, chunkId,
+            [.. outcomes.Select(o => new PointCompletion(o.Point.PointId, o.State, o.FailureKind, o.Error, o.StartedAt, o.FinishedAt, o.DurationSeconds))]);
+
+        foreach (var failed in outcomes.Where(o => o.State == PointState.Failed))
+        {
+            Interlocked.Increment(ref _failedPoints);
+            _log.Warning("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) failed, {FailureKind}: {Error}",
+                failed.Point.PointId, sweepId, chunkId, failed.FailureKind, failed.Error);
+        }
+
+        if (completion.SweepFinishedNow)
+        {
+            _log.Information("Sweep {SweepId} finished {State}: {Done} done, {Failed} failed of {Total}; results in {OutputFolder}",
+                sweepId, completion.State.ToString().ToLowerInvariant(), completion.Counts.Done, completion.Counts.Failed, completion.Counts.Total, sweep.OutputFolder);
+            WriteManifest(sweepId);
+        }
+    }
+
+    private async Task<List<PointOutcome>> SolveAllAsync(SweepRecord sweep, string chunkId, ChunkClaim claim, CancellationToken ct)
+    {
+        SweepPlan? plan = null;
+        string? planProblem = null;
+        try
+        {
+            plan = _plans.Get(sweep);
+        }
+        catch (PlanUnavailableException ex)
+        {
+            planProblem = ex.Message;
+            _log.Error("Chunk {ChunkId} of sweep {SweepId} cannot run: {Reason}", chunkId, sweep.SweepId, ex.Message);
+        }
+
+        var index = plan is null ? null : PointIndex.GetValue(plan, p => p.Points.ToDictionary(x => x.PointId, StringComparer.Ordinal));
+        var catalogPoints = plan is null ? _catalog.GetChunkPoints(sweep.SweepId, chunkId).ToDictionary(p => p.PointId, StringComparer.Ordinal) : null;
+        var outcomes = new List<PointOutcome>(claim.Points.Length);
+        foreach (var claimed in claim.Points)
+        {
+            ct.ThrowIfCancellationRequested();
+            var started = _time.GetUtcNow();
+            var clock = _time.GetTimestamp();
+            PlannedPoint? point = null;
+            if (index is not null)
+            {
+                index.TryGetValue(claimed.PointId, out point);
+            }
+
+            if (plan is null || point is null)
+            {
+                var record = catalogPoints?.GetValueOrDefault(claimed.PointId);
+                point ??= new PlannedPoint(claimed.PointId, record?.Index ?? 0, record?.Parameters ?? System.Collections.Immutable.ImmutableSortedDictionary<string, object>.Empty);
+                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Input,
+                    planProblem ?? $"point {claimed.PointId} is not in the plan loaded from {sweep.SourcePath}", null));
+                continue;
+            }
+
+            try
+            {
+                var result = await _retry.RunAsync(
+                    () => Task.FromResult(_solver.Solve(plan, point, ct)),
+                    _time,
+                    (retry, delay, ex) => _log.Warning("Point {PointId} of sweep {SweepId}: I/O fault, retry {Retry} of {Retries} in {DelaySeconds} s: {Error}",
+                        point.PointId, sweep.SweepId, retry, _retry.Retries, delay.TotalSeconds, ex.Message),
+                    ct).ConfigureAwait(false);
+                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Done, null, null, result));
+            }
+            catch (ModelException ex)
+            {
+                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Model, ex.Message, null));
+            }
+            catch (OperationCanceledException) when (ct.IsCancellationRequested)
+            {
+                throw;
+            }
+            catch (Exception ex) when (!RetryPolicy.IsTransient(ex))
+            {
+                // Not the user's input and not transient: record it against the point, do not retry.
+                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Engine, $"{ex.GetType().Name}: {ex.Message}", null));
+            }
+            catch (Exception ex)
+            {
+                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Io, $"I/O fault after {_retry.Retries} retries: {ex.Message}", null));
+            }
+        }
+
+        return outcomes;
+    }
+
+    private async Task<List<PointOutcome>> WritePartsAsync(SweepRecord sweep, string chunkId, List<PointOutcome> outcomes, CancellationToken ct)
+    {
+        if (!outcomes.Any(o => o.State == PointState.Done || (o.FailureKind is { } k && k.HasResult())))
+        {
+            return outcomes;
+        }
+
+        try
+        {
+            await _retry.RunAsync(
+                async () =>
+                {
+                    await ChunkOutputWriter.WriteAsync(sweep, ChunkOutputWriter.OutputsOf(sweep), chunkId, outcomes, ct).ConfigureAwait(false);
+                    return true;
+                },
+                _time,
+                (retry, delay, ex) => _log.Warning("Chunk {ChunkId} of sweep {SweepId}: writing results failed, retry {Retry} of {Retries} in {DelaySeconds} s: {Error}",
+                    chunkId, sweep.SweepId, retry, _retry.Retries, delay.TotalSeconds, ex.Message),
+                ct).ConfigureAwait(false);
+            return outcomes;
+        }
+        catch (Exception ex) when (RetryPolicy.IsTransient(ex))
+        {
+            _log.Error("Chunk {ChunkId} of sweep {SweepId}: results could not be written to {OutputFolder} after {Retries} retries: {Error}",
+                chunkId, sweep.SweepId, sweep.OutputFolder, _retry.Retries, ex.Message);
+            var reason = $"results could not be written to {sweep.OutputFolder}: {ex.Message} (run resume once the folder is writable)";
+            return [.. outcomes.Select(o => o with { State = PointState.Failed, FailureKind = FailureKind.Io, Error = reason, Result = null })];
+        }
+    }
+
+    private PointOutcome Outcome(PlannedPoint point, ClaimedPoint claimed, string chunkId, DateTimeOffset started, long clock, PointState state, FailureKind? kind, string? error, PointResult? result) =>
+        new()
+        {
+            Point = point,
+            Attempt = claimed.Attempt,
+            State = state,
+            FailureKind = kind,
+            Error = error,
+            StartedAt = started,
+            FinishedAt = _time.GetUtcNow(),
+            DurationSeconds = _time.GetElapsedTime(clock).TotalSeconds,
+            Result = result,
+            EngineVersion = _solver.EngineVersion,
+            ChunkId = chunkId,
+        };
+
+    private void WriteManifest(string sweepId)
+    {
+        try
+        {
+            if (_catalog.FindSweep(sweepId) is { } fresh && fresh.SweepId == sweepId)
+            {
+                SweepManifest.Write(fresh, _time.GetUtcNow());
+            }
+        }
+        catch (Exception ex) when (RetryPolicy.IsTransient(ex))
+        {
+            _log.Warning("Sweep {SweepId}: sweep.json could not be rewritten: {Error}", sweepId, ex.Message);
+        }
+    }
+}

@@ -1,0 +1,64 @@
+using LatticeSweep.Worker.Queue;
+using LatticeSweep.Worker.Tests.Support;
+
+namespace LatticeSweep.Worker.Tests.Cli;
+
+/// <summary>submit, work, status, cancel and resume on the embedded store.</summary>
+public sealed class QueueCommandsTests : IDisposable
+{
+    private static readonly ChunkPlanner SmallChunks = ChunkPlanner.Default with { MaxPointsPerChunk = 5 };
+    private readonly TempFolder _dir = new();
+
+    public void Dispose() => _dir.Dispose();
+
+    private static string Quickstart => Path.Combine(Support.Cli.JobsFolder, "quickstart.toml");
+
+    [Fact]
+    public void Submit_then_work_finishes_the_sweep_and_status_shows_it()
+    {
+        var submitted = Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart);
+        Assert.Equal(0, submitted.ExitCode);
+        Assert.Contains("24 points, 5 chunks to run", submitted.Stdout, StringComparison.Ordinal);
+        var list = Support.Cli.Run(_dir.Path, "status");
+        Assert.Matches(@"quickstart-\w+\s+queued\s+24\s+0\s+0\s+24", list.Stdout);
+
+        var worked = Support.Cli.Run(_dir.Path, "work", "--workers", "2");
+
+        Assert.True(worked.ExitCode == 0, worked.Stdout + worked.Stderr);
+        var detail = Support.Cli.Run(_dir.Path, "status", "quickstart");
+        Assert.Equal(0, detail.ExitCode);
+        Assert.Contains("State      done", detail.Stdout, StringComparison.Ordinal);
+        Assert.Contains("24 done, 0 failed, 0 waiting, 0 running, 0 cancelled", detail.Stdout, StringComparison.Ordinal);
+        Assert.Contains("Coverage of sites_b_mass_amu [amu]", detail.Stdout, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void A_cancelled_sweep_runs_nothing_until_resumed()
+    {
+        Assert.Equal(0, Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart).ExitCode);
+        var cancel = Support.Cli.Run(_dir.Path, "cancel", "quickstart");
+        Assert.Equal(0, cancel.ExitCode);
+        Assert.Contains("24 points will not run", cancel.Stdout, StringComparison.Ordinal);
+
+        Assert.Equal(0, Support.Cli.Run(_dir.Path, "work", "--workers", "1").ExitCode);
+        Assert.Contains("State      cancelled", Support.Cli.Run(_dir.Path, "status", "quickstart").Stdout, StringComparison.Ordinal);
+
+        var resumed = Support.Cli.Run(_dir.Path, "resume", "quickstart", "--workers", "2");
+
+        Assert.True(resumed.ExitCode == 0, resumed.Stdout + resumed.Stderr);
+        Assert.Contains("done: 24 points, 24 done", resumed.Stdout, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void A_second_worker_process_on_one_sqlite_store_is_refused_with_the_reason()
+    {
+        Assert.Equal(0, Support.Cli.Run(_dir.Path, "submit", Quickstart).ExitCode);
+        using var holder = QueueStore.Open(StoreLocation.Parse(null, _dir.Path), TimeProvider.System);
+        holder.ClaimWorkerRights();
+
+        var second = Support.Cli.Run(_dir.Path, "work");
+
+        Assert.Equal(2, second.ExitCode);
+        Assert.Contains("another latsweep process is working on the store", second.Stderr, StringComparison.Ordinal);
+    }
+}

@@ -1,0 +1,123 @@
+using System.Text.Json.Nodes;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Planning;
+using LatticeSweep.Worker.Tests.Support;
+
+namespace LatticeSweep.Worker.Tests.Cli;
+
+/// <summary>`latsweep run` end to end on the real Engine, job-file loader, SQLite queue and Parquet output.</summary>
+public sealed class RunCommandTests : IDisposable
+{
+    private readonly TempFolder _dir = new();
+
+    public void Dispose() => _dir.Dispose();
+
+    [Fact]
+    public void Run_writes_every_point_exactly_once_with_thermal_rows_equal_to_direct_engine_calls()
+    {
+        var job = Path.Combine(Support.Cli.JobsFolder, "quickstart.toml");
+
+        var result = Support.Cli.Run(_dir.Path, "run", job, "--workers", "2");
+
+        Assert.True(result.ExitCode == 0, result.Stdout + result.Stderr);
+        var plan = JobFileLoader.Load(job);
+        var folder = Directory.GetDirectories(_dir.Combine("results")).Single();
+        Assert.Contains(folder, result.Stdout, StringComparison.Ordinal);
+
+        using var db = new DuckDb();
+        var points = DuckDb.Glob(Path.Combine(folder, "points"));
+        Assert.Equal((long)plan.Points.Length, db.Scalar($"SELECT count(*) FROM {points}"));
+        Assert.Equal((long)plan.Points.Length, db.Scalar($"SELECT count(DISTINCT point_id) FROM {points}"));
+        Assert.Equal(0L, db.Scalar($"SELECT count(*) FROM {points} WHERE state <> 'done'"));
+        var ids = db.Rows($"SELECT point_id FROM {points}").Select(r => (string)r[0]!).ToHashSet();
+        Assert.True(plan.Points.All(p => ids.Contains(p.PointId)));
+        Assert.Equal(PhononSolver.EngineVersion, db.Scalar($"SELECT DISTINCT engine_version FROM {points}"));
+        foreach (var axis in plan.Axes)
+        {
+            Assert.Contains(axis.ColumnName, db.Types(points).Keys);
+        }
+
+        // Thermal rows equal a direct Engine call on the same bound model (same code path, so to round-off).
+        var thermal = DuckDb.Glob(Path.Combine(folder, "thermal"));
+        foreach (var point in plan.Points.Where((_, i) => i % 7 == 0))
+        {
+            var request = PointBinder.Bind(plan, point);
+            var direct = PhononSolver.Solve(request.Model, request.Sample, request.Options);
+            var rows = db.Rows($"SELECT temperature_k, cv_j_per_mol_k, entropy_j_per_mol_k, free_energy_j_per_mol, internal_energy_j_per_mol FROM {thermal} WHERE point_id = '{point.PointId}' ORDER BY temperature_k");
+            Assert.Equal(direct.Thermal.Length, rows.Count);
+            for (var i = 0; i < rows.Count; i++)
+            {
+                var t = direct.Thermal.OrderBy(x => x.TemperatureK).ElementAt(i);
+                Assert.Equal(t.TemperatureK, (double)rows[i][0]!);
+                AssertClose(t.HeatCapacityJPerMolK, (double)rows[i][1]!);
+                AssertClose(t.EntropyJPerMolK, (double)rows[i][2]!);
+                AssertClose(t.FreeEnergyJPerMol, (double)rows[i][3]!);
+                AssertClose(t.InternalEnergyJPerMol, (double)rows[i][4]!);
+            }
+        }
+
+        // The manifest: spec as given, axes, units of every column of every table, counts.
+        var manifest = JsonNode.Parse(File.ReadAllText(Path.Combine(folder, "sweep.json")))!;
+        Assert.Equal("done", (string)manifest["state"]!);
+        Assert.Equal(File.ReadAllText(job), (string)manifest["spec"]!);
+        Assert.Equal(plan.Points.Length, (int)manifest["counts"]!["done"]!);
+        Assert.Equal("J/(mol K)", (string)manifest["tables"]!["thermal"]!["columns"]!.AsArray().Single(c => (string)c!["name"]! == "cv_j_per_mol_k")!["unit"]!);
+        Assert.Equal(plan.Axes.Length, manifest["axes"]!.AsArray().Count);
+
+        // A JSON log file in the store's folder.
+        var log = Directory.GetFiles(_dir.Combine(".latsweep", "logs"), "latsweep-*.json").Single();
+        Assert.Contains("\"SweepId\"", File.ReadAllText(log), StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Running_the_same_job_again_recomputes_nothing()
+    {
+        var job = Path.Combine(Support.Cli.JobsFolder, "quickstart.toml");
+        Assert.Equal(0, Support.Cli.Run(_dir.Path, "run", job).ExitCode);
+        var first = PointTimes();
+
+        var again = Support.Cli.Run(_dir.Path, "run", job);
+
+        Assert.Equal(0, again.ExitCode);
+        Assert.Equal(first, PointTimes());
+    }
+
+    [Fact]
+    public void An_output_folder_that_cannot_be_written_is_bad_input_and_nothing_is_queued()
+    {
+        var job = Path.Combine(Support.Cli.JobsFolder, "quickstart.toml");
+        File.WriteAllText(_dir.Combine("a-file"), "");
+
+        var result = Support.Cli.Run(_dir.Path, "run", job, "--out", "a-file/results");
+
+        Assert.Equal(2, result.ExitCode);
+        Assert.Contains("cannot write results to", result.Stderr, StringComparison.Ordinal);
+        Assert.Contains("a-file", result.Stderr, StringComparison.Ordinal);
+        Assert.DoesNotContain("   at ", result.Stderr, StringComparison.Ordinal);
+        Assert.Contains("No sweeps", Support.Cli.Run(_dir.Path, "status").Stdout, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void A_bad_job_file_is_bad_input_with_a_located_message()
+    {
+        File.WriteAllText(_dir.Combine("bad.toml"), Some.ChainJob(sample: "kind = \"finite\"\ncells = 16\ncellz = 3"));
+
+        var result = Support.Cli.Run(_dir.Path, "run", "bad.toml");
+
+        Assert.Equal(2, result.ExitCode);
+        Assert.Contains("bad.toml", result.Stderr, StringComparison.Ordinal);
+        Assert.Contains("cellz", result.Stderr, StringComparison.Ordinal);
+        Assert.DoesNotContain("   at ", result.Stderr, StringComparison.Ordinal);
+    }
+
+    private Dictionary<string, (DateTimeOffset?, int)> PointTimes()
+    {
+        using var catalog = new SqliteSweepCatalog(_dir.Combine(".latsweep", "store.db"), TimeProvider.System);
+        var sweep = catalog.ListSweeps().Single();
+        return catalog.GetPoints(sweep.SweepId, new PointQuery(Limit: 10_000)).ToDictionary(p => p.PointId, p => (p.FinishedAt, p.Attempts));
+    }
+
+    private static void AssertClose(double expected, double actual) =>
+        Assert.True(Math.Abs(expected - actual) <= 1e-12 * Math.Max(1, Math.Abs(expected)), $"expected {expected}, got {actual}");
+}
