@@ -107,8 +107,16 @@ for case, title in (("finite-chain", "(c) finite chain 1e7 cells"), ("finite-3d"
     else:
         rows.append((title, f"{o['median_s']:.3f} s", "-", float("nan"), note))
 
+queue = load("ours_queue.json")
+if queue:
+    for r in queue["runs"]:
+        rows.append((f"(e) queue, {r['points']} points ({r['engine_ms_per_point']:.1f} ms)", f"{r['engine_s']:.2f} s",
+                     f"{r['queue_s']:.2f} s", float("nan"),
+                     f"engine alone vs latsweep run --workers {r['workers']} (SQLite store): {r['queue_points_per_s']:.0f} points/s, "
+                     f"overhead {r['overhead_fraction'] * 100:.1f}% = {r['overhead_ms_per_point']:.2f} ms/point"))
+
 print()
-print(f"{'case':34} {'ours':>12} {'numpy peer':>12} {'peer/ours':>10}  agreement")
+print(f"{'case':34} {'ours':>12} {'numpy peer':>12} {'peer/ours':>10}  agreement / notes  ((e): engine alone | through the queue)")
 for name, a, b, ratio, note in rows:
     print(f"{name:34} {a:>12} {b:>12} {ratio:>9.2f}x  {note}")
 print()

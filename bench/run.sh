@@ -9,7 +9,7 @@ root="$(dirname "$here")"
 results="${RESULTS:-$here/results}"
 repeats="${REPEATS:-5}"
 cases=("$@")
-[ ${#cases[@]} -eq 0 ] && cases=(eigen bulk finite-chain finite-3d)
+[ ${#cases[@]} -eq 0 ] && cases=(eigen bulk finite-chain finite-3d queue)
 mkdir -p "$results"
 
 # The peer is Debian's NumPy: the system interpreter, not a pyenv shim.
@@ -21,11 +21,18 @@ fi
 "$py" -c "import threadpoolctl" 2>/dev/null || apt-get install -y -qq python3-threadpoolctl >/dev/null || true
 
 echo "machine: $(lscpu | sed -n 's/^Model name: *//p'), $(nproc) cores; load: $(cut -d' ' -f1-3 /proc/loadavg)"
-dotnet build "$here/LatticeSweep.Bench/LatticeSweep.Bench.csproj" -c Release -v quiet -nologo | grep -E "error|Warn" || true
+dotnet build "$here/LatticeSweep.Bench/LatticeSweep.Bench.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
+dotnet build "$root/src/Worker/Worker.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
 bench="$here/LatticeSweep.Bench/bin/Release/net10.0/LatticeSweep.Bench"
 
 for c in "${cases[@]}"; do
   echo "== $c"
+  if [ "$c" = queue ]; then
+    # Ours against ours: the queue (latsweep run, embedded SQLite store) against the Engine alone.
+    "$bench" queue --out "$results" --repeats "${QUEUE_REPEATS:-3}" --jobs "$here/queue" \
+      --latsweep "$root/src/Worker/bin/Release/net10.0/latsweep"
+    continue
+  fi
   "$bench" "$c" --cases "$here/cases.json" --out "$results" --repeats "$repeats"
   peer_repeats="$repeats"
   case "$c" in finite-*) peer_repeats="${PEER_REPEATS_FINITE:-1}" ;; esac

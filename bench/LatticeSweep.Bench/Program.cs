@@ -4,7 +4,7 @@ using System.Text.Json;
 using LatticeSweep.Bench;
 
 // Usage: LatticeSweep.Bench CASE --cases FILE --out DIR [--repeats K] [--check-temperatures EVERY]
-// CASE: eigen | bulk | finite-chain | finite-3d. Each case runs in its own process so that its
+// CASE: eigen | bulk | finite-chain | finite-3d | queue. Each case runs in its own process so that its
 // peak memory is its own; bench/run.sh runs them all and compares with the NumPy peer.
 var argList = args.ToList();
 string Option(string name, string fallback)
@@ -83,6 +83,18 @@ switch (caseName)
         Console.Error.WriteLine($"  {caseName}: plain exact sum at {picked.Length} temperatures, worst relative error " +
             string.Join(", ", worst.Select(kv => $"{kv.Key} {(double)kv.Value:E2}")) + $" ({sw.Elapsed.TotalSeconds:F1} s)");
         report["result"] = described;
+        break;
+    }
+
+    case "queue":
+    {
+        var latsweep = Option("--latsweep", "src/Worker/bin/Release/net10.0/latsweep");
+        var jobs = Option("--jobs", "bench/queue");
+        report["runs"] = new List<object>
+        {
+            QueueCase.Run(latsweep, Path.Combine(jobs, "small-points.toml"), workers: 1, repeats),
+            QueueCase.Run(latsweep, Path.Combine(jobs, "20ms-points.toml"), workers: 1, repeats),
+        };
         break;
     }
 
