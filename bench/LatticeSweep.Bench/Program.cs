@@ -38,6 +38,8 @@ var report = new Dictionary<string, object>
 switch (caseName)
 {
     case "eigen":
+        report["peak_gflops_one_core"] = PeakFlops.GflopsPerCore();
+        Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core (512-bit FMA)");
         report["sizes"] = EigenCase.Run(cases, outDir, repeats);
         break;
     case "bulk":
