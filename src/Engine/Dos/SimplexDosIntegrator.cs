@@ -192,10 +192,12 @@ internal static class SimplexDosIntegrator
         var e32 = c - b;
         var e42 = d - b;
         var e43 = d - c;
-        var k1 = 1.0 / (e21 * e31 * e41);
-        var k2 = (e31 + e42) / (e32 * e42);
-        var k3 = 1.0 / (e31 * e41);
-        var k4 = 1.0 / (e41 * e42 * e43);
+        // One division for all four constants (the spreads are >= 1e-9 of the whole, so no underflow).
+        var r = 1.0 / (e21 * e31 * e41 * e32 * e42 * e43);
+        var k1 = r * e32 * e42 * e43;          // 1 / (e21 e31 e41)
+        var k3 = k1 * e21;                     // 1 / (e31 e41)
+        var k2 = (e31 + e42) * r * e21 * e31 * e41 * e43; // (e31 + e42) / (e32 e42)
+        var k4 = r * e21 * e31 * e32;          // 1 / (e41 e42 e43)
         // Three loops, one per piece of N(E), so the edge loop has no branch on the piece.
         var below = 0.0;
         var bin = firstBin;

@@ -13,8 +13,13 @@ namespace LatticeSweep.Engine.Solving;
 /// </summary>
 internal static class BulkSolver
 {
-    /// <summary>Fine bins per output bin target: the thermal integrals use at least this many bins.</summary>
-    public const int FineBinsTarget = 4096;
+    /// <summary>
+    /// Fine bins per output bin target: the thermal integrals use at least this many bins. Measured on a
+    /// two-site fcc model against 4096: S and Cv move by 2e-5 and 8e-6 relative at 5 K, below 3e-6 from
+    /// 50 K (the midpoint rule's h^2 error), far inside what the mesh itself leaves; half the bins halve
+    /// the tetrahedra's bin-edge work.
+    /// </summary>
+    public const int FineBinsTarget = 2048;
 
     public static long EstimateBytes(long meshPoints, int branches, bool weights) =>
         meshPoints * branches * 8L * (weights ? 1 + branches : 1);
