@@ -214,13 +214,15 @@ public static partial class HermitianEigenSolver
 
         var rawReLanes = MemoryMarshal.Cast<Vector512<double>, double>(rawRe);
         var rawImLanes = MemoryMarshal.Cast<Vector512<double>, double>(rawIm);
+        ref var reBase = ref MemoryMarshal.GetReference(rawReLanes);
+        ref var imBase = ref MemoryMarshal.GetReference(rawImLanes);
         for (var lane = 0; lane < lanes; lane++)
         {
-            var a = MemoryMarshal.Cast<Complex, double>(matrices.Slice(lane * nn, nn));
+            ref var a = ref Unsafe.As<Complex, double>(ref MemoryMarshal.GetReference(matrices.Slice(lane * nn, nn)));
             for (var k = 0; k < nn; k++)
             {
-                rawReLanes[(k * BatchLanes) + lane] = a[2 * k];
-                rawImLanes[(k * BatchLanes) + lane] = a[(2 * k) + 1];
+                Unsafe.Add(ref reBase, (k * BatchLanes) + lane) = Unsafe.Add(ref a, 2 * k);
+                Unsafe.Add(ref imBase, (k * BatchLanes) + lane) = Unsafe.Add(ref a, (2 * k) + 1);
             }
         }
 
@@ -506,10 +508,11 @@ public static partial class HermitianEigenSolver
                 order[j + 1] = o;
             }
 
-            var e = exponents[lane];
+            // Times 2^e, exactly what ScaleB gives (one rounding, and only for a subnormal result).
+            var power = Math.ScaleB(1.0, exponents[lane]);
             for (var k = 0; k < n; k++)
             {
-                values[(lane * n) + k] = Math.ScaleB(d[k], e);
+                values[(lane * n) + k] = d[k] * power;
             }
 
             if (vectors.IsEmpty)
