@@ -91,6 +91,7 @@ internal static class SimplexDosIntegrator
         var image2 = ImageOfCubes(m2);
         var image3 = ImageOfCubes(m3);
         var pairShare = 2 * share;
+        var inverseWidth = 1.0 / grid.WidthThz;
         for (var i1 = 0; i1 < m1; i1++)
         {
             var j1 = i1 + 1 == m1 ? 0 : i1 + 1;
@@ -139,7 +140,7 @@ internal static class SimplexDosIntegrator
 
                             AddTetrahedron(
                                 frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b],
-                                grid, cubeShare, total, partial, useWeights ? channels : 0, meanWeight);
+                                grid, inverseWidth, cubeShare, total, partial, useWeights ? channels : 0, meanWeight);
                         }
                     }
                 }
@@ -160,19 +161,33 @@ internal static class SimplexDosIntegrator
         return image;
     }
 
-    private static void AddTetrahedron(
-        double a, double b, double c, double d, FrequencyGrid grid, double share, double[] total, double[] partial, int channels, double[] meanWeight)
+    /// <summary>Bin of f like <see cref="FrequencyGrid.BinOf"/>, by a multiplication (f >= start, so truncation is floor).</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    private static int BinOf(double frequencyThz, FrequencyGrid grid, double inverseWidth)
     {
-        // Sorting network for four values.
-        if (a > b) (a, b) = (b, a);
-        if (c > d) (c, d) = (d, c);
-        if (a > c) (a, c) = (c, a);
-        if (b > d) (b, d) = (d, b);
-        if (b > c) (b, c) = (c, b);
+        var u = (frequencyThz - grid.StartThz) * inverseWidth;
+        return u <= 0 ? 0 : Math.Min((int)u, grid.Bins - 1);
+    }
+
+    private static void AddTetrahedron(
+        double a, double b, double c, double d, FrequencyGrid grid, double inverseWidth, double share, double[] total, double[] partial, int channels, double[] meanWeight)
+    {
+        // Sorting network for four values, branch-free (min/max): corner order is random, so branches
+        // would mispredict half the time.
+        var lo1 = Math.Min(a, b);
+        var hi1 = Math.Max(a, b);
+        var lo2 = Math.Min(c, d);
+        var hi2 = Math.Max(c, d);
+        a = Math.Min(lo1, lo2);
+        var midLow = Math.Max(lo1, lo2);
+        d = Math.Max(hi1, hi2);
+        var midHigh = Math.Min(hi1, hi2);
+        b = Math.Min(midLow, midHigh);
+        c = Math.Max(midLow, midHigh);
 
         var spread = d - a;
-        var firstBin = grid.BinOf(a);
-        var lastBin = grid.BinOf(d);
+        var firstBin = BinOf(a, grid, inverseWidth);
+        var lastBin = BinOf(d, grid, inverseWidth);
         if (firstBin == lastBin || spread <= 1e-12 * Math.Max(Math.Abs(d), grid.WidthThz))
         {
             Deposit(firstBin, share, total, partial, grid.Bins, channels, meanWeight);
