@@ -27,6 +27,12 @@ internal static class SimplexDosIntegrator
     {
         var (m1, m2, m3) = mesh;
         var cells = (long)m1 * m2 * m3;
+        if (dimension == 3)
+        {
+            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial);
+            return;
+        }
+
         var simplexShare = dimension switch { 1 => 1.0, 2 => 0.5, _ => 1.0 / 6.0 } / cells;
         var corners = new int[8];
         var e = new double[4];
@@ -57,6 +63,200 @@ internal static class SimplexDosIntegrator
                     }
                 }
             }
+        }
+    }
+
+    // The six tetrahedra as flat corner lists (same split as Tetrahedra above).
+    private static readonly int[] TetrahedronCorners = [0, 1, 3, 7, 0, 1, 5, 7, 0, 2, 3, 7, 0, 2, 6, 7, 0, 4, 5, 7, 0, 4, 6, 7];
+
+    /// <summary>
+    /// The 3D case in one tight loop: corner indices without modulo, a sorting network for the four
+    /// corner values, and the cumulative fraction at successive bin edges from per-tetrahedron
+    /// constants (no division per edge). Same numbers as <see cref="AddSimplex"/>.
+    /// </summary>
+    private static void AccumulateTetrahedra(
+        (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz, double[]? weights, int channels,
+        FrequencyGrid grid, double[] total, double[] partial)
+    {
+        var (m1, m2, m3) = mesh;
+        var share = 1.0 / 6.0 / ((long)m1 * m2 * m3);
+        Span<int> corners = stackalloc int[8];
+        var meanWeight = new double[Math.Max(channels, 1)];
+        var useWeights = weights is not null && channels > 0;
+
+        // omega(-q) = omega(q) (and the channel weights agree), and inversion maps the mesh cube based
+        // at i onto the one based at -(i + 1), carrying the six-tetrahedra split onto itself. So a cube
+        // and its image add the same states: visit one of each pair, twice the share.
+        var image1 = ImageOfCubes(m1);
+        var image2 = ImageOfCubes(m2);
+        var image3 = ImageOfCubes(m3);
+        var pairShare = 2 * share;
+        var inverseWidth = 1.0 / grid.WidthThz;
+        for (var i1 = 0; i1 < m1; i1++)
+        {
+            var j1 = i1 + 1 == m1 ? 0 : i1 + 1;
+            for (var i2 = 0; i2 < m2; i2++)
+            {
+                var j2 = i2 + 1 == m2 ? 0 : i2 + 1;
+                for (var i3 = 0; i3 < m3; i3++)
+                {
+                    var self = ((i1 * m2) + i2) * m3 + i3;
+                    var image = ((image1[i1] * m2) + image2[i2]) * m3 + image3[i3];
+                    if (image < self)
+                    {
+                        continue;
+                    }
+
+                    var cubeShare = image == self ? share : pairShare;
+                    var j3 = i3 + 1 == m3 ? 0 : i3 + 1;
+                    corners[0] = ((i1 * m2) + i2) * m3 + i3;
+                    corners[1] = ((j1 * m2) + i2) * m3 + i3;
+                    corners[2] = ((i1 * m2) + j2) * m3 + i3;
+                    corners[3] = ((j1 * m2) + j2) * m3 + i3;
+                    corners[4] = ((i1 * m2) + i2) * m3 + j3;
+                    corners[5] = ((j1 * m2) + i2) * m3 + j3;
+                    corners[6] = ((i1 * m2) + j2) * m3 + j3;
+                    corners[7] = ((j1 * m2) + j2) * m3 + j3;
+                    for (var t = 0; t < 24; t += 4)
+                    {
+                        var c0 = corners[TetrahedronCorners[t]] * branches;
+                        var c1 = corners[TetrahedronCorners[t + 1]] * branches;
+                        var c2 = corners[TetrahedronCorners[t + 2]] * branches;
+                        var c3 = corners[TetrahedronCorners[t + 3]] * branches;
+                        for (var b = 0; b < branches; b++)
+                        {
+                            if (useWeights)
+                            {
+                                Array.Clear(meanWeight);
+                                foreach (var c in (ReadOnlySpan<int>)[c0, c1, c2, c3])
+                                {
+                                    var baseIndex = (c + b) * channels;
+                                    for (var ch = 0; ch < channels; ch++)
+                                    {
+                                        meanWeight[ch] += weights![baseIndex + ch] / 4;
+                                    }
+                                }
+                            }
+
+                            AddTetrahedron(
+                                frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b],
+                                grid, inverseWidth, cubeShare, total, partial, useWeights ? channels : 0, meanWeight);
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    /// <summary>Base index of the image of each cube along one axis: mesh index i is n = i - floor(M/2), and -(n + 1) maps back.</summary>
+    private static int[] ImageOfCubes(int m)
+    {
+        var image = new int[m];
+        var h = m / 2;
+        for (var i = 0; i < m; i++)
+        {
+            image[i] = (((2 * h) - i - 1) % m + m) % m;
+        }
+
+        return image;
+    }
+
+    /// <summary>Bin of f like <see cref="FrequencyGrid.BinOf"/>, by a multiplication (f >= start, so truncation is floor).</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    private static int BinOf(double frequencyThz, FrequencyGrid grid, double inverseWidth)
+    {
+        var u = (frequencyThz - grid.StartThz) * inverseWidth;
+        return u <= 0 ? 0 : Math.Min((int)u, grid.Bins - 1);
+    }
+
+    private static void AddTetrahedron(
+        double a, double b, double c, double d, FrequencyGrid grid, double inverseWidth, double share, double[] total, double[] partial, int channels, double[] meanWeight)
+    {
+        // Sorting network for four values, branch-free (min/max): corner order is random, so branches
+        // would mispredict half the time.
+        var lo1 = Math.Min(a, b);
+        var hi1 = Math.Max(a, b);
+        var lo2 = Math.Min(c, d);
+        var hi2 = Math.Max(c, d);
+        a = Math.Min(lo1, lo2);
+        var midLow = Math.Max(lo1, lo2);
+        d = Math.Max(hi1, hi2);
+        var midHigh = Math.Min(hi1, hi2);
+        b = Math.Min(midLow, midHigh);
+        c = Math.Max(midLow, midHigh);
+
+        var spread = d - a;
+        var firstBin = BinOf(a, grid, inverseWidth);
+        var lastBin = BinOf(d, grid, inverseWidth);
+        if (firstBin == lastBin || spread <= 1e-12 * Math.Max(Math.Abs(d), grid.WidthThz))
+        {
+            Deposit(firstBin, share, total, partial, grid.Bins, channels, meanWeight);
+            return;
+        }
+
+        // Separate coincident corners by a hair (as AddSimplex does).
+        var delta = 1e-9 * spread;
+        if (b < a + delta) b = a + delta;
+        if (c < b + delta) c = b + delta;
+        if (d < c + delta) d = c + delta;
+
+        // N(E): x^3 k1 below b; (e21^2 + 3 e21 x + 3 x^2 - k2 x^3) k3 between b and c; 1 - y^3 k4 above c.
+        var e21 = b - a;
+        var e31 = c - a;
+        var e41 = d - a;
+        var e32 = c - b;
+        var e42 = d - b;
+        var e43 = d - c;
+        // One division for all four constants (the spreads are >= 1e-9 of the whole, so no underflow).
+        var r = 1.0 / (e21 * e31 * e41 * e32 * e42 * e43);
+        var k1 = r * e32 * e42 * e43;          // 1 / (e21 e31 e41)
+        var k3 = k1 * e21;                     // 1 / (e31 e41)
+        var k2 = (e31 + e42) * r * e21 * e31 * e41 * e43; // (e31 + e42) / (e32 e42)
+        var k4 = r * e21 * e31 * e32;          // 1 / (e41 e42 e43)
+        // Three loops, one per piece of N(E), so the edge loop has no branch on the piece.
+        var below = 0.0;
+        var bin = firstBin;
+        double edge;
+        for (; bin < lastBin && (edge = grid.Edge(bin + 1)) < b; bin++)
+        {
+            var x = Math.Max(edge - a, 0.0);
+            var cumulative = x * x * x * k1;
+            Put(bin, (cumulative - below) * share, total, partial, grid.Bins, channels, meanWeight);
+            below = cumulative;
+        }
+
+        var constant = e21 * e21;
+        for (; bin < lastBin && (edge = grid.Edge(bin + 1)) < c; bin++)
+        {
+            var x = edge - b;
+            var cumulative = (constant + (3 * x * (e21 + x)) - (k2 * x * x * x)) * k3;
+            Put(bin, (cumulative - below) * share, total, partial, grid.Bins, channels, meanWeight);
+            below = cumulative;
+        }
+
+        for (; bin < lastBin; bin++)
+        {
+            var y = Math.Max(d - grid.Edge(bin + 1), 0.0);
+            var cumulative = 1 - (y * y * y * k4);
+            Put(bin, (cumulative - below) * share, total, partial, grid.Bins, channels, meanWeight);
+            below = cumulative;
+        }
+
+        var rest = (1.0 - below) * share;
+        total[lastBin] += rest;
+        for (var ch = 0; ch < channels; ch++)
+        {
+            partial[ch * grid.Bins + lastBin] += rest * meanWeight[ch];
+        }
+    }
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    private static void Put(int bin, double amount, double[] total, double[] partial, int bins, int channels, double[] meanWeight)
+    {
+        total[bin] += amount;
+        for (var ch = 0; ch < channels; ch++)
+        {
+            partial[ch * bins + bin] += amount * meanWeight[ch];
         }
     }
 

@@ -21,7 +21,7 @@ namespace LatticeSweep.Engine.Numerics;
 /// </para>
 /// </summary>
 [SkipLocalsInit]
-public static class HermitianEigenSolver
+public static partial class HermitianEigenSolver
 {
     /// <summary>Largest allowed |a_ij - conj(a_ji)| (and |Im a_ii|) relative to max |a_ij|.</summary>
     internal const double HermitianTolerance = 1e-10;
@@ -69,6 +69,19 @@ public static class HermitianEigenSolver
         CheckShape(a.Length, n, values.Length);
         if (n == 0)
         {
+            return;
+        }
+
+        if (n == 1)
+        {
+            // The scalar models' 1 x 1 case: the (real) element is the eigenvalue, the vector is 1.
+            ScanHermitian(a, 1);
+            values[0] = a[0].Real;
+            if (wantVectors)
+            {
+                vectors[0] = Complex.One;
+            }
+
             return;
         }
 

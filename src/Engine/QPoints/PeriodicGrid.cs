@@ -18,39 +18,84 @@ internal readonly record struct PeriodicGrid(int N1, int N2, int N3)
     /// <summary>Reduced coordinate n_k / N_k of mesh index i_k, with n_k = i_k - floor(N_k / 2) in [-N/2, N/2).</summary>
     public static double Reduced(int i, int n) => (double)(i - n / 2) / n;
 
-    /// <summary>Mesh index of -q's coordinate along an axis.</summary>
+    /// <summary>Mesh index of -q's coordinate along an axis: n -> -n, i.e. i -> 2 floor(N/2) - i, wrapped into [0, N).</summary>
     public static int Partner(int i, int n)
     {
-        var h = n / 2;
-        var m = -(i - h);
-        var wrapped = ((m + h) % n + n) % n;
-        return wrapped;
+        if (n % 2 == 1)
+        {
+            return n - 1 - i;
+        }
+
+        return i == 0 ? 0 : n - i;
     }
 
-    /// <summary>Every wave vector once up to time reversal: (mesh indices, reduced q, weight 1 or 2, flat index of -q).</summary>
-    public IEnumerable<GridPoint> HalfSet()
-    {
-        for (var i1 = 0; i1 < N1; i1++)
-        {
-            var p1 = Partner(i1, N1);
-            for (var i2 = 0; i2 < N2; i2++)
-            {
-                var p2 = Partner(i2, N2);
-                for (var i3 = 0; i3 < N3; i3++)
-                {
-                    var p3 = Partner(i3, N3);
-                    var self = Index(i1, i2, i3);
-                    var partner = Index(p1, p2, p3);
-                    if (partner < self)
-                    {
-                        continue;
-                    }
+    /// <summary>
+    /// Every wave vector once up to time reversal: (mesh indices, reduced q, weight 1 or 2, flat index of -q).
+    /// A struct enumerable, so a foreach over millions of points costs no allocation or interface call.
+    /// </summary>
+    public HalfSetEnumerable HalfSet() => new(this);
 
-                    var reduced = new Vec3(Reduced(i1, N1), Reduced(i2, N2), Reduced(i3, N3));
-                    var isGamma = i1 == N1 / 2 && i2 == N2 / 2 && i3 == N3 / 2;
-                    yield return new GridPoint(self, partner, reduced, partner == self ? 1 : 2, isGamma);
+    /// <summary>The points of <see cref="HalfSet"/>, in mesh order.</summary>
+    internal readonly struct HalfSetEnumerable(PeriodicGrid grid) : IEnumerable<GridPoint>
+    {
+        public HalfSetEnumerator GetEnumerator() => new(grid);
+
+        IEnumerator<GridPoint> IEnumerable<GridPoint>.GetEnumerator() => GetEnumerator();
+
+        System.Collections.IEnumerator System.Collections.IEnumerable.GetEnumerator() => GetEnumerator();
+    }
+
+    internal struct HalfSetEnumerator(PeriodicGrid grid) : IEnumerator<GridPoint>
+    {
+        private int _i1;
+        private int _i2;
+        private int _i3 = -1;
+        private long _self = -1;
+        private GridPoint _current;
+
+        public readonly GridPoint Current => _current;
+
+        readonly object System.Collections.IEnumerator.Current => _current;
+
+        public bool MoveNext()
+        {
+            var (n1, n2, n3) = (grid.N1, grid.N2, grid.N3);
+            while (true)
+            {
+                if (++_i3 == n3)
+                {
+                    _i3 = 0;
+                    if (++_i2 == n2)
+                    {
+                        _i2 = 0;
+                        if (++_i1 == n1)
+                        {
+                            _i1 = n1; // stays past the end
+                            _i3 = n3 - 1;
+                            _i2 = n2 - 1;
+                            return false;
+                        }
+                    }
                 }
+
+                _self++;
+                var partner = grid.Index(Partner(_i1, n1), Partner(_i2, n2), Partner(_i3, n3));
+                if (partner < _self)
+                {
+                    continue;
+                }
+
+                var reduced = new Vec3(Reduced(_i1, n1), Reduced(_i2, n2), Reduced(_i3, n3));
+                var isGamma = _i1 == n1 / 2 && _i2 == n2 / 2 && _i3 == n3 / 2;
+                _current = new GridPoint(_self, partner, reduced, partner == _self ? 1 : 2, isGamma);
+                return true;
             }
+        }
+
+        public void Reset() => this = new HalfSetEnumerator(grid);
+
+        public readonly void Dispose()
+        {
         }
     }
 

@@ -1,9 +1,12 @@
 namespace LatticeSweep.Engine.Results;
 
-/// <summary>One branch at one point of a dispersion path. Group velocity in m/s (Cartesian).</summary>
+/// <summary>
+/// One branch at one point of a dispersion path: the distance travelled along the path so far
+/// (1/nm, Cartesian), the wave vector (1/nm), frequency (THz) and group velocity (m/s, Cartesian).
+/// </summary>
 public sealed record DispersionRow(
     int PathIndex,
-    double PathPosition,
+    double PathPositionPerNm,
     string? CornerLabel,
     double QxPerNm,
     double QyPerNm,

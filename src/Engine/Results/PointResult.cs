@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Engine.Results;
 
@@ -9,4 +10,8 @@ public sealed record PointResult(
     ImmutableArray<ThermalRow> Thermal,
     ImmutableArray<DisplacementRow> Displacements,
     ImmutableArray<DispersionRow> Dispersion,
-    ImmutableArray<ModeLevel> Modes);
+    ImmutableArray<ModeLevel> Modes)
+{
+    /// <summary>Thermal-conductivity estimates, when the options asked for them.</summary>
+    public ConductivityResult? Conductivity { get; init; }
+}

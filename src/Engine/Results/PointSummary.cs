@@ -63,4 +63,10 @@ public sealed record PointSummary
 
     /// <summary>Mean molar mass of the atoms, kg/mol: divide a per-mole-of-atoms value by it for per kg.</summary>
     public required double MolarMassKgPerMol { get; init; }
+
+    /// <summary>Lattice thermal conductivity at the reference temperature, W/(m K); NaN when not computed.</summary>
+    public double KappaWPerMK { get; init; } = double.NaN;
+
+    /// <summary>Cahill-Pohl-Watson minimum conductivity at the reference temperature, W/(m K); NaN when not computed.</summary>
+    public double KappaMinWPerMK { get; init; } = double.NaN;
 }

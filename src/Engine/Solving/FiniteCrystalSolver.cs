@@ -22,6 +22,8 @@ internal static class FiniteCrystalSolver
     /// <summary>Largest crystal accepted, in modes: beyond this one solve would run for days.</summary>
     public const long MaxModes = 4_000_000_000;
 
+    private const double ThzPerRadPerS = 1.0 / (2.0 * Math.PI) / 1e12;
+
     public static SpectrumOutcome Solve(ModeSolver solver, FiniteSample sample, SolveOptions options, double[] temperaturesK, ModeSink sink, CancellationToken ct)
     {
         var n = solver.Size;
@@ -37,32 +39,42 @@ internal static class FiniteCrystalSolver
 
         var perCell = 1.0 / grid.Count;
         var stats = new SpectrumStatistics(n);
-        var store = modes <= StoredModeLimit ? new double[modes] : null;
+        var store = modes <= Math.Min(StoredModeLimit, options.ModeListMaxModes) ? new double[modes] : null;
         var storedCount = 0L;
         var rigid = crystal.Components;
         long zeroModes = 0;
         var wantVectors = sink.WantsChannelFractions || options.PartialDos;
 
+        // Without eigenvectors, pass 2 reads pass 1's eigenvalues back when they fit the same fixed
+        // budget (memory still does not grow with the crystal: beyond it, pass 2 solves again).
+        var cached = !wantVectors && grid.HalfCount * n <= StoredModeLimit ? new double[grid.HalfCount * n] : null;
+        var visited = 0L;
+
         // Pass 1: eigenvalues only. The range is needed before any histogram can be binned.
         var scaleLambda = 0.0;
-        foreach (var point in grid.HalfSet())
+        solver.SolveHalfSet(grid, withVectors: false, (in GridPoint point, int slot) =>
         {
-            ct.ThrowIfCancellationRequested();
-            solver.SolveValues(lattice.ToCartesianQ(point.Reduced));
+            var values = solver.BatchValues(slot);
             var skip = point.IsGamma ? rigid : 0;
-            stats.Observe(solver.Values, point.Reduced, skip);
-            scaleLambda = Math.Max(scaleLambda, solver.Values[n - 1]);
+            stats.Observe(values, point.Reduced, skip);
+            scaleLambda = Math.Max(scaleLambda, values[n - 1]);
+            if (cached is not null)
+            {
+                values.CopyTo(cached.AsSpan((int)(visited * n), n));
+            }
+
+            visited++;
             if (store is not null)
             {
                 for (var k = skip; k < n; k++)
                 {
                     for (var w = 0; w < point.Weight; w++)
                     {
-                        store[storedCount++] = ModeSolver.SignedThz(solver.Values[k]);
+                        store[storedCount++] = ModeSolver.SignedThz(values[k]);
                     }
                 }
             }
-        }
+        }, ct);
 
         // Eigenvalues within the eigen-solver's round-off of zero (about 1e-14 of the largest) are
         // zero modes: a 1e7-cell chain's lowest mode (ratio ~1e-13) still counts as a mode.
@@ -77,32 +89,43 @@ internal static class FiniteCrystalSolver
         var fractions = new double[channels];
         var gaussian = options.DosMethod == DosMethod.Gaussian;
 
-        // Pass 2: thermal sums, histogram and displacements, mode by mode.
-        foreach (var point in grid.HalfSet())
+        // Pass 2: thermal sums, histogram and displacements, mode by mode. The top is known now, so the
+        // sink may bin the modes (exact to 1e-12) instead of summing each at every temperature.
+        if (scaleLambda > 0)
         {
-            ct.ThrowIfCancellationRequested();
-            var q = lattice.ToCartesianQ(point.Reduced);
-            if (wantVectors)
-            {
-                solver.SolveWithVectors(q);
-            }
-            else
-            {
-                solver.SolveValues(q);
-            }
+            sink.PrepareBins(Math.Sqrt(scaleLambda), modes);
+        }
 
+        if (cached is not null)
+        {
+            visited = 0L;
+            foreach (var point in grid.HalfSet())
+            {
+                ct.ThrowIfCancellationRequested();
+                Collect(point, cached.AsSpan((int)(visited * n), n), -1);
+                visited++;
+            }
+        }
+        else
+        {
+            solver.SolveHalfSet(grid, wantVectors, (in GridPoint point, int slot) => Collect(point, solver.BatchValues(slot), slot), ct);
+        }
+
+        void Collect(in GridPoint point, ReadOnlySpan<double> values, int slot)
+        {
             var skip = point.IsGamma ? rigid : 0;
             var weight = point.Weight * perCell;
             for (var k = skip; k < n; k++)
             {
-                var lambda = solver.Values[k];
+                var lambda = values[k];
                 if (wantVectors)
                 {
-                    solver.ChannelFractions(k, fractions);
+                    solver.BatchChannelFractions(slot, k, fractions);
                     SumSites(fractions, siteFractions, crystal.Components);
                 }
 
-                var thz = ModeSolver.SignedThz(lambda);
+                var omega = Math.Sqrt(Math.Abs(lambda));
+                var thz = lambda < 0 ? -omega * ThzPerRadPerS : omega * ThzPerRadPerS;
                 Deposit(thz, weight, gaussian, options.GaussianSigmaThz, grid0, total, partial, options.PartialDos ? siteFractions : default);
                 if (Math.Abs(lambda) <= zeroTolerance)
                 {
@@ -112,7 +135,7 @@ internal static class FiniteCrystalSolver
 
                 if (lambda > 0)
                 {
-                    sink.Add(Math.Sqrt(lambda), weight, wantVectors ? fractions : default);
+                    sink.Add(omega, weight, wantVectors ? fractions : default);
                 }
             }
         }

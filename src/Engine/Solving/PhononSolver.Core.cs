@@ -22,6 +22,7 @@ public static partial class PhononSolver
         var crystal = CompiledCrystal.From(model);
         var solver = new ModeSolver(new DynamicalMatrix(crystal));
         CheckNoFloppyBranch(solver);
+        var conductivity = Transport.ConductivityStep.ComputeIfAsked(model, crystal, sample, options, ct);
 
         var temperatures = TemperatureList(options);
         var channelMasses = Enumerable.Range(0, crystal.Size).Select(c => crystal.MassesKg[c / crystal.Components]).ToArray();
@@ -35,7 +36,7 @@ public static partial class PhononSolver
 
         var speeds = SoundSpeedFinder.Find(solver);
         var dispersion = options.Dispersion is null ? [] : DispersionCalculator.Compute(solver, options.Dispersion, ct);
-        return Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion);
+        return Transport.ConductivityStep.Attach(Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion), conductivity);
     }
 
     private static WorkEstimate EstimateCore(CrystalModel model, Sample sample, SolveOptions options)

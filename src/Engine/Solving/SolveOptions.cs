@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Engine.Solving;
 
@@ -33,4 +34,7 @@ public sealed record SolveOptions
 
     /// <summary>Upper bound on the working memory a finite crystal may claim, in bytes.</summary>
     public long MemoryLimitBytes { get; init; } = 2L << 30;
+
+    /// <summary>Lattice thermal-conductivity estimates; null = not computed.</summary>
+    public ConductivityOptions? Conductivity { get; init; }
 }

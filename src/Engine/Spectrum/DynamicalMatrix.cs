@@ -1,4 +1,5 @@
 using System.Numerics;
+using System.Runtime.InteropServices;
 using LatticeSweep.Engine.Models;
 
 namespace LatticeSweep.Engine.Spectrum;
@@ -14,12 +15,35 @@ internal sealed class DynamicalMatrix
     private readonly double[] _inverseSqrtMass;
     private readonly PairCoupling[] _couplings;
 
+    // Build's fast form: the self-terms already divided by the masses (c x c per site), and each
+    // spring once with its tensor scaled by -1 / sqrt(m_I m_J); its reverse (J, I, -d) takes the
+    // conjugate phase, so one SinCos serves both. Null when the couplings do not come in such pairs.
+    private readonly double[] _selfScaled;
+    private readonly ScaledPair[]? _pairs;
+
     public DynamicalMatrix(CompiledCrystal crystal)
     {
         _crystal = crystal;
         _inverseSqrtMass = [.. crystal.MassesKg.Select(m => 1.0 / Math.Sqrt(m))];
         _couplings = [.. crystal.Couplings];
+        var c = crystal.Components;
+        _selfScaled = new double[crystal.Sites * c * c];
+        for (var i = 0; i < crystal.Sites; i++)
+        {
+            var scale = _inverseSqrtMass[i] * _inverseSqrtMass[i];
+            for (var a = 0; a < c; a++)
+            {
+                for (var b = 0; b < c; b++)
+                {
+                    _selfScaled[(i * c * c) + (a * c) + b] = scale * crystal.SelfTerms[i][a, b];
+                }
+            }
+        }
+
+        _pairs = PairUp(_couplings, _inverseSqrtMass, c);
     }
+
+    private sealed record ScaledPair(int I, int J, Vec3 SeparationM, double[] Tensor);
 
     public int Size => _crystal.Size;
 
@@ -28,6 +52,12 @@ internal sealed class DynamicalMatrix
     /// <summary>Fills <paramref name="d"/> (Size x Size, row-major) with D at the Cartesian wave vector q (1/m).</summary>
     public void Build(Vec3 qPerM, Span<Complex> d)
     {
+        if (_pairs is not null)
+        {
+            BuildPaired(qPerM, MemoryMarshal.Cast<Complex, double>(d[..(Size * Size)]));
+            return;
+        }
+
         var n = Size;
         var c = _crystal.Components;
         d[..(n * n)].Clear();
@@ -62,6 +92,79 @@ internal sealed class DynamicalMatrix
             // d/dq of exp(i q.d) = i d exp(i q.d) = d (-sin + i cos)
             Add(dd, n, c, p.I, p.J, p.SpringNPerM, new Complex(-scale * sin, scale * cos));
         }
+    }
+
+    /// <summary>Same matrix as the general loop, with one SinCos per spring and no complex temporaries.</summary>
+    private void BuildPaired(Vec3 qPerM, Span<double> d)
+    {
+        var n = Size;
+        var c = _crystal.Components;
+        d.Clear();
+        for (var i = 0; i < _crystal.Sites; i++)
+        {
+            for (var a = 0; a < c; a++)
+            {
+                var row = 2 * ((((i * c) + a) * n) + (i * c));
+                for (var b = 0; b < c; b++)
+                {
+                    d[row + (2 * b)] += _selfScaled[(i * c * c) + (a * c) + b];
+                }
+            }
+        }
+
+        foreach (var p in _pairs!)
+        {
+            var (sin, cos) = Math.SinCos(p.SeparationM.Dot(qPerM));
+            var k = p.Tensor;
+            for (var a = 0; a < c; a++)
+            {
+                var forward = 2 * ((((p.I * c) + a) * n) + (p.J * c));
+                var backward = 2 * ((((p.J * c) + a) * n) + (p.I * c));
+                for (var b = 0; b < c; b++)
+                {
+                    var kab = k[(a * c) + b];
+                    d[forward + (2 * b)] += kab * cos;
+                    d[forward + (2 * b) + 1] += kab * sin;
+                    d[backward + (2 * b)] += kab * cos;
+                    d[backward + (2 * b) + 1] -= kab * sin;
+                }
+            }
+        }
+    }
+
+    /// <summary>Pairs each coupling with its reverse (the force-constant builder emits them one after the other).</summary>
+    private static ScaledPair[]? PairUp(PairCoupling[] couplings, double[] inverseSqrtMass, int c)
+    {
+        if (couplings.Length % 2 != 0)
+        {
+            return null;
+        }
+
+        var pairs = new ScaledPair[couplings.Length / 2];
+        for (var p = 0; p < pairs.Length; p++)
+        {
+            var f = couplings[2 * p];
+            var r = couplings[(2 * p) + 1];
+            var d = f.SeparationM;
+            if (r.I != f.J || r.J != f.I || r.SeparationM != new Vec3(-d.X, -d.Y, -d.Z) || r.SpringNPerM != f.SpringNPerM)
+            {
+                return null;
+            }
+
+            var scale = -inverseSqrtMass[f.I] * inverseSqrtMass[f.J];
+            var tensor = new double[c * c];
+            for (var a = 0; a < c; a++)
+            {
+                for (var b = 0; b < c; b++)
+                {
+                    tensor[(a * c) + b] = scale * f.SpringNPerM[a, b];
+                }
+            }
+
+            pairs[p] = new ScaledPair(f.I, f.J, d, tensor);
+        }
+
+        return pairs;
     }
 
     private static void Add(Span<Complex> d, int n, int c, int i, int j, in Matrix3 k, Complex factor)

@@ -160,7 +160,7 @@ internal static class ForceConstantBuilder
             {
                 var axis = Math.Abs(t.Xx) == weakest ? "x" : Math.Abs(t.Yy) == weakest ? "y" : "z";
                 problems.Add(new(ModelProblemKind.UnconnectedSite, $"sites[{i}]",
-                    $"site '{model.Sites[i].Label}' has no spring acting along {axis}; give a transverse constant, more shells, or use the scalar model"));
+                    $"site '{model.Sites[i].Label}' has no spring acting along {axis}; give its springs a constant along {axis} (longitudinal, or transverse for bonds across {axis}), add shells, or use the scalar model"));
             }
         }
 

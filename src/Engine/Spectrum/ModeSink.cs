@@ -7,6 +7,12 @@ namespace LatticeSweep.Engine.Spectrum;
 /// Collects modes (exact modes of a finite crystal, or density-of-states bins of a bulk mesh) into
 /// thermal sums, frequency moments and mean-square displacements. Weights are states per cell.
 /// Zero and negative frequencies never enter: the caller counts them.
+/// <para>
+/// A caller that knows the top frequency beforehand (the finite crystal's second pass) calls
+/// <see cref="PrepareBins"/>: modes then go into <see cref="ChebyshevModeBins"/> and the sums over
+/// temperatures are taken once per quadrature point instead of once per mode, to within 1e-12
+/// relative of the plain sum. Otherwise every mode is summed at every temperature.
+/// </para>
 /// </summary>
 internal sealed class ModeSink
 {
@@ -15,6 +21,10 @@ internal sealed class ModeSink
     private readonly double[]? _msd; // [t * channels + c], m^2
     private readonly double[] _massKgByChannel;
     private readonly int _channels;
+    private ChebyshevModeBins? _bins;
+    private double _sumInverseOmegaSquared;
+    private double _sumLnOmega;
+    private double _sumOmegaSquared;
 
     public ModeSink(double[] temperaturesK, int channels, double[] massKgByChannel, bool displacements)
     {
@@ -26,11 +36,24 @@ internal sealed class ModeSink
     }
 
     public double StatesCounted { get; private set; }
-    public double SumInverseOmegaSquared { get; private set; }
-    public double SumLnOmega { get; private set; }
-    public double SumOmegaSquared { get; private set; }
+
+    public double SumInverseOmegaSquared => Flushed()._sumInverseOmegaSquared;
+
+    public double SumLnOmega => Flushed()._sumLnOmega;
+
+    public double SumOmegaSquared => Flushed()._sumOmegaSquared;
 
     public bool WantsChannelFractions => _msd is not null;
+
+    /// <summary>True while modes go into bins (between <see cref="PrepareBins"/> and the first read of a sum).</summary>
+    internal bool IsBinning => _bins is not null;
+
+    /// <summary>
+    /// Announces that no mode above <paramref name="omegaTop"/> (rad/s) will come, out of about
+    /// <paramref name="expectedModes"/> modes; the sink then bins them where that is cheaper.
+    /// </summary>
+    public void PrepareBins(double omegaTop, long expectedModes) =>
+        _bins = ChebyshevModeBins.TryCreate(omegaTop, _temperaturesK, expectedModes, _msd is null ? 0 : _channels);
 
     /// <summary>Adds a mode of angular frequency omega with weight (states per cell) and its channel fractions (sum 1).</summary>
     public void Add(double omega, double weight, ReadOnlySpan<double> channelFractions)
@@ -41,9 +64,39 @@ internal sealed class ModeSink
         }
 
         StatesCounted += weight;
-        SumInverseOmegaSquared += weight / (omega * omega);
-        SumLnOmega += weight * Math.Log(omega);
-        SumOmegaSquared += weight * omega * omega;
+        if (_bins is not null && _bins.Add(omega, weight, _msd is null ? default : channelFractions))
+        {
+            return;
+        }
+
+        AddExact(omega, weight, channelFractions);
+    }
+
+    public ThermalSums Sums(int temperatureIndex) => Flushed()._sums[temperatureIndex];
+
+    /// <summary>Mean-square displacement (m^2) at temperature index t for channel c, or NaN when not collected.</summary>
+    public double Msd(int t, int c) => _msd is null ? double.NaN : Flushed()._msd![t * _channels + c];
+
+    /// <summary>Turns the binned moments (if any) into sums, once; later adds are summed one by one.</summary>
+    private ModeSink Flushed()
+    {
+        var bins = _bins;
+        if (bins is null)
+        {
+            return this;
+        }
+
+        _bins = null;
+        bins.ForEachPoint((omega, weight, channelWeights) => AddExact(omega, weight, channelWeights, weightsIncludeFractions: true));
+        return this;
+    }
+
+    /// <param name="weightsIncludeFractions">The channel values are weights of their own (a quadrature point), not fractions of <paramref name="weight"/>.</param>
+    private void AddExact(double omega, double weight, ReadOnlySpan<double> channelFractions, bool weightsIncludeFractions = false)
+    {
+        _sumInverseOmegaSquared += weight / (omega * omega);
+        _sumLnOmega += weight * Math.Log(omega);
+        _sumOmegaSquared += weight * omega * omega;
         for (var t = 0; t < _temperaturesK.Length; t++)
         {
             ModeThermodynamics.Accumulate(omega, weight, _temperaturesK[t], ref _sums[t]);
@@ -59,7 +112,7 @@ internal sealed class ModeSink
         for (var t = 0; t < _temperaturesK.Length; t++)
         {
             var coth = CothHalf(omega, _temperaturesK[t]);
-            var baseFactor = weight * PhysicalConstants.HbarJS / (2.0 * omega) * coth;
+            var baseFactor = (weightsIncludeFractions ? 1.0 : weight) * PhysicalConstants.HbarJS / (2.0 * omega) * coth;
             var row = t * _channels;
             for (var c = 0; c < _channels; c++)
             {
@@ -71,11 +124,6 @@ internal sealed class ModeSink
             }
         }
     }
-
-    public ThermalSums Sums(int temperatureIndex) => _sums[temperatureIndex];
-
-    /// <summary>Mean-square displacement (m^2) at temperature index t for channel c, or NaN when not collected.</summary>
-    public double Msd(int t, int c) => _msd is null ? double.NaN : _msd[t * _channels + c];
 
     private static double CothHalf(double omega, double temperatureK)
     {

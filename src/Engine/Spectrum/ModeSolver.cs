@@ -1,6 +1,7 @@
 using System.Numerics;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics;
+using LatticeSweep.Engine.QPoints;
 
 namespace LatticeSweep.Engine.Spectrum;
 
@@ -38,6 +39,78 @@ internal sealed class ModeSolver
     {
         _matrix.Build(qPerM, _d);
         HermitianEigenSolver.EigenSystem(_d, Size, Values, Vectors);
+    }
+
+    /// <summary>Wave vectors solved together by <see cref="SolveHalfSet"/> (two SIMD groups of the batched eigen-solver).</summary>
+    public const int BatchSize = 2 * HermitianEigenSolver.BatchLanes;
+
+    private Complex[]? _batchD;
+    private double[]? _batchValues;
+    private Complex[]? _batchVectors;
+
+    /// <summary>Called for each solved point of <see cref="SolveHalfSet"/>; its results are at <paramref name="slot"/>.</summary>
+    public delegate void SolvedPoint(in GridPoint point, int slot);
+
+    /// <summary>
+    /// Solves every point of the grid's half set, <see cref="BatchSize"/> at a time through the batched
+    /// eigen-solver, and calls <paramref name="visit"/> for each in grid order. Inside the call,
+    /// <see cref="BatchValues"/> and <see cref="BatchChannelFractions"/> give that point's results.
+    /// </summary>
+    public void SolveHalfSet(PeriodicGrid grid, bool withVectors, SolvedPoint visit, CancellationToken ct)
+    {
+        var n = Size;
+        var nn = n * n;
+        _batchD ??= new Complex[BatchSize * nn];
+        _batchValues ??= new double[BatchSize * n];
+        if (withVectors)
+        {
+            _batchVectors ??= new Complex[BatchSize * nn];
+        }
+
+        var points = new GridPoint[BatchSize];
+        var lattice = _matrix.Crystal.Lattice;
+        var fill = 0;
+        foreach (var point in grid.HalfSet())
+        {
+            points[fill] = point;
+            _matrix.Build(lattice.ToCartesianQ(point.Reduced), _batchD.AsSpan(fill * nn, nn));
+            if (++fill == BatchSize)
+            {
+                Flush(fill);
+                fill = 0;
+            }
+        }
+
+        if (fill > 0)
+        {
+            Flush(fill);
+        }
+
+        void Flush(int count)
+        {
+            ct.ThrowIfCancellationRequested();
+            HermitianEigenSolver.SolveBatch(_batchD.AsSpan(0, count * nn), n, count, _batchValues.AsSpan(0, count * n),
+                withVectors ? _batchVectors.AsSpan(0, count * nn) : []);
+            for (var k = 0; k < count; k++)
+            {
+                visit(in points[k], k);
+            }
+        }
+    }
+
+    /// <summary>Eigenvalues (ascending) of the point at <paramref name="slot"/> of the current batch.</summary>
+    public ReadOnlySpan<double> BatchValues(int slot) => _batchValues.AsSpan(slot * Size, Size);
+
+    /// <summary>|e_c|^2 of mode k of the point at <paramref name="slot"/>, for every channel c; sums to 1.</summary>
+    public void BatchChannelFractions(int slot, int mode, Span<double> fractions)
+    {
+        var n = Size;
+        var vectors = _batchVectors.AsSpan(slot * n * n, n * n);
+        for (var c = 0; c < n; c++)
+        {
+            var v = vectors[c * n + mode];
+            fractions[c] = v.Real * v.Real + v.Imaginary * v.Imaginary;
+        }
     }
 
     /// <summary>|e_{c}|^2 of mode k for every component channel c (site x direction); sums to 1.</summary>

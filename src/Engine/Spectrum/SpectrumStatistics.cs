@@ -21,7 +21,7 @@ internal sealed class SpectrumStatistics
 
     public Vec3 WorstQReduced { get; private set; }
 
-    public void Observe(double[] values, Vec3 reduced, int skipLowest)
+    public void Observe(ReadOnlySpan<double> values, Vec3 reduced, int skipLowest)
     {
         for (var k = 0; k < values.Length; k++)
         {

@@ -3,6 +3,7 @@ using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.JobFiles;
 using LatticeSweep.Worker.Planning;
 
@@ -96,7 +97,7 @@ public static class CheckCommand
             {
                 var request = PointBinder.Bind(plan, point);
                 var estimate = PhononSolver.Estimate(request.Model, request.Sample, request.Options);
-                flops.Add(estimate.FlopEstimate);
+                flops.Add(estimate.FlopEstimate + ConductivityWork.EstimateFlops(request.Model, request.Sample, request.Options));
                 peak = Math.Max(peak, estimate.PeakBytes);
                 bytes.Add(DiskBytes(plan.Outputs, request.Model, request.Sample, request.Options));
             }
@@ -140,7 +141,12 @@ public static class CheckCommand
 
         if (tables.Thermal)
         {
-            total += temperatures * 64.0;
+            total += temperatures * (options.Conductivity is null ? 64.0 : 104.0);
+        }
+
+        if (tables.CumulativeKappa)
+        {
+            total += 110 * 32.0; // 11 decades of mean free path, 10 rows each
         }
 
         if (tables.Displacements)

@@ -92,6 +92,12 @@ public static class SolveCommand
         t.Add("Debye temperature, log moment", D(s.DebyeTemperatureMomentLogK), "K");
         t.Add("Debye temperature, moment 2", D(s.DebyeTemperatureMoment2K), "K");
         t.Add("molar mass (mean per atom)", D(s.MolarMassKgPerMol * 1000), "g/mol");
+        if (!double.IsNaN(s.KappaWPerMK) || !double.IsNaN(s.KappaMinWPerMK))
+        {
+            t.Add("thermal conductivity (estimate)", D(s.KappaWPerMK), "W/(m K)");
+            t.Add("minimum conductivity (Cahill-Pohl-Watson)", D(s.KappaMinWPerMK), "W/(m K)");
+        }
+
         return t;
     }
 

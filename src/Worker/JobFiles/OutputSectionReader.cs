@@ -2,25 +2,26 @@ using System.Collections.Immutable;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Worker.Planning;
+using LatticeSweep.Worker.Planning.Specs;
 using Tomlyn.Model;
 
 namespace LatticeSweep.Worker.JobFiles;
 
-/// <summary>Reads <c>[output]</c>: temperatures, the DOS grid, the tables to write and an optional dispersion path.</summary>
+/// <summary>Reads <c>[output]</c>: temperatures, the DOS grid, the tables to write, an optional dispersion path and optional conductivity estimates.</summary>
 internal static class OutputSectionReader
 {
     public const double MaxTemperatureK = 100_000;
     public const int MaxTemperatures = 10_000;
 
     private static readonly string[] Keys =
-        ["temperatures_k", "temperature_range", "reference_temperature_k", "dos_bins", "dos_method", "gaussian_sigma_thz", "partial_dos", "tables", "dispersion", "mode_list_max_modes", "memory_limit_gib"];
+        ["temperatures_k", "temperature_range", "reference_temperature_k", "dos_bins", "dos_method", "gaussian_sigma_thz", "partial_dos", "tables", "dispersion", "mode_list_max_modes", "memory_limit_gib", "conductivity"];
 
     private static readonly string[] RangeKeys = ["from_k", "to_k", "steps", "scale"];
     private static readonly string[] DispersionKeys = ["path", "points_per_segment"];
     private static readonly string[] CornerKeys = ["label", "q"];
-    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", "displacements"];
+    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", "displacements", "cumulative_kappa"];
 
-    public static (SolveOptions Options, OutputSelection Tables)? Read(TableReader? t, int dimension)
+    public static (SolveOptions Options, OutputSelection Tables)? Read(TableReader? t, int dimension, ModelSpec? model = null, SampleSpec? sample = null, bool kindSwept = false)
     {
         var defaults = new SolveOptions();
         if (t is null)
@@ -44,6 +45,7 @@ internal static class OutputSectionReader
         var modeMax = t.Integer("mode_list_max_modes", 0, 100_000_000) ?? defaults.ModeListMaxModes;
         var memoryGib = t.Double("memory_limit_gib", check: Checks.Between(0.01, 1024));
         var dispersion = ReadDispersion(t.SubTable("dispersion"), dimension);
+        var conductivity = t.SubTable("conductivity") is { } c ? ConductivitySectionReader.Read(c, dimension, model, sample, kindSwept) : null;
 
         var selection = OutputSelection.Default with { Dispersion = dispersion is not null };
         var tables = t.StringList("tables", TableNames);
@@ -54,7 +56,8 @@ internal static class OutputSectionReader
                 Thermal: tables.Contains("thermal"),
                 Dispersion: tables.Contains("dispersion"),
                 Modes: tables.Contains("modes"),
-                Displacements: tables.Contains("displacements"));
+                Displacements: tables.Contains("displacements"),
+                CumulativeKappa: tables.Contains("cumulative_kappa"));
             if (selection.Dispersion && dispersion is null && !t.Has("dispersion"))
             {
                 t.Error("tables", "the dispersion table needs a path: add [output.dispersion] with path = [{ label = \"G\", q = [0, 0, 0] }, ...]");
@@ -63,6 +66,11 @@ internal static class OutputSectionReader
             if (!selection.Dispersion && dispersion is not null)
             {
                 t.Error("dispersion", "a dispersion path is given but \"dispersion\" is not in output.tables; add it there or remove the path");
+            }
+
+            if (selection.CumulativeKappa && !t.Has("conductivity"))
+            {
+                t.Error("tables", "the cumulative_kappa table needs conductivity estimates: add [output.conductivity] with at least one scattering channel");
             }
         }
 
@@ -82,6 +90,7 @@ internal static class OutputSectionReader
             ModeListMaxModes = modeMax,
             Dispersion = dispersion,
             MemoryLimitBytes = memoryGib is { } g ? (long)(g * (1L << 30)) : defaults.MemoryLimitBytes,
+            Conductivity = conductivity is null ? null : conductivity with { MeanFreePathTable = selection.CumulativeKappa },
         };
         return (options, selection);
     }

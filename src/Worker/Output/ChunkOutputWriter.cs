@@ -26,19 +26,14 @@ public static class ChunkOutputWriter
             ["latticesweep.engine_version"] = outcomes.Count > 0 ? outcomes[0].EngineVersion : sweep.EngineVersion,
         };
         var prepared = new List<PreparedPart>();
-        var stale = new List<string>();
         try
         {
             foreach (var rows in ChunkTables.Build(schemas, outputs, outcomes))
             {
+                // A table with no rows in this chunk still gets an empty part: it carries the schema, so
+                // every listed table folder exists and a reader's glob over it works (and a stale part
+                // from an earlier run of the chunk is replaced).
                 var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
-                if (rows.Rows.Count == 0 && rows.Table != TableNames.Points)
-                {
-                    // No rows for this table in this run: a part from an earlier run would be stale.
-                    stale.Add(folder);
-                    continue;
-                }
-
                 var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
                 prepared.Add(await ParquetPartWriter.PrepareAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false));
             }
@@ -70,11 +65,6 @@ public static class ChunkOutputWriter
                 throw;
             }
         }
-
-        foreach (var folder in stale)
-        {
-            ParquetPartWriter.Remove(folder, chunkId);
-        }
     }
 
     /// <summary>The output selection that a sweep's table list stands for.</summary>
@@ -87,6 +77,7 @@ public static class ChunkOutputWriter
             Thermal: t.Contains(TableNames.Thermal),
             Dispersion: t.Contains(TableNames.Dispersion),
             Modes: t.Contains(TableNames.Modes),
-            Displacements: t.Contains(TableNames.Displacements));
+            Displacements: t.Contains(TableNames.Displacements),
+            CumulativeKappa: t.Contains(TableNames.CumulativeKappa));
     }
 }

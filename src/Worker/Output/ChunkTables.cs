@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Planning;
 
@@ -25,7 +26,7 @@ internal static class ChunkTables
 
         if (outputs.Thermal)
         {
-            tables.Add(schemas.Thermal.Rows(solved.SelectMany(o => o.Result!.Thermal.Select(t => new RowOf<Engine.Results.ThermalRow>(o, t)))));
+            tables.Add(schemas.Thermal.Rows(solved.SelectMany(ThermalRows)));
         }
 
         if (outputs.Dispersion)
@@ -43,7 +44,24 @@ internal static class ChunkTables
             tables.Add(schemas.Displacements.Rows(solved.SelectMany(o => o.Result!.Displacements.Select(d => new RowOf<Engine.Results.DisplacementRow>(o, d)))));
         }
 
+        if (outputs.CumulativeKappa)
+        {
+            tables.Add(schemas.CumulativeKappa.Rows(solved.SelectMany(o => (o.Result!.Conductivity?.CumulativeByMeanFreePath ?? []).Select(m => new RowOf<MeanFreePathRow>(o, m)))));
+        }
+
         return tables;
+    }
+
+    /// <summary>Each thermal row with the conductivity at the same temperature (the Engine lists both in the order of the temperatures asked for).</summary>
+    private static IEnumerable<RowOf<ThermalValue>> ThermalRows(PointOutcome o)
+    {
+        var thermal = o.Result!.Thermal;
+        var kappa = o.Result.Conductivity?.ByTemperature ?? [];
+        for (var i = 0; i < thermal.Length; i++)
+        {
+            var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
+            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k));
+        }
     }
 
     private static IEnumerable<RowOf<DosValue>> DosRows(PointOutcome o)

@@ -1,4 +1,6 @@
+using System.Collections.Immutable;
 using LatticeSweep.Engine.Results;
+using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.Planning;
 
 namespace LatticeSweep.Worker.Output;
@@ -11,6 +13,9 @@ internal sealed record DosValue(int? Site, double FrequencyThz, double Density);
 
 /// <summary>One sound speed: direction, branch (slowest first) and speed.</summary>
 internal sealed record SoundSpeedValue(string Direction, int Branch, double SpeedMPerS);
+
+/// <summary>Thermal functions at one temperature and, when computed, the conductivity at the same temperature.</summary>
+internal sealed record ThermalValue(ThermalRow Thermal, ConductivityRow? Conductivity);
 
 /// <summary>
 /// Every result table's columns, names carrying their units. Each table starts with
@@ -32,10 +37,10 @@ internal sealed class ResultSchemas
             C<RowOf<DosValue>>("site", ColumnType.Int32, "", "basis site (0-based); empty for the total", r => r.Item.Site),
             C<RowOf<DosValue>>("freq_thz", ColumnType.Double, "THz", "bin centre frequency", r => r.Item.FrequencyThz),
             C<RowOf<DosValue>>("dos_per_thz_per_cell", ColumnType.Double, "1/(THz cell)", "states per THz per cell; the total integrates to the branch count", r => r.Item.Density));
-        Thermal = Spec<ThermalRow>(TableNames.Thermal, axes, ThermalColumns());
+        Thermal = Spec<ThermalValue>(TableNames.Thermal, axes, ThermalColumns());
         Dispersion = Spec<DispersionRow>(TableNames.Dispersion, axes,
             C<RowOf<DispersionRow>>("path_index", ColumnType.Int32, "", "index of the q point along the path", r => r.Item.PathIndex),
-            C<RowOf<DispersionRow>>("path_position", ColumnType.Double, "", "position along the path as the Engine reports it", r => r.Item.PathPosition),
+            C<RowOf<DispersionRow>>("path_position_per_nm", ColumnType.Double, "1/nm", "distance travelled along the path in reciprocal space", r => r.Item.PathPositionPerNm),
             C<RowOf<DispersionRow>>("corner_label", ColumnType.Text, "", "label when the q point is a path corner", r => r.Item.CornerLabel),
             C<RowOf<DispersionRow>>("qx_per_nm", ColumnType.Double, "1/nm", "wave vector x", r => r.Item.QxPerNm),
             C<RowOf<DispersionRow>>("qy_per_nm", ColumnType.Double, "1/nm", "wave vector y", r => r.Item.QyPerNm),
@@ -55,15 +60,21 @@ internal sealed class ResultSchemas
             C<RowOf<DisplacementRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x", r => r.Item.MsdXNm2),
             C<RowOf<DisplacementRow>>("msd_y_nm2", ColumnType.Double, "nm^2", "mean-square displacement along y", r => r.Item.MsdYNm2),
             C<RowOf<DisplacementRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "mean-square displacement along z", r => r.Item.MsdZNm2));
+        CumulativeKappa = Spec<MeanFreePathRow>(TableNames.CumulativeKappa, axes,
+            C<RowOf<MeanFreePathRow>>("temperature_k", ColumnType.Double, "K", "the reference temperature the accumulation is taken at", r => r.Outcome.Result?.Conductivity?.ReferenceTemperatureK),
+            C<RowOf<MeanFreePathRow>>("mfp_nm", ColumnType.Double, "nm", "phonon mean free path |v| tau (upper edge of a log bin, 10 per decade)", r => r.Item.MeanFreePathNm),
+            C<RowOf<MeanFreePathRow>>("kappa_cumulative_w_per_m_k", ColumnType.Double, "W/(m K)", "conductivity carried by modes with a mean free path up to mfp_nm (mean over the lattice's directions)", r => r.Item.CumulativeKappaWPerMK),
+            C<RowOf<MeanFreePathRow>>("kappa_fraction", ColumnType.Double, "1", "that part as a fraction of the whole", r => r.Item.CumulativeFraction));
     }
 
     public TableSpec<PointOutcome> Points { get; }
     public TableSpec<RowOf<SoundSpeedValue>> SoundSpeeds { get; }
     public TableSpec<RowOf<DosValue>> Dos { get; }
-    public TableSpec<RowOf<ThermalRow>> Thermal { get; }
+    public TableSpec<RowOf<ThermalValue>> Thermal { get; }
     public TableSpec<RowOf<DispersionRow>> Dispersion { get; }
     public TableSpec<RowOf<ModeLevel>> Modes { get; }
     public TableSpec<RowOf<DisplacementRow>> Displacements { get; }
+    public TableSpec<RowOf<MeanFreePathRow>> CumulativeKappa { get; }
 
     /// <summary>Columns of a table by name (for the manifest and the units metadata).</summary>
     public IReadOnlyList<ColumnDef> ColumnsOf(string table) => table switch
@@ -75,6 +86,7 @@ internal sealed class ResultSchemas
         TableNames.Dispersion => Dispersion.Defs,
         TableNames.Modes => Modes.Defs,
         TableNames.Displacements => Displacements.Defs,
+        TableNames.CumulativeKappa => CumulativeKappa.Defs,
         _ => throw new ArgumentException($"no table named {table}", nameof(table)),
     };
 
@@ -91,19 +103,21 @@ internal sealed class ResultSchemas
     private static IEnumerable<TableColumn<T>> PointHead<T>(IReadOnlyList<AxisInfo> axes, bool includeRunColumns, Func<T, PointOutcome> outcome, IEnumerable<string>? ownNames = null)
     {
         yield return C<T>("point_id", ColumnType.Text, "", "stable id of the point (a hash of its parameters)", r => outcome(r).Point.PointId);
+        // A swept parameter keeps one column name in every table: names taken by the points
+        // table's own columns are reserved everywhere (a swept `sample.kind` becomes `axis_sample_kind`).
         var reserved = new HashSet<string>(StringComparer.Ordinal) { "point_id" };
-        if (includeRunColumns)
+        foreach (var c in RunColumns<T>(outcome))
         {
-            foreach (var c in RunColumns<T>(outcome))
+            reserved.Add(c.Def.Name);
+            if (includeRunColumns)
             {
-                reserved.Add(c.Def.Name);
                 yield return c;
             }
+        }
 
-            foreach (var c in SummaryColumns())
-            {
-                reserved.Add(c.Def.Name);
-            }
+        foreach (var c in SummaryColumns())
+        {
+            reserved.Add(c.Def.Name);
         }
 
         foreach (var n in ownNames ?? [])
@@ -202,29 +216,70 @@ internal sealed class ResultSchemas
             C<PointOutcome>("debye_temperature_moment_2_k", ColumnType.Double, "K", "Debye temperature from the n = 2 frequency moment", o => S(o)?.DebyeTemperatureMoment2K),
             C<PointOutcome>("molar_mass_kg_per_mol", ColumnType.Double, "kg/mol", "mean molar mass of the atoms", o => S(o)?.MolarMassKgPerMol),
             C<PointOutcome>("dos_method", ColumnType.Text, "", "how the density of states was integrated", o => o.Result?.Dos.Method),
+            .. ConductivitySummaryColumns(),
         ];
     }
 
-    private static TableColumn<RowOf<ThermalRow>>[] ThermalColumns()
+    /// <summary>Conductivity numbers of a point (empty when it asked for none); NaN becomes empty, an unbounded kappa +Infinity.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ConductivitySummaryColumns()
     {
-        static double Cell(RowOf<ThermalRow> r, double v) => v * ThermalScale.PerCellFactor(r.Outcome.Result!.Summary.SitesPerCell);
-        static double Kg(RowOf<ThermalRow> r, double v) => v * ThermalScale.PerKgFactor(r.Outcome.Result!.Summary.MolarMassKgPerMol);
+        static ConductivityResult? K(PointOutcome o) => o.Result?.Conductivity;
+        static string? Mesh(ImmutableArray<int> mesh) => mesh.IsDefaultOrEmpty ? null : string.Join('x', mesh);
+        const string w = "W/(m K)";
         return
         [
-            C<RowOf<ThermalRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
-            C<RowOf<ThermalRow>>("internal_energy_j_per_mol", ColumnType.Double, "J/mol", "internal energy per mole of atoms", r => r.Item.InternalEnergyJPerMol),
-            C<RowOf<ThermalRow>>("free_energy_j_per_mol", ColumnType.Double, "J/mol", "Helmholtz free energy per mole of atoms", r => r.Item.FreeEnergyJPerMol),
-            C<RowOf<ThermalRow>>("entropy_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy per mole of atoms", r => r.Item.EntropyJPerMolK),
-            C<RowOf<ThermalRow>>("cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity per mole of atoms", r => r.Item.HeatCapacityJPerMolK),
-            C<RowOf<ThermalRow>>("debye_temperature_k", ColumnType.Double, "K", "Debye temperature matching this Cv (empty where undefined)", r => double.IsNaN(r.Item.DebyeTemperatureK) ? null : r.Item.DebyeTemperatureK),
-            C<RowOf<ThermalRow>>("internal_energy_j_per_cell", ColumnType.Double, "J/cell", "internal energy per primitive cell", r => Cell(r, r.Item.InternalEnergyJPerMol)),
-            C<RowOf<ThermalRow>>("free_energy_j_per_cell", ColumnType.Double, "J/cell", "free energy per primitive cell", r => Cell(r, r.Item.FreeEnergyJPerMol)),
-            C<RowOf<ThermalRow>>("entropy_j_per_cell_k", ColumnType.Double, "J/(cell K)", "entropy per primitive cell", r => Cell(r, r.Item.EntropyJPerMolK)),
-            C<RowOf<ThermalRow>>("cv_j_per_cell_k", ColumnType.Double, "J/(cell K)", "heat capacity per primitive cell", r => Cell(r, r.Item.HeatCapacityJPerMolK)),
-            C<RowOf<ThermalRow>>("internal_energy_j_per_kg", ColumnType.Double, "J/kg", "internal energy per kg", r => Kg(r, r.Item.InternalEnergyJPerMol)),
-            C<RowOf<ThermalRow>>("free_energy_j_per_kg", ColumnType.Double, "J/kg", "free energy per kg", r => Kg(r, r.Item.FreeEnergyJPerMol)),
-            C<RowOf<ThermalRow>>("entropy_j_per_kg_k", ColumnType.Double, "J/(kg K)", "entropy per kg", r => Kg(r, r.Item.EntropyJPerMolK)),
-            C<RowOf<ThermalRow>>("cv_j_per_kg_k", ColumnType.Double, "J/(kg K)", "heat capacity per kg", r => Kg(r, r.Item.HeatCapacityJPerMolK)),
+            C<PointOutcome>("kappa_w_per_m_k", ColumnType.Double, w, "lattice thermal conductivity at the reference temperature, mean over the lattice's directions (trace/3 in 3D)", o => V(K(o)?.AtReference.KappaWPerMK)),
+            C<PointOutcome>("kappa_xx_w_per_m_k", ColumnType.Double, w, "kappa_xx at the reference temperature", o => V(K(o)?.AtReference.KappaXxWPerMK)),
+            C<PointOutcome>("kappa_yy_w_per_m_k", ColumnType.Double, w, "kappa_yy at the reference temperature (empty for a chain)", o => V(K(o)?.AtReference.KappaYyWPerMK)),
+            C<PointOutcome>("kappa_zz_w_per_m_k", ColumnType.Double, w, "kappa_zz at the reference temperature (empty for a chain or sheet)", o => V(K(o)?.AtReference.KappaZzWPerMK)),
+            C<PointOutcome>("kappa_mesh_change", ColumnType.Double, "1", "relative change of kappa from the half-density mesh (bulk; empty for exact finite-crystal sums)", o => V(K(o)?.MeshRelativeChange)),
+            C<PointOutcome>("kappa_mesh", ColumnType.Text, "", "wave vectors per direction of the conductivity sum", o => K(o) is { } k ? Mesh(k.Mesh) : null),
+            C<PointOutcome>("kappa_check_mesh", ColumnType.Text, "", "the half-density mesh of the convergence check", o => K(o) is { } k ? Mesh(k.ConvergenceMesh) : null),
+            C<PointOutcome>("kappa_min_w_per_m_k", ColumnType.Double, w, "Cahill-Pohl-Watson minimum conductivity at the reference temperature (3D)", o => V(K(o)?.KappaMinWPerMK)),
+            C<PointOutcome>("kappa_min_high_t_w_per_m_k", ColumnType.Double, w, "its high-temperature limit", o => V(K(o)?.KappaMinHighTemperatureWPerMK)),
+            C<PointOutcome>("kappa_slack_at_debye_w_per_m_k", ColumnType.Double, w, "Slack's Umklapp-limited estimate at the acoustic Debye temperature (3D, with a Grueneisen parameter)", o => V(K(o)?.SlackKappaAtDebyeTemperatureWPerMK)),
+            C<PointOutcome>("kappa_slack_w_per_m_k", ColumnType.Double, w, "Slack's estimate at the reference temperature", o => V(K(o)?.SlackKappaAtReferenceWPerMK)),
+            C<PointOutcome>("kappa_share_boundary", ColumnType.Double, "1", "share of boundary scattering at the reference temperature", o => V(K(o)?.SharesAtReference.Boundary)),
+            C<PointOutcome>("kappa_share_point_defect", ColumnType.Double, "1", "share of point-defect and isotope scattering", o => V(K(o)?.SharesAtReference.PointDefect)),
+            C<PointOutcome>("kappa_share_umklapp", ColumnType.Double, "1", "share of Umklapp scattering", o => V(K(o)?.SharesAtReference.Umklapp)),
+            C<PointOutcome>("kappa_share_constant", ColumnType.Double, "1", "share of the constant relaxation time", o => V(K(o)?.SharesAtReference.Constant)),
+            C<PointOutcome>("kappa_boundary_length_nm", ColumnType.Double, "nm", "effective boundary length used", o => V(K(o)?.BoundaryLengthNm)),
+            C<PointOutcome>("kappa_mass_variance", ColumnType.Double, "1", "mass-variance parameter Gamma used", o => V(K(o)?.MassVarianceGamma)),
+            C<PointOutcome>("kappa_umklapp_debye_temperature_k", ColumnType.Double, "K", "theta of the Umklapp rate", o => V(K(o)?.UmklappDebyeTemperatureK)),
+            C<PointOutcome>("kappa_umklapp_sound_speed_m_per_s", ColumnType.Double, "m/s", "v of the Umklapp rate", o => V(K(o)?.UmklappSoundSpeedMPerS)),
+            C<PointOutcome>("acoustic_debye_temperature_k", ColumnType.Double, "K", "acoustic Debye temperature from the direction-averaged sound speeds", o => V(K(o)?.AcousticDebyeTemperatureK)),
+            C<PointOutcome>("debye_sound_speed_m_per_s", ColumnType.Double, "m/s", "Debye average of the acoustic sound speeds over directions", o => V(K(o)?.DebyeAverageSoundSpeedMPerS)),
+        ];
+    }
+
+    private static double? V(double? x) => x is { } v && !double.IsNaN(v) ? v : null;
+
+    private static TableColumn<RowOf<ThermalValue>>[] ThermalColumns()
+    {
+        static double Cell(RowOf<ThermalValue> r, double v) => v * ThermalScale.PerCellFactor(r.Outcome.Result!.Summary.SitesPerCell);
+        static double Kg(RowOf<ThermalValue> r, double v) => v * ThermalScale.PerKgFactor(r.Outcome.Result!.Summary.MolarMassKgPerMol);
+        const string w = "W/(m K)";
+        return
+        [
+            C<RowOf<ThermalValue>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.Thermal.TemperatureK),
+            C<RowOf<ThermalValue>>("internal_energy_j_per_mol", ColumnType.Double, "J/mol", "internal energy per mole of atoms", r => r.Item.Thermal.InternalEnergyJPerMol),
+            C<RowOf<ThermalValue>>("free_energy_j_per_mol", ColumnType.Double, "J/mol", "Helmholtz free energy per mole of atoms", r => r.Item.Thermal.FreeEnergyJPerMol),
+            C<RowOf<ThermalValue>>("entropy_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy per mole of atoms", r => r.Item.Thermal.EntropyJPerMolK),
+            C<RowOf<ThermalValue>>("cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity per mole of atoms", r => r.Item.Thermal.HeatCapacityJPerMolK),
+            C<RowOf<ThermalValue>>("debye_temperature_k", ColumnType.Double, "K", "Debye temperature matching this Cv (empty where undefined)", r => double.IsNaN(r.Item.Thermal.DebyeTemperatureK) ? null : r.Item.Thermal.DebyeTemperatureK),
+            C<RowOf<ThermalValue>>("internal_energy_j_per_cell", ColumnType.Double, "J/cell", "internal energy per primitive cell", r => Cell(r, r.Item.Thermal.InternalEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("free_energy_j_per_cell", ColumnType.Double, "J/cell", "free energy per primitive cell", r => Cell(r, r.Item.Thermal.FreeEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("entropy_j_per_cell_k", ColumnType.Double, "J/(cell K)", "entropy per primitive cell", r => Cell(r, r.Item.Thermal.EntropyJPerMolK)),
+            C<RowOf<ThermalValue>>("cv_j_per_cell_k", ColumnType.Double, "J/(cell K)", "heat capacity per primitive cell", r => Cell(r, r.Item.Thermal.HeatCapacityJPerMolK)),
+            C<RowOf<ThermalValue>>("internal_energy_j_per_kg", ColumnType.Double, "J/kg", "internal energy per kg", r => Kg(r, r.Item.Thermal.InternalEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("free_energy_j_per_kg", ColumnType.Double, "J/kg", "free energy per kg", r => Kg(r, r.Item.Thermal.FreeEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("entropy_j_per_kg_k", ColumnType.Double, "J/(kg K)", "entropy per kg", r => Kg(r, r.Item.Thermal.EntropyJPerMolK)),
+            C<RowOf<ThermalValue>>("cv_j_per_kg_k", ColumnType.Double, "J/(kg K)", "heat capacity per kg", r => Kg(r, r.Item.Thermal.HeatCapacityJPerMolK)),
+            C<RowOf<ThermalValue>>("kappa_xx_w_per_m_k", ColumnType.Double, w, "lattice thermal conductivity along x (empty when not computed)", r => V(r.Item.Conductivity?.KappaXxWPerMK)),
+            C<RowOf<ThermalValue>>("kappa_yy_w_per_m_k", ColumnType.Double, w, "along y (empty for a chain)", r => V(r.Item.Conductivity?.KappaYyWPerMK)),
+            C<RowOf<ThermalValue>>("kappa_zz_w_per_m_k", ColumnType.Double, w, "along z (empty for a chain or sheet)", r => V(r.Item.Conductivity?.KappaZzWPerMK)),
+            C<RowOf<ThermalValue>>("kappa_w_per_m_k", ColumnType.Double, w, "mean over the lattice's directions (trace/3 in 3D); +Infinity when the channels leave modes unscattered", r => V(r.Item.Conductivity?.KappaWPerMK)),
+            C<RowOf<ThermalValue>>("kappa_mesh_change", ColumnType.Double, "1", "relative change of kappa from the half-density mesh (bulk only)", r => V(r.Item.Conductivity?.MeshRelativeChange)),
         ];
     }
 }

@@ -12,6 +12,7 @@ public static class TableNames
     public const string Dispersion = "dispersion";
     public const string Modes = "modes";
     public const string Displacements = "displacements";
+    public const string CumulativeKappa = "cumulative_kappa";
 
     /// <summary>Every table a sweep with these outputs writes, points first. Sound speeds go with points.</summary>
     public static IReadOnlyList<string> For(OutputSelection outputs)

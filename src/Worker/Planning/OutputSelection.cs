@@ -2,8 +2,8 @@ using System.Collections.Immutable;
 
 namespace LatticeSweep.Worker.Planning;
 
-/// <summary>Which tables a sweep writes. <c>points</c> is always written.</summary>
-public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements)
+/// <summary>Which tables a sweep writes. <c>points</c> is always written; <c>cumulative_kappa</c> needs conductivity estimates.</summary>
+public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements, bool CumulativeKappa = false)
 {
     public static OutputSelection Default => new(Dos: true, Thermal: true, Dispersion: false, Modes: true, Displacements: true);
 
@@ -15,5 +15,6 @@ public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bo
             .. Dispersion ? new[] { "dispersion" } : [],
             .. Modes ? new[] { "modes" } : [],
             .. Displacements ? new[] { "displacements" } : [],
+            .. CumulativeKappa ? new[] { "cumulative_kappa" } : [],
         ];
 }

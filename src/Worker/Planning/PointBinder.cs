@@ -14,7 +14,7 @@ public static class PointBinder
         var spec = Apply(plan.Template, point);
         var model = EngineObjects.BuildModel(spec.Model);
         var sample = EngineObjects.BuildSample(spec.Sample, model.Lattice);
-        return new PointRequest(model, sample, plan.Template.Options);
+        return new PointRequest(model, sample, plan.Template.Options with { Conductivity = spec.Conductivity });
     }
 
     /// <summary>The point's spec: each swept column applied to the template in field order (cheap: a few record copies).</summary>

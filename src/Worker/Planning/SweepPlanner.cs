@@ -38,11 +38,11 @@ internal static class SweepPlanner
         var model = modelTable is null ? null : ModelSectionReader.Read(modelTable);
         var dimension = model?.Dimension ?? 0;
         var sample = SampleSectionReader.Read(root.SubTable("sample", required: true), dimension, kindSwept);
-        var output = OutputSectionReader.Read(root.SubTable("output"), dimension);
+        var output = OutputSectionReader.Read(root.SubTable("output"), dimension, model, sample, kindSwept);
         problems.ThrowIfAny();
 
-        var baseSpec = new BoundSpec(model!, sample!);
         var (options, tables) = output!.Value;
+        var baseSpec = new BoundSpec(model!, sample!, options.Conductivity);
         var catalog = FieldCatalog.Build(baseSpec);
         var axes = ResolveAxes(sweep, catalog, problems);
         var candidateTable = sweep.Candidates is { } cd ? CandidateTableReader.Read(cd, problems) : null;

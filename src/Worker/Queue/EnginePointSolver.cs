@@ -1,6 +1,7 @@
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Results;
 using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.Planning;
 
 namespace LatticeSweep.Worker.Queue;
@@ -23,7 +24,9 @@ public sealed class EnginePointSolver : IPointSolver
         try
         {
             var request = PointBinder.Bind(plan, point);
-            return PhononSolver.Estimate(request.Model, request.Sample, request.Options).FlopEstimate / AssumedFlopsPerSecond;
+            var flops = PhononSolver.Estimate(request.Model, request.Sample, request.Options).FlopEstimate
+                + ConductivityWork.EstimateFlops(request.Model, request.Sample, request.Options);
+            return flops / AssumedFlopsPerSecond;
         }
         catch (ModelException)
         {

@@ -23,6 +23,20 @@ public class DebyeModelTests
         }
     }
 
+    [Theory]
+    [InlineData(1, 3.2898681336964528)]   // pi^2 / 3
+    [InlineData(2, 7.2123414189575657)]   // 6 zeta(3)
+    [InlineData(3, 25.975757609067316)]   // 4 pi^4 / 15
+    public void Low_temperature_heat_capacity_follows_the_closed_form_integral(int d, double integralToInfinity)
+    {
+        // For theta/T = y >> 1: C/kB = d y^-d integral_0^inf x^(d+1) e^x / (e^x - 1)^2 dx, with the integral
+        // = (d+1)! zeta(d+1): pi^2/3, 6 zeta(3), 4 pi^4/15 (Kittel, ch. 5, eq. 5.36 for d = 3; the others
+        // by the same zeta-function identity, common practice). Held to 1e-12: the quadrature is exact to round-off.
+        const double y = 100;
+        Approx.Equal(d * integralToInfinity / Math.Pow(y, d), DebyeModel.HeatCapacityPerDof(1.0, y, d), 1e-12, $"d = {d}");
+        Approx.Equal(y, DebyeModel.TemperatureFromHeatCapacity(1.0, d * integralToInfinity / Math.Pow(y, d), d), 1e-11, $"inverse, d = {d}");
+    }
+
     [Fact]
     public void High_temperature_heat_capacity_is_classical_and_inversion_is_undefined_there()
     {

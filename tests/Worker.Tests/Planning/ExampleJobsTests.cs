@@ -96,6 +96,28 @@ public class ExampleJobsTests
     }
 
     [Fact]
+    public void Thin_film_sweeps_the_boundary_length_over_six_decades_for_two_specularities()
+    {
+        var plan = LoadExample("thin-film-size.toml");
+        Assert.Equal(26, plan.Points.Length);
+        Assert.Equal(["conductivity_boundary_length_nm", "conductivity_boundary_specularity"], plan.Axes.Select(a => a.ColumnName));
+        Assert.Contains("cumulative_kappa", plan.Outputs.TableNames);
+        var requests = plan.Points.Select(p => PointBinder.Bind(plan, p)).ToList();
+        var lengths = requests.Select(r => r.Options.Conductivity!.Boundary!.LengthNm!.Value).Distinct().Order().ToList();
+        Assert.Equal(13, lengths.Count);
+        Assert.Equal(1.0, lengths[0], 12);
+        Assert.Equal(1e6, lengths[^1], 6);
+        Assert.Equal([0.0, 0.5], requests.Select(r => r.Options.Conductivity!.Boundary!.Specularity).Distinct().Order());
+        Assert.All(requests, r =>
+        {
+            Assert.IsType<BulkSample>(r.Sample);
+            Assert.NotNull(r.Options.Conductivity!.Umklapp);
+            Assert.True(r.Options.Conductivity.MeanFreePathTable);
+            Assert.Equal(40.2, r.Model.Sites[0].MassAmu);
+        });
+    }
+
+    [Fact]
     public void Layered_basis_grows_the_cell_from_two_to_nine_sites()
     {
         var plan = LoadExample("layered-basis.toml");

@@ -6,13 +6,16 @@ namespace LatticeSweep.Worker.Planning.Fields;
 internal static class ColumnNames
 {
     /// <summary>
-    /// snake_case from a path, the <c>model.</c> prefix dropped and units kept:
+    /// snake_case from a path, the <c>model.</c> and <c>output.</c> prefixes dropped and units kept:
     /// <c>model.sites.Ga.mass_amu</c> becomes <c>sites_ga_mass_amu</c>, <c>model.springs[0].longitudinal_n_per_m</c>
-    /// becomes <c>springs_0_longitudinal_n_per_m</c>, <c>sample.cells</c> stays <c>sample_cells</c>.
+    /// becomes <c>springs_0_longitudinal_n_per_m</c>, <c>sample.cells</c> stays <c>sample_cells</c>,
+    /// <c>output.conductivity.boundary.length_nm</c> becomes <c>conductivity_boundary_length_nm</c>.
     /// </summary>
     public static string FromPath(string path)
     {
-        var p = path.StartsWith("model.", StringComparison.Ordinal) ? path["model.".Length..] : path;
+        var p = path.StartsWith("model.", StringComparison.Ordinal) ? path["model.".Length..]
+            : path.StartsWith("output.", StringComparison.Ordinal) ? path["output.".Length..]
+            : path;
         return Snake(p);
     }
 
@@ -44,6 +47,9 @@ internal static class ColumnNames
         _ when key.EndsWith("_gpa", StringComparison.Ordinal) => "GPa",
         _ when key.EndsWith("_k", StringComparison.Ordinal) => "K",
         _ when key.EndsWith("_thz", StringComparison.Ordinal) => "THz",
+        _ when key.EndsWith("_nm2", StringComparison.Ordinal) => "nm^2",
+        _ when key.EndsWith("_ps", StringComparison.Ordinal) => "ps",
+        _ when key.EndsWith("_m_per_s", StringComparison.Ordinal) => "m/s",
         "element" or "kind" => "",
         _ => "1",
     };

@@ -2,6 +2,7 @@ using System.Collections.Immutable;
 using System.Globalization;
 using LatticeSweep.Engine.Builders;
 using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.JobFiles;
 using LatticeSweep.Worker.Planning.Specs;
 
@@ -48,6 +49,11 @@ internal sealed class FieldCatalog
         }
 
         c.AddSample(spec.Sample, spec.Model.Dimension);
+        if (spec.Conductivity is { } conductivity)
+        {
+            c.AddConductivity(conductivity);
+        }
+
         return c;
     }
 
@@ -229,6 +235,75 @@ internal sealed class FieldCatalog
             Whole("sample.mesh", 1, SampleSectionReader.MaxMeshPerDirection, (s, v) => s with { Sample = s.Sample with { Mesh = [.. Enumerable.Repeat(v, dimension)] } });
         }
     }
+
+    /// <summary>
+    /// Conductivity settings under <c>output.conductivity</c>: only of channels the job file switches
+    /// on (a channel is not switched on by a sweep), but a channel's optional numbers (a boundary
+    /// length, an Umklapp theta or speed) may be swept even when the file leaves them to the model.
+    /// </summary>
+    private void AddConductivity(ConductivityOptions c)
+    {
+        const string p = "output.conductivity.";
+        if (c.GrueneisenParameter is not null)
+        {
+            Number(p + "grueneisen_parameter", Checks.Between(0.01, 100), (s, v) => s with { Conductivity = K(s) with { GrueneisenParameter = v } });
+        }
+
+        if (c.ThicknessNm is not null)
+        {
+            Number(p + "thickness_nm", Checks.Between(1e-6, ConductivitySectionReader.MaxLengthNm), (s, v) => s with { Conductivity = K(s) with { ThicknessNm = v } });
+        }
+
+        if (c.CrossSectionNm2 is not null)
+        {
+            Number(p + "cross_section_nm2", Checks.Between(1e-12, 1e24), (s, v) => s with { Conductivity = K(s) with { CrossSectionNm2 = v } });
+        }
+
+        if (c.Boundary is not null)
+        {
+            Number(p + "boundary.length_nm", Checks.Between(1e-3, ConductivitySectionReader.MaxLengthNm), (s, v) => s with { Conductivity = K(s) with { Boundary = K(s).Boundary! with { LengthNm = v } } });
+            Number(p + "boundary.specularity", Checks.Between(0, 1), (s, v) => s with { Conductivity = K(s) with { Boundary = K(s).Boundary! with { Specularity = v } } });
+        }
+
+        if (c.PointDefects is { } defects)
+        {
+            if (defects.MassVarianceGamma is not null)
+            {
+                Number(p + "point_defects.gamma", Checks.Between(0, 10), (s, v) => s with { Conductivity = K(s) with { PointDefects = K(s).PointDefects! with { MassVarianceGamma = v } } });
+            }
+
+            for (var i = 0; i < defects.Sites.Length; i++)
+            {
+                if (defects.Sites[i].NaturalElement is null)
+                {
+                    continue; // sweeping one fraction alone would break their sum
+                }
+
+                var si = i;
+                Text($"{p}point_defects.sites[{Index(i)}].element", CheckIsotopeElement, (s, v) =>
+                {
+                    var d = K(s).PointDefects!;
+                    return s with { Conductivity = K(s) with { PointDefects = d with { Sites = d.Sites.SetItem(si, d.Sites[si] with { NaturalElement = v }) } } };
+                }, 1);
+            }
+        }
+
+        if (c.Umklapp is not null)
+        {
+            Number(p + "umklapp.debye_temperature_k", Checks.Between(1e-3, 1e5), (s, v) => s with { Conductivity = K(s) with { Umklapp = K(s).Umklapp! with { DebyeTemperatureK = v } } });
+            Number(p + "umklapp.sound_speed_m_per_s", Checks.Between(1, 1e6), (s, v) => s with { Conductivity = K(s) with { Umklapp = K(s).Umklapp! with { SoundSpeedMPerS = v } } });
+        }
+
+        if (c.Constant is not null)
+        {
+            Number(p + "constant.relaxation_time_ps", Checks.Between(1e-9, ConductivitySectionReader.MaxRelaxationTimePs), (s, v) => s with { Conductivity = K(s) with { Constant = new ConstantScattering(v) } });
+        }
+    }
+
+    private static string? CheckIsotopeElement(string symbol) =>
+        NaturalIsotopes.TryGet(symbol, out _) ? null : $"has no natural isotopic composition in the table; known: {string.Join(", ", NaturalIsotopes.Symbols)}";
+
+    private static ConductivityOptions K(BoundSpec s) => s.Conductivity!;
 
     private static LatticeModelSpec L(BoundSpec s) => (LatticeModelSpec)s.Model;
 

@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Text;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Worker.Planning.Specs;
 
@@ -39,7 +40,47 @@ internal static class CanonicalSpec
             sb.Append('\n');
         }
 
+        // Written only when asked for, so the ids of points without conductivity do not change.
+        if (spec.Conductivity is { } conductivity)
+        {
+            WriteConductivity(sb, conductivity);
+        }
+
         return sb.ToString();
+    }
+
+    private static void WriteConductivity(StringBuilder sb, ConductivityOptions c)
+    {
+        static string N(double? v) => v is { } x ? D(x) : "-";
+        sb.Append("conductivity gamma=").Append(N(c.GrueneisenParameter))
+            .Append(" thickness=").Append(N(c.ThicknessNm))
+            .Append(" section=").Append(N(c.CrossSectionNm2))
+            .Append(" check=").Append(c.CheckMeshConvergence ? '1' : '0')
+            .Append(" mfp=").Append(c.MeanFreePathTable ? '1' : '0').Append('\n');
+        if (c.Boundary is { } b)
+        {
+            sb.Append("boundary length=").Append(N(b.LengthNm)).Append(" p=").Append(D(b.Specularity)).Append('\n');
+        }
+
+        if (c.PointDefects is { } p)
+        {
+            sb.Append("point_defects gamma=").Append(N(p.MassVarianceGamma)).Append('\n');
+            foreach (var site in p.Sites)
+            {
+                sb.Append("composition ").Append(Quote(site.SiteLabel)).Append(" element=").Append(site.NaturalElement is { } e ? Quote(e) : "-")
+                    .Append(" masses=").AppendJoin(';', site.Masses.Select(m => D(m.MassAmu) + ":" + D(m.Fraction))).Append('\n');
+            }
+        }
+
+        if (c.Umklapp is { } u)
+        {
+            sb.Append("umklapp theta=").Append(N(u.DebyeTemperatureK)).Append(" v=").Append(N(u.SoundSpeedMPerS)).Append('\n');
+        }
+
+        if (c.Constant is { } k)
+        {
+            sb.Append("constant tau_ps=").Append(D(k.RelaxationTimePs)).Append('\n');
+        }
     }
 
     private static void WriteModel(StringBuilder sb, ModelSpec model)

@@ -1,4 +1,5 @@
 using System.Globalization;
+using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Worker.Planning.Specs;
 
@@ -26,6 +27,19 @@ internal static class SpecChecks
         if (s.Kind == SampleKind.Bulk && s.Mesh.IsEmpty)
         {
             return "a bulk sample needs sample.mesh";
+        }
+
+        if (spec.Conductivity is { } c && s.Kind == SampleKind.Bulk)
+        {
+            if (c.Boundary is { LengthNm: null })
+            {
+                return "a bulk sample has no size: output.conductivity.boundary needs length_nm";
+            }
+
+            if (s.Mesh.Min() < ConductivityLimits.MinimumMesh)
+            {
+                return $"conductivity needs sample.mesh >= {I(ConductivityLimits.MinimumMesh)} per direction, got {I(s.Mesh.Min())}";
+            }
         }
 
         return null;

@@ -1,0 +1,110 @@
+using System.Diagnostics;
+using System.Runtime.Intrinsics.X86;
+using System.Text.Json;
+using LatticeSweep.Bench;
+
+// Usage: LatticeSweep.Bench CASE --cases FILE --out DIR [--repeats K] [--check-temperatures EVERY]
+// CASE: eigen | bulk | finite-chain | finite-3d | queue. Each case runs in its own process so that its
+// peak memory is its own; bench/run.sh runs them all and compares with the NumPy peer.
+var argList = args.ToList();
+string Option(string name, string fallback)
+{
+    var i = argList.IndexOf(name);
+    return i >= 0 && i + 1 < argList.Count ? argList[i + 1] : fallback;
+}
+
+if (argList.Count == 0 || argList[0].StartsWith("--", StringComparison.Ordinal))
+{
+    Console.Error.WriteLine("usage: LatticeSweep.Bench eigen|bulk|finite-chain|finite-3d --cases bench/cases.json --out DIR [--repeats K]");
+    return 2;
+}
+
+var caseName = argList[0];
+var cases = CaseFile.Load(Option("--cases", "bench/cases.json"));
+var outDir = Option("--out", "bench/results");
+var repeats = int.Parse(Option("--repeats", "5"), System.Globalization.CultureInfo.InvariantCulture);
+var checkEvery = int.Parse(Option("--check-temperatures", "1"), System.Globalization.CultureInfo.InvariantCulture);
+Directory.CreateDirectory(outDir);
+
+var report = new Dictionary<string, object>
+{
+    ["case"] = caseName,
+    ["runtime"] = System.Runtime.InteropServices.RuntimeInformation.FrameworkDescription,
+    ["avx2"] = Avx2.IsSupported,
+    ["avx512f"] = Avx512F.IsSupported,
+    ["vector512_accelerated"] = System.Runtime.Intrinsics.Vector512.IsHardwareAccelerated,
+};
+
+switch (caseName)
+{
+    case "eigen":
+        report["peak_gflops_one_core"] = PeakFlops.GflopsPerCore();
+        Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core (512-bit FMA)");
+        report["sizes"] = EigenCase.Run(cases, outDir, repeats);
+        break;
+    case "bulk":
+    {
+        var (result, time) = SolveCase.Run(cases, "bulk", finite: false, warmups: 1, repeats);
+        report["result"] = SolveCase.Describe(result, time);
+        Console.Error.WriteLine($"  bulk: {time.MedianSeconds:F3} s median of {time.Samples.Length} (cpu {time.MedianCpuSeconds:F3} s)");
+        break;
+    }
+
+    case "finite-chain":
+    case "finite-3d":
+    {
+        var section = caseName == "finite-chain" ? "finite_chain" : "finite_3d";
+        var (result, time) = SolveCase.Run(cases, section, finite: true, warmups: 1, repeats);
+        var peak = Process.GetCurrentProcess().PeakWorkingSet64;
+        var described = SolveCase.Describe(result, time);
+        described["peak_working_set_bytes"] = peak;
+        Console.Error.WriteLine($"  {caseName}: {time.MedianSeconds:F3} s median of {time.Samples.Length} (cpu {time.MedianCpuSeconds:F3} s), peak working set {peak / (1 << 20)} MiB");
+
+        // The plain exact sum over the same eigenvalues (untimed): the 1e-9 contract.
+        var s = cases.Section(section);
+        var cells = CaseFile.Ints(s.GetProperty("cells"));
+        var allT = result.Thermal.Select(r => r.TemperatureK).ToArray();
+        var picked = Enumerable.Range(0, allT.Length).Where(i => i % checkEvery == 0 || i == allT.Length - 1).ToArray();
+        var sw = Stopwatch.StartNew();
+        var plain = PlainModeSum.Compute(cases.Model(s.GetProperty("model").GetString()!), cells[0], cells[1], cells[2], [.. picked.Select(i => allT[i])]);
+        var worst = new Dictionary<string, object>();
+        double Worst(Func<int, double> ours, double[] reference, Func<int, double> scale) =>
+            picked.Select((i, k) => Math.Abs(ours(i) - reference[k]) / scale(k)).Max();
+        var zp = result.Summary.ZeroPointEnergyJPerMol;
+        worst["internal"] = Worst(i => result.Thermal[i].InternalEnergyJPerMol, plain.Internal, k => Math.Abs(plain.Internal[k]));
+        // F = ZPE + kT sum ln(1 - e^-x) can pass through zero: its error is taken relative to ZPE + |F - ZPE|.
+        worst["free"] = Worst(i => result.Thermal[i].FreeEnergyJPerMol, plain.Free, k => zp + Math.Abs(plain.Free[k] - zp));
+        worst["entropy"] = Worst(i => result.Thermal[i].EntropyJPerMolK, plain.Entropy, k => Math.Abs(plain.Entropy[k]));
+        worst["heat_capacity"] = Worst(i => result.Thermal[i].HeatCapacityJPerMolK, plain.HeatCapacity, k => Math.Abs(plain.HeatCapacity[k]));
+        described["plain_sum_check"] = new Dictionary<string, object>
+        {
+            ["temperatures_checked"] = picked.Length,
+            ["worst_relative_error"] = worst,
+            ["seconds"] = sw.Elapsed.TotalSeconds,
+        };
+        Console.Error.WriteLine($"  {caseName}: plain exact sum at {picked.Length} temperatures, worst relative error " +
+            string.Join(", ", worst.Select(kv => $"{kv.Key} {(double)kv.Value:E2}")) + $" ({sw.Elapsed.TotalSeconds:F1} s)");
+        report["result"] = described;
+        break;
+    }
+
+    case "queue":
+    {
+        var latsweep = Option("--latsweep", "src/Worker/bin/Release/net10.0/latsweep");
+        var jobs = Option("--jobs", "bench/queue");
+        report["runs"] = new List<object>
+        {
+            QueueCase.Run(latsweep, Path.Combine(jobs, "small-points.toml"), workers: 1, repeats),
+            QueueCase.Run(latsweep, Path.Combine(jobs, "20ms-points.toml"), workers: 1, repeats),
+        };
+        break;
+    }
+
+    default:
+        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, bulk, finite-chain or finite-3d");
+        return 2;
+}
+
+var path = Path.Combine(outDir, $"ours_{caseName}.json");
+File.WriteAllText(path, JsonSerializer.Serialize(report, new JsonSerializerOptions { WriteIndented = false }));
+return 0;

@@ -1,0 +1,79 @@
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Output;
+
+namespace LatticeSweep.Dashboard.Datasets;
+
+/// <summary>Plain-words labels and units of a sweep's result columns, taken from the Worker's schemas.</summary>
+internal sealed class ColumnCatalog
+{
+    private const string SweptPrefix = "swept parameter ";
+
+    /// <summary>Short headers for the summary table's usual columns; the full description goes in the tooltip.</summary>
+    private static readonly Dictionary<string, string> Short = new(StringComparer.Ordinal)
+    {
+        ["point_index"] = "Plan position",
+        ["state"] = "State",
+        ["max_freq_thz"] = "Highest frequency",
+        ["min_freq_thz"] = "Lowest frequency",
+        ["largest_gap_width_thz"] = "Widest gap",
+        ["largest_gap_lower_thz"] = "Widest gap from",
+        ["largest_gap_upper_thz"] = "Widest gap to",
+        ["gap_count"] = "Gaps",
+        ["sound_speed_min_m_per_s"] = "Slowest sound",
+        ["sound_speed_mean_m_per_s"] = "Mean sound speed",
+        ["sound_speed_max_m_per_s"] = "Fastest sound",
+        ["reference_temperature_k"] = "Reference T",
+        ["cv_j_per_mol_k"] = "Cv at reference T",
+        ["cv_j_per_kg_k"] = "Cv at reference T",
+        ["entropy_j_per_mol_k"] = "Entropy at reference T",
+        ["debye_temperature_from_cv_k"] = "Debye T from Cv",
+        ["kappa_w_per_m_k"] = "Conductivity at reference T",
+        ["stable"] = "Stable",
+        ["duration_s"] = "Time taken",
+    };
+
+    private readonly Dictionary<string, ColumnDef> _defs = new(StringComparer.Ordinal);
+
+    public ColumnCatalog(SweepRecord sweep, string table)
+    {
+        ArgumentNullException.ThrowIfNull(sweep);
+        foreach (var def in new ResultSchemas(sweep.Axes).ColumnsOf(table))
+        {
+            _defs[def.Name] = def;
+        }
+
+        Parameters = [.. _defs.Values.Where(d => d.Description.StartsWith(SweptPrefix, StringComparison.Ordinal)).Select(d => d.Name)];
+    }
+
+    /// <summary>Column names of the swept parameters, in axis order.</summary>
+    public IReadOnlyList<string> Parameters { get; }
+
+    public bool IsParameter(string column) => Parameters.Contains(column);
+
+    /// <summary>"Highest frequency"; a swept parameter reads as its path; an unknown column as its name.</summary>
+    public string Label(string column)
+    {
+        if (!_defs.TryGetValue(column, out var def))
+        {
+            return column.Replace('_', ' ');
+        }
+
+        if (def.Description.StartsWith(SweptPrefix, StringComparison.Ordinal))
+        {
+            return def.Description[SweptPrefix.Length..];
+        }
+
+        var text = def.Description;
+        return text.Length == 0 ? column : char.ToUpperInvariant(text[0]) + text[1..];
+    }
+
+    /// <summary>A header short enough for a table column.</summary>
+    public string ShortLabel(string column) => Short.TryGetValue(column, out var s) ? s : Label(column);
+
+    /// <summary>The unit from the file when it says, else from the schema.</summary>
+    public string Unit(ResultColumn column)
+    {
+        ArgumentNullException.ThrowIfNull(column);
+        return column.Unit.Length > 0 ? column.Unit : _defs.TryGetValue(column.Name, out var d) ? d.Unit : "";
+    }
+}

@@ -1,0 +1,140 @@
+using System.Collections.Immutable;
+using System.Text.Json;
+using Parquet;
+using Parquet.Schema;
+
+namespace LatticeSweep.Dashboard.Datasets;
+
+/// <summary>
+/// Reads a result table's Parquet part files into one <see cref="ResultTable"/>. Hidden files
+/// (a writer's temporaries, renamed into place when complete) are never read.
+/// </summary>
+internal static class ParquetTableReader
+{
+    /// <summary>Key of the file metadata entry holding every column's unit (written by the Worker).</summary>
+    public const string UnitsKey = "latticesweep.units";
+
+    /// <summary>The part files of a table folder, in name order; none when the folder is missing.</summary>
+    public static IReadOnlyList<string> PartFiles(string tableFolder) =>
+        Directory.Exists(tableFolder)
+            ? [.. Directory.EnumerateFiles(tableFolder, "*.parquet").Where(f => !Path.GetFileName(f).StartsWith('.')).Order(StringComparer.Ordinal)]
+            : [];
+
+    /// <summary>Reads and concatenates <paramref name="files"/>; columns appear in first-seen order.</summary>
+    public static async Task<ResultTable> ReadAsync(IEnumerable<string> files, CancellationToken ct)
+    {
+        var tables = new List<ResultTable>();
+        foreach (var file in files)
+        {
+            tables.Add(await ReadFileAsync(file, ct).ConfigureAwait(false));
+        }
+
+        return ResultTableConcat.Of(tables);
+    }
+
+    public static async Task<ResultTable> ReadFileAsync(string file, CancellationToken ct)
+    {
+        await using var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16, useAsync: true);
+        await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+        var units = Units(reader.CustomMetadata);
+        var fields = reader.Schema.GetDataFields();
+        var columns = fields.Select(f => new ResultColumn(f.Name, IsText(f) ? typeof(string) : f.ClrType, units.GetValueOrDefault(f.Name, ""))).ToImmutableArray();
+        var rows = new List<object?[]>();
+        for (var g = 0; g < reader.RowGroupCount; g++)
+        {
+            using var group = reader.OpenRowGroupReader(g);
+            var count = checked((int)group.RowCount);
+            var block = new object?[count][];
+            for (var r = 0; r < count; r++)
+            {
+                block[r] = new object?[fields.Length];
+            }
+
+            for (var c = 0; c < fields.Length; c++)
+            {
+                var values = await ReadColumnAsync(group, fields[c], count, ct).ConfigureAwait(false);
+                for (var r = 0; r < count; r++)
+                {
+                    block[r][c] = values[r];
+                }
+            }
+
+            rows.AddRange(block);
+        }
+
+        return new ResultTable(columns, [.. rows.Select(r => r.ToImmutableArray())]);
+    }
+
+    private static async Task<object?[]> ReadColumnAsync(ParquetRowGroupReader group, DataField field, int count, CancellationToken ct)
+    {
+        var type = field.ClrType;
+        if (IsText(field))
+        {
+            var values = new string?[count];
+            await group.ReadAsync(field, values.AsMemory()!, cancellationToken: ct).ConfigureAwait(false);
+            return values;
+        }
+
+        if (type == typeof(double))
+        {
+            return await ReadNullableAsync<double>(group, field, count, ct).ConfigureAwait(false);
+        }
+
+        if (type == typeof(float))
+        {
+            return [.. (await ReadNullableAsync<float>(group, field, count, ct).ConfigureAwait(false)).Select(v => v is float f ? (object)(double)f : null)];
+        }
+
+        if (type == typeof(int))
+        {
+            return await ReadNullableAsync<int>(group, field, count, ct).ConfigureAwait(false);
+        }
+
+        if (type == typeof(long))
+        {
+            return await ReadNullableAsync<long>(group, field, count, ct).ConfigureAwait(false);
+        }
+
+        if (type == typeof(bool))
+        {
+            return await ReadNullableAsync<bool>(group, field, count, ct).ConfigureAwait(false);
+        }
+
+        if (type == typeof(DateTime))
+        {
+            return [.. (await ReadNullableAsync<DateTime>(group, field, count, ct).ConfigureAwait(false))
+                .Select(v => v is DateTime t ? (object)new DateTimeOffset(DateTime.SpecifyKind(t, DateTimeKind.Utc)) : null)];
+        }
+
+        // A type the Worker does not write: leave the cells empty rather than fail the page.
+        return new object?[count];
+    }
+
+    /// <summary>Parquet.Net 6 reports UTF-8 columns as <see cref="ReadOnlyMemory{T}"/> of char; they read as strings.</summary>
+    private static bool IsText(DataField field) => field.ClrType == typeof(string) || field.ClrType == typeof(ReadOnlyMemory<char>);
+
+    private static async Task<object?[]> ReadNullableAsync<T>(ParquetRowGroupReader group, DataField field, int count, CancellationToken ct)
+        where T : struct
+    {
+        var values = new T?[count];
+        await group.ReadAsync<T>(field, values.AsMemory(), cancellationToken: ct).ConfigureAwait(false);
+        return [.. values.Select(v => v.HasValue ? (object)v.Value : null)];
+    }
+
+    private static Dictionary<string, string> Units(IReadOnlyDictionary<string, string>? metadata)
+    {
+        if (metadata is null || !metadata.TryGetValue(UnitsKey, out var json))
+        {
+            return [];
+        }
+
+        try
+        {
+            return JsonSerializer.Deserialize<Dictionary<string, string>>(json) ?? [];
+        }
+        catch (JsonException)
+        {
+            return [];
+        }
+    }
+}

@@ -1,0 +1,127 @@
+using System.Collections.Immutable;
+using LatticeSweep.Dashboard.Formatting;
+using LatticeSweep.Dashboard.Progress;
+using LatticeSweep.Dashboard.Datasets;
+using LatticeSweep.Worker.Catalog;
+
+namespace LatticeSweep.Dashboard.Endpoints;
+
+/// <summary>A sweep's line on the sweeps page: counts, rate and time left, with the texts the page shows.</summary>
+public sealed record SweepLine(
+    string SweepId,
+    string Name,
+    string Description,
+    string State,
+    long Total,
+    long Waiting,
+    long Running,
+    long Done,
+    long Failed,
+    long Cancelled,
+    double FractionFinished,
+    double? RatePointsPerMin,
+    double? EtaS,
+    double? ElapsedS,
+    DateTimeOffset CreatedAt,
+    DateTimeOffset? StartedAt,
+    DateTimeOffset? FinishedAt,
+    string Url,
+    SweepLineText Text)
+{
+    public static SweepLine Of(SweepProgress p)
+    {
+        ArgumentNullException.ThrowIfNull(p);
+        var s = p.Sweep;
+        var c = s.Counts;
+        return new SweepLine(
+            s.SweepId, s.Name, s.Description, StateText(s.State), c.Total, c.Waiting, c.Running, c.Done, c.Failed, c.Cancelled,
+            p.FractionFinished, p.RatePointsPerMinute, p.Remaining?.TotalSeconds, p.Elapsed?.TotalSeconds,
+            s.CreatedAt, s.StartedAt, s.FinishedAt, Links.Sweep(s.SweepId),
+            new SweepLineText(Show.Percent(p.FractionFinished), Show.Rate(p.RatePointsPerMinute), Show.Number(p.RatePointsPerMinute),
+                p.IsActive ? Show.Duration(p.Remaining) : Show.Missing, Show.Duration(p.Elapsed), Show.Clock(s.StartedAt), Show.Clock(s.FinishedAt)));
+    }
+
+    public static string StateText(SweepState state) => state.ToString().ToLowerInvariant();
+}
+
+/// <summary>The display texts of a <see cref="SweepLine"/>, formatted once on the server (times in UTC).</summary>
+public sealed record SweepLineText(string Finished, string Rate, string RateNumber, string Eta, string Elapsed, string Started, string FinishedAt);
+
+/// <summary>The sweeps list.</summary>
+public sealed record SweepList(DateTimeOffset GeneratedAt, ImmutableArray<SweepLine> Sweeps);
+
+/// <summary>Point counts for one value of a swept parameter.</summary>
+public sealed record AxisValueLine(object Value, string ValueText, long Total, long Done, long Failed, long Pending, long Cancelled);
+
+/// <summary>Coverage of one swept parameter.</summary>
+public sealed record AxisLine(string Column, string Path, string Unit, ImmutableArray<AxisValueLine> Values);
+
+/// <summary>A failed point as listed in its group.</summary>
+public sealed record FailedPointLine(string PointId, ImmutableSortedDictionary<string, object> Parameters, int Attempts, string? Worker, string Url);
+
+/// <summary>Failed points sharing one reason.</summary>
+public sealed record FailureLine(string Kind, string KindText, string Reason, long Count, ImmutableArray<FailedPointLine> Points);
+
+/// <summary>A dataset folder of the sweep and where to browse it.</summary>
+public sealed record DatasetLink(string Table, string Url, int PartFiles);
+
+/// <summary>Everything the sweep page shows except the summary table.</summary>
+public sealed record SweepDetail(
+    SweepLine Sweep,
+    int Chunks,
+    string EngineVersion,
+    bool ResultsAvailable,
+    ImmutableArray<AxisLine> Axes,
+    ImmutableArray<FailureLine> Failures,
+    ImmutableArray<DatasetLink> Datasets,
+    string ResultsUrl);
+
+/// <summary>A page of the summary table.</summary>
+public sealed record ResultsPage(
+    ImmutableArray<SummaryColumn> Columns,
+    ImmutableArray<ResultsRow> Rows,
+    int TotalRows,
+    string Sort,
+    bool Descending,
+    int Offset,
+    int Limit);
+
+/// <summary>A row of the summary table, values in column order.</summary>
+public sealed record ResultsRow(string PointId, string Url, ImmutableArray<object?> Values);
+
+/// <summary>A point: the catalog's record and its summary numbers (empty until it has a result row).</summary>
+public sealed record PointDetail(
+    string SweepId,
+    string PointId,
+    string State,
+    string? FailureKind,
+    string? Error,
+    int Attempts,
+    string ChunkId,
+    string? Worker,
+    DateTimeOffset? StartedAt,
+    DateTimeOffset? FinishedAt,
+    double? DurationS,
+    ImmutableSortedDictionary<string, object> Parameters,
+    ImmutableArray<PointNumberGroup> Summary,
+    string CurvesUrl);
+
+/// <summary>Addresses of the pages and endpoints, in one place.</summary>
+public static class Links
+{
+    public static string Sweep(string sweepId) => "/sweeps/" + Uri.EscapeDataString(sweepId);
+
+    public static string Point(string sweepId, string pointId) => Sweep(sweepId) + "/points/" + Uri.EscapeDataString(pointId);
+
+    public static string ApiSweep(string sweepId) => "/api" + Sweep(sweepId);
+
+    public static string ApiResults(string sweepId) => ApiSweep(sweepId) + "/results";
+
+    public static string ApiPoint(string sweepId, string pointId) => "/api" + Point(sweepId, pointId);
+
+    public static string ApiCurves(string sweepId, string pointId) => ApiPoint(sweepId, pointId) + "/curves";
+
+    /// <summary>The file browser for a path relative to the output root (segments escaped, slashes kept).</summary>
+    public static string Files(string relative) =>
+        "/files/" + string.Join('/', relative.Split('/', StringSplitOptions.RemoveEmptyEntries).Select(Uri.EscapeDataString));
+}

@@ -1,0 +1,138 @@
+using System.Collections.Immutable;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Units;
+using MathNet.Numerics.Integration;
+
+namespace LatticeSweep.Engine.Transport;
+
+/// <summary>
+/// Sound speeds averaged over directions, for the channels and estimates that need one speed per
+/// branch or one Debye speed. Along each direction u the acoustic slopes come from two small wave
+/// vectors with Richardson extrapolation, v^2 = (4 l(e) - l(2e)/4) / (3 e^2) (as in the engine's
+/// sound-speed finder; common practice, no source). Directions: 3D, Gauss-Legendre in cos(theta) on
+/// the upper hemisphere x 16 uniform azimuths (omega(-q) = omega(q) covers the lower one); 2D, 16
+/// azimuths on a half circle; 1D, the chain axis. Speeds are sorted slowest first per direction.
+/// </summary>
+internal sealed record AcousticAverages
+{
+    /// <summary>Direction average of each acoustic branch's speed, slowest first (m/s).</summary>
+    public required ImmutableArray<double> MeanSpeedsMPerS { get; init; }
+
+    /// <summary>v_D with v_D^-d = mean over branches and directions of v^-d (m/s).</summary>
+    public required double DebyeSpeedMPerS { get; init; }
+
+    /// <summary>theta_a = hbar v_D k_D / kB with k_D from one acoustic set per primitive cell (K).</summary>
+    public required double AcousticDebyeTemperatureK { get; init; }
+
+    /// <summary>False when a slope squared is not positive (unstable or floppy long waves).</summary>
+    public required bool Stable { get; init; }
+
+    public static AcousticAverages Measure(ModeSolver solver)
+    {
+        var crystal = solver.Matrix.Crystal;
+        var lattice = crystal.Lattice;
+        var d = lattice.Dimension;
+        var branches = crystal.Components;
+        var epsilon = 1e-3 * SmallestReciprocal(lattice);
+        var sums = new double[branches];
+        var inverseSum = 0.0;
+        var stable = true;
+        var speeds = new double[branches];
+        foreach (var (u, w) in Directions(d))
+        {
+            solver.SolveValues(epsilon * u);
+            var near = solver.Values.AsSpan(0, branches).ToArray();
+            solver.SolveValues(2 * epsilon * u);
+            for (var k = 0; k < branches; k++)
+            {
+                var v2 = (4 * near[k] - solver.Values[k] / 4) / (3 * epsilon * epsilon);
+                stable &= v2 > 0;
+                speeds[k] = v2 > 0 ? Math.Sqrt(v2) : 0;
+            }
+
+            Array.Sort(speeds);
+            for (var k = 0; k < branches; k++)
+            {
+                sums[k] += w * speeds[k];
+                inverseSum += speeds[k] > 0 ? w * Math.Pow(speeds[k], -d) : 0;
+            }
+        }
+
+        if (!stable)
+        {
+            return new AcousticAverages
+            {
+                MeanSpeedsMPerS = [.. Enumerable.Repeat(double.NaN, branches)],
+                DebyeSpeedMPerS = double.NaN,
+                AcousticDebyeTemperatureK = double.NaN,
+                Stable = false,
+            };
+        }
+
+        var debye = Math.Pow(inverseSum / branches, -1.0 / d);
+        return new AcousticAverages
+        {
+            MeanSpeedsMPerS = [.. sums],
+            DebyeSpeedMPerS = debye,
+            AcousticDebyeTemperatureK = PhysicalConstants.HbarJS * debye * DebyeWaveNumber(lattice) / PhysicalConstants.BoltzmannJPerK,
+            Stable = true,
+        };
+    }
+
+    /// <summary>
+    /// k_D of a d-dimensional Debye sphere holding one state per primitive cell: 1D pi / a,
+    /// 2D sqrt(4 pi / A), 3D (6 pi^2 / V)^(1/3) (Kittel, Introduction to Solid State Physics, ch. 5).
+    /// </summary>
+    public static double DebyeWaveNumber(Lattice lattice) => lattice.Dimension switch
+    {
+        1 => Math.PI / lattice.CellMeasure,
+        2 => Math.Sqrt(4 * Math.PI / lattice.CellMeasure),
+        _ => Math.Cbrt(6 * Math.PI * Math.PI / lattice.CellMeasure),
+    };
+
+    public static double SmallestReciprocal(Lattice lattice)
+    {
+        var b = double.PositiveInfinity;
+        for (var k = 0; k < lattice.Dimension; k++)
+        {
+            b = Math.Min(b, lattice.ReciprocalVector(k).Length);
+        }
+
+        return b;
+    }
+
+    /// <summary>Unit directions with weights summing to 1, covering the directions up to u -> -u.</summary>
+    private static IEnumerable<(Vec3 Direction, double Weight)> Directions(int dimension)
+    {
+        const int azimuths = 16;
+        if (dimension == 1)
+        {
+            yield return (new Vec3(1, 0, 0), 1.0);
+            yield break;
+        }
+
+        if (dimension == 2)
+        {
+            for (var j = 0; j < azimuths; j++)
+            {
+                var phi = Math.PI * (j + 0.5) / azimuths;
+                yield return (new Vec3(Math.Cos(phi), Math.Sin(phi), 0), 1.0 / azimuths);
+            }
+
+            yield break;
+        }
+
+        var rule = new GaussLegendreRule(0.0, 1.0, 8);
+        for (var i = 0; i < rule.Abscissas.Length; i++)
+        {
+            var mu = rule.Abscissas[i];
+            var s = Math.Sqrt(1 - mu * mu);
+            for (var j = 0; j < azimuths; j++)
+            {
+                var phi = 2 * Math.PI * (j + 0.5) / azimuths;
+                yield return (new Vec3(s * Math.Cos(phi), s * Math.Sin(phi), mu), rule.Weights[i] / azimuths);
+            }
+        }
+    }
+}

@@ -1,0 +1,214 @@
+using System.Collections.Immutable;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Spectrum;
+
+namespace LatticeSweep.Engine.Transport;
+
+/// <summary>
+/// Kinetic theory in the relaxation-time approximation, kappa_aa = (1/V) sum_{q, branch} C v_a^2 tau,
+/// over the exact Born-von Karman modes of a finite crystal or a Gamma-centred bulk mesh (V = cells
+/// x volume per cell). Its own pass over the wave vectors (group velocities need eigenvectors, which
+/// the thermal pass does not), single-threaded like the rest of a point.
+/// </summary>
+internal static class ConductivityCalculator
+{
+    /// <summary>Eigenvalues below -1e-8 of the largest mark an unstable model (the engine's criterion).</summary>
+    private const double InstabilityRatio = 1e-8;
+
+    public static ConductivityResult Compute(CrystalModel model, CompiledCrystal crystal, Sample sample, SolveOptions options, CancellationToken ct)
+    {
+        var settings = options.Conductivity ?? throw new ArgumentException("conductivity options are missing", nameof(options));
+        ConductivityOptionsValidation.Check(model, sample, settings);
+        var lattice = model.Lattice;
+        var d = lattice.Dimension;
+        var solver = new ModeSolver(new DynamicalMatrix(crystal));
+        var acoustic = AcousticAverages.Measure(solver);
+        var inputs = ConductivityInputs.Resolve(model, sample, settings, acoustic);
+
+        var temperatures = options.TemperaturesK.Contains(options.ReferenceTemperatureK)
+            ? options.TemperaturesK.ToArray()
+            : [.. options.TemperaturesK, options.ReferenceTemperatureK];
+        var reference = Array.IndexOf(temperatures, options.ReferenceTemperatureK);
+        var bulk = sample is BulkSample;
+        var mesh = MeshOf(sample);
+
+        var sum = new KineticSum(temperatures, reference, d, inputs.Rates, settings.MeanFreePathTable);
+        var stable = acoustic.Stable && Pass(solver, mesh, bulk, sum, ct);
+        var scale = 1.0 / (Cells(mesh) * inputs.VolumePerCellM3);
+
+        // Bulk meshes: the same sum on the mesh of half the density per direction. The relative change
+        // is what the last doubling moved kappa by; while the sum converges steadily it is larger than
+        // the error left at the full mesh.
+        ImmutableArray<int> halfMesh = [];
+        KineticSum? coarse = null;
+        if (stable && bulk && settings.CheckMeshConvergence)
+        {
+            int[] half = [mesh[0] / 2, d >= 2 ? mesh[1] / 2 : 1, d >= 3 ? mesh[2] / 2 : 1];
+            coarse = new KineticSum(temperatures, reference, d, inputs.Rates, meanFreePaths: false);
+            stable &= Pass(solver, half, bulk: true, coarse, ct);
+            halfMesh = [.. half];
+        }
+
+        var coarseScale = halfMesh.IsEmpty ? 0 : 1.0 / (Cells([.. halfMesh]) * inputs.VolumePerCellM3);
+        ConductivityRow Row(int t)
+        {
+            double Axis(int a) => !stable ? double.NaN : a >= d ? double.NaN : sum.Kappa(t, a) * scale;
+            var kappa = stable ? sum.MeanKappa(t) * scale : double.NaN;
+            var change = coarse is null ? double.NaN : RelativeChange(kappa, coarse.MeanKappa(t) * coarseScale);
+            return new ConductivityRow(temperatures[t], Axis(0), Axis(1), Axis(2), kappa, change);
+        }
+
+        var rows = ImmutableArray.CreateRange(Enumerable.Range(0, options.TemperaturesK.Length).Select(Row));
+        var atReference = Row(reference);
+        var (kappaMin, kappaMinLimit) = MinimumEstimate(model, acoustic, options.ReferenceTemperatureK);
+        var (slackAtTheta, slackAtReference) = Slack(model, settings, acoustic, options.ReferenceTemperatureK);
+        var finiteReference = double.IsFinite(atReference.KappaWPerMK) && atReference.KappaWPerMK > 0;
+
+        return new ConductivityResult
+        {
+            ByTemperature = rows,
+            ReferenceTemperatureK = options.ReferenceTemperatureK,
+            AtReference = atReference,
+            Stable = stable,
+            SampleKind = bulk ? "bulk" : "finite",
+            Mesh = [.. mesh],
+            ConvergenceMesh = halfMesh,
+            MeshRelativeChange = atReference.MeshRelativeChange,
+            KappaMinWPerMK = kappaMin,
+            KappaMinHighTemperatureWPerMK = kappaMinLimit,
+            SlackKappaAtDebyeTemperatureWPerMK = slackAtTheta,
+            SlackKappaAtReferenceWPerMK = slackAtReference,
+            SharesAtReference = stable ? sum.Shares() : ScatteringShares.Undefined,
+            AcousticDebyeTemperatureK = acoustic.AcousticDebyeTemperatureK,
+            DebyeAverageSoundSpeedMPerS = acoustic.DebyeSpeedMPerS,
+            MeanSoundSpeedsMPerS = acoustic.MeanSpeedsMPerS,
+            BoundaryLengthNm = inputs.BoundaryLengthNm,
+            MassVarianceGamma = inputs.MassVarianceGamma,
+            UmklappDebyeTemperatureK = inputs.UmklappThetaK,
+            UmklappSoundSpeedMPerS = inputs.UmklappSpeedMPerS,
+            VolumePerCellM3 = inputs.VolumePerCellM3,
+            CumulativeByMeanFreePath = stable && finiteReference && sum.MeanFreePaths is { } histogram ? histogram.Rows(scale) : [],
+        };
+    }
+
+    /// <summary>
+    /// One pass over the wave vectors (half of them: omega, |v_a| and C are the same at q and -q).
+    /// Finite crystals: the q = 0 rigid translations are not heat carriers and add nothing; the
+    /// other q = 0 branches count like any mode. Bulk meshes: the q = 0 point is replaced by the
+    /// average over its cell (<see cref="GammaCellIntegrator"/>). Returns false for an unstable model.
+    /// </summary>
+    private static bool Pass(ModeSolver solver, int[] mesh, bool bulk, KineticSum sum, CancellationToken ct)
+    {
+        var n = solver.Size;
+        var lattice = solver.Matrix.Crystal.Lattice;
+        var rigid = solver.Matrix.Crystal.Components;
+        var group = new GroupVelocities(solver);
+        var velocities = new double[n * 3];
+        var grid = new PeriodicGrid(mesh[0], mesh[1], mesh[2]);
+        var gammaCell = bulk ? new GammaCellIntegrator(lattice, mesh) : null;
+        var rotations = DegenerateRotations.For(lattice);
+        var stable = true;
+        double lowest = 0, highest = 0;
+        foreach (var point in grid.HalfSet())
+        {
+            ct.ThrowIfCancellationRequested();
+            if (point.IsGamma && gammaCell is not null)
+            {
+                stable &= gammaCell.Integrate(group, solver, sum, ct);
+                continue;
+            }
+
+            var q = lattice.ToCartesianQ(point.Reduced);
+            var skip = point.IsGamma ? rigid : 0;
+            group.Solve(q, rotations[0], velocities);
+            var values = solver.Values;
+            highest = Math.Max(highest, values[n - 1]);
+            for (var k = skip; k < n; k++)
+            {
+                lowest = Math.Min(lowest, values[k]);
+            }
+
+            var directions = HasDegenerateSet(values, skip) ? rotations.Length : 1;
+            for (var r = 0; r < directions; r++)
+            {
+                if (r > 0)
+                {
+                    group.Solve(q, rotations[r], velocities);
+                }
+
+                for (var k = skip; k < n; k++)
+                {
+                    var v = new Vec3(velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]);
+                    sum.Add(Math.Sqrt(Math.Max(values[k], 0)), v, (double)point.Weight / directions);
+                }
+            }
+        }
+
+        return stable && lowest >= -InstabilityRatio * highest;
+    }
+
+    /// <summary>The degeneracy test of <see cref="GroupVelocities"/>: neighbouring frequencies within 1e-6 of the largest.</summary>
+    private static bool HasDegenerateSet(double[] values, int skip)
+    {
+        var n = values.Length;
+        var tolerance = 1e-6 * Math.Sqrt(Math.Max(Math.Abs(values[n - 1]), Math.Abs(values[0])));
+        for (var k = skip; k + 1 < n; k++)
+        {
+            if (Math.Abs(Math.Sqrt(Math.Abs(values[k + 1])) - Math.Sqrt(Math.Abs(values[k]))) <= tolerance)
+            {
+                return true;
+            }
+        }
+
+        return false;
+    }
+
+    private static double Cells(int[] mesh) => (double)mesh[0] * mesh[1] * mesh[2];
+
+    private static int[] MeshOf(Sample sample) => sample switch
+    {
+        FiniteSample f => [f.N1, f.N2, f.N3],
+        BulkSample b => [b.M1, b.M2, b.M3],
+        _ => throw new ArgumentException($"unknown sample type {sample.GetType().Name}", nameof(sample)),
+    };
+
+    private static double RelativeChange(double kappa, double coarse)
+    {
+        if (!double.IsFinite(kappa) || !double.IsFinite(coarse))
+        {
+            return double.NaN;
+        }
+
+        return kappa == 0 ? (coarse == 0 ? 0 : double.PositiveInfinity) : Math.Abs(kappa - coarse) / Math.Abs(kappa);
+    }
+
+    /// <summary>Cahill-Pohl-Watson at T and its high-T limit, from the direction-averaged branch speeds; 3D only.</summary>
+    private static (double AtT, double Limit) MinimumEstimate(CrystalModel model, AcousticAverages acoustic, double temperatureK)
+    {
+        if (model.Lattice.Dimension != 3 || !acoustic.Stable)
+        {
+            return (double.NaN, double.NaN);
+        }
+
+        var atomsPerM3 = model.Sites.Length / model.Lattice.CellMeasure;
+        return (MinimumConductivity.WPerMK(acoustic.MeanSpeedsMPerS, atomsPerM3, temperatureK),
+            MinimumConductivity.HighTemperatureLimitWPerMK(acoustic.MeanSpeedsMPerS, atomsPerM3));
+    }
+
+    /// <summary>Slack's estimate at T = theta_a and at the reference temperature; 3D with a Grueneisen parameter only.</summary>
+    private static (double AtTheta, double AtReference) Slack(CrystalModel model, ConductivityOptions settings, AcousticAverages acoustic, double temperatureK)
+    {
+        if (model.Lattice.Dimension != 3 || settings.GrueneisenParameter is not { } gamma || !acoustic.Stable)
+        {
+            return (double.NaN, double.NaN);
+        }
+
+        var r = model.Sites.Length;
+        var theta = acoustic.AcousticDebyeTemperatureK;
+        double At(double t) => SlackEstimate.WPerMK(model.CellMassAmu / r, model.Lattice.CellMeasure / r, r, theta, gamma, t);
+        return (At(theta), temperatureK > 0 ? At(temperatureK) : double.NaN);
+    }
+}

@@ -1,0 +1,42 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+
+namespace LatticeSweep.Engine.Transport;
+
+/// <summary>A rough count of the floating-point work the conductivity pass adds to a point, for sizing work before it starts.</summary>
+public static class ConductivityWork
+{
+    /// <summary>
+    /// Eigen-solves with vectors over half the wave vectors (plus 1/2^d more for the convergence
+    /// mesh), each ~36 n^3 (Householder and QL with vectors in complex arithmetic, and three
+    /// derivative expectations), ~100 operations per mode and temperature (two exponentials), and
+    /// for a bulk mesh the q = 0 cell: one solve per ray and 240 radial nodes per acoustic branch
+    /// and temperature. 0 when not asked.
+    /// </summary>
+    public static double EstimateFlops(CrystalModel model, Sample sample, SolveOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(options);
+        if (options.Conductivity is not { } c)
+        {
+            return 0;
+        }
+
+        var n = (double)model.BranchCount;
+        var d = model.Lattice.Dimension;
+        var (points, bulk) = sample switch
+        {
+            FiniteSample f => ((double)f.CellCount, false),
+            BulkSample b => ((double)b.PointCount, true),
+            _ => (0.0, false),
+        };
+        var passes = bulk && c.CheckMeshConvergence ? 2 : 1;
+        var solves = points / 2 * (passes == 2 ? 1 + Math.Pow(2, -d) : 1);
+        var temperatures = options.TemperaturesK.Length + 1;
+        var rays = bulk ? passes * d * Math.Pow(GammaCellIntegrator.FaceNodes(d), d - 1) : 0;
+        return (solves + rays) * 36 * n * n * n
+            + solves * n * temperatures * 100
+            + rays * model.ComponentsPerSite * 240 * temperatures * 100;
+    }
+}

@@ -1,0 +1,131 @@
+using LatticeSweep.Engine.Models;
+
+namespace LatticeSweep.Engine.Transport;
+
+/// <summary>
+/// Running sums of C v_a^2 tau over modes at each temperature (relaxation-time approximation), with
+/// the channel shares and the mean-free-path histogram at the reference temperature. A mode with no
+/// frequency, no velocity or no heat capacity adds exactly zero (never NaN); a heat-carrying mode
+/// that no channel scatters makes that temperature's kappa unbounded.
+/// </summary>
+internal sealed class KineticSum
+{
+    private readonly double[] _temperaturesK;
+    private readonly int _referenceIndex;
+    private readonly int _dimension;
+    private readonly ScatteringRates _scattering;
+    private readonly double[] _kappa; // [t * 3 + axis], W/K m^2 before dividing by the volume
+    private readonly bool[] _unbounded;
+    private readonly double[] _channelWeighted = new double[ScatteringRates.ChannelCount];
+    private readonly double[] _rates = new double[ScatteringRates.ChannelCount];
+
+    public KineticSum(double[] temperaturesK, int referenceIndex, int dimension, ScatteringRates scattering, bool meanFreePaths)
+    {
+        _temperaturesK = temperaturesK;
+        _referenceIndex = referenceIndex;
+        _dimension = dimension;
+        _scattering = scattering;
+        _kappa = new double[temperaturesK.Length * 3];
+        _unbounded = new bool[temperaturesK.Length];
+        MeanFreePaths = meanFreePaths ? new MeanFreePathHistogram() : null;
+    }
+
+    public ScatteringRates Scattering => _scattering;
+
+    public double[] TemperaturesK => _temperaturesK;
+
+    public MeanFreePathHistogram? MeanFreePaths { get; }
+
+    /// <summary>Adds one mode of angular frequency omega (rad/s) and group velocity v (m/s) counted weight times.</summary>
+    public void Add(double omega, Vec3 velocity, double weight)
+    {
+        if (!(omega > 0) || weight == 0)
+        {
+            return;
+        }
+
+        var vx2 = velocity.X * velocity.X;
+        var vy2 = velocity.Y * velocity.Y;
+        var vz2 = velocity.Z * velocity.Z;
+        var v2 = vx2 + vy2 + vz2;
+        if (!(v2 > 0))
+        {
+            return; // a standing wave carries no heat
+        }
+
+        var speed = Math.Sqrt(v2);
+        var meanSquare = (_dimension switch { 1 => vx2, 2 => vx2 + vy2, _ => v2 }) / _dimension;
+        for (var t = 0; t < _temperaturesK.Length; t++)
+        {
+            var c = ModeHeatCapacity.JPerK(omega, _temperaturesK[t]);
+            if (c == 0)
+            {
+                continue;
+            }
+
+            var total = _scattering.Fill(omega, speed, _temperaturesK[t], _rates);
+            if (!(total > 0))
+            {
+                _unbounded[t] = true;
+                continue;
+            }
+
+            var ct = weight * c / total;
+            _kappa[t * 3] += ct * vx2;
+            _kappa[t * 3 + 1] += ct * vy2;
+            _kappa[t * 3 + 2] += ct * vz2;
+            if (t == _referenceIndex)
+            {
+                var contribution = ct * meanSquare;
+                for (var k = 0; k < _rates.Length; k++)
+                {
+                    _channelWeighted[k] += contribution * _rates[k] / total;
+                }
+
+                MeanFreePaths?.Add(speed / total, contribution);
+            }
+        }
+    }
+
+    /// <summary>Marks a temperature's kappa unbounded (long waves that no channel limits).</summary>
+    public void MarkUnbounded(int t) => _unbounded[t] = true;
+
+    public bool IsUnbounded(int t) => _unbounded[t];
+
+    /// <summary>Sum for temperature index t along an axis, or +Infinity when unbounded.</summary>
+    public double Kappa(int t, int axis) => _unbounded[t] ? double.PositiveInfinity : _kappa[t * 3 + axis];
+
+    /// <summary>Mean over the lattice's directions.</summary>
+    public double MeanKappa(int t)
+    {
+        if (_unbounded[t])
+        {
+            return double.PositiveInfinity;
+        }
+
+        var sum = 0.0;
+        for (var a = 0; a < _dimension; a++)
+        {
+            sum += _kappa[t * 3 + a];
+        }
+
+        return sum / _dimension;
+    }
+
+    /// <summary>Channel shares at the reference temperature (NaN when kappa there is zero or unbounded).</summary>
+    public ScatteringShares Shares()
+    {
+        if (_referenceIndex < 0 || _unbounded[_referenceIndex])
+        {
+            return ScatteringShares.Undefined;
+        }
+
+        var total = _channelWeighted.Sum();
+        if (!(total > 0))
+        {
+            return ScatteringShares.Undefined;
+        }
+
+        return new ScatteringShares(_channelWeighted[0] / total, _channelWeighted[1] / total, _channelWeighted[2] / total, _channelWeighted[3] / total);
+    }
+}

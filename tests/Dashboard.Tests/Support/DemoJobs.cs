@@ -1,0 +1,155 @@
+namespace LatticeSweep.Dashboard.Tests.Support;
+
+/// <summary>
+/// Job files of the test store. Parameters are invented demo values (no real material). The
+/// finished sweep is the repository's quick demo, jobs/quickstart.toml.
+/// </summary>
+internal static class DemoJobs
+{
+    public static string Quickstart() => File.ReadAllText(Path.Combine(Repository.Root(), "jobs", "quickstart.toml"));
+
+    /// <summary>Six masses, two points per chunk, with dispersion and partial DOS: left half-way (a running sweep).</summary>
+    public const string Dispersion = """
+        # Invented demo values: a diatomic chain whose heavy atom is swept, with a dispersion path.
+        [sweep]
+        name = "chain-dispersion"
+        description = "Diatomic chain with dispersion and group velocities (invented values)"
+
+        [[sweep.axes]]
+        path = "model.sites.B.mass_amu"
+        values = [12.0, 18.0, 24.0, 36.0, 48.0, 60.0]
+
+        [model]
+        lattice = "chain"
+        constant_nm = 0.4
+        motion = "3d"
+
+        [[model.sites]]
+        label = "A"
+        position = [0.0]
+        mass_amu = 12.0
+
+        [[model.sites]]
+        label = "B"
+        position = [0.5]
+        mass_amu = 24.0
+
+        [[model.springs]]
+        from = "A"
+        to = "B"
+        shell = 1
+        longitudinal_n_per_m = 40.0
+        transverse_n_per_m = 10.0
+
+        [sample]
+        kind = "finite"
+        cells = 16
+
+        [output]
+        temperatures_k = [5, 20, 50, 100, 200, 300, 500]
+        dos_bins = 60
+        tables = ["dos", "thermal", "dispersion"]
+
+        [output.dispersion]
+        points_per_segment = 12
+        path = [{ label = "G", q = [0.0] }, { label = "X", q = [0.5] }]
+        """;
+
+    /// <summary>
+    /// Springs switched off on some points: a chain with no longitudinal or no transverse spring has
+    /// a site free to move along an axis, which the Engine refuses (a model reason, so the point fails).
+    /// 2 x 2 x 2 = 8 points: 2 done, 6 failed in three groups of 2.
+    /// </summary>
+    public const string Failures = """
+        # Invented demo values: springs switched off on purpose, so that some points fail for a model reason.
+        [sweep]
+        name = "springs-off"
+        description = "Chain with springs switched off: points that cannot be solved (invented values)"
+
+        [[sweep.axes]]
+        path = "model.springs[0].longitudinal_n_per_m"
+        values = [0.0, 30.0]
+
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [0.0, 8.0]
+
+        [[sweep.axes]]
+        path = "model.sites.A.mass_amu"
+        values = [10.0, 20.0]
+
+        [model]
+        lattice = "chain"
+        constant_nm = 0.5
+        motion = "3d"
+
+        [[model.sites]]
+        label = "A"
+        position = [0.0]
+        mass_amu = 10.0
+
+        [[model.sites]]
+        label = "B"
+        position = [0.5]
+        mass_amu = 30.0
+
+        [[model.springs]]
+        from = "A"
+        to = "B"
+        shell = 1
+        longitudinal_n_per_m = 30.0
+        transverse_n_per_m = 8.0
+
+        [sample]
+        kind = "finite"
+        cells = 8
+
+        [output]
+        temperatures_k = [10, 100, 300]
+        dos_bins = 40
+        """;
+
+    /// <summary>Thermal conductivity estimates (boundary and Umklapp scattering) for two boundary lengths of a small bulk fcc crystal.</summary>
+    public const string Conductivity = """
+        # Invented demo values: a monatomic fcc crystal, bulk, with conductivity estimates.
+        [sweep]
+        name = "fcc-conductivity"
+        description = "Bulk fcc crystal: thermal conductivity for two boundary lengths (invented values)"
+
+        [[sweep.axes]]
+        path = "output.conductivity.boundary.length_nm"
+        values = [10.0, 1000.0]
+
+        [model]
+        lattice = "fcc"
+        constant_nm = 0.42
+
+        [[model.sites]]
+        label = "M"
+        mass_amu = 40.0
+
+        [[model.springs]]
+        from = "M"
+        to = "M"
+        shell = 1
+        longitudinal_n_per_m = 30.0
+        transverse_n_per_m = 4.0
+
+        [sample]
+        kind = "bulk"
+        mesh = 6
+
+        [output]
+        temperatures_k = [20, 50, 100, 200, 300, 500]
+        reference_temperature_k = 300
+        tables = ["dos", "thermal"]
+
+        [output.conductivity]
+        grueneisen_parameter = 1.6
+
+        [output.conductivity.boundary]
+        length_nm = 100.0
+
+        [output.conductivity.umklapp]
+        """;
+}
