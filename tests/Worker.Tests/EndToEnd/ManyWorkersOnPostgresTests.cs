@@ -38,23 +38,31 @@ public sealed class ManyWorkersOnPostgresTests : IDisposable
         var (plan, sweepId) = Submit(store, "killed-twice", SweepJobs.Chain("killed-twice", masses: 40, springs: 9, cells: 2500), pointsPerChunk: 6);
         Assert.Equal(360, plan.Points.Length);
         var random = new Random(20240301); // fixed seed: the same kill moments every run
-        var workers = Enumerable.Range(1, 3).Select(i => StartWorker(store, $"worker {i}")).ToList();
-        var victimSlot = random.Next(workers.Count);
+        var victimSlot = random.Next(3);
+
+        // The victim's points take 0.4 s longer each (a test seam that waits), so its chunks last
+        // about 2.4 s and a kill right after it starts one surely lands mid-chunk.
+        var slow = new Dictionary<string, string> { ["LATSWEEP_TEST_EXTRA_MS_PER_POINT"] = "400" };
+        var workers = Enumerable.Range(0, 3).Select(i => StartWorker(store, $"worker {i + 1}", i == victimSlot ? slow : null)).ToList();
         var killed = new List<(string Worker, HashSet<string> HeldPoints)>();
 
         // Two kills at random moments: once a random share of the sweep is done, after a random
-        // further delay, and only while the victim holds a chunk (so it dies mid-chunk).
+        // further delay, as soon as the victim has just started a chunk.
         foreach (var share in new[] { 0.15 + (0.2 * random.NextDouble()), 0.5 + (0.2 * random.NextDouble()) })
         {
             WaitUntil(() => store.Sweep(sweepId).Counts.Done >= share * plan.Points.Length, $"{share:P0} of the sweep done", workers);
             Thread.Sleep(random.Next(0, 400));
             var victim = workers[victimSlot];
-            var held = WaitForHeldPoints(store, sweepId, victim, workers);
+            WaitUntilStartedChunk(store, sweepId, victim, workers);
             victim.Kill();
+
+            // What it held when it died: its points still running now that it cannot change them.
+            var held = RunningOn(store, sweepId, victim);
+            Assert.True(held.Count > 0, $"{victim.Label} should have died holding a chunk");
             killed.Add((victim.WorkerName, held));
 
             // A new worker takes the slot, as when a machine is started again.
-            workers[victimSlot] = StartWorker(store, $"worker {victimSlot + 1} restarted");
+            workers[victimSlot] = StartWorker(store, $"worker {victimSlot + 1} restarted", slow);
         }
 
         foreach (var w in workers)
@@ -166,17 +174,13 @@ public sealed class ManyWorkersOnPostgresTests : IDisposable
         return p;
     }
 
-    /// <summary>The points the worker holds right now (waits until it holds some).</summary>
-    private static HashSet<string> WaitForHeldPoints(StoreUnderTest store, string sweepId, LatsweepProcess worker, IReadOnlyList<LatsweepProcess> all)
-    {
-        HashSet<string> held = [];
-        WaitUntil(() =>
-        {
-            held = [.. store.Points(sweepId).Where(p => p.State == PointState.Running && p.Worker == worker.WorkerName).Select(p => p.PointId)];
-            return held.Count > 0;
-        }, $"{worker.Label} holds a chunk", all);
-        return held;
-    }
+    /// <summary>Waits until the worker holds a chunk it started less than a second ago.</summary>
+    private static void WaitUntilStartedChunk(StoreUnderTest store, string sweepId, LatsweepProcess worker, IReadOnlyList<LatsweepProcess> all) =>
+        WaitUntil(() => store.Points(sweepId).Any(p => p.State == PointState.Running && p.Worker == worker.WorkerName
+            && p.StartedAt is { } t && DateTimeOffset.UtcNow - t < TimeSpan.FromSeconds(1)), $"{worker.Label} starts a chunk", all);
+
+    private static HashSet<string> RunningOn(StoreUnderTest store, string sweepId, LatsweepProcess worker) =>
+        [.. store.Points(sweepId).Where(p => p.State == PointState.Running && p.Worker == worker.WorkerName).Select(p => p.PointId)];
 
     private static void WaitUntil(Func<bool> condition, string what, IReadOnlyList<LatsweepProcess> workers)
     {
