@@ -19,8 +19,8 @@ public static class QueueTimings
     /// <summary>
     /// PostgreSQL store, default of <c>--reclaim-after</c>: a worker holding a chunk confirms it every
     /// fifth of this time (the queue's sliding invisibility timeout), so a live worker keeps its
-    /// chunk however long it runs, and a dead worker's chunk is handed to another worker between
-    /// 4/5 of this time and this time after its last confirmation.
+    /// chunk however long it runs, and a dead worker's chunk is handed to another worker this long
+    /// after its last confirmation: 4/5 of this time to all of it after the worker died.
     /// </summary>
     public static readonly TimeSpan DefaultReclaimAfter = TimeSpan.FromSeconds(60);
 
