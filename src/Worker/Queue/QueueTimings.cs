@@ -2,7 +2,7 @@ namespace LatticeSweep.Worker.Queue;
 
 /// <summary>
 /// The queue's timing settings, chosen deliberately (the packages' defaults are 15 s polling, a
-/// 30 min invisibility timeout and a 10 min lock timeout). docs/many-machines.md explains them to users.
+/// 30 min invisibility timeout and a 10 min lock timeout). README.md ("Running on many machines") explains them to users.
 /// </summary>
 public static class QueueTimings
 {
