@@ -52,6 +52,33 @@ internal sealed class DynamicalMatrix
     /// <summary>Fills <paramref name="d"/> (Size x Size, row-major) with D at the Cartesian wave vector q (1/m).</summary>
     public void Build(Vec3 qPerM, Span<Complex> d)
     {
+        BuildUnsymmetrised(qPerM, d);
+        MakeHermitian(d, Size);
+    }
+
+    /// <summary>
+    /// Averages D with its conjugate transpose. The sums above are Hermitian in exact arithmetic,
+    /// but where they cancel (D ~ 0 near q = 0, many shells) round-off leaves an asymmetric residue
+    /// as large as the result itself, which an eigen-solver rightly refuses.
+    /// </summary>
+    private static void MakeHermitian(Span<Complex> d, int n)
+    {
+        for (var i = 0; i < n; i++)
+        {
+            d[(i * n) + i] = new Complex(d[(i * n) + i].Real, 0);
+            for (var j = i + 1; j < n; j++)
+            {
+                var upper = d[(i * n) + j];
+                var lower = d[(j * n) + i];
+                var mean = new Complex(0.5 * (upper.Real + lower.Real), 0.5 * (upper.Imaginary - lower.Imaginary));
+                d[(i * n) + j] = mean;
+                d[(j * n) + i] = Complex.Conjugate(mean);
+            }
+        }
+    }
+
+    private void BuildUnsymmetrised(Vec3 qPerM, Span<Complex> d)
+    {
         if (_pairs is not null)
         {
             BuildPaired(qPerM, MemoryMarshal.Cast<Complex, double>(d[..(Size * Size)]));
