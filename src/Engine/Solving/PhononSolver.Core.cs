@@ -48,7 +48,8 @@ public static partial class PhononSolver
         switch (sample)
         {
             case FiniteSample f:
-                solves = (f.CellCount + 1) / 2 * (vectors ? 2 : 2);
+                // Two passes over the half set of wave vectors (range first, then sums).
+                solves = (f.CellCount + 1) / 2 * 2;
                 bytes = Math.Min(f.CellCount * n, FiniteCrystalSolver.StoredModeLimit) * 8L;
                 break;
             case BulkSample b:

@@ -61,7 +61,7 @@ internal sealed class DynamicalMatrix
     /// but where they cancel (D ~ 0 near q = 0, many shells) round-off leaves an asymmetric residue
     /// as large as the result itself, which an eigen-solver rightly refuses.
     /// </summary>
-    private static void MakeHermitian(Span<Complex> d, int n)
+    internal static void MakeHermitian(Span<Complex> d, int n)
     {
         for (var i = 0; i < n; i++)
         {

@@ -93,16 +93,7 @@ internal sealed class GroupVelocities
 
         // M is Hermitian in exact arithmetic; where it cancels to round-off (q = 0, inversion
         // symmetry) the residue is not, so average it with its conjugate transpose first.
-        for (var a = 0; a < count; a++)
-        {
-            m[(a * count) + a] = new Complex(m[(a * count) + a].Real, 0);
-            for (var b = a + 1; b < count; b++)
-            {
-                var mean = 0.5 * (m[(a * count) + b] + Complex.Conjugate(m[(b * count) + a]));
-                m[(a * count) + b] = mean;
-                m[(b * count) + a] = Complex.Conjugate(mean);
-            }
-        }
+        DynamicalMatrix.MakeHermitian(m, count);
 
         Span<double> values = stackalloc double[count];
         Span<Complex> u = stackalloc Complex[count * count];

@@ -85,14 +85,16 @@ public class DynamicalMatrixTests
     }
 
     [Fact]
-    public void Stand_in_eigen_solver_agrees_with_itself_on_vectors_and_values()
+    public void Eigen_solver_gives_the_closed_form_lower_eigenvalue_of_a_2x2_Hermitian_matrix()
     {
+        // [[2, i], [-i, 3]]: eigenvalues (5 -+ sqrt 5) / 2 from the characteristic polynomial (closed form).
         var a = new Complex[] { 2, new(0, 1), new(0, -1), 3 };
         var values = new double[2];
         var vectors = new Complex[4];
         HermitianEigenSolver.EigenSystem(a, 2, values, vectors);
         Approx.Equal((5 - Math.Sqrt(5)) / 2, values[0], 1e-14, "lower eigenvalue");
     }
+
     [Theory]
     [InlineData("fcc", 13)]
     [InlineData("fcc", 50)]
