@@ -14,4 +14,7 @@ public sealed record PointResult(
 {
     /// <summary>Thermal-conductivity estimates, when the options asked for them.</summary>
     public ConductivityResult? Conductivity { get; init; }
+
+    /// <summary>Surface, shape and size numbers of a sample built in real space; null for periodic crystals and the bulk.</summary>
+    public SurfaceResult? Surface { get; init; }
 }

@@ -1,0 +1,309 @@
+using System.Collections.Immutable;
+using LatticeSweep.Engine.Dos;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.RealSpace;
+using LatticeSweep.Engine.Results;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+
+namespace LatticeSweep.Engine.Solving;
+
+/// <summary>
+/// Samples built in real space (<see cref="RealSpaceSample"/>): the block is assembled from the
+/// compiled couplings, solved densely (exact modes) or by the kernel polynomial method, assembled
+/// into the same summary, thermal table and densities as a periodic crystal, and given its surface
+/// numbers and the heat capacity of the periodic crystal of the same size.
+/// </summary>
+public static partial class PhononSolver
+{
+    private static PointResult SolveRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options, CancellationToken ct)
+    {
+        sample.Validate(model);
+        var crystal = CompiledCrystal.From(model);
+        var solver = new ModeSolver(new DynamicalMatrix(crystal));
+        CheckNoFloppyBranch(solver);
+        var temperatures = TemperatureList(options);
+
+        var lattice = RealSpaceLattice.Build(crystal, sample, bloch: sample.Disorder is null);
+        var periodic = PeriodicCounterpart(model.Lattice, sample, lattice.AtomCount, crystal.Sites);
+        var conductivity = Transport.ConductivityStep.ComputeIfAsked(model, crystal, periodic, options, ct);
+
+        var run = SolveBlock(lattice, SiteProperties.Ordered(lattice), sample, temperatures, options, ct);
+        var speeds = SoundSpeedFinder.Find(solver);
+        var dispersion = options.Dispersion is null ? [] : DispersionCalculator.Compute(solver, options.Dispersion, ct);
+        var periodicCv = PeriodicHeatCapacity(model, periodic, options, ct);
+        var result = AssembleRealSpace(model, crystal, sample, options, temperatures, run, speeds, dispersion, periodic, periodicCv);
+        return Transport.ConductivityStep.Attach(result, conductivity);
+    }
+
+    /// <summary>The block solved by the method the sample asks for, or that fits.</summary>
+    private static RealSpaceRun SolveBlock(RealSpaceLattice lattice, SiteProperties properties, RealSpaceSample sample, double[] temperatures, SolveOptions options, CancellationToken ct)
+    {
+        var complex = lattice.ImagesPerSite > 1;
+        var bytes = RealSpaceDenseSolver.BytesFor(lattice.Size, complex);
+        var fits = lattice.Sites <= sample.DenseMaxAtoms && bytes <= options.MemoryLimitBytes;
+        if (!fits)
+        {
+            var why = lattice.Sites > sample.DenseMaxAtoms
+                ? $"its block has {lattice.Sites} atoms, more than sample.dense_max_atoms = {sample.DenseMaxAtoms}"
+                : $"its block needs {bytes >> 20} MiB, more than output.memory_limit_gib allows ({options.MemoryLimitBytes >> 20} MiB)";
+            throw Guard.Single(ModelProblemKind.TooLarge, "sample.method",
+                $"the sample is too large for the dense solver: {why}; use a smaller sample or raise the limit");
+        }
+
+        return RealSpaceDenseSolver.Solve(lattice, properties, temperatures, options, sample.SurfaceWeightThreshold, forceRecording: false, ct);
+    }
+
+    private static WorkEstimate EstimateRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options)
+    {
+        var crystal = CompiledCrystal.From(model);
+        var ordered = sample.Disorder is null;
+        var atoms = RealSpaceLattice.CountSites(crystal, sample, bloch: ordered);
+        var images = 1L;
+        for (var i = 0; i < model.Lattice.Dimension; i++)
+        {
+            if (ordered && sample.BoundaryOf(i) == Boundary.Periodic)
+            {
+                images *= sample.Cells(i);
+            }
+        }
+
+        var blockSites = atoms / Math.Max(1, images);
+        var n = blockSites * crystal.Components;
+        var complex = images > 1;
+        var points = complex ? (images + 1) / 2 : 1;
+        var order = complex && n > RealSpaceDenseSolver.SmallOrder ? 2.0 * n : n;
+
+        // Blocked reduction, inverse iteration and back-transformation: about 10/3 order^3 with vectors.
+        var perBlock = 10.0 / 3.0 * order * order * order;
+        var configurations = sample.Disorder?.Configurations ?? 1;
+        var flops = perBlock * points * configurations;
+        var bytes = RealSpaceDenseSolver.BytesFor(n, complex);
+        return new WorkEstimate(points * configurations, (int)Math.Min(int.MaxValue, n), flops, bytes);
+    }
+
+    /// <summary>
+    /// The periodic crystal of the same size: the same cells for a box; for a sphere the cube of
+    /// cells holding about as many atoms, N = round((atoms / r)^(1/d)); for a cylinder the cells
+    /// along its axis and a square cross-section of about as many atoms.
+    /// </summary>
+    internal static FiniteSample PeriodicCounterpart(Lattice lattice, RealSpaceSample sample, long atoms, int sitesPerCell)
+    {
+        var d = lattice.Dimension;
+        var cells = (double)atoms / sitesPerCell;
+        var n = new[] { 1, 1, 1 };
+        switch (sample.Shape)
+        {
+            case SphereShape:
+                for (var i = 0; i < d; i++)
+                {
+                    n[i] = Math.Max(1, (int)Math.Round(Math.Pow(cells, 1.0 / d), MidpointRounding.AwayFromZero));
+                }
+
+                break;
+            case CylinderShape c:
+                n[c.Axis] = sample.Cells(c.Axis);
+                var across = Math.Pow(cells / sample.Cells(c.Axis), 1.0 / (d - 1));
+                for (var i = 0; i < d; i++)
+                {
+                    if (i != c.Axis)
+                    {
+                        n[i] = Math.Max(1, (int)Math.Round(across, MidpointRounding.AwayFromZero));
+                    }
+                }
+
+                break;
+            default:
+                for (var i = 0; i < d; i++)
+                {
+                    n[i] = sample.Cells(i);
+                }
+
+                break;
+        }
+
+        return FiniteSample.Create(n[0], n[1], n[2]);
+    }
+
+    /// <summary>Cv per mole of atoms of the periodic crystal at every temperature of the list (null where undefined).</summary>
+    private static double?[] PeriodicHeatCapacity(CrystalModel model, FiniteSample periodic, SolveOptions options, CancellationToken ct)
+    {
+        var plain = options with
+        {
+            PartialDos = false,
+            MeanSquareDisplacement = false,
+            ModeListMaxModes = 0,
+            Dispersion = null,
+            Conductivity = null,
+        };
+        var result = SolveCore(model, periodic, plain, ct);
+        return [.. result.Thermal.Select(r => double.IsFinite(r.HeatCapacityJPerMolK) ? r.HeatCapacityJPerMolK : (double?)null),
+            double.IsFinite(result.Summary.HeatCapacityJPerMolK) ? result.Summary.HeatCapacityJPerMolK : null];
+    }
+
+    private static PointResult AssembleRealSpace(
+        CrystalModel model, CompiledCrystal crystal, RealSpaceSample sample, SolveOptions options, double[] temperatures,
+        RealSpaceRun run, List<SoundSpeed> speeds, ImmutableArray<DispersionRow> dispersion, FiniteSample periodic, double?[] periodicCv)
+    {
+        var lattice = run.Lattice;
+        var modes = run.Modes;
+        var grid = modes.Grid!.Value;
+        var gaussian = modes.GaussianSigmaThz > 0;
+        var dos = DosAssembly.FromStates(grid, modes.Total, options.PartialDos ? modes.Partial : [], crystal.Sites, gaussian ? "gaussian" : "exact modes");
+        var minimumGap = 2 * grid.WidthThz;
+        var gaps = run.SortedThz.Length > 0 ? GapsOf(run.SortedThz, minimumGap) : WideGaps(run.Statistics, minimumGap);
+        var modeList = run.SortedThz.Length > 0 && run.SortedThz.Length <= options.ModeListMaxModes
+            ? ModeLevels.Distinct(run.SortedThz, run.SortedThz.Length, 0)
+            : [];
+        var outcome = new SpectrumOutcome
+        {
+            SampleKind = "finite",
+            CellsOrMeshPoints = (long)Math.Round((double)lattice.AtomCount / crystal.Sites, MidpointRounding.AwayFromZero),
+            QPointsSolved = run.QPointsSolved,
+            ModeCount = run.ModeCount,
+            RigidModesExcluded = run.RigidModes,
+            ZeroModesExcluded = (long)Math.Round(modes.ZeroModes),
+            Statistics = run.Statistics,
+            Sink = run.Sink,
+            Dos = dos,
+            Modes = modeList,
+            Gaps = gaps,
+        };
+
+        var result = Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion);
+        var stable = result.Summary.Stable;
+        var layers = LayerRows(lattice, run.Sink, options, temperatures, stable);
+        var reference = Array.IndexOf(temperatures, options.ReferenceTemperatureK);
+        var (surfaceMsd, interiorMsd) = SurfaceAndInteriorMsd(lattice, run.Sink, reference, stable && options.MeanSquareDisplacement);
+        var layerDos = ImmutableArray.CreateBuilder<LayerDos>(lattice.LayerCount);
+        for (var l = 0; l < lattice.LayerCount; l++)
+        {
+            var curve = new double[grid.Bins];
+            for (var b = 0; b < grid.Bins; b++)
+            {
+                curve[b] = modes.LayerDensity[(l * grid.Bins) + b] / grid.WidthThz;
+            }
+
+            layerDos.Add(new LayerDos(l, lattice.LayerSites[l] * lattice.ImagesPerSite, [.. curve]));
+        }
+
+        var surface = new SurfaceResult
+        {
+            Boundaries = sample.BoundaryText(model.Lattice.Dimension),
+            Shape = sample.Shape.Name,
+            Method = run.Method,
+            AtomCount = lattice.AtomCount,
+            SurfaceSites = lattice.SurfaceSites * lattice.ImagesPerSite,
+            InteriorSites = (lattice.Sites - lattice.SurfaceSites) * lattice.ImagesPerSite,
+            LayerCount = lattice.LayerCount,
+            RigidRotations = run.RigidRotations,
+            RotationDefectThz = run.RigidRotations > 0 ? ModeSolver.SignedThz(run.RotationDefectLambda) : null,
+            ConfinementGapThz = double.IsFinite(modes.LowestNonZeroLambda) ? ModeSolver.SignedThz(modes.LowestNonZeroLambda) : null,
+            SurfaceModeFraction = lattice.LayerCount > 0 && modes.NonZeroModes > 0 ? modes.SurfaceModes / modes.NonZeroModes : null,
+            SurfaceWeightThreshold = sample.SurfaceWeightThreshold,
+            MsdSurfaceNm2 = surfaceMsd,
+            MsdInteriorNm2 = interiorMsd,
+            PeriodicCells = string.Join('x', new[] { periodic.N1, periodic.N2, periodic.N3 }.Take(model.Lattice.Dimension)),
+            PeriodicCvJPerMolK = [.. periodicCv.Take(options.TemperaturesK.Length)],
+            PeriodicCvAtReferenceJPerMolK = periodicCv[^1],
+            Layers = layers,
+            LayerDos = layerDos.MoveToImmutable(),
+        };
+
+        return result with { Surface = surface };
+    }
+
+    private static ImmutableArray<LayerRow> LayerRows(RealSpaceLattice lattice, ModeSink sink, SolveOptions options, double[] temperatures, bool stable)
+    {
+        var rows = ImmutableArray.CreateBuilder<LayerRow>();
+        if (!options.MeanSquareDisplacement)
+        {
+            return rows.ToImmutable();
+        }
+
+        var r = lattice.Crystal.Sites;
+        var c = lattice.Components;
+        for (var t = 0; t < options.TemperaturesK.Length; t++)
+        {
+            for (var l = 0; l < lattice.LayerCount; l++)
+            {
+                double? Get(int axis) => !stable || axis >= c ? null : sink.Msd(t, ((r + l) * c) + axis) * 1e18;
+                rows.Add(new LayerRow(l, lattice.LayerSites[l] * lattice.ImagesPerSite, temperatures[t], Get(0), Get(1), Get(2)));
+            }
+        }
+
+        return rows.ToImmutable();
+    }
+
+    /// <summary>Mean over directions at the reference temperature: layer 0, and the site-weighted mean of the deeper layers.</summary>
+    private static (double? Surface, double? Interior) SurfaceAndInteriorMsd(RealSpaceLattice lattice, ModeSink sink, int reference, bool available)
+    {
+        if (!available || lattice.LayerCount == 0 || reference < 0)
+        {
+            return (null, null);
+        }
+
+        var r = lattice.Crystal.Sites;
+        var c = lattice.Components;
+        double Mean(int layer)
+        {
+            var sum = 0.0;
+            for (var a = 0; a < c; a++)
+            {
+                sum += sink.Msd(reference, ((r + layer) * c) + a);
+            }
+
+            return sum / c * 1e18;
+        }
+
+        var surface = Mean(0);
+        var weighted = 0.0;
+        var sites = 0L;
+        for (var l = 1; l < lattice.LayerCount; l++)
+        {
+            weighted += Mean(l) * lattice.LayerSites[l];
+            sites += lattice.LayerSites[l];
+        }
+
+        return (surface, sites > 0 ? weighted / sites : null);
+    }
+
+    /// <summary>Gaps of a discrete spectrum: empty stretches between consecutive frequencies wider than <paramref name="minimumThz"/>.</summary>
+    internal static ImmutableArray<BandGap> GapsOf(double[] sortedThz, double minimumThz)
+    {
+        var gaps = ImmutableArray.CreateBuilder<BandGap>();
+        for (var k = 0; k + 1 < sortedThz.Length; k++)
+        {
+            if (sortedThz[k] >= 0 && sortedThz[k + 1] - sortedThz[k] > minimumThz)
+            {
+                gaps.Add(new BandGap(sortedThz[k], sortedThz[k + 1]));
+            }
+        }
+
+        return gaps.ToImmutable();
+    }
+
+    /// <summary>Gaps between branch ranges wider than <paramref name="minimumThz"/> (ranges merged first, since branches of a block overlap).</summary>
+    private static ImmutableArray<BandGap> WideGaps(SpectrumStatistics stats, double minimumThz)
+    {
+        var ranges = Enumerable.Range(0, stats.BranchMin.Length)
+            .Select(k => (Lo: ModeSolver.SignedThz(stats.BranchMin[k]), Hi: ModeSolver.SignedThz(stats.BranchMax[k])))
+            .Where(x => double.IsFinite(x.Lo) && double.IsFinite(x.Hi))
+            .OrderBy(x => x.Lo)
+            .ToList();
+        var gaps = ImmutableArray.CreateBuilder<BandGap>();
+        var reach = double.NegativeInfinity;
+        foreach (var (lo, hi) in ranges)
+        {
+            if (reach >= 0 && lo - reach > minimumThz)
+            {
+                gaps.Add(new BandGap(reach, lo));
+            }
+
+            reach = Math.Max(reach, hi);
+        }
+
+        return gaps.ToImmutable();
+    }
+}
