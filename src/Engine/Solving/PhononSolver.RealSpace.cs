@@ -20,6 +20,11 @@ public static partial class PhononSolver
     private static PointResult SolveRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options, CancellationToken ct)
     {
         sample.Validate(model);
+        if (sample.Disorder is not null)
+        {
+            throw Guard.Single(ModelProblemKind.NotSupported, "sample.disorder", "disorder is not solved yet in this build");
+        }
+
         var crystal = CompiledCrystal.From(model);
         var solver = new ModeSolver(new DynamicalMatrix(crystal));
         CheckNoFloppyBranch(solver);
@@ -29,7 +34,7 @@ public static partial class PhononSolver
         var periodic = PeriodicCounterpart(model.Lattice, sample, lattice.AtomCount, crystal.Sites);
         var conductivity = Transport.ConductivityStep.ComputeIfAsked(model, crystal, periodic, options, ct);
 
-        var run = SolveBlock(lattice, SiteProperties.Ordered(lattice), sample, temperatures, options, ct);
+        var run = SolveBlock(lattice, SiteProperties.Ordered(lattice), sample, temperatures, options, record: false, ct);
         var speeds = SoundSpeedFinder.Find(solver);
         var dispersion = options.Dispersion is null ? [] : DispersionCalculator.Compute(solver, options.Dispersion, ct);
         var periodicCv = PeriodicHeatCapacity(model, periodic, options, ct);
@@ -38,30 +43,68 @@ public static partial class PhononSolver
     }
 
     /// <summary>The block solved by the method the sample asks for, or that fits.</summary>
-    private static RealSpaceRun SolveBlock(RealSpaceLattice lattice, SiteProperties properties, RealSpaceSample sample, double[] temperatures, SolveOptions options, CancellationToken ct)
+    private static RealSpaceRun SolveBlock(RealSpaceLattice lattice, SiteProperties properties, RealSpaceSample sample, double[] temperatures, SolveOptions options, bool record, CancellationToken ct)
     {
-        var complex = lattice.ImagesPerSite > 1;
-        var bytes = RealSpaceDenseSolver.BytesFor(lattice.Size, complex);
-        var fits = lattice.Sites <= sample.DenseMaxAtoms && bytes <= options.MemoryLimitBytes;
-        if (!fits)
+        if (DenseTooLarge(lattice.Sites, lattice.Size, lattice.ImagesPerSite > 1, sample, options) is { } why)
         {
-            var why = lattice.Sites > sample.DenseMaxAtoms
-                ? $"its block has {lattice.Sites} atoms, more than sample.dense_max_atoms = {sample.DenseMaxAtoms}"
-                : $"its block needs {bytes >> 20} MiB, more than output.memory_limit_gib allows ({options.MemoryLimitBytes >> 20} MiB)";
             throw Guard.Single(ModelProblemKind.TooLarge, "sample.method",
                 $"the sample is too large for the dense solver: {why}; use a smaller sample or raise the limit");
         }
 
-        return RealSpaceDenseSolver.Solve(lattice, properties, temperatures, options, sample.SurfaceWeightThreshold, forceRecording: false, ct);
+        return RealSpaceDenseSolver.Solve(lattice, properties, temperatures, options, sample.SurfaceWeightThreshold, record, ct);
     }
 
-    private static WorkEstimate EstimateRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options)
+    /// <summary>Why a block does not fit the dense solver, or null when it does.</summary>
+    private static string? DenseTooLarge(long blockSites, long size, bool complex, RealSpaceSample sample, SolveOptions options)
     {
+        var bytes = RealSpaceDenseSolver.BytesFor(size, complex);
+        if (blockSites > sample.DenseMaxAtoms)
+        {
+            return $"its block has {blockSites} atoms, more than sample.dense_max_atoms = {sample.DenseMaxAtoms}";
+        }
+
+        return bytes > options.MemoryLimitBytes
+            ? $"its block needs {bytes >> 20} MiB, more than output.memory_limit_gib allows ({options.MemoryLimitBytes >> 20} MiB)"
+            : null;
+    }
+
+    /// <summary>
+    /// Throws <see cref="ModelException"/> when the sample keeps no site (key <c>sample.shape</c>), has
+    /// more atoms than the engine takes, or asks for the dense solver with a block too large for it
+    /// (key <c>sample.method</c>): found before any point runs.
+    /// </summary>
+    public static void CheckRealSpaceSize(CrystalModel model, RealSpaceSample sample, SolveOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(sample);
+        ArgumentNullException.ThrowIfNull(options);
         var crystal = CompiledCrystal.From(model);
         var ordered = sample.Disorder is null;
+        var (blockSites, images) = BlockSize(crystal, sample, ordered);
+        if (blockSites == 0)
+        {
+            throw Guard.Single(ModelProblemKind.OutOfRange, "sample.shape",
+                $"the {sample.Shape.Name} keeps no site of the lattice; make it larger or move its centre onto a site (centre = [0, 0, 0] is site 0)");
+        }
+
+        if (blockSites * images > RealSpaceSample.MaxAtoms)
+        {
+            throw Guard.Single(ModelProblemKind.TooLarge, "sample", $"the sample has {blockSites * images} atoms, more than the {RealSpaceSample.MaxAtoms} this engine takes; make it smaller");
+        }
+
+        if (sample.Method == RealSpaceMethod.Dense && DenseTooLarge(blockSites, blockSites * crystal.Components, images > 1, sample, options) is { } why)
+        {
+            throw Guard.Single(ModelProblemKind.TooLarge, "sample.method",
+                $"the sample is too large for the dense solver and method = \"dense\" leaves the kernel polynomial method off: {why}; use method = \"auto\" or \"kpm\", a smaller sample, or raise the limit");
+        }
+    }
+
+    /// <summary>Sites of the block and how many sample sites each stands for (the cells of the Bloch directions).</summary>
+    private static (long BlockSites, long Images) BlockSize(CompiledCrystal crystal, RealSpaceSample sample, bool ordered)
+    {
         var atoms = RealSpaceLattice.CountSites(crystal, sample, bloch: ordered);
         var images = 1L;
-        for (var i = 0; i < model.Lattice.Dimension; i++)
+        for (var i = 0; i < crystal.Lattice.Dimension; i++)
         {
             if (ordered && sample.BoundaryOf(i) == Boundary.Periodic)
             {
@@ -69,7 +112,13 @@ public static partial class PhononSolver
             }
         }
 
-        var blockSites = atoms / Math.Max(1, images);
+        return (atoms / Math.Max(1, images), images);
+    }
+
+    private static WorkEstimate EstimateRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options)
+    {
+        var crystal = CompiledCrystal.From(model);
+        var (blockSites, images) = BlockSize(crystal, sample, sample.Disorder is null);
         var n = blockSites * crystal.Components;
         var complex = images > 1;
         var points = complex ? (images + 1) / 2 : 1;
@@ -151,8 +200,13 @@ public static partial class PhononSolver
         var grid = modes.Grid!.Value;
         var gaussian = modes.GaussianSigmaThz > 0;
         var dos = DosAssembly.FromStates(grid, modes.Total, options.PartialDos ? modes.Partial : [], crystal.Sites, gaussian ? "gaussian" : "exact modes");
-        var minimumGap = 2 * grid.WidthThz;
-        var gaps = run.SortedThz.Length > 0 ? GapsOf(run.SortedThz, minimumGap) : WideGaps(run.Statistics, minimumGap);
+        // Periodic directions give bands: gaps between branch ranges, as for a periodic crystal. A block
+        // solved at q = 0 alone has a discrete spectrum whose spacing is no band gap: only empty stretches
+        // wider than 2% of the top (and two DOS bins) count, and the one above zero is the confinement gap.
+        var top = ModeSolver.SignedThz(run.Statistics.MaxLambda);
+        var gaps = lattice.ImagesPerSite > 1 || run.SortedThz.Length == 0
+            ? WideGaps(run.Statistics, 1e-6 * top)
+            : GapsOf(run.SortedThz, Math.Max(2 * grid.WidthThz, DiscreteGapFraction * top));
         var modeList = run.SortedThz.Length > 0 && run.SortedThz.Length <= options.ModeListMaxModes
             ? ModeLevels.Distinct(run.SortedThz, run.SortedThz.Length, 0)
             : [];
@@ -198,7 +252,9 @@ public static partial class PhononSolver
             InteriorSites = (lattice.Sites - lattice.SurfaceSites) * lattice.ImagesPerSite,
             LayerCount = lattice.LayerCount,
             RigidRotations = run.RigidRotations,
-            RotationDefectThz = run.RigidRotations > 0 ? ModeSolver.SignedThz(run.RotationDefectLambda) : null,
+            RotationDefectThz = run.RigidRotations > 0
+                ? run.RotationDefectLambda <= RealSpaceDenseSolver.ZeroTolerance * run.Statistics.MaxLambda ? 0.0 : ModeSolver.SignedThz(run.RotationDefectLambda)
+                : null,
             ConfinementGapThz = double.IsFinite(modes.LowestNonZeroLambda) ? ModeSolver.SignedThz(modes.LowestNonZeroLambda) : null,
             SurfaceModeFraction = lattice.LayerCount > 0 && modes.NonZeroModes > 0 ? modes.SurfaceModes / modes.NonZeroModes : null,
             SurfaceWeightThreshold = sample.SurfaceWeightThreshold,
@@ -269,13 +325,16 @@ public static partial class PhononSolver
         return (surface, sites > 0 ? weighted / sites : null);
     }
 
-    /// <summary>Gaps of a discrete spectrum: empty stretches between consecutive frequencies wider than <paramref name="minimumThz"/>.</summary>
+    /// <summary>Smallest gap of a discrete (q = 0) spectrum that is reported, relative to the top frequency.</summary>
+    public const double DiscreteGapFraction = 0.02;
+
+    /// <summary>Gaps of a discrete spectrum: empty stretches between consecutive non-zero frequencies wider than <paramref name="minimumThz"/>.</summary>
     internal static ImmutableArray<BandGap> GapsOf(double[] sortedThz, double minimumThz)
     {
         var gaps = ImmutableArray.CreateBuilder<BandGap>();
         for (var k = 0; k + 1 < sortedThz.Length; k++)
         {
-            if (sortedThz[k] >= 0 && sortedThz[k + 1] - sortedThz[k] > minimumThz)
+            if (sortedThz[k] > 0 && sortedThz[k + 1] - sortedThz[k] > minimumThz)
             {
                 gaps.Add(new BandGap(sortedThz[k], sortedThz[k + 1]));
             }

@@ -49,7 +49,34 @@ public static class SolveCommand
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
         SummaryTable(result.Summary).WriteTo(stdout);
+        if (result.Surface is { } surface)
+        {
+            stdout.WriteLine();
+            SurfaceTable(surface, result.Summary).WriteTo(stdout);
+        }
+
         return 0;
+    }
+
+    /// <summary>What a sample with boundaries, a shape or disorder adds to the summary.</summary>
+    internal static TextTable SurfaceTable(SurfaceResult f, PointSummary s)
+    {
+        static string N(double? v) => v is { } x ? D(x) : "n/a";
+        var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
+        t.Add("boundaries", f.Boundaries, "");
+        t.Add("shape", f.Shape, "");
+        t.Add("solver", f.Method, "");
+        t.Add("atoms", I(f.AtomCount), "");
+        t.Add("surface / interior atoms", $"{I(f.SurfaceSites)} / {I(f.InteriorSites)}", "");
+        t.Add("zero modes excluded (rigid rotations)", $"{I(s.ZeroModesExcluded)} ({I(f.RigidRotations)})", "");
+        t.Add("rotation defect", N(f.RotationDefectThz), "THz");
+        t.Add("confinement gap", N(f.ConfinementGapThz), "THz");
+        t.Add("surface-mode fraction", N(f.SurfaceModeFraction), "");
+        t.Add("mean-square displacement, surface", N(f.MsdSurfaceNm2), "nm^2");
+        t.Add("mean-square displacement, interior", N(f.MsdInteriorNm2), "nm^2");
+        t.Add($"Cv of the periodic crystal ({f.PeriodicCells})", N(f.PeriodicCvAtReferenceJPerMolK), "J/(mol K)");
+        t.Add("Cv ratio to periodic", f.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 ? D(s.HeatCapacityJPerMolK / p) : "n/a", "");
+        return t;
     }
 
     internal static TextTable SummaryTable(PointSummary s)

@@ -19,7 +19,7 @@ internal static class OutputSectionReader
     private static readonly string[] RangeKeys = ["from_k", "to_k", "steps", "scale"];
     private static readonly string[] DispersionKeys = ["path", "points_per_segment"];
     private static readonly string[] CornerKeys = ["label", "q"];
-    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", "displacements", "cumulative_kappa"];
+    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", "displacements", "cumulative_kappa", "layers", "layer_dos"];
 
     public static (SolveOptions Options, OutputSelection Tables)? Read(TableReader? t, int dimension, ModelSpec? model = null, SampleSpec? sample = null, bool kindSwept = false)
     {
@@ -47,7 +47,9 @@ internal static class OutputSectionReader
         var dispersion = ReadDispersion(t.SubTable("dispersion"), dimension);
         var conductivity = t.SubTable("conductivity") is { } c ? ConductivitySectionReader.Read(c, dimension, model, sample, kindSwept) : null;
 
-        var selection = OutputSelection.Default with { Dispersion = dispersion is not null };
+        // Samples with boundaries, a shape or disorder get their layer tables unless the list says otherwise.
+        var realSpace = sample?.RealSpace is not null;
+        var selection = OutputSelection.Default with { Dispersion = dispersion is not null, Layers = realSpace, LayerDos = realSpace };
         var tables = t.StringList("tables", TableNames);
         if (tables is not null)
         {
@@ -57,7 +59,9 @@ internal static class OutputSectionReader
                 Dispersion: tables.Contains("dispersion"),
                 Modes: tables.Contains("modes"),
                 Displacements: tables.Contains("displacements"),
-                CumulativeKappa: tables.Contains("cumulative_kappa"));
+                CumulativeKappa: tables.Contains("cumulative_kappa"),
+                Layers: tables.Contains("layers"),
+                LayerDos: tables.Contains("layer_dos"));
             if (selection.Dispersion && dispersion is null && !t.Has("dispersion"))
             {
                 t.Error("tables", "the dispersion table needs a path: add [output.dispersion] with path = [{ label = \"G\", q = [0, 0, 0] }, ...]");

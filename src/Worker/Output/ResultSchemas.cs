@@ -15,7 +15,14 @@ internal sealed record DosValue(int? Site, double FrequencyThz, double Density);
 internal sealed record SoundSpeedValue(string Direction, int Branch, double SpeedMPerS);
 
 /// <summary>Thermal functions at one temperature and, when computed, the conductivity at the same temperature.</summary>
-internal sealed record ThermalValue(ThermalRow Thermal, ConductivityRow? Conductivity);
+internal sealed record ThermalValue(ThermalRow Thermal, ConductivityRow? Conductivity)
+{
+    /// <summary>Cv of the periodic crystal of the same size at this temperature (samples built in real space).</summary>
+    public double? PeriodicCvJPerMolK { get; init; }
+}
+
+/// <summary>One value of a layer's density of states.</summary>
+internal sealed record LayerDosValue(int Layer, long Sites, double FrequencyThz, double Density);
 
 /// <summary>
 /// Every result table's columns, names carrying their units. Each table starts with
@@ -65,6 +72,18 @@ internal sealed class ResultSchemas
             C<RowOf<MeanFreePathRow>>("mfp_nm", ColumnType.Double, "nm", "phonon mean free path |v| tau (upper edge of a log bin, 10 per decade)", r => r.Item.MeanFreePathNm),
             C<RowOf<MeanFreePathRow>>("kappa_cumulative_w_per_m_k", ColumnType.Double, "W/(m K)", "conductivity carried by modes with a mean free path up to mfp_nm (mean over the lattice's directions)", r => r.Item.CumulativeKappaWPerMK),
             C<RowOf<MeanFreePathRow>>("kappa_fraction", ColumnType.Double, "1", "that part as a fraction of the whole", r => r.Item.CumulativeFraction));
+        Layers = Spec<LayerRow>(TableNames.Layers, axes,
+            C<RowOf<LayerRow>>("layer", ColumnType.Int32, "", "depth below the surface in nearest-neighbour hops (0 = surface atoms)", r => r.Item.Layer),
+            C<RowOf<LayerRow>>("sites", ColumnType.Int64, "", "atoms in the layer", r => r.Item.Sites),
+            C<RowOf<LayerRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
+            C<RowOf<LayerRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x, mean over the layer's atoms", r => r.Item.MsdXNm2),
+            C<RowOf<LayerRow>>("msd_y_nm2", ColumnType.Double, "nm^2", "along y (empty for the scalar model)", r => r.Item.MsdYNm2),
+            C<RowOf<LayerRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "along z (empty for the scalar model)", r => r.Item.MsdZNm2));
+        LayerDos = Spec<LayerDosValue>(TableNames.LayerDos, axes,
+            C<RowOf<LayerDosValue>>("layer", ColumnType.Int32, "", "depth below the surface in nearest-neighbour hops (0 = surface atoms)", r => r.Item.Layer),
+            C<RowOf<LayerDosValue>>("sites", ColumnType.Int64, "", "atoms in the layer", r => r.Item.Sites),
+            C<RowOf<LayerDosValue>>("freq_thz", ColumnType.Double, "THz", "bin centre frequency (the bins of dos/)", r => r.Item.FrequencyThz),
+            C<RowOf<LayerDosValue>>("dos_per_thz_per_atom", ColumnType.Double, "1/(THz atom)", "states per THz per atom of the layer; integrates to 3 (1 for the scalar model)", r => r.Item.Density));
     }
 
     public TableSpec<PointOutcome> Points { get; }
@@ -75,6 +94,8 @@ internal sealed class ResultSchemas
     public TableSpec<RowOf<ModeLevel>> Modes { get; }
     public TableSpec<RowOf<DisplacementRow>> Displacements { get; }
     public TableSpec<RowOf<MeanFreePathRow>> CumulativeKappa { get; }
+    public TableSpec<RowOf<LayerRow>> Layers { get; }
+    public TableSpec<RowOf<LayerDosValue>> LayerDos { get; }
 
     /// <summary>Columns of a table by name (for the manifest and the units metadata).</summary>
     public IReadOnlyList<ColumnDef> ColumnsOf(string table) => table switch
@@ -87,6 +108,8 @@ internal sealed class ResultSchemas
         TableNames.Modes => Modes.Defs,
         TableNames.Displacements => Displacements.Defs,
         TableNames.CumulativeKappa => CumulativeKappa.Defs,
+        TableNames.Layers => Layers.Defs,
+        TableNames.LayerDos => LayerDos.Defs,
         _ => throw new ArgumentException($"no table named {table}", nameof(table)),
     };
 
@@ -217,6 +240,35 @@ internal sealed class ResultSchemas
             C<PointOutcome>("molar_mass_kg_per_mol", ColumnType.Double, "kg/mol", "mean molar mass of the atoms", o => S(o)?.MolarMassKgPerMol),
             C<PointOutcome>("dos_method", ColumnType.Text, "", "how the density of states was integrated", o => o.Result?.Dos.Method),
             .. ConductivitySummaryColumns(),
+            .. SurfaceSummaryColumns(),
+        ];
+    }
+
+    /// <summary>Numbers of samples built in real space (free boundaries, shapes, disorder); empty for periodic crystals and the bulk.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> SurfaceSummaryColumns()
+    {
+        static SurfaceResult? F(PointOutcome o) => o.Result?.Surface;
+        static double? Ratio(PointOutcome o) =>
+            F(o)?.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 && o.Result!.Summary.HeatCapacityJPerMolK is var cv && double.IsFinite(cv) ? cv / p : null;
+        return
+        [
+            C<PointOutcome>("boundaries", ColumnType.Text, "", "boundary of each lattice direction, e.g. periodic,periodic,free (empty for periodic crystals given without boundaries, and the bulk)", o => F(o)?.Boundaries),
+            C<PointOutcome>("shape", ColumnType.Text, "", "box, sphere or cylinder", o => F(o)?.Shape),
+            C<PointOutcome>("solver_method", ColumnType.Text, "", "dense, dense per wave vector, or kernel polynomial", o => F(o)?.Method),
+            C<PointOutcome>("atom_count", ColumnType.Int64, "", "atoms in the sample", o => F(o)?.AtomCount),
+            C<PointOutcome>("surface_sites", ColumnType.Int64, "", "atoms that lost a nearest neighbour to a cut (layer 0)", o => F(o)?.SurfaceSites),
+            C<PointOutcome>("interior_sites", ColumnType.Int64, "", "the other atoms", o => F(o)?.InteriorSites),
+            C<PointOutcome>("layer_count", ColumnType.Int32, "", "layers below the surface (nearest-neighbour hops; 0 without a surface)", o => F(o)?.LayerCount),
+            C<PointOutcome>("rigid_rotations", ColumnType.Int32, "", "rigid rotations among the rigid-body modes (3 for a free cluster, 1 for a wire)", o => F(o)?.RigidRotations),
+            C<PointOutcome>("rotation_defect_thz", ColumnType.Double, "THz", "frequency the rigid rotations would have if not projected out (0 for rotationally invariant springs)", o => F(o)?.RotationDefectThz),
+            C<PointOutcome>("confinement_gap_thz", ColumnType.Double, "THz", "lowest frequency above the zero modes", o => F(o)?.ConfinementGapThz),
+            C<PointOutcome>("surface_mode_fraction", ColumnType.Double, "1", "fraction of non-zero modes with at least surface_weight_threshold of their weight on surface atoms", o => F(o)?.SurfaceModeFraction),
+            C<PointOutcome>("surface_weight_threshold", ColumnType.Double, "1", "the weight that makes a mode a surface mode", o => F(o)?.SurfaceWeightThreshold),
+            C<PointOutcome>("msd_surface_nm2", ColumnType.Double, "nm^2", "mean-square displacement of surface atoms at the reference temperature, mean over directions", o => F(o)?.MsdSurfaceNm2),
+            C<PointOutcome>("msd_interior_nm2", ColumnType.Double, "nm^2", "the same for the interior atoms", o => F(o)?.MsdInteriorNm2),
+            C<PointOutcome>("periodic_cells", ColumnType.Text, "", "cells per direction of the periodic crystal of the same size", o => F(o)?.PeriodicCells),
+            C<PointOutcome>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of that periodic crystal at the reference temperature", o => F(o)?.PeriodicCvAtReferenceJPerMolK),
+            C<PointOutcome>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k divided by periodic_cv_j_per_mol_k (the surface enhancement)", o => Ratio(o)),
         ];
     }
 
@@ -280,6 +332,8 @@ internal sealed class ResultSchemas
             C<RowOf<ThermalValue>>("kappa_zz_w_per_m_k", ColumnType.Double, w, "along z (empty for a chain or sheet)", r => V(r.Item.Conductivity?.KappaZzWPerMK)),
             C<RowOf<ThermalValue>>("kappa_w_per_m_k", ColumnType.Double, w, "mean over the lattice's directions (trace/3 in 3D); +Infinity when the channels leave modes unscattered", r => V(r.Item.Conductivity?.KappaWPerMK)),
             C<RowOf<ThermalValue>>("kappa_mesh_change", ColumnType.Double, "1", "relative change of kappa from the half-density mesh (bulk only)", r => V(r.Item.Conductivity?.MeshRelativeChange)),
+            C<RowOf<ThermalValue>>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of the periodic crystal of the same size (samples with boundaries, shapes or disorder)", r => r.Item.PeriodicCvJPerMolK),
+            C<RowOf<ThermalValue>>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k over periodic_cv_j_per_mol_k", r => r.Item.PeriodicCvJPerMolK is { } p && p > 0 && double.IsFinite(r.Item.Thermal.HeatCapacityJPerMolK) ? r.Item.Thermal.HeatCapacityJPerMolK / p : null),
         ];
     }
 }

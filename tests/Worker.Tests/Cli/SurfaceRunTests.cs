@@ -1,0 +1,67 @@
+using LatticeSweep.Worker.Tests.JobFiles;
+using LatticeSweep.Worker.Tests.Support;
+
+namespace LatticeSweep.Worker.Tests.Cli;
+
+/// <summary>Free nanocrystals through `latsweep run`, read back with DuckDB.</summary>
+public sealed class SurfaceRunTests : IDisposable
+{
+    private readonly TempFolder _dir = new();
+
+    public void Dispose() => _dir.Dispose();
+
+    [Fact]
+    public void A_cluster_size_sweep_writes_surface_columns_layers_and_layer_densities()
+    {
+        var job = Path.Combine(_dir.Path, "clusters.toml");
+        File.WriteAllText(job, SurfaceJobFileTests.FccJob("kind = \"finite\"\nshape = { kind = \"sphere\", radius_nm = 0.8 }", """
+            [[sweep.axes]]
+            path = "sample.shape.radius_nm"
+            values = [0.6, 0.9]
+            """));
+        var run = Support.Cli.Run(_dir.Path, "run", job, "--workers", "1");
+        Assert.True(run.ExitCode == 0, run.Stdout + run.Stderr);
+        var folder = Directory.GetDirectories(_dir.Combine("results")).Single();
+
+        using var db = new DuckDb();
+        var points = DuckDb.Glob(Path.Combine(folder, "points"));
+        var rows = db.Rows($"""
+            SELECT sample_shape_radius_nm, atom_count, surface_sites, interior_sites, rigid_modes_excluded, rigid_rotations,
+                   boundaries, shape, solver_method, cv_ratio_to_periodic, msd_surface_nm2, msd_interior_nm2, confinement_gap_thz, layer_count
+            FROM {points} ORDER BY sample_shape_radius_nm
+            """);
+        Assert.Equal(2, rows.Count);
+        Assert.True((long)rows[1][1]! > (long)rows[0][1]!, "a larger sphere holds more atoms");
+        foreach (var r in rows)
+        {
+            Assert.Equal((long)r[1]!, (long)r[2]! + (long)r[3]!);
+            Assert.Equal(6, (int)r[4]!);
+            Assert.Equal(3, (int)r[5]!);
+            Assert.Equal("free,free,free", r[6]);
+            Assert.Equal("sphere", r[7]);
+            Assert.Equal("dense", r[8]);
+            Assert.InRange((double)r[9]!, 0.95, 1.2);
+            Assert.True((double)r[10]! > (double)r[11]!, "surface atoms vibrate more");
+            Assert.True((double)r[12]! > 0);
+        }
+
+        // Every layer's density of states integrates to three states per atom.
+        var layerDos = DuckDb.Glob(Path.Combine(folder, "layer_dos"));
+        var dos = DuckDb.Glob(Path.Combine(folder, "dos"));
+        var integrals = db.Rows($"""
+            WITH width AS (SELECT point_id, (max(freq_thz) - min(freq_thz)) / (count(*) - 1) AS w FROM {dos} WHERE curve = 'total' GROUP BY point_id)
+            SELECT l.point_id, l.layer, sum(l.dos_per_thz_per_atom) * any_value(width.w)
+            FROM {layerDos} l JOIN width USING (point_id) GROUP BY l.point_id, l.layer
+            """);
+        Assert.NotEmpty(integrals);
+        Assert.All(integrals, r => Assert.Equal(3.0, (double)r[2]!, 9));
+
+        // Layers: surface first; site counts add up to the atoms; thermal rows carry the periodic comparison.
+        var layers = DuckDb.Glob(Path.Combine(folder, "layers"));
+        var sums = db.Rows($"SELECT point_id, CAST(sum(sites) AS BIGINT) FROM {layers} WHERE temperature_k = 300 GROUP BY point_id");
+        Assert.Equal(rows.Select(r => (long)r[1]!).Order(), sums.Select(r => (long)r[1]!).Order());
+        var thermal = DuckDb.Glob(Path.Combine(folder, "thermal"));
+        var cold = db.Rows($"SELECT cv_ratio_to_periodic, periodic_cv_j_per_mol_k FROM {thermal} WHERE temperature_k = 10");
+        Assert.All(cold, r => Assert.True((double)r[0]! > 1.0 && (double)r[1]! > 0, "soft surface modes raise Cv at 10 K"));
+    }
+}
