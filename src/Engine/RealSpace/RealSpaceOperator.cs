@@ -151,8 +151,6 @@ internal sealed class RealSpaceOperator
     {
         var sites = Lattice.Sites;
         var z = _z;
-        var m = Properties.MassKg;
-        var g = Properties.SpringScale;
         var rows = Lattice.RowStart;
         var neighbours = Lattice.Neighbour;
         var types = Lattice.CouplingType;
@@ -161,7 +159,7 @@ internal sealed class RealSpaceOperator
         {
             for (var s = 0; s < sites; s++)
             {
-                z[s] = g[s] * x[s] / Math.Sqrt(m[s]);
+                z[s] = _rowFactor[s] * x[s];
             }
 
             for (var s = 0; s < sites; s++)
@@ -180,7 +178,7 @@ internal sealed class RealSpaceOperator
 
         for (var s = 0; s < sites; s++)
         {
-            var f = g[s] / Math.Sqrt(m[s]);
+            var f = _rowFactor[s];
             z[3 * s] = f * x[3 * s];
             z[(3 * s) + 1] = f * x[(3 * s) + 1];
             z[(3 * s) + 2] = f * x[(3 * s) + 2];

@@ -134,7 +134,7 @@ internal sealed class RigidBodyModes
     }
 
     /// <summary>D -> P D P with P = 1 - sum v v^T, on a dense symmetric matrix (n x n, either major order).</summary>
-    public void ProjectOut(double[] a)
+    public void ProjectOutOfMatrix(double[] a)
     {
         var k = Count;
         if (k == 0)
@@ -194,21 +194,35 @@ internal sealed class RigidBodyModes
         }
     }
 
-    /// <summary>x -> P x.</summary>
-    public void ProjectOut(Span<double> x)
+    /// <summary>x -> P x: all dot products in one pass, all corrections in a second (the vectors are orthonormal).</summary>
+    public void ProjectOutOfVector(Span<double> x)
     {
-        foreach (var v in Vectors)
+        var k = Count;
+        if (k == 0)
         {
-            var dot = 0.0;
-            for (var i = 0; i < x.Length; i++)
+            return;
+        }
+
+        Span<double> dots = stackalloc double[k];
+        dots.Clear();
+        for (var i = 0; i < x.Length; i++)
+        {
+            var xi = x[i];
+            for (var j = 0; j < k; j++)
             {
-                dot += v[i] * x[i];
+                dots[j] += Vectors[j][i] * xi;
+            }
+        }
+
+        for (var i = 0; i < x.Length; i++)
+        {
+            var sum = 0.0;
+            for (var j = 0; j < k; j++)
+            {
+                sum += dots[j] * Vectors[j][i];
             }
 
-            for (var i = 0; i < x.Length; i++)
-            {
-                x[i] -= dot * v[i];
-            }
+            x[i] -= sum;
         }
     }
 

@@ -17,4 +17,7 @@ public sealed record PointResult(
 
     /// <summary>Surface, shape and size numbers of a sample built in real space; null for periodic crystals and the bulk.</summary>
     public SurfaceResult? Surface { get; init; }
+
+    /// <summary>Standard errors of the numbers that are averages over random vectors or configurations; null for exact results.</summary>
+    public StatisticalErrors? Errors { get; init; }
 }

@@ -34,7 +34,7 @@ public static partial class PhononSolver
         var periodic = PeriodicCounterpart(model.Lattice, sample, lattice.AtomCount, crystal.Sites);
         var conductivity = Transport.ConductivityStep.ComputeIfAsked(model, crystal, periodic, options, ct);
 
-        var run = SolveBlock(lattice, SiteProperties.Ordered(lattice), sample, temperatures, options, record: false, ct);
+        var run = SolveBlock(lattice, SiteProperties.Ordered(lattice), sample, temperatures, options, record: false, configuration: 0, ct);
         var speeds = SoundSpeedFinder.Find(solver);
         var dispersion = options.Dispersion is null ? [] : DispersionCalculator.Compute(solver, options.Dispersion, ct);
         var periodicCv = PeriodicHeatCapacity(model, periodic, options, ct);
@@ -42,17 +42,43 @@ public static partial class PhononSolver
         return Transport.ConductivityStep.Attach(result, conductivity);
     }
 
-    /// <summary>The block solved by the method the sample asks for, or that fits.</summary>
-    private static RealSpaceRun SolveBlock(RealSpaceLattice lattice, SiteProperties properties, RealSpaceSample sample, double[] temperatures, SolveOptions options, bool record, CancellationToken ct)
+    /// <summary>
+    /// The block solved by the method the sample asks for, or that fits: dense while the block has at
+    /// most <see cref="RealSpaceSample.DenseMaxAtoms"/> atoms and its matrix fits the memory limit,
+    /// else the kernel polynomial method on the whole sample (periodic directions wrapped).
+    /// </summary>
+    private static RealSpaceRun SolveBlock(RealSpaceLattice lattice, SiteProperties properties, RealSpaceSample sample, double[] temperatures, SolveOptions options, bool record, int configuration, CancellationToken ct)
     {
-        if (DenseTooLarge(lattice.Sites, lattice.Size, lattice.ImagesPerSite > 1, sample, options) is { } why)
+        var tooLarge = DenseTooLarge(lattice.Sites, lattice.Size, lattice.ImagesPerSite > 1, sample, options);
+        if (sample.Method == RealSpaceMethod.Dense && tooLarge is not null)
         {
             throw Guard.Single(ModelProblemKind.TooLarge, "sample.method",
-                $"the sample is too large for the dense solver: {why}; use a smaller sample or raise the limit");
+                $"the sample is too large for the dense solver and method = \"dense\" leaves the kernel polynomial method off: {tooLarge}; use method = \"auto\" or \"kpm\", a smaller sample, or raise the limit");
+        }
+
+        if (sample.Method == RealSpaceMethod.KernelPolynomial || tooLarge is not null)
+        {
+            if (lattice.ImagesPerSite > 1)
+            {
+                lattice = RealSpaceLattice.Build(lattice.Crystal, sample, bloch: false);
+                properties = SiteProperties.Ordered(lattice);
+            }
+
+            var bytes = KpmBytes(lattice.AtomCount, lattice.Neighbour.Length / Math.Max(1, lattice.Sites));
+            if (bytes > options.MemoryLimitBytes)
+            {
+                throw Guard.Single(ModelProblemKind.TooLarge, "sample",
+                    $"the kernel polynomial method needs about {bytes >> 20} MiB for {lattice.AtomCount} atoms, more than output.memory_limit_gib allows ({options.MemoryLimitBytes >> 20} MiB); raise the limit or use a smaller sample");
+            }
+
+            return RealSpaceKpmSolver.Solve(lattice, properties, temperatures, options, sample.Kpm, configuration, ct);
         }
 
         return RealSpaceDenseSolver.Solve(lattice, properties, temperatures, options, sample.SurfaceWeightThreshold, record, ct);
     }
+
+    /// <summary>Working memory of the kernel polynomial method (the block's springs, the recursion's vectors, the site tables).</summary>
+    private static long KpmBytes(long atoms, int springsPerSite) => atoms * RealSpaceKpmSolver.BytesPerAtom(springsPerSite);
 
     /// <summary>Why a block does not fit the dense solver, or null when it does.</summary>
     private static string? DenseTooLarge(long blockSites, long size, bool complex, RealSpaceSample sample, SolveOptions options)
@@ -191,25 +217,92 @@ public static partial class PhononSolver
             double.IsFinite(result.Summary.HeatCapacityJPerMolK) ? result.Summary.HeatCapacityJPerMolK : null];
     }
 
+    /// <summary>A run's densities on one grid: total and per basis site in states per THz-bin per cell-equivalent, per layer per atom.</summary>
+    private sealed record Densities(FrequencyGrid Grid, double[] Total, double[] Partial, double[] Layers, string Method);
+
+    /// <summary>The run's densities on <paramref name="grid"/>, or on its own grid when null.</summary>
+    private static Densities DensitiesOf(RealSpaceRun run, FrequencyGrid? grid, SolveOptions options)
+    {
+        if (run.Modes is { } modes)
+        {
+            if (modes.IsRecording)
+            {
+                var stats = run.Statistics;
+                modes.BinInto(grid ?? RealSpaceDenseSolver.GridFor(Math.Min(0, stats.WorstLambda), stats.MaxLambda, options));
+            }
+
+            return new Densities(modes.Grid!.Value, modes.Total, modes.Partial, modes.LayerDensity, modes.GaussianSigmaThz > 0 ? "gaussian" : "exact modes");
+        }
+
+        var kpm = run.Kpm!;
+        var lattice = kpm.Lattice;
+        var g = grid ?? FrequencyGrid.Covering(ModeSolver.SignedThz(Math.Min(0, run.Statistics.WorstLambda)), ModeSolver.SignedThz(kpm.Centre + kpm.Scale), options.DosBins);
+        var masses = kpm.Between(KpmSpectrum.Edges(g), kpm.Mean, kpm.Groups);
+        var r = lattice.Crystal.Sites;
+        var perCell = (double)r / lattice.AtomCount;
+        var total = new double[g.Bins];
+
+        // The rigid-body modes were projected out of the trace; like the dense solution's they sit at zero.
+        total[g.BinOf(0)] += run.RigidModes * perCell;
+        var partial = new double[r * g.Bins];
+        var layers = new double[lattice.LayerCount * g.Bins];
+        for (var b = 0; b < g.Bins; b++)
+        {
+            total[b] += masses[b * kpm.Groups] * perCell;
+            for (var s = 0; s < r; s++)
+            {
+                partial[(s * g.Bins) + b] = masses[(b * kpm.Groups) + kpm.BasisGroup(s)] * perCell;
+            }
+
+            for (var l = 0; l < lattice.LayerCount; l++)
+            {
+                layers[(l * g.Bins) + b] = masses[(b * kpm.Groups) + kpm.LayerGroup(l)] / lattice.LayerSites[l];
+            }
+        }
+
+        return new Densities(g, total, partial, layers, "kernel polynomial");
+    }
+
+    /// <summary>Mean-square displacement (m^2) of a displacement channel at temperature index t, or null.</summary>
+    private static double? Msd(RealSpaceRun run, SolveOptions options, int t, int channel)
+    {
+        if (!options.MeanSquareDisplacement)
+        {
+            return null;
+        }
+
+        if (run.Kpm is null)
+        {
+            return run.Sink.Msd(t, channel);
+        }
+
+        var channels = (run.Lattice.Crystal.Sites + run.Lattice.LayerCount) * run.Lattice.Components;
+        return run.KpmDisplacements is { } d ? d[(t * channels) + channel] : null;
+    }
+
     private static PointResult AssembleRealSpace(
         CrystalModel model, CompiledCrystal crystal, RealSpaceSample sample, SolveOptions options, double[] temperatures,
-        RealSpaceRun run, List<SoundSpeed> speeds, ImmutableArray<DispersionRow> dispersion, FiniteSample periodic, double?[] periodicCv)
+        RealSpaceRun run, List<SoundSpeed> speeds, ImmutableArray<DispersionRow> dispersion, FiniteSample periodic, double?[] periodicCv,
+        FrequencyGrid? commonGrid = null)
     {
         var lattice = run.Lattice;
-        var modes = run.Modes;
-        var grid = modes.Grid!.Value;
-        var gaussian = modes.GaussianSigmaThz > 0;
-        var dos = DosAssembly.FromStates(grid, modes.Total, options.PartialDos ? modes.Partial : [], crystal.Sites, gaussian ? "gaussian" : "exact modes");
+        var densities = DensitiesOf(run, commonGrid, options);
+        var grid = densities.Grid;
+        var dos = DosAssembly.FromStates(grid, densities.Total, options.PartialDos ? densities.Partial : [], crystal.Sites, densities.Method);
+
         // Periodic directions give bands: gaps between branch ranges, as for a periodic crystal. A block
         // solved at q = 0 alone has a discrete spectrum whose spacing is no band gap: only empty stretches
         // wider than 2% of the top (and two DOS bins) count, and the one above zero is the confinement gap.
+        // The kernel polynomial method's smoothed density gives no gaps.
         var top = ModeSolver.SignedThz(run.Statistics.MaxLambda);
-        var gaps = lattice.ImagesPerSite > 1 || run.SortedThz.Length == 0
-            ? WideGaps(run.Statistics, 1e-6 * top)
-            : GapsOf(run.SortedThz, Math.Max(2 * grid.WidthThz, DiscreteGapFraction * top));
+        var gaps = run.Kpm is not null ? ImmutableArray<BandGap>.Empty
+            : lattice.ImagesPerSite > 1 || run.SortedThz.Length == 0
+                ? WideGaps(run.Statistics, 1e-6 * top)
+                : GapsOf(run.SortedThz, Math.Max(2 * grid.WidthThz, DiscreteGapFraction * top));
         var modeList = run.SortedThz.Length > 0 && run.SortedThz.Length <= options.ModeListMaxModes
             ? ModeLevels.Distinct(run.SortedThz, run.SortedThz.Length, 0)
             : [];
+        var zeroModes = run.Modes is { } modes ? (long)Math.Round(modes.ZeroModes) : run.RigidModes;
         var outcome = new SpectrumOutcome
         {
             SampleKind = "finite",
@@ -217,7 +310,7 @@ public static partial class PhononSolver
             QPointsSolved = run.QPointsSolved,
             ModeCount = run.ModeCount,
             RigidModesExcluded = run.RigidModes,
-            ZeroModesExcluded = (long)Math.Round(modes.ZeroModes),
+            ZeroModesExcluded = zeroModes,
             Statistics = run.Statistics,
             Sink = run.Sink,
             Dos = dos,
@@ -227,21 +320,28 @@ public static partial class PhononSolver
 
         var result = Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion);
         var stable = result.Summary.Stable;
-        var layers = LayerRows(lattice, run.Sink, options, temperatures, stable);
         var reference = Array.IndexOf(temperatures, options.ReferenceTemperatureK);
-        var (surfaceMsd, interiorMsd) = SurfaceAndInteriorMsd(lattice, run.Sink, reference, stable && options.MeanSquareDisplacement);
+        if (run.Kpm is not null)
+        {
+            result = result with { Displacements = KpmDisplacementRows(model, run, options, temperatures, stable) };
+        }
+
+        var layers = LayerRows(run, options, temperatures, stable);
+        var (surfaceMsd, interiorMsd) = SurfaceAndInteriorMsd(run, options, reference, stable);
         var layerDos = ImmutableArray.CreateBuilder<LayerDos>(lattice.LayerCount);
         for (var l = 0; l < lattice.LayerCount; l++)
         {
             var curve = new double[grid.Bins];
             for (var b = 0; b < grid.Bins; b++)
             {
-                curve[b] = modes.LayerDensity[(l * grid.Bins) + b] / grid.WidthThz;
+                curve[b] = densities.Layers[(l * grid.Bins) + b] / grid.WidthThz;
             }
 
             layerDos.Add(new LayerDos(l, lattice.LayerSites[l] * lattice.ImagesPerSite, [.. curve]));
         }
 
+        var lowest = run.Modes?.LowestNonZeroLambda ?? (run.KpmLowestRitz > RealSpaceDenseSolver.ZeroTolerance * run.Statistics.MaxLambda ? run.KpmLowestRitz : double.PositiveInfinity);
+        var surfaceFraction = run.Modes is { } m2 && lattice.LayerCount > 0 && m2.NonZeroModes > 0 ? m2.SurfaceModes / m2.NonZeroModes : (double?)null;
         var surface = new SurfaceResult
         {
             Boundaries = sample.BoundaryText(model.Lattice.Dimension),
@@ -255,8 +355,8 @@ public static partial class PhononSolver
             RotationDefectThz = run.RigidRotations > 0
                 ? run.RotationDefectLambda <= RealSpaceDenseSolver.ZeroTolerance * run.Statistics.MaxLambda ? 0.0 : ModeSolver.SignedThz(run.RotationDefectLambda)
                 : null,
-            ConfinementGapThz = double.IsFinite(modes.LowestNonZeroLambda) ? ModeSolver.SignedThz(modes.LowestNonZeroLambda) : null,
-            SurfaceModeFraction = lattice.LayerCount > 0 && modes.NonZeroModes > 0 ? modes.SurfaceModes / modes.NonZeroModes : null,
+            ConfinementGapThz = stable && double.IsFinite(lowest) ? ModeSolver.SignedThz(lowest) : null,
+            SurfaceModeFraction = stable ? surfaceFraction : null,
             SurfaceWeightThreshold = sample.SurfaceWeightThreshold,
             MsdSurfaceNm2 = surfaceMsd,
             MsdInteriorNm2 = interiorMsd,
@@ -265,12 +365,41 @@ public static partial class PhononSolver
             PeriodicCvAtReferenceJPerMolK = periodicCv[^1],
             Layers = layers,
             LayerDos = layerDos.MoveToImmutable(),
+            KpmMoments = run.Kpm?.Moments,
+            KpmRandomVectors = run.Kpm?.Vectors,
+            KpmResolutionThz = run.Kpm?.ResolutionThz,
         };
 
-        return result with { Surface = surface };
+        var errors = run.Kpm is { } kpm && stable
+            ? KpmErrors.Of(kpm, RealSpaceKpmSolver.FineGrid(kpm.Centre + kpm.Scale), grid, temperatures, options.TemperaturesK.Length, reference,
+                run.KpmDisplacements is null ? null : Math.Sqrt(run.KpmLowestRitz))
+            : null;
+        return result with { Surface = surface, Errors = errors };
     }
 
-    private static ImmutableArray<LayerRow> LayerRows(RealSpaceLattice lattice, ModeSink sink, SolveOptions options, double[] temperatures, bool stable)
+    /// <summary>Per basis site, from the kernel polynomial method's displacement densities.</summary>
+    private static ImmutableArray<DisplacementRow> KpmDisplacementRows(CrystalModel model, RealSpaceRun run, SolveOptions options, double[] temperatures, bool stable)
+    {
+        var rows = ImmutableArray.CreateBuilder<DisplacementRow>();
+        if (!options.MeanSquareDisplacement)
+        {
+            return rows.ToImmutable();
+        }
+
+        var c = run.Lattice.Components;
+        for (var t = 0; t < options.TemperaturesK.Length; t++)
+        {
+            for (var site = 0; site < model.Sites.Length; site++)
+            {
+                double Get(int axis) => !stable || axis >= c ? double.NaN : (Msd(run, options, t, (site * c) + axis) ?? double.NaN) * 1e18;
+                rows.Add(new DisplacementRow(temperatures[t], site, model.Sites[site].Label, Get(0), Get(1), Get(2)));
+            }
+        }
+
+        return rows.ToImmutable();
+    }
+
+    private static ImmutableArray<LayerRow> LayerRows(RealSpaceRun run, SolveOptions options, double[] temperatures, bool stable)
     {
         var rows = ImmutableArray.CreateBuilder<LayerRow>();
         if (!options.MeanSquareDisplacement)
@@ -278,13 +407,14 @@ public static partial class PhononSolver
             return rows.ToImmutable();
         }
 
+        var lattice = run.Lattice;
         var r = lattice.Crystal.Sites;
         var c = lattice.Components;
         for (var t = 0; t < options.TemperaturesK.Length; t++)
         {
             for (var l = 0; l < lattice.LayerCount; l++)
             {
-                double? Get(int axis) => !stable || axis >= c ? null : sink.Msd(t, ((r + l) * c) + axis) * 1e18;
+                double? Get(int axis) => !stable || axis >= c ? null : Msd(run, options, t, ((r + l) * c) + axis) * 1e18;
                 rows.Add(new LayerRow(l, lattice.LayerSites[l] * lattice.ImagesPerSite, temperatures[t], Get(0), Get(1), Get(2)));
             }
         }
@@ -293,28 +423,34 @@ public static partial class PhononSolver
     }
 
     /// <summary>Mean over directions at the reference temperature: layer 0, and the site-weighted mean of the deeper layers.</summary>
-    private static (double? Surface, double? Interior) SurfaceAndInteriorMsd(RealSpaceLattice lattice, ModeSink sink, int reference, bool available)
+    private static (double? Surface, double? Interior) SurfaceAndInteriorMsd(RealSpaceRun run, SolveOptions options, int reference, bool stable)
     {
-        if (!available || lattice.LayerCount == 0 || reference < 0)
+        var lattice = run.Lattice;
+        if (!stable || lattice.LayerCount == 0 || reference < 0)
         {
             return (null, null);
         }
 
         var r = lattice.Crystal.Sites;
         var c = lattice.Components;
-        double Mean(int layer)
+        double? Mean(int layer)
         {
             var sum = 0.0;
             for (var a = 0; a < c; a++)
             {
-                sum += sink.Msd(reference, ((r + layer) * c) + a);
+                if (Msd(run, options, reference, ((r + layer) * c) + a) is not { } v)
+                {
+                    return null;
+                }
+
+                sum += v;
             }
 
             return sum / c * 1e18;
         }
 
         var surface = Mean(0);
-        var weighted = 0.0;
+        double? weighted = 0.0;
         var sites = 0L;
         for (var l = 1; l < lattice.LayerCount; l++)
         {

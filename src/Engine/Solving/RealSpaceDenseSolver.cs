@@ -67,7 +67,7 @@ internal static class RealSpaceDenseSolver
         op.BuildReal(real);
         var rigid = RigidBodyModes.Of(lattice, properties.MassKg);
         var rotation = rigid.RotationStiffness(v => Multiply(real, n, v));
-        rigid.ProjectOut(real);
+        rigid.ProjectOutOfMatrix(real);
 
         var modeCount = lattice.AtomCount * lattice.Components;
         var groups = 1 + lattice.Crystal.Sites + lattice.LayerCount;

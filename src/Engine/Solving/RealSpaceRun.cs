@@ -10,8 +10,17 @@ internal sealed record RealSpaceRun
 
     public required SpectrumStatistics Statistics { get; init; }
 
-    /// <summary>Exact modes of the block.</summary>
-    public required RealSpaceModes Modes { get; init; }
+    /// <summary>Exact modes of the block (dense solutions); null for the kernel polynomial method.</summary>
+    public RealSpaceModes? Modes { get; init; }
+
+    /// <summary>Moments of the kernel polynomial method; null for dense solutions.</summary>
+    public KpmSpectrum? Kpm { get; init; }
+
+    /// <summary>Kernel polynomial method: mean-square displacement per displacement channel, [t * channels + c] (m^2); null when not available.</summary>
+    public double[]? KpmDisplacements { get; init; }
+
+    /// <summary>Kernel polynomial method: lowest Lanczos Ritz value above the rigid modes (rad^2/s^2).</summary>
+    public double KpmLowestRitz { get; init; }
 
     public required ModeSink Sink { get; init; }
 
