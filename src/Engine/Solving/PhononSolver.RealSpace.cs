@@ -6,6 +6,7 @@ using LatticeSweep.Engine.RealSpace;
 using LatticeSweep.Engine.Results;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Units;
 
 namespace LatticeSweep.Engine.Solving;
 
@@ -20,11 +21,6 @@ public static partial class PhononSolver
     private static PointResult SolveRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options, CancellationToken ct)
     {
         sample.Validate(model);
-        if (sample.Disorder is not null)
-        {
-            throw Guard.Single(ModelProblemKind.NotSupported, "sample.disorder", "disorder is not solved yet in this build");
-        }
-
         var crystal = CompiledCrystal.From(model);
         var solver = new ModeSolver(new DynamicalMatrix(crystal));
         CheckNoFloppyBranch(solver);
@@ -33,13 +29,50 @@ public static partial class PhononSolver
         var lattice = RealSpaceLattice.Build(crystal, sample, bloch: sample.Disorder is null);
         var periodic = PeriodicCounterpart(model.Lattice, sample, lattice.AtomCount, crystal.Sites);
         var conductivity = Transport.ConductivityStep.ComputeIfAsked(model, crystal, periodic, options, ct);
-
-        var run = SolveBlock(lattice, SiteProperties.Ordered(lattice), sample, temperatures, options, record: false, configuration: 0, ct);
         var speeds = SoundSpeedFinder.Find(solver);
         var dispersion = options.Dispersion is null ? [] : DispersionCalculator.Compute(solver, options.Dispersion, ct);
         var periodicCv = PeriodicHeatCapacity(model, periodic, options, ct);
-        var result = AssembleRealSpace(model, crystal, sample, options, temperatures, run, speeds, dispersion, periodic, periodicCv);
+
+        PointResult result;
+        if (sample.Disorder is not { } disorder)
+        {
+            var run = SolveBlock(lattice, SiteProperties.Ordered(lattice), sample, temperatures, options, record: false, configuration: 0, ct);
+            result = AssembleRealSpace(model, crystal, sample, options, temperatures, run, speeds, dispersion, periodic, periodicCv);
+        }
+        else
+        {
+            result = SolveDisordered(model, crystal, sample, disorder, lattice, options, temperatures, speeds, dispersion, periodic, periodicCv, ct);
+        }
+
         return Transport.ConductivityStep.Attach(result, conductivity);
+    }
+
+    /// <summary>
+    /// Every configuration solved on the same block (periodic directions wrapped) and assembled on one
+    /// frequency grid, averaged with standard errors; beside it the ordered virtual crystal, solved with
+    /// exact wave vectors where the sample is periodic.
+    /// </summary>
+    private static PointResult SolveDisordered(
+        CrystalModel model, CompiledCrystal crystal, RealSpaceSample sample, Disorder disorder, RealSpaceLattice lattice, SolveOptions options,
+        double[] temperatures, List<SoundSpeed> speeds, ImmutableArray<DispersionRow> dispersion, FiniteSample periodic, double?[] periodicCv, CancellationToken ct)
+    {
+        var runs = new List<RealSpaceRun>(disorder.Configurations);
+        for (var k = 0; k < disorder.Configurations; k++)
+        {
+            ct.ThrowIfCancellationRequested();
+            runs.Add(SolveBlock(lattice, SiteProperties.Random(lattice, disorder, k), sample, temperatures, options, record: true, configuration: k, ct));
+        }
+
+        var top = runs.Max(r => r.Kpm is { } kpm ? kpm.Centre + kpm.Scale : r.Statistics.MaxLambda);
+        var bottom = runs.Min(r => Math.Min(0, r.Statistics.WorstLambda));
+        var grid = RealSpaceDenseSolver.GridFor(bottom, top, options);
+        var results = runs.Select(r => AssembleRealSpace(model, crystal, sample, options, temperatures, r, speeds, dispersion, periodic, periodicCv, grid)).ToList();
+        var average = ConfigurationAverage.Of(results, model.Lattice.Dimension, crystal.Components * PhysicalConstants.GasConstantJPerMolK);
+
+        var orderedLattice = RealSpaceLattice.Build(crystal, sample, bloch: true);
+        var orderedRun = SolveBlock(orderedLattice, SiteProperties.VirtualCrystal(orderedLattice, disorder), sample, temperatures, options, record: false, configuration: 0, ct);
+        var ordered = AssembleRealSpace(model, crystal, sample, options, temperatures, orderedRun, speeds, dispersion, periodic, periodicCv);
+        return average with { Ordered = ordered };
     }
 
     /// <summary>
@@ -319,6 +352,9 @@ public static partial class PhononSolver
         };
 
         var result = Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion);
+
+        // Per kg: the atoms actually there (substitutes, or the mean masses of a virtual crystal).
+        result = result with { Summary = result.Summary with { MolarMassKgPerMol = run.Properties.MassKg.Average() / PhysicalConstants.AtomicMassKg * 1e-3 } };
         var stable = result.Summary.Stable;
         var reference = Array.IndexOf(temperatures, options.ReferenceTemperatureK);
         if (run.Kpm is not null)

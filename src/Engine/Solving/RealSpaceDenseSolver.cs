@@ -157,6 +157,7 @@ internal static class RealSpaceDenseSolver
         return new RealSpaceRun
         {
             Lattice = lattice,
+            Properties = properties,
             Statistics = stats,
             Modes = modes,
             Sink = sink,

@@ -117,6 +117,7 @@ internal static class RealSpaceKpmSolver
         return new RealSpaceRun
         {
             Lattice = lattice,
+            Properties = properties,
             Statistics = stats,
             Kpm = kpm,
             KpmDisplacements = displacements,

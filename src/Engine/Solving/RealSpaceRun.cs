@@ -8,6 +8,9 @@ internal sealed record RealSpaceRun
 {
     public required RealSpaceLattice Lattice { get; init; }
 
+    /// <summary>The masses and spring factors the block was solved with.</summary>
+    public required SiteProperties Properties { get; init; }
+
     public required SpectrumStatistics Statistics { get; init; }
 
     /// <summary>Exact modes of the block (dense solutions); null for the kernel polynomial method.</summary>

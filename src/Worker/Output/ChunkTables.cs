@@ -71,7 +71,8 @@ internal static class ChunkTables
         for (var i = 0; i < thermal.Length; i++)
         {
             var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
-            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null });
+            var errors = o.Result.Errors?.Thermal is { } e && i < e.Length ? e[i] : null;
+            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors });
         }
     }
 
@@ -90,9 +91,10 @@ internal static class ChunkTables
     private static IEnumerable<RowOf<DosValue>> DosRows(PointOutcome o)
     {
         var dos = o.Result!.Dos;
+        var errors = o.Result.Errors?.DosTotal ?? [];
         for (var i = 0; i < dos.FrequencyThz.Length; i++)
         {
-            yield return new RowOf<DosValue>(o, new DosValue(null, dos.FrequencyThz[i], dos.Total[i]));
+            yield return new RowOf<DosValue>(o, new DosValue(null, dos.FrequencyThz[i], dos.Total[i], i < errors.Length && double.IsFinite(errors[i]) ? errors[i] : null));
         }
 
         for (var site = 0; site < dos.PartialBySite.Length; site++)

@@ -8,8 +8,8 @@ namespace LatticeSweep.Worker.Output;
 /// <summary>A point's outcome paired with one item of its result (one DOS bin, one thermal row, ...).</summary>
 internal sealed record RowOf<T>(PointOutcome Outcome, T Item);
 
-/// <summary>One DOS value: <see cref="Site"/> is null for the total curve.</summary>
-internal sealed record DosValue(int? Site, double FrequencyThz, double Density);
+/// <summary>One DOS value: <see cref="Site"/> is null for the total curve; <see cref="StandardError"/> when the total is an average.</summary>
+internal sealed record DosValue(int? Site, double FrequencyThz, double Density, double? StandardError = null);
 
 /// <summary>One sound speed: direction, branch (slowest first) and speed.</summary>
 internal sealed record SoundSpeedValue(string Direction, int Branch, double SpeedMPerS);
@@ -19,6 +19,9 @@ internal sealed record ThermalValue(ThermalRow Thermal, ConductivityRow? Conduct
 {
     /// <summary>Cv of the periodic crystal of the same size at this temperature (samples built in real space).</summary>
     public double? PeriodicCvJPerMolK { get; init; }
+
+    /// <summary>Standard errors of U, F, S, Cv when they are averages (null otherwise).</summary>
+    public ThermalRow? StandardErrors { get; init; }
 }
 
 /// <summary>One value of a layer's density of states.</summary>
@@ -43,7 +46,8 @@ internal sealed class ResultSchemas
             C<RowOf<DosValue>>("curve", ColumnType.Text, "", "total, or site for a partial density of states", r => r.Item.Site is null ? "total" : "site"),
             C<RowOf<DosValue>>("site", ColumnType.Int32, "", "basis site (0-based); empty for the total", r => r.Item.Site),
             C<RowOf<DosValue>>("freq_thz", ColumnType.Double, "THz", "bin centre frequency", r => r.Item.FrequencyThz),
-            C<RowOf<DosValue>>("dos_per_thz_per_cell", ColumnType.Double, "1/(THz cell)", "states per THz per cell; the total integrates to the branch count", r => r.Item.Density));
+            C<RowOf<DosValue>>("dos_per_thz_per_cell", ColumnType.Double, "1/(THz cell)", "states per THz per cell; the total integrates to the branch count", r => r.Item.Density),
+            C<RowOf<DosValue>>("dos_stderr_per_thz_per_cell", ColumnType.Double, "1/(THz cell)", "standard error of the total when it is an average over random vectors or configurations", r => r.Item.StandardError));
         Thermal = Spec<ThermalValue>(TableNames.Thermal, axes, ThermalColumns());
         Dispersion = Spec<DispersionRow>(TableNames.Dispersion, axes,
             C<RowOf<DispersionRow>>("path_index", ColumnType.Int32, "", "index of the q point along the path", r => r.Item.PathIndex),
@@ -269,6 +273,32 @@ internal sealed class ResultSchemas
             C<PointOutcome>("periodic_cells", ColumnType.Text, "", "cells per direction of the periodic crystal of the same size", o => F(o)?.PeriodicCells),
             C<PointOutcome>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of that periodic crystal at the reference temperature", o => F(o)?.PeriodicCvAtReferenceJPerMolK),
             C<PointOutcome>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k divided by periodic_cv_j_per_mol_k (the surface enhancement)", o => Ratio(o)),
+            C<PointOutcome>("kpm_moments", ColumnType.Int32, "", "Chebyshev moments of the kernel polynomial method (empty for dense solutions)", o => F(o)?.KpmMoments),
+            C<PointOutcome>("kpm_random_vectors", ColumnType.Int32, "", "random vectors of its stochastic trace", o => F(o)?.KpmRandomVectors),
+            C<PointOutcome>("kpm_resolution_thz", ColumnType.Double, "THz", "its frequency resolution near zero, sqrt(pi a / moments)", o => F(o)?.KpmResolutionThz),
+            .. ErrorColumns(),
+        ];
+    }
+
+    /// <summary>Standard errors of the averaged numbers (random vectors and/or configurations); empty for exact results.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ErrorColumns()
+    {
+        static StatisticalErrors? E(PointOutcome o) => o.Result?.Errors;
+        return
+        [
+            C<PointOutcome>("stderr_source", ColumnType.Text, "", "what the standard errors are over: random vectors or configurations", o => E(o)?.Source),
+            C<PointOutcome>("stderr_samples", ColumnType.Int32, "", "how many random vectors or configurations were averaged", o => E(o)?.Samples),
+            C<PointOutcome>("cv_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of cv_j_per_mol_k", o => E(o)?.HeatCapacityJPerMolK),
+            C<PointOutcome>("entropy_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of entropy_j_per_mol_k", o => E(o)?.EntropyJPerMolK),
+            C<PointOutcome>("free_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of free_energy_j_per_mol", o => E(o)?.FreeEnergyJPerMol),
+            C<PointOutcome>("internal_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of internal_energy_j_per_mol", o => E(o)?.InternalEnergyJPerMol),
+            C<PointOutcome>("zero_point_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of zero_point_energy_j_per_mol", o => E(o)?.ZeroPointEnergyJPerMol),
+            C<PointOutcome>("max_freq_stderr_thz", ColumnType.Double, "THz", "standard error of max_freq_thz (configurations)", o => E(o)?.MaxFrequencyThz),
+            C<PointOutcome>("confinement_gap_stderr_thz", ColumnType.Double, "THz", "standard error of confinement_gap_thz (configurations)", o => E(o)?.ConfinementGapThz),
+            C<PointOutcome>("surface_mode_fraction_stderr", ColumnType.Double, "1", "standard error of surface_mode_fraction (configurations)", o => E(o)?.SurfaceModeFraction),
+            C<PointOutcome>("msd_surface_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_surface_nm2", o => E(o)?.MsdSurfaceNm2),
+            C<PointOutcome>("msd_interior_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_interior_nm2", o => E(o)?.MsdInteriorNm2),
+            C<PointOutcome>("cv_ratio_stderr", ColumnType.Double, "1", "standard error of cv_ratio_to_periodic (configurations)", o => E(o)?.CvRatioToPeriodic),
         ];
     }
 
@@ -334,6 +364,10 @@ internal sealed class ResultSchemas
             C<RowOf<ThermalValue>>("kappa_mesh_change", ColumnType.Double, "1", "relative change of kappa from the half-density mesh (bulk only)", r => V(r.Item.Conductivity?.MeshRelativeChange)),
             C<RowOf<ThermalValue>>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of the periodic crystal of the same size (samples with boundaries, shapes or disorder)", r => r.Item.PeriodicCvJPerMolK),
             C<RowOf<ThermalValue>>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k over periodic_cv_j_per_mol_k", r => r.Item.PeriodicCvJPerMolK is { } p && p > 0 && double.IsFinite(r.Item.Thermal.HeatCapacityJPerMolK) ? r.Item.Thermal.HeatCapacityJPerMolK / p : null),
+            C<RowOf<ThermalValue>>("internal_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of internal_energy_j_per_mol (random vectors or configurations; empty for exact sums)", r => V(r.Item.StandardErrors?.InternalEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("free_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of free_energy_j_per_mol", r => V(r.Item.StandardErrors?.FreeEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("entropy_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of entropy_j_per_mol_k", r => V(r.Item.StandardErrors?.EntropyJPerMolK)),
+            C<RowOf<ThermalValue>>("cv_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of cv_j_per_mol_k", r => V(r.Item.StandardErrors?.HeatCapacityJPerMolK)),
         ];
     }
 }
