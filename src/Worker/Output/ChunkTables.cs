@@ -68,11 +68,12 @@ internal static class ChunkTables
         var thermal = o.Result!.Thermal;
         var kappa = o.Result.Conductivity?.ByTemperature ?? [];
         var periodic = o.Result.Surface?.PeriodicCvJPerMolK ?? [];
+        var ordered = o.Result.Ordered?.Thermal ?? [];
         for (var i = 0; i < thermal.Length; i++)
         {
             var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
             var errors = o.Result.Errors?.Thermal is { } e && i < e.Length ? e[i] : null;
-            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors });
+            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors, OrderedCvJPerMolK = i < ordered.Length ? ordered[i].HeatCapacityJPerMolK : null });
         }
     }
 

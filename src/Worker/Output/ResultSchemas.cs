@@ -22,6 +22,9 @@ internal sealed record ThermalValue(ThermalRow Thermal, ConductivityRow? Conduct
 
     /// <summary>Standard errors of U, F, S, Cv when they are averages (null otherwise).</summary>
     public ThermalRow? StandardErrors { get; init; }
+
+    /// <summary>Cv of the ordered virtual crystal at this temperature (disordered samples).</summary>
+    public double? OrderedCvJPerMolK { get; init; }
 }
 
 /// <summary>One value of a layer's density of states.</summary>
@@ -277,6 +280,23 @@ internal sealed class ResultSchemas
             C<PointOutcome>("kpm_random_vectors", ColumnType.Int32, "", "random vectors of its stochastic trace", o => F(o)?.KpmRandomVectors),
             C<PointOutcome>("kpm_resolution_thz", ColumnType.Double, "THz", "its frequency resolution near zero, sqrt(pi a / moments)", o => F(o)?.KpmResolutionThz),
             .. ErrorColumns(),
+            .. OrderedColumns(),
+        ];
+    }
+
+    /// <summary>A disordered point's ordered virtual crystal beside it (empty for ordered samples).</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> OrderedColumns()
+    {
+        static PointResult? O(PointOutcome o) => o.Result?.Ordered;
+        return
+        [
+            C<PointOutcome>("ordered_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "Cv of the same sample ordered as its virtual crystal (mean masses and springs); cv_j_per_mol_k minus this is the effect of disorder", o => O(o)?.Summary.HeatCapacityJPerMolK),
+            C<PointOutcome>("ordered_entropy_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy of the virtual crystal", o => O(o)?.Summary.EntropyJPerMolK),
+            C<PointOutcome>("ordered_free_energy_j_per_mol", ColumnType.Double, "J/mol", "free energy of the virtual crystal", o => O(o)?.Summary.FreeEnergyJPerMol),
+            C<PointOutcome>("ordered_max_freq_thz", ColumnType.Double, "THz", "highest frequency of the virtual crystal", o => O(o)?.Summary.MaxFrequencyThz),
+            C<PointOutcome>("ordered_confinement_gap_thz", ColumnType.Double, "THz", "confinement gap of the virtual crystal", o => O(o)?.Surface?.ConfinementGapThz),
+            C<PointOutcome>("ordered_msd_surface_nm2", ColumnType.Double, "nm^2", "surface mean-square displacement of the virtual crystal", o => O(o)?.Surface?.MsdSurfaceNm2),
+            C<PointOutcome>("ordered_msd_interior_nm2", ColumnType.Double, "nm^2", "interior mean-square displacement of the virtual crystal", o => O(o)?.Surface?.MsdInteriorNm2),
         ];
     }
 
@@ -368,6 +388,7 @@ internal sealed class ResultSchemas
             C<RowOf<ThermalValue>>("free_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of free_energy_j_per_mol", r => V(r.Item.StandardErrors?.FreeEnergyJPerMol)),
             C<RowOf<ThermalValue>>("entropy_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of entropy_j_per_mol_k", r => V(r.Item.StandardErrors?.EntropyJPerMolK)),
             C<RowOf<ThermalValue>>("cv_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of cv_j_per_mol_k", r => V(r.Item.StandardErrors?.HeatCapacityJPerMolK)),
+            C<RowOf<ThermalValue>>("ordered_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "Cv of the ordered virtual crystal (disordered samples)", r => V(r.Item.OrderedCvJPerMolK)),
         ];
     }
 }

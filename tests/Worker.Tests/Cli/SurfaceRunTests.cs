@@ -64,4 +64,47 @@ public sealed class SurfaceRunTests : IDisposable
         var cold = db.Rows($"SELECT cv_ratio_to_periodic, periodic_cv_j_per_mol_k FROM {thermal} WHERE temperature_k = 10");
         Assert.All(cold, r => Assert.True((double)r[0]! > 1.0 && (double)r[1]! > 0, "soft surface modes raise Cv at 10 K"));
     }
+
+    [Fact]
+    public void An_isotope_concentration_sweep_writes_averages_with_errors_beside_the_ordered_crystal()
+    {
+        var job = Path.Combine(_dir.Path, "isotopes.toml");
+        File.WriteAllText(job, SurfaceJobFileTests.FccJob("""
+            kind = "finite"
+            cells = 3
+
+            [sample.disorder]
+            configurations = 3
+
+            [[sample.disorder.substitutions]]
+            site = "A"
+            mass_amu = 44.0
+            concentration = 0.5
+            """, """
+            [[sweep.axes]]
+            path = "sample.disorder.substitutions[0].concentration"
+            values = [0.0, 0.5]
+            """));
+        var run = Support.Cli.Run(_dir.Path, "run", job, "--workers", "1");
+        Assert.True(run.ExitCode == 0, run.Stdout + run.Stderr);
+        var folder = Directory.GetDirectories(_dir.Combine("results")).Single();
+
+        using var db = new DuckDb();
+        var points = DuckDb.Glob(Path.Combine(folder, "points"));
+        var rows = db.Rows($"""
+            SELECT sample_disorder_substitutions_0_concentration, cv_j_per_mol_k, ordered_cv_j_per_mol_k, cv_stderr_j_per_mol_k, stderr_source, stderr_samples, molar_mass_kg_per_mol
+            FROM {points} ORDER BY 1
+            """);
+        Assert.Equal(2, rows.Count);
+        Assert.Equal((double)rows[0][2]!, (double)rows[0][1]!, 9); // c = 0: the ordered crystal itself
+        Assert.Equal(0.0, (double)rows[0][3]!, 9);
+        Assert.True((double)rows[1][3]! > 0, "configurations differ at c = 0.5");
+        Assert.Equal("configurations", rows[1][4]);
+        Assert.Equal(3, (int)rows[1][5]!);
+        Assert.Equal(((13 * 40.0) + (14 * 44.0)) / 27 * 1e-3, (double)rows[1][6]!, 9); // round(0.5 x 27) = 14 substitutes
+        var thermal = DuckDb.Glob(Path.Combine(folder, "thermal"));
+        Assert.All(db.Rows($"SELECT cv_stderr_j_per_mol_k, ordered_cv_j_per_mol_k FROM {thermal}"), r => Assert.True(r[0] is not null && r[1] is not null));
+        var dos = DuckDb.Glob(Path.Combine(folder, "dos"));
+        Assert.Equal(0L, db.Scalar($"SELECT count(*) FROM {dos} WHERE curve = 'total' AND dos_stderr_per_thz_per_cell IS NULL"));
+    }
 }

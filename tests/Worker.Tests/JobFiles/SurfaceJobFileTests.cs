@@ -172,6 +172,53 @@ public sealed class SurfaceJobFileTests : IDisposable
         Assert.Contains("smaller than one cell", p.Message, StringComparison.Ordinal);
     }
 
+    private const string Disorder = """
+        kind = "finite"
+        cells = 3
+
+        [sample.disorder]
+        configurations = 4
+        seed = 7
+
+        [[sample.disorder.substitutions]]
+        site = "A"
+        element = "Si"
+        concentration = 0.25
+        spring_factor = 1.2
+        """;
+
+    [Fact]
+    public void A_disorder_job_builds_the_substitution_and_its_concentration_is_sweepable()
+    {
+        var plan = Some.Load(_dir, FccJob(Disorder, """
+            [[sweep.axes]]
+            path = "sample.disorder.substitutions[0].concentration"
+            values = [0.0, 0.5, 1.0]
+            """));
+        Assert.Equal(3, plan.Points.Length);
+        var sample = Assert.IsType<RealSpaceSample>(PointBinder.Bind(plan, plan.Points[1]).Sample);
+        var d = sample.Disorder!;
+        Assert.Equal((4, 7L), (d.Configurations, d.Seed));
+        var sub = Assert.Single(d.Substitutions);
+        Assert.Equal(("A", 0.5, 1.2), (sub.SiteLabel, sub.Concentration, sub.SpringFactor));
+        Assert.Equal(28.085, sub.MassAmu, 2); // silicon's standard atomic weight
+        Assert.Equal((Boundary.Periodic, Boundary.Periodic, Boundary.Periodic), (sample.B1, sample.B2, sample.B3));
+    }
+
+    [Fact]
+    public void A_concentration_outside_zero_to_one_and_an_unknown_site_are_refused_at_their_lines()
+    {
+        var text = FccJob(Disorder.Replace("concentration = 0.25", "concentration = 1.5", StringComparison.Ordinal));
+        var p = Single(text, "sample.disorder.substitutions[0].concentration");
+        Assert.Equal(Some.LineOf(text, "concentration = 1.5"), p.Line);
+        Assert.Contains("[0, 1]", p.Message, StringComparison.Ordinal);
+
+        var unknown = FccJob(Disorder.Replace("site = \"A\"", "site = \"B\"", StringComparison.Ordinal));
+        var q = Single(unknown, "sample.disorder.substitutions[0].site");
+        Assert.Equal(Some.LineOf(unknown, "site = \"B\""), q.Line);
+        Assert.Contains("no site is labelled 'B'", q.Message, StringComparison.Ordinal);
+    }
+
     [Fact]
     public void Check_exits_2_naming_file_line_and_key()
     {
