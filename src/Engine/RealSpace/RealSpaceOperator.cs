@@ -146,6 +146,47 @@ internal sealed class RealSpaceOperator
         Spectrum.DynamicalMatrix.MakeHermitian(d, n);
     }
 
+    /// <summary>
+    /// y = (dD/dk) x at a Cartesian q of the Bloch directions, for a derivative whose phase factor per
+    /// coupling type is i <paramref name="phaseDerivative"/>[type] (the change of q.d per unit k along
+    /// the chosen direction): the velocity operator of the confined modes, applied without forming it.
+    /// </summary>
+    public void ApplyDerivative(Vec3 qPerM, ReadOnlySpan<double> phaseDerivative, ReadOnlySpan<Complex> x, Span<Complex> y)
+    {
+        var c = Lattice.Components;
+        var cc = c * c;
+        var m = Properties.MassKg;
+        var g = Properties.SpringScale;
+        var factors = new Complex[Lattice.Types.Length];
+        for (var t = 0; t < factors.Length; t++)
+        {
+            var (sin, cos) = Math.SinCos(Lattice.Types[t].SeparationM.Dot(qPerM));
+            factors[t] = new Complex(cos, sin) * new Complex(0, phaseDerivative[t]);
+        }
+
+        y[..Size].Clear();
+        for (var s = 0; s < Lattice.Sites; s++)
+        {
+            for (var k = Lattice.RowStart[s]; k < Lattice.RowStart[s + 1]; k++)
+            {
+                var j = Lattice.Neighbour[k];
+                var type = Lattice.CouplingType[k];
+                var factor = factors[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]));
+                var t = type * cc;
+                for (var a = 0; a < c; a++)
+                {
+                    var sum = Complex.Zero;
+                    for (var b = 0; b < c; b++)
+                    {
+                        sum += _typeTensor[t + (a * c) + b] * x[(j * c) + b];
+                    }
+
+                    y[(s * c) + a] += factor * sum;
+                }
+            }
+        }
+    }
+
     /// <summary>y = D x without forming D: 8 bytes of index per spring, the tensors from a table per type.</summary>
     public void Apply(ReadOnlySpan<double> x, Span<double> y)
     {

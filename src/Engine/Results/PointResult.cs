@@ -23,4 +23,7 @@ public sealed record PointResult(
 
     /// <summary>For a disordered sample: the same sample ordered as its virtual crystal (mean masses and springs), so the effect of disorder is one difference.</summary>
     public PointResult? Ordered { get; init; }
+
+    /// <summary>Films and wires with conductivity asked for: kappa from their own confined modes along the periodic directions.</summary>
+    public ConfinedConductivityResult? ConfinedConductivity { get; init; }
 }

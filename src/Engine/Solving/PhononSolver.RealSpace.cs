@@ -38,6 +38,8 @@ public static partial class PhononSolver
         {
             var run = SolveBlock(lattice, SiteProperties.Ordered(lattice), sample, temperatures, options, record: false, configuration: 0, ct);
             result = AssembleRealSpace(model, crystal, sample, options, temperatures, run, speeds, dispersion, periodic, periodicCv);
+            var confined = Transport.ConfinedConductivityCalculator.ComputeIfAsked(model, crystal, lattice, SiteProperties.Ordered(lattice), periodic, options, ct);
+            result = result with { ConfinedConductivity = result.Summary.Stable ? confined : null };
         }
         else
         {

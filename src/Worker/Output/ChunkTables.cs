@@ -69,11 +69,12 @@ internal static class ChunkTables
         var kappa = o.Result.Conductivity?.ByTemperature ?? [];
         var periodic = o.Result.Surface?.PeriodicCvJPerMolK ?? [];
         var ordered = o.Result.Ordered?.Thermal ?? [];
+        var confined = o.Result.ConfinedConductivity?.ByTemperature ?? [];
         for (var i = 0; i < thermal.Length; i++)
         {
             var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
             var errors = o.Result.Errors?.Thermal is { } e && i < e.Length ? e[i] : null;
-            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors, OrderedCvJPerMolK = i < ordered.Length ? ordered[i].HeatCapacityJPerMolK : null });
+            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors, OrderedCvJPerMolK = i < ordered.Length ? ordered[i].HeatCapacityJPerMolK : null, Confined = i < confined.Length ? confined[i] : null });
         }
     }
 

@@ -25,6 +25,9 @@ internal sealed record ThermalValue(ThermalRow Thermal, ConductivityRow? Conduct
 
     /// <summary>Cv of the ordered virtual crystal at this temperature (disordered samples).</summary>
     public double? OrderedCvJPerMolK { get; init; }
+
+    /// <summary>Conductivity from the confined modes of a film or wire at this temperature.</summary>
+    public ConductivityRow? Confined { get; init; }
 }
 
 /// <summary>One value of a layer's density of states.</summary>
@@ -281,6 +284,10 @@ internal sealed class ResultSchemas
             C<PointOutcome>("kpm_resolution_thz", ColumnType.Double, "THz", "its frequency resolution near zero, sqrt(pi a / moments)", o => F(o)?.KpmResolutionThz),
             .. ErrorColumns(),
             .. OrderedColumns(),
+            C<PointOutcome>("kappa_confined_w_per_m_k", ColumnType.Double, "W/(m K)", "films and wires: conductivity from their own confined modes at the reference temperature, mean over the periodic directions (same scattering channels as kappa_w_per_m_k, which uses the periodic crystal's modes)", o => V(o.Result?.ConfinedConductivity?.AtReference.KappaWPerMK)),
+            C<PointOutcome>("kappa_confined_1_w_per_m_k", ColumnType.Double, "W/(m K)", "along the first periodic lattice direction", o => V(o.Result?.ConfinedConductivity?.AtReference.KappaXxWPerMK)),
+            C<PointOutcome>("kappa_confined_2_w_per_m_k", ColumnType.Double, "W/(m K)", "along the second in-plane direction, orthogonal to the first (films)", o => V(o.Result?.ConfinedConductivity?.AtReference.KappaYyWPerMK)),
+            C<PointOutcome>("kappa_confined_directions", ColumnType.Text, "", "the directions: along a3 (a wire) or in the a1-a2 plane (a film)", o => o.Result?.ConfinedConductivity?.Directions),
         ];
     }
 
@@ -389,6 +396,7 @@ internal sealed class ResultSchemas
             C<RowOf<ThermalValue>>("entropy_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of entropy_j_per_mol_k", r => V(r.Item.StandardErrors?.EntropyJPerMolK)),
             C<RowOf<ThermalValue>>("cv_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of cv_j_per_mol_k", r => V(r.Item.StandardErrors?.HeatCapacityJPerMolK)),
             C<RowOf<ThermalValue>>("ordered_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "Cv of the ordered virtual crystal (disordered samples)", r => V(r.Item.OrderedCvJPerMolK)),
+            C<RowOf<ThermalValue>>("kappa_confined_w_per_m_k", ColumnType.Double, w, "films and wires: kappa from the confined modes, mean over the periodic directions", r => V(r.Item.Confined?.KappaWPerMK)),
         ];
     }
 }
