@@ -10,7 +10,8 @@ namespace LatticeSweep.Worker.Commands;
 /// <summary>
 /// <c>latsweep solve FILE</c>: solves one model at once (the first point of the sweep, which is the
 /// unswept model when there are no axes) and prints its summary as a table with units.
-/// Exit codes: 0 solved, 2 bad input, 3 the model cannot be solved (with the reason).
+/// Exit codes: 0 solved, 2 bad input, 3 the model cannot be solved (with the reason), 4 the model
+/// is unstable (its worst wave vector and most negative frequency are printed, no thermal numbers).
 /// </summary>
 public static class SolveCommand
 {
@@ -49,6 +50,13 @@ public static class SolveCommand
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
         SummaryTable(result.Summary).WriteTo(stdout);
+        if (!result.Summary.Stable)
+        {
+            stdout.WriteLine();
+            stdout.WriteLine($"The model is unstable ({Queue.Instability.Where(result.Summary)}): its thermal numbers, sound speeds, band gaps and Debye temperatures mean nothing and are not shown.");
+            return Cli.ExitCodes.SomeUnstable;
+        }
+
         return 0;
     }
 
@@ -70,7 +78,12 @@ public static class SolveCommand
         }
 
         t.Add("highest frequency", D(s.MaxFrequencyThz), "THz");
-        t.Add("lowest frequency", D(s.MinFrequencyThz), "THz");
+        t.Add(s.Stable ? "lowest frequency" : "most negative frequency (imaginary mode)", D(s.MinFrequencyThz), "THz");
+        if (!s.Stable)
+        {
+            return t;
+        }
+
         foreach (var gap in s.Gaps)
         {
             t.Add("band gap", $"{D(gap.LowerThz)} - {D(gap.UpperThz)}", "THz");
@@ -78,7 +91,7 @@ public static class SolveCommand
 
         foreach (var speed in s.SoundSpeeds)
         {
-            t.Add($"sound speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(D)), "m/s");
+            t.Add($"sound speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(v => D(v))), "m/s");
         }
 
         t.Add("reference temperature", D(s.ReferenceTemperatureK), "K");
@@ -92,7 +105,7 @@ public static class SolveCommand
         t.Add("Debye temperature, log moment", D(s.DebyeTemperatureMomentLogK), "K");
         t.Add("Debye temperature, moment 2", D(s.DebyeTemperatureMoment2K), "K");
         t.Add("molar mass (mean per atom)", D(s.MolarMassKgPerMol * 1000), "g/mol");
-        if (!double.IsNaN(s.KappaWPerMK) || !double.IsNaN(s.KappaMinWPerMK))
+        if (s.KappaWPerMK is not null || s.KappaMinWPerMK is not null)
         {
             t.Add("thermal conductivity (estimate)", D(s.KappaWPerMK), "W/(m K)");
             t.Add("minimum conductivity (Cahill-Pohl-Watson)", D(s.KappaMinWPerMK), "W/(m K)");
@@ -106,5 +119,5 @@ public static class SolveCommand
 
     private static string I(long v) => v.ToString(CultureInfo.InvariantCulture);
 
-    private static string D(double v) => double.IsNaN(v) ? "n/a" : v.ToString("G6", CultureInfo.InvariantCulture);
+    private static string D(double? v) => v is { } x && !double.IsNaN(x) ? x.ToString("G6", CultureInfo.InvariantCulture) : "n/a";
 }

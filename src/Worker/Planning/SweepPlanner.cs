@@ -138,7 +138,8 @@ internal static class SweepPlanner
                 continue;
             }
 
-            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options), parameters);
+            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options),
+                parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value)));
             if (!seen.Add(id))
             {
                 duplicates++;
@@ -301,7 +302,7 @@ internal static class SweepPlanner
     }
 
     private static PlanAxis Axis(SweepField field, IReadOnlyList<object> values, RangeSource? interval) =>
-        new(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [.. values], interval);
+        new(field.Path, SweptColumnNames.Of(field.ColumnName), field.Unit, field.ValueType, field, [.. values], interval);
 
     private static CandidateBlock? ResolveCandidates(CandidatesDeclaration decl, CandidateTable table, FieldCatalog catalog, ProblemCollector problems)
     {
@@ -324,7 +325,7 @@ internal static class SweepPlanner
                 continue;
             }
 
-            columns.Add((index, new PlanAxis(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [], null)));
+            columns.Add((index, new PlanAxis(field.Path, SweptColumnNames.Of(field.ColumnName), field.Unit, field.ValueType, field, [], null)));
         }
 
         foreach (var keep in decl.Keep)
@@ -336,7 +337,7 @@ internal static class SweepPlanner
                 continue;
             }
 
-            columns.Add((index, new PlanAxis($"candidates.{keep}", ColumnNames.Snake(keep), "", AxisValueType.Text, null, [], null)));
+            columns.Add((index, new PlanAxis($"candidates.{keep}", SweptColumnNames.Of(ColumnNames.Snake(keep)), "", AxisValueType.Text, null, [], null)));
         }
 
         if (problems.Count > before)
