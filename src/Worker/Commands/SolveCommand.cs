@@ -35,7 +35,7 @@ public static class SolveCommand
         try
         {
             var request = PointBinder.Bind(plan, point);
-            result = PhononSolver.Solve(request.Model, request.Sample, request.Options);
+            result = PhononSolver.Solve(request.Model, request.Sample, request.Options) with { ElasticFit = request.ElasticFit };
         }
         catch (ModelException e)
         {
@@ -49,7 +49,7 @@ public static class SolveCommand
             ? $"Point  {point.PointId}, the first of {plan.Points.Length} ({Parameters(point)})"
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
-        SummaryTable(result.Summary).WriteTo(stdout);
+        SummaryTable(result.Summary, result.ElasticFit).WriteTo(stdout);
         if (!result.Summary.Stable)
         {
             stdout.WriteLine();
@@ -60,7 +60,7 @@ public static class SolveCommand
         return 0;
     }
 
-    internal static TextTable SummaryTable(PointSummary s)
+    internal static TextTable SummaryTable(PointSummary s, Engine.Elastic.ElasticFitResult? fit = null)
     {
         var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
         t.Add("dimension", I(s.Dimension), "");
@@ -71,6 +71,23 @@ public static class SolveCommand
         t.Add("wave vectors solved", I(s.QPointsSolved), "");
         t.Add("modes", I(s.ModeCount), "");
         t.Add("rigid modes excluded", I(s.RigidModesExcluded), "");
+        t.Add("zero modes excluded (all)", I(Output.ZeroModes.Total(s)), "");
+        if (Output.ZeroModes.Floppy(s))
+        {
+            t.Add("floppy", $"YES: {I(s.ZeroModesExcluded)} zero modes beyond the rigid ones", "");
+        }
+
+        if (fit is not null)
+        {
+            t.Add("elastic fit residual (relative)", D(fit.RelativeResidual), "");
+            t.Add("C11, C12, C44 given", $"{D(fit.Given.C11Gpa)}, {D(fit.Given.C12Gpa)}, {D(fit.Given.C44Gpa)}", "GPa");
+            t.Add("C11, C12, C44 of the springs", $"{D(fit.Reproduced.C11Gpa)}, {D(fit.Reproduced.C12Gpa)}, {D(fit.Reproduced.C44Gpa)}", "GPa");
+            foreach (var speed in fit.SoundSpeeds)
+            {
+                t.Add($"Christoffel speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(v => D(v))), "m/s");
+            }
+        }
+
         t.Add("stable", s.Stable ? "yes" : "NO", "");
         if (s.WorstQReduced is { } q)
         {

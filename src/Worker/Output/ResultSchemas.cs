@@ -184,6 +184,8 @@ internal sealed class ResultSchemas
     private static IEnumerable<TableColumn<PointOutcome>> SummaryColumns()
     {
         static PointSummary? S(PointOutcome o) => o.Result?.Summary;
+        static double[]? Christoffel(PointOutcome o) =>
+            o.Result?.ElasticFit is { } f ? [.. f.SoundSpeeds.SelectMany(x => x.SpeedsMPerS)] : null;
         static BandGap? Largest(PointOutcome o) =>
             S(o) is { Gaps.Length: > 0 } s ? s.Gaps.MaxBy(g => g.WidthThz) : null;
         static BandGap? Lowest(PointOutcome o) =>
@@ -205,6 +207,8 @@ internal sealed class ResultSchemas
             C<PointOutcome>("q_points_solved", ColumnType.Int64, "", "wave vectors diagonalised", o => S(o)?.QPointsSolved),
             C<PointOutcome>("mode_count", ColumnType.Int64, "", "modes in the calculation", o => S(o)?.ModeCount),
             C<PointOutcome>("rigid_modes_excluded", ColumnType.Int32, "", "zero-frequency translations left out of thermal sums", o => S(o)?.RigidModesExcluded),
+            C<PointOutcome>("zero_modes_excluded", ColumnType.Int64, "", "every zero-frequency mode left out of thermal sums: the rigid translations and any other", o => S(o) is { } s ? ZeroModes.Total(s) : null),
+            C<PointOutcome>("floppy", ColumnType.Bool, "", "more zero modes than rigid translations: some motion meets no spring at some wave vectors (its modes carry no heat)", o => S(o) is { } s ? ZeroModes.Floppy(s) : null),
             C<PointOutcome>("max_freq_thz", ColumnType.Double, "THz", "highest frequency", o => S(o)?.MaxFrequencyThz),
             C<PointOutcome>("min_freq_thz", ColumnType.Double, "THz", "lowest frequency (negative for an unstable model)", o => S(o)?.MinFrequencyThz),
             C<PointOutcome>("stable", ColumnType.Bool, "", "no negative eigenvalue beyond round-off", o => S(o)?.Stable),
@@ -236,6 +240,13 @@ internal sealed class ResultSchemas
             C<PointOutcome>("debye_temperature_moment_2_k", ColumnType.Double, "K", "Debye temperature from the n = 2 frequency moment", o => S(o)?.DebyeTemperatureMoment2K),
             C<PointOutcome>("molar_mass_kg_per_mol", ColumnType.Double, "kg/mol", "mean molar mass of the atoms", o => S(o)?.MolarMassKgPerMol),
             C<PointOutcome>("dos_method", ColumnType.Text, "", "how the density of states was integrated", o => o.Result?.Dos.Method),
+            C<PointOutcome>("elastic_fit_relative_residual", ColumnType.Double, "1", "springs fitted to elastic constants: |C_model - C_given| / |C_given| over C11, C12, C44 (empty for other models)", o => o.Result?.ElasticFit?.RelativeResidual),
+            C<PointOutcome>("elastic_c11_fitted_gpa", ColumnType.Double, "GPa", "C11 the fitted springs reproduce", o => o.Result?.ElasticFit?.Reproduced.C11Gpa),
+            C<PointOutcome>("elastic_c12_fitted_gpa", ColumnType.Double, "GPa", "C12 the fitted springs reproduce (central springs give C12 = C44)", o => o.Result?.ElasticFit?.Reproduced.C12Gpa),
+            C<PointOutcome>("elastic_c44_fitted_gpa", ColumnType.Double, "GPa", "C44 the fitted springs reproduce", o => o.Result?.ElasticFit?.Reproduced.C44Gpa),
+            C<PointOutcome>("christoffel_speed_min_m_per_s", ColumnType.Double, "m/s", "slowest Christoffel sound speed of the fitted constants over [100], [110], [111]", o => Christoffel(o)?.Min()),
+            C<PointOutcome>("christoffel_speed_mean_m_per_s", ColumnType.Double, "m/s", "mean Christoffel sound speed over those directions and branches", o => Christoffel(o)?.Average()),
+            C<PointOutcome>("christoffel_speed_max_m_per_s", ColumnType.Double, "m/s", "fastest Christoffel sound speed over those directions", o => Christoffel(o)?.Max()),
             .. ConductivitySummaryColumns(),
         ];
     }
