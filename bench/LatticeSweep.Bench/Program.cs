@@ -42,6 +42,9 @@ switch (caseName)
         Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core (512-bit FMA)");
         report["sizes"] = EigenCase.Run(cases, outDir, repeats);
         break;
+    case "cost":
+        report["cost"] = CostCase.Run(repeats);
+        break;
     case "bulk":
     {
         var (result, time) = SolveCase.Run(cases, "bulk", finite: false, warmups: 1, repeats);

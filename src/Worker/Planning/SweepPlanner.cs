@@ -98,6 +98,7 @@ internal static class SweepPlanner
             DuplicatePointsCollapsed = duplicates,
             Combine = CombineNames[sweep.Combine],
             CandidatesFile = candidateTable?.File,
+            WarnPointTimeS = sweep.WarnPointTimeS,
         };
     }
 
