@@ -13,7 +13,7 @@ public sealed class ZeroModesAndElasticFitTests : IDisposable
     public void Dispose() => _dir.Dispose();
 
     /// <summary>Simple cubic, nearest-neighbour central springs only (invented numbers), 5 x 5 x 5 cells.</summary>
-    private const string CentralCubic = """
+    internal const string CentralCubic = """
         [sweep]
         name = "central-cubic"
 

@@ -111,24 +111,7 @@ public sealed class CheckForecastTests : IDisposable
     [Fact]
     public void A_floppy_model_is_named_by_check()
     {
-        var (code, output, _) = Check("""
-            [model]
-            lattice = "simple_cubic"
-            constant_nm = 0.3
-
-            [[model.sites]]
-            label = "A"
-            mass_amu = 40.0
-
-            [[model.springs]]
-            from = "A"
-            to = "A"
-            longitudinal_n_per_m = 20.0
-
-            [sample]
-            kind = "finite"
-            cells = 5
-            """);
+        var (code, output, _) = Check(Cli.ZeroModesAndElasticFitTests.CentralCubic);
 
         Assert.Equal(0, code);
         Assert.Contains("floppy       1 point(s) have modes of zero frequency away from q = 0", output, StringComparison.Ordinal);
