@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.Elastic;
 using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Engine.Results;
@@ -26,4 +27,11 @@ public sealed record PointResult(
 
     /// <summary>Films and wires with conductivity asked for: kappa from their own confined modes along the periodic directions.</summary>
     public ConfinedConductivityResult? ConfinedConductivity { get; init; }
+
+    /// <summary>
+    /// When the model's springs were fitted to elastic constants: the fit (its relative residual, the
+    /// constants the springs reproduce and their Christoffel sound speeds). Set by whoever built the
+    /// model from the fit (the solver sees only the model).
+    /// </summary>
+    public ElasticFitResult? ElasticFit { get; init; }
 }

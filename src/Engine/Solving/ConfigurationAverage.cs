@@ -15,15 +15,24 @@ internal static class ConfigurationAverage
     public static PointResult Of(IReadOnlyList<PointResult> results, int dimension, double classicalCvPerMol)
     {
         ArgumentOutOfRangeException.ThrowIfZero(results.Count);
+
+        // One unstable configuration makes the disordered sample unstable: it is reported as it is.
+        if (results.FirstOrDefault(r => !r.Summary.Stable) is { } unstable)
+        {
+            return unstable;
+        }
+
         var first = results[0];
         var n = results.Count;
         double Mean(Func<PointResult, double> get) => results.Average(get);
+        double? MeanN(Func<PointResult, double?> get) => results.All(r => get(r) is not null) ? results.Average(r => get(r)!.Value) : null;
+        double ErrorN(Func<PointResult, double?> get) => results.All(r => get(r) is not null) ? KpmErrors.StandardError([.. results.Select(r => get(r)!.Value)]) : double.NaN;
         double? MeanOf(Func<PointResult, double?> get) => results.All(r => get(r) is not null) ? results.Average(r => get(r)!.Value) : null;
         double Error(Func<PointResult, double> get) => KpmErrors.StandardError([.. results.Select(get)]);
         double? ErrorOf(Func<PointResult, double?> get) => results.All(r => get(r) is not null) ? Finite(KpmErrors.StandardError([.. results.Select(r => get(r)!.Value)])) : null;
 
         var s = first.Summary;
-        var stable = results.All(r => r.Summary.Stable);
+        const bool stable = true;
         var thermal = ImmutableArray.CreateBuilder<ThermalRow>(first.Thermal.Length);
         var thermalErrors = ImmutableArray.CreateBuilder<ThermalRow>(first.Thermal.Length);
         for (var t = 0; t < first.Thermal.Length; t++)
@@ -37,14 +46,14 @@ internal static class ConfigurationAverage
                 Mean(r => r.Thermal[k].FreeEnergyJPerMol),
                 Mean(r => r.Thermal[k].EntropyJPerMolK),
                 cv,
-                stable ? DebyeModel.TemperatureFromHeatCapacity(temperature, cv / classicalCvPerMol, dimension) : double.NaN));
+                Defined(DebyeModel.TemperatureFromHeatCapacity(temperature, cv / classicalCvPerMol, dimension))));
             thermalErrors.Add(new ThermalRow(
                 temperature,
                 Error(r => r.Thermal[k].InternalEnergyJPerMol),
                 Error(r => r.Thermal[k].FreeEnergyJPerMol),
                 Error(r => r.Thermal[k].EntropyJPerMolK),
                 Error(r => r.Thermal[k].HeatCapacityJPerMolK),
-                Error(r => r.Thermal[k].DebyeTemperatureK)));
+                Defined(ErrorN(r => r.Thermal[k].DebyeTemperatureK))));
         }
 
         var summary = s with
@@ -55,19 +64,19 @@ internal static class ConfigurationAverage
             MaxFrequencyThz = Mean(r => r.Summary.MaxFrequencyThz),
             MinFrequencyThz = results.Min(r => r.Summary.MinFrequencyThz),
             Stable = stable,
-            WorstQReduced = stable ? null : results.First(r => !r.Summary.Stable).Summary.WorstQReduced,
+            WorstQReduced = null,
             Gaps = CommonGaps(results),
-            HeatCapacityJPerMolK = Mean(r => r.Summary.HeatCapacityJPerMolK),
-            EntropyJPerMolK = Mean(r => r.Summary.EntropyJPerMolK),
-            FreeEnergyJPerMol = Mean(r => r.Summary.FreeEnergyJPerMol),
-            InternalEnergyJPerMol = Mean(r => r.Summary.InternalEnergyJPerMol),
-            ZeroPointEnergyJPerMol = Mean(r => r.Summary.ZeroPointEnergyJPerMol),
-            DebyeTemperatureFromCvK = stable
-                ? DebyeModel.TemperatureFromHeatCapacity(s.ReferenceTemperatureK, Mean(r => r.Summary.HeatCapacityJPerMolK) / classicalCvPerMol, dimension)
-                : double.NaN,
-            DebyeTemperatureMomentMinus2K = Mean(r => r.Summary.DebyeTemperatureMomentMinus2K),
-            DebyeTemperatureMomentLogK = Mean(r => r.Summary.DebyeTemperatureMomentLogK),
-            DebyeTemperatureMoment2K = Mean(r => r.Summary.DebyeTemperatureMoment2K),
+            HeatCapacityJPerMolK = MeanN(r => r.Summary.HeatCapacityJPerMolK),
+            EntropyJPerMolK = MeanN(r => r.Summary.EntropyJPerMolK),
+            FreeEnergyJPerMol = MeanN(r => r.Summary.FreeEnergyJPerMol),
+            InternalEnergyJPerMol = MeanN(r => r.Summary.InternalEnergyJPerMol),
+            ZeroPointEnergyJPerMol = MeanN(r => r.Summary.ZeroPointEnergyJPerMol),
+            DebyeTemperatureFromCvK = MeanN(r => r.Summary.HeatCapacityJPerMolK) is { } cvReference
+                ? Defined(DebyeModel.TemperatureFromHeatCapacity(s.ReferenceTemperatureK, cvReference / classicalCvPerMol, dimension))
+                : null,
+            DebyeTemperatureMomentMinus2K = MeanN(r => r.Summary.DebyeTemperatureMomentMinus2K),
+            DebyeTemperatureMomentLogK = MeanN(r => r.Summary.DebyeTemperatureMomentLogK),
+            DebyeTemperatureMoment2K = MeanN(r => r.Summary.DebyeTemperatureMoment2K),
             MolarMassKgPerMol = Mean(r => r.Summary.MolarMassKgPerMol),
         };
 
@@ -85,13 +94,14 @@ internal static class ConfigurationAverage
 
         var displacements = first.Displacements.Select((d, i) => d with
         {
-            MsdXNm2 = Mean(r => r.Displacements[i].MsdXNm2),
-            MsdYNm2 = Mean(r => r.Displacements[i].MsdYNm2),
-            MsdZNm2 = Mean(r => r.Displacements[i].MsdZNm2),
+            MsdXNm2 = MeanN(r => r.Displacements[i].MsdXNm2),
+            MsdYNm2 = MeanN(r => r.Displacements[i].MsdYNm2),
+            MsdZNm2 = MeanN(r => r.Displacements[i].MsdZNm2),
         }).ToImmutableArray();
 
         var f = first.Surface!;
         double? Ratio(PointResult r) => r.Surface?.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 ? r.Summary.HeatCapacityJPerMolK / p : null;
+        static double? Defined(double x) => double.IsNaN(x) ? null : x;
         var surface = f with
         {
             RotationDefectThz = MeanOf(r => r.Surface!.RotationDefectThz),
@@ -113,11 +123,11 @@ internal static class ConfigurationAverage
             Source = "configurations",
             Samples = n,
             Thermal = thermalErrors.MoveToImmutable(),
-            HeatCapacityJPerMolK = Finite(Error(r => r.Summary.HeatCapacityJPerMolK)),
-            EntropyJPerMolK = Finite(Error(r => r.Summary.EntropyJPerMolK)),
-            FreeEnergyJPerMol = Finite(Error(r => r.Summary.FreeEnergyJPerMol)),
-            InternalEnergyJPerMol = Finite(Error(r => r.Summary.InternalEnergyJPerMol)),
-            ZeroPointEnergyJPerMol = Finite(Error(r => r.Summary.ZeroPointEnergyJPerMol)),
+            HeatCapacityJPerMolK = Finite(ErrorN(r => r.Summary.HeatCapacityJPerMolK)),
+            EntropyJPerMolK = Finite(ErrorN(r => r.Summary.EntropyJPerMolK)),
+            FreeEnergyJPerMol = Finite(ErrorN(r => r.Summary.FreeEnergyJPerMol)),
+            InternalEnergyJPerMol = Finite(ErrorN(r => r.Summary.InternalEnergyJPerMol)),
+            ZeroPointEnergyJPerMol = Finite(ErrorN(r => r.Summary.ZeroPointEnergyJPerMol)),
             MaxFrequencyThz = Finite(Error(r => r.Summary.MaxFrequencyThz)),
             ConfinementGapThz = ErrorOf(r => r.Surface!.ConfinementGapThz),
             SurfaceModeFraction = ErrorOf(r => r.Surface!.SurfaceModeFraction),

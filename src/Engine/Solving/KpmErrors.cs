@@ -110,7 +110,7 @@ internal static class KpmErrors
         var thermal = ImmutableArray.CreateBuilder<ThermalRow>(reportedTemperatures);
         for (var ti = 0; ti < reportedTemperatures; ti++)
         {
-            thermal.Add(new ThermalRow(temperatures[ti], Error(u, ti, t, r), Error(f, ti, t, r), Error(s2, ti, t, r), Error(cv, ti, t, r), double.NaN));
+            thermal.Add(new ThermalRow(temperatures[ti], Error(u, ti, t, r), Error(f, ti, t, r), Error(s2, ti, t, r), Error(cv, ti, t, r), null));
         }
 
         var perCell = (double)lattice.Crystal.Sites / lattice.AtomCount;

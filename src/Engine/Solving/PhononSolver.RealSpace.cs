@@ -248,8 +248,12 @@ public static partial class PhononSolver
             Conductivity = null,
         };
         var result = SolveCore(model, periodic, plain, ct);
-        return [.. result.Thermal.Select(r => double.IsFinite(r.HeatCapacityJPerMolK) ? r.HeatCapacityJPerMolK : (double?)null),
-            double.IsFinite(result.Summary.HeatCapacityJPerMolK) ? result.Summary.HeatCapacityJPerMolK : null];
+        if (result.Thermal.Length != options.TemperaturesK.Length)
+        {
+            return new double?[options.TemperaturesK.Length + 1]; // an unstable crystal has no heat capacity
+        }
+
+        return [.. result.Thermal.Select(r => (double?)r.HeatCapacityJPerMolK), result.Summary.HeatCapacityJPerMolK];
     }
 
     /// <summary>A run's densities on one grid: total and per basis site in states per THz-bin per cell-equivalent, per layer per atom.</summary>
@@ -337,7 +341,8 @@ public static partial class PhononSolver
         var modeList = run.SortedThz.Length > 0 && run.SortedThz.Length <= options.ModeListMaxModes
             ? ModeLevels.Distinct(run.SortedThz, run.SortedThz.Length, 0)
             : [];
-        var zeroModes = run.Modes is { } modes ? (long)Math.Round(modes.ZeroModes) : run.RigidModes;
+        // Zero modes beyond the rigid-body ones (a floppy model): the kernel polynomial method cannot count them.
+        var zeroModes = run.Modes is { } modes ? Math.Max(0, (long)Math.Round(modes.ZeroModes) - run.RigidModes) : 0;
         var outcome = new SpectrumOutcome
         {
             SampleKind = "finite",
@@ -429,7 +434,7 @@ public static partial class PhononSolver
         {
             for (var site = 0; site < model.Sites.Length; site++)
             {
-                double Get(int axis) => !stable || axis >= c ? double.NaN : (Msd(run, options, t, (site * c) + axis) ?? double.NaN) * 1e18;
+                double? Get(int axis) => !stable || axis >= c ? null : Msd(run, options, t, (site * c) + axis) * 1e18;
                 rows.Add(new DisplacementRow(temperatures[t], site, model.Sites[site].Label, Get(0), Get(1), Get(2)));
             }
         }

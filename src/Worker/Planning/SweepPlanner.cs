@@ -100,6 +100,7 @@ internal static class SweepPlanner
             DuplicatePointsCollapsed = duplicates,
             Combine = CombineNames[sweep.Combine],
             CandidatesFile = candidateTable?.File,
+            WarnPointTimeS = sweep.WarnPointTimeS,
         };
     }
 
@@ -140,7 +141,8 @@ internal static class SweepPlanner
                 continue;
             }
 
-            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options), parameters);
+            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options),
+                parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value)));
             if (!seen.Add(id))
             {
                 duplicates++;
@@ -303,7 +305,7 @@ internal static class SweepPlanner
     }
 
     private static PlanAxis Axis(SweepField field, IReadOnlyList<object> values, RangeSource? interval) =>
-        new(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [.. values], interval);
+        new(field.Path, SweptColumnNames.Of(field.ColumnName), field.Unit, field.ValueType, field, [.. values], interval);
 
     private static CandidateBlock? ResolveCandidates(CandidatesDeclaration decl, CandidateTable table, FieldCatalog catalog, ProblemCollector problems)
     {
@@ -326,7 +328,7 @@ internal static class SweepPlanner
                 continue;
             }
 
-            columns.Add((index, new PlanAxis(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [], null)));
+            columns.Add((index, new PlanAxis(field.Path, SweptColumnNames.Of(field.ColumnName), field.Unit, field.ValueType, field, [], null)));
         }
 
         foreach (var keep in decl.Keep)
@@ -338,7 +340,7 @@ internal static class SweepPlanner
                 continue;
             }
 
-            columns.Add((index, new PlanAxis($"candidates.{keep}", ColumnNames.Snake(keep), "", AxisValueType.Text, null, [], null)));
+            columns.Add((index, new PlanAxis($"candidates.{keep}", SweptColumnNames.Of(ColumnNames.Snake(keep)), "", AxisValueType.Text, null, [], null)));
         }
 
         if (problems.Count > before)
