@@ -179,18 +179,31 @@ public static partial class PhononSolver
     private static WorkEstimate EstimateRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options)
     {
         var crystal = CompiledCrystal.From(model);
-        var (blockSites, images) = BlockSize(crystal, sample, sample.Disorder is null);
+        var ordered = sample.Disorder is null;
+        var (blockSites, images) = BlockSize(crystal, sample, ordered);
+        var configurations = sample.Disorder?.Configurations ?? 1;
         var n = blockSites * crystal.Components;
         var complex = images > 1;
+        var kpm = sample.Method == RealSpaceMethod.KernelPolynomial || DenseTooLarge(blockSites, n, complex, sample, options) is not null;
+        if (kpm)
+        {
+            // Each of R vectors: moments / 2 products with the sparse operator (18 flops per spring and
+            // direction) plus the group sums and the projection; then the densities on 4096 + bins edges.
+            var atoms = (double)blockSites * images;
+            var springs = crystal.Couplings.Length / (double)Math.Max(1, crystal.Sites);
+            var perProduct = atoms * crystal.Components * ((springs * 6) + 40);
+            var vectors = sample.Kpm.RandomVectors * configurations;
+            var flops = vectors * (sample.Kpm.Moments / 2.0) * perProduct;
+            var bytes = (long)atoms * RealSpaceKpmSolver.BytesPerAtom((int)Math.Ceiling(springs));
+            return new WorkEstimate(0, (int)Math.Min(int.MaxValue, (long)atoms * crystal.Components), flops, bytes);
+        }
+
         var points = complex ? (images + 1) / 2 : 1;
         var order = complex && n > RealSpaceDenseSolver.SmallOrder ? 2.0 * n : n;
 
         // Blocked reduction, inverse iteration and back-transformation: about 10/3 order^3 with vectors.
         var perBlock = 10.0 / 3.0 * order * order * order;
-        var configurations = sample.Disorder?.Configurations ?? 1;
-        var flops = perBlock * points * configurations;
-        var bytes = RealSpaceDenseSolver.BytesFor(n, complex);
-        return new WorkEstimate(points * configurations, (int)Math.Min(int.MaxValue, n), flops, bytes);
+        return new WorkEstimate(points * configurations, (int)Math.Min(int.MaxValue, n), perBlock * points * configurations, RealSpaceDenseSolver.BytesFor(n, complex));
     }
 
     /// <summary>
