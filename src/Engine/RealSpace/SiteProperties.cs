@@ -53,6 +53,32 @@ internal sealed record SiteProperties(double[] MassKg, double[] SpringScale, int
     }
 
     /// <summary>
+    /// These per-basis values on another block of the same crystal (a Bloch block unfolded for the
+    /// kernel polynomial method). Only for properties that are the same on every site of a basis
+    /// label (the ordered crystal, a virtual crystal); a random configuration has no Bloch block.
+    /// </summary>
+    public SiteProperties OnBlock(RealSpaceLattice from, RealSpaceLattice to)
+    {
+        var basisMass = new double[to.Crystal.Sites];
+        var basisScale = new double[to.Crystal.Sites];
+        for (var s = 0; s < from.Sites; s++)
+        {
+            basisMass[from.BasisOf[s]] = MassKg[s];
+            basisScale[from.BasisOf[s]] = SpringScale[s];
+        }
+
+        var masses = new double[to.Sites];
+        var scale = new double[to.Sites];
+        for (var s = 0; s < to.Sites; s++)
+        {
+            masses[s] = basisMass[to.BasisOf[s]];
+            scale[s] = basisScale[to.BasisOf[s]];
+        }
+
+        return new SiteProperties(masses, scale, new int[to.Sites]);
+    }
+
+    /// <summary>
     /// Configuration <paramref name="index"/>: on each substituted basis site, round(c N) of its N
     /// block sites chosen uniformly (a partial Fisher-Yates shuffle), so c = 0 and c = 1 give the two
     /// ordered crystals exactly.

@@ -95,8 +95,11 @@ public static partial class PhononSolver
         {
             if (lattice.ImagesPerSite > 1)
             {
-                lattice = RealSpaceLattice.Build(lattice.Crystal, sample, bloch: false);
-                properties = SiteProperties.Ordered(lattice);
+                // The whole sample, wrapped where periodic; the block's masses and springs carried over
+                // (a virtual crystal keeps its mean masses, not the host's).
+                var unfolded = RealSpaceLattice.Build(lattice.Crystal, sample, bloch: false);
+                properties = properties.OnBlock(lattice, unfolded);
+                lattice = unfolded;
             }
 
             var bytes = KpmBytes(lattice.AtomCount, lattice.Neighbour.Length / Math.Max(1, lattice.Sites));
