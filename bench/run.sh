@@ -2,7 +2,8 @@
 # One command for the benchmarks: builds the engine's bench harness in Release, runs each case on our
 # side and on the NumPy peer with the same inputs (bench/cases.json), prints the ratios and checks that
 # both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue; default all;
-# "cost" calibrates the Worker's run-time estimate, ours alone, and is run only when named)
+# "cost" calibrates the Worker's run-time estimate, ours alone, and is run only when named, as are
+# surfaces-dense surfaces-kpm surfaces-kpm-denser surfaces-memory: free nanocrystals, ours alone)
 # Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
@@ -34,6 +35,11 @@ for c in "${cases[@]}"; do
       --latsweep "$root/src/Worker/bin/Release/net10.0/latsweep"
     continue
   fi
+  case "$c" in surfaces-*)
+    # Free nanocrystals (issue 11): ours alone, each part in its own process (its own peak memory).
+    "$bench" "$c" --out "$results"
+    continue ;;
+  esac
   if [ "$c" = cost ]; then
     "$bench" cost --cases "$here/cases.json" --out "$results" --repeats "$repeats"
     continue
