@@ -14,7 +14,10 @@ namespace LatticeSweep.Worker.Commands;
 /// </summary>
 public static class SolveCommand
 {
-    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr)
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr) => Run(jobFile, stdout, stderr, fullPrecision: false);
+
+    /// <summary>As above; <paramref name="fullPrecision"/> prints every number with all its digits (round-trip text).</summary>
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr, bool fullPrecision)
     {
         ArgumentNullException.ThrowIfNull(stdout);
         ArgumentNullException.ThrowIfNull(stderr);
@@ -48,12 +51,15 @@ public static class SolveCommand
             ? $"Point  {point.PointId}, the first of {plan.Points.Length} ({Parameters(point)})"
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
-        SummaryTable(result.Summary).WriteTo(stdout);
+        SummaryTable(result.Summary, fullPrecision).WriteTo(stdout);
         return 0;
     }
 
-    internal static TextTable SummaryTable(PointSummary s)
+    internal static TextTable SummaryTable(PointSummary s, bool fullPrecision = false)
     {
+        // 6 significant digits, or every digit (the shortest round-trip text) when asked.
+        string D(double? v) => v is not { } x || double.IsNaN(x) ? "n/a" : x.ToString(fullPrecision ? "R" : "G6", CultureInfo.InvariantCulture);
+
         var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
         t.Add("dimension", I(s.Dimension), "");
         t.Add("sites per cell", I(s.SitesPerCell), "");
@@ -78,7 +84,7 @@ public static class SolveCommand
 
         foreach (var speed in s.SoundSpeeds)
         {
-            t.Add($"sound speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(D)), "m/s");
+            t.Add($"sound speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(v => D(v))), "m/s");
         }
 
         t.Add("reference temperature", D(s.ReferenceTemperatureK), "K");
@@ -105,6 +111,4 @@ public static class SolveCommand
         string.Join(", ", point.Parameters.Select(p => $"{p.Key} = {Convert.ToString(p.Value, CultureInfo.InvariantCulture)}"));
 
     private static string I(long v) => v.ToString(CultureInfo.InvariantCulture);
-
-    private static string D(double v) => double.IsNaN(v) ? "n/a" : v.ToString("G6", CultureInfo.InvariantCulture);
 }
