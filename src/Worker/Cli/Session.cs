@@ -13,13 +13,16 @@ internal sealed class Session : IDisposable
         Store = store;
         Log = log;
         Progress = progress;
-        LogFile = logFile;
+        _logFile = logFile;
     }
 
     public QueueStore Store { get; }
     public Logger Log { get; }
     public ProgressDisplay Progress { get; }
-    public string? LogFile { get; }
+    private readonly string? _logFile;
+
+    /// <summary>The JSON log file, once something has been written to it (null before, and without one).</summary>
+    public string? LogFile => _logFile is not null && File.Exists(_logFile) ? _logFile : null;
     public ISweepCatalog Catalog => Store.Catalog;
 
     public static Session Open(CommandLine line, CliContext context)
@@ -35,6 +38,14 @@ internal sealed class Session : IDisposable
         }
 
         var options = new StoreOptions { ReclaimAfter = ReclaimAfter(line, context, location) };
+
+        // Only these create a store; the others would turn a mistyped --store into an empty new one.
+        var creates = line.Command is "run" or "submit" or "work";
+        if (!creates)
+        {
+            QueueStore.RequireExisting(location); // before the log, so nothing at all is created
+        }
+
         var progress = new ProgressDisplay(context.Stderr, context.StderrIsTerminal, context.Time);
         var log = LogSetup.Create(progress.WriteLine, location.LogFolder(context.CurrentDirectory), line.Command, context.Time, out var logFile);
 
