@@ -51,6 +51,11 @@ public static class CliApp
                 _ => throw new UsageException($"unknown command '{EchoText.Of(command)}' (commands: {string.Join(", ", CommandHelp.Commands)}; see latsweep --help)"),
             };
         }
+        catch (Exception ex) when (StoreFaults.IsDiskFull(ex, StoreOf(rest, context)))
+        {
+            // Before the generic store message: "cannot open the store: disk I/O error" says too little.
+            return BadInput(context, ex is StoreFullException ? ex.Message : StoreFaults.Describe(StoreOf(rest, context)));
+        }
         catch (UsageException ex)
         {
             return BadInput(context, ex.Message);
@@ -99,6 +104,32 @@ public static class CliApp
 
         context.Stdout.Write(Usage.Text);
         return ExitCodes.Ok;
+    }
+
+    /// <summary>The store a command line names (its --store, else the default), or null when it names none usable.</summary>
+    private static StoreLocation? StoreOf(IReadOnlyList<string> rest, CliContext context)
+    {
+        string? value = null;
+        for (var i = 0; i < rest.Count; i++)
+        {
+            if (rest[i] == "--store" && i + 1 < rest.Count)
+            {
+                value = rest[i + 1];
+            }
+            else if (rest[i].StartsWith("--store=", StringComparison.Ordinal))
+            {
+                value = rest[i]["--store=".Length..];
+            }
+        }
+
+        try
+        {
+            return StoreLocation.Parse(value, context.CurrentDirectory);
+        }
+        catch (ArgumentException)
+        {
+            return null;
+        }
     }
 
     private static int Solve(CommandLine line, CliContext context) =>

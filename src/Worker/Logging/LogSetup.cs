@@ -23,14 +23,33 @@ public static class LogSetup
     /// is where the file goes; it exists once something has been logged.
     /// </summary>
     public static Logger Create(Action<string> consoleLine, string? logFolder, string command, TimeProvider time, out string? logFile)
+        => Create(consoleLine, logFolder, command, time, null, out logFile);
+
+    /// <summary>
+    /// As above, with <paramref name="watch"/> hearing every event too (null: none). Events that report
+    /// the store's full disk stay off the console (the queue library repeats them with its exception
+    /// names); the command ends with one plain message instead, and the log file keeps them.
+    /// </summary>
+    internal static Logger Create(Action<string> consoleLine, string? logFolder, string command, TimeProvider time, StoreFaultWatch? watch, out string? logFile)
     {
         ArgumentNullException.ThrowIfNull(time);
+        var console = new ConsoleLineSink(new MessageTemplateTextFormatter(ConsoleTemplate, CultureInfo.InvariantCulture), consoleLine);
         var config = new LoggerConfiguration()
             .MinimumLevel.Debug()
             .MinimumLevel.Override("Hangfire", LogEventLevel.Warning)
             .Enrich.WithProperty("Command", command)
-            .Enrich.WithProperty("ProcessId", Environment.ProcessId)
-            .WriteTo.Sink(new ConsoleLineSink(new MessageTemplateTextFormatter(ConsoleTemplate, CultureInfo.InvariantCulture), consoleLine), LogEventLevel.Information);
+            .Enrich.WithProperty("ProcessId", Environment.ProcessId);
+        if (watch is null)
+        {
+            config = config.WriteTo.Sink(console, LogEventLevel.Information);
+        }
+        else
+        {
+            config = config
+                .WriteTo.Logger(c => c.Filter.ByExcluding(watch.IsStoreDiskFull).WriteTo.Sink(console), LogEventLevel.Information)
+                .WriteTo.Sink(watch, LogEventLevel.Verbose);
+        }
+
         logFile = null;
         if (logFolder is not null)
         {

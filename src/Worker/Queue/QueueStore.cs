@@ -232,7 +232,7 @@ public sealed class QueueStore : IDisposable
         Directory.CreateDirectory(folder);
 
         // The catalog first: it switches the file to WAL before the queue opens it.
-        var catalog = new SqliteSweepCatalog(location.Value, time);
+        var catalog = SimulatedFullStore.Wrap(new SqliteSweepCatalog(location.Value, time));
         try
         {
             var storage = new SQLiteStorage(location.Value, new SQLiteStorageOptions
