@@ -59,6 +59,7 @@ internal static class SweepCommands
         var runner = Runner(session, context, new JobFilePlanSource());
         var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
         var interrupted = false;
+        var storeFull = false;
         using (new WorkerPool(session.Store, runner, workers))
         {
             session.Log.Information("Working the queue of {Store} with {Workers} workers ({Mode})",
@@ -70,6 +71,12 @@ internal static class SweepCommands
                 if (context.Stop.IsCancellationRequested)
                 {
                     interrupted = true;
+                    break;
+                }
+
+                if (session.StoreDiskFull)
+                {
+                    storeFull = true;
                     break;
                 }
 
@@ -85,6 +92,12 @@ internal static class SweepCommands
 
                 context.Stop.WaitHandle.WaitOne(context.PollInterval);
             }
+        }
+
+        // Also when a chunk met the full disk while the pool was stopping (it waits for running chunks).
+        if (storeFull || session.StoreDiskFull)
+        {
+            throw session.DiskFullStop();
         }
 
         context.Stdout.WriteLine(interrupted
@@ -119,6 +132,7 @@ internal static class SweepCommands
         var runner = Runner(session, context, plans);
         var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
         var interrupted = false;
+        var storeFull = false;
         using (new WorkerPool(session.Store, runner, workers))
         {
             session.Log.Information("Working sweep {SweepId} with {Workers} workers", sweepId, workers);
@@ -140,11 +154,22 @@ internal static class SweepCommands
                     break;
                 }
 
+                if (session.StoreDiskFull)
+                {
+                    storeFull = true;
+                    break;
+                }
+
                 context.Stop.WaitHandle.WaitOne(context.PollInterval);
             }
         }
 
         session.Progress.Finish();
+        if (storeFull || session.StoreDiskFull)
+        {
+            throw session.DiskFullStop();
+        }
+
         var final = session.Catalog.FindSweep(sweepId)!;
         if (interrupted)
         {

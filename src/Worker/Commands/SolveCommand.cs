@@ -15,7 +15,10 @@ namespace LatticeSweep.Worker.Commands;
 /// </summary>
 public static class SolveCommand
 {
-    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr)
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr) => Run(jobFile, stdout, stderr, fullPrecision: false);
+
+    /// <summary>As above; <paramref name="fullPrecision"/> prints every number with all its digits (round-trip text).</summary>
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr, bool fullPrecision)
     {
         ArgumentNullException.ThrowIfNull(stdout);
         ArgumentNullException.ThrowIfNull(stderr);
@@ -49,7 +52,7 @@ public static class SolveCommand
             ? $"Point  {point.PointId}, the first of {plan.Points.Length} ({Parameters(point)})"
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
-        SummaryTable(result.Summary, result.ElasticFit).WriteTo(stdout);
+        SummaryTable(result.Summary, result.ElasticFit, fullPrecision).WriteTo(stdout);
         if (!result.Summary.Stable)
         {
             stdout.WriteLine();
@@ -60,8 +63,11 @@ public static class SolveCommand
         return 0;
     }
 
-    internal static TextTable SummaryTable(PointSummary s, Engine.Elastic.ElasticFitResult? fit = null)
+    internal static TextTable SummaryTable(PointSummary s, Engine.Elastic.ElasticFitResult? fit = null, bool fullPrecision = false)
     {
+        // 6 significant digits, or every digit (the shortest round-trip text) when asked.
+        string D(double? v) => v is not { } x || double.IsNaN(x) ? "n/a" : x.ToString(fullPrecision ? "R" : "G6", CultureInfo.InvariantCulture);
+
         var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
         t.Add("dimension", I(s.Dimension), "");
         t.Add("sites per cell", I(s.SitesPerCell), "");
@@ -135,6 +141,4 @@ public static class SolveCommand
         string.Join(", ", point.Parameters.Select(p => $"{p.Key} = {Convert.ToString(p.Value, CultureInfo.InvariantCulture)}"));
 
     private static string I(long v) => v.ToString(CultureInfo.InvariantCulture);
-
-    private static string D(double? v) => v is { } x && !double.IsNaN(x) ? x.ToString("G6", CultureInfo.InvariantCulture) : "n/a";
 }

@@ -53,7 +53,7 @@ internal sealed class ResultSchemas
         Modes = Spec<ModeLevel>(TableNames.Modes, axes,
             C<RowOf<ModeLevel>>("freq_thz", ColumnType.Double, "THz", "a distinct mode frequency of the finite crystal", r => r.Item.FrequencyThz),
             C<RowOf<ModeLevel>>("multiplicity", ColumnType.Int64, "", "modes sharing this frequency", r => r.Item.Multiplicity));
-        Displacements = Spec<DisplacementRow>(TableNames.Displacements, axes,
+        Displacements = Spec<DisplacementRow>(TableNames.MeanSquareDisplacements, axes,
             C<RowOf<DisplacementRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
             C<RowOf<DisplacementRow>>("site", ColumnType.Int32, "", "basis site (0-based)", r => r.Item.Site),
             C<RowOf<DisplacementRow>>("site_label", ColumnType.Text, "", "basis site label", r => r.Item.SiteLabel),
@@ -83,7 +83,7 @@ internal sealed class ResultSchemas
     {
         var none = new ResultSchemas([]);
         return new HashSet<string>(
-            new[] { TableNames.Points, TableNames.SoundSpeeds, TableNames.Dos, TableNames.Thermal, TableNames.Dispersion, TableNames.Modes, TableNames.Displacements, TableNames.CumulativeKappa }
+            new[] { TableNames.Points, TableNames.SoundSpeeds, TableNames.Dos, TableNames.Thermal, TableNames.Dispersion, TableNames.Modes, TableNames.MeanSquareDisplacements, TableNames.CumulativeKappa }
                 .SelectMany(none.ColumnsOf).Select(c => c.Name).Concat(RunColumns<PointOutcome>(o => o).Select(c => c.Def.Name)),
             StringComparer.Ordinal);
     }
@@ -97,7 +97,7 @@ internal sealed class ResultSchemas
         TableNames.Thermal => Thermal.Defs,
         TableNames.Dispersion => Dispersion.Defs,
         TableNames.Modes => Modes.Defs,
-        TableNames.Displacements => Displacements.Defs,
+        TableNames.MeanSquareDisplacements or TableNames.FormerDisplacements => Displacements.Defs,
         TableNames.CumulativeKappa => CumulativeKappa.Defs,
         _ => throw new ArgumentException($"no table named {table}", nameof(table)),
     };

@@ -75,7 +75,7 @@ public sealed class ChunkRunner
         }
         catch (Exception ex) when (!(ex is OperationCanceledException && ct.IsCancellationRequested))
         {
-            _log.Error("Chunk {ChunkId} of sweep {SweepId} stopped on an error{Then}: {Error}",
+            _log.Error(ex, "Chunk {ChunkId} of sweep {SweepId} stopped on an error{Then}: {Error}",
                 chunkId, sweepId, lastAttempt ? "; the queue gives it up" : "; the queue runs it again later", ex.Message);
             if (lastAttempt && claim is { Decision: ChunkDecision.Run } claimed)
             {
