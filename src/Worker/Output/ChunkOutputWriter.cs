@@ -28,8 +28,15 @@ public static class ChunkOutputWriter
         var prepared = new List<PreparedPart>();
         try
         {
-            foreach (var rows in ChunkTables.Build(schemas, outputs, outcomes))
+            IReadOnlyList<TableRows> tables;
+            using (Queue.StageTimings.Measure("rows: build"))
             {
+                tables = ChunkTables.Build(schemas, outputs, outcomes);
+            }
+
+            foreach (var rows in tables)
+            {
+                using var writing = Queue.StageTimings.Measure("parquet: write parts");
                 // A table with no rows in this chunk still gets an empty part: it carries the schema, so
                 // every listed table folder exists and a reader's glob over it works (and a stale part
                 // from an earlier run of the chunk is replaced).
@@ -52,6 +59,7 @@ public static class ChunkOutputWriter
         {
             try
             {
+                using var committing = Queue.StageTimings.Measure("parquet: rename parts");
                 prepared[i].Commit();
             }
             catch
