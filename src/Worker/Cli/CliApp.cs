@@ -40,9 +40,10 @@ public static class CliApp
                 "work" => SweepCommands.Work(CommandLine.Parse(command, rest, Options("store", "workers", "reclaim-after", "!stay"), 0, 0), context),
                 "status" => StatusCommand.Run(CommandLine.Parse(command, rest, Options("store"), 0, 1), context),
                 "cancel" => SweepCommands.Cancel(CommandLine.Parse(command, rest, Options("store"), 1, 1), context),
+                "merge" => SweepCommands.Merge(CommandLine.Parse(command, rest, Options("store"), 1, 1), context),
                 "check" => CheckCommand.Run(PathIn(context, CommandLine.Parse(command, rest, Options(), 1, 1).Arguments[0]), context.Stdout, context.Stderr),
                 "solve" => SolveCommand.Run(PathIn(context, CommandLine.Parse(command, rest, Options(), 1, 1).Arguments[0]), context.Stdout, context.Stderr),
-                _ => throw new UsageException($"unknown command '{command}' (commands: run, check, solve, submit, work, status, cancel, resume; see latsweep --help)"),
+                _ => throw new UsageException($"unknown command '{command}' (commands: run, check, solve, submit, work, status, cancel, resume, merge; see latsweep --help)"),
             };
         }
         catch (UsageException ex)

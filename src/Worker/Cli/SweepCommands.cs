@@ -90,6 +90,8 @@ internal static class SweepCommands
                     break;
                 }
 
+                MergeFinished(session, runner, context);
+
                 // Held chunks count too (PostgreSQL): a dead worker's chunk returns after the reclaim time.
                 var looked = watch.TryLook(session.Store.ChunksNeedingWork, out var waiting);
                 idlePolls = looked && waiting == 0 && runner.ActiveChunks == 0 ? idlePolls + 1 : 0;
@@ -102,6 +104,11 @@ internal static class SweepCommands
 
                 context.Stop.WaitHandle.WaitOne(context.PollInterval);
             }
+        }
+
+        if (!interrupted)
+        {
+            MergeFinished(session, runner, context);
         }
 
         context.Stdout.WriteLine(interrupted
@@ -194,6 +201,12 @@ internal static class SweepCommands
             return ExitCodes.Interrupted;
         }
 
+        runner.TakeFinishedSweeps();
+        if (final.Counts.Unfinished == 0)
+        {
+            ResultMerge.TryRun(final, session.Log, context.Stop);
+        }
+
         PrintSummary(session, context, final);
         StageTimings.WriteIfEnabled(context.Stderr);
         return final.Counts.Done == final.Counts.Total ? ExitCodes.Ok : ExitCodes.SomeFailed;
@@ -238,6 +251,37 @@ internal static class SweepCommands
         if (session.LogFile is not null)
         {
             o.WriteLine($"Log: {session.LogFile}");
+        }
+    }
+
+    /// <summary><c>latsweep merge SWEEP</c>: merges the sweep's part files now (also done at the end of run, resume and work).</summary>
+    public static int Merge(CommandLine line, CliContext context)
+    {
+        using var session = Session.Open(line, context);
+        var sweep = session.Sweep(line.Arguments[0]);
+        if (!Directory.Exists(sweep.OutputFolder))
+        {
+            throw new UsageException($"the results folder of sweep {sweep.SweepId} does not exist: {sweep.OutputFolder}");
+        }
+
+        if (!ResultMerge.TryRun(sweep, session.Log, context.Stop))
+        {
+            return ExitCodes.SomeFailed;
+        }
+
+        context.Stdout.WriteLine($"Sweep {sweep.SweepId}: results merged in {sweep.OutputFolder} (each table: merged-*.parquet sorted by point_id, plus the part files of chunks that finish later).");
+        return ExitCodes.Ok;
+    }
+
+    /// <summary>Merges the part files of the sweeps that finished in this process (work, run).</summary>
+    private static void MergeFinished(Session session, ChunkRunner runner, CliContext context)
+    {
+        foreach (var id in runner.TakeFinishedSweeps())
+        {
+            if (session.Catalog.FindSweep(id) is { } sweep && sweep.SweepId == id && sweep.Counts.Unfinished == 0)
+            {
+                ResultMerge.TryRun(sweep, session.Log, context.Stop);
+            }
         }
     }
 

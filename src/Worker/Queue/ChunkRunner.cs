@@ -59,6 +59,20 @@ public sealed class ChunkRunner
 
     private readonly AutoResetEvent _chunkRecorded = new(false);
 
+    private readonly System.Collections.Concurrent.ConcurrentQueue<string> _finishedSweeps = new();
+
+    /// <summary>Takes the ids of sweeps that finished in this process since the last call (their part files are then merged).</summary>
+    public IReadOnlyList<string> TakeFinishedSweeps()
+    {
+        var ids = new List<string>();
+        while (_finishedSweeps.TryDequeue(out var id))
+        {
+            ids.Add(id);
+        }
+
+        return ids;
+    }
+
     /// <summary>Set each time this process records a chunk in the catalog (so <c>run</c> looks at once, not at its next poll).</summary>
     public WaitHandle ChunkRecorded => _chunkRecorded;
 
@@ -186,6 +200,7 @@ public sealed class ChunkRunner
             _log.Information("Sweep {SweepId} finished {State}: {Done} done, {Failed} failed of {Total}; results in {OutputFolder}",
                 sweepId, completion.State.ToString().ToLowerInvariant(), completion.Counts.Done, completion.Counts.Failed, completion.Counts.Total, sweep.OutputFolder);
             WriteManifest(sweepId);
+            _finishedSweeps.Enqueue(sweepId);
         }
     }
 
