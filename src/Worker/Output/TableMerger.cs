@@ -123,6 +123,7 @@ internal static class TableMerger
             WriteDurably(Path.Combine(staging, CompleteMarker(id)), "");
             ct.ThrowIfCancellationRequested();
             DirectorySwap.Exchange(live, staging);
+            SimulatedSlowMerge.Pause();
             TryDeleteFolder(staging);
             return new Outcome(table, parts.Count, written, rows);
         }
@@ -196,6 +197,7 @@ internal static class TableMerger
             file.Flush(flushToDisk: true);
         }
 
+        SimulatedSlowMerge.Pause();
         chunkFiles.AddRange(chunks.Select(c => (c, fileName)));
         batch.Clear();
         return total;
