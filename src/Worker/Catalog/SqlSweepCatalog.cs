@@ -30,6 +30,11 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     {
     }
 
+    /// <summary>Runs before a sweep's points are inserted (SQLite enlarges its page cache: a million rows go into three indexes).</summary>
+    protected virtual void BeforeBulkInsert(DbConnection connection)
+    {
+    }
+
     /// <summary>Creates the catalog tables when missing. Call once after construction.</summary>
     protected void EnsureSchema()
     {
@@ -47,13 +52,18 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     public bool Register(NewSweep sweep)
     {
         ArgumentNullException.ThrowIfNull(sweep);
-        var duplicate = sweep.Points.GroupBy(p => p.PointId, StringComparer.Ordinal).FirstOrDefault(g => g.Count() > 1);
-        if (duplicate is not null)
+        var seen = new HashSet<string>(sweep.Points.Length, StringComparer.Ordinal);
+        foreach (var point in sweep.Points)
         {
-            throw new ArgumentException($"the plan has point id {duplicate.Key} more than once", nameof(sweep));
+            if (!seen.Add(point.PointId))
+            {
+                throw new ArgumentException($"the plan has point id {point.PointId} more than once", nameof(sweep));
+            }
         }
 
+        seen = null;
         using var c = Open();
+        BeforeBulkInsert(c);
         using var tx = c.BeginTransaction();
         var inserted = Execute(c, tx, """
             INSERT INTO latsweep_sweeps (sweep_id, name, description, state, spec_hash, source_path, spec_text,
