@@ -112,8 +112,10 @@ if queue:
     for r in queue["runs"]:
         rows.append((f"(e) queue, {r['points']} points ({r['engine_ms_per_point']:.1f} ms)", f"{r['engine_s']:.2f} s",
                      f"{r['queue_s']:.2f} s", float("nan"),
-                     f"engine alone vs latsweep run --workers {r['workers']} (SQLite store): {r['queue_points_per_s']:.0f} points/s, "
-                     f"overhead {r['overhead_fraction'] * 100:.1f}% = {r['overhead_ms_per_point']:.2f} ms/point"))
+                     f"engine alone vs latsweep run --workers {r['workers']} (SQLite store): {r['queue_points_per_s']:.0f} points/s; "
+                     f"CPU: engine {r.get('engine_cpu_s', float('nan')):.2f} s, run {r.get('queue_cpu_s', float('nan')):.2f} s, one-point run {r.get('fixed_cpu_s', float('nan')):.2f} s "
+                     f"({r.get('fixed_s', float('nan')):.2f} s wall) -> {r.get('overhead_cpu_ms_per_point', float('nan')):.3f} ms CPU/point; "
+                     f"wall overhead {r['overhead_fraction'] * 100:.1f}%, {r.get('overhead_fraction_without_fixed', float('nan')) * 100:.1f}% without the fixed cost; load {r.get('load', '?')}"))
 
 print()
 print(f"{'case':34} {'ours':>12} {'numpy peer':>12} {'peer/ours':>10}  agreement / notes  ((e): engine alone | through the queue)")

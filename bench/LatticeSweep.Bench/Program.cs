@@ -113,8 +113,8 @@ switch (caseName)
         var jobs = Option("--jobs", "bench/queue");
         report["runs"] = new List<object>
         {
-            QueueCase.Run(latsweep, Path.Combine(jobs, "small-points.toml"), workers: 1, repeats),
-            QueueCase.Run(latsweep, Path.Combine(jobs, "20ms-points.toml"), workers: 1, repeats),
+            QueueCase.Run(latsweep, Path.Combine(jobs, "small-points.toml"), Path.Combine(jobs, "one-point.toml"), workers: 1, repeats),
+            QueueCase.Run(latsweep, Path.Combine(jobs, "20ms-points.toml"), Path.Combine(jobs, "one-point.toml"), workers: 1, repeats),
         };
         break;
     }

@@ -55,7 +55,7 @@ public static class CheckCommand
         var duplicates = plan.DuplicatePointsCollapsed > 0 ? $" ({N(plan.DuplicatePointsCollapsed)} duplicate point(s) collapsed)" : "";
         o.WriteLine($"Points       {N(plan.Points.Length)}{duplicates}");
         o.WriteLine($"Combine      {plan.Combine}");
-        o.WriteLine($"Tables       {string.Join(", ", plan.Outputs.TableNames)}");
+        o.WriteLine($"Tables       {string.Join(", ", Output.TableNames.For(plan.Outputs))}");
         o.WriteLine();
         if (plan.Axes.IsEmpty)
         {

@@ -15,7 +15,10 @@ namespace LatticeSweep.Worker.Commands;
 /// </summary>
 public static class SolveCommand
 {
-    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr)
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr) => Run(jobFile, stdout, stderr, fullPrecision: false);
+
+    /// <summary>As above; <paramref name="fullPrecision"/> prints every number with all its digits (round-trip text).</summary>
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr, bool fullPrecision)
     {
         ArgumentNullException.ThrowIfNull(stdout);
         ArgumentNullException.ThrowIfNull(stderr);
@@ -49,11 +52,11 @@ public static class SolveCommand
             ? $"Point  {point.PointId}, the first of {plan.Points.Length} ({Parameters(point)})"
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
-        SummaryTable(result.Summary, result.ElasticFit).WriteTo(stdout);
+        SummaryTable(result.Summary, result.ElasticFit, fullPrecision).WriteTo(stdout);
         if (result.Surface is { } surface)
         {
             stdout.WriteLine();
-            SurfaceTable(surface, result.Summary).WriteTo(stdout);
+            SurfaceTable(surface, result.Summary, fullPrecision).WriteTo(stdout);
         }
 
         if (!result.Summary.Stable)
@@ -67,9 +70,9 @@ public static class SolveCommand
     }
 
     /// <summary>What a sample with boundaries, a shape or disorder adds to the summary.</summary>
-    internal static TextTable SurfaceTable(SurfaceResult f, PointSummary s)
+    internal static TextTable SurfaceTable(SurfaceResult f, PointSummary s, bool fullPrecision = false)
     {
-        static string N(double? v) => v is { } x ? D(x) : "n/a";
+        string N(double? v) => v is { } x && !double.IsNaN(x) ? x.ToString(fullPrecision ? "R" : "G6", CultureInfo.InvariantCulture) : "n/a";
         var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
         t.Add("boundaries", f.Boundaries, "");
         t.Add("shape", f.Shape, "");
@@ -83,12 +86,15 @@ public static class SolveCommand
         t.Add("mean-square displacement, surface", N(f.MsdSurfaceNm2), "nm^2");
         t.Add("mean-square displacement, interior", N(f.MsdInteriorNm2), "nm^2");
         t.Add($"Cv of the periodic crystal ({f.PeriodicCells})", N(f.PeriodicCvAtReferenceJPerMolK), "J/(mol K)");
-        t.Add("Cv ratio to periodic", f.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 && s.HeatCapacityJPerMolK is { } cv ? D(cv / p) : "n/a", "");
+        t.Add("Cv ratio to periodic", N(f.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 && s.HeatCapacityJPerMolK is { } cv ? cv / p : null), "");
         return t;
     }
 
-    internal static TextTable SummaryTable(PointSummary s, Engine.Elastic.ElasticFitResult? fit = null)
+    internal static TextTable SummaryTable(PointSummary s, Engine.Elastic.ElasticFitResult? fit = null, bool fullPrecision = false)
     {
+        // 6 significant digits, or every digit (the shortest round-trip text) when asked.
+        string D(double? v) => v is not { } x || double.IsNaN(x) ? "n/a" : x.ToString(fullPrecision ? "R" : "G6", CultureInfo.InvariantCulture);
+
         var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
         t.Add("dimension", I(s.Dimension), "");
         t.Add("sites per cell", I(s.SitesPerCell), "");
@@ -162,6 +168,4 @@ public static class SolveCommand
         string.Join(", ", point.Parameters.Select(p => $"{p.Key} = {Convert.ToString(p.Value, CultureInfo.InvariantCulture)}"));
 
     private static string I(long v) => v.ToString(CultureInfo.InvariantCulture);
-
-    private static string D(double? v) => v is { } x && !double.IsNaN(x) ? x.ToString("G6", CultureInfo.InvariantCulture) : "n/a";
 }

@@ -19,7 +19,10 @@ internal static class OutputSectionReader
     private static readonly string[] RangeKeys = ["from_k", "to_k", "steps", "scale"];
     private static readonly string[] DispersionKeys = ["path", "points_per_segment"];
     private static readonly string[] CornerKeys = ["label", "q"];
-    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", "displacements", "cumulative_kappa", "layers", "layer_dos"];
+    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", Output.TableNames.MeanSquareDisplacements, "cumulative_kappa", Output.TableNames.Layers, Output.TableNames.LayerDos];
+
+    // The table's former name, so older job files (and sweeps stored with them) still plan.
+    private static readonly string[] FormerTableNames = [Output.TableNames.FormerDisplacements];
 
     public static (SolveOptions Options, OutputSelection Tables)? Read(TableReader? t, int dimension, ModelSpec? model = null, SampleSpec? sample = null, bool kindSwept = false)
     {
@@ -50,7 +53,7 @@ internal static class OutputSectionReader
         // Samples with boundaries, a shape or disorder get their layer tables unless the list says otherwise.
         var realSpace = sample?.RealSpace is not null;
         var selection = OutputSelection.Default with { Dispersion = dispersion is not null, Layers = realSpace, LayerDos = realSpace };
-        var tables = t.StringList("tables", TableNames);
+        var tables = t.StringList("tables", TableNames, FormerTableNames);
         if (tables is not null)
         {
             selection = new OutputSelection(
@@ -58,10 +61,10 @@ internal static class OutputSectionReader
                 Thermal: tables.Contains("thermal"),
                 Dispersion: tables.Contains("dispersion"),
                 Modes: tables.Contains("modes"),
-                Displacements: tables.Contains("displacements"),
+                Displacements: tables.Contains(Output.TableNames.MeanSquareDisplacements) || tables.Contains(Output.TableNames.FormerDisplacements),
                 CumulativeKappa: tables.Contains("cumulative_kappa"),
-                Layers: tables.Contains("layers"),
-                LayerDos: tables.Contains("layer_dos"));
+                Layers: tables.Contains(Output.TableNames.Layers),
+                LayerDos: tables.Contains(Output.TableNames.LayerDos));
             if (selection.Dispersion && dispersion is null && !t.Has("dispersion"))
             {
                 t.Error("tables", "the dispersion table needs a path: add [output.dispersion] with path = [{ label = \"G\", q = [0, 0, 0] }, ...]");

@@ -46,7 +46,7 @@ internal static class SweepSectionReader
             }
             else
             {
-                t.Problems.Add(t.Location, "sweep.name", $"the file name '{stem}' cannot name the sweep ({bad}); give [sweep] name");
+                t.Problems.Add(t.Location, "sweep.name", $"the file name '{EchoText.Of(stem)}' cannot name the sweep ({bad}); give [sweep] name");
             }
         }
 
@@ -86,12 +86,12 @@ internal static class SweepSectionReader
 
         if (name.Any(ch => !(char.IsAsciiLetterOrDigit(ch) || ch is '.' or '_' or '-')))
         {
-            return $"'{name}' may use only letters A-Z a-z, digits, '.', '_' and '-' (it names a folder under the output root)";
+            return $"'{EchoText.Of(name)}' may use only letters A-Z a-z, digits, '.', '_' and '-' (it names a folder under the output root)";
         }
 
         if (name.Contains("..", StringComparison.Ordinal) || name.All(ch => ch == '.'))
         {
-            return $"'{name}' must not contain '..' or consist of dots (it would leave the output root)";
+            return $"'{EchoText.Of(name)}' must not contain '..' or consist of dots (it would leave the output root)";
         }
 
         return null;

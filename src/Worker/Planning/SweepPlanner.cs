@@ -119,18 +119,27 @@ internal static class SweepPlanner
         var badCombinations = new List<string>();
         var badCount = 0;
         duplicates = 0;
-        foreach (var values in SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes))
-        {
-            var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
-            for (var j = 0; j < columns.Count; j++)
+        // Each point's spec, checks and id hash are independent: computed on every core, in plan order.
+        var computed = SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes)
+            .AsParallel().AsOrdered()
+            .Select(values =>
             {
-                builder[columns[j].Column] = values[j];
-            }
+                var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
+                for (var j = 0; j < columns.Count; j++)
+                {
+                    builder[columns[j].Column] = values[j];
+                }
 
-            var parameters = builder.ToImmutable();
-            var provisional = new PlannedPoint("", points.Count, parameters);
-            var spec = PointBinder.Apply(template, provisional);
-            if (SpecChecks.Check(spec) is { } wrong)
+                var parameters = builder.ToImmutable();
+                var spec = PointBinder.Apply(template, new PlannedPoint("", 0, parameters));
+                return SpecChecks.Check(spec) is { } wrong
+                    ? (Parameters: parameters, Wrong: wrong, Id: "")
+                    : (Parameters: parameters, Wrong: (string?)null, Id: PointIdentity.PointId(CanonicalSpec.Write(spec, options),
+                        parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value))));
+            });
+        foreach (var (parameters, wrong, id) in computed)
+        {
+            if (wrong is not null)
             {
                 badCount++;
                 if (badCombinations.Count < MaxPointProblemsShown)
@@ -141,15 +150,13 @@ internal static class SweepPlanner
                 continue;
             }
 
-            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options),
-                parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value)));
             if (!seen.Add(id))
             {
                 duplicates++;
                 continue;
             }
 
-            points.Add(provisional with { PointId = id });
+            points.Add(new PlannedPoint(id, points.Count, parameters));
         }
 
         foreach (var message in badCombinations)
@@ -175,7 +182,7 @@ internal static class SweepPlanner
             var t = decl.Table;
             if (!catalog.TryResolve(decl.Path, out var field))
             {
-                t.Error("path", $"'{decl.Path}' names no sweepable field; {catalog.Suggest(decl.Path)}");
+                t.Error("path", $"'{EchoText.Of(decl.Path)}' names no sweepable field; {catalog.Suggest(decl.Path)}");
                 continue;
             }
 
@@ -201,7 +208,7 @@ internal static class SweepPlanner
             {
                 if (axes[i].Values.Length != n)
                 {
-                    tables[i].TableError($"combine = \"zip\" needs axes of equal length: '{axes[0].Path}' has {n} values, '{axes[i].Path}' has {axes[i].Values.Length}");
+                    tables[i].TableError($"combine = \"zip\" needs axes of equal length: '{EchoText.Of(axes[0].Path)}' has {n} values, '{EchoText.Of(axes[i].Path)}' has {axes[i].Values.Length}");
                 }
             }
         }
@@ -318,13 +325,13 @@ internal static class SweepPlanner
             var index = table.ColumnIndex(csvColumn);
             if (index < 0)
             {
-                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"the candidates file has no column '{csvColumn}'; " + KeySuggestions.Hint(csvColumn, headers));
+                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"the candidates file has no column '{EchoText.Of(csvColumn)}'; " + KeySuggestions.Hint(csvColumn, headers));
                 continue;
             }
 
             if (!catalog.TryResolve(path, out var field))
             {
-                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"'{path}' names no sweepable field; {catalog.Suggest(path)}");
+                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"'{EchoText.Of(path)}' names no sweepable field; {catalog.Suggest(path)}");
                 continue;
             }
 
@@ -336,7 +343,7 @@ internal static class SweepPlanner
             var index = table.ColumnIndex(keep);
             if (index < 0)
             {
-                t.Error("keep", $"the candidates file has no column '{keep}'; " + KeySuggestions.Hint(keep, headers));
+                t.Error("keep", $"the candidates file has no column '{EchoText.Of(keep)}'; " + KeySuggestions.Hint(keep, headers));
                 continue;
             }
 
@@ -386,11 +393,11 @@ internal static class SweepPlanner
         {
             if (c.Field is not null && !fields.Add(c.Field.Path))
             {
-                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"'{c.Path}' is set by two axes (or an axis and a candidates column); each field may be swept once");
+                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"'{EchoText.Of(c.Path)}' is set by two axes (or an axis and a candidates column); each field may be swept once");
             }
             else if (!names.Add(c.Column))
             {
-                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"two swept fields would both be named column '{c.Column}' ({c.Path}); rename a site label or a candidates column");
+                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"two swept fields would both be named column '{EchoText.Of(c.Column)}' ({EchoText.Of(c.Path)}); rename a site label or a candidates column");
             }
         }
     }

@@ -88,7 +88,7 @@ public sealed class UnstablePointsTests : IDisposable
 
         // No rows that would mislead; the signed spectrum stays (modes/ of the finite crystal, dispersion/).
         var unstable = $"(SELECT point_id FROM {points} WHERE state = 'unstable')";
-        foreach (var table in new[] { "sound_speeds", "dos", "thermal", "displacements" })
+        foreach (var table in new[] { "sound_speeds", "dos", "thermal", "mean_square_displacements" })
         {
             var glob = DuckDb.Glob(Path.Combine(folder, table));
             Assert.True(0L == (long)db.Scalar($"SELECT count(*) FROM {glob} WHERE point_id IN {unstable}")!, $"{table}/ must have no rows for unstable points");
