@@ -66,6 +66,51 @@ public sealed class SurfaceRunTests : IDisposable
     }
 
     [Fact]
+    public void A_kernel_polynomial_point_writes_its_settings_and_its_statistical_errors()
+    {
+        // The plumbing of the kernel polynomial method's errors into every table; the accuracy
+        // itself is the Engine's test against dense solutions (KernelPolynomialTests).
+        var job = Path.Combine(_dir.Path, "kpm.toml");
+        File.WriteAllText(job, SurfaceJobFileTests.FccJob("""
+            kind = "finite"
+            shape = { kind = "sphere", radius_nm = 0.9 }
+            method = "kpm"
+
+            [sample.kpm]
+            moments = 256
+            random_vectors = 4
+            seed = 3
+            """));
+        var run = Support.Cli.Run(_dir.Path, "run", job, "--workers", "1");
+        Assert.True(run.ExitCode == 0, run.Stdout + run.Stderr);
+        var folder = Directory.GetDirectories(_dir.Combine("results")).Single();
+
+        using var db = new DuckDb();
+        var points = DuckDb.Glob(Path.Combine(folder, "points"));
+        var r = Assert.Single(db.Rows($"""
+            SELECT solver_method, kpm_moments, kpm_random_vectors, kpm_resolution_thz, stderr_source, stderr_samples,
+                   cv_stderr_j_per_mol_k, entropy_stderr_j_per_mol_k, cv_j_per_mol_k, surface_mode_fraction, rigid_modes_excluded
+            FROM {points}
+            """));
+        Assert.Equal("kernel polynomial", r[0]);
+        Assert.Equal(256, (int)r[1]!);
+        Assert.Equal(4, (int)r[2]!);
+        Assert.True((double)r[3]! > 0, "a resolution");
+        Assert.Equal("random vectors", r[4]);
+        Assert.Equal(4, (int)r[5]!);
+        Assert.InRange((double)r[6]!, 1e-12, 0.05 * (double)r[8]!);
+        Assert.True((double)r[7]! > 0);
+        Assert.Null(r[9]); // modes are not resolved one by one
+        Assert.Equal(6, (int)r[10]!);
+
+        var thermal = DuckDb.Glob(Path.Combine(folder, "thermal"));
+        Assert.All(db.Rows($"SELECT cv_stderr_j_per_mol_k, free_energy_stderr_j_per_mol FROM {thermal}"), t => Assert.True(t[0] is double && t[1] is double));
+        var dos = DuckDb.Glob(Path.Combine(folder, "dos"));
+        Assert.Equal(0L, db.Scalar($"SELECT count(*) FROM {dos} WHERE curve = 'total' AND dos_stderr_per_thz_per_cell IS NULL"));
+        Assert.True((long)db.Scalar($"SELECT count(*) FROM {DuckDb.Glob(Path.Combine(folder, "layer_dos"))}")! > 0);
+    }
+
+    [Fact]
     public void An_isotope_concentration_sweep_writes_averages_with_errors_beside_the_ordered_crystal()
     {
         var job = Path.Combine(_dir.Path, "isotopes.toml");
