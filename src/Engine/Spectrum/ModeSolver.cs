@@ -42,7 +42,7 @@ internal sealed class ModeSolver
     }
 
     /// <summary>Wave vectors solved together by <see cref="SolveHalfSet"/> (two SIMD groups of the batched eigen-solver).</summary>
-    public const int BatchSize = 2 * HermitianEigenSolver.BatchLanes;
+    public const int BatchSize = 2 * HermitianEigenSolver.MaxBatchLanes;
 
     private Complex[]? _batchD;
     private double[]? _batchValues;
