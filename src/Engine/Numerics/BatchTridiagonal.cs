@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using LatticeSweep.Engine.Numerics.Simd;
 
 namespace LatticeSweep.Engine.Numerics;
@@ -23,21 +24,27 @@ internal static class BatchTridiagonal
     // taken as the identity: the bulge it would chase is below 1e-150 ||A||.
     private const double TinySquare = 1e-300;
 
-    /// <summary>Work space (vectors) that <see cref="Eigenvalues{TLanes}"/> needs besides the matrix.</summary>
-    public static int WorkspaceLength(int n) => 6 * n;
+    /// <summary>Work space (vectors) that <see cref="Eigenvalues{TLanes}"/> needs besides the two matrices.</summary>
+    public static int WorkspaceLength(int n) => 8 * n;
 
     /// <summary>
-    /// The eigenvalues of each lane's matrix, unsorted, into d[0..n-1]. re/im hold the upper triangle
-    /// (i &lt;= j at i * n + j, diagonal real) and are overwritten.
+    /// The eigenvalues of each lane's matrix of two groups, unsorted: group A's into work[0..n-1], group
+    /// B's into work[2n..3n-1]. re/im hold each group's upper triangle (i &lt;= j at i * n + j, diagonal
+    /// real) and are overwritten. The two groups' QL recurrences run interleaved: each is a chain of
+    /// dependent square roots and divisions, and the other group's fills the gaps its latency leaves.
     /// </summary>
     /// <exception cref="EigenSolverException">The QL iteration did not converge.</exception>
-    public static void Eigenvalues<TLanes>(Span<TLanes> re, Span<TLanes> im, int n, Span<TLanes> work)
+    public static void Eigenvalues<TLanes>(Span<TLanes> reA, Span<TLanes> imA, Span<TLanes> reB, Span<TLanes> imB, int n, Span<TLanes> work)
         where TLanes : unmanaged, ILanes<TLanes>
     {
-        var d = work[..n];
-        var e = work.Slice(n, n);
-        Reduce(re, im, n, d, e, work.Slice(2 * n, 4 * n));
-        Diagonalize(d, e, n);
+        var dA = work[..n];
+        var eA = work.Slice(n, n);
+        var dB = work.Slice(2 * n, n);
+        var eB = work.Slice(3 * n, n);
+        var scratch = work.Slice(4 * n, 4 * n);
+        Reduce(reA, imA, n, dA, eA, scratch);
+        Reduce(reB, imB, n, dB, eB, scratch);
+        Diagonalize(dA, eA, dB, eB, n);
     }
 
     /// <summary>
@@ -164,21 +171,16 @@ internal static class BatchTridiagonal
     }
 
     /// <summary>
-    /// Implicit QL with shifts on every lane's tridiagonal (d, e) at once; d ends as the eigenvalues.
-    /// For each l, every lane whose e[l] is not yet negligible takes a QL step over its own unreduced
-    /// block l..m (m: its first negligible coupling at or after l); steps outside a lane's block are
-    /// masked, and a lane restarts the recurrence where its block begins.
+    /// Implicit QL with shifts on every lane's tridiagonal (d, e) of two groups at once; d ends as the
+    /// eigenvalues. For each l, every lane whose e[l] is not yet negligible takes a QL step over its own
+    /// unreduced block l..m (m: its first negligible coupling at or after l); steps outside a lane's
+    /// block are masked, and a lane restarts the recurrence where its block begins.
     /// </summary>
-    private static void Diagonalize<TLanes>(Span<TLanes> d, Span<TLanes> e, int n)
+    private static void Diagonalize<TLanes>(Span<TLanes> dA, Span<TLanes> eA, Span<TLanes> dB, Span<TLanes> eB, int n)
         where TLanes : unmanaged, ILanes<TLanes>
-        {
-        var scale = TLanes.Zero;
-        for (var i = 0; i < n; i++)
-        {
-            scale = TLanes.Max(scale, TLanes.Abs(d[i]) + TLanes.Abs(e[i]));
-        }
-
-        var negligible = Epsilon * scale;
+    {
+        var negligibleA = Epsilon * Scale(dA, eA, n);
+        var negligibleB = Epsilon * Scale(dB, eB, n);
         var tiny = TLanes.Create(TinySquare);
         var totalIterations = 0;
         for (var l = 0; l < n - 1; l++)
@@ -186,16 +188,12 @@ internal static class BatchTridiagonal
             var iterations = 0;
             while (true)
             {
-                // m per lane: the first index >= l whose coupling is negligible (e[n - 1] = 0 always is).
-                var split = TLanes.Create(n - 1);
-                for (var i = n - 2; i >= l; i--)
-                {
-                    split = TLanes.Select(TLanes.LessThanOrEqual(TLanes.Abs(e[i]), negligible), TLanes.Create(i), split);
-                }
-
+                var splitA = Split(eA, l, n, negligibleA);
+                var splitB = Split(eB, l, n, negligibleB);
                 var lIndex = TLanes.Create(l);
-                var active = TLanes.LessThan(lIndex, split);
-                if (!TLanes.Any(active))
+                var activeA = TLanes.LessThan(lIndex, splitA);
+                var activeB = TLanes.LessThan(lIndex, splitB);
+                if (!TLanes.Any(TLanes.Or(activeA, activeB)))
                 {
                     break;
                 }
@@ -207,53 +205,98 @@ internal static class BatchTridiagonal
 
                 iterations++;
                 totalIterations++;
-                var top = (int)TLanes.MaxAcross(split);
-
-                // Shift: the eigenvalue of the leading 2x2 block (l, l + 1) nearer d[l].
-                var el = TLanes.Select(active, e[l], TLanes.One);
-                var dl = d[l];
-                var g0 = (d[l + 1] - dl) * TLanes.Reciprocal(2.0 * el);
-                var root = TLanes.Sqrt((g0 * g0) + TLanes.One);
-                root = TLanes.Select(TLanes.LessThan(g0, TLanes.Zero), -root, root);
-                var shift = TLanes.Select(active, dl - (el * TLanes.Reciprocal(g0 + root)), TLanes.Zero);
-
-                var g = d[top] - shift;
-                var s = TLanes.One;
-                var c = TLanes.One;
-                var p = TLanes.Zero;
+                var top = (int)Math.Max(TLanes.MaxAcross(splitA), TLanes.MaxAcross(splitB));
+                var shiftA = Shift(dA, eA, l, activeA);
+                var shiftB = Shift(dB, eB, l, activeB);
+                var gA = dA[top] - shiftA;
+                var gB = dB[top] - shiftB;
+                TLanes sA = TLanes.One, cA = TLanes.One, pA = TLanes.Zero;
+                TLanes sB = TLanes.One, cB = TLanes.One, pB = TLanes.Zero;
                 for (var i = top - 1; i >= l; i--)
                 {
                     var index = TLanes.Create(i);
-                    var live = TLanes.LessThan(index, split);
-                    var ei = e[i];
-                    var f = s * ei;
-                    var b = c * ei;
-                    var rr = (f * f) + (g * g);
-                    var identity = TLanes.LessThan(rr, tiny);
-                    var inverse = TLanes.ReciprocalSqrt(TLanes.Select(identity, TLanes.One, rr));
-                    var r = TLanes.Select(identity, TLanes.Zero, rr * inverse);
-                    var sNew = TLanes.Select(identity, TLanes.Zero, f * inverse);
-                    var cNew = TLanes.Select(identity, TLanes.One, g * inverse);
-
-                    // e[m] itself (the split) is never written: it stays the negligible coupling it was.
-                    e[i + 1] = TLanes.Select(TLanes.LessThan(index + TLanes.One, split), r, e[i + 1]);
-                    var di1 = d[i + 1];
-                    var g2 = di1 - p;
-                    var r2 = TLanes.MultiplyAdd(d[i] - g2, sNew, 2.0 * cNew * b);
-                    var pNew = sNew * r2;
-                    d[i + 1] = TLanes.Select(live, g2 + pNew, di1);
-                    var gNew = TLanes.MultiplyAdd(cNew, r2, -b);
-
-                    // Before its block begins, a lane keeps the state of a fresh start at i.
-                    s = TLanes.Select(live, sNew, TLanes.One);
-                    c = TLanes.Select(live, cNew, TLanes.One);
-                    p = TLanes.Select(live, pNew, TLanes.Zero);
-                    g = TLanes.Select(live, gNew, d[i] - shift);
+                    var next = TLanes.Create(i + 1);
+                    Step(dA, eA, i, TLanes.LessThan(index, splitA), TLanes.LessThan(next, splitA), shiftA, tiny, ref sA, ref cA, ref pA, ref gA);
+                    Step(dB, eB, i, TLanes.LessThan(index, splitB), TLanes.LessThan(next, splitB), shiftB, tiny, ref sB, ref cB, ref pB, ref gB);
                 }
 
-                d[l] = TLanes.Select(active, d[l] - p, d[l]);
-                e[l] = TLanes.Select(active, g, e[l]);
+                dA[l] = TLanes.Select(activeA, dA[l] - pA, dA[l]);
+                eA[l] = TLanes.Select(activeA, gA, eA[l]);
+                dB[l] = TLanes.Select(activeB, dB[l] - pB, dB[l]);
+                eB[l] = TLanes.Select(activeB, gB, eB[l]);
             }
         }
+    }
+
+    private static TLanes Scale<TLanes>(Span<TLanes> d, Span<TLanes> e, int n)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        var scale = TLanes.Zero;
+        for (var i = 0; i < n; i++)
+        {
+            scale = TLanes.Max(scale, TLanes.Abs(d[i]) + TLanes.Abs(e[i]));
+        }
+
+        return scale;
+    }
+
+    /// <summary>m per lane: the first index &gt;= l whose coupling is negligible (e[n - 1] = 0 always is).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static TLanes Split<TLanes>(Span<TLanes> e, int l, int n, TLanes negligible)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        var split = TLanes.Create(n - 1);
+        for (var i = n - 2; i >= l; i--)
+        {
+            split = TLanes.Select(TLanes.LessThanOrEqual(TLanes.Abs(e[i]), negligible), TLanes.Create(i), split);
+        }
+
+        return split;
+    }
+
+    /// <summary>The shift: the eigenvalue of the leading 2x2 block (l, l + 1) nearer d[l]; 0 in lanes not active.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static TLanes Shift<TLanes>(Span<TLanes> d, Span<TLanes> e, int l, TLanes active)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        var el = TLanes.Select(active, e[l], TLanes.One);
+        var dl = d[l];
+        var g = (d[l + 1] - dl) * TLanes.Reciprocal(2.0 * el);
+        var root = TLanes.Sqrt((g * g) + TLanes.One);
+        root = TLanes.Select(TLanes.LessThan(g, TLanes.Zero), -root, root);
+        return TLanes.Select(active, dl - (el * TLanes.Reciprocal(g + root)), TLanes.Zero);
+    }
+
+    /// <summary>
+    /// One rotation of the QL step at i: (s, c) zero the bulge f = s e[i] against g, then d[i + 1],
+    /// e[i + 1] and the recurrence's p and g move on. <paramref name="live"/>: lanes whose block contains
+    /// i; <paramref name="inside"/>: lanes whose block contains i + 1 (e[m] itself, the split, is never
+    /// written: it stays the negligible coupling it was).
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static void Step<TLanes>(Span<TLanes> d, Span<TLanes> e, int i, TLanes live, TLanes inside, TLanes shift, TLanes tiny, ref TLanes s, ref TLanes c, ref TLanes p, ref TLanes g)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        var ei = e[i];
+        var f = s * ei;
+        var b = c * ei;
+        var rr = (f * f) + (g * g);
+        var identity = TLanes.LessThan(rr, tiny);
+        var inverse = TLanes.ReciprocalSqrt(TLanes.Select(identity, TLanes.One, rr));
+        var r = TLanes.Select(identity, TLanes.Zero, rr * inverse);
+        var sNew = TLanes.Select(identity, TLanes.Zero, f * inverse);
+        var cNew = TLanes.Select(identity, TLanes.One, g * inverse);
+        e[i + 1] = TLanes.Select(inside, r, e[i + 1]);
+        var di1 = d[i + 1];
+        var g2 = di1 - p;
+        var r2 = TLanes.MultiplyAdd(d[i] - g2, sNew, 2.0 * cNew * b);
+        var pNew = sNew * r2;
+        d[i + 1] = TLanes.Select(live, g2 + pNew, di1);
+
+        // Before its block begins, a lane keeps the state of a fresh start at i.
+        s = TLanes.Select(live, sNew, TLanes.One);
+        c = TLanes.Select(live, cNew, TLanes.One);
+        p = TLanes.Select(live, pNew, TLanes.Zero);
+        g = TLanes.Select(live, TLanes.MultiplyAdd(cNew, r2, -b), d[i] - shift);
     }
 }

@@ -112,51 +112,76 @@ public static partial class HermitianEigenSolver
     private static void SolveGroups<TLanes>(ReadOnlySpan<Complex> matrices, int n, int count, Span<double> values, Span<Complex> vectors, BatchMethod method)
         where TLanes : unmanaged, ILanes<TLanes>
     {
+        if (method == BatchMethod.Tridiagonal)
+        {
+            SolveGroupPairsTridiagonal<TLanes>(matrices, n, count, values);
+            return;
+        }
+
         var nn = n * n;
         var lanes = TLanes.Count;
         var wantVectors = !vectors.IsEmpty;
 
-        // re, im (the matrix), then the raw load (2 nn), which Jacobi's vectors (2 nn) and the
-        // tridiagonal work space reuse once the matrix is loaded.
-        var kernelWork = method == BatchMethod.Jacobi ? (wantVectors ? 2 * nn : 0) : BatchTridiagonal.WorkspaceLength(n);
-        var work = Workspace<TLanes>((2 * nn) + Math.Max(2 * nn, kernelWork) + n);
+        // re, im (the matrix), the raw load (2 nn), which Jacobi's vectors reuse once the matrix is
+        // loaded, and the diagonal.
+        var work = Workspace<TLanes>((4 * nn) + n);
         var re = work[..nn];
         var im = work.Slice(nn, nn);
-        var rest = work.Slice(2 * nn, work.Length - (2 * nn) - n);
-        var diagonal = work.Slice(work.Length - n, n);
+        var raw = work.Slice(2 * nn, 2 * nn);
+        var vre = wantVectors ? raw[..nn] : [];
+        var vim = wantVectors ? raw.Slice(nn, nn) : [];
+        var diagonal = work.Slice(4 * nn, n);
         Span<int> exponents = stackalloc int[MaxBatchLanes];
         for (var first = 0; first < count; first += lanes)
         {
             var used = Math.Min(lanes, count - first);
-            var group = matrices.Slice(first * nn, used * nn);
-            if (!LoadGroup(group, n, used, re, im, rest[..(2 * nn)], exponents))
+            Load(matrices.Slice(first * nn, used * nn), n, used, re, im, raw, exponents);
+            BatchJacobi.Diagonalize(re, im, vre, vim, n, wantVectors ? JacobiVectorsTolerance : JacobiValuesTolerance);
+            for (var k = 0; k < n; k++)
             {
-                LoadGroupOneByOne(group, n, used, re, im, exponents);
-            }
-
-            Span<TLanes> vre = [];
-            Span<TLanes> vim = [];
-            if (method == BatchMethod.Jacobi)
-            {
-                if (wantVectors)
-                {
-                    vre = rest[..nn];
-                    vim = rest.Slice(nn, nn);
-                }
-
-                BatchJacobi.Diagonalize(re, im, vre, vim, n, wantVectors ? JacobiVectorsTolerance : JacobiValuesTolerance);
-                for (var k = 0; k < n; k++)
-                {
-                    diagonal[k] = re[(k * n) + k];
-                }
-            }
-            else
-            {
-                BatchTridiagonal.Eigenvalues(re, im, n, rest);
-                rest[..n].CopyTo(diagonal);
+                diagonal[k] = re[(k * n) + k];
             }
 
             Unload(diagonal, vre, vim, n, used, exponents, values.Slice(first * n, used * n), wantVectors ? vectors.Slice(first * nn, used * nn) : []);
+        }
+    }
+
+    /// <summary>Householder + QL in lanes, two groups at a time (a last odd group runs beside an empty one, which costs no steps).</summary>
+    private static void SolveGroupPairsTridiagonal<TLanes>(ReadOnlySpan<Complex> matrices, int n, int count, Span<double> values)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        var nn = n * n;
+        var lanes = TLanes.Count;
+        var work = Workspace<TLanes>((6 * nn) + BatchTridiagonal.WorkspaceLength(n));
+        var reA = work[..nn];
+        var imA = work.Slice(nn, nn);
+        var reB = work.Slice(2 * nn, nn);
+        var imB = work.Slice(3 * nn, nn);
+        var raw = work.Slice(4 * nn, 2 * nn);
+        var kernel = work[(6 * nn)..];
+        Span<int> exponentsA = stackalloc int[MaxBatchLanes];
+        Span<int> exponentsB = stackalloc int[MaxBatchLanes];
+        for (var first = 0; first < count; first += 2 * lanes)
+        {
+            var usedA = Math.Min(lanes, count - first);
+            var usedB = Math.Min(lanes, count - first - usedA);
+            Load(matrices.Slice(first * nn, usedA * nn), n, usedA, reA, imA, raw, exponentsA);
+            Load(matrices.Slice((first + usedA) * nn, usedB * nn), n, usedB, reB, imB, raw, exponentsB);
+            BatchTridiagonal.Eigenvalues(reA, imA, reB, imB, n, kernel);
+            Unload(kernel[..n], [], [], n, usedA, exponentsA, values.Slice(first * n, usedA * n), []);
+            if (usedB > 0)
+            {
+                Unload(kernel.Slice(2 * n, n), [], [], n, usedB, exponentsB, values.Slice((first + usedA) * n, usedB * n), []);
+            }
+        }
+    }
+
+    private static void Load<TLanes>(ReadOnlySpan<Complex> group, int n, int used, Span<TLanes> re, Span<TLanes> im, Span<TLanes> raw, Span<int> exponents)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        if (!LoadGroup(group, n, used, re, im, raw, exponents))
+        {
+            LoadGroupOneByOne(group, n, used, re, im, exponents);
         }
     }
 
