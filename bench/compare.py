@@ -38,9 +38,10 @@ if ours and peer:
         scale = np.abs(wp).max(axis=1)
         err = (np.abs(wo - wp).max(axis=1) / scale).max()
         rows.append((f"(a) {n}x{n} eigenvalues", f"{o['values_us_per_matrix']:.3f} us", f"{p['values_us_per_matrix']:.3f} us",
-                     p["values_us_per_matrix"] / o["values_us_per_matrix"], "max|dl|/||A|| " + check(f"eigen {n} values", err, 1e-12)))
+                     p["values_us_per_matrix"] / o["values_us_per_matrix"],
+                     f"[{o.get('values_path', '?')}] max|dl|/||A|| " + check(f"eigen {n} values", err, 1e-12)))
         rows.append((f"(a) {n}x{n} with vectors", f"{o['vectors_us_per_matrix']:.3f} us", f"{p['vectors_us_per_matrix']:.3f} us",
-                     p["vectors_us_per_matrix"] / o["vectors_us_per_matrix"], "(residuals: unit tests)"))
+                     p["vectors_us_per_matrix"] / o["vectors_us_per_matrix"], f"[{o.get('vectors_path', '?')}] (residuals: unit tests)"))
 
 
 def thermal_errors(o, p, tmin, label, limit):
@@ -119,10 +120,30 @@ print()
 print(f"{'case':34} {'ours':>12} {'numpy peer':>12} {'peer/ours':>10}  agreement / notes  ((e): engine alone | through the queue)")
 for name, a, b, ratio, note in rows:
     print(f"{name:34} {a:>12} {b:>12} {ratio:>9.2f}x  {note}")
+paths = load("ours_eigen-paths.json")
+if paths:
+    print()
+    print(f"eigen-solver paths (us per matrix, process CPU time; our kernels at {paths.get('simd_width')}):")
+    for n, row in paths["sizes"].items():
+        for kind in ("values", "vectors"):
+            times = "  ".join(f"{name} {t:.3f}" for name, t in row[kind].items())
+            planned, fastest = row[f"{kind}_planned"], row[f"{kind}_fastest"]
+            slower = "" if planned == fastest else f" ({row[kind][planned] / row[kind][fastest]:.2f}x the fastest)"
+            print(f"  {n:>2}x{n:<2} {kind:7} {times}; fastest {fastest}, planned {planned}{slower}")
+
 print()
-peer_any = load("peer_eigen.json") or load("peer_bulk.json")
-if peer_any:
-    print(f"peer: numpy {peer_any['numpy']}, BLAS/LAPACK {peer_any['blas']}, OPENBLAS_CORETYPE {peer_any['openblas_coretype']}")
+machine = load("machine.json")
+ours_any = next((x for x in (load(f"ours_{c}.json") for c in ("eigen", "bulk", "finite-chain", "finite-3d", "eigen-paths")) if x), None)
+if machine:
+    print(f"machine: {machine['cpu']} ({machine.get('cpu_family_model')}), {machine['kind']}; vector extensions: "
+          f"{' '.join(machine['vector_extensions'])}; {machine['cores']} cores, {machine['memory_gib']} GiB")
+    print(f"load average (1, 5, 15 min) at start {machine.get('load_start')}, at end {machine.get('load_end')}")
+if ours_any:
+    print(f"ours: {ours_any['runtime']}, batched kernels {ours_any.get('simd_width', '?')}")
+blas = load("peer_blas.json")
+if blas:
+    pools = ", ".join(f"{p['internal_api']} {p['version']} (kernel {p['architecture']}, {p['num_threads']} thread)" for p in blas["pools"])
+    print(f"peer: numpy {blas['numpy']} on {pools or 'no BLAS pool found'}; {blas['pools'][0]['filepath'] if blas['pools'] else ''}")
 if failures:
     print("DISAGREEMENT: " + "; ".join(failures))
     sys.exit(1)

@@ -64,7 +64,10 @@ internal static class EigenPathsCase
                     }
 
                     var bits = width == SimdWidth.Bits512 ? 512 : 256;
-                    paths.Add(($"jacobi-{bits}", width, BatchMethod.Jacobi));
+                    if (n <= BatchJacobi.MaxOrder)
+                    {
+                        paths.Add(($"jacobi-{bits}", width, BatchMethod.Jacobi));
+                    }
                     if (!wantVectors)
                     {
                         paths.Add(($"tridiagonal-{bits}", width, BatchMethod.Tridiagonal));
@@ -97,9 +100,7 @@ internal static class EigenPathsCase
 
                 var medians = samples.Select(s => s.Order().ElementAt(s.Count / 2)).ToArray();
                 var best = Array.IndexOf(medians, medians.Min());
-                var planned = BatchPlan.Choose(n, wantVectors, SimdWidths.Active);
-                var plannedName = planned == BatchMethod.OneByOne ? "one-by-one"
-                    : $"{(planned == BatchMethod.Jacobi ? "jacobi" : "tridiagonal")}-{(SimdWidths.Active == SimdWidth.Bits512 ? 512 : 256)}";
+                var plannedName = EigenCase.PathName(n, wantVectors);
                 var kind = wantVectors ? "vectors" : "values";
                 row[kind] = paths.Select((p, i) => (p.Name, medians[i])).ToDictionary(x => x.Name, x => (object)x.Item2);
                 row[$"{kind}_fastest"] = paths[best].Name;

@@ -46,7 +46,7 @@ switch (caseName)
         break;
     case "eigen-paths":
     {
-        var sizes = Option("--sizes", "2,3,4,5,6,8,9,12,15,18,24,32").Split(',').Select(x => int.Parse(x, System.Globalization.CultureInfo.InvariantCulture)).ToArray();
+        var sizes = Option("--sizes", "2,3,4,6,9,12,15,18,24,32,48").Split(',').Select(x => int.Parse(x, System.Globalization.CultureInfo.InvariantCulture)).ToArray();
         report["simd_width"] = LatticeSweep.Engine.Numerics.Simd.SimdWidths.Describe(LatticeSweep.Engine.Numerics.Simd.SimdWidths.Active);
         report["sizes"] = EigenPathsCase.Run(Math.Max(3, repeats), sizes);
         break;

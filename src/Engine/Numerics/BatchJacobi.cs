@@ -15,10 +15,13 @@ namespace LatticeSweep.Engine.Numerics;
 /// </summary>
 internal static class BatchJacobi
 {
+    /// <summary>The largest order this path takes (its pair orders are tabled up to it).</summary>
+    public const int MaxOrder = 32;
+
     private const int MaxSweeps = 40;
     private const double TinyOffDiagonal = 1e-150;
 
-    private static readonly int[][] PairOrders = [.. Enumerable.Range(0, 33).Select(RoundRobinPairs)];
+    private static readonly int[][] PairOrders = [.. Enumerable.Range(0, MaxOrder + 1).Select(RoundRobinPairs)];
 
     /// <summary>
     /// Diagonalises the group in place: <paramref name="re"/> and <paramref name="im"/> hold the upper

@@ -89,6 +89,11 @@ public static partial class HermitianEigenSolver
             throw new ArgumentException("The lane-parallel Householder + QL path forms eigenvalues only.", nameof(method));
         }
 
+        if (chosen == BatchMethod.Jacobi && n > BatchJacobi.MaxOrder)
+        {
+            throw new ArgumentException($"The lane-parallel Jacobi path takes orders up to {BatchJacobi.MaxOrder}; got {n}.", nameof(method));
+        }
+
         if (chosen == BatchMethod.OneByOne || width == SimdWidth.Scalar)
         {
             for (var m = 0; m < count; m++)
