@@ -83,7 +83,13 @@ public static partial class HermitianEigenSolver
             throw new ArgumentException($"The vectors span has length {vectors.Length}; {count} matrices of order {n} need {(long)count * nn}.", nameof(vectors));
         }
 
-        var chosen = n <= 1 ? BatchMethod.OneByOne : method ?? BatchPlan.Choose(n, wantVectors, width);
+        if (n == 1)
+        {
+            SolveScalars(matrices, values, vectors);
+            return;
+        }
+
+        var chosen = method ?? BatchPlan.Choose(n, wantVectors, width);
         if (chosen == BatchMethod.Tridiagonal && wantVectors)
         {
             throw new ArgumentException("The lane-parallel Householder + QL path forms eigenvalues only.", nameof(method));
@@ -112,6 +118,23 @@ public static partial class HermitianEigenSolver
         {
             SolveGroups<Lanes4>(matrices, n, count, values, vectors, chosen);
         }
+    }
+
+    /// <summary>1 x 1 matrices (the scalar models): the real element is the eigenvalue, the vector is 1.</summary>
+    private static void SolveScalars(ReadOnlySpan<Complex> matrices, Span<double> values, Span<Complex> vectors)
+    {
+        for (var m = 0; m < matrices.Length; m++)
+        {
+            var a = matrices[m];
+            if (!double.IsFinite(a.Real) || !double.IsFinite(a.Imaginary) || Math.Abs(a.Imaginary) > HermitianTolerance * Math.Abs(a.Real))
+            {
+                ScanHermitian(matrices.Slice(m, 1), 1); // throws the one-matrix solver's error
+            }
+
+            values[m] = a.Real;
+        }
+
+        vectors.Fill(Complex.One);
     }
 
     private static void SolveGroups<TLanes>(ReadOnlySpan<Complex> matrices, int n, int count, Span<double> values, Span<Complex> vectors, BatchMethod method)

@@ -196,6 +196,21 @@ public sealed class HermitianEigenSolverBatchTests
     }
 
     [Fact]
+    public void OneByOneMatrices_AreTheirOwnEigenvalues_AndBadOnesAreRejectedByIndex()
+    {
+        // The scalar models' 1 x 1 case, batched: the real element is the eigenvalue, the vector is 1.
+        Complex[] matrices = [2.5, -1e-300, new Complex(7, 1e-12), 0];
+        var values = new double[4];
+        var vectors = new Complex[4];
+        HermitianEigenSolver.SolveBatch(matrices, 1, 4, values, vectors);
+        Assert.Equal([2.5, -1e-300, 7, 0], values);
+        Assert.All(vectors, v => Assert.Equal(Complex.One, v));
+
+        Assert.Throws<EigenSolverException>(() => HermitianEigenSolver.SolveBatch([1, double.PositiveInfinity], 1, 2, new double[2], []));
+        Assert.Throws<ArgumentException>(() => HermitianEigenSolver.SolveBatch([1, new Complex(1, 0.5)], 1, 2, new double[2], []));
+    }
+
+    [Fact]
     public void DefaultPath_GivesTheSameSpectraAsTheOneMatrixSolver_ForDynamicalMatrixSizes()
     {
         // Agreement of independent implementations on 3r x 3r sizes, at this process's width and plan.
