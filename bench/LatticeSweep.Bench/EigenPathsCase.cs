@@ -68,10 +68,7 @@ internal static class EigenPathsCase
                     {
                         paths.Add(($"jacobi-{bits}", width, BatchMethod.Jacobi));
                     }
-                    if (!wantVectors)
-                    {
-                        paths.Add(($"tridiagonal-{bits}", width, BatchMethod.Tridiagonal));
-                    }
+                    paths.Add(($"tridiagonal-{bits}", width, BatchMethod.Tridiagonal));
                 }
 
                 var samples = paths.Select(_ => new List<double>()).ToArray();

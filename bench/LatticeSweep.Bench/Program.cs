@@ -41,7 +41,7 @@ switch (caseName)
 {
     case "eigen":
         report["peak_gflops_one_core"] = PeakFlops.GflopsPerCore();
-        Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core (512-bit FMA)");
+        Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core ({(System.Runtime.Intrinsics.Vector512.IsHardwareAccelerated ? 512 : 256)}-bit FMA)");
         report["sizes"] = EigenCase.Run(cases, outDir, repeats);
         break;
     case "eigen-paths":

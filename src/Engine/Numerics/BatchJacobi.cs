@@ -11,7 +11,8 @@ namespace LatticeSweep.Engine.Numerics;
 /// long-latency square roots and divisions of the lanes overlap. Sweeps continue until the off-diagonal
 /// Frobenius norm of every lane is at most the tolerance times ||A||_F, so each eigenvalue is within that
 /// of the exact one (Weyl) and the accumulated vectors are orthonormal to round-off. Its flop count
-/// (about 3.5x Householder + QL for eigenvalues) makes it the choice only where vectors are wanted.
+/// (about 3.5x Householder + QL for eigenvalues) leaves it the faster method only at 2x2, where one
+/// rotation does it (<see cref="BatchPlan"/>); it stays as an independent method the tests compare with.
 /// </summary>
 internal static class BatchJacobi
 {

@@ -9,6 +9,6 @@ internal enum BatchMethod
     /// <summary>Cyclic Jacobi in SIMD lanes (<see cref="BatchJacobi"/>); eigenvalues and vectors.</summary>
     Jacobi,
 
-    /// <summary>Householder + QL in SIMD lanes (<see cref="BatchTridiagonal"/>); eigenvalues only.</summary>
+    /// <summary>Householder + QL in SIMD lanes (<see cref="BatchTridiagonal"/>); eigenvalues and vectors.</summary>
     Tridiagonal,
 }

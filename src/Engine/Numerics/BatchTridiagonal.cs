@@ -4,7 +4,7 @@ using LatticeSweep.Engine.Numerics.Simd;
 namespace LatticeSweep.Engine.Numerics;
 
 /// <summary>
-/// Eigenvalues of a group of Hermitian matrices, one per SIMD lane, by the one-matrix solver's method
+/// Eigenvalues (and on request eigenvectors) of a group of Hermitian matrices, one per SIMD lane, by the one-matrix solver's method
 /// run in lanes: Householder reduction to a real symmetric tridiagonal matrix, then implicit QL with
 /// Wilkinson-type shifts (Golub and Van Loan, Matrix Computations, 4th ed., sections 8.3.1 and 8.3.5;
 /// the QL recurrences as in Press et al., Numerical Recipes, 3rd ed., section 11.4 "tqli"; from memory).
@@ -24,27 +24,60 @@ internal static class BatchTridiagonal
     // taken as the identity: the bulge it would chase is below 1e-150 ||A||.
     private const double TinySquare = 1e-300;
 
-    /// <summary>Work space (vectors) that <see cref="Eigenvalues{TLanes}"/> needs besides the two matrices.</summary>
-    public static int WorkspaceLength(int n) => 8 * n;
+    /// <summary>Work space (vectors) that <see cref="Solve{TLanes}"/> needs besides the two matrices and their vectors.</summary>
+    public static int WorkspaceLength(int n, bool wantVectors) => wantVectors ? (2 * n * n) + (14 * n) : 8 * n;
 
     /// <summary>
     /// The eigenvalues of each lane's matrix of two groups, unsorted: group A's into work[0..n-1], group
-    /// B's into work[2n..3n-1]. re/im hold each group's upper triangle (i &lt;= j at i * n + j, diagonal
-    /// real) and are overwritten. The two groups' QL recurrences run interleaved: each is a chain of
-    /// dependent square roots and divisions, and the other group's fills the gaps its latency leaves.
+    /// B's into work[2n..3n-1], and when <paramref name="vreA"/> is not empty the eigenvectors (column j of
+    /// vre/vim belongs to eigenvalue j). re/im hold each group's upper triangle (i &lt;= j at i * n + j,
+    /// diagonal real) and are overwritten. The two groups' QL recurrences run interleaved: each is a
+    /// chain of dependent square roots and divisions, and the other group's fills the gaps its latency leaves.
     /// </summary>
     /// <exception cref="EigenSolverException">The QL iteration did not converge.</exception>
-    public static void Eigenvalues<TLanes>(Span<TLanes> reA, Span<TLanes> imA, Span<TLanes> reB, Span<TLanes> imB, int n, Span<TLanes> work)
+    public static void Solve<TLanes>(
+        Span<TLanes> reA, Span<TLanes> imA, Span<TLanes> reB, Span<TLanes> imB, int n, Span<TLanes> work,
+        Span<TLanes> vreA, Span<TLanes> vimA, Span<TLanes> vreB, Span<TLanes> vimB)
         where TLanes : unmanaged, ILanes<TLanes>
     {
+        var wantVectors = !vreA.IsEmpty;
+        var nn = n * n;
         var dA = work[..n];
         var eA = work.Slice(n, n);
         var dB = work.Slice(2 * n, n);
         var eB = work.Slice(3 * n, n);
         var scratch = work.Slice(4 * n, 4 * n);
-        Reduce(reA, imA, n, dA, eA, scratch);
-        Reduce(reB, imB, n, dB, eB, scratch);
-        Diagonalize(dA, eA, dB, eB, n);
+        Span<TLanes> tauA = [], tauB = [], phaseA = [], phaseB = [], zA = [], zB = [];
+        if (wantVectors)
+        {
+            tauA = work.Slice(8 * n, n);
+            tauB = work.Slice(9 * n, n);
+            phaseA = work.Slice(10 * n, 2 * n);
+            phaseB = work.Slice(12 * n, 2 * n);
+            zA = work.Slice(14 * n, nn);
+            zB = work.Slice((14 * n) + nn, nn);
+            SetIdentity(zA, n);
+            SetIdentity(zB, n);
+        }
+
+        Reduce(reA, imA, n, dA, eA, scratch, tauA, phaseA);
+        Reduce(reB, imB, n, dB, eB, scratch, tauB, phaseB);
+        Diagonalize(dA, eA, zA, dB, eB, zB, n);
+        if (wantVectors)
+        {
+            BackTransform(reA, imA, n, tauA, phaseA, zA, vreA, vimA);
+            BackTransform(reB, imB, n, tauB, phaseB, zB, vreB, vimB);
+        }
+    }
+
+    private static void SetIdentity<TLanes>(Span<TLanes> z, int n)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        z.Clear();
+        for (var i = 0; i < n; i++)
+        {
+            z[(i * n) + i] = TLanes.One;
+        }
     }
 
     /// <summary>
@@ -52,11 +85,21 @@ internal static class BatchTridiagonal
     /// e[k] the coupling of k and k + 1 made real and non-negative (by a diagonal unitary, which no
     /// eigenvalue sees), e[n - 1] = 0. Step k reflects column k below the diagonal onto a multiple of e_1
     /// with u = x + unit s e_1 (no cancellation), then B -= u q^H + q u^H on the trailing block's upper
-    /// triangle with p = t B u, q = p - (t/2)(u^H p) u, t = 1 / (s (s + |x_0|)).
+    /// triangle with p = t B u, q = p - (t/2)(u^H p) u, t = 1 / (s (s + |x_0|)). For vectors (tau not
+    /// empty) u replaces row k of the upper triangle, t goes to tau[k], and phase (re at 2i, im at 2i + 1)
+    /// gets the diagonal unitary D with D^H T D real: phase_(k+1) = phase_k alpha_k / |alpha_k|, alpha_k
+    /// the complex coupling the reflection leaves.
     /// </summary>
-    private static void Reduce<TLanes>(Span<TLanes> re, Span<TLanes> im, int n, Span<TLanes> d, Span<TLanes> e, Span<TLanes> scratch)
+    private static void Reduce<TLanes>(Span<TLanes> re, Span<TLanes> im, int n, Span<TLanes> d, Span<TLanes> e, Span<TLanes> scratch, Span<TLanes> tau, Span<TLanes> phase)
         where TLanes : unmanaged, ILanes<TLanes>
     {
+        var wantVectors = !tau.IsEmpty;
+        if (wantVectors)
+        {
+            phase[0] = TLanes.One;
+            phase[1] = TLanes.Zero;
+        }
+
         var ur = scratch[..n];
         var ui = scratch.Slice(n, n);
         var pr = scratch.Slice(2 * n, n);
@@ -83,7 +126,6 @@ internal static class BatchTridiagonal
             var x0i = ui[0];
             var absX0 = TLanes.Sqrt((x0r * x0r) + (x0i * x0i));
             var s = TLanes.Sqrt(sumSquares);
-            e[k] = s;
 
             // unit = x0 / |x0| (1 where x0 = 0); the reflection is unitary whatever unit is, since only
             // |u_0| = |x0| + s enters u^H u = 2 s (s + |x0|).
@@ -95,9 +137,27 @@ internal static class BatchTridiagonal
             ur[0] = unitR * lift;
             ui[0] = unitI * lift;
 
-            // A negligible column is left as it is (t = 0 makes the update zero); e[k] = s is its size.
+            // A negligible column is left as it is (t = 0 makes the update zero): its coupling is x0 and
+            // the rest (below 1e-140 ||A||) is dropped. Otherwise the reflection leaves alpha = -unit s.
             var skip = TLanes.LessThanOrEqual(s, negligible);
             var t = TLanes.Select(skip, TLanes.Zero, TLanes.Reciprocal(TLanes.Select(skip, TLanes.One, s * lift)));
+            e[k] = TLanes.Select(skip, absX0, s);
+            if (wantVectors)
+            {
+                tau[k] = t;
+                for (var j = 0; j < m; j++)
+                {
+                    re[row + j] = ur[j];
+                    im[row + j] = ui[j];
+                }
+
+                var alphaR = TLanes.Select(skip, unitR, -unitR);
+                var alphaI = TLanes.Select(skip, unitI, -unitI);
+                var pr0 = phase[2 * k];
+                var pi0 = phase[(2 * k) + 1];
+                phase[2 * (k + 1)] = (pr0 * alphaR) - (pi0 * alphaI);
+                phase[(2 * (k + 1)) + 1] = (pr0 * alphaI) + (pi0 * alphaR);
+            }
 
             // p = B u on the trailing block, from its upper triangle: each stored b_ij (j > i) adds
             // b_ij u_j to p_i and conj(b_ij) u_i to p_j.
@@ -165,9 +225,73 @@ internal static class BatchTridiagonal
 
         var last = ((n - 2) * n) + n - 1;
         d[n - 2] = re[last - 1];
-        e[n - 2] = TLanes.Sqrt((re[last] * re[last]) + (im[last] * im[last]));
+        var magnitude = TLanes.Sqrt((re[last] * re[last]) + (im[last] * im[last]));
+        e[n - 2] = magnitude;
         d[n - 1] = re[last + n];
         e[n - 1] = TLanes.Zero;
+        if (wantVectors)
+        {
+            // alpha = a_(n-1, n-2) = conj of the stored a_(n-2, n-1).
+            var zero = TLanes.Equal(magnitude, TLanes.Zero);
+            var inverse = TLanes.Reciprocal(TLanes.Select(zero, TLanes.One, magnitude));
+            var alphaR = TLanes.Select(zero, TLanes.One, re[last] * inverse);
+            var alphaI = TLanes.Select(zero, TLanes.Zero, -(im[last] * inverse));
+            var pr0 = phase[2 * (n - 2)];
+            var pi0 = phase[(2 * (n - 2)) + 1];
+            phase[2 * (n - 1)] = (pr0 * alphaR) - (pi0 * alphaI);
+            phase[(2 * (n - 1)) + 1] = (pr0 * alphaI) + (pi0 * alphaR);
+            tau[n - 2] = TLanes.Zero;
+            tau[n - 1] = TLanes.Zero;
+        }
+    }
+
+    /// <summary>
+    /// Eigenvector j of each lane's matrix from row j of z (its eigenvector of the real tridiagonal T):
+    /// v = Q D z, the phases first, then the reflections from the last to the first (x -= t (u^H x) u),
+    /// into column j of vre/vim.
+    /// </summary>
+    private static void BackTransform<TLanes>(Span<TLanes> re, Span<TLanes> im, int n, Span<TLanes> tau, Span<TLanes> phase, Span<TLanes> z, Span<TLanes> vre, Span<TLanes> vim)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        for (var j = 0; j < n; j++)
+        {
+            for (var i = 0; i < n; i++)
+            {
+                var zji = z[(j * n) + i];
+                vre[(i * n) + j] = phase[2 * i] * zji;
+                vim[(i * n) + j] = phase[(2 * i) + 1] * zji;
+            }
+
+            for (var k = n - 3; k >= 0; k--)
+            {
+                var t = tau[k];
+                var row = (k * n) + k + 1;
+                var m = n - k - 1;
+                var dotR = TLanes.Zero;
+                var dotI = TLanes.Zero;
+                for (var q = 0; q < m; q++)
+                {
+                    // u^H x
+                    var ur = re[row + q];
+                    var ui = im[row + q];
+                    var xr = vre[((k + 1 + q) * n) + j];
+                    var xi = vim[((k + 1 + q) * n) + j];
+                    dotR = TLanes.MultiplyAdd(ur, xr, TLanes.MultiplyAdd(ui, xi, dotR));
+                    dotI = TLanes.MultiplyAdd(ur, xi, TLanes.MultiplyAdd(-ui, xr, dotI));
+                }
+
+                var gr = t * dotR;
+                var gi = t * dotI;
+                for (var q = 0; q < m; q++)
+                {
+                    var ur = re[row + q];
+                    var ui = im[row + q];
+                    var at = ((k + 1 + q) * n) + j;
+                    vre[at] -= (gr * ur) - (gi * ui);
+                    vim[at] -= (gr * ui) + (gi * ur);
+                }
+            }
+        }
     }
 
     /// <summary>
@@ -176,7 +300,7 @@ internal static class BatchTridiagonal
     /// unreduced block l..m (m: its first negligible coupling at or after l); steps outside a lane's
     /// block are masked, and a lane restarts the recurrence where its block begins.
     /// </summary>
-    private static void Diagonalize<TLanes>(Span<TLanes> dA, Span<TLanes> eA, Span<TLanes> dB, Span<TLanes> eB, int n)
+    private static void Diagonalize<TLanes>(Span<TLanes> dA, Span<TLanes> eA, Span<TLanes> zA, Span<TLanes> dB, Span<TLanes> eB, Span<TLanes> zB, int n)
         where TLanes : unmanaged, ILanes<TLanes>
     {
         var negligibleA = Epsilon * Scale(dA, eA, n);
@@ -216,8 +340,8 @@ internal static class BatchTridiagonal
                 {
                     var index = TLanes.Create(i);
                     var next = TLanes.Create(i + 1);
-                    Step(dA, eA, i, TLanes.LessThan(index, splitA), TLanes.LessThan(next, splitA), shiftA, tiny, ref sA, ref cA, ref pA, ref gA);
-                    Step(dB, eB, i, TLanes.LessThan(index, splitB), TLanes.LessThan(next, splitB), shiftB, tiny, ref sB, ref cB, ref pB, ref gB);
+                    Step(dA, eA, zA, n, i, TLanes.LessThan(index, splitA), TLanes.LessThan(next, splitA), shiftA, tiny, ref sA, ref cA, ref pA, ref gA);
+                    Step(dB, eB, zB, n, i, TLanes.LessThan(index, splitB), TLanes.LessThan(next, splitB), shiftB, tiny, ref sB, ref cB, ref pB, ref gB);
                 }
 
                 dA[l] = TLanes.Select(activeA, dA[l] - pA, dA[l]);
@@ -271,10 +395,11 @@ internal static class BatchTridiagonal
     /// One rotation of the QL step at i: (s, c) zero the bulge f = s e[i] against g, then d[i + 1],
     /// e[i + 1] and the recurrence's p and g move on. <paramref name="live"/>: lanes whose block contains
     /// i; <paramref name="inside"/>: lanes whose block contains i + 1 (e[m] itself, the split, is never
-    /// written: it stays the negligible coupling it was).
+    /// written: it stays the negligible coupling it was). With vectors, rows i and i + 1 of z turn by
+    /// the same rotation (the identity in lanes that are not live).
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    private static void Step<TLanes>(Span<TLanes> d, Span<TLanes> e, int i, TLanes live, TLanes inside, TLanes shift, TLanes tiny, ref TLanes s, ref TLanes c, ref TLanes p, ref TLanes g)
+    private static void Step<TLanes>(Span<TLanes> d, Span<TLanes> e, Span<TLanes> z, int n, int i, TLanes live, TLanes inside, TLanes shift, TLanes tiny, ref TLanes s, ref TLanes c, ref TLanes p, ref TLanes g)
         where TLanes : unmanaged, ILanes<TLanes>
     {
         var ei = e[i];
@@ -292,6 +417,21 @@ internal static class BatchTridiagonal
         var r2 = TLanes.MultiplyAdd(d[i] - g2, sNew, 2.0 * cNew * b);
         var pNew = sNew * r2;
         d[i + 1] = TLanes.Select(live, g2 + pNew, di1);
+        if (!z.IsEmpty)
+        {
+            var sz = TLanes.Select(live, sNew, TLanes.Zero);
+            var cz = TLanes.Select(live, cNew, TLanes.One);
+            var upper = z.Slice(i * n, n);
+            var lower = z.Slice((i + 1) * n, n);
+            for (var k = 0; k < n; k++)
+            {
+                var zi = upper[k];
+                var zi1 = lower[k];
+                lower[k] = TLanes.MultiplyAdd(sz, zi, cz * zi1);
+                upper[k] = TLanes.MultiplyAdd(cz, zi, -(sz * zi1));
+            }
+        }
+
 
         // Before its block begins, a lane keeps the state of a fresh start at i.
         s = TLanes.Select(live, sNew, TLanes.One);

@@ -90,11 +90,6 @@ public static partial class HermitianEigenSolver
         }
 
         var chosen = method ?? BatchPlan.Choose(n, wantVectors, width);
-        if (chosen == BatchMethod.Tridiagonal && wantVectors)
-        {
-            throw new ArgumentException("The lane-parallel Householder + QL path forms eigenvalues only.", nameof(method));
-        }
-
         if (chosen == BatchMethod.Jacobi && n > BatchJacobi.MaxOrder)
         {
             throw new ArgumentException($"The lane-parallel Jacobi path takes orders up to {BatchJacobi.MaxOrder}; got {n}.", nameof(method));
@@ -142,7 +137,7 @@ public static partial class HermitianEigenSolver
     {
         if (method == BatchMethod.Tridiagonal)
         {
-            SolveGroupPairsTridiagonal<TLanes>(matrices, n, count, values);
+            SolveGroupPairsTridiagonal<TLanes>(matrices, n, count, values, vectors);
             return;
         }
 
@@ -174,19 +169,29 @@ public static partial class HermitianEigenSolver
         }
     }
 
-    /// <summary>Householder + QL in lanes, two groups at a time (a last odd group runs beside an empty one, which costs no steps).</summary>
-    private static void SolveGroupPairsTridiagonal<TLanes>(ReadOnlySpan<Complex> matrices, int n, int count, Span<double> values)
+    /// <summary>Householder + QL in lanes, two groups at a time (a last odd group runs beside an empty one, which costs no QL steps).</summary>
+    private static void SolveGroupPairsTridiagonal<TLanes>(ReadOnlySpan<Complex> matrices, int n, int count, Span<double> values, Span<Complex> vectors)
         where TLanes : unmanaged, ILanes<TLanes>
     {
         var nn = n * n;
         var lanes = TLanes.Count;
-        var work = Workspace<TLanes>((6 * nn) + BatchTridiagonal.WorkspaceLength(n));
+        var wantVectors = !vectors.IsEmpty;
+        var work = Workspace<TLanes>((wantVectors ? 10 * nn : 6 * nn) + BatchTridiagonal.WorkspaceLength(n, wantVectors));
         var reA = work[..nn];
         var imA = work.Slice(nn, nn);
         var reB = work.Slice(2 * nn, nn);
         var imB = work.Slice(3 * nn, nn);
         var raw = work.Slice(4 * nn, 2 * nn);
-        var kernel = work[(6 * nn)..];
+        Span<TLanes> vreA = [], vimA = [], vreB = [], vimB = [];
+        if (wantVectors)
+        {
+            vreA = work.Slice(6 * nn, nn);
+            vimA = work.Slice(7 * nn, nn);
+            vreB = work.Slice(8 * nn, nn);
+            vimB = work.Slice(9 * nn, nn);
+        }
+
+        var kernel = work[((wantVectors ? 10 : 6) * nn)..];
         Span<int> exponentsA = stackalloc int[MaxBatchLanes];
         Span<int> exponentsB = stackalloc int[MaxBatchLanes];
         for (var first = 0; first < count; first += 2 * lanes)
@@ -195,11 +200,11 @@ public static partial class HermitianEigenSolver
             var usedB = Math.Min(lanes, count - first - usedA);
             Load(matrices.Slice(first * nn, usedA * nn), n, usedA, reA, imA, raw, exponentsA);
             Load(matrices.Slice((first + usedA) * nn, usedB * nn), n, usedB, reB, imB, raw, exponentsB);
-            BatchTridiagonal.Eigenvalues(reA, imA, reB, imB, n, kernel);
-            Unload(kernel[..n], [], [], n, usedA, exponentsA, values.Slice(first * n, usedA * n), []);
+            BatchTridiagonal.Solve(reA, imA, reB, imB, n, kernel, vreA, vimA, vreB, vimB);
+            Unload(kernel[..n], vreA, vimA, n, usedA, exponentsA, values.Slice(first * n, usedA * n), wantVectors ? vectors.Slice(first * nn, usedA * nn) : []);
             if (usedB > 0)
             {
-                Unload(kernel.Slice(2 * n, n), [], [], n, usedB, exponentsB, values.Slice((first + usedA) * n, usedB * n), []);
+                Unload(kernel.Slice(2 * n, n), vreB, vimB, n, usedB, exponentsB, values.Slice((first + usedA) * n, usedB * n), wantVectors ? vectors.Slice((first + usedA) * nn, usedB * nn) : []);
             }
         }
     }

@@ -30,6 +30,8 @@ public sealed class HermitianEigenSolverBatchTests
 
     private static readonly (SimdWidth Width, BatchMethod Method)[] VectorPaths =
     [
+        (SimdWidth.Bits512, BatchMethod.Tridiagonal),
+        (SimdWidth.Bits256, BatchMethod.Tridiagonal),
         (SimdWidth.Bits512, BatchMethod.Jacobi),
         (SimdWidth.Bits256, BatchMethod.Jacobi),
         (SimdWidth.Scalar, BatchMethod.OneByOne),
@@ -106,9 +108,8 @@ public sealed class HermitianEigenSolverBatchTests
             Some.HermitianWithSpectrum(spectra[m], seed: 8100 + m).CopyTo(matrices, m * n * n);
         }
 
-        foreach (var (width, method) in ValuePaths.Concat(VectorPaths))
+        foreach (var (width, method, wantVectors) in ValuePaths.Select(p => (p.Width, p.Method, false)).Concat(VectorPaths.Select(p => (p.Width, p.Method, true))))
         {
-            var wantVectors = method != BatchMethod.Tridiagonal && VectorPaths.Contains((width, method));
             var values = new double[spectra.Length * n];
             var vectors = new Complex[wantVectors ? spectra.Length * n * n : 0];
             HermitianEigenSolver.SolveBatch(matrices, n, spectra.Length, values, vectors, width, method);
@@ -128,7 +129,7 @@ public sealed class HermitianEigenSolverBatchTests
     }
 
     [Fact]
-    public void TridiagonalPath_HandlesMatricesThatAreAlreadyTridiagonalOrBlockDiagonal()
+    public void TridiagonalPath_HandlesMatricesThatAreAlreadyTridiagonalOrBlockDiagonal_WithAndWithoutVectors()
     {
         // Exact zeros below the first off-diagonal (negligible Householder columns) and a split in the
         // middle of the tridiagonal (lanes deflate at different places), beside a dense lane.
@@ -156,11 +157,18 @@ public sealed class HermitianEigenSolverBatchTests
         foreach (var width in new[] { SimdWidth.Bits256, SimdWidth.Bits512 })
         {
             var values = new double[stack.Length * n];
+            var vectors = new Complex[stack.Length * n * n];
             HermitianEigenSolver.SolveBatch(matrices, n, stack.Length, values, [], width, BatchMethod.Tridiagonal);
+            var withVectors = new double[stack.Length * n];
+            HermitianEigenSolver.SolveBatch(matrices, n, stack.Length, withVectors, vectors, width, BatchMethod.Tridiagonal);
             for (var m = 0; m < stack.Length; m++)
             {
                 var expected = Some.ToMathNet(stack[m], n).Evd(Symmetricity.Hermitian).EigenValues.Select(v => v.Real).Order().ToArray(); // reference: MathNet Evd
-                Tolerance.AssertAllClose(expected, values.AsSpan(m * n, n), 0.0, Bound * EigenPairChecks.SpectralNorm(expected), $"matrix {m}, {width}");
+                var norm = EigenPairChecks.SpectralNorm(expected);
+                Tolerance.AssertAllClose(expected, values.AsSpan(m * n, n), 0.0, Bound * norm, $"matrix {m}, {width}");
+                Tolerance.AssertAllClose(expected, withVectors.AsSpan(m * n, n), 0.0, Bound * norm, $"matrix {m}, {width}, with vectors");
+                Tolerance.AssertAtMost(Bound * norm, EigenPairChecks.MaxResidual(stack[m], n, withVectors.AsSpan(m * n, n), vectors.AsSpan(m * n * n, n * n)), $"residual, matrix {m}, {width}");
+                Tolerance.AssertAtMost(Bound, EigenPairChecks.OrthonormalityError(vectors.AsSpan(m * n * n, n * n), n), $"|V^H V - I|, matrix {m}, {width}");
             }
         }
     }
