@@ -26,6 +26,12 @@ def check(label, value, limit):
 
 
 rows = []
+
+
+def cpu_ratio(peer_cpu, ours_cpu):
+    """The ratio of process CPU times too: on a busy machine it moves far less than the wall-clock one."""
+    return f"CPU {peer_cpu / ours_cpu:.2f}x; " if peer_cpu and ours_cpu else ""
+
 # (a) eigenvalues: same matrices, per-matrix times, values agree to 1e-12 ||A||.
 ours, peer = load("ours_eigen.json"), load("peer_eigen.json")
 if ours and peer:
@@ -39,9 +45,12 @@ if ours and peer:
         err = (np.abs(wo - wp).max(axis=1) / scale).max()
         rows.append((f"(a) {n}x{n} eigenvalues", f"{o['values_us_per_matrix']:.3f} us", f"{p['values_us_per_matrix']:.3f} us",
                      p["values_us_per_matrix"] / o["values_us_per_matrix"],
-                     f"[{o.get('values_path', '?')}] max|dl|/||A|| " + check(f"eigen {n} values", err, 1e-12)))
+                     cpu_ratio(p.get("values_cpu_us_per_matrix"), o.get("values_cpu_us_per_matrix"))
+                     + f"[{o.get('values_path', '?')}] max|dl|/||A|| " + check(f"eigen {n} values", err, 1e-12)))
         rows.append((f"(a) {n}x{n} with vectors", f"{o['vectors_us_per_matrix']:.3f} us", f"{p['vectors_us_per_matrix']:.3f} us",
-                     p["vectors_us_per_matrix"] / o["vectors_us_per_matrix"], f"[{o.get('vectors_path', '?')}] (residuals: unit tests)"))
+                     p["vectors_us_per_matrix"] / o["vectors_us_per_matrix"],
+                     cpu_ratio(p.get("vectors_cpu_us_per_matrix"), o.get("vectors_cpu_us_per_matrix"))
+                     + f"[{o.get('vectors_path', '?')}] (residuals: unit tests)"))
 
 
 def thermal_errors(o, p, tmin, label, limit):
@@ -74,7 +83,7 @@ if ours and peer:
     oo = states_below(o["dos_frequency_thz"], o["dos_total"], e)
     cum_err = float(np.abs(po - oo).max() / po[-1])
     rows.append(("(b) bulk 48^3 two-site fcc", f"{o['median_s']:.3f} s", f"{p['median_s']:.3f} s", p["median_s"] / o["median_s"],
-                 "integrated DOS max diff/3r " + check("bulk integrated DOS", cum_err, 5e-3) + "; "
+                 cpu_ratio(p.get("median_cpu_s"), o.get("median_cpu_s")) + "integrated DOS max diff/3r " + check("bulk integrated DOS", cum_err, 5e-3) + "; "
                  + thermal_errors(o, p, 50.0, "bulk thermal", 2e-3)))
     bulk_per_q = o["median_s"] / o["q_points_solved"]
 else:
@@ -87,7 +96,8 @@ for case, title in (("finite-chain", "(c) finite chain 1e7 cells"), ("finite-3d"
     o = ours["result"]
     plain = o["plain_sum_check"]
     worst_plain = max(plain["worst_relative_error"].values())
-    note = (f"vs plain exact sum over the same eigenvalues ({plain['temperatures_checked']} T): "
+    note = (cpu_ratio(peer["result"].get("median_cpu_s") if peer else None, o.get("median_cpu_s"))
+            + f"vs plain exact sum over the same eigenvalues ({plain['temperatures_checked']} T): "
             + check(f"{case} vs plain sum", worst_plain, 1e-9))
     note += f"; peak memory {o['peak_working_set_bytes'] / 2**20:.0f} MiB"
     if case == "finite-chain":
@@ -137,7 +147,10 @@ ours_any = next((x for x in (load(f"ours_{c}.json") for c in ("eigen", "bulk", "
 if machine:
     print(f"machine: {machine['cpu']} ({machine.get('cpu_family_model')}), {machine['kind']}; vector extensions: "
           f"{' '.join(machine['vector_extensions'])}; {machine['cores']} cores, {machine['memory_gib']} GiB")
-    print(f"load average (1, 5, 15 min) at start {machine.get('load_start')}, at end {machine.get('load_end')}")
+    if machine.get("kind_as_run"):
+        print(f"as run: {machine['kind_as_run']}")
+    loads = [", ".join(f"{x:.1f}" for x in machine[k]) if machine.get(k) else "?" for k in ("load_start", "load_end")]
+    print(f"load average (1, 5, 15 min) at start {loads[0]}, at end {loads[1]}")
 if ours_any:
     print(f"ours: {ours_any['runtime']}, batched kernels {ours_any.get('simd_width', '?')}")
 blas = load("peer_blas.json")

@@ -56,12 +56,20 @@ def main():
             "cores": os.cpu_count(),
             "memory_gib": round(os.sysconf("SC_PAGE_SIZE") * os.sysconf("SC_PHYS_PAGES") / 2**30, 1),
         })
+    # Settings that change what our side runs: the runtime can hide AVX-512 or AVX2 from .NET (the way
+    # to measure the narrower paths on a wider processor), and LATSWEEP_SIMD_WIDTH forces our width.
+    settings = {k: v for k, v in os.environ.items() if k in ("DOTNET_EnableAVX512", "DOTNET_EnableAVX2", "DOTNET_EnableHWIntrinsic", "LATSWEEP_SIMD_WIDTH")}
+    data["settings"] = settings
+    if settings.get("DOTNET_EnableAVX512") == "0" and "avx512f" in data.get("vector_extensions", []):
+        data["kind_as_run"] = "AVX-512 hidden from .NET (DOTNET_EnableAVX512=0): our side runs as on an AVX2 processor"
     data[f"load_{moment}"] = list(os.getloadavg())
     with open(out, "w") as fh:
         json.dump(data, fh)
     print(f"machine: {data['cpu']} ({data.get('cpu_family_model')}), {data['kind']}: "
           f"{' '.join(data['vector_extensions'])}; {data['cores']} cores, {data['memory_gib']} GiB; "
-          f"load average at {moment}: {' '.join(f'{x:.1f}' for x in data[f'load_{moment}'])}")
+          f"load average at {moment}: {' '.join(f'{x:.1f}' for x in data[f'load_{moment}'])}"
+          + (f"; {data['kind_as_run']}" if data.get("kind_as_run") else "")
+          + (f"; settings {settings}" if settings else ""))
 
 
 if __name__ == "__main__":
