@@ -21,9 +21,6 @@ internal interface ILanes<TSelf>
     /// <summary>Lane k from values[k]; values has at least <see cref="Count"/> elements.</summary>
     static abstract TSelf Create(ReadOnlySpan<double> values);
 
-    /// <summary>Lane k is k (for comparisons with per-lane indices).</summary>
-    static abstract TSelf Indices { get; }
-
     static abstract TSelf operator +(TSelf a, TSelf b);
 
     static abstract TSelf operator -(TSelf a, TSelf b);
@@ -41,8 +38,6 @@ internal interface ILanes<TSelf>
 
     static abstract TSelf Max(TSelf a, TSelf b);
 
-    static abstract TSelf Min(TSelf a, TSelf b);
-
     static abstract TSelf Sqrt(TSelf a);
 
     /// <summary>1 / a to about one ulp.</summary>
@@ -56,8 +51,6 @@ internal interface ILanes<TSelf>
     static abstract TSelf LessThanOrEqual(TSelf a, TSelf b);
 
     static abstract TSelf Equal(TSelf a, TSelf b);
-
-    static abstract TSelf And(TSelf a, TSelf b);
 
     static abstract TSelf Or(TSelf a, TSelf b);
 

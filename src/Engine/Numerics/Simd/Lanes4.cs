@@ -17,8 +17,6 @@ internal readonly struct Lanes4 : ILanes<Lanes4>
 
     public static Lanes4 One => new(Vector256<double>.One);
 
-    public static Lanes4 Indices => new(Vector256.Create(0.0, 1.0, 2.0, 3.0));
-
     public double this[int lane] => _v.GetElement(lane);
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -52,9 +50,6 @@ internal readonly struct Lanes4 : ILanes<Lanes4>
     public static Lanes4 Max(Lanes4 a, Lanes4 b) => new(Vector256.Max(a._v, b._v));
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public static Lanes4 Min(Lanes4 a, Lanes4 b) => new(Vector256.Min(a._v, b._v));
-
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes4 Sqrt(Lanes4 a) => new(Vector256.Sqrt(a._v));
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -77,9 +72,6 @@ internal readonly struct Lanes4 : ILanes<Lanes4>
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes4 Equal(Lanes4 a, Lanes4 b) => new(Vector256.Equals(a._v, b._v));
-
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public static Lanes4 And(Lanes4 a, Lanes4 b) => new(a._v & b._v);
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes4 Or(Lanes4 a, Lanes4 b) => new(a._v | b._v);

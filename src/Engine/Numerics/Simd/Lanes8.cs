@@ -18,8 +18,6 @@ internal readonly struct Lanes8 : ILanes<Lanes8>
 
     public static Lanes8 One => new(Vector512<double>.One);
 
-    public static Lanes8 Indices => new(Vector512.Create(0.0, 1.0, 2.0, 3.0, 4.0, 5.0, 6.0, 7.0));
-
     public double this[int lane] => _v.GetElement(lane);
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -51,9 +49,6 @@ internal readonly struct Lanes8 : ILanes<Lanes8>
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes8 Max(Lanes8 a, Lanes8 b) => new(Vector512.Max(a._v, b._v));
-
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public static Lanes8 Min(Lanes8 a, Lanes8 b) => new(Vector512.Min(a._v, b._v));
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes8 Sqrt(Lanes8 a) => new(Vector512.Sqrt(a._v));
@@ -98,9 +93,6 @@ internal readonly struct Lanes8 : ILanes<Lanes8>
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes8 Equal(Lanes8 a, Lanes8 b) => new(Vector512.Equals(a._v, b._v));
-
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public static Lanes8 And(Lanes8 a, Lanes8 b) => new(a._v & b._v);
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes8 Or(Lanes8 a, Lanes8 b) => new(a._v | b._v);

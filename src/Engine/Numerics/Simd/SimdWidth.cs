@@ -45,7 +45,7 @@ internal static class SimdWidths
         null or "" or "auto" => Hardware,
         "512" => SimdWidth.Bits512,
         "256" => SimdWidth.Bits256,
-        "scalar" or "1" => SimdWidth.Scalar,
+        "scalar" => SimdWidth.Scalar,
         _ => throw new InvalidOperationException(
             $"The environment variable {EnvironmentVariable} is '{setting}'; allowed: auto (or unset), 512, 256, scalar."),
     };
