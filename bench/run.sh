@@ -2,7 +2,8 @@
 # One command for the benchmarks: builds the engine's bench harness in Release, runs each case on our
 # side and on the NumPy peer with the same inputs (bench/cases.json), prints the ratios and checks that
 # both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue, the
-# default, and eigen-paths, which times every SIMD width and method of the eigen-solver per order, ours alone).
+# default; run only when named: eigen-paths, which times every SIMD width and method of the eigen-solver
+# per order, and "cost", which calibrates the Worker's run-time estimate, both ours alone).
 # LATSWEEP_SIMD_WIDTH=256|512|scalar forces our kernels' width (DOTNET_EnableAVX512=0 makes the runtime
 # behave as on a processor without AVX-512).
 # Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1).
@@ -61,6 +62,10 @@ for c in "${cases[@]}"; do
     # Ours against ours: the queue (latsweep run, embedded SQLite store) against the Engine alone.
     "$bench" queue --out "$results" --repeats "${QUEUE_REPEATS:-3}" --jobs "$here/queue" \
       --latsweep "$root/src/Worker/bin/Release/net10.0/latsweep"
+    continue
+  fi
+  if [ "$c" = cost ]; then
+    "$bench" cost --cases "$here/cases.json" --out "$results" --repeats "$repeats"
     continue
   fi
   "$bench" "$c" --cases "$here/cases.json" --out "$results" --repeats "$repeats"

@@ -37,7 +37,8 @@ internal static class Usage
                           on every machine
 
         SWEEP is a sweep id (as printed by run, submit and status) or a sweep name.
-        Exit codes: 0 all points done, 2 bad input, 3 some points failed, 130 interrupted.
+        Exit codes: 0 all points done, 2 bad input, 3 some points failed, 4 every point finished but
+        some models are unstable (no thermal numbers for them), 130 interrupted.
         Results are model estimates: check them against measurements before design decisions.
         """;
 }

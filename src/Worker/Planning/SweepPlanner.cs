@@ -98,6 +98,7 @@ internal static class SweepPlanner
             DuplicatePointsCollapsed = duplicates,
             Combine = CombineNames[sweep.Combine],
             CandidatesFile = candidateTable?.File,
+            WarnPointTimeS = sweep.WarnPointTimeS,
         };
     }
 
@@ -138,7 +139,8 @@ internal static class SweepPlanner
                 continue;
             }
 
-            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options), parameters);
+            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options),
+                parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value)));
             if (!seen.Add(id))
             {
                 duplicates++;
@@ -301,7 +303,7 @@ internal static class SweepPlanner
     }
 
     private static PlanAxis Axis(SweepField field, IReadOnlyList<object> values, RangeSource? interval) =>
-        new(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [.. values], interval);
+        new(field.Path, SweptColumnNames.Of(field.ColumnName), field.Unit, field.ValueType, field, [.. values], interval);
 
     private static CandidateBlock? ResolveCandidates(CandidatesDeclaration decl, CandidateTable table, FieldCatalog catalog, ProblemCollector problems)
     {
@@ -324,7 +326,7 @@ internal static class SweepPlanner
                 continue;
             }
 
-            columns.Add((index, new PlanAxis(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [], null)));
+            columns.Add((index, new PlanAxis(field.Path, SweptColumnNames.Of(field.ColumnName), field.Unit, field.ValueType, field, [], null)));
         }
 
         foreach (var keep in decl.Keep)
@@ -336,7 +338,7 @@ internal static class SweepPlanner
                 continue;
             }
 
-            columns.Add((index, new PlanAxis($"candidates.{keep}", ColumnNames.Snake(keep), "", AxisValueType.Text, null, [], null)));
+            columns.Add((index, new PlanAxis($"candidates.{keep}", SweptColumnNames.Of(ColumnNames.Snake(keep)), "", AxisValueType.Text, null, [], null)));
         }
 
         if (problems.Count > before)
