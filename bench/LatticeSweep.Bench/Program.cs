@@ -4,7 +4,7 @@ using System.Text.Json;
 using LatticeSweep.Bench;
 
 // Usage: LatticeSweep.Bench CASE --cases FILE --out DIR [--repeats K] [--check-temperatures EVERY]
-// CASE: eigen | bulk | finite-chain | finite-3d | queue | cost | surfaces-dense | surfaces-kpm |
+// CASE: eigen | eigen-paths | bulk | finite-chain | finite-3d | queue | cost | surfaces-dense | surfaces-kpm |
 // surfaces-kpm-denser | surfaces-memory (the surfaces-* cases take only --out). Each case runs in its own process so that its
 // peak memory is its own; bench/run.sh runs them all and compares with the NumPy peer.
 var argList = args.ToList();
@@ -34,15 +34,25 @@ var report = new Dictionary<string, object>
     ["avx2"] = Avx2.IsSupported,
     ["avx512f"] = Avx512F.IsSupported,
     ["vector512_accelerated"] = System.Runtime.Intrinsics.Vector512.IsHardwareAccelerated,
+    ["simd_width"] = LatticeSweep.Engine.Numerics.Simd.SimdWidths.Describe(LatticeSweep.Engine.Numerics.Simd.SimdWidths.Active),
 };
+Console.Error.WriteLine($"  batched kernels: {report["simd_width"]} (AVX2 {Avx2.IsSupported}, AVX-512F {Avx512F.IsSupported})");
 
 switch (caseName)
 {
     case "eigen":
         report["peak_gflops_one_core"] = PeakFlops.GflopsPerCore();
-        Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core (512-bit FMA)");
+        Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core ({(System.Runtime.Intrinsics.Vector512.IsHardwareAccelerated ? 512 : 256)}-bit FMA)");
         report["sizes"] = EigenCase.Run(cases, outDir, repeats);
         break;
+    case "eigen-paths":
+    {
+        var sizes = Option("--sizes", "2,3,4,6,9,12,15,18,24,32,48").Split(',').Select(x => int.Parse(x, System.Globalization.CultureInfo.InvariantCulture)).ToArray();
+        report["simd_width"] = LatticeSweep.Engine.Numerics.Simd.SimdWidths.Describe(LatticeSweep.Engine.Numerics.Simd.SimdWidths.Active);
+        report["sizes"] = EigenPathsCase.Run(Math.Max(3, repeats), sizes);
+        break;
+    }
+
     case "cost":
         report["cost"] = CostCase.Run(repeats);
         break;
@@ -120,7 +130,7 @@ switch (caseName)
     }
 
     default:
-        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, bulk, finite-chain, finite-3d, queue, cost or surfaces-dense|kpm|kpm-denser|memory");
+        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, eigen-paths, bulk, finite-chain, finite-3d, queue, cost or surfaces-dense|kpm|kpm-denser|memory");
         return 2;
 }
 
