@@ -3,8 +3,9 @@ namespace LatticeSweep.Engine.Samples;
 /// <summary>
 /// Settings of the kernel polynomial method (Chebyshev moments of the spectrum estimated with random
 /// vectors, Jackson kernel; Weisse, Wellein, Alvermann and Fehske, Rev. Mod. Phys. 78, 275 (2006)).
-/// The defaults keep Cv at 300 K and the integrated density of states within 1e-3 relative of a
-/// run with twice the moments and four times the vectors on the test clusters (see docs/surfaces.md).
+/// The defaults keep Cv (10 to 300 K) and the integrated density of states of a 10^5-atom free
+/// cluster within the reported standard error of a run with twice the moments and twice the vectors
+/// (bench/README.md, the surfaces cases).
 /// </summary>
 public sealed record KpmSettings
 {
