@@ -56,7 +56,7 @@ public static class SolveCommand
         if (result.Surface is { } surface)
         {
             stdout.WriteLine();
-            SurfaceTable(surface, result.Summary, fullPrecision).WriteTo(stdout);
+            SurfaceTable(surface, result.Summary, fullPrecision, result.Errors, result.Ordered?.Summary).WriteTo(stdout);
         }
 
         if (!result.Summary.Stable)
@@ -70,7 +70,7 @@ public static class SolveCommand
     }
 
     /// <summary>What a sample with boundaries, a shape or disorder adds to the summary.</summary>
-    internal static TextTable SurfaceTable(SurfaceResult f, PointSummary s, bool fullPrecision = false)
+    internal static TextTable SurfaceTable(SurfaceResult f, PointSummary s, bool fullPrecision = false, StatisticalErrors? errors = null, PointSummary? ordered = null)
     {
         string N(double? v) => v is { } x && !double.IsNaN(x) ? x.ToString(fullPrecision ? "R" : "G6", CultureInfo.InvariantCulture) : "n/a";
         var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
@@ -87,6 +87,26 @@ public static class SolveCommand
         t.Add("mean-square displacement, interior", N(f.MsdInteriorNm2), "nm^2");
         t.Add($"Cv of the periodic crystal ({f.PeriodicCells})", N(f.PeriodicCvAtReferenceJPerMolK), "J/(mol K)");
         t.Add("Cv ratio to periodic", N(f.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 && s.HeatCapacityJPerMolK is { } cv ? cv / p : null), "");
+        if (f.KpmMoments is { } moments)
+        {
+            t.Add("kernel polynomial moments / random vectors", $"{I(moments)} / {I(f.KpmRandomVectors ?? 0)}", "");
+            t.Add("kernel polynomial resolution near 0", N(f.KpmResolutionThz), "THz");
+        }
+
+        if (errors is not null)
+        {
+            // Averages over random vectors or configurations: their spread, so a reader sees what the digits above are worth.
+            t.Add($"standard errors over {I(errors.Samples)} {errors.Source}", "", "");
+            t.Add("  of Cv", N(errors.HeatCapacityJPerMolK), "J/(mol K)");
+            t.Add("  of entropy", N(errors.EntropyJPerMolK), "J/(mol K)");
+            t.Add("  of free energy", N(errors.FreeEnergyJPerMol), "J/mol");
+        }
+
+        if (ordered is not null)
+        {
+            t.Add("Cv of the ordered virtual crystal", N(ordered.HeatCapacityJPerMolK), "J/(mol K)");
+        }
+
         return t;
     }
 

@@ -111,6 +111,27 @@ public sealed class SurfaceRunTests : IDisposable
     }
 
     [Fact]
+    public void Solve_prints_the_kernel_polynomial_settings_and_the_standard_errors()
+    {
+        File.WriteAllText(_dir.Combine("job.toml"), SurfaceJobFileTests.FccJob("""
+            kind = "finite"
+            shape = { kind = "sphere", radius_nm = 0.9 }
+            method = "kpm"
+
+            [sample.kpm]
+            moments = 256
+            random_vectors = 4
+            """));
+        var solve = Support.Cli.Run(_dir.Path, "solve", "job.toml");
+        Assert.True(solve.ExitCode == 0, solve.Stdout + solve.Stderr);
+        Assert.Contains("kernel polynomial moments / random vectors", solve.Stdout, StringComparison.Ordinal);
+        Assert.Contains("256 / 4", solve.Stdout, StringComparison.Ordinal);
+        Assert.Contains("standard errors over 4 random vectors", solve.Stdout, StringComparison.Ordinal);
+        var cvError = solve.Stdout.Split('\n').Single(l => l.TrimStart().StartsWith("of Cv", StringComparison.Ordinal));
+        Assert.DoesNotContain("n/a", cvError, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void An_isotope_concentration_sweep_writes_averages_with_errors_beside_the_ordered_crystal()
     {
         var job = Path.Combine(_dir.Path, "isotopes.toml");
