@@ -184,16 +184,32 @@ internal sealed class TetrahedronBins
             var k = Vector256.Create((double)bin) + laneOffsets; // upper-edge indices bin + 1 .. bin + 4, exact
             var edge = start + (k * width);
 
-            var x1 = Vector256.Max(edge - a, Vector256<double>.Zero);
-            var n1 = x1 * x1 * x1 * k1;
-            var x2 = edge - b;
-            var n2 = (constant + (three * x2 * (e21 + x2)) - (k2 * x2 * x2 * x2)) * k3;
-            var y3 = Vector256.Max(d - edge, Vector256<double>.Zero);
-            var n3 = one - (y3 * y3 * y3 * k4);
+            // Most steps lie in one piece of N(E) (a tetrahedron spans ~20 bins, its middle piece
+            // often only a few): evaluate just that piece there, all three and select elsewhere.
+            Vector256<double> upper;
+            if (Edge(bin + 4) < p.B)
+            {
+                var x1 = Vector256.Max(edge - a, Vector256<double>.Zero);
+                upper = x1 * x1 * x1 * k1;
+            }
+            else if (Edge(bin + 1) >= p.C)
+            {
+                var y3 = Vector256.Max(d - edge, Vector256<double>.Zero);
+                upper = one - (y3 * y3 * y3 * k4);
+            }
+            else
+            {
+                var x1 = Vector256.Max(edge - a, Vector256<double>.Zero);
+                var n1 = x1 * x1 * x1 * k1;
+                var x2 = edge - b;
+                var n2 = (constant + (three * x2 * (e21 + x2)) - (k2 * x2 * x2 * x2)) * k3;
+                var y3 = Vector256.Max(d - edge, Vector256<double>.Zero);
+                var n3 = one - (y3 * y3 * y3 * k4);
+                upper = Vector256.ConditionalSelect(
+                    Vector256.LessThan(edge, b), n1,
+                    Vector256.ConditionalSelect(Vector256.LessThan(edge, c), n2, n3));
+            }
 
-            var upper = Vector256.ConditionalSelect(
-                Vector256.LessThan(edge, b), n1,
-                Vector256.ConditionalSelect(Vector256.LessThan(edge, c), n2, n3));
             upper = Vector256.ConditionalSelect(Vector256.GreaterThan(k, lastEdgeIndex), one, upper);
             var lower = Avx.Blend(Avx2.Permute4x64(upper, 0b10_01_00_00), carry, 0b0001);
             var amount = (upper - lower) * shareV;
