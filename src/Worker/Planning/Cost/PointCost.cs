@@ -111,6 +111,15 @@ public static class PointCost
                 return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, b.PointCount * n * simplices, temperatures * fineBins, conductivity);
             }
 
+            case RealSpaceSample:
+            {
+                // Dense blocks and the kernel polynomial method: the Engine's own flop estimate, counted at
+                // the measured rate of the conductivity's flop-equivalents (both are dense and sparse
+                // linear algebra of the same kind), plus the fixed per-point work.
+                var flops = PhononSolver.Estimate(model, sample, options).FlopEstimate;
+                return new Work(n3, 0, 0, 0, 0, 0, 0, temperatures * options.DosBins, conductivity + flops);
+            }
+
             default:
                 throw new ArgumentException($"unknown sample type {sample.GetType().Name}", nameof(sample));
         }
