@@ -69,7 +69,8 @@ public static class ElasticSpringFit
             springs.Add(new ShellSpring("X", "X", 2, fit.NextNearestNPerM));
         }
 
-        return CrystalModel.Create(lattice, [new Site("X", "X", Vec3.Zero, massAmu)], springs, degreesOfFreedom: degreesOfFreedom);
+        var model = CrystalModel.Create(lattice, [new Site("X", "X", Vec3.Zero, massAmu)], springs, degreesOfFreedom: degreesOfFreedom);
+        return model with { Fit = new ElasticModelFit(fit.NearestNPerM, null, includeNextNearest ? fit.NextNearestNPerM : null, fit.Given, fit.Reproduced, fit.RelativeResidual) };
     }
 
     /// <summary>

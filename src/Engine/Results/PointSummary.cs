@@ -1,4 +1,6 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.Elastic;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 
 namespace LatticeSweep.Engine.Results;
@@ -69,4 +71,16 @@ public sealed record PointSummary
 
     /// <summary>Cahill-Pohl-Watson minimum conductivity at the reference temperature, W/(m K); NaN when not computed.</summary>
     public double KappaMinWPerMK { get; init; } = double.NaN;
+
+    /// <summary>Lattice constant the point was solved at, nm (after any relaxation to the static minimum).</summary>
+    public double? LatticeConstantNm { get; init; }
+
+    /// <summary>C11, C12, C44 from the long-wave limit (cubic lattices only; see <see cref="LongWaveElasticity"/>).</summary>
+    public CubicElasticConstants? ElasticConstants { get; init; }
+
+    /// <summary>Static energy, pressure and equilibrium of a model built from potentials; null without potentials.</summary>
+    public StaticLatticeResult? StaticLattice { get; init; }
+
+    /// <summary>The fit of the model's springs to elastic constants, when a builder fitted them.</summary>
+    public ElasticModelFit? ElasticFit { get; init; }
 }

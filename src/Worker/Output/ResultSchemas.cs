@@ -217,6 +217,24 @@ internal sealed class ResultSchemas
             C<PointOutcome>("molar_mass_kg_per_mol", ColumnType.Double, "kg/mol", "mean molar mass of the atoms", o => S(o)?.MolarMassKgPerMol),
             C<PointOutcome>("dos_method", ColumnType.Text, "", "how the density of states was integrated", o => o.Result?.Dos.Method),
             .. ConductivitySummaryColumns(),
+            .. ElasticSummaryColumns(),
+        ];
+    }
+
+    /// <summary>The model's lattice constant, long-wave elastic constants and any fit of its springs to them.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ElasticSummaryColumns()
+    {
+        static PointSummary? S(PointOutcome o) => o.Result?.Summary;
+        return
+        [
+            C<PointOutcome>("lattice_constant_nm", ColumnType.Double, "nm", "lattice constant the point was solved at (after relaxation to the static minimum, when asked)", o => S(o)?.LatticeConstantNm),
+            C<PointOutcome>("c11_gpa", ColumnType.Double, "GPa", "C11 from the long-wave limit, internal strain included (cubic lattices; a model under static stress gives its stressed wave modulus)", o => S(o)?.ElasticConstants?.C11Gpa),
+            C<PointOutcome>("c12_gpa", ColumnType.Double, "GPa", "C12 from the long-wave limit (cubic lattices)", o => S(o)?.ElasticConstants?.C12Gpa),
+            C<PointOutcome>("c44_gpa", ColumnType.Double, "GPa", "C44 from the long-wave limit (cubic lattices)", o => S(o)?.ElasticConstants?.C44Gpa),
+            C<PointOutcome>("fit_stretch_n_per_m", ColumnType.Double, "N/m", "bond-stretch (nearest-neighbour) spring fitted to the given C11, C12, C44", o => S(o)?.ElasticFit?.StretchNPerM),
+            C<PointOutcome>("fit_bend_n_per_m", ColumnType.Double, "N/m", "bond-bend constant fitted to them (tetrahedral builder)", o => S(o)?.ElasticFit?.BendNPerM),
+            C<PointOutcome>("fit_next_nearest_n_per_m", ColumnType.Double, "N/m", "next-nearest spring fitted to them (elastic builder)", o => S(o)?.ElasticFit?.NextNearestNPerM),
+            C<PointOutcome>("fit_residual", ColumnType.Double, "1", "relative residual of the fit, ||C_model - C_given|| / ||C_given|| over C11, C12, C44", o => S(o)?.ElasticFit?.RelativeResidual),
         ];
     }
 

@@ -70,7 +70,7 @@ internal static class SweepPlanner
             .ToImmutableArray();
         var template = new JobTemplate(baseSpec, options, bindings);
 
-        var points = Expand(sweep, candidates, axes, columns, template, options, problems, out var duplicates);
+        var points = Expand(document, sweep, candidates, axes, columns, template, options, problems, out var duplicates);
         problems.ThrowIfAny();
 
         var axisInfos = columns.Select(c => new AxisInfo(
@@ -102,6 +102,7 @@ internal static class SweepPlanner
     }
 
     private static ImmutableArray<PlannedPoint> Expand(
+        TomlDocument document,
         SweepDeclaration sweep,
         CandidateBlock? candidates,
         IReadOnlyList<PlanAxis> axes,
@@ -115,6 +116,9 @@ internal static class SweepPlanner
         var seen = new HashSet<string>(StringComparer.Ordinal);
         var badCombinations = new List<string>();
         var badCount = 0;
+        var interactionProblems = new List<(string Key, string Message)>();
+        var interactionSeen = new HashSet<(string, string)>();
+        var interactionCount = 0;
         duplicates = 0;
         foreach (var values in SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes))
         {
@@ -138,6 +142,22 @@ internal static class SweepPlanner
                 continue;
             }
 
+            var found = InteractionProblems.Of(spec);
+            if (found.Count > 0)
+            {
+                interactionCount++;
+                foreach (var p in found)
+                {
+                    var message = parameters.Count == 0 ? p.Message : $"{p.Message} (at {Describe(parameters)})";
+                    if (interactionProblems.Count < MaxPointProblemsShown && interactionSeen.Add((p.Where, p.Message)))
+                    {
+                        interactionProblems.Add(("model." + p.Where, message));
+                    }
+                }
+
+                continue;
+            }
+
             var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options), parameters);
             if (!seen.Add(id))
             {
@@ -146,6 +166,16 @@ internal static class SweepPlanner
             }
 
             points.Add(provisional with { PointId = id });
+        }
+
+        foreach (var (key, message) in interactionProblems)
+        {
+            problems.Add(KeyLocator.Locate(document, key), key, message);
+        }
+
+        if (interactionCount > 1 && interactionProblems.Count > 0)
+        {
+            problems.Add(new SourceLocation(1, 1), "sweep.axes", $"{Show(interactionCount)} point(s) in all have problems with their bends or potentials");
         }
 
         foreach (var message in badCombinations)

@@ -46,6 +46,9 @@ internal sealed class FieldCatalog
             case ElasticSpec e:
                 c.AddElastic(e);
                 break;
+            case TetrahedralSpec t:
+                c.AddTetrahedral(t);
+                break;
         }
 
         c.AddSample(spec.Sample, spec.Model.Dimension);
@@ -155,6 +158,48 @@ internal sealed class FieldCatalog
             {
                 Number(p + ".transverse_n_per_m", Checks.SpringNPerM, (s, v) => SetBond(s, bi, x => x with { TransverseNPerM = v }));
             }
+        }
+
+        AddBends(m);
+    }
+
+    private void AddBends(LatticeModelSpec m)
+    {
+        for (var i = 0; i < m.Bends.Length; i++)
+        {
+            var bi = i;
+            var p = $"model.bends[{Index(i)}]";
+            Number(p + ".constant_n_per_m", Checks.SpringNPerM, (s, v) => SetBend(s, bi, x => x with { ConstantNPerM = v }));
+            if (m.Bends[i].SameEnds)
+            {
+                // A bend between two shells keeps its pair of shells: one number cannot say which to move.
+                Whole(p + ".shell", 1, ModelSectionReader.MaxShell, (s, v) => SetBend(s, bi, x => x with { Shell = v }));
+            }
+        }
+    }
+
+    private void AddTetrahedral(TetrahedralSpec t)
+    {
+        const string p = "model.tetrahedral.";
+        Number(p + "constant_nm", Checks.LengthNm, (s, v) => s with { Model = T(s) with { ConstantNm = v } });
+        Text(p + "element_a", Names.CheckElement, (s, v) => s with { Model = T(s) with { ElementA = v, MassAAmu = null } }, 0);
+        Number(p + "mass_a_amu", Checks.MassAmu, (s, v) => s with { Model = T(s) with { MassAAmu = v } });
+        if (t.Structure == Engine.Builders.TetrahedralStructure.ZincBlende)
+        {
+            Text(p + "element_b", Names.CheckElement, (s, v) => s with { Model = T(s) with { ElementB = v, MassBAmu = null } }, 0);
+            Number(p + "mass_b_amu", Checks.MassAmu, (s, v) => s with { Model = T(s) with { MassBAmu = v } });
+        }
+
+        if (t.Fitted)
+        {
+            Number(p + "c11_gpa", Checks.ModulusGpa, (s, v) => s with { Model = T(s) with { C11Gpa = v } });
+            Number(p + "c12_gpa", Checks.SignedModulusGpa, (s, v) => s with { Model = T(s) with { C12Gpa = v } });
+            Number(p + "c44_gpa", Checks.ModulusGpa, (s, v) => s with { Model = T(s) with { C44Gpa = v } });
+        }
+        else
+        {
+            Number(p + "stretch_n_per_m", Checks.SpringNPerM, (s, v) => s with { Model = T(s) with { StretchNPerM = v } });
+            Number(p + "bend_n_per_m", Checks.SpringNPerM, (s, v) => s with { Model = T(s) with { BendNPerM = v } });
         }
     }
 
@@ -310,6 +355,14 @@ internal sealed class FieldCatalog
     private static LayeredSpec Y(BoundSpec s) => (LayeredSpec)s.Model;
 
     private static ElasticSpec E(BoundSpec s) => (ElasticSpec)s.Model;
+
+    private static TetrahedralSpec T(BoundSpec s) => (TetrahedralSpec)s.Model;
+
+    private static BoundSpec SetBend(BoundSpec s, int i, Func<Engine.Interactions.BendSpring, Engine.Interactions.BendSpring> change)
+    {
+        var l = L(s);
+        return s with { Model = l with { Bends = l.Bends.SetItem(i, change(l.Bends[i])) } };
+    }
 
     private static BoundSpec SetSite(BoundSpec s, int i, Func<SiteSpec, SiteSpec> change)
     {

@@ -126,6 +126,13 @@ internal static class CanonicalSpec
                     sb.Append('\n');
                 }
 
+                foreach (var b in m.Bends)
+                {
+                    sb.Append("bend ").Append(Quote(b.CentreKind)).Append(' ').Append(Quote(b.EndKind)).Append(' ').Append(I(b.Shell))
+                        .Append(' ').Append(Quote(b.SecondKind)).Append(' ').Append(I(b.SecondShell))
+                        .Append(' ').Append(b.Form).Append(' ').Append(D(b.ConstantNPerM)).Append('\n');
+                }
+
                 break;
             case LayeredSpec l:
                 sb.Append("layers ").Append(l.Host).Append(" spacing=").Append(D(l.SpacingNm)).Append(" r=").Append(I(l.SitesPerCell))
@@ -141,6 +148,14 @@ internal static class CanonicalSpec
                     .Append(" element=").Append(e.Element is { } el ? Quote(el) : "-")
                     .Append(" c11=").Append(D(e.C11Gpa)).Append(" c12=").Append(D(e.C12Gpa)).Append(" c44=").Append(D(e.C44Gpa))
                     .Append(" nn2=").Append(e.NextNearest ? '1' : '0').Append('\n');
+                break;
+            case TetrahedralSpec t:
+                static string N(double? v) => v is { } x ? D(x) : "-";
+                sb.Append("tetrahedral ").Append(t.Structure).Append(" a=").Append(D(t.ConstantNm))
+                    .Append(" mass_a=").Append(N(t.MassAAmu)).Append(" element_a=").Append(t.ElementA is { } ea ? Quote(ea) : "-")
+                    .Append(" mass_b=").Append(N(t.MassBAmu)).Append(" element_b=").Append(t.ElementB is { } eb ? Quote(eb) : "-")
+                    .Append(" stretch=").Append(N(t.StretchNPerM)).Append(" bend=").Append(N(t.BendNPerM))
+                    .Append(" c11=").Append(N(t.C11Gpa)).Append(" c12=").Append(N(t.C12Gpa)).Append(" c44=").Append(N(t.C44Gpa)).Append('\n');
                 break;
         }
     }

@@ -17,7 +17,8 @@ internal static class EngineObjects
             m.Springs,
             m.Bonds,
             m.Motion,
-            m.ShellToleranceNm),
+            m.ShellToleranceNm,
+            m.Bends),
         LayeredSpec l => LayeredModelBuilder.Build(new LayeredModelSpec(
             l.Host,
             l.SpacingNm,
@@ -34,6 +35,7 @@ internal static class EngineObjects
             e.NextNearest,
             e.Motion,
             out _),
+        TetrahedralSpec t => BuildTetrahedral(t),
         _ => throw new ArgumentOutOfRangeException(nameof(model), model.GetType().Name, "unknown model spec"),
     };
 
@@ -58,6 +60,15 @@ internal static class EngineObjects
         var finite = FiniteSample.Create(c[0], c.Length > 1 ? c[1] : 1, c.Length > 2 ? c[2] : 1);
         finite.CheckAgainst(lattice);
         return finite;
+    }
+
+    private static CrystalModel BuildTetrahedral(TetrahedralSpec t)
+    {
+        var massA = MassOf(t.MassAAmu, t.ElementA, "model.tetrahedral.element_a");
+        var massB = t.Structure == TetrahedralStructure.Diamond ? massA : MassOf(t.MassBAmu, t.ElementB, "model.tetrahedral.element_b");
+        return t.Fitted
+            ? TetrahedralModelBuilder.BuildFitted(t.Structure, t.ConstantNm, massA, massB, new CubicElasticConstants(t.C11Gpa!.Value, t.C12Gpa!.Value, t.C44Gpa!.Value), t.Motion)
+            : TetrahedralModelBuilder.Build(new TetrahedralModelSpec(t.Structure, t.ConstantNm, massA, massB, t.StretchNPerM!.Value, t.BendNPerM!.Value, t.Motion));
     }
 
     private static Lattice BuildLattice(LatticeModelSpec m) => m.Lattice switch
