@@ -20,6 +20,13 @@ internal static class PotentialSprings
         for (var t = 0; t < model.Potentials.Length; t++)
         {
             var term = model.Potentials[t];
+            if (TooManyPairs(model, term.CutoffNm * 1e-9 / StaticLattice.SmallestScale) is { } count)
+            {
+                problems.Add(new(ModelProblemKind.TooLarge, $"potentials[{t}].cutoff_nm", string.Create(CultureInfo.InvariantCulture,
+                    $"a cutoff of {term.CutoffNm:G6} nm takes in about {count:G3} neighbours per site (at most {MaxPairsPerSite:G3}); lower cutoff_nm to a few neighbour shells")));
+                continue;
+            }
+
             var pairs = Pairs(model, positions, t, term.CutoffNm * 1e-9);
             if (pairs.Count == 0)
             {
@@ -34,6 +41,18 @@ internal static class PotentialSprings
                 blocks.Add(i, j, offset, ForceConstantBuilder.SpringTensor(d, potential.SecondDerivativeNPerM(r), potential.FirstDerivativeJPerM(r) / r, scalar));
             }
         }
+    }
+
+    /// <summary>Neighbours per site a cutoff may take in (a 2.5-sigma Lennard-Jones cutoff takes about 80 in fcc).</summary>
+    public const double MaxPairsPerSite = 20_000;
+
+    /// <summary>The rough number of partners per site within the radius when it exceeds <see cref="MaxPairsPerSite"/>, else null.</summary>
+    public static double? TooManyPairs(CrystalModel model, double radiusM)
+    {
+        var d = model.Lattice.Dimension;
+        var ball = d switch { 1 => 2 * radiusM, 2 => Math.PI * radiusM * radiusM, _ => 4.0 / 3 * Math.PI * radiusM * radiusM * radiusM };
+        var count = ball / model.Lattice.CellMeasure * model.Sites.Length;
+        return count > MaxPairsPerSite ? count : null;
     }
 
     /// <summary>Each undirected pair of the term within <paramref name="radiusM"/>, once (from its kind-A end).</summary>

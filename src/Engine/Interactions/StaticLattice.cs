@@ -97,7 +97,34 @@ public static class StaticLattice
             }
         }
 
-        return (lo + hi) / 2;
+        // Golden section finds the minimum only to sqrt(machine precision); Newton on dE/ds = 0 with the
+        // analytic derivatives finishes it (kept inside the bracket, where a cutoff crossing may leave a kink).
+        var x = (lo + hi) / 2;
+        var (bracketLo, bracketHi) = (s[best - 1], s[best + 1]);
+        for (var iteration = 0; iteration < 20; iteration++)
+        {
+            var (_, first, second) = curve.At(x);
+            if (second <= 0)
+            {
+                break;
+            }
+
+            // Judged by the slope, not the energy: near the minimum energies differ by round-off only.
+            var next = x - first / second;
+            if (next <= bracketLo || next >= bracketHi || Math.Abs(curve.At(next).First) > Math.Abs(first))
+            {
+                break;
+            }
+
+            var converged = Math.Abs(next - x) <= 1e-15 * x;
+            x = next;
+            if (converged)
+            {
+                break;
+            }
+        }
+
+        return x;
     }
 
     private static ModelException NoMinimum(CrystalModel model, bool fallsOnContraction)

@@ -13,9 +13,33 @@ internal static class ModelSectionReader
 {
     public const int MaxShell = 50;
 
-    private static readonly string[] LatticeKeys = ["lattice", "constant_nm", "c_nm", "vectors_nm", "motion", "shell_tolerance_nm", "sites", "springs", "bonds", "bends"];
+    private static readonly string[] LatticeKeys = ["lattice", "constant_nm", "c_nm", "vectors_nm", "motion", "shell_tolerance_nm", "sites", "springs", "bonds", "bends", "potentials", "relax"];
     private static readonly string[] Builders = ["layers", "elastic", "tetrahedral"];
     private static readonly string[] BendKeys = ["centre", "ends", "shell", "form", "constant_n_per_m"];
+
+    /// <summary>The parameter keys of each potential form, in the order the Engine's record takes them.</summary>
+    public static readonly IReadOnlyDictionary<string, string[]> PotentialParameters = new Dictionary<string, string[]>(StringComparer.Ordinal)
+    {
+        ["lennard_jones"] = ["well_depth_ev", "sigma_nm"],
+        ["morse"] = ["well_depth_ev", "r0_nm", "width_per_nm"],
+        ["buckingham"] = ["repulsion_ev", "rho_nm", "dispersion_ev_nm6"],
+    };
+
+    /// <summary>What each potential parameter (and the cutoff) accepts: wide enough for any crystal, tight enough for the arithmetic.</summary>
+    public static readonly IReadOnlyDictionary<string, Func<double, string?>> PotentialChecks = new Dictionary<string, Func<double, string?>>(StringComparer.Ordinal)
+    {
+        ["well_depth_ev"] = Checks.PositiveWithin(1e-9, 1e3),
+        ["sigma_nm"] = Checks.PositiveWithin(1e-4, 1e2),
+        ["r0_nm"] = Checks.PositiveWithin(1e-4, 1e2),
+        ["width_per_nm"] = Checks.PositiveWithin(1e-3, 1e4),
+        ["repulsion_ev"] = Checks.PositiveWithin(1e-9, 1e12),
+        ["rho_nm"] = Checks.PositiveWithin(1e-4, 1e2),
+        ["dispersion_ev_nm6"] = Checks.Between(0, 1e9),
+        ["cutoff_nm"] = Checks.PositiveWithin(1e-3, 1e2),
+    };
+
+    // After PotentialParameters: static fields initialise in the order they are written.
+    private static readonly string[] PotentialKeys = ["from", "to", "form", "cutoff_nm", "shift", .. PotentialParameters.SelectMany(p => p.Value).Distinct()];
     private static readonly string[] TetrahedralKeys = ["structure", "constant_nm", "element_a", "mass_a_amu", "element_b", "mass_b_amu", "stretch_n_per_m", "bend_n_per_m", "c11_gpa", "c12_gpa", "c44_gpa"];
     private static readonly string[] SiteKeys = ["label", "kind", "position", "mass_amu", "element"];
     private static readonly string[] SpringKeys = ["from", "to", "shell", "longitudinal_n_per_m", "transverse_n_per_m"];
@@ -109,6 +133,13 @@ internal static class ModelSectionReader
         var springs = ReadSprings(model.TableList("springs"), sites, motion);
         var bonds = ReadBonds(model.TableList("bonds"), sites, dimension, motion);
         var bends = ReadBends(model.TableList("bends"), sites, dimension, motion);
+        var potentials = ReadPotentials(model.TableList("potentials"), sites);
+        var relax = model.Bool("relax") ?? false;
+        if (relax && !model.Has("potentials"))
+        {
+            model.Error("relax", "relaxing to the static minimum needs [[model.potentials]]: hand-set springs have no energy minimum to find. Remove relax or add a potential");
+        }
+
         if (model.Problems.Count > before)
         {
             return null;
@@ -126,6 +157,8 @@ internal static class ModelSectionReader
             Springs = springs,
             Bonds = bonds,
             Bends = bends,
+            Potentials = potentials,
+            Relax = relax,
         };
     }
 
@@ -317,6 +350,47 @@ internal static class ModelSectionReader
         }
 
         return [.. bends];
+    }
+
+    private static ImmutableArray<PotentialTerm> ReadPotentials(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites)
+    {
+        var kinds = sites.Select(s => s.Kind).Distinct(StringComparer.Ordinal).ToList();
+        var potentials = new List<PotentialTerm>();
+        foreach (var t in tables)
+        {
+            t.RejectUnknown(PotentialKeys);
+            var from = ReadReference(t, "from", kinds, "kind");
+            var to = ReadReference(t, "to", kinds, "kind");
+            var form = t.String("form", required: true, allowed: [.. PotentialParameters.Keys]);
+            var cutoff = t.Double("cutoff_nm", required: true, check: PotentialChecks["cutoff_nm"]);
+            var shift = t.Bool("shift") ?? true;
+            if (form is null)
+            {
+                continue;
+            }
+
+            var keys = PotentialParameters[form];
+            foreach (var key in PotentialParameters.Values.SelectMany(k => k).Distinct().Where(k => !keys.Contains(k) && t.Has(k)))
+            {
+                t.Error(key, $"a {form} potential takes {string.Join(", ", keys)}; remove this key");
+            }
+
+            var values = keys.Select(k => t.Double(k, required: true, check: PotentialChecks[k])).ToArray();
+            if (values.Any(v => v is null) || cutoff is null)
+            {
+                continue;
+            }
+
+            PairPotential potential = form switch
+            {
+                "lennard_jones" => new LennardJonesPotential(values[0]!.Value, values[1]!.Value),
+                "morse" => new MorsePotential(values[0]!.Value, values[1]!.Value, values[2]!.Value),
+                _ => new BuckinghamPotential(values[0]!.Value, values[1]!.Value, values[2]!.Value),
+            };
+            potentials.Add(new PotentialTerm(from ?? "", to ?? "", potential, cutoff.Value, shift));
+        }
+
+        return [.. potentials];
     }
 
     /// <summary><c>ends = "B"</c> (both ends of kind B) or <c>ends = ["B", "C"]</c>.</summary>

@@ -235,6 +235,11 @@ internal sealed class ResultSchemas
             C<PointOutcome>("fit_bend_n_per_m", ColumnType.Double, "N/m", "bond-bend constant fitted to them (tetrahedral builder)", o => S(o)?.ElasticFit?.BendNPerM),
             C<PointOutcome>("fit_next_nearest_n_per_m", ColumnType.Double, "N/m", "next-nearest spring fitted to them (elastic builder)", o => S(o)?.ElasticFit?.NextNearestNPerM),
             C<PointOutcome>("fit_residual", ColumnType.Double, "1", "relative residual of the fit, ||C_model - C_given|| / ||C_given|| over C11, C12, C44", o => S(o)?.ElasticFit?.RelativeResidual),
+            C<PointOutcome>("static_energy_ev_per_atom", ColumnType.Double, "eV", "static lattice energy of the potentials per atom at the geometry solved (empty without potentials)", o => S(o)?.StaticLattice?.EnergyEvPerAtom),
+            C<PointOutcome>("static_pressure_gpa", ColumnType.Double, "GPa", "static pressure -dE/dV at the geometry solved (3D)", o => S(o)?.StaticLattice?.PressureGpa),
+            C<PointOutcome>("static_lattice_constant_nm", ColumnType.Double, "nm", "lattice constant at the minimum of the static energy (isotropic scaling)", o => S(o)?.StaticLattice?.EquilibriumLatticeConstantNm),
+            C<PointOutcome>("static_min_energy_ev_per_atom", ColumnType.Double, "eV", "static energy per atom at that minimum (minus the cohesive energy)", o => S(o)?.StaticLattice?.EquilibriumEnergyEvPerAtom),
+            C<PointOutcome>("static_bulk_modulus_gpa", ColumnType.Double, "GPa", "static bulk modulus V d2E/dV2 at that minimum (3D)", o => S(o)?.StaticLattice?.EquilibriumBulkModulusGpa),
         ];
     }
 

@@ -161,6 +161,7 @@ internal sealed class FieldCatalog
         }
 
         AddBends(m);
+        AddPotentials(m);
     }
 
     private void AddBends(LatticeModelSpec m)
@@ -177,6 +178,34 @@ internal sealed class FieldCatalog
             }
         }
     }
+
+    private void AddPotentials(LatticeModelSpec m)
+    {
+        for (var i = 0; i < m.Potentials.Length; i++)
+        {
+            var pi = i;
+            var p = $"model.potentials[{Index(i)}]";
+            Number(p + ".cutoff_nm", ModelSectionReader.PotentialChecks["cutoff_nm"], (s, v) => SetPotential(s, pi, x => x with { CutoffNm = v }));
+            foreach (var key in ModelSectionReader.PotentialParameters[m.Potentials[i].Potential.FormName])
+            {
+                var k = key;
+                Number($"{p}.{key}", ModelSectionReader.PotentialChecks[key], (s, v) => SetPotential(s, pi, x => x with { Potential = WithParameter(x.Potential, k, v) }));
+            }
+        }
+    }
+
+    private static Engine.Interactions.PairPotential WithParameter(Engine.Interactions.PairPotential potential, string key, double v) => (potential, key) switch
+    {
+        (Engine.Interactions.LennardJonesPotential lj, "well_depth_ev") => lj with { WellDepthEv = v },
+        (Engine.Interactions.LennardJonesPotential lj, "sigma_nm") => lj with { SigmaNm = v },
+        (Engine.Interactions.MorsePotential mo, "well_depth_ev") => mo with { WellDepthEv = v },
+        (Engine.Interactions.MorsePotential mo, "r0_nm") => mo with { R0Nm = v },
+        (Engine.Interactions.MorsePotential mo, "width_per_nm") => mo with { WidthPerNm = v },
+        (Engine.Interactions.BuckinghamPotential bu, "repulsion_ev") => bu with { RepulsionEv = v },
+        (Engine.Interactions.BuckinghamPotential bu, "rho_nm") => bu with { RhoNm = v },
+        (Engine.Interactions.BuckinghamPotential bu, "dispersion_ev_nm6") => bu with { DispersionEvNm6 = v },
+        _ => throw new ArgumentOutOfRangeException(nameof(key), key, $"not a parameter of a {potential.FormName} potential"),
+    };
 
     private void AddTetrahedral(TetrahedralSpec t)
     {
@@ -357,6 +386,12 @@ internal sealed class FieldCatalog
     private static ElasticSpec E(BoundSpec s) => (ElasticSpec)s.Model;
 
     private static TetrahedralSpec T(BoundSpec s) => (TetrahedralSpec)s.Model;
+
+    private static BoundSpec SetPotential(BoundSpec s, int i, Func<Engine.Interactions.PotentialTerm, Engine.Interactions.PotentialTerm> change)
+    {
+        var l = L(s);
+        return s with { Model = l with { Potentials = l.Potentials.SetItem(i, change(l.Potentials[i])) } };
+    }
 
     private static BoundSpec SetBend(BoundSpec s, int i, Func<Engine.Interactions.BendSpring, Engine.Interactions.BendSpring> change)
     {

@@ -1,5 +1,6 @@
 using System.Globalization;
 using System.Text;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Transport;
@@ -124,6 +125,30 @@ internal static class CanonicalSpec
                     }
 
                     sb.Append('\n');
+                }
+
+                foreach (var p in m.Potentials)
+                {
+                    sb.Append("potential ").Append(Quote(p.KindA)).Append(' ').Append(Quote(p.KindB)).Append(' ').Append(p.Potential.FormName);
+                    switch (p.Potential)
+                    {
+                        case LennardJonesPotential lj:
+                            sb.Append(" eps=").Append(D(lj.WellDepthEv)).Append(" sigma=").Append(D(lj.SigmaNm));
+                            break;
+                        case MorsePotential mo:
+                            sb.Append(" d=").Append(D(mo.WellDepthEv)).Append(" r0=").Append(D(mo.R0Nm)).Append(" a=").Append(D(mo.WidthPerNm));
+                            break;
+                        case BuckinghamPotential bu:
+                            sb.Append(" a=").Append(D(bu.RepulsionEv)).Append(" rho=").Append(D(bu.RhoNm)).Append(" c=").Append(D(bu.DispersionEvNm6));
+                            break;
+                    }
+
+                    sb.Append(" cutoff=").Append(D(p.CutoffNm)).Append(" shift=").Append(p.ShiftAtCutoff ? '1' : '0').Append('\n');
+                }
+
+                if (m.Relax)
+                {
+                    sb.Append("relax\n");
                 }
 
                 foreach (var b in m.Bends)

@@ -1,6 +1,7 @@
 using LatticeSweep.Engine.Builders;
 using LatticeSweep.Engine.Elastic;
 using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 
@@ -11,14 +12,15 @@ internal static class EngineObjects
 {
     public static CrystalModel BuildModel(ModelSpec model) => model switch
     {
-        LatticeModelSpec m => CrystalModel.Create(
+        LatticeModelSpec m => Relaxed(m, CrystalModel.Create(
             BuildLattice(m),
             m.Sites.Select(s => new Site(s.Label, s.Kind, s.Position, MassOf(s.MassAmu, s.Element, $"sites '{s.Label}'"))),
             m.Springs,
             m.Bonds,
             m.Motion,
             m.ShellToleranceNm,
-            m.Bends),
+            m.Bends,
+            m.Potentials)),
         LayeredSpec l => LayeredModelBuilder.Build(new LayeredModelSpec(
             l.Host,
             l.SpacingNm,
@@ -61,6 +63,10 @@ internal static class EngineObjects
         finite.CheckAgainst(lattice);
         return finite;
     }
+
+    /// <summary>With <c>relax = true</c>, the model scaled to the minimum of its potentials' static energy.</summary>
+    private static CrystalModel Relaxed(LatticeModelSpec spec, CrystalModel model) =>
+        spec.Relax && StaticLattice.Analyse(model) is { } s ? model.Scaled(s.EquilibriumScale) : model;
 
     private static CrystalModel BuildTetrahedral(TetrahedralSpec t)
     {

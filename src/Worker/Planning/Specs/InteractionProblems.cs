@@ -13,14 +13,15 @@ internal static class InteractionProblems
     /// <summary>Problems with their key paths under <c>model.</c>; empty when there are none or nothing to check.</summary>
     public static IReadOnlyList<ModelProblem> Of(BoundSpec spec)
     {
-        if (spec.Model is not LatticeModelSpec m || m.Bends.IsEmpty)
+        if (spec.Model is not LatticeModelSpec m || (m.Bends.IsEmpty && m.Potentials.IsEmpty))
         {
             return [];
         }
 
         try
         {
-            return InteractionChecks.Find(EngineObjects.BuildModel(spec.Model));
+            // Checked as written (before any relaxation, which needs exactly what is checked here).
+            return InteractionChecks.Find(EngineObjects.BuildModel(m with { Relax = false }));
         }
         catch (ModelException)
         {

@@ -29,6 +29,12 @@ internal sealed record LatticeModelSpec : ModelSpec
     /// <summary>Three-body bond-bending terms (<c>[[model.bends]]</c>).</summary>
     public ImmutableArray<BendSpring> Bends { get; init; } = [];
 
+    /// <summary>Pair potentials between site kinds (<c>[[model.potentials]]</c>); their springs follow from the geometry.</summary>
+    public ImmutableArray<PotentialTerm> Potentials { get; init; } = [];
+
+    /// <summary>Scale the lattice to the minimum of the potentials' static energy before solving.</summary>
+    public bool Relax { get; init; }
+
     public override int Dimension => Lattice switch
     {
         LatticeKind.Chain => 1,
