@@ -115,6 +115,15 @@ if queue:
                      f"engine alone vs latsweep run --workers {r['workers']} (SQLite store): {r['queue_points_per_s']:.0f} points/s, "
                      f"overhead {r['overhead_fraction'] * 100:.1f}% = {r['overhead_ms_per_point']:.2f} ms/point"))
 
+expansion = load("ours_expansion.json")
+if expansion:
+    r = expansion["result"]
+    rows.append((f"(f) quasi-harmonic, {r['volumes']} volumes", f"{r['quasi_harmonic_s']:.3f} s",
+                 f"{r['same_7_solves_s']:.3f} s", float("nan"),
+                 f"against the same 7 harmonic solves: overhead {(r['quasi_harmonic_s'] / r['same_7_solves_s'] - 1) * 100:+.1f}% "
+                 f"(cpu {(r['quasi_harmonic_cpu_s'] / r['same_7_solves_cpu_s'] - 1) * 100:+.1f}%); against 7 full harmonic points "
+                 f"{(r['quasi_harmonic_s'] / r['seven_full_points_s'] - 1) * 100:+.1f}%"))
+
 print()
 print(f"{'case':34} {'ours':>12} {'numpy peer':>12} {'peer/ours':>10}  agreement / notes  ((e): engine alone | through the queue)")
 for name, a, b, ratio, note in rows:

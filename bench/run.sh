@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # One command for the benchmarks: builds the engine's bench harness in Release, runs each case on our
 # side and on the NumPy peer with the same inputs (bench/cases.json), prints the ratios and checks that
-# both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d; default all)
+# both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue expansion; default all)
 # Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
@@ -9,7 +9,7 @@ root="$(dirname "$here")"
 results="${RESULTS:-$here/results}"
 repeats="${REPEATS:-5}"
 cases=("$@")
-[ ${#cases[@]} -eq 0 ] && cases=(eigen bulk finite-chain finite-3d queue)
+[ ${#cases[@]} -eq 0 ] && cases=(eigen bulk finite-chain finite-3d queue expansion)
 mkdir -p "$results"
 
 # The peer is Debian's NumPy: the system interpreter, not a pyenv shim.
@@ -27,6 +27,11 @@ bench="$here/LatticeSweep.Bench/bin/Release/net10.0/LatticeSweep.Bench"
 
 for c in "${cases[@]}"; do
   echo "== $c"
+  if [ "$c" = expansion ]; then
+    # Ours against ours: one quasi-harmonic point against the harmonic solves it is made of.
+    "$bench" expansion --cases "$here/cases.json" --out "$results" --repeats "$repeats"
+    continue
+  fi
   if [ "$c" = queue ]; then
     # Ours against ours: the queue (latsweep run, embedded SQLite store) against the Engine alone.
     "$bench" queue --out "$results" --repeats "${QUEUE_REPEATS:-3}" --jobs "$here/queue" \

@@ -4,7 +4,7 @@ using System.Text.Json;
 using LatticeSweep.Bench;
 
 // Usage: LatticeSweep.Bench CASE --cases FILE --out DIR [--repeats K] [--check-temperatures EVERY]
-// CASE: eigen | bulk | finite-chain | finite-3d | queue. Each case runs in its own process so that its
+// CASE: eigen | bulk | finite-chain | finite-3d | queue | expansion. Each case runs in its own process so that its
 // peak memory is its own; bench/run.sh runs them all and compares with the NumPy peer.
 var argList = args.ToList();
 string Option(string name, string fallback)
@@ -88,6 +88,13 @@ switch (caseName)
         break;
     }
 
+    case "expansion":
+        report["result"] = ExpansionCase.Run(
+            mesh: int.Parse(Option("--mesh", "16"), System.Globalization.CultureInfo.InvariantCulture),
+            temperatures: 50,
+            repeats);
+        break;
+
     case "queue":
     {
         var latsweep = Option("--latsweep", "src/Worker/bin/Release/net10.0/latsweep");
@@ -101,7 +108,7 @@ switch (caseName)
     }
 
     default:
-        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, bulk, finite-chain or finite-3d");
+        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, bulk, finite-chain, finite-3d, queue or expansion");
         return 2;
 }
 

@@ -11,7 +11,12 @@ internal sealed class StaticEnergyCurve
 {
     private readonly (PairPotential Potential, double CutoffM, double ShiftJ, double[] DistancesM)[] _terms;
 
-    public StaticEnergyCurve(CrystalModel model, double smallestScale)
+    /// <param name="model">The model at scale 1.</param>
+    /// <param name="smallestScale">Pairs are collected out to the cutoff at this scale.</param>
+    /// <param name="frozenAtScale">When given, the pairs within the cutoff at this scale interact at every
+    /// scale and no others (each still shifted by phi(cutoff)): E(s) is then smooth, as the quasi-harmonic
+    /// fit needs; otherwise pairs enter and leave as they cross the cutoff.</param>
+    public StaticEnergyCurve(CrystalModel model, double smallestScale, double? frozenAtScale = null)
     {
         var positions = model.Sites.Select(s => model.Lattice.ToCartesianM(s.Fractional)).ToArray();
         _terms = new (PairPotential, double, double, double[])[model.Potentials.Length];
@@ -19,9 +24,9 @@ internal sealed class StaticEnergyCurve
         {
             var term = model.Potentials[t];
             var cutoff = term.CutoffNm * 1e-9;
-            var pairs = PotentialSprings.Pairs(model, positions, t, cutoff / smallestScale);
+            var pairs = PotentialSprings.Pairs(model, positions, t, cutoff / (frozenAtScale ?? smallestScale));
             var shift = term.ShiftAtCutoff ? term.Potential.EnergyJ(cutoff) : 0.0;
-            _terms[t] = (term.Potential, cutoff, shift, [.. pairs.Select(p => p.SeparationM.Length).Order()]);
+            _terms[t] = (term.Potential, frozenAtScale is null ? cutoff : double.PositiveInfinity, shift, [.. pairs.Select(p => p.SeparationM.Length).Order()]);
         }
 
         Dimension = model.Lattice.Dimension;

@@ -14,7 +14,7 @@ public static class StaticLattice
 {
     public const double SmallestScale = 0.7;
     public const double LargestScale = 1.4;
-    private const int ScanPoints = 141;
+    private const int ScanPoints = 57;
 
     /// <summary>Null for a model without potentials; throws <see cref="ModelException"/> when the energy has no minimum in the searched range.</summary>
     public static StaticLatticeResult? Analyse(CrystalModel model)
@@ -46,9 +46,10 @@ public static class StaticLattice
     }
 
     /// <summary>
-    /// The scale factor of the lowest interior local minimum of E(s) on the searched range, refined by
-    /// golden-section search. A minimum on the edge of the range is not one: the energy still falls
-    /// beyond it (a potential without a well, or the short-range collapse of a Buckingham potential).
+    /// The scale factor of the lowest interior local minimum of E(s) on the searched range (a scan in
+    /// steps of 1.25 %), refined to round-off. A minimum on the edge of the range is not one: the
+    /// energy still falls beyond it (a potential without a well, or the short-range collapse of a
+    /// Buckingham potential).
     /// </summary>
     internal static double EquilibriumScale(CrystalModel model, StaticEnergyCurve curve)
     {
@@ -74,54 +75,32 @@ public static class StaticLattice
             throw NoMinimum(model, e[0] < e[^1]);
         }
 
-        // Golden section on [s_{k-1}, s_{k+1}], which brackets the minimum.
+        // [s_{k-1}, s_{k+1}] brackets the minimum: Newton on dE/ds = 0 with the analytic derivatives, kept
+        // inside a bracket that shrinks by the sign of dE/ds (bisection where Newton would leave it; a
+        // pair crossing the cutoff leaves a kink where only the bisection is safe).
         var (lo, hi) = (s[best - 1], s[best + 1]);
-        var g = (Math.Sqrt(5) - 1) / 2;
-        var x1 = hi - g * (hi - lo);
-        var x2 = lo + g * (hi - lo);
-        var f1 = curve.At(x1).Energy;
-        var f2 = curve.At(x2).Energy;
-        while (hi - lo > 1e-12)
+        var x = s[best];
+        for (var iteration = 0; iteration < 100 && hi - lo > 1e-15 * x; iteration++)
         {
-            if (f1 <= f2)
+            var (_, first, second) = curve.At(x);
+            if (first > 0)
             {
-                (hi, x2, f2) = (x2, x1, f1);
-                x1 = hi - g * (hi - lo);
-                f1 = curve.At(x1).Energy;
+                hi = x;
             }
             else
             {
-                (lo, x1, f1) = (x1, x2, f2);
-                x2 = lo + g * (hi - lo);
-                f2 = curve.At(x2).Energy;
+                lo = x;
             }
-        }
 
-        // Golden section finds the minimum only to sqrt(machine precision); Newton on dE/ds = 0 with the
-        // analytic derivatives finishes it (kept inside the bracket, where a cutoff crossing may leave a kink).
-        var x = (lo + hi) / 2;
-        var (bracketLo, bracketHi) = (s[best - 1], s[best + 1]);
-        for (var iteration = 0; iteration < 20; iteration++)
-        {
-            var (_, first, second) = curve.At(x);
-            if (second <= 0)
+            var next = second > 0 ? x - first / second : double.NaN;
+            if (Math.Abs(next - x) <= 1e-15 * x)
             {
+                // Converged: the last step is round-off (it may touch the bracket end x just became).
+                x = Math.Clamp(next, lo, hi);
                 break;
             }
 
-            // Judged by the slope, not the energy: near the minimum energies differ by round-off only.
-            var next = x - first / second;
-            if (next <= bracketLo || next >= bracketHi || Math.Abs(curve.At(next).First) > Math.Abs(first))
-            {
-                break;
-            }
-
-            var converged = Math.Abs(next - x) <= 1e-15 * x;
-            x = next;
-            if (converged)
-            {
-                break;
-            }
+            x = next > lo && next < hi ? next : (lo + hi) / 2;
         }
 
         return x;

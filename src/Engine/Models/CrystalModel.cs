@@ -56,10 +56,14 @@ public sealed record CrystalModel
     /// <paramref name="factor"/>: isotropic expansion or compression. Hand-set springs keep their
     /// constants; springs from potentials follow the new geometry.
     /// </summary>
-    public CrystalModel Scaled(double factor)
+    /// <param name="factor">Scale factor of the lattice vectors.</param>
+    /// <param name="scaleCutoffs">Scale the potentials' cutoffs too, so the same pairs interact at every scale
+    /// (the quasi-harmonic volumes: a shell crossing a fixed cutoff would make the springs jump).</param>
+    public CrystalModel Scaled(double factor, bool scaleCutoffs = false)
     {
         Guard.PositiveFinite(factor, "lattice scale", "the scale factor");
-        return new CrystalModel(Lattice.Scaled(factor), Sites, ShellSprings, BondSprings, DegreesOfFreedom, ShellToleranceNm, Bends, Potentials) { Fit = Fit };
+        var potentials = scaleCutoffs ? [.. Potentials.Select(p => p with { CutoffNm = p.CutoffNm * factor })] : Potentials;
+        return new CrystalModel(Lattice.Scaled(factor), Sites, ShellSprings, BondSprings, DegreesOfFreedom, ShellToleranceNm, Bends, potentials) { Fit = Fit };
     }
 
     /// <summary>Displacement components per atom: 3, or 1 for the scalar model.</summary>

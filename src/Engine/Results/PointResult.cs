@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.QuasiHarmonic;
 using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Engine.Results;
@@ -14,4 +15,7 @@ public sealed record PointResult(
 {
     /// <summary>Thermal-conductivity estimates, when the options asked for them.</summary>
     public ConductivityResult? Conductivity { get; init; }
+
+    /// <summary>Quasi-harmonic thermal expansion, when the options asked for it.</summary>
+    public ExpansionResult? Expansion { get; init; }
 }

@@ -48,8 +48,63 @@ public static class SolveCommand
             ? $"Point  {point.PointId}, the first of {plan.Points.Length} ({Parameters(point)})"
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
-        SummaryTable(result.Summary).WriteTo(stdout);
+        var table = SummaryTable(result.Summary);
+        AddInteractions(table, result);
+        table.WriteTo(stdout);
         return 0;
+    }
+
+    /// <summary>Elastic constants, the static lattice of potentials, a fit and the quasi-harmonic state, where the point has them.</summary>
+    internal static void AddInteractions(TextTable t, PointResult result)
+    {
+        var s = result.Summary;
+        static string N(double? v) => v is { } x ? D(x) : "n/a";
+        if (s.LatticeConstantNm is { } a)
+        {
+            t.Add("lattice constant", D(a), "nm");
+        }
+
+        if (s.ElasticConstants is { } c)
+        {
+            t.Add("C11, C12, C44 (long waves)", $"{D(c.C11Gpa)}, {D(c.C12Gpa)}, {D(c.C44Gpa)}", "GPa");
+        }
+
+        if (s.ElasticFit is { } fit)
+        {
+            t.Add("fitted stretch, bend", $"{D(fit.StretchNPerM)}, {N(fit.BendNPerM)}", "N/m");
+            t.Add("fit residual", D(fit.RelativeResidual), "");
+        }
+
+        if (s.StaticLattice is { } st)
+        {
+            t.Add("static energy per atom", D(st.EnergyEvPerAtom), "eV");
+            t.Add("static pressure", N(st.PressureGpa), "GPa");
+            t.Add("static minimum: lattice constant", D(st.EquilibriumLatticeConstantNm), "nm");
+            t.Add("static minimum: energy per atom", D(st.EquilibriumEnergyEvPerAtom), "eV");
+            t.Add("static minimum: bulk modulus", N(st.EquilibriumBulkModulusGpa), "GPa");
+        }
+
+        if (result.Expansion?.AtReference is { } x)
+        {
+            if (x.Breakdown is { } why)
+            {
+                t.Add("quasi-harmonic at reference T", why, "");
+            }
+            else
+            {
+                t.Add("lattice constant at reference T", N(x.LatticeConstantNm), "nm");
+                t.Add("linear expansion coefficient", N(x.LinearExpansionPerK), "1/K");
+                t.Add("isothermal bulk modulus", x.IsothermalBulkModulusGpa is { } g ? D(g) : N(x.IsothermalBulkModulusNPerM ?? x.IsothermalBulkModulusN),
+                    x.IsothermalBulkModulusGpa is not null ? "GPa" : x.IsothermalBulkModulusNPerM is not null ? "N/m" : "N");
+                t.Add("heat capacity Cp", N(x.CpJPerMolK), "J/(mol K)");
+                t.Add("Grueneisen parameter (thermal)", N(x.Grueneisen), "");
+            }
+        }
+
+        if (result.Conductivity?.GrueneisenSource is { } source)
+        {
+            t.Add("Grueneisen parameter used for kappa", $"{N(result.Conductivity.GrueneisenParameter)} ({source})", "");
+        }
     }
 
     internal static TextTable SummaryTable(PointSummary s)

@@ -78,6 +78,7 @@ public static class ChunkOutputWriter
             Dispersion: t.Contains(TableNames.Dispersion),
             Modes: t.Contains(TableNames.Modes),
             Displacements: t.Contains(TableNames.Displacements),
-            CumulativeKappa: t.Contains(TableNames.CumulativeKappa));
+            CumulativeKappa: t.Contains(TableNames.CumulativeKappa),
+            Expansion: t.Contains(TableNames.Expansion));
     }
 }

@@ -2,8 +2,8 @@ using System.Collections.Immutable;
 
 namespace LatticeSweep.Worker.Planning;
 
-/// <summary>Which tables a sweep writes. <c>points</c> is always written; <c>cumulative_kappa</c> needs conductivity estimates.</summary>
-public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements, bool CumulativeKappa = false)
+/// <summary>Which tables a sweep writes. <c>points</c> is always written; <c>cumulative_kappa</c> needs conductivity estimates, <c>expansion</c> the quasi-harmonic calculation.</summary>
+public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements, bool CumulativeKappa = false, bool Expansion = false)
 {
     public static OutputSelection Default => new(Dos: true, Thermal: true, Dispersion: false, Modes: true, Displacements: true);
 
@@ -16,5 +16,6 @@ public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bo
             .. Modes ? new[] { "modes" } : [],
             .. Displacements ? new[] { "displacements" } : [],
             .. CumulativeKappa ? new[] { "cumulative_kappa" } : [],
+            .. Expansion ? new[] { "expansion" } : [],
         ];
 }

@@ -42,6 +42,12 @@ internal static class CanonicalSpec
         }
 
         // Written only when asked for, so the ids of points without conductivity do not change.
+        if (options.Expansion is { } expansion)
+        {
+            sb.Append("expansion volumes=").Append(I(expansion.VolumeCount)).Append(" strain=").Append(D(expansion.LargestLinearStrain))
+                .Append(" modes=").Append(expansion.ModeGrueneisen ? '1' : '0').Append('\n');
+        }
+
         if (spec.Conductivity is { } conductivity)
         {
             WriteConductivity(sb, conductivity);
