@@ -28,12 +28,12 @@ public static class TetrahedralModelBuilder
 
     /// <summary>
     /// The model whose stretch and bend constants fit <paramref name="target"/> best in the least-squares
-    /// sense over (C11, C12, C44); the model carries the fit (<see cref="CrystalModel.Fit"/>).
+    /// sense over (C11, C12, C44), and that fit.
     /// </summary>
-    public static CrystalModel BuildFitted(TetrahedralStructure structure, double constantNm, double massAAmu, double massBAmu, CubicElasticConstants target, DegreesOfFreedom degreesOfFreedom = DegreesOfFreedom.Cartesian)
+    public static CrystalModel BuildFitted(TetrahedralStructure structure, double constantNm, double massAAmu, double massBAmu, CubicElasticConstants target, out ElasticFitResult fit, DegreesOfFreedom degreesOfFreedom = DegreesOfFreedom.Cartesian)
     {
-        var fit = BondBendingFit.Fit(structure, constantNm, target);
-        var model = Build(new TetrahedralModelSpec(structure, constantNm, massAAmu, massBAmu, fit.StretchNPerM, fit.BendNPerM!.Value, degreesOfFreedom));
-        return model with { Fit = fit };
+        var massB = structure == TetrahedralStructure.Diamond ? massAAmu : massBAmu;
+        fit = BondBendingFit.Fit(structure, constantNm, massAAmu + massB, target);
+        return Build(new TetrahedralModelSpec(structure, constantNm, massAAmu, massBAmu, fit.NearestNPerM, fit.BendNPerM!.Value, degreesOfFreedom));
     }
 }

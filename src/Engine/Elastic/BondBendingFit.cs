@@ -1,6 +1,7 @@
 using LatticeSweep.Engine.Builders;
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Units;
 
 namespace LatticeSweep.Engine.Elastic;
 
@@ -17,7 +18,8 @@ public static class BondBendingFit
 {
     private const int ScanPoints = 41;
 
-    public static ElasticModelFit Fit(TetrahedralStructure structure, double constantNm, CubicElasticConstants target)
+    /// <param name="cellMassAmu">Mass of the two-site cell (for the density of the Christoffel sound speeds).</param>
+    public static ElasticFitResult Fit(TetrahedralStructure structure, double constantNm, double cellMassAmu, CubicElasticConstants target)
     {
         ArgumentNullException.ThrowIfNull(target);
         Guard.PositiveFinite(constantNm, "model.tetrahedral.constant_nm", "the lattice constant");
@@ -99,13 +101,19 @@ public static class BondBendingFit
         }
 
         var final = Evaluate(tBest)!.Value;
-        return new ElasticModelFit(
-            StretchNPerM: final.Scale * (1 - tBest),
-            BendNPerM: final.Scale * tBest,
-            NextNearestNPerM: null,
+        var reproduced = new CubicElasticConstants(final.C[0], final.C[1], final.C[2]);
+        var density = cellMassAmu * PhysicalConstants.AtomicMassKg / Math.Pow(constantNm * PhysicalConstants.MetresPerNm, 3) * 4;
+        return new ElasticFitResult(
+            NearestNPerM: final.Scale * (1 - tBest),
+            NextNearestNPerM: 0,
             Given: target,
-            Reproduced: new CubicElasticConstants(final.C[0], final.C[1], final.C[2]),
-            RelativeResidual: final.Residual);
+            Reproduced: reproduced,
+            RelativeResidual: final.Residual,
+            DensityKgPerM3: density,
+            SoundSpeeds: [.. ElasticSpringFit.ChristoffelSpeeds(reproduced, density)])
+        {
+            BendNPerM = final.Scale * tBest,
+        };
     }
 
     private static double Dot(double[] a, double[] b) => a.Zip(b, (x, y) => x * y).Sum();

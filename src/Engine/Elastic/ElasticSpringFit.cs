@@ -69,8 +69,7 @@ public static class ElasticSpringFit
             springs.Add(new ShellSpring("X", "X", 2, fit.NextNearestNPerM));
         }
 
-        var model = CrystalModel.Create(lattice, [new Site("X", "X", Vec3.Zero, massAmu)], springs, degreesOfFreedom: degreesOfFreedom);
-        return model with { Fit = new ElasticModelFit(fit.NearestNPerM, null, includeNextNearest ? fit.NextNearestNPerM : null, fit.Given, fit.Reproduced, fit.RelativeResidual) };
+        return CrystalModel.Create(lattice, [new Site("X", "X", Vec3.Zero, massAmu)], springs, degreesOfFreedom: degreesOfFreedom);
     }
 
     /// <summary>

@@ -1,5 +1,4 @@
 using System.Collections.Immutable;
-using LatticeSweep.Engine.Elastic;
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Springs;
@@ -48,9 +47,6 @@ public sealed record CrystalModel
     /// <summary>Pair potentials between site kinds; their springs follow from the geometry (phi'' along, phi'/r across each pair).</summary>
     public ImmutableArray<PotentialTerm> Potentials { get; }
 
-    /// <summary>How the springs were fitted to elastic constants, when a builder fitted them (reported with the results).</summary>
-    public ElasticModelFit? Fit { get; init; }
-
     /// <summary>
     /// The same model with every lattice vector (and so every site position and bond) scaled by
     /// <paramref name="factor"/>: isotropic expansion or compression. Hand-set springs keep their
@@ -63,7 +59,7 @@ public sealed record CrystalModel
     {
         Guard.PositiveFinite(factor, "lattice scale", "the scale factor");
         var potentials = scaleCutoffs ? [.. Potentials.Select(p => p with { CutoffNm = p.CutoffNm * factor })] : Potentials;
-        return new CrystalModel(Lattice.Scaled(factor), Sites, ShellSprings, BondSprings, DegreesOfFreedom, ShellToleranceNm, Bends, potentials) { Fit = Fit };
+        return new CrystalModel(Lattice.Scaled(factor), Sites, ShellSprings, BondSprings, DegreesOfFreedom, ShellToleranceNm, Bends, potentials);
     }
 
     /// <summary>Displacement components per atom: 3, or 1 for the scalar model.</summary>

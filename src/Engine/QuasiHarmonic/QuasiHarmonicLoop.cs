@@ -98,7 +98,8 @@ internal static class QuasiHarmonicLoop
     /// <summary>How far volumes are added when a minimum lies beyond the sampled ones: three times the largest strain asked for, at most 30 %.</summary>
     public static double MaxStrain(ExpansionOptions expansion) => Math.Min(0.3, 3 * expansion.LargestLinearStrain);
 
-    private static void Validate(CrystalModel model, ExpansionOptions expansion)
+    /// <summary>What <see cref="Solve"/> refuses before any volume is solved: a model without potentials, counts or strains out of range.</summary>
+    internal static void Validate(CrystalModel model, ExpansionOptions expansion)
     {
         var problems = new List<ModelProblem>();
         if (model.Potentials.IsEmpty)
@@ -157,9 +158,10 @@ internal static class QuasiHarmonicLoop
         {
             var row = result.Thermal.FirstOrDefault(r => r.TemperatureK == temperatures[t]);
             var summary = result.Summary;
+            // An unstable volume has no thermal rows and empty summary numbers: NaN marks it unusable below.
             (f[t], s[t], c[t]) = row is not null
                 ? (row.FreeEnergyJPerMol, row.EntropyJPerMolK, row.HeatCapacityJPerMolK)
-                : (summary.FreeEnergyJPerMol, summary.EntropyJPerMolK, summary.HeatCapacityJPerMolK);
+                : (summary.FreeEnergyJPerMol ?? double.NaN, summary.EntropyJPerMolK ?? double.NaN, summary.HeatCapacityJPerMolK ?? double.NaN);
             (f[t], s[t], c[t]) = (f[t] * perCell, s[t] * perCell, c[t] * perCell);
         }
 

@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.Elastic;
 using LatticeSweep.Engine.QuasiHarmonic;
 using LatticeSweep.Engine.Transport;
 
@@ -18,4 +19,11 @@ public sealed record PointResult(
 
     /// <summary>Quasi-harmonic thermal expansion, when the options asked for it.</summary>
     public ExpansionResult? Expansion { get; init; }
+
+    /// <summary>
+    /// When the model's springs were fitted to elastic constants: the fit (its relative residual, the
+    /// constants the springs reproduce and their Christoffel sound speeds). Set by whoever built the
+    /// model from the fit (the solver sees only the model).
+    /// </summary>
+    public ElasticFitResult? ElasticFit { get; init; }
 }

@@ -8,8 +8,8 @@ namespace LatticeSweep.Engine.Solving;
 
 /// <summary>
 /// Properties of the model itself rather than of its spectrum, added to the summary after the solve:
-/// the lattice constant, the long-wave elastic constants (cubic lattices), the static lattice of a
-/// model built from potentials and the fit a builder made. All cheap next to the spectrum.
+/// the lattice constant, the long-wave elastic constants (cubic lattices) and the static lattice of a
+/// model built from potentials. All cheap next to the spectrum.
 /// </summary>
 internal static class ModelPropertiesStep
 {
@@ -24,7 +24,6 @@ internal static class ModelPropertiesStep
                 LatticeConstantNm = model.Lattice.ConstantNm,
                 ElasticConstants = LongWaveElasticity.Cubic(crystal),
                 StaticLattice = staticLattice,
-                ElasticFit = model.Fit,
             },
         };
 }

@@ -236,9 +236,9 @@ public class BondBendingTests
     public void Fit_recovers_the_constants_behind_Keating_elastic_constants_and_says_C12_differs_from_C44()
     {
         var exact = LongWaveElasticity.Cubic(CompiledCrystal.From(BondedCrystals.Tetrahedral(Stretch, Bend)))!;
-        var fit = BondBendingFit.Fit(TetrahedralStructure.Diamond, BondedCrystals.DiamondConstantNm, exact);
+        var fit = BondBendingFit.Fit(TetrahedralStructure.Diamond, BondedCrystals.DiamondConstantNm, 56, exact);
         Assert.True(fit.RelativeResidual < 1e-8, $"residual {fit.RelativeResidual}");
-        Approx.Equal(Stretch, fit.StretchNPerM, 1e-6, "stretch");
+        Approx.Equal(Stretch, fit.NearestNPerM, 1e-6, "stretch");
         Approx.Equal(Bend, fit.BendNPerM!.Value, 1e-6, "bend");
     }
 
@@ -248,14 +248,19 @@ public class BondBendingTests
         // Si: a = 0.5431 nm, C11 = 165.7, C12 = 63.9, C44 = 79.6 GPa (Kittel, Introduction to Solid State Physics,
         // ch. 3, table of cubic elastic constants; from memory). Keating's equality nearly holds for these
         // (2 C44 (C11 + C12) = 36 553 against (C11 - C12)(C11 + 3 C12) = 36 383), so two constants fit all three.
-        var model = TetrahedralModelBuilder.BuildFitted(TetrahedralStructure.Diamond, 0.5431, 28.085, 28.085, new CubicElasticConstants(165.7, 63.9, 79.6));
-        var fit = model.Fit!;
+        var model = TetrahedralModelBuilder.BuildFitted(TetrahedralStructure.Diamond, 0.5431, 28.085, 28.085, new CubicElasticConstants(165.7, 63.9, 79.6), out var fit);
         Assert.True(fit.RelativeResidual < 0.01, $"residual {fit.RelativeResidual}");
         Assert.True(fit.Reproduced.C44Gpa > fit.Reproduced.C12Gpa + 10, "C12 != C44 is reached");
         var result = PhononSolver.Solve(model, BulkSample.Uniform(3, 6), new SolveOptions { TemperaturesK = [300], PartialDos = false, MeanSquareDisplacement = false });
-        Assert.Same(fit, result.Summary.ElasticFit);
-        Approx.Equal(fit.Reproduced.C11Gpa, result.Summary.ElasticConstants!.C11Gpa, 1e-6, "reported C11");
+        Approx.Equal(fit.Reproduced.C11Gpa, result.Summary.ElasticConstants!.C11Gpa, 1e-6, "the model's own long waves give the fitted C11");
+        Approx.Equal(fit.Reproduced.C44Gpa, result.Summary.ElasticConstants.C44Gpa, 1e-6, "and C44");
         Assert.True(result.Summary.Stable);
+
+        // Christoffel speeds of the fitted constants (density 2329 kg/m^3 from the mass and lattice constant) match
+        // the model's own sound speeds: [100] longitudinal sqrt(C11 / rho).
+        Approx.Equal(2329, fit.DensityKgPerM3, 1e-3, "density");
+        var l100 = fit.SoundSpeeds.Single(v => v.Direction == "[100]").SpeedsMPerS[2];
+        Approx.Equal(l100, result.Summary.SoundSpeeds.Single(v => v.Direction == "[100]").SpeedsMPerS[2], 1e-4, "[100] longitudinal");
     }
 
     private static double MaxAbs(Matrix3 m)

@@ -218,11 +218,11 @@ public sealed class InteractionJobFileTests : IDisposable
         Assert.Equal(2, model.Bends.Length);
         Assert.All(model.Bends, b => Assert.Equal(20.0, b.ConstantNPerM));
         Assert.Equal(75.0, model.Sites[1].MassAmu);
-        Assert.Null(model.Fit);
+        Assert.Null(PointBinder.Bind(plan, plan.Points[1]).ElasticFit);
 
         var fitted = Tetrahedral.Replace("stretch_n_per_m = 110.0\nbend_n_per_m = 10.0", "c11_gpa = 120\nc12_gpa = 50\nc44_gpa = 60", StringComparison.Ordinal);
         var fitPlan = Some.Load(_dir, TetrahedralJob(fitted));
-        var fit = PointBinder.Bind(fitPlan, fitPlan.Points[0]).Model.Fit!;
+        var fit = PointBinder.Bind(fitPlan, fitPlan.Points[0]).ElasticFit!;
         Assert.True(fit.RelativeResidual < 0.2);
         Assert.True(fit.BendNPerM > 0);
     }

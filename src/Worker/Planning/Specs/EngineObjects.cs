@@ -10,7 +10,37 @@ namespace LatticeSweep.Worker.Planning.Specs;
 /// <summary>Builds the Engine's model and sample from a point's spec. Engine validation errors propagate as <see cref="ModelException"/>.</summary>
 internal static class EngineObjects
 {
-    public static CrystalModel BuildModel(ModelSpec model) => model switch
+    public static CrystalModel BuildModel(ModelSpec model) => BuildModel(model, out _);
+
+    /// <summary>The model, and the elastic-constant fit when its springs come from one.</summary>
+    public static CrystalModel BuildModel(ModelSpec model, out ElasticFitResult? fit)
+    {
+        fit = null;
+        if (model is ElasticSpec e)
+        {
+            var built = ElasticSpringFit.BuildModel(
+                e.Lattice,
+                e.ConstantNm,
+                MassOf(e.MassAmu, e.Element, "model.elastic"),
+                new CubicElasticConstants(e.C11Gpa, e.C12Gpa, e.C44Gpa),
+                e.NextNearest,
+                e.Motion,
+                out var f);
+            fit = f;
+            return built;
+        }
+
+        if (model is TetrahedralSpec { Fitted: true } t)
+        {
+            var built = BuildFittedTetrahedral(t, out var f);
+            fit = f;
+            return built;
+        }
+
+        return BuildOther(model);
+    }
+
+    private static CrystalModel BuildOther(ModelSpec model) => model switch
     {
         LatticeModelSpec m => Relaxed(m, CrystalModel.Create(
             BuildLattice(m),
@@ -29,14 +59,6 @@ internal static class EngineObjects
             l.LongitudinalNPerM,
             l.TransverseNPerM,
             l.Motion)),
-        ElasticSpec e => ElasticSpringFit.BuildModel(
-            e.Lattice,
-            e.ConstantNm,
-            MassOf(e.MassAmu, e.Element, "model.elastic"),
-            new CubicElasticConstants(e.C11Gpa, e.C12Gpa, e.C44Gpa),
-            e.NextNearest,
-            e.Motion,
-            out _),
         TetrahedralSpec t => BuildTetrahedral(t),
         _ => throw new ArgumentOutOfRangeException(nameof(model), model.GetType().Name, "unknown model spec"),
     };
@@ -68,13 +90,22 @@ internal static class EngineObjects
     private static CrystalModel Relaxed(LatticeModelSpec spec, CrystalModel model) =>
         spec.Relax && StaticLattice.Analyse(model) is { } s ? model.Scaled(s.EquilibriumScale) : model;
 
-    private static CrystalModel BuildTetrahedral(TetrahedralSpec t)
+    private static (double A, double B) TetrahedralMasses(TetrahedralSpec t)
     {
         var massA = MassOf(t.MassAAmu, t.ElementA, "model.tetrahedral.element_a");
-        var massB = t.Structure == TetrahedralStructure.Diamond ? massA : MassOf(t.MassBAmu, t.ElementB, "model.tetrahedral.element_b");
-        return t.Fitted
-            ? TetrahedralModelBuilder.BuildFitted(t.Structure, t.ConstantNm, massA, massB, new CubicElasticConstants(t.C11Gpa!.Value, t.C12Gpa!.Value, t.C44Gpa!.Value), t.Motion)
-            : TetrahedralModelBuilder.Build(new TetrahedralModelSpec(t.Structure, t.ConstantNm, massA, massB, t.StretchNPerM!.Value, t.BendNPerM!.Value, t.Motion));
+        return (massA, t.Structure == TetrahedralStructure.Diamond ? massA : MassOf(t.MassBAmu, t.ElementB, "model.tetrahedral.element_b"));
+    }
+
+    private static CrystalModel BuildTetrahedral(TetrahedralSpec t)
+    {
+        var (massA, massB) = TetrahedralMasses(t);
+        return TetrahedralModelBuilder.Build(new TetrahedralModelSpec(t.Structure, t.ConstantNm, massA, massB, t.StretchNPerM!.Value, t.BendNPerM!.Value, t.Motion));
+    }
+
+    private static CrystalModel BuildFittedTetrahedral(TetrahedralSpec t, out ElasticFitResult fit)
+    {
+        var (massA, massB) = TetrahedralMasses(t);
+        return TetrahedralModelBuilder.BuildFitted(t.Structure, t.ConstantNm, massA, massB, new CubicElasticConstants(t.C11Gpa!.Value, t.C12Gpa!.Value, t.C44Gpa!.Value), out fit, t.Motion);
     }
 
     private static Lattice BuildLattice(LatticeModelSpec m) => m.Lattice switch
