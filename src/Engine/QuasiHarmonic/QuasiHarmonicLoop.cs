@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using System.Globalization;
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
@@ -43,6 +44,11 @@ internal static class QuasiHarmonicLoop
         var temperatures = Temperatures(options);
         var harmonic = options with { Expansion = null, Conductivity = null };
         var main = PhononSolver.SolveHarmonic(model, sample, harmonic, ct);
+        if (!main.Summary.Stable)
+        {
+            return UnstableAsGiven(main, model, sample, options, statics, temperatures, ct);
+        }
+
         var lean = harmonic with { Dispersion = null, PartialDos = false, MeanSquareDisplacement = false, ModeListMaxModes = 0 };
 
         // Model at the static minimum with its cutoffs there; each volume scales both from it.
@@ -212,6 +218,35 @@ internal static class QuasiHarmonicLoop
             ScalesSolved = [.. samples.Select(v => v.Scale)],
             VolumesUsed = run.Count,
         }, sides);
+    }
+
+    /// <summary>
+    /// The lattice as given is unstable, so its point has no thermal numbers (the lead's rule for unstable
+    /// points): no volumes are solved and every row says why, with the way to a quasi-harmonic state. The
+    /// state around the static minimum does not depend on the lattice as given, but printing Cp and alpha
+    /// beside "unstable" would read as the given lattice's. A conductivity with a given Grueneisen
+    /// parameter runs as in a harmonic solve (its numbers come out empty for an unstable model); without
+    /// one there is none to use, and the conductivity is left out rather than failing the point.
+    /// </summary>
+    private static PointResult UnstableAsGiven(PointResult main, CrystalModel model, Sample sample, SolveOptions options, StaticLatticeResult statics, double[] temperatures, CancellationToken ct)
+    {
+        var reason = string.Create(CultureInfo.InvariantCulture,
+            $"not computed: the lattice as given is unstable; relax = true, or a lattice constant near the static minimum ({statics.EquilibriumLatticeConstantNm:G6} nm), gives the quasi-harmonic state");
+        ExpansionRow[] rows = [.. temperatures.Select(t => new ExpansionRow { TemperatureK = t, Breakdown = reason })];
+        var result = main with
+        {
+            Expansion = new ExpansionResult
+            {
+                Rows = [.. rows.Take(options.TemperaturesK.Length)],
+                AtReference = rows[Array.IndexOf(temperatures, options.ReferenceTemperatureK)],
+                StaticLatticeConstantNm = statics.EquilibriumLatticeConstantNm,
+                ScalesSolved = [1.0],
+                VolumesUsed = 0,
+            },
+        };
+        return options.Conductivity is { GrueneisenParameter: not null }
+            ? ConductivityStep.Attach(result, ConductivityStep.ComputeIfAsked(model, CompiledCrystal.From(model), sample, options, ct))
+            : result;
     }
 
     /// <summary>

@@ -55,6 +55,13 @@ public static class SolveCommand
         var table = SummaryTable(result.Summary, result.ElasticFit, fullPrecision);
         AddInteractions(table, result, fullPrecision);
         table.WriteTo(stdout);
+        if (result.Expansion?.AtReference.Breakdown is { } breakdown)
+        {
+            // Below the table: a sentence in the value column would widen every row.
+            stdout.WriteLine();
+            stdout.WriteLine($"Quasi-harmonic state at the reference temperature: {breakdown}.");
+        }
+
         if (!result.Summary.Stable)
         {
             stdout.WriteLine();
@@ -97,9 +104,9 @@ public static class SolveCommand
 
         if (result.Expansion?.AtReference is { } x)
         {
-            if (x.Breakdown is { } why)
+            if (x.Breakdown is not null)
             {
-                t.Add("quasi-harmonic at reference T", why, "");
+                t.Add("quasi-harmonic at reference T", "none (see below)", "");
             }
             else
             {

@@ -139,6 +139,30 @@ public class QuasiHarmonicTests
     }
 
     [Fact]
+    public void An_unstable_lattice_as_given_gets_no_quasi_harmonic_numbers_but_the_way_to_them()
+    {
+        // Stretched 18 % past the static minimum the nearest pairs sit beyond the inflection of the
+        // potential (phi'' < 0 past r = (26/7)^(1/6) sigma, about 1.24 sigma; common practice, no source): the point is
+        // unstable, and its expansion rows say so instead of showing the state around the minimum.
+        var stretched = CrystalModel.Create(Lattice.FaceCentredCubic(0.62), [new Site("X", "X", Vec3.Zero, 40)],
+            potentials: [new PotentialTerm("X", "X", new LennardJonesPotential(0.0104, 0.34), 0.85)]);
+        var conductivity = new ConductivityOptions { Umklapp = new UmklappScattering(), CheckMeshConvergence = false };
+        var result = PhononSolver.Solve(stretched, Crystal, Options(20, 40) with { Conductivity = conductivity });
+        Assert.False(result.Summary.Stable);
+        Assert.Equal(2, result.Expansion!.Rows.Length);
+        Assert.All(result.Expansion.Rows, r =>
+        {
+            Assert.StartsWith("not computed: the lattice as given is unstable; relax = true", r.Breakdown, StringComparison.Ordinal);
+            Assert.Null(r.LatticeConstantNm);
+            Assert.Null(r.CpJPerMolK);
+            Assert.Null(r.Grueneisen);
+        });
+        Assert.Equal(0, result.Expansion.VolumesUsed);
+        Assert.Equal(1.0, Assert.Single(result.Expansion.ScalesSolved));
+        Assert.Null(result.Conductivity);
+    }
+
+    [Fact]
     public void Expansion_needs_potentials()
     {
         var e = Assert.Throws<ModelException>(() => PhononSolver.Solve(Crystals.FccCentral(), Crystal, Options(100)));
