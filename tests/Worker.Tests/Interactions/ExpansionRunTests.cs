@@ -86,6 +86,32 @@ public sealed class ExpansionRunTests : IDisposable
     }
 
     [Fact]
+    public void An_unstable_lattice_as_given_has_its_breakdown_in_points_and_no_expansion_rows()
+    {
+        // Without relax, a = 0.62 nm puts the nearest pairs past the inflection of the potential: that point is
+        // unstable (exit 4), its points/ row says why there is no quasi-harmonic state, and expansion/ has no rows
+        // for it (the lead's rule: no thermal numbers beside an unstable model).
+        var job = Path.Combine(_dir.Path, "lj-stretched.toml");
+        File.WriteAllText(job, PotentialJobFileTests.LjJob(
+            sweep: "[[sweep.axes]]\npath = \"model.constant_nm\"\nvalues = [0.53, 0.62]",
+            output: "reference_temperature_k = 50\ntables = [\"thermal\", \"expansion\"]\n\n[output.expansion]\nvolumes = 7"));
+        var run = Support.Cli.Run(_dir.Path, "run", job, "--workers", "1");
+        Assert.True(run.ExitCode == 4, run.Stdout + run.Stderr);
+        var folder = Directory.GetDirectories(_dir.Combine("results")).Single();
+
+        using var db = new DuckDb();
+        var points = db.Rows($"SELECT constant_nm, state, expansion_breakdown, cp_j_per_mol_k, expansion_volumes_used FROM {DuckDb.Glob(Path.Combine(folder, "points"))} ORDER BY 1");
+        Assert.Equal("done", points[0][1]);
+        Assert.Null(points[0][2]);
+        Assert.NotNull(points[0][3]);
+        Assert.Equal("unstable", points[1][1]);
+        Assert.StartsWith("not computed: the lattice as given is unstable; relax = true, or a lattice constant near the static minimum (0.52", (string)points[1][2]!, StringComparison.Ordinal);
+        Assert.Null(points[1][3]);
+        Assert.Equal(0, Convert.ToInt32(points[1][4], System.Globalization.CultureInfo.InvariantCulture));
+        Assert.Equal([0.53], db.Rows($"SELECT DISTINCT constant_nm FROM {DuckDb.Glob(Path.Combine(folder, "expansion"))}").Select(r => (double)r[0]!));
+    }
+
+    [Fact]
     public void Expansion_input_mistakes_are_located()
     {
         var dir = new TempDirectory();
