@@ -28,6 +28,7 @@ internal sealed class FreeEnergySurface
     private readonly bool _unstableBelow;
     private readonly bool _unstableAbove;
     private readonly double[] _staticEnergies;
+    private readonly Dictionary<int, Polynomial> _projectors = [];
 
     /// <param name="usable">The contiguous run of usable volumes, ascending (at least four).</param>
     /// <param name="unstableBelow">A volume just below the run was solved and was unstable.</param>
@@ -80,10 +81,16 @@ internal sealed class FreeEnergySurface
         var first = Math.Clamp(lowest - size / 2, 0, _volumes.Length - size);
         var window = _volumes[first..(first + size)];
         var degree = size switch { >= 6 => 4, 5 => 3, _ => 2 };
-        var y = window.Select(v => v.CellMeasure / _v0 - 1).ToArray();
-        var f = Polynomial.Fit(y, [.. window.Select(v => v.FreeEnergyJ[t])], degree);
-        var s = Polynomial.Fit(y, [.. window.Select(v => v.EntropyJPerK[t])], degree);
-        var c = Polynomial.Fit(y, [.. window.Select(v => v.HeatCapacityJPerK[t])], degree);
+        // The window's volumes are the same at every temperature: its least-squares projector is made once.
+        if (!_projectors.TryGetValue(first, out var fit))
+        {
+            fit = new Polynomial(window.Select(v => v.CellMeasure / _v0 - 1).ToArray(), degree);
+            _projectors[first] = fit;
+        }
+
+        var f = fit.Coefficients(window.Select(v => v.FreeEnergyJ[t]));
+        var s = fit.Coefficients(window.Select(v => v.EntropyJPerK[t]));
+        var c = fit.Coefficients(window.Select(v => v.HeatCapacityJPerK[t]));
 
         // F'(V) and F''(V): the static part exact (one lattice sum gives both), the vibrational part from the fit.
         (double Slope, double Curvature) Derivatives(double v)
@@ -200,8 +207,34 @@ internal sealed class FreeEnergySurface
     }
 }
 
-/// <summary>Least-squares polynomial coefficients (constant first), through MathNet.</summary>
-internal static class Polynomial
+/// <summary>
+/// Least-squares polynomial fits of any data at fixed abscissae: the QR solve of the Vandermonde
+/// design that MathNet's Fit.Polynomial makes per call, made once for the identity, so each fit is a
+/// small matrix-vector product (the quasi-harmonic loop fits three quantities per temperature).
+/// </summary>
+internal sealed class Polynomial
 {
-    public static double[] Fit(double[] x, double[] y, int degree) => MathNet.Numerics.Fit.Polynomial(x, y, degree);
+    private readonly double[,] _projector;
+
+    public Polynomial(double[] x, int degree)
+    {
+        var design = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.Dense(x.Length, degree + 1, (i, j) => Math.Pow(x[i], j));
+        _projector = design.QR().Solve(MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseIdentity(x.Length)).ToArray();
+    }
+
+    /// <summary>Coefficients, constant first, of the least-squares polynomial through (x, y).</summary>
+    public double[] Coefficients(IEnumerable<double> y)
+    {
+        var values = y.ToArray();
+        var p = new double[_projector.GetLength(0)];
+        for (var i = 0; i < p.Length; i++)
+        {
+            for (var k = 0; k < values.Length; k++)
+            {
+                p[i] += _projector[i, k] * values[k];
+            }
+        }
+
+        return p;
+    }
 }
