@@ -127,7 +127,8 @@ if expansion:
 print()
 print(f"{'case':34} {'ours':>12} {'numpy peer':>12} {'peer/ours':>10}  agreement / notes  ((e): engine alone | through the queue)")
 for name, a, b, ratio, note in rows:
-    print(f"{name:34} {a:>12} {b:>12} {ratio:>9.2f}x  {note}")
+    shown = "-" if ratio != ratio else f"{ratio:.2f}x"  # NaN: a row with no peer ratio (ours against ours)
+    print(f"{name:34} {a:>12} {b:>12} {shown:>10}  {note}")
 print()
 peer_any = load("peer_eigen.json") or load("peer_bulk.json")
 if peer_any:
