@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.Globalization;
+using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Worker.JobFiles;
 using LatticeSweep.Worker.Planning.Expansion;
@@ -121,18 +122,33 @@ internal static class SweepPlanner
         var interactionSeen = new HashSet<(string, string)>();
         var interactionCount = 0;
         duplicates = 0;
-        foreach (var values in SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes))
-        {
-            var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
-            for (var j = 0; j < columns.Count; j++)
+        // Each point's spec, checks and id hash are independent: computed on every core, in plan order.
+        var computed = SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes)
+            .AsParallel().AsOrdered()
+            .Select(values =>
             {
-                builder[columns[j].Column] = values[j];
-            }
+                var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
+                for (var j = 0; j < columns.Count; j++)
+                {
+                    builder[columns[j].Column] = values[j];
+                }
 
-            var parameters = builder.ToImmutable();
-            var provisional = new PlannedPoint("", points.Count, parameters);
-            var spec = PointBinder.Apply(template, provisional);
-            if (SpecChecks.Check(spec) is { } wrong)
+                var parameters = builder.ToImmutable();
+                var spec = PointBinder.Apply(template, new PlannedPoint("", 0, parameters));
+                if (SpecChecks.Check(spec) is { } wrong)
+                {
+                    return (Parameters: parameters, Wrong: wrong, Found: (IReadOnlyList<ModelProblem>)[], Id: "");
+                }
+
+                var found = InteractionProblems.Of(spec);
+                return found.Count > 0
+                    ? (Parameters: parameters, Wrong: (string?)null, Found: found, Id: "")
+                    : (Parameters: parameters, Wrong: (string?)null, Found: found, Id: PointIdentity.PointId(CanonicalSpec.Write(spec, options),
+                        parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value))));
+            });
+        foreach (var (parameters, wrong, found, id) in computed)
+        {
+            if (wrong is not null)
             {
                 badCount++;
                 if (badCombinations.Count < MaxPointProblemsShown)
@@ -143,7 +159,6 @@ internal static class SweepPlanner
                 continue;
             }
 
-            var found = InteractionProblems.Of(spec);
             if (found.Count > 0)
             {
                 interactionCount++;
@@ -159,15 +174,13 @@ internal static class SweepPlanner
                 continue;
             }
 
-            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options),
-                parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value)));
             if (!seen.Add(id))
             {
                 duplicates++;
                 continue;
             }
 
-            points.Add(provisional with { PointId = id });
+            points.Add(new PlannedPoint(id, points.Count, parameters));
         }
 
         foreach (var (key, message) in interactionProblems)
