@@ -81,6 +81,55 @@ public class BondBendingTests
         Assert.Contains(crystal.Couplings, c => c.I == 0 && c.J == 0);
     }
 
+    [Fact]
+    public void D_of_q_with_bends_is_the_plain_Fourier_sum_of_every_directed_block_one_q_or_many()
+    {
+        // D_ij(q) = sum over couplings i -> j of -K e^{i q.d} / sqrt(m_i m_j), plus the self-terms: written out
+        // here block by block, each direction with its own (transposed) block, against the solver's kernels,
+        // which pair each coupling with its reverse (common practice, no source).
+        var crystal = CompiledCrystal.From(BondedCrystals.Tetrahedral(Stretch, Bend, 27, 75));
+        var matrix = new DynamicalMatrix(crystal);
+        var n = crystal.Size;
+        Vec3 Q(double x, double y, double z) => (x * crystal.Lattice.ReciprocalVector(0)) + (y * crystal.Lattice.ReciprocalVector(1)) + (z * crystal.Lattice.ReciprocalVector(2));
+        Vec3[] qs = [Q(0.13, 0.29, 0.41), Q(0.37, -0.08, 0.22)];
+        var many = new Complex[qs.Length * n * n];
+        matrix.BuildMany(qs, many);
+        for (var k = 0; k < qs.Length; k++)
+        {
+            var expected = new Complex[n * n];
+            for (var i = 0; i < crystal.Sites; i++)
+            {
+                AddBlock(expected, n, i, i, crystal.SelfTerms[i], 1 / crystal.MassesKg[i]);
+            }
+
+            foreach (var c in crystal.Couplings)
+            {
+                var phase = Complex.FromPolarCoordinates(1, c.SeparationM.Dot(qs[k]));
+                AddBlock(expected, n, c.I, c.J, c.SpringNPerM, -phase / Math.Sqrt(crystal.MassesKg[c.I] * crystal.MassesKg[c.J]));
+            }
+
+            var one = new Complex[n * n];
+            matrix.Build(qs[k], one);
+            var scale = expected.Max(z => z.Magnitude);
+            for (var e = 0; e < n * n; e++)
+            {
+                Assert.True((one[e] - expected[e]).Magnitude <= 1e-12 * scale, $"Build, q {k}, element {e}: {one[e]} against {expected[e]}");
+                Assert.True((many[(k * n * n) + e] - expected[e]).Magnitude <= 1e-12 * scale, $"BuildMany, q {k}, element {e}");
+            }
+        }
+    }
+
+    private static void AddBlock(Complex[] d, int n, int i, int j, Matrix3 k, Complex factor)
+    {
+        for (var a = 0; a < 3; a++)
+        {
+            for (var c = 0; c < 3; c++)
+            {
+                d[(((3 * i) + a) * n) + (3 * j) + c] += factor * k[a, c];
+            }
+        }
+    }
+
     [Theory]
     [InlineData(BendForm.Keating)]
     [InlineData(BendForm.Angle)]
