@@ -128,10 +128,20 @@ if queue:
                      f"({r.get('fixed_s', float('nan')):.2f} s wall) -> {r.get('overhead_cpu_ms_per_point', float('nan')):.3f} ms CPU/point; "
                      f"wall overhead {r['overhead_fraction'] * 100:.1f}%, {r.get('overhead_fraction_without_fixed', float('nan')) * 100:.1f}% without the fixed cost; load {r.get('load', '?')}"))
 
+expansion = load("ours_expansion.json")
+if expansion:
+    r = expansion["result"]
+    rows.append((f"(f) quasi-harmonic, {r['volumes']} volumes", f"{r['quasi_harmonic_s']:.3f} s",
+                 f"{r['same_7_solves_s']:.3f} s", float("nan"),
+                 f"against the same 7 harmonic solves: overhead {(r['quasi_harmonic_s'] / r['same_7_solves_s'] - 1) * 100:+.1f}% "
+                 f"(cpu {(r['quasi_harmonic_cpu_s'] / r['same_7_solves_cpu_s'] - 1) * 100:+.1f}%); against 7 full harmonic points "
+                 f"{(r['quasi_harmonic_s'] / r['seven_full_points_s'] - 1) * 100:+.1f}%"))
+
 print()
 print(f"{'case':34} {'ours':>12} {'numpy peer':>12} {'peer/ours':>10}  agreement / notes  ((e): engine alone | through the queue)")
 for name, a, b, ratio, note in rows:
-    print(f"{name:34} {a:>12} {b:>12} {ratio:>9.2f}x  {note}")
+    shown = "-" if ratio != ratio else f"{ratio:.2f}x"  # NaN: a row with no peer ratio (ours against ours)
+    print(f"{name:34} {a:>12} {b:>12} {shown:>10}  {note}")
 paths = load("ours_eigen-paths.json")
 if paths:
     print()

@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # One command for the benchmarks: builds the engine's bench harness in Release, runs each case on our
 # side and on the NumPy peer with the same inputs (bench/cases.json), prints the ratios and checks that
-# both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue, the
+# both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue expansion, the
 # default; run only when named: eigen-paths, which times every SIMD width and method of the eigen-solver
 # per order, "cost", which calibrates the Worker's run-time estimate, and surfaces-dense surfaces-kpm
 # surfaces-kpm-denser surfaces-memory (free nanocrystals), all ours alone).
@@ -14,7 +14,7 @@ root="$(dirname "$here")"
 results="${RESULTS:-$here/results}"
 repeats="${REPEATS:-5}"
 cases=("$@")
-[ ${#cases[@]} -eq 0 ] && cases=(eigen bulk finite-chain finite-3d queue)
+[ ${#cases[@]} -eq 0 ] && cases=(eigen bulk finite-chain finite-3d queue expansion)
 mkdir -p "$results"
 
 # The peer is NumPy as a user of this system gets it: Debian's python3-numpy on Debian's OpenBLAS
@@ -55,6 +55,11 @@ bench="$here/LatticeSweep.Bench/bin/Release/net10.0/LatticeSweep.Bench"
 
 for c in "${cases[@]}"; do
   echo "== $c"
+  if [ "$c" = expansion ]; then
+    # Ours against ours: one quasi-harmonic point against the harmonic solves it is made of.
+    "$bench" expansion --cases "$here/cases.json" --out "$results" --repeats "$repeats"
+    continue
+  fi
   if [ "$c" = eigen-paths ]; then
     "$bench" eigen-paths --out "$results" --repeats "$repeats"
     continue

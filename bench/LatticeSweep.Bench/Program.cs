@@ -4,7 +4,7 @@ using System.Text.Json;
 using LatticeSweep.Bench;
 
 // Usage: LatticeSweep.Bench CASE --cases FILE --out DIR [--repeats K] [--check-temperatures EVERY]
-// CASE: eigen | eigen-paths | bulk | finite-chain | finite-3d | queue | cost | surfaces-dense | surfaces-kpm |
+// CASE: eigen | eigen-paths | bulk | finite-chain | finite-3d | queue | cost | expansion | surfaces-dense | surfaces-kpm |
 // surfaces-kpm-denser | surfaces-memory (the surfaces-* cases take only --out). Each case runs in its own process so that its
 // peak memory is its own; bench/run.sh runs them all and compares with the NumPy peer.
 var argList = args.ToList();
@@ -116,6 +116,12 @@ switch (caseName)
         // time grows linearly with moments x vectors from this figure).
         report["kpm"] = SurfaceCase.Kpm(radiusNm: 15.64, denser: false, new LatticeSweep.Engine.Samples.KpmSettings { Moments = 128, RandomVectors = 2 });
         break;
+    case "expansion":
+        report["result"] = ExpansionCase.Run(
+            mesh: int.Parse(Option("--mesh", "16"), System.Globalization.CultureInfo.InvariantCulture),
+            temperatures: 50,
+            repeats);
+        break;
 
     case "queue":
     {
@@ -130,7 +136,7 @@ switch (caseName)
     }
 
     default:
-        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, eigen-paths, bulk, finite-chain, finite-3d, queue, cost or surfaces-dense|kpm|kpm-denser|memory");
+        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, eigen-paths, bulk, finite-chain, finite-3d, queue, cost, expansion or surfaces-dense|kpm|kpm-denser|memory");
         return 2;
 }
 

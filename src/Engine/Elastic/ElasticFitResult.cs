@@ -4,8 +4,11 @@ using LatticeSweep.Engine.Results;
 namespace LatticeSweep.Engine.Elastic;
 
 /// <summary>
-/// Central springs fitted to elastic constants, what they reproduce and how far off that is.
+/// Springs fitted to elastic constants, what they reproduce and how far off that is.
 /// <see cref="RelativeResidual"/> = ||C_model - C_given|| / ||C_given|| over (C11, C12, C44).
+/// Central springs (<see cref="ElasticSpringFit"/>) fill the nearest and next-nearest constants; a
+/// tetrahedral valence force field (<see cref="BondBendingFit"/>) the nearest (bond-stretch) one and
+/// <see cref="BendNPerM"/>.
 /// </summary>
 public sealed record ElasticFitResult(
     double NearestNPerM,
@@ -14,4 +17,8 @@ public sealed record ElasticFitResult(
     CubicElasticConstants Reproduced,
     double RelativeResidual,
     double DensityKgPerM3,
-    ImmutableArray<SoundSpeed> SoundSpeeds);
+    ImmutableArray<SoundSpeed> SoundSpeeds)
+{
+    /// <summary>Keating bond-bend constant of a tetrahedral fit, N/m; null for central springs.</summary>
+    public double? BendNPerM { get; init; }
+}

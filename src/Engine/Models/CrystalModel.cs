@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Springs;
 
 namespace LatticeSweep.Engine.Models;
@@ -19,7 +20,9 @@ public sealed record CrystalModel
         ImmutableArray<ShellSpring> shellSprings,
         ImmutableArray<BondSpring> bondSprings,
         DegreesOfFreedom degreesOfFreedom,
-        double shellToleranceNm)
+        double shellToleranceNm,
+        ImmutableArray<BendSpring> bends,
+        ImmutableArray<PotentialTerm> potentials)
     {
         Lattice = lattice;
         Sites = sites;
@@ -27,6 +30,8 @@ public sealed record CrystalModel
         BondSprings = bondSprings;
         DegreesOfFreedom = degreesOfFreedom;
         ShellToleranceNm = shellToleranceNm;
+        Bends = bends;
+        Potentials = potentials;
     }
 
     public Lattice Lattice { get; }
@@ -35,6 +40,27 @@ public sealed record CrystalModel
     public ImmutableArray<BondSpring> BondSprings { get; }
     public DegreesOfFreedom DegreesOfFreedom { get; }
     public double ShellToleranceNm { get; }
+
+    /// <summary>Three-body bond-bending terms (Interactions/), compiled to pair blocks like the springs.</summary>
+    public ImmutableArray<BendSpring> Bends { get; }
+
+    /// <summary>Pair potentials between site kinds; their springs follow from the geometry (phi'' along, phi'/r across each pair).</summary>
+    public ImmutableArray<PotentialTerm> Potentials { get; }
+
+    /// <summary>
+    /// The same model with every lattice vector (and so every site position and bond) scaled by
+    /// <paramref name="factor"/>: isotropic expansion or compression. Hand-set springs keep their
+    /// constants; springs from potentials follow the new geometry.
+    /// </summary>
+    /// <param name="factor">Scale factor of the lattice vectors.</param>
+    /// <param name="scaleCutoffs">Scale the potentials' cutoffs too, so the same pairs interact at every scale
+    /// (the quasi-harmonic volumes: a shell crossing a fixed cutoff would make the springs jump).</param>
+    public CrystalModel Scaled(double factor, bool scaleCutoffs = false)
+    {
+        Guard.PositiveFinite(factor, "lattice scale", "the scale factor");
+        var potentials = scaleCutoffs ? [.. Potentials.Select(p => p with { CutoffNm = p.CutoffNm * factor })] : Potentials;
+        return new CrystalModel(Lattice.Scaled(factor), Sites, ShellSprings, BondSprings, DegreesOfFreedom, ShellToleranceNm, Bends, potentials);
+    }
 
     /// <summary>Displacement components per atom: 3, or 1 for the scalar model.</summary>
     public int ComponentsPerSite => DegreesOfFreedom == DegreesOfFreedom.Scalar ? 1 : 3;
@@ -64,13 +90,17 @@ public sealed record CrystalModel
         IEnumerable<ShellSpring>? shellSprings = null,
         IEnumerable<BondSpring>? bondSprings = null,
         DegreesOfFreedom degreesOfFreedom = DegreesOfFreedom.Cartesian,
-        double shellToleranceNm = DefaultShellToleranceNm)
+        double shellToleranceNm = DefaultShellToleranceNm,
+        IEnumerable<BendSpring>? bends = null,
+        IEnumerable<PotentialTerm>? potentials = null)
     {
         ArgumentNullException.ThrowIfNull(lattice);
         ArgumentNullException.ThrowIfNull(sites);
         var siteArray = sites.ToImmutableArray();
         var shells = (shellSprings ?? []).ToImmutableArray();
         var bonds = (bondSprings ?? []).ToImmutableArray();
+        var bendArray = (bends ?? []).ToImmutableArray();
+        var potentialArray = (potentials ?? []).ToImmutableArray();
         var problems = new List<ModelProblem>();
 
         if (!double.IsFinite(shellToleranceNm) || shellToleranceNm <= 0)
@@ -86,13 +116,14 @@ public sealed record CrystalModel
         ValidateSites(lattice, siteArray, shellToleranceNm, problems);
         ValidateShellSprings(siteArray, shells, problems);
         ValidateBondSprings(siteArray, bonds, degreesOfFreedom, lattice.Dimension, problems);
+        InteractionValidation.Check(siteArray, bendArray, potentialArray, degreesOfFreedom, lattice.Dimension, problems);
 
         if (problems.Count > 0)
         {
             throw new ModelException(problems);
         }
 
-        return new CrystalModel(lattice, siteArray, shells, bonds, degreesOfFreedom, shellToleranceNm);
+        return new CrystalModel(lattice, siteArray, shells, bonds, degreesOfFreedom, shellToleranceNm, bendArray, potentialArray);
     }
 
     private static void ValidateSites(Lattice lattice, ImmutableArray<Site> sites, double toleranceNm, List<ModelProblem> problems)

@@ -53,6 +53,19 @@ public sealed record Lattice
 
     public Vec3 ReciprocalVector(int i) => i switch { 0 => B1PerM, 1 => B2PerM, 2 => B3PerM, _ => throw new ArgumentOutOfRangeException(nameof(i)) };
 
+    /// <summary>
+    /// The same lattice with its real vectors (not the placeholders of a 1D or 2D lattice) and its
+    /// constant scaled by <paramref name="factor"/>: isotropic expansion or compression.
+    /// </summary>
+    public Lattice Scaled(double factor)
+    {
+        Guard.PositiveFinite(factor, "lattice scale", "the scale factor");
+        var a1 = factor * A1M;
+        var a2 = Dimension >= 2 ? factor * A2M : A2M;
+        var a3 = Dimension >= 3 ? factor * A3M : A3M;
+        return new Lattice(Kind, Dimension, ConstantNm * factor, a1, a2, a3);
+    }
+
     /// <summary>Cartesian position (m) of fractional coordinates.</summary>
     public Vec3 ToCartesianM(Vec3 fractional) => fractional.X * A1M + fractional.Y * A2M + fractional.Z * A3M;
 

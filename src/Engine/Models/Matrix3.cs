@@ -22,6 +22,12 @@ public readonly record struct Matrix3(
         s * u.Y * u.X, s * u.Y * u.Y, s * u.Y * u.Z,
         s * u.Z * u.X, s * u.Z * u.Y, s * u.Z * u.Z);
 
+    /// <summary>Outer product s * u v^T (not symmetric unless u and v are parallel).</summary>
+    public static Matrix3 Outer(Vec3 u, Vec3 v, double s) => new(
+        s * u.X * v.X, s * u.X * v.Y, s * u.X * v.Z,
+        s * u.Y * v.X, s * u.Y * v.Y, s * u.Y * v.Z,
+        s * u.Z * v.X, s * u.Z * v.Y, s * u.Z * v.Z);
+
     public static Matrix3 Diagonal(double d) => new(d, 0, 0, 0, d, 0, 0, 0, d);
 
     public static Matrix3 FromRows(IReadOnlyList<double> nine)

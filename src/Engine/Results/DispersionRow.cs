@@ -15,4 +15,8 @@ public sealed record DispersionRow(
     double FrequencyThz,
     double GroupVelocityXMPerS,
     double GroupVelocityYMPerS,
-    double GroupVelocityZMPerS);
+    double GroupVelocityZMPerS)
+{
+    /// <summary>Mode Grueneisen parameter -d ln omega / d ln V (quasi-harmonic runs that ask for it; null otherwise or at omega = 0).</summary>
+    public double? ModeGrueneisen { get; init; }
+}

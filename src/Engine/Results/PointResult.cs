@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using LatticeSweep.Engine.Elastic;
+using LatticeSweep.Engine.QuasiHarmonic;
 using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Engine.Results;
@@ -27,6 +28,8 @@ public sealed record PointResult(
 
     /// <summary>Films and wires with conductivity asked for: kappa from their own confined modes along the periodic directions.</summary>
     public ConfinedConductivityResult? ConfinedConductivity { get; init; }
+    /// <summary>Quasi-harmonic thermal expansion, when the options asked for it.</summary>
+    public ExpansionResult? Expansion { get; init; }
 
     /// <summary>
     /// When the model's springs were fitted to elastic constants: the fit (its relative residual, the

@@ -1,4 +1,6 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.Elastic;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 
 namespace LatticeSweep.Engine.Results;
@@ -70,4 +72,13 @@ public sealed record PointSummary
 
     /// <summary>Cahill-Pohl-Watson minimum conductivity at the reference temperature, W/(m K); null when not computed or undefined.</summary>
     public double? KappaMinWPerMK { get; init; }
+
+    /// <summary>Lattice constant the point was solved at, nm (after any relaxation to the static minimum).</summary>
+    public double? LatticeConstantNm { get; init; }
+
+    /// <summary>C11, C12, C44 from the long-wave limit (cubic lattices only; see <see cref="LongWaveElasticity"/>).</summary>
+    public CubicElasticConstants? ElasticConstants { get; init; }
+
+    /// <summary>Static energy, pressure and equilibrium of a model built from potentials; null without potentials.</summary>
+    public StaticLatticeResult? StaticLattice { get; init; }
 }

@@ -25,6 +25,7 @@ public static partial class PhononSolver
         CheckSample(model, sample);
 
         var crystal = CompiledCrystal.From(model);
+        var staticLattice = ModelPropertiesStep.StaticLatticeOf(model);
         var solver = new ModeSolver(new DynamicalMatrix(crystal));
         CheckNoFloppyBranch(solver);
         var conductivity = Transport.ConductivityStep.ComputeIfAsked(model, crystal, sample, options, ct);
@@ -41,7 +42,8 @@ public static partial class PhononSolver
 
         var speeds = SoundSpeedFinder.Find(solver);
         var dispersion = options.Dispersion is null ? [] : DispersionCalculator.Compute(solver, options.Dispersion, ct);
-        return Transport.ConductivityStep.Attach(Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion), conductivity);
+        var result = Transport.ConductivityStep.Attach(Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion), conductivity);
+        return ModelPropertiesStep.Attach(result, model, crystal, staticLattice);
     }
 
     private static WorkEstimate EstimateCore(CrystalModel model, Sample sample, SolveOptions options)

@@ -14,7 +14,8 @@ public static partial class PhononSolver
 {
     /// <summary>
     /// The checks <see cref="Solve"/> makes about the model before any spectrum, without the
-    /// spectrum: it compiles the force constants and refuses a branch of zero frequency at a general
+    /// spectrum: it compiles the force constants (bends and potentials included), finds the static
+    /// minimum of a model with potentials, and refuses a branch of zero frequency at a general
     /// wave vector (throws <see cref="ModelException"/> as <see cref="Solve"/> would). It also looks
     /// for zero-frequency branches on the planes and lines through q = 0, where a floppy model (say,
     /// central springs only on a simple cubic lattice) has modes the thermal sums leave out. A few
@@ -24,6 +25,7 @@ public static partial class PhononSolver
     {
         ArgumentNullException.ThrowIfNull(model);
         var solver = new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(model)));
+        ModelPropertiesStep.StaticLatticeOf(model);
         CheckNoFloppyBranch(solver);
         return new ModelPreflight(model.BranchCount, ZeroBranchThroughGamma(solver));
     }
@@ -56,9 +58,15 @@ public static partial class PhononSolver
                     $"a {b.M1}x{b.M2}x{b.M3} mesh with {n} branches needs more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");
         }
 
+        if (options.Expansion is { } expansion)
+        {
+            QuasiHarmonic.QuasiHarmonicLoop.Validate(model, expansion);
+        }
+
         if (options.Conductivity is { } conductivity)
         {
-            ConductivityOptionsValidation.Check(model, sample, conductivity);
+            // With thermal expansion a missing Grueneisen parameter is computed, as Solve does.
+            ConductivityOptionsValidation.Check(model, sample, options.Expansion is null ? conductivity : conductivity with { GrueneisenParameter = conductivity.GrueneisenParameter ?? 1.0 });
         }
     }
 

@@ -14,14 +14,37 @@ public static partial class PhononSolver
     public static string EngineVersion =>
         typeof(PhononSolver).Assembly.GetName().Version?.ToString(3) ?? "0.0.0";
 
-    /// <summary>Solves one model. Throws <see cref="Errors.ModelException"/> for a model that cannot be solved.</summary>
+    /// <summary>
+    /// Solves one model. Throws <see cref="Errors.ModelException"/> for a model that cannot be solved.
+    /// With <see cref="SolveOptions.Expansion"/> the quasi-harmonic loop runs one harmonic solve per
+    /// volume around it (QuasiHarmonic/); the harmonic solve itself knows nothing of it.
+    /// </summary>
     public static PointResult Solve(CrystalModel model, Sample sample, SolveOptions options, CancellationToken cancellationToken = default)
-        => SolveCore(model, sample, options, cancellationToken);
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        return options.Expansion is null
+            ? SolveCore(model, sample, options, cancellationToken)
+            : QuasiHarmonic.QuasiHarmonicLoop.Solve(model, sample, options, cancellationToken);
+    }
 
     /// <summary>
     /// A cheap estimate of the work (number of eigen-solves times the cube of the matrix size, a
     /// relative unit) and of the peak working memory, made before starting.
     /// </summary>
     public static WorkEstimate Estimate(CrystalModel model, Sample sample, SolveOptions options)
-        => EstimateCore(model, sample, options);
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        var one = EstimateCore(model, sample, options);
+        if (options.Expansion is not { } expansion)
+        {
+            return one;
+        }
+
+        var solves = QuasiHarmonic.QuasiHarmonicLoop.SolveCount(expansion);
+        return one with { EigenSolves = one.EigenSolves * solves, FlopEstimate = one.FlopEstimate * solves };
+    }
+
+    /// <summary>One harmonic solve (the options' expansion, if any, is not looked at).</summary>
+    internal static PointResult SolveHarmonic(CrystalModel model, Sample sample, SolveOptions options, CancellationToken cancellationToken)
+        => SolveCore(model, sample, options with { Expansion = null }, cancellationToken);
 }

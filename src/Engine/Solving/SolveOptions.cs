@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.QuasiHarmonic;
 using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Engine.Solving;
@@ -37,4 +38,7 @@ public sealed record SolveOptions
 
     /// <summary>Lattice thermal-conductivity estimates; null = not computed.</summary>
     public ConductivityOptions? Conductivity { get; init; }
+
+    /// <summary>Quasi-harmonic thermal expansion (models with potentials); null = harmonic only. Run by <see cref="PhononSolver.Solve"/> around the harmonic solves.</summary>
+    public ExpansionOptions? Expansion { get; init; }
 }

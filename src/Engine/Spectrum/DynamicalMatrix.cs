@@ -163,16 +163,18 @@ internal sealed partial class DynamicalMatrix
             var backward = 2 * ((((p.J * c) + a) * n) + (p.I * c));
             for (var b = 0; b < c; b++)
             {
+                // The reverse coupling carries K^T: its (a, b) element is K's (b, a) (bond-bending blocks are not symmetric).
                 var kab = k[(a * c) + b];
+                var kba = k[(b * c) + a];
                 d[forward + (2 * b)] += kab * cos;
                 d[forward + (2 * b) + 1] += kab * sin;
-                d[backward + (2 * b)] += kab * cos;
-                d[backward + (2 * b) + 1] -= kab * sin;
+                d[backward + (2 * b)] += kba * cos;
+                d[backward + (2 * b) + 1] -= kba * sin;
             }
         }
     }
 
-    /// <summary>Pairs each coupling with its reverse (the force-constant builder emits them one after the other).</summary>
+    /// <summary>Pairs each coupling with its reverse, which carries the transposed block (the force-constant builder emits them one after the other).</summary>
     private static ScaledPair[]? PairUp(PairCoupling[] couplings, double[] inverseSqrtMass, int c)
     {
         if (couplings.Length % 2 != 0)
@@ -186,7 +188,7 @@ internal sealed partial class DynamicalMatrix
             var f = couplings[2 * p];
             var r = couplings[(2 * p) + 1];
             var d = f.SeparationM;
-            if (r.I != f.J || r.J != f.I || r.SeparationM != new Vec3(-d.X, -d.Y, -d.Z) || r.SpringNPerM != f.SpringNPerM)
+            if (r.I != f.J || r.J != f.I || r.SeparationM != new Vec3(-d.X, -d.Y, -d.Z) || r.SpringNPerM != f.SpringNPerM.Transpose())
             {
                 return null;
             }

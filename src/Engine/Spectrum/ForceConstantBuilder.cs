@@ -1,5 +1,3 @@
-using System.Collections.Immutable;
-using System.Globalization;
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Springs;
@@ -7,9 +5,10 @@ using LatticeSweep.Engine.Springs;
 namespace LatticeSweep.Engine.Spectrum;
 
 /// <summary>
-/// Turns shell and bond springs into directed couplings. Each undirected spring is emitted once in
-/// each direction (so D(q) is Hermitian), and every coupling adds its tensor to the self-term of
-/// the site it starts from (so rigid translations cost nothing: the acoustic sum rule).
+/// Turns shell and bond springs, bond-bending terms and pair potentials into directed couplings
+/// (through <see cref="CouplingAccumulator"/>). Each block is emitted once in each direction (the
+/// reverse carries its transpose, so D(q) is Hermitian), and every coupling adds its block to the
+/// self-term of the site it starts from (so rigid translations cost nothing: the acoustic sum rule).
 /// </summary>
 internal static class ForceConstantBuilder
 {
@@ -19,12 +18,12 @@ internal static class ForceConstantBuilder
         var sites = model.Sites;
         var positions = sites.Select(s => lattice.ToCartesianM(s.Fractional)).ToArray();
         var scalar = model.DegreesOfFreedom == DegreesOfFreedom.Scalar;
-        var bonds = new Dictionary<BondKey, Matrix3>();
+        var blocks = new CouplingAccumulator();
         var problems = new List<ModelProblem>();
 
         for (var s = 0; s < model.ShellSprings.Length; s++)
         {
-            AddShell(model, positions, s, scalar, bonds, problems);
+            AddShell(model, positions, s, scalar, blocks, problems);
         }
 
         for (var b = 0; b < model.BondSprings.Length; b++)
@@ -40,32 +39,26 @@ internal static class ForceConstantBuilder
                 continue;
             }
 
-            Accumulate(bonds, Canonical(i, j, bond.CellOffset), tensor);
+            blocks.Add(i, j, bond.CellOffset, tensor);
         }
+
+        // Many-body and potential-derived terms compile into the same pair blocks (Interactions/).
+        Interactions.BendCompiler.AddTo(model, positions, blocks, problems);
+        Interactions.PotentialSprings.AddTo(model, positions, blocks, problems);
 
         if (problems.Count > 0)
         {
             throw new ModelException(problems);
         }
 
-        var couplings = ImmutableArray.CreateBuilder<PairCoupling>(bonds.Count * 2);
-        var selfTerms = new Matrix3[sites.Length];
-        foreach (var (key, k) in bonds)
-        {
-            var d = lattice.ToCartesianM(key.Offset.AsVec3()) + positions[key.J] - positions[key.I];
-            couplings.Add(new PairCoupling(key.I, key.J, d, k));
-            couplings.Add(new PairCoupling(key.J, key.I, -d, k));
-            selfTerms[key.I] += k;
-            selfTerms[key.J] += k;
-        }
-
+        var (couplings, selfTerms) = blocks.Compile(lattice, positions);
         CheckEverySiteConnected(model, selfTerms, scalar);
 
         return new CompiledCrystal
         {
             Model = model,
             MassesKg = [.. sites.Select(s => CompiledCrystal.KgFromAmu(s.MassAmu))],
-            Couplings = couplings.ToImmutable(),
+            Couplings = couplings,
             SelfTerms = [.. selfTerms],
         };
     }
@@ -82,12 +75,12 @@ internal static class ForceConstantBuilder
         return Matrix3.Outer(e, longitudinal - transverse) + Matrix3.Diagonal(transverse);
     }
 
-    private static void AddShell(CrystalModel model, Vec3[] positions, int springIndex, bool scalar, Dictionary<BondKey, Matrix3> bonds, List<ModelProblem> problems)
+    private static void AddShell(CrystalModel model, Vec3[] positions, int springIndex, bool scalar, CouplingAccumulator blocks, List<ModelProblem> problems)
     {
         var spring = model.ShellSprings[springIndex];
         var sites = model.Sites;
         var tolM = model.ShellToleranceNm * 1e-9;
-        var found = new HashSet<BondKey>();
+        var found = new HashSet<CouplingAccumulator.BondKey>();
         var any = false;
         for (var i = 0; i < sites.Length; i++)
         {
@@ -104,12 +97,11 @@ internal static class ForceConstantBuilder
 
             foreach (var (j, offset) in shell)
             {
-                var key = Canonical(i, j, offset);
-                if (found.Add(key))
+                if (found.Add(CouplingAccumulator.KeyOf(i, j, offset)))
                 {
                     any = true;
                     var d = model.Lattice.ToCartesianM(offset.AsVec3()) + positions[j] - positions[i];
-                    Accumulate(bonds, key, SpringTensor(d, spring.LongitudinalNPerM, spring.TransverseNPerM, scalar));
+                    blocks.Add(i, j, offset, SpringTensor(d, spring.LongitudinalNPerM, spring.TransverseNPerM, scalar));
                 }
             }
         }
@@ -119,28 +111,6 @@ internal static class ForceConstantBuilder
             problems.Add(new(ModelProblemKind.NoNeighbourShell, $"springs[{springIndex}]",
                 $"no site of kind '{spring.KindB}' was found in shell {spring.Shell} of a site of kind '{spring.KindA}'"));
         }
-    }
-
-    private static void Accumulate(Dictionary<BondKey, Matrix3> bonds, BondKey key, Matrix3 tensor)
-    {
-        bonds[key] = bonds.TryGetValue(key, out var existing) ? existing + tensor : tensor;
-    }
-
-    /// <summary>The same undirected spring seen from either end maps to one key.</summary>
-    private static BondKey Canonical(int i, int j, IntVec3 offset)
-    {
-        if (i < j)
-        {
-            return new BondKey(i, j, offset);
-        }
-
-        if (j < i)
-        {
-            return new BondKey(j, i, -offset);
-        }
-
-        var positive = offset.N1 > 0 || (offset.N1 == 0 && (offset.N2 > 0 || (offset.N2 == 0 && offset.N3 > 0)));
-        return new BondKey(i, i, positive ? offset : -offset);
     }
 
     private static void CheckEverySiteConnected(CrystalModel model, Matrix3[] selfTerms, bool scalar)
@@ -168,10 +138,5 @@ internal static class ForceConstantBuilder
         {
             throw new ModelException(problems);
         }
-    }
-
-    private readonly record struct BondKey(int I, int J, IntVec3 Offset)
-    {
-        public override string ToString() => string.Create(CultureInfo.InvariantCulture, $"{I}->{J}@{Offset}");
     }
 }

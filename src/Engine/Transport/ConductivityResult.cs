@@ -69,6 +69,12 @@ public sealed record ConductivityResult
     /// <summary>Volume per primitive cell the sum is divided by, m^3 (2D: area x thickness; 1D: length x cross-section).</summary>
     public required double VolumePerCellM3 { get; init; }
 
+    /// <summary>The Grueneisen parameter the Umklapp rate and Slack's estimate used (null: none).</summary>
+    public double? GrueneisenParameter { get; init; }
+
+    /// <summary>Where it came from: "given" (the options) or "quasi_harmonic" (the thermal parameter at the reference temperature).</summary>
+    public string? GrueneisenSource { get; init; }
+
     /// <summary>Cumulative kappa against mean free path at the reference temperature; empty unless asked (or kappa is not finite).</summary>
     public required ImmutableArray<MeanFreePathRow> CumulativeByMeanFreePath { get; init; }
 }

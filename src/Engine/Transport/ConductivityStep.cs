@@ -12,8 +12,14 @@ namespace LatticeSweep.Engine.Transport;
 /// </summary>
 internal static class ConductivityStep
 {
-    public static ConductivityResult? ComputeIfAsked(CrystalModel model, CompiledCrystal crystal, Sample sample, SolveOptions options, CancellationToken ct) =>
-        options.Conductivity is null ? null : ConductivityCalculator.Compute(model, crystal, sample, options, ct);
+    public static ConductivityResult? ComputeIfAsked(CrystalModel model, CompiledCrystal crystal, Sample sample, SolveOptions options, CancellationToken ct, string grueneisenSource = "given") =>
+        options.Conductivity is null
+            ? null
+            : ConductivityCalculator.Compute(model, crystal, sample, options, ct) with
+            {
+                GrueneisenParameter = options.Conductivity.GrueneisenParameter,
+                GrueneisenSource = options.Conductivity.GrueneisenParameter is null ? null : grueneisenSource,
+            };
 
     public static PointResult Attach(PointResult result, ConductivityResult? conductivity) =>
         conductivity is null

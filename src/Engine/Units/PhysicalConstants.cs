@@ -27,6 +27,9 @@ public static class PhysicalConstants
     /// <summary>Elementary charge, C (exact); 1 eV in J.</summary>
     public const double ElementaryChargeC = 1.602176634e-19;
 
+    /// <summary>Joule per electronvolt (exact, = e).</summary>
+    public const double JoulePerEv = ElementaryChargeC;
+
     /// <summary>Speed of light in vacuum, m/s (exact).</summary>
     public const double SpeedOfLightMPerS = 299792458.0;
 

@@ -171,6 +171,11 @@ public static class CheckCommand
             total += temperatures * (options.Conductivity is null ? 64.0 : 104.0);
         }
 
+        if (tables.Expansion)
+        {
+            total += temperatures * 120.0;
+        }
+
         if (tables.CumulativeKappa)
         {
             total += 110 * 32.0; // 11 decades of mean free path, 10 rows each

@@ -52,7 +52,16 @@ public static class SolveCommand
             ? $"Point  {point.PointId}, the first of {plan.Points.Length} ({Parameters(point)})"
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
-        SummaryTable(result.Summary, result.ElasticFit, fullPrecision).WriteTo(stdout);
+        var table = SummaryTable(result.Summary, result.ElasticFit, fullPrecision);
+        AddInteractions(table, result, fullPrecision);
+        table.WriteTo(stdout);
+        if (result.Expansion?.AtReference.Breakdown is { } breakdown)
+        {
+            // Below the table: a sentence in the value column would widen every row.
+            stdout.WriteLine();
+            stdout.WriteLine($"Quasi-harmonic state at the reference temperature: {breakdown}.");
+        }
+
         if (result.Surface is { } surface)
         {
             stdout.WriteLine();
@@ -108,6 +117,59 @@ public static class SolveCommand
         }
 
         return t;
+    }
+
+    /// <summary>Long-wave elastic constants, the static lattice of potentials, a bond-bending fit and the quasi-harmonic state, where the point has them.</summary>
+    internal static void AddInteractions(TextTable t, PointResult result, bool fullPrecision = false)
+    {
+        var s = result.Summary;
+        string D(double v) => v.ToString(fullPrecision ? "R" : "G6", CultureInfo.InvariantCulture);
+        string N(double? v) => v is { } x && !double.IsNaN(x) ? D(x) : "n/a";
+        if (s.LatticeConstantNm is { } a)
+        {
+            t.Add("lattice constant", D(a), "nm");
+        }
+
+        if (s.ElasticConstants is { } c)
+        {
+            t.Add("C11, C12, C44 (long waves)", $"{D(c.C11Gpa)}, {D(c.C12Gpa)}, {D(c.C44Gpa)}", "GPa");
+        }
+
+        if (result.ElasticFit is { BendNPerM: { } bend } fit)
+        {
+            t.Add("fitted bond stretch, bend", $"{D(fit.NearestNPerM)}, {D(bend)}", "N/m");
+        }
+
+        if (s.StaticLattice is { } st)
+        {
+            t.Add("static energy per atom", D(st.EnergyEvPerAtom), "eV");
+            t.Add("static pressure", N(st.PressureGpa), "GPa");
+            t.Add("static minimum: lattice constant", D(st.EquilibriumLatticeConstantNm), "nm");
+            t.Add("static minimum: energy per atom", D(st.EquilibriumEnergyEvPerAtom), "eV");
+            t.Add("static minimum: bulk modulus", N(st.EquilibriumBulkModulusGpa), "GPa");
+        }
+
+        if (result.Expansion?.AtReference is { } x)
+        {
+            if (x.Breakdown is not null)
+            {
+                t.Add("quasi-harmonic at reference T", "none (see below)", "");
+            }
+            else
+            {
+                t.Add("lattice constant at reference T", N(x.LatticeConstantNm), "nm");
+                t.Add("linear expansion coefficient", N(x.LinearExpansionPerK), "1/K");
+                t.Add("isothermal bulk modulus", x.IsothermalBulkModulusGpa is { } g ? D(g) : N(x.IsothermalBulkModulusNPerM ?? x.IsothermalBulkModulusN),
+                    x.IsothermalBulkModulusGpa is not null ? "GPa" : x.IsothermalBulkModulusNPerM is not null ? "N/m" : "N");
+                t.Add("heat capacity Cp", N(x.CpJPerMolK), "J/(mol K)");
+                t.Add("Grueneisen parameter (thermal)", N(x.Grueneisen), "");
+            }
+        }
+
+        if (result.Conductivity?.GrueneisenSource is { } source)
+        {
+            t.Add("Grueneisen parameter used for kappa", $"{N(result.Conductivity.GrueneisenParameter)} ({source})", "");
+        }
     }
 
     internal static TextTable SummaryTable(PointSummary s, Engine.Elastic.ElasticFitResult? fit = null, bool fullPrecision = false)

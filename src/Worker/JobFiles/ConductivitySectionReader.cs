@@ -22,7 +22,8 @@ internal static class ConductivitySectionReader
     private static readonly string[] UmklappKeys = ["debye_temperature_k", "sound_speed_m_per_s"];
     private static readonly string[] ConstantKeys = ["relaxation_time_ps"];
 
-    public static ConductivityOptions? Read(TableReader t, int dimension, ModelSpec? model, SampleSpec? sample, bool kindSwept)
+    /// <param name="expansionGiven">[output.expansion] is present: the Umklapp channel may then take the computed Grueneisen parameter.</param>
+    public static ConductivityOptions? Read(TableReader t, int dimension, ModelSpec? model, SampleSpec? sample, bool kindSwept, bool expansionGiven = false)
     {
         var before = t.Problems.Count;
         t.RejectUnknown(Keys);
@@ -40,9 +41,9 @@ internal static class ConductivitySectionReader
             t.TableError("switch on at least one scattering channel: boundary, point_defects, umklapp or constant (e.g. umklapp = {})");
         }
 
-        if (t.Has("umklapp") && !t.Has("grueneisen_parameter"))
+        if (t.Has("umklapp") && !t.Has("grueneisen_parameter") && !expansionGiven)
         {
-            t.Error("umklapp", "the Umklapp channel needs grueneisen_parameter (typically 1 to 2) in [output.conductivity]");
+            t.Error("umklapp", "the Umklapp channel needs grueneisen_parameter (typically 1 to 2) in [output.conductivity], or [output.expansion] to compute it from potentials");
         }
 
         CheckGeometry(t, dimension);

@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using LatticeSweep.Engine.Builders;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Springs;
 using LatticeSweep.Worker.Planning.Specs;
@@ -7,12 +8,39 @@ using Tomlyn.Model;
 
 namespace LatticeSweep.Worker.JobFiles;
 
-/// <summary>Reads <c>[model]</c>: a lattice with sites and springs, or <c>[model.layers]</c>, or <c>[model.elastic]</c>.</summary>
+/// <summary>Reads <c>[model]</c>: a lattice with sites, springs and bends, or one of the builders <c>[model.layers]</c>, <c>[model.elastic]</c>, <c>[model.tetrahedral]</c>.</summary>
 internal static class ModelSectionReader
 {
     public const int MaxShell = 50;
 
-    private static readonly string[] LatticeKeys = ["lattice", "constant_nm", "c_nm", "vectors_nm", "motion", "shell_tolerance_nm", "sites", "springs", "bonds"];
+    private static readonly string[] LatticeKeys = ["lattice", "constant_nm", "c_nm", "vectors_nm", "motion", "shell_tolerance_nm", "sites", "springs", "bonds", "bends", "potentials", "relax"];
+    private static readonly string[] Builders = ["layers", "elastic", "tetrahedral"];
+    private static readonly string[] BendKeys = ["centre", "ends", "shell", "form", "constant_n_per_m"];
+
+    /// <summary>The parameter keys of each potential form, in the order the Engine's record takes them.</summary>
+    public static readonly IReadOnlyDictionary<string, string[]> PotentialParameters = new Dictionary<string, string[]>(StringComparer.Ordinal)
+    {
+        ["lennard_jones"] = ["well_depth_ev", "sigma_nm"],
+        ["morse"] = ["well_depth_ev", "r0_nm", "width_per_nm"],
+        ["buckingham"] = ["repulsion_ev", "rho_nm", "dispersion_ev_nm6"],
+    };
+
+    /// <summary>What each potential parameter (and the cutoff) accepts: wide enough for any crystal, tight enough for the arithmetic.</summary>
+    public static readonly IReadOnlyDictionary<string, Func<double, string?>> PotentialChecks = new Dictionary<string, Func<double, string?>>(StringComparer.Ordinal)
+    {
+        ["well_depth_ev"] = Checks.PositiveWithin(1e-9, 1e3),
+        ["sigma_nm"] = Checks.PositiveWithin(1e-4, 1e2),
+        ["r0_nm"] = Checks.PositiveWithin(1e-4, 1e2),
+        ["width_per_nm"] = Checks.PositiveWithin(1e-3, 1e4),
+        ["repulsion_ev"] = Checks.PositiveWithin(1e-9, 1e12),
+        ["rho_nm"] = Checks.PositiveWithin(1e-4, 1e2),
+        ["dispersion_ev_nm6"] = Checks.Between(0, 1e9),
+        ["cutoff_nm"] = Checks.PositiveWithin(1e-3, 1e2),
+    };
+
+    // After PotentialParameters: static fields initialise in the order they are written.
+    private static readonly string[] PotentialKeys = ["from", "to", "form", "cutoff_nm", "shift", .. PotentialParameters.SelectMany(p => p.Value).Distinct()];
+    private static readonly string[] TetrahedralKeys = ["structure", "constant_nm", "element_a", "mass_a_amu", "element_b", "mass_b_amu", "stretch_n_per_m", "bend_n_per_m", "c11_gpa", "c12_gpa", "c44_gpa"];
     private static readonly string[] SiteKeys = ["label", "kind", "position", "mass_amu", "element"];
     private static readonly string[] SpringKeys = ["from", "to", "shell", "longitudinal_n_per_m", "transverse_n_per_m"];
     private static readonly string[] BondKeys = ["from", "to", "cell", "longitudinal_n_per_m", "transverse_n_per_m", "tensor_n_per_m"];
@@ -22,11 +50,9 @@ internal static class ModelSectionReader
     public static ModelSpec? Read(TableReader model)
     {
         var motion = model.String("motion", allowed: [.. Names.Motions.Keys]) is { } m ? Names.Motions[m] : DegreesOfFreedom.Cartesian;
-        var hasLayers = model.Has("layers");
-        var hasElastic = model.Has("elastic");
-        if (hasLayers || hasElastic)
+        var builder = Builders.FirstOrDefault(model.Has);
+        if (builder is not null)
         {
-            var builder = hasLayers ? "layers" : "elastic";
             var clash = model.Table.Keys.Where(k => k != "motion" && k != builder).ToList();
             foreach (var key in clash)
             {
@@ -38,9 +64,12 @@ internal static class ModelSectionReader
                 return null;
             }
 
-            return hasLayers
-                ? ReadLayers(model.SubTable("layers", required: true), motion)
-                : ReadElastic(model.SubTable("elastic", required: true), motion);
+            return builder switch
+            {
+                "layers" => ReadLayers(model.SubTable("layers", required: true), motion),
+                "elastic" => ReadElastic(model.SubTable("elastic", required: true), motion),
+                _ => ReadTetrahedral(model.SubTable("tetrahedral", required: true), motion),
+            };
         }
 
         return ReadLattice(model, motion);
@@ -48,7 +77,7 @@ internal static class ModelSectionReader
 
     private static LatticeModelSpec? ReadLattice(TableReader model, DegreesOfFreedom motion)
     {
-        model.RejectUnknown([.. LatticeKeys, "layers", "elastic"]);
+        model.RejectUnknown([.. LatticeKeys, .. Builders]);
         var before = model.Problems.Count;
         var latticeName = model.String("lattice", required: true, allowed: [.. Names.Lattices.Keys]);
         var kind = latticeName is null ? LatticeKind.Chain : Names.Lattices[latticeName];
@@ -103,6 +132,14 @@ internal static class ModelSectionReader
         var sites = ReadSites(siteTables, dimension);
         var springs = ReadSprings(model.TableList("springs"), sites, motion);
         var bonds = ReadBonds(model.TableList("bonds"), sites, dimension, motion);
+        var bends = ReadBends(model.TableList("bends"), sites, dimension, motion);
+        var potentials = ReadPotentials(model.TableList("potentials"), sites);
+        var relax = model.Bool("relax") ?? false;
+        if (relax && !model.Has("potentials"))
+        {
+            model.Error("relax", "relaxing to the static minimum needs [[model.potentials]]: hand-set springs have no energy minimum to find. Remove relax or add a potential");
+        }
+
         if (model.Problems.Count > before)
         {
             return null;
@@ -119,6 +156,9 @@ internal static class ModelSectionReader
             Sites = sites,
             Springs = springs,
             Bonds = bonds,
+            Bends = bends,
+            Potentials = potentials,
+            Relax = relax,
         };
     }
 
@@ -276,6 +316,202 @@ internal static class ModelSectionReader
         }
 
         return [.. bonds];
+    }
+
+    private static ImmutableArray<BendSpring> ReadBends(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites, int dimension, DegreesOfFreedom motion)
+    {
+        var kinds = sites.Select(s => s.Kind).Distinct(StringComparer.Ordinal).ToList();
+        var bends = new List<BendSpring>();
+        foreach (var t in tables)
+        {
+            t.RejectUnknown(BendKeys);
+            var centre = ReadReference(t, "centre", kinds, "kind");
+            var ends = ReadEnds(t, kinds);
+            var shells = t.IntegerList("shell", 1, MaxShell, allowScalar: true, maxCount: 2) ?? [1];
+            var formName = t.String("form", allowed: [.. Names.BendForms.Keys]) ?? "keating";
+            var form = Names.BendForms.GetValueOrDefault(formName, BendForm.Keating);
+            var constant = t.Double("constant_n_per_m", required: true, check: Checks.SpringNPerM) ?? 0;
+            if (motion == DegreesOfFreedom.Scalar)
+            {
+                t.TableError("bond bending moves atoms across their bonds; the scalar model has one displacement per atom: use motion = \"3d\" or remove [[model.bends]]");
+            }
+            else if (form == BendForm.Flexural && dimension != 2)
+            {
+                t.Error("form", $"\"flexural\" bends a 2D sheet out of its plane; this lattice is {dimension}D. Use \"angle\" or \"keating\"");
+            }
+
+            var (first, second) = (ends?.First ?? "", ends?.Second ?? ends?.First ?? "");
+            var (shell, otherShell) = ((int)shells[0], (int)shells[^1]);
+            bends.Add(new BendSpring(centre ?? "", first, shell, form, constant)
+            {
+                OtherEndKind = second == first ? null : second,
+                OtherShell = otherShell == shell ? null : otherShell,
+            });
+        }
+
+        return [.. bends];
+    }
+
+    private static ImmutableArray<PotentialTerm> ReadPotentials(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites)
+    {
+        var kinds = sites.Select(s => s.Kind).Distinct(StringComparer.Ordinal).ToList();
+        var potentials = new List<PotentialTerm>();
+        foreach (var t in tables)
+        {
+            t.RejectUnknown(PotentialKeys);
+            var from = ReadReference(t, "from", kinds, "kind");
+            var to = ReadReference(t, "to", kinds, "kind");
+            var form = t.String("form", required: true, allowed: [.. PotentialParameters.Keys]);
+            var cutoff = t.Double("cutoff_nm", required: true, check: PotentialChecks["cutoff_nm"]);
+            var shift = t.Bool("shift") ?? true;
+            if (form is null)
+            {
+                continue;
+            }
+
+            var keys = PotentialParameters[form];
+            foreach (var key in PotentialParameters.Values.SelectMany(k => k).Distinct().Where(k => !keys.Contains(k) && t.Has(k)))
+            {
+                t.Error(key, $"a {form} potential takes {string.Join(", ", keys)}; remove this key");
+            }
+
+            var values = keys.Select(k => t.Double(k, required: true, check: PotentialChecks[k])).ToArray();
+            if (values.Any(v => v is null) || cutoff is null)
+            {
+                continue;
+            }
+
+            PairPotential potential = form switch
+            {
+                "lennard_jones" => new LennardJonesPotential(values[0]!.Value, values[1]!.Value),
+                "morse" => new MorsePotential(values[0]!.Value, values[1]!.Value, values[2]!.Value),
+                _ => new BuckinghamPotential(values[0]!.Value, values[1]!.Value, values[2]!.Value),
+            };
+            potentials.Add(new PotentialTerm(from ?? "", to ?? "", potential, cutoff.Value, shift));
+        }
+
+        return [.. potentials];
+    }
+
+    /// <summary><c>ends = "B"</c> (both ends of kind B) or <c>ends = ["B", "C"]</c>.</summary>
+    private static (string First, string Second)? ReadEnds(TableReader t, IReadOnlyList<string> kinds)
+    {
+        if (t.Raw("ends") is string)
+        {
+            return ReadReference(t, "ends", kinds, "kind") is { } one ? (one, one) : null;
+        }
+
+        var list = t.StringList("ends");
+        if (!t.Has("ends"))
+        {
+            t.Error("ends", "is required: the kind of the two outer sites, or two kinds [\"B\", \"C\"]");
+            return null;
+        }
+
+        if (list is null)
+        {
+            return null;
+        }
+
+        if (list.Count is < 1 or > 2)
+        {
+            t.Error("ends", $"give one kind or two, got {list.Count}");
+            return null;
+        }
+
+        foreach (var kind in list.Where(k => !kinds.Contains(k, StringComparer.Ordinal)))
+        {
+            t.Error("ends", $"no site has kind '{kind}'; " + KeySuggestions.Hint(kind, kinds.ToList()));
+            return null;
+        }
+
+        return (list[0], list[^1]);
+    }
+
+    private static TetrahedralSpec? ReadTetrahedral(TableReader? t, DegreesOfFreedom motion)
+    {
+        if (t is null)
+        {
+            return null;
+        }
+
+        var before = t.Problems.Count;
+        t.RejectUnknown(TetrahedralKeys);
+        var structureName = t.String("structure", required: true, allowed: [.. Names.TetrahedralStructures.Keys]);
+        var structure = structureName is null ? TetrahedralStructure.Diamond : Names.TetrahedralStructures[structureName];
+        var constant = t.Double("constant_nm", required: true, check: Checks.LengthNm);
+        var (elementA, massA) = ReadAtom(t, "a", required: true);
+        var (elementB, massB) = ReadAtom(t, "b", required: structure == TetrahedralStructure.ZincBlende);
+        if (structure == TetrahedralStructure.Diamond && (t.Has("element_b") || t.Has("mass_b_amu")))
+        {
+            t.Error(t.Has("element_b") ? "element_b" : "mass_b_amu", "a diamond crystal has one kind of atom (site B takes site A's mass); remove this key or use structure = \"zinc_blende\"");
+        }
+
+        if (motion == DegreesOfFreedom.Scalar)
+        {
+            t.TableError("the tetrahedral builder bends bonds; the scalar model has one displacement per atom: use motion = \"3d\"");
+        }
+
+        var fitted = t.Has("c11_gpa") || t.Has("c12_gpa") || t.Has("c44_gpa");
+        double? stretch = null, bend = null, c11 = null, c12 = null, c44 = null;
+        if (fitted)
+        {
+            foreach (var key in new[] { "stretch_n_per_m", "bend_n_per_m" })
+            {
+                if (t.Has(key))
+                {
+                    t.Error(key, "give either stretch_n_per_m and bend_n_per_m, or c11_gpa, c12_gpa and c44_gpa to fit them; not both");
+                }
+            }
+
+            c11 = t.Double("c11_gpa", required: true, check: Checks.ModulusGpa);
+            c12 = t.Double("c12_gpa", required: true, check: Checks.SignedModulusGpa);
+            c44 = t.Double("c44_gpa", required: true, check: Checks.ModulusGpa);
+        }
+        else
+        {
+            stretch = t.Double("stretch_n_per_m", required: true, check: Checks.SpringNPerM);
+            bend = t.Double("bend_n_per_m", required: true, check: Checks.SpringNPerM);
+        }
+
+        if (t.Problems.Count > before)
+        {
+            return null;
+        }
+
+        return new TetrahedralSpec
+        {
+            Motion = motion,
+            Structure = structure,
+            ConstantNm = constant!.Value,
+            ElementA = elementA,
+            MassAAmu = massA,
+            ElementB = elementB,
+            MassBAmu = massB,
+            StretchNPerM = stretch,
+            BendNPerM = bend,
+            C11Gpa = c11,
+            C12Gpa = c12,
+            C44Gpa = c44,
+        };
+    }
+
+    /// <summary>element_x and/or mass_x_amu of one site of a builder.</summary>
+    private static (string? Element, double? Mass) ReadAtom(TableReader t, string site, bool required)
+    {
+        var element = t.String("element_" + site);
+        if (element is not null && Names.CheckElement(element) is { } bad)
+        {
+            t.Error("element_" + site, bad);
+        }
+
+        var mass = t.Double($"mass_{site}_amu", check: Checks.MassAmu);
+        if (required && !t.Has("element_" + site) && !t.Has($"mass_{site}_amu"))
+        {
+            t.TableError($"give element_{site} (a symbol such as \"Si\") or mass_{site}_amu for site {site.ToUpperInvariant()}");
+        }
+
+        return (element, mass);
     }
 
     private static string? ReadReference(TableReader t, string key, IReadOnlyList<string> known, string what)

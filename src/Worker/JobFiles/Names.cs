@@ -1,4 +1,5 @@
 using LatticeSweep.Engine.Builders;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 
 namespace LatticeSweep.Worker.JobFiles;
@@ -34,6 +35,19 @@ internal static class Names
     {
         ["chain"] = LayeredHost.Chain,
         ["cubic_stack"] = LayeredHost.CubicStack,
+    };
+
+    public static readonly IReadOnlyDictionary<string, BendForm> BendForms = new Dictionary<string, BendForm>(StringComparer.Ordinal)
+    {
+        ["keating"] = BendForm.Keating,
+        ["angle"] = BendForm.Angle,
+        ["flexural"] = BendForm.Flexural,
+    };
+
+    public static readonly IReadOnlyDictionary<string, TetrahedralStructure> TetrahedralStructures = new Dictionary<string, TetrahedralStructure>(StringComparer.Ordinal)
+    {
+        ["diamond"] = TetrahedralStructure.Diamond,
+        ["zinc_blende"] = TetrahedralStructure.ZincBlende,
     };
 
     /// <summary>Null when the symbol has a mass in the Engine's element table, else what is wrong and the nearest symbol.</summary>

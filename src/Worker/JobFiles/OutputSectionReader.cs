@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QuasiHarmonic;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Worker.Planning;
 using LatticeSweep.Worker.Planning.Specs;
@@ -7,19 +8,20 @@ using Tomlyn.Model;
 
 namespace LatticeSweep.Worker.JobFiles;
 
-/// <summary>Reads <c>[output]</c>: temperatures, the DOS grid, the tables to write, an optional dispersion path and optional conductivity estimates.</summary>
+/// <summary>Reads <c>[output]</c>: temperatures, the DOS grid, the tables to write, an optional dispersion path, conductivity estimates and thermal expansion.</summary>
 internal static class OutputSectionReader
 {
     public const double MaxTemperatureK = 100_000;
     public const int MaxTemperatures = 10_000;
 
     private static readonly string[] Keys =
-        ["temperatures_k", "temperature_range", "reference_temperature_k", "dos_bins", "dos_method", "gaussian_sigma_thz", "partial_dos", "tables", "dispersion", "mode_list_max_modes", "memory_limit_gib", "conductivity"];
+        ["temperatures_k", "temperature_range", "reference_temperature_k", "dos_bins", "dos_method", "gaussian_sigma_thz", "partial_dos", "tables", "dispersion", "mode_list_max_modes", "memory_limit_gib", "conductivity", "expansion"];
 
     private static readonly string[] RangeKeys = ["from_k", "to_k", "steps", "scale"];
     private static readonly string[] DispersionKeys = ["path", "points_per_segment"];
     private static readonly string[] CornerKeys = ["label", "q"];
-    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", Output.TableNames.MeanSquareDisplacements, "cumulative_kappa", Output.TableNames.Layers, Output.TableNames.LayerDos];
+    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", Output.TableNames.MeanSquareDisplacements, "cumulative_kappa", Output.TableNames.Layers, Output.TableNames.LayerDos, "expansion"];
+    private static readonly string[] ExpansionKeys = ["volumes", "largest_strain", "mode_grueneisen"];
 
     // The table's former name, so older job files (and sweeps stored with them) still plan.
     private static readonly string[] FormerTableNames = [Output.TableNames.FormerDisplacements];
@@ -48,11 +50,12 @@ internal static class OutputSectionReader
         var modeMax = t.Integer("mode_list_max_modes", 0, 100_000_000) ?? defaults.ModeListMaxModes;
         var memoryGib = t.Double("memory_limit_gib", check: Checks.Between(0.01, 1024));
         var dispersion = ReadDispersion(t.SubTable("dispersion"), dimension);
-        var conductivity = t.SubTable("conductivity") is { } c ? ConductivitySectionReader.Read(c, dimension, model, sample, kindSwept) : null;
+        var conductivity = t.SubTable("conductivity") is { } c ? ConductivitySectionReader.Read(c, dimension, model, sample, kindSwept, expansionGiven: t.Has("expansion")) : null;
+        var expansion = t.SubTable("expansion") is { } e ? ReadExpansion(e, model, dispersion is not null || t.Has("dispersion")) : null;
 
         // Samples with boundaries, a shape or disorder get their layer tables unless the list says otherwise.
         var realSpace = sample?.RealSpace is not null;
-        var selection = OutputSelection.Default with { Dispersion = dispersion is not null, Layers = realSpace, LayerDos = realSpace };
+        var selection = OutputSelection.Default with { Dispersion = dispersion is not null, Layers = realSpace, LayerDos = realSpace, Expansion = expansion is not null };
         var tables = t.StringList("tables", TableNames, FormerTableNames);
         if (tables is not null)
         {
@@ -64,7 +67,8 @@ internal static class OutputSectionReader
                 Displacements: tables.Contains(Output.TableNames.MeanSquareDisplacements) || tables.Contains(Output.TableNames.FormerDisplacements),
                 CumulativeKappa: tables.Contains("cumulative_kappa"),
                 Layers: tables.Contains(Output.TableNames.Layers),
-                LayerDos: tables.Contains(Output.TableNames.LayerDos));
+                LayerDos: tables.Contains(Output.TableNames.LayerDos),
+                Expansion: tables.Contains("expansion"));
             if (selection.Dispersion && dispersion is null && !t.Has("dispersion"))
             {
                 t.Error("tables", "the dispersion table needs a path: add [output.dispersion] with path = [{ label = \"G\", q = [0, 0, 0] }, ...]");
@@ -73,6 +77,11 @@ internal static class OutputSectionReader
             if (!selection.Dispersion && dispersion is not null)
             {
                 t.Error("dispersion", "a dispersion path is given but \"dispersion\" is not in output.tables; add it there or remove the path");
+            }
+
+            if (selection.Expansion && !t.Has("expansion"))
+            {
+                t.Error("tables", "the expansion table needs the quasi-harmonic calculation: add [output.expansion] (and [[model.potentials]])");
             }
 
             if (selection.CumulativeKappa && !t.Has("conductivity"))
@@ -98,8 +107,30 @@ internal static class OutputSectionReader
             Dispersion = dispersion,
             MemoryLimitBytes = memoryGib is { } g ? (long)(g * (1L << 30)) : defaults.MemoryLimitBytes,
             Conductivity = conductivity is null ? null : conductivity with { MeanFreePathTable = selection.CumulativeKappa },
+            Expansion = expansion,
         };
         return (options, selection);
+    }
+
+    private static ExpansionOptions? ReadExpansion(TableReader t, ModelSpec? model, bool hasPath)
+    {
+        var before = t.Problems.Count;
+        t.RejectUnknown(ExpansionKeys);
+        var defaults = new ExpansionOptions();
+        var volumes = t.Integer("volumes", ExpansionOptions.MinVolumes, ExpansionOptions.MaxVolumes) ?? defaults.VolumeCount;
+        var strain = t.Double("largest_strain", check: Checks.Between(0.002, 0.3)) ?? defaults.LargestLinearStrain;
+        var modes = t.Bool("mode_grueneisen") ?? false;
+        if (model is not null && model is not LatticeModelSpec { Potentials.IsEmpty: false })
+        {
+            t.TableError("thermal expansion needs springs that change with volume: give the model [[model.potentials]] (hand-set springs, bends and the builders keep their constants when the lattice expands)");
+        }
+
+        if (modes && !hasPath)
+        {
+            t.Error("mode_grueneisen", "mode Grueneisen parameters are reported along the dispersion path: add [output.dispersion] with a path");
+        }
+
+        return t.Problems.Count > before ? null : new ExpansionOptions { VolumeCount = (int)volumes, LargestLinearStrain = strain, ModeGrueneisen = modes };
     }
 
     private static ImmutableArray<double>? ReadTemperatures(TableReader t)

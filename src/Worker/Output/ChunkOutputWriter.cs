@@ -101,6 +101,7 @@ public static class ChunkOutputWriter
             Displacements: t.Contains(TableNames.MeanSquareDisplacements) || t.Contains(TableNames.FormerDisplacements),
             CumulativeKappa: t.Contains(TableNames.CumulativeKappa),
             Layers: t.Contains(TableNames.Layers),
-            LayerDos: t.Contains(TableNames.LayerDos));
+            LayerDos: t.Contains(TableNames.LayerDos),
+            Expansion: t.Contains(TableNames.Expansion));
     }
 }

@@ -61,6 +61,11 @@ internal static class ChunkTables
             tables.Add(schemas.LayerDos.Rows(solved.SelectMany(LayerDosRows)));
         }
 
+        if (outputs.Expansion)
+        {
+            tables.Add(schemas.Expansion.Rows(solved.SelectMany(o => (o.Result!.Expansion?.Rows ?? []).Select(r => new RowOf<Engine.QuasiHarmonic.ExpansionRow>(o, r)))));
+        }
+
         if (outputs.CumulativeKappa)
         {
             tables.Add(schemas.CumulativeKappa.Rows(solved.SelectMany(o => (o.Result!.Conductivity?.CumulativeByMeanFreePath ?? []).Select(m => new RowOf<MeanFreePathRow>(o, m)))));

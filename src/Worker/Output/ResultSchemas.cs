@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.QuasiHarmonic;
 using LatticeSweep.Engine.Results;
 using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.Planning;
@@ -66,7 +67,8 @@ internal sealed class ResultSchemas
             C<RowOf<DispersionRow>>("freq_thz", ColumnType.Double, "THz", "frequency", r => r.Item.FrequencyThz),
             C<RowOf<DispersionRow>>("group_velocity_x_m_per_s", ColumnType.Double, "m/s", "group velocity x (empty for an imaginary mode of an unstable model)", r => Velocity(r, r.Item.GroupVelocityXMPerS)),
             C<RowOf<DispersionRow>>("group_velocity_y_m_per_s", ColumnType.Double, "m/s", "group velocity y", r => Velocity(r, r.Item.GroupVelocityYMPerS)),
-            C<RowOf<DispersionRow>>("group_velocity_z_m_per_s", ColumnType.Double, "m/s", "group velocity z", r => Velocity(r, r.Item.GroupVelocityZMPerS)));
+            C<RowOf<DispersionRow>>("group_velocity_z_m_per_s", ColumnType.Double, "m/s", "group velocity z", r => Velocity(r, r.Item.GroupVelocityZMPerS)),
+            C<RowOf<DispersionRow>>("mode_grueneisen", ColumnType.Double, "1", "mode Grueneisen parameter -d ln omega / d ln V (with [output.expansion] mode_grueneisen = true; empty at omega = 0)", r => r.Item.ModeGrueneisen));
         Modes = Spec<ModeLevel>(TableNames.Modes, axes,
             C<RowOf<ModeLevel>>("freq_thz", ColumnType.Double, "THz", "a distinct mode frequency of the finite crystal", r => r.Item.FrequencyThz),
             C<RowOf<ModeLevel>>("multiplicity", ColumnType.Int64, "", "modes sharing this frequency", r => r.Item.Multiplicity));
@@ -77,6 +79,7 @@ internal sealed class ResultSchemas
             C<RowOf<DisplacementRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x", r => r.Item.MsdXNm2),
             C<RowOf<DisplacementRow>>("msd_y_nm2", ColumnType.Double, "nm^2", "mean-square displacement along y", r => r.Item.MsdYNm2),
             C<RowOf<DisplacementRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "mean-square displacement along z", r => r.Item.MsdZNm2));
+        Expansion = Spec<ExpansionRow>(TableNames.Expansion, axes, ExpansionColumns());
         CumulativeKappa = Spec<MeanFreePathRow>(TableNames.CumulativeKappa, axes,
             C<RowOf<MeanFreePathRow>>("temperature_k", ColumnType.Double, "K", "the reference temperature the accumulation is taken at", r => r.Outcome.Result?.Conductivity?.ReferenceTemperatureK),
             C<RowOf<MeanFreePathRow>>("mfp_nm", ColumnType.Double, "nm", "phonon mean free path |v| tau (upper edge of a log bin, 10 per decade)", r => r.Item.MeanFreePathNm),
@@ -106,6 +109,7 @@ internal sealed class ResultSchemas
     public TableSpec<RowOf<MeanFreePathRow>> CumulativeKappa { get; }
     public TableSpec<RowOf<LayerRow>> Layers { get; }
     public TableSpec<RowOf<LayerDosValue>> LayerDos { get; }
+    public TableSpec<RowOf<ExpansionRow>> Expansion { get; }
 
     /// <summary>Every column name a table has of its own (not a swept parameter's): a swept parameter may not take one.</summary>
     public static IReadOnlySet<string> FixedColumnNames { get; } = AllFixedNames();
@@ -114,7 +118,7 @@ internal sealed class ResultSchemas
     {
         var none = new ResultSchemas([]);
         return new HashSet<string>(
-            new[] { TableNames.Points, TableNames.SoundSpeeds, TableNames.Dos, TableNames.Thermal, TableNames.Dispersion, TableNames.Modes, TableNames.MeanSquareDisplacements, TableNames.CumulativeKappa, TableNames.Layers, TableNames.LayerDos }
+            new[] { TableNames.Points, TableNames.SoundSpeeds, TableNames.Dos, TableNames.Thermal, TableNames.Dispersion, TableNames.Modes, TableNames.MeanSquareDisplacements, TableNames.CumulativeKappa, TableNames.Layers, TableNames.LayerDos, TableNames.Expansion }
                 .SelectMany(none.ColumnsOf).Select(c => c.Name).Concat(RunColumns<PointOutcome>(o => o).Select(c => c.Def.Name)),
             StringComparer.Ordinal);
     }
@@ -132,6 +136,7 @@ internal sealed class ResultSchemas
         TableNames.CumulativeKappa => CumulativeKappa.Defs,
         TableNames.Layers => Layers.Defs,
         TableNames.LayerDos => LayerDos.Defs,
+        TableNames.Expansion => Expansion.Defs,
         _ => throw new ArgumentException($"no table named {table}", nameof(table)),
     };
 
@@ -306,6 +311,8 @@ internal sealed class ResultSchemas
             C<PointOutcome>("christoffel_speed_max_m_per_s", ColumnType.Double, "m/s", "fastest Christoffel sound speed over those directions", o => Christoffel(o)?.Max()),
             .. ConductivitySummaryColumns(),
             .. SurfaceSummaryColumns(),
+            .. ElasticSummaryColumns(),
+            .. ExpansionSummaryColumns(),
         ];
     }
 
@@ -381,6 +388,66 @@ internal sealed class ResultSchemas
             C<PointOutcome>("msd_surface_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_surface_nm2", o => E(o)?.MsdSurfaceNm2),
             C<PointOutcome>("msd_interior_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_interior_nm2", o => E(o)?.MsdInteriorNm2),
             C<PointOutcome>("cv_ratio_stderr", ColumnType.Double, "1", "standard error of cv_ratio_to_periodic (configurations)", o => E(o)?.CvRatioToPeriodic),
+        ];
+    }
+
+    /// <summary>The quasi-harmonic state at the reference temperature, and the Grueneisen parameter the conductivity used.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ExpansionSummaryColumns()
+    {
+        static ExpansionResult? X(PointOutcome o) => o.Result?.Expansion;
+        static ExpansionRow? R(PointOutcome o) => X(o)?.AtReference;
+        return
+        [
+            C<PointOutcome>("expansion_lattice_constant_nm", ColumnType.Double, "nm", "quasi-harmonic lattice constant at the reference temperature (empty without [output.expansion] or where it breaks down)", o => R(o)?.LatticeConstantNm),
+            C<PointOutcome>("linear_expansion_per_k", ColumnType.Double, "1/K", "linear thermal expansion coefficient at the reference temperature", o => R(o)?.LinearExpansionPerK),
+            C<PointOutcome>("volume_expansion_per_k", ColumnType.Double, "1/K", "volumetric (2D: areal) thermal expansion coefficient at the reference temperature", o => R(o)?.VolumeExpansionPerK),
+            C<PointOutcome>("isothermal_bulk_modulus_gpa", ColumnType.Double, "GPa", "isothermal bulk modulus V d2F/dV2 at the reference temperature (3D)", o => R(o)?.IsothermalBulkModulusGpa),
+            C<PointOutcome>("isothermal_bulk_modulus_n_per_m", ColumnType.Double, "N/m", "the same for a sheet, A d2F/dA2 (2D)", o => R(o)?.IsothermalBulkModulusNPerM),
+            C<PointOutcome>("isothermal_bulk_modulus_n", ColumnType.Double, "N", "the same for a chain, L d2F/dL2 (1D)", o => R(o)?.IsothermalBulkModulusN),
+            C<PointOutcome>("cp_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity at constant pressure Cv + alpha_V^2 B_T V T at the reference temperature", o => R(o)?.CpJPerMolK),
+            C<PointOutcome>("grueneisen_parameter", ColumnType.Double, "1", "thermal (Cv-weighted) Grueneisen parameter at the reference temperature", o => R(o)?.Grueneisen),
+            C<PointOutcome>("expansion_breakdown", ColumnType.Text, "", "why the quasi-harmonic approximation gives no numbers at the reference temperature (empty when it holds)", o => R(o)?.Breakdown),
+            C<PointOutcome>("expansion_volumes_used", ColumnType.Int32, "", "stable volumes the quasi-harmonic fit used", o => X(o)?.VolumesUsed),
+            C<PointOutcome>("kappa_grueneisen_parameter", ColumnType.Double, "1", "Grueneisen parameter the conductivity's Umklapp rate and Slack's estimate used", o => o.Result?.Conductivity?.GrueneisenParameter),
+            C<PointOutcome>("kappa_grueneisen_source", ColumnType.Text, "", "given (in the job file) or quasi_harmonic (computed at the reference temperature)", o => o.Result?.Conductivity?.GrueneisenSource),
+        ];
+    }
+
+    private static TableColumn<RowOf<ExpansionRow>>[] ExpansionColumns() =>
+    [
+        C<RowOf<ExpansionRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
+        C<RowOf<ExpansionRow>>("lattice_constant_nm", ColumnType.Double, "nm", "lattice constant at the minimum of F = E_static + F_vib", r => r.Item.LatticeConstantNm),
+        C<RowOf<ExpansionRow>>("volume_ratio", ColumnType.Double, "1", "V(T) / V at the static minimum (zero-point motion makes it exceed 1 at 0 K)", r => r.Item.VolumeRatio),
+        C<RowOf<ExpansionRow>>("linear_expansion_per_k", ColumnType.Double, "1/K", "linear thermal expansion coefficient alpha_V / d", r => r.Item.LinearExpansionPerK),
+        C<RowOf<ExpansionRow>>("volume_expansion_per_k", ColumnType.Double, "1/K", "volumetric (2D: areal; 1D: linear) thermal expansion coefficient (1/V) dV/dT", r => r.Item.VolumeExpansionPerK),
+        C<RowOf<ExpansionRow>>("isothermal_bulk_modulus_gpa", ColumnType.Double, "GPa", "isothermal bulk modulus V d2F/dV2 (3D)", r => r.Item.IsothermalBulkModulusGpa),
+        C<RowOf<ExpansionRow>>("isothermal_bulk_modulus_n_per_m", ColumnType.Double, "N/m", "isothermal area modulus A d2F/dA2 (2D)", r => r.Item.IsothermalBulkModulusNPerM),
+        C<RowOf<ExpansionRow>>("isothermal_bulk_modulus_n", ColumnType.Double, "N", "isothermal length modulus L d2F/dL2 (1D)", r => r.Item.IsothermalBulkModulusN),
+        C<RowOf<ExpansionRow>>("cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity at constant volume, at V(T)", r => r.Item.CvJPerMolK),
+        C<RowOf<ExpansionRow>>("cp_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity at constant pressure Cv + alpha_V^2 B_T V T", r => r.Item.CpJPerMolK),
+        C<RowOf<ExpansionRow>>("grueneisen_parameter", ColumnType.Double, "1", "thermal Grueneisen parameter V (dS/dV)_T / Cv, the Cv-weighted mean of the mode parameters (empty at 0 K)", r => r.Item.Grueneisen),
+        C<RowOf<ExpansionRow>>("free_energy_j_per_mol", ColumnType.Double, "J/mol", "F = E_static + F_vib at the minimum, per mole of atoms", r => r.Item.FreeEnergyJPerMol),
+        C<RowOf<ExpansionRow>>("breakdown", ColumnType.Text, "", "why the approximation gives no numbers at this temperature (no minimum of F, runaway expansion); empty when it holds", r => r.Item.Breakdown),
+    ];
+
+    /// <summary>The model's lattice constant, long-wave elastic constants and any fit of its springs to them.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ElasticSummaryColumns()
+    {
+        static PointSummary? S(PointOutcome o) => o.Result?.Summary;
+        return
+        [
+            C<PointOutcome>("lattice_constant_nm", ColumnType.Double, "nm", "lattice constant the point was solved at (after relaxation to the static minimum, when asked)", o => S(o)?.LatticeConstantNm),
+            C<PointOutcome>("c11_gpa", ColumnType.Double, "GPa", "C11 from the long-wave limit, internal strain included (cubic lattices; a model under static stress gives its stressed wave modulus)", o => S(o)?.ElasticConstants?.C11Gpa),
+            C<PointOutcome>("c12_gpa", ColumnType.Double, "GPa", "C12 from the long-wave limit (cubic lattices)", o => S(o)?.ElasticConstants?.C12Gpa),
+            C<PointOutcome>("c44_gpa", ColumnType.Double, "GPa", "C44 from the long-wave limit (cubic lattices)", o => S(o)?.ElasticConstants?.C44Gpa),
+            C<PointOutcome>("elastic_fit_nearest_n_per_m", ColumnType.Double, "N/m", "fitted nearest-neighbour spring: central (elastic builder) or bond stretch (tetrahedral builder)", o => o.Result?.ElasticFit?.NearestNPerM),
+            C<PointOutcome>("elastic_fit_next_nearest_n_per_m", ColumnType.Double, "N/m", "fitted next-nearest central spring (elastic builder; 0 when not fitted)", o => o.Result?.ElasticFit is { BendNPerM: null } f ? f.NextNearestNPerM : null),
+            C<PointOutcome>("elastic_fit_bend_n_per_m", ColumnType.Double, "N/m", "fitted Keating bond-bend constant (tetrahedral builder)", o => o.Result?.ElasticFit?.BendNPerM),
+            C<PointOutcome>("static_energy_ev_per_atom", ColumnType.Double, "eV", "static lattice energy of the potentials per atom at the geometry solved (empty without potentials)", o => S(o)?.StaticLattice?.EnergyEvPerAtom),
+            C<PointOutcome>("static_pressure_gpa", ColumnType.Double, "GPa", "static pressure -dE/dV at the geometry solved (3D)", o => S(o)?.StaticLattice?.PressureGpa),
+            C<PointOutcome>("static_lattice_constant_nm", ColumnType.Double, "nm", "lattice constant at the minimum of the static energy (isotropic scaling)", o => S(o)?.StaticLattice?.EquilibriumLatticeConstantNm),
+            C<PointOutcome>("static_min_energy_ev_per_atom", ColumnType.Double, "eV", "static energy per atom at that minimum (minus the cohesive energy)", o => S(o)?.StaticLattice?.EquilibriumEnergyEvPerAtom),
+            C<PointOutcome>("static_bulk_modulus_gpa", ColumnType.Double, "GPa", "static bulk modulus V d2E/dV2 at that minimum (3D)", o => S(o)?.StaticLattice?.EquilibriumBulkModulusGpa),
         ];
     }
 

@@ -18,6 +18,7 @@ public static class TableNames
     public const string CumulativeKappa = "cumulative_kappa";
     public const string Layers = "layers";
     public const string LayerDos = "layer_dos";
+    public const string Expansion = "expansion";
 
     /// <summary>Every table a sweep with these outputs writes, points first. Sound speeds go with points.</summary>
     public static IReadOnlyList<string> For(OutputSelection outputs)

@@ -4,9 +4,10 @@ namespace LatticeSweep.Worker.Planning;
 
 /// <summary>
 /// Which tables a sweep writes. <c>points</c> is always written; <c>cumulative_kappa</c> needs
-/// conductivity estimates; <c>layers</c> and <c>layer_dos</c> have rows for samples with a surface.
+/// conductivity estimates; <c>layers</c> and <c>layer_dos</c> have rows for samples with a surface;
+/// <c>expansion</c> needs the quasi-harmonic calculation.
 /// </summary>
-public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements, bool CumulativeKappa = false, bool Layers = false, bool LayerDos = false)
+public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements, bool CumulativeKappa = false, bool Layers = false, bool LayerDos = false, bool Expansion = false)
 {
     public static OutputSelection Default => new(Dos: true, Thermal: true, Dispersion: false, Modes: true, Displacements: true);
 
@@ -21,5 +22,6 @@ public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bo
             .. CumulativeKappa ? new[] { "cumulative_kappa" } : [],
             .. Layers ? new[] { "layers" } : [],
             .. LayerDos ? new[] { "layer_dos" } : [],
+            .. Expansion ? new[] { "expansion" } : [],
         ];
 }

@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.Globalization;
+using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Worker.JobFiles;
 using LatticeSweep.Worker.Planning.Expansion;
@@ -72,7 +73,7 @@ internal static class SweepPlanner
             .ToImmutableArray();
         var template = new JobTemplate(baseSpec, options, bindings);
 
-        var points = Expand(sweep, candidates, axes, columns, template, options, problems, out var duplicates);
+        var points = Expand(document, sweep, candidates, axes, columns, template, options, problems, out var duplicates);
         problems.ThrowIfAny();
 
         var axisInfos = columns.Select(c => new AxisInfo(
@@ -105,6 +106,7 @@ internal static class SweepPlanner
     }
 
     private static ImmutableArray<PlannedPoint> Expand(
+        TomlDocument document,
         SweepDeclaration sweep,
         CandidateBlock? candidates,
         IReadOnlyList<PlanAxis> axes,
@@ -118,6 +120,9 @@ internal static class SweepPlanner
         var seen = new HashSet<string>(StringComparer.Ordinal);
         var badCombinations = new List<string>();
         var badCount = 0;
+        var interactionProblems = new List<(string Key, string Message)>();
+        var interactionSeen = new HashSet<(string, string)>();
+        var interactionCount = 0;
         duplicates = 0;
         // Each point's spec, checks and id hash are independent: computed on every core, in plan order.
         var computed = SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes)
@@ -132,12 +137,18 @@ internal static class SweepPlanner
 
                 var parameters = builder.ToImmutable();
                 var spec = PointBinder.Apply(template, new PlannedPoint("", 0, parameters));
-                return SpecChecks.Check(spec) is { } wrong
-                    ? (Parameters: parameters, Wrong: wrong, Id: "")
-                    : (Parameters: parameters, Wrong: (string?)null, Id: PointIdentity.PointId(CanonicalSpec.Write(spec, options),
+                if (SpecChecks.Check(spec) is { } wrong)
+                {
+                    return (Parameters: parameters, Wrong: wrong, Found: (IReadOnlyList<ModelProblem>)[], Id: "");
+                }
+
+                var found = InteractionProblems.Of(spec);
+                return found.Count > 0
+                    ? (Parameters: parameters, Wrong: (string?)null, Found: found, Id: "")
+                    : (Parameters: parameters, Wrong: (string?)null, Found: found, Id: PointIdentity.PointId(CanonicalSpec.Write(spec, options),
                         parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value))));
             });
-        foreach (var (parameters, wrong, id) in computed)
+        foreach (var (parameters, wrong, found, id) in computed)
         {
             if (wrong is not null)
             {
@@ -150,6 +161,21 @@ internal static class SweepPlanner
                 continue;
             }
 
+            if (found.Count > 0)
+            {
+                interactionCount++;
+                foreach (var p in found)
+                {
+                    var message = parameters.Count == 0 ? p.Message : $"{p.Message} (at {Describe(parameters)})";
+                    if (interactionProblems.Count < MaxPointProblemsShown && interactionSeen.Add((p.Where, p.Message)))
+                    {
+                        interactionProblems.Add(("model." + p.Where, message));
+                    }
+                }
+
+                continue;
+            }
+
             if (!seen.Add(id))
             {
                 duplicates++;
@@ -157,6 +183,16 @@ internal static class SweepPlanner
             }
 
             points.Add(new PlannedPoint(id, points.Count, parameters));
+        }
+
+        foreach (var (key, message) in interactionProblems)
+        {
+            problems.Add(KeyLocator.Locate(document, key), key, message);
+        }
+
+        if (interactionCount > 1 && interactionProblems.Count > 0)
+        {
+            problems.Add(new SourceLocation(1, 1), "sweep.axes", $"{Show(interactionCount)} point(s) in all have problems with their bends or potentials");
         }
 
         foreach (var message in badCombinations)

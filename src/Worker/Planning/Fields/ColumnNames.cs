@@ -42,6 +42,9 @@ internal static class ColumnNames
     public static string UnitOf(string key) => key switch
     {
         _ when key.EndsWith("_n_per_m", StringComparison.Ordinal) => "N/m",
+        _ when key.EndsWith("_per_nm", StringComparison.Ordinal) => "1/nm",
+        _ when key.EndsWith("_ev_nm6", StringComparison.Ordinal) => "eV nm^6",
+        _ when key.EndsWith("_ev", StringComparison.Ordinal) => "eV",
         _ when key.EndsWith("_amu", StringComparison.Ordinal) => "amu",
         _ when key.EndsWith("_nm", StringComparison.Ordinal) => "nm",
         _ when key.EndsWith("_gpa", StringComparison.Ordinal) => "GPa",

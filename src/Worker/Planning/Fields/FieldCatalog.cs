@@ -47,6 +47,9 @@ internal sealed class FieldCatalog
             case ElasticSpec e:
                 c.AddElastic(e);
                 break;
+            case TetrahedralSpec t:
+                c.AddTetrahedral(t);
+                break;
         }
 
         c.AddSample(spec.Sample, spec.Model.Dimension);
@@ -156,6 +159,77 @@ internal sealed class FieldCatalog
             {
                 Number(p + ".transverse_n_per_m", Checks.SpringNPerM, (s, v) => SetBond(s, bi, x => x with { TransverseNPerM = v }));
             }
+        }
+
+        AddBends(m);
+        AddPotentials(m);
+    }
+
+    private void AddBends(LatticeModelSpec m)
+    {
+        for (var i = 0; i < m.Bends.Length; i++)
+        {
+            var bi = i;
+            var p = $"model.bends[{Index(i)}]";
+            Number(p + ".constant_n_per_m", Checks.SpringNPerM, (s, v) => SetBend(s, bi, x => x with { ConstantNPerM = v }));
+            if (m.Bends[i].SameEnds)
+            {
+                // A bend between two shells keeps its pair of shells: one number cannot say which to move.
+                Whole(p + ".shell", 1, ModelSectionReader.MaxShell, (s, v) => SetBend(s, bi, x => x with { Shell = v }));
+            }
+        }
+    }
+
+    private void AddPotentials(LatticeModelSpec m)
+    {
+        for (var i = 0; i < m.Potentials.Length; i++)
+        {
+            var pi = i;
+            var p = $"model.potentials[{Index(i)}]";
+            Number(p + ".cutoff_nm", ModelSectionReader.PotentialChecks["cutoff_nm"], (s, v) => SetPotential(s, pi, x => x with { CutoffNm = v }));
+            foreach (var key in ModelSectionReader.PotentialParameters[m.Potentials[i].Potential.FormName])
+            {
+                var k = key;
+                Number($"{p}.{key}", ModelSectionReader.PotentialChecks[key], (s, v) => SetPotential(s, pi, x => x with { Potential = WithParameter(x.Potential, k, v) }));
+            }
+        }
+    }
+
+    private static Engine.Interactions.PairPotential WithParameter(Engine.Interactions.PairPotential potential, string key, double v) => (potential, key) switch
+    {
+        (Engine.Interactions.LennardJonesPotential lj, "well_depth_ev") => lj with { WellDepthEv = v },
+        (Engine.Interactions.LennardJonesPotential lj, "sigma_nm") => lj with { SigmaNm = v },
+        (Engine.Interactions.MorsePotential mo, "well_depth_ev") => mo with { WellDepthEv = v },
+        (Engine.Interactions.MorsePotential mo, "r0_nm") => mo with { R0Nm = v },
+        (Engine.Interactions.MorsePotential mo, "width_per_nm") => mo with { WidthPerNm = v },
+        (Engine.Interactions.BuckinghamPotential bu, "repulsion_ev") => bu with { RepulsionEv = v },
+        (Engine.Interactions.BuckinghamPotential bu, "rho_nm") => bu with { RhoNm = v },
+        (Engine.Interactions.BuckinghamPotential bu, "dispersion_ev_nm6") => bu with { DispersionEvNm6 = v },
+        _ => throw new ArgumentOutOfRangeException(nameof(key), key, $"not a parameter of a {potential.FormName} potential"),
+    };
+
+    private void AddTetrahedral(TetrahedralSpec t)
+    {
+        const string p = "model.tetrahedral.";
+        Number(p + "constant_nm", Checks.LengthNm, (s, v) => s with { Model = T(s) with { ConstantNm = v } });
+        Text(p + "element_a", Names.CheckElement, (s, v) => s with { Model = T(s) with { ElementA = v, MassAAmu = null } }, 0);
+        Number(p + "mass_a_amu", Checks.MassAmu, (s, v) => s with { Model = T(s) with { MassAAmu = v } });
+        if (t.Structure == Engine.Builders.TetrahedralStructure.ZincBlende)
+        {
+            Text(p + "element_b", Names.CheckElement, (s, v) => s with { Model = T(s) with { ElementB = v, MassBAmu = null } }, 0);
+            Number(p + "mass_b_amu", Checks.MassAmu, (s, v) => s with { Model = T(s) with { MassBAmu = v } });
+        }
+
+        if (t.Fitted)
+        {
+            Number(p + "c11_gpa", Checks.ModulusGpa, (s, v) => s with { Model = T(s) with { C11Gpa = v } });
+            Number(p + "c12_gpa", Checks.SignedModulusGpa, (s, v) => s with { Model = T(s) with { C12Gpa = v } });
+            Number(p + "c44_gpa", Checks.ModulusGpa, (s, v) => s with { Model = T(s) with { C44Gpa = v } });
+        }
+        else
+        {
+            Number(p + "stretch_n_per_m", Checks.SpringNPerM, (s, v) => s with { Model = T(s) with { StretchNPerM = v } });
+            Number(p + "bend_n_per_m", Checks.SpringNPerM, (s, v) => s with { Model = T(s) with { BendNPerM = v } });
         }
     }
 
@@ -369,6 +443,20 @@ internal sealed class FieldCatalog
     private static LayeredSpec Y(BoundSpec s) => (LayeredSpec)s.Model;
 
     private static ElasticSpec E(BoundSpec s) => (ElasticSpec)s.Model;
+
+    private static TetrahedralSpec T(BoundSpec s) => (TetrahedralSpec)s.Model;
+
+    private static BoundSpec SetPotential(BoundSpec s, int i, Func<Engine.Interactions.PotentialTerm, Engine.Interactions.PotentialTerm> change)
+    {
+        var l = L(s);
+        return s with { Model = l with { Potentials = l.Potentials.SetItem(i, change(l.Potentials[i])) } };
+    }
+
+    private static BoundSpec SetBend(BoundSpec s, int i, Func<Engine.Interactions.BendSpring, Engine.Interactions.BendSpring> change)
+    {
+        var l = L(s);
+        return s with { Model = l with { Bends = l.Bends.SetItem(i, change(l.Bends[i])) } };
+    }
 
     private static BoundSpec SetSite(BoundSpec s, int i, Func<SiteSpec, SiteSpec> change)
     {

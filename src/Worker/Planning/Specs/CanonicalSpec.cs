@@ -1,5 +1,6 @@
 using System.Globalization;
 using System.Text;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Transport;
@@ -48,6 +49,12 @@ internal static class CanonicalSpec
         }
 
         // Written only when asked for, so the ids of points without conductivity do not change.
+        if (options.Expansion is { } expansion)
+        {
+            sb.Append("expansion volumes=").Append(I(expansion.VolumeCount)).Append(" strain=").Append(D(expansion.LargestLinearStrain))
+                .Append(" modes=").Append(expansion.ModeGrueneisen ? '1' : '0').Append('\n');
+        }
+
         if (spec.Conductivity is { } conductivity)
         {
             WriteConductivity(sb, conductivity);
@@ -159,6 +166,37 @@ internal static class CanonicalSpec
                     sb.Append('\n');
                 }
 
+                foreach (var p in m.Potentials)
+                {
+                    sb.Append("potential ").Append(Quote(p.KindA)).Append(' ').Append(Quote(p.KindB)).Append(' ').Append(p.Potential.FormName);
+                    switch (p.Potential)
+                    {
+                        case LennardJonesPotential lj:
+                            sb.Append(" eps=").Append(D(lj.WellDepthEv)).Append(" sigma=").Append(D(lj.SigmaNm));
+                            break;
+                        case MorsePotential mo:
+                            sb.Append(" d=").Append(D(mo.WellDepthEv)).Append(" r0=").Append(D(mo.R0Nm)).Append(" a=").Append(D(mo.WidthPerNm));
+                            break;
+                        case BuckinghamPotential bu:
+                            sb.Append(" a=").Append(D(bu.RepulsionEv)).Append(" rho=").Append(D(bu.RhoNm)).Append(" c=").Append(D(bu.DispersionEvNm6));
+                            break;
+                    }
+
+                    sb.Append(" cutoff=").Append(D(p.CutoffNm)).Append(" shift=").Append(p.ShiftAtCutoff ? '1' : '0').Append('\n');
+                }
+
+                if (m.Relax)
+                {
+                    sb.Append("relax\n");
+                }
+
+                foreach (var b in m.Bends)
+                {
+                    sb.Append("bend ").Append(Quote(b.CentreKind)).Append(' ').Append(Quote(b.EndKind)).Append(' ').Append(I(b.Shell))
+                        .Append(' ').Append(Quote(b.SecondKind)).Append(' ').Append(I(b.SecondShell))
+                        .Append(' ').Append(b.Form).Append(' ').Append(D(b.ConstantNPerM)).Append('\n');
+                }
+
                 break;
             case LayeredSpec l:
                 sb.Append("layers ").Append(l.Host).Append(" spacing=").Append(D(l.SpacingNm)).Append(" r=").Append(I(l.SitesPerCell))
@@ -174,6 +212,14 @@ internal static class CanonicalSpec
                     .Append(" element=").Append(e.Element is { } el ? Quote(el) : "-")
                     .Append(" c11=").Append(D(e.C11Gpa)).Append(" c12=").Append(D(e.C12Gpa)).Append(" c44=").Append(D(e.C44Gpa))
                     .Append(" nn2=").Append(e.NextNearest ? '1' : '0').Append('\n');
+                break;
+            case TetrahedralSpec t:
+                static string N(double? v) => v is { } x ? D(x) : "-";
+                sb.Append("tetrahedral ").Append(t.Structure).Append(" a=").Append(D(t.ConstantNm))
+                    .Append(" mass_a=").Append(N(t.MassAAmu)).Append(" element_a=").Append(t.ElementA is { } ea ? Quote(ea) : "-")
+                    .Append(" mass_b=").Append(N(t.MassBAmu)).Append(" element_b=").Append(t.ElementB is { } eb ? Quote(eb) : "-")
+                    .Append(" stretch=").Append(N(t.StretchNPerM)).Append(" bend=").Append(N(t.BendNPerM))
+                    .Append(" c11=").Append(N(t.C11Gpa)).Append(" c12=").Append(N(t.C12Gpa)).Append(" c44=").Append(N(t.C44Gpa)).Append('\n');
                 break;
         }
     }

@@ -1,6 +1,7 @@
 using LatticeSweep.Engine.Builders;
 using LatticeSweep.Engine.Elastic;
 using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 
@@ -29,18 +30,27 @@ internal static class EngineObjects
             return built;
         }
 
+        if (model is TetrahedralSpec { Fitted: true } t)
+        {
+            var built = BuildFittedTetrahedral(t, out var f);
+            fit = f;
+            return built;
+        }
+
         return BuildOther(model);
     }
 
     private static CrystalModel BuildOther(ModelSpec model) => model switch
     {
-        LatticeModelSpec m => CrystalModel.Create(
+        LatticeModelSpec m => Relaxed(m, CrystalModel.Create(
             BuildLattice(m),
             m.Sites.Select(s => new Site(s.Label, s.Kind, s.Position, MassOf(s.MassAmu, s.Element, $"sites '{s.Label}'"))),
             m.Springs,
             m.Bonds,
             m.Motion,
-            m.ShellToleranceNm),
+            m.ShellToleranceNm,
+            m.Bends,
+            m.Potentials)),
         LayeredSpec l => LayeredModelBuilder.Build(new LayeredModelSpec(
             l.Host,
             l.SpacingNm,
@@ -49,6 +59,7 @@ internal static class EngineObjects
             l.LongitudinalNPerM,
             l.TransverseNPerM,
             l.Motion)),
+        TetrahedralSpec t => BuildTetrahedral(t),
         _ => throw new ArgumentOutOfRangeException(nameof(model), model.GetType().Name, "unknown model spec"),
     };
 
@@ -162,6 +173,28 @@ internal static class EngineObjects
         {
             return null;
         }
+    }
+
+    /// <summary>With <c>relax = true</c>, the model scaled to the minimum of its potentials' static energy.</summary>
+    private static CrystalModel Relaxed(LatticeModelSpec spec, CrystalModel model) =>
+        spec.Relax && StaticLattice.Analyse(model) is { } s ? model.Scaled(s.EquilibriumScale) : model;
+
+    private static (double A, double B) TetrahedralMasses(TetrahedralSpec t)
+    {
+        var massA = MassOf(t.MassAAmu, t.ElementA, "model.tetrahedral.element_a");
+        return (massA, t.Structure == TetrahedralStructure.Diamond ? massA : MassOf(t.MassBAmu, t.ElementB, "model.tetrahedral.element_b"));
+    }
+
+    private static CrystalModel BuildTetrahedral(TetrahedralSpec t)
+    {
+        var (massA, massB) = TetrahedralMasses(t);
+        return TetrahedralModelBuilder.Build(new TetrahedralModelSpec(t.Structure, t.ConstantNm, massA, massB, t.StretchNPerM!.Value, t.BendNPerM!.Value, t.Motion));
+    }
+
+    private static CrystalModel BuildFittedTetrahedral(TetrahedralSpec t, out ElasticFitResult fit)
+    {
+        var (massA, massB) = TetrahedralMasses(t);
+        return TetrahedralModelBuilder.BuildFitted(t.Structure, t.ConstantNm, massA, massB, new CubicElasticConstants(t.C11Gpa!.Value, t.C12Gpa!.Value, t.C44Gpa!.Value), out fit, t.Motion);
     }
 
     private static Lattice BuildLattice(LatticeModelSpec m) => m.Lattice switch

@@ -1,0 +1,8 @@
+namespace LatticeSweep.Engine.QuasiHarmonic;
+
+/// <summary>
+/// One harmonic solve of the quasi-harmonic loop: the lattice scale, the cell measure V (m, m^2
+/// or m^3), and per temperature the vibrational free energy, entropy and heat capacity per cell
+/// (J, J/K); <see cref="Usable"/> is false for an unstable or unsolvable volume.
+/// </summary>
+internal sealed record VolumeSample(double Scale, double CellMeasure, double[] FreeEnergyJ, double[] EntropyJPerK, double[] HeatCapacityJPerK, bool Usable);

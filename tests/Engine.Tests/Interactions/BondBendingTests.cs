@@ -1,0 +1,328 @@
+using System.Numerics;
+using LatticeSweep.Engine.Builders;
+using LatticeSweep.Engine.Elastic;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Interactions;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Tests.Support;
+using LatticeSweep.Engine.Units;
+
+namespace LatticeSweep.Engine.Tests.Interactions;
+
+public class BondBendingTests
+{
+    private const double Stretch = 120, Bend = 12;
+
+    /// <summary>Keating's alpha and beta (Martin's normalisation) of our stretch and bend: stretch = 3 alpha, bend = 3 beta / 4.</summary>
+    private static (double Alpha, double Beta) Keating(double stretch, double bend) => (stretch / 3, 4 * bend / 3);
+
+    [Fact]
+    public void Diamond_elastic_constants_follow_Keatings_relations()
+    {
+        // Keating, Phys. Rev. 145, 637 (1966), in the normalisation of Martin, Phys. Rev. B 1, 4005 (1970)
+        // (from memory): C11 = (alpha + 3 beta)/a, C12 = (alpha - beta)/a, C44 = 4 alpha beta / (a (alpha + beta)).
+        var c = LongWaveElasticity.Cubic(CompiledCrystal.From(BondedCrystals.Tetrahedral(Stretch, Bend)))!;
+        var (alpha, beta) = Keating(Stretch, Bend);
+        var a = BondedCrystals.DiamondConstantNm * 1e-9;
+        Approx.Equal((alpha + 3 * beta) / a / 1e9, c.C11Gpa, 1e-7, "C11");
+        Approx.Equal((alpha - beta) / a / 1e9, c.C12Gpa, 1e-7, "C12");
+        Approx.Equal(4 * alpha * beta / (a * (alpha + beta)) / 1e9, c.C44Gpa, 1e-7, "C44 (with internal strain)");
+
+        // Keating's equality holds in any normalisation: 2 C44 (C11 + C12) = (C11 - C12)(C11 + 3 C12).
+        Approx.Equal((c.C11Gpa - c.C12Gpa) * (c.C11Gpa + 3 * c.C12Gpa), 2 * c.C44Gpa * (c.C11Gpa + c.C12Gpa), 1e-7, "Keating's equality");
+
+        // Bulk modulus (C11 + 2 C12)/3 = (3 alpha + beta)/(3a): derived here from Keating's energy under a pure dilation.
+        Approx.Equal((3 * alpha + beta) / (3 * a) / 1e9, (c.C11Gpa + 2 * c.C12Gpa) / 3, 1e-7, "bulk modulus");
+        Assert.NotEqual(c.C12Gpa, c.C44Gpa, 3);
+    }
+
+    [Fact]
+    public void Zinc_blende_optical_frequency_at_q_zero_follows_from_Keatings_energy()
+    {
+        // omega^2 = 4 (alpha + beta) (1/m_A + 1/m_B), triply degenerate: derived here from Keating's energy with
+        // the sublattices moving rigidly against each other (sum over tetrahedral bonds of r r^T = (4/3) d^2 1).
+        var (mA, mB) = (27.0, 75.0);
+        var solver = new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(BondedCrystals.Tetrahedral(Stretch, Bend, mA, mB))));
+        solver.SolveValues(Vec3.Zero);
+        var (alpha, beta) = Keating(Stretch, Bend);
+        var expected = 4 * (alpha + beta) * (1 / (mA * PhysicalConstants.AtomicMassKg) + 1 / (mB * PhysicalConstants.AtomicMassKg));
+        for (var k = 0; k < 3; k++)
+        {
+            Assert.True(Math.Abs(solver.Values[k]) <= 1e-10 * expected, $"acoustic {k} at q = 0: {solver.Values[k]}");
+            Approx.Equal(expected, solver.Values[3 + k], 1e-10, $"optical {k}");
+        }
+    }
+
+    [Fact]
+    public void Bends_compile_to_pair_blocks_whose_reverse_is_the_transpose_and_whose_sum_is_the_self_term()
+    {
+        // Hermiticity and the acoustic sum rule by construction, for blocks that are not symmetric.
+        var crystal = CompiledCrystal.From(BondedCrystals.Tetrahedral(Stretch, Bend, 27, 75));
+        var asymmetric = 0;
+        foreach (var c in crystal.Couplings)
+        {
+            var reverse = crystal.Couplings.Single(r => r.I == c.J && r.J == c.I && (r.SeparationM + c.SeparationM).Length < 1e-20);
+            Assert.Equal(c.SpringNPerM.Transpose(), reverse.SpringNPerM);
+            asymmetric += MaxAbs(c.SpringNPerM + -c.SpringNPerM.Transpose()) > 1e-9 ? 1 : 0;
+        }
+
+        Assert.True(asymmetric > 0, "Keating terms give blocks that are not symmetric");
+        for (var i = 0; i < crystal.Sites; i++)
+        {
+            var sum = crystal.Couplings.Where(c => c.I == i).Aggregate(Matrix3.Zero, (s, c) => s + c.SpringNPerM);
+            Assert.True(MaxAbs(sum + -crystal.SelfTerms[i]) <= 1e-12 * MaxAbs(crystal.SelfTerms[i]));
+        }
+
+        // The outer atoms of a bend are coupled although they are second neighbours (A-A, B-B): no spring joins them.
+        Assert.Contains(crystal.Couplings, c => c.I == 0 && c.J == 0);
+    }
+
+    [Fact]
+    public void D_of_q_with_bends_is_the_plain_Fourier_sum_of_every_directed_block_one_q_or_many()
+    {
+        // D_ij(q) = sum over couplings i -> j of -K e^{i q.d} / sqrt(m_i m_j), plus the self-terms: written out
+        // here block by block, each direction with its own (transposed) block, against the solver's kernels,
+        // which pair each coupling with its reverse (common practice, no source).
+        var crystal = CompiledCrystal.From(BondedCrystals.Tetrahedral(Stretch, Bend, 27, 75));
+        var matrix = new DynamicalMatrix(crystal);
+        var n = crystal.Size;
+        Vec3 Q(double x, double y, double z) => (x * crystal.Lattice.ReciprocalVector(0)) + (y * crystal.Lattice.ReciprocalVector(1)) + (z * crystal.Lattice.ReciprocalVector(2));
+        Vec3[] qs = [Q(0.13, 0.29, 0.41), Q(0.37, -0.08, 0.22)];
+        var many = new Complex[qs.Length * n * n];
+        matrix.BuildMany(qs, many);
+        for (var k = 0; k < qs.Length; k++)
+        {
+            var expected = new Complex[n * n];
+            for (var i = 0; i < crystal.Sites; i++)
+            {
+                AddBlock(expected, n, i, i, crystal.SelfTerms[i], 1 / crystal.MassesKg[i]);
+            }
+
+            foreach (var c in crystal.Couplings)
+            {
+                var phase = Complex.FromPolarCoordinates(1, c.SeparationM.Dot(qs[k]));
+                AddBlock(expected, n, c.I, c.J, c.SpringNPerM, -phase / Math.Sqrt(crystal.MassesKg[c.I] * crystal.MassesKg[c.J]));
+            }
+
+            var one = new Complex[n * n];
+            matrix.Build(qs[k], one);
+            var scale = expected.Max(z => z.Magnitude);
+            for (var e = 0; e < n * n; e++)
+            {
+                Assert.True((one[e] - expected[e]).Magnitude <= 1e-12 * scale, $"Build, q {k}, element {e}: {one[e]} against {expected[e]}");
+                Assert.True((many[(k * n * n) + e] - expected[e]).Magnitude <= 1e-12 * scale, $"BuildMany, q {k}, element {e}");
+            }
+        }
+    }
+
+    private static void AddBlock(Complex[] d, int n, int i, int j, Matrix3 k, Complex factor)
+    {
+        for (var a = 0; a < 3; a++)
+        {
+            for (var c = 0; c < 3; c++)
+            {
+                d[(((3 * i) + a) * n) + (3 * j) + c] += factor * k[a, c];
+            }
+        }
+    }
+
+    [Theory]
+    [InlineData(BendForm.Keating)]
+    [InlineData(BendForm.Angle)]
+    public void Every_bend_term_vanishes_under_a_rigid_rotation(BendForm form)
+    {
+        // Rotational invariance: each term is a function of scalar products or angles of bond vectors
+        // (Keating 1966; Born and Huang, ch. 5, the conditions of rotational invariance), so its linear form
+        // L = sum g_n . u_n is zero for u_n = w x x_n with x_n the atom's position.
+        var models = new[]
+        {
+            CrystalModel.Create(Lattice.SimpleCubic(0.3), [new Site("A", "A", Vec3.Zero, 10)], [new ShellSpring("A", "A", 1, 10)],
+                bends: [new BendSpring("A", "A", 1, form, 3), new BendSpring("A", "A", 2, form, 1)]),
+            BondedCrystals.Tetrahedral(Stretch, Bend, 27, 75) with { },
+            BondedCrystals.Honeycomb(),
+        };
+        var w = new Vec3(0.3, -0.7, 0.5);
+        foreach (var model in models)
+        {
+            var m = CrystalModel.Create(model.Lattice, model.Sites, model.ShellSprings, model.BondSprings, bends: model.Bends.Select(b => b with { Form = b.Form == BendForm.Flexural ? b.Form : form }));
+            var positions = m.Sites.Select(s => m.Lattice.ToCartesianM(s.Fractional)).ToArray();
+            var problems = new List<ModelProblem>();
+            var terms = BendCompiler.Terms(m, positions, problems).ToList();
+            Assert.Empty(problems);
+            Assert.NotEmpty(terms);
+            foreach (var (_, term) in terms)
+            {
+                var x = term.Atoms.Select(a => m.Lattice.ToCartesianM(a.Offset.AsVec3()) + positions[a.Site]).ToArray();
+                var rotation = x.Select(p => w.Cross(p)).ToArray();
+                var translation = x.Select(_ => w).ToArray();
+                var size = term.Atoms.Sum(a => a.Gradient.Length) * x.Max(p => p.Length);
+                Assert.True(Math.Abs(term.Evaluate(rotation)) <= 1e-12 * size, $"{form}: rotation changes L by {term.Evaluate(rotation)}");
+                Assert.True(Math.Abs(term.Evaluate(translation)) <= 1e-12 * term.Atoms.Sum(a => a.Gradient.Length), "translation");
+            }
+        }
+    }
+
+    [Theory]
+    [InlineData(BendForm.Keating, false)]
+    [InlineData(BendForm.Angle, false)]
+    [InlineData(BendForm.Angle, true)]
+    public void A_bend_terms_blocks_are_the_second_derivatives_of_its_energy(BendForm form, bool straight)
+    {
+        // Force constants = Hessian of E(u) = (1/2) k [d(r_j . r_k)]^2 / (d_j d_k) or (1/2) k d_j d_k (theta - theta0)^2,
+        // against central second differences of the energy of displaced atoms (common practice, no source).
+        const double k = 7.0;
+        var rj = new Vec3(0.21, 0.05, -0.11) * 1e-9;
+        var rk = straight ? -0.8 * rj : new Vec3(-0.04, 0.19, 0.13) * 1e-9;
+        var atoms = new[] { Vec3.Zero, rj, rk };
+        var (dj, dk) = (rj.Length, rk.Length);
+        double Energy(Vec3[] u)
+        {
+            var a = atoms[1] + u[1] - atoms[0] - u[0];
+            var b = atoms[2] + u[2] - atoms[0] - u[0];
+            if (form == BendForm.Keating)
+            {
+                var change = a.Dot(b) - rj.Dot(rk);
+                return 0.5 * k * change * change / (dj * dk);
+            }
+
+            // atan2 keeps the angle accurate near 180 degrees, where acos loses half the digits.
+            var theta = Math.Atan2(a.Cross(b).Length, a.Dot(b));
+            var theta0 = Math.Atan2(rj.Cross(rk).Length, rj.Dot(rk));
+            return 0.5 * k * dj * dk * (theta - theta0) * (theta - theta0);
+        }
+
+        var forms = BendCompiler.Gradients(form, k, rj, rk, 3).ToList();
+        Assert.Equal(form == BendForm.Angle && straight ? 2 : 1, forms.Count);
+        var h = 1e-4 * dj;
+        var scale = 0.0;
+        var worst = 0.0;
+        for (var m = 0; m < 3; m++)
+        {
+            for (var n = 0; n < 3; n++)
+            {
+                for (var a = 0; a < 3; a++)
+                {
+                    for (var b = 0; b < 3; b++)
+                    {
+                        var analytic = forms.Sum(f => f.Kappa * Component(Gradient(f, m), a) * Component(Gradient(f, n), b));
+                        var numeric = (Energy(Shift(m, a, h, n, b, h)) - Energy(Shift(m, a, h, n, b, -h)) - Energy(Shift(m, a, -h, n, b, h)) + Energy(Shift(m, a, -h, n, b, -h))) / (4 * h * h);
+                        scale = Math.Max(scale, Math.Abs(analytic));
+                        worst = Math.Max(worst, Math.Abs(analytic - numeric));
+                    }
+                }
+            }
+        }
+
+        Assert.True(worst <= 1e-5 * scale, $"{form}: worst difference {worst:G3} of {scale:G3}");
+
+        static Vec3 Gradient((double Kappa, Vec3 Gj, Vec3 Gk) f, int atom) => atom switch { 0 => -(f.Gj + f.Gk), 1 => f.Gj, _ => f.Gk };
+        static double Component(Vec3 v, int axis) => v[axis];
+        static Vec3[] Shift(int m, int a, double hm, int n, int b, double hn)
+        {
+            var u = new Vec3[3];
+            u[m] += Axis(a, hm);
+            u[n] += Axis(b, hn);
+            return u;
+        }
+
+        static Vec3 Axis(int a, double h) => a switch { 0 => new Vec3(h, 0, 0), 1 => new Vec3(0, h, 0), _ => new Vec3(0, 0, h) };
+    }
+
+    [Fact]
+    public void A_honeycomb_sheet_with_flexural_bending_has_a_quadratic_out_of_plane_branch()
+    {
+        // Rotational invariance shows in the long waves of a free sheet: omega_ZA ~ q^2 (a plate's bending wave;
+        // Landau and Lifshitz, Theory of Elasticity, sect. 25, from memory), so omega^2 grows 16-fold when q doubles.
+        // A transverse spring on the bonds breaks the invariance and makes the branch linear (4-fold).
+        static double Ratio(CrystalModel model)
+        {
+            var solver = new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(model)));
+            var q = 1e-3 * model.Lattice.B1PerM;
+            solver.SolveValues(q);
+            var small = solver.Values[0];
+            solver.SolveValues(2 * q);
+            return solver.Values[0] / small;
+        }
+
+        Approx.Equal(16, Ratio(BondedCrystals.Honeycomb()), 1e-3, "flexural bending");
+        Approx.Equal(4, Ratio(BondedCrystals.Honeycomb(flexural: 0, transverse: 20)), 1e-3, "transverse springs");
+
+        // Only the rigid out-of-plane translation is free: the out-of-plane optical mode (A against B) is not.
+        var gamma = new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(BondedCrystals.Honeycomb())));
+        gamma.SolveValues(Vec3.Zero);
+        Assert.True(Math.Abs(gamma.Values[2]) <= 1e-12 * gamma.Values[5], "three rigid translations");
+        Assert.True(gamma.Values[3] > 1e-3 * gamma.Values[5], $"out-of-plane optical mode at q = 0: {gamma.Values[3]:G3}");
+
+        // Without any out-of-plane stiffness the sheet is floppy and refused.
+        var e = Assert.Throws<ModelException>(() => PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 0), BulkSample.Uniform(2, 8), new SolveOptions()));
+        Assert.Equal(ModelProblemKind.UnconnectedSite, e.Kind);
+    }
+
+    [Fact]
+    public void A_bend_whose_centres_lack_two_neighbours_in_the_shell_is_refused_with_its_key()
+    {
+        // Chain of period 1 nm with b 0.1 nm to the right of a: a's first b-shell holds one site.
+        var model = CrystalModel.Create(Lattice.Chain(1.0),
+            [new Site("a", "a", Vec3.Zero, 10), new Site("b", "b", new Vec3(0.1, 0, 0), 10)],
+            [new ShellSpring("a", "b", 1, 10, 2), new ShellSpring("a", "b", 2, 10, 2)],
+            bends: [new BendSpring("a", "b", 1, BendForm.Angle, 1)]);
+        var problem = Assert.Single(InteractionChecks.Find(model));
+        Assert.Equal("bends[0].shell", problem.Where);
+        Assert.Contains("1 neighbour(s)", problem.Message, StringComparison.Ordinal);
+        Assert.Throws<ModelException>(() => CompiledCrystal.From(model));
+
+        var flat = BondedCrystals.Honeycomb();
+        var noStraightPair = CrystalModel.Create(flat.Lattice, flat.Sites, flat.ShellSprings, bends: [new BendSpring("A", "B", 1, BendForm.Flexural, 1)]);
+        Assert.Empty(InteractionChecks.Find(flat));
+        Assert.Contains("opposite", Assert.Single(InteractionChecks.Find(noStraightPair)).Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Fit_recovers_the_constants_behind_Keating_elastic_constants_and_says_C12_differs_from_C44()
+    {
+        var exact = LongWaveElasticity.Cubic(CompiledCrystal.From(BondedCrystals.Tetrahedral(Stretch, Bend)))!;
+        var fit = BondBendingFit.Fit(TetrahedralStructure.Diamond, BondedCrystals.DiamondConstantNm, 56, exact);
+        Assert.True(fit.RelativeResidual < 1e-8, $"residual {fit.RelativeResidual}");
+        Approx.Equal(Stretch, fit.NearestNPerM, 1e-6, "stretch");
+        Approx.Equal(Bend, fit.BendNPerM!.Value, 1e-6, "bend");
+    }
+
+    [Fact]
+    public void Fit_to_silicon_handbook_constants_leaves_a_small_residual()
+    {
+        // Si: a = 0.5431 nm, C11 = 165.7, C12 = 63.9, C44 = 79.6 GPa (Kittel, Introduction to Solid State Physics,
+        // ch. 3, table of cubic elastic constants; from memory). Keating's equality nearly holds for these
+        // (2 C44 (C11 + C12) = 36 553 against (C11 - C12)(C11 + 3 C12) = 36 383), so two constants fit all three.
+        var model = TetrahedralModelBuilder.BuildFitted(TetrahedralStructure.Diamond, 0.5431, 28.085, 28.085, new CubicElasticConstants(165.7, 63.9, 79.6), out var fit);
+        Assert.True(fit.RelativeResidual < 0.01, $"residual {fit.RelativeResidual}");
+        Assert.True(fit.Reproduced.C44Gpa > fit.Reproduced.C12Gpa + 10, "C12 != C44 is reached");
+        var result = PhononSolver.Solve(model, BulkSample.Uniform(3, 6), new SolveOptions { TemperaturesK = [300], PartialDos = false, MeanSquareDisplacement = false });
+        Approx.Equal(fit.Reproduced.C11Gpa, result.Summary.ElasticConstants!.C11Gpa, 1e-6, "the model's own long waves give the fitted C11");
+        Approx.Equal(fit.Reproduced.C44Gpa, result.Summary.ElasticConstants.C44Gpa, 1e-6, "and C44");
+        Assert.True(result.Summary.Stable);
+
+        // Christoffel speeds of the fitted constants (density 2329 kg/m^3 from the mass and lattice constant) match
+        // the model's own sound speeds: [100] longitudinal sqrt(C11 / rho).
+        Approx.Equal(2329, fit.DensityKgPerM3, 1e-3, "density");
+        var l100 = fit.SoundSpeeds.Single(v => v.Direction == "[100]").SpeedsMPerS[2];
+        Approx.Equal(l100, result.Summary.SoundSpeeds.Single(v => v.Direction == "[100]").SpeedsMPerS[2], 1e-4, "[100] longitudinal");
+    }
+
+    private static double MaxAbs(Matrix3 m)
+    {
+        var max = 0.0;
+        for (var r = 0; r < 3; r++)
+        {
+            for (var c = 0; c < 3; c++)
+            {
+                max = Math.Max(max, Math.Abs(m[r, c]));
+            }
+        }
+
+        return max;
+    }
+}
