@@ -21,15 +21,16 @@ internal static class SimplexDosIntegrator
     /// <param name="weights">Optional channel weights at [(point * branches + branch) * channels + c]; per mode they sum to 1.</param>
     /// <param name="total">Accumulates states per cell in each bin.</param>
     /// <param name="partial">Accumulates per channel, [c * bins + bin]; may be empty.</param>
+    /// <param name="longWaves">Cells whose lowest branches are integrated elsewhere (<see cref="LongWaveRegion"/>); they skip those branches here.</param>
     public static void Accumulate(
         int dimension, (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz,
-        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial)
+        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves = null)
     {
         var (m1, m2, m3) = mesh;
         var cells = (long)m1 * m2 * m3;
         if (dimension == 3)
         {
-            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial);
+            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial, longWaves);
             return;
         }
 
@@ -54,9 +55,10 @@ internal static class SimplexDosIntegrator
                     }
 
                     var simplices = dimension switch { 1 => [[0, 1]], 2 => Triangles, _ => Tetrahedra };
+                    var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
                     foreach (var simplex in simplices)
                     {
-                        for (var b = 0; b < branches; b++)
+                        for (var b = firstBranch; b < branches; b++)
                         {
                             AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight);
                         }
@@ -76,7 +78,7 @@ internal static class SimplexDosIntegrator
     /// </summary>
     private static void AccumulateTetrahedra(
         (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz, double[]? weights, int channels,
-        FrequencyGrid grid, double[] total, double[] partial)
+        FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves)
     {
         var (m1, m2, m3) = mesh;
         var share = 1.0 / 6.0 / ((long)m1 * m2 * m3);
@@ -108,6 +110,9 @@ internal static class SimplexDosIntegrator
                     }
 
                     var cubeShare = image == self ? share : pairShare;
+
+                    // The box around q = 0 is inversion-symmetric: a cube and its image are both in or both out.
+                    var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
                     var j3 = i3 + 1 == m3 ? 0 : i3 + 1;
                     corners[0] = ((i1 * m2) + i2) * m3 + i3;
                     corners[1] = ((j1 * m2) + i2) * m3 + i3;
@@ -123,7 +128,7 @@ internal static class SimplexDosIntegrator
                         var c1 = corners[TetrahedronCorners[t + 1]] * branches;
                         var c2 = corners[TetrahedronCorners[t + 2]] * branches;
                         var c3 = corners[TetrahedronCorners[t + 3]] * branches;
-                        for (var b = 0; b < branches; b++)
+                        for (var b = firstBranch; b < branches; b++)
                         {
                             if (useWeights)
                             {

@@ -67,6 +67,16 @@ internal static class BulkSolver
         var highest = ModeSolver.SignedThz(stats.MaxLambda);
         var perOutput = Math.Max(1, (FineBinsTarget + options.DosBins - 1) / options.DosBins);
         var gaussian = options.DosMethod == DosMethod.Gaussian;
+        var rigid = crystal.Components;
+        var zeroModes = rigid + CountZeroModes(frequencies, grid, n, rigid, highest);
+        var unstable = stats.WorstLambda < -1e-8 * stats.MaxLambda;
+
+        // The acoustic branches around q = 0 from the model's own long waves (not for Gaussian
+        // broadening, nor for unstable or floppy models: their thermal numbers are not trusted anyway).
+        var longWaves = gaussian || unstable || zeroModes > rigid
+            ? null
+            : LongWaveRegion.TryBuild(solver, sample, frequencies, wantWeights);
+        ct.ThrowIfCancellationRequested();
 
         // Gaussian tails reach 6 sigma past the spectrum; the grid takes them in so no state is lost.
         var tail = gaussian ? 6 * options.GaussianSigmaThz : 0;
@@ -87,7 +97,8 @@ internal static class BulkSolver
         }
         else
         {
-            SimplexDosIntegrator.Accumulate(dimension, (sample.M1, sample.M2, sample.M3), n, frequencies, weights, weights is null ? 0 : n, fine, total, partial);
+            SimplexDosIntegrator.Accumulate(dimension, (sample.M1, sample.M2, sample.M3), n, frequencies, weights, weights is null ? 0 : n, fine, total, partial, longWaves?.Box);
+            longWaves?.DepositAboveSplit(fine, total, partial);
         }
 
         ct.ThrowIfCancellationRequested();
@@ -110,6 +121,10 @@ internal static class BulkSolver
             sink.Add(omega, total[b], sink.WantsChannelFractions ? fractions : default);
         }
 
+        // Below omega_c the long waves go to the thermal sums by their own quadrature (exact at any
+        // temperature) and to the DOS table by bins.
+        longWaves?.AddBelowSplit(sink, sink.TemperaturesK);
+
         var outGrid = new FrequencyGrid(fine.StartThz, fine.WidthThz * perOutput, options.DosBins);
         var outTotal = new double[outGrid.Bins];
         var sites = crystal.Sites;
@@ -127,6 +142,21 @@ internal static class BulkSolver
             }
         }
 
+        if (longWaves is not null)
+        {
+            var lowTotal = new double[outGrid.Bins];
+            var lowPartial = outPartial.Length > 0 ? new double[n * outGrid.Bins] : [];
+            longWaves.DepositBelowSplit(outGrid, lowTotal, lowPartial);
+            for (var b = 0; b < outGrid.Bins; b++)
+            {
+                outTotal[b] += lowTotal[b];
+                for (var c = 0; c < lowPartial.Length / outGrid.Bins; c++)
+                {
+                    outPartial[(c / crystal.Components) * outGrid.Bins + b] += lowPartial[c * outGrid.Bins + b];
+                }
+            }
+        }
+
         var method = gaussian ? "gaussian" : dimension switch { 1 => "linear intervals", 2 => "linear triangles", _ => "linear tetrahedra" };
         return new SpectrumOutcome
         {
@@ -134,12 +164,36 @@ internal static class BulkSolver
             CellsOrMeshPoints = grid.Count,
             QPointsSolved = grid.HalfCount,
             ModeCount = grid.Count * n,
-            RigidModesExcluded = 0,
-            ZeroModesExcluded = 0,
+            RigidModesExcluded = rigid,
+            ZeroModesExcluded = zeroModes,
             Statistics = stats,
             Sink = sink,
             Dos = DosAssembly.FromStates(outGrid, outTotal, outPartial, sites, method),
             Modes = [],
         };
+    }
+
+    /// <summary>
+    /// Modes of zero frequency (within the eigen-solver's round-off, 1e-7 of the top frequency, i.e.
+    /// 1e-14 in omega^2) at the mesh points, the rigid translations at q = 0 not counted. More than none
+    /// marks a floppy model (directions without a restoring force on whole lines or planes of q).
+    /// </summary>
+    private static long CountZeroModes(double[] frequencyThz, PeriodicGrid grid, int branches, int rigid, double highestThz)
+    {
+        var gamma = grid.Index(grid.N1 / 2, grid.N2 / 2, grid.N3 / 2);
+        var tolerance = 1e-7 * highestThz;
+        long count = 0;
+        for (long p = 0; p < grid.Count; p++)
+        {
+            for (var k = p == gamma ? rigid : 0; k < branches; k++)
+            {
+                if (Math.Abs(frequencyThz[p * branches + k]) <= tolerance)
+                {
+                    count++;
+                }
+            }
+        }
+
+        return count;
     }
 }
