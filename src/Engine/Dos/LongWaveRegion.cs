@@ -230,14 +230,22 @@ internal sealed class LongWaveRegion
 
     private static int Wrap(int i, int m) => ((i % m) + m) % m;
 
-    /// <summary>States above omega_c into the fine bins that feed the thermal sums (states per cell per bin).</summary>
-    public void DepositAboveSplit(FrequencyGrid grid, double[] total, double[] partial) => Deposit(grid, total, partial, above: true);
+    /// <summary>
+    /// States above omega_c into bins (states per cell per bin). For the thermal sums each ray ends
+    /// sharply: the face quadrature is exact for smooth functions of the face position, which the sums
+    /// are. For the DOS table (<paramref name="spreadEnds"/>) each ray's end is spread over the ends of
+    /// its patch of the face, so the table has no staircase of 64 ray ends per face; the spreading
+    /// would bias the sums (it moves the mean frequency of the tail by sigma^2 / 2h), so it is not
+    /// used for them.
+    /// </summary>
+    public void DepositAboveSplit(FrequencyGrid grid, double[] total, double[] partial, bool spreadEnds, BinMoments? moments = null) =>
+        Deposit(grid, total, partial, above: true, spreadEnds, moments);
 
     /// <summary>
     /// States below omega_c into bins for the DOS table only (the thermal sums take them from
     /// <see cref="AddBelowSplit"/>), so the output grid will do.
     /// </summary>
-    public void DepositBelowSplit(FrequencyGrid grid, double[] total, double[] partial) => Deposit(grid, total, partial, above: false);
+    public void DepositBelowSplit(FrequencyGrid grid, double[] total, double[] partial) => Deposit(grid, total, partial, above: false, spreadEnds: false, moments: null);
 
     /// <summary>
     /// The states below omega_c into the thermal sums: Gauss-Legendre on octaves of omega from omega_c
@@ -411,7 +419,7 @@ internal sealed class LongWaveRegion
         return ray.RhoOf(k, omega, rhoMax);
     }
 
-    private void Deposit(FrequencyGrid grid, double[] total, double[] partial, bool above)
+    private void Deposit(FrequencyGrid grid, double[] total, double[] partial, bool above, bool spreadEnds, BinMoments? moments)
     {
         var d = _dimension;
         var mean = _fractions && partial.Length > 0 ? new double[_channels] : null;
@@ -428,7 +436,7 @@ internal sealed class LongWaveRegion
                 }
 
                 // Above omega_c the ray's end stands for the ends of its patch of the face: spread it.
-                var (halfSpread, spreadS, spreadT) = above ? EndSpread(r, k) : (0.0, 0.0, 0.0);
+                var (halfSpread, spreadS, spreadT) = spreadEnds ? EndSpread(r, k) : (0.0, 0.0, 0.0);
                 var end = ray.Omega(k, 1.0);
                 var tailFrom = Math.Clamp(halfSpread > 0 ? ray.RhoOf(k, end - halfSpread, 1.0) : to, from, to);
                 var step = (tailFrom - from) / Panels;
@@ -441,7 +449,7 @@ internal sealed class LongWaveRegion
                         ray.Fractions(k, 0.5 * (rhoA + rhoB), mean);
                     }
 
-                    DepositPanel(grid, total, partial, mean, _weights[r], d, rhoA, ray.Omega(k, rhoA), rhoB, ray.Omega(k, rhoB));
+                    DepositPanel(grid, total, partial, mean, _weights[r], d, rhoA, ray.Omega(k, rhoA), rhoB, ray.Omega(k, rhoB), moments);
                 }
 
                 if (tailFrom < to)
@@ -561,15 +569,37 @@ internal sealed class LongWaveRegion
     /// States w (rho_b^d - rho_a^d) of a panel on which omega is linear in rho, bin by bin from the exact
     /// cumulative count w |rho(E)^d - rho_low^d|, rho_low the end with the lower frequency.
     /// </summary>
-    private static void DepositPanel(FrequencyGrid grid, double[] total, double[] partial, double[]? fractions, double w, int d, double rhoA, double omegaA, double rhoB, double omegaB)
+    private static void DepositPanel(FrequencyGrid grid, double[] total, double[] partial, double[]? fractions, double w, int d, double rhoA, double omegaA, double rhoB, double omegaB, BinMoments? moments)
     {
         var states = w * (Power(rhoB, d) - Power(rhoA, d));
         var fa = omegaA / (2 * Math.PI * 1e12);
         var fb = omegaB / (2 * Math.PI * 1e12);
-        var (rhoLow, fLow, fHigh) = fa <= fb ? (rhoA, fa, fb) : (rhoB, fb, fa);
+        var (rhoLow, fLow, rhoHigh, fHigh) = fa <= fb ? (rhoA, fa, rhoB, fb) : (rhoB, fb, rhoA, fa);
+        var degenerate = fHigh - fLow <= 1e-12 * fHigh;
+        if (moments is not null)
+        {
+            if (degenerate)
+            {
+                moments.AddPoint(grid, 0.5 * (fLow + fHigh), states);
+            }
+            else
+            {
+                // Density w d rho^(d-1) |d rho / df| with rho = rhoLow + s u, u = f - fLow.
+                var slope = (rhoHigh - rhoLow) / (fHigh - fLow);
+                var scale = w * d * Math.Abs(slope);
+                var (c0, c1, c2) = d switch
+                {
+                    1 => (scale, 0.0, 0.0),
+                    2 => (scale * rhoLow, scale * slope, 0.0),
+                    _ => (scale * rhoLow * rhoLow, 2 * scale * rhoLow * slope, scale * slope * slope),
+                };
+                moments.AddPiece(grid, fLow, fHigh, c0, c1, c2);
+            }
+        }
+
         var first = grid.BinOf(fLow);
         var last = grid.BinOf(fHigh);
-        if (first == last || fHigh - fLow <= 1e-12 * fHigh)
+        if (first == last || degenerate)
         {
             Put(first, states, grid.Bins, total, partial, fractions);
             return;

@@ -22,9 +22,10 @@ internal static class SimplexDosIntegrator
     /// <param name="total">Accumulates states per cell in each bin.</param>
     /// <param name="partial">Accumulates per channel, [c * bins + bin]; may be empty.</param>
     /// <param name="longWaves">Cells whose lowest branches are integrated elsewhere (<see cref="LongWaveRegion"/>); they skip those branches here.</param>
+    /// <param name="moments">Per-bin moments of the states (1D and 2D only; the 3D path ignores them).</param>
     public static void Accumulate(
         int dimension, (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz,
-        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves = null)
+        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves = null, BinMoments? moments = null)
     {
         var (m1, m2, m3) = mesh;
         var cells = (long)m1 * m2 * m3;
@@ -61,6 +62,10 @@ internal static class SimplexDosIntegrator
                         for (var b = firstBranch; b < branches; b++)
                         {
                             AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight);
+                            if (moments is not null)
+                            {
+                                AddMoments(simplex.Length, e, simplexShare, grid, moments);
+                            }
                         }
                     }
                 }
@@ -327,6 +332,35 @@ internal static class SimplexDosIntegrator
                 Deposit(bin, amount, total, partial, grid.Bins, weights is null ? 0 : channels, meanWeight);
             }
         }
+    }
+
+    /// <summary>
+    /// Moments of one interval's or triangle's states (corner values sorted in e, as AddSimplex left
+    /// them): uniform density on an interval; on a triangle, density rising linearly from e1 to e2 and
+    /// falling linearly to e3 (the derivatives of <see cref="SimplexCumulative"/>).
+    /// </summary>
+    private static void AddMoments(int k, double[] e, double share, FrequencyGrid grid, BinMoments moments)
+    {
+        var spread = e[k - 1] - e[0];
+        if (spread <= 1e-12 * Math.Max(Math.Abs(e[k - 1]), grid.WidthThz))
+        {
+            moments.AddPoint(grid, e[0], share);
+            return;
+        }
+
+        if (k == 2)
+        {
+            moments.AddPiece(grid, e[0], e[1], share / spread, 0, 0);
+            return;
+        }
+
+        // Coincident corners apart by a hair, as AddSimplex does (its early return skips that).
+        e[1] = Math.Max(e[1], e[0] + (1e-9 * spread));
+        e[2] = Math.Max(e[2], e[1] + (1e-9 * spread));
+        var rise = 2 * share / ((e[1] - e[0]) * (e[2] - e[0]));
+        moments.AddPiece(grid, e[0], e[1], 0, rise, 0);
+        var fall = 2 * share / ((e[2] - e[0]) * (e[2] - e[1]));
+        moments.AddPiece(grid, e[1], e[2], fall * (e[2] - e[1]), -fall, 0);
     }
 
     private static void Deposit(int bin, double amount, double[] total, double[] partial, int bins, int channels, double[] meanWeight)

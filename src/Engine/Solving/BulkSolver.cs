@@ -83,6 +83,9 @@ internal static class BulkSolver
         var fine = FrequencyGrid.Covering(lowest - tail, highest + tail, options.DosBins * perOutput);
         var total = new double[fine.Bins];
         var partial = weights is null ? [] : new double[n * fine.Bins];
+
+        // 1D and 2D meshes have few simplices: their bins keep the states' moments for a two-point rule.
+        var moments = dimension <= 2 && !gaussian ? new BinMoments(fine.Bins) : null;
         if (gaussian)
         {
             var share = 1.0 / grid.Count;
@@ -97,8 +100,19 @@ internal static class BulkSolver
         }
         else
         {
-            SimplexDosIntegrator.Accumulate(dimension, (sample.M1, sample.M2, sample.M3), n, frequencies, weights, weights is null ? 0 : n, fine, total, partial, longWaves?.Box);
-            longWaves?.DepositAboveSplit(fine, total, partial);
+            SimplexDosIntegrator.Accumulate(dimension, (sample.M1, sample.M2, sample.M3), n, frequencies, weights, weights is null ? 0 : n, fine, total, partial, longWaves?.Box, moments);
+        }
+
+        // The DOS table and the thermal sums take the long waves above omega_c differently (see
+        // LongWaveRegion.DepositAboveSplit): the table's bins start from the simplices' as well.
+        var tableTotal = total;
+        var tablePartial = partial;
+        if (longWaves is not null)
+        {
+            tableTotal = (double[])total.Clone();
+            tablePartial = (double[])partial.Clone();
+            longWaves.DepositAboveSplit(fine, total, partial, spreadEnds: false, moments);
+            longWaves.DepositAboveSplit(fine, tableTotal, tablePartial, spreadEnds: true);
         }
 
         ct.ThrowIfCancellationRequested();
@@ -117,8 +131,16 @@ internal static class BulkSolver
                 }
             }
 
-            var omega = 2.0 * Math.PI * 1e12 * fine.Centre(b);
-            sink.Add(omega, total[b], sink.WantsChannelFractions ? fractions : default);
+            var channelFractions = sink.WantsChannelFractions ? fractions : default;
+            if (moments is null)
+            {
+                sink.Add(2.0 * Math.PI * 1e12 * fine.Centre(b), total[b], channelFractions);
+                continue;
+            }
+
+            var (low, high) = moments.Nodes2(fine, b, total[b]);
+            sink.Add(2.0 * Math.PI * 1e12 * low, 0.5 * total[b], channelFractions);
+            sink.Add(2.0 * Math.PI * 1e12 * high, 0.5 * total[b], channelFractions);
         }
 
         // Below omega_c the long waves go to the thermal sums by their own quadrature (exact at any
@@ -132,12 +154,12 @@ internal static class BulkSolver
         for (var b = 0; b < fine.Bins; b++)
         {
             var ob = b / perOutput;
-            outTotal[ob] += total[b];
+            outTotal[ob] += tableTotal[b];
             if (outPartial.Length > 0)
             {
                 for (var c = 0; c < n; c++)
                 {
-                    outPartial[(c / crystal.Components) * outGrid.Bins + ob] += partial[c * fine.Bins + b];
+                    outPartial[(c / crystal.Components) * outGrid.Bins + ob] += tablePartial[c * fine.Bins + b];
                 }
             }
         }
