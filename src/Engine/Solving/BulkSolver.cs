@@ -189,6 +189,7 @@ internal static class BulkSolver
             RigidModesExcluded = rigid,
             ZeroModesExcluded = zeroModes,
             Statistics = stats,
+            Gaps = gaussian ? BandGaps.FromBranches(stats, unstable) : BandGaps.ConfirmedBy(BandGaps.FromBranches(stats, unstable), fine, tableTotal),
             Sink = sink,
             Dos = DosAssembly.FromStates(outGrid, outTotal, outPartial, sites, method),
             Modes = [],

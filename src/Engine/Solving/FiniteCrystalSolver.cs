@@ -160,6 +160,7 @@ internal static class FiniteCrystalSolver
             RigidModesExcluded = rigid,
             ZeroModesExcluded = zeroModes,
             Statistics = stats,
+            Gaps = BandGaps.FromBranches(stats, stats.WorstLambda < -1e-8 * scaleLambda),
             Sink = sink,
             Dos = dos,
             Modes = modeList,

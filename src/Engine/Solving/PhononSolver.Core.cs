@@ -205,7 +205,7 @@ public static partial class PhononSolver
             MinFrequencyThz = ModeSolver.SignedThz(Math.Min(stats.WorstLambda, stats.BranchMin.Min())),
             Stable = !unstable,
             WorstQReduced = unstable ? stats.WorstQReduced : null,
-            Gaps = Gaps(stats),
+            Gaps = outcome.Gaps,
             SoundSpeeds = [.. speeds],
             ReferenceTemperatureK = options.ReferenceTemperatureK,
             HeatCapacityJPerMolK = reference?.HeatCapacityJPerMolK ?? double.NaN,
@@ -221,23 +221,5 @@ public static partial class PhononSolver
         };
 
         return new PointResult(summary, outcome.Dos, rows.ToImmutable(), displacements.ToImmutable(), dispersion, outcome.Modes);
-    }
-
-    /// <summary>Gaps between consecutive branches: the top of branch k below the bottom of branch k + 1.</summary>
-    private static ImmutableArray<BandGap> Gaps(SpectrumStatistics stats)
-    {
-        var gaps = ImmutableArray.CreateBuilder<BandGap>();
-        var top = ModeSolver.SignedThz(stats.MaxLambda);
-        for (var k = 0; k + 1 < stats.BranchMax.Length; k++)
-        {
-            var lower = ModeSolver.SignedThz(stats.BranchMax[k]);
-            var upper = ModeSolver.SignedThz(stats.BranchMin[k + 1]);
-            if (upper - lower > 1e-6 * top)
-            {
-                gaps.Add(new BandGap(lower, upper));
-            }
-        }
-
-        return gaps.ToImmutable();
     }
 }

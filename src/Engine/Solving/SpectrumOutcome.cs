@@ -14,6 +14,9 @@ internal sealed record SpectrumOutcome
     public required int RigidModesExcluded { get; init; }
     public required long ZeroModesExcluded { get; init; }
     public required SpectrumStatistics Statistics { get; init; }
+
+    /// <summary>Band gaps (none for an unstable model; bulk ones confirmed empty in the fine DOS).</summary>
+    public required ImmutableArray<BandGap> Gaps { get; init; }
     public required ModeSink Sink { get; init; }
     public required DosCurve Dos { get; init; }
     public required ImmutableArray<ModeLevel> Modes { get; init; }
