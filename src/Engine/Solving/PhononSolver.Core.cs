@@ -169,13 +169,29 @@ public static partial class PhononSolver
         var displacements = ImmutableArray.CreateBuilder<DisplacementRow>();
         if (options.MeanSquareDisplacement)
         {
+            var components = crystal.Components;
+            var bulk = outcome.SampleKind == "bulk";
+            var symmetry = bulk && !unstable ? Symmetry.ModelSymmetry.Find(crystal) : null;
+            var values = new double[r * components];
             for (var t = 0; t < options.TemperaturesK.Length; t++)
             {
+                // An infinite 1D crystal (any T) or 2D one (T > 0) has no finite mean-square displacement:
+                // the long waves' 1/omega^2 weight diverges at q = 0 (Mermin-Wagner); any finite number
+                // would be set by the mesh. Finite crystals give their own finite value.
+                var divergent = bulk && (dimension == 1 || (dimension == 2 && temperatures[t] > 0));
+                for (var c = 0; c < values.Length; c++)
+                {
+                    values[c] = unstable ? double.NaN : divergent ? double.PositiveInfinity : sink.Msd(t, c) * 1e18;
+                }
+
+                if (symmetry is not null && !divergent)
+                {
+                    symmetry.SymmetriseDiagonal(values, components);
+                }
+
                 for (var site = 0; site < r; site++)
                 {
-                    double Get(int axis) => unstable || axis >= crystal.Components
-                        ? double.NaN
-                        : sink.Msd(t, site * crystal.Components + axis) * 1e18;
+                    double Get(int axis) => axis >= components ? double.NaN : values[site * components + axis];
                     displacements.Add(new DisplacementRow(temperatures[t], site, model.Sites[site].Label, Get(0), Get(1), Get(2)));
                 }
             }
