@@ -6,6 +6,8 @@ namespace LatticeSweep.Engine.Elastic;
 /// <summary>
 /// Central springs fitted to elastic constants, what they reproduce and how far off that is.
 /// <see cref="RelativeResidual"/> = ||C_model - C_given|| / ||C_given|| over (C11, C12, C44).
+/// <see cref="SoundSpeeds"/> are the Christoffel speeds of the reproduced constants (the fitted
+/// model's own long waves), <see cref="GivenSoundSpeeds"/> those of the given ones.
 /// </summary>
 public sealed record ElasticFitResult(
     double NearestNPerM,
@@ -14,4 +16,8 @@ public sealed record ElasticFitResult(
     CubicElasticConstants Reproduced,
     double RelativeResidual,
     double DensityKgPerM3,
-    ImmutableArray<SoundSpeed> SoundSpeeds);
+    ImmutableArray<SoundSpeed> SoundSpeeds)
+{
+    /// <summary>Christoffel speeds along [100], [110], [111] of the given constants (slowest first).</summary>
+    public ImmutableArray<SoundSpeed> GivenSoundSpeeds { get; init; } = [];
+}

@@ -36,6 +36,9 @@ public sealed record CrystalModel
     public DegreesOfFreedom DegreesOfFreedom { get; }
     public double ShellToleranceNm { get; }
 
+    /// <summary>The fit to elastic constants this model was built from (<see cref="Elastic.ElasticSpringFit.BuildModel"/>), or null.</summary>
+    public Elastic.ElasticFitResult? ElasticFit { get; init; }
+
     /// <summary>Displacement components per atom: 3, or 1 for the scalar model.</summary>
     public int ComponentsPerSite => DegreesOfFreedom == DegreesOfFreedom.Scalar ? 1 : 3;
 

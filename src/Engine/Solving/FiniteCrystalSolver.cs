@@ -158,7 +158,7 @@ internal static class FiniteCrystalSolver
             QPointsSolved = grid.HalfCount,
             ModeCount = modes,
             RigidModesExcluded = rigid,
-            ZeroModesExcluded = zeroModes,
+            ZeroModesExcluded = rigid + zeroModes,
             Statistics = stats,
             Gaps = BandGaps.FromBranches(stats, stats.WorstLambda < -1e-8 * scaleLambda),
             Sink = sink,

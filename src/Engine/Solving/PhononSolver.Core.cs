@@ -234,6 +234,7 @@ public static partial class PhononSolver
             DebyeTemperatureMomentLogK = nan ? double.NaN : thetaLog,
             DebyeTemperatureMoment2K = nan ? double.NaN : theta2,
             MolarMassKgPerMol = model.CellMassAmu / r * 1e-3,
+            ElasticFit = model.ElasticFit,
         };
 
         return new PointResult(summary, outcome.Dos, rows.ToImmutable(), displacements.ToImmutable(), dispersion, outcome.Modes);

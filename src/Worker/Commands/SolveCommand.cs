@@ -98,6 +98,22 @@ public static class SolveCommand
             t.Add("minimum conductivity (Cahill-Pohl-Watson)", D(s.KappaMinWPerMK), "W/(m K)");
         }
 
+        if (s.ElasticFit is { } fit)
+        {
+            t.Add("elastic fit residual", D(fit.RelativeResidual), "");
+            t.Add("C11, C12, C44 given", $"{D(fit.Given.C11Gpa)}, {D(fit.Given.C12Gpa)}, {D(fit.Given.C44Gpa)}", "GPa");
+            t.Add("C11, C12, C44 of the springs", $"{D(fit.Reproduced.C11Gpa)}, {D(fit.Reproduced.C12Gpa)}, {D(fit.Reproduced.C44Gpa)}", "GPa");
+            foreach (var speed in fit.GivenSoundSpeeds)
+            {
+                t.Add($"Christoffel speeds {speed.Direction}, given C", string.Join(", ", speed.SpeedsMPerS.Select(D)), "m/s");
+            }
+
+            foreach (var speed in fit.SoundSpeeds)
+            {
+                t.Add($"Christoffel speeds {speed.Direction}, springs' C", string.Join(", ", speed.SpeedsMPerS.Select(D)), "m/s");
+            }
+        }
+
         return t;
     }
 

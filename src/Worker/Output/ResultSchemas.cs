@@ -217,6 +217,24 @@ internal sealed class ResultSchemas
             C<PointOutcome>("molar_mass_kg_per_mol", ColumnType.Double, "kg/mol", "mean molar mass of the atoms", o => S(o)?.MolarMassKgPerMol),
             C<PointOutcome>("dos_method", ColumnType.Text, "", "how the density of states was integrated", o => o.Result?.Dos.Method),
             .. ConductivitySummaryColumns(),
+            .. ElasticFitColumns(),
+        ];
+    }
+
+    /// <summary>The fit of springs to elastic constants (`[model.elastic]`); empty for other models.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ElasticFitColumns()
+    {
+        static Engine.Elastic.ElasticFitResult? F(PointOutcome o) => o.Result?.Summary.ElasticFit;
+        static double[] Given(PointOutcome o) => F(o) is { } f ? [.. f.GivenSoundSpeeds.SelectMany(s => s.SpeedsMPerS)] : [];
+        return
+        [
+            C<PointOutcome>("elastic_fit_residual", ColumnType.Double, "1", "relative residual of the spring fit, |C_springs - C_given| / |C_given| over C11, C12, C44", o => F(o)?.RelativeResidual),
+            C<PointOutcome>("elastic_fit_c11_gpa", ColumnType.Double, "GPa", "C11 the fitted springs reproduce", o => F(o)?.Reproduced.C11Gpa),
+            C<PointOutcome>("elastic_fit_c12_gpa", ColumnType.Double, "GPa", "C12 the fitted springs reproduce (central springs: always equal to C44)", o => F(o)?.Reproduced.C12Gpa),
+            C<PointOutcome>("elastic_fit_c44_gpa", ColumnType.Double, "GPa", "C44 the fitted springs reproduce", o => F(o)?.Reproduced.C44Gpa),
+            C<PointOutcome>("elastic_given_speed_min_m_per_s", ColumnType.Double, "m/s", "slowest Christoffel sound speed of the given elastic constants over [100], [110], [111] (compare sound_speed_min_m_per_s, the springs' own)", o => Given(o) is { Length: > 0 } v ? v.Min() : null),
+            C<PointOutcome>("elastic_given_speed_mean_m_per_s", ColumnType.Double, "m/s", "mean Christoffel sound speed of the given elastic constants over [100], [110], [111] and branches", o => Given(o) is { Length: > 0 } v ? v.Average() : null),
+            C<PointOutcome>("elastic_given_speed_max_m_per_s", ColumnType.Double, "m/s", "fastest Christoffel sound speed of the given elastic constants over [100], [110], [111]", o => Given(o) is { Length: > 0 } v ? v.Max() : null),
         ];
     }
 

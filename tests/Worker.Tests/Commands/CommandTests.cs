@@ -68,6 +68,31 @@ public sealed class CommandTests : IDisposable
     }
 
     [Fact]
+    public void Solve_of_an_elastic_fit_prints_its_residual_and_Christoffel_speeds()
+    {
+        // Issue 10 item 9: the fit's residual and its Christoffel speeds ([100] longitudinal
+        // sqrt(C11 / rho) = 4336.5 m/s for these constants, Kittel ch. 3) reach the summary.
+        var file = _dir.Write("elastic.toml", """
+            [model.elastic]
+            lattice = "fcc"
+            constant_nm = 0.36
+            mass_amu = 63.5
+            c11_gpa = 170
+            c12_gpa = 120
+            c44_gpa = 75
+            [sample]
+            kind = "bulk"
+            mesh = 4
+            """);
+        var (code, output, error) = Run(SolveCommand.Run, file);
+        Assert.Equal(0, code);
+        Assert.Equal("", error);
+        Assert.Contains("elastic fit residual", output, StringComparison.Ordinal);
+        var given = output.Split('\n').Single(l => l.Contains("Christoffel speeds [100], given C", StringComparison.Ordinal));
+        Assert.Contains("4336.4", given, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Solve_of_bad_input_exits_2()
     {
         var file = _dir.Write("bad.toml", "[model\n");
