@@ -111,7 +111,7 @@ public static partial class PhononSolver
         solver.ChannelFractions(0, fractions);
         var channel = Array.IndexOf(fractions, fractions.Max());
         var site = crystal.Model.Sites[channel / crystal.Components];
-        var axis = crystal.Components == 1 ? "" : " along " + "xyz"[channel % 3];
+        var axis = crystal.Components == 1 ? "" : " along " + "xyz"[channel % crystal.Components];
         throw Guard.Single(ModelProblemKind.UnconnectedSite, "springs",
             $"a branch has zero frequency at a general wave vector: site '{site.Label}' can move{axis} without stretching any spring. Add springs (a transverse constant or another shell) or use the scalar model");
     }
