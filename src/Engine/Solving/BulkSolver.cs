@@ -24,6 +24,14 @@ internal static class BulkSolver
     public static long EstimateBytes(long meshPoints, int branches, bool weights) =>
         meshPoints * branches * 8L * (weights ? 1 + branches : 1);
 
+    /// <summary>The refusal of a mesh whose frequencies (and eigenvector weights) would not fit the memory limit, or null.</summary>
+    public static ModelProblem? MemoryProblem(BulkSample sample, int branches, SolveOptions options)
+    {
+        var bytes = EstimateBytes(sample.PointCount, branches, options.PartialDos || options.MeanSquareDisplacement);
+        return bytes <= options.MemoryLimitBytes ? null : new ModelProblem(ModelProblemKind.TooLarge, "sample.mesh",
+            $"a {sample.M1}x{sample.M2}x{sample.M3} mesh with {branches} branches needs about {bytes / (1 << 20)} MiB, more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");
+    }
+
     public static SpectrumOutcome Solve(ModeSolver solver, BulkSample sample, SolveOptions options, ModeSink sink, CancellationToken ct)
     {
         var n = solver.Size;
@@ -32,11 +40,9 @@ internal static class BulkSolver
         var dimension = lattice.Dimension;
         var grid = new PeriodicGrid(sample.M1, sample.M2, sample.M3);
         var wantWeights = sink.WantsChannelFractions || options.PartialDos;
-        var bytes = EstimateBytes(grid.Count, n, wantWeights);
-        if (bytes > options.MemoryLimitBytes)
+        if (MemoryProblem(sample, n, options) is { } tooLarge)
         {
-            throw Guard.Single(ModelProblemKind.TooLarge, "sample.mesh",
-                $"a {sample.M1}x{sample.M2}x{sample.M3} mesh with {n} branches needs about {bytes / (1 << 20)} MiB, more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");
+            throw new ModelException([tooLarge]);
         }
 
         var frequencies = new double[grid.Count * n];

@@ -91,6 +91,14 @@ public static partial class PhononSolver
     /// </summary>
     private static void CheckNoFloppyBranch(ModeSolver solver)
     {
+        if (FloppyBranchProblem(solver) is { } problem)
+        {
+            throw new ModelException([problem]);
+        }
+    }
+
+    private static ModelProblem? FloppyBranchProblem(ModeSolver solver)
+    {
         var lattice = solver.Matrix.Crystal.Lattice;
         var reduced = new Vec3(0.1234567, lattice.Dimension >= 2 ? 0.2718281 : 0, lattice.Dimension >= 3 ? 0.3141592 : 0);
         solver.SolveWithVectors(lattice.ToCartesianQ(reduced));
@@ -98,12 +106,12 @@ public static partial class PhononSolver
         var top = Math.Abs(values[^1]);
         if (top == 0 || values[0] > 1e-10 * top)
         {
-            return;
+            return null;
         }
 
         if (values[0] < -1e-8 * top)
         {
-            return; // unstable, not floppy: reported in the summary
+            return null; // unstable, not floppy: reported in the summary
         }
 
         var crystal = solver.Matrix.Crystal;
@@ -112,7 +120,7 @@ public static partial class PhononSolver
         var channel = Array.IndexOf(fractions, fractions.Max());
         var site = crystal.Model.Sites[channel / crystal.Components];
         var axis = crystal.Components == 1 ? "" : " along " + "xyz"[channel % crystal.Components];
-        throw Guard.Single(ModelProblemKind.UnconnectedSite, "springs",
+        return new ModelProblem(ModelProblemKind.UnconnectedSite, "springs",
             $"a branch has zero frequency at a general wave vector: site '{site.Label}' can move{axis} without stretching any spring. Add springs (a transverse constant or another shell) or use the scalar model");
     }
 
