@@ -169,9 +169,9 @@ internal static class FiniteCrystalSolver
     /// <summary>The refusal of a crystal with more modes than an exact sum can take, or null.</summary>
     public static ModelProblem? SizeProblem(FiniteSample sample, int branches)
     {
-        var modes = sample.CellCount * branches;
+        var modes = sample.CellCount * (double)branches; // double: no overflow for any int sizes
         return modes <= MaxModes ? null : new ModelProblem(ModelProblemKind.TooLarge, "sample.cells",
-            $"{sample.CellCount} cells x {branches} branches = {modes} modes is more than the {MaxModes} this engine accepts for an exact sum; use a bulk mesh or a smaller crystal");
+            $"{sample.CellCount} cells x {branches} branches = {modes:0} modes is more than the {MaxModes} this engine accepts for an exact sum; use a bulk mesh or a smaller crystal");
     }
 
     internal static void SumSites(ReadOnlySpan<double> channelFractions, Span<double> siteFractions, int components)

@@ -15,7 +15,7 @@
     function bar(s) {
         const share = (n) => (s.total === 0 ? 0 : (100 * n) / s.total);
         let x = 0;
-        for (const part of ["done", "failed", "cancelled", "running"]) {
+        for (const part of ["done", "unstable", "failed", "cancelled", "running"]) {
             const rect = section.querySelector('rect[data-part="' + part + '"]');
             const width = share(s[part]);
             if (rect) { rect.setAttribute("x", String(x)); rect.setAttribute("width", String(width)); }
@@ -30,7 +30,7 @@
             const response = await fetch(section.dataset.source, { headers: { Accept: "application/json" }, credentials: "same-origin" });
             if (!response.ok) { return; }
             const s = (await response.json()).sweep;
-            for (const f of ["total", "done", "failed", "running", "waiting", "cancelled"]) { set(f, count(s[f]), s[f]); }
+            for (const f of ["total", "done", "unstable", "failed", "running", "waiting", "cancelled"]) { set(f, count(s[f]), s[f]); }
             set("finished", s.text.finished);
             set("rate", s.text.rate, s.rate_points_per_min);
             set("eta", s.text.eta, s.eta_s);
