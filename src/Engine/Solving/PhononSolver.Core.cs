@@ -214,7 +214,8 @@ public static partial class PhononSolver
             ? Defined(DebyeModel.TemperatureFromMoment(sink.SumInverseOmegaSquared / states, -2, dimension))
             : null;
         var thetaLog = stable ? Defined(DebyeModel.TemperatureFromLogMoment(sink.SumLnOmega / states, dimension)) : null;
-        var theta2 = stable ? Defined(DebyeModel.TemperatureFromMoment(sink.SumOmegaSquared / states, 2, dimension)) : null;
+        var meanOmegaSquared = outcome.MeanOmegaSquared ?? (sink.SumOmegaSquared / states);
+        var theta2 = stable ? Defined(DebyeModel.TemperatureFromMoment(meanOmegaSquared, 2, dimension)) : null;
 
         var summary = new PointSummary
         {

@@ -18,6 +18,12 @@ internal sealed record SpectrumOutcome
     /// <summary>Band gaps (none for an unstable model; bulk ones confirmed empty in the fine DOS).</summary>
     public required ImmutableArray<BandGap> Gaps { get; init; }
     public required ModeSink Sink { get; init; }
+
+    /// <summary>
+    /// The zone average of omega^2 in (rad/s)^2 when a pass knows it better than its DOS does (bulk:
+    /// the mesh mean of tr D(q) / branches), or null to take it from the sink's mode sums.
+    /// </summary>
+    public double? MeanOmegaSquared { get; init; }
     public required DosCurve Dos { get; init; }
     public required ImmutableArray<ModeLevel> Modes { get; init; }
 }

@@ -52,6 +52,7 @@ public class LowTemperatureBulkTests
     [InlineData(8)]
     [InlineData(16)]
     [InlineData(32)]
+    [InlineData(64)]
     public void Heat_capacity_follows_the_Debye_T3_law_of_the_models_own_sound_speed(int mesh)
     {
         // Where the model's dispersion is negligible (its first correction is ~3.5 (kT a / hbar v)^2,
@@ -118,7 +119,7 @@ public class LowTemperatureBulkTests
         }
 
         var expected = 2 * Math.PI * Math.PI / 15 * R * volume * Math.Pow(Kb * t / Hbar, 3) * inverseCubeSum;
-        foreach (var mesh in new[] { 8, 16, 32 })
+        foreach (var mesh in new[] { 8, 16, 32, 64 })
         {
             var cv = PhononSolver.Solve(model, BulkSample.Uniform(3, mesh), Thermal with { TemperaturesK = [t] }).Thermal[0].HeatCapacityJPerMolK;
             Approx.Equal(expected, cv, 2e-4, $"Cv at {t} K, mesh {mesh}");
@@ -129,6 +130,7 @@ public class LowTemperatureBulkTests
     [InlineData(8)]
     [InlineData(16)]
     [InlineData(32)]
+    [InlineData(64)]
     public void Density_of_states_below_the_first_shell_is_the_Debye_density(int mesh)
     {
         // g(f) = 3 x 4 pi f^2 V / v^3 per cell for three branches of speed v (Kittel ch. 5, eq. 5.28). Up to
@@ -157,11 +159,34 @@ public class LowTemperatureBulkTests
         // capacity half the T^3 law read as theta 1.26 times too high.
         var options = Thermal with { TemperaturesK = [0.2], ReferenceTemperatureK = 0.2 };
         var theta = DebyeTemperature(SpeedMPerS, Math.Pow(SpacingNm * 1e-9, 3));
-        foreach (var mesh in new[] { 8, 32 })
+        foreach (var mesh in new[] { 8, 16, 32, 64 })
         {
             var summary = PhononSolver.Solve(EqualSpeedCubic(), BulkSample.Uniform(3, mesh), options).Summary;
             Approx.Equal(theta, summary.DebyeTemperatureFromCvK, 1e-4, $"theta_D(0.2 K), mesh {mesh}");
         }
+    }
+
+    [Theory]
+    [InlineData(8)]
+    [InlineData(16)]
+    [InlineData(32)]
+    [InlineData(64)]
+    public void Debye_temperatures_from_the_frequency_moments_match_the_lattice_sums(int mesh)
+    {
+        // The DOS's own moments. For omega^2 = 4 (v/a)^2 sum_i sin^2(q_i a / 2): <omega^2> = 6 (v/a)^2 exactly,
+        // and <omega^-2> = W a^2 / (2 v^2) with Watson's simple-cubic integral
+        // W = pi^-3 int int int dx dy dz / (3 - cos x - cos y - cos z) = 0.505462019717326 (Watson, Q. J.
+        // Math. 10, 266 (1939); the value LatticeClosedFormTests uses).
+        // In the Debye model <omega^n> = 3 omega_D^n / (n + 3) (Kittel ch. 5). <omega^-2> weighs the long
+        // waves most: a DOS at 0.54 of the Debye density below the first shell put it 0.6-3.9% high on
+        // meshes 64-8 (now within 6e-4). <omega^2> is the mesh mean of tr D(q), exact on any mesh; from the
+        // linear tetrahedra it was 4e-3 low in theta on 8^3 (1/M^2).
+        const double watson = 0.505462019717326;
+        var summary = PhononSolver.Solve(EqualSpeedCubic(), BulkSample.Uniform(3, mesh), Thermal with { TemperaturesK = [300], DosBins = 2048 }).Summary;
+        var omega0 = SpeedMPerS / (SpacingNm * 1e-9);
+        var kelvin = Hbar * omega0 / Kb;
+        Approx.Equal(kelvin * Math.Sqrt(6 / watson), summary.DebyeTemperatureMomentMinus2K, 1e-3, $"theta from <omega^-2>, mesh {mesh}");
+        Approx.Equal(kelvin * Math.Sqrt(10), summary.DebyeTemperatureMoment2K, 1e-12, $"theta from <omega^2>, mesh {mesh}");
     }
 
     [Theory]
