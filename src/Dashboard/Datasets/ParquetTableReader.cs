@@ -32,7 +32,10 @@ internal static class ParquetTableReader
         return ResultTableConcat.Of(tables);
     }
 
-    public static async Task<ResultTable> ReadFileAsync(string file, CancellationToken ct)
+    public static Task<ResultTable> ReadFileAsync(string file, CancellationToken ct) => ReadFileAsync(file, null, ct);
+
+    /// <summary>Reads a file, or only the row groups <paramref name="pick"/> chooses from its metadata (null from it: all).</summary>
+    public static async Task<ResultTable> ReadFileAsync(string file, Func<IReadOnlyDictionary<string, string>?, IReadOnlyList<int>?>? pick, CancellationToken ct)
     {
         await using var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16, useAsync: true);
         await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
@@ -40,7 +43,7 @@ internal static class ParquetTableReader
         var fields = reader.Schema.GetDataFields();
         var columns = fields.Select(f => new ResultColumn(f.Name, IsText(f) ? typeof(string) : f.ClrType, units.GetValueOrDefault(f.Name, ""))).ToImmutableArray();
         var rows = new List<object?[]>();
-        for (var g = 0; g < reader.RowGroupCount; g++)
+        foreach (var g in pick?.Invoke(reader.CustomMetadata) ?? Enumerable.Range(0, reader.RowGroupCount).ToList())
         {
             using var group = reader.OpenRowGroupReader(g);
             var count = checked((int)group.RowCount);

@@ -7,7 +7,10 @@ namespace LatticeSweep.Dashboard.Datasets;
 
 /// <summary>
 /// The dashboard's read access to the sweeps' Parquet datasets, always through the output root.
-/// A point's rows are read from its chunk's part file alone (parts are named by chunk id). Parts of
+/// A point's rows are read from its chunk's part file alone (parts are named by chunk id), or, once
+/// the sweep's files are merged, from the merged file that holds the chunk (listed in the table's
+/// <c>.merged-chunks</c>), only the row groups whose point-id range holds the point
+/// (<see cref="MergedLayout"/>). Files of
 /// <c>points/</c> (small: one row per point) are cached and re-read when their size or time changes
 /// (a chunk re-run replaces its part); the larger curve tables are read when asked.
 /// </summary>
@@ -57,7 +60,8 @@ internal sealed class ResultStore
             return ResultTable.Empty;
         }
 
-        var file = Root.Contain(Path.Combine(SweepFolder.Table(folder, table), $"part-{chunkId}.parquet"));
+        var tableFolder = Root.Contain(SweepFolder.Table(folder, table));
+        var file = tableFolder is null ? null : MergedLayout.FileOfChunk(tableFolder, chunkId) is { } found ? Root.Contain(found) : null;
         if (file is null || !File.Exists(file))
         {
             return ResultTable.Empty;
@@ -65,7 +69,7 @@ internal sealed class ResultStore
 
         var rows = table == TableNames.Points
             ? await ReadCachedAsync(file, ct).ConfigureAwait(false)
-            : await ParquetTableReader.ReadFileAsync(file, ct).ConfigureAwait(false);
+            : await ParquetTableReader.ReadFileAsync(file, metadata => MergedLayout.RowGroupsOf(metadata, pointId), ct).ConfigureAwait(false);
         return rows.Where("point_id", pointId);
     }
 
