@@ -21,16 +21,18 @@ internal static class SimplexDosIntegrator
     /// <param name="weights">Optional channel weights at [(point * branches + branch) * channels + c]; per mode they sum to 1.</param>
     /// <param name="total">Accumulates states per cell in each bin.</param>
     /// <param name="partial">Accumulates per channel, [c * bins + bin]; may be empty.</param>
+    /// <param name="longWaves">Cells whose lowest branches are integrated elsewhere (<see cref="LongWaveRegion"/>); they skip those branches here.</param>
+    /// <param name="moments">Per-bin moments of the states (1D and 2D only; the 3D path ignores them).</param>
     /// <param name="vectors">3D only: the 256-bit tetrahedron kernel (true), the scalar one (false), or the process default (null); same bits either way.</param>
     public static void Accumulate(
         int dimension, (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz,
-        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, bool? vectors = null)
+        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves = null, BinMoments? moments = null, bool? vectors = null)
     {
         var (m1, m2, m3) = mesh;
         var cells = (long)m1 * m2 * m3;
         if (dimension == 3)
         {
-            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial, vectors ?? TetrahedronBins.VectorsByDefault);
+            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial, longWaves, vectors ?? TetrahedronBins.VectorsByDefault);
             return;
         }
 
@@ -55,11 +57,16 @@ internal static class SimplexDosIntegrator
                     }
 
                     var simplices = dimension switch { 1 => [[0, 1]], 2 => Triangles, _ => Tetrahedra };
+                    var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
                     foreach (var simplex in simplices)
                     {
-                        for (var b = 0; b < branches; b++)
+                        for (var b = firstBranch; b < branches; b++)
                         {
                             AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight);
+                            if (moments is not null)
+                            {
+                                AddMoments(simplex.Length, e, simplexShare, grid, moments);
+                            }
                         }
                     }
                 }
@@ -78,7 +85,7 @@ internal static class SimplexDosIntegrator
     /// </summary>
     private static void AccumulateTetrahedra(
         (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz, double[]? weights, int channels,
-        FrequencyGrid grid, double[] total, double[] partial, bool vectors)
+        FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves, bool vectors)
     {
         var (m1, m2, m3) = mesh;
         var share = 1.0 / 6.0 / ((long)m1 * m2 * m3);
@@ -113,6 +120,9 @@ internal static class SimplexDosIntegrator
                     }
 
                     var cubeShare = image == self ? share : pairShare;
+
+                    // The box around q = 0 is inversion-symmetric: a cube and its image are both in or both out.
+                    var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
                     var j3 = i3 + 1 == m3 ? 0 : i3 + 1;
                     corners[0] = ((i1 * m2) + i2) * m3 + i3;
                     corners[1] = ((j1 * m2) + i2) * m3 + i3;
@@ -128,7 +138,7 @@ internal static class SimplexDosIntegrator
                         var c1 = corners[TetrahedronCorners[t + 1]] * branches;
                         var c2 = corners[TetrahedronCorners[t + 2]] * branches;
                         var c3 = corners[TetrahedronCorners[t + 3]] * branches;
-                        for (var b = 0; b < branches; b++)
+                        for (var b = firstBranch; b < branches; b++)
                         {
                             if (useWeights)
                             {
@@ -237,6 +247,35 @@ internal static class SimplexDosIntegrator
                 Deposit(bin, amount, total, partial, grid.Bins, weights is null ? 0 : channels, meanWeight);
             }
         }
+    }
+
+    /// <summary>
+    /// Moments of one interval's or triangle's states (corner values sorted in e, as AddSimplex left
+    /// them): uniform density on an interval; on a triangle, density rising linearly from e1 to e2 and
+    /// falling linearly to e3 (the derivatives of <see cref="SimplexCumulative"/>).
+    /// </summary>
+    private static void AddMoments(int k, double[] e, double share, FrequencyGrid grid, BinMoments moments)
+    {
+        var spread = e[k - 1] - e[0];
+        if (spread <= 1e-12 * Math.Max(Math.Abs(e[k - 1]), grid.WidthThz))
+        {
+            moments.AddPoint(grid, e[0], share);
+            return;
+        }
+
+        if (k == 2)
+        {
+            moments.AddPiece(grid, e[0], e[1], share / spread, 0, 0);
+            return;
+        }
+
+        // Coincident corners apart by a hair, as AddSimplex does (its early return skips that).
+        e[1] = Math.Max(e[1], e[0] + (1e-9 * spread));
+        e[2] = Math.Max(e[2], e[1] + (1e-9 * spread));
+        var rise = 2 * share / ((e[1] - e[0]) * (e[2] - e[0]));
+        moments.AddPiece(grid, e[0], e[1], 0, rise, 0);
+        var fall = 2 * share / ((e[2] - e[0]) * (e[2] - e[1]));
+        moments.AddPiece(grid, e[1], e[2], fall * (e[2] - e[1]), -fall, 0);
     }
 
     private static void Deposit(int bin, double amount, double[] total, double[] partial, int bins, int channels, double[] meanWeight)

@@ -9,6 +9,8 @@ namespace LatticeSweep.Engine.Elastic;
 /// Central springs (<see cref="ElasticSpringFit"/>) fill the nearest and next-nearest constants; a
 /// tetrahedral valence force field (<see cref="BondBendingFit"/>) the nearest (bond-stretch) one and
 /// <see cref="BendNPerM"/>.
+/// <see cref="SoundSpeeds"/> are the Christoffel speeds of the reproduced constants (the fitted
+/// model's own long waves), <see cref="GivenSoundSpeeds"/> those of the given ones.
 /// </summary>
 public sealed record ElasticFitResult(
     double NearestNPerM,
@@ -21,4 +23,7 @@ public sealed record ElasticFitResult(
 {
     /// <summary>Keating bond-bend constant of a tetrahedral fit, N/m; null for central springs.</summary>
     public double? BendNPerM { get; init; }
+
+    /// <summary>Christoffel speeds along [100], [110], [111] of the given constants (slowest first).</summary>
+    public ImmutableArray<SoundSpeed> GivenSoundSpeeds { get; init; } = [];
 }

@@ -55,7 +55,10 @@ public static class ElasticSpringFit
         var modelConstants = new CubicElasticConstants(reproduced[0] / 1e9, reproduced[1] / 1e9, reproduced[2] / 1e9);
         var density = massAmu * PhysicalConstants.AtomicMassKg / volume;
         return new ElasticFitResult(springs[0], shells > 1 ? springs[1] : 0.0, constants, modelConstants, residual, density,
-            [.. ChristoffelSpeeds(modelConstants, density)]);
+            [.. ChristoffelSpeeds(modelConstants, density)])
+        {
+            GivenSoundSpeeds = [.. ChristoffelSpeeds(constants, density)],
+        };
     }
 
     /// <summary>The fitted model itself: one site, central springs on one or two shells.</summary>
@@ -69,7 +72,7 @@ public static class ElasticSpringFit
             springs.Add(new ShellSpring("X", "X", 2, fit.NextNearestNPerM));
         }
 
-        return CrystalModel.Create(lattice, [new Site("X", "X", Vec3.Zero, massAmu)], springs, degreesOfFreedom: degreesOfFreedom);
+        return CrystalModel.Create(lattice, [new Site("X", "X", Vec3.Zero, massAmu)], springs, degreesOfFreedom: degreesOfFreedom) with { ElasticFit = fit };
     }
 
     /// <summary>

@@ -62,8 +62,16 @@ public sealed record CrystalModel
         return new CrystalModel(Lattice.Scaled(factor), Sites, ShellSprings, BondSprings, DegreesOfFreedom, ShellToleranceNm, Bends, potentials);
     }
 
-    /// <summary>Displacement components per atom: 3, or 1 for the scalar model.</summary>
-    public int ComponentsPerSite => DegreesOfFreedom == DegreesOfFreedom.Scalar ? 1 : 3;
+    /// <summary>The fit to elastic constants this model was built from (<see cref="Elastic.ElasticSpringFit.BuildModel"/>), or null.</summary>
+    public Elastic.ElasticFitResult? ElasticFit { get; init; }
+
+    /// <summary>Displacement components per atom: 3, 2 in the plane of a 2D lattice, or 1 for the scalar model.</summary>
+    public int ComponentsPerSite => DegreesOfFreedom switch
+    {
+        DegreesOfFreedom.Scalar => 1,
+        DegreesOfFreedom.InPlane => 2,
+        _ => 3,
+    };
 
     /// <summary>Number of branches = components per site x sites per cell.</summary>
     public int BranchCount => ComponentsPerSite * Sites.Length;
@@ -111,6 +119,16 @@ public sealed record CrystalModel
         if (siteArray.Length == 0)
         {
             problems.Add(new(ModelProblemKind.OutOfRange, "sites", "the basis needs at least one site"));
+        }
+
+        if (!Enum.IsDefined(degreesOfFreedom))
+        {
+            problems.Add(new(ModelProblemKind.OutOfRange, "motion", $"unknown motion {degreesOfFreedom}"));
+        }
+        else if (degreesOfFreedom == DegreesOfFreedom.InPlane && lattice.Dimension != 2)
+        {
+            problems.Add(new(ModelProblemKind.DimensionMismatch, "motion",
+                $"in_plane motion needs a 2D lattice (square, hexagonal without c_nm, or two explicit vectors); this lattice is {lattice.Dimension}D: use motion = \"3d\" or \"scalar\""));
         }
 
         ValidateSites(lattice, siteArray, shellToleranceNm, problems);

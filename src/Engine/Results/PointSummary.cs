@@ -30,11 +30,22 @@ public sealed record PointSummary
     /// <summary>Modes in the calculation: branches x cells (finite) or branches x mesh points (bulk).</summary>
     public required long ModeCount { get; init; }
 
-    /// <summary>Zero-frequency rigid translations at q = 0 left out of the thermal sums.</summary>
+    /// <summary>
+    /// Rigid-body modes left out of the thermal sums: the translations at q = 0, one per displacement
+    /// component (a bulk mesh counts its q = 0 point's; the integral itself starts the branches at 0).
+    /// </summary>
     public required int RigidModesExcluded { get; init; }
 
-    /// <summary>Other modes of zero frequency (directions with no restoring spring at some q), also left out.</summary>
+    /// <summary>
+    /// Every mode of zero frequency (within the eigen-solver's round-off) left out of the thermal sums,
+    /// the rigid-body modes included: finite crystals count all their modes, bulk meshes their mesh
+    /// points' modes. More than <see cref="RigidModesExcluded"/> means directions with no restoring force
+    /// on whole lines or planes of wave vectors (<see cref="Floppy"/>).
+    /// </summary>
     public long ZeroModesExcluded { get; init; }
+
+    /// <summary>More zero modes than rigid-body modes: a floppy model (some motion costs no energy at many q).</summary>
+    public bool Floppy => ZeroModesExcluded > RigidModesExcluded;
 
     public required double MaxFrequencyThz { get; init; }
 

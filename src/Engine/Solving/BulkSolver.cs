@@ -24,6 +24,14 @@ internal static class BulkSolver
     public static long EstimateBytes(long meshPoints, int branches, bool weights) =>
         meshPoints * branches * 8L * (weights ? 1 + branches : 1);
 
+    /// <summary>The refusal of a mesh whose frequencies (and eigenvector weights) would not fit the memory limit, or null.</summary>
+    public static ModelProblem? MemoryProblem(BulkSample sample, int branches, SolveOptions options)
+    {
+        var bytes = EstimateBytes(sample.PointCount, branches, options.PartialDos || options.MeanSquareDisplacement);
+        return bytes <= options.MemoryLimitBytes ? null : new ModelProblem(ModelProblemKind.TooLarge, "sample.mesh",
+            $"a {sample.M1}x{sample.M2}x{sample.M3} mesh with {branches} branches needs about {bytes / (1 << 20)} MiB, more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");
+    }
+
     public static SpectrumOutcome Solve(ModeSolver solver, BulkSample sample, SolveOptions options, ModeSink sink, CancellationToken ct)
     {
         var n = solver.Size;
@@ -32,11 +40,9 @@ internal static class BulkSolver
         var dimension = lattice.Dimension;
         var grid = new PeriodicGrid(sample.M1, sample.M2, sample.M3);
         var wantWeights = sink.WantsChannelFractions || options.PartialDos;
-        var bytes = EstimateBytes(grid.Count, n, wantWeights);
-        if (bytes > options.MemoryLimitBytes)
+        if (MemoryProblem(sample, n, options) is { } tooLarge)
         {
-            throw Guard.Single(ModelProblemKind.TooLarge, "sample.mesh",
-                $"a {sample.M1}x{sample.M2}x{sample.M3} mesh with {n} branches needs about {bytes / (1 << 20)} MiB, more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");
+            throw new ModelException([tooLarge]);
         }
 
         var frequencies = new double[grid.Count * n];
@@ -67,12 +73,25 @@ internal static class BulkSolver
         var highest = ModeSolver.SignedThz(stats.MaxLambda);
         var perOutput = Math.Max(1, (FineBinsTarget + options.DosBins - 1) / options.DosBins);
         var gaussian = options.DosMethod == DosMethod.Gaussian;
+        var rigid = crystal.Components;
+        var zeroModes = rigid + CountZeroModes(frequencies, grid, n, rigid, highest);
+        var unstable = stats.WorstLambda < -1e-8 * stats.MaxLambda;
+
+        // The acoustic branches around q = 0 from the model's own long waves (not for Gaussian
+        // broadening, nor for unstable or floppy models: their thermal numbers are not trusted anyway).
+        var longWaves = gaussian || unstable || zeroModes > rigid
+            ? null
+            : LongWaveRegion.TryBuild(solver, sample, frequencies, wantWeights);
+        ct.ThrowIfCancellationRequested();
 
         // Gaussian tails reach 6 sigma past the spectrum; the grid takes them in so no state is lost.
         var tail = gaussian ? 6 * options.GaussianSigmaThz : 0;
         var fine = FrequencyGrid.Covering(lowest - tail, highest + tail, options.DosBins * perOutput);
         var total = new double[fine.Bins];
         var partial = weights is null ? [] : new double[n * fine.Bins];
+
+        // 1D and 2D meshes have few simplices: their bins keep the states' moments for a two-point rule.
+        var moments = dimension <= 2 && !gaussian ? new BinMoments(fine.Bins) : null;
         if (gaussian)
         {
             var share = 1.0 / grid.Count;
@@ -87,7 +106,19 @@ internal static class BulkSolver
         }
         else
         {
-            SimplexDosIntegrator.Accumulate(dimension, (sample.M1, sample.M2, sample.M3), n, frequencies, weights, weights is null ? 0 : n, fine, total, partial);
+            SimplexDosIntegrator.Accumulate(dimension, (sample.M1, sample.M2, sample.M3), n, frequencies, weights, weights is null ? 0 : n, fine, total, partial, longWaves?.Box, moments);
+        }
+
+        // The DOS table and the thermal sums take the long waves above omega_c differently (see
+        // LongWaveRegion.DepositAboveSplit): the table's bins start from the simplices' as well.
+        var tableTotal = total;
+        var tablePartial = partial;
+        if (longWaves is not null)
+        {
+            tableTotal = (double[])total.Clone();
+            tablePartial = (double[])partial.Clone();
+            longWaves.DepositAboveSplit(fine, total, partial, spreadEnds: false, moments);
+            longWaves.DepositAboveSplit(fine, tableTotal, tablePartial, spreadEnds: true);
         }
 
         ct.ThrowIfCancellationRequested();
@@ -106,9 +137,21 @@ internal static class BulkSolver
                 }
             }
 
-            var omega = 2.0 * Math.PI * 1e12 * fine.Centre(b);
-            sink.Add(omega, total[b], sink.WantsChannelFractions ? fractions : default);
+            var channelFractions = sink.WantsChannelFractions ? fractions : default;
+            if (moments is null)
+            {
+                sink.Add(2.0 * Math.PI * 1e12 * fine.Centre(b), total[b], channelFractions);
+                continue;
+            }
+
+            var (low, high) = moments.Nodes2(fine, b, total[b]);
+            sink.Add(2.0 * Math.PI * 1e12 * low, 0.5 * total[b], channelFractions);
+            sink.Add(2.0 * Math.PI * 1e12 * high, 0.5 * total[b], channelFractions);
         }
+
+        // Below omega_c the long waves go to the thermal sums by their own quadrature (exact at any
+        // temperature) and to the DOS table by bins.
+        longWaves?.AddBelowSplit(sink, sink.TemperaturesK);
 
         var outGrid = new FrequencyGrid(fine.StartThz, fine.WidthThz * perOutput, options.DosBins);
         var outTotal = new double[outGrid.Bins];
@@ -117,12 +160,27 @@ internal static class BulkSolver
         for (var b = 0; b < fine.Bins; b++)
         {
             var ob = b / perOutput;
-            outTotal[ob] += total[b];
+            outTotal[ob] += tableTotal[b];
             if (outPartial.Length > 0)
             {
                 for (var c = 0; c < n; c++)
                 {
-                    outPartial[(c / crystal.Components) * outGrid.Bins + ob] += partial[c * fine.Bins + b];
+                    outPartial[(c / crystal.Components) * outGrid.Bins + ob] += tablePartial[c * fine.Bins + b];
+                }
+            }
+        }
+
+        if (longWaves is not null)
+        {
+            var lowTotal = new double[outGrid.Bins];
+            var lowPartial = outPartial.Length > 0 ? new double[n * outGrid.Bins] : [];
+            longWaves.DepositBelowSplit(outGrid, lowTotal, lowPartial);
+            for (var b = 0; b < outGrid.Bins; b++)
+            {
+                outTotal[b] += lowTotal[b];
+                for (var c = 0; c < lowPartial.Length / outGrid.Bins; c++)
+                {
+                    outPartial[(c / crystal.Components) * outGrid.Bins + b] += lowPartial[c * outGrid.Bins + b];
                 }
             }
         }
@@ -134,12 +192,57 @@ internal static class BulkSolver
             CellsOrMeshPoints = grid.Count,
             QPointsSolved = grid.HalfCount,
             ModeCount = grid.Count * n,
-            RigidModesExcluded = 0,
-            ZeroModesExcluded = 0,
+            RigidModesExcluded = rigid,
+            ZeroModesExcluded = zeroModes,
             Statistics = stats,
+            Gaps = gaussian ? BandGaps.FromBranches(stats, unstable) : BandGaps.ConfirmedBy(BandGaps.FromBranches(stats, unstable), fine, tableTotal),
             Sink = sink,
+            MeanOmegaSquared = MeanOmegaSquared(frequencies),
             Dos = DosAssembly.FromStates(outGrid, outTotal, outPartial, sites, method),
             Modes = [],
         };
+    }
+
+    /// <summary>
+    /// The zone average of omega^2: the mean over the mesh of tr D(q) / branches. tr D(q) is a sum of
+    /// cos(q . R) over the bonds from a site to its own images, whose mesh mean vanishes unless the
+    /// mesh count divides R: exact for springs that reach fewer than half the mesh's cells (nearest
+    /// neighbours from a 3-point mesh), where the DOS's linear simplices are off at second order in
+    /// the mesh spacing (0.4% in the Debye temperature from this moment on an 8^3 mesh).
+    /// </summary>
+    private static double MeanOmegaSquared(double[] frequencyThz)
+    {
+        var sum = 0.0;
+        foreach (var f in frequencyThz)
+        {
+            sum += Math.Sign(f) * f * f;
+        }
+
+        var radPerS = 2 * Math.PI * 1e12;
+        return sum / frequencyThz.Length * radPerS * radPerS;
+    }
+
+    /// <summary>
+    /// Modes of zero frequency (within the eigen-solver's round-off, 1e-7 of the top frequency, i.e.
+    /// 1e-14 in omega^2) at the mesh points, the rigid translations at q = 0 not counted. More than none
+    /// marks a floppy model (directions without a restoring force on whole lines or planes of q).
+    /// </summary>
+    private static long CountZeroModes(double[] frequencyThz, PeriodicGrid grid, int branches, int rigid, double highestThz)
+    {
+        var gamma = grid.Index(grid.N1 / 2, grid.N2 / 2, grid.N3 / 2);
+        var tolerance = 1e-7 * highestThz;
+        long count = 0;
+        for (long p = 0; p < grid.Count; p++)
+        {
+            for (var k = p == gamma ? rigid : 0; k < branches; k++)
+            {
+                if (Math.Abs(frequencyThz[p * branches + k]) <= tolerance)
+                {
+                    count++;
+                }
+            }
+        }
+
+        return count;
     }
 }

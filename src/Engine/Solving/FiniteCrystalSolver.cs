@@ -31,10 +31,9 @@ internal static class FiniteCrystalSolver
         var lattice = crystal.Lattice;
         var grid = new PeriodicGrid(sample.N1, sample.N2, sample.N3);
         var modes = grid.Count * n;
-        if (modes > MaxModes)
+        if (SizeProblem(sample, n) is { } tooLarge)
         {
-            throw Guard.Single(ModelProblemKind.TooLarge, "sample.cells",
-                $"{grid.Count} cells x {n} branches = {modes} modes is more than the {MaxModes} this engine accepts for an exact sum; use a bulk mesh or a smaller crystal");
+            throw new ModelException([tooLarge]);
         }
 
         var perCell = 1.0 / grid.Count;
@@ -158,12 +157,21 @@ internal static class FiniteCrystalSolver
             QPointsSolved = grid.HalfCount,
             ModeCount = modes,
             RigidModesExcluded = rigid,
-            ZeroModesExcluded = zeroModes,
+            ZeroModesExcluded = rigid + zeroModes,
             Statistics = stats,
+            Gaps = BandGaps.FromBranches(stats, stats.WorstLambda < -1e-8 * scaleLambda),
             Sink = sink,
             Dos = dos,
             Modes = modeList,
         };
+    }
+
+    /// <summary>The refusal of a crystal with more modes than an exact sum can take, or null.</summary>
+    public static ModelProblem? SizeProblem(FiniteSample sample, int branches)
+    {
+        var modes = sample.CellCount * (double)branches; // double: no overflow for any int sizes
+        return modes <= MaxModes ? null : new ModelProblem(ModelProblemKind.TooLarge, "sample.cells",
+            $"{sample.CellCount} cells x {branches} branches = {modes:0} modes is more than the {MaxModes} this engine accepts for an exact sum; use a bulk mesh or a smaller crystal");
     }
 
     internal static void SumSites(ReadOnlySpan<double> channelFractions, Span<double> siteFractions, int components)

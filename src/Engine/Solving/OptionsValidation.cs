@@ -9,6 +9,16 @@ internal static class OptionsValidation
 
     public static void Check(SolveOptions options)
     {
+        var problems = Problems(options);
+        if (problems.Count > 0)
+        {
+            throw new ModelException(problems);
+        }
+    }
+
+    /// <summary>Every bad value, without throwing.</summary>
+    public static List<ModelProblem> Problems(SolveOptions options)
+    {
         var problems = new List<ModelProblem>();
         for (var i = 0; i < options.TemperaturesK.Length; i++)
         {
@@ -47,9 +57,6 @@ internal static class OptionsValidation
             }
         }
 
-        if (problems.Count > 0)
-        {
-            throw new ModelException(problems);
-        }
+        return problems;
     }
 }

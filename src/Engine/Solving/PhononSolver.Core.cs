@@ -103,6 +103,14 @@ public static partial class PhononSolver
     /// </summary>
     private static void CheckNoFloppyBranch(ModeSolver solver)
     {
+        if (FloppyBranchProblem(solver) is { } problem)
+        {
+            throw new ModelException([problem]);
+        }
+    }
+
+    private static ModelProblem? FloppyBranchProblem(ModeSolver solver)
+    {
         var lattice = solver.Matrix.Crystal.Lattice;
         var reduced = new Vec3(0.1234567, lattice.Dimension >= 2 ? 0.2718281 : 0, lattice.Dimension >= 3 ? 0.3141592 : 0);
         solver.SolveWithVectors(lattice.ToCartesianQ(reduced));
@@ -110,12 +118,12 @@ public static partial class PhononSolver
         var top = Math.Abs(values[^1]);
         if (top == 0 || values[0] > 1e-10 * top)
         {
-            return;
+            return null;
         }
 
         if (values[0] < -1e-8 * top)
         {
-            return; // unstable, not floppy: reported in the summary
+            return null; // unstable, not floppy: reported in the summary
         }
 
         var crystal = solver.Matrix.Crystal;
@@ -123,8 +131,8 @@ public static partial class PhononSolver
         solver.ChannelFractions(0, fractions);
         var channel = Array.IndexOf(fractions, fractions.Max());
         var site = crystal.Model.Sites[channel / crystal.Components];
-        var axis = crystal.Components == 1 ? "" : " along " + "xyz"[channel % 3];
-        throw Guard.Single(ModelProblemKind.UnconnectedSite, "springs",
+        var axis = crystal.Components == 1 ? "" : " along " + "xyz"[channel % crystal.Components];
+        return new ModelProblem(ModelProblemKind.UnconnectedSite, "springs",
             $"a branch has zero frequency at a general wave vector: site '{site.Label}' can move{axis} without stretching any spring. Add springs (a transverse constant or another shell) or use the scalar model");
     }
 
@@ -181,11 +189,29 @@ public static partial class PhononSolver
         var displacements = ImmutableArray.CreateBuilder<DisplacementRow>();
         if (options.MeanSquareDisplacement && !unstable)
         {
+            var components = crystal.Components;
+            var bulk = outcome.SampleKind == "bulk";
+            var symmetry = bulk ? Symmetry.ModelSymmetry.Find(crystal) : null;
+            var values = new double[r * components];
             for (var t = 0; t < options.TemperaturesK.Length; t++)
             {
+                // An infinite 1D crystal (any T) or 2D one (T > 0) has no finite mean-square displacement:
+                // the long waves' 1/omega^2 weight diverges at q = 0 (Mermin-Wagner); any finite number
+                // would be set by the mesh. Finite crystals give their own finite value.
+                var divergent = bulk && (dimension == 1 || (dimension == 2 && temperatures[t] > 0));
+                for (var c = 0; c < values.Length; c++)
+                {
+                    values[c] = divergent ? double.PositiveInfinity : sink.Msd(t, c) * 1e18;
+                }
+
+                if (symmetry is not null && !divergent)
+                {
+                    symmetry.SymmetriseDiagonal(values, components);
+                }
+
                 for (var site = 0; site < r; site++)
                 {
-                    double? Get(int axis) => axis >= crystal.Components ? null : sink.Msd(t, site * crystal.Components + axis) * 1e18;
+                    double? Get(int axis) => axis >= components ? null : values[site * components + axis];
                     displacements.Add(new DisplacementRow(temperatures[t], site, model.Sites[site].Label, Get(0), Get(1), Get(2)));
                 }
             }
@@ -200,7 +226,8 @@ public static partial class PhononSolver
             ? Defined(DebyeModel.TemperatureFromMoment(sink.SumInverseOmegaSquared / states, -2, dimension))
             : null;
         var thetaLog = stable ? Defined(DebyeModel.TemperatureFromLogMoment(sink.SumLnOmega / states, dimension)) : null;
-        var theta2 = stable ? Defined(DebyeModel.TemperatureFromMoment(sink.SumOmegaSquared / states, 2, dimension)) : null;
+        var meanOmegaSquared = outcome.MeanOmegaSquared ?? (sink.SumOmegaSquared / states);
+        var theta2 = stable ? Defined(DebyeModel.TemperatureFromMoment(meanOmegaSquared, 2, dimension)) : null;
 
         var summary = new PointSummary
         {
@@ -217,7 +244,7 @@ public static partial class PhononSolver
             MinFrequencyThz = ModeSolver.SignedThz(Math.Min(stats.WorstLambda, stats.BranchMin.Min())),
             Stable = !unstable,
             WorstQReduced = unstable ? stats.WorstQReduced : null,
-            Gaps = unstable ? [] : outcome.Gaps ?? Gaps(stats),
+            Gaps = unstable ? [] : outcome.Gaps,
             SoundSpeeds = unstable ? [] : [.. speeds],
             ReferenceTemperatureK = options.ReferenceTemperatureK,
             HeatCapacityJPerMolK = reference?.HeatCapacityJPerMolK,
@@ -232,27 +259,12 @@ public static partial class PhononSolver
             MolarMassKgPerMol = model.CellMassAmu / r * 1e-3,
         };
 
-        return new PointResult(summary, outcome.Dos, rows.ToImmutable(), displacements.ToImmutable(), dispersion, outcome.Modes);
+        return new PointResult(summary, outcome.Dos, rows.ToImmutable(), displacements.ToImmutable(), dispersion, outcome.Modes)
+        {
+            ElasticFit = model.ElasticFit,
+        };
     }
 
     /// <summary>The helpers mark an undefined number NaN; results say it with null.</summary>
     private static double? Defined(double value) => double.IsNaN(value) ? null : value;
-
-    /// <summary>Gaps between consecutive branches: the top of branch k below the bottom of branch k + 1.</summary>
-    private static ImmutableArray<BandGap> Gaps(SpectrumStatistics stats)
-    {
-        var gaps = ImmutableArray.CreateBuilder<BandGap>();
-        var top = ModeSolver.SignedThz(stats.MaxLambda);
-        for (var k = 0; k + 1 < stats.BranchMax.Length; k++)
-        {
-            var lower = ModeSolver.SignedThz(stats.BranchMax[k]);
-            var upper = ModeSolver.SignedThz(stats.BranchMin[k + 1]);
-            if (upper - lower > 1e-6 * top)
-            {
-                gaps.Add(new BandGap(lower, upper));
-            }
-        }
-
-        return gaps.ToImmutable();
-    }
 }

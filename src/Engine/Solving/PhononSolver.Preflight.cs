@@ -10,6 +10,13 @@ namespace LatticeSweep.Engine.Solving;
 /// <param name="ZeroModeAtReducedQ">A wave vector away from q = 0 (on a plane or line through it) where some branch has zero frequency, or null.</param>
 public sealed record ModelPreflight(int BranchCount, Vec3? ZeroModeAtReducedQ);
 
+/// <summary>
+/// The checks <see cref="Solve"/> makes before any spectrum, callable without solving. Three entry
+/// points share one set of checks (the same helpers <see cref="Solve"/> itself raises from, so the
+/// messages are the solver's own): <see cref="PreflightModel"/> once per distinct model,
+/// <see cref="PreflightPoint"/> per point (both throw the first refusal as <see cref="Solve"/>
+/// would), and <see cref="Preflight"/>, which collects every refusal of a point without throwing.
+/// </summary>
 public static partial class PhononSolver
 {
     /// <summary>
@@ -44,18 +51,14 @@ public static partial class PhononSolver
         ArgumentNullException.ThrowIfNull(options);
         OptionsValidation.Check(options);
         CheckSample(model, sample);
-        var n = model.BranchCount;
-        switch (sample)
+        if (SizeProblem(model, sample, options) is { } tooLarge)
         {
-            case FiniteSample f when f.CellCount * (double)n > FiniteCrystalSolver.MaxModes:
-                throw Guard.Single(ModelProblemKind.TooLarge, "sample.cells",
-                    $"{f.CellCount} cells x {n} branches = {f.CellCount * (double)n:G4} modes is more than the {FiniteCrystalSolver.MaxModes} this engine accepts for an exact sum; use a bulk mesh or a smaller crystal");
-            case RealSpaceSample r:
-                CheckRealSpaceSize(model, r, options);
-                break;
-            case BulkSample b when BulkSolver.EstimateBytes(b.PointCount, n, options.PartialDos || options.MeanSquareDisplacement) > options.MemoryLimitBytes:
-                throw Guard.Single(ModelProblemKind.TooLarge, "sample.mesh",
-                    $"a {b.M1}x{b.M2}x{b.M3} mesh with {n} branches needs more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");
+            throw new ModelException([tooLarge]);
+        }
+
+        if (sample is RealSpaceSample r)
+        {
+            CheckRealSpaceSize(model, r, options);
         }
 
         if (options.Expansion is { } expansion)
@@ -67,6 +70,73 @@ public static partial class PhononSolver
         {
             // With thermal expansion a missing Grueneisen parameter is computed, as Solve does.
             ConductivityOptionsValidation.Check(model, sample, options.Expansion is null ? conductivity : conductivity with { GrueneisenParameter = conductivity.GrueneisenParameter ?? 1.0 });
+        }
+    }
+
+    /// <summary>
+    /// Every <see cref="ModelProblem"/> that <see cref="PreflightModel"/> and <see cref="PreflightPoint"/>
+    /// would raise for this point, collected instead of thrown (a user fixing a job file sees them
+    /// all at once): bad options, a sample that does not fit the lattice, a crystal or mesh too large
+    /// for the limits, force constants that cannot be built, a branch of zero frequency at a general
+    /// wave vector, and bad conductivity settings. An empty list means a solve will start and run to
+    /// a result; that result may still say the model is unstable or floppy (those are results, not
+    /// errors). Cost: one build of the force constants and one eigen-solve of D(q).
+    /// </summary>
+    public static IReadOnlyList<ModelProblem> Preflight(CrystalModel model, Sample sample, SolveOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(sample);
+        ArgumentNullException.ThrowIfNull(options);
+        var problems = OptionsValidation.Problems(options);
+        Collect(problems, () => CheckSample(model, sample));
+        if (SizeProblem(model, sample, options) is { } tooLarge)
+        {
+            problems.Add(tooLarge);
+        }
+
+        CompiledCrystal? crystal = null;
+        Collect(problems, () => crystal = CompiledCrystal.From(model));
+        if (crystal is not null && FloppyBranchProblem(new ModeSolver(new DynamicalMatrix(crystal))) is { } floppy)
+        {
+            problems.Add(floppy);
+        }
+
+        if (sample is RealSpaceSample r)
+        {
+            Collect(problems, () => CheckRealSpaceSize(model, r, options));
+        }
+
+        if (options.Expansion is { } expansion)
+        {
+            Collect(problems, () => QuasiHarmonic.QuasiHarmonicLoop.Validate(model, expansion));
+        }
+
+        if (options.Conductivity is { } conductivity)
+        {
+            // With thermal expansion a missing Grueneisen parameter is computed, as Solve does.
+            Collect(problems, () => ConductivityOptionsValidation.Check(model, sample, options.Expansion is null ? conductivity : conductivity with { GrueneisenParameter = conductivity.GrueneisenParameter ?? 1.0 }));
+        }
+
+        return problems;
+    }
+
+    /// <summary>The refusal of a sample too large for an exact sum (finite) or for the memory limit (bulk), or null.</summary>
+    private static ModelProblem? SizeProblem(CrystalModel model, Sample sample, SolveOptions options) => sample switch
+    {
+        FiniteSample f => FiniteCrystalSolver.SizeProblem(f, model.BranchCount),
+        BulkSample b => BulkSolver.MemoryProblem(b, model.BranchCount, options),
+        _ => null,
+    };
+
+    private static void Collect(List<ModelProblem> problems, Action check)
+    {
+        try
+        {
+            check();
+        }
+        catch (ModelException e)
+        {
+            problems.AddRange(e.Problems);
         }
     }
 

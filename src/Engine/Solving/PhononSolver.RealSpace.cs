@@ -373,7 +373,8 @@ public static partial class PhononSolver
         var modeList = run.SortedThz.Length > 0 && run.SortedThz.Length <= options.ModeListMaxModes
             ? ModeLevels.Distinct(run.SortedThz, run.SortedThz.Length, 0)
             : [];
-        // Zero modes beyond the rigid-body ones (a floppy model): the kernel polynomial method cannot count them.
+        // Every excluded zero mode (the rigid-body ones and any beyond them, a floppy model); the kernel
+        // polynomial method cannot count those beyond.
         var zeroModes = run.Modes is { } modes ? Math.Max(0, (long)Math.Round(modes.ZeroModes) - run.RigidModes) : 0;
         var outcome = new SpectrumOutcome
         {
@@ -382,7 +383,7 @@ public static partial class PhononSolver
             QPointsSolved = run.QPointsSolved,
             ModeCount = run.ModeCount,
             RigidModesExcluded = run.RigidModes,
-            ZeroModesExcluded = zeroModes,
+            ZeroModesExcluded = run.RigidModes + zeroModes,
             Statistics = run.Statistics,
             Sink = run.Sink,
             Dos = dos,

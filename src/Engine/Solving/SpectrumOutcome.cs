@@ -14,10 +14,16 @@ internal sealed record SpectrumOutcome
     public required int RigidModesExcluded { get; init; }
     public required long ZeroModesExcluded { get; init; }
     public required SpectrumStatistics Statistics { get; init; }
+
+    /// <summary>Band gaps (none for an unstable model; bulk ones confirmed empty in the fine DOS).</summary>
+    public required ImmutableArray<BandGap> Gaps { get; init; }
     public required ModeSink Sink { get; init; }
+
+    /// <summary>
+    /// The zone average of omega^2 in (rad/s)^2 when a pass knows it better than its DOS does (bulk:
+    /// the mesh mean of tr D(q) / branches), or null to take it from the sink's mode sums.
+    /// </summary>
+    public double? MeanOmegaSquared { get; init; }
     public required DosCurve Dos { get; init; }
     public required ImmutableArray<ModeLevel> Modes { get; init; }
-
-    /// <summary>Gaps found by the pass itself; null = from the branch ranges of <see cref="Statistics"/>.</summary>
-    public ImmutableArray<BandGap>? Gaps { get; init; }
 }

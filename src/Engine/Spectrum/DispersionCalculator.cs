@@ -30,12 +30,18 @@ internal static class DispersionCalculator
                 var t = (double)p / path.PointsPerSegment;
                 var q = from + t * step;
                 group.Solve(q, step, velocities);
+                var rigid = IsReciprocalLatticeVector(lattice, q) ? solver.Matrix.Crystal.Components : 0;
                 string? label = p == 0 ? path.Corners[s].Label : (last && p == count - 1 ? path.Corners[s + 1].Label : null);
                 var here = position + t * step.Length * 1e-9;
                 for (var k = 0; k < n; k++)
                 {
-                    rows.Add(new DispersionRow(index, here, label, q.X * 1e-9, q.Y * 1e-9, q.Z * 1e-9, k,
-                        ModeSolver.SignedThz(solver.Values[k]), velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]));
+                    // The rigid translations at q = 0 (or any reciprocal lattice vector, where D(q) has the
+                    // same eigenvalues) are exactly 0 by the acoustic sum rule; the eigen-solver leaves
+                    // +-1e-8 THz of round-off, and their velocity depends on the direction of approach.
+                    rows.Add(k < rigid
+                        ? new DispersionRow(index, here, label, q.X * 1e-9, q.Y * 1e-9, q.Z * 1e-9, k, 0.0, 0.0, 0.0, 0.0)
+                        : new DispersionRow(index, here, label, q.X * 1e-9, q.Y * 1e-9, q.Z * 1e-9, k,
+                            ModeSolver.SignedThz(solver.Values[k]), velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]));
                 }
 
                 index++;
@@ -45,5 +51,20 @@ internal static class DispersionCalculator
         }
 
         return rows.ToImmutable();
+    }
+
+    /// <summary>True when q (1/m) is a reciprocal lattice vector: q . a_i / 2 pi is an integer for every used a_i.</summary>
+    internal static bool IsReciprocalLatticeVector(Lattice lattice, Vec3 qPerM)
+    {
+        for (var i = 0; i < lattice.Dimension; i++)
+        {
+            var n = qPerM.Dot(lattice.Vector(i)) / (2 * Math.PI);
+            if (Math.Abs(n - Math.Round(n)) > 1e-9)
+            {
+                return false;
+            }
+        }
+
+        return true;
     }
 }

@@ -209,22 +209,18 @@ internal sealed partial class DynamicalMatrix
         return pairs;
     }
 
+    /// <summary>Adds factor x the leading c x c block of k (x; xy in the plane; xyz) to block (i, j).</summary>
     private static void Add(Span<Complex> d, int n, int c, int i, int j, in Matrix3 k, Complex factor)
     {
-        if (c == 1)
-        {
-            d[i * n + j] += factor * k.Xx;
-            return;
-        }
-
-        var row = 3 * i;
-        var col = 3 * j;
-        for (var a = 0; a < 3; a++)
+        var row = c * i;
+        var col = c * j;
+        for (var a = 0; a < c; a++)
         {
             var offset = (row + a) * n + col;
-            d[offset] += factor * k[a, 0];
-            d[offset + 1] += factor * k[a, 1];
-            d[offset + 2] += factor * k[a, 2];
+            for (var b = 0; b < c; b++)
+            {
+                d[offset + b] += factor * k[a, b];
+            }
         }
     }
 }

@@ -52,7 +52,7 @@ internal static class ForceConstantBuilder
         }
 
         var (couplings, selfTerms) = blocks.Compile(lattice, positions);
-        CheckEverySiteConnected(model, selfTerms, scalar);
+        CheckEverySiteConnected(model, selfTerms);
 
         return new CompiledCrystal
         {
@@ -113,24 +113,29 @@ internal static class ForceConstantBuilder
         }
     }
 
-    private static void CheckEverySiteConnected(CrystalModel model, Matrix3[] selfTerms, bool scalar)
+    private static void CheckEverySiteConnected(CrystalModel model, Matrix3[] selfTerms)
     {
         var problems = new List<ModelProblem>();
+        var components = model.ComponentsPerSite;
         var scale = selfTerms.Select(t => Math.Abs(t.Trace)).DefaultIfEmpty(0).Max();
         for (var i = 0; i < selfTerms.Length; i++)
         {
             var t = selfTerms[i];
-            var weakest = scalar ? Math.Abs(t.Xx) : Math.Min(Math.Abs(t.Xx), Math.Min(Math.Abs(t.Yy), Math.Abs(t.Zz)));
-            if (scale == 0 || Math.Abs(t.Trace) <= 1e-12 * scale)
+            var stiffness = Enumerable.Range(0, components).Select(a => Math.Abs(t[a, a])).ToArray();
+            var weakest = stiffness.Min();
+            if (scale == 0 || stiffness.Sum() <= 1e-12 * scale)
             {
                 problems.Add(new(ModelProblemKind.UnconnectedSite, $"sites[{i}]",
                     $"site '{model.Sites[i].Label}' has no springs; it would vibrate at zero frequency. Add a spring or bond that reaches it"));
             }
-            else if (!scalar && weakest <= 1e-12 * scale)
+            else if (components > 1 && weakest <= 1e-12 * scale)
             {
-                var axis = Math.Abs(t.Xx) == weakest ? "x" : Math.Abs(t.Yy) == weakest ? "y" : "z";
+                var axis = "xyz"[Array.IndexOf(stiffness, weakest)];
+                var hint = axis == 'z' && model.Lattice.Dimension == 2
+                    ? "nothing holds the sheet against motion out of its plane. For motion in the plane only use motion = \"in_plane\"; for 3D motion give the springs a transverse constant (it also stiffens in-plane shear)"
+                    : $"give its springs a constant along {axis} (longitudinal, or transverse for bonds across {axis}), add shells, or use the scalar model";
                 problems.Add(new(ModelProblemKind.UnconnectedSite, $"sites[{i}]",
-                    $"site '{model.Sites[i].Label}' has no spring acting along {axis}; give its springs a constant along {axis} (longitudinal, or transverse for bonds across {axis}), add shells, or use the scalar model"));
+                    $"site '{model.Sites[i].Label}' has no spring acting along {axis}: {hint}"));
             }
         }
 

@@ -37,6 +37,9 @@ internal sealed class ModeSink
 
     public double StatesCounted { get; private set; }
 
+    /// <summary>The temperatures (K) the sums are kept for.</summary>
+    public ReadOnlySpan<double> TemperaturesK => _temperaturesK;
+
     public double SumInverseOmegaSquared => Flushed()._sumInverseOmegaSquared;
 
     public double SumLnOmega => Flushed()._sumLnOmega;

@@ -100,6 +100,42 @@ internal sealed class ModeSolver
         }
     }
 
+    /// <summary>Called for each wave vector of <see cref="SolveList"/>; its results are at <paramref name="slot"/>.</summary>
+    public delegate void SolvedVector(int index, int slot);
+
+    /// <summary>
+    /// Solves D(q) at every wave vector of a list (Cartesian, 1/m), <see cref="BatchSize"/> at a time
+    /// through the batched eigen-solver, and calls <paramref name="visit"/> for each in list order with
+    /// its results at the slot (<see cref="BatchValues"/>, <see cref="BatchChannelFractions"/>).
+    /// </summary>
+    public void SolveList(IReadOnlyList<Vec3> qPerM, bool withVectors, SolvedVector visit)
+    {
+        var n = Size;
+        var nn = n * n;
+        _batchD ??= new Complex[BatchSize * nn];
+        _batchValues ??= new double[BatchSize * n];
+        if (withVectors)
+        {
+            _batchVectors ??= new Complex[BatchSize * nn];
+        }
+
+        for (var first = 0; first < qPerM.Count; first += BatchSize)
+        {
+            var count = Math.Min(BatchSize, qPerM.Count - first);
+            for (var k = 0; k < count; k++)
+            {
+                _matrix.Build(qPerM[first + k], _batchD.AsSpan(k * nn, nn));
+            }
+
+            HermitianEigenSolver.SolveBatch(_batchD.AsSpan(0, count * nn), n, count, _batchValues.AsSpan(0, count * n),
+                withVectors ? _batchVectors.AsSpan(0, count * nn) : []);
+            for (var k = 0; k < count; k++)
+            {
+                visit(first + k, k);
+            }
+        }
+    }
+
     /// <summary>Eigenvalues (ascending) of the point at <paramref name="slot"/> of the current batch.</summary>
     public ReadOnlySpan<double> BatchValues(int slot) => _batchValues.AsSpan(slot * Size, Size);
 

@@ -11,7 +11,7 @@ internal sealed class SpectrumStatistics
         BranchMax = Enumerable.Repeat(double.NegativeInfinity, branches).ToArray();
     }
 
-    /// <summary>Lowest eigenvalue (omega^2) of each branch over all q.</summary>
+    /// <summary>Lowest eigenvalue (omega^2) of each branch over all q; 0 for the acoustic branches, which start at q = 0.</summary>
     public double[] BranchMin { get; }
 
     /// <summary>Highest eigenvalue (omega^2) of each branch over all q.</summary>
@@ -26,7 +26,13 @@ internal sealed class SpectrumStatistics
         for (var k = 0; k < values.Length; k++)
         {
             var l = values[k];
-            if (k >= skipLowest)
+            if (k < skipLowest)
+            {
+                // The rigid translations at q = 0: the acoustic branches start at exactly 0 there
+                // (their eigenvalues are round-off around it), not at the first mesh shell.
+                BranchMin[k] = Math.Min(BranchMin[k], 0.0);
+            }
+            else
             {
                 BranchMin[k] = Math.Min(BranchMin[k], l);
                 if (l < WorstLambda)

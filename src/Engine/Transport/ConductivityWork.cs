@@ -11,8 +11,9 @@ public static class ConductivityWork
     /// Eigen-solves with vectors over half the wave vectors (plus 1/2^d more for the convergence
     /// mesh), each ~36 n^3 (Householder and QL with vectors in complex arithmetic, and three
     /// derivative expectations), ~100 operations per mode and temperature (two exponentials), and
-    /// for a bulk mesh the q = 0 cell: one solve per ray and 240 radial nodes per acoustic branch
-    /// and temperature. 0 when not asked.
+    /// for a bulk mesh the q = 0 cell: seven solves per ray (the optical branches, the long-wave slope
+    /// and five nodes of the acoustic dispersion) and 240 radial nodes per acoustic branch and
+    /// temperature. 0 when not asked.
     /// </summary>
     public static double EstimateFlops(CrystalModel model, Sample sample, SolveOptions options)
     {
@@ -35,7 +36,7 @@ public static class ConductivityWork
         var solves = points / 2 * (passes == 2 ? 1 + Math.Pow(2, -d) : 1);
         var temperatures = options.TemperaturesK.Length + 1;
         var rays = bulk ? passes * d * Math.Pow(GammaCellIntegrator.FaceNodes(d), d - 1) : 0;
-        return (solves + rays) * 36 * n * n * n
+        return (solves + (7 * rays)) * 36 * n * n * n
             + solves * n * temperatures * 100
             + rays * model.ComponentsPerSite * 240 * temperatures * 100;
     }

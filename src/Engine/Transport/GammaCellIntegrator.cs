@@ -1,4 +1,5 @@
 using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
 using LatticeSweep.Engine.Spectrum;
 using MathNet.Numerics.Integration;
 
@@ -10,71 +11,41 @@ namespace LatticeSweep.Engine.Transport;
 /// diverge as q -> 0), so the Gamma point's share of the sum is replaced by the average of the
 /// integrand over its cell {sum t_i b_i / M_i, |t_i| &lt;= 1/2}.
 /// <para>
-/// The cell is cut into pyramids with apex 0 and a face as base (2d of them; opposite faces give the
-/// same integral because omega(-q) = omega(q), so d are computed, counted twice). On a face
-/// q = rho (c + s e_1 + t e_2) with rho in [0, 1] and d^3q = rho^2 |det(c, e_1, e_2)| d rho ds dt, so
-/// the pyramid is a Gauss-Legendre product rule over (s, t) of radial integrals along rays from 0
-/// (exact volume, smooth integrand on each face). Along a ray the acoustic branches are taken as
-/// linear, omega = (v . u) q with the group velocity v from one solve at a small q on the ray (degenerate
-/// branches rotated along the ray, so each is the branch that continues it), and the radial integral
-/// runs over 40 geometric panels down to 2^-40 of the ray length with 6 Gauss-Legendre nodes each, so
-/// it resolves the thermal wave numbers at any temperature. Optical branches are taken as constant on
-/// a ray. The linear dispersion is the one approximation; its error shrinks as the mesh is refined and
-/// shows in the mesh-convergence figure.
+/// The cell is covered by rays from q = 0 (<see cref="CentredCellRays"/>: pyramids on its faces,
+/// Gauss-Legendre on each face). Along a ray the acoustic branches are the model's own dispersion
+/// (<see cref="RayDispersion"/>: the slope at q = 0 and five solves on the ray, with group velocities
+/// from Hellmann-Feynman, degenerate branches rotated along the ray), so omega and v follow the
+/// branch across the cell, not only its tangent at q = 0. The radial integral runs over 40 geometric
+/// panels down to 2^-40 of the ray length with 6 Gauss-Legendre nodes each, so it resolves the
+/// thermal wave numbers at any temperature. Optical branches are taken as constant on a ray (their
+/// values at a small q on it).
 /// </para>
 /// </summary>
 internal sealed class GammaCellIntegrator
 {
     private const int RadialPanels = 40;
     private static readonly GaussLegendreRule Radial = new(0.5, 1.0, 6);
-    private readonly List<Ray> _rays = [];
+    private readonly CentredCellRays _rays;
     private readonly int _dimension;
     private readonly double _epsilon;
 
     public GammaCellIntegrator(Lattice lattice, IReadOnlyList<int> mesh)
     {
         _dimension = lattice.Dimension;
-        var d = _dimension;
-        var edges = new Vec3[d];
-        for (var i = 0; i < d; i++)
+        var edges = new Vec3[_dimension];
+        for (var i = 0; i < _dimension; i++)
         {
             edges[i] = lattice.ReciprocalVector(i) / mesh[i];
         }
 
-        var cellVolume = Measure(edges, d);
-        var rule = new GaussLegendreRule(-0.5, 0.5, FaceNodes(d));
-        var minLength = double.PositiveInfinity;
-        for (var face = 0; face < d; face++)
-        {
-            var centre = 0.5 * edges[face];
-            var span = Enumerable.Range(0, d).Where(j => j != face).Select(j => edges[j]).ToArray();
-            var columns = new Vec3[d];
-            columns[0] = centre;
-            for (var j = 0; j < span.Length; j++)
-            {
-                columns[j + 1] = span[j];
-            }
-
-            var jacobian = Measure(columns, d);
-            foreach (var (offset, w) in FacePoints(rule, span))
-            {
-                var f = centre + offset;
-                var length = f.Length;
-                minLength = Math.Min(minLength, length);
-
-                // Share of the cell average: 2 (opposite face) x |det| x face weight / cell volume;
-                // the radial integral of g q^(d-1) over [0, |F|] is divided by |F|^d.
-                _rays.Add(new Ray(f / length, length, 2.0 * jacobian * w / cellVolume));
-            }
-        }
-
-        _epsilon = Math.Min(1e-3 * AcousticAverages.SmallestReciprocal(lattice), 1e-2 * minLength);
+        _rays = CentredCellRays.Build(_dimension, edges);
+        _epsilon = Math.Min(1e-3 * AcousticAverages.SmallestReciprocal(lattice), 1e-2 * _rays.ShortestRayM);
     }
 
-    public int RayCount => _rays.Count;
+    public int RayCount => _rays.Rays.Count;
 
     /// <summary>Gauss-Legendre nodes per face direction: 8 x 8 on each 3D face, 16 on each 2D edge.</summary>
-    public static int FaceNodes(int dimension) => dimension == 2 ? 16 : 8;
+    public static int FaceNodes(int dimension) => CentredCellRays.FaceNodes(dimension);
 
     /// <summary>
     /// Adds the cell average (weight 1, one mesh point's worth) to the sum. Returns false when a long
@@ -95,37 +66,39 @@ internal sealed class GammaCellIntegrator
             }
         }
 
-        foreach (var ray in _rays)
+        foreach (var ray in _rays.Rays)
         {
             ct.ThrowIfCancellationRequested();
-            group.Solve(_epsilon * ray.Direction, ray.Direction, velocities);
-            for (var k = 0; k < n; k++)
+            var u = ray.Direction;
+
+            // Optical branches: their values at a small q on the ray.
+            group.Solve(_epsilon * u, u, velocities);
+            for (var k = acoustic; k < n; k++)
             {
+                var lambda = solver.Values[k];
+                stable &= lambda > 0;
                 var v = new Vec3(velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]);
-                if (k >= acoustic)
-                {
-                    var lambda = solver.Values[k];
-                    stable &= lambda > 0;
-                    sum.Add(Math.Sqrt(Math.Max(lambda, 0)), v, ray.Weight / d);
-                    continue;
-                }
+                sum.Add(Math.Sqrt(Math.Max(lambda, 0)), v, ray.Weight);
+            }
 
-                var slope = v.Dot(ray.Direction);
-                if (!(slope > 0) || !(solver.Values[k] > 0))
-                {
-                    stable = false;
-                    continue;
-                }
+            var dispersion = RayDispersion.Measure(solver, group, ray, _epsilon, fractions: false);
+            if (!dispersion.Stable)
+            {
+                stable = false;
+                continue;
+            }
 
-                var scale = ray.Weight / Math.Pow(ray.Length, d);
-                var upper = ray.Length;
+            for (var k = 0; k < acoustic; k++)
+            {
+                // int_0^1 g(rho) d rho^d over panels [upper / 2, upper] with the rule's nodes scaled by upper.
+                var upper = 1.0;
                 for (var p = 0; p < RadialPanels; p++)
                 {
-                    // Panel [upper / 2, upper]: nodes of the rule on [0.5, 1] scaled by upper.
                     for (var i = 0; i < Radial.Abscissas.Length; i++)
                     {
-                        var q = Radial.Abscissas[i] * upper;
-                        sum.Add(slope * q, v, scale * Radial.Weights[i] * upper * Math.Pow(q, d - 1));
+                        var rho = Radial.Abscissas[i] * upper;
+                        var weight = ray.Weight * d * Radial.Weights[i] * upper * Math.Pow(rho, d - 1);
+                        sum.Add(dispersion.Omega(k, rho), dispersion.Velocity(k, rho), weight);
                     }
 
                     upper *= 0.5;
@@ -135,41 +108,4 @@ internal sealed class GammaCellIntegrator
 
         return stable;
     }
-
-    /// <summary>|det| of d column vectors in their d-dimensional space (length, area or volume).</summary>
-    private static double Measure(Vec3[] columns, int d) => d switch
-    {
-        1 => Math.Abs(columns[0].X),
-        2 => Math.Abs(columns[0].X * columns[1].Y - columns[0].Y * columns[1].X),
-        _ => Math.Abs(columns[0].Dot(columns[1].Cross(columns[2]))),
-    };
-
-    private static IEnumerable<(Vec3 Offset, double Weight)> FacePoints(GaussLegendreRule rule, Vec3[] span)
-    {
-        switch (span.Length)
-        {
-            case 0:
-                yield return (Vec3.Zero, 1.0);
-                break;
-            case 1:
-                for (var i = 0; i < rule.Abscissas.Length; i++)
-                {
-                    yield return (rule.Abscissas[i] * span[0], rule.Weights[i]);
-                }
-
-                break;
-            default:
-                for (var i = 0; i < rule.Abscissas.Length; i++)
-                {
-                    for (var j = 0; j < rule.Abscissas.Length; j++)
-                    {
-                        yield return (rule.Abscissas[i] * span[0] + rule.Abscissas[j] * span[1], rule.Weights[i] * rule.Weights[j]);
-                    }
-                }
-
-                break;
-        }
-    }
-
-    private readonly record struct Ray(Vec3 Direction, double Length, double Weight);
 }

@@ -189,7 +189,7 @@ public static class SolveCommand
         t.Add("zero modes excluded (all)", I(Output.ZeroModes.Total(s)), "");
         if (Output.ZeroModes.Floppy(s))
         {
-            t.Add("floppy", $"YES: {I(s.ZeroModesExcluded)} zero modes beyond the rigid ones", "");
+            t.Add("floppy", $"YES: {I(Output.ZeroModes.BeyondRigid(s))} zero modes beyond the rigid ones", "");
         }
 
         if (fit is not null)
@@ -200,6 +200,11 @@ public static class SolveCommand
             foreach (var speed in fit.SoundSpeeds)
             {
                 t.Add($"Christoffel speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(v => D(v))), "m/s");
+            }
+
+            foreach (var speed in fit.GivenSoundSpeeds)
+            {
+                t.Add($"Christoffel speeds {speed.Direction}, given C", string.Join(", ", speed.SpeedsMPerS.Select(v => D(v))), "m/s");
             }
         }
 

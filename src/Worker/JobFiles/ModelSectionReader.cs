@@ -64,6 +64,12 @@ internal static class ModelSectionReader
                 return null;
             }
 
+            if (motion == DegreesOfFreedom.InPlane)
+            {
+                model.Error("motion", $"\"in_plane\" motion needs a 2D lattice; [model.{builder}] builds a {(builder == "layers" ? "chain or a 3D stack" : "3D cubic crystal")}: use \"3d\" or \"scalar\"");
+                return null;
+            }
+
             return builder switch
             {
                 "layers" => ReadLayers(model.SubTable("layers", required: true), motion),
@@ -122,6 +128,11 @@ internal static class ModelSectionReader
             LatticeKind.Explicit => Math.Max(1, vectors.Length),
             _ => 3,
         };
+
+        if (motion == DegreesOfFreedom.InPlane && dimension != 2 && latticeName is not null)
+        {
+            model.Error("motion", $"\"in_plane\" motion needs a 2D lattice (square, hexagonal without c_nm, or two vectors_nm); this lattice is {dimension}D: use \"3d\" or \"scalar\"");
+        }
 
         var siteTables = model.TableList("sites", required: true);
         if (model.Has("sites") && siteTables.Count == 0 && model.Problems.Count == before)

@@ -28,6 +28,7 @@ internal static class Names
     public static readonly IReadOnlyDictionary<string, DegreesOfFreedom> Motions = new Dictionary<string, DegreesOfFreedom>(StringComparer.Ordinal)
     {
         ["3d"] = DegreesOfFreedom.Cartesian,
+        ["in_plane"] = DegreesOfFreedom.InPlane,
         ["scalar"] = DegreesOfFreedom.Scalar,
     };
 

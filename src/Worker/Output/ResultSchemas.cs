@@ -76,7 +76,7 @@ internal sealed class ResultSchemas
             C<RowOf<DisplacementRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
             C<RowOf<DisplacementRow>>("site", ColumnType.Int32, "", "basis site (0-based)", r => r.Item.Site),
             C<RowOf<DisplacementRow>>("site_label", ColumnType.Text, "", "basis site label", r => r.Item.SiteLabel),
-            C<RowOf<DisplacementRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x", r => r.Item.MsdXNm2),
+            C<RowOf<DisplacementRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x; +Infinity in bulk 1D (any T) and 2D (T > 0), where it diverges", r => r.Item.MsdXNm2),
             C<RowOf<DisplacementRow>>("msd_y_nm2", ColumnType.Double, "nm^2", "mean-square displacement along y", r => r.Item.MsdYNm2),
             C<RowOf<DisplacementRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "mean-square displacement along z", r => r.Item.MsdZNm2));
         Expansion = Spec<ExpansionRow>(TableNames.Expansion, axes, ExpansionColumns());
@@ -313,6 +313,7 @@ internal sealed class ResultSchemas
             .. SurfaceSummaryColumns(),
             .. ElasticSummaryColumns(),
             .. ExpansionSummaryColumns(),
+            .. ElasticFitColumns(),
         ];
     }
 
@@ -448,6 +449,18 @@ internal sealed class ResultSchemas
             C<PointOutcome>("static_lattice_constant_nm", ColumnType.Double, "nm", "lattice constant at the minimum of the static energy (isotropic scaling)", o => S(o)?.StaticLattice?.EquilibriumLatticeConstantNm),
             C<PointOutcome>("static_min_energy_ev_per_atom", ColumnType.Double, "eV", "static energy per atom at that minimum (minus the cohesive energy)", o => S(o)?.StaticLattice?.EquilibriumEnergyEvPerAtom),
             C<PointOutcome>("static_bulk_modulus_gpa", ColumnType.Double, "GPa", "static bulk modulus V d2E/dV2 at that minimum (3D)", o => S(o)?.StaticLattice?.EquilibriumBulkModulusGpa),
+        ];
+    }
+
+    /// <summary>Christoffel speeds of the elastic constants given to the spring fit (`[model.elastic]`), beside the fitted ones; empty for other models.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ElasticFitColumns()
+    {
+        static double[] Given(PointOutcome o) => o.Result?.ElasticFit is { } f ? [.. f.GivenSoundSpeeds.SelectMany(s => s.SpeedsMPerS)] : [];
+        return
+        [
+            C<PointOutcome>("elastic_given_speed_min_m_per_s", ColumnType.Double, "m/s", "slowest Christoffel sound speed of the given elastic constants over [100], [110], [111] (compare christoffel_speed_min_m_per_s, the fitted springs')", o => Given(o) is { Length: > 0 } v ? v.Min() : null),
+            C<PointOutcome>("elastic_given_speed_mean_m_per_s", ColumnType.Double, "m/s", "mean Christoffel sound speed of the given elastic constants over [100], [110], [111] and branches", o => Given(o) is { Length: > 0 } v ? v.Average() : null),
+            C<PointOutcome>("elastic_given_speed_max_m_per_s", ColumnType.Double, "m/s", "fastest Christoffel sound speed of the given elastic constants over [100], [110], [111]", o => Given(o) is { Length: > 0 } v ? v.Max() : null),
         ];
     }
 

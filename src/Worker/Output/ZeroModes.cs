@@ -10,9 +10,12 @@ namespace LatticeSweep.Worker.Output;
 /// </summary>
 internal static class ZeroModes
 {
-    /// <summary>Every zero-frequency mode left out: the rigid translations plus the others.</summary>
-    public static long Total(PointSummary s) => s.RigidModesExcluded + s.ZeroModesExcluded;
+    /// <summary>Every zero-frequency mode left out: the rigid translations plus the others (the Engine counts them all).</summary>
+    public static long Total(PointSummary s) => s.ZeroModesExcluded;
+
+    /// <summary>Zero modes beyond the rigid-body ones.</summary>
+    public static long BeyondRigid(PointSummary s) => s.ZeroModesExcluded - s.RigidModesExcluded;
 
     /// <summary>More zero modes than rigid-body modes.</summary>
-    public static bool Floppy(PointSummary s) => s.ZeroModesExcluded > 0;
+    public static bool Floppy(PointSummary s) => s.Floppy;
 }

@@ -26,7 +26,7 @@ public sealed class SimplexDosIntegratorTests
         var grid = FrequencyGrid.Covering(0, frequencies.Max(), 37);
         var total = new double[grid.Bins];
         var partial = new double[channels * grid.Bins];
-        SimplexDosIntegrator.Accumulate(3, (m1, m2, m3), branches, frequencies, weights, channels, grid, total, partial, vectors);
+        SimplexDosIntegrator.Accumulate(3, (m1, m2, m3), branches, frequencies, weights, channels, grid, total, partial, vectors: vectors);
 
         var (expected, expectedPartial) = PlainLoop((m1, m2, m3), branches, channels, frequencies, weights, grid);
         Tolerance.AssertAllClose(expected, total, 0, 1e-13, "total per bin");
@@ -64,7 +64,7 @@ public sealed class SimplexDosIntegratorTests
             {
                 var total = new double[grid.Bins];
                 var partial = withWeights ? new double[channels * grid.Bins] : [];
-                SimplexDosIntegrator.Accumulate(3, (m1, m2, m3), branches, frequencies, withWeights ? weights : null, withWeights ? channels : 0, grid, total, partial, vectors);
+                SimplexDosIntegrator.Accumulate(3, (m1, m2, m3), branches, frequencies, withWeights ? weights : null, withWeights ? channels : 0, grid, total, partial, vectors: vectors);
                 return (total, partial);
             }).ToArray();
 

@@ -45,4 +45,28 @@ public class ElasticSpringFitTests
         Approx.Equal(50, fit.Reproduced.C12Gpa, 1e-12, "C12");
         Approx.Equal(200, fit.Reproduced.C11Gpa, 1e-12, "C11");
     }
+
+    [Fact]
+    public void The_fit_reaches_the_point_result_with_its_residual_and_Christoffel_speeds()
+    {
+        // Issue 10 item 9. Christoffel speeds of a cubic crystal (Kittel ch. 3): [100] longitudinal
+        // sqrt(C11 / rho), transverse sqrt(C44 / rho); [110] also sqrt((C11 - C12) / 2 rho); [111]
+        // longitudinal sqrt((C11 + 2 C12 + 4 C44) / 3 rho). rho = m / V with V = a^3 / 4 for fcc.
+        var given = new CubicElasticConstants(170, 120, 75);
+        var model = ElasticSpringFit.BuildModel(LatticeKind.FaceCentredCubic, 0.36, 63.5, given, true, DegreesOfFreedom.Cartesian, out var fit);
+        var result = PhononSolver.Solve(model, BulkSample.Uniform(3, 4), new SolveOptions { TemperaturesK = [300], MeanSquareDisplacement = false, PartialDos = false });
+        var reported = result.ElasticFit ?? throw new Xunit.Sdk.XunitException("the result carries no elastic fit");
+        Assert.Equal(fit.RelativeResidual, reported.RelativeResidual);
+        Assert.True(reported.RelativeResidual > 0.01);
+        var rho = 63.5 * Units.PhysicalConstants.AtomicMassKg / (Math.Pow(0.36e-9, 3) / 4);
+        double V(double gpa) => Math.Sqrt(gpa * 1e9 / rho);
+        var s100 = reported.GivenSoundSpeeds.Single(s => s.Direction == "[100]").SpeedsMPerS;
+        Approx.Equal(V(given.C11Gpa), s100[2], 1e-12, "[100] longitudinal");
+        Approx.Equal(V(given.C44Gpa), s100[0], 1e-12, "[100] transverse");
+        var s110 = reported.GivenSoundSpeeds.Single(s => s.Direction == "[110]").SpeedsMPerS;
+        Assert.Contains(s110, v => Math.Abs(v - V((given.C11Gpa - given.C12Gpa) / 2)) < 1e-9 * v);
+        var s111 = reported.GivenSoundSpeeds.Single(s => s.Direction == "[111]").SpeedsMPerS;
+        Approx.Equal(V((given.C11Gpa + 2 * given.C12Gpa + 4 * given.C44Gpa) / 3), s111[2], 1e-12, "[111] longitudinal");
+        Assert.Null(PhononSolver.Solve(Crystals.FccCentral(), BulkSample.Uniform(3, 4), new SolveOptions { TemperaturesK = [300] }).ElasticFit);
+    }
 }

@@ -9,4 +9,11 @@ internal static class Approx
         Assert.True(Math.Abs(expected - actual) <= allowed,
             $"{what}: expected {expected:G12}, got {actual:G12} (difference {Math.Abs(expected - actual):G3}, allowed {allowed:G3})");
     }
+
+    /// <summary>As above for a result that may be null (undefined): null fails the comparison.</summary>
+    public static void Equal(double? expected, double? actual, double relative, string what = "", double absolute = 0)
+    {
+        Assert.True(expected is not null && actual is not null, $"{what}: expected {expected}, got {actual} (null means undefined)");
+        Equal(expected.Value, actual.Value, relative, what, absolute);
+    }
 }

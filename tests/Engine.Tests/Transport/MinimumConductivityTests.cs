@@ -73,4 +73,20 @@ public class MinimumConductivityTests
         Approx.Equal(handbook, si, 2e-3, "Slack estimate");
         Approx.Equal(3.04e-6, 2.43e-6 / (1 - 0.514 / 2 + 0.228 / 4), 2e-3, "A at gamma = 2");
     }
+
+    [Fact]
+    public void Slack_estimate_uses_the_printed_constant_exactly()
+    {
+        // Morelli and Slack (2006), ch. 2 print A = 2.43e-6 / (1 - 0.514/gamma + 0.228/gamma^2) for kappa in
+        // W/(m K), M in amu, delta in Angstrom (from memory). The engine's SI route must give that formula
+        // to round-off, not the 2.42944e-6 of Julian's closed form, which the printed number rounds to
+        // three figures (2.3e-4 apart). Inputs invented.
+        const double mass = 40, deltaAngstrom = 2.5, theta = 400, gamma = 1.7, t = 300;
+        const int atoms = 2;
+        var handbook = 2.43e-6 / (1 - 0.514 / gamma + 0.228 / (gamma * gamma)) * mass * deltaAngstrom * Math.Pow(theta, 3) * Math.Cbrt(atoms) / (gamma * gamma * t);
+        var si = SlackEstimate.WPerMK(mass, Math.Pow(deltaAngstrom * 1e-10, 3), atoms, theta, gamma, t);
+        Approx.Equal(handbook, si, 1e-12, "Slack estimate with the printed constant");
+        Approx.Equal(2.43e-6, SlackEstimate.ClosedFormPrefactor, 3e-4, "Julian's closed form rounds to the printed constant");
+        Assert.True(Math.Abs(SlackEstimate.ClosedFormPrefactor - 2.43e-6) > 1e-10, "the closed form is not the printed number itself");
+    }
 }

@@ -68,6 +68,69 @@ public sealed class CommandTests : IDisposable
     }
 
     [Fact]
+    public void Solve_of_an_elastic_fit_prints_its_residual_and_Christoffel_speeds()
+    {
+        // Issue 10 item 9: the fit's residual and its Christoffel speeds ([100] longitudinal
+        // sqrt(C11 / rho) = 4336.5 m/s for these constants, Kittel ch. 3) reach the summary.
+        var file = _dir.Write("elastic.toml", """
+            [model.elastic]
+            lattice = "fcc"
+            constant_nm = 0.36
+            mass_amu = 63.5
+            c11_gpa = 170
+            c12_gpa = 120
+            c44_gpa = 75
+            [sample]
+            kind = "bulk"
+            mesh = 4
+            """);
+        var (code, output, error) = Run(SolveCommand.Run, file);
+        Assert.Equal(0, code);
+        Assert.Equal("", error);
+        Assert.Contains("elastic fit residual", output, StringComparison.Ordinal);
+        var given = output.Split('\n').Single(l => l.Contains("Christoffel speeds [100], given C", StringComparison.Ordinal));
+        Assert.Contains("4336.4", given, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Solve_of_a_square_sheet_with_in_plane_motion_and_central_springs()
+    {
+        // Issue 10 item 8: the sheet that 3D motion refuses (nothing holds it out of its plane) solves with
+        // motion = "in_plane": two branches.
+        var file = _dir.Write("sheet.toml", """
+            [model]
+            lattice = "square"
+            constant_nm = 0.3
+            motion = "in_plane"
+            [[model.sites]]
+            label = "A"
+            mass_amu = 20.0
+            [[model.springs]]
+            from = "A"
+            to = "A"
+            shell = 1
+            longitudinal_n_per_m = 10.0
+            [[model.springs]]
+            from = "A"
+            to = "A"
+            shell = 2
+            longitudinal_n_per_m = 3.0
+            [sample]
+            kind = "bulk"
+            mesh = 16
+            """);
+        var (code, output, error) = Run(SolveCommand.Run, file);
+        Assert.Equal(0, code);
+        Assert.Equal("", error);
+        Assert.Matches(@"branches\s+2\b", output);
+        Assert.DoesNotContain("band gap", output, StringComparison.Ordinal); // issue 10 item 3: its DOS fills 0 to the top
+        var threeD = _dir.Write("sheet3d.toml", File.ReadAllText(file).Replace("motion = \"in_plane\"", "motion = \"3d\"", StringComparison.Ordinal));
+        var (refused, _, reason) = Run(SolveCommand.Run, threeD);
+        Assert.Equal(3, refused);
+        Assert.Contains("motion = \"in_plane\"", reason, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Solve_of_bad_input_exits_2()
     {
         var file = _dir.Write("bad.toml", "[model\n");

@@ -32,6 +32,16 @@ public sealed class BadInputTests : IDisposable
     }
 
     [Fact]
+    public void In_plane_motion_on_a_chain_is_refused_at_the_motion_key()
+    {
+        var text = Some.ChainJob().Replace("constant_nm = 0.5", "constant_nm = 0.5\nmotion = \"in_plane\"", StringComparison.Ordinal);
+        var p = Single(text, "motion");
+        Assert.Equal(Some.LineOf(text, "motion = \"in_plane\""), p.Line);
+        Assert.Contains("needs a 2D lattice", p.Message, StringComparison.Ordinal);
+        Assert.Contains("1D", p.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Duplicate_key_is_a_syntax_error_not_a_silent_overwrite()
     {
         var text = Some.ChainJob().Replace("constant_nm = 0.5", "constant_nm = 0.5\nconstant_nm = 0.6", StringComparison.Ordinal);

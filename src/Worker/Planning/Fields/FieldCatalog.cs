@@ -136,7 +136,7 @@ internal sealed class FieldCatalog
             var pi = i;
             var p = $"model.springs[{Index(i)}]";
             Number(p + ".longitudinal_n_per_m", Checks.SpringNPerM, (s, v) => SetSpring(s, pi, x => x with { LongitudinalNPerM = v }));
-            if (m.Motion == DegreesOfFreedom.Cartesian)
+            if (m.Motion != DegreesOfFreedom.Scalar)
             {
                 Number(p + ".transverse_n_per_m", Checks.SpringNPerM, (s, v) => SetSpring(s, pi, x => x with { TransverseNPerM = v }));
             }
@@ -155,7 +155,7 @@ internal sealed class FieldCatalog
             var bi = i;
             var p = $"model.bonds[{Index(i)}]";
             Number(p + ".longitudinal_n_per_m", Checks.SpringNPerM, (s, v) => SetBond(s, bi, x => x with { LongitudinalNPerM = v }));
-            if (m.Motion == DegreesOfFreedom.Cartesian)
+            if (m.Motion != DegreesOfFreedom.Scalar)
             {
                 Number(p + ".transverse_n_per_m", Checks.SpringNPerM, (s, v) => SetBond(s, bi, x => x with { TransverseNPerM = v }));
             }

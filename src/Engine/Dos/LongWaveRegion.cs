@@ -1,0 +1,637 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Units;
+using MathNet.Numerics.Integration;
+
+namespace LatticeSweep.Engine.Dos;
+
+/// <summary>
+/// The acoustic branches in a box of mesh cells around q = 0 (<see cref="LongWaveBox"/>, two cells
+/// each way), integrated from the model's own long waves instead of by linear simplices.
+/// <para>
+/// Why: near q = 0 an acoustic branch is a cone, omega = c(u) |q|, which no linear interpolation
+/// between mesh points follows. The simplices that touch q = 0 were the only source of states below
+/// the first mesh shell, and they put a nearly constant fraction of the Debye density there (0.58 on
+/// an 8^3 mesh, 0.54 on 16^3, 0.535 on 32^3 for a simple-cubic model with equal sound speeds: the
+/// deficit does not shrink with the mesh), so the low-temperature heat capacity was about half the
+/// T^3 law. The simplices of the next shell also blur the cone (states just outside the first shell
+/// are lifted above it), which is why the box spans two cells each way.
+/// </para>
+/// <para>
+/// How: rays from q = 0 cover the box (<see cref="CentredCellRays"/>: pyramids on its faces,
+/// Gauss-Legendre on each face); along each ray every acoustic branch is the model's own dispersion
+/// (<see cref="RayDispersion"/>: the Christoffel slope at q = 0 and three solves on the ray). The
+/// branch's states along a ray are distributed as d rho^(d-1) d rho over rho in [0, 1].
+/// Below omega_c, the lowest acoustic frequency at the end of any ray, every ray contributes a smooth
+/// density, so the total G(omega) = sum over rays of w d rho^(d-1) d rho / d omega is smooth on
+/// (0, omega_c]: the thermal sums take it by Gauss-Legendre on octaves of omega down to far below
+/// the lowest temperature's thermal frequency (exact at any temperature, including the ln omega of
+/// F and S and the 1/omega^2 of the displacements), not through the uniform DOS bins. Above omega_c
+/// (where rays end one by one) the states go into the fine bins like the simplices' states, the ray
+/// cut into panels on which omega is linear in rho. The DOS table gets both parts.
+/// </para>
+/// </summary>
+internal sealed class LongWaveRegion
+{
+    /// <summary>Half-width of the box in mesh cells along each direction on meshes of 32 and less (see <see cref="HalfWidths"/>).</summary>
+    public const int HalfWidthCells = 4;
+
+    /// <summary>Panels per ray in each of the two parts (below and above omega_c) for the DOS bins.</summary>
+    private const int Panels = 32;
+
+    /// <summary>Samples of d omega / d rho per ray for the monotonic part.</summary>
+    private const int MonotonicSamples = 64;
+
+    /// <summary>Gauss-Legendre nodes per octave of omega for the thermal sums below omega_c.</summary>
+    private const int NodesPerOctave = 8;
+
+    private static readonly GaussLegendreRule Octave = new(0.5, 1.0, NodesPerOctave);
+
+    private readonly CentredCellRays _geometry;
+    private readonly RayDispersion[] _rays;
+    private readonly double[] _weights;   // [r]: states per cell per branch along ray r
+    private readonly double[] _rhoSplit;  // [r * acoustic + k]: rho where omega_k = omega_c
+    private readonly bool[] _monotonic;   // [r * acoustic + k]: omega_k rises all along the ray
+    private readonly int _dimension;
+    private readonly int _acoustic;
+    private readonly int _channels;
+    private readonly bool _fractions;
+
+    private LongWaveRegion(LongWaveBox box, CentredCellRays geometry, RayDispersion[] rays, double[] weights, double omegaSplit, double[] rhoSplit, bool[] monotonic, int dimension, int channels, bool fractions)
+    {
+        Box = box;
+        _geometry = geometry;
+        _rays = rays;
+        _weights = weights;
+        OmegaSplit = omegaSplit;
+        _rhoSplit = rhoSplit;
+        _monotonic = monotonic;
+        _dimension = dimension;
+        _acoustic = box.Branches;
+        _channels = channels;
+        _fractions = fractions;
+    }
+
+    public LongWaveBox Box { get; }
+
+    /// <summary>omega_c (rad/s): below it the thermal sums take the rays' smooth density directly.</summary>
+    public double OmegaSplit { get; }
+
+    /// <summary>Number of eigen-solves <see cref="TryBuild"/> makes for a lattice of this dimension.</summary>
+    public static int SolveCount(int dimension) =>
+        dimension * (int)Math.Pow(CentredCellRays.FaceNodes(dimension), dimension - 1) * (RayDispersion.NodeY.Length + 1);
+
+    /// <summary>
+    /// The region for a mesh, or null when it cannot be used: a direction with a single mesh point, or
+    /// long waves that are not all stable with a positive slope (then the simplices cover everything,
+    /// as for an unstable or floppy model, whose thermal numbers are not trusted anyway).
+    /// </summary>
+    /// <param name="frequencyThz">The mesh's frequencies, [point * branches + branch], for the box size.</param>
+    public static LongWaveRegion? TryBuild(ModeSolver solver, BulkSample mesh, double[] frequencyThz, bool fractions)
+    {
+        var crystal = solver.Matrix.Crystal;
+        var lattice = crystal.Lattice;
+        var d = lattice.Dimension;
+        var half = HalfWidths(mesh, d, crystal.Components, crystal.Size, frequencyThz);
+        if (half is null)
+        {
+            return null;
+        }
+
+        var edges = new Vec3[d];
+        var share = 1.0;
+        for (var i = 0; i < d; i++)
+        {
+            edges[i] = 2.0 * half[i] / mesh[i] * lattice.ReciprocalVector(i);
+            share *= 2.0 * half[i] / mesh[i];
+        }
+
+        var acoustic = crystal.Components;
+        var cellRays = CentredCellRays.Build(d, edges);
+        var epsilon = Math.Min(1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice), 1e-2 * cellRays.ShortestRayM);
+        var rays = RayDispersion.MeasureAll(solver, cellRays.Rays, epsilon, fractions);
+        var weights = new double[rays.Length];
+        for (var r = 0; r < rays.Length; r++)
+        {
+            if (!rays[r].Stable)
+            {
+                return null;
+            }
+
+            weights[r] = cellRays.Rays[r].Weight * share;
+        }
+
+        // omega_c: the lowest frequency any ray-branch reaches while still rising from q = 0.
+        var rhoPeak = new double[rays.Length * acoustic];
+        var monotonic = new bool[rays.Length * acoustic];
+        var omegaSplit = double.PositiveInfinity;
+        for (var r = 0; r < rays.Length; r++)
+        {
+            for (var k = 0; k < acoustic; k++)
+            {
+                var peak = 1.0;
+                for (var i = 1; i <= MonotonicSamples; i++)
+                {
+                    if (!(rays[r].OmegaDerivative(k, (double)i / MonotonicSamples) > 0))
+                    {
+                        peak = (i - 1.0) / MonotonicSamples;
+                        break;
+                    }
+                }
+
+                monotonic[(r * acoustic) + k] = peak == 1.0;
+                rhoPeak[(r * acoustic) + k] = peak;
+                omegaSplit = Math.Min(omegaSplit, rays[r].Omega(k, peak));
+            }
+        }
+
+        var rhoSplit = new double[rays.Length * acoustic];
+        for (var r = 0; r < rays.Length; r++)
+        {
+            for (var k = 0; k < acoustic; k++)
+            {
+                var peak = rhoPeak[(r * acoustic) + k];
+                rhoSplit[(r * acoustic) + k] = omegaSplit <= 0 || peak == 0 ? 0 : rays[r].RhoOf(k, omegaSplit, peak);
+            }
+        }
+
+        return new LongWaveRegion(new LongWaveBox(half[0], half[1], half[2], acoustic), cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions);
+    }
+
+    /// <summary>
+    /// Half-widths K_i of the box in mesh cells: M_i / 8 (the box reaches an eighth of the reciprocal
+    /// vector each way) but at least four cells, and never beyond a quarter (M_i / 4, at least one):
+    /// the simplices just outside the box lift the cone's states by about (1/4) / K^2 of their
+    /// frequency (linear interpolation of a convex function), so a wider box in cells leaves less of
+    /// that, while longer rays are harder for the polynomial to follow. Halved while an acoustic frequency at a mesh point inside
+    /// the box reaches the lowest optical frequency of the mesh, so the lowest sorted branches in the
+    /// box are the acoustic ones (no crossing for the rays to follow). Unused directions take every
+    /// cell. Null for a direction with one mesh point.
+    /// </summary>
+    private static int[]? HalfWidths(BulkSample mesh, int d, int acoustic, int branches, double[] frequencyThz)
+    {
+        var half = new int[3];
+        for (var i = 0; i < 3; i++)
+        {
+            half[i] = i >= d ? int.MaxValue / 4 : Math.Max(1, Math.Min(Math.Max(HalfWidthCells, mesh[i] / 8), mesh[i] / 4));
+            if (half[i] < 1)
+            {
+                return null;
+            }
+        }
+
+        if (acoustic >= branches)
+        {
+            return half;
+        }
+
+        var lowestOptical = double.PositiveInfinity;
+        for (long p = 0; p < mesh.PointCount; p++)
+        {
+            lowestOptical = Math.Min(lowestOptical, frequencyThz[(p * branches) + acoustic]);
+        }
+
+        while (true)
+        {
+            var top = 0.0;
+            int Lo(int i) => i < d ? (mesh[i] / 2) - half[i] : 0;
+            int Hi(int i) => i < d ? (mesh[i] / 2) + half[i] : 0;
+            for (var i1 = Lo(0); i1 <= Hi(0); i1++)
+            {
+                for (var i2 = Lo(1); i2 <= Hi(1); i2++)
+                {
+                    for (var i3 = Lo(2); i3 <= Hi(2); i3++)
+                    {
+                        var p = (((long)Wrap(i1, mesh.M1) * mesh.M2) + Wrap(i2, mesh.M2)) * mesh.M3 + Wrap(i3, mesh.M3);
+                        top = Math.Max(top, frequencyThz[(p * branches) + acoustic - 1]);
+                    }
+                }
+            }
+
+            var all1 = true;
+            for (var i = 0; i < d; i++)
+            {
+                all1 &= half[i] == 1;
+            }
+
+            if (top < lowestOptical || all1)
+            {
+                return half;
+            }
+
+            for (var i = 0; i < d; i++)
+            {
+                half[i] = Math.Max(1, half[i] / 2);
+            }
+        }
+    }
+
+    private static int Wrap(int i, int m) => ((i % m) + m) % m;
+
+    /// <summary>
+    /// States above omega_c into bins (states per cell per bin). For the thermal sums each ray ends
+    /// sharply: the face quadrature is exact for smooth functions of the face position, which the sums
+    /// are. For the DOS table (<paramref name="spreadEnds"/>) each ray's end is spread over the ends of
+    /// its patch of the face, so the table has no staircase of 64 ray ends per face; the spreading
+    /// would bias the sums (it moves the mean frequency of the tail by sigma^2 / 2h), so it is not
+    /// used for them.
+    /// </summary>
+    public void DepositAboveSplit(FrequencyGrid grid, double[] total, double[] partial, bool spreadEnds, BinMoments? moments = null) =>
+        Deposit(grid, total, partial, above: true, spreadEnds, moments);
+
+    /// <summary>
+    /// States below omega_c into bins for the DOS table only (the thermal sums take them from
+    /// <see cref="AddBelowSplit"/>), so the output grid will do.
+    /// </summary>
+    public void DepositBelowSplit(FrequencyGrid grid, double[] total, double[] partial) => Deposit(grid, total, partial, above: false, spreadEnds: false, moments: null);
+
+    /// <summary>
+    /// The states below omega_c into the thermal sums: Gauss-Legendre on octaves of omega from omega_c
+    /// down to 1e-6 of the lowest temperature's thermal frequency (and at least 2^-30 omega_c); what
+    /// lies below is one point at omega_lo e^(-1/d), which keeps the constant and ln omega parts of
+    /// that sliver exact (there the density is A omega^(d-1)). Where every ray is still close to
+    /// linear (the dispersion's next term below 1e-12) the density is its series,
+    /// G = A omega^(d-1) + B omega^(d+1); above, each ray-branch's rho(omega) by Newton, warm-started
+    /// from the node before.
+    /// </summary>
+    public void AddBelowSplit(ModeSink sink, ReadOnlySpan<double> temperaturesK)
+    {
+        var omegaC = OmegaSplit;
+        if (!(omegaC > 0))
+        {
+            return;
+        }
+
+        var coldest = double.PositiveInfinity;
+        foreach (var t in temperaturesK)
+        {
+            if (t > 0)
+            {
+                coldest = Math.Min(coldest, t);
+            }
+        }
+
+        var floor = omegaC * Math.Pow(2, -30);
+        if (double.IsFinite(coldest))
+        {
+            floor = Math.Min(floor, 1e-6 * PhysicalConstants.BoltzmannJPerK * coldest / PhysicalConstants.HbarJS);
+        }
+
+        var octaves = (int)Math.Clamp(Math.Ceiling(Math.Log2(omegaC / floor)), 1, 80);
+        var d = _dimension;
+        var channels = _fractions ? _channels : 0;
+
+        // Nodes, highest first.
+        var count = octaves * NodesPerOctave;
+        var omega = new double[count];
+        var quadrature = new double[count];
+        var upper = omegaC;
+        for (var o = 0; o < octaves; o++)
+        {
+            for (var i = 0; i < NodesPerOctave; i++)
+            {
+                var g = NodesPerOctave - 1 - i;
+                omega[(o * NodesPerOctave) + i] = Octave.Abscissas[g] * upper;
+                quadrature[(o * NodesPerOctave) + i] = Octave.Weights[g] * upper;
+            }
+
+            upper *= 0.5;
+        }
+
+        // Series part: g_rk = w d omega^(d-1) / s0^d [1 - (d + 2) (c1 / s0^3) omega^2], fractions f0 + f' y.
+        double a = 0, b = 0;
+        var aChannels = new double[channels];
+        var bChannels = new double[channels];
+        var f0 = new double[_channels];
+        var f1 = new double[_channels];
+        var seriesBelow = omegaC;
+        for (var r = 0; r < _rays.Length; r++)
+        {
+            var ray = _rays[r];
+            for (var k = 0; k < _acoustic; k++)
+            {
+                var s0 = ray.Slope(k);
+                var c1 = ray.Curvature(k) / s0;
+                var baseline = _weights[r] * d / Math.Pow(s0, d);
+                var curvature = -(d + 2) * c1 / (s0 * s0);
+                a += baseline;
+                b += baseline * curvature;
+                seriesBelow = Math.Min(seriesBelow, s0 * Math.Sqrt(Math.Min(1e-6 / Math.Max(ray.DispersionScale(k), 1e-300), RayDispersion.NodeY[1])));
+                if (channels > 0)
+                {
+                    ray.Fractions(k, 0, f0);
+                    ray.Fractions(k, Math.Sqrt(RayDispersion.NodeY[1]), f1);
+                    for (var c = 0; c < channels; c++)
+                    {
+                        aChannels[c] += baseline * f0[c];
+                        bChannels[c] += baseline * ((curvature * f0[c]) + ((f1[c] - f0[c]) / (RayDispersion.NodeY[1] * s0 * s0)));
+                    }
+                }
+            }
+        }
+
+        // Exact part, ray-branch by ray-branch over the nodes above the series range.
+        var exact = 0;
+        while (exact < count && omega[exact] > seriesBelow)
+        {
+            exact++;
+        }
+
+        var density = new double[exact];
+        var channelDensity = new double[exact * channels];
+        var scratch = new double[_channels];
+        for (var r = 0; r < _rays.Length; r++)
+        {
+            var ray = _rays[r];
+            for (var k = 0; k < _acoustic; k++)
+            {
+                var rhoC = _rhoSplit[(r * _acoustic) + k];
+                var rho = Math.Min(omega[0] / ray.Slope(k), rhoC);
+                var previous = omega[0];
+                for (var node = 0; node < exact; node++)
+                {
+                    rho = Root(ray, k, omega[node], rho * (omega[node] / previous), rhoC);
+                    previous = omega[node];
+                    var gk = _weights[r] * d * Math.Pow(rho, d - 1) / ray.OmegaDerivative(k, rho);
+                    density[node] += gk;
+                    if (channels > 0)
+                    {
+                        ray.Fractions(k, rho, scratch);
+                        for (var c = 0; c < channels; c++)
+                        {
+                            channelDensity[(node * channels) + c] += gk * scratch[c];
+                        }
+                    }
+                }
+            }
+        }
+
+        var fractions = channels > 0 ? new double[channels] : null;
+        for (var node = 0; node < count; node++)
+        {
+            var w = omega[node];
+            var power = Math.Pow(w, d - 1);
+            var g = node < exact ? density[node] : power * (a + (b * w * w));
+            if (!(g > 0))
+            {
+                continue;
+            }
+
+            for (var c = 0; c < channels; c++)
+            {
+                fractions![c] = (node < exact ? channelDensity[(node * channels) + c] : power * (aChannels[c] + (bChannels[c] * w * w))) / g;
+            }
+
+            sink.Add(w, quadrature[node] * g, fractions);
+        }
+
+        // The sliver [0, upper]: states A upper^d / d at upper e^(-1/d).
+        for (var c = 0; c < channels; c++)
+        {
+            fractions![c] = aChannels[c] / a;
+        }
+
+        sink.Add(upper * Math.Exp(-1.0 / d), a * Math.Pow(upper, d) / d, fractions);
+    }
+
+    /// <summary>rho with omega_k(rho) = omega by Newton from a close guess; falls back to the bracketed solve.</summary>
+    private static double Root(RayDispersion ray, int k, double omega, double guess, double rhoMax)
+    {
+        var rho = guess;
+        for (var it = 0; it < 4; it++)
+        {
+            var next = rho - ((ray.Omega(k, rho) - omega) / ray.OmegaDerivative(k, rho));
+            if (!(next > 0 && next <= rhoMax))
+            {
+                return ray.RhoOf(k, omega, rhoMax);
+            }
+
+            var step = Math.Abs(next - rho);
+            rho = next;
+            if (step <= 1e-14 * rho)
+            {
+                return rho;
+            }
+        }
+
+        return ray.RhoOf(k, omega, rhoMax);
+    }
+
+    private void Deposit(FrequencyGrid grid, double[] total, double[] partial, bool above, bool spreadEnds, BinMoments? moments)
+    {
+        var d = _dimension;
+        var mean = _fractions && partial.Length > 0 ? new double[_channels] : null;
+        for (var r = 0; r < _rays.Length; r++)
+        {
+            var ray = _rays[r];
+            for (var k = 0; k < _acoustic; k++)
+            {
+                var split = _rhoSplit[(r * _acoustic) + k];
+                var (from, to) = above ? (split, 1.0) : (0.0, split);
+                if (!(to > from))
+                {
+                    continue;
+                }
+
+                // Above omega_c the ray's end stands for the ends of its patch of the face: spread it.
+                var (halfSpread, spreadS, spreadT) = spreadEnds ? EndSpread(r, k) : (0.0, 0.0, 0.0);
+                var end = ray.Omega(k, 1.0);
+                var tailFrom = Math.Clamp(halfSpread > 0 ? ray.RhoOf(k, end - halfSpread, 1.0) : to, from, to);
+                var step = (tailFrom - from) / Panels;
+                for (var p = 0; p < Panels && step > 0; p++)
+                {
+                    var rhoA = from + (p * step);
+                    var rhoB = p == Panels - 1 ? tailFrom : rhoA + step;
+                    if (mean is not null)
+                    {
+                        ray.Fractions(k, 0.5 * (rhoA + rhoB), mean);
+                    }
+
+                    DepositPanel(grid, total, partial, mean, _weights[r], d, rhoA, ray.Omega(k, rhoA), rhoB, ray.Omega(k, rhoB), moments);
+                }
+
+                if (tailFrom < to)
+                {
+                    if (mean is not null)
+                    {
+                        ray.Fractions(k, 0.5 * (tailFrom + to), mean);
+                    }
+
+                    var states = _weights[r] * (Power(to, d) - Power(tailFrom, d));
+                    DepositSpreadEnd(grid, total, partial, mean, states, end, spreadS, spreadT);
+                }
+            }
+        }
+    }
+
+    /// <summary>
+    /// How far the ray ends of the face patch around ray r spread in frequency: omega_end varies across
+    /// the patch (about one Gauss-Legendre weight wide in each face direction) by A and B, estimated
+    /// from the neighbouring rays. Returns (A + B) / 2 (kept above omega_c) and A, B; zeros where the
+    /// branch does not rise all along the ray or the patch has no neighbours (1D).
+    /// </summary>
+    private (double Half, double A, double B) EndSpread(int r, int k)
+    {
+        if (!_monotonic[(r * _acoustic) + k])
+        {
+            return (0, 0, 0);
+        }
+
+        var ray = _geometry.Rays[r];
+        var x = _geometry.FaceAbscissas;
+        var w = _geometry.FaceWeights;
+        double Along(bool first)
+        {
+            var index = first ? ray.I : ray.J;
+            int Neighbour(int offset) => first ? _geometry.IndexOf(ray.Face, ray.I + offset, ray.J) : _geometry.IndexOf(ray.Face, ray.I, ray.J + offset);
+            var up = Neighbour(1);
+            var down = Neighbour(-1);
+            if (up < 0 && down < 0)
+            {
+                return 0;
+            }
+
+            var (hiRay, hiX) = up >= 0 ? (up, x[index + 1]) : (r, x[index]);
+            var (loRay, loX) = down >= 0 ? (down, x[index - 1]) : (r, x[index]);
+            if (!_monotonic[(hiRay * _acoustic) + k] || !_monotonic[(loRay * _acoustic) + k])
+            {
+                return 0;
+            }
+
+            var slope = (_rays[hiRay].Omega(k, 1.0) - _rays[loRay].Omega(k, 1.0)) / (hiX - loX);
+            return Math.Abs(slope) * w[index];
+        }
+
+        var a = _dimension >= 2 ? Along(first: true) : 0;
+        var b = _dimension >= 3 ? Along(first: false) : 0;
+        var room = _rays[r].Omega(k, 1.0) - OmegaSplit;
+        var half = Math.Min(0.5 * (a + b), room);
+        if (!(half > 1e-9 * OmegaSplit))
+        {
+            return (0, 0, 0);
+        }
+
+        var scale = half / (0.5 * (a + b));
+        return (half, a * scale, b * scale);
+    }
+
+    /// <summary>
+    /// A ray's last states spread over [end - h, end + h], h = (A + B) / 2: their density follows
+    /// P(omega_end of the patch > E) for ends distributed as the sum of two uniforms of widths A and B
+    /// (a linear omega_end across a rectangular patch). Deposited bin by bin from the exact cumulative
+    /// count, (x + h) - E[(x - X)_+] with x = E - end (normalised to h).
+    /// </summary>
+    private static void DepositSpreadEnd(FrequencyGrid grid, double[] total, double[] partial, double[]? fractions, double states, double endOmega, double a, double b)
+    {
+        const double thzPerRadPerS = 1.0 / (2 * Math.PI * 1e12);
+        if (b > a)
+        {
+            (a, b) = (b, a);
+        }
+
+        var h = 0.5 * (a + b);
+        double Below(double x)
+        {
+            if (x <= -h)
+            {
+                return 0;
+            }
+
+            if (x >= h)
+            {
+                return 1;
+            }
+
+            static double Q(double z) => z > 0 ? 0.5 * z * z : 0;
+            static double R(double z) => z > 0 ? z * z * z / 6 : 0;
+            var mean = b < 1e-3 * a
+                ? (Q(x + (0.5 * a)) - Q(x - (0.5 * a))) / a
+                : (R(x + h) - R(x + (0.5 * (a - b))) - R(x - (0.5 * (a - b))) + R(x - h)) / (a * b);
+            return Math.Clamp((x + h - mean) / h, 0.0, 1.0);
+        }
+
+        var first = grid.BinOf((endOmega - h) * thzPerRadPerS);
+        var last = grid.BinOf((endOmega + h) * thzPerRadPerS);
+        var below = 0.0;
+        for (var bin = first; bin < last; bin++)
+        {
+            var cumulative = states * Below((grid.Edge(bin + 1) / thzPerRadPerS) - endOmega);
+            Put(bin, cumulative - below, grid.Bins, total, partial, fractions);
+            below = cumulative;
+        }
+
+        Put(last, states - below, grid.Bins, total, partial, fractions);
+    }
+
+    /// <summary>
+    /// States w (rho_b^d - rho_a^d) of a panel on which omega is linear in rho, bin by bin from the exact
+    /// cumulative count w |rho(E)^d - rho_low^d|, rho_low the end with the lower frequency.
+    /// </summary>
+    private static void DepositPanel(FrequencyGrid grid, double[] total, double[] partial, double[]? fractions, double w, int d, double rhoA, double omegaA, double rhoB, double omegaB, BinMoments? moments)
+    {
+        var states = w * (Power(rhoB, d) - Power(rhoA, d));
+        var fa = omegaA / (2 * Math.PI * 1e12);
+        var fb = omegaB / (2 * Math.PI * 1e12);
+        var (rhoLow, fLow, rhoHigh, fHigh) = fa <= fb ? (rhoA, fa, rhoB, fb) : (rhoB, fb, rhoA, fa);
+        var degenerate = fHigh - fLow <= 1e-12 * fHigh;
+        if (moments is not null)
+        {
+            if (degenerate)
+            {
+                moments.AddPoint(grid, 0.5 * (fLow + fHigh), states);
+            }
+            else
+            {
+                // Density w d rho^(d-1) |d rho / df| with rho = rhoLow + s u, u = f - fLow.
+                var slope = (rhoHigh - rhoLow) / (fHigh - fLow);
+                var scale = w * d * Math.Abs(slope);
+                var (c0, c1, c2) = d switch
+                {
+                    1 => (scale, 0.0, 0.0),
+                    2 => (scale * rhoLow, scale * slope, 0.0),
+                    _ => (scale * rhoLow * rhoLow, 2 * scale * rhoLow * slope, scale * slope * slope),
+                };
+                moments.AddPiece(grid, fLow, fHigh, c0, c1, c2);
+            }
+        }
+
+        var first = grid.BinOf(fLow);
+        var last = grid.BinOf(fHigh);
+        if (first == last || degenerate)
+        {
+            Put(first, states, grid.Bins, total, partial, fractions);
+            return;
+        }
+
+        var below = 0.0;
+        var low = Power(rhoLow, d);
+        for (var bin = first; bin < last; bin++)
+        {
+            var edge = grid.Edge(bin + 1);
+            var rho = rhoA + ((edge - fa) / (fb - fa) * (rhoB - rhoA));
+            var cumulative = w * Math.Abs(Power(rho, d) - low);
+            Put(bin, cumulative - below, grid.Bins, total, partial, fractions);
+            below = cumulative;
+        }
+
+        Put(last, states - below, grid.Bins, total, partial, fractions);
+    }
+
+    private static double Power(double rho, int d) => d switch { 1 => rho, 2 => rho * rho, _ => rho * rho * rho };
+
+    private static void Put(int bin, double amount, int bins, double[] total, double[] partial, double[]? fractions)
+    {
+        total[bin] += amount;
+        if (fractions is null)
+        {
+            return;
+        }
+
+        for (var c = 0; c < fractions.Length; c++)
+        {
+            partial[(c * bins) + bin] += amount * fractions[c];
+        }
+    }
+}
