@@ -36,6 +36,13 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     {
     }
 
+    /// <summary>
+    /// Point rows per INSERT statement when a sweep is registered: many, where a statement costs a
+    /// round trip to a server; few where the provider binds parameters by name at a cost that
+    /// grows with their number (see <see cref="SqliteSweepCatalog"/>).
+    /// </summary>
+    protected virtual int PointRowsPerInsert => 128;
+
     /// <summary>Creates the catalog tables when missing. Call once after construction.</summary>
     protected void EnsureSchema()
     {
@@ -85,15 +92,15 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         // Many rows per statement: a statement call costs more than the row it inserts (a million points).
-        const int RowsPerStatement = 128;
+        var rowsPerStatement = PointRowsPerInsert;
         var waiting = Text(PointState.Waiting);
         DbCommand? full = null;
         try
         {
-            for (var start = 0; start < sweep.Points.Length; start += RowsPerStatement)
+            for (var start = 0; start < sweep.Points.Length; start += rowsPerStatement)
             {
-                var count = Math.Min(RowsPerStatement, sweep.Points.Length - start);
-                var insert = count == RowsPerStatement ? full ??= InsertPoints(c, tx, count) : InsertPoints(c, tx, count);
+                var count = Math.Min(rowsPerStatement, sweep.Points.Length - start);
+                var insert = count == rowsPerStatement ? full ??= InsertPoints(c, tx, count) : InsertPoints(c, tx, count);
                 for (var i = 0; i < count; i++)
                 {
                     var point = sweep.Points[start + i];
