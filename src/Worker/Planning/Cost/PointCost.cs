@@ -37,21 +37,22 @@ public static class PointCost
     /// solves of its own); per eigen-solve (values only) and per solve x n^3; the same with eigenvectors; per mode
     /// streamed into a finite crystal's sums; per bulk mesh simplex x branch; per
     /// temperature x DOS bin; per conductivity flop-equivalent. Measured by `bench/run.sh cost`
-    /// (non-negative least squares on the relative error of 24 solves' CPU time, 2026-12-02; every
-    /// case then within 0.45x to 1.35x of its measured time; see bench/README.md).
+    /// (non-negative least squares on the relative error of 24 solves' CPU time, 2026-12-02 16:30 UTC,
+    /// after the lane-parallel eigen-solvers and the 256-bit tetrahedron kernel; every case then
+    /// within 0.56x to 1.22x of its measured time; see bench/README.md).
     /// </summary>
     public static readonly double[] SecondsPerUnit =
     [
-        5.42e-4,   // per point
-        5.33e-8,   // per point x n^3
+        5.15e-4,   // per point
+        4.21e-8,   // per point x n^3
         0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
-        2.03e-10,  // per solve x n^3, values
-        2.30e-6,   // per solve, vectors
-        2.68e-9,   // per solve x n^3, vectors
-        8.68e-8,   // per mode streamed (finite)
-        1.18e-7,   // per bulk mesh simplex x branch
-        4.86e-9,   // per temperature x bin
-        8.65e-10,  // per conductivity flop-equivalent (1.2e9 of ConductivityWork's flops per second)
+        3.65e-10,  // per solve x n^3, values
+        1.33e-6,   // per solve, vectors
+        3.34e-9,   // per solve x n^3, vectors
+        7.88e-8,   // per mode streamed (finite)
+        7.13e-8,   // per bulk mesh simplex x branch
+        3.39e-8,   // per temperature x bin
+        8.67e-10,  // per conductivity flop-equivalent (1.2e9 of ConductivityWork's flops per second)
     ];
 
     /// <summary>Estimated single-core seconds for the point.</summary>
