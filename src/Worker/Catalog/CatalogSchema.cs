@@ -1,7 +1,7 @@
 namespace LatticeSweep.Worker.Catalog;
 
 /// <summary>
-/// The catalog's two tables, in SQL that SQLite and PostgreSQL both accept. Times are Unix
+/// The catalog's tables (sweeps, points, and the points per sweep and state), in SQL that SQLite and PostgreSQL both accept. Times are Unix
 /// milliseconds (UTC), durations microseconds. Prefixed so they sit beside the queue's own tables.
 /// </summary>
 internal static class CatalogSchema
@@ -48,5 +48,16 @@ internal static class CatalogSchema
         """,
         "CREATE INDEX IF NOT EXISTS latsweep_points_by_chunk ON latsweep_points (sweep_id, chunk_id)",
         "CREATE INDEX IF NOT EXISTS latsweep_points_by_state ON latsweep_points (sweep_id, state)",
+
+        // Points per sweep and state, kept in step with latsweep_points in the same transactions,
+        // so counts (status, the dashboard, every chunk's completion) never scan a sweep's points.
+        """
+        CREATE TABLE IF NOT EXISTS latsweep_sweep_counts (
+            sweep_id TEXT NOT NULL,
+            state TEXT NOT NULL,
+            points BIGINT NOT NULL,
+            PRIMARY KEY (sweep_id, state)
+        )
+        """,
     ];
 }

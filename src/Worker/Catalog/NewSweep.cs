@@ -20,4 +20,4 @@ public sealed record NewSweep
 }
 
 /// <summary>One point to register.</summary>
-public sealed record NewPoint(string PointId, int Index, string ChunkId, ImmutableSortedDictionary<string, object> Parameters);
+public sealed record NewPoint(string PointId, int Index, string ChunkId, IReadOnlyDictionary<string, object> Parameters);

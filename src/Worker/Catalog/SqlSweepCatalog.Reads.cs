@@ -204,20 +204,6 @@ public abstract partial class SqlSweepCatalog
         return list;
     }
 
-    private static Dictionary<string, SweepCounts> ReadAllCounts(DbConnection c)
-    {
-        using var cmd = Command(c, null, "SELECT sweep_id, state, COUNT(*) FROM latsweep_points GROUP BY sweep_id, state");
-        using var r = cmd.ExecuteReader();
-        var map = new Dictionary<string, SweepCounts>(StringComparer.Ordinal);
-        while (r.Read())
-        {
-            var id = r.GetString(0);
-            map[id] = Count(map.GetValueOrDefault(id, SweepCounts.Empty), ParsePointState(r.GetString(1)), r.GetInt64(2));
-        }
-
-        return map;
-    }
-
     private static Dictionary<string, AxisValueType> ReadAxisTypes(DbConnection c, string sweepId)
     {
         using var cmd = Command(c, null, "SELECT axes_json FROM latsweep_sweeps WHERE sweep_id = @sweep");

@@ -9,9 +9,10 @@ namespace LatticeSweep.Worker.Catalog;
 /// supplies its connections and its way to serialise schema creation.
 /// </summary>
 /// <remarks>
-/// Concurrency: a chunk's points are updated in one transaction that then locks the sweep's row
-/// (an UPDATE, which both databases treat as a row or database write lock) before counting what is
-/// left, so when two chunks finish at once exactly one of them sees the sweep finished.
+/// Concurrency: every write that changes point states first locks the sweep's row (an UPDATE,
+/// which both databases treat as a row or database write lock), then changes the points and adds
+/// the change to the sweep's counts (<c>latsweep_sweep_counts</c>) in the same transaction, so
+/// the counts stay exact and when two chunks finish at once exactly one of them sees the sweep finished.
 /// </remarks>
 public abstract partial class SqlSweepCatalog : ISweepCatalog
 {
@@ -35,6 +36,13 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     {
     }
 
+    /// <summary>
+    /// Point rows per INSERT statement when a sweep is registered: many, where a statement costs a
+    /// round trip to a server; few where the provider binds parameters by name at a cost that
+    /// grows with their number (see <see cref="SqliteSweepCatalog"/>).
+    /// </summary>
+    protected virtual int PointRowsPerInsert => 128;
+
     /// <summary>Creates the catalog tables when missing. Call once after construction.</summary>
     protected void EnsureSchema()
     {
@@ -46,6 +54,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             Execute(c, tx, statement);
         }
 
+        CountOlderSweeps(c, tx);
         tx.Commit();
     }
 
@@ -83,15 +92,15 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         // Many rows per statement: a statement call costs more than the row it inserts (a million points).
-        const int RowsPerStatement = 128;
+        var rowsPerStatement = PointRowsPerInsert;
         var waiting = Text(PointState.Waiting);
         DbCommand? full = null;
         try
         {
-            for (var start = 0; start < sweep.Points.Length; start += RowsPerStatement)
+            for (var start = 0; start < sweep.Points.Length; start += rowsPerStatement)
             {
-                var count = Math.Min(RowsPerStatement, sweep.Points.Length - start);
-                var insert = count == RowsPerStatement ? full ??= InsertPoints(c, tx, count) : InsertPoints(c, tx, count);
+                var count = Math.Min(rowsPerStatement, sweep.Points.Length - start);
+                var insert = count == rowsPerStatement ? full ??= InsertPoints(c, tx, count) : InsertPoints(c, tx, count);
                 for (var i = 0; i < count; i++)
                 {
                     var point = sweep.Points[start + i];
@@ -116,6 +125,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             full?.Dispose();
         }
 
+        AddCountChange(c, tx, sweep.SweepId, new Dictionary<string, long>(), new Dictionary<string, long> { [waiting] = sweep.Points.Length });
         tx.Commit();
         return true;
     }
@@ -142,6 +152,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     {
         using var c = Open();
         using var tx = c.BeginTransaction();
+        LockSweep(c, tx, sweepId);
         var chunks = new List<string>();
         using (var cmd = Command(c, tx, $"""
             SELECT DISTINCT chunk_id FROM latsweep_points
@@ -160,6 +171,8 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         // The whole chunk goes back: its part files are rewritten as one (see ChunkRunner).
         foreach (var chunk in chunks)
         {
+            var before = ChunkStates(c, tx, sweepId, chunk);
+            AddCountChange(c, tx, sweepId, before, new Dictionary<string, long> { [Text(PointState.Waiting)] = before.Values.Sum() });
             Execute(c, tx, """
                 UPDATE latsweep_points SET state = @waiting, failure_kind = NULL, error = NULL
                 WHERE sweep_id = @sweep AND chunk_id = @chunk
@@ -181,6 +194,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     {
         using var c = Open();
         using var tx = c.BeginTransaction();
+        LockSweep(c, tx, sweepId);
         var sweepState = ReadSweepState(c, tx, sweepId);
         if (sweepState is null)
         {
@@ -195,8 +209,17 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             return new ChunkClaim(ChunkDecision.Unknown, []);
         }
 
+        var before = ChunkStates(c, tx, sweepId, chunkId);
         if (sweepState == SweepState.Cancelled)
         {
+            var waitingOrRunning = before.GetValueOrDefault(Text(PointState.Waiting)) + before.GetValueOrDefault(Text(PointState.Running));
+            var after = new Dictionary<string, long>(before, StringComparer.Ordinal)
+            {
+                [Text(PointState.Waiting)] = 0,
+                [Text(PointState.Running)] = 0,
+                [Text(PointState.Cancelled)] = before.GetValueOrDefault(Text(PointState.Cancelled)) + waitingOrRunning,
+            };
+            AddCountChange(c, tx, sweepId, before, after);
             Execute(c, tx, """
                 UPDATE latsweep_points SET state = @cancelled
                 WHERE sweep_id = @sweep AND chunk_id = @chunk AND state IN (@waiting, @running)
@@ -214,6 +237,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         var now = Ms(_time.GetUtcNow());
+        AddCountChange(c, tx, sweepId, before, new Dictionary<string, long> { [Text(PointState.Running)] = points.Count });
         Execute(c, tx, """
             UPDATE latsweep_points SET state = @running, attempts = attempts + 1, started_ms = @now,
                 finished_ms = NULL, duration_us = NULL, failure_kind = NULL, error = NULL, worker = @worker
@@ -255,6 +279,10 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         ArgumentNullException.ThrowIfNull(points);
         using var c = Open();
         using var tx = c.BeginTransaction();
+
+        // Lock the sweep row first, then change and count: see the class remarks.
+        LockSweep(c, tx, sweepId);
+        var before = ChunkStates(c, tx, sweepId, chunkId);
         using (var cmd = Command(c, tx, """
             UPDATE latsweep_points SET state = @state, failure_kind = @kind, error = @error,
                 started_ms = @started, finished_ms = @finished, duration_us = @duration
@@ -283,8 +311,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             }
         }
 
-        // Lock the sweep row, then count: see the class remarks.
-        Execute(c, tx, "UPDATE latsweep_sweeps SET sweep_id = sweep_id WHERE sweep_id = @sweep", ("sweep", sweepId));
+        AddCountChange(c, tx, sweepId, before, ChunkStates(c, tx, sweepId, chunkId));
         var counts = ReadCounts(c, tx, sweepId);
         var state = ReadSweepState(c, tx, sweepId) ?? SweepState.Queued;
         var finishedNow = false;
@@ -316,8 +343,11 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             return false;
         }
 
-        Execute(c, tx, "UPDATE latsweep_points SET state = @cancelled WHERE sweep_id = @sweep AND state = @waiting",
+        var cancelled = Execute(c, tx, "UPDATE latsweep_points SET state = @cancelled WHERE sweep_id = @sweep AND state = @waiting",
             ("cancelled", Text(PointState.Cancelled)), ("sweep", sweepId), ("waiting", Text(PointState.Waiting)));
+        AddCountChange(c, tx, sweepId,
+            new Dictionary<string, long> { [Text(PointState.Waiting)] = cancelled },
+            new Dictionary<string, long> { [Text(PointState.Cancelled)] = cancelled });
         tx.Commit();
         return true;
     }
@@ -369,19 +399,5 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         return list;
-    }
-
-    private static SweepCounts ReadCounts(DbConnection c, DbTransaction? tx, string sweepId)
-    {
-        using var cmd = Command(c, tx, "SELECT state, COUNT(*) FROM latsweep_points WHERE sweep_id = @sweep GROUP BY state");
-        Add(cmd, "sweep", sweepId);
-        using var r = cmd.ExecuteReader();
-        var counts = SweepCounts.Empty;
-        while (r.Read())
-        {
-            counts = Count(counts, ParsePointState(r.GetString(0)), r.GetInt64(1));
-        }
-
-        return counts;
     }
 }

@@ -1,5 +1,3 @@
-using System.Collections.Immutable;
-
 namespace LatticeSweep.Worker.Planning;
 
 /// <summary>
@@ -7,4 +5,4 @@ namespace LatticeSweep.Worker.Planning;
 /// plan, and the value of every swept parameter keyed by the parameter's column name. Values are
 /// double, long, string or bool.
 /// </summary>
-public sealed record PlannedPoint(string PointId, int Index, ImmutableSortedDictionary<string, object> Parameters);
+public sealed record PlannedPoint(string PointId, int Index, PointParameters Parameters);

@@ -38,4 +38,29 @@ internal static class PointIdentity
 
     public static string Hash(string text) =>
         Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(text)))[..16];
+
+    /// <summary>
+    /// The same as <see cref="Hash(string)"/> of <paramref name="head"/> followed by the
+    /// <paramref name="lines"/> joined with newlines, hashed as it goes (a million point ids are
+    /// never joined into one string).
+    /// </summary>
+    public static string Hash(string head, IEnumerable<string> lines)
+    {
+        using var sha = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
+        sha.AppendData(Encoding.UTF8.GetBytes(head));
+        var newline = "\n"u8.ToArray();
+        var first = true;
+        foreach (var line in lines)
+        {
+            if (!first)
+            {
+                sha.AppendData(newline);
+            }
+
+            sha.AppendData(Encoding.UTF8.GetBytes(line));
+            first = false;
+        }
+
+        return Convert.ToHexStringLower(sha.GetHashAndReset())[..16];
+    }
 }

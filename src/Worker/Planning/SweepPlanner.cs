@@ -85,7 +85,8 @@ internal static class SweepPlanner
 
         var specHash = PointIdentity.Hash(
             "name=" + sweep.Name + "\ncombine=" + CombineNames[sweep.Combine] + "\ncandidates=" + (candidateTable?.ContentHash ?? "-") + "\n"
-            + CanonicalSpec.Write(baseSpec, options) + string.Join('\n', points.Select(p => p.PointId)));
+            + CanonicalSpec.Write(baseSpec, options),
+            points.Select(p => p.PointId));
 
         return new SweepPlan
         {
@@ -118,6 +119,10 @@ internal static class SweepPlanner
     {
         var points = new List<PlannedPoint>();
         var seen = new HashSet<string>(StringComparer.Ordinal);
+
+        // Every point's values in ordinal column order, under one shared array of column names.
+        var order = Enumerable.Range(0, columns.Count).OrderBy(j => columns[j].Column, StringComparer.Ordinal).ToArray();
+        var names = order.Select(j => columns[j].Column).ToArray();
         var badCombinations = new List<string>();
         var badCount = 0;
         var interactionProblems = new List<(string Key, string Message)>();
@@ -129,13 +134,13 @@ internal static class SweepPlanner
             .AsParallel().AsOrdered()
             .Select(values =>
             {
-                var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
-                for (var j = 0; j < columns.Count; j++)
+                var sorted = new object[order.Length];
+                for (var k = 0; k < order.Length; k++)
                 {
-                    builder[columns[j].Column] = values[j];
+                    sorted[k] = values[order[k]];
                 }
 
-                var parameters = builder.ToImmutable();
+                var parameters = new PointParameters(names, sorted);
                 var spec = PointBinder.Apply(template, new PlannedPoint("", 0, parameters));
                 if (SpecChecks.Check(spec) is { } wrong)
                 {

@@ -301,19 +301,41 @@ public sealed class ChunkRunner
             return outcomes;
         }
 
+        // A copy: the caller's list keeps the states the progress counts were given.
+        outcomes = [.. outcomes];
         try
         {
-            await _retry.RunAsync(
-                async () =>
+            while (true)
+            {
+                try
                 {
-                    await ChunkOutputWriter.WriteAsync(sweep, ChunkOutputWriter.OutputsOf(sweep), chunkId, outcomes, ct).ConfigureAwait(false);
-                    return true;
-                },
-                _time,
-                (retry, delay, ex) => _log.Warning("Chunk {ChunkId} of sweep {SweepId}: writing results failed, retry {Retry} of {Retries} in {DelaySeconds} s: {Error}",
-                    chunkId, sweep.SweepId, retry, _retry.Retries, delay.TotalSeconds, ex.Message),
-                ct).ConfigureAwait(false);
-            return outcomes;
+                    await _retry.RunAsync(
+                        async () =>
+                        {
+                            await ChunkOutputWriter.WriteAsync(sweep, ChunkOutputWriter.OutputsOf(sweep), chunkId, outcomes, ct).ConfigureAwait(false);
+                            return true;
+                        },
+                        _time,
+                        (retry, delay, ex) => _log.Warning("Chunk {ChunkId} of sweep {SweepId}: writing results failed, retry {Retry} of {Retries} in {DelaySeconds} s: {Error}",
+                            chunkId, sweep.SweepId, retry, _retry.Retries, delay.TotalSeconds, ex.Message),
+                        ct).ConfigureAwait(false);
+                    return outcomes;
+                }
+                catch (NaNInTableException ex) when (ex.PointId is { } id && outcomes.FindIndex(o => o.Result is not null && o.Point.PointId == id) is var at && at >= 0)
+                {
+                    // A defect in what the Engine returned for this point alone: fail the point (its row
+                    // then says why, with no numbers) and write the chunk again, instead of failing the
+                    // whole chunk through the queue's retries. Each pass removes one point's result, so this ends.
+                    _log.Error("Point {PointId} of sweep {SweepId} (chunk {ChunkId}): {Error}", id, sweep.SweepId, chunkId, ex.Message);
+                    outcomes[at] = outcomes[at] with
+                    {
+                        State = PointState.Failed,
+                        FailureKind = FailureKind.Engine,
+                        Error = $"the engine returned NaN for {ex.Table}/ column {ex.Column}, which a table never holds (a defect, please report it); the point's results were not written",
+                        Result = null,
+                    };
+                }
+            }
         }
         catch (Exception ex) when (RetryPolicy.IsTransient(ex))
         {

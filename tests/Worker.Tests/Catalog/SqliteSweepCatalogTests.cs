@@ -94,6 +94,74 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     }
 
     [Fact]
+    public void Counts_kept_per_sweep_match_the_point_rows_after_every_kind_of_change()
+    {
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
+        AssertCountsMatchPoints(id);
+
+        var first = _catalog.BeginChunk(id, chunks[0], "test:1");
+        AssertCountsMatchPoints(id);
+        _catalog.CompleteChunk(id, chunks[0],
+            [Completion(first.Points[0].PointId, PointState.Unstable, null, "invented"), Completion(first.Points[1].PointId, PointState.Failed, FailureKind.Io, "invented")]);
+        AssertCountsMatchPoints(id);
+
+        // A chunk claimed twice (a crash between) and completed once.
+        _catalog.BeginChunk(id, chunks[1], "test:1");
+        var second = _catalog.BeginChunk(id, chunks[1], "test:2");
+        AssertCountsMatchPoints(id);
+        _catalog.CompleteChunk(id, chunks[1], Done(second));
+        AssertCountsMatchPoints(id);
+
+        _catalog.Cancel(id);
+        AssertCountsMatchPoints(id);
+        Assert.Equal(ChunkDecision.Cancelled, _catalog.BeginChunk(id, chunks[2], "test:1").Decision);
+        AssertCountsMatchPoints(id);
+
+        _catalog.RequeueUnfinished(id);
+        var counts = AssertCountsMatchPoints(id);
+        Assert.Equal(new SweepCounts(6, 4, 0, 2, 0, 0), counts); // a chunk goes back whole, its unstable point too
+        Assert.Equal(counts, _catalog.ListSweeps().Single().Counts);
+    }
+
+    [Fact]
+    public void A_store_from_before_the_counts_table_gets_its_counts_when_opened()
+    {
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
+        _catalog.CompleteChunk(id, chunks[0], Done(_catalog.BeginChunk(id, chunks[0], "test:1")));
+        using (var c = new Microsoft.Data.Sqlite.SqliteConnection($"Data Source={_dir.Combine("store.db")};Pooling=False"))
+        {
+            c.Open();
+            using var drop = c.CreateCommand();
+            drop.CommandText = "DROP TABLE latsweep_sweep_counts";
+            drop.ExecuteNonQuery();
+        }
+
+        using var reopened = new SqliteSweepCatalog(_dir.Combine("store.db"), new SteppingTime());
+
+        Assert.Equal(new SweepCounts(6, 4, 0, 2, 0, 0), reopened.FindSweep(id)!.Counts);
+        reopened.CompleteChunk(id, chunks[1], Done(reopened.BeginChunk(id, chunks[1], "test:1")));
+        Assert.Equal(new SweepCounts(6, 2, 0, 4, 0, 0), reopened.ListSweeps().Single().Counts);
+    }
+
+    /// <summary>The sweep's kept counts equal the states of its point rows; returns them.</summary>
+    private SweepCounts AssertCountsMatchPoints(string id)
+    {
+        var points = _catalog.GetPoints(id, new PointQuery(Limit: int.MaxValue));
+        var counted = points.Aggregate(SweepCounts.Empty, (c, p) => p.State switch
+        {
+            PointState.Waiting => c with { Total = c.Total + 1, Waiting = c.Waiting + 1 },
+            PointState.Running => c with { Total = c.Total + 1, Running = c.Running + 1 },
+            PointState.Done => c with { Total = c.Total + 1, Done = c.Done + 1 },
+            PointState.Failed => c with { Total = c.Total + 1, Failed = c.Failed + 1 },
+            PointState.Unstable => c with { Total = c.Total + 1, Unstable = c.Unstable + 1 },
+            _ => c with { Total = c.Total + 1, Cancelled = c.Cancelled + 1 },
+        });
+        var kept = _catalog.FindSweep(id)!.Counts;
+        Assert.Equal(counted, kept);
+        return kept;
+    }
+
+    [Fact]
     public void A_chunk_whose_points_all_have_results_is_not_run_again()
     {
         var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));

@@ -144,6 +144,35 @@ public sealed class ChunkOutputTests : IDisposable
     }
 
     [Fact]
+    public async Task A_NaN_in_a_result_fails_that_point_alone_as_an_engine_error_without_retrying_the_chunk()
+    {
+        var (sweep, chunks, _) = Setup();
+        var bad = sweep.Plan.Points[1].PointId;
+        var solver = new FakeSolver { NaNResult = [bad] };
+
+        // The chunk ends normally (no exception for the queue to retry) and each point is solved once.
+        await Runner(solver).RunAsync(sweep.Id, chunks[0], default);
+
+        Assert.All(solver.Calls.Values, n => Assert.Equal(1, n));
+        var points = _catalog.GetChunkPoints(sweep.Id, chunks[0]);
+        Assert.Equal(PointState.Done, points[0].State);
+        Assert.Equal(PointState.Failed, points[1].State);
+        Assert.Equal(FailureKind.Engine, points[1].FailureKind);
+        Assert.Contains("NaN", points[1].Error, StringComparison.Ordinal);
+        Assert.Contains("points/ column cv_j_per_mol_k", points[1].Error, StringComparison.Ordinal);
+        Assert.DoesNotContain(chunks[0], _catalog.RequeueUnfinished(sweep.Id));
+
+        using var db = new DuckDb();
+        var rows = db.Rows($"SELECT point_id, state, failure_kind, cv_j_per_mol_k FROM {DuckDb.Glob(Path.Combine(sweep.Folder, "points"))} ORDER BY point_index");
+        Assert.Equal(2, rows.Count);
+        Assert.Equal("done", rows[0][1]);
+        Assert.Equal(bad, rows[1][0]);
+        Assert.Equal("failed", rows[1][1]);
+        Assert.Equal("engine", rows[1][2]);
+        Assert.Null(rows[1][3]);
+    }
+
+    [Fact]
     public async Task Transient_io_faults_are_retried_a_bounded_number_of_times()
     {
         var (sweep, chunks, _) = Setup();

@@ -17,6 +17,9 @@ internal sealed class FakeSolver : IPointSolver
     /// <summary>Point ids that throw an unexpected (non-model, non-I/O) exception.</summary>
     public HashSet<string> FailEngine { get; init; } = [];
 
+    /// <summary>Point ids whose result carries a NaN heat capacity (a defect the Parquet writer refuses).</summary>
+    public HashSet<string> NaNResult { get; init; } = [];
+
     /// <summary>Point ids whose first N calls throw an I/O fault.</summary>
     public ConcurrentDictionary<string, int> IoFaults { get; } = new();
 
@@ -50,7 +53,10 @@ internal sealed class FakeSolver : IPointSolver
             throw new InvalidOperationException("invented engine defect");
         }
 
-        return SomeSweep.Result(point);
+        var result = SomeSweep.Result(point);
+        return NaNResult.Contains(point.PointId)
+            ? result with { Summary = result.Summary with { HeatCapacityJPerMolK = double.NaN } }
+            : result;
     }
 }
 
