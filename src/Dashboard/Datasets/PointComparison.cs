@@ -98,6 +98,9 @@ public sealed record PointComparison(
             [.. notes]);
     }
 
-    /// <summary>A job-file path without the <c>model.</c> prefix, for labels.</summary>
-    private static string Short(string path) => path.StartsWith("model.", StringComparison.Ordinal) ? path["model.".Length..] : path;
+    /// <summary>A job-file path without the <c>model.</c> or <c>output.</c> prefix, for labels.</summary>
+    private static string Short(string path) =>
+        path.StartsWith("model.", StringComparison.Ordinal) ? path["model.".Length..]
+        : path.StartsWith("output.", StringComparison.Ordinal) ? path["output.".Length..]
+        : path;
 }

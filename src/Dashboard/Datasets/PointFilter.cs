@@ -176,7 +176,7 @@ public sealed record PointFilter
 
             foreach (var (index, min, max) in ranges)
             {
-                if (index < 0 || ResultTable.ToDouble(row[index]) is not { } v || v < min || v > max)
+                if (index < 0 || ResultTable.ToDouble(row[index]) is not { } v || !double.IsFinite(v) || v < min || v > max)
                 {
                     return false;
                 }
@@ -196,7 +196,7 @@ public sealed record PointFilter
         return points with { Rows = [.. points.Rows.Where(Keep)] };
     }
 
-    /// <summary>In words, for the page: "stable only · Highest frequency from 2 to 8 THz · candidates.name: a or b".</summary>
+    /// <summary>In words, for the page: "stable only · Highest frequency from 2 to 8 THz · candidates.name: a or b". A range keeps only numbers (not an empty or undefined cell).</summary>
     internal string Describe(ColumnCatalog names)
     {
         ArgumentNullException.ThrowIfNull(names);
@@ -221,16 +221,16 @@ public sealed record PointFilter
             var unit = names.UnitOf(r.Column);
             parts.Add((r.Min, r.Max) switch
             {
-                ({ } lo, { } hi) => $"{names.Label(r.Column)} from {Show.Number(lo)} to {Show.Number(hi, unit)}",
-                ({ } lo, null) => $"{names.Label(r.Column)} at least {Show.Number(lo, unit)}",
-                (null, { } hi) => $"{names.Label(r.Column)} at most {Show.Number(hi, unit)}",
-                _ => $"{names.Label(r.Column)} not empty",
+                ({ } lo, { } hi) => $"{names.ShortLabel(r.Column)} from {Show.Number(lo)} to {Show.Number(hi, unit)}",
+                ({ } lo, null) => $"{names.ShortLabel(r.Column)} at least {Show.Number(lo, unit)}",
+                (null, { } hi) => $"{names.ShortLabel(r.Column)} at most {Show.Number(hi, unit)}",
+                _ => $"{names.ShortLabel(r.Column)} not empty",
             });
         }
 
         foreach (var v in Values)
         {
-            parts.Add($"{names.Label(v.Column)}: {string.Join(" or ", v.Values)}");
+            parts.Add($"{names.ShortLabel(v.Column)}: {string.Join(" or ", v.Values)}");
         }
 
         return string.Join(" · ", parts);
