@@ -69,7 +69,7 @@ public static class WorkerBoard
         var matched = new HashSet<string>(StringComparer.OrdinalIgnoreCase);
         foreach (var process in processes.OrderBy(p => p.Name, StringComparer.Ordinal))
         {
-            // The queue names a process "machine:pid:<guid>", the catalog "machine:pid".
+            // The queue names a process "machine:pid:pid:<guid>" (its server name, then its own parts), the catalog "machine:pid".
             var name = held.Keys.FirstOrDefault(w => process.Name.StartsWith(w + ":", StringComparison.OrdinalIgnoreCase)) ?? Trim(process.Name);
             matched.Add(name);
             var silent = process.LastHeartbeat is { } beat ? Math.Max(0, (now - beat).TotalSeconds) : (double?)null;
@@ -91,10 +91,11 @@ public static class WorkerBoard
         return new WorkerList(now, [.. lines], problem);
     }
 
+    /// <summary>"machine:pid" from the queue's "machine:pid:pid:guid" (a machine name has no colon).</summary>
     private static string Trim(string queueName)
     {
         var parts = queueName.Split(':');
-        return parts.Length >= 3 ? string.Join(':', parts[..^1]) : queueName;
+        return parts.Length >= 2 ? $"{parts[0]}:{parts[1]}" : queueName;
     }
 
     private static string Seconds(double? s) => s is { } v ? $"{v:F0} s" : "—";

@@ -9,9 +9,10 @@ using Serilog.Core;
 namespace LatticeSweep.Dashboard.Tests.Browser;
 
 /// <summary>
-/// The dashboard in a real browser (headless Chromium): the sweeps page, a sweep, a point with its
-/// plots. Screenshots of each page go to the test output folder (screenshots/), and the sweep page
-/// of the quick demo to docs/screenshots/sweep-page.png for the README.
+/// The dashboard in a real browser (headless Chromium): the sweeps page with its workers, a sweep
+/// with its filter, plots and table, a point with its plots, the comparison page. Screenshots of
+/// each page go to the test output folder (screenshots/), and the sweep page of the quick demo and
+/// a comparison to docs/screenshots/ for the README.
 /// </summary>
 public sealed class BrowserTests : IClassFixture<BrowserFixture>
 {
@@ -164,6 +165,224 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
         Assert.True(await sweepPage.EvaluateAsync<bool>("() => window.notReloaded === true"), "the sweep page was reloaded");
     }
 
+    [Fact]
+    public async Task Sweep_plots_have_the_points_and_a_click_on_one_opens_its_page()
+    {
+        var (page, errors) = await NewPageAsync();
+        var id = _store.Ids["chain-candidates"];
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{id}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(6, await PlottedPoints(page, "chart-parameter"));
+        Assert.Equal(3, await page.EvaluateAsync<int>("() => Chart.getChart(document.getElementById('chart-parameter')).data.datasets.length"));
+        Assert.True(await PlottedPoints(page, "chart-scatter") >= 6, "the scatter has too few points");
+        Assert.True(await InkedPixels(page, "chart-parameter") > 500, "the parameter plot is blank");
+        Assert.True(await InkedPixels(page, "chart-scatter") > 500, "the scatter is blank");
+        await page.Locator("#plots").ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-plots.png") });
+
+        // A click on the second point of the second candidate opens that point's page.
+        var target = await PointOnChart(page, "chart-parameter", 1, 1);
+        await page.Mouse.ClickAsync(target.X, target.Y);
+        await page.WaitForURLAsync($"**/sweeps/{id}/points/{target.Id}");
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task A_column_spanning_decades_is_drawn_on_a_log_axis()
+    {
+        var (page, errors) = await NewPageAsync();
+        var id = _store.Ids["fcc-conductivity"];
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{id}?x=conductivity_boundary_length_nm").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal("logarithmic", await page.EvaluateAsync<string>("() => Chart.getChart(document.getElementById('chart-parameter')).scales.x.type"));
+        Assert.Equal("linear", await page.EvaluateAsync<string>("() => Chart.getChart(document.getElementById('chart-parameter')).scales.y.type"));
+
+        // The choice in the plot's controls redraws it (the address keeps it).
+        await page.SelectOptionAsync("select[name='xscale']", "linear");
+        await page.WaitForURLAsync("**xscale=linear**");
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal("linear", await page.EvaluateAsync<string>("() => Chart.getChart(document.getElementById('chart-parameter')).scales.x.type"));
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task The_filter_follows_into_the_table_the_plots_the_downloads_and_the_address()
+    {
+        var (page, errors) = await NewPageAsync();
+        var id = _store.Ids["springs-through-zero"];
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{id}?y=max_freq_thz").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(9, await page.Locator("#results-table tbody tr").CountAsync());
+        Assert.Equal(3, await page.Locator("#results-table tbody tr.unstable").CountAsync());
+        Assert.Equal(3, await Count(page.Locator("#progress"), "unstable"));
+        Assert.Equal(3, await page.EvaluateAsync<int>(
+            "() => Chart.getChart(document.getElementById('chart-parameter')).data.datasets.flatMap(d => d.data).filter(p => p.unstable).length"));
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-unstable-page.png"), FullPage = true });
+
+        // Stable only, and a range on the heavy mass, from the form.
+        await page.CheckAsync("input[name='stable']");
+        await page.SelectOptionAsync("select[name='rcol'] >> nth=0", "sites_b_mass_amu");
+        await page.FillAsync("input[name='rmin'] >> nth=0", "20");
+        await page.ClickAsync("#filter button[name='at']");
+        await page.WaitForURLAsync("**range=sites_b_mass_amu*");
+        Assert.Contains("stable=1", page.Url, StringComparison.Ordinal);
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(4, await page.Locator("#results-table tbody tr").CountAsync());
+        Assert.Equal(0, await page.Locator("#results-table tbody tr.unstable").CountAsync());
+        Assert.Equal(4, await PlottedPoints(page, "chart-parameter"));
+        foreach (var href in await page.Locator("#downloads a").EvaluateAllAsync<string[]>("links => links.map(a => a.href)"))
+        {
+            Assert.Contains("stable=1", href, StringComparison.Ordinal);
+            Assert.Contains("range=sites_b_mass_amu", href, StringComparison.Ordinal);
+        }
+
+        // Another plot choice keeps the filter; the address alone shows the same view in a new tab.
+        await page.SelectOptionAsync("select[name='y']", "min_freq_thz");
+        await page.WaitForURLAsync("**y=min_freq_thz**");
+        Assert.Contains("stable=1", page.Url, StringComparison.Ordinal);
+        var copy = await _browser.Context.NewPageAsync();
+        await copy.GotoAsync(page.Url);
+        await copy.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(4, await copy.Locator("#results-table tbody tr").CountAsync());
+        Assert.Equal("min_freq_thz", await copy.EvaluateAsync<string>("() => document.querySelector(\"select[name='y']\").value"));
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task Points_ticked_in_the_table_or_picked_on_a_plot_are_compared_on_one_page()
+    {
+        var (page, errors) = await NewPageAsync();
+        var id = _store.Ids["quickstart"];
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{id}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        var boxes = page.Locator("#results-table tbody input[name='p']");
+        var ticked = new List<string>();
+        foreach (var i in new[] { 1, 9, 22 })
+        {
+            await boxes.Nth(i).CheckAsync();
+            ticked.Add(await boxes.Nth(i).GetAttributeAsync("value") ?? "");
+        }
+
+        Assert.Equal("3 chosen", await page.InnerTextAsync("#compare-count"));
+        await page.ClickAsync("#compare-button");
+        await page.WaitForURLAsync($"**/sweeps/{id}/compare?**");
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(ticked, await page.Locator("#compare-table tbody tr").EvaluateAllAsync<string[]>("rows => rows.map(r => r.dataset.pointId)"));
+        foreach (var chart in new[] { "chart-compare-dos", "chart-compare-cv", "chart-compare-debye" })
+        {
+            Assert.Equal(3, await page.EvaluateAsync<int>($"() => Chart.getChart(document.getElementById('{chart}')).data.datasets.length"));
+            Assert.True(await InkedPixels(page, chart) > 500, $"{chart} is blank");
+        }
+
+        var labels = await page.EvaluateAsync<string[]>("() => Chart.getChart(document.getElementById('chart-compare-cv')).data.datasets.map(d => d.label)");
+        Assert.All(labels, l => Assert.Contains("sites.B.mass_amu = ", l, StringComparison.Ordinal));
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "compare-page.png"), FullPage = true });
+        File.Copy(Path.Combine(Shots, "compare-page.png"), Path.Combine(Repository.Root(), "docs", "screenshots", "compare-page.png"), overwrite: true);
+
+        // Picked on a plot: with the pick box ticked, a click adds the point instead of opening it.
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{_store.Ids["chain-candidates"]}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        await page.CheckAsync("#pick-mode");
+        var target = await PointOnChart(page, "chart-parameter", 2, 0);
+        await page.Mouse.ClickAsync(target.X, target.Y);
+        await page.WaitForSelectorAsync("#picked:not([hidden])");
+        Assert.Equal(target.Id, await page.InnerTextAsync("#picked-list .chip"));
+        await page.ClickAsync("#picked button");
+        await page.WaitForURLAsync("**/compare?**");
+        Assert.Equal([target.Id], await page.Locator("#compare-table tbody tr").EvaluateAllAsync<string[]>("rows => rows.map(r => r.dataset.pointId)"));
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task The_sweeps_page_shows_the_workers_and_what_they_hold()
+    {
+        // A worker that never told the queue it is alive claims the half-way sweep's waiting chunk.
+        var runningId = _store.Ids["chain-dispersion"];
+        using (var store = QueueStore.Open(_store.Location, TimeProvider.System))
+        {
+            var chunk = store.Catalog.GetPoints(runningId, new PointQuery(PointState.Waiting)).First().ChunkId;
+            store.Catalog.BeginChunk(runningId, chunk, "test-host:9");
+        }
+
+        var (page, errors) = await NewPageAsync();
+        await page.GotoAsync(_server.Address.ToString());
+        var gone = page.Locator("#workers-table tr[data-worker='test-host:9']");
+        Assert.Equal("gone", (await gone.Locator("[data-field='status']").InnerTextAsync()).Trim().ToLowerInvariant());
+        Assert.Equal(2, await Count(gone, "points_held"));
+
+        // It redraws itself from /api/workers without a reload.
+        await page.EvaluateAsync("() => { window.notReloaded = true; return window.latticeSweepRefreshWorkers(); }");
+        await page.WaitForFunctionAsync("() => Number(document.getElementById('workers').dataset.refreshed) >= 1");
+        Assert.Equal(2, await Count(page.Locator("#workers-table tr[data-worker='test-host:9']"), "points_held"));
+        Assert.True(await page.EvaluateAsync<bool>("() => window.notReloaded === true"));
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweeps-page-workers.png"), FullPage = true });
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task Partial_densities_and_conductivity_per_direction_have_panels_of_their_own()
+    {
+        var (page, errors) = await NewPageAsync();
+        var kappaId = _store.Ids["fcc-conductivity"];
+        string kappaPoint;
+        using (var catalog = _store.OpenCatalog())
+        {
+            kappaPoint = catalog.GetPoints(kappaId, new PointQuery(PointState.Done)).First().PointId;
+        }
+
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{kappaId}/points/{kappaPoint}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        // A cubic crystal conducts alike along x, y and z: one line, named for all three, not three lines under the mean.
+        Assert.Equal(["along x = along y = along z"], await page.EvaluateAsync<string[]>(
+            "() => Chart.getChart(document.getElementById('chart-kappa-directions')).data.datasets.map(d => d.label)"));
+
+        var dosId = _store.Ids["quickstart"];
+        string dosPoint;
+        using (var catalog = _store.OpenCatalog())
+        {
+            dosPoint = catalog.GetPoints(dosId, new PointQuery(PointState.Done)).First().PointId;
+        }
+
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{dosId}/points/{dosPoint}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(["total"], await page.EvaluateAsync<string[]>("() => Chart.getChart(document.getElementById('chart-dos')).data.datasets.map(d => d.label)"));
+        Assert.Equal(["site 0", "site 1"], await page.EvaluateAsync<string[]>("() => Chart.getChart(document.getElementById('chart-dos-sites')).data.datasets.map(d => d.label)"));
+        Assert.True(await InkedPixels(page, "chart-dos-sites") > 500, "the partial DOS canvas is blank");
+
+        // Swept parameters' labels do not run into each other.
+        var boxes = await page.Locator("#parameters dl > div").EvaluateAllAsync<double[][]>(
+            "items => items.map(d => { const t = d.querySelector('dt').getBoundingClientRect(); return [t.left, t.right, d.getBoundingClientRect().right]; })");
+        Assert.All(boxes, b => Assert.True(b[1] <= b[2] + 0.5, "a parameter's label runs past its box"));
+        Assert.Empty(errors);
+    }
+
+    /// <summary>A new tab whose script errors (console errors, uncaught exceptions) are collected.</summary>
+    private async Task<(IPage Page, List<string> Errors)> NewPageAsync()
+    {
+        var page = await _browser.Context.NewPageAsync();
+        var errors = new List<string>();
+        page.Console += (_, m) => { if (m.Type == "error") { errors.Add(m.Text); } };
+        page.PageError += (_, e) => errors.Add(e);
+        return (page, errors);
+    }
+
+    /// <summary>Where on the screen a chart draws point <paramref name="index"/> of dataset <paramref name="dataset"/>, and that point's id.</summary>
+    private static async Task<(float X, float Y, string Id)> PointOnChart(IPage page, string canvasId, int dataset, int index)
+    {
+        var found = await page.EvaluateAsync<double[]>($$"""
+            () => {
+                const canvas = document.getElementById('{{canvasId}}');
+                canvas.scrollIntoView({ block: 'center' });
+                const chart = Chart.getChart(canvas);
+                const element = chart.getDatasetMeta({{dataset}}).data[{{index}}];
+                const box = canvas.getBoundingClientRect();
+                return [box.left + element.x, box.top + element.y];
+            }
+            """);
+        var id = await page.EvaluateAsync<string>($"() => Chart.getChart(document.getElementById('{canvasId}')).data.datasets[{dataset}].data[{index}].id");
+        return ((float)found[0], (float)found[1], id);
+    }
+
     private static async Task<long> Count(ILocator scope, string field) =>
         long.Parse(await scope.Locator($"[data-field='{field}']").First.GetAttributeAsync("data-value") ?? "-1", CultureInfo.InvariantCulture);
 
@@ -200,6 +419,9 @@ public sealed class BrowserFixture : IAsyncLifetime
     {
         Store = await DemoStore.StandardAsync();
         await Store.AddAsync("fcc-conductivity.toml", DemoJobs.Conductivity, DemoProgress.Finished);
+        await Store.AddAsync("unstable.toml", DemoJobs.Unstable, DemoProgress.Finished, pointsPerChunk: 5);
+        await Store.AddFileAsync("chain-candidates.csv", DemoJobs.CandidatesTable);
+        await Store.AddAsync("candidates.toml", DemoJobs.Candidates, DemoProgress.Finished, pointsPerChunk: 6);
         Server = await DashboardServer.StartAsync(Store);
         Browser = await Chromium.LaunchAsync();
     }
