@@ -87,8 +87,8 @@ internal static class SweepPlots
         }
 
         var notes = new List<string>();
-        var flags = new PointFlags(filtered);
-        int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y), id = filtered.IndexOf("point_id");
+        var maker = new PointMaker(filtered, sweep.SweepId, r.X, r.Y);
+        int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y);
         var grouped = r.By is { } b && b != SweepPlot.NoGrouping ? filtered.IndexOf(b) : -1;
         var categorical = !all.Column(r.X)!.IsNumeric;
         var categories = categorical ? Categories(all, all.IndexOf(r.X)) : [];
@@ -97,8 +97,7 @@ internal static class SweepPlots
         foreach (var group in usable.GroupBy(row => grouped < 0 ? "" : Show.Raw(row[grouped])).OrderBy(g => g.Key, ValueOrder.Of(filtered, grouped)))
         {
             var points = group
-                .Select(row => new PlotPoint(categorical ? categories.IndexOf(Show.Raw(row[ix])) : ResultTable.ToDouble(row[ix])!.Value, ResultTable.ToDouble(row[iy])!.Value,
-                    (string)row[id]!, Endpoints.Links.Point(sweep.SweepId, (string)row[id]!), flags.IsUnstable(row), flags.IsFloppy(row)))
+                .Select(row => maker.Make(row, categorical ? categories.IndexOf(Show.Raw(row[ix])) : null))
                 .OrderBy(p => p.X)
                 .ToImmutableArray();
             var lines = !categorical && points.Select(p => p.X).Distinct().Count() == points.Length;
@@ -129,12 +128,11 @@ internal static class SweepPlots
         }
 
         var notes = new List<string>();
-        var flags = new PointFlags(filtered);
-        int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y), id = filtered.IndexOf("point_id");
+        var maker = new PointMaker(filtered, sweep.SweepId, r.X, r.Y);
+        int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y);
         var points = filtered.Rows
             .Where(row => Finite(row[ix]) is not null && Finite(row[iy]) is not null)
-            .Select(row => new PlotPoint(ResultTable.ToDouble(row[ix])!.Value, ResultTable.ToDouble(row[iy])!.Value, (string)row[id]!,
-                Endpoints.Links.Point(sweep.SweepId, (string)row[id]!), flags.IsUnstable(row), flags.IsFloppy(row)))
+            .Select(row => maker.Make(row, null))
             .ToList();
         var candidates = points.Where(p => !p.Unstable).ToList();
         var front = ParetoFront.Of([.. candidates.Select(p => (p.X, p.Y))], r.XLarger, r.YLarger).Select(i => candidates[i]).ToImmutableArray();
@@ -200,6 +198,23 @@ internal static class SweepPlots
     /// <summary>A text column's values in plan order (first appearance), as categories.</summary>
     private static ImmutableArray<string> Categories(ResultTable all, int column) =>
         [.. SummaryTable.Ordered(all, null, false).Select(r => Show.Raw(r[column])).Where(v => v.Length > 0).Distinct(StringComparer.Ordinal)];
+
+    /// <summary>Turns a row with drawable x and y into a <see cref="PlotPoint"/> (its page, its marks).</summary>
+    private sealed class PointMaker(ResultTable t, string sweepId, string x, string y)
+    {
+        private readonly PointFlags _flags = new(t);
+        private readonly int _x = t.IndexOf(x);
+        private readonly int _y = t.IndexOf(y);
+        private readonly int _id = t.IndexOf("point_id");
+
+        /// <summary>The point; <paramref name="category"/> replaces x on a categorical axis.</summary>
+        public PlotPoint Make(ImmutableArray<object?> row, int? category)
+        {
+            var id = (string)row[_id]!;
+            return new PlotPoint(category ?? ResultTable.ToDouble(row[_x])!.Value, ResultTable.ToDouble(row[_y])!.Value, id,
+                Endpoints.Links.Point(sweepId, id), _flags.IsUnstable(row), _flags.IsFloppy(row));
+        }
+    }
 
     /// <summary>Orders series keys: numerically when the column is numeric, else in plan order.</summary>
     private sealed class ValueOrder : IComparer<string>

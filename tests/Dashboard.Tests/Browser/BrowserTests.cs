@@ -89,11 +89,7 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
 
         // A point of the sweep with a dispersion path: dispersion and group velocity plots too.
         var dispersionId = _store.Ids["chain-dispersion"];
-        string donePoint;
-        using (var catalog = _store.OpenCatalog())
-        {
-            donePoint = catalog.GetPoints(dispersionId, new PointQuery(PointState.Done)).First().PointId;
-        }
+        var donePoint = FirstDonePoint(dispersionId);
 
         await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{dispersionId}/points/{donePoint}").ToString());
         await page.WaitForSelectorAsync("body[data-charts-ready]");
@@ -104,11 +100,7 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
 
         // A point with thermal conductivity: its plot against temperature has data.
         var kappaId = _store.Ids["fcc-conductivity"];
-        string kappaPoint;
-        using (var catalog = _store.OpenCatalog())
-        {
-            kappaPoint = catalog.GetPoints(kappaId, new PointQuery(PointState.Done)).First().PointId;
-        }
+        var kappaPoint = FirstDonePoint(kappaId);
 
         await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{kappaId}/points/{kappaPoint}").ToString());
         await page.WaitForSelectorAsync("body[data-charts-ready]");
@@ -324,11 +316,7 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
     {
         var (page, errors) = await NewPageAsync();
         var kappaId = _store.Ids["fcc-conductivity"];
-        string kappaPoint;
-        using (var catalog = _store.OpenCatalog())
-        {
-            kappaPoint = catalog.GetPoints(kappaId, new PointQuery(PointState.Done)).First().PointId;
-        }
+        var kappaPoint = FirstDonePoint(kappaId);
 
         await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{kappaId}/points/{kappaPoint}").ToString());
         await page.WaitForSelectorAsync("body[data-charts-ready]");
@@ -337,11 +325,7 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
             "() => Chart.getChart(document.getElementById('chart-kappa-directions')).data.datasets.map(d => d.label)"));
 
         var dosId = _store.Ids["quickstart"];
-        string dosPoint;
-        using (var catalog = _store.OpenCatalog())
-        {
-            dosPoint = catalog.GetPoints(dosId, new PointQuery(PointState.Done)).First().PointId;
-        }
+        var dosPoint = FirstDonePoint(dosId);
 
         await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{dosId}/points/{dosPoint}").ToString());
         await page.WaitForSelectorAsync("body[data-charts-ready]");
@@ -354,6 +338,12 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
             "items => items.map(d => { const t = d.querySelector('dt').getBoundingClientRect(); return [t.left, t.right, d.getBoundingClientRect().right]; })");
         Assert.All(boxes, b => Assert.True(b[1] <= b[2] + 0.5, "a parameter's label runs past its box"));
         Assert.Empty(errors);
+    }
+
+    private string FirstDonePoint(string sweepId)
+    {
+        using var catalog = _store.OpenCatalog();
+        return catalog.GetPoints(sweepId, new PointQuery(PointState.Done)).First().PointId;
     }
 
     /// <summary>A new tab whose script errors (console errors, uncaught exceptions) are collected.</summary>

@@ -118,20 +118,27 @@
         };
     }
 
+    // Both plots: titled axes (log or categories as the server chose), a click on a point, a tooltip naming it.
+    function drawPlot(canvasId, plot, sets, legend) {
+        C.draw(canvasId, sets, "", "", (o) => {
+            axisOf(o, "x", plot.x);
+            axisOf(o, "y", plot.y);
+            o.interaction = { mode: "nearest", intersect: true };
+            o.onClick = onClick;
+            o.plugins.tooltip = tooltip(plot.x, plot.y);
+            legend(o.plugins.legend);
+        });
+    }
+
     const parameter = plots.parameter;
     if (parameter) {
         const sets = parameter.series.map((s, i) => {
             const color = C.palette[i % C.palette.length];
             return Object.assign(C.series(s.name, asData(s.points), color, { showLine: s.lines, borderWidth: 1.8 }), marks(s.points, color));
         });
-        C.draw("chart-parameter", sets, "", "", (o) => {
-            axisOf(o, "x", parameter.x);
-            axisOf(o, "y", parameter.y);
-            o.interaction = { mode: "nearest", intersect: true };
-            o.onClick = onClick;
-            o.plugins.tooltip = tooltip(parameter.x, parameter.y);
-            o.plugins.legend.display = sets.length > 1 && sets.length <= 14;
-            if (parameter.group_label) { o.plugins.legend.title = { display: true, text: parameter.group_label }; }
+        drawPlot("chart-parameter", parameter, sets, (legend) => {
+            legend.display = sets.length > 1 && sets.length <= 14;
+            if (parameter.group_label) { legend.title = { display: true, text: parameter.group_label }; }
         });
     }
 
@@ -146,14 +153,7 @@
             sets.unshift(C.series("Pareto front", asData(scatter.front), C.palette[1],
                 { showLine: true, borderWidth: 2, pointRadius: 6, pointHoverRadius: 8, pointStyle: "rectRot", order: -1 }));
         }
-        C.draw("chart-scatter", sets, "", "", (o) => {
-            axisOf(o, "x", scatter.x);
-            axisOf(o, "y", scatter.y);
-            o.interaction = { mode: "nearest", intersect: true };
-            o.onClick = onClick;
-            o.plugins.tooltip = tooltip(scatter.x, scatter.y);
-            o.plugins.legend.display = true;
-        });
+        drawPlot("chart-scatter", scatter, sets, (legend) => { legend.display = true; });
     }
 
     C.ready();
