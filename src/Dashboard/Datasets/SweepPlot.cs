@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using System.Text.Json.Serialization;
 
 namespace LatticeSweep.Dashboard.Datasets;
 
@@ -14,10 +15,16 @@ public enum AxisScale
 public sealed record PlotAxis(string Column, string Label, string Unit, bool Log, bool Categorical, ImmutableArray<string> Categories);
 
 /// <summary>
-/// One plotted point. For a categorical x axis <see cref="X"/> is the category's index.
-/// <see cref="Url"/> opens the point's page.
+/// One plotted point. For a categorical x axis <see cref="X"/> is the category's index. Its page is
+/// <see cref="SweepPlot.PointUrl"/> followed by the escaped <see cref="PointId"/> (not repeated per
+/// point: a plot of 10^5 points would carry megabytes of addresses). The marks are written only when true.
 /// </summary>
-public sealed record PlotPoint(double X, double Y, string PointId, string Url, bool Unstable, bool Floppy);
+public sealed record PlotPoint(
+    double X,
+    double Y,
+    string PointId,
+    [property: JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] bool Unstable,
+    [property: JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] bool Floppy);
 
 /// <summary>One series: drawn as a line through its points when <see cref="Lines"/>, else as points only.</summary>
 public sealed record PlotSeries(string Name, bool Lines, ImmutableArray<PlotPoint> Points);
@@ -26,10 +33,12 @@ public sealed record PlotSeries(string Name, bool Lines, ImmutableArray<PlotPoin
 /// A plot of a sweep's points/ table: a summary column against a swept parameter, one series per
 /// value of another parameter (<c>parameter</c>), or two columns against each other with their
 /// Pareto front (<c>scatter</c>). <see cref="Notes"/> say what the reader should know (points
-/// left out, a log scale that could not be used, several points per x).
+/// left out, a log scale that could not be used, several points per x). <see cref="PointUrl"/> and a
+/// point's escaped id make the address of the point's page.
 /// </summary>
 public sealed record SweepPlot(
     string Kind,
+    string PointUrl,
     PlotAxis X,
     PlotAxis Y,
     string? GroupBy,

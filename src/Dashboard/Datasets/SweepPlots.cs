@@ -87,7 +87,7 @@ internal static class SweepPlots
         }
 
         var notes = new List<string>();
-        var maker = new PointMaker(filtered, sweep.SweepId, r.X, r.Y);
+        var maker = new PointMaker(filtered, r.X, r.Y);
         int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y);
         var grouped = r.By is { } b && b != SweepPlot.NoGrouping ? filtered.IndexOf(b) : -1;
         var categorical = !all.Column(r.X)!.IsNumeric;
@@ -113,7 +113,7 @@ internal static class SweepPlots
         var plotted = series.Sum(s => s.Points.Length);
         var xAxis = Axis(names, r.X, all, r.XScale, notes, categorical, categories);
         var yAxis = Axis(names, r.Y, all, r.YScale, notes, false, []);
-        return new SweepPlot(SweepPlot.ParameterKind, xAxis, yAxis, grouped < 0 ? null : r.By, grouped < 0 ? null : names.Label(r.By!),
+        return new SweepPlot(SweepPlot.ParameterKind, PointUrl(sweep), xAxis, yAxis, grouped < 0 ? null : r.By, grouped < 0 ? null : names.Label(r.By!),
             [.. series], [], null, plotted, filtered.Rows.Length - plotted, [.. notes]);
     }
 
@@ -128,7 +128,7 @@ internal static class SweepPlots
         }
 
         var notes = new List<string>();
-        var maker = new PointMaker(filtered, sweep.SweepId, r.X, r.Y);
+        var maker = new PointMaker(filtered, r.X, r.Y);
         int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y);
         var points = filtered.Rows
             .Where(row => Finite(row[ix]) is not null && Finite(row[iy]) is not null)
@@ -144,9 +144,12 @@ internal static class SweepPlots
         }
 
         var rule = $"{(r.XLarger ? "larger" : "smaller")} {names.ShortLabel(r.X)} and {(r.YLarger ? "larger" : "smaller")} {names.ShortLabel(r.Y)} are better";
-        return new SweepPlot(SweepPlot.ScatterKind, Axis(names, r.X, all, r.XScale, notes, false, []), Axis(names, r.Y, all, r.YScale, notes, false, []),
+        return new SweepPlot(SweepPlot.ScatterKind, PointUrl(sweep), Axis(names, r.X, all, r.XScale, notes, false, []), Axis(names, r.Y, all, r.YScale, notes, false, []),
             null, null, [.. series], front, rule, points.Count, filtered.Rows.Length - points.Count, [.. notes]);
     }
+
+    /// <summary>A point's page is this followed by its escaped id.</summary>
+    private static string PointUrl(SweepRecord sweep) => Endpoints.Links.Sweep(sweep.SweepId) + "/points/";
 
     /// <summary>A number that can be drawn (an empty cell, NaN or an infinity cannot).</summary>
     private static double? Finite(object? value) => ResultTable.ToDouble(value) is { } v && double.IsFinite(v) ? v : null;
@@ -200,7 +203,7 @@ internal static class SweepPlots
         [.. SummaryTable.Ordered(all, null, false).Select(r => Show.Raw(r[column])).Where(v => v.Length > 0).Distinct(StringComparer.Ordinal)];
 
     /// <summary>Turns a row with drawable x and y into a <see cref="PlotPoint"/> (its page, its marks).</summary>
-    private sealed class PointMaker(ResultTable t, string sweepId, string x, string y)
+    private sealed class PointMaker(ResultTable t, string x, string y)
     {
         private readonly PointFlags _flags = new(t);
         private readonly int _x = t.IndexOf(x);
@@ -211,8 +214,7 @@ internal static class SweepPlots
         public PlotPoint Make(ImmutableArray<object?> row, int? category)
         {
             var id = (string)row[_id]!;
-            return new PlotPoint(category ?? ResultTable.ToDouble(row[_x])!.Value, ResultTable.ToDouble(row[_y])!.Value, id,
-                Endpoints.Links.Point(sweepId, id), _flags.IsUnstable(row), _flags.IsFloppy(row));
+            return new PlotPoint(category ?? ResultTable.ToDouble(row[_x])!.Value, ResultTable.ToDouble(row[_y])!.Value, id, _flags.IsUnstable(row), _flags.IsFloppy(row));
         }
     }
 

@@ -83,7 +83,7 @@
         if (pickMode && pickMode.checked) { pick(p.id); } else { window.location.href = p.url; }
     }
 
-    const asData = (points) => points.map((p) => ({ x: p.x, y: p.y, id: p.point_id, url: p.url, unstable: p.unstable, floppy: p.floppy }));
+    const asData = (points, pointUrl) => points.map((p) => ({ x: p.x, y: p.y, id: p.point_id, url: pointUrl + encodeURIComponent(p.point_id), unstable: p.unstable, floppy: p.floppy }));
     const marks = (points, color) => ({
         pointStyle: points.map((p) => (p.unstable ? "crossRot" : p.floppy ? "triangle" : "circle")),
         pointRadius: points.map((p) => (p.unstable || p.floppy ? 6 : 4)),
@@ -134,7 +134,7 @@
     if (parameter) {
         const sets = parameter.series.map((s, i) => {
             const color = C.palette[i % C.palette.length];
-            return Object.assign(C.series(s.name, asData(s.points), color, { showLine: s.lines, borderWidth: 1.8 }), marks(s.points, color));
+            return Object.assign(C.series(s.name, asData(s.points, parameter.point_url), color, { showLine: s.lines, borderWidth: 1.8 }), marks(s.points, color));
         });
         drawPlot("chart-parameter", parameter, sets, (legend) => {
             legend.display = sets.length > 1 && sets.length <= 14;
@@ -146,11 +146,11 @@
     if (scatter) {
         const sets = scatter.series.filter((s) => s.points.length > 0).map((s, i) => {
             const color = s.name.startsWith("unstable") ? unstableColor : "#8a98ad";
-            return Object.assign(C.series(s.name, asData(s.points), color, { showLine: false }), marks(s.points, color));
+            return Object.assign(C.series(s.name, asData(s.points, scatter.point_url), color, { showLine: false }), marks(s.points, color));
         });
         if (scatter.front.length > 0) {
             // The front drawn on top: a line through its points, best x first.
-            sets.unshift(C.series("Pareto front", asData(scatter.front), C.palette[1],
+            sets.unshift(C.series("Pareto front", asData(scatter.front, scatter.point_url), C.palette[1],
                 { showLine: true, borderWidth: 2, pointRadius: 6, pointHoverRadius: 8, pointStyle: "rectRot", order: -1 }));
         }
         drawPlot("chart-scatter", scatter, sets, (legend) => { legend.display = true; });
