@@ -22,8 +22,11 @@ internal static class SweepPlots
     /// <summary>Columns about the run, not the model: never a default axis.</summary>
     private static readonly HashSet<string> RunColumns = new(StringComparer.Ordinal) { "point_index", "attempt", "duration_s" };
 
-    /// <summary>At most this many values for a default grouping parameter (a legend longer than that says little).</summary>
+    /// <summary>At most this many values for a default grouping parameter named in a legend (a longer legend says little).</summary>
     private const int MaxDefaultGroups = 12;
+
+    /// <summary>At most this many lines for a default numeric grouping parameter drawn as a colour gradient.</summary>
+    public const int MaxGradientGroups = 60;
 
     /// <summary>Numeric columns with at least one value: what can go on a number axis.</summary>
     public static IReadOnlyList<string> NumberColumns(ResultTable all)
@@ -59,7 +62,11 @@ internal static class SweepPlots
         }
         else
         {
-            by = key.FirstOrDefault(p => p != x && Distinct(all, p) is > 1 and <= MaxDefaultGroups) ?? SweepPlot.NoGrouping;
+            // A parameter with few values names its lines in a legend; one with many (a dense grid) still
+            // gives a family of lines, coloured from its lowest value to its highest.
+            by = key.FirstOrDefault(p => p != x && Distinct(all, p) is > 1 and <= MaxDefaultGroups)
+                ?? key.FirstOrDefault(p => p != x && all.Column(p)!.IsNumeric && Distinct(all, p) is > 1 and <= MaxGradientGroups)
+                ?? SweepPlot.NoGrouping;
         }
 
         return request with { X = x, Y = y, By = by };
@@ -103,6 +110,11 @@ internal static class SweepPlots
             var lines = !categorical && points.Select(p => p.X).Distinct().Count() == points.Length;
             var name = grouped < 0 ? names.Label(r.Y) : Show.Value(group.First()[grouped], names.UnitOf(filtered.Columns[grouped].Name));
             series.Add(new PlotSeries(name, lines, points));
+        }
+
+        if (series.Count > MaxDefaultGroups && grouped >= 0)
+        {
+            notes.Add($"{series.Count} lines, one per value of {names.ShortLabel(r.By!)}: coloured from blue (the lowest, {series[0].Name}) to orange (the highest, {series[^1].Name}); the tooltip names each.");
         }
 
         if (series.Any(s => !s.Lines) && !categorical)

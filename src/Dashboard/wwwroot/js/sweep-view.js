@@ -84,9 +84,10 @@
     }
 
     const asData = (points, pointUrl) => points.map((p) => ({ x: p.x, y: p.y, id: p.point_id, url: pointUrl + encodeURIComponent(p.point_id), unstable: p.unstable, floppy: p.floppy }));
-    const marks = (points, color) => ({
+    // Points shrink as they grow many; a marked point (unstable, floppy) keeps its size.
+    const marks = (points, color, total) => ({
         pointStyle: points.map((p) => (p.unstable ? "crossRot" : p.floppy ? "triangle" : "circle")),
-        pointRadius: points.map((p) => (p.unstable || p.floppy ? 6 : 4)),
+        pointRadius: points.map((p) => (p.unstable || p.floppy ? 6 : total <= 60 ? 4 : total <= 600 ? 2.5 : 1.5)),
         pointBorderColor: points.map((p) => (p.unstable ? unstableColor : color)),
         pointBackgroundColor: points.map((p) => (p.unstable ? unstableColor : color)),
         pointBorderWidth: points.map((p) => (p.unstable ? 2 : 1)),
@@ -132,9 +133,13 @@
 
     const parameter = plots.parameter;
     if (parameter) {
+        const total = parameter.series.reduce((n, s) => n + s.points.length, 0);
+        // Many lines (a dense grid) run from blue to orange in the order of their values; few get the palette and a legend.
+        const gradient = (i, n) => "hsl(" + Math.round(215 - 190 * (n === 1 ? 0 : i / (n - 1))) + ", 65%, 45%)";
+        const many = parameter.series.length > 12;
         const sets = parameter.series.map((s, i) => {
-            const color = C.palette[i % C.palette.length];
-            return Object.assign(C.series(s.name, asData(s.points, parameter.point_url), color, { showLine: s.lines, borderWidth: 1.8 }), marks(s.points, color));
+            const color = many ? gradient(i, parameter.series.length) : C.palette[i % C.palette.length];
+            return Object.assign(C.series(s.name, asData(s.points, parameter.point_url), color, { showLine: s.lines, borderWidth: many ? 1.2 : 1.8 }), marks(s.points, color, total));
         });
         drawPlot("chart-parameter", parameter, sets, (legend) => {
             legend.display = sets.length > 1 && sets.length <= 14;
@@ -146,7 +151,7 @@
     if (scatter) {
         const sets = scatter.series.filter((s) => s.points.length > 0).map((s, i) => {
             const color = s.name.startsWith("unstable") ? unstableColor : "#8a98ad";
-            return Object.assign(C.series(s.name, asData(s.points, scatter.point_url), color, { showLine: false }), marks(s.points, color));
+            return Object.assign(C.series(s.name, asData(s.points, scatter.point_url), color, { showLine: false }), marks(s.points, color, scatter.plotted));
         });
         if (scatter.front.length > 0) {
             // The front drawn on top: a line through its points, best x first.
