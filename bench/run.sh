@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # One command for the benchmarks: builds the engine's bench harness in Release, runs each case on our
 # side and on the NumPy peer with the same inputs (bench/cases.json), prints the ratios and checks that
-# both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d; default all)
+# both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue; default all;
+# "cost" calibrates the Worker's run-time estimate, ours alone, and is run only when named)
 # Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
@@ -31,6 +32,10 @@ for c in "${cases[@]}"; do
     # Ours against ours: the queue (latsweep run, embedded SQLite store) against the Engine alone.
     "$bench" queue --out "$results" --repeats "${QUEUE_REPEATS:-3}" --jobs "$here/queue" \
       --latsweep "$root/src/Worker/bin/Release/net10.0/latsweep"
+    continue
+  fi
+  if [ "$c" = cost ]; then
+    "$bench" cost --cases "$here/cases.json" --out "$results" --repeats "$repeats"
     continue
   fi
   "$bench" "$c" --cases "$here/cases.json" --out "$results" --repeats "$repeats"

@@ -48,7 +48,7 @@ internal static class SolveCase
         ["free_j_per_mol"] = r.Thermal.Select(x => x.FreeEnergyJPerMol).ToArray(),
         ["entropy_j_per_mol_k"] = r.Thermal.Select(x => x.EntropyJPerMolK).ToArray(),
         ["cv_j_per_mol_k"] = r.Thermal.Select(x => x.HeatCapacityJPerMolK).ToArray(),
-        ["zero_point_j_per_mol"] = r.Summary.ZeroPointEnergyJPerMol,
+        ["zero_point_j_per_mol"] = r.Summary.ZeroPointEnergyJPerMol ?? double.NaN,
     };
 
     public static ImmutableArray<double> Column(PointResult r, Func<ThermalRow, double> pick) => [.. r.Thermal.Select(pick)];

@@ -28,6 +28,9 @@ public sealed record SweepLine(
     string Url,
     SweepLineText Text)
 {
+    /// <summary>Points solved whose model is unstable (not in <see cref="Done"/>).</summary>
+    public long Unstable { get; init; }
+
     public static SweepLine Of(SweepProgress p)
     {
         ArgumentNullException.ThrowIfNull(p);
@@ -38,7 +41,10 @@ public sealed record SweepLine(
             p.FractionFinished, p.RatePointsPerMinute, p.Remaining?.TotalSeconds, p.Elapsed?.TotalSeconds,
             s.CreatedAt, s.StartedAt, s.FinishedAt, Links.Sweep(s.SweepId),
             new SweepLineText(Show.Percent(p.FractionFinished), Show.Rate(p.RatePointsPerMinute), Show.Number(p.RatePointsPerMinute),
-                p.IsActive ? Show.Duration(p.Remaining) : Show.Missing, Show.Duration(p.Elapsed), Show.Clock(s.StartedAt), Show.Clock(s.FinishedAt)));
+                p.IsActive ? Show.Duration(p.Remaining) : Show.Missing, Show.Duration(p.Elapsed), Show.Clock(s.StartedAt), Show.Clock(s.FinishedAt)))
+        {
+            Unstable = c.Unstable,
+        };
     }
 
     public static string StateText(SweepState state) => state.ToString().ToLowerInvariant();
@@ -51,7 +57,11 @@ public sealed record SweepLineText(string Finished, string Rate, string RateNumb
 public sealed record SweepList(DateTimeOffset GeneratedAt, ImmutableArray<SweepLine> Sweeps);
 
 /// <summary>Point counts for one value of a swept parameter.</summary>
-public sealed record AxisValueLine(object Value, string ValueText, long Total, long Done, long Failed, long Pending, long Cancelled);
+public sealed record AxisValueLine(object Value, string ValueText, long Total, long Done, long Failed, long Pending, long Cancelled)
+{
+    /// <summary>Points of this value whose model is unstable.</summary>
+    public long Unstable { get; init; }
+}
 
 /// <summary>Coverage of one swept parameter.</summary>
 public sealed record AxisLine(string Column, string Path, string Unit, ImmutableArray<AxisValueLine> Values);

@@ -23,7 +23,7 @@ internal static class SweepViews
         var folder = board.Results.SweepFolderOf(sweep);
         var axes = board.Catalog.GetAxisCoverage(sweep.SweepId)
             .Select(a => new AxisLine(a.ColumnName, a.Path, Formatting.Show.Unit(a.Unit), [.. a.Values.Select(v =>
-                new AxisValueLine(v.Value, Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled))]))
+                new AxisValueLine(v.Value, Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled) { Unstable = v.Unstable })]))
             .ToImmutableArray();
         var failures = FailureReport.Of(board.Catalog, sweep.SweepId)
             .Select(g => new FailureLine(g.Group.Kind.ToString().ToLowerInvariant(), g.KindText, g.Group.Reason, g.Group.Count,

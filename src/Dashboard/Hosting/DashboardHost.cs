@@ -29,7 +29,7 @@ public static class DashboardHost
         QueueStore store;
         try
         {
-            store = QueueStore.Open(options.Store, options.Time);
+            store = QueueStore.OpenExisting(options.Store, options.Time); // the dashboard never creates a store
         }
         catch (StoreUnavailableException ex)
         {

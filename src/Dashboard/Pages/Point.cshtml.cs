@@ -53,7 +53,7 @@ internal sealed class PointModel : PageModel
         SoundSpeeds = await _board.Results.PointRowsAsync(sweep, TableNames.SoundSpeeds, point.ChunkId, point.PointId, ct).ConfigureAwait(false);
         var row = await _board.Results.PointRowsAsync(sweep, TableNames.Points, point.ChunkId, point.PointId, ct).ConfigureAwait(false);
         var flags = new PointFlags(row);
-        Unstable = row.Rows.Any(flags.IsUnstable);
+        Unstable = point.State == PointState.Unstable || row.Rows.Any(flags.IsUnstable);
         Floppy = row.Rows.Any(flags.IsFloppy);
         return Page();
     }

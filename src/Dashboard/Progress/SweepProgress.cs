@@ -30,7 +30,7 @@ public sealed record SweepProgress(
         }
 
         // Cancelled points took no time: the rate counts only points that ran to an end.
-        var ran = c.Done + c.Failed;
+        var ran = c.Done + c.Unstable + c.Failed;
         double? rate = elapsed is { TotalSeconds: > 0 } e && ran > 0 ? ran / e.TotalMinutes : null;
         var active = sweep.State is SweepState.Queued or SweepState.Running;
         TimeSpan? remaining = active && rate is > 0 ? TimeSpan.FromMinutes(c.Unfinished / rate.Value) : null;

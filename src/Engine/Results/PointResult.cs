@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.Elastic;
 using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Engine.Results;
@@ -14,4 +15,11 @@ public sealed record PointResult(
 {
     /// <summary>Thermal-conductivity estimates, when the options asked for them.</summary>
     public ConductivityResult? Conductivity { get; init; }
+
+    /// <summary>
+    /// When the model's springs were fitted to elastic constants: the fit (its relative residual, the
+    /// constants the springs reproduce and their Christoffel sound speeds). Set by whoever built the
+    /// model from the fit (the solver sees only the model).
+    /// </summary>
+    public ElasticFitResult? ElasticFit { get; init; }
 }

@@ -5,9 +5,10 @@ namespace LatticeSweep.Engine.Results;
 
 /// <summary>
 /// The headline numbers of one solved model. Thermal numbers are per mole of atoms at
-/// <see cref="ReferenceTemperatureK"/>; frequencies in THz; NaN where a number is undefined
-/// (for example sound speeds of a finite crystal too small to have a q near 0 are still taken
-/// from the analytic slope, so they are defined).
+/// <see cref="ReferenceTemperatureK"/>; frequencies in THz. A number that is undefined is null,
+/// never NaN: every thermal number, Debye temperature and kappa of an unstable model (whose
+/// <see cref="Gaps"/> and <see cref="SoundSpeeds"/> are then empty), Debye temperature from Cv at
+/// 0 K, the n = -2 moment outside 3D (it diverges in the 1D and 2D Debye models).
 /// </summary>
 public sealed record PointSummary
 {
@@ -47,26 +48,26 @@ public sealed record PointSummary
     public required ImmutableArray<SoundSpeed> SoundSpeeds { get; init; }
 
     public required double ReferenceTemperatureK { get; init; }
-    public required double HeatCapacityJPerMolK { get; init; }
-    public required double EntropyJPerMolK { get; init; }
-    public required double FreeEnergyJPerMol { get; init; }
-    public required double InternalEnergyJPerMol { get; init; }
-    public required double ZeroPointEnergyJPerMol { get; init; }
+    public required double? HeatCapacityJPerMolK { get; init; }
+    public required double? EntropyJPerMolK { get; init; }
+    public required double? FreeEnergyJPerMol { get; init; }
+    public required double? InternalEnergyJPerMol { get; init; }
+    public required double? ZeroPointEnergyJPerMol { get; init; }
 
     /// <summary>Debye temperature from Cv at the reference temperature.</summary>
-    public required double DebyeTemperatureFromCvK { get; init; }
+    public required double? DebyeTemperatureFromCvK { get; init; }
 
     /// <summary>Debye temperatures from frequency moments n = -2, logarithmic and n = 2.</summary>
-    public required double DebyeTemperatureMomentMinus2K { get; init; }
-    public required double DebyeTemperatureMomentLogK { get; init; }
-    public required double DebyeTemperatureMoment2K { get; init; }
+    public required double? DebyeTemperatureMomentMinus2K { get; init; }
+    public required double? DebyeTemperatureMomentLogK { get; init; }
+    public required double? DebyeTemperatureMoment2K { get; init; }
 
     /// <summary>Mean molar mass of the atoms, kg/mol: divide a per-mole-of-atoms value by it for per kg.</summary>
     public required double MolarMassKgPerMol { get; init; }
 
-    /// <summary>Lattice thermal conductivity at the reference temperature, W/(m K); NaN when not computed.</summary>
-    public double KappaWPerMK { get; init; } = double.NaN;
+    /// <summary>Lattice thermal conductivity at the reference temperature, W/(m K); null when not computed or undefined.</summary>
+    public double? KappaWPerMK { get; init; }
 
-    /// <summary>Cahill-Pohl-Watson minimum conductivity at the reference temperature, W/(m K); NaN when not computed.</summary>
-    public double KappaMinWPerMK { get; init; } = double.NaN;
+    /// <summary>Cahill-Pohl-Watson minimum conductivity at the reference temperature, W/(m K); null when not computed or undefined.</summary>
+    public double? KappaMinWPerMK { get; init; }
 }

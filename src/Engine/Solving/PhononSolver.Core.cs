@@ -140,21 +140,21 @@ public static partial class PhononSolver
         var classicalCv = crystal.Components * PhysicalConstants.GasConstantJPerMolK;
         var dimension = model.Lattice.Dimension;
 
+        // An unstable model has no thermal state: no thermal or displacement rows, and every number
+        // derived from the spectrum's thermal sums is null (never NaN, never a value from |omega|).
         var rows = ImmutableArray.CreateBuilder<ThermalRow>(options.TemperaturesK.Length);
         ThermalRow? reference = null;
-        for (var t = 0; t < temperatures.Length; t++)
+        for (var t = 0; t < temperatures.Length && !unstable; t++)
         {
             var s = sink.Sums(t);
             var cv = s.HeatCapacity * perMolAtoms;
-            var row = unstable
-                ? new ThermalRow(temperatures[t], double.NaN, double.NaN, double.NaN, double.NaN, double.NaN)
-                : new ThermalRow(
-                    temperatures[t],
-                    s.Internal * perMolAtoms,
-                    s.Free * perMolAtoms,
-                    s.Entropy * perMolAtoms,
-                    cv,
-                    DebyeModel.TemperatureFromHeatCapacity(temperatures[t], cv / classicalCv, dimension));
+            var row = new ThermalRow(
+                temperatures[t],
+                s.Internal * perMolAtoms,
+                s.Free * perMolAtoms,
+                s.Entropy * perMolAtoms,
+                cv,
+                Defined(DebyeModel.TemperatureFromHeatCapacity(temperatures[t], cv / classicalCv, dimension)));
             if (t < options.TemperaturesK.Length)
             {
                 rows.Add(row);
@@ -167,28 +167,28 @@ public static partial class PhononSolver
         }
 
         var displacements = ImmutableArray.CreateBuilder<DisplacementRow>();
-        if (options.MeanSquareDisplacement)
+        if (options.MeanSquareDisplacement && !unstable)
         {
             for (var t = 0; t < options.TemperaturesK.Length; t++)
             {
                 for (var site = 0; site < r; site++)
                 {
-                    double Get(int axis) => unstable || axis >= crystal.Components
-                        ? double.NaN
-                        : sink.Msd(t, site * crystal.Components + axis) * 1e18;
+                    double? Get(int axis) => axis >= crystal.Components ? null : sink.Msd(t, site * crystal.Components + axis) * 1e18;
                     displacements.Add(new DisplacementRow(temperatures[t], site, model.Sites[site].Label, Get(0), Get(1), Get(2)));
                 }
             }
         }
 
         var states = sink.StatesCounted;
+        var stable = !unstable && states > 0;
         var zeroPoint = sink.Sums(0).ZeroPoint * perMolAtoms;
-        var thetaMinus2 = dimension >= 3 && states > 0
-            ? DebyeModel.TemperatureFromMoment(sink.SumInverseOmegaSquared / states, -2, dimension)
-            : double.NaN;
-        var thetaLog = states > 0 ? DebyeModel.TemperatureFromLogMoment(sink.SumLnOmega / states, dimension) : double.NaN;
-        var theta2 = states > 0 ? DebyeModel.TemperatureFromMoment(sink.SumOmegaSquared / states, 2, dimension) : double.NaN;
-        var nan = unstable;
+
+        // <omega^-2> of the d-dimensional Debye model diverges for d < 3: the n = -2 value exists in 3D only.
+        var thetaMinus2 = stable && dimension >= 3
+            ? Defined(DebyeModel.TemperatureFromMoment(sink.SumInverseOmegaSquared / states, -2, dimension))
+            : null;
+        var thetaLog = stable ? Defined(DebyeModel.TemperatureFromLogMoment(sink.SumLnOmega / states, dimension)) : null;
+        var theta2 = stable ? Defined(DebyeModel.TemperatureFromMoment(sink.SumOmegaSquared / states, 2, dimension)) : null;
 
         var summary = new PointSummary
         {
@@ -205,23 +205,26 @@ public static partial class PhononSolver
             MinFrequencyThz = ModeSolver.SignedThz(Math.Min(stats.WorstLambda, stats.BranchMin.Min())),
             Stable = !unstable,
             WorstQReduced = unstable ? stats.WorstQReduced : null,
-            Gaps = Gaps(stats),
-            SoundSpeeds = [.. speeds],
+            Gaps = unstable ? [] : Gaps(stats),
+            SoundSpeeds = unstable ? [] : [.. speeds],
             ReferenceTemperatureK = options.ReferenceTemperatureK,
-            HeatCapacityJPerMolK = reference?.HeatCapacityJPerMolK ?? double.NaN,
-            EntropyJPerMolK = reference?.EntropyJPerMolK ?? double.NaN,
-            FreeEnergyJPerMol = reference?.FreeEnergyJPerMol ?? double.NaN,
-            InternalEnergyJPerMol = reference?.InternalEnergyJPerMol ?? double.NaN,
-            ZeroPointEnergyJPerMol = nan ? double.NaN : zeroPoint,
-            DebyeTemperatureFromCvK = reference?.DebyeTemperatureK ?? double.NaN,
-            DebyeTemperatureMomentMinus2K = nan ? double.NaN : thetaMinus2,
-            DebyeTemperatureMomentLogK = nan ? double.NaN : thetaLog,
-            DebyeTemperatureMoment2K = nan ? double.NaN : theta2,
+            HeatCapacityJPerMolK = reference?.HeatCapacityJPerMolK,
+            EntropyJPerMolK = reference?.EntropyJPerMolK,
+            FreeEnergyJPerMol = reference?.FreeEnergyJPerMol,
+            InternalEnergyJPerMol = reference?.InternalEnergyJPerMol,
+            ZeroPointEnergyJPerMol = unstable ? null : Defined(zeroPoint),
+            DebyeTemperatureFromCvK = reference?.DebyeTemperatureK,
+            DebyeTemperatureMomentMinus2K = thetaMinus2,
+            DebyeTemperatureMomentLogK = thetaLog,
+            DebyeTemperatureMoment2K = theta2,
             MolarMassKgPerMol = model.CellMassAmu / r * 1e-3,
         };
 
         return new PointResult(summary, outcome.Dos, rows.ToImmutable(), displacements.ToImmutable(), dispersion, outcome.Modes);
     }
+
+    /// <summary>The helpers mark an undefined number NaN; results say it with null.</summary>
+    private static double? Defined(double value) => double.IsNaN(value) ? null : value;
 
     /// <summary>Gaps between consecutive branches: the top of branch k below the bottom of branch k + 1.</summary>
     private static ImmutableArray<BandGap> Gaps(SpectrumStatistics stats)

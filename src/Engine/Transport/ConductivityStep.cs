@@ -23,8 +23,11 @@ internal static class ConductivityStep
                 Conductivity = conductivity,
                 Summary = result.Summary with
                 {
-                    KappaWPerMK = conductivity.AtReference.KappaWPerMK,
-                    KappaMinWPerMK = conductivity.KappaMinWPerMK,
+                    KappaWPerMK = Defined(conductivity.AtReference.KappaWPerMK),
+                    KappaMinWPerMK = Defined(conductivity.KappaMinWPerMK),
                 },
             };
+
+    /// <summary>The conductivity pass marks an undefined number NaN; the summary says it with null.</summary>
+    private static double? Defined(double value) => double.IsNaN(value) ? null : value;
 }

@@ -123,12 +123,12 @@ public abstract partial class SqlSweepCatalog
         var result = new List<AxisCoverage>();
         foreach (var axis in sweep.Axes)
         {
-            var byValue = new Dictionary<string, (object Value, long Total, long Done, long Failed, long Pending, long Cancelled)>(StringComparer.Ordinal);
+            var byValue = new Dictionary<string, (object Value, long Total, long Done, long Failed, long Pending, long Cancelled, long Unstable)>(StringComparer.Ordinal);
             var order = new List<string>();
             foreach (var v in axis.Values)
             {
                 var key = CatalogJson.Show(v);
-                if (byValue.TryAdd(key, (v, 0, 0, 0, 0, 0)))
+                if (byValue.TryAdd(key, (v, 0, 0, 0, 0, 0, 0)))
                 {
                     order.Add(key);
                 }
@@ -144,7 +144,7 @@ public abstract partial class SqlSweepCatalog
                 var key = CatalogJson.Show(value);
                 if (!byValue.TryGetValue(key, out var e))
                 {
-                    e = (value, 0, 0, 0, 0, 0);
+                    e = (value, 0, 0, 0, 0, 0, 0);
                     order.Add(key);
                 }
 
@@ -153,12 +153,13 @@ public abstract partial class SqlSweepCatalog
                     PointState.Done => e with { Total = e.Total + 1, Done = e.Done + 1 },
                     PointState.Failed => e with { Total = e.Total + 1, Failed = e.Failed + 1 },
                     PointState.Cancelled => e with { Total = e.Total + 1, Cancelled = e.Cancelled + 1 },
+                    PointState.Unstable => e with { Total = e.Total + 1, Unstable = e.Unstable + 1 },
                     _ => e with { Total = e.Total + 1, Pending = e.Pending + 1 },
                 };
             }
 
             result.Add(new AxisCoverage(axis.ColumnName, axis.Path, axis.Unit,
-                [.. order.Select(k => byValue[k]).Select(e => new AxisValueCoverage(e.Value, e.Total, e.Done, e.Failed, e.Pending, e.Cancelled))]));
+                [.. order.Select(k => byValue[k]).Select(e => new AxisValueCoverage(e.Value, e.Total, e.Done, e.Failed, e.Pending, e.Cancelled) { Unstable = e.Unstable })]));
         }
 
         return result;
@@ -208,17 +209,7 @@ public abstract partial class SqlSweepCatalog
         while (r.Read())
         {
             var id = r.GetString(0);
-            var n = r.GetInt64(2);
-            var x = map.GetValueOrDefault(id, SweepCounts.Empty) with { };
-            x = ParsePointState(r.GetString(1)) switch
-            {
-                PointState.Waiting => x with { Waiting = x.Waiting + n },
-                PointState.Running => x with { Running = x.Running + n },
-                PointState.Done => x with { Done = x.Done + n },
-                PointState.Failed => x with { Failed = x.Failed + n },
-                _ => x with { Cancelled = x.Cancelled + n },
-            };
-            map[id] = x with { Total = x.Total + n };
+            map[id] = Count(map.GetValueOrDefault(id, SweepCounts.Empty), ParsePointState(r.GetString(1)), r.GetInt64(2));
         }
 
         return map;

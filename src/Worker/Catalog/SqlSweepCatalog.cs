@@ -290,12 +290,27 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         GC.SuppressFinalize(this);
     }
 
-    /// <summary>SQL condition: the point has its row in the results (done, or failed for a model or engine reason).</summary>
+    /// <summary>SQL condition: the point has its row in the results (done, unstable, or failed for a model or engine reason).</summary>
     private static readonly string HasResultSql =
-        $"state = '{Text(PointState.Done)}' OR (state = '{Text(PointState.Failed)}' AND failure_kind IN ('{Text(FailureKind.Model)}', '{Text(FailureKind.Engine)}'))";
+        $"state IN ('{Text(PointState.Done)}', '{Text(PointState.Unstable)}') OR (state = '{Text(PointState.Failed)}' AND failure_kind IN ('{Text(FailureKind.Model)}', '{Text(FailureKind.Engine)}'))";
 
     private static bool HasResult(PointState state, FailureKind? kind) =>
-        state == PointState.Done || (state == PointState.Failed && kind is { } k && k.HasResult());
+        state is PointState.Done or PointState.Unstable || (state == PointState.Failed && kind is { } k && k.HasResult());
+
+    /// <summary>The counts with <paramref name="n"/> more points in <paramref name="state"/>.</summary>
+    internal static SweepCounts Count(SweepCounts c, PointState state, long n)
+    {
+        var x = state switch
+        {
+            PointState.Waiting => c with { Waiting = c.Waiting + n },
+            PointState.Running => c with { Running = c.Running + n },
+            PointState.Done => c with { Done = c.Done + n },
+            PointState.Failed => c with { Failed = c.Failed + n },
+            PointState.Unstable => c with { Unstable = c.Unstable + n },
+            _ => c with { Cancelled = c.Cancelled + n },
+        };
+        return x with { Total = x.Total + n };
+    }
 
     private static SweepState? ReadSweepState(DbConnection c, DbTransaction? tx, string sweepId)
     {
@@ -324,20 +339,12 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         using var cmd = Command(c, tx, "SELECT state, COUNT(*) FROM latsweep_points WHERE sweep_id = @sweep GROUP BY state");
         Add(cmd, "sweep", sweepId);
         using var r = cmd.ExecuteReader();
-        long waiting = 0, running = 0, done = 0, failed = 0, cancelled = 0;
+        var counts = SweepCounts.Empty;
         while (r.Read())
         {
-            var n = r.GetInt64(1);
-            switch (ParsePointState(r.GetString(0)))
-            {
-                case PointState.Waiting: waiting += n; break;
-                case PointState.Running: running += n; break;
-                case PointState.Done: done += n; break;
-                case PointState.Failed: failed += n; break;
-                case PointState.Cancelled: cancelled += n; break;
-            }
+            counts = Count(counts, ParsePointState(r.GetString(0)), r.GetInt64(1));
         }
 
-        return new SweepCounts(waiting + running + done + failed + cancelled, waiting, running, done, failed, cancelled);
+        return counts;
     }
 }

@@ -18,15 +18,20 @@ public static class CliApp
         ArgumentNullException.ThrowIfNull(context);
         if (args.Count == 0 || args[0] is "--help" or "-h" or "help")
         {
-            (args.Count == 0 ? context.Stderr : context.Stdout).Write(Usage.Text);
-            return args.Count == 0 ? ExitCodes.BadInput : ExitCodes.Ok;
+            return Help(args, context);
+        }
+
+        if (args[0] is "--version" or "version")
+        {
+            context.Stdout.WriteLine(Usage.Version);
+            return ExitCodes.Ok;
         }
 
         var command = args[0];
         var rest = args.Skip(1).ToList();
         if (rest.Contains("--help") || rest.Contains("-h"))
         {
-            context.Stdout.Write(Usage.Text);
+            context.Stdout.Write(CommandHelp.For(command) ?? Usage.Text);
             return ExitCodes.Ok;
         }
 
@@ -41,9 +46,15 @@ public static class CliApp
                 "status" => StatusCommand.Run(CommandLine.Parse(command, rest, Options("store"), 0, 1), context),
                 "cancel" => SweepCommands.Cancel(CommandLine.Parse(command, rest, Options("store"), 1, 1), context),
                 "check" => CheckCommand.Run(PathIn(context, CommandLine.Parse(command, rest, Options(), 1, 1).Arguments[0]), context.Stdout, context.Stderr),
-                "solve" => SolveCommand.Run(PathIn(context, CommandLine.Parse(command, rest, Options(), 1, 1).Arguments[0]), context.Stdout, context.Stderr),
-                _ => throw new UsageException($"unknown command '{command}' (commands: run, check, solve, submit, work, status, cancel, resume; see latsweep --help)"),
+                "solve" => Solve(CommandLine.Parse(command, rest, Options("!full-precision"), 1, 1), context),
+                "init" => StarterJob.Write(PathIn(context, CommandLine.Parse(command, rest, Options(), 1, 1).Arguments[0]), context),
+                _ => throw new UsageException($"unknown command '{EchoText.Of(command)}' (commands: {string.Join(", ", CommandHelp.Commands)}; see latsweep --help)"),
             };
+        }
+        catch (Exception ex) when (StoreFaults.IsDiskFull(ex, StoreOf(rest, context)))
+        {
+            // Before the generic store message: "cannot open the store: disk I/O error" says too little.
+            return BadInput(context, ex is StoreFullException ? ex.Message : StoreFaults.Describe(StoreOf(rest, context)));
         }
         catch (UsageException ex)
         {
@@ -71,12 +82,72 @@ public static class CliApp
         }
     }
 
+    /// <summary><c>latsweep</c>, <c>latsweep --help</c>, <c>latsweep help [COMMAND]</c>.</summary>
+    private static int Help(IReadOnlyList<string> args, CliContext context)
+    {
+        if (args.Count == 0)
+        {
+            context.Stderr.Write(Usage.Text);
+            return ExitCodes.BadInput;
+        }
+
+        if (args.Count > 1 && args[0] == "help")
+        {
+            if (CommandHelp.For(args[1]) is not { } text)
+            {
+                return BadInput(context, $"no command '{EchoText.Of(args[1])}' (commands: {string.Join(", ", CommandHelp.Commands)})");
+            }
+
+            context.Stdout.Write(text);
+            return ExitCodes.Ok;
+        }
+
+        context.Stdout.Write(Usage.Text);
+        return ExitCodes.Ok;
+    }
+
+    /// <summary>The store a command line names (its --store, else the default), or null when it names none usable.</summary>
+    private static StoreLocation? StoreOf(IReadOnlyList<string> rest, CliContext context)
+    {
+        string? value = null;
+        for (var i = 0; i < rest.Count; i++)
+        {
+            if (rest[i] == "--store" && i + 1 < rest.Count)
+            {
+                value = rest[i + 1];
+            }
+            else if (rest[i].StartsWith("--store=", StringComparison.Ordinal))
+            {
+                value = rest[i]["--store=".Length..];
+            }
+        }
+
+        try
+        {
+            return StoreLocation.Parse(value, context.CurrentDirectory);
+        }
+        catch (ArgumentException)
+        {
+            return null;
+        }
+    }
+
+    private static int Solve(CommandLine line, CliContext context) =>
+        SolveCommand.Run(PathIn(context, line.Arguments[0]), context.Stdout, context.Stderr, line.Flag("full-precision"));
+
     /// <summary>A path given on the command line, taken relative to the command's folder.</summary>
     internal static string PathIn(CliContext context, string path) => Path.GetFullPath(Path.Combine(context.CurrentDirectory, path));
 
     private static int BadInput(CliContext context, string message)
     {
-        context.Stderr.WriteLine("latsweep: " + message);
+        // Each line escaped and cut: a message may quote text from the user or from a library.
+        var prefix = "latsweep: ";
+        foreach (var line in message.ReplaceLineEndings("\n").Split('\n'))
+        {
+            context.Stderr.WriteLine(prefix + EchoText.Cut(line, EchoText.MaxLineChars));
+            prefix = "";
+        }
+
         return ExitCodes.BadInput;
     }
 

@@ -15,6 +15,12 @@ public static class ExitCodes
     /// <summary>The sweep finished but some points failed.</summary>
     public const int SomeFailed = 3;
 
+    /// <summary>
+    /// Every point finished and has its results, none failed, but some models are unstable (state
+    /// <c>unstable</c>: no thermal numbers). <see cref="SomeFailed"/> takes precedence.
+    /// </summary>
+    public const int SomeUnstable = 4;
+
     /// <summary>Stopped by Ctrl+C or a termination signal; <c>resume</c> continues.</summary>
     public const int Interrupted = 130;
 }

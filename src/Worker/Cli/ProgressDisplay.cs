@@ -102,7 +102,7 @@ public sealed class ProgressDisplay
         var filled = (int)Math.Round(fraction * BarWidth);
         var bar = _interactive ? "[" + new string('#', filled) + new string('.', BarWidth - filled) + "] " : "progress: ";
         return string.Create(CultureInfo.InvariantCulture,
-            $"{bar}{counts.Finished}/{counts.Total} ({fraction:P0})  done {counts.Done}  failed {counts.Failed}  {rate:F1} points/s  ETA {eta}  elapsed {FormatDuration(elapsed)}");
+            $"{bar}{counts.Finished}/{counts.Total} ({fraction:P0})  done {counts.Done}  failed {counts.Failed}{(counts.Unstable > 0 ? $"  unstable {counts.Unstable}" : "")}  {rate:F1} points/s  ETA {eta}  elapsed {FormatDuration(elapsed)}");
     }
 
     public static string FormatDuration(TimeSpan t) =>

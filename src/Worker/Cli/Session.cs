@@ -8,19 +8,31 @@ namespace LatticeSweep.Worker.Cli;
 /// <summary>What the queue commands share: the opened store, the logger and the progress display.</summary>
 internal sealed class Session : IDisposable
 {
-    private Session(QueueStore store, Logger log, ProgressDisplay progress, string? logFile)
+    private readonly StoreFaultWatch _faults;
+
+    private Session(QueueStore store, Logger log, ProgressDisplay progress, string? logFile, StoreFaultWatch faults)
     {
+        _faults = faults;
         Store = store;
         Log = log;
         Progress = progress;
-        LogFile = logFile;
+        _logFile = logFile;
     }
 
     public QueueStore Store { get; }
     public Logger Log { get; }
     public ProgressDisplay Progress { get; }
-    public string? LogFile { get; }
+    private readonly string? _logFile;
+
+    /// <summary>The JSON log file, once something has been written to it (null before, and without one).</summary>
+    public string? LogFile => _logFile is not null && File.Exists(_logFile) ? _logFile : null;
     public ISweepCatalog Catalog => Store.Catalog;
+
+    /// <summary>True once the store was found unable to take writes because its disk is full (see <see cref="StoreFaultWatch"/>).</summary>
+    public bool StoreDiskFull => _faults.DiskFull;
+
+    /// <summary>The exception that ends a command whose store's disk filled up (exit code 2).</summary>
+    public StoreFullException DiskFullStop() => new(StoreFaults.Describe(Store.Location));
 
     public static Session Open(CommandLine line, CliContext context)
     {
@@ -35,14 +47,23 @@ internal sealed class Session : IDisposable
         }
 
         var options = new StoreOptions { ReclaimAfter = ReclaimAfter(line, context, location) };
+
+        // Only these create a store; the others would turn a mistyped --store into an empty new one.
+        var creates = line.Command is "run" or "submit" or "work";
+        if (!creates)
+        {
+            QueueStore.RequireExisting(location); // before the log, so nothing at all is created
+        }
+
         var progress = new ProgressDisplay(context.Stderr, context.StderrIsTerminal, context.Time);
-        var log = LogSetup.Create(progress.WriteLine, location.LogFolder(context.CurrentDirectory), line.Command, context.Time, out var logFile);
+        var faults = new StoreFaultWatch(location);
+        var log = LogSetup.Create(progress.WriteLine, location.LogFolder(context.CurrentDirectory), line.Command, context.Time, faults, out var logFile);
 
         // The queue library logs through Serilog's static logger when one is set.
         Serilog.Log.Logger = log;
         try
         {
-            return new Session(QueueStore.Open(location, context.Time, options, log), log, progress, logFile);
+            return new Session(QueueStore.Open(location, context.Time, options, log), log, progress, logFile, faults);
         }
         catch
         {

@@ -21,11 +21,11 @@ internal static class StatusCommand
                 return ExitCodes.Ok;
             }
 
-            var table = new TextTable(["sweep", "state", "points", "done", "failed", "waiting", "running", "cancelled", "created (UTC)"],
-                [false, false, true, true, true, true, true, true, false]);
+            var table = new TextTable(["sweep", "state", "points", "done", "unstable", "failed", "waiting", "running", "cancelled", "created (UTC)"],
+                [false, false, true, true, true, true, true, true, true, false]);
             foreach (var s in sweeps)
             {
-                table.Add(s.SweepId, State(s.State), N(s.Counts.Total), N(s.Counts.Done), N(s.Counts.Failed), N(s.Counts.Waiting),
+                table.Add(s.SweepId, State(s.State), N(s.Counts.Total), N(s.Counts.Done), N(s.Counts.Unstable), N(s.Counts.Failed), N(s.Counts.Waiting),
                     N(s.Counts.Running), N(s.Counts.Cancelled), Time(s.CreatedAt));
             }
 
@@ -36,7 +36,7 @@ internal static class StatusCommand
         var sweep = session.Sweep(line.Arguments[0]);
         o.WriteLine($"Sweep      {sweep.SweepId} ({sweep.Name})");
         o.WriteLine($"State      {State(sweep.State)}");
-        o.WriteLine($"Points     {N(sweep.Counts.Total)} in {N(sweep.ChunkCount)} chunks: {N(sweep.Counts.Done)} done, {N(sweep.Counts.Failed)} failed, {N(sweep.Counts.Waiting)} waiting, {N(sweep.Counts.Running)} running, {N(sweep.Counts.Cancelled)} cancelled");
+        o.WriteLine($"Points     {N(sweep.Counts.Total)} in {N(sweep.ChunkCount)} chunks: {N(sweep.Counts.Done)} done, {N(sweep.Counts.Unstable)} unstable, {N(sweep.Counts.Failed)} failed, {N(sweep.Counts.Waiting)} waiting, {N(sweep.Counts.Running)} running, {N(sweep.Counts.Cancelled)} cancelled");
         if (sweep.Counts.Running > 0)
         {
             WriteRunning(session, context, sweep);
@@ -63,14 +63,24 @@ internal static class StatusCommand
             table.WriteTo(o, "  ");
         }
 
+        if (sweep.Counts.Unstable > 0)
+        {
+            o.WriteLine();
+            o.WriteLine($"Unstable models: {N(sweep.Counts.Unstable)} points (solved; stable = false in points/, thermal numbers empty), e.g.:");
+            foreach (var p in session.Catalog.GetPoints(sweep.SweepId, new PointQuery(PointState.Unstable, 0, 5)))
+            {
+                o.WriteLine($"  {p.PointId} {PointText.Parameters(p.Parameters)}: {p.Error}");
+            }
+        }
+
         foreach (var axis in session.Catalog.GetAxisCoverage(sweep.SweepId))
         {
             o.WriteLine();
             o.WriteLine($"Coverage of {axis.ColumnName}{(axis.Unit.Length > 0 ? $" [{axis.Unit}]" : "")} ({axis.Path}):");
-            var table = new TextTable(["value", "points", "done", "failed", "pending", "cancelled"], [true, true, true, true, true, true]);
+            var table = new TextTable(["value", "points", "done", "unstable", "failed", "pending", "cancelled"], [true, true, true, true, true, true, true]);
             foreach (var v in axis.Values.Take(50))
             {
-                table.Add(CatalogJson.Show(v.Value), N(v.Total), N(v.Done), N(v.Failed), N(v.Pending), N(v.Cancelled));
+                table.Add(CatalogJson.Show(v.Value), N(v.Total), N(v.Done), N(v.Unstable), N(v.Failed), N(v.Pending), N(v.Cancelled));
             }
 
             table.WriteTo(o, "  ");

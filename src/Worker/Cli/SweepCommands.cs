@@ -1,4 +1,5 @@
 using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Commands;
 using LatticeSweep.Worker.Output;
 using LatticeSweep.Worker.Planning;
 using LatticeSweep.Worker.Queue;
@@ -58,6 +59,7 @@ internal static class SweepCommands
         var runner = Runner(session, context, new JobFilePlanSource());
         var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
         var interrupted = false;
+        var storeFull = false;
         using (new WorkerPool(session.Store, runner, workers))
         {
             session.Log.Information("Working the queue of {Store} with {Workers} workers ({Mode})",
@@ -69,6 +71,12 @@ internal static class SweepCommands
                 if (context.Stop.IsCancellationRequested)
                 {
                     interrupted = true;
+                    break;
+                }
+
+                if (session.StoreDiskFull)
+                {
+                    storeFull = true;
                     break;
                 }
 
@@ -86,15 +94,24 @@ internal static class SweepCommands
             }
         }
 
+        // Also when a chunk met the full disk while the pool was stopping (it waits for running chunks).
+        if (storeFull || session.StoreDiskFull)
+        {
+            throw session.DiskFullStop();
+        }
+
         context.Stdout.WriteLine(interrupted
             ? "Stopped; unfinished chunks stay queued."
-            : $"The queue is empty. Points failed here: {runner.FailedPoints}.");
+            : $"The queue is empty. Points failed here: {runner.FailedPoints}; unstable models: {runner.UnstablePoints}.");
         if (session.LogFile is not null)
         {
             context.Stdout.WriteLine($"Log: {session.LogFile}");
         }
 
-        return interrupted ? ExitCodes.Interrupted : runner.FailedPoints > 0 ? ExitCodes.SomeFailed : ExitCodes.Ok;
+        return interrupted ? ExitCodes.Interrupted
+            : runner.FailedPoints > 0 ? ExitCodes.SomeFailed
+            : runner.UnstablePoints > 0 ? ExitCodes.SomeUnstable
+            : ExitCodes.Ok;
     }
 
     public static int Cancel(CommandLine line, CliContext context)
@@ -115,6 +132,7 @@ internal static class SweepCommands
         var runner = Runner(session, context, plans);
         var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
         var interrupted = false;
+        var storeFull = false;
         using (new WorkerPool(session.Store, runner, workers))
         {
             session.Log.Information("Working sweep {SweepId} with {Workers} workers", sweepId, workers);
@@ -136,11 +154,22 @@ internal static class SweepCommands
                     break;
                 }
 
+                if (session.StoreDiskFull)
+                {
+                    storeFull = true;
+                    break;
+                }
+
                 context.Stop.WaitHandle.WaitOne(context.PollInterval);
             }
         }
 
         session.Progress.Finish();
+        if (storeFull || session.StoreDiskFull)
+        {
+            throw session.DiskFullStop();
+        }
+
         var final = session.Catalog.FindSweep(sweepId)!;
         if (interrupted)
         {
@@ -149,14 +178,32 @@ internal static class SweepCommands
         }
 
         PrintSummary(session, context, final);
-        return final.Counts.Done == final.Counts.Total ? ExitCodes.Ok : ExitCodes.SomeFailed;
+        return ExitCodeOf(final.Counts);
     }
+
+    /// <summary>0 every point done and stable; 3 some failed (or were cancelled); 4 all finished with results but some unstable.</summary>
+    internal static int ExitCodeOf(SweepCounts c) =>
+        c.Failed > 0 ? ExitCodes.SomeFailed
+        : c.Done == c.Total ? ExitCodes.Ok
+        : c.Solved == c.Total ? ExitCodes.SomeUnstable
+        : ExitCodes.SomeFailed;
 
     private static void PrintSummary(Session session, CliContext context, SweepRecord sweep)
     {
         var o = context.Stdout;
         var took = sweep.StartedAt is { } s && sweep.FinishedAt is { } f ? $" in {ProgressDisplay.FormatDuration(f - s)}" : "";
-        o.WriteLine($"Sweep {sweep.SweepId} {sweep.State.ToString().ToLowerInvariant()}: {sweep.Counts.Total} points, {sweep.Counts.Done} done, {sweep.Counts.Failed} failed, {sweep.Counts.Cancelled} cancelled{took}.");
+        var c = sweep.Counts;
+        o.WriteLine($"Sweep {sweep.SweepId} {sweep.State.ToString().ToLowerInvariant()}: {c.Total} points: {c.Done} done, {c.Unstable} unstable, {c.Failed} failed, {c.Cancelled} cancelled{took}.");
+        if (c.Unstable > 0)
+        {
+            var examples = session.Catalog.GetPoints(sweep.SweepId, new PointQuery(PointState.Unstable, 0, 3));
+            o.WriteLine($"Unstable models ({c.Unstable} points; stable = false in points/, their thermal numbers empty), e.g.:");
+            foreach (var p in examples)
+            {
+                o.WriteLine($"  {p.PointId} {PointText.Parameters(p.Parameters)}: {p.Error}");
+            }
+        }
+
         var groups = session.Catalog.GetFailureGroups(sweep.SweepId);
         if (groups.Count > 0)
         {

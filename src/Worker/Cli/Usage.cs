@@ -1,16 +1,22 @@
 namespace LatticeSweep.Worker.Cli;
 
-/// <summary>The text of <c>latsweep --help</c>.</summary>
+/// <summary>The text of <c>latsweep --help</c> and <c>latsweep --version</c>.</summary>
 internal static class Usage
 {
+    /// <summary>One line: the program's and the engine's version and the runtime.</summary>
+    public static string Version =>
+        $"latsweep {typeof(Usage).Assembly.GetName().Version?.ToString(3) ?? "0.0.0"} (engine {Engine.Solving.PhononSolver.EngineVersion}, .NET {Environment.Version})";
+
     public const string Text = """
         latsweep: batch lattice-vibration sweeps on a durable queue, results as Parquet datasets.
 
         Usage:
           latsweep run FILE [--out DIR] [--store STORE] [--workers N] [--reclaim-after SECONDS]
                 plan the job file, queue it and work it on this machine until done
+          latsweep init FILE           write a commented starter job file (never overwrites)
           latsweep check FILE          validate a job file and print the plan
-          latsweep solve FILE          solve the job file's model once and print its summary
+          latsweep solve FILE [--full-precision]
+                solve the job file's model once and print its summary
           latsweep submit FILE [--out DIR] [--store STORE]
                 plan and queue a sweep for workers (does not work on it)
           latsweep work [--store STORE] [--workers N] [--reclaim-after SECONDS] [--stay]
@@ -36,8 +42,12 @@ internal static class Usage
                           or the environment variable LATSWEEP_RECLAIM_AFTER); use one value
                           on every machine
 
+        latsweep COMMAND --help (or latsweep help COMMAND) shows one command's options and an
+        example; latsweep --version prints the version.
         SWEEP is a sweep id (as printed by run, submit and status) or a sweep name.
-        Exit codes: 0 all points done, 2 bad input, 3 some points failed, 130 interrupted.
+        status, cancel and resume need an existing store; run, submit and work create one.
+        Exit codes: 0 all points done, 2 bad input, 3 some points failed, 4 every point finished but
+        some models are unstable (no thermal numbers for them), 130 interrupted.
         Results are model estimates: check them against measurements before design decisions.
         """;
 }

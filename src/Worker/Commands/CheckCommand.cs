@@ -6,20 +6,17 @@ using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.JobFiles;
 using LatticeSweep.Worker.Planning;
+using LatticeSweep.Worker.Planning.Forecast;
 
 namespace LatticeSweep.Worker.Commands;
 
 /// <summary>
 /// <c>latsweep check FILE</c>: validates a job file and prints its plan (name, points, axes, tables)
-/// with a rough estimate of compute time and disk space made from a few sampled points.
+/// and a forecast made from every point without solving it: which points will fail and why, the
+/// estimated compute time, the costliest point, memory and disk. Exit 2 when every point will fail.
 /// </summary>
 public static class CheckCommand
 {
-    /// <summary>Effective speed assumed for the time estimate (one core, small dense eigen-solves).</summary>
-    public const double AssumedFlopPerSecond = 1e9;
-
-    public const int SampledPoints = 5;
-
     public static int Run(string jobFile, TextWriter stdout, TextWriter stderr)
     {
         ArgumentNullException.ThrowIfNull(stdout);
@@ -36,8 +33,8 @@ public static class CheckCommand
         }
 
         PrintPlan(plan, stdout);
-        PrintEstimate(plan, stdout);
-        return 0;
+        var forecast = PrintEstimate(plan, stdout);
+        return forecast.AllFail ? 2 : 0;
     }
 
     private static void PrintPlan(SweepPlan plan, TextWriter o)
@@ -58,7 +55,7 @@ public static class CheckCommand
         var duplicates = plan.DuplicatePointsCollapsed > 0 ? $" ({N(plan.DuplicatePointsCollapsed)} duplicate point(s) collapsed)" : "";
         o.WriteLine($"Points       {N(plan.Points.Length)}{duplicates}");
         o.WriteLine($"Combine      {plan.Combine}");
-        o.WriteLine($"Tables       {string.Join(", ", plan.Outputs.TableNames)}");
+        o.WriteLine($"Tables       {string.Join(", ", Output.TableNames.For(plan.Outputs))}");
         o.WriteLine();
         if (plan.Axes.IsEmpty)
         {
@@ -79,52 +76,82 @@ public static class CheckCommand
         table.WriteTo(o, "  ");
     }
 
-    private static void PrintEstimate(SweepPlan plan, TextWriter o)
+    /// <summary>
+    /// Every point evaluated without its spectrum (<see cref="SweepForecast"/>): which will fail and
+    /// why, floppy models, the elastic fit, the estimated compute time (calibrated on this engine),
+    /// the costliest point and those above the sweep's warning limit, memory and disk.
+    /// </summary>
+    private static ForecastReport PrintEstimate(SweepPlan plan, TextWriter o)
     {
         o.WriteLine();
-        var points = plan.Points;
-        var picks = Enumerable.Range(0, Math.Min(SampledPoints, points.Length))
-            .Select(i => points[(int)((long)i * (points.Length - 1) / Math.Max(1, Math.Min(SampledPoints, points.Length) - 1))])
-            .DistinctBy(p => p.PointId)
-            .ToList();
-        var flops = new List<double>();
-        var bytes = new List<double>();
-        var peak = 0L;
-        var warnings = new List<string>();
-        foreach (var point in picks)
+        var f = SweepForecast.Run(plan, SweepForecast.DefaultBudget);
+        o.WriteLine(f.Sampled
+            ? $"Forecast (points checked without solving them; the {f.Budget.TotalSeconds:0} s budget ran out after {N(f.Evaluated)} of {N(f.Total)} points, a sample spread over the plan: the counts below are for that sample, totals scaled to the plan):"
+            : $"Forecast (every point checked without solving it: {N(f.Total)} points, {N(f.DistinctModels)} distinct model(s), {f.Elapsed.TotalSeconds:0.0} s):");
+        if (f.WillFail > 0)
         {
-            try
+            o.WriteLine($"  will fail    {N(f.WillFail)} of {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
+            foreach (var g in f.Failures.Take(5))
             {
-                var request = PointBinder.Bind(plan, point);
-                var estimate = PhononSolver.Estimate(request.Model, request.Sample, request.Options);
-                flops.Add(estimate.FlopEstimate + ConductivityWork.EstimateFlops(request.Model, request.Sample, request.Options));
-                peak = Math.Max(peak, estimate.PeakBytes);
-                bytes.Add(DiskBytes(plan.Outputs, request.Model, request.Sample, request.Options));
+                o.WriteLine($"    {N(g.Count)} x {g.Reason}");
+                foreach (var p in g.Examples)
+                {
+                    o.WriteLine($"      e.g. point {p.PointId} ({Describe(p)})");
+                }
             }
-            catch (ModelException e)
-            {
-                warnings.Add($"point {point.PointId} ({Describe(point)}) will fail: {e.Message.ReplaceLineEndings("; ")}");
-            }
-        }
 
-        o.WriteLine($"Estimate (rough, from {picks.Count} sampled point(s); assumes about {AssumedFlopPerSecond:0e0} flop/s per worker):");
-        if (flops.Count > 0)
-        {
-            var seconds = flops.Average() * points.Length / AssumedFlopPerSecond;
-            var disk = bytes.Average() * points.Length;
-            o.WriteLine($"  compute      {Duration(seconds)} on one worker (divide by the number of workers)");
-            o.WriteLine($"  memory       {Size(peak)} peak per worker");
-            o.WriteLine($"  disk         {Size(disk)} before Parquet compression (usually much less on disk)");
+            if (f.Failures.Length > 5)
+            {
+                o.WriteLine($"    ... {f.Failures.Length - 5} more reasons");
+            }
         }
         else
         {
-            o.WriteLine("  no sampled point could be estimated");
+            o.WriteLine($"  will fail    none of the {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
         }
 
-        foreach (var w in warnings)
+        if (f.ModelsNotPreflighted > 0)
         {
-            o.WriteLine($"  warning: {w}");
+            o.WriteLine($"  note         {N(f.ModelsNotPreflighted)} model(s) with more than {SweepForecast.MaxBranchesPreflighted} branches were built but not checked for branches without springs (run finds those)");
         }
+
+        if (f.FloppyExample is { } floppy)
+        {
+            o.WriteLine($"  floppy       {N(f.FloppyPoints)} point(s) have modes of zero frequency away from q = 0 (e.g. point {floppy.Point.PointId} ({Describe(floppy.Point)}) at reduced q {floppy.Q}): some motion meets no spring there; those modes are left out of the thermal sums and counted in zero_modes_excluded");
+        }
+
+        if (f.WorstElasticFit is { } fit)
+        {
+            o.WriteLine($"  elastic fit  largest relative residual {fit.Residual:G3} (point {fit.Point.PointId}); central springs give C12 = C44");
+        }
+
+        var runs = f.Evaluated - f.WillFail;
+        if (runs > 0)
+        {
+            o.WriteLine($"  compute      {Duration(f.EvaluatedSeconds * f.Scale)} on one worker (a rough estimate, calibrated on this engine; divide by the number of workers)");
+            if (f.Costliest is { } c)
+            {
+                o.WriteLine($"  costliest    point {c.Point.PointId} ({Describe(c.Point)}): {Duration(c.Seconds)}");
+            }
+
+            o.WriteLine($"  memory       {Size(f.PeakBytes)} peak per worker");
+            o.WriteLine($"  disk         {Size(f.EvaluatedDiskBytes * f.Scale)} before Parquet compression (usually much less on disk)");
+        }
+
+        if (f.AboveWarnLimit > 0)
+        {
+            o.WriteLine($"  warning: {N(f.AboveWarnLimit)} point(s) are estimated above {Duration(f.WarnPointTimeS).Replace("about ", "", StringComparison.Ordinal)} each ([sweep] warn_point_time_s = {f.WarnPointTimeS:G6}); the costliest is named above. Shrink them (fewer cells, a coarser mesh) or raise the limit if you mean it");
+        }
+
+        if (f.AllFail)
+        {
+            o.WriteLine();
+            o.WriteLine(f.Sampled
+                ? $"Every one of the {N(f.Evaluated)} points checked will fail: fix the job file before running it."
+                : "Every point will fail: fix the job file before running it.");
+        }
+
+        return f;
     }
 
     /// <summary>Uncompressed bytes a point writes, from the number of rows of each table it asks for.</summary>
@@ -169,7 +196,7 @@ public static class CheckCommand
     }
 
     private static string Describe(PlannedPoint point) =>
-        point.Parameters.Count == 0 ? "the unswept model" : string.Join(", ", point.Parameters.Select(p => $"{p.Key} = {Show(p.Value)}"));
+        point.Parameters.Count == 0 ? "the unswept model" : string.Join(", ", point.Parameters.Select(p => $"{p.Key} = {Catalog.CatalogJson.Show(p.Value)}"));
 
     private static string Show(object value) => value switch
     {

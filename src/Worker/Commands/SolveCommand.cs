@@ -10,11 +10,15 @@ namespace LatticeSweep.Worker.Commands;
 /// <summary>
 /// <c>latsweep solve FILE</c>: solves one model at once (the first point of the sweep, which is the
 /// unswept model when there are no axes) and prints its summary as a table with units.
-/// Exit codes: 0 solved, 2 bad input, 3 the model cannot be solved (with the reason).
+/// Exit codes: 0 solved, 2 bad input, 3 the model cannot be solved (with the reason), 4 the model
+/// is unstable (its worst wave vector and most negative frequency are printed, no thermal numbers).
 /// </summary>
 public static class SolveCommand
 {
-    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr)
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr) => Run(jobFile, stdout, stderr, fullPrecision: false);
+
+    /// <summary>As above; <paramref name="fullPrecision"/> prints every number with all its digits (round-trip text).</summary>
+    public static int Run(string jobFile, TextWriter stdout, TextWriter stderr, bool fullPrecision)
     {
         ArgumentNullException.ThrowIfNull(stdout);
         ArgumentNullException.ThrowIfNull(stderr);
@@ -34,7 +38,7 @@ public static class SolveCommand
         try
         {
             var request = PointBinder.Bind(plan, point);
-            result = PhononSolver.Solve(request.Model, request.Sample, request.Options);
+            result = PhononSolver.Solve(request.Model, request.Sample, request.Options) with { ElasticFit = request.ElasticFit };
         }
         catch (ModelException e)
         {
@@ -48,12 +52,22 @@ public static class SolveCommand
             ? $"Point  {point.PointId}, the first of {plan.Points.Length} ({Parameters(point)})"
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
-        SummaryTable(result.Summary).WriteTo(stdout);
+        SummaryTable(result.Summary, result.ElasticFit, fullPrecision).WriteTo(stdout);
+        if (!result.Summary.Stable)
+        {
+            stdout.WriteLine();
+            stdout.WriteLine($"The model is unstable ({Queue.Instability.Where(result.Summary)}): its thermal numbers, sound speeds, band gaps and Debye temperatures mean nothing and are not shown.");
+            return Cli.ExitCodes.SomeUnstable;
+        }
+
         return 0;
     }
 
-    internal static TextTable SummaryTable(PointSummary s)
+    internal static TextTable SummaryTable(PointSummary s, Engine.Elastic.ElasticFitResult? fit = null, bool fullPrecision = false)
     {
+        // 6 significant digits, or every digit (the shortest round-trip text) when asked.
+        string D(double? v) => v is not { } x || double.IsNaN(x) ? "n/a" : x.ToString(fullPrecision ? "R" : "G6", CultureInfo.InvariantCulture);
+
         var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
         t.Add("dimension", I(s.Dimension), "");
         t.Add("sites per cell", I(s.SitesPerCell), "");
@@ -63,6 +77,23 @@ public static class SolveCommand
         t.Add("wave vectors solved", I(s.QPointsSolved), "");
         t.Add("modes", I(s.ModeCount), "");
         t.Add("rigid modes excluded", I(s.RigidModesExcluded), "");
+        t.Add("zero modes excluded (all)", I(Output.ZeroModes.Total(s)), "");
+        if (Output.ZeroModes.Floppy(s))
+        {
+            t.Add("floppy", $"YES: {I(s.ZeroModesExcluded)} zero modes beyond the rigid ones", "");
+        }
+
+        if (fit is not null)
+        {
+            t.Add("elastic fit residual (relative)", D(fit.RelativeResidual), "");
+            t.Add("C11, C12, C44 given", $"{D(fit.Given.C11Gpa)}, {D(fit.Given.C12Gpa)}, {D(fit.Given.C44Gpa)}", "GPa");
+            t.Add("C11, C12, C44 of the springs", $"{D(fit.Reproduced.C11Gpa)}, {D(fit.Reproduced.C12Gpa)}, {D(fit.Reproduced.C44Gpa)}", "GPa");
+            foreach (var speed in fit.SoundSpeeds)
+            {
+                t.Add($"Christoffel speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(v => D(v))), "m/s");
+            }
+        }
+
         t.Add("stable", s.Stable ? "yes" : "NO", "");
         if (s.WorstQReduced is { } q)
         {
@@ -70,7 +101,12 @@ public static class SolveCommand
         }
 
         t.Add("highest frequency", D(s.MaxFrequencyThz), "THz");
-        t.Add("lowest frequency", D(s.MinFrequencyThz), "THz");
+        t.Add(s.Stable ? "lowest frequency" : "most negative frequency (imaginary mode)", D(s.MinFrequencyThz), "THz");
+        if (!s.Stable)
+        {
+            return t;
+        }
+
         foreach (var gap in s.Gaps)
         {
             t.Add("band gap", $"{D(gap.LowerThz)} - {D(gap.UpperThz)}", "THz");
@@ -78,7 +114,7 @@ public static class SolveCommand
 
         foreach (var speed in s.SoundSpeeds)
         {
-            t.Add($"sound speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(D)), "m/s");
+            t.Add($"sound speeds {speed.Direction}", string.Join(", ", speed.SpeedsMPerS.Select(v => D(v))), "m/s");
         }
 
         t.Add("reference temperature", D(s.ReferenceTemperatureK), "K");
@@ -92,7 +128,7 @@ public static class SolveCommand
         t.Add("Debye temperature, log moment", D(s.DebyeTemperatureMomentLogK), "K");
         t.Add("Debye temperature, moment 2", D(s.DebyeTemperatureMoment2K), "K");
         t.Add("molar mass (mean per atom)", D(s.MolarMassKgPerMol * 1000), "g/mol");
-        if (!double.IsNaN(s.KappaWPerMK) || !double.IsNaN(s.KappaMinWPerMK))
+        if (s.KappaWPerMK is not null || s.KappaMinWPerMK is not null)
         {
             t.Add("thermal conductivity (estimate)", D(s.KappaWPerMK), "W/(m K)");
             t.Add("minimum conductivity (Cahill-Pohl-Watson)", D(s.KappaMinWPerMK), "W/(m K)");
@@ -105,6 +141,4 @@ public static class SolveCommand
         string.Join(", ", point.Parameters.Select(p => $"{p.Key} = {Convert.ToString(p.Value, CultureInfo.InvariantCulture)}"));
 
     private static string I(long v) => v.ToString(CultureInfo.InvariantCulture);
-
-    private static string D(double v) => double.IsNaN(v) ? "n/a" : v.ToString("G6", CultureInfo.InvariantCulture);
 }

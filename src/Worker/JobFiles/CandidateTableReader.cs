@@ -43,7 +43,7 @@ internal static class CandidateTableReader
 
     private static CandidateTable? Unsupported(CandidatesDeclaration declaration, string extension)
     {
-        declaration.Table.Error("file", $"a candidates file must end in .csv or .parquet, got '{extension}'");
+        declaration.Table.Error("file", $"a candidates file must end in .csv or .parquet, got '{EchoText.Of(extension)}'");
         return null;
     }
 

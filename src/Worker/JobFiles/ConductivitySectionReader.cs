@@ -137,7 +137,7 @@ internal static class ConductivitySectionReader
             var label = s.String("site", required: true);
             if (label is not null && labels is not null && !labels.Contains(label))
             {
-                s.Error("site", $"no site is labelled '{label}'; " + KeySuggestions.Hint(label, [.. labels]));
+                s.Error("site", $"no site is labelled '{EchoText.Of(label)}'; " + KeySuggestions.Hint(label, [.. labels]));
             }
 
             var element = s.String("element", allowed: NaturalIsotopes.Symbols.ToArray());

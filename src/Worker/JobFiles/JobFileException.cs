@@ -6,8 +6,11 @@ namespace LatticeSweep.Worker.JobFiles;
 /// </summary>
 public sealed class JobFileException : Exception
 {
+    /// <summary>Problems shown in <see cref="Message"/>; the rest are counted ("and N more"), all are in <see cref="Problems"/>.</summary>
+    public const int MaxShown = 20;
+
     public JobFileException(IReadOnlyList<JobFileProblem> problems)
-        : base(string.Join(Environment.NewLine, problems.Select(p => p.ToString())))
+        : base(Describe(problems))
     {
         Problems = problems;
     }
@@ -35,4 +38,17 @@ public sealed class JobFileException : Exception
     }
 
     public IReadOnlyList<JobFileProblem> Problems { get; }
+
+    private static string Describe(IReadOnlyList<JobFileProblem> problems)
+    {
+        ArgumentNullException.ThrowIfNull(problems);
+        var lines = problems.Take(MaxShown).Select(p => p.ToString()).ToList();
+        if (problems.Count > MaxShown)
+        {
+            var more = problems.Count - MaxShown;
+            lines.Add($"... and {more} more problem{(more == 1 ? "" : "s")} (fix these first; many often share one cause)");
+        }
+
+        return string.Join(Environment.NewLine, lines);
+    }
 }

@@ -29,10 +29,10 @@ internal static class KeySuggestions
         var nearest = Nearest(given, candidates);
         if (nearest is not null)
         {
-            return $"did you mean '{nearest}'?";
+            return $"did you mean '{EchoText.Of(nearest)}'?";
         }
 
-        return candidates.Count == 0 ? "nothing is allowed here" : "known: " + string.Join(", ", candidates.Order(StringComparer.Ordinal));
+        return candidates.Count == 0 ? "nothing is allowed here" : "known: " + string.Join(", ", candidates.Order(StringComparer.Ordinal).Select(EchoText.Of));
     }
 
     /// <summary>Levenshtein distance (insert, delete, substitute).</summary>

@@ -30,7 +30,7 @@ internal static class ModelSectionReader
             var clash = model.Table.Keys.Where(k => k != "motion" && k != builder).ToList();
             foreach (var key in clash)
             {
-                model.Error(key, $"[model.{builder}] builds the whole model; remove '{key}' (or remove [model.{builder}])");
+                model.Error(key, $"[model.{builder}] builds the whole model; remove '{EchoText.Of(key)}' (or remove [model.{builder}])");
             }
 
             if (clash.Count > 0)
@@ -167,7 +167,7 @@ internal static class ModelSectionReader
             var label = t.String("label", required: true);
             if (label is not null && (label.Length == 0 || !labels.Add(label)))
             {
-                t.Error("label", label.Length == 0 ? "a site label must not be empty" : $"label '{label}' is used by two sites; labels must be unique");
+                t.Error("label", label.Length == 0 ? "a site label must not be empty" : $"label '{EchoText.Of(label)}' is used by two sites; labels must be unique");
             }
 
             var element = t.String("element");
@@ -202,8 +202,8 @@ internal static class ModelSectionReader
         foreach (var t in tables)
         {
             t.RejectUnknown(SpringKeys);
-            var from = ReadReference(t, "from", kinds, "kind");
-            var to = ReadReference(t, "to", kinds, "kind");
+            var from = ReadKind(t, "from", sites, kinds);
+            var to = ReadKind(t, "to", sites, kinds);
             var shell = (int)(t.Integer("shell", 1, MaxShell) ?? 1);
             var longitudinal = t.Double("longitudinal_n_per_m", required: true, check: Checks.SpringNPerM) ?? 0;
             var transverse = t.Double("transverse_n_per_m", check: Checks.SpringNPerM) ?? 0;
@@ -283,12 +283,43 @@ internal static class ModelSectionReader
         var name = t.String(key, required: true);
         if (name is not null && !known.Contains(name, StringComparer.Ordinal))
         {
-            t.Error(key, $"no site has {what} '{name}'; " + KeySuggestions.Hint(name, known.ToList()));
+            t.Error(key, $"no site has {what} '{EchoText.Of(name)}'; " + KeySuggestions.Hint(name, known.ToList()));
             return null;
         }
 
         return name;
     }
+
+    /// <summary>
+    /// A spring end: a site kind. Kinds default to the element (else the label), so a spring written
+    /// with a label often misses; the message then says which kind that site has and where it came from.
+    /// </summary>
+    private static string? ReadKind(TableReader t, string key, ImmutableArray<SiteSpec> sites, IReadOnlyList<string> kinds)
+    {
+        var name = t.String(key, required: true);
+        if (name is null || kinds.Contains(name, StringComparer.Ordinal))
+        {
+            return name;
+        }
+
+        var shown = EchoText.Of(name);
+        if (sites.FirstOrDefault(s => s.Label == name) is { } site)
+        {
+            t.Error(key, $"no site has kind '{shown}': springs join site kinds, not labels, and site '{shown}' has kind '{EchoText.Of(site.Kind)}'{KindOrigin(site)}; " +
+                $"write {key} = \"{EchoText.Of(site.Kind)}\", or give that site kind = \"{shown}\"");
+            return null;
+        }
+
+        var renamed = sites.Where(s => s.Kind != s.Label).ToList();
+        var origins = renamed.Count == 0
+            ? ""
+            : " (a site's kind is its kind key, else its element, else its label: " + string.Join(", ", renamed.Take(6).Select(s => $"site '{EchoText.Of(s.Label)}' has kind '{EchoText.Of(s.Kind)}'")) + (renamed.Count > 6 ? ", ..." : "") + ")";
+        t.Error(key, $"no site has kind '{shown}'; " + KeySuggestions.Hint(name, kinds.ToList()) + origins);
+        return null;
+    }
+
+    private static string KindOrigin(SiteSpec site) =>
+        site.Element is { } element && site.Kind == element ? $" (from its element = \"{EchoText.Of(element)}\")" : "";
 
     private static LayeredSpec? ReadLayers(TableReader? t, DegreesOfFreedom motion)
     {

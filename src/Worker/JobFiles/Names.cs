@@ -46,6 +46,6 @@ internal static class Names
 
         var fixedCase = symbol.Length == 0 ? symbol : char.ToUpperInvariant(symbol[0]) + symbol[1..].ToLowerInvariant();
         var hint = Elements.TryGetStandardAtomicWeightAmu(fixedCase, out _) ? fixedCase : KeySuggestions.Nearest(symbol, Elements.Symbols);
-        return $"unknown element symbol '{symbol}' (symbols are case-sensitive, H to U)" + (hint is null ? "; or give mass_amu" : $"; did you mean '{hint}'?");
+        return $"unknown element symbol '{EchoText.Of(symbol)}' (symbols are case-sensitive, H to U)" + (hint is null ? "; or give mass_amu" : $"; did you mean '{hint}'?");
     }
 }

@@ -19,7 +19,10 @@ internal static class OutputSectionReader
     private static readonly string[] RangeKeys = ["from_k", "to_k", "steps", "scale"];
     private static readonly string[] DispersionKeys = ["path", "points_per_segment"];
     private static readonly string[] CornerKeys = ["label", "q"];
-    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", "displacements", "cumulative_kappa"];
+    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", Output.TableNames.MeanSquareDisplacements, "cumulative_kappa"];
+
+    // The table's former name, so older job files (and sweeps stored with them) still plan.
+    private static readonly string[] FormerTableNames = [Output.TableNames.FormerDisplacements];
 
     public static (SolveOptions Options, OutputSelection Tables)? Read(TableReader? t, int dimension, ModelSpec? model = null, SampleSpec? sample = null, bool kindSwept = false)
     {
@@ -48,7 +51,7 @@ internal static class OutputSectionReader
         var conductivity = t.SubTable("conductivity") is { } c ? ConductivitySectionReader.Read(c, dimension, model, sample, kindSwept) : null;
 
         var selection = OutputSelection.Default with { Dispersion = dispersion is not null };
-        var tables = t.StringList("tables", TableNames);
+        var tables = t.StringList("tables", TableNames, FormerTableNames);
         if (tables is not null)
         {
             selection = new OutputSelection(
@@ -56,7 +59,7 @@ internal static class OutputSectionReader
                 Thermal: tables.Contains("thermal"),
                 Dispersion: tables.Contains("dispersion"),
                 Modes: tables.Contains("modes"),
-                Displacements: tables.Contains("displacements"),
+                Displacements: tables.Contains(Output.TableNames.MeanSquareDisplacements) || tables.Contains(Output.TableNames.FormerDisplacements),
                 CumulativeKappa: tables.Contains("cumulative_kappa"));
             if (selection.Dispersion && dispersion is null && !t.Has("dispersion"))
             {

@@ -20,7 +20,8 @@ internal sealed record SweepDeclaration(
     CombineMode Combine,
     int? Count,
     ImmutableArray<AxisDeclaration> Axes,
-    CandidatesDeclaration? Candidates);
+    CandidatesDeclaration? Candidates,
+    double WarnPointTimeS);
 
 /// <summary>One <c>[[sweep.axes]]</c> entry; values are checked against the field once the path is resolved.</summary>
 internal sealed record AxisDeclaration(string Path, TableReader Table, AxisSource Source);

@@ -11,7 +11,10 @@ internal static class SweepSectionReader
     public const int MaxNameLength = 100;
     public const int MaxValuesPerAxis = 1_000_000;
 
-    private static readonly string[] Keys = ["name", "description", "seed", "max_points", "combine", "count", "axes", "candidates"];
+    private static readonly string[] Keys = ["name", "description", "seed", "max_points", "combine", "count", "axes", "candidates", "warn_point_time_s"];
+
+    /// <summary>Default of <c>warn_point_time_s</c>: <c>check</c> warns about points estimated to take longer (one hour).</summary>
+    public const double DefaultWarnPointTimeS = 3600;
     private static readonly string[] AxisKeys = ["path", "values", "range", "random"];
     private static readonly string[] RangeKeys = ["from", "to", "steps", "scale"];
     private static readonly string[] RandomKeys = ["from", "to", "count", "scale"];
@@ -30,7 +33,7 @@ internal static class SweepSectionReader
         var stem = Path.GetFileNameWithoutExtension(jobFilePath);
         if (t is null)
         {
-            return new SweepDeclaration(stem, "", 1, DefaultMaxPoints, CombineMode.Grid, null, [], null);
+            return new SweepDeclaration(stem, "", 1, DefaultMaxPoints, CombineMode.Grid, null, [], null, DefaultWarnPointTimeS);
         }
 
         t.RejectUnknown(Keys);
@@ -43,7 +46,7 @@ internal static class SweepSectionReader
             }
             else
             {
-                t.Problems.Add(t.Location, "sweep.name", $"the file name '{stem}' cannot name the sweep ({bad}); give [sweep] name");
+                t.Problems.Add(t.Location, "sweep.name", $"the file name '{EchoText.Of(stem)}' cannot name the sweep ({bad}); give [sweep] name");
             }
         }
 
@@ -64,7 +67,8 @@ internal static class SweepSectionReader
 
         var axes = t.TableList("axes").Select(a => ReadAxis(a, sampling)).OfType<AxisDeclaration>().ToImmutableArray();
         var candidates = ReadCandidates(t.SubTable("candidates"), jobFilePath);
-        return new SweepDeclaration(name, description, (ulong)seed, maxPoints, combine, count, axes, candidates);
+        var warnPointTime = t.Double("warn_point_time_s", check: v => v > 0 && v <= 1e9 ? null : $"must be a number of seconds from 0 (exclusive) to 1e9, got {TableReader.Show(v)}") ?? DefaultWarnPointTimeS;
+        return new SweepDeclaration(name, description, (ulong)seed, maxPoints, combine, count, axes, candidates, warnPointTime);
     }
 
     /// <summary>A sweep name becomes a folder under the output root: it must not be able to leave it.</summary>
@@ -82,12 +86,12 @@ internal static class SweepSectionReader
 
         if (name.Any(ch => !(char.IsAsciiLetterOrDigit(ch) || ch is '.' or '_' or '-')))
         {
-            return $"'{name}' may use only letters A-Z a-z, digits, '.', '_' and '-' (it names a folder under the output root)";
+            return $"'{EchoText.Of(name)}' may use only letters A-Z a-z, digits, '.', '_' and '-' (it names a folder under the output root)";
         }
 
         if (name.Contains("..", StringComparison.Ordinal) || name.All(ch => ch == '.'))
         {
-            return $"'{name}' must not contain '..' or consist of dots (it would leave the output root)";
+            return $"'{EchoText.Of(name)}' must not contain '..' or consist of dots (it would leave the output root)";
         }
 
         return null;

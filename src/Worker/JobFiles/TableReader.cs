@@ -75,7 +75,7 @@ internal sealed class TableReader
         if (allowed is not null && !allowed.Contains(s, StringComparer.Ordinal))
         {
             var hint = KeySuggestions.Nearest(s, allowed);
-            Error(key, $"'{s}' is not allowed; use one of: {string.Join(", ", allowed.Select(a => $"\"{a}\""))}" + (hint is null ? "" : $" (did you mean \"{hint}\"?)"));
+            Error(key, $"'{EchoText.Of(s)}' is not allowed; use one of: {string.Join(", ", allowed.Select(a => $"\"{a}\""))}" + (hint is null ? "" : $" (did you mean \"{hint}\"?)"));
             return null;
         }
 
@@ -206,7 +206,8 @@ internal sealed class TableReader
         return ok ? list : null;
     }
 
-    public IReadOnlyList<string>? StringList(string key, IReadOnlyCollection<string>? allowed = null)
+    /// <summary>An array of strings; with <paramref name="allowed"/>, each must be one of them (or of <paramref name="alsoAccepted"/>, former names not offered in the hint).</summary>
+    public IReadOnlyList<string>? StringList(string key, IReadOnlyCollection<string>? allowed = null, IReadOnlyCollection<string>? alsoAccepted = null)
     {
         if (!Fetch(key, false, out var value))
         {
@@ -228,9 +229,9 @@ internal sealed class TableReader
                 Problems.Add(Where(key), $"{KeyPath(key)}[{i}]", $"must be a string, got {Describe(a[i])}");
                 ok = false;
             }
-            else if (allowed is not null && !allowed.Contains(s, StringComparer.Ordinal))
+            else if (allowed is not null && !allowed.Contains(s, StringComparer.Ordinal) && alsoAccepted?.Contains(s, StringComparer.Ordinal) != true)
             {
-                Problems.Add(Where(key), $"{KeyPath(key)}[{i}]", $"'{s}' is not allowed; use any of: {string.Join(", ", allowed.Select(x => $"\"{x}\""))}");
+                Problems.Add(Where(key), $"{KeyPath(key)}[{i}]", $"'{EchoText.Of(s)}' is not allowed; use any of: {string.Join(", ", allowed.Select(x => $"\"{x}\""))}");
                 ok = false;
             }
             else
@@ -346,7 +347,7 @@ internal sealed class TableReader
     public static string Describe(object? value) => value switch
     {
         null => "nothing",
-        string s => $"the string \"{s}\"",
+        string s => $"the string \"{EchoText.Of(s)}\"",
         long l => $"the whole number {l.ToString(CultureInfo.InvariantCulture)}",
         double d => $"the number {Show(d)}",
         bool b => b ? "true" : "false",

@@ -10,7 +10,7 @@ namespace LatticeSweep.Worker.JobFiles;
 /// Syntax is checked by Tomlyn's syntax parser first (it reports every error and rejects duplicate
 /// keys, which its object reader would silently let the last one win).
 /// </summary>
-internal sealed class TomlDocument
+internal sealed partial class TomlDocument
 {
     private readonly TomlMetadataStore _metadata;
 
@@ -25,20 +25,37 @@ internal sealed class TomlDocument
 
     public TomlTable Root { get; }
 
-    /// <summary>Parses <paramref name="text"/>; on syntax errors adds them to <paramref name="problems"/> and returns null.</summary>
+    /// <summary>
+    /// Parses <paramref name="text"/>; on a syntax error adds one problem to <paramref name="problems"/>
+    /// and returns null. Only the first syntax error is reported (with a count of the others): after a
+    /// missing bracket or quote the parser's later complaints are mostly echoes of the first.
+    /// </summary>
     public static TomlDocument? Parse(string text, string file, ProblemCollector problems)
     {
-        var syntax = SyntaxParser.Parse(text, file, true);
+        if (NestingDepth.FindTooDeep(text) is { } deep)
+        {
+            problems.Add(deep, "", TooDeep);
+            return null;
+        }
+
+        Tomlyn.Syntax.DocumentSyntax syntax;
+        try
+        {
+            syntax = SyntaxParser.Parse(text, file, true);
+        }
+        catch (TomlException e)
+        {
+            problems.Add(new SourceLocation(Math.Max(0, e.Line ?? 0), Math.Max(0, e.Column ?? 0)), "", "TOML: " + LibraryMessage(e.Message));
+            return null;
+        }
+
         if (syntax.HasErrors)
         {
-            foreach (var d in syntax.Diagnostics)
-            {
-                if (d.Kind == Tomlyn.Syntax.DiagnosticMessageKind.Error)
-                {
-                    problems.Add(new SourceLocation(d.Span.Start.Line + 1, d.Span.Start.Column + 1), "", "TOML syntax: " + d.Message);
-                }
-            }
-
+            var errors = syntax.Diagnostics.Where(d => d.Kind == Tomlyn.Syntax.DiagnosticMessageKind.Error).ToList();
+            var first = errors[0];
+            var more = errors.Count - 1;
+            var tail = more == 0 ? "" : $" ({more} more syntax error{(more == 1 ? "" : "s")} after it, often caused by this one; fix it and check again)";
+            problems.Add(new SourceLocation(first.Span.Start.Line + 1, first.Span.Start.Column + 1), "", "TOML syntax: " + Plain(first.Message) + tail);
             return null;
         }
 
@@ -51,10 +68,44 @@ internal sealed class TomlDocument
         }
         catch (TomlException e)
         {
-            problems.Add(new SourceLocation(Math.Max(0, e.Line ?? 0), Math.Max(0, e.Column ?? 0)), "", "TOML: " + FirstLine(e.Message));
+            problems.Add(new SourceLocation(Math.Max(0, e.Line ?? 0), Math.Max(0, e.Column ?? 0)), "", "TOML: " + LibraryMessage(e.Message));
             return null;
         }
     }
+
+    private static string TooDeep =>
+        $"nested more than {NestingDepth.Max} levels deep (tables, dotted keys, arrays and inline tables inside each other); a job file needs only a few";
+
+    /// <summary>
+    /// A syntax message in plain words: the parser's token names and its newline symbol dropped.
+    /// </summary>
+    private static string Plain(string message)
+    {
+        var plain = TokenNames().Replace(message, "");
+        return plain.Replace("`␤`", "the end of the line", StringComparison.Ordinal).Replace("␤", "the end of the line", StringComparison.Ordinal);
+    }
+
+    /// <summary>The first line of the library's message, without advice about the library's own settings.</summary>
+    private static string LibraryMessage(string message)
+    {
+        var line = FirstLine(message);
+        var error = line.IndexOf(": error : ", StringComparison.Ordinal);
+        if (error >= 0)
+        {
+            line = line[(error + ": error : ".Length)..]; // the location is given separately
+        }
+
+        var advice = line.IndexOf(" Change TomlSerializerOptions", StringComparison.Ordinal);
+        if (line.Contains("maximum depth", StringComparison.OrdinalIgnoreCase))
+        {
+            return TooDeep;
+        }
+
+        return advice >= 0 ? line[..advice] : line;
+    }
+
+    [System.Text.RegularExpressions.GeneratedRegex(@" \(token: `[^`]*`\)")]
+    private static partial System.Text.RegularExpressions.Regex TokenNames();
 
     /// <summary>Where <paramref name="key"/> of <paramref name="table"/> is written (its key token).</summary>
     public SourceLocation Locate(TomlTable table, string key)

@@ -28,7 +28,13 @@ internal sealed class ConsoleLineSink : ILogEventSink
         {
             var message = ex.Message;
             var newline = message.IndexOf('\n', StringComparison.Ordinal);
-            text.Write($" ({ex.GetType().Name}: {(newline < 0 ? message : message[..newline].TrimEnd())})");
+            var first = newline < 0 ? message : message[..newline].TrimEnd();
+
+            // A line that already quotes the exception's message says enough.
+            if (!text.ToString().Contains(first, StringComparison.Ordinal))
+            {
+                text.Write($" ({ex.GetType().Name}: {first})");
+            }
         }
 
         _writeLine(text.ToString());

@@ -77,7 +77,7 @@ public static class ChunkOutputWriter
             Thermal: t.Contains(TableNames.Thermal),
             Dispersion: t.Contains(TableNames.Dispersion),
             Modes: t.Contains(TableNames.Modes),
-            Displacements: t.Contains(TableNames.Displacements),
+            Displacements: t.Contains(TableNames.MeanSquareDisplacements) || t.Contains(TableNames.FormerDisplacements),
             CumulativeKappa: t.Contains(TableNames.CumulativeKappa));
     }
 }

@@ -10,8 +10,13 @@ internal static class ChunkTables
     public static IReadOnlyList<TableRows> Build(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> outcomes)
     {
         // Points without a result row (I/O or input failures) are left out: resume runs them again.
-        var rowed = outcomes.Where(o => o.State == PointState.Done || (o.State == PointState.Failed && o.FailureKind is { } k && k.HasResult())).ToList();
-        var solved = rowed.Where(o => o.Result is not null).ToList();
+        var rowed = outcomes.Where(o => o.State is PointState.Done or PointState.Unstable || (o.State == PointState.Failed && o.FailureKind is { } k && k.HasResult())).ToList();
+
+        // An unstable model has no thermal state: only its points/ row and the tables of signed
+        // frequencies (modes/, dispersion/: negative = imaginary) are written; sound speeds, DOS,
+        // thermal functions, displacements and kappa would mislead (see README, Results).
+        var solved = rowed.Where(o => o.Result is not null && o.State == PointState.Done).ToList();
+        var spectral = rowed.Where(o => o.Result is not null && o.State is PointState.Done or PointState.Unstable).ToList();
         var tables = new List<TableRows>
         {
             schemas.Points.Rows(rowed),
@@ -31,12 +36,12 @@ internal static class ChunkTables
 
         if (outputs.Dispersion)
         {
-            tables.Add(schemas.Dispersion.Rows(solved.SelectMany(o => o.Result!.Dispersion.Select(d => new RowOf<Engine.Results.DispersionRow>(o, d)))));
+            tables.Add(schemas.Dispersion.Rows(spectral.SelectMany(o => o.Result!.Dispersion.Select(d => new RowOf<Engine.Results.DispersionRow>(o, d)))));
         }
 
         if (outputs.Modes)
         {
-            tables.Add(schemas.Modes.Rows(solved.SelectMany(o => o.Result!.Modes.Select(m => new RowOf<Engine.Results.ModeLevel>(o, m)))));
+            tables.Add(schemas.Modes.Rows(spectral.SelectMany(o => o.Result!.Modes.Select(m => new RowOf<Engine.Results.ModeLevel>(o, m)))));
         }
 
         if (outputs.Displacements)

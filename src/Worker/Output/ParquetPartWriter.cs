@@ -86,7 +86,7 @@ internal static class ParquetPartWriter
                     await group.WriteAsync(field, rows.Rows.Select(r => (string?)r[column]).ToArray()!).ConfigureAwait(false);
                     break;
                 case ColumnType.Double:
-                    await group.WriteAsync<double>(field, rows.Rows.Select(r => r[column] is null ? (double?)null : Convert.ToDouble(r[column], System.Globalization.CultureInfo.InvariantCulture)).ToArray(), cancellationToken: ct).ConfigureAwait(false);
+                    await group.WriteAsync<double>(field, Doubles(rows, column), cancellationToken: ct).ConfigureAwait(false);
                     break;
                 case ColumnType.Int32:
                     await group.WriteAsync<int>(field, rows.Rows.Select(r => r[column] is null ? (int?)null : Convert.ToInt32(r[column], System.Globalization.CultureInfo.InvariantCulture)).ToArray(), cancellationToken: ct).ConfigureAwait(false);
@@ -104,6 +104,34 @@ internal static class ParquetPartWriter
                     throw new InvalidOperationException($"unknown column type {rows.Columns[c].Type}");
             }
         }
+    }
+
+    /// <summary>
+    /// A double column's values. NaN is refused, never written and never turned into null here: an
+    /// undefined number must arrive as null (the tables' convention), so a NaN is a defect upstream
+    /// and the convention test must see it fail. Infinities are values (an unbounded kappa).
+    /// </summary>
+    internal static double?[] Doubles(TableRows rows, int column)
+    {
+        var values = new double?[rows.Rows.Count];
+        for (var i = 0; i < values.Length; i++)
+        {
+            var cell = rows.Rows[i][column];
+            if (cell is null)
+            {
+                continue;
+            }
+
+            var v = Convert.ToDouble(cell, System.Globalization.CultureInfo.InvariantCulture);
+            if (double.IsNaN(v))
+            {
+                throw new NaNInTableException(rows.Table, rows.Columns[column].Name, i, rows.Rows[i].Length > 0 ? rows.Rows[i][0] as string : null);
+            }
+
+            values[i] = v;
+        }
+
+        return values;
     }
 
     private static DataField Field(ColumnDef def) => def.Type switch

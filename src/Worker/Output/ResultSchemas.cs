@@ -47,13 +47,13 @@ internal sealed class ResultSchemas
             C<RowOf<DispersionRow>>("qz_per_nm", ColumnType.Double, "1/nm", "wave vector z", r => r.Item.QzPerNm),
             C<RowOf<DispersionRow>>("branch", ColumnType.Int32, "", "branch, lowest first (0-based)", r => r.Item.Branch),
             C<RowOf<DispersionRow>>("freq_thz", ColumnType.Double, "THz", "frequency", r => r.Item.FrequencyThz),
-            C<RowOf<DispersionRow>>("group_velocity_x_m_per_s", ColumnType.Double, "m/s", "group velocity x", r => r.Item.GroupVelocityXMPerS),
-            C<RowOf<DispersionRow>>("group_velocity_y_m_per_s", ColumnType.Double, "m/s", "group velocity y", r => r.Item.GroupVelocityYMPerS),
-            C<RowOf<DispersionRow>>("group_velocity_z_m_per_s", ColumnType.Double, "m/s", "group velocity z", r => r.Item.GroupVelocityZMPerS));
+            C<RowOf<DispersionRow>>("group_velocity_x_m_per_s", ColumnType.Double, "m/s", "group velocity x (empty for an imaginary mode of an unstable model)", r => Velocity(r, r.Item.GroupVelocityXMPerS)),
+            C<RowOf<DispersionRow>>("group_velocity_y_m_per_s", ColumnType.Double, "m/s", "group velocity y", r => Velocity(r, r.Item.GroupVelocityYMPerS)),
+            C<RowOf<DispersionRow>>("group_velocity_z_m_per_s", ColumnType.Double, "m/s", "group velocity z", r => Velocity(r, r.Item.GroupVelocityZMPerS)));
         Modes = Spec<ModeLevel>(TableNames.Modes, axes,
             C<RowOf<ModeLevel>>("freq_thz", ColumnType.Double, "THz", "a distinct mode frequency of the finite crystal", r => r.Item.FrequencyThz),
             C<RowOf<ModeLevel>>("multiplicity", ColumnType.Int64, "", "modes sharing this frequency", r => r.Item.Multiplicity));
-        Displacements = Spec<DisplacementRow>(TableNames.Displacements, axes,
+        Displacements = Spec<DisplacementRow>(TableNames.MeanSquareDisplacements, axes,
             C<RowOf<DisplacementRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
             C<RowOf<DisplacementRow>>("site", ColumnType.Int32, "", "basis site (0-based)", r => r.Item.Site),
             C<RowOf<DisplacementRow>>("site_label", ColumnType.Text, "", "basis site label", r => r.Item.SiteLabel),
@@ -76,6 +76,18 @@ internal sealed class ResultSchemas
     public TableSpec<RowOf<DisplacementRow>> Displacements { get; }
     public TableSpec<RowOf<MeanFreePathRow>> CumulativeKappa { get; }
 
+    /// <summary>Every column name a table has of its own (not a swept parameter's): a swept parameter may not take one.</summary>
+    public static IReadOnlySet<string> FixedColumnNames { get; } = AllFixedNames();
+
+    private static HashSet<string> AllFixedNames()
+    {
+        var none = new ResultSchemas([]);
+        return new HashSet<string>(
+            new[] { TableNames.Points, TableNames.SoundSpeeds, TableNames.Dos, TableNames.Thermal, TableNames.Dispersion, TableNames.Modes, TableNames.MeanSquareDisplacements, TableNames.CumulativeKappa }
+                .SelectMany(none.ColumnsOf).Select(c => c.Name).Concat(RunColumns<PointOutcome>(o => o).Select(c => c.Def.Name)),
+            StringComparer.Ordinal);
+    }
+
     /// <summary>Columns of a table by name (for the manifest and the units metadata).</summary>
     public IReadOnlyList<ColumnDef> ColumnsOf(string table) => table switch
     {
@@ -85,12 +97,20 @@ internal sealed class ResultSchemas
         TableNames.Thermal => Thermal.Defs,
         TableNames.Dispersion => Dispersion.Defs,
         TableNames.Modes => Modes.Defs,
-        TableNames.Displacements => Displacements.Defs,
+        TableNames.MeanSquareDisplacements or TableNames.FormerDisplacements => Displacements.Defs,
         TableNames.CumulativeKappa => CumulativeKappa.Defs,
         _ => throw new ArgumentException($"no table named {table}", nameof(table)),
     };
 
-    /// <summary>The column name a swept parameter gets: its own, unless a fixed column already has it.</summary>
+    /// <summary>A mode with omega^2 &lt; 0 has no group velocity: its frequency is printed negative, its velocity empty.</summary>
+    private static double? Velocity(RowOf<DispersionRow> r, double v) =>
+        r.Outcome.State == Catalog.PointState.Unstable && r.Item.FrequencyThz < 0 ? null : v;
+
+    /// <summary>
+    /// The column name a swept parameter gets in a table: its own, unless a fixed column already has
+    /// it. Sweeps planned now have the prefix in their axis name already (SweptColumnNames), so this
+    /// only renames the axes of sweeps planned by an earlier version.
+    /// </summary>
     public static string AxisColumnName(AxisInfo axis, ISet<string> reserved) =>
         reserved.Contains(axis.ColumnName) ? "axis_" + axis.ColumnName : axis.ColumnName;
 
@@ -151,9 +171,9 @@ internal sealed class ResultSchemas
     [
         C<T>("point_index", ColumnType.Int64, "", "position of the point in the plan", r => (long)o(r).Point.Index),
         C<T>("chunk_id", ColumnType.Text, "", "the queue chunk (and part file) that wrote this row", r => o(r).ChunkId),
-        C<T>("state", ColumnType.Text, "", "done or failed", r => o(r).State.ToString().ToLowerInvariant()),
+        C<T>("state", ColumnType.Text, "", "done, unstable (solved; the model has a negative eigenvalue: stable = false, thermal numbers empty) or failed", r => o(r).State.ToString().ToLowerInvariant()),
         C<T>("failure_kind", ColumnType.Text, "", "model or engine, for a failed point", r => o(r).FailureKind?.ToString().ToLowerInvariant()),
-        C<T>("error", ColumnType.Text, "", "why the point failed", r => o(r).Error),
+        C<T>("error", ColumnType.Text, "", "why the point failed", r => o(r).State == Catalog.PointState.Failed ? o(r).Error : null),
         C<T>("attempt", ColumnType.Int32, "", "how many times this point was started (1 = first run)", r => o(r).Attempt),
         C<T>("started_at", ColumnType.Timestamp, "UTC", "when the point started", r => o(r).StartedAt),
         C<T>("finished_at", ColumnType.Timestamp, "UTC", "when the point ended", r => o(r).FinishedAt),
@@ -164,15 +184,17 @@ internal sealed class ResultSchemas
     private static IEnumerable<TableColumn<PointOutcome>> SummaryColumns()
     {
         static PointSummary? S(PointOutcome o) => o.Result?.Summary;
+        static double[]? Christoffel(PointOutcome o) =>
+            o.Result?.ElasticFit is { } f ? [.. f.SoundSpeeds.SelectMany(x => x.SpeedsMPerS)] : null;
         static BandGap? Largest(PointOutcome o) =>
             S(o) is { Gaps.Length: > 0 } s ? s.Gaps.MaxBy(g => g.WidthThz) : null;
         static BandGap? Lowest(PointOutcome o) =>
             S(o) is { Gaps.Length: > 0 } s ? s.Gaps.MinBy(g => g.LowerThz) : null;
         static double[] Speeds(PointOutcome o) =>
             S(o) is { } s ? [.. s.SoundSpeeds.SelectMany(x => x.SpeedsMPerS).Where(double.IsFinite)] : [];
-        static double? PerKg(PointOutcome o, Func<PointSummary, double> perMol) =>
+        static double? PerKg(PointOutcome o, Func<PointSummary, double?> perMol) =>
             S(o) is { } s ? perMol(s) * ThermalScale.PerKgFactor(s.MolarMassKgPerMol) : null;
-        static double? PerCell(PointOutcome o, Func<PointSummary, double> perMol) =>
+        static double? PerCell(PointOutcome o, Func<PointSummary, double?> perMol) =>
             S(o) is { } s ? perMol(s) * ThermalScale.PerCellFactor(s.SitesPerCell) : null;
 
         return
@@ -185,19 +207,21 @@ internal sealed class ResultSchemas
             C<PointOutcome>("q_points_solved", ColumnType.Int64, "", "wave vectors diagonalised", o => S(o)?.QPointsSolved),
             C<PointOutcome>("mode_count", ColumnType.Int64, "", "modes in the calculation", o => S(o)?.ModeCount),
             C<PointOutcome>("rigid_modes_excluded", ColumnType.Int32, "", "zero-frequency translations left out of thermal sums", o => S(o)?.RigidModesExcluded),
+            C<PointOutcome>("zero_modes_excluded", ColumnType.Int64, "", "every zero-frequency mode left out of thermal sums: the rigid translations and any other", o => S(o) is { } s ? ZeroModes.Total(s) : null),
+            C<PointOutcome>("floppy", ColumnType.Bool, "", "more zero modes than rigid translations: some motion meets no spring at some wave vectors (its modes carry no heat)", o => S(o) is { } s ? ZeroModes.Floppy(s) : null),
             C<PointOutcome>("max_freq_thz", ColumnType.Double, "THz", "highest frequency", o => S(o)?.MaxFrequencyThz),
             C<PointOutcome>("min_freq_thz", ColumnType.Double, "THz", "lowest frequency (negative for an unstable model)", o => S(o)?.MinFrequencyThz),
             C<PointOutcome>("stable", ColumnType.Bool, "", "no negative eigenvalue beyond round-off", o => S(o)?.Stable),
             C<PointOutcome>("worst_q_reduced_x", ColumnType.Double, "reduced", "reduced wave vector of the worst instability", o => S(o)?.WorstQReduced?.X),
             C<PointOutcome>("worst_q_reduced_y", ColumnType.Double, "reduced", "reduced wave vector of the worst instability", o => S(o)?.WorstQReduced?.Y),
             C<PointOutcome>("worst_q_reduced_z", ColumnType.Double, "reduced", "reduced wave vector of the worst instability", o => S(o)?.WorstQReduced?.Z),
-            C<PointOutcome>("gap_count", ColumnType.Int32, "", "band gaps found", o => S(o)?.Gaps.Length),
+            C<PointOutcome>("gap_count", ColumnType.Int32, "", "band gaps found (empty for an unstable model)", o => S(o) is { Stable: true } s ? s.Gaps.Length : null),
             C<PointOutcome>("largest_gap_lower_thz", ColumnType.Double, "THz", "lower edge of the widest gap", o => Largest(o)?.LowerThz),
             C<PointOutcome>("largest_gap_upper_thz", ColumnType.Double, "THz", "upper edge of the widest gap", o => Largest(o)?.UpperThz),
             C<PointOutcome>("largest_gap_width_thz", ColumnType.Double, "THz", "width of the widest gap", o => Largest(o)?.WidthThz),
             C<PointOutcome>("lowest_gap_lower_thz", ColumnType.Double, "THz", "lower edge of the lowest gap", o => Lowest(o)?.LowerThz),
             C<PointOutcome>("lowest_gap_upper_thz", ColumnType.Double, "THz", "upper edge of the lowest gap", o => Lowest(o)?.UpperThz),
-            C<PointOutcome>("sound_direction_count", ColumnType.Int32, "", "directions with sound speeds (each in sound_speeds/)", o => S(o)?.SoundSpeeds.Length),
+            C<PointOutcome>("sound_direction_count", ColumnType.Int32, "", "directions with sound speeds (each in sound_speeds/; empty for an unstable model)", o => S(o) is { Stable: true } s ? s.SoundSpeeds.Length : null),
             C<PointOutcome>("sound_speed_min_m_per_s", ColumnType.Double, "m/s", "slowest sound speed over directions and branches", o => Speeds(o) is { Length: > 0 } v ? v.Min() : null),
             C<PointOutcome>("sound_speed_mean_m_per_s", ColumnType.Double, "m/s", "mean sound speed over directions and branches", o => Speeds(o) is { Length: > 0 } v ? v.Average() : null),
             C<PointOutcome>("sound_speed_max_m_per_s", ColumnType.Double, "m/s", "fastest sound speed over directions and branches", o => Speeds(o) is { Length: > 0 } v ? v.Max() : null),
@@ -216,6 +240,13 @@ internal sealed class ResultSchemas
             C<PointOutcome>("debye_temperature_moment_2_k", ColumnType.Double, "K", "Debye temperature from the n = 2 frequency moment", o => S(o)?.DebyeTemperatureMoment2K),
             C<PointOutcome>("molar_mass_kg_per_mol", ColumnType.Double, "kg/mol", "mean molar mass of the atoms", o => S(o)?.MolarMassKgPerMol),
             C<PointOutcome>("dos_method", ColumnType.Text, "", "how the density of states was integrated", o => o.Result?.Dos.Method),
+            C<PointOutcome>("elastic_fit_relative_residual", ColumnType.Double, "1", "springs fitted to elastic constants: |C_model - C_given| / |C_given| over C11, C12, C44 (empty for other models)", o => o.Result?.ElasticFit?.RelativeResidual),
+            C<PointOutcome>("elastic_c11_fitted_gpa", ColumnType.Double, "GPa", "C11 the fitted springs reproduce", o => o.Result?.ElasticFit?.Reproduced.C11Gpa),
+            C<PointOutcome>("elastic_c12_fitted_gpa", ColumnType.Double, "GPa", "C12 the fitted springs reproduce (central springs give C12 = C44)", o => o.Result?.ElasticFit?.Reproduced.C12Gpa),
+            C<PointOutcome>("elastic_c44_fitted_gpa", ColumnType.Double, "GPa", "C44 the fitted springs reproduce", o => o.Result?.ElasticFit?.Reproduced.C44Gpa),
+            C<PointOutcome>("christoffel_speed_min_m_per_s", ColumnType.Double, "m/s", "slowest Christoffel sound speed of the fitted constants over [100], [110], [111]", o => Christoffel(o)?.Min()),
+            C<PointOutcome>("christoffel_speed_mean_m_per_s", ColumnType.Double, "m/s", "mean Christoffel sound speed over those directions and branches", o => Christoffel(o)?.Average()),
+            C<PointOutcome>("christoffel_speed_max_m_per_s", ColumnType.Double, "m/s", "fastest Christoffel sound speed over those directions", o => Christoffel(o)?.Max()),
             .. ConductivitySummaryColumns(),
         ];
     }
@@ -266,7 +297,7 @@ internal sealed class ResultSchemas
             C<RowOf<ThermalValue>>("free_energy_j_per_mol", ColumnType.Double, "J/mol", "Helmholtz free energy per mole of atoms", r => r.Item.Thermal.FreeEnergyJPerMol),
             C<RowOf<ThermalValue>>("entropy_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy per mole of atoms", r => r.Item.Thermal.EntropyJPerMolK),
             C<RowOf<ThermalValue>>("cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity per mole of atoms", r => r.Item.Thermal.HeatCapacityJPerMolK),
-            C<RowOf<ThermalValue>>("debye_temperature_k", ColumnType.Double, "K", "Debye temperature matching this Cv (empty where undefined)", r => double.IsNaN(r.Item.Thermal.DebyeTemperatureK) ? null : r.Item.Thermal.DebyeTemperatureK),
+            C<RowOf<ThermalValue>>("debye_temperature_k", ColumnType.Double, "K", "Debye temperature matching this Cv (empty where undefined)", r => r.Item.Thermal.DebyeTemperatureK),
             C<RowOf<ThermalValue>>("internal_energy_j_per_cell", ColumnType.Double, "J/cell", "internal energy per primitive cell", r => Cell(r, r.Item.Thermal.InternalEnergyJPerMol)),
             C<RowOf<ThermalValue>>("free_energy_j_per_cell", ColumnType.Double, "J/cell", "free energy per primitive cell", r => Cell(r, r.Item.Thermal.FreeEnergyJPerMol)),
             C<RowOf<ThermalValue>>("entropy_j_per_cell_k", ColumnType.Double, "J/(cell K)", "entropy per primitive cell", r => Cell(r, r.Item.Thermal.EntropyJPerMolK)),

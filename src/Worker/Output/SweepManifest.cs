@@ -89,6 +89,7 @@ public static class SweepManifest
                 ["waiting"] = sweep.Counts.Waiting,
                 ["running"] = sweep.Counts.Running,
                 ["done"] = sweep.Counts.Done,
+                ["unstable"] = sweep.Counts.Unstable,
                 ["failed"] = sweep.Counts.Failed,
                 ["cancelled"] = sweep.Counts.Cancelled,
             },

@@ -11,7 +11,10 @@ public static class TableNames
     public const string Thermal = "thermal";
     public const string Dispersion = "dispersion";
     public const string Modes = "modes";
-    public const string Displacements = "displacements";
+    public const string MeanSquareDisplacements = "mean_square_displacements";
+
+    /// <summary>The former name of <see cref="MeanSquareDisplacements"/>: still accepted in job files and in older catalogs.</summary>
+    public const string FormerDisplacements = "displacements";
     public const string CumulativeKappa = "cumulative_kappa";
 
     /// <summary>Every table a sweep with these outputs writes, points first. Sound speeds go with points.</summary>

@@ -10,18 +10,7 @@ public static class JobFileLoader
     public static SweepPlan Load(string path)
     {
         ArgumentNullException.ThrowIfNull(path);
-        string text;
-        try
-        {
-            text = File.ReadAllText(path);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException or ArgumentException or NotSupportedException)
-        {
-            var reason = e is FileNotFoundException or DirectoryNotFoundException ? "job file not found" : "cannot read the job file: " + e.Message;
-            throw new JobFileException(new JobFileProblem(path, 0, 0, "", reason));
-        }
-
-        return Load(path, text);
+        return Load(path, JobFileText.Read(path));
     }
 
     /// <summary>Plans job-file text; <paramref name="path"/> names it in messages and anchors relative candidate files.</summary>

@@ -14,7 +14,7 @@ public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bo
             .. Thermal ? new[] { "thermal" } : [],
             .. Dispersion ? new[] { "dispersion" } : [],
             .. Modes ? new[] { "modes" } : [],
-            .. Displacements ? new[] { "displacements" } : [],
+            .. Displacements ? new[] { "mean_square_displacements" } : [],
             .. CumulativeKappa ? new[] { "cumulative_kappa" } : [],
         ];
 }

@@ -12,9 +12,9 @@ public static class PointBinder
         ArgumentNullException.ThrowIfNull(plan);
         ArgumentNullException.ThrowIfNull(point);
         var spec = Apply(plan.Template, point);
-        var model = EngineObjects.BuildModel(spec.Model);
+        var model = EngineObjects.BuildModel(spec.Model, out var fit);
         var sample = EngineObjects.BuildSample(spec.Sample, model.Lattice);
-        return new PointRequest(model, sample, plan.Template.Options with { Conductivity = spec.Conductivity });
+        return new PointRequest(model, sample, plan.Template.Options with { Conductivity = spec.Conductivity }) { ElasticFit = fit };
     }
 
     /// <summary>The point's spec: each swept column applied to the template in field order (cheap: a few record copies).</summary>

@@ -28,6 +28,12 @@ public sealed record SweepPlan
     /// <summary>"grid", "zip", "latin_hypercube" or "random": how the axes were combined.</summary>
     public string Combine { get; init; } = "grid";
 
+    /// <summary>
+    /// <c>[sweep] warn_point_time_s</c>: <c>check</c> warns about points estimated to take longer on
+    /// one core. A setting for people, not for the results: not part of <see cref="SpecHash"/>.
+    /// </summary>
+    public double WarnPointTimeS { get; init; } = JobFiles.SweepSectionReader.DefaultWarnPointTimeS;
+
     /// <summary>The candidates file the sweep read, if any (its content is part of <see cref="SpecHash"/>).</summary>
     public string? CandidatesFile { get; init; }
 }

@@ -98,6 +98,7 @@ internal static class SweepPlanner
             DuplicatePointsCollapsed = duplicates,
             Combine = CombineNames[sweep.Combine],
             CandidatesFile = candidateTable?.File,
+            WarnPointTimeS = sweep.WarnPointTimeS,
         };
     }
 
@@ -138,7 +139,8 @@ internal static class SweepPlanner
                 continue;
             }
 
-            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options), parameters);
+            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options),
+                parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value)));
             if (!seen.Add(id))
             {
                 duplicates++;
@@ -171,7 +173,7 @@ internal static class SweepPlanner
             var t = decl.Table;
             if (!catalog.TryResolve(decl.Path, out var field))
             {
-                t.Error("path", $"'{decl.Path}' names no sweepable field; {catalog.Suggest(decl.Path)}");
+                t.Error("path", $"'{EchoText.Of(decl.Path)}' names no sweepable field; {catalog.Suggest(decl.Path)}");
                 continue;
             }
 
@@ -197,7 +199,7 @@ internal static class SweepPlanner
             {
                 if (axes[i].Values.Length != n)
                 {
-                    tables[i].TableError($"combine = \"zip\" needs axes of equal length: '{axes[0].Path}' has {n} values, '{axes[i].Path}' has {axes[i].Values.Length}");
+                    tables[i].TableError($"combine = \"zip\" needs axes of equal length: '{EchoText.Of(axes[0].Path)}' has {n} values, '{EchoText.Of(axes[i].Path)}' has {axes[i].Values.Length}");
                 }
             }
         }
@@ -301,7 +303,7 @@ internal static class SweepPlanner
     }
 
     private static PlanAxis Axis(SweepField field, IReadOnlyList<object> values, RangeSource? interval) =>
-        new(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [.. values], interval);
+        new(field.Path, SweptColumnNames.Of(field.ColumnName), field.Unit, field.ValueType, field, [.. values], interval);
 
     private static CandidateBlock? ResolveCandidates(CandidatesDeclaration decl, CandidateTable table, FieldCatalog catalog, ProblemCollector problems)
     {
@@ -314,17 +316,17 @@ internal static class SweepPlanner
             var index = table.ColumnIndex(csvColumn);
             if (index < 0)
             {
-                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"the candidates file has no column '{csvColumn}'; " + KeySuggestions.Hint(csvColumn, headers));
+                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"the candidates file has no column '{EchoText.Of(csvColumn)}'; " + KeySuggestions.Hint(csvColumn, headers));
                 continue;
             }
 
             if (!catalog.TryResolve(path, out var field))
             {
-                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"'{path}' names no sweepable field; {catalog.Suggest(path)}");
+                t.Problems.Add(t.Where("columns"), $"sweep.candidates.columns.\"{csvColumn}\"", $"'{EchoText.Of(path)}' names no sweepable field; {catalog.Suggest(path)}");
                 continue;
             }
 
-            columns.Add((index, new PlanAxis(field.Path, field.ColumnName, field.Unit, field.ValueType, field, [], null)));
+            columns.Add((index, new PlanAxis(field.Path, SweptColumnNames.Of(field.ColumnName), field.Unit, field.ValueType, field, [], null)));
         }
 
         foreach (var keep in decl.Keep)
@@ -332,11 +334,11 @@ internal static class SweepPlanner
             var index = table.ColumnIndex(keep);
             if (index < 0)
             {
-                t.Error("keep", $"the candidates file has no column '{keep}'; " + KeySuggestions.Hint(keep, headers));
+                t.Error("keep", $"the candidates file has no column '{EchoText.Of(keep)}'; " + KeySuggestions.Hint(keep, headers));
                 continue;
             }
 
-            columns.Add((index, new PlanAxis($"candidates.{keep}", ColumnNames.Snake(keep), "", AxisValueType.Text, null, [], null)));
+            columns.Add((index, new PlanAxis($"candidates.{keep}", SweptColumnNames.Of(ColumnNames.Snake(keep)), "", AxisValueType.Text, null, [], null)));
         }
 
         if (problems.Count > before)
@@ -382,11 +384,11 @@ internal static class SweepPlanner
         {
             if (c.Field is not null && !fields.Add(c.Field.Path))
             {
-                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"'{c.Path}' is set by two axes (or an axis and a candidates column); each field may be swept once");
+                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"'{EchoText.Of(c.Path)}' is set by two axes (or an axis and a candidates column); each field may be swept once");
             }
             else if (!names.Add(c.Column))
             {
-                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"two swept fields would both be named column '{c.Column}' ({c.Path}); rename a site label or a candidates column");
+                problems.Add(new SourceLocation(1, 1), "sweep.axes", $"two swept fields would both be named column '{EchoText.Of(c.Column)}' ({EchoText.Of(c.Path)}); rename a site label or a candidates column");
             }
         }
     }

@@ -45,6 +45,7 @@ public sealed class ChunkRunner
 
     private int _activeChunks;
     private long _failedPoints;
+    private long _unstablePoints;
 
     public static string DefaultWorkerName => $"{Environment.MachineName}:{Environment.ProcessId}";
 
@@ -53,6 +54,9 @@ public sealed class ChunkRunner
 
     /// <summary>Points that failed in this process so far.</summary>
     public long FailedPoints => Interlocked.Read(ref _failedPoints);
+
+    /// <summary>Points solved in this process so far whose model is unstable.</summary>
+    public long UnstablePoints => Interlocked.Read(ref _unstablePoints);
 
     public Task RunAsync(string sweepId, string chunkId, CancellationToken ct) => RunAsync(sweepId, chunkId, lastAttempt: false, ct);
 
@@ -71,7 +75,7 @@ public sealed class ChunkRunner
         }
         catch (Exception ex) when (!(ex is OperationCanceledException && ct.IsCancellationRequested))
         {
-            _log.Error("Chunk {ChunkId} of sweep {SweepId} stopped on an error{Then}: {Error}",
+            _log.Error(ex, "Chunk {ChunkId} of sweep {SweepId} stopped on an error{Then}: {Error}",
                 chunkId, sweepId, lastAttempt ? "; the queue gives it up" : "; the queue runs it again later", ex.Message);
             if (lastAttempt && claim is { Decision: ChunkDecision.Run } claimed)
             {
@@ -132,6 +136,13 @@ public sealed class ChunkRunner
         var completion = _catalog.CompleteChunk(sweepId, chunkId,
             [.. outcomes.Select(o => new PointCompletion(o.Point.PointId, o.State, o.FailureKind, o.Error, o.StartedAt, o.FinishedAt, o.DurationSeconds))]);
 
+        foreach (var unstable in outcomes.Where(o => o.State == PointState.Unstable))
+        {
+            Interlocked.Increment(ref _unstablePoints);
+            _log.Information("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) is an unstable model: {Instability}",
+                unstable.Point.PointId, sweepId, chunkId, unstable.Error);
+        }
+
         foreach (var failed in outcomes.Where(o => o.State == PointState.Failed))
         {
             Interlocked.Increment(ref _failedPoints);
@@ -141,8 +152,8 @@ public sealed class ChunkRunner
 
         if (completion.SweepFinishedNow)
         {
-            _log.Information("Sweep {SweepId} finished {State}: {Done} done, {Failed} failed of {Total}; results in {OutputFolder}",
-                sweepId, completion.State.ToString().ToLowerInvariant(), completion.Counts.Done, completion.Counts.Failed, completion.Counts.Total, sweep.OutputFolder);
+            _log.Information("Sweep {SweepId} finished {State}: {Done} done, {Unstable} unstable, {Failed} failed of {Total}; results in {OutputFolder}",
+                sweepId, completion.State.ToString().ToLowerInvariant(), completion.Counts.Done, completion.Counts.Unstable, completion.Counts.Failed, completion.Counts.Total, sweep.OutputFolder);
             WriteManifest(sweepId);
         }
     }
@@ -192,7 +203,9 @@ public sealed class ChunkRunner
                     (retry, delay, ex) => _log.Warning("Point {PointId} of sweep {SweepId}: I/O fault, retry {Retry} of {Retries} in {DelaySeconds} s: {Error}",
                         point.PointId, sweep.SweepId, retry, _retry.Retries, delay.TotalSeconds, ex.Message),
                     ct).ConfigureAwait(false);
-                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Done, null, null, result));
+                outcomes.Add(result.Summary.Stable
+                    ? Outcome(point, claimed, chunkId, started, clock, PointState.Done, null, null, result)
+                    : Outcome(point, claimed, chunkId, started, clock, PointState.Unstable, null, Instability.Describe(result.Summary), result));
             }
             catch (ModelException ex)
             {
@@ -218,7 +231,7 @@ public sealed class ChunkRunner
 
     private async Task<List<PointOutcome>> WritePartsAsync(SweepRecord sweep, string chunkId, List<PointOutcome> outcomes, CancellationToken ct)
     {
-        if (!outcomes.Any(o => o.State == PointState.Done || (o.FailureKind is { } k && k.HasResult())))
+        if (!outcomes.Any(o => o.State is PointState.Done or PointState.Unstable || (o.FailureKind is { } k && k.HasResult())))
         {
             return outcomes;
         }

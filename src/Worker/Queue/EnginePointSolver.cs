@@ -9,12 +9,6 @@ namespace LatticeSweep.Worker.Queue;
 /// <summary>Binds a point to its model (<see cref="PointBinder"/>) and solves it with <see cref="PhononSolver"/>.</summary>
 public sealed class EnginePointSolver : IPointSolver
 {
-    /// <summary>
-    /// Assumed floating-point rate of one core on the Engine's small dense eigen-solves, used only
-    /// to size chunks (common practice, no source: a deliberately modest figure for managed code).
-    /// </summary>
-    public const double AssumedFlopsPerSecond = 1e9;
-
     public static EnginePointSolver Instance { get; } = new();
 
     public string EngineVersion => PhononSolver.EngineVersion;
@@ -23,10 +17,9 @@ public sealed class EnginePointSolver : IPointSolver
     {
         try
         {
+            // The same calibrated estimate as `check` (Planning/Cost/PointCost).
             var request = PointBinder.Bind(plan, point);
-            var flops = PhononSolver.Estimate(request.Model, request.Sample, request.Options).FlopEstimate
-                + ConductivityWork.EstimateFlops(request.Model, request.Sample, request.Options);
-            return flops / AssumedFlopsPerSecond;
+            return Planning.Cost.PointCost.Seconds(request.Model, request.Sample, request.Options);
         }
         catch (ModelException)
         {
@@ -39,6 +32,6 @@ public sealed class EnginePointSolver : IPointSolver
     {
         SimulatedSlowPoints.Wait(ct);
         var request = PointBinder.Bind(plan, point);
-        return PhononSolver.Solve(request.Model, request.Sample, request.Options, ct);
+        return PhononSolver.Solve(request.Model, request.Sample, request.Options, ct) with { ElasticFit = request.ElasticFit };
     }
 }

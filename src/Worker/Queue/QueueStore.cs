@@ -25,6 +25,9 @@ public sealed class QueueStore : IDisposable
     // An arbitrary fixed key for the session lock that serialises installing the queue's tables (common practice, no source).
     private const long InstallLockKey = 0x4C_61_74_51_75_65;
 
+    // The catalog's sweep table: a store exists when it does.
+    private const string CatalogTable = "latsweep_sweeps";
+
     private QueueStore(StoreLocation location, JobStorage storage, ISweepCatalog catalog, StoreOptions options)
     {
         Location = location;
@@ -57,6 +60,87 @@ public sealed class QueueStore : IDisposable
         catch (Exception ex) when (ex is not StoreUnavailableException and not OutOfMemoryException)
         {
             throw new StoreUnavailableException($"cannot open the store {location.Display}: {ex.Message}", ex);
+        }
+    }
+
+    /// <summary>
+    /// Opens a store that must exist already: for the commands that only read or change what is
+    /// there (status, cancel, resume, the dashboard), a mistyped <c>--store</c> must not create an
+    /// empty store (and report "no sweeps"). Throws <see cref="StoreUnavailableException"/> with what
+    /// to check when there is no store; creates nothing then.
+    /// </summary>
+    public static QueueStore OpenExisting(StoreLocation location, TimeProvider time, StoreOptions options, ILogger? log)
+    {
+        RequireExisting(location);
+        return Open(location, time, options, log);
+    }
+
+    /// <summary>Opens an existing store with the default options (see <see cref="OpenExisting(StoreLocation, TimeProvider, StoreOptions, ILogger?)"/>).</summary>
+    public static QueueStore OpenExisting(StoreLocation location, TimeProvider time) => OpenExisting(location, time, StoreOptions.Default, null);
+
+    /// <summary>
+    /// Throws <see cref="StoreUnavailableException"/> unless a store is there: the SQLite file, or on
+    /// PostgreSQL the catalog's table in the store's schema (a schema that does not exist is no store).
+    /// Writes nothing.
+    /// </summary>
+    public static void RequireExisting(StoreLocation location)
+    {
+        ArgumentNullException.ThrowIfNull(location);
+        if (location.Kind == StoreKind.Sqlite)
+        {
+            if (Directory.Exists(location.Value))
+            {
+                throw new StoreUnavailableException($"--store {location.Value} is a folder; give the store file (by default .latsweep/store.db)");
+            }
+
+            if (!File.Exists(location.Value))
+            {
+                throw new StoreUnavailableException(
+                    $"no store at {location.Value} (the file does not exist); check --store, or start a sweep with latsweep run or submit, which create the store");
+            }
+
+            if (!LooksLikeSqlite(location.Value))
+            {
+                throw new StoreUnavailableException($"{location.Value} is not a store (not an SQLite database file); check --store");
+            }
+
+            return;
+        }
+
+        bool exists;
+        try
+        {
+            using var connection = new NpgsqlConnection(new NpgsqlConnectionStringBuilder(location.Value) { Pooling = false }.ConnectionString);
+            connection.Open();
+            using var command = new NpgsqlCommand(
+                "SELECT EXISTS (SELECT 1 FROM information_schema.tables WHERE table_schema = @schema AND table_name = @table)", connection);
+            command.Parameters.AddWithValue("schema", location.Schema!);
+            command.Parameters.AddWithValue("table", CatalogTable);
+            exists = (bool)command.ExecuteScalar()!;
+        }
+        catch (Exception ex) when (ex is NpgsqlException or InvalidOperationException or ArgumentException or System.Net.Sockets.SocketException or TimeoutException)
+        {
+            throw new StoreUnavailableException($"cannot open the store {location.Display}: {FirstLine(ex.Message)}", ex);
+        }
+
+        if (!exists)
+        {
+            throw new StoreUnavailableException(
+                $"no store in {location.Display}: the schema '{location.Schema}' holds no LatticeSweep catalog; check the Search Path (?schema=) of --store, or start a sweep there with latsweep run or submit, which create the store");
+        }
+    }
+
+    private static bool LooksLikeSqlite(string path)
+    {
+        try
+        {
+            using var file = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete);
+            Span<byte> head = stackalloc byte[16];
+            return file.ReadAtLeast(head, head.Length, throwOnEndOfStream: false) == head.Length && head.SequenceEqual("SQLite format 3\0"u8);
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            throw new StoreUnavailableException($"cannot open the store {path}: {ex.Message}", ex);
         }
     }
 
@@ -148,7 +232,7 @@ public sealed class QueueStore : IDisposable
         Directory.CreateDirectory(folder);
 
         // The catalog first: it switches the file to WAL before the queue opens it.
-        var catalog = new SqliteSweepCatalog(location.Value, time);
+        var catalog = SimulatedFullStore.Wrap(new SqliteSweepCatalog(location.Value, time));
         try
         {
             var storage = new SQLiteStorage(location.Value, new SQLiteStorageOptions

@@ -39,11 +39,11 @@ public sealed record StoreLocation
             ? new NpgsqlConnectionStringBuilder(Value) { SearchPath = Schema }.ConnectionString
             : throw new InvalidOperationException("a SQLite store has no connection string");
 
-    /// <summary>Folder for the JSON log files: the store file's folder, or ./.latsweep/logs for a database.</summary>
-    public string LogFolder(string currentDirectory) =>
-        Kind == StoreKind.Sqlite
-            ? Path.Combine(Path.GetDirectoryName(Value)!, "logs")
-            : Path.Combine(currentDirectory, ".latsweep", "logs");
+    /// <summary>
+    /// Folder for the JSON log files: <c>./.latsweep/logs</c> under the folder the command runs in,
+    /// for every kind of store (with the default store that is next to it), as the README says.
+    /// </summary>
+    public string LogFolder(string currentDirectory) => Path.Combine(currentDirectory, ".latsweep", "logs");
 
     /// <summary>A description safe to print and log (no password).</summary>
     public string Display =>

@@ -127,7 +127,13 @@ public sealed class FilterTests
         Assert.Equal(3, detail.RootElement.GetProperty("stability").GetProperty("unstable").GetInt64());
 
         var point = await Html.GetAsync(http, $"/sweeps/{id}/points/{unstable[0]}");
-        Assert.Equal("unstable", Html.Text(point.DocumentElement, "unstable"));
+        Assert.Equal("unstable", Html.Text(point.DocumentElement, "state"));
+        Assert.Contains("This model is unstable", point.QuerySelector("p.problem")!.TextContent, StringComparison.Ordinal);
+
+        // Their thermal numbers are empty, so "stable only" and "done only" both leave them out.
+        Assert.Equal(0L, duck.Scalar($"SELECT COUNT(cv_j_per_mol_k) FROM {source} WHERE NOT stable"));
+        var stableOnly = await Html.GetAsync(http, $"/sweeps/{id}?stable=1");
+        Assert.Empty(stableOnly.QuerySelectorAll("#results-table tbody tr.unstable"));
     }
 
     private string Id(string sweep) => sweep switch

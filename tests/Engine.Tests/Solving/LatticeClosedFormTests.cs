@@ -76,8 +76,8 @@ public class LatticeClosedFormTests
         const double t = 1e6;
         var options = new SolveOptions { TemperaturesK = [t], ReferenceTemperatureK = t, PartialDos = false, DosBins = 128 };
         var expected = PhysicalConstants.BoltzmannJPerK * t / (2 * Crystals.SpringNPerM) * 0.505462019717326 * 1e18;
-        var coarse = Assert.Single(PhononSolver.Solve(Crystals.ScalarSimpleCubic(), BulkSample.Uniform(3, 32), options).Displacements).MsdXNm2;
-        var fine = Assert.Single(PhononSolver.Solve(Crystals.ScalarSimpleCubic(), BulkSample.Uniform(3, 64), options).Displacements).MsdXNm2;
+        var coarse = Assert.Single(PhononSolver.Solve(Crystals.ScalarSimpleCubic(), BulkSample.Uniform(3, 32), options).Displacements).MsdXNm2!.Value;
+        var fine = Assert.Single(PhononSolver.Solve(Crystals.ScalarSimpleCubic(), BulkSample.Uniform(3, 64), options).Displacements).MsdXNm2!.Value;
         Assert.True(fine < expected && fine > coarse, "the mesh sum approaches Watson's value from below");
         Approx.Equal(expected, fine, 0.015, "<u^2> at M = 64 (nm^2)");
         Approx.Equal(expected, 2 * fine - coarse, 0.002, "<u^2> extrapolated in 1/M (nm^2)");

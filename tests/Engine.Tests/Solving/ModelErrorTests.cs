@@ -108,6 +108,11 @@ public class ModelErrorTests
         Assert.False(result.Summary.Stable);
         Assert.True(result.Summary.MinFrequencyThz < 0);
         Assert.NotNull(result.Summary.WorstQReduced);
-        Assert.All(result.Thermal, row => Assert.True(double.IsNaN(row.HeatCapacityJPerMolK)));
+        Assert.Empty(result.Thermal);
+        Assert.Null(result.Summary.HeatCapacityJPerMolK);
+        Assert.Null(result.Summary.ZeroPointEnergyJPerMol);
+        Assert.Null(result.Summary.DebyeTemperatureMomentLogK);
+        Assert.Empty(result.Summary.Gaps);
+        Assert.Empty(result.Summary.SoundSpeeds);
     }
 }

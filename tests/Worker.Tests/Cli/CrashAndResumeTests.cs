@@ -101,7 +101,7 @@ public sealed class CrashAndResumeTests : IDisposable
 
         using var db = new DuckDb();
         var folder = after.Count > 0 ? Path.Combine(_dir.Path, "results", sweepId) : "";
-        foreach (var table in new[] { "points", "thermal", "dos", "displacements", "sound_speeds" }) // no modes: 48,000 modes is above the mode-list limit
+        foreach (var table in new[] { "points", "thermal", "dos", "mean_square_displacements", "sound_speeds" }) // no modes: 48,000 modes is above the mode-list limit
         {
             var glob = DuckDb.Glob(Path.Combine(folder, table));
             var perPoint = db.Rows($"SELECT point_id, count(*) FROM {glob} GROUP BY point_id");

@@ -20,7 +20,7 @@ public sealed class QueueCommandsTests : IDisposable
         Assert.Equal(0, submitted.ExitCode);
         Assert.Contains("24 points, 5 chunks to run", submitted.Stdout, StringComparison.Ordinal);
         var list = Support.Cli.Run(_dir.Path, "status");
-        Assert.Matches(@"quickstart-\w+\s+queued\s+24\s+0\s+0\s+24", list.Stdout);
+        Assert.Matches(@"quickstart-\w+\s+queued\s+24\s+0\s+0\s+0\s+24", list.Stdout);
 
         var worked = Support.Cli.Run(_dir.Path, "work", "--workers", "2");
 
@@ -28,7 +28,7 @@ public sealed class QueueCommandsTests : IDisposable
         var detail = Support.Cli.Run(_dir.Path, "status", "quickstart");
         Assert.Equal(0, detail.ExitCode);
         Assert.Contains("State      done", detail.Stdout, StringComparison.Ordinal);
-        Assert.Contains("24 done, 0 failed, 0 waiting, 0 running, 0 cancelled", detail.Stdout, StringComparison.Ordinal);
+        Assert.Contains("24 done, 0 unstable, 0 failed, 0 waiting, 0 running, 0 cancelled", detail.Stdout, StringComparison.Ordinal);
         Assert.Contains("Coverage of sites_b_mass_amu [amu]", detail.Stdout, StringComparison.Ordinal);
     }
 
@@ -46,7 +46,7 @@ public sealed class QueueCommandsTests : IDisposable
         var resumed = Support.Cli.Run(_dir.Path, "resume", "quickstart", "--workers", "2");
 
         Assert.True(resumed.ExitCode == 0, resumed.Stdout + resumed.Stderr);
-        Assert.Contains("done: 24 points, 24 done", resumed.Stdout, StringComparison.Ordinal);
+        Assert.Contains("done: 24 points: 24 done, 0 unstable", resumed.Stdout, StringComparison.Ordinal);
     }
 
     [Fact]

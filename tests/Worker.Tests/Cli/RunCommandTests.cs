@@ -65,7 +65,7 @@ public sealed class RunCommandTests : IDisposable
         Assert.Equal("J/(mol K)", (string)manifest["tables"]!["thermal"]!["columns"]!.AsArray().Single(c => (string)c!["name"]! == "cv_j_per_mol_k")!["unit"]!);
         Assert.Equal(plan.Axes.Length, manifest["axes"]!.AsArray().Count);
 
-        // A JSON log file in the store's folder.
+        // A JSON log file in ./.latsweep/logs (here also the default store's folder).
         var log = Directory.GetFiles(_dir.Combine(".latsweep", "logs"), "latsweep-*.json").Single();
         Assert.Contains("\"SweepId\"", File.ReadAllText(log), StringComparison.Ordinal);
     }

@@ -79,8 +79,78 @@ public sealed partial class ReadmeTests : IDisposable
         {
             var rows = db.Rows(statement);
             Assert.True(rows.Count > 0, $"the README statement returned no rows: {statement}");
+
+            // Readable values only: an undecoded key-value BLOB prints as bytes.
+            Assert.DoesNotContain(rows.SelectMany(r => r), v => v is byte[] or Stream);
+        }
+
+        // The units query answers with each column's unit as text.
+        var units = db.Rows(statements[^1]).ToDictionary(r => (string)r[0]!, r => (string)r[1]!);
+        Assert.Equal("THz", units["max_freq_thz"]);
+        Assert.Equal("J/(mol K)", units["cv_j_per_mol_k"]);
+        Assert.Equal("amu", units["sites_b_mass_amu"]);
+    }
+
+    [Fact]
+    public void The_primitive_vectors_and_path_corners_in_the_README_are_the_Engines()
+    {
+        var readme = File.ReadAllText(ReadmePath).ReplaceLineEndings("\n");
+        var start = readme.IndexOf("<!-- lattice-vectors -->", StringComparison.Ordinal);
+        Assert.True(start >= 0, "README.md needs the <!-- lattice-vectors --> table");
+        var rows = readme[start..].Split('\n').Skip(3).TakeWhile(l => l.StartsWith('|')).ToList();
+        var lattices = new Dictionary<string, Engine.Models.Lattice>
+        {
+            ["chain"] = Engine.Models.Lattice.Chain(1),
+            ["square"] = Engine.Models.Lattice.Square(1),
+            ["hexagonal"] = Engine.Models.Lattice.Hexagonal(1),
+            ["simple_cubic"] = Engine.Models.Lattice.SimpleCubic(1),
+            ["bcc"] = Engine.Models.Lattice.BodyCentredCubic(1),
+            ["fcc"] = Engine.Models.Lattice.FaceCentredCubic(1),
+        };
+        Assert.Equal(lattices.Keys.Order(), rows.Select(r => r.Split('|')[1].Trim().Trim('`')).Order());
+        const double a = 1e-9; // 1 nm in metres
+        foreach (var row in rows)
+        {
+            var cells = row.Split('|');
+            var lattice = lattices[cells[1].Trim().Trim('`')];
+            var vectors = VectorEntry().Matches(cells[2]);
+            Assert.Equal(lattice.Dimension, vectors.Count);
+            foreach (Match v in vectors)
+            {
+                var i = int.Parse(v.Groups["i"].Value, System.Globalization.CultureInfo.InvariantCulture) - 1;
+                AssertClose(Numbers(v.Groups["v"].Value), lattice.Vector(i) / a, row);
+            }
+
+            var corners = CornerEntry().Matches(cells[3]);
+            Assert.NotEmpty(corners);
+            foreach (Match c in corners)
+            {
+                var reduced = Numbers(c.Groups["q"].Value);
+                Assert.Equal(lattice.Dimension, reduced.Length);
+                var q = lattice.ToCartesianQ(new Engine.Models.Vec3(reduced[0], reduced.ElementAtOrDefault(1), reduced.ElementAtOrDefault(2)));
+                AssertClose(Numbers(c.Groups["k"].Value), q / (2 * Math.PI / a), row);
+            }
+        }
+
+        static double[] Numbers(string text) =>
+            [.. text.Split(',').Select(t => double.Parse(t.Trim(), System.Globalization.CultureInfo.InvariantCulture))];
+
+        static void AssertClose(double[] expected, Engine.Models.Vec3 actual, string row)
+        {
+            Assert.Equal(3, expected.Length);
+            var got = new[] { actual.X, actual.Y, actual.Z };
+            for (var k = 0; k < 3; k++)
+            {
+                Assert.True(Math.Abs(expected[k] - got[k]) < 2e-6, $"{row}: component {k} is {got[k]}, the README says {expected[k]}");
+            }
         }
     }
+
+    [GeneratedRegex(@"`a(?<i>[123]) = \((?<v>[^)]*)\)`")]
+    private static partial Regex VectorEntry();
+
+    [GeneratedRegex(@"`[A-Z] \[(?<q>[^\]]*)\] = \((?<k>[^)]*)\)`")]
+    private static partial Regex CornerEntry();
 
     [GeneratedRegex(@"<!-- duckdb-snippet -->\s*```sql\s*(?<sql>.*?)```", RegexOptions.Singleline)]
     private static partial Regex DuckDbSnippet();

@@ -74,7 +74,7 @@ public sealed class ManyWorkersOnPostgresTests : IDisposable
         // status counts match the catalog and the dataset.
         var status = Support.Cli.Run(_dir.Path, "status", sweepId, "--store", store.Argument);
         Assert.Contains("State      done", status.Stdout, StringComparison.Ordinal);
-        Assert.Contains("360 in 60 chunks: 360 done, 0 failed, 0 waiting, 0 running, 0 cancelled", status.Stdout, StringComparison.Ordinal);
+        Assert.Contains("360 in 60 chunks: 360 done, 0 unstable, 0 failed, 0 waiting, 0 running, 0 cancelled", status.Stdout, StringComparison.Ordinal);
         var points = store.Points(sweepId).ToDictionary(p => p.PointId);
         Assert.All(points.Values, p => Assert.Equal(PointState.Done, p.State));
         ResultChecks.EveryPointExactlyOnce(Path.Combine(_dir.Path, "results", sweepId), [.. plan.Points.Select(p => p.PointId)], SweepJobs.RowsPerPoint);
@@ -122,7 +122,7 @@ public sealed class ManyWorkersOnPostgresTests : IDisposable
 
         var status = Support.Cli.Run(_dir.Path, "status", sweepId, "--store", store.Argument);
         Assert.Contains("State      done", status.Stdout, StringComparison.Ordinal);
-        Assert.Contains($"{plan.Points.Length} done, 0 failed, 0 waiting, 0 running", status.Stdout, StringComparison.Ordinal);
+        Assert.Contains($"{plan.Points.Length} done, 0 unstable, 0 failed, 0 waiting, 0 running", status.Stdout, StringComparison.Ordinal);
         ResultChecks.EveryPointExactlyOnce(Path.Combine(_dir.Path, "results", sweepId), [.. plan.Points.Select(p => p.PointId)], SweepJobs.RowsPerPoint);
     }
 

@@ -53,7 +53,7 @@ public sealed class SweepOnEveryStoreTests : IDisposable
         var status = Support.Cli.Run(_dir.Path, "status", sweepId, "--store", store.Argument);
         Assert.Equal(0, status.ExitCode);
         Assert.Contains("State      done", status.Stdout, StringComparison.Ordinal);
-        Assert.Contains("30 in 8 chunks: 30 done, 0 failed, 0 waiting, 0 running, 0 cancelled", status.Stdout, StringComparison.Ordinal);
+        Assert.Contains("30 in 8 chunks: 30 done, 0 unstable, 0 failed, 0 waiting, 0 running, 0 cancelled", status.Stdout, StringComparison.Ordinal);
         var list = Support.Cli.Run(_dir.Path, "status", "--store", store.Argument);
         Assert.Matches($@"{sweepId}\s+done\s+30\s+30\s+0\s+0\s+0\s+0", list.Stdout);
 

@@ -344,5 +344,35 @@ public sealed class BadInputTests : IDisposable
         Assert.Contains(e.Problems, p => p.Key == "model.constant_nm" && p.Message == "is required");
     }
 
+    [Fact]
+    public void A_spring_naming_a_label_whose_kind_came_from_its_element_says_so()
+    {
+        var text = Some.ChainJob()
+            .Replace("mass_amu = 10.0", "element = \"Na\"", StringComparison.Ordinal)
+            .Replace("mass_amu = 20.0", "element = \"Cl\"", StringComparison.Ordinal);
+        var e = Some.Fails(_dir, text);
+        var from = Assert.Single(e.Problems, p => p.Key == "model.springs[0].from");
+        Assert.Equal(Some.LineOf(text, "from = \"A\""), from.Line);
+        Assert.Contains("no site has kind 'A': springs join site kinds, not labels, and site 'A' has kind 'Na' (from its element = \"Na\")", from.Message, StringComparison.Ordinal);
+        Assert.Contains("write from = \"Na\", or give that site kind = \"A\"", from.Message, StringComparison.Ordinal);
+        var to = Assert.Single(e.Problems, p => p.Key == "model.springs[0].to");
+        Assert.Contains("site 'B' has kind 'Cl' (from its element = \"Cl\")", to.Message, StringComparison.Ordinal);
+
+        // Written as the message says, the file plans.
+        Some.Load(_dir, text.Replace("from = \"A\"", "from = \"Na\"", StringComparison.Ordinal).Replace("to = \"B\"", "to = \"Cl\"", StringComparison.Ordinal));
+        Some.Load(_dir, text.Replace("element = \"Na\"", "element = \"Na\"\nkind = \"A\"", StringComparison.Ordinal).Replace("element = \"Cl\"", "element = \"Cl\"\nkind = \"B\"", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void An_unknown_kind_lists_the_kinds_that_differ_from_their_labels()
+    {
+        var text = Some.ChainJob()
+            .Replace("mass_amu = 10.0", "element = \"Na\"", StringComparison.Ordinal)
+            .Replace("to = \"B\"", "to = \"Q\"", StringComparison.Ordinal);
+        var p = Single(text, "model.springs[0].to");
+        Assert.Contains("no site has kind 'Q'", p.Message, StringComparison.Ordinal);
+        Assert.Contains("a site's kind is its kind key, else its element, else its label: site 'A' has kind 'Na'", p.Message, StringComparison.Ordinal);
+    }
+
     private static object Planning_Load(string path) => LatticeSweep.Worker.Planning.JobFileLoader.Load(path);
 }

@@ -159,6 +159,11 @@ public sealed class JobFileFuzzTests : IDisposable
             return new Outcome(OutcomeKind.Defect, "stack trace on stderr: " + stderr);
         }
 
+        if (code == ExitCodes.BadInput && stdout.ToString().Contains("will fail: fix the job file", StringComparison.Ordinal))
+        {
+            return EveryPointFails(path);
+        }
+
         if (code == ExitCodes.BadInput)
         {
             return Rejected(path, stderr.ToString());
@@ -170,6 +175,27 @@ public sealed class JobFileFuzzTests : IDisposable
         }
 
         return RunsCorrectly(path, solve);
+    }
+
+    /// <summary>check's forecast said every point will fail (exit 2): the file loads, and its first point really fails with a model reason.</summary>
+    private static Outcome EveryPointFails(string path)
+    {
+        try
+        {
+            var plan = JobFileLoader.Load(path);
+            var request = PointBinder.Bind(plan, plan.Points[0]);
+            PhononSolver.PreflightPoint(request.Model, request.Sample, request.Options);
+            PhononSolver.PreflightModel(request.Model);
+            return new Outcome(OutcomeKind.Defect, "check said every point will fail, but the first point passes the Engine's pre-flight");
+        }
+        catch (ModelException)
+        {
+            return new Outcome(OutcomeKind.Rejected);
+        }
+        catch (Exception e)
+        {
+            return new Outcome(OutcomeKind.Defect, "check said every point will fail, and loading or binding crashed: " + e);
+        }
     }
 
     /// <summary>Every problem names the file and a line or a key, and the message shows each of them.</summary>

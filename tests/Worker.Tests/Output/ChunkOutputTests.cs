@@ -114,7 +114,7 @@ public sealed class ChunkOutputTests : IDisposable
         Assert.Equal(1, solver.Calls[sweep.Plan.Points[2].PointId]);
 
         using var db = new DuckDb();
-        foreach (var table in new[] { "points", "thermal", "dos", "modes", "displacements", "sound_speeds" })
+        foreach (var table in new[] { "points", "thermal", "dos", "modes", "mean_square_displacements", "sound_speeds" })
         {
             var glob = DuckDb.Glob(Path.Combine(sweep.Folder, table));
             var perPoint = db.Rows($"SELECT point_id, count(*) FROM {glob} GROUP BY point_id");

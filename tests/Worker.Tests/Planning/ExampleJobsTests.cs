@@ -55,14 +55,14 @@ public class ExampleJobsTests
         Assert.Equal(10.0, (double)mass.Values[0], 12);
         Assert.Equal(120.0, (double)mass.Values[^1], 12);
 
-        var heaviestBulk = plan.Points.Single(p => (double)p.Parameters["sites_b_mass_amu"] == 120.0 && (string)p.Parameters["sample_kind"] == "bulk");
+        var heaviestBulk = plan.Points.Single(p => (double)p.Parameters["sites_b_mass_amu"] == 120.0 && (string)p.Parameters["axis_sample_kind"] == "bulk");
         var request = PointBinder.Bind(plan, heaviestBulk);
         Assert.Equal(LatticeKind.Chain, request.Model.Lattice.Kind);
         Assert.Equal([10.0, 120.0], request.Model.Sites.Select(s => s.MassAmu));
         var bulk = Assert.IsType<BulkSample>(request.Sample);
         Assert.Equal(256, bulk.M1);
 
-        var finite = PointBinder.Bind(plan, plan.Points.First(p => (string)p.Parameters["sample_kind"] == "finite"));
+        var finite = PointBinder.Bind(plan, plan.Points.First(p => (string)p.Parameters["axis_sample_kind"] == "finite"));
         Assert.Equal(64, Assert.IsType<FiniteSample>(finite.Sample).N1);
     }
 

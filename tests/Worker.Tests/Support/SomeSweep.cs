@@ -91,7 +91,7 @@ internal static class SomeSweep
         return new PointResult(
             summary,
             dos,
-            [new ThermalRow(100, 1000 + mass, -50, 10, 15, 200), new ThermalRow(300, 3000 + mass, -900, 30, 20 + mass / 100, double.NaN)],
+            [new ThermalRow(100, 1000 + mass, -50, 10, 15, 200), new ThermalRow(300, 3000 + mass, -900, 30, 20 + mass / 100, null)],
             [new DisplacementRow(300, 0, "A", 1e-4, 1e-4, 1e-4)],
             [],
             [new ModeLevel(0.0, 1), new ModeLevel(scale, 2)]);

@@ -23,6 +23,9 @@ internal sealed class StoreUnderTest : IDisposable
     /// <summary>The value for <c>--store</c>.</summary>
     public string Argument { get; }
 
+    /// <summary>PostgreSQL: the schema of this store (it does not exist until a command creates the store). Null for SQLite.</summary>
+    public string? Schema => _schema;
+
     public static StoreUnderTest Create(StoreKind kind, TempFolder folder)
     {
         if (kind == StoreKind.Sqlite)

@@ -12,7 +12,7 @@ internal static class SweepJobs
     public const int DosBins = 40;
 
     /// <summary>Tables written (besides points/ and sound_speeds/, which come always).</summary>
-    public static readonly string[] Tables = ["dos", "thermal", "displacements"];
+    public static readonly string[] Tables = ["dos", "thermal", "mean_square_displacements"];
 
     /// <summary>
     /// <paramref name="masses"/> values of the heavy atom's mass times <paramref name="springs"/> spring
@@ -70,6 +70,6 @@ internal static class SweepJobs
         ["sound_speeds"] = null,
         ["dos"] = null,
         ["thermal"] = TemperaturesK.Length,
-        ["displacements"] = null,
+        ["mean_square_displacements"] = null,
     };
 }

@@ -72,7 +72,7 @@
     if (!block || !C) { return; }
     const plots = JSON.parse(block.textContent);
     const pickMode = document.getElementById("pick-mode");
-    const unstableColor = "#d0453b";
+    const unstableColor = "#8e44ad";
 
     // A click on a point opens its page, or (pick mode) adds it to the comparison.
     function onClick(event, elements, chart) {

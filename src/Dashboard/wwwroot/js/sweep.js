@@ -15,7 +15,7 @@
     function bar(s) {
         const share = (n) => (s.total === 0 ? 0 : (100 * n) / s.total);
         let x = 0;
-        for (const part of ["done", "failed", "cancelled", "running"]) {
+        for (const part of ["done", "unstable", "failed", "cancelled", "running"]) {
             const rect = section.querySelector('rect[data-part="' + part + '"]');
             const width = share(s[part]);
             if (rect) { rect.setAttribute("x", String(x)); rect.setAttribute("width", String(width)); }
@@ -31,11 +31,8 @@
             if (!response.ok) { return; }
             const detail = await response.json();
             const s = detail.sweep;
-            for (const f of ["total", "done", "failed", "running", "waiting", "cancelled"]) { set(f, count(s[f]), s[f]); }
-            if (detail.stability) {
-                set("unstable", count(detail.stability.unstable), detail.stability.unstable);
-                set("floppy", count(detail.stability.floppy), detail.stability.floppy);
-            }
+            for (const f of ["total", "done", "unstable", "failed", "running", "waiting", "cancelled"]) { set(f, count(s[f]), s[f]); }
+            if (detail.stability) { set("floppy", count(detail.stability.floppy), detail.stability.floppy); }
             set("finished", s.text.finished);
             set("rate", s.text.rate, s.rate_points_per_min);
             set("eta", s.text.eta, s.eta_s);

@@ -24,7 +24,7 @@
         svg.setAttribute("preserveAspectRatio", "none");
         const share = (n) => (s.total === 0 ? 0 : (100 * n) / s.total);
         let x = 0;
-        const parts = [["bar-bg", 100, true], ["bar-done", share(s.done)], ["bar-failed", share(s.failed)],
+        const parts = [["bar-bg", 100, true], ["bar-done", share(s.done)], ["bar-unstable", share(s.unstable)], ["bar-failed", share(s.failed)],
             ["bar-cancelled", share(s.cancelled)], ["bar-running", share(s.running)]];
         for (const [cls, width, background] of parts) {
             const rect = document.createElementNS(svgNs, "rect");
@@ -67,6 +67,7 @@
         tr.append(name, state, progress,
             cell(count(s.total), "total", s.total, true),
             cell(count(s.done), "done", s.done, true),
+            cell(count(s.unstable), "unstable", s.unstable, true),
             cell(count(s.failed), "failed", s.failed, true),
             cell(count(s.running), "running", s.running, true),
             cell(count(s.waiting), "waiting", s.waiting, true),

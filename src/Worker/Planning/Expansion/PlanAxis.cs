@@ -33,7 +33,7 @@ internal sealed record PlanAxis(
             return Math.Clamp(v, lo, hi);
         }
 
-        return Spacing.Map(r.From, r.To, u, r.Log);
+        return Spacing.Drawn(r.From, r.To, u, r.Log);
     }
 }
 

@@ -9,7 +9,30 @@ namespace LatticeSweep.Worker.Planning.Specs;
 /// <summary>Builds the Engine's model and sample from a point's spec. Engine validation errors propagate as <see cref="ModelException"/>.</summary>
 internal static class EngineObjects
 {
-    public static CrystalModel BuildModel(ModelSpec model) => model switch
+    public static CrystalModel BuildModel(ModelSpec model) => BuildModel(model, out _);
+
+    /// <summary>The model, and the elastic-constant fit when its springs come from one.</summary>
+    public static CrystalModel BuildModel(ModelSpec model, out ElasticFitResult? fit)
+    {
+        fit = null;
+        if (model is ElasticSpec e)
+        {
+            var built = ElasticSpringFit.BuildModel(
+                e.Lattice,
+                e.ConstantNm,
+                MassOf(e.MassAmu, e.Element, "model.elastic"),
+                new CubicElasticConstants(e.C11Gpa, e.C12Gpa, e.C44Gpa),
+                e.NextNearest,
+                e.Motion,
+                out var f);
+            fit = f;
+            return built;
+        }
+
+        return BuildOther(model);
+    }
+
+    private static CrystalModel BuildOther(ModelSpec model) => model switch
     {
         LatticeModelSpec m => CrystalModel.Create(
             BuildLattice(m),
@@ -26,14 +49,6 @@ internal static class EngineObjects
             l.LongitudinalNPerM,
             l.TransverseNPerM,
             l.Motion)),
-        ElasticSpec e => ElasticSpringFit.BuildModel(
-            e.Lattice,
-            e.ConstantNm,
-            MassOf(e.MassAmu, e.Element, "model.elastic"),
-            new CubicElasticConstants(e.C11Gpa, e.C12Gpa, e.C44Gpa),
-            e.NextNearest,
-            e.Motion,
-            out _),
         _ => throw new ArgumentOutOfRangeException(nameof(model), model.GetType().Name, "unknown model spec"),
     };
 

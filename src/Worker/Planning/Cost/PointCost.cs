@@ -1,0 +1,117 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Transport;
+
+namespace LatticeSweep.Worker.Planning.Cost;
+
+/// <summary>
+/// A point's single-core run time estimated before it runs, from the work the solver will do, with
+/// coefficients measured on this engine (calibration: bench/LatticeSweep.Bench, case "cost"; method
+/// in DEVELOPERS.md, figures in bench/README.md). <c>check</c> sums and ranks it over every point and
+/// the chunk planner sizes chunks with it. Cheap: a few multiplications per point.
+/// </summary>
+public static class PointCost
+{
+    /// <summary>Eigenvalues a finite crystal's pass 1 keeps for pass 2 (the Engine's fixed budget, FiniteCrystalSolver.StoredModeLimit).</summary>
+    public const double StoredEigenvalues = 8_000_000;
+
+    /// <summary>The work terms of one point, in the units the coefficients multiply.</summary>
+    public sealed record Work(
+        double FixedN3,
+        double EigenSolves,
+        double EigenSolvesN3,
+        double VectorSolves,
+        double VectorSolvesN3,
+        double ModesStreamed,
+        double SimplexWork,
+        double TemperatureBins,
+        double ConductivityFlops)
+    {
+        public double[] AsArray() => [1.0, FixedN3, EigenSolves, EigenSolvesN3, VectorSolves, VectorSolvesN3, ModesStreamed, SimplexWork, TemperatureBins, ConductivityFlops];
+    }
+
+    /// <summary>
+    /// Seconds per unit of each term, in the order of <see cref="Work.AsArray"/>: a fixed cost per
+    /// point, and per point x n^3 (compiling the model, sound speeds, the floppy check: a few
+    /// solves of its own); per eigen-solve (values only) and per solve x n^3; the same with eigenvectors; per mode
+    /// streamed into a finite crystal's sums; per bulk mesh simplex x branch; per
+    /// temperature x DOS bin; per conductivity flop-equivalent. Measured by `bench/run.sh cost`
+    /// (non-negative least squares on the relative error of 24 solves' CPU time, 2026-12-02; every
+    /// case then within 0.45x to 1.35x of its measured time; see bench/README.md).
+    /// </summary>
+    public static readonly double[] SecondsPerUnit =
+    [
+        5.42e-4,   // per point
+        5.33e-8,   // per point x n^3
+        0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
+        2.03e-10,  // per solve x n^3, values
+        2.30e-6,   // per solve, vectors
+        2.68e-9,   // per solve x n^3, vectors
+        8.68e-8,   // per mode streamed (finite)
+        1.18e-7,   // per bulk mesh simplex x branch
+        4.86e-9,   // per temperature x bin
+        8.65e-10,  // per conductivity flop-equivalent (1.2e9 of ConductivityWork's flops per second)
+    ];
+
+    /// <summary>Estimated single-core seconds for the point.</summary>
+    public static double Seconds(CrystalModel model, Sample sample, SolveOptions options) => Seconds(WorkOf(model, sample, options));
+
+    public static double Seconds(Work work)
+    {
+        ArgumentNullException.ThrowIfNull(work);
+        var x = work.AsArray();
+        var s = 0.0;
+        for (var i = 0; i < x.Length; i++)
+        {
+            s += x[i] * SecondsPerUnit[i];
+        }
+
+        return s;
+    }
+
+    /// <summary>
+    /// The work terms, following the solver's passes: a finite crystal solves the half set of its
+    /// allowed wave vectors for eigenvalues, then again with eigenvectors when partial DOS or
+    /// displacements need them (otherwise pass 2 reads pass 1's eigenvalues back while they fit the
+    /// solver's 8e6-value budget) and streams every mode into its sums; a bulk mesh solves its half
+    /// set once (with vectors when asked) and integrates tetrahedra over the fine DOS.
+    /// </summary>
+    public static Work WorkOf(CrystalModel model, Sample sample, SolveOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(sample);
+        ArgumentNullException.ThrowIfNull(options);
+        var n = (double)model.BranchCount;
+        var n3 = n * n * n;
+        var vectors = options.PartialDos || options.MeanSquareDisplacement;
+        var temperatures = options.TemperaturesK.Length + 1.0;
+        var conductivity = ConductivityWork.EstimateFlops(model, sample, options);
+        switch (sample)
+        {
+            case FiniteSample f:
+            {
+                var half = (f.CellCount + 1) / 2.0;
+                var secondPass = vectors || half * n > StoredEigenvalues;
+                var values = half + (secondPass && !vectors ? half : 0);
+                var withVectors = vectors ? half : 0;
+                return new Work(n3, values, values * n3, withVectors, withVectors * n3, f.CellCount * n, 0, temperatures * options.DosBins, conductivity);
+            }
+
+            case BulkSample b:
+            {
+                var half = (b.PointCount + 1) / 2.0;
+                var values = vectors ? 0 : half;
+                var withVectors = vectors ? half : 0;
+                var fineBins = Math.Max(2048.0, options.DosBins);
+
+                // Simplices per mesh cell: intervals (1D), 2 triangles (2D), 6 tetrahedra (3D).
+                var simplices = model.Lattice.Dimension switch { 1 => 1.0, 2 => 2.0, _ => 6.0 };
+                return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, b.PointCount * n * simplices, temperatures * fineBins, conductivity);
+            }
+
+            default:
+                throw new ArgumentException($"unknown sample type {sample.GetType().Name}", nameof(sample));
+        }
+    }
+}

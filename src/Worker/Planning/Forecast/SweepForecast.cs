@@ -1,0 +1,225 @@
+using System.Collections.Immutable;
+using System.Diagnostics;
+using System.Text;
+using LatticeSweep.Engine.Elastic;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Worker.Planning.Cost;
+using LatticeSweep.Worker.Planning.Specs;
+
+namespace LatticeSweep.Worker.Planning.Forecast;
+
+/// <summary>
+/// What <c>run</c> will meet, found without solving: every point's model is built and pre-flighted
+/// by the Engine (the checks it makes before the spectrum), its sample and options checked, and its
+/// cost, memory and disk estimated. Models are built once per distinct set of model parameters (a
+/// sweep of a million sample sizes over ten models builds ten models). Points are visited in an
+/// order spread over the whole plan, so when the time budget runs out the ones evaluated are a fair
+/// sample, and the report says so.
+/// </summary>
+internal static class SweepForecast
+{
+    /// <summary>Time <c>check</c> gives the forecast before it samples.</summary>
+    public static readonly TimeSpan DefaultBudget = TimeSpan.FromSeconds(3);
+
+    /// <summary>Models with more branches are not pre-flighted (one eigen-solve would cost more than the check is worth).</summary>
+    public const int MaxBranchesPreflighted = 384;
+
+    private const int ExamplesPerReason = 3;
+
+    private sealed record ModelEntry(CrystalModel? Model, ElasticFitResult? Fit, string? Failure, ModelPreflight? Preflight);
+
+    public static ForecastReport Run(SweepPlan plan, TimeSpan budget, Func<PointCost.Work, double>? seconds = null)
+    {
+        ArgumentNullException.ThrowIfNull(plan);
+        seconds ??= PointCost.Seconds;
+        var clock = Stopwatch.StartNew();
+        var points = plan.Points;
+        var modelColumns = plan.Template.Bindings.Where(b => b.Field.Path.StartsWith("model.", StringComparison.Ordinal)).Select(b => b.Column).ToArray();
+        var models = new Dictionary<string, ModelEntry>(StringComparer.Ordinal);
+        var failures = new Dictionary<string, (long Count, List<PlannedPoint> Examples)>(StringComparer.Ordinal);
+        var failed = 0L;
+        var evaluated = 0L;
+        var totalSeconds = 0.0;
+        var diskBytes = 0.0;
+        var peakBytes = 0L;
+        var aboveLimit = 0L;
+        (PlannedPoint Point, double Seconds)? costliest = null;
+        (PlannedPoint Point, Vec3 Q)? floppy = null;
+        var floppyPoints = 0L;
+        (PlannedPoint Point, double Residual)? worstFit = null;
+        var modelsNotPreflighted = 0;
+        var key = new StringBuilder();
+        var stride = Stride(points.Length);
+        for (long i = 0; i < points.Length; i++)
+        {
+            if ((i & 255) == 0 && i > 0 && clock.Elapsed > budget)
+            {
+                break;
+            }
+
+            var point = points[(int)(i * stride % points.Length)];
+            evaluated++;
+            var spec = PointBinder.Apply(plan.Template, point);
+            key.Clear();
+            foreach (var column in modelColumns)
+            {
+                key.Append(point.Parameters.TryGetValue(column, out var v) ? PointIdentity.Format(v) : "-").Append('\u0001');
+            }
+
+            if (!models.TryGetValue(key.ToString(), out var entry))
+            {
+                entry = BuildModel(spec.Model);
+                modelsNotPreflighted += entry.Model is not null && entry.Preflight is null ? 1 : 0;
+                models[key.ToString()] = entry;
+            }
+
+            string? failure = entry.Failure;
+            if (failure is null)
+            {
+                try
+                {
+                    var model = entry.Model!;
+                    var sample = EngineObjects.BuildSample(spec.Sample, model.Lattice);
+                    var options = plan.Template.Options with { Conductivity = spec.Conductivity };
+                    PhononSolver.PreflightPoint(model, sample, options);
+                    var s = seconds(PointCost.WorkOf(model, sample, options));
+                    totalSeconds += s;
+                    if (costliest is null || s > costliest.Value.Seconds)
+                    {
+                        costliest = (point, s);
+                    }
+
+                    aboveLimit += s > plan.WarnPointTimeS ? 1 : 0;
+                    peakBytes = Math.Max(peakBytes, PhononSolver.Estimate(model, sample, options).PeakBytes);
+                    diskBytes += Commands.CheckCommand.DiskBytes(plan.Outputs, model, sample, options);
+                    if (entry.Preflight?.ZeroModeAtReducedQ is { } q)
+                    {
+                        floppyPoints++;
+                        floppy ??= (point, q);
+                    }
+
+                    if (entry.Fit is { } fit && (worstFit is null || fit.RelativeResidual > worstFit.Value.Residual))
+                    {
+                        worstFit = (point, fit.RelativeResidual);
+                    }
+                }
+                catch (ModelException ex)
+                {
+                    failure = ex.Message.ReplaceLineEndings("; ");
+                }
+            }
+
+            if (failure is not null)
+            {
+                failed++;
+                if (!failures.TryGetValue(failure, out var group))
+                {
+                    group = (0, []);
+                }
+
+                if (group.Examples.Count < ExamplesPerReason)
+                {
+                    group.Examples.Add(point);
+                }
+
+                failures[failure] = (group.Count + 1, group.Examples);
+            }
+        }
+
+        return new ForecastReport
+        {
+            Total = points.Length,
+            Evaluated = evaluated,
+            Elapsed = clock.Elapsed,
+            Budget = budget,
+            DistinctModels = models.Count,
+            ModelsNotPreflighted = modelsNotPreflighted,
+            WillFail = failed,
+            Failures = [.. failures.OrderByDescending(f => f.Value.Count).ThenBy(f => f.Key, StringComparer.Ordinal)
+                .Select(f => new FailureForecast(f.Key, f.Value.Count, [.. f.Value.Examples]))],
+            EvaluatedSeconds = totalSeconds,
+            Costliest = costliest is { } c ? new CostlyPoint(c.Point, c.Seconds) : null,
+            WarnPointTimeS = plan.WarnPointTimeS,
+            AboveWarnLimit = aboveLimit,
+            PeakBytes = peakBytes,
+            EvaluatedDiskBytes = diskBytes,
+            FloppyPoints = floppyPoints,
+            FloppyExample = floppy is { } f ? (f.Point, f.Q) : null,
+            WorstElasticFit = worstFit,
+        };
+    }
+
+    private static ModelEntry BuildModel(ModelSpec spec)
+    {
+        try
+        {
+            var model = EngineObjects.BuildModel(spec, out var fit);
+            var preflight = model.BranchCount <= MaxBranchesPreflighted ? PhononSolver.PreflightModel(model) : null;
+            return new ModelEntry(model, fit, null, preflight);
+        }
+        catch (ModelException ex)
+        {
+            return new ModelEntry(null, null, ex.Message.ReplaceLineEndings("; "), null);
+        }
+    }
+
+    /// <summary>A step coprime to <paramref name="n"/> near n times the golden ratio's fraction: i * step mod n visits every point once, spread out.</summary>
+    internal static long Stride(int n)
+    {
+        if (n <= 2)
+        {
+            return 1;
+        }
+
+        var step = Math.Max(1L, (long)Math.Round(n * 0.6180339887498949));
+        while (Gcd(step, n) != 1)
+        {
+            step++;
+        }
+
+        return step;
+    }
+
+    private static long Gcd(long a, long b) => b == 0 ? a : Gcd(b, a % b);
+}
+
+/// <summary>Points that will fail for one reason, with the first few.</summary>
+internal sealed record FailureForecast(string Reason, long Count, ImmutableArray<PlannedPoint> Examples);
+
+/// <summary>The point estimated to take longest.</summary>
+internal sealed record CostlyPoint(PlannedPoint Point, double Seconds);
+
+/// <summary>What <see cref="SweepForecast"/> found.</summary>
+internal sealed record ForecastReport
+{
+    public required long Total { get; init; }
+    public required long Evaluated { get; init; }
+    public required TimeSpan Elapsed { get; init; }
+    public required TimeSpan Budget { get; init; }
+    public required int DistinctModels { get; init; }
+    public required int ModelsNotPreflighted { get; init; }
+    public required long WillFail { get; init; }
+    public required ImmutableArray<FailureForecast> Failures { get; init; }
+
+    /// <summary>Summed single-core seconds of the evaluated points that will run.</summary>
+    public required double EvaluatedSeconds { get; init; }
+    public required CostlyPoint? Costliest { get; init; }
+    public required double WarnPointTimeS { get; init; }
+    public required long AboveWarnLimit { get; init; }
+    public required long PeakBytes { get; init; }
+    public required double EvaluatedDiskBytes { get; init; }
+    public required long FloppyPoints { get; init; }
+    public required (PlannedPoint Point, Vec3 Q)? FloppyExample { get; init; }
+    public required (PlannedPoint Point, double Residual)? WorstElasticFit { get; init; }
+
+    /// <summary>True when the budget ran out before every point was evaluated.</summary>
+    public bool Sampled => Evaluated < Total;
+
+    /// <summary>Every evaluated point will fail.</summary>
+    public bool AllFail => Evaluated > 0 && WillFail == Evaluated;
+
+    /// <summary>Evaluated figures scaled to the whole plan (1 when every point was evaluated).</summary>
+    public double Scale => Evaluated == 0 ? 0 : (double)Total / Evaluated;
+}

@@ -1,0 +1,166 @@
+using LatticeSweep.Worker.Planning;
+using LatticeSweep.Worker.Planning.Cost;
+using LatticeSweep.Worker.Planning.Forecast;
+using LatticeSweep.Worker.Queue;
+using LatticeSweep.Worker.Tests.Support;
+
+namespace LatticeSweep.Worker.Tests.Commands;
+
+/// <summary>`check` foresees what `run` rejects, and names the costliest point, from every point without solving it.</summary>
+public sealed class CheckForecastTests : IDisposable
+{
+    private readonly TempFolder _dir = new();
+
+    public void Dispose() => _dir.Dispose();
+
+    private (int Code, string Out, string Err) Check(string text)
+    {
+        File.WriteAllText(_dir.Combine("job.toml"), text);
+        var r = Support.Cli.Run(_dir.Path, "check", "job.toml");
+        return (r.ExitCode, r.Stdout, r.Stderr);
+    }
+
+    private static string ThinFilm(double siteMassAmu, string extraAxis = "") =>
+        File.ReadAllText(Path.Combine(Support.Cli.JobsFolder, "thin-film-size.toml"))
+            .Replace("mass_amu = 40.2 ", $"mass_amu = {siteMassAmu:R} ", StringComparison.Ordinal)
+            .Replace("[model]", extraAxis + "\n[model]", StringComparison.Ordinal);
+
+    [Fact]
+    public void An_isotope_mix_whose_mean_is_not_the_site_mass_fails_every_point_in_check_exit_2()
+    {
+        var (code, output, _) = Check(ThinFilm(45.0));
+
+        Assert.Equal(2, code);
+        Assert.Contains("will fail    26 of 26 points", output, StringComparison.Ordinal);
+        Assert.Contains("mean mass", output, StringComparison.Ordinal);
+        Assert.Contains("e.g. point ", output, StringComparison.Ordinal);
+        Assert.Contains("Every point will fail", output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Some_failing_points_are_counted_with_their_parameters_and_check_still_exits_0()
+    {
+        var (code, output, _) = Check(ThinFilm(40.2, """
+            [[sweep.axes]]
+            path = "model.sites.M.mass_amu"
+            values = [40.2, 45.0]
+
+            """));
+
+        Assert.Equal(0, code);
+        Assert.Contains("will fail    26 of 52 points", output, StringComparison.Ordinal);
+        Assert.Contains("sites_m_mass_amu = 45", output, StringComparison.Ordinal);
+        Assert.DoesNotContain("sites_m_mass_amu = 40.2,", output.Split("will fail")[1].Split("compute")[0], StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void A_sheet_whose_atoms_meet_no_spring_out_of_plane_is_refused_by_check()
+    {
+        var (code, output, _) = Check(Some.ChainJob().Replace("lattice = \"chain\"", "lattice = \"square\"", StringComparison.Ordinal)
+            .Replace("position = [0.5]", "position = [0.5, 0.5]", StringComparison.Ordinal)
+            .Replace("position = [0.0]", "position = [0.0, 0.0]", StringComparison.Ordinal)
+            .Replace("transverse_n_per_m = 5.0", "transverse_n_per_m = 0.0", StringComparison.Ordinal));
+
+        Assert.Equal(2, code);
+        Assert.Contains("will fail    1 of 1 points", output, StringComparison.Ordinal);
+        Assert.Contains("has no spring acting along z", output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void The_costliest_point_is_named_with_its_estimate_and_a_warning_above_the_limit()
+    {
+        var job = """
+            [sweep]
+            name = "costly"
+            warn_point_time_s = 600
+
+            [[sweep.axes]]
+            path = "sample.cells"
+            values = [4, 1000]
+
+            [model]
+            lattice = "fcc"
+            constant_nm = 0.4
+
+            [[model.sites]]
+            label = "A"
+            mass_amu = 30.0
+
+            [[model.springs]]
+            from = "A"
+            to = "A"
+            longitudinal_n_per_m = 20.0
+            transverse_n_per_m = 3.0
+
+            [sample]
+            kind = "finite"
+            cells = 4
+            """;
+        var (code, output, _) = Check(job);
+
+        Assert.Equal(0, code);
+        Assert.Contains("costliest    point ", output, StringComparison.Ordinal);
+        Assert.Contains("sample_cells = 1000)", output, StringComparison.Ordinal);
+        Assert.Matches(@"costliest .*: about [\d.]+ (min|h|days)", output);
+        Assert.Contains("warning: 1 point(s) are estimated above 10 min each ([sweep] warn_point_time_s = 600)", output, StringComparison.Ordinal);
+
+        var (_, relaxed, _) = Check(job.Replace("warn_point_time_s = 600", "warn_point_time_s = 1e9", StringComparison.Ordinal));
+        Assert.DoesNotContain("warning:", relaxed, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void A_floppy_model_is_named_by_check()
+    {
+        var (code, output, _) = Check(Cli.ZeroModesAndElasticFitTests.CentralCubic);
+
+        Assert.Equal(0, code);
+        Assert.Contains("floppy       1 point(s) have modes of zero frequency away from q = 0", output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Models_are_built_once_per_distinct_model_and_a_spent_budget_gives_a_stated_spread_sample()
+    {
+        using var dir = new TempDirectory();
+        var plan = Some.Load(dir, Some.ChainJob(sweep: """
+            [[sweep.axes]]
+            path = "model.sites.B.mass_amu"
+            values = [20.0, 30.0]
+
+            [[sweep.axes]]
+            path = "sample.cells"
+            range = { from = 2, to = 801, steps = 800 }
+            """));
+
+        var whole = SweepForecast.Run(plan, TimeSpan.FromMinutes(5));
+        Assert.Equal(1600, whole.Evaluated);
+        Assert.False(whole.Sampled);
+        Assert.Equal(2, whole.DistinctModels);
+
+        var sampled = SweepForecast.Run(plan, TimeSpan.Zero);
+        Assert.True(sampled.Sampled);
+        Assert.Equal(256, sampled.Evaluated);
+        Assert.Equal(2, sampled.DistinctModels);
+        Assert.Equal(sampled.Total, (long)Math.Round(sampled.Evaluated * sampled.Scale));
+    }
+
+    [Fact]
+    public void The_spread_order_visits_every_point_once()
+    {
+        foreach (var n in new[] { 1, 2, 3, 10, 97, 1000, 1024 })
+        {
+            var stride = SweepForecast.Stride(n);
+            Assert.Equal(n, Enumerable.Range(0, n).Select(i => i * stride % n).Distinct().Count());
+        }
+    }
+
+    [Fact]
+    public void The_chunk_planner_and_check_use_the_same_estimate()
+    {
+        using var dir = new TempDirectory();
+        var plan = Some.Load(dir, Some.ChainJob());
+        var point = plan.Points[0];
+        var request = PointBinder.Bind(plan, point);
+
+        Assert.Equal(PointCost.Seconds(request.Model, request.Sample, request.Options), EnginePointSolver.Instance.EstimateSeconds(plan, point));
+    }
+}
