@@ -136,6 +136,31 @@ public sealed class FilterTests
         Assert.Empty(stableOnly.QuerySelectorAll("#results-table tbody tr.unstable"));
     }
 
+    [Fact]
+    public async Task Floppy_models_are_counted_marked_shown_in_a_column_and_can_be_left_out()
+    {
+        var id = _f.FloppyId;
+        using var duck = new DuckDb();
+        var source = DuckDb.Table(_f.Folder(id), "points");
+        var floppy = duck.Rows($"SELECT point_id FROM {source} WHERE floppy ORDER BY point_index").Select(r => (string)r[0]!).ToList();
+        Assert.Equal(2, floppy.Count);
+
+        using var http = _f.Server.Client();
+        var page = await Html.GetAsync(http, $"/sweeps/{id}");
+        Assert.Equal(2, Html.Long(page.QuerySelector("#progress")!, "floppy"));
+        Assert.Equal(floppy, page.QuerySelectorAll("#results-table tbody tr.floppy").Select(r => r.GetAttribute("data-point-id")));
+        Assert.All(page.QuerySelectorAll("#results-table tbody tr.floppy"), r => Assert.NotNull(r.QuerySelector(".mark-floppy")));
+        Assert.NotNull(page.QuerySelector("#results-table th[data-column='floppy']"));
+
+        var rigid = await Html.GetAsync(http, $"/sweeps/{id}?notfloppy=1");
+        Assert.Equal(2, rigid.QuerySelectorAll("#results-table tbody tr").Length);
+        Assert.Empty(rigid.QuerySelectorAll("#results-table tbody tr.floppy"));
+        Assert.Equal("no floppy models", Html.Text(rigid.DocumentElement, "filter-text"));
+
+        var point = await Html.GetAsync(http, $"/sweeps/{id}/points/{floppy[0]}");
+        Assert.Equal("floppy", Html.Text(point.DocumentElement, "floppy"));
+    }
+
     private string Id(string sweep) => sweep switch
     {
         "unstable" => _f.UnstableId,

@@ -261,4 +261,47 @@ internal static class DemoJobs
         cand-middle,45.0,28.0
         cand-heavy,110.0,22.0
         """;
+
+    /// <summary>
+    /// A simple cubic crystal with central springs only on some points: shear meets no spring, so
+    /// those models have zero modes beyond the rigid translations (floppy). 2 x 2 = 4 points, 2 floppy.
+    /// </summary>
+    public const string Floppy = """
+        # Invented demo values: a simple cubic crystal whose transverse spring is switched off on some points.
+        [sweep]
+        name = "central-springs"
+        description = "Simple cubic crystal with and without transverse springs (invented values)"
+
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [0.0, 2.0]
+
+        [[sweep.axes]]
+        path = "model.sites.M.mass_amu"
+        values = [20.0, 40.0]
+
+        [model]
+        lattice = "simple_cubic"
+        constant_nm = 0.3
+
+        [[model.sites]]
+        label = "M"
+        mass_amu = 20.0
+
+        [[model.springs]]
+        from = "M"
+        to = "M"
+        shell = 1
+        longitudinal_n_per_m = 20.0
+        transverse_n_per_m = 2.0
+
+        [sample]
+        kind = "finite"
+        cells = 3
+
+        [output]
+        temperatures_k = [20, 100, 300]
+        reference_temperature_k = 300
+        dos_bins = 30
+        """;
 }

@@ -2,7 +2,8 @@ namespace LatticeSweep.Dashboard.Tests.Support;
 
 /// <summary>
 /// A store for the screening views: the quick demo, a sweep with unstable models, a candidates
-/// table and a conductivity sweep whose boundary length spans two decades, all finished, and one
+/// table, a conductivity sweep whose boundary length spans two decades and a sweep with floppy
+/// models, all finished, and one
 /// dashboard over it.
 /// </summary>
 public sealed class ScreeningFixture : IAsyncLifetime
@@ -19,6 +20,8 @@ public sealed class ScreeningFixture : IAsyncLifetime
 
     internal string ConductivityId => Store.Ids["fcc-conductivity"];
 
+    internal string FloppyId => Store.Ids["central-springs"];
+
     internal string Folder(string sweepId) => Path.Combine(Store.OutputRoot, sweepId);
 
     public async Task InitializeAsync()
@@ -29,6 +32,7 @@ public sealed class ScreeningFixture : IAsyncLifetime
         await Store.AddFileAsync("chain-candidates.csv", DemoJobs.CandidatesTable);
         await Store.AddAsync("candidates.toml", DemoJobs.Candidates, DemoProgress.Finished, pointsPerChunk: 6);
         await Store.AddAsync("fcc-conductivity.toml", DemoJobs.Conductivity, DemoProgress.Finished);
+        await Store.AddAsync("floppy.toml", DemoJobs.Floppy, DemoProgress.Finished);
         Server = await DashboardServer.StartAsync(Store);
     }
 
