@@ -31,10 +31,13 @@ internal sealed class ColumnCatalog
         ["stable"] = "Stable",
         ["floppy"] = "Floppy",
         ["duration_s"] = "Time taken",
-        ["worst_q_reduced_x"] = "Worst unstable q, x",
-        ["worst_q_reduced_y"] = "Worst unstable q, y",
-        ["worst_q_reduced_z"] = "Worst unstable q, z",
+        ["worst_q_reduced_x"] = "Worst unstable q (reduced), x",
+        ["worst_q_reduced_y"] = "Worst unstable q (reduced), y",
+        ["worst_q_reduced_z"] = "Worst unstable q (reduced), z",
     };
+
+    /// <summary>A description longer than this makes a table header taller than the rows under it.</summary>
+    private const int MaxHeaderLength = 28;
 
     private readonly Dictionary<string, ColumnDef> _defs = new(StringComparer.Ordinal);
     private readonly HashSet<string> _shared;
@@ -102,6 +105,14 @@ internal sealed class ColumnCatalog
 
         return Label(column);
     }
+
+    /// <summary>
+    /// A table header: the short label of a usual column or a swept parameter, a description that
+    /// fits a narrow column, else the column's own name (as a data tool knows it); the full
+    /// description goes in the tooltip.
+    /// </summary>
+    public string HeaderLabel(string column) =>
+        Short.ContainsKey(column) || IsParameter(column) || Label(column).Length <= MaxHeaderLength ? ShortLabel(column) : column;
 
     /// <summary>The unit of a column from the schema ("" when unknown or dimensionless).</summary>
     public string UnitOf(string column) => _defs.TryGetValue(column, out var d) ? Formatting.Show.Unit(d.Unit) : "";

@@ -88,7 +88,7 @@ public sealed record PointComparison(
             sweep.SweepId,
             [.. shown],
             common,
-            [.. summary.Select(n => new SummaryColumn(n, names.ShortLabel(n), names.Label(n), names.Unit(points.Column(n)!), points.Column(n)!.IsNumeric, false))],
+            [.. summary.Select(n => new SummaryColumn(n, names.HeaderLabel(n), names.Label(n), names.Unit(points.Column(n)!), points.Column(n)!.IsNumeric, false))],
             dosUnits?.FrequencyUnit ?? "THz",
             Show.Unit(dosUnits?.DensityUnit ?? "1/(THz cell)"),
             Curves(c => c.Dos?.Curves.FirstOrDefault(k => k.Name == "total") is { } total ? (total.X, total.Y) : null),

@@ -23,7 +23,7 @@ internal static class PointsExport
         ArgumentNullException.ThrowIfNull(rows);
         ArgumentNullException.ThrowIfNull(names);
         var sb = new StringBuilder();
-        sb.AppendJoin(',', rows.Columns.Select(c => Quote(unitsInHeader && names.Unit(c) is { Length: > 0 } u ? $"{c.Name} [{u}]" : c.Name))).Append('\n');
+        sb.AppendJoin(',', rows.Columns.Select(c => Quote(unitsInHeader && names.RawUnit(c) is { Length: > 0 } u && u != "1" ? $"{c.Name} [{u}]" : c.Name))).Append('\n');
         foreach (var row in rows.Rows)
         {
             sb.AppendJoin(',', row.Select(Cell)).Append('\n');

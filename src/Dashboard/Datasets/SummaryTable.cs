@@ -143,7 +143,7 @@ public sealed record SummaryTable(
     }
 
     private static SummaryColumn View(ResultColumn c, ColumnCatalog names) =>
-        new(c.Name, names.ShortLabel(c.Name), names.Label(c.Name), names.Unit(c), c.IsNumeric, names.IsParameter(c.Name));
+        new(c.Name, names.HeaderLabel(c.Name), names.Label(c.Name), names.Unit(c), c.IsNumeric, names.IsParameter(c.Name));
 
     /// <summary>Sorted by one column; empty cells last whichever the direction; ties keep plan order.</summary>
     private static IEnumerable<ImmutableArray<object?>> Order(ImmutableArray<ImmutableArray<object?>> rows, int column, bool descending)

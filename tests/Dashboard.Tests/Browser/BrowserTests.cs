@@ -340,6 +340,87 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
         Assert.Empty(errors);
     }
 
+    [Fact]
+    public async Task Nothing_is_cut_off_in_a_1400_pixel_wide_window()
+    {
+        var (page, errors) = await NewPageAsync();
+        Assert.Equal(1400, page.ViewportSize!.Width);
+        var kappaId = _store.Ids["fcc-conductivity"];
+        var quickstartId = _store.Ids["quickstart"];
+        var everyColumn = string.Join("&", (await ColumnChoices(page, kappaId)).Select(c => "col=" + Uri.EscapeDataString(c)));
+        var pages = new[]
+        {
+            "/",
+            $"/sweeps/{quickstartId}",
+            $"/sweeps/{_store.Ids["springs-through-zero"]}",
+            $"/sweeps/{_store.Ids["springs-off"]}",
+            $"/sweeps/{kappaId}",
+            $"/sweeps/{kappaId}?{everyColumn}",
+            $"/sweeps/{kappaId}/points/{FirstDonePoint(kappaId)}",
+            $"/sweeps/{quickstartId}/points/{FirstDonePoint(quickstartId)}",
+            $"/sweeps/{quickstartId}/compare?" + string.Join("&", FirstDonePoints(quickstartId, 3).Select(p => "p=" + p)),
+        };
+        foreach (var address in pages)
+        {
+            await page.GotoAsync(new Uri(_server.Address, address).ToString());
+            // The page itself never scrolls sideways, and nothing runs past the card it sits in.
+            Assert.True(await page.EvaluateAsync<bool>("() => document.documentElement.scrollWidth <= window.innerWidth"), $"{address}: the page is wider than the window");
+            var leaking = await page.EvaluateAsync<string[]>("""
+                () => [...document.querySelectorAll('.card')].flatMap(card => {
+                    const edge = card.getBoundingClientRect().right + 0.5;
+                    return [...card.querySelectorAll('th, td, canvas, select, p, dd, dt')]
+                        .filter(e => !e.closest('.scroll') && e.getBoundingClientRect().right > edge)
+                        .map(e => e.tagName + ': ' + e.textContent.trim().slice(0, 40));
+                })
+                """);
+            Assert.True(leaking.Length == 0, $"{address}: runs past its card: {string.Join("; ", leaking)}");
+        }
+
+        // The usual columns fit without scrolling, so the last ones ("Stable", "Finished") are in view.
+        foreach (var address in new[] { "/", $"/sweeps/{quickstartId}", $"/sweeps/{kappaId}" })
+        {
+            await page.GotoAsync(new Uri(_server.Address, address).ToString());
+            var table = address == "/" ? "#sweeps" : "#results-table";
+            Assert.True(await page.EvaluateAsync<bool>($$"""
+                () => {
+                    const t = document.querySelector('{{table}}');
+                    const last = t.querySelector('thead th:last-child').getBoundingClientRect();
+                    return last.right <= t.parentElement.getBoundingClientRect().right + 0.5 && last.right <= window.innerWidth;
+                }
+                """), $"{address}: the table's last column is cut off");
+        }
+
+        // Every column ticked: the table scrolls inside its card; scrolled to the end, its last column is in view, and its headers stay a few lines high.
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{kappaId}?{everyColumn}").ToString());
+        var scrolled = await page.EvaluateAsync<double[]>("""
+            () => {
+                const box = document.querySelector('#results-table').closest('.scroll');
+                box.scrollLeft = box.scrollWidth;
+                const last = document.querySelector('#results-table thead th:last-child').getBoundingClientRect();
+                const header = document.querySelector('#results-table thead tr').getBoundingClientRect();
+                const line = parseFloat(getComputedStyle(document.querySelector('#results-table thead th')).lineHeight) || 16;
+                return [last.right, box.getBoundingClientRect().right, header.height / line];
+            }
+            """);
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-every-column.png"), FullPage = true });
+        Assert.True(scrolled[0] <= scrolled[1] + 0.5, "scrolled to its end, the table's last column is still cut off");
+        Assert.True(scrolled[2] <= 7, $"the table's headers are {scrolled[2]:0.#} lines high");
+        Assert.Empty(errors);
+    }
+
+    /// <summary>The columns the sweep page offers in its column picker.</summary>
+    private async Task<IReadOnlyList<string>> ColumnChoices(IPage page, string sweepId)
+    {
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{sweepId}").ToString());
+        return await page.Locator("input[name='col']").EvaluateAllAsync<string[]>("inputs => inputs.map(i => i.value)");
+    }
+
+    private IEnumerable<string> FirstDonePoints(string sweepId, int count)
+    {
+        using var catalog = _store.OpenCatalog();
+        return [.. catalog.GetPoints(sweepId, new PointQuery(PointState.Done)).Take(count).Select(p => p.PointId)];
+    }
+
     private string FirstDonePoint(string sweepId)
     {
         using var catalog = _store.OpenCatalog();
