@@ -50,6 +50,17 @@ public sealed record SweepPlot(
     int LeftOut,
     ImmutableArray<string> Notes)
 {
+    /// <summary>
+    /// A plot draws at most about this many points: past it, each series keeps an even sample in
+    /// its own order (its first and last point always), so a sweep of a million points sends
+    /// kilobytes, not megabytes, and the browser stays responsive. The Pareto front is found over
+    /// every point and drawn whole; the table and the downloads have every point.
+    /// </summary>
+    public const int MaxDrawn = 4000;
+
+    /// <summary>The points sent to be drawn (at most about <see cref="MaxDrawn"/>; <see cref="Plotted"/> have values).</summary>
+    public int Drawn => Series.Sum(s => s.Points.Length);
+
     public const string ParameterKind = "parameter";
     public const string ScatterKind = "scatter";
 

@@ -123,6 +123,7 @@ internal static class SweepPlots
         }
 
         var plotted = series.Sum(s => s.Points.Length);
+        series = Thinned(series, plotted, notes);
         var xAxis = Axis(names, r.X, all, r.XScale, notes, categorical, categories);
         var yAxis = Axis(names, r.Y, all, r.YScale, notes, false, []);
         return new SweepPlot(SweepPlot.ParameterKind, PointUrl(sweep), xAxis, yAxis, grouped < 0 ? null : r.By, grouped < 0 ? null : names.Label(r.By!),
@@ -155,9 +156,26 @@ internal static class SweepPlots
             notes.Add("Unstable models are drawn apart and are never on the front.");
         }
 
+        series = Thinned(series, points.Count, notes);
         var rule = $"{(r.XLarger ? "larger" : "smaller")} {names.ShortLabel(r.X)} and {(r.YLarger ? "larger" : "smaller")} {names.ShortLabel(r.Y)} are better";
         return new SweepPlot(SweepPlot.ScatterKind, PointUrl(sweep), Axis(names, r.X, all, r.XScale, notes, false, []), Axis(names, r.Y, all, r.YScale, notes, false, []),
             null, null, [.. series], front, rule, points.Count, filtered.Rows.Length - points.Count, [.. notes]);
+    }
+
+    /// <summary>Each series evenly sampled when the plot has more than <see cref="SweepPlot.MaxDrawn"/> points (said in a note).</summary>
+    private static List<PlotSeries> Thinned(List<PlotSeries> series, int plotted, List<string> notes)
+    {
+        if (plotted <= SweepPlot.MaxDrawn)
+        {
+            return series;
+        }
+
+        var stride = (plotted + SweepPlot.MaxDrawn - 1) / SweepPlot.MaxDrawn;
+        var thinned = series
+            .Select(s => s with { Points = [.. s.Points.Where((_, i) => i % stride == 0 || i == s.Points.Length - 1)] })
+            .ToList();
+        notes.Add($"{Show.Count(thinned.Sum(s => s.Points.Length))} of the {Show.Count(plotted)} points are drawn (one in {Show.Count(stride)} of each series in its order, with its first and last); the front, the table and the downloads have them all.");
+        return thinned;
     }
 
     /// <summary>A point's page is this followed by its escaped id.</summary>
