@@ -90,8 +90,8 @@ public sealed record SummaryTable(
     }
 
     /// <summary>Columns with at least one value.</summary>
-    internal static HashSet<string> FilledColumns(ResultTable t) =>
-        [.. t.Columns.Where((c, i) => t.Rows.Any(r => r[i] is not null)).Select(c => c.Name)];
+    internal static IReadOnlySet<string> FilledColumns(ResultTable t) =>
+        TableFacts.Of(t, "filled", t => (IReadOnlySet<string>)t.Columns.Where((c, i) => t.Rows.Any(r => r[i] is not null)).Select(c => c.Name).ToHashSet(StringComparer.Ordinal));
 
     /// <summary>
     /// The swept parameters worth a column of their own, candidates' names first: a parameter that
@@ -103,19 +103,22 @@ public sealed record SummaryTable(
         ArgumentNullException.ThrowIfNull(t);
         ArgumentNullException.ThrowIfNull(names);
         var ordered = names.Parameters.Where(t.Has).OrderBy(p => names.Label(p).StartsWith(CandidatePrefix, StringComparison.Ordinal) ? 0 : 1).ToList();
-        var kept = new List<string>();
-        foreach (var p in ordered)
+        return TableFacts.Of(t, "key parameters\n" + string.Join('\n', ordered), t =>
         {
-            if (!kept.Any(q => Determines(t, t.IndexOf(q), t.IndexOf(p))))
+            var kept = new List<string>();
+            foreach (var p in ordered)
             {
-                kept.Add(p);
+                if (!kept.Any(q => Determines(t, t.IndexOf(q), t.IndexOf(p))))
+                {
+                    kept.Add(p);
+                }
             }
-        }
 
-        return kept;
+            return (IReadOnlyList<string>)kept;
+        });
     }
 
-    private static List<string> DefaultShown(ResultTable all, ColumnCatalog names, HashSet<string> filled) =>
+    private static List<string> DefaultShown(ResultTable all, ColumnCatalog names, IReadOnlySet<string> filled) =>
         [.. KeyParameters(all, names)
             .Concat(DefaultColumns.Where(filled.Contains))
             .Append(filled.Contains(PointCurves.ConductivityColumn) ? PointCurves.ConductivityColumn : "")

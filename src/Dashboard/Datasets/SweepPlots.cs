@@ -225,7 +225,7 @@ internal static class SweepPlots
     private static int Distinct(ResultTable t, string column)
     {
         var i = t.IndexOf(column);
-        return i < 0 ? 0 : t.Rows.Select(r => Show.Raw(r[i])).Distinct(StringComparer.Ordinal).Count();
+        return i < 0 ? 0 : TableFacts.Of(t, "distinct\n" + column, t => t.Rows.Select(r => Show.Raw(r[i])).Distinct(StringComparer.Ordinal).Count());
     }
 
     /// <summary>A text column's values in plan order (first appearance), as categories.</summary>

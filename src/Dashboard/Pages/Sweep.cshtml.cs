@@ -178,9 +178,13 @@ internal sealed partial class SweepModel : PageModel
             return [];
         }
 
-        var cells = Points.All.Rows.Select(r => r[i]).Where(v => v is not null).ToList();
-        var ordered = cells.All(v => ResultTable.ToDouble(v) is not null) ? cells.OrderBy(v => ResultTable.ToDouble(v)) : cells.AsEnumerable();
-        return [.. ordered.Select(v => (Raw: Formatting.Show.Raw(v), Text: Formatting.Show.Value(v, Names.UnitOf(column)))).DistinctBy(v => v.Raw)];
+        var unit = Names.UnitOf(column);
+        return TableFacts.Of(Points.All, "values\n" + column, all =>
+        {
+            var cells = all.Rows.Select(r => r[i]).Where(v => v is not null).ToList();
+            var ordered = cells.All(v => ResultTable.ToDouble(v) is not null) ? cells.OrderBy(v => ResultTable.ToDouble(v)) : cells.AsEnumerable();
+            return (IReadOnlyList<(string Raw, string Text)>)[.. ordered.Select(v => (Raw: Formatting.Show.Raw(v), Text: Formatting.Show.Value(v, unit))).DistinctBy(v => v.Raw)];
+        });
     }
 
     private async Task LoadAsync(SweepRecord sweep, SweepView view, CancellationToken ct)
