@@ -26,6 +26,12 @@ def check(label, value, limit):
 
 
 rows = []
+
+
+def cpu_ratio(peer_cpu, ours_cpu):
+    """The ratio of process CPU times too: on a busy machine it moves far less than the wall-clock one."""
+    return f"CPU {peer_cpu / ours_cpu:.2f}x; " if peer_cpu and ours_cpu else ""
+
 # (a) eigenvalues: same matrices, per-matrix times, values agree to 1e-12 ||A||.
 ours, peer = load("ours_eigen.json"), load("peer_eigen.json")
 if ours and peer:
@@ -38,9 +44,13 @@ if ours and peer:
         scale = np.abs(wp).max(axis=1)
         err = (np.abs(wo - wp).max(axis=1) / scale).max()
         rows.append((f"(a) {n}x{n} eigenvalues", f"{o['values_us_per_matrix']:.3f} us", f"{p['values_us_per_matrix']:.3f} us",
-                     p["values_us_per_matrix"] / o["values_us_per_matrix"], "max|dl|/||A|| " + check(f"eigen {n} values", err, 1e-12)))
+                     p["values_us_per_matrix"] / o["values_us_per_matrix"],
+                     cpu_ratio(p.get("values_cpu_us_per_matrix"), o.get("values_cpu_us_per_matrix"))
+                     + f"[{o.get('values_path', '?')}] max|dl|/||A|| " + check(f"eigen {n} values", err, 1e-12)))
         rows.append((f"(a) {n}x{n} with vectors", f"{o['vectors_us_per_matrix']:.3f} us", f"{p['vectors_us_per_matrix']:.3f} us",
-                     p["vectors_us_per_matrix"] / o["vectors_us_per_matrix"], "(residuals: unit tests)"))
+                     p["vectors_us_per_matrix"] / o["vectors_us_per_matrix"],
+                     cpu_ratio(p.get("vectors_cpu_us_per_matrix"), o.get("vectors_cpu_us_per_matrix"))
+                     + f"[{o.get('vectors_path', '?')}] (residuals: unit tests)"))
 
 
 def thermal_errors(o, p, tmin, label, limit):
@@ -73,7 +83,7 @@ if ours and peer:
     oo = states_below(o["dos_frequency_thz"], o["dos_total"], e)
     cum_err = float(np.abs(po - oo).max() / po[-1])
     rows.append(("(b) bulk 48^3 two-site fcc", f"{o['median_s']:.3f} s", f"{p['median_s']:.3f} s", p["median_s"] / o["median_s"],
-                 "integrated DOS max diff/3r " + check("bulk integrated DOS", cum_err, 5e-3) + "; "
+                 cpu_ratio(p.get("median_cpu_s"), o.get("median_cpu_s")) + "integrated DOS max diff/3r " + check("bulk integrated DOS", cum_err, 5e-3) + "; "
                  + thermal_errors(o, p, 50.0, "bulk thermal", 2e-3)))
     bulk_per_q = o["median_s"] / o["q_points_solved"]
 else:
@@ -86,7 +96,8 @@ for case, title in (("finite-chain", "(c) finite chain 1e7 cells"), ("finite-3d"
     o = ours["result"]
     plain = o["plain_sum_check"]
     worst_plain = max(plain["worst_relative_error"].values())
-    note = (f"vs plain exact sum over the same eigenvalues ({plain['temperatures_checked']} T): "
+    note = (cpu_ratio(peer["result"].get("median_cpu_s") if peer else None, o.get("median_cpu_s"))
+            + f"vs plain exact sum over the same eigenvalues ({plain['temperatures_checked']} T): "
             + check(f"{case} vs plain sum", worst_plain, 1e-9))
     note += f"; peak memory {o['peak_working_set_bytes'] / 2**20:.0f} MiB"
     if case == "finite-chain":
@@ -112,17 +123,42 @@ if queue:
     for r in queue["runs"]:
         rows.append((f"(e) queue, {r['points']} points ({r['engine_ms_per_point']:.1f} ms)", f"{r['engine_s']:.2f} s",
                      f"{r['queue_s']:.2f} s", float("nan"),
-                     f"engine alone vs latsweep run --workers {r['workers']} (SQLite store): {r['queue_points_per_s']:.0f} points/s, "
-                     f"overhead {r['overhead_fraction'] * 100:.1f}% = {r['overhead_ms_per_point']:.2f} ms/point"))
+                     f"engine alone vs latsweep run --workers {r['workers']} (SQLite store): {r['queue_points_per_s']:.0f} points/s; "
+                     f"CPU: engine {r.get('engine_cpu_s', float('nan')):.2f} s, run {r.get('queue_cpu_s', float('nan')):.2f} s, one-point run {r.get('fixed_cpu_s', float('nan')):.2f} s "
+                     f"({r.get('fixed_s', float('nan')):.2f} s wall) -> {r.get('overhead_cpu_ms_per_point', float('nan')):.3f} ms CPU/point; "
+                     f"wall overhead {r['overhead_fraction'] * 100:.1f}%, {r.get('overhead_fraction_without_fixed', float('nan')) * 100:.1f}% without the fixed cost; load {r.get('load', '?')}"))
 
 print()
 print(f"{'case':34} {'ours':>12} {'numpy peer':>12} {'peer/ours':>10}  agreement / notes  ((e): engine alone | through the queue)")
 for name, a, b, ratio, note in rows:
     print(f"{name:34} {a:>12} {b:>12} {ratio:>9.2f}x  {note}")
+paths = load("ours_eigen-paths.json")
+if paths:
+    print()
+    print(f"eigen-solver paths (us per matrix, process CPU time; our kernels at {paths.get('simd_width')}):")
+    for n, row in paths["sizes"].items():
+        for kind in ("values", "vectors"):
+            times = "  ".join(f"{name} {t:.3f}" for name, t in row[kind].items())
+            planned, fastest = row[f"{kind}_planned"], row[f"{kind}_fastest"]
+            slower = "" if planned == fastest else f" ({row[kind][planned] / row[kind][fastest]:.2f}x the fastest)"
+            print(f"  {n:>2}x{n:<2} {kind:7} {times}; fastest {fastest}, planned {planned}{slower}")
+
 print()
-peer_any = load("peer_eigen.json") or load("peer_bulk.json")
-if peer_any:
-    print(f"peer: numpy {peer_any['numpy']}, BLAS/LAPACK {peer_any['blas']}, OPENBLAS_CORETYPE {peer_any['openblas_coretype']}")
+machine = load("machine.json")
+ours_any = next((x for x in (load(f"ours_{c}.json") for c in ("eigen", "bulk", "finite-chain", "finite-3d", "eigen-paths")) if x), None)
+if machine:
+    print(f"machine: {machine['cpu']} ({machine.get('cpu_family_model')}), {machine['kind']}; vector extensions: "
+          f"{' '.join(machine['vector_extensions'])}; {machine['cores']} cores, {machine['memory_gib']} GiB")
+    if machine.get("kind_as_run"):
+        print(f"as run: {machine['kind_as_run']}")
+    loads = [", ".join(f"{x:.1f}" for x in machine[k]) if machine.get(k) else "?" for k in ("load_start", "load_end")]
+    print(f"load average (1, 5, 15 min) at start {loads[0]}, at end {loads[1]}")
+if ours_any:
+    print(f"ours: {ours_any['runtime']}, batched kernels {ours_any.get('simd_width', '?')}")
+blas = load("peer_blas.json")
+if blas:
+    pools = ", ".join(f"{p['internal_api']} {p['version']} (kernel {p['architecture']}, {p['num_threads']} thread)" for p in blas["pools"])
+    print(f"peer: numpy {blas['numpy']} on {pools or 'no BLAS pool found'}; {blas['pools'][0]['filepath'] if blas['pools'] else ''}")
 if failures:
     print("DISAGREEMENT: " + "; ".join(failures))
     sys.exit(1)

@@ -1,8 +1,11 @@
 #!/usr/bin/env bash
 # One command for the benchmarks: builds the engine's bench harness in Release, runs each case on our
 # side and on the NumPy peer with the same inputs (bench/cases.json), prints the ratios and checks that
-# both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue; default all;
-# "cost" calibrates the Worker's run-time estimate, ours alone, and is run only when named)
+# both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue, the
+# default; run only when named: eigen-paths, which times every SIMD width and method of the eigen-solver
+# per order, and "cost", which calibrates the Worker's run-time estimate, both ours alone).
+# LATSWEEP_SIMD_WIDTH=256|512|scalar forces our kernels' width (DOTNET_EnableAVX512=0 makes the runtime
+# behave as on a processor without AVX-512).
 # Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
@@ -13,21 +16,48 @@ cases=("$@")
 [ ${#cases[@]} -eq 0 ] && cases=(eigen bulk finite-chain finite-3d queue)
 mkdir -p "$results"
 
-# The peer is Debian's NumPy: the system interpreter, not a pyenv shim.
+# The peer is NumPy as a user of this system gets it: Debian's python3-numpy on Debian's OpenBLAS
+# (libopenblas0-pthread, which takes over libblas.so.3 and liblapack.so.3 through the alternatives
+# system; without it numpy runs on the slow reference BLAS/LAPACK). The system interpreter, not a
+# pyenv shim. threadpoolctl reports which BLAS numpy really loaded and its kernel.
 py=/usr/bin/python3
-if ! "$py" -c "import numpy" 2>/dev/null; then
-  echo "installing Debian's python3-numpy (and threadpoolctl to report the BLAS kernel)"
-  apt-get update -qq && apt-get install -y -qq python3-numpy python3-threadpoolctl >/dev/null
+peer_packages=(python3-numpy python3-threadpoolctl libopenblas0-pthread)
+missing=()
+for p in "${peer_packages[@]}"; do
+  dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
+done
+if [ ${#missing[@]} -gt 0 ]; then
+  echo "installing Debian's ${missing[*]} for the NumPy peer"
+  apt-get update -qq && apt-get install -y -qq "${missing[@]}" >/dev/null
 fi
-"$py" -c "import threadpoolctl" 2>/dev/null || apt-get install -y -qq python3-threadpoolctl >/dev/null || true
 
-echo "machine: $(lscpu | sed -n 's/^Model name: *//p'), $(nproc) cores; load: $(cut -d' ' -f1-3 /proc/loadavg)"
+"$py" "$here/machine_info.py" "$results/machine.json" start
+# The peer's BLAS as it runs in the cases (one thread; see below for the two variables).
+env -u OPENBLAS_CORETYPE -u OPENBLAS_L2_SIZE OPENBLAS_NUM_THREADS=1 OMP_NUM_THREADS=1 "$py" - "$results/peer_blas.json" <<'PYEOF'
+import json, sys
+import numpy as np
+from threadpoolctl import threadpool_info
+np.linalg.eigvalsh(np.eye(2))
+pools = [{k: lib.get(k) for k in ("internal_api", "version", "architecture", "threading_layer", "num_threads", "filepath")}
+         for lib in threadpool_info()]
+json.dump({"numpy": np.__version__, "pools": pools}, open(sys.argv[1], "w"))
+names = ", ".join(f"{p['internal_api']} {p['version']} ({p['threading_layer']}, kernel {p['architecture']}, "
+                  f"{p['num_threads']} thread{'s' if p['num_threads'] != 1 else ''})" for p in pools) or "no BLAS pool found"
+print(f"peer: numpy {np.__version__} on {names}")
+if not any(p["internal_api"] == "openblas" for p in pools):
+    print("WARNING: numpy does not run on OpenBLAS here; the peer's times are not what a NumPy user gets")
+PYEOF
+
 dotnet build "$here/LatticeSweep.Bench/LatticeSweep.Bench.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
 dotnet build "$root/src/Worker/Worker.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
 bench="$here/LatticeSweep.Bench/bin/Release/net10.0/LatticeSweep.Bench"
 
 for c in "${cases[@]}"; do
   echo "== $c"
+  if [ "$c" = eigen-paths ]; then
+    "$bench" eigen-paths --out "$results" --repeats "$repeats"
+    continue
+  fi
   if [ "$c" = queue ]; then
     # Ours against ours: the queue (latsweep run, embedded SQLite store) against the Engine alone.
     "$bench" queue --out "$results" --repeats "${QUEUE_REPEATS:-3}" --jobs "$here/queue" \
@@ -47,4 +77,5 @@ for c in "${cases[@]}"; do
       "$py" run_peer.py "$c" --cases "$here/cases.json" --out "$results" --repeats "$peer_repeats" )
 done
 
+"$py" "$here/machine_info.py" "$results/machine.json" end
 "$py" "$here/compare.py" "$results"

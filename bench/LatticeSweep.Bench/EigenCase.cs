@@ -2,6 +2,7 @@ using System.Numerics;
 using System.Runtime.InteropServices;
 using System.Text.Json;
 using LatticeSweep.Engine.Numerics;
+using LatticeSweep.Engine.Numerics.Simd;
 
 namespace LatticeSweep.Bench;
 
@@ -28,7 +29,7 @@ internal static class EigenCase
             var vectors = new Complex[n * n];
             var nn = n * n;
 
-            // Ours, like NumPy's batched call: the whole stack of matrices in one call (eight per SIMD group).
+            // Ours, like NumPy's batched call: the whole stack of matrices in one call (one per SIMD lane).
             void ValuesBatch() => HermitianEigenSolver.SolveBatch(a, n, batch, values, []);
             void VectorsBatch() => HermitianEigenSolver.SolveBatch(a, n, batch, values, allVectors);
 
@@ -66,13 +67,26 @@ internal static class EigenCase
                 ["vectors_cpu_us_per_matrix"] = tVectors.MedianCpuSeconds / batch * 1e6,
                 ["values_single_us_per_matrix"] = tValuesSingle.MedianSeconds / batch * 1e6,
                 ["vectors_single_us_per_matrix"] = tVectorsSingle.MedianSeconds / batch * 1e6,
+                ["values_path"] = PathName(n, wantVectors: false),
+                ["vectors_path"] = PathName(n, wantVectors: true),
                 ["values_runs"] = tValues.Samples.Length,
                 ["vectors_runs"] = tVectors.Samples.Length,
             };
-            Console.Error.WriteLine($"  eigen {n}x{n}: values {tValues.MedianSeconds / batch * 1e6:F3} us, with vectors {tVectors.MedianSeconds / batch * 1e6:F3} us per matrix [cpu {tValues.MedianCpuSeconds / batch * 1e6:F3} / {tVectors.MedianCpuSeconds / batch * 1e6:F3}] (one-matrix API: {tValuesSingle.MedianSeconds / batch * 1e6:F3} / {tVectorsSingle.MedianSeconds / batch * 1e6:F3} us)");
+            Console.Error.WriteLine($"  eigen {n}x{n} [{PathName(n, false)} / {PathName(n, true)}]: values {tValues.MedianSeconds / batch * 1e6:F3} us, with vectors {tVectors.MedianSeconds / batch * 1e6:F3} us per matrix [cpu {tValues.MedianCpuSeconds / batch * 1e6:F3} / {tVectors.MedianCpuSeconds / batch * 1e6:F3}] (one-matrix API: {tValuesSingle.MedianSeconds / batch * 1e6:F3} / {tVectorsSingle.MedianSeconds / batch * 1e6:F3} us)");
         }
 
         return results;
+    }
+
+    /// <summary>The batched solver's path for the order at this process's width: "tridiagonal-512", "jacobi-256", "one-by-one".</summary>
+    public static string PathName(int n, bool wantVectors)
+    {
+        var width = SimdWidths.Active;
+        return BatchPlan.Choose(n, wantVectors, width) switch
+        {
+            BatchMethod.OneByOne => "one-by-one",
+            var method => $"{(method == BatchMethod.Jacobi ? "jacobi" : "tridiagonal")}-{(width == SimdWidth.Bits512 ? 512 : 256)}",
+        };
     }
 
     /// <summary>(X + X^H) / 2 with X of independent standard normal real and imaginary parts (Box-Muller).</summary>

@@ -33,15 +33,25 @@ var report = new Dictionary<string, object>
     ["avx2"] = Avx2.IsSupported,
     ["avx512f"] = Avx512F.IsSupported,
     ["vector512_accelerated"] = System.Runtime.Intrinsics.Vector512.IsHardwareAccelerated,
+    ["simd_width"] = LatticeSweep.Engine.Numerics.Simd.SimdWidths.Describe(LatticeSweep.Engine.Numerics.Simd.SimdWidths.Active),
 };
+Console.Error.WriteLine($"  batched kernels: {report["simd_width"]} (AVX2 {Avx2.IsSupported}, AVX-512F {Avx512F.IsSupported})");
 
 switch (caseName)
 {
     case "eigen":
         report["peak_gflops_one_core"] = PeakFlops.GflopsPerCore();
-        Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core (512-bit FMA)");
+        Console.Error.WriteLine($"  measured peak: {(double)report["peak_gflops_one_core"]:F1} Gflop/s on one core ({(System.Runtime.Intrinsics.Vector512.IsHardwareAccelerated ? 512 : 256)}-bit FMA)");
         report["sizes"] = EigenCase.Run(cases, outDir, repeats);
         break;
+    case "eigen-paths":
+    {
+        var sizes = Option("--sizes", "2,3,4,6,9,12,15,18,24,32,48").Split(',').Select(x => int.Parse(x, System.Globalization.CultureInfo.InvariantCulture)).ToArray();
+        report["simd_width"] = LatticeSweep.Engine.Numerics.Simd.SimdWidths.Describe(LatticeSweep.Engine.Numerics.Simd.SimdWidths.Active);
+        report["sizes"] = EigenPathsCase.Run(Math.Max(3, repeats), sizes);
+        break;
+    }
+
     case "cost":
         report["cost"] = CostCase.Run(repeats);
         break;
@@ -97,8 +107,8 @@ switch (caseName)
         var jobs = Option("--jobs", "bench/queue");
         report["runs"] = new List<object>
         {
-            QueueCase.Run(latsweep, Path.Combine(jobs, "small-points.toml"), workers: 1, repeats),
-            QueueCase.Run(latsweep, Path.Combine(jobs, "20ms-points.toml"), workers: 1, repeats),
+            QueueCase.Run(latsweep, Path.Combine(jobs, "small-points.toml"), Path.Combine(jobs, "one-point.toml"), workers: 1, repeats),
+            QueueCase.Run(latsweep, Path.Combine(jobs, "20ms-points.toml"), Path.Combine(jobs, "one-point.toml"), workers: 1, repeats),
         };
         break;
     }

@@ -1,4 +1,5 @@
 using System.Diagnostics;
+using System.Globalization;
 using LatticeSweep.Worker.Planning;
 using LatticeSweep.Worker.Queue;
 
@@ -7,12 +8,17 @@ namespace LatticeSweep.Bench;
 /// <summary>
 /// Case (e): a sweep through the real queue (`latsweep run` on the embedded SQLite store, its own
 /// process, as a user runs it) against solving the same planned points with the Engine in this
-/// process, one after another. Overhead = queue wall time / engine time - 1: everything the batch
-/// side adds (process start, planning, enqueueing, dispatch, catalog updates, Parquet writes).
+/// process, one after another. Both sides are measured in CPU time (what other work on the machine
+/// disturbs least) and wall time. The run reports its own process CPU (LATSWEEP_TIMINGS=1), and a
+/// one-point run of the same model gives the fixed cost of a run (process start, store, planning,
+/// queue server start and stop, merge), so
+/// per-point overhead = (run CPU - one-point run CPU - engine CPU) / points.
 /// </summary>
 internal static class QueueCase
 {
-    public static Dictionary<string, object> Run(string latsweep, string jobFile, int workers, int repeats)
+    public sealed record RunSample(double WallSeconds, double CpuSeconds);
+
+    public static Dictionary<string, object> Run(string latsweep, string jobFile, string onePointJob, int workers, int repeats)
     {
         var plan = JobFileLoader.Load(jobFile);
         var points = plan.Points;
@@ -23,76 +29,114 @@ internal static class QueueCase
             EnginePointSolver.Instance.Solve(plan, points[i], default);
         }
 
-        var direct = Timing.Measure(
-            () =>
-            {
-                foreach (var p in points)
-                {
-                    EnginePointSolver.Instance.Solve(plan, p, default);
-                }
-            },
-            warmups: 0, repeats: Math.Max(1, repeats / 2));
-
-        var queueSamples = new List<double>();
-        for (var r = 0; r < repeats; r++)
+        var engineWall = new List<double>();
+        var engineCpu = new List<double>();
+        for (var r = 0; r < Math.Max(1, repeats / 2); r++)
         {
-            var folder = Directory.CreateTempSubdirectory("latsweep-bench-");
-            try
+            var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
+            var sw = Stopwatch.StartNew();
+            foreach (var p in points)
             {
-                var start = new ProcessStartInfo(latsweep)
-                {
-                    RedirectStandardOutput = true,
-                    RedirectStandardError = true,
-                    WorkingDirectory = folder.FullName,
-                };
-                foreach (var a in new[] { "run", Path.GetFullPath(jobFile), "--out", Path.Combine(folder.FullName, "out"), "--store", Path.Combine(folder.FullName, "store.db"), "--workers", workers.ToString(System.Globalization.CultureInfo.InvariantCulture) })
-                {
-                    start.ArgumentList.Add(a);
-                }
-
-                var sw = Stopwatch.StartNew();
-                using var process = Process.Start(start)!;
-                var stdout = process.StandardOutput.ReadToEndAsync();
-                var stderr = process.StandardError.ReadToEndAsync();
-                process.WaitForExit();
-                var seconds = sw.Elapsed.TotalSeconds;
-                if (process.ExitCode != 0)
-                {
-                    throw new InvalidOperationException($"latsweep run {jobFile} exited with {process.ExitCode}: {stderr.Result}{stdout.Result}");
-                }
-
-                var parts = Directory.GetFiles(Path.Combine(folder.FullName, "out"), "*.parquet", SearchOption.AllDirectories).Length;
-                if (parts == 0)
-                {
-                    throw new InvalidOperationException($"latsweep run {jobFile} wrote no Parquet files");
-                }
-
-                queueSamples.Add(seconds);
+                EnginePointSolver.Instance.Solve(plan, p, default);
             }
-            finally
-            {
-                folder.Delete(recursive: true);
-            }
+
+            engineWall.Add(sw.Elapsed.TotalSeconds);
+            engineCpu.Add((Process.GetCurrentProcess().TotalProcessorTime - cpu0).TotalSeconds);
         }
 
-        var queue = queueSamples.Order().ToArray()[queueSamples.Count / 2];
+        // The fixed cost and the sweep, one after the other in each repeat (same minute, same load).
+        var fixedRuns = new List<RunSample>();
+        var queueRuns = new List<RunSample>();
+        for (var r = 0; r < repeats; r++)
+        {
+            fixedRuns.Add(RunOnce(latsweep, onePointJob, workers));
+            queueRuns.Add(RunOnce(latsweep, jobFile, workers));
+        }
+
+        var engineS = Median(engineWall);
+        var engineCpuS = Median(engineCpu);
+        var queueS = Median(queueRuns.Select(q => q.WallSeconds));
+        var queueCpuS = Median(queueRuns.Select(q => q.CpuSeconds));
+        var fixedS = Median(fixedRuns.Select(q => q.WallSeconds));
+        var fixedCpuS = Median(fixedRuns.Select(q => q.CpuSeconds));
         var result = new Dictionary<string, object>
         {
             ["job"] = Path.GetFileName(jobFile),
             ["points"] = points.Length,
             ["workers"] = workers,
-            ["engine_s"] = direct.MedianSeconds,
-            ["engine_ms_per_point"] = direct.MedianSeconds / points.Length * 1e3,
-            ["queue_s"] = queue,
-            ["queue_runs"] = queueSamples.Count,
-            ["engine_points_per_s"] = points.Length / direct.MedianSeconds,
-            ["queue_points_per_s"] = points.Length / queue,
-            ["overhead_fraction"] = (queue * workers / direct.MedianSeconds) - 1,
-            ["overhead_ms_per_point"] = ((queue * workers) - direct.MedianSeconds) / points.Length * 1e3,
+            ["load"] = File.ReadAllText("/proc/loadavg").Split(' ')[0],
+            ["engine_s"] = engineS,
+            ["engine_cpu_s"] = engineCpuS,
+            ["engine_ms_per_point"] = engineS / points.Length * 1e3,
+            ["queue_s"] = queueS,
+            ["queue_cpu_s"] = queueCpuS,
+            ["queue_runs"] = queueRuns.Count,
+            ["fixed_s"] = fixedS,
+            ["fixed_cpu_s"] = fixedCpuS,
+            ["engine_points_per_s"] = points.Length / engineS,
+            ["queue_points_per_s"] = points.Length / queueS,
+            ["overhead_fraction"] = (queueS * workers / engineS) - 1,
+            ["overhead_fraction_without_fixed"] = ((queueS - fixedS) * workers / engineS) - 1,
+            ["overhead_ms_per_point"] = ((queueS * workers) - engineS) / points.Length * 1e3,
+            ["overhead_cpu_ms_per_point"] = (queueCpuS - fixedCpuS - engineCpuS) / points.Length * 1e3,
         };
-        Console.Error.WriteLine($"  queue {Path.GetFileName(jobFile)}: {points.Length} points, engine {direct.MedianSeconds:F2} s " +
-            $"({direct.MedianSeconds / points.Length * 1e3:F2} ms/point), latsweep run --workers {workers} {queue:F2} s " +
-            $"({points.Length / queue:F0} points/s), overhead {(double)result["overhead_fraction"] * 100:F1}%");
+        Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture,
+            $"  queue {Path.GetFileName(jobFile)}: {points.Length} points, engine {engineS:F2} s wall {engineCpuS:F2} s CPU; " +
+            $"latsweep run --workers {workers} {queueS:F2} s wall {queueCpuS:F2} s CPU; one-point run {fixedS:F2} s wall {fixedCpuS:F2} s CPU; " +
+            $"overhead {(double)result["overhead_cpu_ms_per_point"]:F3} ms CPU per point, {(double)result["overhead_fraction_without_fixed"] * 100:F1}% wall without the fixed cost " +
+            $"(load {result["load"]})"));
         return result;
+    }
+
+    private static RunSample RunOnce(string latsweep, string jobFile, int workers)
+    {
+        var folder = Directory.CreateTempSubdirectory("latsweep-bench-");
+        try
+        {
+            var start = new ProcessStartInfo(latsweep)
+            {
+                RedirectStandardOutput = true,
+                RedirectStandardError = true,
+                WorkingDirectory = folder.FullName,
+            };
+            start.Environment["LATSWEEP_TIMINGS"] = "1";
+            foreach (var a in new[] { "run", Path.GetFullPath(jobFile), "--out", Path.Combine(folder.FullName, "out"), "--store", Path.Combine(folder.FullName, "store.db"), "--workers", workers.ToString(CultureInfo.InvariantCulture) })
+            {
+                start.ArgumentList.Add(a);
+            }
+
+            var sw = Stopwatch.StartNew();
+            using var process = Process.Start(start)!;
+            var stdout = process.StandardOutput.ReadToEndAsync();
+            var stderr = process.StandardError.ReadToEndAsync();
+            process.WaitForExit();
+            var seconds = sw.Elapsed.TotalSeconds;
+            if (process.ExitCode != 0)
+            {
+                throw new InvalidOperationException($"latsweep run {jobFile} exited with {process.ExitCode}: {stderr.Result}{stdout.Result}");
+            }
+
+            var parts = Directory.GetFiles(Path.Combine(folder.FullName, "out"), "*.parquet", SearchOption.AllDirectories).Length;
+            if (parts == 0)
+            {
+                throw new InvalidOperationException($"latsweep run {jobFile} wrote no Parquet files");
+            }
+
+            // "timings: process CPU 5.130 s (user ...": the run's own CPU time, all its threads.
+            var line = stderr.Result.Split('\n').FirstOrDefault(l => l.StartsWith("timings: process CPU ", StringComparison.Ordinal))
+                ?? throw new InvalidOperationException("latsweep run printed no timings line (LATSWEEP_TIMINGS=1)");
+            var cpu = double.Parse(line["timings: process CPU ".Length..].Split(' ')[0], CultureInfo.InvariantCulture);
+            return new RunSample(seconds, cpu);
+        }
+        finally
+        {
+            folder.Delete(recursive: true);
+        }
+    }
+
+    private static double Median(IEnumerable<double> values)
+    {
+        var sorted = values.Order().ToArray();
+        return sorted[sorted.Length / 2];
     }
 }

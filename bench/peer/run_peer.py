@@ -15,15 +15,22 @@ import numpy as np
 from lattice_model import HBAR, KB, Model, temperatures, thermal_from_modes
 
 
+CPU = {}  # median process CPU seconds of the last measure() (less disturbed by other work on the machine)
+
+
 def measure(run, warmups, repeats, min_seconds=0.0):
     for _ in range(warmups):
         run()
     samples = []
+    cpu = []
     start = time.perf_counter()
     while len(samples) < repeats or (time.perf_counter() - start < min_seconds and len(samples) < 1000):
         t0 = time.perf_counter()
+        c0 = time.process_time()
         run()
         samples.append(time.perf_counter() - t0)
+        cpu.append(time.process_time() - c0)
+    CPU["last"] = statistics.median(cpu)
     return statistics.median(samples), samples
 
 
@@ -61,10 +68,13 @@ def eigen_case(cases, out, repeats):
             box["wv"] = np.linalg.eigh(a)
 
         tv, sv = measure(values, 2, repeats, 0.5)
+        cv = CPU["last"]
         te, se = measure(vectors, 2, repeats, 0.5)
+        ce = CPU["last"]
         box["w"].astype(np.float64).tofile(os.path.join(out, f"eig_{n}_values_peer.f64"))
         res[str(n)] = {"n": n, "batch": batch, "values_us_per_matrix": tv / batch * 1e6,
-                       "vectors_us_per_matrix": te / batch * 1e6, "values_runs": len(sv), "vectors_runs": len(se)}
+                       "vectors_us_per_matrix": te / batch * 1e6, "values_runs": len(sv), "vectors_runs": len(se),
+                       "values_cpu_us_per_matrix": cv / batch * 1e6, "vectors_cpu_us_per_matrix": ce / batch * 1e6}
         print(f"  peer eigen {n}x{n}: eigvalsh {tv / batch * 1e6:.3f} us, eigh {te / batch * 1e6:.3f} us per matrix", flush=True)
     return res
 
@@ -104,7 +114,7 @@ def bulk_case(cases, out, repeats):
 
     med, samples = measure(run, 1, repeats)
     print(f"  peer bulk: {med:.3f} s median of {len(samples)}", flush=True)
-    return {"median_s": med, "runs": len(samples), "dos_edges_thz": box["edges"].tolist(), "dos_total": box["dos"].tolist(),
+    return {"median_s": med, "median_cpu_s": CPU["last"], "runs": len(samples), "dos_edges_thz": box["edges"].tolist(), "dos_total": box["dos"].tolist(),
             "cumulative_at": cumulative_at(box["f"], box["cells"]),
             "temperature_k": temps.tolist(), **{k: v.tolist() for k, v in box["thermal"].items()},
             "zero_point_j_per_mol": box["zpe"], "method": "full-mesh eigvalsh, histogram DOS, thermal from a 4096-bin histogram"}
@@ -137,7 +147,7 @@ def finite_case(cases, out, repeats, section):
     med, samples = measure(run, 0, repeats)
     print(f"  peer {section}: {med:.3f} s median of {len(samples)}", flush=True)
     f = np.sort(box["f"])
-    return {"median_s": med, "runs": len(samples), "temperature_k": temps.tolist(),
+    return {"median_s": med, "median_cpu_s": CPU["last"], "runs": len(samples), "temperature_k": temps.tolist(),
             **{k: v.tolist() for k, v in box["thermal"].items()}, "zero_point_j_per_mol": box["zpe"],
             "cells": box["cells"], "sorted_thz": f.tolist() if f.size <= 4_000_000 else None,
             "method": "full set of allowed q, eigvalsh, plain vectorised mode sum per temperature"}

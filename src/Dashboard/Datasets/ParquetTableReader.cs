@@ -29,7 +29,12 @@ internal static class ParquetTableReader
     /// only that column is read from each row group, and a row group is read whole only when it
     /// holds a match (a merged file of many chunks costs one column scan, not a full read).
     /// </summary>
-    public static async Task<ResultTable> ReadMatchingAsync(string file, string column, IReadOnlySet<string> values, CancellationToken ct)
+    public static async Task<ResultTable> ReadMatchingAsync(string file, string column, IReadOnlySet<string> values, CancellationToken ct) =>
+        await ReadMatchingAsync(file, column, values, null, ct).ConfigureAwait(false);
+
+    /// <summary>As above, in only the row groups <paramref name="pick"/> chooses from the file's metadata (null from it: all).</summary>
+    public static async Task<ResultTable> ReadMatchingAsync(
+        string file, string column, IReadOnlySet<string> values, Func<IReadOnlyDictionary<string, string>?, IReadOnlyList<int>?>? pick, CancellationToken ct)
     {
         await using var stream = Open(file);
         await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
@@ -42,7 +47,7 @@ internal static class ParquetTableReader
         }
 
         var rows = new List<ImmutableArray<object?>>();
-        for (var g = 0; g < reader.RowGroupCount; g++)
+        foreach (var g in pick?.Invoke(reader.CustomMetadata) ?? Enumerable.Range(0, reader.RowGroupCount).ToList())
         {
             using var group = reader.OpenRowGroupReader(g);
             var count = checked((int)group.RowCount);
@@ -93,13 +98,16 @@ internal static class ParquetTableReader
         return values;
     }
 
-    public static async Task<ResultTable> ReadFileAsync(string file, CancellationToken ct)
+    public static Task<ResultTable> ReadFileAsync(string file, CancellationToken ct) => ReadFileAsync(file, null, ct);
+
+    /// <summary>Reads a file, or only the row groups <paramref name="pick"/> chooses from its metadata (null from it: all).</summary>
+    public static async Task<ResultTable> ReadFileAsync(string file, Func<IReadOnlyDictionary<string, string>?, IReadOnlyList<int>?>? pick, CancellationToken ct)
     {
         await using var stream = Open(file);
         await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
         var fields = reader.Schema.GetDataFields();
         var rows = new List<object?[]>();
-        for (var g = 0; g < reader.RowGroupCount; g++)
+        foreach (var g in pick?.Invoke(reader.CustomMetadata) ?? Enumerable.Range(0, reader.RowGroupCount).ToList())
         {
             using var group = reader.OpenRowGroupReader(g);
             rows.AddRange(await ReadGroupAsync(group, fields, checked((int)group.RowCount), ct).ConfigureAwait(false));

@@ -38,9 +38,10 @@ internal static class PointsExport
         ArgumentNullException.ThrowIfNull(rows);
         ArgumentNullException.ThrowIfNull(names);
         var defs = rows.Columns.Select(c => new ColumnDef(c.Name, TypeOf(c), names.RawUnit(c), names.Label(c.Name))).ToList();
-        var cells = rows.Rows.Select(r => r.Select(v => v is double.NaN ? null : v).ToArray()).ToList();
+        // Column by column into the Worker's typed arrays (a NaN from an old dataset written as empty).
+        var values = defs.Select((d, c) => ColumnValues.As(d, rows.Rows.Select(r => r[c] is double.NaN ? null : r[c]).ToArray())).ToList();
         using var stream = new MemoryStream();
-        await ParquetPartWriter.WriteParquetAsync(stream, new TableRows(TableNames.Points, defs, cells), metadata, ct).ConfigureAwait(false);
+        await ParquetPartWriter.WriteParquetAsync(stream, new TableRows(TableNames.Points, defs, rows.Rows.Length, values), metadata, ct).ConfigureAwait(false);
         return stream.ToArray();
     }
 

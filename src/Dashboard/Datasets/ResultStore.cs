@@ -12,8 +12,10 @@ namespace LatticeSweep.Dashboard.Datasets;
 /// per chunk, or files merged from many chunks). <c>points/</c> (one row per point) is cached and
 /// re-read only when one of its files changes; a point found in two files (a chunk re-run after
 /// its rows were merged) is taken from the newer file. A point's rows of the larger tables are
-/// read from its chunk's own part when there is one, else from the files that hold its id (each
-/// file's ids are read once and kept until the file changes).
+/// read from its chunk's own part when there is one, else from the merged file that holds the
+/// chunk (listed in the table's <c>.merged-chunks</c>), only the row groups whose point-id range
+/// holds the point (<see cref="MergedLayout"/>), else from the files that hold its id (each file's
+/// ids are read once and kept until the file changes).
 /// </summary>
 internal sealed class ResultStore
 {
@@ -106,7 +108,20 @@ internal sealed class ResultStore
         }
 
         var wanted = new HashSet<string>(StringComparer.Ordinal) { pointId };
-        foreach (var stamp in Files(folder).Where(f => f != own).Select(FileStamp.Of).OrderByDescending(s => s.WrittenUtc))
+        var merged = MergedLayout.MergedChunks(folder).TryGetValue(chunkId, out var name) ? Root.Contain(Path.Combine(folder, name)) : null;
+        try
+        {
+            if (merged is not null && File.Exists(merged)
+                && await ParquetTableReader.ReadMatchingAsync(merged, IdColumn, wanted, metadata => MergedLayout.RowGroupsOf(metadata, pointId), ct).ConfigureAwait(false) is { Rows.Length: > 0 } rows)
+            {
+                return rows;
+            }
+        }
+        catch (Exception ex) when (Vanished(ex))
+        {
+        }
+
+        foreach (var stamp in Files(folder).Where(f => f != own && f != merged).Select(FileStamp.Of).OrderByDescending(s => s.WrittenUtc))
         {
             try
             {

@@ -9,7 +9,7 @@ namespace LatticeSweep.Engine.Spectrum;
 /// D_{Ia,Jb}(q) = [delta_IJ K^self_I,ab - sum_R K_ab(I, J+R) exp(i q.(R + r_J - r_I))] / sqrt(m_I m_J),
 /// and its analytic derivative dD/dq_alpha, which brings down i d_alpha. Eigenvalues are omega^2 (rad^2/s^2).
 /// </summary>
-internal sealed class DynamicalMatrix
+internal sealed partial class DynamicalMatrix
 {
     private readonly CompiledCrystal _crystal;
     private readonly double[] _inverseSqrtMass;
@@ -124,9 +124,20 @@ internal sealed class DynamicalMatrix
     /// <summary>Same matrix as the general loop, with one SinCos per spring and no complex temporaries.</summary>
     private void BuildPaired(Vec3 qPerM, Span<double> d)
     {
+        d.Clear();
+        AddSelfTerms(d);
+        foreach (var p in _pairs!)
+        {
+            var (sin, cos) = Math.SinCos(p.SeparationM.Dot(qPerM));
+            AddPair(d, p, sin, cos);
+        }
+    }
+
+    /// <summary>The mass-scaled self-terms onto the diagonal blocks of d (interleaved re, im).</summary>
+    private void AddSelfTerms(Span<double> d)
+    {
         var n = Size;
         var c = _crystal.Components;
-        d.Clear();
         for (var i = 0; i < _crystal.Sites; i++)
         {
             for (var a = 0; a < c; a++)
@@ -138,23 +149,25 @@ internal sealed class DynamicalMatrix
                 }
             }
         }
+    }
 
-        foreach (var p in _pairs!)
+    /// <summary>A spring and its reverse onto d: the tensor times exp(+-i q.d) = cos +- i sin.</summary>
+    private void AddPair(Span<double> d, ScaledPair p, double sin, double cos)
+    {
+        var n = Size;
+        var c = _crystal.Components;
+        var k = p.Tensor;
+        for (var a = 0; a < c; a++)
         {
-            var (sin, cos) = Math.SinCos(p.SeparationM.Dot(qPerM));
-            var k = p.Tensor;
-            for (var a = 0; a < c; a++)
+            var forward = 2 * ((((p.I * c) + a) * n) + (p.J * c));
+            var backward = 2 * ((((p.J * c) + a) * n) + (p.I * c));
+            for (var b = 0; b < c; b++)
             {
-                var forward = 2 * ((((p.I * c) + a) * n) + (p.J * c));
-                var backward = 2 * ((((p.J * c) + a) * n) + (p.I * c));
-                for (var b = 0; b < c; b++)
-                {
-                    var kab = k[(a * c) + b];
-                    d[forward + (2 * b)] += kab * cos;
-                    d[forward + (2 * b) + 1] += kab * sin;
-                    d[backward + (2 * b)] += kab * cos;
-                    d[backward + (2 * b) + 1] -= kab * sin;
-                }
+                var kab = k[(a * c) + b];
+                d[forward + (2 * b)] += kab * cos;
+                d[forward + (2 * b) + 1] += kab * sin;
+                d[backward + (2 * b)] += kab * cos;
+                d[backward + (2 * b) + 1] -= kab * sin;
             }
         }
     }

@@ -45,6 +45,6 @@ public interface ISweepCatalog : IDisposable
     /// <summary>Failed points grouped by reason, largest group first.</summary>
     IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId);
 
-    /// <summary>For each swept parameter, point counts per value.</summary>
+    /// <summary>For each swept parameter, point counts per value (none for sweeps over <see cref="SqlSweepCatalog.CoverageLimit"/> points).</summary>
     IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId);
 }

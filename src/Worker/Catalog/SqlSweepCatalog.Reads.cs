@@ -111,10 +111,13 @@ public abstract partial class SqlSweepCatalog
             .ToList();
     }
 
+    /// <summary>Sweeps with more points than this get no coverage table: counting it means reading every point's parameters (seconds for a million).</summary>
+    public const long CoverageLimit = 200_000;
+
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId)
     {
         var sweep = FindSweep(sweepId);
-        if (sweep is null || sweep.SweepId != sweepId)
+        if (sweep is null || sweep.SweepId != sweepId || sweep.Counts.Total > CoverageLimit)
         {
             return [];
         }

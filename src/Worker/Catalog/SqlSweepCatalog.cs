@@ -30,6 +30,11 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     {
     }
 
+    /// <summary>Runs before a sweep's points are inserted (SQLite enlarges its page cache: a million rows go into three indexes).</summary>
+    protected virtual void BeforeBulkInsert(DbConnection connection)
+    {
+    }
+
     /// <summary>Creates the catalog tables when missing. Call once after construction.</summary>
     protected void EnsureSchema()
     {
@@ -47,13 +52,18 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     public bool Register(NewSweep sweep)
     {
         ArgumentNullException.ThrowIfNull(sweep);
-        var duplicate = sweep.Points.GroupBy(p => p.PointId, StringComparer.Ordinal).FirstOrDefault(g => g.Count() > 1);
-        if (duplicate is not null)
+        var seen = new HashSet<string>(sweep.Points.Length, StringComparer.Ordinal);
+        foreach (var point in sweep.Points)
         {
-            throw new ArgumentException($"the plan has point id {duplicate.Key} more than once", nameof(sweep));
+            if (!seen.Add(point.PointId))
+            {
+                throw new ArgumentException($"the plan has point id {point.PointId} more than once", nameof(sweep));
+            }
         }
 
+        seen = null;
         using var c = Open();
+        BeforeBulkInsert(c);
         using var tx = c.BeginTransaction();
         var inserted = Execute(c, tx, """
             INSERT INTO latsweep_sweeps (sweep_id, name, description, state, spec_hash, source_path, spec_text,
@@ -72,33 +82,60 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             return false;
         }
 
-        using (var insert = Command(c, tx, """
-            INSERT INTO latsweep_points (sweep_id, point_id, point_index, chunk_id, state, parameters_json, attempts)
-            VALUES (@sweep, @point, @index, @chunk, @state, @parameters, 0)
-            """))
+        // Many rows per statement: a statement call costs more than the row it inserts (a million points).
+        const int RowsPerStatement = 128;
+        var waiting = Text(PointState.Waiting);
+        DbCommand? full = null;
+        try
         {
-            var pSweep = Add(insert, "sweep", sweep.SweepId);
-            var pPoint = Add(insert, "point", "");
-            var pIndex = Add(insert, "index", 0L);
-            var pChunk = Add(insert, "chunk", "");
-            var pState = Add(insert, "state", Text(PointState.Waiting));
-            var pParameters = Add(insert, "parameters", "");
-            insert.Prepare();
-            foreach (var point in sweep.Points)
+            for (var start = 0; start < sweep.Points.Length; start += RowsPerStatement)
             {
-                pPoint.Value = point.PointId;
-                pIndex.Value = (long)point.Index;
-                pChunk.Value = point.ChunkId;
-                pParameters.Value = CatalogJson.WriteParameters(point.Parameters);
-                insert.ExecuteNonQuery();
-            }
+                var count = Math.Min(RowsPerStatement, sweep.Points.Length - start);
+                var insert = count == RowsPerStatement ? full ??= InsertPoints(c, tx, count) : InsertPoints(c, tx, count);
+                for (var i = 0; i < count; i++)
+                {
+                    var point = sweep.Points[start + i];
+                    var p = insert.Parameters;
+                    p[(i * 6) + 0].Value = sweep.SweepId;
+                    p[(i * 6) + 1].Value = point.PointId;
+                    p[(i * 6) + 2].Value = (long)point.Index;
+                    p[(i * 6) + 3].Value = point.ChunkId;
+                    p[(i * 6) + 4].Value = waiting;
+                    p[(i * 6) + 5].Value = CatalogJson.WriteParameters(point.Parameters);
+                }
 
-            _ = pSweep;
-            _ = pState;
+                insert.ExecuteNonQuery();
+                if (insert != full)
+                {
+                    insert.Dispose();
+                }
+            }
+        }
+        finally
+        {
+            full?.Dispose();
         }
 
         tx.Commit();
         return true;
+    }
+
+    private static DbCommand InsertPoints(DbConnection c, DbTransaction tx, int rows)
+    {
+        var sql = new System.Text.StringBuilder("INSERT INTO latsweep_points (sweep_id, point_id, point_index, chunk_id, state, parameters_json, attempts) VALUES ");
+        var cmd = Command(c, tx, "");
+        for (var i = 0; i < rows; i++)
+        {
+            sql.Append(i == 0 ? "" : ", ").Append($"(@s{i}, @p{i}, @i{i}, @c{i}, @t{i}, @j{i}, 0)");
+            foreach (var name in new[] { "s", "p", "i", "c", "t", "j" })
+            {
+                Add(cmd, name + i.ToString(System.Globalization.CultureInfo.InvariantCulture), DBNull.Value);
+            }
+        }
+
+        cmd.CommandText = sql.ToString();
+        cmd.Prepare();
+        return cmd;
     }
 
     public IReadOnlyList<string> RequeueUnfinished(string sweepId)

@@ -45,6 +45,7 @@ public static class CliApp
                 "work" => SweepCommands.Work(CommandLine.Parse(command, rest, Options("store", "workers", "reclaim-after", "!stay"), 0, 0), context),
                 "status" => StatusCommand.Run(CommandLine.Parse(command, rest, Options("store"), 0, 1), context),
                 "cancel" => SweepCommands.Cancel(CommandLine.Parse(command, rest, Options("store"), 1, 1), context),
+                "merge" => SweepCommands.Merge(CommandLine.Parse(command, rest, Options("store"), 1, 1), context),
                 "check" => CheckCommand.Run(PathIn(context, CommandLine.Parse(command, rest, Options(), 1, 1).Arguments[0]), context.Stdout, context.Stderr),
                 "solve" => Solve(CommandLine.Parse(command, rest, Options("!full-precision"), 1, 1), context),
                 "init" => StarterJob.Write(PathIn(context, CommandLine.Parse(command, rest, Options(), 1, 1).Arguments[0]), context),

@@ -170,6 +170,23 @@ internal static class CommandHelp
             Exit codes: 0 every point done, 2 no such store or sweep, 3 some points failed,
             4 every point finished but some models are unstable, 130 interrupted.
             """,
+        ["merge"] = $"""
+            latsweep merge SWEEP [--store STORE]
+
+            Merges each result table's part files of a sweep into large files sorted by point
+            (merged-*.parquet, at least ~64 MiB each, or one per table when smaller), as run, work
+            and resume do by themselves when a sweep finishes. Safe to repeat and safe to stop:
+            readers see either the parts or the merged files, never both, and every point once.
+
+            Options:
+            {ExistingStore}
+
+            Example:
+              latsweep merge quickstart-a3cd356f
+
+            Exit codes: 0 merged, 2 no such store, sweep or results folder, 3 the merge failed
+            (the tables are as they were; run it again).
+            """,
         ["init"] = """
             latsweep init FILE
 

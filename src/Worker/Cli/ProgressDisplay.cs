@@ -31,6 +31,22 @@ public sealed class ProgressDisplay
 
     public TimeSpan LineInterval { get; init; } = TimeSpan.FromSeconds(5);
 
+    private TimeSpan? _finishedAfter;
+    private SweepCounts? _lastCounts;
+    private string _lastLineText = "";
+
+    /// <summary>Time since the display started, frozen by <see cref="Finish"/> (the closing line shows the same figure).</summary>
+    public TimeSpan Elapsed
+    {
+        get
+        {
+            lock (_gate)
+            {
+                return _finishedAfter ?? _time.GetElapsedTime(_startTimestamp);
+            }
+        }
+    }
+
     /// <summary>Shows the current counts.</summary>
     public void Update(SweepCounts counts)
     {
@@ -38,6 +54,7 @@ public sealed class ProgressDisplay
         lock (_gate)
         {
             _finishedAtStart ??= counts.Finished;
+            _lastCounts = counts;
             var text = Format(counts);
             if (_interactive)
             {
@@ -50,6 +67,7 @@ public sealed class ProgressDisplay
             {
                 _stderr.WriteLine(text);
                 _stderr.Flush();
+                _lastLineText = text;
                 _lastLine = now;
                 _lastLineFinished = counts.Finished;
             }
@@ -81,6 +99,23 @@ public sealed class ProgressDisplay
     {
         lock (_gate)
         {
+            _finishedAfter ??= _time.GetElapsedTime(_startTimestamp);
+
+            // The last state once more with the frozen time, so the bar and the closing line agree.
+            if (_lastCounts is { } last)
+            {
+                var text = Format(last);
+                if (_interactive && _lastBar.Length > 0)
+                {
+                    Draw(text);
+                }
+                else if (!_interactive && text != _lastLineText)
+                {
+                    _stderr.WriteLine(text);
+                    _lastLineText = text;
+                }
+            }
+
             if (_interactive && _lastBar.Length > 0)
             {
                 _stderr.WriteLine();
@@ -94,7 +129,7 @@ public sealed class ProgressDisplay
     public string Format(SweepCounts counts)
     {
         ArgumentNullException.ThrowIfNull(counts);
-        var elapsed = _time.GetElapsedTime(_startTimestamp);
+        var elapsed = _finishedAfter ?? _time.GetElapsedTime(_startTimestamp);
         var newlyFinished = counts.Finished - (_finishedAtStart ?? counts.Finished);
         var rate = elapsed.TotalSeconds > 0.5 ? newlyFinished / elapsed.TotalSeconds : 0;
         var eta = rate > 0 ? FormatDuration(TimeSpan.FromSeconds(counts.Unfinished / rate)) : "--:--";

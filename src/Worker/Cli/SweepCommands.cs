@@ -13,10 +13,22 @@ internal static class SweepCommands
     {
         var workers = line.IntOption("workers", WorkerPool.DefaultWorkers, 1, 1024);
         var outRoot = OutRoot(line, context);
-        var plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
+        SweepPlan plan;
+        using (StageTimings.Measure("run: plan job file"))
+        {
+            plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
+        }
+
+        var opening = StageTimings.Measure("run: open store");
         using var session = Session.Open(line, context);
+        opening.Dispose();
         var plans = new JobFilePlanSource();
-        var submitted = Submitter(session, context).Submit(plan, outRoot);
+        SubmitResult submitted;
+        using (StageTimings.Measure("run: submit"))
+        {
+            submitted = Submitter(session, context).Submit(plan, outRoot);
+        }
+
         plans.Add(submitted.Sweep.SweepId, plan);
         return WorkSweep(session, context, plans, submitted.Sweep.SweepId, workers);
     }
@@ -24,13 +36,19 @@ internal static class SweepCommands
     public static int Submit(CommandLine line, CliContext context)
     {
         var outRoot = OutRoot(line, context);
-        var plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
+        SweepPlan plan;
+        using (StageTimings.Measure("submit: plan job file"))
+        {
+            plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
+        }
+
         using var session = Session.Open(line, context);
         var submitted = Submitter(session, context).Submit(plan, outRoot);
         var sweep = submitted.Sweep;
         context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} chunks to run ({sweep.Counts.Unfinished} points without results).");
         context.Stdout.WriteLine($"Results will be in {sweep.OutputFolder}");
         context.Stdout.WriteLine($"Work it with: latsweep work{StoreHint(line)}");
+        StageTimings.WriteIfEnabled(context.Stderr);
         return ExitCodes.Ok;
     }
 
@@ -80,6 +98,8 @@ internal static class SweepCommands
                     break;
                 }
 
+                MergeFinished(session, runner, context);
+
                 // Held chunks count too (PostgreSQL): a dead worker's chunk returns after the reclaim time.
                 var looked = watch.TryLook(session.Store.ChunksNeedingWork, out var waiting);
                 idlePolls = looked && waiting == 0 && runner.ActiveChunks == 0 ? idlePolls + 1 : 0;
@@ -98,6 +118,11 @@ internal static class SweepCommands
         if (storeFull || session.StoreDiskFull)
         {
             throw session.DiskFullStop();
+        }
+
+        if (!interrupted)
+        {
+            MergeFinished(session, runner, context);
         }
 
         context.Stdout.WriteLine(interrupted
@@ -133,17 +158,38 @@ internal static class SweepCommands
         var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
         var interrupted = false;
         var storeFull = false;
-        using (new WorkerPool(session.Store, runner, workers))
+        var pool = StageTimings.Measure("run: queue server start");
+        var workerPool = new WorkerPool(session.Store, runner, workers);
+        pool.Dispose();
+        try
         {
             session.Log.Information("Working sweep {SweepId} with {Workers} workers", sweepId, workers);
             LogReclaim(session);
+            // The catalog changes once per chunk; between its looks the bar moves with the points
+            // solved here (ChunkRunner.Solved), so progress is per point without a write per point.
+            SweepRecord? recorded = null;
+            var lastLook = long.MinValue;
+            var recordedNow = false;
             while (true)
             {
-                if (watch.TryLook(() => session.Catalog.FindSweep(sweepId)!, out var sweep))
+                if (recorded is null || recordedNow || context.Time.GetElapsedTime(lastLook) >= CatalogLookInterval)
                 {
-                    session.Progress.Update(sweep.Counts);
-                    if (sweep.Counts.Unfinished == 0 || (sweep.State == SweepState.Cancelled && sweep.Counts.Running == 0))
+                    using (StageTimings.Measure("run: progress poll"))
                     {
+                        if (watch.TryLook(() => session.Catalog.FindSweep(sweepId)!, out var sweep))
+                        {
+                            recorded = sweep;
+                            lastLook = context.Time.GetTimestamp();
+                        }
+                    }
+                }
+
+                if (recorded is not null)
+                {
+                    session.Progress.Update(WithSolvedHere(recorded.Counts, runner.Solved.Pending(sweepId)));
+                    if (recorded.Counts.Unfinished == 0 || (recorded.State == SweepState.Cancelled && recorded.Counts.Running == 0))
+                    {
+                        session.Progress.Finish();
                         break;
                     }
                 }
@@ -160,7 +206,14 @@ internal static class SweepCommands
                     break;
                 }
 
-                context.Stop.WaitHandle.WaitOne(context.PollInterval);
+                recordedNow = WaitHandle.WaitAny([context.Stop.WaitHandle, runner.ChunkRecorded], context.PollInterval) == 1;
+            }
+        }
+        finally
+        {
+            using (StageTimings.Measure("run: queue server stop"))
+            {
+                workerPool.Dispose();
             }
         }
 
@@ -177,7 +230,14 @@ internal static class SweepCommands
             return ExitCodes.Interrupted;
         }
 
+        runner.TakeFinishedSweeps();
+        if (final.Counts.Unfinished == 0)
+        {
+            ResultMerge.TryRun(final, session.Log, context.Stop);
+        }
+
         PrintSummary(session, context, final);
+        StageTimings.WriteIfEnabled(context.Stderr);
         return ExitCodeOf(final.Counts);
     }
 
@@ -188,10 +248,30 @@ internal static class SweepCommands
         : c.Solved == c.Total ? ExitCodes.SomeUnstable
         : ExitCodes.SomeFailed;
 
+    /// <summary>How often <c>run</c> reads the sweep's counts from the catalog besides right after a chunk of its own is recorded.</summary>
+    private static readonly TimeSpan CatalogLookInterval = TimeSpan.FromSeconds(2);
+
+    /// <summary>The catalog's counts with the points solved here but not yet recorded moved from running to done or failed.</summary>
+    private static SweepCounts WithSolvedHere(SweepCounts recorded, (long Done, long Unstable, long Failed) here)
+    {
+        var moved = Math.Clamp(here.Done + here.Unstable + here.Failed, 0, recorded.Running);
+        var done = Math.Clamp(here.Done, 0, moved);
+        var unstable = Math.Clamp(here.Unstable, 0, moved - done);
+        return recorded with
+        {
+            Running = recorded.Running - moved,
+            Done = recorded.Done + done,
+            Unstable = recorded.Unstable + unstable,
+            Failed = recorded.Failed + (moved - done - unstable),
+        };
+    }
+
     private static void PrintSummary(Session session, CliContext context, SweepRecord sweep)
     {
         var o = context.Stdout;
-        var took = sweep.StartedAt is { } s && sweep.FinishedAt is { } f ? $" in {ProgressDisplay.FormatDuration(f - s)}" : "";
+
+        // The time this command worked, as the bar's "elapsed" showed it (a resumed sweep's earlier runs are not in it).
+        var took = $" in {ProgressDisplay.FormatDuration(session.Progress.Elapsed)}";
         var c = sweep.Counts;
         o.WriteLine($"Sweep {sweep.SweepId} {sweep.State.ToString().ToLowerInvariant()}: {c.Total} points: {c.Done} done, {c.Unstable} unstable, {c.Failed} failed, {c.Cancelled} cancelled{took}.");
         if (c.Unstable > 0)
@@ -225,6 +305,37 @@ internal static class SweepCommands
         if (session.LogFile is not null)
         {
             o.WriteLine($"Log: {session.LogFile}");
+        }
+    }
+
+    /// <summary><c>latsweep merge SWEEP</c>: merges the sweep's part files now (also done at the end of run, resume and work).</summary>
+    public static int Merge(CommandLine line, CliContext context)
+    {
+        using var session = Session.Open(line, context);
+        var sweep = session.Sweep(line.Arguments[0]);
+        if (!Directory.Exists(sweep.OutputFolder))
+        {
+            throw new UsageException($"the results folder of sweep {sweep.SweepId} does not exist: {sweep.OutputFolder}");
+        }
+
+        if (!ResultMerge.TryRun(sweep, session.Log, context.Stop))
+        {
+            return ExitCodes.SomeFailed;
+        }
+
+        context.Stdout.WriteLine($"Sweep {sweep.SweepId}: results merged in {sweep.OutputFolder} (each table: merged-*.parquet sorted by point_id, plus the part files of chunks that finish later).");
+        return ExitCodes.Ok;
+    }
+
+    /// <summary>Merges the part files of the sweeps that finished in this process (work, run).</summary>
+    private static void MergeFinished(Session session, ChunkRunner runner, CliContext context)
+    {
+        foreach (var id in runner.TakeFinishedSweeps())
+        {
+            if (session.Catalog.FindSweep(id) is { } sweep && sweep.SweepId == id && sweep.Counts.Unfinished == 0)
+            {
+                ResultMerge.TryRun(sweep, session.Log, context.Stop);
+            }
         }
     }
 

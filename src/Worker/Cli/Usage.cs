@@ -27,6 +27,9 @@ internal static class Usage
                 stop a sweep: waiting points are not run
           latsweep resume SWEEP [--store STORE] [--workers N] [--reclaim-after SECONDS] [--queue-only]
                 queue again every point without results and work them (--queue-only: just queue)
+          latsweep merge SWEEP [--store STORE]
+                merge each table's part files into large files sorted by point (done at the
+                end of run, resume and work; safe to repeat or to interrupt)
 
         Options:
           --out DIR       output root; each sweep gets a folder DIR/<sweep id> (default ./results)

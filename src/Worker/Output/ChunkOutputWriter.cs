@@ -10,7 +10,8 @@ namespace LatticeSweep.Worker.Output;
 /// </summary>
 /// <remarks>
 /// Every table's part is first written to a temporary file; only when all of them are on disk are
-/// they renamed into place. A write that fails (disk full, folder read-only) so leaves every table
+/// they renamed into place, under a shared hold of the sweep's <see cref="OutputLock"/> (the merge
+/// takes it exclusively). A chunk whose rows were merged already keeps them (<see cref="MergedLayout"/>). A write that fails (disk full, folder read-only) so leaves every table
 /// as it was: no part of this run appears, and parts from an earlier run of the chunk are not touched.
 /// </remarks>
 public static class ChunkOutputWriter
@@ -28,8 +29,15 @@ public static class ChunkOutputWriter
         var prepared = new List<PreparedPart>();
         try
         {
-            foreach (var rows in ChunkTables.Build(schemas, outputs, outcomes))
+            IReadOnlyList<TableRows> tables;
+            using (Queue.StageTimings.Measure("rows: build"))
             {
+                tables = ChunkTables.Build(schemas, outputs, outcomes);
+            }
+
+            foreach (var rows in tables)
+            {
+                using var writing = Queue.StageTimings.Measure("parquet: write parts");
                 // A table with no rows in this chunk still gets an empty part: it carries the schema, so
                 // every listed table folder exists and a reader's glob over it works (and a stale part
                 // from an earlier run of the chunk is replaced).
@@ -48,10 +56,23 @@ public static class ChunkOutputWriter
             throw;
         }
 
+        // Shared hold of the sweep's output lock: a merge (exclusive) never swaps a table folder
+        // while parts are renamed into it.
+        using var hold = OutputLock.Shared(sweep.OutputFolder);
         for (var i = 0; i < prepared.Count; i++)
         {
             try
             {
+                using var committing = Queue.StageTimings.Measure("parquet: rename parts");
+                var tableFolder = Path.GetDirectoryName(prepared[i].FinalPath)!;
+                if (MergedLayout.MergedChunks(tableFolder).ContainsKey(chunkId))
+                {
+                    // This chunk ran before and its rows are in a merged file already (a late second
+                    // delivery, or a resume after a crash between the parts and the catalog): keep those.
+                    prepared[i].Discard();
+                    continue;
+                }
+
                 prepared[i].Commit();
             }
             catch

@@ -10,7 +10,9 @@ internal static class ChunkTables
     public static IReadOnlyList<TableRows> Build(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> outcomes)
     {
         // Points without a result row (I/O or input failures) are left out: resume runs them again.
-        var rowed = outcomes.Where(o => o.State is PointState.Done or PointState.Unstable || (o.State == PointState.Failed && o.FailureKind is { } k && k.HasResult())).ToList();
+        // In point id order, so every part is sorted by point as the merged files are (TableMerger merges sorted runs).
+        var rowed = outcomes.Where(o => o.State is PointState.Done or PointState.Unstable || (o.State == PointState.Failed && o.FailureKind is { } k && k.HasResult()))
+            .OrderBy(o => o.Point.PointId, StringComparer.Ordinal).ToList();
 
         // An unstable model has no thermal state: only its points/ row and the tables of signed
         // frequencies (modes/, dispersion/: negative = imaginary) are written; sound speeds, DOS,

@@ -42,6 +42,7 @@ internal static class ParquetPartWriter
                 await using var stream = SimulatedDiskFull.Wrap(file, temporary);
                 await WriteParquetAsync(stream, rows, metadata, ct).ConfigureAwait(false);
                 await stream.FlushAsync(ct).ConfigureAwait(false);
+                using var syncing = Queue.StageTimings.Measure("parquet: fsync");
                 file.Flush(flushToDisk: true);
             }
 
@@ -70,71 +71,11 @@ internal static class ParquetPartWriter
     /// <summary>Writes the rows as one Parquet file to <paramref name="stream"/>, with the units metadata (also the dashboard's export).</summary>
     internal static async Task WriteParquetAsync(Stream stream, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
     {
-        var fields = rows.Columns.Select(Field).ToArray();
-        var schema = new ParquetSchema(fields);
-        await using var writer = await ParquetWriter.CreateAsync(schema, stream, cancellationToken: ct).ConfigureAwait(false);
-        var meta = new Dictionary<string, string>(metadata) { [UnitsKey] = UnitsJson(rows.Columns) };
-        writer.CustomMetadata = meta;
-        using var group = writer.CreateRowGroup();
-        for (var c = 0; c < fields.Length; c++)
-        {
-            var column = c;
-            var field = fields[c];
-            switch (rows.Columns[c].Type)
-            {
-                case ColumnType.Text:
-                    await group.WriteAsync(field, rows.Rows.Select(r => (string?)r[column]).ToArray()!).ConfigureAwait(false);
-                    break;
-                case ColumnType.Double:
-                    await group.WriteAsync<double>(field, Doubles(rows, column), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                case ColumnType.Int32:
-                    await group.WriteAsync<int>(field, rows.Rows.Select(r => r[column] is null ? (int?)null : Convert.ToInt32(r[column], System.Globalization.CultureInfo.InvariantCulture)).ToArray(), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                case ColumnType.Int64:
-                    await group.WriteAsync<long>(field, rows.Rows.Select(r => r[column] is null ? (long?)null : Convert.ToInt64(r[column], System.Globalization.CultureInfo.InvariantCulture)).ToArray(), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                case ColumnType.Bool:
-                    await group.WriteAsync<bool>(field, rows.Rows.Select(r => (bool?)r[column]).ToArray(), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                case ColumnType.Timestamp:
-                    await group.WriteAsync<DateTime>(field, rows.Rows.Select(r => r[column] is DateTimeOffset t ? t.UtcDateTime : (DateTime?)null).ToArray(), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                default:
-                    throw new InvalidOperationException($"unknown column type {rows.Columns[c].Type}");
-            }
-        }
+        await using var writer = await ParquetTableWriter.CreateAsync(stream, rows.Columns, metadata, ct).ConfigureAwait(false);
+        await writer.WriteRowGroupAsync(rows, ct).ConfigureAwait(false);
     }
 
-    /// <summary>
-    /// A double column's values. NaN is refused, never written and never turned into null here: an
-    /// undefined number must arrive as null (the tables' convention), so a NaN is a defect upstream
-    /// and the convention test must see it fail. Infinities are values (an unbounded kappa).
-    /// </summary>
-    internal static double?[] Doubles(TableRows rows, int column)
-    {
-        var values = new double?[rows.Rows.Count];
-        for (var i = 0; i < values.Length; i++)
-        {
-            var cell = rows.Rows[i][column];
-            if (cell is null)
-            {
-                continue;
-            }
-
-            var v = Convert.ToDouble(cell, System.Globalization.CultureInfo.InvariantCulture);
-            if (double.IsNaN(v))
-            {
-                throw new NaNInTableException(rows.Table, rows.Columns[column].Name, i, rows.Rows[i].Length > 0 ? rows.Rows[i][0] as string : null);
-            }
-
-            values[i] = v;
-        }
-
-        return values;
-    }
-
-    private static DataField Field(ColumnDef def) => def.Type switch
+    internal static DataField Field(ColumnDef def) => def.Type switch
     {
         ColumnType.Text => new DataField<string>(def.Name, nullable: true),
         ColumnType.Double => new DataField<double?>(def.Name),

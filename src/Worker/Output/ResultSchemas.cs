@@ -6,16 +6,16 @@ using LatticeSweep.Worker.Planning;
 namespace LatticeSweep.Worker.Output;
 
 /// <summary>A point's outcome paired with one item of its result (one DOS bin, one thermal row, ...).</summary>
-internal sealed record RowOf<T>(PointOutcome Outcome, T Item);
+internal readonly record struct RowOf<T>(PointOutcome Outcome, T Item);
 
 /// <summary>One DOS value: <see cref="Site"/> is null for the total curve.</summary>
-internal sealed record DosValue(int? Site, double FrequencyThz, double Density);
+internal readonly record struct DosValue(int? Site, double FrequencyThz, double Density);
 
 /// <summary>One sound speed: direction, branch (slowest first) and speed.</summary>
-internal sealed record SoundSpeedValue(string Direction, int Branch, double SpeedMPerS);
+internal readonly record struct SoundSpeedValue(string Direction, int Branch, double SpeedMPerS);
 
 /// <summary>Thermal functions at one temperature and, when computed, the conductivity at the same temperature.</summary>
-internal sealed record ThermalValue(ThermalRow Thermal, ConductivityRow? Conductivity);
+internal readonly record struct ThermalValue(ThermalRow Thermal, ConductivityRow? Conductivity);
 
 /// <summary>
 /// Every result table's columns, names carrying their units. Each table starts with
@@ -114,15 +114,39 @@ internal sealed class ResultSchemas
     public static string AxisColumnName(AxisInfo axis, ISet<string> reserved) =>
         reserved.Contains(axis.ColumnName) ? "axis_" + axis.ColumnName : axis.ColumnName;
 
+    // One overload per value type, so each column collects a typed array without boxing a cell
+    // (see TableColumn); the object overload takes anything else (converted once per column).
     private static TableColumn<T> C<T>(string name, ColumnType type, string unit, string description, Func<T, object?> get) =>
-        new(new ColumnDef(name, type, unit, description), get);
+        new TableColumn<T, object?>(new ColumnDef(name, type, unit, description), get);
+
+    private static TableColumn<T> C<T>(string name, ColumnType type, string unit, string description, Func<T, double?> get) =>
+        new TableColumn<T, double?>(new ColumnDef(name, type, unit, description), get);
+
+    private static TableColumn<T> C<T>(string name, ColumnType type, string unit, string description, Func<T, int?> get) =>
+        new TableColumn<T, int?>(new ColumnDef(name, type, unit, description), get);
+
+    private static TableColumn<T> C<T>(string name, ColumnType type, string unit, string description, Func<T, long?> get) =>
+        new TableColumn<T, long?>(new ColumnDef(name, type, unit, description), get);
+
+    private static TableColumn<T> C<T>(string name, ColumnType type, string unit, string description, Func<T, bool?> get) =>
+        new TableColumn<T, bool?>(new ColumnDef(name, type, unit, description), get);
+
+    private static TableColumn<T> C<T>(string name, ColumnType type, string unit, string description, Func<T, string?> get) =>
+        new TableColumn<T, string?>(new ColumnDef(name, type, unit, description), get);
+
+    private static TableColumn<T> C<T>(string name, ColumnType type, string unit, string description, Func<T, DateTimeOffset> get) =>
+        new TableColumn<T, DateTimeOffset>(new ColumnDef(name, type, unit, description), get);
+
+    /// <summary>A column of the point (its id, a swept parameter): computed once per point, repeated on each of its rows.</summary>
+    private static TableColumn<T> P<T, TValue>(string name, ColumnType type, string unit, string description, Func<T, PointOutcome> outcome, Func<PointOutcome, TValue> get) =>
+        new PointColumn<T, TValue>(new ColumnDef(name, type, unit, description), outcome, get);
 
     private static TableSpec<RowOf<T>> Spec<T>(string name, IReadOnlyList<AxisInfo> axes, params TableColumn<RowOf<T>>[] own) =>
         new(name, [.. PointHead<RowOf<T>>(axes, includeRunColumns: false, r => r.Outcome, own.Select(c => c.Def.Name)), .. own]);
 
     private static IEnumerable<TableColumn<T>> PointHead<T>(IReadOnlyList<AxisInfo> axes, bool includeRunColumns, Func<T, PointOutcome> outcome, IEnumerable<string>? ownNames = null)
     {
-        yield return C<T>("point_id", ColumnType.Text, "", "stable id of the point (a hash of its parameters)", r => outcome(r).Point.PointId);
+        yield return P<T, string>("point_id", ColumnType.Text, "", "stable id of the point (a hash of its parameters)", outcome, o => o.Point.PointId);
         // A swept parameter keeps one column name in every table: names taken by the points
         // table's own columns are reserved everywhere (a swept `sample.kind` becomes `axis_sample_kind`).
         var reserved = new HashSet<string>(StringComparer.Ordinal) { "point_id" };
@@ -155,8 +179,8 @@ internal sealed class ResultSchemas
                 _ => ColumnType.Text,
             };
             var key = axis.ColumnName;
-            yield return C<T>(name, type, axis.Unit, $"swept parameter {axis.Path}",
-                r => outcome(r).Point.Parameters.TryGetValue(key, out var v) ? AxisValue(v, type) : null);
+            yield return P<T, object?>(name, type, axis.Unit, $"swept parameter {axis.Path}", outcome,
+                o => o.Point.Parameters.TryGetValue(key, out var v) ? AxisValue(v, type) : null);
         }
     }
 

@@ -1,7 +1,83 @@
 namespace LatticeSweep.Worker.Output;
 
-/// <summary>A column and how to take its value from one row's source.</summary>
-internal sealed record TableColumn<TRow>(ColumnDef Def, Func<TRow, object?> Get);
+/// <summary>
+/// A column and how to take its value from one row's source. Values are collected column by column
+/// into typed arrays (<see cref="ColumnValues"/>), never boxed per cell: a chunk of small points
+/// writes hundreds of thousands of cells, and per-cell boxing was a measurable share of the queue's
+/// overhead (bench/README.md, case (e)).
+/// </summary>
+internal abstract class TableColumn<TRow>
+{
+    protected TableColumn(ColumnDef def)
+    {
+        Def = def;
+    }
+
+    public ColumnDef Def { get; }
+
+    /// <summary>This column's values for <paramref name="rows"/>, in the Parquet type of <see cref="ColumnDef.Type"/>.</summary>
+    public abstract Array Collect(IReadOnlyList<TRow> rows);
+}
+
+/// <summary>A column whose value is computed from each row.</summary>
+internal sealed class TableColumn<TRow, TValue> : TableColumn<TRow>
+{
+    private readonly Func<TRow, TValue> _get;
+
+    public TableColumn(ColumnDef def, Func<TRow, TValue> get)
+        : base(def)
+    {
+        _get = get;
+    }
+
+    public override Array Collect(IReadOnlyList<TRow> rows)
+    {
+        var values = new TValue[rows.Count];
+        for (var i = 0; i < values.Length; i++)
+        {
+            values[i] = _get(rows[i]);
+        }
+
+        return ColumnValues.As(Def, values);
+    }
+}
+
+/// <summary>
+/// A column whose value is the same for every row of one point (its id, its swept parameters): it
+/// is computed once per point and repeated, since long tables hold hundreds of rows per point.
+/// </summary>
+internal sealed class PointColumn<TRow, TValue> : TableColumn<TRow>
+{
+    private readonly Func<TRow, PointOutcome> _outcome;
+    private readonly Func<PointOutcome, TValue> _get;
+
+    public PointColumn(ColumnDef def, Func<TRow, PointOutcome> outcome, Func<PointOutcome, TValue> get)
+        : base(def)
+    {
+        _outcome = outcome;
+        _get = get;
+    }
+
+    public override Array Collect(IReadOnlyList<TRow> rows)
+    {
+        var values = new TValue[rows.Count];
+        PointOutcome? last = null;
+        TValue value = default!;
+        for (var i = 0; i < values.Length; i++)
+        {
+            var o = _outcome(rows[i]);
+            if (!ReferenceEquals(o, last))
+            {
+                last = o;
+                value = _get(o);
+            }
+
+            values[i] = value;
+        }
+
+        return ColumnValues.As(Def, values);
+    }
+}
 
 /// <summary>A result table: its name (the folder) and its columns in order.</summary>
 internal sealed record TableSpec<TRow>(string Name, IReadOnlyList<TableColumn<TRow>> Columns)
@@ -10,21 +86,23 @@ internal sealed record TableSpec<TRow>(string Name, IReadOnlyList<TableColumn<TR
 
     public TableRows Rows(IEnumerable<TRow> sources)
     {
-        var rows = new List<object?[]>();
-        foreach (var source in sources)
+        var rows = sources as IReadOnlyList<TRow> ?? sources.ToList();
+        var values = new Array[Columns.Count];
+        for (var c = 0; c < values.Length; c++)
         {
-            var row = new object?[Columns.Count];
-            for (var i = 0; i < row.Length; i++)
-            {
-                row[i] = Columns[i].Get(source);
-            }
-
-            rows.Add(row);
+            values[c] = Columns[c].Collect(rows);
         }
 
-        return new TableRows(Name, Defs, rows);
+        return new TableRows(Name, Defs, rows.Count, values);
     }
 }
 
-/// <summary>The rows of one table for one chunk, ready to write.</summary>
-internal sealed record TableRows(string Table, IReadOnlyList<ColumnDef> Columns, IReadOnlyList<object?[]> Rows);
+/// <summary>
+/// The rows of one table for one chunk (or one merged file), column by column: <see cref="Values"/>[c]
+/// is the typed array of column c (see <see cref="ColumnValues"/>), each <see cref="RowCount"/> long.
+/// </summary>
+internal sealed record TableRows(string Table, IReadOnlyList<ColumnDef> Columns, int RowCount, IReadOnlyList<Array> Values)
+{
+    /// <summary>The value of one cell (boxed; for tests and small reads, not for writing).</summary>
+    public object? Cell(int row, int column) => Values[column].GetValue(row);
+}

@@ -117,18 +117,27 @@ internal static class SweepPlanner
         var badCombinations = new List<string>();
         var badCount = 0;
         duplicates = 0;
-        foreach (var values in SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes))
-        {
-            var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
-            for (var j = 0; j < columns.Count; j++)
+        // Each point's spec, checks and id hash are independent: computed on every core, in plan order.
+        var computed = SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes)
+            .AsParallel().AsOrdered()
+            .Select(values =>
             {
-                builder[columns[j].Column] = values[j];
-            }
+                var builder = ImmutableSortedDictionary.CreateBuilder<string, object>(StringComparer.Ordinal);
+                for (var j = 0; j < columns.Count; j++)
+                {
+                    builder[columns[j].Column] = values[j];
+                }
 
-            var parameters = builder.ToImmutable();
-            var provisional = new PlannedPoint("", points.Count, parameters);
-            var spec = PointBinder.Apply(template, provisional);
-            if (SpecChecks.Check(spec) is { } wrong)
+                var parameters = builder.ToImmutable();
+                var spec = PointBinder.Apply(template, new PlannedPoint("", 0, parameters));
+                return SpecChecks.Check(spec) is { } wrong
+                    ? (Parameters: parameters, Wrong: wrong, Id: "")
+                    : (Parameters: parameters, Wrong: (string?)null, Id: PointIdentity.PointId(CanonicalSpec.Write(spec, options),
+                        parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value))));
+            });
+        foreach (var (parameters, wrong, id) in computed)
+        {
+            if (wrong is not null)
             {
                 badCount++;
                 if (badCombinations.Count < MaxPointProblemsShown)
@@ -139,15 +148,13 @@ internal static class SweepPlanner
                 continue;
             }
 
-            var id = PointIdentity.PointId(CanonicalSpec.Write(spec, options),
-                parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value)));
             if (!seen.Add(id))
             {
                 duplicates++;
                 continue;
             }
 
-            points.Add(provisional with { PointId = id });
+            points.Add(new PlannedPoint(id, points.Count, parameters));
         }
 
         foreach (var message in badCombinations)

@@ -5,20 +5,37 @@ namespace LatticeSweep.Worker.Queue;
 
 /// <summary>
 /// Groups a plan's points, in plan order, into queue chunks of about <see cref="TargetSeconds"/> of
-/// estimated work each. The queue itself manages about 150 jobs/s on the SQLite store, so one job
-/// per point would dominate small points; a cap keeps one chunk far below the store's
-/// invisibility timeout and keeps progress visible.
+/// estimated work each. Every chunk costs a queue job, a catalog transaction and one part file
+/// per table, so small points go many to a chunk: each point counts its Engine estimate plus
+/// <see cref="BatchSecondsPerPoint"/> (rows and Parquet, measured in bench/README.md), up to
+/// <see cref="MaxPointsPerChunk"/> points and <see cref="MaxOutputBytesPerChunk"/> of output
+/// (a chunk's rows are held in memory until its parts are written).
 /// </summary>
 public sealed record ChunkPlanner(double TargetSeconds, int MaxPointsPerChunk)
 {
-    public static ChunkPlanner Default { get; } = new(TargetSeconds: 2.0, MaxPointsPerChunk: 64);
+    /// <summary>Largest cap on points per chunk (and so on <see cref="MaxPointsVariable"/>).</summary>
+    public const int MaxPointsLimit = 4096;
+
+    public static ChunkPlanner Default { get; } = new(TargetSeconds: 2.0, MaxPointsPerChunk: MaxPointsLimit);
+
+    /// <summary>Batch-side cost of a point besides the Engine (row building, Parquet, catalog), added to each estimate.</summary>
+    public double BatchSecondsPerPoint { get; init; } = 1e-4;
+
+    /// <summary>Uncompressed output one chunk may hold in memory before its parts are written.</summary>
+    public double MaxOutputBytesPerChunk { get; init; } = 32 * 1024 * 1024;
+
+    /// <summary>This planner with the point cap lowered so a chunk of points writing <paramref name="bytesPerPoint"/> each stays within <see cref="MaxOutputBytesPerChunk"/>.</summary>
+    public ChunkPlanner ForOutputPerPoint(double bytesPerPoint) =>
+        double.IsFinite(bytesPerPoint) && bytesPerPoint > 0
+            ? this with { MaxPointsPerChunk = (int)Math.Clamp(MaxOutputBytesPerChunk / bytesPerPoint, 1, MaxPointsPerChunk) }
+            : this;
 
     /// <summary>Environment variable that lowers the cap on points per chunk (a tuning knob, also used by tests).</summary>
     public const string MaxPointsVariable = "LATSWEEP_MAX_CHUNK_POINTS";
 
-    /// <summary>The default planner, with the cap from <see cref="MaxPointsVariable"/> when it is set to a whole number from 1 to 64.</summary>
+    /// <summary>The default planner, with the cap from <see cref="MaxPointsVariable"/> when it is set to a whole number from 1 to <see cref="MaxPointsLimit"/>.</summary>
     public static ChunkPlanner FromEnvironment() =>
-        int.TryParse(Environment.GetEnvironmentVariable(MaxPointsVariable), NumberStyles.Integer, CultureInfo.InvariantCulture, out var cap) && cap is >= 1 and <= 64
+        int.TryParse(Environment.GetEnvironmentVariable(MaxPointsVariable), NumberStyles.Integer, CultureInfo.InvariantCulture, out var cap) && cap is >= 1 and <= MaxPointsLimit
             ? Default with { MaxPointsPerChunk = cap }
             : Default;
 
@@ -40,6 +57,8 @@ public sealed record ChunkPlanner(double TargetSeconds, int MaxPointsPerChunk)
             {
                 estimate = TargetSeconds;
             }
+
+            estimate += BatchSecondsPerPoint;
 
             if (inChunk > 0 && (inChunk >= MaxPointsPerChunk || seconds + estimate > TargetSeconds))
             {

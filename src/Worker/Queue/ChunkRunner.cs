@@ -58,6 +58,28 @@ public sealed class ChunkRunner
     /// <summary>Points solved in this process so far whose model is unstable.</summary>
     public long UnstablePoints => Interlocked.Read(ref _unstablePoints);
 
+    /// <summary>Points solved here whose chunk is not recorded yet (progress per point, see <see cref="SolvedPoints"/>).</summary>
+    public SolvedPoints Solved { get; } = new();
+
+    private readonly AutoResetEvent _chunkRecorded = new(false);
+
+    private readonly System.Collections.Concurrent.ConcurrentQueue<string> _finishedSweeps = new();
+
+    /// <summary>Takes the ids of sweeps that finished in this process since the last call (their part files are then merged).</summary>
+    public IReadOnlyList<string> TakeFinishedSweeps()
+    {
+        var ids = new List<string>();
+        while (_finishedSweeps.TryDequeue(out var id))
+        {
+            ids.Add(id);
+        }
+
+        return ids;
+    }
+
+    /// <summary>Set each time this process records a chunk in the catalog (so <c>run</c> looks at once, not at its next poll).</summary>
+    public WaitHandle ChunkRecorded => _chunkRecorded;
+
     public Task RunAsync(string sweepId, string chunkId, CancellationToken ct) => RunAsync(sweepId, chunkId, lastAttempt: false, ct);
 
     /// <summary>
@@ -108,7 +130,12 @@ public sealed class ChunkRunner
 
     private async Task RunChunkAsync(string sweepId, string chunkId, Action<ChunkClaim> claimed, CancellationToken ct)
     {
-        var claim = _catalog.BeginChunk(sweepId, chunkId, _workerName);
+        ChunkClaim claim;
+        using (StageTimings.Measure("catalog: begin chunk"))
+        {
+            claim = _catalog.BeginChunk(sweepId, chunkId, _workerName);
+        }
+
         claimed(claim);
         switch (claim.Decision)
         {
@@ -123,18 +150,47 @@ public sealed class ChunkRunner
                 return;
         }
 
-        var sweep = _catalog.FindSweep(sweepId)!;
+        SweepRecord sweep;
+        using (StageTimings.Measure("catalog: find sweep"))
+        {
+            sweep = _catalog.FindSweep(sweepId)!;
+        }
+
         if (claim.SweepStarted)
         {
             _log.Information("Sweep {SweepId} started", sweepId);
             WriteManifest(sweepId);
         }
 
-        var outcomes = await SolveAllAsync(sweep, chunkId, claim, ct).ConfigureAwait(false);
-        outcomes = await WritePartsAsync(sweep, chunkId, outcomes, ct).ConfigureAwait(false);
+        var solving = new List<PointOutcome>(claim.Points.Length);
+        try
+        {
+            await SolveAllAsync(sweep, chunkId, claim, solving, ct).ConfigureAwait(false);
+        }
+        catch
+        {
+            ForgetSolved(sweepId, solving);
+            throw;
+        }
 
-        var completion = _catalog.CompleteChunk(sweepId, chunkId,
-            [.. outcomes.Select(o => new PointCompletion(o.Point.PointId, o.State, o.FailureKind, o.Error, o.StartedAt, o.FinishedAt, o.DurationSeconds))]);
+        List<PointOutcome> outcomes;
+        ChunkCompletion completion;
+        try
+        {
+            outcomes = await WritePartsAsync(sweep, chunkId, solving, ct).ConfigureAwait(false);
+
+            using (StageTimings.Measure("catalog: complete chunk"))
+            {
+                completion = _catalog.CompleteChunk(sweepId, chunkId,
+                    [.. outcomes.Select(o => new PointCompletion(o.Point.PointId, o.State, o.FailureKind, o.Error, o.StartedAt, o.FinishedAt, o.DurationSeconds))]);
+            }
+        }
+        finally
+        {
+            // Recorded in the catalog now (or to be solved again): the catalog's counts take over.
+            ForgetSolved(sweepId, solving);
+            _chunkRecorded.Set();
+        }
 
         foreach (var unstable in outcomes.Where(o => o.State == PointState.Unstable))
         {
@@ -155,10 +211,11 @@ public sealed class ChunkRunner
             _log.Information("Sweep {SweepId} finished {State}: {Done} done, {Unstable} unstable, {Failed} failed of {Total}; results in {OutputFolder}",
                 sweepId, completion.State.ToString().ToLowerInvariant(), completion.Counts.Done, completion.Counts.Unstable, completion.Counts.Failed, completion.Counts.Total, sweep.OutputFolder);
             WriteManifest(sweepId);
+            _finishedSweeps.Enqueue(sweepId);
         }
     }
 
-    private async Task<List<PointOutcome>> SolveAllAsync(SweepRecord sweep, string chunkId, ChunkClaim claim, CancellationToken ct)
+    private async Task SolveAllAsync(SweepRecord sweep, string chunkId, ChunkClaim claim, List<PointOutcome> outcomes, CancellationToken ct)
     {
         SweepPlan? plan = null;
         string? planProblem = null;
@@ -174,7 +231,6 @@ public sealed class ChunkRunner
 
         var index = plan is null ? null : PointIndex.GetValue(plan, p => p.Points.ToDictionary(x => x.PointId, StringComparer.Ordinal));
         var catalogPoints = plan is null ? _catalog.GetChunkPoints(sweep.SweepId, chunkId).ToDictionary(p => p.PointId, StringComparer.Ordinal) : null;
-        var outcomes = new List<PointOutcome>(claim.Points.Length);
         foreach (var claimed in claim.Points)
         {
             ct.ThrowIfCancellationRequested();
@@ -190,26 +246,27 @@ public sealed class ChunkRunner
             {
                 var record = catalogPoints?.GetValueOrDefault(claimed.PointId);
                 point ??= new PlannedPoint(claimed.PointId, record?.Index ?? 0, record?.Parameters ?? System.Collections.Immutable.ImmutableSortedDictionary<string, object>.Empty);
-                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Input,
+                Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Input,
                     planProblem ?? $"point {claimed.PointId} is not in the plan loaded from {sweep.SourcePath}", null));
                 continue;
             }
 
             try
             {
+                using var solving = StageTimings.Measure("solve points");
                 var result = await _retry.RunAsync(
                     () => Task.FromResult(_solver.Solve(plan, point, ct)),
                     _time,
                     (retry, delay, ex) => _log.Warning("Point {PointId} of sweep {SweepId}: I/O fault, retry {Retry} of {Retries} in {DelaySeconds} s: {Error}",
                         point.PointId, sweep.SweepId, retry, _retry.Retries, delay.TotalSeconds, ex.Message),
                     ct).ConfigureAwait(false);
-                outcomes.Add(result.Summary.Stable
+                Add(outcomes, sweep.SweepId, result.Summary.Stable
                     ? Outcome(point, claimed, chunkId, started, clock, PointState.Done, null, null, result)
                     : Outcome(point, claimed, chunkId, started, clock, PointState.Unstable, null, Instability.Describe(result.Summary), result));
             }
             catch (ModelException ex)
             {
-                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Model, ex.Message, null));
+                Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Model, ex.Message, null));
             }
             catch (OperationCanceledException) when (ct.IsCancellationRequested)
             {
@@ -218,16 +275,24 @@ public sealed class ChunkRunner
             catch (Exception ex) when (!RetryPolicy.IsTransient(ex))
             {
                 // Not the user's input and not transient: record it against the point, do not retry.
-                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Engine, $"{ex.GetType().Name}: {ex.Message}", null));
+                Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Engine, $"{ex.GetType().Name}: {ex.Message}", null));
             }
             catch (Exception ex)
             {
-                outcomes.Add(Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Io, $"I/O fault after {_retry.Retries} retries: {ex.Message}", null));
+                Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Io, $"I/O fault after {_retry.Retries} retries: {ex.Message}", null));
             }
         }
-
-        return outcomes;
     }
+
+    /// <summary>Adds a point's outcome and counts it for the progress display.</summary>
+    private void Add(List<PointOutcome> outcomes, string sweepId, PointOutcome outcome)
+    {
+        outcomes.Add(outcome);
+        Solved.Solved(sweepId, outcome.State);
+    }
+
+    private void ForgetSolved(string sweepId, IReadOnlyList<PointOutcome> outcomes) =>
+        Solved.Recorded(sweepId, outcomes.Select(o => o.State));
 
     private async Task<List<PointOutcome>> WritePartsAsync(SweepRecord sweep, string chunkId, List<PointOutcome> outcomes, CancellationToken ct)
     {

@@ -47,7 +47,12 @@ public sealed class SweepSubmitter
 
         var folder = SweepFolder.For(outputRoot, sweepId);
         OutputFolderCheck.EnsureWritable(folder);
-        var assigned = _chunks.Assign(plan.Points, p => _solver.EstimateSeconds(plan, p));
+        IReadOnlyList<(PlannedPoint Point, string ChunkId)> assigned;
+        using (StageTimings.Measure("submit: estimate and chunk"))
+        {
+            assigned = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).Assign(plan.Points, p => _solver.EstimateSeconds(plan, p));
+        }
+
         var sweep = new NewSweep
         {
             SweepId = sweepId,
@@ -62,14 +67,24 @@ public sealed class SweepSubmitter
             EngineVersion = _solver.EngineVersion,
             Points = [.. assigned.Select(a => new NewPoint(a.Point.PointId, a.Point.Index, a.ChunkId, a.Point.Parameters))],
         };
-        if (!_store.Catalog.Register(sweep))
+        bool registered;
+        using (StageTimings.Measure("submit: register"))
+        {
+            registered = _store.Catalog.Register(sweep);
+        }
+
+        if (!registered)
         {
             // Registered by another process in the meantime.
             return Resume(_store.Catalog.FindSweep(sweepId)!);
         }
 
         var chunkIds = assigned.Select(a => a.ChunkId).Distinct(StringComparer.Ordinal).ToList();
-        Enqueue(sweepId, chunkIds);
+        using (StageTimings.Measure("submit: enqueue"))
+        {
+            Enqueue(sweepId, chunkIds);
+        }
+
         var record = _store.Catalog.FindSweep(sweepId)!;
         SweepManifest.Write(record, _time.GetUtcNow());
         _log.Information("Sweep {SweepId} planned: {PointCount} points in {ChunkCount} chunks, results to {OutputFolder}",
@@ -89,6 +104,32 @@ public sealed class SweepSubmitter
         _log.Information("Sweep {SweepId}: {ChunkCount} chunks re-queued ({Unfinished} points without results)",
             sweep.SweepId, chunkIds.Count, record.Counts.Unfinished);
         return new SubmitResult(record, Created: false, chunkIds.Count);
+    }
+
+    /// <summary>
+    /// The most output (uncompressed bytes, as <c>check</c> estimates it) of a few points spread over
+    /// the plan: it caps the points per chunk, whose rows are held in memory until written.
+    /// </summary>
+    private static double OutputBytesPerPoint(SweepPlan plan)
+    {
+        var points = plan.Points;
+        var most = 0.0;
+        const int samples = 16;
+        for (var i = 0; i < Math.Min(samples, points.Length); i++)
+        {
+            var point = points[(int)((long)i * (points.Length - 1) / Math.Max(1, Math.Min(samples, points.Length) - 1))];
+            try
+            {
+                var request = PointBinder.Bind(plan, point);
+                most = Math.Max(most, Commands.CheckCommand.DiskBytes(plan.Outputs, request.Model, request.Sample, request.Options));
+            }
+            catch (Engine.Errors.ModelException)
+            {
+                // Such a point fails fast and writes one row.
+            }
+        }
+
+        return most;
     }
 
     private void Enqueue(string sweepId, IReadOnlyList<string> chunkIds)

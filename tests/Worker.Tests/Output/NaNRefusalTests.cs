@@ -10,10 +10,11 @@ public sealed class NaNRefusalTests : IDisposable
 
     public void Dispose() => _dir.Dispose();
 
-    private static TableRows Rows(params object?[] values) => new(
+    private static TableRows Rows(params double?[] values) => new(
         "points",
         [new ColumnDef("point_id", ColumnType.Text, "", "id"), new ColumnDef("x_thz", ColumnType.Double, "THz", "a number")],
-        [.. values.Select((v, i) => new object?[] { $"p{i}", v })]);
+        values.Length,
+        [values.Select((_, i) => (string?)$"p{i}").ToArray(), values]);
 
     [Fact]
     public async Task A_NaN_cell_is_refused_with_table_column_and_point_and_no_part_appears()

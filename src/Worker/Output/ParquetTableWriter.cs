@@ -1,0 +1,98 @@
+using Parquet;
+using Parquet.Schema;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// One Parquet file of a result table being written: the schema from the table's columns, the file
+/// metadata (with every column's unit), then row groups of column arrays (<see cref="ColumnValues"/>).
+/// Part files have one row group; merged files several (the merge).
+/// </summary>
+internal sealed class ParquetTableWriter : IAsyncDisposable
+{
+    private readonly ParquetWriter _writer;
+    private readonly DataField[] _fields;
+    private readonly IReadOnlyList<ColumnDef> _columns;
+
+    private ParquetTableWriter(ParquetWriter writer, DataField[] fields, IReadOnlyList<ColumnDef> columns)
+    {
+        _writer = writer;
+        _fields = fields;
+        _columns = columns;
+    }
+
+    public static async Task<ParquetTableWriter> CreateAsync(Stream stream, IReadOnlyList<ColumnDef> columns, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(columns);
+        var fields = columns.Select(ParquetPartWriter.Field).ToArray();
+        var writer = await ParquetWriter.CreateAsync(new ParquetSchema(fields), stream, cancellationToken: ct).ConfigureAwait(false);
+        writer.CustomMetadata = new Dictionary<string, string>(metadata) { [ParquetPartWriter.UnitsKey] = ParquetPartWriter.UnitsJson(columns) };
+        return new ParquetTableWriter(writer, fields, columns);
+    }
+
+    /// <summary>Writes <paramref name="rows"/> as one row group; its columns must be the file's.</summary>
+    public async Task WriteRowGroupAsync(TableRows rows, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(rows);
+        if (rows.Columns.Count != _columns.Count)
+        {
+            throw new InvalidOperationException($"table {rows.Table}: {rows.Columns.Count} columns for a file of {_columns.Count}");
+        }
+
+        using var group = _writer.CreateRowGroup();
+        for (var c = 0; c < _fields.Length; c++)
+        {
+            var def = _columns[c];
+            var field = _fields[c];
+            var values = rows.Values[c];
+            if (values.Length != rows.RowCount || rows.Columns[c].Name != def.Name)
+            {
+                throw new InvalidOperationException($"table {rows.Table}, column {def.Name}: {values.Length} values for {rows.RowCount} rows (column {rows.Columns[c].Name})");
+            }
+
+            switch (values)
+            {
+                case string?[] text when def.Type == ColumnType.Text:
+                    await group.WriteAsync(field, text!).ConfigureAwait(false);
+                    break;
+                case double?[] d when def.Type == ColumnType.Double:
+                    RefuseNaN(rows, c, d);
+                    await group.WriteAsync<double>(field, d, cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                case int?[] i when def.Type == ColumnType.Int32:
+                    await group.WriteAsync<int>(field, i, cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                case long?[] l when def.Type == ColumnType.Int64:
+                    await group.WriteAsync<long>(field, l, cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                case bool?[] b when def.Type == ColumnType.Bool:
+                    await group.WriteAsync<bool>(field, b, cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                case DateTime?[] t when def.Type == ColumnType.Timestamp:
+                    await group.WriteAsync<DateTime>(field, t, cancellationToken: ct).ConfigureAwait(false);
+                    break;
+                default:
+                    throw new InvalidOperationException($"table {rows.Table}, column {def.Name}: {values.GetType().Name} values for a {def.Type} column");
+            }
+        }
+    }
+
+    /// <summary>
+    /// NaN is refused, never written and never turned into null here: an undefined number must
+    /// arrive as null (the tables' convention), so a NaN is a defect upstream and the convention
+    /// test must see it fail. Infinities are values (an unbounded kappa).
+    /// </summary>
+    private static void RefuseNaN(TableRows rows, int column, double?[] values)
+    {
+        for (var i = 0; i < values.Length; i++)
+        {
+            if (values[i] is { } v && double.IsNaN(v))
+            {
+                var pointId = rows.Values.Count > 0 && rows.Values[0] is string?[] ids ? ids[i] : null;
+                throw new NaNInTableException(rows.Table, rows.Columns[column].Name, i, pointId);
+            }
+        }
+    }
+
+    public ValueTask DisposeAsync() => _writer.DisposeAsync();
+}

@@ -1,0 +1,359 @@
+using System.Globalization;
+using System.Text;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// Merges a table folder's part files into files a data tool scans well (<see cref="MergedLayout"/>):
+/// at least ~64 MiB each, rows sorted by point id, row groups of <see cref="MergedLayout.RowGroupRows"/>.
+/// </summary>
+/// <remarks>
+/// Crash safety: the new files are written into a staging folder under <c>&lt;sweep&gt;/.merging/</c>
+/// while the table folder stays as it was; the staging folder is then exchanged with the table
+/// folder in one step (<see cref="DirectorySwap"/>) and the old content deleted. Killed at any
+/// moment, the table folder holds either the old files or the new ones, never both, and the next
+/// merge clears what was left in <c>.merging/</c>. The whole merge holds the sweep's output lock
+/// (<see cref="OutputLock"/>) exclusively, so no chunk commits a part meanwhile; a chunk that runs
+/// again after its rows were merged keeps the merged rows and drops its new part
+/// (<see cref="ChunkOutputWriter"/>), so every point stays in the table exactly once.
+/// Idempotent: a table without part files is left alone.
+/// </remarks>
+internal static class TableMerger
+{
+    public const string StagingFolderName = ".merging";
+
+    public sealed record Outcome(string Table, int PartsMerged, int FilesWritten, long Rows);
+
+    /// <summary>Merges every listed table of the sweep folder.</summary>
+    public static async Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, CancellationToken ct)
+    {
+        var outcomes = new List<Outcome>();
+        using (OutputLock.Exclusive(sweepFolder))
+        {
+            foreach (var table in tables)
+            {
+                outcomes.Add(await MergeLockedAsync(sweepFolder, table, ct).ConfigureAwait(false));
+            }
+
+            // Every table done: the empty staging folder goes too, so the sweep folder holds tables only.
+            RemoveIfEmpty(Path.Combine(sweepFolder, StagingFolderName));
+        }
+
+        return outcomes;
+    }
+
+    private static void RemoveIfEmpty(string folder)
+    {
+        try
+        {
+            if (Directory.Exists(folder) && !Directory.EnumerateFileSystemEntries(folder).Any())
+            {
+                Directory.Delete(folder);
+            }
+        }
+        catch (IOException)
+        {
+            // Left for the next merge, which clears .merging/ first; readers skip dot-folders.
+        }
+    }
+
+    private static async Task<Outcome> MergeLockedAsync(string sweepFolder, string table, CancellationToken ct)
+    {
+        var live = SweepFolder.Table(sweepFolder, table);
+        Recover(sweepFolder, table, live);
+        if (!Directory.Exists(live))
+        {
+            return new Outcome(table, 0, 0, 0);
+        }
+
+        var files = Directory.EnumerateFiles(live, "*.parquet")
+            .Select(f => new FileInfo(f))
+            .Where(f => !f.Name.StartsWith('.'))
+            .OrderBy(f => f.Name, StringComparer.Ordinal)
+            .ToList();
+        var parts = files.Where(f => MergedLayout.ChunkOfPart(f.Name) is not null).ToList();
+        if (parts.Count == 0)
+        {
+            return new Outcome(table, 0, 0, 0);
+        }
+
+        var merged = files.Where(f => f.Name.StartsWith(MergedLayout.MergedPrefix, StringComparison.Ordinal)).ToList();
+        var kept = merged.Where(f => f.Length >= MergedLayout.TargetFileBytes).ToList();
+        var inputs = merged.Except(kept).Concat(parts).ToList();
+        var list = MergedLayout.MergedChunks(live);
+        var nextNumber = merged.Select(f => int.TryParse(f.Name[MergedLayout.MergedPrefix.Length..^".parquet".Length], NumberStyles.None, CultureInfo.InvariantCulture, out var n) ? n + 1 : 0)
+            .DefaultIfEmpty(0).Max();
+
+        var id = Guid.NewGuid().ToString("N");
+        var stagingRoot = Path.Combine(sweepFolder, StagingFolderName);
+        var staging = Path.Combine(stagingRoot, $"{table}-{id}");
+        Directory.CreateDirectory(staging);
+        try
+        {
+            var chunkFiles = new List<(string Chunk, string File)>();
+            foreach (var k in kept)
+            {
+                // Files already big enough stay as they are; the staging folder gets a second name for them.
+                FileLinks.LinkOrCopy(k.FullName, Path.Combine(staging, k.Name));
+                chunkFiles.AddRange(list.Where(e => e.Value == k.Name).Select(e => (e.Key, e.Value)));
+            }
+
+            var batch = new List<(ParquetTableFile.Contents Contents, IReadOnlyList<string> Chunks)>();
+            long batchBytes = 0;
+            long rows = 0;
+            var written = 0;
+            foreach (var input in inputs)
+            {
+                var contents = await ParquetTableFile.ReadAsync(input.FullName, ct).ConfigureAwait(false);
+                if (batch.Count > 0 && !SameColumns(batch[0].Contents.Rows, contents.Rows))
+                {
+                    rows += await FlushAsync(batch, staging, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, ct).ConfigureAwait(false);
+                    written++;
+                    batchBytes = 0;
+                }
+
+                var chunks = MergedLayout.ChunkOfPart(input.Name) is { } chunk
+                    ? [chunk]
+                    : (IReadOnlyList<string>)(contents.Metadata.GetValueOrDefault(MergedLayout.ChunksKey, "").Split(',', StringSplitOptions.RemoveEmptyEntries));
+                batch.Add((contents, chunks));
+                batchBytes += input.Length;
+                if (batchBytes >= MergedLayout.TargetFileBytes)
+                {
+                    rows += await FlushAsync(batch, staging, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, ct).ConfigureAwait(false);
+                    written++;
+                    batchBytes = 0;
+                }
+            }
+
+            if (batch.Count > 0)
+            {
+                rows += await FlushAsync(batch, staging, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, ct).ConfigureAwait(false);
+                written++;
+            }
+
+            var listText = new StringBuilder();
+            foreach (var (chunk, file) in chunkFiles.OrderBy(c => c.Chunk, StringComparer.Ordinal))
+            {
+                listText.Append(chunk).Append('\t').Append(file).Append('\n');
+            }
+
+            WriteDurably(Path.Combine(staging, MergedLayout.ChunkListFileName), listText.ToString());
+            WriteDurably(Path.Combine(staging, CompleteMarker(id)), "");
+            ct.ThrowIfCancellationRequested();
+            DirectorySwap.Exchange(live, staging);
+            SimulatedSlowMerge.Pause();
+            TryDeleteFolder(staging);
+            return new Outcome(table, parts.Count, written, rows);
+        }
+        catch
+        {
+            TryDeleteFolder(staging);
+            throw;
+        }
+    }
+
+    /// <summary>Writes one merged file from the batch (then empties it): rows sorted by point id, row groups indexed in the metadata.</summary>
+    private static async Task<long> FlushAsync(List<(ParquetTableFile.Contents Contents, IReadOnlyList<string> Chunks)> batch, string staging, string fileName,
+        string table, List<(string Chunk, string File)> chunkFiles, CancellationToken ct)
+    {
+        var first = batch[0].Contents;
+        var columns = first.Rows.Columns;
+        var total = batch.Sum(b => b.Contents.Rows.RowCount);
+        var values = new Array[columns.Count];
+        for (var c = 0; c < columns.Count; c++)
+        {
+            values[c] = ParquetTableFile.Concat(columns[c].Type, batch.Select(b => b.Contents.Rows.Values[c]).ToList(), total);
+        }
+
+        var idColumn = columns.Select(c => c.Name).ToList().IndexOf("point_id");
+        var order = idColumn >= 0
+            ? MergeOrder((string?[])values[idColumn], batch.Select(b => b.Contents.Rows.RowCount).ToList())
+            : Enumerable.Range(0, total).ToArray();
+
+        var chunks = batch.SelectMany(b => b.Chunks).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToList();
+        var groups = new List<TableRows>();
+        var index = new StringBuilder();
+        for (var start = 0; start < total || (total == 0 && groups.Count == 0); start += MergedLayout.RowGroupRows)
+        {
+            var count = Math.Min(MergedLayout.RowGroupRows, total - start);
+            var slice = new Array[columns.Count];
+            for (var c = 0; c < columns.Count; c++)
+            {
+                slice[c] = Take(values[c], order, start, count);
+            }
+
+            if (idColumn >= 0 && count > 0)
+            {
+                var ids = (string?[])slice[idColumn];
+                index.Append(ids[0]).Append('\t').Append(ids[count - 1]).Append('\n');
+            }
+
+            groups.Add(new TableRows(table, columns, count, slice));
+            if (total == 0)
+            {
+                break;
+            }
+        }
+
+        var metadata = first.Metadata
+            .Where(kv => kv.Key != "latticesweep.chunk_id" && kv.Key != MergedLayout.ChunksKey && kv.Key != MergedLayout.RowGroupsKey && kv.Key != ParquetPartWriter.UnitsKey)
+            .ToDictionary(kv => kv.Key, kv => kv.Value);
+        metadata[MergedLayout.ChunksKey] = string.Join(',', chunks);
+        metadata[MergedLayout.RowGroupsKey] = index.ToString();
+
+        var path = Path.Combine(staging, fileName);
+        await using (var file = new FileStream(path, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None))
+        {
+            await using (var writer = await ParquetTableWriter.CreateAsync(file, columns, metadata, ct).ConfigureAwait(false))
+            {
+                foreach (var group in groups)
+                {
+                    await writer.WriteRowGroupAsync(group, ct).ConfigureAwait(false);
+                }
+            }
+
+            file.Flush(flushToDisk: true);
+        }
+
+        SimulatedSlowMerge.Pause();
+        chunkFiles.AddRange(chunks.Select(c => (c, fileName)));
+        batch.Clear();
+        return total;
+    }
+
+    /// <summary>
+    /// Row order by point id (ties keep their order): each input is a run, sorted by point id already
+    /// when the worker wrote it (<see cref="ChunkTables"/>) or sorted here, and the runs are merged.
+    /// </summary>
+    private static int[] MergeOrder(string?[] ids, IReadOnlyList<int> runLengths)
+    {
+        var runs = new List<(int Start, int[] Order)>();
+        var start = 0;
+        foreach (var length in runLengths)
+        {
+            var run = Enumerable.Range(start, length).ToArray();
+            var sorted = true;
+            for (var i = start + 1; i < start + length && sorted; i++)
+            {
+                sorted = string.CompareOrdinal(ids[i - 1], ids[i]) <= 0;
+            }
+
+            if (!sorted)
+            {
+                Array.Sort(run, (a, b) => string.CompareOrdinal(ids[a], ids[b]) is var c && c != 0 ? c : a.CompareTo(b));
+            }
+
+            runs.Add((start, run));
+            start += length;
+        }
+
+        var order = new int[start];
+        var heads = new int[runs.Count];
+        var queue = new PriorityQueue<int, (string? Id, int Run)>(Comparer<(string? Id, int Run)>.Create((a, b) =>
+            string.CompareOrdinal(a.Id, b.Id) is var c && c != 0 ? c : a.Run.CompareTo(b.Run)));
+        for (var r = 0; r < runs.Count; r++)
+        {
+            if (runs[r].Order.Length > 0)
+            {
+                queue.Enqueue(r, (ids[runs[r].Order[0]], r));
+            }
+        }
+
+        var at = 0;
+        while (queue.TryDequeue(out var r, out _))
+        {
+            var run = runs[r].Order;
+            order[at++] = run[heads[r]++];
+            if (heads[r] < run.Length)
+            {
+                queue.Enqueue(r, (ids[run[heads[r]]], r));
+            }
+        }
+
+        return order;
+    }
+
+    /// <summary>Rows <paramref name="order"/>[start .. start + count) of a column array, as a new array of the same type.</summary>
+    private static Array Take(Array values, int[] order, int start, int count) => values switch
+    {
+        string?[] a => Pick(a, order, start, count),
+        double?[] a => Pick(a, order, start, count),
+        int?[] a => Pick(a, order, start, count),
+        long?[] a => Pick(a, order, start, count),
+        bool?[] a => Pick(a, order, start, count),
+        DateTime?[] a => Pick(a, order, start, count),
+        _ => throw new InvalidOperationException($"unexpected column array {values.GetType().Name}"),
+    };
+
+    private static T[] Pick<T>(T[] values, int[] order, int start, int count)
+    {
+        var result = new T[count];
+        for (var i = 0; i < count; i++)
+        {
+            result[i] = values[order[start + i]];
+        }
+
+        return result;
+    }
+
+    private static bool SameColumns(TableRows a, TableRows b) =>
+        a.Columns.Count == b.Columns.Count && a.Columns.Zip(b.Columns).All(p => p.First.Name == p.Second.Name && p.First.Type == p.Second.Type);
+
+    private static string CompleteMarker(string id) => $".complete-{id}";
+
+    /// <summary>
+    /// Clears what an interrupted merge of this table left in <c>.merging/</c>. Where the exchange
+    /// had to be done by two renames and was cut between them (the table folder missing), the
+    /// finished staging folder is moved into place first.
+    /// </summary>
+    private static void Recover(string sweepFolder, string table, string live)
+    {
+        var stagingRoot = Path.Combine(sweepFolder, StagingFolderName);
+        if (!Directory.Exists(stagingRoot))
+        {
+            return;
+        }
+
+        var leftovers = Directory.EnumerateDirectories(stagingRoot, table + "-*").ToList();
+        if (!Directory.Exists(live))
+        {
+            var finished = leftovers.FirstOrDefault(d =>
+                !d.EndsWith(".old", StringComparison.Ordinal) && File.Exists(Path.Combine(d, CompleteMarker(Path.GetFileName(d)[(table.Length + 1)..]))));
+            if (finished is not null)
+            {
+                Directory.Move(finished, live);
+                leftovers.Remove(finished);
+            }
+        }
+
+        foreach (var leftover in leftovers)
+        {
+            TryDeleteFolder(leftover);
+        }
+    }
+
+    private static void WriteDurably(string path, string text)
+    {
+        using var file = new FileStream(path, FileMode.Create, FileAccess.Write, FileShare.None);
+        var bytes = Encoding.UTF8.GetBytes(text);
+        file.Write(bytes);
+        file.Flush(flushToDisk: true);
+    }
+
+    private static void TryDeleteFolder(string folder)
+    {
+        try
+        {
+            if (Directory.Exists(folder))
+            {
+                Directory.Delete(folder, recursive: true);
+            }
+        }
+        catch (IOException)
+        {
+        }
+        catch (UnauthorizedAccessException)
+        {
+        }
+    }
+}

@@ -1,0 +1,252 @@
+using System.Diagnostics;
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Planning;
+using LatticeSweep.Worker.Queue;
+using LatticeSweep.Worker.Tests.Support;
+
+namespace LatticeSweep.Worker.Tests.Cli;
+
+/// <summary>
+/// Merged result files (issue 13 item 4): a real sweep's parts merged by `latsweep merge` in a child
+/// process killed with SIGKILL at every stage, a killed run merged half-way and then resumed, and
+/// the merged layout itself; every table read back with DuckDB holds every point exactly once.
+/// </summary>
+public sealed class MergeTests : IDisposable
+{
+    // Invented demo chain: 24 small points; with 2 points per chunk, 12 parts per table.
+    private const string Job = """
+        [sweep]
+        name = "merge-me"
+
+        [[sweep.axes]]
+        path = "model.sites.B.mass_amu"
+        range = { from = 10.0, to = 100.0, steps = 24 }
+
+        [model]
+        lattice = "chain"
+        constant_nm = 0.5
+        motion = "3d"
+
+        [[model.sites]]
+        label = "A"
+        position = [0.0]
+        mass_amu = 10.0
+
+        [[model.sites]]
+        label = "B"
+        position = [0.5]
+        mass_amu = 10.0
+
+        [[model.springs]]
+        from = "A"
+        to = "B"
+        shell = 1
+        longitudinal_n_per_m = 30.0
+        transverse_n_per_m = 8.0
+
+        [sample]
+        kind = "finite"
+        cells = 16
+
+        [output]
+        temperatures_k = [10, 100, 300]
+        dos_bins = 20
+        """;
+
+    private static readonly string[] Tables = ["points", "sound_speeds", "dos", "thermal", "modes", "mean_square_displacements"];
+
+    private readonly TempFolder _dir = new();
+
+    public void Dispose() => _dir.Dispose();
+
+    [Fact]
+    public void A_finished_run_leaves_one_merged_file_per_table_sorted_by_point_with_every_point_once()
+    {
+        var (plan, folder) = RunSweep(pointsPerChunk: 2);
+
+        using var db = new DuckDb();
+        foreach (var table in Tables)
+        {
+            var files = DataFiles(folder, table);
+            Assert.Equal([MergedLayout.MergedFileName(0)], files);
+            AssertEveryPointOnce(db, plan, folder, table);
+            var ids = db.Rows($"SELECT point_id FROM read_parquet('{Path.Combine(folder, table, files[0])}')").Select(r => (string)r[0]!).ToList();
+            Assert.Equal(ids.Order(StringComparer.Ordinal), ids);
+            Assert.Equal(12, MergedLayout.MergedChunks(Path.Combine(folder, table)).Count);
+        }
+
+        // The units metadata survives the merge, and merging again changes nothing.
+        Assert.Contains("THz", (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{Path.Combine(folder, "dos", MergedLayout.MergedFileName(0))}') WHERE decode(key) = 'latticesweep.units'")!, StringComparison.Ordinal);
+        var before = File.GetLastWriteTimeUtc(Path.Combine(folder, "points", MergedLayout.MergedFileName(0)));
+        var again = Support.Cli.Run(_dir.Path, "merge", "merge-me");
+        Assert.True(again.ExitCode == 0, again.Stdout + again.Stderr);
+        Assert.Equal(before, File.GetLastWriteTimeUtc(Path.Combine(folder, "points", MergedLayout.MergedFileName(0))));
+    }
+
+    [Fact]
+    public void A_merge_killed_at_any_stage_loses_and_duplicates_nothing_and_the_next_merge_completes_it()
+    {
+        var (plan, folder) = RunSweep(pointsPerChunk: 2, merge: false);
+        Assert.Equal(12, DataFiles(folder, "points").Count);
+        using var db = new DuckDb();
+
+        // Kill the merge in the middle of writing a staging folder, then just after a table was swapped.
+        foreach (var killWhen in new Func<bool>[]
+        {
+            () => Directory.Exists(Path.Combine(folder, TableMerger.StagingFolderName))
+                && Directory.EnumerateFiles(Path.Combine(folder, TableMerger.StagingFolderName), "*.parquet", SearchOption.AllDirectories).Any(),
+            () => Tables.Any(t => DataFiles(folder, t).Any(f => f.StartsWith(MergedLayout.MergedPrefix, StringComparison.Ordinal))),
+        })
+        {
+            using (var child = Support.Cli.Start(_dir.Path, new Dictionary<string, string> { [SimulatedSlowMerge.Variable] = "300" }, "merge", "merge-me"))
+            {
+                try
+                {
+                    WaitUntil(killWhen, TimeSpan.FromSeconds(90), child);
+                }
+                finally
+                {
+                    child.Kill(entireProcessTree: true); // SIGKILL
+                    child.WaitForExit();
+                }
+            }
+
+            foreach (var table in Tables)
+            {
+                // Never both: a table is either all parts or all merged files at every moment.
+                var files = DataFiles(folder, table);
+                Assert.True(files.All(f => f.StartsWith(MergedLayout.PartPrefix, StringComparison.Ordinal))
+                    || files.All(f => f.StartsWith(MergedLayout.MergedPrefix, StringComparison.Ordinal)), $"{table}: {string.Join(", ", files)}");
+                AssertEveryPointOnce(db, plan, folder, table);
+            }
+        }
+
+        var finished = Support.Cli.Run(_dir.Path, "merge", "merge-me");
+        Assert.True(finished.ExitCode == 0, finished.Stdout + finished.Stderr);
+        foreach (var table in Tables)
+        {
+            Assert.Equal([MergedLayout.MergedFileName(0)], DataFiles(folder, table));
+            AssertEveryPointOnce(db, plan, folder, table);
+        }
+
+        // The staging folder is removed once nothing is left in it.
+        Assert.False(Directory.Exists(Path.Combine(folder, TableMerger.StagingFolderName)));
+    }
+
+    [Fact]
+    public void A_killed_run_merged_half_way_then_resumed_keeps_every_point_once()
+    {
+        File.WriteAllText(_dir.Combine("merge.toml"), Job);
+        var plan = JobFileLoader.Load(_dir.Combine("merge.toml"));
+        var sweepId = SweepIds.For(plan.SweepName, plan.SpecHash);
+        var store = _dir.Combine(".latsweep", "store.db");
+        var folder = Path.Combine(_dir.Path, "results", sweepId);
+
+        using (var child = Support.Cli.Start(_dir.Path, new Dictionary<string, string>
+        {
+            [ChunkPlanner.MaxPointsVariable] = "2",
+            ["LATSWEEP_TEST_EXTRA_MS_PER_POINT"] = "150",
+        }, "run", "merge.toml", "--workers", "1"))
+        {
+            try
+            {
+                WaitUntil(() => Done(store, sweepId) >= 6, TimeSpan.FromSeconds(90), child);
+            }
+            finally
+            {
+                child.Kill(entireProcessTree: true); // SIGKILL
+                child.WaitForExit();
+            }
+        }
+
+        // Merge what the killed run left (its chunk in flight may have written parts without being recorded).
+        var merged = Support.Cli.Run(_dir.Path, "merge", sweepId);
+        Assert.True(merged.ExitCode == 0, merged.Stdout + merged.Stderr);
+        var mergedChunks = MergedLayout.MergedChunks(Path.Combine(folder, "points"));
+        Assert.InRange(mergedChunks.Count, 3, 11);
+
+        var resumed = Support.Cli.Run(_dir.Path, ChunkPlanner.Default with { MaxPointsPerChunk = 2 }, "resume", sweepId, "--workers", "2");
+        Assert.True(resumed.ExitCode == 0, resumed.Stdout + resumed.Stderr);
+
+        using var db = new DuckDb();
+        foreach (var table in Tables)
+        {
+            AssertEveryPointOnce(db, plan, folder, table);
+            Assert.All(DataFiles(folder, table), f => Assert.StartsWith(MergedLayout.MergedPrefix, f, StringComparison.Ordinal));
+        }
+
+        using var catalog = new SqliteSweepCatalog(store, TimeProvider.System);
+        Assert.Equal(plan.Points.Length, catalog.FindSweep(sweepId)!.Counts.Done);
+    }
+
+    private (SweepPlan Plan, string Folder) RunSweep(int pointsPerChunk, bool merge = true)
+    {
+        File.WriteAllText(_dir.Combine("merge.toml"), Job);
+        var plan = JobFileLoader.Load(_dir.Combine("merge.toml"));
+        var folder = Path.Combine(_dir.Path, "results", SweepIds.For(plan.SweepName, plan.SpecHash));
+        var chunks = ChunkPlanner.Default with { MaxPointsPerChunk = pointsPerChunk };
+        var result = merge
+            ? Support.Cli.Run(_dir.Path, chunks, "run", "merge.toml", "--workers", "1")
+            : Support.Cli.Run(_dir.Path, chunks, "submit", "merge.toml");
+        Assert.True(result.ExitCode == 0, result.Stdout + result.Stderr);
+        if (!merge)
+        {
+            // Work the queue without merging: the chunk runner writes parts; the merge is what is tested.
+            using var store = QueueStore.Open(StoreLocation.Parse(null, _dir.Path), TimeProvider.System);
+            var runner = new ChunkRunner(store.Catalog, new JobFilePlanSource(), EnginePointSolver.Instance, TimeProvider.System, Serilog.Core.Logger.None, RetryPolicy.Default, "test");
+            var sweep = store.Catalog.FindSweep("merge-me")!;
+            foreach (var chunk in store.Catalog.GetPoints(sweep.SweepId, new PointQuery(Limit: 1000)).Select(p => p.ChunkId).Distinct())
+            {
+                runner.RunAsync(sweep.SweepId, chunk, CancellationToken.None).GetAwaiter().GetResult();
+            }
+        }
+
+        return (plan, folder);
+    }
+
+    /// <summary>Each table's key: a row seen twice (a chunk's rows in two files) repeats its key.</summary>
+    private static readonly Dictionary<string, string> Keys = new()
+    {
+        ["points"] = "point_id",
+        ["sound_speeds"] = "point_id, direction, branch",
+        ["dos"] = "point_id, curve, site, freq_thz",
+        ["thermal"] = "point_id, temperature_k",
+        ["modes"] = "point_id, freq_thz",
+        ["mean_square_displacements"] = "point_id, temperature_k, site",
+    };
+
+    private static void AssertEveryPointOnce(DuckDb db, SweepPlan plan, string folder, string table)
+    {
+        var from = DuckDb.Glob(Path.Combine(folder, table));
+        var ids = db.Rows($"SELECT DISTINCT point_id FROM {from}").Select(r => (string)r[0]!).Order(StringComparer.Ordinal);
+        Assert.Equal(plan.Points.Select(p => p.PointId).Order(StringComparer.Ordinal), ids);
+        var twice = db.Rows($"SELECT {Keys[table]}, count(*) FROM {from} GROUP BY ALL HAVING count(*) > 1");
+        Assert.True(twice.Count == 0, $"{table}: {twice.Count} keys more than once");
+    }
+
+    private static List<string> DataFiles(string folder, string table) =>
+        [.. Directory.EnumerateFiles(Path.Combine(folder, table), "*.parquet").Select(f => Path.GetFileName(f)).Where(n => !n.StartsWith('.')).Order(StringComparer.Ordinal)];
+
+    private static long Done(string store, string sweepId)
+    {
+        if (!File.Exists(store))
+        {
+            return 0;
+        }
+
+        using var catalog = new SqliteSweepCatalog(store, TimeProvider.System);
+        return catalog.FindSweep(sweepId)?.Counts.Done ?? 0;
+    }
+
+    private static void WaitUntil(Func<bool> condition, TimeSpan timeout, Process child)
+    {
+        var clock = Stopwatch.StartNew();
+        while (!condition())
+        {
+            Assert.False(child.HasExited, "the child ended before it could be killed");
+            Assert.True(clock.Elapsed < timeout, "the child made no progress in time");
+            Thread.Sleep(20);
+        }
+    }
+}
