@@ -3,7 +3,8 @@
 # side and on the NumPy peer with the same inputs (bench/cases.json), prints the ratios and checks that
 # both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue, the
 # default; run only when named: eigen-paths, which times every SIMD width and method of the eigen-solver
-# per order, and "cost", which calibrates the Worker's run-time estimate, both ours alone).
+# per order, "cost", which calibrates the Worker's run-time estimate, and surfaces-dense surfaces-kpm
+# surfaces-kpm-denser surfaces-memory (free nanocrystals), all ours alone).
 # LATSWEEP_SIMD_WIDTH=256|512|scalar forces our kernels' width (DOTNET_EnableAVX512=0 makes the runtime
 # behave as on a processor without AVX-512).
 # Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1).
@@ -64,6 +65,11 @@ for c in "${cases[@]}"; do
       --latsweep "$root/src/Worker/bin/Release/net10.0/latsweep"
     continue
   fi
+  case "$c" in surfaces-*)
+    # Free nanocrystals (issue 11): ours alone, each part in its own process (its own peak memory).
+    "$bench" "$c" --out "$results"
+    continue ;;
+  esac
   if [ "$c" = cost ]; then
     "$bench" cost --cases "$here/cases.json" --out "$results" --repeats "$repeats"
     continue

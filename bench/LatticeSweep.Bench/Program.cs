@@ -4,7 +4,8 @@ using System.Text.Json;
 using LatticeSweep.Bench;
 
 // Usage: LatticeSweep.Bench CASE --cases FILE --out DIR [--repeats K] [--check-temperatures EVERY]
-// CASE: eigen | bulk | finite-chain | finite-3d | queue. Each case runs in its own process so that its
+// CASE: eigen | eigen-paths | bulk | finite-chain | finite-3d | queue | cost | surfaces-dense | surfaces-kpm |
+// surfaces-kpm-denser | surfaces-memory (the surfaces-* cases take only --out). Each case runs in its own process so that its
 // peak memory is its own; bench/run.sh runs them all and compares with the NumPy peer.
 var argList = args.ToList();
 string Option(string name, string fallback)
@@ -101,6 +102,21 @@ switch (caseName)
         break;
     }
 
+    case "surfaces-dense":
+        report["dense"] = SurfaceCase.Dense([1000, 2000, 3000], radiusNm: 1.97);
+        break;
+    case "surfaces-kpm":
+        report["kpm"] = SurfaceCase.Kpm(radiusNm: 7.26, denser: false);
+        break;
+    case "surfaces-kpm-denser":
+        report["kpm"] = SurfaceCase.Kpm(radiusNm: 7.26, denser: true);
+        break;
+    case "surfaces-memory":
+        // About 10^6 atoms; 128 moments and 2 vectors, since the memory does not depend on them (the
+        // time grows linearly with moments x vectors from this figure).
+        report["kpm"] = SurfaceCase.Kpm(radiusNm: 15.64, denser: false, new LatticeSweep.Engine.Samples.KpmSettings { Moments = 128, RandomVectors = 2 });
+        break;
+
     case "queue":
     {
         var latsweep = Option("--latsweep", "src/Worker/bin/Release/net10.0/latsweep");
@@ -114,7 +130,7 @@ switch (caseName)
     }
 
     default:
-        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, bulk, finite-chain or finite-3d");
+        Console.Error.WriteLine($"unknown case '{caseName}': use eigen, eigen-paths, bulk, finite-chain, finite-3d, queue, cost or surfaces-dense|kpm|kpm-denser|memory");
         return 2;
 }
 

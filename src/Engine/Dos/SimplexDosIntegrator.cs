@@ -21,15 +21,16 @@ internal static class SimplexDosIntegrator
     /// <param name="weights">Optional channel weights at [(point * branches + branch) * channels + c]; per mode they sum to 1.</param>
     /// <param name="total">Accumulates states per cell in each bin.</param>
     /// <param name="partial">Accumulates per channel, [c * bins + bin]; may be empty.</param>
+    /// <param name="vectors">3D only: the 256-bit tetrahedron kernel (true), the scalar one (false), or the process default (null); same bits either way.</param>
     public static void Accumulate(
         int dimension, (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz,
-        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial)
+        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, bool? vectors = null)
     {
         var (m1, m2, m3) = mesh;
         var cells = (long)m1 * m2 * m3;
         if (dimension == 3)
         {
-            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial);
+            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial, vectors ?? TetrahedronBins.VectorsByDefault);
             return;
         }
 
@@ -72,17 +73,22 @@ internal static class SimplexDosIntegrator
     /// <summary>
     /// The 3D case in one tight loop: corner indices without modulo, a sorting network for the four
     /// corner values, and the cumulative fraction at successive bin edges from per-tetrahedron
-    /// constants (no division per edge). Same numbers as <see cref="AddSimplex"/>.
+    /// constants (no division per edge), the bins filled by <see cref="TetrahedronBins"/> into padded
+    /// accumulators that are added to the caller's at the end. Same numbers as <see cref="AddSimplex"/>.
     /// </summary>
     private static void AccumulateTetrahedra(
         (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz, double[]? weights, int channels,
-        FrequencyGrid grid, double[] total, double[] partial)
+        FrequencyGrid grid, double[] total, double[] partial, bool vectors)
     {
         var (m1, m2, m3) = mesh;
         var share = 1.0 / 6.0 / ((long)m1 * m2 * m3);
         Span<int> corners = stackalloc int[8];
         var meanWeight = new double[Math.Max(channels, 1)];
         var useWeights = weights is not null && channels > 0;
+        var kernel = new TetrahedronBins(grid, vectors);
+        var stride = grid.Bins + TetrahedronBins.Padding;
+        var paddedTotal = new double[stride];
+        var paddedPartial = useWeights ? new double[channels * stride] : [];
 
         // omega(-q) = omega(q) (and the channel weights agree), and inversion maps the mesh cube based
         // at i onto the one based at -(i + 1), carrying the six-tetrahedra split onto itself. So a cube
@@ -91,7 +97,6 @@ internal static class SimplexDosIntegrator
         var image2 = ImageOfCubes(m2);
         var image3 = ImageOfCubes(m3);
         var pairShare = 2 * share;
-        var inverseWidth = 1.0 / grid.WidthThz;
         for (var i1 = 0; i1 < m1; i1++)
         {
             var j1 = i1 + 1 == m1 ? 0 : i1 + 1;
@@ -138,12 +143,21 @@ internal static class SimplexDosIntegrator
                                 }
                             }
 
-                            AddTetrahedron(
+                            kernel.Add(
                                 frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b],
-                                grid, inverseWidth, cubeShare, total, partial, useWeights ? channels : 0, meanWeight);
+                                cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
                         }
                     }
                 }
+            }
+        }
+
+        for (var bin = 0; bin < grid.Bins; bin++)
+        {
+            total[bin] += paddedTotal[bin];
+            for (var ch = 0; ch < paddedPartial.Length / stride; ch++)
+            {
+                partial[(ch * grid.Bins) + bin] += paddedPartial[(ch * stride) + bin];
             }
         }
     }
@@ -159,105 +173,6 @@ internal static class SimplexDosIntegrator
         }
 
         return image;
-    }
-
-    /// <summary>Bin of f like <see cref="FrequencyGrid.BinOf"/>, by a multiplication (f >= start, so truncation is floor).</summary>
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
-    private static int BinOf(double frequencyThz, FrequencyGrid grid, double inverseWidth)
-    {
-        var u = (frequencyThz - grid.StartThz) * inverseWidth;
-        return u <= 0 ? 0 : Math.Min((int)u, grid.Bins - 1);
-    }
-
-    private static void AddTetrahedron(
-        double a, double b, double c, double d, FrequencyGrid grid, double inverseWidth, double share, double[] total, double[] partial, int channels, double[] meanWeight)
-    {
-        // Sorting network for four values, branch-free (min/max): corner order is random, so branches
-        // would mispredict half the time.
-        var lo1 = Math.Min(a, b);
-        var hi1 = Math.Max(a, b);
-        var lo2 = Math.Min(c, d);
-        var hi2 = Math.Max(c, d);
-        a = Math.Min(lo1, lo2);
-        var midLow = Math.Max(lo1, lo2);
-        d = Math.Max(hi1, hi2);
-        var midHigh = Math.Min(hi1, hi2);
-        b = Math.Min(midLow, midHigh);
-        c = Math.Max(midLow, midHigh);
-
-        var spread = d - a;
-        var firstBin = BinOf(a, grid, inverseWidth);
-        var lastBin = BinOf(d, grid, inverseWidth);
-        if (firstBin == lastBin || spread <= 1e-12 * Math.Max(Math.Abs(d), grid.WidthThz))
-        {
-            Deposit(firstBin, share, total, partial, grid.Bins, channels, meanWeight);
-            return;
-        }
-
-        // Separate coincident corners by a hair (as AddSimplex does).
-        var delta = 1e-9 * spread;
-        if (b < a + delta) b = a + delta;
-        if (c < b + delta) c = b + delta;
-        if (d < c + delta) d = c + delta;
-
-        // N(E): x^3 k1 below b; (e21^2 + 3 e21 x + 3 x^2 - k2 x^3) k3 between b and c; 1 - y^3 k4 above c.
-        var e21 = b - a;
-        var e31 = c - a;
-        var e41 = d - a;
-        var e32 = c - b;
-        var e42 = d - b;
-        var e43 = d - c;
-        // One division for all four constants (the spreads are >= 1e-9 of the whole, so no underflow).
-        var r = 1.0 / (e21 * e31 * e41 * e32 * e42 * e43);
-        var k1 = r * e32 * e42 * e43;          // 1 / (e21 e31 e41)
-        var k3 = k1 * e21;                     // 1 / (e31 e41)
-        var k2 = (e31 + e42) * r * e21 * e31 * e41 * e43; // (e31 + e42) / (e32 e42)
-        var k4 = r * e21 * e31 * e32;          // 1 / (e41 e42 e43)
-        // Three loops, one per piece of N(E), so the edge loop has no branch on the piece.
-        var below = 0.0;
-        var bin = firstBin;
-        double edge;
-        for (; bin < lastBin && (edge = grid.Edge(bin + 1)) < b; bin++)
-        {
-            var x = Math.Max(edge - a, 0.0);
-            var cumulative = x * x * x * k1;
-            Put(bin, (cumulative - below) * share, total, partial, grid.Bins, channels, meanWeight);
-            below = cumulative;
-        }
-
-        var constant = e21 * e21;
-        for (; bin < lastBin && (edge = grid.Edge(bin + 1)) < c; bin++)
-        {
-            var x = edge - b;
-            var cumulative = (constant + (3 * x * (e21 + x)) - (k2 * x * x * x)) * k3;
-            Put(bin, (cumulative - below) * share, total, partial, grid.Bins, channels, meanWeight);
-            below = cumulative;
-        }
-
-        for (; bin < lastBin; bin++)
-        {
-            var y = Math.Max(d - grid.Edge(bin + 1), 0.0);
-            var cumulative = 1 - (y * y * y * k4);
-            Put(bin, (cumulative - below) * share, total, partial, grid.Bins, channels, meanWeight);
-            below = cumulative;
-        }
-
-        var rest = (1.0 - below) * share;
-        total[lastBin] += rest;
-        for (var ch = 0; ch < channels; ch++)
-        {
-            partial[ch * grid.Bins + lastBin] += rest * meanWeight[ch];
-        }
-    }
-
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
-    private static void Put(int bin, double amount, double[] total, double[] partial, int bins, int channels, double[] meanWeight)
-    {
-        total[bin] += amount;
-        for (var ch = 0; ch < channels; ch++)
-        {
-            partial[ch * bins + bin] += amount * meanWeight[ch];
-        }
     }
 
     private static void AddSimplex(

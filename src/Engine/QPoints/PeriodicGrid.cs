@@ -79,9 +79,32 @@ internal readonly record struct PeriodicGrid(int N1, int N2, int N3)
                 }
 
                 _self++;
-                var partner = grid.Index(Partner(_i1, n1), Partner(_i2, n2), Partner(_i3, n3));
+                var (p1, p2) = (Partner(_i1, n1), Partner(_i2, n2));
+                var partner = grid.Index(p1, p2, Partner(_i3, n3));
                 if (partner < _self)
                 {
+                    // Partner(i) - i only decreases with i, so the first axis where -q's index falls
+                    // below q's stays below for the rest of that axis' range: jump past it (the
+                    // second half of a chain, slabs and rows of a mesh) instead of visiting each point.
+                    if (p1 < _i1)
+                    {
+                        _i1 = n1;
+                        _i3 = n3 - 1;
+                        _i2 = n2 - 1;
+                        return false;
+                    }
+
+                    if (p1 == _i1 && p2 < _i2)
+                    {
+                        _self += ((long)(n2 - 1 - _i2) * n3) + (n3 - 1 - _i3);
+                        _i2 = n2 - 1;
+                    }
+                    else
+                    {
+                        _self += n3 - 1 - _i3;
+                    }
+
+                    _i3 = n3 - 1;
                     continue;
                 }
 

@@ -16,6 +16,18 @@ public sealed record PointResult(
     /// <summary>Thermal-conductivity estimates, when the options asked for them.</summary>
     public ConductivityResult? Conductivity { get; init; }
 
+    /// <summary>Surface, shape and size numbers of a sample built in real space; null for periodic crystals and the bulk.</summary>
+    public SurfaceResult? Surface { get; init; }
+
+    /// <summary>Standard errors of the numbers that are averages over random vectors or configurations; null for exact results.</summary>
+    public StatisticalErrors? Errors { get; init; }
+
+    /// <summary>For a disordered sample: the same sample ordered as its virtual crystal (mean masses and springs), so the effect of disorder is one difference.</summary>
+    public PointResult? Ordered { get; init; }
+
+    /// <summary>Films and wires with conductivity asked for: kappa from their own confined modes along the periodic directions.</summary>
+    public ConfinedConductivityResult? ConfinedConductivity { get; init; }
+
     /// <summary>
     /// When the model's springs were fitted to elastic constants: the fit (its relative residual, the
     /// constants the springs reproduce and their Christoffel sound speeds). Set by whoever built the

@@ -17,6 +17,11 @@ public static partial class PhononSolver
         ArgumentNullException.ThrowIfNull(sample);
         ArgumentNullException.ThrowIfNull(options);
         OptionsValidation.Check(options);
+        if (sample is RealSpaceSample realSpace)
+        {
+            return SolveRealSpace(model, realSpace, options, ct);
+        }
+
         CheckSample(model, sample);
 
         var crystal = CompiledCrystal.From(model);
@@ -56,6 +61,8 @@ public static partial class PhononSolver
                 solves = (b.PointCount + 1) / 2;
                 bytes = BulkSolver.EstimateBytes(b.PointCount, n, vectors);
                 break;
+            case RealSpaceSample r:
+                return EstimateRealSpace(model, r, options);
             default:
                 throw new ArgumentException($"unknown sample type {sample.GetType().Name}", nameof(sample));
         }
@@ -72,6 +79,9 @@ public static partial class PhononSolver
         {
             case FiniteSample f:
                 f.CheckAgainst(model.Lattice);
+                break;
+            case RealSpaceSample r:
+                r.Validate(model);
                 break;
             case BulkSample b:
                 var d = model.Lattice.Dimension;
@@ -205,7 +215,7 @@ public static partial class PhononSolver
             MinFrequencyThz = ModeSolver.SignedThz(Math.Min(stats.WorstLambda, stats.BranchMin.Min())),
             Stable = !unstable,
             WorstQReduced = unstable ? stats.WorstQReduced : null,
-            Gaps = unstable ? [] : Gaps(stats),
+            Gaps = unstable ? [] : outcome.Gaps ?? Gaps(stats),
             SoundSpeeds = unstable ? [] : [.. speeds],
             ReferenceTemperatureK = options.ReferenceTemperatureK,
             HeatCapacityJPerMolK = reference?.HeatCapacityJPerMolK,

@@ -48,6 +48,9 @@ public static partial class PhononSolver
             case FiniteSample f when f.CellCount * (double)n > FiniteCrystalSolver.MaxModes:
                 throw Guard.Single(ModelProblemKind.TooLarge, "sample.cells",
                     $"{f.CellCount} cells x {n} branches = {f.CellCount * (double)n:G4} modes is more than the {FiniteCrystalSolver.MaxModes} this engine accepts for an exact sum; use a bulk mesh or a smaller crystal");
+            case RealSpaceSample r:
+                CheckRealSpaceSize(model, r, options);
+                break;
             case BulkSample b when BulkSolver.EstimateBytes(b.PointCount, n, options.PartialDos || options.MeanSquareDisplacement) > options.MemoryLimitBytes:
                 throw Guard.Single(ModelProblemKind.TooLarge, "sample.mesh",
                     $"a {b.M1}x{b.M2}x{b.M3} mesh with {n} branches needs more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");

@@ -17,4 +17,7 @@ internal sealed record SpectrumOutcome
     public required ModeSink Sink { get; init; }
     public required DosCurve Dos { get; init; }
     public required ImmutableArray<ModeLevel> Modes { get; init; }
+
+    /// <summary>Gaps found by the pass itself; null = from the branch ranges of <see cref="Statistics"/>.</summary>
+    public ImmutableArray<BandGap>? Gaps { get; init; }
 }

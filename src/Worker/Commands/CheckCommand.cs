@@ -181,6 +181,12 @@ public static class CheckCommand
             total += temperatures * sites * 56.0;
         }
 
+        if ((tables.Layers || tables.LayerDos) && sample is RealSpaceSample)
+        {
+            // Layers grow with the sample's radius; a few dozen is typical.
+            total += 30 * ((tables.Layers ? temperatures * 48.0 : 0) + (tables.LayerDos ? options.DosBins * 32.0 : 0));
+        }
+
         if (tables.Modes && sample is FiniteSample f)
         {
             var modes = branches * f.CellCount;

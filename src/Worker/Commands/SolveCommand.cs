@@ -53,6 +53,12 @@ public static class SolveCommand
             : $"Point  {point.PointId}" + (point.Parameters.Count > 0 ? $" ({Parameters(point)})" : ""));
         stdout.WriteLine();
         SummaryTable(result.Summary, result.ElasticFit, fullPrecision).WriteTo(stdout);
+        if (result.Surface is { } surface)
+        {
+            stdout.WriteLine();
+            SurfaceTable(surface, result.Summary, fullPrecision, result.Errors, result.Ordered?.Summary).WriteTo(stdout);
+        }
+
         if (!result.Summary.Stable)
         {
             stdout.WriteLine();
@@ -61,6 +67,47 @@ public static class SolveCommand
         }
 
         return 0;
+    }
+
+    /// <summary>What a sample with boundaries, a shape or disorder adds to the summary.</summary>
+    internal static TextTable SurfaceTable(SurfaceResult f, PointSummary s, bool fullPrecision = false, StatisticalErrors? errors = null, PointSummary? ordered = null)
+    {
+        string N(double? v) => v is { } x && !double.IsNaN(x) ? x.ToString(fullPrecision ? "R" : "G6", CultureInfo.InvariantCulture) : "n/a";
+        var t = new TextTable(["quantity", "value", "unit"], [false, true, false]);
+        t.Add("boundaries", f.Boundaries, "");
+        t.Add("shape", f.Shape, "");
+        t.Add("solver", f.Method, "");
+        t.Add("atoms", I(f.AtomCount), "");
+        t.Add("surface / interior atoms", $"{I(f.SurfaceSites)} / {I(f.InteriorSites)}", "");
+        t.Add("rigid-body modes excluded (of them rotations)", $"{I(s.RigidModesExcluded)} ({I(f.RigidRotations)})", "");
+        t.Add("rotation defect", N(f.RotationDefectThz), "THz");
+        t.Add("confinement gap", N(f.ConfinementGapThz), "THz");
+        t.Add("surface-mode fraction", N(f.SurfaceModeFraction), "");
+        t.Add("mean-square displacement, surface", N(f.MsdSurfaceNm2), "nm^2");
+        t.Add("mean-square displacement, interior", N(f.MsdInteriorNm2), "nm^2");
+        t.Add($"Cv of the periodic crystal ({f.PeriodicCells})", N(f.PeriodicCvAtReferenceJPerMolK), "J/(mol K)");
+        t.Add("Cv ratio to periodic", N(f.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 && s.HeatCapacityJPerMolK is { } cv ? cv / p : null), "");
+        if (f.KpmMoments is { } moments)
+        {
+            t.Add("kernel polynomial moments / random vectors", $"{I(moments)} / {I(f.KpmRandomVectors ?? 0)}", "");
+            t.Add("kernel polynomial resolution near 0", N(f.KpmResolutionThz), "THz");
+        }
+
+        if (errors is not null)
+        {
+            // Averages over random vectors or configurations: their spread, so a reader sees what the digits above are worth.
+            t.Add($"standard errors over {I(errors.Samples)} {errors.Source}", "", "");
+            t.Add("  of Cv", N(errors.HeatCapacityJPerMolK), "J/(mol K)");
+            t.Add("  of entropy", N(errors.EntropyJPerMolK), "J/(mol K)");
+            t.Add("  of free energy", N(errors.FreeEnergyJPerMol), "J/mol");
+        }
+
+        if (ordered is not null)
+        {
+            t.Add("Cv of the ordered virtual crystal", N(ordered.HeatCapacityJPerMolK), "J/(mol K)");
+        }
+
+        return t;
     }
 
     internal static TextTable SummaryTable(PointSummary s, Engine.Elastic.ElasticFitResult? fit = null, bool fullPrecision = false)

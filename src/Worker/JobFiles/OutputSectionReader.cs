@@ -19,7 +19,7 @@ internal static class OutputSectionReader
     private static readonly string[] RangeKeys = ["from_k", "to_k", "steps", "scale"];
     private static readonly string[] DispersionKeys = ["path", "points_per_segment"];
     private static readonly string[] CornerKeys = ["label", "q"];
-    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", Output.TableNames.MeanSquareDisplacements, "cumulative_kappa"];
+    private static readonly string[] TableNames = ["dos", "thermal", "modes", "dispersion", Output.TableNames.MeanSquareDisplacements, "cumulative_kappa", Output.TableNames.Layers, Output.TableNames.LayerDos];
 
     // The table's former name, so older job files (and sweeps stored with them) still plan.
     private static readonly string[] FormerTableNames = [Output.TableNames.FormerDisplacements];
@@ -50,7 +50,9 @@ internal static class OutputSectionReader
         var dispersion = ReadDispersion(t.SubTable("dispersion"), dimension);
         var conductivity = t.SubTable("conductivity") is { } c ? ConductivitySectionReader.Read(c, dimension, model, sample, kindSwept) : null;
 
-        var selection = OutputSelection.Default with { Dispersion = dispersion is not null };
+        // Samples with boundaries, a shape or disorder get their layer tables unless the list says otherwise.
+        var realSpace = sample?.RealSpace is not null;
+        var selection = OutputSelection.Default with { Dispersion = dispersion is not null, Layers = realSpace, LayerDos = realSpace };
         var tables = t.StringList("tables", TableNames, FormerTableNames);
         if (tables is not null)
         {
@@ -60,7 +62,9 @@ internal static class OutputSectionReader
                 Dispersion: tables.Contains("dispersion"),
                 Modes: tables.Contains("modes"),
                 Displacements: tables.Contains(Output.TableNames.MeanSquareDisplacements) || tables.Contains(Output.TableNames.FormerDisplacements),
-                CumulativeKappa: tables.Contains("cumulative_kappa"));
+                CumulativeKappa: tables.Contains("cumulative_kappa"),
+                Layers: tables.Contains(Output.TableNames.Layers),
+                LayerDos: tables.Contains(Output.TableNames.LayerDos));
             if (selection.Dispersion && dispersion is null && !t.Has("dispersion"))
             {
                 t.Error("tables", "the dispersion table needs a path: add [output.dispersion] with path = [{ label = \"G\", q = [0, 0, 0] }, ...]");

@@ -1,18 +1,21 @@
 using System.Collections.Immutable;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
 using LatticeSweep.Worker.Planning.Specs;
 
 namespace LatticeSweep.Worker.JobFiles;
 
 /// <summary>
 /// Reads <c>[sample]</c>: a finite crystal (<c>cells</c> or <c>length_nm</c>) or the bulk limit
-/// (<c>mesh</c>). A single number means the same in every lattice direction.
+/// (<c>mesh</c>). A single number means the same in every lattice direction. A finite sample may
+/// add free boundaries, a cut shape, disorder and solver settings (<see cref="RealSpaceSpec"/>).
 /// </summary>
-internal static class SampleSectionReader
+internal static partial class SampleSectionReader
 {
     public const int MaxCellsPerDirection = 1_000_000;
     public const int MaxMeshPerDirection = 100_000;
 
-    private static readonly string[] Keys = ["kind", "cells", "length_nm", "mesh"];
+    private static string[] Keys => ["kind", "cells", "length_nm", "mesh", .. RealSpaceKeys];
     private static readonly string[] Kinds = ["finite", "bulk"];
 
     /// <param name="kindSwept">When <c>sample.kind</c> is a sweep axis, both the finite and the bulk keys are needed.</param>
@@ -33,7 +36,15 @@ internal static class SampleSectionReader
         var cells = ImmutableArray<int>.Empty;
         var lengths = ImmutableArray<double>.Empty;
         var mesh = ImmutableArray<int>.Empty;
-        if (needFinite)
+        var realSpace = ReadRealSpace(t, dimension, kind, kindSwept);
+        var sphere = realSpace?.Shape == "sphere";
+        if (sphere)
+        {
+            RejectForSphere(t, "cells");
+            RejectForSphere(t, "length_nm");
+        }
+
+        if (needFinite && !sphere)
         {
             if (t.Has("cells") && t.Has("length_nm"))
             {
@@ -52,7 +63,7 @@ internal static class SampleSectionReader
                 t.TableError($"a finite sample needs cells (per direction, e.g. cells = 64) or length_nm{(kindSwept ? " (sample.kind is swept)" : "")}");
             }
         }
-        else
+        else if (!needFinite)
         {
             RejectFor(t, "cells", "bulk");
             RejectFor(t, "length_nm", "bulk");
@@ -74,7 +85,15 @@ internal static class SampleSectionReader
             RejectFor(t, "mesh", "finite");
         }
 
-        return t.Problems.Count > before ? null : new SampleSpec(kind, cells, lengths, mesh);
+        return t.Problems.Count > before ? null : new SampleSpec(kind, cells, lengths, mesh) { RealSpace = realSpace };
+    }
+
+    private static void RejectForSphere(TableReader t, string key)
+    {
+        if (t.Has(key))
+        {
+            t.Error(key, "a sphere's size is its shape.radius_nm; remove " + key);
+        }
     }
 
     private static void RejectFor(TableReader t, string key, string kind)

@@ -99,6 +99,8 @@ public static class ChunkOutputWriter
             Dispersion: t.Contains(TableNames.Dispersion),
             Modes: t.Contains(TableNames.Modes),
             Displacements: t.Contains(TableNames.MeanSquareDisplacements) || t.Contains(TableNames.FormerDisplacements),
-            CumulativeKappa: t.Contains(TableNames.CumulativeKappa));
+            CumulativeKappa: t.Contains(TableNames.CumulativeKappa),
+            Layers: t.Contains(TableNames.Layers),
+            LayerDos: t.Contains(TableNames.LayerDos));
     }
 }

@@ -51,6 +51,16 @@ internal static class ChunkTables
             tables.Add(schemas.Displacements.Rows(solved.SelectMany(o => o.Result!.Displacements.Select(d => new RowOf<Engine.Results.DisplacementRow>(o, d)))));
         }
 
+        if (outputs.Layers)
+        {
+            tables.Add(schemas.Layers.Rows(solved.SelectMany(o => (o.Result!.Surface?.Layers ?? []).Select(l => new RowOf<Engine.Results.LayerRow>(o, l)))));
+        }
+
+        if (outputs.LayerDos)
+        {
+            tables.Add(schemas.LayerDos.Rows(solved.SelectMany(LayerDosRows)));
+        }
+
         if (outputs.CumulativeKappa)
         {
             tables.Add(schemas.CumulativeKappa.Rows(solved.SelectMany(o => (o.Result!.Conductivity?.CumulativeByMeanFreePath ?? []).Select(m => new RowOf<MeanFreePathRow>(o, m)))));
@@ -64,19 +74,36 @@ internal static class ChunkTables
     {
         var thermal = o.Result!.Thermal;
         var kappa = o.Result.Conductivity?.ByTemperature ?? [];
+        var periodic = o.Result.Surface?.PeriodicCvJPerMolK ?? [];
+        var ordered = o.Result.Ordered?.Thermal ?? [];
+        var confined = o.Result.ConfinedConductivity?.ByTemperature ?? [];
         for (var i = 0; i < thermal.Length; i++)
         {
             var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
-            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k));
+            var errors = o.Result.Errors?.Thermal is { } e && i < e.Length ? e[i] : null;
+            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors, OrderedCvJPerMolK = i < ordered.Length ? ordered[i].HeatCapacityJPerMolK : null, Confined = i < confined.Length ? confined[i] : null });
+        }
+    }
+
+    private static IEnumerable<RowOf<LayerDosValue>> LayerDosRows(PointOutcome o)
+    {
+        var frequencies = o.Result!.Dos.FrequencyThz;
+        foreach (var layer in o.Result.Surface?.LayerDos ?? [])
+        {
+            for (var i = 0; i < frequencies.Length && i < layer.DensityPerThzPerAtom.Length; i++)
+            {
+                yield return new RowOf<LayerDosValue>(o, new LayerDosValue(layer.Layer, layer.Sites, frequencies[i], layer.DensityPerThzPerAtom[i]));
+            }
         }
     }
 
     private static IEnumerable<RowOf<DosValue>> DosRows(PointOutcome o)
     {
         var dos = o.Result!.Dos;
+        var errors = o.Result.Errors?.DosTotal ?? [];
         for (var i = 0; i < dos.FrequencyThz.Length; i++)
         {
-            yield return new RowOf<DosValue>(o, new DosValue(null, dos.FrequencyThz[i], dos.Total[i]));
+            yield return new RowOf<DosValue>(o, new DosValue(null, dos.FrequencyThz[i], dos.Total[i], i < errors.Length && double.IsFinite(errors[i]) ? errors[i] : null));
         }
 
         for (var site = 0; site < dos.PartialBySite.Length; site++)

@@ -8,14 +8,30 @@ namespace LatticeSweep.Worker.Output;
 /// <summary>A point's outcome paired with one item of its result (one DOS bin, one thermal row, ...).</summary>
 internal readonly record struct RowOf<T>(PointOutcome Outcome, T Item);
 
-/// <summary>One DOS value: <see cref="Site"/> is null for the total curve.</summary>
-internal readonly record struct DosValue(int? Site, double FrequencyThz, double Density);
+/// <summary>One DOS value: <see cref="Site"/> is null for the total curve; <see cref="StandardError"/> when the total is an average.</summary>
+internal readonly record struct DosValue(int? Site, double FrequencyThz, double Density, double? StandardError = null);
 
 /// <summary>One sound speed: direction, branch (slowest first) and speed.</summary>
 internal readonly record struct SoundSpeedValue(string Direction, int Branch, double SpeedMPerS);
 
 /// <summary>Thermal functions at one temperature and, when computed, the conductivity at the same temperature.</summary>
-internal readonly record struct ThermalValue(ThermalRow Thermal, ConductivityRow? Conductivity);
+internal readonly record struct ThermalValue(ThermalRow Thermal, ConductivityRow? Conductivity)
+{
+    /// <summary>Cv of the periodic crystal of the same size at this temperature (samples built in real space).</summary>
+    public double? PeriodicCvJPerMolK { get; init; }
+
+    /// <summary>Standard errors of U, F, S, Cv when they are averages (null otherwise).</summary>
+    public ThermalRow? StandardErrors { get; init; }
+
+    /// <summary>Cv of the ordered virtual crystal at this temperature (disordered samples).</summary>
+    public double? OrderedCvJPerMolK { get; init; }
+
+    /// <summary>Conductivity from the confined modes of a film or wire at this temperature.</summary>
+    public ConductivityRow? Confined { get; init; }
+}
+
+/// <summary>One value of a layer's density of states.</summary>
+internal readonly record struct LayerDosValue(int Layer, long Sites, double FrequencyThz, double Density);
 
 /// <summary>
 /// Every result table's columns, names carrying their units. Each table starts with
@@ -36,7 +52,8 @@ internal sealed class ResultSchemas
             C<RowOf<DosValue>>("curve", ColumnType.Text, "", "total, or site for a partial density of states", r => r.Item.Site is null ? "total" : "site"),
             C<RowOf<DosValue>>("site", ColumnType.Int32, "", "basis site (0-based); empty for the total", r => r.Item.Site),
             C<RowOf<DosValue>>("freq_thz", ColumnType.Double, "THz", "bin centre frequency", r => r.Item.FrequencyThz),
-            C<RowOf<DosValue>>("dos_per_thz_per_cell", ColumnType.Double, "1/(THz cell)", "states per THz per cell; the total integrates to the branch count", r => r.Item.Density));
+            C<RowOf<DosValue>>("dos_per_thz_per_cell", ColumnType.Double, "1/(THz cell)", "states per THz per cell; the total integrates to the branch count", r => r.Item.Density),
+            C<RowOf<DosValue>>("dos_stderr_per_thz_per_cell", ColumnType.Double, "1/(THz cell)", "standard error of the total when it is an average over random vectors or configurations", r => r.Item.StandardError));
         Thermal = Spec<ThermalValue>(TableNames.Thermal, axes, ThermalColumns());
         Dispersion = Spec<DispersionRow>(TableNames.Dispersion, axes,
             C<RowOf<DispersionRow>>("path_index", ColumnType.Int32, "", "index of the q point along the path", r => r.Item.PathIndex),
@@ -65,6 +82,18 @@ internal sealed class ResultSchemas
             C<RowOf<MeanFreePathRow>>("mfp_nm", ColumnType.Double, "nm", "phonon mean free path |v| tau (upper edge of a log bin, 10 per decade)", r => r.Item.MeanFreePathNm),
             C<RowOf<MeanFreePathRow>>("kappa_cumulative_w_per_m_k", ColumnType.Double, "W/(m K)", "conductivity carried by modes with a mean free path up to mfp_nm (mean over the lattice's directions)", r => r.Item.CumulativeKappaWPerMK),
             C<RowOf<MeanFreePathRow>>("kappa_fraction", ColumnType.Double, "1", "that part as a fraction of the whole", r => r.Item.CumulativeFraction));
+        Layers = Spec<LayerRow>(TableNames.Layers, axes,
+            C<RowOf<LayerRow>>("layer", ColumnType.Int32, "", "depth below the surface in nearest-neighbour hops (0 = surface atoms)", r => r.Item.Layer),
+            C<RowOf<LayerRow>>("sites", ColumnType.Int64, "", "atoms in the layer", r => r.Item.Sites),
+            C<RowOf<LayerRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
+            C<RowOf<LayerRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x, mean over the layer's atoms", r => r.Item.MsdXNm2),
+            C<RowOf<LayerRow>>("msd_y_nm2", ColumnType.Double, "nm^2", "along y (empty for the scalar model)", r => r.Item.MsdYNm2),
+            C<RowOf<LayerRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "along z (empty for the scalar model)", r => r.Item.MsdZNm2));
+        LayerDos = Spec<LayerDosValue>(TableNames.LayerDos, axes,
+            C<RowOf<LayerDosValue>>("layer", ColumnType.Int32, "", "depth below the surface in nearest-neighbour hops (0 = surface atoms)", r => r.Item.Layer),
+            C<RowOf<LayerDosValue>>("sites", ColumnType.Int64, "", "atoms in the layer", r => r.Item.Sites),
+            C<RowOf<LayerDosValue>>("freq_thz", ColumnType.Double, "THz", "bin centre frequency (the bins of dos/)", r => r.Item.FrequencyThz),
+            C<RowOf<LayerDosValue>>("dos_per_thz_per_atom", ColumnType.Double, "1/(THz atom)", "states per THz per atom of the layer; integrates to 3 (1 for the scalar model)", r => r.Item.Density));
     }
 
     public TableSpec<PointOutcome> Points { get; }
@@ -75,6 +104,8 @@ internal sealed class ResultSchemas
     public TableSpec<RowOf<ModeLevel>> Modes { get; }
     public TableSpec<RowOf<DisplacementRow>> Displacements { get; }
     public TableSpec<RowOf<MeanFreePathRow>> CumulativeKappa { get; }
+    public TableSpec<RowOf<LayerRow>> Layers { get; }
+    public TableSpec<RowOf<LayerDosValue>> LayerDos { get; }
 
     /// <summary>Every column name a table has of its own (not a swept parameter's): a swept parameter may not take one.</summary>
     public static IReadOnlySet<string> FixedColumnNames { get; } = AllFixedNames();
@@ -83,7 +114,7 @@ internal sealed class ResultSchemas
     {
         var none = new ResultSchemas([]);
         return new HashSet<string>(
-            new[] { TableNames.Points, TableNames.SoundSpeeds, TableNames.Dos, TableNames.Thermal, TableNames.Dispersion, TableNames.Modes, TableNames.MeanSquareDisplacements, TableNames.CumulativeKappa }
+            new[] { TableNames.Points, TableNames.SoundSpeeds, TableNames.Dos, TableNames.Thermal, TableNames.Dispersion, TableNames.Modes, TableNames.MeanSquareDisplacements, TableNames.CumulativeKappa, TableNames.Layers, TableNames.LayerDos }
                 .SelectMany(none.ColumnsOf).Select(c => c.Name).Concat(RunColumns<PointOutcome>(o => o).Select(c => c.Def.Name)),
             StringComparer.Ordinal);
     }
@@ -99,6 +130,8 @@ internal sealed class ResultSchemas
         TableNames.Modes => Modes.Defs,
         TableNames.MeanSquareDisplacements or TableNames.FormerDisplacements => Displacements.Defs,
         TableNames.CumulativeKappa => CumulativeKappa.Defs,
+        TableNames.Layers => Layers.Defs,
+        TableNames.LayerDos => LayerDos.Defs,
         _ => throw new ArgumentException($"no table named {table}", nameof(table)),
     };
 
@@ -272,6 +305,82 @@ internal sealed class ResultSchemas
             C<PointOutcome>("christoffel_speed_mean_m_per_s", ColumnType.Double, "m/s", "mean Christoffel sound speed over those directions and branches", o => Christoffel(o)?.Average()),
             C<PointOutcome>("christoffel_speed_max_m_per_s", ColumnType.Double, "m/s", "fastest Christoffel sound speed over those directions", o => Christoffel(o)?.Max()),
             .. ConductivitySummaryColumns(),
+            .. SurfaceSummaryColumns(),
+        ];
+    }
+
+    /// <summary>Numbers of samples built in real space (free boundaries, shapes, disorder); empty for periodic crystals and the bulk.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> SurfaceSummaryColumns()
+    {
+        static SurfaceResult? F(PointOutcome o) => o.Result?.Surface;
+        static double? Ratio(PointOutcome o) =>
+            F(o)?.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 && o.Result!.Summary.HeatCapacityJPerMolK is { } cv ? cv / p : null;
+        return
+        [
+            C<PointOutcome>("boundaries", ColumnType.Text, "", "boundary of each lattice direction, e.g. periodic,periodic,free (empty for periodic crystals given without boundaries, and the bulk)", o => F(o)?.Boundaries),
+            C<PointOutcome>("shape", ColumnType.Text, "", "box, sphere or cylinder", o => F(o)?.Shape),
+            C<PointOutcome>("solver_method", ColumnType.Text, "", "dense, dense per wave vector, or kernel polynomial", o => F(o)?.Method),
+            C<PointOutcome>("atom_count", ColumnType.Int64, "", "atoms in the sample", o => F(o)?.AtomCount),
+            C<PointOutcome>("surface_sites", ColumnType.Int64, "", "atoms that lost a nearest neighbour to a cut (layer 0)", o => F(o)?.SurfaceSites),
+            C<PointOutcome>("interior_sites", ColumnType.Int64, "", "the other atoms", o => F(o)?.InteriorSites),
+            C<PointOutcome>("layer_count", ColumnType.Int32, "", "layers below the surface (nearest-neighbour hops; 0 without a surface)", o => F(o)?.LayerCount),
+            C<PointOutcome>("rigid_rotations", ColumnType.Int32, "", "rigid rotations among the rigid-body modes (3 for a free cluster, 1 for a wire)", o => F(o)?.RigidRotations),
+            C<PointOutcome>("rotation_defect_thz", ColumnType.Double, "THz", "frequency the rigid rotations would have if not projected out (0 for rotationally invariant springs)", o => F(o)?.RotationDefectThz),
+            C<PointOutcome>("confinement_gap_thz", ColumnType.Double, "THz", "lowest frequency above the zero modes", o => F(o)?.ConfinementGapThz),
+            C<PointOutcome>("surface_mode_fraction", ColumnType.Double, "1", "fraction of non-zero modes with at least surface_weight_threshold of their weight on surface atoms", o => F(o)?.SurfaceModeFraction),
+            C<PointOutcome>("surface_weight_threshold", ColumnType.Double, "1", "the weight that makes a mode a surface mode", o => F(o)?.SurfaceWeightThreshold),
+            C<PointOutcome>("msd_surface_nm2", ColumnType.Double, "nm^2", "mean-square displacement of surface atoms at the reference temperature, mean over directions", o => F(o)?.MsdSurfaceNm2),
+            C<PointOutcome>("msd_interior_nm2", ColumnType.Double, "nm^2", "the same for the interior atoms", o => F(o)?.MsdInteriorNm2),
+            C<PointOutcome>("periodic_cells", ColumnType.Text, "", "cells per direction of the periodic crystal of the same size", o => F(o)?.PeriodicCells),
+            C<PointOutcome>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of that periodic crystal at the reference temperature", o => F(o)?.PeriodicCvAtReferenceJPerMolK),
+            C<PointOutcome>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k divided by periodic_cv_j_per_mol_k (the surface enhancement)", o => Ratio(o)),
+            C<PointOutcome>("kpm_moments", ColumnType.Int32, "", "Chebyshev moments of the kernel polynomial method (empty for dense solutions)", o => F(o)?.KpmMoments),
+            C<PointOutcome>("kpm_random_vectors", ColumnType.Int32, "", "random vectors of its stochastic trace", o => F(o)?.KpmRandomVectors),
+            C<PointOutcome>("kpm_resolution_thz", ColumnType.Double, "THz", "its frequency resolution near zero, sqrt(pi a / moments)", o => F(o)?.KpmResolutionThz),
+            .. ErrorColumns(),
+            .. OrderedColumns(),
+            C<PointOutcome>("kappa_confined_w_per_m_k", ColumnType.Double, "W/(m K)", "films and wires: conductivity from their own confined modes at the reference temperature, mean over the periodic directions (same scattering channels as kappa_w_per_m_k, which uses the periodic crystal's modes)", o => V(o.Result?.ConfinedConductivity?.AtReference.KappaWPerMK)),
+            C<PointOutcome>("kappa_confined_1_w_per_m_k", ColumnType.Double, "W/(m K)", "along the first periodic lattice direction", o => V(o.Result?.ConfinedConductivity?.AtReference.KappaXxWPerMK)),
+            C<PointOutcome>("kappa_confined_2_w_per_m_k", ColumnType.Double, "W/(m K)", "along the second in-plane direction, orthogonal to the first (films)", o => V(o.Result?.ConfinedConductivity?.AtReference.KappaYyWPerMK)),
+            C<PointOutcome>("kappa_confined_directions", ColumnType.Text, "", "the directions: along a3 (a wire) or in the a1-a2 plane (a film)", o => o.Result?.ConfinedConductivity?.Directions),
+        ];
+    }
+
+    /// <summary>A disordered point's ordered virtual crystal beside it (empty for ordered samples).</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> OrderedColumns()
+    {
+        static PointResult? O(PointOutcome o) => o.Result?.Ordered;
+        return
+        [
+            C<PointOutcome>("ordered_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "Cv of the same sample ordered as its virtual crystal (mean masses and springs); cv_j_per_mol_k minus this is the effect of disorder", o => O(o)?.Summary.HeatCapacityJPerMolK),
+            C<PointOutcome>("ordered_entropy_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy of the virtual crystal", o => O(o)?.Summary.EntropyJPerMolK),
+            C<PointOutcome>("ordered_free_energy_j_per_mol", ColumnType.Double, "J/mol", "free energy of the virtual crystal", o => O(o)?.Summary.FreeEnergyJPerMol),
+            C<PointOutcome>("ordered_max_freq_thz", ColumnType.Double, "THz", "highest frequency of the virtual crystal", o => O(o)?.Summary.MaxFrequencyThz),
+            C<PointOutcome>("ordered_confinement_gap_thz", ColumnType.Double, "THz", "confinement gap of the virtual crystal", o => O(o)?.Surface?.ConfinementGapThz),
+            C<PointOutcome>("ordered_msd_surface_nm2", ColumnType.Double, "nm^2", "surface mean-square displacement of the virtual crystal", o => O(o)?.Surface?.MsdSurfaceNm2),
+            C<PointOutcome>("ordered_msd_interior_nm2", ColumnType.Double, "nm^2", "interior mean-square displacement of the virtual crystal", o => O(o)?.Surface?.MsdInteriorNm2),
+        ];
+    }
+
+    /// <summary>Standard errors of the averaged numbers (random vectors and/or configurations); empty for exact results.</summary>
+    private static IEnumerable<TableColumn<PointOutcome>> ErrorColumns()
+    {
+        static StatisticalErrors? E(PointOutcome o) => o.Result?.Errors;
+        return
+        [
+            C<PointOutcome>("stderr_source", ColumnType.Text, "", "what the standard errors are over: random vectors or configurations", o => E(o)?.Source),
+            C<PointOutcome>("stderr_samples", ColumnType.Int32, "", "how many random vectors or configurations were averaged", o => E(o)?.Samples),
+            C<PointOutcome>("cv_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of cv_j_per_mol_k", o => E(o)?.HeatCapacityJPerMolK),
+            C<PointOutcome>("entropy_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of entropy_j_per_mol_k", o => E(o)?.EntropyJPerMolK),
+            C<PointOutcome>("free_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of free_energy_j_per_mol", o => E(o)?.FreeEnergyJPerMol),
+            C<PointOutcome>("internal_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of internal_energy_j_per_mol", o => E(o)?.InternalEnergyJPerMol),
+            C<PointOutcome>("zero_point_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of zero_point_energy_j_per_mol", o => E(o)?.ZeroPointEnergyJPerMol),
+            C<PointOutcome>("max_freq_stderr_thz", ColumnType.Double, "THz", "standard error of max_freq_thz (configurations)", o => E(o)?.MaxFrequencyThz),
+            C<PointOutcome>("confinement_gap_stderr_thz", ColumnType.Double, "THz", "standard error of confinement_gap_thz (configurations)", o => E(o)?.ConfinementGapThz),
+            C<PointOutcome>("surface_mode_fraction_stderr", ColumnType.Double, "1", "standard error of surface_mode_fraction (configurations)", o => E(o)?.SurfaceModeFraction),
+            C<PointOutcome>("msd_surface_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_surface_nm2", o => E(o)?.MsdSurfaceNm2),
+            C<PointOutcome>("msd_interior_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_interior_nm2", o => E(o)?.MsdInteriorNm2),
+            C<PointOutcome>("cv_ratio_stderr", ColumnType.Double, "1", "standard error of cv_ratio_to_periodic (configurations)", o => E(o)?.CvRatioToPeriodic),
         ];
     }
 
@@ -335,6 +444,14 @@ internal sealed class ResultSchemas
             C<RowOf<ThermalValue>>("kappa_zz_w_per_m_k", ColumnType.Double, w, "along z (empty for a chain or sheet)", r => V(r.Item.Conductivity?.KappaZzWPerMK)),
             C<RowOf<ThermalValue>>("kappa_w_per_m_k", ColumnType.Double, w, "mean over the lattice's directions (trace/3 in 3D); +Infinity when the channels leave modes unscattered", r => V(r.Item.Conductivity?.KappaWPerMK)),
             C<RowOf<ThermalValue>>("kappa_mesh_change", ColumnType.Double, "1", "relative change of kappa from the half-density mesh (bulk only)", r => V(r.Item.Conductivity?.MeshRelativeChange)),
+            C<RowOf<ThermalValue>>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of the periodic crystal of the same size (samples with boundaries, shapes or disorder)", r => r.Item.PeriodicCvJPerMolK),
+            C<RowOf<ThermalValue>>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k over periodic_cv_j_per_mol_k", r => r.Item.PeriodicCvJPerMolK is { } p && p > 0 && double.IsFinite(r.Item.Thermal.HeatCapacityJPerMolK) ? r.Item.Thermal.HeatCapacityJPerMolK / p : null),
+            C<RowOf<ThermalValue>>("internal_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of internal_energy_j_per_mol (random vectors or configurations; empty for exact sums)", r => V(r.Item.StandardErrors?.InternalEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("free_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of free_energy_j_per_mol", r => V(r.Item.StandardErrors?.FreeEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("entropy_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of entropy_j_per_mol_k", r => V(r.Item.StandardErrors?.EntropyJPerMolK)),
+            C<RowOf<ThermalValue>>("cv_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of cv_j_per_mol_k", r => V(r.Item.StandardErrors?.HeatCapacityJPerMolK)),
+            C<RowOf<ThermalValue>>("ordered_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "Cv of the ordered virtual crystal (disordered samples)", r => V(r.Item.OrderedCvJPerMolK)),
+            C<RowOf<ThermalValue>>("kappa_confined_w_per_m_k", ColumnType.Double, w, "films and wires: kappa from the confined modes, mean over the periodic directions", r => V(r.Item.Confined?.KappaWPerMK)),
         ];
     }
 }

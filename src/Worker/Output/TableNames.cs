@@ -16,6 +16,8 @@ public static class TableNames
     /// <summary>The former name of <see cref="MeanSquareDisplacements"/>: still accepted in job files and in older catalogs.</summary>
     public const string FormerDisplacements = "displacements";
     public const string CumulativeKappa = "cumulative_kappa";
+    public const string Layers = "layers";
+    public const string LayerDos = "layer_dos";
 
     /// <summary>Every table a sweep with these outputs writes, points first. Sound speeds go with points.</summary>
     public static IReadOnlyList<string> For(OutputSelection outputs)

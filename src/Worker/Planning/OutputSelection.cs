@@ -2,8 +2,11 @@ using System.Collections.Immutable;
 
 namespace LatticeSweep.Worker.Planning;
 
-/// <summary>Which tables a sweep writes. <c>points</c> is always written; <c>cumulative_kappa</c> needs conductivity estimates.</summary>
-public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements, bool CumulativeKappa = false)
+/// <summary>
+/// Which tables a sweep writes. <c>points</c> is always written; <c>cumulative_kappa</c> needs
+/// conductivity estimates; <c>layers</c> and <c>layer_dos</c> have rows for samples with a surface.
+/// </summary>
+public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bool Modes, bool Displacements, bool CumulativeKappa = false, bool Layers = false, bool LayerDos = false)
 {
     public static OutputSelection Default => new(Dos: true, Thermal: true, Dispersion: false, Modes: true, Displacements: true);
 
@@ -16,5 +19,7 @@ public sealed record OutputSelection(bool Dos, bool Thermal, bool Dispersion, bo
             .. Modes ? new[] { "modes" } : [],
             .. Displacements ? new[] { "mean_square_displacements" } : [],
             .. CumulativeKappa ? new[] { "cumulative_kappa" } : [],
+            .. Layers ? new[] { "layers" } : [],
+            .. LayerDos ? new[] { "layer_dos" } : [],
         ];
 }

@@ -43,6 +43,8 @@ internal static class SweepPlanner
 
         var (options, tables) = output!.Value;
         var baseSpec = new BoundSpec(model!, sample!, options.Conductivity);
+        SampleSectionReader.CheckWithEngine(root.SubTable("sample"), baseSpec, options);
+        problems.ThrowIfAny();
         var catalog = FieldCatalog.Build(baseSpec);
         var axes = ResolveAxes(sweep, catalog, problems);
         var candidateTable = sweep.Candidates is { } cd ? CandidateTableReader.Read(cd, problems) : null;

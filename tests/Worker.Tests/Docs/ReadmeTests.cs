@@ -24,7 +24,7 @@ public sealed partial class ReadmeTests : IDisposable
     internal static string GeneratedColumnReference()
     {
         var schemas = new ResultSchemas([]);
-        var all = TableNames.For(new OutputSelection(Dos: true, Thermal: true, Dispersion: true, Modes: true, Displacements: true, CumulativeKappa: true));
+        var all = TableNames.For(new OutputSelection(Dos: true, Thermal: true, Dispersion: true, Modes: true, Displacements: true, CumulativeKappa: true, Layers: true, LayerDos: true));
         var text = new StringBuilder();
         foreach (var table in all)
         {

@@ -37,21 +37,22 @@ public static class PointCost
     /// solves of its own); per eigen-solve (values only) and per solve x n^3; the same with eigenvectors; per mode
     /// streamed into a finite crystal's sums; per bulk mesh simplex x branch; per
     /// temperature x DOS bin; per conductivity flop-equivalent. Measured by `bench/run.sh cost`
-    /// (non-negative least squares on the relative error of 24 solves' CPU time, 2026-12-02; every
-    /// case then within 0.45x to 1.35x of its measured time; see bench/README.md).
+    /// (non-negative least squares on the relative error of 24 solves' CPU time, 2026-12-02 16:30 UTC,
+    /// after the lane-parallel eigen-solvers and the 256-bit tetrahedron kernel; every case then
+    /// within 0.56x to 1.22x of its measured time; see bench/README.md).
     /// </summary>
     public static readonly double[] SecondsPerUnit =
     [
-        5.42e-4,   // per point
-        5.33e-8,   // per point x n^3
+        5.15e-4,   // per point
+        4.21e-8,   // per point x n^3
         0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
-        2.03e-10,  // per solve x n^3, values
-        2.30e-6,   // per solve, vectors
-        2.68e-9,   // per solve x n^3, vectors
-        8.68e-8,   // per mode streamed (finite)
-        1.18e-7,   // per bulk mesh simplex x branch
-        4.86e-9,   // per temperature x bin
-        8.65e-10,  // per conductivity flop-equivalent (1.2e9 of ConductivityWork's flops per second)
+        3.65e-10,  // per solve x n^3, values
+        1.33e-6,   // per solve, vectors
+        3.34e-9,   // per solve x n^3, vectors
+        7.88e-8,   // per mode streamed (finite)
+        7.13e-8,   // per bulk mesh simplex x branch
+        3.39e-8,   // per temperature x bin
+        8.67e-10,  // per conductivity flop-equivalent (1.2e9 of ConductivityWork's flops per second)
     ];
 
     /// <summary>Estimated single-core seconds for the point.</summary>
@@ -108,6 +109,15 @@ public static class PointCost
                 // Simplices per mesh cell: intervals (1D), 2 triangles (2D), 6 tetrahedra (3D).
                 var simplices = model.Lattice.Dimension switch { 1 => 1.0, 2 => 2.0, _ => 6.0 };
                 return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, b.PointCount * n * simplices, temperatures * fineBins, conductivity);
+            }
+
+            case RealSpaceSample:
+            {
+                // Dense blocks and the kernel polynomial method: the Engine's own flop estimate, counted at
+                // the measured rate of the conductivity's flop-equivalents (both are dense and sparse
+                // linear algebra of the same kind), plus the fixed per-point work.
+                var flops = PhononSolver.Estimate(model, sample, options).FlopEstimate;
+                return new Work(n3, 0, 0, 0, 0, 0, 0, temperatures * options.DosBins, conductivity + flops);
             }
 
             default:

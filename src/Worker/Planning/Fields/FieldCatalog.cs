@@ -2,6 +2,7 @@ using System.Collections.Immutable;
 using System.Globalization;
 using LatticeSweep.Engine.Builders;
 using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.JobFiles;
 using LatticeSweep.Worker.Planning.Specs;
@@ -233,6 +234,64 @@ internal sealed class FieldCatalog
         if (!sample.Mesh.IsEmpty)
         {
             Whole("sample.mesh", 1, SampleSectionReader.MaxMeshPerDirection, (s, v) => s with { Sample = s.Sample with { Mesh = [.. Enumerable.Repeat(v, dimension)] } });
+        }
+
+        if (finite || sample.RealSpace is not null)
+        {
+            AddRealSpace(sample.RealSpace, dimension);
+        }
+    }
+
+    /// <summary>Boundaries (every finite sample), the shape's radius and the disorder and solver numbers that the job file gives.</summary>
+    private void AddRealSpace(RealSpaceSpec? r, int dimension)
+    {
+        static string? CheckBoundary(string v) => v is "periodic" or "free" ? null : $"must be \"periodic\" or \"free\", got \"{v}\"";
+        static Boundary Word(string v) => v == "free" ? Boundary.Free : Boundary.Periodic;
+        RealSpaceSpec Of(BoundSpec s) => s.Sample.RealSpace ?? new RealSpaceSpec { Boundaries = [.. Enumerable.Repeat(Boundary.Periodic, Math.Max(1, dimension))] };
+        BoundSpec With(BoundSpec s, RealSpaceSpec x) => s with { Sample = s.Sample with { RealSpace = x } };
+
+        Text("sample.boundaries", CheckBoundary, (s, v) => With(s, Of(s) with { Boundaries = [.. Enumerable.Repeat(Word(v), Math.Max(1, dimension))] }), 1);
+        if (dimension > 1)
+        {
+            for (var k = 0; k < dimension; k++)
+            {
+                var dk = k;
+                Text($"sample.boundaries[{Index(k)}]", CheckBoundary, (s, v) => With(s, Of(s) with { Boundaries = Of(s).Boundaries.SetItem(dk, Word(v)) }), 1);
+            }
+        }
+
+        if (r is null)
+        {
+            return;
+        }
+
+        if (r.Shape is "sphere" or "cylinder")
+        {
+            Number("sample.shape.radius_nm", Checks.PositiveWithin(1e-3, SampleSectionReader.MaxRadiusNm), (s, v) => With(s, Of(s) with { RadiusNm = v }));
+        }
+
+        Whole("sample.dense_max_atoms", 1, RealSpaceSample.HardDenseMaxAtoms, (s, v) => With(s, Of(s) with { DenseMaxAtoms = v }));
+        Whole("sample.kpm.moments", KpmSettings.MinMoments, KpmSettings.MaxMoments, (s, v) => With(s, Of(s) with { Kpm = Of(s).Kpm with { Moments = v } }));
+        Whole("sample.kpm.random_vectors", 1, KpmSettings.MaxRandomVectors, (s, v) => With(s, Of(s) with { Kpm = Of(s).Kpm with { RandomVectors = v } }));
+        if (r.Disorder is not { } disorder)
+        {
+            return;
+        }
+
+        Whole("sample.disorder.configurations", 1, Disorder.MaxConfigurations, (s, v) => With(s, Of(s) with { Disorder = Of(s).Disorder! with { Configurations = v } }));
+        for (var i = 0; i < disorder.Substitutions.Length; i++)
+        {
+            var si = i;
+            var p = $"sample.disorder.substitutions[{Index(i)}]";
+            BoundSpec Sub(BoundSpec s, Func<SubstitutionSpec, SubstitutionSpec> change)
+            {
+                var d = Of(s).Disorder!;
+                return With(s, Of(s) with { Disorder = d with { Substitutions = d.Substitutions.SetItem(si, change(d.Substitutions[si])) } });
+            }
+
+            Number(p + ".concentration", Checks.Between(0, 1), (s, v) => Sub(s, x => x with { Concentration = v }));
+            Number(p + ".mass_amu", Checks.MassAmu, (s, v) => Sub(s, x => x with { MassAmu = v, Element = null }));
+            Number(p + ".spring_factor", Checks.PositiveWithin(0.01, 100), (s, v) => Sub(s, x => x with { SpringFactor = v }));
         }
     }
 

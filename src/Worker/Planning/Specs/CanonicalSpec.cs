@@ -21,6 +21,13 @@ internal static class CanonicalSpec
         sb.Append("sample ").Append(s.Kind).Append(" cells=").AppendJoin(',', s.Cells.Select(I))
             .Append(" length_nm=").AppendJoin(',', s.LengthNm.Select(D))
             .Append(" mesh=").AppendJoin(',', s.Mesh.Select(I)).Append('\n');
+
+        // Written only when given, so the ids of periodic crystals and bulk points do not change.
+        if (s.RealSpace is { } realSpace)
+        {
+            WriteRealSpace(sb, realSpace);
+        }
+
         sb.Append("output t=").AppendJoin(',', options.TemperaturesK.Select(D))
             .Append(" ref=").Append(D(options.ReferenceTemperatureK))
             .Append(" bins=").Append(I(options.DosBins))
@@ -47,6 +54,32 @@ internal static class CanonicalSpec
         }
 
         return sb.ToString();
+    }
+
+    private static void WriteRealSpace(StringBuilder sb, RealSpaceSpec r)
+    {
+        sb.Append("realspace boundaries=").AppendJoin(',', r.Boundaries.Select(b => b.ToString()))
+            .Append(" shape=").Append(r.Shape)
+            .Append(" radius=").Append(r.RadiusNm is { } radius ? D(radius) : "-")
+            .Append(" axis=").Append(I(r.Axis))
+            .Append(" centre=").Append(V(r.CentreFractional))
+            .Append(" method=").Append(r.Method)
+            .Append(" dense_max=").Append(I(r.DenseMaxAtoms))
+            .Append(" threshold=").Append(D(r.SurfaceWeightThreshold))
+            .Append(" kpm=").Append(I(r.Kpm.Moments)).Append(',').Append(I(r.Kpm.RandomVectors)).Append(',').Append(r.Kpm.Seed.ToString(CultureInfo.InvariantCulture))
+            .Append('\n');
+        if (r.Disorder is { } d)
+        {
+            sb.Append("disorder configurations=").Append(I(d.Configurations)).Append(" seed=").Append(d.Seed.ToString(CultureInfo.InvariantCulture)).Append('\n');
+            foreach (var x in d.Substitutions)
+            {
+                sb.Append("substitution ").Append(Quote(x.Site))
+                    .Append(" mass=").Append(x.MassAmu is { } m ? D(m) : "-")
+                    .Append(" element=").Append(x.Element is { } e ? Quote(e) : "-")
+                    .Append(" c=").Append(D(x.Concentration))
+                    .Append(" springs=").Append(D(x.SpringFactor)).Append('\n');
+            }
+        }
     }
 
     private static void WriteConductivity(StringBuilder sb, ConductivityOptions c)

@@ -64,6 +64,11 @@ internal static class EngineObjects
             return BulkSample.Create(m[0], m.Length > 1 ? m[1] : 1, m.Length > 2 ? m[2] : 1);
         }
 
+        if (sample.RealSpace is { } realSpace)
+        {
+            return BuildRealSpace(sample, realSpace, lattice);
+        }
+
         if (!sample.LengthNm.IsEmpty)
         {
             return FiniteSample.FromLengthNm(lattice, sample.LengthNm);
@@ -73,6 +78,90 @@ internal static class EngineObjects
         var finite = FiniteSample.Create(c[0], c.Length > 1 ? c[1] : 1, c.Length > 2 ? c[2] : 1);
         finite.CheckAgainst(lattice);
         return finite;
+    }
+
+    /// <summary>
+    /// A finite sample with boundaries, a shape or disorder. Cells come from cells or length_nm as for
+    /// a periodic crystal (a cylinder uses the count along its axis); a sphere takes its size from its radius.
+    /// </summary>
+    private static RealSpaceSample BuildRealSpace(SampleSpec sample, RealSpaceSpec spec, Lattice lattice)
+    {
+        var n = new[] { 1, 1, 1 };
+        if (spec.Shape != "sphere")
+        {
+            if (!sample.LengthNm.IsEmpty)
+            {
+                var f = FiniteSample.FromLengthNm(lattice, sample.LengthNm);
+                (n[0], n[1], n[2]) = (f.N1, f.N2, f.N3);
+            }
+            else
+            {
+                for (var i = 0; i < sample.Cells.Length && i < 3; i++)
+                {
+                    n[i] = sample.Cells[i];
+                }
+            }
+        }
+
+        if (spec.Shape == "cylinder")
+        {
+            for (var i = 0; i < 3; i++)
+            {
+                n[i] = i == spec.Axis ? n[i] : 1;
+            }
+        }
+
+        var b = new Boundary[3];
+        for (var i = 0; i < 3; i++)
+        {
+            b[i] = i < spec.Boundaries.Length ? spec.Boundaries[i] : Boundary.Periodic;
+        }
+
+        SampleShape shape = spec.Shape switch
+        {
+            "sphere" => new SphereShape(spec.RadiusNm ?? 0) { CentreFractional = spec.CentreFractional },
+            "cylinder" => new CylinderShape(spec.RadiusNm ?? 0, spec.Axis) { CentreFractional = spec.CentreFractional },
+            _ => BoxShape.Instance,
+        };
+        return new RealSpaceSample
+        {
+            N1 = n[0],
+            N2 = n[1],
+            N3 = n[2],
+            B1 = b[0],
+            B2 = b[1],
+            B3 = b[2],
+            Shape = shape,
+            Method = spec.Method,
+            DenseMaxAtoms = spec.DenseMaxAtoms,
+            SurfaceWeightThreshold = spec.SurfaceWeightThreshold,
+            Kpm = spec.Kpm,
+            Disorder = spec.Disorder is { } d
+                ? new Disorder(
+                    [.. d.Substitutions.Select((x, i) => new SiteSubstitution(x.Site, MassOf(x.MassAmu, x.Element, $"sample.disorder.substitutions[{i}]"), x.Concentration, x.SpringFactor))],
+                    d.Configurations,
+                    d.Seed)
+                : null,
+        };
+    }
+
+    /// <summary>The lattice of a model spec alone (cheap: no springs), or null when it cannot be built.</summary>
+    public static Lattice? LatticeOf(ModelSpec model)
+    {
+        try
+        {
+            return model switch
+            {
+                LatticeModelSpec m => BuildLattice(m),
+                LayeredSpec l => BuildModel(l).Lattice,
+                ElasticSpec e => BuildModel(e).Lattice,
+                _ => null,
+            };
+        }
+        catch (ModelException)
+        {
+            return null;
+        }
     }
 
     private static Lattice BuildLattice(LatticeModelSpec m) => m.Lattice switch

@@ -1,4 +1,6 @@
 using System.Globalization;
+using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Transport;
 
 namespace LatticeSweep.Worker.Planning.Specs;
@@ -19,9 +21,14 @@ internal static class SpecChecks
         }
 
         var s = spec.Sample;
-        if (s.Kind == SampleKind.Finite && s.Cells.IsEmpty && s.LengthNm.IsEmpty)
+        if (s.Kind == SampleKind.Finite && s.Cells.IsEmpty && s.LengthNm.IsEmpty && s.RealSpace?.Shape != "sphere")
         {
             return "a finite sample needs sample.cells or sample.length_nm";
+        }
+
+        if (s.Kind == SampleKind.Finite && s.RealSpace is not null && RealSpaceProblem(spec) is { } wrong)
+        {
+            return wrong;
         }
 
         if (s.Kind == SampleKind.Bulk && s.Mesh.IsEmpty)
@@ -40,6 +47,26 @@ internal static class SpecChecks
             {
                 return $"conductivity needs sample.mesh >= {I(ConductivityLimits.MinimumMesh)} per direction, got {I(s.Mesh.Min())}";
             }
+        }
+
+        return null;
+    }
+
+    /// <summary>The Engine's own checks of a sample with boundaries, a shape or disorder (a radius below one cell, a sphere made periodic, ...).</summary>
+    private static string? RealSpaceProblem(BoundSpec spec)
+    {
+        try
+        {
+            var model = EngineObjects.BuildModel(spec.Model);
+            if (EngineObjects.BuildSample(spec.Sample, model.Lattice) is RealSpaceSample sample && sample.Problems(model) is { Count: > 0 } problems)
+            {
+                return problems[0].ToString();
+            }
+        }
+        catch (ModelException e)
+        {
+            // A model problem is the point's to report when it runs; a sample problem is reported here.
+            return e.Problems.FirstOrDefault(p => p.Where.StartsWith("sample", StringComparison.Ordinal))?.ToString();
         }
 
         return null;

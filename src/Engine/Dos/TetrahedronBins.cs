@@ -1,0 +1,237 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
+using System.Runtime.Intrinsics.X86;
+using LatticeSweep.Engine.Numerics.Simd;
+
+namespace LatticeSweep.Engine.Dos;
+
+/// <summary>
+/// One tetrahedron's states spread over the bins it spans (linear tetrahedron method, Bloechl, Jepsen
+/// and Andersen, Phys. Rev. B 49, 16223 (1994), eq. A2-A4 without the curvature correction, as in
+/// <see cref="SimplexCumulative.Tetrahedron"/>): the cumulative fraction N(E) at each upper bin edge,
+/// differenced into the bins. Two kernels with the same formulas in the same order of operations, so
+/// the same bits: a scalar one (edge by edge, one loop per piece of N(E)) and a 256-bit one (four bin
+/// edges per step, all three pieces evaluated and the right one selected per lane, the four bins
+/// added with one vector load, add and store). The bins a tetrahedron spans are contiguous, which is
+/// what makes the vector kernel pay: a typical one spans ~20 of the fine bins, five vector steps.
+/// The accumulators passed in must have <see cref="Padding"/> spare values past the last bin (the
+/// vector kernel adds exact zeros there) and a stride of <c>bins + Padding</c> between channels.
+/// </summary>
+internal sealed class TetrahedronBins
+{
+    /// <summary>Spare accumulator values past the last bin (and per channel row).</summary>
+    public const int Padding = 4;
+
+    private readonly double startThz;
+    private readonly double widthThz;
+    private readonly double inverseWidth;
+    private readonly int bins;
+    private readonly int stride;
+    private readonly bool vectors;
+
+    /// <param name="grid">The bins.</param>
+    /// <param name="useVectors">The 256-bit kernel (taken only where AVX2 runs it natively).</param>
+    public TetrahedronBins(FrequencyGrid grid, bool useVectors)
+    {
+        startThz = grid.StartThz;
+        widthThz = grid.WidthThz;
+        inverseWidth = 1.0 / grid.WidthThz;
+        bins = grid.Bins;
+        stride = grid.Bins + Padding;
+        vectors = useVectors && Avx2.IsSupported;
+    }
+
+    /// <summary>The kernel this process uses by default: vectors unless <c>LATSWEEP_SIMD_WIDTH=scalar</c> or no AVX2.</summary>
+    public static bool VectorsByDefault => Avx2.IsSupported && SimdWidths.Active != SimdWidth.Scalar;
+
+    /// <summary>True when the 256-bit kernel runs.</summary>
+    public bool UsesVectors => vectors;
+
+    /// <summary>Adds share states of the tetrahedron with corner values a, b, c, d (any order).</summary>
+    /// <param name="total">States per bin, length at least bins + <see cref="Padding"/>.</param>
+    /// <param name="partial">Per channel, [c * (bins + Padding) + bin]; may be empty when channels is 0.</param>
+    /// <param name="meanWeight">Channel weights of this tetrahedron (mean of its corners).</param>
+    public void Add(double a, double b, double c, double d, double share, double[] total, double[] partial, int channels, double[] meanWeight)
+    {
+        // Sorting network for four values, branch-free (min/max): corner order is random, so branches
+        // would mispredict half the time.
+        var lo1 = Math.Min(a, b);
+        var hi1 = Math.Max(a, b);
+        var lo2 = Math.Min(c, d);
+        var hi2 = Math.Max(c, d);
+        a = Math.Min(lo1, lo2);
+        var midLow = Math.Max(lo1, lo2);
+        d = Math.Max(hi1, hi2);
+        var midHigh = Math.Min(hi1, hi2);
+        b = Math.Min(midLow, midHigh);
+        c = Math.Max(midLow, midHigh);
+
+        var spread = d - a;
+        var firstBin = BinOf(a);
+        var lastBin = BinOf(d);
+        if (firstBin == lastBin || spread <= 1e-12 * Math.Max(Math.Abs(d), widthThz))
+        {
+            Put(firstBin, share, total, partial, channels, meanWeight);
+            return;
+        }
+
+        // Separate coincident corners by a hair so the closed forms never divide by zero; the shift is
+        // far below a bin width, so the binned result is unchanged.
+        var delta = 1e-9 * spread;
+        if (b < a + delta) b = a + delta;
+        if (c < b + delta) c = b + delta;
+        if (d < c + delta) d = c + delta;
+
+        // N(E): x^3 k1 below b; (e21^2 + 3 e21 x + 3 x^2 - k2 x^3) k3 between b and c; 1 - y^3 k4 above c.
+        var e21 = b - a;
+        var e31 = c - a;
+        var e41 = d - a;
+        var e32 = c - b;
+        var e42 = d - b;
+        var e43 = d - c;
+        // One division for all four constants (the spreads are >= 1e-9 of the whole, so no underflow).
+        var r = 1.0 / (e21 * e31 * e41 * e32 * e42 * e43);
+        var k1 = r * e32 * e42 * e43;          // 1 / (e21 e31 e41)
+        var k3 = k1 * e21;                     // 1 / (e31 e41)
+        var k2 = (e31 + e42) * r * e21 * e31 * e41 * e43; // (e31 + e42) / (e32 e42)
+        var k4 = r * e21 * e31 * e32;          // 1 / (e41 e42 e43)
+        var piece = new Pieces(a, b, c, d, e21 * e21, e21, k1, k2, k3, k4);
+        if (vectors)
+        {
+            AddVectors(in piece, firstBin, lastBin, share, total, partial, channels, meanWeight);
+        }
+        else
+        {
+            AddScalar(in piece, firstBin, lastBin, share, total, partial, channels, meanWeight);
+        }
+    }
+
+    private readonly record struct Pieces(double A, double B, double C, double D, double Constant, double E21, double K1, double K2, double K3, double K4);
+
+    /// <summary>Bin of f like <see cref="FrequencyGrid.BinOf"/>, by a multiplication (f >= start, so truncation is floor).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private int BinOf(double frequencyThz)
+    {
+        var u = (frequencyThz - startThz) * inverseWidth;
+        return u <= 0 ? 0 : Math.Min((int)u, bins - 1);
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private double Edge(int k) => startThz + (k * widthThz);
+
+    private void AddScalar(in Pieces p, int firstBin, int lastBin, double share, double[] total, double[] partial, int channels, double[] meanWeight)
+    {
+        // Three loops, one per piece of N(E), so the edge loop has no branch on the piece.
+        var below = 0.0;
+        var bin = firstBin;
+        double edge;
+        for (; bin < lastBin && (edge = Edge(bin + 1)) < p.B; bin++)
+        {
+            var x = Math.Max(edge - p.A, 0.0);
+            var cumulative = x * x * x * p.K1;
+            Put(bin, (cumulative - below) * share, total, partial, channels, meanWeight);
+            below = cumulative;
+        }
+
+        for (; bin < lastBin && (edge = Edge(bin + 1)) < p.C; bin++)
+        {
+            var x = edge - p.B;
+            var cumulative = (p.Constant + (3 * x * (p.E21 + x)) - (p.K2 * x * x * x)) * p.K3;
+            Put(bin, (cumulative - below) * share, total, partial, channels, meanWeight);
+            below = cumulative;
+        }
+
+        for (; bin < lastBin; bin++)
+        {
+            var y = Math.Max(p.D - Edge(bin + 1), 0.0);
+            var cumulative = 1 - (y * y * y * p.K4);
+            Put(bin, (cumulative - below) * share, total, partial, channels, meanWeight);
+            below = cumulative;
+        }
+
+        Put(lastBin, (1.0 - below) * share, total, partial, channels, meanWeight);
+    }
+
+    /// <summary>
+    /// Four bins per step: lane j holds bin + j and its upper edge. Lanes at or past the last bin take
+    /// N = 1, so the last bin gets the rest (1 - N below) and the lanes past it add exact zeros (into
+    /// the padding). The lower-edge values are the upper ones shifted by a lane, the first lane from
+    /// the previous step (0 at the first bin, as in the scalar kernel).
+    /// </summary>
+    private void AddVectors(in Pieces p, int firstBin, int lastBin, double share, double[] total, double[] partial, int channels, double[] meanWeight)
+    {
+        var laneOffsets = Vector256.Create(1.0, 2.0, 3.0, 4.0);
+        var start = Vector256.Create(startThz);
+        var width = Vector256.Create(widthThz);
+        var a = Vector256.Create(p.A);
+        var b = Vector256.Create(p.B);
+        var c = Vector256.Create(p.C);
+        var d = Vector256.Create(p.D);
+        var constant = Vector256.Create(p.Constant);
+        var e21 = Vector256.Create(p.E21);
+        var k1 = Vector256.Create(p.K1);
+        var k2 = Vector256.Create(p.K2);
+        var k3 = Vector256.Create(p.K3);
+        var k4 = Vector256.Create(p.K4);
+        var three = Vector256.Create(3.0);
+        var one = Vector256.Create(1.0);
+        var shareV = Vector256.Create(share);
+        var lastEdgeIndex = Vector256.Create(lastBin + 0.5);
+        var carry = Vector256<double>.Zero;
+        ref var totalRef = ref total[0];
+        for (var bin = firstBin; bin <= lastBin; bin += 4)
+        {
+            var k = Vector256.Create((double)bin) + laneOffsets; // upper-edge indices bin + 1 .. bin + 4, exact
+            var edge = start + (k * width);
+
+            // Most steps lie in one piece of N(E) (a tetrahedron spans ~20 bins, its middle piece
+            // often only a few): evaluate just that piece there, all three and select elsewhere.
+            Vector256<double> upper;
+            if (Edge(bin + 4) < p.B)
+            {
+                var x1 = Vector256.Max(edge - a, Vector256<double>.Zero);
+                upper = x1 * x1 * x1 * k1;
+            }
+            else if (Edge(bin + 1) >= p.C)
+            {
+                var y3 = Vector256.Max(d - edge, Vector256<double>.Zero);
+                upper = one - (y3 * y3 * y3 * k4);
+            }
+            else
+            {
+                var x1 = Vector256.Max(edge - a, Vector256<double>.Zero);
+                var n1 = x1 * x1 * x1 * k1;
+                var x2 = edge - b;
+                var n2 = (constant + (three * x2 * (e21 + x2)) - (k2 * x2 * x2 * x2)) * k3;
+                var y3 = Vector256.Max(d - edge, Vector256<double>.Zero);
+                var n3 = one - (y3 * y3 * y3 * k4);
+                upper = Vector256.ConditionalSelect(
+                    Vector256.LessThan(edge, b), n1,
+                    Vector256.ConditionalSelect(Vector256.LessThan(edge, c), n2, n3));
+            }
+
+            upper = Vector256.ConditionalSelect(Vector256.GreaterThan(k, lastEdgeIndex), one, upper);
+            var lower = Avx.Blend(Avx2.Permute4x64(upper, 0b10_01_00_00), carry, 0b0001);
+            var amount = (upper - lower) * shareV;
+            carry = Avx2.Permute4x64(upper, 0b11_11_11_11);
+
+            ref var slot = ref Unsafe.Add(ref totalRef, bin);
+            (Vector256.LoadUnsafe(ref slot) + amount).StoreUnsafe(ref slot);
+            for (var ch = 0; ch < channels; ch++)
+            {
+                ref var partialSlot = ref partial[(ch * stride) + bin];
+                (Vector256.LoadUnsafe(ref partialSlot) + (amount * meanWeight[ch])).StoreUnsafe(ref partialSlot);
+            }
+        }
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private void Put(int bin, double amount, double[] total, double[] partial, int channels, double[] meanWeight)
+    {
+        total[bin] += amount;
+        for (var ch = 0; ch < channels; ch++)
+        {
+            partial[(ch * stride) + bin] += amount * meanWeight[ch];
+        }
+    }
+}

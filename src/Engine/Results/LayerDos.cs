@@ -1,0 +1,10 @@
+using System.Collections.Immutable;
+
+namespace LatticeSweep.Engine.Results;
+
+/// <summary>
+/// Density of states of the atoms of one layer (0 = the surface), states per THz per atom, on the
+/// frequency grid of the point's <see cref="DosCurve"/>: each curve integrates to the displacement
+/// components per atom (3, or 1 for the scalar model), so surface and interior curves compare directly.
+/// </summary>
+public sealed record LayerDos(int Layer, long Sites, ImmutableArray<double> DensityPerThzPerAtom);

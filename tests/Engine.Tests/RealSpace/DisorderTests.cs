@@ -1,0 +1,100 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Tests.Support;
+
+namespace LatticeSweep.Engine.Tests.RealSpace;
+
+/// <summary>Random substitution: the limits c = 0 and c = 1 are the ordered crystals exactly; in between, averages with errors.</summary>
+public sealed class DisorderTests
+{
+    private static readonly SolveOptions Options = new() { TemperaturesK = [20, 100, 300], DosBins = 60 };
+
+    private static RealSpaceSample Supercell(double concentration, double massAmu, double springFactor = 1.0, int configurations = 3) =>
+        RealSpaceSample.Box(4, 4, 4) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", massAmu, concentration, springFactor)], configurations, Seed: 5),
+        };
+
+    [Fact]
+    public void Concentration_zero_is_the_ordered_periodic_crystal()
+    {
+        var ordered = PhononSolver.Solve(Crystals.FccCentral(), FiniteSample.Create(4, 4, 4), Options);
+        var disordered = PhononSolver.Solve(Crystals.FccCentral(), Supercell(0.0, 60.0), Options);
+        AssertSameThermal(ordered, disordered);
+        Assert.Equal("configurations", disordered.Errors!.Source);
+        Assert.Equal(3, disordered.Errors.Samples);
+        Assert.Equal(0.0, disordered.Errors.HeatCapacityJPerMolK!.Value, 12);
+        AssertSameThermal(ordered, disordered.Ordered!);
+    }
+
+    [Fact]
+    public void Concentration_one_is_the_crystal_of_the_substitute_with_its_springs()
+    {
+        // Every atom substituted: mass 60 amu and springs x 1.5 (sqrt(f) sqrt(f) on every bond).
+        var substitute = CrystalModel.Create(Lattice.FaceCentredCubic(0.4), [new Site("A", "A", Vec3.Zero, 60.0)], [new ShellSpring("A", "A", 1, 1.5 * Crystals.SpringNPerM)]);
+        var expected = PhononSolver.Solve(substitute, FiniteSample.Create(4, 4, 4), Options);
+        var disordered = PhononSolver.Solve(Crystals.FccCentral(), Supercell(1.0, 60.0, 1.5), Options);
+        AssertSameThermal(expected, disordered);
+        Approx.Equal(expected.Summary.MolarMassKgPerMol, disordered.Summary.MolarMassKgPerMol, 1e-12, "molar mass");
+        AssertSameThermal(expected, disordered.Ordered!);
+    }
+
+    [Fact]
+    public void A_half_substituted_crystal_averages_configurations_with_errors_beside_its_virtual_crystal()
+    {
+        var result = PhononSolver.Solve(Crystals.FccCentral(), Supercell(0.5, 60.0, configurations: 4), Options);
+        var light = PhononSolver.Solve(Crystals.FccCentral(), FiniteSample.Create(4, 4, 4), Options);
+        Assert.True(result.Errors!.HeatCapacityJPerMolK > 0, "configurations differ");
+        Assert.True(result.Errors.Thermal[0].HeatCapacityJPerMolK > 0);
+        Assert.Equal(result.Dos.Total.Length, result.Errors.DosTotal.Length);
+
+        // Heavier atoms on half the sites: softer spectrum, more heat capacity at 20 K than the host.
+        Assert.True(result.Thermal[0].HeatCapacityJPerMolK > light.Thermal[0].HeatCapacityJPerMolK);
+        Approx.Equal(0.5 * (Crystals.MassAmu + 60.0) * 1e-3, result.Summary.MolarMassKgPerMol, 1e-9, "mean molar mass");
+
+        // The virtual crystal has the mean mass on every site: an ordered crystal of 40 amu.
+        var vca = PhononSolver.Solve(CrystalModel.Create(Lattice.FaceCentredCubic(0.4), [new Site("A", "A", Vec3.Zero, 40.0)], [new ShellSpring("A", "A", 1, Crystals.SpringNPerM)]), FiniteSample.Create(4, 4, 4), Options);
+        AssertSameThermal(vca, result.Ordered!);
+        Assert.Null(result.Ordered!.Errors);
+    }
+
+    [Fact]
+    public void The_virtual_crystal_of_a_periodic_supercell_keeps_its_mean_mass_under_the_kernel_polynomial_method()
+    {
+        // The virtual crystal puts the mean mass (20 + 60) / 2 = 40 amu on every site (its definition;
+        // common practice, no source). Under the kernel polynomial method the Bloch block is unfolded
+        // to the whole supercell, which must keep those masses, not fall back to the host's 20 amu
+        // (a top frequency sqrt(2) higher). 64 atoms: 200 Lanczos steps find the top exactly.
+        var sample = Supercell(0.5, 60.0, configurations: 2) with { Method = RealSpaceMethod.KernelPolynomial, Kpm = new KpmSettings { Moments = 256, RandomVectors = 4 } };
+        var result = PhononSolver.Solve(Crystals.FccCentral(), sample, Options);
+        var vca = PhononSolver.Solve(CrystalModel.Create(Lattice.FaceCentredCubic(0.4), [new Site("A", "A", Vec3.Zero, 40.0)], [new ShellSpring("A", "A", 1, Crystals.SpringNPerM)]), FiniteSample.Create(4, 4, 4), Options);
+        Assert.Equal("kernel polynomial", result.Ordered!.Surface!.Method);
+        Approx.Equal(vca.Summary.MaxFrequencyThz, result.Ordered.Summary.MaxFrequencyThz, 1e-6, "top frequency of the virtual crystal");
+    }
+
+    [Fact]
+    public void Disorder_works_on_a_free_cluster_by_either_method()
+    {
+        var cluster = RealSpaceSample.Sphere(0.9) with { Disorder = new Disorder([new SiteSubstitution("A", 28.0, 0.3)], 2, 9) };
+        var dense = PhononSolver.Solve(Crystals.FccCentral(), cluster, Options);
+        var kpm = PhononSolver.Solve(Crystals.FccCentral(), cluster with { Method = RealSpaceMethod.KernelPolynomial, Kpm = new KpmSettings { Moments = 512, RandomVectors = 8 } }, Options);
+        Assert.Equal(6, dense.Summary.RigidModesExcluded);
+        Assert.NotNull(dense.Surface!.MsdSurfaceNm2);
+        Assert.Equal("kernel polynomial", kpm.Surface!.Method);
+        Approx.Equal(dense.Summary.HeatCapacityJPerMolK!.Value, kpm.Summary.HeatCapacityJPerMolK!.Value, 5e-3, "Cv(300 K) dense vs kernel polynomial");
+        Assert.Equal("dense", dense.Ordered!.Surface!.Method);
+    }
+
+    private static void AssertSameThermal(Results.PointResult expected, Results.PointResult actual)
+    {
+        for (var t = 0; t < expected.Thermal.Length; t++)
+        {
+            Approx.Equal(expected.Thermal[t].HeatCapacityJPerMolK, actual.Thermal[t].HeatCapacityJPerMolK, 1e-9, $"Cv({expected.Thermal[t].TemperatureK} K)");
+            Approx.Equal(expected.Thermal[t].EntropyJPerMolK, actual.Thermal[t].EntropyJPerMolK, 1e-9, $"S({expected.Thermal[t].TemperatureK} K)");
+        }
+
+        Approx.Equal(expected.Summary.MaxFrequencyThz, actual.Summary.MaxFrequencyThz, 1e-9, "max frequency");
+    }
+}

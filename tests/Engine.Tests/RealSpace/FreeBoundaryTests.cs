@@ -1,0 +1,196 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Results;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Tests.Support;
+
+namespace LatticeSweep.Engine.Tests.RealSpace;
+
+/// <summary>Samples with free directions against closed forms, and the periodic case against today's solver.</summary>
+public sealed class FreeBoundaryTests
+{
+    private static readonly SolveOptions Options = new() { TemperaturesK = [5, 50, 300], ModeListMaxModes = 1_000_000 };
+
+    [Fact]
+    public void A_free_chain_has_the_frequencies_2_sqrt_K_over_m_sin_n_pi_over_2N()
+    {
+        // Free ends: the path-graph Laplacian, eigenvalues 2 - 2 cos(pi n / N) = 4 sin^2(n pi / 2N), n = 0..N-1
+        // (Brouwer and Haemers, Spectra of Graphs, sec. 1.4.4; exact).
+        const int n = 40;
+        var result = PhononSolver.Solve(Crystals.ScalarChain(), RealSpaceSample.Box(n, 1, 1, Boundary.Free), Options);
+        var expected = Enumerable.Range(0, n).Select(k => Crystals.Thz(2 * Crystals.Omega0() * Math.Sin(k * Math.PI / (2 * n)))).ToArray();
+        AssertModes(expected, result);
+        Assert.Equal(1, result.Summary.RigidModesExcluded);
+        Assert.Equal(0, result.Summary.ZeroModesExcluded); // none beyond the rigid ones: not floppy
+        Approx.Equal(expected[1], result.Surface!.ConfinementGapThz!.Value, 1e-10, "confinement gap");
+    }
+
+    [Fact]
+    public void A_free_simple_cubic_box_has_squared_frequencies_that_are_sums_of_free_chain_values()
+    {
+        // The scalar nearest-neighbour model separates: D is the Kronecker sum of three path Laplacians,
+        // so omega^2 = (4K/m) [sin^2(a pi / 2N1) + sin^2(b pi / 2N2) + sin^2(c pi / 2N3)] (exact).
+        var (n1, n2, n3) = (4, 5, 6);
+        var result = PhononSolver.Solve(Crystals.ScalarSimpleCubic(), RealSpaceSample.Box(n1, n2, n3, Boundary.Free, Boundary.Free, Boundary.Free), Options);
+        var w2 = Crystals.Omega0() * Crystals.Omega0();
+        var expected = (from a in Enumerable.Range(0, n1)
+                        from b in Enumerable.Range(0, n2)
+                        from c in Enumerable.Range(0, n3)
+                        select Crystals.Thz(Math.Sqrt(4 * w2 * (Sin2(a, n1) + Sin2(b, n2) + Sin2(c, n3))))).ToArray();
+        AssertModes(expected, result);
+        Assert.Equal("dense", result.Surface!.Method);
+        Assert.Equal(n1 * n2 * n3, result.Surface.AtomCount);
+        Assert.Equal((n1 * n2 * n3) - ((n1 - 2) * (n2 - 2) * (n3 - 2)), result.Surface.SurfaceSites);
+    }
+
+    [Fact]
+    public void A_film_periodic_in_plane_takes_exact_wave_vectors_and_free_chain_values_across()
+    {
+        // Periodic directions: 4 sin^2(pi k / N); the free one: 4 sin^2(pi c / 2N) (exact, separable).
+        var (n1, n2, n3) = (6, 5, 7);
+        var result = PhononSolver.Solve(Crystals.ScalarSimpleCubic(), RealSpaceSample.Box(n1, n2, n3, Boundary.Periodic, Boundary.Periodic, Boundary.Free), Options);
+        var w2 = Crystals.Omega0() * Crystals.Omega0();
+        static double P(int k, int n) => Math.Pow(Math.Sin(Math.PI * k / n), 2);
+        var expected = (from a in Enumerable.Range(0, n1)
+                        from b in Enumerable.Range(0, n2)
+                        from c in Enumerable.Range(0, n3)
+                        select Crystals.Thz(Math.Sqrt(4 * w2 * (P(a, n1) + P(b, n2) + Sin2(c, n3))))).ToArray();
+        AssertModes(expected, result);
+        Assert.Equal("dense per wave vector", result.Surface!.Method);
+        Assert.Equal(1, result.Summary.RigidModesExcluded);
+        Assert.Equal(2 * n1 * n2, result.Surface.SurfaceSites);
+    }
+
+    [Fact]
+    public void Every_periodic_direction_gives_exactly_todays_finite_crystal()
+    {
+        var model = Crystals.RockSalt();
+        var options = Options with { TemperaturesK = [10, 100, 300], DosBins = 120 };
+        var today = PhononSolver.Solve(model, FiniteSample.Create(4, 3, 5), options);
+        var real = PhononSolver.Solve(model, RealSpaceSample.Box(4, 3, 5), options);
+
+        Assert.Equal(today.Summary.ModeCount, real.Summary.ModeCount);
+        Assert.Equal(today.Summary.RigidModesExcluded, real.Summary.RigidModesExcluded);
+        Assert.Equal(today.Modes.Length, real.Modes.Length);
+        for (var i = 0; i < today.Modes.Length; i++)
+        {
+            Approx.Equal(today.Modes[i].FrequencyThz, real.Modes[i].FrequencyThz, 1e-10, $"mode level {i}", 1e-9);
+            Assert.Equal(today.Modes[i].Multiplicity, real.Modes[i].Multiplicity);
+        }
+
+        for (var t = 0; t < today.Thermal.Length; t++)
+        {
+            Approx.Equal(today.Thermal[t].HeatCapacityJPerMolK, real.Thermal[t].HeatCapacityJPerMolK, 1e-10, "Cv");
+            Approx.Equal(today.Thermal[t].EntropyJPerMolK, real.Thermal[t].EntropyJPerMolK, 1e-10, "S");
+            Approx.Equal(today.Thermal[t].FreeEnergyJPerMol, real.Thermal[t].FreeEnergyJPerMol, 1e-10, "F");
+        }
+
+        for (var d = 0; d < today.Displacements.Length; d++)
+        {
+            Approx.Equal(today.Displacements[d].MsdXNm2!.Value, real.Displacements[d].MsdXNm2!.Value, 1e-9, "msd x");
+        }
+
+        Approx.Equal(today.Summary.MaxFrequencyThz, real.Summary.MaxFrequencyThz, 1e-12, "max freq");
+        Assert.Equal(today.Summary.Gaps.Length, real.Summary.Gaps.Length);
+        for (var g = 0; g < today.Summary.Gaps.Length; g++)
+        {
+            Approx.Equal(today.Summary.Gaps[g].LowerThz, real.Summary.Gaps[g].LowerThz, 1e-10, "gap lower");
+            Approx.Equal(today.Summary.Gaps[g].UpperThz, real.Summary.Gaps[g].UpperThz, 1e-10, "gap upper");
+        }
+
+        Assert.Equal(today.Dos.Total.Length, real.Dos.Total.Length);
+        for (var b = 0; b < today.Dos.Total.Length; b++)
+        {
+            Approx.Equal(today.Dos.Total[b], real.Dos.Total[b], 1e-9, $"dos bin {b}", 1e-9);
+        }
+
+        Assert.Equal(0, real.Surface!.SurfaceSites);
+        Approx.Equal(1.0, real.Surface.PeriodicCvAtReferenceJPerMolK!.Value / real.Summary.HeatCapacityJPerMolK!.Value, 1e-10, "Cv ratio");
+    }
+
+    [Fact]
+    public void A_free_3D_cluster_has_six_zero_modes_and_central_springs_are_rotationally_invariant()
+    {
+        var result = PhononSolver.Solve(Crystals.FccCentral(), RealSpaceSample.Sphere(1.0), Options);
+        Assert.Equal(6, result.Summary.RigidModesExcluded);
+        Assert.Equal(0, result.Summary.ZeroModesExcluded);
+        Assert.Equal(3, result.Surface!.RigidRotations);
+        Assert.Equal(0.0, result.Surface.RotationDefectThz); // below round-off: reported as exactly zero
+        Assert.Equal(6, result.Modes[0].Multiplicity); // the zero level
+        Assert.Equal(0.0, result.Modes[0].FrequencyThz);
+    }
+
+    [Fact]
+    public void Transverse_springs_break_rotational_invariance_and_the_rotations_are_projected_out()
+    {
+        var result = PhononSolver.Solve(Crystals.RockSalt(), RealSpaceSample.Sphere(0.9), Options);
+        Assert.Equal(6, result.Summary.RigidModesExcluded);
+        Assert.Equal(0, result.Summary.ZeroModesExcluded);
+        Assert.True(result.Surface!.RotationDefectThz > 0.01, $"rotation defect {result.Surface.RotationDefectThz} THz");
+    }
+
+    [Fact]
+    public void A_free_straight_chain_has_three_translations_and_two_rotations()
+    {
+        var model = CrystalModel.Create(Lattice.Chain(0.3), [new Site("A", "A", Vec3.Zero, 20)], [new ShellSpring("A", "A", 1, 10, 0)], [new BondSpring("A", "A", new IntVec3(2, 0, 0), 0, 2)]);
+        var result = PhononSolver.Solve(model, RealSpaceSample.Box(12, 1, 1, Boundary.Free), Options);
+        Assert.Equal(5, result.Summary.RigidModesExcluded);
+        Assert.Equal(2, result.Surface!.RigidRotations);
+        Assert.Equal(0, result.Summary.ZeroModesExcluded);
+    }
+
+    [Fact]
+    public void A_wire_keeps_the_rotation_about_its_axis_as_a_fourth_zero_mode()
+    {
+        var result = PhononSolver.Solve(Crystals.FccCentral(), RealSpaceSample.Cylinder(0.45, axis: 2, cells: 6, Boundary.Periodic), Options);
+        Assert.Equal(4, result.Summary.RigidModesExcluded);
+        Assert.Equal(1, result.Surface!.RigidRotations);
+        Assert.Equal(0, result.Summary.ZeroModesExcluded);
+        Assert.Equal("cylinder", result.Surface.Shape);
+    }
+
+    [Fact]
+    public void Layers_count_nearest_neighbour_hops_from_the_surface_and_each_layer_dos_holds_its_components()
+    {
+        var result = PhononSolver.Solve(Crystals.ScalarSimpleCubic(), RealSpaceSample.Box(5, 5, 5, Boundary.Free, Boundary.Free, Boundary.Free), Options);
+        var s = result.Surface!;
+        Assert.Equal(3, s.LayerCount);
+        Assert.Equal([98L, 26L, 1L], s.LayerDos.Select(l => l.Sites));
+        var width = result.Dos.FrequencyThz[1] - result.Dos.FrequencyThz[0];
+        foreach (var layer in s.LayerDos)
+        {
+            Approx.Equal(1.0, layer.DensityPerThzPerAtom.Sum() * width, 1e-12, $"layer {layer.Layer} integral");
+        }
+
+        Approx.Equal(1.0, result.Dos.Total.Sum() * width, 1e-12, "total integral (branches)");
+    }
+
+    [Fact]
+    public void Surface_atoms_vibrate_more_and_soft_surface_modes_raise_the_low_temperature_heat_capacity()
+    {
+        var result = PhononSolver.Solve(Crystals.FccCentral(), RealSpaceSample.Box(5, 5, 5, Boundary.Free, Boundary.Free, Boundary.Free), Options with { ReferenceTemperatureK = 300 });
+        var s = result.Surface!;
+        Assert.True(s.MsdSurfaceNm2 > 1.2 * s.MsdInteriorNm2, $"surface {s.MsdSurfaceNm2} vs interior {s.MsdInteriorNm2} nm^2");
+        var ratioCold = result.Thermal[0].HeatCapacityJPerMolK / s.PeriodicCvJPerMolK[0]!.Value;
+        var ratioHot = result.Thermal[2].HeatCapacityJPerMolK / s.PeriodicCvJPerMolK[2]!.Value;
+        Assert.True(ratioCold > 1.5, $"Cv ratio at 5 K {ratioCold}");
+        Assert.True(Math.Abs(ratioHot - 1) < 0.05, $"Cv ratio at 300 K {ratioHot}");
+        Assert.True(s.SurfaceModeFraction is > 0 and < 1, $"surface-mode fraction {s.SurfaceModeFraction}");
+        Assert.Equal("5x5x5", s.PeriodicCells);
+    }
+
+    private static double Sin2(int k, int n) => Math.Pow(Math.Sin(k * Math.PI / (2 * n)), 2);
+
+    private static void AssertModes(double[] expectedThz, PointResult result)
+    {
+        var top = expectedThz.Max();
+        var actual = result.Modes.SelectMany(l => Enumerable.Repeat(l.FrequencyThz, (int)l.Multiplicity)).Order().ToArray();
+        var expected = expectedThz.Order().ToArray();
+        Assert.Equal(expected.Length, actual.Length);
+        for (var i = 0; i < expected.Length; i++)
+        {
+            Tolerance.AssertClose(expected[i], actual[i], 0, 1e-9 * top, $"mode {i}");
+        }
+    }
+}
