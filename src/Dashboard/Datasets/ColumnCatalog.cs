@@ -29,10 +29,18 @@ internal sealed class ColumnCatalog
         ["debye_temperature_from_cv_k"] = "Debye T from Cv",
         ["kappa_w_per_m_k"] = "Conductivity at reference T",
         ["stable"] = "Stable",
+        ["floppy"] = "Floppy",
         ["duration_s"] = "Time taken",
+        ["worst_q_reduced_x"] = "Worst unstable q (reduced), x",
+        ["worst_q_reduced_y"] = "Worst unstable q (reduced), y",
+        ["worst_q_reduced_z"] = "Worst unstable q (reduced), z",
     };
 
+    /// <summary>A description longer than this makes a table header taller than the rows under it.</summary>
+    private const int MaxHeaderLength = 28;
+
     private readonly Dictionary<string, ColumnDef> _defs = new(StringComparer.Ordinal);
+    private readonly HashSet<string> _shared;
 
     public ColumnCatalog(SweepRecord sweep, string table)
     {
@@ -43,6 +51,8 @@ internal sealed class ColumnCatalog
         }
 
         Parameters = [.. _defs.Values.Where(d => d.Description.StartsWith(SweptPrefix, StringComparison.Ordinal)).Select(d => d.Name)];
+        // Columns that share a description (x, y, z of one vector) get their name beside it, so a list never shows one label twice.
+        _shared = [.. _defs.Values.GroupBy(d => d.Description, StringComparer.Ordinal).Where(g => g.Count() > 1).SelectMany(g => g.Select(d => d.Name))];
     }
 
     /// <summary>Column names of the swept parameters, in axis order.</summary>
@@ -64,16 +74,60 @@ internal sealed class ColumnCatalog
         }
 
         var text = def.Description;
-        return text.Length == 0 ? column : char.ToUpperInvariant(text[0]) + text[1..];
+        var label = text.Length == 0 ? column : char.ToUpperInvariant(text[0]) + text[1..];
+        return _shared.Contains(column) ? $"{label} ({column})" : label;
     }
 
-    /// <summary>A header short enough for a table column.</summary>
-    public string ShortLabel(string column) => Short.TryGetValue(column, out var s) ? s : Label(column);
+    /// <summary>
+    /// A header short enough for a table column: the usual ones by name; a swept parameter as its
+    /// path without the <c>model.</c>/<c>output.</c> prefix (the unit goes under the header).
+    /// </summary>
+    public string ShortLabel(string column)
+    {
+        if (Short.TryGetValue(column, out var s))
+        {
+            return s;
+        }
 
-    /// <summary>The unit from the file when it says, else from the schema.</summary>
-    public string Unit(ResultColumn column)
+        if (IsParameter(column))
+        {
+            var path = Label(column);
+            foreach (var prefix in (string[])["model.", "output."])
+            {
+                if (path.StartsWith(prefix, StringComparison.Ordinal))
+                {
+                    return path[prefix.Length..];
+                }
+            }
+
+            return path;
+        }
+
+        return Label(column);
+    }
+
+    /// <summary>
+    /// A table header: the short label of a usual column or a swept parameter, a description that
+    /// fits a narrow column, else the column's own name (as a data tool knows it); the full
+    /// description goes in the tooltip.
+    /// </summary>
+    public string HeaderLabel(string column) =>
+        Short.ContainsKey(column) || IsParameter(column) || Label(column).Length <= MaxHeaderLength ? ShortLabel(column) : column;
+
+    /// <summary>The unit of a column from the schema ("" when unknown or dimensionless).</summary>
+    public string UnitOf(string column) => _defs.TryGetValue(column, out var d) ? Formatting.Show.Unit(d.Unit) : "";
+
+    /// <summary>The unit as the dataset writes it (the file's, else the schema's; "1" for a dimensionless number).</summary>
+    public string RawUnit(ResultColumn column)
     {
         ArgumentNullException.ThrowIfNull(column);
         return column.Unit.Length > 0 ? column.Unit : _defs.TryGetValue(column.Name, out var d) ? d.Unit : "";
+    }
+
+    /// <summary>The unit from the file when it says, else from the schema; "" for a dimensionless column (unit "1").</summary>
+    public string Unit(ResultColumn column)
+    {
+        ArgumentNullException.ThrowIfNull(column);
+        return Formatting.Show.Unit(RawUnit(column));
     }
 }

@@ -1,4 +1,5 @@
 using System.Collections.Concurrent;
+using System.Collections.Immutable;
 using LatticeSweep.Dashboard.Security;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Output;
@@ -7,16 +8,22 @@ namespace LatticeSweep.Dashboard.Datasets;
 
 /// <summary>
 /// The dashboard's read access to the sweeps' Parquet datasets, always through the output root.
-/// A point's rows are read from its chunk's part file alone (parts are named by chunk id), or, once
-/// the sweep's files are merged, from the merged file that holds the chunk (listed in the table's
-/// <c>.merged-chunks</c>), only the row groups whose point-id range holds the point
-/// (<see cref="MergedLayout"/>). Files of
-/// <c>points/</c> (small: one row per point) are cached and re-read when their size or time changes
-/// (a chunk re-run replaces its part); the larger curve tables are read when asked.
+/// A table folder is read as a dataset (every Parquet file in it, whatever the layout: one part
+/// per chunk, or files merged from many chunks). <c>points/</c> (one row per point) is cached and
+/// re-read only when one of its files changes; a point found in two files (a chunk re-run after
+/// its rows were merged) is taken from the newer file. A point's rows of the larger tables are
+/// read from its chunk's own part when there is one, else from the merged file that holds the
+/// chunk (listed in the table's <c>.merged-chunks</c>), only the row groups whose point-id range
+/// holds the point (<see cref="MergedLayout"/>), else from the files that hold its id (each file's
+/// ids are read once and kept until the file changes).
 /// </summary>
 internal sealed class ResultStore
 {
-    private readonly ConcurrentDictionary<string, (DateTime WrittenUtc, long Length, ResultTable Table)> _cache = new(StringComparer.Ordinal);
+    private const string IdColumn = "point_id";
+
+    private readonly ConcurrentDictionary<string, (FileStamp Stamp, ResultTable Table)> _files = new(StringComparer.Ordinal);
+    private readonly ConcurrentDictionary<string, (ImmutableArray<FileStamp> Stamps, ResultTable Table)> _points = new(StringComparer.Ordinal);
+    private readonly ConcurrentDictionary<string, (FileStamp Stamp, IReadOnlySet<string> Ids)> _ids = new(StringComparer.Ordinal);
 
     public ResultStore(OutputRoot root)
     {
@@ -32,57 +39,145 @@ internal sealed class ResultStore
         return Root.Contain(sweep.OutputFolder) is { } folder && Directory.Exists(folder) ? folder : null;
     }
 
-    /// <summary>Every row of the sweep's <c>points/</c> table (empty when there is none yet).</summary>
+    /// <summary>Every row of the sweep's <c>points/</c> table, one per point (empty when there is none yet).</summary>
     public async Task<ResultTable> PointsAsync(SweepRecord sweep, CancellationToken ct)
     {
-        if (SweepFolderOf(sweep) is not { } folder || Root.Contain(SweepFolder.Table(folder, TableNames.Points)) is not { } table)
+        if (TableFolder(sweep, TableNames.Points) is not { } table)
         {
             return ResultTable.Empty;
         }
 
-        var parts = new List<ResultTable>();
-        foreach (var file in ParquetTableReader.PartFiles(table))
-        {
-            if (Root.Contain(file) is { } safe)
-            {
-                parts.Add(await ReadCachedAsync(safe, ct).ConfigureAwait(false));
-            }
-        }
-
-        return ResultTableConcat.Of(parts);
-    }
-
-    /// <summary>The rows of one table that a chunk wrote, for one point; empty when the part or the table does not exist.</summary>
-    public async Task<ResultTable> PointRowsAsync(SweepRecord sweep, string table, string chunkId, string pointId, CancellationToken ct)
-    {
-        if (SweepFolderOf(sweep) is not { } folder)
-        {
-            return ResultTable.Empty;
-        }
-
-        var tableFolder = Root.Contain(SweepFolder.Table(folder, table));
-        var file = tableFolder is null ? null : MergedLayout.FileOfChunk(tableFolder, chunkId) is { } found ? Root.Contain(found) : null;
-        if (file is null || !File.Exists(file))
-        {
-            return ResultTable.Empty;
-        }
-
-        var rows = table == TableNames.Points
-            ? await ReadCachedAsync(file, ct).ConfigureAwait(false)
-            : await ParquetTableReader.ReadFileAsync(file, metadata => MergedLayout.RowGroupsOf(metadata, pointId), ct).ConfigureAwait(false);
-        return rows.Where("point_id", pointId);
-    }
-
-    private async Task<ResultTable> ReadCachedAsync(string file, CancellationToken ct)
-    {
-        var info = new FileInfo(file);
-        if (_cache.TryGetValue(file, out var hit) && hit.WrittenUtc == info.LastWriteTimeUtc && hit.Length == info.Length)
+        // Newest file first, so that the first row seen of a point is its newest.
+        var stamps = Files(table).Select(FileStamp.Of).OrderByDescending(s => s.WrittenUtc).ThenBy(s => s.Path, StringComparer.Ordinal).ToImmutableArray();
+        if (_points.TryGetValue(table, out var hit) && hit.Stamps.SequenceEqual(stamps))
         {
             return hit.Table;
         }
 
-        var table = await ParquetTableReader.ReadFileAsync(file, ct).ConfigureAwait(false);
-        _cache[file] = (info.LastWriteTimeUtc, info.Length, table);
+        var parts = new List<ResultTable>();
+        var complete = true;
+        foreach (var stamp in stamps)
+        {
+            try
+            {
+                parts.Add(await ReadCachedAsync(stamp, ct).ConfigureAwait(false));
+            }
+            catch (Exception ex) when (Vanished(ex))
+            {
+                // Replaced while listed (a merge renames files into place, then removes the parts they hold): read again next time.
+                complete = false;
+            }
+        }
+
+        var all = ResultTableConcat.Of(parts);
+        var id = all.IndexOf(IdColumn);
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        var rows = id < 0 ? all : all with { Rows = [.. all.Rows.Where(r => r[id] is not string s || seen.Add(s))] };
+        if (complete)
+        {
+            _points[table] = (stamps, rows);
+        }
+
+        return rows;
+    }
+
+    /// <summary>The rows of one table for one point; empty when the table or the point's rows do not exist.</summary>
+    public async Task<ResultTable> PointRowsAsync(SweepRecord sweep, string table, string chunkId, string pointId, CancellationToken ct)
+    {
+        if (table == TableNames.Points)
+        {
+            return (await PointsAsync(sweep, ct).ConfigureAwait(false)).Where(IdColumn, pointId);
+        }
+
+        if (TableFolder(sweep, table) is not { } folder)
+        {
+            return ResultTable.Empty;
+        }
+
+        var own = Root.Contain(Path.Combine(folder, ParquetPartWriter.PartFileName(chunkId)));
+        try
+        {
+            if (own is not null && File.Exists(own)
+                && (await ParquetTableReader.ReadFileAsync(own, ct).ConfigureAwait(false)).Where(IdColumn, pointId) is { Rows.Length: > 0 } rows)
+            {
+                return rows;
+            }
+        }
+        catch (Exception ex) when (Vanished(ex))
+        {
+        }
+
+        var wanted = new HashSet<string>(StringComparer.Ordinal) { pointId };
+        var merged = MergedLayout.MergedChunks(folder).TryGetValue(chunkId, out var name) ? Root.Contain(Path.Combine(folder, name)) : null;
+        try
+        {
+            if (merged is not null && File.Exists(merged)
+                && await ParquetTableReader.ReadMatchingAsync(merged, IdColumn, wanted, metadata => MergedLayout.RowGroupsOf(metadata, pointId), ct).ConfigureAwait(false) is { Rows.Length: > 0 } rows)
+            {
+                return rows;
+            }
+        }
+        catch (Exception ex) when (Vanished(ex))
+        {
+        }
+
+        foreach (var stamp in Files(folder).Where(f => f != own && f != merged).Select(FileStamp.Of).OrderByDescending(s => s.WrittenUtc))
+        {
+            try
+            {
+                if ((await IdsAsync(stamp, ct).ConfigureAwait(false)).Contains(pointId))
+                {
+                    return await ParquetTableReader.ReadMatchingAsync(stamp.Path, IdColumn, wanted, ct).ConfigureAwait(false);
+                }
+            }
+            catch (Exception ex) when (Vanished(ex))
+            {
+            }
+        }
+
+        return ResultTable.Empty;
+    }
+
+    private static bool Vanished(Exception ex) => ex is FileNotFoundException or DirectoryNotFoundException;
+
+    private string? TableFolder(SweepRecord sweep, string table) =>
+        SweepFolderOf(sweep) is { } folder ? Root.Contain(SweepFolder.Table(folder, table)) : null;
+
+    /// <summary>The table's files that lie under the output root once their links are resolved.</summary>
+    private IEnumerable<string> Files(string tableFolder) =>
+        ParquetTableReader.PartFiles(tableFolder).Select(Root.Contain).OfType<string>();
+
+    private async Task<ResultTable> ReadCachedAsync(FileStamp stamp, CancellationToken ct)
+    {
+        if (_files.TryGetValue(stamp.Path, out var hit) && hit.Stamp == stamp)
+        {
+            return hit.Table;
+        }
+
+        var table = await ParquetTableReader.ReadFileAsync(stamp.Path, ct).ConfigureAwait(false);
+        _files[stamp.Path] = (stamp, table);
         return table;
+    }
+
+    private async Task<IReadOnlySet<string>> IdsAsync(FileStamp stamp, CancellationToken ct)
+    {
+        if (_ids.TryGetValue(stamp.Path, out var hit) && hit.Stamp == stamp)
+        {
+            return hit.Ids;
+        }
+
+        var ids = await ParquetTableReader.ReadDistinctAsync(stamp.Path, IdColumn, ct).ConfigureAwait(false);
+        _ids[stamp.Path] = (stamp, ids);
+        return ids;
+    }
+
+    /// <summary>A file as last seen: a changed time or length means it was replaced.</summary>
+    private sealed record FileStamp(string Path, DateTime WrittenUtc, long Length)
+    {
+        public static FileStamp Of(string path)
+        {
+            var info = new FileInfo(path);
+            return info.Exists ? new(path, info.LastWriteTimeUtc, info.Length) : new(path, DateTime.MinValue, -1);
+        }
     }
 }

@@ -84,20 +84,30 @@ public sealed record SweepDetail(
     ImmutableArray<AxisLine> Axes,
     ImmutableArray<FailureLine> Failures,
     ImmutableArray<DatasetLink> Datasets,
-    string ResultsUrl);
+    string ResultsUrl,
+    StabilityCounts Stability);
 
-/// <summary>A page of the summary table.</summary>
+/// <summary>A page of the summary table: <see cref="TotalRows"/> rows pass the filter, of <see cref="AllRows"/> in points/.</summary>
 public sealed record ResultsPage(
     ImmutableArray<SummaryColumn> Columns,
     ImmutableArray<ResultsRow> Rows,
     int TotalRows,
+    int AllRows,
     string Sort,
     bool Descending,
     int Offset,
-    int Limit);
+    int Limit,
+    FilterLine Filter,
+    StabilityCounts Stability);
 
-/// <summary>A row of the summary table, values in column order.</summary>
-public sealed record ResultsRow(string PointId, string Url, ImmutableArray<object?> Values);
+/// <summary>A row of the summary table, values in column order, with its marks.</summary>
+public sealed record ResultsRow(string PointId, string Url, ImmutableArray<object?> Values, bool Unstable, bool Floppy);
+
+/// <summary>The filter in effect: in words, as an address query, and what could not be applied.</summary>
+public sealed record FilterLine(string Text, string Query, ImmutableArray<string> Problems);
+
+/// <summary>Both plots of the sweep page for one address; a plot is null when the table cannot give it (no results yet).</summary>
+public sealed record SweepPlotSet(SweepPlot? Parameter, SweepPlot? Scatter, FilterLine Filter);
 
 /// <summary>A point: the catalog's record and its summary numbers (empty until it has a result row).</summary>
 public sealed record PointDetail(
@@ -130,6 +140,16 @@ public static class Links
     public static string ApiPoint(string sweepId, string pointId) => "/api" + Point(sweepId, pointId);
 
     public static string ApiCurves(string sweepId, string pointId) => ApiPoint(sweepId, pointId) + "/curves";
+
+    public static string ApiPlots(string sweepId) => ApiSweep(sweepId) + "/plots";
+
+    public static string Compare(string sweepId) => Sweep(sweepId) + "/compare";
+
+    public static string ApiCompare(string sweepId) => ApiSweep(sweepId) + "/compare";
+
+    public static string Export(string sweepId, string format) => ApiSweep(sweepId) + "/export." + format;
+
+    public const string ApiWorkers = "/api/workers";
 
     /// <summary>The file browser for a path relative to the output root (segments escaped, slashes kept).</summary>
     public static string Files(string relative) =>

@@ -7,17 +7,22 @@ using LatticeSweep.Worker.Output;
 
 namespace LatticeSweep.Dashboard.Endpoints;
 
+/// <summary>The sweep's points/ table, the rows that pass the filter, and the filter as applied (conditions on unknown columns left out).</summary>
+internal sealed record FilteredPoints(ResultTable All, ResultTable Rows, PointFilter Filter, FilterLine Line);
+
 /// <summary>Builds what the pages and the JSON endpoints show from the catalog and the result files, so both say the same.</summary>
 internal static class SweepViews
 {
     public static SweepList List(SweepBoard board) =>
         new(board.Time.GetUtcNow(), [.. board.Catalog.ListSweeps().Select(s => SweepLine.Of(board.Progress(s)))]);
 
-    public static SweepDetail Detail(SweepBoard board, SweepRecord sweep)
+    public static WorkerList Workers(SweepBoard board) => WorkerBoard.Of(board.Store, board.Time.GetUtcNow());
+
+    public static async Task<SweepDetail> DetailAsync(SweepBoard board, SweepRecord sweep, CancellationToken ct)
     {
         var folder = board.Results.SweepFolderOf(sweep);
         var axes = board.Catalog.GetAxisCoverage(sweep.SweepId)
-            .Select(a => new AxisLine(a.ColumnName, a.Path, a.Unit, [.. a.Values.Select(v =>
+            .Select(a => new AxisLine(a.ColumnName, a.Path, Formatting.Show.Unit(a.Unit), [.. a.Values.Select(v =>
                 new AxisValueLine(v.Value, Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled) { Unstable = v.Unstable })]))
             .ToImmutableArray();
         var failures = FailureReport.Of(board.Catalog, sweep.SweepId)
@@ -32,16 +37,69 @@ internal static class SweepViews
                 .Select(t => new DatasetLink(t.Table, Links.Files(board.Root.Relative(t.Folder!)), ParquetTableReader.PartFiles(t.Folder!).Count))
                 .Prepend(new DatasetLink(SweepFolder.ManifestFileName, Links.Files(board.Root.Relative(folder) + "/" + SweepFolder.ManifestFileName), 0))
                 .ToImmutableArray();
-        return new SweepDetail(SweepLine.Of(board.Progress(sweep)), sweep.ChunkCount, sweep.EngineVersion, folder is not null, axes, failures, datasets, Links.ApiResults(sweep.SweepId));
+        var stability = StabilityCounts.Of(await board.Results.PointsAsync(sweep, ct).ConfigureAwait(false));
+        return new SweepDetail(SweepLine.Of(board.Progress(sweep)), sweep.ChunkCount, sweep.EngineVersion, folder is not null, axes, failures, datasets,
+            Links.ApiResults(sweep.SweepId), stability);
     }
 
-    public static async Task<(SummaryTable Table, ResultsPage Page)> ResultsAsync(SweepBoard board, SweepRecord sweep, SummaryQuery query, CancellationToken ct)
+    /// <summary>The points/ table and the rows that pass <paramref name="filter"/>.</summary>
+    public static async Task<FilteredPoints> FilterAsync(SweepBoard board, SweepRecord sweep, PointFilter filter, IEnumerable<string> problems, CancellationToken ct)
     {
-        var points = await board.Results.PointsAsync(sweep, ct).ConfigureAwait(false);
-        var table = SummaryTable.Build(points, sweep, query);
-        var page = new ResultsPage(table.Columns, [.. table.Rows.Select(r => new ResultsRow(r.PointId, Links.Point(sweep.SweepId, r.PointId), r.Values))],
-            table.TotalRows, table.Sort, table.Descending, table.Offset, table.Limit);
-        return (table, page);
+        var all = await board.Results.PointsAsync(sweep, ct).ConfigureAwait(false);
+        var said = new List<string>(problems);
+        var applied = all.Rows.Length == 0 ? filter : filter.CheckedAgainst(all, said);
+        var line = new FilterLine(applied.Describe(new ColumnCatalog(sweep, TableNames.Points)), SweepView.Encode(applied.Query()), [.. said]);
+        return new FilteredPoints(all, applied.Apply(all), applied, line);
+    }
+
+    public static async Task<(SummaryTable Table, ResultsPage Page, FilteredPoints Points)> ResultsAsync(SweepBoard board, SweepRecord sweep, SweepView view, CancellationToken ct)
+    {
+        var points = await FilterAsync(board, sweep, view.Filter, view.Problems, ct).ConfigureAwait(false);
+        var table = SummaryTable.Build(points.All, points.Rows, sweep, view.Table);
+        var page = new ResultsPage(table.Columns, [.. table.Rows.Select(r => new ResultsRow(r.PointId, Links.Point(sweep.SweepId, r.PointId), r.Values, r.Unstable, r.Floppy))],
+            table.TotalRows, table.AllRows, table.Sort, table.Descending, table.Offset, table.Limit, points.Line, StabilityCounts.Of(points.All));
+        return (table, page, points);
+    }
+
+    public static SweepPlotSet Plots(FilteredPoints points, SweepRecord sweep, SweepView view) =>
+        new(SweepPlots.Parameter(points.All, points.Rows, sweep, view.Plot), SweepPlots.Scatter(points.All, points.Rows, sweep, view.Scatter), points.Line);
+
+    public static async Task<SweepPlotSet> PlotsAsync(SweepBoard board, SweepRecord sweep, SweepView view, CancellationToken ct) =>
+        Plots(await FilterAsync(board, sweep, view.Filter, view.Problems, ct).ConfigureAwait(false), sweep, view);
+
+    /// <summary>The filtered points table, sorted like the summary table, every column.</summary>
+    public static async Task<(ResultTable Rows, FilterLine Filter)> ExportRowsAsync(SweepBoard board, SweepRecord sweep, SweepView view, CancellationToken ct)
+    {
+        var points = await FilterAsync(board, sweep, view.Filter, view.Problems, ct).ConfigureAwait(false);
+        var sort = view.Table.Sort is { } s && points.Rows.Has(s) ? s : SummaryTable.DefaultSort;
+        return (points.Rows with { Rows = [.. SummaryTable.Ordered(points.Rows, sort, view.Table.Descending)] }, points.Line);
+    }
+
+    /// <summary>The points named (up to <see cref="PointComparison.MaxPoints"/>, each once), side by side.</summary>
+    public static async Task<PointComparison> CompareAsync(SweepBoard board, SweepRecord sweep, IEnumerable<string> pointIds, CancellationToken ct)
+    {
+        var asked = pointIds.Where(p => !string.IsNullOrWhiteSpace(p)).Distinct(StringComparer.Ordinal).ToList();
+        var notes = new List<string>();
+        if (asked.Count > PointComparison.MaxPoints)
+        {
+            notes.Add($"{asked.Count} points were picked; the first {PointComparison.MaxPoints} are compared (more curves on one plot cannot be told apart).");
+            asked = asked[..PointComparison.MaxPoints];
+        }
+
+        var compared = new List<(PointRecord, PointCurves)>();
+        foreach (var id in asked)
+        {
+            if (await board.FindPointAsync(sweep, id, ct).ConfigureAwait(false) is { } point)
+            {
+                compared.Add((point, await CurvesAsync(board, sweep, point, ct).ConfigureAwait(false)));
+            }
+            else
+            {
+                notes.Add($"This sweep has no point '{id}'.");
+            }
+        }
+
+        return PointComparison.Build(sweep, await board.Results.PointsAsync(sweep, ct).ConfigureAwait(false), compared, notes);
     }
 
     public static async Task<PointDetail> PointAsync(SweepBoard board, SweepRecord sweep, PointRecord point, CancellationToken ct)

@@ -113,5 +113,11 @@ public static class Show
         return v.ToString("0.###e+0", Invariant);
     }
 
-    private static string WithUnit(string text, string unit) => string.IsNullOrEmpty(unit) ? text : $"{text} {unit}";
+    /// <summary>
+    /// A unit as shown: the dimensionless "1" of the schemas is shown as nothing ("0.948", not
+    /// "0.948 1"), and so is "reduced" (a wave vector in reciprocal-lattice units, said by its label).
+    /// </summary>
+    public static string Unit(string? unit) => unit is null or "1" or "reduced" ? "" : unit;
+
+    private static string WithUnit(string text, string unit) => Unit(unit) is { Length: > 0 } u ? $"{text} {u}" : text;
 }

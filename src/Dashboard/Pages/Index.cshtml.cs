@@ -1,10 +1,11 @@
 using LatticeSweep.Dashboard.Endpoints;
 using LatticeSweep.Dashboard.Hosting;
+using LatticeSweep.Dashboard.Progress;
 using Microsoft.AspNetCore.Mvc.RazorPages;
 
 namespace LatticeSweep.Dashboard.Pages;
 
-/// <summary>The sweeps page: every sweep in the store with its progress.</summary>
+/// <summary>The sweeps page: every sweep in the store with its progress, and the worker processes with what they hold.</summary>
 internal sealed class IndexModel : PageModel
 {
     private readonly SweepBoard _board;
@@ -16,5 +17,11 @@ internal sealed class IndexModel : PageModel
 
     public SweepList List { get; private set; } = new(DateTimeOffset.MinValue, []);
 
-    public void OnGet() => List = SweepViews.List(_board);
+    public WorkerList Workers { get; private set; } = new(DateTimeOffset.MinValue, [], null);
+
+    public void OnGet()
+    {
+        List = SweepViews.List(_board);
+        Workers = SweepViews.Workers(_board);
+    }
 }

@@ -33,6 +33,12 @@ internal sealed class PointModel : PageModel
 
     public ResultTable SoundSpeeds { get; private set; } = ResultTable.Empty;
 
+    /// <summary>The model has an imaginary frequency (its own state, or a points/ row with <c>stable = false</c>).</summary>
+    public bool Unstable { get; private set; }
+
+    /// <summary>The model has more zero modes than rigid-body motions.</summary>
+    public bool Floppy { get; private set; }
+
     public async Task<IActionResult> OnGetAsync(string sweepId, string pointId, CancellationToken ct)
     {
         if (_board.Find(sweepId) is not { } sweep || await _board.FindPointAsync(sweep, pointId, ct).ConfigureAwait(false) is not { } point)
@@ -45,10 +51,14 @@ internal sealed class PointModel : PageModel
         Curves = await SweepViews.CurvesAsync(_board, sweep, point, ct).ConfigureAwait(false);
         CurvesJson = JsonSerializer.Serialize(Curves, _json);
         SoundSpeeds = await _board.Results.PointRowsAsync(sweep, TableNames.SoundSpeeds, point.ChunkId, point.PointId, ct).ConfigureAwait(false);
+        var row = await _board.Results.PointRowsAsync(sweep, TableNames.Points, point.ChunkId, point.PointId, ct).ConfigureAwait(false);
+        var flags = new PointFlags(row);
+        Unstable = point.State == PointState.Unstable || row.Rows.Any(flags.IsUnstable);
+        Floppy = row.Rows.Any(flags.IsFloppy);
         return Page();
     }
 
-    public string Unit(string column) => Sweep.Axes.FirstOrDefault(a => a.ColumnName == column)?.Unit ?? "";
+    public string Unit(string column) => Formatting.Show.Unit(Sweep.Axes.FirstOrDefault(a => a.ColumnName == column)?.Unit);
 
     public string Path(string column) => Sweep.Axes.FirstOrDefault(a => a.ColumnName == column)?.Path ?? column;
 }

@@ -1,3 +1,4 @@
+using System.Text.Json;
 using LatticeSweep.Dashboard.Endpoints;
 using LatticeSweep.Dashboard.Hosting;
 using LatticeSweep.Dashboard.Datasets;
@@ -6,23 +7,28 @@ using LatticeSweep.Worker.Output;
 using LatticeSweep.Worker.Queue;
 using Microsoft.AspNetCore.Mvc;
 using Microsoft.AspNetCore.Mvc.RazorPages;
+using Microsoft.Extensions.Options;
 
 namespace LatticeSweep.Dashboard.Pages;
 
 /// <summary>
-/// The sweep page: progress, coverage of each axis, failures by reason, the sortable summary
-/// table of finished points, the dataset folders; cancel and resume as POST forms (Razor Pages
-/// checks their anti-forgery token before a handler runs).
+/// The sweep page: progress with stability counts, failures by reason, one filter for the table,
+/// the plots and the export, a plot against a swept parameter and a scatter with its Pareto front,
+/// the sortable table of points (pick some to compare), coverage of each axis, the dataset
+/// folders; cancel and resume as POST forms (Razor Pages checks their anti-forgery token before a
+/// handler runs). The whole view lives in the address (<see cref="SweepView"/>).
 /// </summary>
 internal sealed partial class SweepModel : PageModel
 {
     private readonly SweepBoard _board;
     private readonly ILogger<SweepModel> _log;
+    private readonly JsonSerializerOptions _json;
 
-    public SweepModel(SweepBoard board, ILogger<SweepModel> log)
+    public SweepModel(SweepBoard board, ILogger<SweepModel> log, IOptions<Microsoft.AspNetCore.Http.Json.JsonOptions> json)
     {
         _board = board;
         _log = log;
+        _json = json.Value.SerializerOptions;
     }
 
     public SweepRecord Sweep { get; private set; } = null!;
@@ -30,6 +36,21 @@ internal sealed partial class SweepModel : PageModel
     public SweepDetail Detail { get; private set; } = null!;
 
     public SummaryTable Results { get; private set; } = null!;
+
+    /// <summary>The view the address asks for (filter, table, plots).</summary>
+    public SweepView View { get; private set; } = SweepView.Default;
+
+    /// <summary>The view with every plot choice resolved to what is drawn.</summary>
+    public SweepView Shown { get; private set; } = SweepView.Default;
+
+    public FilteredPoints Points { get; private set; } = null!;
+
+    public SweepPlotSet Plots { get; private set; } = null!;
+
+    /// <summary>The plots as JSON, embedded in the page for its script (a data block, not code).</summary>
+    public string PlotsJson { get; private set; } = "{}";
+
+    public ColumnCatalog Names { get; private set; } = null!;
 
     public string? Notice { get; private set; }
 
@@ -40,7 +61,13 @@ internal sealed partial class SweepModel : PageModel
     /// <summary>Resume re-queues points without results: useful once nothing is queued or running.</summary>
     public bool CanResume => Sweep.State is SweepState.Cancelled or SweepState.Failed;
 
-    public async Task<IActionResult> OnGetAsync(string sweepId, string? sort, string? dir, int? offset, string? notice, CancellationToken ct)
+    /// <summary>Rows of the Pareto front listed under the scatter (the plot and the JSON have them all).</summary>
+    public const int MaxFrontRows = 12;
+
+    /// <summary>Parameters with at most this many values are filtered by ticking values; others by a range.</summary>
+    public const int MaxTickedValues = 30;
+
+    public async Task<IActionResult> OnGetAsync(string sweepId, string? notice, CancellationToken ct)
     {
         if (_board.Find(sweepId) is not { } sweep)
         {
@@ -54,7 +81,14 @@ internal sealed partial class SweepModel : PageModel
             "unchanged" => "Nothing to resume: every point already has its result.",
             _ => null,
         };
-        await LoadAsync(sweep, new SummaryQuery(sort, DashboardApi.IsDescending(dir), offset ?? 0), ct).ConfigureAwait(false);
+        await LoadAsync(sweep, SweepView.Parse(Request.Query), ct).ConfigureAwait(false);
+        if (PointFilter.IsFormPost(Request.Query))
+        {
+            // The view form was sent: show the same view at its plain address (shorter, and what a reader would copy).
+            var at = Request.Query["at"].FirstOrDefault() is { Length: > 0 } a && a.All(char.IsAsciiLetter) ? "#" + a : "";
+            return Redirect(Links.Sweep(sweep.SweepId) + Canonical().Query(Defaults()) + at);
+        }
+
         return Page();
     }
 
@@ -94,27 +128,91 @@ internal sealed partial class SweepModel : PageModel
         catch (Exception ex) when (ex is OutputFolderException or PlanUnavailableException)
         {
             Problem = $"Cannot resume: {ex.Message}";
-            await LoadAsync(_board.Find(sweepId) ?? sweep, new SummaryQuery(), ct).ConfigureAwait(false);
+            await LoadAsync(_board.Find(sweepId) ?? sweep, SweepView.Default, ct).ConfigureAwait(false);
             return Page();
         }
     }
 
+    /// <summary>The address of this view changed by <paramref name="change"/> (the page offset back to 0 unless set), with an anchor.</summary>
+    public string Link(Func<SweepView, SweepView> change, string anchor = "results") =>
+        Links.Sweep(Sweep.SweepId) + change(Canonical() with { Table = Canonical().Table with { Offset = 0 } }).Query(Defaults()) + "#" + anchor;
+
     /// <summary>The sort link of a column: ascending first, then toggles.</summary>
-    public string SortLink(string column)
+    public string SortLink(string column) =>
+        Link(v => v with { Table = v.Table with { Sort = column, Descending = Results.Sort == column && !Results.Descending } });
+
+    public string PageLink(int offset) => Link(v => v with { Table = v.Table with { Offset = offset } });
+
+    /// <summary>The plots' JSON for this view.</summary>
+    public string PlotsApiLink => Links.ApiPlots(Sweep.SweepId) + Canonical().Query(Defaults());
+
+    /// <summary>The export address of the filtered table in a format (its filter and sort, nothing else).</summary>
+    public string ExportLink(string format) =>
+        Links.Export(Sweep.SweepId, format) + SweepView.Encode(Points.Filter.Query()
+            .Concat(Results.Sort == SummaryTable.DefaultSort ? [] : [new KeyValuePair<string, string>("sort", Results.Sort)])
+            .Concat(Results.Descending ? [new KeyValuePair<string, string>("dir", "desc")] : []));
+
+    /// <summary>The columns the reader chose (or the default ones): ticked in the column picker.</summary>
+    public IReadOnlySet<string> ChosenColumns =>
+        (View.Table.Columns.Length > 0 ? View.Table.Columns.Where(Points.All.Has) : Results.DefaultColumnNames).ToHashSet(StringComparer.Ordinal);
+
+    /// <summary>A point's values of the parameters the table shows by default ("invented-03, 6 N/m"), for lists of points.</summary>
+    public string ParametersOf(string pointId)
     {
-        var descending = Results.Sort == column && !Results.Descending;
-        return $"{Links.Sweep(Sweep.SweepId)}?sort={Uri.EscapeDataString(column)}&dir={(descending ? "desc" : "asc")}#results";
+        var row = Points.All.Where("point_id", pointId).Rows.FirstOrDefault();
+        return row.IsDefault
+            ? ""
+            : string.Join(", ", SummaryTable.KeyParameters(Points.All, Names).Select(p => Formatting.Show.Value(row[Points.All.IndexOf(p)], Names.UnitOf(p))));
     }
 
-    public string PageLink(int offset) =>
-        $"{Links.Sweep(Sweep.SweepId)}?sort={Uri.EscapeDataString(Results.Sort)}&dir={(Results.Descending ? "desc" : "asc")}&offset={offset}#results";
+    /// <summary>Whether a value of a parameter is ticked in the filter.</summary>
+    public bool IsTicked(string column, string raw) =>
+        Points.Filter.Values.Any(v => v.Column == column && v.Values.Contains(raw));
 
-    private async Task LoadAsync(SweepRecord sweep, SummaryQuery query, CancellationToken ct)
+    /// <summary>Distinct values of a column in the whole table, in order (numbers by size), as (raw, shown).</summary>
+    public IReadOnlyList<(string Raw, string Text)> ValuesOf(string column)
+    {
+        var i = Points.All.IndexOf(column);
+        if (i < 0)
+        {
+            return [];
+        }
+
+        var unit = Names.UnitOf(column);
+        return TableFacts.Of(Points.All, "values\n" + column, all =>
+        {
+            var cells = all.Rows.Select(r => r[i]).Where(v => v is not null).ToList();
+            var ordered = cells.All(v => ResultTable.ToDouble(v) is not null) ? cells.OrderBy(v => ResultTable.ToDouble(v)) : cells.AsEnumerable();
+            return (IReadOnlyList<(string Raw, string Text)>)[.. ordered.Select(v => (Raw: Formatting.Show.Raw(v), Text: Formatting.Show.Value(v, unit))).DistinctBy(v => v.Raw)];
+        });
+    }
+
+    private async Task LoadAsync(SweepRecord sweep, SweepView view, CancellationToken ct)
     {
         Sweep = sweep;
-        Detail = SweepViews.Detail(_board, sweep);
-        (Results, _) = await SweepViews.ResultsAsync(_board, sweep, query, ct).ConfigureAwait(false);
+        View = view;
+        Names = new ColumnCatalog(sweep, TableNames.Points);
+        Detail = await SweepViews.DetailAsync(_board, sweep, ct).ConfigureAwait(false);
+        (Results, _, Points) = await SweepViews.ResultsAsync(_board, sweep, view, ct).ConfigureAwait(false);
+        Plots = SweepViews.Plots(Points, sweep, view);
+        PlotsJson = JsonSerializer.Serialize(Plots, _json);
+        Shown = view with
+        {
+            Plot = SweepPlots.Resolve(Points.All, Names, view.Plot),
+            Scatter = SweepPlots.Resolve(Points.All, Names, view.Scatter),
+        };
     }
+
+    /// <summary>The view as shown, with the columns left out when they are the default ones.</summary>
+    private SweepView Canonical() =>
+        Shown with { Filter = Points.Filter, Table = Shown.Table with { Columns = Shown.Table.Columns.ToHashSet().SetEquals(Results.DefaultColumnNames) ? [] : Shown.Table.Columns } };
+
+    /// <summary>What an address without plot choices would show (left out of links).</summary>
+    private SweepView Defaults() => SweepView.Default with
+    {
+        Plot = SweepPlots.Resolve(Points.All, Names, new ParameterPlotRequest()),
+        Scatter = SweepPlots.Resolve(Points.All, Names, new ScatterPlotRequest()),
+    };
 
     private void RewriteManifest(string sweepId)
     {

@@ -1,16 +1,18 @@
 namespace LatticeSweep.Dashboard.Security;
 
 /// <summary>
-/// The only folder the dashboard reads files from. Every path is made absolute, its symbolic
-/// links followed, and then checked to lie inside the root; anything else is treated as absent,
-/// so a traversal attempt and a missing file look the same (404).
+/// The only folder the dashboard reads files from. Every path is made absolute, every symbolic
+/// link in it resolved until none is left (or the path is refused), and then checked to lie
+/// inside the root; anything else is treated as absent, so a traversal attempt and a missing file
+/// look the same (404).
 /// </summary>
 internal sealed class OutputRoot
 {
     public OutputRoot(string path)
     {
         ArgumentException.ThrowIfNullOrWhiteSpace(path);
-        Path = Canonical(System.IO.Path.GetFullPath(path));
+        Path = Canonical(System.IO.Path.GetFullPath(path))
+            ?? throw new Hosting.DashboardStartException($"--out: the output root {path} cannot be resolved (a loop of symbolic links, or more than {LinkFreePath.MaxLinks} of them)");
     }
 
     /// <summary>The canonical absolute root, without a trailing separator.</summary>
@@ -56,33 +58,7 @@ internal sealed class OutputRoot
         string.Equals(full, Path, StringComparison.Ordinal)
         || full.StartsWith(Path + System.IO.Path.DirectorySeparatorChar, StringComparison.Ordinal);
 
-    /// <summary>Follows symbolic links in every existing part of the path; the parts that do not exist are kept as written.</summary>
-    private static string Canonical(string full, int depth = 0)
-    {
-        const int MaxLinkDepth = 32;
-        var root = System.IO.Path.GetPathRoot(full)!;
-        var current = root;
-        var parts = full[root.Length..].Split(System.IO.Path.DirectorySeparatorChar, StringSplitOptions.RemoveEmptyEntries);
-        for (var i = 0; i < parts.Length; i++)
-        {
-            var next = System.IO.Path.Combine(current, parts[i]);
-            FileSystemInfo info = Directory.Exists(next) ? new DirectoryInfo(next) : new FileInfo(next);
-            if (info.LinkTarget is not null && depth < MaxLinkDepth
-                && info.ResolveLinkTarget(returnFinalTarget: true) is { } target)
-            {
-                // The target may itself sit below linked folders: canonicalise it in turn.
-                current = Canonical(System.IO.Path.GetFullPath(target.FullName), depth + 1);
-                continue;
-            }
-
-            if (!info.Exists && info.LinkTarget is null)
-            {
-                return System.IO.Path.Combine([current, .. parts[i..]]);
-            }
-
-            current = next;
-        }
-
-        return current.Length > root.Length ? current.TrimEnd(System.IO.Path.DirectorySeparatorChar) : current;
-    }
+    /// <summary>The path with every link resolved (<see cref="LinkFreePath"/>), without a trailing separator; null when refused.</summary>
+    private static string? Canonical(string full) =>
+        LinkFreePath.Resolve(full) is { } real ? (real.Length > 1 ? real.TrimEnd(System.IO.Path.DirectorySeparatorChar) : real) : null;
 }

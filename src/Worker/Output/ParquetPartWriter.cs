@@ -68,7 +68,8 @@ internal static class ParquetPartWriter
     public static string UnitsJson(IEnumerable<ColumnDef> columns) =>
         JsonSerializer.Serialize(columns.ToDictionary(c => c.Name, c => c.Unit));
 
-    private static async Task WriteParquetAsync(Stream stream, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    /// <summary>Writes the rows as one Parquet file to <paramref name="stream"/>, with the units metadata (also the dashboard's export).</summary>
+    internal static async Task WriteParquetAsync(Stream stream, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
     {
         await using var writer = await ParquetTableWriter.CreateAsync(stream, rows.Columns, metadata, ct).ConfigureAwait(false);
         await writer.WriteRowGroupAsync(rows, ct).ConfigureAwait(false);

@@ -9,9 +9,10 @@ using Serilog.Core;
 namespace LatticeSweep.Dashboard.Tests.Browser;
 
 /// <summary>
-/// The dashboard in a real browser (headless Chromium): the sweeps page, a sweep, a point with its
-/// plots. Screenshots of each page go to the test output folder (screenshots/), and the sweep page
-/// of the quick demo to docs/screenshots/sweep-page.png for the README.
+/// The dashboard in a real browser (headless Chromium): the sweeps page with its workers, a sweep
+/// with its filter, plots and table, a point with its plots, the comparison page. Screenshots of
+/// each page go to the test output folder (screenshots/), and the sweep page of the quick demo and
+/// a comparison to docs/screenshots/ for the README.
 /// </summary>
 public sealed class BrowserTests : IClassFixture<BrowserFixture>
 {
@@ -88,11 +89,7 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
 
         // A point of the sweep with a dispersion path: dispersion and group velocity plots too.
         var dispersionId = _store.Ids["chain-dispersion"];
-        string donePoint;
-        using (var catalog = _store.OpenCatalog())
-        {
-            donePoint = catalog.GetPoints(dispersionId, new PointQuery(PointState.Done)).First().PointId;
-        }
+        var donePoint = FirstDonePoint(dispersionId);
 
         await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{dispersionId}/points/{donePoint}").ToString());
         await page.WaitForSelectorAsync("body[data-charts-ready]");
@@ -103,11 +100,7 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
 
         // A point with thermal conductivity: its plot against temperature has data.
         var kappaId = _store.Ids["fcc-conductivity"];
-        string kappaPoint;
-        using (var catalog = _store.OpenCatalog())
-        {
-            kappaPoint = catalog.GetPoints(kappaId, new PointQuery(PointState.Done)).First().PointId;
-        }
+        var kappaPoint = FirstDonePoint(kappaId);
 
         await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{kappaId}/points/{kappaPoint}").ToString());
         await page.WaitForSelectorAsync("body[data-charts-ready]");
@@ -164,6 +157,303 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
         Assert.True(await sweepPage.EvaluateAsync<bool>("() => window.notReloaded === true"), "the sweep page was reloaded");
     }
 
+    [Fact]
+    public async Task Sweep_plots_have_the_points_and_a_click_on_one_opens_its_page()
+    {
+        var (page, errors) = await NewPageAsync();
+        var id = _store.Ids["chain-candidates"];
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{id}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(6, await PlottedPoints(page, "chart-parameter"));
+        Assert.Equal(3, await page.EvaluateAsync<int>("() => Chart.getChart(document.getElementById('chart-parameter')).data.datasets.length"));
+        Assert.True(await PlottedPoints(page, "chart-scatter") >= 6, "the scatter has too few points");
+        Assert.True(await InkedPixels(page, "chart-parameter") > 500, "the parameter plot is blank");
+        Assert.True(await InkedPixels(page, "chart-scatter") > 500, "the scatter is blank");
+        await page.Locator("#plots").ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-plots.png") });
+
+        // A click on the second point of the second candidate opens that point's page.
+        var target = await PointOnChart(page, "chart-parameter", 1, 1);
+        await page.Mouse.ClickAsync(target.X, target.Y);
+        await page.WaitForURLAsync($"**/sweeps/{id}/points/{target.Id}");
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task A_column_spanning_decades_is_drawn_on_a_log_axis()
+    {
+        var (page, errors) = await NewPageAsync();
+        var id = _store.Ids["fcc-conductivity"];
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{id}?x=conductivity_boundary_length_nm").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal("logarithmic", await page.EvaluateAsync<string>("() => Chart.getChart(document.getElementById('chart-parameter')).scales.x.type"));
+        Assert.Equal("linear", await page.EvaluateAsync<string>("() => Chart.getChart(document.getElementById('chart-parameter')).scales.y.type"));
+
+        // The choice in the plot's controls redraws it (the address keeps it).
+        await page.SelectOptionAsync("select[name='xscale']", "linear");
+        await page.WaitForURLAsync("**xscale=linear**");
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal("linear", await page.EvaluateAsync<string>("() => Chart.getChart(document.getElementById('chart-parameter')).scales.x.type"));
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task The_filter_follows_into_the_table_the_plots_the_downloads_and_the_address()
+    {
+        var (page, errors) = await NewPageAsync();
+        var id = _store.Ids["springs-through-zero"];
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{id}?y=max_freq_thz").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(9, await page.Locator("#results-table tbody tr").CountAsync());
+        Assert.Equal(3, await page.Locator("#results-table tbody tr.unstable").CountAsync());
+        Assert.Equal(3, await Count(page.Locator("#progress"), "unstable"));
+        Assert.Equal(3, await page.EvaluateAsync<int>(
+            "() => Chart.getChart(document.getElementById('chart-parameter')).data.datasets.flatMap(d => d.data).filter(p => p.unstable).length"));
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-unstable-page.png"), FullPage = true });
+
+        // Stable only, and a range on the heavy mass, from the form.
+        await page.CheckAsync("input[name='stable']");
+        await page.SelectOptionAsync("select[name='rcol'] >> nth=0", "sites_b_mass_amu");
+        await page.FillAsync("input[name='rmin'] >> nth=0", "20");
+        await page.ClickAsync("#filter button[name='at']");
+        await page.WaitForURLAsync("**range=sites_b_mass_amu*");
+        Assert.Contains("stable=1", page.Url, StringComparison.Ordinal);
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(4, await page.Locator("#results-table tbody tr").CountAsync());
+        Assert.Equal(0, await page.Locator("#results-table tbody tr.unstable").CountAsync());
+        Assert.Equal(4, await PlottedPoints(page, "chart-parameter"));
+        foreach (var href in await page.Locator("#downloads a").EvaluateAllAsync<string[]>("links => links.map(a => a.href)"))
+        {
+            Assert.Contains("stable=1", href, StringComparison.Ordinal);
+            Assert.Contains("range=sites_b_mass_amu", href, StringComparison.Ordinal);
+        }
+
+        // Another plot choice keeps the filter; the address alone shows the same view in a new tab.
+        await page.SelectOptionAsync("select[name='y']", "min_freq_thz");
+        await page.WaitForURLAsync("**y=min_freq_thz**");
+        Assert.Contains("stable=1", page.Url, StringComparison.Ordinal);
+        var copy = await _browser.Context.NewPageAsync();
+        await copy.GotoAsync(page.Url);
+        await copy.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(4, await copy.Locator("#results-table tbody tr").CountAsync());
+        Assert.Equal("min_freq_thz", await copy.EvaluateAsync<string>("() => document.querySelector(\"select[name='y']\").value"));
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task Points_ticked_in_the_table_or_picked_on_a_plot_are_compared_on_one_page()
+    {
+        var (page, errors) = await NewPageAsync();
+        var id = _store.Ids["quickstart"];
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{id}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        var boxes = page.Locator("#results-table tbody input[name='p']");
+        var ticked = new List<string>();
+        foreach (var i in new[] { 1, 9, 22 })
+        {
+            await boxes.Nth(i).CheckAsync();
+            ticked.Add(await boxes.Nth(i).GetAttributeAsync("value") ?? "");
+        }
+
+        Assert.Equal("3 chosen", await page.InnerTextAsync("#compare-count"));
+        await page.ClickAsync("#compare-button");
+        await page.WaitForURLAsync($"**/sweeps/{id}/compare?**");
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(ticked, await page.Locator("#compare-table tbody tr").EvaluateAllAsync<string[]>("rows => rows.map(r => r.dataset.pointId)"));
+        foreach (var chart in new[] { "chart-compare-dos", "chart-compare-cv", "chart-compare-debye" })
+        {
+            Assert.Equal(3, await page.EvaluateAsync<int>($"() => Chart.getChart(document.getElementById('{chart}')).data.datasets.length"));
+            Assert.True(await InkedPixels(page, chart) > 500, $"{chart} is blank");
+        }
+
+        var labels = await page.EvaluateAsync<string[]>("() => Chart.getChart(document.getElementById('chart-compare-cv')).data.datasets.map(d => d.label)");
+        Assert.All(labels, l => Assert.Contains("sites.B.mass_amu = ", l, StringComparison.Ordinal));
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "compare-page.png"), FullPage = true });
+        File.Copy(Path.Combine(Shots, "compare-page.png"), Path.Combine(Repository.Root(), "docs", "screenshots", "compare-page.png"), overwrite: true);
+
+        // Picked on a plot: with the pick box ticked, a click adds the point instead of opening it.
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{_store.Ids["chain-candidates"]}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        await page.CheckAsync("#pick-mode");
+        var target = await PointOnChart(page, "chart-parameter", 2, 0);
+        await page.Mouse.ClickAsync(target.X, target.Y);
+        await page.WaitForSelectorAsync("#picked:not([hidden])");
+        Assert.Equal(target.Id, await page.InnerTextAsync("#picked-list .chip"));
+        await page.ClickAsync("#picked button");
+        await page.WaitForURLAsync("**/compare?**");
+        Assert.Equal([target.Id], await page.Locator("#compare-table tbody tr").EvaluateAllAsync<string[]>("rows => rows.map(r => r.dataset.pointId)"));
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task The_sweeps_page_shows_the_workers_and_what_they_hold()
+    {
+        // A worker that never told the queue it is alive claims the half-way sweep's waiting chunk.
+        var runningId = _store.Ids["chain-dispersion"];
+        using (var store = QueueStore.Open(_store.Location, TimeProvider.System))
+        {
+            var chunk = store.Catalog.GetPoints(runningId, new PointQuery(PointState.Waiting)).First().ChunkId;
+            store.Catalog.BeginChunk(runningId, chunk, "test-host:9");
+        }
+
+        var (page, errors) = await NewPageAsync();
+        await page.GotoAsync(_server.Address.ToString());
+        var gone = page.Locator("#workers-table tr[data-worker='test-host:9']");
+        Assert.Equal("gone", (await gone.Locator("[data-field='status']").InnerTextAsync()).Trim().ToLowerInvariant());
+        Assert.Equal(2, await Count(gone, "points_held"));
+
+        // It redraws itself from /api/workers without a reload.
+        await page.EvaluateAsync("() => { window.notReloaded = true; return window.latticeSweepRefreshWorkers(); }");
+        await page.WaitForFunctionAsync("() => Number(document.getElementById('workers').dataset.refreshed) >= 1");
+        Assert.Equal(2, await Count(page.Locator("#workers-table tr[data-worker='test-host:9']"), "points_held"));
+        Assert.True(await page.EvaluateAsync<bool>("() => window.notReloaded === true"));
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweeps-page-workers.png"), FullPage = true });
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task Partial_densities_and_conductivity_per_direction_have_panels_of_their_own()
+    {
+        var (page, errors) = await NewPageAsync();
+        var kappaId = _store.Ids["fcc-conductivity"];
+        var kappaPoint = FirstDonePoint(kappaId);
+
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{kappaId}/points/{kappaPoint}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        // A cubic crystal conducts alike along x, y and z: one line, named for all three, not three lines under the mean.
+        Assert.Equal(["along x = along y = along z"], await page.EvaluateAsync<string[]>(
+            "() => Chart.getChart(document.getElementById('chart-kappa-directions')).data.datasets.map(d => d.label)"));
+
+        var dosId = _store.Ids["quickstart"];
+        var dosPoint = FirstDonePoint(dosId);
+
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{dosId}/points/{dosPoint}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal(["total"], await page.EvaluateAsync<string[]>("() => Chart.getChart(document.getElementById('chart-dos')).data.datasets.map(d => d.label)"));
+        Assert.Equal(["site 0", "site 1"], await page.EvaluateAsync<string[]>("() => Chart.getChart(document.getElementById('chart-dos-sites')).data.datasets.map(d => d.label)"));
+        Assert.True(await InkedPixels(page, "chart-dos-sites") > 500, "the partial DOS canvas is blank");
+
+        // Swept parameters' labels do not run into each other.
+        var boxes = await page.Locator("#parameters dl > div").EvaluateAllAsync<double[][]>(
+            "items => items.map(d => { const t = d.querySelector('dt').getBoundingClientRect(); return [t.left, t.right, d.getBoundingClientRect().right]; })");
+        Assert.All(boxes, b => Assert.True(b[1] <= b[2] + 0.5, "a parameter's label runs past its box"));
+        Assert.Empty(errors);
+    }
+
+    [Fact]
+    public async Task Nothing_is_cut_off_in_a_1400_pixel_wide_window()
+    {
+        var (page, errors) = await NewPageAsync();
+        Assert.Equal(1400, page.ViewportSize!.Width);
+        var kappaId = _store.Ids["fcc-conductivity"];
+        var quickstartId = _store.Ids["quickstart"];
+        var everyColumn = string.Join("&", (await ColumnChoices(page, kappaId)).Select(c => "col=" + Uri.EscapeDataString(c)));
+        var pages = new[]
+        {
+            "/",
+            $"/sweeps/{quickstartId}",
+            $"/sweeps/{_store.Ids["springs-through-zero"]}",
+            $"/sweeps/{_store.Ids["springs-off"]}",
+            $"/sweeps/{kappaId}",
+            $"/sweeps/{kappaId}?{everyColumn}",
+            $"/sweeps/{kappaId}/points/{FirstDonePoint(kappaId)}",
+            $"/sweeps/{quickstartId}/points/{FirstDonePoint(quickstartId)}",
+            $"/sweeps/{quickstartId}/compare?" + string.Join("&", FirstDonePoints(quickstartId, 3).Select(p => "p=" + p)),
+        };
+        foreach (var address in pages)
+        {
+            await page.GotoAsync(new Uri(_server.Address, address).ToString());
+            // The page itself never scrolls sideways, and nothing runs past the card it sits in.
+            Assert.True(await page.EvaluateAsync<bool>("() => document.documentElement.scrollWidth <= window.innerWidth"), $"{address}: the page is wider than the window");
+            var leaking = await page.EvaluateAsync<string[]>("""
+                () => [...document.querySelectorAll('.card')].flatMap(card => {
+                    const edge = card.getBoundingClientRect().right + 0.5;
+                    return [...card.querySelectorAll('th, td, canvas, select, p, dd, dt')]
+                        .filter(e => !e.closest('.scroll') && e.getBoundingClientRect().right > edge)
+                        .map(e => e.tagName + ': ' + e.textContent.trim().slice(0, 40));
+                })
+                """);
+            Assert.True(leaking.Length == 0, $"{address}: runs past its card: {string.Join("; ", leaking)}");
+        }
+
+        // The usual columns fit without scrolling, so the last ones ("Stable", "Finished") are in view.
+        foreach (var address in new[] { "/", $"/sweeps/{quickstartId}", $"/sweeps/{kappaId}" })
+        {
+            await page.GotoAsync(new Uri(_server.Address, address).ToString());
+            var table = address == "/" ? "#sweeps" : "#results-table";
+            Assert.True(await page.EvaluateAsync<bool>($$"""
+                () => {
+                    const t = document.querySelector('{{table}}');
+                    const last = t.querySelector('thead th:last-child').getBoundingClientRect();
+                    return last.right <= t.parentElement.getBoundingClientRect().right + 0.5 && last.right <= window.innerWidth;
+                }
+                """), $"{address}: the table's last column is cut off");
+        }
+
+        // Every column ticked: the table scrolls inside its card; scrolled to the end, its last column is in view, and its headers stay a few lines high.
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{kappaId}?{everyColumn}").ToString());
+        var scrolled = await page.EvaluateAsync<double[]>("""
+            () => {
+                const box = document.querySelector('#results-table').closest('.scroll');
+                box.scrollLeft = box.scrollWidth;
+                const last = document.querySelector('#results-table thead th:last-child').getBoundingClientRect();
+                const header = document.querySelector('#results-table thead tr').getBoundingClientRect();
+                const line = parseFloat(getComputedStyle(document.querySelector('#results-table thead th')).lineHeight) || 16;
+                return [last.right, box.getBoundingClientRect().right, header.height / line];
+            }
+            """);
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-every-column.png"), FullPage = true });
+        Assert.True(scrolled[0] <= scrolled[1] + 0.5, "scrolled to its end, the table's last column is still cut off");
+        Assert.True(scrolled[2] <= 7, $"the table's headers are {scrolled[2]:0.#} lines high");
+        Assert.Empty(errors);
+    }
+
+    /// <summary>The columns the sweep page offers in its column picker.</summary>
+    private async Task<IReadOnlyList<string>> ColumnChoices(IPage page, string sweepId)
+    {
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{sweepId}").ToString());
+        return await page.Locator("input[name='col']").EvaluateAllAsync<string[]>("inputs => inputs.map(i => i.value)");
+    }
+
+    private IEnumerable<string> FirstDonePoints(string sweepId, int count)
+    {
+        using var catalog = _store.OpenCatalog();
+        return [.. catalog.GetPoints(sweepId, new PointQuery(PointState.Done)).Take(count).Select(p => p.PointId)];
+    }
+
+    private string FirstDonePoint(string sweepId)
+    {
+        using var catalog = _store.OpenCatalog();
+        return catalog.GetPoints(sweepId, new PointQuery(PointState.Done)).First().PointId;
+    }
+
+    /// <summary>A new tab whose script errors (console errors, uncaught exceptions) are collected.</summary>
+    private async Task<(IPage Page, List<string> Errors)> NewPageAsync()
+    {
+        var page = await _browser.Context.NewPageAsync();
+        var errors = new List<string>();
+        page.Console += (_, m) => { if (m.Type == "error") { errors.Add(m.Text); } };
+        page.PageError += (_, e) => errors.Add(e);
+        return (page, errors);
+    }
+
+    /// <summary>Where on the screen a chart draws point <paramref name="index"/> of dataset <paramref name="dataset"/>, and that point's id.</summary>
+    private static async Task<(float X, float Y, string Id)> PointOnChart(IPage page, string canvasId, int dataset, int index)
+    {
+        var found = await page.EvaluateAsync<double[]>($$"""
+            () => {
+                const canvas = document.getElementById('{{canvasId}}');
+                canvas.scrollIntoView({ block: 'center' });
+                const chart = Chart.getChart(canvas);
+                const element = chart.getDatasetMeta({{dataset}}).data[{{index}}];
+                const box = canvas.getBoundingClientRect();
+                return [box.left + element.x, box.top + element.y];
+            }
+            """);
+        var id = await page.EvaluateAsync<string>($"() => Chart.getChart(document.getElementById('{canvasId}')).data.datasets[{dataset}].data[{index}].id");
+        return ((float)found[0], (float)found[1], id);
+    }
+
     private static async Task<long> Count(ILocator scope, string field) =>
         long.Parse(await scope.Locator($"[data-field='{field}']").First.GetAttributeAsync("data-value") ?? "-1", CultureInfo.InvariantCulture);
 
@@ -200,6 +490,9 @@ public sealed class BrowserFixture : IAsyncLifetime
     {
         Store = await DemoStore.StandardAsync();
         await Store.AddAsync("fcc-conductivity.toml", DemoJobs.Conductivity, DemoProgress.Finished);
+        await Store.AddAsync("unstable.toml", DemoJobs.Unstable, DemoProgress.Finished, pointsPerChunk: 5);
+        await Store.AddFileAsync("chain-candidates.csv", DemoJobs.CandidatesTable);
+        await Store.AddAsync("candidates.toml", DemoJobs.Candidates, DemoProgress.Finished, pointsPerChunk: 6);
         Server = await DashboardServer.StartAsync(Store);
         Browser = await Chromium.LaunchAsync();
     }

@@ -139,7 +139,8 @@ public sealed class PointPageTests
         var (sweepId, point) = DonePoint(_f.RunningId);
         using var http = _f.Server.Client();
         var page = await Html.GetAsync(http, $"/sweeps/{sweepId}/points/{point.PointId}");
-        Assert.Equal(["dos", "cv", "debye", "dispersion", "group-speed"], page.QuerySelectorAll("canvas[data-chart]").Select(c => c.GetAttribute("data-chart")));
+        // The partial densities of states (two sites) have a panel of their own, not hidden under the total.
+        Assert.Equal(["dos", "dos-sites", "cv", "debye", "dispersion", "group-speed"], page.QuerySelectorAll("canvas[data-chart]").Select(c => c.GetAttribute("data-chart")));
         Assert.Null(page.QuerySelector("canvas[data-chart='kappa']"));
         using var embedded = JsonDocument.Parse(page.QuerySelector("script#point-curves")!.TextContent);
         using var api = JsonDocument.Parse(await http.GetStringAsync($"/api/sweeps/{sweepId}/points/{point.PointId}/curves"));
@@ -149,7 +150,7 @@ public sealed class PointPageTests
         // Without a dispersion path there is no dispersion plot.
         var (finishedId, finishedPoint) = DonePoint(_f.FinishedId);
         var plain = await Html.GetAsync(http, $"/sweeps/{finishedId}/points/{finishedPoint.PointId}");
-        Assert.Equal(["dos", "cv", "debye"], plain.QuerySelectorAll("canvas[data-chart]").Select(c => c.GetAttribute("data-chart")));
+        Assert.Equal(["dos", "dos-sites", "cv", "debye"], plain.QuerySelectorAll("canvas[data-chart]").Select(c => c.GetAttribute("data-chart")));
     }
 
     [Fact]

@@ -72,6 +72,39 @@ public sealed class PathTraversalTests : IClassFixture<SecurityFixture>
         Assert.Equal(HttpStatusCode.OK, inside.StatusCode);
     }
 
+    [Theory]
+    [MemberData(nameof(OutputRootTests.ChainLengths), MemberType = typeof(OutputRootTests))]
+    public async Task A_chain_of_links_inside_the_root_serves_only_what_ends_inside_it(int links)
+    {
+        var outside = Path.Combine(_f.Store.Folder, $"secret-{links}");
+        Directory.CreateDirectory(outside);
+        await File.WriteAllTextAsync(Path.Combine(outside, "notes.txt"), "not for the dashboard");
+        var folder = Path.Combine(_f.Store.OutputRoot, $"chains-{links}");
+        Directory.CreateDirectory(folder);
+        await File.WriteAllTextAsync(Path.Combine(folder, "fine.txt"), "fine to serve");
+        OutputRootTests.Chain(folder, "out", links, Path.Combine(outside, "notes.txt"));
+        OutputRootTests.Chain(folder, "in", links, Path.Combine(folder, "fine.txt"));
+        File.CreateSymbolicLink(Path.Combine(folder, "loop-a"), Path.Combine(folder, "loop-b"));
+        File.CreateSymbolicLink(Path.Combine(folder, "loop-b"), Path.Combine(folder, "loop-a"));
+
+        using var http = _f.Open.Client();
+        foreach (var path in new[] { $"/files/chains-{links}/out-1", $"/files/chains-{links}/loop-a" })
+        {
+            using var response = await http.GetAsync(path);
+            Assert.True(response.StatusCode == HttpStatusCode.NotFound, $"{path}: {(int)response.StatusCode}");
+            Assert.DoesNotContain("not for the dashboard", await response.Content.ReadAsStringAsync(), StringComparison.Ordinal);
+        }
+
+        using var inside = await http.GetAsync($"/files/chains-{links}/in-1");
+        Assert.Equal(HttpStatusCode.OK, inside.StatusCode);
+        Assert.Equal("fine to serve", await inside.Content.ReadAsStringAsync());
+        var listing = await Html.GetAsync(http, $"/files/chains-{links}");
+        var names = listing.QuerySelectorAll("#entries tbody a").Select(a => a.TextContent.Trim()).ToList();
+        Assert.Contains("in-1", names);
+        Assert.DoesNotContain("out-1", names);
+        Assert.DoesNotContain("loop-a", names);
+    }
+
     [Fact]
     public async Task A_writers_hidden_temporary_file_is_not_served()
     {

@@ -20,7 +20,7 @@ internal sealed class DashboardServer : IAsyncDisposable
 
     public Uri Address { get; }
 
-    public static async Task<DashboardServer> StartAsync(DemoStore store, string? token = null, IPAddress? bind = null)
+    public static async Task<DashboardServer> StartAsync(DemoStore store, string? token = null, IPAddress? bind = null, TimeProvider? time = null)
     {
         var app = DashboardHost.Build(new DashboardOptions
         {
@@ -29,7 +29,7 @@ internal sealed class DashboardServer : IAsyncDisposable
             Port = 0,
             BindAddress = bind ?? IPAddress.Loopback,
             AccessToken = token,
-            Time = new FixedTime(Now),
+            Time = time ?? new FixedTime(Now),
         });
         await app.StartAsync();
         var address = DashboardHost.Addresses(app).First();

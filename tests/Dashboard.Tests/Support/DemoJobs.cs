@@ -152,4 +152,156 @@ internal static class DemoJobs
 
         [output.conductivity.umklapp]
         """;
+
+    /// <summary>
+    /// A chain whose transverse spring is swept through zero: with a negative transverse constant
+    /// the model is unstable (an imaginary frequency). 3 masses x 3 springs = 9 points, 3 unstable.
+    /// </summary>
+    public const string Unstable = """
+        # Invented demo values: a transverse spring swept through zero, so that some models are unstable.
+        [sweep]
+        name = "springs-through-zero"
+        description = "Diatomic chain with a transverse spring from negative to positive (invented values)"
+
+        [[sweep.axes]]
+        path = "model.sites.B.mass_amu"
+        values = [10.0, 30.0, 90.0]
+
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [-4.0, 3.0, 12.0]
+
+        [model]
+        lattice = "chain"
+        constant_nm = 0.45
+        motion = "3d"
+
+        [[model.sites]]
+        label = "A"
+        position = [0.0]
+        mass_amu = 10.0
+
+        [[model.sites]]
+        label = "B"
+        position = [0.5]
+        mass_amu = 10.0
+
+        [[model.springs]]
+        from = "A"
+        to = "B"
+        shell = 1
+        longitudinal_n_per_m = 25.0
+        transverse_n_per_m = 6.0
+
+        [sample]
+        kind = "finite"
+        cells = 24
+
+        [output]
+        temperatures_k = [10, 50, 150, 300]
+        reference_temperature_k = 300
+        dos_bins = 50
+        """;
+
+    /// <summary>Three invented candidates (a name, a heavy mass and a spring each) crossed with two transverse springs: 6 points.</summary>
+    public const string Candidates = """
+        # Invented demo values: three made-up candidates of a diatomic chain, from a table.
+        [sweep]
+        name = "chain-candidates"
+        description = "Three invented chain candidates, two transverse springs each (invented values)"
+
+        [sweep.candidates]
+        file = "chain-candidates.csv"
+        keep = ["name"]
+
+        [sweep.candidates.columns]
+        mass_b = "model.sites.B.mass_amu"
+        k_long = "model.springs[0].longitudinal_n_per_m"
+
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [4.0, 9.0]
+
+        [model]
+        lattice = "chain"
+        constant_nm = 0.5
+        motion = "3d"
+
+        [[model.sites]]
+        label = "A"
+        position = [0.0]
+        mass_amu = 12.0
+
+        [[model.sites]]
+        label = "B"
+        position = [0.5]
+        mass_amu = 20.0
+
+        [[model.springs]]
+        from = "A"
+        to = "B"
+        shell = 1
+        longitudinal_n_per_m = 30.0
+        transverse_n_per_m = 6.0
+
+        [sample]
+        kind = "finite"
+        cells = 16
+
+        [output]
+        temperatures_k = [20, 100, 300]
+        reference_temperature_k = 300
+        dos_bins = 40
+        """;
+
+    /// <summary>The candidates table of <see cref="Candidates"/> (invented).</summary>
+    public const string CandidatesTable = """
+        name,mass_b,k_long
+        cand-light,16.0,40.0
+        cand-middle,45.0,28.0
+        cand-heavy,110.0,22.0
+        """;
+
+    /// <summary>
+    /// A simple cubic crystal with central springs only on some points: shear meets no spring, so
+    /// those models have zero modes beyond the rigid translations (floppy). 2 x 2 = 4 points, 2 floppy.
+    /// </summary>
+    public const string Floppy = """
+        # Invented demo values: a simple cubic crystal whose transverse spring is switched off on some points.
+        [sweep]
+        name = "central-springs"
+        description = "Simple cubic crystal with and without transverse springs (invented values)"
+
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [0.0, 2.0]
+
+        [[sweep.axes]]
+        path = "model.sites.M.mass_amu"
+        values = [20.0, 40.0]
+
+        [model]
+        lattice = "simple_cubic"
+        constant_nm = 0.3
+
+        [[model.sites]]
+        label = "M"
+        mass_amu = 20.0
+
+        [[model.springs]]
+        from = "M"
+        to = "M"
+        shell = 1
+        longitudinal_n_per_m = 20.0
+        transverse_n_per_m = 2.0
+
+        [sample]
+        kind = "finite"
+        cells = 3
+
+        [output]
+        temperatures_k = [20, 100, 300]
+        reference_temperature_k = 300
+        dos_bins = 30
+        """;
 }

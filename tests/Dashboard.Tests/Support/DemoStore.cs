@@ -46,6 +46,13 @@ internal sealed class DemoStore : IDisposable
 
     public static DemoStore Create() => new(new TempFolder());
 
+    /// <summary>Writes a file beside the job files (a candidates table a job names).</summary>
+    public Task AddFileAsync(string fileName, string text)
+    {
+        Directory.CreateDirectory(_folder.Combine("jobs"));
+        return File.WriteAllTextAsync(_folder.Combine("jobs", fileName), text);
+    }
+
     /// <summary>Plans and submits a job file, then runs its chunks as far as <paramref name="progress"/> says.</summary>
     public async Task<string> AddAsync(string fileName, string jobText, DemoProgress progress, int pointsPerChunk = 4)
     {

@@ -29,8 +29,10 @@
         try {
             const response = await fetch(section.dataset.source, { headers: { Accept: "application/json" }, credentials: "same-origin" });
             if (!response.ok) { return; }
-            const s = (await response.json()).sweep;
+            const detail = await response.json();
+            const s = detail.sweep;
             for (const f of ["total", "done", "unstable", "failed", "running", "waiting", "cancelled"]) { set(f, count(s[f]), s[f]); }
+            if (detail.stability) { set("floppy", count(detail.stability.floppy), detail.stability.floppy); }
             set("finished", s.text.finished);
             set("rate", s.text.rate, s.rate_points_per_min);
             set("eta", s.text.eta, s.eta_s);

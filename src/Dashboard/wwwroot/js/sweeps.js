@@ -92,6 +92,80 @@
         }
     }
 
+    // ---- the workers card: redrawn from /api/workers ----
+    const workers = document.getElementById("workers");
+    const clock = (t) => (t ? new Date(t).toISOString().replace("T", " ").slice(0, 19) : "—");
+
+    function el(tag, className, text) {
+        const e = document.createElement(tag);
+        if (className) { e.className = className; }
+        if (text !== undefined) { e.textContent = text; }
+        return e;
+    }
+
+    function workerRow(w) {
+        const tr = el("tr");
+        tr.dataset.worker = w.name;
+        tr.dataset.status = w.status;
+        const status = el("td");
+        const badge = el("span", "state state-worker-" + w.status, w.status);
+        badge.dataset.field = "status";
+        status.append(badge, el("div", "sub", w.status_text));
+        const holds = el("td");
+        if (w.holds.length === 0) { holds.appendChild(el("span", "muted", "nothing (idle)")); }
+        for (const h of w.holds) {
+            const line = el("div");
+            line.dataset.holds = h.sweep_id;
+            const link = el("a", "", h.sweep_name);
+            link.href = h.url;
+            const chunks = h.chunks.slice(0, 4).join(", ") + (h.chunks.length > 4 ? ", ..." : "");
+            line.append(link, ": " + count(h.points) + (h.points === 1 ? " point" : " points") + " in " + count(h.chunks.length)
+                + (h.chunks.length === 1 ? " chunk " : " chunks "), el("span", "sub mono", chunks));
+            holds.appendChild(line);
+        }
+        tr.append(el("td", "mono", w.name), status,
+            cell(w.threads === null ? "—" : String(w.threads), "threads", w.threads, true),
+            cell(clock(w.last_heard_at), "last_heard"),
+            cell(count(w.points_held), "points_held", w.points_held, true),
+            holds);
+        return tr;
+    }
+
+    async function refreshWorkers() {
+        if (!workers) { return; }
+        try {
+            const response = await fetch(workers.dataset.source, { headers: { Accept: "application/json" }, credentials: "same-origin" });
+            if (!response.ok) { return; }
+            const list = await response.json();
+            const body = document.getElementById("workers-body");
+            if (list.workers.length === 0) {
+                const none = el("p", "muted", "No worker process is running on this store, and no point is held by one.");
+                none.dataset.field = "no-workers";
+                body.replaceChildren(none);
+            } else {
+                const table = el("table", "grid");
+                table.id = "workers-table";
+                const head = el("thead");
+                const hr = el("tr");
+                for (const [text, unit, numeric] of [["Worker", "machine:process"], ["Status"], ["Threads", "", true], ["Last heard", "UTC"], ["Points held", "", true], ["Holds"]]) {
+                    const th = el("th", numeric ? "num" : "", text);
+                    if (unit) { th.append(" ", el("span", "unit", unit)); }
+                    hr.appendChild(th);
+                }
+                head.appendChild(hr);
+                const tbody = el("tbody");
+                tbody.append(...list.workers.map(workerRow));
+                table.append(head, tbody);
+                body.replaceChildren(table);
+            }
+            workers.dataset.refreshed = String((Number(workers.dataset.refreshed) || 0) + 1);
+        } catch (e) {
+            // The next tick tries again.
+        }
+    }
+
     setInterval(refresh, 5000);
+    setInterval(refreshWorkers, 5000);
     window.latticeSweepRefresh = refresh;
+    window.latticeSweepRefreshWorkers = refreshWorkers;
 })();

@@ -1,0 +1,289 @@
+using System.Collections.Immutable;
+using LatticeSweep.Dashboard.Formatting;
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Output;
+
+namespace LatticeSweep.Dashboard.Datasets;
+
+/// <summary>
+/// Builds the sweep page's plots from the points/ table. Choices and defaults are judged on the
+/// whole table (<c>all</c>), the points drawn are the filtered ones, so a filter never changes
+/// what can be chosen, only what is drawn.
+/// </summary>
+internal static class SweepPlots
+{
+    /// <summary>Usual y columns: the first that varies over the sweep wins (conductivity first: a sweep that asked for it is about it).</summary>
+    private static readonly string[] ParameterPlotY = [PointCurves.ConductivityColumn, "cv_j_per_mol_k", "debye_temperature_from_cv_k", "max_freq_thz"];
+
+    private static readonly string[] ScatterX = ["debye_temperature_from_cv_k", "max_freq_thz", "sound_speed_mean_m_per_s"];
+
+    private static readonly string[] ScatterY = [PointCurves.ConductivityColumn, "cv_j_per_kg_k", "cv_j_per_mol_k", "largest_gap_width_thz"];
+
+    /// <summary>Columns about the run, not the model: never a default axis.</summary>
+    private static readonly HashSet<string> RunColumns = new(StringComparer.Ordinal) { "point_index", "attempt", "duration_s" };
+
+    /// <summary>At most this many values for a default grouping parameter named in a legend (a longer legend says little).</summary>
+    private const int MaxDefaultGroups = 12;
+
+    /// <summary>At most this many lines for a default numeric grouping parameter drawn as a colour gradient.</summary>
+    public const int MaxGradientGroups = 60;
+
+    /// <summary>Numeric columns with at least one value: what can go on a number axis.</summary>
+    public static IReadOnlyList<string> NumberColumns(ResultTable all)
+    {
+        var filled = SummaryTable.FilledColumns(all);
+        return [.. all.Columns.Where(c => c.IsNumeric && filled.Contains(c.Name) && c.Name != SummaryTable.DefaultSort).Select(c => c.Name)];
+    }
+
+    /// <summary>The swept parameters present in the table (what can go on the x axis or split the series).</summary>
+    public static IReadOnlyList<string> ParameterColumns(ResultTable all, ColumnCatalog names) => [.. names.Parameters.Where(all.Has)];
+
+    /// <summary>The request with every empty choice replaced by its default (a choice the table cannot serve, too).</summary>
+    public static ParameterPlotRequest Resolve(ResultTable all, ColumnCatalog names, ParameterPlotRequest request)
+    {
+        var parameters = ParameterColumns(all, names);
+        var numbers = NumberColumns(all);
+        // The default x is a numeric parameter that no other one determines (a candidate's lattice
+        // constant would draw one cloud per candidate, not a trend).
+        var key = SummaryTable.KeyParameters(all, names);
+        var varying = key.Concat(parameters).Distinct(StringComparer.Ordinal).Where(p => Distinct(all, p) > 1).ToList();
+        var x = request.X is { } rx && parameters.Contains(rx) ? rx
+            : varying.FirstOrDefault(p => all.Column(p)!.IsNumeric) ?? varying.FirstOrDefault() ?? parameters.FirstOrDefault();
+        var y = request.Y is { } ry && numbers.Contains(ry) ? ry
+            : Preferred(all, ParameterPlotY, numbers.Where(n => !names.IsParameter(n))) ?? numbers.FirstOrDefault();
+        string? by;
+        if (request.By == SweepPlot.NoGrouping)
+        {
+            by = SweepPlot.NoGrouping;
+        }
+        else if (request.By is { } rb && parameters.Contains(rb) && rb != x)
+        {
+            by = rb;
+        }
+        else
+        {
+            // A parameter with few values names its lines in a legend; one with many (a dense grid) still
+            // gives a family of lines, coloured from its lowest value to its highest.
+            by = key.FirstOrDefault(p => p != x && Distinct(all, p) is > 1 and <= MaxDefaultGroups)
+                ?? key.FirstOrDefault(p => p != x && all.Column(p)!.IsNumeric && Distinct(all, p) is > 1 and <= MaxGradientGroups)
+                ?? SweepPlot.NoGrouping;
+        }
+
+        return request with { X = x, Y = y, By = by };
+    }
+
+    public static ScatterPlotRequest Resolve(ResultTable all, ColumnCatalog names, ScatterPlotRequest request)
+    {
+        var numbers = NumberColumns(all);
+        // When none of the usual x columns varies, a swept parameter does (a conductivity sweep: kappa against the boundary length).
+        var results = numbers.Where(c => !RunColumns.Contains(c)).OrderBy(c => names.IsParameter(c) ? 0 : 1).ToList();
+        var x = request.X is { } rx && numbers.Contains(rx) ? rx : Preferred(all, ScatterX, results) ?? numbers.FirstOrDefault();
+        var y = request.Y is { } ry && numbers.Contains(ry) ? ry
+            : Preferred(all, ScatterY.Where(c => c != x), results.Where(c => c != x && !names.IsParameter(c))) ?? numbers.FirstOrDefault(c => c != x) ?? x;
+        return request with { X = x, Y = y };
+    }
+
+    /// <summary>A summary column against a swept parameter, one series per value of another parameter; null when the table cannot give one.</summary>
+    public static SweepPlot? Parameter(ResultTable all, ResultTable filtered, SweepRecord sweep, ParameterPlotRequest asked)
+    {
+        var names = new ColumnCatalog(sweep, TableNames.Points);
+        var r = Resolve(all, names, asked);
+        if (r.X is null || r.Y is null)
+        {
+            return null;
+        }
+
+        var notes = new List<string>();
+        var maker = new PointMaker(filtered, r.X, r.Y);
+        int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y);
+        var grouped = r.By is { } b && b != SweepPlot.NoGrouping ? filtered.IndexOf(b) : -1;
+        var categorical = !all.Column(r.X)!.IsNumeric;
+        var categories = categorical ? Categories(all, all.IndexOf(r.X)) : [];
+        var usable = filtered.Rows.Where(row => row[ix] is not null && Finite(row[iy]) is not null && (categorical || Finite(row[ix]) is not null)).ToList();
+        var series = new List<PlotSeries>();
+        foreach (var group in usable.GroupBy(row => grouped < 0 ? "" : Show.Raw(row[grouped])).OrderBy(g => g.Key, ValueOrder.Of(filtered, grouped)))
+        {
+            var points = group
+                .Select(row => maker.Make(row, categorical ? categories.IndexOf(Show.Raw(row[ix])) : null))
+                .OrderBy(p => p.X)
+                .ToImmutableArray();
+            var lines = !categorical && points.Select(p => p.X).Distinct().Count() == points.Length;
+            var name = grouped < 0 ? names.Label(r.Y) : Show.Value(group.First()[grouped], names.UnitOf(filtered.Columns[grouped].Name));
+            series.Add(new PlotSeries(name, lines, points));
+        }
+
+        if (series.Count > MaxDefaultGroups && grouped >= 0)
+        {
+            notes.Add($"{series.Count} lines, one per value of {names.ShortLabel(r.By!)}: coloured from blue (the lowest, {series[0].Name}) to orange (the highest, {series[^1].Name}); the tooltip names each.");
+        }
+
+        if (series.Any(s => !s.Lines) && !categorical)
+        {
+            notes.Add("Several points share an x value within a series, so they are drawn as points without lines: split the series by another parameter or narrow the filter.");
+        }
+
+        var plotted = series.Sum(s => s.Points.Length);
+        series = Thinned(series, plotted, notes);
+        var xAxis = Axis(names, r.X, all, r.XScale, notes, categorical, categories);
+        var yAxis = Axis(names, r.Y, all, r.YScale, notes, false, []);
+        return new SweepPlot(SweepPlot.ParameterKind, PointUrl(sweep), xAxis, yAxis, grouped < 0 ? null : r.By, grouped < 0 ? null : names.Label(r.By!),
+            [.. series], [], null, plotted, filtered.Rows.Length - plotted, [.. notes]);
+    }
+
+    /// <summary>Two summary columns against each other, with the Pareto front for the chosen directions (unstable models are never on it).</summary>
+    public static SweepPlot? Scatter(ResultTable all, ResultTable filtered, SweepRecord sweep, ScatterPlotRequest asked)
+    {
+        var names = new ColumnCatalog(sweep, TableNames.Points);
+        var r = Resolve(all, names, asked);
+        if (r.X is null || r.Y is null)
+        {
+            return null;
+        }
+
+        var notes = new List<string>();
+        var maker = new PointMaker(filtered, r.X, r.Y);
+        int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y);
+        var points = filtered.Rows
+            .Where(row => Finite(row[ix]) is not null && Finite(row[iy]) is not null)
+            .Select(row => maker.Make(row, null))
+            .ToList();
+        var candidates = points.Where(p => !p.Unstable).ToList();
+        var front = ParetoFront.Of([.. candidates.Select(p => (p.X, p.Y))], r.XLarger, r.YLarger).Select(i => candidates[i]).ToImmutableArray();
+        var series = new List<PlotSeries> { new("stable models", false, [.. points.Where(p => !p.Unstable)]) };
+        if (points.Any(p => p.Unstable))
+        {
+            series.Add(new PlotSeries("unstable models", false, [.. points.Where(p => p.Unstable)]));
+            notes.Add("Unstable models are drawn apart and are never on the front.");
+        }
+
+        series = Thinned(series, points.Count, notes);
+        var rule = $"{(r.XLarger ? "larger" : "smaller")} {names.ShortLabel(r.X)} and {(r.YLarger ? "larger" : "smaller")} {names.ShortLabel(r.Y)} are better";
+        return new SweepPlot(SweepPlot.ScatterKind, PointUrl(sweep), Axis(names, r.X, all, r.XScale, notes, false, []), Axis(names, r.Y, all, r.YScale, notes, false, []),
+            null, null, [.. series], front, rule, points.Count, filtered.Rows.Length - points.Count, [.. notes]);
+    }
+
+    /// <summary>Each series evenly sampled when the plot has more than <see cref="SweepPlot.MaxDrawn"/> points (said in a note).</summary>
+    private static List<PlotSeries> Thinned(List<PlotSeries> series, int plotted, List<string> notes)
+    {
+        if (plotted <= SweepPlot.MaxDrawn)
+        {
+            return series;
+        }
+
+        var stride = (plotted + SweepPlot.MaxDrawn - 1) / SweepPlot.MaxDrawn;
+        var thinned = series
+            .Select(s => s with { Points = [.. s.Points.Where((_, i) => i % stride == 0 || i == s.Points.Length - 1)] })
+            .ToList();
+        notes.Add($"{Show.Count(thinned.Sum(s => s.Points.Length))} of the {Show.Count(plotted)} points are drawn (one in {Show.Count(stride)} of each series in its order, with its first and last); the front, the table and the downloads have them all.");
+        return thinned;
+    }
+
+    /// <summary>A point's page is this followed by its escaped id.</summary>
+    private static string PointUrl(SweepRecord sweep) => Endpoints.Links.Sweep(sweep.SweepId) + "/points/";
+
+    /// <summary>A number that can be drawn (an empty cell, NaN or an infinity cannot).</summary>
+    private static double? Finite(object? value) => ResultTable.ToDouble(value) is { } v && double.IsFinite(v) ? v : null;
+
+    /// <summary>True when every value of the column is positive and the largest is at least <see cref="SweepPlot.DecadesRatio"/> times the smallest.</summary>
+    public static bool SpansDecades(IEnumerable<double?> values)
+    {
+        var v = values.OfType<double>().Where(double.IsFinite).ToList();
+        return v.Count > 1 && v.All(x => x > 0) && v.Max() / v.Min() >= SweepPlot.DecadesRatio;
+    }
+
+    private static PlotAxis Axis(ColumnCatalog names, string column, ResultTable all, AxisScale scale, List<string> notes, bool categorical, ImmutableArray<string> categories)
+    {
+        var log = false;
+        if (!categorical)
+        {
+            var values = all.Numbers(column).ToList();
+            var positive = values.OfType<double>().Where(double.IsFinite).All(v => v > 0);
+            log = scale switch
+            {
+                AxisScale.Log when !positive => false,
+                AxisScale.Log => true,
+                AxisScale.Linear => false,
+                _ => SpansDecades(values),
+            };
+            if (scale == AxisScale.Log && !positive)
+            {
+                notes.Add($"{names.ShortLabel(column)} has values of zero or below, so its axis stays linear.");
+            }
+        }
+
+        return new PlotAxis(column, names.ShortLabel(column), names.UnitOf(column), log, categorical, categories);
+    }
+
+    /// <summary>The first usual column that varies over the sweep, else the first other column that does; null when none varies.</summary>
+    private static string? Preferred(ResultTable all, IEnumerable<string> usual, IEnumerable<string> others)
+    {
+        bool Varies(string c) => all.Numbers(c).OfType<double>().Where(double.IsFinite).Distinct().Skip(1).Any();
+        var present = NumberColumns(all);
+        return usual.Where(present.Contains).FirstOrDefault(Varies) ?? others.FirstOrDefault(Varies);
+    }
+
+    private static int Distinct(ResultTable t, string column)
+    {
+        var i = t.IndexOf(column);
+        return i < 0 ? 0 : TableFacts.Of(t, "distinct\n" + column, t => t.Rows.Select(r => Show.Raw(r[i])).Distinct(StringComparer.Ordinal).Count());
+    }
+
+    /// <summary>A text column's values in plan order (first appearance), as categories.</summary>
+    private static ImmutableArray<string> Categories(ResultTable all, int column) =>
+        [.. SummaryTable.Ordered(all, null, false).Select(r => Show.Raw(r[column])).Where(v => v.Length > 0).Distinct(StringComparer.Ordinal)];
+
+    /// <summary>Turns a row with drawable x and y into a <see cref="PlotPoint"/> (its page, its marks).</summary>
+    private sealed class PointMaker(ResultTable t, string x, string y)
+    {
+        private readonly PointFlags _flags = new(t);
+        private readonly int _x = t.IndexOf(x);
+        private readonly int _y = t.IndexOf(y);
+        private readonly int _id = t.IndexOf("point_id");
+
+        /// <summary>The point; <paramref name="category"/> replaces x on a categorical axis.</summary>
+        public PlotPoint Make(ImmutableArray<object?> row, int? category)
+        {
+            var id = (string)row[_id]!;
+            return new PlotPoint(category ?? ResultTable.ToDouble(row[_x])!.Value, ResultTable.ToDouble(row[_y])!.Value, id, _flags.IsUnstable(row), _flags.IsFloppy(row));
+        }
+    }
+
+    /// <summary>Orders series keys: numerically when the column is numeric, else in plan order.</summary>
+    private sealed class ValueOrder : IComparer<string>
+    {
+        private readonly Dictionary<string, int>? _planOrder;
+
+        private ValueOrder(Dictionary<string, int>? planOrder)
+        {
+            _planOrder = planOrder;
+        }
+
+        public static ValueOrder Of(ResultTable t, int column)
+        {
+            if (column < 0 || t.Columns[column].IsNumeric)
+            {
+                return new ValueOrder(null);
+            }
+
+            var order = new Dictionary<string, int>(StringComparer.Ordinal);
+            foreach (var v in SummaryTable.Ordered(t, null, false).Select(r => Show.Raw(r[column])))
+            {
+                order.TryAdd(v, order.Count);
+            }
+
+            return new ValueOrder(order);
+        }
+
+        public int Compare(string? x, string? y)
+        {
+            if (_planOrder is null)
+            {
+                var a = double.TryParse(x, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var p) ? p : double.MaxValue;
+                var b = double.TryParse(y, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var q) ? q : double.MaxValue;
+                return a.CompareTo(b);
+            }
+
+            return _planOrder.GetValueOrDefault(x ?? "", int.MaxValue).CompareTo(_planOrder.GetValueOrDefault(y ?? "", int.MaxValue));
+        }
+    }
+}
