@@ -134,7 +134,9 @@ public static class CheckCommand
                 o.WriteLine($"  costliest    point {c.Point.PointId} ({Describe(c.Point)}): {Duration(c.Seconds)}");
             }
 
-            o.WriteLine($"  memory       {Size(f.PeakBytes)} peak per worker");
+            // The Engine's estimate covers the largest point's own arrays (modes, weights, blocks), not the
+            // worker process around it, which measured ~100 MB for the quickstart run.
+            o.WriteLine($"  memory       {Size(f.PeakBytes)} for the largest point's data per worker, on top of the worker process itself (about 100 MB)");
             o.WriteLine($"  disk         {Size(f.EvaluatedDiskBytes * f.Scale)} before Parquet compression (usually much less on disk)");
         }
 
