@@ -34,6 +34,7 @@ public static class TetrahedralModelBuilder
     {
         var massB = structure == TetrahedralStructure.Diamond ? massAAmu : massBAmu;
         fit = BondBendingFit.Fit(structure, constantNm, massAAmu + massB, target);
-        return Build(new TetrahedralModelSpec(structure, constantNm, massAAmu, massBAmu, fit.NearestNPerM, fit.BendNPerM!.Value, degreesOfFreedom));
+        // The fit travels with the model, as the central-spring fit's does, so every solve reports it.
+        return Build(new TetrahedralModelSpec(structure, constantNm, massAAmu, massBAmu, fit.NearestNPerM, fit.BendNPerM!.Value, degreesOfFreedom)) with { ElasticFit = fit };
     }
 }

@@ -38,7 +38,7 @@ public static class SolveCommand
         try
         {
             var request = PointBinder.Bind(plan, point);
-            result = PhononSolver.Solve(request.Model, request.Sample, request.Options) with { ElasticFit = request.ElasticFit };
+            result = PhononSolver.Solve(request.Model, request.Sample, request.Options);
         }
         catch (ModelException e)
         {

@@ -32,6 +32,6 @@ public sealed class EnginePointSolver : IPointSolver
     {
         SimulatedSlowPoints.Wait(ct);
         var request = PointBinder.Bind(plan, point);
-        return PhononSolver.Solve(request.Model, request.Sample, request.Options, ct) with { ElasticFit = request.ElasticFit };
+        return PhononSolver.Solve(request.Model, request.Sample, request.Options, ct);
     }
 }
