@@ -234,6 +234,27 @@ internal sealed class RigidBodyModes
     }
 
     /// <summary>
+    /// The rigid-body modes D does not annihilate (|D v| above <paramref name="tolerance"/>, rad^2/s^2):
+    /// none for rotationally invariant springs, the rotations for springs with a transverse constant.
+    /// A vector orthogonal to the others stays so under D, so only these need projecting out of D x.
+    /// </summary>
+    public RigidBodyModes ResistedBy(Func<double[], double[]> applyD, double tolerance)
+    {
+        var kept = new List<double[]>();
+        var translations = 0;
+        for (var i = 0; i < Count; i++)
+        {
+            if (Norm(applyD(Vectors[i])) > tolerance)
+            {
+                kept.Add(Vectors[i]);
+                translations += i < Translations ? 1 : 0;
+            }
+        }
+
+        return new RigidBodyModes([.. kept], translations);
+    }
+
+    /// <summary>
     /// Largest eigenvalue (rad^2/s^2) of D restricted to the rigid rotations: zero for rotationally
     /// invariant springs, otherwise what the projection removes.
     /// </summary>
