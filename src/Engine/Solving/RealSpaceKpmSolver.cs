@@ -1,3 +1,5 @@
+using System.Runtime.Intrinsics;
+using LatticeSweep.Engine.Numerics.Simd;
 using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics;
@@ -35,9 +37,12 @@ internal static class RealSpaceKpmSolver
     /// <summary>Bytes per atom (3D motion): the block's indices and tensors per site, six vectors of the recursion, the groups.</summary>
     public static long BytesPerAtom(int springsPerSite) => (8L * springsPerSite) + (3 * 8 * 8) + 72 + 100;
 
+    /// <summary>True when the recursion runs four random vectors at once in 256-bit lanes (AVX2, and no <c>LATSWEEP_SIMD_WIDTH=scalar</c>).</summary>
+    public static bool BlocksByDefault => Vector256.IsHardwareAccelerated && SimdWidths.Active != SimdWidth.Scalar;
+
     public static RealSpaceRun Solve(
         RealSpaceLattice lattice, SiteProperties properties, double[] temperatures, SolveOptions options,
-        KpmSettings settings, int configuration, CancellationToken ct)
+        KpmSettings settings, int configuration, CancellationToken ct, bool? blocked = null)
     {
         var op = new RealSpaceOperator(lattice, properties);
         var n = op.Size;
@@ -103,7 +108,9 @@ internal static class RealSpaceKpmSolver
             // A margin of 1% keeps the operator's spectrum strictly inside [-1, 1] (Weisse et al. 2006).
             scale = (high - low) / (2 - 0.02);
             centre = (high + low) / 2;
-            perVector = Moments(ApplyInRigidFreeSpace, rigid, n, scale, centre, moments, settings, configuration, groups, ct);
+            perVector = blocked ?? BlocksByDefault
+                ? MomentsInBlocks(op, rigid, resisted, scale, centre, moments, settings, configuration, groups, ct)
+                : Moments(ApplyInRigidFreeSpace, rigid, n, scale, centre, moments, settings, configuration, groups, ct);
             if (Bounded(perVector, groups.Count, moments, settings.RandomVectors) || (low <= gershgorin.Lower && high >= gershgorin.Upper))
             {
                 break;
@@ -268,6 +275,93 @@ internal static class RealSpaceKpmSolver
         return result;
     }
 
+    /// <summary>
+    /// The same moments as <see cref="Moments"/>, bit for bit, four random vectors at a time: the block's
+    /// vectors interleaved (element i of vector l at 4 i + l), so the sparse product reads each spring's
+    /// index and tensor once for four vectors and works in 256-bit lanes. Every lane does the same
+    /// operations in the same order as the one-vector recursion; lanes past the last vector hold zeros.
+    /// </summary>
+    private static double[] MomentsInBlocks(
+        RealSpaceOperator op, RigidBodyModes rigid, RigidBodyModes resisted, double scale, double centre, int moments,
+        KpmSettings settings, int configuration, GroupLayout groups, CancellationToken ct)
+    {
+        const int L = RealSpaceOperator.BlockLanes;
+        var n = op.Size;
+        var g = groups.Count;
+        var result = new double[settings.RandomVectors * g * moments];
+        var half = moments / 2;
+        var previous = new double[n * L];
+        var current = new double[n * L];
+        var next = new double[n * L];
+        var dd = new double[g * L];
+        var dn = new double[g * L];
+        var mu0 = new double[g * L];
+        var mu1 = new double[g * L];
+        for (var v0 = 0; v0 < settings.RandomVectors; v0 += L)
+        {
+            ct.ThrowIfCancellationRequested();
+            var lanes = Math.Min(L, settings.RandomVectors - v0);
+            Array.Clear(current);
+            for (var lane = 0; lane < lanes; lane++)
+            {
+                var r = RandomVector(n, settings.Seed, configuration, v0 + lane);
+                rigid.ProjectOutOfVector(r);
+                for (var i = 0; i < n; i++)
+                {
+                    current[(i * L) + lane] = r[i];
+                }
+            }
+
+            // a_1 = X a_0
+            op.ApplyBlock(current, next);
+            resisted.ProjectOutOfBlock(next);
+            for (var i = 0; i < next.Length; i++)
+            {
+                next[i] = (next[i] - (centre * current[i])) / scale;
+            }
+
+            groups.AccumulateBlock(current, next, mu0, mu1);
+            for (var lane = 0; lane < lanes; lane++)
+            {
+                var mu = result.AsSpan((v0 + lane) * g * moments, g * moments);
+                for (var k = 0; k < g; k++)
+                {
+                    mu[k * moments] = mu0[(k * L) + lane];
+                    mu[(k * moments) + 1] = mu1[(k * L) + lane];
+                }
+            }
+
+            var twoOverScale = 2 / scale;
+            for (var step = 1; step < half; step++)
+            {
+                ct.ThrowIfCancellationRequested();
+                (previous, current, next) = (current, next, previous);
+
+                // a_{step+1} = 2 X a_step - a_{step-1}
+                op.ApplyBlock(current, next);
+                resisted.ProjectOutOfBlock(next);
+                for (var i = 0; i < next.Length; i++)
+                {
+                    next[i] = (twoOverScale * (next[i] - (centre * current[i]))) - previous[i];
+                }
+
+                groups.AccumulateBlock(current, next, dd, dn);
+                for (var lane = 0; lane < lanes; lane++)
+                {
+                    var mu = result.AsSpan((v0 + lane) * g * moments, g * moments);
+                    for (var k = 0; k < g; k++)
+                    {
+                        var at = (k * L) + lane;
+                        mu[(k * moments) + (2 * step)] = (2 * dd[at]) - mu0[at];
+                        mu[(k * moments) + (2 * step) + 1] = (2 * dn[at]) - mu1[at];
+                    }
+                }
+            }
+        }
+
+        return result;
+    }
+
     /// <summary>Entries +-1 from SplitMix64 seeded by (seed, configuration, vector): the same numbers on every run.</summary>
     private static double[] RandomVector(int n, long seed, int configuration, int vector)
     {
@@ -379,6 +473,62 @@ internal static class RealSpaceKpmSolver
 
             same[0] = totalSame;
             cross[0] = totalCross;
+        }
+
+        /// <summary><see cref="Accumulate"/> for a block of interleaved vectors: sums[4 g + lane], each lane as the one-vector sums.</summary>
+        public void AccumulateBlock(double[] a, double[] b, double[] same, double[] cross)
+        {
+            const int L = RealSpaceOperator.BlockLanes;
+            Array.Clear(same);
+            Array.Clear(cross);
+            var c = _components;
+            var totalSame = Vector256<double>.Zero;
+            var totalCross = Vector256<double>.Zero;
+            for (var s = 0; s < _basis.Length; s++)
+            {
+                var i = s * c;
+                var mb = _msdBasis[s];
+                var wb = _msdBasisWeight[s];
+                var ml = _msdLayer[s];
+                var wl = _msdLayerWeight[s];
+                var siteSame = Vector256<double>.Zero;
+                var siteCross = Vector256<double>.Zero;
+                for (var k = 0; k < c; k++)
+                {
+                    var ak = Vector256.Create(a.AsSpan((i + k) * L, L));
+                    var p = ak * ak;
+                    var q = Vector256.Create(b.AsSpan((i + k) * L, L)) * ak;
+                    siteSame += p;
+                    siteCross += q;
+                    AddTo(same, mb + k, p * wb);
+                    AddTo(cross, mb + k, q * wb);
+                    if (ml >= 0)
+                    {
+                        AddTo(same, ml + k, p * wl);
+                        AddTo(cross, ml + k, q * wl);
+                    }
+                }
+
+                totalSame += siteSame;
+                totalCross += siteCross;
+                AddTo(same, _basis[s], siteSame);
+                AddTo(cross, _basis[s], siteCross);
+                var l = _layer[s];
+                if (l >= 0)
+                {
+                    AddTo(same, l, siteSame);
+                    AddTo(cross, l, siteCross);
+                }
+            }
+
+            totalSame.CopyTo(same.AsSpan(0, L));
+            totalCross.CopyTo(cross.AsSpan(0, L));
+        }
+
+        private static void AddTo(double[] sums, int group, Vector256<double> value)
+        {
+            var at = sums.AsSpan(group * RealSpaceOperator.BlockLanes, RealSpaceOperator.BlockLanes);
+            (Vector256.Create((ReadOnlySpan<double>)at) + value).CopyTo(at);
         }
     }
 }
