@@ -52,6 +52,44 @@ internal static class PointIdentity
         return System.Buffers.Binary.BinaryPrimitives.ReadUInt64BigEndian(digest);
     }
 
+    [ThreadStatic]
+    private static StringBuilder? _text;
+
+    [ThreadStatic]
+    private static byte[]? _bytes;
+
+    /// <summary>
+    /// <see cref="PointKey(string, IEnumerable{KeyValuePair{string, object}})"/> for parameters whose
+    /// identity names are already in ordinal order (the planner sorts them once per plan), with the
+    /// text and its bytes built in per-thread buffers.
+    /// </summary>
+    public static ulong PointKey(string canonicalSpec, string[] sortedNames, object[] valuesInNameOrder)
+    {
+        var sb = _text ??= new StringBuilder(1024);
+        sb.Clear().Append(canonicalSpec).Append("--\n");
+        for (var i = 0; i < sortedNames.Length; i++)
+        {
+            sb.Append(sortedNames[i]).Append('=').Append(Format(valuesInNameOrder[i])).Append('\n');
+        }
+
+        var chars = sb.Length;
+        var needed = Encoding.UTF8.GetMaxByteCount(chars);
+        if (_bytes is null || _bytes.Length < needed)
+        {
+            _bytes = new byte[Math.Max(needed, 2048)];
+        }
+
+        var n = 0;
+        foreach (var chunk in sb.GetChunks())
+        {
+            n += Encoding.UTF8.GetBytes(chunk.Span, _bytes.AsSpan(n));
+        }
+
+        Span<byte> digest = stackalloc byte[32];
+        SHA256.HashData(_bytes.AsSpan(0, n), digest);
+        return System.Buffers.Binary.BinaryPrimitives.ReadUInt64BigEndian(digest);
+    }
+
     /// <summary>The id text of a <see cref="PointKey"/>: 16 lower-case hex digits.</summary>
     public static string IdText(ulong key) => key.ToString("x16", CultureInfo.InvariantCulture);
 

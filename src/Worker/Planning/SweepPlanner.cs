@@ -167,7 +167,9 @@ internal static class SweepPlanner
 
         var order = ColumnOrder(columns);
         var names = order.Select(j => columns[j].Column).ToArray();
-        var identityNames = names.Select(SweptColumnNames.IdentityName).ToArray();
+        // Ids hash "name=value" lines in ordinal order of the names without the axis_ prefix.
+        var byIdentity = Enumerable.Range(0, names.Length).OrderBy(j => SweptColumnNames.IdentityName(names[j]), StringComparer.Ordinal).ToArray();
+        var identityNames = byIdentity.Select(j => SweptColumnNames.IdentityName(names[j])).ToArray();
         var badCombinations = new List<string>();
         var badCount = 0;
         var interactionProblems = new List<(string Key, string Message)>();
@@ -204,7 +206,13 @@ internal static class SweepPlanner
                     return;
                 }
 
-                blockKeys[i] = PointIdentity.PointKey(CanonicalSpec.Write(spec, options), Identity(identityNames, parameters));
+                var byName = new object[byIdentity.Length];
+                for (var j = 0; j < byIdentity.Length; j++)
+                {
+                    byName[j] = parameters.ValueAt(byIdentity[j]);
+                }
+
+                blockKeys[i] = PointIdentity.PointKey(CanonicalSpec.Write(spec, options), identityNames, byName);
             });
 
             for (var i = 0; i < n; i++)
@@ -281,15 +289,6 @@ internal static class SweepPlanner
 
     /// <summary>A point is left out: from now on the kept points' expansion positions are listed.</summary>
     private static void Skip(ref List<int>? kept, int keptCount) => kept ??= [.. Enumerable.Range(0, keptCount)];
-
-    private static IEnumerable<KeyValuePair<string, object>> Identity(string[] identityNames, PointParameters parameters)
-    {
-        var i = 0;
-        foreach (var value in parameters.Values)
-        {
-            yield return KeyValuePair.Create(identityNames[i++], value);
-        }
-    }
 
     private static List<PlanAxis> ResolveAxes(SweepDeclaration sweep, FieldCatalog catalog, ProblemCollector problems)
     {
