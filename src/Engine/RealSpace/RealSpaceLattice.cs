@@ -27,6 +27,7 @@ internal enum DirectionTreatment
 /// across a Bloch direction it comes back into the same one-cell-thick block with a phase.
 /// Couplings are stored by type (an index into the crystal's couplings), so memory is 8 bytes per
 /// directed spring; masses and spring factors per site come separately (<see cref="SiteProperties"/>).
+/// Bond-bending terms the sample cuts are cancelled by extra types (<see cref="CutBendTerms"/>).
 /// </summary>
 internal sealed class RealSpaceLattice
 {
@@ -318,21 +319,31 @@ internal sealed class RealSpaceLattice
         var rowStart = new int[Sites + 1];
         var neighbours = new List<int>(Sites * Math.Max(1, Types.Length / Math.Max(1, Crystal.Sites)));
         var types = new List<int>(neighbours.Capacity);
+
+        // Bends cut by the sample are cancelled pair by pair (a bend is a whole: see CutBendTerms).
+        var (cutTypes, cutRows) = CutBendTerms.Find(this, Types.Length);
         for (var s = 0; s < Sites; s++)
         {
             rowStart[s] = neighbours.Count;
             var cell = CellOf[s];
             foreach (var t in byBasis[BasisOf[s]])
             {
-                var o = offsets[t];
-                var j = Locate(new IntVec3(cell.N1 + o.N1, cell.N2 + o.N2, cell.N3 + o.N3), Types[t].J);
+                var j = Locate(cell + offsets[t], Types[t].J);
                 if (j >= 0)
                 {
                     neighbours.Add(j);
                     types.Add(t);
                 }
             }
+
+            foreach (var (j, t) in cutRows[s] ?? [])
+            {
+                neighbours.Add(j);
+                types.Add(t);
+            }
         }
+
+        Types = [.. Types, .. cutTypes];
 
         rowStart[Sites] = neighbours.Count;
         RowStart = rowStart;
