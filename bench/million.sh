@@ -59,7 +59,28 @@ for step in "${steps[@]}"; do
         small=$(( n / 1000 ))
         awk -v s=$small '/steps = 1000/ && !done { sub(/steps = 1000/, "steps = " s); done = 1 } { print }' "$job" \
           | sed "s/name = \"bench-million-points\"/name = \"bench-run-$n\"/" > "$results/run-$n.toml"
-        measure "run-$n" "$latsweep" run "$results/run-$n.toml" --store "$results/run-$n.db" --out "$results/run-$n" --workers "$workers"
+        # Peak memory while solving (the high-water mark when the merge's staging folder first appears)
+        # beside the whole run's peak, which includes the merge of the part files at the end.
+        load="$(cut -d' ' -f1 /proc/loadavg)"
+        ( cd "$results" && LATSWEEP_TIMINGS=1 exec /usr/bin/time -v "$latsweep" run "$results/run-$n.toml" --store "$results/run-$n.db" \
+            --out "$results/run-$n" --workers "$workers" > "$results/run-$n.out" 2> "$results/run-$n.time" ) &
+        timer=$!
+        solving_kb=0; child=""
+        while kill -0 "$timer" 2>/dev/null; do
+          [ -z "$child" ] && child="$(cat /proc/$timer/task/$timer/children 2>/dev/null | awk '{print $1}')"
+          if [ -n "$child" ] && ! ls -d "$results/run-$n"/*/.merging >/dev/null 2>&1; then
+            hwm="$(awk '/VmHWM/ {print $2}' /proc/$child/status 2>/dev/null || echo 0)"
+            [ "${hwm:-0}" -gt "$solving_kb" ] && solving_kb="$hwm"
+          fi
+          sleep 0.25
+        done
+        wait "$timer" || echo "run-$n: exit code $?"
+        awk -v l="run-$n" -v load="$load" -v solving="$solving_kb" '
+          /Elapsed \(wall clock\)/ { k = split($NF, t, ":"); w = (k == 3) ? t[1] * 3600 + t[2] * 60 + t[3] : t[1] * 60 + t[2] }
+          /User time/ { u = $NF } /System time/ { s = $NF } /Maximum resident/ { m = $NF / 1024 }
+          END { printf "%-28s %8.2f s wall %7.2f s user %6.2f s sys %7.0f MB peak, %.0f MB peak before the merge  (load %s)\n", l, w, u, s, m, solving / 1024, load }' \
+          "$results/run-$n.time" | tee -a "$results/summary.txt"
+        grep -E "^timings:" "$results/run-$n.time" | sed 's/^/    /' || true
       done ;;
     *) echo "unknown step $step"; exit 2 ;;
   esac

@@ -19,6 +19,13 @@ public sealed record NewSweep
     /// <summary>Every point in plan order; may be computed as it is read (<see cref="ComputedList{T}"/>), so a million points need not be held at once.</summary>
     public required IReadOnlyList<NewPoint> Points { get; init; }
 
+    /// <summary>
+    /// Positions in <see cref="Points"/> in the order to insert them, when the caller has them: by
+    /// point id, so the catalog's primary-key index fills from one end instead of at random places
+    /// (a million random inserts spill the database's page cache over and over). Null: list order.
+    /// </summary>
+    public IReadOnlyList<int>? InsertOrder { get; init; }
+
     /// <summary>Number of distinct chunks among <see cref="Points"/>, when the caller knows it (else counted from the points).</summary>
     public int? ChunkCount { get; init; }
 }

@@ -106,7 +106,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
                 var insert = count == rowsPerStatement ? full ??= InsertPointsCommand(c, tx, count) : InsertPointsCommand(c, tx, count);
                 for (var i = 0; i < count; i++)
                 {
-                    var point = sweep.Points[start + i];
+                    var point = sweep.Points[sweep.InsertOrder is { } order ? order[start + i] : start + i];
                     var p = insert.Parameters;
                     p[(i * 6) + 0].Value = sweep.SweepId;
                     p[(i * 6) + 1].Value = point.PointId;

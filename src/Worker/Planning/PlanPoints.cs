@@ -54,6 +54,28 @@ public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
         ? g[index].Parameters
         : _parameters!(_expansionIndex is { } e ? e[index] : index);
 
+    /// <summary>Every position, ordered by the point's id (ordinal: the same as by key, the ids being fixed-width hex).</summary>
+    public int[] PositionsById()
+    {
+        var positions = new int[Count];
+        for (var i = 0; i < positions.Length; i++)
+        {
+            positions[i] = i;
+        }
+
+        if (_given is { } g)
+        {
+            Array.Sort(positions, (a, b) => string.CompareOrdinal(g[a].PointId, g[b].PointId));
+        }
+        else
+        {
+            var keys = (ulong[])_keys.Clone();
+            Array.Sort(keys, positions);
+        }
+
+        return positions;
+    }
+
     /// <summary>
     /// The point with id <paramref name="pointId"/>: first looked for at <paramref name="indexHint"/>
     /// (its index in the catalog), else searched for.

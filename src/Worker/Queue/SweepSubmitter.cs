@@ -51,7 +51,10 @@ public sealed class SweepSubmitter
         var points = plan.Points;
         using (StageTimings.Measure("submit: estimate and chunk"))
         {
-            chunkStarts = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).ChunkStarts(points.Count, i => _solver.EstimateSeconds(plan, points[i]));
+            // Each estimate binds its point's model: independent, so on every core; chunked in plan order after.
+            var seconds = new double[points.Count];
+            Parallel.For(0, points.Count, i => seconds[i] = _solver.EstimateSeconds(plan, points[i]));
+            chunkStarts = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).ChunkStarts(points.Count, i => seconds[i]);
         }
 
         var sweep = new NewSweep
@@ -70,6 +73,7 @@ public sealed class SweepSubmitter
             Points = new ComputedList<NewPoint>(points.Count, i =>
                 new NewPoint(points.IdAt(i), i, ChunkPlanner.ChunkId(ChunkPlanner.ChunkOf(chunkStarts, i)), points.ParametersAt(i))),
             ChunkCount = chunkStarts.Length,
+            InsertOrder = points.PositionsById(),
         };
         bool registered;
         using (StageTimings.Measure("submit: register"))
