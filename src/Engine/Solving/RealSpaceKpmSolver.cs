@@ -56,10 +56,26 @@ internal static class RealSpaceKpmSolver
             return y;
         });
 
+        // The recursion's vectors start orthogonal to every rigid-body mode. D keeps a vector orthogonal
+        // to each rigid mode it annihilates (D symmetric: <v, D x> = <D v, x> = 0): the translations
+        // always (the acoustic sum rule), the rotations for rotationally invariant springs. Only the
+        // others need projecting out at every step, a pass over all of them (often none).
+        var gershgorin = op.GershgorinBounds();
+        var resisted = rigid.ResistedBy(v =>
+        {
+            var y = new double[n];
+            op.Apply(v, y);
+            return y;
+        }, 1e-10 * Math.Max(Math.Abs(gershgorin.Upper), Math.Abs(gershgorin.Lower)));
+        void ApplyInRigidFreeSpace(double[] x, double[] y)
+        {
+            op.Apply(x, y);
+            resisted.ProjectOutOfVector(y);
+        }
+
         // Spectral range of P D P on the space the random vectors live in. Round-off brings the rigid
         // directions (eigenvalue 0 of P D P) into the Krylov space, where Lanczos would find them as
         // the lowest Ritz value: they are moved to the middle of the spectrum, P D P + s (1 - P).
-        var gershgorin = op.GershgorinBounds();
         var middle = 0.25 * gershgorin.Upper;
         var start = RandomVector(n, settings.Seed, configuration, -1);
         rigid.ProjectOutOfVector(start);
@@ -87,7 +103,7 @@ internal static class RealSpaceKpmSolver
             // A margin of 1% keeps the operator's spectrum strictly inside [-1, 1] (Weisse et al. 2006).
             scale = (high - low) / (2 - 0.02);
             centre = (high + low) / 2;
-            perVector = Moments(ApplyProjected, rigid, n, scale, centre, moments, settings, configuration, groups, ct);
+            perVector = Moments(ApplyInRigidFreeSpace, rigid, n, scale, centre, moments, settings, configuration, groups, ct);
             if (Bounded(perVector, groups.Count, moments, settings.RandomVectors) || (low <= gershgorin.Lower && high >= gershgorin.Upper))
             {
                 break;
@@ -218,8 +234,7 @@ internal static class RealSpaceKpmSolver
                 next[i] = (next[i] - (centre * current[i])) / scale;
             }
 
-            groups.Accumulate(current, current, dd);
-            groups.Accumulate(next, current, dn);
+            groups.Accumulate(current, next, dd, dn);
             var mu0 = dd.ToArray();
             var mu1 = dn.ToArray();
             for (var k = 0; k < g; k++)
@@ -241,8 +256,7 @@ internal static class RealSpaceKpmSolver
                     next[i] = (twoOverScale * (next[i] - (centre * current[i]))) - previous[i];
                 }
 
-                groups.Accumulate(current, current, dd);
-                groups.Accumulate(next, current, dn);
+                groups.Accumulate(current, next, dd, dn);
                 for (var k = 0; k < g; k++)
                 {
                     mu[(k * moments) + (2 * step)] = (2 * dd[k]) - mu0[k];
@@ -315,12 +329,17 @@ internal static class RealSpaceKpmSolver
 
         public int Count { get; }
 
-        /// <summary>sums[g] = sum over the group's degrees of freedom of weight u_i w_i.</summary>
-        public void Accumulate(double[] u, double[] w, double[] sums)
+        /// <summary>
+        /// In one pass over the vectors: same[g] = sum over the group's degrees of freedom of weight a_i a_i,
+        /// and cross[g] of weight b_i a_i (the two products each Chebyshev step needs).
+        /// </summary>
+        public void Accumulate(double[] a, double[] b, double[] same, double[] cross)
         {
-            Array.Clear(sums);
+            Array.Clear(same);
+            Array.Clear(cross);
             var c = _components;
-            var total = 0.0;
+            var totalSame = 0.0;
+            var totalCross = 0.0;
             for (var s = 0; s < _basis.Length; s++)
             {
                 var i = s * c;
@@ -328,28 +347,38 @@ internal static class RealSpaceKpmSolver
                 var wb = _msdBasisWeight[s];
                 var ml = _msdLayer[s];
                 var wl = _msdLayerWeight[s];
-                var site = 0.0;
-                for (var a = 0; a < c; a++)
+                var siteSame = 0.0;
+                var siteCross = 0.0;
+                for (var k = 0; k < c; k++)
                 {
-                    var p = u[i + a] * w[i + a];
-                    site += p;
-                    sums[mb + a] += p * wb;
+                    var ak = a[i + k];
+                    var p = ak * ak;
+                    var q = b[i + k] * ak;
+                    siteSame += p;
+                    siteCross += q;
+                    same[mb + k] += p * wb;
+                    cross[mb + k] += q * wb;
                     if (ml >= 0)
                     {
-                        sums[ml + a] += p * wl;
+                        same[ml + k] += p * wl;
+                        cross[ml + k] += q * wl;
                     }
                 }
 
-                total += site;
-                sums[_basis[s]] += site;
+                totalSame += siteSame;
+                totalCross += siteCross;
+                same[_basis[s]] += siteSame;
+                cross[_basis[s]] += siteCross;
                 var l = _layer[s];
                 if (l >= 0)
                 {
-                    sums[l] += site;
+                    same[l] += siteSame;
+                    cross[l] += siteCross;
                 }
             }
 
-            sums[0] = total;
+            same[0] = totalSame;
+            cross[0] = totalCross;
         }
     }
 }

@@ -22,7 +22,7 @@ public sealed class BendingAtSurfacesTests
     private const double Stretch = 50;
     private const double Bend = 5;
 
-    public static TheoryData<string> CutSamples => ["free box", "sphere", "wire", "film"];
+    public static TheoryData<string> CutSamples => ["free box", "sphere", "wire", "film", "periodic box with substitutes", "sphere with substitutes"];
 
     [Theory]
     [MemberData(nameof(CutSamples))]
@@ -67,6 +67,42 @@ public sealed class BendingAtSurfacesTests
         Assert.Equal(0.0, result.Surface!.RotationDefectThz);
     }
 
+    [Theory]
+    [InlineData(4.0)]
+    [InlineData(0.25)]
+    public void Substitutes_with_their_own_spring_factor_scale_each_bend_as_a_whole_so_a_cluster_stays_stable_and_rotation_free(double factor)
+    {
+        // Scaling a bend's three pair blocks by three different pair factors would break it (imaginary
+        // modes, rotations that cost energy); scaled as a whole it stays a positive, rotation-invariant term.
+        var model = BondedCrystals.Tetrahedral(Stretch, Bend);
+        var sample = RealSpaceSample.Box(3, 3, 3, Boundary.Free, Boundary.Free, Boundary.Free) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", 28.0, 0.5, factor)], 2, Seed: 3),
+        };
+        var result = PhononSolver.Solve(model, sample, Options);
+        Assert.True(result.Summary.Stable);
+        Assert.Equal(6, result.Summary.ZeroModesExcluded);
+        Assert.Equal(0.0, result.Surface!.RotationDefectThz);
+        Assert.True(result.Ordered!.Summary.Stable); // the virtual crystal, whose basis sites have different mean factors
+    }
+
+    [Fact]
+    public void Every_atom_substituted_with_a_spring_factor_is_the_crystal_with_every_spring_and_bend_times_that_factor()
+    {
+        // c = 1 on both sites: every spring and every bend x f exactly (the closed-form limit).
+        var model = BondedCrystals.Tetrahedral(Stretch, Bend);
+        var expected = PhononSolver.Solve(BondedCrystals.Tetrahedral(2.5 * Stretch, 2.5 * Bend), FiniteSample.Create(3, 3, 3), Options);
+        var sample = RealSpaceSample.Box(3, 3, 3) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", 28.0, 1.0, 2.5), new SiteSubstitution("B", 28.0, 1.0, 2.5)], 1, Seed: 3),
+        };
+        var disordered = PhononSolver.Solve(model, sample, Options);
+        for (var t = 0; t < expected.Thermal.Length; t++)
+        {
+            Approx.Equal(expected.Thermal[t].HeatCapacityJPerMolK, disordered.Thermal[t].HeatCapacityJPerMolK, 1e-9, $"Cv at {expected.Thermal[t].TemperatureK} K");
+        }
+    }
+
     [Fact]
     public void A_film_solved_with_exact_in_plane_wave_vectors_matches_the_wrapped_supercell()
     {
@@ -102,8 +138,13 @@ public sealed class BendingAtSurfacesTests
         "free box" => RealSpaceSample.Box(2, 2, 2, Boundary.Free, Boundary.Free, Boundary.Free),
         "sphere" => RealSpaceSample.Sphere(0.6),
         "wire" => RealSpaceSample.Cylinder(0.45, axis: 2, cells: 3, Boundary.Periodic),
-        _ => RealSpaceSample.Box(3, 3, 2, Boundary.Periodic, Boundary.Periodic, Boundary.Free) with { Disorder = new Disorder([new SiteSubstitution("A", 28.0, 0.0)], 1, Seed: 1) },
+        "film" => RealSpaceSample.Box(3, 3, 2, Boundary.Periodic, Boundary.Periodic, Boundary.Free) with { Disorder = new Disorder([new SiteSubstitution("A", 28.0, 0.0)], 1, Seed: 1) },
+        "periodic box with substitutes" => RealSpaceSample.Box(3, 3, 3) with { Disorder = Substitutes },
+        _ => RealSpaceSample.Sphere(0.6) with { Disorder = Substitutes },
     };
+
+    /// <summary>Half the A sites stiffer (x 4) and some B sites softer (x 0.3): bends then span atoms of different factors.</summary>
+    private static Disorder Substitutes => new([new SiteSubstitution("A", 28.0, 0.5, 4.0), new SiteSubstitution("B", 28.0, 0.3, 0.3)], 2, Seed: 7);
 
     private static CrystalModel TetrahedralWith(BendForm form) => CrystalModel.Create(
         Lattice.FaceCentredCubic(BondedCrystals.DiamondConstantNm),
@@ -132,7 +173,8 @@ public sealed class BendingAtSurfacesTests
     {
         var crystal = CompiledCrystal.From(model);
         var block = RealSpaceLattice.Build(crystal, sample, bloch: false);
-        var properties = SiteProperties.Ordered(block);
+        var properties = sample.Disorder is { } disorder ? SiteProperties.Random(block, disorder, 0) : SiteProperties.Ordered(block);
+        var g = properties.SpringScale;
         var op = new RealSpaceOperator(block, properties);
         var n = op.Size;
         var d = new double[n * n];
@@ -163,7 +205,7 @@ public sealed class BendingAtSurfacesTests
             foreach (var (j, r) in neighbours[i])
             {
                 var stretch = (IReadOnlyList<Vec3> u) => 0.5 * Stretch * Math.Pow((r + u[1] - u[0]).Length - nearest, 2);
-                AddHessian(expected, n, [i, j], stretch, 0.5); // each pair is met from both ends
+                AddHessian(expected, n, [i, j], stretch, 0.5 * g[i] * g[j]); // each pair is met from both ends; sqrt(f_i f_j)
             }
 
             var list = neighbours[i];
@@ -174,7 +216,7 @@ public sealed class BendingAtSurfacesTests
                     var (j, rj) = list[p];
                     var (k, rk) = list[q];
                     var bend = (IReadOnlyList<Vec3> u) => bendEnergy(rj + u[1] - u[0], rk + u[2] - u[0], rj, rk);
-                    AddHessian(expected, n, [i, j, k], bend, 1.0);
+                    AddHessian(expected, n, [i, j, k], bend, Math.Cbrt(Math.Pow(g[i] * g[j] * g[k], 2))); // (f_i f_j f_k)^(1/3)
                 }
             }
         }
