@@ -5,7 +5,8 @@
 # grow with the number of points). Each command runs as a user runs it, in its own process, under
 # /usr/bin/time -v (wall, user + system CPU, peak RSS); `LATSWEEP_TIMINGS=1` adds the stages.
 # Usage: bench/million.sh [check submit status dashboard run]   (default: all; run takes minutes)
-# Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2).
+# Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2),
+# POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: none), DASHBOARD_DLL (the dashboard build to time).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$(dirname "$here")"
@@ -43,13 +44,27 @@ for step in "${steps[@]}"; do
       measure status-list "$latsweep" status --store "$store"
       measure status-1e6 "$latsweep" status bench-million-points --store "$store" ;;
     dashboard)
-      # The sweep page and its JSON for the sweep just submitted (its catalog side: no results yet).
+      # The sweep page and its JSON for the sweep just submitted, with a points/ table of 10^6 rows
+      # (POINTS_ROWS): a real points/ file from `latsweep run` of 1,000 of its points (one value of
+      # the second axis) is the template, tiled by bench/points-table/points-table.cs into one file
+      # sorted by point_id with the template's schema and units (the catalog still says queued).
+      # DASHBOARD_DLL runs another build of the dashboard (a before figure) on the same data.
+      id="$(ls "$out" | head -1)"
+      if [ "${POINTS_ROWS:-1000000}" -gt 0 ]; then
+        awk '/steps = 1000/ && !done { sub(/steps = 1000/, "steps = 1"); done = 1 } { print }' "$job" \
+          | sed 's/name = "bench-million-points"/name = "bench-points-template"/' > "$results/template.toml"
+        ( cd "$results" && "$latsweep" run "$results/template.toml" --store "$results/template.db" --out "$results/template" --workers "$workers" > "$results/template.out" 2>&1 )
+        mkdir -p "$out/$id/points"
+        ( cd "$here/points-table" && dotnet run points-table.cs "$(ls "$results"/template/*/points/*.parquet | head -1)" \
+            "$out/$id/points/merged-00000.parquet" "${POINTS_ROWS:-1000000}" ) | tee -a "$results/summary.txt"
+      fi
       port=$((20000 + RANDOM % 20000))
-      dotnet "$root/src/Dashboard/bin/Release/net10.0/Dashboard.dll" --store "$store" --out "$out" --port "$port" > "$results/dashboard.log" 2>&1 &
+      dotnet "${DASHBOARD_DLL:-$root/src/Dashboard/bin/Release/net10.0/Dashboard.dll}" --store "$store" --out "$out" --port "$port" > "$results/dashboard.log" 2>&1 &
       pid=$!
       for _ in $(seq 1 120); do curl -s -o /dev/null "http://127.0.0.1:$port/" && break; sleep 0.5; done
-      id="$(ls "$out" | head -1)"
-      for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots"; do
+      echo "dashboard $(cut -d' ' -f1 /proc/loadavg) load average" | tee -a "$results/summary.txt"
+      for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
+          "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000"; do
         curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}\n" "http://127.0.0.1:$port/$page" | tee -a "$results/summary.txt"
       done
       echo "dashboard peak RSS $(awk '/VmHWM/ { print int($2 / 1024) " MB" }' /proc/$pid/status)" | tee -a "$results/summary.txt"

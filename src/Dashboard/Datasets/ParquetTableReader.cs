@@ -116,10 +116,10 @@ internal static class ParquetTableReader
         return new ResultTable(Columns(reader, fields), [.. rows.Select(r => r.ToImmutableArray())]);
     }
 
-    private static FileStream Open(string file) =>
+    internal static FileStream Open(string file) =>
         new(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16, useAsync: true);
 
-    private static ImmutableArray<ResultColumn> Columns(ParquetReader reader, DataField[] fields)
+    internal static ImmutableArray<ResultColumn> Columns(ParquetReader reader, DataField[] fields)
     {
         var units = Units(reader.CustomMetadata);
         return [.. fields.Select(f => new ResultColumn(f.Name, IsText(f) ? typeof(string) : f.ClrType, units.GetValueOrDefault(f.Name, "")))];
@@ -191,7 +191,7 @@ internal static class ParquetTableReader
     }
 
     /// <summary>Parquet.Net 6 reports UTF-8 columns as <see cref="ReadOnlyMemory{T}"/> of char; they read as strings.</summary>
-    private static bool IsText(DataField field) => field.ClrType == typeof(string) || field.ClrType == typeof(ReadOnlyMemory<char>);
+    internal static bool IsText(DataField field) => field.ClrType == typeof(string) || field.ClrType == typeof(ReadOnlyMemory<char>);
 
     private static async Task<object?[]> ReadNullableAsync<T>(ParquetRowGroupReader group, DataField field, int count, CancellationToken ct)
         where T : struct

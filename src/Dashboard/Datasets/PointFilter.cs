@@ -164,27 +164,28 @@ public sealed record PointFilter
             return points;
         }
 
-        var flags = new PointFlags(points);
-        var ranges = Ranges.Select(r => (Index: points.IndexOf(r.Column), r.Min, r.Max)).ToList();
-        var sets = Values.Select(v => (Index: points.IndexOf(v.Column), Set: v.Values.ToHashSet(StringComparer.Ordinal))).ToList();
-        bool Keep(ImmutableArray<object?> row)
+        // Column by column over positions: only the columns the filter names are read.
+        var flags = new ColumnFlags(points);
+        var ranges = Ranges.Select(r => (Cells: points.IndexOf(r.Column) is var i and >= 0 ? points.Cells(i) : (ColumnView?)null, r.Min, r.Max)).ToList();
+        var sets = Values.Select(v => (Cells: points.IndexOf(v.Column) is var i and >= 0 ? points.Cells(i) : (ColumnView?)null, Set: v.Values.ToHashSet(StringComparer.Ordinal))).ToList();
+        bool Keep(int row)
         {
             if ((StableOnly && !flags.IsStable(row)) || (DoneOnly && (!flags.IsDone(row) || flags.IsUnstable(row))) || (NotFloppy && flags.IsFloppy(row)))
             {
                 return false;
             }
 
-            foreach (var (index, min, max) in ranges)
+            foreach (var (cells, min, max) in ranges)
             {
-                if (index < 0 || ResultTable.ToDouble(row[index]) is not { } v || !double.IsFinite(v) || v < min || v > max)
+                if (cells is not { } c || c.Number(row) is not { } v || !double.IsFinite(v) || v < min || v > max)
                 {
                     return false;
                 }
             }
 
-            foreach (var (index, set) in sets)
+            foreach (var (cells, set) in sets)
             {
-                if (index < 0 || row[index] is null || !set.Contains(Show.Raw(row[index])))
+                if (cells is not { } c || c.Cell(row) is not { } value || !set.Contains(Show.Raw(value)))
                 {
                     return false;
                 }
@@ -193,7 +194,7 @@ public sealed record PointFilter
             return true;
         }
 
-        return points with { Rows = [.. points.Rows.Where(Keep)] };
+        return points.Where(Keep);
     }
 
     /// <summary>In words, for the page: "stable only · Highest frequency from 2 to 8 THz · candidates.name: a or b". A range keeps only numbers (not an empty or undefined cell).</summary>

@@ -41,6 +41,34 @@ internal sealed class PointFlags
     public bool IsFloppy(ImmutableArray<object?> row) => _floppy >= 0 && row[_floppy] is true;
 }
 
+/// <summary>The marks of <see cref="PointFlags"/> read by position from a table's columns (no row boxed).</summary>
+internal sealed class ColumnFlags
+{
+    private readonly ColumnView? _state;
+    private readonly ColumnView? _stable;
+    private readonly ColumnView? _floppy;
+
+    public ColumnFlags(ResultTable table)
+    {
+        ArgumentNullException.ThrowIfNull(table);
+        _state = table.IndexOf(PointFlags.StateColumn) is var s and >= 0 ? table.Cells(s) : null;
+        _stable = table.IndexOf(PointFlags.StableColumn) is var t and >= 0 ? table.Cells(t) : null;
+        _floppy = table.IndexOf(PointFlags.FloppyColumn) is var f and >= 0 ? table.Cells(f) : null;
+    }
+
+    public bool KnowsFloppy => _floppy is not null;
+
+    public string? State(int row) => _state?.Text(row);
+
+    public bool IsDone(int row) => State(row) == PointFlags.Done;
+
+    public bool IsUnstable(int row) => State(row) == PointFlags.Unstable || (_stable?.IsFalse(row) ?? false);
+
+    public bool IsStable(int row) => !IsUnstable(row) && (_stable?.IsTrue(row) ?? false);
+
+    public bool IsFloppy(int row) => _floppy?.IsTrue(row) ?? false;
+}
+
 /// <summary>How many points of a sweep's points/ table are stable, unstable and floppy.</summary>
 public sealed record StabilityCounts(long Rows, long Done, long Failed, long Unstable, long Floppy, bool KnowsFloppy)
 {
@@ -48,13 +76,21 @@ public sealed record StabilityCounts(long Rows, long Done, long Failed, long Uns
 
     internal static StabilityCounts Of(ResultTable points)
     {
-        var flags = new PointFlags(points);
-        return new StabilityCounts(
-            points.Rows.Length,
-            points.Rows.LongCount(r => flags.IsDone(r) && !flags.IsUnstable(r)),
-            points.Rows.LongCount(r => flags.State(r) == "failed"),
-            points.Rows.LongCount(flags.IsUnstable),
-            points.Rows.LongCount(flags.IsFloppy),
-            flags.KnowsFloppy);
+        ArgumentNullException.ThrowIfNull(points);
+        return TableFacts.Of(points, "stability counts", points =>
+        {
+            var flags = new ColumnFlags(points);
+            long done = 0, failed = 0, unstable = 0, floppy = 0;
+            for (var r = 0; r < points.Count; r++)
+            {
+                var isUnstable = flags.IsUnstable(r);
+                done += flags.IsDone(r) && !isUnstable ? 1 : 0;
+                failed += flags.State(r) == "failed" ? 1 : 0;
+                unstable += isUnstable ? 1 : 0;
+                floppy += flags.IsFloppy(r) ? 1 : 0;
+            }
+
+            return new StabilityCounts(points.Count, done, failed, unstable, floppy, flags.KnowsFloppy);
+        });
     }
 }

@@ -39,7 +39,7 @@ internal static class PointsExport
         ArgumentNullException.ThrowIfNull(names);
         var defs = rows.Columns.Select(c => new ColumnDef(c.Name, TypeOf(c), names.RawUnit(c), names.Label(c.Name))).ToList();
         // Column by column into the Worker's typed arrays (a NaN from an old dataset written as empty).
-        var values = defs.Select((d, c) => ColumnValues.As(d, rows.Rows.Select(r => r[c] is double.NaN ? null : r[c]).ToArray())).ToList();
+        var values = defs.Select((d, c) => ColumnValues.As(d, Enumerable.Range(0, rows.Count).Select(r => rows.Cell(r, c) is var v && v is double.NaN ? null : v).ToArray())).ToList();
         using var stream = new MemoryStream();
         await ParquetPartWriter.WriteParquetAsync(stream, new TableRows(TableNames.Points, defs, rows.Rows.Length, values), metadata, ct).ConfigureAwait(false);
         return stream.ToArray();

@@ -21,8 +21,8 @@ internal sealed class ResultStore
 {
     private const string IdColumn = "point_id";
 
-    private readonly ConcurrentDictionary<string, (FileStamp Stamp, ResultTable Table)> _files = new(StringComparer.Ordinal);
-    private readonly ConcurrentDictionary<string, (ImmutableArray<FileStamp> Stamps, ResultTable Table)> _points = new(StringComparer.Ordinal);
+    private readonly ConcurrentDictionary<string, (FileStamp Stamp, ParquetColumnFile File)> _files = new(StringComparer.Ordinal);
+    private readonly ConcurrentDictionary<string, (ImmutableArray<FileStamp> Stamps, ImmutableArray<ParquetColumnFile> Files, ResultTable Table)> _points = new(StringComparer.Ordinal);
     private readonly ConcurrentDictionary<string, (FileStamp Stamp, IReadOnlySet<string> Ids)> _ids = new(StringComparer.Ordinal);
 
     public ResultStore(OutputRoot root)
@@ -39,7 +39,12 @@ internal sealed class ResultStore
         return Root.Contain(sweep.OutputFolder) is { } folder && Directory.Exists(folder) ? folder : null;
     }
 
-    /// <summary>Every row of the sweep's <c>points/</c> table, one per point (empty when there is none yet).</summary>
+    /// <summary>
+    /// Every row of the sweep's <c>points/</c> table, one per point (empty when there is none yet),
+    /// as a table whose columns are read from the files when a view first needs them. Each file is
+    /// kept (its footer, then each column read) until its length or write time changes, so a new
+    /// part costs the reading of that part only and a second load of an unchanged table reads nothing.
+    /// </summary>
     public async Task<ResultTable> PointsAsync(SweepRecord sweep, CancellationToken ct)
     {
         if (TableFolder(sweep, TableNames.Points) is not { } table)
@@ -49,18 +54,18 @@ internal sealed class ResultStore
 
         // Newest file first, so that the first row seen of a point is its newest.
         var stamps = Files(table).Select(FileStamp.Of).OrderByDescending(s => s.WrittenUtc).ThenBy(s => s.Path, StringComparer.Ordinal).ToImmutableArray();
-        if (_points.TryGetValue(table, out var hit) && hit.Stamps.SequenceEqual(stamps))
+        if (_points.TryGetValue(table, out var hit) && hit.Stamps.SequenceEqual(stamps) && !hit.Files.Any(f => f.Stale))
         {
             return hit.Table;
         }
 
-        var parts = new List<ResultTable>();
+        var files = new List<ParquetColumnFile>();
         var complete = true;
         foreach (var stamp in stamps)
         {
             try
             {
-                parts.Add(await ReadCachedAsync(stamp, ct).ConfigureAwait(false));
+                files.Add(await OpenCachedAsync(stamp, ct).ConfigureAwait(false));
             }
             catch (Exception ex) when (Vanished(ex))
             {
@@ -69,13 +74,10 @@ internal sealed class ResultStore
             }
         }
 
-        var all = ResultTableConcat.Of(parts);
-        var id = all.IndexOf(IdColumn);
-        var seen = new HashSet<string>(StringComparer.Ordinal);
-        var rows = id < 0 ? all : all with { Rows = [.. all.Rows.Where(r => r[id] is not string s || seen.Add(s))] };
+        var rows = ColumnDataset.Of(files, IdColumn);
         if (complete)
         {
-            _points[table] = (stamps, rows);
+            _points[table] = (stamps, [.. files], rows);
         }
 
         return rows;
@@ -147,16 +149,16 @@ internal sealed class ResultStore
     private IEnumerable<string> Files(string tableFolder) =>
         ParquetTableReader.PartFiles(tableFolder).Select(Root.Contain).OfType<string>();
 
-    private async Task<ResultTable> ReadCachedAsync(FileStamp stamp, CancellationToken ct)
+    private async Task<ParquetColumnFile> OpenCachedAsync(FileStamp stamp, CancellationToken ct)
     {
-        if (_files.TryGetValue(stamp.Path, out var hit) && hit.Stamp == stamp)
+        if (_files.TryGetValue(stamp.Path, out var hit) && hit.Stamp == stamp && !hit.File.Stale)
         {
-            return hit.Table;
+            return hit.File;
         }
 
-        var table = await ParquetTableReader.ReadFileAsync(stamp.Path, ct).ConfigureAwait(false);
-        _files[stamp.Path] = (stamp, table);
-        return table;
+        var file = await ParquetColumnFile.OpenAsync(stamp.Path, ct).ConfigureAwait(false);
+        _files[stamp.Path] = (stamp, file);
+        return file;
     }
 
     private async Task<IReadOnlySet<string>> IdsAsync(FileStamp stamp, CancellationToken ct)

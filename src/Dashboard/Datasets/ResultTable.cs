@@ -1,3 +1,4 @@
+using System.Collections;
 using System.Collections.Immutable;
 
 namespace LatticeSweep.Dashboard.Datasets;
@@ -8,10 +9,55 @@ public sealed record ResultColumn(string Name, Type ClrType, string Unit)
     public bool IsNumeric => ClrType == typeof(double) || ClrType == typeof(int) || ClrType == typeof(long) || ClrType == typeof(float);
 }
 
-/// <summary>Rows of a result table (one or more part files); a value is null where a file has no such column or the cell is empty.</summary>
-public sealed record ResultTable(ImmutableArray<ResultColumn> Columns, ImmutableArray<ImmutableArray<object?>> Rows)
+/// <summary>
+/// Rows of a result table (one or more part files); a value is null where a file has no such
+/// column or the cell is empty. Kept by column (<see cref="CellColumn"/>: typed arrays, a
+/// column of a Parquet dataset read from its files only when first asked for) with the rows in
+/// view as indexes into them, so a filter or a sort makes a new view without copying cells and a
+/// page boxes only its own rows (<see cref="Rows"/> boxes a row each time it is read).
+/// </summary>
+public sealed class ResultTable
 {
+    private readonly Lazy<CellColumn>[] _cells;
+    private readonly int[]? _rows;
+    private readonly int _count;
+    private readonly Func<int, bool?>? _filled;
+
+    /// <summary>A table of boxed rows (small tables: one point's rows, tests).</summary>
+    public ResultTable(ImmutableArray<ResultColumn> columns, ImmutableArray<ImmutableArray<object?>> rows)
+        : this(columns, rows.Length, c => new BoxedCells([.. rows.Select(r => c < r.Length ? r[c] : null)]))
+    {
+    }
+
+    /// <summary>
+    /// A table of <paramref name="count"/> rows whose column c is <paramref name="load"/>(c), called
+    /// once, when first needed; <paramref name="filled"/>(c), when not null, says without reading
+    /// whether the column has a value in some row (from the files' statistics).
+    /// </summary>
+    internal ResultTable(ImmutableArray<ResultColumn> columns, int count, Func<int, CellColumn> load, Func<int, bool?>? filled = null)
+    {
+        Columns = columns;
+        _count = count;
+        _filled = filled;
+        _cells = [.. columns.Select((_, c) => new Lazy<CellColumn>(() => load(c), LazyThreadSafetyMode.ExecutionAndPublication))];
+    }
+
+    private ResultTable(ResultTable source, int[] rows)
+    {
+        Columns = source.Columns;
+        _cells = source._cells;
+        _rows = rows;
+        _count = rows.Length;
+    }
+
     public static ResultTable Empty { get; } = new([], []);
+
+    public ImmutableArray<ResultColumn> Columns { get; }
+
+    /// <summary>The rows in view, each boxed when read (a whole table's worth is slow: prefer <see cref="Cells"/>).</summary>
+    public RowList Rows => new(this);
+
+    public int Count => _count;
 
     public int IndexOf(string column)
     {
@@ -30,18 +76,85 @@ public sealed record ResultTable(ImmutableArray<ResultColumn> Columns, Immutable
 
     public ResultColumn? Column(string name) => IndexOf(name) is var i and >= 0 ? Columns[i] : null;
 
+    /// <summary>Column <paramref name="column"/> over the rows in view.</summary>
+    internal ColumnView Cells(int column) => new(_cells[column].Value, _rows);
+
+    /// <summary>The named column over the rows in view; every cell empty when the table has no such column.</summary>
+    internal ColumnView Cells(string column) => IndexOf(column) is var i and >= 0 ? Cells(i) : new(new EmptyCells(_count), null);
+
+    /// <summary>True when the column has a value in some row in view (known from statistics where the view is the whole table).</summary>
+    internal bool HasAnyValue(int column)
+    {
+        if (_rows is null && _filled?.Invoke(column) is { } known)
+        {
+            return known;
+        }
+
+        var cells = Cells(column);
+        for (var r = 0; r < _count; r++)
+        {
+            if (cells.HasValue(r))
+            {
+                return true;
+            }
+        }
+
+        return false;
+    }
+
+    /// <summary>The cell of row <paramref name="row"/> (in view) and column <paramref name="column"/>, boxed.</summary>
+    public object? Cell(int row, int column) => _cells[column].Value.Cell(_rows is null ? row : _rows[row]);
+
+    /// <summary>The rows in view at <paramref name="rows"/> (positions in this view), in that order.</summary>
+    internal ResultTable Select(IReadOnlyList<int> rows)
+    {
+        var picked = new int[rows.Count];
+        for (var i = 0; i < picked.Length; i++)
+        {
+            picked[i] = _rows is null ? rows[i] : _rows[rows[i]];
+        }
+
+        return new ResultTable(this, picked);
+    }
+
+    /// <summary>The rows in view for which <paramref name="keep"/> of their position is true.</summary>
+    internal ResultTable Where(Func<int, bool> keep)
+    {
+        var kept = new List<int>();
+        for (var i = 0; i < _count; i++)
+        {
+            if (keep(i))
+            {
+                kept.Add(i);
+            }
+        }
+
+        return kept.Count == _count ? this : Select(kept);
+    }
+
     /// <summary>The rows whose <paramref name="column"/> equals <paramref name="value"/>.</summary>
     public ResultTable Where(string column, string value)
     {
         var i = IndexOf(column);
-        return i < 0 ? this with { Rows = [] } : this with { Rows = [.. Rows.Where(r => r[i] is string s && s == value)] };
+        if (i < 0)
+        {
+            return Select([]);
+        }
+
+        return Select(TableFacts.Of(this, "positions\n" + column, t => Positions(t, i)).GetValueOrDefault(value, []));
     }
 
     /// <summary>The values of a numeric column as doubles (null where empty).</summary>
     public IEnumerable<double?> Numbers(string column)
     {
         var i = IndexOf(column);
-        return i < 0 ? Rows.Select(_ => (double?)null) : Rows.Select(r => ToDouble(r[i]));
+        if (i < 0)
+        {
+            return Enumerable.Repeat((double?)null, _count);
+        }
+
+        var cells = Cells(i);
+        return Enumerable.Range(0, _count).Select(cells.Number);
     }
 
     public static double? ToDouble(object? value) => value switch
@@ -52,4 +165,79 @@ public sealed record ResultTable(ImmutableArray<ResultColumn> Columns, Immutable
         long n => n,
         _ => null,
     };
+
+    private static Dictionary<string, int[]> Positions(ResultTable t, int column)
+    {
+        var cells = t.Cells(column);
+        var at = new Dictionary<string, List<int>>(StringComparer.Ordinal);
+        for (var r = 0; r < t.Count; r++)
+        {
+            if (cells.Text(r) is { } s)
+            {
+                if (!at.TryGetValue(s, out var list))
+                {
+                    at[s] = list = [];
+                }
+
+                list.Add(r);
+            }
+        }
+
+        return at.ToDictionary(kv => kv.Key, kv => kv.Value.ToArray(), StringComparer.Ordinal);
+    }
+
+    /// <summary>The rows of a table, each boxed when read.</summary>
+    public readonly struct RowList(ResultTable table) : IReadOnlyList<ImmutableArray<object?>>
+    {
+        public int Length => table._count;
+
+        int IReadOnlyCollection<ImmutableArray<object?>>.Count => table._count;
+
+        public ImmutableArray<object?> this[int index]
+        {
+            get
+            {
+                ArgumentOutOfRangeException.ThrowIfNegative(index);
+                ArgumentOutOfRangeException.ThrowIfGreaterThanOrEqual(index, table._count);
+                var row = new object?[table.Columns.Length];
+                var at = table._rows is null ? index : table._rows[index];
+                for (var c = 0; c < row.Length; c++)
+                {
+                    row[c] = table._cells[c].Value.Cell(at);
+                }
+
+                return ImmutableArray.Create(row);
+            }
+        }
+
+        public IEnumerator<ImmutableArray<object?>> GetEnumerator()
+        {
+            for (var i = 0; i < table._count; i++)
+            {
+                yield return this[i];
+            }
+        }
+
+        IEnumerator IEnumerable.GetEnumerator() => GetEnumerator();
+    }
+}
+
+/// <summary>One column of a table over its rows in view: position i is the i-th row in view.</summary>
+internal readonly struct ColumnView(CellColumn cells, int[]? rows)
+{
+    public object? Cell(int row) => cells.Cell(At(row));
+
+    public bool HasValue(int row) => cells.HasValue(At(row));
+
+    public double? Number(int row) => cells.Number(At(row));
+
+    public string? Text(int row) => cells.Text(At(row));
+
+    public CellKey Key(int row) => cells.Key(At(row));
+
+    public bool IsTrue(int row) => cells.IsTrue(At(row));
+
+    public bool IsFalse(int row) => cells.IsFalse(At(row));
+
+    private int At(int row) => rows is null ? row : rows[row];
 }

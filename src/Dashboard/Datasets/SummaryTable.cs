@@ -67,31 +67,31 @@ public sealed record SummaryTable(
             .Distinct(StringComparer.Ordinal)
             .ToList();
         var view = shown.Select(n => View(all.Column(n)!, names)).ToImmutableArray();
-        var flags = new PointFlags(filtered);
-        var indexes = shown.Select(filtered.IndexOf).ToArray();
-        var idIndex = filtered.IndexOf("point_id");
-        var ordered = Ordered(filtered, sort, query.Descending);
+        var flags = new ColumnFlags(filtered);
+        var cells = shown.Select(n => filtered.IndexOf(n) is var i and >= 0 ? filtered.Cells(i) : (ColumnView?)null).ToArray();
+        var ids = filtered.IndexOf("point_id") is var id and >= 0 ? filtered.Cells(id) : (ColumnView?)null;
+        var order = Order(filtered, sort, query.Descending);
         var offset = Math.Max(0, query.Offset);
         var limit = Math.Clamp(query.Limit, 1, SummaryQuery.MaxLimit);
-        var rows = ordered.Skip(offset).Take(limit)
-            .Select(r => new SummaryRow(idIndex >= 0 ? r[idIndex] as string ?? "" : "", [.. indexes.Select(i => i < 0 ? null : r[i])], flags.IsUnstable(r), flags.IsFloppy(r)))
+        // Only the page's rows are boxed.
+        var rows = order.Skip(offset).Take(limit)
+            .Select(r => new SummaryRow(ids?.Text(r) ?? "", [.. cells.Select(c => c?.Cell(r))], flags.IsUnstable(r), flags.IsFloppy(r)))
             .ToImmutableArray();
         var sortChoices = all.Columns.Where(c => (c.IsNumeric && filled.Contains(c.Name)) || c.Name == PointFlags.StateColumn).Select(c => View(c, names)).ToImmutableArray();
         var columnChoices = all.Columns.Where(c => c.Name != "point_id" && filled.Contains(c.Name)).Select(c => View(c, names)).ToImmutableArray();
-        return new SummaryTable(view, rows, filtered.Rows.Length, all.Rows.Length, sort, query.Descending, offset, limit, sortChoices, columnChoices, [.. defaults]);
+        return new SummaryTable(view, rows, filtered.Count, all.Count, sort, query.Descending, offset, limit, sortChoices, columnChoices, [.. defaults]);
     }
 
     /// <summary>The rows sorted by one column; empty cells last whichever the direction; ties (and an unknown column) in plan order.</summary>
-    internal static IEnumerable<ImmutableArray<object?>> Ordered(ResultTable t, string? sort, bool descending)
-    {
-        var planIndex = t.IndexOf(DefaultSort);
-        var inPlanOrder = planIndex < 0 ? t.Rows : [.. t.Rows.OrderBy(r => ResultTable.ToDouble(r[planIndex]) ?? double.MaxValue)];
-        return Order(inPlanOrder, sort is null ? -1 : t.IndexOf(sort), descending);
-    }
+    internal static ResultTable Ordered(ResultTable t, string? sort, bool descending) => t.Select(Order(t, sort, descending));
+
+    /// <summary>The positions of <see cref="Ordered"/> (kept with a table that lives on, such as the whole points/ table).</summary>
+    internal static int[] Order(ResultTable t, string? sort, bool descending) =>
+        TableFacts.Of(t, $"order\n{sort}\n{descending}", t => SortedPositions(t, sort is null ? -1 : t.IndexOf(sort), descending));
 
     /// <summary>Columns with at least one value.</summary>
     internal static IReadOnlySet<string> FilledColumns(ResultTable t) =>
-        TableFacts.Of(t, "filled", t => (IReadOnlySet<string>)t.Columns.Where((c, i) => t.Rows.Any(r => r[i] is not null)).Select(c => c.Name).ToHashSet(StringComparer.Ordinal));
+        TableFacts.Of(t, "filled", t => (IReadOnlySet<string>)t.Columns.Where((c, i) => t.HasAnyValue(i)).Select(c => c.Name).ToHashSet(StringComparer.Ordinal));
 
     /// <summary>
     /// The swept parameters worth a column of their own, candidates' names first: a parameter that
@@ -122,24 +122,32 @@ public sealed record SummaryTable(
         [.. KeyParameters(all, names)
             .Concat(DefaultColumns.Where(filled.Contains))
             .Append(filled.Contains(PointCurves.ConductivityColumn) ? PointCurves.ConductivityColumn : "")
-            .Append(filled.Contains(PointFlags.FloppyColumn) && all.Rows.Any(r => r[all.IndexOf(PointFlags.FloppyColumn)] is true) ? PointFlags.FloppyColumn : "")
+            .Append(filled.Contains(PointFlags.FloppyColumn) && new ColumnFlags(all) is var flags && Enumerable.Range(0, all.Count).Any(flags.IsFloppy) ? PointFlags.FloppyColumn : "")
             .Where(all.Has)
             .Distinct(StringComparer.Ordinal)];
 
     /// <summary>True when every value of column <paramref name="q"/> goes with one value of column <paramref name="p"/>.</summary>
     private static bool Determines(ResultTable t, int q, int p)
     {
-        var seen = new Dictionary<string, string>(StringComparer.Ordinal);
-        foreach (var row in t.Rows)
+        // Cells compared by their value (as Show.Raw writes them: same value, same text), without formatting them.
+        var seen = new Dictionary<CellKey, CellKey>();
+        var keys = t.Cells(q);
+        var values = t.Cells(p);
+        for (var r = 0; r < t.Count; r++)
         {
-            var key = Formatting.Show.Raw(row[q]);
-            var value = Formatting.Show.Raw(row[p]);
-            if (seen.TryGetValue(key, out var before) && before != value)
+            var key = keys.Key(r);
+            var value = values.Key(r);
+            if (seen.TryGetValue(key, out var before))
             {
-                return false;
+                if (before != value)
+                {
+                    return false;
+                }
             }
-
-            seen[key] = value;
+            else
+            {
+                seen[key] = value;
+            }
         }
 
         return true;
@@ -148,19 +156,59 @@ public sealed record SummaryTable(
     private static SummaryColumn View(ResultColumn c, ColumnCatalog names) =>
         new(c.Name, names.HeaderLabel(c.Name), names.Label(c.Name), names.Unit(c), c.IsNumeric, names.IsParameter(c.Name));
 
-    /// <summary>Sorted by one column; empty cells last whichever the direction; ties keep plan order.</summary>
-    private static IEnumerable<ImmutableArray<object?>> Order(ImmutableArray<ImmutableArray<object?>> rows, int column, bool descending)
+    /// <summary>Positions in plan order (by point_index, empty last; ties in table order), then sorted by one column: empty cells last whichever the direction; ties keep plan order.</summary>
+    private static int[] SortedPositions(ResultTable t, int column, bool descending)
     {
-        if (column < 0)
+        var plan = t.IndexOf(DefaultSort) is var pi and >= 0 ? t.Cells(pi) : (ColumnView?)null;
+        var positions = Enumerable.Range(0, t.Count).ToArray();
+        if (plan is { } p && !InOrder(p, t.Count))
         {
-            return rows;
+            var keys = new double[t.Count];
+            for (var r = 0; r < keys.Length; r++)
+            {
+                keys[r] = p.Number(r) ?? double.MaxValue;
+            }
+
+            positions = [.. positions.OrderBy(r => keys[r])];
         }
 
-        var present = rows.Where(r => r[column] is not null);
-        var sorted = descending
-            ? present.OrderByDescending(r => r[column], CellComparer.Instance)
-            : present.OrderBy(r => r[column], CellComparer.Instance);
-        return sorted.Concat(rows.Where(r => r[column] is null));
+        if (column < 0)
+        {
+            return positions;
+        }
+
+        var cells = t.Cells(column);
+        var present = positions.Where(cells.HasValue);
+        var numeric = t.Columns[column].IsNumeric;
+        IEnumerable<int> sorted;
+        if (numeric)
+        {
+            sorted = descending ? present.OrderByDescending(r => cells.Number(r) ?? 0) : present.OrderBy(r => cells.Number(r) ?? 0);
+        }
+        else
+        {
+            sorted = descending ? present.OrderByDescending(cells.Cell, CellComparer.Instance) : present.OrderBy(cells.Cell, CellComparer.Instance);
+        }
+
+        return [.. sorted.Concat(positions.Where(r => !cells.HasValue(r)))];
+    }
+
+    /// <summary>True when the plan column never decreases (a file written in plan order needs no sort).</summary>
+    private static bool InOrder(ColumnView plan, int count)
+    {
+        var last = double.MinValue;
+        for (var r = 0; r < count; r++)
+        {
+            var v = plan.Number(r) ?? double.MaxValue;
+            if (v < last)
+            {
+                return false;
+            }
+
+            last = v;
+        }
+
+        return true;
     }
 
     private sealed class CellComparer : IComparer<object?>

@@ -95,20 +95,27 @@ internal static class SweepPlots
 
         var notes = new List<string>();
         var maker = new PointMaker(filtered, r.X, r.Y);
-        int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y);
+        var xs = filtered.Cells(r.X);
+        var ys = filtered.Cells(r.Y);
         var grouped = r.By is { } b && b != SweepPlot.NoGrouping ? filtered.IndexOf(b) : -1;
+        var groups = grouped < 0 ? (ColumnView?)null : filtered.Cells(grouped);
         var categorical = !all.Column(r.X)!.IsNumeric;
         var categories = categorical ? Categories(all, all.IndexOf(r.X)) : [];
-        var usable = filtered.Rows.Where(row => row[ix] is not null && Finite(row[iy]) is not null && (categorical || Finite(row[ix]) is not null)).ToList();
+        var categoryAt = categories.Select((c, i) => (c, i)).ToDictionary(p => p.c, p => p.i, StringComparer.Ordinal);
+        // By position, column by column: a row is boxed only for the cells a point needs.
+        var usable = Enumerable.Range(0, filtered.Count)
+            .Where(row => xs.HasValue(row) && Finite(ys.Number(row)) is not null && (categorical || Finite(xs.Number(row)) is not null))
+            .ToList();
+        var keyed = usable.GroupBy(row => groups?.Key(row) ?? CellKey.Empty).Select(g => (Raw: groups is { } c ? Show.Raw(c.Cell(g.First())) : "", Rows: g));
         var series = new List<PlotSeries>();
-        foreach (var group in usable.GroupBy(row => grouped < 0 ? "" : Show.Raw(row[grouped])).OrderBy(g => g.Key, ValueOrder.Of(filtered, grouped)))
+        foreach (var (_, group) in keyed.OrderBy(g => g.Raw, ValueOrder.Of(filtered, grouped)))
         {
             var points = group
-                .Select(row => maker.Make(row, categorical ? categories.IndexOf(Show.Raw(row[ix])) : null))
+                .Select(row => maker.Make(row, categorical ? categoryAt.GetValueOrDefault(Show.Raw(xs.Cell(row)), -1) : null))
                 .OrderBy(p => p.X)
                 .ToImmutableArray();
             var lines = !categorical && points.Select(p => p.X).Distinct().Count() == points.Length;
-            var name = grouped < 0 ? names.Label(r.Y) : Show.Value(group.First()[grouped], names.UnitOf(filtered.Columns[grouped].Name));
+            var name = grouped < 0 ? names.Label(r.Y) : Show.Value(groups!.Value.Cell(group.First()), names.UnitOf(filtered.Columns[grouped].Name));
             series.Add(new PlotSeries(name, lines, points));
         }
 
@@ -127,7 +134,7 @@ internal static class SweepPlots
         var xAxis = Axis(names, r.X, all, r.XScale, notes, categorical, categories);
         var yAxis = Axis(names, r.Y, all, r.YScale, notes, false, []);
         return new SweepPlot(SweepPlot.ParameterKind, PointUrl(sweep), xAxis, yAxis, grouped < 0 ? null : r.By, grouped < 0 ? null : names.Label(r.By!),
-            [.. series], [], null, plotted, filtered.Rows.Length - plotted, [.. notes]);
+            [.. series], [], null, plotted, filtered.Count - plotted, [.. notes]);
     }
 
     /// <summary>Two summary columns against each other, with the Pareto front for the chosen directions (unstable models are never on it).</summary>
@@ -142,9 +149,10 @@ internal static class SweepPlots
 
         var notes = new List<string>();
         var maker = new PointMaker(filtered, r.X, r.Y);
-        int ix = filtered.IndexOf(r.X), iy = filtered.IndexOf(r.Y);
-        var points = filtered.Rows
-            .Where(row => Finite(row[ix]) is not null && Finite(row[iy]) is not null)
+        var xs = filtered.Cells(r.X);
+        var ys = filtered.Cells(r.Y);
+        var points = Enumerable.Range(0, filtered.Count)
+            .Where(row => Finite(xs.Number(row)) is not null && Finite(ys.Number(row)) is not null)
             .Select(row => maker.Make(row, null))
             .ToList();
         var candidates = points.Where(p => !p.Unstable).ToList();
@@ -159,7 +167,7 @@ internal static class SweepPlots
         series = Thinned(series, points.Count, notes);
         var rule = $"{(r.XLarger ? "larger" : "smaller")} {names.ShortLabel(r.X)} and {(r.YLarger ? "larger" : "smaller")} {names.ShortLabel(r.Y)} are better";
         return new SweepPlot(SweepPlot.ScatterKind, PointUrl(sweep), Axis(names, r.X, all, r.XScale, notes, false, []), Axis(names, r.Y, all, r.YScale, notes, false, []),
-            null, null, [.. series], front, rule, points.Count, filtered.Rows.Length - points.Count, [.. notes]);
+            null, null, [.. series], front, rule, points.Count, filtered.Count - points.Count, [.. notes]);
     }
 
     /// <summary>Each series evenly sampled when the plot has more than <see cref="SweepPlot.MaxDrawn"/> points (said in a note).</summary>
@@ -182,7 +190,7 @@ internal static class SweepPlots
     private static string PointUrl(SweepRecord sweep) => Endpoints.Links.Sweep(sweep.SweepId) + "/points/";
 
     /// <summary>A number that can be drawn (an empty cell, NaN or an infinity cannot).</summary>
-    private static double? Finite(object? value) => ResultTable.ToDouble(value) is { } v && double.IsFinite(v) ? v : null;
+    private static double? Finite(double? value) => value is { } v && double.IsFinite(v) ? v : null;
 
     /// <summary>True when every value of the column is positive and the largest is at least <see cref="SweepPlot.DecadesRatio"/> times the smallest.</summary>
     public static bool SpansDecades(IEnumerable<double?> values)
@@ -196,14 +204,18 @@ internal static class SweepPlots
         var log = false;
         if (!categorical)
         {
-            var values = all.Numbers(column).ToList();
-            var positive = values.OfType<double>().Where(double.IsFinite).All(v => v > 0);
+            // Worked out once per table and column (a scan of the whole column).
+            var (positive, spans) = TableFacts.Of(all, "axis\n" + column, t =>
+            {
+                var values = t.Numbers(column).ToList();
+                return (values.OfType<double>().Where(double.IsFinite).All(v => v > 0), SpansDecades(values));
+            });
             log = scale switch
             {
                 AxisScale.Log when !positive => false,
                 AxisScale.Log => true,
                 AxisScale.Linear => false,
-                _ => SpansDecades(values),
+                _ => spans,
             };
             if (scale == AxisScale.Log && !positive)
             {
@@ -225,26 +237,40 @@ internal static class SweepPlots
     private static int Distinct(ResultTable t, string column)
     {
         var i = t.IndexOf(column);
-        return i < 0 ? 0 : TableFacts.Of(t, "distinct\n" + column, t => t.Rows.Select(r => Show.Raw(r[i])).Distinct(StringComparer.Ordinal).Count());
+        return i < 0 ? 0 : TableFacts.Of(t, "distinct\n" + column, t =>
+        {
+            var cells = t.Cells(i);
+            var seen = new HashSet<CellKey>();
+            for (var r = 0; r < t.Count; r++)
+            {
+                seen.Add(cells.Key(r));
+            }
+
+            return seen.Count;
+        });
     }
 
     /// <summary>A text column's values in plan order (first appearance), as categories.</summary>
     private static ImmutableArray<string> Categories(ResultTable all, int column) =>
-        [.. SummaryTable.Ordered(all, null, false).Select(r => Show.Raw(r[column])).Where(v => v.Length > 0).Distinct(StringComparer.Ordinal)];
+        TableFacts.Of(all, "categories\n" + column, all =>
+        {
+            var cells = all.Cells(column);
+            return (ImmutableArray<string>)[.. SummaryTable.Order(all, null, false).Select(r => Show.Raw(cells.Cell(r))).Where(v => v.Length > 0).Distinct(StringComparer.Ordinal)];
+        });
 
     /// <summary>Turns a row with drawable x and y into a <see cref="PlotPoint"/> (its page, its marks).</summary>
     private sealed class PointMaker(ResultTable t, string x, string y)
     {
-        private readonly PointFlags _flags = new(t);
-        private readonly int _x = t.IndexOf(x);
-        private readonly int _y = t.IndexOf(y);
-        private readonly int _id = t.IndexOf("point_id");
+        private readonly ColumnFlags _flags = new(t);
+        private readonly ColumnView _x = t.Cells(x);
+        private readonly ColumnView _y = t.Cells(y);
+        private readonly ColumnView _id = t.Cells("point_id");
 
-        /// <summary>The point; <paramref name="category"/> replaces x on a categorical axis.</summary>
-        public PlotPoint Make(ImmutableArray<object?> row, int? category)
+        /// <summary>The point at position <paramref name="row"/>; <paramref name="category"/> replaces x on a categorical axis.</summary>
+        public PlotPoint Make(int row, int? category)
         {
-            var id = (string)row[_id]!;
-            return new PlotPoint(category ?? ResultTable.ToDouble(row[_x])!.Value, ResultTable.ToDouble(row[_y])!.Value, id, _flags.IsUnstable(row), _flags.IsFloppy(row));
+            var id = _id.Text(row)!;
+            return new PlotPoint(category ?? _x.Number(row)!.Value, _y.Number(row)!.Value, id, _flags.IsUnstable(row), _flags.IsFloppy(row));
         }
     }
 
@@ -266,7 +292,8 @@ internal static class SweepPlots
             }
 
             var order = new Dictionary<string, int>(StringComparer.Ordinal);
-            foreach (var v in SummaryTable.Ordered(t, null, false).Select(r => Show.Raw(r[column])))
+            var cells = t.Cells(column);
+            foreach (var v in SummaryTable.Order(t, null, false).Select(r => Show.Raw(cells.Cell(r))))
             {
                 order.TryAdd(v, order.Count);
             }

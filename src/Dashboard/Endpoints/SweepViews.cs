@@ -72,7 +72,7 @@ internal static class SweepViews
     {
         var points = await FilterAsync(board, sweep, view.Filter, view.Problems, ct).ConfigureAwait(false);
         var sort = view.Table.Sort is { } s && points.Rows.Has(s) ? s : SummaryTable.DefaultSort;
-        return (points.Rows with { Rows = [.. SummaryTable.Ordered(points.Rows, sort, view.Table.Descending)] }, points.Line);
+        return (SummaryTable.Ordered(points.Rows, sort, view.Table.Descending), points.Line);
     }
 
     /// <summary>The points named (up to <see cref="PointComparison.MaxPoints"/>, each once), side by side.</summary>

@@ -181,7 +181,10 @@ internal sealed partial class SweepModel : PageModel
         var unit = Names.UnitOf(column);
         return TableFacts.Of(Points.All, "values\n" + column, all =>
         {
-            var cells = all.Rows.Select(r => r[i]).Where(v => v is not null).ToList();
+            // Distinct cells first (by value, without boxing each row), then ordered as shown.
+            var column = all.Cells(i);
+            var seen = new HashSet<CellKey>();
+            var cells = Enumerable.Range(0, all.Count).Where(r => column.HasValue(r) && seen.Add(column.Key(r))).Select(column.Cell).ToList();
             var ordered = cells.All(v => ResultTable.ToDouble(v) is not null) ? cells.OrderBy(v => ResultTable.ToDouble(v)) : cells.AsEnumerable();
             return (IReadOnlyList<(string Raw, string Text)>)[.. ordered.Select(v => (Raw: Formatting.Show.Raw(v), Text: Formatting.Show.Value(v, unit))).DistinctBy(v => v.Raw)];
         });

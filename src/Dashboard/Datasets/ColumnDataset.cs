@@ -1,0 +1,55 @@
+using System.Collections.Immutable;
+
+namespace LatticeSweep.Dashboard.Datasets;
+
+/// <summary>
+/// Several files of one table as one <see cref="ResultTable"/>: the union of their columns in
+/// first-seen order (a unit from whichever file has one), rows file after file, each column
+/// joined from the files' own columns when first needed. A key seen in two files (a chunk re-run
+/// after its rows were merged) keeps only its first row, so the files go newest first.
+/// </summary>
+internal static class ColumnDataset
+{
+    public static ResultTable Of(IReadOnlyList<ParquetColumnFile> files, string keyColumn)
+    {
+        var columns = new List<ResultColumn>();
+        var index = new Dictionary<string, int>(StringComparer.Ordinal);
+        foreach (var c in files.SelectMany(f => f.Columns))
+        {
+            if (index.TryAdd(c.Name, columns.Count))
+            {
+                columns.Add(c);
+            }
+            else if (columns[index[c.Name]].Unit.Length == 0 && c.Unit.Length > 0)
+            {
+                columns[index[c.Name]] = columns[index[c.Name]] with { Unit = c.Unit };
+            }
+        }
+
+        // Where each file holds each dataset column (-1: not at all).
+        var at = files.Select(f => columns.Select(c => f.Columns.IndexOf(f.Columns.FirstOrDefault(x => x.Name == c.Name)!)).ToArray()).ToArray();
+        CellColumn Load(int c)
+        {
+            var parts = files.Select((f, i) => at[i][c] >= 0 ? f.Column(at[i][c]) : new EmptyCells(f.RowCount)).ToArray();
+            return parts.Length == 1 ? parts[0] : new ConcatCells(parts);
+        }
+
+        bool? Filled(int c)
+        {
+            var said = files.Select((f, i) => at[i][c] >= 0 ? f.Filled(at[i][c]) : false).ToList();
+            return said.Any(x => x == true) ? true : said.All(x => x == false) ? false : null;
+        }
+
+        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled);
+        var key = table.IndexOf(keyColumn);
+        if (files.Count < 2 || key < 0)
+        {
+            // One file holds each key once (a part, or a merged file).
+            return table;
+        }
+
+        var ids = table.Cells(key);
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        return table.Where(r => ids.Text(r) is not { } id || seen.Add(id));
+    }
+}
