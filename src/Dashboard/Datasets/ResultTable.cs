@@ -141,7 +141,7 @@ public sealed class ResultTable
             return Select([]);
         }
 
-        return Select(TableFacts.Of(this, "positions\n" + column, t => Positions(t, i)).GetValueOrDefault(value, []));
+        return Select(TableFacts.Of(this, "positions\n" + column, t => Positions(t, i))(value));
     }
 
     /// <summary>The values of a numeric column as doubles (null where empty).</summary>
@@ -166,24 +166,26 @@ public sealed class ResultTable
         _ => null,
     };
 
-    private static Dictionary<string, int[]> Positions(ResultTable t, int column)
+    /// <summary>Where each text value of a column is: one position per value as a rule (a point id), a list only for a value seen again.</summary>
+    private static Func<string, int[]> Positions(ResultTable t, int column)
     {
         var cells = t.Cells(column);
-        var at = new Dictionary<string, List<int>>(StringComparer.Ordinal);
+        var first = new Dictionary<string, int>(StringComparer.Ordinal);
+        var more = new Dictionary<string, List<int>>(StringComparer.Ordinal);
         for (var r = 0; r < t.Count; r++)
         {
-            if (cells.Text(r) is { } s)
+            if (cells.Text(r) is { } s && !first.TryAdd(s, r))
             {
-                if (!at.TryGetValue(s, out var list))
+                if (!more.TryGetValue(s, out var list))
                 {
-                    at[s] = list = [];
+                    more[s] = list = [first[s]];
                 }
 
                 list.Add(r);
             }
         }
 
-        return at.ToDictionary(kv => kv.Key, kv => kv.Value.ToArray(), StringComparer.Ordinal);
+        return value => more.TryGetValue(value, out var list) ? [.. list] : first.TryGetValue(value, out var at) ? [at] : [];
     }
 
     /// <summary>The rows of a table, each boxed when read.</summary>

@@ -61,8 +61,16 @@ internal static class SweepViews
         return (table, page, points);
     }
 
+    /// <summary>The plots, kept with the filtered table for the same choices (an unfiltered view is the cached whole table, so its plots are made once per change of points/).</summary>
     public static SweepPlotSet Plots(FilteredPoints points, SweepRecord sweep, SweepView view) =>
-        new(SweepPlots.Parameter(points.All, points.Rows, sweep, view.Plot), SweepPlots.Scatter(points.All, points.Rows, sweep, view.Scatter), points.Line);
+        new(
+            TableFacts.Of(points.Rows, $"parameter plot\n{sweep.SweepId}\n{view.Plot}", _ => new Cached<SweepPlot>(SweepPlots.Parameter(points.All, points.Rows, sweep, view.Plot))).Value,
+            TableFacts.Of(points.Rows, $"scatter plot\n{sweep.SweepId}\n{view.Scatter}", _ => new Cached<SweepPlot>(SweepPlots.Scatter(points.All, points.Rows, sweep, view.Scatter))).Value,
+            points.Line);
+
+    /// <summary>A value that may be null, as a fact.</summary>
+    private sealed record Cached<T>(T? Value)
+        where T : class;
 
     public static async Task<SweepPlotSet> PlotsAsync(SweepBoard board, SweepRecord sweep, SweepView view, CancellationToken ct) =>
         Plots(await FilterAsync(board, sweep, view.Filter, view.Problems, ct).ConfigureAwait(false), sweep, view);

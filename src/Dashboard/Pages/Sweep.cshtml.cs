@@ -169,7 +169,7 @@ internal sealed partial class SweepModel : PageModel
     public bool IsTicked(string column, string raw) =>
         Points.Filter.Values.Any(v => v.Column == column && v.Values.Contains(raw));
 
-    /// <summary>Distinct values of a column in the whole table, in order (numbers by size), as (raw, shown).</summary>
+    /// <summary>Distinct values of a column in the whole table, in order (numbers by size), as (raw, shown); past <see cref="MaxTickedValues"/> only the first MaxTickedValues + 1 found.</summary>
     public IReadOnlyList<(string Raw, string Text)> ValuesOf(string column)
     {
         var i = Points.All.IndexOf(column);
@@ -184,7 +184,8 @@ internal sealed partial class SweepModel : PageModel
             // Distinct cells first (by value, without boxing each row), then ordered as shown.
             var column = all.Cells(i);
             var seen = new HashSet<CellKey>();
-            var cells = Enumerable.Range(0, all.Count).Where(r => column.HasValue(r) && seen.Add(column.Key(r))).Select(column.Cell).ToList();
+            // The page ticks values only up to MaxTickedValues: past one more, the rest is never shown (a dense axis of 10^6 values).
+            var cells = Enumerable.Range(0, all.Count).Where(r => column.HasValue(r) && seen.Add(column.Key(r))).Take(MaxTickedValues + 1).Select(column.Cell).ToList();
             var ordered = cells.All(v => ResultTable.ToDouble(v) is not null) ? cells.OrderBy(v => ResultTable.ToDouble(v)) : cells.AsEnumerable();
             return (IReadOnlyList<(string Raw, string Text)>)[.. ordered.Select(v => (Raw: Formatting.Show.Raw(v), Text: Formatting.Show.Value(v, unit))).DistinctBy(v => v.Raw)];
         });
