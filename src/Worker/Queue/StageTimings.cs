@@ -28,12 +28,50 @@ public static class StageTimings
         var process = Process.GetCurrentProcess();
         yield return string.Create(CultureInfo.InvariantCulture,
             $"timings: process CPU {process.TotalProcessorTime.TotalSeconds:F3} s (user {process.UserProcessorTime.TotalSeconds:F3} s), up {(DateTime.Now - process.StartTime).TotalSeconds:F3} s, GCs {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)}, peak working set {process.PeakWorkingSet64 / 1048576.0:F0} MiB");
+        if (ThreadsByCpu() is { Length: > 0 } threads)
+        {
+            yield return "timings: threads alive at the end (CPU s): " + threads;
+        }
+
         foreach (var (stage, t) in Stages.OrderByDescending(s => s.Value.Ticks))
         {
             var hopped = t.Hopped > 0 ? $" ({t.Hopped} ended on another thread: process CPU over their time)" : "";
             yield return string.Create(CultureInfo.InvariantCulture,
                 $"timings: {stage,-28} {t.Ticks / (double)Stopwatch.Frequency,9:F3} s wall {t.CpuNs / 1e9,9:F3} s CPU in {t.Count,7} calls{hopped}");
         }
+    }
+
+    /// <summary>The process's live threads by name with their CPU time, busiest first (Linux /proc; empty elsewhere): what runs beside the stages (JIT, GC, queue loops).</summary>
+    private static string ThreadsByCpu()
+    {
+        const string tasks = "/proc/self/task";
+        if (!Directory.Exists(tasks))
+        {
+            return "";
+        }
+
+        var ticksPerSecond = 100.0; // USER_HZ on Linux
+        var byName = new Dictionary<string, double>(StringComparer.Ordinal);
+        foreach (var task in Directory.EnumerateDirectories(tasks))
+        {
+            try
+            {
+                var stat = File.ReadAllText(Path.Combine(task, "stat"));
+                var open = stat.IndexOf('(', StringComparison.Ordinal);
+                var close = stat.LastIndexOf(')');
+                var name = stat[(open + 1)..close];
+                var fields = stat[(close + 2)..].Split(' ');
+                var seconds = (double.Parse(fields[11], CultureInfo.InvariantCulture) + double.Parse(fields[12], CultureInfo.InvariantCulture)) / ticksPerSecond;
+                byName[name] = byName.GetValueOrDefault(name) + seconds;
+            }
+            catch (IOException)
+            {
+                // The thread ended meanwhile.
+            }
+        }
+
+        return string.Join(", ", byName.Where(t => t.Value >= 0.01).OrderByDescending(t => t.Value)
+            .Select(t => string.Create(CultureInfo.InvariantCulture, $"{t.Key} {t.Value:F2}")));
     }
 
     /// <summary>Writes <see cref="Report"/> when enabled.</summary>
