@@ -6,7 +6,7 @@ namespace LatticeSweep.Worker.Output;
 /// <summary>
 /// One Parquet file of a result table being written: the schema from the table's columns, the file
 /// metadata (with every column's unit), then row groups of column arrays (<see cref="ColumnValues"/>).
-/// Part files have one row group; merged files several (the merge).
+/// Part files and merged files alike have row groups of at most <see cref="MergedLayout.RowGroupRows"/> rows.
 /// </summary>
 internal sealed class ParquetTableWriter : IAsyncDisposable
 {
