@@ -15,6 +15,7 @@ internal sealed class RealSpaceOperator
     private readonly double[] _rowFactor;   // per site g_s / sqrt(m_s)
     private readonly double[] _typeTensor;  // per coupling type c x c, N/m
     private readonly double[] _z;           // scratch for Apply: g_j x_j / sqrt(m_j)
+    private readonly double[]? _weight;     // per directed spring, a factor beside g_i g_j (bends scaled as wholes); null = all 1
 
     public RealSpaceOperator(RealSpaceLattice lattice, SiteProperties properties)
     {
@@ -40,13 +41,14 @@ internal sealed class RealSpaceOperator
         _rowFactor = new double[sites];
         var g = properties.SpringScale;
         var m = properties.MassKg;
+        _weight = EntryWeights(lattice, g);
         for (var s = 0; s < sites; s++)
         {
             _rowFactor[s] = g[s] / Math.Sqrt(m[s]);
             var self = _selfScaled.AsSpan(s * cc, cc);
             for (var k = lattice.RowStart[s]; k < lattice.RowStart[s + 1]; k++)
             {
-                var scale = g[s] * g[lattice.Neighbour[k]] / m[s];
+                var scale = g[s] * g[lattice.Neighbour[k]] / m[s] * W(k);
                 var tensor = _typeTensor.AsSpan(lattice.CouplingType[k] * cc, cc);
                 for (var e = 0; e < cc; e++)
                 {
@@ -59,6 +61,31 @@ internal sealed class RealSpaceOperator
     }
 
     public RealSpaceLattice Lattice { get; }
+
+    /// <summary>
+    /// 1 for every spring but a bend's own entry, whose weight makes the bend's total scale the
+    /// geometric mean of its three atoms' factors (<see cref="BendsInBlock"/>); null when all are 1.
+    /// </summary>
+    private static double[]? EntryWeights(RealSpaceLattice lattice, double[] g)
+    {
+        if (lattice.EntryBendInstance is not { } instance)
+        {
+            return null;
+        }
+
+        var weight = new double[instance.Length];
+        for (var s = 0; s < lattice.Sites; s++)
+        {
+            for (var k = lattice.RowStart[s]; k < lattice.RowStart[s + 1]; k++)
+            {
+                weight[k] = instance[k] < 0 ? 1 : BendsInBlock.BendWeight(g, lattice.BendInstanceAtoms, instance[k], s, lattice.Neighbour[k]);
+            }
+        }
+
+        return weight;
+    }
+
+    private double W(int entry) => _weight is null ? 1 : _weight[entry];
 
     public SiteProperties Properties { get; }
 
@@ -86,7 +113,7 @@ internal sealed class RealSpaceOperator
             for (var k = Lattice.RowStart[s]; k < Lattice.RowStart[s + 1]; k++)
             {
                 var j = Lattice.Neighbour[k];
-                var scale = -g[s] * g[j] / Math.Sqrt(m[s] * m[j]);
+                var scale = -g[s] * g[j] / Math.Sqrt(m[s] * m[j]) * W(k);
                 var t = Lattice.CouplingType[k] * cc;
                 for (var x = 0; x < c; x++)
                 {
@@ -130,7 +157,7 @@ internal sealed class RealSpaceOperator
             {
                 var j = Lattice.Neighbour[k];
                 var type = Lattice.CouplingType[k];
-                var factor = phases[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]));
+                var factor = phases[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]) * W(k));
                 var t = type * cc;
                 for (var x = 0; x < c; x++)
                 {
@@ -171,7 +198,7 @@ internal sealed class RealSpaceOperator
             {
                 var j = Lattice.Neighbour[k];
                 var type = Lattice.CouplingType[k];
-                var factor = factors[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]));
+                var factor = factors[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]) * W(k));
                 var t = type * cc;
                 for (var a = 0; a < c; a++)
                 {
@@ -196,6 +223,7 @@ internal sealed class RealSpaceOperator
         var neighbours = Lattice.Neighbour;
         var types = Lattice.CouplingType;
         var tensors = _typeTensor;
+        var weights = _weight;
         if (Lattice.Components == 1)
         {
             for (var s = 0; s < sites; s++)
@@ -208,12 +236,18 @@ internal sealed class RealSpaceOperator
                 var sum = 0.0;
                 for (var k = rows[s]; k < rows[s + 1]; k++)
                 {
-                    sum += tensors[types[k]] * z[neighbours[k]];
+                    sum += tensors[types[k]] * z[neighbours[k]] * (weights is null ? 1 : weights[k]);
                 }
 
                 y[s] = (_selfScaled[s] * x[s]) - (_rowFactor[s] * sum);
             }
 
+            return;
+        }
+
+        if (Lattice.Components != 3)
+        {
+            ApplyAnyComponents(x, y);
             return;
         }
 
@@ -232,9 +266,10 @@ internal sealed class RealSpaceOperator
             {
                 var t = types[k] * 9;
                 var j = 3 * neighbours[k];
-                var z0 = z[j];
-                var z1 = z[j + 1];
-                var z2 = z[j + 2];
+                var w = weights is null ? 1 : weights[k];
+                var z0 = w * z[j];
+                var z1 = w * z[j + 1];
+                var z2 = w * z[j + 2];
                 s0 += (tensors[t] * z0) + (tensors[t + 1] * z1) + (tensors[t + 2] * z2);
                 s1 += (tensors[t + 3] * z0) + (tensors[t + 4] * z1) + (tensors[t + 5] * z2);
                 s2 += (tensors[t + 6] * z0) + (tensors[t + 7] * z1) + (tensors[t + 8] * z2);
@@ -248,6 +283,50 @@ internal sealed class RealSpaceOperator
             y[3 * s] = (_selfScaled[self] * x0) + (_selfScaled[self + 1] * x1) + (_selfScaled[self + 2] * x2) - (r * s0);
             y[(3 * s) + 1] = (_selfScaled[self + 3] * x0) + (_selfScaled[self + 4] * x1) + (_selfScaled[self + 5] * x2) - (r * s1);
             y[(3 * s) + 2] = (_selfScaled[self + 6] * x0) + (_selfScaled[self + 7] * x1) + (_selfScaled[self + 8] * x2) - (r * s2);
+        }
+    }
+
+    /// <summary>y = D x for any number of components per site (in-plane motion has two).</summary>
+    private void ApplyAnyComponents(ReadOnlySpan<double> x, Span<double> y)
+    {
+        var c = Lattice.Components;
+        var cc = c * c;
+        for (var s = 0; s < Lattice.Sites; s++)
+        {
+            for (var a = 0; a < c; a++)
+            {
+                _z[(s * c) + a] = _rowFactor[s] * x[(s * c) + a];
+            }
+        }
+
+        Span<double> sum = stackalloc double[c];
+        for (var s = 0; s < Lattice.Sites; s++)
+        {
+            sum.Clear();
+            for (var k = Lattice.RowStart[s]; k < Lattice.RowStart[s + 1]; k++)
+            {
+                var t = Lattice.CouplingType[k] * cc;
+                var j = Lattice.Neighbour[k] * c;
+                var w = W(k);
+                for (var a = 0; a < c; a++)
+                {
+                    for (var b = 0; b < c; b++)
+                    {
+                        sum[a] += w * _typeTensor[t + (a * c) + b] * _z[j + b];
+                    }
+                }
+            }
+
+            for (var a = 0; a < c; a++)
+            {
+                var self = 0.0;
+                for (var b = 0; b < c; b++)
+                {
+                    self += _selfScaled[(s * cc) + (a * c) + b] * x[(s * c) + b];
+                }
+
+                y[(s * c) + a] = self - (_rowFactor[s] * sum[a]);
+            }
         }
     }
 
@@ -267,7 +346,7 @@ internal sealed class RealSpaceOperator
             for (var k = Lattice.RowStart[s]; k < Lattice.RowStart[s + 1]; k++)
             {
                 var j = Lattice.Neighbour[k];
-                var scale = Math.Abs(g[s] * g[j] / Math.Sqrt(m[s] * m[j]));
+                var scale = Math.Abs(g[s] * g[j] / Math.Sqrt(m[s] * m[j]) * W(k));
                 var t = Lattice.CouplingType[k] * cc;
                 for (var x = 0; x < c; x++)
                 {

@@ -5,7 +5,7 @@ namespace LatticeSweep.Engine.RealSpace;
 /// <summary>
 /// The motions of a free sample that cost no energy: rigid translations (one per displacement
 /// component) and, where nothing periodic forbids them, rigid rotations about the centre of mass
-/// (three for a free 3D cluster or 2D flake, two for a free straight chain, one about the axis of a
+/// (three for a free 3D cluster or 2D flake, one for a flake with in-plane motion, two for a free straight chain, one about the axis of a
 /// wire periodic along one direction, none for films and periodic crystals). Mass-weighted
 /// (x_s = sqrt(m_s) u_s) and orthonormalised; linearly dependent ones are dropped, so
 /// <see cref="Count"/> is the number of independent rigid-body modes.
@@ -61,6 +61,10 @@ internal sealed class RigidBodyModes
                 axes.Add(axis.Unit());
             }
         }
+        else if (c == 2 && lattice.PeriodicDirections == 0)
+        {
+            axes.Add(new Vec3(0, 0, 1)); // in-plane motion: a flake turns in its own plane only
+        }
 
         if (axes.Count > 0)
         {
@@ -79,9 +83,12 @@ internal sealed class RigidBodyModes
                 for (var s = 0; s < lattice.Sites; s++)
                 {
                     var w = Math.Sqrt(massKg[s]) * u.Cross(lattice.PositionM[s] - centre);
-                    v[3 * s] = w.X;
-                    v[(3 * s) + 1] = w.Y;
-                    v[(3 * s) + 2] = w.Z;
+                    v[c * s] = w.X;
+                    v[(c * s) + 1] = w.Y;
+                    if (c == 3)
+                    {
+                        v[(3 * s) + 2] = w.Z;
+                    }
                 }
 
                 candidates.Add(v);
