@@ -25,7 +25,7 @@ public static class ResultMerge
         try
         {
             IReadOnlyList<TableMerger.Outcome> outcomes;
-            using (Queue.StageTimings.Measure("merge part files"))
+            using (Queue.StageTimings.MeasureAlone("merge part files"))
             {
                 outcomes = TableMerger.MergeSweepAsync(sweep.OutputFolder, sweep.Tables, ct).GetAwaiter().GetResult();
             }
