@@ -1,3 +1,4 @@
+using System.Runtime.Intrinsics;
 using LatticeSweep.Engine.Models;
 
 namespace LatticeSweep.Engine.RealSpace;
@@ -231,6 +232,63 @@ internal sealed class RigidBodyModes
 
             x[i] -= sum;
         }
+    }
+
+    /// <summary>
+    /// <see cref="ProjectOutOfVector"/> for a block of four interleaved vectors (element i of vector l at
+    /// 4 i + l), each lane with the same operations in the same order.
+    /// </summary>
+    public void ProjectOutOfBlock(double[] x)
+    {
+        const int L = RealSpaceOperator.BlockLanes;
+        var k = Count;
+        if (k == 0)
+        {
+            return;
+        }
+
+        var dots = new Vector256<double>[k];
+        var n = x.Length / L;
+        for (var i = 0; i < n; i++)
+        {
+            var xi = Vector256.Create(x.AsSpan(i * L, L));
+            for (var j = 0; j < k; j++)
+            {
+                dots[j] += Vectors[j][i] * xi;
+            }
+        }
+
+        for (var i = 0; i < n; i++)
+        {
+            var sum = Vector256<double>.Zero;
+            for (var j = 0; j < k; j++)
+            {
+                sum += dots[j] * Vectors[j][i];
+            }
+
+            (Vector256.Create(x.AsSpan(i * L, L)) - sum).CopyTo(x.AsSpan(i * L, L));
+        }
+    }
+
+    /// <summary>
+    /// The rigid-body modes D does not annihilate (|D v| above <paramref name="tolerance"/>, rad^2/s^2):
+    /// none for rotationally invariant springs, the rotations for springs with a transverse constant.
+    /// A vector orthogonal to the others stays so under D, so only these need projecting out of D x.
+    /// </summary>
+    public RigidBodyModes ResistedBy(Func<double[], double[]> applyD, double tolerance)
+    {
+        var kept = new List<double[]>();
+        var translations = 0;
+        for (var i = 0; i < Count; i++)
+        {
+            if (Norm(applyD(Vectors[i])) > tolerance)
+            {
+                kept.Add(Vectors[i]);
+                translations += i < Translations ? 1 : 0;
+            }
+        }
+
+        return new RigidBodyModes([.. kept], translations);
     }
 
     /// <summary>
