@@ -98,7 +98,10 @@ internal sealed class TetrahedronBins
         var piece = new Pieces(a, b, c, d, e21 * e21, e21, k1, k2, k3, k4);
         if (vectors)
         {
-            AddVectors(in piece, firstBin, lastBin, share, total, partial, channels, meanWeight);
+            EnsureBatch(4);
+            (batchA[0], batchB[0], batchC[0], batchD[0], batchConstant[0], batchE21[0]) = (a, b, c, d, piece.Constant, e21);
+            (batchK1[0], batchK2[0], batchK3[0], batchK4[0]) = (k1, k2, k3, k4);
+            AddVectors(0, firstBin, lastBin, share, total, partial, channels, meanWeight);
         }
         else
         {
@@ -125,14 +128,7 @@ internal sealed class TetrahedronBins
     /// </summary>
     public void PrepareBatch(double[] a, double[] b, double[] c, double[] d, int count)
     {
-        var padded = (count + 3) & ~3;
-        if (batchA.Length < padded)
-        {
-            batchA = new double[padded]; batchB = new double[padded]; batchC = new double[padded]; batchD = new double[padded];
-            batchConstant = new double[padded]; batchE21 = new double[padded];
-            batchK1 = new double[padded]; batchK2 = new double[padded]; batchK3 = new double[padded]; batchK4 = new double[padded];
-            batchFirst = new int[padded]; batchLast = new int[padded]; batchSingle = new bool[padded];
-        }
+        EnsureBatch(count);
 
         var start = Vector256.Create(startThz);
         var inverse = Vector256.Create(inverseWidth);
@@ -208,8 +204,19 @@ internal sealed class TetrahedronBins
             return;
         }
 
-        var piece = new Pieces(batchA[i], batchB[i], batchC[i], batchD[i], batchConstant[i], batchE21[i], batchK1[i], batchK2[i], batchK3[i], batchK4[i]);
-        AddVectors(in piece, batchFirst[i], batchLast[i], share, total, partial, channels, meanWeight);
+        AddVectors(i, batchFirst[i], batchLast[i], share, total, partial, channels, meanWeight);
+    }
+
+    private void EnsureBatch(int count)
+    {
+        var padded = (count + 3) & ~3;
+        if (batchA.Length < padded)
+        {
+            batchA = new double[padded]; batchB = new double[padded]; batchC = new double[padded]; batchD = new double[padded];
+            batchConstant = new double[padded]; batchE21 = new double[padded];
+            batchK1 = new double[padded]; batchK2 = new double[padded]; batchK3 = new double[padded]; batchK4 = new double[padded];
+            batchFirst = new int[padded]; batchLast = new int[padded]; batchSingle = new bool[padded];
+        }
     }
 
     /// <summary><see cref="BinOf"/> of four values: clamped to [0, bins - 1] before truncation, which is the same.</summary>
@@ -265,49 +272,50 @@ internal sealed class TetrahedronBins
     }
 
     /// <summary>
-    /// Four bins per step: lane j holds bin + j and its upper edge. Lanes at or past the last bin take
-    /// N = 1, so the last bin gets the rest (1 - N below) and the lanes past it add exact zeros (into
-    /// the padding). The lower-edge values are the upper ones shifted by a lane, the first lane from
-    /// the previous step (0 at the first bin, as in the scalar kernel).
+    /// Four bins per step for tetrahedron i of the batch arrays: lane j holds bin + j and its upper
+    /// edge. Lanes at or past the last bin take N = 1, so the last bin gets the rest (1 - N below) and
+    /// the lanes past it add exact zeros (into the padding). The lower-edge values are the upper ones
+    /// shifted by a lane, the first lane from the previous step (0 at the first bin, as in the scalar
+    /// kernel).
     /// </summary>
-    private void AddVectors(in Pieces p, int firstBin, int lastBin, double share, double[] total, double[] partial, int channels, double[] meanWeight)
+    private void AddVectors(int i, int firstBin, int lastBin, double share, double[] total, double[] partial, int channels, double[] meanWeight)
     {
-        var laneOffsets = Vector256.Create(1.0, 2.0, 3.0, 4.0);
         var start = Vector256.Create(startThz);
         var width = Vector256.Create(widthThz);
-        var a = Vector256.Create(p.A);
-        var b = Vector256.Create(p.B);
-        var c = Vector256.Create(p.C);
-        var d = Vector256.Create(p.D);
-        var constant = Vector256.Create(p.Constant);
-        var e21 = Vector256.Create(p.E21);
-        var k1 = Vector256.Create(p.K1);
-        var k2 = Vector256.Create(p.K2);
-        var k3 = Vector256.Create(p.K3);
-        var k4 = Vector256.Create(p.K4);
-        var three = Vector256.Create(3.0);
+        var a = Vector256.Create(batchA[i]);
+        var b = Vector256.Create(batchB[i]);
+        var c = Vector256.Create(batchC[i]);
+        var d = Vector256.Create(batchD[i]);
+        var k1 = Vector256.Create(batchK1[i]);
+        var k4 = Vector256.Create(batchK4[i]);
         var one = Vector256.Create(1.0);
         var shareV = Vector256.Create(share);
         var lastEdgeIndex = Vector256.Create(lastBin + 0.5);
+        var four = Vector256.Create(4.0);
         var carry = Vector256<double>.Zero;
+
+        // Upper-edge indices bin + 1 .. bin + 4, exact in doubles, so each step's edges are the ones
+        // Edge(k) gives (start + k * width, the same two operations).
+        var k = Vector256.Create((double)firstBin) + Vector256.Create(1.0, 2.0, 3.0, 4.0);
         ref var totalRef = ref total[0];
-        for (var bin = firstBin; bin <= lastBin; bin += 4)
+        for (var bin = firstBin; bin <= lastBin; bin += 4, k += four)
         {
-            var k = Vector256.Create((double)bin) + laneOffsets; // upper-edge indices bin + 1 .. bin + 4, exact
             var edge = start + (k * width);
 
             // Avx.Max(x, 0) is the processor's max: for x = -0 it returns its second operand, +0, as
             // Math.Max does, and x is never NaN (finite corners and edges), so the bits are the scalar
             // kernel's. Vector256.Max would add the NaN and signed-zero checks on every step.
-            // Most steps lie in one piece of N(E) (a tetrahedron spans ~20 bins, its middle piece
+            // Most steps lie in one piece of N(E) (a tetrahedron spans ~25 bins, its middle piece
             // often only a few): evaluate just that piece there, all three and select elsewhere.
+            var belowB = Vector256.LessThan(edge, b);
+            var belowC = Vector256.LessThan(edge, c);
             Vector256<double> upper;
-            if (Edge(bin + 4) < p.B)
+            if (belowB.ExtractMostSignificantBits() == 0b1111)
             {
                 var x1 = Avx.Max(edge - a, Vector256<double>.Zero);
                 upper = x1 * x1 * x1 * k1;
             }
-            else if (Edge(bin + 1) >= p.C)
+            else if (belowC.ExtractMostSignificantBits() == 0)
             {
                 var y3 = Avx.Max(d - edge, Vector256<double>.Zero);
                 upper = one - (y3 * y3 * y3 * k4);
@@ -317,12 +325,11 @@ internal sealed class TetrahedronBins
                 var x1 = Avx.Max(edge - a, Vector256<double>.Zero);
                 var n1 = x1 * x1 * x1 * k1;
                 var x2 = edge - b;
-                var n2 = (constant + (three * x2 * (e21 + x2)) - (k2 * x2 * x2 * x2)) * k3;
+                var n2 = (Vector256.Create(batchConstant[i]) + (Vector256.Create(3.0) * x2 * (Vector256.Create(batchE21[i]) + x2))
+                    - (Vector256.Create(batchK2[i]) * x2 * x2 * x2)) * Vector256.Create(batchK3[i]);
                 var y3 = Avx.Max(d - edge, Vector256<double>.Zero);
                 var n3 = one - (y3 * y3 * y3 * k4);
-                upper = Vector256.ConditionalSelect(
-                    Vector256.LessThan(edge, b), n1,
-                    Vector256.ConditionalSelect(Vector256.LessThan(edge, c), n2, n3));
+                upper = Vector256.ConditionalSelect(belowB, n1, Vector256.ConditionalSelect(belowC, n2, n3));
             }
 
             upper = Vector256.ConditionalSelect(Vector256.GreaterThan(k, lastEdgeIndex), one, upper);
