@@ -159,6 +159,12 @@ internal static class SimplexDosIntegrator
                         }
 
                         kernel.PrepareBatch(cornerA, cornerB, cornerC, cornerD, entry);
+                        if (!useWeights)
+                        {
+                            kernel.AddPreparedBatch(entry, cubeShare, paddedTotal);
+                            continue;
+                        }
+
                         entry = 0;
                     }
 

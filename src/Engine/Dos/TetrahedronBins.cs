@@ -195,6 +195,25 @@ internal sealed class TetrahedronBins
         }
     }
 
+    /// <summary>
+    /// Adds share states of each of the first count tetrahedra of the last <see cref="PrepareBatch"/>, in
+    /// order, without channels: the same as <see cref="AddPrepared"/> one by one, with the kernel inlined
+    /// (most tetrahedra take one to seven steps, so a call and its set-up per tetrahedron show).
+    /// </summary>
+    public void AddPreparedBatch(int count, double share, double[] total)
+    {
+        for (var i = 0; i < count; i++)
+        {
+            if (batchSingle[i])
+            {
+                total[batchFirst[i]] += share;
+                continue;
+            }
+
+            AddVectorsInline(i, batchFirst[i], batchLast[i], share, total, [], 0, []);
+        }
+    }
+
     /// <summary>Adds share states of tetrahedron i of the last <see cref="PrepareBatch"/>, as <see cref="Add"/> would.</summary>
     public void AddPrepared(int i, double share, double[] total, double[] partial, int channels, double[] meanWeight)
     {
@@ -278,7 +297,11 @@ internal sealed class TetrahedronBins
     /// shifted by a lane, the first lane from the previous step (0 at the first bin, as in the scalar
     /// kernel).
     /// </summary>
-    private void AddVectors(int i, int firstBin, int lastBin, double share, double[] total, double[] partial, int channels, double[] meanWeight)
+    private void AddVectors(int i, int firstBin, int lastBin, double share, double[] total, double[] partial, int channels, double[] meanWeight) =>
+        AddVectorsInline(i, firstBin, lastBin, share, total, partial, channels, meanWeight);
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private void AddVectorsInline(int i, int firstBin, int lastBin, double share, double[] total, double[] partial, int channels, double[] meanWeight)
     {
         var start = Vector256.Create(startThz);
         var width = Vector256.Create(widthThz);
