@@ -27,6 +27,7 @@ internal enum DirectionTreatment
 /// across a Bloch direction it comes back into the same one-cell-thick block with a phase.
 /// Couplings are stored by type (an index into the crystal's couplings), so memory is 8 bytes per
 /// directed spring; masses and spring factors per site come separately (<see cref="SiteProperties"/>).
+/// Bond-bending terms the sample cuts, or that substitutes scale, get extra types (<see cref="BendsInBlock"/>).
 /// </summary>
 internal sealed class RealSpaceLattice
 {
@@ -65,6 +66,16 @@ internal sealed class RealSpaceLattice
 
     /// <summary>Index into <see cref="Types"/> of each directed spring.</summary>
     public int[] CouplingType { get; private set; } = [];
+
+    /// <summary>
+    /// Per directed spring, the intact bend whose own block it carries (an index into
+    /// <see cref="BendInstanceAtoms"/>), or -1 for every other spring; null when no spring is a bend's
+    /// own (no bends, or no spring factors to scale them by). The operator weights these entries.
+    /// </summary>
+    public int[]? EntryBendInstance { get; private set; }
+
+    /// <summary>Three block sites (centre and ends) per intact bend that is scaled as a whole.</summary>
+    public int[] BendInstanceAtoms { get; private set; } = [];
 
     /// <summary>The crystal's directed couplings (tensor and separation of each type).</summary>
     public PairCoupling[] Types { get; private set; } = [];
@@ -132,7 +143,7 @@ internal sealed class RealSpaceLattice
                 $"the {sample.Shape.Name} keeps no site of the lattice; make it larger or move its centre onto a site (centre = [0, 0, 0] is site 0)");
         }
 
-        lattice.Connect();
+        lattice.Connect(sample);
         lattice.FindLayers(sample);
         lattice.CountBasisSites();
         return lattice;
@@ -309,7 +320,7 @@ internal sealed class RealSpaceLattice
         return _map[(index * Crystal.Sites) + basis];
     }
 
-    private void Connect()
+    private void Connect(RealSpaceSample sample)
     {
         var lattice = Crystal.Lattice;
         Types = [.. Crystal.Couplings];
@@ -318,27 +329,51 @@ internal sealed class RealSpaceLattice
         var rowStart = new int[Sites + 1];
         var neighbours = new List<int>(Sites * Math.Max(1, Types.Length / Math.Max(1, Crystal.Sites)));
         var types = new List<int>(neighbours.Capacity);
+
+        // Bends cut by the sample are cancelled pair by pair, and with substitutes' spring factors each
+        // intact bend gets entries of its own to be scaled as a whole (a bend is a whole: see BendsInBlock).
+        var (bendTypes, bendRows, instanceAtoms) = BendsInBlock.Find(this, Types.Length, ScalesSprings(sample));
+        var instances = new List<int>();
         for (var s = 0; s < Sites; s++)
         {
             rowStart[s] = neighbours.Count;
             var cell = CellOf[s];
             foreach (var t in byBasis[BasisOf[s]])
             {
-                var o = offsets[t];
-                var j = Locate(new IntVec3(cell.N1 + o.N1, cell.N2 + o.N2, cell.N3 + o.N3), Types[t].J);
+                var j = Locate(cell + offsets[t], Types[t].J);
                 if (j >= 0)
                 {
                     neighbours.Add(j);
                     types.Add(t);
                 }
             }
+
+            for (var k = neighbours.Count - rowStart[s]; k > 0; k--)
+            {
+                instances.Add(-1);
+            }
+
+            foreach (var (j, t, instance) in bendRows[s] ?? [])
+            {
+                neighbours.Add(j);
+                types.Add(t);
+                instances.Add(instance);
+            }
         }
+
+        Types = [.. Types, .. bendTypes];
+        BendInstanceAtoms = instanceAtoms;
+        EntryBendInstance = instanceAtoms.Length > 0 ? [.. instances] : null;
 
         rowStart[Sites] = neighbours.Count;
         RowStart = rowStart;
         Neighbour = [.. neighbours];
         CouplingType = [.. types];
     }
+
+    /// <summary>True when some substitute has a spring factor of its own (bends are then scaled as wholes).</summary>
+    private static bool ScalesSprings(RealSpaceSample sample) =>
+        sample.Disorder is { } disorder && disorder.Substitutions.Any(s => s.SpringFactor != 1.0);
 
     /// <summary>The lattice translation R of a coupling: its separation minus r_J - r_I, in cells.</summary>
     private IntVec3 CellOffset(Lattice lattice, PairCoupling p)

@@ -1,4 +1,5 @@
 using System.Numerics;
+using System.Runtime.Intrinsics;
 using LatticeSweep.Engine.Models;
 
 namespace LatticeSweep.Engine.RealSpace;
@@ -15,6 +16,8 @@ internal sealed class RealSpaceOperator
     private readonly double[] _rowFactor;   // per site g_s / sqrt(m_s)
     private readonly double[] _typeTensor;  // per coupling type c x c, N/m
     private readonly double[] _z;           // scratch for Apply: g_j x_j / sqrt(m_j)
+    private double[]? _zBlock;              // scratch for ApplyBlock, allocated on first use
+    private readonly double[]? _weight;     // per directed spring, a factor beside g_i g_j (bends scaled as wholes); null = all 1
 
     public RealSpaceOperator(RealSpaceLattice lattice, SiteProperties properties)
     {
@@ -40,13 +43,14 @@ internal sealed class RealSpaceOperator
         _rowFactor = new double[sites];
         var g = properties.SpringScale;
         var m = properties.MassKg;
+        _weight = EntryWeights(lattice, g);
         for (var s = 0; s < sites; s++)
         {
             _rowFactor[s] = g[s] / Math.Sqrt(m[s]);
             var self = _selfScaled.AsSpan(s * cc, cc);
             for (var k = lattice.RowStart[s]; k < lattice.RowStart[s + 1]; k++)
             {
-                var scale = g[s] * g[lattice.Neighbour[k]] / m[s];
+                var scale = g[s] * g[lattice.Neighbour[k]] / m[s] * W(k);
                 var tensor = _typeTensor.AsSpan(lattice.CouplingType[k] * cc, cc);
                 for (var e = 0; e < cc; e++)
                 {
@@ -59,6 +63,31 @@ internal sealed class RealSpaceOperator
     }
 
     public RealSpaceLattice Lattice { get; }
+
+    /// <summary>
+    /// 1 for every spring but a bend's own entry, whose weight makes the bend's total scale the
+    /// geometric mean of its three atoms' factors (<see cref="BendsInBlock"/>); null when all are 1.
+    /// </summary>
+    private static double[]? EntryWeights(RealSpaceLattice lattice, double[] g)
+    {
+        if (lattice.EntryBendInstance is not { } instance)
+        {
+            return null;
+        }
+
+        var weight = new double[instance.Length];
+        for (var s = 0; s < lattice.Sites; s++)
+        {
+            for (var k = lattice.RowStart[s]; k < lattice.RowStart[s + 1]; k++)
+            {
+                weight[k] = instance[k] < 0 ? 1 : BendsInBlock.BendWeight(g, lattice.BendInstanceAtoms, instance[k], s, lattice.Neighbour[k]);
+            }
+        }
+
+        return weight;
+    }
+
+    private double W(int entry) => _weight is null ? 1 : _weight[entry];
 
     public SiteProperties Properties { get; }
 
@@ -86,7 +115,7 @@ internal sealed class RealSpaceOperator
             for (var k = Lattice.RowStart[s]; k < Lattice.RowStart[s + 1]; k++)
             {
                 var j = Lattice.Neighbour[k];
-                var scale = -g[s] * g[j] / Math.Sqrt(m[s] * m[j]);
+                var scale = -g[s] * g[j] / Math.Sqrt(m[s] * m[j]) * W(k);
                 var t = Lattice.CouplingType[k] * cc;
                 for (var x = 0; x < c; x++)
                 {
@@ -130,7 +159,7 @@ internal sealed class RealSpaceOperator
             {
                 var j = Lattice.Neighbour[k];
                 var type = Lattice.CouplingType[k];
-                var factor = phases[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]));
+                var factor = phases[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]) * W(k));
                 var t = type * cc;
                 for (var x = 0; x < c; x++)
                 {
@@ -171,7 +200,7 @@ internal sealed class RealSpaceOperator
             {
                 var j = Lattice.Neighbour[k];
                 var type = Lattice.CouplingType[k];
-                var factor = factors[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]));
+                var factor = factors[type] * (-g[s] * g[j] / Math.Sqrt(m[s] * m[j]) * W(k));
                 var t = type * cc;
                 for (var a = 0; a < c; a++)
                 {
@@ -196,6 +225,7 @@ internal sealed class RealSpaceOperator
         var neighbours = Lattice.Neighbour;
         var types = Lattice.CouplingType;
         var tensors = _typeTensor;
+        var weights = _weight;
         if (Lattice.Components == 1)
         {
             for (var s = 0; s < sites; s++)
@@ -208,12 +238,18 @@ internal sealed class RealSpaceOperator
                 var sum = 0.0;
                 for (var k = rows[s]; k < rows[s + 1]; k++)
                 {
-                    sum += tensors[types[k]] * z[neighbours[k]];
+                    sum += tensors[types[k]] * z[neighbours[k]] * (weights is null ? 1 : weights[k]);
                 }
 
                 y[s] = (_selfScaled[s] * x[s]) - (_rowFactor[s] * sum);
             }
 
+            return;
+        }
+
+        if (Lattice.Components != 3)
+        {
+            ApplyAnyComponents(x, y);
             return;
         }
 
@@ -232,9 +268,10 @@ internal sealed class RealSpaceOperator
             {
                 var t = types[k] * 9;
                 var j = 3 * neighbours[k];
-                var z0 = z[j];
-                var z1 = z[j + 1];
-                var z2 = z[j + 2];
+                var w = weights is null ? 1 : weights[k];
+                var z0 = w * z[j];
+                var z1 = w * z[j + 1];
+                var z2 = w * z[j + 2];
                 s0 += (tensors[t] * z0) + (tensors[t + 1] * z1) + (tensors[t + 2] * z2);
                 s1 += (tensors[t + 3] * z0) + (tensors[t + 4] * z1) + (tensors[t + 5] * z2);
                 s2 += (tensors[t + 6] * z0) + (tensors[t + 7] * z1) + (tensors[t + 8] * z2);
@@ -248,6 +285,140 @@ internal sealed class RealSpaceOperator
             y[3 * s] = (_selfScaled[self] * x0) + (_selfScaled[self + 1] * x1) + (_selfScaled[self + 2] * x2) - (r * s0);
             y[(3 * s) + 1] = (_selfScaled[self + 3] * x0) + (_selfScaled[self + 4] * x1) + (_selfScaled[self + 5] * x2) - (r * s1);
             y[(3 * s) + 2] = (_selfScaled[self + 6] * x0) + (_selfScaled[self + 7] * x1) + (_selfScaled[self + 8] * x2) - (r * s2);
+        }
+    }
+
+    /// <summary>Vectors in a block of <see cref="ApplyBlock"/>: four, one per 256-bit lane.</summary>
+    public const int BlockLanes = 4;
+
+    /// <summary>
+    /// y = D x for four vectors at once, interleaved (element i of vector l at 4 i + l): each spring's
+    /// index and tensor are read once for the four. Each lane does the operations of <see cref="Apply"/>
+    /// in the same order, so the results are the same bits.
+    /// </summary>
+    public void ApplyBlock(double[] x, double[] y)
+    {
+        const int L = BlockLanes;
+        if (Lattice.Components != 3)
+        {
+            ApplyBlockLaneByLane(x, y);
+            return;
+        }
+
+        var sites = Lattice.Sites;
+        var z = _zBlock ??= new double[Size * L];
+        var rows = Lattice.RowStart;
+        var neighbours = Lattice.Neighbour;
+        var types = Lattice.CouplingType;
+        var tensors = _typeTensor;
+        var weights = _weight;
+        for (var s = 0; s < sites; s++)
+        {
+            var f = _rowFactor[s];
+            for (var e = 3 * s * L; e < 3 * (s + 1) * L; e++)
+            {
+                z[e] = f * x[e];
+            }
+        }
+
+        for (var s = 0; s < sites; s++)
+        {
+            var s0 = Vector256<double>.Zero;
+            var s1 = Vector256<double>.Zero;
+            var s2 = Vector256<double>.Zero;
+            for (var k = rows[s]; k < rows[s + 1]; k++)
+            {
+                var t = types[k] * 9;
+                var j = 3 * neighbours[k] * L;
+                var z0 = Vector256.Create(z.AsSpan(j, L));
+                var z1 = Vector256.Create(z.AsSpan(j + L, L));
+                var z2 = Vector256.Create(z.AsSpan(j + (2 * L), L));
+                if (weights is not null)
+                {
+                    var w = weights[k];
+                    (z0, z1, z2) = (w * z0, w * z1, w * z2);
+                }
+
+                s0 += (tensors[t] * z0) + (tensors[t + 1] * z1) + (tensors[t + 2] * z2);
+                s1 += (tensors[t + 3] * z0) + (tensors[t + 4] * z1) + (tensors[t + 5] * z2);
+                s2 += (tensors[t + 6] * z0) + (tensors[t + 7] * z1) + (tensors[t + 8] * z2);
+            }
+
+            var self = 9 * s;
+            var at = 3 * s * L;
+            var x0 = Vector256.Create(x.AsSpan(at, L));
+            var x1 = Vector256.Create(x.AsSpan(at + L, L));
+            var x2 = Vector256.Create(x.AsSpan(at + (2 * L), L));
+            var r = _rowFactor[s];
+            ((_selfScaled[self] * x0) + (_selfScaled[self + 1] * x1) + (_selfScaled[self + 2] * x2) - (r * s0)).CopyTo(y.AsSpan(at, L));
+            ((_selfScaled[self + 3] * x0) + (_selfScaled[self + 4] * x1) + (_selfScaled[self + 5] * x2) - (r * s1)).CopyTo(y.AsSpan(at + L, L));
+            ((_selfScaled[self + 6] * x0) + (_selfScaled[self + 7] * x1) + (_selfScaled[self + 8] * x2) - (r * s2)).CopyTo(y.AsSpan(at + (2 * L), L));
+        }
+    }
+
+    /// <summary><see cref="ApplyBlock"/> for one or two components: each lane taken out and put through <see cref="Apply"/>.</summary>
+    private void ApplyBlockLaneByLane(double[] x, double[] y)
+    {
+        const int L = BlockLanes;
+        var n = Size;
+        var one = new double[n];
+        var result = new double[n];
+        for (var lane = 0; lane < L; lane++)
+        {
+            for (var i = 0; i < n; i++)
+            {
+                one[i] = x[(i * L) + lane];
+            }
+
+            Apply(one, result);
+            for (var i = 0; i < n; i++)
+            {
+                y[(i * L) + lane] = result[i];
+            }
+        }
+    }
+
+    /// <summary>y = D x for any number of components per site (in-plane motion has two).</summary>
+    private void ApplyAnyComponents(ReadOnlySpan<double> x, Span<double> y)
+    {
+        var c = Lattice.Components;
+        var cc = c * c;
+        for (var s = 0; s < Lattice.Sites; s++)
+        {
+            for (var a = 0; a < c; a++)
+            {
+                _z[(s * c) + a] = _rowFactor[s] * x[(s * c) + a];
+            }
+        }
+
+        Span<double> sum = stackalloc double[c];
+        for (var s = 0; s < Lattice.Sites; s++)
+        {
+            sum.Clear();
+            for (var k = Lattice.RowStart[s]; k < Lattice.RowStart[s + 1]; k++)
+            {
+                var t = Lattice.CouplingType[k] * cc;
+                var j = Lattice.Neighbour[k] * c;
+                var w = W(k);
+                for (var a = 0; a < c; a++)
+                {
+                    for (var b = 0; b < c; b++)
+                    {
+                        sum[a] += w * _typeTensor[t + (a * c) + b] * _z[j + b];
+                    }
+                }
+            }
+
+            for (var a = 0; a < c; a++)
+            {
+                var self = 0.0;
+                for (var b = 0; b < c; b++)
+                {
+                    self += _selfScaled[(s * cc) + (a * c) + b] * x[(s * c) + b];
+                }
+
+                y[(s * c) + a] = self - (_rowFactor[s] * sum[a]);
+            }
         }
     }
 
@@ -267,7 +438,7 @@ internal sealed class RealSpaceOperator
             for (var k = Lattice.RowStart[s]; k < Lattice.RowStart[s + 1]; k++)
             {
                 var j = Lattice.Neighbour[k];
-                var scale = Math.Abs(g[s] * g[j] / Math.Sqrt(m[s] * m[j]));
+                var scale = Math.Abs(g[s] * g[j] / Math.Sqrt(m[s] * m[j]) * W(k));
                 var t = Lattice.CouplingType[k] * cc;
                 for (var x = 0; x < c; x++)
                 {

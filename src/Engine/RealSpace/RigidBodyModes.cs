@@ -1,3 +1,4 @@
+using System.Runtime.Intrinsics;
 using LatticeSweep.Engine.Models;
 
 namespace LatticeSweep.Engine.RealSpace;
@@ -5,7 +6,7 @@ namespace LatticeSweep.Engine.RealSpace;
 /// <summary>
 /// The motions of a free sample that cost no energy: rigid translations (one per displacement
 /// component) and, where nothing periodic forbids them, rigid rotations about the centre of mass
-/// (three for a free 3D cluster or 2D flake, two for a free straight chain, one about the axis of a
+/// (three for a free 3D cluster or 2D flake, one for a flake with in-plane motion, two for a free straight chain, one about the axis of a
 /// wire periodic along one direction, none for films and periodic crystals). Mass-weighted
 /// (x_s = sqrt(m_s) u_s) and orthonormalised; linearly dependent ones are dropped, so
 /// <see cref="Count"/> is the number of independent rigid-body modes.
@@ -61,6 +62,10 @@ internal sealed class RigidBodyModes
                 axes.Add(axis.Unit());
             }
         }
+        else if (c == 2 && lattice.PeriodicDirections == 0)
+        {
+            axes.Add(new Vec3(0, 0, 1)); // in-plane motion: a flake turns in its own plane only
+        }
 
         if (axes.Count > 0)
         {
@@ -79,9 +84,12 @@ internal sealed class RigidBodyModes
                 for (var s = 0; s < lattice.Sites; s++)
                 {
                     var w = Math.Sqrt(massKg[s]) * u.Cross(lattice.PositionM[s] - centre);
-                    v[3 * s] = w.X;
-                    v[(3 * s) + 1] = w.Y;
-                    v[(3 * s) + 2] = w.Z;
+                    v[c * s] = w.X;
+                    v[(c * s) + 1] = w.Y;
+                    if (c == 3)
+                    {
+                        v[(3 * s) + 2] = w.Z;
+                    }
                 }
 
                 candidates.Add(v);
@@ -224,6 +232,63 @@ internal sealed class RigidBodyModes
 
             x[i] -= sum;
         }
+    }
+
+    /// <summary>
+    /// <see cref="ProjectOutOfVector"/> for a block of four interleaved vectors (element i of vector l at
+    /// 4 i + l), each lane with the same operations in the same order.
+    /// </summary>
+    public void ProjectOutOfBlock(double[] x)
+    {
+        const int L = RealSpaceOperator.BlockLanes;
+        var k = Count;
+        if (k == 0)
+        {
+            return;
+        }
+
+        var dots = new Vector256<double>[k];
+        var n = x.Length / L;
+        for (var i = 0; i < n; i++)
+        {
+            var xi = Vector256.Create(x.AsSpan(i * L, L));
+            for (var j = 0; j < k; j++)
+            {
+                dots[j] += Vectors[j][i] * xi;
+            }
+        }
+
+        for (var i = 0; i < n; i++)
+        {
+            var sum = Vector256<double>.Zero;
+            for (var j = 0; j < k; j++)
+            {
+                sum += dots[j] * Vectors[j][i];
+            }
+
+            (Vector256.Create(x.AsSpan(i * L, L)) - sum).CopyTo(x.AsSpan(i * L, L));
+        }
+    }
+
+    /// <summary>
+    /// The rigid-body modes D does not annihilate (|D v| above <paramref name="tolerance"/>, rad^2/s^2):
+    /// none for rotationally invariant springs, the rotations for springs with a transverse constant.
+    /// A vector orthogonal to the others stays so under D, so only these need projecting out of D x.
+    /// </summary>
+    public RigidBodyModes ResistedBy(Func<double[], double[]> applyD, double tolerance)
+    {
+        var kept = new List<double[]>();
+        var translations = 0;
+        for (var i = 0; i < Count; i++)
+        {
+            if (Norm(applyD(Vectors[i])) > tolerance)
+            {
+                kept.Add(Vectors[i]);
+                translations += i < Translations ? 1 : 0;
+            }
+        }
+
+        return new RigidBodyModes([.. kept], translations);
     }
 
     /// <summary>

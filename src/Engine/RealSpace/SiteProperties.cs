@@ -7,7 +7,8 @@ namespace LatticeSweep.Engine.RealSpace;
 /// Mass and spring factor of every site of a block: the crystal's own (ordered), one random
 /// configuration of a <see cref="Disorder"/>, or its virtual crystal (every substituted site gets the
 /// mean mass and the mean spring factor). A spring between sites with factors g_i and g_j is scaled
-/// by g_i g_j, where g = sqrt(f) for a substitute with spring factor f.
+/// by g_i g_j, where g = sqrt(f) for a substitute with spring factor f; a bend of three sites as a
+/// whole by (g_i g_j g_k)^(2/3) (<see cref="BendsInBlock"/>).
 /// </summary>
 internal sealed record SiteProperties(double[] MassKg, double[] SpringScale, int[] Substituted)
 {

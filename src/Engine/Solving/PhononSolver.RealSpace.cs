@@ -21,7 +21,6 @@ public static partial class PhononSolver
     private static PointResult SolveRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options, CancellationToken ct)
     {
         sample.Validate(model);
-        CheckNoBendingAtSurfaces(model, sample);
         var crystal = CompiledCrystal.From(model);
         var solver = new ModeSolver(new DynamicalMatrix(crystal));
         CheckNoFloppyBranch(solver);
@@ -143,7 +142,6 @@ public static partial class PhononSolver
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(sample);
         ArgumentNullException.ThrowIfNull(options);
-        CheckNoBendingAtSurfaces(model, sample);
         var crystal = CompiledCrystal.From(model);
         var ordered = sample.Disorder is null;
         var (blockSites, images) = BlockSize(crystal, sample, ordered);
@@ -162,20 +160,6 @@ public static partial class PhononSolver
         {
             throw Guard.Single(ModelProblemKind.TooLarge, "sample.method",
                 $"the sample is too large for the dense solver and method = \"dense\" leaves the kernel polynomial method off: {why}; use method = \"auto\" or \"kpm\", a smaller sample, or raise the limit");
-        }
-    }
-
-    /// <summary>
-    /// Three-body bending terms are compiled into pair blocks of the bulk crystal; a cut would keep a pair
-    /// whose centre atom was removed, so a surface would get bending it does not have. Refused until the
-    /// terms are assembled per triple in real space.
-    /// </summary>
-    private static void CheckNoBendingAtSurfaces(CrystalModel model, RealSpaceSample sample)
-    {
-        if (!model.Bends.IsDefaultOrEmpty && (sample.HasFreeDirection(model.Lattice.Dimension) || sample.Shape is not BoxShape))
-        {
-            throw Guard.Single(ModelProblemKind.NotSupported, "sample.boundaries",
-                "bond-bending springs on a sample with a free surface or a cut shape are not supported yet; use periodic boundaries, or central springs or potentials for free samples");
         }
     }
 

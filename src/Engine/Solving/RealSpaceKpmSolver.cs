@@ -1,3 +1,5 @@
+using System.Runtime.Intrinsics;
+using LatticeSweep.Engine.Numerics.Simd;
 using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics;
@@ -32,12 +34,18 @@ internal static class RealSpaceKpmSolver
     /// <summary>Lanczos steps for the spectral range.</summary>
     public const int LanczosSteps = 200;
 
-    /// <summary>Bytes per atom (3D motion): the block's indices and tensors per site, six vectors of the recursion, the groups.</summary>
-    public static long BytesPerAtom(int springsPerSite) => (8L * springsPerSite) + (3 * 8 * 8) + 72 + 100;
+    /// <summary>
+    /// Bytes per atom (3D motion): the block's indices and tensors per site, six vectors of the
+    /// recursion, four more of four lanes each when it runs in blocks (<see cref="BlocksByDefault"/>), the groups.
+    /// </summary>
+    public static long BytesPerAtom(int springsPerSite) => (8L * springsPerSite) + (3 * 8 * 8) + (BlocksByDefault ? 4 * RealSpaceOperator.BlockLanes * 3 * 8 : 0) + 72 + 100;
+
+    /// <summary>True when the recursion runs four random vectors at once in 256-bit lanes (AVX2, and no <c>LATSWEEP_SIMD_WIDTH=scalar</c>).</summary>
+    public static bool BlocksByDefault => Vector256.IsHardwareAccelerated && SimdWidths.Active != SimdWidth.Scalar;
 
     public static RealSpaceRun Solve(
         RealSpaceLattice lattice, SiteProperties properties, double[] temperatures, SolveOptions options,
-        KpmSettings settings, int configuration, CancellationToken ct)
+        KpmSettings settings, int configuration, CancellationToken ct, bool? blocked = null)
     {
         var op = new RealSpaceOperator(lattice, properties);
         var n = op.Size;
@@ -56,10 +64,26 @@ internal static class RealSpaceKpmSolver
             return y;
         });
 
+        // The recursion's vectors start orthogonal to every rigid-body mode. D keeps a vector orthogonal
+        // to each rigid mode it annihilates (D symmetric: <v, D x> = <D v, x> = 0): the translations
+        // always (the acoustic sum rule), the rotations for rotationally invariant springs. Only the
+        // others need projecting out at every step, a pass over all of them (often none).
+        var gershgorin = op.GershgorinBounds();
+        var resisted = rigid.ResistedBy(v =>
+        {
+            var y = new double[n];
+            op.Apply(v, y);
+            return y;
+        }, 1e-10 * Math.Max(Math.Abs(gershgorin.Upper), Math.Abs(gershgorin.Lower)));
+        void ApplyInRigidFreeSpace(double[] x, double[] y)
+        {
+            op.Apply(x, y);
+            resisted.ProjectOutOfVector(y);
+        }
+
         // Spectral range of P D P on the space the random vectors live in. Round-off brings the rigid
         // directions (eigenvalue 0 of P D P) into the Krylov space, where Lanczos would find them as
         // the lowest Ritz value: they are moved to the middle of the spectrum, P D P + s (1 - P).
-        var gershgorin = op.GershgorinBounds();
         var middle = 0.25 * gershgorin.Upper;
         var start = RandomVector(n, settings.Seed, configuration, -1);
         rigid.ProjectOutOfVector(start);
@@ -87,7 +111,9 @@ internal static class RealSpaceKpmSolver
             // A margin of 1% keeps the operator's spectrum strictly inside [-1, 1] (Weisse et al. 2006).
             scale = (high - low) / (2 - 0.02);
             centre = (high + low) / 2;
-            perVector = Moments(ApplyProjected, rigid, n, scale, centre, moments, settings, configuration, groups, ct);
+            perVector = blocked ?? BlocksByDefault
+                ? MomentsInBlocks(op, rigid, resisted, scale, centre, moments, settings, configuration, groups, ct)
+                : Moments(ApplyInRigidFreeSpace, rigid, n, scale, centre, moments, settings, configuration, groups, ct);
             if (Bounded(perVector, groups.Count, moments, settings.RandomVectors) || (low <= gershgorin.Lower && high >= gershgorin.Upper))
             {
                 break;
@@ -218,8 +244,7 @@ internal static class RealSpaceKpmSolver
                 next[i] = (next[i] - (centre * current[i])) / scale;
             }
 
-            groups.Accumulate(current, current, dd);
-            groups.Accumulate(next, current, dn);
+            groups.Accumulate(current, next, dd, dn);
             var mu0 = dd.ToArray();
             var mu1 = dn.ToArray();
             for (var k = 0; k < g; k++)
@@ -241,12 +266,98 @@ internal static class RealSpaceKpmSolver
                     next[i] = (twoOverScale * (next[i] - (centre * current[i]))) - previous[i];
                 }
 
-                groups.Accumulate(current, current, dd);
-                groups.Accumulate(next, current, dn);
+                groups.Accumulate(current, next, dd, dn);
                 for (var k = 0; k < g; k++)
                 {
                     mu[(k * moments) + (2 * step)] = (2 * dd[k]) - mu0[k];
                     mu[(k * moments) + (2 * step) + 1] = (2 * dn[k]) - mu1[k];
+                }
+            }
+        }
+
+        return result;
+    }
+
+    /// <summary>
+    /// The same moments as <see cref="Moments"/>, bit for bit, four random vectors at a time: the block's
+    /// vectors interleaved (element i of vector l at 4 i + l), so the sparse product reads each spring's
+    /// index and tensor once for four vectors and works in 256-bit lanes. Every lane does the same
+    /// operations in the same order as the one-vector recursion; lanes past the last vector hold zeros.
+    /// </summary>
+    private static double[] MomentsInBlocks(
+        RealSpaceOperator op, RigidBodyModes rigid, RigidBodyModes resisted, double scale, double centre, int moments,
+        KpmSettings settings, int configuration, GroupLayout groups, CancellationToken ct)
+    {
+        const int L = RealSpaceOperator.BlockLanes;
+        var n = op.Size;
+        var g = groups.Count;
+        var result = new double[settings.RandomVectors * g * moments];
+        var half = moments / 2;
+        var previous = new double[n * L];
+        var current = new double[n * L];
+        var next = new double[n * L];
+        var dd = new double[g * L];
+        var dn = new double[g * L];
+        var mu0 = new double[g * L];
+        var mu1 = new double[g * L];
+        for (var v0 = 0; v0 < settings.RandomVectors; v0 += L)
+        {
+            ct.ThrowIfCancellationRequested();
+            var lanes = Math.Min(L, settings.RandomVectors - v0);
+            Array.Clear(current);
+            for (var lane = 0; lane < lanes; lane++)
+            {
+                var r = RandomVector(n, settings.Seed, configuration, v0 + lane);
+                rigid.ProjectOutOfVector(r);
+                for (var i = 0; i < n; i++)
+                {
+                    current[(i * L) + lane] = r[i];
+                }
+            }
+
+            // a_1 = X a_0
+            op.ApplyBlock(current, next);
+            resisted.ProjectOutOfBlock(next);
+            for (var i = 0; i < next.Length; i++)
+            {
+                next[i] = (next[i] - (centre * current[i])) / scale;
+            }
+
+            groups.AccumulateBlock(current, next, mu0, mu1);
+            for (var lane = 0; lane < lanes; lane++)
+            {
+                var mu = result.AsSpan((v0 + lane) * g * moments, g * moments);
+                for (var k = 0; k < g; k++)
+                {
+                    mu[k * moments] = mu0[(k * L) + lane];
+                    mu[(k * moments) + 1] = mu1[(k * L) + lane];
+                }
+            }
+
+            var twoOverScale = 2 / scale;
+            for (var step = 1; step < half; step++)
+            {
+                ct.ThrowIfCancellationRequested();
+                (previous, current, next) = (current, next, previous);
+
+                // a_{step+1} = 2 X a_step - a_{step-1}
+                op.ApplyBlock(current, next);
+                resisted.ProjectOutOfBlock(next);
+                for (var i = 0; i < next.Length; i++)
+                {
+                    next[i] = (twoOverScale * (next[i] - (centre * current[i]))) - previous[i];
+                }
+
+                groups.AccumulateBlock(current, next, dd, dn);
+                for (var lane = 0; lane < lanes; lane++)
+                {
+                    var mu = result.AsSpan((v0 + lane) * g * moments, g * moments);
+                    for (var k = 0; k < g; k++)
+                    {
+                        var at = (k * L) + lane;
+                        mu[(k * moments) + (2 * step)] = (2 * dd[at]) - mu0[at];
+                        mu[(k * moments) + (2 * step) + 1] = (2 * dn[at]) - mu1[at];
+                    }
                 }
             }
         }
@@ -315,12 +426,17 @@ internal static class RealSpaceKpmSolver
 
         public int Count { get; }
 
-        /// <summary>sums[g] = sum over the group's degrees of freedom of weight u_i w_i.</summary>
-        public void Accumulate(double[] u, double[] w, double[] sums)
+        /// <summary>
+        /// In one pass over the vectors: same[g] = sum over the group's degrees of freedom of weight a_i a_i,
+        /// and cross[g] of weight b_i a_i (the two products each Chebyshev step needs).
+        /// </summary>
+        public void Accumulate(double[] a, double[] b, double[] same, double[] cross)
         {
-            Array.Clear(sums);
+            Array.Clear(same);
+            Array.Clear(cross);
             var c = _components;
-            var total = 0.0;
+            var totalSame = 0.0;
+            var totalCross = 0.0;
             for (var s = 0; s < _basis.Length; s++)
             {
                 var i = s * c;
@@ -328,28 +444,94 @@ internal static class RealSpaceKpmSolver
                 var wb = _msdBasisWeight[s];
                 var ml = _msdLayer[s];
                 var wl = _msdLayerWeight[s];
-                var site = 0.0;
-                for (var a = 0; a < c; a++)
+                var siteSame = 0.0;
+                var siteCross = 0.0;
+                for (var k = 0; k < c; k++)
                 {
-                    var p = u[i + a] * w[i + a];
-                    site += p;
-                    sums[mb + a] += p * wb;
+                    var ak = a[i + k];
+                    var p = ak * ak;
+                    var q = b[i + k] * ak;
+                    siteSame += p;
+                    siteCross += q;
+                    same[mb + k] += p * wb;
+                    cross[mb + k] += q * wb;
                     if (ml >= 0)
                     {
-                        sums[ml + a] += p * wl;
+                        same[ml + k] += p * wl;
+                        cross[ml + k] += q * wl;
                     }
                 }
 
-                total += site;
-                sums[_basis[s]] += site;
+                totalSame += siteSame;
+                totalCross += siteCross;
+                same[_basis[s]] += siteSame;
+                cross[_basis[s]] += siteCross;
                 var l = _layer[s];
                 if (l >= 0)
                 {
-                    sums[l] += site;
+                    same[l] += siteSame;
+                    cross[l] += siteCross;
                 }
             }
 
-            sums[0] = total;
+            same[0] = totalSame;
+            cross[0] = totalCross;
+        }
+
+        /// <summary><see cref="Accumulate"/> for a block of interleaved vectors: sums[4 g + lane], each lane as the one-vector sums.</summary>
+        public void AccumulateBlock(double[] a, double[] b, double[] same, double[] cross)
+        {
+            const int L = RealSpaceOperator.BlockLanes;
+            Array.Clear(same);
+            Array.Clear(cross);
+            var c = _components;
+            var totalSame = Vector256<double>.Zero;
+            var totalCross = Vector256<double>.Zero;
+            for (var s = 0; s < _basis.Length; s++)
+            {
+                var i = s * c;
+                var mb = _msdBasis[s];
+                var wb = _msdBasisWeight[s];
+                var ml = _msdLayer[s];
+                var wl = _msdLayerWeight[s];
+                var siteSame = Vector256<double>.Zero;
+                var siteCross = Vector256<double>.Zero;
+                for (var k = 0; k < c; k++)
+                {
+                    var ak = Vector256.Create(a.AsSpan((i + k) * L, L));
+                    var p = ak * ak;
+                    var q = Vector256.Create(b.AsSpan((i + k) * L, L)) * ak;
+                    siteSame += p;
+                    siteCross += q;
+                    AddTo(same, mb + k, p * wb);
+                    AddTo(cross, mb + k, q * wb);
+                    if (ml >= 0)
+                    {
+                        AddTo(same, ml + k, p * wl);
+                        AddTo(cross, ml + k, q * wl);
+                    }
+                }
+
+                totalSame += siteSame;
+                totalCross += siteCross;
+                AddTo(same, _basis[s], siteSame);
+                AddTo(cross, _basis[s], siteCross);
+                var l = _layer[s];
+                if (l >= 0)
+                {
+                    AddTo(same, l, siteSame);
+                    AddTo(cross, l, siteCross);
+                }
+            }
+
+            totalSame.CopyTo(same.AsSpan(0, L));
+            totalCross.CopyTo(cross.AsSpan(0, L));
+        }
+
+        private static void AddTo(double[] sums, int group, Vector256<double> value)
+        {
+            var at = sums.AsSpan(group * RealSpaceOperator.BlockLanes, RealSpaceOperator.BlockLanes);
+            (Vector256.Create((ReadOnlySpan<double>)at) + value).CopyTo(at);
         }
     }
 }

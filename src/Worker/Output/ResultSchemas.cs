@@ -332,7 +332,7 @@ internal sealed class ResultSchemas
             C<PointOutcome>("surface_sites", ColumnType.Int64, "", "atoms that lost a nearest neighbour to a cut (layer 0)", o => F(o)?.SurfaceSites),
             C<PointOutcome>("interior_sites", ColumnType.Int64, "", "the other atoms", o => F(o)?.InteriorSites),
             C<PointOutcome>("layer_count", ColumnType.Int32, "", "layers below the surface (nearest-neighbour hops; 0 without a surface)", o => F(o)?.LayerCount),
-            C<PointOutcome>("rigid_rotations", ColumnType.Int32, "", "rigid rotations among the rigid-body modes (3 for a free cluster, 1 for a wire)", o => F(o)?.RigidRotations),
+            C<PointOutcome>("rigid_rotations", ColumnType.Int32, "", "rigid rotations among the rigid-body modes (3 for a free cluster, 1 for a wire or an in-plane flake)", o => F(o)?.RigidRotations),
             C<PointOutcome>("rotation_defect_thz", ColumnType.Double, "THz", "frequency the rigid rotations would have if not projected out (0 for rotationally invariant springs)", o => F(o)?.RotationDefectThz),
             C<PointOutcome>("confinement_gap_thz", ColumnType.Double, "THz", "lowest frequency above the zero modes", o => F(o)?.ConfinementGapThz),
             C<PointOutcome>("surface_mode_fraction", ColumnType.Double, "1", "fraction of non-zero modes with at least surface_weight_threshold of their weight on surface atoms", o => F(o)?.SurfaceModeFraction),

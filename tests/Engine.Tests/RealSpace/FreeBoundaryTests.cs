@@ -130,6 +130,31 @@ public sealed class FreeBoundaryTests
         Assert.True(result.Surface!.RotationDefectThz > 0.01, $"rotation defect {result.Surface.RotationDefectThz} THz");
     }
 
+    [Theory]
+    [InlineData(0.0)]
+    [InlineData(1.0)]
+    public void A_flake_with_in_plane_motion_has_two_translations_and_its_turn_in_the_plane(double transverse)
+    {
+        // In-plane motion: the rigid motions are two translations and the rotation about the normal.
+        // Central springs leave the turn free (an exact zero, not a floppy mode); transverse springs
+        // resist it, so it is projected out and its frequency reported, as for a 3D cluster.
+        var model = CrystalModel.Create(Lattice.Square(0.3), [new Site("A", "A", Vec3.Zero, 20)],
+            [new ShellSpring("A", "A", 1, 10, transverse), new ShellSpring("A", "A", 2, 4, 0)], degreesOfFreedom: DegreesOfFreedom.InPlane);
+        var result = PhononSolver.Solve(model, RealSpaceSample.Sphere(1.0, dimension: 2), Options);
+        Assert.Equal(3, result.Summary.RigidModesExcluded);
+        Assert.Equal(3, result.Summary.ZeroModesExcluded);
+        Assert.Equal(1, result.Surface!.RigidRotations);
+        Assert.Equal(3, result.Modes[0].Multiplicity);
+        if (transverse == 0)
+        {
+            Assert.Equal(0.0, result.Surface.RotationDefectThz);
+        }
+        else
+        {
+            Assert.True(result.Surface.RotationDefectThz > 0.01, $"rotation defect {result.Surface.RotationDefectThz} THz");
+        }
+    }
+
     [Fact]
     public void A_free_straight_chain_has_three_translations_and_two_rotations()
     {

@@ -1,6 +1,8 @@
+using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Springs;
 using LatticeSweep.Engine.Tests.Support;
 
 namespace LatticeSweep.Engine.Tests.RealSpace;
@@ -86,6 +88,30 @@ public sealed class KernelPolynomialTests
         var q = Math.PI / 9;
         Approx.Equal((2 * Math.Cos(7 * q) + Math.Sin(7 * q) / Math.Tan(q)) / 9, g[7], 1e-14, "g_7");
         Assert.True(g.Zip(g.Skip(1)).All(p => p.First >= p.Second), "the kernel falls monotonically");
+    }
+
+    [Fact]
+    public void A_flake_with_in_plane_motion_matches_its_dense_solution_within_the_reported_error()
+    {
+        // Two components per site: an invented square sheet with in-plane motion, cut to a disc of 317 atoms.
+        var model = CrystalModel.Create(Lattice.Square(0.3), [new Site("A", "A", Vec3.Zero, 20)],
+            [new ShellSpring("A", "A", 1, 10, 1), new ShellSpring("A", "A", 2, 4, 0)], degreesOfFreedom: DegreesOfFreedom.InPlane);
+        var disc = RealSpaceSample.Sphere(3.0, dimension: 2);
+        var dense = PhononSolver.Solve(model, disc with { Method = RealSpaceMethod.Dense }, Options);
+        var kpm = PhononSolver.Solve(model, disc with
+        {
+            Method = RealSpaceMethod.KernelPolynomial,
+            Kpm = new KpmSettings { Moments = 1024, RandomVectors = 16, Seed = 3 },
+        }, Options);
+
+        Assert.Equal(3, kpm.Summary.RigidModesExcluded); // two translations and the turn in the plane
+        for (var t = 0; t < Options.TemperaturesK.Length; t++)
+        {
+            Within(dense.Thermal[t].HeatCapacityJPerMolK, kpm.Thermal[t].HeatCapacityJPerMolK, kpm.Errors!.Thermal[t].HeatCapacityJPerMolK, 2e-4, $"Cv({Options.TemperaturesK[t]} K)");
+        }
+
+        var width = kpm.Dos.FrequencyThz[1] - kpm.Dos.FrequencyThz[0];
+        Approx.Equal(2.0, kpm.Dos.Total.Sum() * width, 2e-3, "integrated DOS (two states per atom)");
     }
 
     private static void Within(double expected, double actual, double standardError, double relativeSystematic, string what)
