@@ -3,6 +3,7 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Numerics.Simd;
 
 namespace LatticeSweep.Engine.Spectrum;
 
@@ -48,6 +49,13 @@ internal sealed partial class DynamicalMatrix
     /// <param name="Forward">Row a of the scaled tensor as interleaved pairs (K_ab, K_ab), b = 0 .. c - 1.</param>
     /// <param name="Backward">Row a of its transpose, as (K_ba, -K_ba): times (cos, sin) these are the
     /// reverse coupling's (re, im) terms, K_ba cos and -K_ba sin (the same bits as subtracting K_ba sin).</param>
+    /// <summary>
+    /// <see cref="AddPair"/> adds rows with vectors (where 256-bit vectors run natively and
+    /// <c>LATSWEEP_SIMD_WIDTH</c> is not <c>scalar</c>) or element by element: the same bits either
+    /// way. Settable for tests, which compare the two.
+    /// </summary>
+    internal bool VectorRows { get; set; } = Vector256.IsHardwareAccelerated && SimdWidths.Active != SimdWidth.Scalar;
+
     private sealed record ScaledPair(int I, int J, Vec3 SeparationM, double[] Tensor, double[] Forward, double[] Backward);
 
     public int Size => _crystal.Size;
@@ -163,7 +171,7 @@ internal sealed partial class DynamicalMatrix
     /// </summary>
     private void AddPair(Span<double> d, ScaledPair p, double sin, double cos)
     {
-        if (!Vector256.IsHardwareAccelerated)
+        if (!VectorRows)
         {
             AddPairScalar(d, p, sin, cos);
             return;
