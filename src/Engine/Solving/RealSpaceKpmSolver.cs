@@ -36,9 +36,9 @@ internal static class RealSpaceKpmSolver
 
     /// <summary>
     /// Bytes per atom (3D motion): the block's indices and tensors per site, six vectors of the
-    /// recursion, four more of four lanes each when it runs in blocks (<see cref="BlocksByDefault"/>), the groups.
+    /// recursion, four more of four lanes each when it runs in blocks (<paramref name="blocked"/>), the groups.
     /// </summary>
-    public static long BytesPerAtom(int springsPerSite) => (8L * springsPerSite) + (3 * 8 * 8) + (BlocksByDefault ? 4 * RealSpaceOperator.BlockLanes * 3 * 8 : 0) + 72 + 100;
+    public static long BytesPerAtom(int springsPerSite, bool blocked) => (8L * springsPerSite) + (3 * 8 * 8) + (blocked ? 4 * RealSpaceOperator.BlockLanes * 3 * 8 : 0) + 72 + 100;
 
     /// <summary>True when the recursion runs four random vectors at once in 256-bit lanes (AVX2, and no <c>LATSWEEP_SIMD_WIDTH=scalar</c>).</summary>
     public static bool BlocksByDefault => Vector256.IsHardwareAccelerated && SimdWidths.Active != SimdWidth.Scalar;

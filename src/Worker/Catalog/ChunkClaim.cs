@@ -22,5 +22,5 @@ public enum ChunkDecision
 /// <see cref="SweepStarted"/> is true when this chunk moved the sweep from queued to running.
 public sealed record ChunkClaim(ChunkDecision Decision, ImmutableArray<ClaimedPoint> Points, bool SweepStarted = false);
 
-/// <summary>A point handed to a worker; <see cref="Attempt"/> counts from 1.</summary>
-public sealed record ClaimedPoint(string PointId, int Attempt);
+/// <summary>A point handed to a worker; <see cref="Attempt"/> counts from 1; <see cref="Index"/> is its position in the plan (-1 when not known).</summary>
+public sealed record ClaimedPoint(string PointId, int Attempt, int Index = -1);

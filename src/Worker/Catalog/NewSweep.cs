@@ -16,7 +16,45 @@ public sealed record NewSweep
     public required ImmutableArray<AxisInfo> Axes { get; init; }
     public required ImmutableArray<string> Tables { get; init; }
     public required string EngineVersion { get; init; }
-    public required ImmutableArray<NewPoint> Points { get; init; }
+    /// <summary>Every point in plan order; may be computed as it is read (<see cref="ComputedList{T}"/>), so a million points need not be held at once.</summary>
+    public required IReadOnlyList<NewPoint> Points { get; init; }
+
+    /// <summary>
+    /// Positions in <see cref="Points"/> in the order to insert them, when the caller has them: by
+    /// point id, so the catalog's primary-key index fills from one end instead of at random places
+    /// (a million random inserts spill the database's page cache over and over). Null: list order.
+    /// </summary>
+    public IReadOnlyList<int>? InsertOrder { get; init; }
+
+    /// <summary>Number of distinct chunks among <see cref="Points"/>, when the caller knows it (else counted from the points).</summary>
+    public int? ChunkCount { get; init; }
+}
+
+/// <summary>A read-only list whose items are made from their index when read.</summary>
+public sealed class ComputedList<T> : IReadOnlyList<T>
+{
+    private readonly Func<int, T> _item;
+
+    public ComputedList(int count, Func<int, T> item)
+    {
+        ArgumentOutOfRangeException.ThrowIfNegative(count);
+        Count = count;
+        _item = item;
+    }
+
+    public int Count { get; }
+
+    public T this[int index] => (uint)index < (uint)Count ? _item(index) : throw new ArgumentOutOfRangeException(nameof(index));
+
+    public IEnumerator<T> GetEnumerator()
+    {
+        for (var i = 0; i < Count; i++)
+        {
+            yield return _item(i);
+        }
+    }
+
+    System.Collections.IEnumerator System.Collections.IEnumerable.GetEnumerator() => GetEnumerator();
 }
 
 /// <summary>One point to register.</summary>

@@ -61,16 +61,8 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     public bool Register(NewSweep sweep)
     {
         ArgumentNullException.ThrowIfNull(sweep);
-        var seen = new HashSet<string>(sweep.Points.Length, StringComparer.Ordinal);
-        foreach (var point in sweep.Points)
-        {
-            if (!seen.Add(point.PointId))
-            {
-                throw new ArgumentException($"the plan has point id {point.PointId} more than once", nameof(sweep));
-            }
-        }
 
-        seen = null;
+        // A point id twice is refused by the points' primary key (the whole registration rolls back).
         using var c = Open();
         BeforeBulkInsert(c);
         using var tx = c.BeginTransaction();
@@ -83,27 +75,38 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             ("id", sweep.SweepId), ("name", sweep.Name), ("description", sweep.Description), ("state", Text(SweepState.Queued)),
             ("hash", sweep.SpecHash), ("source", sweep.SourcePath), ("spec", sweep.SpecText), ("out", sweep.OutputFolder),
             ("axes", CatalogJson.WriteAxes(sweep.Axes)), ("tables", string.Join(',', sweep.Tables)), ("engine", sweep.EngineVersion),
-            ("now", Ms(_time.GetUtcNow())), ("points", (long)sweep.Points.Length),
-            ("chunks", (long)sweep.Points.Select(p => p.ChunkId).Distinct(StringComparer.Ordinal).Count()));
+            ("now", Ms(_time.GetUtcNow())), ("points", (long)sweep.Points.Count),
+            ("chunks", (long)(sweep.ChunkCount ?? sweep.Points.Select(p => p.ChunkId).Distinct(StringComparer.Ordinal).Count())));
         if (inserted == 0)
         {
             tx.Rollback();
             return false;
         }
 
+        var waiting = Text(PointState.Waiting);
+        InsertPoints(c, tx, sweep, waiting);
+        AddCountChange(c, tx, sweep.SweepId, new Dictionary<string, long>(), new Dictionary<string, long> { [waiting] = sweep.Points.Count });
+        tx.Commit();
+        return true;
+    }
+
+    /// <summary>Inserts every point of <paramref name="sweep"/> as waiting, inside the registration's transaction.</summary>
+    protected virtual void InsertPoints(DbConnection c, DbTransaction tx, NewSweep sweep, string waiting)
+    {
+        ArgumentNullException.ThrowIfNull(sweep);
+
         // Many rows per statement: a statement call costs more than the row it inserts (a million points).
         var rowsPerStatement = PointRowsPerInsert;
-        var waiting = Text(PointState.Waiting);
         DbCommand? full = null;
         try
         {
-            for (var start = 0; start < sweep.Points.Length; start += rowsPerStatement)
+            for (var start = 0; start < sweep.Points.Count; start += rowsPerStatement)
             {
-                var count = Math.Min(rowsPerStatement, sweep.Points.Length - start);
-                var insert = count == rowsPerStatement ? full ??= InsertPoints(c, tx, count) : InsertPoints(c, tx, count);
+                var count = Math.Min(rowsPerStatement, sweep.Points.Count - start);
+                var insert = count == rowsPerStatement ? full ??= InsertPointsCommand(c, tx, count) : InsertPointsCommand(c, tx, count);
                 for (var i = 0; i < count; i++)
                 {
-                    var point = sweep.Points[start + i];
+                    var point = sweep.Points[sweep.InsertOrder is { } order ? order[start + i] : start + i];
                     var p = insert.Parameters;
                     p[(i * 6) + 0].Value = sweep.SweepId;
                     p[(i * 6) + 1].Value = point.PointId;
@@ -124,13 +127,10 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         {
             full?.Dispose();
         }
-
-        AddCountChange(c, tx, sweep.SweepId, new Dictionary<string, long>(), new Dictionary<string, long> { [waiting] = sweep.Points.Length });
-        tx.Commit();
-        return true;
     }
 
-    private static DbCommand InsertPoints(DbConnection c, DbTransaction tx, int rows)
+    /// <summary>A prepared INSERT of <paramref name="rows"/> point rows (6 parameters each).</summary>
+    private static DbCommand InsertPointsCommand(DbConnection c, DbTransaction tx, int rows)
     {
         var sql = new System.Text.StringBuilder("INSERT INTO latsweep_points (sweep_id, point_id, point_index, chunk_id, state, parameters_json, attempts) VALUES ");
         var cmd = Command(c, tx, "");
@@ -259,14 +259,14 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             ("running", Text(SweepState.Running)), ("sweep", sweepId), ("done", Text(SweepState.Done)), ("failed", Text(SweepState.Failed)));
 
         var claimed = ImmutableArray.CreateBuilder<ClaimedPoint>();
-        using (var cmd = Command(c, tx, "SELECT point_id, attempts FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk ORDER BY point_index"))
+        using (var cmd = Command(c, tx, "SELECT point_id, attempts, point_index FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk ORDER BY point_index"))
         {
             Add(cmd, "sweep", sweepId);
             Add(cmd, "chunk", chunkId);
             using var r = cmd.ExecuteReader();
             while (r.Read())
             {
-                claimed.Add(new ClaimedPoint(r.GetString(0), (int)r.GetInt64(1)));
+                claimed.Add(new ClaimedPoint(r.GetString(0), (int)r.GetInt64(1), (int)r.GetInt64(2)));
             }
         }
 

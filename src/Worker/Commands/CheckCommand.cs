@@ -22,6 +22,7 @@ public static class CheckCommand
         ArgumentNullException.ThrowIfNull(stdout);
         ArgumentNullException.ThrowIfNull(stderr);
         SweepPlan plan;
+        var planning = System.Diagnostics.Stopwatch.StartNew();
         try
         {
             plan = JobFileLoader.Load(jobFile);
@@ -33,7 +34,7 @@ public static class CheckCommand
         }
 
         PrintPlan(plan, stdout);
-        var forecast = PrintEstimate(plan, stdout);
+        var forecast = PrintEstimate(plan, ForecastBudget(planning.Elapsed), stdout);
         return forecast.AllFail ? 2 : 0;
     }
 
@@ -76,17 +77,32 @@ public static class CheckCommand
         table.WriteTo(o, "  ");
     }
 
+    /// <summary>What <c>check</c> aims to answer within, planning and forecast together.</summary>
+    public static readonly TimeSpan AnswerWithin = TimeSpan.FromSeconds(4);
+
+    /// <summary>
+    /// The forecast's time: <see cref="SweepForecast.DefaultBudget"/>, cut so that planning and forecast
+    /// together stay within <see cref="AnswerWithin"/> (a sweep of millions of points takes seconds to
+    /// plan), but never under one second: the sample is then still tens of thousands of points.
+    /// </summary>
+    public static TimeSpan ForecastBudget(TimeSpan planning)
+    {
+        var left = AnswerWithin - planning;
+        var budget = left < SweepForecast.DefaultBudget ? left : SweepForecast.DefaultBudget;
+        return budget < TimeSpan.FromSeconds(1) ? TimeSpan.FromSeconds(1) : budget;
+    }
+
     /// <summary>
     /// Every point evaluated without its spectrum (<see cref="SweepForecast"/>): which will fail and
     /// why, floppy models, the elastic fit, the estimated compute time (calibrated on this engine),
     /// the costliest point and those above the sweep's warning limit, memory and disk.
     /// </summary>
-    private static ForecastReport PrintEstimate(SweepPlan plan, TextWriter o)
+    private static ForecastReport PrintEstimate(SweepPlan plan, TimeSpan budget, TextWriter o)
     {
         o.WriteLine();
-        var f = SweepForecast.Run(plan, SweepForecast.DefaultBudget);
+        var f = SweepForecast.Run(plan, budget);
         o.WriteLine(f.Sampled
-            ? $"Forecast (points checked without solving them; the {f.Budget.TotalSeconds:0} s budget ran out after {N(f.Evaluated)} of {N(f.Total)} points, a sample spread over the plan: the counts below are for that sample, totals scaled to the plan):"
+            ? $"Forecast (points checked without solving them; the {f.Budget.TotalSeconds:0.#} s budget ran out after {N(f.Evaluated)} of {N(f.Total)} points, a sample spread over the plan: the counts below are for that sample, totals scaled to the plan):"
             : $"Forecast (every point checked without solving it: {N(f.Total)} points, {N(f.DistinctModels)} distinct model(s), {f.Elapsed.TotalSeconds:0.0} s):");
         if (f.WillFail > 0)
         {

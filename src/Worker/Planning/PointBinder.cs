@@ -18,12 +18,15 @@ public static class PointBinder
     }
 
     /// <summary>The point's spec: each swept column applied to the template in field order (cheap: a few record copies).</summary>
-    internal static BoundSpec Apply(JobTemplate template, PlannedPoint point)
+    internal static BoundSpec Apply(JobTemplate template, PlannedPoint point) => Apply(template, point.Parameters);
+
+    /// <summary>The spec of a point with these <paramref name="parameters"/>.</summary>
+    internal static BoundSpec Apply(JobTemplate template, PointParameters parameters)
     {
         var spec = template.Base;
         foreach (var binding in template.Bindings)
         {
-            if (point.Parameters.TryGetValue(binding.Column, out var value))
+            if (parameters.TryGetValue(binding.Column, out var value))
             {
                 spec = binding.Field.Apply(spec, value);
             }

@@ -42,6 +42,9 @@ public sealed class PointParameters : IReadOnlyDictionary<string, object>
 
     public int Count => _columns.Length;
 
+    /// <summary>The value of the <paramref name="i"/>-th column in ordinal column order.</summary>
+    internal object ValueAt(int i) => _values[i];
+
     public bool ContainsKey(string key) => Array.BinarySearch(_columns, key, StringComparer.Ordinal) >= 0;
 
     public bool TryGetValue(string key, [MaybeNullWhen(false)] out object value)

@@ -15,7 +15,7 @@ public sealed record SweepPlan
     public required string SourcePath { get; init; }
     public required string SpecText { get; init; }
     public required ImmutableArray<AxisInfo> Axes { get; init; }
-    public required ImmutableArray<PlannedPoint> Points { get; init; }
+    public required PlanPoints Points { get; init; }
     public required OutputSelection Outputs { get; init; }
     public required JobTemplate Template { get; init; }
 

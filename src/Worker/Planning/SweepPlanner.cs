@@ -73,20 +73,24 @@ internal static class SweepPlanner
             .ToImmutableArray();
         var template = new JobTemplate(baseSpec, options, bindings);
 
-        var points = Expand(document, sweep, candidates, axes, columns, template, options, problems, out var duplicates);
+        var expansion = new IndexedExpansion(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes);
+        var (keys, kept, duplicates) = Expand(document, expansion, columns, template, options, problems);
         problems.ThrowIfAny();
 
-        var axisInfos = columns.Select(c => new AxisInfo(
+        var order = ColumnOrder(columns);
+        var names = order.Select(j => columns[j].Column).ToArray();
+        var points = new PlanPoints(keys, kept, k => Parameters(expansion, order, names, k));
+        var axisInfos = columns.Select((c, j) => new AxisInfo(
             c.Path,
             c.Column,
             c.Unit,
             c.ValueType,
-            [.. points.Select(p => p.Parameters[c.Column]).Distinct()])).ToImmutableArray();
+            [.. DistinctValues(expansion, kept, keys.Length, j, sweep.Combine)])).ToImmutableArray();
 
         var specHash = PointIdentity.Hash(
             "name=" + sweep.Name + "\ncombine=" + CombineNames[sweep.Combine] + "\ncandidates=" + (candidateTable?.ContentHash ?? "-") + "\n"
             + CanonicalSpec.Write(baseSpec, options),
-            points.Select(p => p.PointId));
+            keys);
 
         return new SweepPlan
         {
@@ -106,88 +110,153 @@ internal static class SweepPlanner
         };
     }
 
-    private static ImmutableArray<PlannedPoint> Expand(
+    /// <summary>Columns in ordinal name order (a point's <see cref="PointParameters"/> order), as indices into <paramref name="columns"/>.</summary>
+    private static int[] ColumnOrder(IReadOnlyList<PlanAxis> columns) =>
+        [.. Enumerable.Range(0, columns.Count).OrderBy(j => columns[j].Column, StringComparer.Ordinal)];
+
+    private static PointParameters Parameters(IndexedExpansion expansion, int[] order, string[] names, long k)
+    {
+        var values = new object[order.Length];
+        expansion.Fill(k, values);
+        var sorted = new object[order.Length];
+        for (var j = 0; j < order.Length; j++)
+        {
+            sorted[j] = values[order[j]];
+        }
+
+        return new PointParameters(names, sorted);
+    }
+
+    /// <summary>
+    /// A column's values in order of first appearance over the kept points. In a grid where no
+    /// point was left out an axis shows every value in file order, so it is not scanned.
+    /// </summary>
+    private static IEnumerable<object> DistinctValues(IndexedExpansion expansion, int[]? kept, int count, int column, CombineMode mode)
+    {
+        if (mode == CombineMode.Grid && kept is null && count > 0 && expansion.AxisOfColumn(column) is { } axis)
+        {
+            return axis.Values;
+        }
+
+        var values = new object[expansion.Columns];
+        return Enumerable.Range(0, count).Select(i =>
+        {
+            expansion.Fill(kept is null ? i : kept[i], values);
+            return values[column];
+        }).Distinct();
+    }
+
+    /// <summary>
+    /// Every point's spec applied and checked, its interaction terms checked and its id computed, in
+    /// blocks computed on every core and then taken in plan order. Returns the kept points' id keys,
+    /// their expansion positions when some were collapsed as duplicates (else null), and how many were.
+    /// </summary>
+    private static (ulong[] Keys, int[]? Kept, int Duplicates) Expand(
         TomlDocument document,
-        SweepDeclaration sweep,
-        CandidateBlock? candidates,
-        IReadOnlyList<PlanAxis> axes,
+        IndexedExpansion expansion,
         IReadOnlyList<PlanAxis> columns,
         JobTemplate template,
         SolveOptions options,
-        ProblemCollector problems,
-        out int duplicates)
+        ProblemCollector problems)
     {
-        var points = new List<PlannedPoint>();
-        var seen = new HashSet<string>(StringComparer.Ordinal);
+        var total = (int)expansion.Count;
+        var keys = new ulong[total];
+        List<int>? kept = null;
+        var keptCount = 0;
+        var seen = new HashSet<ulong>();
 
-        // Every point's values in ordinal column order, under one shared array of column names.
-        var order = Enumerable.Range(0, columns.Count).OrderBy(j => columns[j].Column, StringComparer.Ordinal).ToArray();
+        var order = ColumnOrder(columns);
         var names = order.Select(j => columns[j].Column).ToArray();
+        // Ids hash "name=value" lines in ordinal order of the names without the axis_ prefix.
+        var byIdentity = Enumerable.Range(0, names.Length).OrderBy(j => SweptColumnNames.IdentityName(names[j]), StringComparer.Ordinal).ToArray();
+        var identityNames = byIdentity.Select(j => SweptColumnNames.IdentityName(names[j])).ToArray();
         var badCombinations = new List<string>();
         var badCount = 0;
         var interactionProblems = new List<(string Key, string Message)>();
         var interactionSeen = new HashSet<(string, string)>();
         var interactionCount = 0;
-        duplicates = 0;
-        // Each point's spec, checks and id hash are independent: computed on every core, in plan order.
-        var computed = SweepExpansion.Expand(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes)
-            .AsParallel().AsOrdered()
-            .Select(values =>
-            {
-                var sorted = new object[order.Length];
-                for (var k = 0; k < order.Length; k++)
-                {
-                    sorted[k] = values[order[k]];
-                }
+        var duplicates = 0;
 
-                var parameters = new PointParameters(names, sorted);
-                var spec = PointBinder.Apply(template, new PlannedPoint("", 0, parameters));
+        const int blockSize = 1 << 14;
+        var blockKeys = new ulong[Math.Min(blockSize, Math.Max(1, total))];
+        var blockWrong = new string?[blockKeys.Length];
+        var blockFound = new IReadOnlyList<ModelProblem>?[blockKeys.Length];
+        for (var start = 0; start < total; start += blockSize)
+        {
+            var n = Math.Min(blockSize, total - start);
+            Array.Clear(blockWrong);
+            Array.Clear(blockFound);
+
+            // Each point's spec, checks and id hash are independent: computed on every core.
+            Parallel.For(start, start + n, k =>
+            {
+                var parameters = Parameters(expansion, order, names, k);
+                var spec = PointBinder.Apply(template, parameters);
+                var i = k - start;
                 if (SpecChecks.Check(spec) is { } wrong)
                 {
-                    return (Parameters: parameters, Wrong: wrong, Found: (IReadOnlyList<ModelProblem>)[], Id: "");
+                    blockWrong[i] = wrong;
+                    return;
                 }
 
                 var found = InteractionProblems.Of(spec);
-                return found.Count > 0
-                    ? (Parameters: parameters, Wrong: (string?)null, Found: found, Id: "")
-                    : (Parameters: parameters, Wrong: (string?)null, Found: found, Id: PointIdentity.PointId(CanonicalSpec.Write(spec, options),
-                        parameters.Select(p => KeyValuePair.Create(SweptColumnNames.IdentityName(p.Key), p.Value))));
+                if (found.Count > 0)
+                {
+                    blockFound[i] = found;
+                    return;
+                }
+
+                var byName = new object[byIdentity.Length];
+                for (var j = 0; j < byIdentity.Length; j++)
+                {
+                    byName[j] = parameters.ValueAt(byIdentity[j]);
+                }
+
+                blockKeys[i] = PointIdentity.PointKey(CanonicalSpec.Write(spec, options), identityNames, byName);
             });
-        foreach (var (parameters, wrong, found, id) in computed)
-        {
-            if (wrong is not null)
-            {
-                badCount++;
-                if (badCombinations.Count < MaxPointProblemsShown)
-                {
-                    badCombinations.Add($"{wrong} (at {Describe(parameters)})");
-                }
 
-                continue;
-            }
-
-            if (found.Count > 0)
+            for (var i = 0; i < n; i++)
             {
-                interactionCount++;
-                foreach (var p in found)
+                var k = start + i;
+                if (blockWrong[i] is { } wrong)
                 {
-                    var message = parameters.Count == 0 ? p.Message : $"{p.Message} (at {Describe(parameters)})";
-                    if (interactionProblems.Count < MaxPointProblemsShown && interactionSeen.Add((p.Where, p.Message)))
+                    badCount++;
+                    if (badCombinations.Count < MaxPointProblemsShown)
                     {
-                        interactionProblems.Add(("model." + p.Where, message));
+                        badCombinations.Add($"{wrong} (at {Describe(Parameters(expansion, order, names, k))})");
                     }
+
+                    Skip(ref kept, keptCount);
+                    continue;
                 }
 
-                continue;
-            }
+                if (blockFound[i] is { } found)
+                {
+                    interactionCount++;
+                    var parameters = Parameters(expansion, order, names, k);
+                    foreach (var p in found)
+                    {
+                        var message = parameters.Count == 0 ? p.Message : $"{p.Message} (at {Describe(parameters)})";
+                        if (interactionProblems.Count < MaxPointProblemsShown && interactionSeen.Add((p.Where, p.Message)))
+                        {
+                            interactionProblems.Add(("model." + p.Where, message));
+                        }
+                    }
 
-            if (!seen.Add(id))
-            {
-                duplicates++;
-                continue;
-            }
+                    Skip(ref kept, keptCount);
+                    continue;
+                }
 
-            points.Add(new PlannedPoint(id, points.Count, parameters));
+                if (!seen.Add(blockKeys[i]))
+                {
+                    duplicates++;
+                    Skip(ref kept, keptCount);
+                    continue;
+                }
+
+                keys[keptCount++] = blockKeys[i];
+                kept?.Add(k);
+            }
         }
 
         foreach (var (key, message) in interactionProblems)
@@ -210,8 +279,16 @@ internal static class SweepPlanner
             problems.Add(new SourceLocation(1, 1), "sweep.axes", $"... and {Show(badCount - badCombinations.Count)} more point(s) with invalid combinations of values");
         }
 
-        return [.. points];
+        if (keptCount < total)
+        {
+            Array.Resize(ref keys, keptCount);
+        }
+
+        return (keys, kept?.ToArray(), duplicates);
     }
+
+    /// <summary>A point is left out: from now on the kept points' expansion positions are listed.</summary>
+    private static void Skip(ref List<int>? kept, int keptCount) => kept ??= [.. Enumerable.Range(0, keptCount)];
 
     private static List<PlanAxis> ResolveAxes(SweepDeclaration sweep, FieldCatalog catalog, ProblemCollector problems)
     {

@@ -46,13 +46,31 @@ public sealed record ChunkPlanner(double TargetSeconds, int MaxPointsPerChunk)
     {
         ArgumentNullException.ThrowIfNull(points);
         ArgumentNullException.ThrowIfNull(estimateSeconds);
-        var result = new List<(PlannedPoint, string)>(points.Count);
-        var chunk = 0;
+        var ordered = points.OrderBy(p => p.Index).ToList();
+        var starts = ChunkStarts(ordered.Count, i => estimateSeconds(ordered[i]));
+        var result = new List<(PlannedPoint, string)>(ordered.Count);
+        for (var i = 0; i < ordered.Count; i++)
+        {
+            result.Add((ordered[i], ChunkId(ChunkOf(starts, i))));
+        }
+
+        return result;
+    }
+
+    /// <summary>
+    /// The first position of each chunk when <paramref name="count"/> points in plan order are
+    /// chunked (chunk k holds positions starts[k] to starts[k + 1] - 1): the same chunks as
+    /// <see cref="Assign"/>, without a list entry per point. <paramref name="estimateSeconds"/> may return NaN.
+    /// </summary>
+    public int[] ChunkStarts(int count, Func<int, double> estimateSeconds)
+    {
+        ArgumentNullException.ThrowIfNull(estimateSeconds);
+        var starts = new List<int>();
         var inChunk = 0;
         var seconds = 0.0;
-        foreach (var point in points.OrderBy(p => p.Index))
+        for (var i = 0; i < count; i++)
         {
-            var estimate = estimateSeconds(point);
+            var estimate = estimateSeconds(i);
             if (!double.IsFinite(estimate) || estimate < 0)
             {
                 estimate = TargetSeconds;
@@ -60,18 +78,25 @@ public sealed record ChunkPlanner(double TargetSeconds, int MaxPointsPerChunk)
 
             estimate += BatchSecondsPerPoint;
 
-            if (inChunk > 0 && (inChunk >= MaxPointsPerChunk || seconds + estimate > TargetSeconds))
+            if (inChunk == 0 || inChunk >= MaxPointsPerChunk || seconds + estimate > TargetSeconds)
             {
-                chunk++;
+                starts.Add(i);
                 inChunk = 0;
                 seconds = 0;
             }
 
-            result.Add((point, ChunkId(chunk)));
             inChunk++;
             seconds += estimate;
         }
 
-        return result;
+        return [.. starts];
+    }
+
+    /// <summary>The chunk number of position <paramref name="position"/> under <paramref name="starts"/> (from <see cref="ChunkStarts"/>).</summary>
+    public static int ChunkOf(int[] starts, int position)
+    {
+        ArgumentNullException.ThrowIfNull(starts);
+        var k = Array.BinarySearch(starts, position);
+        return k >= 0 ? k : ~k - 1;
     }
 }

@@ -1,4 +1,3 @@
-using System.Runtime.CompilerServices;
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Results;
 using LatticeSweep.Worker.Catalog;
@@ -22,8 +21,6 @@ namespace LatticeSweep.Worker.Queue;
 /// </remarks>
 public sealed class ChunkRunner
 {
-    private static readonly ConditionalWeakTable<SweepPlan, Dictionary<string, PlannedPoint>> PointIndex = [];
-
     private readonly ISweepCatalog _catalog;
     private readonly IPlanSource _plans;
     private readonly IPointSolver _solver;
@@ -229,7 +226,6 @@ public sealed class ChunkRunner
             _log.Error("Chunk {ChunkId} of sweep {SweepId} cannot run: {Reason}", chunkId, sweep.SweepId, ex.Message);
         }
 
-        var index = plan is null ? null : PointIndex.GetValue(plan, p => p.Points.ToDictionary(x => x.PointId, StringComparer.Ordinal));
         var catalogPoints = plan is null ? _catalog.GetChunkPoints(sweep.SweepId, chunkId).ToDictionary(p => p.PointId, StringComparer.Ordinal) : null;
         foreach (var claimed in claim.Points)
         {
@@ -237,9 +233,9 @@ public sealed class ChunkRunner
             var started = _time.GetUtcNow();
             var clock = _time.GetTimestamp();
             PlannedPoint? point = null;
-            if (index is not null)
+            if (plan is not null && plan.Points.TryFind(claimed.PointId, claimed.Index, out var found))
             {
-                index.TryGetValue(claimed.PointId, out point);
+                point = found;
             }
 
             if (plan is null || point is null)

@@ -47,10 +47,14 @@ public sealed class SweepSubmitter
 
         var folder = SweepFolder.For(outputRoot, sweepId);
         OutputFolderCheck.EnsureWritable(folder);
-        IReadOnlyList<(PlannedPoint Point, string ChunkId)> assigned;
+        int[] chunkStarts;
+        var points = plan.Points;
         using (StageTimings.Measure("submit: estimate and chunk"))
         {
-            assigned = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).Assign(plan.Points, p => _solver.EstimateSeconds(plan, p));
+            // Each estimate binds its point's model: independent, so on every core; chunked in plan order after.
+            var seconds = new double[points.Count];
+            Parallel.For(0, points.Count, i => seconds[i] = _solver.EstimateSeconds(plan, points[i]));
+            chunkStarts = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).ChunkStarts(points.Count, i => seconds[i]);
         }
 
         var sweep = new NewSweep
@@ -65,7 +69,11 @@ public sealed class SweepSubmitter
             Axes = plan.Axes,
             Tables = [.. TableNames.For(plan.Outputs)],
             EngineVersion = _solver.EngineVersion,
-            Points = [.. assigned.Select(a => new NewPoint(a.Point.PointId, a.Point.Index, a.ChunkId, a.Point.Parameters))],
+            // Made as the catalog reads them: a million points are never held at once.
+            Points = new ComputedList<NewPoint>(points.Count, i =>
+                new NewPoint(points.IdAt(i), i, ChunkPlanner.ChunkId(ChunkPlanner.ChunkOf(chunkStarts, i)), points.ParametersAt(i))),
+            ChunkCount = chunkStarts.Length,
+            InsertOrder = points.PositionsById(),
         };
         bool registered;
         using (StageTimings.Measure("submit: register"))
@@ -79,7 +87,7 @@ public sealed class SweepSubmitter
             return Resume(_store.Catalog.FindSweep(sweepId)!);
         }
 
-        var chunkIds = assigned.Select(a => a.ChunkId).Distinct(StringComparer.Ordinal).ToList();
+        var chunkIds = Enumerable.Range(0, chunkStarts.Length).Select(ChunkPlanner.ChunkId).ToList();
         using (StageTimings.Measure("submit: enqueue"))
         {
             Enqueue(sweepId, chunkIds);

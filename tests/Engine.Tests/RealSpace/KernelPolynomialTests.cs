@@ -114,6 +114,30 @@ public sealed class KernelPolynomialTests
         Approx.Equal(2.0, kpm.Dos.Total.Sum() * width, 2e-3, "integrated DOS (two states per atom)");
     }
 
+    [Fact]
+    public void A_memory_limit_too_small_for_four_vectors_at_once_runs_one_at_a_time_with_the_same_numbers()
+    {
+        // Between the two memory models: the blocked recursion does not fit, the one-vector one does.
+        var sphere = RealSpaceSample.Sphere(1.2) with
+        {
+            Method = RealSpaceMethod.KernelPolynomial,
+            Kpm = new KpmSettings { Moments = 256, RandomVectors = 5, Seed = 8 },
+        };
+        var roomy = PhononSolver.Solve(Crystals.FccCentral(), sphere, Options);
+        var atoms = roomy.Surface!.AtomCount;
+        var springs = 12;
+        var plain = atoms * RealSpaceKpmSolver.BytesPerAtom(springs, blocked: false);
+        var blocked = atoms * RealSpaceKpmSolver.BytesPerAtom(springs, blocked: true);
+        var tight = PhononSolver.Solve(Crystals.FccCentral(), sphere, Options with { MemoryLimitBytes = (plain + blocked) / 2 });
+        for (var t = 0; t < Options.TemperaturesK.Length; t++)
+        {
+            Assert.Equal(roomy.Thermal[t].HeatCapacityJPerMolK, tight.Thermal[t].HeatCapacityJPerMolK);
+        }
+
+        var refused = Assert.ThrowsAny<Engine.Errors.ModelException>(() => PhononSolver.Solve(Crystals.FccCentral(), sphere, Options with { MemoryLimitBytes = plain / 2 }));
+        Assert.Contains("memory_limit_gib", refused.Message, StringComparison.Ordinal);
+    }
+
     private static void Within(double expected, double actual, double standardError, double relativeSystematic, string what)
     {
         var allowed = (4 * standardError) + (relativeSystematic * Math.Abs(expected));

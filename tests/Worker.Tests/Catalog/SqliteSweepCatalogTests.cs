@@ -36,6 +36,51 @@ public sealed class SqliteSweepCatalogTests : IDisposable
     }
 
     [Fact]
+    public void Points_inserted_in_id_order_read_back_in_plan_order_with_their_chunks_and_parameters()
+    {
+        using var jobs = new TempDirectory();
+        var plan = Some.Load(jobs, Some.ChainJob(sweep: """
+            [[sweep.axes]]
+            path = "model.sites.A.mass_amu"
+            values = [1, 2, 3, 4, 5, 6, 7]
+            [[sweep.axes]]
+            path = "sample.cells"
+            values = [4, 5, 6]
+            """));
+        var order = plan.Points.PositionsById();
+        Assert.NotEqual(Enumerable.Range(0, plan.Points.Count), order); // hash ids: plan order is not id order
+        Assert.Equal(plan.Points.Select(p => p.PointId).Order(StringComparer.Ordinal), order.Select(i => plan.Points[i].PointId));
+
+        var starts = new LatticeSweep.Worker.Queue.ChunkPlanner(1e9, 4).ChunkStarts(plan.Points.Count, _ => 0.1);
+        string ChunkOf(int i) => LatticeSweep.Worker.Queue.ChunkPlanner.ChunkId(LatticeSweep.Worker.Queue.ChunkPlanner.ChunkOf(starts, i));
+        var registered = _catalog.Register(new NewSweep
+        {
+            SweepId = "ordered-00000000",
+            Name = plan.SweepName,
+            Description = "",
+            SpecHash = plan.SpecHash,
+            SourcePath = plan.SourcePath,
+            SpecText = plan.SpecText,
+            OutputFolder = _dir.Combine("out", "ordered"),
+            Axes = plan.Axes,
+            Tables = ["points"],
+            EngineVersion = "9.9.9-test",
+            Points = new ComputedList<NewPoint>(plan.Points.Count, i => new NewPoint(plan.Points.IdAt(i), i, ChunkOf(i), plan.Points.ParametersAt(i))),
+            ChunkCount = starts.Length,
+            InsertOrder = order,
+        });
+
+        Assert.True(registered);
+        Assert.Equal(starts.Length, _catalog.FindSweep("ordered-00000000")!.ChunkCount);
+        var points = _catalog.GetPoints("ordered-00000000", new PointQuery(Limit: int.MaxValue));
+        Assert.Equal(plan.Points.Select(p => (p.PointId, p.Index)), points.Select(p => (p.PointId, p.Index)));
+        Assert.Equal(Enumerable.Range(0, plan.Points.Count).Select(ChunkOf), points.Select(p => p.ChunkId));
+        Assert.Equal(plan.Points.Select(p => (double)p.Parameters["sites_a_mass_amu"]), points.Select(p => (double)p.Parameters["sites_a_mass_amu"]));
+        var claim = _catalog.BeginChunk("ordered-00000000", ChunkOf(4), "test:1");
+        Assert.Equal([4, 5, 6, 7], claim.Points.Select(p => p.Index));
+    }
+
+    [Fact]
     public void Register_twice_keeps_the_first_and_says_so()
     {
         var plan = SomeSweep.Plan();

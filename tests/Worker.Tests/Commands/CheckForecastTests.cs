@@ -163,4 +163,12 @@ public sealed class CheckForecastTests : IDisposable
 
         Assert.Equal(PointCost.Seconds(request.Model, request.Sample, request.Options), EnginePointSolver.Instance.EstimateSeconds(plan, point));
     }
+
+    [Fact]
+    public void The_forecast_gets_three_seconds_or_what_planning_left_of_four_but_at_least_one()
+    {
+        Assert.Equal(TimeSpan.FromSeconds(3), LatticeSweep.Worker.Commands.CheckCommand.ForecastBudget(TimeSpan.FromSeconds(0.2)));
+        Assert.Equal(TimeSpan.FromSeconds(1.5), LatticeSweep.Worker.Commands.CheckCommand.ForecastBudget(TimeSpan.FromSeconds(2.5)));
+        Assert.Equal(TimeSpan.FromSeconds(1), LatticeSweep.Worker.Commands.CheckCommand.ForecastBudget(TimeSpan.FromSeconds(30)));
+    }
 }

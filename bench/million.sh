@@ -1,0 +1,88 @@
+#!/usr/bin/env bash
+# Sweeps of millions of points (issue 13 item 3), ours alone: `check`, `submit` and `status` of a
+# 10^6-point sweep of trivial points (bench/queue/million-points.toml), the dashboard's sweep page
+# and its JSON for it, and `run` of 10^4 and 10^5 trivial points side by side (peak memory should not
+# grow with the number of points). Each command runs as a user runs it, in its own process, under
+# /usr/bin/time -v (wall, user + system CPU, peak RSS); `LATSWEEP_TIMINGS=1` adds the stages.
+# Usage: bench/million.sh [check submit status dashboard run]   (default: all; run takes minutes)
+# Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2).
+set -euo pipefail
+here="$(cd "$(dirname "$0")" && pwd)"
+root="$(dirname "$here")"
+results="${RESULTS:-$here/results/million}"
+steps=("$@")
+[ ${#steps[@]} -eq 0 ] && steps=(check submit status dashboard run)
+workers="${WORKERS:-2}"
+rm -rf "$results" && mkdir -p "$results"
+
+dotnet build "$root/src/Worker/Worker.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
+dotnet build "$root/src/Dashboard/Dashboard.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
+latsweep="$root/src/Worker/bin/Release/net10.0/latsweep"
+job="$here/queue/million-points.toml"
+store="$results/store.db"
+out="$results/results"
+
+# One line per measured command: label, wall s, user s, system s, peak RSS MB, load average.
+measure() {
+  local label="$1"; shift
+  local log="$results/$label.time"
+  local load; load="$(cut -d' ' -f1 /proc/loadavg)"
+  ( cd "$results" && LATSWEEP_TIMINGS=1 /usr/bin/time -v "$@" > "$results/$label.out" 2> "$log" ) || echo "$label: exit code $?"
+  awk -v l="$label" -v load="$load" '
+    /Elapsed \(wall clock\)/ { n = split($NF, t, ":"); w = (n == 3) ? t[1] * 3600 + t[2] * 60 + t[3] : t[1] * 60 + t[2] }
+    /User time/ { u = $NF } /System time/ { s = $NF } /Maximum resident/ { m = $NF / 1024 }
+    END { printf "%-28s %8.2f s wall %7.2f s user %6.2f s sys %7.0f MB peak  (load %s)\n", l, w, u, s, m, load }' "$log" | tee -a "$results/summary.txt"
+  grep -E "^timings:" "$log" | sed 's/^/    /' || true
+}
+
+for step in "${steps[@]}"; do
+  case "$step" in
+    check) measure check-1e6 "$latsweep" check "$job" ;;
+    submit) measure submit-1e6 "$latsweep" submit "$job" --store "$store" --out "$out" ;;
+    status)
+      measure status-list "$latsweep" status --store "$store"
+      measure status-1e6 "$latsweep" status bench-million-points --store "$store" ;;
+    dashboard)
+      # The sweep page and its JSON for the sweep just submitted (its catalog side: no results yet).
+      port=$((20000 + RANDOM % 20000))
+      dotnet "$root/src/Dashboard/bin/Release/net10.0/Dashboard.dll" --store "$store" --out "$out" --port "$port" > "$results/dashboard.log" 2>&1 &
+      pid=$!
+      for _ in $(seq 1 120); do curl -s -o /dev/null "http://127.0.0.1:$port/" && break; sleep 0.5; done
+      id="$(ls "$out" | head -1)"
+      for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots"; do
+        curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}\n" "http://127.0.0.1:$port/$page" | tee -a "$results/summary.txt"
+      done
+      echo "dashboard peak RSS $(awk '/VmHWM/ { print int($2 / 1024) " MB" }' /proc/$pid/status)" | tee -a "$results/summary.txt"
+      kill "$pid"; wait "$pid" 2>/dev/null || true ;;
+    run)
+      for n in ${RUN_POINTS:-10000 100000}; do
+        small=$(( n / 1000 ))
+        awk -v s=$small '/steps = 1000/ && !done { sub(/steps = 1000/, "steps = " s); done = 1 } { print }' "$job" \
+          | sed "s/name = \"bench-million-points\"/name = \"bench-run-$n\"/" > "$results/run-$n.toml"
+        # Peak memory while solving (the high-water mark when the merge's staging folder first appears)
+        # beside the whole run's peak, which includes the merge of the part files at the end.
+        load="$(cut -d' ' -f1 /proc/loadavg)"
+        ( cd "$results" && LATSWEEP_TIMINGS=1 exec /usr/bin/time -v "$latsweep" run "$results/run-$n.toml" --store "$results/run-$n.db" \
+            --out "$results/run-$n" --workers "$workers" > "$results/run-$n.out" 2> "$results/run-$n.time" ) &
+        timer=$!
+        solving_kb=0; child=""
+        while kill -0 "$timer" 2>/dev/null; do
+          [ -z "$child" ] && child="$(cat /proc/$timer/task/$timer/children 2>/dev/null | awk '{print $1}')"
+          if [ -n "$child" ] && ! ls -d "$results/run-$n"/*/.merging >/dev/null 2>&1; then
+            hwm="$(awk '/VmHWM/ {print $2}' /proc/$child/status 2>/dev/null || echo 0)"
+            [ "${hwm:-0}" -gt "$solving_kb" ] && solving_kb="$hwm"
+          fi
+          sleep 0.25
+        done
+        wait "$timer" || echo "run-$n: exit code $?"
+        awk -v l="run-$n" -v load="$load" -v solving="$solving_kb" '
+          /Elapsed \(wall clock\)/ { k = split($NF, t, ":"); w = (k == 3) ? t[1] * 3600 + t[2] * 60 + t[3] : t[1] * 60 + t[2] }
+          /User time/ { u = $NF } /System time/ { s = $NF } /Maximum resident/ { m = $NF / 1024 }
+          END { printf "%-28s %8.2f s wall %7.2f s user %6.2f s sys %7.0f MB peak, %.0f MB peak before the merge  (load %s)\n", l, w, u, s, m, solving / 1024, load }' \
+          "$results/run-$n.time" | tee -a "$results/summary.txt"
+        grep -E "^timings:" "$results/run-$n.time" | sed 's/^/    /' || true
+      done ;;
+    *) echo "unknown step $step"; exit 2 ;;
+  esac
+done
+echo "summary in $results/summary.txt"

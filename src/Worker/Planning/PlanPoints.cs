@@ -1,0 +1,122 @@
+using System.Collections;
+using System.Runtime.CompilerServices;
+
+namespace LatticeSweep.Worker.Planning;
+
+/// <summary>
+/// A plan's points in plan order, made on demand from their position: the parameters from the
+/// axes (<see cref="Expansion.IndexedExpansion"/>), the id from the 8-byte key the planner computed
+/// (the id must be known for the spec hash anyway). A plan of a million points so keeps 8 bytes per
+/// point (4 more where duplicates were collapsed) instead of an object per point. Small lists built
+/// by hand (tests) are kept as they are.
+/// </summary>
+[CollectionBuilder(typeof(PlanPoints), nameof(Create))]
+public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
+{
+    private readonly PlannedPoint[]? _given;
+    private readonly ulong[] _keys;
+    private readonly int[]? _expansionIndex;
+    private readonly Func<long, PointParameters>? _parameters;
+
+    private PlanPoints(PlannedPoint[] given)
+    {
+        _given = given;
+        _keys = [];
+    }
+
+    internal PlanPoints(ulong[] keys, int[]? expansionIndex, Func<long, PointParameters> parameters)
+    {
+        _keys = keys;
+        _expansionIndex = expansionIndex;
+        _parameters = parameters;
+    }
+
+    public static PlanPoints Empty { get; } = new([]);
+
+    public static PlanPoints Create(ReadOnlySpan<PlannedPoint> points) => new(points.ToArray());
+
+    public int Count => _given?.Length ?? _keys.Length;
+
+    /// <summary>The same as <see cref="Count"/> (plans used to hold an array).</summary>
+    public int Length => Count;
+
+    public bool IsEmpty => Count == 0;
+
+    public PlannedPoint this[int index] => _given is { } g
+        ? g[index]
+        : new PlannedPoint(PointIdentity.IdText(_keys[index]), index, ParametersAt(index));
+
+    /// <summary>The id of the point at <paramref name="index"/>, without making its parameters.</summary>
+    public string IdAt(int index) => _given is { } g ? g[index].PointId : PointIdentity.IdText(_keys[index]);
+
+    /// <summary>The parameters of the point at <paramref name="index"/>.</summary>
+    public PointParameters ParametersAt(int index) => _given is { } g
+        ? g[index].Parameters
+        : _parameters!(_expansionIndex is { } e ? e[index] : index);
+
+    /// <summary>Every position, ordered by the point's id (ordinal: the same as by key, the ids being fixed-width hex).</summary>
+    public int[] PositionsById()
+    {
+        var positions = new int[Count];
+        for (var i = 0; i < positions.Length; i++)
+        {
+            positions[i] = i;
+        }
+
+        if (_given is { } g)
+        {
+            Array.Sort(positions, (a, b) => string.CompareOrdinal(g[a].PointId, g[b].PointId));
+        }
+        else
+        {
+            var keys = (ulong[])_keys.Clone();
+            Array.Sort(keys, positions);
+        }
+
+        return positions;
+    }
+
+    /// <summary>
+    /// The point with id <paramref name="pointId"/>: first looked for at <paramref name="indexHint"/>
+    /// (its index in the catalog), else searched for.
+    /// </summary>
+    public bool TryFind(string pointId, int indexHint, out PlannedPoint point)
+    {
+        ArgumentNullException.ThrowIfNull(pointId);
+        if (indexHint >= 0 && indexHint < Count && string.Equals(IdAt(indexHint), pointId, StringComparison.Ordinal))
+        {
+            point = this[indexHint];
+            return true;
+        }
+
+        if (_given is { } g)
+        {
+            var i = Array.FindIndex(g, p => string.Equals(p.PointId, pointId, StringComparison.Ordinal));
+            point = i >= 0 ? g[i] : null!;
+            return i >= 0;
+        }
+
+        if (PointIdentity.TryKey(pointId, out var key))
+        {
+            var i = Array.IndexOf(_keys, key);
+            if (i >= 0)
+            {
+                point = this[i];
+                return true;
+            }
+        }
+
+        point = null!;
+        return false;
+    }
+
+    public IEnumerator<PlannedPoint> GetEnumerator()
+    {
+        for (var i = 0; i < Count; i++)
+        {
+            yield return this[i];
+        }
+    }
+
+    IEnumerator IEnumerable.GetEnumerator() => GetEnumerator();
+}
