@@ -51,6 +51,15 @@ PYEOF
 
 dotnet build "$here/LatticeSweep.Bench/LatticeSweep.Bench.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
 dotnet build "$root/src/Worker/Worker.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
+latsweep="$root/src/Worker/bin/Release/net10.0/latsweep"
+if [[ " ${cases[*]} " == *" queue "* && "${QUEUE_LATSWEEP:-r2r}" == r2r ]]; then
+  # Case (e) runs latsweep as README's install line makes it: published with ReadyToRun code, so a
+  # run does not JIT its start-up (QUEUE_LATSWEEP=build runs the plain build output instead).
+  rid="$(dotnet --info | sed -n 's/^ *RID: *//p' | head -1)"
+  dotnet publish "$root/src/Worker/Worker.csproj" -c Release -r "$rid" --self-contained false -p:PublishReadyToRun=true \
+    -o "$results/latsweep-r2r" -v quiet -nologo | grep -E " error |rror\(s\)" || true
+  latsweep="$results/latsweep-r2r/latsweep"
+fi
 bench="$here/LatticeSweep.Bench/bin/Release/net10.0/LatticeSweep.Bench"
 
 for c in "${cases[@]}"; do
@@ -67,7 +76,7 @@ for c in "${cases[@]}"; do
   if [ "$c" = queue ]; then
     # Ours against ours: the queue (latsweep run, embedded SQLite store) against the Engine alone.
     "$bench" queue --out "$results" --repeats "${QUEUE_REPEATS:-3}" --jobs "$here/queue" \
-      --latsweep "$root/src/Worker/bin/Release/net10.0/latsweep"
+      --latsweep "$latsweep"
     continue
   fi
   case "$c" in surfaces-*)

@@ -93,6 +93,7 @@ internal static class SimplexDosIntegrator
         var meanWeight = new double[Math.Max(channels, 1)];
         var useWeights = weights is not null && channels > 0;
         var kernel = new TetrahedronBins(grid, vectors);
+        vectors = kernel.UsesVectors;
         var stride = grid.Bins + TetrahedronBins.Padding;
         var paddedTotal = new double[stride];
         var paddedPartial = useWeights ? new double[channels * stride] : [];
@@ -100,6 +101,13 @@ internal static class SimplexDosIntegrator
         // omega(-q) = omega(q) (and the channel weights agree), and inversion maps the mesh cube based
         // at i onto the one based at -(i + 1), carrying the six-tetrahedra split onto itself. So a cube
         // and its image add the same states: visit one of each pair, twice the share.
+        // The vector kernel sets up a cube's tetrahedra four at a time (PrepareBatch), in the order
+        // the loop below adds them: tetrahedron by tetrahedron, branch by branch.
+        var batch = 6 * branches;
+        var cornerA = new double[batch + 3];
+        var cornerB = new double[batch + 3];
+        var cornerC = new double[batch + 3];
+        var cornerD = new double[batch + 3];
         var image1 = ImageOfCubes(m1);
         var image2 = ImageOfCubes(m2);
         var image3 = ImageOfCubes(m3);
@@ -132,6 +140,34 @@ internal static class SimplexDosIntegrator
                     corners[5] = ((j1 * m2) + i2) * m3 + j3;
                     corners[6] = ((i1 * m2) + j2) * m3 + j3;
                     corners[7] = ((j1 * m2) + j2) * m3 + j3;
+                    var entry = 0;
+                    if (vectors)
+                    {
+                        for (var t = 0; t < 24; t += 4)
+                        {
+                            var c0 = corners[TetrahedronCorners[t]] * branches;
+                            var c1 = corners[TetrahedronCorners[t + 1]] * branches;
+                            var c2 = corners[TetrahedronCorners[t + 2]] * branches;
+                            var c3 = corners[TetrahedronCorners[t + 3]] * branches;
+                            for (var b = firstBranch; b < branches; b++, entry++)
+                            {
+                                cornerA[entry] = frequencyThz[c0 + b];
+                                cornerB[entry] = frequencyThz[c1 + b];
+                                cornerC[entry] = frequencyThz[c2 + b];
+                                cornerD[entry] = frequencyThz[c3 + b];
+                            }
+                        }
+
+                        kernel.PrepareBatch(cornerA, cornerB, cornerC, cornerD, entry);
+                        if (!useWeights)
+                        {
+                            kernel.AddPreparedBatch(entry, cubeShare, paddedTotal);
+                            continue;
+                        }
+
+                        entry = 0;
+                    }
+
                     for (var t = 0; t < 24; t += 4)
                     {
                         var c0 = corners[TetrahedronCorners[t]] * branches;
@@ -153,9 +189,16 @@ internal static class SimplexDosIntegrator
                                 }
                             }
 
-                            kernel.Add(
-                                frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b],
-                                cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
+                            if (vectors)
+                            {
+                                kernel.AddPrepared(entry++, cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
+                            }
+                            else
+                            {
+                                kernel.Add(
+                                    frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b],
+                                    cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
+                            }
                         }
                     }
                 }

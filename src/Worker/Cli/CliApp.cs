@@ -139,18 +139,7 @@ public static class CliApp
     /// <summary>A path given on the command line, taken relative to the command's folder.</summary>
     internal static string PathIn(CliContext context, string path) => Path.GetFullPath(Path.Combine(context.CurrentDirectory, path));
 
-    private static int BadInput(CliContext context, string message)
-    {
-        // Each line escaped and cut: a message may quote text from the user or from a library.
-        var prefix = "latsweep: ";
-        foreach (var line in message.ReplaceLineEndings("\n").Split('\n'))
-        {
-            context.Stderr.WriteLine(prefix + EchoText.Cut(line, EchoText.MaxLineChars));
-            prefix = "";
-        }
-
-        return ExitCodes.BadInput;
-    }
+    private static int BadInput(CliContext context, string message) => BadInputReport.Write(context.Stderr, message);
 
     /// <summary>Option names; a leading '!' marks a flag without a value.</summary>
     private static Dictionary<string, bool> Options(params string[] names) =>

@@ -29,8 +29,7 @@ public static class CheckCommand
         }
         catch (JobFileException e)
         {
-            stderr.WriteLine(e.Message);
-            return 2;
+            return Cli.BadInputReport.Write(stderr, e.Message, escaped: true);
         }
 
         PrintPlan(plan, stdout);

@@ -29,8 +29,7 @@ public static class SolveCommand
         }
         catch (JobFileException e)
         {
-            stderr.WriteLine(e.Message);
-            return 2;
+            return Cli.BadInputReport.Write(stderr, e.Message, escaped: true);
         }
 
         var point = plan.Points[0];

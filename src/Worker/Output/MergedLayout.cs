@@ -25,6 +25,16 @@ public static class MergedLayout
     public const string MergedPrefix = "merged-";
     public const string PartPrefix = "part-";
 
+    /// <summary>The column every table is sorted by.</summary>
+    public const string PointIdColumn = "point_id";
+
+    /// <summary>
+    /// A table of at most this many files (parts, and merged files under <see cref="TargetFileBytes"/>)
+    /// that are each sorted and indexed already is merged by renaming them, not rewriting them: a data
+    /// tool scans a few files as well as one, and a small sweep's merge then costs nothing.
+    /// </summary>
+    public const int FilesTakenAsTheyAre = 4;
+
     /// <summary>Rows per row group of a merged file: above DuckDB's own row-group size, small enough that one point's lookup reads little.</summary>
     public const int RowGroupRows = 1 << 17;
 

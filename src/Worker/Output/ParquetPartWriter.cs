@@ -40,7 +40,7 @@ internal static class ParquetPartWriter
             {
                 // Tests stand in a full disk here (SimulatedDiskFull); otherwise the file itself.
                 await using var stream = SimulatedDiskFull.Wrap(file, temporary);
-                await WriteParquetAsync(stream, rows, metadata, ct).ConfigureAwait(false);
+                await WriteLaidOutAsync(stream, chunkId, rows, metadata, ct).ConfigureAwait(false);
                 await stream.FlushAsync(ct).ConfigureAwait(false);
                 using var syncing = Queue.StageTimings.Measure("parquet: fsync");
                 file.Flush(flushToDisk: true);
@@ -73,6 +73,37 @@ internal static class ParquetPartWriter
     {
         await using var writer = await ParquetTableWriter.CreateAsync(stream, rows.Columns, metadata, ct).ConfigureAwait(false);
         await writer.WriteRowGroupAsync(rows, ct).ConfigureAwait(false);
+    }
+
+    /// <summary>
+    /// Writes a chunk's rows (sorted by point id, <see cref="ChunkTables"/>) laid out as a merged file
+    /// is (<see cref="MergedLayout"/>): row groups of at most <see cref="MergedLayout.RowGroupRows"/>
+    /// rows, their point-id ranges and the chunk in the metadata. The merge can then take a part as
+    /// a merged file without decoding and re-encoding its rows.
+    /// </summary>
+    private static async Task WriteLaidOutAsync(Stream stream, string chunkId, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    {
+        var idColumn = rows.Columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
+        if (idColumn < 0 || rows.Values[idColumn] is not string?[] ids)
+        {
+            await WriteParquetAsync(stream, rows, metadata, ct).ConfigureAwait(false);
+            return;
+        }
+
+        var laidOut = new Dictionary<string, string>(metadata)
+        {
+            [MergedLayout.ChunksKey] = chunkId,
+            [MergedLayout.RowGroupsKey] = RowGroupIndex.Of(ids, MergedLayout.RowGroupRows),
+        };
+        await using var writer = await ParquetTableWriter.CreateAsync(stream, rows.Columns, laidOut, ct).ConfigureAwait(false);
+        var start = 0;
+        do
+        {
+            var count = Math.Min(MergedLayout.RowGroupRows, rows.RowCount - start);
+            await writer.WriteRowGroupAsync(rows, start, count, ct).ConfigureAwait(false);
+            start += count;
+        }
+        while (start < rows.RowCount);
     }
 
     internal static DataField Field(ColumnDef def) => def.Type switch

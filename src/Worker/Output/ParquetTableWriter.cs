@@ -6,7 +6,7 @@ namespace LatticeSweep.Worker.Output;
 /// <summary>
 /// One Parquet file of a result table being written: the schema from the table's columns, the file
 /// metadata (with every column's unit), then row groups of column arrays (<see cref="ColumnValues"/>).
-/// Part files have one row group; merged files several (the merge).
+/// Part files and merged files alike have row groups of at most <see cref="MergedLayout.RowGroupRows"/> rows.
 /// </summary>
 internal sealed class ParquetTableWriter : IAsyncDisposable
 {
@@ -31,7 +31,10 @@ internal sealed class ParquetTableWriter : IAsyncDisposable
     }
 
     /// <summary>Writes <paramref name="rows"/> as one row group; its columns must be the file's.</summary>
-    public async Task WriteRowGroupAsync(TableRows rows, CancellationToken ct)
+    public Task WriteRowGroupAsync(TableRows rows, CancellationToken ct) => WriteRowGroupAsync(rows, 0, rows?.RowCount ?? 0, ct);
+
+    /// <summary>Writes rows [<paramref name="start"/>, <paramref name="start"/> + <paramref name="count"/>) of <paramref name="rows"/> as one row group, without copying them.</summary>
+    public async Task WriteRowGroupAsync(TableRows rows, int start, int count, CancellationToken ct)
     {
         ArgumentNullException.ThrowIfNull(rows);
         if (rows.Columns.Count != _columns.Count)
@@ -53,23 +56,23 @@ internal sealed class ParquetTableWriter : IAsyncDisposable
             switch (values)
             {
                 case string?[] text when def.Type == ColumnType.Text:
-                    await group.WriteAsync(field, text!).ConfigureAwait(false);
+                    await group.WriteAsync(field, new ArraySegment<string>(text!, start, count)).ConfigureAwait(false);
                     break;
                 case double?[] d when def.Type == ColumnType.Double:
-                    RefuseNaN(rows, c, d);
-                    await group.WriteAsync<double>(field, d, cancellationToken: ct).ConfigureAwait(false);
+                    RefuseNaN(rows, c, d, start, count);
+                    await group.WriteAsync<double>(field, d.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
                     break;
                 case int?[] i when def.Type == ColumnType.Int32:
-                    await group.WriteAsync<int>(field, i, cancellationToken: ct).ConfigureAwait(false);
+                    await group.WriteAsync<int>(field, i.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
                     break;
                 case long?[] l when def.Type == ColumnType.Int64:
-                    await group.WriteAsync<long>(field, l, cancellationToken: ct).ConfigureAwait(false);
+                    await group.WriteAsync<long>(field, l.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
                     break;
                 case bool?[] b when def.Type == ColumnType.Bool:
-                    await group.WriteAsync<bool>(field, b, cancellationToken: ct).ConfigureAwait(false);
+                    await group.WriteAsync<bool>(field, b.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
                     break;
                 case DateTime?[] t when def.Type == ColumnType.Timestamp:
-                    await group.WriteAsync<DateTime>(field, t, cancellationToken: ct).ConfigureAwait(false);
+                    await group.WriteAsync<DateTime>(field, t.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
                     break;
                 default:
                     throw new InvalidOperationException($"table {rows.Table}, column {def.Name}: {values.GetType().Name} values for a {def.Type} column");
@@ -82,9 +85,9 @@ internal sealed class ParquetTableWriter : IAsyncDisposable
     /// arrive as null (the tables' convention), so a NaN is a defect upstream and the convention
     /// test must see it fail. Infinities are values (an unbounded kappa).
     /// </summary>
-    private static void RefuseNaN(TableRows rows, int column, double?[] values)
+    private static void RefuseNaN(TableRows rows, int column, double?[] values, int start, int count)
     {
-        for (var i = 0; i < values.Length; i++)
+        for (var i = start; i < start + count; i++)
         {
             if (values[i] is { } v && double.IsNaN(v))
             {

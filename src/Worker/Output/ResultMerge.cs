@@ -25,7 +25,7 @@ public static class ResultMerge
         try
         {
             IReadOnlyList<TableMerger.Outcome> outcomes;
-            using (Queue.StageTimings.Measure("merge part files"))
+            using (Queue.StageTimings.MeasureAlone("merge part files"))
             {
                 outcomes = TableMerger.MergeSweepAsync(sweep.OutputFolder, sweep.Tables, ct).GetAwaiter().GetResult();
             }
@@ -33,8 +33,9 @@ public static class ResultMerge
             var parts = outcomes.Sum(o => o.PartsMerged);
             if (parts > 0)
             {
-                log.Information("Sweep {SweepId}: merged {Parts} part files into {Files} files of {Tables} tables in {Seconds:F1} s",
-                    sweep.SweepId, parts, outcomes.Sum(o => o.FilesWritten), outcomes.Count(o => o.PartsMerged > 0), clock.Elapsed.TotalSeconds);
+                var asTheyWere = outcomes.Count(o => o.PartsMerged > 0 && o.TakenAsTheyWere);
+                log.Information("Sweep {SweepId}: merged {Parts} part files into {Files} files of {Tables} tables ({AsTheyWere} of the tables by taking their files as they were) in {Seconds:F1} s",
+                    sweep.SweepId, parts, outcomes.Sum(o => o.FilesWritten), outcomes.Count(o => o.PartsMerged > 0), asTheyWere, clock.Elapsed.TotalSeconds);
             }
 
             return true;

@@ -22,7 +22,9 @@ internal static class TableMerger
 {
     public const string StagingFolderName = ".merging";
 
-    public sealed record Outcome(string Table, int PartsMerged, int FilesWritten, long Rows);
+    /// <param name="FilesWritten">merged files the table has now beyond the big ones kept (rewritten or taken as they were)</param>
+    /// <param name="TakenAsTheyWere">whether the files were taken without rewriting (<see cref="MergedLayout.FilesTakenAsTheyAre"/>)</param>
+    public sealed record Outcome(string Table, int PartsMerged, int FilesWritten, long Rows, bool TakenAsTheyWere = false);
 
     /// <summary>Merges every listed table of the sweep folder.</summary>
     public static async Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, CancellationToken ct)
@@ -98,6 +100,14 @@ internal static class TableMerger
                 chunkFiles.AddRange(list.Where(e => e.Value == k.Name).Select(e => (e.Key, e.Value)));
             }
 
+            var laidOut = inputs.Count <= MergedLayout.FilesTakenAsTheyAre ? await LaidOutAsync(inputs, ct).ConfigureAwait(false) : null;
+            if (laidOut is not null)
+            {
+                var taken = TakeAsTheyAre(laidOut, staging, ref nextNumber, chunkFiles);
+                Commit(live, staging, id, chunkFiles, ct);
+                return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
+            }
+
             var batch = new List<(ParquetTableFile.Contents Contents, IReadOnlyList<string> Chunks)>();
             long batchBytes = 0;
             long rows = 0;
@@ -131,18 +141,7 @@ internal static class TableMerger
                 written++;
             }
 
-            var listText = new StringBuilder();
-            foreach (var (chunk, file) in chunkFiles.OrderBy(c => c.Chunk, StringComparer.Ordinal))
-            {
-                listText.Append(chunk).Append('\t').Append(file).Append('\n');
-            }
-
-            WriteDurably(Path.Combine(staging, MergedLayout.ChunkListFileName), listText.ToString());
-            WriteDurably(Path.Combine(staging, CompleteMarker(id)), "");
-            ct.ThrowIfCancellationRequested();
-            DirectorySwap.Exchange(live, staging);
-            SimulatedSlowMerge.Pause();
-            TryDeleteFolder(staging);
+            Commit(live, staging, id, chunkFiles, ct);
             return new Outcome(table, parts.Count, written, rows);
         }
         catch
@@ -150,6 +149,85 @@ internal static class TableMerger
             TryDeleteFolder(staging);
             throw;
         }
+    }
+
+    /// <summary>Writes the chunk list and the completion marker into the staging folder, then swaps it with the table folder.</summary>
+    private static void Commit(string live, string staging, string id, List<(string Chunk, string File)> chunkFiles, CancellationToken ct)
+    {
+        var listText = new StringBuilder();
+        foreach (var (chunk, file) in chunkFiles.OrderBy(c => c.Chunk, StringComparer.Ordinal))
+        {
+            listText.Append(chunk).Append('\t').Append(file).Append('\n');
+        }
+
+        WriteDurably(Path.Combine(staging, MergedLayout.ChunkListFileName), listText.ToString());
+        WriteDurably(Path.Combine(staging, CompleteMarker(id)), "");
+        ct.ThrowIfCancellationRequested();
+        DirectorySwap.Exchange(live, staging);
+        SimulatedSlowMerge.Pause();
+        TryDeleteFolder(staging);
+    }
+
+    private sealed record LaidOutFile(FileInfo File, IReadOnlyList<string> Chunks, long Rows, bool IsPart);
+
+    /// <summary>
+    /// The inputs with their chunks and row counts when every one is laid out as a merged file
+    /// already (sorted by point id, row groups indexed and within <see cref="MergedLayout.RowGroupRows"/>,
+    /// its chunks named in its metadata: what <see cref="ParquetPartWriter"/> writes); else null.
+    /// Reads the footers only.
+    /// </summary>
+    private static async Task<List<LaidOutFile>?> LaidOutAsync(IReadOnlyList<FileInfo> inputs, CancellationToken ct)
+    {
+        var files = new List<LaidOutFile>();
+        foreach (var input in inputs)
+        {
+            await using var stream = new FileStream(input.FullName, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 12);
+            await using var reader = await Parquet.ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+            var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
+            var groupRows = new List<long>();
+            for (var g = 0; g < reader.RowGroupCount; g++)
+            {
+                using var group = reader.OpenRowGroupReader(g);
+                groupRows.Add(group.RowCount);
+            }
+
+            var chunks = metadata.GetValueOrDefault(MergedLayout.ChunksKey, "").Split(',', StringSplitOptions.RemoveEmptyEntries);
+            var partChunk = MergedLayout.ChunkOfPart(input.Name);
+            if (!metadata.TryGetValue(MergedLayout.RowGroupsKey, out var index) || !RowGroupIndex.DescribesSortedFile(index, groupRows)
+                || chunks.Length == 0 || (partChunk is not null && (chunks.Length != 1 || chunks[0] != partChunk)))
+            {
+                return null;
+            }
+
+            files.Add(new LaidOutFile(input, chunks, groupRows.Sum(), partChunk is not null));
+        }
+
+        return files;
+    }
+
+    /// <summary>
+    /// Gives every laid-out input its merged name in the staging folder by a hard link (a merged file
+    /// keeps its name, a part gets the next number); nothing is rewritten. Empty files are left out
+    /// when any file has rows (their chunks point at the first file kept). Returns the files kept.
+    /// </summary>
+    private static int TakeAsTheyAre(List<LaidOutFile> files, string staging, ref int nextNumber, List<(string Chunk, string File)> chunkFiles)
+    {
+        var kept = files.Any(f => f.Rows > 0) ? files.Where(f => f.Rows > 0).ToList() : files.Take(1).ToList();
+        string? first = null;
+        foreach (var file in kept)
+        {
+            var name = file.IsPart ? MergedLayout.MergedFileName(nextNumber++) : file.File.Name;
+            FileLinks.LinkOrCopy(file.File.FullName, Path.Combine(staging, name));
+            chunkFiles.AddRange(file.Chunks.Select(c => (c, name)));
+            first ??= name;
+        }
+
+        foreach (var dropped in files.Except(kept))
+        {
+            chunkFiles.AddRange(dropped.Chunks.Select(c => (c, first!)));
+        }
+
+        return kept.Count;
     }
 
     /// <summary>Writes one merged file from the batch (then empties it): rows sorted by point id, row groups indexed in the metadata.</summary>
@@ -165,7 +243,7 @@ internal static class TableMerger
             values[c] = ParquetTableFile.Concat(columns[c].Type, batch.Select(b => b.Contents.Rows.Values[c]).ToList(), total);
         }
 
-        var idColumn = columns.Select(c => c.Name).ToList().IndexOf("point_id");
+        var idColumn = columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
         var order = idColumn >= 0
             ? MergeOrder((string?[])values[idColumn], batch.Select(b => b.Contents.Rows.RowCount).ToList())
             : Enumerable.Range(0, total).ToArray();

@@ -22,17 +22,59 @@ public static class StageTimings
     /// <summary>Starts timing a stage; dispose the result to add the time to the stage's total.</summary>
     public static Scope Measure(string stage) => new(Enabled ? stage : null);
 
+    /// <summary>Like <see cref="Measure"/> for a stage that runs alone but on other threads (the merge): its CPU is the process's over its time.</summary>
+    public static Scope MeasureAlone(string stage) => new(Enabled ? stage : null, processCpu: true);
+
     /// <summary>The totals as lines, slowest first, with the process's CPU time.</summary>
     public static IEnumerable<string> Report()
     {
         var process = Process.GetCurrentProcess();
         yield return string.Create(CultureInfo.InvariantCulture,
             $"timings: process CPU {process.TotalProcessorTime.TotalSeconds:F3} s (user {process.UserProcessorTime.TotalSeconds:F3} s), up {(DateTime.Now - process.StartTime).TotalSeconds:F3} s, GCs {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)}, peak working set {process.PeakWorkingSet64 / 1048576.0:F0} MiB");
+        if (ThreadsByCpu() is { Length: > 0 } threads)
+        {
+            yield return "timings: threads alive at the end (CPU s): " + threads;
+        }
+
         foreach (var (stage, t) in Stages.OrderByDescending(s => s.Value.Ticks))
         {
+            var hopped = t.Hopped > 0 ? $" ({t.Hopped} ended on another thread: process CPU over their time)" : "";
             yield return string.Create(CultureInfo.InvariantCulture,
-                $"timings: {stage,-28} {t.Ticks / (double)Stopwatch.Frequency,9:F3} s wall {t.CpuNs / 1e9,9:F3} s CPU in {t.Count,7} calls");
+                $"timings: {stage,-28} {t.Ticks / (double)Stopwatch.Frequency,9:F3} s wall {t.CpuNs / 1e9,9:F3} s CPU in {t.Count,7} calls{hopped}");
         }
+    }
+
+    /// <summary>The process's live threads by name with their CPU time, busiest first (Linux /proc; empty elsewhere): what runs beside the stages (JIT, GC, queue loops).</summary>
+    private static string ThreadsByCpu()
+    {
+        const string tasks = "/proc/self/task";
+        if (!Directory.Exists(tasks))
+        {
+            return "";
+        }
+
+        var ticksPerSecond = 100.0; // USER_HZ on Linux
+        var byName = new Dictionary<string, double>(StringComparer.Ordinal);
+        foreach (var task in Directory.EnumerateDirectories(tasks))
+        {
+            try
+            {
+                var stat = File.ReadAllText(Path.Combine(task, "stat"));
+                var open = stat.IndexOf('(', StringComparison.Ordinal);
+                var close = stat.LastIndexOf(')');
+                var name = stat[(open + 1)..close];
+                var fields = stat[(close + 2)..].Split(' ');
+                var seconds = (double.Parse(fields[11], CultureInfo.InvariantCulture) + double.Parse(fields[12], CultureInfo.InvariantCulture)) / ticksPerSecond;
+                byName[name] = byName.GetValueOrDefault(name) + seconds;
+            }
+            catch (IOException)
+            {
+                // The thread ended meanwhile.
+            }
+        }
+
+        return string.Join(", ", byName.Where(t => t.Value >= 0.01).OrderByDescending(t => t.Value)
+            .Select(t => string.Create(CultureInfo.InvariantCulture, $"{t.Key} {t.Value:F2}")));
     }
 
     /// <summary>Writes <see cref="Report"/> when enabled.</summary>
@@ -49,7 +91,11 @@ public static class StageTimings
         }
     }
 
-    /// <summary>CPU time of the calling thread (Linux and other POSIX systems; 0 elsewhere). Stages end on the thread they began on.</summary>
+    /// <summary>
+    /// CPU time of the calling thread (Linux; 0 elsewhere). A stage that awaits may end on another
+    /// thread; its CPU is then the process's over its time (all threads: right for stages that run
+    /// alone, such as the merge, an upper bound otherwise).
+    /// </summary>
     private static long ThreadCpuNs()
     {
         if (!OperatingSystem.IsLinux())
@@ -60,6 +106,10 @@ public static class StageTimings
         return ClockGetTime(ThreadCpuClock, out var t) == 0 ? (t.Seconds * 1_000_000_000L) + t.Nanoseconds : 0;
     }
 
+    private static long ProcessCpuNs() =>
+        OperatingSystem.IsLinux() && ClockGetTime(ProcessCpuClock, out var t) == 0 ? (t.Seconds * 1_000_000_000L) + t.Nanoseconds : 0;
+
+    private const int ProcessCpuClock = 2; // CLOCK_PROCESS_CPUTIME_ID
     private const int ThreadCpuClock = 3; // CLOCK_THREAD_CPUTIME_ID
 
     [StructLayout(LayoutKind.Sequential)]
@@ -77,6 +127,7 @@ public static class StageTimings
         public long Ticks;
         public long CpuNs;
         public long Count;
+        public long Hopped;
     }
 
     public readonly struct Scope : IDisposable
@@ -84,12 +135,19 @@ public static class StageTimings
         private readonly string? _stage;
         private readonly long _start;
         private readonly long _cpuStart;
+        private readonly long _processCpuStart;
+        private readonly int _thread;
 
-        internal Scope(string? stage)
+        private readonly bool _processCpu;
+
+        internal Scope(string? stage, bool processCpu = false)
         {
             _stage = stage;
+            _processCpu = processCpu;
             _start = stage is null ? 0 : Stopwatch.GetTimestamp();
             _cpuStart = stage is null ? 0 : ThreadCpuNs();
+            _processCpuStart = stage is null ? 0 : ProcessCpuNs();
+            _thread = stage is null ? 0 : Environment.CurrentManagedThreadId;
         }
 
         public void Dispose()
@@ -101,7 +159,20 @@ public static class StageTimings
 
             var t = Stages.GetOrAdd(_stage, _ => new Totals());
             Interlocked.Add(ref t.Ticks, Stopwatch.GetTimestamp() - _start);
-            Interlocked.Add(ref t.CpuNs, ThreadCpuNs() - _cpuStart);
+            if (_processCpu)
+            {
+                Interlocked.Add(ref t.CpuNs, ProcessCpuNs() - _processCpuStart);
+            }
+            else if (Environment.CurrentManagedThreadId == _thread)
+            {
+                Interlocked.Add(ref t.CpuNs, ThreadCpuNs() - _cpuStart);
+            }
+            else
+            {
+                Interlocked.Add(ref t.CpuNs, ProcessCpuNs() - _processCpuStart);
+                Interlocked.Increment(ref t.Hopped);
+            }
+
             Interlocked.Increment(ref t.Count);
         }
     }

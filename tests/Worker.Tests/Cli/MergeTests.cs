@@ -85,6 +85,51 @@ public sealed class MergeTests : IDisposable
     }
 
     [Fact]
+    public void A_table_of_a_few_parts_is_merged_by_taking_the_parts_as_they_are_without_rewriting_them()
+    {
+        // 24 points, 8 per chunk: 3 parts per table, each sorted by point with its row groups indexed.
+        var (plan, folder) = RunSweep(pointsPerChunk: 8, merge: false);
+        var partHashes = Tables.ToDictionary(t => t, t => DataFiles(folder, t).Select(f => Hash(Path.Combine(folder, t, f))).Order(StringComparer.Ordinal).ToList());
+        Assert.All(partHashes.Values, h => Assert.Equal(3, h.Count));
+
+        var merged = Support.Cli.Run(_dir.Path, "merge", "merge-me");
+        Assert.True(merged.ExitCode == 0, merged.Stdout + merged.Stderr);
+        using var db = new DuckDb();
+        foreach (var table in Tables)
+        {
+            var files = DataFiles(folder, table);
+            Assert.Equal([MergedLayout.MergedFileName(0), MergedLayout.MergedFileName(1), MergedLayout.MergedFileName(2)], files);
+
+            // The very bytes of the parts: renamed, not decoded and written again.
+            Assert.Equal(partHashes[table], files.Select(f => Hash(Path.Combine(folder, table, f))).Order(StringComparer.Ordinal));
+            AssertEveryPointOnce(db, plan, folder, table);
+            Assert.Equal(3, MergedLayout.MergedChunks(Path.Combine(folder, table)).Count);
+            foreach (var file in files)
+            {
+                // Each file is sorted by point, and every point of it is found through its row-group index.
+                var path = Path.Combine(folder, table, file);
+                var ids = db.Rows($"SELECT point_id FROM read_parquet('{path}')").Select(r => (string)r[0]!).ToList();
+                Assert.Equal(ids.Order(StringComparer.Ordinal), ids);
+                var index = (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{path}') WHERE decode(key) = '{MergedLayout.RowGroupsKey}'")!;
+                var metadata = new Dictionary<string, string> { [MergedLayout.RowGroupsKey] = index };
+                Assert.All(ids, id => Assert.Equal([0], MergedLayout.RowGroupsOf(metadata, id)!));
+                var chunk = (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{path}') WHERE decode(key) = '{MergedLayout.ChunksKey}'")!;
+                Assert.Equal(file, MergedLayout.MergedChunks(Path.Combine(folder, table))[chunk]);
+            }
+        }
+
+        // Merging again changes nothing.
+        var again = Support.Cli.Run(_dir.Path, "merge", "merge-me");
+        Assert.True(again.ExitCode == 0, again.Stdout + again.Stderr);
+        foreach (var table in Tables)
+        {
+            Assert.Equal(partHashes[table], DataFiles(folder, table).Select(f => Hash(Path.Combine(folder, table, f))).Order(StringComparer.Ordinal));
+        }
+    }
+
+    private static string Hash(string path) => Convert.ToHexString(System.Security.Cryptography.SHA256.HashData(File.ReadAllBytes(path)));
+
+    [Fact]
     public void A_merge_killed_at_any_stage_loses_and_duplicates_nothing_and_the_next_merge_completes_it()
     {
         var (plan, folder) = RunSweep(pointsPerChunk: 2, merge: false);

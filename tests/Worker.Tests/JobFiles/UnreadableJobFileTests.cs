@@ -103,7 +103,7 @@ public sealed class UnreadableJobFileTests : IDisposable
 
         Assert.Equal(2, check.ExitCode);
         var line = Assert.Single(Lines(check.Stderr));
-        Assert.StartsWith($"{_dir.Combine("bracket.toml")}:{Some.LineOf(Some.ChainJob(), "[model]")}:", line, StringComparison.Ordinal);
+        Assert.StartsWith($"latsweep: {_dir.Combine("bracket.toml")}:{Some.LineOf(Some.ChainJob(), "[model]")}:", line, StringComparison.Ordinal);
         Assert.Contains("TOML syntax", line, StringComparison.Ordinal);
         Assert.DoesNotContain("token:", line, StringComparison.Ordinal);
     }
@@ -131,7 +131,7 @@ public sealed class UnreadableJobFileTests : IDisposable
 
         Assert.Equal(2, check.ExitCode);
         var line = Assert.Single(Lines(check.Stderr));
-        Assert.StartsWith($"{_dir.Combine("deep.toml")}:2:", line, StringComparison.Ordinal);
+        Assert.StartsWith($"latsweep: {_dir.Combine("deep.toml")}:2:", line, StringComparison.Ordinal);
         Assert.Contains($"nested more than {NestingDepth.Max} levels deep", line, StringComparison.Ordinal);
         Assert.DoesNotContain("TomlSerializerOptions", line, StringComparison.Ordinal);
         Assert.DoesNotContain("Exception", line, StringComparison.Ordinal);

@@ -1,4 +1,5 @@
 using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Numerics.Simd;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Transport;
@@ -36,36 +37,67 @@ public static class PointCost
     /// point, and per point x n^3 (compiling the model, sound speeds, the floppy check: a few
     /// solves of its own); per eigen-solve (values only) and per solve x n^3; the same with eigenvectors; per mode
     /// streamed into a finite crystal's sums; per bulk mesh simplex x branch; per
-    /// temperature x DOS bin; per conductivity flop-equivalent. Measured by `bench/run.sh cost`
-    /// (non-negative least squares on the relative error of 24 solves' CPU time, 2026-12-02 16:30 UTC,
-    /// after the lane-parallel eigen-solvers and the 256-bit tetrahedron kernel; every case then
-    /// within 0.56x to 1.22x of its measured time; see bench/README.md).
+    /// temperature x DOS bin; per conductivity flop-equivalent. One table per width of the Engine's
+    /// batched kernels (<see cref="KernelWidth.ActiveBits"/>), each measured by `bench/run.sh cost` at
+    /// that width (non-negative least squares on the relative error of 24 solves' CPU time; figures and
+    /// each case's estimate / measured in bench/README.md): the eigen-solver and D(q) run twice as
+    /// many lanes per instruction at 512 bits, the tetrahedra and thermal sums do not.
     /// </summary>
-    public static readonly double[] SecondsPerUnit =
+    /// <remarks>Measured 2026-12-02 19:53 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 18.5-18.6).</remarks>
+    public static readonly double[] SecondsPerUnit512 =
     [
-        5.15e-4,   // per point
-        4.21e-8,   // per point x n^3
+        5.14e-4,   // per point
+        2.42e-8,   // per point x n^3
         0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
-        3.65e-10,  // per solve x n^3, values
-        1.33e-6,   // per solve, vectors
-        3.34e-9,   // per solve x n^3, vectors
-        7.88e-8,   // per mode streamed (finite)
-        7.13e-8,   // per bulk mesh simplex x branch
-        3.39e-8,   // per temperature x bin
-        8.67e-10,  // per conductivity flop-equivalent (1.2e9 of ConductivityWork's flops per second)
+        2.24e-10,  // per solve x n^3, values
+        1.01e-6,   // per solve, vectors
+        4.87e-9,   // per solve x n^3, vectors
+        5.92e-8,   // per mode streamed (finite)
+        6.74e-8,   // per bulk mesh simplex x branch
+        3.50e-8,   // per temperature x bin
+        8.21e-10,  // per conductivity flop-equivalent
     ];
+
+    /// <summary>As <see cref="SecondsPerUnit512"/>, for 256-bit kernels (AVX2 without AVX-512), measured with <c>DOTNET_EnableAVX512=0</c>.</summary>
+    /// <remarks>Measured 2026-12-02 19:52 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just before the 512-bit run (load average 19.4-18.5).</remarks>
+    public static readonly double[] SecondsPerUnit256 =
+    [
+        5.03e-4,   // per point
+        1.90e-8,   // per point x n^3
+        0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
+        5.60e-10,  // per solve x n^3, values
+        9.43e-7,   // per solve, vectors
+        6.36e-9,   // per solve x n^3, vectors
+        6.17e-8,   // per mode streamed (finite)
+        7.43e-8,   // per bulk mesh simplex x branch
+        3.09e-8,   // per temperature x bin
+        7.87e-10,  // per conductivity flop-equivalent
+    ];
+
+    /// <summary>
+    /// The table for a kernel width in bits. The scalar path (no AVX2, or <c>LATSWEEP_SIMD_WIDTH=scalar</c>)
+    /// was not calibrated: it takes the 256-bit table, so its forecasts run short.
+    /// </summary>
+    public static double[] SecondsPerUnitFor(int kernelBits) => kernelBits >= 512 ? SecondsPerUnit512 : SecondsPerUnit256;
+
+    /// <summary>The table for the width this process's Engine uses (the machine that runs <c>check</c> is taken to be the one that runs the points).</summary>
+    public static double[] SecondsPerUnit => SecondsPerUnitFor(KernelWidth.ActiveBits);
 
     /// <summary>Estimated single-core seconds for the point.</summary>
     public static double Seconds(CrystalModel model, Sample sample, SolveOptions options) => Seconds(WorkOf(model, sample, options));
 
-    public static double Seconds(Work work)
+    public static double Seconds(Work work) => Seconds(work, SecondsPerUnit);
+
+    /// <summary>Estimated single-core seconds for the work with a given table (<see cref="SecondsPerUnitFor"/>).</summary>
+    public static double Seconds(Work work, double[] secondsPerUnit)
     {
         ArgumentNullException.ThrowIfNull(work);
+        ArgumentNullException.ThrowIfNull(secondsPerUnit);
         var x = work.AsArray();
         var s = 0.0;
         for (var i = 0; i < x.Length; i++)
         {
-            s += x[i] * SecondsPerUnit[i];
+            s += x[i] * secondsPerUnit[i];
         }
 
         return s;
