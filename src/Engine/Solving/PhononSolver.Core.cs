@@ -60,7 +60,7 @@ public static partial class PhononSolver
                 bytes = Math.Min(f.CellCount * n, FiniteCrystalSolver.StoredModeLimit) * 8L;
                 break;
             case BulkSample b:
-                solves = (b.PointCount + 1) / 2;
+                solves = ((b.PointCount + 1) / 2) + LongWaveSolves(model, b, options);
                 bytes = BulkSolver.EstimateBytes(b.PointCount, n, vectors);
                 break;
             case RealSpaceSample r:

@@ -44,6 +44,19 @@ public static partial class PhononSolver
         return one with { EigenSolves = one.EigenSolves * solves, FlopEstimate = one.FlopEstimate * solves };
     }
 
+    /// <summary>
+    /// Eigen-solves a bulk point makes beside its mesh for the acoustic branches near q = 0 (the
+    /// model's own long waves along rays; none with Gaussian broadening): a fixed number per point,
+    /// which for a large basis on a coarse mesh is most of the work.
+    /// </summary>
+    public static int LongWaveSolves(CrystalModel model, BulkSample sample, SolveOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(sample);
+        ArgumentNullException.ThrowIfNull(options);
+        return options.DosMethod == DosMethod.Gaussian ? 0 : Dos.LongWaveRegion.SolveCount(model.Lattice.Dimension);
+    }
+
     /// <summary>One harmonic solve (the options' expansion, if any, is not looked at).</summary>
     internal static PointResult SolveHarmonic(CrystalModel model, Sample sample, SolveOptions options, CancellationToken cancellationToken)
         => SolveCore(model, sample, options with { Expansion = null }, cancellationToken);

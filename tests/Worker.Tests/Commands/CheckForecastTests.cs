@@ -72,7 +72,7 @@ public sealed class CheckForecastTests : IDisposable
         var job = """
             [sweep]
             name = "costly"
-            warn_point_time_s = 600
+            warn_point_time_s = 60
 
             [[sweep.axes]]
             path = "sample.cells"
@@ -102,9 +102,9 @@ public sealed class CheckForecastTests : IDisposable
         Assert.Contains("costliest    point ", output, StringComparison.Ordinal);
         Assert.Contains("sample_cells = 1000)", output, StringComparison.Ordinal);
         Assert.Matches(@"costliest .*: about [\d.]+ (min|h|days)", output);
-        Assert.Contains("warning: 1 point(s) are estimated above 10 min each ([sweep] warn_point_time_s = 600)", output, StringComparison.Ordinal);
+        Assert.Contains("warning: 1 point(s) are estimated above 60 s each ([sweep] warn_point_time_s = 60)", output, StringComparison.Ordinal);
 
-        var (_, relaxed, _) = Check(job.Replace("warn_point_time_s = 600", "warn_point_time_s = 1e9", StringComparison.Ordinal));
+        var (_, relaxed, _) = Check(job.Replace("warn_point_time_s = 60", "warn_point_time_s = 1e9", StringComparison.Ordinal));
         Assert.DoesNotContain("warning:", relaxed, StringComparison.Ordinal);
     }
 

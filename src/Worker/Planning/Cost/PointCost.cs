@@ -43,35 +43,35 @@ public static class PointCost
     /// each case's estimate / measured in bench/README.md): the eigen-solver and D(q) run twice as
     /// many lanes per instruction at 512 bits, the tetrahedra and thermal sums do not.
     /// </summary>
-    /// <remarks>Measured 2026-12-02 19:53 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 18.5-18.6).</remarks>
+    /// <remarks>Measured 2026-12-02 21:10 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 2.1-3.1), after bulk points counted their long-wave solves.</remarks>
     public static readonly double[] SecondsPerUnit512 =
     [
-        5.14e-4,   // per point
-        2.42e-8,   // per point x n^3
-        0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
-        2.24e-10,  // per solve x n^3, values
-        1.01e-6,   // per solve, vectors
-        4.87e-9,   // per solve x n^3, vectors
-        5.92e-8,   // per mode streamed (finite)
-        6.74e-8,   // per bulk mesh simplex x branch
-        3.50e-8,   // per temperature x bin
-        8.21e-10,  // per conductivity flop-equivalent
+        4.38e-4,   // per point
+        1.61e-8,   // per point x n^3
+        2.53e-8,   // per solve, values
+        4.44e-10,  // per solve x n^3, values
+        8.16e-7,   // per solve, vectors
+        1.93e-9,   // per solve x n^3, vectors
+        4.36e-8,   // per mode streamed (finite)
+        5.86e-8,   // per bulk mesh simplex x branch
+        3.51e-8,   // per temperature x bin
+        7.65e-10,  // per conductivity flop-equivalent
     ];
 
     /// <summary>As <see cref="SecondsPerUnit512"/>, for 256-bit kernels (AVX2 without AVX-512), measured with <c>DOTNET_EnableAVX512=0</c>.</summary>
-    /// <remarks>Measured 2026-12-02 19:52 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just before the 512-bit run (load average 19.4-18.5).</remarks>
+    /// <remarks>Measured 2026-12-02 21:10 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 2.1-4.5).</remarks>
     public static readonly double[] SecondsPerUnit256 =
     [
-        5.03e-4,   // per point
-        1.90e-8,   // per point x n^3
+        4.37e-4,   // per point
+        1.48e-8,   // per point x n^3
         0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
-        5.60e-10,  // per solve x n^3, values
-        9.43e-7,   // per solve, vectors
-        6.36e-9,   // per solve x n^3, vectors
-        6.17e-8,   // per mode streamed (finite)
-        7.43e-8,   // per bulk mesh simplex x branch
-        3.09e-8,   // per temperature x bin
-        7.87e-10,  // per conductivity flop-equivalent
+        6.02e-10,  // per solve x n^3, values
+        1.00e-6,   // per solve, vectors
+        2.69e-9,   // per solve x n^3, vectors
+        5.64e-8,   // per mode streamed (finite)
+        7.12e-8,   // per bulk mesh simplex x branch
+        4.71e-8,   // per temperature x bin
+        7.73e-10,  // per conductivity flop-equivalent
     ];
 
     /// <summary>
@@ -108,7 +108,8 @@ public static class PointCost
     /// allowed wave vectors for eigenvalues, then again with eigenvectors when partial DOS or
     /// displacements need them (otherwise pass 2 reads pass 1's eigenvalues back while they fit the
     /// solver's 8e6-value budget) and streams every mode into its sums; a bulk mesh solves its half
-    /// set once (with vectors when asked) and integrates tetrahedra over the fine DOS.
+    /// set once (with vectors when asked) and the long waves along rays near q = 0
+    /// (<see cref="PhononSolver.LongWaveSolves"/>), and integrates tetrahedra over the fine DOS.
     /// </summary>
     public static Work WorkOf(CrystalModel model, Sample sample, SolveOptions options)
     {
@@ -151,7 +152,8 @@ public static class PointCost
 
             case BulkSample b:
             {
-                var half = (b.PointCount + 1) / 2.0;
+                // The mesh's half set, and the long-wave solves along rays near q = 0 (a fixed number per point).
+                var half = ((b.PointCount + 1) / 2.0) + PhononSolver.LongWaveSolves(model, b, options);
                 var values = vectors ? 0 : half;
                 var withVectors = vectors ? half : 0;
                 var fineBins = Math.Max(2048.0, options.DosBins);
