@@ -20,19 +20,7 @@ public sealed class RealSpaceOperatorTests
     [MemberData(nameof(Blocks))]
     public void The_sparse_product_equals_the_dense_matrix_times_the_vector(string which)
     {
-        var (model, sample) = which switch
-        {
-            "scalar cubic" => (Crystals.ScalarSimpleCubic(), RealSpaceSample.Box(3, 4, 5, Boundary.Free, Boundary.Periodic, Boundary.Free)),
-            "in-plane square sheet" => (CrystalModel.Create(
-                Lattice.Square(0.3),
-                [new Site("A", "A", Vec3.Zero, 20)],
-                [new ShellSpring("A", "A", 1, 10, 1), new ShellSpring("A", "A", 2, 4, 0)],
-                degreesOfFreedom: DegreesOfFreedom.InPlane), RealSpaceSample.Sphere(1.0, dimension: 2)),
-            _ => (BondedCrystals.Tetrahedral(50, 5), RealSpaceSample.Sphere(0.7) with
-            {
-                Disorder = new Disorder([new SiteSubstitution("A", 40.0, 0.5, 3.0)], 1, Seed: 2),
-            }),
-        };
+        var (model, sample) = BlockOf(which);
         var block = RealSpaceLattice.Build(CompiledCrystal.From(model), sample, bloch: false);
         var properties = sample.Disorder is { } d ? SiteProperties.Random(block, d, 0) : SiteProperties.Ordered(block);
         var op = new RealSpaceOperator(block, properties);
@@ -64,19 +52,7 @@ public sealed class RealSpaceOperatorTests
         // The blocked recursion does each lane's operations in the one-vector order: same bits, for
         // six vectors (a full block and a part-filled one), with rotations projected out at every
         // step (transverse springs) and with bends weighted per entry (substitutes).
-        var (model, sample) = which switch
-        {
-            "scalar cubic" => (Crystals.ScalarSimpleCubic(), RealSpaceSample.Box(6, 5, 4, Boundary.Free, Boundary.Periodic, Boundary.Free)),
-            "in-plane square sheet" => (CrystalModel.Create(
-                Lattice.Square(0.3),
-                [new Site("A", "A", Vec3.Zero, 20)],
-                [new ShellSpring("A", "A", 1, 10, 1), new ShellSpring("A", "A", 2, 4, 0)],
-                degreesOfFreedom: DegreesOfFreedom.InPlane), RealSpaceSample.Sphere(1.5, dimension: 2)),
-            _ => (BondedCrystals.Tetrahedral(50, 5), RealSpaceSample.Sphere(0.9) with
-            {
-                Disorder = new Disorder([new SiteSubstitution("A", 40.0, 0.5, 3.0)], 1, Seed: 2),
-            }),
-        };
+        var (model, sample) = BlockOf(which);
         var transverse = CrystalModel.Create(Lattice.FaceCentredCubic(0.4), [new Site("M", "M", Vec3.Zero, 50)], [new ShellSpring("M", "M", 1, 15, 2)]);
         foreach (var (m, smp) in new[] { (model, sample), (transverse, RealSpaceSample.Sphere(0.9)) })
         {
@@ -90,4 +66,19 @@ public sealed class RealSpaceOperatorTests
             Assert.Contains(one.Kpm.PerVector, v => v != 0);
         }
     }
+
+    /// <summary>One, two and three components per site; the last with bends weighted per entry (substitutes).</summary>
+    private static (CrystalModel Model, RealSpaceSample Sample) BlockOf(string which) => which switch
+    {
+        "scalar cubic" => (Crystals.ScalarSimpleCubic(), RealSpaceSample.Box(6, 5, 4, Boundary.Free, Boundary.Periodic, Boundary.Free)),
+        "in-plane square sheet" => (CrystalModel.Create(
+            Lattice.Square(0.3),
+            [new Site("A", "A", Vec3.Zero, 20)],
+            [new ShellSpring("A", "A", 1, 10, 1), new ShellSpring("A", "A", 2, 4, 0)],
+            degreesOfFreedom: DegreesOfFreedom.InPlane), RealSpaceSample.Sphere(1.5, dimension: 2)),
+        _ => (BondedCrystals.Tetrahedral(50, 5), RealSpaceSample.Sphere(0.9) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", 40.0, 0.5, 3.0)], 1, Seed: 2),
+        }),
+    };
 }
