@@ -144,6 +144,47 @@ public sealed class ResultTable
         return Select(TableFacts.Of(this, "positions\n" + column, t => Positions(t, i))(value));
     }
 
+    /// <summary>
+    /// The first position in view of each of a few <paramref name="values"/> of a text column (-1 where
+    /// absent), found in one pass without indexing every row (a handful of point ids out of 10^6).
+    /// </summary>
+    internal int[] FirstPositions(string column, IReadOnlyList<string> values)
+    {
+        var found = new int[values.Count];
+        Array.Fill(found, -1);
+        var i = IndexOf(column);
+        if (i < 0 || values.Count == 0)
+        {
+            return found;
+        }
+
+        var wanted = new Dictionary<string, int>(StringComparer.Ordinal);
+        foreach (var v in values)
+        {
+            wanted.TryAdd(v, wanted.Count);
+        }
+
+        var at = new int[wanted.Count];
+        Array.Fill(at, -1);
+        var left = wanted.Count;
+        var cells = Cells(i);
+        for (var r = 0; r < _count && left > 0; r++)
+        {
+            if (cells.Text(r) is { } s && wanted.TryGetValue(s, out var k) && at[k] < 0)
+            {
+                at[k] = r;
+                left--;
+            }
+        }
+
+        for (var v = 0; v < values.Count; v++)
+        {
+            found[v] = at[wanted[values[v]]];
+        }
+
+        return found;
+    }
+
     /// <summary>The values of a numeric column as doubles (null where empty).</summary>
     public IEnumerable<double?> Numbers(string column)
     {

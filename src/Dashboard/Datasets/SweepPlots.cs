@@ -102,23 +102,46 @@ internal static class SweepPlots
         var categorical = !all.Column(r.X)!.IsNumeric;
         var categories = categorical ? Categories(all, all.IndexOf(r.X)) : [];
         var categoryAt = categories.Select((c, i) => (c, i)).ToDictionary(p => p.c, p => p.i, StringComparer.Ordinal);
-        // By position, column by column: a row is boxed only for the cells a point needs.
-        var usable = Enumerable.Range(0, filtered.Count)
-            .Where(row => xs.HasValue(row) && Finite(ys.Number(row)) is not null && (categorical || Finite(xs.Number(row)) is not null))
-            .ToList();
-        var keyed = usable.GroupBy(row => groups?.Key(row) ?? CellKey.Empty).Select(g => (Raw: groups is { } c ? Show.Raw(c.Cell(g.First())) : "", Rows: g));
-        var series = new List<PlotSeries>();
-        foreach (var (_, group) in keyed.OrderBy(g => g.Raw, ValueOrder.Of(filtered, grouped)))
+        // By position, column by column: rows are grouped and ordered as positions, and only the
+        // rows drawn (an even sample of each series) become points with their ids.
+        var usable = new List<int>();
+        for (var row = 0; row < filtered.Count; row++)
         {
-            var points = group
-                .Select(row => maker.Make(row, categorical ? categoryAt.GetValueOrDefault(Show.Raw(xs.Cell(row)), -1) : null))
-                .OrderBy(p => p.X)
-                .ToImmutableArray();
-            var lines = !categorical && points.Select(p => p.X).Distinct().Count() == points.Length;
-            var name = grouped < 0 ? names.Label(r.Y) : Show.Value(groups!.Value.Cell(group.First()), names.UnitOf(filtered.Columns[grouped].Name));
-            series.Add(new PlotSeries(name, lines, points));
+            if (xs.HasValue(row) && Finite(ys.Number(row)) is not null && (categorical || Finite(xs.Number(row)) is not null))
+            {
+                usable.Add(row);
+            }
         }
 
+        var groupAt = new Dictionary<CellKey, int>();
+        var groupRows = new List<List<int>>();
+        foreach (var row in usable)
+        {
+            var key = groups?.Key(row) ?? CellKey.Empty;
+            if (!groupAt.TryGetValue(key, out var g))
+            {
+                groupAt[key] = g = groupRows.Count;
+                groupRows.Add([]);
+            }
+
+            groupRows[g].Add(row);
+        }
+
+        var keyed = groupRows.Select(rows => (Raw: groups is { } c ? Show.Raw(c.Cell(rows[0])) : "", Rows: rows));
+        var ordered = new List<(string Name, bool Lines, int[] Rows, double[] X)>();
+        foreach (var (_, group) in keyed.OrderBy(g => g.Raw, ValueOrder.Of(filtered, grouped)))
+        {
+            var (rows, x) = SortedByX(group, row => categorical ? categoryAt.GetValueOrDefault(Show.Raw(xs.Cell(row)), -1) : xs.Number(row)!.Value);
+            var lines = !categorical && AllDistinct(x);
+            var name = grouped < 0 ? names.Label(r.Y) : Show.Value(groups!.Value.Cell(group[0]), names.UnitOf(filtered.Columns[grouped].Name));
+            ordered.Add((name, lines, rows, x));
+        }
+
+        var plotted = ordered.Sum(s => s.Rows.Length);
+        var stride = Stride(plotted);
+        var series = ordered
+            .Select(s => new PlotSeries(s.Name, s.Lines, [.. Sample(s.Rows.Length, stride).Select(i => maker.Make(s.Rows[i], categorical ? (int)s.X[i] : null))]))
+            .ToList();
         if (series.Count > MaxDefaultGroups && grouped >= 0)
         {
             notes.Add($"{series.Count} lines, one per value of {names.ShortLabel(r.By!)}: coloured from blue (the lowest, {series[0].Name}) to orange (the highest, {series[^1].Name}); the tooltip names each.");
@@ -129,8 +152,7 @@ internal static class SweepPlots
             notes.Add("Several points share an x value within a series, so they are drawn as points without lines: split the series by another parameter or narrow the filter.");
         }
 
-        var plotted = series.Sum(s => s.Points.Length);
-        series = Thinned(series, plotted, notes);
+        Thinned(series, plotted, stride, notes);
         var xAxis = Axis(names, r.X, all, r.XScale, notes, categorical, categories);
         var yAxis = Axis(names, r.Y, all, r.YScale, notes, false, []);
         return new SweepPlot(SweepPlot.ParameterKind, PointUrl(sweep), xAxis, yAxis, grouped < 0 ? null : r.By, grouped < 0 ? null : names.Label(r.By!),
@@ -151,39 +173,100 @@ internal static class SweepPlots
         var maker = new PointMaker(filtered, r.X, r.Y);
         var xs = filtered.Cells(r.X);
         var ys = filtered.Cells(r.Y);
-        var points = Enumerable.Range(0, filtered.Count)
-            .Where(row => Finite(xs.Number(row)) is not null && Finite(ys.Number(row)) is not null)
-            .Select(row => maker.Make(row, null))
-            .ToList();
-        var candidates = points.Where(p => !p.Unstable).ToList();
-        var front = ParetoFront.Of([.. candidates.Select(p => (p.X, p.Y))], r.XLarger, r.YLarger).Select(i => candidates[i]).ToImmutableArray();
-        var series = new List<PlotSeries> { new("stable models", false, [.. points.Where(p => !p.Unstable)]) };
-        if (points.Any(p => p.Unstable))
+        // Positions first: the front is found over every stable row on the two columns, and only
+        // the rows drawn (an even sample of each series) and the front's become points.
+        var flags = new ColumnFlags(filtered);
+        var stable = new List<int>();
+        var unstable = new List<int>();
+        for (var row = 0; row < filtered.Count; row++)
         {
-            series.Add(new PlotSeries("unstable models", false, [.. points.Where(p => p.Unstable)]));
+            if (Finite(xs.Number(row)) is not null && Finite(ys.Number(row)) is not null)
+            {
+                (flags.IsUnstable(row) ? unstable : stable).Add(row);
+            }
+        }
+
+        var plotted = stable.Count + unstable.Count;
+        var fx = new double[stable.Count];
+        var fy = new double[stable.Count];
+        for (var i = 0; i < stable.Count; i++)
+        {
+            fx[i] = xs.Number(stable[i])!.Value;
+            fy[i] = ys.Number(stable[i])!.Value;
+        }
+
+        var front = ParetoFront.Of(fx, fy, r.XLarger, r.YLarger).Select(i => maker.Make(stable[i], null)).ToImmutableArray();
+        var stride = Stride(plotted);
+        var series = new List<PlotSeries> { new("stable models", false, [.. Sample(stable.Count, stride).Select(i => maker.Make(stable[i], null))]) };
+        if (unstable.Count > 0)
+        {
+            series.Add(new PlotSeries("unstable models", false, [.. Sample(unstable.Count, stride).Select(i => maker.Make(unstable[i], null))]));
             notes.Add("Unstable models are drawn apart and are never on the front.");
         }
 
-        series = Thinned(series, points.Count, notes);
+        Thinned(series, plotted, stride, notes);
         var rule = $"{(r.XLarger ? "larger" : "smaller")} {names.ShortLabel(r.X)} and {(r.YLarger ? "larger" : "smaller")} {names.ShortLabel(r.Y)} are better";
         return new SweepPlot(SweepPlot.ScatterKind, PointUrl(sweep), Axis(names, r.X, all, r.XScale, notes, false, []), Axis(names, r.Y, all, r.YScale, notes, false, []),
-            null, null, [.. series], front, rule, points.Count, filtered.Count - points.Count, [.. notes]);
+            null, null, [.. series], front, rule, plotted, filtered.Count - plotted, [.. notes]);
     }
 
-    /// <summary>Each series evenly sampled when the plot has more than <see cref="SweepPlot.MaxDrawn"/> points (said in a note).</summary>
-    private static List<PlotSeries> Thinned(List<PlotSeries> series, int plotted, List<string> notes)
+    /// <summary>One in this many points of each series is drawn: 1 up to <see cref="SweepPlot.MaxDrawn"/> points in all.</summary>
+    private static int Stride(int plotted) => plotted <= SweepPlot.MaxDrawn ? 1 : (plotted + SweepPlot.MaxDrawn - 1) / SweepPlot.MaxDrawn;
+
+    /// <summary>The positions drawn of a series of <paramref name="count"/> points: one in <paramref name="stride"/> in its order, with its last.</summary>
+    internal static IEnumerable<int> Sample(int count, int stride)
     {
-        if (plotted <= SweepPlot.MaxDrawn)
+        for (var i = 0; i < count; i++)
         {
-            return series;
+            if (i % stride == 0 || i == count - 1)
+            {
+                yield return i;
+            }
+        }
+    }
+
+    /// <summary>Says in a note when the series were sampled (each evenly, when the plot has more than <see cref="SweepPlot.MaxDrawn"/> points).</summary>
+    private static void Thinned(List<PlotSeries> series, int plotted, int stride, List<string> notes)
+    {
+        if (plotted > SweepPlot.MaxDrawn)
+        {
+            notes.Add($"{Show.Count(series.Sum(s => s.Points.Length))} of the {Show.Count(plotted)} points are drawn (one in {Show.Count(stride)} of each series in its order, with its first and last); the front, the table and the downloads have them all.");
+        }
+    }
+
+    /// <summary>The rows ordered by x, rows of equal x in their own order (a stable sort), with their x values.</summary>
+    private static (int[] Rows, double[] X) SortedByX(List<int> rows, Func<int, double> x)
+    {
+        var entries = new XEntry[rows.Count];
+        for (var i = 0; i < entries.Length; i++)
+        {
+            entries[i] = new XEntry(x(rows[i]), i, rows[i]);
         }
 
-        var stride = (plotted + SweepPlot.MaxDrawn - 1) / SweepPlot.MaxDrawn;
-        var thinned = series
-            .Select(s => s with { Points = [.. s.Points.Where((_, i) => i % stride == 0 || i == s.Points.Length - 1)] })
-            .ToList();
-        notes.Add($"{Show.Count(thinned.Sum(s => s.Points.Length))} of the {Show.Count(plotted)} points are drawn (one in {Show.Count(stride)} of each series in its order, with its first and last); the front, the table and the downloads have them all.");
-        return thinned;
+        entries.AsSpan().Sort(new ByX());
+        return ([.. entries.Select(e => e.Row)], [.. entries.Select(e => e.X)]);
+    }
+
+    private readonly record struct XEntry(double X, int Order, int Row);
+
+    /// <summary>Smaller x first, then the earlier row (the order a stable sort keeps).</summary>
+    private readonly struct ByX : IComparer<XEntry>
+    {
+        public int Compare(XEntry p, XEntry q) => p.X.CompareTo(q.X) is var c and not 0 ? c : p.Order.CompareTo(q.Order);
+    }
+
+    /// <summary>True when no two of the sorted values are equal.</summary>
+    private static bool AllDistinct(double[] sorted)
+    {
+        for (var i = 1; i < sorted.Length; i++)
+        {
+            if (sorted[i] == sorted[i - 1])
+            {
+                return false;
+            }
+        }
+
+        return true;
     }
 
     /// <summary>A point's page is this followed by its escaped id.</summary>

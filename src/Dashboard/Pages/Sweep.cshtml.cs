@@ -159,10 +159,25 @@ internal sealed partial class SweepModel : PageModel
     /// <summary>A point's values of the parameters the table shows by default ("invented-03, 6 N/m"), for lists of points.</summary>
     public string ParametersOf(string pointId)
     {
-        var row = Points.All.Where("point_id", pointId).Rows.FirstOrDefault();
-        return row.IsDefault
-            ? ""
-            : string.Join(", ", SummaryTable.KeyParameters(Points.All, Names).Select(p => Formatting.Show.Value(row[Points.All.IndexOf(p)], Names.UnitOf(p))));
+        // The front's listed rows are found together in one pass over point_id (no index of every id).
+        _frontRows ??= FrontRows();
+        var at = _frontRows.TryGetValue(pointId, out var known) ? known : Points.All.FirstPositions("point_id", [pointId])[0];
+        if (at < 0)
+        {
+            return "";
+        }
+
+        // Only the parameters' cells are read (boxing the whole row would read every column of the table).
+        return string.Join(", ", SummaryTable.KeyParameters(Points.All, Names).Select(p => Formatting.Show.Value(Points.All.Cell(at, Points.All.IndexOf(p)), Names.UnitOf(p))));
+    }
+
+    private Dictionary<string, int>? _frontRows;
+
+    private Dictionary<string, int> FrontRows()
+    {
+        var ids = (Plots.Scatter?.Front ?? []).Take(MaxFrontRows).Select(f => f.PointId).Distinct(StringComparer.Ordinal).ToList();
+        var at = Points.All.FirstPositions("point_id", ids);
+        return ids.Select((id, i) => (id, i)).ToDictionary(p => p.id, p => at[p.i], StringComparer.Ordinal);
     }
 
     /// <summary>Whether a value of a parameter is ticked in the filter.</summary>
