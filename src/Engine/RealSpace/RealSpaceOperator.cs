@@ -16,7 +16,7 @@ internal sealed class RealSpaceOperator
     private readonly double[] _rowFactor;   // per site g_s / sqrt(m_s)
     private readonly double[] _typeTensor;  // per coupling type c x c, N/m
     private readonly double[] _z;           // scratch for Apply: g_j x_j / sqrt(m_j)
-    private double[]? _zBlock;              // scratch for ApplyBlock, allocated on first use
+    private double[]? _zBlock;              // scratch for ApplyBlock (and its lane-by-lane form), allocated on first use
     private readonly double[]? _weight;     // per directed spring, a factor beside g_i g_j (bends scaled as wholes); null = all 1
 
     public RealSpaceOperator(RealSpaceLattice lattice, SiteProperties properties)
@@ -361,8 +361,9 @@ internal sealed class RealSpaceOperator
     {
         const int L = BlockLanes;
         var n = Size;
-        var one = new double[n];
-        var result = new double[n];
+        var scratch = _zBlock ??= new double[Size * L];
+        var one = scratch.AsSpan(0, n);
+        var result = scratch.AsSpan(n, n);
         for (var lane = 0; lane < L; lane++)
         {
             for (var i = 0; i < n; i++)

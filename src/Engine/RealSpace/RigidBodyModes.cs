@@ -247,7 +247,8 @@ internal sealed class RigidBodyModes
             return;
         }
 
-        var dots = new Vector256<double>[k];
+        Span<Vector256<double>> dots = stackalloc Vector256<double>[k];
+        dots.Clear();
         var n = x.Length / L;
         for (var i = 0; i < n; i++)
         {

@@ -102,24 +102,18 @@ public static partial class PhononSolver
                 lattice = unfolded;
             }
 
-            var springsPerSite = lattice.Neighbour.Length / Math.Max(1, lattice.Sites);
-            var bytes = KpmBytes(lattice.AtomCount, springsPerSite, blocked: false);
+            var (blocked, bytes) = RealSpaceKpmSolver.MemoryPlan(lattice.AtomCount, lattice.Neighbour.Length / Math.Max(1, lattice.Sites), options.MemoryLimitBytes);
             if (bytes > options.MemoryLimitBytes)
             {
                 throw Guard.Single(ModelProblemKind.TooLarge, "sample",
                     $"the kernel polynomial method needs about {bytes >> 20} MiB for {lattice.AtomCount} atoms, more than output.memory_limit_gib allows ({options.MemoryLimitBytes >> 20} MiB); raise the limit or use a smaller sample");
             }
 
-            // Four vectors at once is faster but holds four more vectors of four lanes: only where they fit.
-            var blocked = RealSpaceKpmSolver.BlocksByDefault && KpmBytes(lattice.AtomCount, springsPerSite, blocked: true) <= options.MemoryLimitBytes;
             return RealSpaceKpmSolver.Solve(lattice, properties, temperatures, options, sample.Kpm, configuration, ct, blocked);
         }
 
         return RealSpaceDenseSolver.Solve(lattice, properties, temperatures, options, sample.SurfaceWeightThreshold, record, ct);
     }
-
-    /// <summary>Working memory of the kernel polynomial method (the block's springs, the recursion's vectors, the site tables).</summary>
-    private static long KpmBytes(long atoms, int springsPerSite, bool blocked) => atoms * RealSpaceKpmSolver.BytesPerAtom(springsPerSite, blocked);
 
     /// <summary>Why a block does not fit the dense solver, or null when it does.</summary>
     private static string? DenseTooLarge(long blockSites, long size, bool complex, RealSpaceSample sample, SolveOptions options)
@@ -197,13 +191,11 @@ public static partial class PhononSolver
             // direction) plus the group sums and the projection; then the densities on 4096 + bins edges.
             var atoms = (double)blockSites * images;
             var springs = crystal.Couplings.Length / (double)Math.Max(1, crystal.Sites);
-            var plain = (long)atoms * RealSpaceKpmSolver.BytesPerAtom((int)Math.Ceiling(springs), blocked: false);
-            var blockedBytes = (long)atoms * RealSpaceKpmSolver.BytesPerAtom((int)Math.Ceiling(springs), blocked: true);
-            var blocked = RealSpaceKpmSolver.BlocksByDefault && blockedBytes <= options.MemoryLimitBytes;
+            var (blocked, bytes) = RealSpaceKpmSolver.MemoryPlan((long)atoms, (int)Math.Ceiling(springs), options.MemoryLimitBytes);
             var perProduct = atoms * crystal.Components * ((springs * 6) + 40) / (blocked ? RealSpaceKpmSolver.MeasuredBlockSpeedup : 1);
             var vectors = sample.Kpm.RandomVectors * configurations;
             var flops = vectors * (sample.Kpm.Moments / 2.0) * perProduct;
-            return new WorkEstimate(0, (int)Math.Min(int.MaxValue, (long)atoms * crystal.Components), flops, blocked ? blockedBytes : plain);
+            return new WorkEstimate(0, (int)Math.Min(int.MaxValue, (long)atoms * crystal.Components), flops, bytes);
         }
 
         var points = complex ? (images + 1) / 2 : 1;

@@ -47,6 +47,20 @@ internal static class RealSpaceKpmSolver
     /// </summary>
     public const double MeasuredBlockSpeedup = 4.6;
 
+    /// <summary>
+    /// Whether the recursion runs in blocks for a sample of <paramref name="atoms"/> atoms, and the working
+    /// memory it then needs (the block's springs, the recursion's vectors, the site tables): four vectors
+    /// at once is faster but holds four more vectors of four lanes, so blocks only where the processor
+    /// runs them and their memory fits the limit.
+    /// </summary>
+    public static (bool Blocked, long Bytes) MemoryPlan(long atoms, int springsPerSite, long memoryLimitBytes)
+    {
+        var blockedBytes = atoms * BytesPerAtom(springsPerSite, blocked: true);
+        return BlocksByDefault && blockedBytes <= memoryLimitBytes
+            ? (true, blockedBytes)
+            : (false, atoms * BytesPerAtom(springsPerSite, blocked: false));
+    }
+
     /// <summary>True when the recursion runs four random vectors at once in 256-bit lanes (AVX2, and no <c>LATSWEEP_SIMD_WIDTH=scalar</c>).</summary>
     public static bool BlocksByDefault => Vector256.IsHardwareAccelerated && SimdWidths.Active != SimdWidth.Scalar;
 
@@ -57,31 +71,34 @@ internal static class RealSpaceKpmSolver
         var op = new RealSpaceOperator(lattice, properties);
         var n = op.Size;
         var rigid = RigidBodyModes.Of(lattice, properties.MassKg);
-        var scratch = new double[n];
         void ApplyProjected(double[] x, double[] y)
         {
             op.Apply(x, y);
             rigid.ProjectOutOfVector(y);
         }
 
-        var rotation = rigid.RotationStiffness(v =>
+        // D of each rigid-body mode, made once: the rotation stiffness and the choice below both read it.
+        var dOfRigid = new Dictionary<double[], double[]>();
+        double[] ApplyToRigid(double[] v)
         {
-            var y = new double[n];
-            op.Apply(v, y);
+            if (!dOfRigid.TryGetValue(v, out var y))
+            {
+                y = new double[n];
+                op.Apply(v, y);
+                dOfRigid[v] = y;
+            }
+
             return y;
-        });
+        }
+
+        var rotation = rigid.RotationStiffness(ApplyToRigid);
 
         // The recursion's vectors start orthogonal to every rigid-body mode. D keeps a vector orthogonal
         // to each rigid mode it annihilates (D symmetric: <v, D x> = <D v, x> = 0): the translations
         // always (the acoustic sum rule), the rotations for rotationally invariant springs. Only the
         // others need projecting out at every step, a pass over all of them (often none).
         var gershgorin = op.GershgorinBounds();
-        var resisted = rigid.ResistedBy(v =>
-        {
-            var y = new double[n];
-            op.Apply(v, y);
-            return y;
-        }, 1e-10 * Math.Max(Math.Abs(gershgorin.Upper), Math.Abs(gershgorin.Lower)));
+        var resisted = rigid.ResistedBy(ApplyToRigid, 1e-10 * Math.Max(Math.Abs(gershgorin.Upper), Math.Abs(gershgorin.Lower)));
         void ApplyInRigidFreeSpace(double[] x, double[] y)
         {
             op.Apply(x, y);
