@@ -24,15 +24,22 @@ internal static class SimplexDosIntegrator
     /// <param name="longWaves">Cells whose lowest branches are integrated elsewhere (<see cref="LongWaveRegion"/>); they skip those branches here.</param>
     /// <param name="moments">Per-bin moments of the states (1D and 2D only; the 3D path ignores them).</param>
     /// <param name="vectors">3D only: the 256-bit tetrahedron kernel (true), the scalar one (false), or the process default (null); same bits either way.</param>
+    /// <param name="axisPermutations">3D without channel weights only: permutations of the mesh axes that leave the frequencies unchanged (<see cref="MeshAxisPermutations.Find"/>); one cube per orbit is integrated. Null: inversion alone.</param>
     public static void Accumulate(
         int dimension, (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz,
-        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves = null, BinMoments? moments = null, bool? vectors = null)
+        double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves = null, BinMoments? moments = null, bool? vectors = null,
+        MeshAxisPermutations? axisPermutations = null)
     {
         var (m1, m2, m3) = mesh;
         var cells = (long)m1 * m2 * m3;
         if (dimension == 3)
         {
-            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial, longWaves, vectors ?? TetrahedronBins.VectorsByDefault);
+            if (axisPermutations is not null && weights is not null && channels > 0 && axisPermutations.Order > 1)
+            {
+                throw new ArgumentException("axis permutations apply to the total density only (channel weights permute with the sites)", nameof(axisPermutations));
+            }
+
+            AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial, longWaves, vectors ?? TetrahedronBins.VectorsByDefault, axisPermutations ?? MeshAxisPermutations.None);
             return;
         }
 
@@ -85,7 +92,7 @@ internal static class SimplexDosIntegrator
     /// </summary>
     private static void AccumulateTetrahedra(
         (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz, double[]? weights, int channels,
-        FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves, bool vectors)
+        FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves, bool vectors, MeshAxisPermutations axisPermutations)
     {
         var (m1, m2, m3) = mesh;
         var share = 1.0 / 6.0 / ((long)m1 * m2 * m3);
@@ -100,7 +107,9 @@ internal static class SimplexDosIntegrator
 
         // omega(-q) = omega(q) (and the channel weights agree), and inversion maps the mesh cube based
         // at i onto the one based at -(i + 1), carrying the six-tetrahedra split onto itself. So a cube
-        // and its image add the same states: visit one of each pair, twice the share.
+        // and its image add the same states: visit one of each pair, twice the share. Axis permutations
+        // that leave the frequencies unchanged map cubes and their splits onto each other likewise:
+        // one cube per orbit, the orbit's count times the share.
         // The vector kernel sets up a cube's tetrahedra four at a time (PrepareBatch), in the order
         // the loop below adds them: tetrahedron by tetrahedron, branch by branch.
         var batch = 6 * branches;
@@ -108,10 +117,10 @@ internal static class SimplexDosIntegrator
         var cornerB = new double[batch + 3];
         var cornerC = new double[batch + 3];
         var cornerD = new double[batch + 3];
-        var image1 = ImageOfCubes(m1);
-        var image2 = ImageOfCubes(m2);
-        var image3 = ImageOfCubes(m3);
-        var pairShare = 2 * share;
+        int[][] inverted = [ImageOfCubes(m1), ImageOfCubes(m2), ImageOfCubes(m3)];
+        var operations = axisPermutations.Permutations;
+        Span<int> cubeBase = stackalloc int[3];
+        Span<int> orbit = stackalloc int[2 * operations.Count];
         for (var i1 = 0; i1 < m1; i1++)
         {
             var j1 = i1 + 1 == m1 ? 0 : i1 + 1;
@@ -120,14 +129,27 @@ internal static class SimplexDosIntegrator
                 var j2 = i2 + 1 == m2 ? 0 : i2 + 1;
                 for (var i3 = 0; i3 < m3; i3++)
                 {
+                    // A cube's images under the axis permutations, each with and without inversion: the
+                    // cube of the lowest index integrates the orbit (permuted axes have equal counts,
+                    // so their inversion images agree).
                     var self = ((i1 * m2) + i2) * m3 + i3;
-                    var image = ((image1[i1] * m2) + image2[i2]) * m3 + image3[i3];
-                    if (image < self)
+                    (cubeBase[0], cubeBase[1], cubeBase[2]) = (i1, i2, i3);
+                    var lower = false;
+                    for (var g = 0; g < operations.Count && !lower; g++)
+                    {
+                        var p = operations[g];
+                        var (n1, n2, n3) = (cubeBase[p[0]], cubeBase[p[1]], cubeBase[p[2]]);
+                        orbit[2 * g] = ((n1 * m2) + n2) * m3 + n3;
+                        orbit[(2 * g) + 1] = ((inverted[0][n1] * m2) + inverted[1][n2]) * m3 + inverted[2][n3];
+                        lower = orbit[2 * g] < self || orbit[(2 * g) + 1] < self;
+                    }
+
+                    if (lower)
                     {
                         continue;
                     }
 
-                    var cubeShare = image == self ? share : pairShare;
+                    var cubeShare = share * DistinctCount(orbit);
 
                     // The box around q = 0 is inversion-symmetric: a cube and its image are both in or both out.
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
@@ -213,6 +235,21 @@ internal static class SimplexDosIntegrator
                 partial[(ch * grid.Bins) + bin] += paddedPartial[(ch * stride) + bin];
             }
         }
+    }
+
+    /// <summary>How many different values the (short) span holds.</summary>
+    private static int DistinctCount(Span<int> values)
+    {
+        var count = 0;
+        for (var i = 0; i < values.Length; i++)
+        {
+            if (!values[..i].Contains(values[i]))
+            {
+                count++;
+            }
+        }
+
+        return count;
     }
 
     /// <summary>Base index of the image of each cube along one axis: mesh index i is n = i - floor(M/2), and -(n + 1) maps back.</summary>
