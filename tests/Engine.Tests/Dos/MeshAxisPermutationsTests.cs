@@ -110,7 +110,7 @@ public sealed class MeshAxisPermutationsTests
             var reduced = new double[grid.Bins];
             SimplexDosIntegrator.Accumulate(3, (m1, m2, m3), branches, frequencies, null, 0, grid, reduced, [], box, vectors: vectors, axisPermutations: permutations);
 
-            Tolerance.AssertAllClose(full, reduced, 1e-15, 1e-12, $"total per bin, {bins} bins");
+            Tolerance.AssertAllClose(full, reduced, 1e-12, 1e-16, $"total per bin, {bins} bins");
             Tolerance.AssertClose(full.Sum(), reduced.Sum(), 1e-13, 0, "states per cell");
         }
     }
