@@ -46,14 +46,18 @@ internal sealed class MeshAxisPermutations
     /// <param name="branches">Branches per point.</param>
     /// <param name="frequencyThz">Signed frequency at [point * branches + branch], point = (i1 * M2 + i2) * M3 + i3.</param>
     /// <param name="longWaves">The long-wave box the tetrahedra skip, if any: it must be the same along permuted axes.</param>
-    public static MeshAxisPermutations Find((int M1, int M2, int M3) mesh, int branches, double[] frequencyThz, LongWaveBox? longWaves)
+    /// <param name="largestThz">The largest |frequency| when the caller knows it; otherwise found here.</param>
+    public static MeshAxisPermutations Find((int M1, int M2, int M3) mesh, int branches, double[] frequencyThz, LongWaveBox? longWaves, double? largestThz = null)
     {
         int[] counts = [mesh.M1, mesh.M2, mesh.M3];
         int[] box = longWaves is { } b ? [b.K1, b.K2, b.K3] : [0, 0, 0];
-        var largest = 0.0;
-        foreach (var f in frequencyThz)
+        var largest = largestThz ?? 0.0;
+        if (largestThz is null)
         {
-            largest = Math.Max(largest, Math.Abs(f));
+            foreach (var f in frequencyThz)
+            {
+                largest = Math.Max(largest, Math.Abs(f));
+            }
         }
 
         var tolerance = RelativeTolerance * largest * largest;
@@ -87,15 +91,26 @@ internal sealed class MeshAxisPermutations
     {
         var (m1, m2, m3) = mesh;
         var involution = p[p[0]] == 0 && p[p[1]] == 1 && p[p[2]] == 2;
+
+        // Values per step of an index along each axis, and the image's per step of the third index
+        // (the axis it lands on), so the innermost loop only adds strides.
+        long[] stride = [(long)m2 * m3 * branches, (long)m3 * branches, branches];
+        var imageStep = stride[Array.IndexOf(p, 2)];
         Span<int> index = stackalloc int[3];
-        for (index[0] = 0; index[0] < m1; index[0]++)
+        for (var i0 = 0; i0 < m1; i0++)
         {
-            for (index[1] = 0; index[1] < m2; index[1]++)
+            for (var i1 = 0; i1 < m2; i1++)
             {
-                for (index[2] = 0; index[2] < m3; index[2]++)
+                (index[0], index[1], index[2]) = (i0, i1, 0);
+                var self = (i0 * stride[0]) + (i1 * stride[1]);
+                var image = 0L;
+                for (var a = 0; a < 3; a++)
                 {
-                    var self = (((long)index[0] * m2) + index[1]) * m3 + index[2];
-                    var image = (((long)index[p[0]] * m2) + index[p[1]]) * m3 + index[p[2]];
+                    image += index[p[a]] * stride[a];
+                }
+
+                for (var i2 = 0; i2 < m3; i2++, self += branches, image += imageStep)
+                {
                     if (image == self || (involution && image < self))
                     {
                         continue;
@@ -103,8 +118,8 @@ internal sealed class MeshAxisPermutations
 
                     for (var k = 0; k < branches; k++)
                     {
-                        var x = frequencyThz[(self * branches) + k];
-                        var y = frequencyThz[(image * branches) + k];
+                        var x = frequencyThz[self + k];
+                        var y = frequencyThz[image + k];
                         if (!(Math.Abs((x * Math.Abs(x)) - (y * Math.Abs(y))) <= tolerance))
                         {
                             return false;

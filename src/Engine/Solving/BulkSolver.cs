@@ -153,7 +153,7 @@ internal static class BulkSolver
             // Without channel weights the cubic axis permutations (where the spectrum has them) cut the
             // tetrahedra sixfold; the weights permute with the sites, so they keep the full sum.
             var mesh = (sample.M1, sample.M2, sample.M3);
-            var axisPermutations = dimension == 3 && weights is null ? MeshAxisPermutations.Find(mesh, n, frequencies, longWaves?.Box) : null;
+            var axisPermutations = dimension == 3 && weights is null ? MeshAxisPermutations.Find(mesh, n, frequencies, longWaves?.Box, Math.Max(-lowest, highest)) : null;
             SimplexDosIntegrator.Accumulate(dimension, mesh, n, frequencies, weights, weights is null ? 0 : n, fine, total, partial, longWaves?.Box, moments, axisPermutations: axisPermutations);
         }
 
