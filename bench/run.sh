@@ -65,9 +65,12 @@ fi
 if [[ " ${cases[*]} " == *" queue "* && "${QUEUE_LATSWEEP:-r2r}" == composite ]]; then
   # README's second install line: self-contained, the runtime's libraries and latsweep's compiled
   # together into one ReadyToRun image (generic code across them precompiled too; ~130 MB, ~5 min).
+  # Its own build folders: a framework-dependent publish made later from the same obj/ folder
+  # after a composite one would otherwise take the composite's stubs and abort at start.
   rid="$(dotnet --info | sed -n 's/^ *RID: *//p' | head -1)"
   dotnet publish "$root/src/Worker/Worker.csproj" -c Release -r "$rid" --self-contained true -p:PublishReadyToRun=true \
-    -p:PublishReadyToRunComposite=true -o "$results/latsweep-composite" -v quiet -nologo | grep -E " error |rror\(s\)" || true
+    -p:PublishReadyToRunComposite=true --artifacts-path "$results/composite-build" -o "$results/latsweep-composite" \
+    -v quiet -nologo | grep -E " error |rror\(s\)" || true
   latsweep="$results/latsweep-composite/latsweep"
 fi
 bench="$here/LatticeSweep.Bench/bin/Release/net10.0/LatticeSweep.Bench"
