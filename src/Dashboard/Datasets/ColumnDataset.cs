@@ -40,7 +40,8 @@ internal static class ColumnDataset
             return said.Any(x => x == true) ? true : said.All(x => x == false) ? false : null;
         }
 
-        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled);
+        var summary = TableSummary.Concat([.. files.Select(f => f.Summary)], columns);
+        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary);
         var key = table.IndexOf(keyColumn);
         if (files.Count < 2 || key < 0)
         {

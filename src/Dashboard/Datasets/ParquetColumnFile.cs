@@ -19,8 +19,9 @@ internal sealed class ParquetColumnFile
     private readonly ImmutableArray<bool?> _filled;
     private readonly ConcurrentDictionary<int, Lazy<CellColumn>> _columns = new();
 
-    private ParquetColumnFile(string path, int rowCount, DataField[] fields, ImmutableArray<ResultColumn> columns, ImmutableArray<bool?> filled)
+    private ParquetColumnFile(string path, int rowCount, DataField[] fields, ImmutableArray<ResultColumn> columns, ImmutableArray<bool?> filled, TableSummary? summary)
     {
+        Summary = summary;
         Path = path;
         RowCount = rowCount;
         _fields = fields;
@@ -31,6 +32,9 @@ internal sealed class ParquetColumnFile
     public string Path { get; }
 
     public int RowCount { get; }
+
+    /// <summary>The file's whole-table facts from its footer (a merged points/ file), or null.</summary>
+    public TableSummary? Summary { get; }
 
     public ImmutableArray<ResultColumn> Columns { get; }
 
@@ -66,7 +70,8 @@ internal sealed class ParquetColumnFile
 
         // Statistics tell whether a column has a value without reading it; without them it is read to tell.
         var filled = fields.Select((_, c) => known[c] ? nulls[c] < rows : (bool?)null).ToImmutableArray();
-        return new ParquetColumnFile(path, checked((int)rows), fields, ParquetTableReader.Columns(reader, fields), filled);
+        var columns = ParquetTableReader.Columns(reader, fields);
+        return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(reader.CustomMetadata, columns, rows));
     }
 
     /// <summary>Whether the column has a value in some row, as the file's statistics say (null: they do not say).</summary>

@@ -10,8 +10,11 @@ namespace LatticeSweep.Worker.Output;
 /// <param name="OutputGroupBytes">one row group being written</param>
 internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
 {
-    /// <summary>~96 MiB of inputs and ~24 MiB of output: a merge's peak stays near the run's peak while solving.</summary>
-    public static readonly MergeBudget Default = new(96L << 20, 24L << 20);
+    /// <summary>
+    /// ~256 MiB of inputs and ~32 MiB of output: a merge's peak stays near a run's peak while solving,
+    /// and a table of 10^6 points in parts of ~4,000 (the chunk planner's cap) needs two passes.
+    /// </summary>
+    public static readonly MergeBudget Default = new(256L << 20, 32L << 20);
 
     /// <summary>Bytes a row takes decoded: a nullable number 16 (8 for int, 2 for bool), a text ~64 (reference, header, a short id or label).</summary>
     public static long BytesPerRow(IReadOnlyList<ColumnDef> columns)

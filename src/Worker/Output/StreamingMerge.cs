@@ -8,7 +8,8 @@ namespace LatticeSweep.Worker.Output;
 /// memory a merge needs does not grow with the rows merged. When the inputs' row groups together do
 /// not fit the budget, they are merged in passes: groups of inputs that fit become sorted runs in a
 /// scratch folder (with row groups small enough that many fit), and the runs are merged next.
-/// Ties keep the inputs' order, as the earlier in-memory merge did.
+/// Ties keep the inputs' order, as the earlier in-memory merge did. A merged file of the points/
+/// table carries its <see cref="ColumnSummary"/>.
 /// </summary>
 internal static class StreamingMerge
 {
@@ -34,7 +35,9 @@ internal static class StreamingMerge
                 var passGroups = await PassGroupsAsync(current, budget, ct).ConfigureAwait(false);
                 if (passGroups.Count == 1)
                 {
-                    var written = await MergeOnceAsync(current, output, table, metadata, budget.FinalGroupRowsFor(await ColumnsOfAsync(current[0], ct).ConfigureAwait(false)), ct).ConfigureAwait(false);
+                    var columns = await ColumnsOfAsync(current[0], ct).ConfigureAwait(false);
+                    var summary = table == TableNames.Points ? new ColumnSummary(columns) : null;
+                    var written = await MergeOnceAsync(current, output, table, metadata, budget.FinalGroupRowsFor(columns), summary, ct).ConfigureAwait(false);
                     return written;
                 }
 
@@ -49,7 +52,7 @@ internal static class StreamingMerge
                     }
 
                     var run = Path.Combine(scratch, $"run-{runNumber++:D5}.parquet");
-                    await MergeOnceAsync(group, run, table, new Dictionary<string, string>(), budget.RunGroupRowsFor(await ColumnsOfAsync(group[0], ct).ConfigureAwait(false)), ct).ConfigureAwait(false);
+                    await MergeOnceAsync(group, run, table, new Dictionary<string, string>(), budget.RunGroupRowsFor(await ColumnsOfAsync(group[0], ct).ConfigureAwait(false)), null, ct).ConfigureAwait(false);
                     runs.Add(run);
                     next.Add(run);
                     foreach (var consumed in group.Where(runs.Contains))
@@ -106,7 +109,7 @@ internal static class StreamingMerge
 
     /// <summary>One k-way pass over <paramref name="files"/> into <paramref name="output"/>, row groups of <paramref name="groupRows"/>.</summary>
     private static async Task<Written> MergeOnceAsync(IReadOnlyList<string> files, string output, string table,
-        IReadOnlyDictionary<string, string> metadata, int groupRows, CancellationToken ct)
+        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, CancellationToken ct)
     {
         var inputs = new List<SortedInput>();
         try
@@ -194,6 +197,7 @@ internal static class StreamingMerge
                     }
 
                     await writer.WriteRowGroupAsync(new TableRows(table, columns, n, slice), ct).ConfigureAwait(false);
+                    summary?.Add(slice, n);
                     wroteGroup = true;
                     total += n;
                     DropConsumed(segments, segmentOf);
@@ -206,6 +210,11 @@ internal static class StreamingMerge
                 if (idColumn >= 0)
                 {
                     writer.SetMetadata(MergedLayout.RowGroupsKey, index.ToString());
+                }
+
+                if (summary is not null)
+                {
+                    writer.SetMetadata(ColumnSummary.Key, summary.ToJson());
                 }
             }
 
