@@ -9,7 +9,8 @@
 # Usage: bench/million.sh [check submit status dashboard run merge]   (default: all but merge; run takes minutes)
 # Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2),
 # POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: use the points/ there, e.g. merged by `merge`),
-# DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128).
+# DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
+# KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$(dirname "$here")"
@@ -17,7 +18,7 @@ results="${RESULTS:-$here/results/million}"
 steps=("$@")
 [ ${#steps[@]} -eq 0 ] && steps=(check submit status dashboard run)
 workers="${WORKERS:-2}"
-rm -rf "$results" && mkdir -p "$results"
+[ -n "${KEEP_RESULTS:-}" ] || rm -rf "$results"; mkdir -p "$results"
 
 dotnet build "$root/src/Worker/Worker.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
 dotnet build "$root/src/Dashboard/Dashboard.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
