@@ -72,10 +72,12 @@ for step in "${steps[@]}"; do
       dotnet "${DASHBOARD_DLL:-$root/src/Dashboard/bin/Release/net10.0/Dashboard.dll}" --store "$store" --out "$out" --port "$port" > "$results/dashboard.log" 2>&1 &
       pid=$!
       for _ in $(seq 1 120); do curl -s -o /dev/null "http://127.0.0.1:$port/" && break; sleep 0.5; done
-      echo "dashboard $(cut -d' ' -f1 /proc/loadavg) load average" | tee -a "$results/summary.txt"
+      echo "dashboard $(cut -d' ' -f1 /proc/loadavg) load average, process CPU at start $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
       for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
           "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000"; do
-        curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}\n" "http://127.0.0.1:$port/$page" | tee -a "$results/summary.txt"
+        # Beside each request's wall time, the dashboard process's CPU so far (user + system; steadier than wall on a shared machine).
+        took="$(curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
+        echo "$took, process CPU $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
       done
       echo "dashboard peak RSS $(awk '/VmHWM/ { print int($2 / 1024) " MB" }' /proc/$pid/status)" | tee -a "$results/summary.txt"
       kill "$pid"; wait "$pid" 2>/dev/null || true ;;
