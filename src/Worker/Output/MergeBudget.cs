@@ -11,10 +11,11 @@ namespace LatticeSweep.Worker.Output;
 internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
 {
     /// <summary>
-    /// ~256 MiB of inputs and ~32 MiB of output: a merge's peak stays near a run's peak while solving,
-    /// and a table of 10^6 points in parts of ~4,000 (the chunk planner's cap) needs two passes.
+    /// ~128 MiB of inputs and ~16 MiB of output: a merge's peak (~0.3-0.45 GB RSS for a points/ table
+    /// of 150 columns, bench/README) stays near a run's peak while solving; a table of 10^6 points in
+    /// parts of ~4,000 (the chunk planner's cap) needs two passes. Twice this took ~0.5-0.8 GB and ~20 % less CPU.
     /// </summary>
-    public static readonly MergeBudget Default = new(256L << 20, 32L << 20);
+    public static readonly MergeBudget Default = new(128L << 20, 16L << 20);
 
     /// <summary>Bytes a row takes decoded: a nullable number 16 (8 for int, 2 for bool), a text ~64 (reference, header, a short id or label).</summary>
     public static long BytesPerRow(IReadOnlyList<ColumnDef> columns)
