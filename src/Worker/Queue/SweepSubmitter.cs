@@ -73,7 +73,6 @@ public sealed class SweepSubmitter
             Points = new ComputedList<NewPoint>(points.Count, i =>
                 new NewPoint(points.IdAt(i), i, ChunkPlanner.ChunkId(ChunkPlanner.ChunkOf(chunkStarts, i)), points.ParametersAt(i))),
             ChunkCount = chunkStarts.Length,
-            InsertOrder = points.PositionsById(),
         };
         bool registered;
         using (StageTimings.Measure("submit: register"))
