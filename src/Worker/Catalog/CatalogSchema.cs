@@ -62,7 +62,7 @@ internal static class CatalogSchema
 
         // A sweep's chunks, written at submit. A chunk's points get their rows in latsweep_points
         // when a worker first claims the chunk; until then (pending_state not null: waiting or
-        // cancelled) they are read from points_json, [[point_id, point_index, parameters_json], ...],
+        // cancelled) they are read from points_json, [[point_id, point_index, {parameters}], ...],
         // so submitting a million points writes a few hundred rows instead of a million. Sweeps
         // registered before this table existed have every point's row and no chunk rows.
         """

@@ -75,7 +75,7 @@ public abstract partial class SqlSweepCatalog
             w.WriteStartArray();
             w.WriteStringValue(point.PointId);
             w.WriteNumberValue(point.Index);
-            w.WriteStringValue(CatalogJson.WriteParameters(point.Parameters));
+            CatalogJson.WriteParameters(w, point.Parameters);
             w.WriteEndArray();
             first = Math.Min(first, point.Index);
             last = Math.Max(last, point.Index);
@@ -156,7 +156,7 @@ public abstract partial class SqlSweepCatalog
         var rows = new List<PointRow>(doc.RootElement.GetArrayLength());
         foreach (var p in doc.RootElement.EnumerateArray())
         {
-            rows.Add(new PointRow(p[0].GetString()!, p[1].GetInt64(), chunkId, p[2].GetString()!));
+            rows.Add(new PointRow(p[0].GetString()!, p[1].GetInt64(), chunkId, p[2].GetRawText()));
         }
 
         return rows;

@@ -40,8 +40,11 @@ public sealed class ChunkRegistrationTests : IDisposable
         return new PostgresSweepCatalog(TestPostgres.ConnectionString, _schema, new SteppingTime());
     }
 
-    /// <summary>7 masses x 3 cells = 21 points in chunks of 4 (the last of 1): c00000 ... c00005.</summary>
-    private static LatticeSweep.Worker.Planning.SweepPlan Plan() => SomeSweep.Plan("chunk rows", masses: [1, 2, 3, 4, 5, 6, 7], cells: [4, 8, 16]);
+    /// <summary>
+    /// 7 masses x 3 cells = 21 points in chunks of 4 (the last of 1): c00000 ... c00005. One mass
+    /// needs all 17 digits, so a parameter's text must go through a chunk's text and back exactly.
+    /// </summary>
+    private static LatticeSweep.Worker.Planning.SweepPlan Plan() => SomeSweep.Plan("chunk rows", masses: [1, 2, 3, 0.1 + 0.2, 5, 6, 7e-300], cells: [4, 8, 16]);
 
     [Theory]
     [MemberData(nameof(Stores))]
