@@ -77,5 +77,15 @@ internal static class CatalogSchema
             PRIMARY KEY (sweep_id, chunk_id)
         )
         """,
+
+        // The hash of a sweep's definition, for sweeps whose submit kept every point of the
+        // expansion (SweepPlan.DefinitionHash): a worker that finds it plans the sweep without
+        // computing every point's id. A table of its own, so stores from before need no new column.
+        """
+        CREATE TABLE IF NOT EXISTS latsweep_sweep_definitions (
+            sweep_id TEXT PRIMARY KEY,
+            definition_hash TEXT NOT NULL
+        )
+        """,
     ];
 }

@@ -23,6 +23,9 @@ public sealed record NewSweep
     /// </summary>
     public required IReadOnlyList<NewPoint> Points { get; init; }
 
+    /// <summary>The plan's <see cref="Planning.SweepPlan.DefinitionHash"/> (null: workers plan the sweep in full).</summary>
+    public string? DefinitionHash { get; init; }
+
     /// <summary>Number of distinct chunks among <see cref="Points"/>, when the caller knows it (else counted from the points).</summary>
     public int? ChunkCount { get; init; }
 }

@@ -22,7 +22,8 @@ public abstract partial class SqlSweepCatalog
         using var c = Open();
         var sweeps = ReadSweeps(c, $"SELECT {SweepColumns} FROM latsweep_sweeps ORDER BY created_ms DESC, sweep_id", []);
         var counts = ReadAllCounts(c);
-        return sweeps.Select(s => s with { Counts = counts.GetValueOrDefault(s.SweepId, SweepCounts.Empty) }).ToList();
+        var definitions = ReadDefinitions(c, null);
+        return sweeps.Select(s => s with { Counts = counts.GetValueOrDefault(s.SweepId, SweepCounts.Empty), DefinitionHash = definitions.GetValueOrDefault(s.SweepId) }).ToList();
     }
 
     public SweepRecord? FindSweep(string sweepIdOrName)
@@ -41,7 +42,7 @@ public abstract partial class SqlSweepCatalog
         }
 
         var sweep = found[0];
-        return sweep with { Counts = ReadCounts(c, null, sweep.SweepId) };
+        return sweep with { Counts = ReadCounts(c, null, sweep.SweepId), DefinitionHash = ReadDefinitions(c, sweep.SweepId).GetValueOrDefault(sweep.SweepId) };
     }
 
     public IReadOnlyList<PointRecord> GetPoints(string sweepId, PointQuery query)
@@ -307,6 +308,25 @@ public abstract partial class SqlSweepCatalog
         }
 
         return list;
+    }
+
+    /// <summary>Definition hashes by sweep id: of one sweep, or of all when <paramref name="sweepId"/> is null.</summary>
+    private static Dictionary<string, string> ReadDefinitions(DbConnection c, string? sweepId)
+    {
+        using var cmd = Command(c, null, "SELECT sweep_id, definition_hash FROM latsweep_sweep_definitions" + (sweepId is null ? "" : " WHERE sweep_id = @sweep"));
+        if (sweepId is not null)
+        {
+            Add(cmd, "sweep", sweepId);
+        }
+
+        using var r = cmd.ExecuteReader();
+        var map = new Dictionary<string, string>(StringComparer.Ordinal);
+        while (r.Read())
+        {
+            map[r.GetString(0)] = r.GetString(1);
+        }
+
+        return map;
     }
 
     private static Dictionary<string, AxisValueType> ReadAxisTypes(DbConnection c, DbTransaction? tx, string sweepId)

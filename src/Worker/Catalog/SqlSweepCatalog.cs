@@ -70,6 +70,11 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             return false;
         }
 
+        if (sweep.DefinitionHash is { } definition)
+        {
+            Execute(c, tx, "INSERT INTO latsweep_sweep_definitions (sweep_id, definition_hash) VALUES (@id, @hash)", ("id", sweep.SweepId), ("hash", definition));
+        }
+
         var waiting = Text(PointState.Waiting);
         var written = WriteChunks(c, tx, sweep, waiting);
         if (written != chunkCount)

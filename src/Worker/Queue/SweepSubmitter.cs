@@ -73,6 +73,7 @@ public sealed class SweepSubmitter
             Points = new ComputedList<NewPoint>(points.Count, i =>
                 new NewPoint(points.IdAt(i), i, ChunkPlanner.ChunkId(ChunkPlanner.ChunkOf(chunkStarts, i)), points.ParametersAt(i))),
             ChunkCount = chunkStarts.Length,
+            DefinitionHash = plan.DefinitionHash,
         };
         bool registered;
         using (StageTimings.Measure("submit: register"))
