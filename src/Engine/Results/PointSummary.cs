@@ -67,7 +67,15 @@ public sealed record PointSummary
     public required double? InternalEnergyJPerMol { get; init; }
     public required double? ZeroPointEnergyJPerMol { get; init; }
 
-    /// <summary>Debye temperature from Cv at the reference temperature.</summary>
+    /// <summary>
+    /// The classical (high-temperature) limit of this point's Cv, J/(mol K) per mole of atoms: kB per mode
+    /// the thermal sums count. A bulk mesh counts every branch (components x R); a finite crystal leaves
+    /// its rigid-body and any floppy zero modes out, so its limit is below components x R. The Debye
+    /// temperatures from Cv compare Cv with this limit, so they stay level at high T for any sample size.
+    /// </summary>
+    public double ClassicalHeatCapacityJPerMolK { get; init; }
+
+    /// <summary>Debye temperature from Cv (as a fraction of <see cref="ClassicalHeatCapacityJPerMolK"/>) at the reference temperature.</summary>
     public required double? DebyeTemperatureFromCvK { get; init; }
 
     /// <summary>Debye temperatures from frequency moments n = -2, logarithmic and n = 2.</summary>

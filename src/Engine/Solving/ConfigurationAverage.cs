@@ -12,7 +12,7 @@ namespace LatticeSweep.Engine.Solving;
 /// </summary>
 internal static class ConfigurationAverage
 {
-    public static PointResult Of(IReadOnlyList<PointResult> results, int dimension, double classicalCvPerMol)
+    public static PointResult Of(IReadOnlyList<PointResult> results, int dimension)
     {
         ArgumentOutOfRangeException.ThrowIfZero(results.Count);
 
@@ -32,6 +32,7 @@ internal static class ConfigurationAverage
         double? ErrorOf(Func<PointResult, double?> get) => results.All(r => get(r) is not null) ? Finite(KpmErrors.StandardError([.. results.Select(r => get(r)!.Value)])) : null;
 
         var s = first.Summary;
+        var classicalCvPerMol = results.Average(r => r.Summary.ClassicalHeatCapacityJPerMolK);
         const bool stable = true;
         var thermal = ImmutableArray.CreateBuilder<ThermalRow>(first.Thermal.Length);
         var thermalErrors = ImmutableArray.CreateBuilder<ThermalRow>(first.Thermal.Length);
@@ -78,6 +79,7 @@ internal static class ConfigurationAverage
             DebyeTemperatureMomentLogK = MeanN(r => r.Summary.DebyeTemperatureMomentLogK),
             DebyeTemperatureMoment2K = MeanN(r => r.Summary.DebyeTemperatureMoment2K),
             MolarMassKgPerMol = Mean(r => r.Summary.MolarMassKgPerMol),
+            ClassicalHeatCapacityJPerMolK = classicalCvPerMol,
         };
 
         var dos = first.Dos with

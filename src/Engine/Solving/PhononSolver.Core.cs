@@ -157,8 +157,14 @@ public static partial class PhononSolver
         var sink = outcome.Sink;
         var r = model.Sites.Length;
         var perMolAtoms = PhysicalConstants.AvogadroPerMol / r;
-        var classicalCv = crystal.Components * PhysicalConstants.GasConstantJPerMolK;
         var dimension = model.Lattice.Dimension;
+
+        // kB per mode the sums hold: a bulk mesh's DOS holds every branch; a finite crystal's sums leave
+        // out its zero modes (rigid-body and floppy), and 3R would make its Debye temperature climb
+        // without end at high T (a 4-cell chain: 10^4 K at 3000 K).
+        var classicalCv = outcome.SampleKind == "bulk"
+            ? crystal.Components * PhysicalConstants.GasConstantJPerMolK
+            : sink.StatesCounted * PhysicalConstants.GasConstantJPerMolK / r;
 
         // An unstable model has no thermal state: no thermal or displacement rows, and every number
         // derived from the spectrum's thermal sums is null (never NaN, never a value from |omega|).
@@ -252,6 +258,7 @@ public static partial class PhononSolver
             FreeEnergyJPerMol = reference?.FreeEnergyJPerMol,
             InternalEnergyJPerMol = reference?.InternalEnergyJPerMol,
             ZeroPointEnergyJPerMol = unstable ? null : Defined(zeroPoint),
+            ClassicalHeatCapacityJPerMolK = classicalCv,
             DebyeTemperatureFromCvK = reference?.DebyeTemperatureK,
             DebyeTemperatureMomentMinus2K = thetaMinus2,
             DebyeTemperatureMomentLogK = thetaLog,

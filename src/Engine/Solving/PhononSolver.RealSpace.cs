@@ -69,7 +69,7 @@ public static partial class PhononSolver
         var bottom = runs.Min(r => Math.Min(0, r.Statistics.WorstLambda));
         var grid = RealSpaceDenseSolver.GridFor(bottom, top, options);
         var results = runs.Select(r => AssembleRealSpace(model, crystal, sample, options, temperatures, r, speeds, dispersion, periodic, periodicCv, grid)).ToList();
-        var average = ConfigurationAverage.Of(results, model.Lattice.Dimension, crystal.Components * PhysicalConstants.GasConstantJPerMolK);
+        var average = ConfigurationAverage.Of(results, model.Lattice.Dimension);
 
         var orderedLattice = RealSpaceLattice.Build(crystal, sample, bloch: true);
         var orderedRun = SolveBlock(orderedLattice, SiteProperties.VirtualCrystal(orderedLattice, disorder), sample, temperatures, options, record: false, configuration: 0, ct);

@@ -9,6 +9,9 @@ namespace LatticeSweep.Engine.Thermal;
 /// </summary>
 public static class DebyeModel
 {
+    /// <summary>The largest theta / T (and smallest T / theta) <see cref="TemperatureFromHeatCapacity"/> searches.</summary>
+    private const double MaxThetaOverT = 1e4;
+
     /// <summary>Heat capacity per degree of freedom in units of kB, for T/theta.</summary>
     public static double HeatCapacityPerDof(double temperatureK, double debyeTemperatureK, int dimension)
     {
@@ -28,18 +31,22 @@ public static class DebyeModel
 
     /// <summary>
     /// The Debye temperature whose heat capacity equals the given fraction of the classical value at
-    /// T; NaN when the fraction is not in (0, 1) (undefined at T = 0 or in the classical limit).
+    /// T; NaN when the fraction is not in (0, 1) (undefined at T = 0 or in the classical limit) and when
+    /// no theta with 1e-4 &lt; theta / T &lt; 1e4 gives it: a gapped spectrum (a small finite crystal at low T)
+    /// freezes out exponentially, as no Debye model does, and the search's bracket end is no answer.
     /// </summary>
     public static double TemperatureFromHeatCapacity(double temperatureK, double fractionOfClassical, int dimension)
     {
-        if (temperatureK <= 0 || !(fractionOfClassical > 0) || !(fractionOfClassical < 1 - 1e-10))
+        if (temperatureK <= 0 || !(fractionOfClassical > 0) || !(fractionOfClassical < 1 - 1e-10)
+            || fractionOfClassical < HeatCapacityPerDof(1, MaxThetaOverT, dimension)
+            || fractionOfClassical > HeatCapacityPerDof(1, 1 / MaxThetaOverT, dimension))
         {
             return double.NaN;
         }
 
         // C_D falls monotonically with y = theta / T: safeguarded Newton on u = ln y inside the bracket
         // y in [1e-4, 1e4], with dC/du = d (y^(1-d) f(y) - C) from C = d y^-d I(y), I' = f.
-        double lo = Math.Log(1e-4), hi = Math.Log(1e4);
+        double lo = -Math.Log(MaxThetaOverT), hi = Math.Log(MaxThetaOverT);
         var u = 0.0;
         for (var it = 0; it < 200; it++)
         {

@@ -92,4 +92,35 @@ public class ThermalLimitTests
         var kT = PhysicalConstants.BoltzmannJPerK * 0.5 / PhysicalConstants.HbarJS;
         Approx.Equal(R * 2 * Math.PI / 3 * kT / (2 * Crystals.Omega0()), bulk, 0.002, "bulk low-T 1D heat capacity (closed form)");
     }
+
+    [Fact]
+    public void Finite_chain_Debye_temperature_from_Cv_levels_off_at_the_second_moment_value()
+    {
+        // High-temperature expansion of any harmonic spectrum: C / (kB per mode) = 1 - <x^2>/12 + O(x^4),
+        // x = hbar w / kT; the d-dimensional Debye spectrum has <x^2> = d/(d+2) (theta/T)^2, so the Cv
+        // Debye temperature tends to the n = 2 moment's theta_2 (from memory). Compared with kB per mode
+        // the sums hold (N - 1 for an N-cell chain), not with R: with R it climbed to 10^4 K at 3000 K.
+        var options = new SolveOptions { TemperaturesK = [3000, 20000], ReferenceTemperatureK = 20000, MeanSquareDisplacement = false, PartialDos = false };
+        foreach (var n in new[] { 4, 8, 64 })
+        {
+            var result = PhononSolver.Solve(Crystals.ScalarChain(), FiniteSample.Create(n), options);
+            var summary = result.Summary;
+            Approx.Equal(R * (n - 1) / n, summary.ClassicalHeatCapacityJPerMolK, 1e-12, $"N = {n}: classical limit");
+            var theta2 = summary.DebyeTemperatureMoment2K!.Value;
+            Approx.Equal(theta2, summary.DebyeTemperatureFromCvK!.Value, 1e-4, $"N = {n}: theta from Cv at 20000 K");
+            Approx.Equal(theta2, result.Thermal[0].DebyeTemperatureK!.Value, 2e-3, $"N = {n}: theta from Cv at 3000 K");
+        }
+    }
+
+    [Fact]
+    public void Gapped_finite_chain_at_low_temperature_has_no_Debye_temperature_from_Cv()
+    {
+        // 4 cells: the lowest mode lies so far above kT at 10 K that Cv freezes out exponentially, beyond
+        // any Debye model with theta / T < 1e4; the row says so with null instead of the search's end (10^5 K).
+        var options = new SolveOptions { TemperaturesK = [10, 300], MeanSquareDisplacement = false, PartialDos = false };
+        var rows = PhononSolver.Solve(Crystals.ScalarChain(), FiniteSample.Create(4), options).Thermal;
+        Assert.True(rows[0].HeatCapacityJPerMolK > 0);
+        Assert.Null(rows[0].DebyeTemperatureK);
+        Assert.NotNull(rows[1].DebyeTemperatureK);
+    }
 }

@@ -44,4 +44,19 @@ public class DebyeModelTests
         Assert.True(double.IsNaN(DebyeModel.TemperatureFromHeatCapacity(300, 1.0, 3)));
         Assert.True(double.IsNaN(DebyeModel.TemperatureFromHeatCapacity(0, 0.5, 3)));
     }
+
+    [Fact]
+    public void Inversion_outside_its_search_range_is_undefined_not_the_range_end()
+    {
+        // A 4-cell chain at 10 K has Cv ~ 1e-17 of classical (its lowest mode freezes out exponentially):
+        // no Debye model within 1e-4 < theta / T < 1e4 gives that, and the old search returned 1e4 T.
+        Assert.True(double.IsNaN(DebyeModel.TemperatureFromHeatCapacity(10, 1.2e-17, 1)));
+        Assert.True(double.IsNaN(DebyeModel.TemperatureFromHeatCapacity(10, 1e-13, 3)));
+
+        // Just inside the range the inversion still answers (round trip, exact by construction).
+        foreach (var d in new[] { 1, 2, 3 })
+        {
+            Approx.Equal(5e3, DebyeModel.TemperatureFromHeatCapacity(1, DebyeModel.HeatCapacityPerDof(1, 5e3, d), d), 1e-9, $"theta/T = 5e3, d = {d}");
+        }
+    }
 }
