@@ -126,7 +126,10 @@ if queue:
                      f"engine alone vs latsweep run --workers {r['workers']} (SQLite store): {r['queue_points_per_s']:.0f} points/s; "
                      f"CPU: engine {r.get('engine_cpu_s', float('nan')):.2f} s, run {r.get('queue_cpu_s', float('nan')):.2f} s, one-point run {r.get('fixed_cpu_s', float('nan')):.2f} s "
                      f"({r.get('fixed_s', float('nan')):.2f} s wall) -> {r.get('overhead_cpu_ms_per_point', float('nan')):.3f} ms CPU/point; "
-                     f"wall overhead {r['overhead_fraction'] * 100:.1f}%, {r.get('overhead_fraction_without_fixed', float('nan')) * 100:.1f}% without the fixed cost; load {r.get('load', '?')}"))
+                     f"wall overhead {r['overhead_fraction'] * 100:.1f}%, {r.get('overhead_fraction_without_fixed', float('nan')) * 100:.1f}% without the fixed cost; "
+                     f"CPU overhead without the fixed cost {r.get('overhead_cpu_fraction_without_fixed', float('nan')) * 100:.1f}% over the warmed-up engine, "
+                     f"{r.get('overhead_fresh_cpu_fraction_without_fixed', float('nan')) * 100:.1f}% ({r.get('overhead_fresh_cpu_ms_per_point', float('nan')):.3f} ms/point) "
+                     f"over the engine in a fresh process ({r.get('engine_fresh_cpu_s', float('nan')):.2f} s CPU); load {r.get('load', '?')}"))
 
 expansion = load("ours_expansion.json")
 if expansion:

@@ -4,9 +4,13 @@
 # and its JSON for it, and `run` of 10^4 and 10^5 trivial points side by side (peak memory should not
 # grow with the number of points). Each command runs as a user runs it, in its own process, under
 # /usr/bin/time -v (wall, user + system CPU, peak RSS); `LATSWEEP_TIMINGS=1` adds the stages.
-# Usage: bench/million.sh [check submit status dashboard run]   (default: all; run takes minutes)
+# `merge` times `latsweep merge` of the submitted sweep's points/ table given as MERGE_PARTS part
+# files of MERGE_ROWS rows in all (row groups of 4,096 rows, as chunks of the planner's cap write them).
+# Usage: bench/million.sh [check submit status dashboard run merge]   (default: all but merge; run takes minutes)
 # Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2),
-# POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: none), DASHBOARD_DLL (the dashboard build to time).
+# POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: use the points/ there, e.g. merged by `merge`),
+# DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
+# KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$(dirname "$here")"
@@ -14,11 +18,11 @@ results="${RESULTS:-$here/results/million}"
 steps=("$@")
 [ ${#steps[@]} -eq 0 ] && steps=(check submit status dashboard run)
 workers="${WORKERS:-2}"
-rm -rf "$results" && mkdir -p "$results"
+[ -n "${KEEP_RESULTS:-}" ] || rm -rf "$results"; mkdir -p "$results"
 
 dotnet build "$root/src/Worker/Worker.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
 dotnet build "$root/src/Dashboard/Dashboard.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
-latsweep="$root/src/Worker/bin/Release/net10.0/latsweep"
+latsweep="${LATSWEEP:-$root/src/Worker/bin/Release/net10.0/latsweep}"
 job="$here/queue/million-points.toml"
 store="$results/store.db"
 out="$results/results"
@@ -36,6 +40,14 @@ measure() {
   grep -E "^timings:" "$log" | sed 's/^/    /' || true
 }
 
+# A real points/ file: `latsweep run` of 1,000 of the million-point sweep's points (one value of the second axis).
+template() {
+  [ -d "$results/template" ] && return
+  awk '/steps = 1000/ && !done { sub(/steps = 1000/, "steps = 1"); done = 1 } { print }' "$job" \
+    | sed 's/name = "bench-million-points"/name = "bench-points-template"/' > "$results/template.toml"
+  ( cd "$results" && "$latsweep" run "$results/template.toml" --store "$results/template.db" --out "$results/template" --workers "$workers" > "$results/template.out" 2>&1 )
+}
+
 for step in "${steps[@]}"; do
   case "$step" in
     check) measure check-1e6 "$latsweep" check "$job" ;;
@@ -51,9 +63,7 @@ for step in "${steps[@]}"; do
       # DASHBOARD_DLL runs another build of the dashboard (a before figure) on the same data.
       id="$(ls "$out" | head -1)"
       if [ "${POINTS_ROWS:-1000000}" -gt 0 ]; then
-        awk '/steps = 1000/ && !done { sub(/steps = 1000/, "steps = 1"); done = 1 } { print }' "$job" \
-          | sed 's/name = "bench-million-points"/name = "bench-points-template"/' > "$results/template.toml"
-        ( cd "$results" && "$latsweep" run "$results/template.toml" --store "$results/template.db" --out "$results/template" --workers "$workers" > "$results/template.out" 2>&1 )
+        template
         mkdir -p "$out/$id/points"
         ( cd "$here/points-table" && dotnet run points-table.cs "$(ls "$results"/template/*/points/*.parquet | head -1)" \
             "$out/$id/points/merged-00000.parquet" "${POINTS_ROWS:-1000000}" ) | tee -a "$results/summary.txt"
@@ -62,10 +72,12 @@ for step in "${steps[@]}"; do
       dotnet "${DASHBOARD_DLL:-$root/src/Dashboard/bin/Release/net10.0/Dashboard.dll}" --store "$store" --out "$out" --port "$port" > "$results/dashboard.log" 2>&1 &
       pid=$!
       for _ in $(seq 1 120); do curl -s -o /dev/null "http://127.0.0.1:$port/" && break; sleep 0.5; done
-      echo "dashboard $(cut -d' ' -f1 /proc/loadavg) load average" | tee -a "$results/summary.txt"
+      echo "dashboard $(cut -d' ' -f1 /proc/loadavg) load average, process CPU at start $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
       for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
           "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000"; do
-        curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}\n" "http://127.0.0.1:$port/$page" | tee -a "$results/summary.txt"
+        # Beside each request's wall time, the dashboard process's CPU so far (user + system; steadier than wall on a shared machine).
+        took="$(curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
+        echo "$took, process CPU $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
       done
       echo "dashboard peak RSS $(awk '/VmHWM/ { print int($2 / 1024) " MB" }' /proc/$pid/status)" | tee -a "$results/summary.txt"
       kill "$pid"; wait "$pid" 2>/dev/null || true ;;
@@ -97,6 +109,15 @@ for step in "${steps[@]}"; do
           "$results/run-$n.time" | tee -a "$results/summary.txt"
         grep -E "^timings:" "$results/run-$n.time" | sed 's/^/    /' || true
       done ;;
+    merge)
+      # The submitted sweep's points/ as parts laid out as the Worker writes them, then merged by `latsweep merge`.
+      id="$(ls "$out" | head -1)"
+      template
+      rm -rf "$out/$id/points" && mkdir -p "$out/$id/points"
+      ( cd "$here/points-table" && dotnet run points-table.cs "$(ls "$results"/template/*/points/*.parquet | head -1)" \
+          "$out/$id/points" "${MERGE_ROWS:-1000000}" 4096 "${MERGE_PARTS:-128}" ) | tee -a "$results/summary.txt"
+      measure "merge-${MERGE_ROWS:-1000000}" "$latsweep" merge "$id" --store "$store"
+      ls -l "$out/$id/points" | awk 'NR > 1 { n++; b += $5 } END { printf "    points/ after the merge: %d files, %.1f MB\n", n, b / 1e6 }' | tee -a "$results/summary.txt" ;;
     *) echo "unknown step $step"; exit 2 ;;
   esac
 done

@@ -7,7 +7,9 @@
 # surfaces-kpm-denser surfaces-memory (free nanocrystals), all ours alone).
 # LATSWEEP_SIMD_WIDTH=256|512|scalar forces our kernels' width (DOTNET_EnableAVX512=0 makes the runtime
 # behave as on a processor without AVX-512).
-# Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1).
+# Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1),
+# QUEUE_LATSWEEP (case (e)'s latsweep: r2r, the default, as README's install line; composite, the
+# self-contained composite ReadyToRun publish; build, the plain build output).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$(dirname "$here")"
@@ -59,6 +61,17 @@ if [[ " ${cases[*]} " == *" queue "* && "${QUEUE_LATSWEEP:-r2r}" == r2r ]]; then
   dotnet publish "$root/src/Worker/Worker.csproj" -c Release -r "$rid" --self-contained false -p:PublishReadyToRun=true \
     -o "$results/latsweep-r2r" -v quiet -nologo | grep -E " error |rror\(s\)" || true
   latsweep="$results/latsweep-r2r/latsweep"
+fi
+if [[ " ${cases[*]} " == *" queue "* && "${QUEUE_LATSWEEP:-r2r}" == composite ]]; then
+  # README's second install line: self-contained, the runtime's libraries and latsweep's compiled
+  # together into one ReadyToRun image (generic code across them precompiled too; ~130 MB, ~5 min).
+  # Its own build folders: a framework-dependent publish made later from the same obj/ folder
+  # after a composite one would otherwise take the composite's stubs and abort at start.
+  rid="$(dotnet --info | sed -n 's/^ *RID: *//p' | head -1)"
+  dotnet publish "$root/src/Worker/Worker.csproj" -c Release -r "$rid" --self-contained true -p:PublishReadyToRun=true \
+    -p:PublishReadyToRunComposite=true --artifacts-path "$results/composite-build" -o "$results/latsweep-composite" \
+    -v quiet -nologo | grep -E " error |rror\(s\)" || true
+  latsweep="$results/latsweep-composite/latsweep"
 fi
 bench="$here/LatticeSweep.Bench/bin/Release/net10.0/LatticeSweep.Bench"
 

@@ -135,6 +135,15 @@ switch (caseName)
         break;
     }
 
+    case "queue-rows":
+        report["result"] = RowsCase.Run(Option("--job", "bench/queue/small-points.toml"),
+            int.Parse(Option("--points", "2000"), System.Globalization.CultureInfo.InvariantCulture), repeats, outDir);
+        break;
+
+    case "queue-engine-cold":
+        report["result"] = QueueCase.EngineCold(Option("--job", "bench/queue/20ms-points.toml"));
+        break;
+
     default:
         Console.Error.WriteLine($"unknown case '{caseName}': use eigen, eigen-paths, bulk, finite-chain, finite-3d, queue, cost, expansion or surfaces-dense|kpm|kpm-denser|memory");
         return 2;

@@ -44,13 +44,16 @@ internal static class QueueCase
             engineCpu.Add((Process.GetCurrentProcess().TotalProcessorTime - cpu0).TotalSeconds);
         }
 
-        // The fixed cost and the sweep, one after the other in each repeat (same minute, same load).
+        // The fixed cost, the sweep and the Engine alone in a fresh process, one after the other in
+        // each repeat (same minute, same load).
         var fixedRuns = new List<RunSample>();
         var queueRuns = new List<RunSample>();
+        var coldCpu = new List<double>();
         for (var r = 0; r < repeats; r++)
         {
             fixedRuns.Add(RunOnce(latsweep, onePointJob, workers));
             queueRuns.Add(RunOnce(latsweep, jobFile, workers));
+            coldCpu.Add(EngineColdOnce(jobFile));
         }
 
         var engineS = Median(engineWall);
@@ -79,13 +82,91 @@ internal static class QueueCase
             ["overhead_fraction_without_fixed"] = ((queueS - fixedS) * workers / engineS) - 1,
             ["overhead_ms_per_point"] = ((queueS * workers) - engineS) / points.Length * 1e3,
             ["overhead_cpu_ms_per_point"] = (queueCpuS - fixedCpuS - engineCpuS) / points.Length * 1e3,
+            ["overhead_cpu_fraction_without_fixed"] = ((queueCpuS - fixedCpuS) / engineCpuS) - 1,
+            ["engine_fresh_cpu_s"] = Median(coldCpu),
+            ["overhead_fresh_cpu_ms_per_point"] = (queueCpuS - fixedCpuS - Median(coldCpu)) / points.Length * 1e3,
+            ["overhead_fresh_cpu_fraction_without_fixed"] = ((queueCpuS - fixedCpuS) / Median(coldCpu)) - 1,
         };
         Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture,
             $"  queue {Path.GetFileName(jobFile)}: {points.Length} points, engine {engineS:F2} s wall {engineCpuS:F2} s CPU; " +
             $"latsweep run --workers {workers} {queueS:F2} s wall {queueCpuS:F2} s CPU; one-point run {fixedS:F2} s wall {fixedCpuS:F2} s CPU; " +
             $"overhead {(double)result["overhead_cpu_ms_per_point"]:F3} ms CPU per point, {(double)result["overhead_fraction_without_fixed"] * 100:F1}% wall without the fixed cost " +
             $"(load {result["load"]})"));
+        Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture,
+            $"  queue {Path.GetFileName(jobFile)}: against the engine alone in a fresh process ({Median(coldCpu):F2} s CPU, no warm-up, TieredPGO off as in latsweep): " +
+            $"overhead {(double)result["overhead_fresh_cpu_ms_per_point"]:F3} ms CPU per point, {(double)result["overhead_fresh_cpu_fraction_without_fixed"] * 100:F1}% CPU without the fixed cost " +
+            $"(warmed-up engine: {(double)result["overhead_cpu_fraction_without_fixed"] * 100:F1}% CPU)"));
         return result;
+    }
+
+    /// <summary>
+    /// The Engine alone in a fresh process of this harness (<see cref="EngineCold"/>), with the runtime
+    /// settings latsweep has (TieredPGO off): the process CPU of solving the job's points once, as a
+    /// run must, JIT warm-up included. A second reference beside the warmed-up engine: what the queue
+    /// adds over a user's own one-off program that solves the same points.
+    /// </summary>
+    private static double EngineColdOnce(string jobFile)
+    {
+        var folder = Directory.CreateTempSubdirectory("latsweep-bench-cold-");
+        try
+        {
+            var start = new ProcessStartInfo(Environment.ProcessPath!)
+            {
+                RedirectStandardOutput = true,
+                RedirectStandardError = true,
+            };
+            start.Environment["DOTNET_TieredPGO"] = "0";
+            foreach (var a in new[] { "queue-engine-cold", "--job", Path.GetFullPath(jobFile), "--out", folder.FullName })
+            {
+                start.ArgumentList.Add(a);
+            }
+
+            using var process = Process.Start(start)!;
+            var stdout = process.StandardOutput.ReadToEndAsync();
+            var stderr = process.StandardError.ReadToEndAsync();
+            process.WaitForExit();
+            if (process.ExitCode != 0)
+            {
+                throw new InvalidOperationException($"queue-engine-cold {jobFile} exited with {process.ExitCode}: {stderr.Result}{stdout.Result}");
+            }
+
+            using var json = System.Text.Json.JsonDocument.Parse(File.ReadAllText(Path.Combine(folder.FullName, "ours_queue-engine-cold.json")));
+            return json.RootElement.GetProperty("result").GetProperty("cpu_s").GetDouble();
+        }
+        finally
+        {
+            folder.Delete(recursive: true);
+        }
+    }
+
+    /// <summary>
+    /// The Engine alone as a fresh process meets it: the job's points solved once each, no warm-up,
+    /// process CPU from the start of the first solve (the job file is read before). Printed per block.
+    /// </summary>
+    public static Dictionary<string, object> EngineCold(string jobFile)
+    {
+        var plan = JobFileLoader.Load(jobFile);
+        var points = plan.Points;
+        var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
+        var sw = Stopwatch.StartNew();
+        var block = Math.Max(1, points.Length / 10);
+        var last = cpu0;
+        var blocks = new List<double>();
+        for (var i = 0; i < points.Length; i++)
+        {
+            EnginePointSolver.Instance.Solve(plan, points[i], default);
+            if ((i + 1) % block == 0 || i == points.Length - 1)
+            {
+                var now = Process.GetCurrentProcess().TotalProcessorTime;
+                blocks.Add((now - last).TotalSeconds);
+                last = now;
+            }
+        }
+
+        var cpu = (Process.GetCurrentProcess().TotalProcessorTime - cpu0).TotalSeconds;
+        Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture,
+            $"  engine cold {Path.GetFileName(jobFile)}: {points.Length} points, {sw.Elapsed.TotalSeconds:F2} s wall {cpu:F2} s CPU; per block of {block}: {string.Join(" ", blocks.Select(b => b.ToString("F3", CultureInfo.InvariantCulture)))}"));
+        return new Dictionary<string, object> { ["cpu_s"] = cpu, ["wall_s"] = sw.Elapsed.TotalSeconds, ["blocks_cpu_s"] = blocks };
     }
 
     private static RunSample RunOnce(string latsweep, string jobFile, int workers)

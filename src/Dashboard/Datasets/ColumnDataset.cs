@@ -40,16 +40,44 @@ internal static class ColumnDataset
             return said.Any(x => x == true) ? true : said.All(x => x == false) ? false : null;
         }
 
-        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled);
+        var summary = TableSummary.Concat([.. files.Select(f => f.Summary)], columns);
+        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary);
         var key = table.IndexOf(keyColumn);
-        if (files.Count < 2 || key < 0)
+        if (files.Count < 2 || key < 0 || ChunksApart(files))
         {
-            // One file holds each key once (a part, or a merged file).
+            // One file holds each key once (a part, or a merged file); files of different chunks share no point.
             return table;
         }
 
         var ids = table.Cells(key);
         var seen = new HashSet<string>(StringComparer.Ordinal);
         return table.Where(r => ids.Text(r) is not { } id || seen.Add(id));
+    }
+
+    /// <summary>
+    /// True when every file names its chunks and no chunk is named twice: a point belongs to one
+    /// chunk, so no point is then in two files and the table needs no pass over every id (a chunk
+    /// re-run after its rows were merged names its chunk again, and is then found the long way).
+    /// </summary>
+    private static bool ChunksApart(IReadOnlyList<ParquetColumnFile> files)
+    {
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        foreach (var file in files)
+        {
+            if (file.Chunks is not { } chunks || chunks.IsEmpty)
+            {
+                return false;
+            }
+
+            foreach (var chunk in chunks)
+            {
+                if (!seen.Add(chunk))
+                {
+                    return false;
+                }
+            }
+        }
+
+        return true;
     }
 }

@@ -1,5 +1,6 @@
 using System.Collections.Concurrent;
 using System.Collections.Immutable;
+using LatticeSweep.Worker.Output;
 using Parquet;
 using Parquet.Schema;
 
@@ -19,8 +20,11 @@ internal sealed class ParquetColumnFile
     private readonly ImmutableArray<bool?> _filled;
     private readonly ConcurrentDictionary<int, Lazy<CellColumn>> _columns = new();
 
-    private ParquetColumnFile(string path, int rowCount, DataField[] fields, ImmutableArray<ResultColumn> columns, ImmutableArray<bool?> filled)
+    private ParquetColumnFile(string path, int rowCount, DataField[] fields, ImmutableArray<ResultColumn> columns, ImmutableArray<bool?> filled, TableSummary? summary,
+        ImmutableArray<string>? chunks)
     {
+        Summary = summary;
+        Chunks = chunks;
         Path = path;
         RowCount = rowCount;
         _fields = fields;
@@ -31,6 +35,12 @@ internal sealed class ParquetColumnFile
     public string Path { get; }
 
     public int RowCount { get; }
+
+    /// <summary>The file's whole-table facts from its footer (a merged points/ file), or null.</summary>
+    public TableSummary? Summary { get; }
+
+    /// <summary>The chunks whose rows the file holds, from its metadata (a merged file's list, a part's chunk); null when it does not say.</summary>
+    public ImmutableArray<string>? Chunks { get; }
 
     public ImmutableArray<ResultColumn> Columns { get; }
 
@@ -66,7 +76,12 @@ internal sealed class ParquetColumnFile
 
         // Statistics tell whether a column has a value without reading it; without them it is read to tell.
         var filled = fields.Select((_, c) => known[c] ? nulls[c] < rows : (bool?)null).ToImmutableArray();
-        return new ParquetColumnFile(path, checked((int)rows), fields, ParquetTableReader.Columns(reader, fields), filled);
+        var columns = ParquetTableReader.Columns(reader, fields);
+        var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
+        ImmutableArray<string>? chunks = metadata.TryGetValue(MergedLayout.ChunksKey, out var list) ? [.. list.Split(',', StringSplitOptions.RemoveEmptyEntries)]
+            : metadata.TryGetValue("latticesweep.chunk_id", out var chunk) ? [chunk]
+            : null;
+        return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks);
     }
 
     /// <summary>Whether the column has a value in some row, as the file's statistics say (null: they do not say).</summary>

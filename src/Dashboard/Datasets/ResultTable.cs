@@ -34,11 +34,12 @@ public sealed class ResultTable
     /// once, when first needed; <paramref name="filled"/>(c), when not null, says without reading
     /// whether the column has a value in some row (from the files' statistics).
     /// </summary>
-    internal ResultTable(ImmutableArray<ResultColumn> columns, int count, Func<int, CellColumn> load, Func<int, bool?>? filled = null)
+    internal ResultTable(ImmutableArray<ResultColumn> columns, int count, Func<int, CellColumn> load, Func<int, bool?>? filled = null, TableSummary? summary = null)
     {
         Columns = columns;
         _count = count;
         _filled = filled;
+        Summary = summary is not null && summary.Rows == count ? summary : null;
         _cells = [.. columns.Select((_, c) => new Lazy<CellColumn>(() => load(c), LazyThreadSafetyMode.ExecutionAndPublication))];
     }
 
@@ -51,6 +52,9 @@ public sealed class ResultTable
     }
 
     public static ResultTable Empty { get; } = new([], []);
+
+    /// <summary>Facts of the whole table from its files' footers (<see cref="TableSummary"/>); null for a filtered view or files without one.</summary>
+    internal TableSummary? Summary { get; }
 
     public ImmutableArray<ResultColumn> Columns { get; }
 

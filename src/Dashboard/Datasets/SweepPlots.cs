@@ -290,6 +290,12 @@ internal static class SweepPlots
             // Worked out once per table and column (a scan of the whole column).
             var (positive, spans) = TableFacts.Of(all, "axis\n" + column, t =>
             {
+                if (t.Summary?.Of(column) is { } s)
+                {
+                    // The same answers from the merged files' footers: every finite value positive, and max / min.
+                    return (s.Finite == 0 || s.Min > 0, s.Finite > 1 && s.Min > 0 && s.Max / s.Min >= SweepPlot.DecadesRatio);
+                }
+
                 var values = t.Numbers(column).ToList();
                 return (values.OfType<double>().Where(double.IsFinite).All(v => v > 0), SpansDecades(values));
             });
@@ -312,7 +318,9 @@ internal static class SweepPlots
     /// <summary>The first usual column that varies over the sweep, else the first other column that does; null when none varies.</summary>
     private static string? Preferred(ResultTable all, IEnumerable<string> usual, IEnumerable<string> others)
     {
-        bool Varies(string c) => all.Numbers(c).OfType<double>().Where(double.IsFinite).Distinct().Skip(1).Any();
+        bool Varies(string c) => all.Summary?.Of(c) is { } s
+            ? s.Finite > 1 && s.Min < s.Max
+            : all.Numbers(c).OfType<double>().Where(double.IsFinite).Distinct().Skip(1).Any();
         var present = NumberColumns(all);
         return usual.Where(present.Contains).FirstOrDefault(Varies) ?? others.FirstOrDefault(Varies);
     }
@@ -322,6 +330,17 @@ internal static class SweepPlots
         var i = t.IndexOf(column);
         return i < 0 ? 0 : TableFacts.Of(t, "distinct\n" + column, t =>
         {
+            if (t.Summary?.DistinctCells(column) is { } known)
+            {
+                return known;
+            }
+
+            if (t.Summary?.Of(column) is { More: true } c && c.Distinct.Length == ColumnSummary.DistinctKept)
+            {
+                // More values than the footer lists: every use here asks "more than one", "at most 12" or "at most 60".
+                return ColumnSummary.DistinctKept + 1;
+            }
+
             var cells = t.Cells(i);
             var seen = new HashSet<CellKey>();
             for (var r = 0; r < t.Count; r++)

@@ -14,21 +14,13 @@ internal static class ParquetTableFile
         await using var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16);
         await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
         var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
-        var units = metadata.TryGetValue(ParquetPartWriter.UnitsKey, out var json) ? Units(json) : [];
+        var columns = ColumnsOf(reader, file);
         var fields = reader.Schema.GetDataFields();
-        var columns = fields.Select(f => new ColumnDef(f.Name, TypeOf(f, file), units.GetValueOrDefault(f.Name, ""), "")).ToList();
         var groups = new List<Array[]>();
         var counts = new List<int>();
         for (var g = 0; g < reader.RowGroupCount; g++)
         {
-            using var group = reader.OpenRowGroupReader(g);
-            var count = checked((int)group.RowCount);
-            var values = new Array[fields.Length];
-            for (var c = 0; c < fields.Length; c++)
-            {
-                values[c] = await ReadColumnAsync(group, fields[c], columns[c].Type, count, ct).ConfigureAwait(false);
-            }
-
+            var (values, count) = await ReadRowGroupAsync(reader, g, columns, ct).ConfigureAwait(false);
             groups.Add(values);
             counts.Add(count);
         }
@@ -42,6 +34,32 @@ internal static class ParquetTableFile
         }
 
         return new Contents(new TableRows(table, columns, total, merged), metadata);
+    }
+
+    /// <summary>The file's columns with their types and units (from the footer).</summary>
+    public static IReadOnlyList<ColumnDef> ColumnsOf(ParquetReader reader, string file)
+    {
+        ArgumentNullException.ThrowIfNull(reader);
+        var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
+        var units = metadata.TryGetValue(ParquetPartWriter.UnitsKey, out var json) ? Units(json) : [];
+        return reader.Schema.GetDataFields().Select(f => new ColumnDef(f.Name, TypeOf(f, file), units.GetValueOrDefault(f.Name, ""), "")).ToList();
+    }
+
+    /// <summary>One row group of the file decoded into column arrays (<see cref="ColumnValues"/>), with its row count.</summary>
+    public static async Task<(Array[] Values, int Rows)> ReadRowGroupAsync(ParquetReader reader, int rowGroup, IReadOnlyList<ColumnDef> columns, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(reader);
+        ArgumentNullException.ThrowIfNull(columns);
+        var fields = reader.Schema.GetDataFields();
+        using var group = reader.OpenRowGroupReader(rowGroup);
+        var count = checked((int)group.RowCount);
+        var values = new Array[fields.Length];
+        for (var c = 0; c < fields.Length; c++)
+        {
+            values[c] = await ReadColumnAsync(group, fields[c], columns[c].Type, count, ct).ConfigureAwait(false);
+        }
+
+        return (values, count);
     }
 
     /// <summary>Joins column arrays of one type end to end.</summary>

@@ -97,5 +97,12 @@ internal sealed class ParquetTableWriter : IAsyncDisposable
         }
     }
 
+    /// <summary>Sets one file metadata entry; the footer is written when the writer is disposed, so an entry known only after the rows (an index of them) can still go in.</summary>
+    public void SetMetadata(string key, string value)
+    {
+        var metadata = new Dictionary<string, string>(_writer.CustomMetadata ?? new Dictionary<string, string>()) { [key] = value };
+        _writer.CustomMetadata = metadata;
+    }
+
     public ValueTask DisposeAsync() => _writer.DisposeAsync();
 }

@@ -27,14 +27,18 @@ internal static class TableMerger
     public sealed record Outcome(string Table, int PartsMerged, int FilesWritten, long Rows, bool TakenAsTheyWere = false);
 
     /// <summary>Merges every listed table of the sweep folder.</summary>
-    public static async Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, CancellationToken ct)
+    public static Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, CancellationToken ct) =>
+        MergeSweepAsync(sweepFolder, tables, MergeBudget.Default, ct);
+
+    /// <summary>Merges every listed table of the sweep folder within <paramref name="budget"/> (tests give a small one to force passes).</summary>
+    internal static async Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, MergeBudget budget, CancellationToken ct)
     {
         var outcomes = new List<Outcome>();
         using (OutputLock.Exclusive(sweepFolder))
         {
             foreach (var table in tables)
             {
-                outcomes.Add(await MergeLockedAsync(sweepFolder, table, ct).ConfigureAwait(false));
+                outcomes.Add(await MergeLockedAsync(sweepFolder, table, budget, ct).ConfigureAwait(false));
             }
 
             // Every table done: the empty staging folder goes too, so the sweep folder holds tables only.
@@ -59,7 +63,7 @@ internal static class TableMerger
         }
     }
 
-    private static async Task<Outcome> MergeLockedAsync(string sweepFolder, string table, CancellationToken ct)
+    private static async Task<Outcome> MergeLockedAsync(string sweepFolder, string table, MergeBudget budget, CancellationToken ct)
     {
         var live = SweepFolder.Table(sweepFolder, table);
         Recover(sweepFolder, table, live);
@@ -89,6 +93,7 @@ internal static class TableMerger
         var id = Guid.NewGuid().ToString("N");
         var stagingRoot = Path.Combine(sweepFolder, StagingFolderName);
         var staging = Path.Combine(stagingRoot, $"{table}-{id}");
+        var scratch = Path.Combine(stagingRoot, $"{table}-{id}-runs");
         Directory.CreateDirectory(staging);
         try
         {
@@ -108,28 +113,43 @@ internal static class TableMerger
                 return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
             }
 
-            var batch = new List<(ParquetTableFile.Contents Contents, IReadOnlyList<string> Chunks)>();
+            var batch = new List<(string File, IReadOnlyList<string> Chunks)>();
+            IReadOnlyList<ColumnDef>? batchColumns = null;
+            IReadOnlyDictionary<string, string>? batchMetadata = null;
             long batchBytes = 0;
             long rows = 0;
             var written = 0;
             foreach (var input in inputs)
             {
-                var contents = await ParquetTableFile.ReadAsync(input.FullName, ct).ConfigureAwait(false);
-                if (batch.Count > 0 && !SameColumns(batch[0].Contents.Rows, contents.Rows))
+                IReadOnlyList<ColumnDef> columns;
+                IReadOnlyDictionary<string, string> metadata;
+                await using (var footer = await SortedInput.OpenAsync(input.FullName, ct).ConfigureAwait(false))
                 {
-                    rows += await FlushAsync(batch, staging, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, ct).ConfigureAwait(false);
+                    columns = footer.Columns;
+                    metadata = footer.Metadata;
+                }
+
+                if (batch.Count > 0 && !SameColumns(batchColumns!, columns))
+                {
+                    rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, ct).ConfigureAwait(false);
                     written++;
                     batchBytes = 0;
                 }
 
                 var chunks = MergedLayout.ChunkOfPart(input.Name) is { } chunk
                     ? [chunk]
-                    : (IReadOnlyList<string>)(contents.Metadata.GetValueOrDefault(MergedLayout.ChunksKey, "").Split(',', StringSplitOptions.RemoveEmptyEntries));
-                batch.Add((contents, chunks));
+                    : (IReadOnlyList<string>)(metadata.GetValueOrDefault(MergedLayout.ChunksKey, "").Split(',', StringSplitOptions.RemoveEmptyEntries));
+                if (batch.Count == 0)
+                {
+                    batchColumns = columns;
+                    batchMetadata = metadata;
+                }
+
+                batch.Add((input.FullName, chunks));
                 batchBytes += input.Length;
                 if (batchBytes >= MergedLayout.TargetFileBytes)
                 {
-                    rows += await FlushAsync(batch, staging, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, ct).ConfigureAwait(false);
+                    rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, ct).ConfigureAwait(false);
                     written++;
                     batchBytes = 0;
                 }
@@ -137,16 +157,18 @@ internal static class TableMerger
 
             if (batch.Count > 0)
             {
-                rows += await FlushAsync(batch, staging, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, ct).ConfigureAwait(false);
+                rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, ct).ConfigureAwait(false);
                 written++;
             }
 
+            TryDeleteFolder(scratch);
             Commit(live, staging, id, chunkFiles, ct);
             return new Outcome(table, parts.Count, written, rows);
         }
         catch
         {
             TryDeleteFolder(staging);
+            TryDeleteFolder(scratch);
             throw;
         }
     }
@@ -230,152 +252,27 @@ internal static class TableMerger
         return kept.Count;
     }
 
-    /// <summary>Writes one merged file from the batch (then empties it): rows sorted by point id, row groups indexed in the metadata.</summary>
-    private static async Task<long> FlushAsync(List<(ParquetTableFile.Contents Contents, IReadOnlyList<string> Chunks)> batch, string staging, string fileName,
-        string table, List<(string Chunk, string File)> chunkFiles, CancellationToken ct)
+    /// <summary>
+    /// Writes one merged file from the batch (then empties it) by the streaming merge: rows sorted by
+    /// point id, row groups indexed in the metadata, memory bounded by <paramref name="budget"/>.
+    /// </summary>
+    private static async Task<long> FlushAsync(List<(string File, IReadOnlyList<string> Chunks)> batch, IReadOnlyDictionary<string, string> firstMetadata,
+        string staging, string scratch, string fileName, string table, List<(string Chunk, string File)> chunkFiles, MergeBudget budget, CancellationToken ct)
     {
-        var first = batch[0].Contents;
-        var columns = first.Rows.Columns;
-        var total = batch.Sum(b => b.Contents.Rows.RowCount);
-        var values = new Array[columns.Count];
-        for (var c = 0; c < columns.Count; c++)
-        {
-            values[c] = ParquetTableFile.Concat(columns[c].Type, batch.Select(b => b.Contents.Rows.Values[c]).ToList(), total);
-        }
-
-        var idColumn = columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
-        var order = idColumn >= 0
-            ? MergeOrder((string?[])values[idColumn], batch.Select(b => b.Contents.Rows.RowCount).ToList())
-            : Enumerable.Range(0, total).ToArray();
-
         var chunks = batch.SelectMany(b => b.Chunks).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToList();
-        var groups = new List<TableRows>();
-        var index = new StringBuilder();
-        for (var start = 0; start < total || (total == 0 && groups.Count == 0); start += MergedLayout.RowGroupRows)
-        {
-            var count = Math.Min(MergedLayout.RowGroupRows, total - start);
-            var slice = new Array[columns.Count];
-            for (var c = 0; c < columns.Count; c++)
-            {
-                slice[c] = Take(values[c], order, start, count);
-            }
-
-            if (idColumn >= 0 && count > 0)
-            {
-                var ids = (string?[])slice[idColumn];
-                index.Append(ids[0]).Append('\t').Append(ids[count - 1]).Append('\n');
-            }
-
-            groups.Add(new TableRows(table, columns, count, slice));
-            if (total == 0)
-            {
-                break;
-            }
-        }
-
-        var metadata = first.Metadata
-            .Where(kv => kv.Key != "latticesweep.chunk_id" && kv.Key != MergedLayout.ChunksKey && kv.Key != MergedLayout.RowGroupsKey && kv.Key != ParquetPartWriter.UnitsKey)
+        var metadata = firstMetadata
+            .Where(kv => kv.Key != "latticesweep.chunk_id" && kv.Key != MergedLayout.ChunksKey && kv.Key != MergedLayout.RowGroupsKey && kv.Key != ParquetPartWriter.UnitsKey && kv.Key != ColumnSummary.Key)
             .ToDictionary(kv => kv.Key, kv => kv.Value);
         metadata[MergedLayout.ChunksKey] = string.Join(',', chunks);
-        metadata[MergedLayout.RowGroupsKey] = index.ToString();
-
-        var path = Path.Combine(staging, fileName);
-        await using (var file = new FileStream(path, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None))
-        {
-            await using (var writer = await ParquetTableWriter.CreateAsync(file, columns, metadata, ct).ConfigureAwait(false))
-            {
-                foreach (var group in groups)
-                {
-                    await writer.WriteRowGroupAsync(group, ct).ConfigureAwait(false);
-                }
-            }
-
-            file.Flush(flushToDisk: true);
-        }
-
+        var written = await StreamingMerge.MergeAsync(batch.Select(b => b.File).ToList(), Path.Combine(staging, fileName), scratch, table, metadata, budget, ct).ConfigureAwait(false);
         SimulatedSlowMerge.Pause();
         chunkFiles.AddRange(chunks.Select(c => (c, fileName)));
         batch.Clear();
-        return total;
+        return written.Rows;
     }
 
-    /// <summary>
-    /// Row order by point id (ties keep their order): each input is a run, sorted by point id already
-    /// when the worker wrote it (<see cref="ChunkTables"/>) or sorted here, and the runs are merged.
-    /// </summary>
-    private static int[] MergeOrder(string?[] ids, IReadOnlyList<int> runLengths)
-    {
-        var runs = new List<(int Start, int[] Order)>();
-        var start = 0;
-        foreach (var length in runLengths)
-        {
-            var run = Enumerable.Range(start, length).ToArray();
-            var sorted = true;
-            for (var i = start + 1; i < start + length && sorted; i++)
-            {
-                sorted = string.CompareOrdinal(ids[i - 1], ids[i]) <= 0;
-            }
-
-            if (!sorted)
-            {
-                Array.Sort(run, (a, b) => string.CompareOrdinal(ids[a], ids[b]) is var c && c != 0 ? c : a.CompareTo(b));
-            }
-
-            runs.Add((start, run));
-            start += length;
-        }
-
-        var order = new int[start];
-        var heads = new int[runs.Count];
-        var queue = new PriorityQueue<int, (string? Id, int Run)>(Comparer<(string? Id, int Run)>.Create((a, b) =>
-            string.CompareOrdinal(a.Id, b.Id) is var c && c != 0 ? c : a.Run.CompareTo(b.Run)));
-        for (var r = 0; r < runs.Count; r++)
-        {
-            if (runs[r].Order.Length > 0)
-            {
-                queue.Enqueue(r, (ids[runs[r].Order[0]], r));
-            }
-        }
-
-        var at = 0;
-        while (queue.TryDequeue(out var r, out _))
-        {
-            var run = runs[r].Order;
-            order[at++] = run[heads[r]++];
-            if (heads[r] < run.Length)
-            {
-                queue.Enqueue(r, (ids[run[heads[r]]], r));
-            }
-        }
-
-        return order;
-    }
-
-    /// <summary>Rows <paramref name="order"/>[start .. start + count) of a column array, as a new array of the same type.</summary>
-    private static Array Take(Array values, int[] order, int start, int count) => values switch
-    {
-        string?[] a => Pick(a, order, start, count),
-        double?[] a => Pick(a, order, start, count),
-        int?[] a => Pick(a, order, start, count),
-        long?[] a => Pick(a, order, start, count),
-        bool?[] a => Pick(a, order, start, count),
-        DateTime?[] a => Pick(a, order, start, count),
-        _ => throw new InvalidOperationException($"unexpected column array {values.GetType().Name}"),
-    };
-
-    private static T[] Pick<T>(T[] values, int[] order, int start, int count)
-    {
-        var result = new T[count];
-        for (var i = 0; i < count; i++)
-        {
-            result[i] = values[order[start + i]];
-        }
-
-        return result;
-    }
-
-    private static bool SameColumns(TableRows a, TableRows b) =>
-        a.Columns.Count == b.Columns.Count && a.Columns.Zip(b.Columns).All(p => p.First.Name == p.Second.Name && p.First.Type == p.Second.Type);
+    private static bool SameColumns(IReadOnlyList<ColumnDef> a, IReadOnlyList<ColumnDef> b) =>
+        a.Count == b.Count && a.Zip(b).All(p => p.First.Name == p.Second.Name && p.First.Type == p.Second.Type);
 
     private static string CompleteMarker(string id) => $".complete-{id}";
 

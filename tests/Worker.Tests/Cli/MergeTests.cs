@@ -127,6 +127,54 @@ public sealed class MergeTests : IDisposable
         }
     }
 
+    [Fact]
+    public async Task A_merge_within_a_small_memory_budget_streams_in_passes_and_writes_the_same_rows_in_the_same_order()
+    {
+        // 12 parts per table; a budget of one byte of inputs forces pairwise passes through sorted
+        // runs, and ~4 kB per written row group cuts every merged file into many row groups.
+        var (plan, folder) = RunSweep(pointsPerChunk: 2, merge: false);
+        using var db = new DuckDb();
+        var expected = new Dictionary<string, List<string>>();
+        foreach (var table in Tables)
+        {
+            // The parts as an independent reader sees them, in point order; a point's rows stay in its part's order.
+            var parts = string.Join(", ", DataFiles(folder, table).Select(f => $"'{Path.Combine(folder, table, f)}'"));
+            expected[table] = RowsAsText(db, $"SELECT * EXCLUDE (file_row_number, filename) FROM read_parquet([{parts}], file_row_number = true, filename = true) ORDER BY point_id, filename, file_row_number");
+        }
+
+        var outcomes = await TableMerger.MergeSweepAsync(folder, Tables, new MergeBudget(InputBytes: 1, OutputGroupBytes: 4_000), CancellationToken.None);
+        Assert.All(outcomes, o => Assert.Equal(12, o.PartsMerged));
+        foreach (var table in Tables)
+        {
+            Assert.Equal([MergedLayout.MergedFileName(0)], DataFiles(folder, table));
+            var path = Path.Combine(folder, table, MergedLayout.MergedFileName(0));
+            Assert.Equal(expected[table], RowsAsText(db, $"SELECT * EXCLUDE (file_row_number) FROM read_parquet('{path}', file_row_number = true) ORDER BY file_row_number"));
+            AssertEveryPointOnce(db, plan, folder, table);
+
+            // Many row groups, each found by its index for every point in it.
+            var groups = db.Rows($"SELECT DISTINCT row_group_id FROM parquet_metadata('{path}')").Count;
+            Assert.True(groups > 1, $"{table}: {groups} row group");
+            var index = (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{path}') WHERE decode(key) = '{MergedLayout.RowGroupsKey}'")!;
+            Assert.Equal(groups, index.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length);
+            var metadata = new Dictionary<string, string> { [MergedLayout.RowGroupsKey] = index };
+            foreach (var row in db.Rows($"SELECT point_id, row_group_id FROM (SELECT point_id, file_row_number FROM read_parquet('{path}', file_row_number = true)) r, "
+                + $"(SELECT row_group_id, sum(row_group_num_rows) OVER (ORDER BY row_group_id) - row_group_num_rows AS first_row, row_group_num_rows FROM (SELECT DISTINCT row_group_id, row_group_num_rows FROM parquet_metadata('{path}'))) g "
+                + "WHERE r.file_row_number >= g.first_row AND r.file_row_number < g.first_row + g.row_group_num_rows"))
+            {
+                Assert.Contains(Convert.ToInt32(row[1], System.Globalization.CultureInfo.InvariantCulture), MergedLayout.RowGroupsOf(metadata, (string)row[0]!)!);
+            }
+
+            Assert.Equal(12, MergedLayout.MergedChunks(Path.Combine(folder, table)).Count);
+            Assert.Contains("latticesweep.units", db.Rows($"SELECT decode(key) FROM parquet_kv_metadata('{path}')").Select(r => (string)r[0]!));
+        }
+
+        // No sorted run is left behind.
+        Assert.False(Directory.Exists(Path.Combine(folder, TableMerger.StagingFolderName)));
+    }
+
+    private static List<string> RowsAsText(DuckDb db, string sql) =>
+        [.. db.Rows(sql).Select(r => string.Join("|", r.Select(v => Convert.ToString(v, System.Globalization.CultureInfo.InvariantCulture))))];
+
     private static string Hash(string path) => Convert.ToHexString(System.Security.Cryptography.SHA256.HashData(File.ReadAllBytes(path)));
 
     [Fact]

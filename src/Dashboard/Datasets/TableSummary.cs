@@ -1,0 +1,140 @@
+using System.Collections.Immutable;
+using System.Text.Json;
+using LatticeSweep.Worker.Output;
+
+namespace LatticeSweep.Dashboard.Datasets;
+
+/// <summary>
+/// The whole-table facts a merged points/ file carries in its footer (written by the merge:
+/// <see cref="ColumnSummary"/>), so the sweep page's defaults (which columns vary, how many values
+/// a parameter takes, whether an axis spans decades, a column's tick values) come without reading
+/// 10^6 rows. A table has one only when every file it is read from has one and no row was dropped
+/// (a chunk re-run after the merge, a sweep still running: parts have none), and only the whole
+/// table, never a filtered view; otherwise the facts are worked out from the rows as before.
+/// </summary>
+internal sealed class TableSummary
+{
+    private readonly ImmutableDictionary<string, Column> _columns;
+
+    private TableSummary(long rows, ImmutableDictionary<string, Column> columns)
+    {
+        Rows = rows;
+        _columns = columns;
+    }
+
+    public long Rows { get; }
+
+    /// <summary>One column's facts: cells with a value, finite numbers with their least and greatest, and the first distinct values in row order.</summary>
+    /// <param name="Distinct">distinct values with a value, in row order, boxed as the column's cells are; complete unless <paramref name="More"/></param>
+    internal sealed record Column(long Count, long Finite, double Min, double Max, ImmutableArray<object> Distinct, bool More);
+
+    /// <summary>The column's facts; null when the summary does not have the column.</summary>
+    public Column? Of(string column) => _columns.GetValueOrDefault(column);
+
+    /// <summary>Parses the footer entry of a file of these columns; null when absent or unreadable (then the rows are read).</summary>
+    public static TableSummary? Parse(IReadOnlyDictionary<string, string>? metadata, IReadOnlyList<ResultColumn> columns, long fileRows)
+    {
+        if (metadata is null || !metadata.TryGetValue(ColumnSummary.Key, out var text))
+        {
+            return null;
+        }
+
+        try
+        {
+            using var json = JsonDocument.Parse(text);
+            var rows = json.RootElement.GetProperty("rows").GetInt64();
+            if (rows != fileRows)
+            {
+                return null;
+            }
+
+            var all = json.RootElement.GetProperty("columns");
+            var parsed = ImmutableDictionary.CreateBuilder<string, Column>(StringComparer.Ordinal);
+            foreach (var c in columns)
+            {
+                if (!all.TryGetProperty(c.Name, out var e))
+                {
+                    return null;
+                }
+
+                var finite = e.TryGetProperty("finite", out var f) ? f.GetInt64() : 0;
+                var distinct = e.GetProperty("distinct").EnumerateArray().Select(v => Box(v, c.ClrType)).ToImmutableArray();
+                parsed[c.Name] = new Column(e.GetProperty("count").GetInt64(), finite,
+                    finite > 0 ? e.GetProperty("min").GetDouble() : double.NaN, finite > 0 ? e.GetProperty("max").GetDouble() : double.NaN,
+                    distinct, e.GetProperty("more").GetBoolean());
+            }
+
+            return new TableSummary(rows, parsed.ToImmutable());
+        }
+        catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
+        {
+            return null;
+        }
+    }
+
+    /// <summary>The summary of files read one after the other (a table of several merged files); null unless every one has one.</summary>
+    public static TableSummary? Concat(IReadOnlyList<TableSummary?> files, IReadOnlyList<ResultColumn> columns)
+    {
+        if (files.Count == 0 || files.Any(f => f is null))
+        {
+            return null;
+        }
+
+        if (files.Count == 1)
+        {
+            return files[0];
+        }
+
+        var parsed = ImmutableDictionary.CreateBuilder<string, Column>(StringComparer.Ordinal);
+        foreach (var c in columns)
+        {
+            // A column a file lacks is empty there: it adds rows without values.
+            var parts = files.Select(f => f!.Of(c.Name)).OfType<Column>().ToList();
+            var finite = parts.Where(p => p.Finite > 0).ToList();
+            var distinct = new List<object>();
+            var more = false;
+            foreach (var p in parts)
+            {
+                if (more)
+                {
+                    break;
+                }
+
+                foreach (var v in p.Distinct.Where(v => !distinct.Contains(v)))
+                {
+                    if (distinct.Count == ColumnSummary.DistinctKept)
+                    {
+                        more = true;
+                        break;
+                    }
+
+                    distinct.Add(v);
+                }
+
+                more |= p.More;
+            }
+
+            parsed[c.Name] = new Column(parts.Sum(p => p.Count), finite.Sum(p => p.Finite),
+                finite.Count > 0 ? finite.Min(p => p.Min) : double.NaN, finite.Count > 0 ? finite.Max(p => p.Max) : double.NaN, [.. distinct], more);
+        }
+
+        return new TableSummary(files.Sum(f => f!.Rows), parsed.ToImmutable());
+    }
+
+    /// <summary>How many distinct cells the column has, an empty cell counting as one; null past the values kept (more than <see cref="ColumnSummary.DistinctKept"/>).</summary>
+    public int? DistinctCells(string column) =>
+        Of(column) is { More: false } c ? c.Distinct.Length + (c.Count < Rows ? 1 : 0) : null;
+
+    /// <summary>A JSON value boxed as a cell of a column of <paramref name="type"/> is (<see cref="CellColumn.Cell"/>).</summary>
+    private static object Box(JsonElement v, Type type) => v.ValueKind switch
+    {
+        JsonValueKind.String when type == typeof(double) => double.Parse(v.GetString()!, System.Globalization.CultureInfo.InvariantCulture),
+        JsonValueKind.String => v.GetString()!,
+        JsonValueKind.True => true,
+        JsonValueKind.False => false,
+        JsonValueKind.Number when type == typeof(int) => v.GetInt32(),
+        JsonValueKind.Number when type == typeof(long) => v.GetInt64(),
+        JsonValueKind.Number => v.GetDouble(),
+        _ => throw new FormatException($"unexpected summary value {v.ValueKind}"),
+    };
+}

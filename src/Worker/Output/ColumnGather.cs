@@ -1,0 +1,44 @@
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>Copies chosen rows of typed column arrays (<see cref="ColumnValues"/>) into a new array of the same type.</summary>
+internal static class ColumnGather
+{
+    /// <summary>Rows <paramref name="order"/> of one column array, in that order.</summary>
+    public static Array Pick(Array values, int[] order)
+    {
+        var segment = new int[order.Length];
+        return Gather([values], segment, order, order.Length);
+    }
+
+    /// <summary>
+    /// Row i of the result is row <paramref name="rows"/>[i] of <paramref name="sources"/>[<paramref name="segments"/>[i]],
+    /// for i below <paramref name="count"/>; every source is an array of the same type.
+    /// </summary>
+    public static Array Gather(IReadOnlyList<Array> sources, int[] segments, int[] rows, int count) => sources[0] switch
+    {
+        string?[] => Typed<string?>(sources, segments, rows, count),
+        double?[] => Typed<double?>(sources, segments, rows, count),
+        int?[] => Typed<int?>(sources, segments, rows, count),
+        long?[] => Typed<long?>(sources, segments, rows, count),
+        bool?[] => Typed<bool?>(sources, segments, rows, count),
+        DateTime?[] => Typed<DateTime?>(sources, segments, rows, count),
+        var other => throw new InvalidOperationException($"unexpected column array {other.GetType().Name}"),
+    };
+
+    private static T[] Typed<T>(IReadOnlyList<Array> sources, int[] segments, int[] rows, int count)
+    {
+        var typed = new T[sources.Count][];
+        for (var s = 0; s < typed.Length; s++)
+        {
+            typed[s] = (T[])sources[s];
+        }
+
+        var result = new T[count];
+        for (var i = 0; i < count; i++)
+        {
+            result[i] = typed[segments[i]][rows[i]];
+        }
+
+        return result;
+    }
+}

@@ -1,0 +1,250 @@
+using System.Globalization;
+using System.Text.Json;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// A merged file's facts per column, worked out while the merge writes its rows and kept in the
+/// file's own metadata (<see cref="Key"/>), so a reader of a large table (the dashboard's first
+/// page) learns them from the footer instead of a scan of every row, and they can never describe
+/// other rows than the file's. Per column: the cells with a value, for numbers the finite ones with
+/// their least and greatest, and the first <see cref="DistinctKept"/> distinct values in row order
+/// (with whether more follow). Timestamps get counts only.
+/// </summary>
+internal sealed class ColumnSummary
+{
+    public const string Key = "latticesweep.column_summary";
+
+    /// <summary>Distinct values kept per column: past this many the list says only that more follow.</summary>
+    public const int DistinctKept = 64;
+
+    private readonly IReadOnlyList<ColumnDef> _columns;
+    private readonly Column[] _stats;
+    private long _rows;
+
+    public ColumnSummary(IReadOnlyList<ColumnDef> columns)
+    {
+        _columns = columns;
+        _stats = [.. columns.Select(_ => new Column())];
+    }
+
+    /// <summary>Adds one row group's cells (typed arrays, <see cref="ColumnValues"/>).</summary>
+    public void Add(IReadOnlyList<Array> values, int rows)
+    {
+        _rows += rows;
+        for (var c = 0; c < _columns.Count; c++)
+        {
+            var s = _stats[c];
+            switch (values[c])
+            {
+                case string?[] text:
+                    for (var i = 0; i < rows; i++)
+                    {
+                        if (text[i] is { } t)
+                        {
+                            s.Count++;
+                            s.See(t);
+                        }
+                    }
+
+                    break;
+                case double?[] d:
+                    for (var i = 0; i < rows; i++)
+                    {
+                        if (d[i] is { } v)
+                        {
+                            s.Count++;
+                            s.Number(v);
+                            s.See(v);
+                        }
+                    }
+
+                    break;
+                case int?[] n:
+                    for (var i = 0; i < rows; i++)
+                    {
+                        if (n[i] is { } v)
+                        {
+                            s.Count++;
+                            s.Number(v);
+                            s.See(v);
+                        }
+                    }
+
+                    break;
+                case long?[] l:
+                    for (var i = 0; i < rows; i++)
+                    {
+                        if (l[i] is { } v)
+                        {
+                            s.Count++;
+                            s.Number(v);
+                            s.See(v);
+                        }
+                    }
+
+                    break;
+                case bool?[] b:
+                    for (var i = 0; i < rows; i++)
+                    {
+                        if (b[i] is { } v)
+                        {
+                            s.Count++;
+                            s.See(v);
+                        }
+                    }
+
+                    break;
+                case DateTime?[] t:
+                    s.More = true;
+                    for (var i = 0; i < rows; i++)
+                    {
+                        s.Count += t[i] is null ? 0 : 1;
+                    }
+
+                    break;
+            }
+        }
+    }
+
+    /// <summary>The summary as the JSON kept in the file's metadata.</summary>
+    public string ToJson()
+    {
+        using var buffer = new MemoryStream();
+        using (var json = new Utf8JsonWriter(buffer))
+        {
+            json.WriteStartObject();
+            json.WriteNumber("rows", _rows);
+            json.WriteStartObject("columns");
+            for (var c = 0; c < _columns.Count; c++)
+            {
+                var s = _stats[c];
+                json.WriteStartObject(_columns[c].Name);
+                json.WriteNumber("count", s.Count);
+                if (_columns[c].Type is ColumnType.Double or ColumnType.Int32 or ColumnType.Int64)
+                {
+                    json.WriteNumber("finite", s.Finite);
+                    if (s.Finite > 0)
+                    {
+                        json.WriteNumber("min", s.Min);
+                        json.WriteNumber("max", s.Max);
+                    }
+                }
+
+                json.WriteStartArray("distinct");
+                foreach (var v in s.Values)
+                {
+                    switch (v)
+                    {
+                        case string t: json.WriteStringValue(t); break;
+                        case double d when double.IsFinite(d): json.WriteNumberValue(d); break;
+                        case double d: json.WriteStringValue(d.ToString("R", CultureInfo.InvariantCulture)); break;
+                        case int n: json.WriteNumberValue(n); break;
+                        case long n: json.WriteNumberValue(n); break;
+                        case bool b: json.WriteBooleanValue(b); break;
+                    }
+                }
+
+                json.WriteEndArray();
+                json.WriteBoolean("more", s.More);
+                json.WriteEndObject();
+            }
+
+            json.WriteEndObject();
+            json.WriteEndObject();
+        }
+
+        return System.Text.Encoding.UTF8.GetString(buffer.ToArray());
+    }
+
+    private sealed class Column
+    {
+        private readonly HashSet<long> _seenBits = [];
+        private readonly HashSet<string> _seenText = new(StringComparer.Ordinal);
+        private long _lastBits;
+        private string? _lastText;
+        private bool _hasLast;
+
+        public long Count { get; set; }
+
+        public long Finite { get; private set; }
+
+        public double Min { get; private set; } = double.PositiveInfinity;
+
+        public double Max { get; private set; } = double.NegativeInfinity;
+
+        public List<object> Values { get; } = [];
+
+        public bool More { get; set; }
+
+        public void Number(double v)
+        {
+            if (double.IsFinite(v))
+            {
+                Finite++;
+                Min = Math.Min(Min, v);
+                Max = Math.Max(Max, v);
+            }
+        }
+
+        // Numbers are told apart by their bits (as the dashboard's cell keys do); the last value
+        // is checked first, so a constant column costs no lookup and a column past the list none.
+        public void See(double v) => SeeBits(BitConverter.DoubleToInt64Bits(v), v);
+
+        public void See(int v) => SeeBits(v, v);
+
+        public void See(long v) => SeeBits(v, v);
+
+        public void See(bool v) => SeeBits(v ? 1 : 0, v);
+
+        public void See(string v)
+        {
+            if (More || (_hasLast && string.Equals(v, _lastText, StringComparison.Ordinal)) || _seenText.Contains(v))
+            {
+                return;
+            }
+
+            _hasLast = true;
+            _lastText = v;
+            if (Full())
+            {
+                return;
+            }
+
+            _seenText.Add(v);
+            Values.Add(v);
+        }
+
+        private void SeeBits<T>(long bits, T value)
+            where T : notnull
+        {
+            if (More || (_hasLast && bits == _lastBits))
+            {
+                return;
+            }
+
+            _hasLast = true;
+            _lastBits = bits;
+            if (_seenBits.Contains(bits) || Full())
+            {
+                return;
+            }
+
+            _seenBits.Add(bits);
+            Values.Add(value);
+        }
+
+        private bool Full()
+        {
+            if (Values.Count < DistinctKept)
+            {
+                return false;
+            }
+
+            More = true;
+            _seenBits.Clear();
+            _seenText.Clear();
+            return true;
+        }
+    }
+}

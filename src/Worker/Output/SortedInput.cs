@@ -1,0 +1,164 @@
+using Parquet;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// One input of the streaming merge (<see cref="StreamingMerge"/>): a Parquet file of a table whose
+/// rows are sorted by point id, read one row group at a time. A file without a row-group index
+/// (written before parts were laid out as merged files) is read whole and sorted here instead, so
+/// only such old files cost their whole size in memory.
+/// </summary>
+internal sealed class SortedInput : IAsyncDisposable
+{
+    private readonly FileStream _stream;
+    private readonly ParquetReader _reader;
+    private readonly int _idColumn;
+    private readonly bool _streamed;
+    private int _nextGroup;
+    private string? _lastId;
+
+    private SortedInput(string file, FileStream stream, ParquetReader reader, IReadOnlyList<ColumnDef> columns, IReadOnlyList<long> groupRows, bool streamed)
+    {
+        File = file;
+        _stream = stream;
+        _reader = reader;
+        Columns = columns;
+        GroupRows = groupRows;
+        _streamed = streamed;
+        _idColumn = columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
+    }
+
+    public string File { get; }
+
+    public IReadOnlyList<ColumnDef> Columns { get; }
+
+    /// <summary>Rows of each row group, from the footer.</summary>
+    public IReadOnlyList<long> GroupRows { get; }
+
+    public IReadOnlyDictionary<string, string> Metadata => _reader.CustomMetadata ?? new Dictionary<string, string>();
+
+    /// <summary>The row group being consumed (null before the first and after the last).</summary>
+    public LoadedGroup? Current { get; private set; }
+
+    /// <summary>The next row of <see cref="Current"/> not yet taken.</summary>
+    public int Position { get; set; }
+
+    /// <summary>The largest number of rows this input holds decoded at once.</summary>
+    public long RowsHeld => _streamed ? GroupRows.DefaultIfEmpty(0).Max() : GroupRows.Sum();
+
+    public static async Task<SortedInput> OpenAsync(string file, CancellationToken ct)
+    {
+        var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16);
+        try
+        {
+            var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+            var columns = ParquetTableFile.ColumnsOf(reader, file);
+            var groupRows = new List<long>();
+            for (var g = 0; g < reader.RowGroupCount; g++)
+            {
+                using var group = reader.OpenRowGroupReader(g);
+                groupRows.Add(group.RowCount);
+            }
+
+            var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
+            var streamed = columns.Any(c => c.Name == MergedLayout.PointIdColumn && c.Type == ColumnType.Text)
+                && metadata.TryGetValue(MergedLayout.RowGroupsKey, out var index) && RowGroupIndex.DescribesSortedFile(index, groupRows);
+            return new SortedInput(file, stream, reader, columns, groupRows, streamed);
+        }
+        catch
+        {
+            await stream.DisposeAsync().ConfigureAwait(false);
+            throw;
+        }
+    }
+
+    /// <summary>The point id of the next row, or null (with <paramref name="exhausted"/>) when none is left.</summary>
+    public string? HeadId(out bool exhausted)
+    {
+        exhausted = Current is null;
+        return Current is null || _idColumn < 0 ? null : ((string?[])Current.Values[_idColumn])[Position];
+    }
+
+    /// <summary>Moves to the next row group that has rows; false when the file is done.</summary>
+    public async Task<bool> AdvanceAsync(CancellationToken ct)
+    {
+        Current = null;
+        Position = 0;
+        if (!_streamed)
+        {
+            if (_nextGroup++ > 0)
+            {
+                return false;
+            }
+
+            var whole = await WholeFileSortedAsync(ct).ConfigureAwait(false);
+            Current = whole.Rows > 0 ? whole : null;
+            return Current is not null;
+        }
+
+        while (_nextGroup < _reader.RowGroupCount)
+        {
+            var (values, rows) = await ParquetTableFile.ReadRowGroupAsync(_reader, _nextGroup++, Columns, ct).ConfigureAwait(false);
+            if (rows == 0)
+            {
+                continue;
+            }
+
+            var ids = (string?[])values[_idColumn];
+            for (var i = 0; i < rows; i++)
+            {
+                if (_lastId is not null && string.CompareOrdinal(_lastId, ids[i]) > 0)
+                {
+                    throw new InvalidDataException($"{File}: row group {_nextGroup - 1} is not sorted by {MergedLayout.PointIdColumn} though its index says so ({ids[i]} after {_lastId})");
+                }
+
+                _lastId = ids[i];
+            }
+
+            Current = new LoadedGroup(values, rows);
+            return true;
+        }
+
+        return false;
+    }
+
+    /// <summary>The whole file as one group, its rows in point-id order (ties keep their order).</summary>
+    private async Task<LoadedGroup> WholeFileSortedAsync(CancellationToken ct)
+    {
+        var pieces = new List<Array[]>();
+        var total = 0;
+        for (var g = 0; g < _reader.RowGroupCount; g++)
+        {
+            var (values, rows) = await ParquetTableFile.ReadRowGroupAsync(_reader, g, Columns, ct).ConfigureAwait(false);
+            pieces.Add(values);
+            total += rows;
+        }
+
+        var columns = new Array[Columns.Count];
+        for (var c = 0; c < Columns.Count; c++)
+        {
+            columns[c] = ParquetTableFile.Concat(Columns[c].Type, pieces.Select(p => p[c]).ToList(), total);
+        }
+
+        if (_idColumn >= 0 && columns[_idColumn] is string?[] ids)
+        {
+            var order = Enumerable.Range(0, total).ToArray();
+            Array.Sort(order, (a, b) => string.CompareOrdinal(ids[a], ids[b]) is var d && d != 0 ? d : a.CompareTo(b));
+            for (var c = 0; c < Columns.Count; c++)
+            {
+                columns[c] = ColumnGather.Pick(columns[c], order);
+            }
+        }
+
+        return new LoadedGroup(columns, total);
+    }
+
+    public async ValueTask DisposeAsync()
+    {
+        await _reader.DisposeAsync().ConfigureAwait(false);
+        await _stream.DisposeAsync().ConfigureAwait(false);
+    }
+}
+
+/// <summary>One decoded row group of an input: its column arrays and row count.</summary>
+internal sealed record LoadedGroup(Array[] Values, int Rows);

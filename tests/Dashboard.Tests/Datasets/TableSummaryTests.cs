@@ -1,0 +1,139 @@
+using System.Collections.Immutable;
+using System.Text.Json;
+using LatticeSweep.Dashboard.Datasets;
+using LatticeSweep.Dashboard.Security;
+using LatticeSweep.Dashboard.Tests.Support;
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Output;
+
+namespace LatticeSweep.Dashboard.Tests.Datasets;
+
+/// <summary>
+/// The facts a merged points/ file carries in its footer (<see cref="ColumnSummary"/>, read as
+/// <see cref="TableSummary"/>) equal what a scan of every row finds, and the plots made with them
+/// equal the plots made from the same file without them; tables with parts (a sweep not merged,
+/// still running) or a filtered view have none and are scanned as before.
+/// </summary>
+public sealed class TableSummaryTests : IDisposable
+{
+    private readonly TempFolder _dir = new();
+
+    public void Dispose() => _dir.Dispose();
+
+    [Theory]
+    [InlineData("quickstart")]
+    [InlineData("unstable")]
+    public async Task A_merged_points_table_answers_from_its_footer_as_a_scan_of_every_row_does(string job)
+    {
+        using var store = DemoStore.Create();
+        var sweepId = job == "quickstart"
+            ? await store.AddAsync("quickstart.toml", DemoJobs.Quickstart(), DemoProgress.Finished, pointsPerChunk: 2)
+            : await store.AddAsync("through-zero.toml", DemoJobs.Unstable, DemoProgress.Finished, pointsPerChunk: 1);
+        using var catalog = store.OpenCatalog();
+        var sweep = catalog.FindSweep(sweepId)!;
+        var results = new ResultStore(new OutputRoot(store.OutputRoot));
+
+        // Before the merge: parts only, no summary.
+        Assert.Null((await results.PointsAsync(sweep, CancellationToken.None)).Summary);
+
+        await TableMerger.MergeSweepAsync(sweep.OutputFolder, [TableNames.Points], CancellationToken.None);
+        var merged = Directory.GetFiles(Path.Combine(sweep.OutputFolder, TableNames.Points), "merged-*.parquet").Single();
+        var withSummary = await results.PointsAsync(sweep, CancellationToken.None);
+        var summary = withSummary.Summary;
+        Assert.NotNull(summary);
+
+        // The same rows without the footer entry: what the dashboard reads when a file has none.
+        var bare = _dir.Combine("bare.parquet");
+        var contents = await ParquetTableFile.ReadAsync(merged, CancellationToken.None);
+        await using (var file = File.Create(bare))
+        {
+            await using var writer = await ParquetTableWriter.CreateAsync(file, contents.Rows.Columns,
+                contents.Metadata.Where(kv => kv.Key != ColumnSummary.Key && kv.Key != ParquetPartWriter.UnitsKey).ToDictionary(), CancellationToken.None);
+            await writer.WriteRowGroupAsync(contents.Rows, CancellationToken.None);
+        }
+
+        var scanned = ColumnDataset.Of([await ParquetColumnFile.OpenAsync(bare, CancellationToken.None)], "point_id");
+        Assert.Null(scanned.Summary);
+        Assert.Equal(scanned.Count, withSummary.Count);
+
+        foreach (var column in scanned.Columns)
+        {
+            var cells = scanned.Cells(scanned.IndexOf(column.Name));
+            var facts = summary.Of(column.Name)!;
+            Assert.Equal(Enumerable.Range(0, scanned.Count).Count(cells.HasValue), facts.Count);
+            var finite = scanned.Numbers(column.Name).OfType<double>().Where(double.IsFinite).ToList();
+            Assert.Equal(finite.Count, facts.Finite);
+            if (finite.Count > 0)
+            {
+                Assert.Equal(finite.Min(), facts.Min);
+                Assert.Equal(finite.Max(), facts.Max);
+            }
+
+            // Distinct values with a value, in row order, boxed as the cells are.
+            var seen = new HashSet<CellKey>();
+            var distinct = Enumerable.Range(0, scanned.Count).Where(r => cells.HasValue(r) && seen.Add(cells.Key(r))).Select(cells.Cell).ToList();
+            if (column.ClrType == typeof(DateTime) || column.ClrType == typeof(DateTimeOffset))
+            {
+                // Times are counted only: no values listed, so every use of their values scans.
+                Assert.True(facts.More);
+                Assert.Empty(facts.Distinct);
+                Assert.Null(summary.DistinctCells(column.Name));
+                continue;
+            }
+
+            Assert.Equal(distinct.Take(ColumnSummary.DistinctKept).ToArray(), facts.Distinct.ToArray());
+            Assert.Equal(distinct.Count > ColumnSummary.DistinctKept, facts.More);
+            if (!facts.More)
+            {
+                Assert.Equal(distinct.Count + (facts.Count < scanned.Count ? 1 : 0), summary.DistinctCells(column.Name));
+            }
+        }
+
+        // The plots made with the footer's facts equal the plots made by scanning.
+        Assert.Equal(Json(SweepPlots.Parameter(scanned, scanned, sweep, new ParameterPlotRequest())),
+            Json(SweepPlots.Parameter(withSummary, withSummary, sweep, new ParameterPlotRequest())));
+        Assert.Equal(Json(SweepPlots.Scatter(scanned, scanned, sweep, new ScatterPlotRequest())),
+            Json(SweepPlots.Scatter(withSummary, withSummary, sweep, new ScatterPlotRequest())));
+
+        // A filtered view has no summary; a new part beside the merged file (a chunk re-run) drops it.
+        Assert.Null(withSummary.Select([0]).Summary);
+        var chunk = catalog.GetPoints(sweepId, new PointQuery(Limit: 1)).Single().ChunkId;
+        File.Copy(bare, Path.Combine(sweep.OutputFolder, TableNames.Points, ParquetPartWriter.PartFileName(chunk)));
+        Assert.Null((await results.PointsAsync(sweep, CancellationToken.None)).Summary);
+    }
+
+    [Fact]
+    public void A_column_past_the_kept_values_says_more_and_files_read_together_combine_in_row_order()
+    {
+        ColumnDef[] defs = [new("point_id", ColumnType.Text, "", ""), new("mass_amu", ColumnType.Double, "amu", ""), new("cells", ColumnType.Int64, "", "")];
+        ResultColumn[] columns = [new("point_id", typeof(string), ""), new("mass_amu", typeof(double), "amu"), new("cells", typeof(long), "")];
+        TableSummary Summary(int from, int rows)
+        {
+            var summary = new ColumnSummary(defs);
+            summary.Add([
+                Enumerable.Range(from, rows).Select(i => (string?)$"p{i:D4}").ToArray(),
+                Enumerable.Range(from, rows).Select(i => i % 3 == 0 ? null : (double?)(i % 5) - 1).ToArray(),
+                Enumerable.Range(from, rows).Select(i => (long?)(i % 2)).ToArray()], rows);
+            return TableSummary.Parse(new Dictionary<string, string> { [ColumnSummary.Key] = summary.ToJson() }, columns, rows)!;
+        }
+
+        var first = Summary(0, 100);
+        Assert.True(first.Of("point_id")!.More);
+        Assert.Null(first.DistinctCells("point_id"));
+        Assert.Equal(ColumnSummary.DistinctKept, first.Of("point_id")!.Distinct.Length);
+        Assert.Equal(new object[] { 0.0, 1.0, 3.0, -1.0, 2.0 }, first.Of("mass_amu")!.Distinct.ToArray());
+        Assert.Equal(5 + 1, first.DistinctCells("mass_amu"));
+        Assert.Equal((-1.0, 3.0, 66L), (first.Of("mass_amu")!.Min, first.Of("mass_amu")!.Max, first.Of("mass_amu")!.Finite));
+        Assert.Equal(new object[] { 0L, 1L }, first.Of("cells")!.Distinct.ToArray());
+
+        var both = TableSummary.Concat([Summary(0, 3), Summary(3, 40)], columns)!;
+        Assert.Equal(43, both.Rows);
+        Assert.Equal(Enumerable.Range(0, 43).Select(i => (object)$"p{i:D4}").ToArray(), both.Of("point_id")!.Distinct.ToArray());
+        Assert.False(both.Of("point_id")!.More);
+        Assert.Null(TableSummary.Concat([Summary(0, 3), null], columns));
+        Assert.Null(TableSummary.Parse(new Dictionary<string, string> { [ColumnSummary.Key] = "{not json" }, columns, 3));
+        Assert.Null(TableSummary.Parse(new Dictionary<string, string> { [ColumnSummary.Key] = Summary(0, 3).Rows.ToString(System.Globalization.CultureInfo.InvariantCulture) }, columns, 3));
+    }
+
+    private static string Json(object? value) => JsonSerializer.Serialize(value);
+}

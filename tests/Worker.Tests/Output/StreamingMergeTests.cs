@@ -1,0 +1,109 @@
+using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Tests.Support;
+
+namespace LatticeSweep.Worker.Tests.Output;
+
+/// <summary>
+/// The streaming merge over files written directly (invented demo rows): old parts without a
+/// row-group index and in no particular order beside laid-out ones, merged within a tiny budget,
+/// read back by DuckDB; a file whose index claims an order its rows do not have is refused.
+/// </summary>
+public sealed class StreamingMergeTests : IDisposable
+{
+    private static readonly ColumnDef[] Columns =
+    [
+        new("point_id", ColumnType.Text, "", ""),
+        new("row_in_point", ColumnType.Int32, "", ""),
+        new("value_thz", ColumnType.Double, "THz", ""),
+        new("stable", ColumnType.Bool, "", ""),
+    ];
+
+    private readonly TempFolder _dir = new();
+
+    public void Dispose() => _dir.Dispose();
+
+    [Fact]
+    public async Task Old_unsorted_parts_and_laid_out_parts_merge_into_one_sorted_file_with_every_row_once()
+    {
+        var sweep = _dir.Combine("sweep");
+        var table = Path.Combine(sweep, "demo");
+        Directory.CreateDirectory(table);
+        var random = new Random(7);
+        var expected = new List<string>();
+        for (var chunk = 0; chunk < 6; chunk++)
+        {
+            // Each point has three rows in a fixed order; ids interleave across chunks.
+            var rows = Enumerable.Range(0, 40).SelectMany(p => Enumerable.Range(0, 3).Select(k => (Id: $"{random.Next():x8}{chunk:x2}{p:x2}", K: k))).ToList();
+            expected.AddRange(rows.Select(r => $"{r.Id}|{r.K}"));
+            var laidOut = chunk % 2 == 0;
+            // A laid-out part is sorted by point (stable: a point's rows keep their order); an old part
+            // has its points in no order (each point's rows still in their own order) and no index.
+            var ordered = laidOut
+                ? rows.OrderBy(r => r.Id, StringComparer.Ordinal).ToList()
+                : rows.GroupBy(r => r.Id).OrderBy(_ => random.Next()).SelectMany(g => g).ToList();
+
+            await WriteAsync(Path.Combine(table, $"part-c{chunk}.parquet"), $"c{chunk}", ordered, laidOut);
+        }
+
+        var outcome = Assert.Single(await TableMerger.MergeSweepAsync(sweep, ["demo"], new MergeBudget(InputBytes: 1, OutputGroupBytes: 300), CancellationToken.None));
+        Assert.Equal(6, outcome.PartsMerged);
+        Assert.Equal(expected.Count, outcome.Rows);
+
+        using var db = new DuckDb();
+        var merged = Path.Combine(table, MergedLayout.MergedFileName(0));
+        Assert.Equal([merged], Directory.EnumerateFiles(table, "*.parquet").ToList());
+        var read = db.Rows($"SELECT point_id, row_in_point FROM read_parquet('{merged}', file_row_number = true) ORDER BY file_row_number")
+            .Select(r => $"{r[0]}|{r[1]}").ToList();
+        // Sorted by point id; a point's rows in their own order (ties keep the input's order).
+        Assert.Equal(expected.OrderBy(e => e[..e.IndexOf('|', StringComparison.Ordinal)], StringComparer.Ordinal).ThenBy(e => e, StringComparer.Ordinal), read);
+        Assert.Equal(Enumerable.Range(0, 6).Select(c => $"c{c}").Order(StringComparer.Ordinal), MergedLayout.MergedChunks(table).Keys.Order(StringComparer.Ordinal));
+        Assert.True(db.Rows($"SELECT DISTINCT row_group_id FROM parquet_metadata('{merged}')").Count > 10);
+    }
+
+    [Fact]
+    public async Task A_file_whose_index_claims_an_order_its_rows_do_not_have_is_refused_and_the_parts_stay()
+    {
+        var sweep = _dir.Combine("sweep");
+        var table = Path.Combine(sweep, "demo");
+        Directory.CreateDirectory(table);
+        for (var chunk = 0; chunk < 6; chunk++)
+        {
+            var rows = Enumerable.Range(0, 10).Select(p => (Id: $"{chunk:x2}{p:x2}", K: 0)).ToList();
+            if (chunk == 3)
+            {
+                rows.Reverse();
+            }
+
+            // Chunk 3's index names the right first and last ids of a group whose rows run backwards.
+            await WriteAsync(Path.Combine(table, $"part-c{chunk}.parquet"), $"c{chunk}", rows, laidOut: true,
+                index: chunk == 3 ? $"{rows[^1].Id}\t{rows[0].Id}\n" : null);
+        }
+
+        var error = await Assert.ThrowsAsync<InvalidDataException>(() => TableMerger.MergeSweepAsync(sweep, ["demo"], MergeBudget.Default, CancellationToken.None));
+        Assert.Contains("part-c3.parquet", error.Message, StringComparison.Ordinal);
+        Assert.Contains("not sorted", error.Message, StringComparison.Ordinal);
+        Assert.Equal(6, Directory.EnumerateFiles(table, "part-*.parquet").Count());
+        Assert.Empty(Directory.EnumerateFiles(table, "merged-*"));
+    }
+
+    private static async Task WriteAsync(string path, string chunk, List<(string Id, int K)> rows, bool laidOut, string? index = null)
+    {
+        var values = new Array[]
+        {
+            rows.Select(r => (string?)r.Id).ToArray(),
+            rows.Select(r => (int?)r.K).ToArray(),
+            rows.Select(r => (double?)(r.K + 0.5)).ToArray(),
+            rows.Select(r => (bool?)(r.K != 1)).ToArray(),
+        };
+        var metadata = new Dictionary<string, string> { ["latticesweep.table"] = "demo" };
+        if (laidOut)
+        {
+            metadata[MergedLayout.ChunksKey] = chunk;
+            metadata[MergedLayout.RowGroupsKey] = index ?? $"{rows[0].Id}\t{rows[^1].Id}\n";
+        }
+
+        await using var stream = File.Create(path);
+        await using var writer = await ParquetTableWriter.CreateAsync(stream, Columns, metadata, CancellationToken.None);
+        await writer.WriteRowGroupAsync(new TableRows("demo", Columns, rows.Count, values), CancellationToken.None);
+    }
+}
