@@ -60,56 +60,64 @@ internal static class CatalogJson
         buffer.ResetWrittenCount();
         using (var w = new Utf8JsonWriter(buffer))
         {
-            w.WriteStartObject();
-            foreach (var (key, value) in parameters)
-            {
-                switch (value)
-                {
-                    case null:
-                        w.WriteNull(key);
-                        break;
-                    case double d when double.IsFinite(d):
-                        w.WriteNumber(key, d);
-                        break;
-                    case double d:
-                        w.WriteString(key, d.ToString("R", CultureInfo.InvariantCulture));
-                        break;
-                    case float f:
-                        w.WriteNumber(key, (double)f);
-                        break;
-                    case int i:
-                        w.WriteNumber(key, (long)i);
-                        break;
-                    case long l:
-                        w.WriteNumber(key, l);
-                        break;
-                    case bool b:
-                        w.WriteBoolean(key, b);
-                        break;
-                    case string text:
-                        w.WriteString(key, text);
-                        break;
-                    case IFormattable x:
-                        w.WriteString(key, x.ToString(null, CultureInfo.InvariantCulture));
-                        break;
-                    default:
-                        if (value.ToString() is { } other)
-                        {
-                            w.WriteString(key, other);
-                        }
-                        else
-                        {
-                            w.WriteNull(key);
-                        }
-
-                        break;
-                }
-            }
-
-            w.WriteEndObject();
+            WriteParameters(w, parameters);
         }
 
         return System.Text.Encoding.UTF8.GetString(buffer.WrittenSpan);
+    }
+
+    /// <summary>The parameters as a JSON object written to <paramref name="w"/> (the text <see cref="WriteParameters(IReadOnlyDictionary{string, object})"/> returns).</summary>
+    public static void WriteParameters(Utf8JsonWriter w, IReadOnlyDictionary<string, object> parameters)
+    {
+        ArgumentNullException.ThrowIfNull(w);
+        ArgumentNullException.ThrowIfNull(parameters);
+        w.WriteStartObject();
+        foreach (var (key, value) in parameters)
+        {
+            switch (value)
+            {
+                case null:
+                    w.WriteNull(key);
+                    break;
+                case double d when double.IsFinite(d):
+                    w.WriteNumber(key, d);
+                    break;
+                case double d:
+                    w.WriteString(key, d.ToString("R", CultureInfo.InvariantCulture));
+                    break;
+                case float f:
+                    w.WriteNumber(key, (double)f);
+                    break;
+                case int i:
+                    w.WriteNumber(key, (long)i);
+                    break;
+                case long l:
+                    w.WriteNumber(key, l);
+                    break;
+                case bool b:
+                    w.WriteBoolean(key, b);
+                    break;
+                case string text:
+                    w.WriteString(key, text);
+                    break;
+                case IFormattable x:
+                    w.WriteString(key, x.ToString(null, CultureInfo.InvariantCulture));
+                    break;
+                default:
+                    if (value.ToString() is { } other)
+                    {
+                        w.WriteString(key, other);
+                    }
+                    else
+                    {
+                        w.WriteNull(key);
+                    }
+
+                    break;
+            }
+        }
+
+        w.WriteEndObject();
     }
 
     public static ImmutableSortedDictionary<string, object> ReadParameters(string json, IReadOnlyDictionary<string, AxisValueType> types)

@@ -1,7 +1,7 @@
 namespace LatticeSweep.Worker.Catalog;
 
 /// <summary>
-/// The catalog's tables (sweeps, points, and the points per sweep and state), in SQL that SQLite and PostgreSQL both accept. Times are Unix
+/// The catalog's tables (sweeps, chunks, points, and the points per sweep and state), in SQL that SQLite and PostgreSQL both accept. Times are Unix
 /// milliseconds (UTC), durations microseconds. Prefixed so they sit beside the queue's own tables.
 /// </summary>
 internal static class CatalogSchema
@@ -57,6 +57,34 @@ internal static class CatalogSchema
             state TEXT NOT NULL,
             points BIGINT NOT NULL,
             PRIMARY KEY (sweep_id, state)
+        )
+        """,
+
+        // A sweep's chunks, written at submit. A chunk's points get their rows in latsweep_points
+        // when a worker first claims the chunk; until then (pending_state not null: waiting or
+        // cancelled) they are read from points_json, [[point_id, point_index, {parameters}], ...],
+        // so submitting a million points writes a few hundred rows instead of a million. Sweeps
+        // registered before this table existed have every point's row and no chunk rows.
+        """
+        CREATE TABLE IF NOT EXISTS latsweep_chunks (
+            sweep_id TEXT NOT NULL,
+            chunk_id TEXT NOT NULL,
+            first_index BIGINT NOT NULL,
+            last_index BIGINT NOT NULL,
+            point_count BIGINT NOT NULL,
+            pending_state TEXT NULL,
+            points_json TEXT NULL,
+            PRIMARY KEY (sweep_id, chunk_id)
+        )
+        """,
+
+        // The hash of a sweep's definition, for sweeps whose submit kept every point of the
+        // expansion (SweepPlan.DefinitionHash): a worker that finds it plans the sweep without
+        // computing every point's id. A table of its own, so stores from before need no new column.
+        """
+        CREATE TABLE IF NOT EXISTS latsweep_sweep_definitions (
+            sweep_id TEXT PRIMARY KEY,
+            definition_hash TEXT NOT NULL
         )
         """,
     ];

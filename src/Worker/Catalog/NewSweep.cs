@@ -16,15 +16,15 @@ public sealed record NewSweep
     public required ImmutableArray<AxisInfo> Axes { get; init; }
     public required ImmutableArray<string> Tables { get; init; }
     public required string EngineVersion { get; init; }
-    /// <summary>Every point in plan order; may be computed as it is read (<see cref="ComputedList{T}"/>), so a million points need not be held at once.</summary>
+    /// <summary>
+    /// Every point in plan order; may be computed as it is read (<see cref="ComputedList{T}"/>), so a
+    /// million points need not be held at once. The points of a chunk must be consecutive in this list
+    /// (the catalog stores each chunk as it passes); point ids are unique (the planner collapses duplicates).
+    /// </summary>
     public required IReadOnlyList<NewPoint> Points { get; init; }
 
-    /// <summary>
-    /// Positions in <see cref="Points"/> in the order to insert them, when the caller has them: by
-    /// point id, so the catalog's primary-key index fills from one end instead of at random places
-    /// (a million random inserts spill the database's page cache over and over). Null: list order.
-    /// </summary>
-    public IReadOnlyList<int>? InsertOrder { get; init; }
+    /// <summary>The plan's <see cref="Planning.SweepPlan.DefinitionHash"/> (null: workers plan the sweep in full).</summary>
+    public string? DefinitionHash { get; init; }
 
     /// <summary>Number of distinct chunks among <see cref="Points"/>, when the caller knows it (else counted from the points).</summary>
     public int? ChunkCount { get; init; }
@@ -59,3 +59,6 @@ public sealed class ComputedList<T> : IReadOnlyList<T>
 
 /// <summary>One point to register.</summary>
 public sealed record NewPoint(string PointId, int Index, string ChunkId, IReadOnlyDictionary<string, object> Parameters);
+
+/// <summary>A point row as the catalog writes it: its parameters already in their JSON text.</summary>
+public readonly record struct PointRow(string PointId, long Index, string ChunkId, string ParametersJson);

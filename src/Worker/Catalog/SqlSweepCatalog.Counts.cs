@@ -23,10 +23,16 @@ public abstract partial class SqlSweepCatalog
         return ReadStateCounts(cmd);
     }
 
-    /// <summary>Points per state text of a whole sweep, counted from its point rows (for the rare writes that touch a whole sweep).</summary>
+    /// <summary>Points per state text of a whole sweep, counted from its point rows and pending chunks (for the rare writes that touch a whole sweep).</summary>
     private static Dictionary<string, long> SweepStates(DbConnection c, DbTransaction tx, string sweepId)
     {
-        using var cmd = Command(c, tx, "SELECT state, COUNT(*) FROM latsweep_points WHERE sweep_id = @sweep GROUP BY state");
+        using var cmd = Command(c, tx, """
+            SELECT state, CAST(SUM(n) AS BIGINT) FROM (
+                SELECT state, COUNT(*) AS n FROM latsweep_points WHERE sweep_id = @sweep GROUP BY state
+                UNION ALL
+                SELECT pending_state AS state, SUM(point_count) AS n FROM latsweep_chunks WHERE sweep_id = @sweep AND pending_state IS NOT NULL GROUP BY pending_state
+            ) AS per_state GROUP BY state
+            """);
         Add(cmd, "sweep", sweepId);
         return ReadStateCounts(cmd);
     }

@@ -22,7 +22,8 @@ public abstract partial class SqlSweepCatalog
         using var c = Open();
         var sweeps = ReadSweeps(c, $"SELECT {SweepColumns} FROM latsweep_sweeps ORDER BY created_ms DESC, sweep_id", []);
         var counts = ReadAllCounts(c);
-        return sweeps.Select(s => s with { Counts = counts.GetValueOrDefault(s.SweepId, SweepCounts.Empty) }).ToList();
+        var definitions = ReadDefinitions(c, null);
+        return sweeps.Select(s => s with { Counts = counts.GetValueOrDefault(s.SweepId, SweepCounts.Empty), DefinitionHash = definitions.GetValueOrDefault(s.SweepId) }).ToList();
     }
 
     public SweepRecord? FindSweep(string sweepIdOrName)
@@ -41,16 +42,23 @@ public abstract partial class SqlSweepCatalog
         }
 
         var sweep = found[0];
-        return sweep with { Counts = ReadCounts(c, null, sweep.SweepId) };
+        return sweep with { Counts = ReadCounts(c, null, sweep.SweepId), DefinitionHash = ReadDefinitions(c, sweep.SweepId).GetValueOrDefault(sweep.SweepId) };
     }
 
     public IReadOnlyList<PointRecord> GetPoints(string sweepId, PointQuery query)
     {
         ArgumentNullException.ThrowIfNull(query);
         using var c = Open();
-        var types = ReadAxisTypes(c, sweepId);
+        using var tx = BeginRead(c);
+        var types = ReadAxisTypes(c, tx, sweepId);
+        var pending = query.State is null or PointState.Waiting or PointState.Cancelled ? ReadPendingChunks(c, tx, sweepId, query.State) : [];
+        if (pending.Count > 0)
+        {
+            return MergePoints(c, tx, sweepId, query, types, pending);
+        }
+
         var where = query.State is { } s ? " AND state = @state" : "";
-        using var cmd = Command(c, null, $"""
+        using var cmd = Command(c, tx, $"""
             SELECT {PointColumns} FROM latsweep_points WHERE sweep_id = @sweep{where}
             ORDER BY point_index LIMIT @limit OFFSET @offset
             """);
@@ -68,11 +76,109 @@ public abstract partial class SqlSweepCatalog
     public IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId)
     {
         using var c = Open();
-        var types = ReadAxisTypes(c, sweepId);
-        using var cmd = Command(c, null, $"SELECT {PointColumns} FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk ORDER BY point_index");
+        using var tx = BeginRead(c);
+        var types = ReadAxisTypes(c, tx, sweepId);
+        if (ReadPendingPoints(c, tx, sweepId, chunkId, types) is { } pending)
+        {
+            return pending;
+        }
+
+        using var cmd = Command(c, tx, $"SELECT {PointColumns} FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk ORDER BY point_index");
         Add(cmd, "sweep", sweepId);
         Add(cmd, "chunk", chunkId);
         return ReadPoints(cmd, types);
+    }
+
+    /// <summary>Rows read per statement when point rows and pending chunks are merged.</summary>
+    private const int MergeBatchRows = 2000;
+
+    /// <summary>
+    /// A page of the points of a sweep that has pending chunks: its point rows (read by index in
+    /// batches) and its pending chunks' points (decoded when reached) merged in index order, all in
+    /// one read transaction. A pending chunk wholly inside the offset is skipped without decoding.
+    /// </summary>
+    private static List<PointRecord> MergePoints(DbConnection c, DbTransaction tx, string sweepId, PointQuery query,
+        Dictionary<string, AxisValueType> types, List<PendingChunk> pending)
+    {
+        var skip = (long)Math.Max(0, query.Offset);
+        var take = Math.Max(0, query.Limit);
+        var result = new List<PointRecord>();
+        var rows = new Queue<PointRecord>();
+        var lastRowIndex = long.MinValue;
+        var rowsDone = false;
+        var decoded = new PriorityQueue<PointRecord, long>();
+        var next = 0;
+
+        void Refill()
+        {
+            if (rows.Count > 0 || rowsDone)
+            {
+                return;
+            }
+
+            var where = query.State is { } s ? " AND state = @state" : "";
+            using var cmd = Command(c, tx, $"""
+                SELECT {PointColumns} FROM latsweep_points WHERE sweep_id = @sweep{where} AND point_index > @after
+                ORDER BY point_index LIMIT @limit
+                """);
+            Add(cmd, "sweep", sweepId);
+            if (query.State is { } state)
+            {
+                Add(cmd, "state", Text(state));
+            }
+
+            Add(cmd, "after", lastRowIndex);
+            Add(cmd, "limit", (long)MergeBatchRows);
+            foreach (var p in ReadPoints(cmd, types))
+            {
+                rows.Enqueue(p);
+                lastRowIndex = p.Index;
+            }
+
+            rowsDone = rows.Count < MergeBatchRows;
+        }
+
+        while (result.Count < take)
+        {
+            Refill();
+            var rowHead = rows.TryPeek(out var row) ? row.Index : long.MaxValue;
+            var decodedHead = decoded.TryPeek(out _, out var d) ? d : long.MaxValue;
+            var chunkHead = next < pending.Count ? pending[next].FirstIndex : long.MaxValue;
+            if (rowHead == long.MaxValue && decodedHead == long.MaxValue && chunkHead == long.MaxValue)
+            {
+                break;
+            }
+
+            if (chunkHead <= rowHead && chunkHead <= decodedHead)
+            {
+                var chunk = pending[next++];
+                var nextOther = Math.Min(Math.Min(rowHead, decodedHead), next < pending.Count ? pending[next].FirstIndex : long.MaxValue);
+                if (skip >= chunk.PointCount && chunk.LastIndex < nextOther)
+                {
+                    skip -= chunk.PointCount;
+                    continue;
+                }
+
+                foreach (var p in ReadPendingPoints(c, tx, sweepId, chunk.ChunkId, types) ?? [])
+                {
+                    decoded.Enqueue(p, p.Index);
+                }
+
+                continue;
+            }
+
+            var point = decodedHead <= rowHead ? decoded.Dequeue() : rows.Dequeue();
+            if (skip > 0)
+            {
+                skip--;
+            }
+            else
+            {
+                result.Add(point);
+            }
+        }
+
+        return result;
     }
 
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId)
@@ -204,9 +310,28 @@ public abstract partial class SqlSweepCatalog
         return list;
     }
 
-    private static Dictionary<string, AxisValueType> ReadAxisTypes(DbConnection c, string sweepId)
+    /// <summary>Definition hashes by sweep id: of one sweep, or of all when <paramref name="sweepId"/> is null.</summary>
+    private static Dictionary<string, string> ReadDefinitions(DbConnection c, string? sweepId)
     {
-        using var cmd = Command(c, null, "SELECT axes_json FROM latsweep_sweeps WHERE sweep_id = @sweep");
+        using var cmd = Command(c, null, "SELECT sweep_id, definition_hash FROM latsweep_sweep_definitions" + (sweepId is null ? "" : " WHERE sweep_id = @sweep"));
+        if (sweepId is not null)
+        {
+            Add(cmd, "sweep", sweepId);
+        }
+
+        using var r = cmd.ExecuteReader();
+        var map = new Dictionary<string, string>(StringComparer.Ordinal);
+        while (r.Read())
+        {
+            map[r.GetString(0)] = r.GetString(1);
+        }
+
+        return map;
+    }
+
+    private static Dictionary<string, AxisValueType> ReadAxisTypes(DbConnection c, DbTransaction? tx, string sweepId)
+    {
+        using var cmd = Command(c, tx, "SELECT axes_json FROM latsweep_sweeps WHERE sweep_id = @sweep");
         Add(cmd, "sweep", sweepId);
         return cmd.ExecuteScalar() is string json
             ? CatalogJson.ReadAxes(json).ToDictionary(a => a.ColumnName, a => a.ValueType, StringComparer.Ordinal)

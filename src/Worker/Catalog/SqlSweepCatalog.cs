@@ -31,18 +31,6 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     {
     }
 
-    /// <summary>Runs before a sweep's points are inserted (SQLite enlarges its page cache: a million rows go into three indexes).</summary>
-    protected virtual void BeforeBulkInsert(DbConnection connection)
-    {
-    }
-
-    /// <summary>
-    /// Point rows per INSERT statement when a sweep is registered: many, where a statement costs a
-    /// round trip to a server; few where the provider binds parameters by name at a cost that
-    /// grows with their number (see <see cref="SqliteSweepCatalog"/>).
-    /// </summary>
-    protected virtual int PointRowsPerInsert => 128;
-
     /// <summary>Creates the catalog tables when missing. Call once after construction.</summary>
     protected void EnsureSchema()
     {
@@ -62,10 +50,10 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     {
         ArgumentNullException.ThrowIfNull(sweep);
 
-        // A point id twice is refused by the points' primary key (the whole registration rolls back).
+        // One row for the sweep and one per chunk: the points get their rows when their chunk is first claimed.
         using var c = Open();
-        BeforeBulkInsert(c);
         using var tx = c.BeginTransaction();
+        var chunkCount = (long)(sweep.ChunkCount ?? 0);
         var inserted = Execute(c, tx, """
             INSERT INTO latsweep_sweeps (sweep_id, name, description, state, spec_hash, source_path, spec_text,
                 output_folder, axes_json, tables_csv, engine_version, created_ms, started_ms, finished_ms, point_count, chunk_count)
@@ -75,77 +63,28 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             ("id", sweep.SweepId), ("name", sweep.Name), ("description", sweep.Description), ("state", Text(SweepState.Queued)),
             ("hash", sweep.SpecHash), ("source", sweep.SourcePath), ("spec", sweep.SpecText), ("out", sweep.OutputFolder),
             ("axes", CatalogJson.WriteAxes(sweep.Axes)), ("tables", string.Join(',', sweep.Tables)), ("engine", sweep.EngineVersion),
-            ("now", Ms(_time.GetUtcNow())), ("points", (long)sweep.Points.Count),
-            ("chunks", (long)(sweep.ChunkCount ?? sweep.Points.Select(p => p.ChunkId).Distinct(StringComparer.Ordinal).Count())));
+            ("now", Ms(_time.GetUtcNow())), ("points", (long)sweep.Points.Count), ("chunks", chunkCount));
         if (inserted == 0)
         {
             tx.Rollback();
             return false;
         }
 
+        if (sweep.DefinitionHash is { } definition)
+        {
+            Execute(c, tx, "INSERT INTO latsweep_sweep_definitions (sweep_id, definition_hash) VALUES (@id, @hash)", ("id", sweep.SweepId), ("hash", definition));
+        }
+
         var waiting = Text(PointState.Waiting);
-        InsertPoints(c, tx, sweep, waiting);
+        var written = WriteChunks(c, tx, sweep, waiting);
+        if (written != chunkCount)
+        {
+            Execute(c, tx, "UPDATE latsweep_sweeps SET chunk_count = @chunks WHERE sweep_id = @id", ("chunks", (long)written), ("id", sweep.SweepId));
+        }
+
         AddCountChange(c, tx, sweep.SweepId, new Dictionary<string, long>(), new Dictionary<string, long> { [waiting] = sweep.Points.Count });
         tx.Commit();
         return true;
-    }
-
-    /// <summary>Inserts every point of <paramref name="sweep"/> as waiting, inside the registration's transaction.</summary>
-    protected virtual void InsertPoints(DbConnection c, DbTransaction tx, NewSweep sweep, string waiting)
-    {
-        ArgumentNullException.ThrowIfNull(sweep);
-
-        // Many rows per statement: a statement call costs more than the row it inserts (a million points).
-        var rowsPerStatement = PointRowsPerInsert;
-        DbCommand? full = null;
-        try
-        {
-            for (var start = 0; start < sweep.Points.Count; start += rowsPerStatement)
-            {
-                var count = Math.Min(rowsPerStatement, sweep.Points.Count - start);
-                var insert = count == rowsPerStatement ? full ??= InsertPointsCommand(c, tx, count) : InsertPointsCommand(c, tx, count);
-                for (var i = 0; i < count; i++)
-                {
-                    var point = sweep.Points[sweep.InsertOrder is { } order ? order[start + i] : start + i];
-                    var p = insert.Parameters;
-                    p[(i * 6) + 0].Value = sweep.SweepId;
-                    p[(i * 6) + 1].Value = point.PointId;
-                    p[(i * 6) + 2].Value = (long)point.Index;
-                    p[(i * 6) + 3].Value = point.ChunkId;
-                    p[(i * 6) + 4].Value = waiting;
-                    p[(i * 6) + 5].Value = CatalogJson.WriteParameters(point.Parameters);
-                }
-
-                insert.ExecuteNonQuery();
-                if (insert != full)
-                {
-                    insert.Dispose();
-                }
-            }
-        }
-        finally
-        {
-            full?.Dispose();
-        }
-    }
-
-    /// <summary>A prepared INSERT of <paramref name="rows"/> point rows (6 parameters each).</summary>
-    private static DbCommand InsertPointsCommand(DbConnection c, DbTransaction tx, int rows)
-    {
-        var sql = new System.Text.StringBuilder("INSERT INTO latsweep_points (sweep_id, point_id, point_index, chunk_id, state, parameters_json, attempts) VALUES ");
-        var cmd = Command(c, tx, "");
-        for (var i = 0; i < rows; i++)
-        {
-            sql.Append(i == 0 ? "" : ", ").Append($"(@s{i}, @p{i}, @i{i}, @c{i}, @t{i}, @j{i}, 0)");
-            foreach (var name in new[] { "s", "p", "i", "c", "t", "j" })
-            {
-                Add(cmd, name + i.ToString(System.Globalization.CultureInfo.InvariantCulture), DBNull.Value);
-            }
-        }
-
-        cmd.CommandText = sql.ToString();
-        cmd.Prepare();
-        return cmd;
     }
 
     public IReadOnlyList<string> RequeueUnfinished(string sweepId)
@@ -153,6 +92,18 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         using var c = Open();
         using var tx = c.BeginTransaction();
         LockSweep(c, tx, sweepId);
+        // Pending chunks have no results by definition: waiting ones stay so, cancelled ones wait again.
+        var pending = ReadPendingChunks(c, tx, sweepId, null);
+        var cancelled = pending.Where(p => p.State == PointState.Cancelled).Sum(p => p.PointCount);
+        if (cancelled > 0)
+        {
+            AddCountChange(c, tx, sweepId,
+                new Dictionary<string, long> { [Text(PointState.Cancelled)] = cancelled },
+                new Dictionary<string, long> { [Text(PointState.Waiting)] = cancelled });
+            Execute(c, tx, "UPDATE latsweep_chunks SET pending_state = @waiting WHERE sweep_id = @sweep AND pending_state = @cancelled",
+                ("waiting", Text(PointState.Waiting)), ("sweep", sweepId), ("cancelled", Text(PointState.Cancelled)));
+        }
+
         var chunks = new List<string>();
         using (var cmd = Command(c, tx, $"""
             SELECT DISTINCT chunk_id FROM latsweep_points
@@ -180,14 +131,14 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
                 ("waiting", Text(PointState.Waiting)), ("sweep", sweepId), ("chunk", chunk));
         }
 
-        if (chunks.Count > 0)
+        if (chunks.Count + pending.Count > 0)
         {
             Execute(c, tx, "UPDATE latsweep_sweeps SET state = @queued, finished_ms = NULL WHERE sweep_id = @sweep",
                 ("queued", Text(SweepState.Queued)), ("sweep", sweepId));
         }
 
         tx.Commit();
-        return chunks;
+        return [.. chunks.Concat(pending.Select(p => p.ChunkId)).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal)];
     }
 
     public ChunkClaim BeginChunk(string sweepId, string chunkId, string workerName)
@@ -202,6 +153,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             return new ChunkClaim(ChunkDecision.Unknown, []);
         }
 
+        EnsureChunkRows(c, tx, sweepId, chunkId);
         var points = ReadChunkStates(c, tx, sweepId, chunkId);
         if (points.Count == 0)
         {
@@ -282,6 +234,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
 
         // Lock the sweep row first, then change and count: see the class remarks.
         LockSweep(c, tx, sweepId);
+        EnsureChunkRows(c, tx, sweepId, chunkId);
         var before = ChunkStates(c, tx, sweepId, chunkId);
         using (var cmd = Command(c, tx, """
             UPDATE latsweep_points SET state = @state, failure_kind = @kind, error = @error,
@@ -343,7 +296,10 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             return false;
         }
 
-        var cancelled = Execute(c, tx, "UPDATE latsweep_points SET state = @cancelled WHERE sweep_id = @sweep AND state = @waiting",
+        long cancelled = Execute(c, tx, "UPDATE latsweep_points SET state = @cancelled WHERE sweep_id = @sweep AND state = @waiting",
+            ("cancelled", Text(PointState.Cancelled)), ("sweep", sweepId), ("waiting", Text(PointState.Waiting)));
+        cancelled += PendingPoints(c, tx, sweepId, PointState.Waiting);
+        Execute(c, tx, "UPDATE latsweep_chunks SET pending_state = @cancelled WHERE sweep_id = @sweep AND pending_state = @waiting",
             ("cancelled", Text(PointState.Cancelled)), ("sweep", sweepId), ("waiting", Text(PointState.Waiting)));
         AddCountChange(c, tx, sweepId,
             new Dictionary<string, long> { [Text(PointState.Waiting)] = cancelled },

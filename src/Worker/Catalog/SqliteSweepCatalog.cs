@@ -40,71 +40,26 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
         return c;
     }
 
-    /// <summary>Rows per statement of <see cref="InsertPoints"/>: one JSON text of this many rows.</summary>
-    private const int PointRowsPerJsonBatch = 4096;
-
     /// <summary>
-    /// Points go in as one JSON array of rows per statement, unpacked by SQLite's own
-    /// <c>json_each</c>: one parameter to bind per 4,096 rows instead of six per row (binding and
-    /// the call cost more than the row; bench/README.md).
+    /// A chunk's points go in as one statement that unpacks the chunk's JSON text with SQLite's own
+    /// <c>json_each</c>: one bound parameter for the whole chunk (binding and the call cost more
+    /// than the row; bench/README.md).
     /// </summary>
-    protected override void InsertPoints(DbConnection c, DbTransaction tx, NewSweep sweep, string waiting)
+    protected override void InsertChunkPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, string pointsJson, string state)
     {
-        ArgumentNullException.ThrowIfNull(c);
-        ArgumentNullException.ThrowIfNull(sweep);
-        using var cmd = c.CreateCommand();
-        cmd.Transaction = tx;
-        cmd.CommandText = """
+        Execute(c, tx, """
             INSERT INTO latsweep_points (sweep_id, point_id, point_index, chunk_id, state, parameters_json, attempts)
-            SELECT @sweep, json_extract(value, '$[0]'), json_extract(value, '$[1]'), json_extract(value, '$[2]'), @state, json_extract(value, '$[3]'), 0
-            FROM json_each(@rows) ORDER BY key
-            """;
-        var sweepId = cmd.CreateParameter();
-        sweepId.ParameterName = "sweep";
-        sweepId.Value = sweep.SweepId;
-        var state = cmd.CreateParameter();
-        state.ParameterName = "state";
-        state.Value = waiting;
-        var rows = cmd.CreateParameter();
-        rows.ParameterName = "rows";
-        cmd.Parameters.Add(sweepId);
-        cmd.Parameters.Add(state);
-        cmd.Parameters.Add(rows);
-        var buffer = new System.Buffers.ArrayBufferWriter<byte>(1 << 20);
-        for (var start = 0; start < sweep.Points.Count; start += PointRowsPerJsonBatch)
-        {
-            var count = Math.Min(PointRowsPerJsonBatch, sweep.Points.Count - start);
-            buffer.ResetWrittenCount();
-            using (var w = new System.Text.Json.Utf8JsonWriter(buffer))
-            {
-                w.WriteStartArray();
-                for (var i = 0; i < count; i++)
-                {
-                    var point = sweep.Points[sweep.InsertOrder is { } order ? order[start + i] : start + i];
-                    w.WriteStartArray();
-                    w.WriteStringValue(point.PointId);
-                    w.WriteNumberValue(point.Index);
-                    w.WriteStringValue(point.ChunkId);
-                    w.WriteStringValue(CatalogJson.WriteParameters(point.Parameters));
-                    w.WriteEndArray();
-                }
-
-                w.WriteEndArray();
-            }
-
-            rows.Value = System.Text.Encoding.UTF8.GetString(buffer.WrittenSpan);
-            cmd.ExecuteNonQuery();
-        }
+            SELECT @sweep, json_extract(value, '$[0]'), json_extract(value, '$[1]'), @chunk, @state, json_extract(value, '$[2]'), 0
+            FROM json_each(@points) ORDER BY key
+            """,
+            ("sweep", sweepId), ("chunk", chunkId), ("state", state), ("points", pointsJson));
     }
 
-    protected override void BeforeBulkInsert(DbConnection connection)
+    /// <summary>A deferred transaction: it reads one snapshot of the WAL file and takes no write lock.</summary>
+    protected override DbTransaction BeginRead(DbConnection connection)
     {
-        // Points arrive sorted by id (NewSweep.InsertOrder), so each index fills at a few places
-        // (its end, one place per chunk); 16 MB (for this pooled connection, while the process lives)
-        // holds those pages where the default 2 MB made a million inserts spill and re-read pages.
-        using var cmd = connection.CreateCommand();
-        cmd.CommandText = "PRAGMA cache_size = -16384";
-        cmd.ExecuteNonQuery();
+        ArgumentNullException.ThrowIfNull(connection);
+        return ((SqliteConnection)connection).BeginTransaction(deferred: true);
     }
 
     public override void Dispose()

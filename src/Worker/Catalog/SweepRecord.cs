@@ -15,6 +15,9 @@ public sealed record SweepRecord
     /// <summary>The job file's path when it was submitted (workers load the plan from it and check <see cref="SpecHash"/>).</summary>
     public required string SourcePath { get; init; }
 
+    /// <summary>The hash of the sweep's definition stored at submit (see <see cref="Planning.SweepPlan.DefinitionHash"/>); null when there is none.</summary>
+    public string? DefinitionHash { get; init; }
+
     /// <summary>The job file exactly as given.</summary>
     public required string SpecText { get; init; }
 

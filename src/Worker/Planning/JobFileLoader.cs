@@ -14,7 +14,10 @@ public static class JobFileLoader
     }
 
     /// <summary>Plans job-file text; <paramref name="path"/> names it in messages and anchors relative candidate files.</summary>
-    internal static SweepPlan Load(string path, string text)
+    internal static SweepPlan Load(string path, string text) => Load(path, text, lazy: false);
+
+    /// <summary>Plans job-file text; <paramref name="lazy"/>: ids computed when asked for (see <see cref="SweepPlanner.Plan(TomlDocument, string, ProblemCollector, bool)"/>).</summary>
+    internal static SweepPlan Load(string path, string text, bool lazy)
     {
         var problems = new ProblemCollector(path);
         var document = TomlDocument.Parse(text, path, problems);
@@ -24,6 +27,6 @@ public static class JobFileLoader
             throw new JobFileException(new JobFileProblem(path, 0, 0, "", "the file could not be read as TOML"));
         }
 
-        return SweepPlanner.Plan(document, text, problems);
+        return SweepPlanner.Plan(document, text, problems, lazy);
     }
 }

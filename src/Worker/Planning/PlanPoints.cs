@@ -17,6 +17,8 @@ public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
     private readonly ulong[] _keys;
     private readonly int[]? _expansionIndex;
     private readonly Func<long, PointParameters>? _parameters;
+    private readonly Func<long, ulong>? _keyAt;
+    private readonly int _lazyCount;
 
     private PlanPoints(PlannedPoint[] given)
     {
@@ -31,11 +33,23 @@ public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
         _parameters = parameters;
     }
 
+    /// <summary>
+    /// A plan whose ids are computed when asked for (<paramref name="keyAt"/> of the expansion
+    /// position, which is the point's index): a worker's plan of a sweep whose submit kept every point.
+    /// </summary>
+    internal PlanPoints(int count, Func<long, ulong> keyAt, Func<long, PointParameters> parameters)
+    {
+        _keys = [];
+        _lazyCount = count;
+        _keyAt = keyAt;
+        _parameters = parameters;
+    }
+
     public static PlanPoints Empty { get; } = new([]);
 
     public static PlanPoints Create(ReadOnlySpan<PlannedPoint> points) => new(points.ToArray());
 
-    public int Count => _given?.Length ?? _keys.Length;
+    public int Count => _given?.Length ?? (_keyAt is null ? _keys.Length : _lazyCount);
 
     /// <summary>The same as <see cref="Count"/> (plans used to hold an array).</summary>
     public int Length => Count;
@@ -44,10 +58,14 @@ public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
 
     public PlannedPoint this[int index] => _given is { } g
         ? g[index]
-        : new PlannedPoint(PointIdentity.IdText(_keys[index]), index, ParametersAt(index));
+        : new PlannedPoint(IdAt(index), index, ParametersAt(index));
 
     /// <summary>The id of the point at <paramref name="index"/>, without making its parameters.</summary>
-    public string IdAt(int index) => _given is { } g ? g[index].PointId : PointIdentity.IdText(_keys[index]);
+    public string IdAt(int index) => _given is { } g ? g[index].PointId : PointIdentity.IdText(KeyAt(index));
+
+    private ulong KeyAt(int index) => _keyAt is { } keyAt
+        ? (uint)index < (uint)_lazyCount ? keyAt(index) : throw new ArgumentOutOfRangeException(nameof(index))
+        : _keys[index];
 
     /// <summary>The parameters of the point at <paramref name="index"/>.</summary>
     public PointParameters ParametersAt(int index) => _given is { } g
@@ -69,7 +87,7 @@ public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
         }
         else
         {
-            var keys = (ulong[])_keys.Clone();
+            var keys = _keyAt is null ? (ulong[])_keys.Clone() : [.. Enumerable.Range(0, Count).Select(KeyAt)];
             Array.Sort(keys, positions);
         }
 
@@ -96,7 +114,8 @@ public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
             return i >= 0;
         }
 
-        if (PointIdentity.TryKey(pointId, out var key))
+        // A lazy plan is not searched (that would hash every point): the index names the point.
+        if (_keyAt is null && PointIdentity.TryKey(pointId, out var key))
         {
             var i = Array.IndexOf(_keys, key);
             if (i >= 0)

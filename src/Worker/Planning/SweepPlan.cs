@@ -22,6 +22,13 @@ public sealed record SweepPlan
     /// <summary>A hash of the canonical spec: a sweep re-submitted unchanged has the same id.</summary>
     public required string SpecHash { get; init; }
 
+    /// <summary>
+    /// A hash of the sweep's definition (the spec hash's head, every column and its values, the
+    /// number of points) when every point of the expansion was kept, else null: stored at submit, it
+    /// lets a worker plan the sweep without computing every point's id (see <c>JobFilePlanSource</c>).
+    /// </summary>
+    public string? DefinitionHash { get; init; }
+
     /// <summary>Points that came out of the expansion twice with the same parameters and were kept once.</summary>
     public int DuplicatePointsCollapsed { get; init; }
 

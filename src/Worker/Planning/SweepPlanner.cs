@@ -27,7 +27,15 @@ internal static class SweepPlanner
         [CombineMode.Random] = "random",
     };
 
-    public static SweepPlan Plan(TomlDocument document, string text, ProblemCollector problems)
+    public static SweepPlan Plan(TomlDocument document, string text, ProblemCollector problems) => Plan(document, text, problems, lazy: false);
+
+    /// <summary>
+    /// Plans the job. <paramref name="lazy"/> (a worker, for a sweep whose submit kept every point of
+    /// the expansion): points are not applied, checked or hashed up front; a point's id is computed
+    /// when it is asked for, and the plan's <see cref="SweepPlan.SpecHash"/> is empty (the caller
+    /// checks <see cref="SweepPlan.DefinitionHash"/> against the one stored at submit instead).
+    /// </summary>
+    internal static SweepPlan Plan(TomlDocument document, string text, ProblemCollector problems, bool lazy)
     {
         var root = new TableReader(document, document.Root, "", problems, new SourceLocation(1, 1));
         root.RejectUnknown("sweep", "model", "sample", "output");
@@ -74,23 +82,40 @@ internal static class SweepPlanner
         var template = new JobTemplate(baseSpec, options, bindings);
 
         var expansion = new IndexedExpansion(sweep.Combine, sweep.Count, sweep.Seed, candidates, axes);
-        var (keys, kept, duplicates) = Expand(document, expansion, columns, template, options, problems);
-        problems.ThrowIfAny();
-
         var order = ColumnOrder(columns);
         var names = order.Select(j => columns[j].Column).ToArray();
-        var points = new PlanPoints(keys, kept, k => Parameters(expansion, order, names, k));
+        var head = "name=" + sweep.Name + "\ncombine=" + CombineNames[sweep.Combine] + "\ncandidates=" + (candidateTable?.ContentHash ?? "-") + "\n"
+            + CanonicalSpec.Write(baseSpec, options);
+        var definitionHash = DefinitionHash(head, columns, expansion.Count);
+
+        PlanPoints points;
+        int[]? kept;
+        int duplicates;
+        string specHash;
+        if (lazy)
+        {
+            var keyOf = PointKeyFunction(expansion, columns, template, options);
+            points = new PlanPoints((int)expansion.Count, keyOf, k => Parameters(expansion, order, names, k));
+            (kept, duplicates, specHash) = (null, 0, "");
+        }
+        else
+        {
+            ulong[] keys;
+            (keys, kept, duplicates) = Expand(document, expansion, columns, template, options, problems);
+            problems.ThrowIfAny();
+            points = new PlanPoints(keys, kept, k => Parameters(expansion, order, names, k));
+            specHash = PointIdentity.Hash(head, keys);
+
+            // A worker may plan this sweep lazily only when every point of the expansion was kept (point index = position).
+            definitionHash = kept is null && keys.Length == expansion.Count ? definitionHash : null;
+        }
+
         var axisInfos = columns.Select((c, j) => new AxisInfo(
             c.Path,
             c.Column,
             c.Unit,
             c.ValueType,
-            [.. DistinctValues(expansion, kept, keys.Length, j, sweep.Combine)])).ToImmutableArray();
-
-        var specHash = PointIdentity.Hash(
-            "name=" + sweep.Name + "\ncombine=" + CombineNames[sweep.Combine] + "\ncandidates=" + (candidateTable?.ContentHash ?? "-") + "\n"
-            + CanonicalSpec.Write(baseSpec, options),
-            keys);
+            [.. DistinctValues(expansion, kept, points.Count, j, sweep.Combine)])).ToImmutableArray();
 
         return new SweepPlan
         {
@@ -103,10 +128,51 @@ internal static class SweepPlanner
             Outputs = tables,
             Template = template,
             SpecHash = specHash,
+            DefinitionHash = definitionHash,
             DuplicatePointsCollapsed = duplicates,
             Combine = CombineNames[sweep.Combine],
             CandidatesFile = candidateTable?.File,
             WarnPointTimeS = sweep.WarnPointTimeS,
+        };
+    }
+
+    /// <summary>
+    /// A hash of what decides a sweep's points besides the program: the spec hash's head (name,
+    /// combine, the candidates file's content, the canonical base spec with its options), every
+    /// column (path, name, unit, type, values) and the number of points of the expansion.
+    /// </summary>
+    private static string DefinitionHash(string head, IReadOnlyList<PlanAxis> columns, long count)
+    {
+        var text = new System.Text.StringBuilder(head).Append("\npoints=").Append(count.ToString(System.Globalization.CultureInfo.InvariantCulture)).Append('\n');
+        foreach (var c in columns)
+        {
+            text.Append("column=").Append(c.Path).Append('|').Append(c.Column).Append('|').Append(c.Unit).Append('|').Append(c.ValueType)
+                .Append('|').Append(CatalogValues(c.Values)).Append('\n');
+        }
+
+        return PointIdentity.Hash(text.ToString());
+    }
+
+    private static string CatalogValues(IEnumerable<object> values) => string.Join(";", values.Select(PointIdentity.Format));
+
+    /// <summary>The id key of the point at expansion position k, as <see cref="Expand"/> computes it (without the checks).</summary>
+    private static Func<long, ulong> PointKeyFunction(IndexedExpansion expansion, IReadOnlyList<PlanAxis> columns, JobTemplate template, SolveOptions options)
+    {
+        var order = ColumnOrder(columns);
+        var names = order.Select(j => columns[j].Column).ToArray();
+        var byIdentity = Enumerable.Range(0, names.Length).OrderBy(j => SweptColumnNames.IdentityName(names[j]), StringComparer.Ordinal).ToArray();
+        var identityNames = byIdentity.Select(j => SweptColumnNames.IdentityName(names[j])).ToArray();
+        return k =>
+        {
+            var parameters = Parameters(expansion, order, names, k);
+            var spec = PointBinder.Apply(template, parameters);
+            var byName = new object[byIdentity.Length];
+            for (var j = 0; j < byIdentity.Length; j++)
+            {
+                byName[j] = parameters.ValueAt(byIdentity[j]);
+            }
+
+            return PointIdentity.PointKey(CanonicalSpec.Write(spec, options), identityNames, byName);
         };
     }
 

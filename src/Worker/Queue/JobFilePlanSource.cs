@@ -25,23 +25,32 @@ public sealed class JobFilePlanSource : IPlanSource
 
     private static SweepPlan Load(SweepRecord sweep)
     {
+        // With a definition hash from submit (every point of the expansion kept) the plan is made
+        // lazily: each claimed point's id is computed when the runner looks it up at its index and
+        // must equal the registered id (else the point fails as not in the plan), and the
+        // definition (candidates file, canonical base spec, columns and values, point count) must
+        // equal the submitted one. Without it every point is planned and the spec hash compared.
+        var lazy = sweep.DefinitionHash is not null;
         SweepPlan plan;
         try
         {
-            plan = JobFileLoader.Load(sweep.SourcePath, sweep.SpecText);
+            plan = JobFileLoader.Load(sweep.SourcePath, sweep.SpecText, lazy);
         }
         catch (JobFileException ex)
         {
             throw new PlanUnavailableException($"the job file of sweep {sweep.SweepId} (submitted from {sweep.SourcePath}) cannot be planned on this machine: {ex.Message}", ex);
         }
 
-        if (!string.Equals(plan.SpecHash, sweep.SpecHash, StringComparison.Ordinal))
+        var same = lazy
+            ? string.Equals(plan.DefinitionHash, sweep.DefinitionHash, StringComparison.Ordinal)
+            : string.Equals(plan.SpecHash, sweep.SpecHash, StringComparison.Ordinal);
+        if (!same)
         {
             throw new PlanUnavailableException(plan.CandidatesFile is { } candidates
                 ? $"the candidates file {candidates} of sweep {sweep.SweepId} changed after the sweep was submitted; put the submitted version back and resume, or submit again as a new sweep"
                 : $"the plan of sweep {sweep.SweepId} differs on this machine from the submitted one (another engine or program version?); run the same latsweep version on every machine and resume");
         }
 
-        return plan;
+        return lazy ? plan with { SpecHash = sweep.SpecHash } : plan;
     }
 }

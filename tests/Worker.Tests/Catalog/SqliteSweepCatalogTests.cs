@@ -67,7 +67,6 @@ public sealed class SqliteSweepCatalogTests : IDisposable
             EngineVersion = "9.9.9-test",
             Points = new ComputedList<NewPoint>(plan.Points.Count, i => new NewPoint(plan.Points.IdAt(i), i, ChunkOf(i), plan.Points.ParametersAt(i))),
             ChunkCount = starts.Length,
-            InsertOrder = order,
         });
 
         Assert.True(registered);

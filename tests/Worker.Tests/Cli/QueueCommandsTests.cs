@@ -19,6 +19,16 @@ public sealed class QueueCommandsTests : IDisposable
         var submitted = Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart);
         Assert.Equal(0, submitted.ExitCode);
         Assert.Contains("24 points, 5 chunks to run", submitted.Stdout, StringComparison.Ordinal);
+        using (var storage = new Hangfire.Storage.SQLite.SQLiteStorage(_dir.Combine(StoreLocation.DefaultRelativePath), new Hangfire.Storage.SQLite.SQLiteStorageOptions()))
+        {
+            // Enqueued together in one transaction, each a job of its own in the sweeps queue, as Hangfire's monitoring view sees them.
+            var monitor = storage.GetMonitoringApi();
+            Assert.Equal(5, monitor.EnqueuedCount(ChunkJob.QueueName));
+            var jobs = monitor.EnqueuedJobs(ChunkJob.QueueName, 0, 10);
+            Assert.Equal(5, jobs.Count);
+            Assert.Equal(["c00000", "c00001", "c00002", "c00003", "c00004"], jobs.Select(j => (string)j.Value.Job.Args[1]).Order(StringComparer.Ordinal));
+        }
+
         var list = Support.Cli.Run(_dir.Path, "status");
         Assert.Matches(@"quickstart-\w+\s+queued\s+24\s+0\s+0\s+0\s+24", list.Stdout);
 

@@ -1,0 +1,232 @@
+using System.Buffers;
+using System.Data.Common;
+using System.Text.Json;
+
+namespace LatticeSweep.Worker.Catalog;
+
+/// <summary>
+/// Chunks registered as one row each (<c>latsweep_chunks</c>): a chunk's points are written at
+/// submit as one JSON text in the chunk's row and get their own rows in <c>latsweep_points</c> when
+/// a worker first claims the chunk (or a cancel, completion or re-queue first touches it). Until then
+/// the chunk is pending: its points are all in the chunk's pending state (waiting or cancelled), with
+/// no attempts, and every read that lists points takes them from the chunk's text.
+/// </summary>
+public abstract partial class SqlSweepCatalog
+{
+    /// <summary>A chunk whose points have no rows yet.</summary>
+    private sealed record PendingChunk(string ChunkId, long FirstIndex, long LastIndex, long PointCount, PointState State);
+
+    /// <summary>Writes one row per chunk of <paramref name="sweep"/> (its points pending, as <paramref name="state"/>); returns the number of chunks.</summary>
+    private static int WriteChunks(DbConnection c, DbTransaction tx, NewSweep sweep, string state)
+    {
+        using var cmd = Command(c, tx, """
+            INSERT INTO latsweep_chunks (sweep_id, chunk_id, first_index, last_index, point_count, pending_state, points_json)
+            VALUES (@sweep, @chunk, @first, @last, @count, @state, @points)
+            """);
+        Add(cmd, "sweep", sweep.SweepId);
+        Add(cmd, "state", state);
+        var pChunk = Add(cmd, "chunk", "");
+        var pFirst = Add(cmd, "first", 0L);
+        var pLast = Add(cmd, "last", 0L);
+        var pCount = Add(cmd, "count", 0L);
+        var pPoints = Add(cmd, "points", "");
+
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        var buffer = new ArrayBufferWriter<byte>(1 << 20);
+        using var w = new Utf8JsonWriter(buffer);
+        string? current = null;
+        long first = 0, last = 0, count = 0;
+
+        void Flush()
+        {
+            w.WriteEndArray();
+            w.Flush();
+            pChunk.Value = current!;
+            pFirst.Value = first;
+            pLast.Value = last;
+            pCount.Value = count;
+            pPoints.Value = System.Text.Encoding.UTF8.GetString(buffer.WrittenSpan);
+            cmd.ExecuteNonQuery();
+        }
+
+        foreach (var point in sweep.Points)
+        {
+            if (!string.Equals(point.ChunkId, current, StringComparison.Ordinal))
+            {
+                if (current is not null)
+                {
+                    Flush();
+                }
+
+                if (!seen.Add(point.ChunkId))
+                {
+                    throw new ArgumentException($"the points of chunk {point.ChunkId} are not consecutive in the sweep's point list", nameof(sweep));
+                }
+
+                current = point.ChunkId;
+                buffer.ResetWrittenCount();
+                w.Reset(buffer);
+                w.WriteStartArray();
+                first = point.Index;
+                last = point.Index;
+                count = 0;
+            }
+
+            w.WriteStartArray();
+            w.WriteStringValue(point.PointId);
+            w.WriteNumberValue(point.Index);
+            CatalogJson.WriteParameters(w, point.Parameters);
+            w.WriteEndArray();
+            first = Math.Min(first, point.Index);
+            last = Math.Max(last, point.Index);
+            count++;
+        }
+
+        if (current is not null)
+        {
+            Flush();
+        }
+
+        return seen.Count;
+    }
+
+    /// <summary>
+    /// Gives a pending chunk's points their rows (in the chunk's pending state) and marks the chunk
+    /// as having them; nothing when it has them already or is not a registered chunk. Call under the sweep's lock.
+    /// </summary>
+    private void EnsureChunkRows(DbConnection c, DbTransaction tx, string sweepId, string chunkId)
+    {
+        string? state = null, json = null;
+        using (var cmd = Command(c, tx, "SELECT pending_state, points_json FROM latsweep_chunks WHERE sweep_id = @sweep AND chunk_id = @chunk AND pending_state IS NOT NULL"))
+        {
+            Add(cmd, "sweep", sweepId);
+            Add(cmd, "chunk", chunkId);
+            using var r = cmd.ExecuteReader();
+            if (r.Read())
+            {
+                state = r.GetString(0);
+                json = r.GetString(1);
+            }
+        }
+
+        if (state is null || json is null)
+        {
+            return;
+        }
+
+        InsertChunkPoints(c, tx, sweepId, chunkId, json, state);
+        Execute(c, tx, "UPDATE latsweep_chunks SET pending_state = NULL, points_json = NULL WHERE sweep_id = @sweep AND chunk_id = @chunk",
+            ("sweep", sweepId), ("chunk", chunkId));
+    }
+
+    /// <summary>Inserts the points of one chunk's JSON text (see <see cref="CatalogSchema"/>) as rows in <paramref name="state"/>.</summary>
+    protected virtual void InsertChunkPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, string pointsJson, string state)
+    {
+        var rows = DecodeChunk(pointsJson, chunkId);
+
+        // Many rows per statement: a statement costs a round trip to the server.
+        const int RowsPerStatement = 128;
+        for (var start = 0; start < rows.Count; start += RowsPerStatement)
+        {
+            var count = Math.Min(RowsPerStatement, rows.Count - start);
+            var sql = new System.Text.StringBuilder("INSERT INTO latsweep_points (sweep_id, point_id, point_index, chunk_id, state, parameters_json, attempts) VALUES ");
+            using var cmd = Command(c, tx, "");
+            Add(cmd, "s", sweepId);
+            Add(cmd, "c", chunkId);
+            Add(cmd, "t", state);
+            for (var i = 0; i < count; i++)
+            {
+                var n = i.ToString(System.Globalization.CultureInfo.InvariantCulture);
+                sql.Append(i == 0 ? "" : ", ").Append($"(@s, @p{n}, @i{n}, @c, @t, @j{n}, 0)");
+                var row = rows[start + i];
+                Add(cmd, "p" + n, row.PointId);
+                Add(cmd, "i" + n, row.Index);
+                Add(cmd, "j" + n, row.ParametersJson);
+            }
+
+            cmd.CommandText = sql.ToString();
+            cmd.ExecuteNonQuery();
+        }
+    }
+
+    /// <summary>The rows of a chunk's JSON text, in the order written (plan order).</summary>
+    private static List<PointRow> DecodeChunk(string pointsJson, string chunkId)
+    {
+        using var doc = JsonDocument.Parse(pointsJson);
+        var rows = new List<PointRow>(doc.RootElement.GetArrayLength());
+        foreach (var p in doc.RootElement.EnumerateArray())
+        {
+            rows.Add(new PointRow(p[0].GetString()!, p[1].GetInt64(), chunkId, p[2].GetRawText()));
+        }
+
+        return rows;
+    }
+
+    /// <summary>Pending chunks of a sweep (optionally in one state), by first index.</summary>
+    private static List<PendingChunk> ReadPendingChunks(DbConnection c, DbTransaction? tx, string sweepId, PointState? state)
+    {
+        using var cmd = Command(c, tx, $"""
+            SELECT chunk_id, first_index, last_index, point_count, pending_state FROM latsweep_chunks
+            WHERE sweep_id = @sweep AND pending_state {(state is null ? "IS NOT NULL" : "= @state")}
+            ORDER BY first_index, chunk_id
+            """);
+        Add(cmd, "sweep", sweepId);
+        if (state is { } s)
+        {
+            Add(cmd, "state", Text(s));
+        }
+
+        using var r = cmd.ExecuteReader();
+        var list = new List<PendingChunk>();
+        while (r.Read())
+        {
+            list.Add(new PendingChunk(r.GetString(0), r.GetInt64(1), r.GetInt64(2), r.GetInt64(3), ParsePointState(r.GetString(4))));
+        }
+
+        return list;
+    }
+
+    /// <summary>The points of one pending chunk as records (null when the chunk is not pending), in index order.</summary>
+    private static List<PointRecord>? ReadPendingPoints(DbConnection c, DbTransaction? tx, string sweepId, string chunkId, Dictionary<string, Planning.AxisValueType> types)
+    {
+        using var cmd = Command(c, tx, "SELECT pending_state, points_json FROM latsweep_chunks WHERE sweep_id = @sweep AND chunk_id = @chunk AND pending_state IS NOT NULL");
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "chunk", chunkId);
+        using var r = cmd.ExecuteReader();
+        if (!r.Read())
+        {
+            return null;
+        }
+
+        var state = ParsePointState(r.GetString(0));
+        return [.. DecodeChunk(r.GetString(1), chunkId).OrderBy(p => p.Index).Select(p => new PointRecord
+        {
+            SweepId = sweepId,
+            PointId = p.PointId,
+            Index = (int)p.Index,
+            ChunkId = chunkId,
+            State = state,
+            Parameters = CatalogJson.ReadParameters(p.ParametersJson, types),
+            Attempts = 0,
+        })];
+    }
+
+    /// <summary>
+    /// A read-only transaction, so the reads of point rows and of pending chunks see one state of the
+    /// catalog (a chunk claimed in between is neither missed nor seen twice).
+    /// </summary>
+    protected virtual DbTransaction BeginRead(DbConnection connection)
+    {
+        ArgumentNullException.ThrowIfNull(connection);
+        return connection.BeginTransaction(System.Data.IsolationLevel.RepeatableRead);
+    }
+
+    /// <summary>Points in pending chunks of a sweep in <paramref name="state"/>.</summary>
+    private static long PendingPoints(DbConnection c, DbTransaction? tx, string sweepId, PointState state)
+    {
+        using var cmd = Command(c, tx, "SELECT COALESCE(SUM(point_count), 0) FROM latsweep_chunks WHERE sweep_id = @sweep AND pending_state = @state");
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "state", Text(state));
+        return Convert.ToInt64(cmd.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture);
+    }
+}
