@@ -16,8 +16,10 @@ public interface ISweepCatalog : IDisposable
     /// <summary>
     /// Puts every point without a result (waiting, running, cancelled, or failed for an I/O or
     /// input reason) back to waiting and the sweep back to queued; returns the chunks to enqueue.
+    /// The chunks in <paramref name="lostChunks"/> (results recorded, files gone: see
+    /// <see cref="Output.LostResults"/>) go back whole as well, whatever their points' states.
     /// </summary>
-    IReadOnlyList<string> RequeueUnfinished(string sweepId);
+    IReadOnlyList<string> RequeueUnfinished(string sweepId, IReadOnlyCollection<string>? lostChunks = null);
 
     /// <summary>A worker starts a chunk: marks its points running and counts the attempt.</summary>
     ChunkClaim BeginChunk(string sweepId, string chunkId, string workerName);
@@ -41,6 +43,9 @@ public interface ISweepCatalog : IDisposable
 
     /// <summary>Points of one chunk in plan order.</summary>
     IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId);
+
+    /// <summary>The chunks (ascending) holding at least one point whose result was recorded (done, unstable, or failed with a row).</summary>
+    IReadOnlyList<string> GetChunksWithResults(string sweepId);
 
     /// <summary>Failed points grouped by reason, largest group first.</summary>
     IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId);

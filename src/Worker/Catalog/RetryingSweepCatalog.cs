@@ -35,7 +35,9 @@ public sealed class RetryingSweepCatalog : ISweepCatalog
 
     public bool Register(NewSweep sweep) => Retry(() => _inner.Register(sweep));
 
-    public IReadOnlyList<string> RequeueUnfinished(string sweepId) => Retry(() => _inner.RequeueUnfinished(sweepId));
+    public IReadOnlyList<string> RequeueUnfinished(string sweepId, IReadOnlyCollection<string>? lostChunks = null) => Retry(() => _inner.RequeueUnfinished(sweepId, lostChunks));
+
+    public IReadOnlyList<string> GetChunksWithResults(string sweepId) => Retry(() => _inner.GetChunksWithResults(sweepId));
 
     public ChunkClaim BeginChunk(string sweepId, string chunkId, string workerName) => Retry(() => _inner.BeginChunk(sweepId, chunkId, workerName));
 

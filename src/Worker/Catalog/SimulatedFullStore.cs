@@ -23,7 +23,7 @@ internal sealed class SimulatedFullStore(ISweepCatalog inner) : ISweepCatalog
 
     public bool Register(NewSweep sweep) => throw Full();
 
-    public IReadOnlyList<string> RequeueUnfinished(string sweepId) => throw Full();
+    public IReadOnlyList<string> RequeueUnfinished(string sweepId, IReadOnlyCollection<string>? lostChunks = null) => throw Full();
 
     public ChunkClaim BeginChunk(string sweepId, string chunkId, string workerName) => throw Full();
 
@@ -38,6 +38,8 @@ internal sealed class SimulatedFullStore(ISweepCatalog inner) : ISweepCatalog
     public IReadOnlyList<PointRecord> GetPoints(string sweepId, PointQuery query) => inner.GetPoints(sweepId, query);
 
     public IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId) => inner.GetChunkPoints(sweepId, chunkId);
+
+    public IReadOnlyList<string> GetChunksWithResults(string sweepId) => inner.GetChunksWithResults(sweepId);
 
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId) => inner.GetFailureGroups(sweepId);
 

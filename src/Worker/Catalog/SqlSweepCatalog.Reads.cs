@@ -181,6 +181,25 @@ public abstract partial class SqlSweepCatalog
         return result;
     }
 
+    public IReadOnlyList<string> GetChunksWithResults(string sweepId)
+    {
+        using var c = Open();
+        using var cmd = Command(c, null, $"""
+            SELECT DISTINCT chunk_id FROM latsweep_points
+            WHERE sweep_id = @sweep AND ({HasResultSql})
+            ORDER BY chunk_id
+            """);
+        Add(cmd, "sweep", sweepId);
+        var chunks = new List<string>();
+        using var r = cmd.ExecuteReader();
+        while (r.Read())
+        {
+            chunks.Add(r.GetString(0));
+        }
+
+        return chunks;
+    }
+
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId)
     {
         using var c = Open();

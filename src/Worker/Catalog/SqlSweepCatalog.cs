@@ -87,7 +87,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         return true;
     }
 
-    public IReadOnlyList<string> RequeueUnfinished(string sweepId)
+    public IReadOnlyList<string> RequeueUnfinished(string sweepId, IReadOnlyCollection<string>? lostChunks = null)
     {
         using var c = Open();
         using var tx = c.BeginTransaction();
@@ -117,6 +117,12 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             {
                 chunks.Add(r.GetString(0));
             }
+        }
+
+        // Chunks whose results were recorded but whose files are gone run again whole too.
+        if (lostChunks is { Count: > 0 })
+        {
+            chunks = [.. chunks.Union(lostChunks, StringComparer.Ordinal).Order(StringComparer.Ordinal)];
         }
 
         // The whole chunk goes back: its part files are rewritten as one (see ChunkRunner).

@@ -29,6 +29,7 @@ internal static class SweepCommands
             submitted = Submitter(session, context).Submit(plan, outRoot);
         }
 
+        ReportLostResults(submitted, context);
         plans.Add(submitted.Sweep.SweepId, plan);
         return WorkSweep(session, context, plans, submitted.Sweep.SweepId, workers);
     }
@@ -45,6 +46,7 @@ internal static class SweepCommands
         using var session = Session.Open(line, context);
         var submitted = Submitter(session, context).Submit(plan, outRoot);
         var sweep = submitted.Sweep;
+        ReportLostResults(submitted, context);
         context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} chunks to run ({sweep.Counts.Unfinished} points without results).");
         context.Stdout.WriteLine($"Results will be in {sweep.OutputFolder}");
         context.Stdout.WriteLine($"Work it with: latsweep work{StoreHint(line)}");
@@ -60,6 +62,7 @@ internal static class SweepCommands
         var plans = new JobFilePlanSource();
         plans.Get(sweep); // fails here, with its reason, rather than in every chunk
         var resumed = Submitter(session, context).Resume(sweep);
+        ReportLostResults(resumed, context);
         if (line.Flag("queue-only"))
         {
             context.Stdout.WriteLine($"Sweep {sweep.SweepId}: {resumed.ChunksQueued} chunks queued again ({resumed.Sweep.Counts.Unfinished} points without results).");
@@ -67,6 +70,15 @@ internal static class SweepCommands
         }
 
         return WorkSweep(session, context, plans, sweep.SweepId, workers);
+    }
+
+    /// <summary>Says on stdout, not only in the log, that results the store knew of were missing and run again.</summary>
+    private static void ReportLostResults(SubmitResult result, CliContext context)
+    {
+        if (result.LostChunks > 0)
+        {
+            context.Stdout.WriteLine($"Sweep {result.Sweep.SweepId}: {result.LostChunks} chunks had results recorded in the store but no rows in {SweepFolder.Table(result.Sweep.OutputFolder, TableNames.Points)} (deleted or moved?); they run again.");
+        }
     }
 
     public static int Work(CommandLine line, CliContext context)

@@ -65,10 +65,11 @@ public static class ChunkOutputWriter
             {
                 using var committing = Queue.StageTimings.Measure("parquet: rename parts");
                 var tableFolder = Path.GetDirectoryName(prepared[i].FinalPath)!;
-                if (MergedLayout.MergedChunks(tableFolder).ContainsKey(chunkId))
+                if (MergedLayout.MergedChunks(tableFolder).TryGetValue(chunkId, out var mergedFile) && File.Exists(Path.Combine(tableFolder, mergedFile)))
                 {
                     // This chunk ran before and its rows are in a merged file already (a late second
                     // delivery, or a resume after a crash between the parts and the catalog): keep those.
+                    // A merged file deleted since (LostResults) keeps nothing: the new part goes in.
                     prepared[i].Discard();
                     continue;
                 }

@@ -9,7 +9,11 @@ using Serilog;
 namespace LatticeSweep.Worker.Queue;
 
 /// <summary>What submitting (or resuming) a sweep did.</summary>
-public sealed record SubmitResult(SweepRecord Sweep, bool Created, int ChunksQueued);
+public sealed record SubmitResult(SweepRecord Sweep, bool Created, int ChunksQueued)
+{
+    /// <summary>Chunks queued again because their recorded results were missing from the sweep's folder.</summary>
+    public int LostChunks { get; init; }
+}
 
 /// <summary>
 /// Puts sweeps on the queue: registers a planned sweep in the catalog with every point's chunk,
@@ -100,18 +104,33 @@ public sealed class SweepSubmitter
         return new SubmitResult(record, Created: true, chunkIds.Count);
     }
 
-    /// <summary>Re-queues every point of the sweep that has no result yet.</summary>
+    /// <summary>
+    /// Re-queues every point of the sweep that has no result yet, in the catalog or on disk: chunks
+    /// whose rows were deleted or moved from the sweep's folder run again (<see cref="LostResults"/>).
+    /// </summary>
     public SubmitResult Resume(SweepRecord sweep)
     {
         ArgumentNullException.ThrowIfNull(sweep);
         OutputFolderCheck.EnsureWritable(sweep.OutputFolder);
-        var chunkIds = _store.Catalog.RequeueUnfinished(sweep.SweepId);
+        IReadOnlyList<string> lost;
+        using (OutputLock.Shared(sweep.OutputFolder))
+        {
+            lost = LostResults.Find(_store.Catalog, sweep);
+        }
+
+        if (lost.Count > 0)
+        {
+            _log.Warning("Sweep {SweepId}: {LostChunks} chunks have results recorded in the store but no rows in {Folder} (deleted or moved?): they run again",
+                sweep.SweepId, lost.Count, SweepFolder.Table(sweep.OutputFolder, TableNames.Points));
+        }
+
+        var chunkIds = _store.Catalog.RequeueUnfinished(sweep.SweepId, lost);
         Enqueue(sweep.SweepId, chunkIds);
         var record = _store.Catalog.FindSweep(sweep.SweepId)!;
         SweepManifest.Write(record, _time.GetUtcNow());
         _log.Information("Sweep {SweepId}: {ChunkCount} chunks re-queued ({Unfinished} points without results)",
             sweep.SweepId, chunkIds.Count, record.Counts.Unfinished);
-        return new SubmitResult(record, Created: false, chunkIds.Count);
+        return new SubmitResult(record, Created: false, chunkIds.Count) { LostChunks = lost.Count };
     }
 
     /// <summary>

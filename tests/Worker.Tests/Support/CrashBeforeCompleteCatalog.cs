@@ -6,7 +6,9 @@ namespace LatticeSweep.Worker.Tests.Support;
 internal sealed class CrashBeforeCompleteCatalog(ISweepCatalog inner) : ISweepCatalog
 {
     public bool Register(NewSweep sweep) => inner.Register(sweep);
-    public IReadOnlyList<string> RequeueUnfinished(string sweepId) => inner.RequeueUnfinished(sweepId);
+    public IReadOnlyList<string> RequeueUnfinished(string sweepId, IReadOnlyCollection<string>? lostChunks = null) => inner.RequeueUnfinished(sweepId, lostChunks);
+
+    public IReadOnlyList<string> GetChunksWithResults(string sweepId) => inner.GetChunksWithResults(sweepId);
     public ChunkClaim BeginChunk(string sweepId, string chunkId, string workerName) => inner.BeginChunk(sweepId, chunkId, workerName);
     public ChunkCompletion CompleteChunk(string sweepId, string chunkId, IReadOnlyList<PointCompletion> points) => throw new SimulatedCrashException();
     public bool Cancel(string sweepId) => inner.Cancel(sweepId);
