@@ -42,8 +42,12 @@ public sealed class ManyWorkersOnPostgresTests : IDisposable
 
         // The victim's points take 0.4 s longer each (a test seam that waits), so its chunks last
         // about 2.4 s and a kill right after it starts one surely lands mid-chunk.
+        // The others take 40 ms longer each, so the sweep outlasts a restarted worker's start-up with
+        // room to spare: on a quiet machine the two of them had at times finished it before the
+        // restarted victim claimed a chunk, and the second kill found nothing to kill.
         var slow = new Dictionary<string, string> { ["LATSWEEP_TEST_EXTRA_MS_PER_POINT"] = "400" };
-        var workers = Enumerable.Range(0, 3).Select(i => StartWorker(store, $"worker {i + 1}", i == victimSlot ? slow : null)).ToList();
+        var steady = new Dictionary<string, string> { ["LATSWEEP_TEST_EXTRA_MS_PER_POINT"] = "40" };
+        var workers = Enumerable.Range(0, 3).Select(i => StartWorker(store, $"worker {i + 1}", i == victimSlot ? slow : steady)).ToList();
         var killed = new List<(string Worker, HashSet<string> HeldPoints)>();
 
         // Two kills at random moments: once a random share of the sweep is done, after a random
