@@ -1,6 +1,4 @@
-using System.Diagnostics;
 using System.Globalization;
-using System.Runtime.InteropServices;
 using System.Security.Cryptography;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Output;
@@ -109,16 +107,6 @@ internal static class RowsCase
         };
     }
 
-    private static double ThreadCpuSeconds() =>
-        ClockGetTime(3, out var t) == 0 ? t.Seconds + (t.Nanoseconds * 1e-9) : Process.GetCurrentProcess().TotalProcessorTime.TotalSeconds;
-
-    [StructLayout(LayoutKind.Sequential)]
-    private struct TimeSpec
-    {
-        public long Seconds;
-        public long Nanoseconds;
-    }
-
-    [DllImport("libc", EntryPoint = "clock_gettime")]
-    private static extern int ClockGetTime(int clock, out TimeSpec time);
+    // The Worker's own per-thread clock (clock_gettime on Linux, 0 elsewhere).
+    private static double ThreadCpuSeconds() => LatticeSweep.Worker.Queue.StageTimings.ThreadCpuNs() * 1e-9;
 }

@@ -96,7 +96,7 @@ public static class StageTimings
     /// thread; its CPU is then the process's over its time (all threads: right for stages that run
     /// alone, such as the merge, an upper bound otherwise).
     /// </summary>
-    private static long ThreadCpuNs()
+    internal static long ThreadCpuNs()
     {
         if (!OperatingSystem.IsLinux())
         {
