@@ -65,7 +65,7 @@ public static class ChunkOutputWriter
             {
                 using var committing = Queue.StageTimings.Measure("parquet: rename parts");
                 var tableFolder = Path.GetDirectoryName(prepared[i].FinalPath)!;
-                if (MergedLayout.MergedChunks(tableFolder).TryGetValue(chunkId, out var mergedFile) && File.Exists(Path.Combine(tableFolder, mergedFile)))
+                if (MergedLayout.MergedFileOfChunk(tableFolder, chunkId) is not null)
                 {
                     // This chunk ran before and its rows are in a merged file already (a late second
                     // delivery, or a resume after a crash between the parts and the catalog): keep those.

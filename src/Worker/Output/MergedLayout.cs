@@ -80,10 +80,14 @@ public static class MergedLayout
             return part;
         }
 
-        return MergedChunks(tableFolder).TryGetValue(chunkId, out var merged) && File.Exists(Path.Combine(tableFolder, merged))
+        return MergedFileOfChunk(tableFolder, chunkId);
+    }
+
+    /// <summary>The merged file the folder's list puts a chunk's rows in, when that file exists; null otherwise.</summary>
+    public static string? MergedFileOfChunk(string tableFolder, string chunkId) =>
+        MergedChunks(tableFolder).TryGetValue(chunkId, out var merged) && File.Exists(Path.Combine(tableFolder, merged))
             ? Path.Combine(tableFolder, merged)
             : null;
-    }
 
     /// <summary>The row groups of a merged file that may hold <paramref name="pointId"/>, from its metadata; null when the file has no such index (read it all).</summary>
     public static IReadOnlyList<int>? RowGroupsOf(IReadOnlyDictionary<string, string>? metadata, string pointId)
