@@ -53,25 +53,19 @@ internal static class FiniteCrystalSolver
         var visited = 0L;
 
         // Pass 1: eigenvalues only. The range is needed before any histogram can be binned.
-        var scaleLambda = 0.0;
         solver.SolveHalfSet(grid, withVectors: false, points =>
         {
             var batch = solver.BatchValues(0, points.Length);
-            for (var p = 0; p < points.Length; p++)
+            stats.ObserveMany(batch, points, rigid);
+            for (var p = 0; p < points.Length && store is not null; p++)
             {
                 ref readonly var point = ref points[p];
                 var values = batch.Slice(p * n, n);
-                var skip = point.IsGamma ? rigid : 0;
-                stats.Observe(values, point.Reduced, skip);
-                scaleLambda = Math.Max(scaleLambda, values[n - 1]);
-                if (store is not null)
+                for (var k = point.IsGamma ? rigid : 0; k < n; k++)
                 {
-                    for (var k = skip; k < n; k++)
+                    for (var w = 0; w < point.Weight; w++)
                     {
-                        for (var w = 0; w < point.Weight; w++)
-                        {
-                            store[storedCount++] = ModeSolver.SignedThz(values[k]);
-                        }
+                        store[storedCount++] = ModeSolver.SignedThz(values[k]);
                     }
                 }
             }
@@ -83,6 +77,9 @@ internal static class FiniteCrystalSolver
 
             visited += points.Length;
         }, ct);
+
+        // The largest eigenvalue seen (its branch's maximum), or 0.
+        var scaleLambda = Math.Max(0.0, stats.BranchMax[n - 1]);
 
         // Eigenvalues within the eigen-solver's round-off of zero (about 1e-14 of the largest) are
         // zero modes: a 1e7-cell chain's lowest mode (ratio ~1e-13) still counts as a mode.
