@@ -343,6 +343,47 @@ public static partial class HermitianEigenSolver
         }
     }
 
+    /// <summary>Orders up to which eigenvalues alone are sorted in the lanes (above, lane by lane).</summary>
+    private const int SortingNetworkMaxOrder = 16;
+
+    /// <summary>
+    /// Eigenvalues alone: every lane sorted at once by odd-even transposition (n rounds of
+    /// compare-exchange between neighbours sorts any n values; Knuth, The Art of Computer Programming,
+    /// vol. 3, section 5.3.4, from memory) with vector minimum and maximum, which need no branch per
+    /// comparison, then scaled back by 2^e per lane (one multiplication, as the lane-by-lane path).
+    /// </summary>
+    private static void UnloadValues<TLanes>(Span<TLanes> diagonal, int n, int used, ReadOnlySpan<int> exponents, Span<double> values)
+        where TLanes : unmanaged, ILanes<TLanes>
+    {
+        for (var round = 0; round < n; round++)
+        {
+            for (var i = round & 1; i + 1 < n; i += 2)
+            {
+                var a = diagonal[i];
+                var b = diagonal[i + 1];
+                diagonal[i] = TLanes.Min(a, b);
+                diagonal[i + 1] = TLanes.Max(a, b);
+            }
+        }
+
+        Span<double> powers = stackalloc double[MaxBatchLanes];
+        powers.Fill(1.0);
+        for (var lane = 0; lane < used; lane++)
+        {
+            powers[lane] = Math.ScaleB(1.0, exponents[lane]);
+        }
+
+        var power = TLanes.Create(powers);
+        for (var k = 0; k < n; k++)
+        {
+            var scaled = diagonal[k] * power;
+            for (var lane = 0; lane < used; lane++)
+            {
+                values[(lane * n) + k] = scaled[lane];
+            }
+        }
+    }
+
     /// <summary>Undoes the per-lane scaling, sorts each lane's eigenvalues ascending and moves its vectors along.</summary>
     private static void Unload<TLanes>(
         Span<TLanes> diagonal, Span<TLanes> vre, Span<TLanes> vim, int n, int used,
@@ -350,6 +391,12 @@ public static partial class HermitianEigenSolver
         where TLanes : unmanaged, ILanes<TLanes>
     {
         var lanes = TLanes.Count;
+        if (vectors.IsEmpty && n <= SortingNetworkMaxOrder)
+        {
+            UnloadValues(diagonal, n, used, exponents, values);
+            return;
+        }
+
         var diagonalLanes = MemoryMarshal.Cast<TLanes, double>(diagonal);
         var vreLanes = MemoryMarshal.Cast<TLanes, double>(vre);
         var vimLanes = MemoryMarshal.Cast<TLanes, double>(vim);

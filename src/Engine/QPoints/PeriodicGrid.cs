@@ -122,6 +122,80 @@ internal readonly record struct PeriodicGrid(int N1, int N2, int N3)
         }
     }
 
+    /// <summary>
+    /// The next points of <see cref="HalfSet"/> after <paramref name="cursor"/>, as many as fit
+    /// <paramref name="points"/>; returns how many (0 at the end). The same points in the same order
+    /// as the enumerator, worked out a mesh row (i1, i2) at a time: a row is kept whole when -q's row
+    /// comes after it, skipped when before, and kept up to its middle when it is its own partner row,
+    /// so a long row (a chain's) costs one division per point and no partner test.
+    /// </summary>
+    public int FillHalfSet(ref HalfSetCursor cursor, Span<GridPoint> points)
+    {
+        var (n1, n2, n3) = (N1, N2, N3);
+        var count = 0;
+        while (count < points.Length && cursor.I1 < n1)
+        {
+            var (i1, i2) = (cursor.I1, cursor.I2);
+            var (p1, p2) = (Partner(i1, n1), Partner(i2, n2));
+            var rowEnd = 0; // i3 past the row's last kept point
+            var ownPartner = p1 == i1 && p2 == i2;
+            if (p1 > i1 || (p1 == i1 && p2 > i2))
+            {
+                rowEnd = n3;
+            }
+            else if (ownPartner)
+            {
+                rowEnd = n3 % 2 == 0 ? (n3 / 2) + 1 : ((n3 - 1) / 2) + 1;
+            }
+            else if (p1 < i1)
+            {
+                cursor.I1 = n1; // every later row comes after its partner's
+                break;
+            }
+            else
+            {
+                // p1 == i1 and p2 < i2: the rest of this slab comes after its partners.
+                NextSlab(ref cursor, n1);
+                continue;
+            }
+
+            var rowBase = Index(i1, i2, 0);
+            var partnerBase = Index(p1, p2, 0);
+            var r1 = Reduced(i1, n1);
+            var r2 = Reduced(i2, n2);
+            var gammaRow = i1 == n1 / 2 && i2 == n2 / 2;
+            var i3 = cursor.I3;
+            for (; i3 < rowEnd && count < points.Length; i3++)
+            {
+                var partner = partnerBase + Partner(i3, n3);
+                var self = rowBase + i3;
+                points[count++] = new GridPoint(self, partner, new Vec3(r1, r2, Reduced(i3, n3)), partner == self ? 1 : 2, gammaRow && i3 == n3 / 2);
+            }
+
+            if (i3 < rowEnd)
+            {
+                cursor.I3 = i3;
+                break;
+            }
+
+            // The row is done: the next row of the slab, or the next slab.
+            cursor.I3 = 0;
+            if (++cursor.I2 == n2)
+            {
+                NextSlab(ref cursor, n1);
+            }
+        }
+
+        return count;
+    }
+
+    private static void NextSlab(ref HalfSetCursor cursor, int n1)
+    {
+        cursor.I3 = 0;
+        cursor.I2 = 0;
+        cursor.I1++;
+    }
+
     /// <summary>Number of points <see cref="HalfSet"/> visits.</summary>
     public long HalfCount
     {
@@ -133,6 +207,14 @@ internal readonly record struct PeriodicGrid(int N1, int N2, int N3)
     }
 
     private static long SelfConjugate(int n) => n % 2 == 0 ? 2 : 1;
+}
+
+/// <summary>Where <see cref="PeriodicGrid.FillHalfSet"/> goes on: the mesh indices of the next point to consider (start at default).</summary>
+internal struct HalfSetCursor
+{
+    public int I1;
+    public int I2;
+    public int I3;
 }
 
 /// <summary>One visited wave vector of a <see cref="PeriodicGrid"/>.</summary>

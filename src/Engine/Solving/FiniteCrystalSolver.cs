@@ -24,6 +24,9 @@ internal static class FiniteCrystalSolver
 
     private const double ThzPerRadPerS = 1.0 / (2.0 * Math.PI) / 1e12;
 
+    /// <summary>Wave vectors whose modes pass 2 hands to the sink together (a multiple of the solver's batch).</summary>
+    private const int PassTwoBatch = 8 * ModeSolver.BatchSize;
+
     public static SpectrumOutcome Solve(ModeSolver solver, FiniteSample sample, SolveOptions options, double[] temperaturesK, ModeSink sink, CancellationToken ct)
     {
         var n = solver.Size;
@@ -50,22 +53,15 @@ internal static class FiniteCrystalSolver
         var visited = 0L;
 
         // Pass 1: eigenvalues only. The range is needed before any histogram can be binned.
-        var scaleLambda = 0.0;
-        solver.SolveHalfSet(grid, withVectors: false, (in GridPoint point, int slot) =>
+        solver.SolveHalfSet(grid, withVectors: false, points =>
         {
-            var values = solver.BatchValues(slot);
-            var skip = point.IsGamma ? rigid : 0;
-            stats.Observe(values, point.Reduced, skip);
-            scaleLambda = Math.Max(scaleLambda, values[n - 1]);
-            if (cached is not null)
+            var batch = solver.BatchValues(0, points.Length);
+            stats.ObserveMany(batch, points, rigid);
+            for (var p = 0; p < points.Length && store is not null; p++)
             {
-                values.CopyTo(cached.AsSpan((int)(visited * n), n));
-            }
-
-            visited++;
-            if (store is not null)
-            {
-                for (var k = skip; k < n; k++)
+                ref readonly var point = ref points[p];
+                var values = batch.Slice(p * n, n);
+                for (var k = point.IsGamma ? rigid : 0; k < n; k++)
                 {
                     for (var w = 0; w < point.Weight; w++)
                     {
@@ -73,7 +69,17 @@ internal static class FiniteCrystalSolver
                     }
                 }
             }
+
+            if (cached is not null)
+            {
+                batch.CopyTo(cached.AsSpan((int)(visited * n), batch.Length));
+            }
+
+            visited += points.Length;
         }, ct);
+
+        // The largest eigenvalue seen (its branch's maximum), or 0.
+        var scaleLambda = Math.Max(0.0, stats.BranchMax[n - 1]);
 
         // Eigenvalues within the eigen-solver's round-off of zero (about 1e-14 of the largest) are
         // zero modes: a 1e7-cell chain's lowest mode (ratio ~1e-13) still counts as a mode.
@@ -95,19 +101,61 @@ internal static class FiniteCrystalSolver
             sink.PrepareBins(Math.Sqrt(scaleLambda), modes);
         }
 
+        // Without vectors the modes go to the sink a batch at a time (their thermal sums binned by
+        // runs); with them, one by one with their channel fractions.
+        var modeOmegas = new double[PassTwoBatch * n];
+        var modeWeights = new double[PassTwoBatch * n];
         if (cached is not null)
         {
             visited = 0L;
-            foreach (var point in grid.HalfSet())
+            var points = new GridPoint[PassTwoBatch];
+            var cursor = default(HalfSetCursor);
+            int count;
+            while ((count = grid.FillHalfSet(ref cursor, points)) > 0)
             {
                 ct.ThrowIfCancellationRequested();
-                Collect(point, cached.AsSpan((int)(visited * n), n), -1);
-                visited++;
+                CollectMany(points.AsSpan(0, count), cached.AsSpan((int)(visited * n), count * n));
+                visited += count;
             }
+        }
+        else if (!wantVectors)
+        {
+            solver.SolveHalfSet(grid, withVectors: false, points => CollectMany(points, solver.BatchValues(0, points.Length)), ct);
         }
         else
         {
             solver.SolveHalfSet(grid, wantVectors, (in GridPoint point, int slot) => Collect(point, solver.BatchValues(slot), slot), ct);
+        }
+
+        void CollectMany(ReadOnlySpan<GridPoint> points, ReadOnlySpan<double> values)
+        {
+            var added = 0;
+            for (var p = 0; p < points.Length; p++)
+            {
+                ref readonly var point = ref points[p];
+                var skip = point.IsGamma ? rigid : 0;
+                var weight = point.Weight * perCell;
+                for (var k = skip; k < n; k++)
+                {
+                    var lambda = values[(p * n) + k];
+                    var omega = Math.Sqrt(Math.Abs(lambda));
+                    var thz = lambda < 0 ? -omega * ThzPerRadPerS : omega * ThzPerRadPerS;
+                    Deposit(thz, weight, gaussian, options.GaussianSigmaThz, grid0, total, partial, default);
+                    if (Math.Abs(lambda) <= zeroTolerance)
+                    {
+                        zeroModes += point.Weight;
+                        continue;
+                    }
+
+                    if (lambda > 0)
+                    {
+                        modeOmegas[added] = omega;
+                        modeWeights[added++] = weight;
+                    }
+                }
+            }
+
+            sink.AddMany(modeOmegas.AsSpan(0, added), modeWeights.AsSpan(0, added));
         }
 
         void Collect(in GridPoint point, ReadOnlySpan<double> values, int slot)

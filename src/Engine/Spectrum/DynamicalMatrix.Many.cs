@@ -30,6 +30,12 @@ internal sealed partial class DynamicalMatrix
             return;
         }
 
+        if (Size == 1 && OneByOneShortcut)
+        {
+            BuildManyOneByOne(qPerM, d);
+            return;
+        }
+
         var flat = MemoryMarshal.Cast<Complex, double>(d[..(count * nn)]);
         flat.Clear();
         for (var k = 0; k < count; k++)
@@ -57,6 +63,42 @@ internal sealed partial class DynamicalMatrix
         for (var k = 0; k < count; k++)
         {
             MakeHermitian(d.Slice(k * nn, nn), Size);
+        }
+    }
+
+    /// <summary>
+    /// D for a one-site scalar model (a chain or net of scalar springs): 1 x 1 matrices, so the general
+    /// path's per-matrix calls (self-terms, each pair's row, the Hermitian mean) are most of its cost.
+    /// The same numbers bit for bit: 0 + the self-term, then each pair's K cos added for the forward and
+    /// then the reverse coupling (K^T = K for one component), in the same order as <see cref="AddPair"/>;
+    /// the imaginary part, which the Hermitian mean sets to 0 on the diagonal, is 0.
+    /// </summary>
+    private void BuildManyOneByOne(ReadOnlySpan<Vec3> qPerM, Span<Complex> d)
+    {
+        var count = qPerM.Length;
+        Span<double> real = stackalloc double[count];
+        real.Fill(0.0 + _selfScaled[0]);
+        Span<double> phases = stackalloc double[count];
+        Span<double> sines = stackalloc double[count];
+        Span<double> cosines = stackalloc double[count];
+        foreach (var p in _pairs!)
+        {
+            for (var k = 0; k < count; k++)
+            {
+                phases[k] = p.SeparationM.Dot(qPerM[k]);
+            }
+
+            VectorSinCos.Compute(phases, sines, cosines);
+            var spring = p.Tensor[0];
+            for (var k = 0; k < count; k++)
+            {
+                real[k] = (real[k] + (spring * cosines[k])) + (spring * cosines[k]);
+            }
+        }
+
+        for (var k = 0; k < count; k++)
+        {
+            d[k] = new Complex(real[k], 0);
         }
     }
 }

@@ -56,6 +56,12 @@ internal sealed partial class DynamicalMatrix
     /// </summary>
     internal bool VectorRows { get; set; } = Vector256.IsHardwareAccelerated && SimdWidths.Active != SimdWidth.Scalar;
 
+    /// <summary>
+    /// <see cref="BuildMany"/> of a 1 x 1 model takes its own loop (the same bits as the general
+    /// path). Settable for tests, which compare the two.
+    /// </summary>
+    internal bool OneByOneShortcut { get; set; } = true;
+
     private sealed record ScaledPair(int I, int J, Vec3 SeparationM, double[] Tensor, double[] Forward, double[] Backward);
 
     public int Size => _crystal.Size;

@@ -22,6 +22,7 @@ internal sealed class ModeSink
     private readonly double[] _massKgByChannel;
     private readonly int _channels;
     private ChebyshevModeBins? _bins;
+    private int[]? _unbinned;
     private double _sumInverseOmegaSquared;
     private double _sumLnOmega;
     private double _sumOmegaSquared;
@@ -73,6 +74,46 @@ internal sealed class ModeSink
         }
 
         AddExact(omega, weight, channelFractions);
+    }
+
+    /// <summary>
+    /// Adds many modes without channel fractions: the same as <see cref="Add"/> for each in turn, up to
+    /// round-off where they are binned (<see cref="ChebyshevModeBins.AddMany"/> sums a bin's run of
+    /// modes before adding it).
+    /// </summary>
+    public void AddMany(ReadOnlySpan<double> omegas, ReadOnlySpan<double> weights)
+    {
+        var bins = _bins;
+        var plain = bins is null || _msd is not null;
+        var states = StatesCounted;
+        for (var i = 0; i < omegas.Length && !plain; i++)
+        {
+            plain = !(omegas[i] > 0) || weights[i] == 0;
+            states += weights[i];
+        }
+
+        if (plain)
+        {
+            for (var i = 0; i < omegas.Length; i++)
+            {
+                Add(omegas[i], weights[i], default);
+            }
+
+            return;
+        }
+
+        StatesCounted = states;
+        if (_unbinned is null || _unbinned.Length < omegas.Length)
+        {
+            _unbinned = new int[omegas.Length];
+        }
+
+        var unbinned = bins!.AddMany(omegas, weights, _unbinned);
+        for (var r = 0; r < unbinned; r++)
+        {
+            var i = _unbinned[r];
+            AddExact(omegas[i], weights[i], default);
+        }
     }
 
     public ThermalSums Sums(int temperatureIndex) => Flushed()._sums[temperatureIndex];

@@ -51,12 +51,28 @@ internal sealed class ModeSolver
     /// <summary>Called for each solved point of <see cref="SolveHalfSet"/>; its results are at <paramref name="slot"/>.</summary>
     public delegate void SolvedPoint(in GridPoint point, int slot);
 
+    /// <summary>Called for each solved batch of <see cref="SolveHalfSet"/>: point k's results are at slot k.</summary>
+    public delegate void SolvedBatch(ReadOnlySpan<GridPoint> points);
+
     /// <summary>
     /// Solves every point of the grid's half set, <see cref="BatchSize"/> at a time through the batched
     /// eigen-solver, and calls <paramref name="visit"/> for each in grid order. Inside the call,
     /// <see cref="BatchValues"/> and <see cref="BatchChannelFractions"/> give that point's results.
     /// </summary>
-    public void SolveHalfSet(PeriodicGrid grid, bool withVectors, SolvedPoint visit, CancellationToken ct)
+    public void SolveHalfSet(PeriodicGrid grid, bool withVectors, SolvedPoint visit, CancellationToken ct) =>
+        SolveHalfSet(grid, withVectors, points =>
+        {
+            for (var k = 0; k < points.Length; k++)
+            {
+                visit(in points[k], k);
+            }
+        }, ct);
+
+    /// <summary>
+    /// As above, one call per batch of up to <see cref="BatchSize"/> points (in grid order), so a
+    /// caller with little work per point (a chain's one mode) pays no call per point.
+    /// </summary>
+    public void SolveHalfSet(PeriodicGrid grid, bool withVectors, SolvedBatch visit, CancellationToken ct)
     {
         var n = Size;
         var nn = n * n;
@@ -70,33 +86,20 @@ internal sealed class ModeSolver
         var points = new GridPoint[BatchSize];
         var q = new Vec3[BatchSize];
         var lattice = _matrix.Crystal.Lattice;
-        var fill = 0;
-        foreach (var point in grid.HalfSet())
-        {
-            points[fill] = point;
-            q[fill] = lattice.ToCartesianQ(point.Reduced);
-            if (++fill == BatchSize)
-            {
-                Flush(fill);
-                fill = 0;
-            }
-        }
-
-        if (fill > 0)
-        {
-            Flush(fill);
-        }
-
-        void Flush(int count)
+        var cursor = default(HalfSetCursor);
+        int count;
+        while ((count = grid.FillHalfSet(ref cursor, points)) > 0)
         {
             ct.ThrowIfCancellationRequested();
+            for (var k = 0; k < count; k++)
+            {
+                q[k] = lattice.ToCartesianQ(points[k].Reduced);
+            }
+
             _matrix.BuildMany(q.AsSpan(0, count), _batchD.AsSpan(0, count * nn));
             HermitianEigenSolver.SolveBatch(_batchD.AsSpan(0, count * nn), n, count, _batchValues.AsSpan(0, count * n),
                 withVectors ? _batchVectors.AsSpan(0, count * nn) : []);
-            for (var k = 0; k < count; k++)
-            {
-                visit(in points[k], k);
-            }
+            visit(points.AsSpan(0, count));
         }
     }
 
@@ -138,6 +141,9 @@ internal sealed class ModeSolver
 
     /// <summary>Eigenvalues (ascending) of the point at <paramref name="slot"/> of the current batch.</summary>
     public ReadOnlySpan<double> BatchValues(int slot) => _batchValues.AsSpan(slot * Size, Size);
+
+    /// <summary>Eigenvalues of the first <paramref name="count"/> points of the current batch, point after point.</summary>
+    public ReadOnlySpan<double> BatchValues(int first, int count) => _batchValues.AsSpan(first * Size, count * Size);
 
     /// <summary>|e_c|^2 of mode k of the point at <paramref name="slot"/>, for every channel c; sums to 1.</summary>
     public void BatchChannelFractions(int slot, int mode, Span<double> fractions)

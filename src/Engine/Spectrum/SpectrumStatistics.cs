@@ -46,5 +46,48 @@ internal sealed class SpectrumStatistics
         }
     }
 
+    /// <summary>
+    /// <see cref="Observe"/> for a batch of points (point p's n values at p * n, the first
+    /// <paramref name="rigid"/> of a Gamma point skipped), in the same order, so the same results.
+    /// </summary>
+    public void ObserveMany(ReadOnlySpan<double> values, ReadOnlySpan<QPoints.GridPoint> points, int rigid)
+    {
+        var n = BranchMin.Length;
+        var branchMin = BranchMin;
+        var branchMax = BranchMax;
+        var worst = WorstLambda;
+        var worstAt = -1;
+        for (var p = 0; p < points.Length; p++)
+        {
+            var skip = points[p].IsGamma ? rigid : 0;
+            var row = values.Slice(p * n, n);
+            for (var k = 0; k < n; k++)
+            {
+                var l = row[k];
+                if (k < skip)
+                {
+                    branchMin[k] = Math.Min(branchMin[k], 0.0);
+                }
+                else
+                {
+                    branchMin[k] = Math.Min(branchMin[k], l);
+                    if (l < worst)
+                    {
+                        worst = l;
+                        worstAt = p;
+                    }
+                }
+
+                branchMax[k] = Math.Max(branchMax[k], l);
+            }
+        }
+
+        if (worstAt >= 0)
+        {
+            WorstLambda = worst;
+            WorstQReduced = points[worstAt].Reduced;
+        }
+    }
+
     public double MaxLambda => BranchMax.Length == 0 ? 0 : BranchMax.Max();
 }

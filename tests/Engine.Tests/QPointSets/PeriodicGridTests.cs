@@ -60,4 +60,41 @@ public sealed class PeriodicGridTests
         Assert.Equal(grid.Count, visited.Sum(p => (long)p.Weight));
         Assert.Equal(1, visited.Count(p => p.IsGamma));
     }
+
+    [Theory]
+    [InlineData(1, 1, 1)]
+    [InlineData(10, 1, 1)]
+    [InlineData(11, 1, 1)]
+    [InlineData(4, 5, 1)]
+    [InlineData(5, 4, 1)]
+    [InlineData(4, 4, 4)]
+    [InlineData(3, 5, 7)]
+    [InlineData(6, 3, 4)]
+    [InlineData(1, 6, 5)]
+    [InlineData(1000, 1, 1)]
+    [InlineData(1, 1, 9)]
+    public void Filling_buffers_gives_the_enumerators_points_in_its_order_whatever_the_buffer_size(int n1, int n2, int n3)
+    {
+        var grid = new PeriodicGrid(n1, n2, n3);
+        var expected = new List<GridPoint>();
+        foreach (var p in grid.HalfSet())
+        {
+            expected.Add(p);
+        }
+
+        foreach (var size in new[] { 1, 2, 3, 7, 32, 5000 })
+        {
+            var filled = new List<GridPoint>();
+            var buffer = new GridPoint[size];
+            var cursor = default(HalfSetCursor);
+            int count;
+            while ((count = grid.FillHalfSet(ref cursor, buffer)) > 0)
+            {
+                filled.AddRange(buffer.AsSpan(0, count));
+            }
+
+            Assert.Equal(0, grid.FillHalfSet(ref cursor, buffer)); // stays at the end
+            Assert.Equal(expected, filled); // record structs: index, partner, reduced (bit for bit), weight, Gamma
+        }
+    }
 }

@@ -2,6 +2,7 @@ using System.Numerics;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics;
 using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Springs;
 using LatticeSweep.Engine.Tests.Support;
 
 namespace LatticeSweep.Engine.Tests.Spectrum;
@@ -83,6 +84,40 @@ public class DynamicalMatrixTests
 
             Assert.Equal(results[1].Many, results[0].Many);
             Assert.Equal(results[1].One, results[0].One);
+        }
+    }
+
+    [Fact]
+    public void One_by_one_models_give_the_general_paths_bits()
+    {
+        // A one-site scalar model skips the per-matrix calls: the same sums in the same order, so
+        // D(q) must agree bit for bit (one spring; a net with two shells, i.e. several pairs; a count
+        // that is not a multiple of the vector width; with vector rows and without).
+        CompiledCrystal[] models =
+        [
+            CompiledCrystal.From(Crystals.ScalarChain()),
+            CompiledCrystal.From(CrystalModel.Create(
+                Lattice.Square(Crystals.SpacingNm), [new Site("A", "A", Vec3.Zero, Crystals.MassAmu)],
+                [new ShellSpring("A", "A", 1, 7.0), new ShellSpring("A", "A", 2, 1.5)], degreesOfFreedom: DegreesOfFreedom.Scalar)),
+        ];
+        foreach (var model in models)
+        {
+            var random = new Random(11);
+            var q = Enumerable.Range(0, 29)
+                .Select(k => k == 0 ? Vec3.Zero : model.Lattice.ToCartesianQ(new Vec3(random.NextDouble() - 0.5, random.NextDouble() - 0.5, 0)))
+                .ToArray();
+            foreach (var vectorRows in new[] { true, false })
+            {
+                var general = new DynamicalMatrix(model) { VectorRows = vectorRows, OneByOneShortcut = false };
+                var shortcut = new DynamicalMatrix(model) { VectorRows = vectorRows };
+                Assert.Equal(1, shortcut.Size);
+                var expected = new Complex[q.Length];
+                var actual = new Complex[q.Length];
+                general.BuildMany(q, expected);
+                shortcut.BuildMany(q, actual);
+                static (long, long) Bits(Complex c) => (BitConverter.DoubleToInt64Bits(c.Real), BitConverter.DoubleToInt64Bits(c.Imaginary));
+                Assert.Equal(expected.Select(Bits), actual.Select(Bits));
+            }
         }
     }
 

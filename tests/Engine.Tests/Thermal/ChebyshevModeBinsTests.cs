@@ -101,6 +101,64 @@ public sealed class ChebyshevModeBinsTests
     }
 
     [Fact]
+    public void Modes_added_many_at_once_give_the_one_by_one_sums_to_round_off()
+    {
+        // A chain's modes in wave-vector order (long runs in one bin, four at a time where the width
+        // allows), then modes in the logarithmic bins, below the floor (summed directly) and one
+        // batch holding a zero weight (the one-by-one fallback); batch sizes that split runs and fours.
+        const int cells = 300_001;
+        var omegaTop = 2 * Crystals.Omega0();
+        var modes = new List<(double Omega, double Weight)>();
+        for (var k = cells / 2; k >= 1; k--)
+        {
+            modes.Add((omegaTop * Math.Abs(Math.Sin(Math.PI * k / cells)), 2.0 / cells));
+        }
+
+        for (var k = 1; k <= 50; k++)
+        {
+            modes.Add((omegaTop * 1.1e-7 * k, 1e-6));
+            modes.Add((omegaTop * 1e-11 * k, 1e-6));
+        }
+
+        modes.Add((omegaTop * 0.5, 0.0));
+        var masses = new[] { 30 * PhysicalConstants.AtomicMassKg };
+        var one = new ModeSink(Temperatures, 1, masses, displacements: false);
+        var many = new ModeSink(Temperatures, 1, masses, displacements: false);
+        one.PrepareBins(omegaTop, modes.Count);
+        many.PrepareBins(omegaTop, modes.Count);
+        Assert.True(many.IsBinning);
+        foreach (var (omega, weight) in modes)
+        {
+            one.Add(omega, weight, default);
+        }
+
+        var omegas = modes.Select(m => m.Omega).ToArray();
+        var weights = modes.Select(m => m.Weight).ToArray();
+        for (var first = 0; first < omegas.Length; first += 1_003)
+        {
+            var count = Math.Min(1_003, omegas.Length - first);
+            many.AddMany(omegas.AsSpan(first, count), weights.AsSpan(first, count));
+        }
+
+        Assert.Equal(one.StatesCounted, many.StatesCounted); // summed in the same order
+        for (var t = 0; t < Temperatures.Length; t++)
+        {
+            var a = one.Sums(t);
+            var b = many.Sums(t);
+            var at = $"T = {Temperatures[t]} K";
+            Tolerance.AssertClose(a.ZeroPoint, b.ZeroPoint, 1e-13, 0, $"zero point, {at}");
+            Tolerance.AssertClose(a.Internal, b.Internal, 1e-13, 0, $"U, {at}");
+            Tolerance.AssertClose(a.Entropy, b.Entropy, 1e-12, 1e-300, $"S, {at}");
+            Tolerance.AssertClose(a.HeatCapacity, b.HeatCapacity, 1e-12, 1e-300, $"Cv, {at}");
+            Tolerance.AssertClose(a.Free, b.Free, 1e-13, 0, $"F, {at}");
+        }
+
+        Tolerance.AssertClose(one.SumLnOmega, many.SumLnOmega, 1e-13, 0, "sum of ln omega");
+        Tolerance.AssertClose(one.SumOmegaSquared, many.SumOmegaSquared, 1e-13, 0, "sum of omega^2");
+        Tolerance.AssertClose(one.SumInverseOmegaSquared, many.SumInverseOmegaSquared, 1e-13, 0, "sum of omega^-2");
+    }
+
+    [Fact]
     public void Few_modes_are_summed_one_by_one()
     {
         // Binning pays only when the modes outnumber the bins' quadrature points.

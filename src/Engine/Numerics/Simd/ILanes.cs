@@ -38,6 +38,9 @@ internal interface ILanes<TSelf>
 
     static abstract TSelf Max(TSelf a, TSelf b);
 
+    /// <summary>The smaller of each lane, by the same rules as <see cref="Max"/> (-0 below +0).</summary>
+    static abstract TSelf Min(TSelf a, TSelf b);
+
     static abstract TSelf Sqrt(TSelf a);
 
     /// <summary>1 / a to about one ulp.</summary>

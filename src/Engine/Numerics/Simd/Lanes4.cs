@@ -50,6 +50,9 @@ internal readonly struct Lanes4 : ILanes<Lanes4>
     public static Lanes4 Max(Lanes4 a, Lanes4 b) => new(Vector256.Max(a._v, b._v));
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static Lanes4 Min(Lanes4 a, Lanes4 b) => new(Vector256.Min(a._v, b._v));
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes4 Sqrt(Lanes4 a) => new(Vector256.Sqrt(a._v));
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]

@@ -51,6 +51,9 @@ internal readonly struct Lanes8 : ILanes<Lanes8>
     public static Lanes8 Max(Lanes8 a, Lanes8 b) => new(Vector512.Max(a._v, b._v));
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static Lanes8 Min(Lanes8 a, Lanes8 b) => new(Vector512.Min(a._v, b._v));
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Lanes8 Sqrt(Lanes8 a) => new(Vector512.Sqrt(a._v));
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
