@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics.Simd;
 using LatticeSweep.Engine.Samples;
@@ -109,7 +110,8 @@ public static class PointCost
     /// displacements need them (otherwise pass 2 reads pass 1's eigenvalues back while they fit the
     /// solver's 8e6-value budget) and streams every mode into its sums; a bulk mesh solves its half
     /// set once (with vectors when asked) and the long waves along rays near q = 0
-    /// (<see cref="PhononSolver.LongWaveSolves"/>), and integrates tetrahedra over the fine DOS.
+    /// (<see cref="PhononSolver.LongWaveSolves"/>), and integrates tetrahedra over the fine DOS, one
+    /// mesh cube per orbit of the axis permutations <see cref="ExpectedMeshSymmetry"/> expects.
     /// </summary>
     public static Work WorkOf(CrystalModel model, Sample sample, SolveOptions options)
     {
@@ -158,9 +160,17 @@ public static class PointCost
                 var withVectors = vectors ? half : 0;
                 var fineBins = Math.Max(2048.0, options.DosBins);
 
-                // Simplices per mesh cell: intervals (1D), 2 triangles (2D), 6 tetrahedra (3D).
+                // Simplices per mesh cell: intervals (1D), 2 triangles (2D), 6 tetrahedra (3D). In 3D the
+                // tetrahedron sum integrates one cube per orbit of inversion and the axis permutations
+                // the spectrum has; counted as whole-mesh tetrahedra (twice the cubes integrated: the
+                // inversion pairing every 3D point has stays in the coefficient, as before), with the
+                // permutations expected from the model and mesh by a conservative rule (not for Gaussian
+                // broadening, which has no tetrahedra to save).
                 var simplices = model.Lattice.Dimension switch { 1 => 1.0, 2 => 2.0, _ => 6.0 };
-                return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, b.PointCount * n * simplices, temperatures * fineBins, conductivity);
+                var cells = model.Lattice.Dimension == 3 && options.DosMethod != DosMethod.Gaussian
+                    ? 2 * ExpectedMeshSymmetry.CubesIntegrated(model, b)
+                    : b.PointCount;
+                return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, cells * n * simplices, temperatures * fineBins, conductivity);
             }
 
             case RealSpaceSample:
