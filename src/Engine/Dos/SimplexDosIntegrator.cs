@@ -124,6 +124,7 @@ internal static class SimplexDosIntegrator
         // {g C, -g C} of the orbit (8 per class), and the number of distinct cubes in each class.
         var imageCorners = new int[8 * operations.Count];
         var classWeight = new double[operations.Count];
+        var orbitCornerWeights = useWeights && operations.Count > 1 ? new double[8 * branches * channels] : [];
         for (var i1 = 0; i1 < m1; i1++)
         {
             var j1 = i1 + 1 == m1 ? 0 : i1 + 1;
@@ -157,6 +158,10 @@ internal static class SimplexDosIntegrator
                     var orbitClasses = useWeights && operations.Count > 1
                         ? OrbitImageCorners(cubeBase, operations, orbit, (m1, m2, m3), imageCorners, classWeight)
                         : 0;
+                    if (orbitClasses > 0)
+                    {
+                        SumOverOrbit(branches * channels, weights!, imageCorners, classWeight, orbitClasses, orbitCornerWeights);
+                    }
 
                     // The box around q = 0 is inversion-symmetric: a cube and its image are both in or both out.
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
@@ -207,7 +212,7 @@ internal static class SimplexDosIntegrator
                         {
                             if (orbitClasses > 0)
                             {
-                                OrbitMeanWeight(t, b, branches, weights!, channels, imageCorners, classWeight, orbitClasses, orbitCubes, meanWeight);
+                                OrbitMeanWeight(t, b, branches, channels, orbitCornerWeights, orbitCubes, meanWeight);
                             }
                             else if (useWeights)
                             {
@@ -296,26 +301,46 @@ internal static class SimplexDosIntegrator
     }
 
     /// <summary>
-    /// The channel weights of tetrahedron t (its first corner index in <see cref="TetrahedronCorners"/>),
-    /// branch b, averaged over its four corners and over every cube of the orbit: the states the orbit's
-    /// tetrahedra add are the same in every bin (their corner frequencies agree), so the full sum's
-    /// amount x weight per cube is the amount x this mean, whatever the weights at the images are.
+    /// Per corner of the representative cube, the weights of every mode summed over the orbit's cubes
+    /// (the corner's image in each class, times the class's cube count): [corner * perPoint + i], where
+    /// a point's perPoint = branches x channels weights are contiguous.
     /// </summary>
-    private static void OrbitMeanWeight(
-        int t, int b, int branches, double[] weights, int channels, int[] imageCorners, double[] classWeight, int classes, int orbitCubes, double[] meanWeight)
+    private static void SumOverOrbit(int perPoint, double[] weights, int[] imageCorners, double[] classWeight, int classes, double[] sums)
     {
-        Array.Clear(meanWeight);
-        for (var k = 0; k < classes; k++)
+        for (var c = 0; c < 8; c++)
         {
-            var scale = classWeight[k] / (4.0 * orbitCubes);
-            for (var v = 0; v < 4; v++)
+            var target = sums.AsSpan(c * perPoint, perPoint);
+            target.Clear();
+            for (var k = 0; k < classes; k++)
             {
-                var baseIndex = (((long)imageCorners[(8 * k) + TetrahedronCorners[t + v]] * branches) + b) * channels;
-                for (var ch = 0; ch < channels; ch++)
+                var source = weights.AsSpan(imageCorners[(8 * k) + c] * perPoint, perPoint);
+                var scale = classWeight[k];
+                for (var i = 0; i < perPoint; i++)
                 {
-                    meanWeight[ch] += weights[baseIndex + ch] * scale;
+                    target[i] += source[i] * scale;
                 }
             }
+        }
+    }
+
+    /// <summary>
+    /// The channel weights of tetrahedron t (its first corner index in <see cref="TetrahedronCorners"/>),
+    /// branch b, averaged over its four corners and over every cube of the orbit (from
+    /// <see cref="SumOverOrbit"/>): the states the orbit's tetrahedra add are the same in every bin
+    /// (their corner frequencies agree), so the full sum's amount x weight per cube is the amount x
+    /// this mean, whatever the weights at the images are.
+    /// </summary>
+    private static void OrbitMeanWeight(int t, int b, int branches, int channels, double[] orbitCornerWeights, int orbitCubes, double[] meanWeight)
+    {
+        var perPoint = branches * channels;
+        var scale = 1.0 / (4.0 * orbitCubes);
+        var c0 = (TetrahedronCorners[t] * perPoint) + (b * channels);
+        var c1 = (TetrahedronCorners[t + 1] * perPoint) + (b * channels);
+        var c2 = (TetrahedronCorners[t + 2] * perPoint) + (b * channels);
+        var c3 = (TetrahedronCorners[t + 3] * perPoint) + (b * channels);
+        for (var ch = 0; ch < channels; ch++)
+        {
+            meanWeight[ch] = (orbitCornerWeights[c0 + ch] + orbitCornerWeights[c1 + ch] + orbitCornerWeights[c2 + ch] + orbitCornerWeights[c3 + ch]) * scale;
         }
     }
 
