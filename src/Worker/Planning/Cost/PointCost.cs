@@ -28,10 +28,9 @@ public static class PointCost
         double ModesStreamed,
         double SimplexWork,
         double TemperatureBins,
-        double ConductivityFlops,
-        double ChannelWeights = 0)
+        double ConductivityFlops)
     {
-        public double[] AsArray() => [1.0, FixedN3, EigenSolves, EigenSolvesN3, VectorSolves, VectorSolvesN3, ModesStreamed, SimplexWork, TemperatureBins, ConductivityFlops, ChannelWeights];
+        public double[] AsArray() => [1.0, FixedN3, EigenSolves, EigenSolvesN3, VectorSolves, VectorSolvesN3, ModesStreamed, SimplexWork, TemperatureBins, ConductivityFlops];
     }
 
     /// <summary>
@@ -39,44 +38,41 @@ public static class PointCost
     /// point, and per point x n^3 (compiling the model, sound speeds, the floppy check: a few
     /// solves of its own); per eigen-solve (values only) and per solve x n^3; the same with eigenvectors; per mode
     /// streamed into a finite crystal's sums; per bulk mesh simplex x branch; per
-    /// temperature x DOS bin; per conductivity flop-equivalent; per bulk mesh point x branch x channel
-    /// where channel weights are kept (partial DOS, displacements). One table per width of the Engine's
+    /// temperature x DOS bin; per conductivity flop-equivalent. One table per width of the Engine's
     /// batched kernels (<see cref="KernelWidth.ActiveBits"/>), each measured by `bench/run.sh cost` at
-    /// that width (non-negative least squares on the relative error of 25 solves' CPU time; figures and
+    /// that width (non-negative least squares on the relative error of 24 solves' CPU time; figures and
     /// each case's estimate / measured in bench/README.md): the eigen-solver and D(q) run twice as
     /// many lanes per instruction at 512 bits, the tetrahedra and thermal sums do not.
     /// </summary>
-    /// <remarks>Measured 2026-12-03 04:28 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 10.7-10.8), after the tetrahedra were counted per orbit of the axis permutations and channel weights got a term of their own.</remarks>
+    /// <remarks>Measured 2026-12-02 21:10 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 2.1-3.1), after bulk points counted their long-wave solves.</remarks>
     public static readonly double[] SecondsPerUnit512 =
     [
-        4.83e-4,   // per point
-        2.05e-8,   // per point x n^3
-        2.12e-8,   // per solve, values
-        4.10e-10,  // per solve x n^3, values
-        1.35e-6,   // per solve, vectors
-        3.72e-9,   // per solve x n^3, vectors
-        4.99e-8,   // per mode streamed (finite)
-        1.26e-7,   // per bulk mesh simplex x branch (3D: twice the cubes integrated)
-        5.42e-8,   // per temperature x bin
-        7.96e-10,  // per conductivity flop-equivalent
-        1.79e-8,   // per bulk mesh point x branch x channel weight
+        4.38e-4,   // per point
+        1.61e-8,   // per point x n^3
+        2.53e-8,   // per solve, values
+        4.44e-10,  // per solve x n^3, values
+        8.16e-7,   // per solve, vectors
+        1.93e-9,   // per solve x n^3, vectors
+        4.36e-8,   // per mode streamed (finite)
+        5.86e-8,   // per bulk mesh simplex x branch
+        3.51e-8,   // per temperature x bin
+        7.65e-10,  // per conductivity flop-equivalent
     ];
 
     /// <summary>As <see cref="SecondsPerUnit512"/>, for 256-bit kernels (AVX2 without AVX-512), measured with <c>DOTNET_EnableAVX512=0</c>.</summary>
-    /// <remarks>Measured 2026-12-03 04:28 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 10.8-14.3).</remarks>
+    /// <remarks>Measured 2026-12-02 21:10 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 2.1-4.5).</remarks>
     public static readonly double[] SecondsPerUnit256 =
     [
-        4.56e-4,   // per point
-        1.76e-8,   // per point x n^3
+        4.37e-4,   // per point
+        1.48e-8,   // per point x n^3
         0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
-        6.09e-10,  // per solve x n^3, values
-        1.48e-6,   // per solve, vectors
-        4.96e-9,   // per solve x n^3, vectors
-        6.51e-8,   // per mode streamed (finite)
-        1.52e-7,   // per bulk mesh simplex x branch (3D: twice the cubes integrated)
-        6.80e-8,   // per temperature x bin
-        7.72e-10,  // per conductivity flop-equivalent
-        1.35e-8,   // per bulk mesh point x branch x channel weight
+        6.02e-10,  // per solve x n^3, values
+        1.00e-6,   // per solve, vectors
+        2.69e-9,   // per solve x n^3, vectors
+        5.64e-8,   // per mode streamed (finite)
+        7.12e-8,   // per bulk mesh simplex x branch
+        4.71e-8,   // per temperature x bin
+        7.73e-10,  // per conductivity flop-equivalent
     ];
 
     /// <summary>
@@ -174,10 +170,7 @@ public static class PointCost
                 var cells = model.Lattice.Dimension == 3 && options.DosMethod != DosMethod.Gaussian
                     ? 2 * ExpectedMeshSymmetry.CubesIntegrated(model, b)
                     : b.PointCount;
-                // Channel weights (partial DOS, displacements): n per mode at every mesh point, written
-                // once and read at every cube of an orbit whether or not the permutations reduce it.
-                var channelWeights = vectors ? b.PointCount * n * n : 0;
-                return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, cells * n * simplices, temperatures * fineBins, conductivity, channelWeights);
+                return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, cells * n * simplices, temperatures * fineBins, conductivity);
             }
 
             case RealSpaceSample:
