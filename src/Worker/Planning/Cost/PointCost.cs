@@ -40,39 +40,39 @@ public static class PointCost
     /// streamed into a finite crystal's sums; per bulk mesh simplex x branch; per
     /// temperature x DOS bin; per conductivity flop-equivalent. One table per width of the Engine's
     /// batched kernels (<see cref="KernelWidth.ActiveBits"/>), each measured by `bench/run.sh cost` at
-    /// that width (non-negative least squares on the relative error of 24 solves' CPU time; figures and
+    /// that width (non-negative least squares on the relative error of 26 solves' CPU time; figures and
     /// each case's estimate / measured in bench/README.md): the eigen-solver and D(q) run twice as
     /// many lanes per instruction at 512 bits, the tetrahedra and thermal sums do not.
     /// </summary>
-    /// <remarks>Measured 2026-12-02 21:10 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 2.1-3.1), after bulk points counted their long-wave solves.</remarks>
+    /// <remarks>Measured 2026-12-03 04:34 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 24.7-27.8, so process CPU time), after the tetrahedra were counted per orbit of the axis permutations.</remarks>
     public static readonly double[] SecondsPerUnit512 =
     [
-        4.38e-4,   // per point
-        1.61e-8,   // per point x n^3
-        2.53e-8,   // per solve, values
-        4.44e-10,  // per solve x n^3, values
-        8.16e-7,   // per solve, vectors
-        1.93e-9,   // per solve x n^3, vectors
-        4.36e-8,   // per mode streamed (finite)
-        5.86e-8,   // per bulk mesh simplex x branch
-        3.51e-8,   // per temperature x bin
-        7.65e-10,  // per conductivity flop-equivalent
+        4.92e-4,   // per point
+        1.82e-8,   // per point x n^3
+        0,         // per solve, values (absorbed by the n^3 term)
+        4.18e-10,  // per solve x n^3, values
+        8.62e-7,   // per solve, vectors
+        3.32e-9,   // per solve x n^3, vectors
+        5.64e-8,   // per mode streamed (finite)
+        1.37e-7,   // per bulk mesh simplex x branch (3D: twice the cubes integrated)
+        4.77e-8,   // per temperature x bin
+        7.96e-10,  // per conductivity flop-equivalent
     ];
 
     /// <summary>As <see cref="SecondsPerUnit512"/>, for 256-bit kernels (AVX2 without AVX-512), measured with <c>DOTNET_EnableAVX512=0</c>.</summary>
-    /// <remarks>Measured 2026-12-02 21:10 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 2.1-4.5).</remarks>
+    /// <remarks>Measured 2026-12-03 04:34 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 27.8-25.2).</remarks>
     public static readonly double[] SecondsPerUnit256 =
     [
-        4.37e-4,   // per point
-        1.48e-8,   // per point x n^3
+        4.87e-4,   // per point
+        2.52e-8,   // per point x n^3
         0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
-        6.02e-10,  // per solve x n^3, values
-        1.00e-6,   // per solve, vectors
-        2.69e-9,   // per solve x n^3, vectors
-        5.64e-8,   // per mode streamed (finite)
-        7.12e-8,   // per bulk mesh simplex x branch
-        4.71e-8,   // per temperature x bin
-        7.73e-10,  // per conductivity flop-equivalent
+        6.33e-10,  // per solve x n^3, values
+        1.22e-6,   // per solve, vectors
+        5.10e-9,   // per solve x n^3, vectors
+        6.23e-8,   // per mode streamed (finite)
+        1.43e-7,   // per bulk mesh simplex x branch (3D: twice the cubes integrated)
+        6.74e-8,   // per temperature x bin
+        8.01e-10,  // per conductivity flop-equivalent
     ];
 
     /// <summary>
