@@ -36,6 +36,9 @@ public sealed class PointCostSymmetryTests
         Assert.Equal(orbits, ExpectedMeshSymmetry.CubesIntegrated(cubic, mesh));
         Assert.Equal(2 * orbits * 6 * 6, work.SimplexWork);
 
+        // The long waves, solved with eigenvectors where channel weights are kept, have a term of their own.
+        Assert.Equal(channels ? PhononSolver.LongWaveSolves(cubic, mesh, options) : 0, work.LongWaveVectorSolves);
+
         // fcc with its primitive vectors of three lengths: the whole mesh, as before the reduction.
         var a = 0.56;
         var strained = TwoSite(Lattice.Explicit([new Vec3(0, 0.5 * a, 0.5 * a), new Vec3(0.51 * a, 0, 0.5 * a), new Vec3(0.5 * a, 0.52 * a, 0)]));
