@@ -8,13 +8,19 @@ namespace LatticeSweep.Bench;
 /// <summary>Cases (b), (c), (d): one whole point through <see cref="PhononSolver.Solve"/>, end to end.</summary>
 internal static class SolveCase
 {
-    public static (PointResult Result, Timing.Result Time) Run(CaseFile cases, string section, bool finite, int warmups, int repeats)
+    /// <param name="jobDefaults">Keep partial DOS and displacements, as a job file does by default.</param>
+    public static (PointResult Result, Timing.Result Time) Run(CaseFile cases, string section, bool finite, int warmups, int repeats, bool jobDefaults = false)
     {
         var s = cases.Section(section);
         var model = cases.Model(s.GetProperty("model").GetString()!);
         var counts = CaseFile.Ints(s.GetProperty(finite ? "cells" : "mesh"));
         Sample sample = finite ? FiniteSample.Create(counts[0], counts[1], counts[2]) : BulkSample.Create(counts[0], counts[1], counts[2]);
         var options = Options(cases, s.GetProperty("dos_bins").GetInt32());
+        if (jobDefaults)
+        {
+            options = options with { PartialDos = true, MeanSquareDisplacement = true };
+        }
+
         PointResult? result = null;
         var time = Timing.Measure(() => result = PhononSolver.Solve(model, sample, options), warmups, repeats);
         return (result!, time);

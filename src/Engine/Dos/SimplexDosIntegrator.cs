@@ -24,7 +24,7 @@ internal static class SimplexDosIntegrator
     /// <param name="longWaves">Cells whose lowest branches are integrated elsewhere (<see cref="LongWaveRegion"/>); they skip those branches here.</param>
     /// <param name="moments">Per-bin moments of the states (1D and 2D only; the 3D path ignores them).</param>
     /// <param name="vectors">3D only: the 256-bit tetrahedron kernel (true), the scalar one (false), or the process default (null); same bits either way.</param>
-    /// <param name="axisPermutations">3D without channel weights only: permutations of the mesh axes that leave the frequencies unchanged (<see cref="MeshAxisPermutations.Find"/>); one cube per orbit is integrated. Null: inversion alone.</param>
+    /// <param name="axisPermutations">3D only: permutations of the mesh axes that leave the frequencies unchanged (<see cref="MeshAxisPermutations.Find"/>); one cube per orbit is integrated, its channel weights the mean over the orbit's cubes (read where they are, so they need no symmetry of their own). Null: inversion alone.</param>
     public static void Accumulate(
         int dimension, (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz,
         double[]? weights, int channels, FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves = null, BinMoments? moments = null, bool? vectors = null,
@@ -34,11 +34,6 @@ internal static class SimplexDosIntegrator
         var cells = (long)m1 * m2 * m3;
         if (dimension == 3)
         {
-            if (axisPermutations is not null && weights is not null && channels > 0 && axisPermutations.Order > 1)
-            {
-                throw new ArgumentException("axis permutations apply to the total density only (channel weights permute with the sites)", nameof(axisPermutations));
-            }
-
             AccumulateTetrahedra(mesh, branches, frequencyThz, weights, channels, grid, total, partial, longWaves, vectors ?? TetrahedronBins.VectorsByDefault, axisPermutations ?? MeshAxisPermutations.None);
             return;
         }
@@ -109,7 +104,10 @@ internal static class SimplexDosIntegrator
         // at i onto the one based at -(i + 1), carrying the six-tetrahedra split onto itself. So a cube
         // and its image add the same states: visit one of each pair, twice the share. Axis permutations
         // that leave the frequencies unchanged map cubes and their splits onto each other likewise:
-        // one cube per orbit, the orbit's count times the share.
+        // one cube per orbit, the orbit's count times the share. Channel weights are not assumed to
+        // follow (a degenerate mode's split among channels is the eigen-solver's choice, and a site
+        // map would have to be proven): each orbit tetrahedron's weights are read at its own corners
+        // and averaged over the orbit, so the partial sums are the full sum's to round-off.
         // The vector kernel sets up a cube's tetrahedra four at a time (PrepareBatch), in the order
         // the loop below adds them: tetrahedron by tetrahedron, branch by branch.
         var batch = 6 * branches;
@@ -121,6 +119,12 @@ internal static class SimplexDosIntegrator
         var operations = axisPermutations.Permutations;
         Span<int> cubeBase = stackalloc int[3];
         Span<int> orbit = stackalloc int[2 * operations.Count];
+
+        // With channel weights and permutations: the mesh points at the corners of one cube per class
+        // {g C, -g C} of the orbit (8 per class), and the number of distinct cubes in each class.
+        var imageCorners = new int[8 * operations.Count];
+        var classWeight = new double[operations.Count];
+        var orbitCornerWeights = useWeights && operations.Count > 1 ? new double[8 * branches * channels] : [];
         for (var i1 = 0; i1 < m1; i1++)
         {
             var j1 = i1 + 1 == m1 ? 0 : i1 + 1;
@@ -149,7 +153,15 @@ internal static class SimplexDosIntegrator
                         continue;
                     }
 
-                    var cubeShare = share * DistinctCount(orbit);
+                    var orbitCubes = DistinctCount(orbit);
+                    var cubeShare = share * orbitCubes;
+                    var orbitClasses = useWeights && operations.Count > 1
+                        ? OrbitImageCorners(cubeBase, operations, orbit, (m1, m2, m3), imageCorners, classWeight)
+                        : 0;
+                    if (orbitClasses > 0)
+                    {
+                        SumOverOrbit(branches * channels, weights!, imageCorners, classWeight, orbitClasses, orbitCornerWeights);
+                    }
 
                     // The box around q = 0 is inversion-symmetric: a cube and its image are both in or both out.
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
@@ -198,7 +210,11 @@ internal static class SimplexDosIntegrator
                         var c3 = corners[TetrahedronCorners[t + 3]] * branches;
                         for (var b = firstBranch; b < branches; b++)
                         {
-                            if (useWeights)
+                            if (orbitClasses > 0)
+                            {
+                                OrbitMeanWeight(t, b, branches, channels, orbitCornerWeights, orbitCubes, meanWeight);
+                            }
+                            else if (useWeights)
                             {
                                 Array.Clear(meanWeight);
                                 foreach (var c in (ReadOnlySpan<int>)[c0, c1, c2, c3])
@@ -234,6 +250,97 @@ internal static class SimplexDosIntegrator
             {
                 partial[(ch * grid.Bins) + bin] += paddedPartial[(ch * stride) + bin];
             }
+        }
+    }
+
+    /// <summary>
+    /// The orbit's cubes by class {g C, -g C} (a class is two cubes, or one where -g C = g C; classes are
+    /// equal or disjoint since inversion commutes with the permutations): for each class, the mesh
+    /// points at the corners of g C in the order of C's corners (corner c of C at offsets o goes to the
+    /// point whose index along axis a is base[p[a]] + o[p[a]]), and the class's cube count. -g C needs no
+    /// corners of its own: its points are the negatives of g C's, whose weights are the same.
+    /// Returns the number of classes.
+    /// </summary>
+    private static int OrbitImageCorners(
+        ReadOnlySpan<int> cubeBase, IReadOnlyList<int[]> operations, ReadOnlySpan<int> orbit, (int M1, int M2, int M3) mesh,
+        int[] imageCorners, double[] classWeight)
+    {
+        var (m1, m2, m3) = mesh;
+        var classes = 0;
+        Span<int> low = stackalloc int[3];
+        Span<int> high = stackalloc int[3];
+        ReadOnlySpan<int> counts = [m1, m2, m3];
+        for (var g = 0; g < operations.Count; g++)
+        {
+            if (orbit[..(2 * g)].Contains(orbit[2 * g]))
+            {
+                continue;
+            }
+
+            var p = operations[g];
+            for (var a = 0; a < 3; a++)
+            {
+                low[a] = cubeBase[p[a]];
+                high[a] = low[a] + 1 == counts[a] ? 0 : low[a] + 1;
+            }
+
+            for (var c = 0; c < 8; c++)
+            {
+                // Bit p[a] of c is the offset along the axis the image's axis a takes its index from.
+                var n1 = ((c >> p[0]) & 1) == 0 ? low[0] : high[0];
+                var n2 = ((c >> p[1]) & 1) == 0 ? low[1] : high[1];
+                var n3 = ((c >> p[2]) & 1) == 0 ? low[2] : high[2];
+                imageCorners[(8 * classes) + c] = ((n1 * m2) + n2) * m3 + n3;
+            }
+
+            classWeight[classes] = orbit[2 * g] == orbit[(2 * g) + 1] ? 1 : 2;
+            classes++;
+        }
+
+        return classes;
+    }
+
+    /// <summary>
+    /// Per corner of the representative cube, the weights of every mode summed over the orbit's cubes
+    /// (the corner's image in each class, times the class's cube count): [corner * perPoint + i], where
+    /// a point's perPoint = branches x channels weights are contiguous.
+    /// </summary>
+    private static void SumOverOrbit(int perPoint, double[] weights, int[] imageCorners, double[] classWeight, int classes, double[] sums)
+    {
+        for (var c = 0; c < 8; c++)
+        {
+            var target = sums.AsSpan(c * perPoint, perPoint);
+            target.Clear();
+            for (var k = 0; k < classes; k++)
+            {
+                var source = weights.AsSpan(imageCorners[(8 * k) + c] * perPoint, perPoint);
+                var scale = classWeight[k];
+                for (var i = 0; i < perPoint; i++)
+                {
+                    target[i] += source[i] * scale;
+                }
+            }
+        }
+    }
+
+    /// <summary>
+    /// The channel weights of tetrahedron t (its first corner index in <see cref="TetrahedronCorners"/>),
+    /// branch b, averaged over its four corners and over every cube of the orbit (from
+    /// <see cref="SumOverOrbit"/>): the states the orbit's tetrahedra add are the same in every bin
+    /// (their corner frequencies agree), so the full sum's amount x weight per cube is the amount x
+    /// this mean, whatever the weights at the images are.
+    /// </summary>
+    private static void OrbitMeanWeight(int t, int b, int branches, int channels, double[] orbitCornerWeights, int orbitCubes, double[] meanWeight)
+    {
+        var perPoint = branches * channels;
+        var scale = 1.0 / (4.0 * orbitCubes);
+        var c0 = (TetrahedronCorners[t] * perPoint) + (b * channels);
+        var c1 = (TetrahedronCorners[t + 1] * perPoint) + (b * channels);
+        var c2 = (TetrahedronCorners[t + 2] * perPoint) + (b * channels);
+        var c3 = (TetrahedronCorners[t + 3] * perPoint) + (b * channels);
+        for (var ch = 0; ch < channels; ch++)
+        {
+            meanWeight[ch] = (orbitCornerWeights[c0 + ch] + orbitCornerWeights[c1 + ch] + orbitCornerWeights[c2 + ch] + orbitCornerWeights[c3 + ch]) * scale;
         }
     }
 

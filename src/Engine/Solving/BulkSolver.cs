@@ -21,6 +21,17 @@ internal static class BulkSolver
     /// </summary>
     public const int FineBinsTarget = 2048;
 
+    /// <summary>
+    /// Tests only: integrate every cube (inversion pairs alone) on this thread, the reference the
+    /// reduction by axis permutations is held to.
+    /// </summary>
+    [ThreadStatic]
+    internal static bool FullTetrahedronSumOnThisThread;
+
+    /// <summary>Tests only: the order of the axis-permutation group the last 3D tetrahedron solve on this thread found (1: none).</summary>
+    [ThreadStatic]
+    internal static int LastAxisPermutationOrderOnThisThread;
+
     public static long EstimateBytes(long meshPoints, int branches, bool weights) =>
         meshPoints * branches * 8L * (weights ? 1 + branches : 1);
 
@@ -150,10 +161,11 @@ internal static class BulkSolver
         }
         else
         {
-            // Without channel weights the cubic axis permutations (where the spectrum has them) cut the
-            // tetrahedra sixfold; the weights permute with the sites, so they keep the full sum.
+            // The cubic axis permutations (where the spectrum has them) cut the tetrahedra sixfold; the
+            // channel weights (partial DOS, displacements) are read at every cube of an orbit and averaged.
             var mesh = (sample.M1, sample.M2, sample.M3);
-            var axisPermutations = dimension == 3 && weights is null ? MeshAxisPermutations.Find(mesh, n, frequencies, longWaves?.Box, Math.Max(-lowest, highest)) : null;
+            var axisPermutations = dimension == 3 && !FullTetrahedronSumOnThisThread ? MeshAxisPermutations.Find(mesh, n, frequencies, longWaves?.Box, Math.Max(-lowest, highest)) : null;
+            LastAxisPermutationOrderOnThisThread = axisPermutations?.Order ?? 1;
             SimplexDosIntegrator.Accumulate(dimension, mesh, n, frequencies, weights, weights is null ? 0 : n, fine, total, partial, longWaves?.Box, moments, axisPermutations: axisPermutations);
         }
 

@@ -8,7 +8,8 @@ namespace LatticeSweep.Engine.Tests.Dos;
 /// The axis permutations the tetrahedron sum may use: found only where the frequencies have them
 /// (invented random fields with a chosen symmetry), and the sum over one cube per orbit against the
 /// full sum over every cube (itself held to the plain loop of Bloechl, Jepsen and Andersen 1994,
-/// eq. A2-A4, in <see cref="SimplexDosIntegratorTests"/>): the same states to round-off.
+/// eq. A2-A4, in <see cref="SimplexDosIntegratorTests"/>): the same states, total and per channel, to
+/// round-off, channel weights without any symmetry included.
 /// </summary>
 public sealed class MeshAxisPermutationsTests
 {
@@ -138,17 +139,141 @@ public sealed class MeshAxisPermutationsTests
         Assert.Equal(results[1], results[0]);
     }
 
-    [Fact]
-    public void Channel_weights_are_refused_with_permutations()
+    [Theory]
+    [InlineData(6, 6, 6, true, false)]
+    [InlineData(7, 7, 7, false, false)]
+    [InlineData(8, 8, 8, true, true)]
+    [InlineData(8, 8, 8, false, true)]
+    [InlineData(6, 6, 5, true, false)]
+    public void One_cube_per_orbit_adds_the_channel_states_of_every_cube(int m1, int m2, int m3, bool vectors, bool withBox)
     {
-        const int branches = 2;
-        var frequencies = Field((4, 4, 4), branches, AllSix, seed: 10);
-        var permutations = MeshAxisPermutations.Find((4, 4, 4), branches, frequencies, null);
-        var weights = Enumerable.Repeat(0.5, frequencies.Length * 2).ToArray();
-        var grid = FrequencyGrid.Covering(0, frequencies.Max(), 10);
-        var error = Assert.Throws<ArgumentException>(() => SimplexDosIntegrator.Accumulate(
-            3, (4, 4, 4), branches, frequencies, weights, 2, grid, new double[grid.Bins], new double[2 * grid.Bins], axisPermutations: permutations));
-        Assert.Contains("channel weights", error.Message);
+        // The weights are random at every mesh point (equal only at q and -q, as the solver's are): they
+        // have none of the frequencies' symmetry, and the orbit still gives the full sum's partial states.
+        const int branches = 3;
+        const int channels = 4;
+        var frequencies = Field((m1, m2, m3), branches, AllSix, seed: m1 + (2 * m3));
+        var weights = InversionEvenWeights((m1, m2, m3), branches, channels, seed: m1);
+        LongWaveBox? box = withBox ? new LongWaveBox(2, 2, 2, 1) : null;
+        var permutations = MeshAxisPermutations.Find((m1, m2, m3), branches, frequencies, box);
+        Assert.Equal(m1 == m3 ? 6 : 2, permutations.Order);
+        foreach (var bins in new[] { 3, 40, 900 })
+        {
+            var grid = FrequencyGrid.Covering(0, frequencies.Max(), bins);
+            var (full, fullPartial) = (new double[grid.Bins], new double[channels * grid.Bins]);
+            SimplexDosIntegrator.Accumulate(3, (m1, m2, m3), branches, frequencies, weights, channels, grid, full, fullPartial, box, vectors: vectors);
+            var (reduced, reducedPartial) = (new double[grid.Bins], new double[channels * grid.Bins]);
+            SimplexDosIntegrator.Accumulate(3, (m1, m2, m3), branches, frequencies, weights, channels, grid, reduced, reducedPartial, box, vectors: vectors, axisPermutations: permutations);
+
+            Tolerance.AssertAllClose(full, reduced, 1e-12, 1e-16, $"total per bin, {bins} bins");
+            Tolerance.AssertAllClose(fullPartial, reducedPartial, 1e-12, 1e-16, $"channel states per bin, {bins} bins");
+            for (var ch = 0; ch < channels; ch++)
+            {
+                Tolerance.AssertClose(fullPartial.AsSpan(ch * grid.Bins, grid.Bins).ToArray().Sum(), reducedPartial.AsSpan(ch * grid.Bins, grid.Bins).ToArray().Sum(), 1e-13, 0, $"states of channel {ch}");
+            }
+        }
+    }
+
+    [Fact]
+    public void A_channel_held_by_one_point_and_its_inverse_gets_their_states_exactly()
+    {
+        // Weights that break the symmetry as far as they can: one point off every mirror (and its
+        // inverse, as the solver's weights are even) carries channel 1, every other point channel 0.
+        // The representative cubes of most orbits do not touch that point: only reading the images'
+        // weights gives it its states.
+        const int branches = 1;
+        const int channels = 2;
+        var mesh = (6, 6, 6);
+        var frequencies = Field(mesh, branches, AllSix, seed: 11);
+        var weights = new double[frequencies.Length * channels];
+        for (var p = 0; p < frequencies.Length; p++)
+        {
+            weights[p * channels] = 1;
+        }
+
+        // One point and its inverse, (-2, -1, 1) and (2, 1, -1), off every mirror: all of channel 1.
+        foreach (var point in new[] { ((1 * 6) + 2) * 6 + 4, ((5 * 6) + 4) * 6 + 2 })
+        {
+            (weights[point * channels], weights[(point * channels) + 1]) = (0, 1);
+        }
+
+        var permutations = MeshAxisPermutations.Find(mesh, branches, frequencies, null);
+        var grid = FrequencyGrid.Covering(0, frequencies.Max(), 50);
+        var (full, fullPartial) = (new double[grid.Bins], new double[channels * grid.Bins]);
+        SimplexDosIntegrator.Accumulate(3, mesh, branches, frequencies, weights, channels, grid, full, fullPartial);
+        var (reduced, reducedPartial) = (new double[grid.Bins], new double[channels * grid.Bins]);
+        SimplexDosIntegrator.Accumulate(3, mesh, branches, frequencies, weights, channels, grid, reduced, reducedPartial, axisPermutations: permutations);
+
+        // A point is corner c = 0..7 of one cube each; corners 0 and 7 lie in all six tetrahedra, the
+        // others in two, each tetrahedron 1/6 of a cube's 1/216 and a corner 1/4 of its weight:
+        // (6 + 6 x 2 + 6) / (6 x 4 x 216) = 1/216 per point (common practice, no source).
+        var channelOne = reducedPartial.AsSpan(grid.Bins, grid.Bins).ToArray().Sum();
+        Tolerance.AssertClose(2.0 / 216, channelOne, 1e-12, 0, "states of channel 1");
+        Tolerance.AssertAllClose(fullPartial, reducedPartial, 1e-12, 1e-16, "channel states per bin");
+    }
+
+    [Fact]
+    public void Vector_and_scalar_kernels_give_the_same_bits_with_permutations_and_weights()
+    {
+        if (!System.Runtime.Intrinsics.X86.Avx2.IsSupported)
+        {
+            return; // no AVX2: the vector kernel is the scalar one here
+        }
+
+        const int branches = 3;
+        const int channels = 3;
+        var frequencies = Field((9, 9, 9), branches, AllSix, seed: 12);
+        var weights = InversionEvenWeights((9, 9, 9), branches, channels, seed: 12);
+        var permutations = MeshAxisPermutations.Find((9, 9, 9), branches, frequencies, null);
+        var grid = FrequencyGrid.Covering(0, frequencies.Max(), 2200);
+        var results = new[] { true, false }.Select(vectors =>
+        {
+            var (total, partial) = (new double[grid.Bins], new double[channels * grid.Bins]);
+            SimplexDosIntegrator.Accumulate(3, (9, 9, 9), branches, frequencies, weights, channels, grid, total, partial, vectors: vectors, axisPermutations: permutations);
+            return (total, partial);
+        }).ToArray();
+
+        Assert.Equal(6, permutations.Order);
+        Assert.Equal(results[1].total, results[0].total);
+        Assert.Equal(results[1].partial, results[0].partial);
+    }
+
+    /// <summary>
+    /// Random channel weights per mode (summing to 1), the same at q and -q and nowhere else alike.
+    /// </summary>
+    private static double[] InversionEvenWeights((int M1, int M2, int M3) mesh, int branches, int channels, int seed)
+    {
+        var (m1, m2, m3) = mesh;
+        var random = new Random(seed);
+        var weights = new double[m1 * m2 * m3 * branches * channels];
+        for (var i1 = 0; i1 < m1; i1++)
+        {
+            for (var i2 = 0; i2 < m2; i2++)
+            {
+                for (var i3 = 0; i3 < m3; i3++)
+                {
+                    var point = ((i1 * m2) + i2) * m3 + i3;
+                    var n = new[] { Wrap(-(i1 - (m1 / 2)), m1), Wrap(-(i2 - (m2 / 2)), m2), Wrap(-(i3 - (m3 / 2)), m3) };
+                    var partner = (((n[0] + (m1 / 2)) * m2) + n[1] + (m2 / 2)) * m3 + n[2] + (m3 / 2);
+                    if (partner < point)
+                    {
+                        Array.Copy(weights, partner * branches * channels, weights, point * branches * channels, branches * channels);
+                        continue;
+                    }
+
+                    for (var b = 0; b < branches; b++)
+                    {
+                        var values = Enumerable.Range(0, channels).Select(_ => random.NextDouble() + 0.01).ToArray();
+                        var sum = values.Sum();
+                        for (var ch = 0; ch < channels; ch++)
+                        {
+                            weights[(((point * branches) + b) * channels) + ch] = values[ch] / sum;
+                        }
+                    }
+                }
+            }
+        }
+
+        return weights;
     }
 
     /// <summary>

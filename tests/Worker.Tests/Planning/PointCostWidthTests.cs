@@ -25,7 +25,7 @@ public sealed class PointCostWidthTests
     [Fact]
     public void Every_table_has_a_non_negative_coefficient_per_work_term_and_the_scalar_path_takes_the_256_bit_one()
     {
-        var terms = new PointCost.Work(1, 1, 1, 1, 1, 1, 1, 1, 1).AsArray().Length;
+        var terms = new PointCost.Work(1, 1, 1, 1, 1, 1, 1, 1, 1, 1).AsArray().Length;
         foreach (var table in new[] { PointCost.SecondsPerUnit512, PointCost.SecondsPerUnit256 })
         {
             Assert.Equal(terms, table.Length);

@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics.Simd;
 using LatticeSweep.Engine.Samples;
@@ -27,9 +28,10 @@ public static class PointCost
         double ModesStreamed,
         double SimplexWork,
         double TemperatureBins,
-        double ConductivityFlops)
+        double ConductivityFlops,
+        double LongWaveVectorSolves = 0)
     {
-        public double[] AsArray() => [1.0, FixedN3, EigenSolves, EigenSolvesN3, VectorSolves, VectorSolvesN3, ModesStreamed, SimplexWork, TemperatureBins, ConductivityFlops];
+        public double[] AsArray() => [1.0, FixedN3, EigenSolves, EigenSolvesN3, VectorSolves, VectorSolvesN3, ModesStreamed, SimplexWork, TemperatureBins, ConductivityFlops, LongWaveVectorSolves];
     }
 
     /// <summary>
@@ -37,41 +39,44 @@ public static class PointCost
     /// point, and per point x n^3 (compiling the model, sound speeds, the floppy check: a few
     /// solves of its own); per eigen-solve (values only) and per solve x n^3; the same with eigenvectors; per mode
     /// streamed into a finite crystal's sums; per bulk mesh simplex x branch; per
-    /// temperature x DOS bin; per conductivity flop-equivalent. One table per width of the Engine's
+    /// temperature x DOS bin; per conductivity flop-equivalent; per long-wave solve of a bulk point
+    /// with eigenvectors (over its share as a solve). One table per width of the Engine's
     /// batched kernels (<see cref="KernelWidth.ActiveBits"/>), each measured by `bench/run.sh cost` at
-    /// that width (non-negative least squares on the relative error of 24 solves' CPU time; figures and
+    /// that width (non-negative least squares on the relative error of 26 solves' CPU time; figures and
     /// each case's estimate / measured in bench/README.md): the eigen-solver and D(q) run twice as
     /// many lanes per instruction at 512 bits, the tetrahedra and thermal sums do not.
     /// </summary>
-    /// <remarks>Measured 2026-12-02 21:10 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 2.1-3.1), after bulk points counted their long-wave solves.</remarks>
+    /// <remarks>Measured 2026-12-03 04:42 UTC, `LatticeSweep.Bench cost --repeats 5` on the AVX-512 machine (load average 12.4-11.8, so process CPU time), after the tetrahedra were counted per orbit of the axis permutations.</remarks>
     public static readonly double[] SecondsPerUnit512 =
     [
-        4.38e-4,   // per point
-        1.61e-8,   // per point x n^3
-        2.53e-8,   // per solve, values
-        4.44e-10,  // per solve x n^3, values
-        8.16e-7,   // per solve, vectors
-        1.93e-9,   // per solve x n^3, vectors
-        4.36e-8,   // per mode streamed (finite)
-        5.86e-8,   // per bulk mesh simplex x branch
-        3.51e-8,   // per temperature x bin
-        7.65e-10,  // per conductivity flop-equivalent
+        4.51e-4,   // per point
+        1.84e-8,   // per point x n^3
+        0,         // per solve, values (absorbed by the n^3 term)
+        4.37e-10,  // per solve x n^3, values
+        8.94e-7,   // per solve, vectors
+        2.33e-9,   // per solve x n^3, vectors
+        5.63e-8,   // per mode streamed (finite)
+        1.32e-7,   // per bulk mesh simplex x branch (3D: twice the cubes integrated)
+        5.06e-8,   // per temperature x bin
+        7.51e-10,  // per conductivity flop-equivalent
+        1.12e-5,   // per long-wave solve with eigenvectors (bulk), on top of its count among the solves
     ];
 
     /// <summary>As <see cref="SecondsPerUnit512"/>, for 256-bit kernels (AVX2 without AVX-512), measured with <c>DOTNET_EnableAVX512=0</c>.</summary>
-    /// <remarks>Measured 2026-12-02 21:10 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 2.1-4.5).</remarks>
+    /// <remarks>Measured 2026-12-03 04:42 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 11.8-11.2).</remarks>
     public static readonly double[] SecondsPerUnit256 =
     [
-        4.37e-4,   // per point
-        1.48e-8,   // per point x n^3
+        4.49e-4,   // per point
+        2.44e-8,   // per point x n^3
         0,         // per solve, values (absorbed by the n^3 term over n = 1 to 96)
-        6.02e-10,  // per solve x n^3, values
-        1.00e-6,   // per solve, vectors
-        2.69e-9,   // per solve x n^3, vectors
-        5.64e-8,   // per mode streamed (finite)
-        7.12e-8,   // per bulk mesh simplex x branch
-        4.71e-8,   // per temperature x bin
-        7.73e-10,  // per conductivity flop-equivalent
+        6.33e-10,  // per solve x n^3, values
+        7.53e-7,   // per solve, vectors
+        5.19e-9,   // per solve x n^3, vectors
+        6.45e-8,   // per mode streamed (finite)
+        1.31e-7,   // per bulk mesh simplex x branch (3D: twice the cubes integrated)
+        7.42e-8,   // per temperature x bin
+        7.76e-10,  // per conductivity flop-equivalent
+        1.18e-5,   // per long-wave solve with eigenvectors (bulk), on top of its count among the solves
     ];
 
     /// <summary>
@@ -109,7 +114,8 @@ public static class PointCost
     /// displacements need them (otherwise pass 2 reads pass 1's eigenvalues back while they fit the
     /// solver's 8e6-value budget) and streams every mode into its sums; a bulk mesh solves its half
     /// set once (with vectors when asked) and the long waves along rays near q = 0
-    /// (<see cref="PhononSolver.LongWaveSolves"/>), and integrates tetrahedra over the fine DOS.
+    /// (<see cref="PhononSolver.LongWaveSolves"/>), and integrates tetrahedra over the fine DOS, one
+    /// mesh cube per orbit of the axis permutations <see cref="ExpectedMeshSymmetry"/> expects.
     /// </summary>
     public static Work WorkOf(CrystalModel model, Sample sample, SolveOptions options)
     {
@@ -153,14 +159,25 @@ public static class PointCost
             case BulkSample b:
             {
                 // The mesh's half set, and the long-wave solves along rays near q = 0 (a fixed number per point).
-                var half = ((b.PointCount + 1) / 2.0) + PhononSolver.LongWaveSolves(model, b, options);
+                var longWaves = PhononSolver.LongWaveSolves(model, b, options);
+                var half = ((b.PointCount + 1) / 2.0) + longWaves;
                 var values = vectors ? 0 : half;
                 var withVectors = vectors ? half : 0;
                 var fineBins = Math.Max(2048.0, options.DosBins);
 
-                // Simplices per mesh cell: intervals (1D), 2 triangles (2D), 6 tetrahedra (3D).
+                // Simplices per mesh cell: intervals (1D), 2 triangles (2D), 6 tetrahedra (3D). In 3D the
+                // tetrahedron sum integrates one cube per orbit of inversion and the axis permutations
+                // the spectrum has; counted as whole-mesh tetrahedra (twice the cubes integrated: the
+                // inversion pairing every 3D point has stays in the coefficient, as before), with the
+                // permutations expected from the model and mesh by a conservative rule (not for Gaussian
+                // broadening, which has no tetrahedra to save).
                 var simplices = model.Lattice.Dimension switch { 1 => 1.0, 2 => 2.0, _ => 6.0 };
-                return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, b.PointCount * n * simplices, temperatures * fineBins, conductivity);
+                var cells = model.Lattice.Dimension == 3 && options.DosMethod != DosMethod.Gaussian
+                    ? 2 * ExpectedMeshSymmetry.CubesIntegrated(model, b)
+                    : b.PointCount;
+                // With eigenvectors the long waves cost more than mesh solves (their channel fractions,
+                // one ray at a time): a term of their own, on top of their count among the solves.
+                return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, cells * n * simplices, temperatures * fineBins, conductivity, vectors ? longWaves : 0);
             }
 
             case RealSpaceSample:
