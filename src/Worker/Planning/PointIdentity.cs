@@ -64,7 +64,7 @@ internal static class PointIdentity
     /// </summary>
     public static ulong PointKey(BoundSpec spec, SolveOptions options, string[] sortedNames, object[] valuesInNameOrder)
     {
-        var w = (_writer ??= new CanonicalWriter(2048)).Clear();
+        var w = (_writer ??= new CanonicalWriter(2048, cacheNumbers: true)).Clear();
         CanonicalSpec.Write(w, spec, options).Append("--\n"u8);
         for (var i = 0; i < sortedNames.Length; i++)
         {
