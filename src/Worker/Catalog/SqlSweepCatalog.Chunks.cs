@@ -16,7 +16,17 @@ public abstract partial class SqlSweepCatalog
     /// <summary>A chunk whose points have no rows yet.</summary>
     private sealed record PendingChunk(string ChunkId, long FirstIndex, long LastIndex, long PointCount, PointState State);
 
-    /// <summary>Writes one row per chunk of <paramref name="sweep"/> (its points pending, as <paramref name="state"/>); returns the number of chunks.</summary>
+    /// <summary>A chunk's row as <see cref="WriteChunks"/> inserts it.</summary>
+    private sealed record ChunkRow(string ChunkId, long First, long Last, long Count, string PointsJson);
+
+    /// <summary>Chunk rows made ahead of the inserts: enough to keep the inserting thread busy, few enough to hold.</summary>
+    private const int ChunkRowsAhead = 4;
+
+    /// <summary>
+    /// Writes one row per chunk of <paramref name="sweep"/> (its points pending, as <paramref name="state"/>); returns the number of chunks.
+    /// The rows' JSON texts are made on another thread while this one inserts the rows before them
+    /// (a million points: two halves of the work on two cores instead of one after the other).
+    /// </summary>
     private static int WriteChunks(DbConnection c, DbTransaction tx, NewSweep sweep, string state)
     {
         using var cmd = Command(c, tx, """
@@ -31,6 +41,54 @@ public abstract partial class SqlSweepCatalog
         var pCount = Add(cmd, "count", 0L);
         var pPoints = Add(cmd, "points", "");
 
+        using var rows = new System.Collections.Concurrent.BlockingCollection<ChunkRow>(ChunkRowsAhead);
+        using var stop = new CancellationTokenSource();
+        var maker = Task.Run(() =>
+        {
+            try
+            {
+                return MakeChunkRows(sweep, rows, stop.Token);
+            }
+            finally
+            {
+                rows.CompleteAdding();
+            }
+        });
+
+        try
+        {
+            foreach (var row in rows.GetConsumingEnumerable())
+            {
+                pChunk.Value = row.ChunkId;
+                pFirst.Value = row.First;
+                pLast.Value = row.Last;
+                pCount.Value = row.Count;
+                pPoints.Value = row.PointsJson;
+                cmd.ExecuteNonQuery();
+            }
+        }
+        catch
+        {
+            // An insert failed: stop making rows, and report the insert's error.
+            stop.Cancel();
+            try
+            {
+                maker.Wait();
+            }
+            catch (AggregateException)
+            {
+            }
+
+            throw;
+        }
+
+        // The maker's own error (points of a chunk not consecutive) as it was thrown.
+        return maker.GetAwaiter().GetResult();
+    }
+
+    /// <summary>The chunk rows of <paramref name="sweep"/>'s points in order, added to <paramref name="rows"/>; returns the number of chunks.</summary>
+    private static int MakeChunkRows(NewSweep sweep, System.Collections.Concurrent.BlockingCollection<ChunkRow> rows, CancellationToken stop)
+    {
         var seen = new HashSet<string>(StringComparer.Ordinal);
         var buffer = new ArrayBufferWriter<byte>(1 << 20);
         using var w = new Utf8JsonWriter(buffer);
@@ -41,12 +99,7 @@ public abstract partial class SqlSweepCatalog
         {
             w.WriteEndArray();
             w.Flush();
-            pChunk.Value = current!;
-            pFirst.Value = first;
-            pLast.Value = last;
-            pCount.Value = count;
-            pPoints.Value = System.Text.Encoding.UTF8.GetString(buffer.WrittenSpan);
-            cmd.ExecuteNonQuery();
+            rows.Add(new ChunkRow(current!, first, last, count, System.Text.Encoding.UTF8.GetString(buffer.WrittenSpan)), stop);
         }
 
         foreach (var point in sweep.Points)

@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Security.Cryptography;
 using System.Text;
+using LatticeSweep.Engine.Solving;
 using LatticeSweep.Worker.Planning.Specs;
 
 namespace LatticeSweep.Worker.Planning;
@@ -53,41 +54,51 @@ internal static class PointIdentity
     }
 
     [ThreadStatic]
-    private static StringBuilder? _text;
-
-    [ThreadStatic]
-    private static byte[]? _bytes;
+    private static CanonicalWriter? _writer;
 
     /// <summary>
-    /// <see cref="PointKey(string, IEnumerable{KeyValuePair{string, object}})"/> for parameters whose
-    /// identity names are already in ordinal order (the planner sorts them once per plan), with the
-    /// text and its bytes built in per-thread buffers.
+    /// <see cref="PointKey(string, IEnumerable{KeyValuePair{string, object}})"/> of the point whose
+    /// spec is <paramref name="spec"/>, for parameters whose identity names are already in ordinal
+    /// order (the planner sorts them once per plan): the canonical text and the parameter lines are
+    /// written as UTF-8 into one per-thread buffer and hashed there, with no string per point.
     /// </summary>
-    public static ulong PointKey(string canonicalSpec, string[] sortedNames, object[] valuesInNameOrder)
+    public static ulong PointKey(BoundSpec spec, SolveOptions options, string[] sortedNames, object[] valuesInNameOrder)
     {
-        var sb = _text ??= new StringBuilder(1024);
-        sb.Clear().Append(canonicalSpec).Append("--\n");
+        var w = (_writer ??= new CanonicalWriter(2048, cacheNumbers: true)).Clear();
+        CanonicalSpec.Write(w, spec, options).Append("--\n"u8);
         for (var i = 0; i < sortedNames.Length; i++)
         {
-            sb.Append(sortedNames[i]).Append('=').Append(Format(valuesInNameOrder[i])).Append('\n');
-        }
-
-        var chars = sb.Length;
-        var needed = Encoding.UTF8.GetMaxByteCount(chars);
-        if (_bytes is null || _bytes.Length < needed)
-        {
-            _bytes = new byte[Math.Max(needed, 2048)];
-        }
-
-        var n = 0;
-        foreach (var chunk in sb.GetChunks())
-        {
-            n += Encoding.UTF8.GetBytes(chunk.Span, _bytes.AsSpan(n));
+            w.Append(sortedNames[i]).Append('=');
+            WriteFormatted(w, valuesInNameOrder[i]);
+            w.Append('\n');
         }
 
         Span<byte> digest = stackalloc byte[32];
-        SHA256.HashData(_bytes.AsSpan(0, n), digest);
+        SHA256.HashData(w.Written, digest);
         return System.Buffers.Binary.BinaryPrimitives.ReadUInt64BigEndian(digest);
+    }
+
+    /// <summary><see cref="Format"/> written to <paramref name="w"/> as UTF-8.</summary>
+    private static void WriteFormatted(CanonicalWriter w, object value)
+    {
+        switch (value)
+        {
+            case double d:
+                w.Append("d:"u8).D(d);
+                break;
+            case long l:
+                w.Append("i:"u8).I(l);
+                break;
+            case bool b:
+                w.Append(b ? "b:true"u8 : "b:false"u8);
+                break;
+            case string s:
+                w.Append("s:"u8).Quote(s);
+                break;
+            default:
+                w.Append(Format(value));
+                break;
+        }
     }
 
     /// <summary>The id text of a <see cref="PointKey"/>: 16 lower-case hex digits.</summary>

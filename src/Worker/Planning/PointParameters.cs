@@ -42,6 +42,9 @@ public sealed class PointParameters : IReadOnlyDictionary<string, object>
 
     public int Count => _columns.Length;
 
+    /// <summary>The column names in ordinal order (the array shared by a plan's points).</summary>
+    internal string[] Columns => _columns;
+
     /// <summary>The value of the <paramref name="i"/>-th column in ordinal column order.</summary>
     internal object ValueAt(int i) => _values[i];
 

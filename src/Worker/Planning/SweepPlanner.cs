@@ -172,7 +172,7 @@ internal static class SweepPlanner
                 byName[j] = parameters.ValueAt(byIdentity[j]);
             }
 
-            return PointIdentity.PointKey(CanonicalSpec.Write(spec, options), identityNames, byName);
+            return PointIdentity.PointKey(spec, options, identityNames, byName);
         };
     }
 
@@ -278,7 +278,7 @@ internal static class SweepPlanner
                     byName[j] = parameters.ValueAt(byIdentity[j]);
                 }
 
-                blockKeys[i] = PointIdentity.PointKey(CanonicalSpec.Write(spec, options), identityNames, byName);
+                blockKeys[i] = PointIdentity.PointKey(spec, options, identityNames, byName);
             });
 
             for (var i = 0; i < n; i++)

@@ -3,6 +3,8 @@ using LatticeSweep.Engine.Results;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.Planning;
+using LatticeSweep.Worker.Planning.Cost;
+using LatticeSweep.Worker.Planning.Specs;
 
 namespace LatticeSweep.Worker.Queue;
 
@@ -13,18 +15,34 @@ public sealed class EnginePointSolver : IPointSolver
 
     public string EngineVersion => PhononSolver.EngineVersion;
 
+    /// <summary>The same calibrated estimate as <c>check</c> (Planning/Cost/PointCost), shared by points of one cost shape (<see cref="SharedEstimates"/>).</summary>
     public double EstimateSeconds(SweepPlan plan, PlannedPoint point)
     {
+        ArgumentNullException.ThrowIfNull(plan);
+        ArgumentNullException.ThrowIfNull(point);
+        return SharedEstimates.For(plan).Seconds(point.Parameters, p => Estimate(plan, p));
+    }
+
+    public double EstimateSeconds(SweepPlan plan, int index)
+    {
+        ArgumentNullException.ThrowIfNull(plan);
+        return SharedEstimates.For(plan).Seconds(plan.Points.ParametersAt(index), p => Estimate(plan, p));
+    }
+
+    /// <summary>One point's estimate, with the spec it was made from.</summary>
+    private static (double Seconds, BoundSpec Spec) Estimate(SweepPlan plan, PointParameters parameters)
+    {
+        var spec = PointBinder.Apply(plan.Template, parameters);
         try
         {
-            // The same calibrated estimate as `check` (Planning/Cost/PointCost).
-            var request = PointBinder.Bind(plan, point);
-            return Planning.Cost.PointCost.Seconds(request.Model, request.Sample, request.Options);
+            var model = EngineObjects.BuildModel(spec.Model, out _);
+            var sample = EngineObjects.BuildSample(spec.Sample, model.Lattice);
+            return (PointCost.Seconds(model, sample, plan.Template.Options with { Conductivity = spec.Conductivity }), spec);
         }
         catch (ModelException)
         {
             // The point will fail fast with its reason when it runs.
-            return 0;
+            return (0, spec);
         }
     }
 

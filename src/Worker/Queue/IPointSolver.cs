@@ -9,6 +9,9 @@ public interface IPointSolver
     /// <summary>Estimated single-core seconds for the point; NaN when it cannot be estimated.</summary>
     double EstimateSeconds(SweepPlan plan, PlannedPoint point);
 
+    /// <summary>The estimate of the plan's point at <paramref name="index"/> (a solver may answer without making the point).</summary>
+    double EstimateSeconds(SweepPlan plan, int index) => EstimateSeconds(plan, plan.Points[index]);
+
     /// <summary>Throws <see cref="Engine.Errors.ModelException"/> for a model reason.</summary>
     PointResult Solve(SweepPlan plan, PlannedPoint point, CancellationToken ct);
 

@@ -55,9 +55,9 @@ public sealed class SweepSubmitter
         var points = plan.Points;
         using (StageTimings.Measure("submit: estimate and chunk"))
         {
-            // Each estimate binds its point's model: independent, so on every core; chunked in plan order after.
+            // Estimates are independent (and shared by points of one cost shape): on every core; chunked in plan order after.
             var seconds = new double[points.Count];
-            Parallel.For(0, points.Count, i => seconds[i] = _solver.EstimateSeconds(plan, points[i]));
+            Parallel.For(0, points.Count, i => seconds[i] = _solver.EstimateSeconds(plan, i));
             chunkStarts = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).ChunkStarts(points.Count, i => seconds[i]);
         }
 

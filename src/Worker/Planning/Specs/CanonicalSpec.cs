@@ -1,5 +1,5 @@
+using System.Collections.Immutable;
 using System.Globalization;
-using System.Text;
 using LatticeSweep.Engine.Interactions;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Solving;
@@ -14,212 +14,263 @@ namespace LatticeSweep.Worker.Planning.Specs;
 /// </summary>
 internal static class CanonicalSpec
 {
-    public static string Write(BoundSpec spec, SolveOptions options)
+    public static string Write(BoundSpec spec, SolveOptions options) => Write(new CanonicalWriter(512), spec, options).ToString();
+
+    /// <summary>The canonical text appended to <paramref name="w"/> as UTF-8 (the bytes of <see cref="Write(BoundSpec, SolveOptions)"/>).</summary>
+    public static CanonicalWriter Write(CanonicalWriter w, BoundSpec spec, SolveOptions options)
     {
-        var sb = new StringBuilder(512);
-        WriteModel(sb, spec.Model);
+        WriteModel(w, spec.Model);
         var s = spec.Sample;
-        sb.Append("sample ").Append(s.Kind).Append(" cells=").AppendJoin(',', s.Cells.Select(I))
-            .Append(" length_nm=").AppendJoin(',', s.LengthNm.Select(D))
-            .Append(" mesh=").AppendJoin(',', s.Mesh.Select(I)).Append('\n');
+        w.Append("sample "u8).Name(s.Kind).Append(" cells="u8);
+        Join(w, s.Cells);
+        w.Append(" length_nm="u8);
+        Join(w, s.LengthNm);
+        w.Append(" mesh="u8);
+        Join(w, s.Mesh);
+        w.Append('\n');
 
         // Written only when given, so the ids of periodic crystals and bulk points do not change.
         if (s.RealSpace is { } realSpace)
         {
-            WriteRealSpace(sb, realSpace);
+            WriteRealSpace(w, realSpace);
         }
 
-        sb.Append("output t=").AppendJoin(',', options.TemperaturesK.Select(D))
-            .Append(" ref=").Append(D(options.ReferenceTemperatureK))
-            .Append(" bins=").Append(I(options.DosBins))
-            .Append(" method=").Append(options.DosMethod)
-            .Append(" sigma=").Append(D(options.GaussianSigmaThz))
-            .Append(" partial=").Append(options.PartialDos ? '1' : '0')
-            .Append(" modes=").Append(options.ModeListMaxModes.ToString(CultureInfo.InvariantCulture))
-            .Append(" memory=").Append(options.MemoryLimitBytes.ToString(CultureInfo.InvariantCulture)).Append('\n');
+        w.Append("output t="u8);
+        Join(w, options.TemperaturesK);
+        w.Append(" ref="u8).D(options.ReferenceTemperatureK)
+            .Append(" bins="u8).I(options.DosBins)
+            .Append(" method="u8).Name(options.DosMethod)
+            .Append(" sigma="u8).D(options.GaussianSigmaThz)
+            .Append(" partial="u8).Flag(options.PartialDos)
+            .Append(" modes="u8).I(options.ModeListMaxModes)
+            .Append(" memory="u8).I(options.MemoryLimitBytes).Append('\n');
         if (options.Dispersion is { } path)
         {
-            sb.Append("dispersion per=").Append(I(path.PointsPerSegment));
+            w.Append("dispersion per="u8).I(path.PointsPerSegment);
             foreach (var c in path.Corners)
             {
-                sb.Append(' ').Append(Quote(c.Label)).Append('=').Append(V(c.Reduced));
+                w.Append(' ').Quote(c.Label).Append('=').V(c.Reduced);
             }
 
-            sb.Append('\n');
+            w.Append('\n');
         }
 
         // Written only when asked for, so the ids of points without conductivity do not change.
         if (options.Expansion is { } expansion)
         {
-            sb.Append("expansion volumes=").Append(I(expansion.VolumeCount)).Append(" strain=").Append(D(expansion.LargestLinearStrain))
-                .Append(" modes=").Append(expansion.ModeGrueneisen ? '1' : '0').Append('\n');
+            w.Append("expansion volumes="u8).I(expansion.VolumeCount).Append(" strain="u8).D(expansion.LargestLinearStrain)
+                .Append(" modes="u8).Flag(expansion.ModeGrueneisen).Append('\n');
         }
 
         if (spec.Conductivity is { } conductivity)
         {
-            WriteConductivity(sb, conductivity);
+            WriteConductivity(w, conductivity);
         }
 
-        return sb.ToString();
+        return w;
     }
 
-    private static void WriteRealSpace(StringBuilder sb, RealSpaceSpec r)
+    private static void Join(CanonicalWriter w, ImmutableArray<int> values)
     {
-        sb.Append("realspace boundaries=").AppendJoin(',', r.Boundaries.Select(b => b.ToString()))
-            .Append(" shape=").Append(r.Shape)
-            .Append(" radius=").Append(r.RadiusNm is { } radius ? D(radius) : "-")
-            .Append(" axis=").Append(I(r.Axis))
-            .Append(" centre=").Append(V(r.CentreFractional))
-            .Append(" method=").Append(r.Method)
-            .Append(" dense_max=").Append(I(r.DenseMaxAtoms))
-            .Append(" threshold=").Append(D(r.SurfaceWeightThreshold))
-            .Append(" kpm=").Append(I(r.Kpm.Moments)).Append(',').Append(I(r.Kpm.RandomVectors)).Append(',').Append(r.Kpm.Seed.ToString(CultureInfo.InvariantCulture))
+        for (var i = 0; i < values.Length; i++)
+        {
+            (i == 0 ? w : w.Append(',')).I(values[i]);
+        }
+    }
+
+    private static void Join(CanonicalWriter w, ImmutableArray<double> values)
+    {
+        for (var i = 0; i < values.Length; i++)
+        {
+            (i == 0 ? w : w.Append(',')).D(values[i]);
+        }
+    }
+
+    private static void WriteRealSpace(CanonicalWriter w, RealSpaceSpec r)
+    {
+        w.Append("realspace boundaries="u8);
+        for (var i = 0; i < r.Boundaries.Length; i++)
+        {
+            (i == 0 ? w : w.Append(',')).Name(r.Boundaries[i]);
+        }
+
+        w.Append(" shape="u8).Append(r.Shape)
+            .Append(" radius="u8).D(r.RadiusNm)
+            .Append(" axis="u8).I(r.Axis)
+            .Append(" centre="u8).V(r.CentreFractional)
+            .Append(" method="u8).Name(r.Method)
+            .Append(" dense_max="u8).I(r.DenseMaxAtoms)
+            .Append(" threshold="u8).D(r.SurfaceWeightThreshold)
+            .Append(" kpm="u8).I(r.Kpm.Moments).Append(',').I(r.Kpm.RandomVectors).Append(',').I(r.Kpm.Seed)
             .Append('\n');
         if (r.Disorder is { } d)
         {
-            sb.Append("disorder configurations=").Append(I(d.Configurations)).Append(" seed=").Append(d.Seed.ToString(CultureInfo.InvariantCulture)).Append('\n');
+            w.Append("disorder configurations="u8).I(d.Configurations).Append(" seed="u8).I(d.Seed).Append('\n');
             foreach (var x in d.Substitutions)
             {
-                sb.Append("substitution ").Append(Quote(x.Site))
-                    .Append(" mass=").Append(x.MassAmu is { } m ? D(m) : "-")
-                    .Append(" element=").Append(x.Element is { } e ? Quote(e) : "-")
-                    .Append(" c=").Append(D(x.Concentration))
-                    .Append(" springs=").Append(D(x.SpringFactor)).Append('\n');
+                w.Append("substitution "u8).Quote(x.Site)
+                    .Append(" mass="u8).D(x.MassAmu)
+                    .Append(" element="u8).QuoteOrDash(x.Element)
+                    .Append(" c="u8).D(x.Concentration)
+                    .Append(" springs="u8).D(x.SpringFactor).Append('\n');
             }
         }
     }
 
-    private static void WriteConductivity(StringBuilder sb, ConductivityOptions c)
+    private static void WriteConductivity(CanonicalWriter w, ConductivityOptions c)
     {
-        static string N(double? v) => v is { } x ? D(x) : "-";
-        sb.Append("conductivity gamma=").Append(N(c.GrueneisenParameter))
-            .Append(" thickness=").Append(N(c.ThicknessNm))
-            .Append(" section=").Append(N(c.CrossSectionNm2))
-            .Append(" check=").Append(c.CheckMeshConvergence ? '1' : '0')
-            .Append(" mfp=").Append(c.MeanFreePathTable ? '1' : '0').Append('\n');
+        w.Append("conductivity gamma="u8).D(c.GrueneisenParameter)
+            .Append(" thickness="u8).D(c.ThicknessNm)
+            .Append(" section="u8).D(c.CrossSectionNm2)
+            .Append(" check="u8).Flag(c.CheckMeshConvergence)
+            .Append(" mfp="u8).Flag(c.MeanFreePathTable).Append('\n');
         if (c.Boundary is { } b)
         {
-            sb.Append("boundary length=").Append(N(b.LengthNm)).Append(" p=").Append(D(b.Specularity)).Append('\n');
+            w.Append("boundary length="u8).D(b.LengthNm).Append(" p="u8).D(b.Specularity).Append('\n');
         }
 
         if (c.PointDefects is { } p)
         {
-            sb.Append("point_defects gamma=").Append(N(p.MassVarianceGamma)).Append('\n');
+            w.Append("point_defects gamma="u8).D(p.MassVarianceGamma).Append('\n');
             foreach (var site in p.Sites)
             {
-                sb.Append("composition ").Append(Quote(site.SiteLabel)).Append(" element=").Append(site.NaturalElement is { } e ? Quote(e) : "-")
-                    .Append(" masses=").AppendJoin(';', site.Masses.Select(m => D(m.MassAmu) + ":" + D(m.Fraction))).Append('\n');
+                w.Append("composition "u8).Quote(site.SiteLabel).Append(" element="u8).QuoteOrDash(site.NaturalElement)
+                    .Append(" masses="u8);
+                for (var i = 0; i < site.Masses.Length; i++)
+                {
+                    (i == 0 ? w : w.Append(';')).D(site.Masses[i].MassAmu).Append(':').D(site.Masses[i].Fraction);
+                }
+
+                w.Append('\n');
             }
         }
 
         if (c.Umklapp is { } u)
         {
-            sb.Append("umklapp theta=").Append(N(u.DebyeTemperatureK)).Append(" v=").Append(N(u.SoundSpeedMPerS)).Append('\n');
+            w.Append("umklapp theta="u8).D(u.DebyeTemperatureK).Append(" v="u8).D(u.SoundSpeedMPerS).Append('\n');
         }
 
         if (c.Constant is { } k)
         {
-            sb.Append("constant tau_ps=").Append(D(k.RelaxationTimePs)).Append('\n');
+            w.Append("constant tau_ps="u8).D(k.RelaxationTimePs).Append('\n');
         }
     }
 
-    private static void WriteModel(StringBuilder sb, ModelSpec model)
+    private static void WriteModel(CanonicalWriter w, ModelSpec model)
     {
-        sb.Append("motion ").Append(model.Motion).Append('\n');
+        w.Append("motion "u8).Name(model.Motion).Append('\n');
         switch (model)
         {
             case LatticeModelSpec m:
-                sb.Append("lattice ").Append(m.Lattice).Append(" a=").Append(D(m.ConstantNm))
-                    .Append(" c=").Append(m.CNm is { } c ? D(c) : "-")
-                    .Append(" vectors=").AppendJoin(';', m.VectorsNm.Select(V))
-                    .Append(" tol=").Append(D(m.ShellToleranceNm)).Append('\n');
+                w.Append("lattice "u8).Name(m.Lattice).Append(" a="u8).D(m.ConstantNm)
+                    .Append(" c="u8).D(m.CNm)
+                    .Append(" vectors="u8);
+                for (var i = 0; i < m.VectorsNm.Length; i++)
+                {
+                    (i == 0 ? w : w.Append(';')).V(m.VectorsNm[i]);
+                }
+
+                w.Append(" tol="u8).D(m.ShellToleranceNm).Append('\n');
                 foreach (var site in m.Sites)
                 {
-                    sb.Append("site ").Append(Quote(site.Label)).Append(' ').Append(Quote(site.Kind)).Append(' ').Append(V(site.Position))
-                        .Append(" mass=").Append(site.MassAmu is { } mass ? D(mass) : "-")
-                        .Append(" element=").Append(site.Element is { } e ? Quote(e) : "-").Append('\n');
+                    w.Append("site "u8).Quote(site.Label).Append(' ').Quote(site.Kind).Append(' ').V(site.Position)
+                        .Append(" mass="u8).D(site.MassAmu)
+                        .Append(" element="u8).QuoteOrDash(site.Element).Append('\n');
                 }
 
                 foreach (var sp in m.Springs)
                 {
-                    sb.Append("spring ").Append(Quote(sp.KindA)).Append(' ').Append(Quote(sp.KindB)).Append(' ').Append(I(sp.Shell))
-                        .Append(' ').Append(D(sp.LongitudinalNPerM)).Append(' ').Append(D(sp.TransverseNPerM)).Append('\n');
+                    w.Append("spring "u8).Quote(sp.KindA).Append(' ').Quote(sp.KindB).Append(' ').I(sp.Shell)
+                        .Append(' ').D(sp.LongitudinalNPerM).Append(' ').D(sp.TransverseNPerM).Append('\n');
                 }
 
                 foreach (var b in m.Bonds)
                 {
-                    sb.Append("bond ").Append(Quote(b.SiteA)).Append(' ').Append(Quote(b.SiteB))
-                        .Append(' ').Append(I(b.CellOffset.N1)).Append(',').Append(I(b.CellOffset.N2)).Append(',').Append(I(b.CellOffset.N3))
-                        .Append(' ').Append(D(b.LongitudinalNPerM)).Append(' ').Append(D(b.TransverseNPerM));
+                    w.Append("bond "u8).Quote(b.SiteA).Append(' ').Quote(b.SiteB)
+                        .Append(' ').I(b.CellOffset.N1).Append(',').I(b.CellOffset.N2).Append(',').I(b.CellOffset.N3)
+                        .Append(' ').D(b.LongitudinalNPerM).Append(' ').D(b.TransverseNPerM);
                     if (b.TensorNPerM is { } t)
                     {
-                        sb.Append(" tensor=");
+                        w.Append(" tensor="u8);
                         for (var r = 0; r < 3; r++)
                         {
                             for (var col = 0; col < 3; col++)
                             {
-                                sb.Append(D(t[r, col])).Append(r == 2 && col == 2 ? "" : ",");
+                                w.D(t[r, col]);
+                                if (!(r == 2 && col == 2))
+                                {
+                                    w.Append(',');
+                                }
                             }
                         }
                     }
 
-                    sb.Append('\n');
+                    w.Append('\n');
                 }
 
                 foreach (var p in m.Potentials)
                 {
-                    sb.Append("potential ").Append(Quote(p.KindA)).Append(' ').Append(Quote(p.KindB)).Append(' ').Append(p.Potential.FormName);
+                    w.Append("potential "u8).Quote(p.KindA).Append(' ').Quote(p.KindB).Append(' ').Append(p.Potential.FormName);
                     switch (p.Potential)
                     {
                         case LennardJonesPotential lj:
-                            sb.Append(" eps=").Append(D(lj.WellDepthEv)).Append(" sigma=").Append(D(lj.SigmaNm));
+                            w.Append(" eps="u8).D(lj.WellDepthEv).Append(" sigma="u8).D(lj.SigmaNm);
                             break;
                         case MorsePotential mo:
-                            sb.Append(" d=").Append(D(mo.WellDepthEv)).Append(" r0=").Append(D(mo.R0Nm)).Append(" a=").Append(D(mo.WidthPerNm));
+                            w.Append(" d="u8).D(mo.WellDepthEv).Append(" r0="u8).D(mo.R0Nm).Append(" a="u8).D(mo.WidthPerNm);
                             break;
                         case BuckinghamPotential bu:
-                            sb.Append(" a=").Append(D(bu.RepulsionEv)).Append(" rho=").Append(D(bu.RhoNm)).Append(" c=").Append(D(bu.DispersionEvNm6));
+                            w.Append(" a="u8).D(bu.RepulsionEv).Append(" rho="u8).D(bu.RhoNm).Append(" c="u8).D(bu.DispersionEvNm6);
                             break;
                     }
 
-                    sb.Append(" cutoff=").Append(D(p.CutoffNm)).Append(" shift=").Append(p.ShiftAtCutoff ? '1' : '0').Append('\n');
+                    w.Append(" cutoff="u8).D(p.CutoffNm).Append(" shift="u8).Flag(p.ShiftAtCutoff).Append('\n');
                 }
 
                 if (m.Relax)
                 {
-                    sb.Append("relax\n");
+                    w.Append("relax\n"u8);
                 }
 
                 foreach (var b in m.Bends)
                 {
-                    sb.Append("bend ").Append(Quote(b.CentreKind)).Append(' ').Append(Quote(b.EndKind)).Append(' ').Append(I(b.Shell))
-                        .Append(' ').Append(Quote(b.SecondKind)).Append(' ').Append(I(b.SecondShell))
-                        .Append(' ').Append(b.Form).Append(' ').Append(D(b.ConstantNPerM)).Append('\n');
+                    w.Append("bend "u8).Quote(b.CentreKind).Append(' ').Quote(b.EndKind).Append(' ').I(b.Shell)
+                        .Append(' ').Quote(b.SecondKind).Append(' ').I(b.SecondShell)
+                        .Append(' ').Name(b.Form).Append(' ').D(b.ConstantNPerM).Append('\n');
                 }
 
                 break;
             case LayeredSpec l:
-                sb.Append("layers ").Append(l.Host).Append(" spacing=").Append(D(l.SpacingNm)).Append(" r=").Append(I(l.SitesPerCell))
-                    .Append(" count_a=").Append(l.CountA is { } a ? I(a) : "-")
-                    .Append(" mass_a=").Append(l.MassAAmu is { } ma ? D(ma) : "-")
-                    .Append(" mass_b=").Append(l.MassBAmu is { } mb ? D(mb) : "-")
-                    .Append(" masses=").AppendJoin(',', l.MassesAmu.Select(D))
-                    .Append(" kl=").Append(D(l.LongitudinalNPerM)).Append(" kt=").Append(D(l.TransverseNPerM)).Append('\n');
+                w.Append("layers "u8).Name(l.Host).Append(" spacing="u8).D(l.SpacingNm).Append(" r="u8).I(l.SitesPerCell)
+                    .Append(" count_a="u8);
+                if (l.CountA is { } a)
+                {
+                    w.I(a);
+                }
+                else
+                {
+                    w.Append('-');
+                }
+
+                w.Append(" mass_a="u8).D(l.MassAAmu)
+                    .Append(" mass_b="u8).D(l.MassBAmu)
+                    .Append(" masses="u8);
+                Join(w, l.MassesAmu);
+                w.Append(" kl="u8).D(l.LongitudinalNPerM).Append(" kt="u8).D(l.TransverseNPerM).Append('\n');
                 break;
             case ElasticSpec e:
-                sb.Append("elastic ").Append(e.Lattice).Append(" a=").Append(D(e.ConstantNm))
-                    .Append(" mass=").Append(e.MassAmu is { } m2 ? D(m2) : "-")
-                    .Append(" element=").Append(e.Element is { } el ? Quote(el) : "-")
-                    .Append(" c11=").Append(D(e.C11Gpa)).Append(" c12=").Append(D(e.C12Gpa)).Append(" c44=").Append(D(e.C44Gpa))
-                    .Append(" nn2=").Append(e.NextNearest ? '1' : '0').Append('\n');
+                w.Append("elastic "u8).Name(e.Lattice).Append(" a="u8).D(e.ConstantNm)
+                    .Append(" mass="u8).D(e.MassAmu)
+                    .Append(" element="u8).QuoteOrDash(e.Element)
+                    .Append(" c11="u8).D(e.C11Gpa).Append(" c12="u8).D(e.C12Gpa).Append(" c44="u8).D(e.C44Gpa)
+                    .Append(" nn2="u8).Flag(e.NextNearest).Append('\n');
                 break;
             case TetrahedralSpec t:
-                static string N(double? v) => v is { } x ? D(x) : "-";
-                sb.Append("tetrahedral ").Append(t.Structure).Append(" a=").Append(D(t.ConstantNm))
-                    .Append(" mass_a=").Append(N(t.MassAAmu)).Append(" element_a=").Append(t.ElementA is { } ea ? Quote(ea) : "-")
-                    .Append(" mass_b=").Append(N(t.MassBAmu)).Append(" element_b=").Append(t.ElementB is { } eb ? Quote(eb) : "-")
-                    .Append(" stretch=").Append(N(t.StretchNPerM)).Append(" bend=").Append(N(t.BendNPerM))
-                    .Append(" c11=").Append(N(t.C11Gpa)).Append(" c12=").Append(N(t.C12Gpa)).Append(" c44=").Append(N(t.C44Gpa)).Append('\n');
+                w.Append("tetrahedral "u8).Name(t.Structure).Append(" a="u8).D(t.ConstantNm)
+                    .Append(" mass_a="u8).D(t.MassAAmu).Append(" element_a="u8).QuoteOrDash(t.ElementA)
+                    .Append(" mass_b="u8).D(t.MassBAmu).Append(" element_b="u8).QuoteOrDash(t.ElementB)
+                    .Append(" stretch="u8).D(t.StretchNPerM).Append(" bend="u8).D(t.BendNPerM)
+                    .Append(" c11="u8).D(t.C11Gpa).Append(" c12="u8).D(t.C12Gpa).Append(" c44="u8).D(t.C44Gpa).Append('\n');
                 break;
         }
     }
