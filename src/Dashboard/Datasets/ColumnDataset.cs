@@ -40,8 +40,36 @@ internal static class ColumnDataset
             return said.Any(x => x == true) ? true : said.All(x => x == false) ? false : null;
         }
 
+        // A few rows of a column (a page): each file reads only the row groups holding its share of them.
+        var starts = new int[files.Count];
+        for (var i = 1; i < files.Count; i++)
+        {
+            starts[i] = starts[i - 1] + files[i - 1].RowCount;
+        }
+
+        object?[] Peek(int c, int[] rows)
+        {
+            var cells = new object?[rows.Length];
+            for (var i = 0; i < files.Count; i++)
+            {
+                var mine = Enumerable.Range(0, rows.Length).Where(k => rows[k] >= starts[i] && rows[k] < starts[i] + files[i].RowCount).ToArray();
+                if (mine.Length == 0 || at[i][c] < 0)
+                {
+                    continue;
+                }
+
+                var read = files[i].CellsAt(at[i][c], [.. mine.Select(k => rows[k] - starts[i])]);
+                for (var k = 0; k < mine.Length; k++)
+                {
+                    cells[mine[k]] = read[k];
+                }
+            }
+
+            return cells;
+        }
+
         var summary = TableSummary.Concat([.. files.Select(f => f.Summary)], columns);
-        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary);
+        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary, Peek);
         var key = table.IndexOf(keyColumn);
         if (files.Count < 2 || key < 0 || ChunksApart(files))
         {

@@ -1,3 +1,4 @@
+using LatticeSweep.Worker.Queue;
 using System.Collections.Concurrent;
 using System.Collections.Immutable;
 using LatticeSweep.Worker.Output;
@@ -20,9 +21,12 @@ internal sealed class ParquetColumnFile
     private readonly ImmutableArray<bool?> _filled;
     private readonly ConcurrentDictionary<int, Lazy<CellColumn>> _columns = new();
 
+    private readonly int[] _groupStarts;
+
     private ParquetColumnFile(string path, int rowCount, DataField[] fields, ImmutableArray<ResultColumn> columns, ImmutableArray<bool?> filled, TableSummary? summary,
-        ImmutableArray<string>? chunks)
+        ImmutableArray<string>? chunks, int[] groupStarts)
     {
+        _groupStarts = groupStarts;
         Summary = summary;
         Chunks = chunks;
         Path = path;
@@ -54,12 +58,14 @@ internal sealed class ParquetColumnFile
         await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
         var fields = reader.Schema.GetDataFields();
         long rows = 0;
+        var groupStarts = new int[reader.RowGroupCount];
         var nulls = new long[fields.Length];
         var known = new bool[fields.Length];
         Array.Fill(known, true);
         for (var g = 0; g < reader.RowGroupCount; g++)
         {
             using var group = reader.OpenRowGroupReader(g);
+            groupStarts[g] = checked((int)rows);
             rows += group.RowCount;
             for (var c = 0; c < fields.Length; c++)
             {
@@ -81,7 +87,7 @@ internal sealed class ParquetColumnFile
         ImmutableArray<string>? chunks = metadata.TryGetValue(MergedLayout.ChunksKey, out var list) ? [.. list.Split(',', StringSplitOptions.RemoveEmptyEntries)]
             : metadata.TryGetValue("latticesweep.chunk_id", out var chunk) ? [chunk]
             : null;
-        return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks);
+        return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks, groupStarts);
     }
 
     /// <summary>Whether the column has a value in some row, as the file's statistics say (null: they do not say).</summary>
@@ -90,6 +96,65 @@ internal sealed class ParquetColumnFile
     /// <summary>The column's cells, read on first use.</summary>
     public CellColumn Column(int column) =>
         _columns.GetOrAdd(column, c => new Lazy<CellColumn>(() => Read(c), LazyThreadSafetyMode.ExecutionAndPublication)).Value;
+
+    /// <summary>
+    /// The cells of a column at a few rows, boxed as <see cref="CellColumn.Cell"/> boxes them: from
+    /// the column when it was read already, else from the row groups holding those rows only (the
+    /// column is not kept). A file found gone or changed gives empty cells and marks itself stale.
+    /// </summary>
+    public object?[] CellsAt(int column, IReadOnlyList<int> rows)
+    {
+        if (_filled[column] == false)
+        {
+            return new object?[rows.Count];
+        }
+
+        if (_columns.TryGetValue(column, out var loaded) && loaded.IsValueCreated)
+        {
+            return [.. rows.Select(loaded.Value.Cell)];
+        }
+
+        var groups = rows.Select(GroupOf).Distinct().Order().ToArray();
+        try
+        {
+            using var timing = StageTimings.MeasureAlone("points: read rows of a column");
+            var cells = ReadAsync(column, groups).GetAwaiter().GetResult();
+            // Row r of the file is row r - start(g) of its group, whose rows follow those of the groups read before it.
+            var offsets = new Dictionary<int, int>();
+            var at = 0;
+            foreach (var g in groups)
+            {
+                offsets[g] = at;
+                at += GroupRows(g);
+            }
+
+            return [.. rows.Select(r => cells.Cell(offsets[GroupOf(r)] + r - _groupStarts[GroupOf(r)]))];
+        }
+        catch (Exception ex) when (ex is FileNotFoundException or DirectoryNotFoundException or InvalidDataException or IOException)
+        {
+            Stale = true;
+            return new object?[rows.Count];
+        }
+    }
+
+    private int GroupOf(int row)
+    {
+        var g = Array.BinarySearch(_groupStarts, row);
+        if (g < 0)
+        {
+            return ~g - 1;
+        }
+
+        // Empty row groups share a start with the next one: the row is in the last group starting there.
+        while (g + 1 < _groupStarts.Length && _groupStarts[g + 1] == row)
+        {
+            g++;
+        }
+
+        return g;
+    }
+
+    private int GroupRows(int group) => (group + 1 < _groupStarts.Length ? _groupStarts[group + 1] : RowCount) - _groupStarts[group];
 
     private CellColumn Read(int column)
     {
@@ -101,7 +166,8 @@ internal sealed class ParquetColumnFile
         try
         {
             // The dashboard's views are synchronous over a table already listed; the reads are local file reads.
-            return ReadAsync(column).GetAwaiter().GetResult();
+            using var timing = StageTimings.MeasureAlone("points: read " + ColumnKind(_fields[column]) + " column");
+            return ReadAsync(column, null).GetAwaiter().GetResult();
         }
         catch (Exception ex) when (ex is FileNotFoundException or DirectoryNotFoundException or InvalidDataException or IOException)
         {
@@ -110,7 +176,11 @@ internal sealed class ParquetColumnFile
         }
     }
 
-    private async Task<CellColumn> ReadAsync(int column)
+    private static string ColumnKind(DataField field) =>
+        ParquetTableReader.IsText(field) ? "text" : field.ClrType == typeof(bool) ? "flag" : field.ClrType == typeof(DateTime) ? "time" : "number";
+
+    /// <summary>The column's cells in <paramref name="groups"/> (ascending; null: every row group), one after the other.</summary>
+    private async Task<CellColumn> ReadAsync(int column, int[]? groups)
     {
         await using var stream = ParquetTableReader.Open(Path);
         await using var reader = await ParquetReader.CreateAsync(stream).ConfigureAwait(false);
@@ -127,20 +197,22 @@ internal sealed class ParquetColumnFile
             throw new InvalidDataException($"{Path} changed since it was listed");
         }
 
+        groups ??= [.. Enumerable.Range(0, reader.RowGroupCount)];
+        var count = groups.Sum(GroupRows);
         var type = field.ClrType;
         if (ParquetTableReader.IsText(field))
         {
-            var text = new string?[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) => await group.ReadAsync(field, text.AsMemory(at, n)!).ConfigureAwait(false)).ConfigureAwait(false);
+            var text = new string?[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) => await group.ReadAsync(field, text.AsMemory(at, n)!).ConfigureAwait(false)).ConfigureAwait(false);
             Intern(text);
             return new TextCells(text);
         }
 
         if (type == typeof(double) || type == typeof(float) || type == typeof(int))
         {
-            var values = new double[RowCount];
-            var present = new bool[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) =>
+            var values = new double[count];
+            var present = new bool[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) =>
             {
                 if (type == typeof(double))
                 {
@@ -166,33 +238,33 @@ internal sealed class ParquetColumnFile
 
         if (type == typeof(long))
         {
-            var v = new long?[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) => await group.ReadAsync<long>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
+            var v = new long?[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) => await group.ReadAsync<long>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
             return new LongCells(v);
         }
 
         if (type == typeof(bool))
         {
-            var v = new bool?[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) => await group.ReadAsync<bool>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
+            var v = new bool?[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) => await group.ReadAsync<bool>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
             return new FlagCells(v);
         }
 
         if (type == typeof(DateTime))
         {
-            var v = new DateTime?[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) => await group.ReadAsync<DateTime>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
+            var v = new DateTime?[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) => await group.ReadAsync<DateTime>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
             return new TimeCells([.. v.Select(t => t is { } x ? new DateTimeOffset(DateTime.SpecifyKind(x, DateTimeKind.Utc)) : (DateTimeOffset?)null)]);
         }
 
         // A type the Worker does not write: leave the cells empty rather than fail the page.
-        return new EmptyCells(RowCount);
+        return new EmptyCells(count);
     }
 
-    private static async Task ForEachGroupAsync(ParquetReader reader, Func<ParquetRowGroupReader, int, int, Task> read)
+    private static async Task ForEachGroupAsync(ParquetReader reader, int[] groups, Func<ParquetRowGroupReader, int, int, Task> read)
     {
         var at = 0;
-        for (var g = 0; g < reader.RowGroupCount; g++)
+        foreach (var g in groups)
         {
             using var group = reader.OpenRowGroupReader(g);
             var n = checked((int)group.RowCount);

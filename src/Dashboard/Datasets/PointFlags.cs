@@ -79,6 +79,11 @@ public sealed record StabilityCounts(long Rows, long Done, long Failed, long Uns
         ArgumentNullException.ThrowIfNull(points);
         return TableFacts.Of(points, "stability counts", points =>
         {
+            if (points.Summary?.Marks is { } marks)
+            {
+                return FromMarks(points, marks);
+            }
+
             var flags = new ColumnFlags(points);
             long done = 0, failed = 0, unstable = 0, floppy = 0;
             for (var r = 0; r < points.Count; r++)
@@ -92,5 +97,27 @@ public sealed record StabilityCounts(long Rows, long Done, long Failed, long Uns
 
             return new StabilityCounts(points.Count, done, failed, unstable, floppy, flags.KnowsFloppy);
         });
+    }
+
+    /// <summary>The counts from the merged files' rows per state and flags, by the marks <see cref="ColumnFlags"/> reads (a column the table lacks reads as empty).</summary>
+    internal static StabilityCounts FromMarks(ResultTable points, IEnumerable<TableSummary.Mark> marks)
+    {
+        ArgumentNullException.ThrowIfNull(points);
+        ArgumentNullException.ThrowIfNull(marks);
+        var hasState = points.Has(PointFlags.StateColumn);
+        var hasStable = points.Has(PointFlags.StableColumn);
+        var hasFloppy = points.Has(PointFlags.FloppyColumn);
+        long done = 0, failed = 0, unstable = 0, floppy = 0;
+        foreach (var m in marks)
+        {
+            var state = hasState ? m.State : null;
+            var isUnstable = state == PointFlags.Unstable || (hasStable && m.Stable == false);
+            done += state == PointFlags.Done && !isUnstable ? m.Rows : 0;
+            failed += state == "failed" ? m.Rows : 0;
+            unstable += isUnstable ? m.Rows : 0;
+            floppy += hasFloppy && m.Floppy == true ? m.Rows : 0;
+        }
+
+        return new StabilityCounts(points.Count, done, failed, unstable, floppy, hasFloppy);
     }
 }
