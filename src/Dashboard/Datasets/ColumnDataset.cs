@@ -47,21 +47,25 @@ internal static class ColumnDataset
             starts[i] = starts[i - 1] + files[i - 1].RowCount;
         }
 
-        object?[] Peek(int c, int[] rows)
+        object?[][] Peek(int[] wanted, int[] rows)
         {
-            var cells = new object?[rows.Length];
+            var cells = wanted.Select(_ => new object?[rows.Length]).ToArray();
             for (var i = 0; i < files.Count; i++)
             {
                 var mine = Enumerable.Range(0, rows.Length).Where(k => rows[k] >= starts[i] && rows[k] < starts[i] + files[i].RowCount).ToArray();
-                if (mine.Length == 0 || at[i][c] < 0)
+                var present = Enumerable.Range(0, wanted.Length).Where(w => at[i][wanted[w]] >= 0).ToArray();
+                if (mine.Length == 0 || present.Length == 0)
                 {
                     continue;
                 }
 
-                var read = files[i].CellsAt(at[i][c], [.. mine.Select(k => rows[k] - starts[i])]);
-                for (var k = 0; k < mine.Length; k++)
+                var read = files[i].CellsAt([.. present.Select(w => at[i][wanted[w]])], [.. mine.Select(k => rows[k] - starts[i])]);
+                for (var w = 0; w < present.Length; w++)
                 {
-                    cells[mine[k]] = read[k];
+                    for (var k = 0; k < mine.Length; k++)
+                    {
+                        cells[present[w]][mine[k]] = read[w][k];
+                    }
                 }
             }
 

@@ -98,44 +98,71 @@ internal sealed class ParquetColumnFile
         _columns.GetOrAdd(column, c => new Lazy<CellColumn>(() => Read(c), LazyThreadSafetyMode.ExecutionAndPublication)).Value;
 
     /// <summary>
-    /// The cells of a column at a few rows, boxed as <see cref="CellColumn.Cell"/> boxes them: from
-    /// the column when it was read already, else from the row groups holding those rows only (the
-    /// column is not kept). A file found gone or changed gives empty cells and marks itself stale.
+    /// The cells of some columns at a few rows, boxed as <see cref="CellColumn.Cell"/> boxes them
+    /// (one array per column): from a column read already, else from the row groups holding those
+    /// rows only, all read in one opening of the file and kept per column and group (a page asked
+    /// again reads nothing). Rows spread over more than a quarter of the groups read the whole
+    /// column, kept as before. A file found gone or changed gives empty cells and marks itself stale.
     /// </summary>
-    public object?[] CellsAt(int column, IReadOnlyList<int> rows)
+    public object?[][] CellsAt(IReadOnlyList<int> columns, IReadOnlyList<int> rows)
     {
-        if (_filled[column] == false)
-        {
-            return new object?[rows.Count];
-        }
-
-        if (_columns.TryGetValue(column, out var loaded) && loaded.IsValueCreated)
-        {
-            return [.. rows.Select(loaded.Value.Cell)];
-        }
-
         var groups = rows.Select(GroupOf).Distinct().Order().ToArray();
-        try
+        var spread = groups.Length * 4 > _groupStarts.Length;
+        var missing = columns
+            .Where(c => _filled[c] != false && !(_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated) && !spread)
+            .SelectMany(c => groups.Where(g => !_groupCells.ContainsKey((c, g))).Select(g => (Column: c, Group: g)))
+            .ToList();
+        if (missing.Count > 0)
         {
-            using var timing = StageTimings.MeasureAlone("points: read rows of a column");
-            var cells = ReadAsync(column, groups).GetAwaiter().GetResult();
-            // Row r of the file is row r - start(g) of its group, whose rows follow those of the groups read before it.
-            var offsets = new Dictionary<int, int>();
-            var at = 0;
-            foreach (var g in groups)
+            try
             {
-                offsets[g] = at;
-                at += GroupRows(g);
+                using var timing = StageTimings.MeasureAlone("points: read rows of columns");
+                ReadGroupsAsync(missing).GetAwaiter().GetResult();
+            }
+            catch (Exception ex) when (ex is FileNotFoundException or DirectoryNotFoundException or InvalidDataException or IOException)
+            {
+                Stale = true;
+                return [.. columns.Select(_ => new object?[rows.Count])];
+            }
+        }
+
+        return [.. columns.Select(c =>
+        {
+            if (_filled[c] == false)
+            {
+                return new object?[rows.Count];
             }
 
-            return [.. rows.Select(r => cells.Cell(offsets[GroupOf(r)] + r - _groupStarts[GroupOf(r)]))];
-        }
-        catch (Exception ex) when (ex is FileNotFoundException or DirectoryNotFoundException or InvalidDataException or IOException)
+            if (spread || (_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated))
+            {
+                var whole = Column(c);
+                return [.. rows.Select(whole.Cell)];
+            }
+
+            return rows.Select(r => _groupCells.TryGetValue((c, GroupOf(r)), out var cells) ? cells.Cell(r - _groupStarts[GroupOf(r)]) : null).ToArray();
+        })];
+    }
+
+    /// <summary>Reads the listed row groups of the listed columns in one opening of the file into the group cache (cleared past <see cref="GroupCellsKept"/>).</summary>
+    private async Task ReadGroupsAsync(IReadOnlyList<(int Column, int Group)> wanted)
+    {
+        await using var stream = ParquetTableReader.Open(Path);
+        await using var reader = await ParquetReader.CreateAsync(stream).ConfigureAwait(false);
+        if (_groupCells.Count + wanted.Count > GroupCellsKept)
         {
-            Stale = true;
-            return new object?[rows.Count];
+            _groupCells.Clear();
+        }
+
+        foreach (var (column, group) in wanted)
+        {
+            _groupCells[(column, group)] = await ReadFromAsync(reader, column, [group]).ConfigureAwait(false);
         }
     }
+
+    /// <summary>Row groups of single columns kept for pages (a page of 100 rows of ~15 columns is a few dozen).</summary>
+    private const int GroupCellsKept = 1024;
+
+    private readonly ConcurrentDictionary<(int Column, int Group), CellColumn> _groupCells = new();
 
     private int GroupOf(int row)
     {
@@ -184,6 +211,11 @@ internal sealed class ParquetColumnFile
     {
         await using var stream = ParquetTableReader.Open(Path);
         await using var reader = await ParquetReader.CreateAsync(stream).ConfigureAwait(false);
+        return await ReadFromAsync(reader, column, groups).ConfigureAwait(false);
+    }
+
+    private async Task<CellColumn> ReadFromAsync(ParquetReader reader, int column, int[]? groups)
+    {
         var field = reader.Schema.GetDataFields().FirstOrDefault(f => f.Name == _fields[column].Name && f.ClrType == _fields[column].ClrType);
         var total = 0L;
         for (var g = 0; g < reader.RowGroupCount; g++)

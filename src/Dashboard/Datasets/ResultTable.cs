@@ -22,7 +22,7 @@ public sealed class ResultTable
     private readonly int[]? _rows;
     private readonly int _count;
     private readonly Func<int, bool?>? _filled;
-    private readonly Func<int, int[], object?[]>? _peek;
+    private readonly Func<int[], int[], object?[][]>? _peek;
 
     /// <summary>A table of boxed rows (small tables: one point's rows, tests).</summary>
     public ResultTable(ImmutableArray<ResultColumn> columns, ImmutableArray<ImmutableArray<object?>> rows)
@@ -36,11 +36,11 @@ public sealed class ResultTable
     /// whether the column has a value in some row (from the files' statistics).
     /// </summary>
     /// <remarks>
-    /// <paramref name="peek"/>(c, rows), when not null, gives the boxed cells of column c at a few
+    /// <paramref name="peek"/>(columns, rows), when not null, gives the boxed cells of those columns at a few
     /// rows without loading the whole column (a page's rows read from their row groups only).
     /// </remarks>
     internal ResultTable(ImmutableArray<ResultColumn> columns, int count, Func<int, CellColumn> load, Func<int, bool?>? filled = null, TableSummary? summary = null,
-        Func<int, int[], object?[]>? peek = null)
+        Func<int[], int[], object?[][]>? peek = null)
     {
         Columns = columns;
         _count = count;
@@ -122,7 +122,7 @@ public sealed class ResultTable
     /// column when it is loaded already, else (a table read from files) only the row groups that
     /// hold those rows are read, and the column stays unloaded. For a page of a large table.
     /// </summary>
-    internal object?[] CellsAt(int column, IReadOnlyList<int> rows)
+    internal object?[][] CellsAt(IReadOnlyList<int> columns, IReadOnlyList<int> rows)
     {
         var at = new int[rows.Count];
         for (var i = 0; i < at.Length; i++)
@@ -130,13 +130,24 @@ public sealed class ResultTable
             at[i] = _rows is null ? rows[i] : _rows[rows[i]];
         }
 
-        if (_peek is null || _cells[column].IsValueCreated)
+        var result = new object?[columns.Count][];
+        var unloaded = Enumerable.Range(0, columns.Count).Where(k => _peek is not null && !_cells[columns[k]].IsValueCreated).ToArray();
+        var peeked = unloaded.Length > 0 ? _peek!([.. unloaded.Select(k => columns[k])], at) : [];
+        for (var k = 0; k < unloaded.Length; k++)
         {
-            var cells = _cells[column].Value;
-            return [.. at.Select(cells.Cell)];
+            result[unloaded[k]] = peeked[k];
         }
 
-        return _peek(column, at);
+        for (var k = 0; k < columns.Count; k++)
+        {
+            if (result[k] is null)
+            {
+                var cells = _cells[columns[k]].Value;
+                result[k] = [.. at.Select(cells.Cell)];
+            }
+        }
+
+        return result;
     }
 
     /// <summary>The rows in view at <paramref name="rows"/> (positions in this view), in that order.</summary>

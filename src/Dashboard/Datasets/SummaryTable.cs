@@ -81,7 +81,11 @@ public sealed record SummaryTable(
         var limit = Math.Clamp(query.Limit, 1, SummaryQuery.MaxLimit);
         // Only the page's rows are boxed, and only their row groups read where a column is not loaded yet.
         var page = order.Skip(offset).Take(limit).ToArray();
-        object?[] At(string column) => filtered.IndexOf(column) is var i and >= 0 ? filtered.CellsAt(i, page) : new object?[page.Length];
+        // Every column the page shows in one read per file: the shown ones, the id and the marks.
+        string[] wanted = ["point_id", PointFlags.StateColumn, PointFlags.StableColumn, PointFlags.FloppyColumn, .. shown];
+        var known = wanted.Distinct(StringComparer.Ordinal).Where(filtered.Has).ToList();
+        var read = filtered.CellsAt([.. known.Select(filtered.IndexOf)], page);
+        object?[] At(string column) => known.IndexOf(column) is var k and >= 0 ? read[k] : new object?[page.Length];
         var ids = At("point_id");
         var cells = shown.Select(At).ToArray();
         var state = At(PointFlags.StateColumn);
