@@ -108,16 +108,33 @@ internal sealed class ParquetColumnFile
     {
         var groups = rows.Select(GroupOf).Distinct().Order().ToArray();
         var spread = groups.Length * 4 > _groupStarts.Length;
-        var missing = columns
-            .Where(c => _filled[c] != false && !(_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated) && !spread)
-            .SelectMany(c => groups.Where(g => !_groupCells.ContainsKey((c, g))).Select(g => (Column: c, Group: g)))
-            .ToList();
+        // The groups this answer uses, taken from the cache or read now (another request may clear the cache meanwhile).
+        var found = new Dictionary<(int Column, int Group), CellColumn>();
+        var missing = new List<(int Column, int Group)>();
+        foreach (var c in columns.Where(c => _filled[c] != false && !(_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated) && !spread))
+        {
+            foreach (var g in groups)
+            {
+                if (_groupCells.TryGetValue((c, g), out var cached))
+                {
+                    found[(c, g)] = cached;
+                }
+                else
+                {
+                    missing.Add((c, g));
+                }
+            }
+        }
+
         if (missing.Count > 0)
         {
             try
             {
                 using var timing = StageTimings.MeasureAlone("points: read rows of columns");
-                ReadGroupsAsync(missing).GetAwaiter().GetResult();
+                foreach (var (key, cells) in ReadGroupsAsync(missing).GetAwaiter().GetResult())
+                {
+                    found[key] = cells;
+                }
             }
             catch (Exception ex) when (ex is FileNotFoundException or DirectoryNotFoundException or InvalidDataException or IOException)
             {
@@ -139,24 +156,32 @@ internal sealed class ParquetColumnFile
                 return [.. rows.Select(whole.Cell)];
             }
 
-            return rows.Select(r => _groupCells.TryGetValue((c, GroupOf(r)), out var cells) ? cells.Cell(r - _groupStarts[GroupOf(r)]) : null).ToArray();
+            return rows.Select(r => found[(c, GroupOf(r))].Cell(r - _groupStarts[GroupOf(r)])).ToArray();
         })];
     }
 
     /// <summary>Reads the listed row groups of the listed columns in one opening of the file into the group cache (cleared past <see cref="GroupCellsKept"/>).</summary>
-    private async Task ReadGroupsAsync(IReadOnlyList<(int Column, int Group)> wanted)
+    private async Task<Dictionary<(int Column, int Group), CellColumn>> ReadGroupsAsync(IReadOnlyList<(int Column, int Group)> wanted)
     {
         await using var stream = ParquetTableReader.Open(Path);
         await using var reader = await ParquetReader.CreateAsync(stream).ConfigureAwait(false);
-        if (_groupCells.Count + wanted.Count > GroupCellsKept)
+        var read = new Dictionary<(int Column, int Group), CellColumn>();
+        foreach (var (column, group) in wanted)
+        {
+            read[(column, group)] = await ReadFromAsync(reader, column, [group]).ConfigureAwait(false);
+        }
+
+        if (_groupCells.Count + read.Count > GroupCellsKept)
         {
             _groupCells.Clear();
         }
 
-        foreach (var (column, group) in wanted)
+        foreach (var (key, cells) in read)
         {
-            _groupCells[(column, group)] = await ReadFromAsync(reader, column, [group]).ConfigureAwait(false);
+            _groupCells[key] = cells;
         }
+
+        return read;
     }
 
     /// <summary>Row groups of single columns kept for pages (a page of 100 rows of ~15 columns is a few dozen).</summary>
