@@ -90,6 +90,9 @@ internal sealed class ParquetColumnFile
         return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks, groupStarts);
     }
 
+    /// <summary>True once the whole column has been read (and is kept).</summary>
+    internal bool Loaded(int column) => _columns.TryGetValue(column, out var cells) && cells.IsValueCreated;
+
     /// <summary>Whether the column has a value in some row, as the file's statistics say (null: they do not say).</summary>
     public bool? Filled(int column) => _filled[column];
 
