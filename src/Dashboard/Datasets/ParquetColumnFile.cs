@@ -1,7 +1,7 @@
-using LatticeSweep.Worker.Queue;
 using System.Collections.Concurrent;
 using System.Collections.Immutable;
 using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Queue;
 using Parquet;
 using Parquet.Schema;
 

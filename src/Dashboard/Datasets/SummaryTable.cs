@@ -1,7 +1,7 @@
-using LatticeSweep.Worker.Queue;
 using System.Collections.Immutable;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Queue;
 
 namespace LatticeSweep.Dashboard.Datasets;
 

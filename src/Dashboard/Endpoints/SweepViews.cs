@@ -1,10 +1,10 @@
-using LatticeSweep.Worker.Queue;
 using System.Collections.Immutable;
 using LatticeSweep.Dashboard.Hosting;
 using LatticeSweep.Dashboard.Progress;
 using LatticeSweep.Dashboard.Datasets;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Queue;
 
 namespace LatticeSweep.Dashboard.Endpoints;
 
