@@ -10,7 +10,8 @@
 # Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2),
 # POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: use the points/ there, e.g. merged by `merge`),
 # DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
-# KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run).
+# KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run). The dashboard step also asks for the
+# page of a waiting point (index 600,000, read from the store's chunk rows with python3's sqlite3) when it can find one.
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$(dirname "$here")"
@@ -73,8 +74,13 @@ for step in "${steps[@]}"; do
       pid=$!
       for _ in $(seq 1 120); do curl -s -o /dev/null "http://127.0.0.1:$port/" && break; sleep 0.5; done
       echo "dashboard $(cut -d' ' -f1 /proc/loadavg) load average, process CPU at start $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
+      # A point of a chunk no worker has claimed (index 600,000): its page looks it up in the catalog.
+      waiting="$(python3 -c 'import json, sqlite3, sys
+c = sqlite3.connect(sys.argv[1]).execute("SELECT points_json FROM latsweep_chunks WHERE first_index <= 600000 AND last_index >= 600000 AND points_json IS NOT NULL").fetchone()
+print(next((p[0] for p in json.loads(c[0]) if p[1] == 600000), "") if c else "")' "$store" 2>/dev/null || true)"
       for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
-          "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000"; do
+          "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000" \
+          ${waiting:+"sweeps/$id/points/$waiting"}; do
         # Beside each request's wall time, the dashboard process's CPU so far (user + system; steadier than wall on a shared machine).
         took="$(curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
         echo "$took, process CPU $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"

@@ -40,8 +40,40 @@ internal static class ColumnDataset
             return said.Any(x => x == true) ? true : said.All(x => x == false) ? false : null;
         }
 
+        // A few rows of a column (a page): each file reads only the row groups holding its share of them.
+        var starts = new int[files.Count];
+        for (var i = 1; i < files.Count; i++)
+        {
+            starts[i] = starts[i - 1] + files[i - 1].RowCount;
+        }
+
+        object?[][] Peek(int[] wanted, int[] rows)
+        {
+            var cells = wanted.Select(_ => new object?[rows.Length]).ToArray();
+            for (var i = 0; i < files.Count; i++)
+            {
+                var mine = Enumerable.Range(0, rows.Length).Where(k => rows[k] >= starts[i] && rows[k] < starts[i] + files[i].RowCount).ToArray();
+                var present = Enumerable.Range(0, wanted.Length).Where(w => at[i][wanted[w]] >= 0).ToArray();
+                if (mine.Length == 0 || present.Length == 0)
+                {
+                    continue;
+                }
+
+                var read = files[i].CellsAt([.. present.Select(w => at[i][wanted[w]])], [.. mine.Select(k => rows[k] - starts[i])]);
+                for (var w = 0; w < present.Length; w++)
+                {
+                    for (var k = 0; k < mine.Length; k++)
+                    {
+                        cells[present[w]][mine[k]] = read[w][k];
+                    }
+                }
+            }
+
+            return cells;
+        }
+
         var summary = TableSummary.Concat([.. files.Select(f => f.Summary)], columns);
-        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary);
+        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary, Peek);
         var key = table.IndexOf(keyColumn);
         if (files.Count < 2 || key < 0 || ChunksApart(files))
         {

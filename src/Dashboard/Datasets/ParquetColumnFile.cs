@@ -1,6 +1,7 @@
 using System.Collections.Concurrent;
 using System.Collections.Immutable;
 using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Queue;
 using Parquet;
 using Parquet.Schema;
 
@@ -20,9 +21,12 @@ internal sealed class ParquetColumnFile
     private readonly ImmutableArray<bool?> _filled;
     private readonly ConcurrentDictionary<int, Lazy<CellColumn>> _columns = new();
 
+    private readonly int[] _groupStarts;
+
     private ParquetColumnFile(string path, int rowCount, DataField[] fields, ImmutableArray<ResultColumn> columns, ImmutableArray<bool?> filled, TableSummary? summary,
-        ImmutableArray<string>? chunks)
+        ImmutableArray<string>? chunks, int[] groupStarts)
     {
+        _groupStarts = groupStarts;
         Summary = summary;
         Chunks = chunks;
         Path = path;
@@ -54,12 +58,14 @@ internal sealed class ParquetColumnFile
         await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
         var fields = reader.Schema.GetDataFields();
         long rows = 0;
+        var groupStarts = new int[reader.RowGroupCount];
         var nulls = new long[fields.Length];
         var known = new bool[fields.Length];
         Array.Fill(known, true);
         for (var g = 0; g < reader.RowGroupCount; g++)
         {
             using var group = reader.OpenRowGroupReader(g);
+            groupStarts[g] = checked((int)rows);
             rows += group.RowCount;
             for (var c = 0; c < fields.Length; c++)
             {
@@ -81,8 +87,11 @@ internal sealed class ParquetColumnFile
         ImmutableArray<string>? chunks = metadata.TryGetValue(MergedLayout.ChunksKey, out var list) ? [.. list.Split(',', StringSplitOptions.RemoveEmptyEntries)]
             : metadata.TryGetValue("latticesweep.chunk_id", out var chunk) ? [chunk]
             : null;
-        return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks);
+        return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks, groupStarts);
     }
+
+    /// <summary>True once the whole column has been read (and is kept).</summary>
+    internal bool Loaded(int column) => _columns.TryGetValue(column, out var cells) && cells.IsValueCreated;
 
     /// <summary>Whether the column has a value in some row, as the file's statistics say (null: they do not say).</summary>
     public bool? Filled(int column) => _filled[column];
@@ -90,6 +99,117 @@ internal sealed class ParquetColumnFile
     /// <summary>The column's cells, read on first use.</summary>
     public CellColumn Column(int column) =>
         _columns.GetOrAdd(column, c => new Lazy<CellColumn>(() => Read(c), LazyThreadSafetyMode.ExecutionAndPublication)).Value;
+
+    /// <summary>
+    /// The cells of some columns at a few rows, boxed as <see cref="CellColumn.Cell"/> boxes them
+    /// (one array per column): from a column read already, else from the row groups holding those
+    /// rows only, all read in one opening of the file and kept per column and group (a page asked
+    /// again reads nothing). Rows spread over more than a quarter of the groups read the whole
+    /// column, kept as before. A file found gone or changed gives empty cells and marks itself stale.
+    /// </summary>
+    public object?[][] CellsAt(IReadOnlyList<int> columns, IReadOnlyList<int> rows)
+    {
+        var groups = rows.Select(GroupOf).Distinct().Order().ToArray();
+        var spread = groups.Length * 4 > _groupStarts.Length;
+        // The groups this answer uses, taken from the cache or read now (another request may clear the cache meanwhile).
+        var found = new Dictionary<(int Column, int Group), CellColumn>();
+        var missing = new List<(int Column, int Group)>();
+        foreach (var c in columns.Where(c => _filled[c] != false && !(_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated) && !spread))
+        {
+            foreach (var g in groups)
+            {
+                if (_groupCells.TryGetValue((c, g), out var cached))
+                {
+                    found[(c, g)] = cached;
+                }
+                else
+                {
+                    missing.Add((c, g));
+                }
+            }
+        }
+
+        if (missing.Count > 0)
+        {
+            try
+            {
+                using var timing = StageTimings.MeasureAlone("points: read rows of columns");
+                foreach (var (key, cells) in ReadGroupsAsync(missing).GetAwaiter().GetResult())
+                {
+                    found[key] = cells;
+                }
+            }
+            catch (Exception ex) when (ex is FileNotFoundException or DirectoryNotFoundException or InvalidDataException or IOException)
+            {
+                Stale = true;
+                return [.. columns.Select(_ => new object?[rows.Count])];
+            }
+        }
+
+        return [.. columns.Select(c =>
+        {
+            if (_filled[c] == false)
+            {
+                return new object?[rows.Count];
+            }
+
+            if (spread || (_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated))
+            {
+                var whole = Column(c);
+                return [.. rows.Select(whole.Cell)];
+            }
+
+            return rows.Select(r => found[(c, GroupOf(r))].Cell(r - _groupStarts[GroupOf(r)])).ToArray();
+        })];
+    }
+
+    /// <summary>Reads the listed row groups of the listed columns in one opening of the file into the group cache (cleared past <see cref="GroupCellsKept"/>).</summary>
+    private async Task<Dictionary<(int Column, int Group), CellColumn>> ReadGroupsAsync(IReadOnlyList<(int Column, int Group)> wanted)
+    {
+        await using var stream = ParquetTableReader.Open(Path);
+        await using var reader = await ParquetReader.CreateAsync(stream).ConfigureAwait(false);
+        var read = new Dictionary<(int Column, int Group), CellColumn>();
+        foreach (var (column, group) in wanted)
+        {
+            read[(column, group)] = await ReadFromAsync(reader, column, [group]).ConfigureAwait(false);
+        }
+
+        if (_groupCells.Count + read.Count > GroupCellsKept)
+        {
+            _groupCells.Clear();
+        }
+
+        foreach (var (key, cells) in read)
+        {
+            _groupCells[key] = cells;
+        }
+
+        return read;
+    }
+
+    /// <summary>Row groups of single columns kept for pages (a page of 100 rows of ~15 columns is a few dozen).</summary>
+    private const int GroupCellsKept = 1024;
+
+    private readonly ConcurrentDictionary<(int Column, int Group), CellColumn> _groupCells = new();
+
+    private int GroupOf(int row)
+    {
+        var g = Array.BinarySearch(_groupStarts, row);
+        if (g < 0)
+        {
+            return ~g - 1;
+        }
+
+        // Empty row groups share a start with the next one: the row is in the last group starting there.
+        while (g + 1 < _groupStarts.Length && _groupStarts[g + 1] == row)
+        {
+            g++;
+        }
+
+        return g;
+    }
+
+    private int GroupRows(int group) => (group + 1 < _groupStarts.Length ? _groupStarts[group + 1] : RowCount) - _groupStarts[group];
 
     private CellColumn Read(int column)
     {
@@ -101,7 +221,8 @@ internal sealed class ParquetColumnFile
         try
         {
             // The dashboard's views are synchronous over a table already listed; the reads are local file reads.
-            return ReadAsync(column).GetAwaiter().GetResult();
+            using var timing = StageTimings.MeasureAlone("points: read " + ColumnKind(_fields[column]) + " column");
+            return ReadAsync(column, null).GetAwaiter().GetResult();
         }
         catch (Exception ex) when (ex is FileNotFoundException or DirectoryNotFoundException or InvalidDataException or IOException)
         {
@@ -110,10 +231,19 @@ internal sealed class ParquetColumnFile
         }
     }
 
-    private async Task<CellColumn> ReadAsync(int column)
+    private static string ColumnKind(DataField field) =>
+        ParquetTableReader.IsText(field) ? "text" : field.ClrType == typeof(bool) ? "flag" : field.ClrType == typeof(DateTime) ? "time" : "number";
+
+    /// <summary>The column's cells in <paramref name="groups"/> (ascending; null: every row group), one after the other.</summary>
+    private async Task<CellColumn> ReadAsync(int column, int[]? groups)
     {
         await using var stream = ParquetTableReader.Open(Path);
         await using var reader = await ParquetReader.CreateAsync(stream).ConfigureAwait(false);
+        return await ReadFromAsync(reader, column, groups).ConfigureAwait(false);
+    }
+
+    private async Task<CellColumn> ReadFromAsync(ParquetReader reader, int column, int[]? groups)
+    {
         var field = reader.Schema.GetDataFields().FirstOrDefault(f => f.Name == _fields[column].Name && f.ClrType == _fields[column].ClrType);
         var total = 0L;
         for (var g = 0; g < reader.RowGroupCount; g++)
@@ -127,20 +257,22 @@ internal sealed class ParquetColumnFile
             throw new InvalidDataException($"{Path} changed since it was listed");
         }
 
+        groups ??= [.. Enumerable.Range(0, reader.RowGroupCount)];
+        var count = groups.Sum(GroupRows);
         var type = field.ClrType;
         if (ParquetTableReader.IsText(field))
         {
-            var text = new string?[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) => await group.ReadAsync(field, text.AsMemory(at, n)!).ConfigureAwait(false)).ConfigureAwait(false);
+            var text = new string?[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) => await group.ReadAsync(field, text.AsMemory(at, n)!).ConfigureAwait(false)).ConfigureAwait(false);
             Intern(text);
             return new TextCells(text);
         }
 
         if (type == typeof(double) || type == typeof(float) || type == typeof(int))
         {
-            var values = new double[RowCount];
-            var present = new bool[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) =>
+            var values = new double[count];
+            var present = new bool[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) =>
             {
                 if (type == typeof(double))
                 {
@@ -166,33 +298,33 @@ internal sealed class ParquetColumnFile
 
         if (type == typeof(long))
         {
-            var v = new long?[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) => await group.ReadAsync<long>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
+            var v = new long?[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) => await group.ReadAsync<long>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
             return new LongCells(v);
         }
 
         if (type == typeof(bool))
         {
-            var v = new bool?[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) => await group.ReadAsync<bool>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
+            var v = new bool?[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) => await group.ReadAsync<bool>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
             return new FlagCells(v);
         }
 
         if (type == typeof(DateTime))
         {
-            var v = new DateTime?[RowCount];
-            await ForEachGroupAsync(reader, async (group, at, n) => await group.ReadAsync<DateTime>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
+            var v = new DateTime?[count];
+            await ForEachGroupAsync(reader, groups, async (group, at, n) => await group.ReadAsync<DateTime>(field, v.AsMemory(at, n)).ConfigureAwait(false)).ConfigureAwait(false);
             return new TimeCells([.. v.Select(t => t is { } x ? new DateTimeOffset(DateTime.SpecifyKind(x, DateTimeKind.Utc)) : (DateTimeOffset?)null)]);
         }
 
         // A type the Worker does not write: leave the cells empty rather than fail the page.
-        return new EmptyCells(RowCount);
+        return new EmptyCells(count);
     }
 
-    private static async Task ForEachGroupAsync(ParquetReader reader, Func<ParquetRowGroupReader, int, int, Task> read)
+    private static async Task ForEachGroupAsync(ParquetReader reader, int[] groups, Func<ParquetRowGroupReader, int, int, Task> read)
     {
         var at = 0;
-        for (var g = 0; g < reader.RowGroupCount; g++)
+        foreach (var g in groups)
         {
             using var group = reader.OpenRowGroupReader(g);
             var n = checked((int)group.RowCount);

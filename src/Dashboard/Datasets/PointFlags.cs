@@ -41,32 +41,45 @@ internal sealed class PointFlags
     public bool IsFloppy(ImmutableArray<object?> row) => _floppy >= 0 && row[_floppy] is true;
 }
 
-/// <summary>The marks of <see cref="PointFlags"/> read by position from a table's columns (no row boxed).</summary>
+/// <summary>
+/// The marks of <see cref="PointFlags"/> read by position from a table's columns (no row boxed).
+/// Each column is read when first asked; a whole table whose files' footers count no unstable (or
+/// no floppy) row answers false for every row without reading state and stable (or floppy).
+/// </summary>
 internal sealed class ColumnFlags
 {
-    private readonly ColumnView? _state;
-    private readonly ColumnView? _stable;
-    private readonly ColumnView? _floppy;
+    private readonly Lazy<ColumnView?> _state;
+    private readonly Lazy<ColumnView?> _stable;
+    private readonly Lazy<ColumnView?> _floppy;
+    private readonly bool _noneUnstable;
+    private readonly bool _noneFloppy;
 
     public ColumnFlags(ResultTable table)
     {
         ArgumentNullException.ThrowIfNull(table);
-        _state = table.IndexOf(PointFlags.StateColumn) is var s and >= 0 ? table.Cells(s) : null;
-        _stable = table.IndexOf(PointFlags.StableColumn) is var t and >= 0 ? table.Cells(t) : null;
-        _floppy = table.IndexOf(PointFlags.FloppyColumn) is var f and >= 0 ? table.Cells(f) : null;
+        _state = new(() => table.IndexOf(PointFlags.StateColumn) is var s and >= 0 ? table.Cells(s) : null);
+        _stable = new(() => table.IndexOf(PointFlags.StableColumn) is var t and >= 0 ? table.Cells(t) : null);
+        _floppy = new(() => table.IndexOf(PointFlags.FloppyColumn) is var f and >= 0 ? table.Cells(f) : null);
+        KnowsFloppy = table.Has(PointFlags.FloppyColumn);
+        if (table.Summary?.Marks is { } marks)
+        {
+            var counts = StabilityCounts.FromMarks(table, marks);
+            _noneUnstable = counts.Unstable == 0;
+            _noneFloppy = counts.Floppy == 0;
+        }
     }
 
-    public bool KnowsFloppy => _floppy is not null;
+    public bool KnowsFloppy { get; }
 
-    public string? State(int row) => _state?.Text(row);
+    public string? State(int row) => _state.Value?.Text(row);
 
     public bool IsDone(int row) => State(row) == PointFlags.Done;
 
-    public bool IsUnstable(int row) => State(row) == PointFlags.Unstable || (_stable?.IsFalse(row) ?? false);
+    public bool IsUnstable(int row) => !_noneUnstable && (State(row) == PointFlags.Unstable || (_stable.Value?.IsFalse(row) ?? false));
 
-    public bool IsStable(int row) => !IsUnstable(row) && (_stable?.IsTrue(row) ?? false);
+    public bool IsStable(int row) => !IsUnstable(row) && (_stable.Value?.IsTrue(row) ?? false);
 
-    public bool IsFloppy(int row) => _floppy?.IsTrue(row) ?? false;
+    public bool IsFloppy(int row) => !_noneFloppy && (_floppy.Value?.IsTrue(row) ?? false);
 }
 
 /// <summary>How many points of a sweep's points/ table are stable, unstable and floppy.</summary>
@@ -79,6 +92,11 @@ public sealed record StabilityCounts(long Rows, long Done, long Failed, long Uns
         ArgumentNullException.ThrowIfNull(points);
         return TableFacts.Of(points, "stability counts", points =>
         {
+            if (points.Summary?.Marks is { } marks)
+            {
+                return FromMarks(points, marks);
+            }
+
             var flags = new ColumnFlags(points);
             long done = 0, failed = 0, unstable = 0, floppy = 0;
             for (var r = 0; r < points.Count; r++)
@@ -92,5 +110,27 @@ public sealed record StabilityCounts(long Rows, long Done, long Failed, long Uns
 
             return new StabilityCounts(points.Count, done, failed, unstable, floppy, flags.KnowsFloppy);
         });
+    }
+
+    /// <summary>The counts from the merged files' rows per state and flags, by the marks <see cref="ColumnFlags"/> reads (a column the table lacks reads as empty).</summary>
+    internal static StabilityCounts FromMarks(ResultTable points, IEnumerable<TableSummary.Mark> marks)
+    {
+        ArgumentNullException.ThrowIfNull(points);
+        ArgumentNullException.ThrowIfNull(marks);
+        var hasState = points.Has(PointFlags.StateColumn);
+        var hasStable = points.Has(PointFlags.StableColumn);
+        var hasFloppy = points.Has(PointFlags.FloppyColumn);
+        long done = 0, failed = 0, unstable = 0, floppy = 0;
+        foreach (var m in marks)
+        {
+            var state = hasState ? m.State : null;
+            var isUnstable = state == PointFlags.Unstable || (hasStable && m.Stable == false);
+            done += state == PointFlags.Done && !isUnstable ? m.Rows : 0;
+            failed += state == "failed" ? m.Rows : 0;
+            unstable += isUnstable ? m.Rows : 0;
+            floppy += hasFloppy && m.Floppy == true ? m.Rows : 0;
+        }
+
+        return new StabilityCounts(points.Count, done, failed, unstable, floppy, hasFloppy);
     }
 }

@@ -22,6 +22,7 @@ public sealed class ResultTable
     private readonly int[]? _rows;
     private readonly int _count;
     private readonly Func<int, bool?>? _filled;
+    private readonly Func<int[], int[], object?[][]>? _peek;
 
     /// <summary>A table of boxed rows (small tables: one point's rows, tests).</summary>
     public ResultTable(ImmutableArray<ResultColumn> columns, ImmutableArray<ImmutableArray<object?>> rows)
@@ -34,11 +35,17 @@ public sealed class ResultTable
     /// once, when first needed; <paramref name="filled"/>(c), when not null, says without reading
     /// whether the column has a value in some row (from the files' statistics).
     /// </summary>
-    internal ResultTable(ImmutableArray<ResultColumn> columns, int count, Func<int, CellColumn> load, Func<int, bool?>? filled = null, TableSummary? summary = null)
+    /// <remarks>
+    /// <paramref name="peek"/>(columns, rows), when not null, gives the boxed cells of those columns at a few
+    /// rows without loading the whole column (a page's rows read from their row groups only).
+    /// </remarks>
+    internal ResultTable(ImmutableArray<ResultColumn> columns, int count, Func<int, CellColumn> load, Func<int, bool?>? filled = null, TableSummary? summary = null,
+        Func<int[], int[], object?[][]>? peek = null)
     {
         Columns = columns;
         _count = count;
         _filled = filled;
+        _peek = peek;
         Summary = summary is not null && summary.Rows == count ? summary : null;
         _cells = [.. columns.Select((_, c) => new Lazy<CellColumn>(() => load(c), LazyThreadSafetyMode.ExecutionAndPublication))];
     }
@@ -47,6 +54,7 @@ public sealed class ResultTable
     {
         Columns = source.Columns;
         _cells = source._cells;
+        _peek = source._peek;
         _rows = rows;
         _count = rows.Length;
     }
@@ -108,6 +116,39 @@ public sealed class ResultTable
 
     /// <summary>The cell of row <paramref name="row"/> (in view) and column <paramref name="column"/>, boxed.</summary>
     public object? Cell(int row, int column) => _cells[column].Value.Cell(_rows is null ? row : _rows[row]);
+
+    /// <summary>
+    /// The cells of one column at a few rows in view, boxed as <see cref="Cell"/> boxes them: from the
+    /// column when it is loaded already, else (a table read from files) only the row groups that
+    /// hold those rows are read, and the column stays unloaded. For a page of a large table.
+    /// </summary>
+    internal object?[][] CellsAt(IReadOnlyList<int> columns, IReadOnlyList<int> rows)
+    {
+        var at = new int[rows.Count];
+        for (var i = 0; i < at.Length; i++)
+        {
+            at[i] = _rows is null ? rows[i] : _rows[rows[i]];
+        }
+
+        var result = new object?[columns.Count][];
+        var unloaded = Enumerable.Range(0, columns.Count).Where(k => _peek is not null && !_cells[columns[k]].IsValueCreated).ToArray();
+        var peeked = unloaded.Length > 0 ? _peek!([.. unloaded.Select(k => columns[k])], at) : [];
+        for (var k = 0; k < unloaded.Length; k++)
+        {
+            result[unloaded[k]] = peeked[k];
+        }
+
+        for (var k = 0; k < columns.Count; k++)
+        {
+            if (result[k] is null)
+            {
+                var cells = _cells[columns[k]].Value;
+                result[k] = [.. at.Select(cells.Cell)];
+            }
+        }
+
+        return result;
+    }
 
     /// <summary>The rows in view at <paramref name="rows"/> (positions in this view), in that order.</summary>
     internal ResultTable Select(IReadOnlyList<int> rows)

@@ -1,6 +1,7 @@
 using System.Collections.Immutable;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Queue;
 
 namespace LatticeSweep.Dashboard.Datasets;
 
@@ -57,6 +58,7 @@ public sealed record SummaryTable(
         ArgumentNullException.ThrowIfNull(filtered);
         ArgumentNullException.ThrowIfNull(query);
         var names = new ColumnCatalog(sweep, TableNames.Points);
+        var timing = StageTimings.Measure("table: columns shown");
         var filled = FilledColumns(all);
         var sort = query.Sort is { } s && all.Has(s) && (filled.Contains(s) || s == PointFlags.StateColumn) ? s : DefaultSort;
         var defaults = DefaultShown(all, names, filled);
@@ -67,15 +69,32 @@ public sealed record SummaryTable(
             .Distinct(StringComparer.Ordinal)
             .ToList();
         var view = shown.Select(n => View(all.Column(n)!, names)).ToImmutableArray();
-        var flags = new ColumnFlags(filtered);
-        var cells = shown.Select(n => filtered.IndexOf(n) is var i and >= 0 ? filtered.Cells(i) : (ColumnView?)null).ToArray();
-        var ids = filtered.IndexOf("point_id") is var id and >= 0 ? filtered.Cells(id) : (ColumnView?)null;
-        var order = Order(filtered, sort, query.Descending);
+        timing.Dispose();
+        int[] order;
+        using (StageTimings.Measure("table: order"))
+        {
+            order = Order(filtered, sort, query.Descending);
+        }
+
+        using var paging = StageTimings.Measure("table: page rows");
         var offset = Math.Max(0, query.Offset);
         var limit = Math.Clamp(query.Limit, 1, SummaryQuery.MaxLimit);
-        // Only the page's rows are boxed.
-        var rows = order.Skip(offset).Take(limit)
-            .Select(r => new SummaryRow(ids?.Text(r) ?? "", [.. cells.Select(c => c?.Cell(r))], flags.IsUnstable(r), flags.IsFloppy(r)))
+        // Only the page's rows are boxed, and only their row groups read where a column is not loaded yet.
+        var page = order.Skip(offset).Take(limit).ToArray();
+        // Every column the page shows in one read per file: the shown ones, the id and the marks.
+        string[] wanted = ["point_id", PointFlags.StateColumn, PointFlags.StableColumn, PointFlags.FloppyColumn, .. shown];
+        var known = wanted.Distinct(StringComparer.Ordinal).Where(filtered.Has).ToList();
+        var read = filtered.CellsAt([.. known.Select(filtered.IndexOf)], page);
+        object?[] At(string column) => known.IndexOf(column) is var k and >= 0 ? read[k] : new object?[page.Length];
+        var ids = At("point_id");
+        var cells = shown.Select(At).ToArray();
+        var state = At(PointFlags.StateColumn);
+        var stable = At(PointFlags.StableColumn);
+        var floppy = At(PointFlags.FloppyColumn);
+        // The marks as ColumnFlags reads them: unstable by its state or stable = false, floppy by its flag.
+        var rows = page
+            .Select((_, k) => new SummaryRow(ids[k] as string ?? "", [.. cells.Select(c => c[k])],
+                state[k] as string == PointFlags.Unstable || stable[k] is false, floppy[k] is true))
             .ToImmutableArray();
         var sortChoices = all.Columns.Where(c => (c.IsNumeric && filled.Contains(c.Name)) || c.Name == PointFlags.StateColumn).Select(c => View(c, names)).ToImmutableArray();
         var columnChoices = all.Columns.Where(c => c.Name != "point_id" && filled.Contains(c.Name)).Select(c => View(c, names)).ToImmutableArray();
@@ -105,6 +124,7 @@ public sealed record SummaryTable(
         var ordered = names.Parameters.Where(t.Has).OrderBy(p => names.Label(p).StartsWith(CandidatePrefix, StringComparison.Ordinal) ? 0 : 1).ToList();
         return TableFacts.Of(t, "key parameters\n" + string.Join('\n', ordered), t =>
         {
+            using var timing = StageTimings.Measure("table: key parameters");
             var kept = new List<string>();
             foreach (var p in ordered)
             {
@@ -122,9 +142,15 @@ public sealed record SummaryTable(
         [.. KeyParameters(all, names)
             .Concat(DefaultColumns.Where(filled.Contains))
             .Append(filled.Contains(PointCurves.ConductivityColumn) ? PointCurves.ConductivityColumn : "")
-            .Append(filled.Contains(PointFlags.FloppyColumn) && new ColumnFlags(all) is var flags && Enumerable.Range(0, all.Count).Any(flags.IsFloppy) ? PointFlags.FloppyColumn : "")
+            .Append(filled.Contains(PointFlags.FloppyColumn) && AnyFloppy(all) ? PointFlags.FloppyColumn : "")
             .Where(all.Has)
             .Distinct(StringComparer.Ordinal)];
+
+    /// <summary>True when some row is a floppy model: from the files' footers when they list the flag's values, else by a scan.</summary>
+    private static bool AnyFloppy(ResultTable all) =>
+        all.Summary?.Of(PointFlags.FloppyColumn) is { More: false } s
+            ? s.Distinct.Contains(true)
+            : new ColumnFlags(all) is var flags && Enumerable.Range(0, all.Count).Any(flags.IsFloppy);
 
     /// <summary>True when every value of column <paramref name="q"/> goes with one value of column <paramref name="p"/>.</summary>
     private static bool Determines(ResultTable t, int q, int p)
@@ -169,7 +195,7 @@ public sealed record SummaryTable(
                 keys[r] = p.Number(r) ?? double.MaxValue;
             }
 
-            positions = [.. positions.OrderBy(r => keys[r])];
+            positions = PlacedByIndex(keys) ?? [.. positions.OrderBy(r => keys[r])];
         }
 
         if (column < 0)
@@ -191,6 +217,48 @@ public sealed record SummaryTable(
         }
 
         return [.. sorted.Concat(positions.Where(r => !cells.HasValue(r)))];
+    }
+
+    /// <summary>
+    /// The positions ordered by their keys when the keys are distinct whole numbers spanning at most
+    /// four times as many values as there are rows (plan indexes: files merged in point-id order hold
+    /// a sweep's points in no plan order): each row is put at its key's slot in one pass, which is
+    /// the order the sort would give (no ties). Null otherwise (empty cells, repeats, a wide span).
+    /// </summary>
+    internal static int[]? PlacedByIndex(double[] keys)
+    {
+        if (keys.Length == 0)
+        {
+            return [];
+        }
+
+        var min = double.MaxValue;
+        var max = double.MinValue;
+        foreach (var k in keys)
+        {
+            min = Math.Min(min, k);
+            max = Math.Max(max, k);
+        }
+
+        if (max - min >= 4.0 * keys.Length || min != Math.Floor(min) || max == double.MaxValue)
+        {
+            return null;
+        }
+
+        var slots = new int[(int)(max - min) + 1];
+        Array.Fill(slots, -1);
+        for (var r = 0; r < keys.Length; r++)
+        {
+            var k = keys[r] - min;
+            if (k != Math.Floor(k) || slots[(int)k] >= 0)
+            {
+                return null;
+            }
+
+            slots[(int)k] = r;
+        }
+
+        return slots.Length == keys.Length ? slots : [.. slots.Where(r => r >= 0)];
     }
 
     /// <summary>True when the plan column never decreases (a file written in plan order needs no sort).</summary>

@@ -16,13 +16,20 @@ internal sealed class TableSummary
 {
     private readonly ImmutableDictionary<string, Column> _columns;
 
-    private TableSummary(long rows, ImmutableDictionary<string, Column> columns)
+    private TableSummary(long rows, ImmutableDictionary<string, Column> columns, ImmutableArray<Mark>? marks)
     {
         Rows = rows;
         _columns = columns;
+        Marks = marks;
     }
 
     public long Rows { get; }
+
+    /// <summary>Rows per combination of state, stable and floppy (empty cells as null); null when a file does not say.</summary>
+    public ImmutableArray<Mark>? Marks { get; }
+
+    /// <summary>How many rows have this state and these two flags.</summary>
+    internal sealed record Mark(string? State, bool? Stable, bool? Floppy, long Rows);
 
     /// <summary>One column's facts: cells with a value, finite numbers with their least and greatest, and the first distinct values in row order.</summary>
     /// <param name="Distinct">distinct values with a value, in row order, boxed as the column's cells are; complete unless <paramref name="More"/></param>
@@ -64,7 +71,15 @@ internal sealed class TableSummary
                     distinct, e.GetProperty("more").GetBoolean());
             }
 
-            return new TableSummary(rows, parsed.ToImmutable());
+            ImmutableArray<Mark>? marks = json.RootElement.TryGetProperty("marks", out var m)
+                ? [.. m.EnumerateArray().Select(x => new Mark(x[0].GetString(), Flag(x[1]), Flag(x[2]), x[3].GetInt64()))]
+                : null;
+            if (marks is { } counted && counted.Sum(x => x.Rows) != rows)
+            {
+                marks = null;
+            }
+
+            return new TableSummary(rows, parsed.ToImmutable(), marks);
         }
         catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
         {
@@ -118,12 +133,23 @@ internal sealed class TableSummary
                 finite.Count > 0 ? finite.Min(p => p.Min) : double.NaN, finite.Count > 0 ? finite.Max(p => p.Max) : double.NaN, [.. distinct], more);
         }
 
-        return new TableSummary(files.Sum(f => f!.Rows), parsed.ToImmutable());
+        ImmutableArray<Mark>? marks = files.All(f => f!.Marks is not null)
+            ? [.. files.SelectMany(f => f!.Marks!.Value).GroupBy(x => (x.State, x.Stable, x.Floppy)).Select(g => new Mark(g.Key.State, g.Key.Stable, g.Key.Floppy, g.Sum(x => x.Rows)))]
+            : null;
+        return new TableSummary(files.Sum(f => f!.Rows), parsed.ToImmutable(), marks);
     }
 
     /// <summary>How many distinct cells the column has, an empty cell counting as one; null past the values kept (more than <see cref="ColumnSummary.DistinctKept"/>).</summary>
     public int? DistinctCells(string column) =>
         Of(column) is { More: false } c ? c.Distinct.Length + (c.Count < Rows ? 1 : 0) : null;
+
+    private static bool? Flag(JsonElement v) => v.ValueKind switch
+    {
+        JsonValueKind.True => true,
+        JsonValueKind.False => false,
+        JsonValueKind.Null => null,
+        _ => throw new FormatException($"unexpected flag {v.ValueKind}"),
+    };
 
     /// <summary>A JSON value boxed as a cell of a column of <paramref name="type"/> is (<see cref="CellColumn.Cell"/>).</summary>
     private static object Box(JsonElement v, Type type) => v.ValueKind switch

@@ -4,6 +4,7 @@ using LatticeSweep.Dashboard.Progress;
 using LatticeSweep.Dashboard.Datasets;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Output;
+using LatticeSweep.Worker.Queue;
 
 namespace LatticeSweep.Dashboard.Endpoints;
 
@@ -20,6 +21,7 @@ internal static class SweepViews
 
     public static async Task<SweepDetail> DetailAsync(SweepBoard board, SweepRecord sweep, CancellationToken ct)
     {
+        using var catalogSide = StageTimings.Measure("detail: catalog and files");
         var folder = board.Results.SweepFolderOf(sweep);
         var axes = board.Catalog.GetAxisCoverage(sweep.SweepId)
             .Select(a => new AxisLine(a.ColumnName, a.Path, Formatting.Show.Unit(a.Unit), [.. a.Values.Select(v =>
@@ -37,7 +39,12 @@ internal static class SweepViews
                 .Select(t => new DatasetLink(t.Table, Links.Files(board.Root.Relative(t.Folder!)), ParquetTableReader.PartFiles(t.Folder!).Count))
                 .Prepend(new DatasetLink(SweepFolder.ManifestFileName, Links.Files(board.Root.Relative(folder) + "/" + SweepFolder.ManifestFileName), 0))
                 .ToImmutableArray();
-        var stability = StabilityCounts.Of(await board.Results.PointsAsync(sweep, ct).ConfigureAwait(false));
+        StabilityCounts stability;
+        using (StageTimings.Measure("detail: stability counts"))
+        {
+            stability = StabilityCounts.Of(await board.Results.PointsAsync(sweep, ct).ConfigureAwait(false));
+        }
+
         return new SweepDetail(SweepLine.Of(board.Progress(sweep)), sweep.ChunkCount, sweep.EngineVersion, folder is not null, axes, failures, datasets,
             Links.ApiResults(sweep.SweepId), stability);
     }
@@ -64,8 +71,16 @@ internal static class SweepViews
     /// <summary>The plots, kept with the filtered table for the same choices (an unfiltered view is the cached whole table, so its plots are made once per change of points/).</summary>
     public static SweepPlotSet Plots(FilteredPoints points, SweepRecord sweep, SweepView view) =>
         new(
-            TableFacts.Of(points.Rows, $"parameter plot\n{sweep.SweepId}\n{view.Plot}", _ => new Cached<SweepPlot>(SweepPlots.Parameter(points.All, points.Rows, sweep, view.Plot))).Value,
-            TableFacts.Of(points.Rows, $"scatter plot\n{sweep.SweepId}\n{view.Scatter}", _ => new Cached<SweepPlot>(SweepPlots.Scatter(points.All, points.Rows, sweep, view.Scatter))).Value,
+            TableFacts.Of(points.Rows, $"parameter plot\n{sweep.SweepId}\n{view.Plot}", _ =>
+            {
+                using var timing = StageTimings.Measure("plots: parameter plot");
+                return new Cached<SweepPlot>(SweepPlots.Parameter(points.All, points.Rows, sweep, view.Plot));
+            }).Value,
+            TableFacts.Of(points.Rows, $"scatter plot\n{sweep.SweepId}\n{view.Scatter}", _ =>
+            {
+                using var timing = StageTimings.Measure("plots: scatter plot");
+                return new Cached<SweepPlot>(SweepPlots.Scatter(points.All, points.Rows, sweep, view.Scatter));
+            }).Value,
             points.Line);
 
     /// <summary>A value that may be null, as a fact.</summary>

@@ -128,6 +128,7 @@ public static class DashboardHost
         }
 
         var app = builder.Build();
+        app.Use(Diagnostics.RequestTimings.Measure);
         app.UseHostFiltering();
         app.UseExceptionHandler("/error");
         app.UseStatusCodePagesWithReExecute("/not-found");

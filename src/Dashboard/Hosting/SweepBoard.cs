@@ -33,35 +33,19 @@ internal sealed class SweepBoard
     public SweepProgress Progress(SweepRecord sweep) => SweepProgress.Of(sweep, Time.GetUtcNow());
 
     /// <summary>
-    /// The catalog's record of one point, or null. The catalog lists points by sweep or by chunk: a
-    /// point with a result row names its chunk there, so only that chunk is read; any other point is
-    /// looked for page by page.
+    /// The catalog's record of one point, or null.
     /// </summary>
-    public async Task<PointRecord?> FindPointAsync(SweepRecord sweep, string? pointId, CancellationToken ct)
+    public Task<PointRecord?> FindPointAsync(SweepRecord sweep, string? pointId, CancellationToken ct)
     {
+        ArgumentNullException.ThrowIfNull(sweep);
         if (string.IsNullOrEmpty(pointId))
         {
-            return null;
+            return Task.FromResult<PointRecord?>(null);
         }
 
-        var points = await Results.PointsAsync(sweep, ct).ConfigureAwait(false);
-        var chunk = points.Where("point_id", pointId) is { Rows.Length: > 0 } row && row.IndexOf("chunk_id") is var c and >= 0 ? row.Rows[0][c] as string : null;
-        if (chunk is not null && Catalog.GetChunkPoints(sweep.SweepId, chunk).FirstOrDefault(p => p.PointId == pointId) is { } fromChunk)
-        {
-            return fromChunk;
-        }
-
-        const int Page = 5000;
-        for (var offset = 0; offset < sweep.Counts.Total; offset += Page)
-        {
-            ct.ThrowIfCancellationRequested();
-            var hit = Catalog.GetPoints(sweep.SweepId, new PointQuery(Offset: offset, Limit: Page)).FirstOrDefault(p => p.PointId == pointId);
-            if (hit is not null)
-            {
-                return hit;
-            }
-        }
-
-        return null;
+        // One read of the catalog (the point's row, or the pending chunk that lists it): neither the
+        // points/ table's ids nor a page-by-page walk through the sweep's points.
+        ct.ThrowIfCancellationRequested();
+        return Task.FromResult(Catalog.FindPoint(sweep.SweepId, pointId));
     }
 }

@@ -175,6 +175,7 @@ internal sealed partial class SweepModel : PageModel
 
     private Dictionary<string, int> FrontRows()
     {
+        using var timing = StageTimings.Measure("sweep page: front rows");
         var ids = (Plots.Scatter?.Front ?? []).Take(MaxFrontRows).Select(f => f.PointId).Distinct(StringComparer.Ordinal).ToList();
         var at = Points.All.FirstPositions("point_id", ids);
         return ids.Select((id, i) => (id, i)).ToDictionary(p => p.id, p => at[p.i], StringComparer.Ordinal);
@@ -196,6 +197,7 @@ internal sealed partial class SweepModel : PageModel
         var unit = Names.UnitOf(column);
         return TableFacts.Of(Points.All, "values\n" + column, all =>
         {
+            using var timing = StageTimings.Measure("sweep page: filter values");
             // Distinct cells first (by value, without boxing each row), then ordered as shown.
             var column = all.Cells(i);
             var seen = new HashSet<CellKey>();
@@ -214,10 +216,21 @@ internal sealed partial class SweepModel : PageModel
         Sweep = sweep;
         View = view;
         Names = new ColumnCatalog(sweep, TableNames.Points);
-        Detail = await SweepViews.DetailAsync(_board, sweep, ct).ConfigureAwait(false);
-        (Results, _, Points) = await SweepViews.ResultsAsync(_board, sweep, view, ct).ConfigureAwait(false);
-        Plots = SweepViews.Plots(Points, sweep, view);
-        PlotsJson = JsonSerializer.Serialize(Plots, _json);
+        using (StageTimings.Measure("sweep page: detail"))
+        {
+            Detail = await SweepViews.DetailAsync(_board, sweep, ct).ConfigureAwait(false);
+        }
+
+        using (StageTimings.Measure("sweep page: table"))
+        {
+            (Results, _, Points) = await SweepViews.ResultsAsync(_board, sweep, view, ct).ConfigureAwait(false);
+        }
+
+        using (StageTimings.Measure("sweep page: plots"))
+        {
+            Plots = SweepViews.Plots(Points, sweep, view);
+            PlotsJson = JsonSerializer.Serialize(Plots, _json);
+        }
         Shown = view with
         {
             Plot = SweepPlots.Resolve(Points.All, Names, view.Plot),

@@ -44,6 +44,9 @@ public interface ISweepCatalog : IDisposable
     /// <summary>Points of one chunk in plan order.</summary>
     IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId);
 
+    /// <summary>One point of a sweep by id (from its row, or from the pending chunk that lists it); null when the sweep has no such point.</summary>
+    PointRecord? FindPoint(string sweepId, string pointId);
+
     /// <summary>The chunks (ascending) holding at least one point whose result was recorded (done, unstable, or failed with a row).</summary>
     IReadOnlyList<string> GetChunksWithResults(string sweepId);
 

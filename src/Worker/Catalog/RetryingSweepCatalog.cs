@@ -54,6 +54,8 @@ public sealed class RetryingSweepCatalog : ISweepCatalog
 
     public IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId) => Retry(() => _inner.GetChunkPoints(sweepId, chunkId));
 
+    public PointRecord? FindPoint(string sweepId, string pointId) => Retry(() => _inner.FindPoint(sweepId, pointId));
+
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId) => Retry(() => _inner.GetFailureGroups(sweepId));
 
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => Retry(() => _inner.GetAxisCoverage(sweepId));

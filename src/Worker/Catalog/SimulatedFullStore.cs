@@ -39,6 +39,8 @@ internal sealed class SimulatedFullStore(ISweepCatalog inner) : ISweepCatalog
 
     public IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId) => inner.GetChunkPoints(sweepId, chunkId);
 
+    public PointRecord? FindPoint(string sweepId, string pointId) => inner.FindPoint(sweepId, pointId);
+
     public IReadOnlyList<string> GetChunksWithResults(string sweepId) => inner.GetChunksWithResults(sweepId);
 
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId) => inner.GetFailureGroups(sweepId);

@@ -56,6 +56,8 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
     }
 
     /// <summary>A deferred transaction: it reads one snapshot of the WAL file and takes no write lock.</summary>
+    protected override string TextHolds(string column, string parameter) => $"instr({column}, {parameter}) > 0";
+
     protected override DbTransaction BeginRead(DbConnection connection)
     {
         ArgumentNullException.ThrowIfNull(connection);

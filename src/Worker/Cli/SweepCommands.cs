@@ -323,14 +323,18 @@ internal static class SweepCommands
     /// <summary><c>latsweep merge SWEEP</c>: merges the sweep's part files now (also done at the end of run, resume and work).</summary>
     public static int Merge(CommandLine line, CliContext context)
     {
+        var opening = StageTimings.Measure("merge: open store, find sweep");
         using var session = Session.Open(line, context);
         var sweep = session.Sweep(line.Arguments[0]);
+        opening.Dispose();
         if (!Directory.Exists(sweep.OutputFolder))
         {
             throw new UsageException($"the results folder of sweep {sweep.SweepId} does not exist: {sweep.OutputFolder}");
         }
 
-        if (!ResultMerge.TryRun(sweep, session.Log, context.Stop))
+        var merged = ResultMerge.TryRun(sweep, session.Log, context.Stop);
+        StageTimings.WriteIfEnabled(context.Stderr);
+        if (!merged)
         {
             return ExitCodes.SomeFailed;
         }

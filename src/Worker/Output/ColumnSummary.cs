@@ -9,7 +9,9 @@ namespace LatticeSweep.Worker.Output;
 /// page) learns them from the footer instead of a scan of every row, and they can never describe
 /// other rows than the file's. Per column: the cells with a value, for numbers the finite ones with
 /// their least and greatest, and the first <see cref="DistinctKept"/> distinct values in row order
-/// (with whether more follow). Timestamps get counts only.
+/// (with whether more follow). Timestamps get counts only. Beside the columns, the rows per
+/// combination of <c>state</c>, <c>stable</c> and <c>floppy</c> (<see cref="MarksKept"/> at most),
+/// from which a reader counts done, failed, unstable and floppy points without reading them.
 /// </summary>
 internal sealed class ColumnSummary
 {
@@ -18,20 +20,33 @@ internal sealed class ColumnSummary
     /// <summary>Distinct values kept per column: past this many the list says only that more follow.</summary>
     public const int DistinctKept = 64;
 
+    /// <summary>Combinations of the state and the two flags counted: past this many the summary has none (a reader then scans).</summary>
+    public const int MarksKept = 64;
+
     private readonly IReadOnlyList<ColumnDef> _columns;
     private readonly Column[] _stats;
+    private readonly int _state;
+    private readonly int _stable;
+    private readonly int _floppy;
+    private readonly Dictionary<(string? State, bool? Stable, bool? Floppy), long> _marks = [];
+    private bool _marksOver;
     private long _rows;
 
     public ColumnSummary(IReadOnlyList<ColumnDef> columns)
     {
         _columns = columns;
         _stats = [.. columns.Select(_ => new Column())];
+        int Find(string name, ColumnType type) => columns.Select((c, i) => (c, i)).FirstOrDefault(x => x.c.Name == name && x.c.Type == type, (null!, -1)).Item2;
+        _state = Find("state", ColumnType.Text);
+        _stable = Find("stable", ColumnType.Bool);
+        _floppy = Find("floppy", ColumnType.Bool);
     }
 
     /// <summary>Adds one row group's cells (typed arrays, <see cref="ColumnValues"/>).</summary>
     public void Add(IReadOnlyList<Array> values, int rows)
     {
         _rows += rows;
+        AddMarks(values, rows);
         for (var c = 0; c < _columns.Count; c++)
         {
             var s = _stats[c];
@@ -107,6 +122,36 @@ internal sealed class ColumnSummary
         }
     }
 
+    private void AddMarks(IReadOnlyList<Array> values, int rows)
+    {
+        if (_marksOver)
+        {
+            return;
+        }
+
+        var state = _state >= 0 ? values[_state] as string?[] : null;
+        var stable = _stable >= 0 ? values[_stable] as bool?[] : null;
+        var floppy = _floppy >= 0 ? values[_floppy] as bool?[] : null;
+        for (var i = 0; i < rows; i++)
+        {
+            var key = (state?[i], stable?[i], floppy?[i]);
+            if (_marks.TryGetValue(key, out var n))
+            {
+                _marks[key] = n + 1;
+            }
+            else if (_marks.Count < MarksKept)
+            {
+                _marks[key] = 1;
+            }
+            else
+            {
+                _marksOver = true;
+                _marks.Clear();
+                return;
+            }
+        }
+    }
+
     /// <summary>The summary as the JSON kept in the file's metadata.</summary>
     public string ToJson()
     {
@@ -151,10 +196,39 @@ internal sealed class ColumnSummary
             }
 
             json.WriteEndObject();
+            if (!_marksOver)
+            {
+                // [state, stable, floppy, rows]; null where the cell is empty or the table has no such column.
+                json.WriteStartArray("marks");
+                foreach (var ((state, stable, floppy), n) in _marks.OrderByDescending(m => m.Value))
+                {
+                    json.WriteStartArray();
+                    json.WriteStringValue(state);
+                    WriteFlag(json, stable);
+                    WriteFlag(json, floppy);
+                    json.WriteNumberValue(n);
+                    json.WriteEndArray();
+                }
+
+                json.WriteEndArray();
+            }
+
             json.WriteEndObject();
         }
 
         return System.Text.Encoding.UTF8.GetString(buffer.ToArray());
+    }
+
+    private static void WriteFlag(Utf8JsonWriter json, bool? flag)
+    {
+        if (flag is { } f)
+        {
+            json.WriteBooleanValue(f);
+        }
+        else
+        {
+            json.WriteNullValue();
+        }
     }
 
     private sealed class Column

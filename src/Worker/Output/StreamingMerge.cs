@@ -37,6 +37,7 @@ internal static class StreamingMerge
                 {
                     var columns = await ColumnsOfAsync(current[0], ct).ConfigureAwait(false);
                     var summary = table == TableNames.Points ? new ColumnSummary(columns) : null;
+                    using var final = Queue.StageTimings.MeasureAlone("merge: final pass, " + table);
                     var written = await MergeOnceAsync(current, output, table, metadata, budget.FinalGroupRowsFor(columns), summary, ct).ConfigureAwait(false);
                     return written;
                 }
@@ -52,6 +53,7 @@ internal static class StreamingMerge
                     }
 
                     var run = Path.Combine(scratch, $"run-{runNumber++:D5}.parquet");
+                    using var sorting = Queue.StageTimings.MeasureAlone("merge: sorted runs, " + table);
                     await MergeOnceAsync(group, run, table, new Dictionary<string, string>(), budget.RunGroupRowsFor(await ColumnsOfAsync(group[0], ct).ConfigureAwait(false)), null, ct).ConfigureAwait(false);
                     runs.Add(run);
                     next.Add(run);

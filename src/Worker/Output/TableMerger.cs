@@ -38,6 +38,7 @@ internal static class TableMerger
         {
             foreach (var table in tables)
             {
+                using var timing = Queue.StageTimings.MeasureAlone("merge: table " + table);
                 outcomes.Add(await MergeLockedAsync(sweepFolder, table, budget, ct).ConfigureAwait(false));
             }
 

@@ -49,7 +49,11 @@ public sealed class TableSummaryTests : IDisposable
         {
             await using var writer = await ParquetTableWriter.CreateAsync(file, contents.Rows.Columns,
                 contents.Metadata.Where(kv => kv.Key != ColumnSummary.Key && kv.Key != ParquetPartWriter.UnitsKey).ToDictionary(), CancellationToken.None);
-            await writer.WriteRowGroupAsync(contents.Rows, CancellationToken.None);
+            // A row group per row, so a small page reads a few groups and a large one reads whole columns.
+            for (var start = 0; start < contents.Rows.RowCount; start++)
+            {
+                await writer.WriteRowGroupAsync(contents.Rows, start, 1, CancellationToken.None);
+            }
         }
 
         var scanned = ColumnDataset.Of([await ParquetColumnFile.OpenAsync(bare, CancellationToken.None)], "point_id");
@@ -95,6 +99,30 @@ public sealed class TableSummaryTests : IDisposable
         Assert.Equal(Json(SweepPlots.Scatter(scanned, scanned, sweep, new ScatterPlotRequest())),
             Json(SweepPlots.Scatter(withSummary, withSummary, sweep, new ScatterPlotRequest())));
 
+        // The stability counts from the footer's rows per state and flags equal the scan's.
+        Assert.NotNull(summary.Marks);
+        Assert.Equal(StabilityCounts.Of(scanned), StabilityCounts.Of(withSummary));
+
+        // A page read from its row groups only (no column of the table loaded) equals the page of the same rows boxed.
+        var byRow = new ResultTable(scanned.Columns, [.. scanned.Rows]);
+        foreach (var query in new[] { new SummaryQuery(), new SummaryQuery("max_freq_thz", Descending: true, Offset: 1, Limit: 2), new SummaryQuery(Offset: 3, Limit: 2), new SummaryQuery(Offset: 3, Limit: 5) })
+        {
+            var file = await ParquetColumnFile.OpenAsync(bare, CancellationToken.None);
+            var fresh = ColumnDataset.Of([file], "point_id");
+            var paged = SummaryTable.Build(fresh, fresh, sweep, query);
+            // A page's rows (a group each here) are read from their groups alone while they are at most a quarter of the
+            // file's groups, else as whole columns: a shown column the page does not sort by is left unread in the first case.
+            if (paged.Columns.Any(c => c.Name == "cv_j_per_mol_k"))
+            {
+                var pageRows = Math.Min(query.Limit, fresh.Count - query.Offset);
+                Assert.Equal(pageRows * 4 <= fresh.Count, !file.Loaded(file.Columns.IndexOf(file.Columns.Single(c => c.Name == "cv_j_per_mol_k"))));
+            }
+            var boxed = SummaryTable.Build(byRow, byRow, sweep, query);
+            Assert.NotEmpty(paged.Rows);
+            Assert.Equal(boxed.Rows.Select(r => (r.PointId, string.Join('|', r.Values), r.Unstable, r.Floppy)), paged.Rows.Select(r => (r.PointId, string.Join('|', r.Values), r.Unstable, r.Floppy)));
+            Assert.Equal(boxed.Columns.Select(c => c.Name), paged.Columns.Select(c => c.Name));
+        }
+
         // A filtered view has no summary; a new part beside the merged file (a chunk re-run) drops it.
         Assert.Null(withSummary.Select([0]).Summary);
         var chunk = catalog.GetPoints(sweepId, new PointQuery(Limit: 1)).Single().ChunkId;
@@ -136,4 +164,42 @@ public sealed class TableSummaryTests : IDisposable
     }
 
     private static string Json(object? value) => JsonSerializer.Serialize(value);
+
+    [Fact]
+    public void Stability_counts_from_rows_per_state_and_flags_equal_a_scan_of_the_rows()
+    {
+        // Every combination the scan distinguishes: an old engine's unstable row (stable = false, state done), empty cells, failed rows, floppy models.
+        string?[] states = ["done", "unstable", "failed", null];
+        bool?[] flags = [true, false, null];
+        var rows = (from s in states from st in flags from f in flags select ImmutableArray.Create<object?>(s, st, f)).ToList();
+        rows.AddRange(rows.Take(5));
+        ResultColumn[] columns = [new("state", typeof(string), ""), new("stable", typeof(bool), ""), new("floppy", typeof(bool), "")];
+        var table = new ResultTable([.. columns], [.. rows]);
+        var marks = rows.GroupBy(r => ((string?)r[0], (bool?)r[1], (bool?)r[2])).Select(g => new TableSummary.Mark(g.Key.Item1, g.Key.Item2, g.Key.Item3, g.Count())).ToList();
+        Assert.Equal(StabilityCounts.Of(table), StabilityCounts.FromMarks(table, marks));
+
+        // A table without the floppy column (an older dataset) counts none and says it cannot tell.
+        var noFloppy = new ResultTable([.. columns[..2]], [.. rows.Select(r => r.RemoveAt(2))]);
+        Assert.Equal(StabilityCounts.Of(noFloppy), StabilityCounts.FromMarks(noFloppy, marks.Select(m => m with { Floppy = null })));
+    }
+
+    [Fact]
+    public void Plan_order_placed_by_index_is_the_sorted_order_or_nothing()
+    {
+        var random = new Random(7);
+        var permutation = Enumerable.Range(0, 1000).Select(i => (double)i).OrderBy(_ => random.Next()).ToArray();
+        var gaps = permutation.Where(k => k % 3 != 0).Select(k => k + 500).ToArray();
+        foreach (var keys in new[] { permutation, gaps })
+        {
+            Assert.Equal(Enumerable.Range(0, keys.Length).OrderBy(r => keys[r]), SummaryTable.PlacedByIndex(keys)!);
+        }
+
+        // Repeats, fractions, empty cells (sorted last as MaxValue), NaN and a wide span are left to the sort.
+        Assert.Null(SummaryTable.PlacedByIndex([2, 0, 2]));
+        Assert.Null(SummaryTable.PlacedByIndex([0, 1.5, 2]));
+        Assert.Null(SummaryTable.PlacedByIndex([1, double.MaxValue, 0]));
+        Assert.Null(SummaryTable.PlacedByIndex([1, double.NaN, 0]));
+        Assert.Null(SummaryTable.PlacedByIndex([0, 1, 100]));
+        Assert.Empty(SummaryTable.PlacedByIndex([])!);
+    }
 }

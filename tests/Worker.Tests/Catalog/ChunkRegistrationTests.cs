@@ -86,6 +86,13 @@ public sealed class ChunkRegistrationTests : IDisposable
         Assert.Equal(all.Skip(8).Take(4).Select(Shown), pendingChunk.Select(Shown));
         Assert.Equal(all.Skip(20).Take(1).Select(Shown), catalog.GetChunkPoints(id, chunks[5]).Select(Shown));
 
+        // Each point found by its id (its row, or the pending chunk that lists it) as the listing has it; nothing for an unknown id or sweep.
+        Assert.Equal(all.Select(Shown), all.Select(p => catalog.FindPoint(id, p.PointId)!).Select(Shown));
+        Assert.Null(catalog.FindPoint(id, "0123456789abcdef"));
+        Assert.Null(catalog.FindPoint(id, all[9].PointId[..8]));
+        Assert.Null(catalog.FindPoint(id, ""));
+        Assert.Null(catalog.FindPoint("no such sweep", all[9].PointId));
+
         Assert.Equal(new SweepCounts(21, 13, 4, 4, 0, 0), catalog.FindSweep(id)!.Counts);
         Assert.Equal(6, catalog.FindSweep(id)!.ChunkCount);
         var mass = catalog.GetAxisCoverage(id).Single(a => a.ColumnName == SomeSweep.MassColumn);
@@ -106,6 +113,8 @@ public sealed class ChunkRegistrationTests : IDisposable
         Assert.Equal(new SweepCounts(21, 0, 0, 4, 0, 17), catalog.FindSweep(id)!.Counts);
         Assert.Equal(17, catalog.GetPoints(id, new PointQuery(PointState.Cancelled, Limit: int.MaxValue)).Count);
         Assert.All(catalog.GetChunkPoints(id, chunks[4]), p => Assert.Equal(PointState.Cancelled, p.State));
+        Assert.Equal(PointState.Cancelled, catalog.FindPoint(id, catalog.GetChunkPoints(id, chunks[4])[1].PointId)!.State);
+        Assert.Equal(PointState.Done, catalog.FindPoint(id, catalog.GetChunkPoints(id, chunks[0])[1].PointId)!.State);
         Assert.Equal(ChunkDecision.Cancelled, catalog.BeginChunk(id, chunks[2], "test:1").Decision);
         Assert.Equal(new SweepCounts(21, 0, 0, 4, 0, 17), catalog.FindSweep(id)!.Counts);
 

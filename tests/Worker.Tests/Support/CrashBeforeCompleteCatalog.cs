@@ -16,6 +16,7 @@ internal sealed class CrashBeforeCompleteCatalog(ISweepCatalog inner) : ISweepCa
     public SweepRecord? FindSweep(string sweepIdOrName) => inner.FindSweep(sweepIdOrName);
     public IReadOnlyList<PointRecord> GetPoints(string sweepId, PointQuery query) => inner.GetPoints(sweepId, query);
     public IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId) => inner.GetChunkPoints(sweepId, chunkId);
+    public PointRecord? FindPoint(string sweepId, string pointId) => inner.FindPoint(sweepId, pointId);
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId) => inner.GetFailureGroups(sweepId);
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => inner.GetAxisCoverage(sweepId);
 
