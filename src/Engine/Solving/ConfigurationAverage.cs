@@ -145,7 +145,8 @@ internal static class ConfigurationAverage
             Dos = dos,
             Thermal = thermal.MoveToImmutable(),
             Displacements = displacements,
-            Modes = [],
+            // Each configuration is a crystal of its own with exact modes; they are listed side by side, not averaged.
+            Modes = [.. results.SelectMany((r, k) => r.Modes.Select(m => m with { Configuration = k }))],
             Surface = surface,
             Errors = errors,
         };

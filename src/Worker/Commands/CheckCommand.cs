@@ -135,6 +135,11 @@ public static class CheckCommand
             o.WriteLine($"  floppy       {N(f.FloppyPoints)} point(s) have modes of zero frequency away from q = 0 (e.g. point {floppy.Point.PointId} ({Describe(floppy.Point)}) at reduced q {floppy.Q}): some motion meets no spring there; those modes are left out of the thermal sums and counted in zero_modes_excluded");
         }
 
+        if (f.UnlistedModeExample is { } unlisted)
+        {
+            o.WriteLine($"  modes        {N(f.UnlistedModePoints)} finite point(s) will list no modes in modes/ (e.g. point {unlisted.Point.PointId} ({Describe(unlisted.Point)}): {unlisted.Reason})");
+        }
+
         if (f.WorstElasticFit is { } fit)
         {
             o.WriteLine($"  elastic fit  largest relative residual {fit.Residual:G3} (point {fit.Point.PointId}); central springs give C12 = C44");

@@ -71,7 +71,8 @@ internal sealed class ResultSchemas
             C<RowOf<DispersionRow>>("mode_grueneisen", ColumnType.Double, "1", "mode Grueneisen parameter -d ln omega / d ln V (with [output.expansion] mode_grueneisen = true; empty at omega = 0)", r => r.Item.ModeGrueneisen));
         Modes = Spec<ModeLevel>(TableNames.Modes, axes,
             C<RowOf<ModeLevel>>("freq_thz", ColumnType.Double, "THz", "a distinct mode frequency of the finite crystal", r => r.Item.FrequencyThz),
-            C<RowOf<ModeLevel>>("multiplicity", ColumnType.Int64, "", "modes sharing this frequency", r => r.Item.Multiplicity));
+            C<RowOf<ModeLevel>>("multiplicity", ColumnType.Int64, "", "modes sharing this frequency", r => r.Item.Multiplicity),
+            C<RowOf<ModeLevel>>("configuration", ColumnType.Int32, "", "random configuration (0-based) of a disordered sample whose mode this is; empty for an ordered crystal", r => r.Item.Configuration));
         Displacements = Spec<DisplacementRow>(TableNames.MeanSquareDisplacements, axes,
             C<RowOf<DisplacementRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
             C<RowOf<DisplacementRow>>("site", ColumnType.Int32, "", "basis site (0-based)", r => r.Item.Site),

@@ -97,4 +97,32 @@ public sealed class DisorderTests
 
         Approx.Equal(expected.Summary.MaxFrequencyThz, actual.Summary.MaxFrequencyThz, 1e-9, "max frequency");
     }
+
+    [Fact]
+    public void One_light_substitute_in_a_ring_lists_each_configuration_with_the_local_mode_above_the_band()
+    {
+        // A mass m' = (1 - eps) m in a monatomic chain pulls one mode out of the band, at
+        // omega_max / sqrt(1 - eps^2) (Montroll and Potts, Phys. Rev. 100, 525 (1955); from memory).
+        // In a ring of 400 it decays within a few sites, so the ring gives it to round-off. Every
+        // configuration (one substitute, wherever it falls) is the same ring turned, with the same modes.
+        const double eps = 0.5;
+        var sample = RealSpaceSample.Box(400, 1, 1) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", (1 - eps) * Crystals.MassAmu, 1.0 / 400, 1.0)], 3, Seed: 2),
+        };
+        var result = PhononSolver.Solve(Crystals.ScalarChain(), sample, new SolveOptions { TemperaturesK = [300] });
+
+        var top = Crystals.Thz(2 * Crystals.Omega0());
+        Assert.Equal([0, 1, 2], result.Modes.Select(m => m.Configuration!.Value).Distinct());
+        foreach (var configuration in result.Modes.GroupBy(m => m.Configuration))
+        {
+            Assert.Equal(400, configuration.Sum(m => m.Multiplicity));
+            var levels = configuration.OrderByDescending(m => m.FrequencyThz).ToArray();
+            Approx.Equal(top / Math.Sqrt(1 - (eps * eps)), levels[0].FrequencyThz, 1e-12, "local mode");
+            Assert.True(levels[1].FrequencyThz < top * (1 + 1e-12), "the rest stay in the band");
+        }
+
+        Assert.All(PhononSolver.Solve(Crystals.ScalarChain(), FiniteSample.Create(400, 1, 1), new SolveOptions { TemperaturesK = [300] }).Modes,
+            m => Assert.Null(m.Configuration));
+    }
 }

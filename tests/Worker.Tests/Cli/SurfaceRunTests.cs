@@ -172,5 +172,14 @@ public sealed class SurfaceRunTests : IDisposable
         Assert.All(db.Rows($"SELECT cv_stderr_j_per_mol_k, ordered_cv_j_per_mol_k FROM {thermal}"), r => Assert.True(r[0] is not null && r[1] is not null));
         var dos = DuckDb.Glob(Path.Combine(folder, "dos"));
         Assert.Equal(0L, db.Scalar($"SELECT count(*) FROM {dos} WHERE curve = 'total' AND dos_stderr_per_thz_per_cell IS NULL"));
+
+        // Each configuration's exact modes, side by side: 27 atoms x 3 components each.
+        var modes = DuckDb.Glob(Path.Combine(folder, "modes"));
+        var perConfiguration = db.Rows($"""
+            SELECT p.sample_disorder_substitutions_0_concentration, m.configuration, CAST(sum(m.multiplicity) AS BIGINT)
+            FROM {modes} m JOIN {points} p USING (point_id) GROUP BY 1, 2 ORDER BY 1, 2
+            """);
+        Assert.Equal([0, 1, 2, 0, 1, 2], perConfiguration.Select(r => (int)r[1]!));
+        Assert.All(perConfiguration, r => Assert.Equal(81L, (long)r[2]!));
     }
 }

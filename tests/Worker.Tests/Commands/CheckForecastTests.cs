@@ -118,6 +118,50 @@ public sealed class CheckForecastTests : IDisposable
     }
 
     [Fact]
+    public void Check_says_which_finite_points_will_list_no_modes_and_why()
+    {
+        var job = """
+            [sweep]
+            name = "mode-lists"
+
+            [[sweep.axes]]
+            path = "sample.cells"
+            values = [10, 20, 100]
+
+            [model]
+            lattice = "chain"
+            constant_nm = 0.3
+            motion = "scalar"
+
+            [[model.sites]]
+            label = "A"
+            mass_amu = 30.0
+
+            [[model.springs]]
+            from = "A"
+            to = "A"
+            longitudinal_n_per_m = 20.0
+
+            [sample]
+            kind = "finite"
+            cells = 10
+
+            [output]
+            mode_list_max_modes = 50
+            """;
+        var (code, output, _) = Check(job);
+
+        Assert.Equal(0, code);
+        Assert.Contains("modes        1 finite point(s) will list no modes in modes/ (e.g. point ", output, StringComparison.Ordinal);
+        Assert.Contains("sample_cells = 100): 100 modes, more than output.mode_list_max_modes = 50)", output, StringComparison.Ordinal);
+
+        var (_, listed, _) = Check(job.Replace("mode_list_max_modes = 50", "mode_list_max_modes = 100", StringComparison.Ordinal));
+        Assert.DoesNotContain("will list no modes", listed, StringComparison.Ordinal);
+        var (_, without, _) = Check(job.Replace("mode_list_max_modes = 50", "mode_list_max_modes = 50\ntables = [\"dos\"]", StringComparison.Ordinal));
+        Assert.DoesNotContain("will list no modes", without, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Models_are_built_once_per_distinct_model_and_a_spent_budget_gives_a_stated_spread_sample()
     {
         using var dir = new TempDirectory();

@@ -48,6 +48,8 @@ internal static class SweepForecast
         (PlannedPoint Point, double Seconds)? costliest = null;
         (PlannedPoint Point, Vec3 Q)? floppy = null;
         var floppyPoints = 0L;
+        (PlannedPoint Point, string Reason)? unlisted = null;
+        var unlistedPoints = 0L;
         (PlannedPoint Point, double Residual)? worstFit = null;
         var modelsNotPreflighted = 0;
         var key = new StringBuilder();
@@ -94,6 +96,12 @@ internal static class SweepForecast
                     aboveLimit += s > plan.WarnPointTimeS ? 1 : 0;
                     peakBytes = Math.Max(peakBytes, PhononSolver.Estimate(model, sample, options).PeakBytes);
                     diskBytes += Commands.CheckCommand.DiskBytes(plan.Outputs, model, sample, options);
+                    if (plan.Outputs.Modes && PhononSolver.ModeListGap(model, sample, options) is { } gap)
+                    {
+                        unlistedPoints++;
+                        unlisted ??= (point, gap);
+                    }
+
                     if (entry.Preflight?.ZeroModeAtReducedQ is { } q)
                     {
                         floppyPoints++;
@@ -147,6 +155,8 @@ internal static class SweepForecast
             EvaluatedDiskBytes = diskBytes,
             FloppyPoints = floppyPoints,
             FloppyExample = floppy is { } f ? (f.Point, f.Q) : null,
+            UnlistedModePoints = unlistedPoints,
+            UnlistedModeExample = unlisted,
             WorstElasticFit = worstFit,
         };
     }
@@ -212,6 +222,11 @@ internal sealed record ForecastReport
     public required double EvaluatedDiskBytes { get; init; }
     public required long FloppyPoints { get; init; }
     public required (PlannedPoint Point, Vec3 Q)? FloppyExample { get; init; }
+
+    /// <summary>Finite points whose <c>modes</c> rows will stay empty, and the first with its reason.</summary>
+    public long UnlistedModePoints { get; init; }
+
+    public (PlannedPoint Point, string Reason)? UnlistedModeExample { get; init; }
     public required (PlannedPoint Point, double Residual)? WorstElasticFit { get; init; }
 
     /// <summary>True when the budget ran out before every point was evaluated.</summary>
