@@ -94,6 +94,9 @@ internal readonly struct Lanes4 : ILanes<Lanes4>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static bool Any(Lanes4 mask) => mask._v.AsUInt64() != Vector256<ulong>.Zero;
 
+    // Inlined like every other lane operation: a call that passes the vector by value makes crossgen2
+    // leave its caller (BatchTridiagonal.Diagonalize) to the JIT (bench/README.md, round 5 of the queue).
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static double MaxAcross(Lanes4 a)
     {
         var m = a._v.GetElement(0);

@@ -115,6 +115,9 @@ internal readonly struct Lanes8 : ILanes<Lanes8>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static bool Any(Lanes8 mask) => mask._v.AsUInt64() != Vector512<ulong>.Zero;
 
+    // Inlined like every other lane operation: a call that passes the vector by value makes crossgen2
+    // leave its caller (BatchTridiagonal.Diagonalize) to the JIT (bench/README.md, round 5 of the queue).
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static double MaxAcross(Lanes8 a)
     {
         var m = a._v.GetElement(0);
