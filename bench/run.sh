@@ -3,7 +3,7 @@
 # side and on the NumPy peer with the same inputs (bench/cases.json), prints the ratios and checks that
 # both agree. Usage: bench/run.sh [CASE...]   (cases: eigen bulk finite-chain finite-3d queue expansion, the
 # default; run only when named: eigen-paths, which times every SIMD width and method of the eigen-solver
-# per order, "cost", which calibrates the Worker's run-time estimate, and surfaces-dense surfaces-kpm
+# per order, bulk-defaults (case (b) with partial DOS and displacements, ours alone), "cost", which calibrates the Worker's run-time estimate, and surfaces-dense surfaces-kpm
 # surfaces-kpm-denser surfaces-memory (free nanocrystals), all ours alone).
 # LATSWEEP_SIMD_WIDTH=256|512|scalar forces our kernels' width (DOTNET_EnableAVX512=0 makes the runtime
 # behave as on a processor without AVX-512).
@@ -80,6 +80,11 @@ for c in "${cases[@]}"; do
   if [ "$c" = expansion ]; then
     # Ours against ours: one quasi-harmonic point against the harmonic solves it is made of.
     "$bench" expansion --cases "$here/cases.json" --out "$results" --repeats "$repeats"
+    continue
+  fi
+  if [ "$c" = bulk-defaults ]; then
+    # Ours alone: case (b)'s point with partial DOS and displacements on (the job file's defaults).
+    "$bench" bulk-defaults --cases "$here/cases.json" --out "$results" --repeats "$repeats"
     continue
   fi
   if [ "$c" = eigen-paths ]; then
