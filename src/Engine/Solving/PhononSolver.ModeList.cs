@@ -30,7 +30,7 @@ public static partial class PhononSolver
                 var ordered = real.Disorder is null;
                 var (blockSites, images) = BlockSize(crystal, real, ordered);
                 var n = blockSites * crystal.Components;
-                if (real.Method == RealSpaceMethod.KernelPolynomial || DenseTooLarge(blockSites, n, images > 1, real, options) is not null)
+                if (TakesKernelPolynomial(blockSites, n, images > 1, real, options))
                 {
                     return "solved by the kernel polynomial method, which resolves no single modes";
                 }

@@ -115,6 +115,10 @@ public static partial class PhononSolver
         return RealSpaceDenseSolver.Solve(lattice, properties, temperatures, options, sample.SurfaceWeightThreshold, record, ct);
     }
 
+    /// <summary>Whether a block of this size is solved by the kernel polynomial method (asked for, or too large to solve densely).</summary>
+    private static bool TakesKernelPolynomial(long blockSites, long size, bool complex, RealSpaceSample sample, SolveOptions options) =>
+        sample.Method == RealSpaceMethod.KernelPolynomial || DenseTooLarge(blockSites, size, complex, sample, options) is not null;
+
     /// <summary>Why a block does not fit the dense solver, or null when it does.</summary>
     private static string? DenseTooLarge(long blockSites, long size, bool complex, RealSpaceSample sample, SolveOptions options)
     {
@@ -184,8 +188,7 @@ public static partial class PhononSolver
         var configurations = sample.Disorder?.Configurations ?? 1;
         var n = blockSites * crystal.Components;
         var complex = images > 1;
-        var kpm = sample.Method == RealSpaceMethod.KernelPolynomial || DenseTooLarge(blockSites, n, complex, sample, options) is not null;
-        if (kpm)
+        if (TakesKernelPolynomial(blockSites, n, complex, sample, options))
         {
             // Each of R vectors: moments / 2 products with the sparse operator (18 flops per spring and
             // direction) plus the group sums and the projection; then the densities on 4096 + bins edges.
