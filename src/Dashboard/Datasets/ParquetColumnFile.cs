@@ -96,6 +96,27 @@ internal sealed class ParquetColumnFile
             using var group = reader.OpenRowGroupReader(g);
             groupStarts[g] = checked((int)rows);
             rows += group.RowCount;
+            // The footer's own null counts when its column chunks are the fields in order (a flat table, as
+            // the Worker writes): GetStatistics decodes each chunk's min and max too, ~35-250 ms for the
+            // 12,000 chunks of a merged file of 10^6 / 3 rows, against under 1 ms.
+            if (reader.Metadata?.RowGroups[g].Columns is { } footer && footer.Count == fields.Length
+                && footer.Select((k, c) => k.MetaData?.PathInSchema is [var only] && only == fields[c].Name).All(x => x))
+            {
+                for (var c = 0; c < fields.Length; c++)
+                {
+                    if (footer[c].MetaData!.Statistics?.NullCount is { } n)
+                    {
+                        nulls[c] += n;
+                    }
+                    else
+                    {
+                        known[c] = false;
+                    }
+                }
+
+                continue;
+            }
+
             for (var c = 0; c < fields.Length; c++)
             {
                 if (group.GetStatistics(fields[c])?.NullCount is { } n)

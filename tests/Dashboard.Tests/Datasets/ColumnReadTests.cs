@@ -79,6 +79,12 @@ public sealed class ColumnReadTests
         ColumnsEqualTheWholeRead();
         Assert.True(file.ReaderOpen);
 
+        // Which columns have a value, from the footer's null counts, as the whole read finds them.
+        Assert.Equal(
+            file.Columns.Select(c => (bool?)whole.Rows.Any(r => r[whole.IndexOf(c.Name)] is not null)),
+            Enumerable.Range(0, file.Columns.Length).Select(file.Filled));
+        Assert.Contains(false, Enumerable.Range(0, file.Columns.Length).Select(file.Filled));
+
         // Idle past the keeping time: closed, its handle released (a merge may remove the file).
         await Task.Delay(ParquetColumnFile.ReaderKept + TimeSpan.FromSeconds(2));
         Assert.False(file.ReaderOpen);
