@@ -56,6 +56,67 @@ public sealed class ColumnReadTests
     }
 
     [Fact]
+    public async Task A_files_reader_is_kept_open_between_column_reads_for_a_while_then_closed_and_opened_again_on_need()
+    {
+        using var store = DemoStore.Create();
+        var (_, points) = await UnstableSweepAsync(store);
+        var path = Directory.GetFiles(points, "*.parquet").Order(StringComparer.Ordinal).First();
+        var whole = await ParquetTableReader.ReadAsync([path], CancellationToken.None);
+
+        var file = await ParquetColumnFile.OpenAsync(path, CancellationToken.None);
+        Assert.True(file.ReaderOpen, "the footer's reader should be kept for the first column reads");
+        void ColumnsEqualTheWholeRead()
+        {
+            foreach (var name in new[] { "max_freq_thz", "point_id", "state" })
+            {
+                var c = file.Columns.Select(x => x.Name).ToList().IndexOf(name);
+                var cells = file.Column(c);
+                var w = whole.IndexOf(name);
+                Assert.Equal(whole.Rows.Select(r => r[w]), Enumerable.Range(0, file.RowCount).Select(cells.Cell));
+            }
+        }
+
+        ColumnsEqualTheWholeRead();
+        Assert.True(file.ReaderOpen);
+
+        // Which columns have a value, from the footer's null counts, as the whole read finds them.
+        Assert.Equal(
+            file.Columns.Select(c => (bool?)whole.Rows.Any(r => r[whole.IndexOf(c.Name)] is not null)),
+            Enumerable.Range(0, file.Columns.Length).Select(file.Filled));
+        Assert.Contains(false, Enumerable.Range(0, file.Columns.Length).Select(file.Filled));
+
+        // Idle past the keeping time: closed, its handle released (a merge may remove the file).
+        await ClosedWhenIdle(file);
+        var again = await ParquetColumnFile.OpenAsync(path, CancellationToken.None);
+        await ClosedWhenIdle(again);
+        file = again;
+        ColumnsEqualTheWholeRead();
+
+        // Never more than a bounded number of files kept open at once (a running sweep has thousands of parts).
+        var many = new List<ParquetColumnFile>();
+        for (var i = 0; i < ParquetColumnFile.MaxReadersKept + 8; i++)
+        {
+            many.Add(await ParquetColumnFile.OpenAsync(path, CancellationToken.None));
+        }
+
+        Assert.InRange(many.Count(f => f.ReaderOpen), 0, ParquetColumnFile.MaxReadersKept);
+        file = many[^1];
+        ColumnsEqualTheWholeRead();
+    }
+
+    /// <summary>Waits for the file's idle reader to close: after the keeping time, within a busy machine's timer delays.</summary>
+    private static async Task ClosedWhenIdle(ParquetColumnFile file)
+    {
+        await Task.Delay(ParquetColumnFile.ReaderKept);
+        for (var waited = 0; waited < 150 && file.ReaderOpen; waited++)
+        {
+            await Task.Delay(100);
+        }
+
+        Assert.False(file.ReaderOpen, "an idle reader should be closed after the keeping time");
+    }
+
+    [Fact]
     public async Task The_results_json_of_a_many_file_table_pages_sorts_and_filters_as_duckdb_reads_the_files()
     {
         using var store = DemoStore.Create();
