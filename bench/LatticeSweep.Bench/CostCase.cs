@@ -42,7 +42,7 @@ internal static class CostCase
             var estimate = x.Zip(k, (a, b) => a * b).Sum();
             var current = PointCost.Seconds(PointCost.WorkOf(c.Model, c.Sample, c.Options));
             Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {c.Name,-34} fit/measured {estimate / seconds,6:F2}   in-code/measured {current / seconds,6:F2}"));
-            ratios.Add(new() { ["case"] = c.Name, ["measured_s"] = seconds, ["fit_s"] = estimate, ["in_code_s"] = current });
+            ratios.Add(new() { ["case"] = c.Name, ["measured_s"] = seconds, ["fit_s"] = estimate, ["in_code_s"] = current, ["work"] = x });
         }
 
         return new() { ["seconds_per_unit"] = k, ["cases"] = ratios };
@@ -60,6 +60,7 @@ internal static class CostCase
         var plain = new SolveOptions { TemperaturesK = [10, 50, 100, 200, 300, 500], ReferenceTemperatureK = 300, PartialDos = false, MeanSquareDisplacement = false, ModeListMaxModes = 0 };
         var full = plain with { PartialDos = true, MeanSquareDisplacement = true };
         var manyT = plain with { TemperaturesK = [.. Enumerable.Range(1, 200).Select(i => i * 5.0)] };
+        var fullManyT = manyT with { PartialDos = true, MeanSquareDisplacement = true };
         var kappa = plain with { Conductivity = new ConductivityOptions { Constant = new ConstantScattering(1) } };
         return
         [
@@ -81,6 +82,7 @@ internal static class CostCase
             new("bulk fcc n=6 mesh 24^3, 200 T", fcc2, BulkSample.Create(24, 24, 24), manyT),
             new("bulk fcc n=6 mesh 24^3 vectors", fcc2, BulkSample.Create(24, 24, 24), full),
             new("bulk fcc n=6 mesh 48^3 vectors", fcc2, BulkSample.Create(48, 48, 48), full), // bench case (b)'s mesh with the job file's defaults
+            new("bulk fcc n=6 mesh 48^3 vectors, 200 T", fcc2, BulkSample.Create(48, 48, 48), fullManyT), // as bench case bulk-defaults
             new("bulk fcc n=6 mesh 24x23x22 vectors", fcc2, BulkSample.Create(24, 23, 22), full), // no two counts alike: every tetrahedron
             new("bulk stack n=12 mesh 16x16x4", Stack(4), BulkSample.Create(16, 16, 4), plain),
             new("bulk stack n=24 mesh 12x12x3", Stack(8), BulkSample.Create(12, 12, 3), plain),

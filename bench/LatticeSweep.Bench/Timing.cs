@@ -15,6 +15,7 @@ internal static class Timing
             run();
         }
 
+        var diagnose = Environment.GetEnvironmentVariable("LATSWEEP_BENCH_DIAG") == "1";
         var samples = new List<double>();
         var cpu = new List<double>();
         var total = Stopwatch.StartNew();
@@ -22,15 +23,40 @@ internal static class Timing
         {
             GC.Collect();
             GC.WaitForPendingFinalizers();
+            var gcs0 = (GC.CollectionCount(0), GC.CollectionCount(1), GC.CollectionCount(2));
+            var allocated0 = GC.GetTotalAllocatedBytes(precise: false);
+            var main0 = diagnose ? MainThreadCpu() : TimeSpan.Zero;
             var cpu0 = Environment.CpuUsage.TotalTime;
             var sw = Stopwatch.StartNew();
             run();
             samples.Add(sw.Elapsed.TotalSeconds);
             cpu.Add((Environment.CpuUsage.TotalTime - cpu0).TotalSeconds);
+            if (diagnose)
+            {
+                // Where process CPU above wall time goes: the timed thread's own CPU, collections, allocation.
+                Console.Error.WriteLine(FormattableString.Invariant(
+                    $"    run {samples.Count}: wall {samples[^1]:F4} s, process CPU {cpu[^1]:F4} s, this thread {(MainThreadCpu() - main0).TotalSeconds:F4} s, GCs {GC.CollectionCount(0) - gcs0.Item1}/{GC.CollectionCount(1) - gcs0.Item2}/{GC.CollectionCount(2) - gcs0.Item3}, allocated {(GC.GetTotalAllocatedBytes(precise: false) - allocated0) / 1048576.0:F1} MiB, JIT'd methods {System.Runtime.JitInfo.GetCompiledMethodCount()}"));
+            }
         }
 
         var sorted = samples.Order().ToArray();
         return new Result(Median(sorted), sorted[0], [.. samples], Median([.. cpu.Order()]));
+    }
+
+    /// <summary>The calling thread's CPU time (Linux: /proc/thread-self/stat, user + system ticks at 100 Hz).</summary>
+    private static TimeSpan MainThreadCpu()
+    {
+        try
+        {
+            var stat = File.ReadAllText("/proc/thread-self/stat");
+            var fields = stat[(stat.LastIndexOf(')') + 2)..].Split(' ');
+            var ticks = long.Parse(fields[11], System.Globalization.CultureInfo.InvariantCulture) + long.Parse(fields[12], System.Globalization.CultureInfo.InvariantCulture);
+            return TimeSpan.FromSeconds(ticks / 100.0);
+        }
+        catch (IOException)
+        {
+            return TimeSpan.Zero;
+        }
     }
 
     private static double Median(double[] sorted) => sorted.Length % 2 == 1

@@ -52,74 +52,94 @@ internal static class BulkSolver
             throw new ModelException([tooLarge]);
         }
 
-        var frequencies = TakeFrequencyBuffer(grid.Count * n);
+        var wantWeights = sink.WantsChannelFractions || options.PartialDos;
+        var frequencies = TakeKept(ref keptFrequencies, grid.Count * n);
+        var weights = wantWeights ? TakeKept(ref keptWeights, grid.Count * n * n) : null;
         try
         {
-            return Solve(solver, sample, options, sink, grid, frequencies, ct);
+            return Solve(solver, sample, options, sink, grid, frequencies, weights, ct);
         }
         finally
         {
-            ReturnFrequencyBuffer(frequencies);
+            ReturnKept(ref keptFrequencies, frequencies);
+            if (weights is not null)
+            {
+                ReturnKept(ref keptWeights, weights);
+            }
         }
     }
 
     /// <summary>
-    /// A mesh's frequency array kept for the next solve of the same mesh on this thread (sweeps solve
-    /// many points of one mesh): a fresh 5 MB array costs page faults and zeroing, ~5% of a 48^3 point.
-    /// Every element is written before it is read (each mesh point is in the half set or its partner
-    /// is). Taken out while in use, so a nested solve gets its own. Arrays over 64 MiB are not kept.
+    /// A mesh's frequency array, and its channel-weight array (branches times larger: ~32 MB for a
+    /// two-site 48^3 point), kept for the next solve of the same mesh on this thread (sweeps solve many
+    /// points of one mesh): a fresh array costs page faults and zeroing (~5% of a 48^3 point for the
+    /// frequencies), and a fresh 32 MB one lands on the large-object heap, whose collections are gen-2
+    /// ones. Every element is written before it is read (each mesh point is in the half set or its
+    /// partner is; every branch and channel of it), so nothing of the previous point can leak into the
+    /// next. Taken out while in use, so a nested solve gets its own. Arrays over 64 MiB are not kept.
     /// </summary>
     [ThreadStatic]
     private static double[]? keptFrequencies;
 
-    private const long KeptFrequencyBytesLimit = 64L << 20;
+    [ThreadStatic]
+    private static double[]? keptWeights;
 
-    private static double[] TakeFrequencyBuffer(long length)
+    private const long KeptBytesLimit = 64L << 20;
+
+    private static double[] TakeKept(ref double[]? kept, long length)
     {
-        var kept = keptFrequencies;
-        if (kept is not null && kept.LongLength == length)
+        var array = kept;
+        if (array is not null && array.LongLength == length)
         {
-            keptFrequencies = null;
-            return kept;
+            kept = null;
+            return array;
         }
 
         return new double[length];
     }
 
-    private static void ReturnFrequencyBuffer(double[] frequencies)
+    private static void ReturnKept(ref double[]? kept, double[] array)
     {
-        if (frequencies.LongLength * sizeof(double) <= KeptFrequencyBytesLimit)
+        if (array.LongLength * sizeof(double) <= KeptBytesLimit)
         {
-            keptFrequencies = frequencies;
+            kept = array;
         }
     }
 
-    private static SpectrumOutcome Solve(ModeSolver solver, BulkSample sample, SolveOptions options, ModeSink sink, PeriodicGrid grid, double[] frequencies, CancellationToken ct)
+    private static SpectrumOutcome Solve(ModeSolver solver, BulkSample sample, SolveOptions options, ModeSink sink, PeriodicGrid grid, double[] frequencies, double[]? weights, CancellationToken ct)
     {
         var n = solver.Size;
         var crystal = solver.Matrix.Crystal;
         var lattice = crystal.Lattice;
         var dimension = lattice.Dimension;
-        var wantWeights = sink.WantsChannelFractions || options.PartialDos;
-        var weights = wantWeights ? new double[grid.Count * n * n] : null;
+        var wantWeights = weights is not null;
         var stats = new SpectrumStatistics(n);
         var fractions = new double[n];
         solver.SolveHalfSet(grid, wantWeights, (in GridPoint point, int slot) =>
         {
             var values = solver.BatchValues(slot);
             stats.Observe(values, point.Reduced, point.IsGamma ? crystal.Components : 0);
-            for (var copy = 0; copy < point.Weight; copy++)
+            for (var k = 0; k < n; k++)
             {
-                var index = copy == 0 ? point.Index : point.PartnerIndex;
+                frequencies[point.Index * n + k] = ModeSolver.SignedThz(values[k]);
+            }
+
+            if (weights is not null)
+            {
+                // Each mode's channel fractions straight into the point's block (mode-major, n each).
                 for (var k = 0; k < n; k++)
                 {
-                    frequencies[index * n + k] = ModeSolver.SignedThz(values[k]);
-                    if (weights is not null)
-                    {
-                        // |e(-q)|^2 = |e(q)*|^2: the partner shares the weights.
-                        solver.BatchChannelFractions(slot, k, fractions);
-                        Array.Copy(fractions, 0, weights, (index * n + k) * n, n);
-                    }
+                    solver.BatchChannelFractions(slot, k, weights.AsSpan((int)((point.Index * n + k) * n), n));
+                }
+            }
+
+            if (point.Weight > 1)
+            {
+                // The partner -q has the same frequencies, and |e(-q)|^2 = |e(q)*|^2 the same weights.
+                Array.Copy(frequencies, point.Index * n, frequencies, point.PartnerIndex * n, n);
+                if (weights is not null)
+                {
+                    Array.Copy(weights, point.Index * n * n, weights, point.PartnerIndex * n * n, n * n);
                 }
             }
         }, ct);
