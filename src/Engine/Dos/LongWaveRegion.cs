@@ -623,6 +623,7 @@ internal sealed class LongWaveRegion
     [MethodImpl(MethodImplOptions.AggressiveInlining)] // precompiled code did not inline it (bench/README.md, round 6 of the queue)
     private static double Power(double rho, int d) => d switch { 1 => rho, 2 => rho * rho, _ => rho * rho * rho };
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)] // called per bin; a call from precompiled code goes through a stub
     private static void Put(int bin, double amount, int bins, double[] total, double[] partial, double[]? fractions)
     {
         total[bin] += amount;

@@ -118,7 +118,11 @@ internal static class BulkSolver
                     {
                         // |e(-q)|^2 = |e(q)*|^2: the partner shares the weights.
                         solver.BatchChannelFractions(slot, k, fractions);
-                        Array.Copy(fractions, 0, weights, (index * n + k) * n, n);
+                        var at = (index * n + k) * n; // a plain loop: Array.Copy is a call out of precompiled code
+                        for (var c = 0; c < n; c++)
+                        {
+                            weights[at + c] = fractions[c];
+                        }
                     }
                 }
             }
