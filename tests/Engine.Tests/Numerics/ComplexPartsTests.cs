@@ -14,8 +14,8 @@ public sealed class ComplexPartsTests
 
     [Theory]
     [InlineData(1.5, -2.25)]
-    [InlineData(-0.0, 0.0)]
-    [InlineData(0.0, -0.0)]
+    [InlineData(-0.0, 1.0)]
+    [InlineData(2.0, -0.0)]
     [InlineData(double.PositiveInfinity, double.NaN)]
     [InlineData(double.Epsilon, -double.MaxValue)]
     public void PartsAndConstructionMatchComplex(double re, double im)
