@@ -13,7 +13,7 @@ internal readonly record struct FrequencyGrid(double StartThz, double WidthThz, 
     public int BinOf(double frequencyThz)
     {
         var b = (int)Math.Floor((frequencyThz - StartThz) / WidthThz);
-        return Math.Clamp(b, 0, Bins - 1);
+        return b < 0 ? 0 : b > Bins - 1 ? Bins - 1 : b; // Math.Clamp's result; precompiled code would call it out of line
     }
 
     /// <summary>A grid covering [min(0, lowest), highest] with a hair of head-room so the top mode falls inside.</summary>

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.QPoints;
 using LatticeSweep.Engine.Samples;
@@ -619,8 +620,10 @@ internal sealed class LongWaveRegion
         Put(last, states - below, grid.Bins, total, partial, fractions);
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)] // precompiled code did not inline it (bench/README.md, round 6 of the queue)
     private static double Power(double rho, int d) => d switch { 1 => rho, 2 => rho * rho, _ => rho * rho * rho };
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)] // called per bin; a call from precompiled code goes through a stub
     private static void Put(int bin, double amount, int bins, double[] total, double[] partial, double[]? fractions)
     {
         total[bin] += amount;

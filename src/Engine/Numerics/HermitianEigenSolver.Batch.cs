@@ -336,8 +336,8 @@ public static partial class HermitianEigenSolver
                 for (var j = i; j < n; j++)
                 {
                     var v = scaled[(i * n) + j];
-                    reLanes[(((i * n) + j) * lanes) + lane] = v.Real;
-                    imLanes[(((i * n) + j) * lanes) + lane] = j == i ? 0.0 : v.Imaginary;
+                    reLanes[(((i * n) + j) * lanes) + lane] = ComplexParts.Re(v);
+                    imLanes[(((i * n) + j) * lanes) + lane] = j == i ? 0.0 : ComplexParts.Im(v);
                 }
             }
         }
@@ -446,7 +446,7 @@ public static partial class HermitianEigenSolver
                 for (var k = 0; k < n; k++)
                 {
                     var source = (((i * n) + order[k]) * lanes) + lane;
-                    target[(i * n) + k] = new Complex(vreLanes[source], vimLanes[source]);
+                    target[(i * n) + k] = ComplexParts.Make(vreLanes[source], vimLanes[source]);
                 }
             }
         }

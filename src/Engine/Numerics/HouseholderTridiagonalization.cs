@@ -29,17 +29,17 @@ internal static class HouseholderTridiagonalization
         for (int k = 0; k < n - 2; k++)
         {
             int m = n - k - 1;
-            d[k] = h[(k * n) + k].Real;
+            d[k] = ComplexParts.Re(h[(k * n) + k]);
 
             // Row k right of the diagonal is the conjugate of column k below it (h is Hermitian).
             Span<Complex> u = h.Slice((k * n) + k + 1, m);
             double sumSquares = 0.0;
             for (int j = 0; j < m; j++)
             {
-                sumSquares += (u[j].Real * u[j].Real) + (u[j].Imaginary * u[j].Imaginary);
+                sumSquares += (ComplexParts.Re(u[j]) * ComplexParts.Re(u[j])) + (ComplexParts.Im(u[j]) * ComplexParts.Im(u[j]));
             }
 
-            Complex x0 = Complex.Conjugate(u[0]);
+            Complex x0 = ComplexParts.Make(ComplexParts.Re(u[0]), -ComplexParts.Im(u[0]));
             double s = Math.Sqrt(sumSquares);
             if (s <= NegligibleColumnNorm)
             {
@@ -48,14 +48,14 @@ internal static class HouseholderTridiagonalization
                 continue;
             }
 
-            double absX0 = Math.Sqrt((x0.Real * x0.Real) + (x0.Imaginary * x0.Imaginary));
-            Complex unit = absX0 > 0.0 ? new Complex(x0.Real / absX0, x0.Imaginary / absX0) : Complex.One;
+            double absX0 = Math.Sqrt((ComplexParts.Re(x0) * ComplexParts.Re(x0)) + (ComplexParts.Im(x0) * ComplexParts.Im(x0)));
+            Complex unit = absX0 > 0.0 ? ComplexParts.Make(ComplexParts.Re(x0) / absX0, ComplexParts.Im(x0) / absX0) : Complex.One;
 
             // u = x - alpha e_1 with alpha = -unit s: no cancellation in u_0 = unit (|x0| + s).
             u[0] = unit * (absX0 + s);
             for (int j = 1; j < m; j++)
             {
-                u[j] = Complex.Conjugate(u[j]);
+                u[j] = ComplexParts.Make(ComplexParts.Re(u[j]), -ComplexParts.Im(u[j]));
             }
 
             double t = 1.0 / (s * (s + absX0));
@@ -73,12 +73,12 @@ internal static class HouseholderTridiagonalization
                 {
                     Complex b = row[j];
                     Complex uj = u[j];
-                    re += (b.Real * uj.Real) - (b.Imaginary * uj.Imaginary);
-                    im += (b.Real * uj.Imaginary) + (b.Imaginary * uj.Real);
+                    re += (ComplexParts.Re(b) * ComplexParts.Re(uj)) - (ComplexParts.Im(b) * ComplexParts.Im(uj));
+                    im += (ComplexParts.Re(b) * ComplexParts.Im(uj)) + (ComplexParts.Im(b) * ComplexParts.Re(uj));
                 }
 
-                p[i] = new Complex(t * re, t * im);
-                uHp += (u[i].Real * p[i].Real) + (u[i].Imaginary * p[i].Imaginary);
+                p[i] = ComplexParts.Make(t * re, t * im);
+                uHp += (ComplexParts.Re(u[i]) * ComplexParts.Re(p[i])) + (ComplexParts.Im(u[i]) * ComplexParts.Im(p[i]));
             }
 
             double half = 0.5 * t * uHp;
@@ -97,11 +97,11 @@ internal static class HouseholderTridiagonalization
                     // row[j] -= u_i conj(q_j) + q_i conj(u_j)
                     Complex qj = p[j];
                     Complex uj = u[j];
-                    double re = (ui.Real * qj.Real) + (ui.Imaginary * qj.Imaginary)
-                        + (qi.Real * uj.Real) + (qi.Imaginary * uj.Imaginary);
-                    double im = (ui.Imaginary * qj.Real) - (ui.Real * qj.Imaginary)
-                        + (qi.Imaginary * uj.Real) - (qi.Real * uj.Imaginary);
-                    row[j] = new Complex(row[j].Real - re, row[j].Imaginary - im);
+                    double re = (ComplexParts.Re(ui) * ComplexParts.Re(qj)) + (ComplexParts.Im(ui) * ComplexParts.Im(qj))
+                        + (ComplexParts.Re(qi) * ComplexParts.Re(uj)) + (ComplexParts.Im(qi) * ComplexParts.Im(uj));
+                    double im = (ComplexParts.Im(ui) * ComplexParts.Re(qj)) - (ComplexParts.Re(ui) * ComplexParts.Im(qj))
+                        + (ComplexParts.Im(qi) * ComplexParts.Re(uj)) - (ComplexParts.Re(qi) * ComplexParts.Im(uj));
+                    row[j] = ComplexParts.Make(ComplexParts.Re(row[j]) - re, ComplexParts.Im(row[j]) - im);
                 }
             }
 
@@ -111,11 +111,11 @@ internal static class HouseholderTridiagonalization
 
         if (n >= 2)
         {
-            d[n - 2] = h[((n - 2) * n) + n - 2].Real;
+            d[n - 2] = ComplexParts.Re(h[((n - 2) * n) + n - 2]);
             phase[n - 1] = h[((n - 1) * n) + n - 2];
         }
 
-        d[n - 1] = h[((n - 1) * n) + n - 1].Real;
+        d[n - 1] = ComplexParts.Re(h[((n - 1) * n) + n - 1]);
         for (int k = Math.Max(0, n - 2); k < n; k++)
         {
             tau[k] = 0.0;
@@ -129,7 +129,7 @@ internal static class HouseholderTridiagonalization
             double magnitude = Complex.Abs(alpha);
             e[i] = magnitude;
             phase[i + 1] = magnitude > 0.0
-                ? phase[i] * new Complex(alpha.Real / magnitude, alpha.Imaginary / magnitude)
+                ? phase[i] * ComplexParts.Make(ComplexParts.Re(alpha) / magnitude, ComplexParts.Im(alpha) / magnitude)
                 : phase[i];
         }
 
@@ -163,14 +163,17 @@ internal static class HouseholderTridiagonalization
             for (int j = 0; j < m; j++)
             {
                 // u^H x
-                re += (u[j].Real * x[j].Real) + (u[j].Imaginary * x[j].Imaginary);
-                im += (u[j].Real * x[j].Imaginary) - (u[j].Imaginary * x[j].Real);
+                re += (ComplexParts.Re(u[j]) * ComplexParts.Re(x[j])) + (ComplexParts.Im(u[j]) * ComplexParts.Im(x[j]));
+                im += (ComplexParts.Re(u[j]) * ComplexParts.Im(x[j])) - (ComplexParts.Im(u[j]) * ComplexParts.Re(x[j]));
             }
 
-            Complex g = new(t * re, t * im);
+            Complex g = ComplexParts.Make(t * re, t * im);
             for (int j = 0; j < m; j++)
             {
-                x[j] -= g * u[j];
+                // x_j -= g u_j, written out as Complex's product and difference compute it.
+                double productRe = (ComplexParts.Re(g) * ComplexParts.Re(u[j])) - (ComplexParts.Im(g) * ComplexParts.Im(u[j]));
+                double productIm = (ComplexParts.Im(g) * ComplexParts.Re(u[j])) + (ComplexParts.Re(g) * ComplexParts.Im(u[j]));
+                x[j] = ComplexParts.Make(ComplexParts.Re(x[j]) - productRe, ComplexParts.Im(x[j]) - productIm);
             }
         }
     }

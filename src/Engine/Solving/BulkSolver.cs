@@ -136,10 +136,20 @@ internal static class BulkSolver
             if (point.Weight > 1)
             {
                 // The partner -q has the same frequencies, and |e(-q)|^2 = |e(q)*|^2 the same weights.
-                Array.Copy(frequencies, point.Index * n, frequencies, point.PartnerIndex * n, n);
+                // Plain loops: Array.Copy is a call out of precompiled code.
+                var from = point.Index * n;
+                var to = point.PartnerIndex * n;
+                for (var k = 0; k < n; k++)
+                {
+                    frequencies[to + k] = frequencies[from + k];
+                }
+
                 if (weights is not null)
                 {
-                    Array.Copy(weights, point.Index * n * n, weights, point.PartnerIndex * n * n, n * n);
+                    for (var c = 0; c < n * n; c++)
+                    {
+                        weights[(to * n) + c] = weights[(from * n) + c];
+                    }
                 }
             }
         }, ct);

@@ -3,6 +3,7 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Numerics;
 using LatticeSweep.Engine.Numerics.Simd;
 
 namespace LatticeSweep.Engine.Spectrum;
@@ -84,12 +85,12 @@ internal sealed partial class DynamicalMatrix
     {
         for (var i = 0; i < n; i++)
         {
-            d[(i * n) + i] = new Complex(d[(i * n) + i].Real, 0);
+            d[(i * n) + i] = ComplexParts.Make(ComplexParts.Re(d[(i * n) + i]), 0);
             for (var j = i + 1; j < n; j++)
             {
                 var upper = d[(i * n) + j];
                 var lower = d[(j * n) + i];
-                var mean = new Complex(0.5 * (upper.Real + lower.Real), 0.5 * (upper.Imaginary - lower.Imaginary));
+                var mean = ComplexParts.Make(0.5 * (ComplexParts.Re(upper) + ComplexParts.Re(lower)), 0.5 * (ComplexParts.Im(upper) - ComplexParts.Im(lower)));
                 d[(i * n) + j] = mean;
                 d[(j * n) + i] = Complex.Conjugate(mean);
             }

@@ -153,7 +153,7 @@ internal sealed class ModeSolver
         for (var c = 0; c < n; c++)
         {
             var v = vectors[c * n + mode];
-            fractions[c] = v.Real * v.Real + v.Imaginary * v.Imaginary;
+            fractions[c] = ComplexParts.Re(v) * ComplexParts.Re(v) + ComplexParts.Im(v) * ComplexParts.Im(v);
         }
     }
 
@@ -164,7 +164,7 @@ internal sealed class ModeSolver
         for (var c = 0; c < n; c++)
         {
             var v = Vectors[c * n + mode];
-            fractions[c] = v.Real * v.Real + v.Imaginary * v.Imaginary;
+            fractions[c] = ComplexParts.Re(v) * ComplexParts.Re(v) + ComplexParts.Im(v) * ComplexParts.Im(v);
         }
     }
 

@@ -247,12 +247,14 @@ internal sealed class RayDispersion
     /// <summary>omega_k at rho End (rad/s).</summary>
     public double Omega(int k, double rho)
     {
-        var c = _coefficients.AsSpan(k * Nodes, Nodes);
+        // The array indexed from an offset, not a span: precompiled code calls AsSpan out of line.
+        var c = _coefficients;
+        var at = k * Nodes;
         var y = rho * rho;
-        var sum = c[Nodes - 1];
+        var sum = c[at + Nodes - 1];
         for (var p = Nodes - 2; p >= 0; p--)
         {
-            sum = c[p] + (y * sum);
+            sum = c[at + p] + (y * sum);
         }
 
         return rho * sum;
@@ -261,12 +263,13 @@ internal sealed class RayDispersion
     /// <summary>d omega_k / d rho at rho (rad/s): sum_p (2p + 1) c_p y^p.</summary>
     public double OmegaDerivative(int k, double rho)
     {
-        var c = _coefficients.AsSpan(k * Nodes, Nodes);
+        var c = _coefficients;
+        var at = k * Nodes;
         var y = rho * rho;
-        var sum = ((2 * Nodes) - 1) * c[Nodes - 1];
+        var sum = ((2 * Nodes) - 1) * c[at + Nodes - 1];
         for (var p = Nodes - 2; p >= 0; p--)
         {
-            sum = ((2 * p) + 1) * c[p] + (y * sum);
+            sum = ((2 * p) + 1) * c[at + p] + (y * sum);
         }
 
         return sum;
@@ -296,12 +299,13 @@ internal sealed class RayDispersion
             j++;
         }
 
-        var t = Math.Clamp((y - NodeY[j]) / (NodeY[j + 1] - NodeY[j]), 0.0, 1.0);
-        var a = f.AsSpan(((k * Nodes) + j) * _channels, _channels);
-        var b = f.AsSpan(((k * Nodes) + j + 1) * _channels, _channels);
+        var t = (y - NodeY[j]) / (NodeY[j + 1] - NodeY[j]);
+        t = t < 0.0 ? 0.0 : t > 1.0 ? 1.0 : t; // as Math.Clamp(t, 0, 1), which precompiled code calls out of line
+        var a = ((k * Nodes) + j) * _channels;
+        var b = a + _channels;
         for (var c = 0; c < _channels; c++)
         {
-            into[c] = a[c] + (t * (b[c] - a[c]));
+            into[c] = f[a + c] + (t * (f[b + c] - f[a + c]));
         }
     }
 
