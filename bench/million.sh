@@ -77,7 +77,7 @@ for step in "${steps[@]}"; do
       # A point of a chunk no worker has claimed (index 600,000): its page looks it up in the catalog.
       waiting="$(python3 -c 'import json, sqlite3, sys
 c = sqlite3.connect(sys.argv[1]).execute("SELECT points_json FROM latsweep_chunks WHERE first_index <= 600000 AND last_index >= 600000 AND points_json IS NOT NULL").fetchone()
-print(next((p[0] for p in json.loads(c[0]) if p[1] == 600000), "") if c else "")' "$store" 2>/dev/null || true)"
+print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 600000), "") if c else "")' "$store" 2>/dev/null || true)"
       for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
           "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000" \
           ${waiting:+"sweeps/$id/points/$waiting"}; do

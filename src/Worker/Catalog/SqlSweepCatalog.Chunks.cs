@@ -92,12 +92,13 @@ public abstract partial class SqlSweepCatalog
         var seen = new HashSet<string>(StringComparer.Ordinal);
         var buffer = new ArrayBufferWriter<byte>(1 << 20);
         using var w = new Utf8JsonWriter(buffer);
+        var text = new ChunkText.Writer();
         string? current = null;
         long first = 0, last = 0, count = 0;
 
         void Flush()
         {
-            w.WriteEndArray();
+            ChunkText.Writer.End(w);
             w.Flush();
             rows.Add(new ChunkRow(current!, first, last, count, System.Text.Encoding.UTF8.GetString(buffer.WrittenSpan)), stop);
         }
@@ -119,17 +120,13 @@ public abstract partial class SqlSweepCatalog
                 current = point.ChunkId;
                 buffer.ResetWrittenCount();
                 w.Reset(buffer);
-                w.WriteStartArray();
+                text.Start(w);
                 first = point.Index;
                 last = point.Index;
                 count = 0;
             }
 
-            w.WriteStartArray();
-            w.WriteStringValue(point.PointId);
-            w.WriteNumberValue(point.Index);
-            CatalogJson.WriteParameters(w, point.Parameters);
-            w.WriteEndArray();
+            text.Add(w, point.PointId, point.Index, point.Parameters);
             first = Math.Min(first, point.Index);
             last = Math.Max(last, point.Index);
             count++;
@@ -175,7 +172,7 @@ public abstract partial class SqlSweepCatalog
     /// <summary>Inserts the points of one chunk's JSON text (see <see cref="CatalogSchema"/>) as rows in <paramref name="state"/>.</summary>
     protected virtual void InsertChunkPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, string pointsJson, string state)
     {
-        var rows = DecodeChunk(pointsJson, chunkId);
+        var rows = ChunkText.Decode(pointsJson, chunkId);
 
         // Many rows per statement: a statement costs a round trip to the server.
         const int RowsPerStatement = 128;
@@ -200,19 +197,6 @@ public abstract partial class SqlSweepCatalog
             cmd.CommandText = sql.ToString();
             cmd.ExecuteNonQuery();
         }
-    }
-
-    /// <summary>The rows of a chunk's JSON text, in the order written (plan order).</summary>
-    private static List<PointRow> DecodeChunk(string pointsJson, string chunkId)
-    {
-        using var doc = JsonDocument.Parse(pointsJson);
-        var rows = new List<PointRow>(doc.RootElement.GetArrayLength());
-        foreach (var p in doc.RootElement.EnumerateArray())
-        {
-            rows.Add(new PointRow(p[0].GetString()!, p[1].GetInt64(), chunkId, p[2].GetRawText()));
-        }
-
-        return rows;
     }
 
     /// <summary>Pending chunks of a sweep (optionally in one state), by first index.</summary>
@@ -252,7 +236,7 @@ public abstract partial class SqlSweepCatalog
         }
 
         var state = ParsePointState(r.GetString(0));
-        return [.. DecodeChunk(r.GetString(1), chunkId).OrderBy(p => p.Index).Select(p => new PointRecord
+        return [.. ChunkText.Decode(r.GetString(1), chunkId).OrderBy(p => p.Index).Select(p => new PointRecord
         {
             SweepId = sweepId,
             PointId = p.PointId,
