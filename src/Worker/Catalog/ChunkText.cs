@@ -23,12 +23,16 @@ internal static class ChunkText
         private readonly List<string> _names = [];
         private bool _started;
 
+        /// <summary>The plan's shared column array when the chunk's first point came from a plan: its points then have the names by reference.</summary>
+        private string[]? _columns;
+
         public void Start(Utf8JsonWriter w)
         {
             ArgumentNullException.ThrowIfNull(w);
             w.WriteStartArray();
             _names.Clear();
             _started = false;
+            _columns = null;
         }
 
         public void Add(Utf8JsonWriter w, string pointId, long index, IReadOnlyDictionary<string, object> parameters)
@@ -40,6 +44,7 @@ internal static class ChunkText
                 // The chunk's first point names the parameters for the rest.
                 _started = true;
                 _names.AddRange(parameters.Keys);
+                _columns = (parameters as Planning.PointParameters)?.Columns;
                 w.WriteStartObject();
                 w.WriteStartArray(NamesKey);
                 foreach (var name in _names)
@@ -54,7 +59,18 @@ internal static class ChunkText
             w.WriteStartArray();
             w.WriteStringValue(pointId);
             w.WriteNumberValue(index);
-            if (HasTheNames(parameters))
+            if (parameters is Planning.PointParameters planned && _columns is not null && ReferenceEquals(planned.Columns, _columns))
+            {
+                // A plan's point: its values by position, without an enumerator per point.
+                w.WriteStartArray();
+                for (var i = 0; i < _columns.Length; i++)
+                {
+                    CatalogJson.WriteValue(w, planned.ValueAt(i));
+                }
+
+                w.WriteEndArray();
+            }
+            else if (HasTheNames(parameters))
             {
                 w.WriteStartArray();
                 foreach (var (_, value) in parameters)
