@@ -43,22 +43,17 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
     /// <summary>
     /// A chunk's points go in as one statement that unpacks the chunk's JSON text with SQLite's own
     /// <c>json_each</c>: one bound parameter for the whole chunk (binding and the call cost more
-    /// than the row; bench/README.md). Either layout of <see cref="ChunkText"/>: a point's values
-    /// are paired with the header's names (<c>-&gt;</c> keeps each value's text as written), a point's
-    /// object is taken as it is.
+    /// than the row; bench/README.md). The text goes in with each point's parameters as an object
+    /// (<see cref="ChunkText.PerPointLayout"/>), whose text the rows keep as it is.
     /// </summary>
     protected override void InsertChunkPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, string pointsJson, string state)
     {
-        Execute(c, tx, $"""
+        Execute(c, tx, """
             INSERT INTO latsweep_points (sweep_id, point_id, point_index, chunk_id, state, parameters_json, attempts)
-            SELECT @sweep, json_extract(p.value, '$[0]'), json_extract(p.value, '$[1]'), @chunk, @state,
-                CASE json_type(p.value, '$[2]')
-                    WHEN 'array' THEN (SELECT json_group_object(n.value, p.value -> 2 -> n.key) FROM json_each(@points, '$[0].{ChunkText.NamesKey}') n)
-                    ELSE json_extract(p.value, '$[2]') END,
-                0
-            FROM json_each(@points) p WHERE json_type(p.value) = 'array' ORDER BY p.key
+            SELECT @sweep, json_extract(value, '$[0]'), json_extract(value, '$[1]'), @chunk, @state, json_extract(value, '$[2]'), 0
+            FROM json_each(@points) ORDER BY key
             """,
-            ("sweep", sweepId), ("chunk", chunkId), ("state", state), ("points", pointsJson));
+            ("sweep", sweepId), ("chunk", chunkId), ("state", state), ("points", ChunkText.PerPointLayout(pointsJson, chunkId)));
     }
 
     /// <summary>
