@@ -7,7 +7,14 @@ namespace LatticeSweep.Worker.Output;
 /// <summary>Turns a chunk's point outcomes into the rows of every table the sweep writes.</summary>
 internal static class ChunkTables
 {
-    public static IReadOnlyList<TableRows> Build(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> outcomes)
+    public static IReadOnlyList<TableRows> Build(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> outcomes) =>
+        Build(schemas, outputs, outcomes, typedColumns: true);
+
+    /// <summary>
+    /// The same; <paramref name="typedColumns"/> false builds every table on the generic row path
+    /// only (for the tests that hold <see cref="LongTableColumns"/> equal to it).
+    /// </summary>
+    internal static IReadOnlyList<TableRows> Build(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> outcomes, bool typedColumns)
     {
         // Points without a result row (I/O or input failures) are left out: resume runs them again.
         // In point id order, so every part is sorted by point as the merged files are (TableMerger merges sorted runs).
@@ -22,13 +29,13 @@ internal static class ChunkTables
         var tables = new List<TableRows>
         {
             schemas.Points.Rows(rowed),
-            schemas.SoundSpeeds.Rows(solved.SelectMany(o => o.Result!.Summary.SoundSpeeds.SelectMany(s =>
+            (typedColumns ? LongTableColumns.SoundSpeeds(schemas.SoundSpeeds, solved) : null) ?? schemas.SoundSpeeds.Rows(solved.SelectMany(o => o.Result!.Summary.SoundSpeeds.SelectMany(s =>
                 s.SpeedsMPerS.Select((v, i) => new RowOf<SoundSpeedValue>(o, new SoundSpeedValue(s.Direction, i, v)))))),
         };
 
         if (outputs.Dos)
         {
-            tables.Add(schemas.Dos.Rows(solved.SelectMany(DosRows)));
+            tables.Add((typedColumns ? LongTableColumns.Dos(schemas.Dos, solved) : null) ?? schemas.Dos.Rows(solved.SelectMany(DosRows)));
         }
 
         if (outputs.Thermal)
@@ -43,12 +50,12 @@ internal static class ChunkTables
 
         if (outputs.Modes)
         {
-            tables.Add(schemas.Modes.Rows(spectral.SelectMany(o => o.Result!.Modes.Select(m => new RowOf<Engine.Results.ModeLevel>(o, m)))));
+            tables.Add((typedColumns ? LongTableColumns.Modes(schemas.Modes, spectral) : null) ?? schemas.Modes.Rows(spectral.SelectMany(o => o.Result!.Modes.Select(m => new RowOf<Engine.Results.ModeLevel>(o, m)))));
         }
 
         if (outputs.Displacements)
         {
-            tables.Add(schemas.Displacements.Rows(solved.SelectMany(o => o.Result!.Displacements.Select(d => new RowOf<Engine.Results.DisplacementRow>(o, d)))));
+            tables.Add((typedColumns ? LongTableColumns.Displacements(schemas.Displacements, solved) : null) ?? schemas.Displacements.Rows(solved.SelectMany(o => o.Result!.Displacements.Select(d => new RowOf<Engine.Results.DisplacementRow>(o, d)))));
         }
 
         if (outputs.Layers)

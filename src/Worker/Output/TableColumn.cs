@@ -17,6 +17,9 @@ internal abstract class TableColumn<TRow>
 
     /// <summary>This column's values for <paramref name="rows"/>, in the Parquet type of <see cref="ColumnDef.Type"/>.</summary>
     public abstract Array Collect(IReadOnlyList<TRow> rows);
+
+    /// <summary>For a column of the point (<see cref="PointColumn{TRow, TValue}"/>): its value for each of <paramref name="points"/>, in the Parquet type; null for any other column.</summary>
+    public virtual Array? CollectPerPoint(IReadOnlyList<PointOutcome> points) => null;
 }
 
 /// <summary>A column whose value is computed from each row.</summary>
@@ -73,6 +76,17 @@ internal sealed class PointColumn<TRow, TValue> : TableColumn<TRow>
             }
 
             values[i] = value;
+        }
+
+        return ColumnValues.As(Def, values);
+    }
+
+    public override Array CollectPerPoint(IReadOnlyList<PointOutcome> points)
+    {
+        var values = new TValue[points.Count];
+        for (var i = 0; i < values.Length; i++)
+        {
+            values[i] = _get(points[i]);
         }
 
         return ColumnValues.As(Def, values);
