@@ -9,7 +9,8 @@
 # Usage: bench/million.sh [check submit status dashboard run merge]   (default: all but merge; run takes minutes)
 # Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2),
 # POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: use the points/ there, e.g. merged by `merge`),
-# DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
+# DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time; default: published with ReadyToRun code
+# into RESULTS/latsweep-r2r as README's install line makes it, or with MILLION_LATSWEEP=build the plain `dotnet build` output), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
 # KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run). The dashboard step also asks for the
 # page of a waiting point (index 600,000, read from the store's chunk rows with python3's sqlite3) when it can find one.
 set -euo pipefail
@@ -21,9 +22,20 @@ steps=("$@")
 workers="${WORKERS:-2}"
 [ -n "${KEEP_RESULTS:-}" ] || rm -rf "$results"; mkdir -p "$results"
 
-dotnet build "$root/src/Worker/Worker.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
 dotnet build "$root/src/Dashboard/Dashboard.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
-latsweep="${LATSWEEP:-$root/src/Worker/bin/Release/net10.0/latsweep}"
+if [ -n "${LATSWEEP:-}" ]; then
+  latsweep="$LATSWEEP"
+elif [ "${MILLION_LATSWEEP:-r2r}" = build ]; then
+  dotnet build "$root/src/Worker/Worker.csproj" -c Release -v quiet -nologo | grep -E " error |rror\(s\)" || true
+  latsweep="$root/src/Worker/bin/Release/net10.0/latsweep"
+else
+  # latsweep as users run it: published with ReadyToRun code by README's install line (as case (e) of
+  # run.sh); the plain build output JITs its start-up in every command (~0.4 s of CPU more).
+  rid="$(dotnet --info | sed -n 's/^ *RID: *//p' | head -1)"
+  dotnet publish "$root/src/Worker/Worker.csproj" -c Release -r "$rid" --self-contained false -p:PublishReadyToRun=true \
+    -o "$results/latsweep-r2r" -v quiet -nologo | grep -E " error |rror\(s\)" || true
+  latsweep="$results/latsweep-r2r/latsweep"
+fi
 job="$here/queue/million-points.toml"
 store="$results/store.db"
 out="$results/results"
@@ -77,7 +89,7 @@ for step in "${steps[@]}"; do
       # A point of a chunk no worker has claimed (index 600,000): its page looks it up in the catalog.
       waiting="$(python3 -c 'import json, sqlite3, sys
 c = sqlite3.connect(sys.argv[1]).execute("SELECT points_json FROM latsweep_chunks WHERE first_index <= 600000 AND last_index >= 600000 AND points_json IS NOT NULL").fetchone()
-print(next((p[0] for p in json.loads(c[0]) if p[1] == 600000), "") if c else "")' "$store" 2>/dev/null || true)"
+print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 600000), "") if c else "")' "$store" 2>/dev/null || true)"
       for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
           "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000" \
           ${waiting:+"sweeps/$id/points/$waiting"}; do

@@ -74,50 +74,58 @@ internal static class CatalogJson
         w.WriteStartObject();
         foreach (var (key, value) in parameters)
         {
-            switch (value)
-            {
-                case null:
-                    w.WriteNull(key);
-                    break;
-                case double d when double.IsFinite(d):
-                    w.WriteNumber(key, d);
-                    break;
-                case double d:
-                    w.WriteString(key, d.ToString("R", CultureInfo.InvariantCulture));
-                    break;
-                case float f:
-                    w.WriteNumber(key, (double)f);
-                    break;
-                case int i:
-                    w.WriteNumber(key, (long)i);
-                    break;
-                case long l:
-                    w.WriteNumber(key, l);
-                    break;
-                case bool b:
-                    w.WriteBoolean(key, b);
-                    break;
-                case string text:
-                    w.WriteString(key, text);
-                    break;
-                case IFormattable x:
-                    w.WriteString(key, x.ToString(null, CultureInfo.InvariantCulture));
-                    break;
-                default:
-                    if (value.ToString() is { } other)
-                    {
-                        w.WriteString(key, other);
-                    }
-                    else
-                    {
-                        w.WriteNull(key);
-                    }
-
-                    break;
-            }
+            w.WritePropertyName(key);
+            WriteValue(w, value);
         }
 
         w.WriteEndObject();
+    }
+
+    /// <summary>One parameter's value as <see cref="WriteParameters(Utf8JsonWriter, IReadOnlyDictionary{string, object})"/> writes it after its name.</summary>
+    public static void WriteValue(Utf8JsonWriter w, object? value)
+    {
+        ArgumentNullException.ThrowIfNull(w);
+        switch (value)
+        {
+            case null:
+                w.WriteNullValue();
+                break;
+            case double d when double.IsFinite(d):
+                w.WriteNumberValue(d);
+                break;
+            case double d:
+                w.WriteStringValue(d.ToString("R", CultureInfo.InvariantCulture));
+                break;
+            case float f:
+                w.WriteNumberValue((double)f);
+                break;
+            case int i:
+                w.WriteNumberValue((long)i);
+                break;
+            case long l:
+                w.WriteNumberValue(l);
+                break;
+            case bool b:
+                w.WriteBooleanValue(b);
+                break;
+            case string text:
+                w.WriteStringValue(text);
+                break;
+            case IFormattable x:
+                w.WriteStringValue(x.ToString(null, CultureInfo.InvariantCulture));
+                break;
+            default:
+                if (value.ToString() is { } other)
+                {
+                    w.WriteStringValue(other);
+                }
+                else
+                {
+                    w.WriteNullValue();
+                }
+
+                break;
+        }
     }
 
     public static ImmutableSortedDictionary<string, object> ReadParameters(string json, IReadOnlyDictionary<string, AxisValueType> types)

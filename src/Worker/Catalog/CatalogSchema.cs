@@ -62,7 +62,8 @@ internal static class CatalogSchema
 
         // A sweep's chunks, written at submit. A chunk's points get their rows in latsweep_points
         // when a worker first claims the chunk; until then (pending_state not null: waiting or
-        // cancelled) they are read from points_json, [[point_id, point_index, {parameters}], ...],
+        // cancelled) they are read from points_json (ChunkText: the parameters' names once, then each
+        // point's id, index and values; stores from before hold [[point_id, point_index, {parameters}], ...]),
         // so submitting a million points writes a few hundred rows instead of a million. Sweeps
         // registered before this table existed have every point's row and no chunk rows.
         """

@@ -16,38 +16,83 @@ public abstract partial class SqlSweepCatalog
     /// <summary>A chunk whose points have no rows yet.</summary>
     private sealed record PendingChunk(string ChunkId, long FirstIndex, long LastIndex, long PointCount, PointState State);
 
-    /// <summary>A chunk's row as <see cref="WriteChunks"/> inserts it.</summary>
-    private sealed record ChunkRow(string ChunkId, long First, long Last, long Count, string PointsJson);
+    /// <summary>A chunk's row as <see cref="WriteChunks"/> inserts it: its points' text as UTF-8 in a buffer that is used again after the insert.</summary>
+    private sealed record ChunkRow(string ChunkId, long First, long Last, long Count, ArrayBufferWriter<byte> PointsUtf8);
 
     /// <summary>Chunk rows made ahead of the inserts: enough to keep the inserting thread busy, few enough to hold.</summary>
     private const int ChunkRowsAhead = 4;
 
+    /// <summary>Inserts one sweep's chunk rows, one at a time, inside the register transaction.</summary>
+    protected interface IChunkRowInserter : IDisposable
+    {
+        void Insert(string chunkId, long first, long last, long count, ReadOnlySpan<byte> pointsUtf8);
+    }
+
+    /// <summary>The SQL that inserts a chunk's row (parameters @sweep, @chunk, @first, @last, @count, @state, @points).</summary>
+    protected const string InsertChunkRowSql = """
+        INSERT INTO latsweep_chunks (sweep_id, chunk_id, first_index, last_index, point_count, pending_state, points_json)
+        VALUES (@sweep, @chunk, @first, @last, @count, @state, @points)
+        """;
+
+    /// <summary>
+    /// An inserter of <paramref name="sweepId"/>'s chunk rows (points pending in <paramref name="state"/>):
+    /// here an ADO.NET command with the text as a string; SQLite binds the UTF-8 text as it is.
+    /// </summary>
+    protected virtual IChunkRowInserter ChunkRowInserter(DbConnection c, DbTransaction tx, string sweepId, string state) =>
+        new CommandChunkRowInserter(c, tx, sweepId, state);
+
+    private sealed class CommandChunkRowInserter : IChunkRowInserter
+    {
+        private readonly DbCommand _cmd;
+        private readonly DbParameter _chunk, _first, _last, _count, _points;
+
+        public CommandChunkRowInserter(DbConnection c, DbTransaction tx, string sweepId, string state)
+        {
+            _cmd = Command(c, tx, InsertChunkRowSql);
+            Add(_cmd, "sweep", sweepId);
+            Add(_cmd, "state", state);
+            _chunk = Add(_cmd, "chunk", "");
+            _first = Add(_cmd, "first", 0L);
+            _last = Add(_cmd, "last", 0L);
+            _count = Add(_cmd, "count", 0L);
+            _points = Add(_cmd, "points", "");
+        }
+
+        public void Insert(string chunkId, long first, long last, long count, ReadOnlySpan<byte> pointsUtf8)
+        {
+            _chunk.Value = chunkId;
+            _first.Value = first;
+            _last.Value = last;
+            _count.Value = count;
+            _points.Value = System.Text.Encoding.UTF8.GetString(pointsUtf8);
+            _cmd.ExecuteNonQuery();
+        }
+
+        public void Dispose() => _cmd.Dispose();
+    }
+
     /// <summary>
     /// Writes one row per chunk of <paramref name="sweep"/> (its points pending, as <paramref name="state"/>); returns the number of chunks.
-    /// The rows' JSON texts are made on another thread while this one inserts the rows before them
-    /// (a million points: two halves of the work on two cores instead of one after the other).
+    /// The rows' texts are made on another thread while this one inserts the rows before them
+    /// (a million points: two halves of the work on two cores instead of one after the other), in
+    /// a few UTF-8 buffers passed back and forth: no text of a chunk is made twice or kept.
     /// </summary>
-    private static int WriteChunks(DbConnection c, DbTransaction tx, NewSweep sweep, string state)
+    private int WriteChunks(DbConnection c, DbTransaction tx, NewSweep sweep, string state)
     {
-        using var cmd = Command(c, tx, """
-            INSERT INTO latsweep_chunks (sweep_id, chunk_id, first_index, last_index, point_count, pending_state, points_json)
-            VALUES (@sweep, @chunk, @first, @last, @count, @state, @points)
-            """);
-        Add(cmd, "sweep", sweep.SweepId);
-        Add(cmd, "state", state);
-        var pChunk = Add(cmd, "chunk", "");
-        var pFirst = Add(cmd, "first", 0L);
-        var pLast = Add(cmd, "last", 0L);
-        var pCount = Add(cmd, "count", 0L);
-        var pPoints = Add(cmd, "points", "");
-
+        using var inserter = ChunkRowInserter(c, tx, sweep.SweepId, state);
         using var rows = new System.Collections.Concurrent.BlockingCollection<ChunkRow>(ChunkRowsAhead);
+        using var free = new System.Collections.Concurrent.BlockingCollection<ArrayBufferWriter<byte>>();
+        for (var i = 0; i < ChunkRowsAhead + 2; i++)
+        {
+            free.Add(new ArrayBufferWriter<byte>(1 << 16));
+        }
+
         using var stop = new CancellationTokenSource();
         var maker = Task.Run(() =>
         {
             try
             {
-                return MakeChunkRows(sweep, rows, stop.Token);
+                return MakeChunkRows(sweep, rows, free, stop.Token);
             }
             finally
             {
@@ -59,12 +104,8 @@ public abstract partial class SqlSweepCatalog
         {
             foreach (var row in rows.GetConsumingEnumerable())
             {
-                pChunk.Value = row.ChunkId;
-                pFirst.Value = row.First;
-                pLast.Value = row.Last;
-                pCount.Value = row.Count;
-                pPoints.Value = row.PointsJson;
-                cmd.ExecuteNonQuery();
+                inserter.Insert(row.ChunkId, row.First, row.Last, row.Count, row.PointsUtf8.WrittenSpan);
+                free.Add(row.PointsUtf8);
             }
         }
         catch
@@ -86,20 +127,23 @@ public abstract partial class SqlSweepCatalog
         return maker.GetAwaiter().GetResult();
     }
 
-    /// <summary>The chunk rows of <paramref name="sweep"/>'s points in order, added to <paramref name="rows"/>; returns the number of chunks.</summary>
-    private static int MakeChunkRows(NewSweep sweep, System.Collections.Concurrent.BlockingCollection<ChunkRow> rows, CancellationToken stop)
+    /// <summary>The chunk rows of <paramref name="sweep"/>'s points in order, added to <paramref name="rows"/>, each written into a buffer taken from <paramref name="free"/>; returns the number of chunks.</summary>
+    private static int MakeChunkRows(NewSweep sweep, System.Collections.Concurrent.BlockingCollection<ChunkRow> rows,
+        System.Collections.Concurrent.BlockingCollection<ArrayBufferWriter<byte>> free, CancellationToken stop)
     {
         var seen = new HashSet<string>(StringComparer.Ordinal);
-        var buffer = new ArrayBufferWriter<byte>(1 << 20);
+        var buffer = free.Take(stop);
         using var w = new Utf8JsonWriter(buffer);
+        var text = new ChunkText.Writer();
         string? current = null;
         long first = 0, last = 0, count = 0;
 
         void Flush()
         {
-            w.WriteEndArray();
+            ChunkText.Writer.End(w);
             w.Flush();
-            rows.Add(new ChunkRow(current!, first, last, count, System.Text.Encoding.UTF8.GetString(buffer.WrittenSpan)), stop);
+            rows.Add(new ChunkRow(current!, first, last, count, buffer), stop);
+            buffer = free.Take(stop);
         }
 
         foreach (var point in sweep.Points)
@@ -119,17 +163,13 @@ public abstract partial class SqlSweepCatalog
                 current = point.ChunkId;
                 buffer.ResetWrittenCount();
                 w.Reset(buffer);
-                w.WriteStartArray();
+                text.Start(w);
                 first = point.Index;
                 last = point.Index;
                 count = 0;
             }
 
-            w.WriteStartArray();
-            w.WriteStringValue(point.PointId);
-            w.WriteNumberValue(point.Index);
-            CatalogJson.WriteParameters(w, point.Parameters);
-            w.WriteEndArray();
+            text.Add(w, point.PointId, point.Index, point.Parameters);
             first = Math.Min(first, point.Index);
             last = Math.Max(last, point.Index);
             count++;
@@ -175,7 +215,7 @@ public abstract partial class SqlSweepCatalog
     /// <summary>Inserts the points of one chunk's JSON text (see <see cref="CatalogSchema"/>) as rows in <paramref name="state"/>.</summary>
     protected virtual void InsertChunkPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, string pointsJson, string state)
     {
-        var rows = DecodeChunk(pointsJson, chunkId);
+        var rows = ChunkText.Decode(pointsJson, chunkId);
 
         // Many rows per statement: a statement costs a round trip to the server.
         const int RowsPerStatement = 128;
@@ -200,19 +240,6 @@ public abstract partial class SqlSweepCatalog
             cmd.CommandText = sql.ToString();
             cmd.ExecuteNonQuery();
         }
-    }
-
-    /// <summary>The rows of a chunk's JSON text, in the order written (plan order).</summary>
-    private static List<PointRow> DecodeChunk(string pointsJson, string chunkId)
-    {
-        using var doc = JsonDocument.Parse(pointsJson);
-        var rows = new List<PointRow>(doc.RootElement.GetArrayLength());
-        foreach (var p in doc.RootElement.EnumerateArray())
-        {
-            rows.Add(new PointRow(p[0].GetString()!, p[1].GetInt64(), chunkId, p[2].GetRawText()));
-        }
-
-        return rows;
     }
 
     /// <summary>Pending chunks of a sweep (optionally in one state), by first index.</summary>
@@ -252,7 +279,7 @@ public abstract partial class SqlSweepCatalog
         }
 
         var state = ParsePointState(r.GetString(0));
-        return [.. DecodeChunk(r.GetString(1), chunkId).OrderBy(p => p.Index).Select(p => new PointRecord
+        return [.. ChunkText.Decode(r.GetString(1), chunkId).OrderBy(p => p.Index).Select(p => new PointRecord
         {
             SweepId = sweepId,
             PointId = p.PointId,

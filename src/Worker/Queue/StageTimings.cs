@@ -30,7 +30,7 @@ public static class StageTimings
     {
         var process = Process.GetCurrentProcess();
         yield return string.Create(CultureInfo.InvariantCulture,
-            $"timings: process CPU {process.TotalProcessorTime.TotalSeconds:F3} s (user {process.UserProcessorTime.TotalSeconds:F3} s), up {(DateTime.Now - process.StartTime).TotalSeconds:F3} s, GCs {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)}, peak working set {process.PeakWorkingSet64 / 1048576.0:F0} MiB");
+            $"timings: process CPU {process.TotalProcessorTime.TotalSeconds:F3} s (user {process.UserProcessorTime.TotalSeconds:F3} s), up {(DateTime.Now - process.StartTime).TotalSeconds:F3} s, GCs {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)}, {GC.GetTotalAllocatedBytes() / 1048576.0:F0} MiB allocated, peak working set {process.PeakWorkingSet64 / 1048576.0:F0} MiB");
         if (ThreadsByCpu() is { Length: > 0 } threads)
         {
             yield return "timings: threads alive at the end (CPU s): " + threads;
@@ -40,7 +40,7 @@ public static class StageTimings
         {
             var hopped = t.Hopped > 0 ? $" ({t.Hopped} ended on another thread: process CPU over their time)" : "";
             yield return string.Create(CultureInfo.InvariantCulture,
-                $"timings: {stage,-28} {t.Ticks / (double)Stopwatch.Frequency,9:F3} s wall {t.CpuNs / 1e9,9:F3} s CPU in {t.Count,7} calls{hopped}");
+                $"timings: {stage,-28} {t.Ticks / (double)Stopwatch.Frequency,9:F3} s wall {t.CpuNs / 1e9,9:F3} s CPU {t.AllocatedBytes / 1048576.0,8:F0} MiB allocated in {t.Count,7} calls{hopped}");
         }
     }
 
@@ -128,6 +128,7 @@ public static class StageTimings
         public long CpuNs;
         public long Count;
         public long Hopped;
+        public long AllocatedBytes;
     }
 
     public readonly struct Scope : IDisposable
@@ -137,6 +138,7 @@ public static class StageTimings
         private readonly long _cpuStart;
         private readonly long _processCpuStart;
         private readonly int _thread;
+        private readonly long _allocatedStart;
 
         private readonly bool _processCpu;
 
@@ -148,6 +150,7 @@ public static class StageTimings
             _cpuStart = stage is null ? 0 : ThreadCpuNs();
             _processCpuStart = stage is null ? 0 : ProcessCpuNs();
             _thread = stage is null ? 0 : Environment.CurrentManagedThreadId;
+            _allocatedStart = stage is null ? 0 : GC.GetTotalAllocatedBytes();
         }
 
         public void Dispose()
@@ -159,6 +162,7 @@ public static class StageTimings
 
             var t = Stages.GetOrAdd(_stage, _ => new Totals());
             Interlocked.Add(ref t.Ticks, Stopwatch.GetTimestamp() - _start);
+            Interlocked.Add(ref t.AllocatedBytes, GC.GetTotalAllocatedBytes() - _allocatedStart);
             if (_processCpu)
             {
                 Interlocked.Add(ref t.CpuNs, ProcessCpuNs() - _processCpuStart);

@@ -61,6 +61,7 @@ public sealed class SweepSubmitter
             chunkStarts = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).ChunkStarts(points.Count, i => seconds[i]);
         }
 
+        var chunkIds = Enumerable.Range(0, chunkStarts.Length).Select(ChunkPlanner.ChunkId).ToList();
         var sweep = new NewSweep
         {
             SweepId = sweepId,
@@ -73,9 +74,9 @@ public sealed class SweepSubmitter
             Axes = plan.Axes,
             Tables = [.. TableNames.For(plan.Outputs)],
             EngineVersion = _solver.EngineVersion,
-            // Made as the catalog reads them: a million points are never held at once.
+            // Made as the catalog reads them: a million points are never held at once (the chunks' ids, a few hundred, are).
             Points = new ComputedList<NewPoint>(points.Count, i =>
-                new NewPoint(points.IdAt(i), i, ChunkPlanner.ChunkId(ChunkPlanner.ChunkOf(chunkStarts, i)), points.ParametersAt(i))),
+                new NewPoint(points.IdAt(i), i, chunkIds[ChunkPlanner.ChunkOf(chunkStarts, i)], points.ParametersAt(i))),
             ChunkCount = chunkStarts.Length,
             DefinitionHash = plan.DefinitionHash,
         };
@@ -91,7 +92,6 @@ public sealed class SweepSubmitter
             return Resume(_store.Catalog.FindSweep(sweepId)!);
         }
 
-        var chunkIds = Enumerable.Range(0, chunkStarts.Length).Select(ChunkPlanner.ChunkId).ToList();
         using (StageTimings.Measure("submit: enqueue"))
         {
             Enqueue(sweepId, chunkIds);

@@ -197,6 +197,125 @@ public sealed class ChunkRegistrationTests : IDisposable
     }
 
     /// <summary>
+    /// A chunk's text names the parameters once and lists each point's values; a point whose
+    /// parameters have other names (one fewer, one more, another order) keeps its own object. Every
+    /// read and the rows made at the first claim give each point's parameters as registered.
+    /// </summary>
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void Points_whose_parameters_differ_from_their_chunks_names_are_read_back_as_registered(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var plan = Plan();
+        var given = new Dictionary<string, object>[]
+        {
+            new() { ["b_cells"] = 4L, ["a_mass"] = 0.30000000000000004 },
+            new() { ["b_cells"] = 8L, ["a_mass"] = 7e-300 },
+            new() { ["b_cells"] = 16L },
+            new() { ["b_cells"] = 32L, ["a_mass"] = 2.5, ["c_note"] = "r\u00e9sum\u00e9 \"quoted\"" },
+            new() { ["a_mass"] = 3.5, ["b_cells"] = 64L },
+            new() { ["b_cells"] = 128L, ["a_mass"] = -1.25 },
+        };
+        var points = given.Select((parameters, i) => new NewPoint($"{i:x16}", i, i < 5 ? "c00000" : "c00001", parameters)).ToList();
+        catalog.Register(new NewSweep
+        {
+            SweepId = "mixed-00000000",
+            Name = "mixed",
+            Description = "",
+            SpecHash = plan.SpecHash,
+            SourcePath = plan.SourcePath,
+            SpecText = plan.SpecText,
+            OutputFolder = _dir.Combine("out", "mixed"),
+            Axes = [],
+            Tables = ["points"],
+            EngineVersion = "9.9.9-test",
+            Points = points,
+        });
+
+        static string Shown(IReadOnlyDictionary<string, object> parameters) =>
+            string.Join(",", parameters.OrderBy(kv => kv.Key, StringComparer.Ordinal).Select(kv => $"{kv.Key}={kv.Value}({kv.Value.GetType().Name})"));
+        var expected = given.Select(Shown).ToList();
+        Assert.Equal(expected, catalog.GetPoints("mixed-00000000", new PointQuery(Limit: 100)).Select(p => Shown(p.Parameters)));
+        Assert.Equal(expected, points.Select(p => Shown(catalog.FindPoint("mixed-00000000", p.PointId)!.Parameters)));
+
+        // The rows made at the first claim hold the same parameters (as the text the catalog wrote for them before chunk rows).
+        catalog.BeginChunk("mixed-00000000", "c00000", "test:1");
+        catalog.BeginChunk("mixed-00000000", "c00001", "test:1");
+        Assert.Equal(expected, catalog.GetPoints("mixed-00000000", new PointQuery(Limit: 100)).Select(p => Shown(p.Parameters)));
+        if (kind == StoreKind.Sqlite)
+        {
+            Assert.Equal(given.Select(CatalogJson.WriteParameters), RowParameters(_dir.Combine("store.db"), "mixed-00000000"));
+        }
+    }
+
+    /// <summary>
+    /// Chunk rows written by the version before the compact text (<c>[[id, index, {parameters}], ...]</c>)
+    /// are read, found and claimed as they are, with the same answers as the current text gives.
+    /// </summary>
+    [Fact]
+    public void Chunk_texts_written_before_the_names_header_are_read_and_claimed_as_they_are()
+    {
+        var plan = Plan();
+        var answers = new List<string>[2];
+        for (var layout = 0; layout < 2; layout++)
+        {
+            var path = _dir.Combine($"layout{layout}.db");
+            using var catalog = new SqliteSweepCatalog(path, new SteppingTime());
+            var (id, chunks) = TestCatalog.Register(catalog, plan, _dir.Combine("out"), pointsPerChunk: 4);
+            if (layout == 0)
+            {
+                // Rewrite every chunk's text as the previous version wrote it.
+                using var c = new Microsoft.Data.Sqlite.SqliteConnection($"Data Source={path};Pooling=False");
+                c.Open();
+                foreach (var chunk in plan.Points.Chunk(4).Select((points, i) => (points, id: ChunkPlanner.ChunkId(i))))
+                {
+                    var old = "[" + string.Join(",", chunk.points.Select(p => $"[\"{p.PointId}\",{p.Index},{CatalogJson.WriteParameters(p.Parameters)}]")) + "]";
+                    using var cmd = c.CreateCommand();
+                    cmd.CommandText = "UPDATE latsweep_chunks SET points_json = $text WHERE sweep_id = $sweep AND chunk_id = $chunk";
+                    cmd.Parameters.AddWithValue("$text", old);
+                    cmd.Parameters.AddWithValue("$sweep", id);
+                    cmd.Parameters.AddWithValue("$chunk", chunk.id);
+                    Assert.Equal(1, cmd.ExecuteNonQuery());
+                }
+            }
+
+            static string Shown(PointRecord p) => $"{p.PointId} {p.Index} {p.ChunkId} {p.State} " + string.Join(",", p.Parameters.Select(kv => $"{kv.Key}={kv.Value}"));
+            var answer = catalog.GetPoints(id, new PointQuery(Limit: 100)).Select(Shown).ToList();
+            answer.AddRange(plan.Points.Select(p => Shown(catalog.FindPoint(id, p.PointId)!)));
+            answer.AddRange(catalog.GetChunkPoints(id, chunks[2]).Select(Shown));
+            foreach (var chunk in chunks)
+            {
+                catalog.BeginChunk(id, chunk, "test:1");
+            }
+
+            answer.AddRange(catalog.GetPoints(id, new PointQuery(Limit: 100)).Select(Shown));
+            var rows = RowParameters(path, id);
+            Assert.Equal(plan.Points.Select(p => CatalogJson.WriteParameters(p.Parameters)), rows);
+            answers[layout] = answer;
+        }
+
+        Assert.Equal(answers[0], answers[1]);
+    }
+
+    /// <summary>The point rows' parameters text, by point index.</summary>
+    private static List<string> RowParameters(string path, string sweepId)
+    {
+        using var c = new Microsoft.Data.Sqlite.SqliteConnection($"Data Source={path};Pooling=False");
+        c.Open();
+        using var cmd = c.CreateCommand();
+        cmd.CommandText = "SELECT parameters_json FROM latsweep_points WHERE sweep_id = $sweep ORDER BY point_index";
+        cmd.Parameters.AddWithValue("$sweep", sweepId);
+        using var r = cmd.ExecuteReader();
+        var list = new List<string>();
+        while (r.Read())
+        {
+            list.Add(r.GetString(0));
+        }
+
+        return list;
+    }
+
+    /// <summary>
     /// A store written by the version before chunk rows: every point has its row and there is no
     /// chunk table. It is used as it is (the chunk table is added, empty): nothing of it is pending.
     /// </summary>
