@@ -243,84 +243,10 @@ internal static class LongTableColumns
         _ => throw new InvalidOperationException($"unexpected column array {perPoint.GetType().Name}"),
     };
 
-    private static string?[] Repeat(string?[] perPoint, int[] starts)
+    /// <remarks>One generic body: its instantiations are over CoreLib's primitives (and string), not our own structs.</remarks>
+    private static T[] Repeat<T>(T[] perPoint, int[] starts)
     {
-        var values = new string?[starts[^1]];
-        for (var p = 0; p < perPoint.Length; p++)
-        {
-            var v = perPoint[p];
-            for (var r = starts[p]; r < starts[p + 1]; r++)
-            {
-                values[r] = v;
-            }
-        }
-
-        return values;
-    }
-
-    private static double?[] Repeat(double?[] perPoint, int[] starts)
-    {
-        var values = new double?[starts[^1]];
-        for (var p = 0; p < perPoint.Length; p++)
-        {
-            var v = perPoint[p];
-            for (var r = starts[p]; r < starts[p + 1]; r++)
-            {
-                values[r] = v;
-            }
-        }
-
-        return values;
-    }
-
-    private static long?[] Repeat(long?[] perPoint, int[] starts)
-    {
-        var values = new long?[starts[^1]];
-        for (var p = 0; p < perPoint.Length; p++)
-        {
-            var v = perPoint[p];
-            for (var r = starts[p]; r < starts[p + 1]; r++)
-            {
-                values[r] = v;
-            }
-        }
-
-        return values;
-    }
-
-    private static int?[] Repeat(int?[] perPoint, int[] starts)
-    {
-        var values = new int?[starts[^1]];
-        for (var p = 0; p < perPoint.Length; p++)
-        {
-            var v = perPoint[p];
-            for (var r = starts[p]; r < starts[p + 1]; r++)
-            {
-                values[r] = v;
-            }
-        }
-
-        return values;
-    }
-
-    private static bool?[] Repeat(bool?[] perPoint, int[] starts)
-    {
-        var values = new bool?[starts[^1]];
-        for (var p = 0; p < perPoint.Length; p++)
-        {
-            var v = perPoint[p];
-            for (var r = starts[p]; r < starts[p + 1]; r++)
-            {
-                values[r] = v;
-            }
-        }
-
-        return values;
-    }
-
-    private static DateTime?[] Repeat(DateTime?[] perPoint, int[] starts)
-    {
-        var values = new DateTime?[starts[^1]];
+        var values = new T[starts[^1]];
         for (var p = 0; p < perPoint.Length; p++)
         {
             var v = perPoint[p];
