@@ -17,10 +17,10 @@ internal static class VectorSinCos
         switch (SimdWidths.Active)
         {
             case SimdWidth.Bits512:
-                ComputeLanes<Lanes8>(angles, sines, cosines);
+                Compute<Lanes8>(angles, sines, cosines);
                 break;
             case SimdWidth.Bits256:
-                ComputeLanes<Lanes4>(angles, sines, cosines);
+                Compute<Lanes4>(angles, sines, cosines);
                 break;
             default:
                 for (var k = 0; k < angles.Length; k++)
@@ -32,7 +32,8 @@ internal static class VectorSinCos
         }
     }
 
-    private static void ComputeLanes<TLanes>(ReadOnlySpan<double> angles, Span<double> sines, Span<double> cosines)
+    /// <summary>At a given width (tests use it to run both on any machine).</summary>
+    internal static void Compute<TLanes>(ReadOnlySpan<double> angles, Span<double> sines, Span<double> cosines)
         where TLanes : unmanaged, ILanes<TLanes>
     {
         var lanes = TLanes.Count;
