@@ -11,10 +11,12 @@ namespace LatticeSweep.Engine.Numerics.Simd;
 /// when it does not, so a point's D(q) changed with the JIT tier that happened to run it
 /// (bench/README.md, "Round 7 (det-512)").
 /// <para>
-/// Method (common practice, no source; the constants from memory, checked by the tests against
+/// Method (common practice, no source; pi/2's three parts and the series' coefficients computed in
+/// exact rational arithmetic, pi from Machin's formula, and the results checked by the tests against
 /// Math.SinCos): x = n pi/2 + r with n the nearest integer to x 2/pi, r by three fused steps with pi/2
 /// split into three doubles (the first step exact), |r| &lt;= pi/4 plus a hair; sin r and cos r by
-/// their Taylor series (to r^17 and r^16: the first left out is below 1e-19 of the result at pi/4);
+/// their Taylor series (to r^17 and r^16: the first term left out is at most 3e-18 of the result, at
+/// pi/4, a fortieth of an ulp);
 /// then the quadrant n mod 4 swaps and negates them. Within about an ulp of Math.SinCos for
 /// |x| &lt;= <see cref="Limit"/>; lanes beyond it (and NaN, infinities) are left for the caller to
 /// take from Math.SinCos.
