@@ -16,6 +16,9 @@ internal static class EngineImages
 {
     private const string EngineName = "LatticeSweep.Engine";
 
+    /// <summary>The folder under <c>engine/</c> the Engine was loaded from; null in a plain build (or before it loaded).</summary>
+    public static string? LoadedFolder { get; private set; }
+
     /// <summary>Must run before any Engine type is touched (first thing in <c>Main</c>).</summary>
     public static void LoadFromPublishedFolders()
     {
@@ -47,6 +50,7 @@ internal static class EngineImages
             var path = Path.Combine(engineFolder, folder, EngineName + ".dll");
             if (File.Exists(path))
             {
+                LoadedFolder = folder;
                 return context.LoadFromAssemblyPath(path);
             }
         }
