@@ -93,6 +93,8 @@ for c in "${cases[@]}"; do
   fi
   if [ "$c" = queue ]; then
     # Ours against ours: the queue (latsweep run, embedded SQLite store) against the Engine alone.
+    # --version names the Engine image a published x86-64 build loaded (avx512 or avx2 precompiled code).
+    echo "latsweep: $("$latsweep" --version)"
     "$bench" queue --out "$results" --repeats "${QUEUE_REPEATS:-3}" --jobs "$here/queue" \
       --latsweep "$latsweep"
     continue
