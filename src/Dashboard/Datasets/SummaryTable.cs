@@ -44,7 +44,7 @@ public sealed record SummaryTable(
 
     public const string DefaultSort = "point_index";
 
-    private const string CandidatePrefix = "candidates.";
+    private const string CandidatePrefix = FirstLoadFacts.CandidatePrefix;
 
     /// <summary>
     /// Builds the page from <paramref name="filtered"/> (the rows to list). Which columns are worth
@@ -124,6 +124,12 @@ public sealed record SummaryTable(
         var ordered = names.Parameters.Where(t.Has).OrderBy(p => names.Label(p).StartsWith(CandidatePrefix, StringComparison.Ordinal) ? 0 : 1).ToList();
         return TableFacts.Of(t, "key parameters\n" + string.Join('\n', ordered), t =>
         {
+            if (t.FirstLoad is { } merged && merged.Parameters.SequenceEqual(ordered))
+            {
+                // Worked out by the merge over the same rows, by the same rule.
+                return (IReadOnlyList<string>)merged.KeyParameters;
+            }
+
             using var timing = StageTimings.Measure("table: key parameters");
             var kept = new List<string>();
             foreach (var p in ordered)
