@@ -17,9 +17,15 @@ internal sealed record FirstLoad(
     long Rows,
     ImmutableArray<string> Parameters,
     ImmutableArray<string> KeyParameters,
+    ImmutableArray<int>? PlanFirst,
     FirstLoad.ParameterSample? ParameterPlot,
     FirstLoad.ScatterSample? Scatter)
 {
+    /// <summary>The first rows of the table in plan order (its default order), as many as the merge kept; null when the table has no plan index.</summary>
+    /// <returns>The rows from <paramref name="offset"/>, <paramref name="limit"/> at most, when the entry holds them all; else null.</returns>
+    public int[]? PlanOrderPage(int offset, int limit) =>
+        PlanFirst is { } first && (offset + (long)limit <= first.Length || first.Length == Rows) ? [.. first.Skip(offset).Take(limit)] : null;
+
     /// <summary>A drawn point as the plots carry it, and (for the front's points) its row in the table.</summary>
     internal sealed record Point(double X, double Y, string PointId, bool Unstable, bool Floppy, int Row);
 
@@ -80,7 +86,8 @@ internal sealed record FirstLoad(
                     Points(c.GetProperty("stable")), Points(c.GetProperty("unstable")), Points(c.GetProperty("front")));
             }
 
-            return new FirstLoad(rows, Names(root.GetProperty("parameters")), Names(root.GetProperty("key_parameters")), parameterPlot, scatter);
+            ImmutableArray<int>? planFirst = root.TryGetProperty("plan_first", out var plan) ? [.. plan.EnumerateArray().Select(r => r.GetInt32())] : null;
+            return new FirstLoad(rows, Names(root.GetProperty("parameters")), Names(root.GetProperty("key_parameters")), planFirst, parameterPlot, scatter);
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
         {

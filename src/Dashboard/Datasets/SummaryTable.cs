@@ -70,17 +70,19 @@ public sealed record SummaryTable(
             .ToList();
         var view = shown.Select(n => View(all.Column(n)!, names)).ToImmutableArray();
         timing.Dispose();
-        int[] order;
+        var offset = Math.Max(0, query.Offset);
+        var limit = Math.Clamp(query.Limit, 1, SummaryQuery.MaxLimit);
+        int[] page;
         using (StageTimings.Measure("table: order"))
         {
-            order = Order(filtered, sort, query.Descending);
+            // The whole table's first pages in plan order are known from the merge (FirstLoad); any other view sorts.
+            page = sort == DefaultSort && !query.Descending && ReferenceEquals(all, filtered) && all.FirstLoad?.PlanOrderPage(offset, limit) is { } planned
+                ? planned
+                : [.. Order(filtered, sort, query.Descending).Skip(offset).Take(limit)];
         }
 
         using var paging = StageTimings.Measure("table: page rows");
-        var offset = Math.Max(0, query.Offset);
-        var limit = Math.Clamp(query.Limit, 1, SummaryQuery.MaxLimit);
         // Only the page's rows are boxed, and only their row groups read where a column is not loaded yet.
-        var page = order.Skip(offset).Take(limit).ToArray();
         // Every column the page shows in one read per file: the shown ones, the id and the marks.
         string[] wanted = ["point_id", PointFlags.StateColumn, PointFlags.StableColumn, PointFlags.FloppyColumn, .. shown];
         var known = wanted.Distinct(StringComparer.Ordinal).Where(filtered.Has).ToList();

@@ -215,13 +215,13 @@ internal sealed partial class SweepModel : PageModel
         {
             using var timing = StageTimings.Measure("sweep page: filter values");
             // Distinct cells first (by value, without boxing each row), then ordered as shown.
-            var column = all.Cells(i);
             var seen = new HashSet<CellKey>();
             // The page ticks values only up to MaxTickedValues: past one more, the rest is never shown (a dense axis of 10^6 values).
-            // From the merged files' footers when they list enough values (the first distinct ones in row order, as this scan finds them).
+            // From the merged files' footers when they list enough values (the first distinct ones in row order, as this scan finds them);
+            // the column is read only for the scan.
             var cells = all.Summary?.Of(Points.All.Columns[i].Name) is { } s && (!s.More || s.Distinct.Length > MaxTickedValues)
                 ? [.. s.Distinct.Take(MaxTickedValues + 1)]
-                : Enumerable.Range(0, all.Count).Where(r => column.HasValue(r) && seen.Add(column.Key(r))).Take(MaxTickedValues + 1).Select(column.Cell).ToList();
+                : all.Cells(i) is var column ? Enumerable.Range(0, all.Count).Where(r => column.HasValue(r) && seen.Add(column.Key(r))).Take(MaxTickedValues + 1).Select(column.Cell).ToList() : [];
             var ordered = cells.All(v => ResultTable.ToDouble(v) is not null) ? cells.OrderBy(v => ResultTable.ToDouble(v)) : cells.AsEnumerable();
             return (IReadOnlyList<(string Raw, string Text)>)[.. ordered.Select(v => (Raw: Formatting.Show.Raw(v), Text: Formatting.Show.Value(v, unit))).DistinctBy(v => v.Raw)];
         });

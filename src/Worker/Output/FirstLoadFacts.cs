@@ -179,6 +179,7 @@ internal static class FirstLoadFacts
         }
 
         cells.Clear();
+        var planFirst = t.Has(PlanColumn) ? PlanFirst(await t.ReadAsync(PlanColumn, ct).ConfigureAwait(false), t.Rows) : null;
         var wanted = new SortedSet<int>();
         foreach (var row in (parameterPlot?.Series.SelectMany(s => s.Rows) ?? []).Concat(scatter?.Stable ?? []).Concat(scatter?.Unstable ?? []).Concat(scatter?.Front ?? []))
         {
@@ -211,6 +212,17 @@ internal static class FirstLoadFacts
             json.WriteEndArray();
             WriteNames(json, "parameters", ordered);
             WriteNames(json, "key_parameters", key);
+            if (planFirst is not null)
+            {
+                json.WriteStartArray("plan_first");
+                foreach (var row in planFirst)
+                {
+                    json.WriteNumberValue(row);
+                }
+
+                json.WriteEndArray();
+            }
+
             if (parameterPlot is not null)
             {
                 json.WriteStartObject("parameter_plot");
@@ -390,6 +402,26 @@ internal static class FirstLoadFacts
         var plotted = stable.Count + unstable.Count;
         var stride = Stride(plotted);
         return new ScatterSample(xs, ys, [.. Sample(stable.Count, stride).Select(i => stable[i])], [.. Sample(unstable.Count, stride).Select(i => unstable[i])], front, plotted);
+    }
+
+    /// <summary>Rows listed at most in plan order (the first pages of the default table).</summary>
+    public const int PlanRowsKept = 1000;
+
+    /// <summary>
+    /// The first <see cref="PlanRowsKept"/> rows in plan order as the dashboard sorts them: by plan
+    /// index, rows without one last, ties in row order.
+    /// </summary>
+    private static int[] PlanFirst(Cells plan, int rows)
+    {
+        var entries = new (bool Empty, double Key, int Row)[rows];
+        for (var r = 0; r < rows; r++)
+        {
+            var key = plan.Number[r];
+            entries[r] = (double.IsNaN(key), double.IsNaN(key) ? 0 : key, r);
+        }
+
+        Array.Sort(entries);
+        return [.. entries.Take(PlanRowsKept).Select(e => e.Row)];
     }
 
     /// <summary>True when every value of <paramref name="q"/> goes with one value of <paramref name="p"/>; null past <see cref="MaxKeys"/> values.</summary>

@@ -69,6 +69,9 @@ public sealed partial class FirstLoadTests
             $"sweeps/{sweepId}",
             $"api/sweeps/{sweepId}/plots",
             $"api/sweeps/{sweepId}/results",
+            $"sweeps/{sweepId}?offset=3",
+            $"api/sweeps/{sweepId}/results?offset=2&limit=3",
+            $"api/sweeps/{sweepId}/results?sort=point_index&dir=desc",
             // Filtered and chosen views never use the entry; they are compared too.
             $"sweeps/{sweepId}?stable=1",
             $"api/sweeps/{sweepId}/plots?stable=1",
@@ -81,6 +84,9 @@ public sealed partial class FirstLoadTests
         {
             Assert.Equal(everyRow[i], fast[i]);
         }
+
+        // The first page in plan order is the merge's (the whole table: these sweeps have fewer rows than it keeps).
+        Assert.Equal(table.Count, merged.PlanFirst!.Value.Length);
 
         // The plots' JSON drew what the merge wrote down (so the comparison above compared the merge's work).
         var plots = JsonNode.Parse(fast[1])!;
