@@ -188,9 +188,21 @@ internal static class TableMerger
     /// </summary>
     private static async Task WriteFirstLoadAsync(string staging, IReadOnlyList<ColumnDef>? schema, MergeBudget budget, CancellationToken ct)
     {
-        if (schema is not null)
+        if (schema is null)
+        {
+            return;
+        }
+
+        try
         {
             await FirstLoadFacts.TryWriteAsync(staging, schema, budget, ct).ConfigureAwait(false);
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or InvalidDataException or Parquet.ParquetException
+            or System.Text.Json.JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
+        {
+            // The facts only spare the dashboard a read of every row: the merge goes on without them.
+            ParquetPartWriter.TryDelete(Path.Combine(staging, FirstLoadFacts.FileName));
+            ParquetPartWriter.TryDelete(Path.Combine(staging, FirstLoadFacts.FileName + ".tmp"));
         }
     }
 
