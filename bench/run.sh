@@ -64,8 +64,7 @@ if [[ " ${cases[*]} " == *" queue "* && "${QUEUE_LATSWEEP:-r2r}" == r2r ]]; then
 fi
 if [[ " ${cases[*]} " == *" queue "* && "${QUEUE_LATSWEEP:-r2r}" == composite ]]; then
   # README's install for long sweeps: self-contained, the runtime's libraries and latsweep's compiled
-  # together into one ReadyToRun image (generic code across them precompiled too; ~130 MB, 5-8 min),
-  # run without tiering (Worker.csproj sets TieredCompilation=false for this publish only).
+  # together into one ReadyToRun image (generic code across them precompiled too; ~130 MB, 5-8 min).
   # Its own build folders: a framework-dependent publish made later from the same obj/ folder
   # after a composite one would otherwise take the composite's stubs and abort at start.
   rid="$(dotnet --info | sed -n 's/^ *RID: *//p' | head -1)"
