@@ -9,7 +9,7 @@
 # behave as on a processor without AVX-512).
 # Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1),
 # QUEUE_LATSWEEP (case (e)'s latsweep: r2r, the default, as README's install line; composite, the
-# self-contained composite ReadyToRun publish; build, the plain build output).
+# self-contained composite ReadyToRun publish, README's second install line; build, the plain build output).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$(dirname "$here")"
@@ -64,7 +64,7 @@ if [[ " ${cases[*]} " == *" queue "* && "${QUEUE_LATSWEEP:-r2r}" == r2r ]]; then
 fi
 if [[ " ${cases[*]} " == *" queue "* && "${QUEUE_LATSWEEP:-r2r}" == composite ]]; then
   # README's second install line: self-contained, the runtime's libraries and latsweep's compiled
-  # together into one ReadyToRun image (generic code across them precompiled too; ~130 MB, ~5 min).
+  # together into one ReadyToRun image (generic code across them precompiled too; ~130 MB, 5-8 min).
   # Its own build folders: a framework-dependent publish made later from the same obj/ folder
   # after a composite one would otherwise take the composite's stubs and abort at start.
   rid="$(dotnet --info | sed -n 's/^ *RID: *//p' | head -1)"
@@ -93,6 +93,8 @@ for c in "${cases[@]}"; do
   fi
   if [ "$c" = queue ]; then
     # Ours against ours: the queue (latsweep run, embedded SQLite store) against the Engine alone.
+    # --version names the Engine image a published x86-64 build loaded (avx512 or avx2 precompiled code).
+    echo "latsweep: $("$latsweep" --version)"
     "$bench" queue --out "$results" --repeats "${QUEUE_REPEATS:-3}" --jobs "$here/queue" \
       --latsweep "$latsweep"
     continue

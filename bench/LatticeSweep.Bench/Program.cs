@@ -145,6 +145,9 @@ switch (caseName)
         {
             QueueCase.Run(latsweep, Path.Combine(jobs, "small-points.toml"), Path.Combine(jobs, "one-point.toml"), workers: 1, repeats),
             QueueCase.Run(latsweep, Path.Combine(jobs, "20ms-points.toml"), Path.Combine(jobs, "one-point.toml"), workers: 1, repeats),
+            // The issue's own range for the <= 3 % target (points of ~30-80 ms); the 20 ms job stays for
+            // comparison with earlier rounds.
+            QueueCase.Run(latsweep, Path.Combine(jobs, "40ms-points.toml"), Path.Combine(jobs, "one-point.toml"), workers: 1, repeats),
         };
         break;
     }

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using LatticeSweep.Worker.Cli;
 
@@ -7,6 +8,15 @@ namespace LatticeSweep.Worker;
 internal static class Program
 {
     private static int Main(string[] args)
+    {
+        // Before any Engine type is loaded: a published x86-64 build holds one Engine image per vector width.
+        EngineImages.LoadFromPublishedFolders();
+        return Run(args);
+    }
+
+    // Kept out of Main so that nothing Run needs is loaded before the handler above is in place.
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    private static int Run(string[] args)
     {
         using var stop = new CancellationTokenSource();
         Console.CancelKeyPress += (_, e) =>

@@ -64,6 +64,9 @@ public sealed class ResultTable
     /// <summary>Facts of the whole table from its files' footers (<see cref="TableSummary"/>); null for a filtered view or files without one.</summary>
     internal TableSummary? Summary { get; }
 
+    /// <summary>The default page's whole-table work done by the merge (<see cref="Datasets.FirstLoad"/>); null for a filtered view or a table it does not describe.</summary>
+    internal FirstLoad? FirstLoad { get; set; }
+
     public ImmutableArray<ResultColumn> Columns { get; }
 
     /// <summary>The rows in view, each boxed when read (a whole table's worth is slow: prefer <see cref="Cells"/>).</summary>

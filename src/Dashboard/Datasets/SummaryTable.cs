@@ -44,7 +44,7 @@ public sealed record SummaryTable(
 
     public const string DefaultSort = "point_index";
 
-    private const string CandidatePrefix = "candidates.";
+    private const string CandidatePrefix = FirstLoadFacts.CandidatePrefix;
 
     /// <summary>
     /// Builds the page from <paramref name="filtered"/> (the rows to list). Which columns are worth
@@ -70,17 +70,19 @@ public sealed record SummaryTable(
             .ToList();
         var view = shown.Select(n => View(all.Column(n)!, names)).ToImmutableArray();
         timing.Dispose();
-        int[] order;
+        var offset = Math.Max(0, query.Offset);
+        var limit = Math.Clamp(query.Limit, 1, SummaryQuery.MaxLimit);
+        int[] page;
         using (StageTimings.Measure("table: order"))
         {
-            order = Order(filtered, sort, query.Descending);
+            // The whole table's first pages in plan order are known from the merge (FirstLoad); any other view sorts.
+            page = sort == DefaultSort && !query.Descending && ReferenceEquals(all, filtered) && all.FirstLoad?.PlanOrderPage(offset, limit) is { } planned
+                ? planned
+                : [.. Order(filtered, sort, query.Descending).Skip(offset).Take(limit)];
         }
 
         using var paging = StageTimings.Measure("table: page rows");
-        var offset = Math.Max(0, query.Offset);
-        var limit = Math.Clamp(query.Limit, 1, SummaryQuery.MaxLimit);
         // Only the page's rows are boxed, and only their row groups read where a column is not loaded yet.
-        var page = order.Skip(offset).Take(limit).ToArray();
         // Every column the page shows in one read per file: the shown ones, the id and the marks.
         string[] wanted = ["point_id", PointFlags.StateColumn, PointFlags.StableColumn, PointFlags.FloppyColumn, .. shown];
         var known = wanted.Distinct(StringComparer.Ordinal).Where(filtered.Has).ToList();
@@ -124,6 +126,12 @@ public sealed record SummaryTable(
         var ordered = names.Parameters.Where(t.Has).OrderBy(p => names.Label(p).StartsWith(CandidatePrefix, StringComparison.Ordinal) ? 0 : 1).ToList();
         return TableFacts.Of(t, "key parameters\n" + string.Join('\n', ordered), t =>
         {
+            if (t.FirstLoad is { } merged && merged.Parameters.SequenceEqual(ordered))
+            {
+                // Worked out by the merge over the same rows, by the same rule.
+                return (IReadOnlyList<string>)merged.KeyParameters;
+            }
+
             using var timing = StageTimings.Measure("table: key parameters");
             var kept = new List<string>();
             foreach (var p in ordered)

@@ -56,7 +56,7 @@ public sealed record SweepPlot(
     /// kilobytes, not megabytes, and the browser stays responsive. The Pareto front is found over
     /// every point and drawn whole; the table and the downloads have every point.
     /// </summary>
-    public const int MaxDrawn = 4000;
+    public const int MaxDrawn = Worker.Output.FirstLoadFacts.MaxDrawn;
 
     /// <summary>The points sent to be drawn (at most about <see cref="MaxDrawn"/>; <see cref="Plotted"/> have values).</summary>
     public int Drawn => Series.Sum(s => s.Points.Length);

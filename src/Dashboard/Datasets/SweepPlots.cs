@@ -13,20 +13,21 @@ namespace LatticeSweep.Dashboard.Datasets;
 internal static class SweepPlots
 {
     /// <summary>Usual y columns: the first that varies over the sweep wins (conductivity first: a sweep that asked for it is about it).</summary>
-    private static readonly string[] ParameterPlotY = [PointCurves.ConductivityColumn, "cv_j_per_mol_k", "debye_temperature_from_cv_k", "max_freq_thz"];
+    /// <remarks>The lists and limits are the merge's (<see cref="FirstLoadFacts"/>), which works out the same defaults for the first load.</remarks>
+    private static readonly string[] ParameterPlotY = FirstLoadFacts.ParameterPlotY;
 
-    private static readonly string[] ScatterX = ["debye_temperature_from_cv_k", "max_freq_thz", "sound_speed_mean_m_per_s"];
+    private static readonly string[] ScatterX = FirstLoadFacts.ScatterX;
 
-    private static readonly string[] ScatterY = [PointCurves.ConductivityColumn, "cv_j_per_kg_k", "cv_j_per_mol_k", "largest_gap_width_thz"];
+    private static readonly string[] ScatterY = FirstLoadFacts.ScatterY;
 
     /// <summary>Columns about the run, not the model: never a default axis.</summary>
-    private static readonly HashSet<string> RunColumns = new(StringComparer.Ordinal) { "point_index", "attempt", "duration_s" };
+    private static readonly HashSet<string> RunColumns = new(FirstLoadFacts.RunColumns, StringComparer.Ordinal);
 
     /// <summary>At most this many values for a default grouping parameter named in a legend (a longer legend says little).</summary>
-    private const int MaxDefaultGroups = 12;
+    private const int MaxDefaultGroups = FirstLoadFacts.MaxDefaultGroups;
 
     /// <summary>At most this many lines for a default numeric grouping parameter drawn as a colour gradient.</summary>
-    public const int MaxGradientGroups = 60;
+    public const int MaxGradientGroups = FirstLoadFacts.MaxGradientGroups;
 
     /// <summary>Numeric columns with at least one value: what can go on a number axis.</summary>
     public static IReadOnlyList<string> NumberColumns(ResultTable all)
@@ -94,16 +95,39 @@ internal static class SweepPlots
         }
 
         var notes = new List<string>();
-        var maker = new PointMaker(filtered, r.X, r.Y);
-        var xs = filtered.Cells(r.X);
-        var ys = filtered.Cells(r.Y);
         var grouped = r.By is { } b && b != SweepPlot.NoGrouping ? filtered.IndexOf(b) : -1;
-        var groups = grouped < 0 ? (ColumnView?)null : filtered.Cells(grouped);
         var categorical = !all.Column(r.X)!.IsNumeric;
         var categories = categorical ? Categories(all, all.IndexOf(r.X)) : [];
+        var (series, plotted, stride) = ReferenceEquals(all, filtered) && all.FirstLoad?.ParameterPlot is { } stored && !categorical
+            && stored.X == r.X && stored.Y == r.Y && (stored.By ?? SweepPlot.NoGrouping) == r.By
+            ? FromMerge(stored, filtered, names, r, grouped)
+            : ParameterSeries(filtered, names, r, grouped, categorical, categories);
+        if (series.Count > MaxDefaultGroups && grouped >= 0)
+        {
+            notes.Add($"{series.Count} lines, one per value of {names.ShortLabel(r.By!)}: coloured from blue (the lowest, {series[0].Name}) to orange (the highest, {series[^1].Name}); the tooltip names each.");
+        }
+
+        if (series.Any(s => !s.Lines) && !categorical)
+        {
+            notes.Add("Several points share an x value within a series, so they are drawn as points without lines: split the series by another parameter or narrow the filter.");
+        }
+
+        Thinned(series, plotted, stride, notes);
+        var xAxis = Axis(names, r.X, all, r.XScale, notes, categorical, categories);
+        var yAxis = Axis(names, r.Y, all, r.YScale, notes, false, []);
+        return new SweepPlot(SweepPlot.ParameterKind, PointUrl(sweep), xAxis, yAxis, grouped < 0 ? null : r.By, grouped < 0 ? null : names.Label(r.By!),
+            [.. series], [], null, plotted, filtered.Count - plotted, [.. notes]);
+    }
+
+    /// <summary>The series from every row: grouped and ordered as positions, and only the rows drawn (an even sample of each series) become points with their ids.</summary>
+    private static (List<PlotSeries> Series, int Plotted, int Stride) ParameterSeries(ResultTable filtered, ColumnCatalog names, ParameterPlotRequest r, int grouped,
+        bool categorical, ImmutableArray<string> categories)
+    {
+        var maker = new PointMaker(filtered, r.X!, r.Y!);
+        var xs = filtered.Cells(r.X!);
+        var ys = filtered.Cells(r.Y!);
+        var groups = grouped < 0 ? (ColumnView?)null : filtered.Cells(grouped);
         var categoryAt = categories.Select((c, i) => (c, i)).ToDictionary(p => p.c, p => p.i, StringComparer.Ordinal);
-        // By position, column by column: rows are grouped and ordered as positions, and only the
-        // rows drawn (an even sample of each series) become points with their ids.
         var usable = new List<int>();
         for (var row = 0; row < filtered.Count; row++)
         {
@@ -133,7 +157,7 @@ internal static class SweepPlots
         {
             var (rows, x) = SortedByX(group, row => categorical ? categoryAt.GetValueOrDefault(Show.Raw(xs.Cell(row)), -1) : xs.Number(row)!.Value);
             var lines = !categorical && AllDistinct(x);
-            var name = grouped < 0 ? names.Label(r.Y) : Show.Value(groups!.Value.Cell(group[0]), names.UnitOf(filtered.Columns[grouped].Name));
+            var name = grouped < 0 ? names.Label(r.Y!) : Show.Value(groups!.Value.Cell(group[0]), names.UnitOf(filtered.Columns[grouped].Name));
             ordered.Add((name, lines, rows, x));
         }
 
@@ -142,22 +166,33 @@ internal static class SweepPlots
         var series = ordered
             .Select(s => new PlotSeries(s.Name, s.Lines, [.. Sample(s.Rows.Length, stride).Select(i => maker.Make(s.Rows[i], categorical ? (int)s.X[i] : null))]))
             .ToList();
-        if (series.Count > MaxDefaultGroups && grouped >= 0)
-        {
-            notes.Add($"{series.Count} lines, one per value of {names.ShortLabel(r.By!)}: coloured from blue (the lowest, {series[0].Name}) to orange (the highest, {series[^1].Name}); the tooltip names each.");
-        }
-
-        if (series.Any(s => !s.Lines) && !categorical)
-        {
-            notes.Add("Several points share an x value within a series, so they are drawn as points without lines: split the series by another parameter or narrow the filter.");
-        }
-
-        Thinned(series, plotted, stride, notes);
-        var xAxis = Axis(names, r.X, all, r.XScale, notes, categorical, categories);
-        var yAxis = Axis(names, r.Y, all, r.YScale, notes, false, []);
-        return new SweepPlot(SweepPlot.ParameterKind, PointUrl(sweep), xAxis, yAxis, grouped < 0 ? null : r.By, grouped < 0 ? null : names.Label(r.By!),
-            [.. series], [], null, plotted, filtered.Count - plotted, [.. notes]);
+        return (series, plotted, stride);
     }
+
+    /// <summary>The same series from the merge's work (<see cref="FirstLoad"/>): its drawn points as they are, the series named as above.</summary>
+    private static (List<PlotSeries> Series, int Plotted, int Stride) FromMerge(FirstLoad.ParameterSample stored, ResultTable filtered, ColumnCatalog names,
+        ParameterPlotRequest r, int grouped)
+    {
+        var column = grouped < 0 ? null : filtered.Columns[grouped];
+        var series = stored.Series
+            .Select(s => new PlotSeries(
+                column is null ? names.Label(r.Y!) : Show.Value(Box(s.Group, column.ClrType), names.UnitOf(column.Name)),
+                s.Lines,
+                [.. s.Points.Select(Point)]))
+            .ToList();
+        return (series, stored.Plotted, Stride(stored.Plotted));
+    }
+
+    /// <summary>A number boxed as a cell of its column is (<see cref="NumberCells"/>).</summary>
+    private static object? Box(double? value, Type type) => value switch
+    {
+        null => null,
+        { } v when type == typeof(int) => (int)v,
+        { } v when type == typeof(long) => (long)v,
+        { } v => v,
+    };
+
+    private static PlotPoint Point(FirstLoad.Point p) => new(p.X, p.Y, p.PointId, p.Unstable, p.Floppy);
 
     /// <summary>Two summary columns against each other, with the Pareto front for the chosen directions (unstable models are never on it).</summary>
     public static SweepPlot? Scatter(ResultTable all, ResultTable filtered, SweepRecord sweep, ScatterPlotRequest asked)
@@ -170,9 +205,40 @@ internal static class SweepPlots
         }
 
         var notes = new List<string>();
-        var maker = new PointMaker(filtered, r.X, r.Y);
-        var xs = filtered.Cells(r.X);
-        var ys = filtered.Cells(r.Y);
+        ImmutableArray<PlotPoint> front;
+        List<PlotSeries> series;
+        int plotted;
+        int stride;
+        if (ReferenceEquals(all, filtered) && all.FirstLoad?.Scatter is { } stored && stored.X == r.X && stored.Y == r.Y && r.XLarger && r.YLarger)
+        {
+            // The merge found the front and drew the sample over the same rows (larger is better on both axes, the default).
+            front = [.. stored.Front.Select(Point)];
+            plotted = stored.Plotted;
+            stride = Stride(plotted);
+            series = [new("stable models", false, [.. stored.Stable.Select(Point)])];
+            if (stored.Unstable.Length > 0)
+            {
+                series.Add(new PlotSeries("unstable models", false, [.. stored.Unstable.Select(Point)]));
+                notes.Add("Unstable models are drawn apart and are never on the front.");
+            }
+        }
+        else
+        {
+            (front, series, plotted, stride) = ScatterSeries(filtered, r, notes);
+        }
+
+        Thinned(series, plotted, stride, notes);
+        var rule = $"{(r.XLarger ? "larger" : "smaller")} {names.ShortLabel(r.X)} and {(r.YLarger ? "larger" : "smaller")} {names.ShortLabel(r.Y)} are better";
+        return new SweepPlot(SweepPlot.ScatterKind, PointUrl(sweep), Axis(names, r.X, all, r.XScale, notes, false, []), Axis(names, r.Y, all, r.YScale, notes, false, []),
+            null, null, [.. series], front, rule, plotted, filtered.Count - plotted, [.. notes]);
+    }
+
+    /// <summary>The scatter's front and series from every row: positions first, and only the rows drawn and the front's become points.</summary>
+    private static (ImmutableArray<PlotPoint> Front, List<PlotSeries> Series, int Plotted, int Stride) ScatterSeries(ResultTable filtered, ScatterPlotRequest r, List<string> notes)
+    {
+        var maker = new PointMaker(filtered, r.X!, r.Y!);
+        var xs = filtered.Cells(r.X!);
+        var ys = filtered.Cells(r.Y!);
         // Positions first: the front is found over every stable row on the two columns, and only
         // the rows drawn (an even sample of each series) and the front's become points.
         var flags = new ColumnFlags(filtered);
@@ -204,26 +270,14 @@ internal static class SweepPlots
             notes.Add("Unstable models are drawn apart and are never on the front.");
         }
 
-        Thinned(series, plotted, stride, notes);
-        var rule = $"{(r.XLarger ? "larger" : "smaller")} {names.ShortLabel(r.X)} and {(r.YLarger ? "larger" : "smaller")} {names.ShortLabel(r.Y)} are better";
-        return new SweepPlot(SweepPlot.ScatterKind, PointUrl(sweep), Axis(names, r.X, all, r.XScale, notes, false, []), Axis(names, r.Y, all, r.YScale, notes, false, []),
-            null, null, [.. series], front, rule, plotted, filtered.Count - plotted, [.. notes]);
+        return (front, series, plotted, stride);
     }
 
     /// <summary>One in this many points of each series is drawn: 1 up to <see cref="SweepPlot.MaxDrawn"/> points in all.</summary>
-    private static int Stride(int plotted) => plotted <= SweepPlot.MaxDrawn ? 1 : (plotted + SweepPlot.MaxDrawn - 1) / SweepPlot.MaxDrawn;
+    private static int Stride(int plotted) => FirstLoadFacts.Stride(plotted);
 
     /// <summary>The positions drawn of a series of <paramref name="count"/> points: one in <paramref name="stride"/> in its order, with its last.</summary>
-    internal static IEnumerable<int> Sample(int count, int stride)
-    {
-        for (var i = 0; i < count; i++)
-        {
-            if (i % stride == 0 || i == count - 1)
-            {
-                yield return i;
-            }
-        }
-    }
+    internal static IEnumerable<int> Sample(int count, int stride) => FirstLoadFacts.Sample(count, stride);
 
     /// <summary>Says in a note when the series were sampled (each evenly, when the plot has more than <see cref="SweepPlot.MaxDrawn"/> points).</summary>
     private static void Thinned(List<PlotSeries> series, int plotted, int stride, List<string> notes)

@@ -159,26 +159,42 @@ internal sealed partial class SweepModel : PageModel
     /// <summary>A point's values of the parameters the table shows by default ("invented-03, 6 N/m"), for lists of points.</summary>
     public string ParametersOf(string pointId)
     {
-        // The front's listed rows are found together in one pass over point_id (no index of every id).
+        // The front's listed rows are found together (one pass over point_id, or their rows as the merge wrote them down).
         _frontRows ??= FrontRows();
-        var at = _frontRows.TryGetValue(pointId, out var known) ? known : Points.All.FirstPositions("point_id", [pointId])[0];
-        if (at < 0)
+        if (_frontRows.TryGetValue(pointId, out var known))
         {
-            return "";
+            return known;
         }
 
-        // Only the parameters' cells are read (boxing the whole row would read every column of the table).
-        return string.Join(", ", SummaryTable.KeyParameters(Points.All, Names).Select(p => Formatting.Show.Value(Points.All.Cell(at, Points.All.IndexOf(p)), Names.UnitOf(p))));
+        var at = Points.All.FirstPositions("point_id", [pointId])[0];
+        return at < 0 ? "" : ParametersAt([at])[0];
     }
 
-    private Dictionary<string, int>? _frontRows;
+    private Dictionary<string, string>? _frontRows;
 
-    private Dictionary<string, int> FrontRows()
+    private Dictionary<string, string> FrontRows()
     {
         using var timing = StageTimings.Measure("sweep page: front rows");
-        var ids = (Plots.Scatter?.Front ?? []).Take(MaxFrontRows).Select(f => f.PointId).Distinct(StringComparer.Ordinal).ToList();
-        var at = Points.All.FirstPositions("point_id", ids);
-        return ids.Select((id, i) => (id, i)).ToDictionary(p => p.id, p => at[p.i], StringComparer.Ordinal);
+        var listed = (Plots.Scatter?.Front ?? []).Take(MaxFrontRows).ToList();
+        var ids = listed.Select(f => f.PointId).Distinct(StringComparer.Ordinal).ToList();
+        // The merge's front, when it is the one drawn, says where its points are; else a pass over point_id finds them.
+        var merged = Points.All.FirstLoad?.Scatter?.Front;
+        var at = merged is { } front && Points.Rows == Points.All && front.Length >= listed.Count
+            && front.Take(listed.Count).Select(p => p.PointId).SequenceEqual(listed.Select(f => f.PointId), StringComparer.Ordinal)
+            ? ids.Select(id => front.First(p => p.PointId == id).Row).ToArray()
+            : Points.All.FirstPositions("point_id", ids);
+        var found = ids.Select((id, i) => (id, at: at[i])).Where(p => p.at >= 0).ToList();
+        var text = ParametersAt([.. found.Select(p => p.at)]);
+        return found.Select((p, i) => (p.id, text: text[i])).Concat(ids.Select((id, i) => (id, at: at[i])).Where(p => p.at < 0).Select(p => (p.id, text: "")))
+            .ToDictionary(p => p.id, p => p.text, StringComparer.Ordinal);
+    }
+
+    /// <summary>The key parameters' values at these rows, read from their row groups only (boxing the whole row would read every column of the table).</summary>
+    private string[] ParametersAt(int[] rows)
+    {
+        var parameters = SummaryTable.KeyParameters(Points.All, Names);
+        var cells = Points.All.CellsAt([.. parameters.Select(Points.All.IndexOf)], rows);
+        return [.. rows.Select((_, k) => string.Join(", ", parameters.Select((p, c) => Formatting.Show.Value(cells[c][k], Names.UnitOf(p)))))];
     }
 
     /// <summary>Whether a value of a parameter is ticked in the filter.</summary>
@@ -199,13 +215,13 @@ internal sealed partial class SweepModel : PageModel
         {
             using var timing = StageTimings.Measure("sweep page: filter values");
             // Distinct cells first (by value, without boxing each row), then ordered as shown.
-            var column = all.Cells(i);
             var seen = new HashSet<CellKey>();
             // The page ticks values only up to MaxTickedValues: past one more, the rest is never shown (a dense axis of 10^6 values).
-            // From the merged files' footers when they list enough values (the first distinct ones in row order, as this scan finds them).
+            // From the merged files' footers when they list enough values (the first distinct ones in row order, as this scan finds them);
+            // the column is read only for the scan.
             var cells = all.Summary?.Of(Points.All.Columns[i].Name) is { } s && (!s.More || s.Distinct.Length > MaxTickedValues)
                 ? [.. s.Distinct.Take(MaxTickedValues + 1)]
-                : Enumerable.Range(0, all.Count).Where(r => column.HasValue(r) && seen.Add(column.Key(r))).Take(MaxTickedValues + 1).Select(column.Cell).ToList();
+                : all.Cells(i) is var column ? Enumerable.Range(0, all.Count).Where(r => column.HasValue(r) && seen.Add(column.Key(r))).Take(MaxTickedValues + 1).Select(column.Cell).ToList() : [];
             var ordered = cells.All(v => ResultTable.ToDouble(v) is not null) ? cells.OrderBy(v => ResultTable.ToDouble(v)) : cells.AsEnumerable();
             return (IReadOnlyList<(string Raw, string Text)>)[.. ordered.Select(v => (Raw: Formatting.Show.Raw(v), Text: Formatting.Show.Value(v, unit))).DistinctBy(v => v.Raw)];
         });

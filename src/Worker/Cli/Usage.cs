@@ -3,9 +3,19 @@ namespace LatticeSweep.Worker.Cli;
 /// <summary>The text of <c>latsweep --help</c> and <c>latsweep --version</c>.</summary>
 internal static class Usage
 {
-    /// <summary>One line: the program's and the engine's version and the runtime.</summary>
-    public static string Version =>
-        $"latsweep {typeof(Usage).Assembly.GetName().Version?.ToString(3) ?? "0.0.0"} (engine {Engine.Solving.PhononSolver.EngineVersion}, .NET {Environment.Version})";
+    /// <summary>
+    /// One line: the program's and the engine's version, the engine image a published x86-64 build loaded
+    /// (<see cref="EngineImages"/>) and the runtime.
+    /// </summary>
+    public static string Version
+    {
+        get
+        {
+            var engine = Engine.Solving.PhononSolver.EngineVersion; // loads the Engine, so the image is known after it
+            var image = EngineImages.LoadedFolder is { } folder ? $", {folder} image" : "";
+            return $"latsweep {typeof(Usage).Assembly.GetName().Version?.ToString(3) ?? "0.0.0"} (engine {engine}{image}, .NET {Environment.Version})";
+        }
+    }
 
     public const string Text = """
         latsweep: batch lattice-vibration sweeps on a durable queue, results as Parquet datasets.

@@ -27,7 +27,7 @@ public static class ResultMerge
             IReadOnlyList<TableMerger.Outcome> outcomes;
             using (Queue.StageTimings.MeasureAlone("merge part files"))
             {
-                outcomes = TableMerger.MergeSweepAsync(sweep.OutputFolder, sweep.Tables, ct).GetAwaiter().GetResult();
+                outcomes = TableMerger.MergeSweepAsync(sweep.OutputFolder, sweep.Tables, new ResultSchemas(sweep.Axes).ColumnsOf(TableNames.Points), ct).GetAwaiter().GetResult();
             }
 
             var parts = outcomes.Sum(o => o.PartsMerged);

@@ -30,8 +30,13 @@ internal static class TableMerger
     public static Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, CancellationToken ct) =>
         MergeSweepAsync(sweepFolder, tables, MergeBudget.Default, ct);
 
+    /// <summary>Merges every listed table of the sweep folder, and with the sweep's points/ columns (<paramref name="pointsSchema"/>) writes the points/ table's <see cref="FirstLoadFacts"/>.</summary>
+    public static Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, IReadOnlyList<ColumnDef>? pointsSchema, CancellationToken ct) =>
+        MergeSweepAsync(sweepFolder, tables, MergeBudget.Default, ct, pointsSchema);
+
     /// <summary>Merges every listed table of the sweep folder within <paramref name="budget"/> (tests give a small one to force passes).</summary>
-    internal static async Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, MergeBudget budget, CancellationToken ct)
+    internal static async Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, MergeBudget budget, CancellationToken ct,
+        IReadOnlyList<ColumnDef>? pointsSchema = null)
     {
         var outcomes = new List<Outcome>();
         using (OutputLock.Exclusive(sweepFolder))
@@ -39,7 +44,7 @@ internal static class TableMerger
             foreach (var table in tables)
             {
                 using var timing = Queue.StageTimings.MeasureAlone("merge: table " + table);
-                outcomes.Add(await MergeLockedAsync(sweepFolder, table, budget, ct).ConfigureAwait(false));
+                outcomes.Add(await MergeLockedAsync(sweepFolder, table, budget, table == TableNames.Points ? pointsSchema : null, ct).ConfigureAwait(false));
             }
 
             // Every table done: the empty staging folder goes too, so the sweep folder holds tables only.
@@ -64,7 +69,7 @@ internal static class TableMerger
         }
     }
 
-    private static async Task<Outcome> MergeLockedAsync(string sweepFolder, string table, MergeBudget budget, CancellationToken ct)
+    private static async Task<Outcome> MergeLockedAsync(string sweepFolder, string table, MergeBudget budget, IReadOnlyList<ColumnDef>? schema, CancellationToken ct)
     {
         var live = SweepFolder.Table(sweepFolder, table);
         Recover(sweepFolder, table, live);
@@ -110,6 +115,7 @@ internal static class TableMerger
             if (laidOut is not null)
             {
                 var taken = TakeAsTheyAre(laidOut, staging, ref nextNumber, chunkFiles);
+                await WriteFirstLoadAsync(staging, schema, budget, ct).ConfigureAwait(false);
                 Commit(live, staging, id, chunkFiles, ct);
                 return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
             }
@@ -163,6 +169,7 @@ internal static class TableMerger
             }
 
             TryDeleteFolder(scratch);
+            await WriteFirstLoadAsync(staging, schema, budget, ct).ConfigureAwait(false);
             Commit(live, staging, id, chunkFiles, ct);
             return new Outcome(table, parts.Count, written, rows);
         }
@@ -171,6 +178,31 @@ internal static class TableMerger
             TryDeleteFolder(staging);
             TryDeleteFolder(scratch);
             throw;
+        }
+    }
+
+    /// <summary>
+    /// The points/ table's first-load facts, in the staging folder so they are committed with the
+    /// files they describe (a crash before the swap leaves neither). Without the sweep's columns (a
+    /// merge that does not know the sweep) none is written and the dashboard reads every row.
+    /// </summary>
+    private static async Task WriteFirstLoadAsync(string staging, IReadOnlyList<ColumnDef>? schema, MergeBudget budget, CancellationToken ct)
+    {
+        if (schema is null)
+        {
+            return;
+        }
+
+        try
+        {
+            await FirstLoadFacts.TryWriteAsync(staging, schema, budget, ct).ConfigureAwait(false);
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or InvalidDataException or Parquet.ParquetException
+            or System.Text.Json.JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
+        {
+            // The facts only spare the dashboard a read of every row: the merge goes on without them.
+            ParquetPartWriter.TryDelete(Path.Combine(staging, FirstLoadFacts.FileName));
+            ParquetPartWriter.TryDelete(Path.Combine(staging, FirstLoadFacts.FileName + ".tmp"));
         }
     }
 

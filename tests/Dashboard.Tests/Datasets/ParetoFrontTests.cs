@@ -1,4 +1,5 @@
 using LatticeSweep.Dashboard.Datasets;
+using LatticeSweep.Worker.Output;
 
 namespace LatticeSweep.Dashboard.Tests.Datasets;
 

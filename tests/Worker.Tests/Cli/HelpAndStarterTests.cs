@@ -57,7 +57,7 @@ public sealed partial class HelpAndStarterTests : IDisposable
         Assert.True(version.WaitForExit(TimeSpan.FromMinutes(1)), version.Output);
         Assert.Equal(0, version.ExitCode);
         var expected = typeof(Worker.Cli.CliApp).Assembly.GetName().Version!.ToString(3);
-        Assert.Matches($@"^latsweep {Regex.Escape(expected)} \(engine \d+\.\d+\.\d+, \.NET [\d.]+\)\s*$", version.Stdout);
+        Assert.Matches($@"^latsweep {Regex.Escape(expected)} \(engine \d+\.\d+\.\d+(, avx2 image|, avx512 image)?, \.NET [\d.]+\)\s*$", version.Stdout);
 
         using var help = LatsweepProcess.Start("help", _dir.Path, null, "cancel", "--help");
         Assert.True(help.WaitForExit(TimeSpan.FromMinutes(1)), help.Output);

@@ -1,4 +1,4 @@
-namespace LatticeSweep.Dashboard.Datasets;
+namespace LatticeSweep.Worker.Output;
 
 /// <summary>
 /// The Pareto front of points in two numbers, with a direction ("larger is better" or "smaller is

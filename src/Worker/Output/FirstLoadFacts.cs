@@ -1,0 +1,755 @@
+using System.Text;
+using System.Text.Json;
+using Parquet;
+using Parquet.Schema;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// What the dashboard's sweep page shows by default on a merged points/ table, worked out once by the
+/// merge and written beside the files (<see cref="FileName"/>, committed with them): the key swept
+/// parameters (which parameter no other one determines), the default parameter plot's and scatter's
+/// drawn sample with the values and ids they carry, and the scatter's Pareto front with its rows. The
+/// entry names every file it describes (name, length, write time, rows) in the dashboard's reading
+/// order; the dashboard uses it only for exactly those files and only where its own defaults
+/// resolve to the same columns, and otherwise works from every row as before. Where the merge
+/// cannot answer as the dashboard would (a text column on an axis or splitting the series, more
+/// rows than <see cref="MergeBudget"/> lets it hold, a file without its column summary) the entry
+/// leaves that part out or is not written. The rules mirror the dashboard's <c>SweepPlots</c>; its
+/// tests compare both paths' pages and plots byte for byte.
+/// </summary>
+internal static class FirstLoadFacts
+{
+    public const string FileName = ".first-load.json";
+
+    /// <summary>Raised whenever what the entry holds, or how it is worked out, changes: older entries are then ignored.</summary>
+    public const int Version = 1;
+
+    public const string SweptPrefix = "swept parameter ";
+
+    /// <summary>Parameters whose label starts so (a candidate's name) come first among the key parameters.</summary>
+    public const string CandidatePrefix = "candidates.";
+
+    public const string ConductivityColumn = "kappa_w_per_m_k";
+
+    public const string PlanColumn = "point_index";
+
+    /// <summary>Usual y columns of the parameter plot: the first that varies wins.</summary>
+    public static readonly string[] ParameterPlotY = [ConductivityColumn, "cv_j_per_mol_k", "debye_temperature_from_cv_k", "max_freq_thz"];
+
+    public static readonly string[] ScatterX = ["debye_temperature_from_cv_k", "max_freq_thz", "sound_speed_mean_m_per_s"];
+
+    public static readonly string[] ScatterY = [ConductivityColumn, "cv_j_per_kg_k", "cv_j_per_mol_k", "largest_gap_width_thz"];
+
+    /// <summary>Columns about the run, not the model: never a default axis.</summary>
+    public static readonly string[] RunColumns = [PlanColumn, "attempt", "duration_s"];
+
+    public const int MaxDefaultGroups = 12;
+
+    public const int MaxGradientGroups = 60;
+
+    /// <summary>A plot draws at most about this many points (an even sample of each series past it).</summary>
+    public const int MaxDrawn = 4000;
+
+    /// <summary>Bytes held per row and column read (8-byte values, with room for the sort entries).</summary>
+    private const long BytesPerCell = 8;
+
+    private const long BytesPerRowBeside = 64;
+
+    /// <summary>Past this many distinct values of one parameter, "which parameter determines which" is left to the dashboard.</summary>
+    private const int MaxKeys = 1 << 16;
+
+    /// <summary>
+    /// Writes the entry into <paramref name="folder"/> (a table's staging folder, every file in it) when
+    /// it can; returns whether it did. <paramref name="schema"/> is the sweep's points/ columns (which are parameters).
+    /// </summary>
+    public static async Task<bool> TryWriteAsync(string folder, IReadOnlyList<ColumnDef> schema, MergeBudget budget, CancellationToken ct)
+    {
+        using var timing = Queue.StageTimings.MeasureAlone("merge: first-load facts");
+        var path = Path.Combine(folder, FileName);
+        File.Delete(path);
+        var files = Directory.EnumerateFiles(folder, "*.parquet")
+            .Select(f => new FileInfo(f))
+            .Where(f => !f.Name.StartsWith('.'))
+            .OrderByDescending(f => f.LastWriteTimeUtc).ThenBy(f => f.FullName, StringComparer.Ordinal)
+            .ToList();
+        if (files.Count == 0)
+        {
+            return false;
+        }
+
+        var table = await Table.OpenAsync(files, ct).ConfigureAwait(false);
+        if (table is null)
+        {
+            return false;
+        }
+
+        var parameters = schema.Where(d => d.Description.StartsWith(SweptPrefix, StringComparison.Ordinal) && table.Has(d.Name)).ToList();
+        if (table.Rows * ((parameters.Count + 5) * BytesPerCell + BytesPerRowBeside) > budget.InputBytes)
+        {
+            return false;
+        }
+
+        var facts = await WorkOutAsync(table, parameters, ct).ConfigureAwait(false);
+        if (facts is null)
+        {
+            return false;
+        }
+
+        var temporary = path + ".tmp";
+        await File.WriteAllBytesAsync(temporary, facts, ct).ConfigureAwait(false);
+        using (var written = new FileStream(temporary, FileMode.Open, FileAccess.ReadWrite))
+        {
+            written.Flush(flushToDisk: true);
+        }
+
+        File.Move(temporary, path, overwrite: true);
+        return true;
+    }
+
+    private static async Task<byte[]?> WorkOutAsync(Table t, List<ColumnDef> parameterDefs, CancellationToken ct)
+    {
+        var parameters = parameterDefs.Select(d => d.Name).ToList();
+        string Label(string p) => parameterDefs.First(d => d.Name == p).Description[SweptPrefix.Length..];
+        var ordered = parameters.OrderBy(p => Label(p).StartsWith(CandidatePrefix, StringComparison.Ordinal) ? 0 : 1).ToList();
+        var cells = new Dictionary<string, Cells>(StringComparer.Ordinal);
+        foreach (var p in parameters)
+        {
+            cells[p] = await t.ReadAsync(p, ct).ConfigureAwait(false);
+        }
+
+        var key = new List<string>();
+        foreach (var p in ordered)
+        {
+            var determined = false;
+            foreach (var q in key)
+            {
+                if (Determines(cells[q], cells[p], t.Rows) is not { } d)
+                {
+                    return null;
+                }
+
+                if (d)
+                {
+                    determined = true;
+                    break;
+                }
+            }
+
+            if (!determined)
+            {
+                key.Add(p);
+            }
+        }
+
+        var distinct = parameters.ToDictionary(p => p, p => DistinctCount(cells[p], t.Rows), StringComparer.Ordinal);
+        var numbers = t.Columns.Where(c => c.Numeric && t.Count(c.Name) > 0 && c.Name != PlanColumn).Select(c => c.Name).ToList();
+        bool IsParameter(string c) => parameters.Contains(c);
+        bool IsNumeric(string c) => t.Columns.First(x => x.Name == c).Numeric;
+        string? Preferred(IEnumerable<string> usual, IEnumerable<string> others) =>
+            usual.Where(numbers.Contains).FirstOrDefault(t.Varies) ?? others.FirstOrDefault(t.Varies);
+
+        // The parameter plot's defaults (SweepPlots.Resolve in the dashboard).
+        var varying = key.Concat(parameters).Distinct(StringComparer.Ordinal).Where(p => distinct[p] > 1).ToList();
+        var px = varying.FirstOrDefault(IsNumeric) ?? varying.FirstOrDefault() ?? parameters.FirstOrDefault();
+        var py = Preferred(ParameterPlotY, numbers.Where(n => !IsParameter(n))) ?? numbers.FirstOrDefault();
+        var by = key.FirstOrDefault(p => p != px && distinct[p] is > 1 and <= MaxDefaultGroups)
+            ?? key.FirstOrDefault(p => p != px && IsNumeric(p) && distinct[p] is > 1 and <= MaxGradientGroups);
+
+        // The scatter's defaults.
+        var results = numbers.Where(c => !RunColumns.Contains(c)).OrderBy(c => IsParameter(c) ? 0 : 1).ToList();
+        var sx = Preferred(ScatterX, results) ?? numbers.FirstOrDefault();
+        var sy = sx is null ? null : Preferred(ScatterY.Where(c => c != sx), results.Where(c => c != sx && !IsParameter(c))) ?? numbers.FirstOrDefault(c => c != sx) ?? sx;
+
+        var flags = await Flags.ReadAsync(t, ct).ConfigureAwait(false);
+        async Task<Cells> Read(string c) => cells.TryGetValue(c, out var known) ? known : cells[c] = await t.ReadAsync(c, ct).ConfigureAwait(false);
+
+        ParameterSample? parameterPlot = null;
+        // A text x (categories in plan order) or a text grouping (series in plan order) is left to the dashboard.
+        if (px is not null && py is not null && IsNumeric(px) && (by is null || IsNumeric(by)))
+        {
+            parameterPlot = ParameterPlot(await Read(px).ConfigureAwait(false), await Read(py).ConfigureAwait(false),
+                by is null ? null : await Read(by).ConfigureAwait(false), flags, t.Rows);
+        }
+
+        ScatterSample? scatter = null;
+        if (sx is not null && sy is not null)
+        {
+            scatter = Scatter(await Read(sx).ConfigureAwait(false), await Read(sy).ConfigureAwait(false), flags, t.Rows);
+        }
+
+        cells.Clear();
+        var planFirst = t.Has(PlanColumn) ? PlanFirst(await t.ReadAsync(PlanColumn, ct).ConfigureAwait(false), t.Rows) : null;
+        var wanted = new SortedSet<int>();
+        foreach (var row in (parameterPlot?.Series.SelectMany(s => s.Rows) ?? []).Concat(scatter?.Stable ?? []).Concat(scatter?.Unstable ?? []).Concat(scatter?.Front ?? []))
+        {
+            wanted.Add(row);
+        }
+
+        var ids = await t.TextAtAsync(MergedLayout.PointIdColumn, wanted, ct).ConfigureAwait(false);
+        if (ids is null)
+        {
+            return null;
+        }
+
+        using var buffer = new MemoryStream();
+        using (var json = new Utf8JsonWriter(buffer))
+        {
+            json.WriteStartObject();
+            json.WriteNumber("version", Version);
+            json.WriteNumber("rows", t.Rows);
+            json.WriteStartArray("files");
+            foreach (var f in t.Files)
+            {
+                json.WriteStartObject();
+                json.WriteString("name", f.File.Name);
+                json.WriteNumber("length", f.File.Length);
+                json.WriteNumber("written_ticks", f.File.LastWriteTimeUtc.Ticks);
+                json.WriteNumber("rows", f.Rows);
+                json.WriteEndObject();
+            }
+
+            json.WriteEndArray();
+            WriteNames(json, "parameters", ordered);
+            WriteNames(json, "key_parameters", key);
+            if (planFirst is not null)
+            {
+                json.WriteStartArray("plan_first");
+                foreach (var row in planFirst)
+                {
+                    json.WriteNumberValue(row);
+                }
+
+                json.WriteEndArray();
+            }
+
+            if (parameterPlot is not null)
+            {
+                json.WriteStartObject("parameter_plot");
+                json.WriteString("x", px);
+                json.WriteString("y", py);
+                json.WriteString("by", by);
+                json.WriteNumber("plotted", parameterPlot.Plotted);
+                json.WriteStartArray("series");
+                foreach (var s in parameterPlot.Series)
+                {
+                    json.WriteStartObject();
+                    json.WritePropertyName("group");
+                    if (s.Group is { } g)
+                    {
+                        json.WriteNumberValue(g);
+                    }
+                    else
+                    {
+                        json.WriteNullValue();
+                    }
+
+                    json.WriteBoolean("lines", s.Lines);
+                    WritePoints(json, "points", s.Rows, i => s.X[i], row => parameterPlot.Y.Number[row], ids, flags, false);
+                    json.WriteEndObject();
+                }
+
+                json.WriteEndArray();
+                json.WriteEndObject();
+            }
+
+            if (scatter is not null)
+            {
+                json.WriteStartObject("scatter");
+                json.WriteString("x", sx);
+                json.WriteString("y", sy);
+                json.WriteNumber("plotted", scatter.Plotted);
+                WritePoints(json, "stable", scatter.Stable, i => scatter.X(scatter.Stable[i]), scatter.Y, ids, flags, false);
+                WritePoints(json, "unstable", scatter.Unstable, i => scatter.X(scatter.Unstable[i]), scatter.Y, ids, flags, false);
+                WritePoints(json, "front", scatter.Front, i => scatter.X(scatter.Front[i]), scatter.Y, ids, flags, true);
+                json.WriteEndObject();
+            }
+
+            json.WriteEndObject();
+        }
+
+        return buffer.ToArray();
+    }
+
+    private static void WriteNames(Utf8JsonWriter json, string name, IEnumerable<string> names)
+    {
+        json.WriteStartArray(name);
+        foreach (var n in names)
+        {
+            json.WriteStringValue(n);
+        }
+
+        json.WriteEndArray();
+    }
+
+    /// <summary>Points as [x, y, id, unstable, floppy] (and the row, for the front's listed rows).</summary>
+    private static void WritePoints(Utf8JsonWriter json, string name, IReadOnlyList<int> rows, Func<int, double> x, Func<int, double> y, Dictionary<int, string> ids, Flags flags, bool withRow)
+    {
+        json.WriteStartArray(name);
+        for (var i = 0; i < rows.Count; i++)
+        {
+            var row = rows[i];
+            json.WriteStartArray();
+            json.WriteNumberValue(x(i));
+            json.WriteNumberValue(y(row));
+            json.WriteStringValue(ids[row]);
+            json.WriteBooleanValue(flags.IsUnstable(row));
+            json.WriteBooleanValue(flags.IsFloppy(row));
+            if (withRow)
+            {
+                json.WriteNumberValue(row);
+            }
+
+            json.WriteEndArray();
+        }
+
+        json.WriteEndArray();
+    }
+
+    private sealed record SeriesSample(double? Group, bool Lines, int[] Rows, double[] X);
+
+    private sealed record ParameterSample(List<SeriesSample> Series, int Plotted, Cells Y);
+
+    private sealed record ScatterSample(Cells XCells, Cells YCells, List<int> Stable, List<int> Unstable, List<int> Front, int Plotted)
+    {
+        public double X(int row) => XCells.Number[row];
+
+        public double Y(int row) => YCells.Number[row];
+    }
+
+    /// <summary>One in this many points of each series is drawn.</summary>
+    public static int Stride(int plotted) => plotted <= MaxDrawn ? 1 : (plotted + MaxDrawn - 1) / MaxDrawn;
+
+    /// <summary>The positions drawn of a series of <paramref name="count"/> points: one in <paramref name="stride"/> in its order, with its last.</summary>
+    public static IEnumerable<int> Sample(int count, int stride)
+    {
+        for (var i = 0; i < count; i++)
+        {
+            if (i % stride == 0 || i == count - 1)
+            {
+                yield return i;
+            }
+        }
+    }
+
+    private static ParameterSample ParameterPlot(Cells xs, Cells ys, Cells? groups, Flags flags, int rows)
+    {
+        var groupAt = new Dictionary<long, int>();
+        var groupRows = new List<List<int>>();
+        for (var row = 0; row < rows; row++)
+        {
+            var x = xs.Number[row];
+            var y = ys.Number[row];
+            if (!double.IsFinite(x) || !double.IsFinite(y))
+            {
+                continue;
+            }
+
+            // Groups by the cell's bits (an empty cell is NaN's, which no table holds as a value).
+            var key = groups is null ? 0 : BitConverter.DoubleToInt64Bits(groups.Number[row]);
+            if (!groupAt.TryGetValue(key, out var g))
+            {
+                groupAt[key] = g = groupRows.Count;
+                groupRows.Add([]);
+            }
+
+            groupRows[g].Add(row);
+        }
+
+        // Series by the grouping value (an empty cell last), ties in first-seen order (a stable sort).
+        double Order(List<int> r) => groups is null || double.IsNaN(groups.Number[r[0]]) ? double.MaxValue : groups.Number[r[0]];
+        var series = new List<(double? Group, bool Lines, int[] Rows, double[] X)>();
+        foreach (var group in groupRows.OrderBy(Order))
+        {
+            var entries = group.Select((row, i) => (X: xs.Number[row], Order: i, Row: row)).ToArray();
+            entries.AsSpan().Sort((p, q) => p.X.CompareTo(q.X) is var c and not 0 ? c : p.Order.CompareTo(q.Order));
+            var x = entries.Select(e => e.X).ToArray();
+            var lines = true;
+            for (var i = 1; i < x.Length && lines; i++)
+            {
+                lines = x[i] != x[i - 1];
+            }
+
+            double? name = groups is null || double.IsNaN(groups.Number[group[0]]) ? null : groups.Number[group[0]];
+            series.Add((name, lines, entries.Select(e => e.Row).ToArray(), x));
+        }
+
+        var plotted = series.Sum(s => s.Rows.Length);
+        var stride = Stride(plotted);
+        var sampled = series.Select(s =>
+        {
+            var at = Sample(s.Rows.Length, stride).ToArray();
+            return new SeriesSample(s.Group, s.Lines, [.. at.Select(i => s.Rows[i])], [.. at.Select(i => s.X[i])]);
+        }).ToList();
+        return new ParameterSample(sampled, plotted, ys);
+    }
+
+    private static ScatterSample Scatter(Cells xs, Cells ys, Flags flags, int rows)
+    {
+        var stable = new List<int>();
+        var unstable = new List<int>();
+        for (var row = 0; row < rows; row++)
+        {
+            if (double.IsFinite(xs.Number[row]) && double.IsFinite(ys.Number[row]))
+            {
+                (flags.IsUnstable(row) ? unstable : stable).Add(row);
+            }
+        }
+
+        var fx = stable.Select(r => xs.Number[r]).ToArray();
+        var fy = stable.Select(r => ys.Number[r]).ToArray();
+        var front = ParetoFront.Of(fx, fy, true, true).Select(i => stable[i]).ToList();
+        var plotted = stable.Count + unstable.Count;
+        var stride = Stride(plotted);
+        return new ScatterSample(xs, ys, [.. Sample(stable.Count, stride).Select(i => stable[i])], [.. Sample(unstable.Count, stride).Select(i => unstable[i])], front, plotted);
+    }
+
+    /// <summary>Rows listed at most in plan order (the first pages of the default table).</summary>
+    public const int PlanRowsKept = 1000;
+
+    /// <summary>
+    /// The first <see cref="PlanRowsKept"/> rows in plan order as the dashboard sorts them: by plan
+    /// index, rows without one last, ties in row order.
+    /// </summary>
+    private static int[] PlanFirst(Cells plan, int rows)
+    {
+        var entries = new (bool Empty, double Key, int Row)[rows];
+        for (var r = 0; r < rows; r++)
+        {
+            var key = plan.Number[r];
+            entries[r] = (double.IsNaN(key), double.IsNaN(key) ? 0 : key, r);
+        }
+
+        Array.Sort(entries);
+        return [.. entries.Take(PlanRowsKept).Select(e => e.Row)];
+    }
+
+    /// <summary>True when every value of <paramref name="q"/> goes with one value of <paramref name="p"/>; null past <see cref="MaxKeys"/> values.</summary>
+    private static bool? Determines(Cells q, Cells p, int rows)
+    {
+        if (q.Text is null && p.Text is null)
+        {
+            // Numbers: the pairs sorted, then every run of one q value must hold one p value (no dictionary of 10^6 keys).
+            // An empty cell is NaN's bits, which no table holds as a value.
+            var pairs = new (long Q, long P)[rows];
+            for (var r = 0; r < rows; r++)
+            {
+                pairs[r] = (BitConverter.DoubleToInt64Bits(q.Number[r]), BitConverter.DoubleToInt64Bits(p.Number[r]));
+            }
+
+            Array.Sort(pairs);
+            for (var r = 1; r < rows; r++)
+            {
+                if (pairs[r].Q == pairs[r - 1].Q && pairs[r].P != pairs[r - 1].P)
+                {
+                    return false;
+                }
+            }
+
+            return true;
+        }
+
+        var seen = new Dictionary<CellKey, CellKey>();
+        for (var r = 0; r < rows; r++)
+        {
+            var key = q.Key(r);
+            var value = p.Key(r);
+            if (seen.TryGetValue(key, out var before))
+            {
+                if (before != value)
+                {
+                    return false;
+                }
+            }
+            else if (seen.Count == MaxKeys)
+            {
+                return null;
+            }
+            else
+            {
+                seen[key] = value;
+            }
+        }
+
+        return true;
+    }
+
+    /// <summary>Distinct cells (an empty cell counts as one), counted up to <see cref="MaxKeys"/>.</summary>
+    private static int DistinctCount(Cells c, int rows)
+    {
+        var seen = new HashSet<CellKey>();
+        for (var r = 0; r < rows && seen.Count <= MaxKeys; r++)
+        {
+            seen.Add(c.Key(r));
+        }
+
+        return seen.Count;
+    }
+
+    /// <summary>A cell compared by value: number bits or text; empty cells share one key.</summary>
+    private readonly record struct CellKey(byte Kind, long Bits, string? Text);
+
+    /// <summary>One column of the whole table: numbers as doubles (NaN where empty: no table holds NaN), or text.</summary>
+    private sealed class Cells(double[] number, string?[]? text)
+    {
+        public double[] Number { get; } = number;
+
+        public string?[]? Text { get; } = text;
+
+        public CellKey Key(int row) => Text is { } t
+            ? (t[row] is { } s ? new CellKey(1, 0, s) : default)
+            : double.IsNaN(Number[row]) ? default : new CellKey(2, BitConverter.DoubleToInt64Bits(Number[row]), null);
+    }
+
+    /// <summary>The marks as the dashboard reads them: unstable by its state or stable = false, floppy by its flag.</summary>
+    private sealed class Flags(bool[] unstable, bool[] floppy)
+    {
+        public bool IsUnstable(int row) => unstable[row];
+
+        public bool IsFloppy(int row) => floppy[row];
+
+        public static async Task<Flags> ReadAsync(Table t, CancellationToken ct)
+        {
+            var unstable = new bool[t.Rows];
+            var floppy = new bool[t.Rows];
+            await t.ForEachAsync("state", (at, data) =>
+            {
+                if (data is string?[] s)
+                {
+                    for (var i = 0; i < s.Length; i++)
+                    {
+                        unstable[at + i] |= s[i] == "unstable";
+                    }
+                }
+            }, ct).ConfigureAwait(false);
+            await t.ForEachAsync("stable", (at, data) =>
+            {
+                if (data is bool?[] b)
+                {
+                    for (var i = 0; i < b.Length; i++)
+                    {
+                        unstable[at + i] |= b[i] == false;
+                    }
+                }
+            }, ct).ConfigureAwait(false);
+            await t.ForEachAsync("floppy", (at, data) =>
+            {
+                if (data is bool?[] b)
+                {
+                    for (var i = 0; i < b.Length; i++)
+                    {
+                        floppy[at + i] = b[i] == true;
+                    }
+                }
+            }, ct).ConfigureAwait(false);
+            return new Flags(unstable, floppy);
+        }
+    }
+
+    private sealed record TableColumn(string Name, Type ClrType, bool Numeric, bool Text);
+
+    /// <summary>Text as Parquet.Net reads it (a string, or characters in memory).</summary>
+    private static bool IsText(DataField field) => field.ClrType == typeof(string) || field.ClrType == typeof(ReadOnlyMemory<char>);
+
+    private sealed record TableFile(FileInfo File, int Rows, DataField[] Fields);
+
+    /// <summary>The merged files read one after the other, with the column facts of their footers added up.</summary>
+    private sealed class Table
+    {
+        private readonly Dictionary<string, (long Count, long Finite, double Min, double Max)> _facts;
+
+        private Table(List<TableFile> files, List<TableColumn> columns, Dictionary<string, (long, long, double, double)> facts)
+        {
+            Files = files;
+            Columns = columns;
+            _facts = facts;
+            Rows = files.Sum(f => f.Rows);
+        }
+
+        public List<TableFile> Files { get; }
+
+        public List<TableColumn> Columns { get; }
+
+        public int Rows { get; }
+
+        public bool Has(string column) => Columns.Any(c => c.Name == column);
+
+        public long Count(string column) => _facts.TryGetValue(column, out var f) ? f.Count : 0;
+
+        /// <summary>More than one finite value, not all equal (as the dashboard judges "varies" from the footers).</summary>
+        public bool Varies(string column) => _facts.TryGetValue(column, out var f) && f.Finite > 1 && f.Min < f.Max;
+
+        /// <summary>Opens the files' footers; null when one lacks its column summary or the files differ in columns.</summary>
+        public static async Task<Table?> OpenAsync(List<FileInfo> files, CancellationToken ct)
+        {
+            var opened = new List<TableFile>();
+            List<TableColumn>? columns = null;
+            var facts = new Dictionary<string, (long Count, long Finite, double Min, double Max)>(StringComparer.Ordinal);
+            foreach (var file in files)
+            {
+                await using var stream = file.OpenRead();
+                await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+                var fields = reader.Schema.GetDataFields();
+                var mine = fields.Select(f => new TableColumn(f.Name, f.ClrType, f.ClrType == typeof(double) || f.ClrType == typeof(int) || f.ClrType == typeof(long) || f.ClrType == typeof(float), IsText(f))).ToList();
+                if (columns is null)
+                {
+                    columns = mine;
+                }
+                else if (!columns.SequenceEqual(mine))
+                {
+                    return null;
+                }
+
+                long rows = 0;
+                for (var g = 0; g < reader.RowGroupCount; g++)
+                {
+                    using var group = reader.OpenRowGroupReader(g);
+                    rows += group.RowCount;
+                }
+
+                if (reader.CustomMetadata?.GetValueOrDefault(ColumnSummary.Key) is not { } text || rows > int.MaxValue)
+                {
+                    return null;
+                }
+
+                using var json = JsonDocument.Parse(text);
+                if (json.RootElement.GetProperty("rows").GetInt64() != rows)
+                {
+                    return null;
+                }
+
+                foreach (var c in json.RootElement.GetProperty("columns").EnumerateObject())
+                {
+                    var count = c.Value.GetProperty("count").GetInt64();
+                    var finite = c.Value.TryGetProperty("finite", out var f) ? f.GetInt64() : 0;
+                    var min = finite > 0 ? c.Value.GetProperty("min").GetDouble() : double.PositiveInfinity;
+                    var max = finite > 0 ? c.Value.GetProperty("max").GetDouble() : double.NegativeInfinity;
+                    var before = facts.GetValueOrDefault(c.Name, (0, 0, double.PositiveInfinity, double.NegativeInfinity));
+                    facts[c.Name] = (before.Count + count, before.Finite + finite, Math.Min(before.Min, min), Math.Max(before.Max, max));
+                }
+
+                opened.Add(new TableFile(file, (int)rows, fields));
+            }
+
+            return columns is null ? null : new Table(opened, columns, facts);
+        }
+
+        /// <summary>Calls <paramref name="each"/> with every row group's cells of <paramref name="column"/> and the row it starts at.</summary>
+        public async Task ForEachAsync(string column, Action<int, Array> each, CancellationToken ct)
+        {
+            var at = 0;
+            foreach (var file in Files)
+            {
+                var field = file.Fields.FirstOrDefault(f => f.Name == column);
+                if (field is null)
+                {
+                    at += file.Rows;
+                    continue;
+                }
+
+                await using var stream = file.File.OpenRead();
+                await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+                for (var g = 0; g < reader.RowGroupCount; g++)
+                {
+                    using var group = reader.OpenRowGroupReader(g);
+                    var n = checked((int)group.RowCount);
+                    Array data;
+                    var type = field.ClrType;
+                    if (IsText(field))
+                    {
+                        var v = new string?[n];
+                        await group.ReadAsync(field, v.AsMemory()).ConfigureAwait(false);
+                        data = v;
+                    }
+                    else if (type == typeof(double))
+                    {
+                        var v = new double?[n];
+                        await group.ReadAsync<double>(field, v.AsMemory()).ConfigureAwait(false);
+                        data = v;
+                    }
+                    else if (type == typeof(float))
+                    {
+                        var v = new float?[n];
+                        await group.ReadAsync<float>(field, v.AsMemory()).ConfigureAwait(false);
+                        data = v;
+                    }
+                    else if (type == typeof(int))
+                    {
+                        var v = new int?[n];
+                        await group.ReadAsync<int>(field, v.AsMemory()).ConfigureAwait(false);
+                        data = v;
+                    }
+                    else if (type == typeof(long))
+                    {
+                        var v = new long?[n];
+                        await group.ReadAsync<long>(field, v.AsMemory()).ConfigureAwait(false);
+                        data = v;
+                    }
+                    else if (type == typeof(bool))
+                    {
+                        var v = new bool?[n];
+                        await group.ReadAsync<bool>(field, v.AsMemory()).ConfigureAwait(false);
+                        data = v;
+                    }
+                    else
+                    {
+                        data = new object?[n];
+                    }
+
+                    each(at, data);
+                    at += n;
+                }
+            }
+        }
+
+        public async Task<Cells> ReadAsync(string column, CancellationToken ct)
+        {
+            var numbers = new double[Rows];
+            Array.Fill(numbers, double.NaN);
+            var isText = Columns.First(c => c.Name == column).Text;
+            var text = isText ? new string?[Rows] : null;
+            await ForEachAsync(column, (at, data) =>
+            {
+                switch (data)
+                {
+                    case string?[] s: Array.Copy(s, 0, text!, at, s.Length); break;
+                    case double?[] d: for (var i = 0; i < d.Length; i++) { numbers[at + i] = d[i] ?? double.NaN; } break;
+                    case double[] d: Array.Copy(d, 0, numbers, at, d.Length); break;
+                    case float?[] f: for (var i = 0; i < f.Length; i++) { numbers[at + i] = f[i] ?? double.NaN; } break;
+                    case int?[] n: for (var i = 0; i < n.Length; i++) { numbers[at + i] = n[i] is { } v ? v : double.NaN; } break;
+                    case int[] n: for (var i = 0; i < n.Length; i++) { numbers[at + i] = n[i]; } break;
+                    case long?[] l: for (var i = 0; i < l.Length; i++) { numbers[at + i] = l[i] is { } v ? v : double.NaN; } break;
+                    case long[] l: for (var i = 0; i < l.Length; i++) { numbers[at + i] = l[i]; } break;
+                }
+            }, ct).ConfigureAwait(false);
+            return new Cells(numbers, text);
+        }
+
+        /// <summary>The text of <paramref name="column"/> at the rows asked for; null when a row has none.</summary>
+        public async Task<Dictionary<int, string>?> TextAtAsync(string column, SortedSet<int> rows, CancellationToken ct)
+        {
+            var found = new Dictionary<int, string>();
+            var missing = false;
+            await ForEachAsync(column, (at, data) =>
+            {
+                if (data is not string?[] s || s.Length == 0)
+                {
+                    return;
+                }
+
+                foreach (var row in rows.GetViewBetween(at, at + s.Length - 1))
+                {
+                    if (s[row - at] is { } id)
+                    {
+                        found[row] = id;
+                    }
+                    else
+                    {
+                        missing = true;
+                    }
+                }
+            }, ct).ConfigureAwait(false);
+            return missing || found.Count != rows.Count ? null : found;
+        }
+    }
+}
