@@ -1,5 +1,6 @@
 using System.Runtime.CompilerServices;
 using System.Runtime.Intrinsics;
+using LatticeSweep.Engine.Numerics.Simd;
 
 namespace LatticeSweep.Engine.Numerics;
 
@@ -188,7 +189,7 @@ internal static unsafe class BlockedTridiagonalization
                 Vector256.Store(Vector256.FusedMultiplyAdd(a1, va, Vector256.Load(y + i + 4)), y + i + 4);
             }
 
-            sum = Vector256.Sum(acc0 + acc1);
+            sum = LaneSums.Pairwise(acc0 + acc1);
         }
 
         for (; i < len; i++)
@@ -285,7 +286,7 @@ internal static unsafe class BlockedTridiagonalization
                 acc1 = Vector256.FusedMultiplyAdd(Vector256.Load(x + i + 4), Vector256.Load(y + i + 4), acc1);
             }
 
-            sum = Vector256.Sum(acc0 + acc1);
+            sum = LaneSums.Pairwise(acc0 + acc1);
         }
 
         for (; i < len; i++)

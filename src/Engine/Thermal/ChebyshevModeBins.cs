@@ -344,8 +344,8 @@ internal sealed class ChebyshevModeBins
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private void FlushRun(int bin, Vector256<double> a0, Vector256<double> a1, Vector256<double> a2, Vector256<double> a3, Vector256<double> a4,
         Vector256<double> a5, Vector256<double> a6, Vector256<double> a7, Vector256<double> a8, Vector256<double> a9) =>
-        FlushRun(bin, Vector256.Sum(a0), Vector256.Sum(a1), Vector256.Sum(a2), Vector256.Sum(a3), Vector256.Sum(a4),
-            Vector256.Sum(a5), Vector256.Sum(a6), Vector256.Sum(a7), Vector256.Sum(a8), Vector256.Sum(a9));
+        FlushRun(bin, LaneSums.Pairwise(a0), LaneSums.Pairwise(a1), LaneSums.Pairwise(a2), LaneSums.Pairwise(a3), LaneSums.Pairwise(a4),
+            LaneSums.Pairwise(a5), LaneSums.Pairwise(a6), LaneSums.Pairwise(a7), LaneSums.Pairwise(a8), LaneSums.Pairwise(a9));
 
     private void FlushRun(int bin, double a0, double a1, double a2, double a3, double a4, double a5, double a6, double a7, double a8, double a9)
     {
