@@ -1,3 +1,4 @@
+using System.Diagnostics;
 using System.Text.Json;
 using LatticeSweep.Dashboard.Datasets;
 using LatticeSweep.Dashboard.Security;
@@ -63,8 +64,11 @@ public sealed class ColumnReadTests
         var path = Directory.GetFiles(points, "*.parquet").Order(StringComparer.Ordinal).First();
         var whole = await ParquetTableReader.ReadAsync([path], CancellationToken.None);
 
+        // "Kept open" is asserted only where less than the keeping time can have passed since the reader's
+        // last use (a stopwatch started before it bounds that); on a crowded machine a step may take longer.
+        var sinceUse = Stopwatch.StartNew();
         var file = await ParquetColumnFile.OpenAsync(path, CancellationToken.None);
-        Assert.True(file.ReaderOpen, "the footer's reader should be kept for the first column reads");
+        KeptOpen(file, sinceUse, "the footer's reader should be kept for the first column reads");
         void ColumnsEqualTheWholeRead()
         {
             foreach (var name in new[] { "max_freq_thz", "point_id", "state" })
@@ -76,8 +80,9 @@ public sealed class ColumnReadTests
             }
         }
 
+        sinceUse.Restart();
         ColumnsEqualTheWholeRead();
-        Assert.True(file.ReaderOpen);
+        KeptOpen(file, sinceUse, "the reader should be kept between column reads");
 
         // Which columns have a value, from the footer's null counts, as the whole read finds them.
         Assert.Equal(
@@ -102,6 +107,15 @@ public sealed class ColumnReadTests
         Assert.InRange(many.Count(f => f.ReaderOpen), 0, ParquetColumnFile.MaxReadersKept);
         file = many[^1];
         ColumnsEqualTheWholeRead();
+    }
+
+    private static void KeptOpen(ParquetColumnFile file, Stopwatch sinceUse, string message)
+    {
+        var open = file.ReaderOpen;
+        if (sinceUse.Elapsed < ParquetColumnFile.ReaderKept)
+        {
+            Assert.True(open, message);
+        }
     }
 
     /// <summary>Waits for the file's idle reader to close: after the keeping time, within a busy machine's timer delays.</summary>
