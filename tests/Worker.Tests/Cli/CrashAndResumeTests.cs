@@ -10,7 +10,7 @@ namespace LatticeSweep.Worker.Tests.Cli;
 public sealed class CrashAndResumeTests : IDisposable
 {
     // Invented demo chain: 32 points of about 0.1 s each, 4 points per chunk.
-    private const string Job = """
+    private const string Job = $$"""
         [sweep]
         name = "crash-resume"
 
@@ -18,27 +18,7 @@ public sealed class CrashAndResumeTests : IDisposable
         path = "model.sites.B.mass_amu"
         range = { from = 10.0, to = 100.0, steps = 32 }
 
-        [model]
-        lattice = "chain"
-        constant_nm = 0.5
-        motion = "3d"
-
-        [[model.sites]]
-        label = "A"
-        position = [0.0]
-        mass_amu = 10.0
-
-        [[model.sites]]
-        label = "B"
-        position = [0.5]
-        mass_amu = 10.0
-
-        [[model.springs]]
-        from = "A"
-        to = "B"
-        shell = 1
-        longitudinal_n_per_m = 30.0
-        transverse_n_per_m = 8.0
+        {{SweepJobs.ChainModel}}
 
         [sample]
         kind = "finite"

@@ -15,7 +15,7 @@ namespace LatticeSweep.Worker.Tests.Cli;
 public sealed class MergeTests : IDisposable
 {
     // Invented demo chain: 24 small points; with 2 points per chunk, 12 parts per table.
-    private const string Job = """
+    private const string Job = $$"""
         [sweep]
         name = "merge-me"
 
@@ -23,27 +23,7 @@ public sealed class MergeTests : IDisposable
         path = "model.sites.B.mass_amu"
         range = { from = 10.0, to = 100.0, steps = 24 }
 
-        [model]
-        lattice = "chain"
-        constant_nm = 0.5
-        motion = "3d"
-
-        [[model.sites]]
-        label = "A"
-        position = [0.0]
-        mass_amu = 10.0
-
-        [[model.sites]]
-        label = "B"
-        position = [0.5]
-        mass_amu = 10.0
-
-        [[model.springs]]
-        from = "A"
-        to = "B"
-        shell = 1
-        longitudinal_n_per_m = 30.0
-        transverse_n_per_m = 8.0
+        {{SweepJobs.ChainModel}}
 
         [sample]
         kind = "finite"

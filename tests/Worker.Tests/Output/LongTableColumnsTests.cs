@@ -14,7 +14,7 @@ public sealed class LongTableColumnsTests : IDisposable
 {
     // Invented demo model: a two-site chain moving in 3D, swept over a mass (double), the sample
     // kind (text) and the cell count (whole number), partial DOS on.
-    private const string Job = """
+    private const string Job = $$"""
         [sweep]
         name = "typed-columns"
 
@@ -30,27 +30,7 @@ public sealed class LongTableColumnsTests : IDisposable
         path = "sample.cells"
         values = [8, 12]
 
-        [model]
-        lattice = "chain"
-        constant_nm = 0.5
-        motion = "3d"
-
-        [[model.sites]]
-        label = "A"
-        position = [0.0]
-        mass_amu = 10.0
-
-        [[model.sites]]
-        label = "B"
-        position = [0.5]
-        mass_amu = 10.0
-
-        [[model.springs]]
-        from = "A"
-        to = "B"
-        shell = 1
-        longitudinal_n_per_m = 30.0
-        transverse_n_per_m = 8.0
+        {{SweepJobs.ChainModel}}
 
         [sample]
         kind = "finite"

@@ -15,22 +15,11 @@ internal static class SweepJobs
     public static readonly string[] Tables = ["dos", "thermal", "mean_square_displacements"];
 
     /// <summary>
-    /// <paramref name="masses"/> values of the heavy atom's mass times <paramref name="springs"/> spring
-    /// constants; <paramref name="cells"/> sets the work per point (it grows about linearly).
+    /// The invented diatomic chain's <c>[model]</c> part (demo values, not a material): two sites of 10 amu
+    /// in a cell of 0.5 nm moving in 3D, one spring pair between them. The heavy atom's mass is
+    /// <c>model.sites.B.mass_amu</c>.
     /// </summary>
-    public static string Chain(string name, int masses, int springs, int cells) => string.Create(CultureInfo.InvariantCulture, $$"""
-        # Invented demo chain for the tests.
-        [sweep]
-        name = "{{name}}"
-
-        [[sweep.axes]]
-        path = "model.sites.B.mass_amu"
-        range = { from = 10.0, to = 100.0, steps = {{masses}} }
-
-        [[sweep.axes]]
-        path = "model.springs[0].longitudinal_n_per_m"
-        range = { from = 20.0, to = 60.0, steps = {{springs}} }
-
+    public const string ChainModel = """
         [model]
         lattice = "chain"
         constant_nm = 0.5
@@ -52,6 +41,26 @@ internal static class SweepJobs
         shell = 1
         longitudinal_n_per_m = 30.0
         transverse_n_per_m = 8.0
+        """;
+
+    /// <summary>
+    /// <paramref name="masses"/> values of the heavy atom's mass times <paramref name="springs"/> spring
+    /// constants; <paramref name="cells"/> sets the work per point (it grows about linearly).
+    /// </summary>
+    public static string Chain(string name, int masses, int springs, int cells) => string.Create(CultureInfo.InvariantCulture, $$"""
+        # Invented demo chain for the tests.
+        [sweep]
+        name = "{{name}}"
+
+        [[sweep.axes]]
+        path = "model.sites.B.mass_amu"
+        range = { from = 10.0, to = 100.0, steps = {{masses}} }
+
+        [[sweep.axes]]
+        path = "model.springs[0].longitudinal_n_per_m"
+        range = { from = 20.0, to = 60.0, steps = {{springs}} }
+
+        {{ChainModel}}
 
         [sample]
         kind = "finite"
