@@ -22,19 +22,17 @@ internal static class LongTableColumns
     /// <summary>dos/: each point's total curve, then each site's partial curve, as <c>ChunkTables.DosRows</c> lists them.</summary>
     public static TableRows? Dos(TableSpec<RowOf<DosValue>> spec, IReadOnlyList<PointOutcome> points)
     {
-        var starts = new int[points.Count + 1];
-        for (var p = 0; p < points.Count; p++)
+        var starts = RowStarts(points, result =>
         {
-            var dos = points[p].Result!.Dos;
-            var bins = dos.FrequencyThz.Length;
+            var bins = result.Dos.FrequencyThz.Length;
             var rows = bins;
-            foreach (var curve in dos.PartialBySite)
+            foreach (var curve in result.Dos.PartialBySite)
             {
                 rows += Math.Min(bins, curve.Length);
             }
 
-            starts[p + 1] = starts[p] + rows;
-        }
+            return rows;
+        });
 
         var total = starts[^1];
         var curveName = new string?[total];
@@ -86,11 +84,7 @@ internal static class LongTableColumns
     /// <summary>modes/: each point's distinct mode levels in the Engine's order.</summary>
     public static TableRows? Modes(TableSpec<RowOf<Engine.Results.ModeLevel>> spec, IReadOnlyList<PointOutcome> points)
     {
-        var starts = new int[points.Count + 1];
-        for (var p = 0; p < points.Count; p++)
-        {
-            starts[p + 1] = starts[p] + points[p].Result!.Modes.Length;
-        }
+        var starts = RowStarts(points, result => result.Modes.Length);
 
         var total = starts[^1];
         var frequency = new double?[total];
@@ -120,11 +114,7 @@ internal static class LongTableColumns
     /// <summary>mean_square_displacements/: each point's rows in the Engine's order.</summary>
     public static TableRows? Displacements(TableSpec<RowOf<Engine.Results.DisplacementRow>> spec, IReadOnlyList<PointOutcome> points)
     {
-        var starts = new int[points.Count + 1];
-        for (var p = 0; p < points.Count; p++)
-        {
-            starts[p + 1] = starts[p] + points[p].Result!.Displacements.Length;
-        }
+        var starts = RowStarts(points, result => result.Displacements.Length);
 
         var total = starts[^1];
         var temperature = new double?[total];
@@ -163,17 +153,16 @@ internal static class LongTableColumns
     /// <summary>sound_speeds/: each point's directions, and each direction's branches slowest first.</summary>
     public static TableRows? SoundSpeeds(TableSpec<RowOf<SoundSpeedValue>> spec, IReadOnlyList<PointOutcome> points)
     {
-        var starts = new int[points.Count + 1];
-        for (var p = 0; p < points.Count; p++)
+        var starts = RowStarts(points, result =>
         {
             var rows = 0;
-            foreach (var s in points[p].Result!.Summary.SoundSpeeds)
+            foreach (var s in result.Summary.SoundSpeeds)
             {
                 rows += s.SpeedsMPerS.Length;
             }
 
-            starts[p + 1] = starts[p] + rows;
-        }
+            return rows;
+        });
 
         var total = starts[^1];
         var direction = new string?[total];
@@ -201,6 +190,18 @@ internal static class LongTableColumns
             "speed_m_per_s" => speed,
             _ => null,
         });
+    }
+
+    /// <summary>Where each point's rows start (and, last, the total): point p has rows starts[p] to starts[p + 1].</summary>
+    private static int[] RowStarts(IReadOnlyList<PointOutcome> points, Func<Engine.Results.PointResult, int> rowsOf)
+    {
+        var starts = new int[points.Count + 1];
+        for (var p = 0; p < points.Count; p++)
+        {
+            starts[p + 1] = starts[p] + rowsOf(points[p].Result!);
+        }
+
+        return starts;
     }
 
     /// <summary>
