@@ -257,6 +257,7 @@ internal sealed class LongWaveRegion
     /// G = A omega^(d-1) + B omega^(d+1); above, each ray-branch's rho(omega) by Newton, warm-started
     /// from the node before.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     public void AddBelowSplit(ModeSink sink, ReadOnlySpan<double> temperaturesK)
     {
         var omegaC = OmegaSplit;
@@ -398,6 +399,7 @@ internal sealed class LongWaveRegion
     }
 
     /// <summary>rho with omega_k(rho) = omega by Newton from a close guess; falls back to the bracketed solve.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static double Root(RayDispersion ray, int k, double omega, double guess, double rhoMax)
     {
         var rho = guess;
@@ -524,6 +526,7 @@ internal sealed class LongWaveRegion
     /// (a linear omega_end across a rectangular patch). Deposited bin by bin from the exact cumulative
     /// count, (x + h) - E[(x - X)_+] with x = E - end (normalised to h).
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void DepositSpreadEnd(FrequencyGrid grid, double[] total, double[] partial, double[]? fractions, double states, double endOmega, double a, double b)
     {
         const double thzPerRadPerS = 1.0 / (2 * Math.PI * 1e12);
@@ -570,6 +573,7 @@ internal sealed class LongWaveRegion
     /// States w (rho_b^d - rho_a^d) of a panel on which omega is linear in rho, bin by bin from the exact
     /// cumulative count w |rho(E)^d - rho_low^d|, rho_low the end with the lower frequency.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void DepositPanel(FrequencyGrid grid, double[] total, double[] partial, double[]? fractions, double w, int d, double rhoA, double omegaA, double rhoB, double omegaB, BinMoments? moments)
     {
         var states = w * (Power(rhoB, d) - Power(rhoA, d));

@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+
 namespace LatticeSweep.Engine.Dos;
 
 /// <summary>
@@ -85,6 +87,7 @@ internal static class SimplexDosIntegrator
     /// constants (no division per edge), the bins filled by <see cref="TetrahedronBins"/> into padded
     /// accumulators that are added to the caller's at the end. Same numbers as <see cref="AddSimplex"/>.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void AccumulateTetrahedra(
         (int M1, int M2, int M3) mesh, int branches, double[] frequencyThz, double[]? weights, int channels,
         FrequencyGrid grid, double[] total, double[] partial, LongWaveBox? longWaves, bool vectors, MeshAxisPermutations axisPermutations)
@@ -305,6 +308,7 @@ internal static class SimplexDosIntegrator
     /// (the corner's image in each class, times the class's cube count): [corner * perPoint + i], where
     /// a point's perPoint = branches x channels weights are contiguous.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void SumOverOrbit(int perPoint, double[] weights, int[] imageCorners, double[] classWeight, int classes, double[] sums)
     {
         for (var c = 0; c < 8; c++)
@@ -330,6 +334,7 @@ internal static class SimplexDosIntegrator
     /// (their corner frequencies agree), so the full sum's amount x weight per cube is the amount x
     /// this mean, whatever the weights at the images are.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void OrbitMeanWeight(int t, int b, int branches, int channels, double[] orbitCornerWeights, int orbitCubes, double[] meanWeight)
     {
         var perPoint = branches * channels;

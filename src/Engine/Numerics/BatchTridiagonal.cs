@@ -90,6 +90,7 @@ internal static class BatchTridiagonal
     /// gets the diagonal unitary D with D^H T D real: phase_(k+1) = phase_k alpha_k / |alpha_k|, alpha_k
     /// the complex coupling the reflection leaves.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void Reduce<TLanes>(Span<TLanes> re, Span<TLanes> im, int n, Span<TLanes> d, Span<TLanes> e, Span<TLanes> scratch, Span<TLanes> tau, Span<TLanes> phase)
         where TLanes : unmanaged, ILanes<TLanes>
     {
@@ -250,6 +251,7 @@ internal static class BatchTridiagonal
     /// v = Q D z, the phases first, then the reflections from the last to the first (x -= t (u^H x) u),
     /// into column j of vre/vim.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void BackTransform<TLanes>(Span<TLanes> re, Span<TLanes> im, int n, Span<TLanes> tau, Span<TLanes> phase, Span<TLanes> z, Span<TLanes> vre, Span<TLanes> vim)
         where TLanes : unmanaged, ILanes<TLanes>
     {
@@ -300,6 +302,7 @@ internal static class BatchTridiagonal
     /// unreduced block l..m (m: its first negligible coupling at or after l); steps outside a lane's
     /// block are masked, and a lane restarts the recurrence where its block begins.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void Diagonalize<TLanes>(Span<TLanes> dA, Span<TLanes> eA, Span<TLanes> zA, Span<TLanes> dB, Span<TLanes> eB, Span<TLanes> zB, int n)
         where TLanes : unmanaged, ILanes<TLanes>
     {

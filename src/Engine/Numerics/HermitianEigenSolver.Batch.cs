@@ -385,6 +385,7 @@ public static partial class HermitianEigenSolver
     }
 
     /// <summary>Undoes the per-lane scaling, sorts each lane's eigenvalues ascending and moves its vectors along.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private static void Unload<TLanes>(
         Span<TLanes> diagonal, Span<TLanes> vre, Span<TLanes> vim, int n, int used,
         ReadOnlySpan<int> exponents, Span<double> values, Span<Complex> vectors)

@@ -1,4 +1,5 @@
 using System.Numerics;
+using System.Runtime.CompilerServices;
 
 namespace LatticeSweep.Engine.Numerics;
 
@@ -22,6 +23,7 @@ internal static class HouseholderTridiagonalization
     /// phase the diagonal of D, and row k of h from column k + 1 on, with tau[k], holds the reflector H_k
     /// (tau[k] = 0: H_k = I). <paramref name="scratch"/> needs n elements.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     internal static void ReduceHermitian(
         Span<Complex> h, int n, Span<double> d, Span<double> e, Span<double> tau, Span<Complex> phase, Span<Complex> scratch)
     {

@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+
 namespace LatticeSweep.Engine.Numerics;
 
 /// <summary>
@@ -20,6 +22,7 @@ internal static class TridiagonalQlIteration
     /// of d[j] in the basis z had on entry (the caller starts from the identity). Eigenvalues come back
     /// unsorted; see <see cref="SortAscending"/>.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     internal static void Diagonalize(Span<double> d, Span<double> e, Span<double> z, int n)
     {
         bool wantVectors = !z.IsEmpty;

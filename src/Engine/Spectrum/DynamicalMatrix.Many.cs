@@ -1,4 +1,5 @@
 using System.Numerics;
+using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics.Simd;
@@ -15,6 +16,7 @@ internal sealed partial class DynamicalMatrix
     /// same sums in the same order, with the phases of one spring at all wave vectors computed by a
     /// vector SinCos (within an ulp of Math.SinCos) instead of one call per wave vector and spring.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     public void BuildMany(ReadOnlySpan<Vec3> qPerM, Span<Complex> d)
     {
         var count = qPerM.Length;

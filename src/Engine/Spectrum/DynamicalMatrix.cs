@@ -81,6 +81,7 @@ internal sealed partial class DynamicalMatrix
     /// but where they cancel (D ~ 0 near q = 0, many shells) round-off leaves an asymmetric residue
     /// as large as the result itself, which an eigen-solver rightly refuses.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     internal static void MakeHermitian(Span<Complex> d, int n)
     {
         for (var i = 0; i < n; i++)
@@ -176,6 +177,7 @@ internal sealed partial class DynamicalMatrix
     /// block is 2c contiguous doubles (re, im), so the terms go on four or two at a time; every element
     /// gets the same products in the same order as the scalar loop (<see cref="AddPairScalar"/>).
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private void AddPair(Span<double> d, ScaledPair p, double sin, double cos)
     {
         if (!VectorRows)

@@ -1,4 +1,5 @@
 using System.Numerics;
+using System.Runtime.CompilerServices;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics;
 using LatticeSweep.Engine.QPoints;
@@ -146,6 +147,7 @@ internal sealed class ModeSolver
     public ReadOnlySpan<double> BatchValues(int first, int count) => _batchValues.AsSpan(first * Size, count * Size);
 
     /// <summary>|e_c|^2 of mode k of the point at <paramref name="slot"/>, for every channel c; sums to 1.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     public void BatchChannelFractions(int slot, int mode, Span<double> fractions)
     {
         var n = Size;

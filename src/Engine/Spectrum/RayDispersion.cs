@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.QPoints;
 
@@ -289,6 +290,7 @@ internal sealed class RayDispersion
     }
 
     /// <summary>Channel fractions of branch k at rho, linear in y between the nodes.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     public void Fractions(int k, double rho, Span<double> into)
     {
         var f = _fractions ?? throw new InvalidOperationException("fractions were not measured on this ray");
