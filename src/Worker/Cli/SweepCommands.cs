@@ -13,8 +13,7 @@ internal static class SweepCommands
     {
         var workers = line.IntOption("workers", WorkerPool.DefaultWorkers, 1, 1024);
         var outRoot = OutRoot(line, context);
-        var plans = new JobFilePlanSource();
-        SweepPlan? plan;
+        SweepPlan plan;
         using (StageTimings.Measure("run: plan job file"))
         {
             plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
@@ -23,21 +22,7 @@ internal static class SweepCommands
         var opening = StageTimings.Measure("run: open store");
         using var session = Session.Open(line, context);
         opening.Dispose();
-        var sweepId = SubmitForRun(session, context, plan, outRoot, plans);
-
-        // Not held while the sweep runs (unoptimised code keeps a local alive to the end of its method).
-        plan = null;
-        return WorkSweep(session, context, plans, sweepId, workers);
-    }
-
-    /// <summary>
-    /// Submits <c>run</c>'s plan. The workers then take the plan as <c>work</c> does: with the sweep's
-    /// definition hash stored, from the catalog's job text with each claimed point's id computed at
-    /// its index (~2 us), so the run holds no key per point while it solves (8 bytes each: 8 MB at
-    /// 10^6 points). Only a plan without that hash (duplicates collapsed) is kept as planned here.
-    /// </summary>
-    private static string SubmitForRun(Session session, CliContext context, SweepPlan plan, string outRoot, JobFilePlanSource plans)
-    {
+        var plans = new JobFilePlanSource();
         SubmitResult submitted;
         using (StageTimings.Measure("run: submit"))
         {
@@ -45,12 +30,8 @@ internal static class SweepCommands
         }
 
         ReportLostResults(submitted, context);
-        if (submitted.Sweep.DefinitionHash is null)
-        {
-            plans.Add(submitted.Sweep.SweepId, plan);
-        }
-
-        return submitted.Sweep.SweepId;
+        plans.Add(submitted.Sweep.SweepId, plan);
+        return WorkSweep(session, context, plans, submitted.Sweep.SweepId, workers);
     }
 
     public static int Submit(CommandLine line, CliContext context)
