@@ -7,7 +7,7 @@
 # `merge` times `latsweep merge` of the submitted sweep's points/ table given as MERGE_PARTS part
 # files of MERGE_ROWS rows in all (row groups of 4,096 rows, as chunks of the planner's cap write them).
 # Usage: bench/million.sh [check submit status dashboard run merge]   (default: all but merge; run takes minutes)
-# Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2),
+# Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"; "1000000" takes ~10 min), WORKERS (default 2),
 # POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: use the points/ there, e.g. merged by `merge`),
 # DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time; default: published with ReadyToRun code
 # into RESULTS/latsweep-r2r as README's install line makes it, or with MILLION_LATSWEEP=build the plain `dotnet build` output), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
