@@ -59,6 +59,7 @@ public sealed class ResultTable
 
     private ResultTable(ResultTable source, int[] rows)
     {
+        Whole = source.Whole ?? source;
         Columns = source.Columns;
         _cells = source._cells;
         _peek = source._peek;
@@ -67,6 +68,12 @@ public sealed class ResultTable
     }
 
     public static ResultTable Empty { get; } = new([], []);
+
+    /// <summary>The whole table a view (a filter's rows, an ordering) was taken from; null for a whole table.</summary>
+    internal ResultTable? Whole { get; }
+
+    /// <summary>The rows in view as rows of <see cref="Whole"/>; null for a whole table.</summary>
+    internal int[]? TableRows() => _rows;
 
     /// <summary>Facts of the whole table from its files' footers (<see cref="TableSummary"/>); null for a filtered view or files without one.</summary>
     internal TableSummary? Summary { get; }
