@@ -586,11 +586,17 @@ internal sealed class ParquetColumnFile
     }
 
     /// <summary>Repeated words (state, lattice, a candidate's name) share one string instead of one per row.</summary>
+    /// <remarks>A column whose first rows are all different (point ids) is left as it is: a lookup per row would find nothing.</remarks>
     private static void Intern(string?[] text)
     {
         var seen = new Dictionary<string, string>(StringComparer.Ordinal);
         for (var i = 0; i < text.Length; i++)
         {
+            if (i == 4096 && seen.Count == 4096)
+            {
+                return;
+            }
+
             if (text[i] is { Length: <= 32 } s)
             {
                 if (seen.TryGetValue(s, out var kept))
