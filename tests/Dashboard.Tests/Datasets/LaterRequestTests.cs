@@ -59,6 +59,9 @@ public sealed class LaterRequestTests
             var fast = filter.Apply(merged);
             var scanned = filter.Apply(boxed);
             Assert.Equal(Ids(scanned), Ids(fast));
+            // The plots of the filter's rows (their marks from the whole table's footers where those count none).
+            Assert.Equal(Json(SweepPlots.Scatter(boxed, scanned, sweep, new ScatterPlotRequest())), Json(SweepPlots.Scatter(merged, fast, sweep, new ScatterPlotRequest())));
+            Assert.Equal(Json(SweepPlots.Parameter(boxed, scanned, sweep, new ParameterPlotRequest())), Json(SweepPlots.Parameter(merged, fast, sweep, new ParameterPlotRequest())));
             // The plain path on a view of its own rows (no whole table to take the plan order from).
             var alone = new ResultTable(scanned.Columns, [.. scanned.Rows]);
             foreach (var sort in sorts)
@@ -134,6 +137,8 @@ public sealed class LaterRequestTests
             Assert.Equal(rows.OrderByDescending(r => values[r]).ToArray(), SummaryTable.ByNumber(rows, cells, descending: true));
         }
     }
+
+    private static string Json(object? value) => System.Text.Json.JsonSerializer.Serialize(value);
 
     private static string[] Ids(ResultTable t) => [.. Enumerable.Range(0, t.Count).Select(r => t.Cells("point_id").Text(r) ?? "")];
 
