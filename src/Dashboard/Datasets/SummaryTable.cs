@@ -44,8 +44,6 @@ public sealed record SummaryTable(
 
     public const string DefaultSort = "point_index";
 
-    private const string CandidatePrefix = FirstLoadFacts.CandidatePrefix;
-
     /// <summary>
     /// Builds the page from <paramref name="filtered"/> (the rows to list). Which columns are worth
     /// offering is judged on <paramref name="all"/> (the whole table), so the choices do not change
@@ -123,7 +121,7 @@ public sealed record SummaryTable(
     {
         ArgumentNullException.ThrowIfNull(t);
         ArgumentNullException.ThrowIfNull(names);
-        var ordered = names.Parameters.Where(t.Has).OrderBy(p => names.Label(p).StartsWith(CandidatePrefix, StringComparison.Ordinal) ? 0 : 1).ToList();
+        var ordered = PlotDefaults.KeyOrder(names.Parameters.Where(t.Has), names.Label);
         return TableFacts.Of(t, "key parameters\n" + string.Join('\n', ordered), t =>
         {
             if (t.FirstLoad is { } merged && merged.Parameters.SequenceEqual(ordered))
@@ -133,16 +131,8 @@ public sealed record SummaryTable(
             }
 
             using var timing = StageTimings.Measure("table: key parameters");
-            var kept = new List<string>();
-            foreach (var p in ordered)
-            {
-                if (!kept.Any(q => Determines(t, t.IndexOf(q), t.IndexOf(p))))
-                {
-                    kept.Add(p);
-                }
-            }
-
-            return (IReadOnlyList<string>)kept;
+            // The rule the merge uses too (PlotDefaults); every pair is answered here, so the list is never null.
+            return (IReadOnlyList<string>)PlotDefaults.KeyParameters(ordered, (q, p) => Determines(t, t.IndexOf(q), t.IndexOf(p)))!;
         });
     }
 
@@ -160,32 +150,9 @@ public sealed record SummaryTable(
             ? s.Distinct.Contains(true)
             : new ColumnFlags(all) is var flags && Enumerable.Range(0, all.Count).Any(flags.IsFloppy);
 
-    /// <summary>True when every value of column <paramref name="q"/> goes with one value of column <paramref name="p"/>.</summary>
-    private static bool Determines(ResultTable t, int q, int p)
-    {
-        // Cells compared by their value (as Show.Raw writes them: same value, same text), without formatting them.
-        var seen = new Dictionary<CellKey, CellKey>();
-        var keys = t.Cells(q);
-        var values = t.Cells(p);
-        for (var r = 0; r < t.Count; r++)
-        {
-            var key = keys.Key(r);
-            var value = values.Key(r);
-            if (seen.TryGetValue(key, out var before))
-            {
-                if (before != value)
-                {
-                    return false;
-                }
-            }
-            else
-            {
-                seen[key] = value;
-            }
-        }
-
-        return true;
-    }
+    /// <summary>True when every value of column <paramref name="q"/> goes with one value of column <paramref name="p"/> (cells compared by value, as Show.Raw writes them).</summary>
+    private static bool Determines(ResultTable t, int q, int p) =>
+        PlotDefaults.Determines(RuleCells.Of(t, q), RuleCells.Of(t, p), t.Count, int.MaxValue) == true;
 
     private static SummaryColumn View(ResultColumn c, ColumnCatalog names) =>
         new(c.Name, names.HeaderLabel(c.Name), names.Label(c.Name), names.Unit(c), c.IsNumeric, names.IsParameter(c.Name));
