@@ -160,6 +160,11 @@ public sealed record SummaryTable(
     /// <summary>Positions in plan order (by point_index, empty last; ties in table order), then sorted by one column: empty cells last whichever the direction; ties keep plan order.</summary>
     private static int[] SortedPositions(ResultTable t, int column, bool descending)
     {
+        if (column >= 0 && t.Columns[column].IsNumeric && ByDistinctNumbers(t, column, descending) is { } distinct)
+        {
+            return distinct;
+        }
+
         var positions = PlanPositions(t);
         if (column < 0)
         {
@@ -181,6 +186,25 @@ public sealed record SummaryTable(
         }
 
         return [.. sorted.Concat(positions.Where(r => !cells.HasValue(r)))];
+    }
+
+    /// <summary>
+    /// The rows sorted by a number column when every row has a number and no two are equal: no tie for
+    /// the plan order to break and no empty cell to place, so the plan column is neither read nor sorted
+    /// (the same order as the plan-order path gives). Null otherwise.
+    /// </summary>
+    private static int[]? ByDistinctNumbers(ResultTable t, int column, bool descending)
+    {
+        var cells = t.Cells(column);
+        for (var r = 0; r < t.Count; r++)
+        {
+            if (!cells.HasValue(r))
+            {
+                return null;
+            }
+        }
+
+        return ByNumber([.. Enumerable.Range(0, t.Count)], cells, descending, out var ties) is { } sorted && !ties ? sorted : null;
     }
 
     /// <summary>
@@ -247,8 +271,13 @@ public sealed record SummaryTable(
     /// each number's bits made to order as the numbers do (-0 as 0), the key inverted for descending, then
     /// every run of equal keys put back in its first order. Null when a cell is NaN (left to OrderBy).
     /// </summary>
-    internal static int[]? ByNumber(int[] present, ColumnView cells, bool descending)
+    internal static int[]? ByNumber(int[] present, ColumnView cells, bool descending) => ByNumber(present, cells, descending, out _);
+
+    /// <inheritdoc cref="ByNumber(int[], ColumnView, bool)"/>
+    /// <param name="ties">whether two of the numbers are equal (their order then came from <paramref name="present"/>)</param>
+    internal static int[]? ByNumber(int[] present, ColumnView cells, bool descending, out bool ties)
     {
+        ties = false;
         var keys = new long[present.Length];
         var order = new int[present.Length];
         for (var i = 0; i < present.Length; i++)
@@ -276,6 +305,7 @@ public sealed record SummaryTable(
 
             if (end - start > 1)
             {
+                ties = true;
                 Array.Sort(order, start, end - start);
             }
 
