@@ -7,12 +7,14 @@
 # `merge` times `latsweep merge` of the submitted sweep's points/ table given as MERGE_PARTS part
 # files of MERGE_ROWS rows in all (row groups of 4,096 rows, as chunks of the planner's cap write them).
 # Usage: bench/million.sh [check submit status dashboard run merge]   (default: all but merge; run takes minutes)
-# Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"), WORKERS (default 2),
+# Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"; "1000000" takes ~10 min), WORKERS (default 2),
 # POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: use the points/ there, e.g. merged by `merge`),
 # DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time; default: published with ReadyToRun code
 # into RESULTS/latsweep-r2r as README's install line makes it, or with MILLION_LATSWEEP=build the plain `dotnet build` output), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
 # KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run). The dashboard step also asks for the
-# page of a waiting point (index 600,000, read from the store's chunk rows with python3's sqlite3) when it can find one.
+# page of a waiting point (index 600,000, read from the store's chunk rows with python3's sqlite3) when it can find one,
+# then a filter that keeps about half the rows of the merged bench data (sorted, and its page at row 300,000 with its
+# plots) and a far page of another sort: requests no footer fact answers, which read and sort their columns.
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$(dirname "$here")"
@@ -92,7 +94,9 @@ c = sqlite3.connect(sys.argv[1]).execute("SELECT points_json FROM latsweep_chunk
 print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 600000), "") if c else "")' "$store" 2>/dev/null || true)"
       for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
           "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000" \
-          ${waiting:+"sweeps/$id/points/$waiting"}; do
+          ${waiting:+"sweeps/$id/points/$waiting"} \
+          "api/sweeps/$id/results?range=debye_temperature_from_cv_k:0:749.7&sort=cv_j_per_kg_k&dir=desc" \
+          "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=300000" "api/sweeps/$id/results?sort=cv_j_per_mol_k&offset=700000"; do
         # Beside each request's wall time, the dashboard process's CPU so far (user + system; steadier than wall on a shared machine).
         took="$(curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
         echo "$took, process CPU $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
@@ -100,32 +104,57 @@ print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 60
       echo "dashboard peak RSS $(awk '/VmHWM/ { print int($2 / 1024) " MB" }' /proc/$pid/status)" | tee -a "$results/summary.txt"
       kill "$pid"; wait "$pid" 2>/dev/null || true ;;
     run)
+      # `latsweep run` of RUN_POINTS trivial points (the first axis cut to n/1000 values). A sampler
+      # writes one line a second to run-N.samples (seconds since start, RSS and its high-water mark in
+      # MB, part files written, the store's size in MB, the load average), so memory over time shows
+      # whether it grows with the points; the summary line gives the peak before the end-of-sweep merge
+      # (the high-water mark when the merge's staging folder first appears), the whole run's peak, the
+      # RSS in the last quarter of the solving time, the store's and the results' size on disk, and
+      # each table's files at the end, the points/ table read back by DuckDB (bench/count-rows: rows,
+      # distinct ids, points per state) and `status` of the sweep.
       for n in ${RUN_POINTS:-10000 100000}; do
         small=$(( n / 1000 ))
         awk -v s=$small '/steps = 1000/ && !done { sub(/steps = 1000/, "steps = " s); done = 1 } { print }' "$job" \
           | sed "s/name = \"bench-million-points\"/name = \"bench-run-$n\"/" > "$results/run-$n.toml"
-        # Peak memory while solving (the high-water mark when the merge's staging folder first appears)
-        # beside the whole run's peak, which includes the merge of the part files at the end.
         load="$(cut -d' ' -f1 /proc/loadavg)"
+        rm -rf "$results/run-$n" "$results/run-$n.db"* 
         ( cd "$results" && LATSWEEP_TIMINGS=1 exec /usr/bin/time -v "$latsweep" run "$results/run-$n.toml" --store "$results/run-$n.db" \
             --out "$results/run-$n" --workers "$workers" > "$results/run-$n.out" 2> "$results/run-$n.time" ) &
         timer=$!
-        solving_kb=0; child=""
+        solving_kb=0; child=""; start=$(date +%s.%N); samples="$results/run-$n.samples"
+        echo "# s rss_mb hwm_mb parts store_mb merging load" > "$samples"
         while kill -0 "$timer" 2>/dev/null; do
           [ -z "$child" ] && child="$(cat /proc/$timer/task/$timer/children 2>/dev/null | awk '{print $1}')"
-          if [ -n "$child" ] && ! ls -d "$results/run-$n"/*/.merging >/dev/null 2>&1; then
-            hwm="$(awk '/VmHWM/ {print $2}' /proc/$child/status 2>/dev/null || echo 0)"
-            [ "${hwm:-0}" -gt "$solving_kb" ] && solving_kb="$hwm"
+          if [ -n "$child" ] && [ -r "/proc/$child/status" ]; then
+            merging=0; ls -d "$results/run-$n"/*/.merging >/dev/null 2>&1 && merging=1
+            read -r rss hwm < <(awk '/VmRSS/ {r = $2} /VmHWM/ {h = $2} END {print r + 0, h + 0}' /proc/$child/status 2>/dev/null || echo "0 0")
+            [ "$merging" = 0 ] && [ "${hwm:-0}" -gt "$solving_kb" ] && solving_kb="$hwm"
+            parts="$(ls "$results/run-$n"/*/points 2>/dev/null | grep -c '^part' || true)"
+            store_mb="$(du -cm "$results/run-$n.db"* 2>/dev/null | awk 'END {print $1}' || true)"
+            awk -v t="$(date +%s.%N)" -v s0="$start" -v r="$rss" -v h="$hwm" -v p="$parts" -v st="$store_mb" -v m="$merging" -v l="$(cut -d' ' -f1 /proc/loadavg)" \
+              'BEGIN { printf "%.0f %.0f %.0f %s %s %s %s\n", t - s0, r / 1024, h / 1024, p, st, m, l }' >> "$samples"
           fi
-          sleep 0.25
+          sleep 1
         done
         wait "$timer" || echo "run-$n: exit code $?"
-        awk -v l="run-$n" -v load="$load" -v solving="$solving_kb" '
+        # RSS over the last quarter of the solving samples (before the merge): the level the run settles at.
+        late="$(awk '!/^#/ && $6 == 0 { r[++k] = $2 } END { if (k == 0) { print "-"; exit } lo = 1e9; hi = 0; for (i = int(k * 3 / 4) + 1; i <= k; i++) { if (r[i] < lo) lo = r[i]; if (r[i] > hi) hi = r[i] } print lo "-" hi }' "$samples")"
+        awk -v l="run-$n" -v load="$load" -v solving="$solving_kb" -v late="$late" '
           /Elapsed \(wall clock\)/ { k = split($NF, t, ":"); w = (k == 3) ? t[1] * 3600 + t[2] * 60 + t[3] : t[1] * 60 + t[2] }
           /User time/ { u = $NF } /System time/ { s = $NF } /Maximum resident/ { m = $NF / 1024 }
-          END { printf "%-28s %8.2f s wall %7.2f s user %6.2f s sys %7.0f MB peak, %.0f MB peak before the merge  (load %s)\n", l, w, u, s, m, solving / 1024, load }' \
+          END { printf "%-28s %8.2f s wall %7.2f s user %6.2f s sys %7.0f MB peak, %.0f MB peak before the merge, late RSS while solving %s MB  (load %s)\n", l, w, u, s, m, solving / 1024, late, load }' \
           "$results/run-$n.time" | tee -a "$results/summary.txt"
-        grep -E "^timings:" "$results/run-$n.time" | sed 's/^/    /' || true
+        grep -E "^timings: (process|solve|catalog|write|merge|run)" "$results/run-$n.time" | sed 's/^/    /' || true
+        du -cm "$results/run-$n.db"* | awk -v l="run-$n" 'END { printf "    %s store on disk: %d MB\n", l, $1 }' | tee -a "$results/summary.txt"
+        for table in "$results/run-$n"/*/*/; do
+          [ -d "$table" ] || continue
+          ls -l "$table" | awk -v t="$(basename "$table")" 'NR > 1 && $NF ~ /parquet$/ { n++; b += $5; if ($NF ~ /^merged/) m++ } END { printf "    %s: %d files (%d merged), %.1f MB\n", t, n, m, b / 1e6 }' | tee -a "$results/summary.txt"
+        done
+        for sweep in "$results/run-$n"/*/; do
+          ( cd "$here/count-rows" && dotnet run count-rows.cs "$sweep" 2>&1 || true ) | sed 's/^/    /' | tee -a "$results/summary.txt"
+        done
+        tail -2 "$results/run-$n.out" | sed 's/^/    /' | tee -a "$results/summary.txt"
+        ( cd "$results" && "$latsweep" status "bench-run-$n" --store "$results/run-$n.db" || true ) | awk 'NR <= 3' | sed 's/^/    status: /' | tee -a "$results/summary.txt"
       done ;;
     merge)
       # The submitted sweep's points/ as parts laid out as the Worker writes them, then merged by `latsweep merge`.

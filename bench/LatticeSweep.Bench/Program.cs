@@ -157,6 +157,12 @@ switch (caseName)
             int.Parse(Option("--points", "2000"), System.Globalization.CultureInfo.InvariantCulture), repeats, outDir);
         break;
 
+    case "queue-merge":
+        report["result"] = MergeCase.Run(Option("--job", "bench/queue/40ms-points.toml"),
+            int.Parse(Option("--points", "300"), System.Globalization.CultureInfo.InvariantCulture),
+            int.Parse(Option("--chunks", "7"), System.Globalization.CultureInfo.InvariantCulture), repeats, outDir);
+        break;
+
     case "queue-engine-cold":
         report["result"] = QueueCase.EngineCold(Option("--job", "bench/queue/20ms-points.toml"));
         break;

@@ -165,7 +165,7 @@ internal static class QueueCase
 
         var cpu = (Process.GetCurrentProcess().TotalProcessorTime - cpu0).TotalSeconds;
         Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture,
-            $"  engine cold {Path.GetFileName(jobFile)}: {points.Length} points, {sw.Elapsed.TotalSeconds:F2} s wall {cpu:F2} s CPU; per block of {block}: {string.Join(" ", blocks.Select(b => b.ToString("F3", CultureInfo.InvariantCulture)))}"));
+            $"  engine cold {Path.GetFileName(jobFile)}: {points.Length} points, {sw.Elapsed.TotalSeconds:F2} s wall {cpu:F2} s CPU (this thread {LatticeSweep.Worker.Queue.StageTimings.ThreadCpuNs() * 1e-9:F2} s; GCs {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)}, paused {GC.GetTotalPauseDuration().TotalSeconds:F3} s); per block of {block}: {string.Join(" ", blocks.Select(b => b.ToString("F3", CultureInfo.InvariantCulture)))}"));
         return new Dictionary<string, object> { ["cpu_s"] = cpu, ["wall_s"] = sw.Elapsed.TotalSeconds, ["blocks_cpu_s"] = blocks };
     }
 

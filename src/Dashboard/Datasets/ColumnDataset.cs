@@ -76,10 +76,40 @@ internal static class ColumnDataset
             return cells;
         }
 
+        // A key's rows from the files' row-group indexes (null: a file has none, so every key is read).
+        var keyAt = columns.FindIndex(c => c.Name == keyColumn);
+        int[]? Find(int column, string value)
+        {
+            if (column != keyAt)
+            {
+                return null;
+            }
+
+            var found = new List<int>();
+            for (var i = 0; i < files.Count; i++)
+            {
+                if (at[i][column] < 0)
+                {
+                    continue;
+                }
+
+                if (files[i].RowsWithId(at[i][column], value) is not { } rows)
+                {
+                    return null;
+                }
+
+                found.AddRange(rows.Select(r => r + starts[i]));
+            }
+
+            return [.. found];
+        }
+
         var summary = TableSummary.Concat([.. files.Select(f => f.Summary)], columns);
-        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary, Peek);
-        var key = table.IndexOf(keyColumn);
-        if (files.Count < 2 || key < 0 || ChunksApart(files))
+        var key = columns.FindIndex(c => c.Name == keyColumn);
+        var apart = files.Count < 2 || key < 0 || ChunksApart(files);
+        // Rows found by key only where no key is dropped as a repeat (else the view below decides which row stays).
+        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary, Peek, apart ? Find : null);
+        if (apart)
         {
             // One file holds each key once (a part, or a merged file); files of different chunks share no point.
             return table;

@@ -23,10 +23,14 @@ internal sealed class ParquetColumnFile
 
     private readonly int[] _groupStarts;
 
+    /// <summary>Each row group's first and last point id (the file's row-group index), or null when it has none that describes its groups.</summary>
+    private readonly (string First, string Last)[]? _idRanges;
+
     private ParquetColumnFile(string path, int rowCount, DataField[] fields, ImmutableArray<ResultColumn> columns, ImmutableArray<bool?> filled, TableSummary? summary,
-        ImmutableArray<string>? chunks, int[] groupStarts)
+        ImmutableArray<string>? chunks, int[] groupStarts, (string First, string Last)[]? idRanges)
     {
         _groupStarts = groupStarts;
+        _idRanges = idRanges;
         Summary = summary;
         Chunks = chunks;
         Path = path;
@@ -137,7 +141,77 @@ internal sealed class ParquetColumnFile
         ImmutableArray<string>? chunks = metadata.TryGetValue(MergedLayout.ChunksKey, out var list) ? [.. list.Split(',', StringSplitOptions.RemoveEmptyEntries)]
             : metadata.TryGetValue("latticesweep.chunk_id", out var chunk) ? [chunk]
             : null;
-        return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks, groupStarts);
+        return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks, groupStarts,
+            IdRanges(metadata, groupStarts, rows));
+    }
+
+    /// <summary>
+    /// The row-group index the Worker writes (<see cref="MergedLayout.RowGroupsKey"/>: one line per non-empty
+    /// group, first and last point id, rows sorted by id) spread over every group (an empty group gets an
+    /// empty range); null when the file has none, or one that does not describe its groups in order.
+    /// </summary>
+    private static (string First, string Last)[]? IdRanges(IReadOnlyDictionary<string, string> metadata, int[] groupStarts, long rows)
+    {
+        if (!metadata.TryGetValue(MergedLayout.RowGroupsKey, out var text))
+        {
+            return null;
+        }
+
+        var sizes = groupStarts.Select((start, g) => (g + 1 < groupStarts.Length ? groupStarts[g + 1] : rows) - start).ToList();
+        if (!RowGroupIndex.DescribesSortedFile(text, sizes))
+        {
+            return null;
+        }
+
+        var lines = text.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        var ranges = new (string First, string Last)[groupStarts.Length];
+        var line = 0;
+        for (var g = 0; g < ranges.Length; g++)
+        {
+            if (sizes[g] == 0)
+            {
+                // No id lies in an empty range ("\uffff" > any id > "").
+                ranges[g] = ("\uffff", "");
+                continue;
+            }
+
+            var parts = lines[line++].Split('\t');
+            ranges[g] = (parts[0], parts[1]);
+        }
+
+        return ranges;
+    }
+
+    /// <summary>
+    /// The rows (in file order) whose text column <paramref name="column"/> is <paramref name="id"/>, found
+    /// from the file's row-group index: only the groups whose id range holds it are read (from the group
+    /// cache, or the whole column when it is loaded). Null when the file has no such index; empty when the
+    /// id is in none of its groups. For a point's row among 10^6: one row group of one column instead of
+    /// every id of the table.
+    /// </summary>
+    public int[]? RowsWithId(int column, string id)
+    {
+        if (_idRanges is not { } ranges)
+        {
+            return null;
+        }
+
+        var groups = Enumerable.Range(0, ranges.Length)
+            .Where(g => string.CompareOrdinal(ranges[g].First, id) <= 0 && string.CompareOrdinal(id, ranges[g].Last) <= 0)
+            .ToArray();
+        if (groups.Length == 0 || _filled[column] == false)
+        {
+            return [];
+        }
+
+        var rows = groups.SelectMany(g => Enumerable.Range(_groupStarts[g], GroupRows(g))).ToArray();
+        var cells = CellsAt([column], rows)[0];
+        if (Stale)
+        {
+            return null;
+        }
+
+        return [.. rows.Where((_, k) => cells[k] is string s && string.Equals(s, id, StringComparison.Ordinal))];
     }
 
     /// <summary>True once the whole column has been read (and is kept).</summary>
@@ -512,11 +586,17 @@ internal sealed class ParquetColumnFile
     }
 
     /// <summary>Repeated words (state, lattice, a candidate's name) share one string instead of one per row.</summary>
+    /// <remarks>A column whose first rows are all different (point ids) is left as it is: a lookup per row would find nothing.</remarks>
     private static void Intern(string?[] text)
     {
         var seen = new Dictionary<string, string>(StringComparer.Ordinal);
         for (var i = 0; i < text.Length; i++)
         {
+            if (i == 4096 && seen.Count == 4096)
+            {
+                return;
+            }
+
             if (text[i] is { Length: <= 32 } s)
             {
                 if (seen.TryGetValue(s, out var kept))

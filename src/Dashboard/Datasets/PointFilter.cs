@@ -159,7 +159,7 @@ public sealed record PointFilter
     internal ResultTable Apply(ResultTable points)
     {
         ArgumentNullException.ThrowIfNull(points);
-        if (IsEmpty)
+        if (IsEmpty || KeepsEveryRow(points))
         {
             return points;
         }
@@ -195,6 +195,55 @@ public sealed record PointFilter
         }
 
         return points.Where(Keep);
+    }
+
+    /// <summary>
+    /// True when the files' footers show that every row of the whole table passes (every point stable,
+    /// a range around all of a column's values, ...): the filter then reads no column. False when they
+    /// cannot tell (no summary, a filtered view, a set of values), and the rows are tested one by one.
+    /// </summary>
+    private bool KeepsEveryRow(ResultTable points)
+    {
+        if (points.Summary is not { } summary || !Values.IsEmpty)
+        {
+            return false;
+        }
+
+        foreach (var r in Ranges)
+        {
+            // A range keeps finite numbers within it: every row must have one, all of them inside.
+            if (summary.Of(r.Column) is not { } c || c.Finite != points.Count || (r.Min is { } lo && !(c.Min >= lo)) || (r.Max is { } hi && !(c.Max <= hi)))
+            {
+                return false;
+            }
+        }
+
+        if (!StableOnly && !DoneOnly && !NotFloppy)
+        {
+            return true;
+        }
+
+        if (summary.Marks is not { } marks)
+        {
+            return false;
+        }
+
+        // The marks as ColumnFlags reads them (a column the table lacks reads as empty).
+        var hasState = points.Has(PointFlags.StateColumn);
+        var hasStable = points.Has(PointFlags.StableColumn);
+        var hasFloppy = points.Has(PointFlags.FloppyColumn);
+        long kept = 0;
+        foreach (var m in marks)
+        {
+            var state = hasState ? m.State : null;
+            var unstable = state == PointFlags.Unstable || (hasStable && m.Stable == false);
+            var keep = (!StableOnly || (!unstable && hasStable && m.Stable == true))
+                && (!DoneOnly || (state == PointFlags.Done && !unstable))
+                && (!NotFloppy || !(hasFloppy && m.Floppy == true));
+            kept += keep ? m.Rows : 0;
+        }
+
+        return kept == points.Count;
     }
 
     /// <summary>In words, for the page: "stable only · Highest frequency from 2 to 8 THz · candidates.name: a or b". A range keeps only numbers (not an empty or undefined cell).</summary>

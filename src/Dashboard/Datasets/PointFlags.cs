@@ -43,8 +43,9 @@ internal sealed class PointFlags
 
 /// <summary>
 /// The marks of <see cref="PointFlags"/> read by position from a table's columns (no row boxed).
-/// Each column is read when first asked; a whole table whose files' footers count no unstable (or
-/// no floppy) row answers false for every row without reading state and stable (or floppy).
+/// Each column is read when first asked; a table whose files' footers count no unstable (or no
+/// floppy) row answers false for every row without reading state and stable (or floppy), and so
+/// does every view of it (a filter's rows).
 /// </summary>
 internal sealed class ColumnFlags
 {
@@ -61,9 +62,10 @@ internal sealed class ColumnFlags
         _stable = new(() => table.IndexOf(PointFlags.StableColumn) is var t and >= 0 ? table.Cells(t) : null);
         _floppy = new(() => table.IndexOf(PointFlags.FloppyColumn) is var f and >= 0 ? table.Cells(f) : null);
         KnowsFloppy = table.Has(PointFlags.FloppyColumn);
-        if (table.Summary?.Marks is { } marks)
+        // A view's rows are rows of its whole table: none unstable there, none in the view.
+        if ((table.Summary ?? table.Whole?.Summary)?.Marks is { } marks)
         {
-            var counts = StabilityCounts.FromMarks(table, marks);
+            var counts = StabilityCounts.FromMarks(table.Summary is null ? table.Whole! : table, marks);
             _noneUnstable = counts.Unstable == 0;
             _noneFloppy = counts.Floppy == 0;
         }

@@ -59,20 +59,21 @@ internal sealed class ResultStore
             return hit.Table;
         }
 
-        var files = new List<ParquetColumnFile>();
-        var complete = true;
-        foreach (var stamp in stamps)
+        // The footers side by side (a merged file's takes ~0.1 s to parse: 153 columns x ~80 row groups), in listing order.
+        var opened = await Task.WhenAll(stamps.Select(stamp => Task.Run(async () =>
         {
             try
             {
-                files.Add(await OpenCachedAsync(stamp, ct).ConfigureAwait(false));
+                return await OpenCachedAsync(stamp, ct).ConfigureAwait(false);
             }
             catch (Exception ex) when (Vanished(ex))
             {
                 // Replaced while listed (a merge renames files into place, then removes the parts they hold): read again next time.
-                complete = false;
+                return null;
             }
-        }
+        }, ct))).ConfigureAwait(false);
+        var files = opened.OfType<ParquetColumnFile>().ToList();
+        var complete = files.Count == opened.Length;
 
         var rows = ColumnDataset.Of(files, IdColumn);
         if (complete && rows.Summary is not null)

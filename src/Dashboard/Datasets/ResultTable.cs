@@ -23,6 +23,7 @@ public sealed class ResultTable
     private readonly int _count;
     private readonly Func<int, bool?>? _filled;
     private readonly Func<int[], int[], object?[][]>? _peek;
+    private readonly Func<int, string, int[]?>? _find;
 
     /// <summary>A table of boxed rows (small tables: one point's rows, tests).</summary>
     public ResultTable(ImmutableArray<ResultColumn> columns, ImmutableArray<ImmutableArray<object?>> rows)
@@ -39,19 +40,26 @@ public sealed class ResultTable
     /// <paramref name="peek"/>(columns, rows), when not null, gives the boxed cells of those columns at a few
     /// rows without loading the whole column (a page's rows read from their row groups only).
     /// </remarks>
+    /// <remarks>
+    /// <paramref name="find"/>(column, value), when not null, gives the rows whose text column holds a
+    /// value without reading the whole column (a point's row from the files' row-group indexes), or null
+    /// when it cannot tell.
+    /// </remarks>
     internal ResultTable(ImmutableArray<ResultColumn> columns, int count, Func<int, CellColumn> load, Func<int, bool?>? filled = null, TableSummary? summary = null,
-        Func<int[], int[], object?[][]>? peek = null)
+        Func<int[], int[], object?[][]>? peek = null, Func<int, string, int[]?>? find = null)
     {
         Columns = columns;
         _count = count;
         _filled = filled;
         _peek = peek;
+        _find = find;
         Summary = summary is not null && summary.Rows == count ? summary : null;
         _cells = [.. columns.Select((_, c) => new Lazy<CellColumn>(() => load(c), LazyThreadSafetyMode.ExecutionAndPublication))];
     }
 
     private ResultTable(ResultTable source, int[] rows)
     {
+        Whole = source.Whole ?? source;
         Columns = source.Columns;
         _cells = source._cells;
         _peek = source._peek;
@@ -60,6 +68,12 @@ public sealed class ResultTable
     }
 
     public static ResultTable Empty { get; } = new([], []);
+
+    /// <summary>The whole table a view (a filter's rows, an ordering) was taken from; null for a whole table.</summary>
+    internal ResultTable? Whole { get; }
+
+    /// <summary>The rows in view as rows of <see cref="Whole"/>; null for a whole table.</summary>
+    internal int[]? TableRows() => _rows;
 
     /// <summary>Facts of the whole table from its files' footers (<see cref="TableSummary"/>); null for a filtered view or files without one.</summary>
     internal TableSummary? Summary { get; }
@@ -181,12 +195,24 @@ public sealed class ResultTable
     }
 
     /// <summary>The rows whose <paramref name="column"/> equals <paramref name="value"/>.</summary>
+    /// <remarks>
+    /// On a whole table read from files that index the column (a point id), the rows are found from
+    /// the index and returned with their cells read from their row groups only (a table of boxed
+    /// rows): a point's page reads neither every id nor every column of 10^6 rows.
+    /// </remarks>
     public ResultTable Where(string column, string value)
     {
         var i = IndexOf(column);
         if (i < 0)
         {
             return Select([]);
+        }
+
+        if (_rows is null && _find?.Invoke(i, value) is { } found)
+        {
+            var all = Enumerable.Range(0, Columns.Length).ToArray();
+            var cells = CellsAt(all, found);
+            return new ResultTable(Columns, [.. found.Select((_, k) => ImmutableArray.Create(all.Select(c => cells[c][k]).ToArray()))]);
         }
 
         return Select(TableFacts.Of(this, "positions\n" + column, t => Positions(t, i))(value));

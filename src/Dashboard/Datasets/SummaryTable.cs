@@ -44,8 +44,6 @@ public sealed record SummaryTable(
 
     public const string DefaultSort = "point_index";
 
-    private const string CandidatePrefix = FirstLoadFacts.CandidatePrefix;
-
     /// <summary>
     /// Builds the page from <paramref name="filtered"/> (the rows to list). Which columns are worth
     /// offering is judged on <paramref name="all"/> (the whole table), so the choices do not change
@@ -123,7 +121,7 @@ public sealed record SummaryTable(
     {
         ArgumentNullException.ThrowIfNull(t);
         ArgumentNullException.ThrowIfNull(names);
-        var ordered = names.Parameters.Where(t.Has).OrderBy(p => names.Label(p).StartsWith(CandidatePrefix, StringComparison.Ordinal) ? 0 : 1).ToList();
+        var ordered = PlotDefaults.KeyOrder(names.Parameters.Where(t.Has), names.Label);
         return TableFacts.Of(t, "key parameters\n" + string.Join('\n', ordered), t =>
         {
             if (t.FirstLoad is { } merged && merged.Parameters.SequenceEqual(ordered))
@@ -133,16 +131,8 @@ public sealed record SummaryTable(
             }
 
             using var timing = StageTimings.Measure("table: key parameters");
-            var kept = new List<string>();
-            foreach (var p in ordered)
-            {
-                if (!kept.Any(q => Determines(t, t.IndexOf(q), t.IndexOf(p))))
-                {
-                    kept.Add(p);
-                }
-            }
-
-            return (IReadOnlyList<string>)kept;
+            // The rule the merge uses too (PlotDefaults); every pair is answered here, so the list is never null.
+            return (IReadOnlyList<string>)PlotDefaults.KeyParameters(ordered, (q, p) => Determines(t, t.IndexOf(q), t.IndexOf(p)))!;
         });
     }
 
@@ -160,32 +150,9 @@ public sealed record SummaryTable(
             ? s.Distinct.Contains(true)
             : new ColumnFlags(all) is var flags && Enumerable.Range(0, all.Count).Any(flags.IsFloppy);
 
-    /// <summary>True when every value of column <paramref name="q"/> goes with one value of column <paramref name="p"/>.</summary>
-    private static bool Determines(ResultTable t, int q, int p)
-    {
-        // Cells compared by their value (as Show.Raw writes them: same value, same text), without formatting them.
-        var seen = new Dictionary<CellKey, CellKey>();
-        var keys = t.Cells(q);
-        var values = t.Cells(p);
-        for (var r = 0; r < t.Count; r++)
-        {
-            var key = keys.Key(r);
-            var value = values.Key(r);
-            if (seen.TryGetValue(key, out var before))
-            {
-                if (before != value)
-                {
-                    return false;
-                }
-            }
-            else
-            {
-                seen[key] = value;
-            }
-        }
-
-        return true;
-    }
+    /// <summary>True when every value of column <paramref name="q"/> goes with one value of column <paramref name="p"/> (cells compared by value, as Show.Raw writes them).</summary>
+    private static bool Determines(ResultTable t, int q, int p) =>
+        PlotDefaults.Determines(RuleCells.Of(t, q), RuleCells.Of(t, p), t.Count, int.MaxValue) == true;
 
     private static SummaryColumn View(ResultColumn c, ColumnCatalog names) =>
         new(c.Name, names.HeaderLabel(c.Name), names.Label(c.Name), names.Unit(c), c.IsNumeric, names.IsParameter(c.Name));
@@ -193,6 +160,82 @@ public sealed record SummaryTable(
     /// <summary>Positions in plan order (by point_index, empty last; ties in table order), then sorted by one column: empty cells last whichever the direction; ties keep plan order.</summary>
     private static int[] SortedPositions(ResultTable t, int column, bool descending)
     {
+        if (column >= 0 && t.Columns[column].IsNumeric && ByDistinctNumbers(t, column, descending) is { } distinct)
+        {
+            return distinct;
+        }
+
+        var positions = PlanPositions(t);
+        if (column < 0)
+        {
+            return positions;
+        }
+
+        var cells = t.Cells(column);
+        var present = positions.Where(cells.HasValue).ToArray();
+        var numeric = t.Columns[column].IsNumeric;
+        IEnumerable<int> sorted;
+        if (numeric)
+        {
+            sorted = (IEnumerable<int>?)ByNumber(present, cells, descending)
+                ?? (descending ? present.OrderByDescending(r => cells.Number(r) ?? 0) : present.OrderBy(r => cells.Number(r) ?? 0));
+        }
+        else
+        {
+            sorted = descending ? present.OrderByDescending(cells.Cell, CellComparer.Instance) : present.OrderBy(cells.Cell, CellComparer.Instance);
+        }
+
+        return [.. sorted.Concat(positions.Where(r => !cells.HasValue(r)))];
+    }
+
+    /// <summary>
+    /// The rows sorted by a number column when every row has a number and no two are equal: no tie for
+    /// the plan order to break and no empty cell to place, so the plan column is neither read nor sorted
+    /// (the same order as the plan-order path gives). Null otherwise.
+    /// </summary>
+    private static int[]? ByDistinctNumbers(ResultTable t, int column, bool descending)
+    {
+        var cells = t.Cells(column);
+        for (var r = 0; r < t.Count; r++)
+        {
+            if (!cells.HasValue(r))
+            {
+                return null;
+            }
+        }
+
+        return ByNumber([.. Enumerable.Range(0, t.Count)], cells, descending, out var ties) is { } sorted && !ties ? sorted : null;
+    }
+
+    /// <summary>
+    /// The positions in plan order. A view whose rows keep their table's order (a filter's) takes the
+    /// whole table's plan order (worked out once and kept with the table) and keeps its own rows: the
+    /// same order, ties in table order, without reading or sorting the plan column again per filter.
+    /// </summary>
+    private static int[] PlanPositions(ResultTable t)
+    {
+        if (t.Whole is { } whole && t.TableRows() is { } rows && Increasing(rows))
+        {
+            var at = new int[whole.Count];
+            Array.Fill(at, -1);
+            for (var i = 0; i < rows.Length; i++)
+            {
+                at[rows[i]] = i;
+            }
+
+            var kept = new int[rows.Length];
+            var k = 0;
+            foreach (var r in Order(whole, null, false))
+            {
+                if (at[r] >= 0)
+                {
+                    kept[k++] = at[r];
+                }
+            }
+
+            return kept;
+        }
+
         var plan = t.IndexOf(DefaultSort) is var pi and >= 0 ? t.Cells(pi) : (ColumnView?)null;
         var positions = Enumerable.Range(0, t.Count).ToArray();
         if (plan is { } p && !InOrder(p, t.Count))
@@ -206,25 +249,76 @@ public sealed record SummaryTable(
             positions = PlacedByIndex(keys) ?? [.. positions.OrderBy(r => keys[r])];
         }
 
-        if (column < 0)
+        return positions;
+    }
+
+    private static bool Increasing(int[] rows)
+    {
+        for (var i = 1; i < rows.Length; i++)
         {
-            return positions;
+            if (rows[i] <= rows[i - 1])
+            {
+                return false;
+            }
         }
 
-        var cells = t.Cells(column);
-        var present = positions.Where(cells.HasValue);
-        var numeric = t.Columns[column].IsNumeric;
-        IEnumerable<int> sorted;
-        if (numeric)
+        return true;
+    }
+
+    /// <summary>
+    /// <paramref name="present"/> sorted by their numbers as <c>OrderBy</c> sorts them (stable: ties keep
+    /// their order), by a sort of plain 64-bit keys instead of a comparison per pair through the cells:
+    /// each number's bits made to order as the numbers do (-0 as 0), the key inverted for descending, then
+    /// every run of equal keys put back in its first order. Null when a cell is NaN (left to OrderBy).
+    /// </summary>
+    internal static int[]? ByNumber(int[] present, ColumnView cells, bool descending) => ByNumber(present, cells, descending, out _);
+
+    /// <inheritdoc cref="ByNumber(int[], ColumnView, bool)"/>
+    /// <param name="ties">whether two of the numbers are equal (their order then came from <paramref name="present"/>)</param>
+    internal static int[]? ByNumber(int[] present, ColumnView cells, bool descending, out bool ties)
+    {
+        ties = false;
+        var keys = new long[present.Length];
+        var order = new int[present.Length];
+        for (var i = 0; i < present.Length; i++)
         {
-            sorted = descending ? present.OrderByDescending(r => cells.Number(r) ?? 0) : present.OrderBy(r => cells.Number(r) ?? 0);
-        }
-        else
-        {
-            sorted = descending ? present.OrderByDescending(cells.Cell, CellComparer.Instance) : present.OrderBy(cells.Cell, CellComparer.Instance);
+            var value = cells.Number(present[i]) ?? 0;
+            if (double.IsNaN(value))
+            {
+                return null;
+            }
+
+            var bits = BitConverter.DoubleToInt64Bits(value == 0 ? 0.0 : value);
+            var key = bits >= 0 ? bits : bits ^ long.MaxValue;
+            keys[i] = descending ? ~key : key;
+            order[i] = i;
         }
 
-        return [.. sorted.Concat(positions.Where(r => !cells.HasValue(r)))];
+        Array.Sort(keys, order);
+        for (var start = 0; start < keys.Length;)
+        {
+            var end = start + 1;
+            while (end < keys.Length && keys[end] == keys[start])
+            {
+                end++;
+            }
+
+            if (end - start > 1)
+            {
+                ties = true;
+                Array.Sort(order, start, end - start);
+            }
+
+            start = end;
+        }
+
+        var sorted = new int[order.Length];
+        for (var i = 0; i < order.Length; i++)
+        {
+            sorted[i] = present[order[i]];
+        }
+
+        return sorted;
     }
 
     /// <summary>

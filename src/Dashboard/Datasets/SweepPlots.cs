@@ -12,16 +12,7 @@ namespace LatticeSweep.Dashboard.Datasets;
 /// </summary>
 internal static class SweepPlots
 {
-    /// <summary>Usual y columns: the first that varies over the sweep wins (conductivity first: a sweep that asked for it is about it).</summary>
-    /// <remarks>The lists and limits are the merge's (<see cref="FirstLoadFacts"/>), which works out the same defaults for the first load.</remarks>
-    private static readonly string[] ParameterPlotY = FirstLoadFacts.ParameterPlotY;
-
-    private static readonly string[] ScatterX = FirstLoadFacts.ScatterX;
-
-    private static readonly string[] ScatterY = FirstLoadFacts.ScatterY;
-
-    /// <summary>Columns about the run, not the model: never a default axis.</summary>
-    private static readonly HashSet<string> RunColumns = new(FirstLoadFacts.RunColumns, StringComparer.Ordinal);
+    // The default choices' rules, lists and limits live in PlotDefaults and FirstLoadFacts (the merge uses them too).
 
     /// <summary>At most this many values for a default grouping parameter named in a legend (a longer legend says little).</summary>
     private const int MaxDefaultGroups = FirstLoadFacts.MaxDefaultGroups;
@@ -39,49 +30,39 @@ internal static class SweepPlots
     /// <summary>The swept parameters present in the table (what can go on the x axis or split the series).</summary>
     public static IReadOnlyList<string> ParameterColumns(ResultTable all, ColumnCatalog names) => [.. names.Parameters.Where(all.Has)];
 
-    /// <summary>The request with every empty choice replaced by its default (a choice the table cannot serve, too).</summary>
+    /// <summary>The request with every empty choice replaced by its default (a choice the table cannot serve, too), by the rules the merge uses too (<see cref="PlotDefaults"/>).</summary>
     public static ParameterPlotRequest Resolve(ResultTable all, ColumnCatalog names, ParameterPlotRequest request)
     {
-        var parameters = ParameterColumns(all, names);
-        var numbers = NumberColumns(all);
-        // The default x is a numeric parameter that no other one determines (a candidate's lattice
-        // constant would draw one cloud per candidate, not a trend).
-        var key = SummaryTable.KeyParameters(all, names);
-        var varying = key.Concat(parameters).Distinct(StringComparer.Ordinal).Where(p => Distinct(all, p) > 1).ToList();
-        var x = request.X is { } rx && parameters.Contains(rx) ? rx
-            : varying.FirstOrDefault(p => all.Column(p)!.IsNumeric) ?? varying.FirstOrDefault() ?? parameters.FirstOrDefault();
-        var y = request.Y is { } ry && numbers.Contains(ry) ? ry
-            : Preferred(all, ParameterPlotY, numbers.Where(n => !names.IsParameter(n))) ?? numbers.FirstOrDefault();
-        string? by;
-        if (request.By == SweepPlot.NoGrouping)
-        {
-            by = SweepPlot.NoGrouping;
-        }
-        else if (request.By is { } rb && parameters.Contains(rb) && rb != x)
-        {
-            by = rb;
-        }
-        else
-        {
-            // A parameter with few values names its lines in a legend; one with many (a dense grid) still
-            // gives a family of lines, coloured from its lowest value to its highest.
-            by = key.FirstOrDefault(p => p != x && Distinct(all, p) is > 1 and <= MaxDefaultGroups)
-                ?? key.FirstOrDefault(p => p != x && all.Column(p)!.IsNumeric && Distinct(all, p) is > 1 and <= MaxGradientGroups)
-                ?? SweepPlot.NoGrouping;
-        }
-
-        return request with { X = x, Y = y, By = by };
+        var (x, y, by) = PlotDefaults.Parameter(new Facts(all, names), request.X, request.Y, request.By, noGrouping: request.By == SweepPlot.NoGrouping);
+        return request with { X = x, Y = y, By = by ?? SweepPlot.NoGrouping };
     }
 
     public static ScatterPlotRequest Resolve(ResultTable all, ColumnCatalog names, ScatterPlotRequest request)
     {
-        var numbers = NumberColumns(all);
-        // When none of the usual x columns varies, a swept parameter does (a conductivity sweep: kappa against the boundary length).
-        var results = numbers.Where(c => !RunColumns.Contains(c)).OrderBy(c => names.IsParameter(c) ? 0 : 1).ToList();
-        var x = request.X is { } rx && numbers.Contains(rx) ? rx : Preferred(all, ScatterX, results) ?? numbers.FirstOrDefault();
-        var y = request.Y is { } ry && numbers.Contains(ry) ? ry
-            : Preferred(all, ScatterY.Where(c => c != x), results.Where(c => c != x && !names.IsParameter(c))) ?? numbers.FirstOrDefault(c => c != x) ?? x;
+        var (x, y) = PlotDefaults.Scatter(new Facts(all, names), request.X, request.Y);
         return request with { X = x, Y = y };
+    }
+
+    /// <summary>The whole table's facts as the shared rules read them (from the footers where they say, else from every row; each kept with the table).</summary>
+    private sealed class Facts(ResultTable all, ColumnCatalog names) : IPlotDefaultFacts
+    {
+        private IReadOnlyList<string>? _key;
+
+        public IReadOnlyList<string> Parameters { get; } = ParameterColumns(all, names);
+
+        public IReadOnlyList<string> KeyParameters => _key ??= SummaryTable.KeyParameters(all, names);
+
+        public IReadOnlyList<string> Numbers { get; } = NumberColumns(all);
+
+        public bool IsNumeric(string column) => all.Column(column)!.IsNumeric;
+
+        public bool IsParameter(string column) => names.IsParameter(column);
+
+        public bool Varies(string column) => all.Summary?.Of(column) is { } s
+            ? s.Finite > 1 && s.Min < s.Max
+            : all.Numbers(column).OfType<double>().Where(double.IsFinite).Distinct().Skip(1).Any();
+
+        public int Distinct(string column) => SweepPlots.Distinct(all, column);
     }
 
     /// <summary>A summary column against a swept parameter, one series per value of another parameter; null when the table cannot give one.</summary>
@@ -370,15 +351,6 @@ internal static class SweepPlots
     }
 
     /// <summary>The first usual column that varies over the sweep, else the first other column that does; null when none varies.</summary>
-    private static string? Preferred(ResultTable all, IEnumerable<string> usual, IEnumerable<string> others)
-    {
-        bool Varies(string c) => all.Summary?.Of(c) is { } s
-            ? s.Finite > 1 && s.Min < s.Max
-            : all.Numbers(c).OfType<double>().Where(double.IsFinite).Distinct().Skip(1).Any();
-        var present = NumberColumns(all);
-        return usual.Where(present.Contains).FirstOrDefault(Varies) ?? others.FirstOrDefault(Varies);
-    }
-
     private static int Distinct(ResultTable t, string column)
     {
         var i = t.IndexOf(column);
@@ -395,14 +367,8 @@ internal static class SweepPlots
                 return ColumnSummary.DistinctKept + 1;
             }
 
-            var cells = t.Cells(i);
-            var seen = new HashSet<CellKey>();
-            for (var r = 0; r < t.Count; r++)
-            {
-                seen.Add(cells.Key(r));
-            }
-
-            return seen.Count;
+            // The rule the merge counts by too (PlotDefaults).
+            return PlotDefaults.DistinctCount(RuleCells.Of(t, i), t.Count, int.MaxValue);
         });
     }
 

@@ -65,7 +65,7 @@ internal static class SweepCommands
         ReportLostResults(resumed, context);
         if (line.Flag("queue-only"))
         {
-            context.Stdout.WriteLine($"Sweep {sweep.SweepId}: {resumed.ChunksQueued} chunks queued again ({resumed.Sweep.Counts.Unfinished} points without results).");
+            context.Stdout.WriteLine($"Sweep {sweep.SweepId}: {resumed.ChunksQueued} chunks queued again, {resumed.ChunksStillQueued} still in the queue ({resumed.Sweep.Counts.Unfinished} points without results).");
             return ExitCodes.Ok;
         }
 

@@ -111,55 +111,25 @@ internal static class FirstLoadFacts
     {
         var parameters = parameterDefs.Select(d => d.Name).ToList();
         string Label(string p) => parameterDefs.First(d => d.Name == p).Description[SweptPrefix.Length..];
-        var ordered = parameters.OrderBy(p => Label(p).StartsWith(CandidatePrefix, StringComparison.Ordinal) ? 0 : 1).ToList();
+        var ordered = PlotDefaults.KeyOrder(parameters, Label);
         var cells = new Dictionary<string, Cells>(StringComparer.Ordinal);
         foreach (var p in parameters)
         {
             cells[p] = await t.ReadAsync(p, ct).ConfigureAwait(false);
         }
 
-        var key = new List<string>();
-        foreach (var p in ordered)
+        // The dashboard's rules (PlotDefaults) over this table's facts.
+        if (PlotDefaults.KeyParameters(ordered, (q, p) => Determines(cells[q], cells[p], t.Rows)) is not { } key)
         {
-            var determined = false;
-            foreach (var q in key)
-            {
-                if (Determines(cells[q], cells[p], t.Rows) is not { } d)
-                {
-                    return null;
-                }
-
-                if (d)
-                {
-                    determined = true;
-                    break;
-                }
-            }
-
-            if (!determined)
-            {
-                key.Add(p);
-            }
+            return null;
         }
 
         var distinct = parameters.ToDictionary(p => p, p => DistinctCount(cells[p], t.Rows), StringComparer.Ordinal);
         var numbers = t.Columns.Where(c => c.Numeric && t.Count(c.Name) > 0 && c.Name != PlanColumn).Select(c => c.Name).ToList();
-        bool IsParameter(string c) => parameters.Contains(c);
-        bool IsNumeric(string c) => t.Columns.First(x => x.Name == c).Numeric;
-        string? Preferred(IEnumerable<string> usual, IEnumerable<string> others) =>
-            usual.Where(numbers.Contains).FirstOrDefault(t.Varies) ?? others.FirstOrDefault(t.Varies);
-
-        // The parameter plot's defaults (SweepPlots.Resolve in the dashboard).
-        var varying = key.Concat(parameters).Distinct(StringComparer.Ordinal).Where(p => distinct[p] > 1).ToList();
-        var px = varying.FirstOrDefault(IsNumeric) ?? varying.FirstOrDefault() ?? parameters.FirstOrDefault();
-        var py = Preferred(ParameterPlotY, numbers.Where(n => !IsParameter(n))) ?? numbers.FirstOrDefault();
-        var by = key.FirstOrDefault(p => p != px && distinct[p] is > 1 and <= MaxDefaultGroups)
-            ?? key.FirstOrDefault(p => p != px && IsNumeric(p) && distinct[p] is > 1 and <= MaxGradientGroups);
-
-        // The scatter's defaults.
-        var results = numbers.Where(c => !RunColumns.Contains(c)).OrderBy(c => IsParameter(c) ? 0 : 1).ToList();
-        var sx = Preferred(ScatterX, results) ?? numbers.FirstOrDefault();
-        var sy = sx is null ? null : Preferred(ScatterY.Where(c => c != sx), results.Where(c => c != sx && !IsParameter(c))) ?? numbers.FirstOrDefault(c => c != sx) ?? sx;
+        var facts = new MergedFacts(t, parameters, key, numbers, distinct);
+        bool IsNumeric(string c) => facts.IsNumeric(c);
+        var (px, py, by) = PlotDefaults.Parameter(facts, null, null, null, noGrouping: false);
+        var (sx, sy) = PlotDefaults.Scatter(facts, null, null);
 
         var flags = await Flags.ReadAsync(t, ct).ConfigureAwait(false);
         async Task<Cells> Read(string c) => cells.TryGetValue(c, out var known) ? known : cells[c] = await t.ReadAsync(c, ct).ConfigureAwait(false);
@@ -424,81 +394,24 @@ internal static class FirstLoadFacts
         return [.. entries.Take(PlanRowsKept).Select(e => e.Row)];
     }
 
-    /// <summary>True when every value of <paramref name="q"/> goes with one value of <paramref name="p"/>; null past <see cref="MaxKeys"/> values.</summary>
-    private static bool? Determines(Cells q, Cells p, int rows)
-    {
-        if (q.Text is null && p.Text is null)
-        {
-            // Numbers: the pairs sorted, then every run of one q value must hold one p value (no dictionary of 10^6 keys).
-            // An empty cell is NaN's bits, which no table holds as a value.
-            var pairs = new (long Q, long P)[rows];
-            for (var r = 0; r < rows; r++)
-            {
-                pairs[r] = (BitConverter.DoubleToInt64Bits(q.Number[r]), BitConverter.DoubleToInt64Bits(p.Number[r]));
-            }
+    private static bool? Determines(Cells q, Cells p, int rows) => PlotDefaults.Determines(q, p, rows, MaxKeys);
 
-            Array.Sort(pairs);
-            for (var r = 1; r < rows; r++)
-            {
-                if (pairs[r].Q == pairs[r - 1].Q && pairs[r].P != pairs[r - 1].P)
-                {
-                    return false;
-                }
-            }
-
-            return true;
-        }
-
-        var seen = new Dictionary<CellKey, CellKey>();
-        for (var r = 0; r < rows; r++)
-        {
-            var key = q.Key(r);
-            var value = p.Key(r);
-            if (seen.TryGetValue(key, out var before))
-            {
-                if (before != value)
-                {
-                    return false;
-                }
-            }
-            else if (seen.Count == MaxKeys)
-            {
-                return null;
-            }
-            else
-            {
-                seen[key] = value;
-            }
-        }
-
-        return true;
-    }
-
-    /// <summary>Distinct cells (an empty cell counts as one), counted up to <see cref="MaxKeys"/>.</summary>
-    private static int DistinctCount(Cells c, int rows)
-    {
-        var seen = new HashSet<CellKey>();
-        for (var r = 0; r < rows && seen.Count <= MaxKeys; r++)
-        {
-            seen.Add(c.Key(r));
-        }
-
-        return seen.Count;
-    }
-
-    /// <summary>A cell compared by value: number bits or text; empty cells share one key.</summary>
-    private readonly record struct CellKey(byte Kind, long Bits, string? Text);
+    private static int DistinctCount(Cells c, int rows) => PlotDefaults.DistinctCount(c, rows, MaxKeys);
 
     /// <summary>One column of the whole table: numbers as doubles (NaN where empty: no table holds NaN), or text.</summary>
-    private sealed class Cells(double[] number, string?[]? text)
+    private sealed class Cells(double[] number, string?[]? text) : IRuleCells
     {
         public double[] Number { get; } = number;
 
         public string?[]? Text { get; } = text;
 
-        public CellKey Key(int row) => Text is { } t
-            ? (t[row] is { } s ? new CellKey(1, 0, s) : default)
-            : double.IsNaN(Number[row]) ? default : new CellKey(2, BitConverter.DoubleToInt64Bits(Number[row]), null);
+        public bool Numeric => Text is null;
+
+        public long NumberBits(int row) => BitConverter.DoubleToInt64Bits(Number[row]);
+
+        public RuleKey Key(int row) => Text is { } t
+            ? (t[row] is { } s ? new RuleKey(0, s) : RuleKey.Empty)
+            : new RuleKey(NumberBits(row), null);
     }
 
     /// <summary>The marks as the dashboard reads them: unstable by its state or stable = false, floppy by its flag.</summary>
@@ -544,6 +457,24 @@ internal static class FirstLoadFacts
             }, ct).ConfigureAwait(false);
             return new Flags(unstable, floppy);
         }
+    }
+
+    /// <summary>The merged table's facts as the shared rules read them.</summary>
+    private sealed class MergedFacts(Table t, List<string> parameters, List<string> key, List<string> numbers, Dictionary<string, int> distinct) : IPlotDefaultFacts
+    {
+        public IReadOnlyList<string> Parameters => parameters;
+
+        public IReadOnlyList<string> KeyParameters => key;
+
+        public IReadOnlyList<string> Numbers => numbers;
+
+        public bool IsNumeric(string column) => t.Columns.First(x => x.Name == column).Numeric;
+
+        public bool IsParameter(string column) => parameters.Contains(column);
+
+        public bool Varies(string column) => t.Varies(column);
+
+        public int Distinct(string column) => distinct[column];
     }
 
     private sealed record TableColumn(string Name, Type ClrType, bool Numeric, bool Text);

@@ -48,6 +48,7 @@ internal sealed class SortedInput : IAsyncDisposable
 
     public static async Task<SortedInput> OpenAsync(string file, CancellationToken ct)
     {
+        using var timing = Queue.StageTimings.Measure("merge: open input");
         var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16);
         try
         {
@@ -98,6 +99,7 @@ internal sealed class SortedInput : IAsyncDisposable
 
         while (_nextGroup < _reader.RowGroupCount)
         {
+            using var timing = Queue.StageTimings.Measure("merge: read group");
             var (values, rows) = await ParquetTableFile.ReadRowGroupAsync(_reader, _nextGroup++, Columns, ct).ConfigureAwait(false);
             if (rows == 0)
             {

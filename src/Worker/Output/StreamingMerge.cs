@@ -133,8 +133,9 @@ internal static class StreamingMerge
             var idColumn = columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
             var segments = new List<LoadedGroup>();
             var segmentOf = new int[inputs.Count];
-            var queue = new PriorityQueue<int, (string? Id, int Input)>(Comparer<(string? Id, int Input)>.Create((a, b) =>
-                string.CompareOrdinal(a.Id, b.Id) is var c && c != 0 ? c : a.Input.CompareTo(b.Input)));
+            var order = Comparer<(string? Id, int Input)>.Create((a, b) =>
+                string.CompareOrdinal(a.Id, b.Id) is var c && c != 0 ? c : a.Input.CompareTo(b.Input));
+            var queue = new PriorityQueue<int, (string? Id, int Input)>(order);
             for (var r = 0; r < inputs.Count; r++)
             {
                 segmentOf[r] = -1;
@@ -156,26 +157,41 @@ internal static class StreamingMerge
             {
                 while (true)
                 {
+                    var gathering = Queue.StageTimings.Measure("merge: pick and gather");
                     var n = 0;
                     while (n < groupRows && queue.TryDequeue(out var r, out _))
                     {
+                        // Rows are taken from this input while its head still comes before every other
+                        // input's (a point's rows, often a whole part, in one go): the order the queue
+                        // gives row by row, without a queue operation per row.
                         var input = inputs[r];
-                        chosenSegment[n] = segmentOf[r];
-                        chosenRow[n] = input.Position++;
-                        n++;
-                        if (input.Position == input.Current!.Rows)
+                        var hasOthers = queue.TryPeek(out _, out var others);
+                        while (true)
                         {
-                            segmentOf[r] = -1;
-                            if (await input.AdvanceAsync(ct).ConfigureAwait(false))
+                            chosenSegment[n] = segmentOf[r];
+                            chosenRow[n] = input.Position++;
+                            n++;
+                            if (input.Position == input.Current!.Rows)
                             {
-                                segments.Add(input.Current!);
-                                segmentOf[r] = segments.Count - 1;
+                                segmentOf[r] = -1;
+                                if (await input.AdvanceAsync(ct).ConfigureAwait(false))
+                                {
+                                    segments.Add(input.Current!);
+                                    segmentOf[r] = segments.Count - 1;
+                                }
                             }
-                        }
 
-                        if (segmentOf[r] >= 0)
-                        {
-                            queue.Enqueue(r, (input.HeadId(out _), r));
+                            if (segmentOf[r] < 0)
+                            {
+                                break;
+                            }
+
+                            var head = (input.HeadId(out _), r);
+                            if (n == groupRows || (hasOthers && order.Compare(head, others) > 0))
+                            {
+                                queue.Enqueue(r, head);
+                                break;
+                            }
                         }
                     }
 
@@ -198,7 +214,12 @@ internal static class StreamingMerge
                         index.Append(ids[0]).Append('\t').Append(ids[n - 1]).Append('\n');
                     }
 
-                    await writer.WriteRowGroupAsync(new TableRows(table, columns, n, slice), ct).ConfigureAwait(false);
+                    gathering.Dispose();
+                    using (Queue.StageTimings.Measure("merge: write group"))
+                    {
+                        await writer.WriteRowGroupAsync(new TableRows(table, columns, n, slice), ct).ConfigureAwait(false);
+                    }
+
                     summary?.Add(slice, n);
                     wroteGroup = true;
                     total += n;

@@ -6,6 +6,7 @@ using LatticeSweep.Worker.JobFiles;
 using LatticeSweep.Worker.Planning.Expansion;
 using LatticeSweep.Worker.Planning.Fields;
 using LatticeSweep.Worker.Planning.Specs;
+using Tomlyn.Model;
 
 namespace LatticeSweep.Worker.Planning;
 
@@ -30,6 +31,17 @@ internal static class SweepPlanner
     public static SweepPlan Plan(TomlDocument document, string text, ProblemCollector problems) => Plan(document, text, problems, lazy: false);
 
     /// <summary>
+    /// Whether points can take a sample kind other than <c>[sample].kind</c>: then the section needs
+    /// both the finite and the bulk keys. An axis listing only the base kind (say
+    /// <c>values = ["finite"]</c> beside <c>kind = "finite"</c>) does not; a range, a candidates column
+    /// or any other value does.
+    /// </summary>
+    private static bool KindSwept(SweepDeclaration sweep, string? baseKind) =>
+        sweep.Axes.Any(a => a.Path == "sample.kind"
+            && (a.Source is not ValueListSource list || list.Values.Any(v => v is not string s || s != baseKind)))
+        || (sweep.Candidates?.Columns.Any(c => c.Value == "sample.kind") ?? false);
+
+    /// <summary>
     /// Plans the job. <paramref name="lazy"/> (a worker, for a sweep whose submit kept every point of
     /// the expansion): points are not applied, checked or hashed up front; a point's id is computed
     /// when it is asked for, and the plan's <see cref="SweepPlan.SpecHash"/> is empty (the caller
@@ -40,8 +52,7 @@ internal static class SweepPlanner
         var root = new TableReader(document, document.Root, "", problems, new SourceLocation(1, 1));
         root.RejectUnknown("sweep", "model", "sample", "output");
         var sweep = SweepSectionReader.Read(root.SubTable("sweep"), document.File);
-        var kindSwept = sweep.Axes.Any(a => a.Path == "sample.kind")
-            || (sweep.Candidates?.Columns.Any(c => c.Value == "sample.kind") ?? false);
+        var kindSwept = KindSwept(sweep, root.Raw("sample") is TomlTable sampleTable && sampleTable.TryGetValue("kind", out var kindValue) ? kindValue as string : null);
 
         var modelTable = root.SubTable("model", required: true);
         var model = modelTable is null ? null : ModelSectionReader.Read(modelTable);

@@ -195,6 +195,56 @@ public sealed class QueueStore : IDisposable
         return monitoring.EnqueuedCount(ChunkJob.QueueName) + held + monitoring.ScheduledCount();
     }
 
+    /// <summary>Jobs read per call while listing the queue's jobs.</summary>
+    private const int JobsPerPage = 500;
+
+    /// <summary>
+    /// Chunks of <paramref name="sweepId"/> that the queue will hand to a worker without being asked
+    /// again: enqueued, scheduled for a retry, or held by a worker that may still be alive (on
+    /// PostgreSQL always: a dead worker's chunk comes back after the reclaim time; on SQLite only
+    /// while a process works the file, since a chunk held by a process that died waits out the
+    /// invisibility timeout and <c>resume</c> queues it again). <c>resume</c> leaves these out, so no
+    /// chunk is in the queue twice: a second copy of a chunk can start while the first still runs it.
+    /// </summary>
+    public IReadOnlySet<string> ChunksStillQueued(string sweepId)
+    {
+        ArgumentNullException.ThrowIfNull(sweepId);
+        var monitoring = Storage.GetMonitoringApi();
+        var chunks = new HashSet<string>(StringComparer.Ordinal);
+        void Take(IEnumerable<Hangfire.Common.Job?> jobs)
+        {
+            foreach (var job in jobs)
+            {
+                if (job is { Type.Name: nameof(ChunkJob), Args: [string sweep, string chunk, ..] } && string.Equals(sweep, sweepId, StringComparison.Ordinal))
+                {
+                    chunks.Add(chunk);
+                }
+            }
+        }
+
+        void TakeAll<T>(Func<int, int, Hangfire.Storage.Monitoring.JobList<T>> page, Func<T, Hangfire.Common.Job?> job)
+        {
+            for (var from = 0; ; from += JobsPerPage)
+            {
+                var jobs = page(from, JobsPerPage);
+                Take(jobs.Select(j => j.Value is { } v ? job(v) : null));
+                if (jobs.Count < JobsPerPage)
+                {
+                    return;
+                }
+            }
+        }
+
+        TakeAll((from, count) => monitoring.EnqueuedJobs(ChunkJob.QueueName, from, count), j => j.Job);
+        TakeAll(monitoring.ScheduledJobs, j => j.Job);
+        if (Location.Kind == StoreKind.Postgres || SqliteWorkerRunning() == true)
+        {
+            TakeAll(monitoring.ProcessingJobs, j => j.Job);
+        }
+
+        return chunks;
+    }
+
     /// <summary>
     /// SQLite: whether some process runs workers on this file right now (it holds the worker lock).
     /// Null on PostgreSQL, where <see cref="WorkerProcesses"/> tells from the heartbeats.

@@ -13,6 +13,9 @@ public sealed record SubmitResult(SweepRecord Sweep, bool Created, int ChunksQue
 {
     /// <summary>Chunks queued again because their recorded results were missing from the sweep's folder.</summary>
     public int LostChunks { get; init; }
+
+    /// <summary>Chunks without results that were still in the queue (<see cref="SweepSubmitter.Resume"/> did not queue them again).</summary>
+    public int ChunksStillQueued { get; init; }
 }
 
 /// <summary>
@@ -124,13 +127,17 @@ public sealed class SweepSubmitter
                 sweep.SweepId, lost.Count, SweepFolder.Table(sweep.OutputFolder, TableNames.Points));
         }
 
-        var chunkIds = _store.Catalog.RequeueUnfinished(sweep.SweepId, lost);
+        var unfinished = _store.Catalog.RequeueUnfinished(sweep.SweepId, lost);
+
+        // Chunks still in the queue keep their one job there: a second one could start while the first runs the chunk.
+        var queued = unfinished.Count == 0 ? new HashSet<string>() : _store.ChunksStillQueued(sweep.SweepId);
+        var chunkIds = unfinished.Where(c => !queued.Contains(c)).ToList();
         Enqueue(sweep.SweepId, chunkIds);
         var record = _store.Catalog.FindSweep(sweep.SweepId)!;
         SweepManifest.Write(record, _time.GetUtcNow());
-        _log.Information("Sweep {SweepId}: {ChunkCount} chunks re-queued ({Unfinished} points without results)",
-            sweep.SweepId, chunkIds.Count, record.Counts.Unfinished);
-        return new SubmitResult(record, Created: false, chunkIds.Count) { LostChunks = lost.Count };
+        _log.Information("Sweep {SweepId}: {ChunkCount} chunks re-queued, {StillQueued} still in the queue ({Unfinished} points without results)",
+            sweep.SweepId, chunkIds.Count, unfinished.Count - chunkIds.Count, record.Counts.Unfinished);
+        return new SubmitResult(record, Created: false, chunkIds.Count) { LostChunks = lost.Count, ChunksStillQueued = unfinished.Count - chunkIds.Count };
     }
 
     /// <summary>

@@ -263,6 +263,39 @@ public class BondBendingTests
     }
 
     [Fact]
+    public void A_square_sheet_with_flexural_bends_has_the_closed_form_plate_branch_everywhere()
+    {
+        // Each straight pair j-i-k of the nearest shell costs (1/2) k (u_j + u_k - 2 u_i)^2 out of the plane
+        // (a flexural bend of d^2 (d theta)^2 / 2 with d theta the sum of the two tilts), so a plane wave gives
+        // m w_z^2 = 16 k [sin^4(qx a/2) + sin^4(qy a/2)]; the central springs give m w_x^2 = 2 kL (1 - cos qx a) and
+        // the same along y (derived by hand, common practice, no source). Exact at every q, not only for long waves.
+        const double aNm = 0.25, massAmu = 12, kL = 40, k = 2;
+        var sheet = CrystalModel.Create(Lattice.Square(aNm), [new Site("A", "A", Vec3.Zero, massAmu)],
+            shellSprings: [new ShellSpring("A", "A", 1, kL)],
+            bends: [new BendSpring("A", "A", 1, BendForm.Flexural, k)]);
+        var solver = new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(sheet)));
+        var m = massAmu * PhysicalConstants.AtomicMassKg;
+        var a = aNm * 1e-9;
+        foreach (var (fx, fy) in new[] { (0.1, 0.0), (0.5, 0.0), (0.5, 0.5), (0.3, 0.17), (-0.42, 0.05) })
+        {
+            var (qx, qy) = (2 * Math.PI * fx / a, 2 * Math.PI * fy / a);
+            solver.SolveValues(new Vec3(qx, qy, 0));
+            double[] expected =
+            [
+                2 * kL * (1 - Math.Cos(qx * a)) / m,
+                2 * kL * (1 - Math.Cos(qy * a)) / m,
+                16 * k * (Math.Pow(Math.Sin(qx * a / 2), 4) + Math.Pow(Math.Sin(qy * a / 2), 4)) / m,
+            ];
+            Array.Sort(expected);
+            var scale = expected[^1];
+            for (var b = 0; b < 3; b++)
+            {
+                Assert.True(Math.Abs(expected[b] - solver.Values[b]) <= 1e-12 * scale, $"q = ({fx}, {fy}) branch {b}: {solver.Values[b]:G12} against {expected[b]:G12}");
+            }
+        }
+    }
+
+    [Fact]
     public void A_bend_whose_centres_lack_two_neighbours_in_the_shell_is_refused_with_its_key()
     {
         // Chain of period 1 nm with b 0.1 nm to the right of a: a's first b-shell holds one site.

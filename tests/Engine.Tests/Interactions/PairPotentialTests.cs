@@ -79,6 +79,54 @@ public class PairPotentialTests
     }
 
     [Fact]
+    public void Under_stress_the_long_waves_give_the_wave_moduli_of_the_lattice_sums()
+    {
+        // Long-wave limit of a Bravais lattice with central pairs, stress term included (Born and Huang, ch. 5,
+        // from memory): rho v^2 = (1/2V) sum_R [(phi'' - phi'/r) (n.R)^2 (q.R)^2 / r^2 + (phi'/r) (q.R)^2] for
+        // wave direction q and polarisation n. C11 and C44 are the [100] longitudinal and transverse moduli and
+        // C12 follows from the [110] longitudinal one, (C11 + C12 + 2 C44)/2. The sums here run over the fcc
+        // sites themselves, not the solver's pair list.
+        foreach (var aNm in new[] { 0.53, 0.56 })
+        {
+            var c = LongWaveElasticity.Cubic(CompiledCrystal.From(LjFcc(aNm, 0.85)))!;
+            double Sum(Func<Vec3, double> n, Func<Vec3, double> q)
+            {
+                var total = 0.0;
+                for (var i = -6; i <= 6; i++)
+                {
+                    for (var j = -6; j <= 6; j++)
+                    {
+                        for (var k = -6; k <= 6; k++)
+                        {
+                            var r = new Vec3(i, j, k) * (aNm * 0.5e-9);
+                            var d = r.Length;
+                            if (((i + j + k) & 1) != 0 || d == 0 || d >= 0.85e-9)
+                            {
+                                continue;
+                            }
+
+                            var (s6, s12) = (Math.Pow(Sigma * 1e-9 / d, 6), Math.Pow(Sigma * 1e-9 / d, 12));
+                            var eps = Epsilon * PhysicalConstants.JoulePerEv;
+                            var d1 = 4 * eps * (-12 * s12 + 6 * s6) / d;
+                            var d2 = 4 * eps * (156 * s12 - 42 * s6) / (d * d);
+                            total += (d2 - d1 / d) * Math.Pow(n(r) * q(r), 2) / (d * d) + d1 / d * q(r) * q(r);
+                        }
+                    }
+                }
+
+                return total / (2 * Math.Pow(aNm * 1e-9, 3) / 4) / 1e9;
+            }
+
+            var c11 = Sum(r => r.X, r => r.X);
+            var c44 = Sum(r => r.Y, r => r.X);
+            var l110 = Sum(r => (r.X + r.Y) / Math.Sqrt(2), r => (r.X + r.Y) / Math.Sqrt(2));
+            Approx.Equal(c11, c.C11Gpa, 1e-8, $"C11 at a = {aNm} nm");
+            Approx.Equal(c44, c.C44Gpa, 1e-8, $"C44 at a = {aNm} nm");
+            Approx.Equal(2 * l110 - c11 - 2 * c44, c.C12Gpa, 1e-8, $"C12 at a = {aNm} nm");
+        }
+    }
+
+    [Fact]
     public void Static_pressure_is_minus_the_volume_derivative_of_the_energy()
     {
         // Finite difference of E(V) per cell against the reported pressure (common practice, no source).

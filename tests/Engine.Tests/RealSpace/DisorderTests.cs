@@ -3,6 +3,7 @@ using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Springs;
 using LatticeSweep.Engine.Tests.Support;
+using LatticeSweep.Engine.Units;
 
 namespace LatticeSweep.Engine.Tests.RealSpace;
 
@@ -96,6 +97,50 @@ public sealed class DisorderTests
         }
 
         Approx.Equal(expected.Summary.MaxFrequencyThz, actual.Summary.MaxFrequencyThz, 1e-9, "max frequency");
+    }
+
+    [Fact]
+    public void Every_configuration_keeps_the_trace_sum_rule_and_the_averages_are_those_of_the_listed_modes()
+    {
+        // Sum of omega^2 over a configuration's modes = Tr(M^-1 Phi) = 2K sum_i 1/m_i for a scalar ring with
+        // nearest-neighbour springs, wherever the substitutes sit (trace invariance, common practice, no source).
+        // The exact number of substitutes is the nearest whole number to c N (README), so the sum is known.
+        // Cv, S, U and F are then the oscillator formulas summed over each configuration's listed modes, zero
+        // mode left out, and averaged over the configurations (Ashcroft and Mermin, ch. 23, from memory).
+        const int atoms = 40;
+        const double heavyAmu = 50, concentration = 0.25;
+        var sample = RealSpaceSample.Box(atoms, 1, 1) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", heavyAmu, concentration, 1.0)], 5, Seed: 3),
+        };
+        double[] temperatures = [5, 50, 300];
+        var result = PhononSolver.Solve(Crystals.ScalarChain(), sample, new SolveOptions { TemperaturesK = [.. temperatures] });
+
+        const double amu = PhysicalConstants.AtomicMassKg;
+        var substitutes = (int)Math.Round(concentration * atoms);
+        var trace = 2 * Crystals.SpringNPerM * (((atoms - substitutes) / (Crystals.MassAmu * amu)) + (substitutes / (heavyAmu * amu)));
+        var configurations = result.Modes.GroupBy(m => m.Configuration!.Value).OrderBy(g => g.Key)
+            .Select(g => g.SelectMany(m => Enumerable.Repeat(m.FrequencyThz * 2e12 * Math.PI, (int)m.Multiplicity)).ToArray()).ToArray();
+        Assert.Equal(5, configurations.Length);
+        foreach (var omegas in configurations)
+        {
+            Assert.Equal(atoms, omegas.Length);
+            Approx.Equal(trace, omegas.Sum(w => w * w), 1e-12, "sum of omega^2");
+        }
+
+        for (var i = 0; i < temperatures.Length; i++)
+        {
+            var kT = PhysicalConstants.BoltzmannJPerK * temperatures[i];
+            var perMol = PhysicalConstants.AvogadroPerMol / atoms;
+            double Average(Func<double, double> perMode) =>
+                configurations.Average(omegas => omegas.Where(w => w > 1e6).Sum(perMode)) * perMol;
+            double X(double w) => PhysicalConstants.HbarJS * w / kT;
+            var row = result.Thermal[i];
+            Approx.Equal(Average(w => kT / temperatures[i] * X(w) * X(w) * Math.Exp(X(w)) / Math.Pow(double.ExpM1(X(w)), 2)), row.HeatCapacityJPerMolK, 1e-8, $"Cv at {temperatures[i]} K");
+            Approx.Equal(Average(w => kT / temperatures[i] * ((X(w) / double.ExpM1(X(w))) - Math.Log(-double.ExpM1(-X(w))))), row.EntropyJPerMolK, 1e-8, $"S at {temperatures[i]} K");
+            Approx.Equal(Average(w => kT * ((X(w) / 2) + (X(w) / double.ExpM1(X(w))))), row.InternalEnergyJPerMol, 1e-8, $"U at {temperatures[i]} K");
+            Approx.Equal(Average(w => kT * ((X(w) / 2) + Math.Log(-double.ExpM1(-X(w))))), row.FreeEnergyJPerMol, 1e-8, $"F at {temperatures[i]} K");
+        }
     }
 
     [Fact]

@@ -60,6 +60,37 @@ public sealed class QueueCommandsTests : IDisposable
     }
 
     [Fact]
+    public void Resume_queues_no_chunk_that_is_still_in_the_queue_and_every_point_runs_once()
+    {
+        Assert.Equal(0, Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart).ExitCode);
+
+        // Nothing has run: every chunk is still queued, so resume (and submitting the same file again) adds no job.
+        var resumed = Support.Cli.Run(_dir.Path, "resume", "quickstart", "--queue-only");
+        Assert.True(resumed.ExitCode == 0, resumed.Stdout + resumed.Stderr);
+        Assert.Contains("0 chunks queued again, 5 still in the queue (24 points without results)", resumed.Stdout, StringComparison.Ordinal);
+        Assert.Equal(0, Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart).ExitCode);
+        Assert.Equal(["c00000", "c00001", "c00002", "c00003", "c00004"], EnqueuedChunks().Order(StringComparer.Ordinal));
+
+        var worked = Support.Cli.Run(_dir.Path, "work", "--workers", "2");
+        Assert.True(worked.ExitCode == 0, worked.Stdout + worked.Stderr);
+        Assert.Empty(EnqueuedChunks());
+        using (var catalog = new LatticeSweep.Worker.Catalog.SqliteSweepCatalog(_dir.Combine(StoreLocation.DefaultRelativePath), TimeProvider.System))
+        {
+            var sweep = catalog.ListSweeps().Single();
+            var points = catalog.GetPoints(sweep.SweepId, new LatticeSweep.Worker.Catalog.PointQuery(Limit: 100));
+            Assert.Equal(24, points.Count);
+            Assert.All(points, p => Assert.Equal(1, p.Attempts));
+        }
+    }
+
+    private List<string> EnqueuedChunks()
+    {
+        using var storage = new Hangfire.Storage.SQLite.SQLiteStorage(_dir.Combine(StoreLocation.DefaultRelativePath), new Hangfire.Storage.SQLite.SQLiteStorageOptions());
+        var monitor = storage.GetMonitoringApi();
+        return [.. monitor.EnqueuedJobs(ChunkJob.QueueName, 0, 100).Select(j => (string)j.Value.Job.Args[1])];
+    }
+
+    [Fact]
     public void The_reclaim_time_is_refused_on_the_sqlite_store_and_checked_from_the_environment_on_postgres()
     {
         var onSqlite = Support.Cli.Run(_dir.Path, "work", "--reclaim-after", "30");

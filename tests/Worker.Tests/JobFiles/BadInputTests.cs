@@ -42,6 +42,26 @@ public sealed class BadInputTests : IDisposable
     }
 
     [Fact]
+    public void An_axis_listing_only_the_base_sample_kind_needs_only_that_kind_s_keys()
+    {
+        // A one-value sample.kind axis gives every point the kind [sample] already has: no mesh is needed.
+        var sweep = "[[sweep.axes]]\npath = \"sample.kind\"\nvalues = [\"finite\"]";
+        var plan = Some.Load(_dir, Some.ChainJob(sweep: sweep));
+        Assert.Single(plan.Points);
+    }
+
+    [Fact]
+    public void An_axis_with_both_sample_kinds_needs_the_mesh_beside_the_cells()
+    {
+        var sweep = "[[sweep.axes]]\npath = \"sample.kind\"\nvalues = [\"finite\", \"bulk\"]";
+        var text = Some.ChainJob(sweep: sweep);
+        var p = Single(text, "sample");
+        Assert.Equal(Some.LineOf(text, "kind = \"finite\""), p.Line);
+        Assert.Contains("a bulk sample needs mesh", p.Message, StringComparison.Ordinal);
+        Assert.Contains("(sample.kind is swept)", p.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Duplicate_key_is_a_syntax_error_not_a_silent_overwrite()
     {
         var text = Some.ChainJob().Replace("constant_nm = 0.5", "constant_nm = 0.5\nconstant_nm = 0.6", StringComparison.Ordinal);

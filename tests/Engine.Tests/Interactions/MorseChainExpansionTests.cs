@@ -1,0 +1,133 @@
+using LatticeSweep.Engine.Interactions;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QuasiHarmonic;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Tests.Support;
+using LatticeSweep.Engine.Units;
+
+namespace LatticeSweep.Engine.Tests.Interactions;
+
+/// <summary>
+/// The quasi-harmonic expansion of an invented Morse chain (scalar motion, nearest neighbours only,
+/// a periodic ring of N atoms) against a reference that shares nothing with the solver: its modes
+/// are the closed form w_n = 2 sqrt(phi''(a)/m) |sin(pi n / N)| (Ashcroft and Mermin, ch. 22, from
+/// memory), and its lattice constant at each temperature is the root of dF/da = 0 with
+/// F(a, T) = phi(a) + (1/N) sum_n [hbar w_n / 2 + kB T ln(1 - exp(-hbar w_n / kB T))], found by bisection
+/// (no volume grid, no fit). Since every w_n scales as sqrt(phi''), dF/da = phi' + (phi'''/(2 phi'')) u,
+/// u the vibrational energy per atom, zero-point energy included (quasi-harmonic free energy,
+/// Ashcroft and Mermin, ch. 25, from memory).
+/// </summary>
+public class MorseChainExpansionTests
+{
+    private const int Atoms = 64;
+    private const double MassAmu = 30;
+    private const double DepthEv = 0.3;
+    private const double R0Nm = 0.29;
+    private const double WidthPerNm = 15;
+
+    private static readonly double[] Temperatures = [0, 20, 49.5, 50, 50.5, 299.5, 300, 300.5, 500];
+
+    private static double D => DepthEv * PhysicalConstants.JoulePerEv;
+
+    private static double Alpha => WidthPerNm / PhysicalConstants.MetresPerNm;
+
+    private static double E(double aM) => Math.Exp(-Alpha * (aM - R0Nm * PhysicalConstants.MetresPerNm));
+
+    private static double Phi1(double aM) => 2 * D * Alpha * (E(aM) - E(aM) * E(aM));
+
+    private static double Phi2(double aM) => D * Alpha * Alpha * (4 * E(aM) * E(aM) - 2 * E(aM));
+
+    private static double Phi3(double aM) => D * Alpha * Alpha * Alpha * (2 * E(aM) - 8 * E(aM) * E(aM));
+
+    private static IEnumerable<double> Omegas(double aM) =>
+        Enumerable.Range(1, Atoms - 1).Select(n => 2 * Math.Sqrt(Phi2(aM) / (MassAmu * PhysicalConstants.AtomicMassKg)) * Math.Abs(Math.Sin(Math.PI * n / Atoms)));
+
+    /// <summary>Vibrational energy per atom, J, zero-point energy included.</summary>
+    private static double EnergyPerAtom(double aM, double t) => Omegas(aM).Sum(w =>
+    {
+        var quantum = PhysicalConstants.HbarJS * w;
+        return quantum / 2 + (t > 0 ? quantum / double.ExpM1(quantum / (PhysicalConstants.BoltzmannJPerK * t)) : 0);
+    }) / Atoms;
+
+    private static double HeatCapacityPerMol(double aM, double t) => Omegas(aM).Sum(w =>
+    {
+        var x = PhysicalConstants.HbarJS * w / (PhysicalConstants.BoltzmannJPerK * t);
+        return x * x * Math.Exp(x) / (double.ExpM1(x) * double.ExpM1(x));
+    }) / Atoms * PhysicalConstants.GasConstantJPerMolK;
+
+    private static double Force(double aM, double t) => Phi1(aM) + Phi3(aM) / (2 * Phi2(aM)) * EnergyPerAtom(aM, t);
+
+    /// <summary>The root of dF/da between the static minimum and 10 % beyond it.</summary>
+    private static double LatticeConstantM(double t)
+    {
+        var (lo, hi) = (R0Nm * 1e-9, R0Nm * 1.1e-9);
+        for (var i = 0; i < 200 && hi - lo > 1e-24; i++)
+        {
+            var mid = (lo + hi) / 2;
+            (lo, hi) = Force(mid, t) < 0 ? (mid, hi) : (lo, mid);
+        }
+
+        return (lo + hi) / 2;
+    }
+
+    private static ExpansionRow[] Solve()
+    {
+        var chain = CrystalModel.Create(
+            Lattice.Chain(0.3), [new Site("M", "M", Vec3.Zero, MassAmu)], degreesOfFreedom: DegreesOfFreedom.Scalar,
+            potentials: [new PotentialTerm("M", "M", new MorsePotential(DepthEv, R0Nm, WidthPerNm), 0.45, ShiftAtCutoff: false)]);
+        var relaxed = chain.Scaled(StaticLattice.Analyse(chain)!.EquilibriumScale);
+        var options = new SolveOptions
+        {
+            TemperaturesK = [.. Temperatures],
+            ReferenceTemperatureK = 300,
+            PartialDos = false,
+            MeanSquareDisplacement = false,
+            Expansion = new ExpansionOptions { VolumeCount = 9, LargestLinearStrain = 0.03 },
+        };
+        return [.. PhononSolver.Solve(relaxed, FiniteSample.Create(Atoms), options).Expansion!.Rows];
+    }
+
+    [Fact]
+    public void Lattice_constant_modulus_and_heat_capacity_follow_the_closed_form_free_energy()
+    {
+        var rows = Solve();
+        Assert.Equal(Temperatures.Length, rows.Length);
+        for (var i = 0; i < rows.Length; i++)
+        {
+            var t = Temperatures[i];
+            var row = rows[i];
+            Assert.Null(row.Breakdown);
+            var a = LatticeConstantM(t);
+            // The solver minimises a polynomial fit of F over the volumes solved: 2e-7 off at 500 K (3.5 % strain).
+            Approx.Equal(a * 1e9, row.LatticeConstantNm!.Value, 1e-6, $"a({t} K)");
+            Approx.Equal(a / (R0Nm * 1e-9), row.VolumeRatio!.Value, 1e-6, $"L / L_static ({t} K)");
+
+            // Isothermal length modulus a d2F/da2 per atom (1D), from dF/da by a central difference.
+            var h = 1e-6 * a;
+            var modulus = a * (Force(a + h, t) - Force(a - h, t)) / (2 * h);
+            Approx.Equal(modulus, row.IsothermalBulkModulusN!.Value, 1e-4, $"B_T ({t} K)");
+
+            // The solver takes Cv at V(T) from its fit over the volumes solved: round-off and fit, ~1e-7 here.
+            var cv = t > 0 ? HeatCapacityPerMol(a, t) : 0;
+            Approx.Equal(cv, row.CvJPerMolK!.Value, 1e-6, $"Cv at a(T) ({t} K)", absolute: 1e-12);
+        }
+    }
+
+    [Fact]
+    public void The_expansion_coefficient_is_the_slope_of_the_closed_form_lattice_constant()
+    {
+        var rows = Solve();
+        foreach (var t in new[] { 50.0, 300.0 })
+        {
+            var slope = (LatticeConstantM(t + 0.5) - LatticeConstantM(t - 0.5)) / LatticeConstantM(t);
+            var row = rows[Array.IndexOf(Temperatures, t)];
+            Approx.Equal(slope, row.LinearExpansionPerK!.Value, 2e-3, $"alpha_L ({t} K)");
+            Approx.Equal(row.LinearExpansionPerK.Value, row.VolumeExpansionPerK!.Value, 1e-12, "1D: alpha_V = alpha_L");
+        }
+
+        // A Morse bond stiffens on compression (phi''' < 0), so the chain expands, and more so when hot.
+        Assert.Equal(0, rows[0].LinearExpansionPerK);
+        Assert.True(rows[^1].LinearExpansionPerK > rows[Array.IndexOf(Temperatures, 300.0)].LinearExpansionPerK);
+    }
+}
