@@ -16,8 +16,8 @@ namespace LatticeSweep.Engine.Dos;
 /// <para>
 /// Why not always more nodes: every ray costs seven solves. The average is cheap to evaluate from the
 /// long-wave Christoffel form Gamma(u) = sum_jl u_j u_l A_jl (d (d + 1) / 2 downfolded long-wave
-/// matrices), so each candidate rule is tried on it against a fine rule and the smallest one within
-/// <see cref="Tolerance"/> is taken; models whose speeds vary little keep the default rule and their
+/// matrices), so each candidate rule is tried on it against the rule of twice its nodes and the
+/// smallest one within <see cref="Tolerance"/> is taken; models whose speeds vary little keep the default rule and their
 /// numbers. The Christoffel matrix is quadratic in u exactly (Born and Huang, ch. 5; from memory).
 /// </para>
 /// </summary>
@@ -32,8 +32,6 @@ internal static class LongWaveFaceRule
 
     private static readonly int[] Candidates3d = [8, 12, 16, 24, 32, 48];
     private static readonly int[] Candidates2d = [16, 24, 32, 48, 64, 96];
-    private const int Reference3d = 96;
-    private const int Reference2d = 256;
 
     /// <summary>
     /// The face rule for rays over the box with these edges, or the default when the long-wave form
@@ -50,16 +48,20 @@ internal static class LongWaveFaceRule
         }
 
         double Density(Vec3 u) => InverseSpeedSum(form, crystal.Components, d, u);
-        var reference = Average(edges, d, d == 3 ? Reference3d : Reference2d, Density);
-        if (!(reference > 0) || double.IsInfinity(reference))
-        {
-            return fallback;
-        }
 
+        // Each candidate against the rule of twice its nodes, whose own error is far smaller (Gauss
+        // rules on a smooth integrand), so the check costs a few hundred evaluations for most models.
         var candidates = d == 3 ? Candidates3d : Candidates2d;
         foreach (var nodes in candidates)
         {
-            if (Math.Abs((Average(edges, d, nodes, Density) / reference) - 1) <= Tolerance)
+            var coarse = Average(edges, d, nodes, Density);
+            var fine = Average(edges, d, 2 * nodes, Density);
+            if (!(fine > 0) || double.IsInfinity(fine) || double.IsNaN(coarse))
+            {
+                return fallback;
+            }
+
+            if (Math.Abs((coarse / fine) - 1) <= Tolerance)
             {
                 return nodes;
             }
