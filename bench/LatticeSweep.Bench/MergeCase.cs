@@ -52,23 +52,7 @@ internal static class MergeCase
                 Directory.Delete(folder, recursive: true);
             }
 
-            var sweep = new SweepRecord
-            {
-                SweepId = "bench-merge",
-                Name = plan.SweepName,
-                Description = plan.Description,
-                State = SweepState.Running,
-                SpecHash = plan.SpecHash,
-                SourcePath = Path.GetFullPath(jobFile),
-                SpecText = plan.SpecText,
-                OutputFolder = folder,
-                Axes = plan.Axes,
-                Tables = [.. TableNames.For(plan.Outputs)],
-                EngineVersion = EnginePointSolver.Instance.EngineVersion,
-                CreatedAt = start,
-                ChunkCount = chunks,
-                Counts = SweepCounts.Empty,
-            };
+            var sweep = BenchSweeps.Record(plan, jobFile, "bench-merge", folder, start, chunks);
             var outputs = ChunkOutputWriter.OutputsOf(sweep);
             var p0 = Process.GetCurrentProcess().TotalProcessorTime;
             foreach (var chunk in outcomes.GroupBy(o => o.ChunkId))
@@ -99,7 +83,8 @@ internal static class MergeCase
             ["chunks"] = chunks,
             ["parts_cpu_s"] = partsCpu,
             ["merge_cpu_s"] = cpu,
-            ["merge_warm_cpu_s_median"] = warm.Count > 0 ? warm[warm.Count / 2] : double.NaN,
+            // JSON has no NaN: with one repeat (no warm merge) the median is left out as null.
+            ["merge_warm_cpu_s_median"] = warm.Count > 0 ? warm[warm.Count / 2] : null!,
         };
     }
 }

@@ -47,23 +47,7 @@ internal static class RowsCase
             Directory.Delete(folder, recursive: true);
         }
 
-        var sweep = new SweepRecord
-        {
-            SweepId = "bench-rows",
-            Name = plan.SweepName,
-            Description = plan.Description,
-            State = SweepState.Running,
-            SpecHash = plan.SpecHash,
-            SourcePath = Path.GetFullPath(jobFile),
-            SpecText = plan.SpecText,
-            OutputFolder = folder,
-            Axes = plan.Axes,
-            Tables = [.. TableNames.For(plan.Outputs)],
-            EngineVersion = EnginePointSolver.Instance.EngineVersion,
-            CreatedAt = start,
-            ChunkCount = 1,
-            Counts = SweepCounts.Empty,
-        };
+        var sweep = BenchSweeps.Record(plan, jobFile, "bench-rows", folder, start, 1);
         var outputs = ChunkOutputWriter.OutputsOf(sweep);
 
         // Warm-up, then the timed repeats: rows and Parquet together as a chunk runs them.

@@ -123,7 +123,8 @@ internal sealed partial class SweepModel : PageModel
             var submitter = new SweepSubmitter(_board.Store, EnginePointSolver.Instance, ChunkPlanner.Default, _board.Time, Serilog.Core.Logger.None);
             var result = submitter.Resume(sweep);
             LogResumed(_log, sweep.SweepId, result.ChunksQueued);
-            return RedirectToPage(new { sweepId, notice = result.ChunksQueued > 0 ? "resumed" : "unchanged" });
+            // A chunk still in the queue (a cancel leaves its job there) runs its waiting points again without a second job.
+            return RedirectToPage(new { sweepId, notice = result.ChunksQueued + result.ChunksStillQueued > 0 ? "resumed" : "unchanged" });
         }
         catch (Exception ex) when (ex is OutputFolderException or PlanUnavailableException)
         {

@@ -185,7 +185,7 @@ public abstract partial class SqlSweepCatalog
 
     /// <summary>
     /// Gives a pending chunk's points their rows (in the chunk's pending state) and marks the chunk
-    /// as having them; nothing when it has them already or is not a registered chunk. Call under the sweep's lock.
+    /// as having them (pending state null, text kept); nothing when it has them already or is not a registered chunk. Call under the sweep's lock.
     /// </summary>
     private void EnsureChunkRows(DbConnection c, DbTransaction tx, string sweepId, string chunkId)
     {
@@ -208,7 +208,9 @@ public abstract partial class SqlSweepCatalog
         }
 
         InsertChunkPoints(c, tx, sweepId, chunkId, json, state);
-        Execute(c, tx, "UPDATE latsweep_chunks SET pending_state = NULL, points_json = NULL WHERE sweep_id = @sweep AND chunk_id = @chunk",
+
+        // The text stays: FindPoint finds a point's chunk by it (see CatalogSchema).
+        Execute(c, tx, "UPDATE latsweep_chunks SET pending_state = NULL WHERE sweep_id = @sweep AND chunk_id = @chunk",
             ("sweep", sweepId), ("chunk", chunkId));
     }
 

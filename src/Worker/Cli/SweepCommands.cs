@@ -47,7 +47,7 @@ internal static class SweepCommands
         var submitted = Submitter(session, context).Submit(plan, outRoot);
         var sweep = submitted.Sweep;
         ReportLostResults(submitted, context);
-        context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} chunks to run ({sweep.Counts.Unfinished} points without results).");
+        context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} chunks to run{StillQueued(submitted)} ({sweep.Counts.Unfinished} points without results).");
         context.Stdout.WriteLine($"Results will be in {sweep.OutputFolder}");
         context.Stdout.WriteLine($"Work it with: latsweep work{StoreHint(line)}");
         StageTimings.WriteIfEnabled(context.Stderr);
@@ -73,6 +73,10 @@ internal static class SweepCommands
     }
 
     /// <summary>Says on stdout, not only in the log, that results the store knew of were missing and run again.</summary>
+    /// <summary>", N more still in the queue" when a submit of a known sweep found chunks whose job is still queued (not queued twice).</summary>
+    private static string StillQueued(SubmitResult result) =>
+        result.ChunksStillQueued > 0 ? $", {result.ChunksStillQueued} more still in the queue" : "";
+
     private static void ReportLostResults(SubmitResult result, CliContext context)
     {
         if (result.LostChunks > 0)
