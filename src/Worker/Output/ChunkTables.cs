@@ -40,7 +40,7 @@ internal static class ChunkTables
 
         if (outputs.Thermal)
         {
-            tables.Add(schemas.Thermal.Rows(solved.SelectMany(ThermalRows)));
+            tables.Add((typedColumns ? LongTableColumns.Thermal(schemas.Thermal, solved) : null) ?? schemas.Thermal.Rows(solved.SelectMany(ThermalRows)));
         }
 
         if (outputs.Dispersion)
@@ -84,17 +84,28 @@ internal static class ChunkTables
     /// <summary>Each thermal row with the conductivity at the same temperature (the Engine lists both in the order of the temperatures asked for).</summary>
     private static IEnumerable<RowOf<ThermalValue>> ThermalRows(PointOutcome o)
     {
-        var thermal = o.Result!.Thermal;
-        var kappa = o.Result.Conductivity?.ByTemperature ?? [];
-        var periodic = o.Result.Surface?.PeriodicCvJPerMolK ?? [];
-        var ordered = o.Result.Ordered?.Thermal ?? [];
-        var confined = o.Result.ConfinedConductivity?.ByTemperature ?? [];
-        for (var i = 0; i < thermal.Length; i++)
+        for (var i = 0; i < o.Result!.Thermal.Length; i++)
         {
-            var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
-            var errors = o.Result.Errors?.Thermal is { } e && i < e.Length ? e[i] : null;
-            yield return new RowOf<ThermalValue>(o, new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors, OrderedCvJPerMolK = i < ordered.Length ? ordered[i].HeatCapacityJPerMolK : null, Confined = i < confined.Length ? confined[i] : null });
+            yield return new RowOf<ThermalValue>(o, ThermalAt(o.Result, i));
         }
+    }
+
+    /// <summary>
+    /// Thermal row <paramref name="i"/> of a result with what goes beside it: the conductivity when it
+    /// is at the same temperature, the periodic and ordered crystals' Cv, the standard errors and the
+    /// confined conductivity, each when the result has one at that index. Shared by the row path and
+    /// <see cref="LongTableColumns.Thermal"/>, so both put the same values in the same rows.
+    /// </summary>
+    internal static ThermalValue ThermalAt(Engine.Results.PointResult result, int i)
+    {
+        var thermal = result.Thermal;
+        var kappa = result.Conductivity?.ByTemperature ?? [];
+        var periodic = result.Surface?.PeriodicCvJPerMolK ?? [];
+        var ordered = result.Ordered?.Thermal ?? [];
+        var confined = result.ConfinedConductivity?.ByTemperature ?? [];
+        var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
+        var errors = result.Errors?.Thermal is { } e && i < e.Length ? e[i] : null;
+        return new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors, OrderedCvJPerMolK = i < ordered.Length ? ordered[i].HeatCapacityJPerMolK : null, Confined = i < confined.Length ? confined[i] : null };
     }
 
     private static IEnumerable<RowOf<LayerDosValue>> LayerDosRows(PointOutcome o)

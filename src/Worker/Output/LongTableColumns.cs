@@ -17,7 +17,7 @@ namespace LatticeSweep.Worker.Output;
 /// this builder does not know is left to the generic path (null), so adding a column cannot
 /// change a file. Tests hold both paths equal cell by cell.
 /// </remarks>
-internal static class LongTableColumns
+internal static partial class LongTableColumns
 {
     /// <summary>dos/: each point's total curve, then each site's partial curve, as <c>ChunkTables.DosRows</c> lists them.</summary>
     public static TableRows? Dos(TableSpec<RowOf<DosValue>> spec, IReadOnlyList<PointOutcome> points)

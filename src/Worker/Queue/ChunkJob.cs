@@ -1,4 +1,6 @@
+using System.Reflection;
 using Hangfire;
+using Hangfire.Common;
 using Hangfire.Server;
 
 namespace LatticeSweep.Worker.Queue;
@@ -18,12 +20,22 @@ public sealed class ChunkJob
     /// <summary>How many times the queue runs a chunk again after it failed as a whole.</summary>
     public const int Retries = 3;
 
+    private static readonly MethodInfo RunMethod = typeof(ChunkJob).GetMethod(nameof(RunAsync))!;
+
     private readonly ChunkRunner _runner;
 
     public ChunkJob(ChunkRunner runner)
     {
         _runner = runner;
     }
+
+    /// <summary>
+    /// The queue job of one chunk: the same type, method and arguments as
+    /// <c>Job.FromExpression&lt;ChunkJob&gt;(j =&gt; j.RunAsync(sweepId, chunkId, null, CancellationToken.None))</c>,
+    /// so the same stored invocation, without building and evaluating an expression tree per chunk
+    /// (the first evaluation compiles it: code a fresh run would otherwise JIT).
+    /// </summary>
+    public static Job For(string sweepId, string chunkId) => new(typeof(ChunkJob), RunMethod, sweepId, chunkId, null!, CancellationToken.None);
 
     /// <param name="sweepId">The sweep.</param>
     /// <param name="chunkId">The chunk within it.</param>

@@ -190,7 +190,7 @@ public sealed class SweepSubmitter
             var jobs = new List<BackgroundJob>(batch.Length);
             foreach (var chunkId in batch)
             {
-                var job = Job.FromExpression<ChunkJob>(j => j.RunAsync(sweepId, chunkId, null, CancellationToken.None));
+                var job = ChunkJob.For(sweepId, chunkId);
                 var createdAt = DateTime.UtcNow;
                 var jobId = connection.CreateExpiredJob(job, new Dictionary<string, string?>(), createdAt, TimeSpan.FromDays(30));
                 jobs.Add(new BackgroundJob(jobId, job, createdAt));

@@ -58,24 +58,12 @@ public sealed class LongTableColumnsTests : IDisposable
         var typed = ChunkTables.Build(schemas, outputs, outcomes, typedColumns: true);
         var generic = ChunkTables.Build(schemas, outputs, outcomes, typedColumns: false);
 
-        Assert.Equal(generic.Select(t => t.Table), typed.Select(t => t.Table));
-        foreach (var (g, t) in generic.Zip(typed))
-        {
-            Assert.Equal(g.Columns.Select(c => c.Name), t.Columns.Select(c => c.Name));
-            Assert.Equal(g.RowCount, t.RowCount);
-            for (var c = 0; c < g.Columns.Count; c++)
-            {
-                Assert.Equal(g.Values[c].GetType(), t.Values[c].GetType());
-                for (var r = 0; r < g.RowCount; r++)
-                {
-                    Assert.True(Equals(g.Cell(r, c), t.Cell(r, c)), $"{g.Table}.{g.Columns[c].Name} row {r}: {g.Cell(r, c)} against {t.Cell(r, c)}");
-                }
-            }
-        }
+        AssertSameCells(generic, typed);
 
         // The typed builders did build these tables (no fall-back to the generic path).
         var solved = outcomes.Where(o => o.State == PointState.Done).ToList();
         Assert.NotNull(LongTableColumns.Dos(schemas.Dos, solved));
+        Assert.NotNull(LongTableColumns.Thermal(schemas.Thermal, solved));
         Assert.NotNull(LongTableColumns.Displacements(schemas.Displacements, solved));
         Assert.NotNull(LongTableColumns.SoundSpeeds(schemas.SoundSpeeds, solved));
         Assert.NotNull(LongTableColumns.Modes(schemas.Modes, outcomes.Where(o => o.Result is not null).ToList()));
@@ -83,8 +71,36 @@ public sealed class LongTableColumnsTests : IDisposable
         // Every long table is non-trivial here: several points, partial curves, the sweep's three kinds of axis.
         var dos = typed.Single(t => t.Table == TableNames.Dos);
         Assert.Contains("site", (string?[])dos.Values[dos.Columns.ToList().FindIndex(c => c.Name == "curve")]);
-        Assert.All(new[] { TableNames.Dos, TableNames.Modes, TableNames.MeanSquareDisplacements, TableNames.SoundSpeeds }, name =>
+        Assert.All(new[] { TableNames.Dos, TableNames.Modes, TableNames.MeanSquareDisplacements, TableNames.SoundSpeeds, TableNames.Thermal }, name =>
             Assert.True(typed.Single(t => t.Table == name).RowCount > outcomes.Count, name));
+    }
+
+    /// <summary>
+    /// thermal/'s optional columns (conductivity, a film's confined conductivity, the ordered crystal's
+    /// Cv and the standard errors of a disordered sample) are filled by the typed builder as by the row
+    /// path: example jobs of jobs/ that compute them, their first four points (one marked unstable,
+    /// one failed, as above).
+    /// </summary>
+    [Theory]
+    [InlineData("thin-film-size.toml", "kappa_w_per_m_k")]
+    [InlineData("film-thickness.toml", "kappa_confined_w_per_m_k")]
+    [InlineData("isotope-mixture.toml", "ordered_cv_j_per_mol_k")]
+    [InlineData("isotope-mixture.toml", "cv_stderr_j_per_mol_k")]
+    public void Typed_thermal_table_equals_the_row_path_where_its_optional_columns_are_filled(string job, string filledColumn)
+    {
+        var plan = JobFileLoader.Load(Path.Combine(Support.Cli.JobsFolder, job));
+        var outcomes = Outcomes(plan, take: 4);
+        var schemas = new ResultSchemas(plan.Axes);
+        var solved = outcomes.Where(o => o.State == PointState.Done).ToList();
+
+        var typed = LongTableColumns.Thermal(schemas.Thermal, solved);
+        var generic = schemas.Thermal.Rows(solved.SelectMany(o => Enumerable.Range(0, o.Result!.Thermal.Length)
+            .Select(i => new RowOf<ThermalValue>(o, ChunkTables.ThermalAt(o.Result, i)))));
+
+        Assert.NotNull(typed);
+        AssertSameCells([generic], [typed]);
+        var column = typed.Columns.ToList().FindIndex(c => c.Name == filledColumn);
+        Assert.Contains(((double?[])typed.Values[column]), v => v is not null);
     }
 
     [Fact]
@@ -102,12 +118,30 @@ public sealed class LongTableColumnsTests : IDisposable
         Assert.NotNull(LongTableColumns.Modes(schemas.Modes, outcomes));
     }
 
-    /// <summary>Every point solved by the Engine, in point-id order as a chunk passes them; one marked unstable and one failed without a result, so the tables' point filters are crossed too.</summary>
-    private static List<PointOutcome> Outcomes(SweepPlan plan)
+    private static void AssertSameCells(IReadOnlyList<TableRows> generic, IReadOnlyList<TableRows> typed)
+    {
+        Assert.Equal(generic.Select(t => t.Table), typed.Select(t => t.Table));
+        foreach (var (g, t) in generic.Zip(typed))
+        {
+            Assert.Equal(g.Columns.Select(c => c.Name), t.Columns.Select(c => c.Name));
+            Assert.Equal(g.RowCount, t.RowCount);
+            for (var c = 0; c < g.Columns.Count; c++)
+            {
+                Assert.Equal(g.Values[c].GetType(), t.Values[c].GetType());
+                for (var r = 0; r < g.RowCount; r++)
+                {
+                    Assert.True(Equals(g.Cell(r, c), t.Cell(r, c)), $"{g.Table}.{g.Columns[c].Name} row {r}: {g.Cell(r, c)} against {t.Cell(r, c)}");
+                }
+            }
+        }
+    }
+
+    /// <summary>Every point (or the first <paramref name="take"/>) solved by the Engine, in point-id order as a chunk passes them; one marked unstable and one failed without a result, so the tables' point filters are crossed too.</summary>
+    private static List<PointOutcome> Outcomes(SweepPlan plan, int? take = null)
     {
         var start = new DateTimeOffset(2026, 1, 2, 3, 4, 5, TimeSpan.Zero);
         var outcomes = new List<PointOutcome>();
-        for (var i = 0; i < plan.Points.Length; i++)
+        for (var i = 0; i < Math.Min(take ?? int.MaxValue, plan.Points.Length); i++)
         {
             var point = plan.Points[i];
             var result = EnginePointSolver.Instance.Solve(plan, point, default);
