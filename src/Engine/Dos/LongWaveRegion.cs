@@ -110,7 +110,7 @@ internal sealed class LongWaveRegion
         }
 
         var acoustic = crystal.Components;
-        var cellRays = CentredCellRays.Build(d, edges);
+        var cellRays = CentredCellRays.Build(d, edges, LongWaveFaceRule.Choose(crystal, edges));
         var epsilon = Math.Min(1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice), 1e-2 * cellRays.ShortestRayM);
         var rays = RayDispersion.MeasureAll(solver, cellRays.Rays, epsilon, fractions);
         var weights = new double[rays.Length];

@@ -52,6 +52,7 @@ internal static class LongWaveElasticity
     /// <summary>
     /// The Christoffel matrix (Pa) along a Cartesian direction, from two small wave vectors with
     /// Richardson extrapolation (the q^4 term cancels); null when the optical block is singular.
+    /// It is c x c for c displacement components per atom (3, 2 in the plane, 1 for the scalar model).
     /// </summary>
     public static double[,]? Christoffel(DynamicalMatrix matrix, Vec3 direction)
     {
@@ -66,10 +67,11 @@ internal static class LongWaveElasticity
         }
 
         var density = crystal.MassesKg.Sum() / lattice.CellMeasure;
-        var gamma = new double[3, 3];
-        for (var a = 0; a < 3; a++)
+        var c = crystal.Components;
+        var gamma = new double[c, c];
+        for (var a = 0; a < c; a++)
         {
-            for (var b = 0; b < 3; b++)
+            for (var b = 0; b < c; b++)
             {
                 var sym1 = (h1[a, b] + h1[b, a]) / 2;
                 var sym2 = (h2[a, b] + h2[b, a]) / 2;
@@ -90,10 +92,11 @@ internal static class LongWaveElasticity
         var basis = TranslationFirstBasis(crystal);
         var dm = Matrix<Complex>.Build.Dense(n, n, (i, j) => d[(i * n) + j]);
         var rotated = basis.Transpose() * dm * basis;
-        var h = rotated.SubMatrix(0, 3, 0, 3);
-        if (n > 3)
+        var c = crystal.Components;
+        var h = rotated.SubMatrix(0, c, 0, c);
+        if (n > c)
         {
-            var oo = rotated.SubMatrix(3, n - 3, 3, n - 3);
+            var oo = rotated.SubMatrix(c, n - c, c, n - c);
             var evd = oo.Evd(Symmetricity.Hermitian);
             var values = evd.EigenValues.Select(v => Math.Abs(v.Real)).ToArray();
             if (values.Min() <= 1e-10 * values.Max())
@@ -101,15 +104,15 @@ internal static class LongWaveElasticity
                 return null;
             }
 
-            var to = rotated.SubMatrix(0, 3, 3, n - 3);
-            var ot = rotated.SubMatrix(3, n - 3, 0, 3);
+            var to = rotated.SubMatrix(0, c, c, n - c);
+            var ot = rotated.SubMatrix(c, n - c, 0, c);
             h -= to * oo.Solve(ot);
         }
 
-        var result = new double[3, 3];
-        for (var a = 0; a < 3; a++)
+        var result = new double[c, c];
+        for (var a = 0; a < c; a++)
         {
-            for (var b = 0; b < 3; b++)
+            for (var b = 0; b < c; b++)
             {
                 result[a, b] = h[a, b].Real;
             }
@@ -118,18 +121,19 @@ internal static class LongWaveElasticity
         return result;
     }
 
-    /// <summary>A real orthonormal basis (columns) whose first three vectors are the mass-weighted rigid translations along x, y, z.</summary>
+    /// <summary>A real orthonormal basis (columns) whose first c vectors are the mass-weighted rigid translations, one per displacement component.</summary>
     private static Matrix<Complex> TranslationFirstBasis(CompiledCrystal crystal)
     {
         var n = crystal.Size;
+        var c = crystal.Components;
         var total = crystal.MassesKg.Sum();
         var columns = new List<double[]>(n);
-        for (var a = 0; a < 3; a++)
+        for (var a = 0; a < c; a++)
         {
             var t = new double[n];
             for (var s = 0; s < crystal.Sites; s++)
             {
-                t[(3 * s) + a] = Math.Sqrt(crystal.MassesKg[s] / total);
+                t[(c * s) + a] = Math.Sqrt(crystal.MassesKg[s] / total);
             }
 
             columns.Add(t);
@@ -139,17 +143,17 @@ internal static class LongWaveElasticity
         {
             var v = new double[n];
             v[e] = 1;
-            foreach (var c in columns)
+            foreach (var column in columns)
             {
                 var dot = 0.0;
                 for (var i = 0; i < n; i++)
                 {
-                    dot += c[i] * v[i];
+                    dot += column[i] * v[i];
                 }
 
                 for (var i = 0; i < n; i++)
                 {
-                    v[i] -= dot * c[i];
+                    v[i] -= dot * column[i];
                 }
             }
 

@@ -51,15 +51,19 @@ internal sealed class CentredCellRays
         return i < 0 || j < 0 || i >= along || j >= across ? -1 : (face * perFace) + (i * across) + j;
     }
 
-    /// <summary>Gauss-Legendre nodes per face direction: 8 x 8 on each 3D face, 16 on each 2D edge.</summary>
+    /// <summary>
+    /// Default Gauss-Legendre nodes per face direction: 8 x 8 on each 3D face, 16 on each 2D edge
+    /// (<see cref="Dos.LongWaveFaceRule"/> takes more where the sound speeds vary strongly with direction).
+    /// </summary>
     public static int FaceNodes(int dimension) => dimension == 2 ? 16 : 8;
 
     /// <param name="edges">The d edge vectors e_i (Cartesian, 1/m) of P.</param>
-    public static CentredCellRays Build(int dimension, IReadOnlyList<Vec3> edges)
+    /// <param name="faceNodes">Gauss-Legendre nodes per face direction; 0 for <see cref="FaceNodes"/>.</param>
+    public static CentredCellRays Build(int dimension, IReadOnlyList<Vec3> edges, int faceNodes = 0)
     {
         var d = dimension;
         var volume = Measure([.. edges], d);
-        var rule = new GaussLegendreRule(-0.5, 0.5, FaceNodes(d));
+        var rule = new GaussLegendreRule(-0.5, 0.5, faceNodes > 0 ? faceNodes : FaceNodes(d));
         var rays = new List<CellRay>();
         var shortest = double.PositiveInfinity;
         for (var face = 0; face < d; face++)

@@ -223,6 +223,22 @@ public class KineticTheoryTests
     }
 
     [Fact]
+    public void A_bulk_chain_with_one_relaxation_time_reaches_the_classical_closed_form()
+    {
+        // Classical limit, every mode carrying kB: kappa = (kB tau / (a A)) <v^2> over the zone, and for the
+        // monatomic chain v = a w0 cos(q a / 2) (Ashcroft and Mermin ch. 22) gives <v^2> = a^2 K / (2 m), so
+        // kappa = kB tau K a / (2 m A) (from memory). At 1e5 K the first quantum correction, -<x^2>/12 with
+        // x = hbar omega / kB T, is below 1e-6 for this model (omega_max = 4.3e13 rad/s). On a mesh of 64 the q = 0 cell, averaged
+        // rather than sampled, moves the mesh mean of cos^2 by 6.5e-6, hence 256.
+        const double springNPerM = 15.0, massAmu = 20.0, areaNm2 = 0.09, tauPs = 2.0, t = 1e5;
+        var options = new ConductivityOptions { Constant = new ConstantScattering(tauPs), CrossSectionNm2 = areaNm2 };
+        var result = Kappa.Compute(Crystals.ScalarChain(springNPerM, massAmu), BulkSample.Uniform(1, 256), options, t);
+        var expected = PhysicalConstants.BoltzmannJPerK * tauPs * 1e-12 * springNPerM * A * 1e-9
+            / (2 * massAmu * PhysicalConstants.AtomicMassKg * areaNm2 * 1e-18);
+        Approx.Equal(expected, result.AtReference.KappaWPerMK, 2e-6, "bulk chain kappa at 1e5 K, constant tau (mesh 256: the q = 0 cell average leaves ~1e-7)");
+    }
+
+    [Fact]
     public void A_sheet_is_divided_by_its_thickness_and_reports_the_in_plane_mean()
     {
         var options = new ConductivityOptions { Constant = new ConstantScattering(2.0), ThicknessNm = 0.5 };

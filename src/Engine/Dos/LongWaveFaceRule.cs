@@ -1,0 +1,237 @@
+using LatticeSweep.Engine.Elastic;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Spectrum;
+using MathNet.Numerics.Integration;
+
+namespace LatticeSweep.Engine.Dos;
+
+/// <summary>
+/// How many Gauss-Legendre nodes per face direction the long-wave rays of a bulk mesh need. At low
+/// temperature the rays give the heat capacity the angular average of sum_b v_b(u)^-d over directions
+/// u (the T^d law of the model's sound speeds), and the default face rule (8 x 8 per 3D face) misses it
+/// by more than 1e-4 when the speeds vary strongly with direction: 3e-3 on a simple cubic lattice
+/// with next-nearest springs a quarter of the nearest, 10 % with a twentieth (measured against a fine
+/// rule and against the T^3 law with the Christoffel speeds; docs/outside-checks.md).
+/// <para>
+/// Why not always more nodes: every ray costs seven solves. The average is cheap to evaluate from the
+/// long-wave Christoffel form Gamma(u) = sum_jl u_j u_l A_jl (d (d + 1) / 2 downfolded long-wave
+/// matrices), so each candidate rule is tried on it against the rule of twice its nodes and the
+/// smallest one within <see cref="Tolerance"/> is taken; models whose speeds vary little keep the default rule and their
+/// numbers. The Christoffel matrix is quadratic in u exactly (Born and Huang, ch. 5; from memory).
+/// </para>
+/// </summary>
+internal static class LongWaveFaceRule
+{
+    /// <summary>
+    /// Largest relative error of the angular average of sum_b v_b^-d a chosen rule may leave: half of the
+    /// 1e-4 the low-temperature heat capacity is held to, so mildly anisotropic models (the bench's
+    /// rock-salt ones leave 0.6-3e-5 with the default rule) keep the default and their cost.
+    /// </summary>
+    public const double Tolerance = 5e-5;
+
+    private static readonly int[] Candidates3d = [8, 12, 16, 24, 32, 48];
+    private static readonly int[] Candidates2d = [16, 24, 32, 48, 64, 96];
+
+    /// <summary>
+    /// The face rule for rays over the box with these edges, or the default when the long-wave form
+    /// cannot be had (a singular optical block, a long wave that is not stable: the region is not
+    /// used then anyway) or the dimension is 1 (a single direction, nothing to integrate).
+    /// </summary>
+    public static int Choose(CompiledCrystal crystal, IReadOnlyList<Vec3> edges)
+    {
+        var d = crystal.Lattice.Dimension;
+        var fallback = CentredCellRays.FaceNodes(d);
+        if (d == 1 || LongWaveForm(crystal, d) is not { } form)
+        {
+            return fallback;
+        }
+
+        double Density(Vec3 u) => InverseSpeedSum(form, crystal.Components, d, u);
+
+        // Each candidate against the rule of twice its nodes, whose own error is far smaller (Gauss
+        // rules on a smooth integrand), so the check costs a few hundred evaluations for most models.
+        var candidates = d == 3 ? Candidates3d : Candidates2d;
+        foreach (var nodes in candidates)
+        {
+            var coarse = Average(edges, d, nodes, Density);
+            var fine = Average(edges, d, 2 * nodes, Density);
+            if (!(fine > 0) || double.IsInfinity(fine) || double.IsNaN(coarse))
+            {
+                return fallback;
+            }
+
+            if (Math.Abs((coarse / fine) - 1) <= Tolerance)
+            {
+                return nodes;
+            }
+        }
+
+        return candidates[^1];
+    }
+
+    /// <summary>
+    /// A_jl (c x c each, for j &lt;= l &lt; d) with Gamma(u) = sum_j A_jj u_j^2 + 2 sum_{j&lt;l} A_jl u_j u_l,
+    /// from Gamma along the axes and the diagonals of pairs of axes. Null when a Gamma cannot be had.
+    /// </summary>
+    private static double[][,]? LongWaveForm(CompiledCrystal crystal, int d)
+    {
+        if (crystal.Size > LongWaveElasticity.MaxBranches)
+        {
+            return null;
+        }
+
+        var matrix = new DynamicalMatrix(crystal);
+        Vec3 Axis(int j) => j == 0 ? new Vec3(1, 0, 0) : j == 1 ? new Vec3(0, 1, 0) : new Vec3(0, 0, 1);
+        var form = new double[d * d][,];
+        for (var j = 0; j < d; j++)
+        {
+            if (LongWaveElasticity.Christoffel(matrix, Axis(j)) is not { } g)
+            {
+                return null;
+            }
+
+            form[(j * d) + j] = g;
+        }
+
+        var c = crystal.Components;
+        for (var j = 0; j < d; j++)
+        {
+            for (var l = j + 1; l < d; l++)
+            {
+                // Gamma((e_j + e_l)/sqrt 2) = (A_jj + A_ll)/2 + A_jl.
+                if (LongWaveElasticity.Christoffel(matrix, Axis(j) + Axis(l)) is not { } g)
+                {
+                    return null;
+                }
+
+                var a = new double[c, c];
+                for (var p = 0; p < c; p++)
+                {
+                    for (var q = 0; q < c; q++)
+                    {
+                        a[p, q] = g[p, q] - ((form[(j * d) + j][p, q] + form[(l * d) + l][p, q]) / 2);
+                    }
+                }
+
+                form[(j * d) + l] = a;
+            }
+        }
+
+        return form;
+    }
+
+    /// <summary>sum_b lambda_b^(-d/2) of Gamma(u) (proportional to sum_b v_b^-d); +Infinity for a soft direction.</summary>
+    private static double InverseSpeedSum(double[][,] form, int c, int d, Vec3 u)
+    {
+        Span<double> uu = [u.X, u.Y, u.Z];
+        var g = new double[c, c];
+        for (var j = 0; j < d; j++)
+        {
+            for (var l = j; l < d; l++)
+            {
+                var weight = (j == l ? 1.0 : 2.0) * uu[j] * uu[l];
+                var a = form[(j * d) + l];
+                for (var p = 0; p < c; p++)
+                {
+                    for (var q = 0; q < c; q++)
+                    {
+                        g[p, q] += weight * a[p, q];
+                    }
+                }
+            }
+        }
+
+        var sum = 0.0;
+        foreach (var lambda in SymmetricEigenvalues(g, c))
+        {
+            if (!(lambda > 0))
+            {
+                return double.PositiveInfinity;
+            }
+
+            sum += Math.Pow(lambda, -0.5 * d);
+        }
+
+        return sum;
+    }
+
+    /// <summary>
+    /// Eigenvalues of a symmetric 1x1, 2x2 or 3x3 matrix in closed form (the 3x3 by the trigonometric
+    /// solution of its characteristic cubic; Smith, Commun. ACM 4, 168 (1961); from memory).
+    /// </summary>
+    private static double[] SymmetricEigenvalues(double[,] a, int c)
+    {
+        if (c == 1)
+        {
+            return [a[0, 0]];
+        }
+
+        if (c == 2)
+        {
+            var mean = (a[0, 0] + a[1, 1]) / 2;
+            var r = Math.Sqrt((((a[0, 0] - a[1, 1]) / 2) * ((a[0, 0] - a[1, 1]) / 2)) + (a[0, 1] * a[0, 1]));
+            return [mean - r, mean + r];
+        }
+
+        var off = (a[0, 1] * a[0, 1]) + (a[0, 2] * a[0, 2]) + (a[1, 2] * a[1, 2]);
+        var m = (a[0, 0] + a[1, 1] + a[2, 2]) / 3;
+        var b00 = a[0, 0] - m;
+        var b11 = a[1, 1] - m;
+        var b22 = a[2, 2] - m;
+        var p2 = ((b00 * b00) + (b11 * b11) + (b22 * b22) + (2 * off)) / 6;
+        if (p2 <= 1e-30 * m * m)
+        {
+            return [m, m, m];
+        }
+
+        var p = Math.Sqrt(p2);
+        var det = (b00 * ((b11 * b22) - (a[1, 2] * a[1, 2])))
+            - (a[0, 1] * ((a[0, 1] * b22) - (a[1, 2] * a[0, 2])))
+            + (a[0, 2] * ((a[0, 1] * a[1, 2]) - (b11 * a[0, 2])));
+        var half = Math.Clamp(det / (2 * p2 * p), -1.0, 1.0);
+        var phi = Math.Acos(half) / 3;
+        var largest = m + (2 * p * Math.Cos(phi));
+        var smallest = m + (2 * p * Math.Cos(phi + (2 * Math.PI / 3)));
+        return [smallest, (3 * m) - largest - smallest, largest];
+    }
+
+    /// <summary>
+    /// The average over directions of f as the rays take it: on each face of the box (opposite faces
+    /// alike, f(-u) = f(u)), the Gauss-Legendre product rule of f(p/|p|) |det(c, e...)| / |p|^d.
+    /// </summary>
+    private static double Average(IReadOnlyList<Vec3> edges, int d, int nodes, Func<Vec3, double> f)
+    {
+        var rule = new GaussLegendreRule(-0.5, 0.5, nodes);
+        var total = 0.0;
+        var angle = 0.0;
+        for (var face = 0; face < d; face++)
+        {
+            var centre = 0.5 * edges[face];
+            var span = Enumerable.Range(0, d).Where(j => j != face).Select(j => edges[j]).ToArray();
+            var jacobian = d == 2
+                ? Math.Abs((centre.X * span[0].Y) - (centre.Y * span[0].X))
+                : Math.Abs(centre.Dot(span[0].Cross(span[1])));
+            for (var i = 0; i < nodes; i++)
+            {
+                for (var j = 0; j < (d == 3 ? nodes : 1); j++)
+                {
+                    var p = centre + (rule.Abscissas[i] * span[0]);
+                    var w = rule.Weights[i];
+                    if (d == 3)
+                    {
+                        p += rule.Abscissas[j] * span[1];
+                        w *= rule.Weights[j];
+                    }
+
+                    var length = p.Length;
+                    var dOmega = jacobian * w / Math.Pow(length, d);
+                    total += dOmega * f(p / length);
+                    angle += dOmega;
+                }
+            }
+        }
+
+        return total / angle;
+    }
+}
