@@ -13,41 +13,16 @@ namespace LatticeSweep.Worker.Tests.Catalog;
 /// index when opened and are read and resumed as they are.
 /// </summary>
 [Collection(RealStoresCollection.Name)]
-public sealed class ChunkPointIndexTests : IDisposable
+public sealed class ChunkPointIndexTests : CatalogOnBothStores
 {
-    private readonly TempFolder _dir = new();
-    private string? _schema;
-
     public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
-
-    public void Dispose()
-    {
-        if (_schema is not null)
-        {
-            TestPostgres.DropSchema(_schema);
-        }
-
-        _dir.Dispose();
-    }
-
-    private SqlSweepCatalog Open(StoreKind kind)
-    {
-        if (kind == StoreKind.Sqlite)
-        {
-            return new SqliteSweepCatalog(_dir.Combine("store.db"), new SteppingTime());
-        }
-
-        TestPostgres.Require();
-        _schema ??= TestPostgres.NewSchema();
-        return new PostgresSweepCatalog(TestPostgres.ConnectionString, _schema, new SteppingTime());
-    }
 
     /// <summary>A plain connection to the store, outside the catalog.</summary>
     private DbConnection Connect(StoreKind kind)
     {
         DbConnection c = kind == StoreKind.Sqlite
-            ? new Microsoft.Data.Sqlite.SqliteConnection($"Data Source={_dir.Combine("store.db")};Pooling=False")
-            : new Npgsql.NpgsqlConnection(TestPostgres.InSchema(_schema!));
+            ? new Microsoft.Data.Sqlite.SqliteConnection($"Data Source={Dir.Combine("store.db")};Pooling=False")
+            : new Npgsql.NpgsqlConnection(TestPostgres.InSchema(Schema!));
         c.Open();
         return c;
     }
@@ -79,7 +54,7 @@ public sealed class ChunkPointIndexTests : IDisposable
         using var c = Connect(kind);
         return kind == StoreKind.Sqlite
             ? [.. Strings(c, "SELECT name FROM sqlite_master WHERE type = 'index' AND tbl_name = 'latsweep_points' ORDER BY name")]
-            : [.. Strings(c, $"SELECT indexname::text FROM pg_indexes WHERE schemaname = '{_schema}' AND tablename = 'latsweep_points' ORDER BY indexname")];
+            : [.. Strings(c, $"SELECT indexname::text FROM pg_indexes WHERE schemaname = '{Schema}' AND tablename = 'latsweep_points' ORDER BY indexname")];
     }
 
     /// <summary>21 points in chunks of 4 (the last of 1): c00000 ... c00005.</summary>
@@ -91,7 +66,7 @@ public sealed class ChunkPointIndexTests : IDisposable
     {
         using var catalog = Open(kind);
         var plan = Plan();
-        var (id, chunks) = TestCatalog.Register(catalog, plan, _dir.Combine("out"), pointsPerChunk: 4);
+        var (id, chunks) = TestCatalog.Register(catalog, plan, Dir.Combine("out"), pointsPerChunk: 4);
         catalog.CompleteChunk(id, chunks[0], Done(catalog.BeginChunk(id, chunks[0], "test:1")));
         catalog.BeginChunk(id, chunks[2], "test:1");
 
@@ -122,7 +97,7 @@ public sealed class ChunkPointIndexTests : IDisposable
         IReadOnlyList<string> chunks;
         using (var catalog = Open(kind))
         {
-            (id, chunks) = TestCatalog.Register(catalog, plan, _dir.Combine("out"), pointsPerChunk: 4);
+            (id, chunks) = TestCatalog.Register(catalog, plan, Dir.Combine("out"), pointsPerChunk: 4);
             catalog.CompleteChunk(id, chunks[0], Done(catalog.BeginChunk(id, chunks[0], "test:1")));
 
             // Chunk 1 was claimed by a worker that then died.

@@ -11,34 +11,9 @@ namespace LatticeSweep.Worker.Tests.Catalog;
 /// the catalog's answers against the plan (the expected states worked out by hand) on both stores.
 /// </summary>
 [Collection(RealStoresCollection.Name)]
-public sealed class ChunkRegistrationTests : IDisposable
+public sealed class ChunkRegistrationTests : CatalogOnBothStores
 {
-    private readonly TempFolder _dir = new();
-    private string? _schema;
-
     public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
-
-    public void Dispose()
-    {
-        if (_schema is not null)
-        {
-            TestPostgres.DropSchema(_schema);
-        }
-
-        _dir.Dispose();
-    }
-
-    private SqlSweepCatalog Open(StoreKind kind)
-    {
-        if (kind == StoreKind.Sqlite)
-        {
-            return new SqliteSweepCatalog(_dir.Combine("store.db"), new SteppingTime());
-        }
-
-        TestPostgres.Require();
-        _schema ??= TestPostgres.NewSchema();
-        return new PostgresSweepCatalog(TestPostgres.ConnectionString, _schema, new SteppingTime());
-    }
 
     /// <summary>
     /// 7 masses x 3 cells = 21 points in chunks of 4 (the last of 1): c00000 ... c00005. One mass
@@ -52,7 +27,7 @@ public sealed class ChunkRegistrationTests : IDisposable
     {
         using var catalog = Open(kind);
         var plan = Plan();
-        var (id, chunks) = TestCatalog.Register(catalog, plan, _dir.Combine("out"), pointsPerChunk: 4);
+        var (id, chunks) = TestCatalog.Register(catalog, plan, Dir.Combine("out"), pointsPerChunk: 4);
         Assert.Equal(6, chunks.Count);
         catalog.CompleteChunk(id, chunks[1], Done(catalog.BeginChunk(id, chunks[1], "test:1")));
         catalog.BeginChunk(id, chunks[3], "test:2");
@@ -106,7 +81,7 @@ public sealed class ChunkRegistrationTests : IDisposable
     public void Cancel_and_resume_reach_chunks_never_claimed(StoreKind kind)
     {
         using var catalog = Open(kind);
-        var (id, chunks) = TestCatalog.Register(catalog, Plan(), _dir.Combine("out"), pointsPerChunk: 4);
+        var (id, chunks) = TestCatalog.Register(catalog, Plan(), Dir.Combine("out"), pointsPerChunk: 4);
         catalog.CompleteChunk(id, chunks[0], Done(catalog.BeginChunk(id, chunks[0], "test:1")));
 
         Assert.True(catalog.Cancel(id));
@@ -140,7 +115,7 @@ public sealed class ChunkRegistrationTests : IDisposable
     {
         using var catalog = Open(kind);
         var plan = Plan();
-        var (id, chunks) = TestCatalog.Register(catalog, plan, _dir.Combine("out"), pointsPerChunk: 4);
+        var (id, chunks) = TestCatalog.Register(catalog, plan, Dir.Combine("out"), pointsPerChunk: 4);
         catalog.CompleteChunk(id, chunks[0], Done(catalog.BeginChunk(id, chunks[0], "test:1")));
         catalog.BeginChunk(id, chunks[2], "test:dead"); // the worker dies here: no completion
 
@@ -184,7 +159,7 @@ public sealed class ChunkRegistrationTests : IDisposable
             SpecHash = plan.SpecHash,
             SourcePath = plan.SourcePath,
             SpecText = plan.SpecText,
-            OutputFolder = _dir.Combine("out", "interleaved"),
+            OutputFolder = Dir.Combine("out", "interleaved"),
             Axes = plan.Axes,
             Tables = ["points"],
             EngineVersion = "9.9.9-test",
@@ -225,7 +200,7 @@ public sealed class ChunkRegistrationTests : IDisposable
             SpecHash = plan.SpecHash,
             SourcePath = plan.SourcePath,
             SpecText = plan.SpecText,
-            OutputFolder = _dir.Combine("out", "mixed"),
+            OutputFolder = Dir.Combine("out", "mixed"),
             Axes = [],
             Tables = ["points"],
             EngineVersion = "9.9.9-test",
@@ -244,7 +219,7 @@ public sealed class ChunkRegistrationTests : IDisposable
         Assert.Equal(expected, catalog.GetPoints("mixed-00000000", new PointQuery(Limit: 100)).Select(p => Shown(p.Parameters)));
         if (kind == StoreKind.Sqlite)
         {
-            Assert.Equal(given.Select(CatalogJson.WriteParameters), RowParameters(_dir.Combine("store.db"), "mixed-00000000"));
+            Assert.Equal(given.Select(CatalogJson.WriteParameters), RowParameters(Dir.Combine("store.db"), "mixed-00000000"));
         }
     }
 
@@ -259,9 +234,9 @@ public sealed class ChunkRegistrationTests : IDisposable
         var answers = new List<string>[2];
         for (var layout = 0; layout < 2; layout++)
         {
-            var path = _dir.Combine($"layout{layout}.db");
+            var path = Dir.Combine($"layout{layout}.db");
             using var catalog = new SqliteSweepCatalog(path, new SteppingTime());
-            var (id, chunks) = TestCatalog.Register(catalog, plan, _dir.Combine("out"), pointsPerChunk: 4);
+            var (id, chunks) = TestCatalog.Register(catalog, plan, Dir.Combine("out"), pointsPerChunk: 4);
             if (layout == 0)
             {
                 // Rewrite every chunk's text as the previous version wrote it.
@@ -322,7 +297,7 @@ public sealed class ChunkRegistrationTests : IDisposable
     [Fact]
     public void A_store_from_before_chunk_rows_is_read_and_run_as_it_is()
     {
-        var path = _dir.Combine("store.db");
+        var path = Dir.Combine("store.db");
         var plan = SomeSweep.Plan();
         using (var c = new Microsoft.Data.Sqlite.SqliteConnection($"Data Source={path};Pooling=False"))
         {
