@@ -125,7 +125,9 @@ internal static class LongWaveFaceRule
     private static double InverseSpeedSum(double[][,] form, int c, int d, Vec3 u)
     {
         Span<double> uu = [u.X, u.Y, u.Z];
-        var g = new double[c, c];
+        // Stack buffers: this runs ~10^3 times per bulk point (c <= 3 components).
+        Span<double> g = stackalloc double[c * c];
+        g.Clear();
         for (var j = 0; j < d; j++)
         {
             for (var l = j; l < d; l++)
@@ -136,14 +138,15 @@ internal static class LongWaveFaceRule
                 {
                     for (var q = 0; q < c; q++)
                     {
-                        g[p, q] += weight * a[p, q];
+                        g[(p * c) + q] += weight * a[p, q];
                     }
                 }
             }
         }
 
+        Span<double> values = stackalloc double[3];
         var sum = 0.0;
-        foreach (var lambda in SymmetricEigenvalues(g, c))
+        foreach (var lambda in values[..SymmetricEigenvalues(g, c, values)])
         {
             if (!(lambda > 0))
             {
@@ -160,40 +163,51 @@ internal static class LongWaveFaceRule
     /// Eigenvalues of a symmetric 1x1, 2x2 or 3x3 matrix in closed form (the 3x3 by the trigonometric
     /// solution of its characteristic cubic; Smith, Commun. ACM 4, 168 (1961); from memory).
     /// </summary>
-    private static double[] SymmetricEigenvalues(double[,] a, int c)
+    /// <returns>how many values were written to <paramref name="values"/> (c), ascending for c &gt;= 2</returns>
+    private static int SymmetricEigenvalues(ReadOnlySpan<double> g, int c, Span<double> values)
     {
         if (c == 1)
         {
-            return [a[0, 0]];
+            values[0] = g[0];
+            return 1;
         }
 
         if (c == 2)
         {
-            var mean = (a[0, 0] + a[1, 1]) / 2;
-            var r = Math.Sqrt((((a[0, 0] - a[1, 1]) / 2) * ((a[0, 0] - a[1, 1]) / 2)) + (a[0, 1] * a[0, 1]));
-            return [mean - r, mean + r];
+            // g row-major: [a00 a01; a10 a11].
+            double a00 = g[0], a01 = g[1], a11 = g[3];
+            var mean = (a00 + a11) / 2;
+            var r = Math.Sqrt((((a00 - a11) / 2) * ((a00 - a11) / 2)) + (a01 * a01));
+            values[0] = mean - r;
+            values[1] = mean + r;
+            return 2;
         }
 
-        var off = (a[0, 1] * a[0, 1]) + (a[0, 2] * a[0, 2]) + (a[1, 2] * a[1, 2]);
-        var m = (a[0, 0] + a[1, 1] + a[2, 2]) / 3;
-        var b00 = a[0, 0] - m;
-        var b11 = a[1, 1] - m;
-        var b22 = a[2, 2] - m;
+        double b01 = g[1], b02 = g[2], b12 = g[5];
+        var off = (b01 * b01) + (b02 * b02) + (b12 * b12);
+        var m = (g[0] + g[4] + g[8]) / 3;
+        var b00 = g[0] - m;
+        var b11 = g[4] - m;
+        var b22 = g[8] - m;
         var p2 = ((b00 * b00) + (b11 * b11) + (b22 * b22) + (2 * off)) / 6;
         if (p2 <= 1e-30 * m * m)
         {
-            return [m, m, m];
+            values[0] = values[1] = values[2] = m;
+            return 3;
         }
 
         var p = Math.Sqrt(p2);
-        var det = (b00 * ((b11 * b22) - (a[1, 2] * a[1, 2])))
-            - (a[0, 1] * ((a[0, 1] * b22) - (a[1, 2] * a[0, 2])))
-            + (a[0, 2] * ((a[0, 1] * a[1, 2]) - (b11 * a[0, 2])));
+        var det = (b00 * ((b11 * b22) - (b12 * b12)))
+            - (b01 * ((b01 * b22) - (b12 * b02)))
+            + (b02 * ((b01 * b12) - (b11 * b02)));
         var half = Math.Clamp(det / (2 * p2 * p), -1.0, 1.0);
         var phi = Math.Acos(half) / 3;
         var largest = m + (2 * p * Math.Cos(phi));
         var smallest = m + (2 * p * Math.Cos(phi + (2 * Math.PI / 3)));
-        return [smallest, (3 * m) - largest - smallest, largest];
+        values[0] = smallest;
+        values[1] = (3 * m) - largest - smallest;
+        values[2] = largest;
+        return 3;
     }
 
     /// <summary>
