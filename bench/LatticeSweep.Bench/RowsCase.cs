@@ -22,24 +22,7 @@ internal static class RowsCase
         var plan = JobFileLoader.Load(jobFile);
         var count = Math.Min(maxPoints, plan.Points.Length);
         var start = new DateTimeOffset(2026, 1, 2, 3, 4, 5, TimeSpan.Zero);
-        var outcomes = new List<PointOutcome>(count);
-        for (var i = 0; i < count; i++)
-        {
-            var point = plan.Points[i];
-            var result = EnginePointSolver.Instance.Solve(plan, point, default);
-            outcomes.Add(new PointOutcome
-            {
-                Point = point,
-                Attempt = 1,
-                State = result.Summary.Stable ? PointState.Done : PointState.Unstable,
-                StartedAt = start.AddMilliseconds(i),
-                FinishedAt = start.AddMilliseconds(i + 0.75),
-                DurationSeconds = 0.00075 + (i * 1e-7),
-                Result = result,
-                EngineVersion = EnginePointSolver.Instance.EngineVersion,
-                ChunkId = "c0000",
-            });
-        }
+        var outcomes = BenchSweeps.SolvedOutcomes(plan, count, start, _ => "c0000");
 
         var folder = Path.Combine(Path.GetFullPath(outDir), "queue-rows-" + Path.GetFileNameWithoutExtension(jobFile));
         if (Directory.Exists(folder))
