@@ -71,31 +71,28 @@ internal static partial class LongTableColumns
                 cvKg[row] = t.HeatCapacityJPerMolK * perKg;
                 if (v.Conductivity is { } k)
                 {
-                    kappaXx[row] = NullIfNaN(k.KappaXxWPerMK);
-                    kappaYy[row] = NullIfNaN(k.KappaYyWPerMK);
-                    kappaZz[row] = NullIfNaN(k.KappaZzWPerMK);
-                    kappa[row] = NullIfNaN(k.KappaWPerMK);
-                    meshChange[row] = NullIfNaN(k.MeshRelativeChange);
+                    kappaXx[row] = ResultSchemas.NullIfNaN(k.KappaXxWPerMK);
+                    kappaYy[row] = ResultSchemas.NullIfNaN(k.KappaYyWPerMK);
+                    kappaZz[row] = ResultSchemas.NullIfNaN(k.KappaZzWPerMK);
+                    kappa[row] = ResultSchemas.NullIfNaN(k.KappaWPerMK);
+                    meshChange[row] = ResultSchemas.NullIfNaN(k.MeshRelativeChange);
                 }
 
                 periodicCv[row] = v.PeriodicCvJPerMolK;
                 cvRatio[row] = v.PeriodicCvJPerMolK is { } periodic && periodic > 0 && double.IsFinite(t.HeatCapacityJPerMolK) ? t.HeatCapacityJPerMolK / periodic : null;
                 if (v.StandardErrors is { } e)
                 {
-                    energyError[row] = NullIfNaN(e.InternalEnergyJPerMol);
-                    freeError[row] = NullIfNaN(e.FreeEnergyJPerMol);
-                    entropyError[row] = NullIfNaN(e.EntropyJPerMolK);
-                    cvError[row] = NullIfNaN(e.HeatCapacityJPerMolK);
+                    energyError[row] = ResultSchemas.NullIfNaN(e.InternalEnergyJPerMol);
+                    freeError[row] = ResultSchemas.NullIfNaN(e.FreeEnergyJPerMol);
+                    entropyError[row] = ResultSchemas.NullIfNaN(e.EntropyJPerMolK);
+                    cvError[row] = ResultSchemas.NullIfNaN(e.HeatCapacityJPerMolK);
                 }
 
-                orderedCv[row] = NullIfNaN(v.OrderedCvJPerMolK);
-                kappaConfined[row] = NullIfNaN(v.Confined?.KappaWPerMK);
+                orderedCv[row] = ResultSchemas.NullIfNaN(v.OrderedCvJPerMolK);
+                kappaConfined[row] = ResultSchemas.NullIfNaN(v.Confined?.KappaWPerMK);
             }
         }
 
         return Assemble(spec, points, starts, name => own.GetValueOrDefault(name));
     }
-
-    /// <summary>The schema's rule for optional numbers: NaN (undefined) is written as null.</summary>
-    private static double? NullIfNaN(double? x) => x is { } v && !double.IsNaN(v) ? v : null;
 }

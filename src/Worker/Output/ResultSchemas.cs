@@ -497,7 +497,11 @@ internal sealed class ResultSchemas
         ];
     }
 
-    private static double? V(double? x) => x is { } v && !double.IsNaN(v) ? v : null;
+    /// <summary>The schema's rule for optional numbers: NaN (undefined) is written as null, an empty cell.</summary>
+    internal static double? NullIfNaN(double? x) => x is { } v && !double.IsNaN(v) ? v : null;
+
+    /// <summary><see cref="NullIfNaN"/>, short for the column list above.</summary>
+    private static double? V(double? x) => NullIfNaN(x);
 
     private static TableColumn<RowOf<ThermalValue>>[] ThermalColumns()
     {
