@@ -125,6 +125,11 @@ internal static class SimplexDosIntegrator
 
         // With channel weights and permutations: the mesh points at the corners of one cube per class
         // {g C, -g C} of the orbit (8 per class), and the number of distinct cubes in each class.
+        // Curvature shifts (TetrahedronCurvature) of the acoustic branches' six tetrahedra, [6 * branch + t];
+        // only where the long-wave box takes the cone's first shells (the shift's difference stencil
+        // would cross q = 0 otherwise).
+        var curvedBranches = longWaves is { } box && m1 >= 3 && m2 >= 3 && m3 >= 3 ? Math.Min(box.Branches, branches) : 0;
+        var shifts = new double[6 * Math.Max(curvedBranches, 1)];
         var imageCorners = new int[8 * operations.Count];
         var classWeight = new double[operations.Count];
         var orbitCornerWeights = useWeights && operations.Count > 1 ? new double[8 * branches * channels] : [];
@@ -169,6 +174,14 @@ internal static class SimplexDosIntegrator
                     // The box around q = 0 is inversion-symmetric: a cube and its image are both in or both out.
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
                     var j3 = i3 + 1 == m3 ? 0 : i3 + 1;
+
+                    // Outside the box, the acoustic branches' tetrahedra lowered by their mean interpolation error.
+                    var curved = firstBranch == 0 ? curvedBranches : 0;
+                    for (var b = 0; b < curved; b++)
+                    {
+                        TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, shifts.AsSpan(6 * b, 6));
+                    }
+
                     corners[0] = ((i1 * m2) + i2) * m3 + i3;
                     corners[1] = ((j1 * m2) + i2) * m3 + i3;
                     corners[2] = ((i1 * m2) + j2) * m3 + i3;
@@ -188,10 +201,11 @@ internal static class SimplexDosIntegrator
                             var c3 = corners[TetrahedronCorners[t + 3]] * branches;
                             for (var b = firstBranch; b < branches; b++, entry++)
                             {
-                                cornerA[entry] = frequencyThz[c0 + b];
-                                cornerB[entry] = frequencyThz[c1 + b];
-                                cornerC[entry] = frequencyThz[c2 + b];
-                                cornerD[entry] = frequencyThz[c3 + b];
+                                var lift = b < curved ? Lift(shifts[(6 * b) + (t / 4)], frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b]) : 0.0;
+                                cornerA[entry] = frequencyThz[c0 + b] - lift;
+                                cornerB[entry] = frequencyThz[c1 + b] - lift;
+                                cornerC[entry] = frequencyThz[c2 + b] - lift;
+                                cornerD[entry] = frequencyThz[c3 + b] - lift;
                             }
                         }
 
@@ -236,8 +250,9 @@ internal static class SimplexDosIntegrator
                             }
                             else
                             {
+                                var lift = b < curved ? Lift(shifts[(6 * b) + (t / 4)], frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b]) : 0.0;
                                 kernel.Add(
-                                    frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b],
+                                    frequencyThz[c0 + b] - lift, frequencyThz[c1 + b] - lift, frequencyThz[c2 + b] - lift, frequencyThz[c3 + b] - lift,
                                     cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
                             }
                         }
@@ -255,6 +270,11 @@ internal static class SimplexDosIntegrator
             }
         }
     }
+
+    /// <summary>The shift of a tetrahedron, never below its lowest corner (a frequency stays >= 0).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static double Lift(double shift, double a, double b, double c, double d) =>
+        Math.Min(shift, Math.Min(Math.Min(a, b), Math.Min(c, d)));
 
     /// <summary>
     /// The orbit's cubes by class {g C, -g C} (a class is two cubes, or one where -g C = g C; classes are
