@@ -130,6 +130,16 @@ internal static class SimplexDosIntegrator
         // would cross q = 0 otherwise).
         var curvedBranches = longWaves is { } box && m1 >= 3 && m2 >= 3 && m3 >= 3 ? Math.Min(box.Branches, branches) : 0;
         var shifts = new double[6 * Math.Max(curvedBranches, 1)];
+        var branchTops = new double[curvedBranches];
+        for (var b = 0; b < curvedBranches; b++)
+        {
+            branchTops[b] = double.NegativeInfinity;
+            for (long p = 0; p < (long)m1 * m2 * m3; p++)
+            {
+                branchTops[b] = Math.Max(branchTops[b], frequencyThz[(p * branches) + b]);
+            }
+        }
+
         var imageCorners = new int[8 * operations.Count];
         var classWeight = new double[operations.Count];
         var orbitCornerWeights = useWeights && operations.Count > 1 ? new double[8 * branches * channels] : [];
@@ -175,13 +185,6 @@ internal static class SimplexDosIntegrator
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
                     var j3 = i3 + 1 == m3 ? 0 : i3 + 1;
 
-                    // Outside the box, the acoustic branches' tetrahedra lowered by their mean interpolation error.
-                    var curved = firstBranch == 0 ? curvedBranches : 0;
-                    for (var b = 0; b < curved; b++)
-                    {
-                        TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, shifts.AsSpan(6 * b, 6));
-                    }
-
                     corners[0] = ((i1 * m2) + i2) * m3 + i3;
                     corners[1] = ((j1 * m2) + i2) * m3 + i3;
                     corners[2] = ((i1 * m2) + j2) * m3 + i3;
@@ -190,6 +193,14 @@ internal static class SimplexDosIntegrator
                     corners[5] = ((j1 * m2) + i2) * m3 + j3;
                     corners[6] = ((i1 * m2) + j2) * m3 + j3;
                     corners[7] = ((j1 * m2) + j2) * m3 + j3;
+
+                    // Outside the box, the acoustic branches' tetrahedra lowered by their mean interpolation error.
+                    var curved = firstBranch == 0 ? curvedBranches : 0;
+                    for (var b = 0; b < curved; b++)
+                    {
+                        TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchTops[b], shifts.AsSpan(6 * b, 6));
+                    }
+
                     var entry = 0;
                     if (vectors)
                     {
@@ -201,7 +212,7 @@ internal static class SimplexDosIntegrator
                             var c3 = corners[TetrahedronCorners[t + 3]] * branches;
                             for (var b = firstBranch; b < branches; b++, entry++)
                             {
-                                var lift = b < curved ? Lift(shifts[(6 * b) + (t / 4)], frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b]) : 0.0;
+                                var lift = b < curved ? shifts[(6 * b) + (t / 4)] : 0.0;
                                 cornerA[entry] = frequencyThz[c0 + b] - lift;
                                 cornerB[entry] = frequencyThz[c1 + b] - lift;
                                 cornerC[entry] = frequencyThz[c2 + b] - lift;
@@ -250,7 +261,7 @@ internal static class SimplexDosIntegrator
                             }
                             else
                             {
-                                var lift = b < curved ? Lift(shifts[(6 * b) + (t / 4)], frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b]) : 0.0;
+                                var lift = b < curved ? shifts[(6 * b) + (t / 4)] : 0.0;
                                 kernel.Add(
                                     frequencyThz[c0 + b] - lift, frequencyThz[c1 + b] - lift, frequencyThz[c2 + b] - lift, frequencyThz[c3 + b] - lift,
                                     cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
@@ -270,11 +281,6 @@ internal static class SimplexDosIntegrator
             }
         }
     }
-
-    /// <summary>The shift of a tetrahedron, never below its lowest corner (a frequency stays >= 0).</summary>
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    private static double Lift(double shift, double a, double b, double c, double d) =>
-        Math.Min(shift, Math.Min(Math.Min(a, b), Math.Min(c, d)));
 
     /// <summary>
     /// The orbit's cubes by class {g C, -g C} (a class is two cubes, or one where -g C = g C; classes are

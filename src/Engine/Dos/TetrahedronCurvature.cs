@@ -28,12 +28,18 @@ internal static class TetrahedronCurvature
     // S = sum_i (v_i - c)(v_i - c)^T / (2 (d + 2)) as (xx, yy, zz, xy, xz, yz), mixed terms doubled.
     private static readonly double[] Shapes = BuildShapes();
 
+    // The six tetrahedra's corners (x + 2y + 4z), as in SimplexDosIntegrator.
+    private static readonly int[] Corners = [0, 1, 3, 7, 0, 1, 5, 7, 0, 2, 3, 7, 0, 2, 6, 7, 0, 4, 5, 7, 0, 4, 6, 7];
+
     /// <summary>
     /// Writes the downward shift (THz) of each of the six tetrahedra of the cube based at (i1, i2, i3)
-    /// for branch b into shift[0..5] (positive where the branch is convex there).
+    /// for branch b into shift[0..5] (positive where the branch is convex there). Clamped so no corner
+    /// goes below 0 nor above the branch's highest mesh value: near a band top (concave) a raise must
+    /// not carry states past the branch's top into a gap above it.
     /// </summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: once per cube and acoustic branch outside the long-wave box
-    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, Span<double> shift)
+    /// <param name="corners">The cube's eight mesh points (x + 2y + 4z).</param>
+    /// <param name="branchTopThz">The branch's highest value on the mesh.</param>
+    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchTopThz, Span<double> shift)
     {
         Span<double> h = stackalloc double[6];
         Span<double> other = stackalloc double[6];
@@ -47,7 +53,17 @@ internal static class TetrahedronCurvature
         for (var t = 0; t < 6; t++)
         {
             var s = Shapes.AsSpan(6 * t, 6);
-            shift[t] = (s[0] * h[0]) + (s[1] * h[1]) + (s[2] * h[2]) + (s[3] * h[3]) + (s[4] * h[4]) + (s[5] * h[5]);
+            var value = (s[0] * h[0]) + (s[1] * h[1]) + (s[2] * h[2]) + (s[3] * h[3]) + (s[4] * h[4]) + (s[5] * h[5]);
+            var low = double.PositiveInfinity;
+            var high = double.NegativeInfinity;
+            for (var k = 0; k < 4; k++)
+            {
+                var f = frequencyThz[(corners[Corners[(4 * t) + k]] * branches) + b];
+                low = Math.Min(low, f);
+                high = Math.Max(high, f);
+            }
+
+            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low, 0));
         }
     }
 
