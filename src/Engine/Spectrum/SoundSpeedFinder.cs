@@ -11,6 +11,14 @@ namespace LatticeSweep.Engine.Spectrum;
 /// </summary>
 internal static class SoundSpeedFinder
 {
+    /// <summary>
+    /// Below this fraction of the largest eigenvalue at 2 delta the extrapolated slope is round-off, and the
+    /// speed is 0: a branch with omega ~ q^2 (a sheet's flexural branch) cancels exactly in the
+    /// extrapolation and left noise of either sign (-0.02 m/s beside 10^4 m/s), read as an unstable slope.
+    /// Round-off sits near 1e-17 of it; a real slope this small is a speed below ~2e-4 of the fastest.
+    /// </summary>
+    private const double RoundOffFloor = 1e-13;
+
     public static List<SoundSpeed> Find(ModeSolver solver)
     {
         var crystal = solver.Matrix.Crystal;
@@ -38,10 +46,12 @@ internal static class SoundSpeedFinder
             var small = solver.Values.Take(acoustic).ToArray();
             solver.SolveValues(2 * delta * u);
             var twice = solver.Values.Take(acoustic).ToArray();
+            var roundOff = RoundOffFloor * Math.Abs(solver.Values[^1]);
             var speeds = new double[acoustic];
             for (var k = 0; k < acoustic; k++)
             {
-                var v2 = (4 * small[k] - twice[k] / 4) / (3 * delta * delta);
+                var numerator = 4 * small[k] - twice[k] / 4;
+                var v2 = Math.Abs(numerator) <= roundOff ? 0 : numerator / (3 * delta * delta);
                 speeds[k] = v2 > 0 ? Math.Sqrt(v2) : (v2 < 0 ? -Math.Sqrt(-v2) : 0);
             }
 

@@ -263,6 +263,25 @@ public class BondBendingTests
     }
 
     [Fact]
+    public void A_sheets_flexural_branch_has_sound_speed_zero_never_a_negative_speed_from_round_off()
+    {
+        // omega^2 ~ q^4 has no linear slope, so its sound speed is 0 (Landau and Lifshitz, Theory of Elasticity,
+        // sect. 25, from memory); the two-point extrapolation cancels the q^4 term exactly and once returned
+        // round-off of either sign (-0.02 m/s beside the in-plane 10^4 m/s of this sheet).
+        var speeds = PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 3), BulkSample.Uniform(2, 6), new SolveOptions { TemperaturesK = [300] }).Summary.SoundSpeeds;
+        Assert.Equal(["[10]", "[11]"], speeds.Select(s => s.Direction));
+        foreach (var s in speeds)
+        {
+            Assert.Equal(0.0, s.SpeedsMPerS[0]);
+            Assert.True(s.SpeedsMPerS[1] > 1e3, $"{s.Direction}: in-plane transverse {s.SpeedsMPerS[1]} m/s");
+        }
+
+        // A branch made linear by a transverse spring keeps its slope: the floor only removes round-off.
+        var linear = PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 0, transverse: 20), BulkSample.Uniform(2, 6), new SolveOptions { TemperaturesK = [300] }).Summary.SoundSpeeds;
+        Assert.All(linear, s => Assert.True(s.SpeedsMPerS[0] > 100, $"{s.Direction}: {s.SpeedsMPerS[0]} m/s"));
+    }
+
+    [Fact]
     public void A_square_sheet_with_flexural_bends_has_the_closed_form_plate_branch_everywhere()
     {
         // Each straight pair j-i-k of the nearest shell costs (1/2) k (u_j + u_k - 2 u_i)^2 out of the plane
