@@ -19,16 +19,19 @@ internal static class SoundSpeedFinder
     /// </summary>
     private const double RoundOffFloor = 1e-13;
 
+    /// <summary>The directions of the sound speeds, by label, in Cartesian axes.</summary>
+    public static (string Label, Vec3 Direction)[] Directions(int dimension) => dimension switch
+    {
+        1 => [("[1]", new Vec3(1, 0, 0))],
+        2 => [("[10]", new Vec3(1, 0, 0)), ("[11]", new Vec3(1, 1, 0))],
+        _ => [("[100]", new Vec3(1, 0, 0)), ("[110]", new Vec3(1, 1, 0)), ("[111]", new Vec3(1, 1, 1))],
+    };
+
     public static List<SoundSpeed> Find(ModeSolver solver)
     {
         var crystal = solver.Matrix.Crystal;
         var lattice = crystal.Lattice;
-        var directions = lattice.Dimension switch
-        {
-            1 => new[] { ("[1]", new Vec3(1, 0, 0)) },
-            2 => [("[10]", new Vec3(1, 0, 0)), ("[11]", new Vec3(1, 1, 0))],
-            _ => [("[100]", new Vec3(1, 0, 0)), ("[110]", new Vec3(1, 1, 0)), ("[111]", new Vec3(1, 1, 1))],
-        };
+        var directions = Directions(lattice.Dimension);
 
         var bMin = double.PositiveInfinity;
         for (var k = 0; k < lattice.Dimension; k++)
