@@ -210,6 +210,15 @@ public sealed class FreeBoundaryTests
         }
 
         Approx.Equal(1.0, result.Dos.Total.Sum() * width, 1e-12, "total integral (branches)");
+
+        // Every mode's weight is shared among the atoms, so the layers' densities, each times its atoms, add up
+        // to the total per cell times the 125 cells, bin by bin (a sum rule, common practice, no source).
+        var top = result.Dos.Total.Max() * 125;
+        for (var b = 0; b < result.Dos.Total.Length; b++)
+        {
+            var sum = s.LayerDos.Sum(l => l.Sites * l.DensityPerThzPerAtom[b]);
+            Tolerance.AssertClose(result.Dos.Total[b] * 125, sum, 0, 1e-12 * top, $"bin {b}");
+        }
     }
 
     [Fact]
