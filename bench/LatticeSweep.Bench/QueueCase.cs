@@ -143,6 +143,39 @@ internal static class QueueCase
     /// The Engine alone as a fresh process meets it: the job's points solved once each, no warm-up,
     /// process CPU from the start of the first solve (the job file is read before). Printed per block.
     /// </summary>
+    /// <summary>
+    /// The warmed-up side of case (e) alone: 20 points to warm up, then every point
+    /// <paramref name="passes"/> times, the process CPU of each pass. Run it with and without
+    /// <c>DOTNET_EnableAVX512=0</c> or <c>DOTNET_TieredPGO=0</c> to see what each width and the
+    /// harness's profile-guided re-JIT give the reference the overhead is taken against.
+    /// </summary>
+    public static Dictionary<string, object> EngineWarm(string jobFile, int passes)
+    {
+        var plan = JobFileLoader.Load(jobFile);
+        var points = plan.Points;
+        for (var i = 0; i < Math.Min(20, points.Length); i++)
+        {
+            EnginePointSolver.Instance.Solve(plan, points[i], default);
+        }
+
+        var cpu = new List<double>();
+        for (var r = 0; r < Math.Max(1, passes); r++)
+        {
+            var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
+            foreach (var p in points)
+            {
+                EnginePointSolver.Instance.Solve(plan, p, default);
+            }
+
+            cpu.Add((Process.GetCurrentProcess().TotalProcessorTime - cpu0).TotalSeconds);
+        }
+
+        Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture,
+            $"  engine warm {Path.GetFileName(jobFile)}: {points.Length} points, CPU per pass {string.Join(" ", cpu.Select(c => c.ToString("F2", CultureInfo.InvariantCulture)))} s " +
+            $"(load {File.ReadAllText("/proc/loadavg").Split(' ')[0]})"));
+        return new Dictionary<string, object> { ["cpu_s"] = cpu };
+    }
+
     public static Dictionary<string, object> EngineCold(string jobFile)
     {
         var plan = JobFileLoader.Load(jobFile);
