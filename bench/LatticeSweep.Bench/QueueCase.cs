@@ -24,10 +24,7 @@ internal static class QueueCase
         var points = plan.Points;
 
         // Engine alone: bind and solve every point (the Worker's own EnginePointSolver), warmed up first.
-        for (var i = 0; i < Math.Min(20, points.Length); i++)
-        {
-            EnginePointSolver.Instance.Solve(plan, points[i], default);
-        }
+        WarmUp(plan);
 
         var engineWall = new List<double>();
         var engineCpu = new List<double>();
@@ -140,10 +137,6 @@ internal static class QueueCase
     }
 
     /// <summary>
-    /// The Engine alone as a fresh process meets it: the job's points solved once each, no warm-up,
-    /// process CPU from the start of the first solve (the job file is read before). Printed per block.
-    /// </summary>
-    /// <summary>
     /// The warmed-up side of case (e) alone: 20 points to warm up, then every point
     /// <paramref name="passes"/> times, the process CPU of each pass. Run it with and without
     /// <c>DOTNET_EnableAVX512=0</c> or <c>DOTNET_TieredPGO=0</c> to see what each width and the
@@ -153,11 +146,7 @@ internal static class QueueCase
     {
         var plan = JobFileLoader.Load(jobFile);
         var points = plan.Points;
-        for (var i = 0; i < Math.Min(20, points.Length); i++)
-        {
-            EnginePointSolver.Instance.Solve(plan, points[i], default);
-        }
-
+        WarmUp(plan);
         var cpu = new List<double>();
         for (var r = 0; r < Math.Max(1, passes); r++)
         {
@@ -176,6 +165,19 @@ internal static class QueueCase
         return new Dictionary<string, object> { ["cpu_s"] = cpu };
     }
 
+    /// <summary>The warmed-up side's warm-up: the job's first 20 points solved once.</summary>
+    private static void WarmUp(SweepPlan plan)
+    {
+        for (var i = 0; i < Math.Min(20, plan.Points.Length); i++)
+        {
+            EnginePointSolver.Instance.Solve(plan, plan.Points[i], default);
+        }
+    }
+
+    /// <summary>
+    /// The Engine alone as a fresh process meets it: the job's points solved once each, no warm-up,
+    /// process CPU from the start of the first solve (the job file is read before). Printed per block.
+    /// </summary>
     public static Dictionary<string, object> EngineCold(string jobFile)
     {
         var plan = JobFileLoader.Load(jobFile);
