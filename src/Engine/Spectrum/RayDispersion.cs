@@ -88,6 +88,7 @@ internal sealed class RayDispersion
         var velocities = new double[n * 3];
         var stable = true;
         bool[]? quadratic = null;
+        var velocityProbe = epsilonPerM;
 
         for (var j = 0; j < Nodes; j++)
         {
@@ -136,9 +137,20 @@ internal sealed class RayDispersion
 
             var near = solver.Values.AsSpan(0, acoustic).ToArray();
             solver.SolveValues(2 * epsilonPerM * u);
-            for (var k = 0; k < acoustic; k++)
+            stable &= LongWaveNodes(solver, u, near, epsilonPerM, length, s, ref quadratic, out var probe);
+            if (quadratic is not null && velocityNodes is not null)
             {
-                stable &= LongWaveNode(near[k], solver.Values[k], epsilonPerM, length, k, s, ref quadratic);
+                // A q^2 branch's velocity at the tiny e is round-off (omega(e) is): take it where the branch was resolved.
+                group!.Solve(probe * u, u, velocities);
+                for (var k = 0; k < acoustic; k++)
+                {
+                    for (var a = 0; a < 3 && quadratic[k]; a++)
+                    {
+                        velocityNodes[(k * Nodes * 3) + a] = velocities[(k * 3) + a];
+                    }
+                }
+
+                velocityProbe = probe;
             }
         }
 
@@ -149,7 +161,7 @@ internal sealed class RayDispersion
             {
                 for (var j = 0; j < Nodes && quadratic[k]; j++)
                 {
-                    var rho = j == 0 ? epsilonPerM / length : Math.Sqrt(NodeY[j]);
+                    var rho = j == 0 ? velocityProbe / length : Math.Sqrt(NodeY[j]);
                     for (var a = 0; a < 3; a++)
                     {
                         velocityNodes[(((k * Nodes) + j) * 3) + a] /= rho;
@@ -159,6 +171,55 @@ internal sealed class RayDispersion
         }
 
         return FromNodes(ray, acoustic, n, s, frac, velocityNodes, quadratic, stable);
+    }
+
+    /// <summary>
+    /// Below this fraction of the largest eigenvalue at 2e, 4 l(e) - l(2e)/4 is round-off: the slope is
+    /// not resolved at e (it cancels exactly for a q^2 branch, whose own l(e) ~ kappa^2 e^4 can sink to the
+    /// round-off of D(q) when e is far below the zone, as in the conductivity's q = 0 cell on fine meshes).
+    /// </summary>
+    private const double RoundOffFloor = 1e-13;
+
+    /// <summary>
+    /// The long-wave nodes of every acoustic branch from l(e) (<paramref name="near"/>) and l(2e) (the
+    /// solver's values on entry). A branch whose slope is round-off at e is measured again at
+    /// 1e-3 of the shortest reciprocal vector (when e is smaller), where a q^2 branch's l is resolved; a
+    /// cone there keeps its slope (Richardson's error is O(e^2) either way). Returns whether every node
+    /// is positive; <paramref name="probe"/> is where the q^2 branches were measured.
+    /// </summary>
+    private static bool LongWaveNodes(ModeSolver solver, Vec3 u, double[] near, double epsilonPerM, double length, double[] s, ref bool[]? quadratic, out double probe)
+    {
+        var acoustic = near.Length;
+        var floor = RoundOffFloor * Math.Abs(solver.Values[solver.Size - 1]);
+        var far = solver.Values.AsSpan(0, acoustic).ToArray();
+        probe = Math.Max(epsilonPerM, 1e-3 * Transport.AcousticAverages.SmallestReciprocal(solver.Matrix.Crystal.Lattice));
+        double[]? nearProbe = null, farProbe = null;
+        var stable = true;
+        for (var k = 0; k < acoustic; k++)
+        {
+            if (Math.Abs((4 * near[k]) - (far[k] / 4)) <= floor && probe > epsilonPerM)
+            {
+                if (nearProbe is null)
+                {
+                    solver.SolveValues(probe * u);
+                    nearProbe = solver.Values.AsSpan(0, acoustic).ToArray();
+                    solver.SolveValues(2 * probe * u);
+                    farProbe = solver.Values.AsSpan(0, acoustic).ToArray();
+                }
+
+                stable &= LongWaveNode(nearProbe[k], farProbe![k], probe, length, k, s, ref quadratic);
+                continue;
+            }
+
+            stable &= LongWaveNode(near[k], far[k], epsilonPerM, length, k, s, ref quadratic);
+        }
+
+        if (nearProbe is null)
+        {
+            probe = epsilonPerM;
+        }
+
+        return stable;
     }
 
     /// <summary>
@@ -223,10 +284,7 @@ internal sealed class RayDispersion
             }
 
             solver.SolveValues(2 * epsilonPerM * u);
-            for (var k = 0; k < acoustic; k++)
-            {
-                stable[r] &= LongWaveNode(near[k], solver.Values[k], epsilonPerM, rays[r].LengthPerM, k, s[r], ref quadratic[r]);
-            }
+            stable[r] &= LongWaveNodes(solver, u, near, epsilonPerM, rays[r].LengthPerM, s[r], ref quadratic[r], out _);
 
             for (var j = 1; j < Nodes; j++)
             {
