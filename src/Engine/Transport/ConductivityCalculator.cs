@@ -108,7 +108,7 @@ internal static class ConductivityCalculator
         var group = new GroupVelocities(solver);
         var velocities = new double[n * 3];
         var grid = new PeriodicGrid(mesh[0], mesh[1], mesh[2]);
-        var gammaCell = bulk ? new GammaCellIntegrator(lattice, mesh) : null;
+        var gammaCell = bulk ? new GammaCellIntegrator(solver.Matrix.Crystal, mesh) : null;
         var rotations = DegenerateRotations.For(lattice);
         var stable = true;
         double lowest = 0, highest = 0;

@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.QPoints;
 using LatticeSweep.Engine.Spectrum;
@@ -12,7 +13,8 @@ namespace LatticeSweep.Engine.Transport;
 /// integrand over its cell {sum t_i b_i / M_i, |t_i| &lt;= 1/2}.
 /// <para>
 /// The cell is covered by rays from q = 0 (<see cref="CentredCellRays"/>: pyramids on its faces,
-/// Gauss-Legendre on each face). Along a ray the acoustic branches are the model's own dispersion
+/// Gauss-Legendre on each face, as many nodes as <see cref="LongWaveFaceRule.ChooseForConductivity"/>
+/// finds the model's direction-dependent speeds need). Along a ray the acoustic branches are the model's own dispersion
 /// (<see cref="RayDispersion"/>: the slope at q = 0 and five solves on the ray, with group velocities
 /// from Hellmann-Feynman, degenerate branches rotated along the ray), so omega and v follow the
 /// branch across the cell, not only its tangent at q = 0. The radial integral runs over 40 geometric
@@ -29,8 +31,9 @@ internal sealed class GammaCellIntegrator
     private readonly int _dimension;
     private readonly double _epsilon;
 
-    public GammaCellIntegrator(Lattice lattice, IReadOnlyList<int> mesh)
+    public GammaCellIntegrator(CompiledCrystal crystal, IReadOnlyList<int> mesh)
     {
+        var lattice = crystal.Lattice;
         _dimension = lattice.Dimension;
         var edges = new Vec3[_dimension];
         for (var i = 0; i < _dimension; i++)
@@ -38,13 +41,15 @@ internal sealed class GammaCellIntegrator
             edges[i] = lattice.ReciprocalVector(i) / mesh[i];
         }
 
-        _rays = CentredCellRays.Build(_dimension, edges);
+        // At low temperature this cell holds nearly all the heat-carrying modes, so its face rule follows
+        // the conductivity's own direction integrand (the default unless the speeds vary strongly).
+        _rays = CentredCellRays.Build(_dimension, edges, LongWaveFaceRule.ChooseForConductivity(crystal, edges));
         _epsilon = Math.Min(1e-3 * AcousticAverages.SmallestReciprocal(lattice), 1e-2 * _rays.ShortestRayM);
     }
 
     public int RayCount => _rays.Rays.Count;
 
-    /// <summary>Gauss-Legendre nodes per face direction: 8 x 8 on each 3D face, 16 on each 2D edge.</summary>
+    /// <summary>Default Gauss-Legendre nodes per face direction: 8 x 8 on each 3D face, 16 on each 2D edge (more where <see cref="LongWaveFaceRule"/> asks).</summary>
     public static int FaceNodes(int dimension) => CentredCellRays.FaceNodes(dimension);
 
     /// <summary>
