@@ -39,7 +39,15 @@ internal static class LongWaveFaceRule
     /// used then anyway) or the dimension is 1 (a single direction, nothing to integrate).
     /// </summary>
     public static int Choose(CompiledCrystal crystal, IReadOnlyList<Vec3> edges) =>
-        Choose(crystal, edges, 1, static (form, c, d, u, densities) => densities[0] = InverseSpeedSum(form, c, d, u));
+        Choose(crystal, edges, 1, static (form, c, d, u, densities) => densities[0] = InverseSpeedSum(form, c, d, u), Tolerance);
+
+    /// <summary>
+    /// Relative error of kappa the conductivity's rule may leave through the q = 0 cell's direction
+    /// average at the lowest temperature: well below the 1.5 % the default rule left on a simple cubic
+    /// model and the half-mesh changes of percents at intermediate temperatures, while models whose cell
+    /// holds little of kappa keep the default rule and its cost (docs/outside-checks.md, round 10).
+    /// </summary>
+    public const double KappaTolerance = 1e-3;
 
     /// <summary>
     /// The face rule for the conductivity's rays over the mesh cell around q = 0. At low temperature
@@ -48,12 +56,77 @@ internal static class LongWaveFaceRule
     /// t the direction part of the relaxation time (1 for a constant, point-defect or Umklapp tau, which
     /// depend on omega only; 1 / |v_b| for boundary scattering). The group velocity weights directions
     /// differently from the heat capacity's sum_b c_b^-d, so the rule is chosen on these 2d averages
-    /// (each component a, both tau laws), each within <see cref="Tolerance"/>: 40 and 2 N/m on a simple
-    /// cubic lattice left kappa 1.1 % (constant tau) and 1.7 % (boundary) high with the default rule
-    /// (docs/outside-checks.md, round 10).
+    /// (each component a, both tau laws). Their error reaches kappa only through the cell's share of
+    /// it, so each may leave <see cref="KappaTolerance"/> divided by an estimate of that share at the lowest
+    /// temperature (<see cref="CellShare"/>): models and temperatures the default integrates well
+    /// enough keep it, their bits and their cost (more nodes cost seven solves and the radial sum per ray).
     /// </summary>
-    public static int ChooseForConductivity(CompiledCrystal crystal, IReadOnlyList<Vec3> edges) =>
-        Choose(crystal, edges, 2 * crystal.Lattice.Dimension, KineticDensities);
+    /// <param name="lowFrequencyHeavy">an Umklapp or point-defect channel is on (tau grows as omega falls,
+    /// so the long waves weigh more)</param>
+    public static int ChooseForConductivity(CompiledCrystal crystal, IReadOnlyList<Vec3> edges, IReadOnlyList<double> temperaturesK, bool lowFrequencyHeavy)
+    {
+        var d = crystal.Lattice.Dimension;
+        var positive = temperaturesK.Where(t => t > 0).ToArray();
+        if (d == 1 || positive.Length == 0 || LongWaveForm(crystal, d) is not { } form)
+        {
+            return CentredCellRays.FaceNodes(d);
+        }
+
+        var share = CellShare(form, crystal, edges, d, positive.Min(), lowFrequencyHeavy);
+        var tolerance = share > 0 ? KappaTolerance / share : double.PositiveInfinity;
+        return Choose(crystal, edges, 2 * d, KineticDensities, tolerance);
+    }
+
+    /// <summary>
+    /// An estimate of the share of kappa in the q = 0 cell at temperature T: long-wave modes of branches
+    /// no faster than c_max inside the sphere of the cell's volume (radius q_c) carry
+    /// F(x) = int_0^x w(t) dt / int_0^inf w(t) dt of kappa, x = hbar c_max q_c / kB T, with
+    /// w(t) = t^(d+1) e^t / (e^t - 1)^2 for a relaxation time that does not grow as omega falls and
+    /// t^(d-1) e^t / (e^t - 1)^2 for one that grows as omega^-2 (the kinetic integral in d dimensions
+    /// with omega = c q; own derivation). c_max is the largest speed along the axes and the face and body
+    /// diagonals of the Cartesian frame.
+    /// </summary>
+    private static double CellShare(double[][,] form, CompiledCrystal crystal, IReadOnlyList<Vec3> edges, int d, double temperatureK, bool lowFrequencyHeavy)
+    {
+        var c = crystal.Components;
+        Span<double> values = stackalloc double[3];
+        var largest = 0.0;
+        for (var x0 = -1; x0 <= 1; x0++)
+        {
+            for (var y0 = -1; y0 <= 1; y0++)
+            {
+                for (var z0 = d == 3 ? -1 : 0; z0 <= (d == 3 ? 1 : 0); z0++)
+                {
+                    var u = new Vec3(x0, y0, z0);
+                    if (u.Length > 0)
+                    {
+                        var count = Eigenvalues(form, c, d, u / u.Length, values);
+                        largest = Math.Max(largest, values[count - 1]);
+                    }
+                }
+            }
+        }
+
+        var density = crystal.MassesKg.Sum() / crystal.Lattice.CellMeasure;
+        var speed = Math.Sqrt(largest / density);
+
+        // Radius of the sphere (circle) of the cell's volume (area).
+        var measure = d == 2
+            ? Math.Abs((edges[0].X * edges[1].Y) - (edges[0].Y * edges[1].X))
+            : Math.Abs(edges[0].Dot(edges[1].Cross(edges[2])));
+        var outer = d == 2 ? Math.Sqrt(measure / Math.PI) : Math.Cbrt(3 * measure / (4 * Math.PI));
+        var x = Units.PhysicalConstants.HbarJS * speed * outer / (Units.PhysicalConstants.BoltzmannJPerK * temperatureK);
+        var power = lowFrequencyHeavy ? d - 1 : d + 1;
+        if (power < 2)
+        {
+            return 1; // tau ~ omega^-2 in 2D: the long waves' integral diverges, the cell may hold any share
+        }
+
+        double Weight(double t) => t <= 0 ? (power == 2 ? 1 : 0) : Math.Pow(t, power) * Math.Exp(-t) / ((1 - Math.Exp(-t)) * (1 - Math.Exp(-t)));
+        const double end = 80; // the weight is below e^-70 beyond
+        var whole = GaussLegendreRule.Integrate(Weight, 0, end, 128);
+        return x >= end ? 1 : Math.Min(1, GaussLegendreRule.Integrate(Weight, 0, x, 128) / whole);
+    }
 
     /// <summary>
     /// The direction densities of a long-wave form at the unit vector u, written to
@@ -61,7 +134,7 @@ internal static class LongWaveFaceRule
     /// </summary>
     private delegate void DirectionDensities(double[][,] form, int components, int dimension, Vec3 u, Span<double> densities);
 
-    private static int Choose(CompiledCrystal crystal, IReadOnlyList<Vec3> edges, int count, DirectionDensities densities)
+    private static int Choose(CompiledCrystal crystal, IReadOnlyList<Vec3> edges, int count, DirectionDensities densities, double tolerance)
     {
         var d = crystal.Lattice.Dimension;
         var fallback = CentredCellRays.FaceNodes(d);
@@ -89,7 +162,7 @@ internal static class LongWaveFaceRule
                     return fallback;
                 }
 
-                within &= Math.Abs((coarse[k] / fine[k]) - 1) <= Tolerance;
+                within &= Math.Abs((coarse[k] / fine[k]) - 1) <= tolerance;
             }
 
             if (within)

@@ -31,20 +31,33 @@ internal sealed class GammaCellIntegrator
     private readonly int _dimension;
     private readonly double _epsilon;
 
-    public GammaCellIntegrator(CompiledCrystal crystal, IReadOnlyList<int> mesh)
+    /// <param name="faceNodes">Gauss-Legendre nodes per face direction (<see cref="FaceNodesFor"/>).</param>
+    public GammaCellIntegrator(Lattice lattice, IReadOnlyList<int> mesh, int faceNodes)
     {
-        var lattice = crystal.Lattice;
         _dimension = lattice.Dimension;
-        var edges = new Vec3[_dimension];
-        for (var i = 0; i < _dimension; i++)
+        _rays = CentredCellRays.Build(_dimension, Edges(lattice, mesh), faceNodes);
+        _epsilon = Math.Min(1e-3 * AcousticAverages.SmallestReciprocal(lattice), 1e-2 * _rays.ShortestRayM);
+    }
+
+    /// <summary>
+    /// The face rule for the cell of this mesh. At low temperature the cell holds nearly all the
+    /// heat-carrying modes, so the rule follows the conductivity's own direction integrand: the default
+    /// unless the speeds vary strongly and the cell holds enough of kappa at the lowest temperature for
+    /// that to show (<see cref="LongWaveFaceRule.ChooseForConductivity"/>). The half-density check mesh
+    /// takes the same rule, so its change measures the mesh, not a change of rule.
+    /// </summary>
+    public static int FaceNodesFor(CompiledCrystal crystal, IReadOnlyList<int> mesh, IReadOnlyList<double> temperaturesK, ScatteringRates scattering) =>
+        LongWaveFaceRule.ChooseForConductivity(crystal, Edges(crystal.Lattice, mesh), temperaturesK, scattering.UmklappOn || scattering.PointDefectOn);
+
+    private static Vec3[] Edges(Lattice lattice, IReadOnlyList<int> mesh)
+    {
+        var edges = new Vec3[lattice.Dimension];
+        for (var i = 0; i < edges.Length; i++)
         {
             edges[i] = lattice.ReciprocalVector(i) / mesh[i];
         }
 
-        // At low temperature this cell holds nearly all the heat-carrying modes, so its face rule follows
-        // the conductivity's own direction integrand (the default unless the speeds vary strongly).
-        _rays = CentredCellRays.Build(_dimension, edges, LongWaveFaceRule.ChooseForConductivity(crystal, edges));
-        _epsilon = Math.Min(1e-3 * AcousticAverages.SmallestReciprocal(lattice), 1e-2 * _rays.ShortestRayM);
+        return edges;
     }
 
     public int RayCount => _rays.Rays.Count;
