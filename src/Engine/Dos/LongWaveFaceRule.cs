@@ -38,7 +38,103 @@ internal static class LongWaveFaceRule
     /// cannot be had (a singular optical block, a long wave that is not stable: the region is not
     /// used then anyway) or the dimension is 1 (a single direction, nothing to integrate).
     /// </summary>
-    public static int Choose(CompiledCrystal crystal, IReadOnlyList<Vec3> edges)
+    public static int Choose(CompiledCrystal crystal, IReadOnlyList<Vec3> edges) =>
+        Choose(crystal, edges, 1, static (form, c, d, u, densities) => densities[0] = InverseSpeedSum(form, c, d, u), Tolerance);
+
+    /// <summary>
+    /// Relative error of kappa the conductivity's rule may leave through the q = 0 cell's direction
+    /// average at the lowest temperature: well below the 1.5 % the default rule left on a simple cubic
+    /// model and the half-mesh changes of percents at intermediate temperatures, while models whose cell
+    /// holds little of kappa keep the default rule and its cost (docs/outside-checks.md, round 10).
+    /// </summary>
+    public const double KappaTolerance = 1e-3;
+
+    /// <summary>
+    /// The face rule for the conductivity's rays over the mesh cell around q = 0. At low temperature
+    /// that cell holds nearly all heat-carrying modes, and kappa_aa takes the direction average of
+    /// sum_b v_b,a(u)^2 t(u) / c_b(u)^d, where c_b is the phase speed along u, v_b its group velocity and
+    /// t the direction part of the relaxation time (1 for a constant, point-defect or Umklapp tau, which
+    /// depend on omega only; 1 / |v_b| for boundary scattering). The group velocity weights directions
+    /// differently from the heat capacity's sum_b c_b^-d, so the rule is chosen on these 2d averages
+    /// (each component a, both tau laws). Their error reaches kappa only through the cell's share of
+    /// it, so each may leave <see cref="KappaTolerance"/> divided by an estimate of that share at the lowest
+    /// temperature (<see cref="CellShare"/>): models and temperatures the default integrates well
+    /// enough keep it, their bits and their cost (more nodes cost seven solves and the radial sum per ray).
+    /// </summary>
+    /// <param name="lowFrequencyHeavy">an Umklapp or point-defect channel is on (tau grows as omega falls,
+    /// so the long waves weigh more)</param>
+    public static int ChooseForConductivity(CompiledCrystal crystal, IReadOnlyList<Vec3> edges, IReadOnlyList<double> temperaturesK, bool lowFrequencyHeavy)
+    {
+        var d = crystal.Lattice.Dimension;
+        var positive = temperaturesK.Where(t => t > 0).ToArray();
+        if (d == 1 || positive.Length == 0 || LongWaveForm(crystal, d) is not { } form)
+        {
+            return CentredCellRays.FaceNodes(d);
+        }
+
+        var share = CellShare(form, crystal, edges, d, positive.Min(), lowFrequencyHeavy);
+        var tolerance = share > 0 ? KappaTolerance / share : double.PositiveInfinity;
+        return Choose(crystal, edges, 2 * d, KineticDensities, tolerance);
+    }
+
+    /// <summary>
+    /// An estimate of the share of kappa in the q = 0 cell at temperature T: long-wave modes of branches
+    /// no faster than c_max inside the sphere of the cell's volume (radius q_c) carry
+    /// F(x) = int_0^x w(t) dt / int_0^inf w(t) dt of kappa, x = hbar c_max q_c / kB T, with
+    /// w(t) = t^(d+1) e^t / (e^t - 1)^2 for a relaxation time that does not grow as omega falls and
+    /// t^(d-1) e^t / (e^t - 1)^2 for one that grows as omega^-2 (the kinetic integral in d dimensions
+    /// with omega = c q; own derivation). c_max is the largest speed along the axes and the face and body
+    /// diagonals of the Cartesian frame.
+    /// </summary>
+    private static double CellShare(double[][,] form, CompiledCrystal crystal, IReadOnlyList<Vec3> edges, int d, double temperatureK, bool lowFrequencyHeavy)
+    {
+        var c = crystal.Components;
+        Span<double> values = stackalloc double[3];
+        var largest = 0.0;
+        for (var x0 = -1; x0 <= 1; x0++)
+        {
+            for (var y0 = -1; y0 <= 1; y0++)
+            {
+                for (var z0 = d == 3 ? -1 : 0; z0 <= (d == 3 ? 1 : 0); z0++)
+                {
+                    var u = new Vec3(x0, y0, z0);
+                    if (u.Length > 0)
+                    {
+                        var count = Eigenvalues(form, c, d, u / u.Length, values);
+                        largest = Math.Max(largest, values[count - 1]);
+                    }
+                }
+            }
+        }
+
+        var density = crystal.MassesKg.Sum() / crystal.Lattice.CellMeasure;
+        var speed = Math.Sqrt(largest / density);
+
+        // Radius of the sphere (circle) of the cell's volume (area).
+        var measure = d == 2
+            ? Math.Abs((edges[0].X * edges[1].Y) - (edges[0].Y * edges[1].X))
+            : Math.Abs(edges[0].Dot(edges[1].Cross(edges[2])));
+        var outer = d == 2 ? Math.Sqrt(measure / Math.PI) : Math.Cbrt(3 * measure / (4 * Math.PI));
+        var x = Units.PhysicalConstants.HbarJS * speed * outer / (Units.PhysicalConstants.BoltzmannJPerK * temperatureK);
+        var power = lowFrequencyHeavy ? d - 1 : d + 1;
+        if (power < 2)
+        {
+            return 1; // tau ~ omega^-2 in 2D: the long waves' integral diverges, the cell may hold any share
+        }
+
+        double Weight(double t) => t <= 0 ? (power == 2 ? 1 : 0) : Math.Pow(t, power) * Math.Exp(-t) / ((1 - Math.Exp(-t)) * (1 - Math.Exp(-t)));
+        const double end = 80; // the weight is below e^-70 beyond
+        var whole = GaussLegendreRule.Integrate(Weight, 0, end, 128);
+        return x >= end ? 1 : Math.Min(1, GaussLegendreRule.Integrate(Weight, 0, x, 128) / whole);
+    }
+
+    /// <summary>
+    /// The direction densities of a long-wave form at the unit vector u, written to
+    /// <c>densities</c>; +Infinity (or NaN) where the form has no stable long wave.
+    /// </summary>
+    private delegate void DirectionDensities(double[][,] form, int components, int dimension, Vec3 u, Span<double> densities);
+
+    private static int Choose(CompiledCrystal crystal, IReadOnlyList<Vec3> edges, int count, DirectionDensities densities, double tolerance)
     {
         var d = crystal.Lattice.Dimension;
         var fallback = CentredCellRays.FaceNodes(d);
@@ -47,21 +143,29 @@ internal static class LongWaveFaceRule
             return fallback;
         }
 
-        double Density(Vec3 u) => InverseSpeedSum(form, crystal.Components, d, u);
+        void Density(Vec3 u, Span<double> values) => densities(form, crystal.Components, d, u, values);
 
         // Each candidate against the rule of twice its nodes, whose own error is far smaller (Gauss
         // rules on a smooth integrand), so the check costs a few hundred evaluations for most models.
         var candidates = d == 3 ? Candidates3d : Candidates2d;
+        Span<double> coarse = stackalloc double[count];
+        Span<double> fine = stackalloc double[count];
         foreach (var nodes in candidates)
         {
-            var coarse = Average(edges, d, nodes, Density);
-            var fine = Average(edges, d, 2 * nodes, Density);
-            if (!(fine > 0) || double.IsInfinity(fine) || double.IsNaN(coarse))
+            Average(edges, d, nodes, Density, coarse);
+            Average(edges, d, 2 * nodes, Density, fine);
+            var within = true;
+            for (var k = 0; k < count; k++)
             {
-                return fallback;
+                if (!(fine[k] > 0) || double.IsInfinity(fine[k]) || double.IsNaN(coarse[k]))
+                {
+                    return fallback;
+                }
+
+                within &= Math.Abs((coarse[k] / fine[k]) - 1) <= tolerance;
             }
 
-            if (Math.Abs((coarse / fine) - 1) <= Tolerance)
+            if (within)
             {
                 return nodes;
             }
@@ -124,29 +228,10 @@ internal static class LongWaveFaceRule
     /// <summary>sum_b lambda_b^(-d/2) of Gamma(u) (proportional to sum_b v_b^-d); +Infinity for a soft direction.</summary>
     private static double InverseSpeedSum(double[][,] form, int c, int d, Vec3 u)
     {
-        Span<double> uu = [u.X, u.Y, u.Z];
         // Stack buffers: this runs ~10^3 times per bulk point (c <= 3 components).
-        Span<double> g = stackalloc double[c * c];
-        g.Clear();
-        for (var j = 0; j < d; j++)
-        {
-            for (var l = j; l < d; l++)
-            {
-                var weight = (j == l ? 1.0 : 2.0) * uu[j] * uu[l];
-                var a = form[(j * d) + l];
-                for (var p = 0; p < c; p++)
-                {
-                    for (var q = 0; q < c; q++)
-                    {
-                        g[(p * c) + q] += weight * a[p, q];
-                    }
-                }
-            }
-        }
-
         Span<double> values = stackalloc double[3];
         var sum = 0.0;
-        foreach (var lambda in values[..SymmetricEigenvalues(g, c, values)])
+        foreach (var lambda in values[..Eigenvalues(form, c, d, u, values)])
         {
             if (!(lambda > 0))
             {
@@ -157,6 +242,82 @@ internal static class LongWaveFaceRule
         }
 
         return sum;
+    }
+
+    /// <summary>
+    /// For each Cartesian component a &lt; d: sum_b v_b,a^2 / c_b^d (densities[2a]) and
+    /// sum_b v_b,a^2 / (|v_b| c_b^d) (densities[2a + 1]), with c_b = sqrt(lambda_b(u)) and the group
+    /// velocity v_b = grad sqrt(lambda_b(q)) at q = u by central differences (lambda_b is homogeneous of
+    /// degree 2 in q; step 1e-5, error ~1e-10). The form's units scale every density alike.
+    /// </summary>
+    private static void KineticDensities(double[][,] form, int c, int d, Vec3 u, Span<double> densities)
+    {
+        const double step = 1e-5;
+        Span<double> centre = stackalloc double[3];
+        Span<double> plus = stackalloc double[3];
+        Span<double> minus = stackalloc double[3];
+        Span<double> gradient = stackalloc double[3 * 3];
+        Eigenvalues(form, c, d, u, centre);
+        for (var j = 0; j < d; j++)
+        {
+            var e = j == 0 ? new Vec3(step, 0, 0) : j == 1 ? new Vec3(0, step, 0) : new Vec3(0, 0, step);
+            Eigenvalues(form, c, d, u + e, plus);
+            Eigenvalues(form, c, d, u - e, minus);
+            for (var b = 0; b < c; b++)
+            {
+                gradient[(b * 3) + j] = (Math.Sqrt(Math.Max(plus[b], 0)) - Math.Sqrt(Math.Max(minus[b], 0))) / (2 * step);
+            }
+        }
+
+        densities.Clear();
+        for (var b = 0; b < c; b++)
+        {
+            if (!(centre[b] > 0))
+            {
+                densities.Fill(double.PositiveInfinity);
+                return;
+            }
+
+            var inverse = Math.Pow(centre[b], -0.5 * d);
+            var speed = 0.0;
+            for (var j = 0; j < d; j++)
+            {
+                speed += gradient[(b * 3) + j] * gradient[(b * 3) + j];
+            }
+
+            speed = Math.Sqrt(speed);
+            for (var a = 0; a < d; a++)
+            {
+                var square = gradient[(b * 3) + a] * gradient[(b * 3) + a] * inverse;
+                densities[2 * a] += square;
+                densities[(2 * a) + 1] += speed > 0 ? square / speed : 0;
+            }
+        }
+    }
+
+    /// <summary>The eigenvalues of Gamma(q) = sum_jl q_j q_l A_jl (ascending), written to values; returns c.</summary>
+    private static int Eigenvalues(double[][,] form, int c, int d, Vec3 q, Span<double> values)
+    {
+        Span<double> uu = [q.X, q.Y, q.Z];
+        Span<double> g = stackalloc double[c * c];
+        g.Clear();
+        for (var j = 0; j < d; j++)
+        {
+            for (var l = j; l < d; l++)
+            {
+                var weight = (j == l ? 1.0 : 2.0) * uu[j] * uu[l];
+                var a = form[(j * d) + l];
+                for (var p = 0; p < c; p++)
+                {
+                    for (var r = 0; r < c; r++)
+                    {
+                        g[(p * c) + r] += weight * a[p, r];
+                    }
+                }
+            }
+        }
+
+        return SymmetricEigenvalues(g, c, values);
     }
 
     /// <summary>
@@ -211,13 +372,14 @@ internal static class LongWaveFaceRule
     }
 
     /// <summary>
-    /// The average over directions of f as the rays take it: on each face of the box (opposite faces
-    /// alike, f(-u) = f(u)), the Gauss-Legendre product rule of f(p/|p|) |det(c, e...)| / |p|^d.
+    /// The averages over directions of the densities f as the rays take them: on each face of the box
+    /// (opposite faces alike, f(-u) = f(u)), the Gauss-Legendre product rule of f(p/|p|) |det(c, e...)| / |p|^d.
     /// </summary>
-    private static double Average(IReadOnlyList<Vec3> edges, int d, int nodes, Func<Vec3, double> f)
+    private static void Average(IReadOnlyList<Vec3> edges, int d, int nodes, DensityAt f, Span<double> averages)
     {
         var rule = new GaussLegendreRule(-0.5, 0.5, nodes);
-        var total = 0.0;
+        Span<double> values = stackalloc double[averages.Length];
+        averages.Clear();
         var angle = 0.0;
         for (var face = 0; face < d; face++)
         {
@@ -240,12 +402,22 @@ internal static class LongWaveFaceRule
 
                     var length = p.Length;
                     var dOmega = jacobian * w / Math.Pow(length, d);
-                    total += dOmega * f(p / length);
+                    f(p / length, values);
+                    for (var k = 0; k < values.Length; k++)
+                    {
+                        averages[k] += dOmega * values[k];
+                    }
+
                     angle += dOmega;
                 }
             }
         }
 
-        return total / angle;
+        for (var k = 0; k < averages.Length; k++)
+        {
+            averages[k] /= angle;
+        }
     }
+
+    private delegate void DensityAt(Vec3 u, Span<double> values);
 }

@@ -281,18 +281,7 @@ public class LowTemperatureBulkTests
     {
         var a = SpacingNm * 1e-9;
         var m = MassAmu * PhysicalConstants.AtomicMassKg;
-        var bonds = new List<(Vec3 D, double K)>();
-        foreach (var (x, y, z) in new[] { (1, 0, 0), (0, 1, 0), (0, 0, 1) })
-        {
-            bonds.Add((new Vec3(x, y, z) * a, 40.0));
-            bonds.Add((new Vec3(-x, -y, -z) * a, 40.0));
-        }
-
-        foreach (var (x, y, z) in new[] { (1, 1, 0), (1, -1, 0), (1, 0, 1), (1, 0, -1), (0, 1, 1), (0, 1, -1) })
-        {
-            bonds.Add((new Vec3(x, y, z) * a, 2.0));
-            bonds.Add((new Vec3(-x, -y, -z) * a, 2.0));
-        }
+        var bonds = CentralSpringLongWaves.SimpleCubicBonds(a, 40.0, 2.0);
 
         var cosTheta = new GaussLegendreRule(-1, 1, 96);
         const int phiPoints = 192;
@@ -305,21 +294,7 @@ public class LowTemperatureBulkTests
             {
                 var phi = 2 * Math.PI * j / phiPoints;
                 var n = new Vec3(sin * Math.Cos(phi), sin * Math.Sin(phi), c);
-                var gamma = Matrix<double>.Build.Dense(3, 3);
-                foreach (var (d, k) in bonds)
-                {
-                    var e = d.Unit();
-                    var weight = k * n.Dot(d) * n.Dot(d) / (2 * m);
-                    double[] ev = [e.X, e.Y, e.Z];
-                    for (var p = 0; p < 3; p++)
-                    {
-                        for (var q = 0; q < 3; q++)
-                        {
-                            gamma[p, q] += weight * ev[p] * ev[q];
-                        }
-                    }
-                }
-
+                var gamma = CentralSpringLongWaves.Christoffel(bonds, m, n);
                 var inverseCubes = gamma.Evd(Symmetricity.Symmetric).EigenValues.Sum(l => Math.Pow(l.Real, -1.5));
                 sum += cosTheta.Weights[i] / 2 * inverseCubes / phiPoints;
             }
