@@ -108,6 +108,17 @@ public sealed class ResultTable
     /// <summary>Column <paramref name="column"/> over the rows in view.</summary>
     internal ColumnView Cells(int column) => new(_cells[column].Value, _rows);
 
+    /// <summary>
+    /// Column <paramref name="column"/>'s numbers as the typed arrays of its files, in row order (a file
+    /// without the column as null), when this is a whole table whose files hold it as numbers; else null.
+    /// </summary>
+    internal IReadOnlyList<(int Rows, NumberCells? Cells)>? WholeNumbers(int column) => _rows is not null ? null : _cells[column].Value switch
+    {
+        NumberCells n => [(n.Length, n)],
+        ConcatCells c when c.Parts.All(p => p is NumberCells or EmptyCells) => [.. c.Parts.Select(p => (p.Length, p as NumberCells))],
+        _ => null,
+    };
+
     /// <summary>The named column over the rows in view; every cell empty when the table has no such column.</summary>
     internal ColumnView Cells(string column) => IndexOf(column) is var i and >= 0 ? Cells(i) : new(new EmptyCells(_count), null);
 

@@ -269,25 +269,52 @@ internal static class SweepPlots
         }
     }
 
-    /// <summary>The rows ordered by x, rows of equal x in their own order (a stable sort), with their x values.</summary>
+    /// <summary>
+    /// The rows ordered by x, rows of equal x in their own order (a stable sort), with their x values:
+    /// a sort of plain 64-bit keys (each x's bits made to order as the numbers do, -0 as 0), then each
+    /// run of equal keys put back in its first order; the same order as a comparison sort by (x, order),
+    /// at a fraction of its cost for a filter's 10^5-10^6 rows. The x values are finite.
+    /// </summary>
     private static (int[] Rows, double[] X) SortedByX(List<int> rows, Func<int, double> x)
     {
-        var entries = new XEntry[rows.Count];
-        for (var i = 0; i < entries.Length; i++)
+        var keys = new long[rows.Count];
+        var values = new double[rows.Count];
+        var order = new int[rows.Count];
+        for (var i = 0; i < keys.Length; i++)
         {
-            entries[i] = new XEntry(x(rows[i]), i, rows[i]);
+            var v = x(rows[i]);
+            values[i] = v;
+            var bits = BitConverter.DoubleToInt64Bits(v == 0 ? 0.0 : v);
+            keys[i] = bits >= 0 ? bits : bits ^ long.MaxValue;
+            order[i] = i;
         }
 
-        entries.AsSpan().Sort(new ByX());
-        return ([.. entries.Select(e => e.Row)], [.. entries.Select(e => e.X)]);
-    }
+        Array.Sort(keys, order);
+        for (var start = 0; start < keys.Length;)
+        {
+            var end = start + 1;
+            while (end < keys.Length && keys[end] == keys[start])
+            {
+                end++;
+            }
 
-    private readonly record struct XEntry(double X, int Order, int Row);
+            if (end - start > 1)
+            {
+                Array.Sort(order, start, end - start);
+            }
 
-    /// <summary>Smaller x first, then the earlier row (the order a stable sort keeps).</summary>
-    private readonly struct ByX : IComparer<XEntry>
-    {
-        public int Compare(XEntry p, XEntry q) => p.X.CompareTo(q.X) is var c and not 0 ? c : p.Order.CompareTo(q.Order);
+            start = end;
+        }
+
+        var sortedRows = new int[order.Length];
+        var sortedX = new double[order.Length];
+        for (var i = 0; i < order.Length; i++)
+        {
+            sortedRows[i] = rows[order[i]];
+            sortedX[i] = values[order[i]];
+        }
+
+        return (sortedRows, sortedX);
     }
 
     /// <summary>True when no two of the sorted values are equal.</summary>
