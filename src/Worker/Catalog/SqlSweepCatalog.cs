@@ -76,7 +76,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         var waiting = Text(PointState.Waiting);
-        var buckets = new PointIdBuckets();
+        var buckets = new PointIdBuckets(sweep.Points.Count);
         var written = WriteChunks(c, tx, sweep, waiting, buckets);
         buckets.Write(c, tx, sweep.SweepId);
         if (written != chunkCount)

@@ -211,6 +211,39 @@ public sealed class ChunkPointIndexTests : CatalogOnBothStores
         Assert.Null(catalog.FindPoint(id, known[..8]));
     }
 
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void Ids_not_made_by_the_planner_are_grouped_as_text_and_ids_that_cannot_be_lines_are_found_the_old_way(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var plan = Plan();
+        NewSweep Sweep(string id, Func<int, string> pointId) => new()
+        {
+            SweepId = id, Name = id, Description = "", SpecHash = "0", SourcePath = "job.toml", SpecText = plan.SpecText,
+            OutputFolder = Dir.Combine("out", id), Axes = plan.Axes, Tables = ["points"], EngineVersion = "9.9.9-test",
+            Points = [.. plan.Points.Select(p => new NewPoint(pointId(p.Index), p.Index, $"c{p.Index / 4:D5}", p.Parameters))],
+        };
+
+        // Invented ids (upper case, short, of any length): grouped by their first three characters as they are.
+        Assert.True(catalog.Register(Sweep("texts", i => i % 2 == 0 ? $"P-{i}" : $"Q{i:X4}")));
+        Assert.Equal(Enumerable.Range(0, 21), Enumerable.Range(0, 21).Select(i => catalog.FindPoint("texts", i % 2 == 0 ? $"P-{i}" : $"Q{i:X4}")!.Index));
+        Assert.Null(catalog.FindPoint("texts", "P-21"));
+        Assert.Null(catalog.FindPoint("texts", "q0001"));
+
+        // An id with a space cannot be a line: no groups, and every point is still found through its chunk's text.
+        Assert.True(catalog.Register(Sweep("spaced", i => $"point {i}")));
+        using (var c = Connect(kind))
+        {
+            Assert.Empty(Strings(c, "SELECT bucket FROM latsweep_point_buckets WHERE sweep_id = 'spaced'"));
+            // P-0, P-2 ... P-20 share six groups (P-10 ... P-18 with P-1, P-20 with P-2), Q0001 ... Q0013 one; and the marker.
+            Assert.Equal(["", "P-0", "P-1", "P-2", "P-4", "P-6", "P-8", "Q00"],
+                Strings(c, "SELECT bucket FROM latsweep_point_buckets WHERE sweep_id = 'texts'").Order(StringComparer.Ordinal));
+        }
+
+        Assert.Equal(Enumerable.Range(0, 21), Enumerable.Range(0, 21).Select(i => catalog.FindPoint("spaced", $"point {i}")!.Index));
+        Assert.Null(catalog.FindPoint("spaced", "point 21"));
+    }
+
     private static PointCompletion[] Done(ChunkClaim claim) =>
         [.. claim.Points.Select(p => new PointCompletion(p.PointId, PointState.Done, null, null,
             DateTimeOffset.UnixEpoch.AddDays(1), DateTimeOffset.UnixEpoch.AddDays(1).AddSeconds(1), 1.0))];
