@@ -161,6 +161,10 @@ switch (caseName)
             int.Parse(Option("--chunks", "7"), System.Globalization.CultureInfo.InvariantCulture), repeats, outDir);
         break;
 
+    case "queue-engine-warm":
+        report["result"] = QueueCase.EngineWarm(Option("--job", "bench/queue/40ms-points.toml"), repeats);
+        break;
+
     case "queue-engine-cold":
         report["result"] = QueueCase.EngineCold(Option("--job", "bench/queue/20ms-points.toml"));
         break;

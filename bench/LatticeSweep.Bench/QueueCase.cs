@@ -24,10 +24,7 @@ internal static class QueueCase
         var points = plan.Points;
 
         // Engine alone: bind and solve every point (the Worker's own EnginePointSolver), warmed up first.
-        for (var i = 0; i < Math.Min(20, points.Length); i++)
-        {
-            EnginePointSolver.Instance.Solve(plan, points[i], default);
-        }
+        WarmUp(plan);
 
         var engineWall = new List<double>();
         var engineCpu = new List<double>();
@@ -136,6 +133,44 @@ internal static class QueueCase
         finally
         {
             folder.Delete(recursive: true);
+        }
+    }
+
+    /// <summary>
+    /// The warmed-up side of case (e) alone: 20 points to warm up, then every point
+    /// <paramref name="passes"/> times, the process CPU of each pass. Run it with and without
+    /// <c>DOTNET_EnableAVX512=0</c> or <c>DOTNET_TieredPGO=0</c> to see what each width and the
+    /// harness's profile-guided re-JIT give the reference the overhead is taken against.
+    /// </summary>
+    public static Dictionary<string, object> EngineWarm(string jobFile, int passes)
+    {
+        var plan = JobFileLoader.Load(jobFile);
+        var points = plan.Points;
+        WarmUp(plan);
+        var cpu = new List<double>();
+        for (var r = 0; r < Math.Max(1, passes); r++)
+        {
+            var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
+            foreach (var p in points)
+            {
+                EnginePointSolver.Instance.Solve(plan, p, default);
+            }
+
+            cpu.Add((Process.GetCurrentProcess().TotalProcessorTime - cpu0).TotalSeconds);
+        }
+
+        Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture,
+            $"  engine warm {Path.GetFileName(jobFile)}: {points.Length} points, CPU per pass {string.Join(" ", cpu.Select(c => c.ToString("F2", CultureInfo.InvariantCulture)))} s " +
+            $"(load {File.ReadAllText("/proc/loadavg").Split(' ')[0]})"));
+        return new Dictionary<string, object> { ["cpu_s"] = cpu };
+    }
+
+    /// <summary>The warmed-up side's warm-up: the job's first 20 points solved once.</summary>
+    private static void WarmUp(SweepPlan plan)
+    {
+        for (var i = 0; i < Math.Min(20, plan.Points.Length); i++)
+        {
+            EnginePointSolver.Instance.Solve(plan, plan.Points[i], default);
         }
     }
 

@@ -302,18 +302,46 @@ internal sealed class LongWaveRegion
             upper *= 0.5;
         }
 
-        // Series part: g_rk = w d omega^(d-1) / s0^d [1 - (d + 2) (c1 / s0^3) omega^2], fractions f0 + f' y.
-        double a = 0, b = 0;
+        // Series part: g_rk = w d omega^(d-1) / s0^d [1 - (d + 2) (c1 / s0^3) omega^2], fractions f0 + f' y;
+        // for a q^2 branch (omega = t0 y (1 + (c1 / t0) y)) g_rk = w (d/2) omega^(d/2-1) / t0^(d/2) [1 - (d/2 + 1) (c1 / t0^2) omega].
+        double a = 0, b = 0, a2 = 0, b2 = 0;
         var aChannels = new double[channels];
         var bChannels = new double[channels];
+        var a2Channels = new double[channels];
+        var b2Channels = new double[channels];
         var f0 = new double[_channels];
         var f1 = new double[_channels];
         var seriesBelow = omegaC;
+        var anyQuadratic = false;
         for (var r = 0; r < _rays.Length; r++)
         {
             var ray = _rays[r];
             for (var k = 0; k < _acoustic; k++)
             {
+                if (ray.IsQuadratic(k))
+                {
+                    anyQuadratic = true;
+                    var t0 = ray.Slope(k);
+                    var half = 0.5 * d;
+                    var baseline2 = _weights[r] * half / Math.Pow(t0, half);
+                    var curvature2 = -(half + 1) * ray.Curvature(k) / (t0 * t0);
+                    a2 += baseline2;
+                    b2 += baseline2 * curvature2;
+                    seriesBelow = Math.Min(seriesBelow, t0 * Math.Min(1e-6 / Math.Max(ray.DispersionScale(k), 1e-300), RayDispersion.NodeY[1]));
+                    if (channels > 0)
+                    {
+                        ray.Fractions(k, 0, f0);
+                        ray.Fractions(k, Math.Sqrt(RayDispersion.NodeY[1]), f1);
+                        for (var c = 0; c < channels; c++)
+                        {
+                            a2Channels[c] += baseline2 * f0[c];
+                            b2Channels[c] += baseline2 * ((curvature2 * f0[c]) + ((f1[c] - f0[c]) / (RayDispersion.NodeY[1] * t0)));
+                        }
+                    }
+
+                    continue;
+                }
+
                 var s0 = ray.Slope(k);
                 var c1 = ray.Curvature(k) / s0;
                 var baseline = _weights[r] * d / Math.Pow(s0, d);
@@ -350,11 +378,13 @@ internal sealed class LongWaveRegion
             for (var k = 0; k < _acoustic; k++)
             {
                 var rhoC = _rhoSplit[(r * _acoustic) + k];
-                var rho = Math.Min(omega[0] / ray.Slope(k), rhoC);
+                var quadratic = ray.IsQuadratic(k);
+                var rho = Math.Min(ray.RhoGuess(k, omega[0]), rhoC);
                 var previous = omega[0];
                 for (var node = 0; node < exact; node++)
                 {
-                    rho = Root(ray, k, omega[node], rho * (omega[node] / previous), rhoC);
+                    var ratio = omega[node] / previous;
+                    rho = Root(ray, k, omega[node], rho * (quadratic ? Math.Sqrt(ratio) : ratio), rhoC);
                     previous = omega[node];
                     var gk = _weights[r] * d * Math.Pow(rho, d - 1) / ray.OmegaDerivative(k, rho);
                     density[node] += gk;
@@ -375,7 +405,8 @@ internal sealed class LongWaveRegion
         {
             var w = omega[node];
             var power = Math.Pow(w, d - 1);
-            var g = node < exact ? density[node] : power * (a + (b * w * w));
+            var power2 = anyQuadratic ? Math.Pow(w, (0.5 * d) - 1) : 0.0;
+            var g = node < exact ? density[node] : anyQuadratic ? (power * (a + (b * w * w))) + (power2 * (a2 + (b2 * w))) : power * (a + (b * w * w));
             if (!(g > 0))
             {
                 continue;
@@ -383,19 +414,36 @@ internal sealed class LongWaveRegion
 
             for (var c = 0; c < channels; c++)
             {
-                fractions![c] = (node < exact ? channelDensity[(node * channels) + c] : power * (aChannels[c] + (bChannels[c] * w * w))) / g;
+                var series = anyQuadratic
+                    ? (power * (aChannels[c] + (bChannels[c] * w * w))) + (power2 * (a2Channels[c] + (b2Channels[c] * w)))
+                    : power * (aChannels[c] + (bChannels[c] * w * w));
+                fractions![c] = (node < exact ? channelDensity[(node * channels) + c] : series) / g;
             }
 
             sink.Add(w, quadrature[node] * g, fractions);
         }
 
-        // The sliver [0, upper]: states A upper^d / d at upper e^(-1/d).
-        for (var c = 0; c < channels; c++)
+        // The sliver [0, upper]: states A upper^d / d at upper e^(-1/d), which keeps the mean of ln omega
+        // under the density A omega^(d-1); a q^2 branch's A2 omega^(d/2-1) puts A2 upper^(d/2) / (d/2) at upper e^(-2/d).
+        if (a > 0)
         {
-            fractions![c] = aChannels[c] / a;
+            for (var c = 0; c < channels; c++)
+            {
+                fractions![c] = aChannels[c] / a;
+            }
+
+            sink.Add(upper * Math.Exp(-1.0 / d), a * Math.Pow(upper, d) / d, fractions);
         }
 
-        sink.Add(upper * Math.Exp(-1.0 / d), a * Math.Pow(upper, d) / d, fractions);
+        if (a2 > 0)
+        {
+            for (var c = 0; c < channels; c++)
+            {
+                fractions![c] = a2Channels[c] / a2;
+            }
+
+            sink.Add(upper * Math.Exp(-2.0 / d), a2 * Math.Pow(upper, 0.5 * d) / (0.5 * d), fractions);
+        }
     }
 
     /// <summary>rho with omega_k(rho) = omega by Newton from a close guess; falls back to the bracketed solve.</summary>

@@ -42,7 +42,10 @@ public static partial class PhononSolver
 
         var speeds = SoundSpeedFinder.Find(solver);
         var dispersion = options.Dispersion is null ? [] : DispersionCalculator.Compute(solver, options.Dispersion, ct);
-        var result = Transport.ConductivityStep.Attach(Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion), conductivity);
+        var zeroPointDivergent = sample is BulkSample && model.Lattice.Dimension == 2 && options.MeanSquareDisplacement
+            ? QuadraticLongWaves.Channels(solver, speeds)
+            : null;
+        var result = Transport.ConductivityStep.Attach(Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion, zeroPointDivergent), conductivity);
         return ModelPropertiesStep.Attach(result, model, crystal, staticLattice);
     }
 
@@ -149,7 +152,8 @@ public static partial class PhononSolver
 
     private static PointResult Assemble(
         CrystalModel model, CompiledCrystal crystal, SolveOptions options, double[] temperatures,
-        SpectrumOutcome outcome, List<SoundSpeed> speeds, ImmutableArray<DispersionRow> dispersion)
+        SpectrumOutcome outcome, List<SoundSpeed> speeds, ImmutableArray<DispersionRow> dispersion,
+        bool[]? zeroPointDivergent = null)
     {
         var stats = outcome.Statistics;
         var maxLambda = stats.MaxLambda;
@@ -213,6 +217,16 @@ public static partial class PhononSolver
                 if (symmetry is not null && !divergent)
                 {
                     symmetry.SymmetriseDiagonal(values, components);
+                }
+
+                // A 2D bulk crystal at 0 K: the channels of a branch with omega ~ q^2 (a sheet's flexural
+                // branch) diverge too, logarithmically (QuadraticLongWaves); the others stay finite.
+                if (zeroPointDivergent is not null && !divergent)
+                {
+                    for (var c = 0; c < values.Length; c++)
+                    {
+                        values[c] = zeroPointDivergent[c] ? double.PositiveInfinity : values[c];
+                    }
                 }
 
                 for (var site = 0; site < r; site++)

@@ -15,9 +15,23 @@ namespace LatticeSweep.Engine.Spectrum;
 /// Channel fractions (|e_c|^2) are interpolated linearly in y between the nodes, group velocities by
 /// the same polynomial in y. Branches are sorted by frequency at every node, so each k is one continuous
 /// sorted band.
+/// <para>
+/// A branch with no linear slope (a sheet's flexural branch, omega = kappa |q|^2 at long waves) is
+/// followed as omega_k = rho^2 t_k(y) instead, t_k a polynomial in y through its long-wave curvature
+/// and the same nodes: rho s(y) would need s ~ sqrt(y), which no polynomial in y follows near q = 0.
+/// Such a branch is told apart by how its eigenvalue grows from the small wave vector e to 2e: by 4
+/// for a cone, by 16 for omega ~ q^2 (<see cref="QuadraticGrowth"/>).
+/// </para>
 /// </summary>
 internal sealed class RayDispersion
 {
+    /// <summary>
+    /// lambda(2e) / lambda(e) above which a branch counts as omega ~ q^2: a cone gives 4 (1 + O(e^2)), a
+    /// q^2 branch 16; a small slope c beside a curvature kappa gives more than 10 only once kappa e &gt; c,
+    /// i.e. the slope is below what the small wave vectors resolve.
+    /// </summary>
+    public const double QuadraticGrowth = 10;
+
     /// <summary>
     /// Nodes on a ray: the long-wave limit and five solves, so s is a quintic in y. Measured on invented
     /// fcc and rock-salt models, the worst error of omega on rays against direct solves is 1.5e-6 when
@@ -35,10 +49,12 @@ internal sealed class RayDispersion
     private readonly double[] _coefficients;      // [k * 4 + p]: s_k(y) = sum_p c_p y^p (rad/s per unit rho)
     private readonly double[]? _fractions;        // [(k * 4 + j) * channels + c]
     private readonly double[]? _velocityCoefficients; // [(k * 4 + p) * 3 + axis]
+    private readonly bool[]? _quadratic;          // [k]: omega_k = rho^2 t_k(y) (no linear slope); null when none is
     private readonly int _channels;
 
-    private RayDispersion(CellRay ray, int branches, int channels, double[] coefficients, double[]? fractions, double[]? velocityCoefficients, bool stable)
+    private RayDispersion(CellRay ray, int branches, int channels, double[] coefficients, double[]? fractions, double[]? velocityCoefficients, bool[]? quadratic, bool stable)
     {
+        _quadratic = quadratic;
         Ray = ray;
         Branches = branches;
         _channels = channels;
@@ -71,6 +87,8 @@ internal sealed class RayDispersion
         var velocityNodes = group is null ? null : new double[acoustic * Nodes * 3];
         var velocities = new double[n * 3];
         var stable = true;
+        bool[]? quadratic = null;
+        var velocityProbe = epsilonPerM;
 
         for (var j = 0; j < Nodes; j++)
         {
@@ -111,7 +129,7 @@ internal sealed class RayDispersion
                 {
                     var lambda = solver.Values[k];
                     stable &= lambda > 0;
-                    s[(k * Nodes) + j] = Math.Sqrt(Math.Max(lambda, 0)) / rho;
+                    s[(k * Nodes) + j] = Math.Sqrt(Math.Max(lambda, 0)) / NodeScale(quadratic, k, rho);
                 }
 
                 continue;
@@ -119,16 +137,116 @@ internal sealed class RayDispersion
 
             var near = solver.Values.AsSpan(0, acoustic).ToArray();
             solver.SolveValues(2 * epsilonPerM * u);
-            for (var k = 0; k < acoustic; k++)
+            stable &= LongWaveNodes(solver, u, near, epsilonPerM, length, s, ref quadratic, out var probe);
+            if (quadratic is not null && velocityNodes is not null)
             {
-                var v2 = ((4 * near[k]) - (solver.Values[k] / 4)) / (3 * epsilonPerM * epsilonPerM);
-                stable &= v2 > 0;
-                s[k * Nodes] = length * Math.Sqrt(Math.Max(v2, 0));
+                // A q^2 branch's velocity at the tiny e is round-off (omega(e) is): take it where the branch was resolved.
+                group!.Solve(probe * u, u, velocities);
+                for (var k = 0; k < acoustic; k++)
+                {
+                    for (var a = 0; a < 3 && quadratic[k]; a++)
+                    {
+                        velocityNodes[(k * Nodes * 3) + a] = velocities[(k * 3) + a];
+                    }
+                }
+
+                velocityProbe = probe;
             }
         }
 
-        return FromNodes(ray, acoustic, n, s, frac, velocityNodes, stable);
+        if (quadratic is not null && velocityNodes is not null)
+        {
+            // A q^2 branch's group velocity is rho times a polynomial in y: fit v / rho.
+            for (var k = 0; k < acoustic; k++)
+            {
+                for (var j = 0; j < Nodes && quadratic[k]; j++)
+                {
+                    var rho = j == 0 ? velocityProbe / length : Math.Sqrt(NodeY[j]);
+                    for (var a = 0; a < 3; a++)
+                    {
+                        velocityNodes[(((k * Nodes) + j) * 3) + a] /= rho;
+                    }
+                }
+            }
+        }
+
+        return FromNodes(ray, acoustic, n, s, frac, velocityNodes, quadratic, stable);
     }
+
+    /// <summary>
+    /// Below this fraction of the largest eigenvalue at 2e, 4 l(e) - l(2e)/4 is round-off: the slope is
+    /// not resolved at e (it cancels exactly for a q^2 branch, whose own l(e) ~ kappa^2 e^4 can sink to the
+    /// round-off of D(q) when e is far below the zone, as in the conductivity's q = 0 cell on fine meshes).
+    /// </summary>
+    private const double RoundOffFloor = 1e-13;
+
+    /// <summary>
+    /// The long-wave nodes of every acoustic branch from l(e) (<paramref name="near"/>) and l(2e) (the
+    /// solver's values on entry). A branch whose slope is round-off at e is measured again at
+    /// 1e-3 of the shortest reciprocal vector (when e is smaller), where a q^2 branch's l is resolved; a
+    /// cone there keeps its slope (Richardson's error is O(e^2) either way). Returns whether every node
+    /// is positive; <paramref name="probe"/> is where the q^2 branches were measured.
+    /// </summary>
+    private static bool LongWaveNodes(ModeSolver solver, Vec3 u, double[] near, double epsilonPerM, double length, double[] s, ref bool[]? quadratic, out double probe)
+    {
+        var acoustic = near.Length;
+        var floor = RoundOffFloor * Math.Abs(solver.Values[solver.Size - 1]);
+        var far = solver.Values.AsSpan(0, acoustic).ToArray();
+        probe = Math.Max(epsilonPerM, 1e-3 * Transport.AcousticAverages.SmallestReciprocal(solver.Matrix.Crystal.Lattice));
+        double[]? nearProbe = null, farProbe = null;
+        var stable = true;
+        for (var k = 0; k < acoustic; k++)
+        {
+            if (Math.Abs((4 * near[k]) - (far[k] / 4)) <= floor && probe > epsilonPerM)
+            {
+                if (nearProbe is null)
+                {
+                    solver.SolveValues(probe * u);
+                    nearProbe = solver.Values.AsSpan(0, acoustic).ToArray();
+                    solver.SolveValues(2 * probe * u);
+                    farProbe = solver.Values.AsSpan(0, acoustic).ToArray();
+                }
+
+                stable &= LongWaveNode(nearProbe[k], farProbe![k], probe, length, k, s, ref quadratic);
+                continue;
+            }
+
+            stable &= LongWaveNode(near[k], far[k], epsilonPerM, length, k, s, ref quadratic);
+        }
+
+        if (nearProbe is null)
+        {
+            probe = epsilonPerM;
+        }
+
+        return stable;
+    }
+
+    /// <summary>
+    /// The long-wave node of branch k from its eigenvalues at e and 2e (Richardson extrapolation):
+    /// for a cone s(0) = L v with v^2 = (4 l(e) - l(2e)/4) / (3 e^2); for a q^2 branch (growth by
+    /// more than <see cref="QuadraticGrowth"/>) t(0) = L^2 kappa with kappa^2 = (4 l(e) - l(2e)/16) / (3 e^4).
+    /// Returns whether the node is positive (a stable long wave).
+    /// </summary>
+    private static bool LongWaveNode(double near, double far, double epsilonPerM, double length, int k, double[] s, ref bool[]? quadratic)
+    {
+        if (near > 0 && far > QuadraticGrowth * near)
+        {
+            quadratic ??= new bool[s.Length / Nodes];
+            quadratic[k] = true;
+            var e2 = epsilonPerM * epsilonPerM;
+            var kappa2 = ((4 * near) - (far / 16)) / (3 * e2 * e2);
+            s[k * Nodes] = length * length * Math.Sqrt(Math.Max(kappa2, 0));
+            return kappa2 > 0;
+        }
+
+        var v2 = ((4 * near) - (far / 4)) / (3 * epsilonPerM * epsilonPerM);
+        s[k * Nodes] = length * Math.Sqrt(Math.Max(v2, 0));
+        return v2 > 0;
+    }
+
+    /// <summary>rho for a cone's node value omega / rho, y = rho^2 for a q^2 branch's omega / rho^2.</summary>
+    private static double NodeScale(bool[]? quadratic, int k, double rho) => quadratic is not null && quadratic[k] ? rho * rho : rho;
 
     /// <summary>
     /// <see cref="Measure"/> for many rays without velocities: the small wave vectors one by one (the
@@ -142,6 +260,7 @@ internal sealed class RayDispersion
         var s = new double[rays.Count][];
         var frac = new double[rays.Count][];
         var stable = new bool[rays.Count];
+        var quadratic = new bool[]?[rays.Count];
         var points = new List<Vec3>(rays.Count * (Nodes - 1));
         for (var r = 0; r < rays.Count; r++)
         {
@@ -165,12 +284,7 @@ internal sealed class RayDispersion
             }
 
             solver.SolveValues(2 * epsilonPerM * u);
-            for (var k = 0; k < acoustic; k++)
-            {
-                var v2 = ((4 * near[k]) - (solver.Values[k] / 4)) / (3 * epsilonPerM * epsilonPerM);
-                stable[r] &= v2 > 0;
-                s[r][k * Nodes] = rays[r].LengthPerM * Math.Sqrt(Math.Max(v2, 0));
-            }
+            stable[r] &= LongWaveNodes(solver, u, near, epsilonPerM, rays[r].LengthPerM, s[r], ref quadratic[r], out _);
 
             for (var j = 1; j < Nodes; j++)
             {
@@ -187,7 +301,7 @@ internal sealed class RayDispersion
             for (var k = 0; k < acoustic; k++)
             {
                 stable[r] &= values[k] > 0;
-                s[r][(k * Nodes) + j] = Math.Sqrt(Math.Max(values[k], 0)) / rho;
+                s[r][(k * Nodes) + j] = Math.Sqrt(Math.Max(values[k], 0)) / NodeScale(quadratic[r], k, rho);
                 if (fractions)
                 {
                     solver.BatchChannelFractions(slot, k, frac[r].AsSpan(((k * Nodes) + j) * n, n));
@@ -198,13 +312,13 @@ internal sealed class RayDispersion
         var result = new RayDispersion[rays.Count];
         for (var r = 0; r < rays.Count; r++)
         {
-            result[r] = FromNodes(rays[r], acoustic, n, s[r], fractions ? frac[r] : null, null, stable[r]);
+            result[r] = FromNodes(rays[r], acoustic, n, s[r], fractions ? frac[r] : null, null, quadratic[r], stable[r]);
         }
 
         return result;
     }
 
-    private static RayDispersion FromNodes(CellRay ray, int acoustic, int n, double[] s, double[]? frac, double[]? velocityNodes, bool stable)
+    private static RayDispersion FromNodes(CellRay ray, int acoustic, int n, double[] s, double[]? frac, double[]? velocityNodes, bool[]? quadratic, bool stable)
     {
         var coefficients = new double[acoustic * Nodes];
         for (var k = 0; k < acoustic; k++)
@@ -236,14 +350,24 @@ internal sealed class RayDispersion
             }
         }
 
-        return new RayDispersion(ray, acoustic, n, coefficients, frac, velocityCoefficients, stable);
+        return new RayDispersion(ray, acoustic, n, coefficients, frac, velocityCoefficients, quadratic, stable);
     }
 
-    /// <summary>The coefficient c_1 of s_k(y) = c_0 + c_1 y + ... (rad/s): the leading dispersion.</summary>
+    /// <summary>The coefficient c_1 of s_k(y) = c_0 + c_1 y + ... (or of t_k(y) for a q^2 branch; rad/s): the leading dispersion.</summary>
     public double Curvature(int k) => _coefficients[(k * Nodes) + 1];
 
-    /// <summary>Long-wave slope d omega / d rho at rho = 0 (rad/s): the sound speed along the ray times its length.</summary>
+    /// <summary>
+    /// The long-wave coefficient c_0 (rad/s): for a cone the slope d omega / d rho at rho = 0, the sound
+    /// speed along the ray times its length; for a q^2 branch (<see cref="IsQuadratic"/>) omega / rho^2 at
+    /// rho = 0, the curvature kappa times the length squared.
+    /// </summary>
     public double Slope(int k) => _coefficients[k * Nodes];
+
+    /// <summary>Whether branch k has no linear slope on this ray and is followed as omega = rho^2 t_k(y).</summary>
+    public bool IsQuadratic(int k) => _quadratic is not null && _quadratic[k];
+
+    /// <summary>The long-wave estimate of rho where omega_k = omega (omega / c_0, or its square root for a q^2 branch).</summary>
+    public double RhoGuess(int k, double omega) => IsQuadratic(k) ? Math.Sqrt(omega / Slope(k)) : omega / Slope(k);
 
     /// <summary>omega_k at rho End (rad/s).</summary>
     public double Omega(int k, double rho)
@@ -258,15 +382,26 @@ internal sealed class RayDispersion
             sum = c[at + p] + (y * sum);
         }
 
-        return rho * sum;
+        return _quadratic is not null && _quadratic[k] ? y * sum : rho * sum;
     }
 
-    /// <summary>d omega_k / d rho at rho (rad/s): sum_p (2p + 1) c_p y^p.</summary>
+    /// <summary>d omega_k / d rho at rho (rad/s): sum_p (2p + 1) c_p y^p; rho sum_p (2p + 2) c_p y^p for a q^2 branch.</summary>
     public double OmegaDerivative(int k, double rho)
     {
         var c = _coefficients;
         var at = k * Nodes;
         var y = rho * rho;
+        if (_quadratic is not null && _quadratic[k])
+        {
+            var even = 2.0 * Nodes * c[at + Nodes - 1];
+            for (var p = Nodes - 2; p >= 0; p--)
+            {
+                even = ((2 * p) + 2) * c[at + p] + (y * even);
+            }
+
+            return rho * even;
+        }
+
         var sum = ((2 * Nodes) - 1) * c[at + Nodes - 1];
         for (var p = Nodes - 2; p >= 0; p--)
         {
@@ -311,11 +446,12 @@ internal sealed class RayDispersion
         }
     }
 
-    /// <summary>Group velocity (m/s) of branch k at rho, a cubic in y through the node velocities.</summary>
+    /// <summary>Group velocity (m/s) of branch k at rho, a polynomial in y through the node velocities (rho times one for a q^2 branch).</summary>
     public Vec3 Velocity(int k, double rho)
     {
         var v = _velocityCoefficients ?? throw new InvalidOperationException("velocities were not measured on this ray");
         var y = rho * rho;
+        var factor = IsQuadratic(k) ? rho : 1.0;
         double Axis(int a)
         {
             var sum = v[(((k * Nodes) + Nodes - 1) * 3) + a];
@@ -327,7 +463,7 @@ internal sealed class RayDispersion
             return sum;
         }
 
-        return new Vec3(Axis(0), Axis(1), Axis(2));
+        return factor == 1.0 ? new Vec3(Axis(0), Axis(1), Axis(2)) : new Vec3(factor * Axis(0), factor * Axis(1), factor * Axis(2));
     }
 
     /// <summary>
@@ -337,7 +473,7 @@ internal sealed class RayDispersion
     public double RhoOf(int k, double omega, double rhoMax)
     {
         double lo = 0, hi = rhoMax;
-        var rho = Math.Min(omega / Slope(k), rhoMax);
+        var rho = Math.Min(RhoGuess(k, omega), rhoMax);
         for (var it = 0; it < 60; it++)
         {
             var f = Omega(k, rho) - omega;

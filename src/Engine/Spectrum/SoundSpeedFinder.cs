@@ -11,16 +11,27 @@ namespace LatticeSweep.Engine.Spectrum;
 /// </summary>
 internal static class SoundSpeedFinder
 {
+    /// <summary>
+    /// Below this fraction of the largest eigenvalue at 2 delta the extrapolated slope is round-off, and the
+    /// speed is 0: a branch with omega ~ q^2 (a sheet's flexural branch) cancels exactly in the
+    /// extrapolation and left noise of either sign (-0.02 m/s beside 10^4 m/s), read as an unstable slope.
+    /// Round-off sits near 1e-17 of it; a real slope this small is a speed below ~2e-4 of the fastest.
+    /// </summary>
+    private const double RoundOffFloor = 1e-13;
+
+    /// <summary>The directions of the sound speeds, by label, in Cartesian axes.</summary>
+    public static (string Label, Vec3 Direction)[] Directions(int dimension) => dimension switch
+    {
+        1 => [("[1]", new Vec3(1, 0, 0))],
+        2 => [("[10]", new Vec3(1, 0, 0)), ("[11]", new Vec3(1, 1, 0))],
+        _ => [("[100]", new Vec3(1, 0, 0)), ("[110]", new Vec3(1, 1, 0)), ("[111]", new Vec3(1, 1, 1))],
+    };
+
     public static List<SoundSpeed> Find(ModeSolver solver)
     {
         var crystal = solver.Matrix.Crystal;
         var lattice = crystal.Lattice;
-        var directions = lattice.Dimension switch
-        {
-            1 => new[] { ("[1]", new Vec3(1, 0, 0)) },
-            2 => [("[10]", new Vec3(1, 0, 0)), ("[11]", new Vec3(1, 1, 0))],
-            _ => [("[100]", new Vec3(1, 0, 0)), ("[110]", new Vec3(1, 1, 0)), ("[111]", new Vec3(1, 1, 1))],
-        };
+        var directions = Directions(lattice.Dimension);
 
         var bMin = double.PositiveInfinity;
         for (var k = 0; k < lattice.Dimension; k++)
@@ -38,10 +49,12 @@ internal static class SoundSpeedFinder
             var small = solver.Values.Take(acoustic).ToArray();
             solver.SolveValues(2 * delta * u);
             var twice = solver.Values.Take(acoustic).ToArray();
+            var roundOff = RoundOffFloor * Math.Abs(solver.Values[^1]);
             var speeds = new double[acoustic];
             for (var k = 0; k < acoustic; k++)
             {
-                var v2 = (4 * small[k] - twice[k] / 4) / (3 * delta * delta);
+                var numerator = 4 * small[k] - twice[k] / 4;
+                var v2 = Math.Abs(numerator) <= roundOff ? 0 : numerator / (3 * delta * delta);
                 speeds[k] = v2 > 0 ? Math.Sqrt(v2) : (v2 < 0 ? -Math.Sqrt(-v2) : 0);
             }
 

@@ -25,7 +25,7 @@ internal sealed record AcousticAverages
     /// <summary>theta_a = hbar v_D k_D / kB with k_D from one acoustic set per primitive cell (K).</summary>
     public required double AcousticDebyeTemperatureK { get; init; }
 
-    /// <summary>False when a slope squared is not positive (unstable or floppy long waves).</summary>
+    /// <summary>False when a slope squared is not positive (unstable or floppy long waves); a q^2 branch counts as stable, speed 0.</summary>
     public required bool Stable { get; init; }
 
     public static AcousticAverages Measure(ModeSolver solver)
@@ -46,6 +46,14 @@ internal sealed record AcousticAverages
             solver.SolveValues(2 * epsilon * u);
             for (var k = 0; k < branches; k++)
             {
+                // A branch with omega ~ q^2 (a sheet's flexural branch) has no slope but is stable: speed 0,
+                // left out of the Debye speed's sum like any zero speed; the kinetic sum follows it on its rays.
+                if (near[k] > 0 && solver.Values[k] > RayDispersion.QuadraticGrowth * near[k])
+                {
+                    speeds[k] = 0;
+                    continue;
+                }
+
                 var v2 = (4 * near[k] - solver.Values[k] / 4) / (3 * epsilon * epsilon);
                 stable &= v2 > 0;
                 speeds[k] = v2 > 0 ? Math.Sqrt(v2) : 0;

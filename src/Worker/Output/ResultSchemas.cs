@@ -77,7 +77,7 @@ internal sealed class ResultSchemas
             C<RowOf<DisplacementRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
             C<RowOf<DisplacementRow>>("site", ColumnType.Int32, "", "basis site (0-based)", r => r.Item.Site),
             C<RowOf<DisplacementRow>>("site_label", ColumnType.Text, "", "basis site label", r => r.Item.SiteLabel),
-            C<RowOf<DisplacementRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x; +Infinity in bulk 1D (any T) and 2D (T > 0), where it diverges", r => r.Item.MsdXNm2),
+            C<RowOf<DisplacementRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x; +Infinity in bulk 1D (any T) and 2D (T > 0), where it diverges, and at 0 K along the motion of a 2D branch with omega ~ q^2 (a sheet's flexural branch)", r => r.Item.MsdXNm2),
             C<RowOf<DisplacementRow>>("msd_y_nm2", ColumnType.Double, "nm^2", "mean-square displacement along y", r => r.Item.MsdYNm2),
             C<RowOf<DisplacementRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "mean-square displacement along z", r => r.Item.MsdZNm2));
         Expansion = Spec<ExpansionRow>(TableNames.Expansion, axes, ExpansionColumns());

@@ -263,6 +263,50 @@ public class BondBendingTests
     }
 
     [Fact]
+    public void A_flexural_sheets_zero_point_displacement_out_of_the_plane_diverges_and_in_the_plane_converges()
+    {
+        // omega = c q^2 makes the 0 K mesh average of hbar / (2 m omega) grow as the integral of q dq / q^2, which
+        // diverges logarithmically at q = 0 (own derivation); a linear branch gives q dq / q, finite. The engine
+        // once reported a finite z value that grew by the same step at every doubling of the mesh.
+        var options = new SolveOptions { TemperaturesK = [0], PartialDos = false };
+        foreach (var mesh in new[] { 12, 24 })
+        {
+            var rows = PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 3), BulkSample.Uniform(2, mesh), options).Displacements;
+            Assert.Equal(2, rows.Length);
+            Assert.All(rows, r => Assert.Equal(double.PositiveInfinity, r.MsdZNm2));
+            Assert.All(rows, r => Assert.True(double.IsFinite(r.MsdXNm2!.Value) && double.IsFinite(r.MsdYNm2!.Value), $"in-plane {r.MsdXNm2}, {r.MsdYNm2}"));
+        }
+
+        // In-plane values converge: the two meshes agree to a few per cent (1e-2 in 2D at these meshes).
+        var x12 = PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 3), BulkSample.Uniform(2, 12), options).Displacements[0].MsdXNm2!.Value;
+        var x24 = PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 3), BulkSample.Uniform(2, 24), options).Displacements[0].MsdXNm2!.Value;
+        Approx.Equal(x24, x12, 3e-2, "in-plane zero-point displacement, mesh 12 against 24");
+
+        // A transverse spring makes the out-of-plane branch linear: its zero-point displacement is finite.
+        var linear = PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 0, transverse: 20), BulkSample.Uniform(2, 12), options).Displacements;
+        Assert.All(linear, r => Assert.True(double.IsFinite(r.MsdZNm2!.Value), $"z {r.MsdZNm2}"));
+    }
+
+    [Fact]
+    public void A_sheets_flexural_branch_has_sound_speed_zero_never_a_negative_speed_from_round_off()
+    {
+        // omega^2 ~ q^4 has no linear slope, so its sound speed is 0 (Landau and Lifshitz, Theory of Elasticity,
+        // sect. 25, from memory); the two-point extrapolation cancels the q^4 term exactly and once returned
+        // round-off of either sign (-0.02 m/s beside the in-plane 10^4 m/s of this sheet).
+        var speeds = PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 3), BulkSample.Uniform(2, 6), new SolveOptions { TemperaturesK = [300] }).Summary.SoundSpeeds;
+        Assert.Equal(["[10]", "[11]"], speeds.Select(s => s.Direction));
+        foreach (var s in speeds)
+        {
+            Assert.Equal(0.0, s.SpeedsMPerS[0]);
+            Assert.True(s.SpeedsMPerS[1] > 1e3, $"{s.Direction}: in-plane transverse {s.SpeedsMPerS[1]} m/s");
+        }
+
+        // A branch made linear by a transverse spring keeps its slope: the floor only removes round-off.
+        var linear = PhononSolver.Solve(BondedCrystals.Honeycomb(flexural: 0, transverse: 20), BulkSample.Uniform(2, 6), new SolveOptions { TemperaturesK = [300] }).Summary.SoundSpeeds;
+        Assert.All(linear, s => Assert.True(s.SpeedsMPerS[0] > 100, $"{s.Direction}: {s.SpeedsMPerS[0]} m/s"));
+    }
+
+    [Fact]
     public void A_square_sheet_with_flexural_bends_has_the_closed_form_plate_branch_everywhere()
     {
         // Each straight pair j-i-k of the nearest shell costs (1/2) k (u_j + u_k - 2 u_i)^2 out of the plane

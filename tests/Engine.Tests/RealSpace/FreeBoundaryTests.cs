@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Builders;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Results;
 using LatticeSweep.Engine.Samples;
@@ -24,6 +25,26 @@ public sealed class FreeBoundaryTests
         Assert.Equal(1, result.Summary.RigidModesExcluded);
         Assert.Equal(result.Summary.RigidModesExcluded, result.Summary.ZeroModesExcluded); // none beyond the rigid ones: not floppy
         Approx.Equal(expected[1], result.Surface!.ConfinementGapThz!.Value, 1e-10, "confinement gap");
+    }
+
+    [Fact]
+    public void A_light_end_atom_of_a_free_chain_carries_a_mode_above_the_band_at_the_closed_form_frequency()
+    {
+        // Semi-infinite chain (masses m, springs K) ending in a mass m0 < m/2: u_n = (-x)^n with x = m0 / (m - m0)
+        // solves the bulk and end equations, so omega^2 = K m / (m0 (m - m0)), above the band top 4K/m (own
+        // derivation from the equations of motion; the existence of such a mode from memory). A chain of 40 sites
+        // with a light atom at each end has two such modes, split by about x^40 ~ 1e-15.
+        const double k = 35, m = 20, m0 = 6;
+        var masses = Enumerable.Repeat(m, 40).ToArray();
+        masses[0] = masses[^1] = m0;
+        var model = LayeredModelBuilder.Build(new LayeredModelSpec(LayeredHost.Chain, 0.25, 40, MassPattern.Repeated(masses), k, 0, DegreesOfFreedom.Scalar));
+        var result = PhononSolver.Solve(model, RealSpaceSample.Box(1, 1, 1, Boundary.Free), Options);
+        var expected = Crystals.Thz(Math.Sqrt(k * m / (m0 * (m - m0) * Units.PhysicalConstants.AtomicMassKg)));
+        var top = result.Modes.SelectMany(l => Enumerable.Repeat(l.FrequencyThz, (int)l.Multiplicity)).OrderDescending().Take(3).ToArray();
+        Approx.Equal(expected, top[0], 1e-12, "symmetric end mode");
+        Approx.Equal(expected, top[1], 1e-12, "antisymmetric end mode");
+        Assert.True(top[2] < Crystals.Thz(2 * Crystals.Omega0(k, m)), $"third mode {top[2]} THz lies in the band");
+        Assert.Equal(2, result.Surface!.SurfaceSites); // the two end atoms, each missing a neighbour
     }
 
     [Fact]
@@ -189,6 +210,15 @@ public sealed class FreeBoundaryTests
         }
 
         Approx.Equal(1.0, result.Dos.Total.Sum() * width, 1e-12, "total integral (branches)");
+
+        // Every mode's weight is shared among the atoms, so the layers' densities, each times its atoms, add up
+        // to the total per cell times the 125 cells, bin by bin (a sum rule, common practice, no source).
+        var top = result.Dos.Total.Max() * 125;
+        for (var b = 0; b < result.Dos.Total.Length; b++)
+        {
+            var sum = s.LayerDos.Sum(l => l.Sites * l.DensityPerThzPerAtom[b]);
+            Tolerance.AssertClose(result.Dos.Total[b] * 125, sum, 0, 1e-12 * top, $"bin {b}");
+        }
     }
 
     [Fact]
