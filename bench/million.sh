@@ -14,7 +14,8 @@
 # KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run). The dashboard step also asks for the
 # page of a waiting point (index 600,000, read from the store's chunk rows with python3's sqlite3) when it can find one,
 # then a filter that keeps about half the rows of the merged bench data (sorted, and its page at row 300,000 with its
-# plots) and a far page of another sort: requests no footer fact answers, which read and sort their columns.
+# plots) and a far page of another sort: requests no footer fact answers, which read and sort their columns;
+# last, another page of that filter (its plots kept from the far page: the dashboard keeps a filter's plots across requests).
 set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$(dirname "$here")"
@@ -96,7 +97,8 @@ print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 60
           "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000" \
           ${waiting:+"sweeps/$id/points/$waiting"} \
           "api/sweeps/$id/results?range=debye_temperature_from_cv_k:0:749.7&sort=cv_j_per_kg_k&dir=desc" \
-          "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=300000" "api/sweeps/$id/results?sort=cv_j_per_mol_k&offset=700000"; do
+          "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=300000" "api/sweeps/$id/results?sort=cv_j_per_mol_k&offset=700000" \
+          "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=100"; do
         # Beside each request's wall time, the dashboard process's CPU so far (user + system; steadier than wall on a shared machine).
         took="$(curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
         echo "$took, process CPU $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"

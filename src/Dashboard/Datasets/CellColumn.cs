@@ -78,6 +78,12 @@ internal sealed class EmptyCells(int length) : CellColumn(length)
 /// <summary>Numbers (double, int or long in the file) as doubles with a presence mask; boxed back to their own type.</summary>
 internal sealed class NumberCells(double[] values, bool[] present, Type type) : CellColumn(values.Length)
 {
+    internal double[] Values => values;
+
+    internal bool[] Present => present;
+
+    internal Type Type => type;
+
     public override object? Cell(int row) =>
         !present[row] ? null : type == typeof(int) ? (object)(int)values[row] : type == typeof(long) ? (object)(long)values[row] : (object)values[row];
 
@@ -151,12 +157,16 @@ internal sealed class ConcatCells : CellColumn
         : base(parts.Sum(p => p.Length))
     {
         _parts = parts;
+        Parts = [.. parts];
         _starts = new int[parts.Length];
         for (int i = 1; i < parts.Length; i++)
         {
             _starts[i] = _starts[i - 1] + parts[i - 1].Length;
         }
     }
+
+    /// <summary>The files' parts in row order.</summary>
+    public System.Collections.Immutable.ImmutableArray<CellColumn> Parts { get; }
 
     public override object? Cell(int row) => Find(row, out var r).Cell(r);
 

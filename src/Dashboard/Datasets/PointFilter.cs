@@ -164,6 +164,11 @@ public sealed record PointFilter
             return points;
         }
 
+        if (!StableOnly && !DoneOnly && !NotFloppy && Values.IsEmpty && RangesOnArrays(points) is { } kept)
+        {
+            return kept;
+        }
+
         // Column by column over positions: only the columns the filter names are read.
         var flags = new ColumnFlags(points);
         var ranges = Ranges.Select(r => (Cells: points.IndexOf(r.Column) is var i and >= 0 ? points.Cells(i) : (ColumnView?)null, r.Min, r.Max)).ToList();
@@ -198,11 +203,61 @@ public sealed record PointFilter
     }
 
     /// <summary>
+    /// The rows a filter of ranges only keeps, tested on the columns' typed arrays (one pass per range
+    /// over each file's plain doubles instead of a call per cell per row: the 10^6-row table's filter took
+    /// ~0.1 s the other way); null when a column is not held as arrays of numbers (a view, another type).
+    /// </summary>
+    private ResultTable? RangesOnArrays(ResultTable points)
+    {
+        var columns = new List<(IReadOnlyList<(int Rows, NumberCells? Cells)> Parts, double? Min, double? Max)>();
+        foreach (var r in Ranges)
+        {
+            if (points.IndexOf(r.Column) is not (var i and >= 0) || points.WholeNumbers(i) is not { } parts)
+            {
+                return null;
+            }
+
+            columns.Add((parts, r.Min, r.Max));
+        }
+
+        var keep = new bool[points.Count];
+        Array.Fill(keep, true);
+        foreach (var (parts, min, max) in columns)
+        {
+            // The same test as Keep's: a finite number within both ends (an open end passes; a file without the column keeps none).
+            var lo = min ?? double.NegativeInfinity;
+            var hi = max ?? double.PositiveInfinity;
+            var at = 0;
+            foreach (var (rows, cells) in parts)
+            {
+                if (cells is null)
+                {
+                    Array.Fill(keep, false, at, rows);
+                }
+                else
+                {
+                    var values = cells.Values;
+                    var present = cells.Present;
+                    for (var r = 0; r < rows; r++)
+                    {
+                        var v = values[r];
+                        keep[at + r] &= present[r] && double.IsFinite(v) && v >= lo && v <= hi;
+                    }
+                }
+
+                at += rows;
+            }
+        }
+
+        return points.Where(r => keep[r]);
+    }
+
+    /// <summary>
     /// True when the files' footers show that every row of the whole table passes (every point stable,
     /// a range around all of a column's values, ...): the filter then reads no column. False when they
     /// cannot tell (no summary, a filtered view, a set of values), and the rows are tested one by one.
     /// </summary>
-    private bool KeepsEveryRow(ResultTable points)
+    internal bool KeepsEveryRow(ResultTable points)
     {
         if (points.Summary is not { } summary || !Values.IsEmpty)
         {

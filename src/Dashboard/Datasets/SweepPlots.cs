@@ -110,9 +110,12 @@ internal static class SweepPlots
         var groups = grouped < 0 ? (ColumnView?)null : filtered.Cells(grouped);
         var categoryAt = categories.Select((c, i) => (c, i)).ToDictionary(p => p.c, p => p.i, StringComparer.Ordinal);
         var usable = new List<int>();
+        // Numbers read once per column from their arrays (a filter's 10^5-10^6 rows), NaN where empty.
+        var yv = ys.NumbersOrNaN();
+        var xv = categorical ? null : xs.NumbersOrNaN();
         for (var row = 0; row < filtered.Count; row++)
         {
-            if (xs.HasValue(row) && Finite(ys.Number(row)) is not null && (categorical || Finite(xs.Number(row)) is not null))
+            if (double.IsFinite(yv[row]) && (categorical ? xs.HasValue(row) : double.IsFinite(xv![row])))
             {
                 usable.Add(row);
             }
@@ -136,7 +139,7 @@ internal static class SweepPlots
         var ordered = new List<(string Name, bool Lines, int[] Rows, double[] X)>();
         foreach (var (_, group) in keyed.OrderBy(g => g.Raw, ValueOrder.Of(filtered, grouped)))
         {
-            var (rows, x) = SortedByX(group, row => categorical ? categoryAt.GetValueOrDefault(Show.Raw(xs.Cell(row)), -1) : xs.Number(row)!.Value);
+            var (rows, x) = SortedByX(group, row => categorical ? categoryAt.GetValueOrDefault(Show.Raw(xs.Cell(row)), -1) : xv![row]);
             var lines = !categorical && AllDistinct(x);
             var name = grouped < 0 ? names.Label(r.Y!) : Show.Value(groups!.Value.Cell(group[0]), names.UnitOf(filtered.Columns[grouped].Name));
             ordered.Add((name, lines, rows, x));
@@ -225,9 +228,12 @@ internal static class SweepPlots
         var flags = new ColumnFlags(filtered);
         var stable = new List<int>();
         var unstable = new List<int>();
+        // Numbers read once per column from their arrays, NaN where empty.
+        var xv = xs.NumbersOrNaN();
+        var yv = ys.NumbersOrNaN();
         for (var row = 0; row < filtered.Count; row++)
         {
-            if (Finite(xs.Number(row)) is not null && Finite(ys.Number(row)) is not null)
+            if (double.IsFinite(xv[row]) && double.IsFinite(yv[row]))
             {
                 (flags.IsUnstable(row) ? unstable : stable).Add(row);
             }
@@ -238,8 +244,8 @@ internal static class SweepPlots
         var fy = new double[stable.Count];
         for (var i = 0; i < stable.Count; i++)
         {
-            fx[i] = xs.Number(stable[i])!.Value;
-            fy[i] = ys.Number(stable[i])!.Value;
+            fx[i] = xv[stable[i]];
+            fy[i] = yv[stable[i]];
         }
 
         var front = ParetoFront.Of(fx, fy, r.XLarger, r.YLarger).Select(i => maker.Make(stable[i], null)).ToImmutableArray();
@@ -269,25 +275,52 @@ internal static class SweepPlots
         }
     }
 
-    /// <summary>The rows ordered by x, rows of equal x in their own order (a stable sort), with their x values.</summary>
-    private static (int[] Rows, double[] X) SortedByX(List<int> rows, Func<int, double> x)
+    /// <summary>
+    /// The rows ordered by x, rows of equal x in their own order (a stable sort), with their x values:
+    /// a sort of plain 64-bit keys (each x's bits made to order as the numbers do, -0 as 0), then each
+    /// run of equal keys put back in its first order; the same order as a comparison sort by (x, order),
+    /// at a fraction of its cost for a filter's 10^5-10^6 rows. The x values are finite.
+    /// </summary>
+    internal static (int[] Rows, double[] X) SortedByX(List<int> rows, Func<int, double> x)
     {
-        var entries = new XEntry[rows.Count];
-        for (var i = 0; i < entries.Length; i++)
+        var keys = new long[rows.Count];
+        var values = new double[rows.Count];
+        var order = new int[rows.Count];
+        for (var i = 0; i < keys.Length; i++)
         {
-            entries[i] = new XEntry(x(rows[i]), i, rows[i]);
+            var v = x(rows[i]);
+            values[i] = v;
+            var bits = BitConverter.DoubleToInt64Bits(v == 0 ? 0.0 : v);
+            keys[i] = bits >= 0 ? bits : bits ^ long.MaxValue;
+            order[i] = i;
         }
 
-        entries.AsSpan().Sort(new ByX());
-        return ([.. entries.Select(e => e.Row)], [.. entries.Select(e => e.X)]);
-    }
+        Array.Sort(keys, order);
+        for (var start = 0; start < keys.Length;)
+        {
+            var end = start + 1;
+            while (end < keys.Length && keys[end] == keys[start])
+            {
+                end++;
+            }
 
-    private readonly record struct XEntry(double X, int Order, int Row);
+            if (end - start > 1)
+            {
+                Array.Sort(order, start, end - start);
+            }
 
-    /// <summary>Smaller x first, then the earlier row (the order a stable sort keeps).</summary>
-    private readonly struct ByX : IComparer<XEntry>
-    {
-        public int Compare(XEntry p, XEntry q) => p.X.CompareTo(q.X) is var c and not 0 ? c : p.Order.CompareTo(q.Order);
+            start = end;
+        }
+
+        var sortedRows = new int[order.Length];
+        var sortedX = new double[order.Length];
+        for (var i = 0; i < order.Length; i++)
+        {
+            sortedRows[i] = rows[order[i]];
+            sortedX[i] = values[order[i]];
+        }
+
+        return (sortedRows, sortedX);
     }
 
     /// <summary>True when no two of the sorted values are equal.</summary>
@@ -306,9 +339,6 @@ internal static class SweepPlots
 
     /// <summary>A point's page is this followed by its escaped id.</summary>
     private static string PointUrl(SweepRecord sweep) => Endpoints.Links.Sweep(sweep.SweepId) + "/points/";
-
-    /// <summary>A number that can be drawn (an empty cell, NaN or an infinity cannot).</summary>
-    private static double? Finite(double? value) => value is { } v && double.IsFinite(v) ? v : null;
 
     /// <summary>True when every value of the column is positive and the largest is at least <see cref="SweepPlot.DecadesRatio"/> times the smallest.</summary>
     public static bool SpansDecades(IEnumerable<double?> values)

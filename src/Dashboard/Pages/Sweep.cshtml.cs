@@ -240,7 +240,7 @@ internal sealed partial class SweepModel : PageModel
 
         using (StageTimings.Measure("sweep page: table"))
         {
-            (Results, _, Points) = await SweepViews.ResultsAsync(_board, sweep, view, ct).ConfigureAwait(false);
+            (Results, _, Points) = await SweepViews.ResultsAsync(_board, sweep, view, ct, withPlots: true).ConfigureAwait(false);
         }
 
         using (StageTimings.Measure("sweep page: plots"))

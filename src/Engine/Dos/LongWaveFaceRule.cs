@@ -47,7 +47,7 @@ internal static class LongWaveFaceRule
     /// model and the half-mesh changes of percents at intermediate temperatures, while models whose cell
     /// holds little of kappa keep the default rule and its cost (docs/outside-checks.md, round 10).
     /// </summary>
-    public const double KappaTolerance = 1e-3;
+    public const double KappaTolerance = 3e-3;
 
     /// <summary>
     /// The face rule for the conductivity's rays over the mesh cell around q = 0. At low temperature

@@ -91,6 +91,9 @@ internal static class CatalogSchema
         // The hash of a sweep's definition, for sweeps whose submit kept every point of the
         // expansion (SweepPlan.DefinitionHash): a worker that finds it plans the sweep without
         // computing every point's id. A table of its own, so stores from before need no new column.
+        // Where each point of a sweep is by id (PointIdBuckets): written at submit; sweeps from before have none.
+        PointIdBuckets.CreateTable,
+
         """
         CREATE TABLE IF NOT EXISTS latsweep_sweep_definitions (
             sweep_id TEXT PRIMARY KEY,

@@ -76,7 +76,9 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         var waiting = Text(PointState.Waiting);
-        var written = WriteChunks(c, tx, sweep, waiting);
+        var buckets = new PointIdBuckets(sweep.Points.Count);
+        var written = WriteChunks(c, tx, sweep, waiting, buckets);
+        buckets.Write(c, tx, sweep.SweepId);
         if (written != chunkCount)
         {
             Execute(c, tx, "UPDATE latsweep_sweeps SET chunk_count = @chunks WHERE sweep_id = @id", ("chunks", (long)written), ("id", sweep.SweepId));

@@ -1,6 +1,7 @@
 using System.Globalization;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Commands;
+using LatticeSweep.Worker.Output;
 using LatticeSweep.Worker.Queue;
 
 namespace LatticeSweep.Worker.Cli;
@@ -37,6 +38,18 @@ internal static class StatusCommand
         o.WriteLine($"Sweep      {sweep.SweepId} ({sweep.Name})");
         o.WriteLine($"State      {State(sweep.State)}");
         o.WriteLine($"Points     {N(sweep.Counts.Total)} in {N(sweep.ChunkCount)} chunks: {N(sweep.Counts.Done)} done, {N(sweep.Counts.Unstable)} unstable, {N(sweep.Counts.Failed)} failed, {N(sweep.Counts.Waiting)} waiting, {N(sweep.Counts.Running)} running, {N(sweep.Counts.Cancelled)} cancelled");
+        if (sweep.Counts.Solved > 0)
+        {
+            // From the results, not the catalog: it keeps each point's state, not what its model turned out to be.
+            var tally = FloppyTally.Of(sweep.OutputFolder);
+            o.WriteLine(tally switch
+            {
+                { Floppy: { } n, Rows: > 0 } => $"Floppy     {N(n)} of the {N(tally.Rows)} points in points/ (more zero modes than rigid translations: some motion meets no spring; those modes carry no heat)",
+                { Floppy: not null } => $"Floppy     not counted: no rows in {SweepFolder.Table(sweep.OutputFolder, TableNames.Points)} yet",
+                _ => $"Floppy     not counted: {tally.NotCountedBecause}",
+            });
+        }
+
         if (sweep.Counts.Running > 0)
         {
             WriteRunning(session, context, sweep);

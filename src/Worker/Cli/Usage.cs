@@ -32,7 +32,7 @@ internal static class Usage
           latsweep work [--store STORE] [--workers N] [--reclaim-after SECONDS] [--stay]
                 work queued chunks until the queue is empty (--stay: keep waiting for more)
           latsweep status [SWEEP] [--store STORE]
-                list sweeps, or show one sweep's counts, failures and coverage
+                list sweeps, or show one sweep's counts, failures, floppy models and coverage
           latsweep cancel SWEEP [--store STORE]
                 stop a sweep: waiting points are not run
           latsweep resume SWEEP [--store STORE] [--workers N] [--reclaim-after SECONDS] [--queue-only]

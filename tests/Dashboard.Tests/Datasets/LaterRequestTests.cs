@@ -138,6 +138,35 @@ public sealed class LaterRequestTests
         }
     }
 
+    [Fact]
+    public void A_plot_series_sorted_by_keys_orders_as_a_stable_sort_by_x_ties_and_signed_zeros_included()
+    {
+        var random = new Random(20261204);
+        double[] special = [0.0, -0.0, double.Epsilon, -double.Epsilon, double.MaxValue, double.MinValue, 1.5, -1.5, -1];
+        for (var round = 0; round < 50; round++)
+        {
+            var n = random.Next(0, 400);
+            var x = new double[n];
+            for (var i = 0; i < n; i++)
+            {
+                x[i] = random.Next(3) switch
+                {
+                    0 => special[random.Next(special.Length)],
+                    1 => random.Next(-3, 4) * 0.5,
+                    _ => (random.NextDouble() - 0.5) * Math.Pow(10, random.Next(-5, 6)),
+                };
+            }
+
+            // The rows of a series in their own (shuffled) order; a stable sort keeps that order among equal x.
+            var rows = Enumerable.Range(0, n).OrderBy(_ => random.Next()).ToList();
+            var expected = rows.Select((row, order) => (row, order)).OrderBy(p => x[p.row]).ThenBy(p => p.order).Select(p => p.row).ToArray();
+            var (sorted, xs) = SweepPlots.SortedByX(rows, r => x[r]);
+            Assert.Equal(expected, sorted);
+            // The x values are the rows' own (a -0 stays -0).
+            Assert.Equal(expected.Select(r => BitConverter.DoubleToInt64Bits(x[r])), xs.Select(BitConverter.DoubleToInt64Bits));
+        }
+    }
+
     private static string Json(object? value) => System.Text.Json.JsonSerializer.Serialize(value);
 
     private static string[] Ids(ResultTable t) => [.. Enumerable.Range(0, t.Count).Select(r => t.Cells("point_id").Text(r) ?? "")];

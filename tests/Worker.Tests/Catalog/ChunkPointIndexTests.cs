@@ -128,6 +128,8 @@ public sealed class ChunkPointIndexTests : CatalogOnBothStores
 
             Sql(c, "CREATE INDEX latsweep_points_by_chunk ON latsweep_points (sweep_id, chunk_id)");
             Sql(c, "UPDATE latsweep_chunks SET points_json = NULL WHERE pending_state IS NULL");
+            // Nor were the point ids grouped (PointIdBuckets): opening creates the table, empty for this sweep.
+            Sql(c, "DROP TABLE latsweep_point_buckets");
         }
 
         Assert.DoesNotContain("latsweep_points_by_chunk_point", PointIndexes(kind));
@@ -167,6 +169,79 @@ public sealed class ChunkPointIndexTests : CatalogOnBothStores
             Assert.Equal(plan.Points.Select(p => p.Index / 4 == 1 ? 2 : 1), all.Select(p => p.Attempts));
             Assert.All(plan.Points, p => Assert.Equal(PointState.Done, catalog.FindPoint(id, p.PointId)!.State));
         }
+    }
+
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void A_point_is_found_by_its_id_group_in_every_state_and_a_sweep_without_groups_the_old_way(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var plan = Plan();
+        var (id, chunks) = TestCatalog.Register(catalog, plan, Dir.Combine("out"), pointsPerChunk: 4);
+        catalog.CompleteChunk(id, chunks[0], Done(catalog.BeginChunk(id, chunks[0], "test:1")));
+        catalog.BeginChunk(id, chunks[2], "test:1");
+
+        using (var c = Connect(kind))
+        {
+            // One row per group of the ids' first three characters, every id on one line with its index, and the marker with the count.
+            var rows = Strings(c, $"SELECT bucket || '|' || points FROM latsweep_point_buckets WHERE sweep_id = '{id}' ORDER BY bucket");
+            Assert.Equal("|21", rows[0]);
+            var lines = rows.Skip(1).SelectMany(r => r.Split('|')[1].Split('\n', StringSplitOptions.RemoveEmptyEntries)).ToList();
+            Assert.Equal(plan.Points.Select(p => $"{p.PointId} {p.Index}").Order(StringComparer.Ordinal), lines);
+            Assert.All(rows.Skip(1), r => Assert.All(r.Split('|')[1].Split('\n', StringSplitOptions.RemoveEmptyEntries), l => Assert.StartsWith(r.Split('|')[0], l, StringComparison.Ordinal)));
+        }
+
+        PointState Expected(int index) => index / 4 == 0 ? PointState.Done : index / 4 == 2 ? PointState.Running : PointState.Waiting;
+        var expected = plan.Points.Select(p => (p.PointId, p.Index, Expected(p.Index), p.Index / 4 == 0 || p.Index / 4 == 2 ? 1 : 0)).ToList();
+        Assert.Equal(expected, plan.Points.Select(p => catalog.FindPoint(id, p.PointId)!).Select(p => (p.PointId, p.Index, p.State, p.Attempts)));
+        // An id of a known group that is not the sweep's, a part of an id, and one of no group: none is found.
+        var known = plan.Points[5].PointId;
+        Assert.Null(catalog.FindPoint(id, known[..3] + new string(known[3..].Select(ch => ch == '0' ? '1' : '0').ToArray())));
+        Assert.Null(catalog.FindPoint(id, known[..8]));
+        Assert.Null(catalog.FindPoint(id, "zz"));
+        Assert.Null(catalog.FindPoint(id, ""));
+
+        // The same sweep without its groups (as registered before them) is found through its chunk texts, as before.
+        using (var c = Connect(kind))
+        {
+            Sql(c, $"DELETE FROM latsweep_point_buckets WHERE sweep_id = '{id}'");
+        }
+
+        Assert.Equal(expected, plan.Points.Select(p => catalog.FindPoint(id, p.PointId)!).Select(p => (p.PointId, p.Index, p.State, p.Attempts)));
+        Assert.Null(catalog.FindPoint(id, known[..8]));
+    }
+
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void Ids_not_made_by_the_planner_are_grouped_as_text_and_ids_that_cannot_be_lines_are_found_the_old_way(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var plan = Plan();
+        NewSweep Sweep(string id, Func<int, string> pointId) => new()
+        {
+            SweepId = id, Name = id, Description = "", SpecHash = "0", SourcePath = "job.toml", SpecText = plan.SpecText,
+            OutputFolder = Dir.Combine("out", id), Axes = plan.Axes, Tables = ["points"], EngineVersion = "9.9.9-test",
+            Points = [.. plan.Points.Select(p => new NewPoint(pointId(p.Index), p.Index, $"c{p.Index / 4:D5}", p.Parameters))],
+        };
+
+        // Invented ids (upper case, short, of any length): grouped by their first three characters as they are.
+        Assert.True(catalog.Register(Sweep("texts", i => i % 2 == 0 ? $"P-{i}" : $"Q{i:X4}")));
+        Assert.Equal(Enumerable.Range(0, 21), Enumerable.Range(0, 21).Select(i => catalog.FindPoint("texts", i % 2 == 0 ? $"P-{i}" : $"Q{i:X4}")!.Index));
+        Assert.Null(catalog.FindPoint("texts", "P-21"));
+        Assert.Null(catalog.FindPoint("texts", "q0001"));
+
+        // An id with a space cannot be a line: no groups, and every point is still found through its chunk's text.
+        Assert.True(catalog.Register(Sweep("spaced", i => $"point {i}")));
+        using (var c = Connect(kind))
+        {
+            Assert.Empty(Strings(c, "SELECT bucket FROM latsweep_point_buckets WHERE sweep_id = 'spaced'"));
+            // P-0, P-2 ... P-20 share six groups (P-10 ... P-18 with P-1, P-20 with P-2), Q0001 ... Q0013 one; and the marker.
+            Assert.Equal(["", "P-0", "P-1", "P-2", "P-4", "P-6", "P-8", "Q00"],
+                Strings(c, "SELECT bucket FROM latsweep_point_buckets WHERE sweep_id = 'texts'").Order(StringComparer.Ordinal));
+        }
+
+        Assert.Equal(Enumerable.Range(0, 21), Enumerable.Range(0, 21).Select(i => catalog.FindPoint("spaced", $"point {i}")!.Index));
+        Assert.Null(catalog.FindPoint("spaced", "point 21"));
     }
 
     private static PointCompletion[] Done(ChunkClaim claim) =>
