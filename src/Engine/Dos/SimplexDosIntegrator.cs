@@ -125,6 +125,21 @@ internal static class SimplexDosIntegrator
 
         // With channel weights and permutations: the mesh points at the corners of one cube per class
         // {g C, -g C} of the orbit (8 per class), and the number of distinct cubes in each class.
+        // Curvature shifts (TetrahedronCurvature) of the acoustic branches' six tetrahedra, [6 * branch + t];
+        // only where the long-wave box takes the cone's first shells (the shift's difference stencil
+        // would cross q = 0 otherwise).
+        var curvedBranches = longWaves is { } box && m1 >= 3 && m2 >= 3 && m3 >= 3 ? Math.Min(box.Branches, branches) : 0;
+        var shifts = new double[6 * Math.Max(curvedBranches, 1)];
+        var branchTops = new double[curvedBranches];
+        for (var b = 0; b < curvedBranches; b++)
+        {
+            branchTops[b] = double.NegativeInfinity;
+            for (long p = 0; p < (long)m1 * m2 * m3; p++)
+            {
+                branchTops[b] = Math.Max(branchTops[b], frequencyThz[(p * branches) + b]);
+            }
+        }
+
         var imageCorners = new int[8 * operations.Count];
         var classWeight = new double[operations.Count];
         var orbitCornerWeights = useWeights && operations.Count > 1 ? new double[8 * branches * channels] : [];
@@ -169,6 +184,7 @@ internal static class SimplexDosIntegrator
                     // The box around q = 0 is inversion-symmetric: a cube and its image are both in or both out.
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
                     var j3 = i3 + 1 == m3 ? 0 : i3 + 1;
+
                     corners[0] = ((i1 * m2) + i2) * m3 + i3;
                     corners[1] = ((j1 * m2) + i2) * m3 + i3;
                     corners[2] = ((i1 * m2) + j2) * m3 + i3;
@@ -177,6 +193,14 @@ internal static class SimplexDosIntegrator
                     corners[5] = ((j1 * m2) + i2) * m3 + j3;
                     corners[6] = ((i1 * m2) + j2) * m3 + j3;
                     corners[7] = ((j1 * m2) + j2) * m3 + j3;
+
+                    // Outside the box, the acoustic branches' tetrahedra lowered by their mean interpolation error.
+                    var curved = firstBranch == 0 ? curvedBranches : 0;
+                    for (var b = 0; b < curved; b++)
+                    {
+                        TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchTops[b], shifts.AsSpan(6 * b, 6));
+                    }
+
                     var entry = 0;
                     if (vectors)
                     {
@@ -188,10 +212,11 @@ internal static class SimplexDosIntegrator
                             var c3 = corners[TetrahedronCorners[t + 3]] * branches;
                             for (var b = firstBranch; b < branches; b++, entry++)
                             {
-                                cornerA[entry] = frequencyThz[c0 + b];
-                                cornerB[entry] = frequencyThz[c1 + b];
-                                cornerC[entry] = frequencyThz[c2 + b];
-                                cornerD[entry] = frequencyThz[c3 + b];
+                                var lift = b < curved ? shifts[(6 * b) + (t / 4)] : 0.0;
+                                cornerA[entry] = frequencyThz[c0 + b] - lift;
+                                cornerB[entry] = frequencyThz[c1 + b] - lift;
+                                cornerC[entry] = frequencyThz[c2 + b] - lift;
+                                cornerD[entry] = frequencyThz[c3 + b] - lift;
                             }
                         }
 
@@ -236,8 +261,9 @@ internal static class SimplexDosIntegrator
                             }
                             else
                             {
+                                var lift = b < curved ? shifts[(6 * b) + (t / 4)] : 0.0;
                                 kernel.Add(
-                                    frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b],
+                                    frequencyThz[c0 + b] - lift, frequencyThz[c1 + b] - lift, frequencyThz[c2 + b] - lift, frequencyThz[c3 + b] - lift,
                                     cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
                             }
                         }

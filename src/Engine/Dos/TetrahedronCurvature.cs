@@ -1,0 +1,126 @@
+using System.Runtime.CompilerServices;
+
+namespace LatticeSweep.Engine.Dos;
+
+/// <summary>
+/// The mean error of linear interpolation over a tetrahedron, from the branch's curvature: for a
+/// quadratic f with Hessian H over a simplex of d + 1 corners v_i and centroid c, the mean of the
+/// interpolant exceeds the mean of f by (1 / (2 (d + 2))) sum_i (v_i - c)^T H (v_i - c) (own
+/// derivation: the uniform simplex has covariance sum_i (v_i - c)(v_i - c)^T / ((d + 1)(d + 2))).
+/// <para>
+/// Why: an acoustic branch is a cone near q = 0 (omega = c |q|), convex across the direction of q with
+/// curvature omega / |q|^2; linear tetrahedra lift its states by about 1 / (4 n^2) of their frequency
+/// n cells from q = 0. The long-wave box (<see cref="LongWaveBox"/>) takes the first few shells, but the
+/// lift just outside it (1.5e-2 of the states at 4-8 THz on a 32^3 mesh of a simple cubic model) left
+/// the heat capacity between the T^3 region and the classical limit up to 8e-3 low. Shifting each
+/// tetrahedron of an acoustic branch down by this mean error removes the leading (h^2) term.
+/// </para>
+/// <para>
+/// H is estimated per mesh cube in mesh-index coordinates, from central differences of the sorted
+/// branch at the two ends of the cube's main diagonal (shared by its six tetrahedra), averaged: that
+/// pair maps onto itself under inversion and the mesh-axis permutations, so symmetric cubes get the
+/// same shift and the orbit sums of <see cref="SimplexDosIntegrator"/> stay exact.
+/// </para>
+/// </summary>
+internal static class TetrahedronCurvature
+{
+    // Per tetrahedron of the six-tetrahedra split (corners x + 2y + 4z, all sharing the diagonal 0-7):
+    // S = sum_i (v_i - c)(v_i - c)^T / (2 (d + 2)) as (xx, yy, zz, xy, xz, yz), mixed terms doubled.
+    private static readonly double[] Shapes = BuildShapes();
+
+    // The six tetrahedra's corners (x + 2y + 4z), as in SimplexDosIntegrator.
+    private static readonly int[] Corners = [0, 1, 3, 7, 0, 1, 5, 7, 0, 2, 3, 7, 0, 2, 6, 7, 0, 4, 5, 7, 0, 4, 6, 7];
+
+    /// <summary>
+    /// Writes the downward shift (THz) of each of the six tetrahedra of the cube based at (i1, i2, i3)
+    /// for branch b into shift[0..5] (positive where the branch is convex there). Clamped so no corner
+    /// goes below 0 nor above the branch's highest mesh value: near a band top (concave) a raise must
+    /// not carry states past the branch's top into a gap above it.
+    /// </summary>
+    /// <param name="corners">The cube's eight mesh points (x + 2y + 4z).</param>
+    /// <param name="branchTopThz">The branch's highest value on the mesh.</param>
+    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchTopThz, Span<double> shift)
+    {
+        Span<double> h = stackalloc double[6];
+        Span<double> other = stackalloc double[6];
+        Hessian(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, h);
+        Hessian(frequencyThz, branches, b, m1, m2, m3, Next(i1, m1), Next(i2, m2), Next(i3, m3), other);
+        for (var k = 0; k < 6; k++)
+        {
+            h[k] = 0.5 * (h[k] + other[k]);
+        }
+
+        for (var t = 0; t < 6; t++)
+        {
+            var s = Shapes.AsSpan(6 * t, 6);
+            var value = (s[0] * h[0]) + (s[1] * h[1]) + (s[2] * h[2]) + (s[3] * h[3]) + (s[4] * h[4]) + (s[5] * h[5]);
+            var low = double.PositiveInfinity;
+            var high = double.NegativeInfinity;
+            for (var k = 0; k < 4; k++)
+            {
+                var f = frequencyThz[(corners[Corners[(4 * t) + k]] * branches) + b];
+                low = Math.Min(low, f);
+                high = Math.Max(high, f);
+            }
+
+            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low, 0));
+        }
+    }
+
+    /// <summary>Second differences of branch b at mesh point (i1, i2, i3): (xx, yy, zz, xy, xz, yz), periodic mesh.</summary>
+    private static void Hessian(double[] f, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, Span<double> h)
+    {
+        int P(int a1, int a2, int a3) => ((((Wrap(a1, m1) * m2) + Wrap(a2, m2)) * m3) + Wrap(a3, m3)) * branches + b;
+        var centre = 2 * f[P(i1, i2, i3)];
+        h[0] = f[P(i1 + 1, i2, i3)] + f[P(i1 - 1, i2, i3)] - centre;
+        h[1] = f[P(i1, i2 + 1, i3)] + f[P(i1, i2 - 1, i3)] - centre;
+        h[2] = f[P(i1, i2, i3 + 1)] + f[P(i1, i2, i3 - 1)] - centre;
+        h[3] = 0.25 * (f[P(i1 + 1, i2 + 1, i3)] - f[P(i1 + 1, i2 - 1, i3)] - f[P(i1 - 1, i2 + 1, i3)] + f[P(i1 - 1, i2 - 1, i3)]);
+        h[4] = 0.25 * (f[P(i1 + 1, i2, i3 + 1)] - f[P(i1 + 1, i2, i3 - 1)] - f[P(i1 - 1, i2, i3 + 1)] + f[P(i1 - 1, i2, i3 - 1)]);
+        h[5] = 0.25 * (f[P(i1, i2 + 1, i3 + 1)] - f[P(i1, i2 + 1, i3 - 1)] - f[P(i1, i2 - 1, i3 + 1)] + f[P(i1, i2 - 1, i3 - 1)]);
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static int Wrap(int i, int m) => i < 0 ? i + m : i >= m ? i - m : i;
+
+    private static int Next(int i, int m) => i + 1 == m ? 0 : i + 1;
+
+    private static double[] BuildShapes()
+    {
+        int[][] tetrahedra = [[0, 1, 3, 7], [0, 1, 5, 7], [0, 2, 3, 7], [0, 2, 6, 7], [0, 4, 5, 7], [0, 4, 6, 7]];
+        var shapes = new double[36];
+        for (var t = 0; t < 6; t++)
+        {
+            var centroid = new double[3];
+            foreach (var c in tetrahedra[t])
+            {
+                for (var a = 0; a < 3; a++)
+                {
+                    centroid[a] += ((c >> a) & 1) / 4.0;
+                }
+            }
+
+            var s = new double[3, 3];
+            foreach (var c in tetrahedra[t])
+            {
+                for (var a = 0; a < 3; a++)
+                {
+                    for (var e = 0; e < 3; e++)
+                    {
+                        s[a, e] += (((c >> a) & 1) - centroid[a]) * (((c >> e) & 1) - centroid[e]);
+                    }
+                }
+            }
+
+            const double scale = 1.0 / (2 * (3 + 2));
+            shapes[(6 * t) + 0] = scale * s[0, 0];
+            shapes[(6 * t) + 1] = scale * s[1, 1];
+            shapes[(6 * t) + 2] = scale * s[2, 2];
+            shapes[(6 * t) + 3] = scale * 2 * s[0, 1];
+            shapes[(6 * t) + 4] = scale * 2 * s[0, 2];
+            shapes[(6 * t) + 5] = scale * 2 * s[1, 2];
+        }
+
+        return shapes;
+    }
+}
