@@ -288,30 +288,12 @@ public sealed record SummaryTable(
                 return null;
             }
 
-            var bits = BitConverter.DoubleToInt64Bits(value == 0 ? 0.0 : value);
-            var key = bits >= 0 ? bits : bits ^ long.MaxValue;
+            var key = NumberKeySort.Key(value);
             keys[i] = descending ? ~key : key;
             order[i] = i;
         }
 
-        Array.Sort(keys, order);
-        for (var start = 0; start < keys.Length;)
-        {
-            var end = start + 1;
-            while (end < keys.Length && keys[end] == keys[start])
-            {
-                end++;
-            }
-
-            if (end - start > 1)
-            {
-                ties = true;
-                Array.Sort(order, start, end - start);
-            }
-
-            start = end;
-        }
-
+        ties = NumberKeySort.SortStable(keys, order);
         var sorted = new int[order.Length];
         for (var i = 0; i < order.Length; i++)
         {
