@@ -20,17 +20,11 @@ namespace LatticeSweep.Engine.Spectrum;
 /// followed as omega_k = rho^2 t_k(y) instead, t_k a polynomial in y through its long-wave curvature
 /// and the same nodes: rho s(y) would need s ~ sqrt(y), which no polynomial in y follows near q = 0.
 /// Such a branch is told apart by how its eigenvalue grows from the small wave vector e to 2e: by 4
-/// for a cone, by 16 for omega ~ q^2 (<see cref="QuadraticGrowth"/>).
+/// for a cone, by 16 for omega ~ q^2 (<see cref="LongWaveSlope"/>).
 /// </para>
 /// </summary>
 internal sealed class RayDispersion
 {
-    /// <summary>
-    /// lambda(2e) / lambda(e) above which a branch counts as omega ~ q^2: a cone gives 4 (1 + O(e^2)), a
-    /// q^2 branch 16; a small slope c beside a curvature kappa gives more than 10 only once kappa e &gt; c,
-    /// i.e. the slope is below what the small wave vectors resolve.
-    /// </summary>
-    public const double QuadraticGrowth = 10;
 
     /// <summary>
     /// Nodes on a ray: the long-wave limit and five solves, so s is a quintic in y. Measured on invented
@@ -174,13 +168,6 @@ internal sealed class RayDispersion
     }
 
     /// <summary>
-    /// Below this fraction of the largest eigenvalue at 2e, 4 l(e) - l(2e)/4 is round-off: the slope is
-    /// not resolved at e (it cancels exactly for a q^2 branch, whose own l(e) ~ kappa^2 e^4 can sink to the
-    /// round-off of D(q) when e is far below the zone, as in the conductivity's q = 0 cell on fine meshes).
-    /// </summary>
-    private const double RoundOffFloor = 1e-13;
-
-    /// <summary>
     /// The long-wave nodes of every acoustic branch from l(e) (<paramref name="near"/>) and l(2e) (the
     /// solver's values on entry). A branch whose slope is round-off at e is measured again at
     /// 1e-3 of the shortest reciprocal vector (when e is smaller), where a q^2 branch's l is resolved; a
@@ -190,14 +177,14 @@ internal sealed class RayDispersion
     private static bool LongWaveNodes(ModeSolver solver, Vec3 u, double[] near, double epsilonPerM, double length, double[] s, ref bool[]? quadratic, out double probe)
     {
         var acoustic = near.Length;
-        var floor = RoundOffFloor * Math.Abs(solver.Values[solver.Size - 1]);
+        var largest = solver.Values[solver.Size - 1];
         var far = solver.Values.AsSpan(0, acoustic).ToArray();
         probe = Math.Max(epsilonPerM, 1e-3 * Transport.AcousticAverages.SmallestReciprocal(solver.Matrix.Crystal.Lattice));
         double[]? nearProbe = null, farProbe = null;
         var stable = true;
         for (var k = 0; k < acoustic; k++)
         {
-            if (Math.Abs((4 * near[k]) - (far[k] / 4)) <= floor && probe > epsilonPerM)
+            if (LongWaveSlope.IsRoundOff(near[k], far[k], largest) && probe > epsilonPerM)
             {
                 if (nearProbe is null)
                 {
@@ -225,22 +212,21 @@ internal sealed class RayDispersion
     /// <summary>
     /// The long-wave node of branch k from its eigenvalues at e and 2e (Richardson extrapolation):
     /// for a cone s(0) = L v with v^2 = (4 l(e) - l(2e)/4) / (3 e^2); for a q^2 branch (growth by
-    /// more than <see cref="QuadraticGrowth"/>) t(0) = L^2 kappa with kappa^2 = (4 l(e) - l(2e)/16) / (3 e^4).
+    /// more than <see cref="LongWaveSlope.QuadraticGrowth"/>) t(0) = L^2 kappa with kappa^2 = (4 l(e) - l(2e)/16) / (3 e^4).
     /// Returns whether the node is positive (a stable long wave).
     /// </summary>
     private static bool LongWaveNode(double near, double far, double epsilonPerM, double length, int k, double[] s, ref bool[]? quadratic)
     {
-        if (near > 0 && far > QuadraticGrowth * near)
+        if (LongWaveSlope.IsQuadratic(near, far))
         {
             quadratic ??= new bool[s.Length / Nodes];
             quadratic[k] = true;
-            var e2 = epsilonPerM * epsilonPerM;
-            var kappa2 = ((4 * near) - (far / 16)) / (3 * e2 * e2);
+            var kappa2 = LongWaveSlope.CurvatureSquared(near, far, epsilonPerM);
             s[k * Nodes] = length * length * Math.Sqrt(Math.Max(kappa2, 0));
             return kappa2 > 0;
         }
 
-        var v2 = ((4 * near) - (far / 4)) / (3 * epsilonPerM * epsilonPerM);
+        var v2 = LongWaveSlope.SpeedSquared(near, far, epsilonPerM);
         s[k * Nodes] = length * Math.Sqrt(Math.Max(v2, 0));
         return v2 > 0;
     }

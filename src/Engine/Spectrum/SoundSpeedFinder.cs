@@ -11,14 +11,6 @@ namespace LatticeSweep.Engine.Spectrum;
 /// </summary>
 internal static class SoundSpeedFinder
 {
-    /// <summary>
-    /// Below this fraction of the largest eigenvalue at 2 delta the extrapolated slope is round-off, and the
-    /// speed is 0: a branch with omega ~ q^2 (a sheet's flexural branch) cancels exactly in the
-    /// extrapolation and left noise of either sign (-0.02 m/s beside 10^4 m/s), read as an unstable slope.
-    /// Round-off sits near 1e-17 of it; a real slope this small is a speed below ~2e-4 of the fastest.
-    /// </summary>
-    private const double RoundOffFloor = 1e-13;
-
     /// <summary>The directions of the sound speeds, by label, in Cartesian axes.</summary>
     public static (string Label, Vec3 Direction)[] Directions(int dimension) => dimension switch
     {
@@ -49,12 +41,13 @@ internal static class SoundSpeedFinder
             var small = solver.Values.Take(acoustic).ToArray();
             solver.SolveValues(2 * delta * u);
             var twice = solver.Values.Take(acoustic).ToArray();
-            var roundOff = RoundOffFloor * Math.Abs(solver.Values[^1]);
+            var largest = solver.Values[^1];
             var speeds = new double[acoustic];
             for (var k = 0; k < acoustic; k++)
             {
-                var numerator = 4 * small[k] - twice[k] / 4;
-                var v2 = Math.Abs(numerator) <= roundOff ? 0 : numerator / (3 * delta * delta);
+                // A slope below round-off is 0: a q^2 branch (a sheet's flexural branch) cancels exactly and left
+                // noise of either sign (-0.02 m/s beside 10^4 m/s), read as an unstable slope.
+                var v2 = LongWaveSlope.IsRoundOff(small[k], twice[k], largest) ? 0 : LongWaveSlope.SpeedSquared(small[k], twice[k], delta);
                 speeds[k] = v2 > 0 ? Math.Sqrt(v2) : (v2 < 0 ? -Math.Sqrt(-v2) : 0);
             }
 

@@ -48,13 +48,13 @@ internal sealed record AcousticAverages
             {
                 // A branch with omega ~ q^2 (a sheet's flexural branch) has no slope but is stable: speed 0,
                 // left out of the Debye speed's sum like any zero speed; the kinetic sum follows it on its rays.
-                if (near[k] > 0 && solver.Values[k] > RayDispersion.QuadraticGrowth * near[k])
+                if (LongWaveSlope.IsQuadratic(near[k], solver.Values[k]))
                 {
                     speeds[k] = 0;
                     continue;
                 }
 
-                var v2 = (4 * near[k] - solver.Values[k] / 4) / (3 * epsilon * epsilon);
+                var v2 = LongWaveSlope.SpeedSquared(near[k], solver.Values[k], epsilon);
                 stable &= v2 > 0;
                 speeds[k] = v2 > 0 ? Math.Sqrt(v2) : 0;
             }
