@@ -1,6 +1,7 @@
 using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
 using LatticeSweep.Engine.Springs;
 using LatticeSweep.Engine.Tests.Support;
 using LatticeSweep.Engine.Transport;
@@ -56,7 +57,8 @@ public class GammaCellDirectionRuleTests
     /// Where the transverse branches cross on the [100] and [111] axes (and in the mirror planes), the
     /// direction integrand has kinks and narrow ridges; rules on whole faces left this model 0.6-0.9 % low
     /// even with 48 x 48 nodes per face. Panels refined where the integrand needs them bring it within 1e-3
-    /// (measured 1e-4 and below in an own NumPy emulation of the panels against a converged reference).
+    /// (measured -4.7e-4 with a constant tau and -2.4e-4 with boundary scattering; the own NumPy
+    /// reference of the long-wave integral, converged to 3e-6, gives -4.9e-4 and -2.6e-4).
     /// The reference here is the sphere grid of 400 x 800 directions (1.4e-5 from the converged one).
     /// </summary>
     [Theory]
@@ -72,6 +74,27 @@ public class GammaCellDirectionRuleTests
         var result = Kappa.Compute(AnisotropicCubic(WeakNextNPerM), BulkSample.Uniform(3, 8), options, TemperatureK);
         var expected = LongWaveKappa(boundary, WeakNextNPerM, 400, 800) * (boundary ? lengthNm * 1e-9 : tauPs * 1e-12);
         Approx.Equal(expected, result.AtReference.KappaWPerMK, 1e-3, "kappa at 0.05 K, springs 40 and 2 N/m (9.1e-3 low with 48 x 48 nodes per face)");
+    }
+
+    /// <summary>
+    /// The rule is chosen per model: next-nearest springs half the nearest (speeds vary little) keep the
+    /// default 8 x 8 rule on whole faces, and with it their bits and cost; a twentieth gets panels, which
+    /// tile the three faces (face coordinates span [-1/2, 1/2]^2, so their areas add up to 3).
+    /// </summary>
+    [Fact]
+    public void Only_models_the_default_rule_misses_get_panels_and_the_panels_tile_the_faces()
+    {
+        Vec3[] Edges(CrystalModel model) => [.. Enumerable.Range(0, 3).Select(i => model.Lattice.ReciprocalVector(i) / 8)];
+        var mild = AnisotropicCubic(20.0);
+        var mildRule = LongWaveFaceRule.ChooseForConductivity(CompiledCrystal.From(mild), Edges(mild), [TemperatureK], lowFrequencyHeavy: false);
+        Assert.False(mildRule.IsPanelled);
+        Assert.Equal(8, mildRule.Nodes);
+
+        var strong = AnisotropicCubic(WeakNextNPerM);
+        var strongRule = LongWaveFaceRule.ChooseForConductivity(CompiledCrystal.From(strong), Edges(strong), [TemperatureK], lowFrequencyHeavy: false);
+        Assert.True(strongRule.IsPanelled);
+        Approx.Equal(3.0, strongRule.Panels.Sum(p => (p.S1 - p.S0) * (p.T1 - p.T0)), 1e-14, "panel areas");
+        Assert.All(strongRule.Panels, p => Assert.True(p.S0 >= -0.5 && p.S1 <= 0.5 && p.T0 >= -0.5 && p.T1 <= 0.5 && p.S0 < p.S1 && p.T0 < p.T1, $"panel {p} inside its face"));
     }
 
     /// <summary>
