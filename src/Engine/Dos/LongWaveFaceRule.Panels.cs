@@ -26,6 +26,28 @@ internal static partial class LongWaveFaceRule
     /// </summary>
     private static int MaxPanels(int dimension) => dimension == 3 ? 1024 : 512;
 
+    /// <summary>Changes this close (relative) count as alike: far above round-off, far below real differences.</summary>
+    private const double Alike = 1e-6;
+
+    /// <summary>The halves of a panel across one direction, or its quarters (direction -1).</summary>
+    private static IEnumerable<FacePanel> Pieces(FacePanel panel, int direction)
+    {
+        if (direction >= 0)
+        {
+            var (lower, upper) = panel.Halves(direction);
+            yield return lower;
+            yield return upper;
+            yield break;
+        }
+
+        foreach (var half in new[] { panel.Halves(0).Lower, panel.Halves(0).Upper })
+        {
+            var (lower, upper) = half.Halves(1);
+            yield return lower;
+            yield return upper;
+        }
+    }
+
     /// <summary>
     /// Adaptive panels: start from the d whole faces; for each panel and each face direction compare its
     /// rule with the sum over its two halves, and split the panel whose change is largest across the
@@ -84,13 +106,17 @@ internal static partial class LongWaveFaceRule
             return result;
         }
 
-        // Per panel: the largest change a split would make (per average, absolute) and its direction.
+        // Per panel: the largest change a split would make (per average, absolute) and its direction;
+        // -1 (split both ways) when the two directions move it alike, as on a panel a mirror line of the
+        // cell crosses diagonally, so mirror-image panels are cut alike and a cubic model's kappa_xx,
+        // kappa_yy and kappa_zz stay equal.
         (double[] Change, int Direction) Split(FacePanel panel)
         {
             var whole = Sum(panel);
             double[]? best = null;
             var bestDirection = 0;
             var bestSize = -1.0;
+            var otherSize = -1.0;
             for (var direction = 0; direction < d - 1; direction++)
             {
                 var (lower, upper) = panel.Halves(direction);
@@ -106,11 +132,16 @@ internal static partial class LongWaveFaceRule
 
                 if (size > bestSize)
                 {
+                    otherSize = bestSize;
                     (best, bestDirection, bestSize) = (change, direction, size);
+                }
+                else
+                {
+                    otherSize = size;
                 }
             }
 
-            return (best!, bestDirection);
+            return (best!, otherSize >= bestSize * (1 - Alike) ? -1 : bestDirection);
         }
 
         var leaves = new List<(FacePanel Panel, double[] Change, int Direction)>();
@@ -143,8 +174,8 @@ internal static partial class LongWaveFaceRule
             }
 
             // Estimated error: per average, the changes of all leaves; the worst leaf by its relative share.
-            var worst = -1;
-            var worstShare = -1.0;
+            var shares = new double[leaves.Count];
+            var worstShare = 0.0;
             var estimate = 0.0;
             for (var k = 0; k < count; k++)
             {
@@ -153,16 +184,12 @@ internal static partial class LongWaveFaceRule
 
             for (var i = 0; i < leaves.Count; i++)
             {
-                var leafShare = 0.0;
                 for (var k = 0; k < count; k++)
                 {
-                    leafShare = Math.Max(leafShare, leaves[i].Change[k] / total[k]);
+                    shares[i] = Math.Max(shares[i], leaves[i].Change[k] / total[k]);
                 }
 
-                if (leafShare > worstShare)
-                {
-                    (worst, worstShare) = (i, leafShare);
-                }
+                worstShare = Math.Max(worstShare, shares[i]);
             }
 
             if (estimate <= tolerance || leaves.Count >= MaxPanels(d))
@@ -170,13 +197,25 @@ internal static partial class LongWaveFaceRule
                 break;
             }
 
-            var (lowerHalf, upperHalf) = leaves[worst].Panel.Halves(leaves[worst].Direction);
-            leaves.RemoveAt(worst);
-            foreach (var half in new[] { lowerHalf, upperHalf })
+            // The worst leaf and every leaf alike (its mirror images under the cell's symmetry) are split
+            // together, so the loop never stops half-way through a symmetric set.
+            var next = new List<(FacePanel Panel, double[] Change, int Direction)>(leaves.Count + 8);
+            for (var i = 0; i < leaves.Count; i++)
             {
-                var (change, direction) = Split(half);
-                leaves.Add((half, change, direction));
+                if (shares[i] < worstShare * (1 - Alike))
+                {
+                    next.Add(leaves[i]);
+                    continue;
+                }
+
+                foreach (var piece in Pieces(leaves[i].Panel, leaves[i].Direction))
+                {
+                    var (change, direction) = Split(piece);
+                    next.Add((piece, change, direction));
+                }
             }
+
+            leaves = next;
         }
 
         // A stable order (by face, then position) so the rays, and the sums over them, repeat run to run.
