@@ -11,9 +11,9 @@ internal static partial class LongWaveFaceRule
     /// The estimated error of kappa the panels may leave through the cell's direction average (before
     /// division by the cell's share). The estimate adds up, panel by panel, how much the last split would
     /// have moved each average, so it is an upper bound in practice: the simple cubic model of
-    /// GammaCellDirectionRuleTests with springs 40 and 2 N/m comes within 5e-4 with 4,192 rays (3e-4
-    /// gave 9e-5 with 7,744 rays, and jobs/potential-expansion.toml 40 % more CPU for changes of 2e-5
-    /// beside its 2-27 % mesh changes; docs/outside-checks.md and bench/README.md, round 11).
+    /// GammaCellDirectionRuleTests with springs 40 and 2 N/m comes within 5.1e-4 with 5,760 rays (3e-4
+    /// gave 9e-5 before mirror-image panels were cut alike, and jobs/potential-expansion.toml 40 % more
+    /// CPU for changes of 2e-5 beside its 2-27 % mesh changes; docs/outside-checks.md and bench/README.md, round 11).
     /// </summary>
     public const double PanelKappaTolerance = 1e-3;
 

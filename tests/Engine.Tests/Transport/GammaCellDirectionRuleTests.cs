@@ -57,8 +57,8 @@ public class GammaCellDirectionRuleTests
     /// Where the transverse branches cross on the [100] and [111] axes (and in the mirror planes), the
     /// direction integrand has kinks and narrow ridges; rules on whole faces left this model 0.6-0.9 % low
     /// even with 48 x 48 nodes per face. Panels refined where the integrand needs them bring it within 1e-3
-    /// (measured -4.7e-4 with a constant tau and -2.4e-4 with boundary scattering; the own NumPy
-    /// reference of the long-wave integral, converged to 3e-6, gives -4.9e-4 and -2.6e-4).
+    /// (measured -4.9e-4 with a constant tau and -2.9e-4 with boundary scattering; the own NumPy
+    /// reference of the long-wave integral, converged to 3e-6, gives -5.1e-4 and -3.1e-4).
     /// The reference here is the sphere grid of 400 x 800 directions (1.4e-5 from the converged one).
     /// </summary>
     [Theory]
