@@ -185,11 +185,11 @@ internal static class ConductivityCalculator
 
             // Near q = 0, at the hand-over's temperatures the point samples f (1 - w) and its cell's nodes
             // integrate f w; at the others the point counts as before and the nodes not at all.
-            var rest = 1 - handover.Window(q.Length);
+            var rest = 1 - handover.Window(handover.Distance(q));
             AddPoint(q, skip, point.Weight, t => handover.On[t] ? rest : 1);
             foreach (var (node, nodeWeight) in handover.Nodes(point.Reduced))
             {
-                var window = handover.Window(node.Length);
+                var window = handover.Window(handover.Distance(node));
                 if (window > 0)
                 {
                     AddPoint(node, 0, point.Weight * nodeWeight, t => handover.On[t] ? window : 0, node: true);
