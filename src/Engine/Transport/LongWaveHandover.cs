@@ -43,7 +43,7 @@ internal sealed class LongWaveHandover
     public const double CellHoldsX = 30;
 
     /// <summary>
-    /// x of the slowest branch at one mesh spacing below which the mesh follows the integrand with one point
+    /// x of the fastest acoustic branch at one mesh spacing below which the mesh follows the integrand with one point
     /// per cell (emulation: 1e-4 for a q^2 branch, 1e-5 for a cone).
     /// </summary>
     public const double MeshFollowsX = 0.1;
@@ -108,8 +108,10 @@ internal sealed class LongWaveHandover
             return null; // the zone holds no window wide enough (a mesh of a few points): the cell and the mesh stay as they were
         }
 
-        var slowAtEdge = SlowestOmega(solver, lattice, inradius);
-        var slowAtSpacing = SlowestOmega(solver, lattice, spacing);
+        // On where some branch's carriers leave the cell (the slowest's x at the cell's edge) and some
+        // branch's change within a cell (the fastest acoustic's x one spacing out).
+        var slowAtEdge = AcousticOmegas(solver, lattice, inradius).Slowest;
+        var fastAtSpacing = AcousticOmegas(solver, lattice, spacing).Fastest;
         var on = new bool[temperaturesK.Length];
         var any = false;
         for (var t = 0; t < on.Length; t++)
@@ -121,7 +123,7 @@ internal sealed class LongWaveHandover
             }
 
             var xEdge = Units.PhysicalConstants.HbarJS * slowAtEdge / kT;
-            var xSpacing = Units.PhysicalConstants.HbarJS * slowAtSpacing / kT;
+            var xSpacing = Units.PhysicalConstants.HbarJS * fastAtSpacing / kT;
             on[t] = xEdge < CellHoldsX && xSpacing > MeshFollowsX;
             any |= on[t];
         }
@@ -228,17 +230,23 @@ internal sealed class LongWaveHandover
         return [b1, -b1, b2, -b2, b1 + b2, -(b1 + b2), b1 - b2, -(b1 - b2)];
     }
 
-    /// <summary>The lowest moving branch's angular frequency at distance <paramref name="qM"/> over the mesh axes and diagonals (rad/s).</summary>
-    private static double SlowestOmega(ModeSolver solver, Lattice lattice, double qM)
+    /// <summary>
+    /// The slowest moving and the fastest acoustic branch's angular frequencies at distance
+    /// <paramref name="qM"/>, over the mesh axes and diagonals (rad/s).
+    /// </summary>
+    private static (double Slowest, double Fastest) AcousticOmegas(ModeSolver solver, Lattice lattice, double qM)
     {
         Vec3[] directions = lattice.Dimension == 1
             ? [lattice.ReciprocalVector(0)]
             : [lattice.ReciprocalVector(0), lattice.ReciprocalVector(1), lattice.ReciprocalVector(0) + lattice.ReciprocalVector(1), lattice.ReciprocalVector(0) - lattice.ReciprocalVector(1)];
+        var acoustic = solver.Matrix.Crystal.Components;
         var lowest = double.PositiveInfinity;
+        var highest = 0.0;
         foreach (var b in directions)
         {
             solver.SolveValues(qM * b.Unit());
             var values = solver.Values;
+            highest = Math.Max(highest, Math.Sqrt(Math.Max(values[acoustic - 1], 0)));
 
             // The lowest branch that moves at all: a branch with no restoring force (omega = 0 everywhere)
             // carries no heat and says nothing about where the carriers are.
@@ -253,7 +261,7 @@ internal sealed class LongWaveHandover
             }
         }
 
-        return lowest;
+        return (lowest, highest);
     }
 
     private static double SpecialErfc(double x) => MathNet.Numerics.SpecialFunctions.Erfc(x);
