@@ -61,6 +61,21 @@ internal static class SimplexDosIntegrator
             }
         }
 
+        // 1D: every branch's intervals lowered by their mean interpolation error (IntervalCurvature),
+        // each held within its branch's range on the mesh.
+        var chainCurved = dimension == 1 && m1 >= 3;
+        var chainBottoms = new double[chainCurved ? branches : 0];
+        var chainTops = new double[chainCurved ? branches : 0];
+        for (var b = 0; b < chainBottoms.Length; b++)
+        {
+            (chainBottoms[b], chainTops[b]) = (double.PositiveInfinity, double.NegativeInfinity);
+            for (var p = 0; p < m1; p++)
+            {
+                chainBottoms[b] = Math.Min(chainBottoms[b], frequencyThz[(p * branches) + b]);
+                chainTops[b] = Math.Max(chainTops[b], frequencyThz[(p * branches) + b]);
+            }
+        }
+
         for (var i1 = 0; i1 < m1; i1++)
         {
             for (var i2 = 0; i2 < (dimension >= 2 ? m2 : 1); i2++)
@@ -88,7 +103,9 @@ internal static class SimplexDosIntegrator
                         var simplex = simplices[s];
                         for (var b = firstBranch; b < branches; b++)
                         {
-                            var lift = b < curved ? shifts[(2 * b) + s] : 0.0;
+                            var lift = b < curved ? shifts[(2 * b) + s]
+                                : chainCurved ? IntervalCurvature.Shift(frequencyThz, branches, b, m1, i1, chainBottoms[b], chainTops[b])
+                                : 0.0;
                             AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight, lift);
                             if (moments is not null)
                             {
