@@ -9,9 +9,16 @@ namespace LatticeSweep.Engine.Dos;
 /// q = 0, so linear intervals misplace each interval's states by an ordinary h^2 error: concave
 /// stretches (an acoustic branch rising to its zone-boundary top, an optical one falling from q = 0)
 /// push states down. A diatomic chain's heat capacity came out up to 1.8e-3 high at 40 K on 16
-/// intervals, falling only as 1 / M^2. Unlike 2D and 3D, every branch is shifted: in 1D the optical
+/// intervals, falling only as 1 / M^2. Unlike 2D and 3D, every branch is moved: in 1D the optical
 /// branches' h^2 error is of the same order as the acoustic one's (no cone concentrates the error near
-/// q = 0), and a chain's branches of one polarisation do not cross.
+/// q = 0). Where sorted branches of different polarisations cross, their kinks make the estimate wrong
+/// for an interval or two; measured small (docs/outside-checks.md, Round 11 (coarse-curvature)).
+/// </para>
+/// <para>
+/// Band edges: an interval touching a branch's extreme mesh value cannot shift whole without carrying
+/// states past it (into a gap, or above the top). Pinning that end and moving the other twice as far
+/// keeps the mean right; merely clamping the shift left an h^3 error (5.1e-4 / 6.7e-5 / 8.6e-6 on
+/// meshes 16 / 32 / 64 for the chain above, against 1.8e-5 / 2.8e-6 / 1.7e-7 now).
 /// </para>
 /// <para>
 /// f'' is the mean of the central second differences at the interval's two ends (in mesh-index
@@ -23,39 +30,57 @@ namespace LatticeSweep.Engine.Dos;
 internal static class IntervalCurvature
 {
     /// <summary>
-    /// The downward shift (THz) of branch b's interval from mesh point i to i + 1 (positive where the
-    /// branch is convex). Clamped so neither end leaves the branch's range on the mesh: near a band edge
-    /// a shift must not carry states into the gap beyond it.
+    /// Writes branch b's interval from mesh point i to i + 1 as the range its states are spread over
+    /// (uniformly, as linear interpolation does), ends[0] &lt;= ends[1] in THz: the corners' range moved by
+    /// the mean interpolation error (down where the branch is convex). Where that would carry an end past
+    /// the branch's lowest or highest mesh value (an interval at a band edge, where a gap may begin), that
+    /// end stays at the bound and the other moves twice as far: the states' mean still moves by the
+    /// error, and none spill past the band edge.
     /// </summary>
     /// <param name="branchBottomThz">The branch's lowest value on the mesh.</param>
     /// <param name="branchTopThz">The branch's highest value on the mesh.</param>
-    public static double Shift(double[] frequencyThz, int branches, int b, int m, int i, double branchBottomThz, double branchTopThz)
+    public static void Ends(double[] frequencyThz, int branches, int b, int m, int i, double branchBottomThz, double branchTopThz, Span<double> ends)
     {
         var j = i + 1 == m ? 0 : i + 1;
         var fi = frequencyThz[(i * branches) + b];
         var fj = frequencyThz[(j * branches) + b];
+        var (low, high) = (Math.Min(fi, fj), Math.Max(fi, fj));
+        var drop = Drop(frequencyThz, branches, b, m, i, j, branchTopThz);
+        var mean = 0.5 * (low + high) - drop;
+        if (low - drop < branchBottomThz)
+        {
+            // Lowered at a band bottom: the lower end pinned.
+            low = Math.Min(branchBottomThz, low);
+            high = Math.Max((2 * mean) - low, low);
+        }
+        else if (high - drop > branchTopThz)
+        {
+            // Raised at a band top: the upper end pinned.
+            high = Math.Max(branchTopThz, high);
+            low = Math.Min((2 * mean) - high, high);
+        }
+        else
+        {
+            (low, high) = (low - drop, high - drop);
+        }
 
+        ends[0] = low;
+        ends[1] = high;
+    }
+
+    /// <summary>The mean interpolation error f'' / 12 (mesh-index units, THz) of the interval i..j.</summary>
+    private static double Drop(double[] frequencyThz, int branches, int b, int m, int i, int j, double branchTopThz)
+    {
         // Vanishing at q = 0 (index m / 2): an acoustic branch's kink, whose second difference is no curvature.
         var kinked = frequencyThz[((m / 2) * branches) + b] <= 1e-9 * Math.Max(branchTopThz, 1e-300);
         var useI = !(kinked && i == m / 2);
         var useJ = !(kinked && j == m / 2);
-        double curvature;
         if (useI && useJ)
         {
-            curvature = 0.5 * (SecondDifference(frequencyThz, branches, b, m, i) + SecondDifference(frequencyThz, branches, b, m, j));
-        }
-        else if (useI || useJ)
-        {
-            curvature = SecondDifference(frequencyThz, branches, b, m, useI ? i : j);
-        }
-        else
-        {
-            return 0;
+            return 0.5 * (SecondDifference(frequencyThz, branches, b, m, i) + SecondDifference(frequencyThz, branches, b, m, j)) / 12.0;
         }
 
-        var low = Math.Min(fi, fj);
-        var high = Math.Max(fi, fj);
-        return Math.Clamp(curvature / 12.0, Math.Min(high - branchTopThz, 0), Math.Max(low - branchBottomThz, 0));
+        return useI || useJ ? SecondDifference(frequencyThz, branches, b, m, useI ? i : j) / 12.0 : 0.0;
     }
 
     private static double SecondDifference(double[] f, int branches, int b, int m, int i)

@@ -61,11 +61,12 @@ internal static class SimplexDosIntegrator
             }
         }
 
-        // 1D: every branch's intervals lowered by their mean interpolation error (IntervalCurvature),
+        // 1D: every branch's intervals moved by their mean interpolation error (IntervalCurvature),
         // each held within its branch's range on the mesh.
         var chainCurved = dimension == 1 && m1 >= 3;
         var chainBottoms = new double[chainCurved ? branches : 0];
         var chainTops = new double[chainCurved ? branches : 0];
+        var chainEnds = new double[2];
         for (var b = 0; b < chainBottoms.Length; b++)
         {
             (chainBottoms[b], chainTops[b]) = (double.PositiveInfinity, double.NegativeInfinity);
@@ -103,10 +104,13 @@ internal static class SimplexDosIntegrator
                         var simplex = simplices[s];
                         for (var b = firstBranch; b < branches; b++)
                         {
-                            var lift = b < curved ? shifts[(2 * b) + s]
-                                : chainCurved ? IntervalCurvature.Shift(frequencyThz, branches, b, m1, i1, chainBottoms[b], chainTops[b])
-                                : 0.0;
-                            AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight, lift);
+                            var lift = b < curved ? shifts[(2 * b) + s] : 0.0;
+                            if (chainCurved)
+                            {
+                                IntervalCurvature.Ends(frequencyThz, branches, b, m1, i1, chainBottoms[b], chainTops[b], chainEnds);
+                            }
+
+                            AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight, lift, chainCurved ? chainEnds : null);
                             if (moments is not null)
                             {
                                 AddMoments(simplex.Length, e, simplexShare, grid, moments);
@@ -445,7 +449,7 @@ internal static class SimplexDosIntegrator
 
     private static void AddSimplex(
         int[] simplex, int[] corners, int branch, int branches, double[] frequencyThz, double[]? weights, int channels,
-        FrequencyGrid grid, double share, double[] total, double[] partial, double[] e, int[] order, double[] meanWeight, double lift)
+        FrequencyGrid grid, double share, double[] total, double[] partial, double[] e, int[] order, double[] meanWeight, double lift, double[]? intervalEnds = null)
     {
         var k = simplex.Length;
         for (var v = 0; v < k; v++)
@@ -455,6 +459,12 @@ internal static class SimplexDosIntegrator
         }
 
         Array.Sort(e, 0, k);
+        if (intervalEnds is not null)
+        {
+            // An interval's states spread over the range IntervalCurvature gave (sorted).
+            (e[0], e[1]) = (intervalEnds[0], intervalEnds[1]);
+        }
+
         if (weights is not null && channels > 0)
         {
             Array.Clear(meanWeight);
