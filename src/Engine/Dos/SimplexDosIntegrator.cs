@@ -46,6 +46,21 @@ internal static class SimplexDosIntegrator
         var order = new int[4];
         var meanWeight = new double[Math.Max(channels, 1)];
 
+        // 2D: the acoustic branches' triangles outside the long-wave box lowered by their mean
+        // interpolation error (TriangleCurvature); only where the box takes the cones' apex (the
+        // difference stencil would cross q = 0 otherwise).
+        var curvedBranches = dimension == 2 && longWaves is { } box && m1 >= 3 && m2 >= 3 ? Math.Min(box.Branches, branches) : 0;
+        var shifts = new double[2 * Math.Max(curvedBranches, 1)];
+        var branchTops = new double[curvedBranches];
+        for (var b = 0; b < curvedBranches; b++)
+        {
+            branchTops[b] = double.NegativeInfinity;
+            for (long p = 0; p < cells; p++)
+            {
+                branchTops[b] = Math.Max(branchTops[b], frequencyThz[(p * branches) + b]);
+            }
+        }
+
         for (var i1 = 0; i1 < m1; i1++)
         {
             for (var i2 = 0; i2 < (dimension >= 2 ? m2 : 1); i2++)
@@ -62,11 +77,19 @@ internal static class SimplexDosIntegrator
 
                     var simplices = dimension switch { 1 => [[0, 1]], 2 => Triangles, _ => Tetrahedra };
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
-                    foreach (var simplex in simplices)
+                    var curved = firstBranch == 0 ? curvedBranches : 0;
+                    for (var b = 0; b < curved; b++)
                     {
+                        TriangleCurvature.SquareShifts(frequencyThz, branches, b, m1, m2, i1, i2, corners.AsSpan(0, 4), branchTops[b], shifts.AsSpan(2 * b, 2));
+                    }
+
+                    for (var s = 0; s < simplices.Length; s++)
+                    {
+                        var simplex = simplices[s];
                         for (var b = firstBranch; b < branches; b++)
                         {
-                            AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight);
+                            var lift = b < curved ? shifts[(2 * b) + s] : 0.0;
+                            AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight, lift);
                             if (moments is not null)
                             {
                                 AddMoments(simplex.Length, e, simplexShare, grid, moments);
@@ -405,13 +428,13 @@ internal static class SimplexDosIntegrator
 
     private static void AddSimplex(
         int[] simplex, int[] corners, int branch, int branches, double[] frequencyThz, double[]? weights, int channels,
-        FrequencyGrid grid, double share, double[] total, double[] partial, double[] e, int[] order, double[] meanWeight)
+        FrequencyGrid grid, double share, double[] total, double[] partial, double[] e, int[] order, double[] meanWeight, double lift)
     {
         var k = simplex.Length;
         for (var v = 0; v < k; v++)
         {
             order[v] = corners[simplex[v]];
-            e[v] = frequencyThz[order[v] * branches + branch];
+            e[v] = frequencyThz[order[v] * branches + branch] - lift;
         }
 
         Array.Sort(e, 0, k);

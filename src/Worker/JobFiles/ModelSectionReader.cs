@@ -120,7 +120,9 @@ internal static class ModelSectionReader
         }
 
         var tolerance = model.Double("shell_tolerance_nm", check: Checks.Between(1e-12, 1)) ?? CrystalModel.DefaultShellToleranceNm;
-        var dimension = kind switch
+        // An unknown or missing lattice has no dimension: 3 lets the sites, bonds and bends be read
+        // without follow-on errors ("a 1D lattice takes 1 coordinate") about a lattice nobody asked for.
+        var dimension = latticeName is null ? 3 : kind switch
         {
             LatticeKind.Chain => 1,
             LatticeKind.Square => 2,
@@ -143,7 +145,7 @@ internal static class ModelSectionReader
         var sites = ReadSites(siteTables, dimension);
         var springs = ReadSprings(model.TableList("springs"), sites, motion);
         var bonds = ReadBonds(model.TableList("bonds"), sites, dimension, motion);
-        var bends = ReadBends(model.TableList("bends"), sites, dimension, motion);
+        var bends = ReadBends(model.TableList("bends"), sites, latticeName is null ? null : dimension, motion);
         var potentials = ReadPotentials(model.TableList("potentials"), sites);
         var relax = model.Bool("relax") ?? false;
         if (relax && !model.Has("potentials"))
@@ -329,7 +331,7 @@ internal static class ModelSectionReader
         return [.. bonds];
     }
 
-    private static ImmutableArray<BendSpring> ReadBends(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites, int dimension, DegreesOfFreedom motion)
+    private static ImmutableArray<BendSpring> ReadBends(IReadOnlyList<TableReader> tables, ImmutableArray<SiteSpec> sites, int? dimension, DegreesOfFreedom motion)
     {
         var kinds = sites.Select(s => s.Kind).Distinct(StringComparer.Ordinal).ToList();
         var bends = new List<BendSpring>();
@@ -346,9 +348,9 @@ internal static class ModelSectionReader
             {
                 t.TableError("bond bending moves atoms across their bonds; the scalar model has one displacement per atom: use motion = \"3d\" or remove [[model.bends]]");
             }
-            else if (form == BendForm.Flexural && dimension != 2)
+            else if (form == BendForm.Flexural && dimension is { } d && d != 2)
             {
-                t.Error("form", $"\"flexural\" bends a 2D sheet out of its plane; this lattice is {dimension}D. Use \"angle\" or \"keating\"");
+                t.Error("form", $"\"flexural\" bends a 2D sheet out of its plane; this lattice is {d}D. Use \"angle\" or \"keating\"");
             }
 
             var (first, second) = (ends?.First ?? "", ends?.Second ?? ends?.First ?? "");

@@ -1,3 +1,5 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Springs;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Tests.Support;
@@ -61,6 +63,37 @@ public sealed class ConfinedConductivityTests
 
         // Today's boundary-scattering estimate of the same point stands beside it.
         Assert.NotNull(result.Conductivity);
+    }
+
+    [Fact]
+    public void A_thin_film_at_low_temperature_conducts_as_its_three_gapless_branches_whatever_their_speeds()
+    {
+        // A film's subbands with omega -> 0 at k = 0 are 2D waves. For omega = c k and a constant tau,
+        // kappa_xx = (tau / h) int d^2k / (2 pi)^2 C v_x^2 = tau kB (kB T / hbar)^2 6 zeta(3) / (4 pi h), whatever c
+        // (own derivation from the kinetic formula, Ziman, Electrons and Phonons, ch. 8; h = volume / area).
+        // Transverse springs make all three branches linear (the flexural one too, as they resist rotation).
+        // Two (111) layers of an fcc crystal, 160 x 160 in-plane cells, at 10 K: the first gapped subband
+        // is far above kT and the thermal waves span about 14 grid steps; an own exact mode sum of the same
+        // film gives 0.4419139 W/(m K), 1.9e-3 above the law (dispersion and grid).
+        const double tauPs = 5.0;
+        const double temperatureK = 10.0;
+        const double aNm = 0.4;
+        var model = CrystalModel.Create(Lattice.FaceCentredCubic(aNm), [new Site("A", "A", Vec3.Zero, 30.0)], [new ShellSpring("A", "A", 1, 25.0, 2.0)]);
+        var options = new SolveOptions
+        {
+            TemperaturesK = [temperatureK],
+            ReferenceTemperatureK = temperatureK,
+            Conductivity = new ConductivityOptions { Constant = new ConstantScattering(tauPs) },
+        };
+        var result = PhononSolver.Solve(model, RealSpaceSample.Box(160, 160, 2, Boundary.Periodic, Boundary.Periodic, Boundary.Free), options);
+
+        var thicknessM = 2 * aNm * 1e-9 / Math.Sqrt(3); // two (111) planes, a / sqrt 3 apart
+        var zeta3 = 1.2020569031595942;
+        var thermal = PhysicalConstants.BoltzmannJPerK * temperatureK / PhysicalConstants.HbarJS;
+        var perBranch = tauPs * 1e-12 * PhysicalConstants.BoltzmannJPerK * thermal * thermal * 6 * zeta3 / (4 * Math.PI * thicknessM);
+        var confined = result.ConfinedConductivity!.AtReference;
+        Approx.Equal(3 * perBranch, confined.KappaXxWPerMK, 4e-3, "kappa along a1");
+        Approx.Equal(3 * perBranch, confined.KappaYyWPerMK, 4e-3, "kappa across a1 in the plane");
     }
 
     [Fact]

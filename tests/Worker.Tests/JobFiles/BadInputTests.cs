@@ -81,6 +81,23 @@ public sealed class BadInputTests : IDisposable
     }
 
     [Fact]
+    public void A_misspelled_lattice_is_the_only_problem_reported_not_its_follow_on_dimension_errors()
+    {
+        // Before: an unknown lattice was read as a chain, so each 2-coordinate position also got "a 1D
+        // lattice takes 1 fractional coordinate(s)", and a sheet's flexural bend "this lattice is 1D".
+        var text = Some.ChainJob()
+            .Replace("lattice = \"chain\"", "lattice = \"squar\"", StringComparison.Ordinal)
+            .Replace("position = [0.0]", "position = [0.0, 0.0]", StringComparison.Ordinal)
+            .Replace("position = [0.5]", "position = [0.5, 0.5]", StringComparison.Ordinal)
+            .Replace("[sample]", "[[model.bends]]\ncentre = \"A\"\nends = \"B\"\nform = \"flexural\"\nconstant_n_per_m = 1.0\n\n[sample]", StringComparison.Ordinal);
+        var e = Some.Fails(_dir, text);
+        var p = Assert.Single(e.Problems);
+        Assert.Equal("model.lattice", p.Key);
+        Assert.Equal(Some.LineOf(text, "lattice = \"squar\""), p.Line);
+        Assert.Contains("did you mean \"square\"?", p.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Unknown_section_suggests_the_nearest_section()
     {
         var text = Some.ChainJob() + "\n[outptu]\ndos_bins = 10\n";
