@@ -21,7 +21,7 @@ namespace LatticeSweep.Engine.Dos;
 /// numbers. The Christoffel matrix is quadratic in u exactly (Born and Huang, ch. 5; from memory).
 /// </para>
 /// </summary>
-internal static class LongWaveFaceRule
+internal static partial class LongWaveFaceRule
 {
     /// <summary>
     /// Largest relative error of the angular average of sum_b v_b^-d a chosen rule may leave: half of the
@@ -55,26 +55,73 @@ internal static class LongWaveFaceRule
     /// sum_b v_b,a(u)^2 t(u) / c_b(u)^d, where c_b is the phase speed along u, v_b its group velocity and
     /// t the direction part of the relaxation time (1 for a constant, point-defect or Umklapp tau, which
     /// depend on omega only; 1 / |v_b| for boundary scattering). The group velocity weights directions
-    /// differently from the heat capacity's sum_b c_b^-d, so the rule is chosen on these 2d averages
+    /// differently from the heat capacity's sum_b c_b^-d, so the rule is checked on these 2d averages
     /// (each component a, both tau laws). Their error reaches kappa only through the cell's share of
     /// it, so each may leave <see cref="KappaTolerance"/> divided by an estimate of that share at the lowest
-    /// temperature (<see cref="CellShare"/>): models and temperatures the default integrates well
-    /// enough keep it, their bits and their cost (more nodes cost seven solves and the radial sum per ray).
+    /// temperature (<see cref="CellShare"/>): models and temperatures the default rule integrates well
+    /// enough keep it, their bits and their cost. The others get panels of the faces refined where the
+    /// integrand needs them (<see cref="Panels"/>): where acoustic branches cross on symmetry axes and
+    /// mirror planes the integrand has kinks and narrow ridges, and rules on whole faces converge slowly
+    /// there (a simple cubic model with next-nearest springs a twentieth of the nearest stayed 0.9 % low
+    /// with 48 x 48 nodes per face; docs/outside-checks.md, rounds 10 and 11).
     /// </summary>
     /// <param name="lowFrequencyHeavy">an Umklapp or point-defect channel is on (tau grows as omega falls,
     /// so the long waves weigh more)</param>
-    public static int ChooseForConductivity(CompiledCrystal crystal, IReadOnlyList<Vec3> edges, IReadOnlyList<double> temperaturesK, bool lowFrequencyHeavy)
+    public static CellFaceRule ChooseForConductivity(CompiledCrystal crystal, IReadOnlyList<Vec3> edges, IReadOnlyList<double> temperaturesK, bool lowFrequencyHeavy)
     {
         var d = crystal.Lattice.Dimension;
+        var fallback = CellFaceRule.Uniform(CentredCellRays.FaceNodes(d));
         var positive = temperaturesK.Where(t => t > 0).ToArray();
         if (d == 1 || positive.Length == 0 || LongWaveForm(crystal, d) is not { } form)
         {
-            return CentredCellRays.FaceNodes(d);
+            return fallback;
         }
 
         var share = CellShare(form, crystal, edges, d, positive.Min(), lowFrequencyHeavy);
-        var tolerance = share > 0 ? KappaTolerance / share : double.PositiveInfinity;
-        return Choose(crystal, edges, 2 * d, KineticDensities, tolerance);
+        if (!(share > 0))
+        {
+            return fallback;
+        }
+
+        var tolerance = KappaTolerance / share;
+        if (DefaultSuffices(crystal, edges, 2 * d, KineticDensities, tolerance) is not { } suffices || suffices)
+        {
+            return fallback;
+        }
+
+        return Panels(form, crystal.Components, edges, d, KineticDensities, PanelKappaTolerance / share) ?? fallback;
+    }
+
+    /// <summary>
+    /// Whether the default rule's averages are within the tolerance of the rule of twice its nodes; null
+    /// when the densities have no finite positive value (the rule does not matter then).
+    /// </summary>
+    private static bool? DefaultSuffices(CompiledCrystal crystal, IReadOnlyList<Vec3> edges, int count, DirectionDensities densities, double tolerance)
+    {
+        var d = crystal.Lattice.Dimension;
+        if (LongWaveForm(crystal, d) is not { } form)
+        {
+            return null;
+        }
+
+        void Density(Vec3 u, Span<double> values) => densities(form, crystal.Components, d, u, values);
+        var nodes = CentredCellRays.FaceNodes(d);
+        Span<double> coarse = stackalloc double[count];
+        Span<double> fine = stackalloc double[count];
+        Average(edges, d, nodes, Density, coarse);
+        Average(edges, d, 2 * nodes, Density, fine);
+        var within = true;
+        for (var k = 0; k < count; k++)
+        {
+            if (!(fine[k] > 0) || double.IsInfinity(fine[k]) || double.IsNaN(coarse[k]))
+            {
+                return null;
+            }
+
+            within &= Math.Abs((coarse[k] / fine[k]) - 1) <= tolerance;
+        }
+
+        return within;
     }
 
     /// <summary>

@@ -90,6 +90,66 @@ internal sealed class CentredCellRays
         return new CentredCellRays(d, [.. rays], shortest, [.. rule.Abscissas], [.. rule.Weights]);
     }
 
+    /// <summary>
+    /// Rays for a face rule: <see cref="Build(int, IReadOnlyList{Vec3}, int)"/> for a uniform rule (the same
+    /// rays and weights), else the rule's Gauss-Legendre product on each panel, with the same pyramid weights.
+    /// A panelled set's rays carry their face and their node on the panel; <see cref="IndexOf"/>,
+    /// <see cref="FaceAbscissas"/> and <see cref="FaceWeights"/> describe uniform sets only (the last two
+    /// are empty for a panelled one).
+    /// </summary>
+    public static CentredCellRays Build(int dimension, IReadOnlyList<Vec3> edges, CellFaceRule rule)
+    {
+        ArgumentNullException.ThrowIfNull(rule);
+        if (!rule.IsPanelled)
+        {
+            return Build(dimension, edges, rule.Nodes);
+        }
+
+        var d = dimension;
+        var volume = Measure([.. edges], d);
+        var unit = new GaussLegendreRule(0, 1, rule.Nodes);
+        var rays = new List<CellRay>(rule.RayCount(d));
+        var shortest = double.PositiveInfinity;
+        foreach (var panel in rule.Panels)
+        {
+            var centre = 0.5 * edges[panel.Face];
+            var span = Enumerable.Range(0, d).Where(j => j != panel.Face).Select(j => edges[j]).ToArray();
+            var columns = new Vec3[d];
+            columns[0] = centre;
+            for (var j = 0; j < span.Length; j++)
+            {
+                columns[j + 1] = span[j];
+            }
+
+            var jacobian = Measure(columns, d);
+            var across = d == 3 ? rule.Nodes : 1;
+            for (var i = 0; i < rule.Nodes; i++)
+            {
+                for (var j = 0; j < across; j++)
+                {
+                    var end = centre;
+                    var w = 1.0;
+                    if (d >= 2)
+                    {
+                        end += (panel.S0 + ((panel.S1 - panel.S0) * unit.Abscissas[i])) * span[0];
+                        w *= (panel.S1 - panel.S0) * unit.Weights[i];
+                    }
+
+                    if (d == 3)
+                    {
+                        end += (panel.T0 + ((panel.T1 - panel.T0) * unit.Abscissas[j])) * span[1];
+                        w *= (panel.T1 - panel.T0) * unit.Weights[j];
+                    }
+
+                    shortest = Math.Min(shortest, end.Length);
+                    rays.Add(new CellRay(end, 2.0 * jacobian * w / (d * volume), panel.Face, i, j));
+                }
+            }
+        }
+
+        return new CentredCellRays(d, [.. rays], shortest, [], []);
+    }
+
     /// <summary>|det| of d column vectors in their d-dimensional space (length, area or volume).</summary>
     private static double Measure(Vec3[] columns, int d) => d switch
     {

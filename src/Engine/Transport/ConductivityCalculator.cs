@@ -36,8 +36,8 @@ internal static class ConductivityCalculator
         var mesh = MeshOf(sample);
 
         var sum = new KineticSum(temperatures, reference, d, inputs.Rates, settings.MeanFreePathTable);
-        var faceNodes = bulk ? GammaCellIntegrator.FaceNodesFor(solver.Matrix.Crystal, mesh, temperatures, inputs.Rates) : 0;
-        var stable = acoustic.Stable && Pass(solver, mesh, bulk, faceNodes, sum, ct);
+        var faceRule = bulk ? GammaCellIntegrator.FaceRuleFor(solver.Matrix.Crystal, mesh, temperatures, inputs.Rates) : null;
+        var stable = acoustic.Stable && Pass(solver, mesh, bulk, faceRule, sum, ct);
         var scale = 1.0 / (Cells(mesh) * inputs.VolumePerCellM3);
 
         // Bulk meshes: the same sum on the mesh of half the density per direction. The relative change
@@ -49,7 +49,7 @@ internal static class ConductivityCalculator
         {
             int[] half = [mesh[0] / 2, d >= 2 ? mesh[1] / 2 : 1, d >= 3 ? mesh[2] / 2 : 1];
             coarse = new KineticSum(temperatures, reference, d, inputs.Rates, meanFreePaths: false);
-            stable &= Pass(solver, half, bulk: true, faceNodes, coarse, ct);
+            stable &= Pass(solver, half, bulk: true, faceRule, coarse, ct);
             halfMesh = [.. half];
         }
 
@@ -101,7 +101,7 @@ internal static class ConductivityCalculator
     /// other q = 0 branches count like any mode. Bulk meshes: the q = 0 point is replaced by the
     /// average over its cell (<see cref="GammaCellIntegrator"/>). Returns false for an unstable model.
     /// </summary>
-    private static bool Pass(ModeSolver solver, int[] mesh, bool bulk, int faceNodes, KineticSum sum, CancellationToken ct)
+    private static bool Pass(ModeSolver solver, int[] mesh, bool bulk, CellFaceRule? faceRule, KineticSum sum, CancellationToken ct)
     {
         var n = solver.Size;
         var lattice = solver.Matrix.Crystal.Lattice;
@@ -109,7 +109,7 @@ internal static class ConductivityCalculator
         var group = new GroupVelocities(solver);
         var velocities = new double[n * 3];
         var grid = new PeriodicGrid(mesh[0], mesh[1], mesh[2]);
-        var gammaCell = bulk ? new GammaCellIntegrator(lattice, mesh, faceNodes) : null;
+        var gammaCell = bulk && faceRule is not null ? new GammaCellIntegrator(lattice, mesh, faceRule) : null;
         var rotations = DegenerateRotations.For(lattice);
         var stable = true;
         double lowest = 0, highest = 0;

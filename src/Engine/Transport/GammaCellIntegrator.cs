@@ -13,8 +13,8 @@ namespace LatticeSweep.Engine.Transport;
 /// integrand over its cell {sum t_i b_i / M_i, |t_i| &lt;= 1/2}.
 /// <para>
 /// The cell is covered by rays from q = 0 (<see cref="CentredCellRays"/>: pyramids on its faces,
-/// Gauss-Legendre on each face, as many nodes as <see cref="LongWaveFaceRule.ChooseForConductivity"/>
-/// finds the model's direction-dependent speeds need). Along a ray the acoustic branches are the model's own dispersion
+/// Gauss-Legendre on each face, or on panels of the faces where
+/// <see cref="LongWaveFaceRule.ChooseForConductivity"/> finds the model's direction-dependent speeds need them). Along a ray the acoustic branches are the model's own dispersion
 /// (<see cref="RayDispersion"/>: the slope at q = 0 and five solves on the ray, with group velocities
 /// from Hellmann-Feynman, degenerate branches rotated along the ray), so omega and v follow the
 /// branch across the cell, not only its tangent at q = 0. The radial integral runs over 40 geometric
@@ -32,23 +32,23 @@ internal sealed class GammaCellIntegrator
     private readonly double _epsilon;
     private readonly bool _hexagonal;
 
-    /// <param name="faceNodes">Gauss-Legendre nodes per face direction (<see cref="FaceNodesFor"/>).</param>
-    public GammaCellIntegrator(Lattice lattice, IReadOnlyList<int> mesh, int faceNodes)
+    /// <param name="faceRule">the rule on the cell's faces (<see cref="FaceRuleFor"/>).</param>
+    public GammaCellIntegrator(Lattice lattice, IReadOnlyList<int> mesh, CellFaceRule faceRule)
     {
         _dimension = lattice.Dimension;
         _hexagonal = lattice.Kind == LatticeKind.Hexagonal;
-        _rays = CentredCellRays.Build(_dimension, Edges(lattice, mesh), faceNodes);
+        _rays = CentredCellRays.Build(_dimension, Edges(lattice, mesh), faceRule);
         _epsilon = Math.Min(1e-3 * AcousticAverages.SmallestReciprocal(lattice), 1e-2 * _rays.ShortestRayM);
     }
 
     /// <summary>
     /// The face rule for the cell of this mesh. At low temperature the cell holds nearly all the
     /// heat-carrying modes, so the rule follows the conductivity's own direction integrand: the default
-    /// unless the speeds vary strongly and the cell holds enough of kappa at the lowest temperature for
-    /// that to show (<see cref="LongWaveFaceRule.ChooseForConductivity"/>). The half-density check mesh
+    /// (a rule on whole faces) unless the speeds vary strongly and the cell holds enough of kappa at the lowest temperature for
+    /// that to show; then panels of the faces (<see cref="LongWaveFaceRule.ChooseForConductivity"/>). The half-density check mesh
     /// takes the same rule, so its change measures the mesh, not a change of rule.
     /// </summary>
-    public static int FaceNodesFor(CompiledCrystal crystal, IReadOnlyList<int> mesh, IReadOnlyList<double> temperaturesK, ScatteringRates scattering) =>
+    public static CellFaceRule FaceRuleFor(CompiledCrystal crystal, IReadOnlyList<int> mesh, IReadOnlyList<double> temperaturesK, ScatteringRates scattering) =>
         LongWaveFaceRule.ChooseForConductivity(crystal, Edges(crystal.Lattice, mesh), temperaturesK, scattering.UmklappOn || scattering.PointDefectOn);
 
     private static Vec3[] Edges(Lattice lattice, IReadOnlyList<int> mesh)
