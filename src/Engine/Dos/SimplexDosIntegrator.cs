@@ -61,6 +61,22 @@ internal static class SimplexDosIntegrator
             }
         }
 
+        // 1D: every branch's intervals moved by their mean interpolation error (IntervalCurvature),
+        // each held within its branch's range on the mesh.
+        var chainCurved = dimension == 1 && m1 >= 3;
+        var chainBottoms = new double[chainCurved ? branches : 0];
+        var chainTops = new double[chainCurved ? branches : 0];
+        var chainEnds = new double[2];
+        for (var b = 0; b < chainBottoms.Length; b++)
+        {
+            (chainBottoms[b], chainTops[b]) = (double.PositiveInfinity, double.NegativeInfinity);
+            for (var p = 0; p < m1; p++)
+            {
+                chainBottoms[b] = Math.Min(chainBottoms[b], frequencyThz[(p * branches) + b]);
+                chainTops[b] = Math.Max(chainTops[b], frequencyThz[(p * branches) + b]);
+            }
+        }
+
         for (var i1 = 0; i1 < m1; i1++)
         {
             for (var i2 = 0; i2 < (dimension >= 2 ? m2 : 1); i2++)
@@ -89,7 +105,12 @@ internal static class SimplexDosIntegrator
                         for (var b = firstBranch; b < branches; b++)
                         {
                             var lift = b < curved ? shifts[(2 * b) + s] : 0.0;
-                            AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight, lift);
+                            if (chainCurved)
+                            {
+                                IntervalCurvature.Ends(frequencyThz, branches, b, m1, i1, chainBottoms[b], chainTops[b], chainEnds);
+                            }
+
+                            AddSimplex(simplex, corners, b, branches, frequencyThz, weights, channels, grid, simplexShare, total, partial, e, order, meanWeight, lift, chainCurved ? chainEnds : null);
                             if (moments is not null)
                             {
                                 AddMoments(simplex.Length, e, simplexShare, grid, moments);
@@ -428,7 +449,7 @@ internal static class SimplexDosIntegrator
 
     private static void AddSimplex(
         int[] simplex, int[] corners, int branch, int branches, double[] frequencyThz, double[]? weights, int channels,
-        FrequencyGrid grid, double share, double[] total, double[] partial, double[] e, int[] order, double[] meanWeight, double lift)
+        FrequencyGrid grid, double share, double[] total, double[] partial, double[] e, int[] order, double[] meanWeight, double lift, double[]? intervalEnds = null)
     {
         var k = simplex.Length;
         for (var v = 0; v < k; v++)
@@ -438,6 +459,12 @@ internal static class SimplexDosIntegrator
         }
 
         Array.Sort(e, 0, k);
+        if (intervalEnds is not null)
+        {
+            // An interval's states spread over the range IntervalCurvature gave (sorted).
+            (e[0], e[1]) = (intervalEnds[0], intervalEnds[1]);
+        }
+
         if (weights is not null && channels > 0)
         {
             Array.Clear(meanWeight);

@@ -21,6 +21,7 @@ public static partial class PhononSolver
     private static PointResult SolveRealSpace(CrystalModel model, RealSpaceSample sample, SolveOptions options, CancellationToken ct)
     {
         sample.Validate(model);
+        options = WithWallDistance(model, sample, options);
         var crystal = CompiledCrystal.From(model);
         var solver = new ModeSolver(new DynamicalMatrix(crystal));
         CheckNoFloppyBranch(solver);
@@ -214,6 +215,16 @@ public static partial class PhononSolver
     /// cells holding about as many atoms, N = round((atoms / r)^(1/d)); for a cylinder the cells
     /// along its axis and a square cross-section of about as many atoms.
     /// </summary>
+    /// <summary>
+    /// Boundary scattering without a length takes the distance between the sample's free surfaces
+    /// (<see cref="WallDistance"/>), not the periodic counterpart's smallest edge, which may be a
+    /// periodic direction with no walls; a sample without free surfaces keeps the counterpart's rule.
+    /// </summary>
+    private static SolveOptions WithWallDistance(CrystalModel model, RealSpaceSample sample, SolveOptions options) =>
+        options.Conductivity is { Boundary: { LengthNm: null } boundary } conductivity && WallDistance.SmallestNm(model.Lattice, sample) is { } wallsNm
+            ? options with { Conductivity = conductivity with { Boundary = boundary with { LengthNm = wallsNm } } }
+            : options;
+
     internal static FiniteSample PeriodicCounterpart(Lattice lattice, RealSpaceSample sample, long atoms, int sitesPerCell)
     {
         var d = lattice.Dimension;

@@ -9,8 +9,8 @@ namespace LatticeSweep.Engine.Transport;
 public sealed record BoundaryScattering
 {
     /// <summary>
-    /// Effective length L_eff in nm. Null takes it from a finite sample: its smallest extent N_i |a_i|
-    /// over the lattice's directions (a thin sample's thickness sets it). A bulk sample needs it given.
+    /// Effective length L_eff in nm. Null takes it from the sample: the distance between its free
+    /// surfaces (<see cref="Samples.WallDistance"/>), or a periodic crystal's smallest extent N_i |a_i|. A bulk sample needs it given.
     /// </summary>
     public double? LengthNm { get; init; }
 

@@ -111,6 +111,43 @@ public sealed class ConfinedConductivityTests
         Assert.True(double.IsNaN(confined.AtReference.KappaYyWPerMK));
     }
 
+    [Fact]
+    public void Boundary_scattering_without_a_length_takes_the_distance_between_the_free_surfaces()
+    {
+        // The walls are where the sample is free: a film's thickness across its free direction (N3 times
+        // the spacing of the (111) planes, a / sqrt 3, for an fcc film of primitive cells; not N3 |a3| =
+        // N3 a / sqrt 2), a round wire's diameter (Casimir, Physica 5, 495 (1938)). A periodic direction has
+        // no walls, however few its cells. Before, both took the smallest N_i |a_i| over all directions.
+        var options = new SolveOptions
+        {
+            TemperaturesK = [300],
+            Conductivity = new ConductivityOptions { Boundary = new BoundaryScattering(), Constant = new ConstantScattering(1.0) },
+        };
+        const double aNm = 0.4;
+        var film = PhononSolver.Solve(Crystals.FccCentral(aNm: aNm), RealSpaceSample.Box(3, 3, 4, Boundary.Periodic, Boundary.Periodic, Boundary.Free), options);
+        var thicknessNm = 4 * aNm / Math.Sqrt(3);
+        Approx.Equal(thicknessNm, film.Conductivity!.BoundaryLengthNm, 1e-12, "the film's estimate: L = its thickness, not the 3-cell periodic edge");
+        var confined = film.ConfinedConductivity!;
+        Approx.Equal(
+            PhononSolver.Solve(
+                Crystals.FccCentral(aNm: aNm),
+                RealSpaceSample.Box(3, 3, 4, Boundary.Periodic, Boundary.Periodic, Boundary.Free),
+                options with { Conductivity = options.Conductivity with { Boundary = new BoundaryScattering { LengthNm = thicknessNm } } })
+            .ConfinedConductivity!.AtReference.KappaWPerMK,
+            confined.AtReference.KappaWPerMK,
+            1e-12,
+            "the confined modes' kappa uses the same length as the thickness given by hand");
+
+        var wire = PhononSolver.Solve(Crystals.FccCentral(aNm: aNm), RealSpaceSample.Cylinder(0.45, axis: 2, cells: 8, Boundary.Periodic), options);
+        Approx.Equal(0.9, wire.Conductivity!.BoundaryLengthNm, 1e-12, "a round wire: its diameter");
+
+        var rod = PhononSolver.Solve(Crystals.FccCentral(aNm: aNm), RealSpaceSample.Cylinder(0.6, axis: 2, cells: 2, Boundary.Free), options);
+        Approx.Equal(2 * aNm / Math.Sqrt(3), rod.Conductivity!.BoundaryLengthNm, 1e-12, "a rod of two cells along a free axis: its length across the (111) planes");
+
+        var periodic = PhononSolver.Solve(Crystals.FccCentral(aNm: aNm), RealSpaceSample.Box(3, 3, 4, Boundary.Periodic, Boundary.Periodic, Boundary.Periodic), options);
+        Approx.Equal(3 * aNm / Math.Sqrt(2), periodic.Conductivity!.BoundaryLengthNm, 1e-12, "no free surface: the smallest edge N_i |a_i| as before");
+    }
+
     private static double Sq(double x) => x * x;
 
     private static double HeatCapacity(double omega, double temperatureK)
