@@ -99,7 +99,9 @@ internal static class ConductivityCalculator
     /// One pass over the wave vectors (half of them: omega, |v_a| and C are the same at q and -q).
     /// Finite crystals: the q = 0 rigid translations are not heat carriers and add nothing; the
     /// other q = 0 branches count like any mode. Bulk meshes: the q = 0 point is replaced by the
-    /// average over its cell (<see cref="GammaCellIntegrator"/>). Returns false for an unstable model.
+    /// average over its cell (<see cref="GammaCellIntegrator"/>), and in 1D and 2D, at temperatures whose
+    /// thermal waves reach just past that cell, the cells around it hand over smoothly to the mesh
+    /// (<see cref="LongWaveHandover"/>). Returns false for an unstable model.
     /// </summary>
     private static bool Pass(ModeSolver solver, int[] mesh, bool bulk, CellFaceRule? faceRule, KineticSum sum, CancellationToken ct)
     {
@@ -110,9 +112,60 @@ internal static class ConductivityCalculator
         var velocities = new double[n * 3];
         var grid = new PeriodicGrid(mesh[0], mesh[1], mesh[2]);
         var gammaCell = bulk && faceRule is not null ? new GammaCellIntegrator(lattice, mesh, faceRule) : null;
+        var handover = gammaCell is not null ? LongWaveHandover.Plan(solver, lattice, mesh, sum.TemperaturesK) : null;
+        var weights = new double[sum.TemperaturesK.Length];
+        var inPlane = handover is not null && gammaCell!.SymmetrisesInPlane(group, solver);
         var rotations = DegenerateRotations.For(lattice);
         var stable = true;
         double lowest = 0, highest = 0;
+
+        // Solves q and adds its modes counted weight times, or weight x share(t) at each temperature t.
+        void AddPoint(Vec3 q, int skip, double weight, Func<int, double>? share, bool node = false)
+        {
+            group.Solve(q, rotations[0], velocities);
+            var values = solver.Values;
+            highest = Math.Max(highest, values[n - 1]);
+            for (var k = skip; k < n; k++)
+            {
+                lowest = Math.Min(lowest, values[k]);
+            }
+
+            var directions = HasDegenerateSet(values, skip) ? rotations.Length : 1;
+            if (share is not null)
+            {
+                for (var t = 0; t < weights.Length; t++)
+                {
+                    weights[t] = weight * share(t) / directions;
+                }
+            }
+
+            for (var r = 0; r < directions; r++)
+            {
+                if (r > 0)
+                {
+                    group.Solve(q, rotations[r], velocities);
+                }
+
+                for (var k = skip; k < n; k++)
+                {
+                    var v = new Vec3(velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]);
+                    if (node && inPlane)
+                    {
+                        v = GammaCellIntegrator.InPlaneAverage(v);
+                    }
+
+                    if (share is null)
+                    {
+                        sum.Add(Math.Sqrt(Math.Max(values[k], 0)), v, weight / directions);
+                    }
+                    else
+                    {
+                        sum.Add(Math.Sqrt(Math.Max(values[k], 0)), v, weights);
+                    }
+                }
+            }
+        }
+
         foreach (var point in grid.HalfSet())
         {
             ct.ThrowIfCancellationRequested();
@@ -124,26 +177,22 @@ internal static class ConductivityCalculator
 
             var q = lattice.ToCartesianQ(point.Reduced);
             var skip = point.IsGamma ? rigid : 0;
-            group.Solve(q, rotations[0], velocities);
-            var values = solver.Values;
-            highest = Math.Max(highest, values[n - 1]);
-            for (var k = skip; k < n; k++)
+            if (handover is null || !handover.Touches(q))
             {
-                lowest = Math.Min(lowest, values[k]);
+                AddPoint(q, skip, point.Weight, share: null);
+                continue;
             }
 
-            var directions = HasDegenerateSet(values, skip) ? rotations.Length : 1;
-            for (var r = 0; r < directions; r++)
+            // Near q = 0, at the hand-over's temperatures the point samples f (1 - w) and its cell's nodes
+            // integrate f w; at the others the point counts as before and the nodes not at all.
+            var rest = 1 - handover.Window(handover.Distance(q));
+            AddPoint(q, skip, point.Weight, t => handover.On[t] ? rest : 1);
+            foreach (var (node, nodeWeight) in handover.Nodes(point.Reduced))
             {
-                if (r > 0)
+                var window = handover.Window(handover.Distance(node));
+                if (window > 0)
                 {
-                    group.Solve(q, rotations[r], velocities);
-                }
-
-                for (var k = skip; k < n; k++)
-                {
-                    var v = new Vec3(velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]);
-                    sum.Add(Math.Sqrt(Math.Max(values[k], 0)), v, (double)point.Weight / directions);
+                    AddPoint(node, 0, point.Weight * nodeWeight, t => handover.On[t] ? window : 0, node: true);
                 }
             }
         }

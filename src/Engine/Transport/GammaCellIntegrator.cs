@@ -92,7 +92,7 @@ internal sealed class GammaCellIntegrator
         // kappa). The cell rotated by 120 degrees is as good a cover of the long waves and, for such a
         // model, gives the velocity R v with the same omega and |v|; averaging over the three puts
         // (v_x^2 + v_y^2) / 2 in each in-plane component. Only for models that have the 3-fold axis.
-        var symmetrise = _hexagonal && HasThreeFoldAxis(group, solver, velocities);
+        var symmetrise = SymmetrisesInPlane(group, solver);
         Vec3 Read(Vec3 v) => symmetrise ? InPlaneAverage(v) : v;
 
         foreach (var ray in _rays.Rays)
@@ -137,8 +137,16 @@ internal sealed class GammaCellIntegrator
 
         return stable;
     }
+    /// <summary>
+    /// Whether the cell's velocities are read as the average over 120-degree rotations: a hexagonal
+    /// lattice whose model has the 3-fold axis. The hand-over's nodes next to the cell read theirs alike
+    /// (<see cref="LongWaveHandover"/>), else kappa_xx and kappa_yy would each keep the rhombus's bias.
+    /// </summary>
+    public bool SymmetrisesInPlane(GroupVelocities group, ModeSolver solver) =>
+        _hexagonal && HasThreeFoldAxis(group, solver, new double[solver.Size * 3]);
+
     /// <summary>The in-plane components replaced by their root mean square: |v| and v_z kept.</summary>
-    private static Vec3 InPlaneAverage(Vec3 v)
+    public static Vec3 InPlaneAverage(Vec3 v)
     {
         var inPlane = Math.Sqrt(((v.X * v.X) + (v.Y * v.Y)) / 2);
         return new Vec3(inPlane, inPlane, v.Z);

@@ -57,33 +57,66 @@ internal sealed class KineticSum
         var meanSquare = (_dimension switch { 1 => vx2, 2 => vx2 + vy2, _ => v2 }) / _dimension;
         for (var t = 0; t < _temperaturesK.Length; t++)
         {
-            var c = ModeHeatCapacity.JPerK(omega, _temperaturesK[t]);
-            if (c == 0)
+            Accumulate(t, omega, speed, vx2, vy2, vz2, meanSquare, weight);
+        }
+    }
+
+    /// <summary>Adds one mode counted a different number of times at each temperature (0 leaves a temperature alone).</summary>
+    public void Add(double omega, Vec3 velocity, ReadOnlySpan<double> weightByTemperature)
+    {
+        if (!(omega > 0))
+        {
+            return;
+        }
+
+        var vx2 = velocity.X * velocity.X;
+        var vy2 = velocity.Y * velocity.Y;
+        var vz2 = velocity.Z * velocity.Z;
+        var v2 = vx2 + vy2 + vz2;
+        if (!(v2 > 0))
+        {
+            return; // a standing wave carries no heat
+        }
+
+        var speed = Math.Sqrt(v2);
+        var meanSquare = (_dimension switch { 1 => vx2, 2 => vx2 + vy2, _ => v2 }) / _dimension;
+        for (var t = 0; t < _temperaturesK.Length; t++)
+        {
+            if (weightByTemperature[t] != 0)
             {
-                continue;
+                Accumulate(t, omega, speed, vx2, vy2, vz2, meanSquare, weightByTemperature[t]);
+            }
+        }
+    }
+
+    private void Accumulate(int t, double omega, double speed, double vx2, double vy2, double vz2, double meanSquare, double weight)
+    {
+        var c = ModeHeatCapacity.JPerK(omega, _temperaturesK[t]);
+        if (c == 0)
+        {
+            return;
+        }
+
+        var total = _scattering.Fill(omega, speed, _temperaturesK[t], _rates);
+        if (!(total > 0))
+        {
+            _unbounded[t] = true;
+            return;
+        }
+
+        var ct = weight * c / total;
+        _kappa[t * 3] += ct * vx2;
+        _kappa[t * 3 + 1] += ct * vy2;
+        _kappa[t * 3 + 2] += ct * vz2;
+        if (t == _referenceIndex)
+        {
+            var contribution = ct * meanSquare;
+            for (var k = 0; k < _rates.Length; k++)
+            {
+                _channelWeighted[k] += contribution * _rates[k] / total;
             }
 
-            var total = _scattering.Fill(omega, speed, _temperaturesK[t], _rates);
-            if (!(total > 0))
-            {
-                _unbounded[t] = true;
-                continue;
-            }
-
-            var ct = weight * c / total;
-            _kappa[t * 3] += ct * vx2;
-            _kappa[t * 3 + 1] += ct * vy2;
-            _kappa[t * 3 + 2] += ct * vz2;
-            if (t == _referenceIndex)
-            {
-                var contribution = ct * meanSquare;
-                for (var k = 0; k < _rates.Length; k++)
-                {
-                    _channelWeighted[k] += contribution * _rates[k] / total;
-                }
-
-                MeanFreePaths?.Add(speed / total, contribution);
-            }
+            MeanFreePaths?.Add(speed / total, contribution);
         }
     }
 

@@ -1,0 +1,268 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Spectrum;
+using MathNet.Numerics.Integration;
+
+namespace LatticeSweep.Engine.Transport;
+
+/// <summary>
+/// A smooth hand-over between the q = 0 cell's integral and the mesh's one-point samples, for 1D and 2D
+/// bulk meshes at temperatures whose thermal wave numbers reach just past the q = 0 cell.
+/// <para>
+/// There the kinetic integrand f = C v_a^2 tau changes within a mesh cell, and one sample per cell next
+/// to an exactly integrated q = 0 cell misses it by percents to tens of percent (a flexural sheet's
+/// q^2 branch, a chain's cone; docs/outside-checks.md, round 11). Splitting f = f w + f (1 - w) with a
+/// radial window w (1 on the q = 0 cell, falling smoothly to 0 some mesh spacings out) fixes that:
+/// f w is integrated cell by cell (the q = 0 cell along its rays, the others with Gauss-Legendre nodes
+/// solved directly), and f (1 - w) vanishes around q = 0 and is smooth, which one point per cell sums
+/// to spectral accuracy (the trapezoid rule on a smooth function). Only the mesh points and nodes near
+/// q = 0 change; w is per temperature (on or off), so temperatures that do not need it keep their sums.
+/// </para>
+/// <para>
+/// The window falls as erfc over <see cref="WidthSpacings"/> mesh spacings: an own emulation (isotropic
+/// power-law branches, q and q^2, 1D and 2D, at every ratio of thermal wave number to spacing) left
+/// below 1e-5 with 8 spacings, 2.6e-4 with 6; a window whose derivatives grow faster (exp(-1/t) steps)
+/// left 1e-4 to 7e-4 with 6 (common practice, no source: an erfc edge has a Gaussian spectrum).
+/// </para>
+/// </summary>
+internal sealed class LongWaveHandover
+{
+    /// <summary>Width of the window's fall in mesh spacings (fewer where the zone is too small).</summary>
+    public const double WidthSpacings = 8;
+
+    /// <summary>
+    /// The narrowest window used: 6 spacings left 2.6e-4 in the emulation, 4 spacings 4.6e-3, and a
+    /// 2.5-spacing window on a chain's mesh 8 made its kappa 2.8 % worse than no window at 300 K.
+    /// </summary>
+    public const double MinimumWidthSpacings = 6;
+
+    /// <summary>
+    /// x = hbar omega / kB T of the slowest branch at the q = 0 cell's inner edge above which the cell
+    /// holds the heat carriers (the integrand outside it is below e^-30 of its peak).
+    /// </summary>
+    public const double CellHoldsX = 30;
+
+    /// <summary>
+    /// x of the fastest acoustic branch at one mesh spacing below which the mesh follows the integrand with one point
+    /// per cell (emulation: 1e-4 for a q^2 branch, 1e-5 for a cone).
+    /// </summary>
+    public const double MeshFollowsX = 0.1;
+
+    /// <summary>Cells whose centres lie within this many spacings of q = 0 get 3 x 3 pieces of nodes.</summary>
+    public const double FineCellsSpacings = 2.5;
+
+    private const int NodesPerDirection = 6;
+    private static readonly GaussLegendreRule CellRule = new(-0.5, 0.5, NodesPerDirection);
+
+    private readonly double _insideM;   // w = 1 up to here: the q = 0 cell's circumradius
+    private readonly double _outsideM;  // w = 0 from here
+    private readonly double _centreM;
+    private readonly double _sigmaM;
+    private readonly double _norm;
+    private readonly bool[] _on;
+    private readonly Lattice _lattice;
+    private readonly int[] _mesh;
+    private readonly double _spacingM;
+    private readonly Vec3[] _images;
+
+    private LongWaveHandover(Lattice lattice, int[] mesh, double spacingM, double insideM, double outsideM, bool[] on)
+    {
+        _spacingM = spacingM;
+        _images = Images(lattice);
+        _lattice = lattice;
+        _mesh = mesh;
+        _insideM = insideM;
+        _outsideM = outsideM;
+        _centreM = (insideM + outsideM) / 2;
+        _sigmaM = (outsideM - insideM) / 7;
+        _norm = 1 / SpecialErfc((insideM - _centreM) / _sigmaM);
+        _on = on;
+    }
+
+    /// <summary>Per temperature: whether the hand-over is used there.</summary>
+    public IReadOnlyList<bool> On => _on;
+
+    /// <summary>
+    /// The hand-over for this mesh, or null when no temperature needs it (3D, or every temperature's
+    /// heat carriers sit inside the q = 0 cell or span many mesh cells) or the mesh is too coarse to hold
+    /// a window.
+    /// </summary>
+    public static LongWaveHandover? Plan(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK)
+    {
+        var d = lattice.Dimension;
+        if (d == 3)
+        {
+            return null; // (2 x 8 + 1)^3 cells of nodes would cost more than the pass; 3D cones are not covered
+        }
+
+        var edges = new Vec3[d];
+        for (var i = 0; i < d; i++)
+        {
+            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
+        }
+
+        var (inradius, circumradius, spacing, zone) = Geometry(edges, lattice);
+        var outside = Math.Min(circumradius + (WidthSpacings * spacing), zone);
+        if (outside < circumradius + (MinimumWidthSpacings * spacing))
+        {
+            return null; // the zone holds no window wide enough (a mesh of a few points): the cell and the mesh stay as they were
+        }
+
+        // On where some branch's carriers leave the cell (the slowest's x at the cell's edge) and some
+        // branch's change within a cell (the fastest acoustic's x one spacing out).
+        var slowAtEdge = AcousticOmegas(solver, lattice, inradius).Slowest;
+        var fastAtSpacing = AcousticOmegas(solver, lattice, spacing).Fastest;
+        var on = new bool[temperaturesK.Length];
+        var any = false;
+        for (var t = 0; t < on.Length; t++)
+        {
+            var kT = Units.PhysicalConstants.BoltzmannJPerK * temperaturesK[t];
+            if (!(kT > 0))
+            {
+                continue;
+            }
+
+            var xEdge = Units.PhysicalConstants.HbarJS * slowAtEdge / kT;
+            var xSpacing = Units.PhysicalConstants.HbarJS * fastAtSpacing / kT;
+            on[t] = xEdge < CellHoldsX && xSpacing > MeshFollowsX;
+            any |= on[t];
+        }
+
+        return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on) : null;
+    }
+
+    /// <summary>w at a distance |q| from q = 0: 1 on the q = 0 cell, erfc-shaped down to 0.</summary>
+    public double Window(double qM)
+    {
+        if (qM <= _insideM)
+        {
+            return 1;
+        }
+
+        return qM >= _outsideM ? 0 : _norm * SpecialErfc((qM - _centreM) / _sigmaM);
+    }
+
+    /// <summary>Whether the mesh cell centred at q reaches into the window.</summary>
+    public bool Touches(Vec3 qPerM) => Distance(qPerM) < _outsideM + _insideM;
+
+    /// <summary>
+    /// |q| of the image of q nearest to q = 0 (q + G over the shortest reciprocal-lattice vectors): the
+    /// window is a function on the zone, and centred reduced coordinates need not give the nearest image
+    /// in a 60-degree zone.
+    /// </summary>
+    public double Distance(Vec3 qPerM)
+    {
+        var nearest = qPerM.Length;
+        foreach (var g in _images)
+        {
+            nearest = Math.Min(nearest, (qPerM + g).Length);
+        }
+
+        return nearest;
+    }
+
+    /// <summary>
+    /// Gauss-Legendre nodes of the mesh cell around <paramref name="reduced"/> (Cartesian q, weights summing
+    /// to 1): 6 per direction, on 3 x 3 pieces of the cells within <see cref="FineCellsSpacings"/> of q = 0,
+    /// where the integrand changes fastest (near the cell's edge at the lowest hand-over temperatures a
+    /// thermal wave number is a quarter of a spacing, and 6 nodes across a whole cell missed 8e-3 of kappa
+    /// of a flexural sheet).
+    /// </summary>
+    public IEnumerable<(Vec3 QPerM, double Weight)> Nodes(Vec3 reduced)
+    {
+        var a = CellRule.Abscissas;
+        var w = CellRule.Weights;
+        var d = _lattice.Dimension;
+        var pieces = Distance(_lattice.ToCartesianQ(reduced)) <= FineCellsSpacings * _spacingM ? 3 : 1;
+        var perDirection = a.Length * pieces;
+        for (var i = 0; i < perDirection; i++)
+        {
+            for (var j = 0; j < (d >= 2 ? perDirection : 1); j++)
+            {
+                var (xi, wi) = Piece(i);
+                var (xj, wj) = d >= 2 ? Piece(j) : (0, 1);
+                var offset = new Vec3(xi / _mesh[0], d >= 2 ? xj / _mesh[1] : 0, 0);
+                yield return (_lattice.ToCartesianQ(reduced + offset), wi * wj);
+            }
+        }
+
+        // Node k of the rule on piece k / 6 of [-1/2, 1/2] cut into equal pieces.
+        (double X, double W) Piece(int k)
+        {
+            var piece = k / a.Length;
+            var node = k % a.Length;
+            return ((-0.5 + ((piece + 0.5 + a[node]) / pieces)), w[node] / pieces);
+        }
+    }
+
+    /// <summary>
+    /// The q = 0 cell's inradius and circumradius, the longest cell edge (the spacing the window is
+    /// measured in) and how far the window may reach: short of half the shortest reciprocal-lattice
+    /// vector, so the window and its periodic images never overlap.
+    /// </summary>
+    private static (double Inradius, double Circumradius, double Spacing, double Zone) Geometry(Vec3[] edges, Lattice lattice)
+    {
+        var spacing = edges.Max(e => e.Length);
+        var zone = 0.475 * Images(lattice).Min(g => g.Length);
+        if (edges.Length == 1)
+        {
+            var h = edges[0].Length;
+            return (h / 2, h / 2, h, zone);
+        }
+
+        // A parallelogram: corners at (+-e1 +- e2) / 2; the distance to a side is the area over the other edge, halved.
+        var area = Math.Abs((edges[0].X * edges[1].Y) - (edges[0].Y * edges[1].X));
+        var inradius = Math.Min(area / edges[1].Length, area / edges[0].Length) / 2;
+        var circumradius = Math.Max((edges[0] + edges[1]).Length, (edges[0] - edges[1]).Length) / 2;
+        return (inradius, circumradius, spacing, zone);
+    }
+
+    /// <summary>The shortest reciprocal-lattice vectors and their negatives (1D: +-b1; 2D: +-b1, +-b2, +-(b1 + b2), +-(b1 - b2)).</summary>
+    private static Vec3[] Images(Lattice lattice)
+    {
+        var b1 = lattice.ReciprocalVector(0);
+        if (lattice.Dimension == 1)
+        {
+            return [b1, -b1];
+        }
+
+        var b2 = lattice.ReciprocalVector(1);
+        return [b1, -b1, b2, -b2, b1 + b2, -(b1 + b2), b1 - b2, -(b1 - b2)];
+    }
+
+    /// <summary>
+    /// The slowest moving and the fastest acoustic branch's angular frequencies at distance
+    /// <paramref name="qM"/>, over the mesh axes and diagonals (rad/s).
+    /// </summary>
+    private static (double Slowest, double Fastest) AcousticOmegas(ModeSolver solver, Lattice lattice, double qM)
+    {
+        Vec3[] directions = lattice.Dimension == 1
+            ? [lattice.ReciprocalVector(0)]
+            : [lattice.ReciprocalVector(0), lattice.ReciprocalVector(1), lattice.ReciprocalVector(0) + lattice.ReciprocalVector(1), lattice.ReciprocalVector(0) - lattice.ReciprocalVector(1)];
+        var acoustic = solver.Matrix.Crystal.Components;
+        var lowest = double.PositiveInfinity;
+        var highest = 0.0;
+        foreach (var b in directions)
+        {
+            solver.SolveValues(qM * b.Unit());
+            var values = solver.Values;
+            highest = Math.Max(highest, Math.Sqrt(Math.Max(values[acoustic - 1], 0)));
+
+            // The lowest branch that moves at all: a branch with no restoring force (omega = 0 everywhere)
+            // carries no heat and says nothing about where the carriers are.
+            var floor = 1e-13 * Math.Abs(values[^1]);
+            foreach (var lambda in values)
+            {
+                if (lambda > floor)
+                {
+                    lowest = Math.Min(lowest, Math.Sqrt(lambda));
+                    break;
+                }
+            }
+        }
+
+        return (lowest, highest);
+    }
+
+    private static double SpecialErfc(double x) => MathNet.Numerics.SpecialFunctions.Erfc(x);
+}
