@@ -84,7 +84,7 @@ internal sealed class LongWaveRegion
     /// <summary>omega_c (rad/s): below it the thermal sums take the rays' smooth density directly.</summary>
     public double OmegaSplit { get; }
 
-    /// <summary>Number of eigen-solves <see cref="TryBuild"/> makes for a lattice of this dimension.</summary>
+    /// <summary>Number of eigen-solves <see cref="Build"/> makes for a lattice of this dimension (one region; a sheet may take two, <see cref="LongWaveRegions"/>).</summary>
     public static int SolveCount(int dimension) =>
         dimension * (int)Math.Pow(CentredCellRays.FaceNodes(dimension), dimension - 1) * (RayDispersion.NodeY.Length + 1);
 
