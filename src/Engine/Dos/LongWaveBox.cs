@@ -6,6 +6,11 @@ namespace LatticeSweep.Engine.Dos;
 /// offsets n_i in [-K_i, K_i - 1] from q = 0 along each mesh direction, n_i = i_i - floor(M_i / 2).
 /// Unused directions of a 1D or 2D lattice take every cell. The box is inversion-symmetric, so a
 /// cell and its image under q -> -q are both in or both out.
+/// <para>
+/// On a sheet the acoustic branches may have boxes of their own (<see cref="BranchHalfWidths"/>): they
+/// nest, branch 0's the widest, so a cell leaves to the rays the branches whose box holds it, the lowest
+/// ones first. (K1, K2, K3) is then branch 0's box.
+/// </para>
 /// </summary>
 internal readonly record struct LongWaveBox(int K1, int K2, int K3, int Branches)
 {
@@ -13,9 +18,29 @@ internal readonly record struct LongWaveBox(int K1, int K2, int K3, int Branches
     public bool ContainsCell(int i1, int i2, int i3, int m1, int m2, int m3) =>
         Inside(i1, m1, K1) && Inside(i2, m2, K2) && Inside(i3, m3, K3);
 
-    /// <summary>The first branch the simplices integrate in cell (i1, i2, i3): past the acoustic ones inside the box.</summary>
-    public int FirstSimplexBranch(int i1, int i2, int i3, int m1, int m2, int m3) =>
-        ContainsCell(i1, i2, i3, m1, m2, m3) ? Branches : 0;
+    /// <summary>Per acoustic branch its half-widths [K1, K2, K3] when they differ between branches; null when all share (K1, K2, K3).</summary>
+    public IReadOnlyList<int[]>? BranchHalfWidths { get; init; }
+
+    /// <summary>The first branch the simplices integrate in cell (i1, i2, i3): past the acoustic ones whose box holds it.</summary>
+    public int FirstSimplexBranch(int i1, int i2, int i3, int m1, int m2, int m3)
+    {
+        if (BranchHalfWidths is not { } widths)
+        {
+            return ContainsCell(i1, i2, i3, m1, m2, m3) ? Branches : 0;
+        }
+
+        // Nested boxes: the first branch whose box misses the cell, and every one above it, go to the simplices.
+        for (var k = 0; k < Branches; k++)
+        {
+            var w = widths[k];
+            if (!(Inside(i1, m1, w[0]) && Inside(i2, m2, w[1]) && Inside(i3, m3, w[2])))
+            {
+                return k;
+            }
+        }
+
+        return Branches;
+    }
 
     private static bool Inside(int i, int m, int k)
     {

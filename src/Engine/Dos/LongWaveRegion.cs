@@ -56,13 +56,17 @@ internal sealed class LongWaveRegion
     private readonly double[] _rhoSplit;  // [r * acoustic + k]: rho where omega_k = omega_c
     private readonly bool[] _monotonic;   // [r * acoustic + k]: omega_k rises all along the ray
     private readonly int _dimension;
-    private readonly int _acoustic;
+    private readonly int _acoustic;       // stride of the [r * acoustic + k] arrays: every acoustic branch
+    private readonly int _from;           // the acoustic branches this region integrates: [_from, _to)
+    private readonly int _to;
     private readonly int _channels;
     private readonly bool _fractions;
 
-    private LongWaveRegion(LongWaveBox box, CentredCellRays geometry, RayDispersion[] rays, double[] weights, double omegaSplit, double[] rhoSplit, bool[] monotonic, int dimension, int channels, bool fractions)
+    private LongWaveRegion(LongWaveBox box, int from, int to, CentredCellRays geometry, RayDispersion[] rays, double[] weights, double omegaSplit, double[] rhoSplit, bool[] monotonic, int dimension, int channels, bool fractions)
     {
         Box = box;
+        _from = from;
+        _to = to;
         _geometry = geometry;
         _rays = rays;
         _weights = weights;
@@ -80,27 +84,21 @@ internal sealed class LongWaveRegion
     /// <summary>omega_c (rad/s): below it the thermal sums take the rays' smooth density directly.</summary>
     public double OmegaSplit { get; }
 
-    /// <summary>Number of eigen-solves <see cref="TryBuild"/> makes for a lattice of this dimension.</summary>
+    /// <summary>Number of eigen-solves <see cref="Build"/> makes for a lattice of this dimension (one region; a sheet may take two, <see cref="LongWaveRegions"/>).</summary>
     public static int SolveCount(int dimension) =>
         dimension * (int)Math.Pow(CentredCellRays.FaceNodes(dimension), dimension - 1) * (RayDispersion.NodeY.Length + 1);
 
     /// <summary>
-    /// The region for a mesh, or null when it cannot be used: a direction with a single mesh point, or
-    /// long waves that are not all stable with a positive slope (then the simplices cover everything,
-    /// as for an unstable or floppy model, whose thermal numbers are not trusted anyway).
+    /// The region of acoustic branches [<paramref name="from"/>, <paramref name="to"/>) in a box of
+    /// half-widths <paramref name="half"/> (cells), or null when its long waves are not all stable with a
+    /// positive slope (then the simplices cover everything, as for an unstable or floppy model, whose
+    /// thermal numbers are not trusted anyway). <see cref="LongWaveRegions"/> chooses the boxes.
     /// </summary>
-    /// <param name="frequencyThz">The mesh's frequencies, [point * branches + branch], for the box size.</param>
-    public static LongWaveRegion? TryBuild(ModeSolver solver, BulkSample mesh, double[] frequencyThz, bool fractions)
+    internal static LongWaveRegion? Build(ModeSolver solver, BulkSample mesh, int[] half, int from, int to, bool fractions)
     {
         var crystal = solver.Matrix.Crystal;
         var lattice = crystal.Lattice;
         var d = lattice.Dimension;
-        var half = HalfWidths(mesh, d, crystal.Components, crystal.Size, frequencyThz);
-        if (half is null)
-        {
-            return null;
-        }
-
         var edges = new Vec3[d];
         var share = 1.0;
         for (var i = 0; i < d; i++)
@@ -124,13 +122,13 @@ internal sealed class LongWaveRegion
             weights[r] = cellRays.Rays[r].Weight * share;
         }
 
-        // omega_c: the lowest frequency any ray-branch reaches while still rising from q = 0.
+        // omega_c: the lowest frequency any of the region's ray-branches reaches while still rising from q = 0.
         var rhoPeak = new double[rays.Length * acoustic];
         var monotonic = new bool[rays.Length * acoustic];
         var omegaSplit = double.PositiveInfinity;
         for (var r = 0; r < rays.Length; r++)
         {
-            for (var k = 0; k < acoustic; k++)
+            for (var k = from; k < to; k++)
             {
                 var peak = 1.0;
                 for (var i = 1; i <= MonotonicSamples; i++)
@@ -151,14 +149,14 @@ internal sealed class LongWaveRegion
         var rhoSplit = new double[rays.Length * acoustic];
         for (var r = 0; r < rays.Length; r++)
         {
-            for (var k = 0; k < acoustic; k++)
+            for (var k = from; k < to; k++)
             {
                 var peak = rhoPeak[(r * acoustic) + k];
                 rhoSplit[(r * acoustic) + k] = omegaSplit <= 0 || peak == 0 ? 0 : rays[r].RhoOf(k, omegaSplit, peak);
             }
         }
 
-        return new LongWaveRegion(new LongWaveBox(half[0], half[1], half[2], acoustic), cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions);
+        return new LongWaveRegion(new LongWaveBox(half[0], half[1], half[2], acoustic), from, to, cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions);
     }
 
     /// <summary>
@@ -166,12 +164,18 @@ internal sealed class LongWaveRegion
     /// vector each way) but at least four cells, and never beyond a quarter (M_i / 4, at least one):
     /// the simplices just outside the box lift the cone's states by about (1/4) / K^2 of their
     /// frequency (linear interpolation of a convex function), so a wider box in cells leaves less of
-    /// that, while longer rays are harder for the polynomial to follow. Halved while an acoustic frequency at a mesh point inside
-    /// the box reaches the lowest optical frequency of the mesh, so the lowest sorted branches in the
-    /// box are the acoustic ones (no crossing for the rays to follow). Unused directions take every
+    /// that, while longer rays are harder for the polynomial to follow. Unused directions take every
     /// cell. Null for a direction with one mesh point.
+    /// <para>
+    /// Then, per acoustic branch k, the number of halvings h_k (K_i -> max(1, K_i >> h)) until branch k
+    /// stays below the lowest optical frequency of the mesh at every mesh point of its box, so the rays
+    /// never follow a sorted branch through a crossing with an optical one. Sorted branches lie below
+    /// one another, so h_k never falls with k and the boxes nest. On a sheet this lets the flexural
+    /// branch keep a wide box where the in-plane cones meet a low optical branch near the box's
+    /// corners. In 1D and 3D every branch takes the last branch's count (the shared box, unchanged).
+    /// </para>
     /// </summary>
-    private static int[]? HalfWidths(BulkSample mesh, int d, int acoustic, int branches, double[] frequencyThz)
+    internal static (int[] Half, int[] Halvings)? HalfWidths(BulkSample mesh, int d, int acoustic, int branches, double[] frequencyThz)
     {
         var half = new int[3];
         for (var i = 0; i < 3; i++)
@@ -183,9 +187,10 @@ internal sealed class LongWaveRegion
             }
         }
 
+        var halvings = new int[acoustic];
         if (acoustic >= branches)
         {
-            return half;
+            return (half, halvings);
         }
 
         var lowestOptical = double.PositiveInfinity;
@@ -194,11 +199,14 @@ internal sealed class LongWaveRegion
             lowestOptical = Math.Min(lowestOptical, frequencyThz[(p * branches) + acoustic]);
         }
 
-        while (true)
+        var settled = new bool[acoustic];
+        var tops = new double[acoustic];
+        var box = (int[])half.Clone();
+        for (var h = 0; ; h++)
         {
-            var top = 0.0;
-            int Lo(int i) => i < d ? (mesh[i] / 2) - half[i] : 0;
-            int Hi(int i) => i < d ? (mesh[i] / 2) + half[i] : 0;
+            Array.Clear(tops);
+            int Lo(int i) => i < d ? (mesh[i] / 2) - box[i] : 0;
+            int Hi(int i) => i < d ? (mesh[i] / 2) + box[i] : 0;
             for (var i1 = Lo(0); i1 <= Hi(0); i1++)
             {
                 for (var i2 = Lo(1); i2 <= Hi(1); i2++)
@@ -206,7 +214,10 @@ internal sealed class LongWaveRegion
                     for (var i3 = Lo(2); i3 <= Hi(2); i3++)
                     {
                         var p = (((long)Wrap(i1, mesh.M1) * mesh.M2) + Wrap(i2, mesh.M2)) * mesh.M3 + Wrap(i3, mesh.M3);
-                        top = Math.Max(top, frequencyThz[(p * branches) + acoustic - 1]);
+                        for (var k = 0; k < acoustic; k++)
+                        {
+                            tops[k] = Math.Max(tops[k], frequencyThz[(p * branches) + k]);
+                        }
                     }
                 }
             }
@@ -214,19 +225,53 @@ internal sealed class LongWaveRegion
             var all1 = true;
             for (var i = 0; i < d; i++)
             {
-                all1 &= half[i] == 1;
+                all1 &= box[i] == 1;
             }
 
-            if (top < lowestOptical || all1)
+            var done = true;
+            for (var k = 0; k < acoustic; k++)
             {
-                return half;
+                if (!settled[k] && (tops[k] < lowestOptical || all1))
+                {
+                    settled[k] = true;
+                    halvings[k] = h;
+                }
+
+                done &= settled[k];
+            }
+
+            if (done)
+            {
+                break;
             }
 
             for (var i = 0; i < d; i++)
             {
-                half[i] = Math.Max(1, half[i] / 2);
+                box[i] = Math.Max(1, box[i] / 2);
             }
         }
+
+        if (d != 2)
+        {
+            Array.Fill(halvings, halvings[acoustic - 1]);
+        }
+
+        return (half, halvings);
+    }
+
+    /// <summary>Half-widths after <paramref name="halvings"/> integer halvings (never below one cell).</summary>
+    internal static int[] Halved(int[] half, int d, int halvings)
+    {
+        var result = (int[])half.Clone();
+        for (var h = 0; h < halvings; h++)
+        {
+            for (var i = 0; i < d; i++)
+            {
+                result[i] = Math.Max(1, result[i] / 2);
+            }
+        }
+
+        return result;
     }
 
     private static int Wrap(int i, int m) => ((i % m) + m) % m;
@@ -316,7 +361,7 @@ internal sealed class LongWaveRegion
         for (var r = 0; r < _rays.Length; r++)
         {
             var ray = _rays[r];
-            for (var k = 0; k < _acoustic; k++)
+            for (var k = _from; k < _to; k++)
             {
                 if (ray.IsQuadratic(k))
                 {
@@ -375,7 +420,7 @@ internal sealed class LongWaveRegion
         for (var r = 0; r < _rays.Length; r++)
         {
             var ray = _rays[r];
-            for (var k = 0; k < _acoustic; k++)
+            for (var k = _from; k < _to; k++)
             {
                 var rhoC = _rhoSplit[(r * _acoustic) + k];
                 var quadratic = ray.IsQuadratic(k);
@@ -477,7 +522,7 @@ internal sealed class LongWaveRegion
         for (var r = 0; r < _rays.Length; r++)
         {
             var ray = _rays[r];
-            for (var k = 0; k < _acoustic; k++)
+            for (var k = _from; k < _to; k++)
             {
                 var split = _rhoSplit[(r * _acoustic) + k];
                 var (from, to) = above ? (split, 1.0) : (0.0, split);

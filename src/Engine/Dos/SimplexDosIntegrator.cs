@@ -93,8 +93,9 @@ internal static class SimplexDosIntegrator
 
                     var simplices = dimension switch { 1 => [[0, 1]], 2 => Triangles, _ => Tetrahedra };
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
-                    var curved = firstBranch == 0 ? curvedBranches : 0;
-                    for (var b = 0; b < curved; b++)
+                    // Branches the simplices take here that are acoustic: lowered (a sheet's branches may have boxes of their own).
+                    var curved = curvedBranches;
+                    for (var b = firstBranch; b < curved; b++)
                     {
                         TriangleCurvature.SquareShifts(frequencyThz, branches, b, m1, m2, i1, i2, corners.AsSpan(0, 4), branchTops[b], shifts.AsSpan(2 * b, 2));
                     }

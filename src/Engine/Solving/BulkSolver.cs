@@ -166,7 +166,7 @@ internal static class BulkSolver
         // broadening, nor for unstable or floppy models: their thermal numbers are not trusted anyway).
         var longWaves = gaussian || unstable || zeroModes > rigid
             ? null
-            : LongWaveRegion.TryBuild(solver, sample, frequencies, wantWeights);
+            : LongWaveRegions.TryBuild(solver, sample, frequencies, wantWeights);
         ct.ThrowIfCancellationRequested();
 
         // Gaussian tails reach 6 sigma past the spectrum; the grid takes them in so no state is lost.

@@ -47,7 +47,9 @@ public static partial class PhononSolver
     /// <summary>
     /// Eigen-solves a bulk point makes beside its mesh for the acoustic branches near q = 0 (the
     /// model's own long waves along rays; none with Gaussian broadening): a fixed number per point,
-    /// which for a large basis on a coarse mesh is most of the work.
+    /// which for a large basis on a coarse mesh is most of the work. A sheet whose flexural branch keeps
+    /// a box of its own makes twice as many (Dos/LongWaveRegions; known only after the mesh solve, so
+    /// not counted here: 2 % of a 12 x 12 sheet point's time, bench/README.md, Round 11 (branch-box)).
     /// </summary>
     public static int LongWaveSolves(CrystalModel model, BulkSample sample, SolveOptions options)
     {

@@ -28,7 +28,7 @@ public class SheetMidTemperatureTests
 
     // Where the bias was (kT / hbar past the box's frequencies) up to near the classical limit
     // (hbar omega_max / kB is about 530 K for these springs).
-    private static readonly double[] Temperatures = [5, 10, 20, 40, 80, 150, 300];
+    internal static readonly double[] Temperatures = [5, 10, 20, 40, 80, 150, 300];
 
     /// <summary>Square sheet: central springs to the nearest and next-nearest sites; with bendK, flexural bends on the nearest straight pairs.</summary>
     private static CrystalModel Sheet(double? bendNPerM) =>
@@ -51,7 +51,7 @@ public class SheetMidTemperatureTests
     /// + sin^4(qy a / 2)] (the flexural bend's plate branch, as in FlexuralSheetLowTemperatureTests).
     /// Converged: 400^2 and 4000^2 sums agree within 1e-9 from 5 K (NumPy, measured for this check).
     /// </summary>
-    private static double[] Reference(double? bendNPerM)
+    internal static double[] Reference(double? bendNPerM)
     {
         const int m = 400;
         var mass = MassAmu * PhysicalConstants.AtomicMassKg;

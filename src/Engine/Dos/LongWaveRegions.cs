@@ -1,0 +1,151 @@
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+
+namespace LatticeSweep.Engine.Dos;
+
+/// <summary>
+/// The long waves of a mesh as one <see cref="LongWaveRegion"/> per box width: usually one box for
+/// every acoustic branch; on a sheet whose in-plane cones meet a low optical branch inside the box
+/// while the flexural branch stays far below it, the flexural branch keeps a wider box
+/// (<see cref="LongWaveRegion.HalfWidths"/>, <see cref="WideBranches"/>).
+/// <para>
+/// Why: a box cut to one cell for all three branches left the flexural branch, which carries the heat
+/// capacity at a few kelvin, to linear triangles from the second shell on, where kT / hbar falls among
+/// the first shells on 8 x 8 and 12 x 12 meshes. Each region integrates its own branches; the thermal
+/// sums and the DOS add up over regions, and the simplices skip a branch in the cells of its box.
+/// </para>
+/// </summary>
+internal sealed class LongWaveRegions
+{
+    private readonly LongWaveRegion[] _parts;
+
+    private LongWaveRegions(LongWaveBox box, LongWaveRegion[] parts)
+    {
+        Box = box;
+        _parts = parts;
+    }
+
+    /// <summary>The cells and branches the simplices leave to the rays.</summary>
+    public LongWaveBox Box { get; }
+
+    /// <summary>Number of regions (box widths) built; each costs <see cref="LongWaveRegion.SolveCount"/> eigen-solves.</summary>
+    public int Count => _parts.Length;
+
+    /// <summary>
+    /// The regions for a mesh, or null when they cannot be used: a direction with a single mesh point, or
+    /// long waves that are not all stable with a positive slope in some box (then the simplices cover
+    /// everything, as for an unstable or floppy model, whose thermal numbers are not trusted anyway).
+    /// </summary>
+    /// <param name="frequencyThz">The mesh's frequencies, [point * branches + branch], for the box sizes.</param>
+    public static LongWaveRegions? TryBuild(ModeSolver solver, BulkSample mesh, double[] frequencyThz, bool fractions)
+    {
+        var crystal = solver.Matrix.Crystal;
+        var d = crystal.Lattice.Dimension;
+        var acoustic = crystal.Components;
+        if (LongWaveRegion.HalfWidths(mesh, d, acoustic, crystal.Size, frequencyThz) is not var (half, halvings))
+        {
+            return null;
+        }
+
+        // Groups of branches sharing a box: [0, wide) and [wide, acoustic).
+        var wide = WideBranches(solver, halvings);
+        var parts = new List<LongWaveRegion>();
+        var widths = new int[acoustic][];
+        foreach (var (from, to) in wide == 0 ? [(0, acoustic)] : new[] { (0, wide), (wide, acoustic) })
+        {
+            var box = LongWaveRegion.Halved(half, d, halvings[to - 1]);
+            var part = LongWaveRegion.Build(solver, mesh, box, from, to, fractions);
+            if (part is null)
+            {
+                return null;
+            }
+
+            parts.Add(part);
+            for (var k = from; k < to; k++)
+            {
+                widths[k] = box;
+            }
+        }
+
+        var outer = parts[0].Box;
+        var combined = parts.Count == 1 ? outer : outer with { BranchHalfWidths = widths };
+        return new LongWaveRegions(combined, [.. parts]);
+    }
+
+    /// <summary>
+    /// How many of the lowest acoustic branches take a box wider than the rest: the leading branches
+    /// whose own box (<paramref name="halvings"/>) is wider than the last acoustic branch's and that
+    /// grow as q^2 from q = 0 along every reciprocal vector (a sheet's flexural branch). Zero when
+    /// all share one box.
+    /// <para>
+    /// Why only q^2 branches: linear triangles miss a q^2 branch's states in every shell near q = 0
+    /// (its curvature does not fall with the distance from q = 0 as a cone's does), so the flexural
+    /// branch gains most from rays. A cone gains little past the first cell once its triangles are
+    /// lowered by their mean error (<see cref="TriangleCurvature"/>), and rays that follow an in-plane
+    /// cone out to a quarter of the zone lost accuracy on the audit's honeycomb sheet (Cv at 80-150 K
+    /// on 16 x 16 went from 2e-4 to 6e-4 off; docs/outside-checks.md, "Round 11 (branch-box)").
+    /// </para>
+    /// </summary>
+    private static int WideBranches(ModeSolver solver, int[] halvings)
+    {
+        var acoustic = halvings.Length;
+        var wider = 0;
+        while (wider < acoustic && halvings[wider] < halvings[acoustic - 1])
+        {
+            wider++;
+        }
+
+        if (wider == 0)
+        {
+            return 0;
+        }
+
+        // The same probe as the rays' long-wave nodes: eigenvalues at e and 2e, a q^2 branch's grow 16-fold.
+        var lattice = solver.Matrix.Crystal.Lattice;
+        var probe = 1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice);
+        var quadratic = wider;
+        for (var i = 0; i < lattice.Dimension; i++)
+        {
+            var u = lattice.ReciprocalVector(i).Unit();
+            solver.SolveValues(probe * u);
+            var near = solver.Values.AsSpan(0, acoustic).ToArray();
+            solver.SolveValues(2 * probe * u);
+            var k = 0;
+            while (k < quadratic && LongWaveSlope.IsQuadratic(near[k], solver.Values[k]))
+            {
+                k++;
+            }
+
+            quadratic = k;
+        }
+
+        return quadratic;
+    }
+
+    /// <inheritdoc cref="LongWaveRegion.DepositAboveSplit"/>
+    public void DepositAboveSplit(FrequencyGrid grid, double[] total, double[] partial, bool spreadEnds, BinMoments? moments = null)
+    {
+        foreach (var part in _parts)
+        {
+            part.DepositAboveSplit(grid, total, partial, spreadEnds, moments);
+        }
+    }
+
+    /// <inheritdoc cref="LongWaveRegion.DepositBelowSplit"/>
+    public void DepositBelowSplit(FrequencyGrid grid, double[] total, double[] partial)
+    {
+        foreach (var part in _parts)
+        {
+            part.DepositBelowSplit(grid, total, partial);
+        }
+    }
+
+    /// <inheritdoc cref="LongWaveRegion.AddBelowSplit"/>
+    public void AddBelowSplit(ModeSink sink, ReadOnlySpan<double> temperaturesK)
+    {
+        foreach (var part in _parts)
+        {
+            part.AddBelowSplit(sink, temperaturesK);
+        }
+    }
+}
