@@ -39,30 +39,17 @@ internal sealed class KineticSum
     /// <summary>Adds one mode of angular frequency omega (rad/s) and group velocity v (m/s) counted weight times.</summary>
     public void Add(double omega, Vec3 velocity, double weight)
     {
-        if (!(omega > 0) || weight == 0)
+        if (weight != 0)
         {
-            return;
-        }
-
-        var vx2 = velocity.X * velocity.X;
-        var vy2 = velocity.Y * velocity.Y;
-        var vz2 = velocity.Z * velocity.Z;
-        var v2 = vx2 + vy2 + vz2;
-        if (!(v2 > 0))
-        {
-            return; // a standing wave carries no heat
-        }
-
-        var speed = Math.Sqrt(v2);
-        var meanSquare = (_dimension switch { 1 => vx2, 2 => vx2 + vy2, _ => v2 }) / _dimension;
-        for (var t = 0; t < _temperaturesK.Length; t++)
-        {
-            Accumulate(t, omega, speed, vx2, vy2, vz2, meanSquare, weight);
+            AddMode(omega, velocity, weight, []);
         }
     }
 
     /// <summary>Adds one mode counted a different number of times at each temperature (0 leaves a temperature alone).</summary>
-    public void Add(double omega, Vec3 velocity, ReadOnlySpan<double> weightByTemperature)
+    public void Add(double omega, Vec3 velocity, ReadOnlySpan<double> weightByTemperature) => AddMode(omega, velocity, 0, weightByTemperature);
+
+    /// <summary>One mode, counted <paramref name="weight"/> times at every temperature, or per temperature when <paramref name="weightByTemperature"/> is given.</summary>
+    private void AddMode(double omega, Vec3 velocity, double weight, ReadOnlySpan<double> weightByTemperature)
     {
         if (!(omega > 0))
         {
@@ -82,9 +69,10 @@ internal sealed class KineticSum
         var meanSquare = (_dimension switch { 1 => vx2, 2 => vx2 + vy2, _ => v2 }) / _dimension;
         for (var t = 0; t < _temperaturesK.Length; t++)
         {
-            if (weightByTemperature[t] != 0)
+            var w = weightByTemperature.IsEmpty ? weight : weightByTemperature[t];
+            if (w != 0)
             {
-                Accumulate(t, omega, speed, vx2, vy2, vz2, meanSquare, weightByTemperature[t]);
+                Accumulate(t, omega, speed, vx2, vy2, vz2, meanSquare, w);
             }
         }
     }
