@@ -6,15 +6,16 @@ using MathNet.Numerics.Integration;
 namespace LatticeSweep.Engine.Transport;
 
 /// <summary>
-/// A smooth hand-over between the q = 0 cell's integral and the mesh's one-point samples, for 1D and 2D
-/// bulk meshes at temperatures whose thermal wave numbers reach just past the q = 0 cell.
+/// A smooth hand-over between the q = 0 cell's integral and the mesh's one-point samples, for bulk
+/// meshes at temperatures whose thermal wave numbers reach just past the q = 0 cell.
 /// <para>
 /// There the kinetic integrand f = C v_a^2 tau changes within a mesh cell, and one sample per cell next
 /// to an exactly integrated q = 0 cell misses it by percents to tens of percent (a flexural sheet's
 /// q^2 branch, a chain's cone; docs/outside-checks.md, round 11). Splitting f = f w + f (1 - w) with a
 /// radial window w (1 on the q = 0 cell, falling smoothly to 0 some mesh spacings out) fixes that:
-/// f w is integrated cell by cell (the q = 0 cell along its rays, the others with Gauss-Legendre nodes
-/// solved directly), and f (1 - w) vanishes around q = 0 and is smooth, which one point per cell sums
+/// f w is integrated cell by cell in 1D and 2D (the q = 0 cell along its rays, the others with
+/// Gauss-Legendre nodes solved directly) and in 3D along rays through the window
+/// (<see cref="HandoverRays"/>; there the window reaches as far as the zone allows), and f (1 - w) vanishes around q = 0 and is smooth, which one point per cell sums
 /// to spectral accuracy (the trapezoid rule on a smooth function). Only the mesh points and nodes near
 /// q = 0 change; w is per temperature (on or off), so temperatures that do not need it keep their sums.
 /// </para>
@@ -27,7 +28,7 @@ namespace LatticeSweep.Engine.Transport;
 /// </summary>
 internal sealed class LongWaveHandover
 {
-    /// <summary>Width of the window's fall in mesh spacings (fewer where the zone is too small).</summary>
+    /// <summary>Width of the window's fall in mesh spacings in 1D and 2D (fewer where the zone is too small; 3D: as wide as the zone allows).</summary>
     public const double WidthSpacings = 8;
 
     /// <summary>
@@ -193,7 +194,7 @@ internal sealed class LongWaveHandover
     }
 
     /// <summary>
-    /// Gauss-Legendre nodes of the mesh cell around <paramref name="reduced"/> (Cartesian q, weights summing
+    /// 1D and 2D: Gauss-Legendre nodes of the mesh cell around <paramref name="reduced"/> (Cartesian q, weights summing
     /// to 1): 6 per direction, on 3 x 3 pieces of the cells within <see cref="FineCellsSpacings"/> of q = 0,
     /// where the integrand changes fastest (near the cell's edge at the lowest hand-over temperatures a
     /// thermal wave number is a quarter of a spacing, and 6 nodes across a whole cell missed 8e-3 of kappa
