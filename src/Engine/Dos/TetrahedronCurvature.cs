@@ -39,7 +39,7 @@ internal static class TetrahedronCurvature
     /// </summary>
     /// <param name="corners">The cube's eight mesh points (x + 2y + 4z).</param>
     /// <param name="branchTopThz">The branch's highest value on the mesh.</param>
-    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchTopThz, Span<double> shift)
+    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchBottomThz, double branchTopThz, Span<double> shift)
     {
         Span<double> h = stackalloc double[6];
         Span<double> other = stackalloc double[6];
@@ -63,7 +63,7 @@ internal static class TetrahedronCurvature
                 high = Math.Max(high, f);
             }
 
-            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low, 0));
+            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low - branchBottomThz, 0));
         }
     }
 

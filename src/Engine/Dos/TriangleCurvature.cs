@@ -33,7 +33,7 @@ internal static class TriangleCurvature
     /// </summary>
     /// <param name="corners">The square's four mesh points (x + 2y).</param>
     /// <remarks>Meant for squares outside the long-wave box, whose diagonal has at least one end away from q = 0.</remarks>
-    public static void SquareShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int i1, int i2, ReadOnlySpan<int> corners, double branchTopThz, Span<double> shift)
+    public static void SquareShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int i1, int i2, ReadOnlySpan<int> corners, bool acoustic, double branchBottomThz, double branchTopThz, Span<double> shift)
     {
         Span<double> h = stackalloc double[3];
         Span<double> other = stackalloc double[3];
@@ -42,8 +42,8 @@ internal static class TriangleCurvature
         // An end whose stencil touches q = 0 (a box one cell wide) would difference across the cone's
         // apex: the other end alone then. Inversion swaps the two ends of the image square's diagonal,
         // so the choice keeps a square and its image alike.
-        var first = !NearGamma(i1, m1) || !NearGamma(i2, m2);
-        var second = !NearGamma(j1, m1) || !NearGamma(j2, m2);
+        var first = !acoustic || !NearGamma(i1, m1) || !NearGamma(i2, m2);
+        var second = !acoustic || !NearGamma(j1, m1) || !NearGamma(j2, m2);
         h.Clear();
         if (first)
         {
@@ -76,7 +76,7 @@ internal static class TriangleCurvature
                 high = Math.Max(high, f);
             }
 
-            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low, 0));
+            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low - branchBottomThz, 0));
         }
     }
 
