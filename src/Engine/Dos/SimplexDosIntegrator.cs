@@ -46,7 +46,7 @@ internal static class SimplexDosIntegrator
         var order = new int[4];
         var meanWeight = new double[Math.Max(channels, 1)];
 
-        // 2D: the acoustic branches' triangles outside the long-wave box lowered by their mean
+        // 2D: every branch's triangles the simplices take (the acoustic ones outside their long-wave box) lowered by their mean
         // interpolation error (TriangleCurvature); only where the box takes the cones' apex (the
         // difference stencil would cross q = 0 otherwise).
         var acousticBranches = longWaves is { } box ? Math.Min(box.Branches, branches) : 0;
@@ -100,7 +100,7 @@ internal static class SimplexDosIntegrator
 
                     var simplices = dimension switch { 1 => [[0, 1]], 2 => Triangles, _ => Tetrahedra };
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
-                    // Branches the simplices take here that are acoustic: lowered (a sheet's branches may have boxes of their own).
+                    // Branches the simplices take here: lowered (a sheet's acoustic branches may have boxes of their own).
                     var curved = curvedBranches;
                     for (var b = firstBranch; b < curved; b++)
                     {
@@ -177,9 +177,10 @@ internal static class SimplexDosIntegrator
 
         // With channel weights and permutations: the mesh points at the corners of one cube per class
         // {g C, -g C} of the orbit (8 per class), and the number of distinct cubes in each class.
-        // Curvature shifts (TetrahedronCurvature) of the acoustic branches' six tetrahedra, [6 * branch + t];
-        // only where the long-wave box takes the cone's first shells (the shift's difference stencil
-        // would cross q = 0 otherwise).
+        // Curvature shifts (TetrahedronCurvature) of every branch's six tetrahedra, [6 * branch + t] (optical
+        // branches too: a low optical branch's h^2 error is as large as a cone's); only where the
+        // long-wave box takes the cones' first shells (an acoustic shift's difference stencil would
+        // cross q = 0 otherwise).
         var acousticBranches = longWaves is { } box ? Math.Min(box.Branches, branches) : 0;
         var curvedBranches = longWaves is not null && m1 >= 3 && m2 >= 3 && m3 >= 3 ? branches : 0;
         var shifts = new double[6 * Math.Max(curvedBranches, 1)];
@@ -253,7 +254,7 @@ internal static class SimplexDosIntegrator
                     corners[6] = ((i1 * m2) + j2) * m3 + j3;
                     corners[7] = ((j1 * m2) + j2) * m3 + j3;
 
-                    // Outside the box, the acoustic branches' tetrahedra lowered by their mean interpolation error.
+                    // Every branch the tetrahedra take here (the acoustic ones only outside the box) lowered by its mean interpolation error.
                     var curved = curvedBranches;
                     for (var b = firstBranch; b < curved; b++)
                     {
