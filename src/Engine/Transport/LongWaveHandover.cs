@@ -48,6 +48,13 @@ internal sealed class LongWaveHandover
     /// </summary>
     public const double MeshFollowsX = 0.1;
 
+    /// <summary>
+    /// The narrowest window the convergence check's mesh takes (in its own spacings). Measured on a chain
+    /// whose check mesh 8 holds 3.3 spacings and a honeycomb sheet's 8 x 8 with 2.9 (docs/conductivity.md,
+    /// Mesh convergence); narrower windows were not measured.
+    /// </summary>
+    public const double CheckMinimumWidthSpacings = 2;
+
     /// <summary>Cells whose centres lie within this many spacings of q = 0 get 3 x 3 pieces of nodes.</summary>
     public const double FineCellsSpacings = 2.5;
 
@@ -95,13 +102,7 @@ internal sealed class LongWaveHandover
             return null; // (2 x 8 + 1)^3 cells of nodes would cost more than the pass; 3D cones are not covered
         }
 
-        var edges = new Vec3[d];
-        for (var i = 0; i < d; i++)
-        {
-            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
-        }
-
-        var (inradius, circumradius, spacing, zone) = Geometry(edges, lattice);
+        var (inradius, circumradius, spacing, zone) = Geometry(Edges(lattice, mesh), lattice);
         var outside = Math.Min(circumradius + (WidthSpacings * spacing), zone);
         if (outside < circumradius + (MinimumWidthSpacings * spacing))
         {
@@ -129,6 +130,25 @@ internal sealed class LongWaveHandover
         }
 
         return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on) : null;
+    }
+
+    /// <summary>
+    /// The same hand-over on the convergence check's coarser mesh: on at the same temperatures, the window
+    /// planned for that mesh as for any (<see cref="WidthSpacings"/> of its spacings where its zone allows), but
+    /// down to <see cref="CheckMinimumWidthSpacings"/> instead of refusing below <see cref="MinimumWidthSpacings"/>,
+    /// so it makes the same kind of error as this mesh, only larger. Without it a check mesh too
+    /// coarse for a window of its own compared the hand-over's converged sum with one-point samples that
+    /// miss the heat carriers (a chain on mesh 16 at 10 K: kappa within 1e-7, the change 0.10).
+    /// Null when the check mesh holds no such window: its change then compares with one-point samples
+    /// and says the mesh is too coarse, which it is for the check.
+    /// </summary>
+    public LongWaveHandover? OnCoarserMesh(int[] mesh)
+    {
+        var (_, circumradius, spacing, zone) = Geometry(Edges(_lattice, mesh), _lattice);
+        var outside = Math.Min(circumradius + (WidthSpacings * spacing), zone);
+        return outside < circumradius + (CheckMinimumWidthSpacings * spacing)
+            ? null
+            : new LongWaveHandover(_lattice, mesh, spacing, circumradius, outside, _on);
     }
 
     /// <summary>w at a distance |q| from q = 0: 1 on the q = 0 cell, erfc-shaped down to 0.</summary>
@@ -215,6 +235,17 @@ internal sealed class LongWaveHandover
         var inradius = Math.Min(area / edges[1].Length, area / edges[0].Length) / 2;
         var circumradius = Math.Max((edges[0] + edges[1]).Length, (edges[0] - edges[1]).Length) / 2;
         return (inradius, circumradius, spacing, zone);
+    }
+
+    private static Vec3[] Edges(Lattice lattice, int[] mesh)
+    {
+        var edges = new Vec3[lattice.Dimension];
+        for (var i = 0; i < edges.Length; i++)
+        {
+            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
+        }
+
+        return edges;
     }
 
     /// <summary>The shortest reciprocal-lattice vectors and their negatives (1D: +-b1; 2D: +-b1, +-b2, +-(b1 + b2), +-(b1 - b2)).</summary>
