@@ -151,6 +151,24 @@ internal sealed class LongWaveHandover
             : new LongWaveHandover(_lattice, mesh, spacing, circumradius, outside, _on);
     }
 
+    /// <summary>
+    /// How many node solves a pass over this mesh makes: the nodes of the cells around q = 0 whose window is
+    /// not 0, as <c>ConductivityCalculator</c> solves them (for the run-time forecast, <see cref="ConductivityWork"/>).
+    /// </summary>
+    public int NodeSolveCount()
+    {
+        var count = 0;
+        foreach (var point in new PeriodicGrid(_mesh[0], _mesh[1], _mesh[2]).HalfSet())
+        {
+            if (!point.IsGamma && Touches(_lattice.ToCartesianQ(point.Reduced)))
+            {
+                count += Nodes(point.Reduced).Count(node => Window(Distance(node.QPerM)) > 0);
+            }
+        }
+
+        return count;
+    }
+
     /// <summary>w at a distance |q| from q = 0: 1 on the q = 0 cell, erfc-shaped down to 0.</summary>
     public double Window(double qM)
     {
