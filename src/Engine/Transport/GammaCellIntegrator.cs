@@ -51,7 +51,7 @@ internal sealed class GammaCellIntegrator
     public static CellFaceRule FaceRuleFor(CompiledCrystal crystal, IReadOnlyList<int> mesh, IReadOnlyList<double> temperaturesK, ScatteringRates scattering) =>
         LongWaveFaceRule.ChooseForConductivity(crystal, Edges(crystal.Lattice, mesh), temperaturesK, scattering.UmklappOn || scattering.PointDefectOn);
 
-    private static Vec3[] Edges(Lattice lattice, IReadOnlyList<int> mesh)
+    internal static Vec3[] Edges(Lattice lattice, IReadOnlyList<int> mesh)
     {
         var edges = new Vec3[lattice.Dimension];
         for (var i = 0; i < edges.Length; i++)

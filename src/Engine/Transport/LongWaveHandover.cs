@@ -49,6 +49,13 @@ internal sealed class LongWaveHandover
     /// </summary>
     public const double MeshFollowsX = 0.1;
 
+    /// <summary>
+    /// The narrowest window the convergence check's mesh takes (in its own spacings). Measured on a chain
+    /// whose check mesh 8 holds 3.3 spacings and a honeycomb sheet's 8 x 8 with 2.9 (docs/conductivity.md,
+    /// Mesh convergence); narrower windows were not measured.
+    /// </summary>
+    public const double CheckMinimumWidthSpacings = 2;
+
     /// <summary>Cells whose centres lie within this many spacings of q = 0 get 3 x 3 pieces of nodes.</summary>
     public const double FineCellsSpacings = 2.5;
 
@@ -92,13 +99,7 @@ internal sealed class LongWaveHandover
     public static LongWaveHandover? Plan(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK)
     {
         var d = lattice.Dimension;
-        var edges = new Vec3[d];
-        for (var i = 0; i < d; i++)
-        {
-            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
-        }
-
-        var (inradius, circumradius, spacing, zone) = Geometry(edges, lattice);
+        var (inradius, circumradius, spacing, zone) = Geometry(Edges(lattice, mesh), lattice);
         // 3D: out to the zone's limit. Rays integrate f w at about the same cost however far they reach,
         // and the mesh's one point per cell follows f (1 - w) only where f is smooth on the mesh's scale:
         // a simple cubic model with next-nearest springs a twentieth of the nearest (soft transverse
@@ -137,21 +138,58 @@ internal sealed class LongWaveHandover
     /// The 3D window's radial nodes on a ray from the q = 0 cell's nearest face and the mesh spacing, or
     /// null where the zone holds no window (for the cost forecast: geometry only, no solves).
     /// </summary>
-    internal static int? RayNodes3D(Lattice lattice, IReadOnlyList<int> mesh)
+    internal static int? RayNodes3D(Lattice lattice, IReadOnlyList<int> mesh, double minimumWidthSpacings = MinimumWidthSpacings)
     {
         if (lattice.Dimension != 3)
         {
             return null;
         }
 
-        var edges = new Vec3[3];
-        for (var i = 0; i < 3; i++)
+        var (inradius, circumradius, spacing, zone) = Geometry(Edges(lattice, [.. mesh]), lattice);
+        return zone < circumradius + (minimumWidthSpacings * spacing) ? null : HandoverRays.NodesPerRay(inradius, zone, spacing);
+    }
+
+    /// <summary>
+    /// The same hand-over on the convergence check's coarser mesh: on at the same temperatures, the window
+    /// planned for that mesh as for any (<see cref="WidthSpacings"/> of its spacings where its zone allows; 3D: out to
+    /// its zone's limit, along rays), but
+    /// down to <see cref="CheckMinimumWidthSpacings"/> instead of refusing below <see cref="MinimumWidthSpacings"/>,
+    /// so it makes the same kind of error as this mesh, only larger. Without it a check mesh too
+    /// coarse for a window of its own compared the hand-over's converged sum with one-point samples that
+    /// miss the heat carriers (a chain on mesh 16 at 10 K: kappa within 1e-7, the change 0.10).
+    /// Null when the check mesh holds no such window: its change then compares with one-point samples
+    /// and says the mesh is too coarse, which it is for the check.
+    /// </summary>
+    public LongWaveHandover? OnCoarserMesh(int[] mesh)
+    {
+        var (_, circumradius, spacing, zone) = Geometry(Edges(_lattice, mesh), _lattice);
+        var outside = _lattice.Dimension == 3 ? zone : Math.Min(circumradius + (WidthSpacings * spacing), zone);
+        return outside < circumradius + (CheckMinimumWidthSpacings * spacing)
+            ? null
+            : new LongWaveHandover(_lattice, mesh, spacing, circumradius, outside, _on);
+    }
+
+    /// <summary>
+    /// How many node solves a pass over this mesh makes: the nodes of the cells around q = 0 whose window is
+    /// not 0, as <c>ConductivityCalculator</c> solves them (for the run-time forecast, <see cref="ConductivityWork"/>).
+    /// </summary>
+    public int NodeSolveCount()
+    {
+        if (_lattice.Dimension == 3)
         {
-            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
+            return 0; // 3D integrates the window along rays (HandoverRays), counted apart
         }
 
-        var (inradius, circumradius, spacing, zone) = Geometry(edges, lattice);
-        return zone < circumradius + (MinimumWidthSpacings * spacing) ? null : HandoverRays.NodesPerRay(inradius, zone, spacing);
+        var count = 0;
+        foreach (var point in new PeriodicGrid(_mesh[0], _mesh[1], _mesh[2]).HalfSet())
+        {
+            if (!point.IsGamma && Touches(_lattice.ToCartesianQ(point.Reduced)))
+            {
+                count += Nodes(point.Reduced).Count(node => Window(Distance(node.QPerM)) > 0);
+            }
+        }
+
+        return count;
     }
 
     /// <summary>w at a distance |q| from q = 0: 1 on the q = 0 cell, erfc-shaped down to 0.</summary>
@@ -264,6 +302,17 @@ internal sealed class LongWaveHandover
         var inradius = Math.Min(area / edges[1].Length, area / edges[0].Length) / 2;
         var circumradius = Math.Max((edges[0] + edges[1]).Length, (edges[0] - edges[1]).Length) / 2;
         return (inradius, circumradius, spacing, zone);
+    }
+
+    private static Vec3[] Edges(Lattice lattice, int[] mesh)
+    {
+        var edges = new Vec3[lattice.Dimension];
+        for (var i = 0; i < edges.Length; i++)
+        {
+            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
+        }
+
+        return edges;
     }
 
     /// <summary>

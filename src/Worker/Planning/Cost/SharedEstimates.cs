@@ -8,7 +8,10 @@ namespace LatticeSweep.Worker.Planning.Cost;
 /// <summary>
 /// A plan's run-time estimates computed once per cost shape instead of once per point. The estimate
 /// (<see cref="PointCost.WorkOf"/>) reads a model's branch count, dimension and components per site,
-/// the sample's size and the options, never a mass or a spring constant; so in a sweep of a lattice
+/// the sample's size and the options, and a mass or a spring constant only where a bulk point asks for
+/// a conductivity (the q = 0 cell's face panels and the hand-over depend on the long waves:
+/// <see cref="LatticeSweep.Engine.Transport.ConductivityWork.LongWaveCounts"/>; a shape takes its first
+/// point's counts, an approximation where a sweep moves the sound speeds' anisotropy); so in a sweep of a lattice
 /// model without potentials, bends or relaxation, points that differ only in site masses and spring
 /// or bond constants (values the field checks keep finite and masses positive, so the model builds
 /// or fails alike) share one estimate. Any other swept column is part of the shape's key. Samples with

@@ -1,0 +1,75 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Tests.Support;
+using LatticeSweep.Engine.Transport;
+
+namespace LatticeSweep.Engine.Tests.Transport;
+
+/// <summary>
+/// The run-time forecast counts the long-wave work the conductivity and the DOS really do: the q = 0
+/// cell's adaptive face panels, the hand-over's node solves and a sheet's second set of rays. Before, it
+/// counted 192 rays whatever the panels (5,760 on the model below) and no nodes, and a sheet job with the
+/// hand-over on was forecast at 1 % of its CPU time (bench/README.md, Round 12 (trust-signals)).
+/// </summary>
+public class ConductivityWorkTests
+{
+    private static SolveOptions Options(ConductivityOptions conductivity, params double[] temperaturesK) =>
+        new() { TemperaturesK = [.. temperaturesK], ReferenceTemperatureK = temperaturesK[^1], Conductivity = conductivity };
+
+    /// <summary>The simple cubic model of <see cref="GammaCellDirectionRuleTests"/>: nearest 40 N/m, next-nearest 2 or 20 N/m.</summary>
+    private static CrystalModel Cubic(double nextNPerM) =>
+        CrystalModel.Create(Lattice.SimpleCubic(0.3), [new Site("A", "A", Vec3.Zero, 20.0)],
+            [new ShellSpring("A", "A", 1, 40.0, 0.0), new ShellSpring("A", "A", 2, nextNPerM, 0.0)]);
+
+    private static CrystalModel DiatomicChain() => CrystalModel.Create(
+        Lattice.Chain(0.5),
+        [new Site("A", "A", Vec3.Zero, 12), new Site("B", "B", new Vec3(0.5, 0, 0), 31)],
+        [new ShellSpring("A", "B", 1, 22)],
+        degreesOfFreedom: DegreesOfFreedom.Scalar);
+
+    [Fact]
+    public void Panelled_faces_are_counted_with_their_rays_in_both_passes()
+    {
+        // docs/outside-checks.md, round 11 (axis-faces): the 40 / 2 N/m model takes 5,760 rays on mesh 8 at
+        // 0.05 K, the 40 / 20 N/m one the default 3 x 8 x 8 = 192.
+        var options = Options(new ConductivityOptions { Constant = new ConstantScattering(10) }, 0.05, 1);
+        var mesh = BulkSample.Uniform(3, 8);
+        Assert.Equal((2 * 5760, 0), ConductivityWork.LongWaveCounts(Cubic(2), mesh, options));
+        Assert.Equal((2 * 192, 0), ConductivityWork.LongWaveCounts(Cubic(20), mesh, options));
+        Assert.Equal((192, 0), ConductivityWork.LongWaveCounts(Cubic(20), mesh, Options(new ConductivityOptions { Constant = new ConstantScattering(10), CheckMeshConvergence = false }, 0.05, 1)));
+        var panelled = ConductivityWork.EstimateFlops(Cubic(2), mesh, options);
+        var plain = ConductivityWork.EstimateFlops(Cubic(20), mesh, options);
+        Assert.True(panelled > 10 * plain, $"flops {panelled:E3} against {plain:E3}");
+    }
+
+    [Fact]
+    public void Hand_over_nodes_are_counted_where_the_hand_over_is_on()
+    {
+        // On mesh 16 the chain's hand-over is on at 5 K (LongWaveHandoverTests) and its half mesh 8 takes one
+        // too (MeshChangeIndicatorTests); at 3000 K the mesh follows the integrand and no nodes are solved.
+        ConductivityOptions Kappa(bool check) => new() { Constant = new ConstantScattering(5), CrossSectionNm2 = 0.1, CheckMeshConvergence = check };
+        var mesh = BulkSample.Uniform(1, 16);
+        var (_, both) = ConductivityWork.LongWaveCounts(DiatomicChain(), mesh, Options(Kappa(true), 5));
+        var (_, main) = ConductivityWork.LongWaveCounts(DiatomicChain(), mesh, Options(Kappa(false), 5));
+        var (_, hot) = ConductivityWork.LongWaveCounts(DiatomicChain(), mesh, Options(Kappa(true), 3000));
+        Assert.True(main > 0, $"nodes on mesh 16 at 5 K: {main}");
+        Assert.True(both > main, $"nodes with the half mesh: {both}, without: {main}");
+        Assert.Equal(0, hot);
+        Assert.True(ConductivityWork.EstimateFlops(DiatomicChain(), mesh, Options(Kappa(true), 5)) > ConductivityWork.EstimateFlops(DiatomicChain(), mesh, Options(Kappa(true), 3000)));
+    }
+
+    [Fact]
+    public void A_sheet_with_a_flexural_branch_and_an_optical_floor_is_counted_with_two_ray_sets()
+    {
+        var options = new SolveOptions();
+        var mesh = BulkSample.Uniform(2, 12);
+        var one = LatticeSweep.Engine.Dos.LongWaveRegion.SolveCount(2);
+        Assert.Equal(2 * one, PhononSolver.LongWaveSolves(BondedCrystals.Honeycomb(flexural: 2), mesh, options));
+        var triangular = CrystalModel.Create(Lattice.Hexagonal(0.4), [new Site("A", "A", Vec3.Zero, 30.0)],
+            [new ShellSpring("A", "A", 1, 25.0, 2.0)], degreesOfFreedom: DegreesOfFreedom.InPlane);
+        Assert.Equal(one, PhononSolver.LongWaveSolves(triangular, mesh, options));
+        Assert.Equal(0, PhononSolver.LongWaveSolves(BondedCrystals.Honeycomb(flexural: 2), mesh, options with { DosMethod = DosMethod.Gaussian }));
+    }
+}
