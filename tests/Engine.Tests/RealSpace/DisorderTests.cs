@@ -74,6 +74,22 @@ public sealed class DisorderTests
     }
 
     [Fact]
+    public void The_virtual_crystal_has_the_composition_the_configurations_really_have()
+    {
+        // c = 0.3125 of a ring of 8: c N = 2.5 rounds to 3 substitutes (README), so every configuration
+        // holds 3 of 8 heavy atoms and its virtual crystal has the mean mass 20 + (3/8) 40 = 35 amu, not
+        // 20 + 0.3125 x 40 = 32.5 amu (the virtual crystal of that composition; common practice, no source).
+        var sample = RealSpaceSample.Box(8, 1, 1) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", 60.0, 0.3125, 1.0)], 2, Seed: 4),
+        };
+        var result = PhononSolver.Solve(Crystals.ScalarChain(), sample, Options);
+        var ring = PhononSolver.Solve(Crystals.ScalarChain(m: 35.0), FiniteSample.Create(8, 1, 1), Options);
+        AssertSameThermal(ring, result.Ordered!);
+        Approx.Equal(((5 * Crystals.MassAmu) + (3 * 60.0)) / 8 * 1e-3, result.Summary.MolarMassKgPerMol, 1e-12, "molar mass of the configurations");
+    }
+
+    [Fact]
     public void The_virtual_crystal_of_a_periodic_supercell_keeps_its_mean_mass_under_the_kernel_polynomial_method()
     {
         // The virtual crystal puts the mean mass (20 + 60) / 2 = 40 amu on every site (its definition;
