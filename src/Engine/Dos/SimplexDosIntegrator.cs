@@ -46,19 +46,26 @@ internal static class SimplexDosIntegrator
         var order = new int[4];
         var meanWeight = new double[Math.Max(channels, 1)];
 
-        // 2D: the acoustic branches' triangles outside the long-wave box lowered by their mean
+        // 2D: every branch's triangles the simplices take (the acoustic ones outside their long-wave box) lowered by their mean
         // interpolation error (TriangleCurvature); only where the box takes the cones' apex (the
         // difference stencil would cross q = 0 otherwise).
-        var curvedBranches = dimension == 2 && longWaves is { } box && m1 >= 3 && m2 >= 3 ? Math.Min(box.Branches, branches) : 0;
+        var acousticBranches = longWaves is { } box ? Math.Min(box.Branches, branches) : 0;
+        var curvedBranches = dimension == 2 && longWaves is not null && m1 >= 3 && m2 >= 3 ? branches : 0;
         var shifts = new double[2 * Math.Max(curvedBranches, 1)];
         var branchTops = new double[curvedBranches];
+        var branchBottoms = new double[curvedBranches];
         for (var b = 0; b < curvedBranches; b++)
         {
             branchTops[b] = double.NegativeInfinity;
+            branchBottoms[b] = double.PositiveInfinity;
             for (long p = 0; p < cells; p++)
             {
                 branchTops[b] = Math.Max(branchTops[b], frequencyThz[(p * branches) + b]);
+                branchBottoms[b] = Math.Min(branchBottoms[b], frequencyThz[(p * branches) + b]);
             }
+
+            // An acoustic branch's floor is 0 (q = 0), whatever round-off the mesh value there carries.
+            branchBottoms[b] = b < acousticBranches ? 0.0 : branchBottoms[b];
         }
 
         // 1D: every branch's intervals moved by their mean interpolation error (IntervalCurvature),
@@ -93,11 +100,11 @@ internal static class SimplexDosIntegrator
 
                     var simplices = dimension switch { 1 => [[0, 1]], 2 => Triangles, _ => Tetrahedra };
                     var firstBranch = longWaves?.FirstSimplexBranch(i1, i2, i3, m1, m2, m3) ?? 0;
-                    // Branches the simplices take here that are acoustic: lowered (a sheet's branches may have boxes of their own).
+                    // Branches the simplices take here: lowered (a sheet's acoustic branches may have boxes of their own).
                     var curved = curvedBranches;
                     for (var b = firstBranch; b < curved; b++)
                     {
-                        TriangleCurvature.SquareShifts(frequencyThz, branches, b, m1, m2, i1, i2, corners.AsSpan(0, 4), branchTops[b], shifts.AsSpan(2 * b, 2));
+                        TriangleCurvature.SquareShifts(frequencyThz, branches, b, m1, m2, i1, i2, corners.AsSpan(0, 4), b < acousticBranches, branchBottoms[b], branchTops[b], shifts.AsSpan(2 * b, 2));
                     }
 
                     for (var s = 0; s < simplices.Length; s++)
@@ -170,19 +177,27 @@ internal static class SimplexDosIntegrator
 
         // With channel weights and permutations: the mesh points at the corners of one cube per class
         // {g C, -g C} of the orbit (8 per class), and the number of distinct cubes in each class.
-        // Curvature shifts (TetrahedronCurvature) of the acoustic branches' six tetrahedra, [6 * branch + t];
-        // only where the long-wave box takes the cone's first shells (the shift's difference stencil
-        // would cross q = 0 otherwise).
-        var curvedBranches = longWaves is { } box && m1 >= 3 && m2 >= 3 && m3 >= 3 ? Math.Min(box.Branches, branches) : 0;
+        // Curvature shifts (TetrahedronCurvature) of every branch's six tetrahedra, [6 * branch + t] (optical
+        // branches too: a low optical branch's h^2 error is as large as a cone's); only where the
+        // long-wave box takes the cones' first shells (an acoustic shift's difference stencil would
+        // cross q = 0 otherwise).
+        var acousticBranches = longWaves is { } box ? Math.Min(box.Branches, branches) : 0;
+        var curvedBranches = longWaves is not null && m1 >= 3 && m2 >= 3 && m3 >= 3 ? branches : 0;
         var shifts = new double[6 * Math.Max(curvedBranches, 1)];
         var branchTops = new double[curvedBranches];
+        var branchBottoms = new double[curvedBranches];
         for (var b = 0; b < curvedBranches; b++)
         {
             branchTops[b] = double.NegativeInfinity;
+            branchBottoms[b] = double.PositiveInfinity;
             for (long p = 0; p < (long)m1 * m2 * m3; p++)
             {
                 branchTops[b] = Math.Max(branchTops[b], frequencyThz[(p * branches) + b]);
+                branchBottoms[b] = Math.Min(branchBottoms[b], frequencyThz[(p * branches) + b]);
             }
+
+            // An acoustic branch's floor is 0 (q = 0), whatever round-off the mesh value there carries.
+            branchBottoms[b] = b < acousticBranches ? 0.0 : branchBottoms[b];
         }
 
         var imageCorners = new int[8 * operations.Count];
@@ -239,11 +254,11 @@ internal static class SimplexDosIntegrator
                     corners[6] = ((i1 * m2) + j2) * m3 + j3;
                     corners[7] = ((j1 * m2) + j2) * m3 + j3;
 
-                    // Outside the box, the acoustic branches' tetrahedra lowered by their mean interpolation error.
-                    var curved = firstBranch == 0 ? curvedBranches : 0;
-                    for (var b = 0; b < curved; b++)
+                    // Every branch the tetrahedra take here (the acoustic ones only outside the box) lowered by its mean interpolation error.
+                    var curved = curvedBranches;
+                    for (var b = firstBranch; b < curved; b++)
                     {
-                        TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchTops[b], shifts.AsSpan(6 * b, 6));
+                        TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchBottoms[b], branchTops[b], shifts.AsSpan(6 * b, 6));
                     }
 
                     var entry = 0;

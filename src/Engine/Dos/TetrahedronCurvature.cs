@@ -16,6 +16,13 @@ namespace LatticeSweep.Engine.Dos;
 /// tetrahedron of an acoustic branch down by this mean error removes the leading (h^2) term.
 /// </para>
 /// <para>
+/// Optical branches get the same shift: their h^2 error is ordinary, but a low optical branch (weak
+/// springs between two sites, or a folded branch) is convex at its floor and concave at its top, where
+/// its states carry Cv at 0.1-0.2 of hbar omega_max / kB; unshifted it left Cv up to 1e-3 low at 40-80 K
+/// on 24^3-48^3 meshes (docs/outside-checks.md, Round 12 (coarse-dos)). Each branch is clamped at its
+/// own lowest and highest mesh value (an optical floor is a gap's top).
+/// </para>
+/// <para>
 /// H is estimated per mesh cube in mesh-index coordinates, from central differences of the sorted
 /// branch at the two ends of the cube's main diagonal (shared by its six tetrahedra), averaged: that
 /// pair maps onto itself under inversion and the mesh-axis permutations, so symmetric cubes get the
@@ -34,12 +41,13 @@ internal static class TetrahedronCurvature
     /// <summary>
     /// Writes the downward shift (THz) of each of the six tetrahedra of the cube based at (i1, i2, i3)
     /// for branch b into shift[0..5] (positive where the branch is convex there). Clamped so no corner
-    /// goes below 0 nor above the branch's highest mesh value: near a band top (concave) a raise must
-    /// not carry states past the branch's top into a gap above it.
+    /// goes below the branch's floor (0 for an acoustic branch) nor above its highest mesh value: near a
+    /// band edge a shift must not carry states past it into a gap.
     /// </summary>
     /// <param name="corners">The cube's eight mesh points (x + 2y + 4z).</param>
+    /// <param name="branchBottomThz">The branch's lowest value on the mesh (0 for an acoustic branch).</param>
     /// <param name="branchTopThz">The branch's highest value on the mesh.</param>
-    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchTopThz, Span<double> shift)
+    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchBottomThz, double branchTopThz, Span<double> shift)
     {
         Span<double> h = stackalloc double[6];
         Span<double> other = stackalloc double[6];
@@ -63,7 +71,7 @@ internal static class TetrahedronCurvature
                 high = Math.Max(high, f);
             }
 
-            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low, 0));
+            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low - branchBottomThz, 0));
         }
     }
 

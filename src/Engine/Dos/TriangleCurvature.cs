@@ -11,6 +11,9 @@ namespace LatticeSweep.Engine.Dos;
 /// long-wave box that left a sheet's heat capacity up to 6e-2 low at 5 K on a 12 x 12 mesh of a
 /// honeycomb sheet. Shifting each triangle of an acoustic branch down by this error removes the
 /// leading (h^2) term.
+/// Optical branches get the same shift (a low optical branch left Cv up to 1e-3 low at 40 K on a 48 x 48
+/// mesh unshifted: docs/outside-checks.md, Round 12 (coarse-dos)); only an acoustic branch needs the
+/// care at q = 0 below.
 /// </para>
 /// <para>
 /// H is estimated in mesh-index coordinates from central differences of the sorted branch at both
@@ -29,11 +32,12 @@ internal static class TriangleCurvature
     /// <summary>
     /// Writes the downward shift (THz) of the two triangles of the square based at (i1, i2) for branch b
     /// into shift[0..1] (positive where the branch is convex). Clamped as in
-    /// <see cref="TetrahedronCurvature.CubeShifts"/>: no corner below 0 nor above the branch's highest mesh value.
+    /// <see cref="TetrahedronCurvature.CubeShifts"/>: no corner below the branch's floor nor above its highest mesh value.
     /// </summary>
     /// <param name="corners">The square's four mesh points (x + 2y).</param>
-    /// <remarks>Meant for squares outside the long-wave box, whose diagonal has at least one end away from q = 0.</remarks>
-    public static void SquareShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int i1, int i2, ReadOnlySpan<int> corners, double branchTopThz, Span<double> shift)
+    /// <param name="acoustic">Branch b vanishes at q = 0 (its second differences there are no curvature).</param>
+    /// <remarks>For an acoustic branch, meant for squares outside the long-wave box, whose diagonal has at least one end away from q = 0.</remarks>
+    public static void SquareShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int i1, int i2, ReadOnlySpan<int> corners, bool acoustic, double branchBottomThz, double branchTopThz, Span<double> shift)
     {
         Span<double> h = stackalloc double[3];
         Span<double> other = stackalloc double[3];
@@ -42,8 +46,8 @@ internal static class TriangleCurvature
         // An end whose stencil touches q = 0 (a box one cell wide) would difference across the cone's
         // apex: the other end alone then. Inversion swaps the two ends of the image square's diagonal,
         // so the choice keeps a square and its image alike.
-        var first = !NearGamma(i1, m1) || !NearGamma(i2, m2);
-        var second = !NearGamma(j1, m1) || !NearGamma(j2, m2);
+        var first = !acoustic || !NearGamma(i1, m1) || !NearGamma(i2, m2);
+        var second = !acoustic || !NearGamma(j1, m1) || !NearGamma(j2, m2);
         h.Clear();
         if (first)
         {
@@ -76,7 +80,7 @@ internal static class TriangleCurvature
                 high = Math.Max(high, f);
             }
 
-            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low, 0));
+            shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low - branchBottomThz, 0));
         }
     }
 

@@ -33,7 +33,7 @@ public class MidTemperatureBulkTests
     /// 120^3 mesh offset by half a step (no point at q = 0). Converged: 80^3, 120^3 and 160^3 sums agree
     /// within 1e-10 at these temperatures (NumPy, measured for this check).
     /// </summary>
-    private static double[] ScalarCubicReference(double[] temperatures)
+    internal static double[] ScalarCubicReference(double[] temperatures)
     {
         const int m = 120;
         var w2 = 2 * Crystals.SpringNPerM / (Crystals.MassAmu * PhysicalConstants.AtomicMassKg);
