@@ -110,8 +110,13 @@ public static class StaticLattice
     {
         var a = model.Lattice.ConstantNm;
         var range = string.Create(CultureInfo.InvariantCulture, $"{SmallestScale * a:G4} to {LargestScale * a:G4} nm ({SmallestScale:G2} to {LargestScale:G2} x the lattice constant {a:G6} nm)");
+        // Only a Buckingham potential collapses; Lennard-Jones and Morse wells whose many neighbours pull the
+        // lattice in put the minimum below the searched range instead, so the hint names what to change.
+        var collapse = model.Potentials.Any(p => p.Potential is BuckinghamPotential)
+            ? "(a Buckingham potential collapses at short range when its repulsion is too weak). Raise repulsion_ev or rho_nm, lower dispersion_ev_nm6, or move the lattice constant nearer the well"
+            : "(its minimum lies below the range searched: the neighbours within the cutoff pull the lattice in). Give a smaller constant_nm, nearer the minimum, or a shorter cutoff_nm";
         var message = fallsOnContraction
-            ? $"the static lattice energy of the potentials has no minimum for lattice constants {range}: it keeps falling as the lattice contracts (a Buckingham potential collapses at short range when its repulsion is too weak). Raise repulsion_ev or rho_nm, lower dispersion_ev_nm6, or move the lattice constant nearer the well"
+            ? $"the static lattice energy of the potentials has no minimum for lattice constants {range}: it keeps falling as the lattice contracts {collapse}"
             : $"the static lattice energy of the potentials has no minimum for lattice constants {range}: it keeps falling as the lattice expands (no attraction binds it). Give the potential an attractive part (a well depth, or dispersion_ev_nm6 > 0), or move the lattice constant nearer the well";
         return Guard.Single(ModelProblemKind.OutOfRange, "potentials", message);
     }

@@ -99,9 +99,9 @@ internal static class ConductivityCalculator
     /// One pass over the wave vectors (half of them: omega, |v_a| and C are the same at q and -q).
     /// Finite crystals: the q = 0 rigid translations are not heat carriers and add nothing; the
     /// other q = 0 branches count like any mode. Bulk meshes: the q = 0 point is replaced by the
-    /// average over its cell (<see cref="GammaCellIntegrator"/>), and in 1D and 2D, at temperatures whose
-    /// thermal waves reach just past that cell, the cells around it hand over smoothly to the mesh
-    /// (<see cref="LongWaveHandover"/>). Returns false for an unstable model.
+    /// average over its cell (<see cref="GammaCellIntegrator"/>), and at temperatures whose thermal waves
+    /// reach just past that cell, the cells around it hand over smoothly to the mesh
+    /// (<see cref="LongWaveHandover"/>; in 3D along rays, <see cref="HandoverRays"/>). Returns false for an unstable model.
     /// </summary>
     private static bool Pass(ModeSolver solver, int[] mesh, bool bulk, CellFaceRule? faceRule, KineticSum sum, CancellationToken ct)
     {
@@ -115,6 +115,7 @@ internal static class ConductivityCalculator
         var handover = gammaCell is not null ? LongWaveHandover.Plan(solver, lattice, mesh, sum.TemperaturesK) : null;
         var weights = new double[sum.TemperaturesK.Length];
         var inPlane = handover is not null && gammaCell!.SymmetrisesInPlane(group, solver);
+        var handoverRays = handover is not null && lattice.Dimension == 3 ? HandoverRays.For(handover, solver.Matrix.Crystal, mesh, sum.TemperaturesK, sum.Scattering) : null;
         var rotations = DegenerateRotations.For(lattice);
         var stable = true;
         double lowest = 0, highest = 0;
@@ -172,6 +173,7 @@ internal static class ConductivityCalculator
             if (point.IsGamma && gammaCell is not null)
             {
                 stable &= gammaCell.Integrate(group, solver, sum, ct);
+                handoverRays?.Integrate(group, solver, sum, inPlane, ct);
                 continue;
             }
 
@@ -187,6 +189,11 @@ internal static class ConductivityCalculator
             // integrate f w; at the others the point counts as before and the nodes not at all.
             var rest = 1 - handover.Window(handover.Distance(q));
             AddPoint(q, skip, point.Weight, t => handover.On[t] ? rest : 1);
+            if (handoverRays is not null)
+            {
+                continue; // 3D: the rays hold f w
+            }
+
             foreach (var (node, nodeWeight) in handover.Nodes(point.Reduced))
             {
                 var window = handover.Window(handover.Distance(node));

@@ -38,6 +38,35 @@ public static class ConductivityWork
         var rays = bulk ? passes * d * Math.Pow(GammaCellIntegrator.FaceNodes(d), d - 1) : 0;
         return (solves + (7 * rays)) * 36 * n * n * n
             + solves * n * temperatures * 100
-            + rays * model.ComponentsPerSite * 240 * temperatures * 100;
+            + rays * model.ComponentsPerSite * 240 * temperatures * 100
+            + HandoverRayFlops(model, sample, c, n, temperatures);
+    }
+
+    /// <summary>
+    /// 3D hand-over (<see cref="HandoverRays"/>): where the zone holds a window, the default face rule's
+    /// rays continued past the q = 0 cell, each with its radial nodes solved with vectors, and every mode
+    /// at every temperature. Counted whenever a window fits (the temperatures that use it are known only
+    /// after the long-wave solves), for the main mesh and the check mesh alike; panelled rules of strongly
+    /// anisotropic models take up to ~30 times the rays.
+    /// </summary>
+    private static double HandoverRayFlops(CrystalModel model, Sample sample, ConductivityOptions c, double n, int temperatures)
+    {
+        if (sample is not BulkSample b || model.Lattice.Dimension != 3)
+        {
+            return 0;
+        }
+
+        var rays = 3 * Math.Pow(GammaCellIntegrator.FaceNodes(3), 2);
+        var total = 0.0;
+        int[][] meshes = c.CheckMeshConvergence ? [[b.M1, b.M2, b.M3], [b.M1 / 2, b.M2 / 2, b.M3 / 2]] : [[b.M1, b.M2, b.M3]];
+        foreach (var mesh in meshes)
+        {
+            if (mesh.Min() >= 1 && LongWaveHandover.RayNodes3D(model.Lattice, mesh) is { } nodes)
+            {
+                total += rays * nodes * ((36 * n * n * n) + (n * temperatures * 100));
+            }
+        }
+
+        return total;
     }
 }

@@ -6,15 +6,16 @@ using MathNet.Numerics.Integration;
 namespace LatticeSweep.Engine.Transport;
 
 /// <summary>
-/// A smooth hand-over between the q = 0 cell's integral and the mesh's one-point samples, for 1D and 2D
-/// bulk meshes at temperatures whose thermal wave numbers reach just past the q = 0 cell.
+/// A smooth hand-over between the q = 0 cell's integral and the mesh's one-point samples, for bulk
+/// meshes at temperatures whose thermal wave numbers reach just past the q = 0 cell.
 /// <para>
 /// There the kinetic integrand f = C v_a^2 tau changes within a mesh cell, and one sample per cell next
 /// to an exactly integrated q = 0 cell misses it by percents to tens of percent (a flexural sheet's
 /// q^2 branch, a chain's cone; docs/outside-checks.md, round 11). Splitting f = f w + f (1 - w) with a
 /// radial window w (1 on the q = 0 cell, falling smoothly to 0 some mesh spacings out) fixes that:
-/// f w is integrated cell by cell (the q = 0 cell along its rays, the others with Gauss-Legendre nodes
-/// solved directly), and f (1 - w) vanishes around q = 0 and is smooth, which one point per cell sums
+/// f w is integrated cell by cell in 1D and 2D (the q = 0 cell along its rays, the others with
+/// Gauss-Legendre nodes solved directly) and in 3D along rays through the window
+/// (<see cref="HandoverRays"/>; there the window reaches as far as the zone allows), and f (1 - w) vanishes around q = 0 and is smooth, which one point per cell sums
 /// to spectral accuracy (the trapezoid rule on a smooth function). Only the mesh points and nodes near
 /// q = 0 change; w is per temperature (on or off), so temperatures that do not need it keep their sums.
 /// </para>
@@ -27,7 +28,7 @@ namespace LatticeSweep.Engine.Transport;
 /// </summary>
 internal sealed class LongWaveHandover
 {
-    /// <summary>Width of the window's fall in mesh spacings (fewer where the zone is too small).</summary>
+    /// <summary>Width of the window's fall in mesh spacings in 1D and 2D (fewer where the zone is too small; 3D: as wide as the zone allows).</summary>
     public const double WidthSpacings = 8;
 
     /// <summary>
@@ -83,18 +84,14 @@ internal sealed class LongWaveHandover
     public IReadOnlyList<bool> On => _on;
 
     /// <summary>
-    /// The hand-over for this mesh, or null when no temperature needs it (3D, or every temperature's
-    /// heat carriers sit inside the q = 0 cell or span many mesh cells) or the mesh is too coarse to hold
-    /// a window.
+    /// The hand-over for this mesh, or null when no temperature needs it (every temperature's heat
+    /// carriers sit inside the q = 0 cell or span many mesh cells) or the mesh is too coarse to hold a
+    /// window. In 3D the window's part outside the q = 0 cell is integrated along rays
+    /// (<see cref="HandoverRays"/>), not with nodes per cell.
     /// </summary>
     public static LongWaveHandover? Plan(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK)
     {
         var d = lattice.Dimension;
-        if (d == 3)
-        {
-            return null; // (2 x 8 + 1)^3 cells of nodes would cost more than the pass; 3D cones are not covered
-        }
-
         var edges = new Vec3[d];
         for (var i = 0; i < d; i++)
         {
@@ -102,7 +99,12 @@ internal sealed class LongWaveHandover
         }
 
         var (inradius, circumradius, spacing, zone) = Geometry(edges, lattice);
-        var outside = Math.Min(circumradius + (WidthSpacings * spacing), zone);
+        // 3D: out to the zone's limit. Rays integrate f w at about the same cost however far they reach,
+        // and the mesh's one point per cell follows f (1 - w) only where f is smooth on the mesh's scale:
+        // a simple cubic model with next-nearest springs a twentieth of the nearest (soft transverse
+        // branches near the axes, kinks where they cross) was 6e-3 low at 4 K on mesh 48 with 8 spacings,
+        // 5e-4 (the cell's direction rule) with the whole ball.
+        var outside = d == 3 ? zone : Math.Min(circumradius + (WidthSpacings * spacing), zone);
         if (outside < circumradius + (MinimumWidthSpacings * spacing))
         {
             return null; // the zone holds no window wide enough (a mesh of a few points): the cell and the mesh stay as they were
@@ -131,6 +133,27 @@ internal sealed class LongWaveHandover
         return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on) : null;
     }
 
+    /// <summary>
+    /// The 3D window's radial nodes on a ray from the q = 0 cell's nearest face and the mesh spacing, or
+    /// null where the zone holds no window (for the cost forecast: geometry only, no solves).
+    /// </summary>
+    internal static int? RayNodes3D(Lattice lattice, IReadOnlyList<int> mesh)
+    {
+        if (lattice.Dimension != 3)
+        {
+            return null;
+        }
+
+        var edges = new Vec3[3];
+        for (var i = 0; i < 3; i++)
+        {
+            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
+        }
+
+        var (inradius, circumradius, spacing, zone) = Geometry(edges, lattice);
+        return zone < circumradius + (MinimumWidthSpacings * spacing) ? null : HandoverRays.NodesPerRay(inradius, zone, spacing);
+    }
+
     /// <summary>w at a distance |q| from q = 0: 1 on the q = 0 cell, erfc-shaped down to 0.</summary>
     public double Window(double qM)
     {
@@ -142,8 +165,17 @@ internal sealed class LongWaveHandover
         return qM >= _outsideM ? 0 : _norm * SpecialErfc((qM - _centreM) / _sigmaM);
     }
 
-    /// <summary>Whether the mesh cell centred at q reaches into the window.</summary>
-    public bool Touches(Vec3 qPerM) => Distance(qPerM) < _outsideM + _insideM;
+    /// <summary>Where w falls to 0 (1/m): the radius the 3D rays run to.</summary>
+    public double OutsideM => _outsideM;
+
+    /// <summary>The longest mesh-cell edge (1/m), the unit the window is measured in.</summary>
+    public double SpacingM => _spacingM;
+
+    /// <summary>
+    /// Whether the mesh point at q is counted with weight 1 - w: in 1D and 2D where its cell reaches into
+    /// the window (its nodes take f w), in 3D where w itself is above 0 (the rays take f w).
+    /// </summary>
+    public bool Touches(Vec3 qPerM) => Distance(qPerM) < (_lattice.Dimension == 3 ? _outsideM : _outsideM + _insideM);
 
     /// <summary>
     /// |q| of the image of q nearest to q = 0 (q + G over the shortest reciprocal-lattice vectors): the
@@ -162,7 +194,7 @@ internal sealed class LongWaveHandover
     }
 
     /// <summary>
-    /// Gauss-Legendre nodes of the mesh cell around <paramref name="reduced"/> (Cartesian q, weights summing
+    /// 1D and 2D: Gauss-Legendre nodes of the mesh cell around <paramref name="reduced"/> (Cartesian q, weights summing
     /// to 1): 6 per direction, on 3 x 3 pieces of the cells within <see cref="FineCellsSpacings"/> of q = 0,
     /// where the integrand changes fastest (near the cell's edge at the lowest hand-over temperatures a
     /// thermal wave number is a quarter of a spacing, and 6 nodes across a whole cell missed 8e-3 of kappa
@@ -210,6 +242,23 @@ internal sealed class LongWaveHandover
             return (h / 2, h / 2, h, zone);
         }
 
+        if (edges.Length == 3)
+        {
+            // A parallelepiped: the distance to a face pair is the volume over that face's area, halved;
+            // the corners are at (+-e1 +- e2 +- e3) / 2.
+            var volume = Math.Abs(edges[0].Dot(edges[1].Cross(edges[2])));
+            var faceDistance = Math.Min(
+                volume / edges[1].Cross(edges[2]).Length,
+                Math.Min(volume / edges[0].Cross(edges[2]).Length, volume / edges[0].Cross(edges[1]).Length)) / 2;
+            var corner = 0.0;
+            foreach (var (s1, s2) in new[] { (1, 1), (1, -1), (-1, 1), (-1, -1) })
+            {
+                corner = Math.Max(corner, (edges[0] + (s1 * edges[1]) + (s2 * edges[2])).Length / 2);
+            }
+
+            return (faceDistance, corner, spacing, zone);
+        }
+
         // A parallelogram: corners at (+-e1 +- e2) / 2; the distance to a side is the area over the other edge, halved.
         var area = Math.Abs((edges[0].X * edges[1].Y) - (edges[0].Y * edges[1].X));
         var inradius = Math.Min(area / edges[1].Length, area / edges[0].Length) / 2;
@@ -217,7 +266,11 @@ internal sealed class LongWaveHandover
         return (inradius, circumradius, spacing, zone);
     }
 
-    /// <summary>The shortest reciprocal-lattice vectors and their negatives (1D: +-b1; 2D: +-b1, +-b2, +-(b1 + b2), +-(b1 - b2)).</summary>
+    /// <summary>
+    /// The shortest reciprocal-lattice vectors and their negatives (1D: +-b1; 2D: +-b1, +-b2, +-(b1 + b2),
+    /// +-(b1 - b2); 3D: the 26 sums n1 b1 + n2 b2 + n3 b3 with n_i in {-1, 0, 1}, which hold the nearest
+    /// image of a point of the centred cell for the lattices' reduced bases).
+    /// </summary>
     private static Vec3[] Images(Lattice lattice)
     {
         var b1 = lattice.ReciprocalVector(0);
@@ -227,7 +280,28 @@ internal sealed class LongWaveHandover
         }
 
         var b2 = lattice.ReciprocalVector(1);
-        return [b1, -b1, b2, -b2, b1 + b2, -(b1 + b2), b1 - b2, -(b1 - b2)];
+        if (lattice.Dimension == 2)
+        {
+            return [b1, -b1, b2, -b2, b1 + b2, -(b1 + b2), b1 - b2, -(b1 - b2)];
+        }
+
+        var b3 = lattice.ReciprocalVector(2);
+        var images = new List<Vec3>(26);
+        for (var i = -1; i <= 1; i++)
+        {
+            for (var j = -1; j <= 1; j++)
+            {
+                for (var k = -1; k <= 1; k++)
+                {
+                    if (i != 0 || j != 0 || k != 0)
+                    {
+                        images.Add((i * b1) + (j * b2) + (k * b3));
+                    }
+                }
+            }
+        }
+
+        return [.. images];
     }
 
     /// <summary>
@@ -236,9 +310,13 @@ internal sealed class LongWaveHandover
     /// </summary>
     private static (double Slowest, double Fastest) AcousticOmegas(ModeSolver solver, Lattice lattice, double qM)
     {
-        Vec3[] directions = lattice.Dimension == 1
-            ? [lattice.ReciprocalVector(0)]
-            : [lattice.ReciprocalVector(0), lattice.ReciprocalVector(1), lattice.ReciprocalVector(0) + lattice.ReciprocalVector(1), lattice.ReciprocalVector(0) - lattice.ReciprocalVector(1)];
+        var b1 = lattice.ReciprocalVector(0);
+        Vec3[] directions = lattice.Dimension switch
+        {
+            1 => [b1],
+            2 => [b1, lattice.ReciprocalVector(1), b1 + lattice.ReciprocalVector(1), b1 - lattice.ReciprocalVector(1)],
+            _ => [.. Images(lattice).Take(13)], // one of each +-pair: axes, face and body diagonals
+        };
         var acoustic = solver.Matrix.Crystal.Components;
         var lowest = double.PositiveInfinity;
         var highest = 0.0;

@@ -61,6 +61,27 @@ public class ConductivitySolverTests
     }
 
     [Fact]
+    public void Acoustic_averages_of_a_strongly_anisotropic_crystal_meet_a_converged_direction_average()
+    {
+        // Simple cubic, 3D motion, central springs 40 N/m (nearest) and 0.5 N/m (next-nearest), 25 amu,
+        // a = 0.3 nm: the slow transverse branch is 4.7 times slower along [100] than the fastest speed, and
+        // sorting the branches per direction puts kinks in its speed. Reference: own NumPy direction
+        // average of the same long-wave slopes on 96 x 192 (and 128 x 256) Gauss-Legendre x uniform
+        // points of the hemisphere, agreeing to 1e-9 (docs/outside-checks.md, Round 12); the Debye
+        // average and theta_a as in Kittel, ch. 5. The fixed 8 x 16 rule gave v_D 7.9 % high.
+        var model = CrystalModel.Create(Lattice.SimpleCubic(0.3), [new Site("A", "A", Vec3.Zero, 25)],
+            [new ShellSpring("A", "A", 1, 40), new ShellSpring("A", "A", 2, 0.5)]);
+        var c = Kappa.Compute(model, FiniteSample.Create(4, 4, 4), new ConductivityOptions { Constant = new ConstantScattering(1) }, 300);
+        Approx.Equal(2169.6940, c.DebyeAverageSoundSpeedMPerS, 5e-5, "v_D");
+        Approx.Equal(215.32136, c.AcousticDebyeTemperatureK, 5e-5, "theta_a");
+        double[] branchMeans = [2333.16, 4445.97, 7863.51];
+        for (var k = 0; k < 3; k++)
+        {
+            Approx.Equal(branchMeans[k], c.MeanSoundSpeedsMPerS[k], 1e-4, $"mean speed of branch {k}");
+        }
+    }
+
+    [Fact]
     public void An_unstable_model_gets_NaN_conductivity_not_a_number_that_hides_it()
     {
         var unstable = CrystalModel.Create(Lattice.FaceCentredCubic(0.4), [new Site("A", "A", Vec3.Zero, 20)], [new ShellSpring("A", "A", 1, 10), new ShellSpring("A", "A", 2, -8)]);

@@ -99,6 +99,20 @@ public sealed class PotentialJobFileTests : IDisposable
     }
 
     [Fact]
+    public void A_morse_well_whose_minimum_lies_below_the_searched_range_is_told_to_move_the_lattice_constant_not_to_change_buckingham_keys()
+    {
+        // Many neighbours within the cutoff pull this Morse lattice in to about a = 0.36 nm, below 0.7 x 0.54 nm;
+        // the energy falls on contraction across the whole range, but nothing collapses and the job has no
+        // repulsion_ev or dispersion_ev_nm6 to change.
+        var text = LjJob("form = \"morse\"\nwell_depth_ev = 0.35\nr0_nm = 0.29\nwidth_per_nm = 13.0\ncutoff_nm = 0.62");
+        var p = Single(text, "model.potentials");
+        Assert.Equal(Some.LineOf(text, "[[model.potentials]]"), p.Line);
+        Assert.Contains("keeps falling as the lattice contracts", p.Message, StringComparison.Ordinal);
+        Assert.Contains("Give a smaller constant_nm", p.Message, StringComparison.Ordinal);
+        Assert.DoesNotContain("repulsion_ev", p.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Parameters_of_another_form_and_relax_without_potentials_are_refused()
     {
         var text = LjJob("form = \"lennard_jones\"\nwell_depth_ev = 0.0104\nsigma_nm = 0.34\nr0_nm = 0.38\ncutoff_nm = 0.85");

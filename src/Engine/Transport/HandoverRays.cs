@@ -1,0 +1,146 @@
+using LatticeSweep.Engine.Dos;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Spectrum;
+using MathNet.Numerics.Integration;
+
+namespace LatticeSweep.Engine.Transport;
+
+/// <summary>
+/// The 3D hand-over's windowed part outside the q = 0 cell, f w over {q outside the cell, |q| &lt; R},
+/// integrated along the q = 0 cell's own rays continued past its faces (<see cref="LongWaveHandover"/>
+/// has the window and why; 1D and 2D use Gauss nodes per mesh cell instead, which in 3D would take
+/// (2 x 8 + 1)^3 cells of nodes).
+/// <para>
+/// A ray to the face point p of weight W (its share of the cell's volume, as a pyramid) stands for the
+/// solid angle 3 W V_cell / |p|^3, so the region's integral in mesh points (one point = V_cell) is
+/// sum_rays 3 W / |p|^3 int_|p|^R rho^2 f(rho u) w(rho) d rho. A face rule suits the shell as it
+/// suits the cell: |p| is smooth on each face (its kinks, the cell's edges, fall between faces or
+/// panels), and panels that follow the model's direction-dependent speeds follow them outside the
+/// cell too (<see cref="For"/> chooses them). Along a ray every branch is solved at each node with its Hellmann-Feynman velocity
+/// (degenerate sets rotated along the ray), so the model's real dispersion, optical branches included,
+/// enters; one solve serves every temperature that uses the window.
+/// </para>
+/// <para>
+/// Radial nodes: 6-point Gauss-Legendre panels from |p| growing as h / 32, h / 32, h / 16, ... up to h
+/// (h the mesh spacing), where the integrand of the lowest hand-over temperatures falls on the scale of
+/// a thermal wave number (down to about h / 60), then panels of at most 1.25 h out to R, where the erfc
+/// edge (its sigma is 8 h / 7) and the higher temperatures' integrand change on the scale of h.
+/// </para>
+/// </summary>
+internal sealed class HandoverRays
+{
+    private static readonly GaussLegendreRule Panel = new(0, 1, 6);
+    private static readonly double[] GradedEdgesSpacings = [0, 1.0 / 32, 1.0 / 16, 1.0 / 8, 1.0 / 4, 1.0 / 2, 1];
+    private const double OuterPanelSpacings = 1.25;
+
+    private readonly LongWaveHandover _handover;
+    private readonly IReadOnlyList<CellRay> _rays;
+
+    private HandoverRays(LongWaveHandover handover, IReadOnlyList<CellRay> rays)
+    {
+        _handover = handover;
+        _rays = rays;
+    }
+
+    /// <summary>Number of rays (each holds <see cref="NodesPerRay"/> solves).</summary>
+    public int RayCount => _rays.Count;
+
+    /// <summary>
+    /// Rays from the faces of the q = 0 cell of this 3D mesh, on a face rule of their own: the cell's rule
+    /// (<see cref="GammaCellIntegrator.FaceRuleFor"/>) is as fine as the cell's share of kappa at the lowest
+    /// temperature needs, and on a fine mesh that share is small, but the window around it holds nearly
+    /// all of kappa at the temperatures that use it (a simple cubic model with next-nearest springs a
+    /// twentieth of the nearest came out 5e-3 low at 4 K on mesh 48 with the cell's 8 x 8 rule). So the
+    /// rule is chosen as for a cell of the window's volume at the lowest such temperature.
+    /// </summary>
+    public static HandoverRays For(LongWaveHandover handover, CompiledCrystal crystal, IReadOnlyList<int> mesh, double[] temperaturesK, ScatteringRates scattering)
+    {
+        var lattice = crystal.Lattice;
+        var edges = new Vec3[3];
+        for (var i = 0; i < 3; i++)
+        {
+            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
+        }
+
+        var volume = Math.Abs(edges[0].Dot(edges[1].Cross(edges[2])));
+        var scale = handover.OutsideM / Math.Cbrt(3 * volume / (4 * Math.PI));
+        var on = temperaturesK.Where((_, t) => handover.On[t]).ToArray();
+        var rule = LongWaveFaceRule.ChooseForConductivity(crystal, [.. edges.Select(e => scale * e)], on, scattering.UmklappOn || scattering.PointDefectOn);
+        return new HandoverRays(handover, CentredCellRays.Build(3, edges, rule).Rays);
+    }
+
+    /// <summary>Radial nodes on a ray whose face point is at <paramref name="startM"/> (one list per ray; the forecast counts them).</summary>
+    public static int NodesPerRay(double startM, double outsideM, double spacingM) => (Edges(startM, outsideM, spacingM).Count - 1) * Panel.Abscissas.Length;
+
+    /// <summary>
+    /// Adds f w outside the q = 0 cell at the window's temperatures (weight 0 at the others).
+    /// <paramref name="inPlane"/>: read velocities averaged over 120-degree rotations, as the cell does.
+    /// </summary>
+    public void Integrate(GroupVelocities group, ModeSolver solver, KineticSum sum, bool inPlane, CancellationToken ct)
+    {
+        var n = solver.Size;
+        var velocities = new double[n * 3];
+        var weights = new double[sum.TemperaturesK.Length];
+        var on = _handover.On;
+        foreach (var ray in _rays)
+        {
+            ct.ThrowIfCancellationRequested();
+            var u = ray.Direction;
+            var start = ray.LengthPerM;
+            var solidAngleInPoints = 3 * ray.Weight / (start * start * start);
+            var edges = Edges(start, _handover.OutsideM, _handover.SpacingM);
+            for (var p = 0; p + 1 < edges.Count; p++)
+            {
+                var width = edges[p + 1] - edges[p];
+                for (var i = 0; i < Panel.Abscissas.Length; i++)
+                {
+                    var rho = edges[p] + (width * Panel.Abscissas[i]);
+                    var window = _handover.Window(rho);
+                    if (!(window > 0))
+                    {
+                        continue;
+                    }
+
+                    var weight = solidAngleInPoints * width * Panel.Weights[i] * rho * rho * window;
+                    for (var t = 0; t < weights.Length; t++)
+                    {
+                        weights[t] = on[t] ? weight : 0;
+                    }
+
+                    group.Solve(rho * u, u, velocities);
+                    var values = solver.Values;
+                    for (var k = 0; k < n; k++)
+                    {
+                        var v = new Vec3(velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]);
+                        sum.Add(Math.Sqrt(Math.Max(values[k], 0)), inPlane ? GammaCellIntegrator.InPlaneAverage(v) : v, weights);
+                    }
+                }
+            }
+        }
+    }
+
+    /// <summary>Panel edges from the face point to where w ends (1/m).</summary>
+    private static List<double> Edges(double startM, double outsideM, double spacingM)
+    {
+        var edges = new List<double>();
+        foreach (var e in GradedEdgesSpacings)
+        {
+            var rho = startM + (e * spacingM);
+            if (rho >= outsideM)
+            {
+                break;
+            }
+
+            edges.Add(rho);
+        }
+
+        while (edges[^1] < outsideM)
+        {
+            var width = Math.Max(OuterPanelSpacings * spacingM, edges[^1] / 4);
+            edges.Add(edges[^1] + width >= outsideM - (0.25 * width) ? outsideM : edges[^1] + width);
+        }
+
+        return edges;
+    }
+}
