@@ -29,7 +29,9 @@ internal sealed record SiteProperties(double[] MassKg, double[] SpringScale, int
     /// <summary>
     /// The virtual crystal of the disorder: each substituted basis site gets (1 - c) m + c m' and the
     /// spring scale (1 - c) + c sqrt(f), so a spring's mean over configurations, K ((1 - c) + c sqrt(f))^2
-    /// per substituted end, is kept (common practice, no source).
+    /// per substituted end, is kept (common practice, no source). c is the fraction the configurations
+    /// really have, round(c N) / N of the sample's N sites of that basis label, so the virtual crystal
+    /// has their composition (the given c when c N is whole).
     /// </summary>
     public static SiteProperties VirtualCrystal(RealSpaceLattice lattice, Disorder disorder)
     {
@@ -38,8 +40,10 @@ internal sealed record SiteProperties(double[] MassKg, double[] SpringScale, int
         {
             var basis = lattice.Crystal.Model.SiteIndex(sub.SiteLabel);
             var host = lattice.Crystal.MassesKg[basis];
-            var mass = ((1 - sub.Concentration) * host) + (sub.Concentration * CompiledCrystal.KgFromAmu(sub.MassAmu));
-            var scale = (1 - sub.Concentration) + (sub.Concentration * Math.Sqrt(sub.SpringFactor));
+            var sites = lattice.BasisSites[basis] * lattice.ImagesPerSite;
+            var c = sites > 0 ? (double)SubstitutedCount(sub.Concentration, sites) / sites : sub.Concentration;
+            var mass = ((1 - c) * host) + (c * CompiledCrystal.KgFromAmu(sub.MassAmu));
+            var scale = (1 - c) + (c * Math.Sqrt(sub.SpringFactor));
             for (var s = 0; s < lattice.Sites; s++)
             {
                 if (lattice.BasisOf[s] == basis)
@@ -52,6 +56,10 @@ internal sealed record SiteProperties(double[] MassKg, double[] SpringScale, int
 
         return p;
     }
+
+    /// <summary>The number of a basis label's <paramref name="sites"/> substituted at concentration c: the nearest whole number to c N, halves up.</summary>
+    private static long SubstitutedCount(double concentration, long sites) =>
+        (long)Math.Round(concentration * sites, MidpointRounding.AwayFromZero);
 
     /// <summary>
     /// These per-basis values on another block of the same crystal (a Bloch block unfolded for the
@@ -101,7 +109,7 @@ internal sealed record SiteProperties(double[] MassKg, double[] SpringScale, int
                 }
             }
 
-            var chosen = (int)Math.Round(sub.Concentration * candidates.Count, MidpointRounding.AwayFromZero);
+            var chosen = (int)SubstitutedCount(sub.Concentration, candidates.Count);
             var mass = CompiledCrystal.KgFromAmu(sub.MassAmu);
             var scale = Math.Sqrt(sub.SpringFactor);
             for (var i = 0; i < chosen; i++)
