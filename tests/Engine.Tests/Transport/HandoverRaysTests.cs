@@ -4,7 +4,6 @@ using LatticeSweep.Engine.Springs;
 using LatticeSweep.Engine.Tests.Support;
 using LatticeSweep.Engine.Transport;
 using LatticeSweep.Engine.Units;
-using MathNet.Numerics.Integration;
 
 namespace LatticeSweep.Engine.Tests.Transport;
 
@@ -35,7 +34,7 @@ public class HandoverRaysTests
             new ConductivityOptions { Constant = new ConstantScattering(tauPs) }, temperatures);
         foreach (var (row, r) in result.ByTemperature.Zip(ratios))
         {
-            var expected = ScalarCubicReference(row.TemperatureK, (_, _) => tauPs * 1e-12);
+            var expected = Kappa.ScalarCubicBallIntegral(row.TemperatureK, (_, _) => tauPs * 1e-12);
             Approx.Equal(expected, row.KappaWPerMK, 3e-5, $"kappa at r = {r}, mesh {mesh}");
             Approx.Equal(row.KappaXxWPerMK, row.KappaZzWPerMK, 1e-9, $"kappa_xx = kappa_zz at r = {r}");
         }
@@ -87,7 +86,7 @@ public class HandoverRaysTests
         foreach (var (row, r) in result.ByTemperature.Zip(ratios))
         {
             var t = row.TemperatureK;
-            var expected = ScalarCubicReference(t, (omega, v) => 1 / ((v / (lengthNm * 1e-9)) + (coefficient * omega * omega * t * Math.Exp(-thetaK / (3 * t)))));
+            var expected = Kappa.ScalarCubicBallIntegral(t, (omega, v) => 1 / ((v / (lengthNm * 1e-9)) + (coefficient * omega * omega * t * Math.Exp(-thetaK / (3 * t)))));
             Approx.Equal(expected, row.KappaWPerMK, 3e-5, $"kappa at r = {r}");
         }
     }
@@ -168,45 +167,4 @@ public class HandoverRaysTests
     /// <summary>The temperature whose q_T = kB T / (hbar c) is <paramref name="ratio"/> mesh spacings (2 pi / a) / mesh.</summary>
     private static double TemperatureAt(double ratio, int mesh) =>
         ratio * 2 * Math.PI / (Crystals.SpacingNm * 1e-9 * mesh) * PhysicalConstants.HbarJS * SoundSpeedMPerS / PhysicalConstants.BoltzmannJPerK;
-
-    /// <summary>
-    /// (1 / (2 pi)^3) int d^3q C |v|^2 tau / 3 over |q| &lt; pi / a for the scalar simple cubic model,
-    /// tau(omega, |v|) given: cosines and azimuths of one octant by Gauss-Legendre (20 x 20; the integrand
-    /// is smooth in direction), 400 radial panels of 10 nodes.
-    /// </summary>
-    private static double ScalarCubicReference(double temperatureK, Func<double, double, double> tau)
-    {
-        var a = Crystals.SpacingNm * 1e-9;
-        var cosine = new GaussLegendreRule(0, 1, 20);
-        var azimuth = new GaussLegendreRule(0, Math.PI / 2, 20);
-        var radial = new GaussLegendreRule(0, 1, 10);
-        const int panels = 400;
-        var sum = 0.0;
-        for (var i = 0; i < cosine.Abscissas.Length; i++)
-        {
-            for (var j = 0; j < azimuth.Abscissas.Length; j++)
-            {
-                var s = Math.Sqrt(1 - (cosine.Abscissas[i] * cosine.Abscissas[i]));
-                var (ux, uy, uz) = (s * Math.Cos(azimuth.Abscissas[j]), s * Math.Sin(azimuth.Abscissas[j]), cosine.Abscissas[i]);
-                var line = 0.0;
-                for (var p = 0; p < panels; p++)
-                {
-                    for (var g = 0; g < radial.Abscissas.Length; g++)
-                    {
-                        var q = (p + radial.Abscissas[g]) / panels * Math.PI / a;
-                        var r = q * a / (2 * Math.PI);
-                        var (omega, vx, vy, vz) = Kappa.ScalarCubicMode(r * ux, r * uy, r * uz, Crystals.SpringNPerM, Crystals.MassAmu, Crystals.SpacingNm);
-                        var x = PhysicalConstants.HbarJS * omega / (PhysicalConstants.BoltzmannJPerK * temperatureK);
-                        var c = x > 700 ? 0 : Kappa.ModeHeatCapacity(omega, temperatureK);
-                        var v2 = (vx * vx) + (vy * vy) + (vz * vz);
-                        line += radial.Weights[g] / panels * Math.PI / a * q * q * c * v2 / 3 * tau(omega, Math.Sqrt(v2));
-                    }
-                }
-
-                sum += cosine.Weights[i] * azimuth.Weights[j] * line;
-            }
-        }
-
-        return 8 * sum / Math.Pow(2 * Math.PI, 3);
-    }
 }
