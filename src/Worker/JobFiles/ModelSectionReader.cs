@@ -369,11 +369,23 @@ internal static class ModelSectionReader
     {
         var kinds = sites.Select(s => s.Kind).Distinct(StringComparer.Ordinal).ToList();
         var potentials = new List<PotentialTerm>();
-        foreach (var t in tables)
+        var pairs = new Dictionary<(string, string), int>();
+        for (var i = 0; i < tables.Count; i++)
         {
+            var t = tables[i];
             t.RejectUnknown(PotentialKeys);
             var from = ReadReference(t, "from", kinds, "kind");
             var to = ReadReference(t, "to", kinds, "kind");
+            if (from is not null && to is not null)
+            {
+                // Told here, with the file and line; the engine's own check would only fail the points.
+                var pair = string.CompareOrdinal(from, to) <= 0 ? (from, to) : (to, from);
+                if (!pairs.TryAdd(pair, i))
+                {
+                    t.Error("to", $"the pair {from}-{to} already has a potential (potentials[{pairs[pair]}]); give one potential per pair of kinds");
+                }
+            }
+
             var form = t.String("form", required: true, allowed: [.. PotentialParameters.Keys]);
             var cutoff = t.Double("cutoff_nm", required: true, check: PotentialChecks["cutoff_nm"]);
             var shift = t.Bool("shift") ?? true;
@@ -455,7 +467,7 @@ internal static class ModelSectionReader
         var constant = t.Double("constant_nm", required: true, check: Checks.LengthNm);
         var (elementA, massA) = ReadAtom(t, "a", required: true);
         var (elementB, massB) = ReadAtom(t, "b", required: structure == TetrahedralStructure.ZincBlende);
-        if (structure == TetrahedralStructure.Diamond && (t.Has("element_b") || t.Has("mass_b_amu")))
+        if (structureName is not null && structure == TetrahedralStructure.Diamond && (t.Has("element_b") || t.Has("mass_b_amu")))
         {
             t.Error(t.Has("element_b") ? "element_b" : "mass_b_amu", "a diamond crystal has one kind of atom (site B takes site A's mass); remove this key or use structure = \"zinc_blende\"");
         }

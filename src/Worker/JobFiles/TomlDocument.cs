@@ -59,6 +59,12 @@ internal sealed partial class TomlDocument
             return null;
         }
 
+        if (SplitTableArrays.Find(syntax) is { } split)
+        {
+            problems.Add(split.At, split.Key, split.Message);
+            return null;
+        }
+
         var metadata = new TomlMetadataStore();
         var options = new TomlSerializerOptions { MetadataStore = metadata, SourceName = file };
         try

@@ -236,5 +236,12 @@ public sealed class InteractionJobFileTests : IDisposable
         Assert.Contains("one kind of atom", Single(TetrahedralJob(diamond), "model.tetrahedral.mass_b_amu").Message, StringComparison.Ordinal);
         var clash = TetrahedralJob(Tetrahedral).Replace("[model.tetrahedral]", "[model]\nlattice = \"fcc\"\n\n[model.tetrahedral]", StringComparison.Ordinal);
         Assert.Contains("builds the whole model", Single(clash.Replace("{model}", "", StringComparison.Ordinal), "model.lattice").Message, StringComparison.Ordinal);
+
+        // An unknown structure is the one problem: not also "a diamond crystal has one kind of atom" for site B's mass.
+        var unknown = TetrahedralJob(Tetrahedral.Replace("\"zinc_blende\"", "\"wurtzite\"", StringComparison.Ordinal));
+        var e = Some.Fails(_dir, unknown);
+        var p = Assert.Single(e.Problems);
+        Assert.Equal("model.tetrahedral.structure", p.Key);
+        Assert.Equal(Some.LineOf(unknown, "structure = \"wurtzite\""), p.Line);
     }
 }

@@ -122,4 +122,28 @@ public sealed class PotentialJobFileTests : IDisposable
         var unknownForm = LjJob("form = \"lennard-jones\"\nwell_depth_ev = 0.0104\nsigma_nm = 0.34\ncutoff_nm = 0.85");
         Assert.Contains("did you mean \"lennard_jones\"", Single(unknownForm, "model.potentials[0].form").Message, StringComparison.Ordinal);
     }
+
+    [Fact]
+    public void A_second_potential_on_the_same_pair_is_refused_at_its_line()
+    {
+        // Before, only the engine's model check saw it: `check` listed it in the forecast and `run` failed every point.
+        var text = LjJob("""
+            form = "lennard_jones"
+            well_depth_ev = 0.0104
+            sigma_nm = 0.34
+            cutoff_nm = 0.85
+
+            [[model.potentials]]
+            from = "X"
+            to = "X" # the second
+            form = "morse"
+            well_depth_ev = 0.01
+            r0_nm = 0.38
+            width_per_nm = 12.0
+            cutoff_nm = 0.85
+            """);
+        var p = Single(text, "model.potentials[1].to");
+        Assert.Contains("already has a potential (potentials[0])", p.Message, StringComparison.Ordinal);
+        Assert.Equal(Some.LineOf(text, "to = \"X\" # the second"), p.Line);
+    }
 }

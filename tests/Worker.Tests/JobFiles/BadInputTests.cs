@@ -98,6 +98,21 @@ public sealed class BadInputTests : IDisposable
     }
 
     [Fact]
+    public void An_array_of_tables_written_in_two_groups_is_refused_at_the_later_header()
+    {
+        // TOML allows [[model.sites]] again after other tables, but the object reader keeps only the last group:
+        // site A would vanish without a word. Refused where the second group starts.
+        var text = Some.ChainJob();
+        var second = text.IndexOf("[[model.sites]]", text.IndexOf("[[model.sites]]", StringComparison.Ordinal) + 1, StringComparison.Ordinal);
+        var moved = text[..second] + "[[model.springs]] # between the sites\nshell = 1\n\n" + text[second..];
+        var e = Some.Fails(_dir, moved);
+        var p = Assert.Single(e.Problems);
+        Assert.Equal("model.sites", p.Key);
+        Assert.Equal(Some.LineOf(moved, "# between the sites") + 3, p.Line);
+        Assert.Contains("write all [[model.sites]] tables one after another", p.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Unknown_section_suggests_the_nearest_section()
     {
         var text = Some.ChainJob() + "\n[outptu]\ndos_bins = 10\n";
