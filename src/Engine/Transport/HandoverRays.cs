@@ -57,12 +57,7 @@ internal sealed class HandoverRays
     public static HandoverRays For(LongWaveHandover handover, CompiledCrystal crystal, IReadOnlyList<int> mesh, double[] temperaturesK, ScatteringRates scattering)
     {
         var lattice = crystal.Lattice;
-        var edges = new Vec3[3];
-        for (var i = 0; i < 3; i++)
-        {
-            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
-        }
-
+        var edges = GammaCellIntegrator.Edges(lattice, mesh);
         var volume = Math.Abs(edges[0].Dot(edges[1].Cross(edges[2])));
         var scale = handover.OutsideM / Math.Cbrt(3 * volume / (4 * Math.PI));
         var on = temperaturesK.Where((_, t) => handover.On[t]).ToArray();

@@ -99,7 +99,7 @@ internal sealed class LongWaveHandover
     public static LongWaveHandover? Plan(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK)
     {
         var d = lattice.Dimension;
-        var (inradius, circumradius, spacing, zone) = Geometry(Edges(lattice, mesh), lattice);
+        var (inradius, circumradius, spacing, zone) = Geometry(GammaCellIntegrator.Edges(lattice, mesh), lattice);
         // 3D: out to the zone's limit. Rays integrate f w at about the same cost however far they reach,
         // and the mesh's one point per cell follows f (1 - w) only where f is smooth on the mesh's scale:
         // a simple cubic model with next-nearest springs a twentieth of the nearest (soft transverse
@@ -145,7 +145,7 @@ internal sealed class LongWaveHandover
             return null;
         }
 
-        var (inradius, circumradius, spacing, zone) = Geometry(Edges(lattice, [.. mesh]), lattice);
+        var (inradius, circumradius, spacing, zone) = Geometry(GammaCellIntegrator.Edges(lattice, mesh), lattice);
         return zone < circumradius + (minimumWidthSpacings * spacing) ? null : HandoverRays.NodesPerRay(inradius, zone, spacing);
     }
 
@@ -162,7 +162,7 @@ internal sealed class LongWaveHandover
     /// </summary>
     public LongWaveHandover? OnCoarserMesh(int[] mesh)
     {
-        var (_, circumradius, spacing, zone) = Geometry(Edges(_lattice, mesh), _lattice);
+        var (_, circumradius, spacing, zone) = Geometry(GammaCellIntegrator.Edges(_lattice, mesh), _lattice);
         var outside = _lattice.Dimension == 3 ? zone : Math.Min(circumradius + (WidthSpacings * spacing), zone);
         return outside < circumradius + (CheckMinimumWidthSpacings * spacing)
             ? null
@@ -302,17 +302,6 @@ internal sealed class LongWaveHandover
         var inradius = Math.Min(area / edges[1].Length, area / edges[0].Length) / 2;
         var circumradius = Math.Max((edges[0] + edges[1]).Length, (edges[0] - edges[1]).Length) / 2;
         return (inradius, circumradius, spacing, zone);
-    }
-
-    private static Vec3[] Edges(Lattice lattice, int[] mesh)
-    {
-        var edges = new Vec3[lattice.Dimension];
-        for (var i = 0; i < edges.Length; i++)
-        {
-            edges[i] = lattice.ReciprocalVector(i) / mesh[i];
-        }
-
-        return edges;
     }
 
     /// <summary>
