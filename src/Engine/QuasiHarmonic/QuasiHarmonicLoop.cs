@@ -49,7 +49,7 @@ internal static class QuasiHarmonicLoop
             return UnstableAsGiven(main, model, sample, options, statics, temperatures, ct);
         }
 
-        var lean = harmonic with { Dispersion = null, PartialDos = false, MeanSquareDisplacement = false, ModeListMaxModes = 0 };
+        var lean = harmonic with { Dispersion = null, PartialDos = false, MeanSquareDisplacement = false, ModeListMaxModes = 0, MeshCheck = false };
 
         // Model at the static minimum with its cutoffs there; each volume scales both from it.
         var atMinimum = model.Scaled(s0);

@@ -23,6 +23,9 @@ public sealed record PointResult(
     /// <summary>Standard errors of the numbers that are averages over random vectors or configurations; null for exact results.</summary>
     public StatisticalErrors? Errors { get; init; }
 
+    /// <summary>Bulk points with the mesh check on: how much the thermal numbers move on the half-density mesh; null otherwise.</summary>
+    public MeshChange? MeshChange { get; init; }
+
     /// <summary>For a disordered sample: the same sample ordered as its virtual crystal (mean masses and springs), so the effect of disorder is one difference.</summary>
     public PointResult? Ordered { get; init; }
 

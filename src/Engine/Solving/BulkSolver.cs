@@ -43,7 +43,8 @@ internal static class BulkSolver
             $"a {sample.M1}x{sample.M2}x{sample.M3} mesh with {branches} branches needs about {bytes / (1 << 20)} MiB, more than the {options.MemoryLimitBytes / (1 << 20)} MiB allowed; use a coarser mesh, or turn off partial DOS and displacements");
     }
 
-    public static SpectrumOutcome Solve(ModeSolver solver, BulkSample sample, SolveOptions options, ModeSink sink, CancellationToken ct)
+    /// <param name="checkMesh">The half-density mesh of the mesh check: its arrays are kept apart from the main mesh's, so a sweep keeps both.</param>
+    public static SpectrumOutcome Solve(ModeSolver solver, BulkSample sample, SolveOptions options, ModeSink sink, CancellationToken ct, bool checkMesh = false)
     {
         var n = solver.Size;
         var grid = new PeriodicGrid(sample.M1, sample.M2, sample.M3);
@@ -53,18 +54,20 @@ internal static class BulkSolver
         }
 
         var wantWeights = sink.WantsChannelFractions || options.PartialDos;
-        var frequencies = TakeKept(ref keptFrequencies, grid.Count * n);
-        var weights = wantWeights ? TakeKept(ref keptWeights, grid.Count * n * n) : null;
+        ref var keptF = ref checkMesh ? ref keptCheckFrequencies : ref keptFrequencies;
+        ref var keptW = ref checkMesh ? ref keptCheckWeights : ref keptWeights;
+        var frequencies = TakeKept(ref keptF, grid.Count * n);
+        var weights = wantWeights ? TakeKept(ref keptW, grid.Count * n * n) : null;
         try
         {
             return Solve(solver, sample, options, sink, grid, frequencies, weights, ct);
         }
         finally
         {
-            ReturnKept(ref keptFrequencies, frequencies);
+            ReturnKept(ref keptF, frequencies);
             if (weights is not null)
             {
-                ReturnKept(ref keptWeights, weights);
+                ReturnKept(ref keptW, weights);
             }
         }
     }
@@ -83,6 +86,12 @@ internal static class BulkSolver
 
     [ThreadStatic]
     private static double[]? keptWeights;
+
+    [ThreadStatic]
+    private static double[]? keptCheckFrequencies;
+
+    [ThreadStatic]
+    private static double[]? keptCheckWeights;
 
     private const long KeptBytesLimit = 64L << 20;
 

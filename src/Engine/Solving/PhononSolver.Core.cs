@@ -45,7 +45,13 @@ public static partial class PhononSolver
         var zeroPointDivergent = sample is BulkSample && model.Lattice.Dimension == 2 && options.MeanSquareDisplacement
             ? QuadraticLongWaves.Channels(solver, speeds)
             : null;
-        var result = Transport.ConductivityStep.Attach(Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion, zeroPointDivergent), conductivity);
+        var assembled = Assemble(model, crystal, options, temperatures, outcome, speeds, dispersion, zeroPointDivergent);
+        if (sample is BulkSample bulkSample)
+        {
+            assembled = assembled with { MeshChange = CheckMesh(model, crystal, solver, bulkSample, options, temperatures, assembled, speeds, zeroPointDivergent, ct) };
+        }
+
+        var result = Transport.ConductivityStep.Attach(assembled, conductivity);
         return ModelPropertiesStep.Attach(result, model, crystal, staticLattice);
     }
 
@@ -64,6 +70,11 @@ public static partial class PhononSolver
                 break;
             case BulkSample b:
                 solves = ((b.PointCount + 1) / 2) + LongWaveSolves(model, b, options);
+                if (options.MeshCheck && MeshCheckSample(b, model.Lattice.Dimension) is { } half)
+                {
+                    solves += ((half.PointCount + 1) / 2) + LongWaveSolves(model, half, options);
+                }
+
                 bytes = BulkSolver.EstimateBytes(b.PointCount, n, vectors);
                 break;
             case RealSpaceSample r:

@@ -33,6 +33,12 @@ public sealed record SolveOptions
     /// <summary>Exact list of distinct frequencies of a finite crystal, when it has at most this many modes (0 = never).</summary>
     public long ModeListMaxModes { get; init; } = 20_000;
 
+    /// <summary>
+    /// Bulk meshes: solve the thermal sums again on the half-density mesh and report how much each
+    /// number changes (<see cref="Results.PointResult.MeshChange"/>); about 1/2^d of the mesh's work more.
+    /// </summary>
+    public bool MeshCheck { get; init; } = true;
+
     /// <summary>Upper bound on the working memory a finite crystal may claim, in bytes.</summary>
     public long MemoryLimitBytes { get; init; } = 2L << 30;
 

@@ -105,7 +105,8 @@ internal static class ChunkTables
         var confined = result.ConfinedConductivity?.ByTemperature ?? [];
         var k = i < kappa.Length && kappa[i].TemperatureK == thermal[i].TemperatureK ? kappa[i] : null;
         var errors = result.Errors?.Thermal is { } e && i < e.Length ? e[i] : null;
-        return new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors, OrderedCvJPerMolK = i < ordered.Length ? ordered[i].HeatCapacityJPerMolK : null, Confined = i < confined.Length ? confined[i] : null };
+        var meshChange = result.MeshChange is { } m && i < m.Thermal.Length ? m : null;
+        return new ThermalValue(thermal[i], k) { PeriodicCvJPerMolK = i < periodic.Length ? periodic[i] : null, StandardErrors = errors, OrderedCvJPerMolK = i < ordered.Length ? ordered[i].HeatCapacityJPerMolK : null, Confined = i < confined.Length ? confined[i] : null, MeshChange = meshChange?.Thermal[i], MsdMeshChangeNm2 = meshChange?.MsdNm2[i] };
     }
 
     private static IEnumerable<RowOf<LayerDosValue>> LayerDosRows(PointOutcome o)

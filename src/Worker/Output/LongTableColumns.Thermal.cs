@@ -36,6 +36,11 @@ internal static partial class LongTableColumns
         var kappaZz = Column("kappa_zz_w_per_m_k");
         var kappa = Column("kappa_w_per_m_k");
         var meshChange = Column("kappa_mesh_change");
+        var energyChange = Column("internal_energy_mesh_change_j_per_mol");
+        var freeChange = Column("free_energy_mesh_change_j_per_mol");
+        var entropyChange = Column("entropy_mesh_change_j_per_mol_k");
+        var cvChange = Column("cv_mesh_change_j_per_mol_k");
+        var msdChange = Column("msd_mesh_change_nm2");
         var periodicCv = Column("periodic_cv_j_per_mol_k");
         var cvRatio = Column("cv_ratio_to_periodic");
         var energyError = Column("internal_energy_stderr_j_per_mol");
@@ -78,6 +83,15 @@ internal static partial class LongTableColumns
                     meshChange[row] = ResultSchemas.NullIfNaN(k.MeshRelativeChange);
                 }
 
+                if (v.MeshChange is { } c)
+                {
+                    energyChange[row] = ResultSchemas.NullIfNaN(c.InternalEnergyJPerMol);
+                    freeChange[row] = ResultSchemas.NullIfNaN(c.FreeEnergyJPerMol);
+                    entropyChange[row] = ResultSchemas.NullIfNaN(c.EntropyJPerMolK);
+                    cvChange[row] = ResultSchemas.NullIfNaN(c.HeatCapacityJPerMolK);
+                }
+
+                msdChange[row] = ResultSchemas.NullIfNaN(v.MsdMeshChangeNm2);
                 periodicCv[row] = v.PeriodicCvJPerMolK;
                 cvRatio[row] = v.PeriodicCvJPerMolK is { } periodic && periodic > 0 && double.IsFinite(t.HeatCapacityJPerMolK) ? t.HeatCapacityJPerMolK / periodic : null;
                 if (v.StandardErrors is { } e)

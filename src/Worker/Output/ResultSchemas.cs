@@ -29,6 +29,12 @@ internal readonly record struct ThermalValue(ThermalRow Thermal, ConductivityRow
 
     /// <summary>Conductivity from the confined modes of a film or wire at this temperature.</summary>
     public ConductivityRow? Confined { get; init; }
+
+    /// <summary>Bulk points: U, F, S, Cv on this mesh minus on the half-density mesh (null without the mesh check).</summary>
+    public ThermalRow? MeshChange { get; init; }
+
+    /// <summary>Bulk points: the change of largest size of the mean-square displacement on the half-density mesh, nm^2.</summary>
+    public double? MsdMeshChangeNm2 { get; init; }
 }
 
 /// <summary>One value of a layer's density of states.</summary>
@@ -347,6 +353,7 @@ internal sealed class ResultSchemas
             C<PointOutcome>("kpm_random_vectors", ColumnType.Int32, "", "random vectors of its stochastic trace", o => F(o)?.KpmRandomVectors),
             C<PointOutcome>("kpm_resolution_thz", ColumnType.Double, "THz", "its frequency resolution near zero, sqrt(pi a / moments)", o => F(o)?.KpmResolutionThz),
             .. ErrorColumns(),
+            .. MeshChangeColumns(),
             .. OrderedColumns(),
             C<PointOutcome>("kappa_confined_w_per_m_k", ColumnType.Double, "W/(m K)", "films and wires: conductivity from their own confined modes at the reference temperature, mean over the periodic directions (same scattering channels as kappa_w_per_m_k, which uses the periodic crystal's modes)", o => V(o.Result?.ConfinedConductivity?.AtReference.KappaWPerMK)),
             C<PointOutcome>("kappa_confined_1_w_per_m_k", ColumnType.Double, "W/(m K)", "along the first periodic lattice direction", o => V(o.Result?.ConfinedConductivity?.AtReference.KappaXxWPerMK)),
@@ -390,6 +397,26 @@ internal sealed class ResultSchemas
             C<PointOutcome>("msd_surface_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_surface_nm2", o => E(o)?.MsdSurfaceNm2),
             C<PointOutcome>("msd_interior_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_interior_nm2", o => E(o)?.MsdInteriorNm2),
             C<PointOutcome>("cv_ratio_stderr", ColumnType.Double, "1", "standard error of cv_ratio_to_periodic (configurations)", o => E(o)?.CvRatioToPeriodic),
+        ];
+    }
+
+    /// <summary>
+    /// Bulk points: how much the summary's thermal numbers move on the half-density mesh (this mesh's
+    /// value minus the check mesh's); empty for finite crystals, samples built in real space, unstable
+    /// points, meshes too small to halve, and with [output] mesh_check = false.
+    /// </summary>
+    private static IEnumerable<TableColumn<PointOutcome>> MeshChangeColumns()
+    {
+        static MeshChange? M(PointOutcome o) => o.Result?.MeshChange;
+        return
+        [
+            C<PointOutcome>("thermal_check_mesh", ColumnType.Text, "", "the half-density mesh the thermal numbers were checked against", o => M(o) is { } m ? string.Join('x', m.CheckMesh) : null),
+            C<PointOutcome>("cv_mesh_change_j_per_mol_k", ColumnType.Double, "J/(mol K)", "cv_j_per_mol_k on this mesh minus on the check mesh (an indicator of the mesh error, not an error bar)", o => V(M(o)?.HeatCapacityJPerMolK)),
+            C<PointOutcome>("entropy_mesh_change_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy_j_per_mol_k on this mesh minus on the check mesh", o => V(M(o)?.EntropyJPerMolK)),
+            C<PointOutcome>("free_energy_mesh_change_j_per_mol", ColumnType.Double, "J/mol", "free_energy_j_per_mol on this mesh minus on the check mesh", o => V(M(o)?.FreeEnergyJPerMol)),
+            C<PointOutcome>("internal_energy_mesh_change_j_per_mol", ColumnType.Double, "J/mol", "internal_energy_j_per_mol on this mesh minus on the check mesh", o => V(M(o)?.InternalEnergyJPerMol)),
+            C<PointOutcome>("zero_point_energy_mesh_change_j_per_mol", ColumnType.Double, "J/mol", "zero_point_energy_j_per_mol on this mesh minus on the check mesh", o => V(M(o)?.ZeroPointEnergyJPerMol)),
+            C<PointOutcome>("dos_mesh_change", ColumnType.Double, "1", "largest difference between the cumulative densities of states of this mesh and the check mesh, as a fraction of all states", o => V(M(o)?.DosStateFraction)),
         ];
     }
 
@@ -529,6 +556,11 @@ internal sealed class ResultSchemas
             C<RowOf<ThermalValue>>("kappa_zz_w_per_m_k", ColumnType.Double, w, "along z (empty for a chain or sheet)", r => V(r.Item.Conductivity?.KappaZzWPerMK)),
             C<RowOf<ThermalValue>>("kappa_w_per_m_k", ColumnType.Double, w, "mean over the lattice's directions (trace/3 in 3D); +Infinity when the channels leave modes unscattered", r => V(r.Item.Conductivity?.KappaWPerMK)),
             C<RowOf<ThermalValue>>("kappa_mesh_change", ColumnType.Double, "1", "relative change of kappa from the half-density mesh (bulk only)", r => V(r.Item.Conductivity?.MeshRelativeChange)),
+            C<RowOf<ThermalValue>>("internal_energy_mesh_change_j_per_mol", ColumnType.Double, "J/mol", "internal_energy_j_per_mol on this mesh minus on the half-density mesh (bulk; an indicator of the mesh error, not an error bar)", r => V(r.Item.MeshChange?.InternalEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("free_energy_mesh_change_j_per_mol", ColumnType.Double, "J/mol", "free_energy_j_per_mol on this mesh minus on the half-density mesh", r => V(r.Item.MeshChange?.FreeEnergyJPerMol)),
+            C<RowOf<ThermalValue>>("entropy_mesh_change_j_per_mol_k", ColumnType.Double, "J/(mol K)", "entropy_j_per_mol_k on this mesh minus on the half-density mesh", r => V(r.Item.MeshChange?.EntropyJPerMolK)),
+            C<RowOf<ThermalValue>>("cv_mesh_change_j_per_mol_k", ColumnType.Double, "J/(mol K)", "cv_j_per_mol_k on this mesh minus on the half-density mesh", r => V(r.Item.MeshChange?.HeatCapacityJPerMolK)),
+            C<RowOf<ThermalValue>>("msd_mesh_change_nm2", ColumnType.Double, "nm^2", "the change of largest size (over sites and directions) of the mean-square displacement on the half-density mesh (3D bulk)", r => V(r.Item.MsdMeshChangeNm2)),
             C<RowOf<ThermalValue>>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of the periodic crystal of the same size (samples with boundaries, shapes or disorder)", r => r.Item.PeriodicCvJPerMolK),
             C<RowOf<ThermalValue>>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k over periodic_cv_j_per_mol_k", r => r.Item.PeriodicCvJPerMolK is { } p && p > 0 && double.IsFinite(r.Item.Thermal.HeatCapacityJPerMolK) ? r.Item.Thermal.HeatCapacityJPerMolK / p : null),
             C<RowOf<ThermalValue>>("internal_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of internal_energy_j_per_mol (random vectors or configurations; empty for exact sums)", r => V(r.Item.StandardErrors?.InternalEnergyJPerMol)),

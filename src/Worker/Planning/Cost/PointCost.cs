@@ -177,7 +177,8 @@ public static class PointCost
                     : b.PointCount;
                 // With eigenvectors the long waves cost more than mesh solves (their channel fractions,
                 // one ray at a time): a term of their own, on top of their count among the solves.
-                return new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, cells * n * simplices, temperatures * fineBins, conductivity, vectors ? longWaves : 0);
+                var mesh = new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, cells * n * simplices, temperatures * fineBins, conductivity, vectors ? longWaves : 0);
+                return WithMeshCheck(mesh, model, b, options);
             }
 
             case RealSpaceSample:
@@ -192,5 +193,29 @@ public static class PointCost
             default:
                 throw new ArgumentException($"unknown sample type {sample.GetType().Name}", nameof(sample));
         }
+    }
+
+    /// <summary>
+    /// The mesh check (<see cref="SolveOptions.MeshCheck"/>): the same bulk work on the half-density mesh
+    /// without partial DOS or conductivity, added term by term (its fixed per-point work is the point's).
+    /// </summary>
+    private static Work WithMeshCheck(Work mesh, CrystalModel model, BulkSample sample, SolveOptions options)
+    {
+        if (!options.MeshCheck || PhononSolver.MeshCheckSample(sample, model.Lattice.Dimension) is not { } half)
+        {
+            return mesh;
+        }
+
+        var c = WorkOf(model, half, options with { MeshCheck = false, PartialDos = false, Conductivity = null, Dispersion = null });
+        return mesh with
+        {
+            EigenSolves = mesh.EigenSolves + c.EigenSolves,
+            EigenSolvesN3 = mesh.EigenSolvesN3 + c.EigenSolvesN3,
+            VectorSolves = mesh.VectorSolves + c.VectorSolves,
+            VectorSolvesN3 = mesh.VectorSolvesN3 + c.VectorSolvesN3,
+            SimplexWork = mesh.SimplexWork + c.SimplexWork,
+            TemperatureBins = mesh.TemperatureBins + c.TemperatureBins,
+            LongWaveVectorSolves = mesh.LongWaveVectorSolves + c.LongWaveVectorSolves,
+        };
     }
 }

@@ -44,6 +44,12 @@ internal static class CanonicalSpec
             .Append(" partial="u8).Flag(options.PartialDos)
             .Append(" modes="u8).I(options.ModeListMaxModes)
             .Append(" memory="u8).I(options.MemoryLimitBytes).Append('\n');
+        // Written only when off, so the ids of points with the default mesh check do not change.
+        if (!options.MeshCheck)
+        {
+            w.Append("mesh_check off\n"u8);
+        }
+
         if (options.Dispersion is { } path)
         {
             w.Append("dispersion per="u8).I(path.PointsPerSegment);
