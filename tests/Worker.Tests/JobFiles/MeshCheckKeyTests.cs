@@ -1,0 +1,39 @@
+using LatticeSweep.Worker.Tests.Support;
+
+namespace LatticeSweep.Worker.Tests.JobFiles;
+
+/// <summary>
+/// <c>[output] mesh_check</c>: on by default, off on request, a clear error for a value that is not a
+/// boolean; point ids change only when it is off (invented demo chain).
+/// </summary>
+public sealed class MeshCheckKeyTests : IDisposable
+{
+    private const string Bulk = "kind = \"bulk\"\nmesh = 16";
+    private readonly TempDirectory _dir = new();
+
+    public void Dispose() => _dir.Dispose();
+
+    [Fact]
+    public void Mesh_check_is_on_by_default_and_off_when_asked_with_its_own_point_ids()
+    {
+        var on = Some.Load(_dir, Some.ChainJob(sample: Bulk));
+        var explicitOn = Some.Load(_dir, Some.ChainJob(sample: Bulk, output: "mesh_check = true"), "on.toml");
+        var off = Some.Load(_dir, Some.ChainJob(sample: Bulk, output: "mesh_check = false"), "off.toml");
+        Assert.True(on.Template.Options.MeshCheck);
+        Assert.False(off.Template.Options.MeshCheck);
+
+        // The default keeps the ids points had before the key existed; off is another computation.
+        Assert.Equal(on.Points[0].PointId, explicitOn.Points[0].PointId);
+        Assert.NotEqual(on.Points[0].PointId, off.Points[0].PointId);
+    }
+
+    [Fact]
+    public void A_mesh_check_that_is_not_a_boolean_is_refused_at_its_line()
+    {
+        var text = Some.ChainJob(sample: Bulk, output: "mesh_check = \"yes\"");
+        var e = Some.Fails(_dir, text);
+        var p = Assert.Single(e.Problems);
+        Assert.Contains("mesh_check", p.Key, StringComparison.Ordinal);
+        Assert.Equal(Some.LineOf(text, "mesh_check"), p.Line);
+    }
+}
