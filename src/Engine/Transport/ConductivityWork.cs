@@ -1,5 +1,6 @@
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Spectrum;
@@ -16,7 +17,7 @@ public static class ConductivityWork
     /// for a bulk mesh the long waves (<see cref="LongWaveCounts"/>): the q = 0 cell's rays, seven
     /// solves each (the optical branches, the long-wave slope and five nodes of the acoustic
     /// dispersion) and 240 radial nodes per acoustic branch and temperature, and the hand-over's node
-    /// solves (1D and 2D), each like a mesh point's. 0 when not asked.
+    /// solves (per mesh cell in 1D and 2D, along rays in 3D), each like a mesh point's. 0 when not asked.
     /// </summary>
     public static double EstimateFlops(CrystalModel model, Sample sample, SolveOptions options)
     {
@@ -42,42 +43,7 @@ public static class ConductivityWork
         var solves = (points / 2 * (passes == 2 ? 1 + Math.Pow(2, -d) : 1)) + nodes;
         return (solves + (7 * raysD)) * 36 * n * n * n
             + solves * n * temperatures * 100
-            + raysD * model.ComponentsPerSite * 240 * temperatures * 100
-            + HandoverRayFlops(model, sample, c, n, temperatures);
-    }
-
-    /// <summary>
-    /// 3D hand-over (<see cref="HandoverRays"/>): where the zone holds a window, the default face rule's
-    /// rays continued past the q = 0 cell, each with its radial nodes solved with vectors, and every mode
-    /// at every temperature. Counted whenever a window fits (the temperatures that use it are known only
-    /// after the long-wave solves), for the main mesh and the check mesh alike; panelled rules of strongly
-    /// anisotropic models take up to ~30 times the rays.
-    /// </summary>
-    private static double HandoverRayFlops(CrystalModel model, Sample sample, ConductivityOptions c, double n, int temperatures)
-    {
-        if (sample is not BulkSample b || model.Lattice.Dimension != 3)
-        {
-            return 0;
-        }
-
-        // The check mesh gets a window only where this mesh has one, down to fewer of its spacings
-        // (LongWaveHandover.OnCoarserMesh).
-        var rays = 3 * Math.Pow(GammaCellIntegrator.FaceNodes(3), 2);
-        var perNode = (36 * n * n * n) + (n * temperatures * 100);
-        if (LongWaveHandover.RayNodes3D(model.Lattice, [b.M1, b.M2, b.M3]) is not { } nodes)
-        {
-            return 0;
-        }
-
-        var total = rays * nodes * perNode;
-        int[] half = [b.M1 / 2, b.M2 / 2, b.M3 / 2];
-        if (c.CheckMeshConvergence && half.Min() >= 1
-            && LongWaveHandover.RayNodes3D(model.Lattice, half, LongWaveHandover.CheckMinimumWidthSpacings) is { } coarseNodes)
-        {
-            total += rays * coarseNodes * perNode;
-        }
-
-        return total;
+            + raysD * model.ComponentsPerSite * 240 * temperatures * 100;
     }
 
     /// <summary>
@@ -101,7 +67,7 @@ public static class ConductivityWork
 
         var d = model.Lattice.Dimension;
         var passes = c.CheckMeshConvergence ? 2 : 1;
-        var defaultRays = passes * d * (int)Math.Pow(GammaCellIntegrator.FaceNodes(d), d - 1);
+        var defaultRays = passes * CellFaceRule.Uniform(GammaCellIntegrator.FaceNodes(d)).RayCount(d);
         CompiledCrystal crystal;
         try
         {
@@ -120,13 +86,22 @@ public static class ConductivityWork
         var faceRule = Dos.LongWaveFaceRule.ChooseForConductivity(crystal, GammaCellIntegrator.Edges(crystal.Lattice, mesh), temperatures, lowFrequencyHeavy);
         var rays = passes * faceRule.RayCount(d);
 
+        // The hand-over as the calculator plans it: only where some temperature uses it, on the check mesh
+        // only where that mesh holds a window, and in 3D along rays on the rule the window itself asks for.
         var handover = LongWaveHandover.Plan(new ModeSolver(new DynamicalMatrix(crystal)), crystal.Lattice, mesh, temperatures);
-        var nodes = handover?.NodeSolveCount() ?? 0;
-        if (c.CheckMeshConvergence && handover?.OnCoarserMesh([mesh[0] / 2, d >= 2 ? mesh[1] / 2 : 1, d >= 3 ? mesh[2] / 2 : 1]) is { } coarse)
+        var nodes = NodeSolves(handover, crystal, mesh, temperatures, lowFrequencyHeavy);
+        int[] half = [mesh[0] / 2, d >= 2 ? mesh[1] / 2 : 1, d >= 3 ? mesh[2] / 2 : 1];
+        if (c.CheckMeshConvergence && handover?.OnCoarserMesh(half) is { } coarse)
         {
-            nodes += coarse.NodeSolveCount();
+            nodes += NodeSolves(coarse, crystal, half, temperatures, lowFrequencyHeavy);
         }
 
         return (rays, nodes);
     }
+
+    /// <summary>A pass's hand-over node solves: per mesh cell in 1D and 2D, along <see cref="HandoverRays"/> in 3D.</summary>
+    private static int NodeSolves(LongWaveHandover? handover, CompiledCrystal crystal, int[] mesh, double[] temperatures, bool lowFrequencyHeavy) =>
+        handover is null ? 0
+        : crystal.Lattice.Dimension == 3 ? HandoverRays.For(handover, crystal, mesh, temperatures, lowFrequencyHeavy).NodeSolveCount()
+        : handover.NodeSolveCount();
 }

@@ -55,14 +55,41 @@ internal sealed class HandoverRays
     /// rule is chosen as for a cell of the window's volume at the lowest such temperature.
     /// </summary>
     public static HandoverRays For(LongWaveHandover handover, CompiledCrystal crystal, IReadOnlyList<int> mesh, double[] temperaturesK, ScatteringRates scattering)
+        => For(handover, crystal, mesh, temperaturesK, scattering.UmklappOn || scattering.PointDefectOn);
+
+    /// <summary>As above, with the scattering reduced to what the rule's choice reads (the forecast has no rates).</summary>
+    public static HandoverRays For(LongWaveHandover handover, CompiledCrystal crystal, IReadOnlyList<int> mesh, double[] temperaturesK, bool lowFrequencyHeavy)
     {
         var lattice = crystal.Lattice;
         var edges = GammaCellIntegrator.Edges(lattice, mesh);
         var volume = Math.Abs(edges[0].Dot(edges[1].Cross(edges[2])));
         var scale = handover.OutsideM / Math.Cbrt(3 * volume / (4 * Math.PI));
         var on = temperaturesK.Where((_, t) => handover.On[t]).ToArray();
-        var rule = LongWaveFaceRule.ChooseForConductivity(crystal, [.. edges.Select(e => scale * e)], on, scattering.UmklappOn || scattering.PointDefectOn);
+        var rule = LongWaveFaceRule.ChooseForConductivity(crystal, [.. edges.Select(e => scale * e)], on, lowFrequencyHeavy);
         return new HandoverRays(handover, CentredCellRays.Build(3, edges, rule).Rays);
+    }
+
+    /// <summary>
+    /// The solves <see cref="Integrate"/> makes: every radial node of every ray where the window is not 0
+    /// (for the run-time forecast, <see cref="ConductivityWork"/>; the same loop without the solves).
+    /// </summary>
+    public int NodeSolveCount()
+    {
+        var count = 0;
+        foreach (var ray in _rays)
+        {
+            var edges = Edges(ray.LengthPerM, _handover.OutsideM, _handover.SpacingM);
+            for (var p = 0; p + 1 < edges.Count; p++)
+            {
+                var width = edges[p + 1] - edges[p];
+                foreach (var x in Panel.Abscissas)
+                {
+                    count += _handover.Window(edges[p] + (width * x)) > 0 ? 1 : 0;
+                }
+            }
+        }
+
+        return count;
     }
 
     /// <summary>Radial nodes on a ray whose face point is at <paramref name="startM"/> (one list per ray; the forecast counts them).</summary>

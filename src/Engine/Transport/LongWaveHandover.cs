@@ -135,21 +135,6 @@ internal sealed class LongWaveHandover
     }
 
     /// <summary>
-    /// The 3D window's radial nodes on a ray from the q = 0 cell's nearest face and the mesh spacing, or
-    /// null where the zone holds no window (for the cost forecast: geometry only, no solves).
-    /// </summary>
-    internal static int? RayNodes3D(Lattice lattice, IReadOnlyList<int> mesh, double minimumWidthSpacings = MinimumWidthSpacings)
-    {
-        if (lattice.Dimension != 3)
-        {
-            return null;
-        }
-
-        var (inradius, circumradius, spacing, zone) = Geometry(GammaCellIntegrator.Edges(lattice, mesh), lattice);
-        return zone < circumradius + (minimumWidthSpacings * spacing) ? null : HandoverRays.NodesPerRay(inradius, zone, spacing);
-    }
-
-    /// <summary>
     /// The same hand-over on the convergence check's coarser mesh: on at the same temperatures, the window
     /// planned for that mesh as for any (<see cref="WidthSpacings"/> of its spacings where its zone allows; 3D: out to
     /// its zone's limit, along rays), but

@@ -61,6 +61,23 @@ public class ConductivityWorkTests
     }
 
     [Fact]
+    public void Three_dimensional_hand_over_nodes_are_those_of_the_solvers_own_rays_and_none_where_no_temperature_uses_the_window()
+    {
+        // The forecast counted the default rule's 192 rays for every 3D window that fits, used or not. Now the
+        // count is the rays the calculator builds (HandoverRays.For, the window's own rule) times their nodes
+        // inside the window: none at 3000 K (no temperature uses the window), and more rays for the panelled
+        // 40 / 2 N/m model than for the 40 / 20 N/m one (common practice, no source: the same planning code).
+        var options = Options(new ConductivityOptions { Constant = new ConstantScattering(10), CheckMeshConvergence = false }, 4);
+        var mesh = BulkSample.Uniform(3, 24);
+        var (panelledRays, panelledNodes) = ConductivityWork.LongWaveCounts(Cubic(2), mesh, options);
+        var (plainRays, plainNodes) = ConductivityWork.LongWaveCounts(Cubic(20), mesh, options);
+        Assert.True(plainNodes > 0, $"hand-over node solves of the 40 / 20 N/m model on 24^3 at 4 K: {plainNodes}");
+        Assert.True(panelledNodes > plainNodes, $"node solves: panelled {panelledNodes} (cell rays {panelledRays}), plain {plainNodes} (cell rays {plainRays})");
+        var (_, hot) = ConductivityWork.LongWaveCounts(Cubic(20), mesh, Options(new ConductivityOptions { Constant = new ConstantScattering(10), CheckMeshConvergence = false }, 3000));
+        Assert.Equal(0, hot);
+    }
+
+    [Fact]
     public void A_sheet_with_a_flexural_branch_and_an_optical_floor_is_counted_with_two_ray_sets()
     {
         var options = new SolveOptions();
