@@ -35,9 +35,11 @@ public sealed record SolveOptions
 
     /// <summary>
     /// Bulk meshes: solve the thermal sums again on the half-density mesh and report how much each
-    /// number changes (<see cref="Results.PointResult.MeshChange"/>); about 1/2^d of the mesh's work more.
+    /// number changes (<see cref="Results.PointResult.MeshChange"/>). Off by default: the check mesh's
+    /// own long-wave rays and thermal sums make it cost 10 to 70 % of the point (bench/README.md,
+    /// Round 13 (mesh-signals)), not the 1/2^d of its mesh alone.
     /// </summary>
-    public bool MeshCheck { get; init; } = true;
+    public bool MeshCheck { get; init; }
 
     /// <summary>Upper bound on the working memory a finite crystal may claim, in bytes.</summary>
     public long MemoryLimitBytes { get; init; } = 2L << 30;

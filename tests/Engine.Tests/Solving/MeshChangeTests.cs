@@ -19,7 +19,7 @@ public class MeshChangeTests
     private static readonly double Kb = PhysicalConstants.BoltzmannJPerK;
     private static readonly double Hbar = PhysicalConstants.HbarJS;
     private static readonly double R = PhysicalConstants.GasConstantJPerMolK;
-    private static readonly SolveOptions Thermal = new() { TemperaturesK = [30, 100, 300], ReferenceTemperatureK = 30, MeanSquareDisplacement = false, PartialDos = false };
+    private static readonly SolveOptions Thermal = new() { TemperaturesK = [30, 100, 300], ReferenceTemperatureK = 30, MeanSquareDisplacement = false, PartialDos = false, MeshCheck = true };
 
     /// <summary>Einstein heat capacity of one mode in units of kB: x^2 / (4 sinh^2(x / 2)).</summary>
     private static double ModeCv(double omega, double t)
@@ -169,7 +169,7 @@ public class MeshChangeTests
     {
         // The definition, against two plain solves (common practice, no source): every number of the change
         // is the difference of the two meshes' numbers, and the summary's are the reference temperature's.
-        var options = new SolveOptions { TemperaturesK = [10, 50, 200], ReferenceTemperatureK = 50, DosBins = 80 };
+        var options = new SolveOptions { TemperaturesK = [10, 50, 200], ReferenceTemperatureK = 50, DosBins = 80, MeshCheck = true };
         var model = Crystals.RockSalt();
         var main = PhononSolver.Solve(model, BulkSample.Uniform(3, 8), options);
         var half = PhononSolver.Solve(model, BulkSample.Uniform(3, 4), options with { MeshCheck = false });
@@ -215,9 +215,10 @@ public class MeshChangeTests
     }
 
     [Fact]
-    public void No_change_for_finite_crystals_meshes_too_small_to_halve_or_with_the_check_off()
+    public void No_change_for_finite_crystals_meshes_too_small_to_halve_or_with_the_check_off_as_by_default()
     {
         var model = Crystals.ScalarSimpleCubic();
+        Assert.False(new SolveOptions().MeshCheck);
         Assert.Null(PhononSolver.Solve(model, FiniteSample.Create(4, 4, 4), Thermal).MeshChange);
         Assert.Null(PhononSolver.Solve(model, BulkSample.Uniform(3, 3), Thermal).MeshChange);
         Assert.Null(PhononSolver.Solve(model, BulkSample.Uniform(3, 8), Thermal with { MeshCheck = false }).MeshChange);

@@ -3,8 +3,8 @@ using LatticeSweep.Worker.Tests.Support;
 namespace LatticeSweep.Worker.Tests.JobFiles;
 
 /// <summary>
-/// <c>[output] mesh_check</c>: on by default, off on request, a clear error for a value that is not a
-/// boolean; point ids change only when it is off (invented demo chain).
+/// <c>[output] mesh_check</c>: off by default, on when asked, a clear error for a value that is not a
+/// boolean; point ids change only when it is on (invented demo chain).
 /// </summary>
 public sealed class MeshCheckKeyTests : IDisposable
 {
@@ -14,17 +14,17 @@ public sealed class MeshCheckKeyTests : IDisposable
     public void Dispose() => _dir.Dispose();
 
     [Fact]
-    public void Mesh_check_is_on_by_default_and_off_when_asked_with_its_own_point_ids()
+    public void Mesh_check_is_off_by_default_and_on_when_asked_with_its_own_point_ids()
     {
-        var on = Some.Load(_dir, Some.ChainJob(sample: Bulk));
-        var explicitOn = Some.Load(_dir, Some.ChainJob(sample: Bulk, output: "mesh_check = true"), "on.toml");
+        var byDefault = Some.Load(_dir, Some.ChainJob(sample: Bulk));
         var off = Some.Load(_dir, Some.ChainJob(sample: Bulk, output: "mesh_check = false"), "off.toml");
+        var on = Some.Load(_dir, Some.ChainJob(sample: Bulk, output: "mesh_check = true"), "on.toml");
+        Assert.False(byDefault.Template.Options.MeshCheck);
         Assert.True(on.Template.Options.MeshCheck);
-        Assert.False(off.Template.Options.MeshCheck);
 
-        // The default keeps the ids points had before the key existed; off is another computation.
-        Assert.Equal(on.Points[0].PointId, explicitOn.Points[0].PointId);
-        Assert.NotEqual(on.Points[0].PointId, off.Points[0].PointId);
+        // The default keeps the ids points had before the key existed; on is another computation.
+        Assert.Equal(byDefault.Points[0].PointId, off.Points[0].PointId);
+        Assert.NotEqual(byDefault.Points[0].PointId, on.Points[0].PointId);
     }
 
     [Fact]

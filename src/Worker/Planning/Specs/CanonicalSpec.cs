@@ -44,10 +44,10 @@ internal static class CanonicalSpec
             .Append(" partial="u8).Flag(options.PartialDos)
             .Append(" modes="u8).I(options.ModeListMaxModes)
             .Append(" memory="u8).I(options.MemoryLimitBytes).Append('\n');
-        // Written only when off, so the ids of points with the default mesh check do not change.
-        if (!options.MeshCheck)
+        // Written only when on, so the ids of points without the mesh check (the default) do not change.
+        if (options.MeshCheck)
         {
-            w.Append("mesh_check off\n"u8);
+            w.Append("mesh_check on\n"u8);
         }
 
         if (options.Dispersion is { } path)
