@@ -3,8 +3,8 @@ independent of the engine: each model's dynamical matrix written out here, its e
 and the zone average taken by nested cubes around q = 0 (each shell of cubes, halved in size level
 by level down to 2^-28 of the zone, by tensor Gauss-Legendre: the integrand is smooth away from
 q = 0, where sqrt of the eigenvalue has its cusp). Run: /usr/bin/python3 reference.py [n] (n Gauss
-nodes per axis per cube, default 8; the tables in docs/outside-checks.md Round 13 (mesh-signals)
-are the same with n = 12 within 1e-9 relative).
+nodes per axis per cube, default 8, which the tables in docs/outside-checks.md Round 13 (mesh-signals)
+use; n = 12 moves every number by less than 1e-10 relative in 2D and 3D and 3e-8 in 1D).
 
 Thermal functions per mode: Einstein's functions of x = hbar omega / kB T (any statistical-mechanics
 text, e.g. Kittel, Introduction to Solid State Physics, ch. 5; from memory). Per mole of atoms.
