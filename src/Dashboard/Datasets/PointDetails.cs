@@ -18,6 +18,7 @@ public static class PointDetails
     [
         ("Spectrum", c => c.Contains("freq", StringComparison.Ordinal) || c.Contains("gap", StringComparison.Ordinal) || c.StartsWith("worst_q", StringComparison.Ordinal) || c == "stable"),
         ("Sound", c => c.StartsWith("sound_", StringComparison.Ordinal)),
+        ("Mesh check (this mesh minus the half-density mesh)", c => c.Contains("_mesh_change", StringComparison.Ordinal) && !c.StartsWith("kappa_", StringComparison.Ordinal) || c == "thermal_check_mesh"),
         ("Thermal at the reference temperature", c => c is "reference_temperature_k" || c.StartsWith("cv_", StringComparison.Ordinal) || c.StartsWith("entropy_", StringComparison.Ordinal)
             || c.StartsWith("free_energy", StringComparison.Ordinal) || c.StartsWith("internal_energy", StringComparison.Ordinal) || c.StartsWith("zero_point", StringComparison.Ordinal)),
         ("Debye temperatures", c => c.StartsWith("debye_", StringComparison.Ordinal)),
