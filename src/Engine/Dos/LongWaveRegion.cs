@@ -167,15 +167,25 @@ internal sealed class LongWaveRegion
     /// that, while longer rays are harder for the polynomial to follow. Unused directions take every
     /// cell. Null for a direction with one mesh point.
     /// <para>
-    /// Then, per acoustic branch k, the number of halvings h_k (K_i -> max(1, K_i >> h)) until branch k
-    /// stays below the lowest optical frequency of the mesh at every mesh point of its box, so the rays
+    /// Then, per acoustic branch k, the number of narrowing steps n_k (<see cref="Narrowed"/>) until branch
+    /// k stays below the lowest optical frequency of the mesh at every mesh point of its box, so the rays
     /// never follow a sorted branch through a crossing with an optical one. Sorted branches lie below
-    /// one another, so h_k never falls with k and the boxes nest. On a sheet this lets the flexural
+    /// one another, so n_k never falls with k and the boxes nest. On a sheet this lets the flexural
     /// branch keep a wide box where the in-plane cones meet a low optical branch near the box's
-    /// corners. In 1D and 3D every branch takes the last branch's count (the shared box, unchanged).
+    /// corners. In 1D and 3D every branch takes the last branch's count (the shared box).
+    /// </para>
+    /// <para>
+    /// In 2D and 3D a step takes one cell off each side, so the box ends at the last mesh shell below
+    /// the optical floor, the same q on every mesh that puts a shell there. Halving it (as before, and
+    /// still in 1D) cut 4 cells to 2 on a 24^3 mesh where 3 fit: the box reached a twelfth of the zone
+    /// on 24^3 but an eighth on 16^3 and 32^3, and the heat capacity of a crystal whose cones meet a
+    /// low optical branch at 10 K was 9.0e-3 low on 24^3 against 6.8e-3 on 16^3 and 1.1e-3 on 32^3
+    /// (docs/outside-checks.md, Round 13 (optical-box)). A chain keeps halving: its error at 10-20 K
+    /// is the optical floor's and the sorted branches' kinks, which a wider acoustic box uncovers
+    /// rather than removes (measured there).
     /// </para>
     /// </summary>
-    internal static (int[] Half, int[] Halvings)? HalfWidths(BulkSample mesh, int d, int acoustic, int branches, double[] frequencyThz)
+    internal static (int[] Half, int[] Narrowings)? HalfWidths(BulkSample mesh, int d, int acoustic, int branches, double[] frequencyThz)
     {
         var half = new int[3];
         for (var i = 0; i < 3; i++)
@@ -187,10 +197,10 @@ internal sealed class LongWaveRegion
             }
         }
 
-        var halvings = new int[acoustic];
+        var narrowings = new int[acoustic];
         if (acoustic >= branches)
         {
-            return (half, halvings);
+            return (half, narrowings);
         }
 
         var lowestOptical = double.PositiveInfinity;
@@ -234,7 +244,7 @@ internal sealed class LongWaveRegion
                 if (!settled[k] && (tops[k] < lowestOptical || all1))
                 {
                     settled[k] = true;
-                    halvings[k] = h;
+                    narrowings[k] = h;
                 }
 
                 done &= settled[k];
@@ -247,32 +257,35 @@ internal sealed class LongWaveRegion
 
             for (var i = 0; i < d; i++)
             {
-                box[i] = Math.Max(1, box[i] / 2);
+                box[i] = Narrow(box[i], d);
             }
         }
 
         if (d != 2)
         {
-            Array.Fill(halvings, halvings[acoustic - 1]);
+            Array.Fill(narrowings, narrowings[acoustic - 1]);
         }
 
-        return (half, halvings);
+        return (half, narrowings);
     }
 
-    /// <summary>Half-widths after <paramref name="halvings"/> integer halvings (never below one cell).</summary>
-    internal static int[] Halved(int[] half, int d, int halvings)
+    /// <summary>Half-widths after <paramref name="steps"/> narrowing steps (<see cref="HalfWidths"/>; never below one cell).</summary>
+    internal static int[] Narrowed(int[] half, int d, int steps)
     {
         var result = (int[])half.Clone();
-        for (var h = 0; h < halvings; h++)
+        for (var h = 0; h < steps; h++)
         {
             for (var i = 0; i < d; i++)
             {
-                result[i] = Math.Max(1, result[i] / 2);
+                result[i] = Narrow(result[i], d);
             }
         }
 
         return result;
     }
+
+    /// <summary>One narrowing step of a half-width: one cell less in 2D and 3D, half (integer) in 1D.</summary>
+    private static int Narrow(int cells, int d) => Math.Max(1, d == 1 ? cells / 2 : cells - 1);
 
     private static int Wrap(int i, int m) => ((i % m) + m) % m;
 
