@@ -169,7 +169,8 @@ internal sealed class LongWaveRegion
     /// <para>
     /// Then, per acoustic branch k, the number of narrowing steps n_k (<see cref="Narrowed"/>) until the
     /// rays cannot follow branch k through a crossing with an optical branch: in 2D and 3D, in every ring
-    /// of its box (the mesh points a box holds and the next narrower one does not) branch k stays below
+    /// of its box (the mesh points a box holds and the next narrower one does not; q = 0 alone is the
+    /// innermost ring) branch k stays below
     /// the lowest optical frequency of that ring and of the ring inside it (to cross, two branches must
     /// meet at the same q); in 1D below the lowest optical frequency of the mesh. Sorted branches lie
     /// below one another, so n_k never falls with k and the boxes nest. On a sheet this lets the flexural
@@ -218,7 +219,8 @@ internal sealed class LongWaveRegion
             boxes.Add(Narrowed(boxes[^1], d, 1));
         }
 
-        var rings = boxes.Count;
+        // q = 0 is a ring of its own (index boxes.Count): the optical floor sits there, and the cones at 0.
+        var rings = boxes.Count + 1;
         var tops = new double[rings * acoustic];
         var bottoms = new double[rings];
         Array.Fill(bottoms, double.PositiveInfinity);
@@ -230,10 +232,16 @@ internal sealed class LongWaveRegion
             {
                 for (var i3 = Lo(2); i3 <= Hi(2); i3++)
                 {
+                    var (n1, n2, n3) = (i1 - (mesh[0] / 2), i2 - (mesh[1] / 2), i3 - (mesh[2] / 2));
                     var ring = 0;
-                    while (ring + 1 < rings && Holds(boxes[ring + 1], d, i1 - (mesh[0] / 2), i2 - (mesh[1] / 2), i3 - (mesh[2] / 2)))
+                    while (ring + 1 < boxes.Count && Holds(boxes[ring + 1], d, n1, n2, n3))
                     {
                         ring++;
+                    }
+
+                    if (n1 == 0 && n2 == 0 && n3 == 0)
+                    {
+                        ring = boxes.Count;
                     }
 
                     var p = (((long)Wrap(i1, mesh.M1) * mesh.M2) + Wrap(i2, mesh.M2)) * mesh.M3 + Wrap(i3, mesh.M3);
@@ -253,7 +261,7 @@ internal sealed class LongWaveRegion
         for (var k = 0; k < acoustic; k++)
         {
             var h = 0;
-            while (h + 1 < rings && !Fits(h, k))
+            while (h + 1 < boxes.Count && !Fits(h, k))
             {
                 h++;
             }
