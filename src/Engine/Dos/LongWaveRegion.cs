@@ -170,9 +170,9 @@ internal sealed class LongWaveRegion
     /// Then, per acoustic branch k, the number of narrowing steps n_k (<see cref="Narrowed"/>) until the
     /// rays cannot follow branch k through a crossing with an optical branch: in 2D and 3D, in every ring
     /// of its box (the mesh points a box holds and the next narrower one does not; q = 0 alone is the
-    /// innermost ring) branch k stays below
-    /// the lowest optical frequency of that ring and of the ring inside it (to cross, two branches must
-    /// meet at the same q); in 1D below the lowest optical frequency of the mesh. Sorted branches lie
+    /// innermost ring) branch k stays below the lowest optical frequency of that ring and of the ring
+    /// inside it (to cross, two branches must meet at the same q); in 1D below the lowest optical
+    /// frequency of the mesh. Sorted branches lie
     /// below one another, so n_k never falls with k and the boxes nest. On a sheet this lets the flexural
     /// branch keep a wide box where the in-plane cones meet a low optical branch near the box's corners.
     /// In 1D and 3D every branch takes the last branch's count (the shared box).
