@@ -349,8 +349,8 @@ internal sealed class ResultSchemas
             C<PointOutcome>("periodic_cells", ColumnType.Text, "", "cells per direction of the periodic crystal of the same size", o => F(o)?.PeriodicCells),
             C<PointOutcome>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of that periodic crystal at the reference temperature", o => F(o)?.PeriodicCvAtReferenceJPerMolK),
             C<PointOutcome>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k divided by periodic_cv_j_per_mol_k (the surface enhancement of an ordered sample; with disorder also the substitutes' effect)", o => Ratio(o)),
-            C<PointOutcome>("periodic_same_composition_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity at the reference temperature of the periodic crystal of the same cells and the sample's composition (a disordered sample's periodic virtual crystal; the host's otherwise)", o => F(o)?.PeriodicSameCompositionCvAtReferenceJPerMolK),
-            C<PointOutcome>("cv_ratio_to_periodic_same_composition", ColumnType.Double, "1", "cv_j_per_mol_k divided by periodic_same_composition_cv_j_per_mol_k: the surface enhancement, with or without disorder (standard error cv_stderr_j_per_mol_k over the same divisor)", o => SameCompositionRatio(o)),
+            C<PointOutcome>("periodic_ordered_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity at the reference temperature of the periodic crystal of the same cells and the sample's composition (a disordered sample's periodic virtual crystal; the host's otherwise)", o => F(o)?.PeriodicSameCompositionCvAtReferenceJPerMolK),
+            C<PointOutcome>("cv_ratio_to_periodic_ordered", ColumnType.Double, "1", "cv_j_per_mol_k over the heat capacity of the periodic crystal of the sample's composition, ordered: the surface enhancement, with or without disorder (its standard error: cv_stderr_j_per_mol_k over that heat capacity)", o => SameCompositionRatio(o)),
             C<PointOutcome>("kpm_moments", ColumnType.Int32, "", "Chebyshev moments of the kernel polynomial method (empty for dense solutions)", o => F(o)?.KpmMoments),
             C<PointOutcome>("kpm_random_vectors", ColumnType.Int32, "", "random vectors of its stochastic trace", o => F(o)?.KpmRandomVectors),
             C<PointOutcome>("kpm_resolution_thz", ColumnType.Double, "THz", "its frequency resolution near zero, sqrt(pi a / moments)", o => F(o)?.KpmResolutionThz),
@@ -377,10 +377,8 @@ internal sealed class ResultSchemas
             C<PointOutcome>("ordered_msd_surface_nm2", ColumnType.Double, "nm^2", "surface mean-square displacement of the virtual crystal", o => O(o)?.Surface?.MsdSurfaceNm2),
             C<PointOutcome>("ordered_msd_interior_nm2", ColumnType.Double, "nm^2", "interior mean-square displacement of the virtual crystal", o => O(o)?.Surface?.MsdInteriorNm2),
             C<PointOutcome>("ordered_cv_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of ordered_cv_j_per_mol_k over its own random vectors (kernel polynomial method; empty when exact); independent of cv_stderr_j_per_mol_k, so the error of cv - ordered_cv is the root of the sum of their squares", o => O(o)?.Errors?.HeatCapacityJPerMolK),
-            C<PointOutcome>("ordered_entropy_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of ordered_entropy_j_per_mol_k (as ordered_cv_stderr_j_per_mol_k)", o => O(o)?.Errors?.EntropyJPerMolK),
-            C<PointOutcome>("ordered_free_energy_stderr_j_per_mol", ColumnType.Double, "J/mol", "standard error of ordered_free_energy_j_per_mol (as ordered_cv_stderr_j_per_mol_k)", o => O(o)?.Errors?.FreeEnergyJPerMol),
-            C<PointOutcome>("ordered_msd_surface_stderr_nm2", ColumnType.Double, "nm^2", "standard error of ordered_msd_surface_nm2 (as ordered_cv_stderr_j_per_mol_k)", o => O(o)?.Errors?.MsdSurfaceNm2),
-            C<PointOutcome>("ordered_msd_interior_stderr_nm2", ColumnType.Double, "nm^2", "standard error of ordered_msd_interior_nm2 (as ordered_cv_stderr_j_per_mol_k)", o => O(o)?.Errors?.MsdInteriorNm2),
+            C<PointOutcome>("ordered_msd_surface_stderr_nm2", ColumnType.Double, "nm^2", "standard error of ordered_msd_surface_nm2 (over its own random vectors, as for its Cv)", o => O(o)?.Errors?.MsdSurfaceNm2),
+            C<PointOutcome>("ordered_msd_interior_stderr_nm2", ColumnType.Double, "nm^2", "standard error of ordered_msd_interior_nm2 (over its own random vectors, as for its Cv)", o => O(o)?.Errors?.MsdInteriorNm2),
         ];
     }
 
