@@ -167,15 +167,27 @@ internal sealed class LongWaveRegion
     /// that, while longer rays are harder for the polynomial to follow. Unused directions take every
     /// cell. Null for a direction with one mesh point.
     /// <para>
-    /// Then, per acoustic branch k, the number of halvings h_k (K_i -> max(1, K_i >> h)) until branch k
-    /// stays below the lowest optical frequency of the mesh at every mesh point of its box, so the rays
-    /// never follow a sorted branch through a crossing with an optical one. Sorted branches lie below
-    /// one another, so h_k never falls with k and the boxes nest. On a sheet this lets the flexural
-    /// branch keep a wide box where the in-plane cones meet a low optical branch near the box's
-    /// corners. In 1D and 3D every branch takes the last branch's count (the shared box, unchanged).
+    /// Then, per acoustic branch k, the number of narrowing steps n_k (<see cref="Narrowed"/>) until the
+    /// rays cannot follow branch k through a crossing with an optical branch: in 2D and 3D, in every ring
+    /// of its box (the mesh points a box holds and the next narrower one does not; q = 0 alone is the
+    /// innermost ring) branch k stays below the lowest optical frequency of that ring and of the ring
+    /// inside it (to cross, two branches must meet at the same q); in 1D below the lowest optical
+    /// frequency of the mesh. Sorted branches lie
+    /// below one another, so n_k never falls with k and the boxes nest. On a sheet this lets the flexural
+    /// branch keep a wide box where the in-plane cones meet a low optical branch near the box's corners.
+    /// In 1D and 3D every branch takes the last branch's count (the shared box).
+    /// </para>
+    /// <para>
+    /// Why rings, and one cell per step in 2D and 3D: the test against the optical floor anywhere (the
+    /// floor sits at q = 0, where the cones are at 0) and halving cut boxes to a fixed q, often short of
+    /// it: 24^3 kept two cells where three fit, and the heat capacity at 10 K of a crystal whose cones
+    /// meet a low optical branch was 9.0e-3 low on 24^3 against 6.8e-3 on 16^3; a square sheet with a
+    /// low optical branch was 3.5e-3 low on 32^2 (docs/outside-checks.md, Round 13 (optical-box)). A
+    /// chain keeps the old test and halving: its error at 10-20 K is the optical floor's and the sorted
+    /// branches' kinks, which a wider acoustic box uncovers rather than removes (measured there).
     /// </para>
     /// </summary>
-    internal static (int[] Half, int[] Halvings)? HalfWidths(BulkSample mesh, int d, int acoustic, int branches, double[] frequencyThz)
+    internal static (int[] Half, int[] Narrowings)? HalfWidths(BulkSample mesh, int d, int acoustic, int branches, double[] frequencyThz)
     {
         var half = new int[3];
         for (var i = 0; i < 3; i++)
@@ -187,10 +199,10 @@ internal sealed class LongWaveRegion
             }
         }
 
-        var halvings = new int[acoustic];
+        var narrowings = new int[acoustic];
         if (acoustic >= branches)
         {
-            return (half, halvings);
+            return (half, narrowings);
         }
 
         var lowestOptical = double.PositiveInfinity;
@@ -199,80 +211,120 @@ internal sealed class LongWaveRegion
             lowestOptical = Math.Min(lowestOptical, frequencyThz[(p * branches) + acoustic]);
         }
 
-        var settled = new bool[acoustic];
-        var tops = new double[acoustic];
-        var box = (int[])half.Clone();
-        for (var h = 0; ; h++)
+        // The boxes from the widest to the narrowest (every half-width 1), and each mesh point's ring: the
+        // narrowest box that still holds it. Per ring the acoustic branches' tops and the optical bottom.
+        var boxes = new List<int[]> { half };
+        while (!AllOne(boxes[^1], d))
         {
-            Array.Clear(tops);
-            int Lo(int i) => i < d ? (mesh[i] / 2) - box[i] : 0;
-            int Hi(int i) => i < d ? (mesh[i] / 2) + box[i] : 0;
-            for (var i1 = Lo(0); i1 <= Hi(0); i1++)
+            boxes.Add(Narrowed(boxes[^1], d, 1));
+        }
+
+        // q = 0 is a ring of its own (index boxes.Count): the optical floor sits there, and the cones at 0.
+        var rings = boxes.Count + 1;
+        var tops = new double[rings * acoustic];
+        var bottoms = new double[rings];
+        Array.Fill(bottoms, double.PositiveInfinity);
+        int Lo(int i) => i < d ? (mesh[i] / 2) - half[i] : 0;
+        int Hi(int i) => i < d ? (mesh[i] / 2) + half[i] : 0;
+        for (var i1 = Lo(0); i1 <= Hi(0); i1++)
+        {
+            for (var i2 = Lo(1); i2 <= Hi(1); i2++)
             {
-                for (var i2 = Lo(1); i2 <= Hi(1); i2++)
+                for (var i3 = Lo(2); i3 <= Hi(2); i3++)
                 {
-                    for (var i3 = Lo(2); i3 <= Hi(2); i3++)
+                    var (n1, n2, n3) = (i1 - (mesh[0] / 2), i2 - (mesh[1] / 2), i3 - (mesh[2] / 2));
+                    var ring = 0;
+                    while (ring + 1 < boxes.Count && Holds(boxes[ring + 1], d, n1, n2, n3))
                     {
-                        var p = (((long)Wrap(i1, mesh.M1) * mesh.M2) + Wrap(i2, mesh.M2)) * mesh.M3 + Wrap(i3, mesh.M3);
-                        for (var k = 0; k < acoustic; k++)
-                        {
-                            tops[k] = Math.Max(tops[k], frequencyThz[(p * branches) + k]);
-                        }
+                        ring++;
                     }
+
+                    if (n1 == 0 && n2 == 0 && n3 == 0)
+                    {
+                        ring = boxes.Count;
+                    }
+
+                    var p = (((long)Wrap(i1, mesh.M1) * mesh.M2) + Wrap(i2, mesh.M2)) * mesh.M3 + Wrap(i3, mesh.M3);
+                    for (var k = 0; k < acoustic; k++)
+                    {
+                        tops[(ring * acoustic) + k] = Math.Max(tops[(ring * acoustic) + k], frequencyThz[(p * branches) + k]);
+                    }
+
+                    bottoms[ring] = Math.Min(bottoms[ring], frequencyThz[(p * branches) + acoustic]);
                 }
             }
+        }
 
-            var all1 = true;
-            for (var i = 0; i < d; i++)
+        // Branch k keeps box h when in every ring of it the branch stays below the optical bottom of that ring
+        // and the next one in (2D, 3D: to cross, the branches must meet at the same q), below the mesh's lowest
+        // optical frequency (1D), or when the box is one cell wide.
+        for (var k = 0; k < acoustic; k++)
+        {
+            var h = 0;
+            while (h + 1 < boxes.Count && !Fits(h, k))
             {
-                all1 &= box[i] == 1;
+                h++;
             }
 
-            var done = true;
-            for (var k = 0; k < acoustic; k++)
+            narrowings[k] = h;
+        }
+
+        bool Fits(int h, int k)
+        {
+            for (var r = h; r < rings; r++)
             {
-                if (!settled[k] && (tops[k] < lowestOptical || all1))
+                var bound = d == 1 ? lowestOptical : Math.Min(bottoms[r], r + 1 < rings ? bottoms[r + 1] : double.PositiveInfinity);
+                if (!(tops[(r * acoustic) + k] < bound))
                 {
-                    settled[k] = true;
-                    halvings[k] = h;
+                    return false;
                 }
-
-                done &= settled[k];
             }
 
-            if (done)
-            {
-                break;
-            }
-
-            for (var i = 0; i < d; i++)
-            {
-                box[i] = Math.Max(1, box[i] / 2);
-            }
+            return true;
         }
 
         if (d != 2)
         {
-            Array.Fill(halvings, halvings[acoustic - 1]);
+            Array.Fill(narrowings, narrowings[acoustic - 1]);
         }
 
-        return (half, halvings);
+        return (half, narrowings);
     }
 
-    /// <summary>Half-widths after <paramref name="halvings"/> integer halvings (never below one cell).</summary>
-    internal static int[] Halved(int[] half, int d, int halvings)
+    /// <summary>Half-widths after <paramref name="steps"/> narrowing steps (<see cref="HalfWidths"/>; never below one cell).</summary>
+    internal static int[] Narrowed(int[] half, int d, int steps)
     {
         var result = (int[])half.Clone();
-        for (var h = 0; h < halvings; h++)
+        for (var h = 0; h < steps; h++)
         {
             for (var i = 0; i < d; i++)
             {
-                result[i] = Math.Max(1, result[i] / 2);
+                result[i] = Narrow(result[i], d);
             }
         }
 
         return result;
     }
+
+    private static bool AllOne(int[] box, int d)
+    {
+        for (var i = 0; i < d; i++)
+        {
+            if (box[i] != 1)
+            {
+                return false;
+            }
+        }
+
+        return true;
+    }
+
+    /// <summary>Whether the mesh point at offsets n from q = 0 lies in the box (mesh points |n_i| &lt;= K_i).</summary>
+    private static bool Holds(int[] box, int d, int n1, int n2, int n3) =>
+        Math.Abs(n1) <= box[0] && (d < 2 || Math.Abs(n2) <= box[1]) && (d < 3 || Math.Abs(n3) <= box[2]);
+
+    /// <summary>One narrowing step of a half-width: one cell less in 2D and 3D, half (integer) in 1D.</summary>
+    private static int Narrow(int cells, int d) => Math.Max(1, d == 1 ? cells / 2 : cells - 1);
 
     private static int Wrap(int i, int m) => ((i % m) + m) % m;
 

@@ -42,18 +42,18 @@ internal sealed class LongWaveRegions
         var crystal = solver.Matrix.Crystal;
         var d = crystal.Lattice.Dimension;
         var acoustic = crystal.Components;
-        if (LongWaveRegion.HalfWidths(mesh, d, acoustic, crystal.Size, frequencyThz) is not var (half, halvings))
+        if (LongWaveRegion.HalfWidths(mesh, d, acoustic, crystal.Size, frequencyThz) is not var (half, narrowings))
         {
             return null;
         }
 
         // Groups of branches sharing a box: [0, wide) and [wide, acoustic).
-        var wide = WideBranches(solver, halvings);
+        var wide = WideBranches(solver, narrowings);
         var parts = new List<LongWaveRegion>();
         var widths = new int[acoustic][];
         foreach (var (from, to) in wide == 0 ? [(0, acoustic)] : new[] { (0, wide), (wide, acoustic) })
         {
-            var box = LongWaveRegion.Halved(half, d, halvings[to - 1]);
+            var box = LongWaveRegion.Narrowed(half, d, narrowings[to - 1]);
             var part = LongWaveRegion.Build(solver, mesh, box, from, to, fractions);
             if (part is null)
             {
@@ -74,7 +74,7 @@ internal sealed class LongWaveRegions
 
     /// <summary>
     /// How many of the lowest acoustic branches take a box wider than the rest: the leading branches
-    /// whose own box (<paramref name="halvings"/>) is wider than the last acoustic branch's and that
+    /// whose own box (<paramref name="narrowings"/>) is wider than the last acoustic branch's and that
     /// grow as q^2 from q = 0 along every reciprocal vector (a sheet's flexural branch). Zero when
     /// all share one box.
     /// <para>
@@ -86,11 +86,11 @@ internal sealed class LongWaveRegions
     /// on 16 x 16 went from 2e-4 to 6e-4 off; docs/outside-checks.md, "Round 11 (branch-box)").
     /// </para>
     /// </summary>
-    private static int WideBranches(ModeSolver solver, int[] halvings)
+    private static int WideBranches(ModeSolver solver, int[] narrowings)
     {
-        var acoustic = halvings.Length;
+        var acoustic = narrowings.Length;
         var wider = 0;
-        while (wider < acoustic && halvings[wider] < halvings[acoustic - 1])
+        while (wider < acoustic && narrowings[wider] < narrowings[acoustic - 1])
         {
             wider++;
         }

@@ -11,4 +11,12 @@ public sealed record LayerRow(
     double TemperatureK,
     double? MsdXNm2,
     double? MsdYNm2,
-    double? MsdZNm2);
+    double? MsdZNm2)
+{
+    /// <summary>Standard errors of the three averages when they are over random vectors or configurations; null for exact modes.</summary>
+    public double? MsdXStderrNm2 { get; init; }
+
+    public double? MsdYStderrNm2 { get; init; }
+
+    public double? MsdZStderrNm2 { get; init; }
+}

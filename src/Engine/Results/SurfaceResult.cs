@@ -59,6 +59,15 @@ public sealed record SurfaceResult
     /// <summary>At the reference temperature.</summary>
     public double? PeriodicCvAtReferenceJPerMolK { get; init; }
 
+    /// <summary>
+    /// Heat capacity of the periodic crystal of the same cells and the sample's composition (its virtual
+    /// crystal for a disordered sample, the host otherwise) per mole of atoms at each temperature of the
+    /// thermal table, and at the reference temperature: what cv over it compares is the surfaces alone.
+    /// </summary>
+    public ImmutableArray<double?> PeriodicSameCompositionCvJPerMolK { get; init; } = [];
+
+    public double? PeriodicSameCompositionCvAtReferenceJPerMolK { get; init; }
+
     public required ImmutableArray<LayerRow> Layers { get; init; }
 
     public required ImmutableArray<LayerDos> LayerDos { get; init; }

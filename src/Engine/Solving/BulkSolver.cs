@@ -284,6 +284,8 @@ internal static class BulkSolver
             }
         }
 
+        var (gapMin, gapMax) = unstable ? (stats.BranchMin, stats.BranchMax) : ZoneBoundaryRanges.Of(solver, sample, stats);
+        var gaps = BandGaps.FromBranches(gapMin, gapMax, unstable);
         var method = gaussian ? "gaussian" : dimension switch { 1 => "linear intervals", 2 => "linear triangles", _ => "linear tetrahedra" };
         return new SpectrumOutcome
         {
@@ -294,7 +296,7 @@ internal static class BulkSolver
             RigidModesExcluded = rigid,
             ZeroModesExcluded = zeroModes,
             Statistics = stats,
-            Gaps = gaussian ? BandGaps.FromBranches(stats, unstable) : BandGaps.ConfirmedBy(BandGaps.FromBranches(stats, unstable), fine, tableTotal),
+            Gaps = gaussian ? gaps : BandGaps.ConfirmedBy(gaps, fine, tableTotal),
             Sink = sink,
             MeanOmegaSquared = MeanOmegaSquared(frequencies),
             Dos = DosAssembly.FromStates(outGrid, outTotal, outPartial, sites, method),

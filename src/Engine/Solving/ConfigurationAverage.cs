@@ -116,8 +116,15 @@ internal static class ConfigurationAverage
                 MsdXNm2 = MeanOf(r => r.Surface!.Layers[i].MsdXNm2),
                 MsdYNm2 = MeanOf(r => r.Surface!.Layers[i].MsdYNm2),
                 MsdZNm2 = MeanOf(r => r.Surface!.Layers[i].MsdZNm2),
+                MsdXStderrNm2 = ErrorOf(r => r.Surface!.Layers[i].MsdXNm2),
+                MsdYStderrNm2 = ErrorOf(r => r.Surface!.Layers[i].MsdYNm2),
+                MsdZStderrNm2 = ErrorOf(r => r.Surface!.Layers[i].MsdZNm2),
             })],
-            LayerDos = [.. f.LayerDos.Select((l, i) => l with { DensityPerThzPerAtom = MeanCurve(results.Select(r => r.Surface!.LayerDos[i].DensityPerThzPerAtom)) })],
+            LayerDos = [.. f.LayerDos.Select((l, i) => l with
+            {
+                DensityPerThzPerAtom = MeanCurve(results.Select(r => r.Surface!.LayerDos[i].DensityPerThzPerAtom)),
+                StandardErrorPerThzPerAtom = ErrorCurve(results.Select(r => r.Surface!.LayerDos[i].DensityPerThzPerAtom)),
+            })],
         };
 
         var errors = new StatisticalErrors
@@ -153,6 +160,30 @@ internal static class ConfigurationAverage
     }
 
     private static double? Finite(double x) => double.IsFinite(x) ? x : null;
+
+    /// <summary>Standard error of each bin over the configurations (empty with one).</summary>
+    private static ImmutableArray<double> ErrorCurve(IEnumerable<ImmutableArray<double>> curves)
+    {
+        var list = curves.ToList();
+        if (list.Count < 2)
+        {
+            return [];
+        }
+
+        var errors = new double[list[0].Length];
+        var values = new double[list.Count];
+        for (var b = 0; b < errors.Length; b++)
+        {
+            for (var k = 0; k < list.Count; k++)
+            {
+                values[k] = b < list[k].Length ? list[k][b] : 0;
+            }
+
+            errors[b] = KpmErrors.StandardError(values);
+        }
+
+        return [.. errors];
+    }
 
     private static ImmutableArray<double> MeanCurve(IEnumerable<ImmutableArray<double>> curves)
     {

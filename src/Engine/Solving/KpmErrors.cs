@@ -14,7 +14,13 @@ namespace LatticeSweep.Engine.Solving;
 /// </summary>
 internal static class KpmErrors
 {
-    public static StatisticalErrors? Of(KpmSpectrum kpm, FrequencyGrid fine, FrequencyGrid output, double[] temperatures, int reportedTemperatures, int referenceIndex, double? floorOmega)
+    /// <summary>
+    /// The point's errors, and those of its layers: <see cref="Set.LayerMsdNm2"/>[(t * layers + l) * c + a] for the
+    /// reported temperatures (null without displacements), <see cref="Set.LayerDos"/>[l][bin] on the output grid.
+    /// </summary>
+    public sealed record Set(StatisticalErrors Point, double[]? LayerMsdNm2, double[][] LayerDos);
+
+    public static Set? Of(KpmSpectrum kpm, FrequencyGrid fine, FrequencyGrid output, double[] temperatures, int reportedTemperatures, int referenceIndex, double? floorOmega)
     {
         var r = kpm.Vectors;
         if (r < 2)
@@ -127,7 +133,7 @@ internal static class KpmErrors
         }
 
         double? Nullable(double x) => double.IsFinite(x) ? x : null;
-        return new StatisticalErrors
+        var point = new StatisticalErrors
         {
             Source = "random vectors",
             Samples = r,
@@ -141,6 +147,109 @@ internal static class KpmErrors
             MsdInteriorNm2 = floorOmega is null || layers < 2 ? null : Nullable(StandardError(msdInterior)),
             DosTotal = dos.MoveToImmutable(),
         };
+        return new Set(point, LayerMsd(kpm, fine, temperatures, reportedTemperatures, floorOmega), LayerDensities(kpm, output));
+    }
+
+    /// <summary>
+    /// Each layer's mean-square displacement per direction, per vector and temperature, integrated as the
+    /// reported value is (same floor, same fine grid), and its spread over the vectors: a small layer
+    /// averages few atoms of each vector, so its error is much larger than the point's.
+    /// </summary>
+    private static double[]? LayerMsd(KpmSpectrum kpm, FrequencyGrid fine, double[] temperatures, int reported, double? floorOmega)
+    {
+        var lattice = kpm.Lattice;
+        var layers = lattice.LayerCount;
+        var c = lattice.Components;
+        var channels = layers * c;
+        if (floorOmega is not { } floor || channels == 0)
+        {
+            return null;
+        }
+
+        var r = kpm.Vectors;
+        var m = kpm.Moments;
+        var moments = new double[r * channels * m];
+        for (var v = 0; v < r; v++)
+        {
+            for (var ch = 0; ch < channels; ch++)
+            {
+                var group = kpm.DisplacementGroup((lattice.Crystal.Sites * c) + ch);
+                kpm.PerVector.AsSpan(((v * kpm.Groups) + group) * m, m).CopyTo(moments.AsSpan(((v * channels) + ch) * m, m));
+            }
+        }
+
+        var masses = kpm.Between(KpmSpectrum.Edges(fine), moments, r * channels);
+        var perVector = new double[r * reported * channels];
+        for (var b = 0; b < fine.Bins; b++)
+        {
+            var omega = Math.Max(2 * Math.PI * 1e12 * fine.Centre(b), floor);
+            var row = masses.AsSpan(b * r * channels, r * channels);
+            for (var t = 0; t < reported; t++)
+            {
+                var factor = PhysicalConstants.HbarJS / (2 * omega) * RealSpaceKpmSolver.CothHalf(omega, temperatures[t]) * 1e18;
+                for (var v = 0; v < r; v++)
+                {
+                    var at = ((v * reported) + t) * channels;
+                    for (var ch = 0; ch < channels; ch++)
+                    {
+                        perVector[at + ch] += factor * row[(v * channels) + ch];
+                    }
+                }
+            }
+        }
+
+        var errors = new double[reported * channels];
+        var values = new double[r];
+        for (var t = 0; t < reported; t++)
+        {
+            for (var ch = 0; ch < channels; ch++)
+            {
+                for (var v = 0; v < r; v++)
+                {
+                    values[v] = perVector[(((v * reported) + t) * channels) + ch];
+                }
+
+                errors[(t * channels) + ch] = StandardError(values);
+            }
+        }
+
+        return errors;
+    }
+
+    /// <summary>Each layer's density per atom on the output grid, per vector, and its spread over the vectors.</summary>
+    private static double[][] LayerDensities(KpmSpectrum kpm, FrequencyGrid output)
+    {
+        var lattice = kpm.Lattice;
+        var layers = lattice.LayerCount;
+        var r = kpm.Vectors;
+        var m = kpm.Moments;
+        var moments = new double[r * layers * m];
+        for (var v = 0; v < r; v++)
+        {
+            for (var l = 0; l < layers; l++)
+            {
+                kpm.PerVector.AsSpan(((v * kpm.Groups) + kpm.LayerGroup(l)) * m, m).CopyTo(moments.AsSpan(((v * layers) + l) * m, m));
+            }
+        }
+
+        var masses = kpm.Between(KpmSpectrum.Edges(output), moments, r * layers);
+        var result = new double[layers][];
+        var values = new double[r];
+        for (var l = 0; l < layers; l++)
+        {
+            result[l] = new double[output.Bins];
+            for (var b = 0; b < output.Bins; b++)
+            {
+                for (var v = 0; v < r; v++)
+                {
+                    values[v] = masses[(b * r * layers) + (v * layers) + l] / lattice.LayerSites[l] / output.WidthThz;
+                }
+
+                result[l][b] = StandardError(values);
+            }
+        }
+
+        return result;
     }
 
     private static double Error(double[] values, int ti, int t, int r)

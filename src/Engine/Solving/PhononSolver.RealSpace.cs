@@ -72,10 +72,20 @@ public static partial class PhononSolver
         var results = runs.Select(r => AssembleRealSpace(model, crystal, sample, options, temperatures, r, speeds, dispersion, periodic, periodicCv, grid)).ToList();
         var average = ConfigurationAverage.Of(results, model.Lattice.Dimension);
 
+        // The virtual crystal draws its random vectors (kernel polynomial method) as a configuration after the
+        // last would: independent of every configuration's, so its own standard error and theirs combine in
+        // quadrature in cv - ordered_cv.
         var orderedLattice = RealSpaceLattice.Build(crystal, sample, bloch: true);
-        var orderedRun = SolveBlock(orderedLattice, SiteProperties.VirtualCrystal(orderedLattice, disorder), sample, temperatures, options, record: false, configuration: 0, ct);
+        var virtualCrystal = SiteProperties.VirtualCrystal(orderedLattice, disorder);
+        var orderedRun = SolveBlock(orderedLattice, virtualCrystal, sample, temperatures, options, record: false, configuration: disorder.Configurations, ct);
         var ordered = AssembleRealSpace(model, crystal, sample, options, temperatures, orderedRun, speeds, dispersion, periodic, periodicCv);
-        return average with { Ordered = ordered };
+        var sameComposition = SameCompositionHeatCapacity(model, crystal, periodic, orderedLattice, virtualCrystal, options, temperatures, ct);
+        var surface = average.Surface! with
+        {
+            PeriodicSameCompositionCvJPerMolK = [.. sameComposition.Take(options.TemperaturesK.Length)],
+            PeriodicSameCompositionCvAtReferenceJPerMolK = sameComposition[^1],
+        };
+        return average with { Ordered = ordered, Surface = surface };
     }
 
     /// <summary>
@@ -434,6 +444,8 @@ public static partial class PhononSolver
             PeriodicCells = string.Join('x', new[] { periodic.N1, periodic.N2, periodic.N3 }.Take(model.Lattice.Dimension)),
             PeriodicCvJPerMolK = [.. periodicCv.Take(options.TemperaturesK.Length)],
             PeriodicCvAtReferenceJPerMolK = periodicCv[^1],
+            PeriodicSameCompositionCvJPerMolK = [.. periodicCv.Take(options.TemperaturesK.Length)],
+            PeriodicSameCompositionCvAtReferenceJPerMolK = periodicCv[^1],
             Layers = layers,
             LayerDos = layerDos.MoveToImmutable(),
             KpmMoments = run.Kpm?.Moments,
@@ -445,7 +457,31 @@ public static partial class PhononSolver
             ? KpmErrors.Of(kpm, RealSpaceKpmSolver.FineGrid(kpm.Centre + kpm.Scale), grid, temperatures, options.TemperaturesK.Length, reference,
                 run.KpmDisplacements is null ? null : Math.Sqrt(run.KpmLowestRitz))
             : null;
-        return result with { Surface = surface, Errors = errors };
+        return result with { Surface = errors is null ? surface : WithLayerErrors(surface, errors), Errors = errors?.Point };
+    }
+
+    /// <summary>The layers' rows and densities with the standard errors of the kernel polynomial method's random vectors.</summary>
+    private static SurfaceResult WithLayerErrors(SurfaceResult surface, KpmErrors.Set errors)
+    {
+        static double? Finite(double x) => double.IsFinite(x) ? x : null;
+        var layers = surface.LayerCount;
+        var layerRows = surface.Layers;
+        if (errors.LayerMsdNm2 is { } msd && layers > 0)
+        {
+            var c = msd.Length / Math.Max(1, layerRows.Length);
+            layerRows = [.. surface.Layers.Select((row, i) => row with
+            {
+                MsdXStderrNm2 = row.MsdXNm2 is null ? null : Finite(msd[i * c]),
+                MsdYStderrNm2 = row.MsdYNm2 is null || c < 2 ? null : Finite(msd[(i * c) + 1]),
+                MsdZStderrNm2 = row.MsdZNm2 is null || c < 3 ? null : Finite(msd[(i * c) + 2]),
+            })];
+        }
+
+        return surface with
+        {
+            Layers = layerRows,
+            LayerDos = [.. surface.LayerDos.Select((l, i) => l with { StandardErrorPerThzPerAtom = [.. errors.LayerDos[i]] })],
+        };
     }
 
     /// <summary>Per basis site, from the kernel polynomial method's displacement densities.</summary>

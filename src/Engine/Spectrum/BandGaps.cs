@@ -15,7 +15,11 @@ namespace LatticeSweep.Engine.Spectrum;
 internal static class BandGaps
 {
     /// <summary>Gaps wider than 1e-6 of the top frequency; none for an unstable model (they would mean nothing).</summary>
-    public static ImmutableArray<BandGap> FromBranches(SpectrumStatistics stats, bool unstable)
+    public static ImmutableArray<BandGap> FromBranches(SpectrumStatistics stats, bool unstable) =>
+        FromBranches(stats.BranchMin, stats.BranchMax, unstable);
+
+    /// <summary>The same from branch ranges (omega^2) given directly, e.g. <see cref="ZoneBoundaryRanges"/>.</summary>
+    public static ImmutableArray<BandGap> FromBranches(double[] branchMin, double[] branchMax, bool unstable)
     {
         if (unstable)
         {
@@ -23,11 +27,11 @@ internal static class BandGaps
         }
 
         var gaps = ImmutableArray.CreateBuilder<BandGap>();
-        var top = ModeSolver.SignedThz(stats.MaxLambda);
-        for (var k = 0; k + 1 < stats.BranchMax.Length; k++)
+        var top = ModeSolver.SignedThz(branchMax.Length == 0 ? 0 : branchMax.Max());
+        for (var k = 0; k + 1 < branchMax.Length; k++)
         {
-            var lower = ModeSolver.SignedThz(stats.BranchMax[k]);
-            var upper = ModeSolver.SignedThz(stats.BranchMin[k + 1]);
+            var lower = ModeSolver.SignedThz(branchMax[k]);
+            var upper = ModeSolver.SignedThz(branchMin[k + 1]);
             if (upper - lower > 1e-6 * top)
             {
                 gaps.Add(new BandGap(lower, upper));

@@ -116,7 +116,8 @@ internal static class ChunkTables
         {
             for (var i = 0; i < frequencies.Length && i < layer.DensityPerThzPerAtom.Length; i++)
             {
-                yield return new RowOf<LayerDosValue>(o, new LayerDosValue(layer.Layer, layer.Sites, frequencies[i], layer.DensityPerThzPerAtom[i]));
+                var error = i < layer.StandardErrorPerThzPerAtom.Length && double.IsFinite(layer.StandardErrorPerThzPerAtom[i]) ? layer.StandardErrorPerThzPerAtom[i] : (double?)null;
+                yield return new RowOf<LayerDosValue>(o, new LayerDosValue(layer.Layer, layer.Sites, frequencies[i], layer.DensityPerThzPerAtom[i], error));
             }
         }
     }

@@ -38,7 +38,7 @@ internal readonly record struct ThermalValue(ThermalRow Thermal, ConductivityRow
 }
 
 /// <summary>One value of a layer's density of states.</summary>
-internal readonly record struct LayerDosValue(int Layer, long Sites, double FrequencyThz, double Density);
+internal readonly record struct LayerDosValue(int Layer, long Sites, double FrequencyThz, double Density, double? StandardError = null);
 
 /// <summary>
 /// Every result table's columns, names carrying their units. Each table starts with
@@ -98,12 +98,16 @@ internal sealed class ResultSchemas
             C<RowOf<LayerRow>>("temperature_k", ColumnType.Double, "K", "temperature", r => r.Item.TemperatureK),
             C<RowOf<LayerRow>>("msd_x_nm2", ColumnType.Double, "nm^2", "mean-square displacement along x, mean over the layer's atoms", r => r.Item.MsdXNm2),
             C<RowOf<LayerRow>>("msd_y_nm2", ColumnType.Double, "nm^2", "along y (empty for the scalar model)", r => r.Item.MsdYNm2),
-            C<RowOf<LayerRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "along z (empty for the scalar model)", r => r.Item.MsdZNm2));
+            C<RowOf<LayerRow>>("msd_z_nm2", ColumnType.Double, "nm^2", "along z (empty for the scalar model)", r => r.Item.MsdZNm2),
+            C<RowOf<LayerRow>>("msd_x_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_x_nm2 over the point's random vectors or configurations (stderr_source in points/); empty for exact modes", r => r.Item.MsdXStderrNm2),
+            C<RowOf<LayerRow>>("msd_y_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_y_nm2", r => r.Item.MsdYStderrNm2),
+            C<RowOf<LayerRow>>("msd_z_stderr_nm2", ColumnType.Double, "nm^2", "standard error of msd_z_nm2", r => r.Item.MsdZStderrNm2));
         LayerDos = Spec<LayerDosValue>(TableNames.LayerDos, axes,
             C<RowOf<LayerDosValue>>("layer", ColumnType.Int32, "", "depth below the surface in nearest-neighbour hops (0 = surface atoms)", r => r.Item.Layer),
             C<RowOf<LayerDosValue>>("sites", ColumnType.Int64, "", "atoms in the layer", r => r.Item.Sites),
             C<RowOf<LayerDosValue>>("freq_thz", ColumnType.Double, "THz", "bin centre frequency (the bins of dos/)", r => r.Item.FrequencyThz),
-            C<RowOf<LayerDosValue>>("dos_per_thz_per_atom", ColumnType.Double, "1/(THz atom)", "states per THz per atom of the layer; integrates to 3 (1 for the scalar model)", r => r.Item.Density));
+            C<RowOf<LayerDosValue>>("dos_per_thz_per_atom", ColumnType.Double, "1/(THz atom)", "states per THz per atom of the layer; integrates to 3 (1 for the scalar model)", r => r.Item.Density),
+            C<RowOf<LayerDosValue>>("dos_stderr_per_thz_per_atom", ColumnType.Double, "1/(THz atom)", "standard error of dos_per_thz_per_atom over the point's random vectors or configurations (stderr_source in points/); empty for exact modes", r => r.Item.StandardError));
     }
 
     public TableSpec<PointOutcome> Points { get; }
@@ -330,6 +334,8 @@ internal sealed class ResultSchemas
         static SurfaceResult? F(PointOutcome o) => o.Result?.Surface;
         static double? Ratio(PointOutcome o) =>
             F(o)?.PeriodicCvAtReferenceJPerMolK is { } p && p > 0 && o.Result!.Summary.HeatCapacityJPerMolK is { } cv ? cv / p : null;
+        static double? SameCompositionRatio(PointOutcome o) =>
+            F(o)?.PeriodicSameCompositionCvAtReferenceJPerMolK is { } p && p > 0 && o.Result!.Summary.HeatCapacityJPerMolK is { } cv ? cv / p : null;
         return
         [
             C<PointOutcome>("boundaries", ColumnType.Text, "", "boundary of each lattice direction, e.g. periodic,periodic,free (empty for periodic crystals given without boundaries, and the bulk)", o => F(o)?.Boundaries),
@@ -348,7 +354,9 @@ internal sealed class ResultSchemas
             C<PointOutcome>("msd_interior_nm2", ColumnType.Double, "nm^2", "the same for the interior atoms", o => F(o)?.MsdInteriorNm2),
             C<PointOutcome>("periodic_cells", ColumnType.Text, "", "cells per direction of the periodic crystal of the same size", o => F(o)?.PeriodicCells),
             C<PointOutcome>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of that periodic crystal at the reference temperature", o => F(o)?.PeriodicCvAtReferenceJPerMolK),
-            C<PointOutcome>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k divided by periodic_cv_j_per_mol_k (the surface enhancement)", o => Ratio(o)),
+            C<PointOutcome>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k divided by periodic_cv_j_per_mol_k (the surface enhancement of an ordered sample; with disorder also the substitutes' effect)", o => Ratio(o)),
+            C<PointOutcome>("periodic_ordered_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity at the reference temperature of the periodic crystal of the same cells and the sample's composition (a disordered sample's periodic virtual crystal; the host's otherwise)", o => F(o)?.PeriodicSameCompositionCvAtReferenceJPerMolK),
+            C<PointOutcome>("cv_ratio_to_periodic_ordered", ColumnType.Double, "1", "cv_j_per_mol_k over the heat capacity of the periodic crystal of the sample's composition, ordered: the surface enhancement, with or without disorder (its standard error: cv_stderr_j_per_mol_k over that heat capacity)", o => SameCompositionRatio(o)),
             C<PointOutcome>("kpm_moments", ColumnType.Int32, "", "Chebyshev moments of the kernel polynomial method (empty for dense solutions)", o => F(o)?.KpmMoments),
             C<PointOutcome>("kpm_random_vectors", ColumnType.Int32, "", "random vectors of its stochastic trace", o => F(o)?.KpmRandomVectors),
             C<PointOutcome>("kpm_resolution_thz", ColumnType.Double, "THz", "its frequency resolution near zero, sqrt(pi a / moments)", o => F(o)?.KpmResolutionThz),
@@ -375,6 +383,9 @@ internal sealed class ResultSchemas
             C<PointOutcome>("ordered_confinement_gap_thz", ColumnType.Double, "THz", "confinement gap of the virtual crystal", o => O(o)?.Surface?.ConfinementGapThz),
             C<PointOutcome>("ordered_msd_surface_nm2", ColumnType.Double, "nm^2", "surface mean-square displacement of the virtual crystal", o => O(o)?.Surface?.MsdSurfaceNm2),
             C<PointOutcome>("ordered_msd_interior_nm2", ColumnType.Double, "nm^2", "interior mean-square displacement of the virtual crystal", o => O(o)?.Surface?.MsdInteriorNm2),
+            C<PointOutcome>("ordered_cv_stderr_j_per_mol_k", ColumnType.Double, "J/(mol K)", "standard error of ordered_cv_j_per_mol_k over its own random vectors (kernel polynomial method; empty when exact); independent of cv_stderr_j_per_mol_k, so the error of cv - ordered_cv is the root of the sum of their squares", o => O(o)?.Errors?.HeatCapacityJPerMolK),
+            C<PointOutcome>("ordered_msd_surface_stderr_nm2", ColumnType.Double, "nm^2", "standard error of ordered_msd_surface_nm2 (over its own random vectors, as for its Cv)", o => O(o)?.Errors?.MsdSurfaceNm2),
+            C<PointOutcome>("ordered_msd_interior_stderr_nm2", ColumnType.Double, "nm^2", "standard error of ordered_msd_interior_nm2 (over its own random vectors, as for its Cv)", o => O(o)?.Errors?.MsdInteriorNm2),
         ];
     }
 

@@ -104,6 +104,38 @@ public sealed class DisorderTests
     }
 
     [Fact]
+    public void A_cluster_wholly_of_the_substitute_is_compared_with_the_periodic_crystal_of_its_own_composition()
+    {
+        // c = 1: every atom 60 amu with springs x 1.5. The host's periodic crystal made cv_ratio_to_periodic
+        // hold the substitute's own softening as well as the surfaces; the periodic crystal of the same
+        // composition is the substitute's, so the ratio to it is the cluster's surface effect alone.
+        var cluster = RealSpaceSample.Sphere(0.9);
+        var disordered = PhononSolver.Solve(Crystals.FccCentral(), cluster with { Disorder = new Disorder([new SiteSubstitution("A", 60.0, 1.0, 1.5)], 2, 9) }, Options);
+        var substitute = CrystalModel.Create(Lattice.FaceCentredCubic(0.4), [new Site("A", "A", Vec3.Zero, 60.0)], [new ShellSpring("A", "A", 1, 1.5 * Crystals.SpringNPerM)]);
+        var own = PhononSolver.Solve(substitute, cluster, Options);
+        var surface = disordered.Surface!;
+        for (var t = 0; t < Options.TemperaturesK.Length; t++)
+        {
+            Approx.Equal(own.Surface!.PeriodicCvJPerMolK[t]!.Value, surface.PeriodicSameCompositionCvJPerMolK[t]!.Value, 1e-9, $"periodic Cv of the same composition at {Options.TemperaturesK[t]} K");
+        }
+
+        // Closed form: the same springs x f and masses x m'/m scale every frequency by s = sqrt(f m / m'), and
+        // Cv depends on hbar omega / kB T only, so Cv'(T) = Cv_host(T / s) (own derivation).
+        var s = Math.Sqrt(1.5 * Crystals.MassAmu / 60.0);
+        var cells = surface.PeriodicCells.Split('x').Select(int.Parse).ToArray();
+        var host = PhononSolver.Solve(Crystals.FccCentral(), FiniteSample.Create(cells[0], cells[1], cells[2]),
+            Options with { TemperaturesK = [.. Options.TemperaturesK.Select(t => t / s)] });
+        for (var t = 0; t < Options.TemperaturesK.Length; t++)
+        {
+            Approx.Equal(host.Thermal[t].HeatCapacityJPerMolK, surface.PeriodicSameCompositionCvJPerMolK[t]!.Value, 1e-9, $"host Cv at T / s for {Options.TemperaturesK[t]} K");
+        }
+
+        // The host's periodic crystal stays what it was; an ordered sample compares with its own.
+        Approx.Equal(PhononSolver.Solve(Crystals.FccCentral(), cluster, Options).Surface!.PeriodicCvAtReferenceJPerMolK!.Value, surface.PeriodicCvAtReferenceJPerMolK!.Value, 1e-12, "host periodic Cv");
+        Assert.Equal(own.Surface!.PeriodicCvAtReferenceJPerMolK, own.Surface.PeriodicSameCompositionCvAtReferenceJPerMolK);
+    }
+
+    [Fact]
     public void Disorder_works_on_a_free_cluster_by_either_method()
     {
         var cluster = RealSpaceSample.Sphere(0.9) with { Disorder = new Disorder([new SiteSubstitution("A", 28.0, 0.3)], 2, 9) };

@@ -52,4 +52,34 @@ public class BandGapTests
             Approx.Equal(Crystals.Thz(Math.Sqrt(2 * Crystals.SpringNPerM / (30 * u))), gap.LowerThz, 1e-12, "acoustic top");
         }
     }
+
+    [Fact]
+    public void An_odd_chain_mesh_still_gives_the_gap_edges_of_the_zone_boundary()
+    {
+        // Diatomic chain 12 / 50 amu on mesh 15, which never reaches q = pi / a where both edges lie:
+        // sqrt(2K/M) and sqrt(2K/m) (Kittel ch. 4, eqs. 4.20-4.24). Sampled at the mesh points alone the
+        // gap came out 1 % wide (lower edge 7e-3 low).
+        var result = PhononSolver.Solve(Crystals.DiatomicChain(12, 50), BulkSample.Create(15),
+            new SolveOptions { TemperaturesK = [300], DosBins = 300, PartialDos = false, MeanSquareDisplacement = false });
+        var gap = Assert.Single(result.Summary.Gaps);
+        var u = Units.PhysicalConstants.AtomicMassKg;
+        Approx.Equal(Crystals.Thz(Math.Sqrt(2 * Crystals.SpringNPerM / (50 * u))), gap.LowerThz, 1e-12, "acoustic top");
+        Approx.Equal(Crystals.Thz(Math.Sqrt(2 * Crystals.SpringNPerM / (12 * u))), gap.UpperThz, 1e-12, "optical bottom");
+    }
+
+    [Fact]
+    public void An_odd_sheet_mesh_gives_the_gap_of_the_even_mesh_that_holds_the_zone_boundary()
+    {
+        // Two-site square sheet (invented: A 20 amu at 0, B 45 amu at the cell centre) whose gap edges lie
+        // at X and M (own dispersion on a dense grid of the zone, docs/outside-checks.md, Round 13). Mesh 9
+        // misses both; mesh 18 holds them and mesh 9's points. Before: mesh 9's gap was 7 % wide.
+        var model = CrystalModel.Create(Lattice.Square(0.3),
+            [new Site("A", "A", Vec3.Zero, 20), new Site("B", "B", new Vec3(0.5, 0.5, 0), 45)],
+            [new ShellSpring("A", "B", 1, 25, 4), new ShellSpring("A", "A", 1, 6, 1), new ShellSpring("B", "B", 1, 3)]);
+        var options = new SolveOptions { TemperaturesK = [300], DosBins = 200, PartialDos = false, MeanSquareDisplacement = false };
+        var odd = Assert.Single(PhononSolver.Solve(model, BulkSample.Uniform(2, 9), options).Summary.Gaps);
+        var even = Assert.Single(PhononSolver.Solve(model, BulkSample.Uniform(2, 18), options).Summary.Gaps);
+        Approx.Equal(even.LowerThz, odd.LowerThz, 1e-12, "lower edge");
+        Approx.Equal(even.UpperThz, odd.UpperThz, 1e-12, "upper edge");
+    }
 }

@@ -51,4 +51,30 @@ public class OpticalBranchCurvatureTests
         Assert.True(worst[1] < 2e-4, $"mesh 24: worst relative Cv error ({shown})");
         Assert.True(worst[1] < worst[0], $"falls with the mesh ({shown})");
     }
+
+    [Fact]
+    public void A_folded_simple_cubic_crystal_at_a_few_hundredths_of_its_top_frequency_does_not_get_worse_from_16_to_24_cells()
+    {
+        // 7-14 K is 0.015-0.03 of hbar omega_max / kB: the cones' states lie in the first shells around q = 0,
+        // where the long-wave box ends. The folded branch's floor (q = 0) is reached by the cone two cells out
+        // on 16^3 and three on 24^3; halving the box there cut 24^3's to two cells, a twelfth of the zone
+        // against an eighth on 16^3. Measured (NumPy closed form, the same model through latsweep): 16^3
+        // 2.2e-3 / 4.5e-3 / 4.8e-3, 24^3 1.0e-3 / 1.3e-3 / 1.1e-3 (was 4.4e-3 / 4.2e-3 / 2.4e-3).
+        double[] temperatures = [7, 10, 14];
+        var reference = MidTemperatureBulkTests.ScalarCubicReference(temperatures);
+        var errors = new[] { 16, 24 }.Select(mesh => RelativeErrors(mesh, temperatures, reference)).ToArray();
+        var shown = string.Join("; ", errors.Select(e => string.Join(", ", e.Select(x => x.ToString("E2")))));
+
+        for (var t = 0; t < temperatures.Length; t++)
+        {
+            Assert.True(errors[1][t] < 2e-3, $"mesh 24 at {temperatures[t]} K: relative Cv error (16 then 24: {shown})");
+            Assert.True(errors[1][t] < errors[0][t], $"mesh 24 no worse than 16 at {temperatures[t]} K ({shown})");
+        }
+    }
+
+    private static double[] RelativeErrors(int mesh, double[] temperatures, double[] reference)
+    {
+        var rows = PhononSolver.Solve(FoldedCube(), BulkSample.Uniform(3, mesh), Thermal with { TemperaturesK = [.. temperatures] }).Thermal;
+        return [.. rows.Select((row, t) => Math.Abs((row.HeatCapacityJPerMolK / reference[t]) - 1))];
+    }
 }
