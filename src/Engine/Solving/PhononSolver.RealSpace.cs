@@ -273,17 +273,20 @@ public static partial class PhononSolver
         return FiniteSample.Create(n[0], n[1], n[2]);
     }
 
+    /// <summary>The options of a periodic comparison crystal: its thermal sums only (no partial DOS, displacements, modes, dispersion or conductivity).</summary>
+    private static SolveOptions HeatCapacityOnly(SolveOptions options) => options with
+    {
+        PartialDos = false,
+        MeanSquareDisplacement = false,
+        ModeListMaxModes = 0,
+        Dispersion = null,
+        Conductivity = null,
+    };
+
     /// <summary>Cv per mole of atoms of the periodic crystal at every temperature of the list (null where undefined).</summary>
     private static double?[] PeriodicHeatCapacity(CrystalModel model, FiniteSample periodic, SolveOptions options, CancellationToken ct)
     {
-        var plain = options with
-        {
-            PartialDos = false,
-            MeanSquareDisplacement = false,
-            ModeListMaxModes = 0,
-            Dispersion = null,
-            Conductivity = null,
-        };
+        var plain = HeatCapacityOnly(options);
         var result = SolveCore(model, periodic, plain, ct);
         if (result.Thermal.Length != options.TemperaturesK.Length)
         {

@@ -25,14 +25,7 @@ public static partial class PhononSolver
     {
         var box = RealSpaceSample.Box(periodic.N1, periodic.N2, periodic.N3) with { Method = RealSpaceMethod.Dense };
         var lattice = RealSpaceLattice.Build(crystal, box, bloch: true);
-        var plain = options with
-        {
-            PartialDos = false,
-            MeanSquareDisplacement = false,
-            ModeListMaxModes = 0,
-            Dispersion = null,
-            Conductivity = null,
-        };
+        var plain = HeatCapacityOnly(options);
         var run = RealSpaceDenseSolver.Solve(lattice, virtualCrystal.OnBlock(sampleLattice, lattice), temperatures, plain, box.SurfaceWeightThreshold, forceRecording: false, ct);
         var result = AssembleRealSpace(model, crystal, box, plain, temperatures, run, [], [], periodic, new double?[options.TemperaturesK.Length + 1]);
         if (!result.Summary.Stable || result.Thermal.Length != options.TemperaturesK.Length)
