@@ -15,7 +15,7 @@ internal static class OutputSectionReader
     public const int MaxTemperatures = 10_000;
 
     private static readonly string[] Keys =
-        ["temperatures_k", "temperature_range", "reference_temperature_k", "dos_bins", "dos_method", "gaussian_sigma_thz", "partial_dos", "mesh_check", "tables", "dispersion", "mode_list_max_modes", "memory_limit_gib", "conductivity", "expansion"];
+        ["temperatures_k", "temperature_range", "reference_temperature_k", "dos_bins", "dos_method", "gaussian_sigma_thz", "partial_dos", "thermal_mesh_check", "tables", "dispersion", "mode_list_max_modes", "memory_limit_gib", "conductivity", "expansion"];
 
     private static readonly string[] RangeKeys = ["from_k", "to_k", "steps", "scale"];
     private static readonly string[] DispersionKeys = ["path", "points_per_segment"];
@@ -47,7 +47,7 @@ internal static class OutputSectionReader
         }
 
         var partial = t.Bool("partial_dos") ?? defaults.PartialDos;
-        var meshCheck = t.Bool("mesh_check") ?? defaults.MeshCheck;
+        var meshCheck = t.Bool("thermal_mesh_check") ?? defaults.MeshCheck;
         var modeMax = t.Integer("mode_list_max_modes", 0, 100_000_000) ?? defaults.ModeListMaxModes;
         var memoryGib = t.Double("memory_limit_gib", check: Checks.Between(0.01, 1024));
         var dispersion = ReadDispersion(t.SubTable("dispersion"), dimension);

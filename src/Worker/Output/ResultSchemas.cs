@@ -414,7 +414,7 @@ internal sealed class ResultSchemas
     /// <summary>
     /// Bulk points: how much the summary's thermal numbers move on the half-density mesh (this mesh's
     /// value minus the check mesh's); empty for finite crystals, samples built in real space, unstable
-    /// points, meshes too small to halve, and with [output] mesh_check = false.
+    /// points, meshes too small to halve, and with [output] thermal_mesh_check = false.
     /// </summary>
     private static IEnumerable<TableColumn<PointOutcome>> MeshChangeColumns()
     {

@@ -47,7 +47,7 @@ internal static class CanonicalSpec
         // Written only when on, so the ids of points without the mesh check (the default) do not change.
         if (options.MeshCheck)
         {
-            w.Append("mesh_check on\n"u8);
+            w.Append("thermal_mesh_check on\n"u8);
         }
 
         if (options.Dispersion is { } path)
