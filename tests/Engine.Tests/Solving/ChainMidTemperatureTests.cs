@@ -19,8 +19,6 @@ public class ChainMidTemperatureTests
     private const double SpacingNm = 0.5;
     private const double LightAmu = 12.0;
 
-    private static readonly double Kb = PhysicalConstants.BoltzmannJPerK;
-    private static readonly double Hbar = PhysicalConstants.HbarJS;
     private static readonly double R = PhysicalConstants.GasConstantJPerMolK;
     private static readonly SolveOptions Thermal = new() { MeanSquareDisplacement = false, PartialDos = false };
 
@@ -34,13 +32,6 @@ public class ChainMidTemperatureTests
             [new Site("A", "A", Vec3.Zero, LightAmu), new Site("B", "B", new Vec3(0.5, 0, 0), heavyAmu)],
             [new ShellSpring("A", "B", 1, longitudinalNPerM, transverseNPerM ?? 0.0)],
             degreesOfFreedom: transverseNPerM is null ? DegreesOfFreedom.Scalar : DegreesOfFreedom.Cartesian);
-
-    /// <summary>Einstein heat capacity of one mode in units of kB: x^2 / (4 sinh^2(x / 2)).</summary>
-    private static double ModeCv(double omega, double t)
-    {
-        var x = Hbar * omega / (Kb * t);
-        return x > 700 || x <= 0 ? 0 : x * x / (4 * Math.Pow(Math.Sinh(x / 2), 2));
-    }
 
     /// <summary>
     /// Cv (J/mol of atoms/K) summed over 20000 wave vectors offset by half a step (no point at q = 0):
@@ -66,7 +57,7 @@ public class ChainMidTemperatureTests
                 {
                     for (var t = 0; t < Temperatures.Length; t++)
                     {
-                        sums[t] += count * ModeCv(omega, Temperatures[t]);
+                        sums[t] += count * ModeHeatCapacity.InBoltzmannUnits(omega, Temperatures[t]);
                     }
                 }
             }

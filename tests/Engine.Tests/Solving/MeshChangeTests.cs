@@ -16,17 +16,8 @@ namespace LatticeSweep.Engine.Tests.Solving;
 /// </summary>
 public class MeshChangeTests
 {
-    private static readonly double Kb = PhysicalConstants.BoltzmannJPerK;
-    private static readonly double Hbar = PhysicalConstants.HbarJS;
     private static readonly double R = PhysicalConstants.GasConstantJPerMolK;
     private static readonly SolveOptions Thermal = new() { TemperaturesK = [30, 100, 300], ReferenceTemperatureK = 30, MeanSquareDisplacement = false, PartialDos = false, MeshCheck = true };
-
-    /// <summary>Einstein heat capacity of one mode in units of kB: x^2 / (4 sinh^2(x / 2)).</summary>
-    private static double ModeCv(double omega, double t)
-    {
-        var x = Hbar * omega / (Kb * t);
-        return x > 700 || x <= 0 ? 0 : x * x / (4 * Math.Pow(Math.Sinh(x / 2), 2));
-    }
 
     /// <summary>Relative error of each Cv row and its relative change, in the order of the rows.</summary>
     private static (double Error, double Change)[] CvRows(PointResult result, double[] reference)
@@ -88,7 +79,7 @@ public class MeshChangeTests
                 var omega = Math.Sqrt(w2 * (sines[i] + sines[j]));
                 for (var t = 0; t < temperatures.Length; t++)
                 {
-                    sums[t] += ModeCv(omega, temperatures[t]);
+                    sums[t] += ModeHeatCapacity.InBoltzmannUnits(omega, temperatures[t]);
                 }
             }
         }
@@ -132,10 +123,10 @@ public class MeshChangeTests
             var root = Math.Sqrt((s * s) - (4 * sine * sine / (a * b)));
             foreach (var omega in new[] { Math.Sqrt(k * (s - root)), Math.Sqrt(k * (s + root)) })
             {
-                zeroPoint += 0.5 * Hbar * omega;
+                zeroPoint += 0.5 * PhysicalConstants.HbarJS * omega;
                 for (var t = 0; t < temperatures.Length; t++)
                 {
-                    sums[t] += ModeCv(omega, temperatures[t]);
+                    sums[t] += ModeHeatCapacity.InBoltzmannUnits(omega, temperatures[t]);
                 }
             }
         }

@@ -15,17 +15,8 @@ namespace LatticeSweep.Engine.Tests.Solving;
 /// </summary>
 public class MidTemperatureBulkTests
 {
-    private static readonly double Kb = PhysicalConstants.BoltzmannJPerK;
-    private static readonly double Hbar = PhysicalConstants.HbarJS;
     private static readonly double R = PhysicalConstants.GasConstantJPerMolK;
     private static readonly SolveOptions Thermal = new() { MeanSquareDisplacement = false, PartialDos = false };
-
-    /// <summary>Einstein heat capacity of one mode in units of kB: x^2 / (4 sinh^2(x / 2)).</summary>
-    private static double ModeCv(double omega, double t)
-    {
-        var x = Hbar * omega / (Kb * t);
-        return x > 700 ? 0 : x * x / (4 * Math.Pow(Math.Sinh(x / 2), 2));
-    }
 
     /// <summary>
     /// Scalar simple cubic (one branch): omega^2 = (4K/m) sum_i sin^2(q_i a / 2) (Ashcroft and Mermin
@@ -48,7 +39,7 @@ public class MidTemperatureBulkTests
                     var omega = Math.Sqrt(w2 * (3 - cosines[i] - cosines[j] - cosines[k]));
                     for (var t = 0; t < temperatures.Length; t++)
                     {
-                        sums[t] += ModeCv(omega, temperatures[t]);
+                        sums[t] += ModeHeatCapacity.InBoltzmannUnits(omega, temperatures[t]);
                     }
                 }
             }
@@ -106,7 +97,7 @@ public class MidTemperatureBulkTests
                         var omega = Math.Sqrt(Math.Max(lambda.Real, 0));
                         for (var t = 0; t < temperatures.Length; t++)
                         {
-                            sums[t] += ModeCv(omega, temperatures[t]);
+                            sums[t] += ModeHeatCapacity.InBoltzmannUnits(omega, temperatures[t]);
                         }
                     }
                 }

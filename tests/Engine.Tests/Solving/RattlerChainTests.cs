@@ -2,6 +2,7 @@ using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Tests.Support;
 using LatticeSweep.Engine.Units;
 
 namespace LatticeSweep.Engine.Tests.Solving;
@@ -22,8 +23,6 @@ public class RattlerChainTests
     private const double FrameNPerM = 20.0;
     private const double HoldNPerM = 1.0;
 
-    private static readonly double Kb = PhysicalConstants.BoltzmannJPerK;
-    private static readonly double Hbar = PhysicalConstants.HbarJS;
     private static readonly double R = PhysicalConstants.GasConstantJPerMolK;
     private static readonly double[] Temperatures = [10, 30, 100, 300, 3000];
     private static readonly SolveOptions Thermal = new() { MeanSquareDisplacement = false, PartialDos = false, TemperaturesK = [.. Temperatures] };
@@ -40,7 +39,7 @@ public class RattlerChainTests
     /// Cv (J/mol of atoms/K) over 100000 wave vectors offset by half a step, from the 2 x 2 dynamical
     /// matrix written out here: D_AA = (2 K_f (1 - cos qa) + 2 K_h) / m_A, D_BB = 2 K_h / m_B,
     /// D_AB = -2 K_h cos(qa / 2) / sqrt(m_A m_B) (Ashcroft and Mermin, ch. 22, for D(q) of a basis),
-    /// each mode's Cv x^2 / (4 sinh^2(x / 2)). Converged: 2e5 points agree to 1e-12 (NumPy, measured for this check).
+    /// each mode's Cv from ModeHeatCapacity. Converged: 2e5 points agree to 1e-12 (NumPy, measured for this check).
     /// </summary>
     private static double[] Reference()
     {
@@ -59,8 +58,7 @@ public class RattlerChainTests
             {
                 for (var t = 0; t < Temperatures.Length; t++)
                 {
-                    var x = Hbar * omega / (Kb * Temperatures[t]);
-                    sums[t] += x <= 0 ? 1 : x * x / (4 * Math.Pow(Math.Sinh(x / 2), 2));
+                    sums[t] += ModeHeatCapacity.InBoltzmannUnits(omega, Temperatures[t]);
                 }
             }
         }

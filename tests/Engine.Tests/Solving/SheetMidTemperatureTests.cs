@@ -3,6 +3,7 @@ using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Tests.Support;
 using LatticeSweep.Engine.Units;
 
 namespace LatticeSweep.Engine.Tests.Solving;
@@ -21,8 +22,6 @@ public class SheetMidTemperatureTests
     private const double NearestNPerM = 40.0;
     private const double NextNearestNPerM = 10.0;
 
-    private static readonly double Kb = PhysicalConstants.BoltzmannJPerK;
-    private static readonly double Hbar = PhysicalConstants.HbarJS;
     private static readonly double R = PhysicalConstants.GasConstantJPerMolK;
     private static readonly SolveOptions Thermal = new() { MeanSquareDisplacement = false, PartialDos = false };
 
@@ -36,13 +35,6 @@ public class SheetMidTemperatureTests
             shellSprings: [new ShellSpring("A", "A", 1, NearestNPerM, 0.0), new ShellSpring("A", "A", 2, NextNearestNPerM, 0.0)],
             bends: bendNPerM is { } k ? [new BendSpring("A", "A", 1, BendForm.Flexural, k)] : [],
             degreesOfFreedom: bendNPerM is null ? DegreesOfFreedom.InPlane : DegreesOfFreedom.Cartesian);
-
-    /// <summary>Einstein heat capacity of one mode in units of kB: x^2 / (4 sinh^2(x / 2)).</summary>
-    private static double ModeCv(double omega, double t)
-    {
-        var x = Hbar * omega / (Kb * t);
-        return x > 700 || x <= 0 ? 0 : x * x / (4 * Math.Pow(Math.Sinh(x / 2), 2));
-    }
 
     /// <summary>
     /// Cv (J/mol/K) summed over a 400 x 400 mesh offset by half a step (no point at q = 0). In the plane,
@@ -79,7 +71,7 @@ public class SheetMidTemperatureTests
                 {
                     for (var t = 0; t < Temperatures.Length; t++)
                     {
-                        sums[t] += ModeCv(omega, Temperatures[t]);
+                        sums[t] += ModeHeatCapacity.InBoltzmannUnits(omega, Temperatures[t]);
                     }
                 }
             }
