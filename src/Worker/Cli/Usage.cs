@@ -17,6 +17,7 @@ internal static class Usage
         }
     }
 
+    // The raw literal drops its last line break; the help ends with one like every other output.
     public const string Text = """
         latsweep: batch lattice-vibration sweeps on a durable queue, results as Parquet datasets.
 
@@ -62,5 +63,5 @@ internal static class Usage
         Exit codes: 0 all points done, 2 bad input, 3 some points failed, 4 every point finished but
         some models are unstable (no thermal numbers for them), 130 interrupted.
         Results are model estimates: check them against measurements before design decisions.
-        """;
+        """ + "\n";
 }

@@ -43,6 +43,26 @@ public sealed partial class HelpAndStarterTests : IDisposable
     }
 
     [Fact]
+    public void Every_help_text_ends_with_one_line_break_so_the_shell_prompt_starts_on_its_own_line()
+    {
+        string[][] calls = [["--help"], ["-h"], ["help"], ["help", "run"], ["run", "--help"], ["nonsense", "--help"], ["--version"]];
+        foreach (var args in calls)
+        {
+            var result = Support.Cli.Run(_dir.Path, args);
+            Assert.True(result.ExitCode == 0, string.Join(' ', args) + ": " + result.Stderr);
+            Assert.True(result.Stdout.EndsWith('\n') && !result.Stdout.EndsWith("\n\n", StringComparison.Ordinal),
+                $"latsweep {string.Join(' ', args)} ends with {Tail(result.Stdout)}");
+        }
+
+        // With no command the overview goes to stderr (exit 2), and ends the same way.
+        var bare = Support.Cli.Run(_dir.Path);
+        Assert.Equal(2, bare.ExitCode);
+        Assert.True(bare.Stderr.EndsWith('\n') && !bare.Stderr.EndsWith("\n\n", StringComparison.Ordinal), $"latsweep alone ends with {Tail(bare.Stderr)}");
+    }
+
+    private static string Tail(string text) => System.Text.Json.JsonSerializer.Serialize(text[Math.Max(0, text.Length - 20)..]);
+
+    [Fact]
     public void Help_for_a_command_that_does_not_exist_is_bad_input()
     {
         var help = Support.Cli.Run(_dir.Path, "help", "sweep");
