@@ -88,11 +88,7 @@ public sealed class QueueStore : IDisposable
         ArgumentNullException.ThrowIfNull(location);
         if (location.Kind == StoreKind.Sqlite)
         {
-            if (Directory.Exists(location.Value))
-            {
-                throw new StoreUnavailableException($"--store {location.Value} is a folder; give the store file (by default .latsweep/store.db)");
-            }
-
+            RefuseWhatIsNoStoreFile(location.Value);
             if (!File.Exists(location.Value))
             {
                 throw new StoreUnavailableException(
@@ -127,6 +123,24 @@ public sealed class QueueStore : IDisposable
         {
             throw new StoreUnavailableException(
                 $"no store in {location.Display}: the schema '{location.Schema}' holds no LatticeSweep catalog; check the Search Path (?schema=) of --store, or start a sweep there with latsweep run or submit, which create the store");
+        }
+    }
+
+    /// <summary>
+    /// A folder, or a file with something else in it, is never taken for the store: SQLite would fail with
+    /// "unable to open database file" or "file is not a database", which names neither the path nor the fix.
+    /// An empty file is left alone: SQLite makes a new database of it.
+    /// </summary>
+    private static void RefuseWhatIsNoStoreFile(string path)
+    {
+        if (Directory.Exists(path))
+        {
+            throw new StoreUnavailableException($"--store {path} is a folder; give the store file (by default .latsweep/store.db)");
+        }
+
+        if (File.Exists(path) && new FileInfo(path).Length > 0 && !LooksLikeSqlite(path))
+        {
+            throw new StoreUnavailableException($"{path} is not a store (not an SQLite database file); check --store, or give a new file name and latsweep creates the store there");
         }
     }
 
@@ -278,6 +292,7 @@ public sealed class QueueStore : IDisposable
 
     private static QueueStore OpenSqlite(StoreLocation location, TimeProvider time, StoreOptions options)
     {
+        RefuseWhatIsNoStoreFile(location.Value);
         var folder = Path.GetDirectoryName(location.Value)!;
         Directory.CreateDirectory(folder);
 
