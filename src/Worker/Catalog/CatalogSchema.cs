@@ -100,5 +100,8 @@ internal static class CatalogSchema
             definition_hash TEXT NOT NULL
         )
         """,
+
+        // Which version's layout the store holds (StoreFormat): checked before these statements run.
+        StoreFormat.CreateTable,
     ];
 }

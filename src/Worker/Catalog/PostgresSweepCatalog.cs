@@ -41,6 +41,14 @@ public sealed class PostgresSweepCatalog : SqlSweepCatalog
         Execute(connection, transaction, $"CREATE SCHEMA IF NOT EXISTS \"{_schema}\"");
     }
 
+    protected override bool TableExists(DbConnection connection, DbTransaction transaction, string table)
+    {
+        using var cmd = Command(connection, transaction, "SELECT count(*) FROM information_schema.tables WHERE table_schema = @schema AND table_name = @table");
+        Add(cmd, "schema", _schema);
+        Add(cmd, "table", table);
+        return Convert.ToInt64(cmd.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture) > 0;
+    }
+
     /// <summary>Drops pooled connections (after the server restarted they are all broken).</summary>
     public void ClearPool() => _dataSource.Clear();
 

@@ -37,14 +37,19 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         using var c = Open();
         using var tx = c.BeginTransaction();
         BeforeSchema(c, tx);
+        StoreFormat.Check(c, tx, table => TableExists(c, tx, table));
         foreach (var statement in CatalogSchema.Statements)
         {
             Execute(c, tx, statement);
         }
 
+        StoreFormat.Stamp(c, tx);
         CountOlderSweeps(c, tx);
         tx.Commit();
     }
+
+    /// <summary>Whether the store already has <paramref name="table"/> (in the store's schema on PostgreSQL).</summary>
+    protected abstract bool TableExists(DbConnection connection, DbTransaction transaction, string table);
 
     public bool Register(NewSweep sweep)
     {

@@ -113,6 +113,13 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
         }
     }
 
+    protected override bool TableExists(DbConnection connection, DbTransaction transaction, string table)
+    {
+        using var cmd = Command(connection, transaction, "SELECT count(*) FROM sqlite_master WHERE type = 'table' AND name = @table");
+        Add(cmd, "table", table);
+        return Convert.ToInt64(cmd.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture) > 0;
+    }
+
     /// <summary>A deferred transaction: it reads one snapshot of the WAL file and takes no write lock.</summary>
     protected override string TextHolds(string column, string parameter) => $"instr({column}, {parameter}) > 0";
 

@@ -57,6 +57,10 @@ public sealed class QueueStore : IDisposable
         {
             return location.Kind == StoreKind.Sqlite ? OpenSqlite(location, time, options) : OpenPostgres(location, time, options, log ?? Serilog.Log.Logger);
         }
+        catch (StoreFormatException ex)
+        {
+            throw new StoreUnavailableException($"the store {location.Display} {ex.Message}", ex);
+        }
         catch (Exception ex) when (ex is not StoreUnavailableException and not OutOfMemoryException)
         {
             throw new StoreUnavailableException($"cannot open the store {location.Display}: {ex.Message}", ex);
