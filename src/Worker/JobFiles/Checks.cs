@@ -31,6 +31,13 @@ internal static class Checks
     /// <summary>Elastic constants of either sign (C12): within ±10 TPa.</summary>
     public static readonly Func<double, string?> SignedModulusGpa = Between(-1e4, 1e4);
 
+    /// <summary>
+    /// Corners of a dispersion path in reduced coordinates (units of the reciprocal vectors): within ±1000.
+    /// A zone is 1 wide, so this reaches a thousand zones out; past it a corner is a typing mistake
+    /// (a wave vector in 1/m, an exponent too many) that would sample nothing but repeated zones.
+    /// </summary>
+    public static readonly Func<double, string?> ReducedWaveVector = Between(-1e3, 1e3);
+
     /// <summary>Sample lengths: 0.001 nm to 1 m.</summary>
     public static readonly Func<double, string?> SampleLengthNm = PositiveWithin(1e-3, 1e9);
 

@@ -195,7 +195,7 @@ internal static class OutputSectionReader
         {
             c.RejectUnknown(CornerKeys);
             var label = c.String("label", required: true) ?? "";
-            var q = c.DoubleList("q", required: true, maxCount: 3);
+            var q = c.DoubleList("q", required: true, check: Checks.ReducedWaveVector, maxCount: 3);
             if (q is not null && dimension > 0 && q.Count != dimension)
             {
                 c.Error("q", $"a {dimension}D lattice takes {dimension} reduced coordinate(s) (units of the reciprocal vectors), got {q.Count}");

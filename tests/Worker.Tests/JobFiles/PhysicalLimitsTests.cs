@@ -32,6 +32,47 @@ public sealed class PhysicalLimitsTests : IDisposable
         Assert.Contains("must be in " + range, p.Message, StringComparison.Ordinal);
     }
 
+    [Theory]
+    [InlineData("1e300", "1E+300")]
+    [InlineData("-1000.5", "-1000.5")]
+    [InlineData("6.2e9", "6.2E+09")]
+    public void A_dispersion_corner_beyond_a_thousand_zones_is_refused_with_file_line_column_and_key(string written, string shown)
+    {
+        var text = Some.ChainJob(output: $$"""
+            tables = ["dispersion"]
+
+            [output.dispersion]
+            path = [{ label = "G", q = [0] },
+                    { label = "X", q = [{{written}}] }]
+            """);
+        var file = _dir.Write("corner.toml", text);
+
+        var check = Support.Cli.Run(_dir.Path, "check", file);
+
+        Assert.Equal(2, check.ExitCode);
+        var line = Some.LineOf(text, "label = \"X\"");
+        Assert.StartsWith($"latsweep: {file}:{line}:", check.Stderr, StringComparison.Ordinal);
+        Assert.Contains($": output.dispersion.path[1].q[0]: must be in [-1000, 1000], got {shown}", check.Stderr, StringComparison.Ordinal);
+    }
+
+    [Theory]
+    [InlineData("1000")]
+    [InlineData("-1000")]
+    [InlineData("0.5")]
+    public void A_dispersion_corner_within_a_thousand_zones_is_accepted(string written)
+    {
+        var text = Some.ChainJob(output: $$"""
+            tables = ["dispersion"]
+
+            [output.dispersion]
+            path = [{ label = "G", q = [0] }, { label = "X", q = [{{written}}] }]
+            """);
+
+        var plan = LatticeSweep.Worker.Planning.JobFileLoader.Load(_dir.Write("corner.toml", text));
+
+        Assert.NotNull(plan);
+    }
+
     [Fact]
     public void A_swept_mass_beyond_the_range_is_refused_where_the_axis_is_written()
     {
