@@ -33,8 +33,22 @@ public static class CheckCommand
         }
 
         PrintPlan(plan, stdout);
-        var forecast = PrintEstimate(plan, ForecastBudget(planning.Elapsed), stdout);
+        var forecast = PrintEstimate(plan, ForecastBudget(planning.Elapsed), stdout, Document(plan));
         return forecast.AllFail ? 2 : 0;
+    }
+
+    /// <summary>The job file as read again for locating the forecast's failure reasons (null when it changed or went away since).</summary>
+    internal static TomlDocument? Document(SweepPlan plan)
+    {
+        try
+        {
+            var text = JobFileText.Read(plan.SourcePath);
+            return text == plan.SpecText ? TomlDocument.Parse(text, plan.SourcePath, new ProblemCollector(plan.SourcePath)) : null;
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or JobFileException)
+        {
+            return null;
+        }
     }
 
     private static void PrintPlan(SweepPlan plan, TextWriter o)
@@ -96,10 +110,10 @@ public static class CheckCommand
     /// why, floppy models, the elastic fit, the estimated compute time (calibrated on this engine),
     /// the costliest point and those above the sweep's warning limit, memory and disk.
     /// </summary>
-    private static ForecastReport PrintEstimate(SweepPlan plan, TimeSpan budget, TextWriter o)
+    private static ForecastReport PrintEstimate(SweepPlan plan, TimeSpan budget, TextWriter o, TomlDocument? document)
     {
         o.WriteLine();
-        var f = SweepForecast.Run(plan, budget);
+        var f = SweepForecast.Run(plan, budget, document: document);
         o.WriteLine(f.Sampled
             ? $"Forecast (points checked without solving them; the {f.Budget.TotalSeconds:0.#} s budget ran out after {N(f.Evaluated)} of {N(f.Total)} points, a sample spread over the plan: the counts below are for that sample, totals scaled to the plan):"
             : $"Forecast (every point checked without solving it: {N(f.Total)} points, {N(f.DistinctModels)} distinct model(s), {f.Elapsed.TotalSeconds:0.0} s):");

@@ -26,6 +26,46 @@ public sealed class CheckForecastTests : IDisposable
             .Replace("[model]", extraAxis + "\n[model]", StringComparison.Ordinal);
 
     [Fact]
+    public void A_failure_the_forecast_finds_is_reported_at_the_file_line_and_column_of_its_key()
+    {
+        var text = Some.ChainJob().Replace("position = [0.5]", "position = [0.0]   # B on top of A", StringComparison.Ordinal);
+
+        var (code, output, _) = Check(text);
+
+        Assert.Equal(2, code);
+        var file = _dir.Combine("job.toml");
+        Assert.Contains($"1 x {file}:{Some.LineOf(text, "# B on top of A")}:1: model.sites[1].position: site 'B' sits on site 'A'", output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void A_failure_in_a_lattice_vector_is_reported_at_the_vectors_line()
+    {
+        var text = """
+            [model]
+            lattice = "explicit"
+            vectors_nm = [[0.5, 0.1, 0]]
+
+            [[model.sites]]
+            label = "A"
+            mass_amu = 10.0
+
+            [[model.springs]]
+            from = "A"
+            to = "A"
+            longitudinal_n_per_m = 30.0
+
+            [sample]
+            kind = "finite"
+            cells = 8
+            """;
+
+        var (code, output, _) = Check(text);
+
+        Assert.Equal(2, code);
+        Assert.Contains($"{_dir.Combine("job.toml")}:3:1: model.vectors_nm[0]: a 1D lattice vector must lie along x", output, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void An_isotope_mix_whose_mean_is_not_the_site_mass_fails_every_point_in_check_exit_2()
     {
         var (code, output, _) = Check(ThinFilm(45.0));

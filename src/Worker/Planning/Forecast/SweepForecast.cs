@@ -30,7 +30,9 @@ internal static class SweepForecast
 
     private sealed record ModelEntry(CrystalModel? Model, ElasticFitResult? Fit, string? Failure, ModelPreflight? Preflight);
 
-    public static ForecastReport Run(SweepPlan plan, TimeSpan budget, Func<PointCost.Work, double>? seconds = null)
+    /// <param name="document">The job file as read: each failure reason then names the file, line and column of the key
+    /// it is about (<see cref="JobFiles.ModelProblemText"/>); without it the Engine's reason alone.</param>
+    public static ForecastReport Run(SweepPlan plan, TimeSpan budget, Func<PointCost.Work, double>? seconds = null, JobFiles.TomlDocument? document = null)
     {
         ArgumentNullException.ThrowIfNull(plan);
         seconds ??= PointCost.Seconds;
@@ -72,7 +74,7 @@ internal static class SweepForecast
 
             if (!models.TryGetValue(key.ToString(), out var entry))
             {
-                entry = BuildModel(spec.Model);
+                entry = BuildModel(spec.Model, document);
                 modelsNotPreflighted += entry.Model is not null && entry.Preflight is null ? 1 : 0;
                 models[key.ToString()] = entry;
             }
@@ -115,7 +117,7 @@ internal static class SweepForecast
                 }
                 catch (ModelException ex)
                 {
-                    failure = ex.Message.ReplaceLineEndings("; ");
+                    failure = JobFiles.ModelProblemText.Of(ex, document);
                 }
             }
 
@@ -161,7 +163,7 @@ internal static class SweepForecast
         };
     }
 
-    private static ModelEntry BuildModel(ModelSpec spec)
+    private static ModelEntry BuildModel(ModelSpec spec, JobFiles.TomlDocument? document)
     {
         try
         {
@@ -171,7 +173,7 @@ internal static class SweepForecast
         }
         catch (ModelException ex)
         {
-            return new ModelEntry(null, null, ex.Message.ReplaceLineEndings("; "), null);
+            return new ModelEntry(null, null, JobFiles.ModelProblemText.Of(ex, document), null);
         }
     }
 
