@@ -19,6 +19,11 @@ internal static class SweepCommands
             plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
         }
 
+        using (StageTimings.Measure("run: forecast failures"))
+        {
+            EveryPointFailsCheck.Apply(plan, context);
+        }
+
         var opening = StageTimings.Measure("run: open store");
         using var session = Session.Open(line, context);
         opening.Dispose();
@@ -43,6 +48,7 @@ internal static class SweepCommands
             plan = JobFileLoader.Load(CliApp.PathIn(context, line.Arguments[0]));
         }
 
+        EveryPointFailsCheck.Apply(plan, context);
         using var session = Session.Open(line, context);
         var submitted = Submitter(session, context).Submit(plan, outRoot);
         var sweep = submitted.Sweep;

@@ -13,6 +13,27 @@ public sealed class RunCommandTests : IDisposable
 
     public void Dispose() => _dir.Dispose();
 
+    [Theory]
+    [InlineData("run")]
+    [InlineData("submit")]
+    public void A_sweep_whose_every_point_will_fail_is_refused_before_anything_is_queued_or_written(string command)
+    {
+        var text = Some.ChainJob(sweep: """
+            [[sweep.axes]]
+            path = "model.sites.B.mass_amu"
+            values = [20.0, 30.0, 40.0]
+            """).Replace("position = [0.5]", "position = [1.0]   # B on A, one cell on", StringComparison.Ordinal);
+        var job = _dir.Combine("overlap.toml");
+        File.WriteAllText(job, text);
+
+        var result = Support.Cli.Run(_dir.Path, command, "overlap.toml");
+
+        Assert.True(result.ExitCode == 2, result.Stdout + result.Stderr);
+        Assert.StartsWith($"latsweep: every one of the 3 points of {job} will fail, so nothing was queued", result.Stderr, StringComparison.Ordinal);
+        Assert.Contains($"  3 x {job}:{Some.LineOf(text, "# B on A")}:1: model.sites[1].position: site 'B' sits on site 'A'", result.Stderr, StringComparison.Ordinal);
+        Assert.Equal(["overlap.toml"], Directory.EnumerateFileSystemEntries(_dir.Path).Select(Path.GetFileName));
+    }
+
     [Fact]
     public void Run_writes_every_point_exactly_once_with_thermal_rows_equal_to_direct_engine_calls()
     {
