@@ -37,7 +37,7 @@ internal static class StatusCommand
         var sweep = session.Sweep(line.Arguments[0]);
         o.WriteLine($"Sweep      {sweep.SweepId} ({sweep.Name})");
         o.WriteLine($"State      {State(sweep.State)}");
-        o.WriteLine($"Points     {N(sweep.Counts.Total)} in {N(sweep.ChunkCount)} chunks: {N(sweep.Counts.Done)} done, {N(sweep.Counts.Unstable)} unstable, {N(sweep.Counts.Failed)} failed, {N(sweep.Counts.Waiting)} waiting, {N(sweep.Counts.Running)} running, {N(sweep.Counts.Cancelled)} cancelled");
+        o.WriteLine($"Points     {N(sweep.Counts.Total)} in {N(sweep.ChunkCount)} {(sweep.ChunkCount == 1 ? "chunk" : "chunks")}: {N(sweep.Counts.Done)} done, {N(sweep.Counts.Unstable)} unstable, {N(sweep.Counts.Failed)} failed, {N(sweep.Counts.Waiting)} waiting, {N(sweep.Counts.Running)} running, {N(sweep.Counts.Cancelled)} cancelled");
         if (sweep.Counts.Solved > 0)
         {
             // From the results, not the catalog: it keeps each point's state, not what its model turned out to be.

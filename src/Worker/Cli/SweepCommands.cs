@@ -87,7 +87,7 @@ internal static class SweepCommands
     {
         if (result.LostChunks > 0)
         {
-            context.Stdout.WriteLine($"Sweep {result.Sweep.SweepId}: {result.LostChunks} chunks had results recorded in the store but no rows in {SweepFolder.Table(result.Sweep.OutputFolder, TableNames.Points)} (deleted or moved?); they run again.");
+            context.Stdout.WriteLine($"Sweep {result.Sweep.SweepId}: {result.LostChunks} {(result.LostChunks == 1 ? "chunk" : "chunks")} had results recorded in the store but no rows in {SweepFolder.Table(result.Sweep.OutputFolder, TableNames.Points)} (deleted or moved?); they run again.");
         }
     }
 
@@ -295,7 +295,7 @@ internal static class SweepCommands
         // The time this command worked, as the bar's "elapsed" showed it (a resumed sweep's earlier runs are not in it).
         var took = $" in {ProgressDisplay.FormatDuration(session.Progress.Elapsed)}";
         var c = sweep.Counts;
-        o.WriteLine($"Sweep {sweep.SweepId} {sweep.State.ToString().ToLowerInvariant()}: {c.Total} points: {c.Done} done, {c.Unstable} unstable, {c.Failed} failed, {c.Cancelled} cancelled{took}.");
+        o.WriteLine($"Sweep {sweep.SweepId} {sweep.State.ToString().ToLowerInvariant()}: {c.Total} {(c.Total == 1 ? "point" : "points")}: {c.Done} done, {c.Unstable} unstable, {c.Failed} failed, {c.Cancelled} cancelled{took}.");
         if (c.Unstable > 0)
         {
             var examples = session.Catalog.GetPoints(sweep.SweepId, new PointQuery(PointState.Unstable, 0, 3));
@@ -324,6 +324,10 @@ internal static class SweepCommands
         o.WriteLine($"Results: {sweep.OutputFolder}");
         o.WriteLine($"  tables {string.Join(", ", sweep.Tables.Select(t => t + "/"))} and sweep.json");
         o.WriteLine($"  e.g. duckdb -c \"SELECT * FROM read_parquet('{Path.Combine(sweep.OutputFolder, "points", "*.parquet")}')\"");
+        if (c.Done + c.Unstable > 0)
+        {
+            o.WriteLine(EstimateNote.Line);
+        }
         if (session.LogFile is not null)
         {
             o.WriteLine($"Log: {session.LogFile}");

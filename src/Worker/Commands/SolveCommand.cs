@@ -74,6 +74,8 @@ public static class SolveCommand
             return Cli.ExitCodes.SomeUnstable;
         }
 
+        stdout.WriteLine();
+        stdout.WriteLine(EstimateNote.Line);
         return 0;
     }
 

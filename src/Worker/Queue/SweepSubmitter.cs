@@ -102,8 +102,8 @@ public sealed class SweepSubmitter
 
         var record = _store.Catalog.FindSweep(sweepId)!;
         SweepManifest.Write(record, _time.GetUtcNow());
-        _log.Information("Sweep {SweepId} planned: {PointCount} points in {ChunkCount} chunks, results to {OutputFolder}",
-            sweepId, plan.Points.Length, chunkIds.Count, folder);
+        _log.Information("Sweep {SweepId} planned: {PointCount} {PointNoun:l} in {ChunkCount} {ChunkNoun:l}, results to {OutputFolder}",
+            sweepId, plan.Points.Length, plan.Points.Length == 1 ? "point" : "points", chunkIds.Count, chunkIds.Count == 1 ? "chunk" : "chunks", folder);
         return new SubmitResult(record, Created: true, chunkIds.Count);
     }
 
@@ -123,8 +123,8 @@ public sealed class SweepSubmitter
 
         if (lost.Count > 0)
         {
-            _log.Warning("Sweep {SweepId}: {LostChunks} chunks have results recorded in the store but no rows in {Folder} (deleted or moved?): they run again",
-                sweep.SweepId, lost.Count, SweepFolder.Table(sweep.OutputFolder, TableNames.Points));
+            _log.Warning("Sweep {SweepId}: {LostChunks} {ChunkNoun:l} recorded in the store but no rows in {Folder} (deleted or moved?): they run again",
+                sweep.SweepId, lost.Count, lost.Count == 1 ? "chunk has results" : "chunks have results", SweepFolder.Table(sweep.OutputFolder, TableNames.Points));
         }
 
         var unfinished = _store.Catalog.RequeueUnfinished(sweep.SweepId, lost);

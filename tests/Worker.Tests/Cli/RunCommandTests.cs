@@ -13,6 +13,26 @@ public sealed class RunCommandTests : IDisposable
 
     public void Dispose() => _dir.Dispose();
 
+    [Fact]
+    public void Run_counts_its_chunks_in_plain_English_and_closes_with_one_model_estimates_line()
+    {
+        var job = _dir.Combine("one-point.toml");
+        File.WriteAllText(job, Some.ChainJob());
+
+        var result = Support.Cli.Run(_dir.Path, "run", job);
+
+        Assert.True(result.ExitCode == 0, result.Stdout + result.Stderr);
+        var all = result.Stdout + result.Stderr;
+        Assert.Contains("planned: 1 point in 1 chunk, results to", all, StringComparison.Ordinal);
+        Assert.DoesNotContain("1 chunks", all, StringComparison.Ordinal);
+        Assert.DoesNotContain("1 points", all, StringComparison.Ordinal);
+        var note = Assert.Single(result.Stdout.Split('\n'), l => l.Contains("Model estimates", StringComparison.Ordinal));
+        Assert.StartsWith("Model estimates (harmonic ball-and-spring screening): check them against measurements", note, StringComparison.Ordinal);
+
+        var status = Support.Cli.Run(_dir.Path, "status", "test-chain");
+        Assert.Contains("Points     1 in 1 chunk: 1 done", status.Stdout, StringComparison.Ordinal);
+    }
+
     [Theory]
     [InlineData("run")]
     [InlineData("submit")]

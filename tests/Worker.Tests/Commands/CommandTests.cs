@@ -68,6 +68,17 @@ public sealed class CommandTests : IDisposable
     }
 
     [Fact]
+    public void Solve_says_once_at_the_end_that_its_numbers_are_model_estimates()
+    {
+        var file = _dir.Write("one.toml", Some.ChainJob());
+        var (code, output, _) = Run(SolveCommand.Run, file);
+        Assert.Equal(0, code);
+        Assert.Single(output.Split('\n'), l => l.Contains("Model estimates", StringComparison.Ordinal));
+        var last = output.ReplaceLineEndings("\n").TrimEnd('\n').Split('\n')[^1];
+        Assert.StartsWith("Model estimates (harmonic ball-and-spring screening): check them against measurements", last, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Solve_of_an_elastic_fit_prints_its_residual_and_Christoffel_speeds()
     {
         // Issue 10 item 9: the fit's residual and its Christoffel speeds ([100] longitudinal
