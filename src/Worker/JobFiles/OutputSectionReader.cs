@@ -53,6 +53,13 @@ internal static class OutputSectionReader
         var dispersion = ReadDispersion(t.SubTable("dispersion"), dimension);
         var conductivity = t.SubTable("conductivity") is { } c ? ConductivitySectionReader.Read(c, dimension, model, sample, kindSwept, expansionGiven: t.Has("expansion")) : null;
         var expansion = t.SubTable("expansion") is { } e ? ReadExpansion(e, model, dispersion is not null || t.Has("dispersion")) : null;
+        if (conductivity is { Umklapp: not null, GrueneisenParameter: null } && expansion is not null && reference == 0)
+        {
+            // Without a given gamma the Umklapp rate takes the quasi-harmonic one at the reference temperature,
+            // which no excited mode defines at 0 K: every point would fail when it runs, unseen by check.
+            t.Error("reference_temperature_k",
+                "0 K leaves the Umklapp channel without a Grueneisen parameter: output.conductivity.grueneisen_parameter is not given and the quasi-harmonic one is undefined at 0 K (no mode is excited); give grueneisen_parameter, or a reference temperature above 0");
+        }
 
         // Samples with boundaries, a shape or disorder get their layer tables unless the list says otherwise.
         var realSpace = sample?.RealSpace is not null;

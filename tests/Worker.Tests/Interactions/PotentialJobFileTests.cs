@@ -50,6 +50,23 @@ public sealed class PotentialJobFileTests : IDisposable
     }
 
     [Fact]
+    public void Umklapp_on_the_quasi_harmonic_Grueneisen_parameter_at_a_reference_of_0_K_is_bad_input_at_that_line()
+    {
+        // Every point failed when it ran ("undefined at the reference temperature"), and check said none would.
+        const string Conductivity = "\n[output.expansion]\nvolumes = 7\n\n[output.conductivity]\numklapp = {}\nboundary = { length_nm = 1000.0 }";
+        var text = LjJob(output: "reference_temperature_k = 0" + Conductivity);
+
+        var p = Single(text, "output.reference_temperature_k");
+
+        Assert.Equal(Some.LineOf(text, "reference_temperature_k = 0"), p.Line);
+        Assert.Contains("give grueneisen_parameter, or a reference temperature above 0", p.Message, StringComparison.Ordinal);
+
+        // A given gamma, or a reference above 0 K, is fine.
+        Assert.NotNull(Some.Load(_dir, LjJob(output: "reference_temperature_k = 0" + Conductivity + "\ngrueneisen_parameter = 1.5")));
+        Assert.NotNull(Some.Load(_dir, LjJob(output: "reference_temperature_k = 10" + Conductivity)));
+    }
+
+    [Fact]
     public void A_potential_is_read_swept_and_relaxed_to_its_static_minimum()
     {
         var plan = Some.Load(_dir, LjJob(sweep: """
