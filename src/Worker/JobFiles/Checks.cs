@@ -41,6 +41,16 @@ internal static class Checks
     /// <summary>Sample lengths: 0.001 nm to 1 m.</summary>
     public static readonly Func<double, string?> SampleLengthNm = PositiveWithin(1e-3, 1e9);
 
+    /// <summary>Smallest magnitude a number other than 0 may have anywhere in a job file.</summary>
+    public const double SmallestMagnitude = 1e-300;
+
+    /// <summary>
+    /// Refuses a number so close to 0 that it is (or soon becomes) subnormal: a spring of 1e-320 N/m was taken, and its
+    /// squares and quotients lose every digit or overflow. 0 itself is fine. (Common practice, no source.)
+    /// </summary>
+    public static string? NotVanishinglySmall(double v) =>
+        v == 0 || Math.Abs(v) >= SmallestMagnitude ? null : $"is too close to 0 to compute with (a number other than 0 needs a magnitude of at least 1e-300); write 0 or a larger value, got {TableReader.Show(v)}";
+
     public static string? Positive(double v) => v > 0 ? null : $"must be > 0, got {TableReader.Show(v)}";
 
     public static string? NonNegative(double v) => v >= 0 ? null : $"must be >= 0, got {TableReader.Show(v)}";

@@ -308,7 +308,9 @@ internal sealed class TableReader
             return null;
         }
 
-        var problem = check?.Invoke(d);
+        // Keys with a check are model, sample and output quantities; a range's ends (no check) only generate values,
+        // and each generated value is checked as a field value (FieldValues), vanishingly small ones included.
+        var problem = check is null ? null : check(d) ?? Checks.NotVanishinglySmall(d);
         if (problem is not null)
         {
             Problems.Add(Where(locateKey ?? keyForMessage), KeyPath(keyForMessage), problem);

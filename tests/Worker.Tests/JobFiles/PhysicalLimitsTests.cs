@@ -73,6 +73,38 @@ public sealed class PhysicalLimitsTests : IDisposable
         Assert.NotNull(plan);
     }
 
+    [Theory]
+    [InlineData("longitudinal_n_per_m = 30.0", "longitudinal_n_per_m = 1e-320", "model.springs[0].longitudinal_n_per_m")]
+    [InlineData("transverse_n_per_m = 5.0", "transverse_n_per_m = -4.9e-324", "model.springs[0].transverse_n_per_m")]
+    [InlineData("position = [0.5]", "position = [1e-310]", "model.sites[1].position[0]")]
+    public void A_number_too_close_to_0_to_compute_with_is_bad_input_at_its_line(string original, string replacement, string key)
+    {
+        // A subnormal spring passed the range check (it lies within +-1e6) and reached the solver.
+        var text = Some.ChainJob().Replace(original, replacement, StringComparison.Ordinal);
+
+        var p = Assert.Single(Some.Fails(_dir, text).Problems);
+
+        Assert.Equal(key, p.Key);
+        Assert.Equal(Some.LineOf(text, replacement), p.Line);
+        Assert.StartsWith("is too close to 0 to compute with", p.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void A_swept_value_too_close_to_0_is_refused_and_0_itself_is_taken()
+    {
+        var text = Some.ChainJob(sweep: """
+            [[sweep.axes]]
+            path = "model.springs[0].transverse_n_per_m"
+            values = [0.0, 1e-300, 2e-320, 5.0]
+            """);
+
+        var p = Assert.Single(Some.Fails(_dir, text).Problems);
+
+        Assert.Contains("too close to 0 to compute with", p.Message, StringComparison.Ordinal);
+        Assert.Equal("sweep.axes[0].values[2]", p.Key);
+        Assert.Equal(Some.LineOf(text, "values = "), p.Line);
+    }
+
     [Fact]
     public void A_swept_mass_beyond_the_range_is_refused_where_the_axis_is_written()
     {

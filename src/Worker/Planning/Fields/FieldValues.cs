@@ -28,7 +28,7 @@ internal static class FieldValues
             return null;
         }
 
-        var problem = field.Check(value);
+        var problem = field.Check(value) ?? (value is double d ? Checks.NotVanishinglySmall(d) : null);
         if (problem is not null)
         {
             error = $"{field.Path} {problem}";
