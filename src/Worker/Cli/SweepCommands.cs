@@ -323,7 +323,7 @@ internal static class SweepCommands
 
         o.WriteLine($"Results: {sweep.OutputFolder}");
         o.WriteLine($"  tables {string.Join(", ", sweep.Tables.Select(t => t + "/"))} and sweep.json");
-        o.WriteLine($"  e.g. duckdb -c \"SELECT * FROM read_parquet('{Path.Combine(sweep.OutputFolder, "points", "*.parquet")}')\"");
+        o.WriteLine($"  e.g. {DuckDbHint.ForPoints(sweep.OutputFolder)}");
         if (c.Done + c.Unstable > 0)
         {
             o.WriteLine(EstimateNote.Line);

@@ -34,6 +34,30 @@ public sealed class RunCommandTests : IDisposable
     }
 
     [Theory]
+    [InlineData("results")]
+    [InlineData("it's $HOME \"x\" `y`")] // no backslash: DuckDB's glob found no file under a folder named with one (tried)
+    public void The_DuckDB_command_the_run_suggests_runs_as_printed_in_a_shell_and_reads_every_point(string outFolder)
+    {
+        var job = _dir.Combine("job.toml");
+        File.WriteAllText(job, Some.ChainJob(sweep: "[[sweep.axes]]\npath = \"model.sites.B.mass_amu\"\nvalues = [20.0, 30.0, 40.0]"));
+        var run = Support.Cli.Run(_dir.Path, "run", "job.toml", "--out", outFolder);
+        Assert.True(run.ExitCode == 0, run.Stdout + run.Stderr);
+        var line = Assert.Single(run.Stdout.Split('\n'), l => l.StartsWith("  e.g. duckdb -c ", StringComparison.Ordinal));
+
+        // The shell takes the line as printed; a stand-in duckdb hands back what it was given after -c.
+        var shell = new System.Diagnostics.ProcessStartInfo("bash") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+        shell.ArgumentList.Add("-c");
+        shell.ArgumentList.Add("duckdb() { [ \"$1\" = -c ] && [ $# -eq 2 ] && printf '%s' \"$2\"; }; " + line.Trim()["e.g. ".Length..]);
+        using var bash = System.Diagnostics.Process.Start(shell)!;
+        var sql = bash.StandardOutput.ReadToEnd();
+        bash.WaitForExit();
+        Assert.True(bash.ExitCode == 0, $"{line}\n{bash.StandardError.ReadToEnd()}");
+
+        using var db = new DuckDb();
+        Assert.Equal(3L, db.Scalar($"SELECT count(*) FROM ({sql})"));
+    }
+
+    [Theory]
     [InlineData("run")]
     [InlineData("submit")]
     public void A_sweep_whose_every_point_will_fail_is_refused_before_anything_is_queued_or_written(string command)
