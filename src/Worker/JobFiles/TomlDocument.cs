@@ -87,7 +87,8 @@ internal sealed partial class TomlDocument
     /// </summary>
     private static string Plain(string message)
     {
-        var plain = TokenNames().Replace(message, "");
+        // "already defined at (1,1) with `[sample]␤kind = ...`" quotes the whole earlier table; its line says enough.
+        var plain = AlreadyDefined().Replace(TokenNames().Replace(message, ""), "is already defined at line ${line} and cannot be defined again (write each table and key once)");
         return plain.Replace("`␤`", "the end of the line", StringComparison.Ordinal).Replace("␤", "the end of the line", StringComparison.Ordinal);
     }
 
@@ -109,6 +110,9 @@ internal sealed partial class TomlDocument
 
         return advice >= 0 ? line[..advice] : line;
     }
+
+    [System.Text.RegularExpressions.GeneratedRegex(@"is already defined at \((?<line>\d+),\d+\) with `.*` and cannot be redefined", System.Text.RegularExpressions.RegexOptions.Singleline)]
+    private static partial System.Text.RegularExpressions.Regex AlreadyDefined();
 
     [System.Text.RegularExpressions.GeneratedRegex(@" \(token: `[^`]*`\)")]
     private static partial System.Text.RegularExpressions.Regex TokenNames();

@@ -20,6 +20,22 @@ public sealed class BadInputTests : IDisposable
     }
 
     [Fact]
+    public void A_table_written_twice_is_reported_with_the_line_of_the_first_not_a_quote_of_it()
+    {
+        // The parser quoted the whole earlier table with its line breaks spelled out: "`[output]the end of the linetemperatures_k = ...`".
+        var text = Some.ChainJob() + "\n[output]\ndos_bins = 100\n";
+
+        var p = Assert.Single(Some.Fails(_dir, text).Problems);
+
+        var first = Some.LineOf(text, "[output]");
+        var second = text.ReplaceLineEndings("\n").Split('\n').ToList().FindLastIndex(l => l.Trim() == "[output]") + 1;
+        Assert.Equal(second, p.Line);
+        Assert.Contains($"The key `output` is already defined at line {first} and cannot be defined again (write each table and key once)", p.Message, StringComparison.Ordinal);
+        Assert.DoesNotContain("the end of the line", p.Message, StringComparison.Ordinal);
+        Assert.DoesNotContain("temperatures_k", p.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Syntax_error_is_located_at_its_line()
     {
         var text = Some.ChainJob().Replace("constant_nm = 0.5", "constant_nm = = 0.5", StringComparison.Ordinal);
