@@ -116,10 +116,10 @@ public static class CheckCommand
         var f = SweepForecast.Run(plan, budget, document: document);
         o.WriteLine(f.Sampled
             ? $"Forecast (points checked without solving them; the {f.Budget.TotalSeconds:0.#} s budget ran out after {N(f.Evaluated)} of {N(f.Total)} points, a sample spread over the plan: the counts below are for that sample, totals scaled to the plan):"
-            : $"Forecast (every point checked without solving it: {N(f.Total)} points, {N(f.DistinctModels)} distinct model(s), {f.Elapsed.TotalSeconds:0.0} s):");
+            : $"Forecast (every point checked without solving it: {N(f.Total)} {(f.Total == 1 ? "point" : "points")}, {N(f.DistinctModels)} distinct model(s), {f.Elapsed.TotalSeconds:0.0} s):");
         if (f.WillFail > 0)
         {
-            o.WriteLine($"  will fail    {N(f.WillFail)} of {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
+            o.WriteLine(f.Evaluated == 1 && !f.Sampled ? "  will fail    the one point" : $"  will fail    {N(f.WillFail)} of {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
             foreach (var g in f.Failures.Take(5))
             {
                 o.WriteLine($"    {N(g.Count)} x {g.Reason}");
@@ -136,7 +136,7 @@ public static class CheckCommand
         }
         else
         {
-            o.WriteLine($"  will fail    none of the {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
+            o.WriteLine(f.Evaluated == 1 && !f.Sampled ? "  will fail    none (one point)" : $"  will fail    none of the {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
         }
 
         if (f.ModelsNotPreflighted > 0)

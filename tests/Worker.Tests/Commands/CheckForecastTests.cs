@@ -102,7 +102,7 @@ public sealed class CheckForecastTests : IDisposable
             .Replace("transverse_n_per_m = 5.0", "transverse_n_per_m = 0.0", StringComparison.Ordinal));
 
         Assert.Equal(2, code);
-        Assert.Contains("will fail    1 of 1 points", output, StringComparison.Ordinal);
+        Assert.Contains("will fail    the one point\n", output.ReplaceLineEndings("\n"), StringComparison.Ordinal);
         Assert.Contains("has no spring acting along z", output, StringComparison.Ordinal);
     }
 
