@@ -406,7 +406,8 @@ public sealed partial class ReadmeRangesTests : IDisposable
         largest_strain = 0.04
         """;
 
-    private const string Film = """
+    // A simple cubic crystal, the model of the samples below.
+    private const string Cubic = """
         [model]
         lattice = "simple_cubic"
         constant_nm = 0.3
@@ -420,6 +421,9 @@ public sealed partial class ReadmeRangesTests : IDisposable
         to = "A"
         longitudinal_n_per_m = 20.0
         transverse_n_per_m = 5.0
+        """;
+
+    private const string Film = Cubic + """
 
         [sample]
         kind = "finite"
@@ -429,20 +433,7 @@ public sealed partial class ReadmeRangesTests : IDisposable
         surface_weight_threshold = 0.5
         """;
 
-    private const string Disordered = """
-        [model]
-        lattice = "simple_cubic"
-        constant_nm = 0.3
-
-        [[model.sites]]
-        label = "A"
-        mass_amu = 30.0
-
-        [[model.springs]]
-        from = "A"
-        to = "A"
-        longitudinal_n_per_m = 20.0
-        transverse_n_per_m = 5.0
+    private const string Disordered = Cubic + """
 
         [sample]
         kind = "finite"
