@@ -119,8 +119,11 @@ internal static class Bulk
                 if (cv is { } e && change is { } ch && Math.Abs(e - cvRef) > tolThermal * cvRef)
                 {
                     // README: the mesh's own error is smaller than the change (a third to a twentieth of it)
-                    x.Add("bulk.cv_mesh_change_covers_error", where, Math.Abs(ch), Math.Abs(e - cvRef), Math.Abs(e - cvRef),
-                        "README 'How far from converged': |change| >= |error|; listed only where the error exceeds the Cv tolerance (beyond = under-read by 2x or more)");
+                    // compared as min(|change|, |error|) against |error| with a tolerance of |error| / 2: beyond
+                    // exactly when the change reads less than half the true error (a larger change is as documented)
+                    var error = Math.Abs(e - cvRef);
+                    x.Add("bulk.cv_mesh_change_covers_error", where, Math.Min(Math.Abs(ch), error), error, error / 2,
+                        "README 'How far from converged': the error is smaller than the change; listed only where the error exceeds the Cv tolerance (beyond = the change under-reads it by 2x or more)");
                 }
             }
             else

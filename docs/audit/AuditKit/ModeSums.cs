@@ -43,7 +43,7 @@ internal static class ModeSums
             }
 
             var n = 1 / em1;
-            cv += x * x * (em1 + 1) * n * n;
+            cv += x * x * n * (1 + n); // e^x / (e^x - 1)^2 = n (1 + n), no overflow of e^x near x = 700
             var ln = Math.Log(-ExpM1Negative(x)); // ln(1 - e^-x)
             s += x * n - ln;
             f += e0 + kt * ln;
