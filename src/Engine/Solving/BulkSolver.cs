@@ -299,6 +299,7 @@ internal static class BulkSolver
             Gaps = gaussian ? gaps : BandGaps.ConfirmedBy(gaps, fine, tableTotal),
             Sink = sink,
             MeanOmegaSquared = MeanOmegaSquared(frequencies),
+            BoundaryMaxLambda = unstable ? null : gapMax.Max(),
             Dos = DosAssembly.FromStates(outGrid, outTotal, outPartial, sites, method),
             Modes = [],
         };

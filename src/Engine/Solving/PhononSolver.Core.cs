@@ -271,7 +271,9 @@ public static partial class PhononSolver
             ModeCount = outcome.ModeCount,
             RigidModesExcluded = outcome.RigidModesExcluded,
             ZeroModesExcluded = outcome.ZeroModesExcluded,
-            MaxFrequencyThz = ModeSolver.SignedThz(maxLambda),
+            // The top of the spectrum often lies at a zone-boundary point an odd mesh does not hold; the
+            // bulk pass solved those points for the gaps, and the highest frequency counts them too.
+            MaxFrequencyThz = ModeSolver.SignedThz(Math.Max(maxLambda, outcome.BoundaryMaxLambda ?? double.NegativeInfinity)),
             MinFrequencyThz = ModeSolver.SignedThz(Math.Min(stats.WorstLambda, stats.BranchMin.Min())),
             Stable = !unstable,
             WorstQReduced = unstable ? stats.WorstQReduced : null,

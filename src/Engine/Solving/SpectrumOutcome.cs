@@ -24,6 +24,13 @@ internal sealed record SpectrumOutcome
     /// the mesh mean of tr D(q) / branches), or null to take it from the sink's mode sums.
     /// </summary>
     public double? MeanOmegaSquared { get; init; }
+
+    /// <summary>
+    /// The largest omega^2 (rad/s)^2 at the zone-boundary points with reduced coordinates 0 or 1/2 that
+    /// the pass solved beside its own points (bulk on an odd mesh), or null: the highest frequency is
+    /// the larger of this and the points' own.
+    /// </summary>
+    public double? BoundaryMaxLambda { get; init; }
     public required DosCurve Dos { get; init; }
     public required ImmutableArray<ModeLevel> Modes { get; init; }
 }

@@ -9,9 +9,9 @@ namespace LatticeSweep.Engine.Spectrum;
 /// mesh with an odd count along a direction never reaches the reduced coordinate 1/2 there, where band
 /// edges often lie (the points with every reduced coordinate 0 or 1/2 are their own -q, so every
 /// branch is stationary there). Measured before: a diatomic chain on mesh 15 had its gap 1 % wide,
-/// a two-site square sheet on mesh 9 7 % (docs/outside-checks.md, Round 13). Only the gaps use these
-/// ranges: the points are real states, but the DOS, the thermal sums and the stability verdict stay
-/// those of the mesh.
+/// a two-site square sheet on mesh 9 7 % (docs/outside-checks.md, Round 13). The gaps and the highest
+/// frequency use these ranges (max_freq_thz was up to 2.5 % low on odd meshes, Round 15): the points are
+/// real states, but the DOS, the thermal sums and the stability verdict stay those of the mesh.
 /// </summary>
 internal static class ZoneBoundaryRanges
 {

@@ -1,0 +1,94 @@
+using System.Globalization;
+using System.Text;
+
+namespace LatticeSweep.Audit;
+
+/// <summary>One random case: a model, its finite crystal (cells) and its bulk mesh, the temperatures and a path.</summary>
+internal sealed record AuditCase(
+    string Id, AuditModel Model, double[] TemperaturesK, double ReferenceK, int[] Cells, int[] Mesh,
+    double[][] PathCorners, int PointsPerSegment, int DosBins)
+{
+    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <summary>The job file: one sweep of two points (sample.kind finite and bulk), every output the audit reads.</summary>
+    public string ToToml()
+    {
+        var m = Model;
+        var sb = new StringBuilder();
+        sb.AppendLine($"# Random audit case {Id} (docs/audit/README.md). Every parameter is random and invented.");
+        sb.AppendLine("[sweep]");
+        sb.AppendLine($"name = \"{Id}\"");
+        sb.AppendLine();
+        sb.AppendLine("[[sweep.axes]]");
+        sb.AppendLine("path = \"sample.kind\"");
+        sb.AppendLine("values = [\"finite\", \"bulk\"]");
+        sb.AppendLine();
+        sb.AppendLine("[model]");
+        sb.AppendLine($"lattice = \"{m.Lattice}\"");
+        sb.AppendLine($"constant_nm = {F(m.ConstantNm)}");
+        if (m.CNm is { } c)
+        {
+            sb.AppendLine($"c_nm = {F(c)}");
+        }
+
+        sb.AppendLine($"motion = \"{m.Motion}\"");
+        foreach (var s in m.Sites)
+        {
+            sb.AppendLine();
+            sb.AppendLine("[[model.sites]]");
+            sb.AppendLine($"label = \"{s.Label}\"");
+            sb.AppendLine($"position = [{string.Join(", ", s.Fraction.Take(m.Dimension).Select(F))}]");
+            sb.AppendLine($"mass_amu = {F(s.MassAmu)}");
+        }
+
+        foreach (var s in m.Shells)
+        {
+            sb.AppendLine();
+            sb.AppendLine("[[model.springs]]");
+            sb.AppendLine($"from = \"{s.From}\"");
+            sb.AppendLine($"to = \"{s.To}\"");
+            sb.AppendLine($"shell = {s.Shell}");
+            sb.AppendLine($"longitudinal_n_per_m = {F(s.LongitudinalNPerM)}");
+            if (m.Motion != "scalar")
+            {
+                sb.AppendLine($"transverse_n_per_m = {F(s.TransverseNPerM)}");
+            }
+        }
+
+        foreach (var b in m.Bonds)
+        {
+            sb.AppendLine();
+            sb.AppendLine("[[model.bonds]]");
+            sb.AppendLine($"from = \"{m.Sites[b.I].Label}\"");
+            sb.AppendLine($"to = \"{m.Sites[b.J].Label}\"");
+            sb.AppendLine($"cell = [{string.Join(", ", b.Cell.Take(m.Dimension))}]");
+            sb.AppendLine($"longitudinal_n_per_m = {F(b.LongitudinalNPerM)}");
+            if (m.Motion != "scalar")
+            {
+                sb.AppendLine($"transverse_n_per_m = {F(b.TransverseNPerM)}");
+            }
+        }
+
+        sb.AppendLine();
+        sb.AppendLine("[sample]");
+        sb.AppendLine("kind = \"finite\"");
+        sb.AppendLine($"cells = [{string.Join(", ", Cells)}]");
+        sb.AppendLine($"mesh = [{string.Join(", ", Mesh)}]");
+        sb.AppendLine();
+        sb.AppendLine("[output]");
+        sb.AppendLine($"temperatures_k = [{string.Join(", ", TemperaturesK.Select(F))}]");
+        sb.AppendLine($"reference_temperature_k = {F(ReferenceK)}");
+        sb.AppendLine($"dos_bins = {DosBins}");
+        sb.AppendLine("thermal_mesh_check = true");
+        sb.AppendLine("tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\"]");
+        sb.AppendLine();
+        sb.AppendLine("[output.dispersion]");
+        sb.AppendLine($"points_per_segment = {PointsPerSegment}");
+        var corners = PathCorners.Select((q, k) =>
+            $"{{ label = \"C{k}\", q = [{string.Join(", ", q.Take(m.Dimension).Select(F))}] }}");
+        sb.AppendLine($"path = [{string.Join(", ", corners)}]");
+        return sb.ToString();
+    }
+
+    private static string F(double x) => x.ToString("R", Inv);
+}
