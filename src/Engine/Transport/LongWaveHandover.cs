@@ -70,8 +70,8 @@ internal sealed class LongWaveHandover
     /// <summary>
     /// x of the fastest acoustic branch at the middle of a narrow window's erfc edge from which the window is
     /// on. On a hexagonal model's mesh 10-16 the window left kappa_zz 1.5e-3 to 3.8e-3 high at 50-300 K where
-    /// the one-point sum was within 1.2e-3 to 9e-3 low (with 12 the window was off at 20 K, where it took
-    /// errors of 2-7 % to 1e-3); a simple cubic model gained at every temperature (Round 15).
+    /// the one-point sum was within 1.2e-3 to 9e-3 low (with 12 the window was off at 20 K, where it takes
+    /// errors of 1.7-7 % to 1e-3, kappa_zz 3e-3); a simple cubic model gained at every temperature (Round 15).
     /// </summary>
     public const double NarrowHoldsX = 6;
 
