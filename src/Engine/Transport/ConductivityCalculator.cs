@@ -37,7 +37,8 @@ internal static class ConductivityCalculator
 
         var sum = new KineticSum(temperatures, reference, d, inputs.Rates, settings.MeanFreePathTable);
         var faceRule = bulk ? GammaCellIntegrator.FaceRuleFor(solver.Matrix.Crystal, mesh, temperatures, inputs.Rates) : null;
-        var handover = acoustic.Stable && faceRule is not null ? LongWaveHandover.Plan(solver, lattice, mesh, temperatures) : null;
+        var (wanted, close) = acoustic.Stable && faceRule is not null ? LongWaveHandover.Needs(solver, lattice, mesh, temperatures) : (new bool[temperatures.Length], new bool[temperatures.Length]);
+        var handover = acoustic.Stable && faceRule is not null ? LongWaveHandover.Plan(solver, lattice, mesh, temperatures, wanted) : null;
         var stable = acoustic.Stable && Pass(solver, mesh, faceRule, handover, sum, ct);
         var scale = 1.0 / (Cells(mesh) * inputs.VolumePerCellM3);
 
@@ -61,7 +62,11 @@ internal static class ConductivityCalculator
             double Axis(int a) => !stable ? double.NaN : a >= d ? double.NaN : sum.Kappa(t, a) * scale;
             var kappa = stable ? sum.MeanKappa(t) * scale : double.NaN;
             var change = coarse is null ? double.NaN : RelativeChange(kappa, coarse.MeanKappa(t) * coarseScale);
-            return new ConductivityRow(temperatures[t], Axis(0), Axis(1), Axis(2), kappa, change);
+
+            // Where the carriers sit near q = 0 and this mesh uses no window for them, both meshes sample them
+            // with one point per cell and can make the same error: the change is then a lower bound.
+            var lowerBound = !double.IsNaN(change) && close[t] && !(handover?.On[t] ?? false);
+            return new ConductivityRow(temperatures[t], Axis(0), Axis(1), Axis(2), kappa, change, lowerBound);
         }
 
         var rows = ImmutableArray.CreateRange(Enumerable.Range(0, options.TemperaturesK.Length).Select(Row));

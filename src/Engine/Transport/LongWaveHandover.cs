@@ -32,8 +32,10 @@ internal sealed class LongWaveHandover
     public const double WidthSpacings = 8;
 
     /// <summary>
-    /// The narrowest window used: 6 spacings left 2.6e-4 in the emulation, 4 spacings 4.6e-3, and a
-    /// 2.5-spacing window on a chain's mesh 8 made its kappa 2.8 % worse than no window at 300 K.
+    /// The narrowest window used at every temperature that wants it: 6 spacings left 2.6e-4 in the emulation,
+    /// 4 spacings 4.6e-3, and a 2.5-spacing window on a chain's mesh 8 made its kappa 2.8 % worse than no
+    /// window at 300 K. 1D and 2D use no narrower one; 3D uses narrower ones (down to
+    /// <see cref="NarrowMinimumWidthSpacings"/>) at the temperatures whose carriers they hold.
     /// </summary>
     public const double MinimumWidthSpacings = 6;
 
@@ -55,6 +57,35 @@ internal sealed class LongWaveHandover
     /// Mesh convergence); narrower windows were not measured.
     /// </summary>
     public const double CheckMinimumWidthSpacings = 2;
+
+    /// <summary>
+    /// 3D: the narrowest window used at all (in spacings, from the q = 0 cell's circumradius to the zone's
+    /// limit: mesh 6 holds 1.98 of a simple cubic lattice, 1.89 of fcc, 1.63 of bcc, mesh 8 1.70 of a hexagonal
+    /// one with c / a = 1.25; mesh 4 of simple cubic 1.03), on at the temperatures whose carriers it holds
+    /// (<see cref="NarrowHoldsX"/>). Measured on cubic, fcc, bcc and hexagonal models at 3-300 K against an
+    /// independent ball integral and brute-force meshes of 96^3-160^3 (docs/outside-checks.md, Round 15).
+    /// </summary>
+    public const double NarrowMinimumWidthSpacings = 1.5;
+
+    /// <summary>
+    /// x of the fastest acoustic branch at the middle of a narrow window's erfc edge from which the window is
+    /// on. On a hexagonal model's mesh 10-16 the window left kappa_zz 1.5e-3 to 3.8e-3 high at 50-300 K where
+    /// the one-point sum was within 1.2e-3 to 9e-3 low (with 12 the window was off at 20 K, where it takes
+    /// errors of 1.7-7 % to 1e-3, kappa_zz 3e-3); a simple cubic model gained at every temperature (Round 15).
+    /// </summary>
+    public const double NarrowHoldsX = 6;
+
+    /// <summary>
+    /// x of the fastest acoustic branch one spacing out from which the carriers count as close to q = 0 (<see cref="Needs"/>):
+    /// a thermal wave number below 2/3 of a spacing.
+    /// </summary>
+    public const double CloseCarriersX = 1.5;
+
+    /// <summary>
+    /// 3D: the narrowest window the check mesh takes (its own spacings): a check mesh 4 of a cubic mesh 8 holds
+    /// 1.03. Its window is then sharp on its own scale, so its error is larger than this mesh's, never the same.
+    /// </summary>
+    public const double CheckMinimumWidthSpacings3d = 1.0;
 
     /// <summary>Cells whose centres lie within this many spacings of q = 0 get 3 x 3 pieces of nodes.</summary>
     public const double FineCellsSpacings = 2.5;
@@ -96,28 +127,77 @@ internal sealed class LongWaveHandover
     /// window. In 3D the window's part outside the q = 0 cell is integrated along rays
     /// (<see cref="HandoverRays"/>), not with nodes per cell.
     /// </summary>
-    public static LongWaveHandover? Plan(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK)
+    public static LongWaveHandover? Plan(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK) =>
+        Plan(solver, lattice, mesh, temperaturesK, Wanted(solver, lattice, mesh, temperaturesK));
+
+    /// <summary>As above, with <see cref="Wanted"/> already known.</summary>
+    public static LongWaveHandover? Plan(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK, bool[] wanted)
     {
+        if (!wanted.Any(w => w))
+        {
+            return null;
+        }
+
         var d = lattice.Dimension;
-        var (inradius, circumradius, spacing, zone) = Geometry(GammaCellIntegrator.Edges(lattice, mesh), lattice);
+        var (_, circumradius, spacing, zone) = Geometry(GammaCellIntegrator.Edges(lattice, mesh), lattice);
         // 3D: out to the zone's limit. Rays integrate f w at about the same cost however far they reach,
         // and the mesh's one point per cell follows f (1 - w) only where f is smooth on the mesh's scale:
         // a simple cubic model with next-nearest springs a twentieth of the nearest (soft transverse
         // branches near the axes, kinks where they cross) was 6e-3 low at 4 K on mesh 48 with 8 spacings,
         // 5e-4 (the cell's direction rule) with the whole ball.
         var outside = d == 3 ? zone : Math.Min(circumradius + (WidthSpacings * spacing), zone);
-        if (outside < circumradius + (MinimumWidthSpacings * spacing))
+        var width = (outside - circumradius) / spacing;
+        if (width >= MinimumWidthSpacings)
+        {
+            return new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, wanted);
+        }
+
+        if (d != 3 || width < NarrowMinimumWidthSpacings)
         {
             return null; // the zone holds no window wide enough (a mesh of a few points): the cell and the mesh stay as they were
         }
 
-        // On where some branch's carriers leave the cell (the slowest's x at the cell's edge) and some
-        // branch's change within a cell (the fastest acoustic's x one spacing out).
-        var slowAtEdge = AcousticOmegas(solver, lattice, inradius).Slowest;
-        var fastAtSpacing = AcousticOmegas(solver, lattice, spacing).Fastest;
-        var on = new bool[temperaturesK.Length];
+        // A narrow 3D window (coarse meshes): its erfc edge is steep on the mesh's scale, and one point per cell
+        // sums f (1 - w) well only where f has died out before the edge. So it is on only at the temperatures
+        // whose heat carriers sit inside it: x of the fastest acoustic branch at the middle of the edge at least
+        // NarrowHoldsX. Hotter temperatures keep the one-point sum (and the lower-bound flag of the mesh change
+        // where their carriers are still close to q = 0, ConductivityCalculator).
+        var fastAtEdge = AcousticOmegas(solver, lattice, (circumradius + outside) / 2).Fastest;
+        var on = new bool[wanted.Length];
         var any = false;
         for (var t = 0; t < on.Length; t++)
+        {
+            var kT = Units.PhysicalConstants.BoltzmannJPerK * temperaturesK[t];
+            on[t] = wanted[t] && Units.PhysicalConstants.HbarJS * fastAtEdge / kT >= NarrowHoldsX;
+            any |= on[t];
+        }
+
+        return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on) : null;
+    }
+
+    /// <summary>
+    /// Per temperature: whether the long waves need the hand-over on this mesh, whether or not the mesh
+    /// holds a window for it: some branch's carriers leave the q = 0 cell (x of the slowest moving branch
+    /// at the cell's inner edge below <see cref="CellHoldsX"/>) and some branch's change within a mesh cell
+    /// (x of the fastest acoustic branch one spacing out above <see cref="MeshFollowsX"/>).
+    /// </summary>
+    public static bool[] Wanted(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK) =>
+        Needs(solver, lattice, mesh, temperaturesK).Wanted;
+
+    /// <summary>
+    /// <see cref="Wanted"/>, and per temperature whether the heat carriers sit so close to q = 0 that one point
+    /// per cell misses them on this mesh and on the half-density one alike (x of the fastest acoustic branch
+    /// one spacing out at least <see cref="CloseCarriersX"/>): where the window is wanted there and not used,
+    /// the mesh change can under-read the error.
+    /// </summary>
+    public static (bool[] Wanted, bool[] Close) Needs(ModeSolver solver, Lattice lattice, int[] mesh, double[] temperaturesK)
+    {
+        var (inradius, _, spacing, _) = Geometry(GammaCellIntegrator.Edges(lattice, mesh), lattice);
+        var slowAtEdge = AcousticOmegas(solver, lattice, inradius).Slowest;
+        var fastAtSpacing = AcousticOmegas(solver, lattice, spacing).Fastest;
+        var wanted = new bool[temperaturesK.Length];
+        var close = new bool[temperaturesK.Length];
+        for (var t = 0; t < wanted.Length; t++)
         {
             var kT = Units.PhysicalConstants.BoltzmannJPerK * temperaturesK[t];
             if (!(kT > 0))
@@ -127,11 +207,11 @@ internal sealed class LongWaveHandover
 
             var xEdge = Units.PhysicalConstants.HbarJS * slowAtEdge / kT;
             var xSpacing = Units.PhysicalConstants.HbarJS * fastAtSpacing / kT;
-            on[t] = xEdge < CellHoldsX && xSpacing > MeshFollowsX;
-            any |= on[t];
+            wanted[t] = xEdge < CellHoldsX && xSpacing > MeshFollowsX;
+            close[t] = wanted[t] && xSpacing >= CloseCarriersX;
         }
 
-        return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on) : null;
+        return (wanted, close);
     }
 
     /// <summary>
@@ -149,7 +229,8 @@ internal sealed class LongWaveHandover
     {
         var (_, circumradius, spacing, zone) = Geometry(GammaCellIntegrator.Edges(_lattice, mesh), _lattice);
         var outside = _lattice.Dimension == 3 ? zone : Math.Min(circumradius + (WidthSpacings * spacing), zone);
-        return outside < circumradius + (CheckMinimumWidthSpacings * spacing)
+        var minimum = _lattice.Dimension == 3 ? CheckMinimumWidthSpacings3d : CheckMinimumWidthSpacings;
+        return outside < circumradius + (minimum * spacing)
             ? null
             : new LongWaveHandover(_lattice, mesh, spacing, circumradius, outside, _on);
     }

@@ -15,8 +15,9 @@ internal static partial class LongTableColumns
         var starts = RowStarts(points, result => result.Thermal.Length);
 
         var total = starts[^1];
-        var own = new Dictionary<string, double?[]>(StringComparer.Ordinal);
-        double?[] Column(string name) => own[name] = new double?[total];
+        var own = new Dictionary<string, Array>(StringComparer.Ordinal);
+        double?[] Column(string name) => (double?[])(own[name] = new double?[total]);
+        bool?[] Flag(string name) => (bool?[])(own[name] = new bool?[total]);
         var temperature = Column("temperature_k");
         var energyMol = Column("internal_energy_j_per_mol");
         var freeMol = Column("free_energy_j_per_mol");
@@ -36,6 +37,7 @@ internal static partial class LongTableColumns
         var kappaZz = Column("kappa_zz_w_per_m_k");
         var kappa = Column("kappa_w_per_m_k");
         var meshChange = Column("kappa_mesh_change");
+        var meshChangeLowerBound = Flag("kappa_mesh_change_lower_bound");
         var energyChange = Column("internal_energy_mesh_change_j_per_mol");
         var freeChange = Column("free_energy_mesh_change_j_per_mol");
         var entropyChange = Column("entropy_mesh_change_j_per_mol_k");
@@ -81,6 +83,7 @@ internal static partial class LongTableColumns
                     kappaZz[row] = ResultSchemas.NullIfNaN(k.KappaZzWPerMK);
                     kappa[row] = ResultSchemas.NullIfNaN(k.KappaWPerMK);
                     meshChange[row] = ResultSchemas.NullIfNaN(k.MeshRelativeChange);
+                    meshChangeLowerBound[row] = double.IsNaN(k.MeshRelativeChange) ? null : k.MeshChangeIsLowerBound;
                 }
 
                 if (v.MeshChange is { } c)

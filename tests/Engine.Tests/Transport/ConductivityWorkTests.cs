@@ -33,15 +33,33 @@ public class ConductivityWorkTests
     public void Panelled_faces_are_counted_with_their_rays_in_both_passes()
     {
         // docs/outside-checks.md, round 11 (axis-faces): the 40 / 2 N/m model takes 5,760 rays on mesh 8 at
-        // 0.05 K, the 40 / 20 N/m one the default 3 x 8 x 8 = 192.
+        // 0.05 K, the 40 / 20 N/m one the default 3 x 8 x 8 = 192. Since Round 15 mesh 8 also holds a narrow
+        // 3D hand-over window at 1 K, whose ray nodes are the second count (Narrow_3d_window_nodes_are_counted_where_it_is_on).
         var options = Options(new ConductivityOptions { Constant = new ConstantScattering(10) }, 0.05, 1);
         var mesh = BulkSample.Uniform(3, 8);
-        Assert.Equal((2 * 5760, 0), ConductivityWork.LongWaveCounts(Cubic(2), mesh, options));
-        Assert.Equal((2 * 192, 0), ConductivityWork.LongWaveCounts(Cubic(20), mesh, options));
-        Assert.Equal((192, 0), ConductivityWork.LongWaveCounts(Cubic(20), mesh, Options(new ConductivityOptions { Constant = new ConstantScattering(10), CheckMeshConvergence = false }, 0.05, 1)));
+        Assert.Equal(2 * 5760, ConductivityWork.LongWaveCounts(Cubic(2), mesh, options).Rays);
+        Assert.Equal(2 * 192, ConductivityWork.LongWaveCounts(Cubic(20), mesh, options).Rays);
+        Assert.Equal(192, ConductivityWork.LongWaveCounts(Cubic(20), mesh, Options(new ConductivityOptions { Constant = new ConstantScattering(10), CheckMeshConvergence = false }, 0.05, 1)).Rays);
         var panelled = ConductivityWork.EstimateFlops(Cubic(2), mesh, options);
         var plain = ConductivityWork.EstimateFlops(Cubic(20), mesh, options);
         Assert.True(panelled > 10 * plain, $"flops {panelled:E3} against {plain:E3}");
+    }
+
+    [Fact]
+    public void Narrow_3d_window_nodes_are_counted_where_it_is_on()
+    {
+        // Mesh 8 of a cubic lattice holds a window of 2.9 spacings (LongWaveHandover.NarrowMinimumWidthSpacings
+        // 1.5), on where its carriers sit inside it: at 10 K, not at 300 K (and not at 1 K, where the q = 0 cell holds them);
+        // mesh 4 (1.03 spacings) holds none.
+        var kappa = new ConductivityOptions { Constant = new ConstantScattering(10), CheckMeshConvergence = false };
+        var cold = ConductivityWork.LongWaveCounts(Cubic(20), BulkSample.Uniform(3, 8), Options(kappa, 10)).NodeSolves;
+        var frozen = ConductivityWork.LongWaveCounts(Cubic(20), BulkSample.Uniform(3, 8), Options(kappa, 1)).NodeSolves;
+        var hot = ConductivityWork.LongWaveCounts(Cubic(20), BulkSample.Uniform(3, 8), Options(kappa, 300)).NodeSolves;
+        var coarse = ConductivityWork.LongWaveCounts(Cubic(20), BulkSample.Uniform(3, 4), Options(kappa, 10)).NodeSolves;
+        Assert.True(cold > 0, $"window nodes on mesh 8 at 10 K: {cold}");
+        Assert.Equal(0, frozen);
+        Assert.Equal(0, hot);
+        Assert.Equal(0, coarse);
     }
 
     [Fact]

@@ -63,7 +63,7 @@ public sealed class ConductivityRunTests : IDisposable
 
         using var db = new DuckDb();
         var points = DuckDb.Glob(Path.Combine(folder, "points"));
-        var rows = db.Rows($"SELECT conductivity_boundary_length_nm, kappa_w_per_m_k, kappa_min_w_per_m_k, kappa_share_boundary, kappa_share_umklapp, kappa_share_point_defect, kappa_mesh_change FROM {points} ORDER BY conductivity_boundary_length_nm");
+        var rows = db.Rows($"SELECT conductivity_boundary_length_nm, kappa_w_per_m_k, kappa_min_w_per_m_k, kappa_share_boundary, kappa_share_umklapp, kappa_share_point_defect, kappa_mesh_change, kappa_mesh_change_lower_bound FROM {points} ORDER BY conductivity_boundary_length_nm");
         Assert.Equal(10, rows.Count);
         var kappa = rows.Select(r => (double)r[1]!).ToList();
         for (var i = 1; i < kappa.Count; i++)
@@ -83,18 +83,27 @@ public sealed class ConductivityRunTests : IDisposable
         Assert.True((double)rows[0][3]! > 0.5, "at 1 nm the boundary dominates");
         Assert.All(rows, r => Assert.True((double)r[2]! > 0 && (double)r[6]! >= 0));
 
+        // The lower-bound flag beside the change: written (not empty) wherever the change is.
+        Assert.All(rows, r => Assert.IsType<bool>(r[7]));
+
         // Thermal rows carry kappa per temperature, equal to a direct Engine call on the bound point.
         var thermal = DuckDb.Glob(Path.Combine(folder, "thermal"));
         var first = plan.Points[0];
         var direct = PhononSolver.Solve(request.Model, request.Sample, request.Options).Conductivity!;
-        var written = db.Rows($"SELECT temperature_k, kappa_xx_w_per_m_k, kappa_w_per_m_k, kappa_mesh_change FROM {thermal} WHERE point_id = '{first.PointId}' ORDER BY temperature_k");
+        var written = db.Rows($"SELECT temperature_k, kappa_xx_w_per_m_k, kappa_w_per_m_k, kappa_mesh_change, kappa_mesh_change_lower_bound FROM {thermal} WHERE point_id = '{first.PointId}' ORDER BY temperature_k");
         Assert.Equal(direct.ByTemperature.Select(r => r.TemperatureK), written.Select(r => (double)r[0]!));
         for (var i = 0; i < written.Count; i++)
         {
             Assert.Equal(direct.ByTemperature[i].KappaXxWPerMK, (double)written[i][1]!, 12);
             Assert.Equal(direct.ByTemperature[i].KappaWPerMK, (double)written[i][2]!, 12);
             Assert.Equal(direct.ByTemperature[i].MeshRelativeChange, (double)written[i][3]!, 12);
+            Assert.Equal(direct.ByTemperature[i].MeshChangeIsLowerBound, (bool)written[i][4]!);
         }
+
+        // Mesh 4 of this fcc crystal holds no long-wave window, and at 50 K its carriers sit within a spacing of
+        // q = 0: the change there is only a lower bound; at 300 K they span the zone and it is not.
+        Assert.True((bool)written[0][4]!, "the flag at 50 K");
+        Assert.False((bool)written[1][4]!, "the flag at 300 K");
 
         // The cumulative table ends at kappa; its units are in the manifest.
         var cumulative = DuckDb.Glob(Path.Combine(folder, "cumulative_kappa"));
