@@ -184,6 +184,11 @@ internal static class SimplexDosIntegrator
         var acousticBranches = longWaves is { } box ? Math.Min(box.Branches, branches) : 0;
         var curvedBranches = longWaves is not null && m1 >= 3 && m2 >= 3 && m3 >= 3 ? branches : 0;
         var shifts = new double[6 * Math.Max(curvedBranches, 1)];
+        var coneShell = curvedBranches > 0 ? ConeShell.Around(longWaves!.Value, m1, m2, m3) : null;
+        var pivots = new double[shifts.Length];
+        var hessians = new double[shifts.Length];
+        Span<double> cornerSteps = stackalloc double[12];
+        Span<double> cornerValues = stackalloc double[4];
         var branchTops = new double[curvedBranches];
         var branchBottoms = new double[curvedBranches];
         for (var b = 0; b < curvedBranches; b++)
@@ -256,13 +261,40 @@ internal static class SimplexDosIntegrator
 
                     // Every branch the tetrahedra take here (the acoustic ones only outside the box) lowered by its mean interpolation error.
                     var curved = curvedBranches;
+                    var nearCone = coneShell is not null && coneShell.Contains(i1, i2, i3, firstBranch);
                     for (var b = firstBranch; b < curved; b++)
                     {
-                        TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchBottoms[b], branchTops[b], shifts.AsSpan(6 * b, 6));
+                        if (nearCone)
+                        {
+                            TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchBottoms[b], branchTops[b], shifts.AsSpan(6 * b, 6), pivots.AsSpan(6 * b, 6), hessians.AsSpan(6 * b, 6));
+                        }
+                        else
+                        {
+                            TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchBottoms[b], branchTops[b], shifts.AsSpan(6 * b, 6));
+                        }
+                    }
+
+                    // Next to the cone (ConeShell) only: a cube with a tetrahedron to split (QuadraticTetrahedron) goes through the scalar kernel.
+                    var split = false;
+                    for (var b = firstBranch; b < curved && nearCone && !split; b++)
+                    {
+                        for (var t = 0; t < 6 && !split; t++)
+                        {
+                            var low = double.PositiveInfinity;
+                            var high = double.NegativeInfinity;
+                            for (var k = 0; k < 4; k++)
+                            {
+                                var f = frequencyThz[(corners[TetrahedronCorners[(4 * t) + k]] * branches) + b];
+                                (low, high) = (Math.Min(low, f), Math.Max(high, f));
+                            }
+
+                            split = QuadraticTetrahedron.Needs(shifts[(6 * b) + t], low, high);
+                        }
                     }
 
                     var entry = 0;
-                    if (vectors)
+                    var vectorsHere = vectors && !split;
+                    if (vectorsHere)
                     {
                         for (var t = 0; t < 24; t += 4)
                         {
@@ -315,15 +347,29 @@ internal static class SimplexDosIntegrator
                                 }
                             }
 
-                            if (vectors)
+                            if (vectorsHere)
                             {
                                 kernel.AddPrepared(entry++, cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
                             }
                             else
                             {
-                                var lift = b < curved ? shifts[(6 * b) + (t / 4)] : 0.0;
+                                var (f0, f1, f2, f3) = (frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b]);
+                                var shift = b < curved ? shifts[(6 * b) + (t / 4)] : 0.0;
+                                if (split && QuadraticTetrahedron.Needs(shift, Math.Min(Math.Min(f0, f1), Math.Min(f2, f3)), Math.Max(Math.Max(f0, f1), Math.Max(f2, f3))))
+                                {
+                                    for (var k = 0; k < 4; k++)
+                                    {
+                                        var corner = TetrahedronCorners[t + k];
+                                        (cornerSteps[3 * k], cornerSteps[(3 * k) + 1], cornerSteps[(3 * k) + 2]) = (corner & 1, (corner >> 1) & 1, (corner >> 2) & 1);
+                                    }
+
+                                    (cornerValues[0], cornerValues[1], cornerValues[2], cornerValues[3]) = (f0, f1, f2, f3);
+                                    QuadraticTetrahedron.Add(kernel, cornerSteps, cornerValues, hessians.AsSpan(6 * b, 6), pivots[(6 * b) + (t / 4)], branchBottoms[b], branchTops[b], cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
+                                    continue;
+                                }
+
                                 kernel.Add(
-                                    frequencyThz[c0 + b] - lift, frequencyThz[c1 + b] - lift, frequencyThz[c2 + b] - lift, frequencyThz[c3 + b] - lift,
+                                    f0 - shift, f1 - shift, f2 - shift, f3 - shift,
                                     cubeShare, paddedTotal, paddedPartial, useWeights ? channels : 0, meanWeight);
                             }
                         }

@@ -50,6 +50,51 @@ internal static class TetrahedronCurvature
     public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchBottomThz, double branchTopThz, Span<double> shift)
     {
         Span<double> h = stackalloc double[6];
+        CubeHessian(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, h);
+        Shifts(frequencyThz, branches, b, corners, branchBottomThz, branchTopThz, h, shift);
+    }
+
+    /// <summary>
+    /// The same shifts as <see cref="CubeShifts(double[], int, int, int, int, int, int, int, int, ReadOnlySpan{int}, double, double, Span{double})"/>
+    /// (to the bit), and for the tetrahedra that <see cref="QuadraticTetrahedron"/> may split: into pivot[0..5]
+    /// the value its <see cref="PinnedShift"/> contracts towards, and the Hessian used into hessian[0..5]
+    /// (xx, yy, zz, xy, xz, yz in mesh steps).
+    /// </summary>
+    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchBottomThz, double branchTopThz, Span<double> shift, Span<double> pivot, Span<double> hessian)
+    {
+        CubeHessian(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, hessian);
+        Shifts(frequencyThz, branches, b, corners, branchBottomThz, branchTopThz, hessian, shift);
+        for (var t = 0; t < 6; t++)
+        {
+            var (low, high) = CornerRange(frequencyThz, branches, b, corners, t);
+
+            // The pivot of the contraction (PinnedShift): how far below its lowest corner (above its highest)
+            // the branch's quadratic model reaches on the tetrahedron's six edges, within the branch's range.
+            var h = hessian;
+            var reach = shift[t] > 0 ? low : high;
+            for (var i = 0; i < 4 && shift[t] != 0; i++)
+            {
+                for (var j = i + 1; j < 4; j++)
+                {
+                    var (ci, cj) = (Corners[(4 * t) + i], Corners[(4 * t) + j]);
+                    var (ex, ey, ez) = ((cj & 1) - (ci & 1), ((cj >> 1) & 1) - ((ci >> 1) & 1), ((cj >> 2) & 1) - ((ci >> 2) & 1));
+                    var kappa = (h[0] * ex * ex) + (h[1] * ey * ey) + (h[2] * ez * ez) + (2 * ((h[3] * ex * ey) + (h[4] * ex * ez) + (h[5] * ey * ez)));
+                    if (kappa > 0 == shift[t] > 0)
+                    {
+                        var extreme = PinnedShift.EdgeExtreme(frequencyThz[(corners[ci] * branches) + b], frequencyThz[(corners[cj] * branches) + b], kappa);
+                        reach = shift[t] > 0 ? Math.Min(reach, extreme) : Math.Max(reach, extreme);
+                    }
+                }
+            }
+
+            pivot[t] = Math.Clamp(reach, branchBottomThz, branchTopThz);
+        }
+    }
+
+    /// <summary>The branch's Hessian for the cube: the mean of the second differences at the two ends of its main diagonal.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static void CubeHessian(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, Span<double> h)
+    {
         Span<double> other = stackalloc double[6];
         Hessian(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, h);
         Hessian(frequencyThz, branches, b, m1, m2, m3, Next(i1, m1), Next(i2, m2), Next(i3, m3), other);
@@ -57,22 +102,34 @@ internal static class TetrahedronCurvature
         {
             h[k] = 0.5 * (h[k] + other[k]);
         }
+    }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static void Shifts(double[] frequencyThz, int branches, int b, ReadOnlySpan<int> corners, double branchBottomThz, double branchTopThz, ReadOnlySpan<double> h, Span<double> shift)
+    {
         for (var t = 0; t < 6; t++)
         {
             var s = Shapes.AsSpan(6 * t, 6);
             var value = (s[0] * h[0]) + (s[1] * h[1]) + (s[2] * h[2]) + (s[3] * h[3]) + (s[4] * h[4]) + (s[5] * h[5]);
-            var low = double.PositiveInfinity;
-            var high = double.NegativeInfinity;
-            for (var k = 0; k < 4; k++)
-            {
-                var f = frequencyThz[(corners[Corners[(4 * t) + k]] * branches) + b];
-                low = Math.Min(low, f);
-                high = Math.Max(high, f);
-            }
-
+            var (low, high) = CornerRange(frequencyThz, branches, b, corners, t);
             shift[t] = Math.Clamp(value, Math.Min(high - branchTopThz, 0), Math.Max(low - branchBottomThz, 0));
         }
+    }
+
+    /// <summary>The lowest and highest of branch b's values at tetrahedron t's four corners.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static (double Low, double High) CornerRange(double[] frequencyThz, int branches, int b, ReadOnlySpan<int> corners, int t)
+    {
+        var low = double.PositiveInfinity;
+        var high = double.NegativeInfinity;
+        for (var k = 0; k < 4; k++)
+        {
+            var f = frequencyThz[(corners[Corners[(4 * t) + k]] * branches) + b];
+            low = Math.Min(low, f);
+            high = Math.Max(high, f);
+        }
+
+        return (low, high);
     }
 
     /// <summary>Second differences of branch b at mesh point (i1, i2, i3): (xx, yy, zz, xy, xz, yz), periodic mesh.</summary>
