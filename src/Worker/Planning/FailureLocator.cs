@@ -12,9 +12,11 @@ namespace LatticeSweep.Worker.Planning;
 /// A failed point's error text with where in the job file it comes from (<see cref="FailureText"/>).
 /// A model failure is traced by the Engine's checks before the spectrum (the ones <c>check</c>
 /// runs): the point is checked again with each swept key in turn put back to the job file's own
-/// value; a key whose put-back clears the reason is one it comes from. When none alone does but all
-/// together do, the keys together; when the job file's own values fail too, the reason names their
-/// lines as <c>check</c> does. When the checks pass (the failure came later in the solve) or the
+/// value, then with it set to a few other values the sweep gives it; the keys whose change lets the
+/// point pass are the ones it comes from. When no change lets it pass (another check would fail
+/// first), the keys whose change removes this reason (its problems' kinds and keys); when none does
+/// but all put back together let it pass, the keys together. Otherwise the job file's own
+/// values fail too, and the reason names their lines as <c>check</c> does. When the checks pass (the failure came later in the solve) or the
 /// model is too large for them, a swept key whose path is the Engine's key (or a part of it) is
 /// named; otherwise the failure is said to be untraced. A failure inside the solver is never given a
 /// location. Runs only for failed points: the path of a point that solves is untouched.
@@ -36,8 +38,8 @@ internal static class FailureLocator
             return FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.JobFile);
         }
 
-        var original = CheckFailure(plan, point.Parameters, _ => false);
-        if (original is null)
+        var original = Check(plan, point.Parameters, _ => false);
+        if (original is not { Passes: false })
         {
             var keys = ex.Problems.Select(p => ModelProblemText.JobFileKey(p.Where)).ToList();
             var named = swept.Where(k => keys.Any(k.Touches)).ToList();
@@ -46,18 +48,44 @@ internal static class FailureLocator
                 : FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.Untraced);
         }
 
-        var alone = swept.Where(k => CheckFailure(plan, point.Parameters, c => c == k.Column) != original).ToList();
-        if (alone.Count > 0)
+        var tried = swept.ToDictionary(k => k, k => Alternatives(plan, point.Parameters, k).Select(a => Check(plan, a.Parameters, a.KeepBase)).ToList());
+        var letPass = swept.Where(k => tried[k].Any(r => r is { Passes: true })).ToList();
+        if (letPass.Count > 0)
         {
-            return FailureText.Compose(reason, Origin(FailureOriginKind.SweptValue, alone, plan));
+            return FailureText.Compose(reason, Origin(FailureOriginKind.SweptValue, letPass, plan));
         }
 
-        if (swept.Count > 1 && CheckFailure(plan, point.Parameters, _ => true) != original)
+        // No change lets the point pass (another check fails first): keys whose change removes this reason.
+        var removeIt = swept.Where(k => tried[k].Any(r => r is { Passes: false } && !original.Problems.IsSubsetOf(r.Problems))).ToList();
+        if (removeIt.Count > 0)
+        {
+            return FailureText.Compose(reason, Origin(FailureOriginKind.SweptValue, removeIt, plan));
+        }
+
+        if (swept.Count > 1 && Check(plan, point.Parameters, _ => true) is { Passes: true })
         {
             return FailureText.Compose(reason, Origin(FailureOriginKind.SweptTogether, swept, plan));
         }
 
         return FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.JobFile);
+    }
+
+    /// <summary>Other values tried per swept key besides the job file's own: the sweep's first few values other than the point's.</summary>
+    private const int OtherValuesTried = 3;
+
+    /// <summary>
+    /// The point with one key changed: put back to the job file's own value, then set to a few other
+    /// values the sweep gives it (the job file's own may fail as well, say a spring of 0 swept over 0 and 8).
+    /// </summary>
+    private static IEnumerable<(PointParameters Parameters, Func<string, bool> KeepBase)> Alternatives(SweepPlan plan, PointParameters parameters, SweptKey key)
+    {
+        yield return (parameters, c => c == key.Column);
+        var own = parameters[key.Column];
+        var axis = plan.Axes.FirstOrDefault(a => a.ColumnName == key.Column);
+        foreach (var value in (axis?.Values ?? []).Where(v => !Equals(v, own)).Take(OtherValuesTried))
+        {
+            yield return (parameters.With(key.Column, value), _ => false);
+        }
     }
 
     /// <summary>The error text of a point that failed inside the solver (not the user's input).</summary>
@@ -78,19 +106,20 @@ internal static class FailureLocator
     private static TomlDocument? Document(SweepPlan plan) =>
         Documents.GetValue(plan, p => TomlDocument.Parse(p.SpecText, p.SourcePath, new ProblemCollector(p.SourcePath)));
 
-    /// <summary>
-    /// What the Engine's checks refuse the point for before its spectrum, as the kinds and keys of its
-    /// problems (null when it passes, or when its model is too large to check). Kinds and keys, not the
-    /// words: a floppy model's message names the first free direction it finds, which other values may change.
-    /// </summary>
-    private static string? CheckFailure(SweepPlan plan, PointParameters parameters, Func<string, bool> keepBase)
+    /// <summary>What the Engine's checks before the spectrum say of a point: it passes, or the kinds and keys of its problems.</summary>
+    private sealed record CheckResult(bool Passes, IReadOnlySet<string> Problems);
+
+    private static readonly CheckResult Passed = new(true, new HashSet<string>());
+
+    /// <summary>The point checked as <c>check</c> and the solver check it before the spectrum; null when its model is too large to check.</summary>
+    private static CheckResult? Check(SweepPlan plan, PointParameters parameters, Func<string, bool> keepBase)
     {
         try
         {
             var spec = PointBinder.Apply(plan.Template, parameters, keepBase);
             if (SpecChecks.Check(spec) is { } wrong)
             {
-                return wrong;
+                return new CheckResult(false, new HashSet<string>(StringComparer.Ordinal) { wrong });
             }
 
             var model = EngineObjects.BuildModel(spec.Model, out _);
@@ -102,11 +131,14 @@ internal static class FailureLocator
             PhononSolver.PreflightModel(model);
             var sample = EngineObjects.BuildSample(spec.Sample, model.Lattice);
             PhononSolver.PreflightPoint(model, sample, plan.Template.Options with { Conductivity = spec.Conductivity });
-            return null;
+            return Passed;
         }
         catch (ModelException ex)
         {
-            return ex.Problems.Count == 0 ? ex.Message : string.Join("\n", ex.Problems.Select(p => $"{p.Kind} {p.Where}"));
+            // Kinds and keys, not the words: a floppy model's message names the first free direction found, which other values may change.
+            return new CheckResult(false, ex.Problems.Count == 0
+                ? new HashSet<string>(StringComparer.Ordinal) { ex.Message }
+                : ex.Problems.Select(p => $"{p.Kind} {p.Where}").ToHashSet(StringComparer.Ordinal));
         }
     }
 }
