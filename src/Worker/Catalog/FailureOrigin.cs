@@ -38,6 +38,10 @@ public sealed record FailureOrigin(FailureOriginKind Kind, ImmutableArray<Origin
 
     public static FailureOrigin Solver { get; } = new(FailureOriginKind.InsideSolver, []);
 
+    public bool Equals(FailureOrigin? other) => other is not null && Kind == other.Kind && Keys.SequenceEqual(other.Keys);
+
+    public override int GetHashCode() => Keys.Aggregate(Kind.GetHashCode(), (h, k) => HashCode.Combine(h, k));
+
     /// <summary>In plain words, for the "where" line of a failure group.</summary>
     public string Describe() => Kind switch
     {

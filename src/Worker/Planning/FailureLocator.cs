@@ -15,7 +15,8 @@ namespace LatticeSweep.Worker.Planning;
 /// value, then with it set to a few other values the sweep gives it; the keys whose change lets the
 /// point pass are the ones it comes from. When no change lets it pass (another check would fail
 /// first), the keys whose change removes this reason (its problems' kinds and keys); when none does
-/// but all put back together let it pass, the keys together. Otherwise the job file's own
+/// but all put back together let it pass, the keys together (those of them that fail alone on the
+/// job file's own values). Otherwise the job file's own
 /// values fail too, and the reason names their lines as <c>check</c> does. When the checks pass (the failure came later in the solve) or the
 /// model is too large for them, a swept key whose path is the Engine's key (or a part of it) is
 /// named; otherwise the failure is said to be untraced. A failure inside the solver is never given a
@@ -64,7 +65,9 @@ internal static class FailureLocator
 
         if (swept.Count > 1 && Check(plan, point.Parameters, _ => true) is { Passes: true })
         {
-            return FailureText.Compose(reason, Origin(FailureOriginKind.SweptTogether, swept, plan));
+            // Of those, the keys it needs: with all others put back and this one kept, the point still fails.
+            var needed = swept.Where(k => Check(plan, point.Parameters, c => c != k.Column) is { Passes: false }).ToList();
+            return FailureText.Compose(reason, Origin(FailureOriginKind.SweptTogether, needed.Count > 0 ? needed : swept, plan));
         }
 
         return FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.JobFile);
