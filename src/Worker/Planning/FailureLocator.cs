@@ -1,4 +1,6 @@
+using System.Collections.Concurrent;
 using System.Runtime.CompilerServices;
+using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Worker.Catalog;
@@ -20,7 +22,9 @@ namespace LatticeSweep.Worker.Planning;
 /// values fail too, and the reason names their lines as <c>check</c> does. When the checks pass (the failure came later in the solve) or the
 /// model is too large for them, a swept key whose path is the Engine's key (or a part of it) is
 /// named; otherwise the failure is said to be untraced. A failure inside the solver is never given a
-/// location. Runs only for failed points: the path of a point that solves is untouched.
+/// location. Runs only for failed points: the path of a point that solves is untouched. A refusal
+/// of the model itself is traced on the model's checks alone, once per reason and set of swept model
+/// values in a process (a sweep of a bad model over a thousand sample sizes traces it once).
 /// </summary>
 internal static class FailureLocator
 {
@@ -49,28 +53,56 @@ internal static class FailureLocator
                 : FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.Untraced);
         }
 
-        var tried = swept.ToDictionary(k => k, k => Alternatives(plan, point.Parameters, k).Select(a => Check(plan, a.Parameters, a.KeepBase)).ToList());
+        // A refusal of the model itself cannot come from the sample's keys, and is the same for every point
+        // with the same model values: traced once per reason and model (a sweep of sizes traces each bad model once).
+        var (kind, traced) = original.OfModel
+            ? Traced.GetValue(plan, _ => new ConcurrentDictionary<string, (FailureOriginKind, List<SweptKey>)>(StringComparer.Ordinal))
+                .GetOrAdd(MemoKey(original, point.Parameters, swept.Where(IsModelKey)), _ => Trace(plan, point.Parameters, [.. swept.Where(IsModelKey)], original))
+            : Trace(plan, point.Parameters, swept, original);
+        return kind == FailureOriginKind.JobFileValue
+            ? FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.JobFile)
+            : FailureText.Compose(reason, Origin(kind, traced, plan));
+    }
+
+    private static readonly ConditionalWeakTable<SweepPlan, ConcurrentDictionary<string, (FailureOriginKind, List<SweptKey>)>> Traced = [];
+
+    private static bool IsModelKey(SweptKey key) => key.Path.StartsWith("model.", StringComparison.Ordinal);
+
+    private static string MemoKey(CheckResult original, PointParameters parameters, IEnumerable<SweptKey> keys) =>
+        string.Join("\u0001", original.Problems.Order(StringComparer.Ordinal)) + "\u0002"
+        + string.Join("\u0001", keys.Select(k => PointIdentity.Format(parameters[k.Column])));
+
+    /// <summary>The swept keys the point's refusal comes from, among <paramref name="swept"/>, and how.</summary>
+    private static (FailureOriginKind Kind, List<SweptKey> Keys) Trace(SweepPlan plan, PointParameters parameters, List<SweptKey> swept, CheckResult original)
+    {
+        if (swept.Count == 0)
+        {
+            return (FailureOriginKind.JobFileValue, []);
+        }
+
+        var tried = swept.ToDictionary(k => k, k => Alternatives(plan, parameters, k).Select(a => Check(plan, a.Parameters, a.KeepBase, original.OfModel)).ToList());
         var letPass = swept.Where(k => tried[k].Any(r => r is { Passes: true })).ToList();
         if (letPass.Count > 0)
         {
-            return FailureText.Compose(reason, Origin(FailureOriginKind.SweptValue, letPass, plan));
+            return (FailureOriginKind.SweptValue, letPass);
         }
 
         // No change lets the point pass (another check fails first): keys whose change removes this reason.
         var removeIt = swept.Where(k => tried[k].Any(r => r is { Passes: false } && !original.Problems.IsSubsetOf(r.Problems))).ToList();
         if (removeIt.Count > 0)
         {
-            return FailureText.Compose(reason, Origin(FailureOriginKind.SweptValue, removeIt, plan));
+            return (FailureOriginKind.SweptValue, removeIt);
         }
 
-        if (swept.Count > 1 && Check(plan, point.Parameters, _ => true) is { Passes: true })
+        var columns = swept.Select(k => k.Column).ToHashSet(StringComparer.Ordinal);
+        if (swept.Count > 1 && Check(plan, parameters, columns.Contains, original.OfModel) is { Passes: true })
         {
-            // Of those, the keys it needs: with all others put back and this one kept, the point still fails.
-            var needed = swept.Where(k => Check(plan, point.Parameters, c => c != k.Column) is { Passes: false }).ToList();
-            return FailureText.Compose(reason, Origin(FailureOriginKind.SweptTogether, needed.Count > 0 ? needed : swept, plan));
+            // Of those, the keys it needs: with the others put back and this one kept, the point still fails.
+            var needed = swept.Where(k => Check(plan, parameters, c => c != k.Column && columns.Contains(c), original.OfModel) is { Passes: false }).ToList();
+            return (FailureOriginKind.SweptTogether, needed.Count > 0 ? needed : swept);
         }
 
-        return FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.JobFile);
+        return (FailureOriginKind.JobFileValue, []);
     }
 
     /// <summary>Other values tried per swept key besides the job file's own: the sweep's first few values other than the point's.</summary>
@@ -110,38 +142,57 @@ internal static class FailureLocator
         Documents.GetValue(plan, p => TomlDocument.Parse(p.SpecText, p.SourcePath, new ProblemCollector(p.SourcePath)));
 
     /// <summary>What the Engine's checks before the spectrum say of a point: it passes, or the kinds and keys of its problems.</summary>
-    private sealed record CheckResult(bool Passes, IReadOnlySet<string> Problems);
+    /// <param name="OfModel">The model itself was refused (built and checked before any sample), so no sample key can change it.</param>
+    private sealed record CheckResult(bool Passes, IReadOnlySet<string> Problems, bool OfModel = false);
 
     private static readonly CheckResult Passed = new(true, new HashSet<string>());
 
     /// <summary>The point checked as <c>check</c> and the solver check it before the spectrum; null when its model is too large to check.</summary>
-    private static CheckResult? Check(SweepPlan plan, PointParameters parameters, Func<string, bool> keepBase)
+    /// <param name="modelOnly">Only the model's checks: a refusal of the model is traced the same whatever the sample.</param>
+    private static CheckResult? Check(SweepPlan plan, PointParameters parameters, Func<string, bool> keepBase, bool modelOnly = false)
     {
+        var spec = PointBinder.Apply(plan.Template, parameters, keepBase);
+        if (!modelOnly && SpecChecks.Check(spec) is { } wrong)
+        {
+            return new CheckResult(false, new HashSet<string>(StringComparer.Ordinal) { wrong });
+        }
+
+        CrystalModel model;
         try
         {
-            var spec = PointBinder.Apply(plan.Template, parameters, keepBase);
-            if (SpecChecks.Check(spec) is { } wrong)
-            {
-                return new CheckResult(false, new HashSet<string>(StringComparer.Ordinal) { wrong });
-            }
-
-            var model = EngineObjects.BuildModel(spec.Model, out _);
+            model = EngineObjects.BuildModel(spec.Model, out _);
             if (model.BranchCount > SweepForecast.MaxBranchesPreflighted)
             {
                 return null;
             }
 
             PhononSolver.PreflightModel(model);
+        }
+        catch (ModelException ex)
+        {
+            return Refused(ex, ofModel: true);
+        }
+
+        if (modelOnly)
+        {
+            return Passed;
+        }
+
+        try
+        {
             var sample = EngineObjects.BuildSample(spec.Sample, model.Lattice);
             PhononSolver.PreflightPoint(model, sample, plan.Template.Options with { Conductivity = spec.Conductivity });
             return Passed;
         }
         catch (ModelException ex)
         {
-            // Kinds and keys, not the words: a floppy model's message names the first free direction found, which other values may change.
-            return new CheckResult(false, ex.Problems.Count == 0
-                ? new HashSet<string>(StringComparer.Ordinal) { ex.Message }
-                : ex.Problems.Select(p => $"{p.Kind} {p.Where}").ToHashSet(StringComparer.Ordinal));
+            return Refused(ex, ofModel: false);
         }
     }
+
+    // Kinds and keys, not the words: a floppy model's message names the first free direction found, which other values may change.
+    private static CheckResult Refused(ModelException ex, bool ofModel) =>
+        new(false, ex.Problems.Count == 0
+            ? new HashSet<string>(StringComparer.Ordinal) { ex.Message }
+            : ex.Problems.Select(p => $"{p.Kind} {p.Where}").ToHashSet(StringComparer.Ordinal), ofModel);
 }
