@@ -69,8 +69,23 @@ public sealed record AxisLine(string Column, string Path, string Unit, Immutable
 /// <summary>A failed point as listed in its group.</summary>
 public sealed record FailedPointLine(string PointId, ImmutableSortedDictionary<string, object> Parameters, int Attempts, string? Worker, string Url);
 
-/// <summary>Failed points sharing one reason.</summary>
-public sealed record FailureLine(string Kind, string KindText, string Reason, long Count, ImmutableArray<FailedPointLine> Points);
+/// <summary>
+/// Failed points sharing one reason and origin: <see cref="Reason"/> without its origin, <see cref="From"/> where in the job
+/// file it comes from (null for I/O and input failures), <see cref="FailingValues"/> the values of the swept keys it is
+/// traced to over all the group's points, <see cref="Error"/> the text in the error column of <c>points/</c>.
+/// </summary>
+public sealed record FailureLine(string Kind, string KindText, string Reason, long Count, ImmutableArray<FailedPointLine> Points)
+{
+    public string Error { get; init; } = Reason;
+
+    public string? From { get; init; }
+
+    public ImmutableArray<string> Keys { get; init; } = [];
+
+    public ImmutableArray<string> KeyColumns { get; init; } = [];
+
+    public string? FailingValues { get; init; }
+}
 
 /// <summary>A dataset folder of the sweep and where to browse it.</summary>
 public sealed record DatasetLink(string Table, string Url, int PartFiles);

@@ -28,8 +28,15 @@ internal static class SweepViews
                 new AxisValueLine(v.Value, Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled) { Unstable = v.Unstable })]))
             .ToImmutableArray();
         var failures = FailureReport.Of(board.Catalog, sweep.SweepId)
-            .Select(g => new FailureLine(g.Group.Kind.ToString().ToLowerInvariant(), g.KindText, g.Group.Reason, g.Group.Count,
-                [.. g.Points.Select(p => new FailedPointLine(p.PointId, p.Parameters, p.Attempts, p.Worker, Links.Point(sweep.SweepId, p.PointId)))]))
+            .Select(g => new FailureLine(g.Group.Kind.ToString().ToLowerInvariant(), g.KindText, g.Group.ReasonText, g.Group.Count,
+                [.. g.Points.Select(p => new FailedPointLine(p.PointId, p.Parameters, p.Attempts, p.Worker, Links.Point(sweep.SweepId, p.PointId)))])
+            {
+                Error = g.Group.Reason,
+                From = g.Group.Origin?.Describe(),
+                Keys = [.. g.Group.Origin?.Keys.Select(k => k.Path) ?? []],
+                KeyColumns = [.. g.Group.Values.Select(v => v.Column)],
+                FailingValues = g.Group.Values.Length > 0 ? g.Group.ValuesText : null,
+            })
             .ToImmutableArray();
         var datasets = folder is null
             ? []

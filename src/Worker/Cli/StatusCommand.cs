@@ -9,6 +9,9 @@ namespace LatticeSweep.Worker.Cli;
 /// <summary><c>latsweep status [SWEEP]</c>: every sweep with its counts, or one sweep in detail.</summary>
 internal static class StatusCommand
 {
+    /// <summary>Failure reasons listed at most (the rest are counted).</summary>
+    private const int ReasonsShown = 20;
+
     public static int Run(CommandLine line, CliContext context)
     {
         using var session = Session.Open(line, context);
@@ -67,13 +70,15 @@ internal static class StatusCommand
         {
             o.WriteLine();
             o.WriteLine("Failures by reason:");
-            var table = new TextTable(["points", "kind", "reason", "e.g. point"], [true, false, false, false]);
-            foreach (var g in groups)
+            foreach (var g in groups.Take(ReasonsShown))
             {
-                table.Add(N(g.Count), g.Kind.ToString().ToLowerInvariant(), g.Reason.ReplaceLineEndings(" "), g.ExamplePointIds.FirstOrDefault() ?? "");
+                FailureGroupText.Write(o, g, "  ");
             }
 
-            table.WriteTo(o, "  ");
+            if (groups.Count > ReasonsShown)
+            {
+                o.WriteLine($"  ... {N(groups.Count - ReasonsShown)} more reasons ({N(groups.Skip(ReasonsShown).Sum(g => g.Count))} points): the error column of points/ in {sweep.OutputFolder}");
+            }
         }
 
         if (sweep.Counts.Unstable > 0)

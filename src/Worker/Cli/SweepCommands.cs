@@ -312,7 +312,7 @@ internal static class SweepCommands
             o.WriteLine("Failures by reason:");
             foreach (var g in groups.Take(5))
             {
-                o.WriteLine($"  {g.Count} x {g.Kind.ToString().ToLowerInvariant()}: {g.Reason}");
+                FailureGroupText.Write(o, g, "  ");
             }
 
             if (groups.Count > 5)

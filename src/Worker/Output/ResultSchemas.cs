@@ -246,7 +246,7 @@ internal sealed class ResultSchemas
         C<T>("chunk_id", ColumnType.Text, "", "the queue chunk (and part file) that wrote this row", r => o(r).ChunkId),
         C<T>("state", ColumnType.Text, "", "done, unstable (solved; the model has a negative eigenvalue: stable = false, thermal numbers empty) or failed", r => o(r).State.ToString().ToLowerInvariant()),
         C<T>("failure_kind", ColumnType.Text, "", "model or engine, for a failed point", r => o(r).FailureKind?.ToString().ToLowerInvariant()),
-        C<T>("error", ColumnType.Text, "", "why the point failed", r => o(r).State == Catalog.PointState.Failed ? o(r).Error : null),
+        C<T>("error", ColumnType.Text, "", "why the point failed; in brackets, where in the job file it comes from (README: What a failure says)", r => o(r).State == Catalog.PointState.Failed ? o(r).Error : null),
         C<T>("attempt", ColumnType.Int32, "", "how many times this point was started (1 = first run)", r => o(r).Attempt),
         C<T>("started_at", ColumnType.Timestamp, "UTC", "when the point started", r => o(r).StartedAt),
         C<T>("finished_at", ColumnType.Timestamp, "UTC", "when the point ended", r => o(r).FinishedAt),

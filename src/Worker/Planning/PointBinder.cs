@@ -21,12 +21,15 @@ public static class PointBinder
     internal static BoundSpec Apply(JobTemplate template, PlannedPoint point) => Apply(template, point.Parameters);
 
     /// <summary>The spec of a point with these <paramref name="parameters"/>.</summary>
-    internal static BoundSpec Apply(JobTemplate template, PointParameters parameters)
+    internal static BoundSpec Apply(JobTemplate template, PointParameters parameters) => Apply(template, parameters, null);
+
+    /// <summary>The spec of a point with these <paramref name="parameters"/>, the columns <paramref name="keepBase"/> names left at the job file's own values.</summary>
+    internal static BoundSpec Apply(JobTemplate template, PointParameters parameters, Func<string, bool>? keepBase)
     {
         var spec = template.Base;
         foreach (var binding in template.Bindings)
         {
-            if (parameters.TryGetValue(binding.Column, out var value))
+            if (keepBase?.Invoke(binding.Column) != true && parameters.TryGetValue(binding.Column, out var value))
             {
                 spec = binding.Field.Apply(spec, value);
             }

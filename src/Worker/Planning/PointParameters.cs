@@ -42,6 +42,20 @@ public sealed class PointParameters : IReadOnlyDictionary<string, object>
 
     public int Count => _columns.Length;
 
+    /// <summary>A copy with <paramref name="column"/> set to <paramref name="value"/> (an existing column).</summary>
+    internal PointParameters With(string column, object value)
+    {
+        var i = Array.BinarySearch(_columns, column, StringComparer.Ordinal);
+        if (i < 0)
+        {
+            throw new KeyNotFoundException($"no swept column '{column}'");
+        }
+
+        var values = (object[])_values.Clone();
+        values[i] = value;
+        return new PointParameters(_columns, values);
+    }
+
     /// <summary>The column names in ordinal order (the array shared by a plan's points).</summary>
     internal string[] Columns => _columns;
 

@@ -41,6 +41,9 @@ public sealed record SweepPlan
     /// </summary>
     public double WarnPointTimeS { get; init; } = JobFiles.SweepSectionReader.DefaultWarnPointTimeS;
 
+    /// <summary>Where each swept column's values are written in the job file (for failures: <c>FailureLocator</c>).</summary>
+    internal ImmutableArray<SweptKey> SweptKeys { get; init; } = [];
+
     /// <summary>The candidates file the sweep read, if any (its content is part of <see cref="SpecHash"/>).</summary>
     public string? CandidatesFile { get; init; }
 }

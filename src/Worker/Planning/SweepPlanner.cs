@@ -130,6 +130,7 @@ internal static class SweepPlanner
 
         return new SweepPlan
         {
+            SweptKeys = SweptKeysOf(document, sweep, catalog, columns),
             SweepName = sweep.Name,
             Description = sweep.Description,
             SourcePath = Path.GetFullPath(document.File),
@@ -145,6 +146,43 @@ internal static class SweepPlanner
             CandidatesFile = candidateTable?.File,
             WarnPointTimeS = sweep.WarnPointTimeS,
         };
+    }
+
+    /// <summary>Where each swept column's values are written: an axis's values key, a candidates column's entry.</summary>
+    private static ImmutableArray<SweptKey> SweptKeysOf(TomlDocument document, SweepDeclaration sweep, FieldCatalog catalog, IReadOnlyList<PlanAxis> columns)
+    {
+        var keys = new List<SweptKey>();
+        for (var i = 0; i < sweep.Axes.Length; i++)
+        {
+            var decl = sweep.Axes[i];
+            var sourceKey = decl.Source switch
+            {
+                RangeSource => "range",
+                RandomSource => "random",
+                _ => "values",
+            };
+            if (catalog.TryResolve(decl.Path, out var field) && columns.FirstOrDefault(c => ReferenceEquals(c.Field, field)) is { } column)
+            {
+                var at = decl.Table.Where(sourceKey);
+                keys.Add(new SweptKey(field.Path, column.Column, [.. catalog.OtherNamesOf(field)], $"sweep.axes[{i}].{sourceKey}", at.Line, at.Column));
+            }
+        }
+
+        if (sweep.Candidates is { } cd)
+        {
+            var mapping = cd.Table.Raw("columns") as TomlTable;
+            foreach (var (csvColumn, path) in cd.Columns)
+            {
+                if (catalog.TryResolve(path, out var field) && columns.FirstOrDefault(c => ReferenceEquals(c.Field, field)) is { } column)
+                {
+                    var at = mapping is null ? SourceLocation.Unknown : document.Locate(mapping, csvColumn);
+                    at = at.IsKnown ? at : cd.Table.Where("columns");
+                    keys.Add(new SweptKey(field.Path, column.Column, [.. catalog.OtherNamesOf(field)], $"sweep.candidates.columns.{csvColumn}", at.Line, at.Column));
+                }
+            }
+        }
+
+        return [.. keys];
     }
 
     /// <summary>

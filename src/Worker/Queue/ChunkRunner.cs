@@ -262,7 +262,7 @@ public sealed class ChunkRunner
             }
             catch (ModelException ex)
             {
-                Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Model, ex.Message, null));
+                Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Model, ModelFailureText(plan, point, ex), null));
             }
             catch (OperationCanceledException) when (ct.IsCancellationRequested)
             {
@@ -271,12 +271,26 @@ public sealed class ChunkRunner
             catch (Exception ex) when (!RetryPolicy.IsTransient(ex))
             {
                 // Not the user's input and not transient: record it against the point, do not retry.
-                Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Engine, $"{ex.GetType().Name}: {ex.Message}", null));
+                Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Engine, FailureLocator.DescribeSolverFailure($"{ex.GetType().Name}: {ex.Message.ReplaceLineEndings("; ")}"), null));
             }
             catch (Exception ex)
             {
                 Add(outcomes, sweep.SweepId, Outcome(point, claimed, chunkId, started, clock, PointState.Failed, FailureKind.Io, $"I/O fault after {_retry.Retries} retries: {ex.Message}", null));
             }
+        }
+    }
+
+    /// <summary>The reason with where in the job file it comes from; the Engine's reason alone if tracing it fails (it must not lose the point's outcome).</summary>
+    private string ModelFailureText(SweepPlan plan, PlannedPoint point, ModelException ex)
+    {
+        try
+        {
+            return FailureLocator.Describe(plan, point, ex);
+        }
+        catch (Exception traceFault) when (traceFault is not OutOfMemoryException and not OperationCanceledException)
+        {
+            _log.Warning("Point {PointId}: its failure could not be traced to the job file: {Error}", point.PointId, traceFault.Message);
+            return FailureText.Compose(ex.Message.ReplaceLineEndings("; "), FailureOrigin.Untraced);
         }
     }
 
@@ -327,7 +341,7 @@ public sealed class ChunkRunner
                     {
                         State = PointState.Failed,
                         FailureKind = FailureKind.Engine,
-                        Error = $"the engine returned NaN for {ex.Table}/ column {ex.Column}, which a table never holds (a defect, please report it); the point's results were not written",
+                        Error = FailureLocator.DescribeSolverFailure($"the engine returned NaN for {ex.Table}/ column {ex.Column}, which a table never holds (a defect, please report it); the point's results were not written"),
                         Result = null,
                     };
                 }

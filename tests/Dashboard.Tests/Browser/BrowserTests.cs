@@ -122,6 +122,18 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
         await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "point-conductivity-page.png"), FullPage = true });
 
         await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{_store.Ids["springs-off"]}").ToString());
+
+        // Each failure group says where in the job file it comes from and which values failed, and marks their columns.
+        var origins = page.Locator("#failures [data-field=from]");
+        Assert.Equal(await page.Locator("#failures .failure").CountAsync(), await origins.CountAsync());
+        for (var i = 0; i < await origins.CountAsync(); i++)
+        {
+            Assert.True(await origins.Nth(i).IsVisibleAsync());
+            Assert.Matches(@"springs-off\.toml:\d+:1", await origins.Nth(i).InnerTextAsync());
+        }
+
+        Assert.True(await page.Locator("#failures [data-field=failing-values]").First.IsVisibleAsync());
+        Assert.True(await page.Locator("#failures td.cause").CountAsync() > 0);
         await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-failures-page.png"), FullPage = true });
 
         Assert.Empty(errors);

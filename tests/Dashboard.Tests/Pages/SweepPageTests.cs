@@ -90,9 +90,35 @@ public sealed class SweepPageTests
         {
             var group = groups[i];
             var block = shown[i];
-            Assert.Equal(group.Reason, block.QuerySelector(".reason")!.TextContent);
+            Assert.Equal(group.ReasonText, block.QuerySelector(".reason")!.TextContent);
+            Assert.DoesNotContain("[swept", block.QuerySelector(".reason")!.TextContent, StringComparison.Ordinal);
             Assert.Equal(group.Count, Html.Long(block, "count"));
             var members = failed.Where(p => p.Error == group.Reason).ToList();
+
+            // Where in the job file: each traced key's values line, found here in the job text itself.
+            var origin = group.Origin;
+            Assert.NotNull(origin);
+            Assert.Equal(origin.Describe(), block.QuerySelector("[data-field=from] .mono")!.TextContent);
+            Assert.NotEmpty(origin.Keys);
+            foreach (var key in origin.Keys)
+            {
+                var line = ValuesLineOf(DemoJobs.Failures, key.Path);
+                Assert.EndsWith($":{line}:1", key.Location, StringComparison.Ordinal);
+                Assert.Contains($"{key.Path}, values at {key.Location}", block.QuerySelector("[data-field=from]")!.TextContent, StringComparison.Ordinal);
+            }
+
+            // The failing values: the group's own points' values of those keys, and the table marks their columns.
+            var shownValues = block.QuerySelector("[data-field=failing-values] .mono")!.TextContent;
+            Assert.Equal(group.ValuesText, shownValues);
+            foreach (var v in group.Values)
+            {
+                var distinct = members.Select(p => Convert.ToDouble(p.Parameters[v.Column], CultureInfo.InvariantCulture)).Distinct().Order().ToList();
+                Assert.Equal(distinct, v.First.Select(x => Convert.ToDouble(x, CultureInfo.InvariantCulture)).Order());
+                Assert.Contains(v.Column + " = ", shownValues, StringComparison.Ordinal);
+            }
+
+            Assert.Equal(group.Values.Select(v => v.Column).Order(StringComparer.Ordinal),
+                block.QuerySelectorAll("tbody tr:first-child td.cause").Select(td => td.GetAttribute("data-field")!).Order(StringComparer.Ordinal));
             var rows = block.QuerySelectorAll("tbody tr");
             Assert.Equal(members.Select(p => p.PointId), rows.Select(r => r.GetAttribute("data-point-id")));
             foreach (var (point, row) in members.Zip(rows))
@@ -110,6 +136,15 @@ public sealed class SweepPageTests
         Assert.Contains(shown, b => b.QuerySelector(".reason")!.TextContent.Contains("has no springs", StringComparison.Ordinal));
     }
 
+    /// <summary>The 1-based line of the <c>values</c> key of the axis that sweeps <paramref name="path"/> in a job text.</summary>
+    private static int ValuesLineOf(string job, string path)
+    {
+        var lines = job.Split('\n');
+        var at = Array.FindIndex(lines, l => l.Trim() == $"path = \"{path}\"");
+        Assert.True(at >= 0, $"no axis for {path}");
+        return Array.FindIndex(lines, at, l => l.TrimStart().StartsWith("values = ", StringComparison.Ordinal)) + 1;
+    }
+
     [Fact]
     public async Task Sweep_json_has_the_catalogs_counts_coverage_and_failures()
     {
@@ -125,8 +160,9 @@ public sealed class SweepPageTests
         Assert.Equal(axes.Select(a => a.ColumnName), root.GetProperty("axes").EnumerateArray().Select(a => a.GetProperty("column").GetString()));
         Assert.Equal(axes.Select(a => a.Values.Sum(v => v.Done)), root.GetProperty("axes").EnumerateArray().Select(a => a.GetProperty("values").EnumerateArray().Sum(v => v.GetProperty("done").GetInt64())));
         var groups = catalog.GetFailureGroups(_f.FailuresId);
-        Assert.Equal(groups.Select(g => (g.Reason, g.Count)),
-            root.GetProperty("failures").EnumerateArray().Select(f => (f.GetProperty("reason").GetString()!, f.GetProperty("count").GetInt64())));
+        Assert.Equal(groups.Select(g => (g.ReasonText, g.Reason, g.Count, g.Origin!.Describe(), g.ValuesText)),
+            root.GetProperty("failures").EnumerateArray().Select(f => (f.GetProperty("reason").GetString()!, f.GetProperty("error").GetString()!,
+                f.GetProperty("count").GetInt64(), f.GetProperty("from").GetString()!, f.GetProperty("failing_values").GetString()!)));
         Assert.True(root.GetProperty("results_available").GetBoolean());
     }
 

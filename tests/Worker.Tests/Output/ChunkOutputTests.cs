@@ -140,6 +140,7 @@ public sealed class ChunkOutputTests : IDisposable
         Assert.Equal(FailureKind.Model, points[0].FailureKind);
         Assert.Equal(FailureKind.Engine, points[1].FailureKind);
         Assert.Contains("InvalidOperationException: invented engine defect", points[1].Error, StringComparison.Ordinal);
+        Assert.Equal(FailureOrigin.Solver, FailureText.Split(points[1].Error).Origin);
         Assert.DoesNotContain(chunks[0], _catalog.RequeueUnfinished(sweep.Id));
     }
 
@@ -160,6 +161,7 @@ public sealed class ChunkOutputTests : IDisposable
         Assert.Equal(FailureKind.Engine, points[1].FailureKind);
         Assert.Contains("NaN", points[1].Error, StringComparison.Ordinal);
         Assert.Contains("points/ column cv_j_per_mol_k", points[1].Error, StringComparison.Ordinal);
+        Assert.Equal(FailureOrigin.Solver, FailureText.Split(points[1].Error).Origin);
         Assert.DoesNotContain(chunks[0], _catalog.RequeueUnfinished(sweep.Id));
 
         using var db = new DuckDb();

@@ -28,6 +28,10 @@ internal sealed class FieldCatalog
 
     public bool TryResolve(string path, out SweepField field) => _byPath.TryGetValue(path, out field!);
 
+    /// <summary>The other paths that name <paramref name="field"/> (its aliases), in ordinal order.</summary>
+    public IEnumerable<string> OtherNamesOf(SweepField field) =>
+        _byPath.Where(p => ReferenceEquals(p.Value, field) && p.Key != field.Path).Select(p => p.Key).Order(StringComparer.Ordinal);
+
     public string Suggest(string path) =>
         KeySuggestions.Nearest(path, _byPath.Keys) is { } near
             ? $"did you mean '{near}'?"

@@ -1,0 +1,56 @@
+using System.Collections.Immutable;
+
+namespace LatticeSweep.Worker.Catalog;
+
+/// <summary>What a failure is traced to.</summary>
+public enum FailureOriginKind
+{
+    /// <summary>Each listed swept key alone: with its value put back to the job file's own, the point passes the Engine's checks.</summary>
+    SweptValue,
+
+    /// <summary>The listed swept keys together: no one of them alone, but with all put back the point passes.</summary>
+    SweptTogether,
+
+    /// <summary>The job file's own (unswept) values fail as well: the reason's lines are the keys to edit.</summary>
+    JobFileValue,
+
+    /// <summary>The failure could not be traced to a swept key (the Engine's checks before the spectrum pass; it failed later).</summary>
+    NotTraced,
+
+    /// <summary>A failure inside the solver (numerical, or a defect), not tied to any job-file key or value.</summary>
+    InsideSolver,
+}
+
+/// <summary>A swept key a failure is traced to: its field path and <c>FILE:LINE:COL</c> of its values.</summary>
+public sealed record OriginKey(string Path, string Location);
+
+/// <summary>
+/// Where in the job file a failed point's reason comes from. It is written at the end of the error
+/// text, in brackets (<see cref="FailureText"/>), the same for every point with that reason and
+/// origin, so <c>points/</c>' <c>error</c> column, the catalog, <c>status</c>, <c>run</c> and the dashboard
+/// group and show the same thing; the failing values are each point's own swept columns.
+/// </summary>
+public sealed record FailureOrigin(FailureOriginKind Kind, ImmutableArray<OriginKey> Keys)
+{
+    public static FailureOrigin JobFile { get; } = new(FailureOriginKind.JobFileValue, []);
+
+    public static FailureOrigin Untraced { get; } = new(FailureOriginKind.NotTraced, []);
+
+    public static FailureOrigin Solver { get; } = new(FailureOriginKind.InsideSolver, []);
+
+    public bool Equals(FailureOrigin? other) => other is not null && Kind == other.Kind && Keys.SequenceEqual(other.Keys);
+
+    public override int GetHashCode() => Keys.Aggregate(Kind.GetHashCode(), (h, k) => HashCode.Combine(h, k));
+
+    /// <summary>In plain words, for the "where" line of a failure group.</summary>
+    public string Describe() => Kind switch
+    {
+        FailureOriginKind.SweptValue when Keys.Length == 1 => $"the swept {Keys[0].Path}, values at {Keys[0].Location}",
+        FailureOriginKind.SweptValue => "each of the swept " + string.Join("; ", Keys.Select(k => $"{k.Path}, values at {k.Location}")),
+        FailureOriginKind.SweptTogether => "the swept values together (no one alone) of " + string.Join("; ", Keys.Select(k => $"{k.Path}, values at {k.Location}")),
+        FailureOriginKind.JobFileValue => "the job file's own values (the lines named in the reason); not a swept value",
+        FailureOriginKind.NotTraced => "not traced to a swept value (the checks before the spectrum pass; the lines in the reason are the job file's own keys)",
+        FailureOriginKind.InsideSolver => "inside the solver: not tied to a job-file key or value (a numerical failure, or a defect to report)",
+        _ => Kind.ToString(),
+    };
+}

@@ -1,0 +1,79 @@
+namespace LatticeSweep.Worker.Tests.Support;
+
+/// <summary>
+/// Invented demo jobs where some points fail for a model reason, with the rule that says which
+/// (worked out by hand from the model, not by the code under test).
+/// </summary>
+internal static class FailingJobs
+{
+    /// <summary>
+    /// A diatomic chain whose second atom slides along the cell (0, 0.25, 0.5 of it) with its spring's
+    /// longitudinal (10, 30 N/m) and transverse (0, -2, 8 N/m) constants swept: 18 points.
+    /// Position 0 puts B on A (refused whatever the springs). At 0.25 the shell-1 spring joins A only to
+    /// the B a quarter cell away, so the chain falls apart into pairs (free to slide: refused as floppy) unless
+    /// the transverse constant is 0 (then refused first: no spring along y) or negative (accepted, unstable).
+    /// At 0.5 a transverse constant of 0 is refused (no spring along y); -2 is unstable; 8 is done.
+    /// </summary>
+    public const string Slide = """
+        # Invented demo values: a diatomic chain whose second atom slides along the cell.
+        [sweep]
+        name = "slide"
+
+        [[sweep.axes]]
+        path = "model.sites.B.position[0]"
+        values = [0.0, 0.25, 0.5]
+
+        [[sweep.axes]]
+        path = "model.springs[0].longitudinal_n_per_m"
+        values = [10.0, 30.0]
+
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [0.0, -2.0, 8.0]
+
+        [model]
+        lattice = "chain"
+        constant_nm = 0.5
+        motion = "3d"
+
+        [[model.sites]]
+        label = "A"
+        position = [0.0]
+        mass_amu = 10.0
+
+        [[model.sites]]
+        label = "B"
+        position = [0.5]
+        mass_amu = 20.0
+
+        [[model.springs]]
+        from = "A"
+        to = "B"
+        shell = 1
+        longitudinal_n_per_m = 30.0
+        transverse_n_per_m = 8.0
+
+        [sample]
+        kind = "finite"
+        cells = 16
+
+        [output]
+        temperatures_k = [10, 100, 300]
+        """;
+
+    /// <summary>The 1-based line of the <c>values</c> key of the axis that sweeps <paramref name="path"/> in <paramref name="job"/>.</summary>
+    public static int ValuesLine(string job, string path)
+    {
+        var lines = job.Split('\n');
+        var at = Array.FindIndex(lines, l => l.Trim() == $"path = \"{path}\"");
+        if (at < 0)
+        {
+            throw new ArgumentException($"no axis for {path}", nameof(path));
+        }
+
+        return Array.FindIndex(lines, at, l => l.TrimStart().StartsWith("values = ", StringComparison.Ordinal)) + 1;
+    }
+
+    /// <summary>The 1-based line of the first line of <paramref name="job"/> equal to <paramref name="text"/> (trimmed).</summary>
+    public static int LineOf(string job, string text) => Array.FindIndex(job.Split('\n'), l => l.Trim() == text) + 1;
+}
