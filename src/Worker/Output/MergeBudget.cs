@@ -20,15 +20,6 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     /// </summary>
     public static readonly MergeBudget Default = new(128L << 20, 16L << 20);
 
-    /// <summary>
-    /// Inputs merged together in one pass, at most. By columns every output row group reads that column of
-    /// each input's current row group whole, however few rows it takes from it: with hundreds of small
-    /// parts in one pass (a narrow table's ~280 parts of 10^6 points) each part's group was decoded ~5 times
-    /// and held ~0.3 GB of decoded cells and ids at once (bench/README, round 16). 64 keeps a batch of
-    /// points/ parts (~43 at 64 MiB) in one pass.
-    /// </summary>
-    public const int MaxInputsPerPass = 64;
-
     /// <summary>Bytes a row takes decoded: a nullable number 16 (8 for int, 2 for bool), a text ~64 (reference, header, a short id or label).</summary>
     public static long BytesPerRow(IReadOnlyList<ColumnDef> columns)
     {

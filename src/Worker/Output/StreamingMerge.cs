@@ -77,7 +77,7 @@ internal static partial class StreamingMerge
         }
     }
 
-    /// <summary>The inputs cut, in order, into groups whose decoded row groups fit the budget together, at most <see cref="MergeBudget.MaxInputsPerPass"/> (at least two per group).</summary>
+    /// <summary>The inputs cut, in order, into groups whose decoded row groups fit the budget together (at least two per group).</summary>
     private static async Task<List<List<string>>> PassGroupsAsync(IReadOnlyList<string> files, MergeBudget budget, CancellationToken ct)
     {
         var groups = new List<List<string>>();
@@ -93,7 +93,7 @@ internal static partial class StreamingMerge
                     : input.RowsHeld * MergeBudget.BytesPerRow(input.Columns);
             }
 
-            if (group.Count >= 2 && (held + bytes > budget.InputBytes || group.Count >= MergeBudget.MaxInputsPerPass))
+            if (group.Count >= 2 && held + bytes > budget.InputBytes)
             {
                 groups.Add(group);
                 group = [];
