@@ -59,18 +59,8 @@ internal static class ColumnGather
 
     private static T[] Typed<T>(IReadOnlyList<Array> sources, int[] segments, int[] rows, int count)
     {
-        var typed = new T[sources.Count][];
-        for (var s = 0; s < typed.Length; s++)
-        {
-            typed[s] = (T[])sources[s];
-        }
-
         var result = new T[count];
-        for (var i = 0; i < count; i++)
-        {
-            result[i] = typed[segments[i]][rows[i]];
-        }
-
+        Into(result, sources, segments, rows, count);
         return result;
     }
 }
