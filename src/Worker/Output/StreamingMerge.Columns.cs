@@ -7,9 +7,9 @@ namespace LatticeSweep.Worker.Output;
 /// per input), an output row group at a time; then the group is written one column after the other,
 /// each gathered from that column of the input row groups the group's rows come from. So a merge holds
 /// the inputs' ids and one column, never a row group of every column: its memory no longer grows with
-/// a table's width or with how many inputs a pass has room for (bench/README, round 16), and a wide
-/// table's merged files get row groups of <see cref="MergedLayout.RowGroupRows"/> rows. An input row
-/// group whose rows go into two output groups is decoded for each (a column at a time).
+/// a table's width (bench/README, round 16), and a wide table's merged files get row groups of
+/// <see cref="MergedLayout.RowGroupRows"/> rows. An input row group whose rows go into several output
+/// groups is decoded for each (a column at a time): many small inputs in one pass cost repeated decoding.
 /// </summary>
 internal static partial class StreamingMerge
 {
