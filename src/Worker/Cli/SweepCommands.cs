@@ -183,6 +183,8 @@ internal static class SweepCommands
         var pool = StageTimings.Measure("run: queue server start");
         var workerPool = new WorkerPool(session.Store, runner, workers);
         pool.Dispose();
+        // The solving phase as a whole (every thread): its CPU and peak RSS beside the merge's stages.
+        var working = StageTimings.MeasureAlone("run: work the queue");
         try
         {
             session.Log.Information("Working sweep {SweepId} with {Workers} workers", sweepId, workers);
@@ -233,6 +235,7 @@ internal static class SweepCommands
         }
         finally
         {
+            working.Dispose();
             using (StageTimings.Measure("run: queue server stop"))
             {
                 workerPool.Dispose();

@@ -25,7 +25,25 @@ internal static class ColumnGather
         var other => throw new InvalidOperationException($"unexpected column array {other.GetType().Name}"),
     };
 
-    private static T[] Typed<T>(IReadOnlyList<Array> sources, int[] segments, int[] rows, int count)
+    /// <summary>
+    /// As <see cref="Gather"/>, into <paramref name="destination"/>'s first <paramref name="count"/> cells (an array
+    /// of the sources' type, at least that long), so a merge can use one buffer per type for every column.
+    /// </summary>
+    public static void GatherInto(Array destination, IReadOnlyList<Array> sources, int[] segments, int[] rows, int count)
+    {
+        switch (destination)
+        {
+            case string?[] d: Into(d, sources, segments, rows, count); break;
+            case double?[] d: Into(d, sources, segments, rows, count); break;
+            case int?[] d: Into(d, sources, segments, rows, count); break;
+            case long?[] d: Into(d, sources, segments, rows, count); break;
+            case bool?[] d: Into(d, sources, segments, rows, count); break;
+            case DateTime?[] d: Into(d, sources, segments, rows, count); break;
+            default: throw new InvalidOperationException($"unexpected column array {destination.GetType().Name}");
+        }
+    }
+
+    private static void Into<T>(T[] destination, IReadOnlyList<Array> sources, int[] segments, int[] rows, int count)
     {
         var typed = new T[sources.Count][];
         for (var s = 0; s < typed.Length; s++)
@@ -33,12 +51,16 @@ internal static class ColumnGather
             typed[s] = (T[])sources[s];
         }
 
-        var result = new T[count];
         for (var i = 0; i < count; i++)
         {
-            result[i] = typed[segments[i]][rows[i]];
+            destination[i] = typed[segments[i]][rows[i]];
         }
+    }
 
+    private static T[] Typed<T>(IReadOnlyList<Array> sources, int[] segments, int[] rows, int count)
+    {
+        var result = new T[count];
+        Into(result, sources, segments, rows, count);
         return result;
     }
 }

@@ -45,93 +45,112 @@ internal sealed class ColumnSummary
     /// <summary>Adds one row group's cells (typed arrays, <see cref="ColumnValues"/>).</summary>
     public void Add(IReadOnlyList<Array> values, int rows)
     {
-        _rows += rows;
-        AddMarks(values, rows);
+        ArgumentNullException.ThrowIfNull(values);
+        AddRows(rows);
+        AddMarks(MarkColumn(values, _state), MarkColumn(values, _stable), MarkColumn(values, _floppy), rows);
         for (var c = 0; c < _columns.Count; c++)
         {
-            var s = _stats[c];
-            switch (values[c])
-            {
-                case string?[] text:
-                    for (var i = 0; i < rows; i++)
-                    {
-                        if (text[i] is { } t)
-                        {
-                            s.Count++;
-                            s.See(t);
-                        }
-                    }
-
-                    break;
-                case double?[] d:
-                    for (var i = 0; i < rows; i++)
-                    {
-                        if (d[i] is { } v)
-                        {
-                            s.Count++;
-                            s.Number(v);
-                            s.See(v);
-                        }
-                    }
-
-                    break;
-                case int?[] n:
-                    for (var i = 0; i < rows; i++)
-                    {
-                        if (n[i] is { } v)
-                        {
-                            s.Count++;
-                            s.Number(v);
-                            s.See(v);
-                        }
-                    }
-
-                    break;
-                case long?[] l:
-                    for (var i = 0; i < rows; i++)
-                    {
-                        if (l[i] is { } v)
-                        {
-                            s.Count++;
-                            s.Number(v);
-                            s.See(v);
-                        }
-                    }
-
-                    break;
-                case bool?[] b:
-                    for (var i = 0; i < rows; i++)
-                    {
-                        if (b[i] is { } v)
-                        {
-                            s.Count++;
-                            s.See(v);
-                        }
-                    }
-
-                    break;
-                case DateTime?[] t:
-                    s.More = true;
-                    for (var i = 0; i < rows; i++)
-                    {
-                        s.Count += t[i] is null ? 0 : 1;
-                    }
-
-                    break;
-            }
+            AddColumn(c, values[c], rows);
         }
     }
 
-    private void AddMarks(IReadOnlyList<Array> values, int rows)
+    /// <summary>
+    /// A row group given one column at a time (the merge writes it so): <see cref="AddRows"/> once, <see cref="AddColumn"/>
+    /// per column, and <see cref="AddMarks"/> with the columns <see cref="IsMarkColumn"/> names, the same facts as <see cref="Add"/>.
+    /// </summary>
+    public void AddRows(int rows) => _rows += rows;
+
+    /// <summary>Whether column <paramref name="c"/> is one of the state and the two flags <see cref="AddMarks"/> takes, and which (0, 1, 2; -1 for none).</summary>
+    public int IsMarkColumn(int c) => c == _state ? 0 : c == _stable ? 1 : c == _floppy ? 2 : -1;
+
+    private static Array? MarkColumn(IReadOnlyList<Array> values, int c) => c >= 0 ? values[c] : null;
+
+    /// <summary>Adds one row group's cells of column <paramref name="c"/>.</summary>
+    public void AddColumn(int c, Array values, int rows)
+    {
+        var s = _stats[c];
+        switch (values)
+        {
+            case string?[] text:
+                for (var i = 0; i < rows; i++)
+                {
+                    if (text[i] is { } t)
+                    {
+                        s.Count++;
+                        s.See(t);
+                    }
+                }
+
+                break;
+            case double?[] d:
+                for (var i = 0; i < rows; i++)
+                {
+                    if (d[i] is { } v)
+                    {
+                        s.Count++;
+                        s.Number(v);
+                        s.See(v);
+                    }
+                }
+
+                break;
+            case int?[] n:
+                for (var i = 0; i < rows; i++)
+                {
+                    if (n[i] is { } v)
+                    {
+                        s.Count++;
+                        s.Number(v);
+                        s.See(v);
+                    }
+                }
+
+                break;
+            case long?[] l:
+                for (var i = 0; i < rows; i++)
+                {
+                    if (l[i] is { } v)
+                    {
+                        s.Count++;
+                        s.Number(v);
+                        s.See(v);
+                    }
+                }
+
+                break;
+            case bool?[] b:
+                for (var i = 0; i < rows; i++)
+                {
+                    if (b[i] is { } v)
+                    {
+                        s.Count++;
+                        s.See(v);
+                    }
+                }
+
+                break;
+            case DateTime?[] t:
+                s.More = true;
+                for (var i = 0; i < rows; i++)
+                {
+                    s.Count += t[i] is null ? 0 : 1;
+                }
+
+                break;
+        }
+    }
+
+    /// <summary>Counts one row group's combinations of state and the two flags (each column null when the table has none).</summary>
+    public void AddMarks(Array? stateColumn, Array? stableColumn, Array? floppyColumn, int rows)
     {
         if (_marksOver)
         {
             return;
         }
 
-        var state = _state >= 0 ? values[_state] as string?[] : null;
-        var stable = _stable >= 0 ? values[_stable] as bool?[] : null;
-        var floppy = _floppy >= 0 ? values[_floppy] as bool?[] : null;
+        var state = stateColumn as string?[];
+        var stable = stableColumn as bool?[];
+        var floppy = floppyColumn as bool?[];
         for (var i = 0; i < rows; i++)
         {
             var key = (state?[i], stable?[i], floppy?[i]);

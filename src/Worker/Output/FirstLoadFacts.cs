@@ -90,7 +90,9 @@ internal static class FirstLoadFacts
             return false;
         }
 
+        CollectGarbage();
         var facts = await WorkOutAsync(table, parameters, ct).ConfigureAwait(false);
+        CollectGarbage();
         if (facts is null)
         {
             return false;
@@ -112,6 +114,7 @@ internal static class FirstLoadFacts
         var parameters = parameterDefs.Select(d => d.Name).ToList();
         string Label(string p) => parameterDefs.First(d => d.Name == p).Description[SweptPrefix.Length..];
         var ordered = PlotDefaults.KeyOrder(parameters, Label);
+        var step = Queue.StageTimings.MeasureAlone("merge: facts, key parameters");
         var cells = new Dictionary<string, Cells>(StringComparer.Ordinal);
         foreach (var p in parameters)
         {
@@ -121,10 +124,14 @@ internal static class FirstLoadFacts
         // The dashboard's rules (PlotDefaults) over this table's facts.
         if (PlotDefaults.KeyParameters(ordered, (q, p) => Determines(cells[q], cells[p], t.Rows)) is not { } key)
         {
+            step.Dispose();
             return null;
         }
 
         var distinct = parameters.ToDictionary(p => p, p => DistinctCount(cells[p], t.Rows), StringComparer.Ordinal);
+        step.Dispose();
+        CollectGarbage();
+        step = Queue.StageTimings.MeasureAlone("merge: facts, plots");
         var numbers = t.Columns.Where(c => c.Numeric && t.Count(c.Name) > 0 && c.Name != PlanColumn).Select(c => c.Name).ToList();
         var facts = new MergedFacts(t, parameters, key, numbers, distinct);
         bool IsNumeric(string c) => facts.IsNumeric(c);
@@ -142,6 +149,7 @@ internal static class FirstLoadFacts
                 by is null ? null : await Read(by).ConfigureAwait(false), flags, t.Rows);
         }
 
+        CollectGarbage();
         ScatterSample? scatter = null;
         if (sx is not null && sy is not null)
         {
@@ -149,6 +157,9 @@ internal static class FirstLoadFacts
         }
 
         cells.Clear();
+        step.Dispose();
+        CollectGarbage();
+        step = Queue.StageTimings.MeasureAlone("merge: facts, plan order and ids");
         var planFirst = t.Has(PlanColumn) ? PlanFirst(await t.ReadAsync(PlanColumn, ct).ConfigureAwait(false), t.Rows) : null;
         var wanted = new SortedSet<int>();
         foreach (var row in (parameterPlot?.Series.SelectMany(s => s.Rows) ?? []).Concat(scatter?.Stable ?? []).Concat(scatter?.Unstable ?? []).Concat(scatter?.Front ?? []))
@@ -157,6 +168,7 @@ internal static class FirstLoadFacts
         }
 
         var ids = await t.TextAtAsync(MergedLayout.PointIdColumn, wanted, ct).ConfigureAwait(false);
+        step.Dispose();
         if (ids is null)
         {
             return null;
@@ -327,30 +339,27 @@ internal static class FirstLoadFacts
         }
 
         // Series by the grouping value (an empty cell last), ties in first-seen order (a stable sort).
+        // The stride is known from the counts, so each series is sampled as soon as it is sorted and
+        // only the drawn points are kept (a series of every row would hold its rows and x twice over).
         double Order(List<int> r) => groups is null || double.IsNaN(groups.Number[r[0]]) ? double.MaxValue : groups.Number[r[0]];
-        var series = new List<(double? Group, bool Lines, int[] Rows, double[] X)>();
+        var plotted = groupRows.Sum(g => g.Count);
+        var stride = Stride(plotted);
+        var sampled = new List<SeriesSample>();
         foreach (var group in groupRows.OrderBy(Order))
         {
             var entries = group.Select((row, i) => (X: xs.Number[row], Order: i, Row: row)).ToArray();
             entries.AsSpan().Sort((p, q) => p.X.CompareTo(q.X) is var c and not 0 ? c : p.Order.CompareTo(q.Order));
-            var x = entries.Select(e => e.X).ToArray();
             var lines = true;
-            for (var i = 1; i < x.Length && lines; i++)
+            for (var i = 1; i < entries.Length && lines; i++)
             {
-                lines = x[i] != x[i - 1];
+                lines = entries[i].X != entries[i - 1].X;
             }
 
             double? name = groups is null || double.IsNaN(groups.Number[group[0]]) ? null : groups.Number[group[0]];
-            series.Add((name, lines, entries.Select(e => e.Row).ToArray(), x));
+            var at = Sample(entries.Length, stride).ToArray();
+            sampled.Add(new SeriesSample(name, lines, [.. at.Select(i => entries[i].Row)], [.. at.Select(i => entries[i].X)]));
         }
 
-        var plotted = series.Sum(s => s.Rows.Length);
-        var stride = Stride(plotted);
-        var sampled = series.Select(s =>
-        {
-            var at = Sample(s.Rows.Length, stride).ToArray();
-            return new SeriesSample(s.Group, s.Lines, [.. at.Select(i => s.Rows[i])], [.. at.Select(i => s.X[i])]);
-        }).ToList();
         return new ParameterSample(sampled, plotted, ys);
     }
 
@@ -398,6 +407,15 @@ internal static class FirstLoadFacts
 
     private static int DistinctCount(Cells c, int rows) => PlotDefaults.DistinctCount(c, rows, MaxKeys);
 
+    /// <summary>
+    /// A full, compacting collection that hands freed memory back. The facts hold a few arrays of a
+    /// value per row and leave as many behind at each step (the rules' sorted pairs, the row lists):
+    /// large objects the GC would otherwise keep until its own full collection, which set the merge's
+    /// (and so a whole run's) peak memory at 10^6 points (bench/README, round 16). A few per sweep,
+    /// ~10-50 ms each.
+    /// </summary>
+    private static void CollectGarbage() => GC.Collect(GC.MaxGeneration, GCCollectionMode.Aggressive, blocking: true, compacting: true);
+
     /// <summary>One column of the whole table: numbers as doubles (NaN where empty: no table holds NaN), or text.</summary>
     private sealed class Cells(double[] number, string?[]? text) : IRuleCells
     {
@@ -425,31 +443,31 @@ internal static class FirstLoadFacts
         {
             var unstable = new bool[t.Rows];
             var floppy = new bool[t.Rows];
-            await t.ForEachAsync("state", (at, data) =>
+            await t.ForEachAsync("state", (at, data, n) =>
             {
                 if (data is string?[] s)
                 {
-                    for (var i = 0; i < s.Length; i++)
+                    for (var i = 0; i < n; i++)
                     {
                         unstable[at + i] |= s[i] == "unstable";
                     }
                 }
             }, ct).ConfigureAwait(false);
-            await t.ForEachAsync("stable", (at, data) =>
+            await t.ForEachAsync("stable", (at, data, n) =>
             {
                 if (data is bool?[] b)
                 {
-                    for (var i = 0; i < b.Length; i++)
+                    for (var i = 0; i < n; i++)
                     {
                         unstable[at + i] |= b[i] == false;
                     }
                 }
             }, ct).ConfigureAwait(false);
-            await t.ForEachAsync("floppy", (at, data) =>
+            await t.ForEachAsync("floppy", (at, data, n) =>
             {
                 if (data is bool?[] b)
                 {
-                    for (var i = 0; i < b.Length; i++)
+                    for (var i = 0; i < n; i++)
                     {
                         floppy[at + i] = b[i] == true;
                     }
@@ -565,8 +583,13 @@ internal static class FirstLoadFacts
             return columns is null ? null : new Table(opened, columns, facts);
         }
 
-        /// <summary>Calls <paramref name="each"/> with every row group's cells of <paramref name="column"/> and the row it starts at.</summary>
-        public async Task ForEachAsync(string column, Action<int, Array> each, CancellationToken ct)
+        /// <summary>
+        /// Calls <paramref name="each"/> with every row group's cells of <paramref name="column"/> (the first
+        /// <c>n</c> cells of the array), the row it starts at and its rows. The array is one buffer per type
+        /// reused from group to group (a merged file's groups are 131,072 rows: an array per group and column
+        /// would be large-object garbage the GC keeps until a full collection), so <paramref name="each"/> must not keep it.
+        /// </summary>
+        public async Task ForEachAsync(string column, Action<int, Array, int> each, CancellationToken ct)
         {
             var at = 0;
             foreach (var file in Files)
@@ -588,38 +611,38 @@ internal static class FirstLoadFacts
                     var type = field.ClrType;
                     if (IsText(field))
                     {
-                        var v = new string?[n];
-                        await group.ReadAsync(field, v.AsMemory()).ConfigureAwait(false);
+                        var v = Buffer<string?>(n);
+                        await group.ReadAsync(field, v.AsMemory(0, n)).ConfigureAwait(false);
                         data = v;
                     }
                     else if (type == typeof(double))
                     {
-                        var v = new double?[n];
-                        await group.ReadAsync<double>(field, v.AsMemory()).ConfigureAwait(false);
+                        var v = Buffer<double?>(n);
+                        await group.ReadAsync<double>(field, v.AsMemory(0, n)).ConfigureAwait(false);
                         data = v;
                     }
                     else if (type == typeof(float))
                     {
-                        var v = new float?[n];
-                        await group.ReadAsync<float>(field, v.AsMemory()).ConfigureAwait(false);
+                        var v = Buffer<float?>(n);
+                        await group.ReadAsync<float>(field, v.AsMemory(0, n)).ConfigureAwait(false);
                         data = v;
                     }
                     else if (type == typeof(int))
                     {
-                        var v = new int?[n];
-                        await group.ReadAsync<int>(field, v.AsMemory()).ConfigureAwait(false);
+                        var v = Buffer<int?>(n);
+                        await group.ReadAsync<int>(field, v.AsMemory(0, n)).ConfigureAwait(false);
                         data = v;
                     }
                     else if (type == typeof(long))
                     {
-                        var v = new long?[n];
-                        await group.ReadAsync<long>(field, v.AsMemory()).ConfigureAwait(false);
+                        var v = Buffer<long?>(n);
+                        await group.ReadAsync<long>(field, v.AsMemory(0, n)).ConfigureAwait(false);
                         data = v;
                     }
                     else if (type == typeof(bool))
                     {
-                        var v = new bool?[n];
-                        await group.ReadAsync<bool>(field, v.AsMemory()).ConfigureAwait(false);
+                        var v = Buffer<bool?>(n);
+                        await group.ReadAsync<bool>(field, v.AsMemory(0, n)).ConfigureAwait(false);
                         data = v;
                     }
                     else
@@ -627,10 +650,29 @@ internal static class FirstLoadFacts
                         data = new object?[n];
                     }
 
-                    each(at, data);
+                    each(at, data, n);
+                    if (data is string?[] text)
+                    {
+                        Array.Clear(text, 0, n);
+                    }
+
                     at += n;
                 }
             }
+        }
+
+        private readonly Dictionary<Type, Array> _buffers = [];
+
+        private T[] Buffer<T>(int n)
+        {
+            if (_buffers.TryGetValue(typeof(T), out var known) && known.Length >= n)
+            {
+                return (T[])known;
+            }
+
+            var fresh = new T[Math.Max(n, MergedLayout.RowGroupRows)];
+            _buffers[typeof(T)] = fresh;
+            return fresh;
         }
 
         public async Task<Cells> ReadAsync(string column, CancellationToken ct)
@@ -639,18 +681,15 @@ internal static class FirstLoadFacts
             Array.Fill(numbers, double.NaN);
             var isText = Columns.First(c => c.Name == column).Text;
             var text = isText ? new string?[Rows] : null;
-            await ForEachAsync(column, (at, data) =>
+            await ForEachAsync(column, (at, data, n) =>
             {
                 switch (data)
                 {
-                    case string?[] s: Array.Copy(s, 0, text!, at, s.Length); break;
-                    case double?[] d: for (var i = 0; i < d.Length; i++) { numbers[at + i] = d[i] ?? double.NaN; } break;
-                    case double[] d: Array.Copy(d, 0, numbers, at, d.Length); break;
-                    case float?[] f: for (var i = 0; i < f.Length; i++) { numbers[at + i] = f[i] ?? double.NaN; } break;
-                    case int?[] n: for (var i = 0; i < n.Length; i++) { numbers[at + i] = n[i] is { } v ? v : double.NaN; } break;
-                    case int[] n: for (var i = 0; i < n.Length; i++) { numbers[at + i] = n[i]; } break;
-                    case long?[] l: for (var i = 0; i < l.Length; i++) { numbers[at + i] = l[i] is { } v ? v : double.NaN; } break;
-                    case long[] l: for (var i = 0; i < l.Length; i++) { numbers[at + i] = l[i]; } break;
+                    case string?[] s: Array.Copy(s, 0, text!, at, n); break;
+                    case double?[] d: for (var i = 0; i < n; i++) { numbers[at + i] = d[i] ?? double.NaN; } break;
+                    case float?[] f: for (var i = 0; i < n; i++) { numbers[at + i] = f[i] ?? double.NaN; } break;
+                    case int?[] v: for (var i = 0; i < n; i++) { numbers[at + i] = v[i] is { } x ? x : double.NaN; } break;
+                    case long?[] l: for (var i = 0; i < n; i++) { numbers[at + i] = l[i] is { } x ? x : double.NaN; } break;
                 }
             }, ct).ConfigureAwait(false);
             return new Cells(numbers, text);
@@ -661,14 +700,14 @@ internal static class FirstLoadFacts
         {
             var found = new Dictionary<int, string>();
             var missing = false;
-            await ForEachAsync(column, (at, data) =>
+            await ForEachAsync(column, (at, data, n) =>
             {
-                if (data is not string?[] s || s.Length == 0)
+                if (data is not string?[] s || n == 0)
                 {
                     return;
                 }
 
-                foreach (var row in rows.GetViewBetween(at, at + s.Length - 1))
+                foreach (var row in rows.GetViewBetween(at, at + n - 1))
                 {
                     if (s[row - at] is { } id)
                     {

@@ -1,19 +1,22 @@
 namespace LatticeSweep.Worker.Output;
 
 /// <summary>
-/// How much decoded table the merge (<see cref="StreamingMerge"/>) may hold at once: the inputs'
-/// current row groups together, and the row group being written. Rows are costed by their column
+/// How much decoded table the merge (<see cref="StreamingMerge"/>) may hold at once: what the inputs
+/// merged in one pass hold together, and the row group being written. Rows are costed by their column
 /// types as the typed arrays hold them (<see cref="ColumnValues"/>), so the budget holds for wide
-/// and narrow tables alike and does not depend on how many rows or files a table has.
+/// and narrow tables alike and does not depend on how many rows or files a table has. Inputs laid out
+/// as the Worker writes them are merged by columns (an input holds its point ids and one column, the
+/// output one column: <see cref="BytesHeldByColumns"/>, <see cref="FinalGroupRowsByColumns"/>); old
+/// parts without a row-group index by rows (a row group of every column per input and for the output).
 /// </summary>
-/// <param name="InputBytes">decoded row groups of the inputs merged in one pass, together</param>
-/// <param name="OutputGroupBytes">one row group being written</param>
+/// <param name="InputBytes">decoded data of the inputs merged in one pass, together</param>
+/// <param name="OutputGroupBytes">the row group being written (by columns: one column of it)</param>
 internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
 {
     /// <summary>
-    /// ~128 MiB of inputs and ~16 MiB of output: a merge's peak (~0.3-0.45 GB RSS for a points/ table
-    /// of 150 columns, bench/README) stays near a run's peak while solving; a table of 10^6 points in
-    /// parts of ~4,000 (the chunk planner's cap) needs two passes. Twice this took ~0.5-0.8 GB and ~20 % less CPU.
+    /// ~128 MiB of inputs and ~16 MiB of output. By columns a table of 10^6 points in parts of ~4,000 rows
+    /// (the chunk planner's cap) merges in one pass holding a few tens of MB of decoded data (bench/README, round 16);
+    /// by rows it took two passes and ~0.3-0.45 GB RSS for a points/ table of 150 columns.
     /// </summary>
     public static readonly MergeBudget Default = new(128L << 20, 16L << 20);
 
@@ -21,20 +24,30 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     public static long BytesPerRow(IReadOnlyList<ColumnDef> columns)
     {
         ArgumentNullException.ThrowIfNull(columns);
-        long bytes = 0;
-        foreach (var column in columns)
-        {
-            bytes += column.Type switch
-            {
-                ColumnType.Text => 64,
-                ColumnType.Int32 => 8,
-                ColumnType.Bool => 2,
-                _ => 16,
-            };
-        }
-
-        return Math.Max(1, bytes);
+        return Math.Max(1, columns.Sum(c => CellBytes(c.Type)));
     }
+
+    /// <summary>Bytes one cell of a column of this type takes decoded (see <see cref="BytesPerRow"/>).</summary>
+    public static long CellBytes(ColumnType type) => type switch
+    {
+        ColumnType.Text => 64,
+        ColumnType.Int32 => 8,
+        ColumnType.Bool => 2,
+        _ => 16,
+    };
+
+    /// <summary>
+    /// What one input holds in a merge by columns (<see cref="StreamingMerge"/>): the point ids of one of
+    /// its row groups, and while a column is gathered that column of up to two of its row groups, beside
+    /// its open file (a read buffer and its footer, ~1 KiB per column chunk).
+    /// </summary>
+    public static long BytesHeldByColumns(long rowsHeld, IReadOnlyList<ColumnDef> columns, int rowGroups)
+    {
+        ArgumentNullException.ThrowIfNull(columns);
+        return (rowsHeld * (CellBytes(ColumnType.Text) + (2 * WidestCell(columns)))) + (1L << 16) + (1024L * columns.Count * Math.Max(1, rowGroups));
+    }
+
+    private static long WidestCell(IReadOnlyList<ColumnDef> columns) => columns.Count == 0 ? 1 : columns.Max(c => CellBytes(c.Type));
 
     /// <summary>Rows per row group of a merged file of these columns: what fits <see cref="OutputGroupBytes"/>, at most <see cref="MergedLayout.RowGroupRows"/>.</summary>
     public int FinalGroupRowsFor(IReadOnlyList<ColumnDef> columns) =>
@@ -43,4 +56,12 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     /// <summary>Rows per row group of an intermediate run: small enough that 16 runs fit a pass.</summary>
     public int RunGroupRowsFor(IReadOnlyList<ColumnDef> columns) =>
         (int)Math.Clamp(InputBytes / 16 / BytesPerRow(columns), 1, MergedLayout.RowGroupRows);
+
+    /// <summary>Rows per row group of a merged file written by columns: one column of the group fits <see cref="OutputGroupBytes"/>, at most <see cref="MergedLayout.RowGroupRows"/>.</summary>
+    public int FinalGroupRowsByColumns(IReadOnlyList<ColumnDef> columns) =>
+        (int)Math.Clamp(OutputGroupBytes / WidestCell(columns), 1, MergedLayout.RowGroupRows);
+
+    /// <summary>Rows per row group of an intermediate run written by columns: small enough that 16 runs fit a pass.</summary>
+    public int RunGroupRowsByColumns(IReadOnlyList<ColumnDef> columns) =>
+        (int)Math.Clamp(InputBytes / 16 / (CellBytes(ColumnType.Text) + (2 * WidestCell(columns))), 1, MergedLayout.RowGroupRows);
 }

@@ -62,6 +62,13 @@ internal static class ParquetTableFile
         return (values, count);
     }
 
+    /// <summary>One column of an open row group decoded into its typed array (<see cref="ColumnValues"/>).</summary>
+    public static Task<Array> ReadColumnOfGroupAsync(ParquetRowGroupReader group, DataField field, ColumnType type, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(group);
+        return ReadColumnAsync(group, field, type, checked((int)group.RowCount), ct);
+    }
+
     /// <summary>Joins column arrays of one type end to end.</summary>
     public static Array Concat(ColumnType type, IReadOnlyList<Array> pieces, int total)
     {

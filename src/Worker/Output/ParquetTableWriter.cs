@@ -43,40 +43,93 @@ internal sealed class ParquetTableWriter : IAsyncDisposable
         }
 
         using var group = _writer.CreateRowGroup();
+        var ids = rows.Values.Count > 0 ? rows.Values[0] as string?[] : null;
         for (var c = 0; c < _fields.Length; c++)
         {
-            var def = _columns[c];
-            var field = _fields[c];
             var values = rows.Values[c];
-            if (values.Length != rows.RowCount || rows.Columns[c].Name != def.Name)
+            if (values.Length != rows.RowCount || rows.Columns[c].Name != _columns[c].Name)
             {
-                throw new InvalidOperationException($"table {rows.Table}, column {def.Name}: {values.Length} values for {rows.RowCount} rows (column {rows.Columns[c].Name})");
+                throw new InvalidOperationException($"table {rows.Table}, column {_columns[c].Name}: {values.Length} values for {rows.RowCount} rows (column {rows.Columns[c].Name})");
             }
 
-            switch (values)
+            await WriteColumnAsync(group, rows.Table, c, values, start, count, ids, ct).ConfigureAwait(false);
+        }
+    }
+
+    /// <summary>
+    /// Starts a row group of <paramref name="rows"/> rows written one column at a time, in the file's
+    /// column order (<see cref="RowGroupByColumns.WriteAsync"/>): only the column being written is held.
+    /// </summary>
+    public RowGroupByColumns BeginRowGroup(string table, int rows) => new(this, _writer.CreateRowGroup(), table, rows);
+
+    /// <summary>A row group being written column by column; dispose it after the last column.</summary>
+    public sealed class RowGroupByColumns : IDisposable
+    {
+        private readonly ParquetTableWriter _file;
+        private readonly ParquetRowGroupWriter _group;
+        private readonly string _table;
+        private readonly int _rows;
+        private int _next;
+        private string?[]? _ids;
+
+        internal RowGroupByColumns(ParquetTableWriter file, ParquetRowGroupWriter group, string table, int rows)
+        {
+            _file = file;
+            _group = group;
+            _table = table;
+            _rows = rows;
+        }
+
+        /// <summary>Writes the next column's cells: the first cells of <paramref name="values"/>, a typed array at least the row group's length.</summary>
+        public async Task WriteAsync(Array values, CancellationToken ct)
+        {
+            ArgumentNullException.ThrowIfNull(values);
+            var c = _next;
+            if (c >= _file._fields.Length || values.Length < _rows)
             {
-                case string?[] text when def.Type == ColumnType.Text:
-                    await group.WriteAsync(field, new ArraySegment<string>(text!, start, count)).ConfigureAwait(false);
-                    break;
-                case double?[] d when def.Type == ColumnType.Double:
-                    RefuseNaN(rows, c, d, start, count);
-                    await group.WriteAsync<double>(field, d.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                case int?[] i when def.Type == ColumnType.Int32:
-                    await group.WriteAsync<int>(field, i.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                case long?[] l when def.Type == ColumnType.Int64:
-                    await group.WriteAsync<long>(field, l.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                case bool?[] b when def.Type == ColumnType.Bool:
-                    await group.WriteAsync<bool>(field, b.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                case DateTime?[] t when def.Type == ColumnType.Timestamp:
-                    await group.WriteAsync<DateTime>(field, t.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
-                    break;
-                default:
-                    throw new InvalidOperationException($"table {rows.Table}, column {def.Name}: {values.GetType().Name} values for a {def.Type} column");
+                throw new InvalidOperationException($"table {_table}: column {c} of {_file._fields.Length} with {values.Length} values for {_rows} rows");
             }
+
+            // The first column is the point id (every table's first), kept to name a refused NaN's point.
+            if (c == 0)
+            {
+                _ids = values as string?[];
+            }
+
+            await _file.WriteColumnAsync(_group, _table, c, values, 0, _rows, _ids, ct).ConfigureAwait(false);
+            _next++;
+        }
+
+        public void Dispose() => _group.Dispose();
+    }
+
+    private async Task WriteColumnAsync(ParquetRowGroupWriter group, string table, int c, Array values, int start, int count, string?[]? ids, CancellationToken ct)
+    {
+        var def = _columns[c];
+        var field = _fields[c];
+        switch (values)
+        {
+            case string?[] text when def.Type == ColumnType.Text:
+                await group.WriteAsync(field, new ArraySegment<string>(text!, start, count)).ConfigureAwait(false);
+                break;
+            case double?[] d when def.Type == ColumnType.Double:
+                RefuseNaN(table, def.Name, d, start, count, ids);
+                await group.WriteAsync<double>(field, d.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
+                break;
+            case int?[] i when def.Type == ColumnType.Int32:
+                await group.WriteAsync<int>(field, i.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
+                break;
+            case long?[] l when def.Type == ColumnType.Int64:
+                await group.WriteAsync<long>(field, l.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
+                break;
+            case bool?[] b when def.Type == ColumnType.Bool:
+                await group.WriteAsync<bool>(field, b.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
+                break;
+            case DateTime?[] t when def.Type == ColumnType.Timestamp:
+                await group.WriteAsync<DateTime>(field, t.AsMemory(start, count), cancellationToken: ct).ConfigureAwait(false);
+                break;
+            default:
+                throw new InvalidOperationException($"table {table}, column {def.Name}: {values.GetType().Name} values for a {def.Type} column");
         }
     }
 
@@ -85,14 +138,13 @@ internal sealed class ParquetTableWriter : IAsyncDisposable
     /// arrive as null (the tables' convention), so a NaN is a defect upstream and the convention
     /// test must see it fail. Infinities are values (an unbounded kappa).
     /// </summary>
-    private static void RefuseNaN(TableRows rows, int column, double?[] values, int start, int count)
+    private static void RefuseNaN(string table, string column, double?[] values, int start, int count, string?[]? ids)
     {
         for (var i = start; i < start + count; i++)
         {
             if (values[i] is { } v && double.IsNaN(v))
             {
-                var pointId = rows.Values.Count > 0 && rows.Values[0] is string?[] ids ? ids[i] : null;
-                throw new NaNInTableException(rows.Table, rows.Columns[column].Name, i, pointId);
+                throw new NaNInTableException(table, column, i, ids?[i]);
             }
         }
     }

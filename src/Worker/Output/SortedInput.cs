@@ -13,6 +13,7 @@ internal sealed class SortedInput : IAsyncDisposable
     private readonly FileStream _stream;
     private readonly ParquetReader _reader;
     private readonly int _idColumn;
+    private readonly Parquet.Schema.DataField[] _fields;
     private readonly bool _streamed;
     private int _nextGroup;
     private string? _lastId;
@@ -25,6 +26,7 @@ internal sealed class SortedInput : IAsyncDisposable
         Columns = columns;
         GroupRows = groupRows;
         _streamed = streamed;
+        _fields = reader.Schema.GetDataFields();
         _idColumn = columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
     }
 
@@ -71,6 +73,47 @@ internal sealed class SortedInput : IAsyncDisposable
             await stream.DisposeAsync().ConfigureAwait(false);
             throw;
         }
+    }
+
+    /// <summary>Whether the file is read a row group at a time (sorted and indexed); else it is read whole (<see cref="AdvanceAsync"/>).</summary>
+    public bool Streamed => _streamed;
+
+    /// <summary>The point id column's position, or -1.</summary>
+    public int IdColumn => _idColumn;
+
+    /// <summary>Opens row group <paramref name="group"/> for reading its columns one at a time (<see cref="ReadColumnAsync"/>); dispose it after.</summary>
+    public ParquetRowGroupReader OpenGroup(int group) => _reader.OpenRowGroupReader(group);
+
+    /// <summary>One column of a row group opened by <see cref="OpenGroup"/>, decoded (the merge by columns reads a column at a time).</summary>
+    public async Task<Array> ReadColumnAsync(ParquetRowGroupReader group, int column, CancellationToken ct)
+    {
+        using var timing = Queue.StageTimings.Measure("merge: read column");
+        return await ParquetTableFile.ReadColumnOfGroupAsync(group, _fields[column], Columns[column].Type, ct).ConfigureAwait(false);
+    }
+
+    /// <summary>
+    /// The point ids of row group <paramref name="group"/>; groups must be asked for in order, and their
+    /// ids are checked to follow the earlier ones (a file whose index claims an order its rows do not have is refused).
+    /// </summary>
+    public async Task<string?[]> ReadIdsInOrderAsync(int group, CancellationToken ct)
+    {
+        string?[] ids;
+        using (var opened = OpenGroup(group))
+        {
+            ids = (string?[])await ReadColumnAsync(opened, _idColumn, ct).ConfigureAwait(false);
+        }
+
+        for (var i = 0; i < ids.Length; i++)
+        {
+            if (_lastId is not null && string.CompareOrdinal(_lastId, ids[i]) > 0)
+            {
+                throw new InvalidDataException($"{File}: row group {group} is not sorted by {MergedLayout.PointIdColumn} though its index says so ({ids[i]} after {_lastId})");
+            }
+
+            _lastId = ids[i];
+        }
+
+        return ids;
     }
 
     /// <summary>The point id of the next row, or null (with <paramref name="exhausted"/>) when none is left.</summary>

@@ -3,15 +3,16 @@ using System.Text;
 namespace LatticeSweep.Worker.Output;
 
 /// <summary>
-/// Merges files of one table, each sorted by point id, into one file sorted by point id, holding one
-/// decoded row group per input and one output row group at a time (<see cref="MergeBudget"/>), so the
-/// memory a merge needs does not grow with the rows merged. When the inputs' row groups together do
-/// not fit the budget, they are merged in passes: groups of inputs that fit become sorted runs in a
-/// scratch folder (with row groups small enough that many fit), and the runs are merged next.
-/// Ties keep the inputs' order, as the earlier in-memory merge did. A merged file of the points/
-/// table carries its <see cref="ColumnSummary"/>.
+/// Merges files of one table, each sorted by point id, into one file sorted by point id, within a
+/// memory budget (<see cref="MergeBudget"/>) that does not grow with the rows merged. Inputs laid out as
+/// the Worker writes them (sorted, row groups indexed) are merged by columns (StreamingMerge.Columns.cs:
+/// the order from the point ids, then one column at a time); old parts without an index are held whole
+/// and merged by rows, one decoded row group per input and one output row group at a time. When the
+/// inputs do not fit the budget together, they are merged in passes: groups of inputs that fit become
+/// sorted runs in a scratch folder, and the runs are merged next. Ties keep the inputs' order, as the
+/// earlier in-memory merge did. A merged file of the points/ table carries its <see cref="ColumnSummary"/>.
 /// </summary>
-internal static class StreamingMerge
+internal static partial class StreamingMerge
 {
     /// <summary>The merged file's rows and its row-group index (<see cref="MergedLayout.RowGroupsKey"/>).</summary>
     public sealed record Written(long Rows, string RowGroupIndex);
@@ -38,7 +39,7 @@ internal static class StreamingMerge
                     var columns = await ColumnsOfAsync(current[0], ct).ConfigureAwait(false);
                     var summary = table == TableNames.Points ? new ColumnSummary(columns) : null;
                     using var final = Queue.StageTimings.MeasureAlone("merge: final pass, " + table);
-                    var written = await MergeOnceAsync(current, output, table, metadata, budget.FinalGroupRowsFor(columns), summary, ct).ConfigureAwait(false);
+                    var written = await MergeOnceAsync(current, output, table, metadata, budget, final: true, summary, ct).ConfigureAwait(false);
                     return written;
                 }
 
@@ -54,7 +55,7 @@ internal static class StreamingMerge
 
                     var run = Path.Combine(scratch, $"run-{runNumber++:D5}.parquet");
                     using var sorting = Queue.StageTimings.MeasureAlone("merge: sorted runs, " + table);
-                    await MergeOnceAsync(group, run, table, new Dictionary<string, string>(), budget.RunGroupRowsFor(await ColumnsOfAsync(group[0], ct).ConfigureAwait(false)), null, ct).ConfigureAwait(false);
+                    await MergeOnceAsync(group, run, table, new Dictionary<string, string>(), budget, final: false, null, ct).ConfigureAwait(false);
                     runs.Add(run);
                     next.Add(run);
                     foreach (var consumed in group.Where(runs.Contains))
@@ -87,7 +88,9 @@ internal static class StreamingMerge
             long bytes;
             await using (var input = await SortedInput.OpenAsync(file, ct).ConfigureAwait(false))
             {
-                bytes = input.RowsHeld * MergeBudget.BytesPerRow(input.Columns);
+                bytes = ByColumns(input)
+                    ? MergeBudget.BytesHeldByColumns(input.RowsHeld, input.Columns, input.GroupRows.Count)
+                    : input.RowsHeld * MergeBudget.BytesPerRow(input.Columns);
             }
 
             if (group.Count >= 2 && held + bytes > budget.InputBytes)
@@ -109,9 +112,13 @@ internal static class StreamingMerge
         return groups;
     }
 
-    /// <summary>One k-way pass over <paramref name="files"/> into <paramref name="output"/>, row groups of <paramref name="groupRows"/>.</summary>
+    /// <summary>
+    /// One k-way pass over <paramref name="files"/> into <paramref name="output"/> (the merged file when
+    /// <paramref name="final"/>, else a sorted run): by columns when every input is read a row group at a
+    /// time, else by rows (old parts without an index are held whole anyway).
+    /// </summary>
     private static async Task<Written> MergeOnceAsync(IReadOnlyList<string> files, string output, string table,
-        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, CancellationToken ct)
+        IReadOnlyDictionary<string, string> metadata, MergeBudget budget, bool final, ColumnSummary? summary, CancellationToken ct)
     {
         var inputs = new List<SortedInput>();
         try
@@ -130,6 +137,13 @@ internal static class StreamingMerge
                 }
             }
 
+            if (inputs.All(ByColumns))
+            {
+                var rowsByColumns = final ? budget.FinalGroupRowsByColumns(columns) : budget.RunGroupRowsByColumns(columns);
+                return await MergeByColumnsAsync(inputs, columns, output, table, metadata, rowsByColumns, summary, ct).ConfigureAwait(false);
+            }
+
+            var groupRows = final ? budget.FinalGroupRowsFor(columns) : budget.RunGroupRowsFor(columns);
             var idColumn = columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
             var segments = new List<LoadedGroup>();
             var segmentOf = new int[inputs.Count];

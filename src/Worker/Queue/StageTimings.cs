@@ -43,8 +43,9 @@ public static class StageTimings
         foreach (var (stage, t) in Stages.OrderByDescending(s => s.Value.Ticks))
         {
             var hopped = t.Hopped > 0 ? $" ({t.Hopped} ended on another thread: process CPU over their time)" : "";
+            var peak = t.PeakRssBytes > 0 ? string.Create(CultureInfo.InvariantCulture, $", peak RSS {t.PeakRssBytes / 1048576.0:F0} MiB (managed heap then {t.HeapAtPeakBytes / 1048576.0:F0} MiB)") : "";
             yield return string.Create(CultureInfo.InvariantCulture,
-                $"timings: {stage,-28} {t.Ticks / (double)Stopwatch.Frequency,9:F3} s wall {t.CpuNs / 1e9,9:F3} s CPU {t.AllocatedBytes / 1048576.0,8:F0} MiB allocated in {t.Count,7} calls{hopped}");
+                $"timings: {stage,-28} {t.Ticks / (double)Stopwatch.Frequency,9:F3} s wall {t.CpuNs / 1e9,9:F3} s CPU {t.AllocatedBytes / 1048576.0,8:F0} MiB allocated in {t.Count,7} calls{hopped}{peak}");
         }
     }
 
@@ -126,8 +127,71 @@ public static class StageTimings
     [DllImport("libc", EntryPoint = "clock_gettime")]
     private static extern int ClockGetTime(int clock, out TimeSpec time);
 
+    /// <summary>
+    /// The highest resident set size seen while a stage that runs alone (<see cref="MeasureAlone"/>) was open,
+    /// sampled every few milliseconds by one background thread (only with timings on): which stage of the
+    /// merge sets the process's peak (bench/README, round 16).
+    /// </summary>
+    private sealed class PeakWatch
+    {
+        public long PeakRssBytes;
+        public long HeapAtPeakBytes;
+
+        public void See(long rss)
+        {
+            if (rss > Volatile.Read(ref PeakRssBytes))
+            {
+                Volatile.Write(ref PeakRssBytes, rss);
+                Volatile.Write(ref HeapAtPeakBytes, GC.GetTotalMemory(false));
+            }
+        }
+    }
+
+    private static readonly ConcurrentDictionary<PeakWatch, byte> OpenWatches = new();
+
+    private static readonly Lazy<Thread> RssSampler = new(() =>
+    {
+        var thread = new Thread(() =>
+        {
+            while (true)
+            {
+                var rss = ResidentBytes();
+                foreach (var watch in OpenWatches.Keys)
+                {
+                    watch.See(rss);
+                }
+
+                Thread.Sleep(5);
+            }
+        })
+        { IsBackground = true, Name = "stage RSS sampler" };
+        thread.Start();
+        return thread;
+    });
+
+    /// <summary>The process's resident set size now (Linux /proc/self/statm; 0 elsewhere).</summary>
+    private static long ResidentBytes()
+    {
+        try
+        {
+            var statm = File.ReadAllText("/proc/self/statm");
+            var fields = statm.Split(' ');
+            return fields.Length > 1 ? long.Parse(fields[1], CultureInfo.InvariantCulture) * Environment.SystemPageSize : 0;
+        }
+        catch (IOException)
+        {
+            return 0;
+        }
+        catch (UnauthorizedAccessException)
+        {
+            return 0;
+        }
+    }
+
     private sealed class Totals
     {
+        public long PeakRssBytes;
+        public long HeapAtPeakBytes;
         public long Ticks;
         public long CpuNs;
         public long Count;
@@ -145,6 +209,7 @@ public static class StageTimings
         private readonly long _allocatedStart;
 
         private readonly bool _processCpu;
+        private readonly PeakWatch? _watch;
 
         internal Scope(string? stage, bool processCpu = false)
         {
@@ -155,6 +220,14 @@ public static class StageTimings
             _processCpuStart = stage is null ? 0 : ProcessCpuNs();
             _thread = stage is null ? 0 : Environment.CurrentManagedThreadId;
             _allocatedStart = stage is null ? 0 : GC.GetTotalAllocatedBytes();
+            _watch = null;
+            if (stage is not null && processCpu && OperatingSystem.IsLinux())
+            {
+                _watch = new PeakWatch();
+                _watch.See(ResidentBytes());
+                OpenWatches.TryAdd(_watch, 0);
+                _ = RssSampler.Value;
+            }
         }
 
         public void Dispose()
@@ -165,6 +238,20 @@ public static class StageTimings
             }
 
             var t = Stages.GetOrAdd(_stage, _ => new Totals());
+            if (_watch is not null)
+            {
+                OpenWatches.TryRemove(_watch, out _);
+                _watch.See(ResidentBytes());
+                lock (t)
+                {
+                    if (_watch.PeakRssBytes > t.PeakRssBytes)
+                    {
+                        t.PeakRssBytes = _watch.PeakRssBytes;
+                        t.HeapAtPeakBytes = _watch.HeapAtPeakBytes;
+                    }
+                }
+            }
+
             Interlocked.Add(ref t.Ticks, Stopwatch.GetTimestamp() - _start);
             Interlocked.Add(ref t.AllocatedBytes, GC.GetTotalAllocatedBytes() - _allocatedStart);
             if (_processCpu)

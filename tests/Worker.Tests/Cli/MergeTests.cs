@@ -111,7 +111,7 @@ public sealed class MergeTests : IDisposable
     public async Task A_merge_within_a_small_memory_budget_streams_in_passes_and_writes_the_same_rows_in_the_same_order()
     {
         // 12 parts per table; a budget of one byte of inputs forces pairwise passes through sorted
-        // runs, and ~4 kB per written row group cuts every merged file into many row groups.
+        // runs, and 640 bytes for one column of a written row group (10 text cells) cuts every merged file into many row groups.
         var (plan, folder) = RunSweep(pointsPerChunk: 2, merge: false);
         using var db = new DuckDb();
         var expected = new Dictionary<string, List<string>>();
@@ -122,7 +122,7 @@ public sealed class MergeTests : IDisposable
             expected[table] = RowsAsText(db, $"SELECT * EXCLUDE (file_row_number, filename) FROM read_parquet([{parts}], file_row_number = true, filename = true) ORDER BY point_id, filename, file_row_number");
         }
 
-        var outcomes = await TableMerger.MergeSweepAsync(folder, Tables, new MergeBudget(InputBytes: 1, OutputGroupBytes: 4_000), CancellationToken.None);
+        var outcomes = await TableMerger.MergeSweepAsync(folder, Tables, new MergeBudget(InputBytes: 1, OutputGroupBytes: 640), CancellationToken.None);
         Assert.All(outcomes, o => Assert.Equal(12, o.PartsMerged));
         foreach (var table in Tables)
         {

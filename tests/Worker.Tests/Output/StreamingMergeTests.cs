@@ -122,6 +122,128 @@ public sealed class StreamingMergeTests : IDisposable
         Assert.Empty(Directory.EnumerateFiles(table, "merged-*"));
     }
 
+    [Fact]
+    public async Task A_wide_table_is_merged_by_columns_every_row_once_in_point_order_with_row_groups_sized_by_one_column()
+    {
+        // 60 number columns beside the id, a state and a flag: merged by rows, a row group would have to
+        // fit every column in the output budget (~7 rows here); by columns only one column has to.
+        var columns = new List<ColumnDef> { new("point_id", ColumnType.Text, "", ""), new("state", ColumnType.Text, "", ""), new("stable", ColumnType.Bool, "", "") };
+        columns.AddRange(Enumerable.Range(0, 60).Select(c => new ColumnDef($"value_{c:d2}_thz", ColumnType.Double, "THz", "")));
+        var sweep = _dir.Combine("sweep");
+        var table = Path.Combine(sweep, "demo");
+        Directory.CreateDirectory(table);
+        var random = new Random(5);
+        var all = new List<(string Id, int Chunk, int Row)>();
+        for (var chunk = 0; chunk < 7; chunk++)
+        {
+            // Ids interleave across chunks; every chunk repeats a few ids of the others (ties keep the inputs' order).
+            var ids = Enumerable.Range(0, 90 + (chunk * 13)).Select(p => $"{random.Next(400):x4}").Order(StringComparer.Ordinal).ToList();
+            var rows = ids.Select((id, r) => (Id: id, Chunk: chunk, Row: r)).ToList();
+            all.AddRange(rows);
+            var values = new List<Array>
+            {
+                rows.Select(r => (string?)r.Id).ToArray(),
+                rows.Select(r => (string?)(r.Row % 5 == 0 ? "unstable" : "done")).ToArray(),
+                rows.Select(r => (bool?)(r.Row % 5 != 0)).ToArray(),
+            };
+            // Column c of a row: chunk * 1000 + row + c / 100, empty for every seventh row of column 3.
+            values.AddRange(Enumerable.Range(0, 60).Select(c => (Array)rows.Select(r => c == 3 && r.Row % 7 == 0 ? null : (double?)((r.Chunk * 1000) + r.Row + (c / 100.0))).ToArray()));
+            var metadata = new Dictionary<string, string>
+            {
+                ["latticesweep.table"] = "demo",
+                [MergedLayout.ChunksKey] = $"c{chunk}",
+                [MergedLayout.RowGroupsKey] = RowGroupIndex.Of(ids, 32),
+            };
+            await using var stream = File.Create(Path.Combine(table, $"part-c{chunk}.parquet"));
+            await using var writer = await ParquetTableWriter.CreateAsync(stream, columns, metadata, CancellationToken.None);
+            var tableRows = new TableRows("demo", columns, rows.Count, values);
+            for (var start = 0; start < rows.Count; start += 32)
+            {
+                await writer.WriteRowGroupAsync(tableRows, start, Math.Min(32, rows.Count - start), CancellationToken.None);
+            }
+        }
+
+        var budget = new MergeBudget(InputBytes: 1L << 30, OutputGroupBytes: 64 * 50);
+        var outcome = Assert.Single(await TableMerger.MergeSweepAsync(sweep, ["demo"], budget, CancellationToken.None));
+        Assert.Equal(all.Count, outcome.Rows);
+
+        using var db = new DuckDb();
+        var merged = Path.Combine(table, MergedLayout.MergedFileName(0));
+        Assert.Equal([merged], Directory.EnumerateFiles(table, "*.parquet").ToList());
+        var read = db.Rows($"SELECT point_id, value_00_thz, value_03_thz, value_59_thz, state, stable FROM read_parquet('{merged}', file_row_number = true) ORDER BY file_row_number")
+            .Select(r => string.Join('|', r.Select(v => Convert.ToString(v, System.Globalization.CultureInfo.InvariantCulture)))).ToList();
+        string Expected((string Id, int Chunk, int Row) r) => string.Join('|',
+            r.Id,
+            Convert.ToString((r.Chunk * 1000) + r.Row + 0.0, System.Globalization.CultureInfo.InvariantCulture),
+            r.Row % 7 == 0 ? "" : Convert.ToString((r.Chunk * 1000) + r.Row + 0.03, System.Globalization.CultureInfo.InvariantCulture),
+            Convert.ToString((r.Chunk * 1000) + r.Row + 0.59, System.Globalization.CultureInfo.InvariantCulture),
+            r.Row % 5 == 0 ? "unstable" : "done",
+            r.Row % 5 != 0 ? "True" : "False");
+        // Every row once, sorted by point id, ties in the inputs' order (a stable sort of the parts in file order).
+        Assert.Equal(all.OrderBy(r => r.Id, StringComparer.Ordinal).Select(Expected), read);
+
+        // Row groups of OutputGroupBytes / 64 (a text cell) rows, the last one the rest, whatever the width.
+        var groups = db.Rows($"SELECT DISTINCT row_group_id, row_group_num_rows FROM parquet_metadata('{merged}') ORDER BY row_group_id")
+            .Select(r => Convert.ToInt64(r[1], System.Globalization.CultureInfo.InvariantCulture)).ToList();
+        Assert.Equal(50, budget.FinalGroupRowsByColumns(columns));
+        Assert.All(groups.SkipLast(1), n => Assert.Equal(50, n));
+        Assert.InRange(groups[^1], 1, 50);
+        Assert.Equal(all.Count, groups.Sum());
+
+        // The row-group index names each group's first and last id, and the column summary counts what the file holds.
+        var index = (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{merged}') WHERE decode(key) = '{MergedLayout.RowGroupsKey}'")!;
+        var sorted = all.Select(r => r.Id).Order(StringComparer.Ordinal).ToList();
+        Assert.Equal(RowGroupIndex.Of(sorted, 50), index);
+    }
+
+    [Fact]
+    public void A_column_summary_given_one_column_at_a_time_says_what_one_given_whole_row_groups_says()
+    {
+        var columns = new ColumnDef[]
+        {
+            new("point_id", ColumnType.Text, "", ""),
+            new("state", ColumnType.Text, "", ""),
+            new("stable", ColumnType.Bool, "", ""),
+            new("floppy", ColumnType.Bool, "", ""),
+            new("value_thz", ColumnType.Double, "THz", ""),
+            new("modes", ColumnType.Int32, "", ""),
+        };
+        var whole = new ColumnSummary(columns);
+        var byColumns = new ColumnSummary(columns);
+        for (var group = 0; group < 3; group++)
+        {
+            var n = 40 + group;
+            var values = new Array[]
+            {
+                Enumerable.Range(0, n).Select(i => (string?)$"p{group}{i:d3}").ToArray(),
+                Enumerable.Range(0, n).Select(i => (string?)(i % 3 == 0 ? "failed" : "done")).ToArray(),
+                Enumerable.Range(0, n).Select(i => i % 4 == 0 ? null : (bool?)(i % 2 == 0)).ToArray(),
+                Enumerable.Range(0, n).Select(i => (bool?)(i % 9 == 0)).ToArray(),
+                Enumerable.Range(0, n).Select(i => i % 5 == 0 ? null : (double?)(i * 0.25)).ToArray(),
+                Enumerable.Range(0, n).Select(i => (int?)(i % 6)).ToArray(),
+            };
+            whole.Add(values, n);
+            // A buffer longer than the group, as the merge by columns reuses them: only the first n cells count.
+            byColumns.AddRows(n);
+            var marks = new Array?[3];
+            for (var c = 0; c < columns.Length; c++)
+            {
+                var longer = Array.CreateInstance(values[c].GetType().GetElementType()!, n + 17);
+                Array.Copy(values[c], longer, n);
+                byColumns.AddColumn(c, longer, n);
+                if (byColumns.IsMarkColumn(c) is var mark and >= 0)
+                {
+                    marks[mark] = longer;
+                }
+            }
+
+            byColumns.AddMarks(marks[0], marks[1], marks[2], n);
+        }
+
+        Assert.Equal(whole.ToJson(), byColumns.ToJson());
+        Assert.Contains("failed", whole.ToJson(), StringComparison.Ordinal);
+    }
+
     private static async Task WriteAsync(string path, string chunk, List<(string Id, int K)> rows, bool laidOut, string? index = null)
     {
         var values = new Array[]

@@ -1,0 +1,258 @@
+using System.Text;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// The merge by columns. The rows' order is worked out from the point ids alone (one row group's ids
+/// per input), an output row group at a time; then the group is written one column after the other,
+/// each gathered from that column of the input row groups the group's rows come from. So a merge holds
+/// the inputs' ids and one column, never a row group of every column: its memory no longer grows with
+/// a table's width (bench/README, round 16), and a wide table's merged files get row groups of
+/// <see cref="MergedLayout.RowGroupRows"/> rows. An input row group whose rows go into several output
+/// groups is decoded for each (a column at a time): many small inputs in one pass cost repeated decoding.
+/// </summary>
+internal static partial class StreamingMerge
+{
+    /// <summary>Whether an input can be merged by columns: read a row group at a time, with text point ids.</summary>
+    private static bool ByColumns(SortedInput input) =>
+        input.Streamed && input.IdColumn >= 0 && input.Columns[input.IdColumn].Type == ColumnType.Text;
+
+    /// <summary>One input's place in the order: the row group whose ids are read, the next row, and which of the output group's sources its rows go to.</summary>
+    private sealed class IdCursor(SortedInput input)
+    {
+        public SortedInput Input { get; } = input;
+
+        public int Group { get; private set; } = -1;
+
+        public string?[]? Ids { get; private set; }
+
+        public int Position { get; set; }
+
+        /// <summary>The index of (this input, <see cref="Group"/>) among the output group's sources; -1 before its first row is taken.</summary>
+        public int Source { get; set; } = -1;
+
+        public string? Head => Ids![Position];
+
+        /// <summary>Reads the next row group with rows; false when the input is done.</summary>
+        public async Task<bool> NextGroupAsync(CancellationToken ct)
+        {
+            Ids = null;
+            Position = 0;
+            Source = -1;
+            while (++Group < Input.GroupRows.Count)
+            {
+                if (Input.GroupRows[Group] == 0)
+                {
+                    continue;
+                }
+
+                Ids = await Input.ReadIdsInOrderAsync(Group, ct).ConfigureAwait(false);
+                return Ids.Length > 0 || await NextGroupAsync(ct).ConfigureAwait(false);
+            }
+
+            return false;
+        }
+    }
+
+    private static async Task<Written> MergeByColumnsAsync(List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string output, string table,
+        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, CancellationToken ct)
+    {
+        var idColumn = inputs[0].IdColumn;
+        var cursors = inputs.Select(i => new IdCursor(i)).ToList();
+        var order = Comparer<(string? Id, int Input)>.Create((a, b) =>
+            string.CompareOrdinal(a.Id, b.Id) is var c && c != 0 ? c : a.Input.CompareTo(b.Input));
+        var queue = new PriorityQueue<int, (string? Id, int Input)>(order);
+        for (var r = 0; r < cursors.Count; r++)
+        {
+            if (await cursors[r].NextGroupAsync(ct).ConfigureAwait(false))
+            {
+                queue.Enqueue(r, (cursors[r].Head, r));
+            }
+        }
+
+        var sources = new List<(int Input, int Group)>();
+        var chosenSource = new int[groupRows];
+        var chosenRow = new int[groupRows];
+        var buffers = new ColumnBuffers(groupRows);
+        var index = new StringBuilder();
+        long total = 0;
+        var wroteGroup = false;
+        await using var stream = new FileStream(output, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None);
+        await using (var writer = await ParquetTableWriter.CreateAsync(stream, columns, metadata, ct).ConfigureAwait(false))
+        {
+            while (true)
+            {
+                sources.Clear();
+                foreach (var cursor in cursors)
+                {
+                    cursor.Source = -1;
+                }
+
+                var n = 0;
+                using (Queue.StageTimings.Measure("merge: pick"))
+                {
+                    while (n < groupRows && queue.TryDequeue(out var r, out _))
+                    {
+                        // Rows are taken from this input while its head still comes before every other
+                        // input's (a point's rows, often a whole part, in one go): the order the queue
+                        // gives row by row, without a queue operation per row. Ties keep the inputs' order.
+                        var cursor = cursors[r];
+                        var hasOthers = queue.TryPeek(out _, out var others);
+                        while (true)
+                        {
+                            if (cursor.Source < 0)
+                            {
+                                sources.Add((r, cursor.Group));
+                                cursor.Source = sources.Count - 1;
+                            }
+
+                            chosenSource[n] = cursor.Source;
+                            chosenRow[n] = cursor.Position++;
+                            n++;
+                            if (cursor.Position == cursor.Ids!.Length && !await cursor.NextGroupAsync(ct).ConfigureAwait(false))
+                            {
+                                break;
+                            }
+
+                            var head = (cursor.Head, r);
+                            if (n == groupRows || (hasOthers && order.Compare(head, others) > 0))
+                            {
+                                queue.Enqueue(r, head);
+                                break;
+                            }
+                        }
+                    }
+                }
+
+                if (n == 0 && wroteGroup)
+                {
+                    break;
+                }
+
+                await WriteGroupByColumnsAsync(writer, inputs, columns, table, sources, new GroupPlan(chosenSource, chosenRow, n, idColumn), buffers, index, summary, ct).ConfigureAwait(false);
+                wroteGroup = true;
+                total += n;
+                if (queue.Count == 0)
+                {
+                    break;
+                }
+            }
+
+            writer.SetMetadata(MergedLayout.RowGroupsKey, index.ToString());
+            if (summary is not null)
+            {
+                writer.SetMetadata(ColumnSummary.Key, summary.ToJson());
+            }
+        }
+
+        stream.Flush(flushToDisk: true);
+        return new Written(total, index.ToString());
+    }
+
+    /// <summary>
+    /// One buffer per column type for the column being written, and one for each of the state and the two
+    /// flags (the column summary counts them together once the group is written): a merge allocates them
+    /// once, not an array per column and row group (which the GC would keep as large-object garbage).
+    /// </summary>
+    private sealed class ColumnBuffers(int rows)
+    {
+        private readonly Dictionary<Type, Array> _byType = [];
+
+        public Array?[] Marks { get; } = new Array?[3];
+
+        public Array For(ColumnType type)
+        {
+            var arrayType = ColumnValues.ArrayType(type);
+            if (!_byType.TryGetValue(arrayType, out var buffer))
+            {
+                buffer = Array.CreateInstance(arrayType.GetElementType()!, rows);
+                _byType[arrayType] = buffer;
+            }
+
+            return buffer;
+        }
+
+        /// <summary>Keeps a copy of a mark column's first <paramref name="n"/> cells until the group's marks are counted.</summary>
+        public void KeepMark(int mark, Array values, int n)
+        {
+            var kept = Marks[mark] is { } k && k.GetType() == values.GetType() ? k : Array.CreateInstance(values.GetType().GetElementType()!, rows);
+            Array.Copy(values, kept, n);
+            Marks[mark] = kept;
+        }
+
+        /// <summary>Drops the text buffer's references once written, so its strings can be collected.</summary>
+        public void ClearText(int n)
+        {
+            if (_byType.TryGetValue(typeof(string?[]), out var text))
+            {
+                Array.Clear(text, 0, n);
+            }
+        }
+    }
+
+    /// <summary>Writes one output row group of <paramref name="n"/> rows a column at a time: row i is row <paramref name="chosenRow"/>[i] of source <paramref name="chosenSource"/>[i].</summary>
+    private static async Task WriteGroupByColumnsAsync(ParquetTableWriter writer, List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string table,
+        List<(int Input, int Group)> sources, GroupPlan plan, ColumnBuffers buffers, StringBuilder index, ColumnSummary? summary, CancellationToken ct)
+    {
+        var n = plan.Rows;
+        using var group = writer.BeginRowGroup(table, n);
+        var opened = sources.Select(s => inputs[s.Input].OpenGroup(s.Group)).ToArray();
+        try
+        {
+            var decoded = new Array[sources.Count];
+            for (var c = 0; c < columns.Count; c++)
+            {
+                var values = buffers.For(columns[c].Type);
+                if (n > 0)
+                {
+                    for (var s = 0; s < sources.Count; s++)
+                    {
+                        decoded[s] = await inputs[sources[s].Input].ReadColumnAsync(opened[s], c, ct).ConfigureAwait(false);
+                    }
+
+                    using (Queue.StageTimings.Measure("merge: gather"))
+                    {
+                        ColumnGather.GatherInto(values, decoded, plan.Source, plan.Row, n);
+                    }
+
+                    Array.Clear(decoded);
+                }
+
+                if (c == plan.IdColumn && n > 0)
+                {
+                    var ids = (string?[])values;
+                    index.Append(ids[0]).Append('\t').Append(ids[n - 1]).Append('\n');
+                }
+
+                using (Queue.StageTimings.Measure("merge: write column"))
+                {
+                    await group.WriteAsync(values, ct).ConfigureAwait(false);
+                }
+
+                if (summary is not null)
+                {
+                    summary.AddColumn(c, values, n);
+                    if (summary.IsMarkColumn(c) is var mark and >= 0)
+                    {
+                        buffers.KeepMark(mark, values, n);
+                    }
+                }
+
+                buffers.ClearText(n);
+            }
+        }
+        finally
+        {
+            foreach (var o in opened)
+            {
+                o.Dispose();
+            }
+        }
+
+        summary?.AddRows(n);
+        summary?.AddMarks(buffers.Marks[0], buffers.Marks[1], buffers.Marks[2], n);
+    }
+
+    /// <summary>Where each row of an output group comes from: row i is row <see cref="Row"/>[i] of source <see cref="Source"/>[i].</summary>
+    private sealed record GroupPlan(int[] Source, int[] Row, int Rows, int IdColumn);
+}
