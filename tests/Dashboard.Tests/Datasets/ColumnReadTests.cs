@@ -12,6 +12,7 @@ namespace LatticeSweep.Dashboard.Tests.Datasets;
 /// row-by-row read, the views computed from its columns equal what DuckDB reads from the same
 /// files, and a file that changes is read again while an unchanged table is not.
 /// </summary>
+[Collection(ReaderCapCollection.Name)]
 public sealed class ColumnReadTests
 {
     [Fact]
