@@ -27,7 +27,7 @@ internal static class EveryPointFailsCheck
             return;
         }
 
-        var reasons = f.Failures.Take(3).Select(g => $"  {N(g.Count)} x {g.Reason}").ToList();
+        var reasons = f.Failures.Take(3).Select(g => $"  {N(g.Count)} x {g.ReasonText}{(g.Origin is { } o ? $"\n      from: {o.Describe()}" : "")}").ToList();
         if (f.Failures.Length > 3)
         {
             reasons.Add($"  ... {f.Failures.Length - 3} more reasons (latsweep check shows them)");

@@ -122,7 +122,12 @@ public static class CheckCommand
             o.WriteLine(f.Evaluated == 1 && !f.Sampled ? "  will fail    the one point" : $"  will fail    {N(f.WillFail)} of {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
             foreach (var g in f.Failures.Take(5))
             {
-                o.WriteLine($"    {N(g.Count)} x {g.Reason}");
+                o.WriteLine($"    {N(g.Count)} x {g.ReasonText}");
+                if (g.Origin is { } origin)
+                {
+                    o.WriteLine($"      from: {origin.Describe()}");
+                }
+
                 foreach (var p in g.Examples)
                 {
                     o.WriteLine($"      e.g. point {p.PointId} ({Describe(p)})");

@@ -123,6 +123,24 @@ internal static class FailureLocator
         }
     }
 
+    /// <summary>
+    /// <see cref="Describe"/>, or when tracing itself fails, the Engine's reason marked untraced with the fault in
+    /// <paramref name="fault"/>: a fault in tracing must not lose a point's outcome nor stop <c>check</c>.
+    /// </summary>
+    public static string DescribeOrUntraced(SweepPlan plan, PlannedPoint point, ModelException ex, out Exception? fault)
+    {
+        try
+        {
+            fault = null;
+            return Describe(plan, point, ex);
+        }
+        catch (Exception traceFault) when (traceFault is not OutOfMemoryException and not OperationCanceledException)
+        {
+            fault = traceFault;
+            return FailureText.Compose(ex.Message.ReplaceLineEndings("; "), FailureOrigin.Untraced);
+        }
+    }
+
     /// <summary>The error text of a point that failed inside the solver (not the user's input).</summary>
     public static string DescribeSolverFailure(string reason) => FailureText.Compose(reason, FailureOrigin.Solver);
 

@@ -283,15 +283,13 @@ public sealed class ChunkRunner
     /// <summary>The reason with where in the job file it comes from; the Engine's reason alone if tracing it fails (it must not lose the point's outcome).</summary>
     private string ModelFailureText(SweepPlan plan, PlannedPoint point, ModelException ex)
     {
-        try
-        {
-            return FailureLocator.Describe(plan, point, ex);
-        }
-        catch (Exception traceFault) when (traceFault is not OutOfMemoryException and not OperationCanceledException)
+        var text = FailureLocator.DescribeOrUntraced(plan, point, ex, out var traceFault);
+        if (traceFault is not null)
         {
             _log.Warning("Point {PointId}: its failure could not be traced to the job file: {Error}", point.PointId, traceFault.Message);
-            return FailureText.Compose(ex.Message.ReplaceLineEndings("; "), FailureOrigin.Untraced);
         }
+
+        return text;
     }
 
     /// <summary>Adds a point's outcome and counts it for the progress display.</summary>

@@ -2,7 +2,10 @@ using LatticeSweep.Worker.Tests.Support;
 
 namespace LatticeSweep.Worker.Tests.Cli;
 
-/// <summary>What <c>check</c> promises is what <c>run</c> writes: the same tables, by their current names.</summary>
+/// <summary>
+/// What <c>check</c> promises is what <c>run</c> writes: the same tables, by their current names, and
+/// the same failures traced to the same job-file key and line.
+/// </summary>
 public sealed class CheckMatchesRunTests : IDisposable
 {
     private readonly TempFolder _dir = new();
@@ -33,5 +36,44 @@ public sealed class CheckMatchesRunTests : IDisposable
         Assert.DoesNotContain("displacements", written);
         using var db = new DuckDb();
         Assert.NotNull(db.Scalar($"SELECT max(msd_x_nm2) FROM {DuckDb.Glob(Path.Combine(sweepFolder, "mean_square_displacements"))}"));
+    }
+
+    [Fact]
+    public void Check_and_run_trace_a_failure_to_the_same_swept_key_and_line()
+    {
+        var job = _dir.Combine("job.toml");
+        File.WriteAllText(job, FailingJobs.TransverseZero);
+        var transverseAt = $"{job}:{FailingJobs.ValuesLine(FailingJobs.TransverseZero, "model.springs[0].transverse_n_per_m")}:1";
+        Assert.EndsWith(":11:1", transverseAt, StringComparison.Ordinal);
+        var expected = $"from: the swept model.springs[0].transverse_n_per_m, values at {transverseAt}";
+
+        var check = Support.Cli.Run(_dir.Path, "check", "job.toml");
+        Assert.True(check.ExitCode == 0, check.Stdout + check.Stderr);
+        var forecast = Groups(check.Stdout[check.Stdout.IndexOf("Forecast", StringComparison.Ordinal)..]);
+        Assert.Equal([(2L, expected)], forecast);
+        Assert.Contains("no spring acting along y", check.Stdout, StringComparison.Ordinal);
+        Assert.DoesNotContain($"{job}:{FailingJobs.LineOf(FailingJobs.TransverseZero, "transverse_n_per_m = 6.0")}:", check.Stdout, StringComparison.Ordinal);
+
+        var run = Support.Cli.Run(_dir.Path, "run", "job.toml", "--workers", "1");
+        Assert.True(run.ExitCode == 3, "two points fail: " + run.Stdout + run.Stderr);
+        Assert.Equal(forecast, Groups(run.Stdout));
+    }
+
+    /// <summary>Each failure group's count and its "from:" line, as <c>check</c>, <c>run</c> and <c>status</c> print them.</summary>
+    private static List<(long Count, string From)> Groups(string output)
+    {
+        var lines = output.ReplaceLineEndings("\n").Split('\n').Select(l => l.Trim()).ToList();
+        var groups = new List<(long, string)>();
+        for (var i = 0; i + 1 < lines.Count; i++)
+        {
+            var x = lines[i].IndexOf(" x ", StringComparison.Ordinal);
+            if (x > 0 && long.TryParse(lines[i][..x], System.Globalization.NumberStyles.AllowThousands, System.Globalization.CultureInfo.InvariantCulture, out var count)
+                && lines[i + 1].StartsWith("from: ", StringComparison.Ordinal))
+            {
+                groups.Add((count, lines[i + 1]));
+            }
+        }
+
+        return groups;
     }
 }

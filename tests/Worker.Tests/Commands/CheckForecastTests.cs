@@ -35,6 +35,7 @@ public sealed class CheckForecastTests : IDisposable
         Assert.Equal(2, code);
         var file = _dir.Combine("job.toml");
         Assert.Contains($"1 x {file}:{Some.LineOf(text, "# B on top of A")}:1: model.sites[1].position: site 'B' sits on site 'A'", output, StringComparison.Ordinal);
+        Assert.Contains("from: the job file's own values", output, StringComparison.Ordinal); // no axis: as run would say
     }
 
     [Fact]

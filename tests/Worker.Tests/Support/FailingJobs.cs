@@ -61,6 +61,50 @@ internal static class FailingJobs
         temperatures_k = [10, 100, 300]
         """;
 
+    /// <summary>
+    /// Invented demo values: a 3d chain of one atom whose spring's transverse constant is swept over 0 and 6 N/m
+    /// (its own value 6) and its longitudinal one over 10 and 25 N/m. Worked out by hand: with no transverse
+    /// constant nothing holds the atom along y (or z), so both points with 0 are refused and the
+    /// longitudinal constant is innocent: the failure comes from the transverse axis (line 11), not the spring's own key.
+    /// </summary>
+    public const string TransverseZero = """
+        # Invented demo values: a chain whose transverse spring is swept through zero.
+        [sweep]
+        name = "transverse-zero"
+
+        [[sweep.axes]]
+        path = "model.springs[0].longitudinal_n_per_m"
+        values = [10.0, 25.0]
+
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [0.0, 6.0]
+
+        [model]
+        lattice = "chain"
+        constant_nm = 0.4
+        motion = "3d"
+
+        [[model.sites]]
+        label = "A"
+        position = [0.0]
+        mass_amu = 12.0
+
+        [[model.springs]]
+        from = "A"
+        to = "A"
+        shell = 1
+        longitudinal_n_per_m = 10.0
+        transverse_n_per_m = 6.0
+
+        [sample]
+        kind = "finite"
+        cells = 8
+
+        [output]
+        temperatures_k = [100, 300]
+        """;
+
     /// <summary>The 1-based line of the <c>values</c> key of the axis that sweeps <paramref name="path"/> in <paramref name="job"/>.</summary>
     public static int ValuesLine(string job, string path)
     {

@@ -16,7 +16,12 @@ namespace LatticeSweep.Worker.Planning.Forecast;
 /// cost, memory and disk estimated. Models are built once per distinct set of model parameters (a
 /// sweep of a million sample sizes over ten models builds ten models). Points are visited in an
 /// order spread over the whole plan, so when the time budget runs out the ones evaluated are a fair
-/// sample, and the report says so.
+/// sample, and the report says so. Each failure reason is traced to where in the job file it comes
+/// from by the worker's own <see cref="FailureLocator"/>, so <c>check</c> names the same origin as
+/// <c>run</c> and <c>status</c> later. It is traced once per reason, on the first point met with it
+/// (never per point: tracing a refusal costs about ten model checks, and a sweep where every model
+/// fails would be sampled about ten times thinner); <c>run</c> traces every failed point, so where points
+/// with one reason come from different swept keys, <c>run</c> may split the group.
 /// </summary>
 internal static class SweepForecast
 {
@@ -28,7 +33,7 @@ internal static class SweepForecast
 
     private const int ExamplesPerReason = 3;
 
-    private sealed record ModelEntry(CrystalModel? Model, ElasticFitResult? Fit, string? Failure, ModelPreflight? Preflight);
+    private sealed record ModelEntry(CrystalModel? Model, ElasticFitResult? Fit, string? Failure, ModelPreflight? Preflight, ModelException? Refusal = null);
 
     /// <param name="document">The job file as read: each failure reason then names the file, line and column of the key
     /// it is about (<see cref="JobFiles.ModelProblemText"/>); without it the Engine's reason alone.</param>
@@ -41,6 +46,9 @@ internal static class SweepForecast
         var modelColumns = plan.Template.Bindings.Where(b => b.Field.Path.StartsWith("model.", StringComparison.Ordinal)).Select(b => b.Column).ToArray();
         var models = new Dictionary<string, ModelEntry>(StringComparer.Ordinal);
         var failures = new Dictionary<string, (long Count, List<PlannedPoint> Examples)>(StringComparer.Ordinal);
+        // The traced text of each reason as found, traced on the first point met with it.
+        var traced = new Dictionary<string, string>(StringComparer.Ordinal);
+        var justTraced = false;
         var failed = 0L;
         var evaluated = 0L;
         var totalSeconds = 0.0;
@@ -58,7 +66,7 @@ internal static class SweepForecast
         var stride = Stride(points.Length);
         for (long i = 0; i < points.Length; i++)
         {
-            if ((i & 255) == 0 && i > 0 && clock.Elapsed > budget)
+            if (((i & 255) == 0 || justTraced) && i > 0 && clock.Elapsed > budget)
             {
                 break;
             }
@@ -79,7 +87,9 @@ internal static class SweepForecast
                 models[key.ToString()] = entry;
             }
 
+            justTraced = false;
             string? failure = entry.Failure;
+            var refusal = entry.Refusal;
             if (failure is null)
             {
                 try
@@ -118,11 +128,20 @@ internal static class SweepForecast
                 catch (ModelException ex)
                 {
                     failure = JobFiles.ModelProblemText.Of(ex, document);
+                    refusal = ex;
                 }
             }
 
             if (failure is not null)
             {
+                if (!traced.TryGetValue(failure, out var text))
+                {
+                    text = FailureLocator.DescribeOrUntraced(plan, point, refusal!, out _);
+                    traced[failure] = text;
+                    justTraced = true;
+                }
+
+                failure = text;
                 failed++;
                 if (!failures.TryGetValue(failure, out var group))
                 {
@@ -173,7 +192,7 @@ internal static class SweepForecast
         }
         catch (ModelException ex)
         {
-            return new ModelEntry(null, null, JobFiles.ModelProblemText.Of(ex, document), null);
+            return new ModelEntry(null, null, JobFiles.ModelProblemText.Of(ex, document), null, ex);
         }
     }
 
@@ -197,8 +216,15 @@ internal static class SweepForecast
     private static long Gcd(long a, long b) => b == 0 ? a : Gcd(b, a % b);
 }
 
-/// <summary>Points that will fail for one reason, with the first few.</summary>
-internal sealed record FailureForecast(string Reason, long Count, ImmutableArray<PlannedPoint> Examples);
+/// <summary>Points that will fail for one reason, with the first few; <paramref name="Reason"/> is the error text <c>run</c> writes (<see cref="Catalog.FailureText"/>).</summary>
+internal sealed record FailureForecast(string Reason, long Count, ImmutableArray<PlannedPoint> Examples)
+{
+    /// <summary>The reason without its origin.</summary>
+    public string ReasonText => Catalog.FailureText.Split(Reason).Reason;
+
+    /// <summary>Where in the job file the reason comes from, as <c>run</c> and <c>status</c> name it.</summary>
+    public Catalog.FailureOrigin? Origin => Catalog.FailureText.Split(Reason).Origin;
+}
 
 /// <summary>The point estimated to take longest.</summary>
 internal sealed record CostlyPoint(PlannedPoint Point, double Seconds);
