@@ -187,6 +187,7 @@ internal static class SimplexDosIntegrator
         var coneShell = curvedBranches > 0 ? ConeShell.Around(longWaves!.Value, m1, m2, m3) : null;
         var pivots = new double[shifts.Length];
         var hessians = new double[shifts.Length];
+        var splits = new bool[shifts.Length];
         Span<double> cornerSteps = stackalloc double[12];
         Span<double> cornerValues = stackalloc double[4];
         var branchTops = new double[curvedBranches];
@@ -266,7 +267,7 @@ internal static class SimplexDosIntegrator
                     {
                         if (nearCone)
                         {
-                            TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchBottoms[b], branchTops[b], shifts.AsSpan(6 * b, 6), pivots.AsSpan(6 * b, 6), hessians.AsSpan(6 * b, 6));
+                            TetrahedronCurvature.CubeShifts(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, corners, branchBottoms[b], branchTops[b], shifts.AsSpan(6 * b, 6), pivots.AsSpan(6 * b, 6), hessians.AsSpan(6 * b, 6), splits.AsSpan(6 * b, 6));
                         }
                         else
                         {
@@ -275,22 +276,7 @@ internal static class SimplexDosIntegrator
                     }
 
                     // Next to the cone (ConeShell) only: a cube with a tetrahedron to split (QuadraticTetrahedron) goes through the scalar kernel.
-                    var split = false;
-                    for (var b = firstBranch; b < curved && nearCone && !split; b++)
-                    {
-                        for (var t = 0; t < 6 && !split; t++)
-                        {
-                            var low = double.PositiveInfinity;
-                            var high = double.NegativeInfinity;
-                            for (var k = 0; k < 4; k++)
-                            {
-                                var f = frequencyThz[(corners[TetrahedronCorners[(4 * t) + k]] * branches) + b];
-                                (low, high) = (Math.Min(low, f), Math.Max(high, f));
-                            }
-
-                            split = QuadraticTetrahedron.Needs(shifts[(6 * b) + t], low, high);
-                        }
-                    }
+                    var split = nearCone && splits.AsSpan(6 * firstBranch, 6 * (curved - firstBranch)).Contains(true);
 
                     var entry = 0;
                     var vectorsHere = vectors && !split;
@@ -355,7 +341,7 @@ internal static class SimplexDosIntegrator
                             {
                                 var (f0, f1, f2, f3) = (frequencyThz[c0 + b], frequencyThz[c1 + b], frequencyThz[c2 + b], frequencyThz[c3 + b]);
                                 var shift = b < curved ? shifts[(6 * b) + (t / 4)] : 0.0;
-                                if (split && QuadraticTetrahedron.Needs(shift, Math.Min(Math.Min(f0, f1), Math.Min(f2, f3)), Math.Max(Math.Max(f0, f1), Math.Max(f2, f3))))
+                                if (split && splits[(6 * b) + (t / 4)])
                                 {
                                     for (var k = 0; k < 4; k++)
                                     {

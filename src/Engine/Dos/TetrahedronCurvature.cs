@@ -57,32 +57,37 @@ internal static class TetrahedronCurvature
     /// <summary>
     /// The same shifts as <see cref="CubeShifts(double[], int, int, int, int, int, int, int, int, ReadOnlySpan{int}, double, double, Span{double})"/>
     /// (to the bit), and for the tetrahedra that <see cref="QuadraticTetrahedron"/> may split: into pivot[0..5]
-    /// the value its <see cref="PinnedShift"/> contracts towards, and the Hessian used into hessian[0..5]
-    /// (xx, yy, zz, xy, xz, yz in mesh steps).
+    /// the value its <see cref="PinnedShift"/> contracts towards, the Hessian used into hessian[0..5]
+    /// (xx, yy, zz, xy, xz, yz in mesh steps), and into split[0..5] whether <see cref="QuadraticTetrahedron.Needs"/>
+    /// splits the tetrahedron (its pivot is written only then: no other tetrahedron reads one).
     /// </summary>
-    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchBottomThz, double branchTopThz, Span<double> shift, Span<double> pivot, Span<double> hessian)
+    public static void CubeShifts(double[] frequencyThz, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, ReadOnlySpan<int> corners, double branchBottomThz, double branchTopThz, Span<double> shift, Span<double> pivot, Span<double> hessian, Span<bool> split)
     {
         CubeHessian(frequencyThz, branches, b, m1, m2, m3, i1, i2, i3, hessian);
         Shifts(frequencyThz, branches, b, corners, branchBottomThz, branchTopThz, hessian, shift);
         for (var t = 0; t < 6; t++)
         {
             var (low, high) = CornerRange(frequencyThz, branches, b, corners, t);
+            split[t] = QuadraticTetrahedron.Needs(shift[t], low, high);
+            if (!split[t])
+            {
+                continue;
+            }
 
-            // The pivot of the contraction (PinnedShift): how far below its lowest corner (above its highest)
-            // the branch's quadratic model reaches on the tetrahedron's six edges, within the branch's range.
+            // The pivot of the contraction (PinnedShift): how far below its lowest corner the branch's quadratic
+            // model reaches on the tetrahedron's six edges, within the branch's range (a split shift is downward).
             var h = hessian;
-            var reach = shift[t] > 0 ? low : high;
-            for (var i = 0; i < 4 && shift[t] != 0; i++)
+            var reach = low;
+            for (var i = 0; i < 4; i++)
             {
                 for (var j = i + 1; j < 4; j++)
                 {
                     var (ci, cj) = (Corners[(4 * t) + i], Corners[(4 * t) + j]);
                     var (ex, ey, ez) = ((cj & 1) - (ci & 1), ((cj >> 1) & 1) - ((ci >> 1) & 1), ((cj >> 2) & 1) - ((ci >> 2) & 1));
                     var kappa = (h[0] * ex * ex) + (h[1] * ey * ey) + (h[2] * ez * ez) + (2 * ((h[3] * ex * ey) + (h[4] * ex * ez) + (h[5] * ey * ez)));
-                    if (kappa > 0 == shift[t] > 0)
+                    if (kappa > 0)
                     {
-                        var extreme = PinnedShift.EdgeExtreme(frequencyThz[(corners[ci] * branches) + b], frequencyThz[(corners[cj] * branches) + b], kappa);
-                        reach = shift[t] > 0 ? Math.Min(reach, extreme) : Math.Max(reach, extreme);
+                        reach = Math.Min(reach, PinnedShift.EdgeExtreme(frequencyThz[(corners[ci] * branches) + b], frequencyThz[(corners[cj] * branches) + b], kappa));
                     }
                 }
             }
