@@ -170,26 +170,18 @@ internal static partial class StreamingMerge
 
         public Array?[] Marks { get; } = new Array?[3];
 
-        public Array For(ColumnType type)
-        {
-            var arrayType = ColumnValues.ArrayType(type);
-            if (!_byType.TryGetValue(arrayType, out var buffer))
-            {
-                buffer = Array.CreateInstance(arrayType.GetElementType()!, rows);
-                _byType[arrayType] = buffer;
-            }
-
-            return buffer;
-        }
+        public Array For(ColumnType type) => BufferOf(_byType, type, rows);
 
         /// <summary>One buffer per column type, as long as the inputs' largest row group, that each source's column is decoded into.</summary>
-        public Array Decoded(ColumnType type)
+        public Array Decoded(ColumnType type) => BufferOf(_decoded, type, inputRows);
+
+        private static Array BufferOf(Dictionary<Type, Array> buffers, ColumnType type, int length)
         {
             var arrayType = ColumnValues.ArrayType(type);
-            if (!_decoded.TryGetValue(arrayType, out var buffer))
+            if (!buffers.TryGetValue(arrayType, out var buffer))
             {
-                buffer = Array.CreateInstance(arrayType.GetElementType()!, inputRows);
-                _decoded[arrayType] = buffer;
+                buffer = Array.CreateInstance(arrayType.GetElementType()!, length);
+                buffers[arrayType] = buffer;
             }
 
             return buffer;
