@@ -26,20 +26,28 @@ internal static class ColumnGather
     };
 
     /// <summary>
-    /// As <see cref="Gather"/>, into <paramref name="destination"/>'s first <paramref name="count"/> cells (an array
-    /// of the sources' type, at least that long), so a merge can use one buffer per type for every column.
+    /// Cell <paramref name="to"/>[k] of <paramref name="destination"/> gets cell <paramref name="from"/>[k] of
+    /// <paramref name="source"/>, for k in [<paramref name="start"/>, <paramref name="end"/>); both arrays of one type.
     /// </summary>
-    public static void GatherInto(Array destination, IReadOnlyList<Array> sources, int[] segments, int[] rows, int count)
+    public static void ScatterInto(Array destination, Array source, int[] to, int[] from, int start, int end)
     {
         switch (destination)
         {
-            case string?[] d: Into(d, sources, segments, rows, count); break;
-            case double?[] d: Into(d, sources, segments, rows, count); break;
-            case int?[] d: Into(d, sources, segments, rows, count); break;
-            case long?[] d: Into(d, sources, segments, rows, count); break;
-            case bool?[] d: Into(d, sources, segments, rows, count); break;
-            case DateTime?[] d: Into(d, sources, segments, rows, count); break;
+            case string?[] d: Scatter(d, (string?[])source, to, from, start, end); break;
+            case double?[] d: Scatter(d, (double?[])source, to, from, start, end); break;
+            case int?[] d: Scatter(d, (int?[])source, to, from, start, end); break;
+            case long?[] d: Scatter(d, (long?[])source, to, from, start, end); break;
+            case bool?[] d: Scatter(d, (bool?[])source, to, from, start, end); break;
+            case DateTime?[] d: Scatter(d, (DateTime?[])source, to, from, start, end); break;
             default: throw new InvalidOperationException($"unexpected column array {destination.GetType().Name}");
+        }
+    }
+
+    private static void Scatter<T>(T[] destination, T[] source, int[] to, int[] from, int start, int end)
+    {
+        for (var k = start; k < end; k++)
+        {
+            destination[to[k]] = source[from[k]];
         }
     }
 

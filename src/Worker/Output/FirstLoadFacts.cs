@@ -160,9 +160,9 @@ internal static class FirstLoadFacts
         step.Dispose();
         CollectGarbage();
         step = Queue.StageTimings.MeasureAlone("merge: facts, plan order and ids");
-        var planFirst = t.Has(PlanColumn) ? PlanFirst(await t.ReadAsync(PlanColumn, ct).ConfigureAwait(false), t.Rows) : null;
+        var planFirst = t.Has(PlanColumn) ? await PlanFirstAsync(t, ct).ConfigureAwait(false) : null;
         var wanted = new SortedSet<int>();
-        foreach (var row in (parameterPlot?.Series.SelectMany(s => s.Rows) ?? []).Concat(scatter?.Stable ?? []).Concat(scatter?.Unstable ?? []).Concat(scatter?.Front ?? []))
+        foreach (var row in (parameterPlot?.Series.SelectMany(s => s.Rows) ?? []).Concat(scatter?.Stable.Rows ?? []).Concat(scatter?.Unstable.Rows ?? []).Concat(scatter?.Front.Rows ?? []))
         {
             wanted.Add(row);
         }
@@ -227,7 +227,7 @@ internal static class FirstLoadFacts
                     }
 
                     json.WriteBoolean("lines", s.Lines);
-                    WritePoints(json, "points", s.Rows, i => s.X[i], row => parameterPlot.Y.Number[row], ids, flags, false);
+                    WritePoints(json, "points", s.Rows, i => s.X[i], i => s.Y[i], ids, flags, false);
                     json.WriteEndObject();
                 }
 
@@ -241,9 +241,9 @@ internal static class FirstLoadFacts
                 json.WriteString("x", sx);
                 json.WriteString("y", sy);
                 json.WriteNumber("plotted", scatter.Plotted);
-                WritePoints(json, "stable", scatter.Stable, i => scatter.X(scatter.Stable[i]), scatter.Y, ids, flags, false);
-                WritePoints(json, "unstable", scatter.Unstable, i => scatter.X(scatter.Unstable[i]), scatter.Y, ids, flags, false);
-                WritePoints(json, "front", scatter.Front, i => scatter.X(scatter.Front[i]), scatter.Y, ids, flags, true);
+                WritePoints(json, "stable", scatter.Stable.Rows, i => scatter.Stable.X[i], i => scatter.Stable.Y[i], ids, flags, false);
+                WritePoints(json, "unstable", scatter.Unstable.Rows, i => scatter.Unstable.X[i], i => scatter.Unstable.Y[i], ids, flags, false);
+                WritePoints(json, "front", scatter.Front.Rows, i => scatter.Front.X[i], i => scatter.Front.Y[i], ids, flags, true);
                 json.WriteEndObject();
             }
 
@@ -264,7 +264,7 @@ internal static class FirstLoadFacts
         json.WriteEndArray();
     }
 
-    /// <summary>Points as [x, y, id, unstable, floppy] (and the row, for the front's listed rows).</summary>
+    /// <summary>Points as [x, y, id, unstable, floppy] (and the row, for the front's listed rows); x and y by position in <paramref name="rows"/>.</summary>
     private static void WritePoints(Utf8JsonWriter json, string name, IReadOnlyList<int> rows, Func<int, double> x, Func<int, double> y, Dictionary<int, string> ids, Flags flags, bool withRow)
     {
         json.WriteStartArray(name);
@@ -273,7 +273,7 @@ internal static class FirstLoadFacts
             var row = rows[i];
             json.WriteStartArray();
             json.WriteNumberValue(x(i));
-            json.WriteNumberValue(y(row));
+            json.WriteNumberValue(y(i));
             json.WriteStringValue(ids[row]);
             json.WriteBooleanValue(flags.IsUnstable(row));
             json.WriteBooleanValue(flags.IsFloppy(row));
@@ -288,16 +288,22 @@ internal static class FirstLoadFacts
         json.WriteEndArray();
     }
 
-    private sealed record SeriesSample(double? Group, bool Lines, int[] Rows, double[] X);
+    /// <summary>A series' drawn points: their rows, x and y (only these are kept, not a column of every row).</summary>
+    private sealed record SeriesSample(double? Group, bool Lines, int[] Rows, double[] X, double[] Y);
 
-    private sealed record ParameterSample(List<SeriesSample> Series, int Plotted, Cells Y);
+    private sealed record ParameterSample(List<SeriesSample> Series, int Plotted);
 
-    private sealed record ScatterSample(Cells XCells, Cells YCells, List<int> Stable, List<int> Unstable, List<int> Front, int Plotted)
+    /// <summary>Drawn points of the scatter: rows with their x and y.</summary>
+    private sealed record Drawn(int[] Rows, double[] X, double[] Y)
     {
-        public double X(int row) => XCells.Number[row];
-
-        public double Y(int row) => YCells.Number[row];
+        public static Drawn Of(IEnumerable<int> rows, Cells xs, Cells ys)
+        {
+            int[] r = [.. rows];
+            return new Drawn(r, [.. r.Select(row => xs.Number[row])], [.. r.Select(row => ys.Number[row])]);
+        }
     }
+
+    private sealed record ScatterSample(Drawn Stable, Drawn Unstable, Drawn Front, int Plotted);
 
     /// <summary>One in this many points of each series is drawn.</summary>
     public static int Stride(int plotted) => plotted <= MaxDrawn ? 1 : (plotted + MaxDrawn - 1) / MaxDrawn;
@@ -347,7 +353,12 @@ internal static class FirstLoadFacts
         var sampled = new List<SeriesSample>();
         foreach (var group in groupRows.OrderBy(Order))
         {
-            var entries = group.Select((row, i) => (X: xs.Number[row], Order: i, Row: row)).ToArray();
+            var entries = new (double X, int Order, int Row)[group.Count];
+            for (var i = 0; i < entries.Length; i++)
+            {
+                entries[i] = (xs.Number[group[i]], i, group[i]);
+            }
+
             entries.AsSpan().Sort((p, q) => p.X.CompareTo(q.X) is var c and not 0 ? c : p.Order.CompareTo(q.Order));
             var lines = true;
             for (var i = 1; i < entries.Length && lines; i++)
@@ -357,10 +368,10 @@ internal static class FirstLoadFacts
 
             double? name = groups is null || double.IsNaN(groups.Number[group[0]]) ? null : groups.Number[group[0]];
             var at = Sample(entries.Length, stride).ToArray();
-            sampled.Add(new SeriesSample(name, lines, [.. at.Select(i => entries[i].Row)], [.. at.Select(i => entries[i].X)]));
+            sampled.Add(new SeriesSample(name, lines, [.. at.Select(i => entries[i].Row)], [.. at.Select(i => entries[i].X)], [.. at.Select(i => ys.Number[entries[i].Row])]));
         }
 
-        return new ParameterSample(sampled, plotted, ys);
+        return new ParameterSample(sampled, plotted);
     }
 
     private static ScatterSample Scatter(Cells xs, Cells ys, Flags flags, int rows)
@@ -375,12 +386,11 @@ internal static class FirstLoadFacts
             }
         }
 
-        var fx = stable.Select(r => xs.Number[r]).ToArray();
-        var fy = stable.Select(r => ys.Number[r]).ToArray();
-        var front = ParetoFront.Of(fx, fy, true, true).Select(i => stable[i]).ToList();
+        var front = ParetoFront.OfRows(xs.Number, ys.Number, stable, true, true);
         var plotted = stable.Count + unstable.Count;
         var stride = Stride(plotted);
-        return new ScatterSample(xs, ys, [.. Sample(stable.Count, stride).Select(i => stable[i])], [.. Sample(unstable.Count, stride).Select(i => unstable[i])], front, plotted);
+        return new ScatterSample(Drawn.Of(Sample(stable.Count, stride).Select(i => stable[i]), xs, ys), Drawn.Of(Sample(unstable.Count, stride).Select(i => unstable[i]), xs, ys),
+            Drawn.Of(front, xs, ys), plotted);
     }
 
     /// <summary>Rows listed at most in plan order (the first pages of the default table).</summary>
@@ -388,19 +398,40 @@ internal static class FirstLoadFacts
 
     /// <summary>
     /// The first <see cref="PlanRowsKept"/> rows in plan order as the dashboard sorts them: by plan
-    /// index, rows without one last, ties in row order.
+    /// index, rows without one last, ties in row order. Read a row group at a time into a bounded
+    /// selection (<see cref="PlanOrderSelection"/>), not an array of every row (24 bytes a row, 24 MB at 10^6 points).
     /// </summary>
-    private static int[] PlanFirst(Cells plan, int rows)
+    private static async Task<int[]> PlanFirstAsync(Table t, CancellationToken ct)
     {
-        var entries = new (bool Empty, double Key, int Row)[rows];
-        for (var r = 0; r < rows; r++)
+        var first = new PlanOrderSelection(PlanRowsKept);
+        await t.ForEachAsync(PlanColumn, (at, data, n) =>
         {
-            var key = plan.Number[r];
-            entries[r] = (double.IsNaN(key), double.IsNaN(key) ? 0 : key, r);
+            for (var i = 0; i < n; i++)
+            {
+                first.Offer(data switch
+                {
+                    double?[] d => d[i] ?? double.NaN,
+                    float?[] f => f[i] ?? double.NaN,
+                    int?[] v => v[i] is { } x ? x : double.NaN,
+                    long?[] l => l[i] is { } x ? x : double.NaN,
+                    _ => double.NaN,
+                }, at + i);
+            }
+        }, ct).ConfigureAwait(false);
+
+        // Rows of a file without the column (ForEachAsync skips it) have no plan index, as ReadAsync leaves them.
+        var start = 0;
+        foreach (var file in t.Files)
+        {
+            for (var row = start; row < start + file.Rows && !file.Fields.Any(f => f.Name == PlanColumn); row++)
+            {
+                first.Offer(double.NaN, row);
+            }
+
+            start += file.Rows;
         }
 
-        Array.Sort(entries);
-        return [.. entries.Take(PlanRowsKept).Select(e => e.Row)];
+        return first.Rows();
     }
 
     private static bool? Determines(Cells q, Cells p, int rows) => PlotDefaults.Determines(q, p, rows, MaxKeys);

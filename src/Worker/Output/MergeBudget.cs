@@ -37,14 +37,16 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     };
 
     /// <summary>
-    /// What one input holds in a merge by columns (<see cref="StreamingMerge"/>): the point ids of one of
-    /// its row groups, and while a column is gathered that column of up to two of its row groups, beside
-    /// its open file (a read buffer and its footer, ~1 KiB per column chunk).
+    /// What one input holds in a merge by columns (<see cref="StreamingMerge"/>): the point ids of one of its
+    /// row groups beside its open file (a read buffer and its footer, ~1 KiB per column chunk). Its columns
+    /// are decoded one source at a time into buffers the pass shares, and the ids of row groups it has
+    /// moved past are kept only until the output group is written (at most that group's rows in all, so
+    /// they count with the output: <see cref="FinalGroupRowsByColumns"/>).
     /// </summary>
     public static long BytesHeldByColumns(long rowsHeld, IReadOnlyList<ColumnDef> columns, int rowGroups)
     {
         ArgumentNullException.ThrowIfNull(columns);
-        return (rowsHeld * (CellBytes(ColumnType.Text) + (2 * WidestCell(columns)))) + (1L << 16) + (1024L * columns.Count * Math.Max(1, rowGroups));
+        return (rowsHeld * CellBytes(ColumnType.Text)) + (1L << 16) + (1024L * columns.Count * Math.Max(1, rowGroups));
     }
 
     private static long WidestCell(IReadOnlyList<ColumnDef> columns) => columns.Count == 0 ? 1 : columns.Max(c => CellBytes(c.Type));
@@ -57,7 +59,10 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     public int RunGroupRowsFor(IReadOnlyList<ColumnDef> columns) =>
         (int)Math.Clamp(InputBytes / 16 / BytesPerRow(columns), 1, MergedLayout.RowGroupRows);
 
-    /// <summary>Rows per row group of a merged file written by columns: one column of the group fits <see cref="OutputGroupBytes"/>, at most <see cref="MergedLayout.RowGroupRows"/>.</summary>
+    /// <summary>
+    /// Rows per row group of a merged file written by columns: one column of the group fits <see cref="OutputGroupBytes"/>
+    /// (and the point ids of input row groups the merge has moved past while picking it, at most as much again), at most <see cref="MergedLayout.RowGroupRows"/>.
+    /// </summary>
     public int FinalGroupRowsByColumns(IReadOnlyList<ColumnDef> columns) =>
         (int)Math.Clamp(OutputGroupBytes / WidestCell(columns), 1, MergedLayout.RowGroupRows);
 

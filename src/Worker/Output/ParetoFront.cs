@@ -44,6 +44,37 @@ internal static class ParetoFront
             }
         }
 
+        return Front(order, n);
+    }
+
+    /// <summary>
+    /// As <see cref="Of(double[], double[], bool, bool)"/> over the points <paramref name="rows"/> (ascending) of
+    /// columns <paramref name="x"/> and <paramref name="y"/>, returning rows: the same front and order as
+    /// <c>Of</c> of the copied values mapped back to rows, without copying two columns first.
+    /// </summary>
+    public static List<int> OfRows(double[] x, double[] y, IReadOnlyList<int> rows, bool xLarger, bool yLarger)
+    {
+        ArgumentNullException.ThrowIfNull(x);
+        ArgumentNullException.ThrowIfNull(y);
+        ArgumentNullException.ThrowIfNull(rows);
+        var order = new Entry[rows.Count];
+        var n = 0;
+        foreach (var row in rows)
+        {
+            var a = xLarger ? x[row] : -x[row];
+            var b = yLarger ? y[row] : -y[row];
+            if (double.IsFinite(a) && double.IsFinite(b))
+            {
+                // Ties sort by index: rows ascend as their positions do, so the order is Of's.
+                order[n++] = new Entry(row, a, b);
+            }
+        }
+
+        return Front(order, n);
+    }
+
+    private static List<int> Front(Entry[] order, int n)
+    {
         order.AsSpan(0, n).Sort(new BestFirst());
         var front = new List<int>();
         var bestB = double.NegativeInfinity;

@@ -91,6 +91,13 @@ internal sealed class SortedInput : IAsyncDisposable
         return await ParquetTableFile.ReadColumnOfGroupAsync(group, _fields[column], Columns[column].Type, ct).ConfigureAwait(false);
     }
 
+    /// <summary>One column of a row group opened by <see cref="OpenGroup"/>, decoded into <paramref name="buffer"/>'s first rows (returned: how many).</summary>
+    public async Task<int> ReadColumnIntoAsync(ParquetRowGroupReader group, int column, Array buffer, CancellationToken ct)
+    {
+        using var timing = Queue.StageTimings.Measure("merge: read column");
+        return await ParquetTableFile.ReadColumnOfGroupIntoAsync(group, _fields[column], Columns[column].Type, buffer, ct).ConfigureAwait(false);
+    }
+
     /// <summary>
     /// The point ids of row group <paramref name="group"/>; groups must be asked for in order, and their
     /// ids are checked to follow the earlier ones (a file whose index claims an order its rows do not have is refused).

@@ -70,10 +70,10 @@ internal static partial class StreamingMerge
             }
         }
 
-        var sources = new List<(int Input, int Group)>();
+        var sources = new List<GroupSource>();
         var chosenSource = new int[groupRows];
         var chosenRow = new int[groupRows];
-        var buffers = new ColumnBuffers(groupRows);
+        var buffers = new ColumnBuffers(groupRows, (int)inputs.Max(i => i.GroupRows.DefaultIfEmpty(0).Max()));
         var index = new StringBuilder();
         long total = 0;
         var wroteGroup = false;
@@ -102,7 +102,7 @@ internal static partial class StreamingMerge
                         {
                             if (cursor.Source < 0)
                             {
-                                sources.Add((r, cursor.Group));
+                                sources.Add(new GroupSource(r, cursor.Group, cursor.Ids!));
                                 cursor.Source = sources.Count - 1;
                             }
 
@@ -154,22 +154,72 @@ internal static partial class StreamingMerge
     /// flags (the column summary counts them together once the group is written): a merge allocates them
     /// once, not an array per column and row group (which the GC would keep as large-object garbage).
     /// </summary>
-    private sealed class ColumnBuffers(int rows)
+    private sealed class ColumnBuffers(int rows, int inputRows)
     {
         private readonly Dictionary<Type, Array> _byType = [];
 
+        private readonly Dictionary<Type, Array> _decoded = [];
+
+        private readonly int[] _to = new int[rows];
+
+        private readonly int[] _from = new int[rows];
+
+        private int[] _start = [];
+
+        private int[] _next = [];
+
         public Array?[] Marks { get; } = new Array?[3];
 
-        public Array For(ColumnType type)
+        public Array For(ColumnType type) => BufferOf(_byType, type, rows);
+
+        /// <summary>One buffer per column type, as long as the inputs' largest row group, that each source's column is decoded into.</summary>
+        public Array Decoded(ColumnType type) => BufferOf(_decoded, type, inputRows);
+
+        private static Array BufferOf(Dictionary<Type, Array> buffers, ColumnType type, int length)
         {
             var arrayType = ColumnValues.ArrayType(type);
-            if (!_byType.TryGetValue(arrayType, out var buffer))
+            if (!buffers.TryGetValue(arrayType, out var buffer))
             {
-                buffer = Array.CreateInstance(arrayType.GetElementType()!, rows);
-                _byType[arrayType] = buffer;
+                buffer = Array.CreateInstance(arrayType.GetElementType()!, length);
+                buffers[arrayType] = buffer;
             }
 
             return buffer;
+        }
+
+        /// <summary>
+        /// The output group's rows ordered by source (a counting sort of <paramref name="source"/>): source s's rows go to
+        /// output rows To[k] from its rows From[k], k in [Start[s], Start[s + 1]), both ascending.
+        /// </summary>
+        public (int[] To, int[] From, int[] Start) BySource(int[] source, int[] row, int n, int sources)
+        {
+            if (_start.Length < sources + 1)
+            {
+                _start = new int[sources + 1];
+                _next = new int[sources + 1];
+            }
+
+            Array.Clear(_start, 0, sources + 1);
+            for (var i = 0; i < n; i++)
+            {
+                _start[source[i] + 1]++;
+            }
+
+            for (var s = 0; s < sources; s++)
+            {
+                _start[s + 1] += _start[s];
+            }
+
+            // Filled through a cursor per source that starts at its Start and ends at the next one's.
+            Array.Copy(_start, _next, sources);
+            for (var i = 0; i < n; i++)
+            {
+                var k = _next[source[i]]++;
+                _to[k] = i;
+                _from[k] = row[i];
+            }
+
+            return (_to, _from, _start);
         }
 
         /// <summary>Keeps a copy of a mark column's first <paramref name="n"/> cells until the group's marks are counted.</summary>
@@ -190,32 +240,41 @@ internal static partial class StreamingMerge
         }
     }
 
-    /// <summary>Writes one output row group of <paramref name="n"/> rows a column at a time: row i is row <paramref name="chosenRow"/>[i] of source <paramref name="chosenSource"/>[i].</summary>
+    /// <summary>
+    /// Writes one output row group of <paramref name="n"/> rows a column at a time: row i is row <paramref name="chosenRow"/>[i] of source <paramref name="chosenSource"/>[i].
+    /// Each source's column is decoded into one reused buffer and its rows put in place before the next
+    /// source is read, so a column never holds every source decoded at once: decoded arrays that lived
+    /// across the reads of ~100-200 sources were promoted and died old, and set the merge's peak (bench/README, round 17).
+    /// </summary>
     private static async Task WriteGroupByColumnsAsync(ParquetTableWriter writer, List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string table,
-        List<(int Input, int Group)> sources, GroupPlan plan, ColumnBuffers buffers, StringBuilder index, ColumnSummary? summary, CancellationToken ct)
+        List<GroupSource> sources, GroupPlan plan, ColumnBuffers buffers, StringBuilder index, ColumnSummary? summary, CancellationToken ct)
     {
         var n = plan.Rows;
         using var group = writer.BeginRowGroup(table, n);
         var opened = sources.Select(s => inputs[s.Input].OpenGroup(s.Group)).ToArray();
         try
         {
-            var decoded = new Array[sources.Count];
+            var bySource = buffers.BySource(plan.Source, plan.Row, n, sources.Count);
             for (var c = 0; c < columns.Count; c++)
             {
                 var values = buffers.For(columns[c].Type);
                 if (n > 0)
                 {
+                    var decoded = buffers.Decoded(columns[c].Type);
                     for (var s = 0; s < sources.Count; s++)
                     {
-                        decoded[s] = await inputs[sources[s].Input].ReadColumnAsync(opened[s], c, ct).ConfigureAwait(false);
-                    }
+                        // The point ids are the ones the order was picked from: not decoded again.
+                        var rows = c == plan.IdColumn ? 0 : await inputs[sources[s].Input].ReadColumnIntoAsync(opened[s], c, decoded, ct).ConfigureAwait(false);
+                        using (Queue.StageTimings.Measure("merge: gather"))
+                        {
+                            ColumnGather.ScatterInto(values, c == plan.IdColumn ? sources[s].Ids : decoded, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1]);
+                        }
 
-                    using (Queue.StageTimings.Measure("merge: gather"))
-                    {
-                        ColumnGather.GatherInto(values, decoded, plan.Source, plan.Row, n);
+                        if (decoded is string?[] text)
+                        {
+                            Array.Clear(text, 0, rows);
+                        }
                     }
-
-                    Array.Clear(decoded);
                 }
 
                 if (c == plan.IdColumn && n > 0)
@@ -252,6 +311,9 @@ internal static partial class StreamingMerge
         summary?.AddRows(n);
         summary?.AddMarks(buffers.Marks[0], buffers.Marks[1], buffers.Marks[2], n);
     }
+
+    /// <summary>A row group some of an output group's rows come from: its input, its number, and its point ids (read for the order, kept for the id column).</summary>
+    private sealed record GroupSource(int Input, int Group, string?[] Ids);
 
     /// <summary>Where each row of an output group comes from: row i is row <see cref="Row"/>[i] of source <see cref="Source"/>[i].</summary>
     private sealed record GroupPlan(int[] Source, int[] Row, int Rows, int IdColumn);

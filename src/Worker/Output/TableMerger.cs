@@ -54,6 +54,18 @@ internal static class TableMerger
         return outcomes;
     }
 
+    /// <summary>
+    /// A full, compacting collection that hands freed memory back, before a table's parts are rewritten:
+    /// what the solving phase or the table before left (garbage, and memory the GC keeps committed for
+    /// the next allocations) would otherwise sit under the merge's own peak. At the end of a 10^5-point
+    /// run it took the process from 153 to 107 MiB (bench/README, round 17); ~10-50 ms a table.
+    /// </summary>
+    private static void ReleaseMemory()
+    {
+        using var timing = Queue.StageTimings.Measure("merge: release memory");
+        GC.Collect(GC.MaxGeneration, GCCollectionMode.Aggressive, blocking: true, compacting: true);
+    }
+
     private static void RemoveIfEmpty(string folder)
     {
         try
@@ -120,6 +132,7 @@ internal static class TableMerger
                 return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
             }
 
+            ReleaseMemory();
             var batch = new List<(string File, IReadOnlyList<string> Chunks)>();
             IReadOnlyList<ColumnDef>? batchColumns = null;
             IReadOnlyDictionary<string, string>? batchMetadata = null;

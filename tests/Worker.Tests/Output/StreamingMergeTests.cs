@@ -196,6 +196,71 @@ public sealed class StreamingMergeTests : IDisposable
         Assert.Equal(RowGroupIndex.Of(sorted, 50), index);
     }
 
+    [Theory]
+    [InlineData(1L << 30)]
+    [InlineData(1L << 16)]
+    public async Task Many_small_parts_of_a_narrow_table_merge_every_row_once_in_point_order_each_part_read_into_several_output_groups(long inputBytes)
+    {
+        // 150 parts of one row group each whose ids span the whole range (as a run's sound_speeds/ parts do),
+        // a text column with empty cells beside the id, ties across parts; output groups of 64 rows, so every
+        // part's row group is read for several output groups (its columns decoded again each time, its ids
+        // taken from the ones the order was picked from). A budget of 64 KiB merges them through sorted runs.
+        var columns = new List<ColumnDef>
+        {
+            new("point_id", ColumnType.Text, "", ""),
+            new("direction", ColumnType.Text, "", ""),
+            new("branch", ColumnType.Int32, "", ""),
+            new("speed_m_per_s", ColumnType.Double, "m/s", ""),
+        };
+        var sweep = _dir.Combine("sweep");
+        var table = Path.Combine(sweep, "demo");
+        Directory.CreateDirectory(table);
+        var random = new Random(17);
+        var all = new List<(string Id, string? Direction, int Chunk, int Row)>();
+        for (var chunk = 0; chunk < 150; chunk++)
+        {
+            var ids = Enumerable.Range(0, 20 + random.Next(30)).Select(_ => $"{random.Next(3000):x4}").Order(StringComparer.Ordinal).ToList();
+            var rows = ids.Select((id, r) => (Id: id, Direction: r % 4 == 0 ? null : $"[1{r % 3}0]", Chunk: chunk, Row: r)).ToList();
+            all.AddRange(rows);
+            var values = new Array[]
+            {
+                rows.Select(r => (string?)r.Id).ToArray(),
+                rows.Select(r => r.Direction).ToArray(),
+                rows.Select(r => (int?)(r.Row % 3)).ToArray(),
+                rows.Select(r => (double?)((r.Chunk * 1000) + r.Row + 0.25)).ToArray(),
+            };
+            var metadata = new Dictionary<string, string>
+            {
+                ["latticesweep.table"] = "demo",
+                [MergedLayout.ChunksKey] = $"c{chunk:d3}",
+                [MergedLayout.RowGroupsKey] = RowGroupIndex.Of(ids, ids.Count),
+            };
+            await using var stream = File.Create(Path.Combine(table, $"part-c{chunk:d3}.parquet"));
+            await using var writer = await ParquetTableWriter.CreateAsync(stream, columns, metadata, CancellationToken.None);
+            await writer.WriteRowGroupAsync(new TableRows("demo", columns, rows.Count, values), CancellationToken.None);
+        }
+
+        var budget = new MergeBudget(InputBytes: inputBytes, OutputGroupBytes: 64 * 64);
+        var outcome = Assert.Single(await TableMerger.MergeSweepAsync(sweep, ["demo"], budget, CancellationToken.None));
+        Assert.Equal(150, outcome.PartsMerged);
+        Assert.Equal(all.Count, outcome.Rows);
+
+        using var db = new DuckDb();
+        var merged = Path.Combine(table, MergedLayout.MergedFileName(0));
+        Assert.Equal([merged], Directory.EnumerateFiles(table, "*.parquet").ToList());
+        var read = db.Rows($"SELECT point_id, direction, branch, speed_m_per_s FROM read_parquet('{merged}', file_row_number = true) ORDER BY file_row_number")
+            .Select(r => string.Join('|', r.Select(v => Convert.ToString(v, System.Globalization.CultureInfo.InvariantCulture)))).ToList();
+        // Every row once, sorted by point id, ties in the parts' order (a stable sort of the parts in file order).
+        var expected = all.OrderBy(r => r.Id, StringComparer.Ordinal).Select(r => string.Join('|', r.Id, r.Direction ?? "", r.Row % 3,
+            Convert.ToString((r.Chunk * 1000) + r.Row + 0.25, System.Globalization.CultureInfo.InvariantCulture))).ToList();
+        Assert.Equal(expected, read);
+        var groups = db.Rows($"SELECT DISTINCT row_group_id, row_group_num_rows FROM parquet_metadata('{merged}') ORDER BY row_group_id")
+            .Select(r => Convert.ToInt64(r[1], System.Globalization.CultureInfo.InvariantCulture)).ToList();
+        Assert.All(groups.SkipLast(1), n => Assert.Equal(64, n));
+        Assert.Equal(RowGroupIndex.Of(all.Select(r => r.Id).Order(StringComparer.Ordinal).ToList(), 64),
+            (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{merged}') WHERE decode(key) = '{MergedLayout.RowGroupsKey}'")!);
+    }
+
     [Fact]
     public void A_column_summary_given_one_column_at_a_time_says_what_one_given_whole_row_groups_says()
     {
