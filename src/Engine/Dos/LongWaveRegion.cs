@@ -93,6 +93,14 @@ internal sealed class LongWaveRegion
 
     public LongWaveBox Box { get; }
 
+    /// <summary>
+    /// True when every ray-branch of the region rises as a wave all the way to the box's surface: its slope
+    /// stays above <see cref="FlatteningSlope"/> of its steepest so far and positive (the branch neither
+    /// flattens against a band above it nor turns). <see cref="LongWaveRegions"/> lets a slower cone keep a
+    /// box of its own only then.
+    /// </summary>
+    public bool RisesAsWave { get; private init; }
+
     /// <summary>omega_c (rad/s): below it the thermal sums take the rays' smooth density directly.</summary>
     public double OmegaSplit { get; }
 
@@ -184,7 +192,19 @@ internal sealed class LongWaveRegion
             }
         }
 
-        return new LongWaveRegion(new LongWaveBox(half[0], half[1], half[2], acoustic), from, to, cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions);
+        var risesAsWave = true;
+        for (var r = 0; r < rays.Length; r++)
+        {
+            for (var k = from; k < to; k++)
+            {
+                risesAsWave &= rhoPeak[(r * acoustic) + k] == 1.0 && monotonic[(r * acoustic) + k];
+            }
+        }
+
+        return new LongWaveRegion(new LongWaveBox(half[0], half[1], half[2], acoustic), from, to, cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions)
+        {
+            RisesAsWave = risesAsWave,
+        };
     }
 
     /// <summary>

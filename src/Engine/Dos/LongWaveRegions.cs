@@ -50,13 +50,23 @@ internal sealed class LongWaveRegions
 
         var parts = new List<LongWaveRegion>();
         var widths = new int[acoustic][];
-        foreach (var (from, to) in Groups(solver, d, narrowings))
+        var groups = Groups(solver, d, narrowings);
+        for (var g = 0; g < groups.Count; g++)
         {
+            var (from, to) = groups[g];
             var box = LongWaveRegion.Narrowed(half, d, narrowings[to - 1]);
             var part = LongWaveRegion.Build(solver, mesh, box, from, to, fractions);
             if (part is null)
             {
                 return null;
+            }
+
+            // 3D: a slower cone whose rays do not rise as a wave out to its wider box (it flattens against a
+            // band it did not meet on the mesh) joins the box of the branches above it.
+            if (d == 3 && g + 1 < groups.Count && !part.RisesAsWave)
+            {
+                groups[g + 1] = (from, groups[g + 1].To);
+                continue;
             }
 
             parts.Add(part);
