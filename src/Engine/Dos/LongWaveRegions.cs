@@ -6,8 +6,8 @@ namespace LatticeSweep.Engine.Dos;
 /// <summary>
 /// The long waves of a mesh as one <see cref="LongWaveRegion"/> per box width: usually one box for
 /// every acoustic branch; in a crystal whose fastest cone meets a low optical branch inside the box the
-/// slower cones may keep a wider one (<see cref="Groups"/>); on a sheet whose in-plane cones meet a low optical branch inside the box
-/// while the flexural branch stays far below it, the flexural branch keeps a wider box
+/// slower cones may keep a wider one (<see cref="Groups"/>); on a sheet whose in-plane cones meet a low
+/// optical branch inside the box while the flexural branch stays far below it, the flexural branch keeps a wider box
 /// (<see cref="LongWaveRegion.HalfWidths"/>, <see cref="WideBranches"/>).
 /// <para>
 /// Why: a box cut to one cell for all three branches left the flexural branch, which carries the heat
