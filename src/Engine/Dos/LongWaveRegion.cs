@@ -39,6 +39,15 @@ internal sealed class LongWaveRegion
     /// <summary>Half-width of the box in mesh cells along each direction on meshes of 32 and less (see <see cref="HalfWidths"/>).</summary>
     public const int HalfWidthCells = 4;
 
+    /// <summary>
+    /// A slower cone takes a box of its own (3D) only where it stays below this share of the next branch at
+    /// every mesh point of the box but q = 0. Why a margin: the test sees mesh points only, and where two
+    /// sorted cones come close between them the rays' polynomial cannot follow the kink; with 0.98 or 0.9 a
+    /// random two-site fcc cell and the folded simple cubic cell got worse at 1-14 K, with 0.8 neither moved
+    /// (docs/outside-checks.md, Round 17 (cones next to a narrowed box)).
+    /// </summary>
+    private const double SeparatedShare = 0.8;
+
     /// <summary>Panels per ray in each of the two parts (below and above omega_c) for the DOS bins.</summary>
     private const int Panels = 32;
 
@@ -83,6 +92,14 @@ internal sealed class LongWaveRegion
     }
 
     public LongWaveBox Box { get; }
+
+    /// <summary>
+    /// True when every ray-branch of the region rises as a wave all the way to the box's surface: its slope
+    /// stays above <see cref="FlatteningSlope"/> of its steepest so far and positive (the branch neither
+    /// flattens against a band above it nor turns). <see cref="LongWaveRegions"/> lets a slower cone keep a
+    /// box of its own only then.
+    /// </summary>
+    public bool RisesAsWave { get; private init; }
 
     /// <summary>omega_c (rad/s): below it the thermal sums take the rays' smooth density directly.</summary>
     public double OmegaSplit { get; }
@@ -175,7 +192,19 @@ internal sealed class LongWaveRegion
             }
         }
 
-        return new LongWaveRegion(new LongWaveBox(half[0], half[1], half[2], acoustic), from, to, cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions);
+        var risesAsWave = true;
+        for (var r = 0; r < rays.Length; r++)
+        {
+            for (var k = from; k < to; k++)
+            {
+                risesAsWave &= rhoPeak[(r * acoustic) + k] == 1.0 && monotonic[(r * acoustic) + k];
+            }
+        }
+
+        return new LongWaveRegion(new LongWaveBox(half[0], half[1], half[2], acoustic), from, to, cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions)
+        {
+            RisesAsWave = risesAsWave,
+        };
     }
 
     /// <summary>
@@ -193,8 +222,10 @@ internal sealed class LongWaveRegion
     /// inside it (to cross, two branches must meet at the same q); in 1D below the lowest optical
     /// frequency of the mesh. Sorted branches lie
     /// below one another, so n_k never falls with k and the boxes nest. On a sheet this lets the flexural
-    /// branch keep a wide box where the in-plane cones meet a low optical branch near the box's corners.
-    /// In 1D and 3D every branch takes the last branch's count (the shared box).
+    /// branch keep a wide box where the in-plane cones meet a low optical branch near the box's corners;
+    /// in a crystal it lets the slower cones keep theirs where the fastest one meets it
+    /// (<see cref="LongWaveRegions"/> decides which branches take their own). In 1D every branch takes
+    /// the last branch's count (the shared box).
     /// </para>
     /// <para>
     /// Why rings, and one cell per step in 2D and 3D: the test against the optical floor anywhere (the
@@ -302,12 +333,71 @@ internal sealed class LongWaveRegion
             return true;
         }
 
-        if (d != 2)
+        if (d == 1)
         {
             Array.Fill(narrowings, narrowings[acoustic - 1]);
         }
+        else if (d == 3)
+        {
+            // A slower cone keeps a wider box of its own where, cube by cube, it stays below the branch above it
+            // (so below every optical branch too); otherwise it shares the box of the branch above.
+            for (var k = acoustic - 2; k >= 0; k--)
+            {
+                var h = 0;
+                while (h < narrowings[k + 1] && !BelowNextInEveryCube(mesh, boxes[h], branches, acoustic, k, frequencyThz))
+                {
+                    h++;
+                }
+
+                narrowings[k] = h;
+            }
+        }
 
         return (half, narrowings);
+    }
+
+    /// <summary>
+    /// Whether sorted acoustic branch k stays clear of the branches above it in a 3D box: in each mesh cube
+    /// of it, branch k's highest corner below the lowest optical branch's lowest corner (two branches cross
+    /// only where they meet at the same q, so inside a cube only where their ranges over it overlap), and
+    /// at every mesh point but q = 0 below <see cref="SeparatedShare"/> of branch k + 1. Where either
+    /// fails the sorted branch may have a kink the rays cannot follow, and it shares the next one's box.
+    /// </summary>
+    private static bool BelowNextInEveryCube(BulkSample mesh, int[] box, int branches, int acoustic, int k, double[] frequencyThz)
+    {
+        for (var n1 = -box[0]; n1 < box[0]; n1++)
+        {
+            for (var n2 = -box[1]; n2 < box[1]; n2++)
+            {
+                for (var n3 = -box[2]; n3 < box[2]; n3++)
+                {
+                    var top = double.NegativeInfinity;
+                    var bottom = double.PositiveInfinity;
+                    for (var c = 0; c < 8; c++)
+                    {
+                        var (c1, c2, c3) = (n1 + (c & 1), n2 + ((c >> 1) & 1), n3 + ((c >> 2) & 1));
+                        var i1 = Wrap((mesh.M1 / 2) + c1, mesh.M1);
+                        var i2 = Wrap((mesh.M2 / 2) + c2, mesh.M2);
+                        var i3 = Wrap((mesh.M3 / 2) + c3, mesh.M3);
+                        var p = (((long)i1 * mesh.M2) + i2) * mesh.M3 + i3;
+                        var own = frequencyThz[(p * branches) + k];
+                        top = Math.Max(top, own);
+                        bottom = Math.Min(bottom, frequencyThz[(p * branches) + acoustic]);
+                        if ((c1 != 0 || c2 != 0 || c3 != 0) && !(own < SeparatedShare * frequencyThz[(p * branches) + k + 1]))
+                        {
+                            return false;
+                        }
+                    }
+
+                    if (!(top < bottom))
+                    {
+                        return false;
+                    }
+                }
+            }
+        }
+
+        return true;
     }
 
     /// <summary>Half-widths after <paramref name="steps"/> narrowing steps (<see cref="HalfWidths"/>; never below one cell).</summary>

@@ -5,8 +5,9 @@ namespace LatticeSweep.Engine.Dos;
 
 /// <summary>
 /// The long waves of a mesh as one <see cref="LongWaveRegion"/> per box width: usually one box for
-/// every acoustic branch; on a sheet whose in-plane cones meet a low optical branch inside the box
-/// while the flexural branch stays far below it, the flexural branch keeps a wider box
+/// every acoustic branch; in a crystal whose fastest cone meets a low optical branch inside the box the
+/// slower cones may keep a wider one (<see cref="Groups"/>); on a sheet whose in-plane cones meet a low
+/// optical branch inside the box while the flexural branch stays far below it, the flexural branch keeps a wider box
 /// (<see cref="LongWaveRegion.HalfWidths"/>, <see cref="WideBranches"/>).
 /// <para>
 /// Why: a box cut to one cell for all three branches left the flexural branch, which carries the heat
@@ -47,17 +48,25 @@ internal sealed class LongWaveRegions
             return null;
         }
 
-        // Groups of branches sharing a box: [0, wide) and [wide, acoustic).
-        var wide = WideBranches(solver, narrowings);
         var parts = new List<LongWaveRegion>();
         var widths = new int[acoustic][];
-        foreach (var (from, to) in wide == 0 ? [(0, acoustic)] : new[] { (0, wide), (wide, acoustic) })
+        var groups = Groups(solver, d, narrowings);
+        for (var g = 0; g < groups.Count; g++)
         {
+            var (from, to) = groups[g];
             var box = LongWaveRegion.Narrowed(half, d, narrowings[to - 1]);
             var part = LongWaveRegion.Build(solver, mesh, box, from, to, fractions);
             if (part is null)
             {
                 return null;
+            }
+
+            // 3D: a slower cone whose rays do not rise as a wave out to its wider box (it flattens against a
+            // band it did not meet on the mesh) joins the box of the branches above it.
+            if (d == 3 && g + 1 < groups.Count && !part.RisesAsWave)
+            {
+                groups[g + 1] = (from, groups[g + 1].To);
+                continue;
             }
 
             parts.Add(part);
@@ -70,6 +79,48 @@ internal sealed class LongWaveRegions
         var outer = parts[0].Box;
         var combined = parts.Count == 1 ? outer : outer with { BranchHalfWidths = widths };
         return new LongWaveRegions(combined, [.. parts]);
+    }
+
+    /// <summary>
+    /// The groups of acoustic branches [from, to) that share a box, lowest first. In 3D each run of
+    /// branches with the same box (<paramref name="narrowings"/>) is a group: a cone that stays below the
+    /// optical branches keeps its own box where a faster one meets them. On a sheet only a flexural branch
+    /// leaves the shared box (<see cref="WideBranches"/>). In 1D one group.
+    /// <para>
+    /// Why in 3D: with one box for all, a box cut to one cell by the fastest cone left the slower cones,
+    /// which carry most of the heat capacity at a few kelvin, to tetrahedra from the second shell on, where
+    /// the cone's curvature shift is a quarter of its frequency: fcc described by its 4-site cubic cell was
+    /// 9e-3 - 1e-2 low at 10 K on 8^3-9^3, now 1.3e-3 (docs/outside-checks.md, Round 17 (cones next to a
+    /// narrowed box)).
+    /// </para>
+    /// </summary>
+    private static List<(int From, int To)> Groups(ModeSolver solver, int d, int[] narrowings)
+    {
+        var acoustic = narrowings.Length;
+        var groups = new List<(int From, int To)>();
+        if (d == 3)
+        {
+            var from = 0;
+            for (var k = 1; k <= acoustic; k++)
+            {
+                if (k == acoustic || narrowings[k] != narrowings[from])
+                {
+                    groups.Add((from, k));
+                    from = k;
+                }
+            }
+
+            return groups;
+        }
+
+        var wide = d == 2 ? WideBranches(solver, narrowings) : 0;
+        groups.Add((0, wide == 0 ? acoustic : wide));
+        if (wide > 0)
+        {
+            groups.Add((wide, acoustic));
+        }
+
+        return groups;
     }
 
     /// <summary>

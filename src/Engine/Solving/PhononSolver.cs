@@ -52,7 +52,9 @@ public static partial class PhononSolver
     /// the mesh solve (the in-plane cones must reach the lowest optical branch inside the box), so a sheet
     /// that can have one (out-of-plane motion and more than one site: a flexural branch and an optical
     /// floor) is counted with both sets: where it keeps one box (the stiff honeycomb of the tests from
-    /// 16 x 16 on) the count is one set too many (bench/README.md, Round 12 (trust-signals)).
+    /// 16 x 16 on) the count is one set too many (bench/README.md, Round 12 (trust-signals)). A 3D cell is
+    /// counted with one set: one whose slower cones keep a box of their own makes two or three, which is
+    /// rare (6 of the 294 3D cell x mesh rows of docs/outside-checks.md Round 17) and known only after the mesh solve.
     /// </summary>
     public static int LongWaveSolves(CrystalModel model, BulkSample sample, SolveOptions options)
     {

@@ -51,13 +51,12 @@ public class MidTemperatureBulkTests
     /// <summary>
     /// Monatomic fcc with central nearest-neighbour springs K: D(q) = (K/m) sum over the 12 neighbours
     /// of (1 - cos q.delta) dhat dhat^T (Ashcroft and Mermin ch. 22, pair springs), eigenvalues per q,
-    /// summed over a 40^3 mesh of the primitive reciprocal cell offset by half a step (the sum over all
+    /// summed over an m^3 mesh of the primitive reciprocal cell offset by half a step (the sum over all
     /// branches is smooth away from q = 0, so it converges fast: 40^3 and 80^3 sums agree within 1e-9
-    /// at these temperatures, NumPy, measured for this check).
+    /// at 15-60 K, NumPy, measured for this check; colder needs a finer mesh, see the callers).
     /// </summary>
-    private static double[] FccReference(double[] temperatures, double aNm)
+    internal static double[] FccReference(double[] temperatures, double aNm, int m = 40)
     {
-        const int m = 40;
         var a = aNm * 1e-9;
         var neighbours = new List<double[]>();
         foreach (var (x, y) in new[] { (1, 1), (1, -1), (-1, 1), (-1, -1) })
