@@ -110,7 +110,8 @@ print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 60
       # writes one line a second to run-N.samples (seconds since start, RSS and its high-water mark in
       # MB, part files written, the store's size in MB, the load average), so memory over time shows
       # whether it grows with the points; the summary line gives the peak before the end-of-sweep merge
-      # (the high-water mark when the merge's staging folder first appears), the whole run's peak, the
+      # (the solving phase's peak from LATSWEEP_TIMINGS; without it, the sampler's high-water mark when
+      # the merge's staging folder first appears), the whole run's peak, the
       # RSS in the last quarter of the solving time, the store's and the results' size on disk, and
       # each table's files at the end, the points/ table read back by DuckDB (bench/count-rows: rows,
       # distinct ids, points per state) and `status` of the sweep.
@@ -141,6 +142,11 @@ print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 60
         wait "$timer" || echo "run-$n: exit code $?"
         # RSS over the last quarter of the solving samples (before the merge): the level the run settles at.
         late="$(awk '!/^#/ && $6 == 0 { r[++k] = $2 } END { if (k == 0) { print "-"; exit } lo = 1e9; hi = 0; for (i = int(k * 3 / 4) + 1; i <= k; i++) { if (r[i] < lo) lo = r[i]; if (r[i] > hi) hi = r[i] } print lo "-" hi }' "$samples")"
+        # The solving phase's own peak from LATSWEEP_TIMINGS ("run: work the queue", sampled every 5 ms by
+        # the process); the 1 s sampler's high-water mark before it sees the staging folder can include
+        # the start of the merge, so it is only the fallback.
+        timed_kb="$(awk '/^timings: run: work the queue/ && match($0, /peak RSS [0-9]+ MiB/) { split(substr($0, RSTART, RLENGTH), w, " "); print w[3] * 1024 }' "$results/run-$n.time")"
+        [ -n "$timed_kb" ] && solving_kb="$timed_kb"
         awk -v l="run-$n" -v load="$load" -v solving="$solving_kb" -v late="$late" '
           /Elapsed \(wall clock\)/ { k = split($NF, t, ":"); w = (k == 3) ? t[1] * 3600 + t[2] * 60 + t[3] : t[1] * 60 + t[2] }
           /User time/ { u = $NF } /System time/ { s = $NF } /Maximum resident/ { m = $NF / 1024 }
