@@ -80,7 +80,9 @@ public sealed class FailureOriginOnEveryStoreTests : IDisposable
             }
             else
             {
-                Assert.EndsWith($" [swept: model.sites.B.position[0] at {positionAt}; model.springs[0].transverse_n_per_m at {transverseAt}]", error, StringComparison.Ordinal);
+                // Two keys of one file: the file said once, then each key's line and column.
+                Assert.EndsWith($" [swept in {job}: model.sites.B.position[0] at {positionAt[(job.Length + 1)..]}; model.springs[0].transverse_n_per_m at {transverseAt[(job.Length + 1)..]}]", error, StringComparison.Ordinal);
+                Assert.Single(System.Text.RegularExpressions.Regex.Matches(error, System.Text.RegularExpressions.Regex.Escape(job)));
             }
         }
 
@@ -94,6 +96,8 @@ public sealed class FailureOriginOnEveryStoreTests : IDisposable
         Assert.Contains("  6 x model: model.sites[1].position: site 'B' sits on site 'A'", output, StringComparison.Ordinal);
         Assert.Contains($"      from: the swept model.sites.B.position[0], values at {positionAt}\n      failing values: sites_b_position_0 = 0 (1 of 3 values)\n", output, StringComparison.Ordinal);
         Assert.Contains($"      from: the swept model.springs[0].transverse_n_per_m, values at {transverseAt}\n      failing values: springs_0_transverse_n_per_m = 0 (1 of 3 values)\n", output, StringComparison.Ordinal);
+        var job = positionAt[..positionAt.LastIndexOf(':', positionAt.LastIndexOf(':') - 1)];
+        Assert.Contains($"      from: each of the swept model.sites.B.position[0], values at line {positionAt[(job.Length + 1)..]}; model.springs[0].transverse_n_per_m, values at line {transverseAt[(job.Length + 1)..]}, in {job}\n", output, StringComparison.Ordinal);
         Assert.DoesNotContain("[swept", output, StringComparison.Ordinal);
     }
 }
