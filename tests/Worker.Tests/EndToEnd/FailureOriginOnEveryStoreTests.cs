@@ -57,6 +57,17 @@ public sealed class FailureOriginOnEveryStoreTests : IDisposable
             var values = Assert.Single(onB.Values);
             Assert.Equal(("sites_b_position_0", 1L, 3), (values.Column, values.Distinct, values.SweepValues));
             Assert.Equal(0.0, Convert.ToDouble(Assert.Single(values.First), CultureInfo.InvariantCulture));
+
+            // Grouped in the store, read a page at a time: every group's pages are its failed points in plan order, and nothing else.
+            var failedPoints = catalog.GetPoints(sweepId, new PointQuery(PointState.Failed, Limit: int.MaxValue));
+            foreach (var group in groups)
+            {
+                var members = failedPoints.Where(p => p.Error == group.Reason).Select(p => p.PointId).ToList();
+                Assert.Equal(group.Count, members.Count);
+                Assert.Equal(members.Take(5), group.ExamplePointIds);
+                var paged = Enumerable.Range(0, 4).SelectMany(page => catalog.GetPoints(sweepId, new PointQuery(PointState.Failed, page * 2, 2, group.Reason, group.Kind))).Select(p => p.PointId);
+                Assert.Equal(members, paged);
+            }
         }
 
         // The error column of points/ holds the same text as the catalog, point by point, so a data tool groups by it.
