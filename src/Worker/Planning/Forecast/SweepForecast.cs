@@ -40,7 +40,7 @@ internal static class SweepForecast
     /// checks; past this share, a failing point is classified by its reason alone and counted into that
     /// reason's traced groups in proportion, so a sweep whose every model fails is still sampled widely.
     /// </summary>
-    private const double TraceShare = 0.25;
+    private const double TraceShare = 0.1;
 
     /// <summary>
     /// <paramref name="count"/> split in proportion to <paramref name="weights"/> (largest remainders), summing to it.
