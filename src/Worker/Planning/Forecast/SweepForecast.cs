@@ -242,6 +242,11 @@ internal static class SweepForecast
                     {
                         group = new GroupTally(plan);
                         groups[text] = group;
+                    }
+
+                    // Two located reasons (other lines) may share a traced text: each lists the groups its points fell in.
+                    if (!texts.Contains(text, StringComparer.Ordinal))
+                    {
                         texts.Add(text);
                     }
 
