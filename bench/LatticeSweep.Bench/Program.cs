@@ -4,7 +4,7 @@ using System.Text.Json;
 using LatticeSweep.Bench;
 
 // Usage: LatticeSweep.Bench CASE --cases FILE --out DIR [--repeats K] [--check-temperatures EVERY]
-// CASE: eigen | eigen-paths | bulk | forecast | bulk-defaults | finite-chain | finite-3d | queue | cost | expansion | surfaces-dense | surfaces-kpm |
+// CASE: eigen | eigen-paths | bulk | forecast | failure-origin | bulk-defaults | finite-chain | finite-3d | queue | cost | expansion | surfaces-dense | surfaces-kpm |
 // surfaces-kpm-denser | surfaces-memory (the surfaces-* cases take only --out). Each case runs in its own process so that its
 // peak memory is its own; bench/run.sh runs them all and compares with the NumPy peer.
 var argList = args.ToList();
@@ -153,6 +153,11 @@ switch (caseName)
     case "forecast":
         // --job FILE[,FILE...]: each point's run-time forecast against its measured CPU (no fit).
         report["result"] = ForecastCase.Run(Option("--job", "jobs/quickstart.toml").Split(','), repeats);
+        break;
+
+    case "failure-origin":
+        // --job FILE[,FILE...]: the cost of tracing each failed point to the job file, per round a fresh plan.
+        report["result"] = FailureOriginCase.Run(Option("--job", "bench/failures/sizes-one-bad-model.toml,bench/failures/many-bad-models.toml,bench/failures/sample-too-large.toml").Split(','), repeats);
         break;
 
     case "queue-rows":

@@ -85,7 +85,19 @@ public sealed record FailureLine(string Kind, string KindText, string Reason, lo
     public ImmutableArray<string> KeyColumns { get; init; } = [];
 
     public string? FailingValues { get; init; }
+
+    /// <summary>The group's short name in addresses (<see cref="LatticeSweep.Worker.Catalog.FailureGroup.Key"/>).</summary>
+    public string Key { get; init; } = "";
+
+    /// <summary>Where <see cref="Points"/> starts among the group's points, in plan order.</summary>
+    public long Offset { get; init; }
+
+    /// <summary>The page listing the group's points, a page at a time (<c>?offset=N</c>).</summary>
+    public string PageUrl { get; init; } = "";
 }
+
+/// <summary>A failure group as a block of a page: the sweep page's first page of points, or one page of the group's own list.</summary>
+public sealed record FailureGroupBlock(FailureLine Line, ImmutableArray<LatticeSweep.Worker.Planning.AxisInfo> Axes, bool Paged);
 
 /// <summary>A dataset folder of the sweep and where to browse it.</summary>
 public sealed record DatasetLink(string Table, string Url, int PartFiles);
@@ -100,7 +112,14 @@ public sealed record SweepDetail(
     ImmutableArray<FailureLine> Failures,
     ImmutableArray<DatasetLink> Datasets,
     string ResultsUrl,
-    StabilityCounts Stability);
+    StabilityCounts Stability)
+{
+    /// <summary>Failure reasons beyond the groups listed (the largest are listed).</summary>
+    public int MoreFailureReasons { get; init; }
+
+    /// <summary>Failed points of those reasons.</summary>
+    public long MoreFailedPoints { get; init; }
+}
 
 /// <summary>A page of the summary table: <see cref="TotalRows"/> rows pass the filter, of <see cref="AllRows"/> in points/.</summary>
 public sealed record ResultsPage(
@@ -159,6 +178,11 @@ public static class Links
     public static string ApiPlots(string sweepId) => ApiSweep(sweepId) + "/plots";
 
     public static string Compare(string sweepId) => Sweep(sweepId) + "/compare";
+
+    /// <summary>The page of one failure group's points (<c>?offset=N</c> for a later page).</summary>
+    public static string Failures(string sweepId, string groupKey) => Sweep(sweepId) + "/failures/" + Uri.EscapeDataString(groupKey);
+
+    public static string ApiFailures(string sweepId, string groupKey) => "/api" + Failures(sweepId, groupKey);
 
     public static string ApiCompare(string sweepId) => ApiSweep(sweepId) + "/compare";
 

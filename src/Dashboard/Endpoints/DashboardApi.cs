@@ -1,6 +1,7 @@
 using System.Text;
 using LatticeSweep.Dashboard.Hosting;
 using LatticeSweep.Dashboard.Datasets;
+using LatticeSweep.Dashboard.Progress;
 using LatticeSweep.Worker.Output;
 
 namespace LatticeSweep.Dashboard.Endpoints;
@@ -8,7 +9,7 @@ namespace LatticeSweep.Dashboard.Endpoints;
 /// <summary>
 /// The JSON endpoints (read only; the pages' scripts and scripts of users use them):
 /// <c>/api/sweeps</c>, <c>/api/workers</c>, <c>/api/sweeps/{id}</c>, <c>/api/sweeps/{id}/results</c>,
-/// <c>/api/sweeps/{id}/plots</c>, <c>/api/sweeps/{id}/compare?p=...</c>,
+/// <c>/api/sweeps/{id}/plots</c>, <c>/api/sweeps/{id}/compare?p=...</c>, <c>/api/sweeps/{id}/failures/{group}?offset=N</c>,
 /// <c>/api/sweeps/{id}/export.csv</c> and <c>.parquet</c> (files),
 /// <c>/api/sweeps/{id}/points/{point}</c>, <c>/api/sweeps/{id}/points/{point}/curves</c>.
 /// Every endpoint of a sweep's points takes the sweep page's address keys (<see cref="SweepView"/>),
@@ -25,6 +26,11 @@ internal static class DashboardApi
 
         api.MapGet("/sweeps/{sweepId}", async (string sweepId, SweepBoard board, CancellationToken ct) =>
             board.Find(sweepId) is { } sweep ? Results.Ok(await SweepViews.DetailAsync(board, sweep, ct).ConfigureAwait(false)) : NoSweep(sweepId));
+
+        api.MapGet("/sweeps/{sweepId}/failures/{groupKey}", (string sweepId, string groupKey, long? offset, int? limit, SweepBoard board) =>
+            board.Find(sweepId) is not { } sweep ? NoSweep(sweepId)
+            : SweepViews.FailurePage(board, sweep, groupKey, offset ?? 0, limit ?? FailureReport.PointsPerGroup) is { } page ? Results.Ok(page)
+            : Results.NotFound(new { error = $"sweep '{sweepId}' has no failure group '{groupKey}' (the groups and their keys are in {Links.ApiSweep(sweepId)})" }));
 
         api.MapGet("/sweeps/{sweepId}/results", async (string sweepId, HttpRequest request, SweepBoard board, CancellationToken ct) =>
         {

@@ -23,21 +23,21 @@ internal static class SweepViews
     {
         using var catalogSide = StageTimings.Measure("detail: catalog and files");
         var folder = board.Results.SweepFolderOf(sweep);
-        var axes = board.Catalog.GetAxisCoverage(sweep.SweepId)
+        IReadOnlyList<AxisCoverage> coverage;
+        using (StageTimings.Measure("detail: coverage"))
+        {
+            coverage = board.Catalog.GetAxisCoverage(sweep.SweepId);
+        }
+
+        var axes = coverage
             .Select(a => new AxisLine(a.ColumnName, a.Path, Formatting.Show.Unit(a.Unit), [.. a.Values.Select(v =>
                 new AxisValueLine(v.Value, Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled) { Unstable = v.Unstable })]))
             .ToImmutableArray();
-        var failures = FailureReport.Of(board.Catalog, sweep.SweepId)
-            .Select(g => new FailureLine(g.Group.Kind.ToString().ToLowerInvariant(), g.KindText, g.Group.ReasonText, g.Group.Count,
-                [.. g.Points.Select(p => new FailedPointLine(p.PointId, p.Parameters, p.Attempts, p.Worker, Links.Point(sweep.SweepId, p.PointId)))])
-            {
-                Error = g.Group.Reason,
-                From = g.Group.Origin?.Describe(),
-                Keys = [.. g.Group.Origin?.Keys.Select(k => k.Path) ?? []],
-                KeyColumns = [.. g.Group.Values.Select(v => v.Column)],
-                FailingValues = g.Group.Values.Length > 0 ? g.Group.ValuesText : null,
-            })
-            .ToImmutableArray();
+        FailureSummary failures;
+        using (StageTimings.Measure("detail: failures"))
+        {
+            failures = FailureReport.Of(board.Catalog, sweep.SweepId);
+        }
         var datasets = folder is null
             ? []
             : sweep.Tables
@@ -52,8 +52,34 @@ internal static class SweepViews
             stability = StabilityCounts.Of(await board.Results.PointsAsync(sweep, ct).ConfigureAwait(false));
         }
 
-        return new SweepDetail(SweepLine.Of(board.Progress(sweep)), sweep.ChunkCount, sweep.EngineVersion, folder is not null, axes, failures, datasets,
-            Links.ApiResults(sweep.SweepId), stability);
+        return new SweepDetail(SweepLine.Of(board.Progress(sweep)), sweep.ChunkCount, sweep.EngineVersion, folder is not null, axes,
+            [.. failures.Groups.Select(g => FailureLineOf(sweep, g))], datasets, Links.ApiResults(sweep.SweepId), stability)
+        {
+            MoreFailureReasons = failures.MoreReasons,
+            MoreFailedPoints = failures.MorePoints,
+        };
+    }
+
+    /// <summary>One failure group as the pages and the JSON show it, with the page of its points <paramref name="view"/> holds.</summary>
+    public static FailureLine FailureLineOf(SweepRecord sweep, FailureGroupView view) =>
+        new(view.Group.Kind.ToString().ToLowerInvariant(), view.KindText, view.Group.ReasonText, view.Group.Count,
+            [.. view.Points.Select(p => new FailedPointLine(p.PointId, p.Parameters, p.Attempts, p.Worker, Links.Point(sweep.SweepId, p.PointId)))])
+        {
+            Error = view.Group.Reason,
+            From = view.Group.Origin?.Describe(),
+            Keys = [.. view.Group.Origin?.Keys.Select(k => k.Path) ?? []],
+            KeyColumns = [.. view.Group.Values.Select(v => v.Column)],
+            FailingValues = view.Group.Values.Length > 0 ? view.Group.ValuesText : null,
+            Key = view.Group.Key,
+            Offset = view.Offset,
+            PageUrl = Links.Failures(sweep.SweepId, view.Group.Key),
+        };
+
+    /// <summary>A page of one failure group's points, or null when the sweep has no group with that key.</summary>
+    public static FailureLine? FailurePage(SweepBoard board, SweepRecord sweep, string key, long offset, int limit)
+    {
+        using var timing = StageTimings.Measure("failures: a group's page");
+        return FailureReport.Page(board.Catalog, sweep.SweepId, key, Math.Max(0, offset), limit) is { } view ? FailureLineOf(sweep, view) : null;
     }
 
     /// <summary>The points/ table and the rows that pass <paramref name="filter"/>.</summary>

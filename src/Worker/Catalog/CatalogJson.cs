@@ -145,6 +145,10 @@ internal static class CatalogJson
         return builder.ToImmutable();
     }
 
+    /// <summary>One parameter's value from its JSON text, typed as its axis; null for JSON null.</summary>
+    public static object? ReadValue(string json, AxisValueType type) =>
+        JsonNode.Parse(json) is { } node ? FromElement(node, type) : null;
+
     /// <summary>Text of a parameter value as shown to people and used to group coverage.</summary>
     public static string Show(object value) => value switch
     {

@@ -18,6 +18,15 @@ public sealed record FailureGroup(FailureKind Kind, string Reason, long Count, I
     /// <summary>Where in the job file the reason comes from; null for texts without one (I/O and input failures, stores from before).</summary>
     public FailureOrigin? Origin => FailureText.Split(Reason).Origin;
 
+    /// <summary>
+    /// A short stable name of the group (its kind and whole error text hashed), for addresses such as the
+    /// dashboard's page of the group's points: the same group has the same key in every process and store.
+    /// </summary>
+    public string Key => KeyOf(Kind, Reason);
+
+    public static string KeyOf(FailureKind kind, string error) =>
+        Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(System.Text.Encoding.UTF8.GetBytes(kind.ToString() + "\n" + error)).AsSpan(0, 8));
+
     /// <summary>The failing values in one line: <c>springs_0_transverse_n_per_m = 0, -2 (2 of 3 values)</c>, joined by "; ".</summary>
     public string ValuesText => string.Join("; ", Values.Select(v => v.ToString()));
 }

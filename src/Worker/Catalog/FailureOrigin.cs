@@ -22,7 +22,31 @@ public enum FailureOriginKind
 }
 
 /// <summary>A swept key a failure is traced to: its field path and <c>FILE:LINE:COL</c> of its values.</summary>
-public sealed record OriginKey(string Path, string Location);
+public sealed record OriginKey(string Path, string Location)
+{
+    /// <summary>The file of <see cref="Location"/>, or null when it is not <c>FILE:LINE:COL</c>.</summary>
+    public string? File => SplitAt() is { } at ? Location[..at] : null;
+
+    /// <summary><c>LINE:COL</c> of <see cref="Location"/> (the whole location when it has no line).</summary>
+    public string Place => SplitAt() is { } at ? Location[(at + 1)..] : Location;
+
+    /// <summary>True for <c>LINE:COL</c>, two positive integers.</summary>
+    public static bool IsLineAndColumn(string place)
+    {
+        var colon = place.IndexOf(':', StringComparison.Ordinal);
+        return colon > 0 && IsNumber(place.AsSpan(0, colon)) && IsNumber(place.AsSpan(colon + 1));
+    }
+
+    private static bool IsNumber(ReadOnlySpan<char> s) => s.Length > 0 && !s.ContainsAnyExcept("0123456789");
+
+    /// <summary>Index of the colon before <c>LINE:COL</c> at the end of the location.</summary>
+    private int? SplitAt()
+    {
+        var col = Location.LastIndexOf(':');
+        var line = col > 0 ? Location.LastIndexOf(':', col - 1) : -1;
+        return line > 0 && IsLineAndColumn(Location[(line + 1)..]) ? line : null;
+    }
+}
 
 /// <summary>
 /// Where in the job file a failed point's reason comes from. It is written at the end of the error
@@ -42,15 +66,25 @@ public sealed record FailureOrigin(FailureOriginKind Kind, ImmutableArray<Origin
 
     public override int GetHashCode() => Keys.Aggregate(Kind.GetHashCode(), (h, k) => HashCode.Combine(h, k));
 
+    /// <summary>The one file every key's place is in, when there are several keys (said once, not per key); else null.</summary>
+    public string? SharedFile() =>
+        Keys.Length > 1 && Keys[0].File is { } file && Keys.All(k => k.File == file) ? file : null;
+
     /// <summary>In plain words, for the "where" line of a failure group.</summary>
     public string Describe() => Kind switch
     {
         FailureOriginKind.SweptValue when Keys.Length == 1 => $"the swept {Keys[0].Path}, values at {Keys[0].Location}",
-        FailureOriginKind.SweptValue => "each of the swept " + string.Join("; ", Keys.Select(k => $"{k.Path}, values at {k.Location}")),
-        FailureOriginKind.SweptTogether => "the swept values together (no one alone) of " + string.Join("; ", Keys.Select(k => $"{k.Path}, values at {k.Location}")),
+        FailureOriginKind.SweptValue => "each of the swept " + KeysText(),
+        FailureOriginKind.SweptTogether => "the swept values together (no one alone) of " + KeysText(),
         FailureOriginKind.JobFileValue => "the job file's own values (the lines named in the reason); not a swept value",
         FailureOriginKind.NotTraced => "not traced to a swept value (the checks before the spectrum pass; the lines in the reason are the job file's own keys)",
         FailureOriginKind.InsideSolver => "inside the solver: not tied to a job-file key or value (a numerical failure, or a defect to report)",
         _ => Kind.ToString(),
     };
+
+    /// <summary><c>PATH, values at LINE:COL; ... in FILE</c> when they share a file, else each with its <c>FILE:LINE:COL</c>.</summary>
+    private string KeysText() =>
+        SharedFile() is { } file
+            ? string.Join("; ", Keys.Select(k => $"{k.Path}, values at line {k.Place}")) + $", in {file}"
+            : string.Join("; ", Keys.Select(k => $"{k.Path}, values at {k.Location}"));
 }

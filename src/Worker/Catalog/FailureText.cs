@@ -4,7 +4,8 @@ namespace LatticeSweep.Worker.Catalog;
 
 /// <summary>
 /// The one format of a failed point's error text: the reason, then its origin in brackets,
-/// <c>REASON [swept: PATH at FILE:LINE:COL; ...]</c>, <c>[swept together: ...]</c>,
+/// <c>REASON [swept: PATH at FILE:LINE:COL]</c>, with several keys in one file the file said once
+/// (<c>[swept in FILE: PATH at LINE:COL; PATH at LINE:COL]</c>), <c>[swept together ...]</c>,
 /// <c>[from the job file's own values]</c>, <c>[not traced to a swept value]</c> or
 /// <c>[inside the solver]</c>. Written by the worker, read back by <c>status</c>, <c>run</c> and the
 /// dashboard; a reader of <c>points/</c> sees the same line. Texts without a bracket (stores from
@@ -19,21 +20,35 @@ public static class FailureText
     private const string Solver = "inside the solver, not tied to a job-file key";
     private const string KeySeparator = "; ";
     private const string At = " at ";
+    private const string InFile = " in ";
 
     public static string Compose(string reason, FailureOrigin origin)
     {
         ArgumentNullException.ThrowIfNull(reason);
         ArgumentNullException.ThrowIfNull(origin);
-        var keys = string.Join(KeySeparator, origin.Keys.Select(k => k.Path + At + k.Location));
         var tag = origin.Kind switch
         {
-            FailureOriginKind.SweptValue => Swept + keys,
-            FailureOriginKind.SweptTogether => Together + keys,
+            FailureOriginKind.SweptValue => KeyList(Swept, origin),
+            FailureOriginKind.SweptTogether => KeyList(Together, origin),
             FailureOriginKind.JobFileValue => OwnValues,
             FailureOriginKind.NotTraced => NotTraced,
             _ => Solver,
         };
         return $"{reason} [{tag}]";
+    }
+
+    /// <summary>
+    /// <c>swept: PATH at FILE:LINE:COL; ...</c>, or when every key's place is in one file and there are
+    /// several, <c>swept in FILE: PATH at LINE:COL; ...</c>: a long absolute path said once, not per key.
+    /// </summary>
+    private static string KeyList(string lead, FailureOrigin origin)
+    {
+        if (origin.SharedFile() is { } file)
+        {
+            return $"{lead[..^2]}{InFile}{file}: " + string.Join(KeySeparator, origin.Keys.Select(k => k.Path + At + k.Place));
+        }
+
+        return lead + string.Join(KeySeparator, origin.Keys.Select(k => k.Path + At + k.Location));
     }
 
     /// <summary>The reason and its origin; the whole text and null when it carries none.</summary>
@@ -61,14 +76,28 @@ public static class FailureText
 
     private static FailureOrigin? Parse(string tag)
     {
-        if (tag.StartsWith(Together, StringComparison.Ordinal))
+        foreach (var (lead, kind) in new[] { (Together, FailureOriginKind.SweptTogether), (Swept, FailureOriginKind.SweptValue) })
         {
-            return Keys(FailureOriginKind.SweptTogether, tag[Together.Length..]);
-        }
+            if (tag.StartsWith(lead, StringComparison.Ordinal))
+            {
+                return Keys(kind, tag[lead.Length..], file: null);
+            }
 
-        if (tag.StartsWith(Swept, StringComparison.Ordinal))
-        {
-            return Keys(FailureOriginKind.SweptValue, tag[Swept.Length..]);
+            var inFile = lead[..^2] + InFile;
+            if (tag.StartsWith(inFile, StringComparison.Ordinal))
+            {
+                // The file may hold ": " itself: the list starts after the first ": " whose rest reads as keys at LINE:COL.
+                var rest = tag[inFile.Length..];
+                for (var colon = rest.IndexOf(": ", StringComparison.Ordinal); colon > 0; colon = rest.IndexOf(": ", colon + 1, StringComparison.Ordinal))
+                {
+                    if (Keys(kind, rest[(colon + 2)..], rest[..colon]) is { } origin)
+                    {
+                        return origin;
+                    }
+                }
+
+                return null;
+            }
         }
 
         return tag switch
@@ -80,7 +109,8 @@ public static class FailureText
         };
     }
 
-    private static FailureOrigin? Keys(FailureOriginKind kind, string list)
+    /// <summary>The keys of a list; with <paramref name="file"/>, each place is <c>LINE:COL</c> in that file.</summary>
+    private static FailureOrigin? Keys(FailureOriginKind kind, string list, string? file)
     {
         var keys = ImmutableArray.CreateBuilder<OriginKey>();
         foreach (var item in list.Split(KeySeparator))
@@ -91,7 +121,13 @@ public static class FailureText
                 return null;
             }
 
-            keys.Add(new OriginKey(item[..at], item[(at + At.Length)..]));
+            var place = item[(at + At.Length)..];
+            if (file is not null && !OriginKey.IsLineAndColumn(place))
+            {
+                return null;
+            }
+
+            keys.Add(new OriginKey(item[..at], file is null ? place : $"{file}:{place}"));
         }
 
         return keys.Count == 0 ? null : new FailureOrigin(kind, keys.ToImmutable());

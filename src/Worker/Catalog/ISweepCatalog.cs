@@ -50,8 +50,11 @@ public interface ISweepCatalog : IDisposable
     /// <summary>The chunks (ascending) holding at least one point whose result was recorded (done, unstable, or failed with a row).</summary>
     IReadOnlyList<string> GetChunksWithResults(string sweepId);
 
-    /// <summary>Failed points grouped by reason, largest group first.</summary>
+    /// <summary>Failed points grouped by reason, largest group first (the first hundred with their first ids and failing values).</summary>
     IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId);
+
+    /// <summary>One failure group by its <see cref="FailureGroup.Key"/>, with its first ids and failing values; null when the sweep has none.</summary>
+    FailureGroup? GetFailureGroup(string sweepId, string key);
 
     /// <summary>For each swept parameter, point counts per value (none for sweeps over <see cref="SqlSweepCatalog.CoverageLimit"/> points).</summary>
     IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId);

@@ -58,6 +58,8 @@ public sealed class RetryingSweepCatalog : ISweepCatalog
 
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId) => Retry(() => _inner.GetFailureGroups(sweepId));
 
+    public FailureGroup? GetFailureGroup(string sweepId, string key) => Retry(() => _inner.GetFailureGroup(sweepId, key));
+
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => Retry(() => _inner.GetAxisCoverage(sweepId));
 
     public void Dispose() => _inner.Dispose();

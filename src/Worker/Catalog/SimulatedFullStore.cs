@@ -45,6 +45,8 @@ internal sealed class SimulatedFullStore(ISweepCatalog inner) : ISweepCatalog
 
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId) => inner.GetFailureGroups(sweepId);
 
+    public FailureGroup? GetFailureGroup(string sweepId, string key) => inner.GetFailureGroup(sweepId, key);
+
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => inner.GetAxisCoverage(sweepId);
 
     public void Dispose() => inner.Dispose();

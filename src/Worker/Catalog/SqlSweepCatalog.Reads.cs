@@ -51,6 +51,15 @@ public abstract partial class SqlSweepCatalog
         using var c = Open();
         using var tx = BeginRead(c);
         var types = ReadAxisTypes(c, tx, sweepId);
+        if (query.Error is { } error)
+        {
+            using var group = Command(c, tx, $"SELECT {PointColumns} FROM latsweep_points WHERE {GroupRows} ORDER BY point_index LIMIT @limit OFFSET @offset");
+            AddGroup(group, sweepId, Text(query.Kind ?? FailureKind.Model), error);
+            Add(group, "limit", (long)Math.Max(0, query.Limit));
+            Add(group, "offset", (long)Math.Max(0, query.Offset));
+            return ReadPoints(group, types);
+        }
+
         var pending = query.State is null or PointState.Waiting or PointState.Cancelled ? ReadPendingChunks(c, tx, sweepId, query.State) : [];
         if (pending.Count > 0)
         {
@@ -200,108 +209,11 @@ public abstract partial class SqlSweepCatalog
         return chunks;
     }
 
-    public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId)
-    {
-        using var c = Open();
-        var axes = ReadAxes(c, null, sweepId);
-        var types = axes.ToDictionary(a => a.ColumnName, a => a.ValueType, StringComparer.Ordinal);
-        using var cmd = Command(c, null, """
-            SELECT failure_kind, error, point_id, parameters_json FROM latsweep_points
-            WHERE sweep_id = @sweep AND state = @failed ORDER BY point_index
-            """);
-        Add(cmd, "sweep", sweepId);
-        Add(cmd, "failed", Text(PointState.Failed));
-        var groups = new Dictionary<(FailureKind, string), GroupTally>();
-        using (var r = cmd.ExecuteReader())
-        {
-            while (r.Read())
-            {
-                var kind = r.IsDBNull(0) ? FailureKind.Engine : ParseFailureKind(r.GetString(0));
-                var key = (kind, r.IsDBNull(1) ? "" : r.GetString(1));
-                if (!groups.TryGetValue(key, out var g))
-                {
-                    g = new GroupTally(FailureText.Split(key.Item2).Origin, axes);
-                    groups[key] = g;
-                }
-
-                g.Add(r.GetString(2), g.Columns.Length == 0 ? null : CatalogJson.ReadParameters(r.GetString(3), types));
-            }
-        }
-
-        return groups
-            .Select(kv => new FailureGroup(kv.Key.Item1, kv.Key.Item2, kv.Value.Count, [.. kv.Value.Examples]) { Values = kv.Value.Values() })
-            .OrderByDescending(g => g.Count).ThenBy(g => g.Reason, StringComparer.Ordinal)
-            .ToList();
-    }
-
     private static IReadOnlyList<AxisInfo> ReadAxes(DbConnection c, DbTransaction? tx, string sweepId)
     {
         using var cmd = Command(c, tx, "SELECT axes_json FROM latsweep_sweeps WHERE sweep_id = @sweep");
         Add(cmd, "sweep", sweepId);
         return cmd.ExecuteScalar() is string json ? CatalogJson.ReadAxes(json) : [];
-    }
-
-    /// <summary>One failure group as its rows are read: count, first ids, and the values of the swept keys its origin names.</summary>
-    private sealed class GroupTally
-    {
-        private const int ExamplesKept = 5;
-
-        /// <summary>Distinct values counted per column at most (a group of a million failures stays small).</summary>
-        private const int DistinctCounted = 100_000;
-
-        private readonly List<(AxisInfo Axis, string Path, List<object> First, HashSet<string> Seen, double Min, double Max)> _columns = [];
-
-        public GroupTally(FailureOrigin? origin, IReadOnlyList<AxisInfo> axes)
-        {
-            foreach (var key in origin?.Keys ?? [])
-            {
-                if (axes.FirstOrDefault(a => a.Path == key.Path) is { } axis)
-                {
-                    _columns.Add((axis, key.Path, [], new HashSet<string>(StringComparer.Ordinal), double.PositiveInfinity, double.NegativeInfinity));
-                }
-            }
-
-            Columns = [.. _columns.Select(x => x.Axis.ColumnName)];
-        }
-
-        public string[] Columns { get; }
-
-        public long Count { get; private set; }
-
-        public List<string> Examples { get; } = [];
-
-        public void Add(string pointId, IReadOnlyDictionary<string, object>? parameters)
-        {
-            Count++;
-            if (Examples.Count < ExamplesKept)
-            {
-                Examples.Add(pointId);
-            }
-
-            for (var i = 0; i < _columns.Count; i++)
-            {
-                var col = _columns[i];
-                if (parameters is null || !parameters.TryGetValue(col.Axis.ColumnName, out var value))
-                {
-                    continue;
-                }
-
-                if (col.Seen.Count < DistinctCounted && col.Seen.Add(CatalogJson.Show(value)) && col.First.Count < FailingValues.Listed)
-                {
-                    col.First.Add(value);
-                }
-
-                if (value is double or long)
-                {
-                    var d = Convert.ToDouble(value, System.Globalization.CultureInfo.InvariantCulture);
-                    _columns[i] = col with { Min = Math.Min(col.Min, d), Max = Math.Max(col.Max, d) };
-                }
-            }
-        }
-
-        public ImmutableArray<FailingValues> Values() =>
-            [.. _columns.Where(c => c.Seen.Count > 0).Select(c => new FailingValues(c.Axis.ColumnName, c.Path, c.Seen.Count, [.. c.First],
-                double.IsFinite(c.Min) ? c.Min : null, double.IsFinite(c.Max) ? c.Max : null, c.Axis.Values.Length))];
     }
 
     /// <summary>Sweeps with more points than this get no coverage table: counting it means reading every point's parameters (seconds for a million).</summary>

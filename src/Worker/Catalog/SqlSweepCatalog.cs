@@ -43,6 +43,8 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             Execute(c, tx, statement);
         }
 
+        Execute(c, tx, FailedIndexStatement);
+
         StoreFormat.Stamp(c, tx);
         CountOlderSweeps(c, tx);
         tx.Commit();

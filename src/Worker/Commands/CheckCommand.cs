@@ -122,10 +122,15 @@ public static class CheckCommand
             o.WriteLine(f.Evaluated == 1 && !f.Sampled ? "  will fail    the one point" : $"  will fail    {N(f.WillFail)} of {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
             foreach (var g in f.Failures.Take(5))
             {
-                o.WriteLine($"    {N(g.Count)} x {g.ReasonText}");
+                o.WriteLine($"    {(g.Traced < g.Count ? "about " : "")}{N(g.Count)} x {g.ReasonText}");
                 if (g.Origin is { } origin)
                 {
                     o.WriteLine($"      from: {origin.Describe()}");
+                }
+
+                if (g.Values.Length > 0)
+                {
+                    o.WriteLine($"      failing values: {string.Join("; ", g.Values.Select(v => v.ToString()))}{(g.Traced < g.Count ? $" (of the {N(g.Traced)} points traced; the reason's other points are counted into its groups in proportion)" : "")}");
                 }
 
                 foreach (var p in g.Examples)

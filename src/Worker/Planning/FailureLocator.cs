@@ -19,8 +19,7 @@ namespace LatticeSweep.Worker.Planning;
 /// first), the keys whose change removes this reason (its problems' kinds and keys); when none does
 /// but all put back together let it pass, the keys together (those of them that fail alone on the
 /// job file's own values). Otherwise the job file's own
-/// values fail too, and the reason names their lines as <c>check</c> does. When the checks pass (the failure came later in the solve) or the
-/// model is too large for them, a swept key whose path is the Engine's key (or a part of it) is
+/// values fail too, and the reason names their lines as <c>check</c> does. When the checks pass (the failure came later in the solve), a swept key whose path is the Engine's key (or a part of it) is
 /// named; otherwise the failure is said to be untraced. A failure inside the solver is never given a
 /// location. Runs only for failed points: the path of a point that solves is untouched. A refusal
 /// of the model itself is traced on the model's checks alone, once per reason and set of swept model
@@ -165,7 +164,7 @@ internal static class FailureLocator
 
     private static readonly CheckResult Passed = new(true, new HashSet<string>());
 
-    /// <summary>The point checked as <c>check</c> and the solver check it before the spectrum; null when its model is too large to check.</summary>
+    /// <summary>The point checked as <c>check</c> and the solver check it before the spectrum.</summary>
     /// <param name="modelOnly">Only the model's checks: a refusal of the model is traced the same whatever the sample.</param>
     private static CheckResult? Check(SweepPlan plan, PointParameters parameters, Func<string, bool> keepBase, bool modelOnly = false)
     {
@@ -175,20 +174,10 @@ internal static class FailureLocator
             return new CheckResult(false, new HashSet<string>(StringComparer.Ordinal) { wrong });
         }
 
-        CrystalModel model;
-        try
+        var stage = ModelStageOf(plan, parameters, keepBase, spec.Model);
+        if (stage.Refusal is { } refused)
         {
-            model = EngineObjects.BuildModel(spec.Model, out _);
-            if (model.BranchCount > SweepForecast.MaxBranchesPreflighted)
-            {
-                return null;
-            }
-
-            PhononSolver.PreflightModel(model);
-        }
-        catch (ModelException ex)
-        {
-            return Refused(ex, ofModel: true);
+            return refused;
         }
 
         if (modelOnly)
@@ -198,14 +187,67 @@ internal static class FailureLocator
 
         try
         {
-            var sample = EngineObjects.BuildSample(spec.Sample, model.Lattice);
-            PhononSolver.PreflightPoint(model, sample, plan.Template.Options with { Conductivity = spec.Conductivity });
+            var sample = EngineObjects.BuildSample(spec.Sample, stage.Model!.Lattice);
+            PhononSolver.PreflightPoint(stage.Model, sample, plan.Template.Options with { Conductivity = spec.Conductivity });
             return Passed;
         }
         catch (ModelException ex)
         {
             return Refused(ex, ofModel: false);
         }
+    }
+
+    /// <summary>A model built and checked before any sample: the model, or its refusal.</summary>
+    private sealed record ModelStage(CrystalModel? Model, CheckResult? Refusal);
+
+    /// <summary>Models kept per plan at most (then the memo starts again): a sweep of many bad models stays bounded.</summary>
+    private const int ModelStagesKept = 256;
+
+    private static readonly ConditionalWeakTable<SweepPlan, ConcurrentDictionary<string, ModelStage>> ModelStages = [];
+
+    /// <summary>
+    /// The model's checks (build, <c>PreflightModel</c>) once per distinct set of <c>model.*</c> values a trace
+    /// tries: tracing a point tries each swept key at a few values, and the points of one sweep try the same
+    /// models again and again (a refusal of the sample traced point by point would build them every time).
+    /// Every size is checked, as the solver checks it: tracing runs for failed points only, so a model above
+    /// the forecast's 384 branches costs a few of its own refusals, once per model.
+    /// </summary>
+    private static ModelStage ModelStageOf(SweepPlan plan, PointParameters parameters, Func<string, bool> keepBase, ModelSpec spec)
+    {
+        var key = new System.Text.StringBuilder();
+        foreach (var binding in plan.Template.Bindings)
+        {
+            if (binding.Field.Path.StartsWith("model.", StringComparison.Ordinal))
+            {
+                key.Append(keepBase(binding.Column) || !parameters.TryGetValue(binding.Column, out var v) ? "\u0002" : PointIdentity.Format(v)).Append('\u0001');
+            }
+        }
+
+        var stages = ModelStages.GetValue(plan, _ => new ConcurrentDictionary<string, ModelStage>(StringComparer.Ordinal));
+        if (stages.TryGetValue(key.ToString(), out var known))
+        {
+            return known;
+        }
+
+        ModelStage stage;
+        try
+        {
+            var model = EngineObjects.BuildModel(spec, out _);
+            PhononSolver.PreflightModel(model);
+            stage = new ModelStage(model, null);
+        }
+        catch (ModelException ex)
+        {
+            stage = new ModelStage(null, Refused(ex, ofModel: true));
+        }
+
+        if (stages.Count >= ModelStagesKept)
+        {
+            stages.Clear();
+        }
+
+        stages[key.ToString()] = stage;
+        return stage;
     }
 
     // Kinds and keys, not the words: a floppy model's message names the first free direction found, which other values may change.

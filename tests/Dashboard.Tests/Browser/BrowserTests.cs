@@ -129,7 +129,8 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
         for (var i = 0; i < await origins.CountAsync(); i++)
         {
             Assert.True(await origins.Nth(i).IsVisibleAsync());
-            Assert.Matches(@"springs-off\.toml:\d+:1", await origins.Nth(i).InnerTextAsync());
+            // One key: FILE:LINE:COL; several keys of the file: each key's line and column, and the file once.
+            Assert.Matches(@"springs-off\.toml:\d+:1|values at line \d+:1; .*, in .*springs-off\.toml$", await origins.Nth(i).InnerTextAsync());
         }
 
         Assert.True(await page.Locator("#failures [data-field=failing-values]").First.IsVisibleAsync());
@@ -367,6 +368,65 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
     }
 
     [Fact]
+    public async Task A_failure_group_larger_than_a_page_lists_its_points_a_page_at_a_time()
+    {
+        var (page, errors) = await NewPageAsync();
+        var sweepId = _store.Ids["many-failed"];
+        List<PointRecord> failed;
+        using (var catalog = _store.OpenCatalog())
+        {
+            failed = [.. catalog.GetPoints(sweepId, new PointQuery(PointState.Failed, Limit: int.MaxValue))];
+        }
+
+        Assert.Equal(230, failed.Count);
+        Assert.Single(failed.Select(p => p.Error).Distinct());
+
+        // The sweep page: the group's count, where it comes from and its failing values over all 230, and its first 200 points in plan order.
+        await page.GotoAsync(new Uri(_server.Address, $"/sweeps/{sweepId}").ToString());
+        var group = page.Locator("#failures .failure");
+        Assert.Equal(1, await group.CountAsync());
+        Assert.Equal("230", await group.Locator("[data-field=count]").GetAttributeAsync("data-value"));
+        Assert.Contains("springs_0_transverse_n_per_m = 0 (1 of 2 values)", await group.Locator("[data-field=failing-values]").InnerTextAsync(), StringComparison.Ordinal);
+        Assert.Matches(@"the swept model\.springs\[0\]\.transverse_n_per_m, values at .*many-failed\.toml:\d+:1", await group.Locator("[data-field=from]").InnerTextAsync());
+        var rows = group.Locator("tbody tr");
+        Assert.Equal(failed.Take(200).Select(p => p.PointId), await PointIds(rows));
+        Assert.Contains("and 30 more with this reason", await group.Locator("[data-field=more-points]").InnerTextAsync(), StringComparison.Ordinal);
+
+        // The next page: points 201 to 230 with their parameters, and a way back.
+        await group.Locator("[data-field=more-link]").ClickAsync();
+        await page.WaitForURLAsync("**/failures/**");
+        var paged = page.Locator("#failures .failure");
+        Assert.Contains("Points 201 to 230 of 230", await paged.Locator("[data-field=shown]").InnerTextAsync(), StringComparison.Ordinal);
+        Assert.Equal(failed.Skip(200).Select(p => p.PointId), await PointIds(paged.Locator("tbody tr")));
+        var mass = paged.Locator("tbody tr").First.Locator("td[data-field=sites_a_mass_amu]");
+        Assert.Equal(Convert.ToDouble(failed[200].Parameters["sites_a_mass_amu"], CultureInfo.InvariantCulture),
+            double.Parse((await mass.GetAttributeAsync("data-value"))!, CultureInfo.InvariantCulture));
+        Assert.Equal(0, await paged.Locator("a[rel=next]").CountAsync());
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "failure-group-page.png"), FullPage = true });
+        await paged.Locator("a[rel=prev]").ClickAsync();
+        await page.WaitForURLAsync("**offset=0");
+        Assert.Equal(failed.Take(200).Select(p => p.PointId), await PointIds(page.Locator("#failures .failure tbody tr")));
+        Assert.Empty(errors);
+    }
+
+    private string FailureGroupKey(string sweepId)
+    {
+        using var catalog = _store.OpenCatalog();
+        return catalog.GetFailureGroups(sweepId)[0].Key;
+    }
+
+    private static async Task<List<string>> PointIds(ILocator rows)
+    {
+        var ids = new List<string>();
+        for (var i = 0; i < await rows.CountAsync(); i++)
+        {
+            ids.Add((await rows.Nth(i).GetAttributeAsync("data-point-id"))!);
+        }
+
+        return ids;
+    }
+
+    [Fact]
     public async Task Nothing_is_cut_off_in_a_1400_pixel_wide_window()
     {
         var (page, errors) = await NewPageAsync();
@@ -380,6 +440,8 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
             $"/sweeps/{quickstartId}",
             $"/sweeps/{_store.Ids["springs-through-zero"]}",
             $"/sweeps/{_store.Ids["springs-off"]}",
+            $"/sweeps/{_store.Ids["many-failed"]}",
+            $"/sweeps/{_store.Ids["many-failed"]}/failures/{FailureGroupKey(_store.Ids["many-failed"])}?offset=200",
             $"/sweeps/{kappaId}",
             $"/sweeps/{kappaId}?{everyColumn}",
             $"/sweeps/{kappaId}/points/{FirstDonePoint(kappaId)}",
@@ -519,6 +581,7 @@ public sealed class BrowserFixture : IAsyncLifetime
         await Store.AddAsync("unstable.toml", DemoJobs.Unstable, DemoProgress.Finished, pointsPerChunk: 5);
         await Store.AddFileAsync("chain-candidates.csv", DemoJobs.CandidatesTable);
         await Store.AddAsync("candidates.toml", DemoJobs.Candidates, DemoProgress.Finished, pointsPerChunk: 6);
+        await Store.AddAsync("many-failed.toml", DemoJobs.ManyFailed, DemoProgress.Finished, pointsPerChunk: 40);
         Server = await DashboardServer.StartAsync(Store);
         Browser = await Chromium.LaunchAsync();
     }

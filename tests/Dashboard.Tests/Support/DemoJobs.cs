@@ -109,6 +109,56 @@ internal static class DemoJobs
         dos_bins = 40
         """;
 
+    /// <summary>
+    /// More failed points of one reason than the sweep page lists (230 of 460: the transverse spring at 0 for
+    /// each of 230 masses), so their list is paged: invented values. Worked out by hand: with no transverse
+    /// constant nothing holds the atoms along y, whatever the mass.
+    /// </summary>
+    public const string ManyFailed = """
+        # Invented demo values: half the points fail for one reason, more of them than one page lists.
+        [sweep]
+        name = "many-failed"
+        description = "Chain whose transverse spring is 0 for half of 460 points (invented values)"
+
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [0.0, 8.0]
+
+        [[sweep.axes]]
+        path = "model.sites.A.mass_amu"
+        range = { from = 10.0, to = 33.0, steps = 230 }
+
+        [model]
+        lattice = "chain"
+        constant_nm = 0.5
+        motion = "3d"
+
+        [[model.sites]]
+        label = "A"
+        position = [0.0]
+        mass_amu = 10.0
+
+        [[model.sites]]
+        label = "B"
+        position = [0.5]
+        mass_amu = 30.0
+
+        [[model.springs]]
+        from = "A"
+        to = "B"
+        shell = 1
+        longitudinal_n_per_m = 30.0
+        transverse_n_per_m = 8.0
+
+        [sample]
+        kind = "finite"
+        cells = 4
+
+        [output]
+        temperatures_k = [100, 300]
+        dos_bins = 10
+        """;
+
     /// <summary>Thermal conductivity estimates (boundary and Umklapp scattering) for two boundary lengths of a small bulk fcc crystal.</summary>
     public const string Conductivity = """
         # Invented demo values: a monatomic fcc crystal, bulk, with conductivity estimates.

@@ -70,8 +70,9 @@ public sealed class ChunkPointIndexTests : CatalogOnBothStores
         catalog.CompleteChunk(id, chunks[0], Done(catalog.BeginChunk(id, chunks[0], "test:1")));
         catalog.BeginChunk(id, chunks[2], "test:1");
 
-        // No index by the hashed id alone: the rows are found by chunk (and the state index for listings by state).
-        Assert.Equal(["latsweep_points_by_chunk_point", "latsweep_points_by_state"], PointIndexes(kind));
+        // No index by the hashed id alone: the rows are found by chunk (the state index for listings by state, and the
+        // failed rows' own index, by error text, for failure groups and their pages).
+        Assert.Equal(["latsweep_points_by_chunk_point", "latsweep_points_by_state", "latsweep_points_failed"], PointIndexes(kind));
 
         // Claimed chunks keep their text (it is how a point is found by id), pending chunks keep theirs.
         using (var c = Connect(kind))
@@ -139,7 +140,7 @@ public sealed class ChunkPointIndexTests : CatalogOnBothStores
             var indexes = PointIndexes(kind);
             Assert.Contains("latsweep_points_by_chunk_point", indexes);
             Assert.DoesNotContain("latsweep_points_by_chunk", indexes);
-            Assert.Equal(3, indexes.Count);
+            Assert.Equal(4, indexes.Count); // with the failed rows' index, which opening adds too
 
             PointState Before(int index) => index / 4 == 0 ? PointState.Done : index / 4 == 1 ? PointState.Running : PointState.Waiting;
             Assert.Equal(plan.Points.Select(p => (p.PointId, Before(p.Index))), plan.Points.Select(p => catalog.FindPoint(id, p.PointId)!).Select(p => (p.PointId, p.State)));

@@ -9,6 +9,8 @@ public sealed class FailureTextTests
         new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("model.sites.B.position[0]", "/tmp/a b/job [1].toml:7:1")]),
         new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("model.springs[0].transverse_n_per_m", "/j.toml:15:1"), new OriginKey("model.sites[1].mass_amu", "/j.toml:3:9")]),
         new FailureOrigin(FailureOriginKind.SweptTogether, [new OriginKey("sample.cells", "/j.toml:2:1"), new OriginKey("model.constant_nm", "/j.toml:4:1")]),
+        new FailureOrigin(FailureOriginKind.SweptTogether, [new OriginKey("sample.cells", "/odd: name at 3:4/j.toml:2:1"), new OriginKey("model.constant_nm", "/odd: name at 3:4/j.toml:4:1")]),
+        new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("sample.cells", "/a.toml:2:1"), new OriginKey("model.constant_nm", "/b.toml:4:1")]),
         FailureOrigin.JobFile,
         FailureOrigin.Untraced,
         FailureOrigin.Solver,
@@ -25,6 +27,29 @@ public sealed class FailureTextTests
         Assert.Equal(origin.Kind, parsed.Kind);
         Assert.Equal(origin.Keys.ToArray(), parsed.Keys.ToArray());
         Assert.Equal(origin, parsed);
+    }
+
+    [Fact]
+    public void Several_keys_in_one_file_say_the_file_once()
+    {
+        const string file = "/home/me/a/very/long/path/to/the/screening/job.toml";
+        var together = new FailureOrigin(FailureOriginKind.SweptTogether, [new OriginKey("a", file + ":7:1"), new OriginKey("b", file + ":9:1")]);
+        Assert.Equal($"r [swept together in {file}: a at 7:1; b at 9:1]", FailureText.Compose("r", together));
+        Assert.Equal($"the swept values together (no one alone) of a, values at line 7:1; b, values at line 9:1, in {file}", together.Describe());
+        var each = together with { Kind = FailureOriginKind.SweptValue };
+        Assert.Equal($"r [swept in {file}: a at 7:1; b at 9:1]", FailureText.Compose("r", each));
+
+        // One key keeps FILE:LINE:COL, the form editors open at the line; keys of two files each name theirs.
+        Assert.Equal($"r [swept: a at {file}:7:1]", FailureText.Compose("r", new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("a", file + ":7:1")])));
+        Assert.Equal("r [swept: a at /x.toml:7:1; b at /y.toml:9:1]", FailureText.Compose("r", new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("a", "/x.toml:7:1"), new OriginKey("b", "/y.toml:9:1")])));
+    }
+
+    [Fact]
+    public void A_text_written_before_the_file_was_said_once_still_reads_back()
+    {
+        var (reason, origin) = FailureText.Split("r [swept together: a at /j.toml:7:1; b at /j.toml:9:1]");
+        Assert.Equal("r", reason);
+        Assert.Equal(new FailureOrigin(FailureOriginKind.SweptTogether, [new OriginKey("a", "/j.toml:7:1"), new OriginKey("b", "/j.toml:9:1")]), origin);
     }
 
     [Theory]

@@ -59,6 +59,44 @@ public sealed class CheckMatchesRunTests : IDisposable
         Assert.Equal(forecast, Groups(run.Stdout));
     }
 
+    [Fact]
+    public void Check_shows_the_groups_and_failing_values_run_shows()
+    {
+        // The slide (FailingJobs.Slide): four groups, two of them floppy in different directions, each traced to both swept keys.
+        var job = _dir.Combine("slide.toml");
+        File.WriteAllText(job, FailingJobs.Slide);
+
+        var check = Support.Cli.Run(_dir.Path, "check", "slide.toml");
+        Assert.True(check.ExitCode == 0, check.Stdout + check.Stderr);
+        var forecast = Described(check.Stdout[check.Stdout.IndexOf("Forecast", StringComparison.Ordinal)..]);
+        Assert.Equal(4, forecast.Count);
+        Assert.Contains(forecast, g => g.Values == "failing values: sites_b_position_0 = 0 (1 of 3 values)" && g.Count == 6);
+        Assert.Contains(forecast, g => g.Values == "failing values: sites_b_position_0 = 0.25 (1 of 3 values); springs_0_transverse_n_per_m = 8 (1 of 3 values)");
+
+        var run = Support.Cli.Run(_dir.Path, "run", "slide.toml", "--workers", "1");
+        Assert.True(run.ExitCode == 3, "some points fail: " + run.Stdout + run.Stderr);
+        Assert.Equal(forecast.Order(), Described(run.Stdout).Order());
+    }
+
+    /// <summary>Each failure group as printed: count, reason (without run's kind), and its "from:" and "failing values:" lines.</summary>
+    private static List<(long Count, string Reason, string From, string Values)> Described(string output)
+    {
+        var lines = output.ReplaceLineEndings("\n").Split('\n').Select(l => l.Trim()).ToList();
+        var groups = new List<(long, string, string, string)>();
+        for (var i = 0; i + 2 < lines.Count; i++)
+        {
+            var x = lines[i].IndexOf(" x ", StringComparison.Ordinal);
+            if (x > 0 && long.TryParse(lines[i][..x], System.Globalization.NumberStyles.AllowThousands, System.Globalization.CultureInfo.InvariantCulture, out var count)
+                && lines[i + 1].StartsWith("from: ", StringComparison.Ordinal) && lines[i + 2].StartsWith("failing values: ", StringComparison.Ordinal))
+            {
+                var reason = lines[i][(x + 3)..];
+                groups.Add((count, reason.StartsWith("model: ", StringComparison.Ordinal) ? reason["model: ".Length..] : reason, lines[i + 1], lines[i + 2]));
+            }
+        }
+
+        return groups;
+    }
+
     /// <summary>Each failure group's count and its "from:" line, as <c>check</c>, <c>run</c> and <c>status</c> print them.</summary>
     private static List<(long Count, string From)> Groups(string output)
     {

@@ -229,6 +229,45 @@ public sealed class CheckForecastTests : IDisposable
     }
 
     [Fact]
+    public void Past_the_tracing_share_of_the_budget_failing_points_join_their_reasons_traced_groups_in_proportion()
+    {
+        // 40,000 distinct models, every one refused (no transverse spring in 3d: the swept 0 N/m), so tracing each would thin the sample.
+        using var dir = new TempDirectory();
+        var plan = Some.Load(dir, Some.ChainJob(sweep: """
+            [[sweep.axes]]
+            path = "model.springs[0].transverse_n_per_m"
+            values = [0.0]
+
+            [[sweep.axes]]
+            path = "model.sites.B.mass_amu"
+            range = { from = 10.0, to = 60.0, steps = 200 }
+
+            [[sweep.axes]]
+            path = "model.springs[0].longitudinal_n_per_m"
+            range = { from = 5.0, to = 50.0, steps = 200 }
+            """).Replace("constant_nm = 0.5", "constant_nm = 0.5\nmotion = \"3d\"", StringComparison.Ordinal));
+
+        var report = SweepForecast.Run(plan, TimeSpan.FromSeconds(0.4));
+        Assert.Equal(report.Evaluated, report.WillFail);
+        var group = Assert.Single(report.Failures);
+        Assert.Equal(report.WillFail, group.Count);
+        Assert.InRange(group.Traced, 1, group.Count - 1); // some traced one by one, the rest counted in by their reason
+        Assert.Equal(LatticeSweep.Worker.Catalog.FailureOriginKind.SweptValue, group.Origin!.Kind);
+        var values = Assert.Single(group.Values);
+        Assert.Equal("springs_0_transverse_n_per_m = 0 (1 of 1 values)", values.ToString());
+    }
+
+    [Theory]
+    [InlineData(10, new long[] { 1, 2 }, new long[] { 3, 7 })]
+    [InlineData(5, new long[] { 1, 1, 1 }, new long[] { 2, 2, 1 })]
+    [InlineData(7, new long[] { 4 }, new long[] { 7 })]
+    [InlineData(0, new long[] { 3, 9 }, new long[] { 0, 0 })]
+    public void Points_not_traced_are_split_over_the_traced_groups_in_proportion_summing_to_their_count(long count, long[] weights, long[] expected)
+    {
+        Assert.Equal(expected, SweepForecast.Apportion(count, weights));
+    }
+
+    [Fact]
     public void The_spread_order_visits_every_point_once()
     {
         foreach (var n in new[] { 1, 2, 3, 10, 97, 1000, 1024 })

@@ -57,6 +57,17 @@ public sealed class FailureOriginOnEveryStoreTests : IDisposable
             var values = Assert.Single(onB.Values);
             Assert.Equal(("sites_b_position_0", 1L, 3), (values.Column, values.Distinct, values.SweepValues));
             Assert.Equal(0.0, Convert.ToDouble(Assert.Single(values.First), CultureInfo.InvariantCulture));
+
+            // Grouped in the store, read a page at a time: every group's pages are its failed points in plan order, and nothing else.
+            var failedPoints = catalog.GetPoints(sweepId, new PointQuery(PointState.Failed, Limit: int.MaxValue));
+            foreach (var group in groups)
+            {
+                var members = failedPoints.Where(p => p.Error == group.Reason).Select(p => p.PointId).ToList();
+                Assert.Equal(group.Count, members.Count);
+                Assert.Equal(members.Take(5), group.ExamplePointIds);
+                var paged = Enumerable.Range(0, 4).SelectMany(page => catalog.GetPoints(sweepId, new PointQuery(PointState.Failed, page * 2, 2, group.Reason, group.Kind))).Select(p => p.PointId);
+                Assert.Equal(members, paged);
+            }
         }
 
         // The error column of points/ holds the same text as the catalog, point by point, so a data tool groups by it.
@@ -80,7 +91,9 @@ public sealed class FailureOriginOnEveryStoreTests : IDisposable
             }
             else
             {
-                Assert.EndsWith($" [swept: model.sites.B.position[0] at {positionAt}; model.springs[0].transverse_n_per_m at {transverseAt}]", error, StringComparison.Ordinal);
+                // Two keys of one file: the file said once, then each key's line and column.
+                Assert.EndsWith($" [swept in {job}: model.sites.B.position[0] at {positionAt[(job.Length + 1)..]}; model.springs[0].transverse_n_per_m at {transverseAt[(job.Length + 1)..]}]", error, StringComparison.Ordinal);
+                Assert.Single(System.Text.RegularExpressions.Regex.Matches(error, System.Text.RegularExpressions.Regex.Escape(job)));
             }
         }
 
@@ -94,6 +107,8 @@ public sealed class FailureOriginOnEveryStoreTests : IDisposable
         Assert.Contains("  6 x model: model.sites[1].position: site 'B' sits on site 'A'", output, StringComparison.Ordinal);
         Assert.Contains($"      from: the swept model.sites.B.position[0], values at {positionAt}\n      failing values: sites_b_position_0 = 0 (1 of 3 values)\n", output, StringComparison.Ordinal);
         Assert.Contains($"      from: the swept model.springs[0].transverse_n_per_m, values at {transverseAt}\n      failing values: springs_0_transverse_n_per_m = 0 (1 of 3 values)\n", output, StringComparison.Ordinal);
+        var job = positionAt[..positionAt.LastIndexOf(':', positionAt.LastIndexOf(':') - 1)];
+        Assert.Contains($"      from: each of the swept model.sites.B.position[0], values at line {positionAt[(job.Length + 1)..]}; model.springs[0].transverse_n_per_m, values at line {transverseAt[(job.Length + 1)..]}, in {job}\n", output, StringComparison.Ordinal);
         Assert.DoesNotContain("[swept", output, StringComparison.Ordinal);
     }
 }

@@ -99,6 +99,64 @@ public sealed class FailureLocatorTests
     }
 
     [Fact]
+    public void A_model_of_more_than_384_branches_is_traced_by_the_same_checks_as_a_small_one()
+    {
+        // Invented demo: a monatomic chain written as a cell of 130 sites of one kind (390 branches, above the
+        // forecast's 384), both spring constants swept through 0. Worked out by hand: with both at 0 nothing
+        // holds any atom, and putting back either constant alone (30 or 8 N/m) still leaves a free direction
+        // (only transverse: nothing along x; only longitudinal: nothing along y and z), so the keys together.
+        // The reason names the spring, not the swept constants: matching its key path alone cannot say "together".
+        var sites = string.Concat(Enumerable.Range(0, 130).Select(i =>
+            $"[[model.sites]]\nlabel = \"S{i}\"\nkind = \"X\"\nposition = [{(i / 130.0).ToString("R", System.Globalization.CultureInfo.InvariantCulture)}]\nmass_amu = 12.0\n\n"));
+        var job = $$"""
+            [sweep]
+            name = "long-cell"
+
+            [[sweep.axes]]
+            path = "model.springs[0].longitudinal_n_per_m"
+            values = [0.0, 30.0]
+
+            [[sweep.axes]]
+            path = "model.springs[0].transverse_n_per_m"
+            values = [0.0, 8.0]
+
+            [model]
+            lattice = "chain"
+            constant_nm = 26.0
+            motion = "3d"
+
+            {{sites}}[[model.springs]]
+            from = "X"
+            to = "X"
+            shell = 1
+            longitudinal_n_per_m = 30.0
+            transverse_n_per_m = 8.0
+
+            [sample]
+            kind = "finite"
+            cells = 2
+
+            [output]
+            temperatures_k = [100, 300]
+            """;
+        var plan = JobFileLoader.Load(JobPath, job);
+        var point = plan.Points.Single(p => (double)p.Parameters["springs_0_longitudinal_n_per_m"] == 0.0 && (double)p.Parameters["springs_0_transverse_n_per_m"] == 0.0);
+        var refused = Assert.Throws<ModelException>(() => EnginePointSolver.Instance.Solve(plan, point, default));
+
+        var (reason, origin) = FailureText.Split(FailureLocator.Describe(plan, point, refused));
+        Assert.Contains("has no springs", reason, StringComparison.Ordinal);
+        Assert.Equal(FailureOriginKind.SweptTogether, origin!.Kind);
+        Assert.Equal(["model.springs[0].longitudinal_n_per_m", Transverse], origin.Keys.Select(k => k.Path));
+
+        // Only the transverse constant at 0: traced to that key alone, as in a small model.
+        var noTransverse = plan.Points.Single(p => (double)p.Parameters["springs_0_longitudinal_n_per_m"] == 30.0 && (double)p.Parameters["springs_0_transverse_n_per_m"] == 0.0);
+        var refusedToo = Assert.Throws<ModelException>(() => EnginePointSolver.Instance.Solve(plan, noTransverse, default));
+        (_, origin) = FailureText.Split(FailureLocator.Describe(plan, noTransverse, refusedToo));
+        Assert.Equal(FailureOriginKind.SweptValue, origin!.Kind);
+        Assert.Equal([Transverse], origin.Keys.Select(k => k.Path));
+    }
+
+    [Fact]
     public void A_refusal_the_checks_before_the_spectrum_do_not_repeat_is_named_by_its_key_when_swept_and_untraced_otherwise()
     {
         var plan = JobFileLoader.Load(JobPath, FailingJobs.Slide);

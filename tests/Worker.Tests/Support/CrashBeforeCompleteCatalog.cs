@@ -18,6 +18,8 @@ internal sealed class CrashBeforeCompleteCatalog(ISweepCatalog inner) : ISweepCa
     public IReadOnlyList<PointRecord> GetChunkPoints(string sweepId, string chunkId) => inner.GetChunkPoints(sweepId, chunkId);
     public PointRecord? FindPoint(string sweepId, string pointId) => inner.FindPoint(sweepId, pointId);
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId) => inner.GetFailureGroups(sweepId);
+
+    public FailureGroup? GetFailureGroup(string sweepId, string key) => inner.GetFailureGroup(sweepId, key);
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => inner.GetAxisCoverage(sweepId);
 
     public void Dispose()

@@ -18,10 +18,12 @@ namespace LatticeSweep.Worker.Planning.Forecast;
 /// order spread over the whole plan, so when the time budget runs out the ones evaluated are a fair
 /// sample, and the report says so. Each failure reason is traced to where in the job file it comes
 /// from by the worker's own <see cref="FailureLocator"/>, so <c>check</c> names the same origin as
-/// <c>run</c> and <c>status</c> later. It is traced once per reason, on the first point met with it
-/// (never per point: tracing a refusal costs about ten model checks, and a sweep where every model
-/// fails would be sampled about ten times thinner); <c>run</c> traces every failed point, so where points
-/// with one reason come from different swept keys, <c>run</c> may split the group.
+/// <c>run</c> and <c>status</c> later, grouped as <c>run</c> groups them (by reason and origin) with the
+/// failing values of each group. Each failing point is traced, as <c>run</c> traces each failed point,
+/// while tracing has taken less than <see cref="TraceShare"/> of the budget (the first point of each
+/// reason always); past that a point is classified by its reason alone and counted into that reason's
+/// traced groups in proportion (tracing a refusal costs about ten model checks: tracing every point of
+/// a sweep whose every model fails would sample it about ten times thinner).
 /// </summary>
 internal static class SweepForecast
 {
@@ -32,6 +34,90 @@ internal static class SweepForecast
     public const int MaxBranchesPreflighted = 384;
 
     private const int ExamplesPerReason = 3;
+
+    /// <summary>
+    /// The share of the budget that tracing failed points may take. Tracing a refusal costs about ten model
+    /// checks; past this share, a failing point is classified by its reason alone and counted into that
+    /// reason's traced groups in proportion, so a sweep whose every model fails is still sampled widely.
+    /// </summary>
+    private const double TraceShare = 0.1;
+
+    /// <summary>
+    /// <paramref name="count"/> split in proportion to <paramref name="weights"/> (largest remainders), summing to it.
+    /// </summary>
+    internal static long[] Apportion(long count, long[] weights)
+    {
+        var total = weights.Sum();
+        var shares = weights.Select(w => total == 0 ? 0 : count * w / total).ToArray();
+        var left = count - shares.Sum();
+        foreach (var k in Enumerable.Range(0, weights.Length).OrderByDescending(k => total == 0 ? 0 : (count * weights[k]) % total).ThenBy(k => k))
+        {
+            if (left-- <= 0)
+            {
+                break;
+            }
+
+            shares[k]++;
+        }
+
+        return shares;
+    }
+
+    /// <summary>One group's points as the forecast traced them: count, first examples, the failing values of its origin's keys.</summary>
+    private sealed class GroupTally(SweepPlan plan)
+    {
+        private const int DistinctCounted = 100_000;
+
+        private List<(AxisInfo Axis, Dictionary<string, (object Value, int Index)> Seen)>? _columns;
+
+        public long Count { get; private set; }
+
+        /// <summary>Points of the reason not traced, counted into this group in proportion.</summary>
+        public long Untraced { get; set; }
+
+        public List<PlannedPoint> Examples { get; } = [];
+
+        public void Add(PlannedPoint point, string text)
+        {
+            Count++;
+            if (Examples.Count < ExamplesPerReason)
+            {
+                Examples.Add(point);
+            }
+
+            _columns ??= [.. (Catalog.FailureText.Split(text).Origin?.Keys ?? [])
+                .Select(k => plan.Axes.FirstOrDefault(a => a.Path == k.Path))
+                .OfType<AxisInfo>()
+                .Select(a => (a, new Dictionary<string, (object, int)>(StringComparer.Ordinal)))];
+            foreach (var (axis, seen) in _columns)
+            {
+                if (!point.Parameters.TryGetValue(axis.ColumnName, out var value))
+                {
+                    continue;
+                }
+
+                var key = Catalog.CatalogJson.Show(value);
+                if (seen.TryGetValue(key, out var known))
+                {
+                    seen[key] = (known.Value, Math.Min(known.Index, point.Index));
+                }
+                else if (seen.Count < DistinctCounted)
+                {
+                    seen[key] = (value, point.Index);
+                }
+            }
+        }
+
+        /// <summary>The failing values over the traced points, the first in plan order, as run and status show them.</summary>
+        public ImmutableArray<Catalog.FailingValues> Values() =>
+            [.. (_columns ?? []).Where(c => c.Seen.Count > 0).Select(c =>
+            {
+                var numbers = c.Seen.Values.Select(v => v.Value).Where(v => v is double or long).Select(v => Convert.ToDouble(v, System.Globalization.CultureInfo.InvariantCulture)).ToList();
+                return new Catalog.FailingValues(c.Axis.ColumnName, c.Axis.Path, c.Seen.Count,
+                    [.. c.Seen.Values.OrderBy(v => v.Index).Take(Catalog.FailingValues.Listed).Select(v => v.Value)],
+                    numbers.Count > 0 ? numbers.Min() : null, numbers.Count > 0 ? numbers.Max() : null, c.Axis.Values.Length);
+            })];
+    }
 
     private sealed record ModelEntry(CrystalModel? Model, ElasticFitResult? Fit, string? Failure, ModelPreflight? Preflight, ModelException? Refusal = null);
 
@@ -45,9 +131,11 @@ internal static class SweepForecast
         var points = plan.Points;
         var modelColumns = plan.Template.Bindings.Where(b => b.Field.Path.StartsWith("model.", StringComparison.Ordinal)).Select(b => b.Column).ToArray();
         var models = new Dictionary<string, ModelEntry>(StringComparer.Ordinal);
-        var failures = new Dictionary<string, (long Count, List<PlannedPoint> Examples)>(StringComparer.Ordinal);
-        // The traced text of each reason as found, traced on the first point met with it.
-        var traced = new Dictionary<string, string>(StringComparer.Ordinal);
+        // Groups by the error text run writes (reason and origin), and per located reason the groups its traced points fell in.
+        var groups = new Dictionary<string, GroupTally>(StringComparer.Ordinal);
+        var traced = new Dictionary<string, List<string>>(StringComparer.Ordinal);
+        var untraced = new Dictionary<string, long>(StringComparer.Ordinal);
+        var tracing = new Stopwatch();
         var justTraced = false;
         var failed = 0L;
         var evaluated = 0L;
@@ -134,26 +222,52 @@ internal static class SweepForecast
 
             if (failure is not null)
             {
-                if (!traced.TryGetValue(failure, out var text))
-                {
-                    text = FailureLocator.DescribeOrUntraced(plan, point, refusal!, out _);
-                    traced[failure] = text;
-                    justTraced = true;
-                }
-
-                failure = text;
                 failed++;
-                if (!failures.TryGetValue(failure, out var group))
+                var first = !traced.ContainsKey(failure);
+                if (first || tracing.Elapsed < budget * TraceShare)
                 {
-                    group = (0, []);
-                }
+                    // Traced point by point, as run traces each failed point, while the tracing's share of the budget lasts;
+                    // the first point of each reason always.
+                    tracing.Start();
+                    var text = FailureLocator.DescribeOrUntraced(plan, point, refusal!, out _);
+                    tracing.Stop();
+                    justTraced = true;
+                    if (!traced.TryGetValue(failure, out var texts))
+                    {
+                        texts = [];
+                        traced[failure] = texts;
+                    }
 
-                if (group.Examples.Count < ExamplesPerReason)
+                    if (!groups.TryGetValue(text, out var group))
+                    {
+                        group = new GroupTally(plan);
+                        groups[text] = group;
+                    }
+
+                    // Two located reasons (other lines) may share a traced text: each lists the groups its points fell in.
+                    if (!texts.Contains(text, StringComparer.Ordinal))
+                    {
+                        texts.Add(text);
+                    }
+
+                    group.Add(point, text);
+                }
+                else
                 {
-                    group.Examples.Add(point);
+                    untraced[failure] = untraced.GetValueOrDefault(failure) + 1;
                 }
+            }
+        }
 
-                failures[failure] = (group.Count + 1, group.Examples);
+        // Points of a reason met after the tracing's share ran out join its traced groups in proportion to theirs.
+        foreach (var (reason, count) in untraced)
+        {
+            var texts = traced[reason];
+            var tallies = texts.Select(t => groups[t]).ToList();
+            var share = Apportion(count, [.. tallies.Select(g => g.Count)]);
+            for (var k = 0; k < tallies.Count; k++)
+            {
+                tallies[k].Untraced += share[k];
             }
         }
 
@@ -166,8 +280,8 @@ internal static class SweepForecast
             DistinctModels = models.Count,
             ModelsNotPreflighted = modelsNotPreflighted,
             WillFail = failed,
-            Failures = [.. failures.OrderByDescending(f => f.Value.Count).ThenBy(f => f.Key, StringComparer.Ordinal)
-                .Select(f => new FailureForecast(f.Key, f.Value.Count, [.. f.Value.Examples]))],
+            Failures = [.. groups.OrderByDescending(f => f.Value.Count + f.Value.Untraced).ThenBy(f => f.Key, StringComparer.Ordinal)
+                .Select(f => new FailureForecast(f.Key, f.Value.Count + f.Value.Untraced, [.. f.Value.Examples]) { Traced = f.Value.Count, Values = f.Value.Values() })],
             EvaluatedSeconds = totalSeconds,
             Costliest = costliest is { } c ? new CostlyPoint(c.Point, c.Seconds) : null,
             WarnPointTimeS = plan.WarnPointTimeS,
@@ -219,6 +333,12 @@ internal static class SweepForecast
 /// <summary>Points that will fail for one reason, with the first few; <paramref name="Reason"/> is the error text <c>run</c> writes (<see cref="Catalog.FailureText"/>).</summary>
 internal sealed record FailureForecast(string Reason, long Count, ImmutableArray<PlannedPoint> Examples)
 {
+    /// <summary>Points of the group traced one by one; the rest of <see cref="Count"/> share the reason and were counted in proportion.</summary>
+    public long Traced { get; init; }
+
+    /// <summary>The values of the origin's swept keys over the traced points, as <c>run</c> shows them.</summary>
+    public ImmutableArray<Catalog.FailingValues> Values { get; init; } = [];
+
     /// <summary>The reason without its origin.</summary>
     public string ReasonText => Catalog.FailureText.Split(Reason).Reason;
 
