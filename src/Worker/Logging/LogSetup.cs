@@ -8,7 +8,7 @@ namespace LatticeSweep.Worker.Logging;
 
 /// <summary>
 /// Logging of one <c>latsweep</c> run: a readable line per event that matters on the console
-/// (information and up), and every event as compact JSON in
+/// (information and up; the first few failed or unstable points, <see cref="PointLineCap"/>), and every event as compact JSON in
 /// <c>&lt;log folder&gt;/latsweep-&lt;UTC time&gt;-&lt;process id&gt;.json</c>, created with the first event
 /// (so a command that logs nothing leaves no empty file). The queue library's own messages are
 /// kept to warnings and up; the console never shows a stack trace.
@@ -33,7 +33,7 @@ public static class LogSetup
     internal static Logger Create(Action<string> consoleLine, string? logFolder, string command, TimeProvider time, StoreFaultWatch? watch, out string? logFile)
     {
         ArgumentNullException.ThrowIfNull(time);
-        var console = new ConsoleLineSink(new MessageTemplateTextFormatter(ConsoleTemplate, CultureInfo.InvariantCulture), consoleLine);
+        var console = new PointLineCap(new ConsoleLineSink(new MessageTemplateTextFormatter(ConsoleTemplate, CultureInfo.InvariantCulture), consoleLine));
         var config = new LoggerConfiguration()
             .MinimumLevel.Debug()
             .MinimumLevel.Override("Hangfire", LogEventLevel.Warning)

@@ -192,15 +192,15 @@ public sealed class ChunkRunner
         foreach (var unstable in outcomes.Where(o => o.State == PointState.Unstable))
         {
             Interlocked.Increment(ref _unstablePoints);
-            _log.Information("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) is an unstable model: {Instability}",
+            _log.ForContext(Logging.PointLineCap.Property, true).Information("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) is an unstable model: {Instability}",
                 unstable.Point.PointId, sweepId, chunkId, unstable.Error);
         }
 
         foreach (var failed in outcomes.Where(o => o.State == PointState.Failed))
         {
             Interlocked.Increment(ref _failedPoints);
-            _log.Warning("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) failed, {FailureKind}: {Error}",
-                failed.Point.PointId, sweepId, chunkId, failed.FailureKind, failed.Error);
+            _log.ForContext(Logging.PointLineCap.Property, true).Warning("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) failed, {FailureKind}: {Error}",
+                failed.Point.PointId, sweepId, chunkId, failed.FailureKind?.ToString().ToLowerInvariant(), failed.Error);
         }
 
         if (completion.SweepFinishedNow)

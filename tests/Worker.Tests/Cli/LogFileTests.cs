@@ -48,4 +48,24 @@ public sealed class LogFileTests : IDisposable
         Assert.Equal(before, LogFiles());
         Assert.All(LogFiles(), f => Assert.True(new FileInfo(f).Length > 0, $"{f} is empty"));
     }
+
+    [Fact]
+    public void The_console_shows_the_first_failed_points_and_the_log_file_every_one()
+    {
+        // FailingJobs.Slide with four longitudinal constants: 36 points, of which 24 fail and 8 are
+        // unstable (worked out in FailingJobs), more than the console shows.
+        var job = FailingJobs.Slide.Replace("values = [10.0, 30.0]", "values = [10.0, 20.0, 30.0, 40.0]", StringComparison.Ordinal);
+        Assert.NotEqual(FailingJobs.Slide, job);
+        File.WriteAllText(_dir.Combine("job.toml"), job);
+
+        var run = Support.Cli.Run(_dir.Path, "run", "job.toml", "--workers", "1");
+
+        Assert.True(run.ExitCode == 3, run.Stdout + run.Stderr); // some points failed
+        var console = run.Stdout + run.Stderr;
+        var pointLines = console.Split('\n').Count(l => l.Contains("] Point ", StringComparison.Ordinal) && (l.Contains(") failed, ", StringComparison.Ordinal) || l.Contains("is an unstable model", StringComparison.Ordinal)));
+        Assert.Equal(Logging.PointLineCap.Shown, pointLines);
+        Assert.Contains($"More points failed or were unstable than the {Logging.PointLineCap.Shown} shown", console, StringComparison.Ordinal);
+        var log = File.ReadAllText(Assert.Single(LogFiles()));
+        Assert.Equal(32, System.Text.RegularExpressions.Regex.Matches(log, "\"PointOutcome\":true").Count);
+    }
 }
