@@ -6,7 +6,7 @@ namespace LatticeSweep.Worker.Catalog;
 /// <summary>
 /// Points counted per (swept column, value, state), the value as its JSON text in the point's
 /// parameters (<see cref="CatalogJson.WriteValue"/>): what one write adds to or takes from
-/// <c>latsweep_axis_counts</c>. The column <see cref="AllPoints"/> counts every point per state, so a
+/// <c>latsweep_axis_counts</c>, running points counted as waiting. The column <see cref="AllPoints"/> counts every point per state, so a
 /// reader can tell whether the table still agrees with the sweep's counts.
 /// </summary>
 internal sealed class AxisTally
@@ -88,11 +88,17 @@ internal sealed class AxisTally
         return moved;
     }
 
+    /// <summary>Whether points in <paramref name="state"/> are still to do (waiting or running): counted together, as coverage shows them, so a claim changes no count.</summary>
+    public static bool IsPending(string state) => state == Waiting || state == Running;
+
+    private static readonly string Waiting = SqlSweepCatalog.Text(PointState.Waiting);
+    private static readonly string Running = SqlSweepCatalog.Text(PointState.Running);
+
     public void Add(string column, string value, string state, long n)
     {
         if (n != 0)
         {
-            var key = (column, value, state);
+            var key = (column, value, IsPending(state) ? Waiting : state);
             Counts[key] = Counts.GetValueOrDefault(key) + n;
         }
     }

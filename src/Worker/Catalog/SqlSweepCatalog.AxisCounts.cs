@@ -183,7 +183,8 @@ public abstract partial class SqlSweepCatalog
             }
         }
 
-        return (rows, totals == ReadCounts(c, tx, sweepId));
+        var counts = ReadCounts(c, tx, sweepId);
+        return (rows, totals == counts with { Waiting = counts.Waiting + counts.Running, Running = 0 });
     }
 
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId)

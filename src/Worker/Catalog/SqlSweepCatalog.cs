@@ -191,7 +191,6 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         var before = ChunkStates(c, tx, sweepId, chunkId);
-        var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, AxisColumns(c, tx, sweepId));
         if (sweepState == SweepState.Cancelled)
         {
             var waitingOrRunning = before.GetValueOrDefault(Text(PointState.Waiting)) + before.GetValueOrDefault(Text(PointState.Running));
@@ -202,6 +201,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
                 [Text(PointState.Cancelled)] = before.GetValueOrDefault(Text(PointState.Cancelled)) + waitingOrRunning,
             };
             AddCountChange(c, tx, sweepId, before, after);
+            var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, AxisColumns(c, tx, sweepId));
             AddAxisChange(c, tx, sweepId, beforeAxes, beforeAxes.Moved(s =>
                 s == Text(PointState.Waiting) || s == Text(PointState.Running) ? Text(PointState.Cancelled) : s));
             Execute(c, tx, """
@@ -222,7 +222,12 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
 
         var now = Ms(_time.GetUtcNow());
         AddCountChange(c, tx, sweepId, before, new Dictionary<string, long> { [Text(PointState.Running)] = points.Count });
-        AddAxisChange(c, tx, sweepId, beforeAxes, beforeAxes.AllIn(Text(PointState.Running)));
+        if (before.Keys.Any(s => !AxisTally.IsPending(s)))
+        {
+            // A chunk run again with points that had ended (waiting to running changes no axis count).
+            var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, AxisColumns(c, tx, sweepId));
+            AddAxisChange(c, tx, sweepId, beforeAxes, beforeAxes.AllIn(Text(PointState.Running)));
+        }
         Execute(c, tx, """
             UPDATE latsweep_points SET state = @running, attempts = attempts + 1, started_ms = @now,
                 finished_ms = NULL, duration_us = NULL, failure_kind = NULL, error = NULL, worker = @worker
