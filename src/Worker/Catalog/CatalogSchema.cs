@@ -1,7 +1,7 @@
 namespace LatticeSweep.Worker.Catalog;
 
 /// <summary>
-/// The catalog's tables (sweeps, chunks, points, and the points per sweep and state), in SQL that SQLite and PostgreSQL both accept. Times are Unix
+/// The catalog's tables (sweeps, chunks, points, and the points per sweep, per swept value and state), in SQL that SQLite and PostgreSQL both accept. Times are Unix
 /// milliseconds (UTC), durations microseconds. Prefixed so they sit beside the queue's own tables.
 /// </summary>
 internal static class CatalogSchema
@@ -64,6 +64,21 @@ internal static class CatalogSchema
             state TEXT NOT NULL,
             points BIGINT NOT NULL,
             PRIMARY KEY (sweep_id, state)
+        )
+        """,
+
+        // Points per swept value and state (SqlSweepCatalog.AxisCounts), kept in step with
+        // latsweep_points in the same transactions, so the coverage table never reads a sweep's
+        // points. value_json is the value's text in parameters_json; column_name '' counts every
+        // point per state, to tell whether the rows agree with latsweep_sweep_counts.
+        """
+        CREATE TABLE IF NOT EXISTS latsweep_axis_counts (
+            sweep_id TEXT NOT NULL,
+            column_name TEXT NOT NULL,
+            value_json TEXT NOT NULL,
+            state TEXT NOT NULL,
+            points BIGINT NOT NULL,
+            PRIMARY KEY (sweep_id, column_name, value_json, state)
         )
         """,
 

@@ -56,6 +56,6 @@ public interface ISweepCatalog : IDisposable
     /// <summary>One failure group by its <see cref="FailureGroup.Key"/>, with its first ids and failing values; null when the sweep has none.</summary>
     FailureGroup? GetFailureGroup(string sweepId, string key);
 
-    /// <summary>For each swept parameter, point counts per value (none for sweeps over <see cref="SqlSweepCatalog.CoverageLimit"/> points).</summary>
+    /// <summary>For each swept parameter, point counts per value and state (kept in the store: a few rows per value at any sweep size).</summary>
     IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId);
 }

@@ -77,7 +77,7 @@ public abstract partial class SqlSweepCatalog
     /// (a million points: two halves of the work on two cores instead of one after the other), in
     /// a few UTF-8 buffers passed back and forth: no text of a chunk is made twice or kept.
     /// </summary>
-    private int WriteChunks(DbConnection c, DbTransaction tx, NewSweep sweep, string state, PointIdBuckets buckets)
+    private int WriteChunks(DbConnection c, DbTransaction tx, NewSweep sweep, string state, PointIdBuckets buckets, SweptValueCounts values)
     {
         using var inserter = ChunkRowInserter(c, tx, sweep.SweepId, state);
         using var rows = new System.Collections.Concurrent.BlockingCollection<ChunkRow>(ChunkRowsAhead);
@@ -92,7 +92,7 @@ public abstract partial class SqlSweepCatalog
         {
             try
             {
-                return MakeChunkRows(sweep, rows, free, buckets, stop.Token);
+                return MakeChunkRows(sweep, rows, free, buckets, values, stop.Token);
             }
             finally
             {
@@ -127,9 +127,9 @@ public abstract partial class SqlSweepCatalog
         return maker.GetAwaiter().GetResult();
     }
 
-    /// <summary>The chunk rows of <paramref name="sweep"/>'s points in order, added to <paramref name="rows"/>, each written into a buffer taken from <paramref name="free"/>, every point noted in <paramref name="buckets"/>; returns the number of chunks.</summary>
+    /// <summary>The chunk rows of <paramref name="sweep"/>'s points in order, added to <paramref name="rows"/>, each written into a buffer taken from <paramref name="free"/>, every point noted in <paramref name="buckets"/> and its swept values in <paramref name="values"/>; returns the number of chunks.</summary>
     private static int MakeChunkRows(NewSweep sweep, System.Collections.Concurrent.BlockingCollection<ChunkRow> rows,
-        System.Collections.Concurrent.BlockingCollection<ArrayBufferWriter<byte>> free, PointIdBuckets buckets, CancellationToken stop)
+        System.Collections.Concurrent.BlockingCollection<ArrayBufferWriter<byte>> free, PointIdBuckets buckets, SweptValueCounts values, CancellationToken stop)
     {
         var seen = new HashSet<string>(StringComparer.Ordinal);
         var buffer = free.Take(stop);
@@ -171,6 +171,7 @@ public abstract partial class SqlSweepCatalog
 
             text.Add(w, point.PointId, point.Index, point.Parameters);
             buckets.Add(point.PointId, point.Index);
+            values.Add(point.Parameters);
             first = Math.Min(first, point.Index);
             last = Math.Max(last, point.Index);
             count++;

@@ -216,63 +216,6 @@ public abstract partial class SqlSweepCatalog
         return cmd.ExecuteScalar() is string json ? CatalogJson.ReadAxes(json) : [];
     }
 
-    /// <summary>Sweeps with more points than this get no coverage table: counting it means reading every point's parameters (seconds for a million).</summary>
-    public const long CoverageLimit = 200_000;
-
-    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId)
-    {
-        var sweep = FindSweep(sweepId);
-        if (sweep is null || sweep.SweepId != sweepId || sweep.Counts.Total > CoverageLimit)
-        {
-            return [];
-        }
-
-        var points = GetPoints(sweepId, new PointQuery(Limit: int.MaxValue));
-        var result = new List<AxisCoverage>();
-        foreach (var axis in sweep.Axes)
-        {
-            var byValue = new Dictionary<string, (object Value, long Total, long Done, long Failed, long Pending, long Cancelled, long Unstable)>(StringComparer.Ordinal);
-            var order = new List<string>();
-            foreach (var v in axis.Values)
-            {
-                var key = CatalogJson.Show(v);
-                if (byValue.TryAdd(key, (v, 0, 0, 0, 0, 0, 0)))
-                {
-                    order.Add(key);
-                }
-            }
-
-            foreach (var p in points)
-            {
-                if (!p.Parameters.TryGetValue(axis.ColumnName, out var value))
-                {
-                    continue;
-                }
-
-                var key = CatalogJson.Show(value);
-                if (!byValue.TryGetValue(key, out var e))
-                {
-                    e = (value, 0, 0, 0, 0, 0, 0);
-                    order.Add(key);
-                }
-
-                byValue[key] = p.State switch
-                {
-                    PointState.Done => e with { Total = e.Total + 1, Done = e.Done + 1 },
-                    PointState.Failed => e with { Total = e.Total + 1, Failed = e.Failed + 1 },
-                    PointState.Cancelled => e with { Total = e.Total + 1, Cancelled = e.Cancelled + 1 },
-                    PointState.Unstable => e with { Total = e.Total + 1, Unstable = e.Unstable + 1 },
-                    _ => e with { Total = e.Total + 1, Pending = e.Pending + 1 },
-                };
-            }
-
-            result.Add(new AxisCoverage(axis.ColumnName, axis.Path, axis.Unit,
-                [.. order.Select(k => byValue[k]).Select(e => new AxisValueCoverage(e.Value, e.Total, e.Done, e.Failed, e.Pending, e.Cancelled) { Unstable = e.Unstable })]));
-        }
-
-        return result;
-    }
-
     private static List<SweepRecord> ReadSweeps(DbConnection c, string sql, (string, object)[] parameters)
     {
         using var cmd = Command(c, null, sql);

@@ -84,7 +84,8 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
 
         var waiting = Text(PointState.Waiting);
         var buckets = new PointIdBuckets(sweep.Points.Count);
-        var written = WriteChunks(c, tx, sweep, waiting, buckets);
+        var values = new SweptValueCounts(new HashSet<string>(sweep.Axes.Select(a => a.ColumnName), StringComparer.Ordinal));
+        var written = WriteChunks(c, tx, sweep, waiting, buckets, values);
         buckets.Write(c, tx, sweep.SweepId);
         if (written != chunkCount)
         {
@@ -92,6 +93,9 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         AddCountChange(c, tx, sweep.SweepId, new Dictionary<string, long>(), new Dictionary<string, long> { [waiting] = sweep.Points.Count });
+        var tally = new AxisTally(values.Columns);
+        tally.AddValues(values.Counts, sweep.Points.Count, waiting);
+        AddAxisChange(c, tx, sweep.SweepId, new AxisTally(values.Columns), tally);
         tx.Commit();
         return true;
     }
@@ -104,8 +108,16 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         // Pending chunks have no results by definition: waiting ones stay so, cancelled ones wait again.
         var pending = ReadPendingChunks(c, tx, sweepId, null);
         var cancelled = pending.Where(p => p.State == PointState.Cancelled).Sum(p => p.PointCount);
+        var columns = AxisColumns(c, tx, sweepId);
         if (cancelled > 0)
         {
+            var wasCancelled = new AxisTally(columns);
+            foreach (var chunk in pending.Where(p => p.State == PointState.Cancelled))
+            {
+                AddPendingChunk(c, tx, sweepId, chunk.ChunkId, Text(PointState.Cancelled), wasCancelled);
+            }
+
+            AddAxisChange(c, tx, sweepId, wasCancelled, wasCancelled.AllIn(Text(PointState.Waiting)));
             AddCountChange(c, tx, sweepId,
                 new Dictionary<string, long> { [Text(PointState.Cancelled)] = cancelled },
                 new Dictionary<string, long> { [Text(PointState.Waiting)] = cancelled });
@@ -139,6 +151,8 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         {
             var before = ChunkStates(c, tx, sweepId, chunk);
             AddCountChange(c, tx, sweepId, before, new Dictionary<string, long> { [Text(PointState.Waiting)] = before.Values.Sum() });
+            var beforeAxes = ChunkTally(c, tx, sweepId, chunk, columns);
+            AddAxisChange(c, tx, sweepId, beforeAxes, beforeAxes.AllIn(Text(PointState.Waiting)));
             Execute(c, tx, """
                 UPDATE latsweep_points SET state = @waiting, failure_kind = NULL, error = NULL
                 WHERE sweep_id = @sweep AND chunk_id = @chunk
@@ -187,6 +201,9 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
                 [Text(PointState.Cancelled)] = before.GetValueOrDefault(Text(PointState.Cancelled)) + waitingOrRunning,
             };
             AddCountChange(c, tx, sweepId, before, after);
+            var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, AxisColumns(c, tx, sweepId));
+            AddAxisChange(c, tx, sweepId, beforeAxes, beforeAxes.Moved(s =>
+                s == Text(PointState.Waiting) || s == Text(PointState.Running) ? Text(PointState.Cancelled) : s));
             Execute(c, tx, """
                 UPDATE latsweep_points SET state = @cancelled
                 WHERE sweep_id = @sweep AND chunk_id = @chunk AND state IN (@waiting, @running)
@@ -205,6 +222,12 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
 
         var now = Ms(_time.GetUtcNow());
         AddCountChange(c, tx, sweepId, before, new Dictionary<string, long> { [Text(PointState.Running)] = points.Count });
+        if (before.Keys.Any(s => !AxisTally.IsPending(s)))
+        {
+            // A chunk run again with points that had ended (waiting to running changes no axis count).
+            var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, AxisColumns(c, tx, sweepId));
+            AddAxisChange(c, tx, sweepId, beforeAxes, beforeAxes.AllIn(Text(PointState.Running)));
+        }
         Execute(c, tx, """
             UPDATE latsweep_points SET state = @running, attempts = attempts + 1, started_ms = @now,
                 finished_ms = NULL, duration_us = NULL, failure_kind = NULL, error = NULL, worker = @worker
@@ -251,6 +274,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         LockSweep(c, tx, sweepId);
         EnsureChunkRows(c, tx, sweepId, chunkId);
         var before = ChunkStates(c, tx, sweepId, chunkId);
+        var rows = ChunkRows(c, tx, sweepId, chunkId);
         using (var cmd = Command(c, tx, """
             UPDATE latsweep_points SET state = @state, failure_kind = @kind, error = @error,
                 started_ms = @started, finished_ms = @finished, duration_us = @duration
@@ -280,6 +304,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         AddCountChange(c, tx, sweepId, before, ChunkStates(c, tx, sweepId, chunkId));
+        AddCompletedAxes(c, tx, sweepId, rows, points);
         var counts = ReadCounts(c, tx, sweepId);
         var state = ReadSweepState(c, tx, sweepId) ?? SweepState.Queued;
         var finishedNow = false;
@@ -311,6 +336,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             return false;
         }
 
+        CancelAxes(c, tx, sweepId);
         long cancelled = Execute(c, tx, "UPDATE latsweep_points SET state = @cancelled WHERE sweep_id = @sweep AND state = @waiting",
             ("cancelled", Text(PointState.Cancelled)), ("sweep", sweepId), ("waiting", Text(PointState.Waiting)));
         cancelled += PendingPoints(c, tx, sweepId, PointState.Waiting);

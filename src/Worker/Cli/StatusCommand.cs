@@ -91,12 +91,6 @@ internal static class StatusCommand
             }
         }
 
-        if (sweep.Counts.Total > SqlSweepCatalog.CoverageLimit)
-        {
-            o.WriteLine();
-            o.WriteLine($"Coverage per swept value is not counted for sweeps over {N(SqlSweepCatalog.CoverageLimit)} points; query points/ in {sweep.OutputFolder} instead.");
-        }
-
         foreach (var axis in session.Catalog.GetAxisCoverage(sweep.SweepId))
         {
             o.WriteLine();

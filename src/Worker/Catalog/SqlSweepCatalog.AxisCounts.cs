@@ -1,0 +1,269 @@
+using System.Data.Common;
+using System.Globalization;
+using LatticeSweep.Worker.Planning;
+
+namespace LatticeSweep.Worker.Catalog;
+
+/// <summary>
+/// Points per swept value and state (<c>latsweep_axis_counts</c>), the coverage table of <c>status</c>
+/// and the dashboard, kept in step with the point rows as <c>latsweep_sweep_counts</c> is: each write
+/// that changes point states adds what it changed per (column, value, state) in the same transaction,
+/// under the sweep's lock, so a point is counted once, in its latest state, through crashes, retries
+/// and re-queues. Reading it is a few rows per swept value however many points the sweep has (reading
+/// every point's parameters took ~3 s for 2 x 10^5 points: bench/README.md, Round 17). Sweeps written
+/// before the table (or by a latsweep that does not know it) are counted again from their points on
+/// the first read that finds the table's per-state totals differ from the sweep's counts.
+/// </summary>
+public abstract partial class SqlSweepCatalog
+{
+    /// <summary>Rows per upsert statement: a statement is a round trip to PostgreSQL.</summary>
+    private const int AxisRowsPerStatement = 100;
+
+    private static HashSet<string> AxisColumns(DbConnection c, DbTransaction? tx, string sweepId) =>
+        [.. ReadAxes(c, tx, sweepId).Select(a => a.ColumnName)];
+
+    /// <summary>The rows of one chunk: point id, state text and parameters' text.</summary>
+    private static List<(string PointId, string State, string ParametersJson)> ChunkRows(DbConnection c, DbTransaction tx, string sweepId, string chunkId)
+    {
+        using var cmd = Command(c, tx, "SELECT point_id, state, parameters_json FROM latsweep_points WHERE sweep_id = @sweep AND chunk_id = @chunk");
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "chunk", chunkId);
+        using var r = cmd.ExecuteReader();
+        var rows = new List<(string, string, string)>();
+        while (r.Read())
+        {
+            rows.Add((r.GetString(0), r.GetString(1), r.GetString(2)));
+        }
+
+        return rows;
+    }
+
+    /// <summary>The tally of one chunk's point rows in their present states.</summary>
+    private static AxisTally ChunkTally(DbConnection c, DbTransaction tx, string sweepId, string chunkId, IReadOnlySet<string> columns)
+    {
+        var tally = new AxisTally(columns);
+        foreach (var (_, state, json) in ChunkRows(c, tx, sweepId, chunkId))
+        {
+            tally.AddParameters(json, state);
+        }
+
+        return tally;
+    }
+
+    /// <summary>Adds the tally of a pending chunk's points (from its text, in <paramref name="state"/>) to <paramref name="tally"/>.</summary>
+    private static void AddPendingChunk(DbConnection c, DbTransaction tx, string sweepId, string chunkId, string state, AxisTally tally)
+    {
+        using var cmd = Command(c, tx, "SELECT points_json FROM latsweep_chunks WHERE sweep_id = @sweep AND chunk_id = @chunk");
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "chunk", chunkId);
+        if (cmd.ExecuteScalar() is string text)
+        {
+            foreach (var p in ChunkText.Decode(text, chunkId))
+            {
+                tally.AddParameters(p.ParametersJson, state);
+            }
+        }
+    }
+
+    /// <summary>Adds <paramref name="after"/> minus <paramref name="before"/> to the sweep's axis counts.</summary>
+    private static void AddAxisChange(DbConnection c, DbTransaction tx, string sweepId, AxisTally before, AxisTally after)
+    {
+        var changes = AxisTally.Change(before, after);
+        for (var start = 0; start < changes.Count; start += AxisRowsPerStatement)
+        {
+            var count = Math.Min(AxisRowsPerStatement, changes.Count - start);
+            var sql = new System.Text.StringBuilder("INSERT INTO latsweep_axis_counts (sweep_id, column_name, value_json, state, points) VALUES ");
+            using var cmd = Command(c, tx, "");
+            Add(cmd, "s", sweepId);
+            for (var i = 0; i < count; i++)
+            {
+                var n = i.ToString(CultureInfo.InvariantCulture);
+                var ((column, value, state), change) = changes[start + i];
+                sql.Append(i == 0 ? "" : ", ").Append($"(@s, @c{n}, @v{n}, @t{n}, @n{n})");
+                Add(cmd, "c" + n, column);
+                Add(cmd, "v" + n, value);
+                Add(cmd, "t" + n, state);
+                Add(cmd, "n" + n, change);
+            }
+
+            sql.Append(" ON CONFLICT (sweep_id, column_name, value_json, state) DO UPDATE SET points = latsweep_axis_counts.points + excluded.points");
+            cmd.CommandText = sql.ToString();
+            cmd.ExecuteNonQuery();
+        }
+    }
+
+    /// <summary>Adds a chunk's completion: its <paramref name="rows"/> as they were before, each point of <paramref name="points"/> in its new state (the last one given, as the updates leave it).</summary>
+    private static void AddCompletedAxes(DbConnection c, DbTransaction tx, string sweepId,
+        List<(string PointId, string State, string ParametersJson)> rows, IReadOnlyList<PointCompletion> points)
+    {
+        var columns = AxisColumns(c, tx, sweepId);
+        var next = new Dictionary<string, string>(StringComparer.Ordinal);
+        foreach (var p in points)
+        {
+            next[p.PointId] = Text(p.State);
+        }
+
+        var before = new AxisTally(columns);
+        var after = new AxisTally(columns);
+        foreach (var (pointId, state, json) in rows)
+        {
+            before.AddParameters(json, state);
+            after.AddParameters(json, next.GetValueOrDefault(pointId, state));
+        }
+
+        AddAxisChange(c, tx, sweepId, before, after);
+    }
+
+    /// <summary>Moves the sweep's waiting points (rows and pending chunks) to cancelled in the axis counts. Call before the states change, under the sweep's lock.</summary>
+    private static void CancelAxes(DbConnection c, DbTransaction tx, string sweepId)
+    {
+        var waiting = new AxisTally(AxisColumns(c, tx, sweepId));
+        using (var cmd = Command(c, tx, "SELECT parameters_json FROM latsweep_points WHERE sweep_id = @sweep AND state = @waiting"))
+        {
+            Add(cmd, "sweep", sweepId);
+            Add(cmd, "waiting", Text(PointState.Waiting));
+            using var r = cmd.ExecuteReader();
+            while (r.Read())
+            {
+                waiting.AddParameters(r.GetString(0), Text(PointState.Waiting));
+            }
+        }
+
+        foreach (var chunk in ReadPendingChunks(c, tx, sweepId, PointState.Waiting))
+        {
+            AddPendingChunk(c, tx, sweepId, chunk.ChunkId, Text(PointState.Waiting), waiting);
+        }
+
+        AddAxisChange(c, tx, sweepId, waiting, waiting.AllIn(Text(PointState.Cancelled)));
+    }
+
+    /// <summary>Counts the sweep's axis values again from its point rows and pending chunks. Call under the sweep's lock.</summary>
+    private static void RecountAxes(DbConnection c, DbTransaction tx, string sweepId)
+    {
+        var tally = new AxisTally(AxisColumns(c, tx, sweepId));
+        using (var cmd = Command(c, tx, "SELECT state, parameters_json FROM latsweep_points WHERE sweep_id = @sweep"))
+        {
+            Add(cmd, "sweep", sweepId);
+            using var r = cmd.ExecuteReader();
+            while (r.Read())
+            {
+                tally.AddParameters(r.GetString(1), r.GetString(0));
+            }
+        }
+
+        foreach (var chunk in ReadPendingChunks(c, tx, sweepId, null))
+        {
+            AddPendingChunk(c, tx, sweepId, chunk.ChunkId, Text(chunk.State), tally);
+        }
+
+        Execute(c, tx, "DELETE FROM latsweep_axis_counts WHERE sweep_id = @sweep", ("sweep", sweepId));
+        AddAxisChange(c, tx, sweepId, new AxisTally(tally.Columns), tally);
+    }
+
+    /// <summary>The axis counts' rows of one sweep, and whether their per-state totals agree with the sweep's counts.</summary>
+    private static (List<(string Column, string Value, string State, long Points)> Rows, bool Agree) ReadAxisCounts(DbConnection c, DbTransaction tx, string sweepId)
+    {
+        var rows = new List<(string, string, string, long)>();
+        var totals = SweepCounts.Empty;
+        using (var cmd = Command(c, tx, "SELECT column_name, value_json, state, points FROM latsweep_axis_counts WHERE sweep_id = @sweep"))
+        {
+            Add(cmd, "sweep", sweepId);
+            using var r = cmd.ExecuteReader();
+            while (r.Read())
+            {
+                var row = (r.GetString(0), r.GetString(1), r.GetString(2), r.GetInt64(3));
+                if (row.Item1 == AxisTally.AllPoints)
+                {
+                    totals = Count(totals, ParsePointState(row.Item3), row.Item4);
+                }
+                else
+                {
+                    rows.Add(row);
+                }
+            }
+        }
+
+        var counts = ReadCounts(c, tx, sweepId);
+        return (rows, totals == counts with { Waiting = counts.Waiting + counts.Running, Running = 0 });
+    }
+
+    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId)
+    {
+        using var c = Open();
+        var sweep = ReadSweeps(c, $"SELECT {SweepColumns} FROM latsweep_sweeps WHERE sweep_id = @key", [("key", sweepId)]).FirstOrDefault();
+        if (sweep is null)
+        {
+            return [];
+        }
+
+        List<(string Column, string Value, string State, long Points)> rows;
+        bool agree;
+        using (var tx = BeginRead(c))
+        {
+            (rows, agree) = ReadAxisCounts(c, tx, sweepId);
+            tx.Commit();
+        }
+
+        if (!agree)
+        {
+            // A sweep from before the table, or written to by a latsweep that does not keep it.
+            using var tx = c.BeginTransaction();
+            LockSweep(c, tx, sweepId);
+            RecountAxes(c, tx, sweepId);
+            (rows, _) = ReadAxisCounts(c, tx, sweepId);
+            tx.Commit();
+        }
+
+        return Coverage(sweep.Axes, rows);
+    }
+
+    /// <summary>The coverage table from the count rows: per axis its declared values in order, then values only points hold (sorted), each value's states summed over the texts that read as it.</summary>
+    private static List<AxisCoverage> Coverage(IEnumerable<AxisInfo> axes, List<(string Column, string Value, string State, long Points)> rows)
+    {
+        var result = new List<AxisCoverage>();
+        foreach (var axis in axes)
+        {
+            var byValue = new Dictionary<string, (object Value, long Total, long Done, long Failed, long Pending, long Cancelled, long Unstable)>(StringComparer.Ordinal);
+            var order = new List<string>();
+            foreach (var v in axis.Values)
+            {
+                var key = CatalogJson.Show(v);
+                if (byValue.TryAdd(key, (v, 0, 0, 0, 0, 0, 0)))
+                {
+                    order.Add(key);
+                }
+            }
+
+            var extra = new List<(object Value, string Key)>();
+            foreach (var (_, text, stateText, n) in rows.Where(r => r.Column == axis.ColumnName))
+            {
+                if (n == 0 || CatalogJson.ReadValue(text, axis.ValueType) is not { } value)
+                {
+                    continue;
+                }
+
+                var key = CatalogJson.Show(value);
+                if (!byValue.TryGetValue(key, out var e))
+                {
+                    e = (value, 0, 0, 0, 0, 0, 0);
+                    extra.Add((value, key));
+                }
+
+                byValue[key] = ParsePointState(stateText) switch
+                {
+                    PointState.Done => e with { Total = e.Total + n, Done = e.Done + n },
+                    PointState.Failed => e with { Total = e.Total + n, Failed = e.Failed + n },
+                    PointState.Cancelled => e with { Total = e.Total + n, Cancelled = e.Cancelled + n },
+                    PointState.Unstable => e with { Total = e.Total + n, Unstable = e.Unstable + n },
+                    _ => e with { Total = e.Total + n, Pending = e.Pending + n },
+                };
+            }
+
+            order.AddRange(extra.OrderBy(x => x.Value is double d ? d : x.Value is long l ? l : 0.0).ThenBy(x => x.Key, StringComparer.Ordinal).Select(x => x.Key));
+            result.Add(new AxisCoverage(axis.ColumnName, axis.Path, axis.Unit,
+                [.. order.Select(k => byValue[k]).Select(e => new AxisValueCoverage(e.Value, e.Total, e.Done, e.Failed, e.Pending, e.Cancelled) { Unstable = e.Unstable })]));
+        }
+
+        return result;
+    }
+}

@@ -1,0 +1,178 @@
+using System.Data.Common;
+using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Queue;
+using LatticeSweep.Worker.Tests.EndToEnd;
+using LatticeSweep.Worker.Tests.Support;
+
+namespace LatticeSweep.Worker.Tests.Catalog;
+
+/// <summary>
+/// The coverage table (points per swept value and state) is kept in the store beside the points:
+/// after every kind of write (claims, mixed completions, a crash and resume, a retried chunk, a
+/// completion delivered twice, cancel and resume, rows changed by a latsweep that does not keep the
+/// table) it must equal a count made here from the points themselves, on both stores.
+/// </summary>
+[Collection(RealStoresCollection.Name)]
+public sealed class AxisCoverageTests : CatalogOnBothStores
+{
+    public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
+
+    /// <summary>7 masses x 3 cells = 21 points in chunks of 4 (the last of 1).</summary>
+    private static LatticeSweep.Worker.Planning.SweepPlan Plan() => SomeSweep.Plan("coverage", masses: [1, 2, 3, 0.1 + 0.2, 5, 6, 7e-300], cells: [4, 8, 16]);
+
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void Coverage_equals_a_count_of_the_points_after_every_kind_of_write(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var (id, chunks) = TestCatalog.Register(catalog, Plan(), Dir.Combine("out"), pointsPerChunk: 4);
+
+        // Each write must keep the table in step itself: its per-state totals (running counted as
+        // waiting) agree with the sweep's counts before the read (a disagreement would be mended by a recount the check below cannot see).
+        IReadOnlyList<AxisCoverage> AssertCoverageMatchesPoints(SqlSweepCatalog catalog, string id, long expectedPoints)
+        {
+            var totals = Query(kind, $"SELECT state, points FROM latsweep_axis_counts WHERE sweep_id = '{id}' AND column_name = ''");
+            var counts = catalog.FindSweep(id)!.Counts;
+            Assert.Equal(counts with { Waiting = counts.Waiting + counts.Running, Running = 0 }, totals.Aggregate(SweepCounts.Empty, (c, t) => SqlSweepCatalog.Count(c, Enum.Parse<PointState>(t.Key, ignoreCase: true), t.Value)));
+            return AxisCoverageTests.AssertCoverageMatchesPoints(catalog, id, expectedPoints);
+        }
+
+        AssertCoverageMatchesPoints(catalog, id, expectedPoints: 21);
+
+        // Chunk 0: mixed outcomes (done, unstable, a model failure, an I/O failure that resume runs again).
+        var claim0 = catalog.BeginChunk(id, chunks[0], "test:1");
+        AssertCoverageMatchesPoints(catalog, id, 21);
+        PointState[] mixed = [PointState.Done, PointState.Unstable, PointState.Failed, PointState.Failed];
+        FailureKind?[] kinds = [null, null, FailureKind.Model, FailureKind.Io];
+        catalog.CompleteChunk(id, chunks[0], [.. claim0.Points.Select((p, i) => Completion(p.PointId, mixed[i], kinds[i]))]);
+        AssertCoverageMatchesPoints(catalog, id, 21);
+
+        // The same completion delivered again (a retried queue job) counts each point once.
+        catalog.CompleteChunk(id, chunks[0], [.. claim0.Points.Select((p, i) => Completion(p.PointId, mixed[i], kinds[i]))]);
+        AssertCoverageMatchesPoints(catalog, id, 21);
+
+        // Chunk 1 is claimed, then its worker dies (no completion); chunk 2 completes; a completion naming a point twice keeps the last.
+        catalog.BeginChunk(id, chunks[1], "test:dead");
+        var claim2 = catalog.BeginChunk(id, chunks[2], "test:1");
+        catalog.CompleteChunk(id, chunks[2], [.. claim2.Points.Select(p => Completion(p.PointId, PointState.Failed, FailureKind.Model)),
+            Completion(claim2.Points[0].PointId, PointState.Done, null)]);
+        AssertCoverageMatchesPoints(catalog, id, 21);
+
+        // Resume: the dead chunk and chunk 0 (its I/O failure has no result) wait again, then run again.
+        var requeued = catalog.RequeueUnfinished(id);
+        Assert.Contains(chunks[0], requeued);
+        Assert.Contains(chunks[1], requeued);
+        AssertCoverageMatchesPoints(catalog, id, 21);
+        foreach (var chunk in new[] { chunks[0], chunks[1] })
+        {
+            var claim = catalog.BeginChunk(id, chunk, "test:2");
+            AssertCoverageMatchesPoints(catalog, id, 21);
+            catalog.CompleteChunk(id, chunk, [.. claim.Points.Select(p => Completion(p.PointId, PointState.Done, null))]);
+            AssertCoverageMatchesPoints(catalog, id, 21);
+        }
+
+        // Cancel with a chunk running and others never claimed, a claim after the cancel, then resume.
+        catalog.BeginChunk(id, chunks[3], "test:3");
+        Assert.True(catalog.Cancel(id));
+        AssertCoverageMatchesPoints(catalog, id, 21);
+        Assert.Equal(ChunkDecision.Cancelled, catalog.BeginChunk(id, chunks[4], "test:3").Decision);
+        AssertCoverageMatchesPoints(catalog, id, 21);
+        catalog.RequeueUnfinished(id);
+        AssertCoverageMatchesPoints(catalog, id, 21);
+        foreach (var chunk in chunks.Skip(3))
+        {
+            var claim = catalog.BeginChunk(id, chunk, "test:4");
+            catalog.CompleteChunk(id, chunk, [.. claim.Points.Select(p => Completion(p.PointId, PointState.Done, null))]);
+        }
+
+        var coverage = AssertCoverageMatchesPoints(catalog, id, 21);
+        var mass = coverage.Single(a => a.ColumnName == SomeSweep.MassColumn);
+        Assert.Equal([1.0, 2, 3, 0.1 + 0.2, 5, 6, 7e-300], mass.Values.Select(v => (double)v.Value));
+        Assert.Equal(21 - 4 + 1, coverage.Single(a => a.ColumnName == SomeSweep.CellsColumn).Values.Sum(v => v.Done + v.Unstable));
+    }
+
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void A_sweep_whose_counts_are_missing_or_stale_is_counted_again_from_its_points(StoreKind kind)
+    {
+        using (var catalog = Open(kind))
+        {
+            var (id, chunks) = TestCatalog.Register(catalog, Plan(), Dir.Combine("out"), pointsPerChunk: 4);
+            var claim = catalog.BeginChunk(id, chunks[1], "test:1");
+            catalog.CompleteChunk(id, chunks[1], [.. claim.Points.Select(p => Completion(p.PointId, PointState.Failed, FailureKind.Model))]);
+
+            // A store from before the table: no rows at all.
+            Sql(kind, $"DELETE FROM latsweep_axis_counts WHERE sweep_id = '{id}'");
+            var recounted = AssertCoverageMatchesPoints(catalog, id, 21);
+            Assert.Equal(4, recounted.Single(a => a.ColumnName == SomeSweep.MassColumn).Values.Sum(v => v.Failed));
+
+            // A latsweep that keeps the sweep's counts but not this table finishes a chunk.
+            Sql(kind, $"UPDATE latsweep_points SET state = 'done' WHERE sweep_id = '{id}' AND chunk_id = '{chunks[1]}'");
+            Sql(kind, $"UPDATE latsweep_sweep_counts SET points = 0 WHERE sweep_id = '{id}' AND state = 'failed'");
+            Sql(kind, $"INSERT INTO latsweep_sweep_counts (sweep_id, state, points) VALUES ('{id}', 'done', 4)");
+            var after = AssertCoverageMatchesPoints(catalog, id, 21);
+            Assert.Equal(0, after.Single(a => a.ColumnName == SomeSweep.MassColumn).Values.Sum(v => v.Failed));
+            Assert.Equal(4, after.Single(a => a.ColumnName == SomeSweep.MassColumn).Values.Sum(v => v.Done));
+        }
+    }
+
+    /// <summary>Asserts the catalog's coverage equals a count of <see cref="ISweepCatalog.GetPoints"/> per column, value and state; returns the coverage.</summary>
+    private static IReadOnlyList<AxisCoverage> AssertCoverageMatchesPoints(SqlSweepCatalog catalog, string id, long expectedPoints)
+    {
+        var points = catalog.GetPoints(id, new PointQuery(Limit: int.MaxValue));
+        Assert.Equal(expectedPoints, points.Count);
+        var coverage = catalog.GetAxisCoverage(id);
+        Assert.Equal(2, coverage.Count);
+        foreach (var axis in coverage)
+        {
+            var expected = points
+                .GroupBy(p => CatalogJson.Show(p.Parameters[axis.ColumnName]))
+                .ToDictionary(g => g.Key, g => (
+                    Total: (long)g.Count(),
+                    Done: g.LongCount(p => p.State == PointState.Done),
+                    Unstable: g.LongCount(p => p.State == PointState.Unstable),
+                    Failed: g.LongCount(p => p.State == PointState.Failed),
+                    Pending: g.LongCount(p => p.State is PointState.Waiting or PointState.Running),
+                    Cancelled: g.LongCount(p => p.State == PointState.Cancelled)));
+            var actual = axis.Values.Where(v => v.Total > 0).ToDictionary(v => CatalogJson.Show(v.Value), v => (v.Total, v.Done, v.Unstable, v.Failed, v.Pending, v.Cancelled));
+            Assert.Equal(expected.OrderBy(e => e.Key, StringComparer.Ordinal), actual.OrderBy(e => e.Key, StringComparer.Ordinal));
+        }
+
+        return coverage;
+    }
+
+    private List<KeyValuePair<string, long>> Query(StoreKind kind, string sql)
+    {
+        using var c = Connect(kind);
+        using var cmd = c.CreateCommand();
+        cmd.CommandText = sql;
+        using var r = cmd.ExecuteReader();
+        var rows = new List<KeyValuePair<string, long>>();
+        while (r.Read())
+        {
+            rows.Add(new(r.GetString(0), r.GetInt64(1)));
+        }
+
+        return rows;
+    }
+
+    private DbConnection Connect(StoreKind kind)
+    {
+        DbConnection c = kind == StoreKind.Sqlite
+            ? new Microsoft.Data.Sqlite.SqliteConnection($"Data Source={Dir.Combine("store.db")};Pooling=False")
+            : new Npgsql.NpgsqlConnection(TestPostgres.InSchema(Schema!));
+        c.Open();
+        return c;
+    }
+
+    private void Sql(StoreKind kind, string sql)
+    {
+        using var c = Connect(kind);
+        using var cmd = c.CreateCommand();
+        cmd.CommandText = sql;
+        cmd.ExecuteNonQuery();
+    }
+
+    private static PointCompletion Completion(string pointId, PointState state, FailureKind? kind) =>
+        new(pointId, state, kind, kind is null ? null : "test failure", DateTimeOffset.UnixEpoch.AddDays(1), DateTimeOffset.UnixEpoch.AddDays(1).AddSeconds(1), 1.0);
+}
