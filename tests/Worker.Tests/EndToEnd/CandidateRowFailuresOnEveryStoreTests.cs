@@ -87,6 +87,9 @@ public sealed class CandidateRowFailuresOnEveryStoreTests : IDisposable
             Assert.EndsWith(" " + expected[(string)row[2]!], error, StringComparison.Ordinal);
         }
 
+        // The README's query for one line per reason: the rows dropped, beta's overlap and the no-y spring of gamma and delta.
+        var reasons = db.Rows($"SELECT count(DISTINCT error), count(DISTINCT regexp_replace(error, ' \\[candidate .*\\]$', '')) FROM {DuckDb.Glob(Path.Combine(_dir.Path, "results", sweepId, "points"))} WHERE state = 'failed'");
+        Assert.Equal((3L, 2L), (Convert.ToInt64(reasons[0][0], CultureInfo.InvariantCulture), Convert.ToInt64(reasons[0][1], CultureInfo.InvariantCulture)));
         Assert.Equal([8L, 16L], rows.Where(r => (string)r[2]! == "delta").Select(r => Convert.ToInt64(r[3], CultureInfo.InvariantCulture)));
     }
 
