@@ -112,7 +112,10 @@ internal static class FailingJobs
     /// position column), "gamma" and "delta" have no transverse spring (their transverse column: with the job
     /// file's own 8 N/m they pass), "epsilon" (-2 N/m) is unstable, not a failure, and "alpha" solves. 6 points fail.
     /// </summary>
-    public const string Candidates = """
+    public static string Candidates => CandidatesSweep + Slide[Slide.IndexOf("[model]", StringComparison.Ordinal)..];
+
+    /// <summary>The sweep section of <see cref="Candidates"/>; its model, sample and output are <see cref="Slide"/>'s.</summary>
+    private const string CandidatesSweep = """
         # Invented demo values: a chain whose candidates come from a table.
         [sweep]
         name = "chain-candidates"
@@ -130,34 +133,6 @@ internal static class FailingJobs
         path = "sample.cells"
         values = [8, 16]
 
-        [model]
-        lattice = "chain"
-        constant_nm = 0.5
-        motion = "3d"
-
-        [[model.sites]]
-        label = "A"
-        position = [0.0]
-        mass_amu = 10.0
-
-        [[model.sites]]
-        label = "B"
-        position = [0.5]
-        mass_amu = 20.0
-
-        [[model.springs]]
-        from = "A"
-        to = "B"
-        shell = 1
-        longitudinal_n_per_m = 30.0
-        transverse_n_per_m = 8.0
-
-        [sample]
-        kind = "finite"
-        cells = 16
-
-        [output]
-        temperatures_k = [10, 100, 300]
         """;
 
     /// <summary>
