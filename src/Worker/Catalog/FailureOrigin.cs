@@ -21,14 +21,21 @@ public enum FailureOriginKind
     InsideSolver,
 }
 
-/// <summary>A swept key a failure is traced to: its field path and <c>FILE:LINE:COL</c> of its values.</summary>
-public sealed record OriginKey(string Path, string Location)
+/// <summary>
+/// A swept key a failure is traced to: its field path and <c>FILE:LINE:COL</c> of its values; for a
+/// column of a candidates table (<paramref name="CandidateColumn"/> set, the column's name in that file),
+/// the failing candidate's row instead: <c>FILE:LINE</c> of a CSV file, <c>FILE row N</c> of a Parquet file.
+/// </summary>
+public sealed record OriginKey(string Path, string Location, string? CandidateColumn = null)
 {
-    /// <summary>The file of <see cref="Location"/>, or null when it is not <c>FILE:LINE:COL</c>.</summary>
-    public string? File => SplitAt() is { } at ? Location[..at] : null;
+    /// <summary>True for a candidates column traced to its row.</summary>
+    public bool IsCandidate => CandidateColumn is not null;
+
+    /// <summary>The file of <see cref="Location"/>, or null when it is not <c>FILE:LINE:COL</c> (or names a candidate's row).</summary>
+    public string? File => !IsCandidate && SplitAt() is { } at ? Location[..at] : null;
 
     /// <summary><c>LINE:COL</c> of <see cref="Location"/> (the whole location when it has no line).</summary>
-    public string Place => SplitAt() is { } at ? Location[(at + 1)..] : Location;
+    public string Place => !IsCandidate && SplitAt() is { } at ? Location[(at + 1)..] : Location;
 
     /// <summary>True for <c>LINE:COL</c>, two positive integers.</summary>
     public static bool IsLineAndColumn(string place)
@@ -70,8 +77,14 @@ public sealed record FailureOrigin(FailureOriginKind Kind, ImmutableArray<Origin
     public string? SharedFile() =>
         Keys.Length > 1 && Keys[0].File is { } file && Keys.All(k => k.File == file) ? file : null;
 
+    /// <summary>
+    /// The failing candidate's row (<c>FILE:LINE</c> or <c>FILE row N</c>) when the failure is traced to columns of
+    /// a candidates table; else null. A point comes from one row, so every candidate key names the same one.
+    /// </summary>
+    public string? CandidateRow => Keys.FirstOrDefault(k => k.IsCandidate)?.Location;
+
     /// <summary>In plain words, for the "where" line of a failure group.</summary>
-    public string Describe() => Kind switch
+    public string Describe() => CandidateRow is { } row ? DescribeCandidate(row) : Kind switch
     {
         FailureOriginKind.SweptValue when Keys.Length == 1 => $"the swept {Keys[0].Path}, values at {Keys[0].Location}",
         FailureOriginKind.SweptValue => "each of the swept " + KeysText(),
@@ -81,6 +94,17 @@ public sealed record FailureOrigin(FailureOriginKind Kind, ImmutableArray<Origin
         FailureOriginKind.InsideSolver => "inside the solver: not tied to a job-file key or value (a numerical failure, or a defect to report)",
         _ => Kind.ToString(),
     };
+
+    /// <summary>The candidate's row and columns first, then any other swept key with its values' place.</summary>
+    private string DescribeCandidate(string row)
+    {
+        var columns = Keys.Where(k => k.IsCandidate).Select(k => $"column {k.CandidateColumn} ({k.Path})").ToList();
+        var others = Keys.Where(k => !k.IsCandidate).Select(k => $"the swept {k.Path}, values at {k.Location}").ToList();
+        var lead = Kind == FailureOriginKind.SweptTogether
+            ? $"the values together (no one alone) of the candidate in {row}: "
+            : $"the candidate in {row}: " + (Keys.Length > 1 ? "each of " : "");
+        return lead + string.Join("; ", columns.Concat(others));
+    }
 
     /// <summary><c>PATH, values at LINE:COL; ... in FILE</c> when they share a file, else each with its <c>FILE:LINE:COL</c>.</summary>
     private string KeysText() =>

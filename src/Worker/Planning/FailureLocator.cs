@@ -48,7 +48,7 @@ internal static class FailureLocator
             var keys = ex.Problems.Select(p => ModelProblemText.JobFileKey(p.Where)).ToList();
             var named = swept.Where(k => keys.Any(k.Touches)).ToList();
             return named.Count > 0
-                ? FailureText.Compose(reason, Origin(FailureOriginKind.SweptValue, named, plan))
+                ? FailureText.Compose(reason, Origin(FailureOriginKind.SweptValue, named, plan, point))
                 : FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.Untraced);
         }
 
@@ -60,7 +60,7 @@ internal static class FailureLocator
             : Trace(plan, point.Parameters, swept, original);
         return kind == FailureOriginKind.JobFileValue
             ? FailureText.Compose(LocatedReason(plan, ex), FailureOrigin.JobFile)
-            : FailureText.Compose(reason, Origin(kind, traced, plan));
+            : FailureText.Compose(reason, Origin(kind, traced, plan, point));
     }
 
     private static readonly ConditionalWeakTable<SweepPlan, ConcurrentDictionary<string, (FailureOriginKind, List<SweptKey>)>> Traced = [];
@@ -143,8 +143,17 @@ internal static class FailureLocator
     /// <summary>The error text of a point that failed inside the solver (not the user's input).</summary>
     public static string DescribeSolverFailure(string reason) => FailureText.Compose(reason, FailureOrigin.Solver);
 
-    private static FailureOrigin Origin(FailureOriginKind kind, IEnumerable<SweptKey> keys, SweepPlan plan) =>
-        new(kind, [.. keys.Select(k => new OriginKey(k.Path, k.Location(plan.SourcePath)))]);
+    /// <summary>
+    /// The keys with their places: a candidates column at the point's row in the candidates file (what a user edits),
+    /// the same for every key of that row; the column's mapping line in the job file only when the row is unknown.
+    /// </summary>
+    private static FailureOrigin Origin(FailureOriginKind kind, IEnumerable<SweptKey> keys, SweepPlan plan, PlannedPoint point)
+    {
+        var row = keys.Any(k => k.CandidateColumn is not null) ? plan.CandidateRowOf(point) : null;
+        return new(kind, [.. keys.OrderBy(k => k.CandidateColumn is null).Select(k => row is not null && k.CandidateColumn is { } column
+            ? new OriginKey(k.Path, row, column)
+            : new OriginKey(k.Path, k.Location(plan.SourcePath)))]);
+    }
 
     /// <summary>Each problem at its job-file key, on one line (the location is the origin's).</summary>
     private static string PlainReason(ModelException ex) =>

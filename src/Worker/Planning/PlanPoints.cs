@@ -72,6 +72,9 @@ public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
         ? g[index].Parameters
         : _parameters!(_expansionIndex is { } e ? e[index] : index);
 
+    /// <summary>The position in the expansion of the point at <paramref name="index"/> (the index itself unless duplicates were collapsed).</summary>
+    internal long ExpansionPositionOf(int index) => _expansionIndex is { } e ? e[index] : index;
+
     /// <summary>Every position, ordered by the point's id (ordinal: the same as by key, the ids being fixed-width hex).</summary>
     public int[] PositionsById()
     {

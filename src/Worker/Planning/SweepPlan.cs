@@ -46,4 +46,34 @@ public sealed record SweepPlan
 
     /// <summary>The candidates file the sweep read, if any (its content is part of <see cref="SpecHash"/>).</summary>
     public string? CandidatesFile { get; init; }
+
+    /// <summary>Each candidate's row in <see cref="CandidatesFile"/>, for a failure traced to a candidates column.</summary>
+    internal CandidateRows? CandidateRows { get; init; }
+
+    /// <summary>
+    /// The candidates row point <paramref name="point"/> comes from (<c>FILE:LINE</c> of a CSV file, <c>FILE row N</c> of
+    /// a Parquet file), or null without a candidates table or for a point that is not this plan's own at its index.
+    /// </summary>
+    internal string? CandidateRowOf(PlannedPoint point)
+    {
+        if (CandidateRows is not { } rows || point.Index < 0 || point.Index >= Points.Count
+            || !string.Equals(Points.IdAt(point.Index), point.PointId, StringComparison.Ordinal))
+        {
+            return null;
+        }
+
+        var row = Points.ExpansionPositionOf(point.Index) / Math.Max(1, rows.PointsPerRow);
+        return row < rows.RowLines.Length ? rows.Place(rows.RowLines[(int)row]) : null;
+    }
+}
+
+/// <summary>
+/// A candidates file's rows: the file, each row's line (CSV) or row number (Parquet), and the points each row
+/// gives (candidates are outermost in the expansion, so position / <paramref name="PointsPerRow"/> is the row).
+/// </summary>
+internal sealed record CandidateRows(string File, bool IsCsv, ImmutableArray<int> RowLines, long PointsPerRow)
+{
+    public string Place(int line) => IsCsv
+        ? $"{File}:{line.ToString(System.Globalization.CultureInfo.InvariantCulture)}"
+        : $"{File} row {line.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
 }

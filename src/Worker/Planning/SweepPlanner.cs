@@ -144,6 +144,11 @@ internal static class SweepPlanner
             DuplicatePointsCollapsed = duplicates,
             Combine = CombineNames[sweep.Combine],
             CandidatesFile = candidateTable?.File,
+            CandidateRows = candidateTable is null ? null : new CandidateRows(
+                Path.GetFullPath(candidateTable.File),
+                Path.GetExtension(candidateTable.File).Equals(".csv", StringComparison.OrdinalIgnoreCase),
+                candidateTable.RowLines,
+                SweepExpansion.Count(sweep.Combine, sweep.Count, null, axes)),
             WarnPointTimeS = sweep.WarnPointTimeS,
         };
     }
@@ -177,7 +182,7 @@ internal static class SweepPlanner
                 {
                     var at = mapping is null ? SourceLocation.Unknown : document.Locate(mapping, csvColumn);
                     at = at.IsKnown ? at : cd.Table.Where("columns");
-                    keys.Add(new SweptKey(field.Path, column.Column, [.. catalog.OtherNamesOf(field)], $"sweep.candidates.columns.{csvColumn}", at.Line, at.Column));
+                    keys.Add(new SweptKey(field.Path, column.Column, [.. catalog.OtherNamesOf(field)], $"sweep.candidates.columns.{csvColumn}", at.Line, at.Column, csvColumn));
                 }
             }
         }

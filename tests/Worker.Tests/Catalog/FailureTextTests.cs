@@ -11,6 +11,9 @@ public sealed class FailureTextTests
         new FailureOrigin(FailureOriginKind.SweptTogether, [new OriginKey("sample.cells", "/j.toml:2:1"), new OriginKey("model.constant_nm", "/j.toml:4:1")]),
         new FailureOrigin(FailureOriginKind.SweptTogether, [new OriginKey("sample.cells", "/odd: name at 3:4/j.toml:2:1"), new OriginKey("model.constant_nm", "/odd: name at 3:4/j.toml:4:1")]),
         new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("sample.cells", "/a.toml:2:1"), new OriginKey("model.constant_nm", "/b.toml:4:1")]),
+        new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("model.sites.B.mass_amu", "/jobs/candidates/x.csv:17", "mass_b")]),
+        new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("model.sites.B.mass_amu", "/odd, column x:3/x.csv:17", "mass (b)"), new OriginKey("model.constant_nm", "/odd, column x:3/x.csv:17", "a_nm"), new OriginKey("sample.cells", "/j.toml:20:1")]),
+        new FailureOrigin(FailureOriginKind.SweptTogether, [new OriginKey("model.sites.B.mass_amu", "/c/x.parquet row 4", "mass_b"), new OriginKey("model.constant_nm", "/c/x.parquet row 4", "a_nm")]),
         FailureOrigin.JobFile,
         FailureOrigin.Untraced,
         FailureOrigin.Solver,
@@ -42,6 +45,34 @@ public sealed class FailureTextTests
         // One key keeps FILE:LINE:COL, the form editors open at the line; keys of two files each name theirs.
         Assert.Equal($"r [swept: a at {file}:7:1]", FailureText.Compose("r", new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("a", file + ":7:1")])));
         Assert.Equal("r [swept: a at /x.toml:7:1; b at /y.toml:9:1]", FailureText.Compose("r", new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("a", "/x.toml:7:1"), new OriginKey("b", "/y.toml:9:1")])));
+    }
+
+    [Fact]
+    public void A_failing_candidate_is_named_by_its_row_in_the_candidates_file_and_its_column()
+    {
+        var one = new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("model.sites.B.mass_amu", "jobs/candidates/x.csv:17", "mass_b")]);
+        Assert.Equal("r [candidate in jobs/candidates/x.csv:17, column mass_b (model.sites.B.mass_amu)]", FailureText.Compose("r", one));
+        Assert.Equal("the candidate in jobs/candidates/x.csv:17: column mass_b (model.sites.B.mass_amu)", one.Describe());
+
+        // Several columns of the row: the row said once; a swept key of the job file keeps its own place.
+        var two = new FailureOrigin(FailureOriginKind.SweptValue, [
+            new OriginKey("model.sites.B.mass_amu", "/c/x.csv:17", "mass_b"),
+            new OriginKey("sample.cells", "/j.toml:20:1"),
+        ]);
+        Assert.Equal("r [candidate in /c/x.csv:17, column mass_b (model.sites.B.mass_amu); sample.cells at /j.toml:20:1]", FailureText.Compose("r", two));
+        Assert.Equal("the candidate in /c/x.csv:17: each of column mass_b (model.sites.B.mass_amu); the swept sample.cells, values at /j.toml:20:1", two.Describe());
+        var together = new FailureOrigin(FailureOriginKind.SweptTogether, [new OriginKey("model.sites.B.mass_amu", "/c/x.parquet row 4", "mass_b"), new OriginKey("model.constant_nm", "/c/x.parquet row 4", "a_nm")]);
+        Assert.Equal("r [candidate together in /c/x.parquet row 4, column mass_b (model.sites.B.mass_amu); column a_nm (model.constant_nm)]", FailureText.Compose("r", together));
+        Assert.StartsWith("the values together (no one alone) of the candidate in /c/x.parquet row 4: ", together.Describe(), StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void A_text_written_before_candidates_named_their_row_still_reads_back()
+    {
+        var (reason, origin) = FailureText.Split("r [swept in /j.toml: model.sites.B.mass_amu at 8:1; sample.cells at 20:1]");
+        Assert.Equal("r", reason);
+        Assert.Equal(new FailureOrigin(FailureOriginKind.SweptValue, [new OriginKey("model.sites.B.mass_amu", "/j.toml:8:1"), new OriginKey("sample.cells", "/j.toml:20:1")]), origin);
+        Assert.Null(origin!.CandidateRow);
     }
 
     [Fact]

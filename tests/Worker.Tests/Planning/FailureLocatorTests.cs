@@ -62,6 +62,32 @@ public sealed class FailureLocatorTests
     }
 
     [Fact]
+    public void A_failing_candidate_is_named_at_its_own_csv_line_after_a_duplicate_row_was_collapsed()
+    {
+        using var dir = new TempFolder();
+        var job = dir.Combine("chain.toml");
+        File.WriteAllText(job, FailingJobs.Candidates);
+        // Invented rows: alpha twice (the second kept once: plan positions no longer equal expansion positions), then beta (B on A) on line 4.
+        File.WriteAllText(dir.Combine("candidates.csv"), "name,pos_b,k_t,mass_b\nalpha,0.5,8,20\nalpha,0.5,8,20\nbeta,0.0,8,20\n");
+        var plan = JobFileLoader.Load(job);
+        Assert.Equal(4, plan.Points.Count);
+        Assert.Equal(2, plan.DuplicatePointsCollapsed);
+
+        foreach (var point in plan.Points.Where(p => (string)p.Parameters["name"] == "beta"))
+        {
+            var refused = Assert.Throws<ModelException>(() => EnginePointSolver.Instance.Solve(plan, point, default));
+            var (reason, origin) = FailureText.Split(FailureLocator.Describe(plan, point, refused));
+            Assert.Contains("sits on site 'A'", reason, StringComparison.Ordinal);
+            Assert.Equal(new OriginKey(Position, $"{dir.Combine("candidates.csv")}:4", "pos_b"), Assert.Single(origin!.Keys));
+
+            // A point that is not the plan's own at its index has no row: the column's mapping line in the job file.
+            var stranger = new PlannedPoint("0000000000000000", point.Index, point.Parameters);
+            var (_, elsewhere) = FailureText.Split(FailureLocator.Describe(plan, stranger, refused));
+            Assert.Equal(new OriginKey(Position, $"{job}:{FailingJobs.LineOf(FailingJobs.Candidates, $"pos_b = \"{Position}\"")}:1"), Assert.Single(elsewhere!.Keys));
+        }
+    }
+
+    [Fact]
     public void A_failure_of_the_job_files_own_values_names_their_line_as_check_does()
     {
         // B written on A in the job file itself; only a mass is swept.

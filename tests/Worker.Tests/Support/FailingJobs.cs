@@ -105,6 +105,47 @@ internal static class FailingJobs
         temperatures_k = [100, 300]
         """;
 
+    /// <summary>
+    /// Invented demo values: the chain of <see cref="Slide"/> with its second atom's place, its spring's transverse
+    /// constant and its mass taken from a candidates table (<see cref="CandidatesCsv"/>), crossed with two sample
+    /// sizes: 5 candidates, 10 points. Worked out by hand as for <see cref="Slide"/>: "beta" puts B on A (its
+    /// position column), "gamma" and "delta" have no transverse spring (their transverse column: with the job
+    /// file's own 8 N/m they pass), "epsilon" (-2 N/m) is unstable, not a failure, and "alpha" solves. 6 points fail.
+    /// </summary>
+    public static string Candidates => CandidatesSweep + Slide[Slide.IndexOf("[model]", StringComparison.Ordinal)..];
+
+    /// <summary>The sweep section of <see cref="Candidates"/>; its model, sample and output are <see cref="Slide"/>'s.</summary>
+    private const string CandidatesSweep = """
+        # Invented demo values: a chain whose candidates come from a table.
+        [sweep]
+        name = "chain-candidates"
+
+        [sweep.candidates]
+        file = "candidates.csv"
+        keep = ["name"]
+
+        [sweep.candidates.columns]
+        pos_b = "model.sites.B.position[0]"
+        k_t = "model.springs[0].transverse_n_per_m"
+        mass_b = "model.sites.B.mass_amu"
+
+        [[sweep.axes]]
+        path = "sample.cells"
+        values = [8, 16]
+
+        """;
+
+    /// <summary>
+    /// The candidates of <see cref="Candidates"/>: gamma's name holds a quoted line break, so the rows after it
+    /// are one line further down than their row number (beta on line 3, gamma on 4, delta on 6).
+    /// </summary>
+    public const string CandidatesCsv = "name,pos_b,k_t,mass_b\n"
+        + "alpha,0.5,8,20\n"
+        + "beta,0.0,8,20\n"
+        + "\"gamma\nsecond line\",0.5,0,20\n"
+        + "delta,0.5,0,25\n"
+        + "epsilon,0.5,-2,20\n";
+
     /// <summary>The 1-based line of the <c>values</c> key of the axis that sweeps <paramref name="path"/> in <paramref name="job"/>.</summary>
     public static int ValuesLine(string job, string path)
     {
