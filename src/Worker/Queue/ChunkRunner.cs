@@ -26,6 +26,9 @@ public sealed class ChunkRunner
     private readonly IPointSolver _solver;
     private readonly TimeProvider _time;
     private readonly ILogger _log;
+
+    // Events about one point's outcome, which the console shows only the first of (Logging.PointLineCap).
+    private readonly ILogger _pointLog;
     private readonly RetryPolicy _retry;
     private readonly string _workerName;
 
@@ -36,6 +39,7 @@ public sealed class ChunkRunner
         _solver = solver;
         _time = time;
         _log = log;
+        _pointLog = log.ForContext(Logging.PointLineCap.Property, true);
         _retry = retry;
         _workerName = workerName;
     }
@@ -192,14 +196,14 @@ public sealed class ChunkRunner
         foreach (var unstable in outcomes.Where(o => o.State == PointState.Unstable))
         {
             Interlocked.Increment(ref _unstablePoints);
-            _log.ForContext(Logging.PointLineCap.Property, true).Information("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) is an unstable model: {Instability}",
+            _pointLog.Information("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) is an unstable model: {Instability}",
                 unstable.Point.PointId, sweepId, chunkId, unstable.Error);
         }
 
         foreach (var failed in outcomes.Where(o => o.State == PointState.Failed))
         {
             Interlocked.Increment(ref _failedPoints);
-            _log.ForContext(Logging.PointLineCap.Property, true).Warning("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) failed, {FailureKind}: {Error}",
+            _pointLog.Warning("Point {PointId} of sweep {SweepId} (chunk {ChunkId}) failed, {FailureKind}: {Error}",
                 failed.Point.PointId, sweepId, chunkId, failed.FailureKind?.ToString().ToLowerInvariant(), failed.Error);
         }
 
