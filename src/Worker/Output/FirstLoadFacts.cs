@@ -99,7 +99,9 @@ internal static class FirstLoadFacts
         }
 
         var temporary = path + ".tmp";
-        await File.WriteAllBytesAsync(temporary, facts, ct).ConfigureAwait(false);
+        // Written inline: the merge stays on its own thread to the end (MergeThread).
+        ct.ThrowIfCancellationRequested();
+        File.WriteAllBytes(temporary, facts);
         using (var written = new FileStream(temporary, FileMode.Open, FileAccess.ReadWrite))
         {
             written.Flush(flushToDisk: true);
@@ -568,7 +570,7 @@ internal static class FirstLoadFacts
             foreach (var file in files)
             {
                 await using var stream = file.OpenRead();
-                await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+                await using var reader = await ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
                 var fields = reader.Schema.GetDataFields();
                 var mine = fields.Select(f => new TableColumn(f.Name, f.ClrType, f.ClrType == typeof(double) || f.ClrType == typeof(int) || f.ClrType == typeof(long) || f.ClrType == typeof(float), IsText(f))).ToList();
                 if (columns is null)
@@ -633,7 +635,7 @@ internal static class FirstLoadFacts
                 }
 
                 await using var stream = file.File.OpenRead();
-                await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+                await using var reader = await ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
                 for (var g = 0; g < reader.RowGroupCount; g++)
                 {
                     using var group = reader.OpenRowGroupReader(g);

@@ -12,7 +12,7 @@ internal static class ParquetTableFile
     public static async Task<Contents> ReadAsync(string file, CancellationToken ct)
     {
         await using var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16);
-        await using var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+        await using var reader = await ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
         var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
         var columns = ColumnsOf(reader, file);
         var fields = reader.Schema.GetDataFields();

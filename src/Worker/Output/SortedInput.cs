@@ -54,7 +54,7 @@ internal sealed class SortedInput : IAsyncDisposable
         var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16);
         try
         {
-            var reader = await ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+            var reader = await ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
             var columns = ParquetTableFile.ColumnsOf(reader, file);
             var groupRows = new List<long>();
             for (var g = 0; g < reader.RowGroupCount; g++)

@@ -78,7 +78,7 @@ internal static partial class StreamingMerge
         long total = 0;
         var wroteGroup = false;
         await using var stream = new FileStream(output, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None);
-        await using (var writer = await ParquetTableWriter.CreateAsync(stream, columns, metadata, ct).ConfigureAwait(false))
+        await using (var writer = await ParquetTableWriter.CreateAsync(new InlineStream(stream), columns, metadata, ct).ConfigureAwait(false))
         {
             while (true)
             {

@@ -167,7 +167,7 @@ internal static partial class StreamingMerge
             var chosenSegment = new int[groupRows];
             var chosenRow = new int[groupRows];
             await using var stream = new FileStream(output, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None);
-            await using (var writer = await ParquetTableWriter.CreateAsync(stream, columns, metadata, ct).ConfigureAwait(false))
+            await using (var writer = await ParquetTableWriter.CreateAsync(new InlineStream(stream), columns, metadata, ct).ConfigureAwait(false))
             {
                 while (true)
                 {

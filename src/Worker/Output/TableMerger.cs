@@ -35,7 +35,7 @@ internal static class TableMerger
         MergeSweepAsync(sweepFolder, tables, MergeBudget.Default, ct, pointsSchema);
 
     /// <summary>Merges every listed table of the sweep folder within <paramref name="budget"/> (tests give a small one to force passes).</summary>
-    internal static async Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, MergeBudget budget, CancellationToken ct,
+    internal static Task<IReadOnlyList<Outcome>> MergeSweepAsync(string sweepFolder, IEnumerable<string> tables, MergeBudget budget, CancellationToken ct,
         IReadOnlyList<ColumnDef>? pointsSchema = null)
     {
         var outcomes = new List<Outcome>();
@@ -44,14 +44,16 @@ internal static class TableMerger
             foreach (var table in tables)
             {
                 using var timing = Queue.StageTimings.MeasureAlone("merge: table " + table);
-                outcomes.Add(await MergeLockedAsync(sweepFolder, table, budget, table == TableNames.Points ? pointsSchema : null, ct).ConfigureAwait(false));
+
+                // A thread of its own per table: the pooled arrays its reads and writes rent go with it (MergeThread).
+                outcomes.Add(MergeThread.Run("merge " + table, () => MergeLockedAsync(sweepFolder, table, budget, table == TableNames.Points ? pointsSchema : null, ct)));
             }
 
             // Every table done: the empty staging folder goes too, so the sweep folder holds tables only.
             RemoveIfEmpty(Path.Combine(sweepFolder, StagingFolderName));
         }
 
-        return outcomes;
+        return Task.FromResult<IReadOnlyList<Outcome>>(outcomes);
     }
 
     /// <summary>
@@ -250,7 +252,7 @@ internal static class TableMerger
         foreach (var input in inputs)
         {
             await using var stream = new FileStream(input.FullName, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 12);
-            await using var reader = await Parquet.ParquetReader.CreateAsync(stream, cancellationToken: ct).ConfigureAwait(false);
+            await using var reader = await Parquet.ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
             var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
             var groupRows = new List<long>();
             for (var g = 0; g < reader.RowGroupCount; g++)
