@@ -58,4 +58,11 @@ public interface ISweepCatalog : IDisposable
 
     /// <summary>For each swept parameter, point counts per value and state (kept in the store: a few rows per value at any sweep size).</summary>
     IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId);
+
+    /// <summary>
+    /// Stores the coverage counts of every sweep whose counts disagree with its point states (a sweep
+    /// from before the counts, or written by a latsweep that does not keep them); returns how many.
+    /// Writes: for the commands that write to the store anyway, never for a read.
+    /// </summary>
+    int CountStaleAxesAgain();
 }

@@ -62,6 +62,8 @@ public sealed class RetryingSweepCatalog : ISweepCatalog
 
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => Retry(() => _inner.GetAxisCoverage(sweepId));
 
+    public int CountStaleAxesAgain() => Retry(_inner.CountStaleAxesAgain);
+
     public void Dispose() => _inner.Dispose();
 
     private T Retry<T>(Func<T> call)

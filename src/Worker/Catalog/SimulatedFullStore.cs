@@ -49,6 +49,8 @@ internal sealed class SimulatedFullStore(ISweepCatalog inner) : ISweepCatalog
 
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => inner.GetAxisCoverage(sweepId);
 
+    public int CountStaleAxesAgain() => inner.CountStaleAxesAgain();
+
     public void Dispose() => inner.Dispose();
 
     // The text Microsoft.Data.Sqlite gives SQLite's own error 13.

@@ -11,8 +11,9 @@ namespace LatticeSweep.Worker.Catalog;
 /// under the sweep's lock, so a point is counted once, in its latest state, through crashes, retries
 /// and re-queues. Reading it is a few rows per swept value however many points the sweep has (reading
 /// every point's parameters took ~3 s for 2 x 10^5 points: bench/README.md, Round 17). Sweeps written
-/// before the table (or by a latsweep that does not know it) are counted again from their points on
-/// the first read that finds the table's per-state totals differ from the sweep's counts.
+/// before the table (or by a latsweep that does not know it), whose per-state totals differ from the
+/// sweep's counts, are counted from their points by each read (which writes nothing) until a command
+/// that writes to the store anyway stores the count (<see cref="CountStaleAxesAgain"/>).
 /// </summary>
 public abstract partial class SqlSweepCatalog
 {
@@ -137,8 +138,8 @@ public abstract partial class SqlSweepCatalog
         AddAxisChange(c, tx, sweepId, waiting, waiting.AllIn(Text(PointState.Cancelled)));
     }
 
-    /// <summary>Counts the sweep's axis values again from its point rows and pending chunks. Call under the sweep's lock.</summary>
-    private static void RecountAxes(DbConnection c, DbTransaction tx, string sweepId)
+    /// <summary>The sweep's axis values counted from its point rows and pending chunks (reads only).</summary>
+    private static AxisTally TallyFromPoints(DbConnection c, DbTransaction tx, string sweepId)
     {
         var tally = new AxisTally(AxisColumns(c, tx, sweepId));
         using (var cmd = Command(c, tx, "SELECT state, parameters_json FROM latsweep_points WHERE sweep_id = @sweep"))
@@ -156,8 +157,69 @@ public abstract partial class SqlSweepCatalog
             AddPendingChunk(c, tx, sweepId, chunk.ChunkId, Text(chunk.State), tally);
         }
 
+        return tally;
+    }
+
+    /// <summary>Counts the sweep's axis values again from its point rows and pending chunks. Call under the sweep's lock.</summary>
+    private static void RecountAxes(DbConnection c, DbTransaction tx, string sweepId)
+    {
+        var tally = TallyFromPoints(c, tx, sweepId);
         Execute(c, tx, "DELETE FROM latsweep_axis_counts WHERE sweep_id = @sweep", ("sweep", sweepId));
         AddAxisChange(c, tx, sweepId, new AxisTally(tally.Columns), tally);
+    }
+
+    /// <summary>The rows of a tally as <see cref="ReadAxisCounts"/> gives them (without the all-points rows).</summary>
+    private static List<(string Column, string Value, string State, long Points)> Rows(AxisTally tally) =>
+        [.. tally.Counts.Where(e => e.Key.Column != AxisTally.AllPoints).Select(e => (e.Key.Column, e.Key.Value, e.Key.State, e.Value))];
+
+    /// <summary>Whether axis-count totals (per state, running with waiting) agree with a sweep's counts.</summary>
+    private static bool AxisTotalsAgree(SweepCounts axisTotals, SweepCounts counts) =>
+        axisTotals == counts with { Waiting = counts.Waiting + counts.Running, Running = 0 };
+
+    public int CountStaleAxesAgain()
+    {
+        using var c = Open();
+        var stale = new List<string>();
+        using (var tx = BeginRead(c))
+        {
+            var totals = new Dictionary<string, SweepCounts>(StringComparer.Ordinal);
+            using (var cmd = Command(c, tx, "SELECT sweep_id, state, points FROM latsweep_axis_counts WHERE column_name = @all"))
+            {
+                Add(cmd, "all", AxisTally.AllPoints);
+                using var r = cmd.ExecuteReader();
+                while (r.Read())
+                {
+                    var id = r.GetString(0);
+                    totals[id] = Count(totals.GetValueOrDefault(id) ?? SweepCounts.Empty, ParsePointState(r.GetString(1)), r.GetInt64(2));
+                }
+            }
+
+            using (var cmd = Command(c, tx, "SELECT sweep_id FROM latsweep_sweeps"))
+            using (var r = cmd.ExecuteReader())
+            {
+                while (r.Read())
+                {
+                    stale.Add(r.GetString(0));
+                }
+            }
+
+            stale.RemoveAll(id => AxisTotalsAgree(totals.GetValueOrDefault(id) ?? SweepCounts.Empty, ReadCounts(c, tx, id)));
+            tx.Commit();
+        }
+
+        foreach (var sweepId in stale)
+        {
+            using var tx = c.BeginTransaction();
+            LockSweep(c, tx, sweepId);
+            if (!ReadAxisCounts(c, tx, sweepId).Agree)
+            {
+                RecountAxes(c, tx, sweepId);
+            }
+
+            tx.Commit();
+        }
+
+        return stale.Count;
     }
 
     /// <summary>The axis counts' rows of one sweep, and whether their per-state totals agree with the sweep's counts.</summary>
@@ -183,8 +245,7 @@ public abstract partial class SqlSweepCatalog
             }
         }
 
-        var counts = ReadCounts(c, tx, sweepId);
-        return (rows, totals == counts with { Waiting = counts.Waiting + counts.Running, Running = 0 });
+        return (rows, AxisTotalsAgree(totals, ReadCounts(c, tx, sweepId)));
     }
 
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId)
@@ -197,20 +258,18 @@ public abstract partial class SqlSweepCatalog
         }
 
         List<(string Column, string Value, string State, long Points)> rows;
-        bool agree;
         using (var tx = BeginRead(c))
         {
-            (rows, agree) = ReadAxisCounts(c, tx, sweepId);
-            tx.Commit();
-        }
+            (rows, var agree) = ReadAxisCounts(c, tx, sweepId);
+            if (!agree)
+            {
+                // A sweep from before the table, or written to by a latsweep that does not keep it:
+                // counted here from its points in the same snapshot, and written by the next command
+                // that writes to the store anyway (CountStaleAxesAgain). A read writes nothing, so it
+                // works on a read-only file or with a database role that may only read.
+                rows = Rows(TallyFromPoints(c, tx, sweepId));
+            }
 
-        if (!agree)
-        {
-            // A sweep from before the table, or written to by a latsweep that does not keep it.
-            using var tx = c.BeginTransaction();
-            LockSweep(c, tx, sweepId);
-            RecountAxes(c, tx, sweepId);
-            (rows, _) = ReadAxisCounts(c, tx, sweepId);
             tx.Commit();
         }
 

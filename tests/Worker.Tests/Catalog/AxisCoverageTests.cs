@@ -116,6 +116,37 @@ public sealed class AxisCoverageTests : CatalogOnBothStores
         }
     }
 
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void A_stale_sweep_is_counted_by_a_read_that_writes_nothing_and_stored_by_the_next_writer(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var (id, chunks) = TestCatalog.Register(catalog, Plan(), Dir.Combine("out"), pointsPerChunk: 4);
+        var claim = catalog.BeginChunk(id, chunks[0], "test:1");
+        catalog.CompleteChunk(id, chunks[0], [.. claim.Points.Select(p => Completion(p.PointId, PointState.Failed, FailureKind.Model))]);
+        Sql(kind, $"DELETE FROM latsweep_axis_counts WHERE sweep_id = '{id}'"); // a store from before the table
+
+        // A reader that may not write: the store opens, the sweep, its failures and its coverage read
+        // right (counted from the points), and nothing is written.
+        using (var reader = OpenReadOnly(kind))
+        {
+            Assert.ThrowsAny<DbException>(() => reader.CountStaleAxesAgain()); // it really may not write
+            Assert.Equal(4, reader.FindSweep(id)!.Counts.Failed);
+            Assert.Equal(4, Assert.Single(reader.GetFailureGroups(id)).Count);
+            var coverage = AssertCoverageMatchesPoints(reader, id, 21);
+            Assert.Equal(4, coverage.Single(a => a.ColumnName == SomeSweep.MassColumn).Values.Sum(v => v.Failed));
+            Assert.Empty(Query(kind, $"SELECT state, points FROM latsweep_axis_counts WHERE sweep_id = '{id}'"));
+        }
+
+        // The next command that writes anyway stores the count, once.
+        Assert.Equal(1, catalog.CountStaleAxesAgain());
+        Assert.Equal(0, catalog.CountStaleAxesAgain());
+        var stored = Query(kind, $"SELECT state, points FROM latsweep_axis_counts WHERE sweep_id = '{id}' AND column_name = ''");
+        Assert.Equal(21, stored.Sum(r => r.Value));
+        Assert.Equal(4, stored.Single(r => r.Key == "failed").Value);
+        AssertCoverageMatchesPoints(catalog, id, 21);
+    }
+
     /// <summary>Asserts the catalog's coverage equals a count of <see cref="ISweepCatalog.GetPoints"/> per column, value and state; returns the coverage.</summary>
     private static IReadOnlyList<AxisCoverage> AssertCoverageMatchesPoints(SqlSweepCatalog catalog, string id, long expectedPoints)
     {

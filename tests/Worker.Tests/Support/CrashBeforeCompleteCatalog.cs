@@ -22,6 +22,8 @@ internal sealed class CrashBeforeCompleteCatalog(ISweepCatalog inner) : ISweepCa
     public FailureGroup? GetFailureGroup(string sweepId, string key) => inner.GetFailureGroup(sweepId, key);
     public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => inner.GetAxisCoverage(sweepId);
 
+    public int CountStaleAxesAgain() => inner.CountStaleAxesAgain();
+
     public void Dispose()
     {
     }
