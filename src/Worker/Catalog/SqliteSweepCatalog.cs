@@ -122,6 +122,8 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
         }
     }
 
+    protected override string NumberOf(string expression) => $"CAST({expression} AS REAL)";
+
     protected override bool TableExists(DbConnection connection, DbTransaction transaction, string table) => InMaster(connection, transaction, "table", table);
 
     protected override bool IndexExists(DbConnection connection, DbTransaction transaction, string index) => InMaster(connection, transaction, "index", index);
