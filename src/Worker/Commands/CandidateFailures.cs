@@ -21,33 +21,34 @@ internal static class CandidateFailures
     /// </summary>
     public static List<List<T>> Merge<T>(IEnumerable<T> groups, Func<T, string> kindAndReason, Func<T, FailureOrigin?> origin, Func<T, long> count)
     {
-        var entries = new List<List<T>>();
-        var byShape = new Dictionary<string, List<T>>(StringComparer.Ordinal);
+        // Each origin parsed once (a reason's text is split on every call of its Origin).
+        var entries = new List<List<(T Group, long Line)>>();
+        var byShape = new Dictionary<string, List<(T, long)>>(StringComparer.Ordinal);
         foreach (var g in groups)
         {
-            if (Shape(kindAndReason(g), origin(g)) is { } shape)
+            var o = origin(g);
+            if (Shape(kindAndReason(g), o) is { } shape)
             {
+                var item = (g, Line(o!.CandidateRow!));
                 if (byShape.TryGetValue(shape, out var entry))
                 {
-                    entry.Add(g);
+                    entry.Add(item);
                     continue;
                 }
 
-                byShape[shape] = entry = [g];
+                byShape[shape] = entry = [item];
                 entries.Add(entry);
             }
             else
             {
-                entries.Add([g]);
+                entries.Add([(g, -1)]);
             }
         }
 
-        foreach (var entry in entries.Where(e => e.Count > 1))
-        {
-            entry.Sort((a, b) => Line(origin(a)!.CandidateRow!).CompareTo(Line(origin(b)!.CandidateRow!)));
-        }
-
-        return [.. entries.Select((e, i) => (Entry: e, Index: i)).OrderByDescending(x => x.Entry.Sum(count)).ThenBy(x => x.Index).Select(x => x.Entry)];
+        return [.. entries
+            .Select((e, i) => (Members: e.OrderBy(m => m.Line).Select(m => m.Group).ToList(), Index: i))
+            .OrderByDescending(x => x.Members.Sum(count)).ThenBy(x => x.Index)
+            .Select(x => x.Members)];
     }
 
     /// <summary>The "from" line of an entry: the origin's own for one group; for several, the candidates' lines and how many.</summary>
