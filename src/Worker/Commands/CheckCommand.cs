@@ -128,6 +128,13 @@ public static class CheckCommand
                 var traced = entry.Sum(e => e.Traced);
                 var count = entry.Sum(e => e.Count);
                 o.WriteLine($"    {(traced < count ? "about " : "")}{N(count)} x {g.ReasonText}");
+                if (traced < count)
+                {
+                    // The untraced points are shared out by reason alone: they may come from other rows or values than the origin below names.
+                    o.WriteLine($"      counted: {N(traced)} {(traced == 1 ? "point" : "points")} traced to the origin below; about {N(count - traced)} more with this reason, met after tracing had used its share of the time budget, " +
+                        "are shared among the reason's groups in proportion to their traced points, so they may come from other candidates' rows or other values");
+                }
+
                 if (g.Origin is not null)
                 {
                     o.WriteLine($"      from: {CandidateFailures.Describe([.. entry.Select(e => e.Origin!)])}");
