@@ -13,45 +13,16 @@ public sealed class LargeAxisCoverageTests
 {
     private const int Values = 2500;
 
-    /// <summary>Invented demo values: one chain, its heavy mass swept over 2,500 values (submitted only, every point waits).</summary>
-    private static readonly string Job = $$"""
-        [sweep]
-        name = "many-masses"
-
-        [[sweep.axes]]
-        path = "model.sites.B.mass_amu"
-        range = { from = 10.0, to = 259.9, steps = {{Values}} }
-
-        [model]
-        lattice = "chain"
-        constant_nm = 0.4
-
-        [[model.sites]]
-        label = "A"
-        position = [0.0]
-        mass_amu = 12.0
-
-        [[model.sites]]
-        label = "B"
-        position = [0.5]
-        mass_amu = 30.0
-
-        [[model.springs]]
-        from = "A"
-        to = "B"
-        shell = 1
-        longitudinal_n_per_m = 40.0
-        transverse_n_per_m = 10.0
-
-        [sample]
-        kind = "finite"
-        cells = 8
-        """;
+    /// <summary>The demo chain of <see cref="DemoJobs.Dispersion"/> with its heavy mass swept over 2,500 values (invented demo values; submitted only, every point waits).</summary>
+    private static readonly string Job = DemoJobs.Dispersion
+        .Replace("name = \"chain-dispersion\"", "name = \"many-masses\"", StringComparison.Ordinal)
+        .Replace("values = [12.0, 18.0, 24.0, 36.0, 48.0, 60.0]", $"range = {{ from = 10.0, to = 259.9, steps = {Values} }}", StringComparison.Ordinal);
 
     [Fact]
     public async Task The_page_and_the_json_list_1000_values_and_the_axis_endpoint_pages_the_rest()
     {
         using var store = DemoStore.Create();
+        Assert.Contains("steps = 2500", Job, StringComparison.Ordinal);
         var id = await store.AddAsync("many-masses.toml", Job, DemoProgress.Queued, pointsPerChunk: 100);
         await using var server = await DashboardServer.StartAsync(store);
         using var http = server.Client();
