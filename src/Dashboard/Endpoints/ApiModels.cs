@@ -63,8 +63,24 @@ public sealed record AxisValueLine(object Value, string ValueText, long Total, l
     public long Unstable { get; init; }
 }
 
-/// <summary>Coverage of one swept parameter.</summary>
-public sealed record AxisLine(string Column, string Path, string Unit, ImmutableArray<AxisValueLine> Values);
+/// <summary>
+/// Coverage of one swept parameter: <see cref="Values"/> from position <see cref="Offset"/> of
+/// <see cref="ValueCount"/>, at most <see cref="ValuesPerPage"/>; <see cref="MoreValues"/> after them,
+/// the next ones at <see cref="NextUrl"/> (null when none are left).
+/// </summary>
+public sealed record AxisLine(string Column, string Path, string Unit, ImmutableArray<AxisValueLine> Values)
+{
+    /// <summary>Values per axis in the sweep's JSON and on its page, and the largest <c>limit</c> of an axis's own endpoint.</summary>
+    public const int ValuesPerPage = 1000;
+
+    public long Offset { get; init; }
+
+    public long ValueCount { get; init; }
+
+    public long MoreValues => Math.Max(0, ValueCount - Offset - Values.Length);
+
+    public string? NextUrl { get; init; }
+}
 
 /// <summary>A failed point as listed in its group.</summary>
 public sealed record FailedPointLine(string PointId, ImmutableSortedDictionary<string, object> Parameters, int Attempts, string? Worker, string Url);
@@ -183,6 +199,9 @@ public static class Links
     public static string Failures(string sweepId, string groupKey) => Sweep(sweepId) + "/failures/" + Uri.EscapeDataString(groupKey);
 
     public static string ApiFailures(string sweepId, string groupKey) => "/api" + Failures(sweepId, groupKey);
+
+    /// <summary>One swept parameter's coverage, <c>?offset=N&amp;limit=M</c> values at a time.</summary>
+    public static string ApiCoverage(string sweepId, string column) => ApiSweep(sweepId) + "/coverage/" + Uri.EscapeDataString(column);
 
     public static string ApiCompare(string sweepId) => ApiSweep(sweepId) + "/compare";
 

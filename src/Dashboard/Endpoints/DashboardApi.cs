@@ -10,6 +10,7 @@ namespace LatticeSweep.Dashboard.Endpoints;
 /// The JSON endpoints (read only; the pages' scripts and scripts of users use them):
 /// <c>/api/sweeps</c>, <c>/api/workers</c>, <c>/api/sweeps/{id}</c>, <c>/api/sweeps/{id}/results</c>,
 /// <c>/api/sweeps/{id}/plots</c>, <c>/api/sweeps/{id}/compare?p=...</c>, <c>/api/sweeps/{id}/failures/{group}?offset=N</c>,
+/// <c>/api/sweeps/{id}/coverage/{column}?offset=N&amp;limit=M</c>,
 /// <c>/api/sweeps/{id}/export.csv</c> and <c>.parquet</c> (files),
 /// <c>/api/sweeps/{id}/points/{point}</c>, <c>/api/sweeps/{id}/points/{point}/curves</c>.
 /// Every endpoint of a sweep's points takes the sweep page's address keys (<see cref="SweepView"/>),
@@ -26,6 +27,23 @@ internal static class DashboardApi
 
         api.MapGet("/sweeps/{sweepId}", async (string sweepId, SweepBoard board, CancellationToken ct) =>
             board.Find(sweepId) is { } sweep ? Results.Ok(await SweepViews.DetailAsync(board, sweep, ct).ConfigureAwait(false)) : NoSweep(sweepId));
+
+        api.MapGet("/sweeps/{sweepId}/coverage/{column}", (string sweepId, string column, long? offset, int? limit, SweepBoard board) =>
+        {
+            if (board.Find(sweepId) is not { } sweep)
+            {
+                return NoSweep(sweepId);
+            }
+
+            if (offset is < 0 || limit is < 1 or > AxisLine.ValuesPerPage)
+            {
+                return Results.BadRequest(new { error = FormattableString.Invariant($"offset must be 0 or more and limit 1 to {AxisLine.ValuesPerPage} (values of one swept parameter per request); got offset {offset ?? 0}, limit {limit ?? AxisLine.ValuesPerPage}") });
+            }
+
+            return SweepViews.Coverage(board, sweep, column, offset ?? 0, limit ?? AxisLine.ValuesPerPage) is { } axis
+                ? Results.Ok(axis)
+                : Results.NotFound(new { error = $"sweep '{sweepId}' sweeps no parameter with column '{column}' (its swept columns: {string.Join(", ", sweep.Axes.Select(a => a.ColumnName))})" });
+        });
 
         api.MapGet("/sweeps/{sweepId}/failures/{groupKey}", (string sweepId, string groupKey, long? offset, int? limit, SweepBoard board) =>
             board.Find(sweepId) is not { } sweep ? NoSweep(sweepId)

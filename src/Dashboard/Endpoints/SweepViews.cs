@@ -26,13 +26,10 @@ internal static class SweepViews
         IReadOnlyList<AxisCoverage> coverage;
         using (StageTimings.Measure("detail: coverage"))
         {
-            coverage = board.Catalog.GetAxisCoverage(sweep.SweepId);
+            coverage = board.Catalog.GetAxisCoverage(sweep.SweepId, new AxisWindow(0, AxisLine.ValuesPerPage));
         }
 
-        var axes = coverage
-            .Select(a => new AxisLine(a.ColumnName, a.Path, Formatting.Show.Unit(a.Unit), [.. a.Values.Select(v =>
-                new AxisValueLine(v.Value, Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled) { Unstable = v.Unstable })]))
-            .ToImmutableArray();
+        var axes = coverage.Select(a => AxisLineOf(sweep, a, AxisLine.ValuesPerPage)).ToImmutableArray();
         FailureSummary failures;
         using (StageTimings.Measure("detail: failures"))
         {
@@ -58,6 +55,31 @@ internal static class SweepViews
             MoreFailureReasons = failures.MoreReasons,
             MoreFailedPoints = failures.MorePoints,
         };
+    }
+
+    /// <summary>One swept parameter's coverage as the page and the JSON show it, with the address of its next <paramref name="limit"/> values.</summary>
+    public static AxisLine AxisLineOf(SweepRecord sweep, AxisCoverage a, int limit)
+    {
+        var next = a.Offset + a.Values.Length;
+        return new AxisLine(a.ColumnName, a.Path, Formatting.Show.Unit(a.Unit), [.. a.Values.Select(v =>
+            new AxisValueLine(v.Value, Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled) { Unstable = v.Unstable })])
+        {
+            Offset = a.Offset,
+            ValueCount = a.ValueCount,
+            NextUrl = next < a.ValueCount
+                ? Links.ApiCoverage(sweep.SweepId, a.ColumnName) + FormattableString.Invariant($"?offset={next}&limit={limit}")
+                : null,
+        };
+    }
+
+    /// <summary>
+    /// One swept parameter's values from <paramref name="offset"/>, at most <paramref name="limit"/>;
+    /// null when the sweep sweeps no parameter of that column.
+    /// </summary>
+    public static AxisLine? Coverage(SweepBoard board, SweepRecord sweep, string column, long offset, int limit)
+    {
+        using var timing = StageTimings.Measure("coverage: one axis");
+        return board.Catalog.GetAxisCoverage(sweep.SweepId, new AxisWindow(offset, limit, column)).FirstOrDefault() is { } a ? AxisLineOf(sweep, a, limit) : null;
     }
 
     /// <summary>One failure group as the pages and the JSON show it, with the page of its points <paramref name="view"/> holds.</summary>

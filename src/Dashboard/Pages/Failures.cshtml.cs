@@ -2,6 +2,7 @@ using LatticeSweep.Dashboard.Endpoints;
 using LatticeSweep.Dashboard.Hosting;
 using LatticeSweep.Dashboard.Progress;
 using LatticeSweep.Worker.Catalog;
+using Microsoft.AspNetCore.Http;
 using Microsoft.AspNetCore.Mvc;
 using Microsoft.AspNetCore.Mvc.RazorPages;
 
@@ -20,18 +21,26 @@ internal sealed class FailuresModel : PageModel
 
     public SweepRecord Sweep { get; private set; } = null!;
 
-    public FailureLine Line { get; private set; } = null!;
+    /// <summary>The page of the group; null when the sweep has no group <see cref="GroupKey"/> (then the page says so, with status 404).</summary>
+    public FailureLine? Line { get; private set; }
+
+    public string GroupKey { get; private set; } = "";
 
     public IActionResult OnGet(string sweepId, string groupKey, long? offset)
     {
-        if (_board.Find(sweepId) is not { } sweep
-            || SweepViews.FailurePage(_board, sweep, groupKey, offset ?? 0, FailureReport.PointsPerGroup) is not { } line)
+        if (_board.Find(sweepId) is not { } sweep)
         {
             return NotFound();
         }
 
         Sweep = sweep;
-        Line = line;
+        GroupKey = groupKey;
+        Line = SweepViews.FailurePage(_board, sweep, groupKey, offset ?? 0, FailureReport.PointsPerGroup);
+        if (Line is null)
+        {
+            Response.StatusCode = StatusCodes.Status404NotFound;
+        }
+
         return Page();
     }
 }

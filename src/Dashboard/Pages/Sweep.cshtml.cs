@@ -64,8 +64,8 @@ internal sealed partial class SweepModel : PageModel
     /// <summary>Rows of the Pareto front listed under the scatter (the plot and the JSON have them all).</summary>
     public const int MaxFrontRows = 12;
 
-    /// <summary>Values of one swept parameter listed in the coverage table (the sweep's JSON and <c>status</c> have them all): an axis of 10^6 values would make a page of 10^6 rows.</summary>
-    public const int MaxCoverageRows = 1000;
+    /// <summary>Values of one swept parameter listed in the coverage table (as in the sweep's JSON; the axis's own endpoint pages the rest, <c>status</c> lists them all): an axis of 10^6 values would make a page of 10^6 rows.</summary>
+    public const int MaxCoverageRows = AxisLine.ValuesPerPage;
 
     /// <summary>Parameters with at most this many values are filtered by ticking values; others by a range.</summary>
     public const int MaxTickedValues = 30;

@@ -2,8 +2,25 @@ using System.Collections.Immutable;
 
 namespace LatticeSweep.Worker.Catalog;
 
-/// <summary>How far each value of one swept parameter has got.</summary>
-public sealed record AxisCoverage(string ColumnName, string Path, string Unit, ImmutableArray<AxisValueCoverage> Values);
+/// <summary>How far each value of one swept parameter has got: <see cref="Values"/> from position <see cref="Offset"/> of <see cref="ValueCount"/>.</summary>
+public sealed record AxisCoverage(string ColumnName, string Path, string Unit, ImmutableArray<AxisValueCoverage> Values)
+{
+    /// <summary>The position of the first of <see cref="Values"/> in the axis's list of values.</summary>
+    public long Offset { get; init; }
+
+    /// <summary>How many values the axis lists in all (those in <see cref="Values"/> and the rest).</summary>
+    public long ValueCount { get; init; }
+}
+
+/// <summary>
+/// Which values of which axes to read: from position <paramref name="Offset"/>, at most
+/// <paramref name="Limit"/> per axis, of every axis or of <paramref name="Column"/> only.
+/// </summary>
+public sealed record AxisWindow(long Offset = 0, int Limit = int.MaxValue, string? Column = null)
+{
+    /// <summary>Every value of every axis.</summary>
+    public static AxisWindow Whole { get; } = new();
+}
 
 /// <summary>Point counts for one value of a swept parameter.</summary>
 public sealed record AxisValueCoverage(object Value, long Total, long Done, long Failed, long Pending, long Cancelled)

@@ -119,4 +119,11 @@ internal static class CatalogSchema
         // Which version's layout the store holds (StoreFormat): checked before these statements run.
         StoreFormat.CreateTable,
     ];
+
+    /// <summary>The tables and indexes the statements (and <paramref name="failedIndexStatement"/>) create, by name.</summary>
+    public static IEnumerable<(string Name, bool IsIndex)> Objects(string failedIndexStatement) =>
+        Statements.Append(failedIndexStatement)
+            .Select(statement => System.Text.RegularExpressions.Regex.Match(statement, @"CREATE (UNIQUE )?(TABLE|INDEX) IF NOT EXISTS (\w+)"))
+            .Where(m => m.Success)
+            .Select(m => (m.Groups[3].Value, m.Groups[2].Value == "INDEX"));
 }

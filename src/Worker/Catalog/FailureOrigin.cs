@@ -95,14 +95,17 @@ public sealed record FailureOrigin(FailureOriginKind Kind, ImmutableArray<Origin
         _ => Kind.ToString(),
     };
 
+    /// <summary>As <see cref="Describe"/> for several candidates' rows of one file that fail alike (<paramref name="rows"/> says which).</summary>
+    public string DescribeCandidates(string rows) => DescribeCandidate(rows, "candidates");
+
     /// <summary>The candidate's row and columns first, then any other swept key with its values' place.</summary>
-    private string DescribeCandidate(string row)
+    private string DescribeCandidate(string row, string candidate = "candidate")
     {
         var columns = Keys.Where(k => k.IsCandidate).Select(k => $"column {k.CandidateColumn} ({k.Path})").ToList();
         var others = Keys.Where(k => !k.IsCandidate).Select(k => $"the swept {k.Path}, values at {k.Location}").ToList();
         var lead = Kind == FailureOriginKind.SweptTogether
-            ? $"the values together (no one alone) of the candidate in {row}: "
-            : $"the candidate in {row}: " + (Keys.Length > 1 ? "each of " : "");
+            ? $"the values together (no one alone) of the {candidate} in {row}: "
+            : $"the {candidate} in {row}: " + (Keys.Length > 1 ? "each of " : "");
         return lead + string.Join("; ", columns.Concat(others));
     }
 

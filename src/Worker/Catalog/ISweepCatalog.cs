@@ -56,6 +56,19 @@ public interface ISweepCatalog : IDisposable
     /// <summary>One failure group by its <see cref="FailureGroup.Key"/>, with its first ids and failing values; null when the sweep has none.</summary>
     FailureGroup? GetFailureGroup(string sweepId, string key);
 
-    /// <summary>For each swept parameter, point counts per value and state (kept in the store: a few rows per value at any sweep size).</summary>
-    IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId);
+    /// <summary>
+    /// For each swept parameter, point counts per value and state (kept in the store: a few rows per
+    /// value at any sweep size), the values <paramref name="window"/> asks for (default: all). An axis
+    /// of up to <see cref="SqlSweepCatalog.DeclaredOrderValues"/> values lists its declared values in
+    /// order, then values only points hold, sorted; a larger one lists them sorted (numbers by value),
+    /// so that a window is read from the store without reading the rest.
+    /// </summary>
+    IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId, AxisWindow? window = null);
+
+    /// <summary>
+    /// Stores the coverage counts of every sweep whose counts disagree with its point states (a sweep
+    /// from before the counts, or written by a latsweep that does not keep them); returns how many.
+    /// Writes: for the commands that write to the store anyway, never for a read.
+    /// </summary>
+    int CountStaleAxesAgain();
 }

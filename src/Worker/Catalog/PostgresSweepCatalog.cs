@@ -49,6 +49,18 @@ public sealed class PostgresSweepCatalog : SqlSweepCatalog
         return Convert.ToInt64(cmd.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture) > 0;
     }
 
+    // A cast of any other text would fail the query: only a JSON number's text is cast.
+    protected override string NumberOf(string expression) =>
+        $"(CASE WHEN {expression} ~ '^-?[0-9]+(\\.[0-9]+)?([eE][-+]?[0-9]+)?$' THEN CAST({expression} AS double precision) END)";
+
+    protected override bool IndexExists(DbConnection connection, DbTransaction transaction, string index)
+    {
+        using var cmd = Command(connection, transaction, "SELECT count(*) FROM pg_indexes WHERE schemaname = @schema AND indexname = @index");
+        Add(cmd, "schema", _schema);
+        Add(cmd, "index", index);
+        return Convert.ToInt64(cmd.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture) > 0;
+    }
+
     // A B-tree entry holds at most about 2.7 kB, and a reason listing many sites' problems is longer: keyed by its hash.
     protected override string FailedIndexStatement =>
         "CREATE INDEX IF NOT EXISTS latsweep_points_failed ON latsweep_points (sweep_id, md5(error), failure_kind, point_index) WHERE state = 'failed'";

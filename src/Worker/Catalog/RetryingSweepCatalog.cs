@@ -60,7 +60,9 @@ public sealed class RetryingSweepCatalog : ISweepCatalog
 
     public FailureGroup? GetFailureGroup(string sweepId, string key) => Retry(() => _inner.GetFailureGroup(sweepId, key));
 
-    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => Retry(() => _inner.GetAxisCoverage(sweepId));
+    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId, AxisWindow? window = null) => Retry(() => _inner.GetAxisCoverage(sweepId, window));
+
+    public int CountStaleAxesAgain() => Retry(_inner.CountStaleAxesAgain);
 
     public void Dispose() => _inner.Dispose();
 

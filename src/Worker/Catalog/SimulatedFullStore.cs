@@ -47,7 +47,9 @@ internal sealed class SimulatedFullStore(ISweepCatalog inner) : ISweepCatalog
 
     public FailureGroup? GetFailureGroup(string sweepId, string key) => inner.GetFailureGroup(sweepId, key);
 
-    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => inner.GetAxisCoverage(sweepId);
+    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId, AxisWindow? window = null) => inner.GetAxisCoverage(sweepId, window);
+
+    public int CountStaleAxesAgain() => inner.CountStaleAxesAgain();
 
     public void Dispose() => inner.Dispose();
 

@@ -11,8 +11,9 @@ namespace LatticeSweep.Worker.Catalog;
 /// under the sweep's lock, so a point is counted once, in its latest state, through crashes, retries
 /// and re-queues. Reading it is a few rows per swept value however many points the sweep has (reading
 /// every point's parameters took ~3 s for 2 x 10^5 points: bench/README.md, Round 17). Sweeps written
-/// before the table (or by a latsweep that does not know it) are counted again from their points on
-/// the first read that finds the table's per-state totals differ from the sweep's counts.
+/// before the table (or by a latsweep that does not know it), whose per-state totals differ from the
+/// sweep's counts, are counted from their points by each read (which writes nothing) until a command
+/// that writes to the store anyway stores the count (<see cref="CountStaleAxesAgain"/>).
 /// </summary>
 public abstract partial class SqlSweepCatalog
 {
@@ -137,8 +138,8 @@ public abstract partial class SqlSweepCatalog
         AddAxisChange(c, tx, sweepId, waiting, waiting.AllIn(Text(PointState.Cancelled)));
     }
 
-    /// <summary>Counts the sweep's axis values again from its point rows and pending chunks. Call under the sweep's lock.</summary>
-    private static void RecountAxes(DbConnection c, DbTransaction tx, string sweepId)
+    /// <summary>The sweep's axis values counted from its point rows and pending chunks (reads only).</summary>
+    private static AxisTally TallyFromPoints(DbConnection c, DbTransaction tx, string sweepId)
     {
         var tally = new AxisTally(AxisColumns(c, tx, sweepId));
         using (var cmd = Command(c, tx, "SELECT state, parameters_json FROM latsweep_points WHERE sweep_id = @sweep"))
@@ -156,39 +157,99 @@ public abstract partial class SqlSweepCatalog
             AddPendingChunk(c, tx, sweepId, chunk.ChunkId, Text(chunk.State), tally);
         }
 
+        return tally;
+    }
+
+    /// <summary>Counts the sweep's axis values again from its point rows and pending chunks. Call under the sweep's lock.</summary>
+    private static void RecountAxes(DbConnection c, DbTransaction tx, string sweepId)
+    {
+        var tally = TallyFromPoints(c, tx, sweepId);
         Execute(c, tx, "DELETE FROM latsweep_axis_counts WHERE sweep_id = @sweep", ("sweep", sweepId));
         AddAxisChange(c, tx, sweepId, new AxisTally(tally.Columns), tally);
     }
 
-    /// <summary>The axis counts' rows of one sweep, and whether their per-state totals agree with the sweep's counts.</summary>
-    private static (List<(string Column, string Value, string State, long Points)> Rows, bool Agree) ReadAxisCounts(DbConnection c, DbTransaction tx, string sweepId)
+    /// <summary>The count rows of a tally (without the all-points rows).</summary>
+    private static List<(string Column, string Value, string State, long Points)> Rows(AxisTally tally) =>
+        [.. tally.Counts.Where(e => e.Key.Column != AxisTally.AllPoints).Select(e => (e.Key.Column, e.Key.Value, e.Key.State, e.Value))];
+
+    /// <summary>Whether axis-count totals (per state, running with waiting) agree with a sweep's counts.</summary>
+    private static bool AxisTotalsAgree(SweepCounts axisTotals, SweepCounts counts) =>
+        axisTotals == counts with { Waiting = counts.Waiting + counts.Running, Running = 0 };
+
+    public int CountStaleAxesAgain()
     {
-        var rows = new List<(string, string, string, long)>();
+        using var c = Open();
+        var stale = new List<string>();
+        using (var tx = BeginRead(c))
+        {
+            var totals = new Dictionary<string, SweepCounts>(StringComparer.Ordinal);
+            using (var cmd = Command(c, tx, "SELECT sweep_id, state, points FROM latsweep_axis_counts WHERE column_name = @all"))
+            {
+                Add(cmd, "all", AxisTally.AllPoints);
+                using var r = cmd.ExecuteReader();
+                while (r.Read())
+                {
+                    var id = r.GetString(0);
+                    totals[id] = Count(totals.GetValueOrDefault(id) ?? SweepCounts.Empty, ParsePointState(r.GetString(1)), r.GetInt64(2));
+                }
+            }
+
+            using (var cmd = Command(c, tx, "SELECT sweep_id FROM latsweep_sweeps"))
+            using (var r = cmd.ExecuteReader())
+            {
+                while (r.Read())
+                {
+                    stale.Add(r.GetString(0));
+                }
+            }
+
+            stale.RemoveAll(id => AxisTotalsAgree(totals.GetValueOrDefault(id) ?? SweepCounts.Empty, ReadCounts(c, tx, id)));
+            tx.Commit();
+        }
+
+        foreach (var sweepId in stale)
+        {
+            using var tx = c.BeginTransaction();
+            LockSweep(c, tx, sweepId);
+            if (!AxisCountsAgree(c, tx, sweepId))
+            {
+                RecountAxes(c, tx, sweepId);
+            }
+
+            tx.Commit();
+        }
+
+        return stale.Count;
+    }
+
+    /// <summary>Whether the sweep's axis-count totals per state (column <see cref="AxisTally.AllPoints"/>) agree with its counts.</summary>
+    private static bool AxisCountsAgree(DbConnection c, DbTransaction tx, string sweepId)
+    {
         var totals = SweepCounts.Empty;
-        using (var cmd = Command(c, tx, "SELECT column_name, value_json, state, points FROM latsweep_axis_counts WHERE sweep_id = @sweep"))
+        using (var cmd = Command(c, tx, "SELECT state, points FROM latsweep_axis_counts WHERE sweep_id = @sweep AND column_name = @all"))
         {
             Add(cmd, "sweep", sweepId);
+            Add(cmd, "all", AxisTally.AllPoints);
             using var r = cmd.ExecuteReader();
             while (r.Read())
             {
-                var row = (r.GetString(0), r.GetString(1), r.GetString(2), r.GetInt64(3));
-                if (row.Item1 == AxisTally.AllPoints)
-                {
-                    totals = Count(totals, ParsePointState(row.Item3), row.Item4);
-                }
-                else
-                {
-                    rows.Add(row);
-                }
+                totals = Count(totals, ParsePointState(r.GetString(0)), r.GetInt64(1));
             }
         }
 
-        var counts = ReadCounts(c, tx, sweepId);
-        return (rows, totals == counts with { Waiting = counts.Waiting + counts.Running, Running = 0 });
+        return AxisTotalsAgree(totals, ReadCounts(c, tx, sweepId));
     }
 
-    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId)
+    /// <summary>
+    /// Axes of up to this many distinct value texts are read whole and list their declared values in
+    /// order, then values only points hold; larger ones list their values sorted, a window at a time
+    /// (the sweep page shows 1,000 per axis; an axis of 10^6 values read whole took every row of it).
+    /// </summary>
+    public const int DeclaredOrderValues = 5000;
+
+    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId, AxisWindow? window = null)
     {
+        window ??= AxisWindow.Whole;
         using var c = Open();
         var sweep = ReadSweeps(c, $"SELECT {SweepColumns} FROM latsweep_sweeps WHERE sweep_id = @key", [("key", sweepId)]).FirstOrDefault();
         if (sweep is null)
@@ -196,26 +257,157 @@ public abstract partial class SqlSweepCatalog
             return [];
         }
 
-        List<(string Column, string Value, string State, long Points)> rows;
-        bool agree;
-        using (var tx = BeginRead(c))
+        var axes = sweep.Axes.Where(a => window.Column is null || a.ColumnName == window.Column).ToList();
+        var result = new List<AxisCoverage>();
+        using var tx = BeginRead(c);
+        if (!AxisCountsAgree(c, tx, sweepId))
         {
-            (rows, agree) = ReadAxisCounts(c, tx, sweepId);
-            tx.Commit();
+            // A sweep from before the table, or written to by a latsweep that does not keep it:
+            // counted here from its points in the same snapshot, and written by the next command
+            // that writes to the store anyway (CountStaleAxesAgain). A read writes nothing, so it
+            // works on a read-only file or with a database role that may only read.
+            var rows = Rows(TallyFromPoints(c, tx, sweepId));
+            result.AddRange(Coverage(axes, rows).Select(a => Window(a, window)));
+        }
+        else
+        {
+            foreach (var axis in axes)
+            {
+                var texts = ValueTextCount(c, tx, sweepId, axis.ColumnName);
+                if (texts <= DeclaredOrderValues)
+                {
+                    result.Add(Window(Coverage([axis], AxisRows(c, tx, sweepId, axis.ColumnName, null))[0], window));
+                }
+                else
+                {
+                    var page = PageOfTexts(c, tx, sweepId, axis, window);
+                    var covered = SortedCoverage(axis, page, AxisRows(c, tx, sweepId, axis.ColumnName, page));
+                    result.Add(covered with { Offset = window.Offset, ValueCount = texts });
+                }
+            }
         }
 
-        if (!agree)
-        {
-            // A sweep from before the table, or written to by a latsweep that does not keep it.
-            using var tx = c.BeginTransaction();
-            LockSweep(c, tx, sweepId);
-            RecountAxes(c, tx, sweepId);
-            (rows, _) = ReadAxisCounts(c, tx, sweepId);
-            tx.Commit();
-        }
-
-        return Coverage(sweep.Axes, rows);
+        tx.Commit();
+        return result;
     }
+
+    /// <summary>The part of a whole axis's coverage the window asks for.</summary>
+    private static AxisCoverage Window(AxisCoverage whole, AxisWindow window) =>
+        whole with
+        {
+            Values = [.. whole.Values.Skip((int)Math.Min(window.Offset, int.MaxValue)).Take(window.Limit)],
+            Offset = window.Offset,
+            ValueCount = whole.Values.Length,
+        };
+
+    /// <summary>How many value texts of one axis have points (a value a later latsweep wrote with another text counts twice).</summary>
+    private static long ValueTextCount(DbConnection c, DbTransaction tx, string sweepId, string column)
+    {
+        using var cmd = Command(c, tx, """
+            SELECT count(*) FROM (SELECT value_json FROM latsweep_axis_counts
+            WHERE sweep_id = @sweep AND column_name = @column GROUP BY value_json HAVING sum(points) <> 0) t
+            """);
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "column", column);
+        return Convert.ToInt64(cmd.ExecuteScalar(), CultureInfo.InvariantCulture);
+    }
+
+    /// <summary>The value texts of one large axis in the window, sorted in the store (numbers by value, then by text).</summary>
+    private List<string> PageOfTexts(DbConnection c, DbTransaction tx, string sweepId, AxisInfo axis, AxisWindow window)
+    {
+        var order = axis.ValueType == AxisValueType.Text ? "value_json" : $"({NumberOf("value_json")} IS NULL), {NumberOf("value_json")}, value_json";
+        using var cmd = Command(c, tx, $"""
+            SELECT value_json FROM latsweep_axis_counts WHERE sweep_id = @sweep AND column_name = @column
+            GROUP BY value_json HAVING sum(points) <> 0 ORDER BY {order} LIMIT @limit OFFSET @offset
+            """);
+        Add(cmd, "sweep", sweepId);
+        Add(cmd, "column", axis.ColumnName);
+        Add(cmd, "limit", (long)window.Limit);
+        Add(cmd, "offset", window.Offset);
+        using var r = cmd.ExecuteReader();
+        var texts = new List<string>();
+        while (r.Read())
+        {
+            texts.Add(r.GetString(0));
+        }
+
+        return texts;
+    }
+
+    /// <summary>A JSON number's text as a number in SQL for sorting (null for any other text).</summary>
+    protected abstract string NumberOf(string expression);
+
+    /// <summary>The count rows of one axis: every value, or only the value texts in <paramref name="texts"/>.</summary>
+    private static List<(string Column, string Value, string State, long Points)> AxisRows(DbConnection c, DbTransaction tx, string sweepId, string column, List<string>? texts)
+    {
+        var rows = new List<(string, string, string, long)>();
+        const int PerStatement = 500;
+        for (var start = 0; texts is null ? start == 0 : start < texts.Count; start += PerStatement)
+        {
+            var sql = new System.Text.StringBuilder("SELECT value_json, state, points FROM latsweep_axis_counts WHERE sweep_id = @sweep AND column_name = @column");
+            using var cmd = Command(c, tx, "");
+            Add(cmd, "sweep", sweepId);
+            Add(cmd, "column", column);
+            if (texts is not null)
+            {
+                var part = texts.Skip(start).Take(PerStatement).ToList();
+                sql.Append(" AND value_json IN (").Append(string.Join(", ", part.Select((_, i) => "@v" + i.ToString(CultureInfo.InvariantCulture)))).Append(')');
+                for (var i = 0; i < part.Count; i++)
+                {
+                    Add(cmd, "v" + i.ToString(CultureInfo.InvariantCulture), part[i]);
+                }
+            }
+
+            cmd.CommandText = sql.ToString();
+            using var r = cmd.ExecuteReader();
+            while (r.Read())
+            {
+                rows.Add((column, r.GetString(0), r.GetString(1), r.GetInt64(2)));
+            }
+        }
+
+        return rows;
+    }
+
+    /// <summary>The coverage of a large axis's window: its value texts in the store's order, each value's states summed over the texts that read as it.</summary>
+    private static AxisCoverage SortedCoverage(AxisInfo axis, List<string> page, List<(string Column, string Value, string State, long Points)> rows)
+    {
+        var byText = rows.GroupBy(r => r.Value, StringComparer.Ordinal).ToDictionary(g => g.Key, g => g.ToList(), StringComparer.Ordinal);
+        var byValue = new Dictionary<string, AxisValueCoverage>(StringComparer.Ordinal);
+        var order = new List<string>();
+        foreach (var text in page)
+        {
+            if (CatalogJson.ReadValue(text, axis.ValueType) is not { } value)
+            {
+                continue;
+            }
+
+            var key = CatalogJson.Show(value);
+            if (!byValue.TryGetValue(key, out var e))
+            {
+                e = new AxisValueCoverage(value, 0, 0, 0, 0, 0);
+                order.Add(key);
+            }
+
+            foreach (var (_, _, state, n) in byText.GetValueOrDefault(text) ?? [])
+            {
+                e = Counted(e, ParsePointState(state), n);
+            }
+
+            byValue[key] = e;
+        }
+
+        return new AxisCoverage(axis.ColumnName, axis.Path, axis.Unit, [.. order.Select(k => byValue[k])]);
+    }
+
+    private static AxisValueCoverage Counted(AxisValueCoverage e, PointState state, long n) => state switch
+    {
+        PointState.Done => e with { Total = e.Total + n, Done = e.Done + n },
+        PointState.Failed => e with { Total = e.Total + n, Failed = e.Failed + n },
+        PointState.Cancelled => e with { Total = e.Total + n, Cancelled = e.Cancelled + n },
+        PointState.Unstable => e with { Total = e.Total + n, Unstable = e.Unstable + n },
+        _ => e with { Total = e.Total + n, Pending = e.Pending + n },
+    };
 
     /// <summary>The coverage table from the count rows: per axis its declared values in order, then values only points hold (sorted), each value's states summed over the texts that read as it.</summary>
     private static List<AxisCoverage> Coverage(IEnumerable<AxisInfo> axes, List<(string Column, string Value, string State, long Points)> rows)

@@ -83,13 +83,23 @@ public abstract partial class SqlSweepCatalog
     /// version), taken once from their point rows. A sweep always has a count row from its
     /// registration on, so the check is one index lookup per sweep.
     /// </summary>
+    private const string UncountedSweepsSql = """
+        SELECT sweep_id FROM latsweep_sweeps s
+        WHERE NOT EXISTS (SELECT 1 FROM latsweep_sweep_counts k WHERE k.sweep_id = s.sweep_id)
+        """;
+
+    /// <summary>Whether some sweep has no counts yet (a store from before the counts table).</summary>
+    private static bool HasUncountedSweeps(DbConnection c, DbTransaction tx)
+    {
+        using var cmd = Command(c, tx, UncountedSweepsSql);
+        using var r = cmd.ExecuteReader();
+        return r.Read();
+    }
+
     private static void CountOlderSweeps(DbConnection c, DbTransaction tx)
     {
         var missing = new List<string>();
-        using (var cmd = Command(c, tx, """
-            SELECT sweep_id FROM latsweep_sweeps s
-            WHERE NOT EXISTS (SELECT 1 FROM latsweep_sweep_counts k WHERE k.sweep_id = s.sweep_id)
-            """))
+        using (var cmd = Command(c, tx, UncountedSweepsSql))
         using (var r = cmd.ExecuteReader())
         {
             while (r.Read())

@@ -35,6 +35,13 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     protected void EnsureSchema()
     {
         using var c = Open();
+        if (SchemaInPlace(c))
+        {
+            // Nothing to create, stamp or count: a store this version wrote opens without a write,
+            // so a read-only file or a database role that may only read can still show it.
+            return;
+        }
+
         using var tx = c.BeginTransaction();
         BeforeSchema(c, tx);
         StoreFormat.Check(c, tx, table => TableExists(c, tx, table));
@@ -52,6 +59,20 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
 
     /// <summary>Whether the store already has <paramref name="table"/> (in the store's schema on PostgreSQL).</summary>
     protected abstract bool TableExists(DbConnection connection, DbTransaction transaction, string table);
+
+    /// <summary>Whether the store already has the index <paramref name="index"/> (in the store's schema on PostgreSQL).</summary>
+    protected abstract bool IndexExists(DbConnection connection, DbTransaction transaction, string index);
+
+    /// <summary>Whether every table and index is there, the store is stamped with this format and every sweep has its counts (reads only).</summary>
+    private bool SchemaInPlace(DbConnection c)
+    {
+        using var tx = BeginRead(c);
+        var inPlace = CatalogSchema.Objects(FailedIndexStatement).All(o => o.IsIndex ? IndexExists(c, tx, o.Name) : TableExists(c, tx, o.Name))
+            && StoreFormat.IsCurrent(c, tx)
+            && !HasUncountedSweeps(c, tx);
+        tx.Commit();
+        return inPlace;
+    }
 
     public bool Register(NewSweep sweep)
     {

@@ -16,13 +16,22 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
     private readonly string _connectionString;
 
     public SqliteSweepCatalog(string databasePath, TimeProvider time)
+        : this(databasePath, time, readOnly: false)
+    {
+    }
+
+    /// <param name="readOnly">
+    /// Opens the file for reading only, as SQLite does by itself with a file the process may not
+    /// write (then every write fails with SQLite's error 8, "attempt to write a readonly database").
+    /// </param>
+    public SqliteSweepCatalog(string databasePath, TimeProvider time, bool readOnly)
         : base(time)
     {
         ArgumentException.ThrowIfNullOrWhiteSpace(databasePath);
         _connectionString = new SqliteConnectionStringBuilder
         {
             DataSource = databasePath,
-            Mode = SqliteOpenMode.ReadWriteCreate,
+            Mode = readOnly ? SqliteOpenMode.ReadOnly : SqliteOpenMode.ReadWriteCreate,
             Pooling = true,
             DefaultTimeout = (int)BusyTimeout.TotalSeconds,
         }.ToString();
@@ -113,10 +122,17 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
         }
     }
 
-    protected override bool TableExists(DbConnection connection, DbTransaction transaction, string table)
+    protected override string NumberOf(string expression) => $"CAST({expression} AS REAL)";
+
+    protected override bool TableExists(DbConnection connection, DbTransaction transaction, string table) => InMaster(connection, transaction, "table", table);
+
+    protected override bool IndexExists(DbConnection connection, DbTransaction transaction, string index) => InMaster(connection, transaction, "index", index);
+
+    private static bool InMaster(DbConnection connection, DbTransaction transaction, string type, string name)
     {
-        using var cmd = Command(connection, transaction, "SELECT count(*) FROM sqlite_master WHERE type = 'table' AND name = @table");
-        Add(cmd, "table", table);
+        using var cmd = Command(connection, transaction, "SELECT count(*) FROM sqlite_master WHERE type = @type AND name = @name");
+        Add(cmd, "type", type);
+        Add(cmd, "name", name);
         return Convert.ToInt64(cmd.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture) > 0;
     }
 

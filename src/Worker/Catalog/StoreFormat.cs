@@ -76,6 +76,9 @@ internal static partial class StoreFormat
         }
     }
 
+    /// <summary>Whether the store is stamped with <see cref="Current"/> (its table must exist).</summary>
+    public static bool IsCurrent(DbConnection c, DbTransaction tx) => Recorded(c, tx) is { Format: Current };
+
     /// <summary>The columns each catalog table must have, read from the schema's own CREATE TABLE statements.</summary>
     internal static IReadOnlyList<(string Table, IReadOnlyList<string> Columns)> ExpectedColumns() =>
         [.. CatalogSchema.Statements.Select(s => CreateTablePattern().Match(s)).Where(m => m.Success).Select(m => (

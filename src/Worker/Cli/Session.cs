@@ -63,7 +63,23 @@ internal sealed class Session : IDisposable
         Serilog.Log.Logger = log;
         try
         {
-            return new Session(QueueStore.Open(location, context.Time, options, log), log, progress, logFile, faults);
+            var store = QueueStore.Open(location, context.Time, options, log);
+            if (Writes(line.Command))
+            {
+                // Coverage counts of sweeps from before them are stored by a command that writes
+                // anyway; status and the dashboard count such a sweep from its points, writing nothing.
+                try
+                {
+                    store.Catalog.CountStaleAxesAgain();
+                }
+                catch
+                {
+                    store.Dispose();
+                    throw;
+                }
+            }
+
+            return new Session(store, log, progress, logFile, faults);
         }
         catch
         {
@@ -71,6 +87,9 @@ internal sealed class Session : IDisposable
             throw;
         }
     }
+
+    /// <summary>The commands that write to the store (claims, results, states) anyway.</summary>
+    private static bool Writes(string command) => command is "run" or "submit" or "work" or "resume" or "merge" or "cancel";
 
     /// <summary>
     /// <c>--reclaim-after SECONDS</c>, else <see cref="QueueTimings.ReclaimAfterVariable"/>, else the

@@ -70,14 +70,15 @@ internal static class StatusCommand
         {
             o.WriteLine();
             o.WriteLine("Failures by reason:");
-            foreach (var g in groups.Take(ReasonsShown))
+            var entries = FailureGroupText.Entries(groups);
+            foreach (var entry in entries.Take(ReasonsShown))
             {
-                FailureGroupText.Write(o, g, "  ");
+                FailureGroupText.Write(o, entry, "  ");
             }
 
-            if (groups.Count > ReasonsShown)
+            if (entries.Count > ReasonsShown)
             {
-                o.WriteLine($"  ... {N(groups.Count - ReasonsShown)} more reasons ({N(groups.Skip(ReasonsShown).Sum(g => g.Count))} points): the error column of points/ in {sweep.OutputFolder}");
+                o.WriteLine($"  ... {N(entries.Count - ReasonsShown)} more reasons ({N(entries.Skip(ReasonsShown).Sum(e => e.Sum(g => g.Count)))} points): the error column of points/ in {sweep.OutputFolder}");
             }
         }
 

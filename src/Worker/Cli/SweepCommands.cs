@@ -313,14 +313,15 @@ internal static class SweepCommands
         if (groups.Count > 0)
         {
             o.WriteLine("Failures by reason:");
-            foreach (var g in groups.Take(5))
+            var entries = FailureGroupText.Entries(groups);
+            foreach (var entry in entries.Take(5))
             {
-                FailureGroupText.Write(o, g, "  ");
+                FailureGroupText.Write(o, entry, "  ");
             }
 
-            if (groups.Count > 5)
+            if (entries.Count > 5)
             {
-                o.WriteLine($"  ... {groups.Count - 5} more reasons: latsweep status {sweep.SweepId}");
+                o.WriteLine($"  ... {entries.Count - 5} more reasons: latsweep status {sweep.SweepId}");
             }
         }
 

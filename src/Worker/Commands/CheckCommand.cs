@@ -120,28 +120,41 @@ public static class CheckCommand
         if (f.WillFail > 0)
         {
             o.WriteLine(f.Evaluated == 1 && !f.Sampled ? "  will fail    the one point" : $"  will fail    {N(f.WillFail)} of {N(f.Evaluated)}{(f.Sampled ? " checked" : "")} points");
-            foreach (var g in f.Failures.Take(5))
+            // Failing candidates that fail alike are one entry (their lines, their total), as run and status print them.
+            var entries = CandidateFailures.Merge(f.Failures, g => g.ReasonText, g => g.Origin, g => g.Count);
+            foreach (var entry in entries.Take(5))
             {
-                o.WriteLine($"    {(g.Traced < g.Count ? "about " : "")}{N(g.Count)} x {g.ReasonText}");
-                if (g.Origin is { } origin)
+                var g = entry[0];
+                var traced = entry.Sum(e => e.Traced);
+                var count = entry.Sum(e => e.Count);
+                o.WriteLine($"    {(traced < count ? "about " : "")}{N(count)} x {g.ReasonText}");
+                if (traced < count)
                 {
-                    o.WriteLine($"      from: {origin.Describe()}");
+                    // The untraced points are shared out by reason alone: they may come from other rows or values than the origin below names.
+                    o.WriteLine($"      counted: {N(traced)} {(traced == 1 ? "point" : "points")} traced to the origin below; about {N(count - traced)} more with this reason, met after tracing had used its share of the time budget, " +
+                        "are shared among the reason's groups in proportion to their traced points, so they may come from other candidates' rows or other values");
                 }
 
-                if (g.Values.Length > 0)
+                if (g.Origin is not null)
                 {
-                    o.WriteLine($"      failing values: {string.Join("; ", g.Values.Select(v => v.ToString()))}{(g.Traced < g.Count ? $" (of the {N(g.Traced)} points traced; the reason's other points are counted into its groups in proportion)" : "")}");
+                    o.WriteLine($"      from: {CandidateFailures.Describe([.. entry.Select(e => e.Origin!)])}");
                 }
 
-                foreach (var p in g.Examples)
+                var values = entry.Select(e => string.Join("; ", e.Values.Select(v => v.ToString()))).Distinct(StringComparer.Ordinal).ToList();
+                if (values is [{ Length: > 0 } same])
+                {
+                    o.WriteLine($"      failing values: {same}{(traced < count ? $" (of the {N(traced)} points traced; the reason's other points are counted into its groups in proportion)" : "")}");
+                }
+
+                foreach (var p in entry.Count == 1 ? g.Examples.AsEnumerable() : entry.SelectMany(e => e.Examples.Take(1)).Take(3))
                 {
                     o.WriteLine($"      e.g. point {p.PointId} ({Describe(p)})");
                 }
             }
 
-            if (f.Failures.Length > 5)
+            if (entries.Count > 5)
             {
-                o.WriteLine($"    ... {f.Failures.Length - 5} more reasons");
+                o.WriteLine($"    ... {entries.Count - 5} more reasons");
             }
         }
         else

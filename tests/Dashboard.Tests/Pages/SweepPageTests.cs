@@ -283,6 +283,37 @@ public sealed class SweepPageTests
     }
 
     [Fact]
+    public async Task A_failure_groups_page_past_its_end_says_so_and_links_to_its_first_page()
+    {
+        using var catalog = _f.Store.OpenCatalog();
+        var group = catalog.GetFailureGroups(_f.FailuresId)[0];
+        using var http = _f.Server.Client();
+        var page = await Html.GetAsync(http, $"/sweeps/{_f.FailuresId}/failures/{Uri.EscapeDataString(group.Key)}?offset=100000");
+        var block = page.QuerySelector("#failures .failure")!;
+        var text = Html.Text(block, "past-end");
+        Assert.Contains($"No points at offset 100,000: this group has {group.Count:N0} point", text, StringComparison.Ordinal);
+        Assert.Equal($"/sweeps/{_f.FailuresId}/failures/{Uri.EscapeDataString(group.Key)}?offset=0", block.QuerySelector("[data-field=first-page]")!.GetAttribute("href"));
+        Assert.Null(block.QuerySelector("[data-field=shown]"));
+        Assert.Null(block.QuerySelector("table"));
+
+        // The first page it links to lists the group's first points.
+        var first = await Html.GetAsync(http, $"/sweeps/{_f.FailuresId}/failures/{Uri.EscapeDataString(group.Key)}?offset=0");
+        Assert.StartsWith("Points 1 to ", Html.Text(first.QuerySelector("#failures .failure")!, "shown"), StringComparison.Ordinal);
+        Assert.Equal((int)Math.Min(group.Count, 200), first.QuerySelectorAll("#failures .failure tbody tr").Length);
+    }
+
+    [Fact]
+    public async Task An_unknown_failure_group_gets_404_with_a_link_to_the_sweeps_groups()
+    {
+        using var http = _f.Server.Client();
+        var page = await Html.GetAsync(http, $"/sweeps/{_f.FailuresId}/failures/no-such-group", HttpStatusCode.NotFound);
+        var text = Html.Text(page.DocumentElement, "no-group");
+        Assert.Contains("This sweep has no failure group no-such-group", text, StringComparison.Ordinal);
+        Assert.Equal($"/sweeps/{_f.FailuresId}#failures", page.QuerySelector("[data-field=sweep-failures]")!.GetAttribute("href"));
+        Assert.DoesNotContain("Exception", page.DocumentElement.TextContent, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public async Task An_unknown_sweep_gets_404()
     {
         using var http = _f.Server.Client();

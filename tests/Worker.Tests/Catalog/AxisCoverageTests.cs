@@ -116,6 +116,84 @@ public sealed class AxisCoverageTests : CatalogOnBothStores
         }
     }
 
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void A_stale_sweep_is_counted_by_a_read_that_writes_nothing_and_stored_by_the_next_writer(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var (id, chunks) = TestCatalog.Register(catalog, Plan(), Dir.Combine("out"), pointsPerChunk: 4);
+        var claim = catalog.BeginChunk(id, chunks[0], "test:1");
+        catalog.CompleteChunk(id, chunks[0], [.. claim.Points.Select(p => Completion(p.PointId, PointState.Failed, FailureKind.Model))]);
+        Sql(kind, $"DELETE FROM latsweep_axis_counts WHERE sweep_id = '{id}'"); // a store from before the table
+
+        // A reader that may not write: the store opens, the sweep, its failures and its coverage read
+        // right (counted from the points), and nothing is written.
+        using (var reader = OpenReadOnly(kind))
+        {
+            Assert.ThrowsAny<DbException>(() => reader.CountStaleAxesAgain()); // it really may not write
+            Assert.Equal(4, reader.FindSweep(id)!.Counts.Failed);
+            Assert.Equal(4, Assert.Single(reader.GetFailureGroups(id)).Count);
+            var coverage = AssertCoverageMatchesPoints(reader, id, 21);
+            Assert.Equal(4, coverage.Single(a => a.ColumnName == SomeSweep.MassColumn).Values.Sum(v => v.Failed));
+            Assert.Empty(Query(kind, $"SELECT state, points FROM latsweep_axis_counts WHERE sweep_id = '{id}'"));
+        }
+
+        // The next command that writes anyway stores the count, once.
+        Assert.Equal(1, catalog.CountStaleAxesAgain());
+        Assert.Equal(0, catalog.CountStaleAxesAgain());
+        var stored = Query(kind, $"SELECT state, points FROM latsweep_axis_counts WHERE sweep_id = '{id}' AND column_name = ''");
+        Assert.Equal(21, stored.Sum(r => r.Value));
+        Assert.Equal(4, stored.Single(r => r.Key == "failed").Value);
+        AssertCoverageMatchesPoints(catalog, id, 21);
+    }
+
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void An_axis_of_more_values_than_the_declared_order_limit_is_read_a_window_at_a_time_sorted(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var values = SqlSweepCatalog.DeclaredOrderValues + 1000;
+        // Declared largest first: an axis this large lists its values sorted by value, a window at a time.
+        var masses = Enumerable.Range(0, values).Select(i => 1.0 + (values - i) * 0.01).ToArray();
+        var (id, chunks) = TestCatalog.Register(catalog, SomeSweep.Plan("large axis", masses: masses, cells: [4]), Dir.Combine("out"), pointsPerChunk: 500);
+        var claim = catalog.BeginChunk(id, chunks[0], "test:1");
+        catalog.CompleteChunk(id, chunks[0], [.. claim.Points.Select((p, i) => Completion(p.PointId, i % 3 == 0 ? PointState.Failed : PointState.Done, i % 3 == 0 ? FailureKind.Model : null))]);
+
+        var whole = AssertCoverageMatchesPoints(catalog, id, values).Single(a => a.ColumnName == SomeSweep.MassColumn);
+        var ascending = masses.Order().ToList();
+        Assert.Equal(ascending, whole.Values.Select(v => (double)v.Value));
+        Assert.Equal(values, whole.ValueCount);
+
+        // The window at the end of the axis, and one per column: the small axis keeps its declared order.
+        var end = catalog.GetAxisCoverage(id, new AxisWindow(values - 10, 20, SomeSweep.MassColumn)).Single();
+        Assert.Equal(values - 10, end.Offset);
+        Assert.Equal(values, end.ValueCount);
+        Assert.Equal(ascending.TakeLast(10), end.Values.Select(v => (double)v.Value));
+        Assert.Equal(whole.Values.TakeLast(10), end.Values);
+        var middle = catalog.GetAxisCoverage(id, new AxisWindow(values - 500, 3, SomeSweep.MassColumn)).Single();
+        Assert.Equal(whole.Values.Skip(values - 500).Take(3), middle.Values);
+        Assert.All(middle.Values, v => Assert.Equal(1, v.Total));
+        Assert.Contains(end.Values, v => v.Failed == 1);
+        Assert.Contains(end.Values, v => v.Done == 1);
+        Assert.Empty(catalog.GetAxisCoverage(id, new AxisWindow(values + 5, 10, SomeSweep.MassColumn)).Single().Values);
+        var cells = catalog.GetAxisCoverage(id, new AxisWindow(0, 1000, SomeSweep.CellsColumn)).Single();
+        Assert.Equal(1, cells.ValueCount);
+        Assert.Equal(values, Assert.Single(cells.Values).Total);
+    }
+
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void A_window_of_a_small_axis_is_its_declared_order_from_the_offset(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var (id, _) = TestCatalog.Register(catalog, Plan(), Dir.Combine("out"), pointsPerChunk: 4);
+        var whole = catalog.GetAxisCoverage(id).Single(a => a.ColumnName == SomeSweep.MassColumn);
+        var window = catalog.GetAxisCoverage(id, new AxisWindow(2, 3)).Single(a => a.ColumnName == SomeSweep.MassColumn);
+        Assert.Equal([3.0, 0.1 + 0.2, 5], window.Values.Select(v => (double)v.Value));
+        Assert.Equal(whole.Values.Skip(2).Take(3), window.Values);
+        Assert.Equal((2L, 7L), (window.Offset, window.ValueCount));
+    }
+
     /// <summary>Asserts the catalog's coverage equals a count of <see cref="ISweepCatalog.GetPoints"/> per column, value and state; returns the coverage.</summary>
     private static IReadOnlyList<AxisCoverage> AssertCoverageMatchesPoints(SqlSweepCatalog catalog, string id, long expectedPoints)
     {

@@ -228,24 +228,27 @@ public sealed class CheckForecastTests : IDisposable
         Assert.Equal(sampled.Total, (long)Math.Round(sampled.Evaluated * sampled.Scale));
     }
 
+    /// <summary>40,000 distinct models, every one refused (no transverse spring in 3d: the swept 0 N/m).</summary>
+    private static readonly string ManyRefusedModels = Some.ChainJob(sweep: """
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [0.0]
+
+        [[sweep.axes]]
+        path = "model.sites.B.mass_amu"
+        range = { from = 10.0, to = 60.0, steps = 200 }
+
+        [[sweep.axes]]
+        path = "model.springs[0].longitudinal_n_per_m"
+        range = { from = 5.0, to = 50.0, steps = 200 }
+        """).Replace("constant_nm = 0.5", "constant_nm = 0.5\nmotion = \"3d\"", StringComparison.Ordinal);
+
     [Fact]
     public void Past_the_tracing_share_of_the_budget_failing_points_join_their_reasons_traced_groups_in_proportion()
     {
         // 40,000 distinct models, every one refused (no transverse spring in 3d: the swept 0 N/m), so tracing each would thin the sample.
         using var dir = new TempDirectory();
-        var plan = Some.Load(dir, Some.ChainJob(sweep: """
-            [[sweep.axes]]
-            path = "model.springs[0].transverse_n_per_m"
-            values = [0.0]
-
-            [[sweep.axes]]
-            path = "model.sites.B.mass_amu"
-            range = { from = 10.0, to = 60.0, steps = 200 }
-
-            [[sweep.axes]]
-            path = "model.springs[0].longitudinal_n_per_m"
-            range = { from = 5.0, to = 50.0, steps = 200 }
-            """).Replace("constant_nm = 0.5", "constant_nm = 0.5\nmotion = \"3d\"", StringComparison.Ordinal));
+        var plan = Some.Load(dir, ManyRefusedModels);
 
         var report = SweepForecast.Run(plan, TimeSpan.FromSeconds(0.4));
         Assert.Equal(report.Evaluated, report.WillFail);
@@ -255,6 +258,21 @@ public sealed class CheckForecastTests : IDisposable
         Assert.Equal(LatticeSweep.Worker.Catalog.FailureOriginKind.SweptValue, group.Origin!.Kind);
         var values = Assert.Single(group.Values);
         Assert.Equal("springs_0_transverse_n_per_m = 0 (1 of 1 values)", values.ToString());
+    }
+
+    [Fact]
+    public void A_count_with_points_not_traced_says_how_many_were_traced_and_how_many_shared_out_by_reason()
+    {
+        // The job above: 40,000 distinct models, all refused; check's budget (about 3 s, a tenth of it for tracing) cannot trace them all.
+        var (code, output, _) = Check(ManyRefusedModels);
+
+        Assert.Equal(2, code);
+        var m = System.Text.RegularExpressions.Regex.Match(output,
+            @"\n    about ([0-9,]+) x [^\n]+\n      counted: ([0-9,]+) points? traced to the origin below; about ([0-9,]+) more with this reason, met after tracing had used its share of the time budget, are shared among the reason's groups in proportion to their traced points, so they may come from other candidates' rows or other values\n      from: ");
+        Assert.True(m.Success, output);
+        long Number(int i) => long.Parse(m.Groups[i].Value, System.Globalization.NumberStyles.AllowThousands, System.Globalization.CultureInfo.InvariantCulture);
+        Assert.Equal(Number(1), Number(2) + Number(3));
+        Assert.InRange(Number(2), 1, Number(1) - 1);
     }
 
     [Theory]

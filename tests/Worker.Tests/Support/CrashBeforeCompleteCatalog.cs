@@ -20,7 +20,9 @@ internal sealed class CrashBeforeCompleteCatalog(ISweepCatalog inner) : ISweepCa
     public IReadOnlyList<FailureGroup> GetFailureGroups(string sweepId) => inner.GetFailureGroups(sweepId);
 
     public FailureGroup? GetFailureGroup(string sweepId, string key) => inner.GetFailureGroup(sweepId, key);
-    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId) => inner.GetAxisCoverage(sweepId);
+    public IReadOnlyList<AxisCoverage> GetAxisCoverage(string sweepId, AxisWindow? window = null) => inner.GetAxisCoverage(sweepId, window);
+
+    public int CountStaleAxesAgain() => inner.CountStaleAxesAgain();
 
     public void Dispose()
     {
