@@ -129,7 +129,7 @@ public static class StageTimings
 
     /// <summary>
     /// The highest resident set size seen while a stage that runs alone (<see cref="MeasureAlone"/>) was open,
-    /// sampled every few milliseconds by one background thread (only with timings on): which stage of the
+    /// sampled every 20 ms (and at the stage's start and end) by one background thread (only with timings on): which stage of the
     /// merge sets the process's peak (bench/README, round 16).
     /// </summary>
     private sealed class PeakWatch
@@ -147,21 +147,41 @@ public static class StageTimings
         }
     }
 
-    private static readonly ConcurrentDictionary<PeakWatch, byte> OpenWatches = new();
+    // The watches open now, replaced whole (copy on write) when a stage opens or closes, so the sampler
+    // reads them without a lock or an allocation; stages open and close rarely.
+    private static PeakWatch[] openWatches = [];
+    private static readonly Lock WatchesLock = new();
+
+    private const int SamplePeriodMs = 20;
+
+    // Wakes the sampler when the first watch opens; it sleeps on this while none is open.
+    private static readonly SemaphoreSlim WatchOpened = new(0);
 
     private static readonly Lazy<Thread> RssSampler = new(() =>
     {
         var thread = new Thread(() =>
         {
+            // Every 20 ms while a watch is open, nothing otherwise; each sample one pread of /proc/self/statm
+            // into a reused buffer. This thread's CPU counts in the run's process CPU, which bench case (e)
+            // reads: every 5 ms, reading the file whole, it cost 0.6-0.95 s in a 35-75 s run at load ~20,
+            // mostly its wake-ups (bench/README.md, round 18).
+            var buffer = new byte[64];
             while (true)
             {
-                var rss = ResidentBytes();
-                foreach (var watch in OpenWatches.Keys)
+                var watches = Volatile.Read(ref openWatches);
+                if (watches.Length == 0)
+                {
+                    WatchOpened.Wait();
+                    continue;
+                }
+
+                var rss = ResidentBytes(buffer);
+                foreach (var watch in watches)
                 {
                     watch.See(rss);
                 }
 
-                Thread.Sleep(5);
+                Thread.Sleep(SamplePeriodMs);
             }
         })
         { IsBackground = true, Name = "stage RSS sampler" };
@@ -169,23 +189,79 @@ public static class StageTimings
         return thread;
     });
 
-    /// <summary>The process's resident set size now (Linux /proc/self/statm; 0 elsewhere).</summary>
-    private static long ResidentBytes()
+    private static void OpenWatch(PeakWatch watch)
+    {
+        lock (WatchesLock)
+        {
+            Volatile.Write(ref openWatches, [.. openWatches, watch]);
+        }
+
+        _ = RssSampler.Value;
+        WatchOpened.Release();
+    }
+
+    private static void CloseWatch(PeakWatch watch)
+    {
+        lock (WatchesLock)
+        {
+            Volatile.Write(ref openWatches, [.. openWatches.Where(w => !ReferenceEquals(w, watch))]);
+        }
+    }
+
+    // /proc/self/statm opened once; pread at offset 0 makes the kernel write it anew each time.
+    private static readonly Lazy<Microsoft.Win32.SafeHandles.SafeFileHandle?> Statm = new(() =>
     {
         try
         {
-            var statm = File.ReadAllText("/proc/self/statm");
-            var fields = statm.Split(' ');
-            return fields.Length > 1 ? long.Parse(fields[1], CultureInfo.InvariantCulture) * Environment.SystemPageSize : 0;
+            return File.OpenHandle("/proc/self/statm");
+        }
+        catch (IOException)
+        {
+            return null;
+        }
+        catch (UnauthorizedAccessException)
+        {
+            return null;
+        }
+    });
+
+    /// <summary>The process's resident set size now (Linux /proc/self/statm, its second field in pages; 0 elsewhere).</summary>
+    private static long ResidentBytes(Span<byte> buffer)
+    {
+        if (Statm.Value is not { } handle)
+        {
+            return 0;
+        }
+
+        int read;
+        try
+        {
+            read = RandomAccess.Read(handle, buffer, 0);
         }
         catch (IOException)
         {
             return 0;
         }
-        catch (UnauthorizedAccessException)
+
+        return ResidentPages(buffer[..read]) * Environment.SystemPageSize;
+    }
+
+    /// <summary>The second field of /proc/self/statm ("size resident shared text lib data dt", in pages); 0 if it is not there.</summary>
+    internal static long ResidentPages(ReadOnlySpan<byte> statm)
+    {
+        var i = statm.IndexOf((byte)' ');
+        if (i < 0 || i + 1 >= statm.Length || statm[i + 1] is < (byte)'0' or > (byte)'9')
         {
             return 0;
         }
+
+        long pages = 0;
+        for (i++; i < statm.Length && statm[i] is >= (byte)'0' and <= (byte)'9'; i++)
+        {
+            pages = (pages * 10) + (statm[i] - '0');
+        }
+
+        return pages;
     }
 
     private sealed class Totals
@@ -224,9 +300,8 @@ public static class StageTimings
             if (stage is not null && processCpu && OperatingSystem.IsLinux())
             {
                 _watch = new PeakWatch();
-                _watch.See(ResidentBytes());
-                OpenWatches.TryAdd(_watch, 0);
-                _ = RssSampler.Value;
+                _watch.See(ResidentBytes(stackalloc byte[64]));
+                OpenWatch(_watch);
             }
         }
 
@@ -240,8 +315,8 @@ public static class StageTimings
             var t = Stages.GetOrAdd(_stage, _ => new Totals());
             if (_watch is not null)
             {
-                OpenWatches.TryRemove(_watch, out _);
-                _watch.See(ResidentBytes());
+                CloseWatch(_watch);
+                _watch.See(ResidentBytes(stackalloc byte[64]));
                 lock (t)
                 {
                     if (_watch.PeakRssBytes > t.PeakRssBytes)
