@@ -129,7 +129,7 @@ public static class StageTimings
 
     /// <summary>
     /// The highest resident set size seen while a stage that runs alone (<see cref="MeasureAlone"/>) was open,
-    /// sampled every 20 ms (and at the stage's start and end) by one background thread (only with timings on): which stage of the
+    /// sampled by one background thread (every 20 ms while it reaches new highs, up to 320 ms apart while it does not; and at the stage's start and end) (only with timings on): which stage of the
     /// merge sets the process's peak (bench/README, round 16).
     /// </summary>
     private sealed class PeakWatch
@@ -152,26 +152,32 @@ public static class StageTimings
     private static PeakWatch[] openWatches = [];
     private static readonly Lock WatchesLock = new();
 
-    private const int SamplePeriodMs = 20;
+    private const int FastPeriodMs = 20;
+    private const int SlowPeriodMs = 320;
 
-    // Wakes the sampler when the first watch opens; it sleeps on this while none is open.
+    // Released once per watch opened: wakes the sampler, which waits on it between samples and while none is open.
     private static readonly SemaphoreSlim WatchOpened = new(0);
 
     private static readonly Lazy<Thread> RssSampler = new(() =>
     {
         var thread = new Thread(() =>
         {
-            // Every 20 ms while a watch is open, nothing otherwise; each sample one pread of /proc/self/statm
-            // into a reused buffer. This thread's CPU counts in the run's process CPU, which bench case (e)
-            // reads: every 5 ms, reading the file whole, it cost 0.6-0.95 s in a 35-75 s run at load ~20,
-            // mostly its wake-ups (bench/README.md, round 18).
+            // While a watch is open, nothing otherwise; each sample one pread of /proc/self/statm into a
+            // reused buffer. Every 20 ms while the RSS climbs to new highs, backing off to every 320 ms
+            // while it does not (a solving phase's flat RSS): this thread's CPU counts in the run's process
+            // CPU, which bench case (e) reads, and every 5 ms, reading the file whole, it cost 0.6-1.2 s in
+            // a 35-75 s run at load 20-40, mostly its wake-ups (bench/README.md, round 18).
             var buffer = new byte[64];
+            var period = FastPeriodMs;
+            long highest = 0;
             while (true)
             {
                 var watches = Volatile.Read(ref openWatches);
                 if (watches.Length == 0)
                 {
                     WatchOpened.Wait();
+                    period = FastPeriodMs;
+                    highest = 0;
                     continue;
                 }
 
@@ -181,7 +187,14 @@ public static class StageTimings
                     watch.See(rss);
                 }
 
-                Thread.Sleep(SamplePeriodMs);
+                period = rss > highest ? FastPeriodMs : Math.Min(2 * period, SlowPeriodMs);
+                highest = Math.Max(highest, rss);
+                if (WatchOpened.Wait(period))
+                {
+                    // A stage opened: sample it closely from its start.
+                    period = FastPeriodMs;
+                    highest = 0;
+                }
             }
         })
         { IsBackground = true, Name = "stage RSS sampler" };
