@@ -129,7 +129,9 @@ if queue:
                      f"wall overhead {r['overhead_fraction'] * 100:.1f}%, {r.get('overhead_fraction_without_fixed', float('nan')) * 100:.1f}% without the fixed cost; "
                      f"CPU overhead without the fixed cost {r.get('overhead_cpu_fraction_without_fixed', float('nan')) * 100:.1f}% over the warmed-up engine, "
                      f"{r.get('overhead_fresh_cpu_fraction_without_fixed', float('nan')) * 100:.1f}% ({r.get('overhead_fresh_cpu_ms_per_point', float('nan')):.3f} ms/point) "
-                     f"over the engine in a fresh process ({r.get('engine_fresh_cpu_s', float('nan')):.2f} s CPU); load {r.get('load', '?')}"))
+                     f"over the engine in a fresh process ({r.get('engine_fresh_cpu_s', float('nan')):.2f} s CPU); "
+                     f"the median run: solving {r.get('queue_solve_cpu_s', float('nan')):.2f} s, merge {r.get('queue_merge_cpu_s', float('nan')):.2f} s, "
+                     f"tier-1 JIT thread {r.get('queue_tier1_cpu_s', float('nan')):.2f} s CPU; load {r.get('load', '?')}"))
 
 expansion = load("ours_expansion.json")
 if expansion:

@@ -16,7 +16,8 @@ namespace LatticeSweep.Bench;
 /// </summary>
 internal static class QueueCase
 {
-    public sealed record RunSample(double WallSeconds, double CpuSeconds);
+    /// <summary>One run's wall and process CPU, and from its timings where the CPU went: the solving stage, the merge and the tier-1 JIT thread.</summary>
+    public sealed record RunSample(double WallSeconds, double CpuSeconds, double SolveCpuSeconds = double.NaN, double MergeCpuSeconds = double.NaN, double TierOneCpuSeconds = double.NaN);
 
     public static Dictionary<string, object> Run(string latsweep, string jobFile, string onePointJob, int workers, int repeats)
     {
@@ -59,6 +60,10 @@ internal static class QueueCase
         var queueCpuS = Median(queueRuns.Select(q => q.CpuSeconds));
         var fixedS = Median(fixedRuns.Select(q => q.WallSeconds));
         var fixedCpuS = Median(fixedRuns.Select(q => q.CpuSeconds));
+        // Where the median run's CPU went (the run whose process CPU is the median): its solving stage
+        // against the warmed engine, the merge and the tier-1 JIT thread; the rest is the run's own
+        // threads and stages (main thread, queue server, parts, GC) and its fixed cost.
+        var medianRun = queueRuns.OrderBy(q => q.CpuSeconds).ElementAt(queueRuns.Count / 2);
         var result = new Dictionary<string, object>
         {
             ["job"] = Path.GetFileName(jobFile),
@@ -80,6 +85,9 @@ internal static class QueueCase
             ["overhead_ms_per_point"] = ((queueS * workers) - engineS) / points.Length * 1e3,
             ["overhead_cpu_ms_per_point"] = (queueCpuS - fixedCpuS - engineCpuS) / points.Length * 1e3,
             ["overhead_cpu_fraction_without_fixed"] = ((queueCpuS - fixedCpuS) / engineCpuS) - 1,
+            ["queue_solve_cpu_s"] = medianRun.SolveCpuSeconds,
+            ["queue_merge_cpu_s"] = medianRun.MergeCpuSeconds,
+            ["queue_tier1_cpu_s"] = medianRun.TierOneCpuSeconds,
             ["engine_fresh_cpu_s"] = Median(coldCpu),
             ["overhead_fresh_cpu_ms_per_point"] = (queueCpuS - fixedCpuS - Median(coldCpu)) / points.Length * 1e3,
             ["overhead_fresh_cpu_fraction_without_fixed"] = ((queueCpuS - fixedCpuS) / Median(coldCpu)) - 1,
@@ -93,6 +101,9 @@ internal static class QueueCase
             $"  queue {Path.GetFileName(jobFile)}: against the engine alone in a fresh process ({Median(coldCpu):F2} s CPU, no warm-up, TieredPGO off as in latsweep): " +
             $"overhead {(double)result["overhead_fresh_cpu_ms_per_point"]:F3} ms CPU per point, {(double)result["overhead_fresh_cpu_fraction_without_fixed"] * 100:F1}% CPU without the fixed cost " +
             $"(warmed-up engine: {(double)result["overhead_cpu_fraction_without_fixed"] * 100:F1}% CPU)"));
+        Console.Error.WriteLine(string.Create(CultureInfo.InvariantCulture,
+            $"  queue {Path.GetFileName(jobFile)}: the median run's CPU {medianRun.CpuSeconds:F2} s: solving {medianRun.SolveCpuSeconds:F2} s (warmed engine {engineCpuS:F2} s), " +
+            $"merge {medianRun.MergeCpuSeconds:F2} s, tier-1 JIT thread {medianRun.TierOneCpuSeconds:F2} s, the rest {medianRun.CpuSeconds - medianRun.SolveCpuSeconds - medianRun.MergeCpuSeconds - medianRun.TierOneCpuSeconds:F2} s (one-point run {fixedCpuS:F2} s)"));
         return result;
     }
 
@@ -242,12 +253,40 @@ internal static class QueueCase
             var line = stderr.Result.Split('\n').FirstOrDefault(l => l.StartsWith("timings: process CPU ", StringComparison.Ordinal))
                 ?? throw new InvalidOperationException("latsweep run printed no timings line (LATSWEEP_TIMINGS=1)");
             var cpu = double.Parse(line["timings: process CPU ".Length..].Split(' ')[0], CultureInfo.InvariantCulture);
-            return new RunSample(seconds, cpu);
+            return new RunSample(seconds, cpu, StageCpu(stderr.Result, "solve points"), StageCpu(stderr.Result, "merge part files"), ThreadCpu(stderr.Result, ".NET Tiered Com"));
         }
         finally
         {
             folder.Delete(recursive: true);
         }
+    }
+
+    /// <summary>A stage's CPU from the run's timings ("timings: solve points   32.872 s wall   12.554 s CPU ..."); NaN when absent.</summary>
+    private static double StageCpu(string timings, string stage)
+    {
+        var line = timings.Split('\n').FirstOrDefault(l => l.StartsWith("timings: " + stage + " ", StringComparison.Ordinal));
+        if (line is null)
+        {
+            return double.NaN;
+        }
+
+        var words = line.Split(' ', StringSplitOptions.RemoveEmptyEntries);
+        var cpuAt = Array.IndexOf(words, "CPU");
+        return cpuAt > 1 ? double.Parse(words[cpuAt - 2], CultureInfo.InvariantCulture) : double.NaN;
+    }
+
+    /// <summary>A thread's CPU from the timings' list of threads alive at the end ("..., .NET Tiered Com 0.78, ..."); 0 when it is not listed (under 0.01 s, or ended).</summary>
+    private static double ThreadCpu(string timings, string thread)
+    {
+        var line = timings.Split('\n').FirstOrDefault(l => l.StartsWith("timings: threads alive at the end", StringComparison.Ordinal));
+        var at = line?.IndexOf(thread + " ", StringComparison.Ordinal) ?? -1;
+        if (line is null || at < 0)
+        {
+            return 0;
+        }
+
+        var value = line[(at + thread.Length + 1)..].Split(',')[0].Trim();
+        return double.Parse(value, CultureInfo.InvariantCulture);
     }
 
     private static double Median(IEnumerable<double> values)

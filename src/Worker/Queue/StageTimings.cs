@@ -129,7 +129,7 @@ public static class StageTimings
 
     /// <summary>
     /// The highest resident set size seen while a stage that runs alone (<see cref="MeasureAlone"/>) was open,
-    /// sampled every few milliseconds by one background thread (only with timings on): which stage of the
+    /// sampled by one background thread (every 20 ms while it reaches new highs, up to 320 ms apart while it does not; and at the stage's start and end) (only with timings on): which stage of the
     /// merge sets the process's peak (bench/README, round 16).
     /// </summary>
     private sealed class PeakWatch
@@ -147,21 +147,54 @@ public static class StageTimings
         }
     }
 
-    private static readonly ConcurrentDictionary<PeakWatch, byte> OpenWatches = new();
+    // The watches open now, replaced whole (copy on write) when a stage opens or closes, so the sampler
+    // reads them without a lock or an allocation; stages open and close rarely.
+    private static PeakWatch[] openWatches = [];
+    private static readonly Lock WatchesLock = new();
+
+    private const int FastPeriodMs = 20;
+    private const int SlowPeriodMs = 320;
+
+    // Released once per watch opened: wakes the sampler, which waits on it between samples and while none is open.
+    private static readonly SemaphoreSlim WatchOpened = new(0);
 
     private static readonly Lazy<Thread> RssSampler = new(() =>
     {
         var thread = new Thread(() =>
         {
+            // While a watch is open, nothing otherwise; each sample one pread of /proc/self/statm into a
+            // reused buffer. Every 20 ms while the RSS climbs to new highs, backing off to every 320 ms
+            // while it does not (a solving phase's flat RSS): this thread's CPU counts in the run's process
+            // CPU, which bench case (e) reads, and every 5 ms, reading the file whole, it cost 0.6-1.2 s in
+            // a 35-75 s run at load 20-40, mostly its wake-ups (bench/README.md, round 18).
+            var buffer = new byte[64];
+            var period = FastPeriodMs;
+            long highest = 0;
             while (true)
             {
-                var rss = ResidentBytes();
-                foreach (var watch in OpenWatches.Keys)
+                var watches = Volatile.Read(ref openWatches);
+                if (watches.Length == 0)
+                {
+                    WatchOpened.Wait();
+                    period = FastPeriodMs;
+                    highest = 0;
+                    continue;
+                }
+
+                var rss = ResidentBytes(buffer);
+                foreach (var watch in watches)
                 {
                     watch.See(rss);
                 }
 
-                Thread.Sleep(5);
+                period = rss > highest ? FastPeriodMs : Math.Min(2 * period, SlowPeriodMs);
+                highest = Math.Max(highest, rss);
+                if (WatchOpened.Wait(period))
+                {
+                    // A stage opened: sample it closely from its start.
+                    period = FastPeriodMs;
+                    highest = 0;
+                }
             }
         })
         { IsBackground = true, Name = "stage RSS sampler" };
@@ -169,23 +202,79 @@ public static class StageTimings
         return thread;
     });
 
-    /// <summary>The process's resident set size now (Linux /proc/self/statm; 0 elsewhere).</summary>
-    private static long ResidentBytes()
+    private static void OpenWatch(PeakWatch watch)
+    {
+        lock (WatchesLock)
+        {
+            Volatile.Write(ref openWatches, [.. openWatches, watch]);
+        }
+
+        _ = RssSampler.Value;
+        WatchOpened.Release();
+    }
+
+    private static void CloseWatch(PeakWatch watch)
+    {
+        lock (WatchesLock)
+        {
+            Volatile.Write(ref openWatches, [.. openWatches.Where(w => !ReferenceEquals(w, watch))]);
+        }
+    }
+
+    // /proc/self/statm opened once; pread at offset 0 makes the kernel write it anew each time.
+    private static readonly Lazy<Microsoft.Win32.SafeHandles.SafeFileHandle?> Statm = new(() =>
     {
         try
         {
-            var statm = File.ReadAllText("/proc/self/statm");
-            var fields = statm.Split(' ');
-            return fields.Length > 1 ? long.Parse(fields[1], CultureInfo.InvariantCulture) * Environment.SystemPageSize : 0;
+            return File.OpenHandle("/proc/self/statm");
+        }
+        catch (IOException)
+        {
+            return null;
+        }
+        catch (UnauthorizedAccessException)
+        {
+            return null;
+        }
+    });
+
+    /// <summary>The process's resident set size now (Linux /proc/self/statm, its second field in pages; 0 elsewhere).</summary>
+    private static long ResidentBytes(Span<byte> buffer)
+    {
+        if (Statm.Value is not { } handle)
+        {
+            return 0;
+        }
+
+        int read;
+        try
+        {
+            read = RandomAccess.Read(handle, buffer, 0);
         }
         catch (IOException)
         {
             return 0;
         }
-        catch (UnauthorizedAccessException)
+
+        return ResidentPages(buffer[..read]) * Environment.SystemPageSize;
+    }
+
+    /// <summary>The second field of /proc/self/statm ("size resident shared text lib data dt", in pages); 0 if it is not there.</summary>
+    internal static long ResidentPages(ReadOnlySpan<byte> statm)
+    {
+        var i = statm.IndexOf((byte)' ');
+        if (i < 0 || i + 1 >= statm.Length || statm[i + 1] is < (byte)'0' or > (byte)'9')
         {
             return 0;
         }
+
+        long pages = 0;
+        for (i++; i < statm.Length && statm[i] is >= (byte)'0' and <= (byte)'9'; i++)
+        {
+            pages = (pages * 10) + (statm[i] - '0');
+        }
+
+        return pages;
     }
 
     private sealed class Totals
@@ -224,9 +313,8 @@ public static class StageTimings
             if (stage is not null && processCpu && OperatingSystem.IsLinux())
             {
                 _watch = new PeakWatch();
-                _watch.See(ResidentBytes());
-                OpenWatches.TryAdd(_watch, 0);
-                _ = RssSampler.Value;
+                _watch.See(ResidentBytes(stackalloc byte[64]));
+                OpenWatch(_watch);
             }
         }
 
@@ -240,8 +328,8 @@ public static class StageTimings
             var t = Stages.GetOrAdd(_stage, _ => new Totals());
             if (_watch is not null)
             {
-                OpenWatches.TryRemove(_watch, out _);
-                _watch.See(ResidentBytes());
+                CloseWatch(_watch);
+                _watch.See(ResidentBytes(stackalloc byte[64]));
                 lock (t)
                 {
                     if (_watch.PeakRssBytes > t.PeakRssBytes)
