@@ -97,7 +97,8 @@ for step in "${steps[@]}"; do
             parts|merged)
               ( cd "$here/points-table" && dotnet run points-table.cs "$tpl" "$out/$id/points" "${POINTS_ROWS:-1000000}" 4096 "${MERGE_PARTS:-128}" ) | tee -a "$results/summary.txt"
               if [ "$table" = merged ]; then
-                ( cd "$results" && "$latsweep" merge "$id" --store "$store" > "$results/dashboard-merge.out" 2>&1 ) || echo "merge: exit code $?"
+                ( cd "$results" && LATSWEEP_TIMINGS=1 "$latsweep" merge "$id" --store "$store" > "$results/dashboard-merge.out" 2>&1 ) || echo "merge: exit code $?"
+                grep -E "^timings: (process CPU|merge: first-load facts|merge: facts)" "$results/dashboard-merge.out" | sed "s/^/    [$table] /" | tee -a "$results/summary.txt" || true
               fi ;;
             *) echo "unknown table state $table (parts, merged, single)"; exit 2 ;;
           esac
