@@ -9,6 +9,7 @@
 # Usage: bench/million.sh [check submit status dashboard run merge]   (default: all but merge; run takes minutes)
 # Environment: RESULTS (default bench/results/million), RUN_POINTS (default "10000 100000"; "1000000" takes ~10 min), WORKERS (default 2),
 # POINTS_ROWS (rows of points/ for the dashboard step, default 10^6; 0: use the points/ there, e.g. merged by `merge`),
+# DASHBOARD_TABLES (the states of points/ the dashboard step meets, each with a fresh dashboard: default "parts merged", also "single"),
 # DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time; default: published with ReadyToRun code
 # into RESULTS/latsweep-r2r as README's install line makes it, or with MILLION_LATSWEEP=build the plain `dotnet build` output), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
 # KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run). The dashboard step also asks for the
@@ -72,39 +73,62 @@ for step in "${steps[@]}"; do
       measure status-list "$latsweep" status --store "$store"
       measure status-1e6 "$latsweep" status bench-million-points --store "$store" ;;
     dashboard)
-      # The sweep page and its JSON for the sweep just submitted, with a points/ table of 10^6 rows
-      # (POINTS_ROWS): a real points/ file from `latsweep run` of 1,000 of its points (one value of
-      # the second axis) is the template, tiled by bench/points-table/points-table.cs into one file
-      # sorted by point_id with the template's schema and units (the catalog still says queued).
+      # The sweep page and its JSON for the sweep just submitted, with a points/ table of POINTS_ROWS
+      # (default 10^6) rows made from a real points/ file (`latsweep run` of 1,000 of its points, one value
+      # of the second axis) tiled by bench/points-table/points-table.cs (the catalog still says queued),
+      # in each state of DASHBOARD_TABLES (default "parts merged"), each met by a fresh dashboard process:
+      #   parts   MERGE_PARTS (default 128) part files laid out as the Worker writes them: a running sweep
+      #           (no footer summary, no .first-load.json: every fact is read from the rows);
+      #   merged  the same parts after `latsweep merge` (as at the end of `latsweep run`): the merged
+      #           files' footer summaries and the first load's facts (.first-load.json);
+      #   single  one file of every row without either (what this step measured before round 18).
+      # POINTS_ROWS=0: the points/ there as it is (e.g. merged by the merge step), one state "as-is".
       # DASHBOARD_DLL runs another build of the dashboard (a before figure) on the same data.
       id="$(ls "$out" | head -1)"
-      if [ "${POINTS_ROWS:-1000000}" -gt 0 ]; then
-        template
-        mkdir -p "$out/$id/points"
-        ( cd "$here/points-table" && dotnet run points-table.cs "$(ls "$results"/template/*/points/*.parquet | head -1)" \
-            "$out/$id/points/merged-00000.parquet" "${POINTS_ROWS:-1000000}" ) | tee -a "$results/summary.txt"
-      fi
-      port=$((20000 + RANDOM % 20000))
-      dotnet "${DASHBOARD_DLL:-$root/src/Dashboard/bin/Release/net10.0/Dashboard.dll}" --store "$store" --out "$out" --port "$port" > "$results/dashboard.log" 2>&1 &
-      pid=$!
-      for _ in $(seq 1 120); do curl -s -o /dev/null "http://127.0.0.1:$port/" && break; sleep 0.5; done
-      echo "dashboard $(cut -d' ' -f1 /proc/loadavg) load average, process CPU at start $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
-      # A point of a chunk no worker has claimed (index 600,000): its page looks it up in the catalog.
-      waiting="$(python3 -c 'import json, sqlite3, sys
+      tables="${DASHBOARD_TABLES:-parts merged}"
+      [ "${POINTS_ROWS:-1000000}" -gt 0 ] || tables="as-is"
+      for table in $tables; do
+        if [ "$table" != as-is ]; then
+          template
+          rm -rf "$out/$id/points" && mkdir -p "$out/$id/points"
+          tpl="$(ls "$results"/template/*/points/*.parquet | head -1)"
+          case "$table" in
+            single) ( cd "$here/points-table" && dotnet run points-table.cs "$tpl" "$out/$id/points/single-00000.parquet" "${POINTS_ROWS:-1000000}" ) | tee -a "$results/summary.txt" ;;
+            parts|merged)
+              ( cd "$here/points-table" && dotnet run points-table.cs "$tpl" "$out/$id/points" "${POINTS_ROWS:-1000000}" 4096 "${MERGE_PARTS:-128}" ) | tee -a "$results/summary.txt"
+              if [ "$table" = merged ]; then
+                ( cd "$results" && LATSWEEP_TIMINGS=1 "$latsweep" merge "$id" --store "$store" > "$results/dashboard-merge.out" 2>&1 ) || echo "merge: exit code $?"
+                grep -E "^timings: (process CPU|merge: first-load facts|merge: facts)" "$results/dashboard-merge.out" | sed "s/^/    [$table] /" | tee -a "$results/summary.txt" || true
+              fi ;;
+            *) echo "unknown table state $table (parts, merged, single)"; exit 2 ;;
+          esac
+        fi
+        ls -A "$out/$id/points" | awk -v t="$table" '/parquet$/ { n++ } /^\.first-load\.json$/ { f = "with" } END { printf "dashboard, points/ %s: %d Parquet files, %s .first-load.json\n", t, n, f ? f : "without" }' | tee -a "$results/summary.txt"
+        port=$((20000 + RANDOM % 20000))
+        LATSWEEP_TIMINGS=1 dotnet "${DASHBOARD_DLL:-$root/src/Dashboard/bin/Release/net10.0/Dashboard.dll}" --store "$store" --out "$out" --port "$port" > "$results/dashboard-$table.log" 2>&1 &
+        pid=$!
+        for _ in $(seq 1 120); do curl -s -o /dev/null "http://127.0.0.1:$port/" && break; sleep 0.5; done
+        echo "dashboard [$table] $(cut -d' ' -f1 /proc/loadavg) load average, process CPU at start $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
+        # A point of a chunk no worker has claimed (index 600,000): its page looks it up in the catalog.
+        waiting="$(python3 -c 'import json, sqlite3, sys
 c = sqlite3.connect(sys.argv[1]).execute("SELECT points_json FROM latsweep_chunks WHERE first_index <= 600000 AND last_index >= 600000 AND points_json IS NOT NULL").fetchone()
 print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 600000), "") if c else "")' "$store" 2>/dev/null || true)"
-      for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
-          "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000" \
-          ${waiting:+"sweeps/$id/points/$waiting"} \
-          "api/sweeps/$id/results?range=debye_temperature_from_cv_k:0:749.7&sort=cv_j_per_kg_k&dir=desc" \
-          "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=300000" "api/sweeps/$id/results?sort=cv_j_per_mol_k&offset=700000" \
-          "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=100"; do
-        # Beside each request's wall time, the dashboard process's CPU so far (user + system; steadier than wall on a shared machine).
-        took="$(curl -s -o /dev/null -w "dashboard /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
-        echo "$took, process CPU $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
-      done
-      echo "dashboard peak RSS $(awk '/VmHWM/ { print int($2 / 1024) " MB" }' /proc/$pid/status)" | tee -a "$results/summary.txt"
-      kill "$pid"; wait "$pid" 2>/dev/null || true ;;
+        for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
+            "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000" \
+            ${waiting:+"sweeps/$id/points/$waiting"} \
+            "api/sweeps/$id/results?range=debye_temperature_from_cv_k:0:749.7&sort=cv_j_per_kg_k&dir=desc" \
+            "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=300000" "api/sweeps/$id/results?sort=cv_j_per_mol_k&offset=700000" \
+            "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=100"; do
+          # Beside each request's wall time, the dashboard process's CPU so far (user + system; steadier than wall on a shared machine).
+          took="$(curl -s -o /dev/null -w "dashboard [$table] /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
+          echo "$took, process CPU $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
+        done
+        echo "dashboard [$table] peak RSS $(awk '/VmHWM/ { print int($2 / 1024) " MB" }' /proc/$pid/status)" | tee -a "$results/summary.txt"
+        kill "$pid"; wait "$pid" 2>/dev/null || true
+        # The first load's own stages (LATSWEEP_TIMINGS=1: the totals printed after the first request).
+        awk '/^timings: request \/sweeps\// { if (f) exit; f = 1; print; next } f && /^timings: request / { exit } f && /^timings: (process CPU|sweep page|detail: stability|table: |plots: |points: )/' "$results/dashboard-$table.log" \
+          | sed "s/^/    [$table] first load /" | tee -a "$results/summary.txt"
+      done ;;
     run)
       # `latsweep run` of RUN_POINTS trivial points (the first axis cut to n/1000 values). A sampler
       # writes one line a second to run-N.samples (seconds since start, RSS and its high-water mark in

@@ -21,6 +21,38 @@ internal sealed record FirstLoad(
     FirstLoad.ParameterSample? ParameterPlot,
     FirstLoad.ScatterSample? Scatter)
 {
+    /// <summary>The cells of the default table's first page as the merge read them (rows in plan order, cells boxed as the table boxes them); null when the entry has none.</summary>
+    public FirstPageCells? FirstPage { get; init; }
+
+    /// <summary>
+    /// The cells of <paramref name="columns"/> at <paramref name="rows"/> (one array per column, as
+    /// <see cref="ResultTable.CellsAt"/> gives them) from the merge's first page; null unless it holds every one.
+    /// </summary>
+    public object?[][]? PageCells(IReadOnlyList<string> columns, int[] rows)
+    {
+        if (FirstPage is not { } page || columns.Any(c => !page.Columns.ContainsKey(c)))
+        {
+            return null;
+        }
+
+        var at = new int[rows.Length];
+        for (var k = 0; k < rows.Length; k++)
+        {
+            if (!page.Index.TryGetValue(rows[k], out at[k]))
+            {
+                return null;
+            }
+        }
+
+        return [.. columns.Select(c => at.Select(i => page.Columns[c][i]).ToArray())];
+    }
+
+    /// <summary>The first page's rows (of the table) and each kept column's cells at them.</summary>
+    internal sealed record FirstPageCells(ImmutableArray<int> Rows, ImmutableDictionary<string, object?[]> Columns)
+    {
+        public Dictionary<int, int> Index { get; } = Rows.Select((r, i) => (r, i)).ToDictionary(p => p.r, p => p.i);
+    }
+
     /// <summary>The first rows of the table in plan order (its default order), as many as the merge kept; null when the table has no plan index.</summary>
     /// <returns>The rows from <paramref name="offset"/>, <paramref name="limit"/> at most, when the entry holds them all; else null.</returns>
     public int[]? PlanOrderPage(int offset, int limit) =>
@@ -36,7 +68,8 @@ internal sealed record FirstLoad(
     internal sealed record ScatterSample(string X, string Y, int Plotted, ImmutableArray<Point> Stable, ImmutableArray<Point> Unstable, ImmutableArray<Point> Front);
 
     /// <summary>The entry of <paramref name="tableFolder"/> when it describes exactly <paramref name="files"/> (in this order) of <paramref name="rows"/> rows; else null.</summary>
-    public static FirstLoad? TryRead(string tableFolder, IReadOnlyList<(string Path, DateTime WrittenUtc, long Length)> files, int rows)
+    /// <remarks><paramref name="columns"/>: the table's columns, whose types say how the first page's cells are boxed.</remarks>
+    public static FirstLoad? TryRead(string tableFolder, IReadOnlyList<(string Path, DateTime WrittenUtc, long Length)> files, int rows, IReadOnlyList<ResultColumn> columns)
     {
         var path = Path.Combine(tableFolder, FirstLoadFacts.FileName);
         try
@@ -87,13 +120,46 @@ internal sealed record FirstLoad(
             }
 
             ImmutableArray<int>? planFirst = root.TryGetProperty("plan_first", out var plan) ? [.. plan.EnumerateArray().Select(r => r.GetInt32())] : null;
-            return new FirstLoad(rows, Names(root.GetProperty("parameters")), Names(root.GetProperty("key_parameters")), planFirst, parameterPlot, scatter);
+            return new FirstLoad(rows, Names(root.GetProperty("parameters")), Names(root.GetProperty("key_parameters")), planFirst, parameterPlot, scatter)
+            {
+                FirstPage = root.TryGetProperty("first_page", out var page) ? Page(page, columns) : null,
+            };
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
         {
             // Unreadable or from another version: the page works from every row.
             return null;
         }
+    }
+
+    /// <summary>The first page's cells, each column boxed by its type in the table (a column the table lacks, or of another type, is left out: its cells are then read).</summary>
+    private static FirstPageCells Page(JsonElement page, IReadOnlyList<ResultColumn> columns)
+    {
+        var rows = page.GetProperty("rows").EnumerateArray().Select(r => r.GetInt32()).ToImmutableArray();
+        var cells = ImmutableDictionary.CreateBuilder<string, object?[]>(StringComparer.Ordinal);
+        foreach (var c in page.GetProperty("columns").EnumerateObject())
+        {
+            if (columns.FirstOrDefault(x => x.Name == c.Name) is not { } column)
+            {
+                continue;
+            }
+
+            Func<JsonElement, object?>? box = column.ClrType == typeof(string) ? v => v.GetString()
+                : column.ClrType == typeof(bool) ? v => v.GetBoolean()
+                : column.ClrType == typeof(int) ? v => v.GetInt32()
+                : column.ClrType == typeof(long) ? v => v.GetInt64()
+                : column.ClrType == typeof(double) || column.ClrType == typeof(float) ? v => v.GetDouble()
+                : null;
+            var values = c.Value.EnumerateArray().ToList();
+            if (box is null || values.Count != rows.Length)
+            {
+                continue;
+            }
+
+            cells[c.Name] = [.. values.Select(v => v.ValueKind == JsonValueKind.Null ? null : box(v))];
+        }
+
+        return new FirstPageCells(rows, cells.ToImmutable());
     }
 
     private static ImmutableArray<string> Names(JsonElement e) => [.. e.EnumerateArray().Select(n => n.GetString()!)];

@@ -78,7 +78,7 @@ internal sealed class ResultStore
         var rows = ColumnDataset.Of(files, IdColumn);
         if (complete && rows.Summary is not null)
         {
-            rows.FirstLoad = FirstLoad.TryRead(table, [.. stamps.Select(s => (s.Path, s.WrittenUtc, s.Length))], rows.Count);
+            rows.FirstLoad = FirstLoad.TryRead(table, [.. stamps.Select(s => (s.Path, s.WrittenUtc, s.Length))], rows.Count, rows.Columns);
         }
 
         if (complete)

@@ -35,12 +35,8 @@ public sealed record SummaryTable(
     ImmutableArray<SummaryColumn> ColumnChoices,
     ImmutableArray<string> DefaultColumnNames)
 {
-    /// <summary>Summary numbers shown by default after the swept parameters (each when the table has values in it).</summary>
-    public static readonly ImmutableArray<string> DefaultColumns =
-    [
-        "state", "max_freq_thz", "largest_gap_width_thz", "sound_speed_mean_m_per_s", "cv_j_per_mol_k",
-        "debye_temperature_from_cv_k", "stable",
-    ];
+    /// <summary>Summary numbers shown by default after the swept parameters (each when the table has values in it); the merge keeps the first page's cells of these (<see cref="FirstLoadFacts"/>).</summary>
+    public static readonly ImmutableArray<string> DefaultColumns = [.. FirstLoadFacts.TableColumns];
 
     public const string DefaultSort = "point_index";
 
@@ -84,7 +80,9 @@ public sealed record SummaryTable(
         // Every column the page shows in one read per file: the shown ones, the id and the marks.
         string[] wanted = ["point_id", PointFlags.StateColumn, PointFlags.StableColumn, PointFlags.FloppyColumn, .. shown];
         var known = wanted.Distinct(StringComparer.Ordinal).Where(filtered.Has).ToList();
-        var read = filtered.CellsAt([.. known.Select(filtered.IndexOf)], page);
+        // The rows the merge kept (the first page in plan order) when it kept every one of these and each column; else from their row groups.
+        var read = (ReferenceEquals(all, filtered) ? all.FirstLoad?.PageCells(known, page) : null)
+            ?? filtered.CellsAt([.. known.Select(filtered.IndexOf)], page);
         object?[] At(string column) => known.IndexOf(column) is var k and >= 0 ? read[k] : new object?[page.Length];
         var ids = At("point_id");
         var cells = shown.Select(At).ToArray();

@@ -64,6 +64,29 @@ public sealed partial class FirstLoadTests
         Assert.NotNull(merged.Scatter);
         Assert.True(table.Count > 0);
 
+        // The merge kept the default page's cells (its first rows in plan order) and the page reads them: it has every column the page reads.
+        var page = merged.FirstPage;
+        Assert.NotNull(page);
+        Assert.Equal(merged.PlanFirst!.Value.Take(FirstLoadFacts.PageRowsKept), page.Rows);
+        string[] pageReads = ["point_id", "state", "stable", "floppy", .. SummaryTable.DefaultColumns, "kappa_w_per_m_k", .. merged.KeyParameters];
+        var pageColumns = pageReads.Distinct(StringComparer.Ordinal).Where(table.Has).ToList();
+        Assert.NotNull(merged.PageCells(pageColumns, [.. page.Rows]));
+        // Each kept cell is the one an independent reader (DuckDB) finds in the row of that point.
+        using (var duck = new DuckDb())
+        {
+            var kept = page.Columns.Keys.Order(StringComparer.Ordinal).ToList();
+            var select = string.Join(", ", kept.Select(c => "\"" + c + "\""));
+            for (var k = 0; k < page.Rows.Length; k++)
+            {
+                var id = (string)page.Columns["point_id"][k]!;
+                var row = duck.Rows($"SELECT {select} FROM {DuckDb.Table(sweep.OutputFolder, TableNames.Points)} WHERE point_id = {DuckDb.Text(id)}").Single();
+                for (var c = 0; c < kept.Count; c++)
+                {
+                    Assert.Equal(Plain(row[c]), Plain(page.Columns[kept[c]][k]));
+                }
+            }
+        }
+
         string[] addresses =
         [
             $"sweeps/{sweepId}",
@@ -187,6 +210,13 @@ public sealed partial class FirstLoadTests
 
         Assert.True(await FirstLoadFacts.TryWriteAsync(folder, new ResultSchemas(sweep.Axes).ColumnsOf(TableNames.Points), MergeBudget.Default, CancellationToken.None));
     }
+
+    /// <summary>A cell as a comparable value: numbers as doubles (DuckDB and the dashboard box them differently), others as they are.</summary>
+    private static object? Plain(object? cell) => cell switch
+    {
+        int or long or float or double or decimal => Convert.ToDouble(cell, System.Globalization.CultureInfo.InvariantCulture),
+        _ => cell,
+    };
 
     private static string Job(string name) => name switch
     {
