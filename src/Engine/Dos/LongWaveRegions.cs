@@ -76,9 +76,61 @@ internal sealed class LongWaveRegions
             }
         }
 
+        if (d == 3 && parts.Count == 1 && narrowings[0] > 0)
+        {
+            WidenSlowerCones(solver, mesh, half, narrowings, fractions, parts, widths);
+        }
+
         var outer = parts[0].Box;
         var combined = parts.Count == 1 ? outer : outer with { BranchHalfWidths = widths };
         return new LongWaveRegions(combined, [.. parts]);
+    }
+
+    /// <summary>Largest error of the rays against direct solves (<see cref="LongWaveRegion.FitError"/>) for which slower cones keep a wider box (<see cref="WidenSlowerCones"/>).</summary>
+    private const double FollowTolerance = 3e-3;
+
+    /// <summary>
+    /// 3D, where every acoustic branch ended in one narrowed box: the slower cones [0, to) take the widest
+    /// box in which their rays rise as a wave and follow the model's own branches (<see cref="LongWaveRegion.FitError"/>
+    /// below <see cref="FollowTolerance"/>); the branches above keep the narrowed box.
+    /// <para>
+    /// Why: the mesh-point tests compare a cone's highest corner with the optical floor at q = 0 (cube test)
+    /// and with 0.8 of the next branch, and so narrow every cone to one cell wherever the first mesh shell
+    /// reaches the optical floor, even when the slower cones never meet a branch above them. The rays see
+    /// between the mesh points: measured, not inferred.
+    /// </para>
+    /// </summary>
+    private static void WidenSlowerCones(ModeSolver solver, BulkSample mesh, int[] half, int[] narrowings, bool fractions, List<LongWaveRegion> parts, int[][] widths)
+    {
+        var acoustic = narrowings.Length;
+        for (var to = acoustic - 1; to >= 1; to--)
+        {
+            for (var steps = 0; steps < narrowings[to]; steps++)
+            {
+                var box = LongWaveRegion.Narrowed(half, 3, steps);
+                var part = LongWaveRegion.Build(solver, mesh, box, 0, to, fractions);
+                if (part is null || !part.RisesAsWave || !(part.FitError(solver) < FollowTolerance))
+                {
+                    continue;
+                }
+
+                var rest = LongWaveRegion.Build(solver, mesh, LongWaveRegion.Narrowed(half, 3, narrowings[acoustic - 1]), to, acoustic, fractions);
+                if (rest is null)
+                {
+                    return;
+                }
+
+                parts.Clear();
+                parts.Add(part);
+                parts.Add(rest);
+                for (var k = 0; k < acoustic; k++)
+                {
+                    widths[k] = k < to ? box : [rest.Box.K1, rest.Box.K2, rest.Box.K3];
+                }
+
+                return;
+            }
+        }
     }
 
     /// <summary>
