@@ -22,7 +22,7 @@ public static class CheckCommand
         ArgumentNullException.ThrowIfNull(stdout);
         ArgumentNullException.ThrowIfNull(stderr);
         SweepPlan plan;
-        var planning = System.Diagnostics.Stopwatch.StartNew();
+        var planning = ProcessorClock.StartNew();
         try
         {
             plan = JobFileLoader.Load(jobFile);
@@ -96,7 +96,9 @@ public static class CheckCommand
     /// <summary>
     /// The forecast's time: <see cref="SweepForecast.DefaultBudget"/>, cut so that planning and forecast
     /// together stay within <see cref="AnswerWithin"/> (a sweep of millions of points takes seconds to
-    /// plan), but never under one second: the sample is then still tens of thousands of points.
+    /// plan), but never under one second: the sample is then still tens of thousands of points. Both are
+    /// counted in the thread's processor time (<see cref="ProcessorClock"/>), so a busy
+    /// machine gives the same sample and counts as a quiet one, later.
     /// </summary>
     public static TimeSpan ForecastBudget(TimeSpan planning)
     {
@@ -115,7 +117,7 @@ public static class CheckCommand
         o.WriteLine();
         var f = SweepForecast.Run(plan, budget, document: document);
         o.WriteLine(f.Sampled
-            ? $"Forecast (points checked without solving them; the {f.Budget.TotalSeconds:0.#} s budget ran out after {N(f.Evaluated)} of {N(f.Total)} points, a sample spread over the plan: the counts below are for that sample, totals scaled to the plan):"
+            ? $"Forecast (points checked without solving them; its budget of {f.Budget.TotalSeconds:0.#} s of processor time ran out after {N(f.Evaluated)} of {N(f.Total)} points, a sample spread over the plan: the counts below are for that sample, totals scaled to the plan):"
             : $"Forecast (every point checked without solving it: {N(f.Total)} {(f.Total == 1 ? "point" : "points")}, {N(f.DistinctModels)} distinct model(s), {f.Elapsed.TotalSeconds:0.0} s):");
         if (f.WillFail > 0)
         {

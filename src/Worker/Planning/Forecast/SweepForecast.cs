@@ -1,5 +1,4 @@
 using System.Collections.Immutable;
-using System.Diagnostics;
 using System.Text;
 using LatticeSweep.Engine.Elastic;
 using LatticeSweep.Engine.Errors;
@@ -15,7 +14,7 @@ namespace LatticeSweep.Worker.Planning.Forecast;
 /// by the Engine (the checks it makes before the spectrum), its sample and options checked, and its
 /// cost, memory and disk estimated. Models are built once per distinct set of model parameters (a
 /// sweep of a million sample sizes over ten models builds ten models). Points are visited in an
-/// order spread over the whole plan, so when the time budget runs out the ones evaluated are a fair
+/// order spread over the whole plan, so when the time budget (processor time, <see cref="ProcessorClock"/>) runs out the ones evaluated are a fair
 /// sample, and the report says so. Each failure reason is traced to where in the job file it comes
 /// from by the worker's own <see cref="FailureLocator"/>, so <c>check</c> names the same origin as
 /// <c>run</c> and <c>status</c> later, grouped as <c>run</c> groups them (by reason and origin) with the
@@ -127,7 +126,7 @@ internal static class SweepForecast
     {
         ArgumentNullException.ThrowIfNull(plan);
         seconds ??= PointCost.Seconds;
-        var clock = Stopwatch.StartNew();
+        var clock = ProcessorClock.StartNew();
         var points = plan.Points;
         var modelColumns = plan.Template.Bindings.Where(b => b.Field.Path.StartsWith("model.", StringComparison.Ordinal)).Select(b => b.Column).ToArray();
         var models = new Dictionary<string, ModelEntry>(StringComparer.Ordinal);
@@ -135,7 +134,7 @@ internal static class SweepForecast
         var groups = new Dictionary<string, GroupTally>(StringComparer.Ordinal);
         var traced = new Dictionary<string, List<string>>(StringComparer.Ordinal);
         var untraced = new Dictionary<string, long>(StringComparer.Ordinal);
-        var tracing = new Stopwatch();
+        var tracing = TimeSpan.Zero;
         var justTraced = false;
         var failed = 0L;
         var evaluated = 0L;
@@ -224,13 +223,13 @@ internal static class SweepForecast
             {
                 failed++;
                 var first = !traced.ContainsKey(failure);
-                if (first || tracing.Elapsed < budget * TraceShare)
+                if (first || tracing < budget * TraceShare)
                 {
                     // Traced point by point, as run traces each failed point, while the tracing's share of the budget lasts;
                     // the first point of each reason always.
-                    tracing.Start();
+                    var tracingFrom = clock.Elapsed;
                     var text = FailureLocator.DescribeOrUntraced(plan, point, refusal!, out _);
-                    tracing.Stop();
+                    tracing += clock.Elapsed - tracingFrom;
                     justTraced = true;
                     if (!traced.TryGetValue(failure, out var texts))
                     {
