@@ -326,11 +326,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
     protected virtual void UpdateCompletedPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, IReadOnlyList<PointCompletion> points)
     {
         ArgumentNullException.ThrowIfNull(points);
-        using var cmd = Command(c, tx, """
-            UPDATE latsweep_points SET state = @state, failure_kind = @kind, error = @error,
-                started_ms = @started, finished_ms = @finished, duration_us = @duration
-            WHERE sweep_id = @sweep AND chunk_id = @chunk AND point_id = @point
-            """);
+        using var cmd = Command(c, tx, UpdatePointEndSql);
         Add(cmd, "sweep", sweepId);
         Add(cmd, "chunk", chunkId);
         var pState = Add(cmd, "state", "");
@@ -352,6 +348,13 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
             cmd.ExecuteNonQuery();
         }
     }
+
+    /// <summary>The UPDATE of one point's end (parameters @sweep, @chunk, @point, @state, @kind, @error, @started, @finished, @duration).</summary>
+    protected const string UpdatePointEndSql = """
+        UPDATE latsweep_points SET state = @state, failure_kind = @kind, error = @error,
+            started_ms = @started, finished_ms = @finished, duration_us = @duration
+        WHERE sweep_id = @sweep AND chunk_id = @chunk AND point_id = @point
+        """;
 
     /// <summary>A point's duration as the catalog keeps it, in whole microseconds.</summary>
     internal static long DurationUs(double seconds) => (long)Math.Round(seconds * 1e6);

@@ -66,123 +66,88 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
     }
 
     /// <summary>
-    /// A chunk's ends as one statement over the JSON array of them (<c>json_each</c>, one bound
-    /// parameter), as <see cref="InsertChunkPoints"/> inserts them: a prepared UPDATE per point cost
-    /// ~14 us of binding and stepping each, ~30 ms per 2,000 points (bench/README.md, Round 19). A
-    /// point given twice ends as the last one given, as the base's updates one after another leave
-    /// it. An error text JSON cannot carry as it is (a NUL or a lone surrogate) takes the base's way.
+    /// A chunk's ends through SQLite's own statement API: the base's UPDATE per point, prepared once
+    /// and its seven values bound by position, in the order given (a point given twice ends as the last
+    /// one given). Through ADO.NET each point cost ~14 us of binding by name and command set-up
+    /// (bench/README.md, Round 19); the values are bound as ADO.NET binds them (text as UTF-8 by
+    /// <c>sqlite3_bind_text</c>), so the rows hold the same bytes. (One statement over a JSON array of the
+    /// ends was tried: SQLite joins the chunk's rows to the array by scanning the array for each row.)
     /// </summary>
     protected override void UpdateCompletedPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, IReadOnlyList<PointCompletion> points)
     {
         ArgumentNullException.ThrowIfNull(points);
-        if (points.Count == 0)
+        var db = ((SqliteConnection)c).Handle!;
+        Check(db, SQLitePCL.raw.sqlite3_prepare_v2(db, UpdatePointEndSql, out var stmt));
+        using (stmt)
         {
-            return;
-        }
-
-        if (points.Any(p => p.Error is { } e && !SqliteJsonRows.Carries(e)))
-        {
-            base.UpdateCompletedPoints(c, tx, sweepId, chunkId, points);
-            return;
-        }
-
-        var last = new Dictionary<string, int>(points.Count, StringComparer.Ordinal);
-        for (var i = 0; i < points.Count; i++)
-        {
-            last[points[i].PointId] = i;
-        }
-
-        var json = SqliteJsonRows.Write(w =>
-        {
-            for (var i = 0; i < points.Count; i++)
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@sweep"), sweepId));
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@chunk"), chunkId));
+            int state = Index(stmt, "@state"), kind = Index(stmt, "@kind"), error = Index(stmt, "@error"), started = Index(stmt, "@started"),
+                finished = Index(stmt, "@finished"), duration = Index(stmt, "@duration"), point = Index(stmt, "@point");
+            foreach (var p in points)
             {
-                var p = points[i];
-                if (last[p.PointId] != i)
-                {
-                    continue;
-                }
-
-                w.WriteStartArray();
-                w.WriteStringValue(p.PointId);
-                w.WriteStringValue(Text(p.State));
-                if (p.FailureKind is { } k)
-                {
-                    w.WriteStringValue(Text(k));
-                }
-                else
-                {
-                    w.WriteNullValue();
-                }
-
-                if (p.Error is { } error)
-                {
-                    w.WriteStringValue(error);
-                }
-                else
-                {
-                    w.WriteNullValue();
-                }
-
-                w.WriteNumberValue(Ms(p.StartedAt));
-                w.WriteNumberValue(Ms(p.FinishedAt));
-                w.WriteNumberValue(DurationUs(p.DurationSeconds));
-                w.WriteEndArray();
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, state, Text(p.State)));
+                Check(db, p.FailureKind is { } k ? SQLitePCL.raw.sqlite3_bind_text(stmt, kind, Text(k)) : SQLitePCL.raw.sqlite3_bind_null(stmt, kind));
+                Check(db, p.Error is { } e ? SQLitePCL.raw.sqlite3_bind_text(stmt, error, e) : SQLitePCL.raw.sqlite3_bind_null(stmt, error));
+                Check(db, SQLitePCL.raw.sqlite3_bind_int64(stmt, started, Ms(p.StartedAt)));
+                Check(db, SQLitePCL.raw.sqlite3_bind_int64(stmt, finished, Ms(p.FinishedAt)));
+                Check(db, SQLitePCL.raw.sqlite3_bind_int64(stmt, duration, DurationUs(p.DurationSeconds)));
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, point, p.PointId));
+                Step(db, stmt);
             }
-        });
-        Execute(c, tx, """
-            UPDATE latsweep_points SET state = j.state, failure_kind = j.kind, error = j.error,
-                started_ms = j.started, finished_ms = j.finished, duration_us = j.duration
-            FROM (SELECT json_extract(value, '$[0]') AS point, json_extract(value, '$[1]') AS state, json_extract(value, '$[2]') AS kind,
-                    json_extract(value, '$[3]') AS error, json_extract(value, '$[4]') AS started, json_extract(value, '$[5]') AS finished,
-                    json_extract(value, '$[6]') AS duration
-                FROM json_each(@points)) AS j
-            WHERE latsweep_points.sweep_id = @sweep AND latsweep_points.chunk_id = @chunk AND latsweep_points.point_id = j.point
-            """,
-            ("sweep", sweepId), ("chunk", chunkId), ("points", json));
+        }
+    }
+
+    /// <summary>Runs a bound statement that returns no rows, and resets it for the next values.</summary>
+    private static void Step(SQLitePCL.sqlite3 db, SQLitePCL.sqlite3_stmt stmt)
+    {
+        var rc = SQLitePCL.raw.sqlite3_step(stmt);
+        SQLitePCL.raw.sqlite3_reset(stmt);
+        if (rc != SQLitePCL.raw.SQLITE_DONE)
+        {
+            SqliteException.ThrowExceptionForRC(rc, db);
+        }
+    }
+
+    private static int Index(SQLitePCL.sqlite3_stmt stmt, string name) =>
+        SQLitePCL.raw.sqlite3_bind_parameter_index(stmt, name) is > 0 and var i ? i : throw new InvalidOperationException($"no parameter {name} in the statement");
+
+    private static void Check(SQLitePCL.sqlite3 db, int rc)
+    {
+        if (rc != SQLitePCL.raw.SQLITE_OK)
+        {
+            SqliteException.ThrowExceptionForRC(rc, db);
+        }
     }
 
     /// <summary>
-    /// Axis count rows as one upsert per <see cref="AxisRowsPerJson"/> changes over their JSON array
-    /// (<c>json_each</c>): a statement with 100 rows of bound parameters made SQLite look each of its
-    /// 500 names up among the others (most of a 2,000-point chunk's completion: bench/README.md, Round 19).
+    /// Axis count rows one upsert each through SQLite's own statement API, prepared once and bound by
+    /// position. The base's statements of 100 rows of bound parameters made SQLite look each of their
+    /// 500 names up among the others (a 2,000-point chunk's 4,000 changes were most of its completion's
+    /// CPU: bench/README.md, Round 19). Text is bound as ADO.NET binds it, so the rows are the same.
     /// </summary>
     protected override void AddAxisRows(DbConnection c, DbTransaction tx, string sweepId, IReadOnlyList<((string Column, string Value, string State) Key, long Change)> changes)
     {
         ArgumentNullException.ThrowIfNull(changes);
-        if (changes.Any(x => !SqliteJsonRows.Carries(x.Key.Column) || !SqliteJsonRows.Carries(x.Key.Value)))
+        var db = ((SqliteConnection)c).Handle!;
+        Check(db, SQLitePCL.raw.sqlite3_prepare_v2(db, """
+            INSERT INTO latsweep_axis_counts (sweep_id, column_name, value_json, state, points) VALUES (@s, @c, @v, @t, @n)
+            ON CONFLICT (sweep_id, column_name, value_json, state) DO UPDATE SET points = latsweep_axis_counts.points + excluded.points
+            """, out var stmt));
+        using (stmt)
         {
-            base.AddAxisRows(c, tx, sweepId, changes);
-            return;
-        }
-
-        for (var start = 0; start < changes.Count; start += AxisRowsPerJson)
-        {
-            var count = Math.Min(AxisRowsPerJson, changes.Count - start);
-            var json = SqliteJsonRows.Write(w =>
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@s"), sweepId));
+            int column = Index(stmt, "@c"), value = Index(stmt, "@v"), state = Index(stmt, "@t"), points = Index(stmt, "@n");
+            foreach (var ((c1, v, t), n) in changes)
             {
-                for (var i = start; i < start + count; i++)
-                {
-                    var ((column, value, state), change) = changes[i];
-                    w.WriteStartArray();
-                    w.WriteStringValue(column);
-                    w.WriteStringValue(value);
-                    w.WriteStringValue(state);
-                    w.WriteNumberValue(change);
-                    w.WriteEndArray();
-                }
-            });
-            Execute(c, tx, """
-                INSERT INTO latsweep_axis_counts (sweep_id, column_name, value_json, state, points)
-                SELECT @s, json_extract(value, '$[0]'), json_extract(value, '$[1]'), json_extract(value, '$[2]'), json_extract(value, '$[3]')
-                FROM json_each(@rows) WHERE true
-                ON CONFLICT (sweep_id, column_name, value_json, state) DO UPDATE SET points = latsweep_axis_counts.points + excluded.points
-                """,
-                ("s", sweepId), ("rows", json));
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, column, c1));
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, value, v));
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, state, t));
+                Check(db, SQLitePCL.raw.sqlite3_bind_int64(stmt, points, n));
+                Step(db, stmt);
+            }
         }
     }
-
-    /// <summary>Axis count changes per upsert: a few MB of JSON text at most.</summary>
-    private const int AxisRowsPerJson = 20_000;
 
     /// <summary>
     /// Chunk rows through SQLite's own statement API: the points' UTF-8 text is bound as it is (the
