@@ -121,8 +121,7 @@ public abstract partial class SqlSweepCatalog
         var after = new AxisTally(columns);
         foreach (var (pointId, state, json) in rows)
         {
-            before.AddParameters(json, state);
-            after.AddParameters(json, next.GetValueOrDefault(pointId, state));
+            before.AddParameters(json, state, after, next.GetValueOrDefault(pointId, state));
         }
 
         AddAxisChange(c, tx, sweepId, before, after);
