@@ -27,9 +27,16 @@ internal sealed class AxisTally
     public Dictionary<(string Column, string Value, string State), long> Counts { get; } = [];
 
     /// <summary>Counts one point in <paramref name="state"/> by its parameters' JSON object text (a null value is not counted, as coverage never showed it).</summary>
-    public void AddParameters(string parametersJson, string state)
+    public void AddParameters(string parametersJson, string state) => AddParameters(parametersJson, state, null, null);
+
+    /// <summary>
+    /// The same, and the same point in <paramref name="alsoState"/> in <paramref name="also"/> (a point
+    /// before and after a change) from one reading of its text; <paramref name="also"/> counts the same columns.
+    /// </summary>
+    public void AddParameters(string parametersJson, string state, AxisTally? also, string? alsoState)
     {
         Add(AllPoints, AllPoints, state, 1);
+        also?.Add(AllPoints, AllPoints, alsoState!, 1);
         if (_columns.Count == 0)
         {
             return;
@@ -54,7 +61,9 @@ internal sealed class AxisTally
 
             if (r.TokenType != JsonTokenType.Null && _columns.Contains(name))
             {
-                Add(name, Encoding.UTF8.GetString(bytes, start, (int)r.BytesConsumed - start), state, 1);
+                var value = Encoding.UTF8.GetString(bytes, start, (int)r.BytesConsumed - start);
+                Add(name, value, state, 1);
+                also?.Add(name, value, alsoState!, 1);
             }
         }
     }

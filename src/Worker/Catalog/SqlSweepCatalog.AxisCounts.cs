@@ -67,9 +67,22 @@ public abstract partial class SqlSweepCatalog
     }
 
     /// <summary>Adds <paramref name="after"/> minus <paramref name="before"/> to the sweep's axis counts.</summary>
-    private static void AddAxisChange(DbConnection c, DbTransaction tx, string sweepId, AxisTally before, AxisTally after)
+    private void AddAxisChange(DbConnection c, DbTransaction tx, string sweepId, AxisTally before, AxisTally after)
     {
         var changes = AxisTally.Change(before, after);
+        if (changes.Count > 0)
+        {
+            AddAxisRows(c, tx, sweepId, changes);
+        }
+    }
+
+    /// <summary>
+    /// Adds each change to its (column, value, state) count row, creating the row when missing: here
+    /// <see cref="AxisRowsPerStatement"/> rows per statement (a statement is a round trip to PostgreSQL).
+    /// </summary>
+    protected virtual void AddAxisRows(DbConnection c, DbTransaction tx, string sweepId, IReadOnlyList<((string Column, string Value, string State) Key, long Change)> changes)
+    {
+        ArgumentNullException.ThrowIfNull(changes);
         for (var start = 0; start < changes.Count; start += AxisRowsPerStatement)
         {
             var count = Math.Min(AxisRowsPerStatement, changes.Count - start);
@@ -94,7 +107,7 @@ public abstract partial class SqlSweepCatalog
     }
 
     /// <summary>Adds a chunk's completion: its <paramref name="rows"/> as they were before, each point of <paramref name="points"/> in its new state (the last one given, as the updates leave it).</summary>
-    private static void AddCompletedAxes(DbConnection c, DbTransaction tx, string sweepId,
+    private void AddCompletedAxes(DbConnection c, DbTransaction tx, string sweepId,
         List<(string PointId, string State, string ParametersJson)> rows, IReadOnlyList<PointCompletion> points)
     {
         var columns = AxisColumns(c, tx, sweepId);
@@ -108,15 +121,14 @@ public abstract partial class SqlSweepCatalog
         var after = new AxisTally(columns);
         foreach (var (pointId, state, json) in rows)
         {
-            before.AddParameters(json, state);
-            after.AddParameters(json, next.GetValueOrDefault(pointId, state));
+            before.AddParameters(json, state, after, next.GetValueOrDefault(pointId, state));
         }
 
         AddAxisChange(c, tx, sweepId, before, after);
     }
 
     /// <summary>Moves the sweep's waiting points (rows and pending chunks) to cancelled in the axis counts. Call before the states change, under the sweep's lock.</summary>
-    private static void CancelAxes(DbConnection c, DbTransaction tx, string sweepId)
+    private void CancelAxes(DbConnection c, DbTransaction tx, string sweepId)
     {
         var waiting = new AxisTally(AxisColumns(c, tx, sweepId));
         using (var cmd = Command(c, tx, "SELECT parameters_json FROM latsweep_points WHERE sweep_id = @sweep AND state = @waiting"))
@@ -161,7 +173,7 @@ public abstract partial class SqlSweepCatalog
     }
 
     /// <summary>Counts the sweep's axis values again from its point rows and pending chunks. Call under the sweep's lock.</summary>
-    private static void RecountAxes(DbConnection c, DbTransaction tx, string sweepId)
+    private void RecountAxes(DbConnection c, DbTransaction tx, string sweepId)
     {
         var tally = TallyFromPoints(c, tx, sweepId);
         Execute(c, tx, "DELETE FROM latsweep_axis_counts WHERE sweep_id = @sweep", ("sweep", sweepId));

@@ -66,6 +66,90 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
     }
 
     /// <summary>
+    /// A chunk's ends through SQLite's own statement API: the base's UPDATE per point, prepared once
+    /// and its seven values bound by position, in the order given (a point given twice ends as the last
+    /// one given). Through ADO.NET each point cost ~14 us of binding by name and command set-up
+    /// (bench/README.md, Round 19); the values are bound as ADO.NET binds them (text as UTF-8 by
+    /// <c>sqlite3_bind_text</c>), so the rows hold the same bytes. (One statement over a JSON array of the
+    /// ends was tried: SQLite joins the chunk's rows to the array by scanning the array for each row.)
+    /// </summary>
+    protected override void UpdateCompletedPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, IReadOnlyList<PointCompletion> points)
+    {
+        ArgumentNullException.ThrowIfNull(points);
+        var db = ((SqliteConnection)c).Handle!;
+        Check(db, SQLitePCL.raw.sqlite3_prepare_v2(db, UpdatePointEndSql, out var stmt));
+        using (stmt)
+        {
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@sweep"), sweepId));
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@chunk"), chunkId));
+            int state = Index(stmt, "@state"), kind = Index(stmt, "@kind"), error = Index(stmt, "@error"), started = Index(stmt, "@started"),
+                finished = Index(stmt, "@finished"), duration = Index(stmt, "@duration"), point = Index(stmt, "@point");
+            foreach (var p in points)
+            {
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, state, Text(p.State)));
+                Check(db, p.FailureKind is { } k ? SQLitePCL.raw.sqlite3_bind_text(stmt, kind, Text(k)) : SQLitePCL.raw.sqlite3_bind_null(stmt, kind));
+                Check(db, p.Error is { } e ? SQLitePCL.raw.sqlite3_bind_text(stmt, error, e) : SQLitePCL.raw.sqlite3_bind_null(stmt, error));
+                Check(db, SQLitePCL.raw.sqlite3_bind_int64(stmt, started, Ms(p.StartedAt)));
+                Check(db, SQLitePCL.raw.sqlite3_bind_int64(stmt, finished, Ms(p.FinishedAt)));
+                Check(db, SQLitePCL.raw.sqlite3_bind_int64(stmt, duration, DurationUs(p.DurationSeconds)));
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, point, p.PointId));
+                Step(db, stmt);
+            }
+        }
+    }
+
+    /// <summary>Runs a bound statement that returns no rows, and resets it for the next values.</summary>
+    private static void Step(SQLitePCL.sqlite3 db, SQLitePCL.sqlite3_stmt stmt)
+    {
+        var rc = SQLitePCL.raw.sqlite3_step(stmt);
+        SQLitePCL.raw.sqlite3_reset(stmt);
+        if (rc != SQLitePCL.raw.SQLITE_DONE)
+        {
+            SqliteException.ThrowExceptionForRC(rc, db);
+        }
+    }
+
+    private static int Index(SQLitePCL.sqlite3_stmt stmt, string name) =>
+        SQLitePCL.raw.sqlite3_bind_parameter_index(stmt, name) is > 0 and var i ? i : throw new InvalidOperationException($"no parameter {name} in the statement");
+
+    private static void Check(SQLitePCL.sqlite3 db, int rc)
+    {
+        if (rc != SQLitePCL.raw.SQLITE_OK)
+        {
+            SqliteException.ThrowExceptionForRC(rc, db);
+        }
+    }
+
+    /// <summary>
+    /// Axis count rows one upsert each through SQLite's own statement API, prepared once and bound by
+    /// position. The base's statements of 100 rows of bound parameters made SQLite look each of their
+    /// 500 names up among the others (a 2,000-point chunk's 4,000 changes were most of its completion's
+    /// CPU: bench/README.md, Round 19). Text is bound as ADO.NET binds it, so the rows are the same.
+    /// </summary>
+    protected override void AddAxisRows(DbConnection c, DbTransaction tx, string sweepId, IReadOnlyList<((string Column, string Value, string State) Key, long Change)> changes)
+    {
+        ArgumentNullException.ThrowIfNull(changes);
+        var db = ((SqliteConnection)c).Handle!;
+        Check(db, SQLitePCL.raw.sqlite3_prepare_v2(db, """
+            INSERT INTO latsweep_axis_counts (sweep_id, column_name, value_json, state, points) VALUES (@s, @c, @v, @t, @n)
+            ON CONFLICT (sweep_id, column_name, value_json, state) DO UPDATE SET points = latsweep_axis_counts.points + excluded.points
+            """, out var stmt));
+        using (stmt)
+        {
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@s"), sweepId));
+            int column = Index(stmt, "@c"), value = Index(stmt, "@v"), state = Index(stmt, "@t"), points = Index(stmt, "@n");
+            foreach (var ((c1, v, t), n) in changes)
+            {
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, column, c1));
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, value, v));
+                Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, state, t));
+                Check(db, SQLitePCL.raw.sqlite3_bind_int64(stmt, points, n));
+                Step(db, stmt);
+            }
+        }
+    }
+
+    /// <summary>
     /// Chunk rows through SQLite's own statement API: the points' UTF-8 text is bound as it is (the
     /// ADO.NET parameter takes a string, made from the UTF-8 and turned back into UTF-8 to bind:
     /// ~0.2 GB of short-lived large objects at 10^6 points). The statement runs on the connection,

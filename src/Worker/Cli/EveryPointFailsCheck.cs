@@ -21,7 +21,9 @@ internal static class EveryPointFailsCheck
     {
         ArgumentNullException.ThrowIfNull(plan);
         ArgumentNullException.ThrowIfNull(context);
-        var f = SweepForecast.Run(plan, Budget, document: CheckCommand.Document(plan));
+        // Only whether every point fails matters here: the forecast stops at the first point that works
+        // (a 2,000-point sweep of distinct models was built and checked whole before every run: ~17 us a point).
+        var f = SweepForecast.Run(plan, Budget, document: CheckCommand.Document(plan), untilOneWorks: true);
         if (!f.AllFail)
         {
             return;

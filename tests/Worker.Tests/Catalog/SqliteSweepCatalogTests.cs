@@ -318,6 +318,45 @@ public sealed class SqliteSweepCatalogTests : IDisposable
         Assert.Null(_catalog.FindSweep("unknown"));
     }
 
+    [Theory]
+    [InlineData("mass must be > 0")]
+    [InlineData("quotes \" and \\ back\nslash, tab\t, é, 質量, 🙂 and <tags> & more")]
+    [InlineData("a NUL \0 inside")]
+    [InlineData("a lone surrogate \ud800 inside")]
+    public void A_chunk_completion_keeps_every_point_end_as_given(string error)
+    {
+        var (id, chunks) = TestCatalog.Register(_catalog, SomeSweep.Plan(), _dir.Combine("out"));
+        var claim = _catalog.BeginChunk(id, chunks[0], "t");
+        var first = claim.Points[0].PointId;
+        var second = claim.Points[1].PointId;
+        var started = DateTimeOffset.UnixEpoch.AddDays(3).AddMilliseconds(123);
+
+        // The second point is given twice: it ends as the last one given.
+        _catalog.CompleteChunk(id, chunks[0],
+        [
+            new PointCompletion(first, PointState.Failed, FailureKind.Engine, error, started, started.AddMilliseconds(2_500), 2.4999996),
+            new PointCompletion(second, PointState.Failed, FailureKind.Io, "first try", started, started, 0.5),
+            new PointCompletion(second, PointState.Unstable, null, null, started, started.AddSeconds(1), 1e-7),
+        ]);
+
+        var points = _catalog.GetChunkPoints(id, chunks[0]).ToDictionary(p => p.PointId);
+        var a = points[first];
+        Assert.Equal(PointState.Failed, a.State);
+        Assert.Equal(FailureKind.Engine, a.FailureKind);
+        Assert.Equal(error.Replace("\ud800", "\ufffd", StringComparison.Ordinal), a.Error);
+        Assert.Equal(started, a.StartedAt);
+        Assert.Equal(started.AddMilliseconds(2_500), a.FinishedAt);
+        Assert.Equal(2.5, a.DurationSeconds);
+        var b = points[second];
+        Assert.Equal(PointState.Unstable, b.State);
+        Assert.Null(b.FailureKind);
+        Assert.Null(b.Error);
+        Assert.Equal(started.AddSeconds(1), b.FinishedAt);
+        Assert.Equal(0.0, b.DurationSeconds);
+        Assert.Equal(1, _catalog.FindSweep(id)!.Counts.Failed);
+        Assert.Equal(1, _catalog.FindSweep(id)!.Counts.Unstable);
+    }
+
     private static PointCompletion[] Done(ChunkClaim claim) =>
         [.. claim.Points.Select(p => Completion(p.PointId, PointState.Done, null, null))];
 

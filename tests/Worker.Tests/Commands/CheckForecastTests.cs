@@ -228,6 +228,44 @@ public sealed class CheckForecastTests : IDisposable
         Assert.Equal(sampled.Total, (long)Math.Round(sampled.Evaluated * sampled.Scale));
     }
 
+    private static string RefusedWhereTransverseIsZero(string transverseValues) => Some.ChainJob(sweep: $$"""
+        [[sweep.axes]]
+        path = "model.springs[0].transverse_n_per_m"
+        values = [{{transverseValues}}]
+
+        [[sweep.axes]]
+        path = "model.sites.B.mass_amu"
+        values = [20.0, 30.0, 40.0]
+        """).Replace("constant_nm = 0.5", "constant_nm = 0.5\nmotion = \"3d\"", StringComparison.Ordinal);
+
+    [Fact]
+    public void Until_one_works_the_forecast_stops_at_the_first_point_that_will_not_fail_and_answers_all_fail_alike()
+    {
+        using var dir = new TempDirectory();
+
+        // Half the points refused (transverse 0 N/m in 3d), half fine: run's question, whether all fail, is answered at the first fine one.
+        var mixed = Some.Load(dir, RefusedWhereTransverseIsZero("0.0, 8.0"));
+        var whole = SweepForecast.Run(mixed, TimeSpan.FromMinutes(5));
+        var early = SweepForecast.Run(mixed, TimeSpan.FromMinutes(5), untilOneWorks: true);
+        Assert.Equal(6, whole.Evaluated);
+        Assert.Equal(3, whole.WillFail);
+        Assert.False(whole.AllFail);
+        Assert.False(early.AllFail);
+        Assert.InRange(early.Evaluated, 1, 4);
+        Assert.Equal(early.Evaluated - 1, early.WillFail); // every point before the fine one failed
+
+        // Every point refused: the same answer and the same report either way.
+        using var dir2 = new TempDirectory();
+        var refused = Some.Load(dir2, RefusedWhereTransverseIsZero("0.0"));
+        var all = SweepForecast.Run(refused, TimeSpan.FromMinutes(5));
+        var allEarly = SweepForecast.Run(refused, TimeSpan.FromMinutes(5), untilOneWorks: true);
+        Assert.True(all.AllFail);
+        Assert.True(allEarly.AllFail);
+        Assert.Equal((3L, 3L), (all.Evaluated, all.WillFail));
+        Assert.Equal((all.Evaluated, all.WillFail), (allEarly.Evaluated, allEarly.WillFail));
+        Assert.Equal(all.Failures.Select(f => (f.ReasonText, f.Count)), allEarly.Failures.Select(f => (f.ReasonText, f.Count)));
+    }
+
     /// <summary>40,000 distinct models, every one refused (no transverse spring in 3d: the swept 0 N/m).</summary>
     private static readonly string ManyRefusedModels = Some.ChainJob(sweep: """
         [[sweep.axes]]

@@ -122,7 +122,10 @@ internal static class SweepForecast
 
     /// <param name="document">The job file as read: each failure reason then names the file, line and column of the key
     /// it is about (<see cref="JobFiles.ModelProblemText"/>); without it the Engine's reason alone.</param>
-    public static ForecastReport Run(SweepPlan plan, TimeSpan budget, Func<PointCost.Work, double>? seconds = null, JobFiles.TomlDocument? document = null)
+    /// <param name="untilOneWorks">Stop at the first point that will not fail (<c>run</c>'s question is only whether every point
+    /// fails): the report then counts the points evaluated up to it, and its totals are of those alone.</param>
+    public static ForecastReport Run(SweepPlan plan, TimeSpan budget, Func<PointCost.Work, double>? seconds = null, JobFiles.TomlDocument? document = null,
+        bool untilOneWorks = false)
     {
         ArgumentNullException.ThrowIfNull(plan);
         seconds ??= PointCost.Seconds;
@@ -217,6 +220,11 @@ internal static class SweepForecast
                     failure = JobFiles.ModelProblemText.Of(ex, document);
                     refusal = ex;
                 }
+            }
+
+            if (failure is null && untilOneWorks)
+            {
+                break;
             }
 
             if (failure is not null)
