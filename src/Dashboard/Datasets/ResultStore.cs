@@ -78,7 +78,9 @@ internal sealed class ResultStore
         var rows = ColumnDataset.Of(files, IdColumn);
         if (complete && rows.Summary is not null)
         {
-            rows.FirstLoad = FirstLoad.TryRead(table, [.. stamps.Select(s => (s.Path, s.WrittenUtc, s.Length))], rows.Count, rows.Columns);
+            // The merge's entry for exactly these files; else (a running sweep's parts) the first page from the files' own first rows.
+            rows.FirstLoad = FirstLoad.TryRead(table, [.. stamps.Select(s => (s.Path, s.WrittenUtc, s.Length))], rows.Count, rows.Columns)
+                ?? FirstLoad.OfParts(files, rows.Count, rows.Columns);
         }
 
         if (complete)
