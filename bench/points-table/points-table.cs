@@ -134,7 +134,15 @@ async Task WriteFileAsync(string path, int count, Func<int, int> rowOf, Dictiona
         var whole = new Array[fields.Length];
         for (var c = 0; c < fields.Length; c++)
         {
-            whole[c] = Array.CreateInstance(groups[0].Columns[c].GetType().GetElementType()!, count);
+            whole[c] = groups[0].Columns[c] switch
+            {
+                string?[] => new string?[count],
+                double?[] => new double?[count],
+                int?[] => new int?[count],
+                long?[] => new long?[count],
+                bool?[] => new bool?[count],
+                _ => new DateTime?[count],
+            };
             var at = 0;
             foreach (var (cells, n) in groups)
             {

@@ -438,11 +438,14 @@ internal sealed class ParquetColumnFile
     /// <summary>
     /// How long an open reader of the file is kept after its last use. Opening one parses the footer
     /// (~40-80 ms for a merged file of ~80 row groups of 153 columns, more than reading a number
-    /// column of it), and a first load reads a dozen columns of each file in a row. The file is
+    /// column of it), and a first load reads a dozen columns of each file in a row; a running sweep's
+    /// first load reads a column of each of its ~100-250 parts in turn, and took several seconds at a
+    /// busy machine's load (at 2 s a part's footer was parsed again for nearly every column: ~1.1 MiB
+    /// each, bench/README.md round 19). The file is
     /// opened with FileShare.Delete, so a merge can still replace or remove it meanwhile; the kept
     /// handle then reads the file as it was listed, which is what this object describes.
     /// </summary>
-    internal static readonly TimeSpan ReaderKept = TimeSpan.FromSeconds(2);
+    internal static readonly TimeSpan ReaderKept = TimeSpan.FromSeconds(10);
 
     private readonly SemaphoreSlim _readerLock = new(1, 1);
     private FileStream? _stream;
@@ -487,8 +490,12 @@ internal sealed class ParquetColumnFile
         }
     }
 
-    /// <summary>At most this many files' readers are kept open at once (a running sweep's table may have thousands of part files).</summary>
-    internal const int MaxReadersKept = 32;
+    /// <summary>
+    /// At most this many files' readers are kept open at once (a running sweep's table may have thousands of
+    /// part files): a 10^6-point sweep's 128-250 parts each keep theirs through the first load (~0.25 MiB
+    /// each; at 32 every part's footer was parsed again for each column read, round 19).
+    /// </summary>
+    internal const int MaxReadersKept = 256;
 
     private static int s_readersKept;
 
