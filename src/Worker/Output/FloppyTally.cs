@@ -19,7 +19,7 @@ public sealed record FloppyTally(long? Floppy, long Rows, string? NotCountedBeca
     /// <summary>Parts without footer counts whose floppy column is read: a few seconds of reading at most, never one per chunk of a 10^6-point sweep.</summary>
     public const int MaxPartsRead = 64;
 
-    /// <summary>Files whose footers are read (a part's takes ~1-3 ms): a 10^6-point sweep of chunks of 1,000 points has 1,000 parts.</summary>
+    /// <summary>Files whose footers are read (128 parts' took ~0.1-0.2 s of CPU, bench/README.md round 19): a 10^6-point sweep of chunks of 1,000 points has 1,000 parts.</summary>
     public const int MaxFootersRead = 2048;
 
     private const string FloppyColumn = "floppy";
@@ -43,7 +43,7 @@ public sealed record FloppyTally(long? Floppy, long Rows, string? NotCountedBeca
 
         try
         {
-            // The footers side by side: a merged file's takes ~0.1 s to parse (153 columns x its row groups), a part's a few ms.
+            // The footers side by side: a merged file's takes ~0.1 s to parse (153 columns x its row groups), a part's ~1 ms.
             var options = new ParallelOptions { MaxDegreeOfParallelism = Math.Min(4, Environment.ProcessorCount) };
             var read = new FileTally?[files.Count];
             Parallel.For(0, files.Count, options, i => read[i] = ReadAsync(files[i], readColumn: false).GetAwaiter().GetResult());
