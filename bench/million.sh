@@ -78,7 +78,7 @@ for step in "${steps[@]}"; do
       # of the second axis) tiled by bench/points-table/points-table.cs (the catalog still says queued),
       # in each state of DASHBOARD_TABLES (default "parts merged"), each met by a fresh dashboard process:
       #   parts   MERGE_PARTS (default 128) part files laid out as the Worker writes them: a running sweep
-      #           (no footer summary, no .first-load.json: every fact is read from the rows);
+      #           (each part's footer summary and first rows as the Worker writes them, no .first-load.json);
       #   merged  the same parts after `latsweep merge` (as at the end of `latsweep run`): the merged
       #           files' footer summaries and the first load's facts (.first-load.json);
       #   single  one file of every row without either (what this step measured before round 18).

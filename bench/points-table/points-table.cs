@@ -1,4 +1,6 @@
 #:package Parquet.Net
+#:project ../../src/Worker/Worker.csproj
+#:property AssemblyName=LatticeSweep.Bench.PointsTable
 // Bench data only (bench/million.sh, dashboard step): a points/ table of N rows made from a real
 // points/ file that `latsweep run` wrote (the template), with the template's own schema and units
 // metadata. Row r is template row r % T with point_id "p" + r (zero-padded, so the file is sorted
@@ -7,8 +9,9 @@
 // front of exact ties would list every copy). Invented numbers; no real material.
 // Usage: dotnet run points-table.cs TEMPLATE.parquet OUT.parquet ROWS [ROW_GROUP_ROWS] [PARTS]
 // With PARTS > 1, OUT is a table folder and the rows go into PARTS part files laid out as the
-// Worker writes them (part k holds rows r with r % PARTS == k, sorted by point_id, its chunk and
-// row-group index in the metadata), for `latsweep merge` to merge.
+// Worker writes them (part k holds rows r with r % PARTS == k, sorted by point_id, its chunk,
+// row-group index and column summary in the metadata, the summary by the Worker's own ColumnSummary),
+// for `latsweep merge` to merge and the dashboard to meet as a running sweep.
 using Parquet;
 using Parquet.Schema;
 
@@ -25,6 +28,11 @@ for (var c = 0; c < fields.Length; c++)
     columns[c] = await Read(g0, fields[c], t);
 }
 
+var manifest = Path.Combine(Path.GetDirectoryName(Path.GetDirectoryName(Path.GetFullPath(template))!)!, "sweep.json");
+Dictionary<string, string> descriptions = File.Exists(manifest)
+    ? System.Text.Json.JsonDocument.Parse(File.ReadAllText(manifest)).RootElement.GetProperty("tables").GetProperty("points").GetProperty("columns").EnumerateArray()
+        .ToDictionary(c => c.GetProperty("name").GetString()!, c => c.GetProperty("description").GetString() ?? "")
+    : [];
 var metadata = reader.CustomMetadata.Where(kv => kv.Key == "latticesweep.units").ToDictionary(kv => kv.Key, kv => kv.Value);
 var shifted = fields.Select(f => f.Name).FirstOrDefault(n => n.StartsWith("model.sites", StringComparison.Ordinal));
 var parts = args.Length > 4 ? int.Parse(args[4]) : 1;
@@ -46,20 +54,24 @@ for (var part = 0; part < parts; part++)
         fileMetadata["latticesweep.row_groups"] = index.ToString();
     }
 
-    await WriteFileAsync(path, mine, r => parts == 1 ? r : r * parts + part, fileMetadata);
+    await WriteFileAsync(path, mine, r => parts == 1 ? r : r * parts + part, fileMetadata, parts > 1);
 }
 
 Console.WriteLine($"{output}: {rows} rows of {fields.Length} columns from {template} ({t} rows)");
 
-async Task WriteFileAsync(string path, int count, Func<int, int> rowOf, Dictionary<string, string> fileMetadata)
+async Task WriteFileAsync(string path, int count, Func<int, int> rowOf, Dictionary<string, string> fileMetadata, bool summarised)
 {
     await using var output_ = File.Create(path);
     await using var writer = await ParquetWriter.CreateAsync(reader.Schema, output_);
     writer.CustomMetadata = fileMetadata;
+    // A part's column summary and first rows in plan order, as ChunkOutputWriter writes them with every points/ part.
+    LatticeSweep.Worker.Output.ColumnDef[] defs = [.. fields.Select(Def)];
+    var groups = new List<(Array[] Columns, int Rows)>();
     for (var start = 0; start < count; start += groupRows)
     {
         var n = Math.Min(groupRows, count - start);
         using var group = writer.CreateRowGroup();
+        var written = new Array[fields.Length];
         for (var c = 0; c < fields.Length; c++)
         {
             var f = fields[c];
@@ -74,6 +86,7 @@ async Task WriteFileAsync(string path, int count, Func<int, int> rowOf, Dictiona
                     }
 
                     await group.WriteAsync(f, text!);
+                    written[c] = text;
                     break;
                 case double?[] d:
                     var dv = new double?[n];
@@ -84,23 +97,79 @@ async Task WriteFileAsync(string path, int count, Func<int, int> rowOf, Dictiona
                     }
 
                     await group.WriteAsync<double>(f, dv);
+                    written[c] = dv;
                     break;
                 case int?[] iv:
-                    await group.WriteAsync<int>(f, Tile(iv, start, n, t, f.Name == "point_index", rowOf));
+                    var it = Tile(iv, start, n, t, f.Name == "point_index", rowOf);
+                    await group.WriteAsync<int>(f, it);
+                    written[c] = it;
                     break;
                 case long?[] lv:
-                    await group.WriteAsync<long>(f, Enumerable.Range(start, n).Select(rowOf).Select(r => f.Name == "point_index" ? (long?)r : lv[r % t]).ToArray());
+                    var lt = Enumerable.Range(start, n).Select(rowOf).Select(r => f.Name == "point_index" ? (long?)r : lv[r % t]).ToArray();
+                    await group.WriteAsync<long>(f, lt);
+                    written[c] = lt;
                     break;
                 case bool?[] bv:
-                    await group.WriteAsync<bool>(f, Tile(bv, start, n, t, false, rowOf));
+                    var bt = Tile(bv, start, n, t, false, rowOf);
+                    await group.WriteAsync<bool>(f, bt);
+                    written[c] = bt;
                     break;
                 case DateTime?[] tv:
-                    await group.WriteAsync<DateTime>(f, Tile(tv, start, n, t, false, rowOf));
+                    var tt = Tile(tv, start, n, t, false, rowOf);
+                    await group.WriteAsync<DateTime>(f, tt);
+                    written[c] = tt;
                     break;
             }
         }
+
+        if (summarised)
+        {
+            groups.Add((written, n));
+        }
+    }
+
+    if (summarised)
+    {
+        // The footer is written when the writer is disposed: the entries of every row go in.
+        var whole = new Array[fields.Length];
+        for (var c = 0; c < fields.Length; c++)
+        {
+            whole[c] = groups[0].Columns[c] switch
+            {
+                string?[] => new string?[count],
+                double?[] => new double?[count],
+                int?[] => new int?[count],
+                long?[] => new long?[count],
+                bool?[] => new bool?[count],
+                _ => new DateTime?[count],
+            };
+            var at = 0;
+            foreach (var (cells, n) in groups)
+            {
+                Array.Copy(cells[c], 0, whole[c], at, n);
+                at += n;
+            }
+        }
+
+        var rows = new LatticeSweep.Worker.Output.TableRows("points", defs, count, whole);
+        var entries = new Dictionary<string, string>(fileMetadata) { [LatticeSweep.Worker.Output.ColumnSummary.Key] = LatticeSweep.Worker.Output.ColumnSummary.Of(rows).ToJson() };
+        if (LatticeSweep.Worker.Output.PartFirstRows.Json(rows) is { } first)
+        {
+            entries[LatticeSweep.Worker.Output.PartFirstRows.Key] = first;
+        }
+
+        writer.CustomMetadata = entries;
     }
 }
+
+// The template's column descriptions (its sweep.json, two folders up): the first rows keep the swept parameters' cells.
+LatticeSweep.Worker.Output.ColumnDef Def(DataField f) => new(f.Name,
+    f.ClrType == typeof(string) || f.ClrType == typeof(ReadOnlyMemory<char>) ? LatticeSweep.Worker.Output.ColumnType.Text
+    : f.ClrType == typeof(double) ? LatticeSweep.Worker.Output.ColumnType.Double
+    : f.ClrType == typeof(int) ? LatticeSweep.Worker.Output.ColumnType.Int32
+    : f.ClrType == typeof(long) ? LatticeSweep.Worker.Output.ColumnType.Int64
+    : f.ClrType == typeof(bool) ? LatticeSweep.Worker.Output.ColumnType.Bool
+    : LatticeSweep.Worker.Output.ColumnType.Timestamp, "", descriptions.GetValueOrDefault(f.Name, ""));
 
 static T?[] Tile<T>(T?[] v, int start, int n, int t, bool index, Func<int, int> rowOf) where T : struct
 {

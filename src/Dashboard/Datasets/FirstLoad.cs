@@ -132,6 +132,64 @@ internal sealed record FirstLoad(
         }
     }
 
+    /// <summary>
+    /// The first page of a table of files that each keep their first rows in plan order (a running sweep's
+    /// parts, <see cref="PartFirstRows"/>), read one after the other as <paramref name="files"/> (the table
+    /// holds each of their rows once): the table's first rows in plan order are the least of the files' (by
+    /// plan index, ties in table order), with the cells of the columns every file kept. Only the plan order's
+    /// first page and its cells: the key parameters and the plots are worked out from the rows (no
+    /// parameter list here matches a table that has parameters). Null unless every file has a usable entry.
+    /// </summary>
+    public static FirstLoad? OfParts(IReadOnlyList<ParquetColumnFile> files, int rows, IReadOnlyList<ResultColumn> columns)
+    {
+        ArgumentNullException.ThrowIfNull(files);
+        var candidates = new List<(long Index, int Row, int File, int At)>();
+        var pages = new List<FirstPageCells>();
+        var start = 0;
+        try
+        {
+            for (var f = 0; f < files.Count; f++)
+            {
+                if (files[f].FirstRows is not { } text)
+                {
+                    return null;
+                }
+
+                using var json = JsonDocument.Parse(text);
+                var root = json.RootElement;
+                var indexes = root.GetProperty("point_index").EnumerateArray().Select(i => i.GetInt64()).ToList();
+                var page = Page(root.GetProperty("first_page"), columns);
+                if (root.GetProperty("rows").GetInt64() != files[f].RowCount || page.Rows.Length != indexes.Count)
+                {
+                    return null;
+                }
+
+                for (var k = 0; k < indexes.Count; k++)
+                {
+                    candidates.Add((indexes[k], start + page.Rows[k], f, k));
+                }
+
+                pages.Add(page);
+                start += files[f].RowCount;
+            }
+        }
+        catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
+        {
+            return null;
+        }
+
+        if (start != rows)
+        {
+            return null;
+        }
+
+        var first = candidates.OrderBy(c => c.Index).ThenBy(c => c.Row).Take(FirstLoadFacts.PageRowsKept).ToList();
+        var kept = pages.Count == 0 ? [] : pages.Select(p => p.Columns.Keys).Aggregate((a, b) => [.. a.Intersect(b, StringComparer.Ordinal)]).ToList();
+        var cells = kept.ToImmutableDictionary(c => c, c => first.Select(x => pages[x.File].Columns[c][x.At]).ToArray(), StringComparer.Ordinal);
+        ImmutableArray<int> planFirst = [.. first.Select(x => x.Row)];
+        return new FirstLoad(rows, [], [], planFirst, null, null) { FirstPage = new FirstPageCells(planFirst, cells) };
+    }
+
     /// <summary>The first page's cells, each column boxed by its type in the table (a column the table lacks, or of another type, is left out: its cells are then read).</summary>
     private static FirstPageCells Page(JsonElement page, IReadOnlyList<ResultColumn> columns)
     {

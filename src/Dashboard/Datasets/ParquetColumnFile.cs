@@ -47,6 +47,9 @@ internal sealed class ParquetColumnFile
     /// <summary>The file's whole-table facts from its footer (a merged points/ file), or null.</summary>
     public TableSummary? Summary { get; }
 
+    /// <summary>The file's first rows in plan order with their cells, as its footer keeps them (a part: <see cref="PartFirstRows"/>); null when it has none.</summary>
+    public string? FirstRows { get; private init; }
+
     /// <summary>The chunks whose rows the file holds, from its metadata (a merged file's list, a part's chunk); null when it does not say.</summary>
     public ImmutableArray<string>? Chunks { get; }
 
@@ -142,7 +145,10 @@ internal sealed class ParquetColumnFile
             : metadata.TryGetValue("latticesweep.chunk_id", out var chunk) ? [chunk]
             : null;
         return new ParquetColumnFile(path, checked((int)rows), fields, columns, filled, TableSummary.Parse(metadata, columns, rows), chunks, groupStarts,
-            IdRanges(metadata, groupStarts, rows));
+            IdRanges(metadata, groupStarts, rows))
+        {
+            FirstRows = metadata.GetValueOrDefault(PartFirstRows.Key),
+        };
     }
 
     /// <summary>
@@ -238,7 +244,7 @@ internal sealed class ParquetColumnFile
         // The groups this answer uses, taken from the cache or read now (another request may clear the cache meanwhile).
         var found = new Dictionary<(int Column, int Group), CellColumn>();
         var missing = new List<(int Column, int Group)>();
-        foreach (var c in columns.Where(c => _filled[c] != false && !(_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated) && !spread))
+        foreach (var c in columns.Where(c => _filled[c] != false && !(_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated) && !spread && !Same(c)))
         {
             foreach (var g in groups)
             {
@@ -277,7 +283,7 @@ internal sealed class ParquetColumnFile
                 return new object?[rows.Count];
             }
 
-            if (spread || (_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated))
+            if (spread || (_columns.TryGetValue(c, out var loaded) && loaded.IsValueCreated) || Same(c))
             {
                 var whole = Column(c);
                 return [.. rows.Select(whole.Cell)];
@@ -345,6 +351,11 @@ internal sealed class ParquetColumnFile
             return new EmptyCells(RowCount);
         }
 
+        if (SameInEveryRow(column) is { } same)
+        {
+            return same;
+        }
+
         try
         {
             // The dashboard's views are synchronous over a table already listed; the reads are local file reads.
@@ -358,6 +369,66 @@ internal sealed class ParquetColumnFile
         }
     }
 
+    /// <summary>
+    /// The column's cells without reading them when the file's column summary says every row holds one
+    /// value (a part's state, flags, a parameter fixed in its chunk, the engine version): the summary
+    /// counts the cells with a value and lists every distinct one unless more follow, so a count of
+    /// every row and one value listed is the whole column. Null otherwise (read it).
+    /// </summary>
+    private CellColumn? SameInEveryRow(int column)
+    {
+        var value = SameValue(column);
+        switch (value)
+        {
+            case string text:
+                var texts = new string?[RowCount];
+                Array.Fill(texts, text);
+                return new TextCells(texts);
+            case bool flag:
+                var flags = new bool?[RowCount];
+                Array.Fill(flags, flag);
+                return new FlagCells(flags);
+            case long n:
+                var longs = new long?[RowCount];
+                Array.Fill(longs, n);
+                return new LongCells(longs);
+            case int or double:
+                var numbers = new double[RowCount];
+                Array.Fill(numbers, Convert.ToDouble(value, System.Globalization.CultureInfo.InvariantCulture));
+                var present = new bool[RowCount];
+                Array.Fill(present, true);
+                return new NumberCells(numbers, present, _fields[column].ClrType);
+            default:
+                return null;
+        }
+    }
+
+    /// <summary>The one value of every row of the column, from the file's column summary, boxed as its type's cells are read; null when the summary does not say so.</summary>
+    private object? SameValue(int column)
+    {
+        var s = Summary?.Of(Columns[column].Name);
+        if (s is null || s.More || s.Distinct.Length != 1 || s.Count != RowCount || RowCount == 0)
+        {
+            return null;
+        }
+
+        var value = s.Distinct[0];
+
+        var type = _fields[column].ClrType;
+        return value switch
+        {
+            string when ParquetTableReader.IsText(_fields[column]) => value,
+            bool when type == typeof(bool) => value,
+            long when type == typeof(long) => value,
+            int when type == typeof(int) => value,
+            double when type == typeof(double) => value,
+            _ => null,
+        };
+    }
+
+    /// <summary>Whether <see cref="SameInEveryRow"/> answers the column (it is then never read, whole or by row groups).</summary>
+    private bool Same(int column) => SameValue(column) is not null;
+
     private static string ColumnKind(DataField field) =>
         ParquetTableReader.IsText(field) ? "text" : field.ClrType == typeof(bool) ? "flag" : field.ClrType == typeof(DateTime) ? "time" : "number";
 
@@ -367,11 +438,14 @@ internal sealed class ParquetColumnFile
     /// <summary>
     /// How long an open reader of the file is kept after its last use. Opening one parses the footer
     /// (~40-80 ms for a merged file of ~80 row groups of 153 columns, more than reading a number
-    /// column of it), and a first load reads a dozen columns of each file in a row. The file is
+    /// column of it), and a first load reads a dozen columns of each file in a row; a running sweep's
+    /// first load reads a column of each of its ~100-250 parts in turn, and took several seconds at a
+    /// busy machine's load (at 2 s a part's footer was parsed again for nearly every column: ~1.1 MiB
+    /// each, bench/README.md round 19). The file is
     /// opened with FileShare.Delete, so a merge can still replace or remove it meanwhile; the kept
     /// handle then reads the file as it was listed, which is what this object describes.
     /// </summary>
-    internal static readonly TimeSpan ReaderKept = TimeSpan.FromSeconds(2);
+    internal static readonly TimeSpan ReaderKept = TimeSpan.FromSeconds(10);
 
     private readonly SemaphoreSlim _readerLock = new(1, 1);
     private FileStream? _stream;
@@ -416,8 +490,12 @@ internal sealed class ParquetColumnFile
         }
     }
 
-    /// <summary>At most this many files' readers are kept open at once (a running sweep's table may have thousands of part files).</summary>
-    internal const int MaxReadersKept = 32;
+    /// <summary>
+    /// At most this many files' readers are kept open at once (a running sweep's table may have thousands of
+    /// part files): a 10^6-point sweep's 128-250 parts each keep theirs through the first load (~0.25 MiB
+    /// each; at 32 every part's footer was parsed again for each column read, round 19).
+    /// </summary>
+    internal const int MaxReadersKept = 256;
 
     private static int s_readersKept;
 

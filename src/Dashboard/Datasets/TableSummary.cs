@@ -8,9 +8,11 @@ namespace LatticeSweep.Dashboard.Datasets;
 /// The whole-table facts a merged points/ file carries in its footer (written by the merge:
 /// <see cref="ColumnSummary"/>), so the sweep page's defaults (which columns vary, how many values
 /// a parameter takes, whether an axis spans decades, a column's tick values) come without reading
-/// 10^6 rows. A table has one only when every file it is read from has one and no row was dropped
-/// (a chunk re-run after the merge, a sweep still running: parts have none), and only the whole
-/// table, never a filtered view; otherwise the facts are worked out from the rows as before.
+/// 10^6 rows. A running sweep's parts carry one each too (the Worker writes it with the part), so
+/// their table's facts are the parts' summed. A table has one only when every file it is read from
+/// has one and no row was dropped (a chunk re-run after the merge; a part written before parts had
+/// one), and only the whole table, never a filtered view; otherwise the facts are worked out from
+/// the rows as before.
 /// </summary>
 internal sealed class TableSummary
 {
@@ -107,6 +109,8 @@ internal sealed class TableSummary
             var parts = files.Select(f => f!.Of(c.Name)).OfType<Column>().ToList();
             var finite = parts.Where(p => p.Finite > 0).ToList();
             var distinct = new List<object>();
+            // The values met so far (equal as List.Contains finds them: by Equals), for a running sweep's hundreds of parts.
+            var met = new HashSet<object>();
             var more = false;
             foreach (var p in parts)
             {
@@ -115,14 +119,20 @@ internal sealed class TableSummary
                     break;
                 }
 
-                foreach (var v in p.Distinct.Where(v => !distinct.Contains(v)))
+                foreach (var v in p.Distinct)
                 {
+                    if (met.Contains(v))
+                    {
+                        continue;
+                    }
+
                     if (distinct.Count == ColumnSummary.DistinctKept)
                     {
                         more = true;
                         break;
                     }
 
+                    met.Add(v);
                     distinct.Add(v);
                 }
 

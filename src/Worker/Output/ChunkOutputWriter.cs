@@ -43,6 +43,19 @@ public static class ChunkOutputWriter
                 // from an earlier run of the chunk is replaced).
                 var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
                 var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
+                if (rows.Table == TableNames.Points)
+                {
+                    // The part's own column summary, as a merged file carries it, and its first rows in plan
+                    // order: a running sweep's page sums the parts' footers instead of reading their rows
+                    // (they live in the file, so they describe exactly these rows).
+                    using var summing = Queue.StageTimings.Measure("parquet: part facts");
+                    meta[ColumnSummary.Key] = ColumnSummary.Of(rows).ToJson();
+                    if (PartFirstRows.Json(rows) is { } firstRows)
+                    {
+                        meta[PartFirstRows.Key] = firstRows;
+                    }
+                }
+
                 prepared.Add(await ParquetPartWriter.PrepareAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false));
             }
         }

@@ -4,8 +4,8 @@ using System.Text.Json;
 namespace LatticeSweep.Worker.Output;
 
 /// <summary>
-/// A merged file's facts per column, worked out while the merge writes its rows and kept in the
-/// file's own metadata (<see cref="Key"/>), so a reader of a large table (the dashboard's first
+/// A points/ file's facts per column, worked out while the merge (or the Worker, for a chunk's part)
+/// writes its rows and kept in the file's own metadata (<see cref="Key"/>), so a reader of a large table (the dashboard's first
 /// page) learns them from the footer instead of a scan of every row, and they can never describe
 /// other rows than the file's. Per column: the cells with a value, for numbers the finite ones with
 /// their least and greatest, and the first <see cref="DistinctKept"/> distinct values in row order
@@ -40,6 +40,15 @@ internal sealed class ColumnSummary
         _state = Find("state", ColumnType.Text);
         _stable = Find("stable", ColumnType.Bool);
         _floppy = Find("floppy", ColumnType.Bool);
+    }
+
+    /// <summary>The summary of a table's rows (a part's: <see cref="ChunkOutputWriter"/>).</summary>
+    public static ColumnSummary Of(TableRows rows)
+    {
+        ArgumentNullException.ThrowIfNull(rows);
+        var summary = new ColumnSummary(rows.Columns);
+        summary.Add(rows.Values, rows.RowCount);
+        return summary;
     }
 
     /// <summary>Adds one row group's cells (typed arrays, <see cref="ColumnValues"/>).</summary>

@@ -334,7 +334,8 @@ internal static class FirstLoadFacts
         return page;
     }
 
-    private static void WritePage(Utf8JsonWriter json, int[] rows, Dictionary<string, object?[]> page)
+    /// <summary>Writes <c>first_page</c>: the rows and each column's cells at them (also a part's first rows, <see cref="PartFirstRows"/>).</summary>
+    internal static void WritePage(Utf8JsonWriter json, int[] rows, Dictionary<string, object?[]> page)
     {
         json.WriteStartObject("first_page");
         json.WriteStartArray("rows");

@@ -309,7 +309,8 @@ internal static class TableMerger
     {
         var chunks = batch.SelectMany(b => b.Chunks).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToList();
         var metadata = firstMetadata
-            .Where(kv => kv.Key != "latticesweep.chunk_id" && kv.Key != MergedLayout.ChunksKey && kv.Key != MergedLayout.RowGroupsKey && kv.Key != ParquetPartWriter.UnitsKey && kv.Key != ColumnSummary.Key)
+            .Where(kv => kv.Key != "latticesweep.chunk_id" && kv.Key != MergedLayout.ChunksKey && kv.Key != MergedLayout.RowGroupsKey && kv.Key != ParquetPartWriter.UnitsKey && kv.Key != ColumnSummary.Key
+                && kv.Key != PartFirstRows.Key)
             .ToDictionary(kv => kv.Key, kv => kv.Value);
         metadata[MergedLayout.ChunksKey] = string.Join(',', chunks);
         var written = await StreamingMerge.MergeAsync(batch.Select(b => b.File).ToList(), Path.Combine(staging, fileName), scratch, table, metadata, budget, ct).ConfigureAwait(false);

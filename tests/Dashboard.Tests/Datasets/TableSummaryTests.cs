@@ -11,8 +11,8 @@ namespace LatticeSweep.Dashboard.Tests.Datasets;
 /// <summary>
 /// The facts a merged points/ file carries in its footer (<see cref="ColumnSummary"/>, read as
 /// <see cref="TableSummary"/>) equal what a scan of every row finds, and the plots made with them
-/// equal the plots made from the same file without them; tables with parts (a sweep not merged,
-/// still running) or a filtered view have none and are scanned as before.
+/// equal the plots made from the same file without them; a filtered view has none and is scanned
+/// as before (a running sweep's parts: <see cref="RunningSweepFactsTests"/>).
 /// </summary>
 public sealed class TableSummaryTests : IDisposable
 {
@@ -33,8 +33,8 @@ public sealed class TableSummaryTests : IDisposable
         var sweep = catalog.FindSweep(sweepId)!;
         var results = new ResultStore(new OutputRoot(store.OutputRoot));
 
-        // Before the merge: parts only, no summary.
-        Assert.Null((await results.PointsAsync(sweep, CancellationToken.None)).Summary);
+        // Before the merge: parts only, each with its own summary (summed: RunningSweepFactsTests holds them to the rows).
+        Assert.NotNull((await results.PointsAsync(sweep, CancellationToken.None)).Summary);
 
         await TableMerger.MergeSweepAsync(sweep.OutputFolder, [TableNames.Points], CancellationToken.None);
         var merged = Directory.GetFiles(Path.Combine(sweep.OutputFolder, TableNames.Points), "merged-*.parquet").Single();

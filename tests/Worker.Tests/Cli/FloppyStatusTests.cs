@@ -68,7 +68,7 @@ public sealed class FloppyStatusTests : IDisposable
     }
 
     [Fact]
-    public void Rows_of_one_chunk_in_two_files_and_too_many_parts_are_not_counted_and_say_why()
+    public async Task Rows_of_one_chunk_in_two_files_and_too_many_parts_without_counts_are_not_counted_and_say_why()
     {
         File.WriteAllText(_dir.Combine("job.toml"), Job("floppy-uncounted"));
         Assert.Equal(0, Support.Cli.Run(_dir.Path, "run", "job.toml").ExitCode);
@@ -87,14 +87,28 @@ public sealed class FloppyStatusTests : IDisposable
         Assert.Contains("Floppy     not counted: a chunk's rows are in two files", Support.Cli.Run(_dir.Path, "status", "floppy-uncounted").Stdout, StringComparison.Ordinal);
         File.Delete(copy);
 
-        // More parts than are read for a status line: not read at all, and the way to merge them is named.
+        // More parts than a status line reads, each counting its rows in its footer (as the Worker writes parts): counted from the
+        // footers (invented rows: 2 floppy of 5 in each part beside the merged file's 1 of 3).
+        var summary = new ColumnSummary([new("state", ColumnType.Text, "", ""), new("stable", ColumnType.Bool, "", ""), new("floppy", ColumnType.Bool, "", "")]);
+        summary.Add([new string?[] { "done", "done", "unstable", "failed", "done" }, new bool?[] { true, true, false, null, true }, new bool?[] { true, false, true, null, false }], 5);
+        var counted = FloppyTally.MaxPartsRead + 6;
+        for (var i = 0; i < counted; i++)
+        {
+            await WriteFloppyColumn(Path.Combine(table, ParquetPartWriter.PartFileName($"s{i:D5}")), summary.ToJson());
+        }
+
+        Assert.Equal(new FloppyTally(1 + (2L * counted), 3 + (5L * counted), null), FloppyTally.Of(folder));
+
+        // More parts without counts (an older version's) than are read for a status line: their columns are not read, and
+        // the way to merge them is named.
         for (var i = 0; i <= FloppyTally.MaxPartsRead; i++)
         {
-            File.WriteAllBytes(Path.Combine(table, ParquetPartWriter.PartFileName($"x{i:D5}")), []);
+            await WriteFloppyColumn(Path.Combine(table, ParquetPartWriter.PartFileName($"x{i:D5}")), null);
         }
 
         var many = FloppyTally.Of(folder);
         Assert.Null(many.Floppy);
         Assert.Contains("'latsweep merge'", many.NotCountedBecause, StringComparison.Ordinal);
+        Assert.Contains($"{FloppyTally.MaxPartsRead + 1} part files without counts", many.NotCountedBecause, StringComparison.Ordinal);
     }
 }

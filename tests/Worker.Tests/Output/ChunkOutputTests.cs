@@ -1,5 +1,6 @@
 using System.Text.Json;
 using LatticeSweep.Worker.Catalog;
+using LatticeSweep.Worker.Output;
 using LatticeSweep.Worker.Queue;
 using LatticeSweep.Worker.Tests.Support;
 using Serilog;
@@ -60,6 +61,69 @@ public sealed class ChunkOutputTests : IDisposable
         Assert.Equal("model", rows[1][2]);
         Assert.Contains("invented model problem", (string)rows[1][3]!, StringComparison.Ordinal);
         Assert.Null(rows[1][4]);
+    }
+
+    [Fact]
+    public async Task A_points_part_carries_its_column_summary_and_first_rows_and_they_say_what_DuckDB_reads_from_the_part()
+    {
+        var (sweep, chunks, _) = Setup();
+        var solver = new FakeSolver { FailModel = [sweep.Plan.Points[1].PointId] };
+        await Runner(solver).RunAsync(sweep.Id, chunks[0], default);
+
+        using var db = new DuckDb();
+        var part = Path.Combine(sweep.Folder, "points", "part-" + chunks[0] + ".parquet");
+        var file = "read_parquet('" + part.Replace("'", "''", StringComparison.Ordinal) + "')";
+        using var json = JsonDocument.Parse((string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{part}') WHERE decode(key) = '{ColumnSummary.Key}'")!);
+        var root = json.RootElement;
+        Assert.Equal(Convert.ToInt64(db.Scalar($"SELECT count(*) FROM {file}"), System.Globalization.CultureInfo.InvariantCulture), root.GetProperty("rows").GetInt64());
+        foreach (var (name, type) in db.Types(file))
+        {
+            var facts = root.GetProperty("columns").GetProperty(name);
+            Assert.Equal(Convert.ToInt64(db.Scalar($"SELECT count(\"{name}\") FROM {file}"), System.Globalization.CultureInfo.InvariantCulture), facts.GetProperty("count").GetInt64());
+            if (type is "DOUBLE" or "INTEGER" or "BIGINT")
+            {
+                var row = db.Rows($"SELECT count(\"{name}\"), min(\"{name}\"), max(\"{name}\") FROM {file} WHERE isfinite(\"{name}\"::DOUBLE)").Single();
+                Assert.Equal(Convert.ToInt64(row[0], System.Globalization.CultureInfo.InvariantCulture), facts.GetProperty("finite").GetInt64());
+                if (facts.GetProperty("finite").GetInt64() > 0)
+                {
+                    Assert.Equal(Convert.ToDouble(row[1], System.Globalization.CultureInfo.InvariantCulture), facts.GetProperty("min").GetDouble());
+                    Assert.Equal(Convert.ToDouble(row[2], System.Globalization.CultureInfo.InvariantCulture), facts.GetProperty("max").GetDouble());
+                }
+            }
+
+            if (!type.StartsWith("TIMESTAMP", StringComparison.Ordinal))
+            {
+                // Every distinct value is listed here (two rows), in row order (the part is sorted by point id).
+                var distinct = db.Rows($"SELECT \"{name}\" FROM {file} WHERE \"{name}\" IS NOT NULL ORDER BY point_id").Select(r => Convert.ToString(r[0], System.Globalization.CultureInfo.InvariantCulture)).Distinct().ToList();
+                Assert.Equal(distinct, facts.GetProperty("distinct").EnumerateArray().Select(v => v.ValueKind == JsonValueKind.String ? v.GetString() : Convert.ToString(v.ValueKind switch
+                {
+                    JsonValueKind.True => true,
+                    JsonValueKind.False => false,
+                    _ => type == "DOUBLE" ? v.GetDouble() : (object)v.GetInt64(),
+                }, System.Globalization.CultureInfo.InvariantCulture)).ToList());
+                Assert.False(facts.GetProperty("more").GetBoolean());
+            }
+        }
+
+        // One done and one failed point: the rows per state and flags.
+        var marks = root.GetProperty("marks").EnumerateArray().Select(m => (m[0].GetString(), m[3].GetInt64())).OrderBy(m => m.Item1, StringComparer.Ordinal).ToList();
+        Assert.Equal(db.Rows($"SELECT state, count(*) FROM {file} GROUP BY state ORDER BY state").Select(r => ((string?)r[0], Convert.ToInt64(r[1], System.Globalization.CultureInfo.InvariantCulture))).ToList(), marks);
+
+        // The part's first rows in plan order: their plan indexes, ids and cells as DuckDB orders the part.
+        using var first = JsonDocument.Parse((string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{part}') WHERE decode(key) = '{PartFirstRows.Key}'")!);
+        var planned = db.Rows($"SELECT point_index, point_id, state, {SomeSweep.MassColumn}, cv_j_per_mol_k FROM {file} ORDER BY point_index LIMIT {FirstLoadFacts.PageRowsKept}");
+        Assert.Equal(planned.Select(r => Convert.ToInt64(r[0], System.Globalization.CultureInfo.InvariantCulture)), first.RootElement.GetProperty("point_index").EnumerateArray().Select(v => v.GetInt64()));
+        var page = first.RootElement.GetProperty("first_page");
+        var ids = db.Rows($"SELECT point_id FROM {file}").Select(r => (string)r[0]!).ToList();
+        Assert.Equal(planned.Select(r => (string)r[1]!), page.GetProperty("rows").EnumerateArray().Select(v => ids[v.GetInt32()]));
+        Assert.Equal(planned.Select(r => (string)r[1]!), page.GetProperty("columns").GetProperty("point_id").EnumerateArray().Select(v => v.GetString()));
+        Assert.Equal(planned.Select(r => (string)r[2]!), page.GetProperty("columns").GetProperty("state").EnumerateArray().Select(v => v.GetString()));
+        Assert.Equal(planned.Select(r => (double)r[3]!), page.GetProperty("columns").GetProperty(SomeSweep.MassColumn).EnumerateArray().Select(v => v.GetDouble()));
+        Assert.Equal(planned.Select(r => r[4] is double d ? d : (double?)null), page.GetProperty("columns").GetProperty("cv_j_per_mol_k").EnumerateArray().Select(v => v.ValueKind == JsonValueKind.Null ? null : (double?)v.GetDouble()));
+
+        // Tables other than points/ carry none (their parts are not summed anywhere).
+        Assert.All(Directory.GetFiles(sweep.Folder, "part-*.parquet", SearchOption.AllDirectories).Where(f => !f.Contains(Path.DirectorySeparatorChar + "points" + Path.DirectorySeparatorChar, StringComparison.Ordinal)),
+            f => Assert.Empty(db.Rows($"SELECT 1 FROM parquet_kv_metadata('{f}') WHERE decode(key) IN ('{ColumnSummary.Key}', '{PartFirstRows.Key}')")));
     }
 
     [Fact]
