@@ -171,6 +171,9 @@ internal static partial class StreamingMerge
 
         public Array?[] Marks { get; } = new Array?[3];
 
+        /// <summary>The shared strings of the text column being gathered.</summary>
+        public SharedTexts Texts { get; } = new();
+
         public Array For(ColumnType type) => BufferOf(_byType, type, rows);
 
         /// <summary>One buffer per column type, as long as the inputs' largest row group, that each source's column is decoded into.</summary>
@@ -262,10 +265,16 @@ internal static partial class StreamingMerge
                 if (n > 0)
                 {
                     var decoded = buffers.Decoded(columns[c].Type);
+                    buffers.Texts.Clear();
                     for (var s = 0; s < sources.Count; s++)
                     {
                         // The point ids are the ones the order was picked from: not decoded again.
                         var rows = c == plan.IdColumn ? 0 : await inputs[sources[s].Input].ReadColumnIntoAsync(opened[s], c, decoded, ct).ConfigureAwait(false);
+                        if (decoded is string?[] cells && rows > 0)
+                        {
+                            buffers.Texts.Share(cells, rows);
+                        }
+
                         using (Queue.StageTimings.Measure("merge: gather"))
                         {
                             if (c == plan.IdColumn)

@@ -96,6 +96,50 @@ public sealed class StreamingMergeTests : IDisposable
         Assert.True(db.Rows($"SELECT DISTINCT row_group_id FROM parquet_metadata('{merged}')").Count > 3);
     }
 
+    [Theory]
+    [InlineData(1L << 30)]
+    [InlineData(1L)]
+    public async Task Planner_ids_held_as_keys_and_other_ids_held_as_text_merge_in_the_ordinal_order_of_their_text(long inputBytes)
+    {
+        // The merge holds 16 lower-case hex digits as numbers (MergeIds) and any other id as text; in one merge
+        // they must still sort as their texts do: upper-case and shorter hex, other letters, the extreme keys.
+        var sweep = _dir.Combine("sweep");
+        var table = Path.Combine(sweep, "demo");
+        Directory.CreateDirectory(table);
+        var random = new Random(19);
+        string Id(int kind) => kind switch
+        {
+            0 => $"{random.NextInt64():x16}",
+            1 => $"{random.NextInt64():X16}",
+            2 => $"{random.Next(1 << 20):x5}",
+            3 => $"p{random.Next(100):d2}-{random.Next(1000):d3}",
+            4 => "0000000000000000",
+            _ => "ffffffffffffffff",
+        };
+
+        var inInputOrder = new List<(string Id, int K)>();
+        for (var chunk = 0; chunk < 6; chunk++)
+        {
+            var rows = Enumerable.Range(0, 60).Select(_ => Id(random.Next(10) switch { < 5 => 0, 5 => 1, 6 => 2, 7 => 3, 8 => 4, _ => 5 }))
+                .Order(StringComparer.Ordinal)
+                .Select((id, k) => (Id: id, K: (chunk * 100) + k))
+                .ToList();
+            inInputOrder.AddRange(rows);
+            await WriteAsync(Path.Combine(table, $"part-c{chunk}.parquet"), $"c{chunk}", rows, laidOut: true);
+        }
+
+        var outcome = Assert.Single(await TableMerger.MergeSweepAsync(sweep, ["demo"], new MergeBudget(InputBytes: inputBytes, OutputGroupBytes: 64 * 40), CancellationToken.None));
+        Assert.Equal(inInputOrder.Count, outcome.Rows);
+
+        using var db = new DuckDb();
+        var merged = Path.Combine(table, MergedLayout.MergedFileName(0));
+        var read = db.Rows($"SELECT point_id, row_in_point FROM read_parquet('{merged}', file_row_number = true) ORDER BY file_row_number")
+            .Select(r => $"{r[0]}|{r[1]}").ToList();
+        // Every row once, its id text as written, a stable sort by the ids' ordinal order (ties keep the inputs' order).
+        Assert.Equal(inInputOrder.OrderBy(r => r.Id, StringComparer.Ordinal).Select(r => $"{r.Id}|{r.K}"), read);
+        Assert.True(db.Rows($"SELECT DISTINCT row_group_id FROM parquet_metadata('{merged}')").Count > 3);
+    }
+
     [Fact]
     public async Task A_file_whose_index_claims_an_order_its_rows_do_not_have_is_refused_and_the_parts_stay()
     {
