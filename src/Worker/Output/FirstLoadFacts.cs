@@ -191,6 +191,9 @@ internal static class FirstLoadFacts
             return null;
         }
 
+        // The ids were read for every row (a string each, ~56 MB at 10^6 rows, some promoted while the row
+        // groups were decoded): gone before the page's columns are read (its peak, 310 MB in a 10^6-point run: bench/README, round 19).
+        CollectGarbage();
         step = Queue.StageTimings.MeasureAlone("merge: facts, first page");
         var pageRows = planFirst is null ? null : planFirst.Take(PageRowsKept).ToArray();
         var page = pageRows is null ? null : await PageCellsAsync(t, pageRows, PageColumns(t, parameters), ct).ConfigureAwait(false);

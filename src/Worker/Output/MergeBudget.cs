@@ -36,9 +36,12 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
         _ => 16,
     };
 
+    /// <summary>Bytes one point id takes while a merge by columns picks the order: its 8-byte key (<see cref="MergeIds"/>; an id that is not one keeps its text besides).</summary>
+    public const long HeldIdBytes = 16;
+
     /// <summary>
     /// What one input holds in a merge by columns (<see cref="StreamingMerge"/>): the point ids of one of its
-    /// row groups beside its open file (a read buffer and its footer, ~1 KiB per column chunk). Its columns
+    /// row groups beside its open file (a 4 KiB read buffer and its footer, ~1 KiB per column chunk). Its columns
     /// are decoded one source at a time into buffers the pass shares, and the ids of row groups it has
     /// moved past are kept only until the output group is written (at most that group's rows in all, so
     /// they count with the output: <see cref="FinalGroupRowsByColumns"/>).
@@ -46,7 +49,7 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     public static long BytesHeldByColumns(long rowsHeld, IReadOnlyList<ColumnDef> columns, int rowGroups)
     {
         ArgumentNullException.ThrowIfNull(columns);
-        return (rowsHeld * CellBytes(ColumnType.Text)) + (1L << 16) + (1024L * columns.Count * Math.Max(1, rowGroups));
+        return (rowsHeld * HeldIdBytes) + (1L << 12) + (1024L * columns.Count * Math.Max(1, rowGroups));
     }
 
     private static long WidestCell(IReadOnlyList<ColumnDef> columns) => columns.Count == 0 ? 1 : columns.Max(c => CellBytes(c.Type));

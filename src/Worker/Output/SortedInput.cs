@@ -51,7 +51,7 @@ internal sealed class SortedInput : IAsyncDisposable
     public static async Task<SortedInput> OpenAsync(string file, CancellationToken ct)
     {
         using var timing = Queue.StageTimings.Measure("merge: open input");
-        var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 16);
+        var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 12);
         try
         {
             var reader = await ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);

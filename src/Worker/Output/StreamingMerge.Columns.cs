@@ -24,14 +24,14 @@ internal static partial class StreamingMerge
 
         public int Group { get; private set; } = -1;
 
-        public string?[]? Ids { get; private set; }
+        public MergeIds? Ids { get; private set; }
 
         public int Position { get; set; }
 
         /// <summary>The index of (this input, <see cref="Group"/>) among the output group's sources; -1 before its first row is taken.</summary>
         public int Source { get; set; } = -1;
 
-        public string? Head => Ids![Position];
+        public MergeId Head => Ids![Position];
 
         /// <summary>Reads the next row group with rows; false when the input is done.</summary>
         public async Task<bool> NextGroupAsync(CancellationToken ct)
@@ -46,7 +46,8 @@ internal static partial class StreamingMerge
                     continue;
                 }
 
-                Ids = await Input.ReadIdsInOrderAsync(Group, ct).ConfigureAwait(false);
+                // Kept as keys: the strings read are dropped at once (young garbage, not the pass's live data).
+                Ids = MergeIds.Of(await Input.ReadIdsInOrderAsync(Group, ct).ConfigureAwait(false));
                 return Ids.Length > 0 || await NextGroupAsync(ct).ConfigureAwait(false);
             }
 
@@ -59,9 +60,9 @@ internal static partial class StreamingMerge
     {
         var idColumn = inputs[0].IdColumn;
         var cursors = inputs.Select(i => new IdCursor(i)).ToList();
-        var order = Comparer<(string? Id, int Input)>.Create((a, b) =>
-            string.CompareOrdinal(a.Id, b.Id) is var c && c != 0 ? c : a.Input.CompareTo(b.Input));
-        var queue = new PriorityQueue<int, (string? Id, int Input)>(order);
+        var order = Comparer<(MergeId Id, int Input)>.Create((a, b) =>
+            MergeId.Compare(a.Id, b.Id) is var c && c != 0 ? c : a.Input.CompareTo(b.Input));
+        var queue = new PriorityQueue<int, (MergeId Id, int Input)>(order);
         for (var r = 0; r < cursors.Count; r++)
         {
             if (await cursors[r].NextGroupAsync(ct).ConfigureAwait(false))
@@ -170,6 +171,9 @@ internal static partial class StreamingMerge
 
         public Array?[] Marks { get; } = new Array?[3];
 
+        /// <summary>The shared strings of the text column being gathered.</summary>
+        public SharedTexts Texts { get; } = new();
+
         public Array For(ColumnType type) => BufferOf(_byType, type, rows);
 
         /// <summary>One buffer per column type, as long as the inputs' largest row group, that each source's column is decoded into.</summary>
@@ -261,13 +265,26 @@ internal static partial class StreamingMerge
                 if (n > 0)
                 {
                     var decoded = buffers.Decoded(columns[c].Type);
+                    buffers.Texts.Clear();
                     for (var s = 0; s < sources.Count; s++)
                     {
                         // The point ids are the ones the order was picked from: not decoded again.
                         var rows = c == plan.IdColumn ? 0 : await inputs[sources[s].Input].ReadColumnIntoAsync(opened[s], c, decoded, ct).ConfigureAwait(false);
+                        if (decoded is string?[] cells && rows > 0)
+                        {
+                            buffers.Texts.Share(cells, rows);
+                        }
+
                         using (Queue.StageTimings.Measure("merge: gather"))
                         {
-                            ColumnGather.ScatterInto(values, c == plan.IdColumn ? sources[s].Ids : decoded, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1]);
+                            if (c == plan.IdColumn)
+                            {
+                                sources[s].Ids.ScatterTextInto((string?[])values, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1]);
+                            }
+                            else
+                            {
+                                ColumnGather.ScatterInto(values, decoded, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1]);
+                            }
                         }
 
                         if (decoded is string?[] text)
@@ -313,7 +330,7 @@ internal static partial class StreamingMerge
     }
 
     /// <summary>A row group some of an output group's rows come from: its input, its number, and its point ids (read for the order, kept for the id column).</summary>
-    private sealed record GroupSource(int Input, int Group, string?[] Ids);
+    private sealed record GroupSource(int Input, int Group, MergeIds Ids);
 
     /// <summary>Where each row of an output group comes from: row i is row <see cref="Row"/>[i] of source <see cref="Source"/>[i].</summary>
     private sealed record GroupPlan(int[] Source, int[] Row, int Rows, int IdColumn);

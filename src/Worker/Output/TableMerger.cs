@@ -57,16 +57,12 @@ internal static class TableMerger
     }
 
     /// <summary>
-    /// A full, compacting collection that hands freed memory back, before a table's parts are rewritten:
-    /// what the solving phase or the table before left (garbage, and memory the GC keeps committed for
-    /// the next allocations) would otherwise sit under the merge's own peak. At the end of a 10^5-point
-    /// run it took the process from 153 to 107 MiB (bench/README, round 17); ~10-50 ms a table.
+    /// Hands freed memory back before a table's parts are rewritten (<see cref="Queue.MemoryRelease"/>): what
+    /// the solving phase or the table before left (garbage, memory the GC keeps committed for the next
+    /// allocations, free pages of the native heap) would otherwise sit under the merge's own peak. At the
+    /// end of a 10^5-point run the collection took the process from 153 to 107 MiB (bench/README, round 17); ~10-50 ms a table.
     /// </summary>
-    private static void ReleaseMemory()
-    {
-        using var timing = Queue.StageTimings.Measure("merge: release memory");
-        GC.Collect(GC.MaxGeneration, GCCollectionMode.Aggressive, blocking: true, compacting: true);
-    }
+    private static void ReleaseMemory() => Queue.MemoryRelease.Now("merge: release memory");
 
     private static void RemoveIfEmpty(string folder)
     {

@@ -266,6 +266,29 @@ public sealed class CheckForecastTests : IDisposable
         Assert.Equal(all.Failures.Select(f => (f.ReasonText, f.Count)), allEarly.Failures.Select(f => (f.ReasonText, f.Count)));
     }
 
+    [Fact]
+    public void Models_past_those_kept_built_are_still_counted_once_each_and_every_point_is_checked()
+    {
+        // 5,000 masses (a model each) over two sample sizes: more models than the forecast keeps built.
+        using var dir = new TempDirectory();
+        var plan = Some.Load(dir, Some.ChainJob(sweep: """
+            [[sweep.axes]]
+            path = "model.sites.B.mass_amu"
+            range = { from = 10.0, to = 60.0, steps = 5000 }
+
+            [[sweep.axes]]
+            path = "sample.cells"
+            values = [4, 6]
+            """));
+
+        var f = SweepForecast.Run(plan, TimeSpan.FromMinutes(5));
+        Assert.True(SweepForecast.ModelsKept < 5000);
+        Assert.Equal(10000, f.Evaluated);
+        Assert.False(f.Sampled);
+        Assert.Equal(5000, f.DistinctModels);
+        Assert.Equal(0, f.WillFail);
+    }
+
     /// <summary>40,000 distinct models, every one refused (no transverse spring in 3d: the swept 0 N/m).</summary>
     private static readonly string ManyRefusedModels = Some.ChainJob(sweep: """
         [[sweep.axes]]

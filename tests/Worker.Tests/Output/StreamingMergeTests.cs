@@ -67,9 +67,7 @@ public sealed class StreamingMergeTests : IDisposable
     {
         // Few point ids shared by every part, so runs of one input end at ties with another; small
         // output groups cut runs in the middle; a budget of one byte merges in passes.
-        var sweep = _dir.Combine("sweep");
-        var table = Path.Combine(sweep, "demo");
-        Directory.CreateDirectory(table);
+        var table = NewTable();
         var random = new Random(11);
         var inInputOrder = new List<(string Id, int K)>();
         for (var chunk = 0; chunk < 5; chunk++)
@@ -84,14 +82,62 @@ public sealed class StreamingMergeTests : IDisposable
             await WriteAsync(Path.Combine(table, $"part-c{chunk}.parquet"), $"c{chunk}", rows, laidOut: true);
         }
 
-        var outcome = Assert.Single(await TableMerger.MergeSweepAsync(sweep, ["demo"], new MergeBudget(InputBytes: inputBytes, OutputGroupBytes: 200), CancellationToken.None));
+        // A stable sort by point id of the inputs' rows in file order: ties keep the inputs' order.
+        await AssertMergedInOrderAsync(table, inInputOrder, new MergeBudget(InputBytes: inputBytes, OutputGroupBytes: 200));
+    }
+
+    [Theory]
+    [InlineData(1L << 30)]
+    [InlineData(1L)]
+    public async Task Planner_ids_held_as_keys_and_other_ids_held_as_text_merge_in_the_ordinal_order_of_their_text(long inputBytes)
+    {
+        // The merge holds 16 lower-case hex digits as numbers (MergeIds) and any other id as text; in one merge
+        // they must still sort as their texts do: upper-case and shorter hex, other letters, the extreme keys.
+        var table = NewTable();
+        var random = new Random(19);
+        string Id(int kind) => kind switch
+        {
+            0 => $"{random.NextInt64():x16}",
+            1 => $"{random.NextInt64():X16}",
+            2 => $"{random.Next(1 << 20):x5}",
+            3 => $"p{random.Next(100):d2}-{random.Next(1000):d3}",
+            4 => "0000000000000000",
+            _ => "ffffffffffffffff",
+        };
+
+        var inInputOrder = new List<(string Id, int K)>();
+        for (var chunk = 0; chunk < 6; chunk++)
+        {
+            var rows = Enumerable.Range(0, 60).Select(_ => Id(random.Next(10) switch { < 5 => 0, 5 => 1, 6 => 2, 7 => 3, 8 => 4, _ => 5 }))
+                .Order(StringComparer.Ordinal)
+                .Select((id, k) => (Id: id, K: (chunk * 100) + k))
+                .ToList();
+            inInputOrder.AddRange(rows);
+            await WriteAsync(Path.Combine(table, $"part-c{chunk}.parquet"), $"c{chunk}", rows, laidOut: true);
+        }
+
+        // Every row once, its id text as written, a stable sort by the ids' ordinal order (ties keep the inputs' order).
+        await AssertMergedInOrderAsync(table, inInputOrder, new MergeBudget(InputBytes: inputBytes, OutputGroupBytes: 64 * 40));
+    }
+
+    /// <summary>A new table folder "demo" in a sweep folder.</summary>
+    private string NewTable()
+    {
+        var table = Path.Combine(_dir.Combine("sweep"), "demo");
+        Directory.CreateDirectory(table);
+        return table;
+    }
+
+    /// <summary>Merges the table within <paramref name="budget"/> and checks its one merged file: the rows, in file order, are a stable sort of <paramref name="inInputOrder"/> by id, in more than three row groups.</summary>
+    private static async Task AssertMergedInOrderAsync(string table, List<(string Id, int K)> inInputOrder, MergeBudget budget)
+    {
+        var outcome = Assert.Single(await TableMerger.MergeSweepAsync(Path.GetDirectoryName(table)!, ["demo"], budget, CancellationToken.None));
         Assert.Equal(inInputOrder.Count, outcome.Rows);
 
         using var db = new DuckDb();
         var merged = Path.Combine(table, MergedLayout.MergedFileName(0));
         var read = db.Rows($"SELECT point_id, row_in_point FROM read_parquet('{merged}', file_row_number = true) ORDER BY file_row_number")
             .Select(r => $"{r[0]}|{r[1]}").ToList();
-        // A stable sort by point id of the inputs' rows in file order: ties keep the inputs' order.
         Assert.Equal(inInputOrder.OrderBy(r => r.Id, StringComparer.Ordinal).Select(r => $"{r.Id}|{r.K}"), read);
         Assert.True(db.Rows($"SELECT DISTINCT row_group_id FROM parquet_metadata('{merged}')").Count > 3);
     }

@@ -13,7 +13,11 @@ namespace LatticeSweep.Worker.Planning.Forecast;
 /// What <c>run</c> will meet, found without solving: every point's model is built and pre-flighted
 /// by the Engine (the checks it makes before the spectrum), its sample and options checked, and its
 /// cost, memory and disk estimated. Models are built once per distinct set of model parameters (a
-/// sweep of a million sample sizes over ten models builds ten models). Points are visited in an
+/// sweep of a million sample sizes over ten models builds ten models); the first <see cref="ModelsKept"/>
+/// distinct models are kept for the points that share them, later ones are built for each point that meets
+/// them, so the forecast's memory does not grow with the points it checks (every point a model of its own
+/// kept ~660 bytes a point: ~100 MB for the ~150,000 points a second checks, which a 10^6-point <c>run</c>
+/// then carried into its solving: bench/README.md, round 19). Points are visited in an
 /// order spread over the whole plan, so when the time budget (processor time, <see cref="ProcessorClock"/>) runs out the ones evaluated are a fair
 /// sample, and the report says so. Each failure reason is traced to where in the job file it comes
 /// from by the worker's own <see cref="FailureLocator"/>, so <c>check</c> names the same origin as
@@ -33,6 +37,13 @@ internal static class SweepForecast
     public const int MaxBranchesPreflighted = 384;
 
     private const int ExamplesPerReason = 3;
+
+    /// <summary>
+    /// Distinct models kept built (a model with its pre-flight is ~660 bytes and more with its basis). A sweep
+    /// over fewer models, however many points share them, builds each once; past this many, a point whose
+    /// model is not kept builds it again (what a sweep of a model per point does anyway).
+    /// </summary>
+    internal const int ModelsKept = 4096;
 
     /// <summary>
     /// The share of the budget that tracing failed points may take. Tracing a refusal costs about ten model
@@ -133,6 +144,9 @@ internal static class SweepForecast
         var points = plan.Points;
         var modelColumns = plan.Template.Bindings.Where(b => b.Field.Path.StartsWith("model.", StringComparison.Ordinal)).Select(b => b.Column).ToArray();
         var models = new Dictionary<string, ModelEntry>(StringComparer.Ordinal);
+
+        // Every distinct model met, by a 64-bit hash of its key (8 bytes each instead of the model): for the count and the notes.
+        var distinct = new HashSet<ulong>();
         // Groups by the error text run writes (reason and origin), and per located reason the groups its traced points fell in.
         var groups = new Dictionary<string, GroupTally>(StringComparer.Ordinal);
         var traced = new Dictionary<string, List<string>>(StringComparer.Ordinal);
@@ -170,11 +184,19 @@ internal static class SweepForecast
                 key.Append(point.Parameters.TryGetValue(column, out var v) ? PointIdentity.Format(v) : "-").Append('\u0001');
             }
 
-            if (!models.TryGetValue(key.ToString(), out var entry))
+            var modelKey = key.ToString();
+            if (!models.TryGetValue(modelKey, out var entry))
             {
                 entry = BuildModel(spec.Model, document);
-                modelsNotPreflighted += entry.Model is not null && entry.Preflight is null ? 1 : 0;
-                models[key.ToString()] = entry;
+                if (distinct.Add(KeyHash(modelKey)))
+                {
+                    modelsNotPreflighted += entry.Model is not null && entry.Preflight is null ? 1 : 0;
+                }
+
+                if (models.Count < ModelsKept)
+                {
+                    models[modelKey] = entry;
+                }
             }
 
             justTraced = false;
@@ -284,7 +306,7 @@ internal static class SweepForecast
             Evaluated = evaluated,
             Elapsed = clock.Elapsed,
             Budget = budget,
-            DistinctModels = models.Count,
+            DistinctModels = distinct.Count,
             ModelsNotPreflighted = modelsNotPreflighted,
             WillFail = failed,
             Failures = [.. groups.OrderByDescending(f => f.Value.Count + f.Value.Untraced).ThenBy(f => f.Key, StringComparer.Ordinal)
@@ -315,6 +337,18 @@ internal static class SweepForecast
         {
             return new ModelEntry(null, null, JobFiles.ModelProblemText.Of(ex, document), null, ex);
         }
+    }
+
+    /// <summary>FNV-1a over the key's characters (64 bits: two of the ~10^5-10^6 keys a forecast meets share one with odds of ~10^-8).</summary>
+    private static ulong KeyHash(string key)
+    {
+        var hash = 14695981039346656037UL;
+        foreach (var c in key)
+        {
+            hash = (hash ^ c) * 1099511628211UL;
+        }
+
+        return hash;
     }
 
     /// <summary>A step coprime to <paramref name="n"/> near n times the golden ratio's fraction: i * step mod n visits every point once, spread out.</summary>

@@ -1,0 +1,104 @@
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// The point ids of one input row group as the merge by columns holds them while it picks the order
+/// (<see cref="StreamingMerge"/>): ids as the planner makes them (16 lower-case hex digits) as their 8-byte
+/// number, any other id as its text. Held as strings, the ids of every input's current row group were
+/// most of a merge pass's live data (~22 MB for the ~105 parts of a 10^6-point `points/` file, ~56 MB for
+/// the 279 `sound_speeds/` parts) and, once a pass was done, garbage in the oldest generation under the
+/// next pass's peak (bench/README.md, round 19). Fixed-width lower-case hex sorts as its number, so
+/// comparing keys gives the ordinal order of the texts.
+/// </summary>
+internal sealed class MergeIds
+{
+    private readonly ulong[] _keys;
+
+    // The ids that are not keys (null when every id is one): which rows, and their texts (null for a missing id).
+    private readonly bool[]? _textual;
+    private readonly string?[]? _texts;
+
+    private MergeIds(ulong[] keys, bool[]? textual, string?[]? texts)
+    {
+        _keys = keys;
+        _textual = textual;
+        _texts = texts;
+    }
+
+    public int Length => _keys.Length;
+
+    /// <summary>Keeps the ids of <paramref name="ids"/> (the strings can then be dropped).</summary>
+    public static MergeIds Of(string?[] ids)
+    {
+        ArgumentNullException.ThrowIfNull(ids);
+        var keys = new ulong[ids.Length];
+        bool[]? textual = null;
+        string?[]? texts = null;
+        for (var i = 0; i < ids.Length; i++)
+        {
+            if (!TryKey(ids[i], out keys[i]))
+            {
+                textual ??= new bool[ids.Length];
+                texts ??= new string?[ids.Length];
+                textual[i] = true;
+                texts[i] = ids[i];
+            }
+        }
+
+        return new MergeIds(keys, textual, texts);
+    }
+
+    /// <summary>The id at <paramref name="row"/> for ordering.</summary>
+    public MergeId this[int row] => _textual is { } t && t[row]
+        ? new MergeId(0, _texts![row], Keyed: false)
+        : new MergeId(_keys[row], null, Keyed: true);
+
+    /// <summary>The id's text (a new string for a key), as the merged file's <c>point_id</c> column holds it.</summary>
+    public string? TextAt(int row) => _textual is { } t && t[row] ? _texts![row] : KeyText(_keys[row]);
+
+    /// <summary>Rows <paramref name="from"/>[k] written to <paramref name="destination"/>[<paramref name="to"/>[k]] for k in [start, end), as text.</summary>
+    public void ScatterTextInto(string?[] destination, int[] to, int[] from, int start, int end)
+    {
+        ArgumentNullException.ThrowIfNull(destination);
+        ArgumentNullException.ThrowIfNull(to);
+        ArgumentNullException.ThrowIfNull(from);
+        for (var k = start; k < end; k++)
+        {
+            destination[to[k]] = TextAt(from[k]);
+        }
+    }
+
+    /// <summary>16 lower-case hex digits, the text of <see cref="Planning.PointIdentity.IdText"/>.</summary>
+    internal static string KeyText(ulong key) => Planning.PointIdentity.IdText(key);
+
+    private static bool TryKey(string? id, out ulong key)
+    {
+        key = 0;
+        if (id is null || id.Length != 16)
+        {
+            return false;
+        }
+
+        foreach (var c in id)
+        {
+            var digit = c is >= '0' and <= '9' ? c - '0' : c is >= 'a' and <= 'f' ? c - 'a' + 10 : -1;
+            if (digit < 0)
+            {
+                return false;
+            }
+
+            key = (key << 4) | (uint)digit;
+        }
+
+        return true;
+    }
+}
+
+/// <summary>One point id in the merge's order: its key when <see cref="Keyed"/>, else its text (null for a missing id).</summary>
+internal readonly record struct MergeId(ulong Key, string? Text, bool Keyed)
+{
+    /// <summary>Ordinal order of the ids' texts (keys compare as numbers, which is the same for 16 lower-case hex digits).</summary>
+    public static int Compare(MergeId a, MergeId b) =>
+        a.Keyed && b.Keyed ? a.Key.CompareTo(b.Key) : string.CompareOrdinal(a.AsText(), b.AsText());
+
+    private string? AsText() => Keyed ? MergeIds.KeyText(Key) : Text;
+}
