@@ -53,8 +53,10 @@ public static partial class PhononSolver
     /// that can have one (out-of-plane motion and more than one site: a flexural branch and an optical
     /// floor) is counted with both sets: where it keeps one box (the stiff honeycomb of the tests from
     /// 16 x 16 on) the count is one set too many (bench/README.md, Round 12 (trust-signals)). A 3D cell is
-    /// counted with one set: one whose slower cones keep a box of their own makes two or three, which is
-    /// rare (6 of the 294 3D cell x mesh rows of docs/outside-checks.md Round 17) and known only after the mesh solve.
+    /// counted with one set: one whose slower cones keep a box of their own makes two or three (6 of the 294
+    /// 3D cell x mesh rows of docs/outside-checks.md Round 17), and one whose every cone ended in one narrowed
+    /// box tries one to three more sets for its slower cones, with five solves per ray to test each (51 of the
+    /// 294 rows, Round 18); both are known only after the mesh solve, so the estimate leaves them out.
     /// </summary>
     public static int LongWaveSolves(CrystalModel model, BulkSample sample, SolveOptions options)
     {
