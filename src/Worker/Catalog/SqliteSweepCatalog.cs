@@ -167,43 +167,27 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
         public RawChunkRowInserter(SqliteConnection c, string sweepId, string state)
         {
             _db = c.Handle!;
-            Check(SQLitePCL.raw.sqlite3_prepare_v2(_db, InsertChunkRowSql, out _stmt));
-            Check(SQLitePCL.raw.sqlite3_bind_text(_stmt, Index("@sweep"), sweepId));
-            Check(SQLitePCL.raw.sqlite3_bind_text(_stmt, Index("@state"), state));
-            _chunk = Index("@chunk");
-            _first = Index("@first");
-            _last = Index("@last");
-            _count = Index("@count");
-            _points = Index("@points");
+            Check(_db, SQLitePCL.raw.sqlite3_prepare_v2(_db, InsertChunkRowSql, out _stmt));
+            Check(_db, SQLitePCL.raw.sqlite3_bind_text(_stmt, Index(_stmt, "@sweep"), sweepId));
+            Check(_db, SQLitePCL.raw.sqlite3_bind_text(_stmt, Index(_stmt, "@state"), state));
+            _chunk = Index(_stmt, "@chunk");
+            _first = Index(_stmt, "@first");
+            _last = Index(_stmt, "@last");
+            _count = Index(_stmt, "@count");
+            _points = Index(_stmt, "@points");
         }
 
         public void Insert(string chunkId, long first, long last, long count, ReadOnlySpan<byte> pointsUtf8)
         {
-            Check(SQLitePCL.raw.sqlite3_bind_text(_stmt, _chunk, chunkId));
-            Check(SQLitePCL.raw.sqlite3_bind_int64(_stmt, _first, first));
-            Check(SQLitePCL.raw.sqlite3_bind_int64(_stmt, _last, last));
-            Check(SQLitePCL.raw.sqlite3_bind_int64(_stmt, _count, count));
-            Check(SQLitePCL.raw.sqlite3_bind_text(_stmt, _points, pointsUtf8));
-            var rc = SQLitePCL.raw.sqlite3_step(_stmt);
-            SQLitePCL.raw.sqlite3_reset(_stmt);
-            if (rc != SQLitePCL.raw.SQLITE_DONE)
-            {
-                SqliteException.ThrowExceptionForRC(rc, _db);
-            }
+            Check(_db, SQLitePCL.raw.sqlite3_bind_text(_stmt, _chunk, chunkId));
+            Check(_db, SQLitePCL.raw.sqlite3_bind_int64(_stmt, _first, first));
+            Check(_db, SQLitePCL.raw.sqlite3_bind_int64(_stmt, _last, last));
+            Check(_db, SQLitePCL.raw.sqlite3_bind_int64(_stmt, _count, count));
+            Check(_db, SQLitePCL.raw.sqlite3_bind_text(_stmt, _points, pointsUtf8));
+            Step(_db, _stmt);
         }
 
         public void Dispose() => _stmt.Dispose();
-
-        private int Index(string name) =>
-            SQLitePCL.raw.sqlite3_bind_parameter_index(_stmt, name) is > 0 and var i ? i : throw new InvalidOperationException($"no parameter {name} in the chunk row insert");
-
-        private void Check(int rc)
-        {
-            if (rc != SQLitePCL.raw.SQLITE_OK)
-            {
-                SqliteException.ThrowExceptionForRC(rc, _db);
-            }
-        }
     }
 
     protected override string NumberOf(string expression) => $"CAST({expression} AS REAL)";

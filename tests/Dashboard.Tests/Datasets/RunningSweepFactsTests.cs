@@ -9,7 +9,7 @@ namespace LatticeSweep.Dashboard.Tests.Datasets;
 
 /// <summary>
 /// A running sweep's points/ table (one part per chunk, no merge yet): every part carries its column
-/// summary (the Worker writes it with the part), the table's facts are the parts' summed, and
+/// summary (the Worker writes it with the part), the table's facts are the parts' summed,
 /// and their first rows in plan order; whatever the page builds from them (stability counts, key
 /// parameters, the first page in plan order and its cells, plots, other pages) equals what it
 /// builds from the same rows without them; a part written before parts had one (a sweep older than
@@ -152,36 +152,7 @@ public sealed class RunningSweepFactsTests : IDisposable
     internal static void AssertFactsAgreeWithEveryRow(TableSummary summary, ResultTable scanned)
     {
         Assert.Equal(scanned.Count, summary.Rows);
-        foreach (var column in scanned.Columns)
-        {
-            var cells = scanned.Cells(scanned.IndexOf(column.Name));
-            var facts = summary.Of(column.Name)!;
-            Assert.Equal(Enumerable.Range(0, scanned.Count).Count(cells.HasValue), facts.Count);
-            var finite = scanned.Numbers(column.Name).OfType<double>().Where(double.IsFinite).ToList();
-            Assert.Equal(finite.Count, facts.Finite);
-            if (finite.Count > 0)
-            {
-                Assert.Equal(finite.Min(), facts.Min);
-                Assert.Equal(finite.Max(), facts.Max);
-            }
-
-            var seen = new HashSet<CellKey>();
-            var distinct = Enumerable.Range(0, scanned.Count).Where(r => cells.HasValue(r) && seen.Add(cells.Key(r))).Select(cells.Cell).ToList();
-            if (column.ClrType == typeof(DateTime) || column.ClrType == typeof(DateTimeOffset))
-            {
-                Assert.True(facts.More);
-                Assert.Null(summary.DistinctCells(column.Name));
-                continue;
-            }
-
-            Assert.Equal(distinct.Take(ColumnSummary.DistinctKept).ToArray(), facts.Distinct.ToArray());
-            Assert.Equal(distinct.Count > ColumnSummary.DistinctKept, facts.More);
-            if (!facts.More)
-            {
-                Assert.Equal(distinct.Count + (facts.Count < scanned.Count ? 1 : 0), summary.DistinctCells(column.Name));
-            }
-        }
-
+        SummaryFacts.AssertColumnsAgreeWithEveryRow(summary, scanned);
         Assert.NotNull(summary.Marks);
         Assert.Equal(StabilityCounts.Of(scanned), StabilityCounts.FromMarks(scanned, summary.Marks!.Value));
     }

@@ -3,6 +3,7 @@ using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Spectrum;
 using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Tests.Support;
 using LatticeSweep.Engine.Units;
 using MathNet.Numerics.Integration;
 
@@ -63,7 +64,6 @@ public sealed class SlowerConeRaysTests
         var mu = new GaussLegendreRule(-1, 1, 24);
         var octave = new GaussLegendreRule(0.5, 1.0, 8);
         const int phiSteps = 48;
-        var kt = PhysicalConstants.BoltzmannJPerK * temperatureK / PhysicalConstants.HbarJS;
         var perCell = 0.0;
         for (var a = 0; a < mu.Abscissas.Length; a++)
         {
@@ -83,8 +83,7 @@ public sealed class SlowerConeRaysTests
                         var states = lattice.CellMeasure / Math.Pow(2 * Math.PI, 3) * 4 * Math.PI * directionWeight * q * q * octave.Weights[n] * scale;
                         for (var m = 0; m < crystal.Size; m++)
                         {
-                            var x = Math.Sqrt(Math.Max(solver.Values[m], 0)) / kt;
-                            perCell += x is > 0 and < 700 ? states * x * x / (4 * Math.Pow(Math.Sinh(x / 2), 2)) : 0;
+                            perCell += states * ModeHeatCapacity.InBoltzmannUnits(Math.Sqrt(Math.Max(solver.Values[m], 0)), temperatureK);
                         }
                     }
                 }
