@@ -43,8 +43,9 @@ internal sealed record FirstLoad(
     {
         foreach (var part in Parts)
         {
+            // A list cut short ("more") after DistinctKept values means at least one more value (times list none: not counted).
             if (part.Summary is { } s && s.DistinctCells(q) is { } dq
-                && (s.DistinctCells(p) is { } dp ? dp > dq : dq <= ColumnSummary.DistinctKept))
+                && (s.DistinctCells(p) is { } dp ? dp > dq : s.Of(p) is { More: true } cut && cut.Distinct.Length >= ColumnSummary.DistinctKept && dq <= ColumnSummary.DistinctKept))
             {
                 return true;
             }
