@@ -13,7 +13,7 @@
 # DASHBOARD_DLL (the dashboard build to time), LATSWEEP (the latsweep build to time; default: published with ReadyToRun code
 # into RESULTS/latsweep-r2r as README's install line makes it, or with MILLION_LATSWEEP=build the plain `dotnet build` output), MERGE_ROWS (default 10^6), MERGE_PARTS (default 128),
 # KEEP_RESULTS=1 (keep RESULTS: time another build on the data of an earlier run). The dashboard step also asks for the
-# page of a waiting point (index 600,000, read from the store's chunk rows with python3's sqlite3) when it can find one,
+# plots' fragment the sweep page's script fetches (/sweeps/ID/plots), the page of a waiting point (index 600,000, read from the store's chunk rows with python3's sqlite3) when it can find one,
 # then a filter that keeps about half the rows of the merged bench data (sorted, and its page at row 300,000 with its
 # plots) and a far page of another sort: requests no footer fact answers, which read and sort their columns;
 # last, another page of that filter (its plots kept from the far page: the dashboard keeps a filter's plots across requests).
@@ -113,14 +113,16 @@ for step in "${steps[@]}"; do
         waiting="$(python3 -c 'import json, sqlite3, sys
 c = sqlite3.connect(sys.argv[1]).execute("SELECT points_json FROM latsweep_chunks WHERE first_index <= 600000 AND last_index >= 600000 AND points_json IS NOT NULL").fetchone()
 print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 600000), "") if c else "")' "$store" 2>/dev/null || true)"
-        for page in "sweeps/$id" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
+        # After the first load, the plots' fragment as the page's script asks for it (a table not merged yet: the page answers
+        # without its plots; a build without the fragment answers 404 quickly), then a second load.
+        for page in "sweeps/$id" "sweeps/$id/plots" "sweeps/$id" "api/sweeps/$id" "api/sweeps/$id/results" "api/sweeps/$id/plots" \
             "api/sweeps/$id/results?stable=1&sort=max_freq_thz&dir=desc" "sweeps/$id?range=max_freq_thz:0:1e9&offset=500000" \
             ${waiting:+"sweeps/$id/points/$waiting"} \
             "api/sweeps/$id/results?range=debye_temperature_from_cv_k:0:749.7&sort=cv_j_per_kg_k&dir=desc" \
             "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=300000" "api/sweeps/$id/results?sort=cv_j_per_mol_k&offset=700000" \
             "sweeps/$id?range=debye_temperature_from_cv_k:0:749.7&offset=100"; do
           # Beside each request's wall time, the dashboard process's CPU so far (user + system; steadier than wall on a shared machine).
-          took="$(curl -s -o /dev/null -w "dashboard [$table] /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
+          took="$(curl -s -H "X-LatticeSweep-Fragment: 1" -o /dev/null -w "dashboard [$table] /$page  %{time_total} s, %{size_download} bytes, HTTP %{http_code}" "http://127.0.0.1:$port/$page")"
           echo "$took, process CPU $(awk -v hz="$(getconf CLK_TCK)" '{ printf "%.2f s", ($14 + $15) / hz }' /proc/$pid/stat)" | tee -a "$results/summary.txt"
         done
         echo "dashboard [$table] peak RSS $(awk '/VmHWM/ { print int($2 / 1024) " MB" }' /proc/$pid/status)" | tee -a "$results/summary.txt"

@@ -21,8 +21,68 @@ internal sealed record FirstLoad(
     FirstLoad.ParameterSample? ParameterPlot,
     FirstLoad.ScatterSample? Scatter)
 {
+    /// <summary>True for the merge's entry (<see cref="TryRead"/>); false for the first page made of a running sweep's parts (<see cref="OfParts"/>).</summary>
+    public bool Merged { get; init; }
+
     /// <summary>The cells of the default table's first page as the merge read them (rows in plan order, cells boxed as the table boxes them); null when the entry has none.</summary>
     public FirstPageCells? FirstPage { get; init; }
+
+    /// <summary>A running sweep's parts, each with its footer summary and its first rows (<see cref="OfParts"/>); empty for the merge's entry.</summary>
+    public ImmutableArray<PartFacts> Parts { get; init; } = [];
+
+    /// <summary>One part's own facts: its column summary (null when it has none) and its first rows' cells.</summary>
+    internal sealed record PartFacts(TableSummary? Summary, FirstPageCells FirstRows);
+
+    /// <summary>
+    /// True when the parts' own facts show that some value of <paramref name="q"/> goes with two values of
+    /// <paramref name="p"/>, so q does not determine p (<see cref="PlotDefaults.Determines"/>), without a row read:
+    /// a part whose summary counts fewer distinct cells of q than of p (a function's image is no larger than its
+    /// domain), or two of the parts' first rows with equal q and different p. False says nothing: the rows decide.
+    /// </summary>
+    public bool ShowsNotDetermined(string q, string p)
+    {
+        foreach (var part in Parts)
+        {
+            // A list cut short ("more") after DistinctKept values means at least one more value (times list none: not counted).
+            if (part.Summary is { } s && s.DistinctCells(q) is { } dq
+                && (s.DistinctCells(p) is { } dp ? dp > dq : s.Of(p) is { More: true } cut && cut.Distinct.Length >= ColumnSummary.DistinctKept && dq <= ColumnSummary.DistinctKept))
+            {
+                return true;
+            }
+        }
+
+        var seen = new Dictionary<object, object>();
+        foreach (var part in Parts)
+        {
+            if (!part.FirstRows.Columns.TryGetValue(q, out var qs) || !part.FirstRows.Columns.TryGetValue(p, out var ps))
+            {
+                continue;
+            }
+
+            for (var k = 0; k < qs.Length; k++)
+            {
+                var key = RuleKeyOf(qs[k]);
+                var value = RuleKeyOf(ps[k]);
+                if (!seen.TryAdd(key, value) && !seen[key].Equals(value))
+                {
+                    return true;
+                }
+            }
+        }
+
+        return false;
+    }
+
+    /// <summary>A cell as the rule compares it: a number by its bits as a double, another cell by value; every empty cell one value.</summary>
+    private static object RuleKeyOf(object? cell) => cell switch
+    {
+        null => RuleKey.Empty,
+        double d => BitConverter.DoubleToInt64Bits(d),
+        float f => BitConverter.DoubleToInt64Bits(f),
+        int i => BitConverter.DoubleToInt64Bits(i),
+        long l => BitConverter.DoubleToInt64Bits(l),
+        _ => cell,
+    };
 
     /// <summary>
     /// The cells of <paramref name="columns"/> at <paramref name="rows"/> (one array per column, as
@@ -123,6 +183,7 @@ internal sealed record FirstLoad(
             return new FirstLoad(rows, Names(root.GetProperty("parameters")), Names(root.GetProperty("key_parameters")), planFirst, parameterPlot, scatter)
             {
                 FirstPage = root.TryGetProperty("first_page", out var page) ? Page(page, columns) : null,
+                Merged = true,
             };
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
@@ -145,6 +206,7 @@ internal sealed record FirstLoad(
         ArgumentNullException.ThrowIfNull(files);
         var candidates = new List<(long Index, int Row, int File, int At)>();
         var pages = new List<FirstPageCells>();
+        var parts = ImmutableArray.CreateBuilder<PartFacts>(files.Count);
         var start = 0;
         try
         {
@@ -170,6 +232,7 @@ internal sealed record FirstLoad(
                 }
 
                 pages.Add(page);
+                parts.Add(new PartFacts(files[f].Summary, page));
                 start += files[f].RowCount;
             }
         }
@@ -187,7 +250,7 @@ internal sealed record FirstLoad(
         var kept = pages.Count == 0 ? [] : pages.Select(p => p.Columns.Keys).Aggregate((a, b) => [.. a.Intersect(b, StringComparer.Ordinal)]).ToList();
         var cells = kept.ToImmutableDictionary(c => c, c => first.Select(x => pages[x.File].Columns[c][x.At]).ToArray(), StringComparer.Ordinal);
         ImmutableArray<int> planFirst = [.. first.Select(x => x.Row)];
-        return new FirstLoad(rows, [], [], planFirst, null, null) { FirstPage = new FirstPageCells(planFirst, cells) };
+        return new FirstLoad(rows, [], [], planFirst, null, null) { FirstPage = new FirstPageCells(planFirst, cells), Parts = parts.MoveToImmutable() };
     }
 
     /// <summary>The first page's cells, each column boxed by its type in the table (a column the table lacks, or of another type, is left out: its cells are then read).</summary>

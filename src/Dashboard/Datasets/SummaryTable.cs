@@ -130,7 +130,9 @@ public sealed record SummaryTable(
 
             using var timing = StageTimings.Measure("table: key parameters");
             // The rule the merge uses too (PlotDefaults); every pair is answered here, so the list is never null.
-            return (IReadOnlyList<string>)PlotDefaults.KeyParameters(ordered, (q, p) => Determines(t, t.IndexOf(q), t.IndexOf(p)))!;
+            // A running sweep's parts often show a pair not determined from their own facts (no row read); the rest is read.
+            return (IReadOnlyList<string>)PlotDefaults.KeyParameters(ordered,
+                (q, p) => t.FirstLoad?.ShowsNotDetermined(q, p) != true && Determines(t, t.IndexOf(q), t.IndexOf(p)))!;
         });
     }
 

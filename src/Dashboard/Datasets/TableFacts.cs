@@ -18,4 +18,8 @@ internal static class TableFacts
     public static T Of<T>(ResultTable table, string key, Func<ResultTable, T> work)
         where T : notnull =>
         (T)Facts.GetValue(table, _ => new ConcurrentDictionary<string, object>(StringComparer.Ordinal)).GetOrAdd(key, _ => work(table));
+
+    /// <summary>Whether the fact is known already (a page decides whether to answer before working it out).</summary>
+    public static bool Has(ResultTable table, string key) =>
+        Facts.TryGetValue(table, out var facts) && facts.ContainsKey(key);
 }

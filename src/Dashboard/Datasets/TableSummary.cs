@@ -1,3 +1,4 @@
+using System.Collections.Concurrent;
 using System.Collections.Immutable;
 using System.Text.Json;
 using LatticeSweep.Worker.Output;
@@ -16,12 +17,25 @@ namespace LatticeSweep.Dashboard.Datasets;
 /// </summary>
 internal sealed class TableSummary
 {
-    private readonly ImmutableDictionary<string, Column> _columns;
+    private readonly ImmutableDictionary<string, Column>? _columns;
+
+    // A concatenation's columns, each summed from its files' the first time it is asked for (a first load asks for a
+    // few dozen of ~160: summing all of them over a running sweep's hundreds of parts was most of the files' facts).
+    private readonly Func<string, Column?>? _sum;
+    private readonly ConcurrentDictionary<string, Column?>? _summed;
 
     private TableSummary(long rows, ImmutableDictionary<string, Column> columns, ImmutableArray<Mark>? marks)
     {
         Rows = rows;
         _columns = columns;
+        Marks = marks;
+    }
+
+    private TableSummary(long rows, Func<string, Column?> sum, ImmutableArray<Mark>? marks)
+    {
+        Rows = rows;
+        _sum = sum;
+        _summed = new(StringComparer.Ordinal);
         Marks = marks;
     }
 
@@ -38,7 +52,7 @@ internal sealed class TableSummary
     internal sealed record Column(long Count, long Finite, double Min, double Max, ImmutableArray<object> Distinct, bool More);
 
     /// <summary>The column's facts; null when the summary does not have the column.</summary>
-    public Column? Of(string column) => _columns.GetValueOrDefault(column);
+    public Column? Of(string column) => _columns is not null ? _columns.GetValueOrDefault(column) : _summed!.GetOrAdd(column, _sum!);
 
     /// <summary>Parses the footer entry of a file of these columns; null when absent or unreadable (then the rows are read).</summary>
     public static TableSummary? Parse(IReadOnlyDictionary<string, string>? metadata, IReadOnlyList<ResultColumn> columns, long fileRows)
@@ -102,11 +116,16 @@ internal sealed class TableSummary
             return files[0];
         }
 
-        var parsed = ImmutableDictionary.CreateBuilder<string, Column>(StringComparer.Ordinal);
-        foreach (var c in columns)
+        var known = columns.Select(c => c.Name).ToHashSet(StringComparer.Ordinal);
+        Column? Sum(string name)
         {
+            if (!known.Contains(name))
+            {
+                return null;
+            }
+
             // A column a file lacks is empty there: it adds rows without values.
-            var parts = files.Select(f => f!.Of(c.Name)).OfType<Column>().ToList();
+            var parts = files.Select(f => f!.Of(name)).OfType<Column>().ToList();
             var finite = parts.Where(p => p.Finite > 0).ToList();
             var distinct = new List<object>();
             // The values met so far (equal as List.Contains finds them: by Equals), for a running sweep's hundreds of parts.
@@ -139,14 +158,14 @@ internal sealed class TableSummary
                 more |= p.More;
             }
 
-            parsed[c.Name] = new Column(parts.Sum(p => p.Count), finite.Sum(p => p.Finite),
+            return new Column(parts.Sum(p => p.Count), finite.Sum(p => p.Finite),
                 finite.Count > 0 ? finite.Min(p => p.Min) : double.NaN, finite.Count > 0 ? finite.Max(p => p.Max) : double.NaN, [.. distinct], more);
         }
 
         ImmutableArray<Mark>? marks = files.All(f => f!.Marks is not null)
             ? [.. files.SelectMany(f => f!.Marks!.Value).GroupBy(x => (x.State, x.Stable, x.Floppy)).Select(g => new Mark(g.Key.State, g.Key.Stable, g.Key.Floppy, g.Sum(x => x.Rows)))]
             : null;
-        return new TableSummary(files.Sum(f => f!.Rows), parsed.ToImmutable(), marks);
+        return new TableSummary(files.Sum(f => f!.Rows), Sum, marks);
     }
 
     /// <summary>How many distinct cells the column has, an empty cell counting as one; null past the values kept (more than <see cref="ColumnSummary.DistinctKept"/>).</summary>

@@ -193,6 +193,9 @@ public static class Links
 
     public static string ApiPlots(string sweepId) => ApiSweep(sweepId) + "/plots";
 
+    /// <summary>The sweep page's plots as an HTML fragment (their facts and their JSON), for the page's script or a reader without one.</summary>
+    public static string SweepPlots(string sweepId) => Sweep(sweepId) + "/plots";
+
     public static string Compare(string sweepId) => Sweep(sweepId) + "/compare";
 
     /// <summary>The page of one failure group's points (<c>?offset=N</c> for a later page).</summary>

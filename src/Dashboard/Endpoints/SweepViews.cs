@@ -155,19 +155,44 @@ internal static class SweepViews
         return new(parameter.Value, scatter.Value, points.Line);
     }
 
+    /// <summary>
+    /// True when drawing the view's plots reads the table's rows: points/ has no merge's first-load facts (a
+    /// running sweep's parts, or a sweep stopped before its merge) and the plots were not kept from an earlier
+    /// request. The sweep page then answers without them (a 10^6-row table's plots take seconds to draw).
+    /// A merged table's plots are drawn with the page, filtered or not, as before.
+    /// </summary>
+    public static bool PlotsReadRows(FilteredPoints points, SweepRecord sweep, SweepView view)
+    {
+        ArgumentNullException.ThrowIfNull(points);
+        ArgumentNullException.ThrowIfNull(sweep);
+        ArgumentNullException.ThrowIfNull(view);
+        if (points.All.FirstLoad is { Merged: true } || points.All.Count == 0)
+        {
+            return false;
+        }
+
+        return ReferenceEquals(points.Rows, points.All)
+            ? !(TableFacts.Has(points.Rows, ParameterPlotKey(sweep, view)) && TableFacts.Has(points.Rows, ScatterPlotKey(sweep, view)))
+            : !RecentFacts.Has(points.All, FilteredPlotsKey(points.Filter, view));
+    }
+
+    private static string ParameterPlotKey(SweepRecord sweep, SweepView view) => $"parameter plot\n{sweep.SweepId}\n{view.Plot}";
+
+    private static string ScatterPlotKey(SweepRecord sweep, SweepView view) => $"scatter plot\n{sweep.SweepId}\n{view.Scatter}";
+
     /// <summary>What a filtered view's plots depend on: the filter as applied and the plot choices (not the table's sort or page).</summary>
     private static string FilteredPlotsKey(PointFilter filter, SweepView view) =>
         $"filtered plots\n{SweepView.Encode(filter.Query())}\n{view.Plot}\n{view.Scatter}";
 
     private static SweepPlot? ParameterPlot(FilteredPoints points, SweepRecord sweep, SweepView view) =>
-        TableFacts.Of(points.Rows, $"parameter plot\n{sweep.SweepId}\n{view.Plot}", _ =>
+        TableFacts.Of(points.Rows, ParameterPlotKey(sweep, view), _ =>
         {
             using var timing = StageTimings.Measure("plots: parameter plot");
             return new Cached<SweepPlot>(SweepPlots.Parameter(points.All, points.Rows, sweep, view.Plot));
         }).Value;
 
     private static SweepPlot? ScatterPlot(FilteredPoints points, SweepRecord sweep, SweepView view) =>
-        TableFacts.Of(points.Rows, $"scatter plot\n{sweep.SweepId}\n{view.Scatter}", _ =>
+        TableFacts.Of(points.Rows, ScatterPlotKey(sweep, view), _ =>
         {
             using var timing = StageTimings.Measure("plots: scatter plot");
             return new Cached<SweepPlot>(SweepPlots.Scatter(points.All, points.Rows, sweep, view.Scatter));

@@ -45,7 +45,11 @@ internal sealed partial class SweepModel : PageModel
 
     public FilteredPoints Points { get; private set; } = null!;
 
-    public SweepPlotSet Plots { get; private set; } = null!;
+    /// <summary>
+    /// The plots, or null when the page answers without them (<see cref="SweepViews.PlotsReadRows"/>: points/ not
+    /// merged yet, and these plots not kept from an earlier request); its script then fetches <see cref="PlotsFragmentLink"/>.
+    /// </summary>
+    public SweepPlotSet? Plots { get; private set; }
 
     /// <summary>The plots as JSON, embedded in the page for its script (a data block, not code).</summary>
     public string PlotsJson { get; private set; } = "{}";
@@ -150,6 +154,9 @@ internal sealed partial class SweepModel : PageModel
     /// <summary>The plots' JSON for this view.</summary>
     public string PlotsApiLink => Links.ApiPlots(Sweep.SweepId) + Canonical().Query(Defaults());
 
+    /// <summary>The plots' fragment for this view (what the page's script puts in place when the page answered without them).</summary>
+    public string PlotsFragmentLink => Links.SweepPlots(Sweep.SweepId) + Canonical().Query(Defaults());
+
     /// <summary>The export address of the filtered table in a format (its filter and sort, nothing else).</summary>
     public string ExportLink(string format) =>
         Links.Export(Sweep.SweepId, format) + SweepView.Encode(Points.Filter.Query()
@@ -160,46 +167,14 @@ internal sealed partial class SweepModel : PageModel
     public IReadOnlySet<string> ChosenColumns =>
         (View.Table.Columns.Length > 0 ? View.Table.Columns.Where(Points.All.Has) : Results.DefaultColumnNames).ToHashSet(StringComparer.Ordinal);
 
-    /// <summary>A point's values of the parameters the table shows by default ("invented-03, 6 N/m"), for lists of points.</summary>
-    public string ParametersOf(string pointId)
-    {
-        // The front's listed rows are found together (one pass over point_id, or their rows as the merge wrote them down).
-        _frontRows ??= FrontRows();
-        if (_frontRows.TryGetValue(pointId, out var known))
-        {
-            return known;
-        }
+    /// <summary>The key parameters' values of the front's listed points (for the plots drawn with the page).</summary>
+    public FrontParameters Front => _front ??= new FrontParameters(Points, Names, Plots?.Scatter, MaxFrontRows);
 
-        var at = Points.All.FirstPositions("point_id", [pointId])[0];
-        return at < 0 ? "" : ParametersAt([at])[0];
-    }
+    private FrontParameters? _front;
 
-    private Dictionary<string, string>? _frontRows;
-
-    private Dictionary<string, string> FrontRows()
-    {
-        using var timing = StageTimings.Measure("sweep page: front rows");
-        var listed = (Plots.Scatter?.Front ?? []).Take(MaxFrontRows).ToList();
-        var ids = listed.Select(f => f.PointId).Distinct(StringComparer.Ordinal).ToList();
-        // The merge's front, when it is the one drawn, says where its points are; else a pass over point_id finds them.
-        var merged = Points.All.FirstLoad?.Scatter?.Front;
-        var at = merged is { } front && Points.Rows == Points.All && front.Length >= listed.Count
-            && front.Take(listed.Count).Select(p => p.PointId).SequenceEqual(listed.Select(f => f.PointId), StringComparer.Ordinal)
-            ? ids.Select(id => front.First(p => p.PointId == id).Row).ToArray()
-            : Points.All.FirstPositions("point_id", ids);
-        var found = ids.Select((id, i) => (id, at: at[i])).Where(p => p.at >= 0).ToList();
-        var text = ParametersAt([.. found.Select(p => p.at)]);
-        return found.Select((p, i) => (p.id, text: text[i])).Concat(ids.Select((id, i) => (id, at: at[i])).Where(p => p.at < 0).Select(p => (p.id, text: "")))
-            .ToDictionary(p => p.id, p => p.text, StringComparer.Ordinal);
-    }
-
-    /// <summary>The key parameters' values at these rows, read from their row groups only (boxing the whole row would read every column of the table).</summary>
-    private string[] ParametersAt(int[] rows)
-    {
-        var parameters = SummaryTable.KeyParameters(Points.All, Names);
-        var cells = Points.All.CellsAt([.. parameters.Select(Points.All.IndexOf)], rows);
-        return [.. rows.Select((_, k) => string.Join(", ", parameters.Select((p, c) => Formatting.Show.Value(cells[c][k], Names.UnitOf(p)))))];
-    }
+    /// <summary>One plot's facts beside its canvas, or (plots not drawn with the page) the note that they are being drawn.</summary>
+    internal PlotFactsBlock FactsOf(string kind) =>
+        new(kind, Plots is null ? null : kind == SweepPlot.ParameterKind ? Plots.Parameter : Plots.Scatter, Sweep.SweepId, Plots is null ? null : Front, PlotsApiLink, PlotsFragmentLink);
 
     /// <summary>Whether a value of a parameter is ticked in the filter.</summary>
     public bool IsTicked(string column, string raw) =>
@@ -246,11 +221,16 @@ internal sealed partial class SweepModel : PageModel
             (Results, _, Points) = await SweepViews.ResultsAsync(_board, sweep, view, ct, withPlots: true).ConfigureAwait(false);
         }
 
-        using (StageTimings.Measure("sweep page: plots"))
+        // A running sweep's plots read every row (seconds at 10^6 points): the page answers first and its script fetches them.
+        if (!SweepViews.PlotsReadRows(Points, sweep, view))
         {
-            Plots = SweepViews.Plots(Points, sweep, view);
-            PlotsJson = JsonSerializer.Serialize(Plots, _json);
+            using (StageTimings.Measure("sweep page: plots"))
+            {
+                Plots = SweepViews.Plots(Points, sweep, view);
+                PlotsJson = JsonSerializer.Serialize(Plots, _json);
+            }
         }
+
         Shown = view with
         {
             Plot = SweepPlots.Resolve(Points.All, Names, view.Plot),

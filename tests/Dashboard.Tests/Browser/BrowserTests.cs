@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Text.Json;
 using LatticeSweep.Dashboard.Tests.Support;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Planning;
@@ -516,6 +517,47 @@ public sealed class BrowserTests : IClassFixture<BrowserFixture>
     }
 
     /// <summary>A new tab whose script errors (console errors, uncaught exceptions) are collected.</summary>
+    [Fact]
+    public async Task A_running_sweeps_page_shows_the_plots_its_script_fetched_as_they_were_drawn_with_the_page()
+    {
+        // A dashboard of its own, so no other test has drawn these plots yet: the page answers without them.
+        await using var server = await DashboardServer.StartAsync(_store);
+        var id = _store.Ids["chain-dispersion"];
+        using (var http = server.Client())
+        {
+            var html = await Html.GetAsync(http, $"/sweeps/{id}");
+            Assert.NotNull(html.QuerySelector("#plots[data-plots-source] .plot-pending"));
+            Assert.Null(html.QuerySelector("script#sweep-plots"));
+        }
+
+        var (page, errors) = await NewPageAsync();
+        await page.GotoAsync(new Uri(server.Address, $"/sweeps/{id}").ToString());
+        await page.WaitForSelectorAsync("body[data-charts-ready]");
+        Assert.Equal("2", await page.EvaluateAsync<string>("() => document.body.dataset.chartsReady"));
+        Assert.Equal(0, await page.Locator(".plot-pending").CountAsync());
+
+        // What the script put in place is what the plots are (the old way: a dashboard that draws them for the JSON endpoint).
+        var drawn = await page.EvaluateAsync<string>("() => document.getElementById('sweep-plots').textContent");
+        await using (var other = await DashboardServer.StartAsync(_store))
+        {
+            using var http = other.Client();
+            using var expected = JsonDocument.Parse(await http.GetStringAsync($"/api/sweeps/{id}/plots"));
+            using var got = JsonDocument.Parse(drawn);
+            Assert.Equal(expected.RootElement.GetRawText(), got.RootElement.GetRawText());
+            var parameter = expected.RootElement.GetProperty("parameter");
+            Assert.Equal(parameter.GetProperty("plotted").GetInt32(), await PlottedPoints(page, "chart-parameter"));
+            Assert.Equal(parameter.GetProperty("plotted").GetInt32().ToString(CultureInfo.InvariantCulture), await page.GetAttributeAsync("#plot-parameter", "data-plotted"));
+            var front = expected.RootElement.GetProperty("scatter").GetProperty("front").EnumerateArray().Select(f => f.GetProperty("point_id").GetString()).ToList();
+            Assert.Equal(front.Take(12), await page.Locator("#front-table tbody tr").EvaluateAllAsync<string[]>("rows => rows.map(r => r.dataset.pointId)"));
+        }
+
+        Assert.True(await InkedPixels(page, "chart-parameter") > 500, "the parameter plot is blank");
+        Assert.True(await InkedPixels(page, "chart-scatter") > 500, "the scatter is blank");
+        Directory.CreateDirectory(Shots);
+        await page.ScreenshotAsync(new() { Path = Path.Combine(Shots, "sweep-page-running-plots-fetched.png"), FullPage = true });
+        Assert.Empty(errors);
+    }
+
     private async Task<(IPage Page, List<string> Errors)> NewPageAsync()
     {
         var page = await _browser.Context.NewPageAsync();

@@ -87,17 +87,20 @@ public sealed partial class FirstLoadTests
             }
         }
 
+        // Without the entry the page answers before its plots are drawn (SweepViews.PlotsReadRows) unless they are kept:
+        // each view's plots are asked for first (their fragment, as the page's script does), so both sides' pages draw them.
         string[] addresses =
         [
-            $"sweeps/{sweepId}",
+            $"sweeps/{sweepId}/plots",
             $"api/sweeps/{sweepId}/plots",
+            $"sweeps/{sweepId}",
             $"api/sweeps/{sweepId}/results",
             $"sweeps/{sweepId}?offset=3",
             $"api/sweeps/{sweepId}/results?offset=2&limit=3",
             $"api/sweeps/{sweepId}/results?sort=point_index&dir=desc",
             // Filtered and chosen views never use the entry; they are compared too.
-            $"sweeps/{sweepId}?stable=1",
             $"api/sweeps/{sweepId}/plots?stable=1",
+            $"sweeps/{sweepId}?stable=1",
             $"api/sweeps/{sweepId}/plots?sx=max_freq_thz&sy=cv_j_per_mol_k&sxbest=smaller",
         ];
         var fast = await AnswersAsync(store, addresses);

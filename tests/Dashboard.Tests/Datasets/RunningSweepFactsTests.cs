@@ -105,6 +105,14 @@ public sealed class RunningSweepFactsTests : IDisposable
         // What the first load builds from the facts equals what it builds from the rows.
         AssertSamePage(scanned, summed, sweep);
 
+        // The key parameters' rule answered from the parts' own facts: every pair of columns they show undetermined is
+        // undetermined over every row (never the other way), and with two swept parameters they spare the rows some pair.
+        var refuted = AssertRefutedPairsHoldOverEveryRow(scanned, summed);
+        if (job == "quickstart")
+        {
+            Assert.True(refuted >= 2, $"the parts' facts refuted {refuted} pairs");
+        }
+
         // A part written before parts carried a summary (here: one part rewritten without it) leaves the table without
         // one: every fact is worked out from the rows again, to the same page.
         var old = parts.OrderBy(p => p, StringComparer.Ordinal).First();
@@ -155,6 +163,33 @@ public sealed class RunningSweepFactsTests : IDisposable
         SummaryFacts.AssertColumnsAgreeWithEveryRow(summary, scanned);
         Assert.NotNull(summary.Marks);
         Assert.Equal(StabilityCounts.Of(scanned), StabilityCounts.FromMarks(scanned, summary.Marks!.Value));
+    }
+
+    /// <summary>
+    /// For every ordered pair of columns (q, p): when the parts' own facts of <paramref name="fast"/> show that q does not
+    /// determine p, the rule over every row of <paramref name="scanned"/> (the same rows) says so too. Returns how many pairs they showed.
+    /// </summary>
+    private static int AssertRefutedPairsHoldOverEveryRow(ResultTable scanned, ResultTable fast)
+    {
+        var load = fast.FirstLoad!;
+        Assert.Equal(fast.Count, load.Parts.Sum(p => p.Summary!.Rows));
+        var refuted = 0;
+        foreach (var q in scanned.Columns)
+        {
+            foreach (var p in scanned.Columns.Where(c => c.Name != q.Name))
+            {
+                if (!load.ShowsNotDetermined(q.Name, p.Name))
+                {
+                    continue;
+                }
+
+                refuted++;
+                var determines = PlotDefaults.Determines(RuleCells.Of(scanned, scanned.IndexOf(q.Name)), RuleCells.Of(scanned, scanned.IndexOf(p.Name)), scanned.Count, int.MaxValue);
+                Assert.True(determines == false, $"{q.Name} -> {p.Name}: the parts' facts say not determined, every row says {determines}");
+            }
+        }
+
+        return refuted;
     }
 
     /// <summary>The first load's pieces built from <paramref name="fast"/> equal those built from <paramref name="scanned"/> (the same rows).</summary>

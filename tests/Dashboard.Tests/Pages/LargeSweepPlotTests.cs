@@ -68,8 +68,10 @@ public sealed class LargeSweepPlotTests
         Assert.True(expected.Count > 1, "the grown table should have a front of more than one point");
         Assert.Equal(expected, front);
 
-        // The page says how many are drawn.
+        // The page says how many are drawn: a running sweep's page in the plots' fragment its script puts in place.
         var page = await Html.GetAsync(http, $"/sweeps/{id}");
-        Assert.Contains($"of the {total:N0} points are drawn", page.QuerySelector("#plot-scatter")!.TextContent, StringComparison.Ordinal);
+        Assert.NotNull(page.QuerySelector("#plot-scatter .plot-pending"));
+        var plots = await Html.GetAsync(http, page.QuerySelector("#plots")!.GetAttribute("data-plots-source")!);
+        Assert.Contains($"of the {total:N0} points are drawn", plots.QuerySelector("[data-plot-facts='scatter']")!.TextContent, StringComparison.Ordinal);
     }
 }

@@ -146,7 +146,8 @@ public sealed class SweepPlotTests
         Assert.Equal("name", plot.GetProperty("group_by").GetString());
         Assert.Equal(["cand-light", "cand-middle", "cand-heavy"], plot.GetProperty("series").EnumerateArray().Select(s => s.GetProperty("name").GetString()));
 
-        // The page embeds the same plots as the endpoint gives.
+        // The page embeds the same plots as the endpoint gives (drawn now: the parts' page answered before them at first).
+        page = await Html.GetAsync(http, $"/sweeps/{id}");
         using var embedded = JsonDocument.Parse(page.QuerySelector("script#sweep-plots")!.TextContent);
         Assert.Equal(json.RootElement.GetRawText(), embedded.RootElement.GetRawText());
 

@@ -1,6 +1,7 @@
 // Sweep page: draws the two plots of the filtered points (data from the JSON block the server
-// embedded in the page), redraws on a changed plot choice (the view form is sent, so the address
-// keeps the choice), and gathers points to compare: ticked in the table or picked on a plot.
+// embedded in the page, or, when the page answered before its plots were drawn, from the plots'
+// fragment fetched here and put in place), redraws on a changed plot choice (the view form is sent,
+// so the address keeps the choice), and gathers points to compare: ticked in the table or picked on a plot.
 (function () {
     "use strict";
     const form = document.getElementById("view");
@@ -67,10 +68,8 @@
     update();
 
     // ---- the plots ----
-    const block = document.getElementById("sweep-plots");
     const C = window.LatticeCharts;
-    if (!block || !C) { return; }
-    const plots = JSON.parse(block.textContent);
+    if (!C) { return; }
     const pickMode = document.getElementById("pick-mode");
     const unstableColor = "#8e44ad";
 
@@ -131,35 +130,75 @@
         });
     }
 
-    const parameter = plots.parameter;
-    if (parameter) {
-        const total = parameter.series.reduce((n, s) => n + s.points.length, 0);
-        // Many lines (a dense grid) run from blue to orange in the order of their values; few get the palette and a legend.
-        const gradient = (i, n) => "hsl(" + Math.round(215 - 190 * (n === 1 ? 0 : i / (n - 1))) + ", 65%, 45%)";
-        const many = parameter.series.length > 12;
-        const sets = parameter.series.map((s, i) => {
-            const color = many ? gradient(i, parameter.series.length) : C.palette[i % C.palette.length];
-            return Object.assign(C.series(s.name, asData(s.points, parameter.point_url), color, { showLine: s.lines, borderWidth: many ? 1.2 : 1.8 }), marks(s.points, color, total));
-        });
-        drawPlot("chart-parameter", parameter, sets, (legend) => {
-            legend.display = sets.length > 1 && sets.length <= 14;
-            if (parameter.group_label) { legend.title = { display: true, text: parameter.group_label }; }
-        });
-    }
-
-    const scatter = plots.scatter;
-    if (scatter) {
-        const sets = scatter.series.filter((s) => s.points.length > 0).map((s, i) => {
-            const color = s.name.startsWith("unstable") ? unstableColor : "#8a98ad";
-            return Object.assign(C.series(s.name, asData(s.points, scatter.point_url), color, { showLine: false }), marks(s.points, color, scatter.plotted));
-        });
-        if (scatter.front.length > 0) {
-            // The front drawn on top: a line through its points, best x first.
-            sets.unshift(C.series("Pareto front", asData(scatter.front, scatter.point_url), C.palette[1],
-                { showLine: true, borderWidth: 2, pointRadius: 6, pointHoverRadius: 8, pointStyle: "rectRot", order: -1 }));
+    function drawAll(plots) {
+        const parameter = plots.parameter;
+        if (parameter) {
+            const total = parameter.series.reduce((n, s) => n + s.points.length, 0);
+            // Many lines (a dense grid) run from blue to orange in the order of their values; few get the palette and a legend.
+            const gradient = (i, n) => "hsl(" + Math.round(215 - 190 * (n === 1 ? 0 : i / (n - 1))) + ", 65%, 45%)";
+            const many = parameter.series.length > 12;
+            const sets = parameter.series.map((s, i) => {
+                const color = many ? gradient(i, parameter.series.length) : C.palette[i % C.palette.length];
+                return Object.assign(C.series(s.name, asData(s.points, parameter.point_url), color, { showLine: s.lines, borderWidth: many ? 1.2 : 1.8 }), marks(s.points, color, total));
+            });
+            drawPlot("chart-parameter", parameter, sets, (legend) => {
+                legend.display = sets.length > 1 && sets.length <= 14;
+                if (parameter.group_label) { legend.title = { display: true, text: parameter.group_label }; }
+            });
         }
-        drawPlot("chart-scatter", scatter, sets, (legend) => { legend.display = true; });
+
+        const scatter = plots.scatter;
+        if (scatter) {
+            const sets = scatter.series.filter((s) => s.points.length > 0).map((s, i) => {
+                const color = s.name.startsWith("unstable") ? unstableColor : "#8a98ad";
+                return Object.assign(C.series(s.name, asData(s.points, scatter.point_url), color, { showLine: false }), marks(s.points, color, scatter.plotted));
+            });
+            if (scatter.front.length > 0) {
+                // The front drawn on top: a line through its points, best x first.
+                sets.unshift(C.series("Pareto front", asData(scatter.front, scatter.point_url), C.palette[1],
+                    { showLine: true, borderWidth: 2, pointRadius: 6, pointHoverRadius: 8, pointStyle: "rectRot", order: -1 }));
+            }
+            drawPlot("chart-scatter", scatter, sets, (legend) => { legend.display = true; });
+        }
     }
 
-    C.ready();
+    // The plots' facts (counts, notes, the front's rows) and data from the fragment put in place of the page's notes that they are being drawn.
+    function putInPlace(html) {
+        const fragment = document.createElement("template");
+        fragment.innerHTML = html;
+        fragment.content.querySelectorAll("[data-plot-facts]").forEach((facts) => {
+            const pending = document.querySelector("#plots [data-plot-facts='" + facts.dataset.plotFacts + "']");
+            if (!pending) { return; }
+            pending.closest("figure").dataset.plotted = facts.dataset.plotted || "0";
+            pending.replaceWith(facts);
+        });
+        const data = fragment.content.getElementById("sweep-plots");
+        if (data) { document.body.appendChild(data); }
+        return data;
+    }
+
+    const section = document.getElementById("plots");
+    const block = document.getElementById("sweep-plots");
+    if (block) {
+        drawAll(JSON.parse(block.textContent));
+        C.ready();
+    } else if (section && section.dataset.plotsSource) {
+        fetch(section.dataset.plotsSource, { headers: { "X-LatticeSweep-Fragment": "1" }, credentials: "same-origin" })
+            .then((response) => {
+                if (!response.ok) { throw new Error("HTTP " + response.status); }
+                return response.text();
+            })
+            .then((html) => {
+                const data = putInPlace(html);
+                if (!data) { throw new Error("no plots in the answer"); }
+                drawAll(JSON.parse(data.textContent));
+                C.ready();
+            })
+            .catch((e) => {
+                section.querySelectorAll(".plot-pending p").forEach((p) => {
+                    p.prepend("The plots could not be drawn here (" + e.message + "). ");
+                });
+                document.body.dataset.plotsFailed = String(e.message);
+            });
+    }
 })();
