@@ -25,9 +25,16 @@ internal sealed partial class DynamicalMatrix
     private readonly double[] _selfScaled;
     private readonly ScaledPair[]? _pairs;
 
+    // The crystal's order and components per site, read once: the per-matrix loops of a bulk point read
+    // them millions of times, and the model's property (a switch) is not always inlined.
+    private readonly int _size;
+    private readonly int _components;
+
     public DynamicalMatrix(CompiledCrystal crystal)
     {
         _crystal = crystal;
+        _size = crystal.Size;
+        _components = crystal.Components;
         _inverseSqrtMass = [.. crystal.MassesKg.Select(m => 1.0 / Math.Sqrt(m))];
         _couplings = [.. crystal.Couplings];
         var c = crystal.Components;
@@ -65,7 +72,7 @@ internal sealed partial class DynamicalMatrix
 
     private sealed record ScaledPair(int I, int J, Vec3 SeparationM, double[] Tensor, double[] Forward, double[] Backward);
 
-    public int Size => _crystal.Size;
+    public int Size => _size;
 
     public CompiledCrystal Crystal => _crystal;
 
@@ -81,19 +88,28 @@ internal sealed partial class DynamicalMatrix
     /// but where they cancel (D ~ 0 near q = 0, many shells) round-off leaves an asymmetric residue
     /// as large as the result itself, which an eigen-solver rightly refuses.
     /// </summary>
+    /// <remarks>
+    /// Reads and writes the parts in place through one checked reference (the span is checked once for
+    /// n x n): the same arithmetic as with whole Complex values, so the same bits.
+    /// </remarks>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     internal static void MakeHermitian(Span<Complex> d, int n)
     {
+        ArgumentOutOfRangeException.ThrowIfLessThan(d.Length, n * n, nameof(d));
+        ref var parts = ref Unsafe.As<Complex, double>(ref MemoryMarshal.GetReference(d));
         for (var i = 0; i < n; i++)
         {
-            d[(i * n) + i] = ComplexParts.Make(ComplexParts.Re(d[(i * n) + i]), 0);
+            Unsafe.Add(ref parts, (2 * ((i * n) + i)) + 1) = 0.0;
             for (var j = i + 1; j < n; j++)
             {
-                var upper = d[(i * n) + j];
-                var lower = d[(j * n) + i];
-                var mean = ComplexParts.Make(0.5 * (ComplexParts.Re(upper) + ComplexParts.Re(lower)), 0.5 * (ComplexParts.Im(upper) - ComplexParts.Im(lower)));
-                d[(i * n) + j] = mean;
-                d[(j * n) + i] = Complex.Conjugate(mean);
+                ref var upper = ref Unsafe.Add(ref parts, 2 * ((i * n) + j));
+                ref var lower = ref Unsafe.Add(ref parts, 2 * ((j * n) + i));
+                var re = 0.5 * (upper + lower);
+                var im = 0.5 * (Unsafe.Add(ref upper, 1) - Unsafe.Add(ref lower, 1));
+                upper = re;
+                Unsafe.Add(ref upper, 1) = im;
+                lower = re;
+                Unsafe.Add(ref lower, 1) = -im;
             }
         }
     }
@@ -157,8 +173,8 @@ internal sealed partial class DynamicalMatrix
     /// <summary>The mass-scaled self-terms onto the diagonal blocks of d (interleaved re, im).</summary>
     private void AddSelfTerms(Span<double> d)
     {
-        var n = Size;
-        var c = _crystal.Components;
+        var n = _size;
+        var c = _components;
         for (var i = 0; i < _crystal.Sites; i++)
         {
             for (var a = 0; a < c; a++)
@@ -186,8 +202,8 @@ internal sealed partial class DynamicalMatrix
             return;
         }
 
-        var n = Size;
-        var c = _crystal.Components;
+        var n = _size;
+        var c = _components;
         var width = 2 * c;
         var phase = Vector256.Create(cos, sin, cos, sin);
         var phaseLow = phase.GetLower();
@@ -220,8 +236,8 @@ internal sealed partial class DynamicalMatrix
     /// <summary>The plain form of <see cref="AddPair"/> (no SIMD).</summary>
     private void AddPairScalar(Span<double> d, ScaledPair p, double sin, double cos)
     {
-        var n = Size;
-        var c = _crystal.Components;
+        var n = _size;
+        var c = _components;
         var k = p.Tensor;
         for (var a = 0; a < c; a++)
         {
