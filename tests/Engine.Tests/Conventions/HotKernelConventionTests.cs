@@ -30,6 +30,7 @@ public class HotKernelConventionTests
         "Numerics.TridiagonalQlIteration.Diagonalize",
         "Numerics.DenseProduct.Kernel",
         "Spectrum.DynamicalMatrix.AddPair",
+        "Spectrum.DynamicalMatrix.AddPairToEach",
         "Spectrum.DynamicalMatrix.MakeHermitian",
         "Spectrum.DynamicalMatrix.BuildMany",
         "Spectrum.RayDispersion.Fractions",
