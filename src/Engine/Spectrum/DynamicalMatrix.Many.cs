@@ -67,10 +67,12 @@ internal sealed partial class DynamicalMatrix
     }
 
     /// <summary>
-    /// <see cref="AddPair"/> onto each of <paramref name="count"/> matrices (matrix k at flat[k * 2 Size^2],
-    /// its phase cosines[k] + i sines[k]): the spring's offsets and the bounds are worked out once for all of
-    /// them instead of once per matrix, which for a small crystal cost as much as the rows themselves. Every
-    /// element gets the same products in the same order, so the same bits.
+    /// A spring and its reverse onto each of <paramref name="count"/> matrices (matrix k at flat[k * 2 Size^2],
+    /// its phase cosines[k] + i sines[k]). Each row of a block is 2c contiguous doubles (re, im), so the terms
+    /// go on four or two at a time (where 256-bit vectors run natively, <see cref="VectorRows"/>); every
+    /// element gets the same products in the same order as the scalar loop (<see cref="AddPairScalar"/>).
+    /// The spring's offsets and the bounds are worked out once for all the matrices: per matrix, for a
+    /// small crystal, they cost as much as the rows themselves.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private void AddPairToEach(Span<double> flat, int count, ScaledPair p, ReadOnlySpan<double> sines, ReadOnlySpan<double> cosines)

@@ -58,7 +58,7 @@ internal sealed partial class DynamicalMatrix
     /// <param name="Backward">Row a of its transpose, as (K_ba, -K_ba): times (cos, sin) these are the
     /// reverse coupling's (re, im) terms, K_ba cos and -K_ba sin (the same bits as subtracting K_ba sin).</param>
     /// <summary>
-    /// <see cref="AddPair"/> adds rows with vectors (where 256-bit vectors run natively and
+    /// <see cref="AddPairToEach"/> adds rows with vectors (where 256-bit vectors run natively and
     /// <c>LATSWEEP_SIMD_WIDTH</c> is not <c>scalar</c>) or element by element: the same bits either
     /// way. Settable for tests, which compare the two.
     /// </summary>
@@ -189,49 +189,12 @@ internal sealed partial class DynamicalMatrix
     }
 
     /// <summary>
-    /// A spring and its reverse onto d: the tensor times exp(+-i q.d) = cos +- i sin. Each row of a
-    /// block is 2c contiguous doubles (re, im), so the terms go on four or two at a time; every element
-    /// gets the same products in the same order as the scalar loop (<see cref="AddPairScalar"/>).
+    /// A spring and its reverse onto d: the tensor times exp(+-i q.d) = cos +- i sin, as
+    /// <see cref="AddPairToEach"/> does for one matrix (rows four or two at a time where vectors run;
+    /// every element gets the same products in the same order as the scalar loop, <see cref="AddPairScalar"/>).
     /// </summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
-    private void AddPair(Span<double> d, ScaledPair p, double sin, double cos)
-    {
-        if (!VectorRows)
-        {
-            AddPairScalar(d, p, sin, cos);
-            return;
-        }
-
-        var n = _size;
-        var c = _components;
-        var width = 2 * c;
-        var phase = Vector256.Create(cos, sin, cos, sin);
-        var phaseLow = phase.GetLower();
-        ref var dRef = ref MemoryMarshal.GetReference(d);
-        ref var fRef = ref MemoryMarshal.GetArrayDataReference(p.Forward);
-        ref var bRef = ref MemoryMarshal.GetArrayDataReference(p.Backward);
-        var lastNeeded = 2 * ((((Math.Max(p.I, p.J) * c) + c - 1) * n) + (Math.Max(p.I, p.J) * c)) + width;
-        ArgumentOutOfRangeException.ThrowIfLessThan(d.Length, lastNeeded, nameof(d));
-        for (var a = 0; a < c; a++)
-        {
-            ref var forward = ref Unsafe.Add(ref dRef, 2 * ((((p.I * c) + a) * n) + (p.J * c)));
-            ref var backward = ref Unsafe.Add(ref dRef, 2 * ((((p.J * c) + a) * n) + (p.I * c)));
-            ref var kf = ref Unsafe.Add(ref fRef, a * width);
-            ref var kb = ref Unsafe.Add(ref bRef, a * width);
-            var j = 0;
-            for (; j + 4 <= width; j += 4)
-            {
-                (Vector256.LoadUnsafe(ref forward, (nuint)j) + (Vector256.LoadUnsafe(ref kf, (nuint)j) * phase)).StoreUnsafe(ref forward, (nuint)j);
-                (Vector256.LoadUnsafe(ref backward, (nuint)j) + (Vector256.LoadUnsafe(ref kb, (nuint)j) * phase)).StoreUnsafe(ref backward, (nuint)j);
-            }
-
-            if (j < width)
-            {
-                (Vector128.LoadUnsafe(ref forward, (nuint)j) + (Vector128.LoadUnsafe(ref kf, (nuint)j) * phaseLow)).StoreUnsafe(ref forward, (nuint)j);
-                (Vector128.LoadUnsafe(ref backward, (nuint)j) + (Vector128.LoadUnsafe(ref kb, (nuint)j) * phaseLow)).StoreUnsafe(ref backward, (nuint)j);
-            }
-        }
-    }
+    private void AddPair(Span<double> d, ScaledPair p, double sin, double cos) =>
+        AddPairToEach(d, 1, p, new ReadOnlySpan<double>(in sin), new ReadOnlySpan<double>(in cos));
 
     /// <summary>The plain form of <see cref="AddPair"/> (no SIMD).</summary>
     private void AddPairScalar(Span<double> d, ScaledPair p, double sin, double cos)
