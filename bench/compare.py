@@ -66,6 +66,14 @@ def thermal_errors(o, p, tmin, label, limit):
     return f"thermal (T >= {tmin:g} K) worst rel " + check(label, w, limit) + " [" + ", ".join(f"{k} {v:.1e}" for k, v in worst.items()) + "]"
 
 
+def warmup_note(o, p):
+    """Case (b)'s warm-ups on each side, our first solve in a fresh process, and whether our JIT still ran while timed."""
+    if "warmups" not in o:
+        return ""
+    return (f"; warm-ups ours {o['warmups']}, peer {p.get('warmups', 1)}; our first solve {o['first_s']:.3f} s (CPU {o['first_cpu_s']:.3f} s), "
+            f"{o['methods_compiled_while_timed']} methods compiled while timed")
+
+
 def states_below(o_freq, o_total, edges):
     """Integrated DOS of ours at the given frequencies (states per cell)."""
     f = np.array(o_freq)
@@ -84,7 +92,7 @@ if ours and peer:
     cum_err = float(np.abs(po - oo).max() / po[-1])
     rows.append(("(b) bulk 48^3 two-site fcc", f"{o['median_s']:.3f} s", f"{p['median_s']:.3f} s", p["median_s"] / o["median_s"],
                  cpu_ratio(p.get("median_cpu_s"), o.get("median_cpu_s")) + "integrated DOS max diff/3r " + check("bulk integrated DOS", cum_err, 5e-3) + "; "
-                 + thermal_errors(o, p, 50.0, "bulk thermal", 2e-3)))
+                 + thermal_errors(o, p, 50.0, "bulk thermal", 2e-3) + warmup_note(o, p)))
     bulk_per_q = o["median_s"] / o["q_points_solved"]
 else:
     bulk_per_q = None

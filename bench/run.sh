@@ -8,6 +8,7 @@
 # LATSWEEP_SIMD_WIDTH=256|512|scalar forces our kernels' width (DOTNET_EnableAVX512=0 makes the runtime
 # behave as on a processor without AVX-512).
 # Environment: REPEATS (default 5), RESULTS (default bench/results), PEER_REPEATS_FINITE (default 1),
+# BULK_WARMUPS (case (b)'s untimed solves before the timed ones, on both sides; default 40),
 # QUEUE_LATSWEEP (case (e)'s latsweep: r2r, the default, as README's install line; composite, the
 # self-contained composite ReadyToRun publish, README's second install line; build, the plain build output).
 set -euo pipefail
@@ -84,7 +85,7 @@ for c in "${cases[@]}"; do
   fi
   if [ "$c" = bulk-defaults ]; then
     # Ours alone: case (b)'s point with partial DOS and displacements on (the job file's defaults).
-    "$bench" bulk-defaults --cases "$here/cases.json" --out "$results" --repeats "$repeats"
+    "$bench" bulk-defaults --cases "$here/cases.json" --out "$results" --repeats "$repeats" --warmups "${BULK_WARMUPS:-40}"
     continue
   fi
   if [ "$c" = eigen-paths ]; then
@@ -108,13 +109,16 @@ for c in "${cases[@]}"; do
     "$bench" cost --cases "$here/cases.json" --out "$results" --repeats "$repeats"
     continue
   fi
-  "$bench" "$c" --cases "$here/cases.json" --out "$results" --repeats "$repeats"
+  # Case (b): both sides get the same warm-up solves (BULK_WARMUPS, default 40: see Program.cs).
+  warm=()
+  [ "$c" = bulk ] && warm=(--warmups "${BULK_WARMUPS:-40}")
+  "$bench" "$c" --cases "$here/cases.json" --out "$results" --repeats "$repeats" "${warm[@]}"
   peer_repeats="$repeats"
   case "$c" in finite-*) peer_repeats="${PEER_REPEATS_FINITE:-1}" ;; esac
   # One core for the peer, like ours. OPENBLAS_CORETYPE/OPENBLAS_L2_SIZE are set on this machine for
   # old OpenBLAS builds; they would slow a current one, so they are unset for this command alone.
   ( cd "$here/peer" && env -u OPENBLAS_CORETYPE -u OPENBLAS_L2_SIZE OPENBLAS_NUM_THREADS=1 OMP_NUM_THREADS=1 \
-      "$py" run_peer.py "$c" --cases "$here/cases.json" --out "$results" --repeats "$peer_repeats" )
+      "$py" run_peer.py "$c" --cases "$here/cases.json" --out "$results" --repeats "$peer_repeats" "${warm[@]}" )
 done
 
 "$py" "$here/machine_info.py" "$results/machine.json" end

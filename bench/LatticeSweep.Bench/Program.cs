@@ -25,9 +25,12 @@ var cases = CaseFile.Load(Option("--cases", "bench/cases.json"));
 var outDir = Option("--out", "bench/results");
 var repeats = int.Parse(Option("--repeats", "5"), System.Globalization.CultureInfo.InvariantCulture);
 
-// Warm-up solves before the timed ones (cases bulk and bulk-defaults): one by default; ~30 let the
-// runtime's tiered JIT finish its tier-1 code, which otherwise runs on the second core during the timed runs.
-var bulkWarmups = int.Parse(Option("--warmups", "1"), System.Globalization.CultureInfo.InvariantCulture);
+// Warm-up solves before the timed ones (cases bulk and bulk-defaults; bench/run.sh gives the peer the same
+// number). A solve calls much of its code once, and the runtime re-compiles a method at tier 1 only after
+// 30 calls (with dynamic PGO, through an instrumented tier first), so until ~35 solves have run each timed
+// solve still runs some tier-0 code and the JIT compiles on the second core, in the timed process CPU.
+// 40 measures the steady state a sweep's points run in; the first solve's time is reported beside it.
+var bulkWarmups = int.Parse(Option("--warmups", "40"), System.Globalization.CultureInfo.InvariantCulture);
 var checkEvery = int.Parse(Option("--check-temperatures", "1"), System.Globalization.CultureInfo.InvariantCulture);
 Directory.CreateDirectory(outDir);
 
@@ -64,7 +67,7 @@ switch (caseName)
     {
         var (result, time) = SolveCase.Run(cases, "bulk", finite: false, warmups: bulkWarmups, repeats);
         report["result"] = SolveCase.Describe(result, time);
-        Console.Error.WriteLine($"  bulk: {time.MedianSeconds:F3} s median of {time.Samples.Length} (cpu {time.MedianCpuSeconds:F3} s)");
+        Console.Error.WriteLine($"  bulk: {time.MedianSeconds:F3} s median of {time.Samples.Length} (cpu {time.MedianCpuSeconds:F3} s); {SolveCase.WarmupNote(time)}");
         break;
     }
 
@@ -74,7 +77,7 @@ switch (caseName)
         // on (channel weights through the tetrahedra). Ours alone, no peer.
         var (result, time) = SolveCase.Run(cases, "bulk", finite: false, warmups: bulkWarmups, repeats, jobDefaults: true);
         report["result"] = SolveCase.Describe(result, time);
-        Console.Error.WriteLine($"  bulk with partial DOS and displacements: {time.MedianSeconds:F3} s median of {time.Samples.Length} (cpu {time.MedianCpuSeconds:F3} s)");
+        Console.Error.WriteLine($"  bulk with partial DOS and displacements: {time.MedianSeconds:F3} s median of {time.Samples.Length} (cpu {time.MedianCpuSeconds:F3} s); {SolveCase.WarmupNote(time)}");
         break;
     }
 

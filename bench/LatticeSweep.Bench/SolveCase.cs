@@ -43,6 +43,11 @@ internal static class SolveCase
         ["min_s"] = t.MinSeconds,
         ["median_cpu_s"] = t.MedianCpuSeconds,
         ["runs"] = t.Samples.Length,
+        ["warmups"] = t.Warmups,
+        ["first_s"] = t.FirstSeconds,
+        ["first_cpu_s"] = t.FirstCpuSeconds,
+        ["warmup_cpu_s"] = t.WarmupCpuSeconds,
+        ["methods_compiled_while_timed"] = t.MethodsCompiledWhileTimed,
         ["q_points_solved"] = r.Summary.QPointsSolved,
         ["modes"] = r.Summary.ModeCount,
         ["max_frequency_thz"] = r.Summary.MaxFrequencyThz,
@@ -56,6 +61,10 @@ internal static class SolveCase
         ["cv_j_per_mol_k"] = r.Thermal.Select(x => x.HeatCapacityJPerMolK).ToArray(),
         ["zero_point_j_per_mol"] = r.Summary.ZeroPointEnergyJPerMol ?? double.NaN,
     };
+
+    /// <summary>The warm-up's share, printed beside the median: what a process's first solve costs and whether the JIT still ran while timed.</summary>
+    public static string WarmupNote(Timing.Result t) => FormattableString.Invariant(
+        $"{t.Warmups} warm-ups, {t.WarmupCpuSeconds:F2} s CPU; first solve {t.FirstSeconds:F3} s (cpu {t.FirstCpuSeconds:F3} s); {t.MethodsCompiledWhileTimed} methods compiled while timed");
 
     public static ImmutableArray<double> Column(PointResult r, Func<ThermalRow, double> pick) => [.. r.Thermal.Select(pick)];
 }

@@ -6,14 +6,32 @@ namespace LatticeSweep.Bench;
 internal static class Timing
 {
     /// <summary>Medians of wall-clock and of process CPU time (the latter is less disturbed by other work on the machine).</summary>
-    public sealed record Result(double MedianSeconds, double MinSeconds, double[] Samples, double MedianCpuSeconds);
+    /// <param name="Warmups">Untimed runs before the timed ones.</param>
+    /// <param name="FirstSeconds">Wall time of the process's first run (the first warm-up; the first timed run without warm-ups).</param>
+    /// <param name="FirstCpuSeconds">Process CPU time of that first run, the runtime's JIT included.</param>
+    /// <param name="WarmupCpuSeconds">Process CPU time of all warm-ups together.</param>
+    /// <param name="MethodsCompiledWhileTimed">Methods the runtime compiled during the timed runs (JitInfo): non-zero
+    /// means its tiered JIT was still at work on the second core and in the timed process CPU.</param>
+    public sealed record Result(double MedianSeconds, double MinSeconds, double[] Samples, double MedianCpuSeconds,
+        int Warmups = 0, double FirstSeconds = 0, double FirstCpuSeconds = 0, double WarmupCpuSeconds = 0, long MethodsCompiledWhileTimed = 0);
 
     public static Result Measure(Action run, int warmups, int repeats, double minSeconds = 0.0)
     {
+        var first = (Wall: 0.0, Cpu: 0.0);
+        var warmupCpu0 = Environment.CpuUsage.TotalTime;
         for (var i = 0; i < warmups; i++)
         {
+            var cpuStart = Environment.CpuUsage.TotalTime;
+            var wall = Stopwatch.StartNew();
             run();
+            if (i == 0)
+            {
+                first = (wall.Elapsed.TotalSeconds, (Environment.CpuUsage.TotalTime - cpuStart).TotalSeconds);
+            }
         }
+
+        var warmupCpu = (Environment.CpuUsage.TotalTime - warmupCpu0).TotalSeconds;
+        var compiled0 = System.Runtime.JitInfo.GetCompiledMethodCount();
 
         var diagnose = Environment.GetEnvironmentVariable("LATSWEEP_BENCH_DIAG") == "1";
         var samples = new List<double>();
@@ -39,8 +57,14 @@ internal static class Timing
             }
         }
 
+        var compiledWhileTimed = System.Runtime.JitInfo.GetCompiledMethodCount() - compiled0;
+        if (warmups == 0)
+        {
+            first = (samples[0], cpu[0]);
+        }
+
         var sorted = samples.Order().ToArray();
-        return new Result(Median(sorted), sorted[0], [.. samples], Median([.. cpu.Order()]));
+        return new Result(Median(sorted), sorted[0], [.. samples], Median([.. cpu.Order()]), warmups, first.Wall, first.Cpu, warmupCpu, compiledWhileTimed);
     }
 
     /// <summary>The calling thread's CPU time (Linux: /proc/thread-self/stat, user + system ticks at 100 Hz).</summary>

@@ -25,9 +25,16 @@ internal sealed partial class DynamicalMatrix
     private readonly double[] _selfScaled;
     private readonly ScaledPair[]? _pairs;
 
+    // The crystal's order and components per site, read once: the per-matrix loops of a bulk point read
+    // them millions of times, and the model's property (a switch) is not always inlined.
+    private readonly int _size;
+    private readonly int _components;
+
     public DynamicalMatrix(CompiledCrystal crystal)
     {
         _crystal = crystal;
+        _size = crystal.Size;
+        _components = crystal.Components;
         _inverseSqrtMass = [.. crystal.MassesKg.Select(m => 1.0 / Math.Sqrt(m))];
         _couplings = [.. crystal.Couplings];
         var c = crystal.Components;
@@ -51,7 +58,7 @@ internal sealed partial class DynamicalMatrix
     /// <param name="Backward">Row a of its transpose, as (K_ba, -K_ba): times (cos, sin) these are the
     /// reverse coupling's (re, im) terms, K_ba cos and -K_ba sin (the same bits as subtracting K_ba sin).</param>
     /// <summary>
-    /// <see cref="AddPair"/> adds rows with vectors (where 256-bit vectors run natively and
+    /// <see cref="AddPairToEach"/> adds rows with vectors (where 256-bit vectors run natively and
     /// <c>LATSWEEP_SIMD_WIDTH</c> is not <c>scalar</c>) or element by element: the same bits either
     /// way. Settable for tests, which compare the two.
     /// </summary>
@@ -65,7 +72,7 @@ internal sealed partial class DynamicalMatrix
 
     private sealed record ScaledPair(int I, int J, Vec3 SeparationM, double[] Tensor, double[] Forward, double[] Backward);
 
-    public int Size => _crystal.Size;
+    public int Size => _size;
 
     public CompiledCrystal Crystal => _crystal;
 
@@ -81,19 +88,28 @@ internal sealed partial class DynamicalMatrix
     /// but where they cancel (D ~ 0 near q = 0, many shells) round-off leaves an asymmetric residue
     /// as large as the result itself, which an eigen-solver rightly refuses.
     /// </summary>
+    /// <remarks>
+    /// Reads and writes the parts in place through one checked reference (the span is checked once for
+    /// n x n): the same arithmetic as with whole Complex values, so the same bits.
+    /// </remarks>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     internal static void MakeHermitian(Span<Complex> d, int n)
     {
+        ArgumentOutOfRangeException.ThrowIfLessThan(d.Length, n * n, nameof(d));
+        ref var parts = ref Unsafe.As<Complex, double>(ref MemoryMarshal.GetReference(d));
         for (var i = 0; i < n; i++)
         {
-            d[(i * n) + i] = ComplexParts.Make(ComplexParts.Re(d[(i * n) + i]), 0);
+            Unsafe.Add(ref parts, (2 * ((i * n) + i)) + 1) = 0.0;
             for (var j = i + 1; j < n; j++)
             {
-                var upper = d[(i * n) + j];
-                var lower = d[(j * n) + i];
-                var mean = ComplexParts.Make(0.5 * (ComplexParts.Re(upper) + ComplexParts.Re(lower)), 0.5 * (ComplexParts.Im(upper) - ComplexParts.Im(lower)));
-                d[(i * n) + j] = mean;
-                d[(j * n) + i] = Complex.Conjugate(mean);
+                ref var upper = ref Unsafe.Add(ref parts, 2 * ((i * n) + j));
+                ref var lower = ref Unsafe.Add(ref parts, 2 * ((j * n) + i));
+                var re = 0.5 * (upper + lower);
+                var im = 0.5 * (Unsafe.Add(ref upper, 1) - Unsafe.Add(ref lower, 1));
+                upper = re;
+                Unsafe.Add(ref upper, 1) = im;
+                lower = re;
+                Unsafe.Add(ref lower, 1) = -im;
             }
         }
     }
@@ -157,8 +173,8 @@ internal sealed partial class DynamicalMatrix
     /// <summary>The mass-scaled self-terms onto the diagonal blocks of d (interleaved re, im).</summary>
     private void AddSelfTerms(Span<double> d)
     {
-        var n = Size;
-        var c = _crystal.Components;
+        var n = _size;
+        var c = _components;
         for (var i = 0; i < _crystal.Sites; i++)
         {
             for (var a = 0; a < c; a++)
@@ -173,55 +189,18 @@ internal sealed partial class DynamicalMatrix
     }
 
     /// <summary>
-    /// A spring and its reverse onto d: the tensor times exp(+-i q.d) = cos +- i sin. Each row of a
-    /// block is 2c contiguous doubles (re, im), so the terms go on four or two at a time; every element
-    /// gets the same products in the same order as the scalar loop (<see cref="AddPairScalar"/>).
+    /// A spring and its reverse onto d: the tensor times exp(+-i q.d) = cos +- i sin, as
+    /// <see cref="AddPairToEach"/> does for one matrix (rows four or two at a time where vectors run;
+    /// every element gets the same products in the same order as the scalar loop, <see cref="AddPairScalar"/>).
     /// </summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
-    private void AddPair(Span<double> d, ScaledPair p, double sin, double cos)
-    {
-        if (!VectorRows)
-        {
-            AddPairScalar(d, p, sin, cos);
-            return;
-        }
-
-        var n = Size;
-        var c = _crystal.Components;
-        var width = 2 * c;
-        var phase = Vector256.Create(cos, sin, cos, sin);
-        var phaseLow = phase.GetLower();
-        ref var dRef = ref MemoryMarshal.GetReference(d);
-        ref var fRef = ref MemoryMarshal.GetArrayDataReference(p.Forward);
-        ref var bRef = ref MemoryMarshal.GetArrayDataReference(p.Backward);
-        var lastNeeded = 2 * ((((Math.Max(p.I, p.J) * c) + c - 1) * n) + (Math.Max(p.I, p.J) * c)) + width;
-        ArgumentOutOfRangeException.ThrowIfLessThan(d.Length, lastNeeded, nameof(d));
-        for (var a = 0; a < c; a++)
-        {
-            ref var forward = ref Unsafe.Add(ref dRef, 2 * ((((p.I * c) + a) * n) + (p.J * c)));
-            ref var backward = ref Unsafe.Add(ref dRef, 2 * ((((p.J * c) + a) * n) + (p.I * c)));
-            ref var kf = ref Unsafe.Add(ref fRef, a * width);
-            ref var kb = ref Unsafe.Add(ref bRef, a * width);
-            var j = 0;
-            for (; j + 4 <= width; j += 4)
-            {
-                (Vector256.LoadUnsafe(ref forward, (nuint)j) + (Vector256.LoadUnsafe(ref kf, (nuint)j) * phase)).StoreUnsafe(ref forward, (nuint)j);
-                (Vector256.LoadUnsafe(ref backward, (nuint)j) + (Vector256.LoadUnsafe(ref kb, (nuint)j) * phase)).StoreUnsafe(ref backward, (nuint)j);
-            }
-
-            if (j < width)
-            {
-                (Vector128.LoadUnsafe(ref forward, (nuint)j) + (Vector128.LoadUnsafe(ref kf, (nuint)j) * phaseLow)).StoreUnsafe(ref forward, (nuint)j);
-                (Vector128.LoadUnsafe(ref backward, (nuint)j) + (Vector128.LoadUnsafe(ref kb, (nuint)j) * phaseLow)).StoreUnsafe(ref backward, (nuint)j);
-            }
-        }
-    }
+    private void AddPair(Span<double> d, ScaledPair p, double sin, double cos) =>
+        AddPairToEach(d, 1, p, new ReadOnlySpan<double>(in sin), new ReadOnlySpan<double>(in cos));
 
     /// <summary>The plain form of <see cref="AddPair"/> (no SIMD).</summary>
     private void AddPairScalar(Span<double> d, ScaledPair p, double sin, double cos)
     {
-        var n = Size;
-        var c = _crystal.Components;
+        var n = _size;
+        var c = _components;
         var k = p.Tensor;
         for (var a = 0; a < c; a++)
         {

@@ -29,7 +29,7 @@ public class HotKernelConventionTests
         "Numerics.HouseholderTridiagonalization.ReduceHermitian",
         "Numerics.TridiagonalQlIteration.Diagonalize",
         "Numerics.DenseProduct.Kernel",
-        "Spectrum.DynamicalMatrix.AddPair",
+        "Spectrum.DynamicalMatrix.AddPairToEach",
         "Spectrum.DynamicalMatrix.MakeHermitian",
         "Spectrum.DynamicalMatrix.BuildMany",
         "Spectrum.RayDispersion.Fractions",

@@ -88,6 +88,27 @@ public sealed class MeshAxisPermutationsTests
         Assert.Equal(1, MeshAxisPermutations.Find((6, 6, 6), branches, broken, null).Order);
     }
 
+    [Fact]
+    public void A_difference_in_any_branch_of_a_point_breaks_the_symmetry()
+    {
+        // Six branches, as a two-site 3D crystal: the check takes four per vector step where vectors
+        // run and the last two one by one; a difference in any of them (or a NaN) must count.
+        const int branches = 6;
+        var frequencies = Field((6, 6, 6), branches, AllSix, seed: 8);
+        Assert.Equal(6, MeshAxisPermutations.Find((6, 6, 6), branches, frequencies, null).Order);
+        var point = ((1 * 6) + 2) * 6 + 4; // offsets (-2, -1, 1): not on a mirror plane
+        for (var k = 0; k < branches; k++)
+        {
+            var broken = (double[])frequencies.Clone();
+            broken[(point * branches) + k] *= 1 + 1e-9;
+            Assert.Equal(1, MeshAxisPermutations.Find((6, 6, 6), branches, broken, null).Order);
+
+            var notANumber = (double[])frequencies.Clone();
+            notANumber[(point * branches) + k] = double.NaN;
+            Assert.Equal(1, MeshAxisPermutations.Find((6, 6, 6), branches, notANumber, null, largestThz: frequencies.Max()).Order);
+        }
+    }
+
     [Theory]
     [InlineData(6, 6, 6, true, false)]
     [InlineData(6, 6, 6, false, false)]
