@@ -20,6 +20,7 @@ internal static class MemoryRelease
     {
         using var timing = StageTimings.Measure(stage);
         GC.Collect(GC.MaxGeneration, GCCollectionMode.Aggressive, blocking: true, compacting: true);
+        HeapCeiling.Process.Reset();
         TrimNativeHeap();
     }
 
