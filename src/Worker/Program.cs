@@ -11,6 +11,7 @@ internal static class Program
     {
         // Before any Engine type is loaded: a published x86-64 build holds one Engine image per vector width.
         EngineImages.LoadFromPublishedFolders();
+        Queue.MemoryRelease.LimitNativeArenas();
         return Run(args);
     }
 

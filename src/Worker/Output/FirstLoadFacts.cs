@@ -565,7 +565,11 @@ internal static class FirstLoadFacts
     /// (and so a whole run's) peak memory at 10^6 points (bench/README, round 16). A few per sweep,
     /// ~10-50 ms each.
     /// </summary>
-    private static void CollectGarbage() => GC.Collect(GC.MaxGeneration, GCCollectionMode.Aggressive, blocking: true, compacting: true);
+    private static void CollectGarbage()
+    {
+        GC.Collect(GC.MaxGeneration, GCCollectionMode.Aggressive, blocking: true, compacting: true);
+        Queue.HeapCeiling.Process.Reset();
+    }
 
     /// <summary>One column of the whole table: numbers as doubles (NaN where empty: no table holds NaN), or text.</summary>
     private sealed class Cells(double[] number, string?[]? text) : IRuleCells
@@ -815,6 +819,7 @@ internal static class FirstLoadFacts
                     }
 
                     at += n;
+                    Queue.HeapCeiling.Process.Check();
                 }
             }
         }

@@ -315,6 +315,7 @@ internal static partial class StreamingMerge
                 }
 
                 buffers.ClearText(n);
+                Queue.HeapCeiling.Process.Check();
             }
         }
         finally

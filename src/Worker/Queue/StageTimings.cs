@@ -30,7 +30,7 @@ public static class StageTimings
     {
         var process = Process.GetCurrentProcess();
         yield return string.Create(CultureInfo.InvariantCulture,
-            $"timings: process CPU {process.TotalProcessorTime.TotalSeconds:F3} s (user {process.UserProcessorTime.TotalSeconds:F3} s), up {(DateTime.Now - process.StartTime).TotalSeconds:F3} s, GCs {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)} (paused {GC.GetTotalPauseDuration().TotalSeconds:F3} s), {GC.GetTotalAllocatedBytes() / 1048576.0:F0} MiB allocated, peak working set {process.PeakWorkingSet64 / 1048576.0:F0} MiB");
+            $"timings: process CPU {process.TotalProcessorTime.TotalSeconds:F3} s (user {process.UserProcessorTime.TotalSeconds:F3} s), up {(DateTime.Now - process.StartTime).TotalSeconds:F3} s, GCs {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)} ({HeapCeiling.Process.Collections} by the heap ceiling, paused {GC.GetTotalPauseDuration().TotalSeconds:F3} s), {GC.GetTotalAllocatedBytes() / 1048576.0:F0} MiB allocated, peak working set {process.PeakWorkingSet64 / 1048576.0:F0} MiB");
         // What the JIT compiled in this process (tier 0, tier 1 and OSR alike) and its time summed over threads:
         // the part of a run that ReadyToRun code did not cover.
         yield return string.Create(CultureInfo.InvariantCulture,
