@@ -705,6 +705,9 @@ internal sealed class LongWaveRegion
         return ray.RhoOf(k, omega, rhoMax);
     }
 
+    // Hot: its panels (DepositPanel, inlined here) carried ~10 % of a bulk point's samples, and only the runtime's dynamic
+    // PGO inlined them; a few calls per point, so without this it stayed in precompiled or quick code in a run.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
     private void Deposit(FrequencyGrid grid, double[] total, double[] partial, bool above, bool spreadEnds, BinMoments? moments)
     {
         var d = _dimension;
@@ -819,32 +822,12 @@ internal sealed class LongWaveRegion
         }
 
         var h = 0.5 * (a + b);
-        double Below(double x)
-        {
-            if (x <= -h)
-            {
-                return 0;
-            }
-
-            if (x >= h)
-            {
-                return 1;
-            }
-
-            static double Q(double z) => z > 0 ? 0.5 * z * z : 0;
-            static double R(double z) => z > 0 ? z * z * z / 6 : 0;
-            var mean = b < 1e-3 * a
-                ? (Q(x + (0.5 * a)) - Q(x - (0.5 * a))) / a
-                : (R(x + h) - R(x + (0.5 * (a - b))) - R(x - (0.5 * (a - b))) + R(x - h)) / (a * b);
-            return Math.Clamp((x + h - mean) / h, 0.0, 1.0);
-        }
-
         var first = grid.BinOf((endOmega - h) * thzPerRadPerS);
         var last = grid.BinOf((endOmega + h) * thzPerRadPerS);
         var below = 0.0;
         for (var bin = first; bin < last; bin++)
         {
-            var cumulative = states * Below((grid.Edge(bin + 1) / thzPerRadPerS) - endOmega);
+            var cumulative = states * SpreadEndBelow((grid.Edge(bin + 1) / thzPerRadPerS) - endOmega, h, a, b);
             Put(bin, cumulative - below, grid.Bins, total, partial, fractions);
             below = cumulative;
         }
@@ -853,10 +836,41 @@ internal sealed class LongWaveRegion
     }
 
     /// <summary>
+    /// The share of a spread ray end's states below x = E - end: P(X &lt; x) for X the sum of two uniforms of
+    /// widths a &gt;= b, h = (a + b) / 2. A static method, not a local function over a closure: called per bin,
+    /// and without dynamic PGO the closure's call was not inlined (bench/README.md, Round 20 (code that does
+    /// not wait for PGO)).
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static double SpreadEndBelow(double x, double h, double a, double b)
+    {
+        if (x <= -h)
+        {
+            return 0;
+        }
+
+        if (x >= h)
+        {
+            return 1;
+        }
+
+        var mean = b < 1e-3 * a
+            ? (PositiveSquareHalf(x + (0.5 * a)) - PositiveSquareHalf(x - (0.5 * a))) / a
+            : (PositiveCubeSixth(x + h) - PositiveCubeSixth(x + (0.5 * (a - b))) - PositiveCubeSixth(x - (0.5 * (a - b))) + PositiveCubeSixth(x - h)) / (a * b);
+        return Math.Clamp((x + h - mean) / h, 0.0, 1.0);
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static double PositiveSquareHalf(double z) => z > 0 ? 0.5 * z * z : 0;
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static double PositiveCubeSixth(double z) => z > 0 ? z * z * z / 6 : 0;
+
+    /// <summary>
     /// States w (rho_b^d - rho_a^d) of a panel on which omega is linear in rho, bin by bin from the exact
     /// cumulative count w |rho(E)^d - rho_low^d|, rho_low the end with the lower frequency.
     /// </summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)] // hot: full optimisation from the first call (DEVELOPERS.md, "Hot kernels")
+    [MethodImpl(MethodImplOptions.AggressiveInlining)] // into Deposit's panel loop, as dynamic PGO did (bench/README.md, Round 20 (code that does not wait for PGO))
     private static void DepositPanel(FrequencyGrid grid, double[] total, double[] partial, double[]? fractions, double w, int d, double rhoA, double omegaA, double rhoB, double omegaB, BinMoments? moments)
     {
         var states = w * (Power(rhoB, d) - Power(rhoA, d));

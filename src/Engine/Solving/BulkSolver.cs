@@ -1,5 +1,6 @@
 using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Errors;
+using LatticeSweep.Engine.Numerics;
 using LatticeSweep.Engine.QPoints;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Spectrum;
@@ -317,7 +318,7 @@ internal static class BulkSolver
         var sum = 0.0;
         foreach (var f in frequencyThz)
         {
-            sum += Math.Sign(f) * f * f;
+            sum += SignOf.Value(f) * f * f;
         }
 
         var radPerS = 2 * Math.PI * 1e12;

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using LatticeSweep.Engine.Thermal;
 using LatticeSweep.Engine.Units;
 
@@ -169,6 +170,7 @@ internal sealed class ModeSink
         }
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)] // per mode and temperature in AddExact, as dynamic PGO inlined it
     private static double CothHalf(double omega, double temperatureK)
     {
         if (temperatureK <= 0)

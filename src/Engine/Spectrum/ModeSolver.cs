@@ -171,6 +171,7 @@ internal sealed class ModeSolver
     }
 
     /// <summary>Signed frequency in THz of an eigenvalue: -sqrt(|lambda|) marks an unstable mode.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)] // per mode in BulkSolver's per-point callback
     public static double SignedThz(double lambda) =>
-        Math.Sign(lambda) * Math.Sqrt(Math.Abs(lambda)) / (2.0 * Math.PI) / 1e12;
+        SignOf.Value(lambda) * Math.Sqrt(Math.Abs(lambda)) / (2.0 * Math.PI) / 1e12;
 }

@@ -38,6 +38,9 @@ internal sealed class RayDispersion
     public static readonly double[] NodeY = [.. Enumerable.Range(0, NodeCount).Select(j => 0.5 * (1 - Math.Cos(Math.PI * j / (NodeCount - 1))))];
 
     private const int Nodes = NodeCount;
+
+    // Omega and OmegaDerivative write out Horner's steps for six nodes: another count fails the build here.
+    private const byte WrittenOutForSixNodes = (byte)(Nodes == 6 ? 0 : 256);
     private static readonly double[] InverseVandermonde = Invert(NodeY);
 
     private readonly double[] _coefficients;      // [k * 4 + p]: s_k(y) = sum_p c_p y^p (rad/s per unit rho)
@@ -356,22 +359,30 @@ internal sealed class RayDispersion
     public double RhoGuess(int k, double omega) => IsQuadratic(k) ? Math.Sqrt(omega / Slope(k)) : omega / Slope(k);
 
     /// <summary>omega_k at rho End (rad/s).</summary>
+    /// <remarks>
+    /// Horner's steps written out for the six nodes and inlined: called per panel end and per Newton step
+    /// of the long waves, where only the runtime's dynamic PGO inlined the loop (bench/README.md, Round 20
+    /// (code that does not wait for PGO)). The same operations in the same order as the loop, so the same bits.
+    /// </remarks>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double Omega(int k, double rho)
     {
         // The array indexed from an offset, not a span: precompiled code calls AsSpan out of line.
         var c = _coefficients;
         var at = k * Nodes;
         var y = rho * rho;
-        var sum = c[at + Nodes - 1];
-        for (var p = Nodes - 2; p >= 0; p--)
-        {
-            sum = c[at + p] + (y * sum);
-        }
-
+        var sum = c[at + 5];
+        sum = c[at + 4] + (y * sum);
+        sum = c[at + 3] + (y * sum);
+        sum = c[at + 2] + (y * sum);
+        sum = c[at + 1] + (y * sum);
+        sum = c[at] + (y * sum);
         return _quadratic is not null && _quadratic[k] ? y * sum : rho * sum;
     }
 
     /// <summary>d omega_k / d rho at rho (rad/s): sum_p (2p + 1) c_p y^p; rho sum_p (2p + 2) c_p y^p for a q^2 branch.</summary>
+    /// <remarks>Written out and inlined as <see cref="Omega"/> (the factors (2p + 1) and (2p + 2) as the loop's exact doubles).</remarks>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double OmegaDerivative(int k, double rho)
     {
         var c = _coefficients;
@@ -379,21 +390,21 @@ internal sealed class RayDispersion
         var y = rho * rho;
         if (_quadratic is not null && _quadratic[k])
         {
-            var even = 2.0 * Nodes * c[at + Nodes - 1];
-            for (var p = Nodes - 2; p >= 0; p--)
-            {
-                even = ((2 * p) + 2) * c[at + p] + (y * even);
-            }
-
+            var even = 12.0 * c[at + 5];
+            even = (10.0 * c[at + 4]) + (y * even);
+            even = (8.0 * c[at + 3]) + (y * even);
+            even = (6.0 * c[at + 2]) + (y * even);
+            even = (4.0 * c[at + 1]) + (y * even);
+            even = (2.0 * c[at]) + (y * even);
             return rho * even;
         }
 
-        var sum = ((2 * Nodes) - 1) * c[at + Nodes - 1];
-        for (var p = Nodes - 2; p >= 0; p--)
-        {
-            sum = ((2 * p) + 1) * c[at + p] + (y * sum);
-        }
-
+        var sum = 11.0 * c[at + 5];
+        sum = (9.0 * c[at + 4]) + (y * sum);
+        sum = (7.0 * c[at + 3]) + (y * sum);
+        sum = (5.0 * c[at + 2]) + (y * sum);
+        sum = (3.0 * c[at + 1]) + (y * sum);
+        sum = c[at] + (y * sum);
         return sum;
     }
 

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using LatticeSweep.Engine.Numerics;
 using LatticeSweep.Engine.Units;
 
@@ -15,6 +16,7 @@ internal static class ModeThermodynamics
     private const double Kb = PhysicalConstants.BoltzmannJPerK;
 
     /// <summary>Adds one mode (counted <paramref name="weight"/> times) to the sums at one temperature.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)] // into ModeSink's per-temperature loop, as dynamic PGO did (bench/README.md, Round 20)
     public static void Accumulate(double omega, double weight, double temperatureK, ref ThermalSums sums)
     {
         var zeroPoint = 0.5 * Hbar * omega;

@@ -18,7 +18,7 @@ public class HotKernelConventionTests
         "Dos.SimplexDosIntegrator.AccumulateTetrahedra",
         "Dos.SimplexDosIntegrator.SumOverOrbit",
         "Dos.SimplexDosIntegrator.OrbitMeanWeight",
-        "Dos.LongWaveRegion.DepositPanel",
+        "Dos.LongWaveRegion.Deposit",
         "Dos.LongWaveRegion.DepositSpreadEnd",
         "Dos.LongWaveRegion.Root",
         "Dos.LongWaveRegion.AddBelowSplit",
