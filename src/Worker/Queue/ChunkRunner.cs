@@ -193,9 +193,6 @@ public sealed class ChunkRunner
             _chunkRecorded.Set();
         }
 
-        // A chunk's rows, parts and catalog rows are garbage now: the heap's growth past its slack is collected here.
-        HeapCeiling.Process.Check();
-
         foreach (var unstable in outcomes.Where(o => o.State == PointState.Unstable))
         {
             Interlocked.Increment(ref _unstablePoints);

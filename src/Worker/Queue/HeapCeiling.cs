@@ -3,8 +3,8 @@ namespace LatticeSweep.Worker.Queue;
 /// <summary>
 /// Keeps the managed heap within a fixed slack above what was live after the last full collection, by a
 /// blocking full collection (not compacting) once it has grown past that. Checked where a step has just
-/// dropped a piece of work: a merged column written, a row group of the first-load facts read, a chunk
-/// recorded. The merge's and the facts' arrays die at once, but many are large objects, which only a full
+/// dropped a piece of work: a merged column written, a row group of the first-load facts read (not by the
+/// workers: there each check would stop every worker for a full collection over all their rows). The merge's and the facts' arrays die at once, but many are large objects, which only a full
 /// collection frees, so the GC left 70-125 MiB of them beside the live data, and that set a 10^6-point
 /// run's peak (bench/README, round 20). Unlike the runtime's hard heap limit this never fails an
 /// allocation: past the slack it only collects, at most once per <see cref="SlackBytes"/> of growth.
