@@ -138,16 +138,27 @@ internal static class TetrahedronCurvature
     }
 
     /// <summary>Second differences of branch b at mesh point (i1, i2, i3): (xx, yy, zz, xy, xz, yz), periodic mesh.</summary>
+    /// <remarks>
+    /// The neighbours' wrapped coordinates and their row offsets are worked out once (nine wraps, not one per
+    /// value read through a capturing local function, which only the runtime's dynamic PGO inlined); the same
+    /// values are read and combined in the same order, so the same bits.
+    /// </remarks>
     private static void Hessian(double[] f, int branches, int b, int m1, int m2, int m3, int i1, int i2, int i3, Span<double> h)
     {
-        int P(int a1, int a2, int a3) => ((((Wrap(a1, m1) * m2) + Wrap(a2, m2)) * m3) + Wrap(a3, m3)) * branches + b;
-        var centre = 2 * f[P(i1, i2, i3)];
-        h[0] = f[P(i1 + 1, i2, i3)] + f[P(i1 - 1, i2, i3)] - centre;
-        h[1] = f[P(i1, i2 + 1, i3)] + f[P(i1, i2 - 1, i3)] - centre;
-        h[2] = f[P(i1, i2, i3 + 1)] + f[P(i1, i2, i3 - 1)] - centre;
-        h[3] = 0.25 * (f[P(i1 + 1, i2 + 1, i3)] - f[P(i1 + 1, i2 - 1, i3)] - f[P(i1 - 1, i2 + 1, i3)] + f[P(i1 - 1, i2 - 1, i3)]);
-        h[4] = 0.25 * (f[P(i1 + 1, i2, i3 + 1)] - f[P(i1 + 1, i2, i3 - 1)] - f[P(i1 - 1, i2, i3 + 1)] + f[P(i1 - 1, i2, i3 - 1)]);
-        h[5] = 0.25 * (f[P(i1, i2 + 1, i3 + 1)] - f[P(i1, i2 + 1, i3 - 1)] - f[P(i1, i2 - 1, i3 + 1)] + f[P(i1, i2 - 1, i3 - 1)]);
+        // Offsets of the planes i1 - 1, i1, i1 + 1 (in units of m2 rows), of the rows i2 -+ 1 within them and of i3 -+ 1.
+        int x0 = Wrap(i1 - 1, m1) * m2, x1 = i1 * m2, x2 = Wrap(i1 + 1, m1) * m2;
+        int y0 = Wrap(i2 - 1, m2), y1 = i2, y2 = Wrap(i2 + 1, m2);
+        int z0 = Wrap(i3 - 1, m3), z1 = i3, z2 = Wrap(i3 + 1, m3);
+        var centre = 2 * f[At(x1, y1, z1)];
+        h[0] = f[At(x2, y1, z1)] + f[At(x0, y1, z1)] - centre;
+        h[1] = f[At(x1, y2, z1)] + f[At(x1, y0, z1)] - centre;
+        h[2] = f[At(x1, y1, z2)] + f[At(x1, y1, z0)] - centre;
+        h[3] = 0.25 * (f[At(x2, y2, z1)] - f[At(x2, y0, z1)] - f[At(x0, y2, z1)] + f[At(x0, y0, z1)]);
+        h[4] = 0.25 * (f[At(x2, y1, z2)] - f[At(x2, y1, z0)] - f[At(x0, y1, z2)] + f[At(x0, y1, z0)]);
+        h[5] = 0.25 * (f[At(x1, y2, z2)] - f[At(x1, y2, z0)] - f[At(x1, y0, z2)] + f[At(x1, y0, z0)]);
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        int At(int plane, int row, int column) => ((((plane + row) * m3) + column) * branches) + b;
     }
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
