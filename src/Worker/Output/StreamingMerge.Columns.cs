@@ -46,8 +46,8 @@ internal static partial class StreamingMerge
                     continue;
                 }
 
-                // Kept as keys: the strings read are dropped at once (young garbage, not the pass's live data).
-                Ids = MergeIds.Of(await Input.ReadIdsInOrderAsync(Group, ct).ConfigureAwait(false));
+                // Kept as keys, made from the decoded characters: no string per id (ids that are not keys keep their text).
+                Ids = await Input.ReadIdsInOrderAsync(Group, ct).ConfigureAwait(false);
                 return Ids.Length > 0 || await NextGroupAsync(ct).ConfigureAwait(false);
             }
 
