@@ -12,7 +12,7 @@ public static class QueueTimings
     /// <summary>
     /// How often the queue server's two schedulers look for due jobs: a chunk whose run failed and waits for its
     /// retry (the queue's retry delays are 15 s and more) and recurring jobs (latsweep has none). Each look takes
-    /// the store's lock and queries it; at once a second they were ~3.6 ms of CPU per second of a run (half of an
+    /// the store's lock and queries it; at once a second they were ~3.5 ms of CPU per second of a run (half of an
     /// idle worker's; bench/README, round 21). A retry now starts up to 5 s after its delay instead of 1 s.
     /// </summary>
     public static readonly TimeSpan SchedulePolling = TimeSpan.FromSeconds(5);
