@@ -71,6 +71,9 @@ internal static class FirstLoadFacts
 
     private const long BytesPerRowBeside = 64;
 
+    /// <summary>The rows from which the facts collect garbage between their steps (<see cref="CollectGarbage"/>): arrays of a value per row of 512 KiB.</summary>
+    internal const int CollectFromRows = 1 << 16;
+
     /// <summary>Past this many distinct values of one parameter, "which parameter determines which" is left to the dashboard.</summary>
     private const int MaxKeys = 1 << 16;
 
@@ -105,9 +108,10 @@ internal static class FirstLoadFacts
             return false;
         }
 
-        CollectGarbage();
-        var facts = await WorkOutAsync(table, parameters, ct).ConfigureAwait(false);
-        CollectGarbage();
+        var collect = table.Rows >= CollectFromRows;
+        CollectGarbage(collect);
+        var facts = await WorkOutAsync(table, parameters, collect, ct).ConfigureAwait(false);
+        CollectGarbage(collect);
         if (facts is null)
         {
             return false;
@@ -126,7 +130,7 @@ internal static class FirstLoadFacts
         return true;
     }
 
-    private static async Task<byte[]?> WorkOutAsync(Table t, List<ColumnDef> parameterDefs, CancellationToken ct)
+    private static async Task<byte[]?> WorkOutAsync(Table t, List<ColumnDef> parameterDefs, bool collect, CancellationToken ct)
     {
         var parameters = parameterDefs.Select(d => d.Name).ToList();
         string Label(string p) => parameterDefs.First(d => d.Name == p).Description[SweptPrefix.Length..];
@@ -147,7 +151,7 @@ internal static class FirstLoadFacts
 
         var distinct = parameters.ToDictionary(p => p, p => DistinctCount(cells[p], t.Rows), StringComparer.Ordinal);
         step.Dispose();
-        CollectGarbage();
+        CollectGarbage(collect);
         step = Queue.StageTimings.MeasureAlone("merge: facts, plots");
         var numbers = t.Columns.Where(c => c.Numeric && t.Count(c.Name) > 0 && c.Name != PlanColumn).Select(c => c.Name).ToList();
         var facts = new MergedFacts(t, parameters, key, numbers, distinct);
@@ -166,7 +170,7 @@ internal static class FirstLoadFacts
                 by is null ? null : await Read(by).ConfigureAwait(false), flags, t.Rows);
         }
 
-        CollectGarbage();
+        CollectGarbage(collect);
         ScatterSample? scatter = null;
         if (sx is not null && sy is not null)
         {
@@ -175,7 +179,7 @@ internal static class FirstLoadFacts
 
         cells.Clear();
         step.Dispose();
-        CollectGarbage();
+        CollectGarbage(collect);
         step = Queue.StageTimings.MeasureAlone("merge: facts, plan order and ids");
         var planFirst = t.Has(PlanColumn) ? await PlanFirstAsync(t, ct).ConfigureAwait(false) : null;
         var wanted = new SortedSet<int>();
@@ -193,7 +197,7 @@ internal static class FirstLoadFacts
 
         // The ids were read for every row (a string each, ~56 MB at 10^6 rows, some promoted while the row
         // groups were decoded): gone before the page's columns are read (its peak, 310 MB in a 10^6-point run: bench/README, round 19).
-        CollectGarbage();
+        CollectGarbage(collect);
         step = Queue.StageTimings.MeasureAlone("merge: facts, first page");
         var pageRows = planFirst is null ? null : planFirst.Take(PageRowsKept).ToArray();
         var page = pageRows is null ? null : await PageCellsAsync(t, pageRows, PageColumns(t, parameters), ct).ConfigureAwait(false);
@@ -563,10 +567,17 @@ internal static class FirstLoadFacts
     /// value per row and leave as many behind at each step (the rules' sorted pairs, the row lists):
     /// large objects the GC would otherwise keep until its own full collection, which set the merge's
     /// (and so a whole run's) peak memory at 10^6 points (bench/README, round 16). A few per sweep,
-    /// ~10-50 ms each.
+    /// ~10-50 ms each. Only from <see cref="CollectFromRows"/> rows: below, those arrays are small, and in a
+    /// 300-point run the five collections (and the pages faulted in again after each) were most of the facts' cost
+    /// (bench/README, round 21).
     /// </summary>
-    private static void CollectGarbage()
+    private static void CollectGarbage(bool collect)
     {
+        if (!collect)
+        {
+            return;
+        }
+
         GC.Collect(GC.MaxGeneration, GCCollectionMode.Aggressive, blocking: true, compacting: true);
         Queue.HeapCeiling.Process.Reset();
     }

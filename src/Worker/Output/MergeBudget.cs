@@ -20,6 +20,13 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     /// </summary>
     public static readonly MergeBudget Default = new(128L << 20, 16L << 20);
 
+    /// <summary>
+    /// Whether the merge checks <see cref="Queue.HeapCeiling"/> after each column written (a full collection once the
+    /// heap has grown 16 MiB): what keeps a large table's merge flat (bench/README, round 20). <see cref="TableMerger"/>
+    /// turns it off for a table whose inputs are small, where those collections only cost time (round 21).
+    /// </summary>
+    public bool WatchHeap { get; init; } = true;
+
     /// <summary>Bytes a row takes decoded: a nullable number 16 (8 for int, 2 for bool), a text ~64 (reference, header, a short id or label).</summary>
     public static long BytesPerRow(IReadOnlyList<ColumnDef> columns)
     {

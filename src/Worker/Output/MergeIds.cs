@@ -17,6 +17,10 @@ internal sealed class MergeIds
     private readonly bool[]? _textual;
     private readonly string?[]? _texts;
 
+    // The text of the key last written by ScatterTextInto.
+    private ulong _lastKey;
+    private string? _lastText;
+
     private MergeIds(ulong[] keys, bool[]? textual, string?[]? texts)
     {
         _keys = keys;
@@ -47,6 +51,28 @@ internal sealed class MergeIds
         return new MergeIds(keys, textual, texts);
     }
 
+    /// <summary>Keeps the ids of a decoded text column, without a string per id (only ids that are not keys become strings).</summary>
+    public static MergeIds Of(TextCells cells)
+    {
+        ArgumentNullException.ThrowIfNull(cells);
+        var keys = new ulong[cells.Rows];
+        bool[]? textual = null;
+        string?[]? texts = null;
+        string? last = null;
+        for (var i = 0; i < keys.Length; i++)
+        {
+            if (cells.IsNull(i) || !TryKey(cells.Chars(i), out keys[i]))
+            {
+                textual ??= new bool[keys.Length];
+                texts ??= new string?[keys.Length];
+                textual[i] = true;
+                texts[i] = cells.Text(i, ref last);
+            }
+        }
+
+        return new MergeIds(keys, textual, texts);
+    }
+
     /// <summary>The id at <paramref name="row"/> for ordering.</summary>
     public MergeId this[int row] => _textual is { } t && t[row]
         ? new MergeId(0, _texts![row], Keyed: false)
@@ -63,7 +89,22 @@ internal sealed class MergeIds
         ArgumentNullException.ThrowIfNull(from);
         for (var k = start; k < end; k++)
         {
-            destination[to[k]] = TextAt(from[k]);
+            // A point's rows follow each other (hundreds in the long tables): its id text is made once per run.
+            var row = from[k];
+            if (_textual is { } t && t[row])
+            {
+                destination[to[k]] = _texts![row];
+            }
+            else
+            {
+                if (_lastText is null || _keys[row] != _lastKey)
+                {
+                    _lastKey = _keys[row];
+                    _lastText = KeyText(_lastKey);
+                }
+
+                destination[to[k]] = _lastText;
+            }
         }
     }
 
@@ -73,7 +114,13 @@ internal sealed class MergeIds
     private static bool TryKey(string? id, out ulong key)
     {
         key = 0;
-        if (id is null || id.Length != 16)
+        return id is not null && TryKey(id.AsSpan(), out key);
+    }
+
+    private static bool TryKey(ReadOnlySpan<char> id, out ulong key)
+    {
+        key = 0;
+        if (id.Length != 16)
         {
             return false;
         }
@@ -100,5 +147,9 @@ internal readonly record struct MergeId(ulong Key, string? Text, bool Keyed)
     public static int Compare(MergeId a, MergeId b) =>
         a.Keyed && b.Keyed ? a.Key.CompareTo(b.Key) : string.CompareOrdinal(a.AsText(), b.AsText());
 
-    private string? AsText() => Keyed ? MergeIds.KeyText(Key) : Text;
+    /// <summary>Whether this is a missing (null) id.</summary>
+    public bool IsMissing => !Keyed && Text is null;
+
+    /// <summary>The id as text (a new string for a key).</summary>
+    public string? AsText() => Keyed ? MergeIds.KeyText(Key) : Text;
 }

@@ -82,7 +82,12 @@ internal static class ParquetTableFile
         switch (type, destination)
         {
             case (ColumnType.Text, string?[] text):
-                await group.ReadAsync(field, text.AsMemory(0, count), cancellationToken: ct).ConfigureAwait(false);
+                // Not ReadAsync(Memory<string?>), which makes a string of every cell: a run of equal cells shares one.
+                using (var cells = await TextCells.ReadAsync(group, field, ct).ConfigureAwait(false))
+                {
+                    cells.CopyInto(text);
+                }
+
                 break;
             case (ColumnType.Double, double?[] d):
                 await group.ReadAsync<double>(field, d.AsMemory(0, count), cancellationToken: ct).ConfigureAwait(false);

@@ -46,8 +46,8 @@ internal static partial class StreamingMerge
                     continue;
                 }
 
-                // Kept as keys: the strings read are dropped at once (young garbage, not the pass's live data).
-                Ids = MergeIds.Of(await Input.ReadIdsInOrderAsync(Group, ct).ConfigureAwait(false));
+                // Kept as keys, made from the decoded characters: no string per id (ids that are not keys keep their text).
+                Ids = await Input.ReadIdsInOrderAsync(Group, ct).ConfigureAwait(false);
                 return Ids.Length > 0 || await NextGroupAsync(ct).ConfigureAwait(false);
             }
 
@@ -56,9 +56,13 @@ internal static partial class StreamingMerge
     }
 
     private static async Task<Written> MergeByColumnsAsync(List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string output, string table,
-        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, CancellationToken ct)
+        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, bool watchHeap, CancellationToken ct)
     {
         var idColumn = inputs[0].IdColumn;
+
+        // No longer than the rows there are: the same groups, but a small table's merge no longer allocated
+        // 131,072-row buffers of every type (~8 MiB, zeroed) for a few hundred rows (bench/README, round 21).
+        groupRows = (int)Math.Max(1, Math.Min(groupRows, inputs.Sum(i => i.GroupRows.Sum())));
         var cursors = inputs.Select(i => new IdCursor(i)).ToList();
         var order = Comparer<(MergeId Id, int Input)>.Create((a, b) =>
             MergeId.Compare(a.Id, b.Id) is var c && c != 0 ? c : a.Input.CompareTo(b.Input));
@@ -130,7 +134,7 @@ internal static partial class StreamingMerge
                     break;
                 }
 
-                await WriteGroupByColumnsAsync(writer, inputs, columns, table, sources, new GroupPlan(chosenSource, chosenRow, n, idColumn), buffers, index, summary, ct).ConfigureAwait(false);
+                await WriteGroupByColumnsAsync(writer, inputs, columns, table, sources, new GroupPlan(chosenSource, chosenRow, n, idColumn), buffers, index, summary, watchHeap, ct).ConfigureAwait(false);
                 wroteGroup = true;
                 total += n;
                 if (queue.Count == 0)
@@ -251,7 +255,7 @@ internal static partial class StreamingMerge
     /// across the reads of ~100-200 sources were promoted and died old, and set the merge's peak (bench/README, round 17).
     /// </summary>
     private static async Task WriteGroupByColumnsAsync(ParquetTableWriter writer, List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string table,
-        List<GroupSource> sources, GroupPlan plan, ColumnBuffers buffers, StringBuilder index, ColumnSummary? summary, CancellationToken ct)
+        List<GroupSource> sources, GroupPlan plan, ColumnBuffers buffers, StringBuilder index, ColumnSummary? summary, bool watchHeap, CancellationToken ct)
     {
         var n = plan.Rows;
         using var group = writer.BeginRowGroup(table, n);
@@ -315,7 +319,10 @@ internal static partial class StreamingMerge
                 }
 
                 buffers.ClearText(n);
-                Queue.HeapCeiling.Process.Check();
+                if (watchHeap)
+                {
+                    Queue.HeapCeiling.Process.Check();
+                }
             }
         }
         finally

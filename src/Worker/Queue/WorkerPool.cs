@@ -25,7 +25,7 @@ public sealed class WorkerPool : IDisposable
                 Activator = new ChunkJobActivator(runner),
                 ServerName = ChunkRunner.DefaultWorkerName,
                 ShutdownTimeout = QueueTimings.ShutdownTimeout,
-                SchedulePollingInterval = TimeSpan.FromSeconds(1),
+                SchedulePollingInterval = QueueTimings.SchedulePolling,
                 HeartbeatInterval = QueueTimings.ServerHeartbeat,
                 ServerTimeout = QueueTimings.ServerGoneAfter,
                 ServerCheckInterval = QueueTimings.ServerGoneAfter / 2,
