@@ -260,6 +260,8 @@ internal static class SweepCommands
         }
 
         runner.TakeFinishedSweeps();
+        // The workers have stopped: the plan's point keys (8 MB at 10^6 points) need not sit under the merge's peak.
+        plans.Release(sweepId);
         if (final.Counts.Unfinished == 0)
         {
             ResultMerge.TryRun(final, session.Log, context.Stop);
