@@ -48,14 +48,18 @@ internal sealed class SortedInput : IAsyncDisposable
     /// <summary>The largest number of rows this input holds decoded at once.</summary>
     public long RowsHeld => _streamed ? GroupRows.DefaultIfEmpty(0).Max() : GroupRows.Sum();
 
-    public static async Task<SortedInput> OpenAsync(string file, CancellationToken ct)
+    /// <summary>
+    /// Opens <paramref name="file"/>. With <paramref name="shared"/> (one per merge pass), the parts of its parsed footer that
+    /// every input of the pass has alike (its columns, each column chunk's path and encodings) are kept once for all of them.
+    /// </summary>
+    public static async Task<SortedInput> OpenAsync(string file, CancellationToken ct, SharedFooterParts? shared = null)
     {
         using var timing = Queue.StageTimings.Measure("merge: open input");
         var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 12);
         try
         {
             var reader = await ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
-            var columns = ParquetTableFile.ColumnsOf(reader, file);
+            var columns = shared is null ? ParquetTableFile.ColumnsOf(reader, file) : shared.Columns(ParquetTableFile.ColumnsOf(reader, file));
             var groupRows = new List<long>();
             for (var g = 0; g < reader.RowGroupCount; g++)
             {
@@ -67,6 +71,7 @@ internal sealed class SortedInput : IAsyncDisposable
             var streamed = columns.Any(c => c.Name == MergedLayout.PointIdColumn && c.Type == ColumnType.Text)
                 && metadata.TryGetValue(MergedLayout.RowGroupsKey, out var index) && RowGroupIndex.DescribesSortedFile(index, groupRows);
             DropStatistics(reader);
+            shared?.ShareChunkLists(reader);
             return new SortedInput(file, stream, reader, columns, groupRows, streamed);
         }
         catch
