@@ -132,11 +132,7 @@ internal static class FirstLoadFacts
         string Label(string p) => parameterDefs.First(d => d.Name == p).Description[SweptPrefix.Length..];
         var ordered = PlotDefaults.KeyOrder(parameters, Label);
         var step = Queue.StageTimings.MeasureAlone("merge: facts, key parameters");
-        var cells = new Dictionary<string, Cells>(StringComparer.Ordinal);
-        foreach (var p in parameters)
-        {
-            cells[p] = await t.ReadAsync(p, ct).ConfigureAwait(false);
-        }
+        var cells = await ReadEachAsync(t, parameters, ct).ConfigureAwait(false);
 
         // The dashboard's rules (PlotDefaults) over this table's facts.
         if (PlotDefaults.KeyParameters(ordered, (q, p) => Determines(cells[q], cells[p], t.Rows)) is not { } key)
@@ -162,8 +158,8 @@ internal static class FirstLoadFacts
         var flags = await Flags.ReadAsync(t, ct).ConfigureAwait(false);
         async Task<Cells> Read(string c) => cells.TryGetValue(c, out var known) ? known : cells[c] = await t.ReadAsync(c, ct).ConfigureAwait(false);
 
-        // Each plot reads its columns in a method of its own: awaited as arguments here, they were kept by this
-        // method's state machine to its end (its spilled arguments), through the ids and the first page.
+        // Each plot reads its columns in a method of its own: awaited here, they stayed on this method's frame to its
+        // end (the merge's reads complete at once on its own thread), through the ids and the first page.
         ParameterSample? parameterPlot = null;
         // A text x (categories in plan order) or a text grouping (series in plan order) is left to the dashboard.
         if (px is not null && py is not null && IsNumeric(px) && (by is null || IsNumeric(by)))
@@ -446,6 +442,22 @@ internal static class FirstLoadFacts
         }
     }
 
+    /// <summary>The columns, each read whole, in a method of its own (see <see cref="ParameterPlotAsync"/>).</summary>
+    private static async Task<Dictionary<string, Cells>> ReadEachAsync(Table t, List<string> columns, CancellationToken ct)
+    {
+        var cells = new Dictionary<string, Cells>(StringComparer.Ordinal);
+        foreach (var c in columns)
+        {
+            cells[c] = await t.ReadAsync(c, ct).ConfigureAwait(false);
+        }
+
+        return cells;
+    }
+
+    /// <summary>
+    /// The parameter plot's columns read and drawn in a method of its own: the merge runs its reads on its own thread, where
+    /// they complete at once, and a column awaited in <see cref="WorkOutAsync"/> itself stayed on its frame to its end.
+    /// </summary>
     private static async Task<ParameterSample> ParameterPlotAsync(Func<string, Task<Cells>> read, string x, string y, string? by, Flags flags, int rows)
     {
         var xs = await read(x).ConfigureAwait(false);
