@@ -39,6 +39,7 @@ internal sealed class SortedInput : IAsyncDisposable
     /// <summary>Rows of each row group, from the footer.</summary>
     public IReadOnlyList<long> GroupRows { get; }
 
+    /// <summary>The footer's key-value metadata (empty for an input opened for a merge pass: <see cref="OpenAsync"/>).</summary>
     public IReadOnlyDictionary<string, string> Metadata => _reader.CustomMetadata ?? new Dictionary<string, string>();
 
     /// <summary>The row group being consumed (null before the first and after the last).</summary>
@@ -50,14 +51,19 @@ internal sealed class SortedInput : IAsyncDisposable
     /// <summary>The largest number of rows this input holds decoded at once.</summary>
     public long RowsHeld => _streamed ? GroupRows.DefaultIfEmpty(0).Max() : GroupRows.Sum();
 
-    public static async Task<SortedInput> OpenAsync(string file, CancellationToken ct)
+    /// <summary>
+    /// Opens <paramref name="file"/>. With <paramref name="shared"/> (one per merge pass), the parts of its parsed footer that
+    /// every input of the pass has alike (its columns, each column chunk's path and encodings) are kept once for all of them,
+    /// and its key-value metadata is read at open and then forgotten (<see cref="Metadata"/> is then empty).
+    /// </summary>
+    public static async Task<SortedInput> OpenAsync(string file, CancellationToken ct, SharedFooterParts? shared = null)
     {
         using var timing = Queue.StageTimings.Measure("merge: open input");
         var stream = new FileStream(file, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 12);
         try
         {
             var reader = await ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
-            var columns = ParquetTableFile.ColumnsOf(reader, file);
+            var columns = shared is null ? ParquetTableFile.ColumnsOf(reader, file) : shared.Columns(ParquetTableFile.ColumnsOf(reader, file));
             var groupRows = new List<long>();
             for (var g = 0; g < reader.RowGroupCount; g++)
             {
@@ -69,6 +75,12 @@ internal sealed class SortedInput : IAsyncDisposable
             var streamed = columns.Any(c => c.Name == MergedLayout.PointIdColumn && c.Type == ColumnType.Text)
                 && metadata.TryGetValue(MergedLayout.RowGroupsKey, out var index) && RowGroupIndex.DescribesSortedFile(index, groupRows);
             DropStatistics(reader);
+            if (shared is not null)
+            {
+                shared.ShareChunkLists(reader);
+                DropKeyValues(reader);
+            }
+
             return new SortedInput(file, stream, reader, columns, groupRows, streamed);
         }
         catch
@@ -95,6 +107,20 @@ internal sealed class SortedInput : IAsyncDisposable
                     meta.Statistics = null;
                 }
             }
+        }
+    }
+
+    /// <summary>
+    /// Forgets the footer's key-value metadata once its row-group index and units are read: a pass reads values only, and
+    /// a part's metadata (its column summary and first rows for the dashboard, ~100 KB) was ~11 MiB of what the ~100 open
+    /// inputs of a 10^6-point run's points/ pass held (bench/README, round 21). Parquet.Net reads its custom metadata from
+    /// this list each time it is asked, so nothing else keeps it.
+    /// </summary>
+    private static void DropKeyValues(ParquetReader reader)
+    {
+        if (reader.Metadata is { } meta)
+        {
+            meta.KeyValueMetadata = null;
         }
     }
 

@@ -121,11 +121,12 @@ internal static partial class StreamingMerge
         IReadOnlyDictionary<string, string> metadata, MergeBudget budget, bool final, ColumnSummary? summary, CancellationToken ct)
     {
         var inputs = new List<SortedInput>();
+        var shared = new SharedFooterParts();
         try
         {
             foreach (var file in files)
             {
-                inputs.Add(await SortedInput.OpenAsync(file, ct).ConfigureAwait(false));
+                inputs.Add(await SortedInput.OpenAsync(file, ct, shared).ConfigureAwait(false));
             }
 
             var columns = inputs.Count > 0 ? inputs[0].Columns : throw new InvalidOperationException($"table {table}: nothing to merge");

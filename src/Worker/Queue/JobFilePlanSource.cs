@@ -17,6 +17,8 @@ public sealed class JobFilePlanSource : IPlanSource
 
     public void Add(string sweepId, SweepPlan plan) => _plans[sweepId] = plan;
 
+    public void Release(string sweepId) => _plans.TryRemove(sweepId, out _);
+
     public SweepPlan Get(SweepRecord sweep)
     {
         ArgumentNullException.ThrowIfNull(sweep);

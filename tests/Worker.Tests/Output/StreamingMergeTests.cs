@@ -355,6 +355,44 @@ public sealed class StreamingMergeTests : IDisposable
         Assert.Contains("failed", whole.ToJson(), StringComparison.Ordinal);
     }
 
+    [Fact]
+    public async Task Inputs_opened_for_one_pass_share_their_columns_and_chunk_lists_and_still_read_their_own_values()
+    {
+        var table = NewTable();
+        var first = Path.Combine(table, "part-c0.parquet");
+        var second = Path.Combine(table, "part-c1.parquet");
+        await WriteAsync(first, "c0", [("a0", 0), ("a1", 1), ("a2", 2)], laidOut: true);
+        await WriteAsync(second, "c1", [("b0", 10), ("b1", 11)], laidOut: true);
+
+        var shared = new SharedFooterParts();
+        await using var a = await SortedInput.OpenAsync(first, CancellationToken.None, shared);
+        await using var b = await SortedInput.OpenAsync(second, CancellationToken.None, shared);
+        await using var alone = await SortedInput.OpenAsync(second, CancellationToken.None);
+
+        // One list of columns for the pass; an input opened without the pass's parts keeps its own, equal one.
+        Assert.Same(a.Columns, b.Columns);
+        Assert.NotSame(a.Columns, alone.Columns);
+        Assert.Equal(Columns, b.Columns);
+
+        // Each input still reads its own rows through the shared lists.
+        Assert.Equal(new string?[] { "a0", "a1", "a2" }, await a.ReadIdsInOrderAsync(0, CancellationToken.None));
+        Assert.Equal(new string?[] { "b0", "b1" }, await b.ReadIdsInOrderAsync(0, CancellationToken.None));
+        using var group = b.OpenGroup(0);
+        Assert.Equal(new double?[] { 10.5, 11.5 }, (double?[])await b.ReadColumnAsync(group, 2, CancellationToken.None));
+    }
+
+    [Fact]
+    public void Columns_alike_are_kept_once_for_the_pass_and_unlike_ones_stay_apart()
+    {
+        var shared = new SharedFooterParts();
+        var x = new List<ColumnDef> { new("point_id", ColumnType.Text, "", "") };
+        var y = new List<ColumnDef> { new("point_id", ColumnType.Text, "", "") };
+        var z = new List<ColumnDef> { new("other", ColumnType.Text, "", "") };
+        Assert.Same(x, shared.Columns(x));
+        Assert.Same(x, shared.Columns(y));
+        Assert.Same(z, shared.Columns(z));
+    }
+
     private static async Task WriteAsync(string path, string chunk, List<(string Id, int K)> rows, bool laidOut, string? index = null)
     {
         var values = new Array[]

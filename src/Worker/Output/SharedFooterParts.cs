@@ -1,0 +1,77 @@
+using Parquet;
+using Parquet.Meta;
+
+namespace LatticeSweep.Worker.Output;
+
+/// <summary>
+/// What the inputs of one merge pass have alike in their parsed footers, kept once for all of them: the columns
+/// (<see cref="ColumnDef"/>s with their names and units) and each column chunk's path and list of encodings, which
+/// Parquet.Net parses anew for every file and every chunk. A pass holds up to ~110 inputs open at once (a 10^6-point
+/// run's final pass of points/, 166 columns each), and these copies were about a quarter of an open input's parsed
+/// footer (~5 MiB of the pass's ~47 MiB at 110 inputs, by heap dumps: bench/README, round 21). The lists are only
+/// read once a file is open, so inputs can share equal ones.
+/// </summary>
+internal sealed class SharedFooterParts
+{
+    /// <summary>Distinct lists kept at most (a pass's inputs have one table's columns; more means something else is going on).</summary>
+    private const int MostLists = 4096;
+
+    private readonly Dictionary<string, List<string>> _paths = new(StringComparer.Ordinal);
+
+    private readonly Dictionary<string, List<Encoding>> _encodings = new(StringComparer.Ordinal);
+
+    private IReadOnlyList<ColumnDef>? _columns;
+
+    /// <summary>The columns kept for the pass when <paramref name="columns"/> equal them, else <paramref name="columns"/> (kept when none are yet).</summary>
+    public IReadOnlyList<ColumnDef> Columns(IReadOnlyList<ColumnDef> columns)
+    {
+        ArgumentNullException.ThrowIfNull(columns);
+        if (_columns is null)
+        {
+            _columns = columns;
+            return columns;
+        }
+
+        return _columns.SequenceEqual(columns) ? _columns : columns;
+    }
+
+    /// <summary>Points every column chunk of <paramref name="reader"/>'s footer at the pass's copy of its path and encodings.</summary>
+    public void ShareChunkLists(ParquetReader reader)
+    {
+        ArgumentNullException.ThrowIfNull(reader);
+        foreach (var group in reader.Metadata?.RowGroups ?? [])
+        {
+            foreach (var chunk in group.Columns)
+            {
+                if (chunk.MetaData is not { } meta)
+                {
+                    continue;
+                }
+
+                meta.PathInSchema = Shared(_paths, meta.PathInSchema, p => string.Join('\u0001', p));
+                meta.Encodings = Shared(_encodings, meta.Encodings, e => string.Join(',', e.Select(x => (int)x)));
+            }
+        }
+    }
+
+    private static List<T> Shared<T>(Dictionary<string, List<T>> kept, List<T> list, Func<List<T>, string> keyOf)
+    {
+        if (list is null)
+        {
+            return list!;
+        }
+
+        var key = keyOf(list);
+        if (kept.TryGetValue(key, out var same))
+        {
+            return same;
+        }
+
+        if (kept.Count < MostLists)
+        {
+            kept[key] = list;
+        }
+
+        return list;
+    }
+}
