@@ -375,11 +375,13 @@ public sealed class StreamingMergeTests : IDisposable
         Assert.Equal(Columns, b.Columns);
 
         // Each input still reads its own rows through the shared lists.
-        Assert.Equal(new string?[] { "a0", "a1", "a2" }, await a.ReadIdsInOrderAsync(0, CancellationToken.None));
-        Assert.Equal(new string?[] { "b0", "b1" }, await b.ReadIdsInOrderAsync(0, CancellationToken.None));
+        Assert.Equal(new string?[] { "a0", "a1", "a2" }, Texts(await a.ReadIdsInOrderAsync(0, CancellationToken.None)));
+        Assert.Equal(new string?[] { "b0", "b1" }, Texts(await b.ReadIdsInOrderAsync(0, CancellationToken.None)));
         using var group = b.OpenGroup(0);
         Assert.Equal(new double?[] { 10.5, 11.5 }, (double?[])await b.ReadColumnAsync(group, 2, CancellationToken.None));
     }
+
+    private static string?[] Texts(MergeIds ids) => Enumerable.Range(0, ids.Length).Select(ids.TextAt).ToArray();
 
     [Fact]
     public void Columns_alike_are_kept_once_for_the_pass_and_unlike_ones_stay_apart()
