@@ -61,4 +61,15 @@ awk '
     line = $0; sub(/.*Skipped: +/, "", line); split(line, c, /[^0-9]+/); s += c[1]
   }
   END { printf "Tests: %d passed, %d failed, %d skipped\n", p, f, s }' "$LOG"
+
+# A test project that did not build reports no totals at all, so the line above alone could read as green.
+expected=$(ls tests/*/*.csproj | wc -l)
+reported=$(grep -cE '(Passed|Failed)! +- +Failed: +[0-9]+' "$LOG" || true)
+if [ "$reported" -lt "$expected" ]; then
+  echo "Test projects: only $reported of $expected reported results; the others did not build or run (see the errors above)"
+  [ "$status" -ne 0 ] || status=1
+fi
+if [ "$status" -ne 0 ]; then
+  echo "FAILED: the test run ended with status $status"
+fi
 exit "$status"
