@@ -108,10 +108,9 @@ internal static class FirstLoadFacts
             return false;
         }
 
-        var collect = table.Rows >= CollectFromRows;
-        CollectGarbage(collect);
+        CollectGarbage(table.Rows);
         var facts = await WorkOutAsync(table, parameters, ct).ConfigureAwait(false);
-        CollectGarbage(collect);
+        CollectGarbage(table.Rows);
         if (facts is null)
         {
             return false;
@@ -132,7 +131,6 @@ internal static class FirstLoadFacts
 
     private static async Task<byte[]?> WorkOutAsync(Table t, List<ColumnDef> parameterDefs, CancellationToken ct)
     {
-        var collect = t.Rows >= CollectFromRows;
         var parameters = parameterDefs.Select(d => d.Name).ToList();
         string Label(string p) => parameterDefs.First(d => d.Name == p).Description[SweptPrefix.Length..];
         var ordered = PlotDefaults.KeyOrder(parameters, Label);
@@ -158,7 +156,7 @@ internal static class FirstLoadFacts
         // collection that follows (all of them were held to the end of the step: bench/README, round 21).
         KeepOnly(cells, px, py, by, sx, sy);
         step.Dispose();
-        CollectGarbage(collect);
+        CollectGarbage(t.Rows);
         step = Queue.StageTimings.MeasureAlone("merge: facts, plots");
         var flags = await Flags.ReadAsync(t, ct).ConfigureAwait(false);
         async Task<Cells> Read(string c) => cells.TryGetValue(c, out var known) ? known : cells[c] = await t.ReadAsync(c, ct).ConfigureAwait(false);
@@ -173,7 +171,7 @@ internal static class FirstLoadFacts
         }
 
         KeepOnly(cells, sx, sy);
-        CollectGarbage(collect);
+        CollectGarbage(t.Rows);
         ScatterSample? scatter = null;
         if (sx is not null && sy is not null)
         {
@@ -182,7 +180,7 @@ internal static class FirstLoadFacts
 
         cells.Clear();
         step.Dispose();
-        CollectGarbage(collect);
+        CollectGarbage(t.Rows);
         step = Queue.StageTimings.MeasureAlone("merge: facts, plan order and ids");
         var planFirst = t.Has(PlanColumn) ? await PlanFirstAsync(t, ct).ConfigureAwait(false) : null;
         var wanted = new SortedSet<int>();
@@ -200,7 +198,7 @@ internal static class FirstLoadFacts
 
         // The ids were read for every row (a string each, ~56 MB at 10^6 rows, some promoted while the row
         // groups were decoded): gone before the page's columns are read (its peak, 310 MB in a 10^6-point run: bench/README, round 19).
-        CollectGarbage(collect);
+        CollectGarbage(t.Rows);
         step = Queue.StageTimings.MeasureAlone("merge: facts, first page");
         var pageRows = planFirst is null ? null : planFirst.Take(PageRowsKept).ToArray();
         var page = pageRows is null ? null : await PageCellsAsync(t, pageRows, PageColumns(t, parameters), ct).ConfigureAwait(false);
@@ -470,7 +468,7 @@ internal static class FirstLoadFacts
         var xs = await read(x).ConfigureAwait(false);
         var ys = await read(y).ConfigureAwait(false);
         var groups = by is null ? null : await read(by).ConfigureAwait(false);
-        CollectGarbage(rows >= CollectFromRows);
+        CollectGarbage(rows);
         return ParameterPlot(xs, ys, groups, flags, rows);
     }
 
@@ -478,7 +476,7 @@ internal static class FirstLoadFacts
     {
         var xs = await read(x).ConfigureAwait(false);
         var ys = await read(y).ConfigureAwait(false);
-        CollectGarbage(rows >= CollectFromRows);
+        CollectGarbage(rows);
         return Scatter(xs, ys, flags, rows);
     }
 
@@ -618,9 +616,9 @@ internal static class FirstLoadFacts
     /// 300-point run the five collections (and the pages faulted in again after each) were most of the facts' cost
     /// (bench/README, round 21).
     /// </summary>
-    private static void CollectGarbage(bool collect)
+    private static void CollectGarbage(int rows)
     {
-        if (!collect)
+        if (rows < CollectFromRows)
         {
             return;
         }

@@ -57,23 +57,14 @@ internal static class TableMerger
     }
 
     /// <summary>
-    /// Hands freed memory back before a table's parts are rewritten (<see cref="Queue.MemoryRelease"/>): what
-    /// the solving phase or the table before left (garbage, memory the GC keeps committed for the next
-    /// allocations, free pages of the native heap) would otherwise sit under the merge's own peak. At the
-    /// end of a 10^5-point run the collection took the process from 153 to 107 MiB (bench/README, round 17); ~10-50 ms a table.
-    /// Not before a table whose inputs are under <see cref="ReleaseFromInputBytes"/>: its own merge is too small to
-    /// set a peak above the run's, and the collection, the trim and the pages faulted in again after them were
-    /// ~10 ms a table of a 300-point run (bench/README, round 21). The run releases once before the merge anyway.
+    /// The inputs' bytes (compressed, as on disk) from which a table's merge first hands freed memory back
+    /// (<see cref="Queue.MemoryRelease"/>) and watches the heap while it writes: what the solving phase or the table
+    /// before left (garbage, memory the GC keeps committed, free pages of the native heap) would otherwise sit under
+    /// the merge's own peak; at the end of a 10^5-point run the collection took the process from 153 to 107 MiB
+    /// (bench/README, round 17), ~10-50 ms a table. A smaller table's merge cannot set a peak above the run's, and the
+    /// collection, the trim and the pages faulted in again after them were ~10 ms a table of a 300-point run
+    /// (bench/README, round 21); the run releases once before the merge anyway.
     /// </summary>
-    private static void ReleaseMemory(IEnumerable<FileInfo> inputs)
-    {
-        if (inputs.Sum(f => f.Length) >= ReleaseFromInputBytes)
-        {
-            Queue.MemoryRelease.Now("merge: release memory");
-        }
-    }
-
-    /// <summary>The inputs' bytes (compressed, as on disk) from which a table's merge releases memory first.</summary>
     internal const long ReleaseFromInputBytes = 8L << 20;
 
     private static void RemoveIfEmpty(string folder)
@@ -142,10 +133,16 @@ internal static class TableMerger
                 return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
             }
 
-            ReleaseMemory(inputs);
-
             // A small table's merge neither releases memory first nor watches the heap while it writes (ReleaseFromInputBytes).
-            budget = inputs.Sum(f => f.Length) >= ReleaseFromInputBytes ? budget : budget with { WatchHeap = false };
+            if (inputs.Sum(f => f.Length) >= ReleaseFromInputBytes)
+            {
+                Queue.MemoryRelease.Now("merge: release memory");
+            }
+            else
+            {
+                budget = budget with { WatchHeap = false };
+            }
+
             var batch = new List<(string File, IReadOnlyList<string> Chunks)>();
             IReadOnlyList<ColumnDef>? batchColumns = null;
             IReadOnlyDictionary<string, string>? batchMetadata = null;
