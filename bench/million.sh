@@ -139,6 +139,8 @@ print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 60
       # (the solving phase's peak from LATSWEEP_TIMINGS; without it, the sampler's high-water mark when
       # the merge's staging folder first appears), the whole run's peak, the
       # RSS in the last quarter of the solving time, the store's and the results' size on disk, and
+      # (run-N.memory, LATSWEEP_MEMORY_TRACE) the process's own line a second: RSS anonymous and file-backed, the GC's
+      # heap, committed bytes and collections, glibc's arenas, threads and SQLite's memory; and
       # each table's files at the end, the points/ table read back by DuckDB (bench/count-rows: rows,
       # distinct ids, points per state) and `status` of the sweep.
       for n in ${RUN_POINTS:-10000 100000}; do
@@ -147,7 +149,7 @@ print(next((p[0] for p in json.loads(c[0]) if isinstance(p, list) and p[1] == 60
           | sed "s/name = \"bench-million-points\"/name = \"bench-run-$n\"/" > "$results/run-$n.toml"
         load="$(cut -d' ' -f1 /proc/loadavg)"
         rm -rf "$results/run-$n" "$results/run-$n.db"* 
-        ( cd "$results" && LATSWEEP_TIMINGS=1 exec /usr/bin/time -v "$latsweep" run "$results/run-$n.toml" --store "$results/run-$n.db" \
+        ( cd "$results" && LATSWEEP_TIMINGS=1 LATSWEEP_MEMORY_TRACE="$results/run-$n.memory" exec /usr/bin/time -v "$latsweep" run "$results/run-$n.toml" --store "$results/run-$n.db" \
             --out "$results/run-$n" --workers "$workers" > "$results/run-$n.out" 2> "$results/run-$n.time" ) &
         timer=$!
         solving_kb=0; child=""; start=$(date +%s.%N); samples="$results/run-$n.samples"

@@ -12,6 +12,7 @@ internal static class Program
         // Before any Engine type is loaded: a published x86-64 build holds one Engine image per vector width.
         EngineImages.LoadFromPublishedFolders();
         Queue.MemoryRelease.LimitNativeArenas();
+        Queue.MemoryTrace.StartIfAsked();
         return Run(args);
     }
 
