@@ -193,13 +193,6 @@ public sealed class ChunkRunner
             _chunkRecorded.Set();
         }
 
-        // The chunk's native garbage (SQLite's statements and pages, the runtime's buffers) is free now: its whole free pages
-        // go back to the system, or glibc's arenas grow through a long run (~0.5 ms a chunk; bench/README, round 22).
-        using (StageTimings.Measure("worker: trim native heap"))
-        {
-            MemoryRelease.TrimNativeHeap();
-        }
-
         foreach (var unstable in outcomes.Where(o => o.State == PointState.Unstable))
         {
             Interlocked.Increment(ref _unstablePoints);

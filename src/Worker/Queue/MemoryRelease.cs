@@ -9,8 +9,7 @@ namespace LatticeSweep.Worker.Queue;
 /// decommits it, and on Linux with glibc <c>malloc_trim(0)</c> returns the free pages of the native heap
 /// (SQLite's and the runtime's allocations, spread over one arena per thread: ~25 MB free by the end of a
 /// 10^6-point solve). Without it a phase's leftovers sat under the next phase's peak (bench/README.md,
-/// rounds 17 and 19). Costs a few tens of milliseconds each time. The native heap alone is also trimmed after
-/// each chunk (<see cref="TrimNativeHeap"/>).
+/// rounds 17 and 19). Costs a few tens of milliseconds each time.
 /// </summary>
 internal static class MemoryRelease
 {
@@ -25,13 +24,7 @@ internal static class MemoryRelease
         TrimNativeHeap();
     }
 
-    /// <summary>
-    /// glibc's <c>malloc_trim(0)</c>: the whole free pages of every arena go back to the system (nothing on other C
-    /// libraries). Besides <see cref="Now"/>, the workers call it after each chunk: the arenas of the threads the runtime
-    /// started before <c>Main</c> are out of <see cref="LimitNativeArenas"/>' reach, and the arenas grew from ~11 to
-    /// ~30 MB over a 10^6-point solve while the bytes in use stayed at 8-10 MB (bench/README, round 22).
-    /// </summary>
-    public static void TrimNativeHeap()
+    private static void TrimNativeHeap()
     {
         if (Volatile.Read(ref _noTrim))
         {
