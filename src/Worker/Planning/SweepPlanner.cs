@@ -283,7 +283,7 @@ internal static class SweepPlanner
         var keys = new ulong[total];
         List<int>? kept = null;
         var keptCount = 0;
-        var seen = new HashSet<ulong>();
+        var seen = new HashSet<ulong>(total);
 
         var order = ColumnOrder(columns);
         var names = order.Select(j => columns[j].Column).ToArray();
