@@ -144,9 +144,10 @@ switch (caseName)
     {
         var latsweep = Option("--latsweep", "src/Worker/bin/Release/net10.0/latsweep");
         var jobs = Option("--jobs", "bench/queue");
-        // The issue's own range for the <= 3 % target is points of ~30-80 ms (40ms-points); the 20 ms job
-        // stays for comparison with earlier rounds. --only small-points.toml[,...] runs just those jobs.
-        var only = Option("--only", "small-points.toml,20ms-points.toml,40ms-points.toml").Split(',', StringSplitOptions.RemoveEmptyEntries);
+        // The issue's own range for the <= 3 % target is points of ~30-80 ms: 60ms-points (40ms-points'
+        // points take ~25 ms since the Engine's speed work); the 20 ms and 40 ms jobs stay for comparison
+        // with earlier rounds. --only small-points.toml[,...] runs just those jobs.
+        var only = Option("--only", "small-points.toml,20ms-points.toml,40ms-points.toml,60ms-points.toml").Split(',', StringSplitOptions.RemoveEmptyEntries);
         report["runs"] = only
             .Select(job => (object)QueueCase.Run(latsweep, Path.Combine(jobs, job), Path.Combine(jobs, "one-point.toml"), workers: 1, repeats))
             .ToList();
