@@ -27,17 +27,6 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     /// </summary>
     public bool WatchHeap { get; init; } = true;
 
-    /// <summary>
-    /// Decoded bytes of input row groups a merge by columns may keep from one output group to the next, so a row group whose
-    /// rows go into both is decoded once (<see cref="StreamingMerge"/>); 0 keeps none. <see cref="TableMerger"/> sets it for a
-    /// table whose inputs are small (<see cref="SmallTableKeptBytes"/>), where it halved the decoding of a 300-point run's `dos/`
-    /// (bench/README, round 23); a larger table decodes again as before, so its merge's memory does not change.
-    /// </summary>
-    public long KeepDecodedBytes { get; init; }
-
-    /// <summary>What a small table's merge may keep decoded across output groups (<see cref="KeepDecodedBytes"/>).</summary>
-    public const long SmallTableKeptBytes = 32L << 20;
-
     /// <summary>Bytes a row takes decoded: a nullable number 16 (8 for int, 2 for bool), a text ~64 (reference, header, a short id or label).</summary>
     public static long BytesPerRow(IReadOnlyList<ColumnDef> columns)
     {

@@ -56,10 +56,9 @@ internal static partial class StreamingMerge
     }
 
     private static async Task<Written> MergeByColumnsAsync(List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string output, string table,
-        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, MergeBudget budget, CancellationToken ct)
+        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, bool watchHeap, CancellationToken ct)
     {
         var idColumn = inputs[0].IdColumn;
-        var watchHeap = budget.WatchHeap;
 
         // No longer than the rows there are: the same groups, but a small table's merge no longer allocated
         // 131,072-row buffers of every type (~8 MiB, zeroed) for a few hundred rows (bench/README, round 21).
@@ -80,7 +79,6 @@ internal static partial class StreamingMerge
         var chosenSource = new int[groupRows];
         var chosenRow = new int[groupRows];
         var buffers = new ColumnBuffers(groupRows, (int)inputs.Max(i => i.GroupRows.DefaultIfEmpty(0).Max()));
-        var kept = budget.KeepDecodedBytes > 0 ? new KeptColumns(columns, budget.KeepDecodedBytes) : null;
         var index = new StringBuilder();
         long total = 0;
         var wroteGroup = false;
@@ -136,9 +134,7 @@ internal static partial class StreamingMerge
                     break;
                 }
 
-                // Sources whose row group goes on into the next output group: decoded once for both when they fit (KeptColumns).
-                kept?.Choose(sources, s => cursors[s.Input].Ids is not null && cursors[s.Input].Group == s.Group, s => inputs[s.Input].GroupRows[s.Group]);
-                await WriteGroupByColumnsAsync(writer, inputs, columns, table, sources, new GroupPlan(chosenSource, chosenRow, n, idColumn), buffers, index, summary, watchHeap, kept, ct).ConfigureAwait(false);
+                await WriteGroupByColumnsAsync(writer, inputs, columns, table, sources, new GroupPlan(chosenSource, chosenRow, n, idColumn), buffers, index, summary, watchHeap, ct).ConfigureAwait(false);
                 wroteGroup = true;
                 total += n;
                 if (queue.Count == 0)
@@ -259,8 +255,7 @@ internal static partial class StreamingMerge
     /// across the reads of ~100-200 sources were promoted and died old, and set the merge's peak (bench/README, round 17).
     /// </summary>
     private static async Task WriteGroupByColumnsAsync(ParquetTableWriter writer, List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string table,
-        List<GroupSource> sources, GroupPlan plan, ColumnBuffers buffers, StringBuilder index, ColumnSummary? summary, bool watchHeap, KeptColumns? kept,
-        CancellationToken ct)
+        List<GroupSource> sources, GroupPlan plan, ColumnBuffers buffers, StringBuilder index, ColumnSummary? summary, bool watchHeap, CancellationToken ct)
     {
         var n = plan.Rows;
         using var group = writer.BeginRowGroup(table, n);
@@ -278,26 +273,10 @@ internal static partial class StreamingMerge
                     for (var s = 0; s < sources.Count; s++)
                     {
                         // The point ids are the ones the order was picked from: not decoded again.
-                        var from = decoded;
-                        var rows = 0;
-                        if (c != plan.IdColumn)
+                        var rows = c == plan.IdColumn ? 0 : await inputs[sources[s].Input].ReadColumnIntoAsync(opened[s], c, decoded, ct).ConfigureAwait(false);
+                        if (decoded is string?[] cells && rows > 0)
                         {
-                            (from, rows) = kept?.Find(sources[s], c) is { } found ? (found, found.Length) : (decoded, 0);
-                            if (from == decoded)
-                            {
-                                var keep = kept?.Keeps(sources[s]) == true;
-                                from = keep ? kept!.NewArray(c, inputs[sources[s].Input].GroupRows[sources[s].Group]) : decoded;
-                                rows = await inputs[sources[s].Input].ReadColumnIntoAsync(opened[s], c, from, ct).ConfigureAwait(false);
-                                if (from is string?[] cells && rows > 0)
-                                {
-                                    buffers.Texts.Share(cells, rows);
-                                }
-
-                                if (keep)
-                                {
-                                    kept!.Add(sources[s], c, from);
-                                }
-                            }
+                            buffers.Texts.Share(cells, rows);
                         }
 
                         using (Queue.StageTimings.Measure("merge: gather"))
@@ -308,11 +287,11 @@ internal static partial class StreamingMerge
                             }
                             else
                             {
-                                ColumnGather.ScatterInto(values, from, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1]);
+                                ColumnGather.ScatterInto(values, decoded, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1]);
                             }
                         }
 
-                        if (from == decoded && decoded is string?[] text)
+                        if (decoded is string?[] text)
                         {
                             Array.Clear(text, 0, rows);
                         }
@@ -356,82 +335,6 @@ internal static partial class StreamingMerge
 
         summary?.AddRows(n);
         summary?.AddMarks(buffers.Marks[0], buffers.Marks[1], buffers.Marks[2], n);
-    }
-
-    /// <summary>
-    /// A small table's decoded columns kept from one output group to the next (<see cref="MergeBudget.KeepDecodedBytes"/>): an input
-    /// row group whose rows go into two output groups (every part of a table of more than <see cref="MergedLayout.RowGroupRows"/> rows,
-    /// as point ids spread over every chunk) was decoded once for each, which was about half of a 300-point run's `dos/` merge
-    /// (bench/README, round 23). Kept only while the row groups going on fit the bytes given, else decoded again as before.
-    /// </summary>
-    private sealed class KeptColumns(IReadOnlyList<ColumnDef> columns, long mostBytes)
-    {
-        private readonly Dictionary<long, Array?[]> _kept = [];
-
-        private readonly HashSet<long> _keeping = [];
-
-        /// <summary>Bytes a kept row takes: its cells as <see cref="ColumnValues"/> holds them (a text cell a reference to a string shared by a run of equal cells).</summary>
-        private readonly long _rowBytes = Math.Max(1, columns.Sum(c => c.Type == ColumnType.Text ? 16 : MergeBudget.CellBytes(c.Type)));
-
-        /// <summary>
-        /// For the output group about to be written from <paramref name="sources"/>: forgets what earlier groups kept of row groups no
-        /// longer read, and keeps the columns of those that go on into the next group (<paramref name="goesOn"/>) when all of them fit.
-        /// </summary>
-        public void Choose(List<GroupSource> sources, Func<GroupSource, bool> goesOn, Func<GroupSource, long> rows)
-        {
-            var current = new HashSet<long>();
-            foreach (var source in sources)
-            {
-                current.Add(Key(source));
-            }
-
-            foreach (var key in _kept.Keys.ToList())
-            {
-                if (!current.Contains(key))
-                {
-                    _kept.Remove(key);
-                }
-            }
-
-            _keeping.Clear();
-            long bytes = 0;
-            foreach (var source in sources)
-            {
-                if (goesOn(source))
-                {
-                    _keeping.Add(Key(source));
-                    bytes += rows(source) * _rowBytes;
-                }
-            }
-
-            if (bytes > mostBytes)
-            {
-                _keeping.Clear();
-            }
-        }
-
-        /// <summary>Whether <paramref name="source"/>'s columns are decoded into arrays of their own and kept (<see cref="Add"/>).</summary>
-        public bool Keeps(GroupSource source) => _keeping.Contains(Key(source));
-
-        /// <summary>A new array for column <paramref name="column"/> of a row group of <paramref name="rows"/> rows.</summary>
-        public Array NewArray(int column, long rows) => Array.CreateInstance(ColumnValues.ArrayType(columns[column].Type).GetElementType()!, checked((int)rows));
-
-        public void Add(GroupSource source, int column, Array values)
-        {
-            var key = Key(source);
-            if (!_kept.TryGetValue(key, out var kept))
-            {
-                kept = new Array?[columns.Count];
-                _kept[key] = kept;
-            }
-
-            kept[column] = values;
-        }
-
-        /// <summary>Column <paramref name="column"/> of <paramref name="source"/> as an earlier output group decoded it, or null.</summary>
-        public Array? Find(GroupSource source, int column) => _kept.TryGetValue(Key(source), out var kept) ? kept[column] : null;
-
-        private static long Key(GroupSource source) => ((long)source.Input << 32) | (uint)source.Group;
     }
 
     /// <summary>A row group some of an output group's rows come from: its input, its number, and its point ids (read for the order, kept for the id column).</summary>

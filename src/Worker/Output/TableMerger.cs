@@ -133,9 +133,8 @@ internal static class TableMerger
                 return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
             }
 
-            // A small table's merge neither releases memory first nor watches the heap while it writes (ReleaseFromInputBytes);
-            // it opens each input once for every step (its columns, the pass plan, the pass) and decodes an input row group
-            // once for the output groups it goes into (MergeBudget.KeepDecodedBytes).
+            // A small table's merge neither releases memory first nor watches the heap while it writes (ReleaseFromInputBytes),
+            // and opens each input once for every step (its columns and metadata here, the pass plan, the pass) instead of three times.
             var small = inputs.Sum(f => f.Length) < ReleaseFromInputBytes;
             if (!small)
             {
@@ -143,7 +142,7 @@ internal static class TableMerger
             }
             else
             {
-                budget = budget with { WatchHeap = false, KeepDecodedBytes = MergeBudget.SmallTableKeptBytes };
+                budget = budget with { WatchHeap = false };
             }
 
             var opened = new Dictionary<string, SortedInput>(StringComparer.Ordinal);

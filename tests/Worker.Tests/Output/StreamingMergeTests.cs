@@ -307,14 +307,13 @@ public sealed class StreamingMergeTests : IDisposable
             (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{merged}') WHERE decode(key) = '{MergedLayout.RowGroupsKey}'")!);
     }
 
-    [Theory]
-    [InlineData(32L << 20)]
-    [InlineData(20_000L)]
-    public async Task Row_groups_kept_decoded_between_output_groups_and_inputs_opened_once_give_the_file_decoding_them_again_gives(long keptBytes)
+    [Fact]
+    public async Task Inputs_opened_once_beforehand_are_read_where_they_stand_and_give_the_file_inputs_opened_by_the_pass_give()
     {
-        // 12 parts whose ids span the whole range, so each part's row group goes into several output groups of 40 rows: written
-        // once decoding it again for each group from inputs opened by the pass, once keeping its columns between groups
-        // (all of them, or, with 20 KB, only once those going on fit) from inputs opened beforehand. The two files are the same bytes.
+        // 12 parts over overlapping ranges of ids, so each part's row group goes into several output groups of 40 rows, with
+        // every column type and empty cells: merged once from inputs the pass opens itself, once from inputs opened beforehand
+        // (as TableMerger does for a small table, using each for its columns, the pass plan and the pass) whose files are then
+        // deleted, so opening any of them again would fail. The same bytes.
         var columns = new List<ColumnDef>
         {
             new("point_id", ColumnType.Text, "", ""),
@@ -330,7 +329,6 @@ public sealed class StreamingMergeTests : IDisposable
         var files = new List<string>();
         for (var chunk = 0; chunk < 12; chunk++)
         {
-            // Later parts reach further, so fewer row groups go on past the later output groups: with a few KiB only those are kept.
             var ids = Enumerable.Range(0, 30 + random.Next(40)).Select(_ => $"{random.Next(60 + (40 * chunk)):x3}").Order(StringComparer.Ordinal).ToList();
             var n = ids.Count;
             var values = new Array[]
@@ -360,21 +358,36 @@ public sealed class StreamingMergeTests : IDisposable
         }
 
         var budget = new MergeBudget(InputBytes: 1L << 30, OutputGroupBytes: 40 * 64);
-        var again = _dir.Combine("again.parquet");
-        var kept = _dir.Combine("kept.parquet");
+        var byPass = _dir.Combine("by-pass.parquet");
+        var beforehand = _dir.Combine("beforehand.parquet");
         var metadataOut = new Dictionary<string, string> { ["latticesweep.table"] = "demo" };
-        var decodedAgain = await StreamingMerge.MergeAsync(files, again, _dir.Combine("runs-a"), "demo", metadataOut, budget, CancellationToken.None);
+        var openedByPass = await StreamingMerge.MergeAsync(files, byPass, _dir.Combine("runs-a"), "demo", metadataOut, budget, CancellationToken.None);
+
+        // The rows are every part's rows once, sorted by point id (DuckDB, an independent reader).
+        using var db = new DuckDb();
+        Assert.Equal(Convert.ToInt64(db.Scalar($"SELECT count(*) FROM read_parquet({PathList(files)})"), System.Globalization.CultureInfo.InvariantCulture),
+            Convert.ToInt64(db.Scalar($"SELECT count(*) FROM read_parquet('{byPass}')"), System.Globalization.CultureInfo.InvariantCulture));
+        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
+            $"SELECT count(*) FROM ((SELECT * FROM read_parquet({PathList(files)})) EXCEPT ALL (SELECT * FROM read_parquet('{byPass}')))"), System.Globalization.CultureInfo.InvariantCulture));
+        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
+            $"SELECT count(*) FROM (SELECT point_id < lag(point_id) OVER (ORDER BY file_row_number) AS back FROM read_parquet('{byPass}', file_row_number = true)) WHERE back"),
+            System.Globalization.CultureInfo.InvariantCulture));
+
         var opened = new Dictionary<string, SortedInput>(StringComparer.Ordinal);
         try
         {
             foreach (var file in files)
             {
                 opened[file] = await SortedInput.OpenAsync(file, CancellationToken.None);
+                File.Delete(file);
             }
 
-            var keptOnce = await StreamingMerge.MergeAsync(files, kept, _dir.Combine("runs-k"), "demo", metadataOut, budget with { KeepDecodedBytes = keptBytes },
-                CancellationToken.None, opened);
-            Assert.Equal(decodedAgain, keptOnce);
+            var openedBeforehand = await StreamingMerge.MergeAsync(files, beforehand, _dir.Combine("runs-b"), "demo", metadataOut, budget, CancellationToken.None, opened);
+            Assert.Equal(openedByPass, openedBeforehand);
+
+            // Left open for their owner: each still reads its rows.
+            using var group = opened[files[0]].OpenGroup(0);
+            Assert.Equal(opened[files[0]].GroupRows[0], group.RowCount);
         }
         finally
         {
@@ -384,18 +397,8 @@ public sealed class StreamingMergeTests : IDisposable
             }
         }
 
-        Assert.True(decodedAgain.RowGroupIndex.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length > 3);
-        Assert.Equal(await File.ReadAllBytesAsync(again), await File.ReadAllBytesAsync(kept));
-
-        // And the rows are every part's rows once, sorted by point id (DuckDB, an independent reader).
-        using var db = new DuckDb();
-        Assert.Equal(Convert.ToInt64(db.Scalar($"SELECT count(*) FROM read_parquet({PathList(files)})"), System.Globalization.CultureInfo.InvariantCulture),
-            Convert.ToInt64(db.Scalar($"SELECT count(*) FROM read_parquet('{kept}')"), System.Globalization.CultureInfo.InvariantCulture));
-        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
-            $"SELECT count(*) FROM ((SELECT * FROM read_parquet({PathList(files)})) EXCEPT ALL (SELECT * FROM read_parquet('{kept}')))"), System.Globalization.CultureInfo.InvariantCulture));
-        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
-            $"SELECT count(*) FROM (SELECT point_id < lag(point_id) OVER (ORDER BY file_row_number) AS back FROM read_parquet('{kept}', file_row_number = true)) WHERE back"),
-            System.Globalization.CultureInfo.InvariantCulture));
+        Assert.True(openedByPass.RowGroupIndex.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length > 3);
+        Assert.Equal(await File.ReadAllBytesAsync(byPass), await File.ReadAllBytesAsync(beforehand));
     }
 
     private static string PathList(IEnumerable<string> files) => "[" + string.Join(", ", files.Select(f => $"'{f}'")) + "]";
