@@ -67,6 +67,14 @@ internal static class TableMerger
     /// </summary>
     internal const long ReleaseFromInputBytes = 8L << 20;
 
+    /// <summary>
+    /// The most inputs of a small table (<see cref="ReleaseFromInputBytes"/>) opened once for every step of its merge: each held
+    /// open with its whole footer, key-value metadata included, from the start to the end of the table's merge. A 300-point
+    /// run's tables have 7 parts each, which were opened three times (footers parsed 132 times a run, ~0.01 s: bench/README,
+    /// round 23); a small table of many parts (a 10^6-point run's) is opened step by step as before, so its merge holds what it held.
+    /// </summary>
+    internal const int OpenedOnceAtMost = 64;
+
     private static void RemoveIfEmpty(string folder)
     {
         try
@@ -134,7 +142,8 @@ internal static class TableMerger
             }
 
             // A small table's merge neither releases memory first nor watches the heap while it writes (ReleaseFromInputBytes),
-            // and opens each input once for every step (its columns and metadata here, the pass plan, the pass) instead of three times.
+            // and (up to OpenedOnceAtMost inputs) opens each input once for every step (its columns and metadata here, the pass plan,
+            // the pass) instead of three times.
             var small = inputs.Sum(f => f.Length) < ReleaseFromInputBytes;
             if (!small)
             {
@@ -149,7 +158,7 @@ internal static class TableMerger
             (int Files, long Rows) written;
             try
             {
-                if (small)
+                if (small && inputs.Count <= OpenedOnceAtMost)
                 {
                     foreach (var input in inputs)
                     {
