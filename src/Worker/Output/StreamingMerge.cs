@@ -21,8 +21,10 @@ internal static partial class StreamingMerge
     /// Writes <paramref name="output"/> from <paramref name="inputs"/> (same columns, each sorted by point id);
     /// the file metadata is <paramref name="metadata"/> with the row-group index added.
     /// </summary>
+    /// <param name="opened">inputs the caller holds open already (a small table's, opened once for all its steps: <see cref="TableMerger"/>);
+    /// they are read from where they stand and left open for the caller to dispose</param>
     public static async Task<Written> MergeAsync(IReadOnlyList<string> inputs, string output, string scratch, string table,
-        IReadOnlyDictionary<string, string> metadata, MergeBudget budget, CancellationToken ct)
+        IReadOnlyDictionary<string, string> metadata, MergeBudget budget, CancellationToken ct, IReadOnlyDictionary<string, SortedInput>? opened = null)
     {
         ArgumentNullException.ThrowIfNull(inputs);
         ArgumentNullException.ThrowIfNull(budget);
@@ -33,13 +35,13 @@ internal static partial class StreamingMerge
         {
             while (true)
             {
-                var passGroups = await PassGroupsAsync(current, budget, ct).ConfigureAwait(false);
+                var passGroups = await PassGroupsAsync(current, budget, opened, ct).ConfigureAwait(false);
                 if (passGroups.Count == 1)
                 {
-                    var columns = await ColumnsOfAsync(current[0], ct).ConfigureAwait(false);
+                    var columns = opened?.GetValueOrDefault(current[0]) is { } first ? first.Columns : await ColumnsOfAsync(current[0], ct).ConfigureAwait(false);
                     var summary = table == TableNames.Points ? new ColumnSummary(columns) : null;
                     using var final = Queue.StageTimings.MeasureAlone("merge: final pass, " + table);
-                    var written = await MergeOnceAsync(current, output, table, metadata, budget, final: true, summary, ct).ConfigureAwait(false);
+                    var written = await MergeOnceAsync(current, output, table, metadata, budget, final: true, summary, ct, opened).ConfigureAwait(false);
                     return written;
                 }
 
@@ -55,7 +57,7 @@ internal static partial class StreamingMerge
 
                     var run = Path.Combine(scratch, $"run-{runNumber++:D5}.parquet");
                     using var sorting = Queue.StageTimings.MeasureAlone("merge: sorted runs, " + table);
-                    await MergeOnceAsync(group, run, table, new Dictionary<string, string>(), budget, final: false, null, ct).ConfigureAwait(false);
+                    await MergeOnceAsync(group, run, table, new Dictionary<string, string>(), budget, final: false, null, ct, opened).ConfigureAwait(false);
                     runs.Add(run);
                     next.Add(run);
                     foreach (var consumed in group.Where(runs.Contains))
@@ -78,7 +80,8 @@ internal static partial class StreamingMerge
     }
 
     /// <summary>The inputs cut, in order, into groups whose decoded row groups fit the budget together (at least two per group).</summary>
-    private static async Task<List<List<string>>> PassGroupsAsync(IReadOnlyList<string> files, MergeBudget budget, CancellationToken ct)
+    private static async Task<List<List<string>>> PassGroupsAsync(IReadOnlyList<string> files, MergeBudget budget, IReadOnlyDictionary<string, SortedInput>? opened,
+        CancellationToken ct)
     {
         var groups = new List<List<string>>();
         var group = new List<string>();
@@ -86,11 +89,14 @@ internal static partial class StreamingMerge
         foreach (var file in files)
         {
             long bytes;
-            await using (var input = await SortedInput.OpenAsync(file, ct).ConfigureAwait(false))
+            if (opened?.GetValueOrDefault(file) is { } open)
             {
-                bytes = ByColumns(input)
-                    ? MergeBudget.BytesHeldByColumns(input.RowsHeld, input.Columns, input.GroupRows.Count)
-                    : input.RowsHeld * MergeBudget.BytesPerRow(input.Columns);
+                bytes = BytesHeld(open);
+            }
+            else
+            {
+                await using var input = await SortedInput.OpenAsync(file, ct).ConfigureAwait(false);
+                bytes = BytesHeld(input);
             }
 
             if (group.Count >= 2 && held + bytes > budget.InputBytes)
@@ -112,21 +118,35 @@ internal static partial class StreamingMerge
         return groups;
     }
 
+    private static long BytesHeld(SortedInput input) => ByColumns(input)
+        ? MergeBudget.BytesHeldByColumns(input.RowsHeld, input.Columns, input.GroupRows.Count)
+        : input.RowsHeld * MergeBudget.BytesPerRow(input.Columns);
+
     /// <summary>
     /// One k-way pass over <paramref name="files"/> into <paramref name="output"/> (the merged file when
     /// <paramref name="final"/>, else a sorted run): by columns when every input is read a row group at a
     /// time, else by rows (old parts without an index are held whole anyway).
     /// </summary>
     private static async Task<Written> MergeOnceAsync(IReadOnlyList<string> files, string output, string table,
-        IReadOnlyDictionary<string, string> metadata, MergeBudget budget, bool final, ColumnSummary? summary, CancellationToken ct)
+        IReadOnlyDictionary<string, string> metadata, MergeBudget budget, bool final, ColumnSummary? summary, CancellationToken ct,
+        IReadOnlyDictionary<string, SortedInput>? opened)
     {
         var inputs = new List<SortedInput>();
+        var ours = new List<SortedInput>();
         var shared = new SharedFooterParts();
         try
         {
             foreach (var file in files)
             {
-                inputs.Add(await SortedInput.OpenAsync(file, ct, shared).ConfigureAwait(false));
+                if (opened?.GetValueOrDefault(file) is { } open)
+                {
+                    inputs.Add(open);
+                    continue;
+                }
+
+                var input = await SortedInput.OpenAsync(file, ct, shared).ConfigureAwait(false);
+                ours.Add(input);
+                inputs.Add(input);
             }
 
             var columns = inputs.Count > 0 ? inputs[0].Columns : throw new InvalidOperationException($"table {table}: nothing to merge");
@@ -261,7 +281,7 @@ internal static partial class StreamingMerge
         }
         finally
         {
-            foreach (var input in inputs)
+            foreach (var input in ours)
             {
                 await input.DisposeAsync().ConfigureAwait(false);
             }

@@ -67,6 +67,14 @@ internal static class TableMerger
     /// </summary>
     internal const long ReleaseFromInputBytes = 8L << 20;
 
+    /// <summary>
+    /// The most inputs of a small table (<see cref="ReleaseFromInputBytes"/>) opened once for every step of its merge: each held
+    /// open with its whole footer, key-value metadata included, from the start to the end of the table's merge. A 300-point
+    /// run's tables have 7 parts each, which were opened three times (footers parsed 132 times a run, ~0.01 s: bench/README,
+    /// round 23); a small table of many parts (a 10^6-point run's) is opened step by step as before, so its merge holds what it held.
+    /// </summary>
+    internal const int OpenedOnceAtMost = 64;
+
     private static void RemoveIfEmpty(string folder)
     {
         try
@@ -133,8 +141,11 @@ internal static class TableMerger
                 return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
             }
 
-            // A small table's merge neither releases memory first nor watches the heap while it writes (ReleaseFromInputBytes).
-            if (inputs.Sum(f => f.Length) >= ReleaseFromInputBytes)
+            // A small table's merge neither releases memory first nor watches the heap while it writes (ReleaseFromInputBytes),
+            // and (up to OpenedOnceAtMost inputs) opens each input once for every step (its columns and metadata here, the pass plan,
+            // the pass) instead of three times.
+            var small = inputs.Sum(f => f.Length) < ReleaseFromInputBytes;
+            if (!small)
             {
                 Queue.MemoryRelease.Now("merge: release memory");
             }
@@ -143,58 +154,33 @@ internal static class TableMerger
                 budget = budget with { WatchHeap = false };
             }
 
-            var batch = new List<(string File, IReadOnlyList<string> Chunks)>();
-            IReadOnlyList<ColumnDef>? batchColumns = null;
-            IReadOnlyDictionary<string, string>? batchMetadata = null;
-            long batchBytes = 0;
-            long rows = 0;
-            var written = 0;
-            foreach (var input in inputs)
+            var opened = new Dictionary<string, SortedInput>(StringComparer.Ordinal);
+            (int Files, long Rows) written;
+            try
             {
-                IReadOnlyList<ColumnDef> columns;
-                IReadOnlyDictionary<string, string> metadata;
-                await using (var footer = await SortedInput.OpenAsync(input.FullName, ct).ConfigureAwait(false))
+                if (small && inputs.Count <= OpenedOnceAtMost)
                 {
-                    columns = footer.Columns;
-                    metadata = footer.Metadata;
+                    foreach (var input in inputs)
+                    {
+                        opened[input.FullName] = await SortedInput.OpenAsync(input.FullName, ct).ConfigureAwait(false);
+                    }
                 }
 
-                if (batch.Count > 0 && !SameColumns(batchColumns!, columns))
-                {
-                    rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, ct).ConfigureAwait(false);
-                    written++;
-                    batchBytes = 0;
-                }
-
-                var chunks = MergedLayout.ChunkOfPart(input.Name) is { } chunk
-                    ? [chunk]
-                    : (IReadOnlyList<string>)(metadata.GetValueOrDefault(MergedLayout.ChunksKey, "").Split(',', StringSplitOptions.RemoveEmptyEntries));
-                if (batch.Count == 0)
-                {
-                    batchColumns = columns;
-                    batchMetadata = metadata;
-                }
-
-                batch.Add((input.FullName, chunks));
-                batchBytes += input.Length;
-                if (batchBytes >= MergedLayout.TargetFileBytes)
-                {
-                    rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, ct).ConfigureAwait(false);
-                    written++;
-                    batchBytes = 0;
-                }
+                written = await WriteMergedAsync(staging, scratch, table, inputs, opened, nextNumber, chunkFiles, budget, ct).ConfigureAwait(false);
             }
-
-            if (batch.Count > 0)
+            finally
             {
-                rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, ct).ConfigureAwait(false);
-                written++;
+                // Closed before the swap: the table folder's old files are deleted right after it.
+                foreach (var input in opened.Values)
+                {
+                    await input.DisposeAsync().ConfigureAwait(false);
+                }
             }
 
             TryDeleteFolder(scratch);
             await WriteFirstLoadAsync(staging, schema, budget, ct).ConfigureAwait(false);
             Commit(live, staging, id, chunkFiles, ct);
-            return new Outcome(table, parts.Count, written, rows);
+            return new Outcome(table, parts.Count, written.Files, written.Rows);
         }
         catch
         {
@@ -202,6 +188,67 @@ internal static class TableMerger
             TryDeleteFolder(scratch);
             throw;
         }
+    }
+
+    /// <summary>Writes the merged files of <paramref name="inputs"/> into the staging folder (<paramref name="opened"/>: those held open already); returns how many files and rows.</summary>
+    private static async Task<(int Files, long Rows)> WriteMergedAsync(string staging, string scratch, string table, List<FileInfo> inputs,
+        Dictionary<string, SortedInput> opened, int nextNumber, List<(string Chunk, string File)> chunkFiles, MergeBudget budget, CancellationToken ct)
+    {
+        var batch = new List<(string File, IReadOnlyList<string> Chunks)>();
+        IReadOnlyList<ColumnDef>? batchColumns = null;
+        IReadOnlyDictionary<string, string>? batchMetadata = null;
+        long batchBytes = 0;
+        long rows = 0;
+        var written = 0;
+        foreach (var input in inputs)
+        {
+            IReadOnlyList<ColumnDef> columns;
+            IReadOnlyDictionary<string, string> metadata;
+            if (opened.TryGetValue(input.FullName, out var open))
+            {
+                columns = open.Columns;
+                metadata = open.Metadata;
+            }
+            else
+            {
+                await using var footer = await SortedInput.OpenAsync(input.FullName, ct).ConfigureAwait(false);
+                columns = footer.Columns;
+                metadata = footer.Metadata;
+            }
+
+            if (batch.Count > 0 && !SameColumns(batchColumns!, columns))
+            {
+                rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, opened, ct).ConfigureAwait(false);
+                written++;
+                batchBytes = 0;
+            }
+
+            var chunks = MergedLayout.ChunkOfPart(input.Name) is { } chunk
+                ? [chunk]
+                : (IReadOnlyList<string>)(metadata.GetValueOrDefault(MergedLayout.ChunksKey, "").Split(',', StringSplitOptions.RemoveEmptyEntries));
+            if (batch.Count == 0)
+            {
+                batchColumns = columns;
+                batchMetadata = metadata;
+            }
+
+            batch.Add((input.FullName, chunks));
+            batchBytes += input.Length;
+            if (batchBytes >= MergedLayout.TargetFileBytes)
+            {
+                rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, opened, ct).ConfigureAwait(false);
+                written++;
+                batchBytes = 0;
+            }
+        }
+
+        if (batch.Count > 0)
+        {
+            rows += await FlushAsync(batch, batchMetadata!, staging, scratch, MergedLayout.MergedFileName(nextNumber++), table, chunkFiles, budget, opened, ct).ConfigureAwait(false);
+            written++;
+        }
+
+        return (written, rows);
     }
 
     /// <summary>
@@ -313,7 +360,8 @@ internal static class TableMerger
     /// point id, row groups indexed in the metadata, memory bounded by <paramref name="budget"/>.
     /// </summary>
     private static async Task<long> FlushAsync(List<(string File, IReadOnlyList<string> Chunks)> batch, IReadOnlyDictionary<string, string> firstMetadata,
-        string staging, string scratch, string fileName, string table, List<(string Chunk, string File)> chunkFiles, MergeBudget budget, CancellationToken ct)
+        string staging, string scratch, string fileName, string table, List<(string Chunk, string File)> chunkFiles, MergeBudget budget,
+        IReadOnlyDictionary<string, SortedInput> opened, CancellationToken ct)
     {
         var chunks = batch.SelectMany(b => b.Chunks).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToList();
         var metadata = firstMetadata
@@ -321,7 +369,7 @@ internal static class TableMerger
                 && kv.Key != PartFirstRows.Key)
             .ToDictionary(kv => kv.Key, kv => kv.Value);
         metadata[MergedLayout.ChunksKey] = string.Join(',', chunks);
-        var written = await StreamingMerge.MergeAsync(batch.Select(b => b.File).ToList(), Path.Combine(staging, fileName), scratch, table, metadata, budget, ct).ConfigureAwait(false);
+        var written = await StreamingMerge.MergeAsync(batch.Select(b => b.File).ToList(), Path.Combine(staging, fileName), scratch, table, metadata, budget, ct, opened).ConfigureAwait(false);
         SimulatedSlowMerge.Pause();
         chunkFiles.AddRange(chunks.Select(c => (c, fileName)));
         batch.Clear();

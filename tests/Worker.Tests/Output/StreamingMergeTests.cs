@@ -308,6 +308,102 @@ public sealed class StreamingMergeTests : IDisposable
     }
 
     [Fact]
+    public async Task Inputs_opened_once_beforehand_are_read_where_they_stand_and_give_the_file_inputs_opened_by_the_pass_give()
+    {
+        // 12 parts over overlapping ranges of ids, so each part's row group goes into several output groups of 40 rows, with
+        // every column type and empty cells: merged once from inputs the pass opens itself, once from inputs opened beforehand
+        // (as TableMerger does for a small table, using each for its columns, the pass plan and the pass) whose files are then
+        // deleted, so opening any of them again would fail. The same bytes.
+        var columns = new List<ColumnDef>
+        {
+            new("point_id", ColumnType.Text, "", ""),
+            new("curve", ColumnType.Text, "", ""),
+            new("site", ColumnType.Int32, "", ""),
+            new("count", ColumnType.Int64, "", ""),
+            new("density", ColumnType.Double, "1/THz", ""),
+            new("stable", ColumnType.Bool, "", ""),
+            new("finished_at", ColumnType.Timestamp, "", ""),
+        };
+        var table = NewTable();
+        var random = new Random(23);
+        var files = new List<string>();
+        for (var chunk = 0; chunk < 12; chunk++)
+        {
+            var ids = Enumerable.Range(0, 30 + random.Next(40)).Select(_ => $"{random.Next(60 + (40 * chunk)):x3}").Order(StringComparer.Ordinal).ToList();
+            var n = ids.Count;
+            var values = new Array[]
+            {
+                ids.Select(id => (string?)id).ToArray(),
+                Enumerable.Range(0, n).Select(r => r % 5 == 0 ? null : r % 2 == 0 ? "total" : "site").ToArray(),
+                Enumerable.Range(0, n).Select(r => r % 3 == 0 ? null : (int?)(r % 4)).ToArray(),
+                Enumerable.Range(0, n).Select(r => (long?)((chunk * 1000L) + r)).ToArray(),
+                Enumerable.Range(0, n).Select(r => r % 7 == 0 ? null : (double?)((chunk * 1000) + r + 0.125)).ToArray(),
+                Enumerable.Range(0, n).Select(r => r % 6 == 0 ? null : (bool?)(r % 2 == 0)).ToArray(),
+                Enumerable.Range(0, n).Select(r => r % 4 == 0 ? null : (DateTime?)new DateTime(2026, 12, 5, 6, 0, 0, DateTimeKind.Utc).AddSeconds((chunk * 100) + r)).ToArray(),
+            };
+            var metadata = new Dictionary<string, string>
+            {
+                ["latticesweep.table"] = "demo",
+                [MergedLayout.ChunksKey] = $"c{chunk:d2}",
+                [MergedLayout.RowGroupsKey] = RowGroupIndex.Of(ids, ids.Count),
+            };
+            var file = Path.Combine(table, $"part-c{chunk:d2}.parquet");
+            await using (var stream = File.Create(file))
+            await using (var writer = await ParquetTableWriter.CreateAsync(stream, columns, metadata, CancellationToken.None))
+            {
+                await writer.WriteRowGroupAsync(new TableRows("demo", columns, n, values), CancellationToken.None);
+            }
+
+            files.Add(file);
+        }
+
+        var budget = new MergeBudget(InputBytes: 1L << 30, OutputGroupBytes: 40 * 64);
+        var byPass = _dir.Combine("by-pass.parquet");
+        var beforehand = _dir.Combine("beforehand.parquet");
+        var metadataOut = new Dictionary<string, string> { ["latticesweep.table"] = "demo" };
+        var openedByPass = await StreamingMerge.MergeAsync(files, byPass, _dir.Combine("runs-a"), "demo", metadataOut, budget, CancellationToken.None);
+
+        // The rows are every part's rows once, sorted by point id (DuckDB, an independent reader).
+        using var db = new DuckDb();
+        Assert.Equal(Convert.ToInt64(db.Scalar($"SELECT count(*) FROM read_parquet({PathList(files)})"), System.Globalization.CultureInfo.InvariantCulture),
+            Convert.ToInt64(db.Scalar($"SELECT count(*) FROM read_parquet('{byPass}')"), System.Globalization.CultureInfo.InvariantCulture));
+        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
+            $"SELECT count(*) FROM ((SELECT * FROM read_parquet({PathList(files)})) EXCEPT ALL (SELECT * FROM read_parquet('{byPass}')))"), System.Globalization.CultureInfo.InvariantCulture));
+        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
+            $"SELECT count(*) FROM (SELECT point_id < lag(point_id) OVER (ORDER BY file_row_number) AS back FROM read_parquet('{byPass}', file_row_number = true)) WHERE back"),
+            System.Globalization.CultureInfo.InvariantCulture));
+
+        var opened = new Dictionary<string, SortedInput>(StringComparer.Ordinal);
+        try
+        {
+            foreach (var file in files)
+            {
+                opened[file] = await SortedInput.OpenAsync(file, CancellationToken.None);
+                File.Delete(file);
+            }
+
+            var openedBeforehand = await StreamingMerge.MergeAsync(files, beforehand, _dir.Combine("runs-b"), "demo", metadataOut, budget, CancellationToken.None, opened);
+            Assert.Equal(openedByPass, openedBeforehand);
+
+            // Left open for their owner: each still reads its rows.
+            using var group = opened[files[0]].OpenGroup(0);
+            Assert.Equal(opened[files[0]].GroupRows[0], group.RowCount);
+        }
+        finally
+        {
+            foreach (var input in opened.Values)
+            {
+                await input.DisposeAsync();
+            }
+        }
+
+        Assert.True(openedByPass.RowGroupIndex.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length > 3);
+        Assert.Equal(await File.ReadAllBytesAsync(byPass), await File.ReadAllBytesAsync(beforehand));
+    }
+
+    private static string PathList(IEnumerable<string> files) => "[" + string.Join(", ", files.Select(f => $"'{f}'")) + "]";
+
+    [Fact]
     public void A_column_summary_given_one_column_at_a_time_says_what_one_given_whole_row_groups_says()
     {
         var columns = new ColumnDef[]
