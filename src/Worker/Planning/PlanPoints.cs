@@ -67,6 +67,9 @@ public sealed class PlanPoints : IReadOnlyList<PlannedPoint>
         ? (uint)index < (uint)_lazyCount ? keyAt(index) : throw new ArgumentOutOfRangeException(nameof(index))
         : _keys[index];
 
+    /// <summary>Every point's key by index (the id is its text, <see cref="PointIdentity.IdText"/>); null for a lazy plan or one built by hand.</summary>
+    internal ReadOnlyMemory<ulong>? Keys => _given is null && _keyAt is null ? _keys : null;
+
     /// <summary>The parameters of the point at <paramref name="index"/>.</summary>
     public PointParameters ParametersAt(int index) => _given is { } g
         ? g[index].Parameters
