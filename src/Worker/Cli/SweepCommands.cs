@@ -20,7 +20,7 @@ internal static class SweepCommands
 
     /// <summary>
     /// Plans the job file, forecasts its failures, opens the store and submits, leaving the plan only in <paramref name="plans"/>
-    /// (or nowhere, when the workers plan it lazily):
+    /// (a lazy one without the point keys when it can, <see cref="JobFilePlanSource.AddSubmitted"/>):
     /// a local of <see cref="Run"/> stayed on its stack frame through the merge, after <see cref="WorkSweep"/> had released it
     /// (8 MB of point keys at 10^6 points, bench/README round 21). The caller disposes the session.
     /// </summary>
@@ -51,13 +51,9 @@ internal static class SweepCommands
             }
 
             ReportLostResults(submitted, context);
-
-            // A submit that kept every point of the expansion (a definition hash) is planned again lazily by the
-            // workers, as `work` plans it: each claimed point's id computed at its index, so the plan's 8-byte
-            // keys (80 MB at 10^7 points) are not held while solving (bench/README round 23).
-            if (plan.DefinitionHash is null)
+            using (StageTimings.Measure("run: keep the plan for the workers"))
             {
-                plans.Add(submitted.Sweep.SweepId, plan);
+                plans.AddSubmitted(submitted.Sweep.SweepId, plan);
             }
 
             return (session, submitted.Sweep.SweepId);
