@@ -23,6 +23,13 @@ public sealed record NewSweep
     /// </summary>
     public required IReadOnlyList<NewPoint> Points { get; init; }
 
+    /// <summary>
+    /// Every point's id as the planner's 8-byte key (the id is its 16 lower-case hex digits), the point at
+    /// position i of <see cref="Points"/> having index i; null when the ids are not all such keys. With it
+    /// the catalog groups the ids by key in passes of bounded size instead of noting every point as it passes.
+    /// </summary>
+    public ReadOnlyMemory<ulong>? PointKeys { get; init; }
+
     /// <summary>The plan's <see cref="Planning.SweepPlan.DefinitionHash"/> (null: workers plan the sweep in full).</summary>
     public string? DefinitionHash { get; init; }
 

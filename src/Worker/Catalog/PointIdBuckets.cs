@@ -1,3 +1,4 @@
+using System.Buffers;
 using System.Data.Common;
 using System.Globalization;
 using System.Text;
@@ -32,7 +33,18 @@ internal sealed class PointIdBuckets
         )
         """;
 
-    // Ids as the planner makes them (16 hex digits) kept as 8-byte keys (16 bytes a point with its index,
+    /// <summary>Entries a pass of <see cref="Write"/> holds when the ids come as keys (16 bytes each: 4 MiB; a pass reads every key, ~10 ms at 10^7).</summary>
+    internal const int EntriesPerPass = 1 << 18;
+
+    /// <summary>Groups: one per value of an id's first <see cref="PrefixLength"/> hex digits (a key's top 12 bits).</summary>
+    private const int GroupCount = 1 << (4 * PrefixLength);
+
+    // Ids given as the planner's keys at submit (NewSweep.PointKeys): nothing is noted per point; Write reads the keys
+    // again in passes of at most EntriesPerPass (10^7 ids noted as keys had taken 160 MB, bench/README round 23).
+    private readonly ReadOnlyMemory<ulong>? _givenKeys;
+    private readonly int _entriesPerPass = EntriesPerPass;
+
+    // Else ids as the planner makes them (16 hex digits) kept as 8-byte keys (16 bytes a point with its index,
     // no string per point: 10^6 ids as strings took ~90 MB more at submit); any other id kept as text.
     private readonly List<(ulong Key, long Index)> _keys;
     private List<(string Id, long Index)>? _texts;
@@ -44,10 +56,53 @@ internal sealed class PointIdBuckets
         _keys = new(Math.Max(0, expected));
     }
 
-    /// <summary>Notes a point (on the thread that makes the chunk rows).</summary>
+    /// <param name="keys">every point's id as its key, the point at position i having index i (<see cref="NewSweep.PointKeys"/>)</param>
+    /// <param name="entriesPerPass">the most points a pass of <see cref="Write"/> holds (tests make it small)</param>
+    public PointIdBuckets(ReadOnlyMemory<ulong> keys, int entriesPerPass = EntriesPerPass)
+    {
+        ArgumentOutOfRangeException.ThrowIfLessThan(entriesPerPass, 1);
+        _givenKeys = keys;
+        _entriesPerPass = entriesPerPass;
+        _keys = [];
+    }
+
+    /// <summary>Writes one group's row: its name and its "id index" lines as UTF-8 (in the register transaction).</summary>
+    internal interface IRowWriter : IDisposable
+    {
+        void Insert(string bucket, ReadOnlySpan<byte> pointsUtf8);
+    }
+
+    /// <summary>The SQL that inserts a group's row (parameters @sweep, @bucket, @points).</summary>
+    internal const string InsertSql = "INSERT INTO latsweep_point_buckets (sweep_id, bucket, points) VALUES (@sweep, @bucket, @points)";
+
+    /// <summary>A writer by an ADO.NET command, the text as a string (SQLite's catalog binds the UTF-8 as it is).</summary>
+    internal sealed class CommandRowWriter : IRowWriter
+    {
+        private readonly DbCommand _cmd;
+        private readonly DbParameter _bucket, _points;
+
+        public CommandRowWriter(DbConnection c, DbTransaction tx, string sweepId)
+        {
+            _cmd = SqlSweepCatalog.Command(c, tx, InsertSql);
+            SqlSweepCatalog.Add(_cmd, "sweep", sweepId);
+            _bucket = SqlSweepCatalog.Add(_cmd, "bucket", "");
+            _points = SqlSweepCatalog.Add(_cmd, "points", "");
+        }
+
+        public void Insert(string bucket, ReadOnlySpan<byte> pointsUtf8)
+        {
+            _bucket.Value = bucket;
+            _points.Value = Encoding.UTF8.GetString(pointsUtf8);
+            _cmd.ExecuteNonQuery();
+        }
+
+        public void Dispose() => _cmd.Dispose();
+    }
+
+    /// <summary>Notes a point (on the thread that makes the chunk rows); nothing when the ids were given as keys.</summary>
     public void Add(string pointId, long index)
     {
-        if (_unwritable)
+        if (_unwritable || _givenKeys is not null)
         {
             return;
         }
@@ -73,68 +128,122 @@ internal sealed class PointIdBuckets
     }
 
     /// <summary>Writes the groups and the marker, in the register transaction; nothing when an id could not be written.</summary>
-    public void Write(DbConnection c, DbTransaction tx, string sweepId)
+    public void Write(IRowWriter writer)
     {
+        ArgumentNullException.ThrowIfNull(writer);
         if (_unwritable)
         {
             return;
         }
 
-        using var cmd = SqlSweepCatalog.Command(c, tx, "INSERT INTO latsweep_point_buckets (sweep_id, bucket, points) VALUES (@sweep, @bucket, @points)");
-        SqlSweepCatalog.Add(cmd, "sweep", sweepId);
-        var bucket = SqlSweepCatalog.Add(cmd, "bucket", "");
-        var points = SqlSweepCatalog.Add(cmd, "points", "");
-        var text = new StringBuilder();
+        // A group's text is made in one UTF-8 buffer used again for every group: at 10^7 points a group's
+        // text is ~60 KB, and 4,096 of them as strings were ~500 MB of large objects left to the next full collection.
+        var text = new ArrayBufferWriter<byte>(1 << 16);
         long count;
-        if (_texts is { } texts)
+        if (_givenKeys is { } given)
+        {
+            count = WriteGivenKeys(given.Span, _entriesPerPass, writer, text);
+        }
+        else if (_texts is { } texts)
         {
             texts.Sort((a, b) => string.CompareOrdinal(a.Id, b.Id));
             for (var i = 0; i < texts.Count;)
             {
                 var name = BucketOf(texts[i].Id);
-                text.Clear();
+                text.ResetWrittenCount();
                 for (; i < texts.Count && BucketOf(texts[i].Id) == name; i++)
                 {
-                    text.Append(texts[i].Id).Append(' ').Append(texts[i].Index.ToString(CultureInfo.InvariantCulture)).Append('\n');
+                    AppendLine(text, texts[i].Id, texts[i].Index);
                 }
 
-                Insert(name);
+                writer.Insert(name, text.WrittenSpan);
             }
 
             count = texts.Count;
         }
         else
         {
-            // Keys sort as their ids do (fixed-width lower-case hex); a group is the key's top 12 bits (3 hex digits).
-            var keys = System.Runtime.InteropServices.CollectionsMarshal.AsSpan(_keys);
-            keys.Sort((a, b) => a.Key.CompareTo(b.Key));
-            Span<char> id = stackalloc char[16];
-            for (var i = 0; i < keys.Length;)
-            {
-                var group = keys[i].Key >> 52;
-                text.Clear();
-                for (; i < keys.Length && keys[i].Key >> 52 == group; i++)
-                {
-                    keys[i].Key.TryFormat(id, out _, "x16", CultureInfo.InvariantCulture);
-                    text.Append(id).Append(' ').Append(keys[i].Index.ToString(CultureInfo.InvariantCulture)).Append('\n');
-                }
+            WriteKeys(System.Runtime.InteropServices.CollectionsMarshal.AsSpan(_keys), writer, text);
+            count = _keys.Count;
+        }
 
-                Insert(PointIdentity.IdText(group << 52)[..PrefixLength]);
+        text.ResetWrittenCount();
+        Encoding.UTF8.GetBytes(count.ToString(CultureInfo.InvariantCulture), text);
+        writer.Insert(Marker, text.WrittenSpan);
+    }
+
+    /// <summary>
+    /// The groups of ids given as keys, in passes over them that each take the next groups whose points
+    /// together are at most <paramref name="entriesPerPass"/> (a group larger than that alone): what a pass holds
+    /// does not grow with the sweep. Returns the number of points.
+    /// </summary>
+    private static long WriteGivenKeys(ReadOnlySpan<ulong> keys, int entriesPerPass, IRowWriter writer, ArrayBufferWriter<byte> text)
+    {
+        var perGroup = new int[GroupCount];
+        for (var i = 0; i < keys.Length; i++)
+        {
+            perGroup[keys[i] >> 52]++;
+        }
+
+        var pass = new List<(ulong Key, long Index)>(Math.Min(keys.Length, entriesPerPass));
+        for (var first = 0; first < GroupCount;)
+        {
+            var end = first;
+            var entries = 0L;
+            while (end < GroupCount && (end == first || entries + perGroup[end] <= entriesPerPass))
+            {
+                entries += perGroup[end++];
             }
 
-            count = keys.Length;
+            pass.Clear();
+            var (low, high) = ((ulong)first, (ulong)end);
+            for (var i = 0; i < keys.Length; i++)
+            {
+                var group = keys[i] >> 52;
+                if (group >= low && group < high)
+                {
+                    pass.Add((keys[i], i));
+                }
+            }
+
+            WriteKeys(System.Runtime.InteropServices.CollectionsMarshal.AsSpan(pass), writer, text);
+            first = end;
         }
 
-        void Insert(string name)
+        return keys.Length;
+    }
+
+    /// <summary>The groups of <paramref name="keys"/> (sorted here), each as one row.</summary>
+    private static void WriteKeys(Span<(ulong Key, long Index)> keys, IRowWriter writer, ArrayBufferWriter<byte> text)
+    {
+        // Keys sort as their ids do (fixed-width lower-case hex); a group is the key's top 12 bits (3 hex digits).
+        keys.Sort((a, b) => a.Key.CompareTo(b.Key));
+        for (var i = 0; i < keys.Length;)
         {
-            bucket.Value = name;
-            points.Value = text.ToString();
-            cmd.ExecuteNonQuery();
-        }
+            var group = keys[i].Key >> 52;
+            text.ResetWrittenCount();
+            for (; i < keys.Length && keys[i].Key >> 52 == group; i++)
+            {
+                var line = text.GetSpan(16 + 1 + 20 + 1);
+                keys[i].Key.TryFormat(line, out _, "x16", CultureInfo.InvariantCulture);
+                line[16] = (byte)' ';
+                keys[i].Index.TryFormat(line[17..], out var digits, default, CultureInfo.InvariantCulture);
+                line[17 + digits] = (byte)'\n';
+                text.Advance(17 + digits + 1);
+            }
 
-        bucket.Value = Marker;
-        points.Value = count.ToString(CultureInfo.InvariantCulture);
-        cmd.ExecuteNonQuery();
+            writer.Insert(PointIdentity.IdText(group << 52)[..PrefixLength], text.WrittenSpan);
+        }
+    }
+
+    private static void AppendLine(ArrayBufferWriter<byte> text, string id, long index)
+    {
+        Encoding.UTF8.GetBytes(id, text);
+        var line = text.GetSpan(1 + 20 + 1);
+        line[0] = (byte)' ';
+        index.TryFormat(line[1..], out var digits, default, CultureInfo.InvariantCulture);
+        line[1 + digits] = (byte)'\n';
+        text.Advance(1 + digits + 1);
     }
 
     /// <summary>The group an id belongs to.</summary>

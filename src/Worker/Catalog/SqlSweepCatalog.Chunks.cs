@@ -41,6 +41,10 @@ public abstract partial class SqlSweepCatalog
     protected virtual IChunkRowInserter ChunkRowInserter(DbConnection c, DbTransaction tx, string sweepId, string state) =>
         new CommandChunkRowInserter(c, tx, sweepId, state);
 
+    /// <summary>A writer of <paramref name="sweepId"/>'s point-id groups (<see cref="PointIdBuckets"/>): here by an ADO.NET command.</summary>
+    private protected virtual PointIdBuckets.IRowWriter BucketRowWriter(DbConnection c, DbTransaction tx, string sweepId) =>
+        new PointIdBuckets.CommandRowWriter(c, tx, sweepId);
+
     private sealed class CommandChunkRowInserter : IChunkRowInserter
     {
         private readonly DbCommand _cmd;

@@ -104,10 +104,14 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         var waiting = Text(PointState.Waiting);
-        var buckets = new PointIdBuckets(sweep.Points.Count);
+        var buckets = sweep.PointKeys is { } keys ? new PointIdBuckets(keys) : new PointIdBuckets(sweep.Points.Count);
         var values = new SweptValueCounts(new HashSet<string>(sweep.Axes.Select(a => a.ColumnName), StringComparer.Ordinal));
         var written = WriteChunks(c, tx, sweep, waiting, buckets, values);
-        buckets.Write(c, tx, sweep.SweepId);
+        using (var bucketRows = BucketRowWriter(c, tx, sweep.SweepId))
+        {
+            buckets.Write(bucketRows);
+        }
+
         if (written != chunkCount)
         {
             Execute(c, tx, "UPDATE latsweep_sweeps SET chunk_count = @chunks WHERE sweep_id = @id", ("chunks", (long)written), ("id", sweep.SweepId));

@@ -19,7 +19,8 @@ internal static class SweepCommands
     }
 
     /// <summary>
-    /// Plans the job file, forecasts its failures, opens the store and submits, leaving the plan only in <paramref name="plans"/>:
+    /// Plans the job file, forecasts its failures, opens the store and submits, leaving the plan only in <paramref name="plans"/>
+    /// (a lazy one without the point keys when it can, <see cref="JobFilePlanSource.AddSubmitted"/>):
     /// a local of <see cref="Run"/> stayed on its stack frame through the merge, after <see cref="WorkSweep"/> had released it
     /// (8 MB of point keys at 10^6 points, bench/README round 21). The caller disposes the session.
     /// </summary>
@@ -50,7 +51,11 @@ internal static class SweepCommands
             }
 
             ReportLostResults(submitted, context);
-            plans.Add(submitted.Sweep.SweepId, plan);
+            using (StageTimings.Measure("run: keep the plan for the workers"))
+            {
+                plans.AddSubmitted(submitted.Sweep.SweepId, plan);
+            }
+
             return (session, submitted.Sweep.SweepId);
         }
         catch

@@ -6,8 +6,8 @@ namespace LatticeSweep.Worker.Output;
 
 /// <summary>
 /// Writes one table's rows for one chunk as <c>&lt;table&gt;/part-&lt;chunk&gt;.parquet</c> in two steps:
-/// <see cref="PrepareAsync"/> writes a hidden temporary file in the same folder and flushes it to
-/// disk; <see cref="PreparedPart.Commit"/> renames it over the final name. The rename is atomic, so
+/// <see cref="PrepareAsync"/> writes a temporary file in the table's hidden <see cref="WritingFolderName"/>
+/// folder and flushes it to disk; <see cref="PreparedPart.Commit"/> renames it over the final name. The rename is atomic, so
 /// a reader sees either the old part or the new one, never half a file; and because the name is
 /// the chunk id, a chunk that runs twice (a repeated queue delivery, a resume) replaces its own
 /// part instead of adding a second copy of its rows. A write that fails (disk full, read-only
@@ -20,6 +20,15 @@ internal static class ParquetPartWriter
 
     public static string PartFileName(string chunkId) => $"part-{chunkId}.parquet";
 
+    /// <summary>
+    /// The table's sub-folder of parts being written (on the table's file system, so the commit is a rename). It
+    /// holds only temporaries in flight and those a killed writer left, so removing a chunk's stale ones lists a few
+    /// names, not every part of the table (a listing per part written was quadratic in the parts: ~2,800 parts
+    /// a table at 10^7 points, and a listing of a shared folder is a round trip on a network file system).
+    /// A merge exchanges the table folder with a new one, which drops it with whatever it held.
+    /// </summary>
+    public const string WritingFolderName = ".writing";
+
     /// <summary>Writes and commits one part at once.</summary>
     public static async Task WriteAsync(string tableFolder, string chunkId, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
     {
@@ -30,10 +39,10 @@ internal static class ParquetPartWriter
     /// <summary>Writes the part to its temporary file; nothing is visible until <see cref="PreparedPart.Commit"/>.</summary>
     public static async Task<PreparedPart> PrepareAsync(string tableFolder, string chunkId, TableRows rows, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
     {
-        Directory.CreateDirectory(tableFolder);
+        var writing = Directory.CreateDirectory(Path.Combine(tableFolder, WritingFolderName)).FullName;
         var final = Path.Combine(tableFolder, PartFileName(chunkId));
-        RemoveStaleTemporaries(tableFolder, chunkId);
-        var temporary = Path.Combine(tableFolder, $".part-{chunkId}.{Guid.NewGuid():N}.tmp");
+        RemoveStaleTemporaries(writing, chunkId);
+        var temporary = Path.Combine(writing, $".part-{chunkId}.{Guid.NewGuid():N}.tmp");
         try
         {
             await using (var file = new FileStream(temporary, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None))
@@ -117,9 +126,13 @@ internal static class ParquetPartWriter
         _ => throw new InvalidOperationException($"unknown column type {def.Type}"),
     };
 
-    private static void RemoveStaleTemporaries(string folder, string chunkId)
+    /// <summary>
+    /// Removes what an earlier run of the chunk left in <paramref name="writing"/> (a writer killed between
+    /// the temporary file and its rename), so a chunk run again leaves no copy of its rows behind.
+    /// </summary>
+    private static void RemoveStaleTemporaries(string writing, string chunkId)
     {
-        foreach (var stale in Directory.EnumerateFiles(folder, $".part-{chunkId}.*.tmp"))
+        foreach (var stale in Directory.EnumerateFiles(writing, $".part-{chunkId}.*.tmp"))
         {
             TryDelete(stale);
         }

@@ -17,6 +17,38 @@ public sealed class JobFilePlanSource : IPlanSource
 
     public void Add(string sweepId, SweepPlan plan) => _plans[sweepId] = plan;
 
+    /// <summary>
+    /// Keeps the plan this process has just submitted as <paramref name="sweepId"/> (<c>run</c>). When the submit kept
+    /// every point of the expansion (a definition hash), a lazy plan of the same definition is kept instead, finding
+    /// a claimed point by its index and taking its id as registered (<see cref="PlanPoints.WithIdsAsRegistered"/>):
+    /// the plan's 8-byte keys (80 MB at 10^7 points) are then not held while the workers solve, and no id is
+    /// computed twice. The sweep id was derived from this plan's spec hash, which covers every id in plan order.
+    /// </summary>
+    public void AddSubmitted(string sweepId, SweepPlan plan)
+    {
+        ArgumentNullException.ThrowIfNull(plan);
+        if (plan.DefinitionHash is { } definition)
+        {
+            SweepPlan? lazy = null;
+            try
+            {
+                lazy = JobFileLoader.Load(plan.SourcePath, plan.SpecText, lazy: true);
+            }
+            catch (JobFileException)
+            {
+                // A candidates file gone since the submit, say: the plan in hand serves as it is.
+            }
+
+            if (lazy is not null && string.Equals(lazy.DefinitionHash, definition, StringComparison.Ordinal))
+            {
+                _plans[sweepId] = lazy with { SpecHash = plan.SpecHash, Points = lazy.Points.WithIdsAsRegistered() };
+                return;
+            }
+        }
+
+        _plans[sweepId] = plan;
+    }
+
     public void Release(string sweepId) => _plans.TryRemove(sweepId, out _);
 
     public SweepPlan Get(SweepRecord sweep)

@@ -58,10 +58,21 @@ public sealed class SweepSubmitter
         var points = plan.Points;
         using (StageTimings.Measure("submit: estimate and chunk"))
         {
-            // Estimates are independent (and shared by points of one cost shape): on every core; chunked in plan order after.
-            var seconds = new double[points.Count];
-            Parallel.For(0, points.Count, i => seconds[i] = _solver.EstimateSeconds(plan, i));
-            chunkStarts = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).ChunkStarts(points.Count, i => seconds[i]);
+            // Estimates are independent (and shared by points of one cost shape): on every core, a block at a time
+            // as the chunker reads them in plan order (an array of every point's estimate was 80 MB at 10^7 points).
+            var seconds = new double[Math.Min(points.Count, EstimateBlock)];
+            var blockStart = -seconds.Length;
+            chunkStarts = _chunks.ForOutputPerPoint(OutputBytesPerPoint(plan)).ChunkStarts(points.Count, i =>
+            {
+                if (i - blockStart >= seconds.Length)
+                {
+                    blockStart = i;
+                    var start = i;
+                    Parallel.For(0, Math.Min(seconds.Length, points.Count - start), j => seconds[j] = _solver.EstimateSeconds(plan, start + j));
+                }
+
+                return seconds[i - blockStart];
+            });
         }
 
         var chunkIds = Enumerable.Range(0, chunkStarts.Length).Select(ChunkPlanner.ChunkId).ToList();
@@ -80,6 +91,7 @@ public sealed class SweepSubmitter
             // Made as the catalog reads them: a million points are never held at once (the chunks' ids, a few hundred, are).
             Points = new ComputedList<NewPoint>(points.Count, i =>
                 new NewPoint(points.IdAt(i), i, chunkIds[ChunkPlanner.ChunkOf(chunkStarts, i)], points.ParametersAt(i))),
+            PointKeys = points.Keys,
             ChunkCount = chunkStarts.Length,
             DefinitionHash = plan.DefinitionHash,
         };
@@ -165,6 +177,9 @@ public sealed class SweepSubmitter
 
         return most;
     }
+
+    /// <summary>Points estimated at a time (on every core) while the chunker reads the estimates in plan order.</summary>
+    private const int EstimateBlock = 1 << 16;
 
     /// <summary>Chunks enqueued per storage transaction.</summary>
     private const int ChunksPerTransaction = 1000;

@@ -192,6 +192,26 @@ public sealed class ChunkOutputTests : IDisposable
     }
 
     [Fact]
+    public async Task A_chunk_run_again_removes_what_a_killed_writer_of_it_left_and_nothing_of_other_chunks()
+    {
+        var (sweep, chunks, _) = Setup();
+        var writing = Directory.CreateDirectory(Path.Combine(sweep.Folder, "points", ParquetPartWriter.WritingFolderName)).FullName;
+        var left = Path.Combine(writing, $".part-{chunks[0]}.{Guid.NewGuid():N}.tmp");
+        var otherChunks = Path.Combine(writing, $".part-{chunks[1]}.{Guid.NewGuid():N}.tmp");
+        File.WriteAllText(left, "half a part");
+        File.WriteAllText(otherChunks, "another chunk's part in flight");
+
+        await Runner(new FakeSolver()).RunAsync(sweep.Id, chunks[0], default);
+
+        Assert.False(File.Exists(left));
+        Assert.True(File.Exists(otherChunks));
+        Assert.True(File.Exists(Path.Combine(sweep.Folder, "points", $"part-{chunks[0]}.parquet")));
+        Assert.Empty(Directory.EnumerateFiles(Path.Combine(sweep.Folder, "points"), "*.tmp"));
+        using var db = new DuckDb();
+        Assert.Equal(2L, db.Scalar($"SELECT count(*) FROM {DuckDb.Glob(Path.Combine(sweep.Folder, "points"))}"));
+    }
+
+    [Fact]
     public async Task Model_and_engine_failures_are_recorded_once_and_not_retried()
     {
         var (sweep, chunks, _) = Setup();

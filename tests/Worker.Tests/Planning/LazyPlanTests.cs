@@ -127,4 +127,84 @@ public sealed class LazyPlanTests : IDisposable
         var wrongSpec = Record(null) with { SpecHash = "0000000000000000" };
         Assert.Throws<PlanUnavailableException>(() => new JobFilePlanSource().Get(wrongSpec));
     }
+
+    [Theory]
+    [InlineData(Grid)]
+    [InlineData(Drawn)]
+    public void The_submitting_process_keeps_a_lazy_plan_that_takes_ids_as_registered_and_has_every_point(string sweep)
+    {
+        var path = _dir.Write("job.toml", Some.ChainJob(sweep: sweep));
+        var submitted = JobFileLoader.Load(path);
+        var source = new JobFilePlanSource();
+        source.AddSubmitted("the-sweep", submitted);
+        var kept = source.Get(new SweepRecord
+        {
+            SweepId = "the-sweep",
+            Name = submitted.SweepName,
+            Description = "",
+            State = SweepState.Queued,
+            SpecHash = "not read: the plan was added",
+            SourcePath = "/nowhere/job.toml",
+            SpecText = "",
+            OutputFolder = _dir.Path,
+            Axes = submitted.Axes,
+            Tables = ["points"],
+            EngineVersion = "9.9.9-test",
+            CreatedAt = DateTimeOffset.UnixEpoch,
+            ChunkCount = 1,
+            Counts = SweepCounts.Empty,
+        });
+
+        Assert.NotSame(submitted, kept);
+        Assert.Equal(submitted.SpecHash, kept.SpecHash);
+        Assert.Equal(submitted.DefinitionHash, kept.DefinitionHash);
+        for (var i = 0; i < submitted.Points.Count; i++)
+        {
+            // Found at its index with the id the catalog hands over (the submitted plan's), with the submitted parameters.
+            Assert.True(kept.Points.TryFind(submitted.Points[i].PointId, i, out var found));
+            Assert.Equal((submitted.Points[i].PointId, i), (found.PointId, found.Index));
+            Assert.Equal(submitted.Points[i].Parameters.Select(kv => $"{kv.Key}={kv.Value}"), found.Parameters.Select(kv => $"{kv.Key}={kv.Value}"));
+
+            // The ids it computes itself, where it must (a failure's candidates row), are the submitted ones.
+            Assert.Equal(submitted.Points[i].PointId, kept.Points.IdAt(i));
+        }
+
+        Assert.False(kept.Points.TryFind(submitted.Points[0].PointId, submitted.Points.Count, out _));
+        Assert.False(kept.Points.TryFind(submitted.Points[0].PointId, -1, out _));
+    }
+
+    [Fact]
+    public void A_submitted_plan_that_collapsed_points_is_kept_as_it_is()
+    {
+        var path = _dir.Write("job.toml", Some.ChainJob(sweep: """
+            combine = "zip"
+            [[sweep.axes]]
+            path = "model.sites.A.mass_amu"
+            values = [1, 2, 1]
+            [[sweep.axes]]
+            path = "model.sites.B.mass_amu"
+            values = [5, 6, 5]
+            """));
+        var submitted = JobFileLoader.Load(path);
+        var source = new JobFilePlanSource();
+        source.AddSubmitted("the-sweep", submitted);
+
+        Assert.Same(submitted, source.Get(new SweepRecord
+        {
+            SweepId = "the-sweep",
+            Name = submitted.SweepName,
+            Description = "",
+            State = SweepState.Queued,
+            SpecHash = submitted.SpecHash,
+            SourcePath = path,
+            SpecText = submitted.SpecText,
+            OutputFolder = _dir.Path,
+            Axes = submitted.Axes,
+            Tables = ["points"],
+            EngineVersion = "9.9.9-test",
+            CreatedAt = DateTimeOffset.UnixEpoch,
+            ChunkCount = 1,
+            Counts = SweepCounts.Empty,
+        }));
+    }
 }

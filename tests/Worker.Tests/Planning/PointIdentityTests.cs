@@ -75,6 +75,26 @@ public sealed class PointIdentityTests : IDisposable
     }
 
     [Fact]
+    public void Each_repeated_point_is_kept_at_its_first_place_in_plan_order_with_its_own_values()
+    {
+        var plan = Some.Load(_dir, Some.ChainJob(sweep: """
+            combine = "zip"
+            [[sweep.axes]]
+            path = "model.sites.A.mass_amu"
+            values = [3, 1, 2, 1, 3, 4, 2, 1]
+            [[sweep.axes]]
+            path = "model.sites.B.mass_amu"
+            values = [7, 5, 6, 5, 7, 8, 6, 5]
+            """));
+
+        Assert.Equal(4, plan.DuplicatePointsCollapsed);
+        Assert.Equal([0, 1, 2, 3], plan.Points.Select(p => p.Index));
+        Assert.Equal(["3/7", "1/5", "2/6", "4/8"], plan.Points.Select(p => string.Join("/", p.Parameters.OrderBy(kv => kv.Key, StringComparer.Ordinal).Select(kv => kv.Value))));
+        Assert.Equal([0L, 1L, 2L, 5L], Enumerable.Range(0, 4).Select(plan.Points.ExpansionPositionOf));
+        Assert.Equal(4, plan.Points.Select(p => p.PointId).Distinct().Count());
+    }
+
+    [Fact]
     public void Ids_do_not_depend_on_the_culture()
     {
         var text = Some.ChainJob(sweep: Axis);
