@@ -230,6 +230,8 @@ public sealed class ChunkRunner
             _log.Error("Chunk {ChunkId} of sweep {SweepId} cannot run: {Reason}", chunkId, sweep.SweepId, ex.Message);
         }
 
+        // What the chunk keeps of each result until its parts are written: only what its tables read.
+        var outputs = ChunkOutputWriter.OutputsOf(sweep);
         var catalogPoints = plan is null ? _catalog.GetChunkPoints(sweep.SweepId, chunkId).ToDictionary(p => p.PointId, StringComparer.Ordinal) : null;
         foreach (var claimed in claim.Points)
         {
@@ -260,6 +262,7 @@ public sealed class ChunkRunner
                     (retry, delay, ex) => _log.Warning("Point {PointId} of sweep {SweepId}: I/O fault, retry {Retry} of {Retries} in {DelaySeconds} s: {Error}",
                         point.PointId, sweep.SweepId, retry, _retry.Retries, delay.TotalSeconds, ex.Message),
                     ct).ConfigureAwait(false);
+                result = KeptResult.For(result, outputs);
                 Add(outcomes, sweep.SweepId, result.Summary.Stable
                     ? Outcome(point, claimed, chunkId, started, clock, PointState.Done, null, null, result)
                     : Outcome(point, claimed, chunkId, started, clock, PointState.Unstable, null, Instability.Describe(result.Summary), result));

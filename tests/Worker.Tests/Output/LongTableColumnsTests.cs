@@ -118,7 +118,7 @@ public sealed class LongTableColumnsTests : IDisposable
         Assert.NotNull(LongTableColumns.Modes(schemas.Modes, outcomes));
     }
 
-    private static void AssertSameCells(IReadOnlyList<TableRows> generic, IReadOnlyList<TableRows> typed)
+    internal static void AssertSameCells(IReadOnlyList<TableRows> generic, IReadOnlyList<TableRows> typed)
     {
         Assert.Equal(generic.Select(t => t.Table), typed.Select(t => t.Table));
         foreach (var (g, t) in generic.Zip(typed))
@@ -137,7 +137,7 @@ public sealed class LongTableColumnsTests : IDisposable
     }
 
     /// <summary>Every point (or the first <paramref name="take"/>) solved by the Engine, in point-id order as a chunk passes them; one marked unstable and one failed without a result, so the tables' point filters are crossed too.</summary>
-    private static List<PointOutcome> Outcomes(SweepPlan plan, int? take = null)
+    internal static List<PointOutcome> Outcomes(SweepPlan plan, int? take = null)
     {
         var start = new DateTimeOffset(2026, 1, 2, 3, 4, 5, TimeSpan.Zero);
         var outcomes = new List<PointOutcome>();
