@@ -95,24 +95,7 @@ public sealed class LazyPlanTests : IDisposable
     {
         var path = _dir.Write("job.toml", Some.ChainJob(sweep: Grid));
         var submitted = JobFileLoader.Load(path);
-        SweepRecord Record(string? definition) => new()
-        {
-            SweepId = "test-chain-" + submitted.SpecHash[..8],
-            Name = submitted.SweepName,
-            Description = "",
-            State = SweepState.Queued,
-            SpecHash = submitted.SpecHash,
-            DefinitionHash = definition,
-            SourcePath = path,
-            SpecText = submitted.SpecText,
-            OutputFolder = _dir.Path,
-            Axes = submitted.Axes,
-            Tables = ["points"],
-            EngineVersion = "9.9.9-test",
-            CreatedAt = DateTimeOffset.UnixEpoch,
-            ChunkCount = 1,
-            Counts = SweepCounts.Empty,
-        };
+        SweepRecord Record(string? definition) => RecordOf(submitted, "test-chain-" + submitted.SpecHash[..8]) with { DefinitionHash = definition, SourcePath = path };
 
         var plan = new JobFilePlanSource().Get(Record(submitted.DefinitionHash));
         Assert.Equal(submitted.SpecHash, plan.SpecHash);
@@ -137,23 +120,7 @@ public sealed class LazyPlanTests : IDisposable
         var submitted = JobFileLoader.Load(path);
         var source = new JobFilePlanSource();
         source.AddSubmitted("the-sweep", submitted);
-        var kept = source.Get(new SweepRecord
-        {
-            SweepId = "the-sweep",
-            Name = submitted.SweepName,
-            Description = "",
-            State = SweepState.Queued,
-            SpecHash = "not read: the plan was added",
-            SourcePath = "/nowhere/job.toml",
-            SpecText = "",
-            OutputFolder = _dir.Path,
-            Axes = submitted.Axes,
-            Tables = ["points"],
-            EngineVersion = "9.9.9-test",
-            CreatedAt = DateTimeOffset.UnixEpoch,
-            ChunkCount = 1,
-            Counts = SweepCounts.Empty,
-        });
+        var kept = source.Get(RecordOf(submitted, "the-sweep") with { SpecHash = "not read: the plan was added", SourcePath = "/nowhere/job.toml", SpecText = "" });
 
         Assert.NotSame(submitted, kept);
         Assert.Equal(submitted.SpecHash, kept.SpecHash);
@@ -189,22 +156,25 @@ public sealed class LazyPlanTests : IDisposable
         var source = new JobFilePlanSource();
         source.AddSubmitted("the-sweep", submitted);
 
-        Assert.Same(submitted, source.Get(new SweepRecord
-        {
-            SweepId = "the-sweep",
-            Name = submitted.SweepName,
-            Description = "",
-            State = SweepState.Queued,
-            SpecHash = submitted.SpecHash,
-            SourcePath = path,
-            SpecText = submitted.SpecText,
-            OutputFolder = _dir.Path,
-            Axes = submitted.Axes,
-            Tables = ["points"],
-            EngineVersion = "9.9.9-test",
-            CreatedAt = DateTimeOffset.UnixEpoch,
-            ChunkCount = 1,
-            Counts = SweepCounts.Empty,
-        }));
+        Assert.Same(submitted, source.Get(RecordOf(submitted, "the-sweep") with { SourcePath = path }));
     }
+
+    /// <summary>The catalog's record of <paramref name="plan"/> submitted as <paramref name="sweepId"/> (no definition hash).</summary>
+    private SweepRecord RecordOf(SweepPlan plan, string sweepId) => new()
+    {
+        SweepId = sweepId,
+        Name = plan.SweepName,
+        Description = "",
+        State = SweepState.Queued,
+        SpecHash = plan.SpecHash,
+        SourcePath = plan.SourcePath,
+        SpecText = plan.SpecText,
+        OutputFolder = _dir.Path,
+        Axes = plan.Axes,
+        Tables = ["points"],
+        EngineVersion = "9.9.9-test",
+        CreatedAt = DateTimeOffset.UnixEpoch,
+        ChunkCount = 1,
+        Counts = SweepCounts.Empty,
+    };
 }
