@@ -224,12 +224,9 @@ internal sealed class PointIdBuckets
             text.ResetWrittenCount();
             for (; i < keys.Length && keys[i].Key >> 52 == group; i++)
             {
-                var line = text.GetSpan(16 + 1 + 20 + 1);
-                keys[i].Key.TryFormat(line, out _, "x16", CultureInfo.InvariantCulture);
-                line[16] = (byte)' ';
-                keys[i].Index.TryFormat(line[17..], out var digits, default, CultureInfo.InvariantCulture);
-                line[17 + digits] = (byte)'\n';
-                text.Advance(17 + digits + 1);
+                keys[i].Key.TryFormat(text.GetSpan(16), out _, "x16", CultureInfo.InvariantCulture);
+                text.Advance(16);
+                AppendIndex(text, keys[i].Index);
             }
 
             writer.Insert(PointIdentity.IdText(group << 52)[..PrefixLength], text.WrittenSpan);
@@ -239,6 +236,12 @@ internal sealed class PointIdBuckets
     private static void AppendLine(ArrayBufferWriter<byte> text, string id, long index)
     {
         Encoding.UTF8.GetBytes(id, text);
+        AppendIndex(text, index);
+    }
+
+    /// <summary>The end of an "id index" line: a space, the index, a newline.</summary>
+    private static void AppendIndex(ArrayBufferWriter<byte> text, long index)
+    {
         var line = text.GetSpan(1 + 20 + 1);
         line[0] = (byte)' ';
         index.TryFormat(line[1..], out var digits, default, CultureInfo.InvariantCulture);

@@ -37,6 +37,17 @@ public sealed class LazyPlanTests : IDisposable
         range = { from = 5.0, to = 50.0 }
         """;
 
+    /// <summary>Points 1 and 3 the same: the planner collapses them.</summary>
+    private const string Repeating = """
+        combine = "zip"
+        [[sweep.axes]]
+        path = "model.sites.A.mass_amu"
+        values = [1, 2, 1]
+        [[sweep.axes]]
+        path = "model.sites.B.mass_amu"
+        values = [5, 6, 5]
+        """;
+
     [Theory]
     [InlineData(Grid)]
     [InlineData(Drawn)]
@@ -76,15 +87,7 @@ public sealed class LazyPlanTests : IDisposable
     [Fact]
     public void A_plan_that_collapsed_points_has_no_definition_and_is_planned_in_full_by_workers()
     {
-        var plan = Some.Load(_dir, Some.ChainJob(sweep: """
-            combine = "zip"
-            [[sweep.axes]]
-            path = "model.sites.A.mass_amu"
-            values = [1, 2, 1]
-            [[sweep.axes]]
-            path = "model.sites.B.mass_amu"
-            values = [5, 6, 5]
-            """));
+        var plan = Some.Load(_dir, Some.ChainJob(sweep: Repeating));
 
         Assert.Equal(1, plan.DuplicatePointsCollapsed);
         Assert.Null(plan.DefinitionHash);
@@ -143,15 +146,7 @@ public sealed class LazyPlanTests : IDisposable
     [Fact]
     public void A_submitted_plan_that_collapsed_points_is_kept_as_it_is()
     {
-        var path = _dir.Write("job.toml", Some.ChainJob(sweep: """
-            combine = "zip"
-            [[sweep.axes]]
-            path = "model.sites.A.mass_amu"
-            values = [1, 2, 1]
-            [[sweep.axes]]
-            path = "model.sites.B.mass_amu"
-            values = [5, 6, 5]
-            """));
+        var path = _dir.Write("job.toml", Some.ChainJob(sweep: Repeating));
         var submitted = JobFileLoader.Load(path);
         var source = new JobFilePlanSource();
         source.AddSubmitted("the-sweep", submitted);
