@@ -29,10 +29,20 @@ public static class ChunkOutputWriter
         var prepared = new List<PreparedPart>();
         try
         {
+            var rowed = ChunkTables.Rowed(outcomes);
+            using (Queue.StageTimings.Measure("parquet: write parts"))
+            {
+                // points/ first, a column at a time with its facts (its own column summary, as a merged file carries it, and its
+                // first rows in plan order: a running sweep's page sums the parts' footers instead of reading their rows).
+                var points = schemas.Points.ColumnsOf(rowed);
+                prepared.Add(await ParquetPartWriter.PrepareWithFactsAsync(SweepFolder.Table(sweep.OutputFolder, points.Table), chunkId, points,
+                    new Dictionary<string, string>(metadata) { ["latticesweep.table"] = points.Table }, ct).ConfigureAwait(false));
+            }
+
             IReadOnlyList<TableRows> tables;
             using (Queue.StageTimings.Measure("rows: build"))
             {
-                tables = ChunkTables.Build(schemas, outputs, outcomes);
+                tables = ChunkTables.OtherTables(schemas, outputs, rowed);
             }
 
             foreach (var rows in tables)
@@ -43,19 +53,6 @@ public static class ChunkOutputWriter
                 // from an earlier run of the chunk is replaced).
                 var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
                 var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
-                if (rows.Table == TableNames.Points)
-                {
-                    // The part's own column summary, as a merged file carries it, and its first rows in plan
-                    // order: a running sweep's page sums the parts' footers instead of reading their rows
-                    // (they live in the file, so they describe exactly these rows).
-                    using var summing = Queue.StageTimings.Measure("parquet: part facts");
-                    meta[ColumnSummary.Key] = ColumnSummary.Of(rows).ToJson();
-                    if (PartFirstRows.Json(rows) is { } firstRows)
-                    {
-                        meta[PartFirstRows.Key] = firstRows;
-                    }
-                }
-
                 prepared.Add(await ParquetPartWriter.PrepareAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false));
             }
         }

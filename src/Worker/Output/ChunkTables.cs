@@ -16,11 +16,25 @@ internal static class ChunkTables
     /// </summary>
     internal static IReadOnlyList<TableRows> Build(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> outcomes, bool typedColumns)
     {
-        // Points without a result row (I/O or input failures) are left out: resume runs them again.
-        // In point id order, so every part is sorted by point as the merged files are (TableMerger merges sorted runs).
-        var rowed = outcomes.Where(o => o.State is PointState.Done or PointState.Unstable || (o.State == PointState.Failed && o.FailureKind is { } k && k.HasResult()))
+        ArgumentNullException.ThrowIfNull(schemas);
+        var rowed = Rowed(outcomes);
+        return [schemas.Points.Rows(rowed), .. OtherTables(schemas, outputs, rowed, typedColumns)];
+    }
+
+    /// <summary>
+    /// The outcomes that have rows, in point id order: points without a result row (I/O or input failures) are left
+    /// out (resume runs them again), and every part is sorted by point as the merged files are (TableMerger merges sorted runs).
+    /// </summary>
+    public static IReadOnlyList<PointOutcome> Rowed(IReadOnlyList<PointOutcome> outcomes) =>
+        outcomes.Where(o => o.State is PointState.Done or PointState.Unstable || (o.State == PointState.Failed && o.FailureKind is { } k && k.HasResult()))
             .OrderBy(o => o.Point.PointId, StringComparer.Ordinal).ToList();
 
+    /// <summary>The rows of every table but points/ (<see cref="Build"/>'s second table on) from the outcomes <see cref="Rowed"/> keeps.</summary>
+    public static IReadOnlyList<TableRows> OtherTables(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> rowed) =>
+        OtherTables(schemas, outputs, rowed, typedColumns: true);
+
+    private static List<TableRows> OtherTables(ResultSchemas schemas, OutputSelection outputs, IReadOnlyList<PointOutcome> rowed, bool typedColumns)
+    {
         // An unstable model has no thermal state: only its points/ row and the tables of signed
         // frequencies (modes/, dispersion/: negative = imaginary) are written; sound speeds, DOS,
         // thermal functions, displacements and kappa would mislead (see README, Results).
@@ -28,7 +42,6 @@ internal static class ChunkTables
         var spectral = rowed.Where(o => o.Result is not null && o.State is PointState.Done or PointState.Unstable).ToList();
         var tables = new List<TableRows>
         {
-            schemas.Points.Rows(rowed),
             (typedColumns ? LongTableColumns.SoundSpeeds(schemas.SoundSpeeds, solved) : null) ?? schemas.SoundSpeeds.Rows(solved.SelectMany(o => o.Result!.Summary.SoundSpeeds.SelectMany(s =>
                 s.SpeedsMPerS.Select((v, i) => new RowOf<SoundSpeedValue>(o, new SoundSpeedValue(s.Direction, i, v)))))),
         };

@@ -20,43 +20,79 @@ internal static class PartFirstRows
     public static string? Json(TableRows rows)
     {
         ArgumentNullException.ThrowIfNull(rows);
-        var plan = -1;
+        if (Start(rows.Columns, rows.RowCount, c => rows.Values[c]) is not { } page)
+        {
+            return null;
+        }
+
         for (var c = 0; c < rows.Columns.Count; c++)
         {
-            if (rows.Columns[c].Name == FirstLoadFacts.PlanColumn)
+            page.Add(c, rows.Values[c]);
+        }
+
+        return page.Json();
+    }
+
+    /// <summary>
+    /// The entry of a part written a column at a time (<see cref="ParquetPartWriter"/>): the first rows are picked from the
+    /// plan column (<paramref name="column"/> is asked for it alone), then each column given to <see cref="Page.Add"/> in
+    /// the table's order adds its cells; null when the table has no plan index.
+    /// </summary>
+    public static Page? Start(IReadOnlyList<ColumnDef> columns, int rowCount, Func<int, Array> column)
+    {
+        ArgumentNullException.ThrowIfNull(columns);
+        ArgumentNullException.ThrowIfNull(column);
+        var plan = -1;
+        for (var c = 0; c < columns.Count; c++)
+        {
+            if (columns[c].Name == FirstLoadFacts.PlanColumn)
             {
                 plan = c;
             }
         }
 
-        if (plan < 0)
+        return plan < 0 ? null : new Page(columns, rowCount, column(plan));
+    }
+
+    /// <summary>The first rows of one part in plan order, and the cells of the columns given so far.</summary>
+    internal sealed class Page
+    {
+        private readonly IReadOnlyList<ColumnDef> _columns;
+        private readonly int _rowCount;
+        private readonly int[] _first;
+        private readonly long[] _indexes;
+        private readonly HashSet<string> _wanted;
+        private readonly Dictionary<string, object?[]> _cells = new(StringComparer.Ordinal);
+
+        internal Page(IReadOnlyList<ColumnDef> columns, int rowCount, Array planValues)
         {
-            return null;
+            _columns = columns;
+            _rowCount = rowCount;
+            long? IndexAt(int row) => planValues switch
+            {
+                long?[] l => l[row],
+                int?[] i => i[row],
+                _ => null,
+            };
+
+            // Rows with a plan index, by index then row (the table's plan order: an empty index sorts last, ties keep table order).
+            _first = Enumerable.Range(0, rowCount).Where(r => IndexAt(r) is not null).OrderBy(r => IndexAt(r)!.Value).ThenBy(r => r)
+                .Take(FirstLoadFacts.PageRowsKept).ToArray();
+            _indexes = _first.Select(r => IndexAt(r)!.Value).ToArray();
+            _wanted = new[] { MergedLayout.PointIdColumn, "state", "stable", "floppy" }.Concat(FirstLoadFacts.TableColumns).Append(FirstLoadFacts.ConductivityColumn)
+                .Concat(columns.Where(c => c.Description.StartsWith(FirstLoadFacts.SweptPrefix, StringComparison.Ordinal)).Select(c => c.Name))
+                .Distinct(StringComparer.Ordinal).ToHashSet(StringComparer.Ordinal);
         }
 
-        long? IndexAt(int row) => rows.Values[plan] switch
+        /// <summary>Takes the first rows' cells of column <paramref name="c"/> when the page shows it.</summary>
+        public void Add(int c, Array values)
         {
-            long?[] l => l[row],
-            int?[] i => i[row],
-            _ => null,
-        };
-
-        // Rows with a plan index, by index then row (the table's plan order: an empty index sorts last, ties keep table order).
-        var first = Enumerable.Range(0, rows.RowCount).Where(r => IndexAt(r) is not null).OrderBy(r => IndexAt(r)!.Value).ThenBy(r => r)
-            .Take(FirstLoadFacts.PageRowsKept).ToArray();
-        var wanted = new[] { MergedLayout.PointIdColumn, "state", "stable", "floppy" }.Concat(FirstLoadFacts.TableColumns).Append(FirstLoadFacts.ConductivityColumn)
-            .Concat(rows.Columns.Where(c => c.Description.StartsWith(FirstLoadFacts.SweptPrefix, StringComparison.Ordinal)).Select(c => c.Name))
-            .Distinct(StringComparer.Ordinal).ToHashSet(StringComparer.Ordinal);
-        var page = new Dictionary<string, object?[]>(StringComparer.Ordinal);
-        for (var c = 0; c < rows.Columns.Count; c++)
-        {
-            if (!wanted.Contains(rows.Columns[c].Name))
+            if (!_wanted.Contains(_columns[c].Name))
             {
-                continue;
+                return;
             }
 
-            var values = rows.Values[c];
-            var cells = first.Select(r => values switch
+            var cells = _first.Select(r => values switch
             {
                 string?[] s => s[r],
                 double?[] d => d[r],
@@ -65,29 +101,34 @@ internal static class PartFirstRows
                 bool?[] b => b[r],
                 _ => (object?)null,
             }).ToArray();
+
             // Times are left out, as a number JSON cannot hold (the page then reads those cells).
             if (values is not DateTime?[] && !cells.Any(x => x is double d && !double.IsFinite(d)))
             {
-                page[rows.Columns[c].Name] = cells;
+                _cells[_columns[c].Name] = cells;
             }
         }
 
-        using var buffer = new MemoryStream();
-        using (var json = new Utf8JsonWriter(buffer))
+        /// <summary>The footer entry, from the columns added (in the table's order).</summary>
+        public string Json()
         {
-            json.WriteStartObject();
-            json.WriteNumber("rows", rows.RowCount);
-            json.WriteStartArray("point_index");
-            foreach (var r in first)
+            using var buffer = new MemoryStream();
+            using (var json = new Utf8JsonWriter(buffer))
             {
-                json.WriteNumberValue(IndexAt(r)!.Value);
+                json.WriteStartObject();
+                json.WriteNumber("rows", _rowCount);
+                json.WriteStartArray("point_index");
+                foreach (var index in _indexes)
+                {
+                    json.WriteNumberValue(index);
+                }
+
+                json.WriteEndArray();
+                FirstLoadFacts.WritePage(json, _first, _cells);
+                json.WriteEndObject();
             }
 
-            json.WriteEndArray();
-            FirstLoadFacts.WritePage(json, first, page);
-            json.WriteEndObject();
+            return System.Text.Encoding.UTF8.GetString(buffer.ToArray());
         }
-
-        return System.Text.Encoding.UTF8.GetString(buffer.ToArray());
     }
 }

@@ -109,6 +109,23 @@ internal sealed record TableSpec<TRow>(string Name, IReadOnlyList<TableColumn<TR
 
         return new TableRows(Name, Defs, rows.Count, values);
     }
+
+    /// <summary>The same rows with each column collected only when asked for (<see cref="PartColumns"/>).</summary>
+    public PartColumns ColumnsOf(IEnumerable<TRow> sources)
+    {
+        var rows = sources as IReadOnlyList<TRow> ?? sources.ToList();
+        return new PartColumns(Name, Defs, rows.Count, c => Columns[c].Collect(rows));
+    }
+}
+
+/// <summary>
+/// The rows of one table for one chunk, each column collected when <see cref="Collect"/> asks for it (a new array each
+/// time, nothing kept): a part written a column at a time holds one column of them, not all (bench/README, round 24).
+/// </summary>
+internal sealed record PartColumns(string Table, IReadOnlyList<ColumnDef> Columns, int RowCount, Func<int, Array> Collect)
+{
+    /// <summary>Every column collected (what <see cref="TableSpec{TRow}.Rows"/> gives).</summary>
+    public TableRows Whole() => new(Table, Columns, RowCount, Enumerable.Range(0, Columns.Count).Select(Collect).ToList());
 }
 
 /// <summary>
