@@ -71,7 +71,9 @@ public sealed class ExactAxisValuesTests : IDisposable
             path = "model.sites.B.mass_amu"
             range = { from = 10.0, to = 100.0, scale = "log" }
             """), "lhs.toml");
-        Assert.All(lhs.Axes.Single().Values.Cast<double>(), v => Assert.True(AtMost12Digits(v), v.ToString("R", CultureInfo.InvariantCulture)));
+        // A drawn axis lists no values (its interval instead); the points hold them.
+        Assert.Equal(16, lhs.Points.Length);
+        Assert.All(lhs.Points.Select(p => (double)p.Parameters[lhs.Axes.Single().ColumnName]), v => Assert.True(AtMost12Digits(v), v.ToString("R", CultureInfo.InvariantCulture)));
 
         var temperatures = Some.Load(_dir, Some.ChainJob(output: "").Replace("temperatures_k = [10, 100, 300]",
             "temperature_range = { from_k = 1.0, to_k = 60.0, steps = 12, scale = \"log\" }", StringComparison.Ordinal), "t.toml");

@@ -81,7 +81,7 @@ public sealed class ExpansionTests : IDisposable
         var samples = LatinHypercube.Sample(count, 3, seed: 42);
         for (var axis = 0; axis < 3; axis++)
         {
-            var strata = samples.Select(s => (int)Math.Floor(s[axis] * count)).Order().ToList();
+            var strata = Enumerable.Range(0, count).Select(i => (int)Math.Floor(samples[i, axis] * count)).Order().ToList();
             Assert.Equal(Enumerable.Range(0, count), strata);
         }
     }
