@@ -116,20 +116,11 @@ public sealed class AxisBinsTests : IDisposable
     [Fact]
     public void A_latin_hypercube_sweep_gives_its_drawn_axes_an_interval_and_puts_one_point_in_each_bin()
     {
-        var plan = Some.Load(_dir, Some.ChainJob(sweep: """
-            combine = "latin_hypercube"
-            count = 40
-            seed = 7
-            [[sweep.axes]]
-            path = "model.sites.A.mass_amu"
-            range = { from = 10, to = 30 }
-            [[sweep.axes]]
-            path = "model.springs[0].longitudinal_n_per_m"
-            range = { from = 1, to = 100, scale = "log" }
+        var plan = Some.Load(_dir, Some.ChainJob(sweep: Some.LatinHypercubeSweep(40, """
             [[sweep.axes]]
             path = "model.sites.B.mass_amu"
             values = [5, 6]
-            """));
+            """)));
 
         var mass = plan.Axes.Single(a => a.ColumnName == "sites_a_mass_amu");
         Assert.Empty(mass.Values);

@@ -89,17 +89,7 @@ public sealed class ExpansionTests : IDisposable
     [Fact]
     public void Latin_hypercube_sweep_maps_strata_onto_each_axis_interval()
     {
-        var plan = Some.Load(_dir, Some.ChainJob(sweep: """
-            combine = "latin_hypercube"
-            count = 20
-            seed = 7
-            [[sweep.axes]]
-            path = "model.sites.A.mass_amu"
-            range = { from = 10, to = 30 }
-            [[sweep.axes]]
-            path = "model.springs[0].longitudinal_n_per_m"
-            range = { from = 1, to = 100, scale = "log" }
-            """));
+        var plan = Some.Load(_dir, Some.ChainJob(sweep: Some.LatinHypercubeSweep(20)));
         Assert.Equal(20, plan.Points.Length);
         var a = plan.Points.Select(p => (int)Math.Floor((D(p, "sites_a_mass_amu") - 10) / 20 * 20)).Order();
         Assert.Equal(Enumerable.Range(0, 20), a);
