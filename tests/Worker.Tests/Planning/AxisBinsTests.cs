@@ -114,6 +114,22 @@ public sealed class AxisBinsTests : IDisposable
     }
 
     [Fact]
+    public void A_drawn_axis_offers_its_interval_ends_and_middle_as_values_to_try_a_point_at()
+    {
+        // Failure tracing tries a key at a few values the sweep gives it: a drawn axis lists none, so its interval's.
+        var linear = new AxisInfo("model.sites.A.mass_amu", "sites_a_mass_amu", "amu", AxisValueType.Double, []) { Drawn = new DrawnRange(10, 60, false, 1000, 100) };
+        Assert.Equal([10.0, 35.0, 60.0], linear.SomeValues());
+        Assert.Equal(1000, linear.ValueCount);
+        var log = linear with { Drawn = new DrawnRange(1, 100, true, 1000, 100) };
+        Assert.Equal([1.0, 10.0, 100.0], log.SomeValues());
+        var whole = new AxisInfo("sample.cells", "cells", "", AxisValueType.Integer, []) { Drawn = new DrawnRange(2.5, 9.2, false, 50, 50) };
+        Assert.Equal([3L, 6L, 9L], whole.SomeValues());
+        var listed = new AxisInfo("sample.cells", "cells", "", AxisValueType.Integer, [4L, 8L]);
+        Assert.Equal([4L, 8L], listed.SomeValues());
+        Assert.Equal(2, listed.ValueCount);
+    }
+
+    [Fact]
     public void A_latin_hypercube_sweep_gives_its_drawn_axes_an_interval_and_puts_one_point_in_each_bin()
     {
         var plan = Some.Load(_dir, Some.ChainJob(sweep: Some.LatinHypercubeSweep(40, """
