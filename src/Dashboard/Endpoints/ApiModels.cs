@@ -61,6 +61,13 @@ public sealed record AxisValueLine(object Value, string ValueText, long Total, l
 {
     /// <summary>Points of this value whose model is unstable.</summary>
     public long Unstable { get; init; }
+
+    /// <summary>
+    /// For a bin of a drawn axis (<see cref="AxisLine.Bins"/>), its upper edge: <see cref="Value"/> is its lower edge and
+    /// <see cref="ValueText"/> the bin as read (<c>[10, 10.5)</c>); null for a value.
+    /// </summary>
+    [System.Text.Json.Serialization.JsonIgnore(Condition = System.Text.Json.Serialization.JsonIgnoreCondition.WhenWritingNull)]
+    public object? Upper { get; init; }
 }
 
 /// <summary>
@@ -78,6 +85,13 @@ public sealed record AxisLine(string Column, string Path, string Unit, Immutable
     public long ValueCount { get; init; }
 
     public long MoreValues => Math.Max(0, ValueCount - Offset - Values.Length);
+
+    /// <summary>
+    /// For a swept parameter of drawn values (one point per value), what its coverage is counted in
+    /// (<c>100 bins of equal width on a linear scale</c>): each of <see cref="Values"/> is then a bin. Null for values.
+    /// </summary>
+    [System.Text.Json.Serialization.JsonIgnore(Condition = System.Text.Json.Serialization.JsonIgnoreCondition.WhenWritingNull)]
+    public string? Bins { get; init; }
 
     public string? NextUrl { get; init; }
 }

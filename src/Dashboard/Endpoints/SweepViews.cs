@@ -62,8 +62,9 @@ internal static class SweepViews
     {
         var next = a.Offset + a.Values.Length;
         return new AxisLine(a.ColumnName, a.Path, Formatting.Show.Unit(a.Unit), [.. a.Values.Select(v =>
-            new AxisValueLine(v.Value, Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled) { Unstable = v.Unstable })])
+            new AxisValueLine(v.Value, v.BinText ?? Formatting.Show.Value(v.Value, a.Unit), v.Total, v.Done, v.Failed, v.Pending, v.Cancelled) { Unstable = v.Unstable, Upper = v.Upper })])
         {
+            Bins = a.Bins,
             Offset = a.Offset,
             ValueCount = a.ValueCount,
             NextUrl = next < a.ValueCount

@@ -8,8 +8,14 @@ public sealed record AxisCoverage(string ColumnName, string Path, string Unit, I
     /// <summary>The position of the first of <see cref="Values"/> in the axis's list of values.</summary>
     public long Offset { get; init; }
 
-    /// <summary>How many values the axis lists in all (those in <see cref="Values"/> and the rest).</summary>
+    /// <summary>How many values the axis lists in all (those in <see cref="Values"/> and the rest); for a binned axis, how many bins.</summary>
     public long ValueCount { get; init; }
+
+    /// <summary>
+    /// For an axis of drawn values, what its bins are (<c>100 bins of equal width on a linear scale</c>):
+    /// each of <see cref="Values"/> is then a bin of its interval, not a value. Null for an axis counted per value.
+    /// </summary>
+    public string? Bins { get; init; }
 }
 
 /// <summary>
@@ -27,4 +33,10 @@ public sealed record AxisValueCoverage(object Value, long Total, long Done, long
 {
     /// <summary>Points of this value whose model is unstable (not in <see cref="Done"/>).</summary>
     public long Unstable { get; init; }
+
+    /// <summary>For a bin of a drawn axis, its upper edge (<see cref="Value"/> is its lower edge); null for a value.</summary>
+    public object? Upper { get; init; }
+
+    /// <summary>For a bin of a drawn axis, the bin as people read it (<c>[10, 10.5)</c>); null for a value.</summary>
+    public string? BinText { get; init; }
 }

@@ -1,5 +1,6 @@
 using System.Text;
 using System.Text.Json;
+using LatticeSweep.Worker.Planning;
 
 namespace LatticeSweep.Worker.Catalog;
 
@@ -15,14 +16,46 @@ internal sealed class AxisTally
     public const string AllPoints = "";
 
     private readonly IReadOnlySet<string> _columns;
+    private readonly IReadOnlyDictionary<string, BinKeys> _bins;
 
     public AxisTally(IReadOnlySet<string> columns)
+        : this(columns, new Dictionary<string, BinKeys>(StringComparer.Ordinal))
+    {
+    }
+
+    private AxisTally(IReadOnlySet<string> columns, IReadOnlyDictionary<string, BinKeys> bins)
     {
         _columns = columns;
+        _bins = bins;
     }
+
+    /// <summary>
+    /// A tally of <paramref name="axes"/>: an axis of listed values counted per value, a drawn one per
+    /// bin of its interval (<see cref="AxisBins"/>; the count row's value is the bin's lower edge).
+    /// </summary>
+    public static AxisTally For(IEnumerable<AxisInfo> axes)
+    {
+        var list = axes.ToList();
+        var bins = new Dictionary<string, BinKeys>(StringComparer.Ordinal);
+        foreach (var axis in list)
+        {
+            if (AxisBins.Of(axis) is { } b)
+            {
+                bins[axis.ColumnName] = new BinKeys(b);
+            }
+        }
+
+        return new AxisTally(new HashSet<string>(list.Select(a => a.ColumnName), StringComparer.Ordinal), bins);
+    }
+
+    /// <summary>A tally of the same columns (and bins) with nothing counted.</summary>
+    public AxisTally Empty() => new(_columns, _bins);
 
     /// <summary>The swept columns counted (besides <see cref="AllPoints"/>).</summary>
     public IReadOnlySet<string> Columns => _columns;
+
+    /// <summary>The bins of a drawn axis's column, null for a column counted per value.</summary>
+    public AxisBins? BinsOf(string column) => _bins.GetValueOrDefault(column)?.Bins;
 
     public Dictionary<(string Column, string Value, string State), long> Counts { get; } = [];
 
@@ -61,7 +94,9 @@ internal sealed class AxisTally
 
             if (r.TokenType != JsonTokenType.Null && _columns.Contains(name))
             {
-                var value = Encoding.UTF8.GetString(bytes, start, (int)r.BytesConsumed - start);
+                var value = _bins.TryGetValue(name, out var bins)
+                    ? bins.KeyOf(NumberOf(ref r))
+                    : Encoding.UTF8.GetString(bytes, start, (int)r.BytesConsumed - start);
                 Add(name, value, state, 1);
                 also?.Add(name, value, alsoState!, 1);
             }
@@ -76,9 +111,29 @@ internal sealed class AxisTally
         {
             if (_columns.Contains(column))
             {
-                Add(column, ValueText(value), state, n);
+                Add(column, _bins.TryGetValue(column, out var bins) ? bins.KeyOf(bins.Bins.IndexOf(value)) : ValueText(value), state, n);
             }
         }
+    }
+
+    /// <summary>The number a parameter's JSON token holds (a number, or a number written as text); NaN otherwise.</summary>
+    private static double NumberOf(ref Utf8JsonReader r) => r.TokenType switch
+    {
+        JsonTokenType.Number => r.GetDouble(),
+        JsonTokenType.String when double.TryParse(r.GetString(), System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var d) => d,
+        _ => double.NaN,
+    };
+
+    /// <summary>A drawn axis's bins and each bin's key text (its lower edge as a value's JSON text), made once per tally.</summary>
+    private sealed class BinKeys(AxisBins bins)
+    {
+        private readonly string[] _texts = [.. Enumerable.Range(0, bins.Count).Select(k => ValueText(bins.Lower(k)))];
+
+        public AxisBins Bins => bins;
+
+        public string KeyOf(int bin) => _texts[bin];
+
+        public string KeyOf(double value) => _texts[bins.IndexOf(value)];
     }
 
     /// <summary>The same points, all in <paramref name="state"/> (a chunk claimed, re-queued or cancelled whole).</summary>
@@ -88,7 +143,7 @@ internal sealed class AxisTally
     public AxisTally Moved(Func<string, string> next)
     {
         ArgumentNullException.ThrowIfNull(next);
-        var moved = new AxisTally(_columns);
+        var moved = Empty();
         foreach (var ((column, value, state), n) in Counts)
         {
             moved.Add(column, value, next(state), n);

@@ -20,14 +20,28 @@ internal static class CatalogJson
                 values.Add(ToNode(v));
             }
 
-            array.Add(new JsonObject
+            var node = new JsonObject
             {
                 ["path"] = axis.Path,
                 ["column"] = axis.ColumnName,
                 ["unit"] = axis.Unit,
                 ["type"] = axis.ValueType.ToString().ToLowerInvariant(),
                 ["values"] = values,
-            });
+            };
+            if (axis.Drawn is { } d)
+            {
+                // A drawn axis: its interval instead of its values ("values" stays, empty, for readers that expect it).
+                node["drawn"] = new JsonObject
+                {
+                    ["from"] = d.From,
+                    ["to"] = d.To,
+                    ["scale"] = d.Log ? "log" : "linear",
+                    ["draws"] = d.Draws,
+                    ["bins"] = d.Bins,
+                };
+            }
+
+            array.Add(node);
         }
 
         return array.ToJsonString();
@@ -40,7 +54,10 @@ internal static class CatalogJson
         {
             var type = Enum.Parse<AxisValueType>((string)node!["type"]!, ignoreCase: true);
             var values = node["values"]!.AsArray().Select(v => FromElement(v!, type)).ToImmutableArray();
-            result.Add(new AxisInfo((string)node["path"]!, (string)node["column"]!, (string)node["unit"]!, type, values));
+            var drawn = node["drawn"] is JsonObject d
+                ? new DrawnRange((double)d["from"]!, (double)d["to"]!, (string?)d["scale"] == "log", (long)d["draws"]!, (int)d["bins"]!)
+                : null;
+            result.Add(new AxisInfo((string)node["path"]!, (string)node["column"]!, (string)node["unit"]!, type, values) { Drawn = drawn });
         }
 
         return result.ToImmutable();

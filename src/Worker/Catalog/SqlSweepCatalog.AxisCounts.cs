@@ -20,8 +20,8 @@ public abstract partial class SqlSweepCatalog
     /// <summary>Rows per upsert statement: a statement is a round trip to PostgreSQL.</summary>
     private const int AxisRowsPerStatement = 100;
 
-    private static HashSet<string> AxisColumns(DbConnection c, DbTransaction? tx, string sweepId) =>
-        [.. ReadAxes(c, tx, sweepId).Select(a => a.ColumnName)];
+    /// <summary>An empty tally of the sweep's axes as its record gives them (a drawn axis per bin, any other per value).</summary>
+    private static AxisTally EmptyTally(DbConnection c, DbTransaction? tx, string sweepId) => AxisTally.For(ReadAxes(c, tx, sweepId));
 
     /// <summary>The rows of one chunk: point id, state text and parameters' text.</summary>
     private static List<(string PointId, string State, string ParametersJson)> ChunkRows(DbConnection c, DbTransaction tx, string sweepId, string chunkId)
@@ -40,9 +40,9 @@ public abstract partial class SqlSweepCatalog
     }
 
     /// <summary>The tally of one chunk's point rows in their present states.</summary>
-    private static AxisTally ChunkTally(DbConnection c, DbTransaction tx, string sweepId, string chunkId, IReadOnlySet<string> columns)
+    private static AxisTally ChunkTally(DbConnection c, DbTransaction tx, string sweepId, string chunkId, AxisTally empty)
     {
-        var tally = new AxisTally(columns);
+        var tally = empty.Empty();
         foreach (var (_, state, json) in ChunkRows(c, tx, sweepId, chunkId))
         {
             tally.AddParameters(json, state);
@@ -110,15 +110,15 @@ public abstract partial class SqlSweepCatalog
     private void AddCompletedAxes(DbConnection c, DbTransaction tx, string sweepId,
         List<(string PointId, string State, string ParametersJson)> rows, IReadOnlyList<PointCompletion> points)
     {
-        var columns = AxisColumns(c, tx, sweepId);
+        var columns = EmptyTally(c, tx, sweepId);
         var next = new Dictionary<string, string>(StringComparer.Ordinal);
         foreach (var p in points)
         {
             next[p.PointId] = Text(p.State);
         }
 
-        var before = new AxisTally(columns);
-        var after = new AxisTally(columns);
+        var before = columns.Empty();
+        var after = columns.Empty();
         foreach (var (pointId, state, json) in rows)
         {
             before.AddParameters(json, state, after, next.GetValueOrDefault(pointId, state));
@@ -130,7 +130,7 @@ public abstract partial class SqlSweepCatalog
     /// <summary>Moves the sweep's waiting points (rows and pending chunks) to cancelled in the axis counts. Call before the states change, under the sweep's lock.</summary>
     private void CancelAxes(DbConnection c, DbTransaction tx, string sweepId)
     {
-        var waiting = new AxisTally(AxisColumns(c, tx, sweepId));
+        var waiting = EmptyTally(c, tx, sweepId);
         using (var cmd = Command(c, tx, "SELECT parameters_json FROM latsweep_points WHERE sweep_id = @sweep AND state = @waiting"))
         {
             Add(cmd, "sweep", sweepId);
@@ -153,7 +153,7 @@ public abstract partial class SqlSweepCatalog
     /// <summary>The sweep's axis values counted from its point rows and pending chunks (reads only).</summary>
     private static AxisTally TallyFromPoints(DbConnection c, DbTransaction tx, string sweepId)
     {
-        var tally = new AxisTally(AxisColumns(c, tx, sweepId));
+        var tally = EmptyTally(c, tx, sweepId);
         using (var cmd = Command(c, tx, "SELECT state, parameters_json FROM latsweep_points WHERE sweep_id = @sweep"))
         {
             Add(cmd, "sweep", sweepId);
@@ -177,7 +177,7 @@ public abstract partial class SqlSweepCatalog
     {
         var tally = TallyFromPoints(c, tx, sweepId);
         Execute(c, tx, "DELETE FROM latsweep_axis_counts WHERE sweep_id = @sweep", ("sweep", sweepId));
-        AddAxisChange(c, tx, sweepId, new AxisTally(tally.Columns), tally);
+        AddAxisChange(c, tx, sweepId, tally.Empty(), tally);
     }
 
     /// <summary>The count rows of a tally (without the all-points rows).</summary>
@@ -285,6 +285,13 @@ public abstract partial class SqlSweepCatalog
         {
             foreach (var axis in axes)
             {
+                if (AxisBins.Of(axis) is not null)
+                {
+                    // A drawn axis: a few rows per bin, read whole.
+                    result.Add(Window(Coverage([axis], AxisRows(c, tx, sweepId, axis.ColumnName, null))[0], window));
+                    continue;
+                }
+
                 var texts = ValueTextCount(c, tx, sweepId, axis.ColumnName);
                 if (texts <= DeclaredOrderValues)
                 {
@@ -412,6 +419,28 @@ public abstract partial class SqlSweepCatalog
         return new AxisCoverage(axis.ColumnName, axis.Path, axis.Unit, [.. order.Select(k => byValue[k])]);
     }
 
+    /// <summary>
+    /// The coverage of a drawn axis: every bin of its interval in order (empty ones too), each with the
+    /// points of the count rows whose value (a bin's lower edge, or from a sweep counted from its points
+    /// the value itself) falls in it.
+    /// </summary>
+    private static AxisCoverage BinnedCoverage(AxisInfo axis, AxisBins bins, List<(string Column, string Value, string State, long Points)> rows)
+    {
+        var entries = Enumerable.Range(0, bins.Count)
+            .Select(k => new AxisValueCoverage(bins.Lower(k), 0, 0, 0, 0, 0) { Upper = bins.Upper(k), BinText = bins.Text(k) })
+            .ToArray();
+        foreach (var (column, text, state, n) in rows)
+        {
+            if (column == axis.ColumnName && n != 0 && CatalogJson.ReadValue(text, axis.ValueType) is { } value)
+            {
+                var k = bins.IndexOf(value);
+                entries[k] = Counted(entries[k], ParsePointState(state), n);
+            }
+        }
+
+        return new AxisCoverage(axis.ColumnName, axis.Path, axis.Unit, [.. entries]) { Bins = bins.Describe() };
+    }
+
     private static AxisValueCoverage Counted(AxisValueCoverage e, PointState state, long n) => state switch
     {
         PointState.Done => e with { Total = e.Total + n, Done = e.Done + n },
@@ -427,6 +456,12 @@ public abstract partial class SqlSweepCatalog
         var result = new List<AxisCoverage>();
         foreach (var axis in axes)
         {
+            if (AxisBins.Of(axis) is { } bins)
+            {
+                result.Add(BinnedCoverage(axis, bins, rows));
+                continue;
+            }
+
             var byValue = new Dictionary<string, (object Value, long Total, long Done, long Failed, long Pending, long Cancelled, long Unstable)>(StringComparer.Ordinal);
             var order = new List<string>();
             foreach (var v in axis.Values)

@@ -181,7 +181,7 @@ public abstract partial class SqlSweepCatalog
 
         return distinct == 0
             ? null
-            : new FailingValues(axis.ColumnName, axis.Path, distinct, [.. first], double.IsFinite(min) ? min : null, double.IsFinite(max) ? max : null, axis.Values.Length);
+            : new FailingValues(axis.ColumnName, axis.Path, distinct, [.. first], double.IsFinite(min) ? min : null, double.IsFinite(max) ? max : null, (int)Math.Min(int.MaxValue, axis.ValueCount));
     }
 
     /// <summary>A parameter's JSON text (or, from a driver that hands back the value itself, that value) typed as its axis.</summary>

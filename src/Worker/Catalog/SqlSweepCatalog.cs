@@ -105,7 +105,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
 
         var waiting = Text(PointState.Waiting);
         var buckets = sweep.PointKeys is { } keys ? new PointIdBuckets(keys) : new PointIdBuckets(sweep.Points.Count);
-        var values = new SweptValueCounts(new HashSet<string>(sweep.Axes.Select(a => a.ColumnName), StringComparer.Ordinal));
+        var values = SweptValueCounts.For(sweep.Axes);
         var written = WriteChunks(c, tx, sweep, waiting, buckets, values);
         using (var bucketRows = BucketRowWriter(c, tx, sweep.SweepId))
         {
@@ -118,9 +118,9 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
 
         AddCountChange(c, tx, sweep.SweepId, new Dictionary<string, long>(), new Dictionary<string, long> { [waiting] = sweep.Points.Count });
-        var tally = new AxisTally(values.Columns);
+        var tally = AxisTally.For(sweep.Axes);
         tally.AddValues(values.Counts, sweep.Points.Count, waiting);
-        AddAxisChange(c, tx, sweep.SweepId, new AxisTally(values.Columns), tally);
+        AddAxisChange(c, tx, sweep.SweepId, tally.Empty(), tally);
         tx.Commit();
         return true;
     }
@@ -133,10 +133,10 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         // Pending chunks have no results by definition: waiting ones stay so, cancelled ones wait again.
         var pending = ReadPendingChunks(c, tx, sweepId, null);
         var cancelled = pending.Where(p => p.State == PointState.Cancelled).Sum(p => p.PointCount);
-        var columns = AxisColumns(c, tx, sweepId);
+        var columns = EmptyTally(c, tx, sweepId);
         if (cancelled > 0)
         {
-            var wasCancelled = new AxisTally(columns);
+            var wasCancelled = columns.Empty();
             foreach (var chunk in pending.Where(p => p.State == PointState.Cancelled))
             {
                 AddPendingChunk(c, tx, sweepId, chunk.ChunkId, Text(PointState.Cancelled), wasCancelled);
@@ -226,7 +226,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
                 [Text(PointState.Cancelled)] = before.GetValueOrDefault(Text(PointState.Cancelled)) + waitingOrRunning,
             };
             AddCountChange(c, tx, sweepId, before, after);
-            var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, AxisColumns(c, tx, sweepId));
+            var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, EmptyTally(c, tx, sweepId));
             AddAxisChange(c, tx, sweepId, beforeAxes, beforeAxes.Moved(s =>
                 s == Text(PointState.Waiting) || s == Text(PointState.Running) ? Text(PointState.Cancelled) : s));
             Execute(c, tx, """
@@ -250,7 +250,7 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         if (before.Keys.Any(s => !AxisTally.IsPending(s)))
         {
             // A chunk run again with points that had ended (waiting to running changes no axis count).
-            var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, AxisColumns(c, tx, sweepId));
+            var beforeAxes = ChunkTally(c, tx, sweepId, chunkId, EmptyTally(c, tx, sweepId));
             AddAxisChange(c, tx, sweepId, beforeAxes, beforeAxes.AllIn(Text(PointState.Running)));
         }
         Execute(c, tx, """

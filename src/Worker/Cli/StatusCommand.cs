@@ -12,6 +12,9 @@ internal static class StatusCommand
     /// <summary>Failure reasons listed at most (the rest are counted).</summary>
     private const int ReasonsShown = 20;
 
+    /// <summary>Values of a swept parameter listed in its coverage (a drawn one's bins are all listed).</summary>
+    private const int ValuesShown = 50;
+
     public static int Run(CommandLine line, CliContext context)
     {
         using var session = Session.Open(line, context);
@@ -95,17 +98,20 @@ internal static class StatusCommand
         foreach (var axis in session.Catalog.GetAxisCoverage(sweep.SweepId))
         {
             o.WriteLine();
-            o.WriteLine($"Coverage of {axis.ColumnName}{(axis.Unit.Length > 0 ? $" [{axis.Unit}]" : "")} ({axis.Path}):");
-            var table = new TextTable(["value", "points", "done", "unstable", "failed", "pending", "cancelled"], [true, true, true, true, true, true, true]);
-            foreach (var v in axis.Values.Take(50))
+            // A drawn axis (one point per value) is shown as the bins of its interval, said so in the heading and the first column.
+            var binned = axis.Bins is not null;
+            o.WriteLine($"Coverage of {axis.ColumnName}{(axis.Unit.Length > 0 ? $" [{axis.Unit}]" : "")} ({axis.Path}){(binned ? $", drawn values in {axis.Bins}" : "")}:");
+            var table = new TextTable([binned ? "bin" : "value", "points", "done", "unstable", "failed", "pending", "cancelled"], [!binned, true, true, true, true, true, true]);
+            var shown = binned ? axis.Values.Length : ValuesShown; // every bin (at most AxisBins.MostBins)
+            foreach (var v in axis.Values.Take(shown))
             {
-                table.Add(CatalogJson.Show(v.Value), N(v.Total), N(v.Done), N(v.Unstable), N(v.Failed), N(v.Pending), N(v.Cancelled));
+                table.Add(v.BinText ?? CatalogJson.Show(v.Value), N(v.Total), N(v.Done), N(v.Unstable), N(v.Failed), N(v.Pending), N(v.Cancelled));
             }
 
             table.WriteTo(o, "  ");
-            if (axis.Values.Length > 50)
+            if (axis.Values.Length > shown)
             {
-                o.WriteLine($"  ... {axis.Values.Length - 50} more values");
+                o.WriteLine($"  ... {axis.Values.Length - shown} more values");
             }
         }
 

@@ -81,6 +81,15 @@ public static class CheckCommand
         var table = new TextTable(["column", "path", "unit", "type", "values", "from", "to"], [false, false, false, false, true, true, true]);
         foreach (var a in plan.Axes)
         {
+            if (a.Drawn is { } d)
+            {
+                // Drawn values: the interval they are drawn from (one value per point; listing them would hold every point's).
+                table.Add(a.ColumnName, a.Path, a.Unit, a.ValueType.ToString().ToLowerInvariant(), N(d.Draws) + " drawn",
+                    Show(a.ValueType == AxisValueType.Integer ? Math.Ceiling(Math.Min(d.From, d.To)) : Math.Min(d.From, d.To)),
+                    Show(a.ValueType == AxisValueType.Integer ? Math.Floor(Math.Max(d.From, d.To)) : Math.Max(d.From, d.To)));
+                continue;
+            }
+
             var (from, to) = a.ValueType == AxisValueType.Text
                 ? (Show(a.Values.First()), Show(a.Values.Last()))
                 : (Show(a.Values.MinBy(v => Convert.ToDouble(v, CultureInfo.InvariantCulture))!), Show(a.Values.MaxBy(v => Convert.ToDouble(v, CultureInfo.InvariantCulture))!));
@@ -88,6 +97,10 @@ public static class CheckCommand
         }
 
         table.WriteTo(o, "  ");
+        foreach (var a in plan.Axes.Where(a => a.Drawn is not null))
+        {
+            o.WriteLine($"  {a.ColumnName}: drawn values, from and to are the interval's ends; status and the dashboard count its coverage in {AxisBins.Of(a)!.Describe()}");
+        }
     }
 
     /// <summary>What <c>check</c> aims to answer within, planning and forecast together.</summary>

@@ -116,7 +116,7 @@ internal static class FailureLocator
         yield return (parameters, c => c == key.Column);
         var own = parameters[key.Column];
         var axis = plan.Axes.FirstOrDefault(a => a.ColumnName == key.Column);
-        foreach (var value in (axis?.Values ?? []).Where(v => !Equals(v, own)).Take(OtherValuesTried))
+        foreach (var value in (axis?.SomeValues() ?? []).Where(v => !Equals(v, own)).Take(OtherValuesTried))
         {
             yield return (parameters.With(key.Column, value), _ => false);
         }

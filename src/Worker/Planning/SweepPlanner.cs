@@ -121,12 +121,13 @@ internal static class SweepPlanner
             definitionHash = kept is null && keys.Length == expansion.Count ? definitionHash : null;
         }
 
-        var axisInfos = columns.Select((c, j) => new AxisInfo(
-            c.Path,
-            c.Column,
-            c.Unit,
-            c.ValueType,
-            [.. DistinctValues(expansion, kept, points.Count, j, sweep.Combine)])).ToImmutableArray();
+        var axisInfos = columns.Select((c, j) => c.Interval is { } drawn
+            ? new AxisInfo(c.Path, c.Column, c.Unit, c.ValueType, [])
+            {
+                // Drawn values: one point each, so the axis keeps its interval, not its values (a 10^6-point sweep's record held 10^6 per axis).
+                Drawn = new DrawnRange(drawn.From, drawn.To, drawn.Log, sweep.Count ?? 1, AxisBins.BinsFor(sweep.Count ?? 1)),
+            }
+            : new AxisInfo(c.Path, c.Column, c.Unit, c.ValueType, [.. DistinctValues(expansion, kept, points.Count, j, sweep.Combine)])).ToImmutableArray();
 
         return new SweepPlan
         {

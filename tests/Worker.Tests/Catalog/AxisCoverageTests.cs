@@ -194,7 +194,110 @@ public sealed class AxisCoverageTests : CatalogOnBothStores
         Assert.Equal((2L, 7L), (window.Offset, window.ValueCount));
     }
 
-    /// <summary>Asserts the catalog's coverage equals a count of <see cref="ISweepCatalog.GetPoints"/> per column, value and state; returns the coverage.</summary>
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void A_drawn_axis_is_counted_in_bins_of_its_interval_through_every_kind_of_write(StoreKind kind)
+    {
+        using var catalog = Open(kind);
+        var (id, chunks) = TestCatalog.Register(catalog, SomeSweep.DrawnPlan("drawn", 250), Dir.Combine("out"), pointsPerChunk: 16);
+        var bins = LatticeSweep.Worker.Planning.AxisBins.Of(catalog.FindSweep(id)!.Axes.Single(a => a.ColumnName == SomeSweep.MassColumn))!;
+        Assert.Equal(100, bins.Count);
+
+        IReadOnlyList<AxisCoverage> Check()
+        {
+            // The store keeps a few rows per bin, never one per drawn value.
+            var rows = Query(kind, $"SELECT value_json, points FROM latsweep_axis_counts WHERE sweep_id = '{id}' AND column_name = '{SomeSweep.MassColumn}'");
+            Assert.InRange(rows.Select(r => r.Key).Distinct().Count(), 1, bins.Count);
+            return AssertCoverageMatchesPoints(catalog, id, 250);
+        }
+
+        var first = Check();
+        var mass = first.Single(a => a.ColumnName == SomeSweep.MassColumn);
+        Assert.Equal("100 bins of equal width on a linear scale", mass.Bins);
+        Assert.Equal(100, mass.ValueCount);
+        Assert.Equal("[10, 10.5)", mass.Values[0].BinText);
+        Assert.Equal(10.0, mass.Values[0].Value);
+        Assert.Equal(10.5, mass.Values[0].Upper);
+        Assert.Equal("[59.5, 60]", mass.Values[^1].BinText);
+        Assert.True(mass.Values[^1].Pending >= 1, "the value on the interval's upper end is counted in the last bin");
+        Assert.Null(first.Single(a => a.ColumnName == SomeSweep.CellsColumn).Bins);
+        Assert.Equal([4L, 8L], first.Single(a => a.ColumnName == SomeSweep.CellsColumn).Values.Select(v => (long)v.Value));
+
+        // Points move through states: mixed outcomes, a completion delivered twice, a dead worker and a resume, a cancel and a resume.
+        var claim0 = catalog.BeginChunk(id, chunks[0], "test:1");
+        Check();
+        catalog.CompleteChunk(id, chunks[0], [.. claim0.Points.Select((p, i) => Completion(p.PointId, (i % 4) switch { 0 => PointState.Done, 1 => PointState.Unstable, 2 => PointState.Failed, _ => PointState.Done }, i % 4 == 2 ? FailureKind.Model : null))]);
+        Check();
+        catalog.CompleteChunk(id, chunks[0], [.. claim0.Points.Select(p => Completion(p.PointId, PointState.Done, null))]);
+        Check();
+        catalog.BeginChunk(id, chunks[1], "test:dead");
+        catalog.RequeueUnfinished(id);
+        Check();
+        catalog.BeginChunk(id, chunks[2], "test:2");
+        Assert.True(catalog.Cancel(id));
+        Check();
+        catalog.RequeueUnfinished(id);
+        foreach (var chunk in chunks.Skip(1))
+        {
+            var claim = catalog.BeginChunk(id, chunk, "test:3");
+            catalog.CompleteChunk(id, chunk, [.. claim.Points.Select(p => Completion(p.PointId, PointState.Done, null))]);
+        }
+
+        var last = Check().Single(a => a.ColumnName == SomeSweep.MassColumn);
+        Assert.Equal(250, last.Values.Sum(v => v.Done));
+        Assert.All(last.Values, v => Assert.InRange(v.Total, 2, 3)); // 250 evenly spread values over 100 equal bins
+
+        // Rows lost (a store whose counts are stale) are counted again from the points, in the same bins.
+        Sql(kind, $"DELETE FROM latsweep_axis_counts WHERE sweep_id = '{id}'");
+        Assert.Equal(last.Values.AsEnumerable(), AssertCoverageMatchesPoints(catalog, id, 250).Single(a => a.ColumnName == SomeSweep.MassColumn).Values);
+        Assert.Equal(1, catalog.CountStaleAxesAgain());
+        Assert.Equal(last.Values.AsEnumerable(), Check().Single(a => a.ColumnName == SomeSweep.MassColumn).Values);
+
+        // A window of the bins, as the dashboard's coverage JSON reads it.
+        var window = catalog.GetAxisCoverage(id, new AxisWindow(98, 10, SomeSweep.MassColumn)).Single();
+        Assert.Equal(2, window.Values.Length);
+        Assert.Equal(98, window.Offset);
+        Assert.Equal(100, window.ValueCount);
+        Assert.Equal("[59.5, 60]", window.Values[1].BinText);
+    }
+
+    [Theory]
+    [MemberData(nameof(Stores))]
+    public void A_drawn_sweep_registered_by_an_earlier_version_keeps_its_coverage_per_value_and_finishes(StoreKind kind)
+    {
+        // An earlier latsweep listed every drawn value in the sweep's axes and kept a count row per value:
+        // registered here the same way (the axes without their interval), then worked by this version.
+        using var catalog = Open(kind);
+        var drawn = SomeSweep.DrawnPlan("drawn-before", 60);
+        var earlier = drawn with { Axes = [SomeSweep.MassAxis([.. drawn.Points.Select(p => (double)p.Parameters[SomeSweep.MassColumn])]), SomeSweep.CellsAxis(4, 8)] };
+        var (id, chunks) = TestCatalog.Register(catalog, earlier, Dir.Combine("out"), pointsPerChunk: 16);
+        Assert.Null(catalog.FindSweep(id)!.Axes[0].Drawn);
+
+        var claim = catalog.BeginChunk(id, chunks[0], "test:1");
+        catalog.CompleteChunk(id, chunks[0], [.. claim.Points.Select((p, i) => Completion(p.PointId, i == 0 ? PointState.Failed : PointState.Done, i == 0 ? FailureKind.Io : null))]);
+        var middle = AssertCoverageMatchesPoints(catalog, id, 60).Single(a => a.ColumnName == SomeSweep.MassColumn);
+        Assert.Null(middle.Bins);
+        Assert.Equal(60, middle.Values.Length);
+        Assert.Equal(60, Query(kind, $"SELECT value_json, points FROM latsweep_axis_counts WHERE sweep_id = '{id}' AND column_name = '{SomeSweep.MassColumn}' AND points <> 0").Select(r => r.Key).Distinct().Count());
+
+        catalog.RequeueUnfinished(id);
+        foreach (var chunk in chunks)
+        {
+            var next = catalog.BeginChunk(id, chunk, "test:2");
+            if (next.Decision == ChunkDecision.Run)
+            {
+                catalog.CompleteChunk(id, chunk, [.. next.Points.Select(p => Completion(p.PointId, PointState.Done, null))]);
+            }
+        }
+
+        Assert.Equal(SweepState.Done, catalog.FindSweep(id)!.State);
+        Assert.All(AssertCoverageMatchesPoints(catalog, id, 60).Single(a => a.ColumnName == SomeSweep.MassColumn).Values, v => Assert.Equal((1L, 1L), (v.Total, v.Done)));
+    }
+
+    /// <summary>
+    /// Asserts the catalog's coverage equals a count of <see cref="ISweepCatalog.GetPoints"/> per column, value and state (a
+    /// drawn axis per bin of its interval, the points binned here by their values, every bin listed in order); returns the coverage.
+    /// </summary>
     private static IReadOnlyList<AxisCoverage> AssertCoverageMatchesPoints(SqlSweepCatalog catalog, string id, long expectedPoints)
     {
         var points = catalog.GetPoints(id, new PointQuery(Limit: int.MaxValue));
@@ -203,8 +306,12 @@ public sealed class AxisCoverageTests : CatalogOnBothStores
         Assert.Equal(2, coverage.Count);
         foreach (var axis in coverage)
         {
+            var info = catalog.FindSweep(id)!.Axes.Single(a => a.ColumnName == axis.ColumnName);
+            var bins = LatticeSweep.Worker.Planning.AxisBins.Of(info);
+            Assert.Equal(bins is null, axis.Bins is null);
+            string KeyOf(object value) => bins is null ? CatalogJson.Show(value) : bins.Text(bins.IndexOf(value));
             var expected = points
-                .GroupBy(p => CatalogJson.Show(p.Parameters[axis.ColumnName]))
+                .GroupBy(p => KeyOf(p.Parameters[axis.ColumnName]))
                 .ToDictionary(g => g.Key, g => (
                     Total: (long)g.Count(),
                     Done: g.LongCount(p => p.State == PointState.Done),
@@ -212,8 +319,12 @@ public sealed class AxisCoverageTests : CatalogOnBothStores
                     Failed: g.LongCount(p => p.State == PointState.Failed),
                     Pending: g.LongCount(p => p.State is PointState.Waiting or PointState.Running),
                     Cancelled: g.LongCount(p => p.State == PointState.Cancelled)));
-            var actual = axis.Values.Where(v => v.Total > 0).ToDictionary(v => CatalogJson.Show(v.Value), v => (v.Total, v.Done, v.Unstable, v.Failed, v.Pending, v.Cancelled));
+            var actual = axis.Values.Where(v => v.Total > 0).ToDictionary(v => v.BinText ?? CatalogJson.Show(v.Value), v => (v.Total, v.Done, v.Unstable, v.Failed, v.Pending, v.Cancelled));
             Assert.Equal(expected.OrderBy(e => e.Key, StringComparer.Ordinal), actual.OrderBy(e => e.Key, StringComparer.Ordinal));
+            if (bins is not null)
+            {
+                Assert.Equal(Enumerable.Range(0, bins.Count).Select(bins.Text), axis.Values.Select(v => v.BinText));
+            }
         }
 
         return coverage;

@@ -81,7 +81,7 @@ public sealed class ExpansionTests : IDisposable
         var samples = LatinHypercube.Sample(count, 3, seed: 42);
         for (var axis = 0; axis < 3; axis++)
         {
-            var strata = samples.Select(s => (int)Math.Floor(s[axis] * count)).Order().ToList();
+            var strata = Enumerable.Range(0, count).Select(i => (int)Math.Floor(samples[i, axis] * count)).Order().ToList();
             Assert.Equal(Enumerable.Range(0, count), strata);
         }
     }
@@ -89,17 +89,7 @@ public sealed class ExpansionTests : IDisposable
     [Fact]
     public void Latin_hypercube_sweep_maps_strata_onto_each_axis_interval()
     {
-        var plan = Some.Load(_dir, Some.ChainJob(sweep: """
-            combine = "latin_hypercube"
-            count = 20
-            seed = 7
-            [[sweep.axes]]
-            path = "model.sites.A.mass_amu"
-            range = { from = 10, to = 30 }
-            [[sweep.axes]]
-            path = "model.springs[0].longitudinal_n_per_m"
-            range = { from = 1, to = 100, scale = "log" }
-            """));
+        var plan = Some.Load(_dir, Some.ChainJob(sweep: Some.LatinHypercubeSweep(20)));
         Assert.Equal(20, plan.Points.Length);
         var a = plan.Points.Select(p => (int)Math.Floor((D(p, "sites_a_mass_amu") - 10) / 20 * 20)).Order();
         Assert.Equal(Enumerable.Range(0, 20), a);

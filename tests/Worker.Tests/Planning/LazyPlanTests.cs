@@ -66,6 +66,7 @@ public sealed class LazyPlanTests : IDisposable
         Assert.Equal(full.Points.Select(p => string.Join(",", p.Parameters.Select(kv => $"{kv.Key}={kv.Value}"))),
             lazy.Points.Select(p => string.Join(",", p.Parameters.Select(kv => $"{kv.Key}={kv.Value}"))));
         Assert.Equal(full.Axes.Select(a => string.Join(",", a.Values)), lazy.Axes.Select(a => string.Join(",", a.Values)));
+        Assert.Equal(full.Axes.Select(a => a.Drawn), lazy.Axes.Select(a => a.Drawn));
 
         // Found by its index; an id that is not the one at that index is not in the plan (no search of every id).
         Assert.True(lazy.Points.TryFind(full.Points[5].PointId, 5, out var found));

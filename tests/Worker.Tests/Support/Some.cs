@@ -42,6 +42,23 @@ public static class Some
 
     public static SweepPlan Load(TempDirectory dir, string text, string name = "job.toml") => JobFileLoader.Load(dir.Write(name, text));
 
+    /// <summary>
+    /// The [sweep] lines of a Latin hypercube of <paramref name="count"/> points (seed 7) drawing A's mass on [10, 30] and the
+    /// first spring on [1, 100] on a log scale, for <see cref="ChainJob"/>; <paramref name="more"/> adds lines (another axis).
+    /// </summary>
+    public static string LatinHypercubeSweep(int count, string more = "") => $$"""
+        combine = "latin_hypercube"
+        count = {{count}}
+        seed = 7
+        [[sweep.axes]]
+        path = "model.sites.A.mass_amu"
+        range = { from = 10, to = 30 }
+        [[sweep.axes]]
+        path = "model.springs[0].longitudinal_n_per_m"
+        range = { from = 1, to = 100, scale = "log" }
+        {{more}}
+        """;
+
     /// <summary>Loads a job that must fail and returns its exception.</summary>
     public static JobFileException Fails(TempDirectory dir, string text, string name = "job.toml") =>
         Assert.Throws<JobFileException>(() => JobFileLoader.Load(dir.Write(name, text)));

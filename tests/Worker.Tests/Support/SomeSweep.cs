@@ -46,6 +46,30 @@ internal static class SomeSweep
         };
     }
 
+    /// <summary>
+    /// <paramref name="count"/> points whose mass is a drawn axis on [10, 60] (as a Latin hypercube's would be; here spread
+    /// evenly, both ends and some bin edges among them) and whose cells alternate between 4 and 8 (a listed axis).
+    /// </summary>
+    public static SweepPlan DrawnPlan(string name, int count)
+    {
+        var points = new List<PlannedPoint>();
+        for (var i = 0; i < count; i++)
+        {
+            var m = i == count - 1 ? 60.0 : Math.Round(10 + (50.0 * i / (count - 1)), 9);
+            long n = i % 2 == 0 ? 4 : 8;
+            var parameters = ImmutableSortedDictionary.CreateRange(StringComparer.Ordinal,
+                [new KeyValuePair<string, object>(MassColumn, m), new KeyValuePair<string, object>(CellsColumn, n)]);
+            points.Add(new PlannedPoint($"d{i:D4}-m{m}-n{n}", i, parameters));
+        }
+
+        var plan = Plan(name);
+        return plan with
+        {
+            Axes = [MassAxis() with { Drawn = new DrawnRange(10, 60, false, count, AxisBins.BinsFor(count)) }, CellsAxis(4, 8)],
+            Points = [.. points],
+        };
+    }
+
     /// <summary>A real template (from a tiny chain job file); these plans only go to a fake solver.</summary>
     private static readonly Lazy<JobTemplate> Template = new(() =>
     {

@@ -13,7 +13,7 @@ internal sealed class IndexedExpansion
     private readonly CandidateBlock? _candidates;
     private readonly IReadOnlyList<PlanAxis> _axes;
     private readonly CombineMode _mode;
-    private readonly double[][]? _unit;
+    private readonly double[,]? _unit;
     private readonly long _inner;
 
     public IndexedExpansion(CombineMode mode, int? count, ulong seed, CandidateBlock? candidates, IReadOnlyList<PlanAxis> axes)
@@ -70,10 +70,9 @@ internal sealed class IndexedExpansion
 
                 break;
             default:
-                var u = _unit![inner];
                 for (var j = 0; j < _axes.Count; j++)
                 {
-                    into[at + j] = _axes[j].ValueAt(u[j]);
+                    into[at + j] = _axes[j].ValueAt(_unit![inner, j]);
                 }
 
                 break;

@@ -90,14 +90,14 @@ internal static class SweepExpansion
         }
     }
 
-    private static IEnumerable<object[]> Sampled(double[][] unit, IReadOnlyList<PlanAxis> axes)
+    private static IEnumerable<object[]> Sampled(double[,] unit, IReadOnlyList<PlanAxis> axes)
     {
-        foreach (var u in unit)
+        for (var i = 0; i < unit.GetLength(0); i++)
         {
             var point = new object[axes.Count];
             for (var j = 0; j < axes.Count; j++)
             {
-                point[j] = axes[j].ValueAt(u[j]);
+                point[j] = axes[j].ValueAt(unit[i, j]);
             }
 
             yield return point;

@@ -125,7 +125,7 @@ internal static class SweepForecast
                 var numbers = c.Seen.Values.Select(v => v.Value).Where(v => v is double or long).Select(v => Convert.ToDouble(v, System.Globalization.CultureInfo.InvariantCulture)).ToList();
                 return new Catalog.FailingValues(c.Axis.ColumnName, c.Axis.Path, c.Seen.Count,
                     [.. c.Seen.Values.OrderBy(v => v.Index).Take(Catalog.FailingValues.Listed).Select(v => v.Value)],
-                    numbers.Count > 0 ? numbers.Min() : null, numbers.Count > 0 ? numbers.Max() : null, c.Axis.Values.Length);
+                    numbers.Count > 0 ? numbers.Min() : null, numbers.Count > 0 ? numbers.Max() : null, (int)Math.Min(int.MaxValue, c.Axis.ValueCount));
             })];
     }
 
