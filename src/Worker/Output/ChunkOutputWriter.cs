@@ -27,6 +27,7 @@ public static class ChunkOutputWriter
             ["latticesweep.engine_version"] = outcomes.Count > 0 ? outcomes[0].EngineVersion : sweep.EngineVersion,
         };
         var prepared = new List<PreparedPart>();
+        var written = new List<TableRows>();
         try
         {
             IReadOnlyList<TableRows> tables;
@@ -57,6 +58,7 @@ public static class ChunkOutputWriter
                 }
 
                 prepared.Add(await ParquetPartWriter.PrepareAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false));
+                written.Add(rows);
             }
         }
         catch
@@ -72,6 +74,7 @@ public static class ChunkOutputWriter
         // Shared hold of the sweep's output lock: a merge (exclusive) never swaps a table folder
         // while parts are renamed into it.
         using var hold = OutputLock.Shared(sweep.OutputFolder);
+        var keep = WrittenParts.IsWatched(sweep.SweepId);
         for (var i = 0; i < prepared.Count; i++)
         {
             try
@@ -87,7 +90,14 @@ public static class ChunkOutputWriter
                     continue;
                 }
 
+                // The file as written, taken before the rename (which keeps it): the merge of this process
+                // takes the rows from memory only while the part is still this file (WrittenParts).
+                var identity = keep ? WrittenParts.IdentityOf(prepared[i].TemporaryPath) : default;
                 prepared[i].Commit();
+                if (keep)
+                {
+                    WrittenParts.Keep(sweep.SweepId, prepared[i].FinalPath, identity, written[i]);
+                }
             }
             catch
             {
