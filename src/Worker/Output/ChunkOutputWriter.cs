@@ -74,7 +74,7 @@ public static class ChunkOutputWriter
         // Shared hold of the sweep's output lock: a merge (exclusive) never swaps a table folder
         // while parts are renamed into it.
         using var hold = OutputLock.Shared(sweep.OutputFolder);
-        var keep = WrittenParts.IsWatched(sweep.SweepId);
+        var keep = WrittenParts.Keeps(sweep.SweepId, sweep.ChunkCount);
         for (var i = 0; i < prepared.Count; i++)
         {
             try

@@ -88,13 +88,20 @@ public sealed class WrittenPartsTests : IDisposable
     }
 
     [Fact]
-    public async Task Parts_of_a_sweep_not_watched_or_past_the_bound_are_not_kept()
+    public async Task Parts_of_a_sweep_not_watched_too_small_or_large_or_past_the_bound_are_not_kept()
     {
         var (files, rows) = await WritePartsAsync(_dir.Combine("demo"), seed: 41, parts: 2);
         WrittenParts.Keep(_sweepId, files[0], WrittenParts.IdentityOf(files[0]), rows[0]);
         Assert.False(OpensFromMemory(files[0]));
 
         WrittenParts.Watch(_sweepId);
+
+        // Kept only for a sweep whose merge reads its parts (more than 4 a table) and opens each once (at most 64).
+        Assert.False(WrittenParts.Keeps(_sweepId, MergedLayout.FilesTakenAsTheyAre));
+        Assert.True(WrittenParts.Keeps(_sweepId, MergedLayout.FilesTakenAsTheyAre + 1));
+        Assert.True(WrittenParts.Keeps(_sweepId, TableMerger.OpenedOnceAtMost));
+        Assert.False(WrittenParts.Keeps(_sweepId, TableMerger.OpenedOnceAtMost + 1));
+        Assert.False(WrittenParts.Keeps("another-" + _sweepId, 7));
         var huge = new TableRows("demo", [new("point_id", ColumnType.Text, "", ""), new("density", ColumnType.Double, "1/THz", "")],
             (int)(WrittenParts.KeptBytesAtMost / 16), [new string?[WrittenParts.KeptBytesAtMost / 16], new double?[WrittenParts.KeptBytesAtMost / 16]]);
         WrittenParts.Keep(_sweepId, files[0], WrittenParts.IdentityOf(files[0]), rows[0]);
