@@ -27,7 +27,8 @@ public static class ChunkOutputWriter
             ["latticesweep.engine_version"] = outcomes.Count > 0 ? outcomes[0].EngineVersion : sweep.EngineVersion,
         };
         var prepared = new List<PreparedPart>();
-        var written = new List<TableRows>();
+        // The rows of each part written from a table's rows, for WrittenParts (a part written otherwise is not kept).
+        var written = new Dictionary<PreparedPart, TableRows>();
         try
         {
             IReadOnlyList<TableRows> tables;
@@ -58,7 +59,7 @@ public static class ChunkOutputWriter
                 }
 
                 prepared.Add(await ParquetPartWriter.PrepareAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false));
-                written.Add(rows);
+                written[prepared[^1]] = rows;
             }
         }
         catch
@@ -92,11 +93,12 @@ public static class ChunkOutputWriter
 
                 // The file as written, taken before the rename (which keeps it): the merge of this process
                 // takes the rows from memory only while the part is still this file (WrittenParts).
-                var identity = keep ? WrittenParts.IdentityOf(prepared[i].TemporaryPath) : default;
+                var kept = keep && written.TryGetValue(prepared[i], out var rows) ? rows : null;
+                var identity = kept is not null ? WrittenParts.IdentityOf(prepared[i].TemporaryPath) : default;
                 prepared[i].Commit();
-                if (keep)
+                if (kept is not null)
                 {
-                    WrittenParts.Keep(sweep.SweepId, prepared[i].FinalPath, identity, written[i]);
+                    WrittenParts.Keep(sweep.SweepId, prepared[i].FinalPath, identity, kept);
                 }
             }
             catch
