@@ -204,12 +204,26 @@ internal static class SweepCommands
     {
         var runner = Runner(session, context, plans);
         var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
-        var interrupted = false;
-        var storeFull = false;
 
         // What planning, the forecast and submit left (at 10^6 points ~90 MB of dead objects in the
         // oldest generation, which no collection would reach until the workers had allocated on top of it).
         MemoryRelease.Now("run: release memory");
+        // This process merges the sweep when it is done: the parts it writes stay in memory for that (within a bound).
+        WrittenParts.Watch(sweepId);
+        try
+        {
+            return WorkAndMerge(session, context, plans, sweepId, workers, runner, watch);
+        }
+        finally
+        {
+            WrittenParts.Forget(sweepId);
+        }
+    }
+
+    private static int WorkAndMerge(Session session, CliContext context, IPlanSource plans, string sweepId, int workers, ChunkRunner runner, DatabaseWatch watch)
+    {
+        var interrupted = false;
+        var storeFull = false;
         var pool = StageTimings.Measure("run: queue server start");
         var workerPool = new WorkerPool(session.Store, runner, workers);
         pool.Dispose();

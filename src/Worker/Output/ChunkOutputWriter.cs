@@ -27,6 +27,8 @@ public static class ChunkOutputWriter
             ["latticesweep.engine_version"] = outcomes.Count > 0 ? outcomes[0].EngineVersion : sweep.EngineVersion,
         };
         var prepared = new List<PreparedPart>();
+        // The rows of each part written from a table's rows, for WrittenParts (a part written otherwise is not kept).
+        var written = new Dictionary<PreparedPart, TableRows>();
         try
         {
             var rowed = ChunkTables.Rowed(outcomes);
@@ -54,6 +56,7 @@ public static class ChunkOutputWriter
                 var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
                 var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
                 prepared.Add(await ParquetPartWriter.PrepareAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false));
+                written[prepared[^1]] = rows;
             }
         }
         catch
@@ -69,6 +72,7 @@ public static class ChunkOutputWriter
         // Shared hold of the sweep's output lock: a merge (exclusive) never swaps a table folder
         // while parts are renamed into it.
         using var hold = OutputLock.Shared(sweep.OutputFolder);
+        var keep = WrittenParts.Keeps(sweep.SweepId, sweep.ChunkCount);
         for (var i = 0; i < prepared.Count; i++)
         {
             try
@@ -84,7 +88,15 @@ public static class ChunkOutputWriter
                     continue;
                 }
 
+                // The file as written, taken before the rename (which keeps it): the merge of this process
+                // takes the rows from memory only while the part is still this file (WrittenParts).
+                var kept = keep && written.TryGetValue(prepared[i], out var rows) ? rows : null;
+                var identity = kept is not null ? WrittenParts.IdentityOf(prepared[i].TemporaryPath) : default;
                 prepared[i].Commit();
+                if (kept is not null)
+                {
+                    WrittenParts.Keep(sweep.SweepId, prepared[i].FinalPath, identity, kept);
+                }
             }
             catch
             {

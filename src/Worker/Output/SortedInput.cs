@@ -20,8 +20,21 @@ internal sealed class SortedInput : IAsyncDisposable
     private MergeId _lastMergeId;
     private bool _lastIdKnown;
 
-    private SortedInput(string file, FileStream stream, ParquetReader reader, IReadOnlyList<ColumnDef> columns, IReadOnlyList<long> groupRows, bool streamed)
+    // The columns this process wrote to the file, still in memory (WrittenParts; null: read from the file), each row group's
+    // first row in them, and the row groups opened for reading by the reader OpenGroup gave.
+    private readonly Array?[]? _kept;
+    private readonly long[] _groupStart;
+    private readonly Dictionary<ParquetRowGroupReader, int> _openedGroups = new(ReferenceEqualityComparer.Instance);
+
+    private SortedInput(string file, FileStream stream, ParquetReader reader, IReadOnlyList<ColumnDef> columns, IReadOnlyList<long> groupRows, bool streamed, Array?[]? kept)
     {
+        _kept = kept;
+        _groupStart = new long[groupRows.Count];
+        for (var g = 1; g < groupRows.Count; g++)
+        {
+            _groupStart[g] = _groupStart[g - 1] + groupRows[g - 1];
+        }
+
         File = file;
         _stream = stream;
         _reader = reader;
@@ -74,6 +87,8 @@ internal sealed class SortedInput : IAsyncDisposable
             var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
             var streamed = columns.Any(c => c.Name == MergedLayout.PointIdColumn && c.Type == ColumnType.Text)
                 && metadata.TryGetValue(MergedLayout.RowGroupsKey, out var index) && RowGroupIndex.DescribesSortedFile(index, groupRows);
+            // A part this process wrote and still holds: its cells come from memory (WrittenParts checks it is the same file).
+            var kept = streamed ? WrittenParts.Find(file, stream.SafeFileHandle, columns, groupRows) : null;
             DropStatistics(reader);
             if (shared is not null)
             {
@@ -81,7 +96,7 @@ internal sealed class SortedInput : IAsyncDisposable
                 DropKeyValues(reader);
             }
 
-            return new SortedInput(file, stream, reader, columns, groupRows, streamed);
+            return new SortedInput(file, stream, reader, columns, groupRows, streamed, kept);
         }
         catch
         {
@@ -131,7 +146,19 @@ internal sealed class SortedInput : IAsyncDisposable
     public int IdColumn => _idColumn;
 
     /// <summary>Opens row group <paramref name="group"/> for reading its columns one at a time (<see cref="ReadColumnAsync"/>); dispose it after.</summary>
-    public ParquetRowGroupReader OpenGroup(int group) => _reader.OpenRowGroupReader(group);
+    public ParquetRowGroupReader OpenGroup(int group)
+    {
+        var opened = _reader.OpenRowGroupReader(group);
+        if (_kept is not null)
+        {
+            _openedGroups[opened] = group;
+        }
+
+        return opened;
+    }
+
+    /// <summary>Whether the file's cells are taken from the columns this process wrote to it (<see cref="WrittenParts"/>).</summary>
+    public bool FromMemory => _kept is not null;
 
     /// <summary>One column of a row group opened by <see cref="OpenGroup"/>, decoded (the merge by columns reads a column at a time).</summary>
     public async Task<Array> ReadColumnAsync(ParquetRowGroupReader group, int column, CancellationToken ct)
@@ -143,6 +170,14 @@ internal sealed class SortedInput : IAsyncDisposable
     /// <summary>One column of a row group opened by <see cref="OpenGroup"/>, decoded into <paramref name="buffer"/>'s first rows (returned: how many).</summary>
     public async Task<int> ReadColumnIntoAsync(ParquetRowGroupReader group, int column, Array buffer, CancellationToken ct)
     {
+        if (_kept?[column] is { } kept && _openedGroups.TryGetValue(group, out var g))
+        {
+            using var copying = Queue.StageTimings.Measure("merge: column from memory");
+            var rows = checked((int)GroupRows[g]);
+            Array.Copy(kept, _groupStart[g], buffer, 0, rows);
+            return rows;
+        }
+
         using var timing = Queue.StageTimings.Measure("merge: read column");
         return await ParquetTableFile.ReadColumnOfGroupIntoAsync(group, _fields[column], Columns[column].Type, buffer, ct).ConfigureAwait(false);
     }
@@ -155,10 +190,18 @@ internal sealed class SortedInput : IAsyncDisposable
     public async Task<MergeIds> ReadIdsInOrderAsync(int group, CancellationToken ct)
     {
         MergeIds ids;
-        using (var opened = OpenGroup(group))
-        using (Queue.StageTimings.Measure("merge: read column"))
-        using (var cells = await TextCells.ReadAsync(opened, _fields[_idColumn], ct).ConfigureAwait(false))
+        if (_kept?[_idColumn] is string?[] kept)
         {
+            using var copying = Queue.StageTimings.Measure("merge: column from memory");
+            var texts = new string?[GroupRows[group]];
+            Array.Copy(kept, _groupStart[group], texts, 0, texts.Length);
+            ids = MergeIds.Of(texts);
+        }
+        else
+        {
+            using var opened = OpenGroup(group);
+            using var reading = Queue.StageTimings.Measure("merge: read column");
+            using var cells = await TextCells.ReadAsync(opened, _fields[_idColumn], ct).ConfigureAwait(false);
             ids = MergeIds.Of(cells);
         }
 

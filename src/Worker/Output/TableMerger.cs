@@ -46,7 +46,15 @@ internal static class TableMerger
                 using var timing = Queue.StageTimings.MeasureAlone("merge: table " + table);
 
                 // A thread of its own per table: the pooled arrays its reads and writes rent go with it (MergeThread).
-                outcomes.Add(MergeThread.Run("merge " + table, () => MergeLockedAsync(sweepFolder, table, budget, table == TableNames.Points ? pointsSchema : null, ct)));
+                try
+                {
+                    outcomes.Add(MergeThread.Run("merge " + table, () => MergeLockedAsync(sweepFolder, table, budget, table == TableNames.Points ? pointsSchema : null, ct)));
+                }
+                finally
+                {
+                    // The table's parts are merged (or stay as they are): what this process kept of them goes.
+                    WrittenParts.ForgetFolder(SweepFolder.Table(sweepFolder, table));
+                }
             }
 
             // Every table done: the empty staging folder goes too, so the sweep folder holds tables only.
