@@ -79,9 +79,19 @@ internal static class SweepCommands
         var submitted = Submitter(session, context).Submit(plan, outRoot);
         var sweep = submitted.Sweep;
         ReportLostResults(submitted, context);
-        context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} chunks to run{StillQueued(submitted)} ({sweep.Counts.Unfinished} points without results).");
-        context.Stdout.WriteLine($"Results will be in {sweep.OutputFolder}");
-        context.Stdout.WriteLine($"Work it with: latsweep work{StoreHint(line)}");
+        if (submitted.ChunksQueued == 0 && submitted.ChunksStillQueued == 0 && sweep.Counts.Unfinished == 0)
+        {
+            // The same job submitted again after it finished: nothing was queued, and "queued" would say otherwise.
+            context.Stdout.WriteLine($"Sweep {sweep.SweepId} is already finished: {sweep.Counts.Total} points, every one with results; nothing queued.");
+            context.Stdout.WriteLine($"Results are in {sweep.OutputFolder}");
+        }
+        else
+        {
+            context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} chunks to run{StillQueued(submitted)} ({sweep.Counts.Unfinished} points without results).");
+            context.Stdout.WriteLine($"Results will be in {sweep.OutputFolder}");
+            context.Stdout.WriteLine($"Work it with: latsweep work{StoreHint(line)}");
+        }
+
         StageTimings.WriteIfEnabled(context.Stderr);
         return ExitCodes.Ok;
     }
@@ -104,11 +114,11 @@ internal static class SweepCommands
         return WorkSweep(session, context, plans, sweep.SweepId, workers);
     }
 
-    /// <summary>Says on stdout, not only in the log, that results the store knew of were missing and run again.</summary>
     /// <summary>", N more still in the queue" when a submit of a known sweep found chunks whose job is still queued (not queued twice).</summary>
     private static string StillQueued(SubmitResult result) =>
         result.ChunksStillQueued > 0 ? $", {result.ChunksStillQueued} more still in the queue" : "";
 
+    /// <summary>Says on stdout, not only in the log, that results the store knew of were missing and run again.</summary>
     private static void ReportLostResults(SubmitResult result, CliContext context)
     {
         if (result.LostChunks > 0)

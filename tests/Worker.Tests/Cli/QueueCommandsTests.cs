@@ -43,6 +43,24 @@ public sealed class QueueCommandsTests : IDisposable
     }
 
     [Fact]
+    public void Submitting_a_finished_sweep_again_says_it_is_finished_and_queues_nothing()
+    {
+        Assert.Equal(0, Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart).ExitCode);
+        var worked = Support.Cli.Run(_dir.Path, "work", "--workers", "2");
+        Assert.True(worked.ExitCode == 0, worked.Stdout + worked.Stderr);
+
+        var again = Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart);
+
+        Assert.True(again.ExitCode == 0, again.Stdout + again.Stderr);
+        Assert.Matches(@"Sweep quickstart-\w+ is already finished: 24 points, every one with results; nothing queued\.", again.Stdout);
+        Assert.DoesNotContain("queued:", again.Stdout, StringComparison.Ordinal);
+        Assert.DoesNotContain("latsweep work", again.Stdout, StringComparison.Ordinal);
+        Assert.Empty(EnqueuedChunks());
+        Assert.Contains("24 done, 0 unstable, 0 failed, 0 waiting, 0 running, 0 cancelled",
+            Support.Cli.Run(_dir.Path, "status", "quickstart").Stdout, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void A_cancelled_sweep_runs_nothing_until_resumed()
     {
         Assert.Equal(0, Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart).ExitCode);
