@@ -81,12 +81,12 @@ public static class CheckCommand
         var table = new TextTable(["column", "path", "unit", "type", "values", "from", "to"], [false, false, false, false, true, true, true]);
         foreach (var a in plan.Axes)
         {
-            if (a.Drawn is { } d)
+            if (a.Drawn is { } d && AxisBins.Of(a) is { } bins)
             {
-                // Drawn values: the interval they are drawn from (one value per point; listing them would hold every point's).
+                // Drawn values: the interval they are drawn from, its ends typed as the axis's values (the first bin's
+                // lower edge, the last one's upper); one value per point, so listing them would hold every point's.
                 table.Add(a.ColumnName, a.Path, a.Unit, a.ValueType.ToString().ToLowerInvariant(), N(d.Draws) + " drawn",
-                    Show(a.ValueType == AxisValueType.Integer ? Math.Ceiling(Math.Min(d.From, d.To)) : Math.Min(d.From, d.To)),
-                    Show(a.ValueType == AxisValueType.Integer ? Math.Floor(Math.Max(d.From, d.To)) : Math.Max(d.From, d.To)));
+                    Show(bins.Lower(0)), Show(bins.Upper(bins.Count - 1)));
                 continue;
             }
 

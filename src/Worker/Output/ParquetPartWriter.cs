@@ -137,8 +137,9 @@ internal static class ParquetPartWriter
     /// </summary>
     private static async Task WriteByColumnsAsync(Stream stream, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
     {
-        var idColumn = part.Columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
-        if (idColumn != 0 || part.RowCount > MergedLayout.RowGroupRows || part.Collect(idColumn) is not string?[] ids)
+        const int idColumn = 0; // where a points/ table holds its ids
+        if (part.Columns.Count == 0 || part.Columns[idColumn].Name != MergedLayout.PointIdColumn || part.RowCount > MergedLayout.RowGroupRows
+            || part.Collect(idColumn) is not string?[] ids)
         {
             var rows = part.Whole();
             var withFacts = new Dictionary<string, string>(metadata) { [ColumnSummary.Key] = ColumnSummary.Of(rows).ToJson() };

@@ -51,8 +51,7 @@ public sealed class AxisBins
     public static AxisBins Of(DrawnRange range, bool integer)
     {
         ArgumentNullException.ThrowIfNull(range);
-        var lo = Math.Min(range.From, range.To);
-        var hi = Math.Max(range.From, range.To);
+        var (lo, hi) = (range.Low, range.High);
         var bins = Math.Max(1, range.Bins);
         if (integer)
         {
@@ -139,8 +138,7 @@ public sealed class AxisBins
     /// <summary>The interval's ends and its middle on its scale, typed as the axis's values: values the sweep may draw.</summary>
     internal IEnumerable<object> Representatives(DrawnRange range)
     {
-        var lo = Math.Min(range.From, range.To);
-        var hi = Math.Max(range.From, range.To);
+        var (lo, hi) = (range.Low, range.High);
         var middle = Spacing.Round(Spacing.Map(lo, hi, 0.5, range.Log));
         return _integer
             ? ImmutableArray.Create<object>((long)Math.Ceiling(lo), (long)Math.Round(middle, MidpointRounding.AwayFromZero), (long)Math.Floor(hi)).Distinct()

@@ -29,7 +29,14 @@ public sealed record AxisInfo(string Path, string ColumnName, string Unit, AxisV
 /// (the sweep's <c>count</c>) and the number of equal bins its coverage is counted in
 /// (<see cref="AxisBins"/>), fixed when the sweep is submitted.
 /// </summary>
-public sealed record DrawnRange(double From, double To, bool Log, long Draws, int Bins);
+public sealed record DrawnRange(double From, double To, bool Log, long Draws, int Bins)
+{
+    /// <summary>The interval's lower end, whichever end the job file wrote first.</summary>
+    public double Low => Math.Min(From, To);
+
+    /// <summary>The interval's upper end.</summary>
+    public double High => Math.Max(From, To);
+}
 
 /// <summary>The column type of a swept parameter.</summary>
 public enum AxisValueType

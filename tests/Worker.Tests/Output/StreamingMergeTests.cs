@@ -314,16 +314,6 @@ public sealed class StreamingMergeTests : IDisposable
         // every column type and empty cells: merged once from inputs the pass opens itself, once from inputs opened beforehand
         // (as TableMerger does for a small table, using each for its columns, the pass plan and the pass) whose files are then
         // deleted, so opening any of them again would fail. The same bytes.
-        var columns = new List<ColumnDef>
-        {
-            new("point_id", ColumnType.Text, "", ""),
-            new("curve", ColumnType.Text, "", ""),
-            new("site", ColumnType.Int32, "", ""),
-            new("count", ColumnType.Int64, "", ""),
-            new("density", ColumnType.Double, "1/THz", ""),
-            new("stable", ColumnType.Bool, "", ""),
-            new("finished_at", ColumnType.Timestamp, "", ""),
-        };
         var table = NewTable();
         var random = new Random(23);
         var files = new List<string>();
@@ -341,19 +331,8 @@ public sealed class StreamingMergeTests : IDisposable
                 Enumerable.Range(0, n).Select(r => r % 6 == 0 ? null : (bool?)(r % 2 == 0)).ToArray(),
                 Enumerable.Range(0, n).Select(r => r % 4 == 0 ? null : (DateTime?)new DateTime(2026, 12, 5, 6, 0, 0, DateTimeKind.Utc).AddSeconds((chunk * 100) + r)).ToArray(),
             };
-            var metadata = new Dictionary<string, string>
-            {
-                ["latticesweep.table"] = "demo",
-                [MergedLayout.ChunksKey] = $"c{chunk:d2}",
-                [MergedLayout.RowGroupsKey] = RowGroupIndex.Of(ids, ids.Count),
-            };
             var file = Path.Combine(table, $"part-c{chunk:d2}.parquet");
-            await using (var stream = File.Create(file))
-            await using (var writer = await ParquetTableWriter.CreateAsync(stream, columns, metadata, CancellationToken.None))
-            {
-                await writer.WriteRowGroupAsync(new TableRows("demo", columns, n, values), CancellationToken.None);
-            }
-
+            await DemoParts.WriteAsync(file, chunk, ids, new TableRows("demo", DemoParts.Columns, n, values), rowsPerGroup: n);
             files.Add(file);
         }
 

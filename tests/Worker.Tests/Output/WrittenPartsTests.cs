@@ -11,17 +11,6 @@ namespace LatticeSweep.Worker.Tests.Output;
 /// </summary>
 public sealed class WrittenPartsTests : IDisposable
 {
-    private static readonly List<ColumnDef> Columns =
-    [
-        new("point_id", ColumnType.Text, "", ""),
-        new("curve", ColumnType.Text, "", ""),
-        new("site", ColumnType.Int32, "", ""),
-        new("count", ColumnType.Int64, "", ""),
-        new("density", ColumnType.Double, "1/THz", ""),
-        new("stable", ColumnType.Bool, "", ""),
-        new("finished_at", ColumnType.Timestamp, "", ""),
-    ];
-
     private readonly TempFolder _dir = new();
     private readonly string _sweepId = "demo-" + Guid.NewGuid().ToString("N");
 
@@ -164,7 +153,7 @@ public sealed class WrittenPartsTests : IDisposable
         {
             var ids = Enumerable.Range(0, 30 + random.Next(40)).Select(_ => $"{random.Next(60 + (40 * chunk)):x16}").Order(StringComparer.Ordinal).ToList();
             var n = ids.Count;
-            var rows = new TableRows("demo", Columns, n,
+            var rows = new TableRows("demo", DemoParts.Columns, n,
             [
                 ids.Select(id => (string?)id).ToArray(),
                 Enumerable.Range(0, n).Select(r => r % 5 == 0 ? null : r % 7 == 0 ? "" : r % 2 == 0 ? "total" : "site \u00e9").ToArray(),
@@ -174,23 +163,8 @@ public sealed class WrittenPartsTests : IDisposable
                 Enumerable.Range(0, n).Select(r => r % 6 == 0 ? null : (bool?)(r % 2 == 0)).ToArray(),
                 Enumerable.Range(0, n).Select(r => r % 4 == 0 ? null : (DateTime?)new DateTime(2026, 12, 5, 6, 0, 0, DateTimeKind.Utc).AddTicks((chunk * 1_000_000_000L) + (r * 12_345L))).ToArray(),
             ]);
-            var half = n / 2;
-            var metadata = new Dictionary<string, string>
-            {
-                ["latticesweep.table"] = "demo",
-                [MergedLayout.ChunksKey] = $"c{chunk:d2}",
-                [MergedLayout.RowGroupsKey] = RowGroupIndex.Of(ids, half),
-            };
             var file = Path.Combine(folder, $"part-c{chunk:d2}.parquet");
-            await using (var stream = File.Create(file))
-            await using (var writer = await ParquetTableWriter.CreateAsync(stream, Columns, metadata, CancellationToken.None))
-            {
-                for (var start = 0; start < n; start += half)
-                {
-                    await writer.WriteRowGroupAsync(rows, start, Math.Min(half, n - start), CancellationToken.None);
-                }
-            }
-
+            await DemoParts.WriteAsync(file, chunk, ids, rows, rowsPerGroup: n / 2);
             files.Add(file);
             all.Add(rows);
         }

@@ -38,15 +38,7 @@ public sealed class LazyPlanTests : IDisposable
         """;
 
     /// <summary>Points 1 and 3 the same: the planner collapses them.</summary>
-    private const string Repeating = """
-        combine = "zip"
-        [[sweep.axes]]
-        path = "model.sites.A.mass_amu"
-        values = [1, 2, 1]
-        [[sweep.axes]]
-        path = "model.sites.B.mass_amu"
-        values = [5, 6, 5]
-        """;
+    private const string Repeating = Some.RepeatingZipSweep;
 
     [Theory]
     [InlineData(Grid)]

@@ -60,15 +60,7 @@ public sealed class PointIdentityTests : IDisposable
     [Fact]
     public void Duplicate_points_are_collapsed_and_counted()
     {
-        var plan = Some.Load(_dir, Some.ChainJob(sweep: """
-            combine = "zip"
-            [[sweep.axes]]
-            path = "model.sites.A.mass_amu"
-            values = [1, 2, 1]
-            [[sweep.axes]]
-            path = "model.sites.B.mass_amu"
-            values = [5, 6, 5]
-            """));
+        var plan = Some.Load(_dir, Some.ChainJob(sweep: Some.RepeatingZipSweep));
         Assert.Equal(2, plan.Points.Length);
         Assert.Equal(1, plan.DuplicatePointsCollapsed);
         Assert.Equal([0, 1], plan.Points.Select(p => p.Index));

@@ -42,6 +42,17 @@ public static class Some
 
     public static SweepPlan Load(TempDirectory dir, string text, string name = "job.toml") => JobFileLoader.Load(dir.Write(name, text));
 
+    /// <summary>The [sweep] lines of a zip of three points whose first and third are the same (A's and B's masses), for <see cref="ChainJob"/>.</summary>
+    public const string RepeatingZipSweep = """
+        combine = "zip"
+        [[sweep.axes]]
+        path = "model.sites.A.mass_amu"
+        values = [1, 2, 1]
+        [[sweep.axes]]
+        path = "model.sites.B.mass_amu"
+        values = [5, 6, 5]
+        """;
+
     /// <summary>
     /// The [sweep] lines of a Latin hypercube of <paramref name="count"/> points (seed 7) drawing A's mass on [10, 30] and the
     /// first spring on [1, 100] on a log scale, for <see cref="ChainJob"/>; <paramref name="more"/> adds lines (another axis).
