@@ -11,8 +11,10 @@ internal sealed class LongWaves(Context x)
 {
     private const double Zeta3 = 1.2020569031595942;
     private double? _average;
+    private bool _averaged;
     private double _vMin = double.PositiveInfinity;
     private readonly List<double[]> _probe = [];
+    private double[]? _slowest;
 
     private AuditModel Model => x.Case.Model;
 
@@ -43,22 +45,62 @@ internal sealed class LongWaves(Context x)
         return speeds;
     }
 
-    /// <summary>Direction average of sum_s v_s^-d (m/s)^-d.</summary>
-    private double Average()
+    /// <summary>
+    /// Direction average of sum_s v_s^-d (m/s)^-d, or null where the rules below do not settle it. The rule is
+    /// doubled (3D: n Gauss-Legendre nodes in cos(theta) by 2n in phi, n = 16 ... 128; 2D: 128 ... 1,024 angles)
+    /// until two in a row agree within 1e-5: models whose speeds differ tenfold between directions put most of
+    /// the average in a narrow cone around the slowest direction, which a fixed 16 x 32 rule missed by 6 %
+    /// (seed 2512, case 45: a simple cubic crystal with 0.18 N/m across its z bonds; the closed form
+    /// &lt;(n^T A n)^-3/2&gt; = det(A)^-1/2 for a diagonal long-wave matrix A, common practice, from memory).
+    /// </summary>
+    private double? Average()
     {
-        if (_average is { } a)
+        if (_averaged)
         {
-            return a;
+            return _average;
         }
 
+        _averaged = true;
+        var d = Model.Dimension;
+        if (d == 1)
+        {
+            _average = Rule(0);
+            return _average;
+        }
+
+        var previous = Rule(0);
+        for (var level = 1; level <= 3; level++)
+        {
+            var next = Rule(level);
+            if (Math.Abs(next - previous) <= 1e-5 * Math.Abs(next))
+            {
+                _average = next;
+                return _average;
+            }
+
+            previous = next;
+        }
+
+        _average = null;
+        return _average;
+    }
+
+    /// <summary>One direction rule's average of sum_s v_s^-d: level 0 is the coarsest (and the one the probes come from).</summary>
+    private double Rule(int level)
+    {
         var d = Model.Dimension;
         var sum = 0.0;
         void Add(double[] dir, double weight, bool probe)
         {
             var v = Speeds(dir);
-            _vMin = Math.Min(_vMin, v.Min());
+            if (v.Min() < _vMin)
+            {
+                _vMin = v.Min();
+                _slowest = dir;
+            }
+
             sum += weight * v.Sum(s => Math.Pow(s, -d));
-            if (probe)
+            if (probe && level == 0)
             {
                 _probe.Add(dir);
             }
@@ -70,7 +112,7 @@ internal sealed class LongWaves(Context x)
         }
         else if (d == 2)
         {
-            const int n = 128;
+            var n = 128 << level;
             for (var k = 0; k < n; k++)
             {
                 var phi = 2 * Math.PI * k / n;
@@ -79,8 +121,8 @@ internal sealed class LongWaves(Context x)
         }
         else
         {
-            var (mu, w) = GaussLegendre(16);
-            const int nPhi = 32;
+            var (mu, w) = GaussLegendre(16 << level);
+            var nPhi = 32 << level;
             for (var i = 0; i < mu.Length; i++)
             {
                 var st = Math.Sqrt(1 - mu[i] * mu[i]);
@@ -92,7 +134,6 @@ internal sealed class LongWaves(Context x)
             }
         }
 
-        _average = sum;
         return sum;
     }
 
@@ -100,7 +141,11 @@ internal sealed class LongWaves(Context x)
     public double? Valid(double temperatureK)
     {
         var d = Model.Dimension;
-        var average = Average();
+        if (Average() is not { } average)
+        {
+            return null;
+        }
+
         var c = Model.Components;
         var qStar = 8 * Units.Kb * temperatureK / (Units.Hbar * _vMin) * Units.Nm; // 1/nm
         if (qStar > 0.25 * BMin)
@@ -114,7 +159,8 @@ internal sealed class LongWaves(Context x)
             return null;
         }
 
-        foreach (var dir in _probe)
+        // The probes are spread over the sphere; the slowest direction found is probed too, since its branch bends first.
+        foreach (var dir in _slowest is null ? _probe : _probe.Append(_slowest))
         {
             var norm = Math.Sqrt(dir.Sum(v => v * v));
             var speeds = Speeds(dir);
