@@ -21,6 +21,9 @@ public static class Show
     /// <summary>A count with its unit, digits grouped by thousands.</summary>
     public static string Count(long value, string unit = "") => WithUnit(value.ToString("N0", Invariant), unit);
 
+    /// <summary>A count of things, digits grouped by thousands, with the noun in the singular for exactly one ("1 chunk", "2 chunks").</summary>
+    public static string Count(long value, string one, string many) => Count(value, value == 1 ? one : many);
+
     /// <summary>Any cell value of a result table.</summary>
     public static string Value(object? value, string unit = "") => value switch
     {

@@ -23,6 +23,9 @@ public sealed class ShowTests
         Assert.Equal("13.53 THz", Show.Number(13.5274, "THz"));
         Assert.Equal(Show.Missing, Show.Number(null, "THz"));
         Assert.Equal("1,234 points", Show.Count(1234, "points"));
+        Assert.Equal("1 chunk", Show.Count(1, "chunk", "chunks"));
+        Assert.Equal("0 chunks", Show.Count(0, "chunk", "chunks"));
+        Assert.Equal("2,000 chunks", Show.Count(2000, "chunk", "chunks"));
         Assert.Equal("25.26 points/min", Show.Rate(25.263157));
         Assert.Equal("yes", Show.Value(true));
     }

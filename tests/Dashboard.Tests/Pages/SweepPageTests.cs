@@ -35,7 +35,8 @@ public sealed class SweepPageTests
         Assert.Equal(s.Counts.Running, Html.Long(progress, "running"));
         Assert.Equal(s.Counts.Waiting, Html.Long(progress, "waiting"));
         Assert.Equal(s.Counts.Cancelled, Html.Long(progress, "cancelled"));
-        Assert.Equal($"{s.Counts.Done} points", Html.Text(progress, "done"));
+        Assert.Equal(s.Counts.Done == 1 ? "1 point" : $"{s.Counts.Done} points", Html.Text(progress, "done"));
+        Assert.Contains(s.ChunkCount == 1 ? " · 1 chunk" : $" · {s.ChunkCount} chunks", page.QuerySelector(".page-head p.muted")!.TextContent, StringComparison.Ordinal);
         Assert.Equal(s.State.ToString().ToLowerInvariant(), Html.Text(page.DocumentElement, "state"));
     }
 

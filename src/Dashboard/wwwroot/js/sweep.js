@@ -3,7 +3,7 @@
     "use strict";
     const section = document.getElementById("progress");
     if (!section) { return; }
-    const count = (n) => Number(n).toLocaleString("en-US") + " points";
+    const count = (n) => Number(n).toLocaleString("en-US") + (Number(n) === 1 ? " point" : " points");
 
     function set(field, text, value) {
         const el = section.querySelector('[data-field="' + field + '"]');
