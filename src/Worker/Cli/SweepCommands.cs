@@ -87,7 +87,7 @@ internal static class SweepCommands
         }
         else
         {
-            context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} chunks to run{StillQueued(submitted)} ({sweep.Counts.Unfinished} points without results).");
+            context.Stdout.WriteLine($"Sweep {sweep.SweepId} queued: {sweep.Counts.Total} points, {submitted.ChunksQueued} {(submitted.ChunksQueued == 1 ? "chunk" : "chunks")} to run{StillQueued(submitted)} ({sweep.Counts.Unfinished} points without results).");
             context.Stdout.WriteLine($"Results will be in {sweep.OutputFolder}");
             context.Stdout.WriteLine($"Work it with: latsweep work{StoreHint(line)}");
         }
@@ -107,7 +107,7 @@ internal static class SweepCommands
         ReportLostResults(resumed, context);
         if (line.Flag("queue-only"))
         {
-            context.Stdout.WriteLine($"Sweep {sweep.SweepId}: {resumed.ChunksQueued} chunks queued again, {resumed.ChunksStillQueued} still in the queue ({resumed.Sweep.Counts.Unfinished} points without results).");
+            context.Stdout.WriteLine($"Sweep {sweep.SweepId}: {resumed.ChunksQueued} {(resumed.ChunksQueued == 1 ? "chunk" : "chunks")} queued again, {resumed.ChunksStillQueued} still in the queue ({resumed.Sweep.Counts.Unfinished} points without results).");
             return ExitCodes.Ok;
         }
 

@@ -14,6 +14,14 @@ public sealed class QueueCommandsTests : IDisposable
     private static string Quickstart => Path.Combine(Support.Cli.JobsFolder, "quickstart.toml");
 
     [Fact]
+    public void Submitting_a_sweep_of_one_chunk_says_chunk_in_the_singular()
+    {
+        var submitted = Support.Cli.Run(_dir.Path, "submit", Quickstart);
+        Assert.Equal(0, submitted.ExitCode);
+        Assert.Contains("24 points, 1 chunk to run", submitted.Stdout, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Submit_then_work_finishes_the_sweep_and_status_shows_it()
     {
         var submitted = Support.Cli.Run(_dir.Path, SmallChunks, "submit", Quickstart);
