@@ -44,21 +44,28 @@ internal sealed class SharedFooterParts
 
     /// <summary>
     /// The data fields of the pass's first schema when <paramref name="schema"/> equals it (same fields, names, types,
-    /// nesting), else <paramref name="schema"/>'s own. A row group reader finds a column's chunk by the field's path and
-    /// takes its levels from the field, so a field of an equal schema reads the same chunk.
+    /// nullability, nesting, and for timestamps the same format and unit), else <paramref name="schema"/>'s own. A row group
+    /// reader finds a column's chunk by the field's path and takes its levels from the field, so a field of an equal schema
+    /// reads the same chunk.
     /// </summary>
     public DataField[] Fields(ParquetSchema schema)
     {
         ArgumentNullException.ThrowIfNull(schema);
+        var fields = schema.GetDataFields();
         if (_schema is null)
         {
             _schema = schema;
-            _fields = schema.GetDataFields();
-            return _fields;
+            _fields = fields;
+            return fields;
         }
 
-        return _schema.Equals(schema) ? _fields! : schema.GetDataFields();
+        return _schema.Equals(schema) && _fields!.Length == fields.Length && _fields.Zip(fields).All(p => Alike(p.First, p.Second)) ? _fields : fields;
     }
+
+    /// <summary>Parquet.Net's equality of fields leaves out a timestamp's format and unit (a date equals a timestamp): compared here.</summary>
+    private static bool Alike(DataField a, DataField b) =>
+        a.Equals(b) && a.GetType() == b.GetType()
+        && (a is not DateTimeDataField at || b is DateTimeDataField bt && at.DateTimeFormat == bt.DateTimeFormat && at.IsAdjustedToUTC == bt.IsAdjustedToUTC && at.Unit == bt.Unit);
 
     /// <summary>Points every column chunk of <paramref name="reader"/>'s footer at the pass's copy of its path and encodings.</summary>
     public void ShareChunkLists(ParquetReader reader)

@@ -477,6 +477,15 @@ public sealed class StreamingMergeTests : IDisposable
         Assert.Equal("j", renamed[1].Name);
         Assert.NotSame(first, retyped);
         Assert.Equal(typeof(long), retyped[1].ClrType);
+        Assert.NotSame(first, shared.Fields(new ParquetSchema(new DataField<string>("point_id"), new DataField("k", typeof(int), isNullable: false))));
+
+        // Parquet.Net's own equality takes a date for a timestamp: their fields are kept apart.
+        var times = new SharedFooterParts();
+        var stamp = times.Fields(new ParquetSchema(new DataField<string>("point_id"), new DateTimeDataField("t", DateTimeFormat.Timestamp, isNullable: true)));
+        Assert.Same(stamp, times.Fields(new ParquetSchema(new DataField<string>("point_id"), new DateTimeDataField("t", DateTimeFormat.Timestamp, isNullable: true))));
+        var date = times.Fields(new ParquetSchema(new DataField<string>("point_id"), new DateTimeDataField("t", DateTimeFormat.Date, isNullable: true)));
+        Assert.NotSame(stamp, date);
+        Assert.Equal(DateTimeFormat.Date, ((DateTimeDataField)date[1]).DateTimeFormat);
     }
 
     private static string?[] Texts(MergeIds ids) => Enumerable.Range(0, ids.Length).Select(ids.TextAt).ToArray();
