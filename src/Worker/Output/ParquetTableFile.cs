@@ -37,12 +37,13 @@ internal static class ParquetTableFile
     }
 
     /// <summary>The file's columns with their types and units (from the footer).</summary>
-    public static IReadOnlyList<ColumnDef> ColumnsOf(ParquetReader reader, string file)
+    /// <param name="schema">the reader's schema when the caller has built it already (Parquet.Net builds a new one each time it is asked)</param>
+    public static IReadOnlyList<ColumnDef> ColumnsOf(ParquetReader reader, string file, ParquetSchema? schema = null)
     {
         ArgumentNullException.ThrowIfNull(reader);
         var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
         var units = metadata.TryGetValue(ParquetPartWriter.UnitsKey, out var json) ? Units(json) : [];
-        return reader.Schema.GetDataFields().Select(f => new ColumnDef(f.Name, TypeOf(f, file), units.GetValueOrDefault(f.Name, ""), "")).ToList();
+        return (schema ?? reader.Schema).GetDataFields().Select(f => new ColumnDef(f.Name, TypeOf(f, file), units.GetValueOrDefault(f.Name, ""), "")).ToList();
     }
 
     /// <summary>One row group of the file decoded into column arrays (<see cref="ColumnValues"/>), with its row count.</summary>

@@ -26,7 +26,8 @@ internal sealed class SortedInput : IAsyncDisposable
     private readonly long[] _groupStart;
     private readonly Dictionary<ParquetRowGroupReader, int> _openedGroups = new(ReferenceEqualityComparer.Instance);
 
-    private SortedInput(string file, FileStream stream, ParquetReader reader, IReadOnlyList<ColumnDef> columns, IReadOnlyList<long> groupRows, bool streamed, Array?[]? kept)
+    private SortedInput(string file, FileStream stream, ParquetReader reader, IReadOnlyList<ColumnDef> columns, Parquet.Schema.DataField[] fields,
+        IReadOnlyList<long> groupRows, bool streamed, Array?[]? kept)
     {
         _kept = kept;
         _groupStart = new long[groupRows.Count];
@@ -41,7 +42,7 @@ internal sealed class SortedInput : IAsyncDisposable
         Columns = columns;
         GroupRows = groupRows;
         _streamed = streamed;
-        _fields = reader.Schema.GetDataFields();
+        _fields = fields;
         _idColumn = columns.Select(c => c.Name).ToList().IndexOf(MergedLayout.PointIdColumn);
     }
 
@@ -76,7 +77,10 @@ internal sealed class SortedInput : IAsyncDisposable
         try
         {
             var reader = await ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
-            var columns = shared is null ? ParquetTableFile.ColumnsOf(reader, file) : shared.Columns(ParquetTableFile.ColumnsOf(reader, file));
+            // Parquet.Net builds the schema anew each time it is asked: built once here, its fields kept (the pass's when equal).
+            var schema = reader.Schema;
+            var fields = shared is null ? schema.GetDataFields() : shared.Fields(schema);
+            var columns = shared is null ? ParquetTableFile.ColumnsOf(reader, file, schema) : shared.Columns(ParquetTableFile.ColumnsOf(reader, file, schema));
             var groupRows = new List<long>();
             for (var g = 0; g < reader.RowGroupCount; g++)
             {
@@ -96,7 +100,7 @@ internal sealed class SortedInput : IAsyncDisposable
                 DropKeyValues(reader);
             }
 
-            return new SortedInput(file, stream, reader, columns, groupRows, streamed, kept);
+            return new SortedInput(file, stream, reader, columns, fields, groupRows, streamed, kept);
         }
         catch
         {
@@ -141,6 +145,9 @@ internal sealed class SortedInput : IAsyncDisposable
 
     /// <summary>Whether the file is read a row group at a time (sorted and indexed); else it is read whole (<see cref="AdvanceAsync"/>).</summary>
     public bool Streamed => _streamed;
+
+    /// <summary>The schema's data fields the columns are read by (one array for every input of a pass whose schemas are equal: <see cref="SharedFooterParts.Fields"/>).</summary>
+    internal IReadOnlyList<Parquet.Schema.DataField> Fields => _fields;
 
     /// <summary>The point id column's position, or -1.</summary>
     public int IdColumn => _idColumn;

@@ -1,5 +1,6 @@
 using LatticeSweep.Worker.Output;
 using LatticeSweep.Worker.Tests.Support;
+using Parquet.Schema;
 
 namespace LatticeSweep.Worker.Tests.Output;
 
@@ -431,7 +432,7 @@ public sealed class StreamingMergeTests : IDisposable
     }
 
     [Fact]
-    public async Task Inputs_opened_for_one_pass_share_their_columns_and_chunk_lists_and_still_read_their_own_values()
+    public async Task Inputs_opened_for_one_pass_share_their_columns_fields_and_chunk_lists_and_still_read_their_own_values()
     {
         var table = NewTable();
         var first = Path.Combine(table, "part-c0.parquet");
@@ -448,12 +449,43 @@ public sealed class StreamingMergeTests : IDisposable
         Assert.Same(a.Columns, b.Columns);
         Assert.NotSame(a.Columns, alone.Columns);
         Assert.Equal(Columns, b.Columns);
+        Assert.Same(a.Fields, b.Fields);
+        Assert.NotSame(a.Fields, alone.Fields);
+        Assert.Equal(alone.Fields, b.Fields);
 
         // Each input still reads its own rows through the shared lists.
         Assert.Equal(new string?[] { "a0", "a1", "a2" }, Texts(await a.ReadIdsInOrderAsync(0, CancellationToken.None)));
         Assert.Equal(new string?[] { "b0", "b1" }, Texts(await b.ReadIdsInOrderAsync(0, CancellationToken.None)));
         using var group = b.OpenGroup(0);
         Assert.Equal(new double?[] { 10.5, 11.5 }, (double?[])await b.ReadColumnAsync(group, 2, CancellationToken.None));
+        Assert.Equal(new int?[] { 10, 11 }, (int?[])await b.ReadColumnAsync(group, 1, CancellationToken.None));
+        var flags = new bool?[4];
+        Assert.Equal(2, await b.ReadColumnIntoAsync(group, 3, flags, CancellationToken.None));
+        Assert.Equal(new bool?[] { true, true, null, null }, flags);
+    }
+
+    [Fact]
+    public void Fields_of_an_equal_schema_are_the_pass_s_and_of_another_schema_their_own()
+    {
+        var shared = new SharedFooterParts();
+        ParquetSchema Schema(string second, Type type) => new(new DataField<string>("point_id"), new DataField(second, type, isNullable: true));
+        var first = shared.Fields(Schema("k", typeof(int)));
+        Assert.Same(first, shared.Fields(Schema("k", typeof(int))));
+        var renamed = shared.Fields(Schema("j", typeof(int)));
+        var retyped = shared.Fields(Schema("k", typeof(long)));
+        Assert.NotSame(first, renamed);
+        Assert.Equal("j", renamed[1].Name);
+        Assert.NotSame(first, retyped);
+        Assert.Equal(typeof(long), retyped[1].ClrType);
+        Assert.NotSame(first, shared.Fields(new ParquetSchema(new DataField<string>("point_id"), new DataField("k", typeof(int), isNullable: false))));
+
+        // Parquet.Net's own equality takes a date for a timestamp: their fields are kept apart.
+        var times = new SharedFooterParts();
+        var stamp = times.Fields(new ParquetSchema(new DataField<string>("point_id"), new DateTimeDataField("t", DateTimeFormat.Timestamp, isNullable: true)));
+        Assert.Same(stamp, times.Fields(new ParquetSchema(new DataField<string>("point_id"), new DateTimeDataField("t", DateTimeFormat.Timestamp, isNullable: true))));
+        var date = times.Fields(new ParquetSchema(new DataField<string>("point_id"), new DateTimeDataField("t", DateTimeFormat.Date, isNullable: true)));
+        Assert.NotSame(stamp, date);
+        Assert.Equal(DateTimeFormat.Date, ((DateTimeDataField)date[1]).DateTimeFormat);
     }
 
     private static string?[] Texts(MergeIds ids) => Enumerable.Range(0, ids.Length).Select(ids.TextAt).ToArray();
