@@ -54,7 +54,7 @@ internal static class WrittenParts
     /// <summary>Drops what was kept of the parts in <paramref name="tableFolder"/> (its merge is done).</summary>
     public static void ForgetFolder(string tableFolder)
     {
-        var prefix = Path.GetFullPath(tableFolder).TrimEnd(Path.DirectorySeparatorChar) + Path.DirectorySeparatorChar;
+        var prefix = FolderPrefix(tableFolder);
         lock (Gate)
         {
             if (ByPath.Count > 0)
@@ -63,6 +63,18 @@ internal static class WrittenParts
             }
         }
     }
+
+    /// <summary>Bytes held for the parts in <paramref name="tableFolder"/> (estimated as <see cref="Keep"/> counts them).</summary>
+    public static long BytesHeldIn(string tableFolder)
+    {
+        var prefix = FolderPrefix(tableFolder);
+        lock (Gate)
+        {
+            return ByPath.Where(e => e.Key.StartsWith(prefix, StringComparison.Ordinal)).Sum(e => e.Value.Bytes);
+        }
+    }
+
+    private static string FolderPrefix(string tableFolder) => Path.GetFullPath(tableFolder).TrimEnd(Path.DirectorySeparatorChar) + Path.DirectorySeparatorChar;
 
     /// <summary>The identity of a file just written (before its rename, which keeps both).</summary>
     public static FileIdentity IdentityOf(string path)
