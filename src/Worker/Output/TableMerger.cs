@@ -41,7 +41,7 @@ internal static class TableMerger
         var outcomes = new List<Outcome>();
         using (OutputLock.Exclusive(sweepFolder))
         {
-            foreach (var table in KeptFirst(sweepFolder, tables))
+            foreach (var table in tables)
             {
                 using var timing = Queue.StageTimings.MeasureAlone("merge: table " + table);
 
@@ -62,19 +62,6 @@ internal static class TableMerger
         }
 
         return Task.FromResult<IReadOnlyList<Outcome>>(outcomes);
-    }
-
-    /// <summary>
-    /// The tables in the order they are merged: those whose parts' columns this process still holds (<see cref="WrittenParts"/>)
-    /// first, the most held first, then the others as listed. A table's kept columns go when its merge ends, so they are not
-    /// held through the other tables' merges (a 300-point run kept ~17 MB of <c>dos/</c> columns through <c>points/</c>'s
-    /// merge, its peak: bench/README, round 24). Each table's merge is its own; the order changes no file.
-    /// </summary>
-    internal static IReadOnlyList<string> KeptFirst(string sweepFolder, IEnumerable<string> tables)
-    {
-        var listed = tables.ToList();
-        var held = listed.ToDictionary(t => t, t => WrittenParts.BytesHeldIn(SweepFolder.Table(sweepFolder, t)), StringComparer.Ordinal);
-        return [.. listed.Where(t => held[t] > 0).OrderByDescending(t => held[t]), .. listed.Where(t => held[t] == 0)];
     }
 
     /// <summary>

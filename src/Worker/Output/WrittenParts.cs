@@ -64,16 +64,6 @@ internal static class WrittenParts
         }
     }
 
-    /// <summary>Bytes held for the parts in <paramref name="tableFolder"/> (estimated as <see cref="Keep"/> counts them).</summary>
-    public static long BytesHeldIn(string tableFolder)
-    {
-        var prefix = FolderPrefix(tableFolder);
-        lock (Gate)
-        {
-            return ByPath.Where(e => e.Key.StartsWith(prefix, StringComparison.Ordinal)).Sum(e => e.Value.Bytes);
-        }
-    }
-
     private static string FolderPrefix(string tableFolder) => Path.GetFullPath(tableFolder).TrimEnd(Path.DirectorySeparatorChar) + Path.DirectorySeparatorChar;
 
     /// <summary>The identity of a file just written (before its rename, which keeps both).</summary>

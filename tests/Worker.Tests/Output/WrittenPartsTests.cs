@@ -54,33 +54,6 @@ public sealed class WrittenPartsTests : IDisposable
     }
 
     [Fact]
-    public async Task The_tables_whose_columns_are_kept_merge_first_the_most_held_first_and_the_others_as_listed()
-    {
-        // A sweep folder of four tables: two of them with parts kept (one larger), two read from their files.
-        var sweep = _dir.Combine("sweep");
-        var (small, smallRows) = await WritePartsAsync(Path.Combine(sweep, "small"), seed: 41, parts: 2);
-        var (large, largeRows) = await WritePartsAsync(Path.Combine(sweep, "large"), seed: 43, parts: 6);
-        await WritePartsAsync(Path.Combine(sweep, "first"), seed: 47, parts: 2);
-        WrittenParts.Watch(_sweepId);
-        foreach (var (files, rows) in new[] { (small, smallRows), (large, largeRows) })
-        {
-            for (var i = 0; i < files.Count; i++)
-            {
-                WrittenParts.Keep(_sweepId, files[i], WrittenParts.IdentityOf(files[i]), rows[i]);
-            }
-        }
-
-        Assert.True(WrittenParts.BytesHeldIn(Path.Combine(sweep, "large")) > WrittenParts.BytesHeldIn(Path.Combine(sweep, "small")));
-        Assert.Equal(0, WrittenParts.BytesHeldIn(Path.Combine(sweep, "first")));
-        Assert.Equal(["large", "small", "first", "none"], TableMerger.KeptFirst(sweep, ["first", "small", "none", "large"]));
-
-        // Each table's kept columns go with its merge, which takes the kept ones first; the outcomes are those of every table.
-        var outcomes = await TableMerger.MergeSweepAsync(sweep, ["first", "small", "none", "large"], CancellationToken.None);
-        Assert.Equal(["large", "small", "first", "none"], outcomes.Select(o => o.Table));
-        Assert.All(new[] { "large", "small" }, t => Assert.Equal(0, WrittenParts.BytesHeldIn(Path.Combine(sweep, t))));
-    }
-
-    [Fact]
     public async Task A_part_whose_file_changed_since_it_was_kept_is_read_from_the_file()
     {
         var folder = _dir.Combine("demo");
