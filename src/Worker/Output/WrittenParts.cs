@@ -54,7 +54,7 @@ internal static class WrittenParts
     /// <summary>Drops what was kept of the parts in <paramref name="tableFolder"/> (its merge is done).</summary>
     public static void ForgetFolder(string tableFolder)
     {
-        var prefix = FolderPrefix(tableFolder);
+        var prefix = Path.GetFullPath(tableFolder).TrimEnd(Path.DirectorySeparatorChar) + Path.DirectorySeparatorChar;
         lock (Gate)
         {
             if (ByPath.Count > 0)
@@ -63,8 +63,6 @@ internal static class WrittenParts
             }
         }
     }
-
-    private static string FolderPrefix(string tableFolder) => Path.GetFullPath(tableFolder).TrimEnd(Path.DirectorySeparatorChar) + Path.DirectorySeparatorChar;
 
     /// <summary>The identity of a file just written (before its rename, which keeps both).</summary>
     public static FileIdentity IdentityOf(string path)
