@@ -90,8 +90,8 @@ internal static class ParquetPartWriter
 
     /// <summary>
     /// The units entry of a file of these columns: made once per column list in a process and handed out again for
-    /// every later file of the same columns (a run writes one part per table and chunk, ~210 columns each: the
-    /// serializer's per-column code crossed the tier-1 threshold for every run of more than a few chunks).
+    /// every later file of the same columns (a run writes one part per table and chunk; round 24 counted the serializer's
+    /// per-part work at ~1 % of a 300-point run's tier-1 compilation: bench/README).
     /// </summary>
     public static string UnitsJson(IEnumerable<ColumnDef> columns)
     {
