@@ -84,6 +84,7 @@ internal static class CostCase
             new("bulk fcc n=6 mesh 48^3 vectors", fcc2, BulkSample.Create(48, 48, 48), full), // bench case (b)'s mesh with the job file's defaults
             new("bulk fcc n=6 mesh 48^3 vectors, 200 T", fcc2, BulkSample.Create(48, 48, 48), fullManyT), // as bench case bulk-defaults
             new("bulk fcc n=6 mesh 24x23x22 vectors", fcc2, BulkSample.Create(24, 23, 22), full), // no two counts alike: every tetrahedron
+            new("bulk fcc n=6 mesh 40^3 vectors, 7 T", fcc2, BulkSample.Create(40, 40, 40), full with { TemperaturesK = [10, 50, 100, 200, 300, 500, 1000] }), // bench/queue/60ms-points.toml's point
             new("bulk stack n=12 mesh 16x16x4", Stack(4), BulkSample.Create(16, 16, 4), plain),
             new("bulk stack n=24 mesh 12x12x3", Stack(8), BulkSample.Create(12, 12, 3), plain),
             new("bulk stack n=48 mesh 8x8x2", Stack(16), BulkSample.Create(8, 8, 2), plain),

@@ -71,6 +71,36 @@ public sealed class PostgresSweepCatalog : SqlSweepCatalog
 
     protected override string ParameterPath(string column) => column;
 
+    /// <summary>
+    /// A chunk's ends as one statement (one round trip instead of one per point): the ends go in as seven arrays, one
+    /// per column, joined to the chunk's rows by point id. A point given twice ends as the last one given.
+    /// </summary>
+    protected override void UpdateCompletedPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, IReadOnlyList<PointCompletion> points)
+    {
+        ArgumentNullException.ThrowIfNull(points);
+        var ends = LastOfEachPoint(points);
+        if (ends.Count == 0)
+        {
+            return;
+        }
+
+        Execute(c, tx, """
+            UPDATE latsweep_points AS p SET state = e.state, failure_kind = e.kind, error = e.error,
+                started_ms = e.started, finished_ms = e.finished, duration_us = e.duration
+            FROM unnest(@points::text[], @states::text[], @kinds::text[], @errors::text[], @started::bigint[], @finished::bigint[], @durations::bigint[])
+                AS e(point, state, kind, error, started, finished, duration)
+            WHERE p.sweep_id = @sweep AND p.chunk_id = @chunk AND p.point_id = e.point
+            """,
+            ("sweep", sweepId), ("chunk", chunkId),
+            ("points", ends.Select(p => p.PointId).ToArray()),
+            ("states", ends.Select(p => Text(p.State)).ToArray()),
+            ("kinds", ends.Select(p => p.FailureKind is { } k ? Text(k) : null).ToArray()),
+            ("errors", ends.Select(p => p.Error).ToArray()),
+            ("started", ends.Select(p => Ms(p.StartedAt)).ToArray()),
+            ("finished", ends.Select(p => Ms(p.FinishedAt)).ToArray()),
+            ("durations", ends.Select(p => DurationUs(p.DurationSeconds)).ToArray()));
+    }
+
     /// <summary>Drops pooled connections (after the server restarted they are all broken).</summary>
     public void ClearPool() => _dataSource.Clear();
 

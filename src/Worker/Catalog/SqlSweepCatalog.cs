@@ -353,6 +353,36 @@ public abstract partial class SqlSweepCatalog : ISweepCatalog
         }
     }
 
+    /// <summary>
+    /// The points' ends with each point once, as the last one given for it, in the order given: what a chunk's one
+    /// statement over all its ends takes (where a point joined twice would end as either).
+    /// </summary>
+    protected static IReadOnlyList<PointCompletion> LastOfEachPoint(IReadOnlyList<PointCompletion> points)
+    {
+        ArgumentNullException.ThrowIfNull(points);
+        var last = new Dictionary<string, int>(points.Count, StringComparer.Ordinal);
+        for (var i = 0; i < points.Count; i++)
+        {
+            last[points[i].PointId] = i;
+        }
+
+        if (last.Count == points.Count)
+        {
+            return points;
+        }
+
+        var once = new List<PointCompletion>(last.Count);
+        for (var i = 0; i < points.Count; i++)
+        {
+            if (last[points[i].PointId] == i)
+            {
+                once.Add(points[i]);
+            }
+        }
+
+        return once;
+    }
+
     /// <summary>The UPDATE of one point's end (parameters @sweep, @chunk, @point, @state, @kind, @error, @started, @finished, @duration).</summary>
     protected const string UpdatePointEndSql = """
         UPDATE latsweep_points SET state = @state, failure_kind = @kind, error = @error,

@@ -66,17 +66,95 @@ public sealed class SqliteSweepCatalog : SqlSweepCatalog
     }
 
     /// <summary>
-    /// A chunk's ends through SQLite's own statement API: the base's UPDATE per point, prepared once
-    /// and its seven values bound by position, in the order given (a point given twice ends as the last
-    /// one given). Through ADO.NET each point cost ~14 us of binding by name and command set-up
-    /// (bench/README.md, Round 19); the values are bound as ADO.NET binds them (text as UTF-8 by
-    /// <c>sqlite3_bind_text</c>), so the rows hold the same bytes. (One statement over a JSON array of the
-    /// ends was tried: SQLite joins the chunk's rows to the array by scanning the array for each row.)
+    /// A chunk's ends as one statement: the ends go in as one JSON array bound as UTF-8 text, unpacked with SQLite's own
+    /// <c>json_each</c> into a materialized table, each of whose rows finds its point by the (sweep, chunk, point) index.
+    /// The point per row with its seven values bound cost ~2,100 bindings and 300 steps in a 300-point run (their code
+    /// crossed the tier-1 threshold: bench/README, round 24); a join of the chunk's rows to <c>json_each</c> itself
+    /// scanned the array for each row. The text comes out of the JSON as the UTF-8 the bound text was, the numbers
+    /// as integers; an error text with a UTF-16 surrogate (which JSON would carry as an escape) goes by the statement
+    /// per point. A point given twice ends as the last one given.
     /// </summary>
     protected override void UpdateCompletedPoints(DbConnection c, DbTransaction tx, string sweepId, string chunkId, IReadOnlyList<PointCompletion> points)
     {
         ArgumentNullException.ThrowIfNull(points);
+        if (points.Count == 0)
+        {
+            return;
+        }
+
         var db = ((SqliteConnection)c).Handle!;
+        if (points.Any(p => p.Error is { } e && e.AsSpan().ContainsAnyInRange('\uD800', '\uDFFF')))
+        {
+            UpdatePointByPoint(db, sweepId, chunkId, points);
+            return;
+        }
+
+        var ends = new System.Buffers.ArrayBufferWriter<byte>(points.Count * 96);
+        using (var json = new System.Text.Json.Utf8JsonWriter(ends))
+        {
+            json.WriteStartArray();
+            foreach (var p in LastOfEachPoint(points))
+            {
+                json.WriteStartArray();
+                json.WriteStringValue(p.PointId);
+                json.WriteStringValue(Text(p.State));
+                if (p.FailureKind is { } k)
+                {
+                    json.WriteStringValue(Text(k));
+                }
+                else
+                {
+                    json.WriteNullValue();
+                }
+
+                if (p.Error is { } e)
+                {
+                    json.WriteStringValue(e);
+                }
+                else
+                {
+                    json.WriteNullValue();
+                }
+
+                json.WriteNumberValue(Ms(p.StartedAt));
+                json.WriteNumberValue(Ms(p.FinishedAt));
+                json.WriteNumberValue(DurationUs(p.DurationSeconds));
+                json.WriteEndArray();
+            }
+
+            json.WriteEndArray();
+        }
+
+        Check(db, SQLitePCL.raw.sqlite3_prepare_v2(db, UpdateChunkEndsSql, out var stmt));
+        using (stmt)
+        {
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@sweep"), sweepId));
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@chunk"), chunkId));
+            Check(db, SQLitePCL.raw.sqlite3_bind_text(stmt, Index(stmt, "@ends"), ends.WrittenSpan));
+            Step(db, stmt);
+        }
+    }
+
+    /// <summary>The UPDATE of a chunk's ends from a JSON array of [point, state, kind, error, started, finished, duration].</summary>
+    private const string UpdateChunkEndsSql = """
+        WITH e AS MATERIALIZED (
+            SELECT json_extract(value, '$[0]') AS point, json_extract(value, '$[1]') AS state, json_extract(value, '$[2]') AS kind,
+                json_extract(value, '$[3]') AS error, json_extract(value, '$[4]') AS started, json_extract(value, '$[5]') AS finished,
+                json_extract(value, '$[6]') AS duration
+            FROM json_each(@ends))
+        UPDATE latsweep_points SET state = e.state, failure_kind = e.kind, error = e.error,
+            started_ms = e.started, finished_ms = e.finished, duration_us = e.duration
+        FROM e
+        WHERE latsweep_points.sweep_id = @sweep AND latsweep_points.chunk_id = @chunk AND latsweep_points.point_id = e.point
+        """;
+
+    /// <summary>
+    /// The base's UPDATE per point through SQLite's own statement API, prepared once and its seven values bound by position,
+    /// in the order given (a point given twice ends as the last one given); values bound as ADO.NET binds them (text as
+    /// UTF-8 by <c>sqlite3_bind_text</c>, a lone surrogate as U+FFFD).
+    /// </summary>
+    private static void UpdatePointByPoint(SQLitePCL.sqlite3 db, string sweepId, string chunkId, IReadOnlyList<PointCompletion> points)
+    {
         Check(db, SQLitePCL.raw.sqlite3_prepare_v2(db, UpdatePointEndSql, out var stmt));
         using (stmt)
         {
