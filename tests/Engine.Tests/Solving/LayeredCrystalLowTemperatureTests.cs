@@ -1,6 +1,8 @@
+using LatticeSweep.Engine.Elastic;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
+using LatticeSweep.Engine.Spectrum;
 using LatticeSweep.Engine.Springs;
 using LatticeSweep.Engine.Tests.Support;
 using LatticeSweep.Engine.Units;
@@ -181,5 +183,23 @@ public class LayeredCrystalLowTemperatureTests
         {
             Approx.Equal(SheetLaw(row.TemperatureK, springs), row.HeatCapacityJPerMolK, 1e-4, $"Cv at {row.TemperatureK} K, {motion}, mesh {mesh}");
         }
+    }
+
+    [Fact]
+    public void Layered_cubic_crystal_reports_no_cubic_elastic_constants()
+    {
+        // Along [100] its long waves look cubic (C44 = C55 = 4.35 N/m / a), so C11, C44 and a C12 of -C44 from [110]
+        // were reported as if the crystal were cubic. Its C_ij are those of an orthorhombic crystal.
+        Assert.Null(LongWaveElasticity.Cubic(CompiledCrystal.From(LayeredCubic())));
+
+        // A cubic one keeps them: equal springs along the three axes, C11 = kL / a, C44 = kT / a and C12 = -C44 (the method
+        // of long waves, Born and Huang ch. 5: Gamma_xy[110] = (C12 + C44) / 2 = 0, as bonds along the axes do not couple x
+        // and y motion; a transverse spring is not rotationally invariant, so the Cauchy relation does not hold).
+        var cubic = CrystalModel.Create(Lattice.SimpleCubic(ConstantNm), [new Site("S0", "S0", Vec3.Zero, MassAmu)], [new ShellSpring("S0", "S0", 1, 20, 5)]);
+        var c = LongWaveElasticity.Cubic(CompiledCrystal.From(cubic));
+        Assert.NotNull(c);
+        Approx.Equal(20 / (ConstantNm * 1e-9) / 1e9, c!.C11Gpa, 1e-6, "C11");
+        Approx.Equal(5 / (ConstantNm * 1e-9) / 1e9, c.C44Gpa, 1e-6, "C44");
+        Approx.Equal(-c.C44Gpa, c.C12Gpa, 1e-6, "C12");
     }
 }
