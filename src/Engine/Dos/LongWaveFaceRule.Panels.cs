@@ -59,9 +59,9 @@ internal static partial class LongWaveFaceRule
     /// Errors are measured on the un-normalised sums of dOmega f, as the rays weigh directions by volume.
     /// Null when a density has no finite positive value.
     /// </summary>
-    private static CellFaceRule? Panels(double[][,] form, int components, IReadOnlyList<Vec3> edges, int d, DirectionDensities densities, double tolerance)
+    private static CellFaceRule? Panels(double[][,] form, int components, IReadOnlyList<Vec3> edges, int d, int count, DirectionDensities densities, double tolerance, int maxPanels, out double estimate)
     {
-        var count = 2 * d;
+        estimate = double.PositiveInfinity;
         var nodes = PanelNodes(d);
         var unit = new GaussLegendreRule(0, 1, nodes);
         var sums = new Dictionary<FacePanel, double[]>();
@@ -176,7 +176,7 @@ internal static partial class LongWaveFaceRule
             // Estimated error: per average, the changes of all leaves; the worst leaf by its relative share.
             var shares = new double[leaves.Count];
             var worstShare = 0.0;
-            var estimate = 0.0;
+            estimate = 0.0;
             for (var k = 0; k < count; k++)
             {
                 estimate = Math.Max(estimate, leaves.Sum(l => l.Change[k]) / total[k]);
@@ -192,7 +192,7 @@ internal static partial class LongWaveFaceRule
                 worstShare = Math.Max(worstShare, shares[i]);
             }
 
-            if (estimate <= tolerance || leaves.Count >= MaxPanels(d))
+            if (estimate <= tolerance || leaves.Count >= maxPanels)
             {
                 break;
             }

@@ -278,6 +278,7 @@ internal sealed class LongWaveRegion
             }
         }
 
+        LengthenSlowAxes(mesh, d, branches, frequencyThz, half);
         var narrowings = new int[acoustic];
         if (acoustic >= branches)
         {
@@ -383,6 +384,61 @@ internal sealed class LongWaveRegion
         }
 
         return (half, narrowings);
+    }
+
+    /// <summary>
+    /// The lowest acoustic branch one mesh step along mesh direction i must be this many times lower than one
+    /// step along every other direction before the box reaches further along i (<see cref="LengthenSlowAxes"/>).
+    /// Ordinary crystals (cubic ones 1, hexagonal cells of the audit below 2.5) keep their box and their bits.
+    /// </summary>
+    internal const double SlowAxisRatio = 4;
+
+    /// <summary>
+    /// Along a mesh direction whose lowest acoustic branch is many times slower than along the others (a layered
+    /// crystal: weak shear across the layers), the box reaches that many times further, up to the whole zone.
+    /// <para>
+    /// Why: near that axis the slow branch is a narrow valley, omega^2 = omega_axis(q_i)^2 + c_perp^2 q_perp^2,
+    /// far narrower than a mesh cell across wherever omega_axis is below c_perp times a mesh step, so linear
+    /// tetrahedra cannot follow it, and their curvature shift (which reads the valley as a huge curvature) carried
+    /// its states down to 0: a simple cubic crystal with a transverse spring of 0.01 N/m across its layers had
+    /// 4-5 times the T^3 heat capacity at 0.05 K on 14^3 and 24^3 and 1.3-1.7 times at 2 K (docs/outside-checks.md,
+    /// Round 25 (layered crystals)). The rays follow the valley with the model's own dispersion.
+    /// </para>
+    /// </summary>
+    private static void LengthenSlowAxes(BulkSample mesh, int d, int branches, double[] frequencyThz, int[] half)
+    {
+        if (d < 2)
+        {
+            return;
+        }
+
+        Span<double> step = stackalloc double[3];
+        for (var i = 0; i < d; i++)
+        {
+            if (mesh[i] < 2)
+            {
+                return;
+            }
+
+            Span<int> index = [mesh.M1 / 2, mesh.M2 / 2, mesh.M3 / 2];
+            index[i] = Wrap(index[i] + 1, mesh[i]);
+            var p = (((long)index[0] * mesh.M2) + index[1]) * mesh.M3 + index[2];
+            step[i] = frequencyThz[p * branches];
+        }
+
+        for (var i = 0; i < d; i++)
+        {
+            var others = double.PositiveInfinity;
+            for (var j = 0; j < d; j++)
+            {
+                others = j == i ? others : Math.Min(others, step[j]);
+            }
+
+            if (step[i] > 0 && others >= SlowAxisRatio * step[i])
+            {
+                half[i] = Math.Max(half[i], Math.Min(mesh[i] / 2, (int)Math.Ceiling(half[i] * others / step[i])));
+            }
+        }
     }
 
     /// <summary>

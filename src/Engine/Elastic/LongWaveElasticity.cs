@@ -20,7 +20,7 @@ internal static class LongWaveElasticity
     /// <summary>Largest number of branches for which the constants are computed (a dense inverse per call).</summary>
     public const int MaxBranches = 96;
 
-    /// <summary>C11, C12, C44 (GPa) of a cubic lattice (sc, bcc, fcc) whose long waves are cubic; null otherwise.</summary>
+    /// <summary>C11, C12, C44 (GPa) of a cubic lattice (sc, bcc, fcc) whose long waves are cubic (the same C11 and C44 along [100], [010] and [001]); null otherwise.</summary>
     public static CubicElasticConstants? Cubic(CompiledCrystal crystal)
     {
         var lattice = crystal.Lattice;
@@ -45,6 +45,31 @@ internal static class LongWaveElasticity
 
         var c11 = g100[0, 0];
         var c44 = (g100[1, 1] + g100[2, 2]) / 2;
+
+        // Along [010] and [001] too: springs that differ between the axes (a layered crystal on a cubic lattice) can
+        // leave [100] looking cubic, and C11, C44 and a C12 from [110] then described nothing (C12 came out -C44).
+        for (var axis = 1; axis < 3; axis++)
+        {
+            if (Christoffel(matrix, axis == 1 ? new Vec3(0, 1, 0) : new Vec3(0, 0, 1)) is not { } g)
+            {
+                return null;
+            }
+
+            var off = 0.0;
+            for (var a = 0; a < 3; a++)
+            {
+                for (var b = 0; b < 3; b++)
+                {
+                    off += Math.Abs(g[a, b] - (a != b ? 0 : a == axis ? c11 : c44));
+                }
+            }
+
+            if (!(off <= 1e-6 * scale))
+            {
+                return null;
+            }
+        }
+
         var c12 = 2 * g110[0, 1] - c44;
         return new CubicElasticConstants(c11 / 1e9, c12 / 1e9, c44 / 1e9);
     }

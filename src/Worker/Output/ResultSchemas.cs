@@ -477,7 +477,7 @@ internal sealed class ResultSchemas
         return
         [
             C<PointOutcome>("lattice_constant_nm", ColumnType.Double, "nm", "lattice constant the point was solved at (after relaxation to the static minimum, when asked)", o => S(o)?.LatticeConstantNm),
-            C<PointOutcome>("c11_gpa", ColumnType.Double, "GPa", "C11 from the long-wave limit, internal strain included (cubic lattices; a model under static stress gives its stressed wave modulus)", o => S(o)?.ElasticConstants?.C11Gpa),
+            C<PointOutcome>("c11_gpa", ColumnType.Double, "GPa", "C11 from the long-wave limit, internal strain included (cubic lattices whose long waves are cubic along [100], [010] and [001]: empty where the springs differ between the axes; a model under static stress gives its stressed wave modulus)", o => S(o)?.ElasticConstants?.C11Gpa),
             C<PointOutcome>("c12_gpa", ColumnType.Double, "GPa", "C12 from the long-wave limit (cubic lattices)", o => S(o)?.ElasticConstants?.C12Gpa),
             C<PointOutcome>("c44_gpa", ColumnType.Double, "GPa", "C44 from the long-wave limit (cubic lattices)", o => S(o)?.ElasticConstants?.C44Gpa),
             C<PointOutcome>("elastic_fit_nearest_n_per_m", ColumnType.Double, "N/m", "fitted nearest-neighbour spring: central (elastic builder) or bond stretch (tetrahedral builder)", o => o.Result?.ElasticFit?.NearestNPerM),
