@@ -114,22 +114,22 @@ internal sealed class LongWaveRegion
     /// positive slope (then the simplices cover everything, as for an unstable or floppy model, whose
     /// thermal numbers are not trusted anyway). <see cref="LongWaveRegions"/> chooses the boxes.
     /// </summary>
-    internal static LongWaveRegion? Build(ModeSolver solver, BulkSample mesh, int[] half, int from, int to, bool fractions)
+    internal static LongWaveRegion? Build(ModeSolver solver, BulkSample mesh, int[] half, int from, int to, bool fractions) =>
+        Build(solver, mesh, half, from, to, fractions, Geometry(solver, mesh, half));
+
+    /// <summary><see cref="Build(ModeSolver, BulkSample, int[], int, int, bool)"/> with the box's rays chosen already (<see cref="Geometry"/>).</summary>
+    internal static LongWaveRegion? Build(ModeSolver solver, BulkSample mesh, int[] half, int from, int to, bool fractions, (CentredCellRays Rays, double EpsilonPerM) geometry)
     {
         var crystal = solver.Matrix.Crystal;
-        var lattice = crystal.Lattice;
-        var d = lattice.Dimension;
-        var edges = new Vec3[d];
+        var d = crystal.Lattice.Dimension;
         var share = 1.0;
         for (var i = 0; i < d; i++)
         {
-            edges[i] = 2.0 * half[i] / mesh[i] * lattice.ReciprocalVector(i);
             share *= 2.0 * half[i] / mesh[i];
         }
 
         var acoustic = crystal.Components;
-        var cellRays = CentredCellRays.Build(d, edges, LongWaveFaceRule.Choose(crystal, edges));
-        var epsilon = Math.Min(1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice), 1e-2 * cellRays.ShortestRayM);
+        var (cellRays, epsilon) = geometry;
         var rays = RayDispersion.MeasureAll(solver, cellRays.Rays, epsilon, fractions);
         var weights = new double[rays.Length];
         for (var r = 0; r < rays.Length; r++)
@@ -155,27 +155,7 @@ internal sealed class LongWaveRegion
         {
             for (var k = from; k < to; k++)
             {
-                var peak = 1.0;
-                var rising = true;
-                var steepest = 0.0;
-                for (var i = 1; i <= MonotonicSamples; i++)
-                {
-                    var slope = rays[r].OmegaDerivative(k, (double)i / MonotonicSamples);
-                    rising &= slope > 0;
-                    if (!(slope > FlatteningSlope * steepest))
-                    {
-                        peak = (i - 1.0) / MonotonicSamples;
-                        break;
-                    }
-
-                    steepest = Math.Max(steepest, slope);
-                }
-
-                for (var i = (int)Math.Round(peak * MonotonicSamples) + 1; rising && i <= MonotonicSamples; i++)
-                {
-                    rising &= rays[r].OmegaDerivative(k, (double)i / MonotonicSamples) > 0;
-                }
-
+                var (peak, rising) = Shape(rays[r], k);
                 monotonic[(r * acoustic) + k] = rising;
                 rhoPeak[(r * acoustic) + k] = peak;
                 omegaSplit = Math.Min(omegaSplit, rays[r].Omega(k, peak));
@@ -207,6 +187,22 @@ internal sealed class LongWaveRegion
         };
     }
 
+    /// <summary>The rays of a box of half-widths <paramref name="half"/> (cells) and the small step their long-wave slopes are measured with (1/m).</summary>
+    internal static (CentredCellRays Rays, double EpsilonPerM) Geometry(ModeSolver solver, BulkSample mesh, int[] half)
+    {
+        var crystal = solver.Matrix.Crystal;
+        var lattice = crystal.Lattice;
+        var d = lattice.Dimension;
+        var edges = new Vec3[d];
+        for (var i = 0; i < d; i++)
+        {
+            edges[i] = 2.0 * half[i] / mesh[i] * lattice.ReciprocalVector(i);
+        }
+
+        var cellRays = CentredCellRays.Build(d, edges, LongWaveFaceRule.Choose(crystal, edges));
+        return (cellRays, Math.Min(1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice), 1e-2 * cellRays.ShortestRayM));
+    }
+
     /// <summary>
     /// The largest relative error of the rays' polynomial for the region's branches against direct solves of
     /// D(q) at the midpoints in y = rho^2 between the rays' nodes. Where a sorted branch meets another one on
@@ -214,26 +210,123 @@ internal sealed class LongWaveRegion
     /// few per cent; a cone that rises smoothly is followed within 1e-3 (<see cref="RayDispersion"/>).
     /// Costs five solves per ray.
     /// </summary>
-    internal double FitError(ModeSolver solver)
+    /// <param name="solver">the point's solver</param>
+    /// <param name="stopAt">the rays stop being measured once one reaches this error (the result is then that ray's, at least
+    /// <paramref name="stopAt"/>, not the largest): a caller comparing with a tolerance needs no more</param>
+    internal double FitError(ModeSolver solver, double stopAt = double.PositiveInfinity)
     {
         var worst = 0.0;
-        var nodes = RayDispersion.NodeY;
         foreach (var ray in _rays)
         {
-            for (var j = 0; j + 1 < nodes.Length; j++)
+            worst = Math.Max(worst, RayFitError(solver, ray, _from, _to));
+            if (!(worst < stopAt))
             {
-                var rho = Math.Sqrt(0.5 * (nodes[j] + nodes[j + 1]));
-                solver.SolveValues(rho * ray.Ray.End);
-                for (var k = _from; k < _to; k++)
-                {
-                    var exact = Math.Sqrt(Math.Max(solver.Values[k], 0));
-                    var error = Math.Abs(ray.Omega(k, rho) - exact) / exact;
-                    worst = double.IsNaN(error) ? double.PositiveInfinity : Math.Max(worst, error);
-                }
+                break;
             }
         }
 
         return worst;
+    }
+
+    /// <summary>One ray's share of <see cref="FitError"/>: its branches [from, to) against direct solves at the midpoints between its nodes (+infinity for NaN).</summary>
+    private static double RayFitError(ModeSolver solver, RayDispersion ray, int from, int to)
+    {
+        var worst = 0.0;
+        var nodes = RayDispersion.NodeY;
+        for (var j = 0; j + 1 < nodes.Length; j++)
+        {
+            var rho = Math.Sqrt(0.5 * (nodes[j] + nodes[j + 1]));
+            solver.SolveValues(rho * ray.Ray.End);
+            for (var k = from; k < to; k++)
+            {
+                var exact = Math.Sqrt(Math.Max(solver.Values[k], 0));
+                var error = Math.Abs(ray.Omega(k, rho) - exact) / exact;
+                worst = double.IsNaN(error) ? double.PositiveInfinity : Math.Max(worst, error);
+            }
+        }
+
+        return worst;
+    }
+
+    /// <summary>
+    /// Where ray-branch k of one ray stops rising as a wave (rho in [0, 1]: 1 when it rises to the box's surface, its
+    /// slope above <see cref="FlatteningSlope"/> of its steepest so far), and whether it rises all along the ray.
+    /// </summary>
+    private static (double Peak, bool Rising) Shape(RayDispersion ray, int k)
+    {
+        var peak = 1.0;
+        var rising = true;
+        var steepest = 0.0;
+        for (var i = 1; i <= MonotonicSamples; i++)
+        {
+            var slope = ray.OmegaDerivative(k, (double)i / MonotonicSamples);
+            rising &= slope > 0;
+            if (!(slope > FlatteningSlope * steepest))
+            {
+                peak = (i - 1.0) / MonotonicSamples;
+                break;
+            }
+
+            steepest = Math.Max(steepest, slope);
+        }
+
+        for (var i = (int)Math.Round(peak * MonotonicSamples) + 1; rising && i <= MonotonicSamples; i++)
+        {
+            rising &= ray.OmegaDerivative(k, (double)i / MonotonicSamples) > 0;
+        }
+
+        return (peak, rising);
+    }
+
+    /// <summary>Rays of a trial box that <see cref="FailsOnProbeRays"/> measures: about this many, spread evenly over the box's rays.</summary>
+    private const int ProbeRays = 128;
+
+    /// <summary>
+    /// True when some of the rays of the region [<paramref name="from"/>, <paramref name="to"/>) of a box (its rays and
+    /// step: <see cref="Geometry"/>), a spread sample of about <see cref="ProbeRays"/>, already show that the region would
+    /// fail <see cref="LongWaveRegions"/>' test for a wider box of slower cones: a ray not stable, a ray-branch not
+    /// rising as a wave all the way (<see cref="RisesAsWave"/>), or one beyond <paramref name="tolerance"/> of the
+    /// direct solves (<see cref="FitError"/>). Each of the three is a condition on every ray, so a failing sample means
+    /// a failing region; a passing sample decides nothing, and the caller builds and tests the whole region as before.
+    /// <para>
+    /// Why: a trial box is measured along all its rays (6,912 on a 24-branch layered stack's 12x12x3 mesh: ~1.5 s
+    /// each, and up to four trials a point), and the trials that fail, most of them, fail on a fifth of the rays
+    /// or more; the sample finds them for about a fiftieth of the cost (bench/README.md, Round 25 (wider-box trials)).
+    /// </para>
+    /// </summary>
+    internal static bool FailsOnProbeRays(ModeSolver solver, (CentredCellRays Rays, double EpsilonPerM) geometry, int from, int to, bool fractions, double tolerance)
+    {
+        var (cellRays, epsilon) = geometry;
+        var stride = Math.Max(1, cellRays.Rays.Count / ProbeRays);
+        var sample = new List<CellRay>((cellRays.Rays.Count / stride) + 1);
+        for (var r = 0; r < cellRays.Rays.Count; r += stride)
+        {
+            sample.Add(cellRays.Rays[r]);
+        }
+
+        foreach (var ray in RayDispersion.MeasureAll(solver, sample, epsilon, fractions))
+        {
+            if (!ray.Stable)
+            {
+                return true;
+            }
+
+            for (var k = from; k < to; k++)
+            {
+                var (peak, rising) = Shape(ray, k);
+                if (peak != 1.0 || !rising)
+                {
+                    return true;
+                }
+            }
+
+            if (!(RayFitError(solver, ray, from, to) < tolerance))
+            {
+                return true;
+            }
+        }
+
+        return false;
     }
 
     /// <summary>

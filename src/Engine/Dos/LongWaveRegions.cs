@@ -108,8 +108,14 @@ internal sealed class LongWaveRegions
             for (var steps = 0; steps < narrowings[to]; steps++)
             {
                 var box = LongWaveRegion.Narrowed(half, 3, steps);
-                var part = LongWaveRegion.Build(solver, mesh, box, 0, to, fractions);
-                if (part is null || !part.RisesAsWave || !(part.FitError(solver) < FollowTolerance))
+                var geometry = LongWaveRegion.Geometry(solver, mesh, box);
+                if (LongWaveRegion.FailsOnProbeRays(solver, geometry, 0, to, fractions, FollowTolerance))
+                {
+                    continue;
+                }
+
+                var part = LongWaveRegion.Build(solver, mesh, box, 0, to, fractions, geometry);
+                if (part is null || !part.RisesAsWave || !(part.FitError(solver, FollowTolerance) < FollowTolerance))
                 {
                     continue;
                 }

@@ -23,7 +23,7 @@ public sealed class SlowerConeRaysTests
 
     private static readonly SolveOptions Thermal = new() { MeanSquareDisplacement = false, PartialDos = false, TemperaturesK = [TemperatureK] };
 
-    private static CrystalModel TwoSiteBcc() =>
+    internal static CrystalModel TwoSiteBcc() =>
         CrystalModel.Create(
             Lattice.BodyCentredCubic(0.35),
             [new Site("S0", "K0", Vec3.Zero, 58.2), new Site("S1", "K1", new Vec3(0.406, 0.086, 0.674), 30.7)],
