@@ -15,8 +15,6 @@ namespace LatticeSweep.Worker.Tests.Catalog;
 [Collection(RealStoresCollection.Name)]
 public sealed class AxisCoverageTests : CatalogOnBothStores
 {
-    public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
-
     /// <summary>7 masses x 3 cells = 21 points in chunks of 4 (the last of 1).</summary>
     private static LatticeSweep.Worker.Planning.SweepPlan Plan() => SomeSweep.Plan("coverage", masses: [1, 2, 3, 0.1 + 0.2, 5, 6, 7e-300], cells: [4, 8, 16]);
 

@@ -10,6 +10,9 @@ namespace LatticeSweep.Worker.Tests.Catalog;
 /// </summary>
 public abstract class CatalogOnBothStores : IDisposable
 {
+    /// <summary>The stores every test of a derived class runs on (its theories' <c>MemberData(nameof(Stores))</c>).</summary>
+    public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
+
     private protected TempFolder Dir { get; } = new();
 
     /// <summary>The PostgreSQL schema once a test opened that store; null before.</summary>

@@ -13,8 +13,6 @@ namespace LatticeSweep.Worker.Tests.Catalog;
 [Collection(RealStoresCollection.Name)]
 public sealed class ChunkCompletionTests : CatalogOnBothStores
 {
-    public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
-
     [Theory]
     [MemberData(nameof(Stores))]
     public void A_chunk_of_many_points_ends_as_given_in_one_completion(StoreKind kind)

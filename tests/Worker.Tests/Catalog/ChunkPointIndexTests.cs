@@ -15,8 +15,6 @@ namespace LatticeSweep.Worker.Tests.Catalog;
 [Collection(RealStoresCollection.Name)]
 public sealed class ChunkPointIndexTests : CatalogOnBothStores
 {
-    public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
-
     /// <summary>A plain connection to the store, outside the catalog.</summary>
     private DbConnection Connect(StoreKind kind)
     {

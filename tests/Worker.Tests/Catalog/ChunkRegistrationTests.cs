@@ -13,8 +13,6 @@ namespace LatticeSweep.Worker.Tests.Catalog;
 [Collection(RealStoresCollection.Name)]
 public sealed class ChunkRegistrationTests : CatalogOnBothStores
 {
-    public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
-
     /// <summary>
     /// 7 masses x 3 cells = 21 points in chunks of 4 (the last of 1): c00000 ... c00005. One mass
     /// needs all 17 digits, so a parameter's text must go through a chunk's text and back exactly.

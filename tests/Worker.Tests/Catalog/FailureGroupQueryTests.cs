@@ -15,8 +15,6 @@ namespace LatticeSweep.Worker.Tests.Catalog;
 [Collection(RealStoresCollection.Name)]
 public sealed class FailureGroupQueryTests : CatalogOnBothStores
 {
-    public static TheoryData<StoreKind> Stores => new() { StoreKind.Sqlite, StoreKind.Postgres };
-
     [Theory]
     [MemberData(nameof(Stores))]
     public void Groups_their_failing_values_and_pages_agree_with_the_failed_rows(StoreKind kind)
