@@ -118,14 +118,6 @@ internal static class SweepCommands
     private static string StillQueued(SubmitResult result) =>
         result.ChunksStillQueued > 0 ? $", {result.ChunksStillQueued} more still in the queue" : "";
 
-    /// <summary>
-    /// How long <c>work</c> (without --stay) sees an empty queue and no chunk of its own running before it leaves. A chunk taken
-    /// from the queue counts as running only once its job starts, after its state is written; four polls (0.4 s in the tests)
-    /// were the whole margin for that. Once, in a clean-clone test run on a busy machine, <c>work</c> left an old-format drawn
-    /// sweep unfinished after "The queue is empty" (not reproduced in 20 runs since); this gap is the likely cause.
-    /// </summary>
-    private static readonly TimeSpan MinimumIdle = TimeSpan.FromSeconds(2);
-
     /// <summary>Says on stdout, not only in the log, that results the store knew of were missing and run again.</summary>
     private static void ReportLostResults(SubmitResult result, CliContext context)
     {
@@ -144,13 +136,15 @@ internal static class SweepCommands
         var watch = new DatabaseWatch(session.Log, session.Store.Location.Display, context.Time);
         var interrupted = false;
         var storeFull = false;
+
+        // Before the workers start: a chunk held now was left by a process that died (SQLite; see ChunksNeedingWork).
+        var heldBeforeStart = session.Store.ChunksLeftHeld();
         using (new WorkerPool(session.Store, runner, workers))
         {
             session.Log.Information("Working the queue of {Store} with {Workers} workers ({Mode})",
                 session.Store.Location.Display, workers, stay ? "staying until stopped" : "until the queue is empty");
             LogReclaim(session);
             var idlePolls = 0;
-            long? idleSince = null;
             while (true)
             {
                 if (context.Stop.IsCancellationRequested)
@@ -167,15 +161,12 @@ internal static class SweepCommands
 
                 MergeFinished(session, runner, context);
 
-                // Held chunks count too (PostgreSQL): a dead worker's chunk returns after the reclaim time.
-                var looked = watch.TryLook(session.Store.ChunksNeedingWork, out var waiting);
+                // Held chunks count too: on PostgreSQL a dead worker's chunk returns after the reclaim time; on SQLite
+                // they are this process's own, taken from the queue but maybe not started yet (their state is written first).
+                var looked = watch.TryLook(() => session.Store.ChunksNeedingWork(heldBeforeStart), out var waiting);
                 var idle = looked && waiting == 0 && runner.ActiveChunks == 0;
                 idlePolls = idle ? idlePolls + 1 : 0;
-                idleSince = idle ? idleSince ?? context.Time.GetTimestamp() : null;
-
-                // Idle over a few polls and at least MinimumIdle: a chunk between leaving the queue and starting (its
-                // state written as processing, which on a busy machine can take a good part of a second) is not lost.
-                if (!stay && idlePolls >= 4 && context.Time.GetElapsedTime(idleSince!.Value) >= MinimumIdle)
+                if (!stay && idlePolls >= 4)
                 {
                     break;
                 }

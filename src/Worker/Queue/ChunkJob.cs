@@ -47,6 +47,7 @@ public sealed class ChunkJob
     {
         // The retry filter counts earlier failures of this job in its "RetryCount" parameter.
         var lastAttempt = context is not null && context.GetJobParameter<int>("RetryCount") >= Retries;
+        SimulatedSlowStart.Pause();
         return _runner.RunAsync(sweepId, chunkId, lastAttempt, cancellationToken);
     }
 }

@@ -1,3 +1,4 @@
+using System.Collections.Frozen;
 using Hangfire;
 using Hangfire.PostgreSql;
 using Hangfire.PostgreSql.Factories;
@@ -200,17 +201,55 @@ public sealed class QueueStore : IDisposable
     }
 
     /// <summary>
-    /// Chunks that still need a worker: queued, waiting for a retry, or (PostgreSQL) held by a
-    /// worker. On PostgreSQL a held chunk may belong to a worker that died; it comes back to the
-    /// queue after the reclaim time, so a worker must not leave while any is held. On SQLite only
-    /// this process works the file, so a chunk held by no running chunk of this process was left by
-    /// a dead one: <c>resume</c> queues it again.
+    /// Chunks that still need a worker: queued, waiting for a retry, or held by a worker. On
+    /// PostgreSQL every held chunk counts: it may belong to a worker that died, and it comes back to
+    /// the queue after the reclaim time, so a worker must not leave while any is held. On SQLite only
+    /// one process works the file, so a held chunk is this process's own (taken from the queue and
+    /// maybe not started yet: its state is written first, which on a busy machine takes a while)
+    /// unless it was already held in <paramref name="heldBeforeStart"/>, when this process began to
+    /// work: then a process that died left it, and <c>resume</c> queues it again.
     /// </summary>
-    public long ChunksNeedingWork()
+    /// <param name="heldBeforeStart">From <see cref="ChunksLeftHeld"/>, taken before this process's workers started.</param>
+    public long ChunksNeedingWork(IReadOnlySet<string> heldBeforeStart)
     {
+        ArgumentNullException.ThrowIfNull(heldBeforeStart);
         var monitoring = Storage.GetMonitoringApi();
-        var held = Location.Kind == StoreKind.Postgres ? monitoring.FetchedCount(ChunkJob.QueueName) : 0;
+        var held = monitoring.FetchedCount(ChunkJob.QueueName);
+        if (held > 0 && heldBeforeStart.Count > 0)
+        {
+            held = HeldChunkJobs(monitoring, held).Count(id => !heldBeforeStart.Contains(id));
+        }
+
         return monitoring.EnqueuedCount(ChunkJob.QueueName) + held + monitoring.ScheduledCount();
+    }
+
+    /// <summary>
+    /// The chunk jobs held by a worker (taken from the queue, not finished) that no worker of this
+    /// process took: on SQLite, called before this process's workers start, those a process that
+    /// died left (see <see cref="ChunksNeedingWork"/>); none on PostgreSQL, where every held chunk counts.
+    /// </summary>
+    public IReadOnlySet<string> ChunksLeftHeld()
+    {
+        if (Location.Kind != StoreKind.Sqlite)
+        {
+            return FrozenSet<string>.Empty;
+        }
+
+        var monitoring = Storage.GetMonitoringApi();
+        var held = monitoring.FetchedCount(ChunkJob.QueueName);
+        return held == 0 ? FrozenSet<string>.Empty : HeldChunkJobs(monitoring, held).ToFrozenSet(StringComparer.Ordinal);
+    }
+
+    /// <summary>The ids of the <paramref name="count"/> chunk jobs the queue shows as held, a page at a time.</summary>
+    private static IEnumerable<string> HeldChunkJobs(Hangfire.Storage.IMonitoringApi monitoring, long count)
+    {
+        for (var from = 0; from < count; from += JobsPerPage)
+        {
+            foreach (var job in monitoring.FetchedJobs(ChunkJob.QueueName, from, JobsPerPage))
+            {
+                yield return job.Key;
+            }
+        }
     }
 
     /// <summary>Jobs read per call while listing the queue's jobs.</summary>
