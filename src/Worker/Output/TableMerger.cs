@@ -1,5 +1,6 @@
 using System.Globalization;
 using System.Text;
+using LatticeSweep.Worker.TestSeams;
 
 namespace LatticeSweep.Worker.Output;
 
@@ -297,7 +298,7 @@ internal static class TableMerger
         WriteDurably(Path.Combine(staging, CompleteMarker(id)), "");
         ct.ThrowIfCancellationRequested();
         DirectorySwap.Exchange(live, staging);
-        SimulatedSlowMerge.Pause();
+        SimulatedPauses.MergeStep.Wait();
         TryDeleteFolder(staging);
     }
 
@@ -378,7 +379,7 @@ internal static class TableMerger
             .ToDictionary(kv => kv.Key, kv => kv.Value);
         metadata[MergedLayout.ChunksKey] = string.Join(',', chunks);
         var written = await StreamingMerge.MergeAsync(batch.Select(b => b.File).ToList(), Path.Combine(staging, fileName), scratch, table, metadata, budget, ct, opened).ConfigureAwait(false);
-        SimulatedSlowMerge.Pause();
+        SimulatedPauses.MergeStep.Wait();
         chunkFiles.AddRange(chunks.Select(c => (c, fileName)));
         batch.Clear();
         return written.Rows;

@@ -2,6 +2,7 @@ using System.Reflection;
 using Hangfire;
 using Hangfire.Common;
 using Hangfire.Server;
+using LatticeSweep.Worker.TestSeams;
 
 namespace LatticeSweep.Worker.Queue;
 
@@ -47,7 +48,7 @@ public sealed class ChunkJob
     {
         // The retry filter counts earlier failures of this job in its "RetryCount" parameter.
         var lastAttempt = context is not null && context.GetJobParameter<int>("RetryCount") >= Retries;
-        SimulatedSlowStart.Pause();
+        SimulatedPauses.ChunkStart.Wait();
         return _runner.RunAsync(sweepId, chunkId, lastAttempt, cancellationToken);
     }
 }

@@ -5,6 +5,7 @@ using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.Planning;
 using LatticeSweep.Worker.Planning.Cost;
 using LatticeSweep.Worker.Planning.Specs;
+using LatticeSweep.Worker.TestSeams;
 
 namespace LatticeSweep.Worker.Queue;
 
@@ -48,7 +49,7 @@ public sealed class EnginePointSolver : IPointSolver
 
     public PointResult Solve(SweepPlan plan, PlannedPoint point, CancellationToken ct)
     {
-        SimulatedSlowPoints.Wait(ct);
+        SimulatedPauses.PerPoint.Wait(ct);
         var request = PointBinder.Bind(plan, point);
         return PhononSolver.Solve(request.Model, request.Sample, request.Options, ct);
     }

@@ -3,6 +3,7 @@ using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Output;
 using LatticeSweep.Worker.Planning;
 using LatticeSweep.Worker.Queue;
+using LatticeSweep.Worker.TestSeams;
 using LatticeSweep.Worker.Tests.Support;
 
 namespace LatticeSweep.Worker.Tests.Cli;
@@ -172,7 +173,7 @@ public sealed class MergeTests : IDisposable
             () => Tables.Any(t => DataFiles(folder, t).Any(f => f.StartsWith(MergedLayout.MergedPrefix, StringComparison.Ordinal))),
         })
         {
-            using (var child = Support.Cli.Start(_dir.Path, new Dictionary<string, string> { [SimulatedSlowMerge.Variable] = "300" }, "merge", "merge-me"))
+            using (var child = Support.Cli.Start(_dir.Path, new Dictionary<string, string> { [SimulatedPauses.MergeStep.Variable] = "300" }, "merge", "merge-me"))
             {
                 try
                 {

@@ -1,5 +1,6 @@
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Queue;
+using LatticeSweep.Worker.TestSeams;
 using LatticeSweep.Worker.Tests.Support;
 
 namespace LatticeSweep.Worker.Tests.Cli;
@@ -30,7 +31,7 @@ public sealed class WorkLeavingTests : IDisposable
 
         // Each chunk waits 4 s between leaving the queue and starting: longer than the four idle polls (1 s at the
         // default 250 ms) and the 2 s floor that were the only margin before held chunks counted on SQLite.
-        using var child = Support.Cli.Start(_dir.Path, new Dictionary<string, string> { [SimulatedSlowStart.Variable] = "4000" },
+        using var child = Support.Cli.Start(_dir.Path, new Dictionary<string, string> { [SimulatedPauses.ChunkStart.Variable] = "4000" },
             "work", "--workers", "2");
         Assert.True(child.WaitForExit(TimeSpan.FromMinutes(2)), "work did not leave");
         Assert.Equal(0, child.ExitCode);
@@ -48,7 +49,7 @@ public sealed class WorkLeavingTests : IDisposable
 
         // A worker that takes one chunk and dies before starting it (SIGKILL): the chunk stays taken until the
         // store's invisibility timeout (10 minutes), so a `work` that counted it would wait that long.
-        using (var child = Support.Cli.Start(_dir.Path, new Dictionary<string, string> { [SimulatedSlowStart.Variable] = "600000" },
+        using (var child = Support.Cli.Start(_dir.Path, new Dictionary<string, string> { [SimulatedPauses.ChunkStart.Variable] = "600000" },
             "work", "--workers", "1"))
         {
             try

@@ -2,6 +2,7 @@ using System.Diagnostics;
 using LatticeSweep.Worker.Catalog;
 using LatticeSweep.Worker.Planning;
 using LatticeSweep.Worker.Queue;
+using LatticeSweep.Worker.TestSeams;
 using LatticeSweep.Worker.Tests.Support;
 
 namespace LatticeSweep.Worker.Tests.EndToEnd;
@@ -45,8 +46,8 @@ public sealed class ManyWorkersOnPostgresTests : IDisposable
         // The others take 40 ms longer each, so the sweep outlasts a restarted worker's start-up with
         // room to spare: on a quiet machine the two of them had at times finished it before the
         // restarted victim claimed a chunk, and the second kill found nothing to kill.
-        var slow = new Dictionary<string, string> { ["LATSWEEP_TEST_EXTRA_MS_PER_POINT"] = "400" };
-        var steady = new Dictionary<string, string> { ["LATSWEEP_TEST_EXTRA_MS_PER_POINT"] = "40" };
+        var slow = new Dictionary<string, string> { [SimulatedPauses.PerPoint.Variable] = "400" };
+        var steady = new Dictionary<string, string> { [SimulatedPauses.PerPoint.Variable] = "40" };
         var workers = Enumerable.Range(0, 3).Select(i => StartWorker(store, $"worker {i + 1}", i == victimSlot ? slow : steady)).ToList();
         var killed = new List<(string Worker, HashSet<string> HeldPoints)>();
 
@@ -138,7 +139,7 @@ public sealed class ManyWorkersOnPostgresTests : IDisposable
         // One chunk of four points made 3 s slower each (a test seam that waits instead of
         // computing, so the two cores stay free): about twice the reclaim time.
         var (plan, sweepId) = Submit(store, "long-chunk", SweepJobs.Chain("long-chunk", masses: 4, springs: 1, cells: 100), pointsPerChunk: 4);
-        var slow = new Dictionary<string, string> { ["LATSWEEP_TEST_EXTRA_MS_PER_POINT"] = "3000" };
+        var slow = new Dictionary<string, string> { [SimulatedPauses.PerPoint.Variable] = "3000" };
         var first = StartWorker(store, "worker 1", slow);
         WaitUntil(() => store.Sweep(sweepId).Counts.Running > 0, "the chunk started", [first]);
         var second = StartWorker(store, "worker 2", slow);
