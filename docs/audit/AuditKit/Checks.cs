@@ -38,9 +38,20 @@ internal static class Checks
         }
 
         var ctx = new Context(c, job, results, points, dm, ledger);
+        if (c.Surface is not null)
+        {
+            if (finiteId is not null)
+            {
+                Surfaces.Check(ctx, finiteId);
+            }
+
+            return;
+        }
+
         if (finiteId is not null)
         {
             Finite.Check(ctx, finiteId);
+            StaticLattice.Check(ctx, finiteId);
         }
 
         if (bulkId is not null)

@@ -16,7 +16,17 @@ internal static class Program
         var dll = Path.GetFullPath(args[0]);
         var work = Path.GetFullPath(args[1]);
         Directory.CreateDirectory(work);
-        var generator = new CaseGenerator(seed);
+        ExtendedGenerator generator;
+        try
+        {
+            generator = new ExtendedGenerator(seed, ExtendedGenerator.Parse(Environment.GetEnvironmentVariable("AUDIT_KINDS")));
+        }
+        catch (ArgumentException e)
+        {
+            Console.Error.WriteLine(e.Message);
+            return 2;
+        }
+
         var ledger = new Ledger();
         var clock = Stopwatch.StartNew();
         int? only = int.TryParse(Environment.GetEnvironmentVariable("AUDIT_ONLY"), out var o) ? o : null;
