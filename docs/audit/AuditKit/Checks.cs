@@ -21,6 +21,12 @@ internal static class Checks
         string? finiteId = null, bulkId = null;
         for (var r = 0; r < points.Rows; r++)
         {
+            if (points.Text("state", r) == "unstable")
+            {
+                Stability.Check(c, job, points, r, dm, ledger);
+                continue;
+            }
+
             if (points.Text("state", r) != "done")
             {
                 ledger.EngineFailure(c.Id, job, -1, $"point {points.Text("sample_kind", r)} state {points.Text("state", r)}: {points.Text("error", r)}");

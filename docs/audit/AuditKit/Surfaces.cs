@@ -134,18 +134,38 @@ internal static class Surfaces
 
         const double nm2 = 1e18;
         const string src = "sum over the kit's modes of hbar/(2 m omega) coth(hbar omega/2kT) e^2 (harmonic oscillator; A&M ch. 23 and app. N; common practice)";
+        // an atom that moves only in zero modes (a floppy piece) has a displacement of round-off size: the
+        // tolerance has a floor of 1e-9 of the largest atom's, the scale of the eigenvectors' round-off
+        double Floor(double[,] u)
+        {
+            var top = 0.0;
+            foreach (var v in u)
+            {
+                top = Math.Max(top, v);
+            }
+
+            return 1e-9 * top * nm2;
+        }
+
         var reference = x.Case.ReferenceK;
         var atRef = Msd(reference);
         foreach (var (name, layer) in new[] { ("msd_surface_nm2", true), ("msd_interior_nm2", false) })
         {
             var members = Enumerable.Range(0, atoms).Where(a => (depth[a] == 0) == layer).ToList();
+            if (surface == 0)
+            {
+                // no atom lost a nearest neighbour: the engine splits nothing (layer_count 0) and leaves both empty
+                x.Ledger.NoReference("surface." + name);
+                continue;
+            }
+
             if (members.Count == 0)
             {
                 continue;
             }
 
             var mean = members.Average(a => Enumerable.Range(0, c).Average(e => atRef[a, e])) * nm2;
-            x.Add("surface." + name, $"T = {reference} K", x.Points.Number(name, row), mean, 1e-7 * mean, src + "; mean over the atoms and the directions of motion");
+            x.Add("surface." + name, $"T = {reference} K", x.Points.Number(name, row), mean, 1e-7 * mean + Floor(atRef), src + "; mean over the atoms and the directions of motion");
         }
 
         var layers = x.Table("layers");
@@ -171,7 +191,7 @@ internal static class Surfaces
             for (var e = 0; e < c; e++)
             {
                 var mean = members.Average(a => u[a, e]) * nm2;
-                x.Add("surface.layer_msd", $"layer {layer} T = {t} K {"xyz"[e]}", layers.Number(names[e], r), mean, 1e-7 * mean, src);
+                x.Add("surface.layer_msd", $"layer {layer} T = {t} K {"xyz"[e]}", layers.Number(names[e], r), mean, 1e-7 * mean + Floor(u), src);
             }
         }
     }
