@@ -6,7 +6,7 @@ namespace LatticeSweep.Audit;
 /// <summary>One random case: a model, its finite crystal (cells) and its bulk mesh, the temperatures and a path.</summary>
 internal sealed record AuditCase(
     string Id, AuditModel Model, double[] TemperaturesK, double ReferenceK, int[] Cells, int[] Mesh,
-    double[][] PathCorners, int PointsPerSegment, int DosBins)
+    double[][] PathCorners, int PointsPerSegment, int DosBins, string Kind = "pairs", AuditSurface? Surface = null)
 {
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
@@ -19,10 +19,14 @@ internal sealed record AuditCase(
         sb.AppendLine("[sweep]");
         sb.AppendLine($"name = \"{Id}\"");
         sb.AppendLine();
-        sb.AppendLine("[[sweep.axes]]");
-        sb.AppendLine("path = \"sample.kind\"");
-        sb.AppendLine("values = [\"finite\", \"bulk\"]");
-        sb.AppendLine();
+        if (Surface is null)
+        {
+            sb.AppendLine("[[sweep.axes]]");
+            sb.AppendLine("path = \"sample.kind\"");
+            sb.AppendLine("values = [\"finite\", \"bulk\"]");
+            sb.AppendLine();
+        }
+
         sb.AppendLine("[model]");
         sb.AppendLine($"lattice = \"{m.Lattice}\"");
         sb.AppendLine($"constant_nm = {F(m.ConstantNm)}");
@@ -69,9 +73,77 @@ internal sealed record AuditCase(
             }
         }
 
+        foreach (var b in m.BendList)
+        {
+            sb.AppendLine();
+            sb.AppendLine("[[model.bends]]");
+            sb.AppendLine($"centre = \"{b.Centre}\"");
+            sb.AppendLine(b.Ends.Length == 1 ? $"ends = \"{b.Ends[0]}\"" : $"ends = [{string.Join(", ", b.Ends.Select(e => $"\"{e}\""))}]");
+            sb.AppendLine(b.Shells.Length == 1 ? $"shell = {b.Shells[0]}" : $"shell = [{string.Join(", ", b.Shells)}]");
+            sb.AppendLine($"form = \"{b.Form}\"");
+            sb.AppendLine($"constant_n_per_m = {F(b.ConstantNPerM)}");
+        }
+
+        foreach (var p in m.PotentialList)
+        {
+            sb.AppendLine();
+            sb.AppendLine("[[model.potentials]]");
+            sb.AppendLine($"from = \"{p.From}\"");
+            sb.AppendLine($"to = \"{p.To}\"");
+            sb.AppendLine($"form = \"{p.Form}\"");
+            switch (p.Form)
+            {
+                case "lennard_jones":
+                    sb.AppendLine($"well_depth_ev = {F(p.WellDepthEv)}");
+                    sb.AppendLine($"sigma_nm = {F(p.SigmaNm)}");
+                    break;
+                case "morse":
+                    sb.AppendLine($"well_depth_ev = {F(p.WellDepthEv)}");
+                    sb.AppendLine($"r0_nm = {F(p.R0Nm)}");
+                    sb.AppendLine($"width_per_nm = {F(p.WidthPerNm)}");
+                    break;
+                default:
+                    sb.AppendLine($"repulsion_ev = {F(p.RepulsionEv)}");
+                    sb.AppendLine($"rho_nm = {F(p.RhoNm)}");
+                    sb.AppendLine($"dispersion_ev_nm6 = {F(p.DispersionEvNm6)}");
+                    break;
+            }
+
+            sb.AppendLine($"cutoff_nm = {F(p.CutoffNm)}");
+            sb.AppendLine($"shift = {(p.Shift ? "true" : "false")}");
+        }
+
         sb.AppendLine();
         sb.AppendLine("[sample]");
         sb.AppendLine("kind = \"finite\"");
+        if (Surface is { } surface)
+        {
+            if (surface.Shape == "box")
+            {
+                sb.AppendLine($"cells = [{string.Join(", ", surface.Cells.Take(m.Dimension))}]");
+                sb.AppendLine($"boundaries = [{string.Join(", ", surface.Boundaries.Take(m.Dimension).Select(b => $"\"{b}\""))}]");
+            }
+            else
+            {
+                if (surface.Shape == "cylinder")
+                {
+                    sb.AppendLine($"cells = {surface.Cells[surface.Axis - 1]}");
+                }
+
+                var axis = surface.Shape == "cylinder" ? $", axis = {surface.Axis}" : "";
+                sb.AppendLine($"shape = {{ kind = \"{surface.Shape}\", radius_nm = {F(surface.RadiusNm)}{axis}, centre = [{string.Join(", ", surface.CentreFraction.Take(m.Dimension).Select(F))}] }}");
+            }
+
+            sb.AppendLine("method = \"dense\"");
+            sb.AppendLine();
+            sb.AppendLine("[output]");
+            sb.AppendLine($"temperatures_k = [{string.Join(", ", TemperaturesK.Select(F))}]");
+            sb.AppendLine($"reference_temperature_k = {F(ReferenceK)}");
+            sb.AppendLine($"dos_bins = {DosBins}");
+            sb.AppendLine("tables = [\"dos\", \"thermal\", \"modes\", \"layers\"]");
+            return sb.ToString();
+        }
+
         sb.AppendLine($"cells = [{string.Join(", ", Cells)}]");
         sb.AppendLine($"mesh = [{string.Join(", ", Mesh)}]");
         sb.AppendLine();

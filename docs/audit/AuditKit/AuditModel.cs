@@ -12,8 +12,14 @@ internal sealed record AuditBond(int I, int J, int[] Cell, double LongitudinalNP
 /// </summary>
 internal sealed record AuditModel(
     string Lattice, int Dimension, double ConstantNm, double? CNm, string Motion,
-    AuditSite[] Sites, AuditBond[] Bonds, ShellSpring[] Shells)
+    AuditSite[] Sites, AuditBond[] Bonds, ShellSpring[] Shells, AuditBend[]? Bends = null, AuditPotential[]? Potentials = null)
 {
+    /// <summary>Three-body bends of the model (none for the pair-spring cases).</summary>
+    public AuditBend[] BendList => Bends ?? [];
+
+    /// <summary>Pair potentials of the model (none for the pair-spring cases).</summary>
+    public AuditPotential[] PotentialList => Potentials ?? [];
+
     /// <summary>Displacement components per atom.</summary>
     public int Components => Motion switch { "3d" => 3, "in_plane" => 2, _ => 1 };
 

@@ -21,6 +21,12 @@ internal static class Checks
         string? finiteId = null, bulkId = null;
         for (var r = 0; r < points.Rows; r++)
         {
+            if (points.Text("state", r) == "unstable")
+            {
+                Stability.Check(c, job, points, r, dm, ledger);
+                continue;
+            }
+
             if (points.Text("state", r) != "done")
             {
                 ledger.EngineFailure(c.Id, job, -1, $"point {points.Text("sample_kind", r)} state {points.Text("state", r)}: {points.Text("error", r)}");
@@ -38,9 +44,20 @@ internal static class Checks
         }
 
         var ctx = new Context(c, job, results, points, dm, ledger);
+        if (c.Surface is not null)
+        {
+            if (finiteId is not null)
+            {
+                Surfaces.Check(ctx, finiteId);
+            }
+
+            return;
+        }
+
         if (finiteId is not null)
         {
             Finite.Check(ctx, finiteId);
+            StaticLattice.Check(ctx, finiteId);
         }
 
         if (bulkId is not null)

@@ -17,6 +17,7 @@ internal sealed class DynamicalMatrix
     private readonly int _c;
     private readonly (int I, int J, double[] D, double[,] Phi)[] _bonds;
     private readonly double[] _mass;
+    private readonly (int A, int B, double[] D, double[,] K)[] _terms;
 
     public DynamicalMatrix(AuditModel model)
     {
@@ -35,6 +36,42 @@ internal sealed class DynamicalMatrix
         }
 
         _bonds = [.. bonds];
+        _terms = [.. TermBlocks(model)];
+    }
+
+    /// <summary>Each rank-one term's blocks K g_a g_b^T between its atoms, with the offset x_b - x_a (nm) of their phases.</summary>
+    public static IEnumerable<(int A, int B, double[] D, double[,] K)> TermBlocks(AuditModel model)
+    {
+        var c = model.Components;
+        foreach (var t in Interactions.BendTerms(model))
+        {
+            foreach (var pa in t.Parts)
+            {
+                foreach (var pb in t.Parts)
+                {
+                    var xa = Position(model, pa.Site, pa.Cell);
+                    var xb = Position(model, pb.Site, pb.Cell);
+                    var k = new double[c, c];
+                    for (var a = 0; a < c; a++)
+                    {
+                        for (var b = 0; b < c; b++)
+                        {
+                            k[a, b] = t.K * pa.G[a] * pb.G[b];
+                        }
+                    }
+
+                    yield return (pa.Site, pb.Site, [xb[0] - xa[0], xb[1] - xa[1], xb[2] - xa[2]], k);
+                }
+            }
+        }
+    }
+
+    /// <summary>Cartesian position (nm) of a site in a cell.</summary>
+    public static double[] Position(AuditModel model, int site, int[] cell)
+    {
+        var r = model.Cartesian(model.Sites[site].Fraction);
+        var c = model.Cartesian([.. cell.Select(v => (double)v)]);
+        return [r[0] + c[0], r[1] + c[1], r[2] + c[2]];
     }
 
     public AuditModel Model { get; }
@@ -45,6 +82,7 @@ internal sealed class DynamicalMatrix
     public static List<AuditBond> AllBonds(AuditModel model)
     {
         var list = new List<AuditBond>(model.Bonds);
+        list.AddRange(Interactions.PotentialBonds(model));
         if (model.Shells.Length == 0)
         {
             return list;
@@ -104,7 +142,7 @@ internal sealed class DynamicalMatrix
     }
 
     /// <summary>kL e e^T + kT (1 - e e^T) in the model's components (3d: xyz; in_plane: xy; scalar: kL).</summary>
-    private static double[,] Tensor(double[] d, double kl, double kt, int c)
+    public static double[,] Tensor(double[] d, double kl, double kt, int c)
     {
         var length = Math.Sqrt(d[0] * d[0] + d[1] * d[1] + d[2] * d[2]);
         var e = d.Select(x => x / length).ToArray();
@@ -143,6 +181,19 @@ internal sealed class DynamicalMatrix
                     m[j * _c + a, j * _c + b] += phi[a, b] / _mass[j];
                     m[i * _c + a, j * _c + b] -= phi[a, b] * s * e;
                     m[j * _c + a, i * _c + b] -= phi[a, b] * s * Complex.Conjugate(e);
+                }
+            }
+        }
+
+        foreach (var (ia, ib, d, k) in _terms)
+        {
+            var phase = q[0] * d[0] + q[1] * d[1] + q[2] * d[2];
+            var e = new Complex(Math.Cos(phase), Math.Sin(phase)) / Math.Sqrt(_mass[ia] * _mass[ib]);
+            for (var a = 0; a < _c; a++)
+            {
+                for (var b = 0; b < _c; b++)
+                {
+                    m[ia * _c + a, ib * _c + b] += k[a, b] * e;
                 }
             }
         }

@@ -105,11 +105,21 @@ internal static class BendCompiler
         var ek = rk / dk;
         var cos = ej.Dot(ek);
         var straight = cos < -1 + StraightTolerance;
+        var folded = cos > 1 - StraightTolerance;
         switch (form)
         {
             case BendForm.Keating:
                 // d(rj . rk) = rk . u_j' + rj . u_k' (u' relative to the centre), divided by sqrt(dj dk).
                 yield return (constant, rk / scale, rj / scale);
+                break;
+            case BendForm.Angle when folded:
+                // Folded (both ends on one ray, e.g. shells 1 and 2 of a chain): theta^2 = |P (u_j'/dj - u_k'/dk)|^2,
+                // two directions across the bonds; the general form below would divide by sin theta = 0.
+                foreach (var n in Across(ej, dimension))
+                {
+                    yield return (constant, scale / dj * n, -scale / dk * n);
+                }
+
                 break;
             case BendForm.Angle when !straight:
                 {

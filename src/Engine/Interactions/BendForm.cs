@@ -10,8 +10,8 @@ public enum BendForm
     Keating,
 
     /// <summary>
-    /// The bond angle itself, E = (1/2) k d_ij d_ik (d theta)^2. A straight (180 degree) angle bends in both
-    /// directions across the bonds; any other angle only within its own plane at harmonic order.
+    /// The bond angle itself, E = (1/2) k d_ij d_ik (d theta)^2. A straight (180 degree) or folded (0 degree)
+    /// angle bends in both directions across the bonds; any other angle only within its own plane at harmonic order.
     /// </summary>
     Angle,
 

@@ -436,7 +436,9 @@ internal sealed class RealSpaceLattice
             }
         }
 
-        // A piece cut off from every surface (no nearest-neighbour path) joins the deepest layer.
+        // A piece cut off from every surface (no nearest-neighbour path) joins the deepest layer, but never
+        // the surface: it lost no nearest neighbour (a basis whose nearest-neighbour relation does not connect
+        // the sample, e.g. three sites at random places in a chain, once made every atom a surface atom).
         var deepest = Layer.Max();
         if (deepest < 0)
         {
@@ -446,15 +448,16 @@ internal sealed class RealSpaceLattice
             return;
         }
 
+        var unreached = Math.Max(deepest, 1);
         for (var s = 0; s < Sites; s++)
         {
             if (Layer[s] < 0)
             {
-                Layer[s] = deepest;
+                Layer[s] = unreached;
             }
         }
 
-        LayerCount = deepest + 1;
+        LayerCount = Layer.Max() + 1;
         LayerSites = new int[LayerCount];
         foreach (var l in Layer)
         {

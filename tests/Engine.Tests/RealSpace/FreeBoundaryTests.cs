@@ -187,6 +187,25 @@ public sealed class FreeBoundaryTests
     }
 
     [Fact]
+    public void Atoms_that_lost_no_nearest_neighbour_are_interior_even_where_no_hop_path_reaches_them()
+    {
+        // Three sites at 0, 0.25 and 0.65 of a 0.6 nm chain cell: a's and b's nearest neighbours are each other in
+        // the same cell, c's is a in the next cell, so in ten free cells only the last c lost a nearest neighbour
+        // (README, Surface and layers: counted by hand). The nearest-neighbour hops from it reach nobody; the random-case
+        // audit (docs/outside-checks.md, Round 26) found the 29 unreached atoms put in the surface layer.
+        var model = CrystalModel.Create(
+            Lattice.Chain(0.6),
+            [new Site("a", "a", Vec3.Zero, 20), new Site("b", "b", new Vec3(0.25, 0, 0), 30), new Site("c", "c", new Vec3(0.65, 0, 0), 40)],
+            [new ShellSpring("a", "b", 1, 10), new ShellSpring("b", "c", 1, 8), new ShellSpring("c", "a", 1, 12)],
+            degreesOfFreedom: DegreesOfFreedom.Scalar);
+        var result = PhononSolver.Solve(model, RealSpaceSample.Box(10, 1, 1, Boundary.Free), Options);
+        Assert.Equal(1, result.Surface!.SurfaceSites);
+        Assert.Equal(29, result.Surface.InteriorSites);
+        Assert.Equal(2, result.Surface.LayerCount);
+        Assert.NotNull(result.Surface.MsdInteriorNm2);
+    }
+
+    [Fact]
     public void A_wire_keeps_the_rotation_about_its_axis_as_a_fourth_zero_mode()
     {
         var result = PhononSolver.Solve(Crystals.FccCentral(), RealSpaceSample.Cylinder(0.45, axis: 2, cells: 6, Boundary.Periodic), Options);
