@@ -85,9 +85,11 @@ public sealed class WrittenPartsTests : IDisposable
 
         WrittenParts.Watch(_sweepId);
 
-        // Kept only for a sweep whose merge reads its parts (more than 4 a table) and opens each once (at most 64).
-        Assert.False(WrittenParts.Keeps(_sweepId, MergedLayout.FilesTakenAsTheyAre));
-        Assert.True(WrittenParts.Keeps(_sweepId, MergedLayout.FilesTakenAsTheyAre + 1));
+        // Kept only for a sweep whose merge reads its parts (two or more a table: until round 26 more than 4, since a few were
+        // taken as they were; a small table of several parts is now rewritten as one file) and opens each once (at most 64).
+        Assert.False(WrittenParts.Keeps(_sweepId, 1));
+        Assert.True(WrittenParts.Keeps(_sweepId, 2));
+        Assert.True(WrittenParts.Keeps(_sweepId, MergedLayout.FilesTakenAsTheyAre));
         Assert.True(WrittenParts.Keeps(_sweepId, TableMerger.OpenedOnceAtMost));
         Assert.False(WrittenParts.Keeps(_sweepId, TableMerger.OpenedOnceAtMost + 1));
         Assert.False(WrittenParts.Keeps("another-" + _sweepId, 7));
