@@ -71,11 +71,14 @@ internal static class ParquetPartWriter
     /// the footer (<see cref="ColumnSummary"/>, <see cref="PartFirstRows"/>), worked out from each column as it is written:
     /// a chunk then holds one of its ~160 points/ columns at once, not all of them (~9 MB for 3,600 points, which lived
     /// through the write long enough to be promoted: bench/README, round 24). Nothing is visible until <see cref="PreparedPart.Commit"/>.
+    /// With <paramref name="written"/> (one slot a column), each column written is put there too, for a run that merges the part
+    /// from memory (<see cref="WrittenParts"/>): only then are all of them held at once.
     /// </summary>
-    public static Task<PreparedPart> PrepareWithFactsAsync(string tableFolder, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    public static Task<PreparedPart> PrepareWithFactsAsync(string tableFolder, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, CancellationToken ct,
+        Array?[]? written = null)
     {
         ArgumentNullException.ThrowIfNull(part);
-        return PrepareAsync(tableFolder, chunkId, stream => WriteByColumnsAsync(stream, chunkId, part, metadata, ct), ct);
+        return PrepareAsync(tableFolder, chunkId, stream => WriteByColumnsAsync(stream, chunkId, part, metadata, written, ct), ct);
     }
 
     /// <summary>Removes a chunk's part of a table (when a new run of the chunk has no rows for it).</summary>
@@ -143,7 +146,8 @@ internal static class ParquetPartWriter
     /// is made from them), the plan column for the first rows, then each column collected, written, summed and dropped.
     /// A part of more rows than a row group (no chunk has them) or without text ids at its head is written whole.
     /// </summary>
-    private static async Task WriteByColumnsAsync(Stream stream, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    private static async Task WriteByColumnsAsync(Stream stream, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, Array?[]? written,
+        CancellationToken ct)
     {
         const int idColumn = 0; // where a points/ table holds its ids
         if (part.Columns.Count == 0 || part.Columns[idColumn].Name != MergedLayout.PointIdColumn || part.RowCount > MergedLayout.RowGroupRows
@@ -157,6 +161,14 @@ internal static class ParquetPartWriter
             }
 
             await WriteLaidOutAsync(stream, chunkId, rows, withFacts, ct).ConfigureAwait(false);
+            if (written is not null)
+            {
+                for (var c = 0; c < written.Length; c++)
+                {
+                    written[c] = rows.Values[c];
+                }
+            }
+
             return;
         }
 
@@ -176,6 +188,11 @@ internal static class ParquetPartWriter
             {
                 var values = c == idColumn ? ids : part.Collect(c);
                 await group.WriteAsync(values, ct).ConfigureAwait(false);
+                if (written is not null)
+                {
+                    written[c] = values;
+                }
+
                 summary.AddColumn(c, values, n);
                 if (summary.IsMarkColumn(c) is var mark and >= 0)
                 {
