@@ -118,6 +118,12 @@ public static class ChunkOutputWriter
                 throw;
             }
         }
+
+        // Every part is in place: each table's writing folder goes once it is empty (another chunk's part may still be in one).
+        foreach (var tableFolder in prepared.Select(p => Path.GetDirectoryName(p.FinalPath)!).Distinct(StringComparer.Ordinal))
+        {
+            ParquetPartWriter.RemoveWritingFolderIfEmpty(tableFolder);
+        }
     }
 
     /// <summary>The output selection that a sweep's table list stands for.</summary>

@@ -207,6 +207,9 @@ public sealed class MergeTests : IDisposable
     {
         var (plan, folder) = RunSweep(pointsPerChunk, merge: false);
         Assert.Equal(parts, DataFiles(folder, "points").Count);
+
+        // Between chunks and before the merge, a table folder holds its data files only: each chunk's commit removed the empty .writing/.
+        Assert.All(Tables, t => Assert.Empty(Directory.GetDirectories(Path.Combine(folder, t))));
         using var db = new DuckDb();
 
         // Kill the merge in the middle of writing a staging folder, then just after a table was swapped.
