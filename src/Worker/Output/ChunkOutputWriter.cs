@@ -27,7 +27,8 @@ public static class ChunkOutputWriter
             ["latticesweep.engine_version"] = outcomes.Count > 0 ? outcomes[0].EngineVersion : sweep.EngineVersion,
         };
         var prepared = new List<PreparedPart>();
-        // The rows of each part written from a table's rows, for WrittenParts (a part written otherwise is not kept).
+        // The rows of each part, for WrittenParts when this process merges the sweep from them (else nothing is kept).
+        var keep = WrittenParts.Keeps(sweep.SweepId, sweep.ChunkCount);
         var written = new Dictionary<PreparedPart, TableRows>();
         try
         {
@@ -35,10 +36,16 @@ public static class ChunkOutputWriter
             using (Queue.StageTimings.Measure("parquet: write parts"))
             {
                 // points/ first, a column at a time with its facts (its own column summary, as a merged file carries it, and its
-                // first rows in plan order: a running sweep's page sums the parts' footers instead of reading their rows).
+                // first rows in plan order: a running sweep's page sums the parts' footers instead of reading their rows); its
+                // columns are held together only when they are kept.
                 var points = schemas.Points.ColumnsOf(rowed);
+                var pointsWritten = keep ? new Array?[points.Columns.Count] : null;
                 prepared.Add(await ParquetPartWriter.PrepareWithFactsAsync(SweepFolder.Table(sweep.OutputFolder, points.Table), chunkId, points,
-                    new Dictionary<string, string>(metadata) { ["latticesweep.table"] = points.Table }, ct).ConfigureAwait(false));
+                    new Dictionary<string, string>(metadata) { ["latticesweep.table"] = points.Table }, ct, pointsWritten).ConfigureAwait(false));
+                if (pointsWritten is not null && Array.TrueForAll(pointsWritten, v => v is not null))
+                {
+                    written[prepared[^1]] = new TableRows(points.Table, points.Columns, points.RowCount, pointsWritten!);
+                }
             }
 
             IReadOnlyList<TableRows> tables;
@@ -56,7 +63,10 @@ public static class ChunkOutputWriter
                 var folder = SweepFolder.Table(sweep.OutputFolder, rows.Table);
                 var meta = new Dictionary<string, string>(metadata) { ["latticesweep.table"] = rows.Table };
                 prepared.Add(await ParquetPartWriter.PrepareAsync(folder, chunkId, rows, meta, ct).ConfigureAwait(false));
-                written[prepared[^1]] = rows;
+                if (keep)
+                {
+                    written[prepared[^1]] = rows;
+                }
             }
         }
         catch
@@ -72,7 +82,6 @@ public static class ChunkOutputWriter
         // Shared hold of the sweep's output lock: a merge (exclusive) never swaps a table folder
         // while parts are renamed into it.
         using var hold = OutputLock.Shared(sweep.OutputFolder);
-        var keep = WrittenParts.Keeps(sweep.SweepId, sweep.ChunkCount);
         for (var i = 0; i < prepared.Count; i++)
         {
             try
@@ -90,7 +99,7 @@ public static class ChunkOutputWriter
 
                 // The file as written, taken before the rename (which keeps it): the merge of this process
                 // takes the rows from memory only while the part is still this file (WrittenParts).
-                var kept = keep && written.TryGetValue(prepared[i], out var rows) ? rows : null;
+                var kept = written.TryGetValue(prepared[i], out var rows) ? rows : null;
                 var identity = kept is not null ? WrittenParts.IdentityOf(prepared[i].TemporaryPath) : default;
                 prepared[i].Commit();
                 if (kept is not null)
@@ -108,6 +117,12 @@ public static class ChunkOutputWriter
 
                 throw;
             }
+        }
+
+        // Every part is in place: each table's writing folder goes once it is empty (another chunk's part may still be in one).
+        foreach (var tableFolder in prepared.Select(p => Path.GetDirectoryName(p.FinalPath)!).Distinct(StringComparer.Ordinal))
+        {
+            ParquetPartWriter.RemoveWritingFolderIfEmpty(tableFolder);
         }
     }
 

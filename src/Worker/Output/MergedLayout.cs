@@ -29,11 +29,22 @@ public static class MergedLayout
     public const string PointIdColumn = "point_id";
 
     /// <summary>
-    /// A table of at most this many files (parts, and merged files under <see cref="TargetFileBytes"/>)
-    /// that are each sorted and indexed already is merged by renaming them, not rewriting them: a data
-    /// tool scans a few files as well as one, and a small sweep's merge then costs nothing.
+    /// A table of at least <see cref="TargetFileBytes"/> in at most this many files (parts, and merged files under
+    /// <see cref="TargetFileBytes"/>), each sorted and indexed already, is merged by giving each file a merged name, not
+    /// by rewriting it: its files hold 16 MiB or more on average, and a rewrite would pass over every byte of them
+    /// (<see cref="TakenAsTheyAre"/>).
     /// </summary>
     public const int FilesTakenAsTheyAre = 4;
+
+    /// <summary>
+    /// Whether a table's inputs, each laid out as a merged file already (sorted, indexed), become merged files by a
+    /// second name instead of being rewritten: when at most one of them has rows (it is the table's one file), or when
+    /// the table is large (<paramref name="inputBytes"/> at least <see cref="TargetFileBytes"/>) in at most
+    /// <see cref="FilesTakenAsTheyAre"/> files. A smaller table of several files is rewritten as one file: data tools
+    /// prefer one file per small table (issue 13 item 4: "one per table when smaller").
+    /// </summary>
+    public static bool TakenAsTheyAre(int files, int filesWithRows, long inputBytes) =>
+        filesWithRows <= 1 || (files <= FilesTakenAsTheyAre && inputBytes >= TargetFileBytes);
 
     /// <summary>Rows per row group of a merged file: above DuckDB's own row-group size, small enough that one point's lookup reads little.</summary>
     public const int RowGroupRows = 1 << 17;

@@ -24,7 +24,8 @@ internal static class ParquetPartWriter
     /// holds only temporaries in flight and those a killed writer left, so removing a chunk's stale ones lists a few
     /// names, not every part of the table (a listing per part written was quadratic in the parts: ~2,800 parts
     /// a table at 10^7 points, and a listing of a shared folder is a round trip on a network file system).
-    /// A merge exchanges the table folder with a new one, which drops it with whatever it held.
+    /// A merge exchanges the table folder with a new one, which drops it with whatever it held; a chunk's commit removes
+    /// it once it is empty (<see cref="RemoveWritingFolderIfEmpty"/>), so a table folder between chunks holds data only.
     /// </summary>
     public const string WritingFolderName = ".writing";
 
@@ -41,13 +42,12 @@ internal static class ParquetPartWriter
 
     private static async Task<PreparedPart> PrepareAsync(string tableFolder, string chunkId, Func<Stream, Task> write, CancellationToken ct)
     {
-        var writing = Directory.CreateDirectory(Path.Combine(tableFolder, WritingFolderName)).FullName;
         var final = Path.Combine(tableFolder, PartFileName(chunkId));
-        RemoveStaleTemporaries(writing, chunkId);
-        var temporary = Path.Combine(writing, $".part-{chunkId}.{Guid.NewGuid():N}.tmp");
+        var file = CreateTemporary(tableFolder, chunkId);
+        var temporary = file.Name;
         try
         {
-            await using (var file = new FileStream(temporary, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None))
+            await using (file)
             {
                 // Tests stand in a full disk here (SimulatedDiskFull); otherwise the file itself.
                 await using var stream = SimulatedDiskFull.Wrap(file, temporary);
@@ -71,11 +71,14 @@ internal static class ParquetPartWriter
     /// the footer (<see cref="ColumnSummary"/>, <see cref="PartFirstRows"/>), worked out from each column as it is written:
     /// a chunk then holds one of its ~160 points/ columns at once, not all of them (~9 MB for 3,600 points, which lived
     /// through the write long enough to be promoted: bench/README, round 24). Nothing is visible until <see cref="PreparedPart.Commit"/>.
+    /// With <paramref name="written"/> (one slot a column), each column written is put there too, for a run that merges the part
+    /// from memory (<see cref="WrittenParts"/>): only then are all of them held at once.
     /// </summary>
-    public static Task<PreparedPart> PrepareWithFactsAsync(string tableFolder, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    public static Task<PreparedPart> PrepareWithFactsAsync(string tableFolder, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, CancellationToken ct,
+        Array?[]? written = null)
     {
         ArgumentNullException.ThrowIfNull(part);
-        return PrepareAsync(tableFolder, chunkId, stream => WriteByColumnsAsync(stream, chunkId, part, metadata, ct), ct);
+        return PrepareAsync(tableFolder, chunkId, stream => WriteByColumnsAsync(stream, chunkId, part, metadata, written, ct), ct);
     }
 
     /// <summary>Removes a chunk's part of a table (when a new run of the chunk has no rows for it).</summary>
@@ -143,7 +146,8 @@ internal static class ParquetPartWriter
     /// is made from them), the plan column for the first rows, then each column collected, written, summed and dropped.
     /// A part of more rows than a row group (no chunk has them) or without text ids at its head is written whole.
     /// </summary>
-    private static async Task WriteByColumnsAsync(Stream stream, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, CancellationToken ct)
+    private static async Task WriteByColumnsAsync(Stream stream, string chunkId, PartColumns part, IReadOnlyDictionary<string, string> metadata, Array?[]? written,
+        CancellationToken ct)
     {
         const int idColumn = 0; // where a points/ table holds its ids
         if (part.Columns.Count == 0 || part.Columns[idColumn].Name != MergedLayout.PointIdColumn || part.RowCount > MergedLayout.RowGroupRows
@@ -157,6 +161,14 @@ internal static class ParquetPartWriter
             }
 
             await WriteLaidOutAsync(stream, chunkId, rows, withFacts, ct).ConfigureAwait(false);
+            if (written is not null)
+            {
+                for (var c = 0; c < written.Length; c++)
+                {
+                    written[c] = rows.Values[c];
+                }
+            }
+
             return;
         }
 
@@ -176,6 +188,11 @@ internal static class ParquetPartWriter
             {
                 var values = c == idColumn ? ids : part.Collect(c);
                 await group.WriteAsync(values, ct).ConfigureAwait(false);
+                if (written is not null)
+                {
+                    written[c] = values;
+                }
+
                 summary.AddColumn(c, values, n);
                 if (summary.IsMarkColumn(c) is var mark and >= 0)
                 {
@@ -205,6 +222,51 @@ internal static class ParquetPartWriter
         ColumnType.Timestamp => new DateTimeDataField(def.Name, DateTimeFormat.Timestamp, isAdjustedToUTC: true, unit: DateTimeTimeUnit.Millis, isNullable: true),
         _ => throw new InvalidOperationException($"unknown column type {def.Type}"),
     };
+
+    /// <summary>
+    /// Creates the chunk's temporary file in the table's <see cref="WritingFolderName"/> folder (made when missing), after
+    /// removing what an earlier run of the chunk left there. Another writer's commit removes the folder once it is empty
+    /// (<see cref="RemoveWritingFolderIfEmpty"/>), possibly between its making and the file's creation: then it is made again.
+    /// </summary>
+    private static FileStream CreateTemporary(string tableFolder, string chunkId)
+    {
+        for (var attempt = 1; ; attempt++)
+        {
+            try
+            {
+                var writing = Directory.CreateDirectory(Path.Combine(tableFolder, WritingFolderName)).FullName;
+                RemoveStaleTemporaries(writing, chunkId);
+                var temporary = Path.Combine(writing, $".part-{chunkId}.{Guid.NewGuid():N}.tmp");
+                return new FileStream(temporary, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None);
+            }
+            catch (IOException ex) when (ex is DirectoryNotFoundException or FileNotFoundException && attempt < 8 && Directory.Exists(tableFolder))
+            {
+                // The empty folder went between our steps (another chunk's commit): make it again. (.NET reports a creation in a
+                // missing folder as a file not found when the folder is back by the time it looks: another writer made it again.)
+            }
+        }
+    }
+
+    /// <summary>
+    /// Removes the table's <see cref="WritingFolderName"/> folder when it holds nothing (after a chunk's commit): a run's table
+    /// folders then hold their data files only. A folder with a temporary in it (a part being written, one a killed writer left)
+    /// stays; a writer that finds it gone makes it again (<see cref="CreateTemporary"/>).
+    /// </summary>
+    public static void RemoveWritingFolderIfEmpty(string tableFolder)
+    {
+        try
+        {
+            // Not recursive: removes an empty folder only, in one step (rmdir), whatever another writer does meanwhile.
+            Directory.Delete(Path.Combine(tableFolder, WritingFolderName), recursive: false);
+        }
+        catch (IOException)
+        {
+            // Not empty, or gone already.
+        }
+        catch (UnauthorizedAccessException)
+        {
+        }
+    }
 
     /// <summary>
     /// Removes what an earlier run of the chunk left in <paramref name="writing"/> (a writer killed between

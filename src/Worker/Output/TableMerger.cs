@@ -24,7 +24,7 @@ internal static class TableMerger
     public const string StagingFolderName = ".merging";
 
     /// <param name="FilesWritten">merged files the table has now beyond the big ones kept (rewritten or taken as they were)</param>
-    /// <param name="TakenAsTheyWere">whether the files were taken without rewriting (<see cref="MergedLayout.FilesTakenAsTheyAre"/>)</param>
+    /// <param name="TakenAsTheyWere">whether the files were taken without rewriting (<see cref="MergedLayout.TakenAsTheyAre"/>)</param>
     public sealed record Outcome(string Table, int PartsMerged, int FilesWritten, long Rows, bool TakenAsTheyWere = false);
 
     /// <summary>Merges every listed table of the sweep folder.</summary>
@@ -141,8 +141,9 @@ internal static class TableMerger
                 chunkFiles.AddRange(list.Where(e => e.Value == k.Name).Select(e => (e.Key, e.Value)));
             }
 
+            // Footers only: a table of one file with rows, or a large one of a few files, keeps its files (MergedLayout.TakenAsTheyAre).
             var laidOut = inputs.Count <= MergedLayout.FilesTakenAsTheyAre ? await LaidOutAsync(inputs, ct).ConfigureAwait(false) : null;
-            if (laidOut is not null)
+            if (laidOut is not null && MergedLayout.TakenAsTheyAre(laidOut.Count, laidOut.Count(f => f.Rows > 0), inputs.Sum(f => f.Length)))
             {
                 var taken = TakeAsTheyAre(laidOut, staging, ref nextNumber, chunkFiles);
                 await WriteFirstLoadAsync(staging, schema, budget, ct).ConfigureAwait(false);

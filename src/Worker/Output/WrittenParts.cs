@@ -73,13 +73,14 @@ internal static class WrittenParts
 
     /// <summary>
     /// Whether the parts of a sweep of <paramref name="chunks"/> chunks being written are kept: it is watched, its merge would
-    /// read them (more than <see cref="MergedLayout.FilesTakenAsTheyAre"/> parts a table; fewer are taken as they are), and
-    /// opens each once (at most <see cref="TableMerger.OpenedOnceAtMost"/>). A larger sweep keeps none, not even its first
-    /// chunks' until the bound: held early in a 10^6-point run they set its peak (206 against 201 MB, bench/README, round 24).
+    /// read them (two parts a table or more: a small table of several files is rewritten as one, <see cref="MergedLayout.TakenAsTheyAre"/>;
+    /// a lone part is taken as it is), and opens each once (at most <see cref="TableMerger.OpenedOnceAtMost"/>). A larger sweep keeps
+    /// none, not even its first chunks' until the bound: held early in a 10^6-point run they set its peak (206 against 201 MB,
+    /// bench/README, round 24).
     /// </summary>
     public static bool Keeps(string sweepId, int chunks)
     {
-        if (chunks <= MergedLayout.FilesTakenAsTheyAre || chunks > TableMerger.OpenedOnceAtMost)
+        if (chunks < 2 || chunks > TableMerger.OpenedOnceAtMost)
         {
             return false;
         }

@@ -32,7 +32,7 @@ public sealed class LaterRequestTests
         var sweep = catalog.FindSweep(sweepId)!;
         await TableMerger.MergeSweepAsync(sweep.OutputFolder, [TableNames.Points], CancellationToken.None);
         var merged = await new ResultStore(new OutputRoot(store.OutputRoot)).PointsAsync(sweep, CancellationToken.None);
-        // Sweeps of a few chunks keep their parts as they are; the parts carry their own footer facts, so every merged table has them.
+        // A merged file carries the column summary the merge writes (a lone part taken as it is, its own), so every merged table has them.
         Assert.NotNull(merged.Summary);
         var boxed = new ResultTable(merged.Columns, [.. merged.Rows]);
         var ids = Ids(boxed);

@@ -65,48 +65,91 @@ public sealed class MergeTests : IDisposable
         Assert.Equal(before, File.GetLastWriteTimeUtc(Path.Combine(folder, "points", MergedLayout.MergedFileName(0))));
     }
 
-    [Fact]
-    public void A_table_of_a_few_parts_is_merged_by_taking_the_parts_as_they_are_without_rewriting_them()
+    [Theory]
+    [InlineData(12, 2)]
+    [InlineData(8, 3)]
+    [InlineData(6, 4)]
+    public void A_run_of_a_few_chunks_ends_with_one_merged_file_per_table_sorted_by_point_with_its_chunks_and_row_groups(int pointsPerChunk, int chunks)
     {
-        // 24 points, 8 per chunk: 3 parts per table, each sorted by point with its row groups indexed.
-        var (plan, folder) = RunSweep(pointsPerChunk: 8, merge: false);
-        var partHashes = Tables.ToDictionary(t => t, t => DataFiles(folder, t).Select(f => Hash(Path.Combine(folder, t, f))).Order(StringComparer.Ordinal).ToList());
-        Assert.All(partHashes.Values, h => Assert.Equal(3, h.Count));
+        // Until round 26 a table of at most 4 parts kept them as 4 merged files; a small table is now one file
+        // (issue 13 item 4), merged at the end of the run from the columns it kept (WrittenParts).
+        var (plan, folder) = RunSweep(pointsPerChunk);
+        using var db = new DuckDb();
+        foreach (var table in Tables)
+        {
+            var tableFolder = Path.Combine(folder, table);
+            Assert.Equal([MergedLayout.MergedFileName(0)], DataFiles(folder, table));
+            AssertEveryPointOnce(db, plan, folder, table);
+            var path = Path.Combine(tableFolder, MergedLayout.MergedFileName(0));
+            var ids = db.Rows($"SELECT point_id FROM read_parquet('{path}')").Select(r => (string)r[0]!).ToList();
+            Assert.Equal(ids.Order(StringComparer.Ordinal), ids);
+
+            // Its metadata lists every chunk of the run, and each point is found through its row-group index.
+            var metadata = db.Rows($"SELECT decode(key), decode(value) FROM parquet_kv_metadata('{path}')").ToDictionary(r => (string)r[0]!, r => (string)r[1]!);
+            var listed = MergedLayout.MergedChunks(tableFolder);
+            Assert.Equal(chunks, listed.Count);
+            Assert.All(listed.Values, f => Assert.Equal(MergedLayout.MergedFileName(0), f));
+            Assert.Equal(listed.Keys.Order(StringComparer.Ordinal), metadata[MergedLayout.ChunksKey].Split(','));
+            Assert.All(ids.Distinct(), id => Assert.Equal([0], MergedLayout.RowGroupsOf(metadata, id)!));
+            Assert.Contains("latticesweep.units", metadata.Keys);
+            Assert.DoesNotContain(PartFirstRows.Key, metadata.Keys);
+            Assert.Equal(table == "points", metadata.ContainsKey(ColumnSummary.Key));
+            Assert.Equal(table == "points", File.Exists(Path.Combine(tableFolder, FirstLoadFacts.FileName)));
+            Assert.False(Directory.Exists(Path.Combine(tableFolder, ParquetPartWriter.WritingFolderName)));
+        }
+
+        // A long table keeps every row: 3 temperatures a point.
+        Assert.Equal(3L * plan.Points.Length, (long)db.Scalar($"SELECT count(*) FROM {DuckDb.Glob(Path.Combine(folder, "thermal"))}")!);
+
+        // Merging again changes nothing.
+        var hashes = Tables.ToDictionary(t => t, t => Hash(Path.Combine(folder, t, MergedLayout.MergedFileName(0))));
+        var again = Support.Cli.Run(_dir.Path, "merge", "merge-me");
+        Assert.True(again.ExitCode == 0, again.Stdout + again.Stderr);
+        Assert.All(Tables, t => Assert.Equal(hashes[t], Hash(Path.Combine(folder, t, MergedLayout.MergedFileName(0)))));
+    }
+
+    [Fact]
+    public void A_table_of_one_part_is_taken_as_it_is_without_rewriting_it()
+    {
+        // 24 points in one chunk: one part per table, sorted by point with its row groups indexed.
+        var (plan, folder) = RunSweep(pointsPerChunk: 24, merge: false);
+        var partHashes = Tables.ToDictionary(t => t, t => Hash(Path.Combine(folder, t, Assert.Single(DataFiles(folder, t)))));
 
         var merged = Support.Cli.Run(_dir.Path, "merge", "merge-me");
         Assert.True(merged.ExitCode == 0, merged.Stdout + merged.Stderr);
         using var db = new DuckDb();
         foreach (var table in Tables)
         {
-            var files = DataFiles(folder, table);
-            Assert.Equal([MergedLayout.MergedFileName(0), MergedLayout.MergedFileName(1), MergedLayout.MergedFileName(2)], files);
+            Assert.Equal([MergedLayout.MergedFileName(0)], DataFiles(folder, table));
 
-            // The very bytes of the parts: renamed, not decoded and written again.
-            Assert.Equal(partHashes[table], files.Select(f => Hash(Path.Combine(folder, table, f))).Order(StringComparer.Ordinal));
+            // The very bytes of the part: a second name, not decoded and written again.
+            var path = Path.Combine(folder, table, MergedLayout.MergedFileName(0));
+            Assert.Equal(partHashes[table], Hash(path));
             AssertEveryPointOnce(db, plan, folder, table);
-            Assert.Equal(3, MergedLayout.MergedChunks(Path.Combine(folder, table)).Count);
-            foreach (var file in files)
-            {
-                // Each file is sorted by point, and every point of it is found through its row-group index.
-                var path = Path.Combine(folder, table, file);
-                var ids = db.Rows($"SELECT point_id FROM read_parquet('{path}')").Select(r => (string)r[0]!).ToList();
-                Assert.Equal(ids.Order(StringComparer.Ordinal), ids);
-                var index = (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{path}') WHERE decode(key) = '{MergedLayout.RowGroupsKey}'")!;
-                var metadata = new Dictionary<string, string> { [MergedLayout.RowGroupsKey] = index };
-                Assert.All(ids, id => Assert.Equal([0], MergedLayout.RowGroupsOf(metadata, id)!));
-                var chunk = (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{path}') WHERE decode(key) = '{MergedLayout.ChunksKey}'")!;
-                Assert.Equal(file, MergedLayout.MergedChunks(Path.Combine(folder, table))[chunk]);
-            }
+            var ids = db.Rows($"SELECT point_id FROM read_parquet('{path}')").Select(r => (string)r[0]!).ToList();
+            Assert.Equal(ids.Order(StringComparer.Ordinal), ids);
+            var index = (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{path}') WHERE decode(key) = '{MergedLayout.RowGroupsKey}'")!;
+            var metadata = new Dictionary<string, string> { [MergedLayout.RowGroupsKey] = index };
+            Assert.All(ids, id => Assert.Equal([0], MergedLayout.RowGroupsOf(metadata, id)!));
+            var chunk = (string)db.Scalar($"SELECT decode(value) FROM parquet_kv_metadata('{path}') WHERE decode(key) = '{MergedLayout.ChunksKey}'")!;
+            Assert.Equal(MergedLayout.MergedFileName(0), Assert.Single(MergedLayout.MergedChunks(Path.Combine(folder, table)), e => e.Key == chunk).Value);
         }
 
         // Merging again changes nothing.
         var again = Support.Cli.Run(_dir.Path, "merge", "merge-me");
         Assert.True(again.ExitCode == 0, again.Stdout + again.Stderr);
-        foreach (var table in Tables)
-        {
-            Assert.Equal(partHashes[table], DataFiles(folder, table).Select(f => Hash(Path.Combine(folder, table, f))).Order(StringComparer.Ordinal));
-        }
+        Assert.All(Tables, t => Assert.Equal(partHashes[t], Hash(Path.Combine(folder, t, MergedLayout.MergedFileName(0)))));
     }
+
+    [Theory]
+    [InlineData(1, 0, 0, true)]
+    [InlineData(4, 1, MergedLayout.TargetFileBytes - 1, true)]
+    [InlineData(2, 2, 4096, false)]
+    [InlineData(4, 4, MergedLayout.TargetFileBytes - 1, false)]
+    [InlineData(4, 3, MergedLayout.TargetFileBytes, true)]
+    [InlineData(5, 5, 5 * MergedLayout.TargetFileBytes, false)]
+    public void Files_are_taken_as_they_are_when_one_has_rows_or_a_large_table_is_a_few_files(int files, int withRows, long bytes, bool taken) =>
+        Assert.Equal(taken, MergedLayout.TakenAsTheyAre(files, withRows, bytes));
 
     [Fact]
     public async Task A_merge_within_a_small_memory_budget_streams_in_passes_and_writes_the_same_rows_in_the_same_order()
@@ -158,11 +201,16 @@ public sealed class MergeTests : IDisposable
 
     private static string Hash(string path) => Convert.ToHexString(System.Security.Cryptography.SHA256.HashData(File.ReadAllBytes(path)));
 
-    [Fact]
-    public void A_merge_killed_at_any_stage_loses_and_duplicates_nothing_and_the_next_merge_completes_it()
+    [Theory]
+    [InlineData(2, 12)]
+    [InlineData(8, 3)]
+    public void A_merge_killed_at_any_stage_loses_and_duplicates_nothing_and_the_next_merge_completes_it(int pointsPerChunk, int parts)
     {
-        var (plan, folder) = RunSweep(pointsPerChunk: 2, merge: false);
-        Assert.Equal(12, DataFiles(folder, "points").Count);
+        var (plan, folder) = RunSweep(pointsPerChunk, merge: false);
+        Assert.Equal(parts, DataFiles(folder, "points").Count);
+
+        // Between chunks and before the merge, a table folder holds its data files only: each chunk's commit removed the empty .writing/.
+        Assert.All(Tables, t => Assert.Empty(Directory.GetDirectories(Path.Combine(folder, t))));
         using var db = new DuckDb();
 
         // Kill the merge in the middle of writing a staging folder, then just after a table was swapped.
@@ -247,7 +295,10 @@ public sealed class MergeTests : IDisposable
         foreach (var table in Tables)
         {
             AssertEveryPointOnce(db, plan, folder, table);
-            Assert.All(DataFiles(folder, table), f => Assert.StartsWith(MergedLayout.MergedPrefix, f, StringComparison.Ordinal));
+
+            // The first merge's file and the resumed chunks' parts end as one file: the table is small.
+            Assert.StartsWith(MergedLayout.MergedPrefix, Assert.Single(DataFiles(folder, table)), StringComparison.Ordinal);
+            Assert.Equal(12, MergedLayout.MergedChunks(Path.Combine(folder, table)).Count);
         }
 
         using var catalog = new SqliteSweepCatalog(store, TimeProvider.System);
