@@ -60,8 +60,9 @@ public static class PointCost
     /// long waves are still counted among the solves with vectors. The other terms were not refitted: a refit of all of them
     /// on that day's runs made other points' forecasts worse. The last four terms (Gaussian broadening per mode x bin and per
     /// channel; a bulk point's face-rule rays and long-wave solves x n^3 beyond one default region) were fitted on 2026-12-05
-    /// 13:05-13:08 UTC (`LatticeSweep.Bench cost --repeats 3`, load average 26-27, process CPU) on the cases that have them, with
-    /// every other coefficient kept, so no other case's forecast moved (bench/README.md, Round 26 (forecast)).
+    /// 13:05-13:28 UTC (`LatticeSweep.Bench cost --repeats 3`, two runs, load average 17-31, process CPU; the stack terms from the
+    /// second run, whose 48-branch stack did not read 1.7 times the others') on the cases that have them, with every other
+    /// coefficient kept, so no other case's forecast moved (bench/README.md, Round 26 (forecast)).
     /// </remarks>
     public static readonly double[] SecondsPerUnit512 =
     [
@@ -76,10 +77,10 @@ public static class PointCost
         5.06e-8,   // per temperature x bin
         7.51e-10,  // per conductivity flop-equivalent
         0,         // per long-wave solve with eigenvectors (bulk), on top of its count among the solves (round 25: absorbed, see remarks)
-        1.55e-8,   // per mode x bin of Gaussian broadening (bulk)
+        1.52e-8,   // per mode x bin of Gaussian broadening (bulk)
         7.6e-10,   // per mode x bin x channel of Gaussian broadening with channel weights (bulk)
-        6.9e-6,    // per ray of the face rules a bulk point's long waves choose (choosing and using them, beyond the solves)
-        1.5e-9,    // per long-wave solve x n^3 (bulk), on top of its count among the solves
+        2.1e-5,    // per ray of the face rules a bulk point's long waves choose (choosing and using them, beyond the solves)
+        6.6e-10,   // per long-wave solve x n^3 (bulk), on top of its count among the solves
     ];
 
     /// <summary>As <see cref="SecondsPerUnit512"/>, for 256-bit kernels (AVX2 without AVX-512), measured with <c>DOTNET_EnableAVX512=0</c>.</summary>
