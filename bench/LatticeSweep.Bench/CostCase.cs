@@ -85,6 +85,10 @@ internal static class CostCase
             new("bulk fcc n=6 mesh 48^3 vectors, 200 T", fcc2, BulkSample.Create(48, 48, 48), fullManyT), // as bench case bulk-defaults
             new("bulk fcc n=6 mesh 24x23x22 vectors", fcc2, BulkSample.Create(24, 23, 22), full), // no two counts alike: every tetrahedron
             new("bulk fcc n=6 mesh 40^3 vectors, 7 T", fcc2, BulkSample.Create(40, 40, 40), full with { TemperaturesK = [10, 50, 100, 200, 300, 500, 1000] }), // bench/queue/60ms-points.toml's point
+            new("bulk fcc n=6 mesh 24^3 gaussian", fcc2, BulkSample.Create(24, 24, 24), plain with { DosMethod = DosMethod.Gaussian }),
+            new("bulk fcc n=6 mesh 40^3 gaussian", fcc2, BulkSample.Create(40, 40, 40), plain with { DosMethod = DosMethod.Gaussian }),
+            new("bulk fcc n=6 mesh 24^3 gaussian vectors", fcc2, BulkSample.Create(24, 24, 24), full with { DosMethod = DosMethod.Gaussian }),
+            new("bulk fcc n=3 mesh 32^3 gaussian 0.2 THz", fcc1, BulkSample.Create(32, 32, 32), plain with { DosMethod = DosMethod.Gaussian, GaussianSigmaThz = 0.2 }),
             new("bulk stack n=12 mesh 16x16x4", Stack(4), BulkSample.Create(16, 16, 4), plain),
             new("bulk stack n=24 mesh 12x12x3", Stack(8), BulkSample.Create(12, 12, 3), plain),
             new("bulk stack n=48 mesh 8x8x2", Stack(16), BulkSample.Create(8, 8, 2), plain),

@@ -279,7 +279,7 @@ internal sealed class LongWaveRegion
     }
 
     /// <summary>Rays of a trial box that <see cref="FailsOnProbeRays"/> measures: about this many, spread evenly over the box's rays.</summary>
-    private const int ProbeRays = 128;
+    internal const int ProbeRays = 128;
 
     /// <summary>
     /// True when some of the rays of the region [<paramref name="from"/>, <paramref name="to"/>) of a box (its rays and

@@ -87,7 +87,7 @@ internal sealed class LongWaveRegions
     }
 
     /// <summary>Largest error of the rays against direct solves (<see cref="LongWaveRegion.FitError"/>) for which slower cones keep a wider box (<see cref="WidenSlowerCones"/>).</summary>
-    private const double FollowTolerance = 3e-3;
+    internal const double FollowTolerance = 3e-3;
 
     /// <summary>
     /// 3D, where every acoustic branch ended in one narrowed box: the slower cones [0, to) take the widest
@@ -152,7 +152,7 @@ internal sealed class LongWaveRegions
     /// narrowed box)).
     /// </para>
     /// </summary>
-    private static List<(int From, int To)> Groups(ModeSolver solver, int d, int[] narrowings)
+    internal static List<(int From, int To)> Groups(ModeSolver solver, int d, int[] narrowings)
     {
         var acoustic = narrowings.Length;
         var groups = new List<(int From, int To)>();

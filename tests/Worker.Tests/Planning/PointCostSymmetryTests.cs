@@ -50,7 +50,7 @@ public sealed class PointCostSymmetryTests
     public void Gaussian_broadening_and_unequal_meshes_take_what_they_integrate()
     {
         var cubic = TwoSite(Lattice.FaceCentredCubic(0.56));
-        Assert.Equal(12.0 * 12 * 12 * 6 * 6, PointCost.WorkOf(cubic, BulkSample.Create(12, 12, 12), Defaults with { DosMethod = DosMethod.Gaussian, GaussianSigmaThz = 0.1 }).SimplexWork);
+        Assert.Equal(0, PointCost.WorkOf(cubic, BulkSample.Create(12, 12, 12), Defaults with { DosMethod = DosMethod.Gaussian, GaussianSigmaThz = 0.1 }).SimplexWork);
 
         // 12 x 12 x 8: only the swap of the first two axes, orbits of up to four: (12^2 x 8 + 12 x 8) / 4.
         var mesh = BulkSample.Create(12, 12, 8);

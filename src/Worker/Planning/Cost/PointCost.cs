@@ -1,3 +1,5 @@
+using System.Collections.Concurrent;
+using System.Runtime.CompilerServices;
 using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Numerics.Simd;
@@ -29,9 +31,13 @@ public static class PointCost
         double SimplexWork,
         double TemperatureBins,
         double ConductivityFlops,
-        double LongWaveVectorSolves = 0)
+        double LongWaveVectorSolves = 0,
+        double GaussianBins = 0,
+        double GaussianChannelBins = 0,
+        double FaceRuleRays = 0,
+        double LongWaveSolvesN3 = 0)
     {
-        public double[] AsArray() => [1.0, FixedN3, EigenSolves, EigenSolvesN3, VectorSolves, VectorSolvesN3, ModesStreamed, SimplexWork, TemperatureBins, ConductivityFlops, LongWaveVectorSolves];
+        public double[] AsArray() => [1.0, FixedN3, EigenSolves, EigenSolvesN3, VectorSolves, VectorSolvesN3, ModesStreamed, SimplexWork, TemperatureBins, ConductivityFlops, LongWaveVectorSolves, GaussianBins, GaussianChannelBins, FaceRuleRays, LongWaveSolvesN3];
     }
 
     /// <summary>
@@ -52,7 +58,11 @@ public static class PointCost
     /// was set to 0 on 2026-12-05 (bench/README, round 25): with the other terms as they are, every point it applies to was
     /// forecast long at both widths (1.6-2.1x for the 24^3 and 32^3 meshes with vectors), and its least-squares value is 0; the
     /// long waves are still counted among the solves with vectors. The other terms were not refitted: a refit of all of them
-    /// on that day's runs made other points' forecasts worse.
+    /// on that day's runs made other points' forecasts worse. The last four terms (Gaussian broadening per mode x bin and per
+    /// channel; a bulk point's face-rule rays and long-wave solves x n^3 beyond one default region) were fitted on 2026-12-05
+    /// 13:05-13:28 UTC (`LatticeSweep.Bench cost --repeats 3`, two runs, load average 17-31, process CPU; the stack terms from the
+    /// second run, whose 48-branch stack did not read 1.7 times the others') on the cases that have them, with every other
+    /// coefficient kept, so no other case's forecast moved (bench/README.md, Round 26 (forecast)).
     /// </remarks>
     public static readonly double[] SecondsPerUnit512 =
     [
@@ -67,10 +77,14 @@ public static class PointCost
         5.06e-8,   // per temperature x bin
         7.51e-10,  // per conductivity flop-equivalent
         0,         // per long-wave solve with eigenvectors (bulk), on top of its count among the solves (round 25: absorbed, see remarks)
+        1.52e-8,   // per mode x bin of Gaussian broadening (bulk)
+        7.6e-10,   // per mode x bin x channel of Gaussian broadening with channel weights (bulk)
+        2.1e-5,    // per ray of the face rules a bulk point's long waves choose (choosing and using them, beyond the solves)
+        6.6e-10,   // per long-wave solve x n^3 (bulk), on top of its count among the solves
     ];
 
     /// <summary>As <see cref="SecondsPerUnit512"/>, for 256-bit kernels (AVX2 without AVX-512), measured with <c>DOTNET_EnableAVX512=0</c>.</summary>
-    /// <remarks>Measured 2026-12-03 04:42 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 11.8-11.2); the long-wave term set to 0 as in <see cref="SecondsPerUnit512"/>.</remarks>
+    /// <remarks>Measured 2026-12-03 04:42 UTC, `DOTNET_EnableAVX512=0 LatticeSweep.Bench cost --repeats 5` on the same machine, just after the 512-bit run (load average 11.8-11.2); the long-wave term set to 0 as in <see cref="SecondsPerUnit512"/>; the last four terms fitted as there, 2026-12-05 13:09-13:13 UTC with <c>DOTNET_EnableAVX512=0</c> (load average 23-29).</remarks>
     public static readonly double[] SecondsPerUnit256 =
     [
         4.49e-4,   // per point
@@ -84,6 +98,10 @@ public static class PointCost
         7.42e-8,   // per temperature x bin
         7.76e-10,  // per conductivity flop-equivalent
         0,         // per long-wave solve with eigenvectors (bulk), on top of its count among the solves (round 25: absorbed, see remarks)
+        1.51e-8,   // per mode x bin of Gaussian broadening (bulk)
+        7.3e-10,   // per mode x bin x channel of Gaussian broadening with channel weights (bulk)
+        2.3e-5,    // per ray of the face rules a bulk point's long waves choose (choosing and using them, beyond the solves)
+        5.6e-10,   // per long-wave solve x n^3 (bulk), on top of its count among the solves
     ];
 
     /// <summary>
@@ -165,8 +183,10 @@ public static class PointCost
 
             case BulkSample b:
             {
-                // The mesh's half set, and the long-wave solves along rays near q = 0 (a fixed number per point).
-                var longWaves = PhononSolver.LongWaveSolves(model, b, options);
+                // The mesh's half set, and the long-wave solves along rays near q = 0: the boxes' rays as the
+                // solver's face rules choose them and the wider-box trials' probes (planned once per model and mesh).
+                var plan = BulkPlanOf(model, b, options);
+                var longWaves = (double)plan.LongWaveSolves;
                 var half = ((b.PointCount + 1) / 2.0) + longWaves;
                 var values = vectors ? 0 : half;
                 var withVectors = vectors ? half : 0;
@@ -179,12 +199,27 @@ public static class PointCost
                 // permutations expected from the model and mesh by a conservative rule (not for Gaussian
                 // broadening, which has no tetrahedra to save).
                 var simplices = model.Lattice.Dimension switch { 1 => 1.0, 2 => 2.0, _ => 6.0 };
-                var cells = model.Lattice.Dimension == 3 && options.DosMethod != DosMethod.Gaussian
-                    ? 2 * ExpectedMeshSymmetry.CubesIntegrated(model, b)
+                var gaussian = options.DosMethod == DosMethod.Gaussian;
+                var cells = gaussian ? 0
+                    : model.Lattice.Dimension == 3 ? 2 * ExpectedMeshSymmetry.CubesIntegrated(model, b)
                     : b.PointCount;
+
+                // Gaussian broadening has no tetrahedra: every mode of the whole mesh is spread over the bins
+                // within 6 sigma of it (an erf per bin, and per channel with channel weights).
+                var gaussianBins = gaussian ? b.PointCount * n * GaussianBinsPerMode(options, plan.HighestThz) : 0;
+
                 // With eigenvectors the long waves cost more than mesh solves (their channel fractions,
                 // one ray at a time): a term of their own, on top of their count among the solves.
-                var mesh = new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, cells * n * simplices, temperatures * fineBins, conductivity, vectors ? longWaves : 0);
+                // The long waves' small steps are solved one matrix at a time, dearer per n^3 than the mesh's batches; each
+                // face rule is chosen by trying candidates on the long-wave form (work that grows with the rays it ends at;
+                // a panelled rule's refinement showed no cost beyond its rays in the fit), and each ray is fitted and deposited.
+                // Counted beyond one region on the default rule (what the other terms were fitted with), so models whose
+                // long waves take the default keep their forecast.
+                var usual = PhononSolver.LongWaveSolves(model, b, options);
+                var extraRays = Math.Max(0, plan.ChosenRays - (usual / PhononSolver.LongWaveSolvesPerRay));
+                var extraSolves = Math.Max(0, longWaves - usual);
+                var mesh = new Work(n3, values, values * n3, withVectors, withVectors * n3, 0, cells * n * simplices, temperatures * fineBins, conductivity, vectors ? longWaves : 0,
+                    gaussianBins, vectors ? gaussianBins * n : 0, extraRays, extraSolves * n3);
                 return WithMeshCheck(mesh, model, b, options);
             }
 
@@ -223,6 +258,32 @@ public static class PointCost
             SimplexWork = mesh.SimplexWork + c.SimplexWork,
             TemperatureBins = mesh.TemperatureBins + c.TemperatureBins,
             LongWaveVectorSolves = mesh.LongWaveVectorSolves + c.LongWaveVectorSolves,
+            GaussianBins = mesh.GaussianBins + c.GaussianBins,
+            GaussianChannelBins = mesh.GaussianChannelBins + c.GaussianChannelBins,
+            FaceRuleRays = mesh.FaceRuleRays + c.FaceRuleRays,
+            LongWaveSolvesN3 = mesh.LongWaveSolvesN3 + c.LongWaveSolvesN3,
         };
+    }
+
+    /// <summary>
+    /// Fine-grid bins one mode's Gaussian covers: the grid (<c>dos_bins</c> times the fine bins per output bin, at least
+    /// 2,048) spans the spectrum and 6 sigma beyond each end; a mode covers the bins within 6 sigma of it.
+    /// </summary>
+    internal static double GaussianBinsPerMode(SolveOptions options, double highestThz)
+    {
+        var fineBins = options.DosBins * Math.Max(1.0, Math.Ceiling(2048.0 / options.DosBins));
+        var tails = 12 * options.GaussianSigmaThz;
+        return Math.Min(fineBins, (fineBins * tails / (Math.Max(highestThz, 0) + tails)) + 2);
+    }
+
+    /// <summary>Bulk plans (<see cref="PhononSolver.PlanBulkPoint"/>) kept per model object and mesh: a forecast meets one model at many points.</summary>
+    private static readonly ConditionalWeakTable<CrystalModel, ConcurrentDictionary<(int, int, int, bool), BulkPointPlan>> Plans = new();
+
+    /// <summary>The bulk point's plan, made once per model object, mesh and DOS method.</summary>
+    internal static BulkPointPlan BulkPlanOf(CrystalModel model, BulkSample sample, SolveOptions options)
+    {
+        var byMesh = Plans.GetValue(model, _ => new());
+        var gaussian = options.DosMethod == DosMethod.Gaussian;
+        return byMesh.GetOrAdd((sample.M1, sample.M2, sample.M3, gaussian), _ => PhononSolver.PlanBulkPoint(model, sample, options));
     }
 }

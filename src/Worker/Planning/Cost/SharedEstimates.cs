@@ -8,10 +8,11 @@ namespace LatticeSweep.Worker.Planning.Cost;
 /// <summary>
 /// A plan's run-time estimates computed once per cost shape instead of once per point. The estimate
 /// (<see cref="PointCost.WorkOf"/>) reads a model's branch count, dimension and components per site,
-/// the sample's size and the options, and a mass or a spring constant only where a bulk point asks for
+/// the sample's size and the options, and a mass or a spring constant only where a 2D or 3D bulk point plans its long
+/// waves (boxes, face rules and trials: <see cref="LatticeSweep.Engine.Solving.PhononSolver.PlanBulkPoint"/>) or asks for
 /// a conductivity (the q = 0 cell's face panels and the hand-over depend on the long waves:
-/// <see cref="LatticeSweep.Engine.Transport.ConductivityWork.LongWaveCounts"/>; a shape takes its first
-/// point's counts, an approximation where a sweep moves the sound speeds' anisotropy); so in a sweep of a lattice
+/// <see cref="LatticeSweep.Engine.Transport.ConductivityWork.LongWaveCounts"/>); there a shape takes the counts of the first of
+/// its points estimated, an approximation where a sweep moves the sound speeds' anisotropy; so in a sweep of a lattice
 /// model without potentials, bends or relaxation, points that differ only in site masses and spring
 /// or bond constants (values the field checks keep finite and masses positive, so the model builds
 /// or fails alike) share one estimate. Any other swept column is part of the shape's key. Samples with

@@ -38,6 +38,9 @@ internal static class SweepForecast
 
     private const int ExamplesPerReason = 3;
 
+    /// <summary>Wall milliseconds after which the forecast reads its processor clock even between its every-256-points readings.</summary>
+    private const long ClockReadEveryMs = 50;
+
     /// <summary>
     /// Distinct models kept built (a model with its pre-flight is ~660 bytes and more with its basis). A sweep
     /// over fewer models, however many points share them, builds each once; past this many, a point whose
@@ -153,6 +156,7 @@ internal static class SweepForecast
         var untraced = new Dictionary<string, long>(StringComparer.Ordinal);
         var tracing = TimeSpan.Zero;
         var justTraced = false;
+        var lastReadTicks = Environment.TickCount64;
         var failed = 0L;
         var evaluated = 0L;
         var totalSeconds = 0.0;
@@ -170,9 +174,17 @@ internal static class SweepForecast
         var stride = Stride(points.Length);
         for (long i = 0; i < points.Length; i++)
         {
-            if (((i & 255) == 0 || justTraced) && i > 0 && clock.Elapsed > budget)
+            // The processor clock is read every 256 points, and also once 50 ms of wall time have passed since the last
+            // reading: a point whose bulk long waves are planned (PointCost.BulkPlanOf, up to ~0.4 s per new model) would
+            // otherwise run 256 of them past the budget (a layered sweep of a model per point: 43 s of CPU for a 3 s budget).
+            var ticks = Environment.TickCount64;
+            if (((i & 255) == 0 || justTraced || ticks - lastReadTicks > ClockReadEveryMs) && i > 0)
             {
-                break;
+                lastReadTicks = ticks;
+                if (clock.Elapsed > budget)
+                {
+                    break;
+                }
             }
 
             var point = points[(int)(i * stride % points.Length)];

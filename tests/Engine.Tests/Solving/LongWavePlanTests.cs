@@ -1,0 +1,71 @@
+using LatticeSweep.Engine.Builders;
+using LatticeSweep.Engine.Dos;
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Tests.Support;
+
+namespace LatticeSweep.Engine.Tests.Solving;
+
+/// <summary>
+/// The run-time forecast's long-wave plan (<see cref="LongWavePlan"/>) solves only the mesh points near q = 0; the boxes
+/// it finds must be the solver's, which reads the whole mesh: its region solves equal those of the boxes, groups and face
+/// rules the solver's own choice gives from the full mesh's frequencies. Invented demo models.
+/// </summary>
+public sealed class LongWavePlanTests
+{
+    public static TheoryData<string, int, int, int> Cases() => new()
+    {
+        { "fcc two-site", 12, 12, 12 },
+        { "bcc two-site", 12, 12, 12 },
+        { "stack 8", 12, 12, 3 },
+        { "stack 4", 16, 16, 4 },
+        { "honeycomb sheet", 16, 16, 1 },
+    };
+
+    private static CrystalModel Model(string name) => name switch
+    {
+        "fcc two-site" => CrystalModel.Create(
+            Lattice.FaceCentredCubic(0.56),
+            [new Site("P", "P", Vec3.Zero, 23), new Site("Q", "Q", new Vec3(0.5, 0.5, 0.5), 35)],
+            [new ShellSpring("P", "Q", 1, 15, 3), new ShellSpring("P", "P", 1, 3, 0), new ShellSpring("Q", "Q", 1, 3, 0)]),
+        "bcc two-site" => SlowerConeRaysTests.TwoSiteBcc(),
+        "stack 8" => LayeredModelBuilder.Build(new LayeredModelSpec(LayeredHost.CubicStack, 0.3, 8, MassPattern.TwoBlocks(4, 28, 72), 40, 10)),
+        "stack 4" => LayeredModelBuilder.Build(new LayeredModelSpec(LayeredHost.CubicStack, 0.3, 4, MassPattern.TwoBlocks(2, 28, 72), 40, 10)),
+        _ => BondedCrystals.Honeycomb(flexural: 2),
+    };
+
+    [Theory]
+    [MemberData(nameof(Cases))]
+    public void The_plan_finds_the_boxes_the_whole_mesh_gives(string name, int m1, int m2, int m3)
+    {
+        var model = Model(name);
+        var mesh = BulkSample.Create(m1, m2, m3);
+        var solver = new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(model)));
+        var n = solver.Size;
+        var d = model.Lattice.Dimension;
+        var frequencies = new double[mesh.PointCount * n];
+        solver.SolveHalfSet(new PeriodicGrid(m1, m2, m3), false, (in GridPoint p, int slot) =>
+        {
+            var values = solver.BatchValues(slot);
+            for (var k = 0; k < n; k++)
+            {
+                frequencies[(p.Index * n) + k] = ModeSolver.SignedThz(values[k]);
+                frequencies[(p.PartnerIndex * n) + k] = ModeSolver.SignedThz(values[k]);
+            }
+        }, default);
+
+        var (half, narrowings) = LongWaveRegion.HalfWidths(mesh, d, model.ComponentsPerSite, n, frequencies)!.Value;
+        var expected = 0;
+        foreach (var (_, to) in LongWaveRegions.Groups(solver, d, narrowings))
+        {
+            expected += LongWaveRegion.Geometry(solver, mesh, LongWaveRegion.Narrowed(half, d, narrowings[to - 1])).Rays.Rays.Count * LongWavePlan.SolvesPerRay;
+        }
+
+        var plan = LongWavePlan.Count(solver, mesh);
+        Assert.Equal(expected, plan.RegionSolves);
+        Assert.Equal(d == 3 && narrowings[0] > 0 && LongWaveRegions.Groups(solver, d, narrowings).Count == 1, plan.TrialSolves > 0);
+    }
+}
