@@ -39,6 +39,24 @@ public class LayeredCrystalLowTemperatureTests
             new BondSpring("S0", "S0", new IntVec3(0, 0, 1), 2.2579, ShearAcrossNPerM),
         ]);
 
+    /// <summary>
+    /// The same crystal described by a cell of two layers: lattice a, a, 2a, sites at z = 0 and 1/2 with the same bonds, so
+    /// per atom the same heat capacity as <see cref="LayeredCubic"/> (its laws and zone sums serve both). The slow branch's
+    /// folded half (its zone boundary, 19 K) is an optical floor beside the cones.
+    /// </summary>
+    private static CrystalModel FoldedLayeredCubic() => CrystalModel.Create(
+        Lattice.Explicit([new Vec3(ConstantNm, 0, 0), new Vec3(0, ConstantNm, 0), new Vec3(0, 0, 2 * ConstantNm)]),
+        [new Site("S0", "S0", Vec3.Zero, MassAmu), new Site("S1", "S1", new Vec3(0, 0, 0.5), MassAmu)],
+        bondSprings:
+        [
+            new BondSpring("S0", "S0", new IntVec3(1, 0, 0), 18.5731, 4.3483),
+            new BondSpring("S0", "S0", new IntVec3(0, 1, 0), 34.8232, 9.3274),
+            new BondSpring("S1", "S1", new IntVec3(1, 0, 0), 18.5731, 4.3483),
+            new BondSpring("S1", "S1", new IntVec3(0, 1, 0), 34.8232, 9.3274),
+            new BondSpring("S0", "S1", new IntVec3(0, 0, 0), 2.2579, ShearAcrossNPerM),
+            new BondSpring("S1", "S0", new IntVec3(0, 0, 1), 2.2579, ShearAcrossNPerM),
+        ]);
+
     private static CrystalModel LayeredSquareSheet(DegreesOfFreedom motion) => CrystalModel.Create(
         Lattice.Square(ConstantNm),
         [new Site("S0", "S0", Vec3.Zero, MassAmu)],
@@ -161,6 +179,39 @@ public class LayeredCrystalLowTemperatureTests
         foreach (var row in result.Thermal)
         {
             Approx.Equal(CubicZoneSum(row.TemperatureK), row.HeatCapacityJPerMolK, 3e-4, $"Cv at {row.TemperatureK} K, mesh {mesh}");
+        }
+    }
+
+    [Theory]
+    [InlineData(8)]
+    [InlineData(12)]
+    [InlineData(16)]
+    [InlineData(24)]
+    public void Layered_crystal_in_a_two_layer_cell_follows_the_T3_law_and_the_zone_sum_to_half_a_kelvin(int mesh)
+    {
+        // Before, 1.9-2.0 times the law at 0.05 K and 1.26-1.45 times the zone sum at 0.5 K (the second shear valley went to
+        // tetrahedra whose curvature shift carried it to 0 THz). Measured within 1.7e-4 at 0.02-0.5 K.
+        var result = PhononSolver.Solve(FoldedLayeredCubic(), BulkSample.Uniform(3, mesh), Thermal with { TemperaturesK = [0.02, 0.05, 0.5] });
+        foreach (var row in result.Thermal)
+        {
+            var reference = row.TemperatureK < 0.1 ? CubicLaw(row.TemperatureK) : CubicZoneSum(row.TemperatureK);
+            Approx.Equal(reference, row.HeatCapacityJPerMolK, 3e-4, $"Cv at {row.TemperatureK} K, two-layer cell, mesh {mesh}");
+        }
+    }
+
+    [Theory]
+    [InlineData(8)]
+    [InlineData(16)]
+    public void Layered_crystal_in_a_two_layer_cell_stays_within_a_tenth_of_the_zone_sum_at_2_to_10_K(int mesh)
+    {
+        // Not yet right: the folded valley's states at 13-30 K are lost by linear tetrahedra (the number of states below 20 K
+        // is 11 % low), so Cv is 2-9 % low at 2-5 K (docs/outside-checks.md, Round 26 (multi-site layered cells)). This bound
+        // only keeps what was gained: before, 16-21 % high at 2 K.
+        double[] temperatures = [2, 5, 10];
+        var result = PhononSolver.Solve(FoldedLayeredCubic(), BulkSample.Uniform(3, mesh), Thermal with { TemperaturesK = [.. temperatures] });
+        foreach (var row in result.Thermal)
+        {
+            Approx.Equal(CubicZoneSum(row.TemperatureK), row.HeatCapacityJPerMolK, 0.1, $"Cv at {row.TemperatureK} K, two-layer cell, mesh {mesh}");
         }
     }
 
