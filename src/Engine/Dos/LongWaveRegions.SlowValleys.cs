@@ -34,10 +34,15 @@ internal sealed partial class LongWaveRegions
         index[slow] = (index[slow] + 1) % mesh[slow];
         var step = (((long)index[0] * mesh.M2) + index[1]) * mesh.M3 + index[2];
         var floor = frequencyThz[step * branches];
-        for (var k = 1; k < widths.Length; k++)
+        for (var k = 0; k < widths.Length; k++)
         {
+            if (widths[k][slow] >= half[slow])
+            {
+                continue;
+            }
+
             // The boxes nest (LongWaveBox): branch k reaches no further than branch k - 1.
-            if (widths[k][slow] >= half[slow] || widths[k - 1][slow] < half[slow] || !(frequencyThz[(step * branches) + k] <= SameValleyRatio * floor))
+            if ((k > 0 && widths[k - 1][slow] < half[slow]) || !(frequencyThz[(step * branches) + k] <= SameValleyRatio * floor))
             {
                 return;
             }
