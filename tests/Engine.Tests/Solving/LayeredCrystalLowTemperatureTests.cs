@@ -17,6 +17,9 @@ namespace LatticeSweep.Engine.Tests.Solving;
 /// layer normal, and linear tetrahedra beside the long-wave box, lowered by a curvature shift that read the
 /// slow branch's narrow valley as curvature, put states near 0); docs/outside-checks.md, Round 25
 /// (layered crystals). The models are invented (random audit case 45 of seed 2512, its z shear made 0.01 N/m).
+/// The same crystal in a cell of two layers (equal masses, or masses 1 : 2) had 2-16 times the law at 0.05 K
+/// until Round 26: the second shear valley was left to those tetrahedra (docs/outside-checks.md, Round 26
+/// (multi-site layered cells)).
 /// </summary>
 public class LayeredCrystalLowTemperatureTests
 {
