@@ -93,6 +93,12 @@ internal sealed class LongWaveRegion
 
     public LongWaveBox Box { get; }
 
+    /// <summary>The first acoustic branch this region integrates.</summary>
+    internal int From => _from;
+
+    /// <summary>One past the last acoustic branch this region integrates.</summary>
+    internal int To => _to;
+
     /// <summary>
     /// True when every ray-branch of the region rises as a wave all the way to the box's surface: its slope
     /// stays above <see cref="FlatteningSlope"/> of its steepest so far and positive (the branch neither
@@ -364,7 +370,7 @@ internal sealed class LongWaveRegion
         var half = new int[3];
         for (var i = 0; i < 3; i++)
         {
-            half[i] = i >= d ? int.MaxValue / 4 : Math.Max(1, Math.Min(Math.Max(HalfWidthCells, mesh[i] / 8), mesh[i] / 4));
+            half[i] = i >= d ? int.MaxValue / 4 : UsualHalfWidth(mesh[i]);
             if (half[i] < 1)
             {
                 return null;
@@ -477,6 +483,26 @@ internal sealed class LongWaveRegion
         }
 
         return (half, narrowings);
+    }
+
+    /// <summary>The box's half-width (cells) along a mesh direction of <paramref name="points"/> points before any slow axis lengthens it.</summary>
+    private static int UsualHalfWidth(int points) => Math.Max(1, Math.Min(Math.Max(HalfWidthCells, points / 8), points / 4));
+
+    /// <summary>
+    /// The mesh direction <see cref="LengthenSlowAxes"/> lengthened in <paramref name="half"/> (the layer normal of a
+    /// layered crystal), or -1 when none was (every ordinary crystal).
+    /// </summary>
+    internal static int SlowAxis(BulkSample mesh, int d, int[] half)
+    {
+        for (var i = 0; i < d; i++)
+        {
+            if (half[i] > UsualHalfWidth(mesh[i]))
+            {
+                return i;
+            }
+        }
+
+        return -1;
     }
 
     /// <summary>

@@ -16,7 +16,7 @@ namespace LatticeSweep.Engine.Dos;
 /// sums and the DOS add up over regions, and the simplices skip a branch in the cells of its box.
 /// </para>
 /// </summary>
-internal sealed class LongWaveRegions
+internal sealed partial class LongWaveRegions
 {
     private readonly LongWaveRegion[] _parts;
 
@@ -79,6 +79,11 @@ internal sealed class LongWaveRegions
         if (d == 3 && parts.Count == 1 && narrowings[0] > 0)
         {
             WidenSlowerCones(solver, mesh, half, narrowings, fractions, parts, widths);
+        }
+
+        if (d == 3 && LongWaveRegion.SlowAxis(mesh, d, half) is var slow and >= 0)
+        {
+            FollowSlowValleys(solver, mesh, frequencyThz, half, slow, fractions, parts, widths);
         }
 
         var outer = parts[0].Box;
