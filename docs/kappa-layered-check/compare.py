@@ -45,7 +45,12 @@ def reference_rows(jobdir, name, scat, weak, cache):
     path = os.path.join(jobdir, f"ref-{name}-{scat}-{weak}.json")
     if path not in cache:
         m = json.load(open(path))
-        kap, cv, s, _ = R.integrate(m, m["temperatures_k"])
+        saved = path + ".reference"  # the integral takes seconds to a minute; kept beside the model file
+        if os.path.exists(saved) and os.path.getmtime(saved) >= os.path.getmtime(path):
+            kap, cv, s = (np.array(x) for x in json.load(open(saved)))
+        else:
+            kap, cv, s, _ = R.integrate(m, m["temperatures_k"])
+            json.dump([kap.tolist(), cv.tolist(), s.tolist()], open(saved, "w"))
         cache[path] = (m, {t: (kap[i], cv[i], s[i]) for i, t in enumerate(m["temperatures_k"])})
     return cache[path]
 

@@ -104,7 +104,7 @@ internal sealed class LongWaveHandover
     /// 5 K on mesh 16 (docs/outside-checks.md, Round 26); the factor 2 keeps every cubic model of the tests and
     /// examples (at most 1.3-2.0 on meshes 8-16) out.
     /// </summary>
-    public const double ThinStepFactor = 2;
+    public const double ThinStepFactor = 1.4;
 
     /// <summary>3D: the step in x across one spacing that marks thin carriers (with <see cref="ThinStepFactor"/>).</summary>
     public const double ThinStepX = 1;
@@ -234,6 +234,7 @@ internal sealed class LongWaveHandover
         }
 
         var edges = GammaCellIntegrator.Edges(lattice, mesh);
+        var acoustic = solver.Matrix.Crystal.Components;
         var pairs = new List<(double Omega0, double Omega1)>();
         foreach (var b in Images(lattice).Take(13))
         {
@@ -241,7 +242,7 @@ internal sealed class LongWaveHandover
             foreach (var radius in new[] { (insideM + outsideM) / 2, outsideM })
             {
                 var q = radius * u;
-                var omega0 = LowestMoving(solver, q);
+                var here = Sorted(solver, q, acoustic);
                 foreach (var e in edges)
                 {
                     var across = e - (e.Dot(u) * u);
@@ -250,8 +251,16 @@ internal sealed class LongWaveHandover
                         continue;
                     }
 
+                    // Branch by branch in order of frequency: where slow branches meet (a layered crystal's two
+                    // shear waves along the normal) each is thin across in its own direction, and the lowest
+                    // frequency alone follows the other one.
                     var step = e.Length * across.Unit();
-                    pairs.Add((omega0, Math.Min(LowestMoving(solver, q + step), LowestMoving(solver, q - step))));
+                    var plus = Sorted(solver, q + step, acoustic);
+                    var minus = Sorted(solver, q - step, acoustic);
+                    for (var k = 0; k < acoustic; k++)
+                    {
+                        pairs.Add((here[k], Math.Min(plus[k], minus[k])));
+                    }
                 }
             }
         }
@@ -279,21 +288,13 @@ internal sealed class LongWaveHandover
         return zone;
     }
 
-    /// <summary>The lowest frequency at q of a branch that moves at all (rad/s; 0 when none does).</summary>
-    private static double LowestMoving(ModeSolver solver, Vec3 q)
+    /// <summary>The lowest <paramref name="count"/> frequencies at q (rad/s), branches that do not move at all (omega 0 everywhere) as 0.</summary>
+    private static double[] Sorted(ModeSolver solver, Vec3 q, int count)
     {
         solver.SolveValues(q);
         var values = solver.Values;
         var floor = 1e-13 * Math.Abs(values[^1]);
-        foreach (var lambda in values)
-        {
-            if (lambda > floor)
-            {
-                return Math.Sqrt(lambda);
-            }
-        }
-
-        return 0;
+        return [.. values.Take(count).Select(lambda => lambda > floor ? Math.Sqrt(lambda) : 0)];
     }
 
     /// <summary>
