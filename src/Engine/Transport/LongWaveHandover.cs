@@ -106,6 +106,13 @@ internal sealed class LongWaveHandover
     /// </summary>
     public const double ThinStepFactor = 1.4;
 
+    /// <summary>
+    /// <see cref="ThinStepFactor"/> for a narrow window (meshes of 6-14): its edge lies one or two spacings out, where a step
+    /// of one spacing turns the direction itself, and an invented fcc model with pair potentials on mesh 8 (jobs/potential-expansion.toml)
+    /// met 1.4 with its ordinary transverse branches; the layered model of Round 26 meets 2 on meshes 8 and 12.
+    /// </summary>
+    public const double NarrowThinStepFactor = 2;
+
     /// <summary>3D: the step in x across one spacing that marks thin carriers (with <see cref="ThinStepFactor"/>).</summary>
     public const double ThinStepX = 1;
 
@@ -191,7 +198,7 @@ internal sealed class LongWaveHandover
         var width = (outside - circumradius) / spacing;
         if (width >= MinimumWidthSpacings)
         {
-            return new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, wanted, ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, wanted));
+            return new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, wanted, ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, wanted, ThinStepFactor));
         }
 
         if (d != 3 || width < NarrowMinimumWidthSpacings)
@@ -214,18 +221,18 @@ internal sealed class LongWaveHandover
             any |= on[t];
         }
 
-        return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on, ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, on)) : null;
+        return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on, ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, on, NarrowThinStepFactor)) : null;
     }
 
     /// <summary>
     /// 3D, per temperature where <paramref name="on"/>: whether some branch's heat carriers reach the window's
     /// edge (x of the lowest moving frequency at the middle of the edge or at its end, along a mesh axis or
     /// diagonal, below <see cref="ThinCarriersX"/>) while one mesh spacing across that point the lowest frequency
-    /// is at least <see cref="ThinStepFactor"/> times higher and x at least <see cref="ThinStepX"/> higher. Steps
+    /// is at least <paramref name="stepFactor"/> times higher and x at least <see cref="ThinStepX"/> higher. Steps
     /// go along each mesh edge's part across the direction (edges nearly along it are skipped), both ways.
     /// Directions off the axes and diagonals are not tried: a crystal layered along another axis is not seen.
     /// </summary>
-    private static bool[] ThinCarriers(ModeSolver solver, Lattice lattice, int[] mesh, double insideM, double outsideM, double[] temperaturesK, bool[] on)
+    private static bool[] ThinCarriers(ModeSolver solver, Lattice lattice, int[] mesh, double insideM, double outsideM, double[] temperaturesK, bool[] on, double stepFactor)
     {
         var zone = new bool[on.Length];
         if (lattice.Dimension != 3 || !on.Any(o => o))
@@ -277,7 +284,7 @@ internal sealed class LongWaveHandover
             {
                 var x0 = Units.PhysicalConstants.HbarJS * omega0 / kT;
                 var x1 = Units.PhysicalConstants.HbarJS * omega1 / kT;
-                if (omega0 > 0 && x0 < ThinCarriersX && omega1 >= ThinStepFactor * omega0 && x1 - x0 >= ThinStepX)
+                if (omega0 > 0 && x0 < ThinCarriersX && omega1 >= stepFactor * omega0 && x1 - x0 >= ThinStepX)
                 {
                     zone[t] = true;
                     break;
