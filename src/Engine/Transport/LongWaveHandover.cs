@@ -96,13 +96,14 @@ internal sealed class LongWaveHandover
     public const double ThinCarriersX = 30;
 
     /// <summary>
-    /// 3D: how much the lowest frequency must grow one mesh spacing across (as a factor, and in x) for the carriers
-    /// there to count as thinner than a spacing: the integrand then falls by more than e across one cell, and one
-    /// point per cell (the trapezoid rule) leaves about 2 exp(-pi^2 / dx) of a Gaussian of that width (1e-4 at
-    /// dx = 1, 0.14 at 4; common practice, no source). An invented layered simple cubic model (shear across its
-    /// layers 0.01 N/m against 4-35 N/m within) had kappa_zz 7.5 times too high at 2 K and kappa_xx 27 % low at
-    /// 5 K on mesh 16 (docs/outside-checks.md, Round 26); the factor 2 keeps every cubic model of the tests and
-    /// examples (at most 1.3-2.0 on meshes 8-16) out.
+    /// 3D, windows of at least <see cref="MinimumWidthSpacings"/>: how much a branch's frequency must grow one mesh spacing
+    /// across (as a factor, and in x by <see cref="ThinStepX"/>) for its carriers there to count as thinner than a spacing:
+    /// the integrand then falls by more than e across one cell, and one point per cell (the trapezoid rule) leaves about
+    /// 2 exp(-pi^2 / dx) of a Gaussian of that width (1e-4 at dx = 1, 0.14 at 4; common practice, no source). An invented
+    /// layered simple cubic model (shear across its layers 0.01-0.18 N/m against 4-35 N/m within) had kappa_zz 7.5 times
+    /// too high at 2 K and kappa_xx 27 % low at 5 K on mesh 16 (docs/outside-checks.md, Round 26); with 2 the 0.18 N/m
+    /// model on meshes 24-40 stayed 2-20 % off at 5-20 K. The scalar simple cubic, fcc and rock-salt models of the tests
+    /// and the example jobs stay below it (test <c>LayeredCrystalConductivityTests</c>; their sums are unchanged).
     /// </summary>
     public const double ThinStepFactor = 1.4;
 
