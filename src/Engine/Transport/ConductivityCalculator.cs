@@ -187,16 +187,22 @@ internal static class ConductivityCalculator
 
             var q = lattice.ToCartesianQ(point.Reduced);
             var skip = point.IsGamma ? rigid : 0;
-            if (handover is null || !handover.Touches(q))
+            if (handover is null || (!handover.Touches(q) && !handover.AnyWholeZone))
             {
                 AddPoint(q, skip, point.Weight, share: null);
                 continue;
             }
 
             // Near q = 0, at the hand-over's temperatures the point samples f (1 - w) and its cell's nodes
-            // integrate f w; at the others the point counts as before and the nodes not at all.
-            var rest = 1 - handover.Window(handover.Distance(q));
-            AddPoint(q, skip, point.Weight, t => handover.On[t] ? rest : 1);
+            // integrate f w; at the others the point counts as before and the nodes not at all. Where the rays
+            // integrate the whole zone (3D, carriers thinner than a spacing), no point counts.
+            var rest = handover.Touches(q) ? 1 - handover.Window(handover.Distance(q)) : 1;
+            AddPoint(q, skip, point.Weight, t => handover.WholeZone[t] ? 0 : handover.On[t] ? rest : 1);
+            if (!handover.Touches(q))
+            {
+                continue;
+            }
+
             if (handoverRays is not null)
             {
                 continue; // 3D: the rays hold f w

@@ -27,6 +27,14 @@ namespace LatticeSweep.Engine.Transport;
 /// a thermal wave number (down to about h / 60), then panels of at most 1.25 h out to R, where the erfc
 /// edge (its sigma is 8 h / 7) and the higher temperatures' integrand change on the scale of h.
 /// </para>
+/// <para>
+/// At the temperatures <see cref="LongWaveHandover.WholeZone"/> marks (heat carriers thinner than a mesh spacing
+/// across, reaching past the window: a layered crystal's soft shear) a second set of rays covers the whole zone
+/// outside the q = 0 cell instead, with w = 1: rays to the faces of the zone's centred cell {sum t_i b_i, |t_i| &lt;= 1/2}
+/// (the q = 0 cell scaled by the mesh), each from where it leaves the q = 0 cell, on the face rule
+/// <see cref="LongWaveFaceRule.ChooseForConductivity"/> asks for a cell of the zone's size at those temperatures.
+/// The mesh points then count nothing there (ConductivityCalculator).
+/// </para>
 /// </summary>
 internal sealed class HandoverRays
 {
@@ -36,15 +44,24 @@ internal sealed class HandoverRays
 
     private readonly LongWaveHandover _handover;
     private readonly IReadOnlyList<CellRay> _rays;
+    private readonly IReadOnlyList<CellRay> _zoneRays;
+    private readonly Lattice _lattice;
+    private readonly IReadOnlyList<int> _mesh;
 
-    private HandoverRays(LongWaveHandover handover, IReadOnlyList<CellRay> rays)
+    private HandoverRays(LongWaveHandover handover, IReadOnlyList<CellRay> rays, IReadOnlyList<CellRay> zoneRays, Lattice lattice, IReadOnlyList<int> mesh)
     {
         _handover = handover;
         _rays = rays;
+        _zoneRays = zoneRays;
+        _lattice = lattice;
+        _mesh = mesh;
     }
 
-    /// <summary>Number of rays (each holds <see cref="NodesPerRay"/> solves).</summary>
-    public int RayCount => _rays.Count;
+    /// <summary>Number of rays (each holds <see cref="NodesPerRay"/> solves), the whole zone's included.</summary>
+    public int RayCount => _rays.Count + _zoneRays.Count;
+
+    /// <summary>Whether some temperature uses the window (not the whole zone), so the window's rays are solved.</summary>
+    private bool WindowRaysUsed => _handover.On.Where((on, t) => on && !_handover.WholeZone[t]).Any();
 
     /// <summary>
     /// Rays from the faces of the q = 0 cell of this 3D mesh, on a face rule of their own: the cell's rule
@@ -66,7 +83,24 @@ internal sealed class HandoverRays
         var scale = handover.OutsideM / Math.Cbrt(3 * volume / (4 * Math.PI));
         var on = temperaturesK.Where((_, t) => handover.On[t]).ToArray();
         var rule = LongWaveFaceRule.ChooseForConductivity(crystal, [.. edges.Select(e => scale * e)], on, lowFrequencyHeavy);
-        return new HandoverRays(handover, CentredCellRays.Build(3, edges, rule).Rays);
+        IReadOnlyList<CellRay> zoneRays = [];
+        if (handover.AnyWholeZone)
+        {
+            Vec3[] zoneEdges = [.. Enumerable.Range(0, 3).Select(lattice.ReciprocalVector)];
+            var zoneTemperatures = temperaturesK.Where((_, t) => handover.WholeZone[t]).ToArray();
+            var zoneRule = LongWaveFaceRule.ChooseForConductivity(crystal, zoneEdges, zoneTemperatures, lowFrequencyHeavy);
+            if (handover.ForCheckMesh)
+            {
+                // The mesh plays no part at these temperatures: the check halves the rule's nodes instead, so the
+                // change reads the rays' error (a rule of half the nodes errs more, so the change over-reads).
+                var nodes = Math.Max(2, zoneRule.Nodes / 2);
+                zoneRule = zoneRule.IsPanelled ? CellFaceRule.Panelled(nodes, zoneRule.Panels) : CellFaceRule.Uniform(nodes);
+            }
+
+            zoneRays = CentredCellRays.Build(3, zoneEdges, zoneRule).Rays;
+        }
+
+        return new HandoverRays(handover, CentredCellRays.Build(3, edges, rule).Rays, zoneRays, lattice, mesh);
     }
 
     /// <summary>
@@ -76,7 +110,12 @@ internal sealed class HandoverRays
     public int NodeSolveCount()
     {
         var count = 0;
-        foreach (var ray in _rays)
+        foreach (var ray in _zoneRays)
+        {
+            count += NodesPerRay(CellExit(ray.Direction), ray.LengthPerM, _handover.SpacingM);
+        }
+
+        foreach (var ray in WindowRaysUsed ? _rays : [])
         {
             var edges = Edges(ray.LengthPerM, _handover.OutsideM, _handover.SpacingM);
             for (var p = 0; p + 1 < edges.Count; p++)
@@ -105,7 +144,9 @@ internal sealed class HandoverRays
         var velocities = new double[n * 3];
         var weights = new double[sum.TemperaturesK.Length];
         var on = _handover.On;
-        foreach (var ray in _rays)
+        var zone = _handover.WholeZone;
+        IntegrateWholeZone(group, solver, sum, inPlane, ct);
+        foreach (var ray in WindowRaysUsed ? _rays : [])
         {
             ct.ThrowIfCancellationRequested();
             var u = ray.Direction;
@@ -127,7 +168,7 @@ internal sealed class HandoverRays
                     var weight = solidAngleInPoints * width * Panel.Weights[i] * rho * rho * window;
                     for (var t = 0; t < weights.Length; t++)
                     {
-                        weights[t] = on[t] ? weight : 0;
+                        weights[t] = on[t] && !zone[t] ? weight : 0;
                     }
 
                     group.Solve(rho * u, u, velocities);
@@ -140,6 +181,61 @@ internal sealed class HandoverRays
                 }
             }
         }
+    }
+
+    /// <summary>
+    /// Adds f over the zone outside the q = 0 cell at the <see cref="LongWaveHandover.WholeZone"/> temperatures: a ray
+    /// to the zone cell's face point P of weight W stands for M1 M2 M3 x 3 W / |P|^3 mesh points per unit of
+    /// int rho^2 f d rho, taken from where the ray leaves the q = 0 cell to P.
+    /// </summary>
+    private void IntegrateWholeZone(GroupVelocities group, ModeSolver solver, KineticSum sum, bool inPlane, CancellationToken ct)
+    {
+        var n = solver.Size;
+        var velocities = new double[n * 3];
+        var weights = new double[sum.TemperaturesK.Length];
+        var zone = _handover.WholeZone;
+        var points = (double)_mesh[0] * _mesh[1] * _mesh[2];
+        foreach (var ray in _zoneRays)
+        {
+            ct.ThrowIfCancellationRequested();
+            var u = ray.Direction;
+            var end = ray.LengthPerM;
+            var solidAngleInPoints = points * 3 * ray.Weight / (end * end * end);
+            var edges = Edges(CellExit(u), end, _handover.SpacingM);
+            for (var p = 0; p + 1 < edges.Count; p++)
+            {
+                var width = edges[p + 1] - edges[p];
+                for (var i = 0; i < Panel.Abscissas.Length; i++)
+                {
+                    var rho = edges[p] + (width * Panel.Abscissas[i]);
+                    var weight = solidAngleInPoints * width * Panel.Weights[i] * rho * rho;
+                    for (var t = 0; t < weights.Length; t++)
+                    {
+                        weights[t] = zone[t] ? weight : 0;
+                    }
+
+                    group.Solve(rho * u, u, velocities);
+                    var values = solver.Values;
+                    for (var k = 0; k < n; k++)
+                    {
+                        var v = new Vec3(velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]);
+                        sum.Add(Math.Sqrt(Math.Max(values[k], 0)), inPlane ? GammaCellIntegrator.InPlaneAverage(v) : v, weights);
+                    }
+                }
+            }
+        }
+    }
+
+    /// <summary>Where the ray along <paramref name="u"/> leaves the q = 0 cell {sum t_i b_i / M_i, |t_i| &lt;= 1/2} (1/m).</summary>
+    private double CellExit(Vec3 u)
+    {
+        var largest = 0.0;
+        for (var i = 0; i < 3; i++)
+        {
+            largest = Math.Max(largest, Math.Abs(u.Dot(_lattice.Vector(i))) * _mesh[i] / (2 * Math.PI));
+        }
+
+        return 0.5 / largest;
     }
 
     /// <summary>Panel edges from the face point to where w ends (1/m).</summary>

@@ -87,6 +87,36 @@ internal sealed class LongWaveHandover
     /// </summary>
     public const double CheckMinimumWidthSpacings3d = 1.0;
 
+    /// <summary>
+    /// 3D: x = hbar omega / kB T of the slowest moving branch, at the middle of the window's edge or at its end,
+    /// below which that branch still carries heat there, so the mesh's f (1 - w) holds it. As <see cref="CellHoldsX"/>:
+    /// one point per cell weighs a line of carriers a spacing wide, so it magnifies even a far tail (with 10 the
+    /// layered model's kappa_zz was still 27 % high at 1 K on mesh 16, where x there was 14).
+    /// </summary>
+    public const double ThinCarriersX = 30;
+
+    /// <summary>
+    /// 3D, windows of at least <see cref="MinimumWidthSpacings"/>: how much a branch's frequency must grow one mesh spacing
+    /// across (as a factor, and in x by <see cref="ThinStepX"/>) for its carriers there to count as thinner than a spacing:
+    /// the integrand then falls by more than e across one cell, and one point per cell (the trapezoid rule) leaves about
+    /// 2 exp(-pi^2 / dx) of a Gaussian of that width (1e-4 at dx = 1, 0.14 at 4; common practice, no source). An invented
+    /// layered simple cubic model (shear across its layers 0.01-0.18 N/m against 4-35 N/m within) had kappa_zz 7.5 times
+    /// too high at 2 K and kappa_xx 27 % low at 5 K on mesh 16 (docs/outside-checks.md, Round 26); with 2 the 0.18 N/m
+    /// model on meshes 24-40 stayed 2-20 % off at 5-20 K. The scalar simple cubic, fcc and rock-salt models of the tests
+    /// and the example jobs stay below it (test <c>LayeredCrystalConductivityTests</c>; their sums are unchanged).
+    /// </summary>
+    public const double ThinStepFactor = 1.4;
+
+    /// <summary>
+    /// <see cref="ThinStepFactor"/> for a narrow window (meshes of 6-14): its edge lies one or two spacings out, where a step
+    /// of one spacing turns the direction itself, and an invented fcc model with pair potentials on mesh 8 (jobs/potential-expansion.toml)
+    /// met 1.4 with its ordinary transverse branches; the layered model of Round 26 meets 2 on meshes 8 and 12.
+    /// </summary>
+    public const double NarrowThinStepFactor = 2;
+
+    /// <summary>3D: the step in x across one spacing that marks thin carriers (with <see cref="ThinStepFactor"/>).</summary>
+    public const double ThinStepX = 1;
+
     /// <summary>Cells whose centres lie within this many spacings of q = 0 get 3 x 3 pieces of nodes.</summary>
     public const double FineCellsSpacings = 2.5;
 
@@ -99,13 +129,16 @@ internal sealed class LongWaveHandover
     private readonly double _sigmaM;
     private readonly double _norm;
     private readonly bool[] _on;
+    private readonly bool[] _wholeZone;
     private readonly Lattice _lattice;
     private readonly int[] _mesh;
     private readonly double _spacingM;
     private readonly Vec3[] _images;
 
-    private LongWaveHandover(Lattice lattice, int[] mesh, double spacingM, double insideM, double outsideM, bool[] on)
+    private LongWaveHandover(Lattice lattice, int[] mesh, double spacingM, double insideM, double outsideM, bool[] on, bool[]? wholeZone = null, bool forCheckMesh = false)
     {
+        ForCheckMesh = forCheckMesh;
+        _wholeZone = wholeZone ?? new bool[on.Length];
         _spacingM = spacingM;
         _images = Images(lattice);
         _lattice = lattice;
@@ -120,6 +153,23 @@ internal sealed class LongWaveHandover
 
     /// <summary>Per temperature: whether the hand-over is used there.</summary>
     public IReadOnlyList<bool> On => _on;
+
+    /// <summary>
+    /// 3D, per temperature (a subset of <see cref="On"/>): the heat carriers outside the window are thinner than a
+    /// mesh spacing across while they reach past the window along some direction (a layered crystal's soft shear),
+    /// so one point per cell cannot sum f (1 - w): the rays then integrate f over the whole zone
+    /// (<see cref="HandoverRays"/>) and the mesh points count nothing at that temperature.
+    /// </summary>
+    public IReadOnlyList<bool> WholeZone => _wholeZone;
+
+    /// <summary>
+    /// The convergence check's hand-over (<see cref="OnCoarserMesh"/>): its whole-zone rays take half the face
+    /// nodes per direction, since the mesh plays no part there and the change should read the rays' error.
+    /// </summary>
+    public bool ForCheckMesh { get; }
+
+    /// <summary>Whether some temperature integrates the whole zone along rays.</summary>
+    public bool AnyWholeZone => _wholeZone.Any(z => z);
 
     /// <summary>
     /// The hand-over for this mesh, or null when no temperature needs it (every temperature's heat
@@ -149,7 +199,7 @@ internal sealed class LongWaveHandover
         var width = (outside - circumradius) / spacing;
         if (width >= MinimumWidthSpacings)
         {
-            return new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, wanted);
+            return new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, wanted, ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, wanted, ThinStepFactor));
         }
 
         if (d != 3 || width < NarrowMinimumWidthSpacings)
@@ -172,7 +222,87 @@ internal sealed class LongWaveHandover
             any |= on[t];
         }
 
-        return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on) : null;
+        return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on, ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, on, NarrowThinStepFactor)) : null;
+    }
+
+    /// <summary>
+    /// 3D, per temperature where <paramref name="on"/>: whether some branch's heat carriers reach the window's
+    /// edge (x of the lowest moving frequency at the middle of the edge or at its end, along a mesh axis or
+    /// diagonal, below <see cref="ThinCarriersX"/>) while one mesh spacing across that point the lowest frequency
+    /// is at least <paramref name="stepFactor"/> times higher and x at least <see cref="ThinStepX"/> higher. Steps
+    /// go along each mesh edge's part across the direction (edges nearly along it are skipped), both ways.
+    /// Directions off the axes and diagonals are not tried: a crystal layered along another axis is not seen.
+    /// </summary>
+    private static bool[] ThinCarriers(ModeSolver solver, Lattice lattice, int[] mesh, double insideM, double outsideM, double[] temperaturesK, bool[] on, double stepFactor)
+    {
+        var zone = new bool[on.Length];
+        if (lattice.Dimension != 3 || !on.Any(o => o))
+        {
+            return zone;
+        }
+
+        var edges = GammaCellIntegrator.Edges(lattice, mesh);
+        var acoustic = solver.Matrix.Crystal.Components;
+        var pairs = new List<(double Omega0, double Omega1)>();
+        foreach (var b in Images(lattice).Take(13))
+        {
+            var u = b.Unit();
+            foreach (var radius in new[] { (insideM + outsideM) / 2, outsideM })
+            {
+                var q = radius * u;
+                var here = Sorted(solver, q, acoustic);
+                foreach (var e in edges)
+                {
+                    var across = e - (e.Dot(u) * u);
+                    if (across.Length < 0.5 * e.Length)
+                    {
+                        continue;
+                    }
+
+                    // Branch by branch in order of frequency: where slow branches meet (a layered crystal's two
+                    // shear waves along the normal) each is thin across in its own direction, and the lowest
+                    // frequency alone follows the other one.
+                    var step = e.Length * across.Unit();
+                    var plus = Sorted(solver, q + step, acoustic);
+                    var minus = Sorted(solver, q - step, acoustic);
+                    for (var k = 0; k < acoustic; k++)
+                    {
+                        pairs.Add((here[k], Math.Min(plus[k], minus[k])));
+                    }
+                }
+            }
+        }
+
+        for (var t = 0; t < on.Length; t++)
+        {
+            var kT = Units.PhysicalConstants.BoltzmannJPerK * temperaturesK[t];
+            if (!on[t] || !(kT > 0))
+            {
+                continue;
+            }
+
+            foreach (var (omega0, omega1) in pairs)
+            {
+                var x0 = Units.PhysicalConstants.HbarJS * omega0 / kT;
+                var x1 = Units.PhysicalConstants.HbarJS * omega1 / kT;
+                if (omega0 > 0 && x0 < ThinCarriersX && omega1 >= stepFactor * omega0 && x1 - x0 >= ThinStepX)
+                {
+                    zone[t] = true;
+                    break;
+                }
+            }
+        }
+
+        return zone;
+    }
+
+    /// <summary>The lowest <paramref name="count"/> frequencies at q (rad/s), branches that do not move at all (omega 0 everywhere) as 0.</summary>
+    private static double[] Sorted(ModeSolver solver, Vec3 q, int count)
+    {
+        solver.SolveValues(q);
+        var values = solver.Values;
+        var floor = 1e-13 * Math.Abs(values[^1]);
+        return [.. values.Take(count).Select(lambda => lambda > floor ? Math.Sqrt(lambda) : 0)];
     }
 
     /// <summary>
@@ -232,7 +362,7 @@ internal sealed class LongWaveHandover
         var minimum = _lattice.Dimension == 3 ? CheckMinimumWidthSpacings3d : CheckMinimumWidthSpacings;
         return outside < circumradius + (minimum * spacing)
             ? null
-            : new LongWaveHandover(_lattice, mesh, spacing, circumradius, outside, _on);
+            : new LongWaveHandover(_lattice, mesh, spacing, circumradius, outside, _on, _wholeZone, forCheckMesh: true);
     }
 
     /// <summary>
