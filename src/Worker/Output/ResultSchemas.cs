@@ -351,7 +351,7 @@ internal sealed class ResultSchemas
             C<PointOutcome>("surface_mode_fraction", ColumnType.Double, "1", "fraction of non-zero modes with at least surface_weight_threshold of their weight on surface atoms", o => F(o)?.SurfaceModeFraction),
             C<PointOutcome>("surface_weight_threshold", ColumnType.Double, "1", "the weight that makes a mode a surface mode", o => F(o)?.SurfaceWeightThreshold),
             C<PointOutcome>("msd_surface_nm2", ColumnType.Double, "nm^2", "mean-square displacement of surface atoms at the reference temperature, mean over directions", o => F(o)?.MsdSurfaceNm2),
-            C<PointOutcome>("msd_interior_nm2", ColumnType.Double, "nm^2", "the same for the interior atoms", o => F(o)?.MsdInteriorNm2),
+            C<PointOutcome>("msd_interior_nm2", ColumnType.Double, "nm^2", "the same for the interior atoms (empty when no atom lost a nearest neighbour, `layer_count` 0: read the per-site values in `mean_square_displacements/`)", o => F(o)?.MsdInteriorNm2),
             C<PointOutcome>("periodic_cells", ColumnType.Text, "", "cells per direction of the periodic crystal of the same size", o => F(o)?.PeriodicCells),
             C<PointOutcome>("periodic_cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity of that periodic crystal at the reference temperature", o => F(o)?.PeriodicCvAtReferenceJPerMolK),
             C<PointOutcome>("cv_ratio_to_periodic", ColumnType.Double, "1", "cv_j_per_mol_k divided by periodic_cv_j_per_mol_k (the surface enhancement of an ordered sample; with disorder also the substitutes' effect)", o => Ratio(o)),
