@@ -23,24 +23,15 @@ namespace LatticeSweep.Engine.Tests.Solving;
 /// </summary>
 public class LayeredCrystalLowTemperatureTests
 {
-    private const double ConstantNm = 0.4596;
-    private const double MassAmu = 3.8724;
-    private const double ShearAcrossNPerM = 0.01;
+    private const double ConstantNm = LayeredCubicCrystal.ConstantNm;
+    private const double MassAmu = LayeredCubicCrystal.MassAmu;
+    private const double ShearAcrossNPerM = LayeredCubicCrystal.ShearAcrossNPerM;
 
     private static readonly SolveOptions Thermal = new() { MeanSquareDisplacement = false, PartialDos = false };
 
-    /// <summary>Per polarisation x, y, z: the springs (N/m) its motion meets along bonds x, y, z (longitudinal along its own axis).</summary>
-    private static readonly double[][] CubicSprings = [[18.5731, 9.3274, ShearAcrossNPerM], [4.3483, 34.8232, ShearAcrossNPerM], [4.3483, 9.3274, 2.2579]];
+    private static readonly double[][] CubicSprings = LayeredCubicCrystal.Springs;
 
-    private static CrystalModel LayeredCubic() => CrystalModel.Create(
-        Lattice.SimpleCubic(ConstantNm),
-        [new Site("S0", "S0", Vec3.Zero, MassAmu)],
-        bondSprings:
-        [
-            new BondSpring("S0", "S0", new IntVec3(1, 0, 0), 18.5731, 4.3483),
-            new BondSpring("S0", "S0", new IntVec3(0, 1, 0), 34.8232, 9.3274),
-            new BondSpring("S0", "S0", new IntVec3(0, 0, 1), 2.2579, ShearAcrossNPerM),
-        ]);
+    private static CrystalModel LayeredCubic() => LayeredCubicCrystal.Model();
 
     /// <summary>
     /// The same crystal described by a cell of two layers: lattice a, a, 2a, sites at z = 0 and 1/2 with the same bonds, so

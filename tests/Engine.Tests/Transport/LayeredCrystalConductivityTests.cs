@@ -27,23 +27,13 @@ namespace LatticeSweep.Engine.Tests.Transport;
 /// </summary>
 public class LayeredCrystalConductivityTests
 {
-    private const double ConstantNm = 0.4596;
-    private const double MassAmu = 3.8724;
-    private const double ShearAcrossNPerM = 0.01;
+    private const double ConstantNm = LayeredCubicCrystal.ConstantNm;
+    private const double MassAmu = LayeredCubicCrystal.MassAmu;
     private const double LengthNm = 10000;
 
-    /// <summary>Per polarisation x, y, z: the springs (N/m) its motion meets along bonds x, y, z.</summary>
-    private static readonly double[][] Springs = [[18.5731, 9.3274, ShearAcrossNPerM], [4.3483, 34.8232, ShearAcrossNPerM], [4.3483, 9.3274, 2.2579]];
+    private static readonly double[][] Springs = LayeredCubicCrystal.Springs;
 
-    private static CrystalModel LayeredCubic() => CrystalModel.Create(
-        Lattice.SimpleCubic(ConstantNm),
-        [new Site("S0", "S0", Vec3.Zero, MassAmu)],
-        bondSprings:
-        [
-            new BondSpring("S0", "S0", new IntVec3(1, 0, 0), 18.5731, 4.3483),
-            new BondSpring("S0", "S0", new IntVec3(0, 1, 0), 34.8232, 9.3274),
-            new BondSpring("S0", "S0", new IntVec3(0, 0, 1), 2.2579, ShearAcrossNPerM),
-        ]);
+    private static CrystalModel LayeredCubic() => LayeredCubicCrystal.Model();
 
     private static ConductivityOptions BoundaryOnly => new() { Boundary = new BoundaryScattering { LengthNm = LengthNm } };
 
