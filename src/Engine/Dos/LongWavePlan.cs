@@ -119,15 +119,12 @@ internal static class LongWavePlan
                     continue;
                 }
 
-                plan.TrialSolves += (rays * (SolvesPerRay + FitSolvesPerRay))
+                plan.TrialSolves += (rays * (SolvesPerRay + LongWaveRegion.FitSolvesPerRay))
                     + (Rays(solver, mesh, LongWaveRegion.Narrowed(half, 3, narrowings[acoustic - 1]), ref plan) * SolvesPerRay);
                 return;
             }
         }
     }
-
-    /// <summary>Direct solves per ray of the fit test (<see cref="LongWaveRegion.FitError"/>).</summary>
-    private const int FitSolvesPerRay = 5;
 
     private struct Tally
     {
@@ -141,14 +138,8 @@ internal static class LongWavePlan
     private static int Rays(ModeSolver solver, BulkSample mesh, int[] half, ref Tally plan)
     {
         var crystal = solver.Matrix.Crystal;
-        var lattice = crystal.Lattice;
-        var d = lattice.Dimension;
-        var edges = new Models.Vec3[d];
-        for (var i = 0; i < d; i++)
-        {
-            edges[i] = 2.0 * half[i] / mesh[i] * lattice.ReciprocalVector(i);
-        }
-
+        var d = crystal.Lattice.Dimension;
+        var edges = LongWaveRegion.BoxEdges(crystal.Lattice, mesh, half);
         var rule = LongWaveFaceRule.Choose(crystal, edges);
         plan.PanelledRules += rule.IsPanelled ? 1 : 0;
         plan.ChosenRays += rule.RayCount(d);

@@ -199,22 +199,32 @@ internal sealed class LongWaveRegion
         var crystal = solver.Matrix.Crystal;
         var lattice = crystal.Lattice;
         var d = lattice.Dimension;
-        var edges = new Vec3[d];
-        for (var i = 0; i < d; i++)
+        var edges = BoxEdges(lattice, mesh, half);
+        var cellRays = CentredCellRays.Build(d, edges, LongWaveFaceRule.Choose(crystal, edges));
+        return (cellRays, Math.Min(1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice), 1e-2 * cellRays.ShortestRayM));
+    }
+
+    /// <summary>The edges of a box of <paramref name="half"/> mesh cells either way from q = 0 (its face rule is chosen from them).</summary>
+    internal static Vec3[] BoxEdges(Lattice lattice, BulkSample mesh, int[] half)
+    {
+        var edges = new Vec3[lattice.Dimension];
+        for (var i = 0; i < edges.Length; i++)
         {
             edges[i] = 2.0 * half[i] / mesh[i] * lattice.ReciprocalVector(i);
         }
 
-        var cellRays = CentredCellRays.Build(d, edges, LongWaveFaceRule.Choose(crystal, edges));
-        return (cellRays, Math.Min(1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice), 1e-2 * cellRays.ShortestRayM));
+        return edges;
     }
+
+    /// <summary>Direct solves per ray of <see cref="FitError"/>: one at each midpoint between the rays' nodes.</summary>
+    internal static int FitSolvesPerRay => RayDispersion.NodeY.Length - 1;
 
     /// <summary>
     /// The largest relative error of the rays' polynomial for the region's branches against direct solves of
     /// D(q) at the midpoints in y = rho^2 between the rays' nodes. Where a sorted branch meets another one on
     /// a ray (a crossing, or a close approach with a kink) the quintic cannot follow it and this grows to a
     /// few per cent; a cone that rises smoothly is followed within 1e-3 (<see cref="RayDispersion"/>).
-    /// Costs five solves per ray.
+    /// Costs <see cref="FitSolvesPerRay"/> solves per ray.
     /// </summary>
     /// <param name="solver">the point's solver</param>
     /// <param name="stopAt">the rays stop being measured once one reaches this error (the result is then that ray's, at least
