@@ -272,6 +272,17 @@ internal static partial class StreamingMerge
                     buffers.Texts.Clear();
                     for (var s = 0; s < sources.Count; s++)
                     {
+                        // A part this process wrote and still holds: its rows are gathered from the kept array in place.
+                        if (c != plan.IdColumn && inputs[sources[s].Input].TryKept(opened[s], c, out var kept, out var firstRow))
+                        {
+                            using (Queue.StageTimings.Measure("merge: gather from memory"))
+                            {
+                                ColumnGather.ScatterInto(values, kept, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1], firstRow);
+                            }
+
+                            continue;
+                        }
+
                         // The point ids are the ones the order was picked from: not decoded again.
                         var rows = c == plan.IdColumn ? 0 : await inputs[sources[s].Input].ReadColumnIntoAsync(opened[s], c, decoded, ct).ConfigureAwait(false);
                         if (decoded is string?[] cells && rows > 0)
