@@ -322,18 +322,8 @@ public sealed class StreamingMergeTests : IDisposable
         {
             var ids = Enumerable.Range(0, 30 + random.Next(40)).Select(_ => $"{random.Next(60 + (40 * chunk)):x3}").Order(StringComparer.Ordinal).ToList();
             var n = ids.Count;
-            var values = new Array[]
-            {
-                ids.Select(id => (string?)id).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 5 == 0 ? null : r % 2 == 0 ? "total" : "site").ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 3 == 0 ? null : (int?)(r % 4)).ToArray(),
-                Enumerable.Range(0, n).Select(r => (long?)((chunk * 1000L) + r)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 7 == 0 ? null : (double?)((chunk * 1000) + r + 0.125)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 6 == 0 ? null : (bool?)(r % 2 == 0)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 4 == 0 ? null : (DateTime?)new DateTime(2026, 12, 5, 6, 0, 0, DateTimeKind.Utc).AddSeconds((chunk * 100) + r)).ToArray(),
-            };
             var file = Path.Combine(table, $"part-c{chunk:d2}.parquet");
-            await DemoParts.WriteAsync(file, chunk, ids, new TableRows("demo", DemoParts.Columns, n, values), rowsPerGroup: n);
+            await DemoParts.WriteAsync(file, chunk, ids, new TableRows("demo", DemoParts.Columns, n, EveryTypeValues(ids, chunk)), rowsPerGroup: n);
             files.Add(file);
         }
 
@@ -397,18 +387,8 @@ public sealed class StreamingMergeTests : IDisposable
         {
             var ids = Enumerable.Range(0, 150 + random.Next(60)).Select(_ => $"{random.Next(4096):x3}").Order(StringComparer.Ordinal).ToList();
             var n = ids.Count;
-            var values = new Array[]
-            {
-                ids.Select(id => (string?)id).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 5 == 0 ? null : r % 2 == 0 ? "total" : "site").ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 3 == 0 ? null : (int?)(r % 4)).ToArray(),
-                Enumerable.Range(0, n).Select(r => (long?)((chunk * 1000L) + r)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 7 == 0 ? null : (double?)((chunk * 1000) + r + 0.125)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 6 == 0 ? null : (bool?)(r % 2 == 0)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 4 == 0 ? null : (DateTime?)new DateTime(2026, 12, 5, 6, 0, 0, DateTimeKind.Utc).AddSeconds((chunk * 100) + r)).ToArray(),
-            };
             var file = Path.Combine(table, $"part-c{chunk:d2}.parquet");
-            await DemoParts.WriteAsync(file, chunk, ids, new TableRows("demo", DemoParts.Columns, n, values), rowsPerGroup: 50);
+            await DemoParts.WriteAsync(file, chunk, ids, new TableRows("demo", DemoParts.Columns, n, EveryTypeValues(ids, chunk)), rowsPerGroup: 50);
             files.Add(file);
         }
 
@@ -434,6 +414,22 @@ public sealed class StreamingMergeTests : IDisposable
     }
 
     private static string PathList(IEnumerable<string> files) => "[" + string.Join(", ", files.Select(f => $"'{f}'")) + "]";
+
+    /// <summary>A demo part's columns (<see cref="DemoParts.Columns"/>): every column type, with empty cells, its values told apart by chunk and row.</summary>
+    private static Array[] EveryTypeValues(IReadOnlyList<string> ids, int chunk)
+    {
+        var n = ids.Count;
+        return
+        [
+            ids.Select(id => (string?)id).ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 5 == 0 ? null : r % 2 == 0 ? "total" : "site").ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 3 == 0 ? null : (int?)(r % 4)).ToArray(),
+            Enumerable.Range(0, n).Select(r => (long?)((chunk * 1000L) + r)).ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 7 == 0 ? null : (double?)((chunk * 1000) + r + 0.125)).ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 6 == 0 ? null : (bool?)(r % 2 == 0)).ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 4 == 0 ? null : (DateTime?)new DateTime(2026, 12, 5, 6, 0, 0, DateTimeKind.Utc).AddSeconds((chunk * 100) + r)).ToArray(),
+        ];
+    }
 
     [Fact]
     public void A_column_summary_given_one_column_at_a_time_says_what_one_given_whole_row_groups_says()
