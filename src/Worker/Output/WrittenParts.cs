@@ -27,7 +27,7 @@ internal static class WrittenParts
     /// The bound for a sweep of 2 to <see cref="MergedLayout.FilesTakenAsTheyAre"/> chunks, whose tables under 64 MiB are rewritten
     /// as one file each since round 26 (until then hard-linked): 2,000 small points hold ~73 MiB of columns (their `dos/` and
     /// `modes/` were read back from the files, half of the merge's CPU: bench/README, round 27). Held while the last chunks
-    /// solve: +~30 MB of peak RSS for them; a sweep of more chunks keeps the 32 MiB bound.
+    /// solve: +~8-14 MB of peak RSS for them; a sweep of more chunks keeps the 32 MiB bound.
     /// </summary>
     internal const long KeptBytesFewChunksAtMost = 96L << 20;
 
