@@ -29,25 +29,26 @@ internal static class ColumnGather
     /// Cell <paramref name="to"/>[k] of <paramref name="destination"/> gets cell <paramref name="from"/>[k] of
     /// <paramref name="source"/>, for k in [<paramref name="start"/>, <paramref name="end"/>); both arrays of one type.
     /// </summary>
-    public static void ScatterInto(Array destination, Array source, int[] to, int[] from, int start, int end)
+    /// <param name="offset">added to every row of <paramref name="from"/> (a row group's first row in a whole part's array)</param>
+    public static void ScatterInto(Array destination, Array source, int[] to, int[] from, int start, int end, int offset = 0)
     {
         switch (destination)
         {
-            case string?[] d: Scatter(d, (string?[])source, to, from, start, end); break;
-            case double?[] d: Scatter(d, (double?[])source, to, from, start, end); break;
-            case int?[] d: Scatter(d, (int?[])source, to, from, start, end); break;
-            case long?[] d: Scatter(d, (long?[])source, to, from, start, end); break;
-            case bool?[] d: Scatter(d, (bool?[])source, to, from, start, end); break;
-            case DateTime?[] d: Scatter(d, (DateTime?[])source, to, from, start, end); break;
+            case string?[] d: Scatter(d, (string?[])source, to, from, start, end, offset); break;
+            case double?[] d: Scatter(d, (double?[])source, to, from, start, end, offset); break;
+            case int?[] d: Scatter(d, (int?[])source, to, from, start, end, offset); break;
+            case long?[] d: Scatter(d, (long?[])source, to, from, start, end, offset); break;
+            case bool?[] d: Scatter(d, (bool?[])source, to, from, start, end, offset); break;
+            case DateTime?[] d: Scatter(d, (DateTime?[])source, to, from, start, end, offset); break;
             default: throw new InvalidOperationException($"unexpected column array {destination.GetType().Name}");
         }
     }
 
-    private static void Scatter<T>(T[] destination, T[] source, int[] to, int[] from, int start, int end)
+    private static void Scatter<T>(T[] destination, T[] source, int[] to, int[] from, int start, int end, int offset)
     {
         for (var k = start; k < end; k++)
         {
-            destination[to[k]] = source[from[k]];
+            destination[to[k]] = source[from[k] + offset];
         }
     }
 

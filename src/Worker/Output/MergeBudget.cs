@@ -27,6 +27,13 @@ internal sealed record MergeBudget(long InputBytes, long OutputGroupBytes)
     /// </summary>
     public bool WatchHeap { get; init; } = true;
 
+    /// <summary>
+    /// The most bytes of decoded columns a pass by columns keeps for input row groups that go on into the next output group,
+    /// so that each is decoded once (<see cref="StreamingMerge"/>, round 27); a pass whose inputs' largest groups need more
+    /// decodes such a group again for each output group, as before. 0: never kept (tests compare both ways).
+    /// </summary>
+    public long CarriedBytes { get; init; } = 32L << 20;
+
     /// <summary>Bytes a row takes decoded: a nullable number 16 (8 for int, 2 for bool), a text ~64 (reference, header, a short id or label).</summary>
     public static long BytesPerRow(IReadOnlyList<ColumnDef> columns)
     {

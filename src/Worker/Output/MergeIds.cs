@@ -31,20 +31,31 @@ internal sealed class MergeIds
     public int Length => _keys.Length;
 
     /// <summary>Keeps the ids of <paramref name="ids"/> (the strings can then be dropped).</summary>
-    public static MergeIds Of(string?[] ids)
+    public static MergeIds Of(string?[] ids) => Of(ids, 0, ids?.Length ?? 0);
+
+    /// <summary>Keeps the ids of <paramref name="ids"/>[<paramref name="start"/>, <paramref name="start"/> + <paramref name="count"/>) (a row group of a kept part's column, not copied).</summary>
+    public static MergeIds Of(string?[] ids, int start, int count)
     {
         ArgumentNullException.ThrowIfNull(ids);
-        var keys = new ulong[ids.Length];
+        var keys = new ulong[count];
         bool[]? textual = null;
         string?[]? texts = null;
-        for (var i = 0; i < ids.Length; i++)
+        for (var i = 0; i < count; i++)
         {
-            if (!TryKey(ids[i], out keys[i]))
+            var id = ids[start + i];
+            // A point's rows share one string (as the rows were built): its key is made once per run.
+            if (i > 0 && id is not null && ReferenceEquals(id, ids[start + i - 1]) && textual?[i - 1] != true)
             {
-                textual ??= new bool[ids.Length];
-                texts ??= new string?[ids.Length];
+                keys[i] = keys[i - 1];
+                continue;
+            }
+
+            if (!TryKey(id, out keys[i]))
+            {
+                textual ??= new bool[count];
+                texts ??= new string?[count];
                 textual[i] = true;
-                texts[i] = ids[i];
+                texts[i] = id;
             }
         }
 

@@ -33,9 +33,12 @@ public static class ResultMerge
             var parts = outcomes.Sum(o => o.PartsMerged);
             if (parts > 0)
             {
+                // A table is either rewritten (sorted into one file, or files of ~64 MiB) or keeps its files by a second name
+                // (MergedLayout.TakenAsTheyAre: one file with rows, or a few files of 64 MiB and more).
                 var asTheyWere = outcomes.Count(o => o.PartsMerged > 0 && o.TakenAsTheyWere);
-                log.Information("Sweep {SweepId}: merged {Parts} part files into {Files} files of {Tables} tables ({AsTheyWere} of the tables by taking their files as they were) in {Seconds:F1} s",
-                    sweep.SweepId, parts, outcomes.Sum(o => o.FilesWritten), outcomes.Count(o => o.PartsMerged > 0), asTheyWere, clock.Elapsed.TotalSeconds);
+                var tables = outcomes.Count(o => o.PartsMerged > 0);
+                log.Information("Sweep {SweepId}: merged {Parts} part files into {Files} files of {Tables} tables ({Rewritten} rewritten sorted by point, {AsTheyWere} kept as they were: one file with rows, or files of 64 MiB and more) in {Seconds:F1} s",
+                    sweep.SweepId, parts, outcomes.Sum(o => o.FilesWritten), tables, tables - asTheyWere, asTheyWere, clock.Elapsed.TotalSeconds);
             }
 
             return true;

@@ -56,7 +56,7 @@ internal static partial class StreamingMerge
     }
 
     private static async Task<Written> MergeByColumnsAsync(List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string output, string table,
-        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, bool watchHeap, CancellationToken ct)
+        IReadOnlyDictionary<string, string> metadata, int groupRows, ColumnSummary? summary, bool watchHeap, long carriedBytes, CancellationToken ct)
     {
         var idColumn = inputs[0].IdColumn;
 
@@ -79,6 +79,9 @@ internal static partial class StreamingMerge
         var chosenSource = new int[groupRows];
         var chosenRow = new int[groupRows];
         var buffers = new ColumnBuffers(groupRows, (int)inputs.Max(i => i.GroupRows.DefaultIfEmpty(0).Max()));
+        // An input row group whose rows go on into the next output group keeps its decoded columns for it (decoded once, not
+        // once per output group) when every input's largest group of every column fits the budget's CarriedBytes.
+        var carried = carriedBytes > 0 && CarriedColumns.BytesFor(inputs, columns) <= carriedBytes ? new CarriedColumns(inputs.Count, columns.Count) : null;
         var index = new StringBuilder();
         long total = 0;
         var wroteGroup = false;
@@ -134,7 +137,15 @@ internal static partial class StreamingMerge
                     break;
                 }
 
-                await WriteGroupByColumnsAsync(writer, inputs, columns, table, sources, new GroupPlan(chosenSource, chosenRow, n, idColumn), buffers, index, summary, watchHeap, ct).ConfigureAwait(false);
+                // A source whose input is still on its row group after this pick goes on into the next output group.
+                var goesOn = new bool[sources.Count];
+                for (var s = 0; s < sources.Count; s++)
+                {
+                    var cursor = cursors[sources[s].Input];
+                    goesOn[s] = cursor.Group == sources[s].Group && cursor.Ids is not null && cursor.Position < cursor.Ids.Length;
+                }
+
+                await WriteGroupByColumnsAsync(writer, inputs, columns, table, sources, new GroupPlan(chosenSource, chosenRow, n, idColumn), buffers, carried, goesOn, index, summary, watchHeap, ct).ConfigureAwait(false);
                 wroteGroup = true;
                 total += n;
                 if (queue.Count == 0)
@@ -255,7 +266,8 @@ internal static partial class StreamingMerge
     /// across the reads of ~100-200 sources were promoted and died old, and set the merge's peak (bench/README, round 17).
     /// </summary>
     private static async Task WriteGroupByColumnsAsync(ParquetTableWriter writer, List<SortedInput> inputs, IReadOnlyList<ColumnDef> columns, string table,
-        List<GroupSource> sources, GroupPlan plan, ColumnBuffers buffers, StringBuilder index, ColumnSummary? summary, bool watchHeap, CancellationToken ct)
+        List<GroupSource> sources, GroupPlan plan, ColumnBuffers buffers, CarriedColumns? carried, bool[] goesOn, StringBuilder index, ColumnSummary? summary,
+        bool watchHeap, CancellationToken ct)
     {
         var n = plan.Rows;
         using var group = writer.BeginRowGroup(table, n);
@@ -272,11 +284,35 @@ internal static partial class StreamingMerge
                     buffers.Texts.Clear();
                     for (var s = 0; s < sources.Count; s++)
                     {
-                        // The point ids are the ones the order was picked from: not decoded again.
-                        var rows = c == plan.IdColumn ? 0 : await inputs[sources[s].Input].ReadColumnIntoAsync(opened[s], c, decoded, ct).ConfigureAwait(false);
-                        if (decoded is string?[] cells && rows > 0)
+                        // A part this process wrote and still holds: its rows are gathered from the kept array in place.
+                        if (c != plan.IdColumn && inputs[sources[s].Input].TryKept(opened[s], c, out var kept, out var firstRow))
                         {
-                            buffers.Texts.Share(cells, rows);
+                            using (Queue.StageTimings.Measure("merge: gather from memory"))
+                            {
+                                ColumnGather.ScatterInto(values, kept, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1], firstRow);
+                            }
+
+                            continue;
+                        }
+
+                        // The point ids are the ones the order was picked from: not decoded again. A row group decoded for the
+                        // output group before is taken as it was kept; one that goes on into the next is decoded into its keeping array.
+                        var source = sources[s];
+                        var into = decoded;
+                        var rows = 0;
+                        if (c != plan.IdColumn && carried?.Find(source.Input, source.Group, c) is { } earlier)
+                        {
+                            into = earlier;
+                            rows = checked((int)inputs[source.Input].GroupRows[source.Group]);
+                        }
+                        else if (c != plan.IdColumn)
+                        {
+                            into = carried is not null && goesOn[s] ? carried.For(source.Input, source.Group, c, columns[c].Type, decoded.Length) : decoded;
+                            rows = await inputs[source.Input].ReadColumnIntoAsync(opened[s], c, into, ct).ConfigureAwait(false);
+                            if (into is string?[] cells && rows > 0)
+                            {
+                                buffers.Texts.Share(cells, rows);
+                            }
                         }
 
                         using (Queue.StageTimings.Measure("merge: gather"))
@@ -287,11 +323,11 @@ internal static partial class StreamingMerge
                             }
                             else
                             {
-                                ColumnGather.ScatterInto(values, decoded, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1]);
+                                ColumnGather.ScatterInto(values, into, bySource.To, bySource.From, bySource.Start[s], bySource.Start[s + 1]);
                             }
                         }
 
-                        if (decoded is string?[] text)
+                        if (ReferenceEquals(into, decoded) && decoded is string?[] text)
                         {
                             Array.Clear(text, 0, rows);
                         }
@@ -335,6 +371,61 @@ internal static partial class StreamingMerge
 
         summary?.AddRows(n);
         summary?.AddMarks(buffers.Marks[0], buffers.Marks[1], buffers.Marks[2], n);
+    }
+
+    /// <summary>
+    /// Decoded columns of each input's current row group, kept while its rows go on into the next output group: one array per
+    /// input and column, made once (as long as the inputs' largest group) and decoded into again for the input's next group.
+    /// A pass of a few inputs so decodes each input row group once instead of once per output group it gives rows to (~1.7
+    /// times for two parts of 300,000 rows, bench/README round 27); a pass of more or larger inputs than
+    /// <see cref="MergeBudget.CarriedBytes"/> allows decodes them again, as before.
+    /// </summary>
+    private sealed class CarriedColumns(int inputs, int columns)
+    {
+        private readonly Array?[,] _arrays = new Array?[inputs, columns];
+        private readonly int[,] _group = NewGroups(inputs, columns);
+
+        /// <summary>What keeping every input's largest row group of every column would hold (the array costs of <see cref="ColumnValues"/>).</summary>
+        public static long BytesFor(IReadOnlyList<SortedInput> inputs, IReadOnlyList<ColumnDef> columns) =>
+            inputs.Sum(i => i.GroupRows.DefaultIfEmpty(0).Max()) * columns.Sum(c => ArrayBytesPerCell(c.Type));
+
+        /// <summary>The kept decoded column <paramref name="column"/> of <paramref name="input"/>'s row group <paramref name="group"/>, or null.</summary>
+        public Array? Find(int input, int group, int column) => _group[input, column] == group ? _arrays[input, column] : null;
+
+        /// <summary>The array to decode column <paramref name="column"/> of <paramref name="input"/>'s row group <paramref name="group"/> into and keep.</summary>
+        public Array For(int input, int group, int column, ColumnType type, int length)
+        {
+            var array = _arrays[input, column];
+            if (array is null || array.Length < length || array.GetType() != ColumnValues.ArrayType(type))
+            {
+                array = Array.CreateInstance(ColumnValues.ArrayType(type).GetElementType()!, length);
+                _arrays[input, column] = array;
+            }
+
+            _group[input, column] = group;
+            return array;
+        }
+
+        private static long ArrayBytesPerCell(ColumnType type) => type switch
+        {
+            ColumnType.Text or ColumnType.Int32 => 8,
+            ColumnType.Bool => 2,
+            _ => 16,
+        };
+
+        private static int[,] NewGroups(int inputs, int columns)
+        {
+            var groups = new int[inputs, columns];
+            for (var i = 0; i < inputs; i++)
+            {
+                for (var c = 0; c < columns; c++)
+                {
+                    groups[i, c] = -1;
+                }
+            }
+
+            return groups;
+        }
     }
 
     /// <summary>A row group some of an output group's rows come from: its input, its number, and its point ids (read for the order, kept for the id column).</summary>

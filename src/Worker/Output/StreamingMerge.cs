@@ -161,7 +161,7 @@ internal static partial class StreamingMerge
             if (inputs.All(ByColumns))
             {
                 var rowsByColumns = final ? budget.FinalGroupRowsByColumns(columns) : budget.RunGroupRowsByColumns(columns);
-                return await MergeByColumnsAsync(inputs, columns, output, table, metadata, rowsByColumns, summary, budget.WatchHeap, ct).ConfigureAwait(false);
+                return await MergeByColumnsAsync(inputs, columns, output, table, metadata, rowsByColumns, summary, budget.WatchHeap, budget.CarriedBytes, ct).ConfigureAwait(false);
             }
 
             var groupRows = final ? budget.FinalGroupRowsFor(columns) : budget.RunGroupRowsFor(columns);

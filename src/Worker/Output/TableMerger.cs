@@ -141,34 +141,15 @@ internal static class TableMerger
                 chunkFiles.AddRange(list.Where(e => e.Value == k.Name).Select(e => (e.Key, e.Value)));
             }
 
-            // Footers only: a table of one file with rows, or a large one of a few files, keeps its files (MergedLayout.TakenAsTheyAre).
-            var laidOut = inputs.Count <= MergedLayout.FilesTakenAsTheyAre ? await LaidOutAsync(inputs, ct).ConfigureAwait(false) : null;
-            if (laidOut is not null && MergedLayout.TakenAsTheyAre(laidOut.Count, laidOut.Count(f => f.Rows > 0), inputs.Sum(f => f.Length)))
-            {
-                var taken = TakeAsTheyAre(laidOut, staging, ref nextNumber, chunkFiles);
-                await WriteFirstLoadAsync(staging, schema, budget, ct).ConfigureAwait(false);
-                Commit(live, staging, id, chunkFiles, ct);
-                return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
-            }
-
             // A small table's merge neither releases memory first nor watches the heap while it writes (ReleaseFromInputBytes),
-            // and (up to OpenedOnceAtMost inputs) opens each input once for every step (its columns and metadata here, the pass plan,
-            // the pass) instead of three times.
+            // and (up to OpenedOnceAtMost inputs) opens each input once for every step (the layout check below, its columns and
+            // metadata, the pass plan, the pass) instead of three times.
             var small = inputs.Sum(f => f.Length) < ReleaseFromInputBytes;
-            if (!small)
-            {
-                Queue.MemoryRelease.Now("merge: release memory");
-            }
-            else
-            {
-                budget = budget with { WatchHeap = false };
-            }
-
             var opened = new Dictionary<string, SortedInput>(StringComparer.Ordinal);
             (int Files, long Rows) written;
             try
             {
-                if (small && inputs.Count <= OpenedOnceAtMost)
+                if (inputs.Count <= MergedLayout.FilesTakenAsTheyAre || (small && inputs.Count <= OpenedOnceAtMost))
                 {
                     foreach (var input in inputs)
                     {
@@ -176,15 +157,35 @@ internal static class TableMerger
                     }
                 }
 
+                // Footers only: a table of one file with rows, or a large one of a few files, keeps its files (MergedLayout.TakenAsTheyAre).
+                // The footers are the inputs' as opened for the rewrite (until round 27 they were read once here and again for it).
+                var laidOut = inputs.Count <= MergedLayout.FilesTakenAsTheyAre ? LaidOut(inputs, opened) : null;
+                if (laidOut is not null && MergedLayout.TakenAsTheyAre(laidOut.Count, laidOut.Count(f => f.Rows > 0), inputs.Sum(f => f.Length)))
+                {
+                    await CloseAsync(opened).ConfigureAwait(false);
+                    var taken = TakeAsTheyAre(laidOut, staging, ref nextNumber, chunkFiles);
+                    await WriteFirstLoadAsync(staging, schema, budget, ct).ConfigureAwait(false);
+                    Commit(live, staging, id, chunkFiles, ct);
+                    return new Outcome(table, parts.Count, taken, laidOut.Sum(f => f.Rows), TakenAsTheyWere: true);
+                }
+
+                if (!small)
+                {
+                    // A larger table opens its inputs step by step, after the release (as before): the footers read for the check go.
+                    await CloseAsync(opened).ConfigureAwait(false);
+                    Queue.MemoryRelease.Now("merge: release memory");
+                }
+                else
+                {
+                    budget = budget with { WatchHeap = false };
+                }
+
                 written = await WriteMergedAsync(staging, scratch, table, inputs, opened, nextNumber, chunkFiles, budget, ct).ConfigureAwait(false);
             }
             finally
             {
                 // Closed before the swap: the table folder's old files are deleted right after it.
-                foreach (var input in opened.Values)
-                {
-                    await input.DisposeAsync().ConfigureAwait(false);
-                }
+                await CloseAsync(opened).ConfigureAwait(false);
             }
 
             TryDeleteFolder(scratch);
@@ -309,35 +310,38 @@ internal static class TableMerger
     /// The inputs with their chunks and row counts when every one is laid out as a merged file
     /// already (sorted by point id, row groups indexed and within <see cref="MergedLayout.RowGroupRows"/>,
     /// its chunks named in its metadata: what <see cref="ParquetPartWriter"/> writes); else null.
-    /// Reads the footers only.
+    /// From the footers of the inputs as <paramref name="opened"/> for the merge.
     /// </summary>
-    private static async Task<List<LaidOutFile>?> LaidOutAsync(IReadOnlyList<FileInfo> inputs, CancellationToken ct)
+    private static List<LaidOutFile>? LaidOut(IReadOnlyList<FileInfo> inputs, Dictionary<string, SortedInput> opened)
     {
         var files = new List<LaidOutFile>();
         foreach (var input in inputs)
         {
-            await using var stream = new FileStream(input.FullName, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete, 1 << 12);
-            await using var reader = await Parquet.ParquetReader.CreateAsync(new InlineStream(stream), cancellationToken: ct).ConfigureAwait(false);
-            var metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
-            var groupRows = new List<long>();
-            for (var g = 0; g < reader.RowGroupCount; g++)
-            {
-                using var group = reader.OpenRowGroupReader(g);
-                groupRows.Add(group.RowCount);
-            }
-
+            var open = opened[input.FullName];
+            var metadata = open.Metadata;
             var chunks = metadata.GetValueOrDefault(MergedLayout.ChunksKey, "").Split(',', StringSplitOptions.RemoveEmptyEntries);
             var partChunk = MergedLayout.ChunkOfPart(input.Name);
-            if (!metadata.TryGetValue(MergedLayout.RowGroupsKey, out var index) || !RowGroupIndex.DescribesSortedFile(index, groupRows)
+            if (!metadata.TryGetValue(MergedLayout.RowGroupsKey, out var index) || !RowGroupIndex.DescribesSortedFile(index, open.GroupRows)
                 || chunks.Length == 0 || (partChunk is not null && (chunks.Length != 1 || chunks[0] != partChunk)))
             {
                 return null;
             }
 
-            files.Add(new LaidOutFile(input, chunks, groupRows.Sum(), partChunk is not null));
+            files.Add(new LaidOutFile(input, chunks, open.GroupRows.Sum(), partChunk is not null));
         }
 
         return files;
+    }
+
+    /// <summary>Closes the inputs held open and forgets them.</summary>
+    private static async Task CloseAsync(Dictionary<string, SortedInput> opened)
+    {
+        foreach (var input in opened.Values)
+        {
+            await input.DisposeAsync().ConfigureAwait(false);
+        }
+
+        opened.Clear();
     }
 
     /// <summary>

@@ -13,7 +13,8 @@ namespace LatticeSweep.Worker.Output;
 /// row-group layout the merge reads by columns. Anything else (a part replaced by a later run of its chunk,
 /// by another process, a file this process did not write) is read from the file as before. Only the cells
 /// a file gives back exactly are served: text, doubles, integers and flags; timestamps, which the file holds
-/// in milliseconds, are always read from it. At most <see cref="KeptBytesAtMost"/> are held for all sweeps:
+/// in milliseconds, are always read from it. At most <see cref="KeptBytesAtMost"/> are held for all sweeps
+/// (<see cref="KeptBytesFewChunksAtMost"/> while the watched sweep has at most <see cref="MergedLayout.FilesTakenAsTheyAre"/> chunks):
 /// a sweep whose parts grow past it is forgotten whole and not kept any more (a large sweep's merge reads its
 /// files; its solving holds nothing for it), and a table's are dropped once it is merged.
 /// </remarks>
@@ -22,8 +23,17 @@ internal static class WrittenParts
     /// <summary>The most bytes of column arrays held at once (estimated from rows and column types).</summary>
     internal const long KeptBytesAtMost = 32L << 20;
 
+    /// <summary>
+    /// The bound for a sweep of 2 to <see cref="MergedLayout.FilesTakenAsTheyAre"/> chunks, whose tables under 64 MiB are rewritten
+    /// as one file each since round 26 (until then hard-linked): 2,000 small points hold ~73 MiB of columns (their `dos/` and
+    /// `modes/` were read back from the files, half of the merge's CPU: bench/README, round 27). Held while the last chunks
+    /// solve: +~8-14 MB of peak RSS for them; a sweep of more chunks keeps the 32 MiB bound.
+    /// </summary>
+    internal const long KeptBytesFewChunksAtMost = 96L << 20;
+
     private static readonly object Gate = new();
-    private static readonly HashSet<string> Watched = new(StringComparer.Ordinal);
+    // The watched sweeps with the bound of their kept bytes (KeptBytesAtMost until Keeps has seen their chunk count).
+    private static readonly Dictionary<string, long> Watched = new(StringComparer.Ordinal);
     private static readonly Dictionary<string, Kept> ByPath = new(StringComparer.Ordinal);
     private static long _bytes;
 
@@ -37,7 +47,7 @@ internal static class WrittenParts
     {
         lock (Gate)
         {
-            Watched.Add(sweepId);
+            Watched.TryAdd(sweepId, KeptBytesAtMost);
         }
     }
 
@@ -87,9 +97,18 @@ internal static class WrittenParts
 
         lock (Gate)
         {
-            return Watched.Contains(sweepId);
+            if (!Watched.ContainsKey(sweepId))
+            {
+                return false;
+            }
+
+            Watched[sweepId] = BoundFor(chunks);
+            return true;
         }
     }
+
+    /// <summary>The most bytes kept for a sweep of <paramref name="chunks"/> chunks (<see cref="KeptBytesFewChunksAtMost"/> or <see cref="KeptBytesAtMost"/>).</summary>
+    internal static long BoundFor(int chunks) => chunks <= MergedLayout.FilesTakenAsTheyAre ? KeptBytesFewChunksAtMost : KeptBytesAtMost;
 
     /// <summary>Keeps the rows written to <paramref name="path"/> (now renamed into place), when the sweep is watched and they fit.</summary>
     public static void Keep(string sweepId, string path, FileIdentity identity, TableRows rows)
@@ -109,13 +128,13 @@ internal static class WrittenParts
         var full = Path.GetFullPath(path);
         lock (Gate)
         {
-            if (!Watched.Contains(sweepId))
+            if (!Watched.TryGetValue(sweepId, out var bound))
             {
                 return;
             }
 
             DropWhere(path: p => p == full);
-            if (_bytes + bytes > KeptBytesAtMost)
+            if (_bytes + bytes > bound)
             {
                 // Too large to hold through the run: the sweep's merge reads its files.
                 Watched.Remove(sweepId);

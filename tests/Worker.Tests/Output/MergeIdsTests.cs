@@ -12,6 +12,27 @@ public sealed class MergeIdsTests
     ];
 
     [Fact]
+    public void Ids_of_a_slice_whose_runs_share_one_string_are_the_ids_of_each_cell_held_on_its_own()
+    {
+        // A kept part's column: each point's rows share one string (as rows are built), keys and texts mixed, read a row group at a time.
+        var random = new Random(5);
+        var column = Mixed.Concat(Enumerable.Range(0, 40).Select(_ => (string?)$"{random.NextInt64():x16}"))
+            .SelectMany(id => Enumerable.Repeat(id, 1 + random.Next(4))).ToArray();
+        foreach (var (start, count) in new[] { (0, column.Length), (3, 17), (column.Length - 9, 9), (5, 0) })
+        {
+            var slice = MergeIds.Of(column, start, count);
+            var alone = MergeIds.Of(column.Skip(start).Take(count).Select(id => id is null ? null : new string(id.AsSpan())).ToArray());
+            Assert.Equal(count, slice.Length);
+            for (var i = 0; i < count; i++)
+            {
+                Assert.Equal(0, MergeId.Compare(alone[i], slice[i]));
+                Assert.Equal(alone.TextAt(i), slice.TextAt(i));
+                Assert.Equal(column[start + i], slice.TextAt(i));
+            }
+        }
+    }
+
+    [Fact]
     public void Keys_and_texts_compare_as_the_ordinal_order_of_the_texts()
     {
         var random = new Random(3);

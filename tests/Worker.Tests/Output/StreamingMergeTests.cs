@@ -322,18 +322,8 @@ public sealed class StreamingMergeTests : IDisposable
         {
             var ids = Enumerable.Range(0, 30 + random.Next(40)).Select(_ => $"{random.Next(60 + (40 * chunk)):x3}").Order(StringComparer.Ordinal).ToList();
             var n = ids.Count;
-            var values = new Array[]
-            {
-                ids.Select(id => (string?)id).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 5 == 0 ? null : r % 2 == 0 ? "total" : "site").ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 3 == 0 ? null : (int?)(r % 4)).ToArray(),
-                Enumerable.Range(0, n).Select(r => (long?)((chunk * 1000L) + r)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 7 == 0 ? null : (double?)((chunk * 1000) + r + 0.125)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 6 == 0 ? null : (bool?)(r % 2 == 0)).ToArray(),
-                Enumerable.Range(0, n).Select(r => r % 4 == 0 ? null : (DateTime?)new DateTime(2026, 12, 5, 6, 0, 0, DateTimeKind.Utc).AddSeconds((chunk * 100) + r)).ToArray(),
-            };
             var file = Path.Combine(table, $"part-c{chunk:d2}.parquet");
-            await DemoParts.WriteAsync(file, chunk, ids, new TableRows("demo", DemoParts.Columns, n, values), rowsPerGroup: n);
+            await DemoParts.WriteAsync(file, chunk, ids, new TableRows("demo", DemoParts.Columns, n, EveryTypeValues(ids, chunk)), rowsPerGroup: n);
             files.Add(file);
         }
 
@@ -381,7 +371,65 @@ public sealed class StreamingMergeTests : IDisposable
         Assert.Equal(await File.ReadAllBytesAsync(byPass), await File.ReadAllBytesAsync(beforehand));
     }
 
+    [Theory]
+    [InlineData(2)]
+    [InlineData(3)]
+    public async Task Input_row_groups_decoded_once_for_several_output_groups_give_the_bytes_of_row_groups_decoded_for_each(int parts)
+    {
+        // A few parts of interleaved ids, each of row groups of 50 rows, every column type with empty cells: each input row group
+        // gives rows to two or three output groups of 40 rows. Merged once with its decoded columns kept for the next output group
+        // (MergeBudget.CarriedBytes, round 27) and once decoding them again for each (CarriedBytes 0, as before): the same bytes,
+        // every row once in point order (DuckDB).
+        var table = NewTable();
+        var random = new Random(61 + parts);
+        var files = new List<string>();
+        for (var chunk = 0; chunk < parts; chunk++)
+        {
+            var ids = Enumerable.Range(0, 150 + random.Next(60)).Select(_ => $"{random.Next(4096):x3}").Order(StringComparer.Ordinal).ToList();
+            var n = ids.Count;
+            var file = Path.Combine(table, $"part-c{chunk:d2}.parquet");
+            await DemoParts.WriteAsync(file, chunk, ids, new TableRows("demo", DemoParts.Columns, n, EveryTypeValues(ids, chunk)), rowsPerGroup: 50);
+            files.Add(file);
+        }
+
+        var metadataOut = new Dictionary<string, string> { ["latticesweep.table"] = "demo" };
+        var budget = new MergeBudget(InputBytes: 1L << 30, OutputGroupBytes: 40 * 64);
+        Assert.True(budget.CarriedBytes > 0);
+        var carried = _dir.Combine("carried.parquet");
+        var again = _dir.Combine("decoded-again.parquet");
+        var withCarry = await StreamingMerge.MergeAsync(files, carried, _dir.Combine("runs-a"), "demo", metadataOut, budget, CancellationToken.None);
+        var withoutCarry = await StreamingMerge.MergeAsync(files, again, _dir.Combine("runs-b"), "demo", metadataOut, budget with { CarriedBytes = 0 }, CancellationToken.None);
+
+        Assert.Equal(withoutCarry, withCarry);
+        Assert.True(withCarry.RowGroupIndex.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length >= 7);
+        Assert.Equal(await File.ReadAllBytesAsync(again), await File.ReadAllBytesAsync(carried));
+        using var db = new DuckDb();
+        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
+            $"SELECT count(*) FROM ((SELECT * FROM read_parquet({PathList(files)})) EXCEPT ALL (SELECT * FROM read_parquet('{carried}')))"), System.Globalization.CultureInfo.InvariantCulture));
+        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
+            $"SELECT count(*) FROM ((SELECT * FROM read_parquet('{carried}')) EXCEPT ALL (SELECT * FROM read_parquet({PathList(files)})))"), System.Globalization.CultureInfo.InvariantCulture));
+        Assert.Equal(0L, Convert.ToInt64(db.Scalar(
+            $"SELECT count(*) FROM (SELECT point_id < lag(point_id) OVER (ORDER BY file_row_number) AS back FROM read_parquet('{carried}', file_row_number = true)) WHERE back"),
+            System.Globalization.CultureInfo.InvariantCulture));
+    }
+
     private static string PathList(IEnumerable<string> files) => "[" + string.Join(", ", files.Select(f => $"'{f}'")) + "]";
+
+    /// <summary>A demo part's columns (<see cref="DemoParts.Columns"/>): every column type, with empty cells, its values told apart by chunk and row.</summary>
+    private static Array[] EveryTypeValues(IReadOnlyList<string> ids, int chunk)
+    {
+        var n = ids.Count;
+        return
+        [
+            ids.Select(id => (string?)id).ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 5 == 0 ? null : r % 2 == 0 ? "total" : "site").ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 3 == 0 ? null : (int?)(r % 4)).ToArray(),
+            Enumerable.Range(0, n).Select(r => (long?)((chunk * 1000L) + r)).ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 7 == 0 ? null : (double?)((chunk * 1000) + r + 0.125)).ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 6 == 0 ? null : (bool?)(r % 2 == 0)).ToArray(),
+            Enumerable.Range(0, n).Select(r => r % 4 == 0 ? null : (DateTime?)new DateTime(2026, 12, 5, 6, 0, 0, DateTimeKind.Utc).AddSeconds((chunk * 100) + r)).ToArray(),
+        ];
+    }
 
     [Fact]
     public void A_column_summary_given_one_column_at_a_time_says_what_one_given_whole_row_groups_says()

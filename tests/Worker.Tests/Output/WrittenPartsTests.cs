@@ -141,6 +141,37 @@ public sealed class WrittenPartsTests : IDisposable
     }
 
     [Fact]
+    public async Task A_sweep_of_a_few_chunks_keeps_up_to_its_larger_bound_and_one_of_more_chunks_up_to_32_MiB()
+    {
+        var (files, rows) = await WritePartsAsync(_dir.Combine("demo"), seed: 43, parts: 2);
+        WrittenParts.Watch(_sweepId);
+        Assert.True(WrittenParts.KeptBytesFewChunksAtMost > WrittenParts.KeptBytesAtMost);
+        Assert.Equal(WrittenParts.KeptBytesFewChunksAtMost, WrittenParts.BoundFor(2));
+        Assert.Equal(WrittenParts.KeptBytesFewChunksAtMost, WrittenParts.BoundFor(MergedLayout.FilesTakenAsTheyAre));
+        Assert.Equal(WrittenParts.KeptBytesAtMost, WrittenParts.BoundFor(MergedLayout.FilesTakenAsTheyAre + 1));
+
+        // 48 MiB of columns (24 bytes a row by the estimate): over 32 MiB, under the few chunks' bound.
+        var rowsOfLarge = (int)(WrittenParts.KeptBytesAtMost * 3 / 2 / 24);
+        TableRows Large() => new("demo", [new("point_id", ColumnType.Text, "", ""), new("density", ColumnType.Double, "1/THz", "")],
+            rowsOfLarge, [new string?[rowsOfLarge], new double?[rowsOfLarge]]);
+
+        Assert.True(WrittenParts.Keeps(_sweepId, 2));
+        WrittenParts.Keep(_sweepId, files[0], WrittenParts.IdentityOf(files[0]), rows[0]);
+        WrittenParts.Keep(_sweepId, _dir.Combine("large.parquet"), default, Large());
+        Assert.True(OpensFromMemory(files[0]));
+        Assert.True(WrittenParts.BytesHeld > WrittenParts.KeptBytesAtMost);
+        WrittenParts.Forget(_sweepId);
+
+        // The same columns for a sweep of 5 chunks: past its 32 MiB, forgotten whole.
+        WrittenParts.Watch(_sweepId);
+        Assert.True(WrittenParts.Keeps(_sweepId, MergedLayout.FilesTakenAsTheyAre + 1));
+        WrittenParts.Keep(_sweepId, files[0], WrittenParts.IdentityOf(files[0]), rows[0]);
+        Assert.True(OpensFromMemory(files[0]));
+        WrittenParts.Keep(_sweepId, _dir.Combine("large.parquet"), default, Large());
+        Assert.False(OpensFromMemory(files[0]));
+    }
+
+    [Fact]
     public void Text_with_surrogates_and_timestamps_are_left_to_the_file()
     {
         Assert.False(WrittenParts.Served(ColumnType.Timestamp));
