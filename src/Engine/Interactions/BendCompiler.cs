@@ -7,7 +7,7 @@ namespace LatticeSweep.Engine.Interactions;
 
 /// <summary>
 /// Turns <see cref="BendSpring"/>s into linear-form terms (one per centre and pair of neighbours,
-/// two for a straight pair bent both ways) and those into pair blocks. The outer two atoms of a
+/// two for a straight or folded pair bent both ways) and those into pair blocks. The outer two atoms of a
 /// bend are coupled to each other as well as to the centre, though they need not be neighbours in
 /// any shell: the blocks go to whatever (site, cell) pairs the term touches.
 /// </summary>
@@ -15,6 +15,9 @@ internal static class BendCompiler
 {
     /// <summary>|cos theta| within this of 1 counts as a straight (or folded) pair.</summary>
     private const double StraightTolerance = 1e-9;
+
+    /// <summary>The normal of a 2D lattice's plane, along which the flexural form bends.</summary>
+    private static readonly Vec3 SheetNormal = new(0, 0, 1);
 
     public static void AddTo(CrystalModel model, Vec3[] positions, CouplingAccumulator blocks, List<ModelProblem> problems)
     {
@@ -42,7 +45,7 @@ internal static class BendCompiler
         var sites = model.Sites;
         var where = $"bends[{index}]";
         var tolM = model.ShellToleranceNm * 1e-9;
-        var straightFound = false;
+        var lineFound = false;
         var centres = 0;
         for (var i = 0; i < sites.Length; i++)
         {
@@ -69,7 +72,7 @@ internal static class BendCompiler
                     var (j, k) = (first[p], second[q]);
                     foreach (var (kappa, gj, gk) in Gradients(bend.Form, bend.ConstantNPerM, j.Separation, k.Separation, model.Lattice.Dimension))
                     {
-                        straightFound |= bend.Form == BendForm.Flexural;
+                        lineFound |= bend.Form == BendForm.Flexural;
                         terms.Add((index, new LinearFormTerm(kappa,
                             [(i, IntVec3.Zero, -(gj + gk)), (j.Site, j.Offset, gj), (k.Site, k.Offset, gk)])));
                     }
@@ -77,10 +80,10 @@ internal static class BendCompiler
             }
         }
 
-        if (centres > 0 && bend.Form == BendForm.Flexural && !straightFound)
+        if (centres > 0 && bend.Form == BendForm.Flexural && !lineFound)
         {
             problems.Add(new(ModelProblemKind.NoNeighbourShell, where + ".shell", string.Create(CultureInfo.InvariantCulture,
-                $"no two ends of this bend lie opposite each other across a '{bend.CentreKind}' site, and only a straight pair bends a sheet out of its plane at harmonic order. Pick ends with opposite neighbours (for a honeycomb: the other kind in shells [1, 2], the nearest neighbour and the one straight across the ring)")));
+                $"no two ends of this bend lie on one line through a '{bend.CentreKind}' site (opposite each other, or on one ray from it), and only such a pair bends a sheet out of its plane at harmonic order. Pick ends with opposite neighbours (for a honeycomb: the other kind in shells [1, 2], the nearest neighbour and the one straight across the ring)")));
         }
     }
 
@@ -140,8 +143,13 @@ internal static class BendCompiler
 
                 break;
             case BendForm.Flexural when straight:
-                var z = new Vec3(0, 0, 1);
-                yield return (constant, scale / dj * z, scale / dk * z);
+                yield return (constant, scale / dj * SheetNormal, scale / dk * SheetNormal);
+                break;
+            case BendForm.Flexural when folded:
+                // The out-of-plane part of the folded angle (the z row of the angle form's two): theta_z = z . (u_j'/dj - u_k'/dk).
+                // theta^2 is smooth at theta = 0 and a sheet's z motion decouples from its in-plane motion at harmonic
+                // order, so this is the z-z block of the angle energy's Hessian; a rigid tilt moves both ends alike.
+                yield return (constant, scale / dj * SheetNormal, -scale / dk * SheetNormal);
                 break;
         }
     }

@@ -17,7 +17,8 @@ public enum BendForm
 
     /// <summary>
     /// 2D lattices only: the part of <see cref="Angle"/> that moves atoms out of the sheet's plane, which at
-    /// harmonic order exists only for straight pairs (opposite neighbours). Gives a sheet its flexural stiffness.
+    /// harmonic order exists only for straight (opposite neighbours) and folded (both ends on one ray) pairs.
+    /// Gives a sheet its flexural stiffness.
     /// </summary>
     Flexural,
 }

@@ -36,6 +36,11 @@ internal static class KernelPolynomialDensity
     public static double[] WeightAbove(ReadOnlySpan<double> edgesX, ReadOnlySpan<double> moments, int sets, int m, ReadOnlySpan<double> kernel)
     {
         var edges = edgesX.Length;
+        if (sets == 0)
+        {
+            // No densities asked (a sample without layers): the blocks below would slice an empty coefficient array.
+            return [];
+        }
 
         // Coefficients c[n, s] = (1 or 2) g_n mu_n / pi, column-major m x sets.
         var coefficients = new double[m * sets];

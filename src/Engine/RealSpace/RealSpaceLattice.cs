@@ -107,6 +107,12 @@ internal sealed class RealSpaceLattice
     /// <summary>Block sites on the surface (layer 0).</summary>
     public int SurfaceSites => LayerCount > 0 ? LayerSites[0] : 0;
 
+    /// <summary>
+    /// The sample is cut somewhere (a free direction or a shape), so it has a surface/interior split even when
+    /// no atom lost a nearest neighbour (<see cref="LayerCount"/> 0: every atom interior). A periodic box has none.
+    /// </summary>
+    public bool IsCut { get; private set; }
+
     /// <summary>Periodic (Bloch or wrapped) directions of the lattice.</summary>
     public int PeriodicDirections => Enumerable.Range(0, Crystal.Lattice.Dimension).Count(i => Treatments[i] != DirectionTreatment.Free);
 
@@ -391,7 +397,8 @@ internal sealed class RealSpaceLattice
     private void FindLayers(RealSpaceSample sample)
     {
         Layer = new int[Sites];
-        if (!sample.HasFreeDirection(Crystal.Lattice.Dimension) && sample.Shape is BoxShape)
+        IsCut = sample.HasFreeDirection(Crystal.Lattice.Dimension) || sample.Shape is not BoxShape;
+        if (!IsCut)
         {
             LayerCount = 0;
             LayerSites = [];

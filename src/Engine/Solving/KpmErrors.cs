@@ -42,6 +42,9 @@ internal static class KpmErrors
             interiorSites += lattice.LayerSites[l];
         }
 
+        // A cut sample where no atom lost a nearest neighbour: every atom is interior, weighted as the basis sites' values are.
+        var allInterior = layers == 0 && lattice.IsCut;
+
         for (var v = 0; v < r; v++)
         {
             var vector = kpm.PerVector.AsSpan(v * kpm.Groups * m, kpm.Groups * m);
@@ -61,6 +64,19 @@ internal static class KpmErrors
                 {
                     var share = (double)lattice.LayerSites[l] / interiorSites / c;
                     var g = vector.Slice(kpm.DisplacementGroup(((lattice.Crystal.Sites + l) * c) + a) * m, m);
+                    for (var n = 0; n < m; n++)
+                    {
+                        interior[n] += share * g[n];
+                    }
+                }
+            }
+
+            for (var a = 0; a < c && allInterior; a++)
+            {
+                for (var b = 0; b < lattice.Crystal.Sites; b++)
+                {
+                    var share = (double)lattice.BasisSites[b] / lattice.Sites / c;
+                    var g = vector.Slice(kpm.DisplacementGroup((b * c) + a) * m, m);
                     for (var n = 0; n < m; n++)
                     {
                         interior[n] += share * g[n];
@@ -101,7 +117,7 @@ internal static class KpmErrors
                 }
             }
 
-            if (floorOmega is { } floor && layers > 0 && referenceIndex >= 0)
+            if (floorOmega is { } floor && (layers > 0 || allInterior) && referenceIndex >= 0)
             {
                 for (var b = 0; b < fine.Bins; b++)
                 {
@@ -144,7 +160,7 @@ internal static class KpmErrors
             InternalEnergyJPerMol = referenceIndex >= 0 ? Nullable(Error(u, referenceIndex, t, r)) : null,
             ZeroPointEnergyJPerMol = Nullable(StandardError(zpe)),
             MsdSurfaceNm2 = floorOmega is null || layers == 0 ? null : Nullable(StandardError(msdSurface)),
-            MsdInteriorNm2 = floorOmega is null || layers < 2 ? null : Nullable(StandardError(msdInterior)),
+            MsdInteriorNm2 = floorOmega is null || (layers < 2 && !allInterior) ? null : Nullable(StandardError(msdInterior)),
             DosTotal = dos.MoveToImmutable(),
         };
         return new Set(point, LayerMsd(kpm, fine, temperatures, reportedTemperatures, floorOmega), LayerDensities(kpm, output));

@@ -532,23 +532,27 @@ public static partial class PhononSolver
         return rows.ToImmutable();
     }
 
-    /// <summary>Mean over directions at the reference temperature: layer 0, and the site-weighted mean of the deeper layers.</summary>
+    /// <summary>
+    /// Mean over directions at the reference temperature: layer 0, and the site-weighted mean of the deeper layers.
+    /// A cut sample where no atom lost a nearest neighbour (no layers) has no surface and every atom interior: the
+    /// interior is then the mean of the basis sites' values weighted by their atoms, i.e. the mean over all atoms.
+    /// </summary>
     private static (double? Surface, double? Interior) SurfaceAndInteriorMsd(RealSpaceRun run, SolveOptions options, int reference, bool stable)
     {
         var lattice = run.Lattice;
-        if (!stable || lattice.LayerCount == 0 || reference < 0)
+        if (!stable || reference < 0 || (lattice.LayerCount == 0 && !lattice.IsCut))
         {
             return (null, null);
         }
 
         var r = lattice.Crystal.Sites;
         var c = lattice.Components;
-        double? Mean(int layer)
+        double? Mean(int group)
         {
             var sum = 0.0;
             for (var a = 0; a < c; a++)
             {
-                if (Msd(run, options, reference, ((r + layer) * c) + a) is not { } v)
+                if (Msd(run, options, reference, (group * c) + a) is not { } v)
                 {
                     return null;
                 }
@@ -559,12 +563,23 @@ public static partial class PhononSolver
             return sum / c * 1e18;
         }
 
-        var surface = Mean(0);
+        if (lattice.LayerCount == 0)
+        {
+            double? all = 0.0;
+            for (var b = 0; b < r; b++)
+            {
+                all += lattice.BasisSites[b] == 0 ? 0 : Mean(b) * lattice.BasisSites[b];
+            }
+
+            return (null, all / lattice.Sites);
+        }
+
+        var surface = Mean(r);
         double? weighted = 0.0;
         var sites = 0L;
         for (var l = 1; l < lattice.LayerCount; l++)
         {
-            weighted += Mean(l) * lattice.LayerSites[l];
+            weighted += Mean(r + l) * lattice.LayerSites[l];
             sites += lattice.LayerSites[l];
         }
 

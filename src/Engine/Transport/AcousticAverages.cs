@@ -82,6 +82,62 @@ internal sealed record AcousticAverages
         };
     }
 
+    /// <summary>
+    /// Directions <see cref="Measure"/> will solve (two eigenvalue solves each), for the run-time forecast: the first two
+    /// rules are swept as Measure sweeps them, so the count is exact where they settle; beyond, each doubling is taken to
+    /// shrink their disagreement fourfold (second order: the sorted branches' speeds have kinks where they cross), up to
+    /// the last doubling. Costs the first two rules' solves (640 directions in 3D).
+    /// </summary>
+    internal static int ForecastDirections(ModeSolver solver)
+    {
+        var d = solver.Matrix.Crystal.Lattice.Dimension;
+        var count = DirectionCount(d, 0);
+        var (sums, inverseSum, stable) = Sweep(solver, 0);
+        if (!stable || d == 1)
+        {
+            return count;
+        }
+
+        var finer = Sweep(solver, 1);
+        count += DirectionCount(d, 1);
+        if (!finer.Stable)
+        {
+            return count;
+        }
+
+        var disagreement = Disagreement(sums, inverseSum, finer.Sums, finer.InverseSum, solver.Matrix.Crystal.Components, d);
+        for (var level = 2; level <= MostDoublings && !(disagreement <= 1); level++)
+        {
+            count += DirectionCount(d, level);
+            disagreement /= 4;
+        }
+
+        return count;
+    }
+
+    /// <summary>Directions of the rule doubled <paramref name="level"/> times (<see cref="Directions"/>).</summary>
+    internal static int DirectionCount(int dimension, int level) => dimension switch
+    {
+        1 => 1,
+        2 => 16 << level,
+        _ => (8 << level) * (16 << level),
+    };
+
+    /// <summary>The largest change <see cref="Agrees"/> tests, in units of its tolerance (infinite where undefined).</summary>
+    private static double Disagreement(double[] sums, double inverseSum, double[] finerSums, double finerInverseSum, int branches, int d)
+    {
+        var debye = Math.Pow(inverseSum / branches, -1.0 / d);
+        var finerDebye = Math.Pow(finerInverseSum / branches, -1.0 / d);
+        var worst = Math.Abs(finerDebye - debye) / (Tolerance * finerDebye);
+        var fastest = finerSums.Max();
+        for (var k = 0; k < branches; k++)
+        {
+            worst = Math.Max(worst, Math.Abs(finerSums[k] - sums[k]) / (Tolerance * fastest));
+        }
+
+        return double.IsNaN(worst) ? double.PositiveInfinity : worst;
+    }
+
     /// <summary>Direction sums of each sorted branch's speed and of v^-d on the rule doubled <paramref name="level"/> times.</summary>
     private static (double[] Sums, double InverseSum, bool Stable) Sweep(ModeSolver solver, int level)
     {

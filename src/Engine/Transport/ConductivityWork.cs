@@ -99,6 +99,48 @@ public static class ConductivityWork
         return (rays, nodes);
     }
 
+    /// <summary>
+    /// Directions the conductivity's acoustic averages (sound speeds over every direction, for the Debye speed and the
+    /// scattering's inputs) solve, two eigenvalue solves each, as <see cref="AcousticAverages.ForecastDirections"/> foresees
+    /// them: every conductivity point, finite or bulk, makes this sweep once, and a model whose speeds settle slowly (a
+    /// layered stack) takes all three doublings, 10,880 directions in 3D, where a cubic cell settles at 640. Costs the
+    /// first two rules' solves; a model that does not build gets the two rules (its point fails anyway).
+    /// </summary>
+    public static int AcousticDirections(CrystalModel model)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        var d = model.Lattice.Dimension;
+        try
+        {
+            return AcousticAverages.ForecastDirections(new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(model))));
+        }
+        catch (ModelException)
+        {
+            return AcousticAverages.DirectionCount(d, 0) + (d > 1 ? AcousticAverages.DirectionCount(d, 1) : 0);
+        }
+    }
+
+    /// <summary>
+    /// Flop-equivalents of the acoustic averages' solves: two one-matrix eigenvalue solves per direction, each
+    /// <see cref="AcousticSolveFixed"/> + <see cref="AcousticSolvePerN2"/> n^2 + <see cref="AcousticSolvePerN3"/> n^3
+    /// (building D(q) from the couplings and the tridiagonal reduction; fitted to measured solves, bench/README.md,
+    /// Round 27 (finite-stack forecast)).
+    /// </summary>
+    public static double AcousticFlops(int branches, int directions)
+    {
+        double n = branches;
+        return 2.0 * directions * (AcousticSolveFixed + (AcousticSolvePerN2 * n * n) + (AcousticSolvePerN3 * n * n * n));
+    }
+
+    /// <summary>Per acoustic solve, flop-equivalents independent of its size.</summary>
+    internal const double AcousticSolveFixed = 2_000;
+
+    /// <summary>Per acoustic solve, flop-equivalents per n^2.</summary>
+    internal const double AcousticSolvePerN2 = 33;
+
+    /// <summary>Per acoustic solve, flop-equivalents per n^3.</summary>
+    internal const double AcousticSolvePerN3 = 3.0;
+
     /// <summary>A pass's hand-over node solves: per mesh cell in 1D and 2D, along <see cref="HandoverRays"/> in 3D.</summary>
     private static int NodeSolves(LongWaveHandover? handover, CompiledCrystal crystal, int[] mesh, double[] temperatures, bool lowFrequencyHeavy) =>
         handover is null ? 0

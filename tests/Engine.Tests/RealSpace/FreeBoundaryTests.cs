@@ -206,6 +206,56 @@ public sealed class FreeBoundaryTests
     }
 
     [Fact]
+    public void A_free_chain_that_lost_no_nearest_neighbour_has_every_atom_interior_and_their_mean_displacement()
+    {
+        // Two sites 0.211 a apart: each atom's only nearest neighbour is its partner in the same cell, so four free
+        // cells cut only second-shell (b-a across cells) and a-a springs; no atom lost a nearest neighbour (README,
+        // Surface and layers). Reference: the exact mode sum of the 8 x 8 scalar spring matrix, the translation left
+        // out, <u_i^2> = sum_k hbar / (2 omega_k) coth(hbar omega_k / 2 kT) e_ik^2 / m_i (common practice, no source;
+        // NumPy eigh, docs/free-sample-msd-check/reference.py): mean over the 8 atoms 4.616011265594499e-4 nm^2 at 300 K, site a
+        // 4.221538668652963e-4, site b 5.010483862536036e-4. Main left msd_interior_nm2 empty here.
+        var model = CrystalModel.Create(
+            Lattice.Chain(0.5),
+            [new Site("a", "a", Vec3.Zero, 20), new Site("b", "b", new Vec3(0.211, 0, 0), 30)],
+            [new ShellSpring("a", "b", 1, 10), new ShellSpring("a", "b", 2, 6), new ShellSpring("a", "a", 1, 3)],
+            degreesOfFreedom: DegreesOfFreedom.Scalar);
+        var result = PhononSolver.Solve(model, RealSpaceSample.Box(4, 1, 1, Boundary.Free), Options with { TemperaturesK = [300], ReferenceTemperatureK = 300 });
+        var s = result.Surface!;
+        Assert.Equal(0, s.SurfaceSites);
+        Assert.Equal(8, s.InteriorSites);
+        Assert.Equal(0, s.LayerCount);
+        Assert.Null(s.MsdSurfaceNm2);
+        Approx.Equal(4.221538668652963e-4, result.Displacements.Single(d => d.Site == 0).MsdXNm2, 1e-9, "site a");
+        Approx.Equal(5.010483862536036e-4, result.Displacements.Single(d => d.Site == 1).MsdXNm2, 1e-9, "site b");
+        Approx.Equal(4.616011265594499e-4, s.MsdInteriorNm2, 1e-9, "interior = every atom");
+    }
+
+    [Fact]
+    public void A_cut_with_fewer_atoms_of_one_site_weights_the_interior_mean_by_each_sites_atoms()
+    {
+        // Sites a, b, c at 0, 0.211 and 0.55 of a 0.5 nm chain cell; nearest neighbours a-b, b-a, c-b, all in one cell.
+        // A sphere of 0.56 nm about 0.1055 a keeps a b c of cell -1, a b c of cell 0 and a b of cell 1: nobody lost a
+        // nearest neighbour, and c has two atoms where a and b have three. Exact mode sum of the 8 x 8 scalar matrix
+        // (springs a-b 10, b-c 6, c-a of the next cell 8 N/m; as in the test above, common practice, no source;
+        // docs/free-sample-msd-check/reference.py): mean over the 8 atoms 7.106682440574467e-4 nm^2 at 300 K, site c
+        // 4.900803373844632e-4 (the unweighted mean of the three sites' values would be 6.86e-4).
+        var model = CrystalModel.Create(
+            Lattice.Chain(0.5),
+            [new Site("a", "a", Vec3.Zero, 20), new Site("b", "b", new Vec3(0.211, 0, 0), 30), new Site("c", "c", new Vec3(0.55, 0, 0), 40)],
+            [new ShellSpring("a", "b", 1, 10), new ShellSpring("b", "c", 1, 6), new ShellSpring("c", "a", 1, 8)],
+            degreesOfFreedom: DegreesOfFreedom.Scalar);
+        var sphere = RealSpaceSample.Sphere(0.56, dimension: 1) with { Shape = new SphereShape(0.56) { CentreFractional = new Vec3(0.1055, 0, 0) } };
+        var result = PhononSolver.Solve(model, sphere, Options with { TemperaturesK = [300], ReferenceTemperatureK = 300 });
+        var s = result.Surface!;
+        Assert.Equal(8, s.AtomCount);
+        Assert.Equal(0, s.SurfaceSites);
+        Assert.Equal(0, s.LayerCount);
+        Assert.Null(s.MsdSurfaceNm2);
+        Approx.Equal(4.900803373844632e-4, result.Displacements.Single(d => d.Site == 2).MsdXNm2, 1e-9, "site c");
+        Approx.Equal(7.106682440574467e-4, s.MsdInteriorNm2, 1e-9, "interior = every atom");
+    }
+
+    [Fact]
     public void A_wire_keeps_the_rotation_about_its_axis_as_a_fourth_zero_mode()
     {
         var result = PhononSolver.Solve(Crystals.FccCentral(), RealSpaceSample.Cylinder(0.45, axis: 2, cells: 6, Boundary.Periodic), Options);

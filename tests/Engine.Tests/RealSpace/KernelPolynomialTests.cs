@@ -59,6 +59,26 @@ public sealed class KernelPolynomialTests
     }
 
     [Fact]
+    public void A_free_sample_without_surface_atoms_has_the_interior_displacement_of_every_atom_and_its_error()
+    {
+        // A free 3D flake of two sites 0.211 a apart (each atom's nearest neighbour is its partner in its own cell, so
+        // no atom lost one): no surface, every atom interior; the kernel polynomial method's interior mean and its
+        // error come from the basis sites' displacement densities, weighted by their atoms, as the dense mean does.
+        var model = CrystalModel.Create(
+            Lattice.Square(0.5),
+            [new Site("a", "a", Vec3.Zero, 20), new Site("b", "b", new Vec3(0.211, 0, 0), 30)],
+            [new ShellSpring("a", "b", 1, 10, 2), new ShellSpring("a", "b", 2, 6, 1), new ShellSpring("a", "a", 1, 3, 1)]);
+        var flake = RealSpaceSample.Box(8, 8, 1, Boundary.Free, Boundary.Free);
+        var dense = PhononSolver.Solve(model, flake with { Method = RealSpaceMethod.Dense }, Options);
+        var kpm = PhononSolver.Solve(model, flake with { Method = RealSpaceMethod.KernelPolynomial, Kpm = new KpmSettings { Moments = 2048, RandomVectors = 16, Seed = 5 } }, Options);
+        Assert.Equal(0, kpm.Surface!.LayerCount);
+        Assert.Null(kpm.Surface.MsdSurfaceNm2);
+        Assert.Null(kpm.Errors!.MsdSurfaceNm2);
+        Assert.True(kpm.Errors.MsdInteriorNm2 > 0, $"error {kpm.Errors.MsdInteriorNm2}");
+        Within(dense.Surface!.MsdInteriorNm2!.Value, kpm.Surface.MsdInteriorNm2!.Value, kpm.Errors.MsdInteriorNm2!.Value, 0.02, "interior <u^2>");
+    }
+
+    [Fact]
     public void Auto_takes_the_kernel_polynomial_method_beyond_the_dense_limit()
     {
         var result = PhononSolver.Solve(Crystals.FccCentral(), RealSpaceSample.Sphere(1.0) with { DenseMaxAtoms = 100, Kpm = new KpmSettings { Moments = 256, RandomVectors = 4 } }, Options);

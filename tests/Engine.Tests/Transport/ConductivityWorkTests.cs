@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Builders;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
@@ -28,6 +29,26 @@ public class ConductivityWorkTests
         [new Site("A", "A", Vec3.Zero, 12), new Site("B", "B", new Vec3(0.5, 0, 0), 31)],
         [new ShellSpring("A", "B", 1, 22)],
         degreesOfFreedom: DegreesOfFreedom.Scalar);
+
+    [Fact]
+    public void The_acoustic_averages_are_counted_with_the_doublings_their_speeds_need()
+    {
+        // AcousticAverages sweeps the sound speeds over 8 x 16 directions in 3D, doubles both counts while two rules
+        // disagree beyond 5e-5, at most three times: 128 + 512 + 2,048 + 8,192 = 10,880. A chain has one direction; a
+        // layered stack's sorted speeds (kinks where its branches cross) take every doubling, which made a finite stack's
+        // conductivity cost ~1 s of CPU its forecast did not count (bench/README.md, Round 26 (forecast): 0.01).
+        Assert.Equal(1, ConductivityWork.AcousticDirections(DiatomicChain()));
+        var stack = LayeredModelBuilder.Build(new LayeredModelSpec(LayeredHost.CubicStack, 0.3, 8, MassPattern.TwoBlocks(4, 28, 72), 40, 10));
+        Assert.Equal(10_880, ConductivityWork.AcousticDirections(stack));
+        int[] possible = [640, 2_688, 10_880];
+        Assert.Contains(ConductivityWork.AcousticDirections(Cubic(20)), possible);
+
+        // In flop-equivalents: two solves a direction, whatever the sample, so a finite stack of 72 cells is dominated by them.
+        var options = Options(new ConductivityOptions { Constant = new ConstantScattering(1) }, 300);
+        var acoustic = ConductivityWork.AcousticFlops(stack.BranchCount, 10_880);
+        Assert.Equal(2.0 * 10_880 * (2_000 + (33 * 24.0 * 24) + (3.0 * 24 * 24 * 24)), acoustic);
+        Assert.True(acoustic > 50 * ConductivityWork.EstimateFlops(stack, FiniteSample.Create(6, 6, 2), options), "acoustic averages against the modes' pass");
+    }
 
     [Fact]
     public void Panelled_faces_are_counted_with_their_rays_in_both_passes()

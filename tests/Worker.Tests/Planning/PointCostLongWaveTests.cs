@@ -3,6 +3,7 @@ using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Solving;
 using LatticeSweep.Engine.Springs;
+using LatticeSweep.Engine.Transport;
 using LatticeSweep.Worker.Planning.Cost;
 
 namespace LatticeSweep.Worker.Tests.Planning;
@@ -37,6 +38,29 @@ public sealed class PointCostLongWaveTests
         Assert.Equal(0, work.FaceRuleRays);
         Assert.Equal(0, work.LongWaveSolvesN3);
         Assert.Equal(((mesh.PointCount + 1) / 2.0) + plan.LongWaveSolves, work.EigenSolves);
+    }
+
+    [Fact]
+    public void A_finite_stacks_conductivity_counts_its_acoustic_averages_and_a_point_without_conductivity_is_unchanged()
+    {
+        // bench/README.md, Round 26 (forecast): a finite 24-branch stack on 6 x 6 x 2 cells with conductivity ran 1.1 s of
+        // CPU against ~11 ms forecast; the acoustic averages' 10,880 directions (ConductivityWork.AcousticDirections) were
+        // not counted. Now they are, for finite and bulk samples alike; a point without conductivity counts none.
+        var stack = Stack(8);
+        var cells = FiniteSample.Create(6, 6, 2);
+        var kappa = Plain with { Conductivity = new ConductivityOptions { Constant = new ConstantScattering(1) } };
+        var with = PointCost.WorkOf(stack, cells, kappa);
+        var without = PointCost.WorkOf(stack, cells, Plain);
+        Assert.Equal(0, without.ConductivityFlops);
+        Assert.Equal(ConductivityWork.EstimateFlops(stack, cells, kappa) + ConductivityWork.AcousticFlops(stack.BranchCount, 10_880), with.ConductivityFlops);
+        Assert.Equal(without with { ConductivityFlops = with.ConductivityFlops }, with);
+        Assert.True(PointCost.Seconds(with) > 50 * PointCost.Seconds(without), $"{PointCost.Seconds(with)} s against {PointCost.Seconds(without)} s");
+
+        // A bulk point pays the same sweep once; its own mesh and long-wave terms are as before.
+        var mesh = BulkSample.Create(12, 12, 12);
+        var fcc = TwoSiteFcc();
+        var bulk = PointCost.WorkOf(fcc, mesh, kappa);
+        Assert.Equal(ConductivityWork.EstimateFlops(fcc, mesh, kappa) + ConductivityWork.AcousticFlops(fcc.BranchCount, ConductivityWork.AcousticDirections(fcc)), bulk.ConductivityFlops);
     }
 
     [Fact]
