@@ -70,7 +70,7 @@ public sealed class DeferredPlotsTests
 
         // Now kept: the page draws them itself, with the same facts and JSON the fragment gave.
         var second = await Html.GetAsync(http, $"/sweeps/{id}{view}");
-        Assert.Empty(second.QuerySelector("#plots")!.GetAttribute("data-plots-source") ?? "");
+        Assert.False(second.QuerySelector("#plots")!.HasAttribute("data-plots-source"));
         Assert.Equal(fetched, second.QuerySelector("script#sweep-plots")!.TextContent);
         Assert.Equal(facts.Select(Outer), second.QuerySelectorAll("#plots [data-plot-facts]").Select(Outer));
         Assert.NotNull(second.QuerySelector("#front-table"));
@@ -94,7 +94,7 @@ public sealed class DeferredPlotsTests
         await using var server = await DashboardServer.StartAsync(store);
         using var http = server.Client();
         var page = await Html.GetAsync(http, $"/sweeps/{id}");
-        Assert.Empty(page.QuerySelector("#plots")!.GetAttribute("data-plots-source") ?? "");
+        Assert.False(page.QuerySelector("#plots")!.HasAttribute("data-plots-source"));
         Assert.Empty(page.QuerySelectorAll(".plot-pending"));
         using var embedded = JsonDocument.Parse(page.QuerySelector("script#sweep-plots")!.TextContent);
         using var api = JsonDocument.Parse(await http.GetStringAsync($"/api/sweeps/{id}/plots"));
@@ -103,7 +103,7 @@ public sealed class DeferredPlotsTests
         // A filter of a merged table too.
         var filtered = await Html.GetAsync(http, $"/sweeps/{id}?stable=1&sx=max_freq_thz&sy=cv_j_per_mol_k");
         Assert.NotNull(filtered.QuerySelector("script#sweep-plots"));
-        Assert.Empty(filtered.QuerySelector("#plots")!.GetAttribute("data-plots-source") ?? "");
+        Assert.False(filtered.QuerySelector("#plots")!.HasAttribute("data-plots-source"));
     }
 
     [Fact]
