@@ -152,7 +152,7 @@ internal static class Bulk
             }
 
             // low temperature: the Debye T^d law of the model's own sound speeds
-            if (lowT.Valid(t) is { } debyeCv)
+            if (t > 0 && lowT.Valid(t) is { } debyeCv)
             {
                 x.Add("bulk.cv_debye_law", where, cv, debyeCv, 2e-3 * debyeCv,
                     "Cv = (2 pi^2/15) kB (kB T/hbar)^3 <sum 1/v^3> per volume (Ashcroft and Mermin eq. 23.30; 2D/1D analogues derived the same way)");
