@@ -62,6 +62,12 @@ internal static class Disorder
             x.Add("disorder.mode_count", $"modes/ configuration {k}", list.Count, comp * atoms, 0.5, "components x atoms of each configuration");
         }
 
+        if (perConfig.Count == dis.Configurations)
+        {
+            Histogram.Compare(x, id, "disorder", [.. perConfig.Values], (double)atoms / m.Sites.Length,
+                "mean of the histograms of the engine's own configurations (modes/) on its bins, and their spread over sqrt(configurations) (README disorder)");
+        }
+
         var engineConfigs = perConfig.Values.Select(list =>
         {
             var top = list.Max(Math.Abs);

@@ -286,14 +286,16 @@ internal static class Expansion
             double ScaleAt(double factor) => s * Math.Pow(factor, 1.0 / d);
             double FAtom(double factor) => F(ScaleAt(factor), t) / Units.Na;
             double SAtom(double factor) => Vib(ScaleAt(factor), t).S / Units.Na;
+            // central differences at dv and dv/2, Richardson-extrapolated (error O(dv^4)): far below a finite
+            // crystal's lowest mode S(V) varies as exp(-x gamma dV/V), and a plain difference would be off by (x gamma dv)^2
             var f0 = FAtom(1);
-            var fp = FAtom(1 + dv);
-            var fm = FAtom(1 - dv);
-            var d2 = (fp - 2 * f0 + fm) / Math.Pow(dv * vAtom, 2);
+            double Second(double h) => (FAtom(1 + h) - 2 * f0 + FAtom(1 - h)) / Math.Pow(h * vAtom, 2);
+            double First(double h) => (SAtom(1 + h) - SAtom(1 - h)) / (2 * h * vAtom);
+            var d2 = (4 * Second(dv / 2) - Second(dv)) / 3;
             var modulus = vAtom * d2;
             var vib = Vib(s, t);
             var cvAtom = vib.Cv / Units.Na;
-            var dsdv = t > 0 ? (SAtom(1 + dv) - SAtom(1 - dv)) / (2 * dv * vAtom) : 0;
+            var dsdv = t > 0 ? (4 * First(dv / 2) - First(dv)) / 3 : 0;
             var alpha = dsdv / modulus;
             var gamma = cvAtom > 0 ? vAtom * dsdv / cvAtom : 0;
             var cp = (cvAtom + alpha * alpha * modulus * vAtom * t) * Units.Na;

@@ -89,6 +89,8 @@ internal static class Surfaces
         x.Add("surface.debye_temperature_moment_2", "points/", x.Points.Number("debye_temperature_moment_2_k", row), theta2, Exact * theta2,
             "Debye <omega^2> = d/(d+2) omega_D^2 over the counted modes (Barron, Berg and Morrison 1957; from memory)");
 
+        Histogram.Compare(x, id, "surface", [[.. lambda.Select(l => Units.ThzFromOmega(Math.Sqrt(Math.Max(l, 0))))]], (double)atoms / m.Sites.Length,
+            "histogram of the kit's own modes on the engine's bins (README dos_bins; exact histogram for samples solved mode by mode)");
         Displacements(x, id, row, cluster, lambda, vectors, top);
     }
 
