@@ -276,28 +276,8 @@ internal static class Disorder
         {
             var c = cluster.Model.Components;
             var atoms = cluster.Atoms.Count;
-            var u = new double[atoms];
-            for (var k = 0; k < lambda.Length; k++)
-            {
-                if (lambda[k] < 1e-14 * top)
-                {
-                    continue;
-                }
-
-                var w = Math.Sqrt(lambda[k]);
-                var xx = t > 0 ? Units.Hbar * w / (2 * Units.Kb * t) : double.PositiveInfinity;
-                var coth = xx > 350 ? 1 : 1 / Math.Tanh(xx);
-                var scale = Units.Hbar / (2 * w) * coth;
-                for (var a = 0; a < atoms; a++)
-                {
-                    for (var e = 0; e < c; e++)
-                    {
-                        var v = vectors[a * c + e, k];
-                        u[a] += scale * v * v / (massAmu[a] * Units.Amu) / c;
-                    }
-                }
-            }
-
+            var channels = Surfaces.MsdPerChannel(c, [.. massAmu.Select(v => v * Units.Amu)], lambda, vectors, top, t);
+            var u = Enumerable.Range(0, atoms).Select(a => Enumerable.Range(0, c).Average(e => channels[a, e])).ToArray();
             var surf = Enumerable.Range(0, atoms).Where(a => depth[a] == 0).ToList();
             var inner = Enumerable.Range(0, atoms).Where(a => depth[a] != 0).ToList();
             return (surf.Count > 0 ? surf.Average(a => u[a]) * 1e18 : 0, inner.Count > 0 ? inner.Average(a => u[a]) * 1e18 : 0);
