@@ -320,7 +320,7 @@ internal static class Bulk
 
             var branch = (int)table.Number("branch", r)!.Value;
             var speeds = lw.Speeds(dir);
-            x.Add("bulk.sound_speed", $"{label} branch {branch}", table.Number("speed_m_per_s", r), speeds[branch], 1e-4 * speeds[branch],
+            x.Add("bulk.sound_speed", $"{label} branch {branch}", table.Number("speed_m_per_s", r), speeds[branch], 1e-4 * (speeds[branch] > 0 ? speeds[branch] : speeds.Max()),
                 "slope of the acoustic branches at q -> 0 from the audit's D(q), Richardson-extrapolated (Kittel ch. 4)");
         }
     }
