@@ -6,7 +6,8 @@ namespace LatticeSweep.Audit;
 /// <summary>One random case: a model, its finite crystal (cells) and its bulk mesh, the temperatures and a path.</summary>
 internal sealed record AuditCase(
     string Id, AuditModel Model, double[] TemperaturesK, double ReferenceK, int[] Cells, int[] Mesh,
-    double[][] PathCorners, int PointsPerSegment, int DosBins, string Kind = "pairs", AuditSurface? Surface = null)
+    double[][] PathCorners, int PointsPerSegment, int DosBins, string Kind = "pairs", AuditSurface? Surface = null,
+    AuditDisorder? Disorder = null, AuditExpansion? Expansion = null)
 {
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
@@ -36,6 +37,10 @@ internal sealed record AuditCase(
         }
 
         sb.AppendLine($"motion = \"{m.Motion}\"");
+        if (Expansion is { Relax: true })
+        {
+            sb.AppendLine("relax = true");
+        }
         foreach (var s in m.Sites)
         {
             sb.AppendLine();
@@ -135,11 +140,33 @@ internal sealed record AuditCase(
             }
 
             sb.AppendLine("method = \"dense\"");
+            if (Disorder is { } dis)
+            {
+                sb.AppendLine();
+                sb.AppendLine("[sample.disorder]");
+                sb.AppendLine($"configurations = {dis.Configurations}");
+                sb.AppendLine($"seed = {dis.Seed}");
+                foreach (var sub in dis.Substitutions)
+                {
+                    sb.AppendLine();
+                    sb.AppendLine("[[sample.disorder.substitutions]]");
+                    sb.AppendLine($"site = \"{sub.Label}\"");
+                    sb.AppendLine($"mass_amu = {F(sub.MassAmu)}");
+                    sb.AppendLine($"concentration = {F(sub.Concentration)}");
+                    sb.AppendLine($"spring_factor = {F(sub.SpringFactor)}");
+                }
+            }
+
             sb.AppendLine();
             sb.AppendLine("[output]");
             sb.AppendLine($"temperatures_k = [{string.Join(", ", TemperaturesK.Select(F))}]");
             sb.AppendLine($"reference_temperature_k = {F(ReferenceK)}");
             sb.AppendLine($"dos_bins = {DosBins}");
+            if (Disorder is not null)
+            {
+                sb.AppendLine("mode_list_max_modes = 100000");
+            }
+
             sb.AppendLine("tables = [\"dos\", \"thermal\", \"modes\", \"layers\"]");
             return sb.ToString();
         }
@@ -152,7 +179,17 @@ internal sealed record AuditCase(
         sb.AppendLine($"reference_temperature_k = {F(ReferenceK)}");
         sb.AppendLine($"dos_bins = {DosBins}");
         sb.AppendLine("thermal_mesh_check = true");
-        sb.AppendLine("tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\"]");
+        sb.AppendLine(Expansion is null
+            ? "tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\"]"
+            : "tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\", \"expansion\"]");
+        if (Expansion is { } ex)
+        {
+            sb.AppendLine();
+            sb.AppendLine("[output.expansion]");
+            sb.AppendLine($"volumes = {ex.Volumes}");
+            sb.AppendLine($"largest_strain = {F(ex.LargestStrain)}");
+        }
+
         sb.AppendLine();
         sb.AppendLine("[output.dispersion]");
         sb.AppendLine($"points_per_segment = {PointsPerSegment}");

@@ -16,6 +16,13 @@ internal static class Checks
     public static void All(AuditCase c, string job, string results, Ledger ledger)
     {
         var points = ResultTable.Read(Path.Combine(results, "points"));
+        var original = c;
+        var sMin = c.Expansion is not null ? Expansion.StaticMinimum(c.Model) : 1.0;
+        if (c.Expansion is { Relax: true })
+        {
+            c = c with { Model = c.Model with { ConstantNm = c.Model.ConstantNm * sMin } }; // the engine solves the static minimum
+        }
+
         var model = c.Model;
         var dm = new DynamicalMatrix(model);
         string? finiteId = null, bulkId = null;
@@ -46,7 +53,11 @@ internal static class Checks
         var ctx = new Context(c, job, results, points, dm, ledger);
         if (c.Surface is not null)
         {
-            if (finiteId is not null)
+            if (finiteId is not null && c.Disorder is not null)
+            {
+                Disorder.Check(ctx, finiteId);
+            }
+            else if (finiteId is not null)
             {
                 Surfaces.Check(ctx, finiteId);
             }
@@ -63,6 +74,19 @@ internal static class Checks
         if (bulkId is not null)
         {
             Bulk.Check(ctx, bulkId);
+            if (c.Kind == "flexural")
+            {
+                Flexural.Check(ctx, bulkId);
+            }
+        }
+
+        if (original.Expansion is not null)
+        {
+            var own = new Context(original, job, results, points, new DynamicalMatrix(original.Model), ledger);
+            foreach (var id in new[] { finiteId, bulkId }.OfType<string>())
+            {
+                Expansion.Check(own, id, sMin);
+            }
         }
     }
 }

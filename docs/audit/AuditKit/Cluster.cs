@@ -13,10 +13,12 @@ namespace LatticeSweep.Audit;
 /// </summary>
 internal sealed class Cluster
 {
-    public Cluster(AuditModel model, AuditSurface surface)
+    public Cluster(AuditModel model, AuditSurface surface, double[]? massAmu = null, double[]? springScale = null)
     {
         Model = model;
         Surface = surface;
+        MassAmu = massAmu;
+        SpringScale = springScale;
         Atoms = Keep(model, surface);
         for (var a = 0; a < Atoms.Count; a++)
         {
@@ -26,6 +28,12 @@ internal sealed class Cluster
 
     public AuditModel Model { get; }
 
+    /// <summary>Per-atom masses (amu) of a disordered configuration, or null for the sites' own.</summary>
+    public double[]? MassAmu { get; init; }
+
+    /// <summary>Per-atom spring scales of a disordered configuration: a spring between atoms a and b is multiplied by s_a s_b (README: sqrt(f_a f_b)); null for none.</summary>
+    public double[]? SpringScale { get; init; }
+
     public AuditSurface Surface { get; }
 
     public List<(int Site, int[] Cell)> Atoms { get; }
@@ -34,8 +42,8 @@ internal sealed class Cluster
 
     public int Rotations { get; private set; }
 
-    /// <summary>omega^2 (1/s^2) ascending, with eigenvectors as columns (mass-weighted, unit length).</summary>
-    public (double[] Lambda, Matrix<double> Vectors) Solve()
+    /// <summary>The real-space force constants of the whole sample (N/m), springs scaled per atom where given.</summary>
+    private double[,] ForceConstants()
     {
         var m = Model;
         var c = m.Components;
@@ -60,14 +68,15 @@ internal sealed class Cluster
                     continue; // the spring leaves the sample: cut, with its self-terms
                 }
 
+                var scale = SpringScale is null ? 1.0 : SpringScale[a] * SpringScale[b];
                 for (var x = 0; x < c; x++)
                 {
                     for (var y = 0; y < c; y++)
                     {
-                        h[a * c + x, a * c + y] += phi[x, y];
-                        h[b * c + x, b * c + y] += phi[x, y];
-                        h[a * c + x, b * c + y] -= phi[x, y];
-                        h[b * c + x, a * c + y] -= phi[x, y];
+                        h[a * c + x, a * c + y] += scale * phi[x, y];
+                        h[b * c + x, b * c + y] += scale * phi[x, y];
+                        h[a * c + x, b * c + y] -= scale * phi[x, y];
+                        h[b * c + x, a * c + y] -= scale * phi[x, y];
                     }
                 }
             }
@@ -101,8 +110,36 @@ internal sealed class Cluster
                 }
             }
         }
+        if (SpringScale is not null && terms.Count > 0)
+        {
+            throw new InvalidOperationException("the kit scales pair springs only; disorder cases carry no bends");
+        }
 
-        var mass = Atoms.Select(x => m.Sites[x.Site].MassAmu * Units.Amu).ToArray();
+        return h;
+    }
+
+    /// <summary>Trace of the mass-weighted matrix (1/s^2) with the given per-atom masses (amu), before any projection.</summary>
+    public double Trace(double[] massAmu)
+    {
+        var h = ForceConstants();
+        var c = Model.Components;
+        var sum = 0.0;
+        for (var i = 0; i < Atoms.Count * c; i++)
+        {
+            sum += h[i, i] / (massAmu[i / c] * Units.Amu);
+        }
+
+        return sum;
+    }
+
+    /// <summary>omega^2 (1/s^2) ascending, with eigenvectors as columns (mass-weighted, unit length).</summary>
+    public (double[] Lambda, Matrix<double> Vectors) Solve()
+    {
+        var m = Model;
+        var c = m.Components;
+        var n = Atoms.Count * c;
+        var h = ForceConstants();
+        var mass = Atoms.Select((x, a) => (MassAmu?[a] ?? m.Sites[x.Site].MassAmu) * Units.Amu).ToArray();
         var d = Matrix<double>.Build.Dense(n, n, (i, j) => h[i, j] / Math.Sqrt(mass[i / c] * mass[j / c]));
         var rigid = RigidBasis(mass);
         if (rigid.ColumnCount > 0)

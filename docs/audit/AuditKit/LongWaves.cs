@@ -39,7 +39,10 @@ internal sealed class LongWaves(Context x)
         var speeds = new double[c];
         for (var s = 0; s < c; s++)
         {
-            speeds[s] = Math.Sqrt(Math.Max((16 * l1[s] - l2[s]) / (12 * eps * eps), 0)) * Units.Nm;
+            // a branch that grows 16-fold, not 4-fold, from e to 2e is omega ~ q^2 (a sheet's flexural branch): no
+            // slope, speed 0 (README); its own dispersion would otherwise leave a residue of either sign here
+            var quadratic = l1[s] > 0 && l2[s] > 10 * l1[s];
+            speeds[s] = quadratic ? 0 : Math.Sqrt(Math.Max((16 * l1[s] - l2[s]) / (12 * eps * eps), 0)) * Units.Nm;
         }
 
         return speeds;

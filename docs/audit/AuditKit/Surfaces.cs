@@ -89,6 +89,8 @@ internal static class Surfaces
         x.Add("surface.debye_temperature_moment_2", "points/", x.Points.Number("debye_temperature_moment_2_k", row), theta2, Exact * theta2,
             "Debye <omega^2> = d/(d+2) omega_D^2 over the counted modes (Barron, Berg and Morrison 1957; from memory)");
 
+        Histogram.Compare(x, id, "surface", [[.. lambda.Select(l => Units.ThzFromOmega(Math.Sqrt(Math.Max(l, 0))))]], (double)atoms / m.Sites.Length,
+            "histogram of the kit's own modes on the engine's bins (README dos_bins; exact histogram for samples solved mode by mode)");
         Displacements(x, id, row, cluster, lambda, vectors, top);
     }
 
@@ -109,28 +111,7 @@ internal static class Surfaces
             "layers by nearest-neighbour hops from the surface, counted by the kit");
 
         var mass = cluster.Atoms.Select(a => m.Sites[a.Site].MassAmu * Units.Amu).ToArray();
-        var modes = Enumerable.Range(0, lambda.Length).Where(k => lambda[k] >= 1e-14 * top).ToArray();
-        double[,] Msd(double t)
-        {
-            var u = new double[atoms, c];
-            foreach (var k in modes)
-            {
-                var w = Math.Sqrt(lambda[k]);
-                var xx = t > 0 ? Units.Hbar * w / (2 * Units.Kb * t) : double.PositiveInfinity;
-                var coth = xx > 350 ? 1 : 1 / Math.Tanh(xx);
-                var scale = Units.Hbar / (2 * w) * coth;
-                for (var a = 0; a < atoms; a++)
-                {
-                    for (var e = 0; e < c; e++)
-                    {
-                        var v = vectors[a * c + e, k];
-                        u[a, e] += scale * v * v / mass[a];
-                    }
-                }
-            }
-
-            return u;
-        }
+        double[,] Msd(double t) => MsdPerChannel(c, mass, lambda, vectors, top, t);
 
         const double nm2 = 1e18;
         const string src = "sum over the kit's modes of hbar/(2 m omega) coth(hbar omega/2kT) e^2 (harmonic oscillator; A&M ch. 23 and app. N; common practice)";
@@ -194,6 +175,39 @@ internal static class Surfaces
                 x.Add("surface.layer_msd", $"layer {layer} T = {t} K {"xyz"[e]}", layers.Number(names[e], r), mean, 1e-7 * mean + Floor(u), src);
             }
         }
+    }
+
+    /// <summary>
+    /// Mean-square displacement (m^2) of every atom along each direction of motion at T: the sum over the non-zero modes
+    /// of hbar / (2 m omega) coth(hbar omega / 2 kT) e^2 (A&M ch. 23 and app. N; common practice), e the unit
+    /// mass-weighted eigenvector (columns of <paramref name="vectors"/>), masses in kg per atom.
+    /// </summary>
+    public static double[,] MsdPerChannel(int c, double[] massKg, double[] lambda, MathNet.Numerics.LinearAlgebra.Matrix<double> vectors, double top, double t)
+    {
+        var atoms = massKg.Length;
+        var u = new double[atoms, c];
+        for (var k = 0; k < lambda.Length; k++)
+        {
+            if (lambda[k] < 1e-14 * top)
+            {
+                continue;
+            }
+
+            var w = Math.Sqrt(lambda[k]);
+            var xx = t > 0 ? Units.Hbar * w / (2 * Units.Kb * t) : double.PositiveInfinity;
+            var coth = xx > 350 ? 1 : 1 / Math.Tanh(xx);
+            var scale = Units.Hbar / (2 * w) * coth;
+            for (var a = 0; a < atoms; a++)
+            {
+                for (var e = 0; e < c; e++)
+                {
+                    var v = vectors[a * c + e, k];
+                    u[a, e] += scale * v * v / massKg[a];
+                }
+            }
+        }
+
+        return u;
     }
 
     private static double F2(double lambda) => Math.Pow(Units.ThzFromOmega(Math.Sqrt(Math.Max(lambda, 0))), 2);

@@ -142,7 +142,9 @@ internal static class RealSpaceDenseSolver
             ObserveRange(values, point, stats, modes.ZeroTolerance);
         }
 
-        if (record)
+        // A forced recording (a disordered sample's configuration) stays unbinned: the caller bins every
+        // configuration into one grid covering them all, so their densities average bin by bin.
+        if (record && !forceRecording)
         {
             modes.BinInto(GridFor(bottom, top, options));
         }

@@ -46,8 +46,11 @@ internal static class SoundSpeedFinder
             for (var k = 0; k < acoustic; k++)
             {
                 // A slope below round-off is 0: a q^2 branch (a sheet's flexural branch) cancels exactly and left
-                // noise of either sign (-0.02 m/s beside 10^4 m/s), read as an unstable slope.
-                var v2 = LongWaveSlope.IsRoundOff(small[k], twice[k], largest) ? 0 : LongWaveSlope.SpeedSquared(small[k], twice[k], delta);
+                // noise of either sign (-0.02 m/s beside 10^4 m/s), read as an unstable slope. A q^2 branch bent by
+                // its own dispersion leaves more than round-off (-12 kappa^2 eps e^6: 0.07-3 m/s in the audit's
+                // sheets) and is told apart by its growth, as the acoustic averages and long-wave rays do.
+                var flat = LongWaveSlope.IsRoundOff(small[k], twice[k], largest) || LongWaveSlope.IsQuadratic(small[k], twice[k]);
+                var v2 = flat ? 0 : LongWaveSlope.SpeedSquared(small[k], twice[k], delta);
                 speeds[k] = v2 > 0 ? Math.Sqrt(v2) : (v2 < 0 ? -Math.Sqrt(-v2) : 0);
             }
 

@@ -391,6 +391,31 @@ public class BondBendingTests
     }
 
     [Fact]
+    public void A_flexural_branch_bent_by_its_own_dispersion_still_has_speed_zero_and_a_divergent_zero_point_displacement()
+    {
+        // Found by the random-case audit (docs/outside-checks.md, Round 27, seed 2701 flexural case 0; invented
+        // numbers): a soft flexural bend beside stiff springs. Its branch is m w_z^2 = 16 k [sin^4(qx a/2) + sin^4(qy a/2)]
+        // (closed form above), so l(2e) / l(e) = 16 (1 + O(e^2)) and the two-point slope 4 l(e) - l(2e)/4 is
+        // -12 kappa^2 eps e^6, no slope at all but above the round-off floor: the sound speeds read 0.15 and
+        // 0.07 m/s. README: a branch with omega ~ q^2 has speed 0; and the 0 K displacement out of the plane,
+        // whose channels are found from those zero speeds, diverges (integral of q dq / q^2; own derivation).
+        var sheet = CrystalModel.Create(Lattice.Square(0.3874), [new Site("A", "A", Vec3.Zero, 4.2453)],
+            shellSprings: [new ShellSpring("A", "A", 1, 60.4481), new ShellSpring("A", "A", 2, 35.7351)],
+            bends: [new BendSpring("A", "A", 1, BendForm.Flexural, 1.0427)]);
+        var result = PhononSolver.Solve(sheet, BulkSample.Uniform(2, 21), new SolveOptions { TemperaturesK = [0], PartialDos = false });
+        Assert.Equal(["[10]", "[11]"], result.Summary.SoundSpeeds.Select(s => s.Direction));
+        foreach (var s in result.Summary.SoundSpeeds)
+        {
+            Assert.Equal(0.0, s.SpeedsMPerS[0]);
+            Assert.True(s.SpeedsMPerS[1] > 1e4, $"{s.Direction}: in-plane {s.SpeedsMPerS[1]} m/s");
+        }
+
+        var row = Assert.Single(result.Displacements);
+        Assert.Equal(double.PositiveInfinity, row.MsdZNm2);
+        Assert.True(double.IsFinite(row.MsdXNm2!.Value), $"in-plane {row.MsdXNm2}");
+    }
+
+    [Fact]
     public void A_square_sheet_with_flexural_bends_has_the_closed_form_plate_branch_everywhere()
     {
         // Each straight pair j-i-k of the nearest shell costs (1/2) k (u_j + u_k - 2 u_i)^2 out of the plane

@@ -174,6 +174,48 @@ public sealed class DisorderTests
     }
 
     [Fact]
+    public void The_averaged_density_of_states_is_the_mean_of_the_configurations_histograms_on_one_grid()
+    {
+        // Found by the random-case audit (docs/outside-checks.md, Round 27, seed 2701 disorder cases): each
+        // configuration was binned on a grid of its own (0 to just above its own top) and the curves were then
+        // averaged bin by bin as if on one grid, so a light substitute whose local mode moves the top from one
+        // configuration to the next smeared the average, and it no longer integrated to the branch count.
+        // README: all configurations on one frequency grid; dos_method exact: a histogram of the modes.
+        const int atoms = 30;
+        var sample = RealSpaceSample.Box(atoms, 1, 1) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", 3.0, 0.1, 1.7)], 6, Seed: 11),
+        };
+        var result = PhononSolver.Solve(Crystals.ScalarChain(), sample, new SolveOptions { TemperaturesK = [50], DosBins = 40 });
+        var dos = result.Dos;
+        var centres = dos.FrequencyThz;
+        var width = centres[1] - centres[0];
+        var bottom = centres[0] - (width / 2);
+        var configurations = result.Modes.GroupBy(m => m.Configuration!.Value).OrderBy(g => g.Key).ToArray();
+        Assert.Equal(6, configurations.Length);
+        var tops = configurations.Select(g => g.Max(m => m.FrequencyThz)).ToArray();
+        Assert.True(tops.Max() - tops.Min() > 2 * width, $"the configurations' tops differ by more than two bins: {string.Join(", ", tops)}");
+
+        // Histogram of each configuration's listed modes on the reported bins, per cell (one atom per cell here).
+        var expected = new double[centres.Length];
+        foreach (var g in configurations)
+        {
+            foreach (var m in g)
+            {
+                var bin = Math.Clamp((int)Math.Floor((Math.Max(m.FrequencyThz, 0) - bottom) / width), 0, centres.Length - 1);
+                expected[bin] += m.Multiplicity / (double)atoms / width / configurations.Length;
+            }
+        }
+
+        Assert.True(tops.Max() < centres[^1] + (width / 2), $"the grid reaches past every configuration's top ({tops.Max()} THz)");
+        Approx.Equal(1.0, dos.Total.Sum() * width, 1e-12, "integral of the averaged DOS (one branch)");
+        for (var b = 0; b < centres.Length; b++)
+        {
+            Assert.True(Math.Abs(expected[b] - dos.Total[b]) <= 1e-9 / width, $"bin {b} at {centres[b]:G6} THz: {dos.Total[b]:G10} against {expected[b]:G10}");
+        }
+    }
+
+    [Fact]
     public void Every_configuration_keeps_the_trace_sum_rule_and_the_averages_are_those_of_the_listed_modes()
     {
         // Sum of omega^2 over a configuration's modes = Tr(M^-1 Phi) = 2K sum_i 1/m_i for a scalar ring with
