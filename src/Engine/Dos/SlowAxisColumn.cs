@@ -81,7 +81,10 @@ internal sealed class SlowAxisColumn
     public int Axis => _slow;
 
     /// <summary>Eigen-solves <see cref="Deposit"/> makes: per cell along the axis two quadrants (inversion gives the other two).</summary>
-    public long SolveCount => 2L * AxisLayers(_mesh[_slow]) * NodesPerQuadrantLayer(HalfWidth);
+    public long SolveCount => SolveCountFor(_mesh, _slow);
+
+    /// <summary>Eigen-solves of the column of a mesh with slow axis <paramref name="slow"/> (the forecast's count, <see cref="LongWavePlan"/>).</summary>
+    public static long SolveCountFor(BulkSample mesh, int slow) => 2L * AxisLayers(mesh[slow]) * NodesPerQuadrantLayer(HalfWidthFor(mesh, slow));
 
     // Gauss layers along the whole axis: NearAxisNodes in the cells next to q = 0, AxisNodes in the rest.
     private static int AxisLayers(int cells)
