@@ -47,8 +47,9 @@ internal sealed class SlowAxisColumn
     internal const int NearCells = 2;
 
     /// <summary>
-    /// States below this many fine bins go to the thermal sums at their own frequencies, not by bins: a bin of the
-    /// fine grid is 0.6 K wide for the crystals this is for, as wide as kT at 0.5 K.
+    /// States below this many fine bins go to the thermal sums at their own frequencies, not by bins: near the shear valleys'
+    /// floor a bin is wide next to kT at the lowest temperatures (0.6 K for the crystals this is for, 0.08 K with
+    /// <see cref="FinerBins"/>, so the split lies near 5 K).
     /// </summary>
     internal const int ExactBins = 64;
 
