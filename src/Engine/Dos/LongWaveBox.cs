@@ -21,6 +21,19 @@ internal readonly record struct LongWaveBox(int K1, int K2, int K3, int Branches
     /// <summary>Per acoustic branch its half-widths [K1, K2, K3] when they differ between branches; null when all share (K1, K2, K3).</summary>
     public IReadOnlyList<int[]>? BranchHalfWidths { get; init; }
 
+    /// <summary>
+    /// The slow axis of a layered crystal whose column of cells (<see cref="SlowAxisColumn"/>) the simplices leave
+    /// whole to a direct quadrature, or -1 (every ordinary crystal).
+    /// </summary>
+    public int ColumnAxis { get; init; } = -1;
+
+    /// <summary>The column's half-width across the slow axis, in cells (<see cref="SlowAxisColumn.HalfWidth"/>).</summary>
+    public int ColumnHalfWidth { get; init; }
+
+    /// <summary>True when the simplices skip cell (i1, i2, i3) for every branch (<see cref="ColumnAxis"/>).</summary>
+    public bool SkipsCell(int i1, int i2, int i3, int m1, int m2, int m3) =>
+        ColumnAxis >= 0 && SlowAxisColumn.Holds(ColumnAxis, ColumnHalfWidth, i1, i2, i3, m1, m2, m3);
+
     /// <summary>The first branch the simplices integrate in cell (i1, i2, i3): past the acoustic ones whose box holds it.</summary>
     public int FirstSimplexBranch(int i1, int i2, int i3, int m1, int m2, int m3)
     {

@@ -90,6 +90,9 @@ internal static class LongWavePlan
             Trials(solver, mesh, half, narrowings, ref plan);
         }
 
+        // A layered crystal's column along its slow axis (SlowAxisColumn), where the mesh takes one.
+        plan.RegionSolves += ColumnSolves(mesh, d, half);
+
         return new(plan.RegionSolves, plan.TrialSolves, plan.ChosenRays, plan.PanelledRules);
     }
 
@@ -125,6 +128,12 @@ internal static class LongWavePlan
             }
         }
     }
+
+    /// <summary>Solves of the quadrature along a layered crystal's slow axis (<see cref="SlowAxisColumn.SolveCountFor"/>); 0 for ordinary crystals.</summary>
+    internal static int ColumnSolves(BulkSample mesh, int d, int[] half) =>
+        d == 3 && LongWaveRegion.SlowAxis(mesh, d, half) is var slow and >= 0 && SlowAxisColumn.Fits(mesh)
+            ? (int)SlowAxisColumn.SolveCountFor(mesh, slow)
+            : 0;
 
     private struct Tally
     {

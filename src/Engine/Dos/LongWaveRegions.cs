@@ -20,14 +20,18 @@ internal sealed partial class LongWaveRegions
 {
     private readonly LongWaveRegion[] _parts;
 
-    private LongWaveRegions(LongWaveBox box, LongWaveRegion[] parts)
+    private LongWaveRegions(LongWaveBox box, LongWaveRegion[] parts, SlowAxisColumn? column)
     {
         Box = box;
         _parts = parts;
+        Column = column;
     }
 
     /// <summary>The cells and branches the simplices leave to the rays.</summary>
     public LongWaveBox Box { get; }
+
+    /// <summary>A layered crystal's column of cells along its slow axis, integrated by its own quadrature (<see cref="SlowAxisColumn"/>); null for ordinary crystals.</summary>
+    public SlowAxisColumn? Column { get; }
 
     /// <summary>Number of regions (box widths) built; each costs <see cref="LongWaveRegion.SolveCount"/> eigen-solves.</summary>
     public int Count => _parts.Length;
@@ -81,14 +85,24 @@ internal sealed partial class LongWaveRegions
             WidenSlowerCones(solver, mesh, half, narrowings, fractions, parts, widths);
         }
 
-        if (d == 3 && LongWaveRegion.SlowAxis(mesh, d, half) is var slow and >= 0)
+        // A layered crystal: the column along its slow axis takes every branch the tetrahedra would take there
+        // (SlowAxisColumn); where the mesh is too small for one, the higher shear valleys follow the axis by rays.
+        var slow = d == 3 ? LongWaveRegion.SlowAxis(mesh, d, half) : -1;
+        var columnFits = slow >= 0 && SlowAxisColumn.Fits(mesh);
+        if (slow >= 0 && !columnFits)
         {
             FollowSlowValleys(solver, mesh, frequencyThz, half, slow, fractions, parts, widths);
         }
 
         var outer = parts[0].Box;
         var combined = parts.Count == 1 ? outer : outer with { BranchHalfWidths = widths };
-        return new LongWaveRegions(combined, [.. parts]);
+        if (!columnFits)
+        {
+            return new LongWaveRegions(combined, [.. parts], null);
+        }
+
+        var column = new SlowAxisColumn(solver, mesh, combined, slow, fractions);
+        return new LongWaveRegions(combined with { ColumnAxis = slow, ColumnHalfWidth = column.HalfWidth }, [.. parts], column);
     }
 
     /// <summary>Largest error of the rays against direct solves (<see cref="LongWaveRegion.FitError"/>) for which slower cones keep a wider box (<see cref="WidenSlowerCones"/>).</summary>
@@ -236,6 +250,9 @@ internal sealed partial class LongWaveRegions
         return quadratic;
     }
 
+    /// <summary>The column's states above its split (<see cref="SlowAxisColumn.Deposit"/>) into the simplices' bins, when there is a column.</summary>
+    public void DepositColumn(FrequencyGrid grid, double[] total, double[] partial) => Column?.Deposit(grid, total, partial);
+
     /// <inheritdoc cref="LongWaveRegion.DepositAboveSplit"/>
     public void DepositAboveSplit(FrequencyGrid grid, double[] total, double[] partial, bool spreadEnds, BinMoments? moments = null)
     {
@@ -248,6 +265,7 @@ internal sealed partial class LongWaveRegions
     /// <inheritdoc cref="LongWaveRegion.DepositBelowSplit"/>
     public void DepositBelowSplit(FrequencyGrid grid, double[] total, double[] partial)
     {
+        Column?.DepositBelowSplit(grid, total, partial);
         foreach (var part in _parts)
         {
             part.DepositBelowSplit(grid, total, partial);
@@ -257,6 +275,7 @@ internal sealed partial class LongWaveRegions
     /// <inheritdoc cref="LongWaveRegion.AddBelowSplit"/>
     public void AddBelowSplit(ModeSink sink, ReadOnlySpan<double> temperaturesK)
     {
+        Column?.AddBelowSplit(sink);
         foreach (var part in _parts)
         {
             part.AddBelowSplit(sink, temperaturesK);

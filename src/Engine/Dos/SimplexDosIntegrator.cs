@@ -232,7 +232,9 @@ internal static class SimplexDosIntegrator
                         lower = orbit[2 * g] < self || orbit[(2 * g) + 1] < self;
                     }
 
-                    if (lower)
+                    // A layered crystal's column along its slow axis goes to SlowAxisColumn's quadrature, whole; its cells'
+                    // images under inversion and the axis permutations (which keep the box) are column cells too.
+                    if (lower || (longWaves is { } column && column.SkipsCell(i1, i2, i3, m1, m2, m3)))
                     {
                         continue;
                     }

@@ -181,6 +181,9 @@ internal static class BulkSolver
 
         // Gaussian tails reach 6 sigma past the spectrum; the grid takes them in so no state is lost.
         var tail = gaussian ? 6 * options.GaussianSigmaThz : 0;
+        // A layered crystal's slow valleys put states of a few kelvin into the rays' bins above their split (a box one
+        // cell long along the slow axis ends there at 1-2 K): finer bins (SlowAxisColumn.FinerBins) keep the sums right at 0.5 K.
+        perOutput *= longWaves?.Column is not null ? SlowAxisColumn.FinerBins : 1;
         var fine = FrequencyGrid.Covering(lowest - tail, highest + tail, options.DosBins * perOutput);
         var total = new double[fine.Bins];
         var partial = weights is null ? [] : new double[n * fine.Bins];
@@ -207,6 +210,7 @@ internal static class BulkSolver
             var axisPermutations = dimension == 3 && !FullTetrahedronSumOnThisThread ? MeshAxisPermutations.Find(mesh, n, frequencies, longWaves?.Box, Math.Max(-lowest, highest)) : null;
             LastAxisPermutationOrderOnThisThread = axisPermutations?.Order ?? 1;
             SimplexDosIntegrator.Accumulate(dimension, mesh, n, frequencies, weights, weights is null ? 0 : n, fine, total, partial, longWaves?.Box, moments, axisPermutations: axisPermutations);
+            longWaves?.DepositColumn(fine, total, partial);
         }
 
         // The DOS table and the thermal sums take the long waves above omega_c differently (see

@@ -23,6 +23,7 @@ public sealed class LongWavePlanTests
         { "stack 8", 12, 12, 3 },
         { "stack 4", 16, 16, 4 },
         { "honeycomb sheet", 16, 16, 1 },
+        { "two-layer cell with weak shear", 8, 8, 8 },
     };
 
     private static CrystalModel Model(string name) => name switch
@@ -34,8 +35,23 @@ public sealed class LongWavePlanTests
         "bcc two-site" => SlowerConeRaysTests.TwoSiteBcc(),
         "stack 8" => LayeredModelBuilder.Build(new LayeredModelSpec(LayeredHost.CubicStack, 0.3, 8, MassPattern.TwoBlocks(4, 28, 72), 40, 10)),
         "stack 4" => LayeredModelBuilder.Build(new LayeredModelSpec(LayeredHost.CubicStack, 0.3, 4, MassPattern.TwoBlocks(2, 28, 72), 40, 10)),
-        _ => BondedCrystals.Honeycomb(flexural: 2),
+        "honeycomb sheet" => BondedCrystals.Honeycomb(flexural: 2),
+        _ => TwoLayerCellWithWeakShear(),
     };
+
+    /// <summary>A layered crystal in a cell of two layers (0.01 N/m of shear across them; invented): its slow axis takes a column.</summary>
+    private static CrystalModel TwoLayerCellWithWeakShear() => CrystalModel.Create(
+        Lattice.Explicit([new Vec3(0.4596, 0, 0), new Vec3(0, 0.4596, 0), new Vec3(0, 0, 0.9192)]),
+        [new Site("S0", "S0", Vec3.Zero, 3.8724), new Site("S1", "S1", new Vec3(0, 0, 0.5), 3.8724)],
+        bondSprings:
+        [
+            new BondSpring("S0", "S0", new IntVec3(1, 0, 0), 18.5731, 4.3483),
+            new BondSpring("S0", "S0", new IntVec3(0, 1, 0), 34.8232, 9.3274),
+            new BondSpring("S1", "S1", new IntVec3(1, 0, 0), 18.5731, 4.3483),
+            new BondSpring("S1", "S1", new IntVec3(0, 1, 0), 34.8232, 9.3274),
+            new BondSpring("S0", "S1", new IntVec3(0, 0, 0), 2.2579, 0.01),
+            new BondSpring("S1", "S0", new IntVec3(0, 0, 1), 2.2579, 0.01),
+        ]);
 
     [Theory]
     [MemberData(nameof(Cases))]
@@ -63,6 +79,11 @@ public sealed class LongWavePlanTests
         {
             expected += LongWaveRegion.Geometry(solver, mesh, LongWaveRegion.Narrowed(half, d, narrowings[to - 1])).Rays.Rays.Count * LongWavePlan.SolvesPerRay;
         }
+
+        // A layered crystal's column: the solver's own count (SlowAxisColumn.SolveCount) of the column it builds.
+        var column = LongWaveRegions.TryBuild(solver, mesh, frequencies, fractions: false)?.Column;
+        expected += (int)(column?.SolveCount ?? 0);
+        Assert.Equal(name == "two-layer cell with weak shear", column is not null);
 
         var plan = LongWavePlan.Count(solver, mesh);
         Assert.Equal(expected, plan.RegionSolves);
