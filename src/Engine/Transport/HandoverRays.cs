@@ -50,6 +50,13 @@ internal sealed class HandoverRays
     /// </summary>
     private const int SheetZoneNodesFactor = 4;
 
+    /// <summary>
+    /// 3D whole-zone rays: the same, per face direction. The layered simple cubic crystal of Round 26 (shear 0.01 N/m across z)
+    /// with boundary scattering on meshes 8 and 16: kappa_zz +9.7e-3 at 100 K and +2.4e-2 at 300 K with the rule as chosen
+    /// (1408 rays), +2.8e-4 / +8.4e-4 with twice its nodes per direction (four times the rays; docs/outside-checks.md, Round 27).
+    /// </summary>
+    private const int CrystalZoneNodesFactor = 2;
+
     private readonly LongWaveHandover _handover;
     private readonly IReadOnlyList<CellRay> _rays;
     private readonly IReadOnlyList<CellRay> _zoneRays;
@@ -93,12 +100,10 @@ internal sealed class HandoverRays
             Vec3[] zoneEdges = [.. Enumerable.Range(0, d).Select(lattice.ReciprocalVector)];
             var zoneTemperatures = temperaturesK.Where((_, t) => handover.WholeZone[t]).ToArray();
             var zoneRule = LongWaveFaceRule.ChooseForConductivity(crystal, zoneEdges, zoneTemperatures, lowFrequencyHeavy);
-            if (d == 2)
-            {
-                // The rule follows the long waves' directions, but across the zone a soft shear's carriers and velocities
-                // turn within a narrower angle (2D rays are cheap: a few hundred more solves per ray set).
-                zoneRule = zoneRule.IsPanelled ? CellFaceRule.Panelled(SheetZoneNodesFactor * zoneRule.Nodes, zoneRule.Panels) : CellFaceRule.Uniform(SheetZoneNodesFactor * zoneRule.Nodes);
-            }
+            // The rule follows the long waves' directions, but across the zone a soft shear's carriers and velocities
+            // turn within a narrower angle.
+            var factor = d == 2 ? SheetZoneNodesFactor : CrystalZoneNodesFactor;
+            zoneRule = zoneRule.IsPanelled ? CellFaceRule.Panelled(factor * zoneRule.Nodes, zoneRule.Panels) : CellFaceRule.Uniform(factor * zoneRule.Nodes);
 
             if (handover.ForCheckMesh)
             {
