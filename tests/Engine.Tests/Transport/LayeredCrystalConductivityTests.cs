@@ -198,7 +198,7 @@ public class LayeredCrystalConductivityTests
         var m = MassAmu * PhysicalConstants.AtomicMassKg;
         var umklappScale = PhysicalConstants.HbarJS * UmklappGrueneisen * UmklappGrueneisen / (m * UmklappSpeedMPerS * UmklappSpeedMPerS * UmklappThetaK)
             * temperatureK * Math.Exp(-UmklappThetaK / (3 * temperatureK));
-        var (nodes, weights) = GradedAxis(16, 8);
+        var (nodes, weights) = ClosedFormZone.GradedAxis(16, 8);
         var result = new double[3];
         foreach (var springs in Springs)
         {
@@ -219,7 +219,7 @@ public class LayeredCrystalConductivityTests
                         var omega = Math.Sqrt(omegaSq);
                         double[] v = [.. Enumerable.Range(0, 3).Select(d => springs[d] * a * Math.Sin(q[d]) / (m * omega))];
                         var speed = Math.Sqrt((v[0] * v[0]) + (v[1] * v[1]) + (v[2] * v[2]));
-                        var heat = ModeHeatCapacity(omega, temperatureK);
+                        var heat = ClosedFormZone.ModeHeatCapacity(omega, temperatureK);
                         var tau = 1 / ((speed / (LengthNm * 1e-9)) + (umklapp ? umklappScale * omega * omega : 0));
 
                         // One octant of the zone in q a, times 8, over (2 pi)^3, per volume a^3.
@@ -234,36 +234,5 @@ public class LayeredCrystalConductivityTests
         }
 
         return result;
-    }
-
-    /// <summary>kB x^2 e^-x / (1 - e^-x)^2 (Ashcroft and Mermin ch. 23), 0 far above the thermal range.</summary>
-    private static double ModeHeatCapacity(double omega, double temperatureK)
-    {
-        var x = PhysicalConstants.HbarJS * omega / (PhysicalConstants.BoltzmannJPerK * temperatureK);
-        if (x > 700)
-        {
-            return 0;
-        }
-
-        var e = Math.Exp(-x);
-        return PhysicalConstants.BoltzmannJPerK * x * x * e / ((1 - e) * (1 - e));
-    }
-
-    /// <summary>Gauss-Legendre nodes on [0, pi] (units of 1 / a): panels halving towards 0.</summary>
-    private static (double[] Nodes, double[] Weights) GradedAxis(int panels, int order)
-    {
-        var nodes = new List<double>();
-        var weights = new List<double>();
-        var lower = 0.0;
-        for (var p = panels - 1; p >= 0; p--)
-        {
-            var upper = Math.PI * Math.Pow(0.5, p);
-            var rule = new GaussLegendreRule(lower, upper, order);
-            nodes.AddRange(rule.Abscissas);
-            weights.AddRange(rule.Weights);
-            lower = upper;
-        }
-
-        return ([.. nodes], [.. weights]);
     }
 }

@@ -6,7 +6,6 @@ using LatticeSweep.Engine.Springs;
 using LatticeSweep.Engine.Tests.Support;
 using LatticeSweep.Engine.Transport;
 using LatticeSweep.Engine.Units;
-using MathNet.Numerics.Integration;
 
 namespace LatticeSweep.Engine.Tests.Transport;
 
@@ -124,7 +123,7 @@ public class WeakShearSheetConductivityTests
     {
         var a = ConstantNm * 1e-9;
         var m = MassAmu * PhysicalConstants.AtomicMassKg;
-        var (nodes, weights) = GradedAxis(24, 10);
+        var (nodes, weights) = ClosedFormZone.GradedAxis(24, 10);
         var umklappScale = PhysicalConstants.HbarJS * Grueneisen * Grueneisen / (m * UmklappSpeedMPerS * UmklappSpeedMPerS * UmklappThetaK)
             * temperatureK * Math.Exp(-UmklappThetaK / (3 * temperatureK));
         var result = new double[2];
@@ -146,7 +145,7 @@ public class WeakShearSheetConductivityTests
                     double[] v = [.. Enumerable.Range(0, 2).Select(d => springs[d] * a * Math.Sin(q[d]) / (m * omega))];
                     var speed = Math.Sqrt((v[0] * v[0]) + (v[1] * v[1]));
                     var rate = (speed / (LengthNm * 1e-9)) + (umklapp ? umklappScale * omega * omega : 0);
-                    var heat = ModeHeatCapacity(omega, temperatureK);
+                    var heat = ClosedFormZone.ModeHeatCapacity(omega, temperatureK);
 
                     // One quadrant of the zone in q a, times 4, over (2 pi)^2, per area a^2 and thickness t.
                     var w = weights[i] * weights[j] * 4 / Math.Pow(2 * Math.PI, 2) / (a * a * ThicknessNm * 1e-9);
@@ -159,36 +158,5 @@ public class WeakShearSheetConductivityTests
         }
 
         return result;
-    }
-
-    /// <summary>kB x^2 e^-x / (1 - e^-x)^2 (Ashcroft and Mermin ch. 23), 0 far above the thermal range.</summary>
-    private static double ModeHeatCapacity(double omega, double temperatureK)
-    {
-        var x = PhysicalConstants.HbarJS * omega / (PhysicalConstants.BoltzmannJPerK * temperatureK);
-        if (x > 700)
-        {
-            return 0;
-        }
-
-        var e = Math.Exp(-x);
-        return PhysicalConstants.BoltzmannJPerK * x * x * e / ((1 - e) * (1 - e));
-    }
-
-    /// <summary>Gauss-Legendre nodes on [0, pi] (units of 1 / a): panels halving towards 0.</summary>
-    private static (double[] Nodes, double[] Weights) GradedAxis(int panels, int order)
-    {
-        var nodes = new List<double>();
-        var weights = new List<double>();
-        var lower = 0.0;
-        for (var p = panels - 1; p >= 0; p--)
-        {
-            var upper = Math.PI * Math.Pow(0.5, p);
-            var rule = new GaussLegendreRule(lower, upper, order);
-            nodes.AddRange(rule.Abscissas);
-            weights.AddRange(rule.Weights);
-            lower = upper;
-        }
-
-        return ([.. nodes], [.. weights]);
     }
 }
