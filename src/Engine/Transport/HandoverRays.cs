@@ -30,10 +30,11 @@ namespace LatticeSweep.Engine.Transport;
 /// <para>
 /// At the temperatures <see cref="LongWaveHandover.WholeZone"/> marks (heat carriers thinner than a mesh spacing
 /// across, reaching past the window: a layered crystal's soft shear) a second set of rays covers the whole zone
-/// outside the q = 0 cell instead, with w = 1: rays to the faces of the zone's centred cell {sum t_i b_i, |t_i| &lt;= 1/2}
-/// (the q = 0 cell scaled by the mesh), each from where it leaves the q = 0 cell, on the face rule
-/// <see cref="LongWaveFaceRule.ChooseForConductivity"/> asks for a cell of the zone's size at those temperatures.
-/// The mesh points then count nothing there (ConductivityCalculator).
+/// outside the q = 0 cell instead, with w = 1: rays to the faces (2D: edges) of the zone's centred cell
+/// {sum t_i b_i, |t_i| &lt;= 1/2} (the q = 0 cell scaled by the mesh), each from where it leaves the q = 0 cell, on the face
+/// rule <see cref="LongWaveFaceRule.ChooseForConductivity"/> asks for a cell of the zone's size at those temperatures with
+/// more nodes (<see cref="SheetZoneNodesFactor"/>, <see cref="CrystalZoneNodesFactor"/>). The mesh points (and 2D nodes)
+/// then count nothing there (ConductivityCalculator). 2D uses only these rays (its window is on nodes per cell).
 /// </para>
 /// </summary>
 internal sealed class HandoverRays

@@ -118,12 +118,13 @@ internal sealed class LongWaveHandover
     /// How much a branch's frequency must grow one mesh spacing across for its velocities to count as thinner than a
     /// spacing whatever the temperature: where the heat capacity is classical (x rises by less than <see cref="ThinStepX"/>)
     /// the integrand still turns with the velocity, which a soft shear's branch turns from along the line to across it
-    /// within a fraction of a spacing (the layered sheet's on-axis cells at 100 K: kappa_xx 4 % low, kappa_yy 0.7 % high on
-    /// 32 x 32). A cone grows by more than 3 one spacing across only within 0.35 spacings of q = 0, a flexural branch within 0.71.
+    /// within a fraction of a spacing (a square sheet with a weak shear, 0.01 N/m against 18.6 N/m, at 100 K on 32 x 32: kappa_xx
+    /// 4 % low, kappa_yy 0.7 % high; a layered crystal with Umklapp scattering at 300 K on meshes 8-12: the mean 27-53 % low;
+    /// docs/outside-checks.md, Round 27). A cone grows by more than 3 one spacing across only within 0.35 spacings of q = 0, a flexural branch within 0.71.
     /// </summary>
     public const double ThinVelocityFactor = 3;
 
-    /// <summary>3D: the step in x across one spacing that marks thin carriers (with <see cref="ThinStepFactor"/>).</summary>
+    /// <summary>2D and 3D: the step in x across one spacing that marks thin carriers (with <see cref="ThinStepFactor"/>).</summary>
     public const double ThinStepX = 1;
 
     /// <summary>Cells whose centres lie within this many spacings of q = 0 get 3 x 3 pieces of nodes.</summary>
@@ -164,10 +165,10 @@ internal sealed class LongWaveHandover
     public IReadOnlyList<bool> On => _on;
 
     /// <summary>
-    /// 3D, per temperature (a subset of <see cref="On"/>): the heat carriers outside the window are thinner than a
-    /// mesh spacing across while they reach past the window along some direction (a layered crystal's soft shear),
-    /// so one point per cell cannot sum f (1 - w): the rays then integrate f over the whole zone
-    /// (<see cref="HandoverRays"/>) and the mesh points count nothing at that temperature.
+    /// 2D and 3D, per temperature (a subset of <see cref="On"/>): the heat carriers or their velocities are thinner than a
+    /// mesh spacing across (a layered crystal's or a sheet's soft shear), so one point per cell cannot sum f (1 - w) nor
+    /// 2D nodes per cell f w: the rays then integrate f over the whole zone (<see cref="HandoverRays"/>) and the mesh
+    /// points and nodes count nothing at that temperature. On a mesh without a window these are the only temperatures on.
     /// </summary>
     public IReadOnlyList<bool> WholeZone => _wholeZone;
 
@@ -262,12 +263,14 @@ internal sealed class LongWaveHandover
     }
 
     /// <summary>
-    /// 3D, per temperature where <paramref name="on"/>: whether some branch's heat carriers reach the window's
+    /// 2D and 3D, per temperature where <paramref name="on"/>: whether some branch's heat carriers reach the window's
     /// edge (x of the lowest moving frequency at the middle of the edge or at its end, along a mesh axis or
-    /// diagonal, below <see cref="ThinCarriersX"/>) while one mesh spacing across that point the lowest frequency
-    /// is at least <paramref name="stepFactor"/> times higher and x at least <see cref="ThinStepX"/> higher. Steps
-    /// go along each mesh edge's part across the direction (edges nearly along it are skipped), both ways.
-    /// Directions off the axes and diagonals are not tried: a crystal layered along another axis is not seen.
+    /// diagonal, below <see cref="ThinCarriersX"/>) while one mesh spacing across that point the same branch (in order of
+    /// frequency) is at least <paramref name="stepFactor"/> times higher and x at least <see cref="ThinStepX"/> higher, or
+    /// <see cref="ThinVelocityFactor"/> times higher at any x. Steps go along each mesh edge's part across the direction
+    /// (edges nearly along it are skipped), both ways. 2D also probes two spacings out (its window's nodes per cell miss a
+    /// line as one point per cell does). Directions off the axes and diagonals are not tried: a crystal layered along
+    /// another axis is not seen. 1D: never (a chain has no direction across).
     /// </summary>
     private static bool[] ThinCarriers(ModeSolver solver, Lattice lattice, int[] mesh, double insideM, double outsideM, double[] temperaturesK, bool[] on, double stepFactor)
     {
