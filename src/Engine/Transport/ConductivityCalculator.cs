@@ -123,7 +123,8 @@ internal static class ConductivityCalculator
         var gammaCell = faceRule is not null ? new GammaCellIntegrator(lattice, mesh, faceRule) : null;
         var weights = new double[sum.TemperaturesK.Length];
         var inPlane = handover is not null && gammaCell!.SymmetrisesInPlane(group, solver);
-        var handoverRays = handover is not null && lattice.Dimension == 3 ? HandoverRays.For(handover, solver.Matrix.Crystal, mesh, sum.TemperaturesK, sum.Scattering) : null;
+        var handoverRays = handover is not null && (lattice.Dimension == 3 || handover.AnyWholeZone) ? HandoverRays.For(handover, solver.Matrix.Crystal, mesh, sum.TemperaturesK, sum.Scattering) : null;
+        var nodesUsed = handover?.UsesWindow ?? false;
         var rotations = DegenerateRotations.For(lattice);
         var stable = true;
         double lowest = 0, highest = 0;
@@ -203,9 +204,9 @@ internal static class ConductivityCalculator
                 continue;
             }
 
-            if (handoverRays is not null)
+            if (lattice.Dimension == 3 || !nodesUsed)
             {
-                continue; // 3D: the rays hold f w
+                continue; // 3D: the rays hold f w; 1D and 2D where every window temperature takes the whole zone's rays
             }
 
             foreach (var (node, nodeWeight) in handover.Nodes(point.Reduced))
@@ -213,7 +214,7 @@ internal static class ConductivityCalculator
                 var window = handover.Window(handover.Distance(node));
                 if (window > 0)
                 {
-                    AddPoint(node, 0, point.Weight * nodeWeight, t => handover.On[t] ? window : 0, node: true);
+                    AddPoint(node, 0, point.Weight * nodeWeight, t => handover.On[t] && !handover.WholeZone[t] ? window : 0, node: true);
                 }
             }
         }

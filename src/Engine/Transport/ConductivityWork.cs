@@ -141,9 +141,19 @@ public static class ConductivityWork
     /// <summary>Per acoustic solve, flop-equivalents per n^3.</summary>
     internal const double AcousticSolvePerN3 = 3.0;
 
-    /// <summary>A pass's hand-over node solves: per mesh cell in 1D and 2D, along <see cref="HandoverRays"/> in 3D.</summary>
-    private static int NodeSolves(LongWaveHandover? handover, CompiledCrystal crystal, int[] mesh, double[] temperatures, bool lowFrequencyHeavy) =>
-        handover is null ? 0
-        : crystal.Lattice.Dimension == 3 ? HandoverRays.For(handover, crystal, mesh, temperatures, lowFrequencyHeavy).NodeSolveCount()
-        : handover.NodeSolveCount();
+    /// <summary>
+    /// A pass's hand-over node solves: per mesh cell in 1D and 2D where some temperature uses the window, along
+    /// <see cref="HandoverRays"/> in 3D and wherever the whole zone is integrated along rays.
+    /// </summary>
+    private static int NodeSolves(LongWaveHandover? handover, CompiledCrystal crystal, int[] mesh, double[] temperatures, bool lowFrequencyHeavy)
+    {
+        if (handover is null)
+        {
+            return 0;
+        }
+
+        var threeD = crystal.Lattice.Dimension == 3;
+        var rays = threeD || handover.AnyWholeZone ? HandoverRays.For(handover, crystal, mesh, temperatures, lowFrequencyHeavy).NodeSolveCount() : 0;
+        return rays + (!threeD && handover.UsesWindow ? handover.NodeSolveCount() : 0);
+    }
 }

@@ -30,10 +30,11 @@ namespace LatticeSweep.Engine.Transport;
 /// <para>
 /// At the temperatures <see cref="LongWaveHandover.WholeZone"/> marks (heat carriers thinner than a mesh spacing
 /// across, reaching past the window: a layered crystal's soft shear) a second set of rays covers the whole zone
-/// outside the q = 0 cell instead, with w = 1: rays to the faces of the zone's centred cell {sum t_i b_i, |t_i| &lt;= 1/2}
-/// (the q = 0 cell scaled by the mesh), each from where it leaves the q = 0 cell, on the face rule
-/// <see cref="LongWaveFaceRule.ChooseForConductivity"/> asks for a cell of the zone's size at those temperatures.
-/// The mesh points then count nothing there (ConductivityCalculator).
+/// outside the q = 0 cell instead, with w = 1: rays to the faces (2D: edges) of the zone's centred cell
+/// {sum t_i b_i, |t_i| &lt;= 1/2} (the q = 0 cell scaled by the mesh), each from where it leaves the q = 0 cell, on the face
+/// rule <see cref="LongWaveFaceRule.ChooseForConductivity"/> asks for a cell of the zone's size at those temperatures with
+/// more nodes (<see cref="SheetZoneNodesFactor"/>, <see cref="CrystalZoneNodesFactor"/>). The mesh points (and 2D nodes)
+/// then count nothing there (ConductivityCalculator). 2D uses only these rays (its window is on nodes per cell).
 /// </para>
 /// </summary>
 internal sealed class HandoverRays
@@ -41,6 +42,21 @@ internal sealed class HandoverRays
     private static readonly GaussLegendreRule Panel = new(0, 1, 6);
     private static readonly double[] GradedEdgesSpacings = [0, 1.0 / 32, 1.0 / 16, 1.0 / 8, 1.0 / 4, 1.0 / 2, 1];
     private const double OuterPanelSpacings = 1.25;
+
+    /// <summary>
+    /// 2D whole-zone rays: face nodes per panel, as a multiple of the rule <see cref="LongWaveFaceRule.ChooseForConductivity"/>
+    /// chooses for the zone. A square sheet with a weak shear (0.01 N/m against 18.6 N/m) on 32 x 32 with boundary scattering
+    /// (docs/outside-checks.md, Round 27): kappa_yy +1.3e-3 at 50 K and +8e-3 at 300 K with the rule as chosen (90 rays),
+    /// +1.2e-4 / +1.0e-3 with twice its nodes, +1e-5 / +1.3e-4 with four times.
+    /// </summary>
+    private const int SheetZoneNodesFactor = 4;
+
+    /// <summary>
+    /// 3D whole-zone rays: the same, per face direction. The layered simple cubic crystal of Round 26 (shear 0.01 N/m across z)
+    /// with boundary scattering on meshes 8 and 16: kappa_zz +9.7e-3 at 100 K and +2.4e-2 at 300 K with the rule as chosen
+    /// (1408 rays), +2.8e-4 / +8.4e-4 with twice its nodes per direction (four times the rays; docs/outside-checks.md, Round 27).
+    /// </summary>
+    private const int CrystalZoneNodesFactor = 2;
 
     private readonly LongWaveHandover _handover;
     private readonly IReadOnlyList<CellRay> _rays;
@@ -61,7 +77,7 @@ internal sealed class HandoverRays
     public int RayCount => _rays.Count + _zoneRays.Count;
 
     /// <summary>Whether some temperature uses the window (not the whole zone), so the window's rays are solved.</summary>
-    private bool WindowRaysUsed => _handover.On.Where((on, t) => on && !_handover.WholeZone[t]).Any();
+    private bool WindowRaysUsed => _handover.UsesWindow;
 
     /// <summary>
     /// Rays from the faces of the q = 0 cell of this 3D mesh, on a face rule of their own: the cell's rule
@@ -78,17 +94,18 @@ internal sealed class HandoverRays
     public static HandoverRays For(LongWaveHandover handover, CompiledCrystal crystal, IReadOnlyList<int> mesh, double[] temperaturesK, bool lowFrequencyHeavy)
     {
         var lattice = crystal.Lattice;
-        var edges = GammaCellIntegrator.Edges(lattice, mesh);
-        var volume = Math.Abs(edges[0].Dot(edges[1].Cross(edges[2])));
-        var scale = handover.OutsideM / Math.Cbrt(3 * volume / (4 * Math.PI));
-        var on = temperaturesK.Where((_, t) => handover.On[t]).ToArray();
-        var rule = LongWaveFaceRule.ChooseForConductivity(crystal, [.. edges.Select(e => scale * e)], on, lowFrequencyHeavy);
+        var d = lattice.Dimension;
         IReadOnlyList<CellRay> zoneRays = [];
         if (handover.AnyWholeZone)
         {
-            Vec3[] zoneEdges = [.. Enumerable.Range(0, 3).Select(lattice.ReciprocalVector)];
+            Vec3[] zoneEdges = [.. Enumerable.Range(0, d).Select(lattice.ReciprocalVector)];
             var zoneTemperatures = temperaturesK.Where((_, t) => handover.WholeZone[t]).ToArray();
             var zoneRule = LongWaveFaceRule.ChooseForConductivity(crystal, zoneEdges, zoneTemperatures, lowFrequencyHeavy);
+            // The rule follows the long waves' directions, but across the zone a soft shear's carriers and velocities
+            // turn within a narrower angle.
+            var factor = d == 2 ? SheetZoneNodesFactor : CrystalZoneNodesFactor;
+            zoneRule = zoneRule.IsPanelled ? CellFaceRule.Panelled(factor * zoneRule.Nodes, zoneRule.Panels) : CellFaceRule.Uniform(factor * zoneRule.Nodes);
+
             if (handover.ForCheckMesh)
             {
                 // The mesh plays no part at these temperatures: the check halves the rule's nodes instead, so the
@@ -97,9 +114,19 @@ internal sealed class HandoverRays
                 zoneRule = zoneRule.IsPanelled ? CellFaceRule.Panelled(nodes, zoneRule.Panels) : CellFaceRule.Uniform(nodes);
             }
 
-            zoneRays = CentredCellRays.Build(3, zoneEdges, zoneRule).Rays;
+            zoneRays = CentredCellRays.Build(d, zoneEdges, zoneRule).Rays;
         }
 
+        if (d != 3)
+        {
+            return new HandoverRays(handover, [], zoneRays, lattice, mesh); // 1D and 2D: the window's f w is on nodes per cell
+        }
+
+        var edges = GammaCellIntegrator.Edges(lattice, mesh);
+        var volume = Math.Abs(edges[0].Dot(edges[1].Cross(edges[2])));
+        var scale = handover.OutsideM / Math.Cbrt(3 * volume / (4 * Math.PI));
+        var on = temperaturesK.Where((_, t) => handover.On[t]).ToArray();
+        var rule = LongWaveFaceRule.ChooseForConductivity(crystal, [.. edges.Select(e => scale * e)], on, lowFrequencyHeavy);
         return new HandoverRays(handover, CentredCellRays.Build(3, edges, rule).Rays, zoneRays, lattice, mesh);
     }
 
@@ -194,13 +221,14 @@ internal sealed class HandoverRays
         var velocities = new double[n * 3];
         var weights = new double[sum.TemperaturesK.Length];
         var zone = _handover.WholeZone;
+        var d = _lattice.Dimension;
         var points = (double)_mesh[0] * _mesh[1] * _mesh[2];
         foreach (var ray in _zoneRays)
         {
             ct.ThrowIfCancellationRequested();
             var u = ray.Direction;
             var end = ray.LengthPerM;
-            var solidAngleInPoints = points * 3 * ray.Weight / (end * end * end);
+            var solidAngleInPoints = points * d * ray.Weight / Power(end, d);
             var edges = Edges(CellExit(u), end, _handover.SpacingM);
             for (var p = 0; p + 1 < edges.Count; p++)
             {
@@ -208,7 +236,7 @@ internal sealed class HandoverRays
                 for (var i = 0; i < Panel.Abscissas.Length; i++)
                 {
                     var rho = edges[p] + (width * Panel.Abscissas[i]);
-                    var weight = solidAngleInPoints * width * Panel.Weights[i] * rho * rho;
+                    var weight = solidAngleInPoints * width * Panel.Weights[i] * Power(rho, d - 1);
                     for (var t = 0; t < weights.Length; t++)
                     {
                         weights[t] = zone[t] ? weight : 0;
@@ -230,13 +258,22 @@ internal sealed class HandoverRays
     private double CellExit(Vec3 u)
     {
         var largest = 0.0;
-        for (var i = 0; i < 3; i++)
+        for (var i = 0; i < _lattice.Dimension; i++)
         {
             largest = Math.Max(largest, Math.Abs(u.Dot(_lattice.Vector(i))) * _mesh[i] / (2 * Math.PI));
         }
 
         return 0.5 / largest;
     }
+
+    /// <summary>x^n for n = 0-3 by products (3D's sums stay as they were written, rho * rho and end^3).</summary>
+    private static double Power(double x, int n) => n switch
+    {
+        0 => 1,
+        1 => x,
+        2 => x * x,
+        _ => x * x * x,
+    };
 
     /// <summary>Panel edges from the face point to where w ends (1/m).</summary>
     private static List<double> Edges(double startM, double outsideM, double spacingM)

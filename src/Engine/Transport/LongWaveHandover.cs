@@ -114,7 +114,17 @@ internal sealed class LongWaveHandover
     /// </summary>
     public const double NarrowThinStepFactor = 2;
 
-    /// <summary>3D: the step in x across one spacing that marks thin carriers (with <see cref="ThinStepFactor"/>).</summary>
+    /// <summary>
+    /// How much a branch's frequency must grow one mesh spacing across for its velocities to count as thinner than a
+    /// spacing whatever the temperature: where the heat capacity is classical (x rises by less than <see cref="ThinStepX"/>)
+    /// the integrand still turns with the velocity, which a soft shear's branch turns from along the line to across it
+    /// within a fraction of a spacing (a square sheet with a weak shear, 0.01 N/m against 18.6 N/m, at 100 K on 32 x 32: kappa_xx
+    /// 4 % low, kappa_yy 0.7 % high; a layered crystal with Umklapp scattering at 300 K on meshes 8-12: the mean 27-53 % low;
+    /// docs/outside-checks.md, Round 27). A cone grows by more than 3 one spacing across only within 0.35 spacings of q = 0, a flexural branch within 0.71.
+    /// </summary>
+    public const double ThinVelocityFactor = 3;
+
+    /// <summary>2D and 3D: the step in x across one spacing that marks thin carriers (with <see cref="ThinStepFactor"/>).</summary>
     public const double ThinStepX = 1;
 
     /// <summary>Cells whose centres lie within this many spacings of q = 0 get 3 x 3 pieces of nodes.</summary>
@@ -155,10 +165,10 @@ internal sealed class LongWaveHandover
     public IReadOnlyList<bool> On => _on;
 
     /// <summary>
-    /// 3D, per temperature (a subset of <see cref="On"/>): the heat carriers outside the window are thinner than a
-    /// mesh spacing across while they reach past the window along some direction (a layered crystal's soft shear),
-    /// so one point per cell cannot sum f (1 - w): the rays then integrate f over the whole zone
-    /// (<see cref="HandoverRays"/>) and the mesh points count nothing at that temperature.
+    /// 2D and 3D, per temperature (a subset of <see cref="On"/>): the heat carriers or their velocities are thinner than a
+    /// mesh spacing across (a layered crystal's or a sheet's soft shear), so one point per cell cannot sum f (1 - w) nor
+    /// 2D nodes per cell f w: the rays then integrate f over the whole zone (<see cref="HandoverRays"/>) and the mesh
+    /// points and nodes count nothing at that temperature. On a mesh without a window these are the only temperatures on.
     /// </summary>
     public IReadOnlyList<bool> WholeZone => _wholeZone;
 
@@ -170,6 +180,9 @@ internal sealed class LongWaveHandover
 
     /// <summary>Whether some temperature integrates the whole zone along rays.</summary>
     public bool AnyWholeZone => _wholeZone.Any(z => z);
+
+    /// <summary>Whether some temperature uses the window (f w on nodes or rays, f (1 - w) on the mesh), not the whole zone.</summary>
+    public bool UsesWindow => _on.Where((on, t) => on && !_wholeZone[t]).Any();
 
     /// <summary>
     /// The hand-over for this mesh, or null when no temperature needs it (every temperature's heat
@@ -204,7 +217,9 @@ internal sealed class LongWaveHandover
 
         if (d != 3 || width < NarrowMinimumWidthSpacings)
         {
-            return null; // the zone holds no window wide enough (a mesh of a few points): the cell and the mesh stay as they were
+            // The zone holds no window wide enough (a mesh of a few points): the cell and the mesh stay as they were,
+            // but carriers thinner than a spacing are still integrated over the whole zone along rays.
+            return WholeZoneOnly(solver, lattice, mesh, circumradius, Math.Max(zone, circumradius + spacing), temperaturesK, wanted, d == 3 ? NarrowThinStepFactor : ThinStepFactor);
         }
 
         // A narrow 3D window (coarse meshes): its erfc edge is steep on the mesh's scale, and one point per cell
@@ -222,34 +237,69 @@ internal sealed class LongWaveHandover
             any |= on[t];
         }
 
-        return any ? new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on, ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, on, NarrowThinStepFactor)) : null;
+        // Hotter temperatures the narrow window leaves to the mesh: where the carriers are thinner than a spacing, the
+        // whole zone's rays take them (a layered crystal with Umklapp scattering at 300 K on meshes 8-12).
+        var hot = wanted.Select((w, t) => w && !on[t]).ToArray();
+        var thin = ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, on.Select((o, t) => o || hot[t]).ToArray(), NarrowThinStepFactor);
+        var zoneOnly = hot.Select((h, t) => h && thin[t]).ToArray();
+        if (!any && !zoneOnly.Any(z => z))
+        {
+            return null;
+        }
+
+        return new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on.Select((o, t) => o || zoneOnly[t]).ToArray(), thin);
     }
 
     /// <summary>
-    /// 3D, per temperature where <paramref name="on"/>: whether some branch's heat carriers reach the window's
+    /// A mesh without a window: the hand-over at the <paramref name="wanted"/> temperatures whose carriers are thinner
+    /// than a spacing (<see cref="ThinCarriers"/>, probed out to <paramref name="outsideM"/>), which the whole zone's rays
+    /// integrate; null where there are none. Its window is never used (every temperature it is on takes the whole zone).
+    /// </summary>
+    private static LongWaveHandover? WholeZoneOnly(ModeSolver solver, Lattice lattice, int[] mesh, double insideM, double outsideM, double[] temperaturesK, bool[] wanted, double stepFactor)
+    {
+        var thin = ThinCarriers(solver, lattice, mesh, insideM, outsideM, temperaturesK, wanted, stepFactor);
+        var spacing = GammaCellIntegrator.Edges(lattice, mesh).Max(e => e.Length);
+        return thin.Any(z => z) ? new LongWaveHandover(lattice, mesh, spacing, insideM, outsideM, thin, thin) : null;
+    }
+
+    /// <summary>
+    /// 2D and 3D, per temperature where <paramref name="on"/>: whether some branch's heat carriers reach the window's
     /// edge (x of the lowest moving frequency at the middle of the edge or at its end, along a mesh axis or
-    /// diagonal, below <see cref="ThinCarriersX"/>) while one mesh spacing across that point the lowest frequency
-    /// is at least <paramref name="stepFactor"/> times higher and x at least <see cref="ThinStepX"/> higher. Steps
-    /// go along each mesh edge's part across the direction (edges nearly along it are skipped), both ways.
-    /// Directions off the axes and diagonals are not tried: a crystal layered along another axis is not seen.
+    /// diagonal, below <see cref="ThinCarriersX"/>) while one mesh spacing across that point the same branch (in order of
+    /// frequency) is at least <paramref name="stepFactor"/> times higher and x at least <see cref="ThinStepX"/> higher, or
+    /// <see cref="ThinVelocityFactor"/> times higher at any x. Steps go along each mesh edge's part across the direction
+    /// (edges nearly along it are skipped), both ways. 2D also probes two spacings out (its window's nodes per cell miss a
+    /// line as one point per cell does). Directions off the axes and diagonals are not tried: a crystal layered along
+    /// another axis is not seen. 1D: never (a chain has no direction across).
     /// </summary>
     private static bool[] ThinCarriers(ModeSolver solver, Lattice lattice, int[] mesh, double insideM, double outsideM, double[] temperaturesK, bool[] on, double stepFactor)
     {
         var zone = new bool[on.Length];
-        if (lattice.Dimension != 3 || !on.Any(o => o))
+        if (lattice.Dimension == 1 || !on.Any(o => o))
         {
             return zone;
         }
 
         var edges = GammaCellIntegrator.Edges(lattice, mesh);
         var acoustic = solver.Matrix.Crystal.Components;
-        var pairs = new List<(double Omega0, double Omega1)>();
-        foreach (var b in Images(lattice).Take(13))
+        var pairs = new List<(double Carrier, double Omega0, double Omega1)>();
+
+        // 2D also inside the window: its nodes per cell (18 per spacing near q = 0) miss carriers thinner than that
+        // as one point per cell does (a sheet with a weak shear 6 % low at 0.2 K on 32 x 32, where its carriers
+        // reach a spacing or two out). Two spacings out a cone grows by 1.12 and a flexural branch by 1.25 one
+        // spacing across, short of ThinStepFactor; there the carriers count where they leave the q = 0 cell
+        // (x at its circumradius), since they fill the cells in between.
+        var spacing = edges.Max(e => e.Length);
+        double[] radii = lattice.Dimension == 2 && 2 * spacing < (insideM + outsideM) / 2
+            ? [2 * spacing, (insideM + outsideM) / 2, outsideM]
+            : [(insideM + outsideM) / 2, outsideM];
+        foreach (var b in AxesAndDiagonals(lattice))
         {
             var u = b.Unit();
-            foreach (var radius in new[] { (insideM + outsideM) / 2, outsideM })
+            foreach (var radius in radii)
             {
                 var q = radius * u;
+                var carriers = radius == 2 * spacing && lattice.Dimension == 2 ? Sorted(solver, insideM * u, acoustic) : null;
                 var here = Sorted(solver, q, acoustic);
                 foreach (var e in edges)
                 {
@@ -267,7 +317,7 @@ internal sealed class LongWaveHandover
                     var minus = Sorted(solver, q - step, acoustic);
                     for (var k = 0; k < acoustic; k++)
                     {
-                        pairs.Add((here[k], Math.Min(plus[k], minus[k])));
+                        pairs.Add(((carriers ?? here)[k], here[k], Math.Min(plus[k], minus[k])));
                     }
                 }
             }
@@ -281,11 +331,12 @@ internal sealed class LongWaveHandover
                 continue;
             }
 
-            foreach (var (omega0, omega1) in pairs)
+            foreach (var (carrier, omega0, omega1) in pairs)
             {
                 var x0 = Units.PhysicalConstants.HbarJS * omega0 / kT;
                 var x1 = Units.PhysicalConstants.HbarJS * omega1 / kT;
-                if (omega0 > 0 && x0 < ThinCarriersX && omega1 >= stepFactor * omega0 && x1 - x0 >= ThinStepX)
+                var xCarrier = Units.PhysicalConstants.HbarJS * carrier / kT;
+                if (omega0 > 0 && xCarrier < ThinCarriersX && ((omega1 >= stepFactor * omega0 && x1 - x0 >= ThinStepX) || omega1 >= ThinVelocityFactor * omega0))
                 {
                     zone[t] = true;
                     break;
@@ -360,9 +411,13 @@ internal sealed class LongWaveHandover
         var (_, circumradius, spacing, zone) = Geometry(GammaCellIntegrator.Edges(_lattice, mesh), _lattice);
         var outside = _lattice.Dimension == 3 ? zone : Math.Min(circumradius + (WidthSpacings * spacing), zone);
         var minimum = _lattice.Dimension == 3 ? CheckMinimumWidthSpacings3d : CheckMinimumWidthSpacings;
-        return outside < circumradius + (minimum * spacing)
-            ? null
-            : new LongWaveHandover(_lattice, mesh, spacing, circumradius, outside, _on, _wholeZone, forCheckMesh: true);
+        if (outside < circumradius + (minimum * spacing))
+        {
+            // No window; the whole zone's temperatures keep their rays (the mesh plays no part at them).
+            return AnyWholeZone ? new LongWaveHandover(_lattice, mesh, spacing, circumradius, Math.Max(zone, circumradius + spacing), _wholeZone, _wholeZone, forCheckMesh: true) : null;
+        }
+
+        return new LongWaveHandover(_lattice, mesh, spacing, circumradius, outside, _on, _wholeZone, forCheckMesh: true);
     }
 
     /// <summary>
@@ -544,13 +599,7 @@ internal sealed class LongWaveHandover
     /// </summary>
     private static (double Slowest, double Fastest) AcousticOmegas(ModeSolver solver, Lattice lattice, double qM)
     {
-        var b1 = lattice.ReciprocalVector(0);
-        Vec3[] directions = lattice.Dimension switch
-        {
-            1 => [b1],
-            2 => [b1, lattice.ReciprocalVector(1), b1 + lattice.ReciprocalVector(1), b1 - lattice.ReciprocalVector(1)],
-            _ => [.. Images(lattice).Take(13)], // one of each +-pair: axes, face and body diagonals
-        };
+        var directions = AxesAndDiagonals(lattice);
         var acoustic = solver.Matrix.Crystal.Components;
         var lowest = double.PositiveInfinity;
         var highest = 0.0;
@@ -574,6 +623,18 @@ internal sealed class LongWaveHandover
         }
 
         return (lowest, highest);
+    }
+
+    /// <summary>The mesh axes and diagonals, one of each +- pair (1D: b1; 2D: b1, b2, b1 +- b2; 3D: axes, face and body diagonals).</summary>
+    private static Vec3[] AxesAndDiagonals(Lattice lattice)
+    {
+        var b1 = lattice.ReciprocalVector(0);
+        return lattice.Dimension switch
+        {
+            1 => [b1],
+            2 => [b1, lattice.ReciprocalVector(1), b1 + lattice.ReciprocalVector(1), b1 - lattice.ReciprocalVector(1)],
+            _ => [.. Images(lattice).Take(13)],
+        };
     }
 
     private static double SpecialErfc(double x) => MathNet.Numerics.SpecialFunctions.Erfc(x);
