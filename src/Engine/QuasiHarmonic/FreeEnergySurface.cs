@@ -7,8 +7,8 @@ namespace LatticeSweep.Engine.QuasiHarmonic;
 
 /// <summary>
 /// F(V, T) = E_static(V) + F_vib(V, T) near the static minimum and its minimum over V at each
-/// temperature. E_static is evaluated exactly (lattice sums, analytic derivatives); F_vib, S_vib and
-/// Cv, known at the solved volumes, are least-squares polynomials in y = V/V0 - 1 over a window of
+/// temperature. E_static is evaluated exactly (lattice sums, analytic derivatives); F_vib, ln S_vib and
+/// ln Cv (<see cref="PositiveFit"/>), known at the solved volumes, are least-squares polynomials in y = V/V0 - 1 over a window of
 /// at most seven volumes around the first local minimum of the sampled F (quartic from six volumes, cubic from five,
 /// quadratic from four; the data are smooth, the fit only tames the ends). The minimum is searched
 /// only inside the window: it is never extrapolated. Then B_T = V F'', alpha_V = (dS/dV)_T / B_T,
@@ -89,8 +89,8 @@ internal sealed class FreeEnergySurface
         }
 
         var f = fit.Coefficients(window.Select(v => v.FreeEnergyJ[t]));
-        var s = fit.Coefficients(window.Select(v => v.EntropyJPerK[t]));
-        var c = fit.Coefficients(window.Select(v => v.HeatCapacityJPerK[t]));
+        var s = PositiveFit.Of(fit, window.Select(v => v.EntropyJPerK[t]));
+        var c = PositiveFit.Of(fit, window.Select(v => v.HeatCapacityJPerK[t]));
 
         // F'(V) and F''(V): the static part exact (one lattice sum gives both), the vibrational part from the fit.
         (double Slope, double Curvature) Derivatives(double v)
@@ -150,8 +150,8 @@ internal sealed class FreeEnergySurface
         }
 
         var bulk = vStar * curvature;
-        var dSdV = Derivative(s, yStar, 1) / _v0;
-        var cv = Math.Max(0, Derivative(c, yStar, 0));
+        var dSdV = s.Slope(yStar) / _v0;
+        var cv = Math.Max(0, c.Value(yStar));
         var alphaV = dSdV / bulk;
         var perMol = PhysicalConstants.AvogadroPerMol / _static.AtomsPerCell;
         var energy = _static.At(ScaleOf(vStar)).Energy + Derivative(f, yStar, 0);
@@ -194,7 +194,7 @@ internal sealed class FreeEnergySurface
         (ScaleOf(v) / _staticScale - 1).ToString("+0.0%;-0.0%", CultureInfo.InvariantCulture);
 
     /// <summary>The k-th derivative (k = 0, 1, 2) of the polynomial with coefficients p at x.</summary>
-    private static double Derivative(double[] p, double x, int k)
+    internal static double Derivative(double[] p, double x, int k)
     {
         var sum = 0.0;
         for (var i = p.Length - 1; i >= k; i--)
