@@ -169,7 +169,7 @@ internal sealed class FreeEnergySurface
             CvJPerMolK = cv * perMol,
             CpJPerMolK = cp * perMol,
 
-            // Undefined where no mode is excited (T = 0): 0/0.
+            // Undefined where no mode is excited (T = 0, or Cv below 1e-12 kB per cell): 0/0.
             Grueneisen = cv > 1e-12 * PhysicalConstants.BoltzmannJPerK * _static.AtomsPerCell ? vStar * dSdV / cv : null,
             FreeEnergyJPerMol = energy * perMol,
         }, Side.Inside);
