@@ -97,7 +97,7 @@ internal sealed class FreeEnergySurface
         {
             var (first, second) = _static.VolumeDerivatives(ScaleOf(v));
             var y = v / _v0 - 1;
-            return (first + Derivative(f, y, 1) / _v0, second + Derivative(f, y, 2) / (_v0 * _v0));
+            return (first + Polynomial.Derivative(f, y, 1) / _v0, second + Polynomial.Derivative(f, y, 2) / (_v0 * _v0));
         }
 
         var (lo, hi) = (window[0].CellMeasure, window[^1].CellMeasure);
@@ -154,7 +154,7 @@ internal sealed class FreeEnergySurface
         var cv = Math.Max(0, c.Value(yStar));
         var alphaV = dSdV / bulk;
         var perMol = PhysicalConstants.AvogadroPerMol / _static.AtomsPerCell;
-        var energy = _static.At(ScaleOf(vStar)).Energy + Derivative(f, yStar, 0);
+        var energy = _static.At(ScaleOf(vStar)).Energy + Polynomial.Derivative(f, yStar, 0);
         var cp = cv + alphaV * alphaV * bulk * vStar * temperatureK;
         var d = Dimension;
         return (row with
@@ -192,19 +192,6 @@ internal sealed class FreeEnergySurface
 
     private string Strain(double v) =>
         (ScaleOf(v) / _staticScale - 1).ToString("+0.0%;-0.0%", CultureInfo.InvariantCulture);
-
-    /// <summary>The k-th derivative (k = 0, 1, 2) of the polynomial with coefficients p at x.</summary>
-    internal static double Derivative(double[] p, double x, int k)
-    {
-        var sum = 0.0;
-        for (var i = p.Length - 1; i >= k; i--)
-        {
-            var factor = k switch { 0 => 1.0, 1 => i, _ => i * (i - 1.0) };
-            sum = sum * x + factor * p[i];
-        }
-
-        return sum;
-    }
 }
 
 /// <summary>
@@ -236,5 +223,18 @@ internal sealed class Polynomial
         }
 
         return p;
+    }
+
+    /// <summary>The k-th derivative (k = 0, 1, 2) of the polynomial with coefficients p at x.</summary>
+    public static double Derivative(double[] p, double x, int k)
+    {
+        var sum = 0.0;
+        for (var i = p.Length - 1; i >= k; i--)
+        {
+            var factor = k switch { 0 => 1.0, 1 => i, _ => i * (i - 1.0) };
+            sum = sum * x + factor * p[i];
+        }
+
+        return sum;
     }
 }

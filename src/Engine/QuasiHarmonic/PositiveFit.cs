@@ -25,12 +25,12 @@ internal sealed class PositiveFit
     /// <summary>The fitted quantity at y = V/V0 - 1.</summary>
     public double Value(double y)
     {
-        var p = FreeEnergySurface.Derivative(_coefficients, y, 0);
+        var p = Polynomial.Derivative(_coefficients, y, 0);
         return _logarithmic ? Math.Exp(p) : p;
     }
 
     /// <summary>Its derivative with respect to y (d/dy exp(p) = exp(p) p').</summary>
     public double Slope(double y) => _logarithmic
-        ? Math.Exp(FreeEnergySurface.Derivative(_coefficients, y, 0)) * FreeEnergySurface.Derivative(_coefficients, y, 1)
-        : FreeEnergySurface.Derivative(_coefficients, y, 1);
+        ? Math.Exp(Polynomial.Derivative(_coefficients, y, 0)) * Polynomial.Derivative(_coefficients, y, 1)
+        : Polynomial.Derivative(_coefficients, y, 1);
 }
