@@ -7,8 +7,8 @@ namespace LatticeSweep.Engine.QuasiHarmonic;
 
 /// <summary>
 /// F(V, T) = E_static(V) + F_vib(V, T) near the static minimum and its minimum over V at each
-/// temperature. E_static is evaluated exactly (lattice sums, analytic derivatives); F_vib, S_vib and
-/// Cv, known at the solved volumes, are least-squares polynomials in y = V/V0 - 1 over a window of
+/// temperature. E_static is evaluated exactly (lattice sums, analytic derivatives); F_vib, ln S_vib and
+/// ln Cv (<see cref="PositiveFit"/>), known at the solved volumes, are least-squares polynomials in y = V/V0 - 1 over a window of
 /// at most seven volumes around the first local minimum of the sampled F (quartic from six volumes, cubic from five,
 /// quadratic from four; the data are smooth, the fit only tames the ends). The minimum is searched
 /// only inside the window: it is never extrapolated. Then B_T = V F'', alpha_V = (dS/dV)_T / B_T,
@@ -89,15 +89,15 @@ internal sealed class FreeEnergySurface
         }
 
         var f = fit.Coefficients(window.Select(v => v.FreeEnergyJ[t]));
-        var s = fit.Coefficients(window.Select(v => v.EntropyJPerK[t]));
-        var c = fit.Coefficients(window.Select(v => v.HeatCapacityJPerK[t]));
+        var s = PositiveFit.Of(fit, window.Select(v => v.EntropyJPerK[t]));
+        var c = PositiveFit.Of(fit, window.Select(v => v.HeatCapacityJPerK[t]));
 
         // F'(V) and F''(V): the static part exact (one lattice sum gives both), the vibrational part from the fit.
         (double Slope, double Curvature) Derivatives(double v)
         {
             var (first, second) = _static.VolumeDerivatives(ScaleOf(v));
             var y = v / _v0 - 1;
-            return (first + Derivative(f, y, 1) / _v0, second + Derivative(f, y, 2) / (_v0 * _v0));
+            return (first + Polynomial.Derivative(f, y, 1) / _v0, second + Polynomial.Derivative(f, y, 2) / (_v0 * _v0));
         }
 
         var (lo, hi) = (window[0].CellMeasure, window[^1].CellMeasure);
@@ -150,11 +150,11 @@ internal sealed class FreeEnergySurface
         }
 
         var bulk = vStar * curvature;
-        var dSdV = Derivative(s, yStar, 1) / _v0;
-        var cv = Math.Max(0, Derivative(c, yStar, 0));
+        var dSdV = s.Slope(yStar) / _v0;
+        var cv = Math.Max(0, c.Value(yStar));
         var alphaV = dSdV / bulk;
         var perMol = PhysicalConstants.AvogadroPerMol / _static.AtomsPerCell;
-        var energy = _static.At(ScaleOf(vStar)).Energy + Derivative(f, yStar, 0);
+        var energy = _static.At(ScaleOf(vStar)).Energy + Polynomial.Derivative(f, yStar, 0);
         var cp = cv + alphaV * alphaV * bulk * vStar * temperatureK;
         var d = Dimension;
         return (row with
@@ -169,7 +169,7 @@ internal sealed class FreeEnergySurface
             CvJPerMolK = cv * perMol,
             CpJPerMolK = cp * perMol,
 
-            // Undefined where no mode is excited (T = 0): 0/0.
+            // Undefined where no mode is excited (T = 0, or Cv below 1e-12 kB per cell): 0/0.
             Grueneisen = cv > 1e-12 * PhysicalConstants.BoltzmannJPerK * _static.AtomsPerCell ? vStar * dSdV / cv : null,
             FreeEnergyJPerMol = energy * perMol,
         }, Side.Inside);
@@ -192,19 +192,6 @@ internal sealed class FreeEnergySurface
 
     private string Strain(double v) =>
         (ScaleOf(v) / _staticScale - 1).ToString("+0.0%;-0.0%", CultureInfo.InvariantCulture);
-
-    /// <summary>The k-th derivative (k = 0, 1, 2) of the polynomial with coefficients p at x.</summary>
-    private static double Derivative(double[] p, double x, int k)
-    {
-        var sum = 0.0;
-        for (var i = p.Length - 1; i >= k; i--)
-        {
-            var factor = k switch { 0 => 1.0, 1 => i, _ => i * (i - 1.0) };
-            sum = sum * x + factor * p[i];
-        }
-
-        return sum;
-    }
 }
 
 /// <summary>
@@ -236,5 +223,18 @@ internal sealed class Polynomial
         }
 
         return p;
+    }
+
+    /// <summary>The k-th derivative (k = 0, 1, 2) of the polynomial with coefficients p at x.</summary>
+    public static double Derivative(double[] p, double x, int k)
+    {
+        var sum = 0.0;
+        for (var i = p.Length - 1; i >= k; i--)
+        {
+            var factor = k switch { 0 => 1.0, 1 => i, _ => i * (i - 1.0) };
+            sum = sum * x + factor * p[i];
+        }
+
+        return sum;
     }
 }

@@ -465,7 +465,7 @@ internal sealed class ResultSchemas
         C<RowOf<ExpansionRow>>("isothermal_bulk_modulus_n", ColumnType.Double, "N", "isothermal length modulus L d2F/dL2 (1D)", r => r.Item.IsothermalBulkModulusN),
         C<RowOf<ExpansionRow>>("cv_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity at constant volume, at V(T)", r => r.Item.CvJPerMolK),
         C<RowOf<ExpansionRow>>("cp_j_per_mol_k", ColumnType.Double, "J/(mol K)", "heat capacity at constant pressure Cv + alpha_V^2 B_T V T", r => r.Item.CpJPerMolK),
-        C<RowOf<ExpansionRow>>("grueneisen_parameter", ColumnType.Double, "1", "thermal Grueneisen parameter V (dS/dV)_T / Cv, the Cv-weighted mean of the mode parameters (empty at 0 K)", r => r.Item.Grueneisen),
+        C<RowOf<ExpansionRow>>("grueneisen_parameter", ColumnType.Double, "1", "thermal Grueneisen parameter V (dS/dV)_T / Cv, the Cv-weighted mean of the mode parameters (empty at 0 K and where Cv is below 1e-12 kB per cell: no mode excited)", r => r.Item.Grueneisen),
         C<RowOf<ExpansionRow>>("free_energy_j_per_mol", ColumnType.Double, "J/mol", "F = E_static + F_vib at the minimum, per mole of atoms", r => r.Item.FreeEnergyJPerMol),
         C<RowOf<ExpansionRow>>("breakdown", ColumnType.Text, "", "why the approximation gives no numbers at this temperature (no minimum of F, runaway expansion); empty when it holds", r => r.Item.Breakdown),
     ];
