@@ -123,19 +123,25 @@ internal sealed record AcousticAverages
         _ => (8 << level) * (16 << level),
     };
 
-    /// <summary>The largest change <see cref="Agrees"/> tests, in units of its tolerance (infinite where undefined).</summary>
+    /// <summary>The largest change a doubling made, in units of its tolerance: at most 1 exactly when <see cref="Agrees"/> (infinite where undefined).</summary>
     private static double Disagreement(double[] sums, double inverseSum, double[] finerSums, double finerInverseSum, int branches, int d)
     {
         var debye = Math.Pow(inverseSum / branches, -1.0 / d);
         var finerDebye = Math.Pow(finerInverseSum / branches, -1.0 / d);
-        var worst = Math.Abs(finerDebye - debye) / (Tolerance * finerDebye);
+        var worst = Relative(Math.Abs(finerDebye - debye), Tolerance * finerDebye);
         var fastest = finerSums.Max();
         for (var k = 0; k < branches; k++)
         {
-            worst = Math.Max(worst, Math.Abs(finerSums[k] - sums[k]) / (Tolerance * fastest));
+            worst = Math.Max(worst, Relative(Math.Abs(finerSums[k] - sums[k]), Tolerance * fastest));
         }
 
-        return double.IsNaN(worst) ? double.PositiveInfinity : worst;
+        return worst;
+
+        // As the test change <= tolerance reads: a change past the tolerance stays past 1 where the division rounds to 1,
+        // a zero tolerance holds only a zero change, and NaN (an unstable sweep) never agrees.
+        static double Relative(double change, double tolerance) =>
+            change <= tolerance ? (tolerance > 0 ? change / tolerance : 0)
+            : tolerance > 0 && double.IsFinite(change / tolerance) ? Math.Max(change / tolerance, Math.BitIncrement(1.0)) : double.PositiveInfinity;
     }
 
     /// <summary>Direction sums of each sorted branch's speed and of v^-d on the rule doubled <paramref name="level"/> times.</summary>
@@ -181,26 +187,8 @@ internal sealed record AcousticAverages
         return (sums, inverseSum, stable);
     }
 
-    private static bool Agrees(double[] sums, double inverseSum, double[] finerSums, double finerInverseSum, int branches, int d)
-    {
-        var debye = Math.Pow(inverseSum / branches, -1.0 / d);
-        var finerDebye = Math.Pow(finerInverseSum / branches, -1.0 / d);
-        if (!(Math.Abs(finerDebye - debye) <= Tolerance * finerDebye))
-        {
-            return false;
-        }
-
-        var fastest = finerSums.Max();
-        for (var k = 0; k < branches; k++)
-        {
-            if (!(Math.Abs(finerSums[k] - sums[k]) <= Tolerance * fastest))
-            {
-                return false;
-            }
-        }
-
-        return true;
-    }
+    private static bool Agrees(double[] sums, double inverseSum, double[] finerSums, double finerInverseSum, int branches, int d) =>
+        Disagreement(sums, inverseSum, finerSums, finerInverseSum, branches, d) <= 1;
 
     /// <summary>
     /// k_D of a d-dimensional Debye sphere holding one state per primitive cell: 1D pi / a,

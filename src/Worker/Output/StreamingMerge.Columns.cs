@@ -385,9 +385,9 @@ internal static partial class StreamingMerge
         private readonly Array?[,] _arrays = new Array?[inputs, columns];
         private readonly int[,] _group = NewGroups(inputs, columns);
 
-        /// <summary>What keeping every input's largest row group of every column would hold (the array costs of <see cref="ColumnValues"/>).</summary>
+        /// <summary>What keeping every input's largest row group of every column would hold (decoded cells as <see cref="MergeBudget.BytesPerRow"/> counts them).</summary>
         public static long BytesFor(IReadOnlyList<SortedInput> inputs, IReadOnlyList<ColumnDef> columns) =>
-            inputs.Sum(i => i.GroupRows.DefaultIfEmpty(0).Max()) * columns.Sum(c => ArrayBytesPerCell(c.Type));
+            inputs.Sum(i => i.GroupRows.DefaultIfEmpty(0).Max()) * MergeBudget.BytesPerRow(columns);
 
         /// <summary>The kept decoded column <paramref name="column"/> of <paramref name="input"/>'s row group <paramref name="group"/>, or null.</summary>
         public Array? Find(int input, int group, int column) => _group[input, column] == group ? _arrays[input, column] : null;
@@ -405,13 +405,6 @@ internal static partial class StreamingMerge
             _group[input, column] = group;
             return array;
         }
-
-        private static long ArrayBytesPerCell(ColumnType type) => type switch
-        {
-            ColumnType.Text or ColumnType.Int32 => 8,
-            ColumnType.Bool => 2,
-            _ => 16,
-        };
 
         private static int[,] NewGroups(int inputs, int columns)
         {
