@@ -226,26 +226,41 @@ internal static class ParquetPartWriter
     /// <summary>
     /// Creates the chunk's temporary file in the table's <see cref="WritingFolderName"/> folder (made when missing), after
     /// removing what an earlier run of the chunk left there. Another writer's commit removes the folder once it is empty
-    /// (<see cref="RemoveWritingFolderIfEmpty"/>), possibly between its making and the file's creation: then it is made again.
+    /// (<see cref="RemoveWritingFolderIfEmpty"/>): in this process not between the folder's making and the file's creation
+    /// (<see cref="WritingFolderGate"/>); another process sharing the results folder can, and then the folder is made again.
     /// </summary>
     private static FileStream CreateTemporary(string tableFolder, string chunkId)
     {
+        const int CreateAttempts = 64;
         for (var attempt = 1; ; attempt++)
         {
             try
             {
-                var writing = Directory.CreateDirectory(Path.Combine(tableFolder, WritingFolderName)).FullName;
-                RemoveStaleTemporaries(writing, chunkId);
-                var temporary = Path.Combine(writing, $".part-{chunkId}.{Guid.NewGuid():N}.tmp");
-                return new FileStream(temporary, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None);
+                lock (WritingFolderGate)
+                {
+                    var writing = Directory.CreateDirectory(Path.Combine(tableFolder, WritingFolderName)).FullName;
+                    RemoveStaleTemporaries(writing, chunkId);
+                    var temporary = Path.Combine(writing, $".part-{chunkId}.{Guid.NewGuid():N}.tmp");
+                    return new FileStream(temporary, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None);
+                }
             }
-            catch (IOException ex) when (ex is DirectoryNotFoundException or FileNotFoundException && attempt < 8 && Directory.Exists(tableFolder))
+            catch (IOException) when (attempt < CreateAttempts && Directory.Exists(tableFolder))
             {
-                // The empty folder went between our steps (another chunk's commit): make it again. (.NET reports a creation in a
-                // missing folder as a file not found when the folder is back by the time it looks: another writer made it again.)
+                // The empty folder went between our steps (another process's commit): make it again. Each step has its own
+                // report of that race: the file's creation in a missing folder says directory or file not found, and the
+                // folder's making says "already exists" when mkdir met the folder and it was gone before .NET looked whether it
+                // is one. Other causes (a full disk, no permission) fail the same way each time and surface after the last try.
+                Thread.Yield();
             }
         }
     }
+
+    /// <summary>
+    /// Keeps this process's writers from removing a table's <see cref="WritingFolderName"/> folder between another writer's
+    /// making it and creating its temporary file in it: a writer that lost that race every time would fail its chunk.
+    /// Held for a few file-system calls once per part, so one gate for every table costs nothing measurable.
+    /// </summary>
+    private static readonly Lock WritingFolderGate = new();
 
     /// <summary>
     /// Removes the table's <see cref="WritingFolderName"/> folder when it holds nothing (after a chunk's commit): a run's table
@@ -256,8 +271,11 @@ internal static class ParquetPartWriter
     {
         try
         {
-            // Not recursive: removes an empty folder only, in one step (rmdir), whatever another writer does meanwhile.
-            Directory.Delete(Path.Combine(tableFolder, WritingFolderName), recursive: false);
+            // Not recursive: removes an empty folder only, in one step (rmdir), whatever another process's writer does meanwhile.
+            lock (WritingFolderGate)
+            {
+                Directory.Delete(Path.Combine(tableFolder, WritingFolderName), recursive: false);
+            }
         }
         catch (IOException)
         {

@@ -40,6 +40,48 @@ public sealed class WritingFolderTests : IDisposable
     }
 
     [Fact]
+    public async Task Writers_whose_folder_another_thread_keeps_removing_all_commit_their_parts()
+    {
+        // A remover that takes the empty folder away as fast as they can hit each window between a writer's steps, among them the
+        // one between mkdir finding the folder and .NET looking whether it is one (reported as "already exists").
+        var folder = _dir.Combine("demo");
+        Directory.CreateDirectory(folder);
+        var rows = new TableRows("demo", DemoParts.Columns, 1,
+            [new string?[] { "00000000000000ab" }, new string?[] { "total" }, new int?[] { 0 }, new long?[] { 2 }, new double?[] { 0.25 }, new bool?[] { false },
+             new DateTime?[] { new DateTime(2026, 12, 5, 18, 0, 0, DateTimeKind.Utc) }]);
+        using var stop = new CancellationTokenSource();
+        // Threads of their own, so the spinning remover does not hold the pool's threads the writers' continuations need.
+        var removers = Enumerable.Range(0, 1).Select(_ => Task.Factory.StartNew(() =>
+        {
+            while (!stop.IsCancellationRequested)
+            {
+                ParquetPartWriter.RemoveWritingFolderIfEmpty(folder);
+                Thread.Yield();
+            }
+        }, TaskCreationOptions.LongRunning)).ToArray();
+
+        var writers = Enumerable.Range(0, 3).Select(w => Task.Run(async () =>
+        {
+            for (var i = 0; i < 60; i++)
+            {
+                var part = await ParquetPartWriter.PrepareAsync(folder, $"r{w}-c{i:d3}", rows, new Dictionary<string, string>(), CancellationToken.None);
+                part.Commit();
+            }
+        })).ToArray();
+        try
+        {
+            await Task.WhenAll(writers);
+        }
+        finally
+        {
+            stop.Cancel();
+            await Task.WhenAll(removers);
+        }
+
+        Assert.Equal(180, Directory.GetFiles(folder, "part-*.parquet").Length);
+    }
+
+    [Fact]
     public async Task A_folder_holding_a_part_being_written_stays()
     {
         var folder = _dir.Combine("demo");
