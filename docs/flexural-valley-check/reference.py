@@ -5,11 +5,13 @@
 # The out-of-plane branch: E = sum over centres and straight pairs (k/2)(z_j + z_k - 2 z_i)^2 (the `flexural` form of a
 # straight pair, README), so m omega_z^2 = 4 k sum_pairs (1 - cos q.d)^2 (derived by hand, common practice, no source).
 # In-plane: m D = sum over neighbours r of k_r (1 - cos q.r) n n^T (central springs). CODATA 2018 constants.
-# Usage: /usr/bin/python3 reference.py CASE T...   (CASE: square2, square3, triangular2, triangular3)
+# Usage: /usr/bin/python3 reference.py CASE T...   (CASE: square1, square1soft, square2, square3, triangular2, triangular3)
 import sys, numpy as np
 hbar=1.054571817e-34; kB=1.380649e-23; NA=6.02214076e23; amu=1.66053906660e-27
 CASES={
  # lattice vectors (units of a), a (m), mass (amu), central springs [(shell radius in a, k)], bend shell radius (a), kb
+ 'square1': (np.array([[1,0],[0,1]]), 0.4599e-9, 1.0735, [(1,3.1249),(np.sqrt(2),2.3018)], 1.0, 9.9863),
+ 'square1soft': (np.array([[1,0],[0,1]]), 0.4599e-9, 1.0735, [(1,3.1249),(np.sqrt(2),2.3018)], 1.0, 0.5),
  'square2': (np.array([[1,0],[0,1]]), 0.4599e-9, 1.0735, [(1,3.1249),(np.sqrt(2),2.3018)], np.sqrt(2), 9.9863),
  'square3': (np.array([[1,0],[0,1]]), 0.4599e-9, 1.0735, [(1,3.1249),(np.sqrt(2),2.3018)], 2.0, 9.9863),
  'triangular2': (np.array([[1,0],[0.5,np.sqrt(3)/2]]), 0.3, 12.0, [(1,20.0)], np.sqrt(3), 2.0),

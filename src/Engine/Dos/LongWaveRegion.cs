@@ -148,7 +148,7 @@ internal sealed class LongWaveRegion
         var d = crystal.Lattice.Dimension;
         var acoustic = crystal.Components;
         var (cellRays, epsilon) = geometry;
-        var rays = RayDispersion.MeasureAll(solver, cellRays.Rays, epsilon, fractions);
+        var rays = RayDispersion.MeasureAll(solver, cellRays.Rays, epsilon, fractions, Spectrum.OutOfPlaneOrder.Applies(crystal, from, to));
         var weights = new double[rays.Length];
         for (var r = 0; r < rays.Length; r++)
         {
