@@ -34,9 +34,26 @@ internal readonly record struct LongWaveBox(int K1, int K2, int K3, int Branches
     public bool SkipsCell(int i1, int i2, int i3, int m1, int m2, int m3) =>
         ColumnAxis >= 0 && SlowAxisColumn.Holds(ColumnAxis, ColumnHalfWidth, i1, i2, i3, m1, m2, m3);
 
+    /// <summary>
+    /// A sheet's zero valleys away from q = 0 (<see cref="ZeroValleys"/>), each with its own box of cells whose lowest branches
+    /// the rays integrate; null when there are none (every ordinary crystal). They share no cell with this box nor each other.
+    /// </summary>
+    public IReadOnlyList<ZeroValleyBox>? Valleys { get; init; }
+
     /// <summary>The first branch the simplices integrate in cell (i1, i2, i3): past the acoustic ones whose box holds it.</summary>
     public int FirstSimplexBranch(int i1, int i2, int i3, int m1, int m2, int m3)
     {
+        if (Valleys is { } valleys)
+        {
+            foreach (var valley in valleys)
+            {
+                if (valley.Holds(i1, i2, m1, m2))
+                {
+                    return valley.Branches;
+                }
+            }
+        }
+
         if (BranchHalfWidths is not { } widths)
         {
             return ContainsCell(i1, i2, i3, m1, m2, m3) ? Branches : 0;

@@ -134,9 +134,21 @@ internal sealed class LongWaveRegion
             share *= 2.0 * half[i] / mesh[i];
         }
 
+        return Build(solver, share, new LongWaveBox(half[0], half[1], half[2], crystal.Components), from, to, fractions, geometry);
+    }
+
+    /// <summary>
+    /// The region of branches [<paramref name="from"/>, <paramref name="to"/>) on the rays of <paramref name="geometry"/>, which
+    /// cover <paramref name="share"/> of the zone; <paramref name="box"/> is recorded for the simplices. A zero valley away
+    /// from q = 0 (<see cref="ZeroValleys"/>) comes here with a solver shifted to its centre and a box of its own.
+    /// </summary>
+    internal static LongWaveRegion? Build(ModeSolver solver, double share, LongWaveBox box, int from, int to, bool fractions, (CentredCellRays Rays, double EpsilonPerM) geometry)
+    {
+        var crystal = solver.Matrix.Crystal;
+        var d = crystal.Lattice.Dimension;
         var acoustic = crystal.Components;
         var (cellRays, epsilon) = geometry;
-        var rays = RayDispersion.MeasureAll(solver, cellRays.Rays, epsilon, fractions);
+        var rays = RayDispersion.MeasureAll(solver, cellRays.Rays, epsilon, fractions, Spectrum.OutOfPlaneOrder.Applies(crystal, from, to));
         var weights = new double[rays.Length];
         for (var r = 0; r < rays.Length; r++)
         {
@@ -187,7 +199,7 @@ internal sealed class LongWaveRegion
             }
         }
 
-        return new LongWaveRegion(new LongWaveBox(half[0], half[1], half[2], acoustic), from, to, cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions)
+        return new LongWaveRegion(box, from, to, cellRays, rays, weights, Math.Max(omegaSplit, 0), rhoSplit, monotonic, d, crystal.Size, fractions)
         {
             RisesAsWave = risesAsWave,
         };

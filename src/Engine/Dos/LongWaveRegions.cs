@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
 using LatticeSweep.Engine.Spectrum;
 
@@ -42,7 +43,8 @@ internal sealed partial class LongWaveRegions
     /// everything, as for an unstable or floppy model, whose thermal numbers are not trusted anyway).
     /// </summary>
     /// <param name="frequencyThz">The mesh's frequencies, [point * branches + branch], for the box sizes.</param>
-    public static LongWaveRegions? TryBuild(ModeSolver solver, BulkSample mesh, double[] frequencyThz, bool fractions)
+    /// <param name="valleys">A sheet's zero valleys away from q = 0 (<see cref="ZeroValleys.Find"/>), or null: each gets rays of its own.</param>
+    public static LongWaveRegions? TryBuild(ModeSolver solver, BulkSample mesh, double[] frequencyThz, bool fractions, IReadOnlyList<(Vec3 Reduced, int Branches)>? valleys = null)
     {
         var crystal = solver.Matrix.Crystal;
         var d = crystal.Lattice.Dimension;
@@ -96,6 +98,12 @@ internal sealed partial class LongWaveRegions
 
         var outer = parts[0].Box;
         var combined = parts.Count == 1 ? outer : outer with { BranchHalfWidths = widths };
+        if (d == 2 && valleys is { Count: > 0 })
+        {
+            var boxes = AddZeroValleys(solver, mesh, valleys, widths[0] ?? half, fractions, parts);
+            combined = boxes.Count == 0 ? combined : combined with { Valleys = boxes };
+        }
+
         if (!columnFits)
         {
             return new LongWaveRegions(combined, [.. parts], null);

@@ -169,14 +169,17 @@ internal static class BulkSolver
         var perOutput = Math.Max(1, (FineBinsTarget + options.DosBins - 1) / options.DosBins);
         var gaussian = options.DosMethod == DosMethod.Gaussian;
         var rigid = crystal.Components;
-        var zeroModes = rigid + CountZeroModes(frequencies, grid, n, rigid, highest);
+        // A sheet's zero valleys away from q = 0 (a flexural bend on the second shell alone): their floors on the mesh are
+        // counted as the rigid translations are, and each valley gets the long-wave rays q = 0 gets.
+        IReadOnlyList<(Models.Vec3 Reduced, int Branches)> valleys = gaussian ? [] : ZeroValleys.Find(solver);
+        var zeroModes = rigid + CountZeroModes(frequencies, grid, n, rigid, highest, ZeroValleys.MeshCentres(valleys, sample, grid));
         var unstable = stats.WorstLambda < -1e-8 * stats.MaxLambda;
 
         // The acoustic branches around q = 0 from the model's own long waves (not for Gaussian
         // broadening, nor for unstable or floppy models: their thermal numbers are not trusted anyway).
         var longWaves = gaussian || unstable || zeroModes > rigid
             ? null
-            : LongWaveRegions.TryBuild(solver, sample, frequencies, wantWeights);
+            : LongWaveRegions.TryBuild(solver, sample, frequencies, wantWeights, valleys);
         ct.ThrowIfCancellationRequested();
 
         // Gaussian tails reach 6 sigma past the spectrum; the grid takes them in so no state is lost.
@@ -334,14 +337,15 @@ internal static class BulkSolver
     /// 1e-14 in omega^2) at the mesh points, the rigid translations at q = 0 not counted. More than none
     /// marks a floppy model (directions without a restoring force on whole lines or planes of q).
     /// </summary>
-    private static long CountZeroModes(double[] frequencyThz, PeriodicGrid grid, int branches, int rigid, double highestThz)
+    /// <param name="valleyCentres">Mesh points that are the floors of zero valleys (<see cref="ZeroValleys.MeshCentres"/>), with their zero branches: not counted.</param>
+    private static long CountZeroModes(double[] frequencyThz, PeriodicGrid grid, int branches, int rigid, double highestThz, Dictionary<long, int> valleyCentres)
     {
         var gamma = grid.Index(grid.N1 / 2, grid.N2 / 2, grid.N3 / 2);
         var tolerance = 1e-7 * highestThz;
         long count = 0;
         for (long p = 0; p < grid.Count; p++)
         {
-            for (var k = p == gamma ? rigid : 0; k < branches; k++)
+            for (var k = p == gamma ? rigid : valleyCentres.GetValueOrDefault(p); k < branches; k++)
             {
                 if (Math.Abs(frequencyThz[p * branches + k]) <= tolerance)
                 {

@@ -12,6 +12,9 @@ internal sealed class ModeSolver
     private readonly DynamicalMatrix _matrix;
     private readonly Complex[] _d;
 
+    private readonly Vec3 _origin;
+    private readonly bool _shifted;
+
     public ModeSolver(DynamicalMatrix matrix)
     {
         _matrix = matrix;
@@ -19,6 +22,24 @@ internal sealed class ModeSolver
         Values = new double[matrix.Size];
         Vectors = new Complex[matrix.Size * matrix.Size];
     }
+
+    /// <summary>
+    /// A solver whose wave vectors are taken from <paramref name="originPerM"/>: every solve (one at a time or listed) is of
+    /// D(origin + q). Why: a branch that reaches zero away from q = 0 (a sheet's zone-corner valley) gets the same long-wave rays
+    /// as q = 0 (<see cref="Dos.ZeroValleys"/>), which measure their branches from q = 0 of the solver they are given.
+    /// </summary>
+    public ModeSolver(DynamicalMatrix matrix, Vec3 originPerM)
+        : this(matrix)
+    {
+        _origin = originPerM;
+        _shifted = true;
+    }
+
+    /// <summary>The origin of the wave vectors (zero but for a valley's solver).</summary>
+    public Vec3 OriginPerM => _origin;
+
+    // The unshifted solver passes q on untouched, so ordinary solves keep their bits (even the sign of a zero).
+    private Vec3 Shift(Vec3 qPerM) => _shifted ? qPerM + _origin : qPerM;
 
     public int Size => _matrix.Size;
 
@@ -32,13 +53,13 @@ internal sealed class ModeSolver
 
     public void SolveValues(Vec3 qPerM)
     {
-        _matrix.Build(qPerM, _d);
+        _matrix.Build(Shift(qPerM), _d);
         HermitianEigenSolver.Eigenvalues(_d, Size, Values);
     }
 
     public void SolveWithVectors(Vec3 qPerM)
     {
-        _matrix.Build(qPerM, _d);
+        _matrix.Build(Shift(qPerM), _d);
         HermitianEigenSolver.EigenSystem(_d, Size, Values, Vectors);
     }
 
@@ -94,7 +115,7 @@ internal sealed class ModeSolver
             ct.ThrowIfCancellationRequested();
             for (var k = 0; k < count; k++)
             {
-                q[k] = lattice.ToCartesianQ(points[k].Reduced);
+                q[k] = Shift(lattice.ToCartesianQ(points[k].Reduced));
             }
 
             _matrix.BuildMany(q.AsSpan(0, count), _batchD.AsSpan(0, count * nn));
@@ -128,7 +149,7 @@ internal sealed class ModeSolver
             var count = Math.Min(BatchSize, qPerM.Count - first);
             for (var k = 0; k < count; k++)
             {
-                _matrix.Build(qPerM[first + k], _batchD.AsSpan(k * nn, nn));
+                _matrix.Build(Shift(qPerM[first + k]), _batchD.AsSpan(k * nn, nn));
             }
 
             HermitianEigenSolver.SolveBatch(_batchD.AsSpan(0, count * nn), n, count, _batchValues.AsSpan(0, count * n),

@@ -242,7 +242,8 @@ internal sealed class RayDispersion
     /// one-matrix solver keeps their tiny eigenvalues to 1e-16 of the largest), the nodes of all rays
     /// through the batched eigen-solver.
     /// </summary>
-    public static RayDispersion[] MeasureAll(ModeSolver solver, IReadOnlyList<CellRay> rays, double epsilonPerM, bool fractions)
+    /// <param name="outOfPlaneFirst">a flat sheet's region holding every acoustic branch: the branches in the order of their motion (<see cref="OutOfPlaneOrder"/>)</param>
+    public static RayDispersion[] MeasureAll(ModeSolver solver, IReadOnlyList<CellRay> rays, double epsilonPerM, bool fractions, bool outOfPlaneFirst = false)
     {
         var n = solver.Size;
         var acoustic = solver.Matrix.Crystal.Components;
@@ -281,19 +282,24 @@ internal sealed class RayDispersion
             }
         }
 
+        var orders = outOfPlaneFirst
+            ? OutOfPlaneOrder.Orders(solver, points, [.. rays.Select(ray => ray.Direction)], epsilonPerM, acoustic, Nodes - 1)
+            : null;
         solver.SolveList(points, fractions, (index, slot) =>
         {
             var r = index / (Nodes - 1);
             var j = (index % (Nodes - 1)) + 1;
             var rho = Math.Sqrt(NodeY[j]);
             var values = solver.BatchValues(slot);
+            var order = orders?[index];
             for (var k = 0; k < acoustic; k++)
             {
-                stable[r] &= values[k] > 0;
-                s[r][(k * Nodes) + j] = Math.Sqrt(Math.Max(values[k], 0)) / NodeScale(quadratic[r], k, rho);
+                var mode = order is null ? k : order[k];
+                stable[r] &= values[mode] > 0;
+                s[r][(k * Nodes) + j] = Math.Sqrt(Math.Max(values[mode], 0)) / NodeScale(quadratic[r], k, rho);
                 if (fractions)
                 {
-                    solver.BatchChannelFractions(slot, k, frac[r].AsSpan(((k * Nodes) + j) * n, n));
+                    solver.BatchChannelFractions(slot, mode, frac[r].AsSpan(((k * Nodes) + j) * n, n));
                 }
             }
         });

@@ -1,0 +1,92 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+
+namespace LatticeSweep.Engine.Dos;
+
+internal sealed partial class LongWaveRegions
+{
+    /// <summary>
+    /// A sheet's zero valleys away from q = 0 (<see cref="ZeroValleys"/>): each takes a box up to half as wide as branch 0's at
+    /// q = 0 (<paramref name="gammaHalf"/> cells either way; half a cell less where its centre is a cell's centre, so its
+    /// faces stay on mesh planes), narrowed until it shares no cell with q = 0's box nor another valley's, and a region of
+    /// its zero branches on rays from a solver shifted to its centre. A valley whose rays are not stable (a zero on a whole
+    /// line, a floppy model) or that cannot have a box stays with the simplices, as on main.
+    /// </summary>
+    /// <returns>The valleys' boxes (empty when none was taken).</returns>
+    private static List<ZeroValleyBox> AddZeroValleys(ModeSolver solver, BulkSample mesh, IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, int[] gammaHalf, bool fractions, List<LongWaveRegion> parts)
+    {
+        var boxes = new List<ZeroValleyBox>();
+        var lattice = solver.Matrix.Crystal.Lattice;
+        var crystal = solver.Matrix.Crystal;
+        var gamma = new ZeroValleyBox([0, 0], [2 * gammaHalf[0], 2 * gammaHalf[1]], 0);
+        foreach (var (reduced, branches) in valleys)
+        {
+            if (branches > crystal.Components || ZeroValleys.Centre2(reduced.X, mesh.M1) is not { } c1 || ZeroValleys.Centre2(reduced.Y, mesh.M2) is not { } c2)
+            {
+                continue;
+            }
+
+            int[] centre = [c1, c2];
+            int[] half = [Parity(Math.Max(1, gammaHalf[0]), c1), Parity(Math.Max(1, gammaHalf[1]), c2)];
+            while (half[0] >= 1 && half[1] >= 1 && (half[0] > mesh.M1 || half[1] > mesh.M2 || gamma.Overlaps(centre, half, mesh.M1, mesh.M2) || boxes.Exists(b => b.Overlaps(centre, half, mesh.M1, mesh.M2))))
+            {
+                half[0] -= 2;
+                half[1] -= 2;
+            }
+
+            if (half[0] < 1 || half[1] < 1)
+            {
+                continue;
+            }
+
+            // The widest box, from there down, whose rays follow the valley's branches (FitError below FollowTolerance): a
+            // valley branch that rises into the branches above it inside the box (a stiff bend's q^2 branch meeting the
+            // in-plane ones) is a sorted band with a kink, which the rays' polynomial cannot follow. The narrowest box is
+            // kept all the same (as q = 0 keeps one cell).
+            var shifted = new ModeSolver(solver.Matrix, lattice.ToCartesianQ(reduced));
+            LongWaveRegion? region = null;
+            while (half[0] >= 1 && half[1] >= 1)
+            {
+                region = Region(shifted, mesh, half, branches, fractions);
+                var last = half[0] < 3 || half[1] < 3;
+                if (region is null || last || (region.RisesAsWave && region.FitError(shifted, FollowTolerance) < FollowTolerance))
+                {
+                    break;
+                }
+
+                half[0] -= 2;
+                half[1] -= 2;
+            }
+
+            if (region is null)
+            {
+                continue;
+            }
+
+            var box = new ZeroValleyBox(centre, half, branches);
+            parts.Add(region);
+            boxes.Add(box);
+        }
+
+        return boxes;
+    }
+
+    /// <summary>The region of a valley's <paramref name="branches"/> zero branches in a box of <paramref name="half"/> half mesh steps either way, on rays of the shifted solver.</summary>
+    private static LongWaveRegion? Region(ModeSolver shifted, BulkSample mesh, int[] half, int branches, bool fractions)
+    {
+        var crystal = shifted.Matrix.Crystal;
+        var lattice = crystal.Lattice;
+
+        // The box's edges: half[i] half steps either way, i.e. half[i] / M_i of reciprocal vector i across.
+        Vec3[] edges = [half[0] / (double)mesh.M1 * lattice.ReciprocalVector(0), half[1] / (double)mesh.M2 * lattice.ReciprocalVector(1)];
+        var rays = CentredCellRays.Build(2, edges, LongWaveFaceRule.Choose(crystal, edges));
+        var epsilon = Math.Min(1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice), 1e-2 * rays.ShortestRayM);
+        var share = half[0] / (double)mesh.M1 * (half[1] / (double)mesh.M2);
+        return LongWaveRegion.Build(shifted, share, new LongWaveBox(0, 0, 0, crystal.Components), 0, branches, fractions, (rays, epsilon));
+    }
+
+    /// <summary>The largest half-width up to <paramref name="half2"/> whose faces lie on mesh planes about <paramref name="centre2"/> (centre minus half even).</summary>
+    private static int Parity(int half2, int centre2) => ((centre2 - half2) % 2 == 0) ? half2 : half2 - 1;
+}

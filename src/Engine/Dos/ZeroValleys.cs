@@ -1,0 +1,94 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Samples;
+using LatticeSweep.Engine.Spectrum;
+
+namespace LatticeSweep.Engine.Dos;
+
+/// <summary>
+/// A sheet's points away from q = 0 where the lowest branches reach zero frequency: the zone-edge and zone-corner points
+/// (reduced coordinates 0 and 1/2) and the points of reduced coordinates 1/3 and 2/3 (a triangular or hexagonal lattice's
+/// zone corners), each solved once. A point counts when its lowest eigenvalues are zero to the eigen-solver's round-off
+/// (<see cref="ZeroShare"/> of the largest).
+/// <para>
+/// Why: a flexural bend on a square sheet's second shell alone (the diagonals) leaves the two checkerboard sublattices'
+/// out-of-plane motions uncoupled, so omega_z(M + q) = omega_z(q) and the zone corner M is a second plate valley with
+/// omega ~ q^2; such a valley carries as many states near zero as q = 0 does, and the simplices' linear triangles hold
+/// almost none of them (the low-temperature Cv came out half the true value; docs/outside-checks.md, Round 28 (flexural
+/// zero valleys)). Each valley gets the long-wave rays q = 0 gets (<see cref="LongWaveRegions"/>), from a solver shifted to
+/// its centre. Chains and 3D crystals are not searched.
+/// </para>
+/// </summary>
+internal static class ZeroValleys
+{
+    /// <summary>An eigenvalue at most this share of the point's largest is zero (frequency 1e-6 of the top: round-off is 1e-16).</summary>
+    internal const double ZeroShare = 1e-12;
+
+    private static readonly double[] Coordinates = [0, 1.0 / 3, 0.5, 2.0 / 3];
+
+    /// <summary>The valleys of a sheet: reduced wave vector and the number of branches at zero there; empty in 1D and 3D.</summary>
+    public static IReadOnlyList<(Vec3 Reduced, int Branches)> Find(ModeSolver solver)
+    {
+        var lattice = solver.Matrix.Crystal.Lattice;
+        var found = new List<(Vec3, int)>();
+        if (lattice.Dimension != 2)
+        {
+            return found;
+        }
+
+        foreach (var a in Coordinates)
+        {
+            foreach (var b in Coordinates)
+            {
+                if (a == 0 && b == 0)
+                {
+                    continue;
+                }
+
+                var reduced = new Vec3(a, b, 0);
+                solver.SolveValues(lattice.ToCartesianQ(reduced));
+                var largest = solver.Values[solver.Size - 1];
+                var zeros = 0;
+                while (largest > 0 && zeros < solver.Size && Math.Abs(solver.Values[zeros]) <= ZeroShare * largest)
+                {
+                    zeros++;
+                }
+
+                if (zeros > 0 && zeros < solver.Size)
+                {
+                    found.Add((reduced, zeros));
+                }
+            }
+        }
+
+        return found;
+    }
+
+    /// <summary>The doubled offset (<see cref="ZeroValleyBox"/>) of a reduced coordinate on a mesh of <paramref name="m"/>, or null when it lies neither on a mesh point nor at a cell's centre.</summary>
+    internal static int? Centre2(double reduced, int m)
+    {
+        var doubled = 2 * reduced * m;
+        var nearest = Math.Round(doubled);
+        return Math.Abs(doubled - nearest) < 1e-9 ? (int)nearest % (2 * m) : null;
+    }
+
+    /// <summary>
+    /// The mesh points that are valley centres, with the number of zero branches there: their zeros are a valley's floor,
+    /// not a floppy direction (<see cref="Solving.BulkSolver"/> counts them as it counts the rigid translations).
+    /// </summary>
+    public static Dictionary<long, int> MeshCentres(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh, PeriodicGrid grid)
+    {
+        var centres = new Dictionary<long, int>();
+        foreach (var (reduced, branches) in valleys)
+        {
+            if (Centre2(reduced.X, mesh.M1) is { } c1 && Centre2(reduced.Y, mesh.M2) is { } c2 && c1 % 2 == 0 && c2 % 2 == 0)
+            {
+                var i1 = ((c1 / 2) + (mesh.M1 / 2)) % mesh.M1;
+                var i2 = ((c2 / 2) + (mesh.M2 / 2)) % mesh.M2;
+                centres[grid.Index(i1, i2, 0)] = branches;
+            }
+        }
+
+        return centres;
+    }
+}
