@@ -1,3 +1,4 @@
+using System.Buffers;
 using Parquet;
 using Parquet.Schema;
 
@@ -110,7 +111,7 @@ internal sealed class ParquetTableWriter : IAsyncDisposable
         switch (values)
         {
             case string?[] text when def.Type == ColumnType.Text:
-                await group.WriteAsync(field, new ArraySegment<string>(text!, start, count)).ConfigureAwait(false);
+                await WriteTextAsync(group, field, text, start, count, ct).ConfigureAwait(false);
                 break;
             case double?[] d when def.Type == ColumnType.Double:
                 RefuseNaN(table, def.Name, d, start, count, ids);
@@ -130,6 +131,44 @@ internal sealed class ParquetTableWriter : IAsyncDisposable
                 break;
             default:
                 throw new InvalidOperationException($"table {table}, column {def.Name}: {values.GetType().Name} values for a {def.Type} column");
+        }
+    }
+
+    /// <summary>
+    /// Writes text cells as Parquet.Net's own character cells: the values that are there, packed, and a definition level a
+    /// row (1 for a value, 0 for null), from two pooled arrays. Its overload for strings enumerates them as a collection and
+    /// makes each cell through interface calls (a scratch writer of a `dos/`-like row group: ~20-40 ns of its ~120-180 ns a
+    /// text cell at load 20-28; the merge's `write column` stage of 2,000 small points ~15-20 % less, bench/README, round 28).
+    /// The encoder after that step is the same, so the file's bytes are too (<c>ParquetTableWriterTests</c>). Nullable character
+    /// cells (<c>ReadOnlyMemory&lt;char&gt;?</c>) would be shorter to write, but Parquet.Net 6.1 writes their nulls as empty text.
+    /// The arrays are cleared when given back.
+    /// </summary>
+    private static async Task WriteTextAsync(ParquetRowGroupWriter group, DataField field, string?[] text, int start, int count, CancellationToken ct)
+    {
+        var values = ArrayPool<ReadOnlyMemory<char>>.Shared.Rent(Math.Max(count, 1));
+        var levels = ArrayPool<int>.Shared.Rent(Math.Max(count, 1));
+        try
+        {
+            var present = 0;
+            for (var i = 0; i < count; i++)
+            {
+                if (text[start + i] is { } value)
+                {
+                    values[present++] = value.AsMemory();
+                    levels[i] = 1;
+                }
+                else
+                {
+                    levels[i] = 0;
+                }
+            }
+
+            await group.WriteAllPartsAsync<ReadOnlyMemory<char>>(field, values.AsMemory(0, present), levels.AsMemory(0, count), null, ct).ConfigureAwait(false);
+        }
+        finally
+        {
+            ArrayPool<ReadOnlyMemory<char>>.Shared.Return(values, clearArray: true);
+            ArrayPool<int>.Shared.Return(levels);
         }
     }
 
