@@ -8,10 +8,15 @@ namespace LatticeSweep.Engine.QuasiHarmonic;
 /// <summary>
 /// F(V, T) = E_static(V) + F_vib(V, T) near the static minimum and its minimum over V at each
 /// temperature. E_static is evaluated exactly (lattice sums, analytic derivatives); F_vib, ln S_vib and
-/// ln Cv (<see cref="PositiveFit"/>), known at the solved volumes, are least-squares polynomials in y = V/V0 - 1 over a window of
-/// at most seven volumes around the first local minimum of the sampled F (quartic from six volumes, cubic from five,
-/// quadratic from four; the data are smooth, the fit only tames the ends). The minimum is searched
-/// only inside the window: it is never extrapolated. Then B_T = V F'', alpha_V = (dS/dV)_T / B_T,
+/// ln Cv (<see cref="PositiveFit"/>), known at the solved volumes, are polynomials in V over a window of at
+/// most seven volumes around the first local minimum of the sampled F. ln S and ln Cv are least-squares
+/// polynomials in y = V/V0 - 1 (quartic from six volumes, cubic from five, quadratic from four). F_vib, whose
+/// second derivative is B_T's, is the polynomial through every volume of the window
+/// (<see cref="VolumeInterpolant"/>) where it is an exact mode sum (a finite crystal: a sum of a smooth function
+/// over every eigenvalue is smooth in V, as the trace of a matrix function), and the least-squares polynomial
+/// of S's degree where it comes from a bulk mesh's density of states, whose linear simplices between sorted
+/// branches (and long-wave regions) leave kinks of F_vib(V) that an interpolant would amplify (docs/outside-checks.md,
+/// Round 28). The minimum is searched only inside the window: it is never extrapolated. Then B_T = V F'', alpha_V = (dS/dV)_T / B_T,
 /// the thermal Grueneisen parameter V (dS/dV)_T / Cv, which is exactly the Cv-weighted mean of the
 /// mode parameters -d ln omega / d ln V, and Cp = Cv + alpha_V^2 B_T V T (Wallace, Thermodynamics
 /// of Crystals, ch. 1-2; Ashcroft and Mermin, ch. 25; from memory).
@@ -27,13 +32,15 @@ internal sealed class FreeEnergySurface
     private readonly double _staticScale;
     private readonly bool _unstableBelow;
     private readonly bool _unstableAbove;
+    private readonly bool _exactModeSums;
     private readonly double[] _staticEnergies;
-    private readonly Dictionary<int, Polynomial> _projectors = [];
+    private readonly Dictionary<int, (Polynomial Fit, VolumeInterpolant? Free)> _projectors = [];
 
     /// <param name="usable">The contiguous run of usable volumes, ascending (at least four).</param>
     /// <param name="unstableBelow">A volume just below the run was solved and was unstable.</param>
     /// <param name="unstableAbove">A volume just above the run was solved and was unstable.</param>
-    public FreeEnergySurface(StaticEnergyCurve staticCurve, IReadOnlyList<VolumeSample> usable, double staticScale, double givenConstantNm, bool unstableBelow, bool unstableAbove)
+    /// <param name="exactModeSums">F_vib is an exact mode sum at every volume (a finite crystal), smooth in V: interpolated, not fitted.</param>
+    public FreeEnergySurface(StaticEnergyCurve staticCurve, IReadOnlyList<VolumeSample> usable, double staticScale, double givenConstantNm, bool unstableBelow, bool unstableAbove, bool exactModeSums)
     {
         _static = staticCurve;
         _volumes = [.. usable];
@@ -42,6 +49,7 @@ internal sealed class FreeEnergySurface
         _givenConstantNm = givenConstantNm;
         _unstableBelow = unstableBelow;
         _unstableAbove = unstableAbove;
+        _exactModeSums = exactModeSums;
 
         // The same at every temperature: evaluated once.
         _staticEnergies = [.. _volumes.Select(v => staticCurve.At(ScaleOf(v.CellMeasure)).Energy)];
@@ -81,23 +89,29 @@ internal sealed class FreeEnergySurface
         var first = Math.Clamp(lowest - size / 2, 0, _volumes.Length - size);
         var window = _volumes[first..(first + size)];
         var degree = size switch { >= 6 => 4, 5 => 3, _ => 2 };
-        // The window's volumes are the same at every temperature: its least-squares projector is made once.
-        if (!_projectors.TryGetValue(first, out var fit))
+        // The window's volumes are the same at every temperature: its projectors are made once.
+        if (!_projectors.TryGetValue(first, out var projectors))
         {
-            fit = new Polynomial(window.Select(v => v.CellMeasure / _v0 - 1).ToArray(), degree);
-            _projectors[first] = fit;
+            projectors = (new Polynomial(window.Select(v => v.CellMeasure / _v0 - 1).ToArray(), degree), _exactModeSums ? new VolumeInterpolant(window.Select(v => v.CellMeasure).ToArray()) : null);
+            _projectors[first] = projectors;
         }
 
-        var f = fit.Coefficients(window.Select(v => v.FreeEnergyJ[t]));
+        var (fit, free) = projectors;
+        var f = free is null ? fit.Coefficients(window.Select(v => v.FreeEnergyJ[t])) : free.Coefficients(window.Select(v => v.FreeEnergyJ[t]));
+
+        // F_vib and its first two derivatives in V at v, from the fit (in y) or the interpolant (in V).
+        double Vibrational(double v, int k) => free is null
+            ? Polynomial.Derivative(f, v / _v0 - 1, k) / (k switch { 0 => 1, 1 => _v0, _ => _v0 * _v0 })
+            : free.Derivative(f, v, k);
+
         var s = PositiveFit.Of(fit, window.Select(v => v.EntropyJPerK[t]));
         var c = PositiveFit.Of(fit, window.Select(v => v.HeatCapacityJPerK[t]));
 
-        // F'(V) and F''(V): the static part exact (one lattice sum gives both), the vibrational part from the fit.
+        // F'(V) and F''(V): the static part exact (one lattice sum gives both), the vibrational part from the fit or interpolant.
         (double Slope, double Curvature) Derivatives(double v)
         {
             var (first, second) = _static.VolumeDerivatives(ScaleOf(v));
-            var y = v / _v0 - 1;
-            return (first + Polynomial.Derivative(f, y, 1) / _v0, second + Polynomial.Derivative(f, y, 2) / (_v0 * _v0));
+            return (first + Vibrational(v, 1), second + Vibrational(v, 2));
         }
 
         var (lo, hi) = (window[0].CellMeasure, window[^1].CellMeasure);
@@ -154,7 +168,7 @@ internal sealed class FreeEnergySurface
         var cv = Math.Max(0, c.Value(yStar));
         var alphaV = dSdV / bulk;
         var perMol = PhysicalConstants.AvogadroPerMol / _static.AtomsPerCell;
-        var energy = _static.At(ScaleOf(vStar)).Energy + Polynomial.Derivative(f, yStar, 0);
+        var energy = _static.At(ScaleOf(vStar)).Energy + Vibrational(vStar, 0);
         var cp = cv + alphaV * alphaV * bulk * vStar * temperatureK;
         var d = Dimension;
         return (row with

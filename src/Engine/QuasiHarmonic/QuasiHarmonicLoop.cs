@@ -72,7 +72,7 @@ internal static class QuasiHarmonicLoop
         ExpansionResult result;
         while (true)
         {
-            var (outcome, sides) = Expansion(model, options, statics, curve, samples, temperatures);
+            var (outcome, sides) = Expansion(model, sample, options, statics, curve, samples, temperatures);
             result = outcome;
             var top = samples[^1].Scale / s0 - 1;
             var bottom = samples[0].Scale / s0 - 1;
@@ -175,7 +175,7 @@ internal static class QuasiHarmonicLoop
         return new VolumeSample(scale, curve.MeasureAt(scale), f, s, c, usable);
     }
 
-    private static (ExpansionResult Result, FreeEnergySurface.Side[] Sides) Expansion(CrystalModel model, SolveOptions options, StaticLatticeResult statics, StaticEnergyCurve curve, List<VolumeSample> samples, double[] temperatures)
+    private static (ExpansionResult Result, FreeEnergySurface.Side[] Sides) Expansion(CrystalModel model, Sample sample, SolveOptions options, StaticLatticeResult statics, StaticEnergyCurve curve, List<VolumeSample> samples, double[] temperatures)
     {
         // The contiguous run of usable volumes around the static minimum; the fit never crosses an unstable one.
         var centre = samples.FindIndex(v => v.Scale >= statics.EquilibriumScale * (1 - SameScale));
@@ -203,7 +203,7 @@ internal static class QuasiHarmonicLoop
         }
         else
         {
-            var surface = new FreeEnergySurface(curve, run, statics.EquilibriumScale, model.Lattice.ConstantNm, first > 0, last + 1 < samples.Count);
+            var surface = new FreeEnergySurface(curve, run, statics.EquilibriumScale, model.Lattice.ConstantNm, first > 0, last + 1 < samples.Count, exactModeSums: sample is FiniteSample);
             var minima = temperatures.Select((t, i) => surface.Minimise(i, t)).ToArray();
             rows = [.. minima.Select(m => m.Row)];
             sides = [.. minima.Select(m => m.Side)];

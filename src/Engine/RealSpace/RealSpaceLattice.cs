@@ -108,8 +108,9 @@ internal sealed class RealSpaceLattice
     public int SurfaceSites => LayerCount > 0 ? LayerSites[0] : 0;
 
     /// <summary>
-    /// The sample is cut somewhere (a free direction or a shape), so it has a surface/interior split even when
-    /// no atom lost a nearest neighbour (<see cref="LayerCount"/> 0: every atom interior). A periodic box has none.
+    /// The sample is cut somewhere (a free direction or a shape), so its atoms are searched for lost nearest
+    /// neighbours. A periodic box is not: it has no layers, and, like a cut sample where no atom lost a nearest
+    /// neighbour (<see cref="LayerCount"/> 0), every atom is interior.
     /// </summary>
     public bool IsCut { get; private set; }
 

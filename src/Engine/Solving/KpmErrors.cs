@@ -42,8 +42,9 @@ internal static class KpmErrors
             interiorSites += lattice.LayerSites[l];
         }
 
-        // A cut sample where no atom lost a nearest neighbour: every atom is interior, weighted as the basis sites' values are.
-        var allInterior = layers == 0 && lattice.IsCut;
+        // No layers (a cut sample where no atom lost a nearest neighbour, or a periodic box): every atom is interior,
+        // weighted as the basis sites' values are.
+        var allInterior = layers == 0;
 
         for (var v = 0; v < r; v++)
         {

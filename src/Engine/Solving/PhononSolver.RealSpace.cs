@@ -534,13 +534,14 @@ public static partial class PhononSolver
 
     /// <summary>
     /// Mean over directions at the reference temperature: layer 0, and the site-weighted mean of the deeper layers.
-    /// A cut sample where no atom lost a nearest neighbour (no layers) has no surface and every atom interior: the
-    /// interior is then the mean of the basis sites' values weighted by their atoms, i.e. the mean over all atoms.
+    /// A sample without layers has no surface and every atom interior: a cut sample where no atom lost a nearest
+    /// neighbour, and a periodic box (a disordered supercell), which has no cut at all. The interior is then the mean
+    /// of the basis sites' values weighted by their atoms, i.e. the mean over all atoms.
     /// </summary>
     private static (double? Surface, double? Interior) SurfaceAndInteriorMsd(RealSpaceRun run, SolveOptions options, int reference, bool stable)
     {
         var lattice = run.Lattice;
-        if (!stable || reference < 0 || (lattice.LayerCount == 0 && !lattice.IsCut))
+        if (!stable || reference < 0)
         {
             return (null, null);
         }

@@ -114,7 +114,15 @@ public sealed class DisorderTests
         Assert.Equal(0, result.Surface!.LayerCount);
         Assert.True(result.Summary.HeatCapacityJPerMolK > 0, $"Cv {result.Summary.HeatCapacityJPerMolK}");
         Assert.NotNull(result.Errors!.HeatCapacityJPerMolK);
-        Assert.Null(result.Surface.MsdInteriorNm2); // no cut: no surface/interior split, as before
+        Assert.Null(result.Surface.MsdSurfaceNm2);
+
+        // No cut: every atom interior, the mean over all atoms, within the method's statistical error of the dense solution of
+        // the same configurations (round 28; main left it empty).
+        var dense = PhononSolver.Solve(Crystals.FccCentral(), sample with { Method = RealSpaceMethod.Dense }, Options);
+        var error = result.Errors.MsdInteriorNm2!.Value;
+        Assert.True(error > 0, $"stderr {error}");
+        Assert.True(Math.Abs(result.Surface.MsdInteriorNm2!.Value - dense.Surface!.MsdInteriorNm2!.Value) < (4 * error) + (0.02 * dense.Surface.MsdInteriorNm2.Value),
+            $"kernel polynomial {result.Surface.MsdInteriorNm2} +- {error} against dense {dense.Surface.MsdInteriorNm2} nm^2");
     }
 
     [Fact]
@@ -285,5 +293,28 @@ public sealed class DisorderTests
 
         Assert.All(PhononSolver.Solve(Crystals.ScalarChain(), FiniteSample.Create(400, 1, 1), new SolveOptions { TemperaturesK = [300] }).Modes,
             m => Assert.Null(m.Configuration));
+    }
+
+    [Fact]
+    public void A_periodic_disordered_ring_reports_every_atom_interior_with_the_mean_over_all_atoms()
+    {
+        // A periodic supercell has no cut: every atom is interior. References, exact mode sums with the translation left out
+        // (common practice, no source; NumPy eigh, docs/disorder-msd-check/reference.py): a ring of 12 atoms of 20 amu,
+        // springs 10 N/m, one atom of 10 amu, 300 K: mean over the 12 atoms 4.187549046043670e-4 nm^2 (every configuration
+        // is the same ring turned); its virtual crystal (every atom 19.1667 amu) 4.177156971738190e-4. Main left both empty.
+        var sample = RealSpaceSample.Box(12, 1, 1) with
+        {
+            Disorder = new Disorder([new SiteSubstitution("A", 10.0, 1.0 / 12, 1.0)], 3, Seed: 7),
+        };
+        var result = PhononSolver.Solve(Crystals.ScalarChain(), sample, new SolveOptions { TemperaturesK = [300], ReferenceTemperatureK = 300 });
+        var s = result.Surface!;
+        Assert.Equal(0, s.LayerCount);
+        Assert.Equal(12, s.InteriorSites);
+        Assert.Null(s.MsdSurfaceNm2);
+        Approx.Equal(4.187549046043670e-4, s.MsdInteriorNm2, 1e-9, "interior = every atom, averaged over configurations");
+        Assert.True(result.Errors!.MsdInteriorNm2 is { } error && error < 1e-12, $"configurations are the same ring turned: stderr {result.Errors.MsdInteriorNm2}");
+        Assert.Null(result.Errors.MsdSurfaceNm2);
+        Assert.Null(result.Ordered!.Surface!.MsdSurfaceNm2);
+        Approx.Equal(4.177156971738190e-4, result.Ordered.Surface.MsdInteriorNm2, 1e-9, "virtual crystal: interior = every atom");
     }
 }
