@@ -51,23 +51,59 @@ internal static class MemoryRelease
     /// each kept its free pages: a 10^6-point run's native free space grew from 8 to ~25 MB while solving,
     /// and its peak while solving was 189 instead of 209 MB with <c>MALLOC_ARENA_MAX=2</c>, at the same CPU
     /// (bench/README, rounds 19 and 20). Set at start (threads already running keep their arenas); the
-    /// environment variable, when given, wins. Not glibc: nothing happens.
+    /// environment variable, when given, wins. Also fixes the trim and mmap thresholds (<see cref="FixReturnThresholds"/>),
+    /// which reach the arenas made before. Not glibc: nothing happens.
     /// </summary>
     public static void LimitNativeArenas()
     {
-        if (Volatile.Read(ref _noTrim) || Environment.GetEnvironmentVariable("MALLOC_ARENA_MAX") is not null)
+        if (Volatile.Read(ref _noTrim))
         {
             return;
         }
 
         try
         {
-            _ = MallOpt(ArenaMaxOption, 2);
+            if (Environment.GetEnvironmentVariable("MALLOC_ARENA_MAX") is null)
+            {
+                _ = MallOpt(ArenaMaxOption, 2);
+            }
+
+            FixReturnThresholds();
         }
         catch (Exception ex) when (ex is DllNotFoundException or EntryPointNotFoundException)
         {
             Volatile.Write(ref _noTrim, true);
         }
+    }
+
+    /// <summary>glibc's <c>M_TRIM_THRESHOLD</c> and <c>M_MMAP_THRESHOLD</c> (malloc.h).</summary>
+    private const int TrimThresholdOption = -1, MmapThresholdOption = -3;
+
+    /// <summary>
+    /// The threshold both are fixed at: glibc's own starting value (128 KiB), which it otherwise raises for good each time a
+    /// block it had mapped on its own is freed (up to 32 MiB for mapping, twice that for trimming). Fixed, an arena hands the
+    /// free pages at its top back once they pass 128 KiB, and large blocks stay mapped on their own and go back when freed.
+    /// </summary>
+    internal const int ReturnThresholdBytes = 128 << 10;
+
+    /// <summary>
+    /// Fixes glibc's trim and mmap thresholds at <see cref="ReturnThresholdBytes"/> for every arena, those of the threads
+    /// .NET started before <c>Main</c> included (unlike the arena cap): with the thresholds raised, the arenas kept freed
+    /// pages through a 10^6-point solve (arena bytes ~13 MB at 10^4 points, 24-30 MB at 10^6; bench/README, round 28 (grid
+    /// memory)). Either one set in the environment (<c>MALLOC_TRIM_THRESHOLD_</c>, <c>MALLOC_MMAP_THRESHOLD_</c>, or
+    /// <c>GLIBC_TUNABLES</c>) leaves both as the environment says.
+    /// </summary>
+    private static void FixReturnThresholds()
+    {
+        if (Environment.GetEnvironmentVariable("MALLOC_TRIM_THRESHOLD_") is not null
+            || Environment.GetEnvironmentVariable("MALLOC_MMAP_THRESHOLD_") is not null
+            || Environment.GetEnvironmentVariable("GLIBC_TUNABLES") is not null)
+        {
+            return;
+        }
+
+        _ = MallOpt(MmapThresholdOption, ReturnThresholdBytes);
+        _ = MallOpt(TrimThresholdOption, ReturnThresholdBytes);
     }
 
     [DllImport("libc", EntryPoint = "mallopt")]

@@ -49,4 +49,23 @@ public sealed class PlanOrderSelectionTests
         // Along the trade-off (both larger, both smaller) the front is long.
         Assert.True(sizes[0] > 5 && sizes[3] > 5, string.Join(", ", sizes));
     }
+
+    [Fact]
+    public void The_front_over_rows_keeps_every_tie_and_duplicate_at_the_corners_of_the_box_it_sorts()
+    {
+        // Invented points: several rows share the best x and the best y with other numbers beside, the corners are
+        // repeated exactly, and infinities and empty cells are never on the front. OfRows sorts only the rows inside the
+        // box of the two one-number bests; the front must be the one Of finds over every row.
+        double[] x = [9, 9, 9, 1, 1, 5, 5, 9, 3, 7, double.NaN, double.PositiveInfinity, 0, 8, 1, 6, 2, 9];
+        double[] y = [2, 4, 4, 8, 8, 5, 5, 1, 7, 3, 9, 9, double.NegativeInfinity, 0, 6, 4.5, 7.5, 4];
+        var rows = Enumerable.Range(0, x.Length).ToList();
+        foreach (var (xLarger, yLarger) in new[] { (true, true), (false, true), (true, false), (false, false) })
+        {
+            Assert.Equal(ParetoFront.Of(x, y, xLarger, yLarger), ParetoFront.OfRows(x, y, rows, xLarger, yLarger));
+        }
+
+        // Both larger, worked out by hand: (9, 4) three times, (6, 4.5), (5, 5) twice, (3, 7), (2, 7.5), (1, 8) twice; (9, 2),
+        // (9, 1), (8, 0), (7, 3) and (1, 6) are beaten, the infinite and empty cells left out.
+        Assert.Equal([1, 2, 17, 15, 5, 6, 8, 16, 3, 4], ParetoFront.OfRows(x, y, rows, true, true));
+    }
 }
