@@ -60,6 +60,11 @@ internal sealed partial class LongWaveRegions
             var (from, to) = groups[g];
             var box = LongWaveRegion.Narrowed(half, d, narrowings[to - 1]);
             var part = LongWaveRegion.Build(solver, mesh, box, from, to, fractions);
+            if (part is not null && d == 1)
+            {
+                part = FollowedChainRegion(solver, mesh, box, part, fractions);
+            }
+
             if (part is null)
             {
                 return null;
