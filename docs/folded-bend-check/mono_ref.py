@@ -9,13 +9,15 @@
 # Heat capacity: Einstein functions summed by Gauss-Legendre over q in [0, pi/a], panels graded toward 0.
 import numpy as np, sys
 kB=1.380649e-23; hbar=1.054571817e-34; amu=1.66053906660e-27; R=8.314462618
-m=float(sys.argv[1]) if len(sys.argv)>1 else 20.0
-L,T,k=10.0,0.2,2.0
+# usage: mono_ref.py [T_N_PER_M]  (default 0.2; 0 makes the transverse branch a pure q^2 branch)
+m=20.0
+L,k=10.0,2.0
+T=float(sys.argv[1]) if len(sys.argv)>1 else 0.2
 m*=amu
 def cv_mode(w,t):
     x=hbar*w/(kB*t); 
     with np.errstate(over='ignore'):
-        e=np.exp(-x); return np.where(x>700,0.0,x*x*e/(1-e)**2)
+        xx=np.clip(x,1e-300,700); return np.where(x>700,0.0,np.exp(-xx)*(xx/np.expm1(-xx))**2)
 xg,wg=np.polynomial.legendre.leggauss(64)
 edges=np.concatenate([[0],np.geomspace(1e-9,1,400)])*np.pi  # qa in [0, pi]
 def integ(f):
@@ -30,10 +32,14 @@ def bend(x):
         g=(np.exp(1j*x*p1)-1)/abs(p1)-e*(np.exp(1j*x*p2)-1)/abs(p2)
         tot=tot+k*abs(p1)*abs(p2)*np.abs(g)**2
     return tot
-print('# fmax_T THz', np.sqrt((4*T+bend(np.pi))/m)/2/np.pi/1e12, 'beta/c^2 a^2 (q^4 over q^2 coefficient)', (bend(1e-3)/1e-12)/T)
+def closed(x):   # the pairs summed: 8 k (1 - cos x)^2 (3 + 2 cos x), written with sin^2(x/2) (no cancellation near 0)
+    s2=np.sin(x/2)**2
+    return 32*k*s2*s2*(3+2*np.cos(x))
+xs=np.linspace(0.05,np.pi,50); assert np.allclose(bend(xs),closed(xs),rtol=1e-9)
+print('# transverse frequency at the zone boundary (THz)', np.sqrt((4*T+bend(np.pi))/m)/2/np.pi/1e12, 'beta/c^2 a^2 (q^4 over q^2 coefficient)', (closed(1e-3)/1e-12)/T if T else float('inf'))
 for t in [0.05,0.1,0.2,0.5,1,2,5,10,20]:
     def f(x):
         s2=np.sin(x/2)**2
-        wT=np.sqrt((4*T*s2+bend(x))/m); wL=np.sqrt(4*L*s2/m)
+        wT=np.sqrt((4*T*s2+closed(x))/m); wL=np.sqrt(4*L*s2/m)
         return 2*cv_mode(wT,t)+cv_mode(wL,t)
     print(t, R*integ(f))
