@@ -107,6 +107,9 @@ internal sealed class LongWaveRegion
     /// </summary>
     public bool RisesAsWave { get; private init; }
 
+    /// <summary>Whether some ray-branch of the region stiffens along its ray (<see cref="RayDispersion.IsSquared"/>: a folded angle bend's q^4 term).</summary>
+    internal bool Stiffens => _rays.Any(ray => Enumerable.Range(_from, _to - _from).Any(ray.IsSquared));
+
     /// <summary>omega_c (rad/s): below it the thermal sums take the rays' smooth density directly.</summary>
     public double OmegaSplit { get; }
 

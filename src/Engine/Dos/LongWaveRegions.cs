@@ -62,6 +62,11 @@ internal sealed partial class LongWaveRegions
             var (from, to) = groups[g];
             var box = LongWaveRegion.Narrowed(half, d, narrowings[to - 1]);
             var part = LongWaveRegion.Build(solver, mesh, box, from, to, fractions);
+            if (part is not null && part.Stiffens)
+            {
+                part = FollowedStiffeningRegion(solver, mesh, box, part, fractions);
+            }
+
             if (part is null)
             {
                 return null;
@@ -78,7 +83,7 @@ internal sealed partial class LongWaveRegions
             parts.Add(part);
             for (var k = from; k < to; k++)
             {
-                widths[k] = box;
+                widths[k] = [part.Box.K1, part.Box.K2, part.Box.K3];
             }
         }
 

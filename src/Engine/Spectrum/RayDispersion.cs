@@ -22,6 +22,16 @@ namespace LatticeSweep.Engine.Spectrum;
 /// Such a branch is told apart by how its eigenvalue grows from the small wave vector e to 2e: by 4
 /// for a cone, by 16 for omega ~ q^2 (<see cref="LongWaveSlope"/>).
 /// </para>
+/// <para>
+/// A branch that stiffens along the ray (its node values rise above <see cref="StiffeningShare"/> of the
+/// long-wave one; cones only) is followed through the square of the node values instead: omega = rho sqrt(P_k(y)),
+/// P_k the polynomial through s^2 = lambda / rho^2. Why: a bend
+/// that adds a q^4 term large against c^2 q^2 (a folded angle bend: omega^2 = c^2 q^2 + beta q^4 with
+/// beta / c^2 up to 100 a^2, <see cref="StiffeningBranches"/>) makes s = c sqrt(1 + (beta / c^2) q^2), whose branch
+/// point at q^2 = -c^2 / beta sits next to y = 0, so no quintic in y follows it (a chain's heat capacity
+/// came out 1-3 % high at 0.05-2 K on every mesh), while s^2 = lambda / rho^2 is as smooth as the
+/// dynamical matrix. Branches that do not stiffen keep the fit of s and their bits.
+/// </para>
 /// </summary>
 internal sealed class RayDispersion
 {
@@ -47,11 +57,13 @@ internal sealed class RayDispersion
     private readonly double[]? _fractions;        // [(k * 4 + j) * channels + c]
     private readonly double[]? _velocityCoefficients; // [(k * 4 + p) * 3 + axis]
     private readonly bool[]? _quadratic;          // [k]: omega_k = rho^2 t_k(y) (no linear slope); null when none is
+    private readonly bool[]? _squared;            // [k]: the polynomial is of s_k^2, not s_k (StiffeningBranches: cones only); null when none is
     private readonly int _channels;
 
-    private RayDispersion(CellRay ray, int branches, int channels, double[] coefficients, double[]? fractions, double[]? velocityCoefficients, bool[]? quadratic, bool stable)
+    private RayDispersion(CellRay ray, int branches, int channels, double[] coefficients, double[]? fractions, double[]? velocityCoefficients, bool[]? quadratic, bool[]? squared, bool stable)
     {
         _quadratic = quadratic;
+        _squared = squared;
         Ray = ray;
         Branches = branches;
         _channels = channels;
@@ -315,9 +327,34 @@ internal sealed class RayDispersion
 
     private static RayDispersion FromNodes(CellRay ray, int acoustic, int n, double[] s, double[]? frac, double[]? velocityNodes, bool[]? quadratic, bool stable)
     {
+        var squared = StiffeningBranches(s, acoustic, quadratic);
         var coefficients = new double[acoustic * Nodes];
+        Span<double> square = stackalloc double[Nodes];
         for (var k = 0; k < acoustic; k++)
         {
+            if (squared is not null && squared[k])
+            {
+                if (velocityNodes is not null)
+                {
+                    AlongRayAtZero(ray, s[k * Nodes], velocityNodes.AsSpan(k * Nodes * 3, 3));
+                }
+
+                for (var j = 0; j < Nodes; j++)
+                {
+                    var value = s[(k * Nodes) + j];
+                    square[j] = value * value;
+
+                    // v s is (1/2) d(omega^2)/dq over rho: even in q, a polynomial in y.
+                    for (var a = 0; velocityNodes is not null && a < 3; a++)
+                    {
+                        velocityNodes[(((k * Nodes) + j) * 3) + a] *= value;
+                    }
+                }
+
+                Fit(square, coefficients.AsSpan(k * Nodes, Nodes));
+                continue;
+            }
+
             Fit(s.AsSpan(k * Nodes, Nodes), coefficients.AsSpan(k * Nodes, Nodes));
         }
 
@@ -345,18 +382,84 @@ internal sealed class RayDispersion
             }
         }
 
-        return new RayDispersion(ray, acoustic, n, coefficients, frac, velocityCoefficients, quadratic, stable);
+        return new RayDispersion(ray, acoustic, n, coefficients, frac, velocityCoefficients, quadratic, squared, stable);
     }
 
-    /// <summary>The coefficient c_1 of s_k(y) = c_0 + c_1 y + ... (or of t_k(y) for a q^2 branch; rad/s): the leading dispersion.</summary>
-    public double Curvature(int k) => _coefficients[(k * Nodes) + 1];
+    /// <summary>
+    /// A node value above this share of the long-wave one marks a branch that stiffens along the ray (see the
+    /// class remarks). For s = c sqrt(1 + A y) the fit of s is within about 2e-6 up to this share (A = 0.56: the
+    /// branch point's Bernstein ellipse, own estimate) and ordinary cones, which soften along a ray, stay below it.
+    /// </summary>
+    public const double StiffeningShare = 1.25;
+
+    /// <summary>
+    /// The cones whose node values rise above <see cref="StiffeningShare"/> of their long-wave node, or null when none does.
+    /// q^2 branches (a sheet's flexural branch) keep the fit of t = omega / rho^2: the random-case audit's flexural sheets
+    /// (hexagonal 10 x 10, square 8 x 8) have a t that rises so, and the squared fit with the narrowed box took them from
+    /// 1e-4 to 2e-2 off at 35-40 K (docs/outside-checks.md, Round 28 (folded angle bends at long waves)).
+    /// </summary>
+    private static bool[]? StiffeningBranches(double[] s, int acoustic, bool[]? quadratic)
+    {
+        bool[]? squared = null;
+        for (var k = 0; k < acoustic; k++)
+        {
+            if (quadratic is not null && quadratic[k])
+            {
+                continue;
+            }
+
+            var first = s[k * Nodes];
+            for (var j = 1; j < Nodes; j++)
+            {
+                if (first > 0 && s[(k * Nodes) + j] > StiffeningShare * first)
+                {
+                    squared ??= new bool[acoustic];
+                    squared[k] = true;
+                    break;
+                }
+            }
+        }
+
+        return squared;
+    }
+
+    /// <summary>
+    /// A cone's group velocity at q = 0 from the one measured at the small wave vector e: scaled so that its component
+    /// along the ray is the long-wave speed s_0 / L (for omega = c(u) |q|, v . u = c: Euler's theorem on a function of
+    /// degree 1). Why: a stiffening branch's velocity grows by 2 A y_e from q = 0 to e (A y = (beta / c^2) q^2), 0.8 % on an
+    /// invented chain with a folded bend, and the node stands for q = 0.
+    /// </summary>
+    private static void AlongRayAtZero(CellRay ray, double slope, Span<double> velocity)
+    {
+        var u = ray.Direction;
+        var along = (velocity[0] * u.X) + (velocity[1] * u.Y) + (velocity[2] * u.Z);
+        if (!(along > 0))
+        {
+            return;
+        }
+
+        var scale = slope / ray.LengthPerM / along;
+        for (var a = 0; a < 3; a++)
+        {
+            velocity[a] *= scale;
+        }
+    }
+
+    /// <summary>Whether branch k is followed through the square of its node values (it stiffens along the ray).</summary>
+    public bool IsSquared(int k) => _squared is not null && _squared[k];
+
+    /// <summary>
+    /// The coefficient c_1 of s_k(y) = c_0 + c_1 y + ... (or of t_k(y) for a q^2 branch; rad/s): the leading dispersion.
+    /// For a squared branch, s = sqrt(P_0 + P_1 y + ...), so c_1 = P_1 / (2 sqrt(P_0)).
+    /// </summary>
+    public double Curvature(int k) => IsSquared(k) ? _coefficients[(k * Nodes) + 1] / (2 * Math.Sqrt(_coefficients[k * Nodes])) : _coefficients[(k * Nodes) + 1];
 
     /// <summary>
     /// The long-wave coefficient c_0 (rad/s): for a cone the slope d omega / d rho at rho = 0, the sound
     /// speed along the ray times its length; for a q^2 branch (<see cref="IsQuadratic"/>) omega / rho^2 at
     /// rho = 0, the curvature kappa times the length squared.
     /// </summary>
-    public double Slope(int k) => _coefficients[k * Nodes];
+    public double Slope(int k) => IsSquared(k) ? Math.Sqrt(_coefficients[k * Nodes]) : _coefficients[k * Nodes];
 
     /// <summary>Whether branch k has no linear slope on this ray and is followed as omega = rho^2 t_k(y).</summary>
     public bool IsQuadratic(int k) => _quadratic is not null && _quadratic[k];
@@ -383,6 +486,11 @@ internal sealed class RayDispersion
         sum = c[at + 2] + (y * sum);
         sum = c[at + 1] + (y * sum);
         sum = c[at] + (y * sum);
+        if (_squared is not null && _squared[k])
+        {
+            sum = Math.Sqrt(Math.Max(sum, 0.0));
+        }
+
         return _quadratic is not null && _quadratic[k] ? y * sum : rho * sum;
     }
 
@@ -394,6 +502,11 @@ internal sealed class RayDispersion
         var c = _coefficients;
         var at = k * Nodes;
         var y = rho * rho;
+        if (_squared is not null && _squared[k])
+        {
+            return SquaredDerivative(k, rho);
+        }
+
         if (_quadratic is not null && _quadratic[k])
         {
             var even = 12.0 * c[at + 5];
@@ -414,7 +527,24 @@ internal sealed class RayDispersion
         return sum;
     }
 
-    /// <summary>sum_p>0 |c_p| / c_0: a bound on how fast the dispersion departs from linear per unit y.</summary>
+    /// <summary>d omega_k / d rho of a squared branch, omega = rho sqrt(P(y)): (P + y P') / sqrt(P), with P' = dP/dy.</summary>
+    private double SquaredDerivative(int k, double rho)
+    {
+        var c = _coefficients;
+        var at = k * Nodes;
+        var y = rho * rho;
+        double p = 0, dp = 0;
+        for (var i = Nodes - 1; i >= 0; i--)
+        {
+            dp = p + (y * dp);
+            p = c[at + i] + (y * p);
+        }
+
+        p = Math.Max(p, 1e-300);
+        return (p + (y * dp)) / Math.Sqrt(p);
+    }
+
+    /// <summary>sum_p>0 |c_p| / c_0: a bound on how fast the dispersion departs from linear per unit y (of s^2 for a squared branch: s departs half as fast, so it bounds that too).</summary>
     public double DispersionScale(int k)
     {
         var c = _coefficients.AsSpan(k * Nodes, Nodes);
@@ -455,6 +585,12 @@ internal sealed class RayDispersion
         var v = _velocityCoefficients ?? throw new InvalidOperationException("velocities were not measured on this ray");
         var y = rho * rho;
         var factor = IsQuadratic(k) ? rho : 1.0;
+        if (IsSquared(k))
+        {
+            // The polynomial is of v s: divide by s at rho.
+            factor /= Math.Sqrt(Math.Max(SquaredValue(k, rho * rho), 1e-300));
+        }
+
         double Axis(int a)
         {
             var sum = v[(((k * Nodes) + Nodes - 1) * 3) + a];
@@ -467,6 +603,18 @@ internal sealed class RayDispersion
         }
 
         return factor == 1.0 ? new Vec3(Axis(0), Axis(1), Axis(2)) : new Vec3(factor * Axis(0), factor * Axis(1), factor * Axis(2));
+    }
+
+    /// <summary>P_k(y) of a squared branch (s^2 or t^2).</summary>
+    private double SquaredValue(int k, double y)
+    {
+        var sum = 0.0;
+        for (var p = Nodes - 1; p >= 0; p--)
+        {
+            sum = _coefficients[(k * Nodes) + p] + (y * sum);
+        }
+
+        return sum;
     }
 
     /// <summary>
