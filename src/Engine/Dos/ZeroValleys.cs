@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.QPoints;
 using LatticeSweep.Engine.Samples;
@@ -71,6 +72,45 @@ internal static class ZeroValleys
         var nearest = Math.Round(doubled);
         return Math.Abs(doubled - nearest) < 1e-9 ? (int)nearest % (2 * m) : null;
     }
+
+    /// <summary>
+    /// The problem with a mesh that leaves a valley neither on a mesh point nor at a cell's corner (a triangular sheet's zone
+    /// corners K, reduced coordinates 1/3 and 2/3, on a mesh not divisible by 3), or null. Such a valley stays with the
+    /// simplices, which hold almost none of its states near zero: the heat capacity below a few kelvin came out a third of
+    /// the true value with nothing in the results to say so, so the point is refused instead (docs/outside-checks.md, Round 28
+    /// (zero valleys in conductivity)).
+    /// </summary>
+    public static ModelProblem? OffMeshProblem(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh)
+    {
+        int[] counts = [mesh.M1, mesh.M2];
+        foreach (var (reduced, _) in valleys)
+        {
+            double[] at = [reduced.X, reduced.Y];
+            for (var axis = 0; axis < 2; axis++)
+            {
+                if (Centre2(at[axis], counts[axis]) is null)
+                {
+                    var step = (int)Math.Round(1 / Math.Min(at[axis], 1 - at[axis]));
+                    return new ModelProblem(ModelProblemKind.OutOfRange, $"sample.mesh[{axis}]",
+                        $"the model's lowest branch reaches zero frequency at reduced wave vector ({Show(reduced.X)}, {Show(reduced.Y)}) as well as at q = 0 "
+                        + $"(a zero valley, e.g. a flexural bend on one outer shell alone); a mesh of {counts[axis]} puts it neither on a mesh point nor at a cell's corner, "
+                        + $"which leaves its low-temperature heat carriers out (the heat capacity below a few kelvin a fraction of the true value). Use a multiple of {step} "
+                        + $"(e.g. {step * (int)Math.Ceiling(counts[axis] / (double)step)} or {step * (int)Math.Floor(counts[axis] / (double)step)})");
+                }
+            }
+        }
+
+        return null;
+    }
+
+    private static string Show(double reduced) => reduced switch
+    {
+        0 => "0",
+        0.5 => "1/2",
+        _ when Math.Abs(reduced - (1.0 / 3)) < 1e-12 => "1/3",
+        _ when Math.Abs(reduced - (2.0 / 3)) < 1e-12 => "2/3",
+        _ => reduced.ToString("G6", System.Globalization.CultureInfo.InvariantCulture),
+    };
 
     /// <summary>
     /// The mesh points that are valley centres, with the number of zero branches there: their zeros are a valley's floor,
