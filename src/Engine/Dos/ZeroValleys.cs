@@ -93,7 +93,7 @@ internal static class ZeroValleys
                     var step = (int)Math.Round(1 / Math.Min(at[axis], 1 - at[axis]));
                     return new ModelProblem(ModelProblemKind.OutOfRange, $"sample.mesh[{axis}]",
                         $"the model's lowest branch reaches zero frequency at reduced wave vector ({Show(reduced.X)}, {Show(reduced.Y)}) as well as at q = 0 "
-                        + $"(a zero valley, e.g. a flexural bend on one outer shell alone); a mesh of {counts[axis]} puts it neither on a mesh point nor at a cell's corner, "
+                        + $"(a zero valley, e.g. a flexural bend on one outer shell alone); a mesh of {counts[axis]} puts it neither on a mesh point nor midway between two, "
                         + $"which leaves its low-temperature heat carriers out (the heat capacity below a few kelvin a fraction of the true value). Use a multiple of {step} "
                         + $"(e.g. {step * (int)Math.Ceiling(counts[axis] / (double)step)} or {step * (int)Math.Floor(counts[axis] / (double)step)})");
                 }
