@@ -116,15 +116,19 @@ internal static class ZeroValleys
     /// The mesh points that are valley centres, with the number of zero branches there: their zeros are a valley's floor,
     /// not a floppy direction (<see cref="Solving.BulkSolver"/> counts them as it counts the rigid translations).
     /// </summary>
-    public static Dictionary<long, int> MeshCentres(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh, PeriodicGrid grid)
+    public static Dictionary<long, int> MeshCentres(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh, PeriodicGrid grid) =>
+        MeshCentres(valleys, mesh.M1, mesh.M2, grid);
+
+    /// <summary>As above on an m1 x m2 grid of wave vectors (a bulk mesh or a periodic finite sheet's own wave vectors).</summary>
+    public static Dictionary<long, int> MeshCentres(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, int m1, int m2, PeriodicGrid grid)
     {
         var centres = new Dictionary<long, int>();
         foreach (var (reduced, branches) in valleys)
         {
-            if (Centre2(reduced.X, mesh.M1) is { } c1 && Centre2(reduced.Y, mesh.M2) is { } c2 && c1 % 2 == 0 && c2 % 2 == 0)
+            if (Centre2(reduced.X, m1) is { } c1 && Centre2(reduced.Y, m2) is { } c2 && c1 % 2 == 0 && c2 % 2 == 0)
             {
-                var i1 = ((c1 / 2) + (mesh.M1 / 2)) % mesh.M1;
-                var i2 = ((c2 / 2) + (mesh.M2 / 2)) % mesh.M2;
+                var i1 = ((c1 / 2) + (m1 / 2)) % m1;
+                var i2 = ((c2 / 2) + (m2 / 2)) % m2;
                 centres[grid.Index(i1, i2, 0)] = branches;
             }
         }
