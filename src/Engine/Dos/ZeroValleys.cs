@@ -80,11 +80,16 @@ internal static class ZeroValleys
     /// the true value with nothing in the results to say so, so the point is refused instead (docs/outside-checks.md, Round 28
     /// (zero valleys in conductivity)).
     /// </summary>
-    public static ModelProblem? OffMeshProblem(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh)
+    public static ModelProblem? OffMeshProblem(ModeSolver solver, IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh)
     {
         int[] counts = [mesh.M1, mesh.M2];
-        foreach (var (reduced, _) in valleys)
+        foreach (var (reduced, branches) in valleys)
         {
+            if (!IsPointValley(solver, reduced, branches))
+            {
+                continue; // zero on whole lines (a floppy model: a flat sheet's out-of-plane motion with no bend), flagged as before
+            }
+
             double[] at = [reduced.X, reduced.Y];
             for (var axis = 0; axis < 2; axis++)
             {
@@ -101,6 +106,23 @@ internal static class ZeroValleys
         }
 
         return null;
+    }
+
+    /// <summary>Whether the valley's zero branches rise in two directions around it (a point valley), not stay zero along a line.</summary>
+    private static bool IsPointValley(ModeSolver solver, Vec3 reduced, int branches)
+    {
+        var lattice = solver.Matrix.Crystal.Lattice;
+        foreach (var offset in new[] { new Vec3(0.05, 0, 0), new Vec3(0, 0.05, 0), new Vec3(0.037, -0.029, 0) })
+        {
+            solver.SolveValues(lattice.ToCartesianQ(reduced + offset));
+            var largest = solver.Values[solver.Size - 1];
+            if (largest <= 0 || solver.Values[branches - 1] <= ZeroShare * largest)
+            {
+                return false;
+            }
+        }
+
+        return true;
     }
 
     private static string Show(double reduced) => reduced switch

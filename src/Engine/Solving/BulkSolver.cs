@@ -56,7 +56,7 @@ internal static class BulkSolver
 
         // A sheet's zero valley the mesh leaves off its points and cell corners: refused rather than a silently low heat
         // capacity (the check mesh of a convergence estimate may leave it: its change then reads large, not small).
-        if (!checkMesh && options.DosMethod != DosMethod.Gaussian && ZeroValleys.OffMeshProblem(ZeroValleys.Find(solver), sample) is { } offMesh)
+        if (!checkMesh && options.DosMethod != DosMethod.Gaussian && ZeroValleys.OffMeshProblem(solver, ZeroValleys.Find(solver), sample) is { } offMesh)
         {
             throw new ModelException([offMesh]);
         }
