@@ -280,7 +280,7 @@ internal sealed class ResultSchemas
             C<PointOutcome>("q_points_solved", ColumnType.Int64, "", "wave vectors diagonalised", o => S(o)?.QPointsSolved),
             C<PointOutcome>("mode_count", ColumnType.Int64, "", "modes in the calculation", o => S(o)?.ModeCount),
             C<PointOutcome>("rigid_modes_excluded", ColumnType.Int32, "", "zero-frequency translations left out of thermal sums", o => S(o)?.RigidModesExcluded),
-            C<PointOutcome>("zero_modes_excluded", ColumnType.Int64, "", "every zero-frequency mode left out of thermal sums: the rigid translations and any other, but the floors of a sheet's zero valleys away from q = 0 (README, What the solver does)", o => S(o) is { } s ? ZeroModes.Total(s) : null),
+            C<PointOutcome>("zero_modes_excluded", ColumnType.Int64, "", "every zero-frequency mode left out of thermal sums: the rigid translations and any other, but the floors of a sheet's zero valleys away from q = 0 on its mesh points or wave vectors (a bulk mesh integrates them as q = 0 is; a periodic finite sheet leaves them out like the rigid translations without counting them, since Round 28: *What the solver does*)", o => S(o) is { } s ? ZeroModes.Total(s) : null),
             C<PointOutcome>("floppy", ColumnType.Bool, "", "more zero modes than rigid translations: some motion meets no spring at some wave vectors (its modes carry no heat)", o => S(o) is { } s ? ZeroModes.Floppy(s) : null),
             C<PointOutcome>("max_freq_thz", ColumnType.Double, "THz", "highest frequency", o => S(o)?.MaxFrequencyThz),
             C<PointOutcome>("min_freq_thz", ColumnType.Double, "THz", "lowest frequency (negative for an unstable model)", o => S(o)?.MinFrequencyThz),
