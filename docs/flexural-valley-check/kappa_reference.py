@@ -39,4 +39,7 @@ for chunk in np.array_split(np.arange(len(x)),16):
                 c=np.where((xx<700)&(xx>0), kB*xx*xx*np.exp(-xx)/(-np.expm1(-xx))**2, 0.0)
             tot[i]+=(c*vx*vx*tau*WW).sum()
     ws+=WW.sum()
-for T,k in zip(temps, tot/ws/(a*a*thick)): print('kappa_xx', T, k)
+# Volume per cell: the cell's area |det| a^2 times the thickness (Round 28, zero valleys in conductivity: a^2 alone had the
+# triangular cases 2/sqrt(3) low; the square ones are unchanged).
+area=abs(np.linalg.det(vecs))*a*a
+for T,k in zip(temps, tot/ws/(area*thick)): print('kappa_xx', T, k)

@@ -54,6 +54,13 @@ internal static class BulkSolver
             throw new ModelException([tooLarge]);
         }
 
+        // A sheet's zero valley the mesh leaves off its points and cell corners: refused rather than a silently low heat
+        // capacity (the check mesh of a convergence estimate may leave it: its change then reads large, not small).
+        if (!checkMesh && options.DosMethod != DosMethod.Gaussian && ZeroValleys.OffMeshProblem(solver, ZeroValleys.Find(solver), sample) is { } offMesh)
+        {
+            throw new ModelException([offMesh]);
+        }
+
         var wantWeights = sink.WantsChannelFractions || options.PartialDos;
         ref var keptF = ref checkMesh ? ref keptCheckFrequencies : ref keptFrequencies;
         ref var keptW = ref checkMesh ? ref keptCheckWeights : ref keptWeights;

@@ -45,6 +45,12 @@ internal static class FiniteCrystalSolver
         var storedCount = 0L;
         var rigid = crystal.Components;
         long zeroModes = 0;
+
+        // A periodic sheet's wave vectors that are the floors of zero valleys away from q = 0 (M of an even sheet whose
+        // flexural bend couples only the diagonals): their zeros are left out of the sums like the rigid translations and,
+        // as in bulk (BulkSolver), not counted as floppy zeros; the lowest branches there are the floor's.
+        var floors = lattice.Dimension == 2 ? ZeroValleys.MeshCentres(ZeroValleys.Find(solver), sample.N1, sample.N2, grid) : [];
+        int FloorAt(in GridPoint point) => floors.Count > 0 && floors.TryGetValue(point.Index, out var b) ? b : 0;
         var wantVectors = sink.WantsChannelFractions || options.PartialDos;
 
         // Without eigenvectors, pass 2 reads pass 1's eigenvalues back when they fit the same fixed
@@ -135,6 +141,7 @@ internal static class FiniteCrystalSolver
                 ref readonly var point = ref points[p];
                 var skip = point.IsGamma ? rigid : 0;
                 var weight = point.Weight * perCell;
+                var floor = FloorAt(point);
                 for (var k = skip; k < n; k++)
                 {
                     var lambda = values[(p * n) + k];
@@ -143,7 +150,7 @@ internal static class FiniteCrystalSolver
                     Deposit(thz, weight, gaussian, options.GaussianSigmaThz, grid0, total, partial, default);
                     if (Math.Abs(lambda) <= zeroTolerance)
                     {
-                        zeroModes += point.Weight;
+                        zeroModes += k < floor ? 0 : point.Weight;
                         continue;
                     }
 
@@ -162,6 +169,7 @@ internal static class FiniteCrystalSolver
         {
             var skip = point.IsGamma ? rigid : 0;
             var weight = point.Weight * perCell;
+            var floor = FloorAt(point);
             for (var k = skip; k < n; k++)
             {
                 var lambda = values[k];
@@ -176,7 +184,7 @@ internal static class FiniteCrystalSolver
                 Deposit(thz, weight, gaussian, options.GaussianSigmaThz, grid0, total, partial, options.PartialDos ? siteFractions : default);
                 if (Math.Abs(lambda) <= zeroTolerance)
                 {
-                    zeroModes += point.Weight;
+                    zeroModes += k < floor ? 0 : point.Weight;
                     continue;
                 }
 

@@ -34,9 +34,11 @@ internal sealed class GroupVelocities
         var values = _solver.Values;
         var vectors = _solver.Vectors;
         var dimension = _solver.Matrix.Crystal.Lattice.Dimension;
-        _solver.Matrix.BuildDerivative(qPerM, new Vec3(1, 0, 0), _derivatives[0]);
-        _solver.Matrix.BuildDerivative(qPerM, new Vec3(0, 1, 0), _derivatives[1]);
-        _solver.Matrix.BuildDerivative(qPerM, new Vec3(0, 0, 1), _derivatives[2]);
+        // dD/dq where the solve was (a valley's shifted solver solves D(origin + q)).
+        var at = _solver.Absolute(qPerM);
+        _solver.Matrix.BuildDerivative(at, new Vec3(1, 0, 0), _derivatives[0]);
+        _solver.Matrix.BuildDerivative(at, new Vec3(0, 1, 0), _derivatives[1]);
+        _solver.Matrix.BuildDerivative(at, new Vec3(0, 0, 1), _derivatives[2]);
 
         var scale = Math.Max(Math.Abs(values[n - 1]), Math.Abs(values[0]));
         var dir = preferredDirection.Length > 0 ? preferredDirection.Unit() : new Vec3(0.5345225, 0.2672612, 0.8017837);

@@ -41,6 +41,9 @@ internal sealed class ModeSolver
     // The unshifted solver passes q on untouched, so ordinary solves keep their bits (even the sign of a zero).
     private Vec3 Shift(Vec3 qPerM) => _shifted ? qPerM + _origin : qPerM;
 
+    /// <summary>The wave vector a solve at <paramref name="qPerM"/> is of (origin + q; q itself for the unshifted solver).</summary>
+    public Vec3 Absolute(Vec3 qPerM) => Shift(qPerM);
+
     public int Size => _matrix.Size;
 
     public DynamicalMatrix Matrix => _matrix;
