@@ -27,6 +27,33 @@ internal sealed class GammaCellIntegrator
 {
     private const int RadialPanels = 40;
     private static readonly GaussLegendreRule Radial = new(0.5, 1.0, 6);
+
+    /// <summary>
+    /// A node of the radial rule along a cell's rays: int_0^1 g(rho) d rho^d over panels [upper / 2, upper] halving from 1,
+    /// each with the Gauss-Legendre rule on [1/2, 1] scaled by upper (rho = x upper; the node's share of the panel is
+    /// <see cref="Weight"/> times <see cref="Upper"/>).
+    /// </summary>
+    internal readonly record struct RadialNode(double Rho, double Weight, double Upper);
+
+    /// <summary>Every node of the radial rule, panel by panel (the q = 0 cell's and the zero valleys' cells' rays take the same rule).</summary>
+    internal static readonly RadialNode[] RadialNodes = BuildRadialNodes();
+
+    private static RadialNode[] BuildRadialNodes()
+    {
+        var nodes = new RadialNode[RadialPanels * Radial.Abscissas.Length];
+        var upper = 1.0;
+        for (var p = 0; p < RadialPanels; p++)
+        {
+            for (var i = 0; i < Radial.Abscissas.Length; i++)
+            {
+                nodes[(p * Radial.Abscissas.Length) + i] = new RadialNode(Radial.Abscissas[i] * upper, Radial.Weights[i], upper);
+            }
+
+            upper *= 0.5;
+        }
+
+        return nodes;
+    }
     private readonly CentredCellRays _rays;
     private readonly int _dimension;
     private readonly double _epsilon;
@@ -120,17 +147,10 @@ internal sealed class GammaCellIntegrator
             for (var k = 0; k < acoustic; k++)
             {
                 // int_0^1 g(rho) d rho^d over panels [upper / 2, upper] with the rule's nodes scaled by upper.
-                var upper = 1.0;
-                for (var p = 0; p < RadialPanels; p++)
+                foreach (var node in RadialNodes)
                 {
-                    for (var i = 0; i < Radial.Abscissas.Length; i++)
-                    {
-                        var rho = Radial.Abscissas[i] * upper;
-                        var weight = ray.Weight * d * Radial.Weights[i] * upper * Math.Pow(rho, d - 1);
-                        sum.Add(dispersion.Omega(k, rho), Read(dispersion.Velocity(k, rho)), weight);
-                    }
-
-                    upper *= 0.5;
+                    var weight = ray.Weight * d * node.Weight * node.Upper * Math.Pow(node.Rho, d - 1);
+                    sum.Add(dispersion.Omega(k, node.Rho), Read(dispersion.Velocity(k, node.Rho)), weight);
                 }
             }
         }

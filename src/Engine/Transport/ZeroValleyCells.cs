@@ -2,7 +2,6 @@ using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.QPoints;
 using LatticeSweep.Engine.Spectrum;
-using MathNet.Numerics.Integration;
 
 namespace LatticeSweep.Engine.Transport;
 
@@ -19,11 +18,8 @@ namespace LatticeSweep.Engine.Transport;
 /// </summary>
 internal sealed class ZeroValleyCells
 {
-    private const int RadialPanels = 40;
-
     /// <summary>The widest valley box, as a share of the reciprocal vectors across (half-width in half steps over the mesh).</summary>
     private const double MaxAcross = 0.2;
-    private static readonly GaussLegendreRule Radial = new(0.5, 1.0, 6);
     private readonly List<Cells> _taken;
 
     private sealed record Cells(int[] Centre2, int[] Half2, int Branches, int Points, ModeSolver Solver, GroupVelocities Group, CentredCellRays Rays, double EpsilonPerM);
@@ -126,23 +122,17 @@ internal sealed class ZeroValleyCells
 
                 for (var k = 0; k < cells.Branches; k++)
                 {
-                    var upper = 1.0;
-                    for (var p = 0; p < RadialPanels; p++)
+                    // The q = 0 cell's radial rule (GammaCellIntegrator.RadialNodes) in 2D: d rho^2 = 2 rho d rho.
+                    foreach (var node in GammaCellIntegrator.RadialNodes)
                     {
-                        for (var i = 0; i < Radial.Abscissas.Length; i++)
+                        var weight = cells.Points * ray.Weight * 2 * node.Weight * node.Upper * node.Rho;
+                        for (var t = 0; t < weights.Length; t++)
                         {
-                            var rho = Radial.Abscissas[i] * upper;
-                            var weight = cells.Points * ray.Weight * 2 * Radial.Weights[i] * upper * rho;
-                            for (var t = 0; t < weights.Length; t++)
-                            {
-                                weights[t] = weight * share(t);
-                            }
-
-                            var v = dispersion.Velocity(k, rho);
-                            sum.Add(dispersion.Omega(k, rho), inPlane ? GammaCellIntegrator.InPlaneAverage(v) : v, weights);
+                            weights[t] = weight * share(t);
                         }
 
-                        upper *= 0.5;
+                        var v = dispersion.Velocity(k, node.Rho);
+                        sum.Add(dispersion.Omega(k, node.Rho), inPlane ? GammaCellIntegrator.InPlaneAverage(v) : v, weights);
                     }
                 }
             }
