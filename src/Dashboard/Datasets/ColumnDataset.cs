@@ -76,6 +76,28 @@ internal static class ColumnDataset
             return cells;
         }
 
+        // A text column at a few rows (a plot's drawn ids): each file makes strings of its share of them only.
+        string?[] Texts(int column, int[] rows)
+        {
+            var texts = new string?[rows.Length];
+            for (var i = 0; i < files.Count; i++)
+            {
+                var mine = Enumerable.Range(0, rows.Length).Where(k => rows[k] >= starts[i] && rows[k] < starts[i] + files[i].RowCount).ToArray();
+                if (mine.Length == 0 || at[i][column] < 0)
+                {
+                    continue;
+                }
+
+                var read = files[i].TextsAt(at[i][column], [.. mine.Select(k => rows[k] - starts[i])]);
+                for (var k = 0; k < mine.Length; k++)
+                {
+                    texts[mine[k]] = read[k];
+                }
+            }
+
+            return texts;
+        }
+
         // A key's rows from the files' row-group indexes (null: a file has none, so every key is read).
         var keyAt = columns.FindIndex(c => c.Name == keyColumn);
         int[]? Find(int column, string value)
@@ -108,7 +130,7 @@ internal static class ColumnDataset
         var key = columns.FindIndex(c => c.Name == keyColumn);
         var apart = files.Count < 2 || key < 0 || ChunksApart(files);
         // Rows found by key only where no key is dropped as a repeat (else the view below decides which row stays).
-        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary, Peek, apart ? Find : null);
+        var table = new ResultTable([.. columns], files.Sum(f => f.RowCount), Load, Filled, summary, Peek, apart ? Find : null, Texts);
         if (apart)
         {
             // One file holds each key once (a part, or a merged file); files of different chunks share no point.

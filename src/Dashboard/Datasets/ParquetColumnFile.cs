@@ -293,6 +293,76 @@ internal sealed class ParquetColumnFile
         })];
     }
 
+    /// <summary>
+    /// A text column's cells at a few rows (a plot's drawn points' ids) without reading the whole column into strings and
+    /// keeping it: from the column when read already (or told by the summary), else from the row groups holding those rows,
+    /// decoded as characters (<see cref="Worker.Output.TextCells"/>) and made into strings only at those rows. A running
+    /// sweep's part is one row group, so a plot's few dozen rows in it read the group either way, but made a string of each
+    /// of its ~7,800 ids, kept with the table (10^6 ids from 128 parts: 1.4 s of CPU and 259 MiB allocated, bench/README
+    /// round 29). A file found gone or changed gives empty cells and marks itself stale.
+    /// </summary>
+    public string?[] TextsAt(int column, IReadOnlyList<int> rows)
+    {
+        if (_filled[column] == false || rows.Count == 0)
+        {
+            return new string?[rows.Count];
+        }
+
+        if (Loaded(column) || Same(column) || !ParquetTableReader.IsText(_fields[column]))
+        {
+            var whole = Column(column);
+            return [.. rows.Select(whole.Text)];
+        }
+
+        try
+        {
+            using var timing = StageTimings.MeasureAlone("points: read text at rows");
+            return WithReaderAsync(reader => TextsFromAsync(reader, column, rows)).GetAwaiter().GetResult();
+        }
+        catch (Exception ex) when (ex is FileNotFoundException or DirectoryNotFoundException or InvalidDataException or IOException)
+        {
+            Stale = true;
+            return new string?[rows.Count];
+        }
+    }
+
+    private async Task<string?[]> TextsFromAsync(ParquetReader reader, int column, IReadOnlyList<int> rows)
+    {
+        var field = CheckedField(reader, column);
+        var texts = new string?[rows.Count];
+        foreach (var rowsOfGroup in Enumerable.Range(0, rows.Count).GroupBy(k => GroupOf(rows[k])).OrderBy(g => g.Key))
+        {
+            using var group = reader.OpenRowGroupReader(rowsOfGroup.Key);
+            using var cells = await Worker.Output.TextCells.ReadAsync(group, field, CancellationToken.None).ConfigureAwait(false);
+            foreach (var k in rowsOfGroup)
+            {
+                var at = rows[k] - _groupStarts[rowsOfGroup.Key];
+                texts[k] = cells.IsNull(at) ? null : new string(cells.Chars(at));
+            }
+        }
+
+        return texts;
+    }
+
+    /// <summary>The file's field of <paramref name="column"/>; throws when the file no longer holds the rows or the column it was listed with.</summary>
+    private DataField CheckedField(ParquetReader reader, int column)
+    {
+        var field = reader.Schema.GetDataFields().FirstOrDefault(f => f.Name == _fields[column].Name && f.ClrType == _fields[column].ClrType);
+        var total = 0L;
+        for (var g = 0; g < reader.RowGroupCount; g++)
+        {
+            using var group = reader.OpenRowGroupReader(g);
+            total += group.RowCount;
+        }
+
+        if (field is null || total != RowCount)
+        {
+            throw new InvalidDataException($"{Path} changed since it was listed");
+        }
+
+        return field;
+    }
+
     /// <summary>Reads the listed row groups of the listed columns in one opening of the file into the group cache (cleared past <see cref="GroupCellsKept"/>).</summary>
     private async Task<Dictionary<(int Column, int Group), CellColumn>> ReadGroupsAsync(IReadOnlyList<(int Column, int Group)> wanted)
     {
@@ -561,19 +631,7 @@ internal sealed class ParquetColumnFile
 
     private async Task<CellColumn> ReadFromAsync(ParquetReader reader, int column, int[]? groups)
     {
-        var field = reader.Schema.GetDataFields().FirstOrDefault(f => f.Name == _fields[column].Name && f.ClrType == _fields[column].ClrType);
-        var total = 0L;
-        for (var g = 0; g < reader.RowGroupCount; g++)
-        {
-            using var group = reader.OpenRowGroupReader(g);
-            total += group.RowCount;
-        }
-
-        if (field is null || total != RowCount)
-        {
-            throw new InvalidDataException($"{Path} changed since it was listed");
-        }
-
+        var field = CheckedField(reader, column);
         groups ??= [.. Enumerable.Range(0, reader.RowGroupCount)];
         var count = groups.Sum(GroupRows);
         var type = field.ClrType;
@@ -593,9 +651,7 @@ internal sealed class ParquetColumnFile
             {
                 if (type == typeof(double))
                 {
-                    var v = new double?[n];
-                    await group.ReadAsync<double>(field, v.AsMemory()).ConfigureAwait(false);
-                    Spread(v, values, present, at, x => x);
+                    await ReadDoublesAsync(group, field, values, present, at, n).ConfigureAwait(false);
                 }
                 else if (type == typeof(float))
                 {
@@ -647,6 +703,44 @@ internal sealed class ParquetColumnFile
             var n = checked((int)group.RowCount);
             await read(group, at, n).ConfigureAwait(false);
             at += n;
+        }
+    }
+
+    /// <summary>
+    /// A row group's doubles decoded straight into the column's array at <paramref name="at"/> (Parquet.Net packs the cells
+    /// with a value at the front), then each put at its row by the definition levels: no array of nullable cells per group
+    /// (16 bytes a row; a running sweep's plots read 10^6 rows of each plotted column from 128 parts, bench/README round 29).
+    /// </summary>
+    private static async Task ReadDoublesAsync(ParquetRowGroupReader group, DataField field, double[] values, bool[] present, int at, int n)
+    {
+        if (field.MaxDefinitionLevel == 0)
+        {
+            await group.ReadRawAsync(field, values.AsMemory(at, n), null, null, CancellationToken.None).ConfigureAwait(false);
+            Array.Fill(present, true, at, n);
+            return;
+        }
+
+        var levels = System.Buffers.ArrayPool<int>.Shared.Rent(Math.Max(n, 1));
+        try
+        {
+            await group.ReadRawAsync(field, values.AsMemory(at, n), levels.AsMemory(0, n), null, CancellationToken.None).ConfigureAwait(false);
+            var next = 0;
+            for (var i = 0; i < n; i++)
+            {
+                next += levels[i] < field.MaxDefinitionLevel ? 0 : 1;
+            }
+
+            // From the last row back: a value's packed place is never after its row.
+            for (var i = n - 1; i >= 0; i--)
+            {
+                var has = levels[i] >= field.MaxDefinitionLevel;
+                values[at + i] = has ? values[at + --next] : 0;
+                present[at + i] = has;
+            }
+        }
+        finally
+        {
+            System.Buffers.ArrayPool<int>.Shared.Return(levels);
         }
     }
 

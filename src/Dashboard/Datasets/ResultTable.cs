@@ -24,6 +24,7 @@ public sealed class ResultTable
     private readonly Func<int, bool?>? _filled;
     private readonly Func<int[], int[], object?[][]>? _peek;
     private readonly Func<int, string, int[]?>? _find;
+    private readonly Func<int, int[], string?[]>? _texts;
 
     /// <summary>A table of boxed rows (small tables: one point's rows, tests).</summary>
     public ResultTable(ImmutableArray<ResultColumn> columns, ImmutableArray<ImmutableArray<object?>> rows)
@@ -46,13 +47,14 @@ public sealed class ResultTable
     /// when it cannot tell.
     /// </remarks>
     internal ResultTable(ImmutableArray<ResultColumn> columns, int count, Func<int, CellColumn> load, Func<int, bool?>? filled = null, TableSummary? summary = null,
-        Func<int[], int[], object?[][]>? peek = null, Func<int, string, int[]?>? find = null)
+        Func<int[], int[], object?[][]>? peek = null, Func<int, string, int[]?>? find = null, Func<int, int[], string?[]>? texts = null)
     {
         Columns = columns;
         _count = count;
         _filled = filled;
         _peek = peek;
         _find = find;
+        _texts = texts;
         Summary = summary is not null && summary.Rows == count ? summary : null;
         _cells = [.. columns.Select((_, c) => new Lazy<CellColumn>(() => load(c), LazyThreadSafetyMode.ExecutionAndPublication))];
     }
@@ -63,6 +65,7 @@ public sealed class ResultTable
         Columns = source.Columns;
         _cells = source._cells;
         _peek = source._peek;
+        _texts = source._texts;
         _rows = rows;
         _count = rows.Length;
     }
@@ -176,6 +179,28 @@ public sealed class ResultTable
         }
 
         return result;
+    }
+
+    /// <summary>
+    /// The text of one column at a few rows in view (a plot's drawn points' ids): from the column when it is loaded already,
+    /// else (a table read from files) from the row groups holding those rows, made into strings at those rows only, and the
+    /// column stays unloaded. Null where a cell is empty or not text.
+    /// </summary>
+    internal string?[] TextsAt(int column, IReadOnlyList<int> rows)
+    {
+        var at = new int[rows.Count];
+        for (var i = 0; i < at.Length; i++)
+        {
+            at[i] = _rows is null ? rows[i] : _rows[rows[i]];
+        }
+
+        if (_texts is not null && !_cells[column].IsValueCreated)
+        {
+            return _texts(column, at);
+        }
+
+        var cells = _cells[column].Value;
+        return [.. at.Select(cells.Text)];
     }
 
     /// <summary>The rows in view at <paramref name="rows"/> (positions in this view), in that order.</summary>

@@ -58,6 +58,14 @@ public sealed record SweepPlot(
     /// </summary>
     public const int MaxDrawn = Worker.Output.FirstLoadFacts.MaxDrawn;
 
+    /// <summary>
+    /// The front's rows (positions in the view the plot was made from, in <see cref="Front"/>'s order) when the plot was
+    /// worked out from the rows; default when it came from the merge's entry. Not sent: the page finds the front's listed
+    /// parameters by them instead of a pass over every point id (<c>FrontParameters</c>).
+    /// </summary>
+    [JsonIgnore]
+    internal ImmutableArray<int> FrontRows { get; init; }
+
     /// <summary>The points sent to be drawn (at most about <see cref="MaxDrawn"/>; <see cref="Plotted"/> have values).</summary>
     public int Drawn => Series.Sum(s => s.Points.Length);
 

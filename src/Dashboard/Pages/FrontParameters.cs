@@ -31,12 +31,16 @@ internal sealed class FrontParameters(FilteredPoints points, ColumnCatalog names
         using var timing = StageTimings.Measure("sweep page: front rows");
         var shown = (scatter?.Front ?? []).Take(listed).ToList();
         var ids = shown.Select(f => f.PointId).Distinct(StringComparer.Ordinal).ToList();
-        // The merge's front, when it is the one drawn, says where its points are; else a pass over point_id finds them.
+        // The merge's front, when it is the one drawn, says where its points are; so does a front worked out from the whole
+        // table's rows (a point id is in one row of it); else a pass over point_id finds them.
         var merged = points.All.FirstLoad?.Scatter?.Front;
+        var rows = scatter?.FrontRows ?? default;
         var at = merged is { } front && points.Rows == points.All && front.Length >= shown.Count
             && front.Take(shown.Count).Select(p => p.PointId).SequenceEqual(shown.Select(f => f.PointId), StringComparer.Ordinal)
             ? ids.Select(id => front.First(p => p.PointId == id).Row).ToArray()
-            : points.All.FirstPositions("point_id", ids);
+            : points.Rows == points.All && !rows.IsDefault && rows.Length == scatter!.Front.Length
+                ? ids.Select(id => rows[shown.FindIndex(f => f.PointId == id)]).ToArray()
+                : points.All.FirstPositions("point_id", ids);
         var found = ids.Select((id, i) => (id, at: at[i])).Where(p => p.at >= 0).ToList();
         var text = ParametersAt([.. found.Select(p => p.at)]);
         return found.Select((p, i) => (p.id, text: text[i])).Concat(ids.Select((id, i) => (id, at: at[i])).Where(p => p.at < 0).Select(p => (p.id, text: "")))
