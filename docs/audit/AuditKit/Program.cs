@@ -42,6 +42,11 @@ internal static class Program
             Directory.CreateDirectory(dir);
             var job = Path.Combine(dir, "job.toml");
             File.WriteAllText(job, c.ToToml());
+            if (Environment.GetEnvironmentVariable("AUDIT_JOBS_ONLY") == "1")
+            {
+                continue; // write the job files alone: shows which cases a seed draws, e.g. that a new kind moved no earlier case
+            }
+
             var (code, output) = Cli.Run(dll, dir, job);
             // exit 4: every point has results but some models are unstable (README); the audit checks that verdict
             if (code != 0 && code != 4)
