@@ -7,7 +7,7 @@ namespace LatticeSweep.Audit;
 internal sealed record AuditCase(
     string Id, AuditModel Model, double[] TemperaturesK, double ReferenceK, int[] Cells, int[] Mesh,
     double[][] PathCorners, int PointsPerSegment, int DosBins, string Kind = "pairs", AuditSurface? Surface = null,
-    AuditDisorder? Disorder = null, AuditExpansion? Expansion = null)
+    AuditDisorder? Disorder = null, AuditExpansion? Expansion = null, AuditConductivity? Conductivity = null)
 {
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
@@ -179,9 +179,24 @@ internal sealed record AuditCase(
         sb.AppendLine($"reference_temperature_k = {F(ReferenceK)}");
         sb.AppendLine($"dos_bins = {DosBins}");
         sb.AppendLine("thermal_mesh_check = true");
-        sb.AppendLine(Expansion is null
-            ? "tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\"]"
-            : "tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\", \"expansion\"]");
+        // the round-29 kinds read the displacements too; earlier kinds keep their job files byte for byte
+        sb.AppendLine(Expansion is not null
+            ? "tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\", \"expansion\"]"
+            : Kind is "flexshells" or "folded"
+                ? "tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\", \"mean_square_displacements\"]"
+                : "tables = [\"dos\", \"thermal\", \"modes\", \"dispersion\"]");
+        if (Conductivity is { } kappa)
+        {
+            sb.AppendLine();
+            sb.AppendLine("[output.conductivity]");
+            if (m.Dimension == 2)
+            {
+                sb.AppendLine($"thickness_nm = {F(kappa.ThicknessNm)}");
+            }
+
+            sb.AppendLine($"constant = {{ relaxation_time_ps = {F(kappa.RelaxationTimePs)} }}");
+        }
+
         if (Expansion is { } ex)
         {
             sb.AppendLine();

@@ -65,18 +65,30 @@ internal static class Checks
             return;
         }
 
+        var round29 = c.Kind is "flexshells" or "folded";
         if (finiteId is not null)
         {
             Finite.Check(ctx, finiteId);
             StaticLattice.Check(ctx, finiteId);
+            if (round29)
+            {
+                Displacements.Finite(ctx, finiteId);
+                Conductivity.Finite(ctx, finiteId);
+            }
         }
 
         if (bulkId is not null)
         {
             Bulk.Check(ctx, bulkId);
-            if (c.Kind == "flexural")
+            if (c.Kind is "flexural" or "flexshells")
             {
                 Flexural.Check(ctx, bulkId);
+            }
+
+            if (round29)
+            {
+                Displacements.BulkSheet(ctx, bulkId);
+                Conductivity.Bulk(ctx, bulkId);
             }
         }
 

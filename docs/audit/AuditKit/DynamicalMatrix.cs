@@ -201,6 +201,49 @@ internal sealed class DynamicalMatrix
         return m;
     }
 
+    /// <summary>dD/dq_axis (nm/s^2) at a Cartesian q (1/nm): each phase exp(i q.d) differentiated by hand, i d_axis exp(i q.d).</summary>
+    public Complex[,] Derivative(double[] q, int axis)
+    {
+        var m = new Complex[_n, _n];
+        foreach (var (i, j, d, phi) in _bonds)
+        {
+            var phase = q[0] * d[0] + q[1] * d[1] + q[2] * d[2];
+            var e = new Complex(Math.Cos(phase), Math.Sin(phase)) * new Complex(0, d[axis]);
+            var s = 1 / Math.Sqrt(_mass[i] * _mass[j]);
+            for (var a = 0; a < _c; a++)
+            {
+                for (var b = 0; b < _c; b++)
+                {
+                    m[i * _c + a, j * _c + b] -= phi[a, b] * s * e;
+                    m[j * _c + a, i * _c + b] -= phi[a, b] * s * Complex.Conjugate(e);
+                }
+            }
+        }
+
+        foreach (var (ia, ib, d, k) in _terms)
+        {
+            var phase = q[0] * d[0] + q[1] * d[1] + q[2] * d[2];
+            var e = new Complex(Math.Cos(phase), Math.Sin(phase)) * new Complex(0, d[axis]) / Math.Sqrt(_mass[ia] * _mass[ib]);
+            for (var a = 0; a < _c; a++)
+            {
+                for (var b = 0; b < _c; b++)
+                {
+                    m[ia * _c + a, ib * _c + b] += k[a, b] * e;
+                }
+            }
+        }
+
+        return m;
+    }
+
+    /// <summary>Eigenvalues and eigenvectors (columns) of D at a Cartesian q (1/nm), MathNet's Hermitian EVD, ascending.</summary>
+    public (double[] Values, Matrix<Complex> Vectors) Eigen(double[] q)
+    {
+        var d = At(q);
+        var evd = Matrix<Complex>.Build.Dense(_n, _n, (i, j) => d[i, j]).Evd(MathNet.Numerics.LinearAlgebra.Symmetricity.Hermitian);
+        return ([.. evd.EigenValues.Select(v => v.Real)], evd.EigenVectors);
+    }
+
     /// <summary>Sorted eigenvalues omega^2 (1/s^2) at a Cartesian q (1/nm).</summary>
     public double[] Eigenvalues(double[] q)
     {
@@ -210,6 +253,25 @@ internal sealed class DynamicalMatrix
         var result = values.Select(v => v.Real).ToArray();
         Array.Sort(result);
         return result;
+    }
+
+    /// <summary>Eigenvalues omega^2 (1/s^2) and the squared moduli of the eigenvector components, |e_(s,a)|^2 (column per mode), at a Cartesian q (1/nm).</summary>
+    public (double[] Values, double[,] Weights) EigenWeights(double[] q)
+    {
+        var d = At(q);
+        var evd = Matrix<Complex>.Build.Dense(_n, _n, (i, j) => d[i, j]).Evd(MathNet.Numerics.LinearAlgebra.Symmetricity.Hermitian);
+        var values = evd.EigenValues.Select(v => v.Real).ToArray();
+        var weights = new double[_n, _n];
+        for (var i = 0; i < _n; i++)
+        {
+            for (var k = 0; k < _n; k++)
+            {
+                var e = evd.EigenVectors[i, k];
+                weights[i, k] = e.Real * e.Real + e.Imaginary * e.Imaginary;
+            }
+        }
+
+        return (values, weights);
     }
 
     /// <summary>tr D(q) (1/s^2): the second-moment sum rule's right-hand side, from the matrix itself.</summary>

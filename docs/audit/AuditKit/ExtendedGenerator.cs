@@ -16,6 +16,7 @@ internal sealed class ExtendedGenerator
     private readonly Random _choose;
     private readonly Random _rng;
     private readonly Random _rng27;
+    private readonly BendCases _bends29;
 
     public ExtendedGenerator(int seed, string[] kinds)
     {
@@ -25,6 +26,7 @@ internal sealed class ExtendedGenerator
         _choose = new Random(seed ^ 0x2626);
         _rng = new Random(unchecked(seed * 7 + 26));
         _rng27 = new Random(unchecked(seed * 11 + 27)); // the kinds added in round 27 (disorder, expansion): a stream of their own
+        _bends29 = new BendCases(seed); // the kinds added in round 29 (flexshells, folded): a stream of their own
     }
 
     public static string[] Parse(string? text)
@@ -40,10 +42,12 @@ internal sealed class ExtendedGenerator
             return ["pairs", "surfaces", "interactions", "disorder", "expansion", "flexural"];
         }
 
-        var bad = kinds.Where(k => k is not ("pairs" or "surfaces" or "interactions" or "disorder" or "expansion" or "flexural")).ToList();
+        // `everything` stays the six kinds it named before round 29: adding kinds to it would change which kind each of a
+        // seed's cases draws (one shared choice stream), so earlier seeds' cases would move; the round-29 kinds are named
+        var bad = kinds.Where(k => k is not ("pairs" or "surfaces" or "interactions" or "disorder" or "expansion" or "flexural" or "flexshells" or "folded")).ToList();
         if (kinds.Length == 0 || bad.Count > 0)
         {
-            throw new ArgumentException($"AUDIT_KINDS: '{text}' is not a comma-separated list of pairs, surfaces, interactions, disorder, expansion, flexural (or all: the first three; everything: all six)");
+            throw new ArgumentException($"AUDIT_KINDS: '{text}' is not a comma-separated list of pairs, surfaces, interactions, disorder, expansion, flexural, flexshells, folded (or all: the first three; everything: the first six)");
         }
 
         return kinds;
@@ -59,6 +63,8 @@ internal sealed class ExtendedGenerator
             "disorder" => WithDisorder(_bases.Next(id)),
             "expansion" => ExpansionCase(id),
             "flexural" => FlexuralCase(id),
+            "flexshells" => _bends29.Flexural(id),
+            "folded" => _bends29.Folded(id),
             _ => WithInteractions(_bases.Next(id)),
         };
     }

@@ -31,9 +31,13 @@ internal static class Flexural
             return;
         }
 
-        double Kappa2(double th)
+        // every plate valley: q = 0 and, for bends that leave sublattices uncoupled out of the plane, the zone points
+        // where the branch reaches zero again (README bends; round 29); each adds its own <1/kappa> / (4 pi) per area
+        var valleys = Valleys(x, m);
+
+        double Kappa2At(double[] p, double th)
         {
-            double F(double q) => x.Matrix.At([q * Math.Cos(th), q * Math.Sin(th), 0])[2, 2].Real / Math.Pow(q, 4);
+            double F(double q) => x.Matrix.At([p[0] + q * Math.Cos(th), p[1] + q * Math.Sin(th), 0])[2, 2].Real / Math.Pow(q, 4);
             var e = 1e-2 * bMin;
             return (4 * F(e) - F(2 * e)) / 3; // 1/nm^4 s^2
         }
@@ -63,12 +67,15 @@ internal static class Flexural
             for (var k = 0; k < n; k++)
             {
                 var th = 2 * Math.PI * (k + 0.5) / n;
-                var kap = Math.Sqrt(Math.Max(Kappa2(th), 0));
-                ik += 1 / kap / n;
-                if (kap < kmin)
+                foreach (var p in valleys)
                 {
-                    kmin = kap;
-                    slow[0] = th;
+                    var kap = Math.Sqrt(Math.Max(Kappa2At(p, th), 0));
+                    ik += 1 / kap / n;
+                    if (kap < kmin)
+                    {
+                        kmin = kap;
+                        slow[0] = th;
+                    }
                 }
 
                 foreach (var v2 in Speeds2(th))
@@ -116,13 +123,16 @@ internal static class Flexural
             for (var k = 0; valid && k < 12; k++)
             {
                 var th = k < 10 ? 2 * Math.PI * k / 10 : avg.Slow[k - 10];
-                var kap2 = Kappa2(th);
-                var dzz = x.Matrix.At([qFlex * Math.Cos(th), qFlex * Math.Sin(th), 0])[2, 2].Real;
                 var s2 = Speeds2(th);
                 var l = InPlane(th, qCone);
-                valid = Math.Abs(Math.Sqrt(dzz / (kap2 * Math.Pow(qFlex, 4))) - 1) < 1e-3
-                    && Math.Abs(Math.Sqrt(l[0] / (s2[0] * qCone * qCone)) - 1) < 3e-4
+                valid = Math.Abs(Math.Sqrt(l[0] / (s2[0] * qCone * qCone)) - 1) < 3e-4
                     && Math.Abs(Math.Sqrt(l[1] / (s2[1] * qCone * qCone)) - 1) < 3e-4;
+                foreach (var p in valleys)
+                {
+                    var kap2 = Kappa2At(p, th);
+                    var dzz = x.Matrix.At([p[0] + qFlex * Math.Cos(th), p[1] + qFlex * Math.Sin(th), 0])[2, 2].Real;
+                    valid = valid && Math.Abs(Math.Sqrt(dzz / (kap2 * Math.Pow(qFlex, 4))) - 1) < 1e-3;
+                }
             }
 
             if (!valid)
@@ -151,7 +161,7 @@ internal static class Flexural
     public static bool FineMeshResolves(Context x, double temperatureK)
     {
         var m = x.Case.Model;
-        if (x.Case.Kind != "flexural" || m.Dimension != 2 || temperatureK <= 0)
+        if (x.Case.Kind is not ("flexural" or "flexshells") || m.Dimension != 2 || temperatureK <= 0)
         {
             return true;
         }
@@ -159,16 +169,48 @@ internal static class Flexural
         var b = m.Reciprocal();
         var bMin = Math.Min(Norm(b[0]), Norm(b[1]));
         var kappaMax = 0.0;
-        for (var k = 0; k < 64; k++)
+        foreach (var p in Valleys(x, m))
         {
-            var th = 2 * Math.PI * k / 64;
-            double F(double q) => x.Matrix.At([q * Math.Cos(th), q * Math.Sin(th), 0])[2, 2].Real / Math.Pow(q, 4);
-            var e = 1e-2 * bMin;
-            kappaMax = Math.Max(kappaMax, Math.Sqrt(Math.Max((4 * F(e) - F(2 * e)) / 3, 0)));
+            for (var k = 0; k < 64; k++)
+            {
+                var th = 2 * Math.PI * k / 64;
+                double F(double q) => x.Matrix.At([p[0] + q * Math.Cos(th), p[1] + q * Math.Sin(th), 0])[2, 2].Real / Math.Pow(q, 4);
+                var e = 1e-2 * bMin;
+                kappaMax = Math.Max(kappaMax, Math.Sqrt(Math.Max((4 * F(e) - F(2 * e)) / 3, 0)));
+            }
         }
 
         var qThermal = Math.Sqrt(Units.Kb * temperatureK / Units.Hbar / kappaMax); // 1/nm
         return qThermal >= 4 * bMin / 64;
+    }
+
+    /// <summary>
+    /// The plate valleys of a one-site sheet, Cartesian (1/nm): q = 0 first, then each point with reduced coordinates in
+    /// {0, 1/3, 1/2, 2/3} where D_zz vanishes (below 1e-10 of its zone maximum): a flexural bend on shells whose sites do
+    /// not link the sheet out of the plane leaves such zeros at M, X, Y (square) or K, M (triangular) (README bends).
+    /// </summary>
+    public static List<double[]> Valleys(Context x, AuditModel m)
+    {
+        double[] fractions = [0, 1.0 / 3, 0.5, 2.0 / 3];
+        var scale = 0.0;
+        var candidates = new List<(double[] Q, double Dzz)>();
+        foreach (var f1 in fractions)
+        {
+            foreach (var f2 in fractions)
+            {
+                var q = m.CartesianQ([f1, f2, 0]);
+                var dzz = x.Matrix.At(q)[2, 2].Real;
+                scale = Math.Max(scale, Math.Abs(dzz));
+                if (f1 != 0 || f2 != 0)
+                {
+                    candidates.Add((q, dzz));
+                }
+            }
+        }
+
+        List<double[]> list = [[0, 0, 0]];
+        list.AddRange(candidates.Where(c => Math.Abs(c.Dzz) < 1e-10 * scale).Select(c => c.Q));
+        return list;
     }
 
     private static double Norm(double[] v) => Math.Sqrt(v.Sum(e => e * e));

@@ -253,11 +253,17 @@ internal static class Interactions
             yield break;
         }
 
-        if (cos > 1 - 1e-9 && b.Form == "angle")
+        if (cos > 1 - 1e-9 && b.Form is ("angle" or "flexural"))
         {
-            // a folded pair (both ends on one ray, a chain's shells 1 and 2): theta = |P_perp [(u_j - u_i) / d_ij - (u_k - u_i) / d_ik]|
+            // a folded pair (both ends on one ray, a chain's shells 1 and 2): theta = |P_perp [(u_j - u_i) / d_ij - (u_k - u_i) / d_ik]|;
+            // `flexural` keeps the out-of-plane direction alone (README: the tilt of one end against the other)
             foreach (var p in Perpendiculars(ej))
             {
+                if (b.Form == "flexural" && Math.Abs(p[2]) < 0.5)
+                {
+                    continue;
+                }
+
                 var gj = p.Select(v => v * scale / dij).ToArray();
                 var gk = p.Select(v => -v * scale / dik).ToArray();
                 yield return Term(b.ConstantNPerM, centre, j, k, gj, gk, zero);

@@ -42,7 +42,15 @@ internal static class Program
             Directory.CreateDirectory(dir);
             var job = Path.Combine(dir, "job.toml");
             File.WriteAllText(job, c.ToToml());
-            var (code, output) = Cli.Run(dll, dir, job);
+            if (Environment.GetEnvironmentVariable("AUDIT_JOBS_ONLY") == "1")
+            {
+                continue; // write the job files alone: shows which cases a seed draws, e.g. that a new kind moved no earlier case
+            }
+
+            // AUDIT_REUSE=1: compare the results an earlier run left for this same job file (a changed kit, the same engine)
+            var reuse = Environment.GetEnvironmentVariable("AUDIT_REUSE") == "1" && Directory.Exists(Path.Combine(dir, "results"))
+                && File.Exists(Path.Combine(dir, "latsweep.log"));
+            var (code, output) = reuse ? (0, File.ReadAllText(Path.Combine(dir, "latsweep.log"))) : Cli.Run(dll, dir, job);
             // exit 4: every point has results but some models are unstable (README); the audit checks that verdict
             if (code != 0 && code != 4)
             {
