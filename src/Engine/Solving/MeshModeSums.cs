@@ -1,5 +1,6 @@
+using LatticeSweep.Engine.Numerics;
 using LatticeSweep.Engine.QPoints;
-using LatticeSweep.Engine.Thermal;
+using LatticeSweep.Engine.Units;
 
 namespace LatticeSweep.Engine.Solving;
 
@@ -36,45 +37,54 @@ internal sealed record MeshModeSums(double[] FreeEnergyJ)
     public static MeshModeSums? Of(double[] frequencyThz, PeriodicGrid grid, int branches, int rigid, ReadOnlySpan<double> temperaturesK)
     {
         var zero = 1e-7 * frequencyThz.Max();
-        var gamma = grid.Index(grid.N1 / 2, grid.N2 / 2, grid.N3 / 2);
         var fill = GammaFill(frequencyThz, grid, branches, rigid, zero);
         if (fill is null)
         {
             return null;
         }
 
+        // F = sum of hbar omega / 2 + kB T ln(1 - e^-x), x = hbar omega / kB T (Ashcroft and Mermin, ch. 23): the half
+        // set with its weights (-q has q's frequencies), the zero-point part once, the thermal part per temperature.
         var n = temperaturesK.Length;
-        var sums = new ThermalSums[n];
-        const double radPerThz = 2 * Math.PI * 1e12;
-        for (long p = 0; p < grid.Count; p++)
+        var free = new double[n];
+        var zeroPoint = 0.0;
+        var hbarOverKb = PhysicalConstants.HbarJS / PhysicalConstants.BoltzmannJPerK;
+        var beta = temperaturesK.ToArray().Select(t => t > 0 ? hbarOverKb / t : double.PositiveInfinity).ToArray();
+        void Add(double omega, double weight)
         {
-            for (var k = p == gamma ? rigid : 0; k < branches; k++)
+            zeroPoint += weight * 0.5 * PhysicalConstants.HbarJS * omega;
+            for (var t = 0; t < n; t++)
             {
-                var f = frequencyThz[p * branches + k];
+                var x = beta[t] * omega;
+                if (x < 40) // beyond, e^-x < 5e-18: nothing left to add
+                {
+                    var em1 = SmallFunctions.ExpM1(x);
+                    free[t] += weight * Math.Log(em1 / (em1 + 1.0)) / beta[t] * PhysicalConstants.HbarJS;
+                }
+            }
+        }
+
+        const double radPerThz = 2 * Math.PI * 1e12;
+        foreach (var point in grid.HalfSet())
+        {
+            for (var k = point.IsGamma ? rigid : 0; k < branches; k++)
+            {
+                var f = frequencyThz[point.Index * branches + k];
                 if (f < -zero)
                 {
                     return null;
                 }
 
-                if (f <= zero)
+                if (f > zero)
                 {
-                    continue;
-                }
-
-                for (var t = 0; t < n; t++)
-                {
-                    ModeThermodynamics.Accumulate(radPerThz * f, 1.0, temperaturesK[t], ref sums[t]);
+                    Add(radPerThz * f, point.Weight);
                 }
             }
         }
 
-        for (var t = 0; t < n; t++)
-        {
-            ModeThermodynamics.Accumulate(radPerThz * fill.Value, rigid, temperaturesK[t], ref sums[t]);
-        }
-
+        Add(radPerThz * fill.Value, rigid);
         var cells = (double)grid.Count;
-        return new MeshModeSums([.. sums.Select(s => s.Free / cells)]);
+        return new MeshModeSums([.. free.Select(f => (zeroPoint + f) / cells)]);
     }
 
     /// <summary>The frequency (THz) the q = 0 cell's rigid branches are counted at, or null when a neighbour's is not positive.</summary>
