@@ -93,7 +93,8 @@ internal static class QuasiHarmonicLoop
             }
         }
 
-        var withConductivity = AttachConductivity(main with { Expansion = result }, model, sample, options, ct);
+        // The mesh sums served the volumes; the point's result does not carry them.
+        var withConductivity = AttachConductivity(main with { Expansion = result, MeshModeSums = null }, model, sample, options, ct);
         return expansion.ModeGrueneisen && options.Dispersion is not null && main.Summary.Stable
             ? withConductivity with { Dispersion = ModeGrueneisen.Attach(model, withConductivity.Dispersion) }
             : withConductivity;
