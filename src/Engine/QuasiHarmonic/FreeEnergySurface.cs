@@ -13,10 +13,14 @@ namespace LatticeSweep.Engine.QuasiHarmonic;
 /// polynomials in y = V/V0 - 1 (quartic from six volumes, cubic from five, quadratic from four). F_vib, whose
 /// second derivative is B_T's, is the polynomial through every volume of the window
 /// (<see cref="VolumeInterpolant"/>) where it is an exact mode sum (a finite crystal: a sum of a smooth function
-/// over every eigenvalue is smooth in V, as the trace of a matrix function), and the least-squares polynomial
-/// of S's degree where it comes from a bulk mesh's density of states, whose linear simplices between sorted
-/// branches (and long-wave regions) leave kinks of F_vib(V) that an interpolant would amplify (docs/outside-checks.md,
-/// Round 28). The minimum is searched only inside the window: it is never extrapolated. Then B_T = V F'', alpha_V = (dS/dV)_T / B_T,
+/// over every eigenvalue is smooth in V, as the trace of a matrix function). A bulk mesh's F_vib comes from its
+/// density of states, whose simplices, bins and long-wave regions change with the frequencies and leave a
+/// volume-to-volume jitter (1e-7 to 1e-6 of F_vib) that V F'' amplifies, and whose linear simplices bend F_vib(V)
+/// systematically as well: there F_vib is the interpolant of the mesh's plain mode sums
+/// (<see cref="Solving.MeshModeSums"/>, the same q points and weights at every volume: smooth) plus the least-squares
+/// straight line through the DOS integral's difference from them, which keeps the integral's level and slope
+/// but takes F'' from the sums (B_T at 800-1800 K 3-5 times closer to a converged reference than the quartic of the
+/// DOS values; a quadratic difference brought the error back: docs/outside-checks.md, Round 29). The minimum is searched only inside the window: it is never extrapolated. Then B_T = V F'', alpha_V = (dS/dV)_T / B_T,
 /// the thermal Grueneisen parameter V (dS/dV)_T / Cv, which is exactly the Cv-weighted mean of the
 /// mode parameters -d ln omega / d ln V, and Cp = Cv + alpha_V^2 B_T V T (Wallace, Thermodynamics
 /// of Crystals, ch. 1-2; Ashcroft and Mermin, ch. 25; from memory).
@@ -33,8 +37,9 @@ internal sealed class FreeEnergySurface
     private readonly bool _unstableBelow;
     private readonly bool _unstableAbove;
     private readonly bool _exactModeSums;
+    private readonly bool _meshSums;
     private readonly double[] _staticEnergies;
-    private readonly Dictionary<int, (Polynomial Fit, VolumeInterpolant? Free)> _projectors = [];
+    private readonly Dictionary<int, (Polynomial Fit, VolumeInterpolant? Free, Polynomial? Line)> _projectors = [];
 
     /// <param name="usable">The contiguous run of usable volumes, ascending (at least four).</param>
     /// <param name="unstableBelow">A volume just below the run was solved and was unstable.</param>
@@ -50,6 +55,7 @@ internal sealed class FreeEnergySurface
         _unstableBelow = unstableBelow;
         _unstableAbove = unstableAbove;
         _exactModeSums = exactModeSums;
+        _meshSums = !exactModeSums && _volumes.All(v => v.MeshSums is not null);
 
         // The same at every temperature: evaluated once.
         _staticEnergies = [.. _volumes.Select(v => staticCurve.At(ScaleOf(v.CellMeasure)).Energy)];
@@ -92,17 +98,26 @@ internal sealed class FreeEnergySurface
         // The window's volumes are the same at every temperature: its projectors are made once.
         if (!_projectors.TryGetValue(first, out var projectors))
         {
-            projectors = (new Polynomial(window.Select(v => v.CellMeasure / _v0 - 1).ToArray(), degree), _exactModeSums ? new VolumeInterpolant(window.Select(v => v.CellMeasure).ToArray()) : null);
+            var y = window.Select(v => v.CellMeasure / _v0 - 1).ToArray();
+            projectors = (new Polynomial(y, degree),
+                _exactModeSums || _meshSums ? new VolumeInterpolant(window.Select(v => v.CellMeasure).ToArray()) : null,
+                _meshSums ? new Polynomial(y, 1) : null);
             _projectors[first] = projectors;
         }
 
-        var (fit, free) = projectors;
-        var f = free is null ? fit.Coefficients(window.Select(v => v.FreeEnergyJ[t])) : free.Coefficients(window.Select(v => v.FreeEnergyJ[t]));
+        var (fit, free, line) = projectors;
 
-        // F_vib and its first two derivatives in V at v, from the fit (in y) or the interpolant (in V).
+        // F_vib: a finite crystal's values interpolated; a bulk mesh's plain mode sums interpolated (smooth in V)
+        // plus the straight line fitted to the DOS integral's difference from them (its level and slope, not its jitter).
+        var f = free is null
+            ? fit.Coefficients(window.Select(v => v.FreeEnergyJ[t]))
+            : free.Coefficients(window.Select(v => line is null ? v.FreeEnergyJ[t] : v.MeshSums!.FreeEnergyJ[t]));
+        var offset = line?.Coefficients(window.Select(v => v.FreeEnergyJ[t] - v.MeshSums!.FreeEnergyJ[t]));
+
+        // F_vib and its first two derivatives in V at v, from the fit (in y) or the interpolant (in V) and the line.
         double Vibrational(double v, int k) => free is null
             ? Polynomial.Derivative(f, v / _v0 - 1, k) / (k switch { 0 => 1, 1 => _v0, _ => _v0 * _v0 })
-            : free.Derivative(f, v, k);
+            : free.Derivative(f, v, k) + (offset is null ? 0 : Polynomial.Derivative(offset, v / _v0 - 1, k) / (k switch { 0 => 1, 1 => _v0, _ => _v0 * _v0 }));
 
         var s = PositiveFit.Of(fit, window.Select(v => v.EntropyJPerK[t]));
         var c = PositiveFit.Of(fit, window.Select(v => v.HeatCapacityJPerK[t]));

@@ -42,7 +42,8 @@ internal static class QuasiHarmonicLoop
         var s0 = statics.EquilibriumScale;
         var curve = new StaticEnergyCurve(model, StaticLattice.SmallestScale, frozenAtScale: s0);
         var temperatures = Temperatures(options);
-        var harmonic = options with { Expansion = null, Conductivity = null };
+        // A bulk mesh's volumes also sum their modes plainly: F_vib's volume dependence comes from those sums (FreeEnergySurface).
+        var harmonic = options with { Expansion = null, Conductivity = null, MeshModeSums = sample is BulkSample };
         var main = PhononSolver.SolveHarmonic(model, sample, harmonic, ct);
         if (!main.Summary.Stable)
         {
@@ -92,7 +93,8 @@ internal static class QuasiHarmonicLoop
             }
         }
 
-        var withConductivity = AttachConductivity(main with { Expansion = result }, model, sample, options, ct);
+        // The mesh sums served the volumes; the point's result does not carry them.
+        var withConductivity = AttachConductivity(main with { Expansion = result, MeshModeSums = null }, model, sample, options, ct);
         return expansion.ModeGrueneisen && options.Dispersion is not null && main.Summary.Stable
             ? withConductivity with { Dispersion = ModeGrueneisen.Attach(model, withConductivity.Dispersion) }
             : withConductivity;
@@ -172,7 +174,7 @@ internal static class QuasiHarmonicLoop
         }
 
         var usable = result.Summary.Stable && f.All(double.IsFinite) && s.All(double.IsFinite) && c.All(double.IsFinite);
-        return new VolumeSample(scale, curve.MeasureAt(scale), f, s, c, usable);
+        return new VolumeSample(scale, curve.MeasureAt(scale), f, s, c, usable) { MeshSums = result.MeshModeSums };
     }
 
     private static (ExpansionResult Result, FreeEnergySurface.Side[] Sides) Expansion(CrystalModel model, Sample sample, SolveOptions options, StaticLatticeResult statics, StaticEnergyCurve curve, List<VolumeSample> samples, double[] temperatures)

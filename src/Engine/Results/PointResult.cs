@@ -40,4 +40,7 @@ public sealed record PointResult(
     /// model from the fit (the solver sees only the model).
     /// </summary>
     public ElasticFitResult? ElasticFit { get; init; }
+
+    /// <summary>A bulk point solved for the quasi-harmonic loop: F_vib as the plain sum over the mesh's modes (smooth in the volume), or null.</summary>
+    internal Solving.MeshModeSums? MeshModeSums { get; init; }
 }

@@ -317,6 +317,7 @@ internal static class BulkSolver
             BoundaryMaxLambda = unstable ? null : gapMax.Max(),
             Dos = DosAssembly.FromStates(outGrid, outTotal, outPartial, sites, method),
             Modes = [],
+            MeshModeSums = options.MeshModeSums && !unstable ? MeshModeSums.Of(frequencies, grid, n, rigid, sink.TemperaturesK) : null,
         };
     }
 

@@ -296,6 +296,7 @@ public static partial class PhononSolver
         return new PointResult(summary, outcome.Dos, rows.ToImmutable(), displacements.ToImmutable(), dispersion, outcome.Modes)
         {
             ElasticFit = model.ElasticFit,
+            MeshModeSums = outcome.MeshModeSums,
         };
     }
 

@@ -49,4 +49,10 @@ public sealed record SolveOptions
 
     /// <summary>Quasi-harmonic thermal expansion (models with potentials); null = harmonic only. Run by <see cref="PhononSolver.Solve"/> around the harmonic solves.</summary>
     public ExpansionOptions? Expansion { get; init; }
+
+    /// <summary>
+    /// Bulk meshes: also the plain sum of F over the mesh's modes (<see cref="Results.PointResult.MeshModeSums"/>),
+    /// smooth in the volume, for the quasi-harmonic loop; set by it, not by users.
+    /// </summary>
+    internal bool MeshModeSums { get; init; }
 }

@@ -32,5 +32,8 @@ internal sealed record SpectrumOutcome
     /// </summary>
     public double? BoundaryMaxLambda { get; init; }
     public required DosCurve Dos { get; init; }
+
+    /// <summary>Bulk passes asked for them (<see cref="SolveOptions.MeshModeSums"/>): the plain mode sums of the mesh, or null.</summary>
+    public MeshModeSums? MeshModeSums { get; init; }
     public required ImmutableArray<ModeLevel> Modes { get; init; }
 }
