@@ -267,7 +267,7 @@ internal static class BulkSolver
         // temperature) and to the DOS table by bins.
         longWaves?.AddBelowSplit(sink, sink.TemperaturesK);
 
-        // Where the plain mesh sum of U, Cv and F's analytic part has converged (the long waves' poles far enough from
+        // Where the plain mesh sum of U and Cv has converged (the long waves' poles far enough from
         // the real wave vectors for this mesh's step), it replaces the simplices' (Thermal/PeriodicMeshSums: exponential
         // against h^2 convergence). Not for chains (their meshes are fine already), broadening, unstable or floppy models,
         // nor sheets' zero valleys (floors the estimate does not see).
@@ -346,11 +346,11 @@ internal static class BulkSolver
                 continue;
             }
 
-            var (internalJ, heatCapacity, analyticFree) = Thermal.PeriodicMeshSums.Sums(frequencies, branches, temperatures[t]);
+            var (internalJ, heatCapacity) = Thermal.PeriodicMeshSums.Sums(frequencies, branches, temperatures[t]);
             var error = Thermal.PeriodicMeshSums.EstimatedError(probes, cellMeasure, dimension, temperatures[t], heatCapacity);
             var weight = Thermal.PeriodicMeshSums.Weight(error);
 
-            sink.BlendPlainSums(t, weight, internalJ, heatCapacity, analyticFree);
+            sink.BlendPlainSums(t, weight, internalJ, heatCapacity);
         }
     }
 

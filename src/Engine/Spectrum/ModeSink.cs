@@ -121,25 +121,20 @@ internal sealed class ModeSink
 
     /// <summary>
     /// Moves the sums at temperature index t towards a plain mesh sum's (<see cref="PeriodicMeshSums"/>): U and Cv become
-    /// (1 - w) of these plus w of the given ones; F takes the given analytic part with this sink's log moment,
-    /// kT sum ln(hbar omega / kT) + the analytic part, and S = (U - F) / T; the zero-point energy stays.
+    /// (1 - w) of these plus w of the given ones, S stays, and F = U - T S moves with U; the zero-point energy stays.
     /// </summary>
-    public void BlendPlainSums(int t, double weight, double internalJ, double heatCapacityJPerK, double analyticFreeJ)
+    public void BlendPlainSums(int t, double weight, double internalJ, double heatCapacityJPerK)
     {
         if (!(weight > 0))
         {
             return;
         }
 
-        var sink = Flushed();
-        var temperature = _temperaturesK[t];
-        var kt = PhysicalConstants.BoltzmannJPerK * temperature;
-        var free = (kt * (sink._sumLnOmega + (StatesCounted * Math.Log(PhysicalConstants.HbarJS / kt)))) + analyticFreeJ;
-        ref var s = ref sink._sums[t];
-        s.Internal = ((1 - weight) * s.Internal) + (weight * internalJ);
+        ref var s = ref Flushed()._sums[t];
+        var shift = weight * (internalJ - s.Internal);
+        s.Internal += shift;
+        s.Free += shift;
         s.HeatCapacity = ((1 - weight) * s.HeatCapacity) + (weight * heatCapacityJPerK);
-        s.Free = ((1 - weight) * s.Free) + (weight * free);
-        s.Entropy = ((1 - weight) * s.Entropy) + (weight * (internalJ - free) / temperature);
     }
 
     /// <summary>Mean-square displacement (m^2) at temperature index t for channel c, or NaN when not collected.</summary>

@@ -7,16 +7,16 @@ namespace LatticeSweep.Engine.Thermal;
 
 /// <summary>
 /// Plain sums over a bulk point's Gamma-centred mesh of the thermal functions that are analytic in omega^2, for the
-/// temperatures where such a sum has converged: U, Cv and the part of F left after ln x.
+/// temperatures where such a sum has converged: U and Cv (F = U - T S moves with U; S keeps the density of states').
 /// <para>
 /// Why: Cv per mode, c(x) = x^2 e^x / (e^x - 1)^2, and U per mode, (kT) (x/2) coth(x/2), are even in x = hbar omega / kT,
 /// so sum_b c(x_b(q)) = tr c(D(q)) is an analytic periodic function of q, the cone at q = 0 and branch crossings
 /// included. The trapezoid (plain periodic) sum of such a function converges exponentially with the mesh (common
 /// practice, no source: the Poisson summation formula), at a rate set by its poles at omega^2 = -(2 pi n kT / hbar)^2,
 /// which the acoustic cones bring nearest to the real q at i 2 pi kT / (hbar c). Linear simplices converge as h^2 and
-/// left Cv 1.1 % low at 26 K on an 11^3 mesh where the plain sum is 4e-4 off (docs/outside-checks.md, Round 29).
-/// F per mode is kT [ln x + a(x)] with a(x) = ln(sinh(x/2) / (x/2)), even in x; ln x is the log moment, kept from
-/// the density of states, so F = U - T S holds with S = (U - F) / T.
+/// left Cv 3e-4 low at 60 K on a simple cubic 8^3 mesh where the plain sum is within 5e-7 (docs/outside-checks.md,
+/// Round 29 (coarse meshes)). S and F contain ln x, singular at q = 0; splitting it off as the log moment put the
+/// simplices' error of ln omega of frozen modes into S (a sheet on 10 x 10: 2.6e-2 high at 500 K), so S stays.
 /// </para>
 /// </summary>
 internal static class PeriodicMeshSums
@@ -188,29 +188,27 @@ internal static class PeriodicMeshSums
     }
 
     /// <summary>
-    /// Per cell (J, J/K): the mesh mean of sum_b U, Cv and kT a(x) at temperature T, every mode of the mesh once (q = 0's
-    /// zero modes at their limits x -> 0: U = kT, Cv = kB, a = 0).
+    /// Per cell (J, J/K): the mesh mean of sum_b U and Cv at temperature T, every mode of the mesh once (q = 0's zero modes
+    /// at their limits x -> 0: U = kT, Cv = kB).
     /// </summary>
-    public static (double InternalJ, double HeatCapacityJPerK, double AnalyticFreeJ) Sums(double[] frequencyThz, int branches, double temperatureK)
+    public static (double InternalJ, double HeatCapacityJPerK) Sums(double[] frequencyThz, int branches, double temperatureK)
     {
         var kt = Kb * temperatureK;
-        double u = 0, cv = 0, a = 0;
+        double u = 0, cv = 0;
         foreach (var f in frequencyThz)
         {
             var x = Hbar * 2 * Math.PI * 1e12 * Math.Max(0, f) / kt;
             if (x < 1e-4)
             {
-                // Series: (x/2) coth(x/2) = 1 + x^2/12, c = 1 - x^2/12, a = x^2/24 (x^4 terms below 1e-17).
+                // Series: (x/2) coth(x/2) = 1 + x^2/12, c = 1 - x^2/12 (x^4 terms below 1e-17).
                 u += 1 + (x * x / 12);
                 cv += 1 - (x * x / 12);
-                a += x * x / 24;
                 continue;
             }
 
             if (x > 700)
             {
                 u += x / 2;
-                a += (x / 2) - Math.Log(x);
                 continue;
             }
 
@@ -218,11 +216,10 @@ internal static class PeriodicMeshSums
             var occupation = 1.0 / em1;
             u += (x / 2) + (x * occupation);
             cv += x * x * occupation * (1.0 + occupation); // n (n + 1) = e^x / (e^x - 1)^2, without e^x's overflow near x = 700
-            a += (x / 2) + Math.Log(em1 / (em1 + 1.0)) - Math.Log(x);
         }
 
         var points = (double)frequencyThz.Length / branches;
-        return (kt * u / points, Kb * cv / points, kt * a / points);
+        return (kt * u / points, Kb * cv / points);
     }
 
     private static double[] LowestOmegas(ModeSolver solver, Vec3 qPerM, int count)
