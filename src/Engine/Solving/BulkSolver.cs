@@ -267,6 +267,15 @@ internal static class BulkSolver
         // temperature) and to the DOS table by bins.
         longWaves?.AddBelowSplit(sink, sink.TemperaturesK);
 
+        // Where the plain mesh sum of U and Cv has converged (the long waves' poles far enough from
+        // the real wave vectors for this mesh's step), it replaces the simplices' (Thermal/PeriodicMeshSums: exponential
+        // against h^2 convergence). Not for chains (their meshes are fine already), broadening, unstable or floppy models,
+        // nor sheets' zero valleys (floors the estimate does not see).
+        if (dimension >= 2 && !gaussian && !unstable && zeroModes == rigid && valleys.Count == 0)
+        {
+            BlendPlainSums(solver, sink, frequencies, n, grid, dimension);
+        }
+
         var outGrid = new FrequencyGrid(fine.StartThz, fine.WidthThz * perOutput, options.DosBins);
         var outTotal = new double[outGrid.Bins];
         var sites = crystal.Sites;
@@ -319,6 +328,31 @@ internal static class BulkSolver
             Modes = [],
             MeshModeSums = options.MeshModeSums && !unstable ? MeshModeSums.Of(frequencies, grid, n, rigid, sink.TemperaturesK) : null,
         };
+    }
+
+    private static void BlendPlainSums(ModeSolver solver, ModeSink sink, double[] frequencies, int branches, PeriodicGrid grid, int dimension)
+    {
+        var probes = Thermal.PeriodicMeshSums.Probe(solver, grid);
+        if (probes is null)
+        {
+            return;
+        }
+
+        var cellMeasure = solver.Matrix.Crystal.Lattice.CellMeasure;
+        var temperatures = sink.TemperaturesK;
+        for (var t = 0; t < temperatures.Length; t++)
+        {
+            if (!(temperatures[t] > 0))
+            {
+                continue;
+            }
+
+            var (internalJ, heatCapacity) = Thermal.PeriodicMeshSums.Sums(frequencies, branches, temperatures[t]);
+            var error = Thermal.PeriodicMeshSums.EstimatedError(probes, cellMeasure, dimension, temperatures[t], heatCapacity);
+            var weight = Thermal.PeriodicMeshSums.Weight(error);
+
+            sink.BlendPlainSums(t, weight, internalJ, heatCapacity);
+        }
     }
 
     /// <summary>

@@ -119,6 +119,24 @@ internal sealed class ModeSink
 
     public ThermalSums Sums(int temperatureIndex) => Flushed()._sums[temperatureIndex];
 
+    /// <summary>
+    /// Moves the sums at temperature index t towards a plain mesh sum's (<see cref="PeriodicMeshSums"/>): U and Cv become
+    /// (1 - w) of these plus w of the given ones, S stays, and F = U - T S moves with U; the zero-point energy stays.
+    /// </summary>
+    public void BlendPlainSums(int t, double weight, double internalJ, double heatCapacityJPerK)
+    {
+        if (!(weight > 0))
+        {
+            return;
+        }
+
+        ref var s = ref Flushed()._sums[t];
+        var shift = weight * (internalJ - s.Internal);
+        s.Internal += shift;
+        s.Free += shift;
+        s.HeatCapacity = ((1 - weight) * s.HeatCapacity) + (weight * heatCapacityJPerK);
+    }
+
     /// <summary>Mean-square displacement (m^2) at temperature index t for channel c, or NaN when not collected.</summary>
     public double Msd(int t, int c) => _msd is null ? double.NaN : Flushed()._msd![t * _channels + c];
 

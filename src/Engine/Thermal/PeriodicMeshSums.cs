@@ -1,0 +1,235 @@
+using LatticeSweep.Engine.Models;
+using LatticeSweep.Engine.QPoints;
+using LatticeSweep.Engine.Spectrum;
+using LatticeSweep.Engine.Units;
+
+namespace LatticeSweep.Engine.Thermal;
+
+/// <summary>
+/// Plain sums over a bulk point's Gamma-centred mesh of the thermal functions that are analytic in omega^2, for the
+/// temperatures where such a sum has converged: U and Cv (F = U - T S moves with U; S keeps the density of states').
+/// <para>
+/// Why: Cv per mode, c(x) = x^2 e^x / (e^x - 1)^2, and U per mode, (kT) (x/2) coth(x/2), are even in x = hbar omega / kT,
+/// so sum_b c(x_b(q)) = tr c(D(q)) is an analytic periodic function of q, the cone at q = 0 and branch crossings
+/// included. The trapezoid (plain periodic) sum of such a function converges exponentially with the mesh (common
+/// practice, no source: the Poisson summation formula), at a rate set by its poles at omega^2 = -(2 pi n kT / hbar)^2,
+/// which the acoustic cones bring nearest to the real q at i 2 pi kT / (hbar c). Linear simplices converge as h^2 and
+/// left Cv 3e-4 low at 60 K on a simple cubic 8^3 mesh where the plain sum is within 5e-7 (docs/outside-checks.md,
+/// Round 29 (coarse meshes)). S and F contain ln x, singular at q = 0; splitting it off as the log moment put the
+/// simplices' error of ln omega of frozen modes into S (a sheet on 10 x 10: 2.6e-2 high at 500 K), so S stays.
+/// </para>
+/// </summary>
+internal static class PeriodicMeshSums
+{
+    private const double Hbar = PhysicalConstants.HbarJS;
+    private const double Kb = PhysicalConstants.BoltzmannJPerK;
+
+    /// <summary>
+    /// Relative error of the plain sum of an isotropic cone's Cv on a cubic (d = 3) or square (d = 2) lattice of wave
+    /// vectors, against its integral, at mesh steps dy = hbar c dq / kT (the larger of the two dimensions' values;
+    /// docs/outside-checks.md, Round 29: /tmp NumPy sum over |n| dy up to y = 80 against the radial integral).
+    /// </summary>
+    private static readonly (double StepY, double Error)[] ConeErrorTable =
+    [
+        (1.5, 1.1e-9), (2.0, 5.7e-7), (2.25, 4.7e-6), (2.5, 2.5e-5), (2.75, 9.9e-5), (3.0, 3.1e-4),
+        (3.25, 8.0e-4), (3.5, 1.8e-3), (3.75, 3.7e-3), (4.0, 6.7e-3), (4.5, 2.0e-2), (5.0, 4.6e-2), (6.0, 0.163),
+    ];
+
+    /// <summary>
+    /// Estimated relative error at or below which the plain sum is taken alone. The estimate is of the slowest cone's own Cv,
+    /// as if isotropic at each R's speed: on a hexagonal 11^3 cell it read 2e-3 at 26 K where the plain sum was 3.6e-4 off
+    /// and the simplices 1.1e-2 (docs/outside-checks.md, Round 29).
+    /// </summary>
+    public const double PlainAloneError = 1e-4;
+
+    /// <summary>Estimated relative error at or above which the plain sum is not used (the density of states' sums stay).</summary>
+    public const double PlainUnusedError = 1e-3;
+
+    /// <summary>Fewest mesh points per periodic direction (the mesh check's smallest mesh): coarser meshes keep the density of states' sums.</summary>
+    public const int MinimumMeshCount = 4;
+
+    /// <summary>
+    /// The acoustic branches at the short vectors R = sum_i n_i M_i a_i (n_i in {-1, 0, 1}, one of each pair +-R) of the
+    /// mesh's superlattice, whose Fourier terms are the plain sum's error (Poisson summation): each branch's omega at
+    /// q_R = 2 pi R / |R|^2, the mesh step along R. Null where the mesh is too small, a branch is not positive there, or
+    /// one rises as q^2 (omega(2 q_R) above 3 omega(q_R): a sheet's flexural branch, whose poles the cone table does not
+    /// describe): such points keep the density of states' sums.
+    /// </summary>
+    public static LongWaveProbe[]? Probe(ModeSolver solver, PeriodicGrid grid)
+    {
+        var crystal = solver.Matrix.Crystal;
+        var lattice = crystal.Lattice;
+        var dimension = lattice.Dimension;
+        var acoustic = crystal.Components;
+        int[] counts = [grid.N1, grid.N2, grid.N3];
+        for (var a = 0; a < dimension; a++)
+        {
+            if (counts[a] < MinimumMeshCount)
+            {
+                return null;
+            }
+        }
+
+        var probes = new List<LongWaveProbe>();
+        var span = (int)Math.Pow(3, dimension);
+        for (var code = (span / 2) + 1; code < span; code++)
+        {
+            // Codes above the middle: one of each pair +-R (the middle code is R = 0).
+            var c = code;
+            var r = new Vec3(0, 0, 0);
+            for (var a = 0; a < dimension; a++)
+            {
+                r += ((c % 3) - 1) * counts[a] * lattice.Vector(a);
+                c /= 3;
+            }
+
+            var q = 2 * Math.PI / r.Dot(r) * r;
+            var one = LowestOmegas(solver, q, acoustic);
+            var two = LowestOmegas(solver, 2 * q, acoustic);
+            for (var b = 0; b < acoustic; b++)
+            {
+                if (!(one[b] > 0) || two[b] > 3 * one[b])
+                {
+                    return null;
+                }
+            }
+
+            probes.Add(new LongWaveProbe(q.Length, one));
+        }
+
+        return [.. probes];
+    }
+
+    /// <summary>
+    /// The estimated relative error of the plain sum's Cv at temperature T (infinite where it is not to be used). The estimate:
+    /// for each R and acoustic branch, the cone table's error at dy = hbar omega(q_R) / kT (a d-th of it: the calibration
+    /// lattice has d pairs alike) times that branch's long-wave Cv, (2 pi^2 / 15) kB (kT / hbar)^3 V / c^3 in 3D,
+    /// (3 zeta(3) / pi) kB (kT / hbar)^2 A / c^2 in 2D (Ashcroft and Mermin eq. 23.30; the 2D one derived the same way),
+    /// with c^d taken as c_min^(d-1) c_R (the slowest speed over every R and branch: a branch fast along R may be slow
+    /// across it, as a simple cubic crystal's z-polarised branch is) and at most the plain sum's Cv, over the plain sum's Cv.
+    /// Measured: 1.3e-2 against 1.8e-2 on a simple cubic 8^3 mesh at 20 K; conservative where a slow direction is not the
+    /// branch's (a hexagonal 11^3 cell at 26 K: 1.2e-2 against 3.6e-4, so the simplices' sums stay there).
+    /// </summary>
+    public static double EstimatedError(LongWaveProbe[]? probes, double cellMeasure, int dimension, double temperatureK, double plainHeatCapacityJPerK)
+    {
+        if (probes is null || !(temperatureK > 0) || !(plainHeatCapacityJPerK > 0))
+        {
+            return double.PositiveInfinity;
+        }
+
+        var slowest = double.PositiveInfinity;
+        foreach (var probe in probes)
+        {
+            foreach (var omega in probe.OmegaRadPerS)
+            {
+                slowest = Math.Min(slowest, omega / probe.QPerM);
+            }
+        }
+
+        var thermalOmega = Kb * temperatureK / Hbar;
+        var prefactor = dimension == 3 ? 2 * Math.PI * Math.PI / 15 : 3 * 1.2020569031595942 / Math.PI;
+        var error = 0.0;
+        foreach (var probe in probes)
+        {
+            foreach (var omega in probe.OmegaRadPerS)
+            {
+                var speed = omega / probe.QPerM;
+                var scale = Math.Pow(thermalOmega / slowest, dimension - 1) * (thermalOmega / speed);
+                var coneHeatCapacity = Math.Min(prefactor * Kb * scale * cellMeasure, plainHeatCapacityJPerK);
+                error += ConeError(omega / thermalOmega) / dimension * coneHeatCapacity;
+            }
+        }
+
+        var relative = error / plainHeatCapacityJPerK;
+        return relative >= 0 ? relative : double.PositiveInfinity;
+    }
+
+    /// <summary>
+    /// The weight of the plain sum (0: the density of states' sums alone, 1: the plain sum alone) for an estimated relative
+    /// error (<see cref="EstimatedError"/>), log-linear in it between <see cref="PlainAloneError"/> and <see cref="PlainUnusedError"/>.
+    /// </summary>
+    public static double Weight(double error)
+    {
+        if (error <= PlainAloneError)
+        {
+            return 1;
+        }
+
+        if (error >= PlainUnusedError)
+        {
+            return 0;
+        }
+
+        return Math.Log(PlainUnusedError / error) / Math.Log(PlainUnusedError / PlainAloneError);
+    }
+
+    /// <summary>The cone table read log-linearly in the error; below its first step the error is taken as its first value.</summary>
+    public static double ConeError(double stepY)
+    {
+        var table = ConeErrorTable;
+        if (stepY <= table[0].StepY)
+        {
+            return table[0].Error;
+        }
+
+        for (var i = 1; i < table.Length; i++)
+        {
+            // Past the table: its last segment extended (the plain sum then holds little more than q = 0's modes).
+            if (stepY <= table[i].StepY || i == table.Length - 1)
+            {
+                var (x0, e0) = table[i - 1];
+                var (x1, e1) = table[i];
+                var f = (stepY - x0) / (x1 - x0);
+                return Math.Exp(Math.Log(e0) + (f * (Math.Log(e1) - Math.Log(e0))));
+            }
+        }
+
+        return double.PositiveInfinity;
+    }
+
+    /// <summary>
+    /// Per cell (J, J/K): the mesh mean of sum_b U and Cv at temperature T, every mode of the mesh once (q = 0's zero modes
+    /// at their limits x -> 0: U = kT, Cv = kB).
+    /// </summary>
+    public static (double InternalJ, double HeatCapacityJPerK) Sums(double[] frequencyThz, int branches, double temperatureK)
+    {
+        var kt = Kb * temperatureK;
+        double u = 0, cv = 0;
+        foreach (var f in frequencyThz)
+        {
+            var x = Hbar * 2 * Math.PI * 1e12 * Math.Max(0, f) / kt;
+            if (x < 1e-4)
+            {
+                // Series: (x/2) coth(x/2) = 1 + x^2/12, c = 1 - x^2/12 (x^4 terms below 1e-17).
+                u += 1 + (x * x / 12);
+                cv += 1 - (x * x / 12);
+                continue;
+            }
+
+            if (x > 700)
+            {
+                u += x / 2;
+                continue;
+            }
+
+            var em1 = Numerics.SmallFunctions.ExpM1(x);
+            var occupation = 1.0 / em1;
+            u += (x / 2) + (x * occupation);
+            cv += x * x * occupation * (1.0 + occupation); // n (n + 1) = e^x / (e^x - 1)^2, without e^x's overflow near x = 700
+        }
+
+        var points = (double)frequencyThz.Length / branches;
+        return (kt * u / points, Kb * cv / points);
+    }
+
+    private static double[] LowestOmegas(ModeSolver solver, Vec3 qPerM, int count)
+    {
+        solver.SolveValues(qPerM);
+        var sorted = solver.Values.Order().Take(count).ToArray();
+        return [.. sorted.Select(v => Math.Sqrt(Math.Max(0, v)))];
+    }
+
+}
+
+/// <summary>The acoustic branches' angular frequencies (rad/s, ascending) at q_R, the mesh step 2 pi / |R| along a superlattice vector R.</summary>
+internal sealed record LongWaveProbe(double QPerM, double[] OmegaRadPerS);
