@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
@@ -66,6 +67,11 @@ public static partial class PhononSolver
             QuasiHarmonic.QuasiHarmonicLoop.Validate(model, expansion);
         }
 
+        if (sample is BulkSample && ValleyProblem(ValleySolver(model), sample, options) is { } valley)
+        {
+            throw new ModelException([valley]);
+        }
+
         if (options.Conductivity is { } conductivity)
         {
             // With thermal expansion a missing Grueneisen parameter is computed, as Solve does.
@@ -100,6 +106,10 @@ public static partial class PhononSolver
         {
             problems.Add(floppy);
         }
+        else if (crystal is not null && ValleyProblem(new ModeSolver(new DynamicalMatrix(crystal)), sample, options) is { } valley)
+        {
+            problems.Add(valley);
+        }
 
         if (sample is RealSpaceSample r)
         {
@@ -119,6 +129,31 @@ public static partial class PhononSolver
 
         return problems;
     }
+
+    /// <summary>
+    /// The refusal of a bulk point whose zero valleys away from q = 0 the solver would leave out (<see cref="ZeroValleys"/>):
+    /// a sheet's valley that the mesh puts neither on a mesh point nor midway between two (naming <c>sample.mesh[k]</c>), or
+    /// any valley of a chain or a 3D crystal (naming <c>model</c>); null otherwise, and for Gaussian broadening, which has
+    /// no long-wave rays for q = 0 either. <see cref="BulkSolver"/> raises the same.
+    /// </summary>
+    private static ModelProblem? ValleyProblem(ModeSolver solver, Sample sample, SolveOptions options)
+    {
+        if (sample is not BulkSample bulk || options.DosMethod == DosMethod.Gaussian)
+        {
+            return null;
+        }
+
+        lock (solver)
+        {
+            return ZeroValleys.OffMeshProblem(solver, ZeroValleys.Find(solver), bulk) ?? ZeroValleys.BeyondSheetsProblem(solver);
+        }
+    }
+
+    /// <summary>One solver per model for the forecast's points (a sweep's points share a model object per distinct model).</summary>
+    private static ModeSolver ValleySolver(CrystalModel model) =>
+        ValleySolvers.GetValue(model, m => new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(m))));
+
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<CrystalModel, ModeSolver> ValleySolvers = new();
 
     /// <summary>The refusal of a sample too large for an exact sum (finite) or for the memory limit (bulk), or null.</summary>
     private static ModelProblem? SizeProblem(CrystalModel model, Sample sample, SolveOptions options) => sample switch
