@@ -318,17 +318,18 @@ internal static class ZeroValleys
     public static Dictionary<long, int> MeshCentres(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh, PeriodicGrid grid) =>
         MeshCentres(valleys, mesh.M1, mesh.M2, grid);
 
-    /// <summary>As above on an m1 x m2 grid of wave vectors (a bulk mesh or a periodic finite sheet's own wave vectors).</summary>
-    public static Dictionary<long, int> MeshCentres(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, int m1, int m2, PeriodicGrid grid)
+    /// <summary>As above on an m1 x m2 (x m3) grid of wave vectors (a bulk mesh or a periodic finite crystal's own wave vectors).</summary>
+    public static Dictionary<long, int> MeshCentres(IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, int m1, int m2, PeriodicGrid grid, int m3 = 1)
     {
         var centres = new Dictionary<long, int>();
         foreach (var (reduced, branches) in valleys)
         {
-            if (Centre2(reduced.X, m1) is { } c1 && Centre2(reduced.Y, m2) is { } c2 && c1 % 2 == 0 && c2 % 2 == 0)
+            if (Centre2(reduced.X, m1) is { } c1 && Centre2(reduced.Y, m2) is { } c2 && Centre2(reduced.Z, m3) is { } c3 && c1 % 2 == 0 && c2 % 2 == 0 && c3 % 2 == 0)
             {
                 var i1 = ((c1 / 2) + (m1 / 2)) % m1;
                 var i2 = ((c2 / 2) + (m2 / 2)) % m2;
-                centres[grid.Index(i1, i2, 0)] = branches;
+                var i3 = ((c3 / 2) + (m3 / 2)) % m3;
+                centres[grid.Index(i1, i2, i3)] = branches;
             }
         }
 
