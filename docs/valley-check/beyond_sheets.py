@@ -8,7 +8,8 @@
 #   chainspring2: the same site, springs on shell 2 alone (L = 10, T = 1 N/m): m w^2 = 4 K sin^2(q a) per branch, zero at 0 and pi.
 #   sc2:          simple cubic, the same site and a, springs on shell 2 alone (the 12 face diagonals, L = 10, T = 1 N/m):
 #                 D(q + R) = D(q) with R = (pi, pi, pi) / a (every diagonal's phase is 2 pi), two cone valleys; the Debye
-#                 T^3 law C/V = (2 pi^2 / 15) kB^4 T^3 / hbar^3 sum_b <c_b^-3> (average over directions) per valley.
+#                 T^3 law C/V = (2 pi^2 / 15) kB^4 T^3 / hbar^3 sum_b <c_b^-3> (average over directions) per valley
+#                 (from memory: the low-temperature limit, Ashcroft and Mermin ch. 23, one term per branch).
 # Usage: /usr/bin/python3 beyond_sheets.py CASE T...      (1D: graded Gauss-Legendre over the zone; sc2: the T^3 law, valid
 #        where T is far below the Debye temperature, i.e. 0.05-0.5 K here)
 #        /usr/bin/python3 beyond_sheets.py finite CASE N T...  (1D: the exact mode sum of a periodic chain of N cells, rigid modes out)

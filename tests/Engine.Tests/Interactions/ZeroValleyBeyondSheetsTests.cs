@@ -72,6 +72,7 @@ public sealed class ZeroValleyBeyondSheetsTests
 
         // `check` forecasts it: the pre-flight of the point reports the same problem.
         Assert.Contains(PhononSolver.Preflight(model, sample, Cold), p => p.Where == "model" && p.Message == problem.Message);
+        Assert.Equal(problem.Message, Assert.Single(Assert.Throws<ModelException>(() => PhononSolver.PreflightPoint(model, sample, Cold)).Problems).Message);
     }
 
     [Theory]
@@ -132,6 +133,7 @@ public sealed class ZeroValleyBeyondSheetsTests
         Assert.Contains(why, problem.Message);
         Assert.Contains(advice, problem.Message);
         Assert.Contains(PhononSolver.Preflight(QuarterValleySheet(), sample, Cold), p => p.Where == "sample.mesh[0]" && p.Message == problem.Message);
+        Assert.Equal(problem.Message, Assert.Single(Assert.Throws<ModelException>(() => PhononSolver.PreflightPoint(QuarterValleySheet(), sample, Cold)).Problems).Message);
     }
 
     [Fact]
