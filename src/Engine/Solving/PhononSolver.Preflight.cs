@@ -67,7 +67,7 @@ public static partial class PhononSolver
             QuasiHarmonic.QuasiHarmonicLoop.Validate(model, expansion);
         }
 
-        if (sample is BulkSample && ValleyProblem(ValleySolver(model), sample, options) is { } valley)
+        if (sample is BulkSample bulk && options.DosMethod != DosMethod.Gaussian && CachedValleyProblem(model, bulk) is { } valley)
         {
             throw new ModelException([valley]);
         }
@@ -149,11 +149,33 @@ public static partial class PhononSolver
         }
     }
 
-    /// <summary>One solver per model for the forecast's points (a sweep's points share a model object per distinct model).</summary>
-    private static ModeSolver ValleySolver(CrystalModel model) =>
-        ValleySolvers.GetValue(model, m => new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(m))));
+    /// <summary>
+    /// <see cref="ValleyProblem"/> once per model object and mesh: the forecast's points share a model object per distinct
+    /// model, and a valley search costs 15 or more eigen-solves (0.3-0.7 ms a point in bench/README.md, Round 29 (valleys
+    /// cost), where the rest of a point's pre-flight is about 1 ms).
+    /// </summary>
+    private static ModelProblem? CachedValleyProblem(CrystalModel model, BulkSample mesh)
+    {
+        var entry = ValleyProblems.GetValue(model, m => new ValleyEntry(new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(m)))));
+        lock (entry)
+        {
+            var key = (mesh.M1, mesh.M2, mesh.M3);
+            if (!entry.ByMesh.TryGetValue(key, out var problem))
+            {
+                problem = ValleyProblem(entry.Solver, mesh, new SolveOptions());
+                entry.ByMesh[key] = problem;
+            }
 
-    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<CrystalModel, ModeSolver> ValleySolvers = new();
+            return problem;
+        }
+    }
+
+    private sealed record ValleyEntry(ModeSolver Solver)
+    {
+        public Dictionary<(int, int, int), ModelProblem?> ByMesh { get; } = [];
+    }
+
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<CrystalModel, ValleyEntry> ValleyProblems = new();
 
     /// <summary>The refusal of a sample too large for an exact sum (finite) or for the memory limit (bulk), or null.</summary>
     private static ModelProblem? SizeProblem(CrystalModel model, Sample sample, SolveOptions options) => sample switch
