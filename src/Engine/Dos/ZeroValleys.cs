@@ -44,6 +44,7 @@ internal static class ZeroValleys
             return found;
         }
 
+        var general = GeneralScale(solver);
         foreach (var a in Coordinates)
         {
             foreach (var b in Coordinates)
@@ -54,7 +55,7 @@ internal static class ZeroValleys
                 }
 
                 var reduced = new Vec3(a, b, 0);
-                if (ZerosAt(solver, reduced) is { } zeros)
+                if (ZerosAt(solver, reduced, general) is { } zeros)
                 {
                     found.Add((reduced, zeros));
                 }
@@ -63,7 +64,7 @@ internal static class ZeroValleys
 
         foreach (var reduced in ZeroValleyCandidates.Of(solver.Matrix.Crystal))
         {
-            if (!IsFixedPoint(reduced) && ZerosAt(solver, reduced) is { } zeros)
+            if (!IsFixedPoint(reduced) && ZerosAt(solver, reduced, general) is { } zeros)
             {
                 found.Add((reduced, zeros));
             }
@@ -85,9 +86,11 @@ internal static class ZeroValleys
             return found;
         }
 
-        foreach (var reduced in ZeroValleyCandidates.Of(solver.Matrix.Crystal))
+        var candidates = ZeroValleyCandidates.Of(solver.Matrix.Crystal);
+        var general = candidates.Count > 0 ? GeneralScale(solver) : 0;
+        foreach (var reduced in candidates)
         {
-            if (ZerosAt(solver, reduced) is { } zeros)
+            if (ZerosAt(solver, reduced, general) is { } zeros)
             {
                 found.Add((reduced, zeros));
             }
@@ -101,12 +104,9 @@ internal static class ZeroValleys
     /// at a general point where every branch is zero: a one-site crystal whose springs all skip a cell), or null when none.
     /// A point where every branch is zero counts only for a model of one site (its branches are all acoustic).
     /// </summary>
-    private static int? ZerosAt(ModeSolver solver, Vec3 reduced)
+    private static int? ZerosAt(ModeSolver solver, Vec3 reduced, double general)
     {
-        var lattice = solver.Matrix.Crystal.Lattice;
-        solver.SolveValues(lattice.ToCartesianQ(new Vec3(0.2718281, lattice.Dimension >= 2 ? 0.3141592 : 0, lattice.Dimension >= 3 ? 0.1234567 : 0)));
-        var general = solver.Values[solver.Size - 1];
-        solver.SolveValues(lattice.ToCartesianQ(reduced));
+        solver.SolveValues(solver.Matrix.Crystal.Lattice.ToCartesianQ(reduced));
         var largest = Math.Max(solver.Values[solver.Size - 1], general);
         var zeros = 0;
         while (largest > 0 && zeros < solver.Size && Math.Abs(solver.Values[zeros]) <= ZeroShare * largest)
@@ -115,6 +115,14 @@ internal static class ZeroValleys
         }
 
         return zeros > 0 && (zeros < solver.Size || solver.Matrix.Crystal.Sites == 1) ? zeros : null;
+    }
+
+    /// <summary>The largest eigenvalue at a general point: the scale of zero where a point's own eigenvalues are all zero.</summary>
+    private static double GeneralScale(ModeSolver solver)
+    {
+        var lattice = solver.Matrix.Crystal.Lattice;
+        solver.SolveValues(lattice.ToCartesianQ(new Vec3(0.2718281, lattice.Dimension >= 2 ? 0.3141592 : 0, lattice.Dimension >= 3 ? 0.1234567 : 0)));
+        return solver.Values[solver.Size - 1];
     }
 
     private static bool IsFixedPoint(Vec3 reduced) =>
