@@ -93,6 +93,12 @@ internal static class LongWavePlan
         // A layered crystal's column along its slow axis (SlowAxisColumn), where the mesh takes one.
         plan.RegionSolves += ColumnSolves(mesh, d, half);
 
+        // A sheet's zero valleys away from q = 0 (LongWaveRegions.ZeroValleys): each on the mesh gets a region of its own.
+        if (d == 2)
+        {
+            plan.RegionSolves += ValleySolves(solver, mesh, half, ref plan);
+        }
+
         return new(plan.RegionSolves, plan.TrialSolves, plan.ChosenRays, plan.PanelledRules);
     }
 
@@ -134,6 +140,26 @@ internal static class LongWavePlan
         d == 3 && LongWaveRegion.SlowAxis(mesh, d, half) is var slow and >= 0 && SlowAxisColumn.Fits(mesh)
             ? (int)SlowAxisColumn.SolveCountFor(mesh, slow)
             : 0;
+
+    /// <summary>
+    /// Solves of a sheet's zero valleys' regions (<see cref="ZeroValleys.Find"/>): per valley the solver can centre a box on,
+    /// the rays of a box as wide as q = 0's (its first trial), each solved and then followed against direct solves
+    /// (<see cref="LongWaveRegion.FitSolvesPerRay"/>); a narrower trial costs more, a narrower first box fewer (an estimate).
+    /// Round 28's valleys cost a few hundred solves per point, which the plan did not count (Round 29 (valleys cost)).
+    /// </summary>
+    private static int ValleySolves(ModeSolver solver, BulkSample mesh, int[] half, ref Tally plan)
+    {
+        var solves = 0;
+        foreach (var (reduced, branches) in ZeroValleys.Find(solver))
+        {
+            if (branches <= solver.Matrix.Crystal.Components && ZeroValleys.Centre2(reduced.X, mesh.M1) is not null && ZeroValleys.Centre2(reduced.Y, mesh.M2) is not null)
+            {
+                solves += Rays(solver, mesh, half, ref plan) * (SolvesPerRay + LongWaveRegion.FitSolvesPerRay);
+            }
+        }
+
+        return solves;
+    }
 
     private struct Tally
     {

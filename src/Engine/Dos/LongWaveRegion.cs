@@ -510,8 +510,9 @@ internal sealed class LongWaveRegion
         return (half, narrowings);
     }
 
-    /// <summary>The box's half-width (cells) along a mesh direction of <paramref name="points"/> points before any slow axis lengthens it.</summary>
-    private static int UsualHalfWidth(int points) => Math.Max(1, Math.Min(Math.Max(HalfWidthCells, points / 8), points / 4));
+    /// <summary>The box's half-width (cells) along a mesh direction of <paramref name="points"/> points before any slow axis lengthens it:
+    /// q = 0's box before any narrowing (a sheet's box never grows past it).</summary>
+    internal static int UsualHalfWidth(int points) => Math.Max(1, Math.Min(Math.Max(HalfWidthCells, points / 8), points / 4));
 
     /// <summary>
     /// The mesh direction <see cref="LengthenSlowAxes"/> lengthened in <paramref name="half"/> (the layer normal of a

@@ -21,8 +21,20 @@ internal sealed partial class LongWaveRegions
         var lattice = solver.Matrix.Crystal.Lattice;
         var crystal = solver.Matrix.Crystal;
         var gamma = new ZeroValleyBox([0, 0], [2 * gammaHalf[0], 2 * gammaHalf[1]], 0);
+
+        // Every valley's smallest box, kept free while an earlier valley's box is sized (a wide box at (0, 1/2) left none for
+        // (1/4, 1/4) on coarse meshes; ZeroValleys.OffMeshProblem refuses a mesh on which the smallest boxes themselves meet).
+        var smallest = new List<ZeroValleyBox?>();
         foreach (var (reduced, branches) in valleys)
         {
+            smallest.Add(branches <= crystal.Components && ZeroValleys.Centre2(reduced.X, mesh.M1) is { } s1 && ZeroValleys.Centre2(reduced.Y, mesh.M2) is { } s2
+                ? new ZeroValleyBox([s1, s2], [ZeroValleys.SmallestHalf2(s1), ZeroValleys.SmallestHalf2(s2)], 0)
+                : null);
+        }
+
+        for (var v = 0; v < valleys.Count; v++)
+        {
+            var (reduced, branches) = valleys[v];
             if (branches > crystal.Components || ZeroValleys.Centre2(reduced.X, mesh.M1) is not { } c1 || ZeroValleys.Centre2(reduced.Y, mesh.M2) is not { } c2)
             {
                 continue;
@@ -30,7 +42,8 @@ internal sealed partial class LongWaveRegions
 
             int[] centre = [c1, c2];
             int[] half = [Parity(Math.Max(1, gammaHalf[0]), c1), Parity(Math.Max(1, gammaHalf[1]), c2)];
-            while (half[0] >= 1 && half[1] >= 1 && (half[0] > mesh.M1 || half[1] > mesh.M2 || gamma.Overlaps(centre, half, mesh.M1, mesh.M2) || boxes.Exists(b => b.Overlaps(centre, half, mesh.M1, mesh.M2))))
+            var later = smallest.Skip(v + 1).OfType<ZeroValleyBox>().ToList();
+            while (half[0] >= 1 && half[1] >= 1 && (half[0] > mesh.M1 || half[1] > mesh.M2 || gamma.Overlaps(centre, half, mesh.M1, mesh.M2) || boxes.Exists(b => b.Overlaps(centre, half, mesh.M1, mesh.M2)) || later.Exists(b => b.Overlaps(centre, half, mesh.M1, mesh.M2))))
             {
                 half[0] -= 2;
                 half[1] -= 2;

@@ -54,9 +54,10 @@ internal static class BulkSolver
             throw new ModelException([tooLarge]);
         }
 
-        // A sheet's zero valley the mesh leaves off its points and cell corners: refused rather than a silently low heat
-        // capacity (the check mesh of a convergence estimate may leave it: its change then reads large, not small).
-        if (!checkMesh && options.DosMethod != DosMethod.Gaussian && ZeroValleys.OffMeshProblem(solver, ZeroValleys.Find(solver), sample) is { } offMesh)
+        // A sheet's zero valley the mesh leaves off its points and cell corners, or a chain's or 3D crystal's zero valley (no
+        // rays for those): refused rather than a silently low heat capacity (the check mesh of a convergence estimate may
+        // leave a sheet's valley: its change then reads large, not small).
+        if (!checkMesh && options.DosMethod != DosMethod.Gaussian && (ZeroValleys.OffMeshProblem(solver, ZeroValleys.Find(solver), sample) ?? ZeroValleys.BeyondSheetsProblem(solver)) is { } offMesh)
         {
             throw new ModelException([offMesh]);
         }

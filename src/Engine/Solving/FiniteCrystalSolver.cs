@@ -46,10 +46,11 @@ internal static class FiniteCrystalSolver
         var rigid = crystal.Components;
         long zeroModes = 0;
 
-        // A periodic sheet's wave vectors that are the floors of zero valleys away from q = 0 (M of an even sheet whose
-        // flexural bend couples only the diagonals): their zeros are left out of the sums like the rigid translations and,
-        // as in bulk (BulkSolver), not counted as floppy zeros; the lowest branches there are the floor's.
-        var floors = lattice.Dimension == 2 ? ZeroValleys.MeshCentres(ZeroValleys.Find(solver), sample.N1, sample.N2, grid) : [];
+        // A periodic crystal's wave vectors that are the floors of zero valleys away from q = 0 (M of an even sheet whose
+        // flexural bend couples only the diagonals; pi / a of an even chain whose bend skips a cell, Round 29): their zeros are
+        // left out of the sums like the rigid translations and, as in bulk (BulkSolver), not counted as floppy zeros; the
+        // lowest branches there are the floor's.
+        var floors = ZeroValleys.MeshCentres([.. ZeroValleys.Find(solver), .. ZeroValleys.FindBeyondSheets(solver)], sample.N1, sample.N2, grid, sample.N3);
         int FloorAt(in GridPoint point) => floors.Count > 0 && floors.TryGetValue(point.Index, out var b) ? b : 0;
         var wantVectors = sink.WantsChannelFractions || options.PartialDos;
 

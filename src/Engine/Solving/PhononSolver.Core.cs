@@ -28,6 +28,11 @@ public static partial class PhononSolver
         var staticLattice = ModelPropertiesStep.StaticLatticeOf(model);
         var solver = new ModeSolver(new DynamicalMatrix(crystal));
         CheckNoFloppyBranch(solver);
+        if (ValleyProblem(solver, sample, options) is { } valley)
+        {
+            throw new ModelException([valley]); // before the conductivity's pass, which the refusal would waste
+        }
+
         var conductivity = Transport.ConductivityStep.ComputeIfAsked(model, crystal, sample, options, ct);
 
         var temperatures = TemperatureList(options);

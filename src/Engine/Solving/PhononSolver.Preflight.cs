@@ -1,3 +1,4 @@
+using LatticeSweep.Engine.Dos;
 using LatticeSweep.Engine.Errors;
 using LatticeSweep.Engine.Models;
 using LatticeSweep.Engine.Samples;
@@ -66,6 +67,11 @@ public static partial class PhononSolver
             QuasiHarmonic.QuasiHarmonicLoop.Validate(model, expansion);
         }
 
+        if (sample is BulkSample bulk && options.DosMethod != DosMethod.Gaussian && CachedValleyProblem(model, bulk) is { } valley)
+        {
+            throw new ModelException([valley]);
+        }
+
         if (options.Conductivity is { } conductivity)
         {
             // With thermal expansion a missing Grueneisen parameter is computed, as Solve does.
@@ -100,6 +106,10 @@ public static partial class PhononSolver
         {
             problems.Add(floppy);
         }
+        else if (crystal is not null && ValleyProblem(new ModeSolver(new DynamicalMatrix(crystal)), sample, options) is { } valley)
+        {
+            problems.Add(valley);
+        }
 
         if (sample is RealSpaceSample r)
         {
@@ -119,6 +129,53 @@ public static partial class PhononSolver
 
         return problems;
     }
+
+    /// <summary>
+    /// The refusal of a bulk point whose zero valleys away from q = 0 the solver would leave out (<see cref="ZeroValleys"/>):
+    /// a sheet's valley that the mesh puts neither on a mesh point nor midway between two (naming <c>sample.mesh[k]</c>), or
+    /// any valley of a chain or a 3D crystal (naming <c>model</c>); null otherwise, and for Gaussian broadening, which has
+    /// no long-wave rays for q = 0 either. <see cref="BulkSolver"/> raises the same.
+    /// </summary>
+    private static ModelProblem? ValleyProblem(ModeSolver solver, Sample sample, SolveOptions options)
+    {
+        if (sample is not BulkSample bulk || options.DosMethod == DosMethod.Gaussian)
+        {
+            return null;
+        }
+
+        lock (solver)
+        {
+            return ZeroValleys.OffMeshProblem(solver, ZeroValleys.Find(solver), bulk) ?? ZeroValleys.BeyondSheetsProblem(solver);
+        }
+    }
+
+    /// <summary>
+    /// <see cref="ValleyProblem"/> once per model object and mesh: the forecast's points share a model object per distinct
+    /// model, and a valley search costs 15 or more eigen-solves (0.3-0.7 ms a point in bench/README.md, Round 29 (valleys
+    /// cost), where the rest of a point's pre-flight is about 1 ms).
+    /// </summary>
+    private static ModelProblem? CachedValleyProblem(CrystalModel model, BulkSample mesh)
+    {
+        var entry = ValleyProblems.GetValue(model, m => new ValleyEntry(new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(m)))));
+        lock (entry)
+        {
+            var key = (mesh.M1, mesh.M2, mesh.M3);
+            if (!entry.ByMesh.TryGetValue(key, out var problem))
+            {
+                problem = ValleyProblem(entry.Solver, mesh, new SolveOptions());
+                entry.ByMesh[key] = problem;
+            }
+
+            return problem;
+        }
+    }
+
+    private sealed record ValleyEntry(ModeSolver Solver)
+    {
+        public Dictionary<(int, int, int), ModelProblem?> ByMesh { get; } = [];
+    }
+
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<CrystalModel, ValleyEntry> ValleyProblems = new();
 
     /// <summary>The refusal of a sample too large for an exact sum (finite) or for the memory limit (bulk), or null.</summary>
     private static ModelProblem? SizeProblem(CrystalModel model, Sample sample, SolveOptions options) => sample switch

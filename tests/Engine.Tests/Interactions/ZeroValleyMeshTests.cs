@@ -31,6 +31,10 @@ public sealed class ZeroValleyMeshTests
         Assert.Equal(key, problem.Where);
         Assert.Contains(advice, problem.Message);
         Assert.Matches(@"at reduced wave vector \((1/3|2/3), (1/3|2/3)\)", problem.Message);
+
+        // Since Round 29 `check` forecasts the refusal: the point's pre-flight raises the same problem (main: none).
+        var preflight = Assert.Throws<ModelException>(() => PhononSolver.PreflightPoint(CornerValleySheet(), BulkSample.Create(m1, m2), new SolveOptions { TemperaturesK = [0.5], PartialDos = false }));
+        Assert.Equal(problem.Message, Assert.Single(preflight.Problems).Message);
     }
 
     [Fact]

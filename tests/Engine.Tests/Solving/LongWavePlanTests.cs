@@ -89,4 +89,27 @@ public sealed class LongWavePlanTests
         Assert.Equal(expected, plan.RegionSolves);
         Assert.Equal(d == 3 && narrowings[0] > 0 && LongWaveRegions.Groups(solver, d, narrowings).Count == 1, plan.TrialSolves > 0);
     }
+
+    [Theory]
+    [InlineData(2, 1, 20)] // one valley at M (Round 28's square2 sheet)
+    [InlineData(5, 7, 24)] // seven: (1/2, 0), (0, 1/2), (1/2, 1/2) and the four quarter points (Round 29)
+    public void A_sheets_zero_valleys_are_counted_in_the_plan(int shell, int valleys, int m)
+    {
+        // The same sheet with the bend on shell 1 has no valley; the plan counts each valley's rays, solved and followed
+        // against direct solves. Main counted none (the same plan for both), though each costs a few hundred solves.
+        static LongWavePlan.Counts Plan(int bendShell, int m)
+        {
+            var sheet = CrystalModel.Create(Lattice.Square(0.4599), [new Site("A", "A", Vec3.Zero, 1.0735)],
+                shellSprings: [new ShellSpring("A", "A", 1, 3.1249), new ShellSpring("A", "A", 2, 2.3018)],
+                bends: [new LatticeSweep.Engine.Interactions.BendSpring("A", "A", bendShell, LatticeSweep.Engine.Interactions.BendForm.Flexural, 9.9863)]);
+            return LongWavePlan.Count(new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(sheet))), BulkSample.Uniform(2, m));
+        }
+
+        var plain = Plan(1, m);
+        var withValleys = Plan(shell, m);
+        var perValley = (withValleys.RegionSolves - plain.RegionSolves) / valleys;
+        Assert.Equal(0, (withValleys.RegionSolves - plain.RegionSolves) % valleys);
+        Assert.True(perValley > 0, $"{perValley} solves per valley");
+        Assert.Equal(0, perValley % (LongWavePlan.SolvesPerRay + LongWaveRegion.FitSolvesPerRay)); // whole rays, solved and followed
+    }
 }
