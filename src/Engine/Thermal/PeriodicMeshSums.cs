@@ -26,8 +26,9 @@ internal static class PeriodicMeshSums
 
     /// <summary>
     /// Relative error of the plain sum of an isotropic cone's Cv on a cubic (d = 3) or square (d = 2) lattice of wave
-    /// vectors, against its integral, at mesh steps dy = hbar c dq / kT (the larger of the two dimensions' values;
-    /// docs/outside-checks.md, Round 29: /tmp NumPy sum over |n| dy up to y = 80 against the radial integral).
+    /// vectors, against its integral, at mesh steps dy = hbar c dq / kT (the larger of the 2D and 3D errors at each step;
+    /// docs/coarse-mesh-check/cone_table.py recomputes both, the NumPy sum
+    /// over |n| dy up to y = 80 against the radial integral).
     /// </summary>
     private static readonly (double StepY, double Error)[] ConeErrorTable =
     [
