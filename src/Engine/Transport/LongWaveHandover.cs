@@ -44,7 +44,7 @@ internal sealed class LongWaveHandover
     /// direction-dependent integrand next to a rectangular q = 0 cell with an error that differs between the directions: a
     /// square sheet's kappa_xx and kappa_yy 2.4 % apart on 24 x 12 at 187 K, its mean 3.5 % low at 15 K. The window these meshes
     /// hold (5.1 of the long spacings on 24 x 12, 4.2 on 20 x 10) left that sheet within 4.3e-4 of its zone sum at 15-1000 K on
-    /// 20 x 10 to 26 x 13, where the equal meshes 10 x 10 to 13 x 13 (no window) are 4.6e-4 to 1.1e-2 off (docs/outside-checks.md,
+    /// 20 x 10 to 26 x 13, where the equal meshes 10 x 10 to 13 x 13 (no window) are 2.3e-4 to 3.7e-2 off (docs/outside-checks.md,
     /// Round 29 (unequal meshes)). Equal meshes keep <see cref="MinimumWidthSpacings"/> and their sums.
     /// </summary>
     public const double UnequalMinimumWidthSpacings = 4;
