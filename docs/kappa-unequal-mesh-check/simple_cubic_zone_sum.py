@@ -17,9 +17,7 @@ usage: python3 simple_cubic_zone_sum.py [N]   (default 96; NumPy only)
 import sys
 import numpy as np
 
-HBAR = 6.62607015e-34 / (2 * np.pi)
-KB = 1.380649e-23
-AMU = 1.66053906660e-27
+from kinetic_terms import AMU, add_kinetic_terms
 
 A_NM, MASS_AMU, K1, K2 = 0.3267, 3.6473, 28.689, 14.1606
 TAU_PS = 7.6575
@@ -39,33 +37,14 @@ def bonds():
 
 def kappa(n):
     a = A_NM * 1e-9
-    m = MASS_AMU * AMU
     s = (np.arange(n) + 0.5) / n - 0.5
     qy, qz = np.meshgrid(s, s, indexing='ij')
     qy, qz = qy.ravel() * 2 * np.pi / a, qz.ravel() * 2 * np.pi / a
+    springs = [(np.array(r, float) * a, k) for r, k in bonds()]
     totals = {t: np.zeros(3) for t in TEMPERATURES_K}
     for row in s:  # one plane of the mesh at a time (memory)
         qx = np.full(qy.shape, row * 2 * np.pi / a)
-        d = np.zeros((qx.size, 3, 3))
-        dd = np.zeros((3, qx.size, 3, 3))
-        for r, k in bonds():
-            r = np.array(r, float) * a
-            u = r / np.linalg.norm(r)
-            phase = qx * r[0] + qy * r[1] + qz * r[2]
-            outer = np.outer(u, u)
-            d += (2 * k / m) * (1 - np.cos(phase))[:, None, None] * outer
-            for ax in range(3):
-                dd[ax] += (2 * k / m) * (r[ax] * np.sin(phase))[:, None, None] * outer
-        w2, e = np.linalg.eigh(d)
-        omega = np.sqrt(np.maximum(w2, 0))
-        for ax in range(3):
-            proj = np.einsum('nis,nij,njs->ns', e, dd[ax], e)
-            v = np.where(omega > 0, proj / (2 * np.where(omega > 0, omega, 1)), 0.0)
-            for t in TEMPERATURES_K:
-                x = HBAR * omega / (KB * t)
-                with np.errstate(over='ignore', invalid='ignore', divide='ignore'):
-                    c = np.where((x > 0) & (x < 700), KB * x * x * np.exp(x) / np.expm1(x) ** 2, 0.0)
-                totals[t][ax] += np.sum(c * v * v * TAU_PS * 1e-12)
+        add_kinetic_terms([qx, qy, qz], springs, MASS_AMU * AMU, TAU_PS * 1e-12, totals)
     volume = n ** 3 * a ** 3
     return {t: totals[t] / volume for t in TEMPERATURES_K}
 

@@ -20,9 +20,7 @@ usage: python3 square_sheet_zone_sum.py [N]   (default 1600; NumPy only)
 import sys
 import numpy as np
 
-HBAR = 6.62607015e-34 / (2 * np.pi)
-KB = 1.380649e-23
-AMU = 1.66053906660e-27
+from kinetic_terms import AMU, add_kinetic_terms
 
 A_NM, MASS_AMU, K1, K2 = 0.3267, 3.6473, 28.689, 14.1606
 TAU_PS, THICKNESS_NM = 7.6575, 0.4156
@@ -31,34 +29,13 @@ TEMPERATURES_K = [14.691, 187.183, 1000.0]
 
 def kappa(n):
     a = A_NM * 1e-9
-    m = MASS_AMU * AMU
-    bonds = [((1, 0), K1), ((0, 1), K1), ((1, 1), K2), ((1, -1), K2)]  # one of each +- pair
+    springs = [(np.array(r, float) * a, k) for r, k in [((1, 0), K1), ((0, 1), K1), ((1, 1), K2), ((1, -1), K2)]]
     s = (np.arange(n) + 0.5) / n - 0.5
     totals = {t: np.zeros(2) for t in TEMPERATURES_K}
     for row in s:  # one row of the mesh at a time (memory)
         qx = 2 * np.pi / a * np.full(n, row)
         qy = 2 * np.pi / a * s
-        d = np.zeros((n, 2, 2))
-        dd = np.zeros((2, n, 2, 2))
-        for (i, j), k in bonds:
-            r = np.array([i, j], float) * a
-            u = r / np.linalg.norm(r)
-            phase = qx * r[0] + qy * r[1]
-            outer = np.outer(u, u)
-            # +r and -r: 2 K (1 - cos q.r) and the derivative 2 K r_a sin q.r
-            d += (2 * k / m) * (1 - np.cos(phase))[:, None, None] * outer
-            for ax in range(2):
-                dd[ax] += (2 * k / m) * (r[ax] * np.sin(phase))[:, None, None] * outer
-        w2, e = np.linalg.eigh(d)
-        omega = np.sqrt(np.maximum(w2, 0))
-        for ax in range(2):
-            proj = np.einsum('nis,nij,njs->ns', e, dd[ax], e)
-            v = np.where(omega > 0, proj / (2 * np.where(omega > 0, omega, 1)), 0.0)
-            for t in TEMPERATURES_K:
-                x = HBAR * omega / (KB * t)
-                with np.errstate(over='ignore', invalid='ignore', divide='ignore'):
-                    c = np.where((x > 0) & (x < 700), KB * x * x * np.exp(x) / np.expm1(x) ** 2, 0.0)
-                totals[t][ax] += np.sum(c * v * v * TAU_PS * 1e-12)
+        add_kinetic_terms([qx, qy], springs, MASS_AMU * AMU, TAU_PS * 1e-12, totals)
     volume = n * n * a * a * THICKNESS_NM * 1e-9
     return {t: totals[t] / volume for t in TEMPERATURES_K}
 
