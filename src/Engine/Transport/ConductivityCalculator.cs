@@ -62,9 +62,13 @@ internal static class ConductivityCalculator
         }
 
         var coarseScale = halfMesh.IsEmpty ? 0 : 1.0 / (Cells([.. halfMesh]) * inputs.VolumePerCellM3);
+
+        // An unequal mesh of a model with the lattice's rotation: each permuted component is the mean over the mesh and its rotations.
+        var averaged = stable && bulk ? RotatedMeshAverage.Axes(lattice, mesh, solver) : 0;
+        double Component(int t, int a) => a < averaged ? Enumerable.Range(0, averaged).Average(b => sum.Kappa(t, b)) : sum.Kappa(t, a);
         ConductivityRow Row(int t)
         {
-            double Axis(int a) => !stable ? double.NaN : a >= d ? double.NaN : sum.Kappa(t, a) * scale;
+            double Axis(int a) => !stable ? double.NaN : a >= d ? double.NaN : Component(t, a) * scale;
             var kappa = stable ? sum.MeanKappa(t) * scale : double.NaN;
             var change = coarse is null ? double.NaN : RelativeChange(kappa, coarse.MeanKappa(t) * coarseScale);
 

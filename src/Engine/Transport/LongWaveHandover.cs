@@ -40,6 +40,16 @@ internal sealed class LongWaveHandover
     public const double MinimumWidthSpacings = 6;
 
     /// <summary>
+    /// 2D meshes with unequal counts (24 x 12): the narrowest window used. Without one, one point per cell sums the cone's
+    /// direction-dependent integrand next to a rectangular q = 0 cell with an error that differs between the directions: a
+    /// square sheet's kappa_xx and kappa_yy 2.4 % apart on 24 x 12 at 187 K, its mean 3.5 % low at 15 K. The window these meshes
+    /// hold (5.1 of the long spacings on 24 x 12, 4.2 on 20 x 10) left that sheet within 4.3e-4 of its zone sum at 15-1000 K on
+    /// 20 x 10 to 26 x 13, where the equal meshes 10 x 10 to 13 x 13 (no window) are 2.3e-4 to 3.7e-2 off (docs/outside-checks.md,
+    /// Round 29 (unequal meshes)). Equal meshes keep <see cref="MinimumWidthSpacings"/> and their sums.
+    /// </summary>
+    public const double UnequalMinimumWidthSpacings = 4;
+
+    /// <summary>
     /// x = hbar omega / kB T of the slowest branch at the q = 0 cell's inner edge above which the cell
     /// holds the heat carriers (the integrand outside it is below e^-30 of its peak).
     /// </summary>
@@ -210,7 +220,7 @@ internal sealed class LongWaveHandover
         // 5e-4 (the cell's direction rule) with the whole ball.
         var outside = d == 3 ? zone : Math.Min(circumradius + (WidthSpacings * spacing), zone);
         var width = (outside - circumradius) / spacing;
-        if (width >= MinimumWidthSpacings)
+        if (width >= MinimumWidthSpacings || (d == 2 && Unequal(mesh) && width >= UnequalMinimumWidthSpacings))
         {
             return new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, wanted, ThinCarriers(solver, lattice, mesh, circumradius, outside, temperaturesK, wanted, ThinStepFactor));
         }
@@ -249,6 +259,9 @@ internal sealed class LongWaveHandover
 
         return new LongWaveHandover(lattice, mesh, spacing, circumradius, outside, on.Select((o, t) => o || zoneOnly[t]).ToArray(), thin);
     }
+
+    /// <summary>Whether a 1D or 2D mesh's counts differ (only 2D has two).</summary>
+    private static bool Unequal(int[] mesh) => mesh[1] > 1 && mesh[0] != mesh[1];
 
     /// <summary>
     /// A mesh without a window: the hand-over at the <paramref name="wanted"/> temperatures whose carriers are thinner
