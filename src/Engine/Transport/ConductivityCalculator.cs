@@ -139,6 +139,11 @@ internal static class ConductivityCalculator
         var handoverRays = handover is not null && (lattice.Dimension == 3 || handover.AnyWholeZone) ? HandoverRays.For(handover, solver.Matrix.Crystal, mesh, sum.TemperaturesK, sum.Scattering) : null;
         var nodesUsed = handover?.UsesWindow ?? false;
         var rotations = DegenerateRotations.For(lattice);
+
+        // A finite crystal's degenerate sets are exact and its allowed q are all there is: each set counts in the trace form.
+        // A bulk mesh point stands for its cell, where the set splits and each branch carries its own velocity: the trace
+        // there would count the set's inner elements on a line or plane of measure zero (docs/conductivity.md).
+        var traceForm = faceRule is null;
         var stable = true;
         double lowest = 0, highest = 0;
         var valleyCells = valleys.Count > 0 ? ZeroValleyCells.For(solver, valleys, mesh, handover) : null;
@@ -182,7 +187,7 @@ internal static class ConductivityCalculator
                 {
                     var v = new Vec3(velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]);
                     var omega = Math.Sqrt(Math.Max(values[k], 0));
-                    if (degenerate && group.IsDegenerate(k))
+                    if (traceForm && degenerate && group.IsDegenerate(k))
                     {
                         // A degenerate set counts in the trace form (GroupVelocities' squares, the same in any basis); each
                         // branch's own speed, read along this direction of u0's orbit, still sets its relaxation time, so the

@@ -37,6 +37,19 @@ public class DegenerateModeConductivityTests
     }
 
     [Theory]
+    [InlineData(50.0, 0.14635248200231676)]
+    [InlineData(300.0, 0.8696619235774101)]
+    public void With_boundary_scattering_each_branch_of_a_set_keeps_its_own_tau_in_the_symmetric_rule(double temperatureK, double expected)
+    {
+        // Expected: BOUNDARY_NM=2 docs/kappa-degenerate-check/reference.py 4 1 10 2 4 1 50 300: 1/tau = 1/(1 ps) + |v|/(2 nm)
+        // (Matthiessen; Casimir, Physica 5, 495 (1938)), a set's trace shared out as sum_ss' (tau_s + tau_s')/2 |V_a,ss'|^2
+        // with each branch's |v| read along u0's orbit (docs/conductivity.md "Degenerate branches"). Before: 0.14491, 0.85758.
+        var result = Kappa.Compute(CubicWithNextNearest(), FiniteSample.Create(4, 4, 4),
+            new ConductivityOptions { Constant = new ConstantScattering(1.0), Boundary = new BoundaryScattering { LengthNm = 2.0 } }, temperatureK);
+        Approx.Equal(expected, result.AtReference.KappaWPerMK, 1e-10, $"mean kappa at {temperatureK} K");
+    }
+
+    [Theory]
     [InlineData(4)]
     [InlineData(6)]
     public void Finite_cubic_crystal_keeps_cubic_symmetry_to_round_off(int cells)
