@@ -9,25 +9,41 @@ namespace LatticeSweep.Engine.Spectrum;
 /// degenerate set of branches the eigenvectors are first rotated to diagonalise dD/dq along a
 /// chosen direction (the path direction on a dispersion path), so each branch gets the velocity
 /// of the branch that continues it along that direction (degenerate perturbation theory;
-/// common practice, no source). A mode of zero frequency gets velocity zero, never NaN.
+/// common practice, no source). A mode of zero frequency gets velocity zero, never NaN. On request it also
+/// gives each branch's squared velocity in the basis-independent form (<see cref="Solve(Vec3, Vec3, Span{double}, Span{double})"/>).
 /// </summary>
 internal sealed class GroupVelocities
 {
     private readonly ModeSolver _solver;
     private readonly Complex[][] _derivatives;
+    private readonly int[] _setStart;
+    private readonly int[] _setEnd;
 
     public GroupVelocities(ModeSolver solver)
     {
         _solver = solver;
         var n2 = solver.Size * solver.Size;
         _derivatives = [new Complex[n2], new Complex[n2], new Complex[n2]];
+        _setStart = new int[solver.Size];
+        _setEnd = new int[solver.Size];
     }
+
+    /// <summary>Whether branch k shared its frequency with another branch at the last solve.</summary>
+    public bool IsDegenerate(int k) => _setEnd[k] - _setStart[k] > 1;
 
     /// <summary>
     /// Solves at q and fills velocities[k * 3 + alpha] (m/s) for every branch k. Frequencies are in
     /// <see cref="ModeSolver.Values"/> afterwards.
     /// </summary>
-    public void Solve(Vec3 qPerM, Vec3 preferredDirection, Span<double> velocities)
+    public void Solve(Vec3 qPerM, Vec3 preferredDirection, Span<double> velocities) => Solve(qPerM, preferredDirection, velocities, []);
+
+    /// <summary>
+    /// As above, and, when <paramref name="squares"/> is not empty, fills squares[k * 3 + alpha] with (V_alpha^2)_kk =
+    /// sum over the branches l of k's degenerate set of |V_alpha,kl|^2, V_alpha,kl = e_k^H (dD/dq_alpha) e_l /
+    /// (omega_k + omega_l), the velocity matrix of the harmonic heat current (Hardy, Phys. Rev. 132, 168 (1963)).
+    /// Its sum over a set is Tr_S(V_alpha^2), the same in any basis of the set; a branch alone gets v_alpha^2.
+    /// </summary>
+    public void Solve(Vec3 qPerM, Vec3 preferredDirection, Span<double> velocities, Span<double> squares)
     {
         var n = _solver.Size;
         _solver.SolveWithVectors(qPerM);
@@ -56,6 +72,12 @@ internal sealed class GroupVelocities
                 RotateDegenerateSet(vectors, n, start, end - start, dir);
             }
 
+            for (var k = start; k < end; k++)
+            {
+                _setStart[k] = start;
+                _setEnd[k] = end;
+            }
+
             start = end;
         }
 
@@ -67,6 +89,39 @@ internal sealed class GroupVelocities
                 velocities[k * 3 + a] = omega <= 1e-9 * Math.Sqrt(scale) || a >= dimension
                     ? 0.0
                     : Expectation(_derivatives[a], vectors, n, k, k).Real / (2.0 * omega);
+            }
+        }
+
+        if (!squares.IsEmpty)
+        {
+            FillSquares(values, vectors, n, dimension, 1e-9 * Math.Sqrt(scale), velocities, squares);
+        }
+    }
+
+    private void FillSquares(double[] values, Complex[] vectors, int n, int dimension, double zero, ReadOnlySpan<double> velocities, Span<double> squares)
+    {
+        for (var k = 0; k < n; k++)
+        {
+            var omegaK = Math.Sqrt(Math.Max(values[k], 0));
+            for (var a = 0; a < 3; a++)
+            {
+                var v = velocities[k * 3 + a];
+                var square = v * v;
+                if (IsDegenerate(k) && omegaK > zero && a < dimension)
+                {
+                    // The off-diagonal elements inside the set: they do not oscillate in time and carry heat like the diagonal ones.
+                    for (var l = _setStart[k]; l < _setEnd[k]; l++)
+                    {
+                        var omegaL = Math.Sqrt(Math.Max(values[l], 0));
+                        if (l != k && omegaL > zero)
+                        {
+                            var element = Expectation(_derivatives[a], vectors, n, k, l) / (omegaK + omegaL);
+                            square += (element.Real * element.Real) + (element.Imaginary * element.Imaginary);
+                        }
+                    }
+                }
+
+                squares[k * 3 + a] = square;
             }
         }
     }

@@ -135,6 +135,7 @@ internal static class ConductivityCalculator
         var rigid = solver.Matrix.Crystal.Components;
         var group = new GroupVelocities(solver);
         var velocities = new double[n * 3];
+        var squares = new double[n * 3];
         var grid = new PeriodicGrid(mesh[0], mesh[1], mesh[2]);
         var gammaCell = faceRule is not null ? new GammaCellIntegrator(lattice, mesh, faceRule) : null;
         var weights = new double[sum.TemperaturesK.Length];
@@ -142,6 +143,11 @@ internal static class ConductivityCalculator
         var handoverRays = handover is not null && (lattice.Dimension == 3 || handover.AnyWholeZone) ? HandoverRays.For(handover, solver.Matrix.Crystal, mesh, sum.TemperaturesK, sum.Scattering) : null;
         var nodesUsed = handover?.UsesWindow ?? false;
         var rotations = DegenerateRotations.For(lattice);
+
+        // A finite crystal's degenerate sets are exact and its allowed q are all there is: each set counts in the trace form.
+        // A bulk mesh point stands for its cell, where the set splits and each branch carries its own velocity: the trace
+        // there would count the set's inner elements on a line or plane of measure zero (docs/conductivity.md).
+        var traceForm = faceRule is null;
         var stable = true;
         double lowest = 0, highest = 0;
         var valleyCells = valleys.Count > 0 ? ZeroValleyCells.For(solver, valleys, mesh, handover) : null;
@@ -156,7 +162,7 @@ internal static class ConductivityCalculator
         // Solves q and adds its modes counted weight times, or weight x share(t) at each temperature t.
         void AddPoint(Vec3 q, int skip, double weight, Func<int, double>? share, bool node = false)
         {
-            group.Solve(q, rotations[0], velocities);
+            group.Solve(q, rotations[0], velocities, squares);
             var values = solver.Values;
             highest = Math.Max(highest, values[n - 1]);
             for (var k = skip; k < n; k++)
@@ -164,7 +170,8 @@ internal static class ConductivityCalculator
                 lowest = Math.Min(lowest, values[k]);
             }
 
-            var directions = HasDegenerateSet(values, skip) ? rotations.Length : 1;
+            var degenerate = HasDegenerateSet(values, skip);
+            var directions = degenerate ? rotations.Length : 1;
             if (share is not null)
             {
                 for (var t = 0; t < weights.Length; t++)
@@ -177,12 +184,37 @@ internal static class ConductivityCalculator
             {
                 if (r > 0)
                 {
-                    group.Solve(q, rotations[r], velocities);
+                    group.Solve(q, rotations[r], velocities, squares);
                 }
 
                 for (var k = skip; k < n; k++)
                 {
                     var v = new Vec3(velocities[k * 3], velocities[k * 3 + 1], velocities[k * 3 + 2]);
+                    var omega = Math.Sqrt(Math.Max(values[k], 0));
+                    if (traceForm && degenerate && group.IsDegenerate(k))
+                    {
+                        // A degenerate set counts in the trace form (GroupVelocities' squares, the same in any basis); each
+                        // branch's own speed, read along this direction of u0's orbit, still sets its relaxation time, so the
+                        // orbit average stays for tau that depends on |v|.
+                        var s2 = new Vec3(squares[k * 3], squares[k * 3 + 1], squares[k * 3 + 2]);
+                        if (node && inPlane)
+                        {
+                            v = GammaCellIntegrator.InPlaneAverage(v);
+                            s2 = new Vec3((s2.X + s2.Y) / 2, (s2.X + s2.Y) / 2, s2.Z);
+                        }
+
+                        if (share is null)
+                        {
+                            sum.Add(omega, v, s2, weight / directions);
+                        }
+                        else
+                        {
+                            sum.Add(omega, v, s2, weights);
+                        }
+
+                        continue;
+                    }
+
                     if (node && inPlane)
                     {
                         v = GammaCellIntegrator.InPlaneAverage(v);
@@ -190,11 +222,11 @@ internal static class ConductivityCalculator
 
                     if (share is null)
                     {
-                        sum.Add(Math.Sqrt(Math.Max(values[k], 0)), v, weight / directions);
+                        sum.Add(omega, v, weight / directions);
                     }
                     else
                     {
-                        sum.Add(Math.Sqrt(Math.Max(values[k], 0)), v, weights);
+                        sum.Add(omega, v, weights);
                     }
                 }
             }

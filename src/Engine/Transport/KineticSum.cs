@@ -3,8 +3,8 @@ using LatticeSweep.Engine.Models;
 namespace LatticeSweep.Engine.Transport;
 
 /// <summary>
-/// Running sums of C v_a^2 tau over modes at each temperature (relaxation-time approximation), with
-/// the channel shares and the mean-free-path histogram at the reference temperature. A mode with no
+/// Running sums of C v_a^2 tau over modes at each temperature (relaxation-time approximation; inside a
+/// degenerate set C tau Tr_S(V_a^2), shared out by branch), with the channel shares and the mean-free-path histogram at the reference temperature. A mode with no
 /// frequency, no velocity or no heat capacity adds exactly zero (never NaN); a heat-carrying mode
 /// that no channel scatters makes that temperature's kappa unbounded.
 /// </summary>
@@ -37,36 +37,47 @@ internal sealed class KineticSum
     public MeanFreePathHistogram? MeanFreePaths { get; }
 
     /// <summary>Adds one mode of angular frequency omega (rad/s) and group velocity v (m/s) counted weight times.</summary>
-    public void Add(double omega, Vec3 velocity, double weight)
+    public void Add(double omega, Vec3 velocity, double weight) => Add(omega, velocity, Squares(velocity), weight);
+
+    /// <summary>Adds one mode counted a different number of times at each temperature (0 leaves a temperature alone).</summary>
+    public void Add(double omega, Vec3 velocity, ReadOnlySpan<double> weightByTemperature) => Add(omega, velocity, Squares(velocity), weightByTemperature);
+
+    /// <summary>
+    /// Adds one mode whose heat current's squared velocity components (m^2/s^2) are <paramref name="squares"/>: a branch of a
+    /// degenerate set carries (V_a^2)_kk, its share of the set's trace (<see cref="Spectrum.GroupVelocities"/>), while its relaxation
+    /// time still follows its own speed |v|.
+    /// </summary>
+    public void Add(double omega, Vec3 velocity, Vec3 squares, double weight)
     {
         if (weight != 0)
         {
-            AddMode(omega, velocity, weight, []);
+            AddMode(omega, velocity, squares, weight, []);
         }
     }
 
-    /// <summary>Adds one mode counted a different number of times at each temperature (0 leaves a temperature alone).</summary>
-    public void Add(double omega, Vec3 velocity, ReadOnlySpan<double> weightByTemperature) => AddMode(omega, velocity, 0, weightByTemperature);
+    /// <summary>As above, counted a different number of times at each temperature.</summary>
+    public void Add(double omega, Vec3 velocity, Vec3 squares, ReadOnlySpan<double> weightByTemperature) => AddMode(omega, velocity, squares, 0, weightByTemperature);
+
+    private static Vec3 Squares(Vec3 v) => new(v.X * v.X, v.Y * v.Y, v.Z * v.Z);
 
     /// <summary>One mode, counted <paramref name="weight"/> times at every temperature, or per temperature when <paramref name="weightByTemperature"/> is given.</summary>
-    private void AddMode(double omega, Vec3 velocity, double weight, ReadOnlySpan<double> weightByTemperature)
+    private void AddMode(double omega, Vec3 velocity, Vec3 squares, double weight, ReadOnlySpan<double> weightByTemperature)
     {
         if (!(omega > 0))
         {
             return;
         }
 
-        var vx2 = velocity.X * velocity.X;
-        var vy2 = velocity.Y * velocity.Y;
-        var vz2 = velocity.Z * velocity.Z;
-        var v2 = vx2 + vy2 + vz2;
-        if (!(v2 > 0))
+        var vx2 = squares.X;
+        var vy2 = squares.Y;
+        var vz2 = squares.Z;
+        if (!(vx2 + vy2 + vz2 > 0))
         {
             return; // a standing wave carries no heat
         }
 
-        var speed = Math.Sqrt(v2);
-        var meanSquare = (_dimension switch { 1 => vx2, 2 => vx2 + vy2, _ => v2 }) / _dimension;
+        var speed = Math.Sqrt((velocity.X * velocity.X) + (velocity.Y * velocity.Y) + (velocity.Z * velocity.Z));
+        var meanSquare = (_dimension switch { 1 => vx2, 2 => vx2 + vy2, _ => vx2 + vy2 + vz2 }) / _dimension;
         for (var t = 0; t < _temperaturesK.Length; t++)
         {
             var w = weightByTemperature.IsEmpty ? weight : weightByTemperature[t];
