@@ -9,7 +9,7 @@ hbar=R.hbar; kB=R.kB
 vecs,a,mass,springs,bendr,kb=R.CASES[CASE]; m=mass*R.amu
 tau=10e-12; thick=0.3e-9
 B=2*np.pi*np.linalg.inv(vecs).T/a
-x,w=R.graded_rule()
+x,w=R.graded_rule(bps=R.BREAKPOINTS.get(CASE,(0,1/3,0.5,2/3,1)))  # square5: graded towards 1/4 and 3/4 too (Round 30)
 def lams(qx,qy):
     Dxx=0*qx; Dyy=0*qx; Dxy=0*qx
     for radius,k in springs:

@@ -93,8 +93,8 @@ internal static class LongWavePlan
         // A layered crystal's column along its slow axis (SlowAxisColumn), where the mesh takes one.
         plan.RegionSolves += ColumnSolves(mesh, d, half);
 
-        // A sheet's zero valleys away from q = 0 (LongWaveRegions.ZeroValleys): each on the mesh gets a region of its own.
-        if (d == 2)
+        // A sheet's or chain's zero valleys away from q = 0 (LongWaveRegions.ZeroValleys): each on the mesh gets a region of its own.
+        if (d <= 2)
         {
             plan.RegionSolves += ValleySolves(solver, mesh, half, ref plan);
         }
@@ -142,7 +142,7 @@ internal static class LongWavePlan
             : 0;
 
     /// <summary>
-    /// Solves of a sheet's zero valleys' regions (<see cref="ZeroValleys.Find"/>): per valley the solver can centre a box on,
+    /// Solves of a sheet's or chain's zero valleys' regions (<see cref="ZeroValleys.ForBulkMesh"/>): per valley the solver can centre a box on,
     /// the rays of a box as wide as q = 0's (its first trial), each solved and then followed against direct solves
     /// (<see cref="LongWaveRegion.FitSolvesPerRay"/>); a narrower trial costs more, a narrower first box fewer (an estimate).
     /// Round 28's valleys cost a few hundred solves per point, which the plan did not count (Round 29 (valleys cost)).
@@ -150,9 +150,9 @@ internal static class LongWavePlan
     private static int ValleySolves(ModeSolver solver, BulkSample mesh, int[] half, ref Tally plan)
     {
         var solves = 0;
-        foreach (var (reduced, branches) in ZeroValleys.Find(solver))
+        foreach (var (reduced, branches) in ZeroValleys.ForBulkMesh(solver))
         {
-            if (branches <= solver.Matrix.Crystal.Components && ZeroValleys.Centre2(reduced.X, mesh.M1) is not null && ZeroValleys.Centre2(reduced.Y, mesh.M2) is not null)
+            if (branches <= solver.Matrix.Crystal.Components && ZeroValleys.Centres2(reduced, mesh, Math.Min(2, solver.Matrix.Crystal.Lattice.Dimension)) is not null)
             {
                 solves += Rays(solver, mesh, half, ref plan) * (SolvesPerRay + LongWaveRegion.FitSolvesPerRay);
             }

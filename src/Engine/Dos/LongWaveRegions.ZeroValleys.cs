@@ -8,7 +8,7 @@ namespace LatticeSweep.Engine.Dos;
 internal sealed partial class LongWaveRegions
 {
     /// <summary>
-    /// A sheet's zero valleys away from q = 0 (<see cref="ZeroValleys"/>): each takes a box up to half as wide as branch 0's at
+    /// A sheet's or a chain's zero valleys away from q = 0 (<see cref="ZeroValleys"/>): each takes a box up to half as wide as branch 0's at
     /// q = 0 (<paramref name="gammaHalf"/> cells either way; half a cell less where its centre is a cell's centre, so its
     /// faces stay on mesh planes), narrowed until it shares no cell with q = 0's box nor another valley's, and a region of
     /// its zero branches on rays from a solver shifted to its centre. A valley whose rays are not stable (a zero on a whole
@@ -20,36 +20,40 @@ internal sealed partial class LongWaveRegions
         var boxes = new List<ZeroValleyBox>();
         var lattice = solver.Matrix.Crystal.Lattice;
         var crystal = solver.Matrix.Crystal;
-        var gamma = new ZeroValleyBox([0, 0], [2 * gammaHalf[0], 2 * gammaHalf[1]], 0);
+        var d = lattice.Dimension; // 2 (a sheet) or 1 (a chain, Round 30): a chain's box has one direction
+        var gamma = new ZeroValleyBox(new int[d], [.. Enumerable.Range(0, d).Select(i => 2 * gammaHalf[i])], 0);
 
         // Every valley's smallest box, kept free while an earlier valley's box is sized (a wide box at (0, 1/2) left none for
         // (1/4, 1/4) on coarse meshes; ZeroValleys.OffMeshProblem refuses a mesh on which the smallest boxes themselves meet).
         var smallest = new List<ZeroValleyBox?>();
         foreach (var (reduced, branches) in valleys)
         {
-            smallest.Add(branches <= crystal.Components && ZeroValleys.Centre2(reduced.X, mesh.M1) is { } s1 && ZeroValleys.Centre2(reduced.Y, mesh.M2) is { } s2
-                ? new ZeroValleyBox([s1, s2], [ZeroValleys.SmallestHalf2(s1), ZeroValleys.SmallestHalf2(s2)], 0)
+            smallest.Add(branches <= crystal.Components && ZeroValleys.Centres2(reduced, mesh, d) is { } s
+                ? new ZeroValleyBox(s, [.. s.Select(ZeroValleys.SmallestHalf2)], 0)
                 : null);
         }
 
         for (var v = 0; v < valleys.Count; v++)
         {
             var (reduced, branches) = valleys[v];
-            if (branches > crystal.Components || ZeroValleys.Centre2(reduced.X, mesh.M1) is not { } c1 || ZeroValleys.Centre2(reduced.Y, mesh.M2) is not { } c2)
+            if (branches > crystal.Components || ZeroValleys.Centres2(reduced, mesh, d) is not { } centre)
             {
                 continue;
             }
 
-            int[] centre = [c1, c2];
-            int[] half = [Parity(Math.Max(1, gammaHalf[0]), c1), Parity(Math.Max(1, gammaHalf[1]), c2)];
-            var later = smallest.Skip(v + 1).OfType<ZeroValleyBox>().ToList();
-            while (half[0] >= 1 && half[1] >= 1 && (half[0] > mesh.M1 || half[1] > mesh.M2 || gamma.Overlaps(centre, half, mesh.M1, mesh.M2) || boxes.Exists(b => b.Overlaps(centre, half, mesh.M1, mesh.M2)) || later.Exists(b => b.Overlaps(centre, half, mesh.M1, mesh.M2))))
+            var half = new int[d];
+            for (var i = 0; i < d; i++)
             {
-                half[0] -= 2;
-                half[1] -= 2;
+                half[i] = Parity(Math.Max(1, gammaHalf[i]), centre[i]);
             }
 
-            if (half[0] < 1 || half[1] < 1)
+            var later = smallest.Skip(v + 1).OfType<ZeroValleyBox>().ToList();
+            while (half.All(h => h >= 1) && (Enumerable.Range(0, d).Any(i => half[i] > mesh[i]) || gamma.Overlaps(centre, half, mesh.M1, mesh.M2) || boxes.Exists(b => b.Overlaps(centre, half, mesh.M1, mesh.M2)) || later.Exists(b => b.Overlaps(centre, half, mesh.M1, mesh.M2))))
+            {
+                Narrow(half);
+            }
+
+            if (half.Any(h => h < 1))
             {
                 continue;
             }
@@ -60,17 +64,16 @@ internal sealed partial class LongWaveRegions
             // kept all the same (as q = 0 keeps one cell).
             var shifted = new ModeSolver(solver.Matrix, lattice.ToCartesianQ(reduced));
             LongWaveRegion? region = null;
-            while (half[0] >= 1 && half[1] >= 1)
+            while (half.All(h => h >= 1))
             {
                 region = Region(shifted, mesh, half, branches, fractions);
-                var last = half[0] < 3 || half[1] < 3;
+                var last = half.Any(h => h < 3);
                 if (region is null || last || (region.RisesAsWave && region.FitError(shifted, FollowTolerance) < FollowTolerance))
                 {
                     break;
                 }
 
-                half[0] -= 2;
-                half[1] -= 2;
+                Narrow(half);
             }
 
             if (region is null)
@@ -86,17 +89,34 @@ internal sealed partial class LongWaveRegions
         return boxes;
     }
 
+    /// <summary>One mesh step narrower along every used direction (two half steps: the faces stay on mesh planes).</summary>
+    private static void Narrow(int[] half)
+    {
+        for (var i = 0; i < half.Length; i++)
+        {
+            half[i] -= 2;
+        }
+    }
+
     /// <summary>The region of a valley's <paramref name="branches"/> zero branches in a box of <paramref name="half"/> half mesh steps either way, on rays of the shifted solver.</summary>
     private static LongWaveRegion? Region(ModeSolver shifted, BulkSample mesh, int[] half, int branches, bool fractions)
     {
         var crystal = shifted.Matrix.Crystal;
         var lattice = crystal.Lattice;
+        var d = half.Length;
 
         // The box's edges: half[i] half steps either way, i.e. half[i] / M_i of reciprocal vector i across.
-        Vec3[] edges = [half[0] / (double)mesh.M1 * lattice.ReciprocalVector(0), half[1] / (double)mesh.M2 * lattice.ReciprocalVector(1)];
-        var rays = CentredCellRays.Build(2, edges, LongWaveFaceRule.Choose(crystal, edges));
+        var edges = new Vec3[d];
+        var share = half[0] / (double)mesh.M1;
+        edges[0] = half[0] / (double)mesh.M1 * lattice.ReciprocalVector(0);
+        if (d == 2)
+        {
+            edges[1] = half[1] / (double)mesh.M2 * lattice.ReciprocalVector(1);
+            share *= half[1] / (double)mesh.M2;
+        }
+
+        var rays = CentredCellRays.Build(d, edges, LongWaveFaceRule.Choose(crystal, edges));
         var epsilon = Math.Min(1e-3 * Transport.AcousticAverages.SmallestReciprocal(lattice), 1e-2 * rays.ShortestRayM);
-        var share = half[0] / (double)mesh.M1 * (half[1] / (double)mesh.M2);
         return LongWaveRegion.Build(shifted, share, new LongWaveBox(0, 0, 0, crystal.Components), 0, branches, fractions, (rays, epsilon));
     }
 

@@ -43,7 +43,7 @@ internal sealed partial class LongWaveRegions
     /// everything, as for an unstable or floppy model, whose thermal numbers are not trusted anyway).
     /// </summary>
     /// <param name="frequencyThz">The mesh's frequencies, [point * branches + branch], for the box sizes.</param>
-    /// <param name="valleys">A sheet's zero valleys away from q = 0 (<see cref="ZeroValleys.Find"/>), or null: each gets rays of its own.</param>
+    /// <param name="valleys">A sheet's or a chain's zero valleys away from q = 0 (<see cref="ZeroValleys.ForBulkMesh"/>), or null: each gets rays of its own.</param>
     public static LongWaveRegions? TryBuild(ModeSolver solver, BulkSample mesh, double[] frequencyThz, bool fractions, IReadOnlyList<(Vec3 Reduced, int Branches)>? valleys = null)
     {
         var crystal = solver.Matrix.Crystal;
@@ -103,7 +103,7 @@ internal sealed partial class LongWaveRegions
 
         var outer = parts[0].Box;
         var combined = parts.Count == 1 ? outer : outer with { BranchHalfWidths = widths };
-        if (d == 2 && valleys is { Count: > 0 })
+        if (d <= 2 && valleys is { Count: > 0 })
         {
             var boxes = AddZeroValleys(solver, mesh, valleys, widths[0] ?? half, fractions, parts);
             combined = boxes.Count == 0 ? combined : combined with { Valleys = boxes };

@@ -17,8 +17,9 @@ namespace LatticeSweep.Engine.Dos;
 /// omega ~ q^2; such a valley carries as many states near zero as q = 0 does, and the simplices' linear triangles hold
 /// almost none of them (the low-temperature Cv came out half the true value; docs/outside-checks.md, Round 28 (flexural
 /// zero valleys)). Each valley gets the long-wave rays q = 0 gets (<see cref="LongWaveRegions"/>), from a solver shifted to
-/// its centre. Valleys at other coordinates come from <see cref="ZeroValleyCandidates"/>; a chain's or 3D crystal's valleys
-/// (<see cref="FindBeyondSheets"/>) are refused in bulk (<see cref="BeyondSheetsProblem"/>).
+/// its centre. Valleys at other coordinates come from <see cref="ZeroValleyCandidates"/>. A chain's valleys
+/// (<see cref="FindBeyondSheets"/>) get the same rays on a bulk mesh (<see cref="ForBulkMesh"/>; Round 30 (valleys)); a 3D
+/// crystal's are refused in bulk (<see cref="BeyondSheetsProblem"/>), and so is a chain's conductivity across them.
 /// </para>
 /// </summary>
 internal static class ZeroValleys
@@ -71,6 +72,31 @@ internal static class ZeroValleys
         }
 
         return found;
+    }
+
+    /// <summary>
+    /// The valleys a bulk mesh integrates with rays of their own: a sheet's (<see cref="Find"/>) and a chain's
+    /// (<see cref="FindBeyondSheets"/>); none for a 3D crystal, whose valleys <see cref="BeyondSheetsProblem"/> refuses.
+    /// </summary>
+    public static IReadOnlyList<(Vec3 Reduced, int Branches)> ForBulkMesh(ModeSolver solver) =>
+        solver.Matrix.Crystal.Lattice.Dimension switch
+        {
+            2 => Find(solver),
+            1 => FindBeyondSheets(solver),
+            _ => [],
+        };
+
+    /// <summary>
+    /// The refusal of a bulk point whose zero valleys the mesh cannot integrate, or null: a sheet's or a chain's valley off
+    /// the mesh's points and cells' centres or too close to another box (<see cref="OffMeshProblem"/>), a 3D crystal's
+    /// valley, and a chain's valley where the conductivity is asked for (its pass has no valley cells in 1D)
+    /// (<see cref="BeyondSheetsProblem"/>).
+    /// </summary>
+    /// <param name="valleys">The point's <see cref="ForBulkMesh"/>.</param>
+    public static ModelProblem? BulkProblem(ModeSolver solver, IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh, bool conductivity)
+    {
+        var d = solver.Matrix.Crystal.Lattice.Dimension;
+        return OffMeshProblem(solver, valleys, mesh) ?? (d == 3 || (d == 1 && conductivity) ? BeyondSheetsProblem(solver) : null);
     }
 
     /// <summary>
@@ -147,15 +173,35 @@ internal static class ZeroValleys
 
             var d = solver.Matrix.Crystal.Lattice.Dimension;
             var at = d == 1 ? Show(reduced.X) : $"{Show(reduced.X)}, {Show(reduced.Y)}, {Show(reduced.Z)}";
-            var kind = d == 1 ? "chain" : "3D crystal";
+            var what = d == 1
+                ? "and the thermal conductivity of a bulk chain does not integrate such a zero valley (its heat carriers near the valley would be left to single mesh points). "
+                    + "Leave out output.conductivity for this model (its heat capacity and DOS do integrate the valley), add"
+                : "and a bulk 3D crystal does not integrate such a zero valley (the heat capacity below a few kelvin would be a fraction of the true value). Add";
             return new ModelProblem(ModelProblemKind.OutOfRange, "model",
                 $"the model's lowest {(branches == 1 ? "branch reaches" : $"{branches} branches reach")} zero frequency at reduced wave vector ({at}) as well as at q = 0: "
                 + "its springs and bends leave interpenetrating sublattices that do not hold each other (e.g. a bend or spring on one outer shell alone), "
-                + $"and a bulk {kind} does not integrate such a zero valley (the heat capacity below a few kelvin would be a fraction of the true value). "
-                + "Add a spring or bend on a shell that links neighbouring cells (e.g. shell 1), or use sample.kind = \"finite\", whose exact mode sums count every mode");
+                + what + " a spring or bend on a shell that links neighbouring cells (e.g. shell 1), or use sample.kind = \"finite\", whose exact mode sums count every mode");
         }
 
         return null;
+    }
+
+    /// <summary>The doubled offsets of a valley along the lattice's <paramref name="d"/> directions, or null when one lies neither on a mesh point nor at a cell's centre.</summary>
+    internal static int[]? Centres2(Vec3 reduced, BulkSample mesh, int d)
+    {
+        double[] at = [reduced.X, reduced.Y, reduced.Z];
+        var centre = new int[d];
+        for (var i = 0; i < d; i++)
+        {
+            if (Centre2(at[i], mesh[i]) is not { } c)
+            {
+                return null;
+            }
+
+            centre[i] = c;
+        }
+
+        return centre;
     }
 
     /// <summary>The doubled offset (<see cref="ZeroValleyBox"/>) of a reduced coordinate on a mesh of <paramref name="m"/>, or null when it lies neither on a mesh point nor at a cell's centre.</summary>
@@ -175,7 +221,8 @@ internal static class ZeroValleys
     /// </summary>
     public static ModelProblem? OffMeshProblem(ModeSolver solver, IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, BulkSample mesh)
     {
-        int[] counts = [mesh.M1, mesh.M2];
+        var d = Math.Min(2, solver.Matrix.Crystal.Lattice.Dimension);
+        int[] counts = d == 1 ? [mesh.M1] : [mesh.M1, mesh.M2];
         foreach (var (reduced, branches) in valleys)
         {
             if (!IsPointValley(solver, reduced, branches))
@@ -184,14 +231,14 @@ internal static class ZeroValleys
             }
 
             double[] at = [reduced.X, reduced.Y];
-            for (var axis = 0; axis < 2; axis++)
+            for (var axis = 0; axis < d; axis++)
             {
                 if (Centre2(at[axis], counts[axis]) is null)
                 {
                     var step = MeshStep(at[axis]);
                     return new ModelProblem(ModelProblemKind.OutOfRange, $"sample.mesh[{axis}]",
-                        $"the model's lowest branch reaches zero frequency at reduced wave vector ({Show(reduced.X)}, {Show(reduced.Y)}) as well as at q = 0 "
-                        + $"(a zero valley, e.g. a flexural bend on one outer shell alone); a mesh of {counts[axis]} puts it neither on a mesh point nor midway between two, "
+                        $"the model's lowest branch reaches zero frequency at reduced wave vector ({ShowAt(reduced, d)}) as well as at q = 0 "
+                        + $"(a zero valley, e.g. {Example(d)}); a mesh of {counts[axis]} puts it neither on a mesh point nor midway between two, "
                         + $"which leaves its low-temperature heat carriers out (the heat capacity below a few kelvin a fraction of the true value). Use a multiple of {step} "
                         + $"(e.g. {step * (int)Math.Ceiling(counts[axis] / (double)step)} or {step * (int)Math.Floor(counts[axis] / (double)step)})");
                 }
@@ -217,19 +264,20 @@ internal static class ZeroValleys
             return null;
         }
 
-        var square = counts[0] == counts[1];
-        for (var axis = 0; axis < 2; axis++)
+        var d = counts.Length;
+        var square = d == 2 && counts[0] == counts[1];
+        for (var axis = 0; axis < d; axis++)
         {
             for (var m = counts[axis] + 1; m <= 8 * counts[axis]; m++)
             {
-                int[] trial = square ? [m, m] : axis == 0 ? [m, counts[1]] : [counts[0], m];
-                if (valleys.All(v => Centre2(v.Reduced.X, trial[0]) is not null && Centre2(v.Reduced.Y, trial[1]) is not null) && Blocked(solver, valleys, trial) is null)
+                int[] trial = d == 1 ? [m] : square ? [m, m] : axis == 0 ? [m, counts[1]] : [counts[0], m];
+                if (valleys.All(v => Centre2(v.Reduced.X, trial[0]) is not null && (d == 1 || Centre2(v.Reduced.Y, trial[1]) is not null)) && Blocked(solver, valleys, trial) is null)
                 {
                     return new ModelProblem(ModelProblemKind.OutOfRange, $"sample.mesh[{axis}]",
-                        $"the model's lowest branch reaches zero frequency at reduced wave vector ({Show(blocked.X)}, {Show(blocked.Y)}) as well as at q = 0 "
-                        + $"(a zero valley, e.g. a flexural bend on one outer shell alone); a mesh of {counts[0]} x {counts[1]} is too coarse to give it long-wave rays "
+                        $"the model's lowest branch reaches zero frequency at reduced wave vector ({ShowAt(blocked, d)}) as well as at q = 0 "
+                        + $"(a zero valley, e.g. {Example(d)}); a mesh of {string.Join(" x ", counts)} is too coarse to give it long-wave rays "
                         + "of its own apart from q = 0's and the other valleys', which leaves its low-temperature heat carriers out (the heat capacity below a few kelvin "
-                        + $"a fraction of the true value). Use a finer mesh (e.g. {(square ? $"{m} x {m}" : $"{m} along this direction")})");
+                        + $"a fraction of the true value). Use a finer mesh (e.g. {(square ? $"{m} x {m}" : d == 1 ? $"{m}" : $"{m} along this direction")})");
                 }
             }
         }
@@ -241,22 +289,24 @@ internal static class ZeroValleys
     private static Vec3? Blocked(ModeSolver solver, IReadOnlyList<(Vec3 Reduced, int Branches)> valleys, int[] counts)
     {
         var components = solver.Matrix.Crystal.Components;
+        var d = counts.Length;
+        var m2 = d == 1 ? 1 : counts[1];
         var boxes = new List<(int[] Centre, int[] Half, Vec3 Reduced)>();
         foreach (var (reduced, branches) in valleys)
         {
-            if (branches > components || Centre2(reduced.X, counts[0]) is not { } c1 || Centre2(reduced.Y, counts[1]) is not { } c2 || !IsPointValley(solver, reduced, branches))
+            if (branches > components || Centre2(reduced.X, counts[0]) is not { } c1 || (d == 2 ? Centre2(reduced.Y, counts[1]) : 0) is not { } c2 || !IsPointValley(solver, reduced, branches))
             {
                 continue;
             }
 
-            boxes.Add(([c1, c2], [SmallestHalf2(c1), SmallestHalf2(c2)], reduced));
+            boxes.Add(d == 1 ? ([c1], [SmallestHalf2(c1)], reduced) : ([c1, c2], [SmallestHalf2(c1), SmallestHalf2(c2)], reduced));
         }
 
         for (var i = 0; i < boxes.Count; i++)
         {
             var (centre, half, reduced) = boxes[i];
-            var gamma = new ZeroValleyBox([0, 0], [2 * LongWaveRegion.UsualHalfWidth(counts[0]), 2 * LongWaveRegion.UsualHalfWidth(counts[1])], 0);
-            if (gamma.Overlaps(centre, half, counts[0], counts[1]) || boxes.Where((_, j) => j != i).Any(b => new ZeroValleyBox(b.Centre, b.Half, 0).Overlaps(centre, half, counts[0], counts[1])))
+            var gamma = new ZeroValleyBox(new int[d], [.. counts.Select(m => 2 * LongWaveRegion.UsualHalfWidth(m))], 0);
+            if (gamma.Overlaps(centre, half, counts[0], m2) || boxes.Where((_, j) => j != i).Any(b => new ZeroValleyBox(b.Centre, b.Half, 0).Overlaps(centre, half, counts[0], m2)))
             {
                 return reduced;
             }
@@ -311,6 +361,10 @@ internal static class ZeroValleys
 
         return 10_000;
     }
+
+    private static string ShowAt(Vec3 reduced, int d) => d == 1 ? Show(reduced.X) : $"{Show(reduced.X)}, {Show(reduced.Y)}";
+
+    private static string Example(int d) => d == 1 ? "a bend or spring on one outer shell alone" : "a flexural bend on one outer shell alone";
 
     private static string Show(double reduced)
     {

@@ -54,13 +54,13 @@ internal static class BulkSolver
             throw new ModelException([tooLarge]);
         }
 
-        // A sheet's zero valleys away from q = 0, searched once: refused below where the mesh misses one, else each gets rays.
-        IReadOnlyList<(Models.Vec3 Reduced, int Branches)> valleys = options.DosMethod == DosMethod.Gaussian ? [] : ZeroValleys.Find(solver);
+        // A sheet's or a chain's zero valleys away from q = 0, searched once: refused below where the mesh misses one, else each gets rays.
+        IReadOnlyList<(Models.Vec3 Reduced, int Branches)> valleys = options.DosMethod == DosMethod.Gaussian ? [] : ZeroValleys.ForBulkMesh(solver);
 
-        // A sheet's zero valley the mesh leaves off its points and cell corners, or a chain's or 3D crystal's zero valley (no
+        // A sheet's or chain's zero valley the mesh leaves off its points and cell corners, or a 3D crystal's zero valley (no
         // rays for those): refused rather than a silently low heat capacity (the check mesh of a convergence estimate may
         // leave a sheet's valley: its change then reads large, not small).
-        if (!checkMesh && options.DosMethod != DosMethod.Gaussian && (ZeroValleys.OffMeshProblem(solver, valleys, sample) ?? ZeroValleys.BeyondSheetsProblem(solver)) is { } offMesh)
+        if (!checkMesh && options.DosMethod != DosMethod.Gaussian && ZeroValleys.BulkProblem(solver, valleys, sample, options.Conductivity is not null) is { } offMesh)
         {
             throw new ModelException([offMesh]);
         }
@@ -180,7 +180,7 @@ internal static class BulkSolver
         var perOutput = Math.Max(1, (FineBinsTarget + options.DosBins - 1) / options.DosBins);
         var gaussian = options.DosMethod == DosMethod.Gaussian;
         var rigid = crystal.Components;
-        // A sheet's zero valleys away from q = 0 (a flexural bend on the second shell alone; the caller's search): their floors
+        // A sheet's or chain's zero valleys away from q = 0 (a flexural bend on the second shell alone; the caller's search): their floors
         // on the mesh are counted as the rigid translations are, and each valley gets the long-wave rays q = 0 gets.
         var zeroModes = rigid + CountZeroModes(frequencies, grid, n, rigid, highest, ZeroValleys.MeshCentres(valleys, sample, grid));
         var unstable = stats.WorstLambda < -1e-8 * stats.MaxLambda;

@@ -67,7 +67,7 @@ public static partial class PhononSolver
             QuasiHarmonic.QuasiHarmonicLoop.Validate(model, expansion);
         }
 
-        if (sample is BulkSample bulk && options.DosMethod != DosMethod.Gaussian && CachedValleyProblem(model, bulk) is { } valley)
+        if (sample is BulkSample bulk && options.DosMethod != DosMethod.Gaussian && CachedValleyProblem(model, bulk, options.Conductivity is not null) is { } valley)
         {
             throw new ModelException([valley]);
         }
@@ -132,8 +132,8 @@ public static partial class PhononSolver
 
     /// <summary>
     /// The refusal of a bulk point whose zero valleys away from q = 0 the solver would leave out (<see cref="ZeroValleys"/>):
-    /// a sheet's valley that the mesh puts neither on a mesh point nor midway between two (naming <c>sample.mesh[k]</c>), or
-    /// any valley of a chain or a 3D crystal (naming <c>model</c>); null otherwise, and for Gaussian broadening, which has
+    /// a sheet's or chain's valley that the mesh puts neither on a mesh point nor midway between two (naming <c>sample.mesh[k]</c>),
+    /// any valley of a 3D crystal, or a chain's valley where the conductivity is asked for (naming <c>model</c>); null otherwise, and for Gaussian broadening, which has
     /// no long-wave rays for q = 0 either. <see cref="BulkSolver"/> raises the same.
     /// </summary>
     private static ModelProblem? ValleyProblem(ModeSolver solver, Sample sample, SolveOptions options)
@@ -145,7 +145,7 @@ public static partial class PhononSolver
 
         lock (solver)
         {
-            return ZeroValleys.OffMeshProblem(solver, ZeroValleys.Find(solver), bulk) ?? ZeroValleys.BeyondSheetsProblem(solver);
+            return ZeroValleys.BulkProblem(solver, ZeroValleys.ForBulkMesh(solver), bulk, options.Conductivity is not null);
         }
     }
 
@@ -154,15 +154,15 @@ public static partial class PhononSolver
     /// model, and a valley search costs 15 or more eigen-solves (0.3-0.7 ms a point in bench/README.md, Round 29 (valleys
     /// cost), where the rest of a point's pre-flight is about 1 ms).
     /// </summary>
-    private static ModelProblem? CachedValleyProblem(CrystalModel model, BulkSample mesh)
+    private static ModelProblem? CachedValleyProblem(CrystalModel model, BulkSample mesh, bool conductivity)
     {
         var entry = ValleyProblems.GetValue(model, m => new ValleyEntry(new ModeSolver(new DynamicalMatrix(CompiledCrystal.From(m)))));
         lock (entry)
         {
-            var key = (mesh.M1, mesh.M2, mesh.M3);
+            var key = (mesh.M1, mesh.M2, mesh.M3, conductivity);
             if (!entry.ByMesh.TryGetValue(key, out var problem))
             {
-                problem = ValleyProblem(entry.Solver, mesh, new SolveOptions());
+                problem = ValleyProblem(entry.Solver, mesh, conductivity ? new SolveOptions { Conductivity = new Transport.ConductivityOptions() } : new SolveOptions());
                 entry.ByMesh[key] = problem;
             }
 
@@ -172,7 +172,7 @@ public static partial class PhononSolver
 
     private sealed record ValleyEntry(ModeSolver Solver)
     {
-        public Dictionary<(int, int, int), ModelProblem?> ByMesh { get; } = [];
+        public Dictionary<(int, int, int, bool), ModelProblem?> ByMesh { get; } = [];
     }
 
     private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<CrystalModel, ValleyEntry> ValleyProblems = new();
