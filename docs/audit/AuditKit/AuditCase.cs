@@ -7,7 +7,7 @@ namespace LatticeSweep.Audit;
 internal sealed record AuditCase(
     string Id, AuditModel Model, double[] TemperaturesK, double ReferenceK, int[] Cells, int[] Mesh,
     double[][] PathCorners, int PointsPerSegment, int DosBins, string Kind = "pairs", AuditSurface? Surface = null,
-    AuditDisorder? Disorder = null, AuditExpansion? Expansion = null, AuditConductivity? Conductivity = null)
+    AuditDisorder? Disorder = null, AuditExpansion? Expansion = null, AuditConductivity? Conductivity = null, double? SurfaceWeightThreshold = null)
 {
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
@@ -140,6 +140,11 @@ internal sealed record AuditCase(
             }
 
             sb.AppendLine("method = \"dense\"");
+            if (SurfaceWeightThreshold is { } threshold)
+            {
+                sb.AppendLine($"surface_weight_threshold = {F(threshold)}");
+            }
+
             if (Disorder is { } dis)
             {
                 sb.AppendLine();
@@ -167,7 +172,10 @@ internal sealed record AuditCase(
                 sb.AppendLine("mode_list_max_modes = 100000");
             }
 
-            sb.AppendLine("tables = [\"dos\", \"thermal\", \"modes\", \"layers\"]");
+            // the round-30 kind reads each layer's DOS too; earlier kinds keep their job files byte for byte
+            sb.AppendLine(Kind == "surfacelayers"
+                ? "tables = [\"dos\", \"thermal\", \"modes\", \"layers\", \"layer_dos\"]"
+                : "tables = [\"dos\", \"thermal\", \"modes\", \"layers\"]");
             return sb.ToString();
         }
 

@@ -247,6 +247,14 @@ internal static class Disorder
         if (hasSurface)
         {
             Compare("disorder.msd_surface_vs_own_configurations", $"T = {reference} K", p.Number("msd_surface_nm2", row), p.Number("msd_surface_stderr_nm2", row), own.Select(v => v.MsdSurface), 0);
+            // round 30: a fraction of modes per configuration (README surface_mode_fraction), averaged like the rest; a
+            // configuration's degenerate sets (rare once disordered) widen it by the mean half-width of their allowed range
+            if (own.All(v => v.SurfaceFraction is not null))
+            {
+                Compare("disorder.surface_mode_fraction_vs_own_configurations", "points/ (t = 0.5)", p.Number("surface_mode_fraction", row), p.Number("surface_mode_fraction_stderr", row),
+                    own.Select(v => v.SurfaceFraction!.Value.Mid), own.Average(v => v.SurfaceFraction!.Value.HalfWidth) + 1e-12); // 1e-12: a ratio of counts' round-off, and a tolerance above 0 where every configuration has none
+            }
+
             if (own[0].MsdInterior > 0)
             {
                 Compare("disorder.msd_interior_vs_own_configurations", $"T = {reference} K", p.Number("msd_interior_nm2", row), p.Number("msd_interior_stderr_nm2", row), own.Select(v => v.MsdInterior), 0);
@@ -257,6 +265,9 @@ internal static class Disorder
     /// <summary>One solved configuration: its non-zero omegas (rad/s), atoms, top and lowest frequencies, and its MSDs at the reference temperature.</summary>
     private sealed record Config(double[] Omegas, int Atoms, double MaxThz, double GapThz, double MsdSurface, double MsdInterior)
     {
+        /// <summary>Round 30: the surface-mode fraction at the default threshold 0.5 (the middle of the range degenerate sets allow) and that range's half-width.</summary>
+        public (double Mid, double HalfWidth)? SurfaceFraction { get; init; }
+
         public ThermalValues At(double t) => ModeSums.Of(Omegas, 1.0 / Atoms, 1, t);
 
         public static Config FromOmegas(double[] omegas, int atoms) =>
@@ -268,7 +279,11 @@ internal static class Disorder
             var top = lambda[^1];
             var omegas = Context.Omegas(lambda, top, out _);
             var (surface, interior) = Msd(cluster, massAmu, depth, lambda, vectors, top, t);
-            return new Config([.. omegas], cluster.Atoms.Count, Units.ThzFromOmega(omegas.Max()), Units.ThzFromOmega(omegas.Min()), surface, interior);
+            var (lo, hi, n, _, _) = SurfaceWeights.SurfaceModeCount([.. depth.Select(v => v == 0)], cluster.Model.Components, lambda, vectors, top, 0.5);
+            return new Config([.. omegas], cluster.Atoms.Count, Units.ThzFromOmega(omegas.Max()), Units.ThzFromOmega(omegas.Min()), surface, interior)
+            {
+                SurfaceFraction = n > 0 ? ((lo + hi) / 2.0 / n, (hi - lo) / 2.0 / n) : null,
+            };
         }
 
         /// <summary>Mean over the surface (and interior) atoms and the directions of motion of sum_modes hbar/(2 m omega) coth(hbar omega/2kT) e^2, nm^2 (A&M ch. 23, app. N; common practice).</summary>

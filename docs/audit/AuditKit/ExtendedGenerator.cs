@@ -17,9 +17,13 @@ internal sealed class ExtendedGenerator
     private readonly Random _rng;
     private readonly Random _rng27;
     private readonly BendCases _bends29;
+    private readonly int _seed;
+    private ExtendedGenerator? _surfaces30;
+    private Random? _threshold30;
 
     public ExtendedGenerator(int seed, string[] kinds)
     {
+        _seed = seed;
         _kinds = kinds;
         _pairs = new CaseGenerator(seed);
         _bases = new CaseGenerator(seed + 1000003);
@@ -44,10 +48,10 @@ internal sealed class ExtendedGenerator
 
         // `everything` stays the six kinds it named before round 29: adding kinds to it would change which kind each of a
         // seed's cases draws (one shared choice stream), so earlier seeds' cases would move; the round-29 kinds are named
-        var bad = kinds.Where(k => k is not ("pairs" or "surfaces" or "interactions" or "disorder" or "expansion" or "flexural" or "flexshells" or "folded")).ToList();
+        var bad = kinds.Where(k => k is not ("pairs" or "surfaces" or "interactions" or "disorder" or "expansion" or "flexural" or "flexshells" or "folded" or "surfacelayers")).ToList();
         if (kinds.Length == 0 || bad.Count > 0)
         {
-            throw new ArgumentException($"AUDIT_KINDS: '{text}' is not a comma-separated list of pairs, surfaces, interactions, disorder, expansion, flexural, flexshells, folded (or all: the first three; everything: the first six)");
+            throw new ArgumentException($"AUDIT_KINDS: '{text}' is not a comma-separated list of pairs, surfaces, interactions, disorder, expansion, flexural, flexshells, folded, surfacelayers (or all: the first three; everything: the first six)");
         }
 
         return kinds;
@@ -65,6 +69,7 @@ internal sealed class ExtendedGenerator
             "flexural" => FlexuralCase(id),
             "flexshells" => _bends29.Flexural(id),
             "folded" => _bends29.Folded(id),
+            "surfacelayers" => SurfaceLayersCase(id),
             _ => WithInteractions(_bases.Next(id)),
         };
     }
@@ -160,6 +165,21 @@ internal sealed class ExtendedGenerator
         var a = _rng.Next(r);
         var b = _rng.Next(r);
         return a == b ? null : new AuditBend(centre, [m.Sites[a].Label, m.Sites[b].Label], [1], form, k);
+    }
+
+    /// <summary>
+    /// Round 30: a surfaces case drawn exactly as that kind draws them, but by a generator of its own (seed * 17 + 30, so no
+    /// earlier kind's stream moves), with `layer_dos` among the tables and, half the time, a surface weight threshold of
+    /// 0.1-0.9 (a fifth of those exactly 0.5, the default, written out) from a stream of its own.
+    /// </summary>
+    private AuditCase SurfaceLayersCase(string id)
+    {
+        _surfaces30 ??= new ExtendedGenerator(unchecked(_seed * 17 + 30), ["surfaces"]);
+        _threshold30 ??= new Random(unchecked(_seed * 19 + 30));
+        var c = _surfaces30.WithSurface(_surfaces30._bases.Next(id));
+        var roll = _threshold30.NextDouble();
+        double? threshold = roll < 0.5 ? null : roll < 0.6 ? 0.5 : Math.Round(0.1 + 0.8 * _threshold30.NextDouble(), 3);
+        return c with { Kind = "surfacelayers", SurfaceWeightThreshold = threshold };
     }
 
     private AuditCase WithSurface(AuditCase c)

@@ -92,6 +92,7 @@ internal static class Surfaces
         Histogram.Compare(x, id, "surface", [[.. lambda.Select(l => Units.ThzFromOmega(Math.Sqrt(Math.Max(l, 0))))]], (double)atoms / m.Sites.Length,
             "histogram of the kit's own modes on the engine's bins (README dos_bins; exact histogram for samples solved mode by mode)");
         Displacements(x, id, row, cluster, lambda, vectors, top);
+        SurfaceWeights.Check(x, id, row, cluster, lambda, vectors, top, cluster.Layers());
     }
 
     /// <summary>
