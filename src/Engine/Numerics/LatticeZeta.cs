@@ -149,14 +149,14 @@ internal static class LatticeZeta
     }
 
     /// <summary>
-    /// Z_P(s) = sum over the nonzero vectors x of the lattice with basis rows <paramref name="basis"/> (d x d, Cartesian) of
+    /// Z_P(s) at each given s: the sum over the nonzero vectors x of the lattice with basis rows <paramref name="basis"/> (d x d, Cartesian) of
     /// P(x) |x|^-2s, for P a harmonic polynomial of even degree l >= 2 and s not zero or a negative whole number (<paramref name="harmonic"/>, given Cartesian
     /// coordinates), continued analytically. Hecke's identity (the Fourier transform of P(x) e^(-pi x^2) is (-i)^l P(y)
     /// e^(-pi y^2); common practice, from memory) turns Ewald's split into: pi^-s Gamma(s) Z_P(s) = sum_x P(x) (pi x^2)^-s
     /// Gamma(s, pi x^2) + (-1)^(l/2) sum_y P(y) (pi y^2)^(s - d/2 - l) Gamma(d/2 + l - s, pi y^2), at unit cell volume
     /// (Z_P of lambda L is lambda^(l - 2 s) times L's). No constant terms: P(0) = 0 and P averages to zero on a sphere.
     /// </summary>
-    public static double HarmonicSum(double[,] basis, Func<double[], double> harmonic, int degree, double s)
+    public static double[] HarmonicSum(double[,] basis, Func<double[], double> harmonic, int degree, params double[] s)
     {
         var d = basis.GetLength(0);
         var gram = new double[d, d];
@@ -195,19 +195,32 @@ internal static class LatticeZeta
         }
 
         var dualGram = Inverse(unitGram);
-        var sum = 0.0;
+        var sums = new double[s.Length];
         foreach (var (n, r) in Vectors(unitGram, dualGram))
         {
-            sum += harmonic(Cartesian(unitBasis, n)) * Math.Pow(Math.PI * r, -s) * UpperGamma(s, Math.PI * r);
+            var p = harmonic(Cartesian(unitBasis, n));
+            for (var k = 0; k < s.Length; k++)
+            {
+                sums[k] += p * Math.Pow(Math.PI * r, -s[k]) * UpperGamma(s[k], Math.PI * r);
+            }
         }
 
         var sign = (degree / 2) % 2 == 0 ? 1.0 : -1.0;
         foreach (var (n, r) in Vectors(dualGram, unitGram))
         {
-            sum += sign * harmonic(Cartesian(dualBasis, n)) * Math.Pow(Math.PI * r, s - (d / 2.0) - degree) * UpperGamma((d / 2.0) + degree - s, Math.PI * r);
+            var p = sign * harmonic(Cartesian(dualBasis, n));
+            for (var k = 0; k < s.Length; k++)
+            {
+                sums[k] += p * Math.Pow(Math.PI * r, s[k] - (d / 2.0) - degree) * UpperGamma((d / 2.0) + degree - s[k], Math.PI * r);
+            }
         }
 
-        return Math.Pow(scale, degree - (2 * s)) * sum * Math.Pow(Math.PI, s) / CompleteGamma(s);
+        for (var k = 0; k < s.Length; k++)
+        {
+            sums[k] *= Math.Pow(scale, degree - (2 * s[k])) * Math.Pow(Math.PI, s[k]) / CompleteGamma(s[k]);
+        }
+
+        return sums;
     }
 
     private static double[] Cartesian(double[,] basis, int[] n)

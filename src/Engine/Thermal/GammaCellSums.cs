@@ -152,20 +152,21 @@ internal sealed class GammaCellSums
                 quadraticPart += w * y * quadratic[p];
             }
 
+            (speedPart, logPart, cubicPart, quadraticPart) = (speedPart / norm, logPart / norm, cubicPart / norm, quadraticPart / norm);
+
             double Polynomial(double[] x)
             {
                 var r = Math.Sqrt(x.Sum(c => c * c));
                 return Math.Pow(r, degree) * harmonic([.. x.Select(c => c / r)]);
             }
 
-            cone -= speedPart / norm * LatticeZeta.HarmonicSum(basis, Polynomial, degree, (degree - 1) / 2.0);
-            log -= logPart / norm * LatticeZeta.HarmonicSum(basis, Polynomial, degree, degree / 2.0);
-            cone -= cubicPart / norm * LatticeZeta.HarmonicSum(basis, Polynomial, degree, (degree - 3) / 2.0);
-
             // Y |x|^2 sums to zero for degree 2 (a polynomial; Z_P(0) = 0), as the direction average's |x|^2 does (Z(-2) = 0).
+            var z = LatticeZeta.HarmonicSum(basis, Polynomial, degree, (degree - 1) / 2.0, degree / 2.0, (degree - 3) / 2.0, Math.Max(1, (degree - 2) / 2.0));
+            cone -= (speedPart * z[0]) + (cubicPart * z[2]);
+            log -= logPart * z[1];
             if (degree >= 4)
             {
-                log -= quadraticPart / norm * LatticeZeta.HarmonicSum(basis, Polynomial, degree, (degree - 2) / 2.0);
+                log -= quadraticPart * z[3];
             }
         }
 
