@@ -341,6 +341,14 @@ internal static class BulkSolver
             return;
         }
 
+        // The zero-point energy, S and F from the same mesh, its q = 0 point's acoustic modes from the long waves' cones
+        // (Thermal/GammaCellSums: h^(d+1) or better against the simplices' h^2); S and F where U's plain sum is taken.
+        var gammaCell = Thermal.GammaCellSums.Of(solver, grid);
+        if (gammaCell is not null)
+        {
+            sink.ReplaceZeroPoint(gammaCell.ZeroPointJ(frequencies, grid, branches));
+        }
+
         var cellMeasure = solver.Matrix.Crystal.Lattice.CellMeasure;
         var temperatures = sink.TemperaturesK;
         for (var t = 0; t < temperatures.Length; t++)
@@ -355,6 +363,11 @@ internal static class BulkSolver
             var weight = Thermal.PeriodicMeshSums.Weight(error);
 
             sink.BlendPlainSums(t, weight, internalJ, heatCapacity);
+            if (gammaCell is not null && weight > 0)
+            {
+                var entropy = (internalJ - gammaCell.FreeJ(frequencies, grid, branches, temperatures[t])) / temperatures[t];
+                sink.BlendPlainEntropy(t, weight, entropy);
+            }
         }
     }
 

@@ -137,6 +137,39 @@ internal sealed class ModeSink
         s.HeatCapacity = ((1 - weight) * s.HeatCapacity) + (weight * heatCapacityJPerK);
     }
 
+    /// <summary>
+    /// Puts the zero-point energy of every temperature's sums at <paramref name="zeroPointJ"/> (<see cref="GammaCellSums"/>),
+    /// U and F moving with it (both contain it once); S and Cv stay.
+    /// </summary>
+    public void ReplaceZeroPoint(double zeroPointJ)
+    {
+        var sums = Flushed()._sums;
+        for (var t = 0; t < sums.Length; t++)
+        {
+            var shift = zeroPointJ - sums[t].ZeroPoint;
+            sums[t].ZeroPoint = zeroPointJ;
+            sums[t].Internal += shift;
+            sums[t].Free += shift;
+        }
+    }
+
+    /// <summary>
+    /// Moves S at temperature index t towards a plain mesh sum's (<see cref="GammaCellSums"/>): (1 - w) of this plus w of
+    /// the given one; F = U - T S follows (call after <see cref="BlendPlainSums"/>, whose U it keeps).
+    /// </summary>
+    public void BlendPlainEntropy(int t, double weight, double entropyJPerK)
+    {
+        if (!(weight > 0))
+        {
+            return;
+        }
+
+        ref var s = ref Flushed()._sums[t];
+        var entropy = ((1 - weight) * s.Entropy) + (weight * entropyJPerK);
+        s.Free -= _temperaturesK[t] * (entropy - s.Entropy);
+        s.Entropy = entropy;
+    }
+
     /// <summary>Mean-square displacement (m^2) at temperature index t for channel c, or NaN when not collected.</summary>
     public double Msd(int t, int c) => _msd is null ? double.NaN : Flushed()._msd![t * _channels + c];
 

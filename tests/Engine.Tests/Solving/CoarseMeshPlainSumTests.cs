@@ -27,7 +27,7 @@ public class CoarseMeshPlainSumTests
         var row = PhononSolver.Solve(Model(), BulkSample.Create(8, 8, 8), Options).Thermal[1];
         Approx.Equal(10.263709622464765, row.HeatCapacityJPerMolK, 2e-6, "Cv at 60 K");
         Approx.Equal(2858.3585539283695, row.InternalEnergyJPerMol, 1e-6, "U at 60 K");
-        // S stays the density of states' (4.0e-3 low here); F = U - T S moves with U.
+        // F = U - T S holds in every row (S is the mesh sum of Thermal/GammaCellSums since Round 30).
         Approx.Equal(row.InternalEnergyJPerMol - (60 * row.EntropyJPerMolK), row.FreeEnergyJPerMol, 1e-10, "F = U - T S at 60 K", absolute: 1e-9);
     }
 
