@@ -59,7 +59,8 @@ internal sealed class Session : IDisposable
         var faults = new StoreFaultWatch(location);
         var log = LogSetup.Create(progress.WriteLine, location.LogFolder(context.CurrentDirectory), line.Command, context.Time, faults, out var logFile);
 
-        // The queue library logs through Serilog's static logger when one is set.
+        // The queue library logs through Serilog's static logger, handed over by our own provider (no reflection).
+        QueueLibraryLog.Install();
         Serilog.Log.Logger = log;
         try
         {

@@ -67,19 +67,27 @@ public sealed record StoreLocation
 
         if (trimmed.StartsWith("Host=", StringComparison.OrdinalIgnoreCase))
         {
-            try
-            {
-                _ = new NpgsqlConnectionStringBuilder(trimmed);
-            }
-            catch (Exception ex) when (ex is ArgumentException or FormatException or InvalidCastException)
-            {
-                throw new ArgumentException($"--store: not a valid PostgreSQL connection string: {ex.Message}", ex);
-            }
-
-            return Postgres(trimmed);
+            return FromConnectionString(trimmed);
         }
 
         return new StoreLocation(StoreKind.Sqlite, Path.GetFullPath(Path.Combine(currentDirectory, trimmed)), null);
+    }
+
+    // Kept out of Parse: precompiled code that names an Npgsql type loads Npgsql.dll when the method is entered,
+    // so every SQLite command paid for the PostgreSQL client's loading (bench/README.md, round 30 (fixed cost)).
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.NoInlining)]
+    private static StoreLocation FromConnectionString(string connectionString)
+    {
+        try
+        {
+            _ = new NpgsqlConnectionStringBuilder(connectionString);
+        }
+        catch (Exception ex) when (ex is ArgumentException or FormatException or InvalidCastException)
+        {
+            throw new ArgumentException($"--store: not a valid PostgreSQL connection string: {ex.Message}", ex);
+        }
+
+        return Postgres(connectionString);
     }
 
     private static StoreLocation Postgres(string connectionString)
