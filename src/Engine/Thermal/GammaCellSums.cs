@@ -29,6 +29,9 @@ internal sealed class GammaCellSums
     private const double Kb = PhysicalConstants.BoltzmannJPerK;
     private const double RadPerThz = 2 * Math.PI * 1e12;
 
+    /// <summary>How far lambda(2 eps) / lambda(eps) of an acoustic branch may be from a cone's 4 (a q^2 branch gives 16).</summary>
+    private const double ConeRatioTolerance = 0.05;
+
     private GammaCellSums(double coneValueRadPerS, double logValue, int acoustic)
     {
         ConeValueRadPerS = coneValueRadPerS;
@@ -49,7 +52,8 @@ internal sealed class GammaCellSums
     /// The q = 0 values for this mesh from the model's own long waves: each direction's acoustic speeds c_b = omega_b(eps q^) / eps
     /// with eps 1e-4 of the shortest reciprocal vector (the dispersion's curvature then moves them by about 1e-8), their sum
     /// and sum of logs split into the direction average and harmonics of even degree up to <see cref="MaxDegree"/>, each
-    /// harmonic's lattice sum from <see cref="LatticeZeta.HarmonicSum"/>. Null when a speed is not positive.
+    /// harmonic's lattice sum from <see cref="LatticeZeta.HarmonicSum"/>. Null when a speed is not positive or a branch is
+    /// not a cone (omega(2 eps) not twice omega(eps): a flexural branch).
     /// </summary>
     public static GammaCellSums? Of(ModeSolver solver, PeriodicGrid grid)
     {
@@ -96,11 +100,19 @@ internal sealed class GammaCellSums
                 q += u[k] * frame[k];
             }
 
+            solver.SolveValues(2 * epsilon * q);
+            var doubled = solver.Values.Order().Take(acoustic).ToArray();
             solver.SolveValues(epsilon * q);
+            var b = 0;
             foreach (var lambda in solver.Values.Order().Take(acoustic))
             {
                 var speed = Math.Sqrt(Math.Max(0, lambda)) / epsilon;
-                if (!(speed > 0))
+
+                // A branch that is not a cone at q = 0 (a sheet's flexural branch, omega ~ q^2: its "speed" vanishes with
+                // eps) has no zeta value here; its ln omega would be read as the log of a vanishing speed (S 4 % high on a
+                // hexagonal flexural sheet on 9 x 9 at 212 K, docs/outside-checks.md Round 30 (lead)), so such a point keeps
+                // the density of states' sums. A cone's lambda(2 eps) / lambda(eps) is 4 to within its curvature (1e-8).
+                if (!(speed > 0) || Math.Abs((doubled[b++] / lambda) - 4) > ConeRatioTolerance)
                 {
                     return null;
                 }
