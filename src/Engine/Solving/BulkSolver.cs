@@ -276,7 +276,7 @@ internal static class BulkSolver
         // nor sheets' zero valleys (floors the estimate does not see).
         if (dimension >= 2 && !gaussian && !unstable && zeroModes == rigid && valleys.Count == 0)
         {
-            BlendPlainSums(solver, sink, frequencies, n, grid, dimension);
+            BlendPlainSums(solver, sink, frequencies, n, grid);
         }
 
         var outGrid = new FrequencyGrid(fine.StartThz, fine.WidthThz * perOutput, options.DosBins);
@@ -333,28 +333,23 @@ internal static class BulkSolver
         };
     }
 
-    private static void BlendPlainSums(ModeSolver solver, ModeSink sink, double[] frequencies, int branches, PeriodicGrid grid, int dimension)
+    private static void BlendPlainSums(ModeSolver solver, ModeSink sink, double[] frequencies, int branches, PeriodicGrid grid)
     {
-        var probes = Thermal.PeriodicMeshSums.Probe(solver, grid);
-        if (probes is null)
-        {
-            return;
-        }
-
-        var cellMeasure = solver.Matrix.Crystal.Lattice.CellMeasure;
         var temperatures = sink.TemperaturesK;
+        var internalJ = new double[temperatures.Length];
+        var heatCapacity = new double[temperatures.Length];
         for (var t = 0; t < temperatures.Length; t++)
         {
-            if (!(temperatures[t] > 0))
+            if (temperatures[t] > 0)
             {
-                continue;
+                (internalJ[t], heatCapacity[t]) = Thermal.PeriodicMeshSums.Sums(frequencies, branches, temperatures[t]);
             }
+        }
 
-            var (internalJ, heatCapacity) = Thermal.PeriodicMeshSums.Sums(frequencies, branches, temperatures[t]);
-            var error = Thermal.PeriodicMeshSums.EstimatedError(probes, cellMeasure, dimension, temperatures[t], heatCapacity);
-            var weight = Thermal.PeriodicMeshSums.Weight(error);
-
-            sink.BlendPlainSums(t, weight, internalJ, heatCapacity);
+        var weights = Thermal.PeriodicMeshSums.PlainWeights(solver, grid, temperatures, heatCapacity);
+        for (var t = 0; t < temperatures.Length; t++)
+        {
+            sink.BlendPlainSums(t, weights[t], internalJ[t], heatCapacity[t]);
         }
     }
 
