@@ -57,15 +57,7 @@ internal static class PeriodicMeshSums
     /// </summary>
     public static double[] PlainWeights(ModeSolver solver, PeriodicGrid grid, ReadOnlySpan<double> temperaturesK, double[] plainHeatCapacityJPerK)
     {
-        var errors = EstimatedErrors(solver, grid, temperaturesK, plainHeatCapacityJPerK);
-        return [.. errors.Select(Weight)];
-    }
-
-    /// <summary><see cref="EstimatedError"/> at each temperature from this mesh's probes (see <see cref="PlainWeights"/>); infinite where not to be used.</summary>
-    internal static double[] EstimatedErrors(ModeSolver solver, PeriodicGrid grid, ReadOnlySpan<double> temperaturesK, double[] plainHeatCapacityJPerK)
-    {
-        var errors = new double[temperaturesK.Length];
-        Array.Fill(errors, double.PositiveInfinity);
+        var weights = new double[temperaturesK.Length];
         var anyPositive = false;
         foreach (var t in temperaturesK)
         {
@@ -74,7 +66,7 @@ internal static class PeriodicMeshSums
 
         if (!anyPositive)
         {
-            return errors;
+            return weights;
         }
 
         var crystal = solver.Matrix.Crystal;
@@ -86,7 +78,7 @@ internal static class PeriodicMeshSums
         {
             if (counts[a] < MinimumMeshCount)
             {
-                return errors;
+                return weights;
             }
         }
 
@@ -116,42 +108,37 @@ internal static class PeriodicMeshSums
             {
                 if (!(one[b] > 0) || two[b] > 3 * one[b])
                 {
-                    return errors;
+                    Array.Clear(weights);
+                    return weights;
                 }
             }
 
-            probes.Add(new LongWaveProbe(q.Length, r.Unit(), one, two));
+            probes.Add(new LongWaveProbe(q.Length, r.Unit(), one));
         }
 
         var cellMeasure = lattice.CellMeasure;
         for (var t = 0; t < temperaturesK.Length; t++)
         {
-            errors[t] = EstimatedError(probes, cellMeasure, dimension, temperaturesK[t], plainHeatCapacityJPerK[t]);
+            weights[t] = Weight(EstimatedError(probes, cellMeasure, dimension, temperaturesK[t], plainHeatCapacityJPerK[t]));
         }
 
-        return errors;
+        return weights;
     }
 
     /// <summary>
     /// The estimated relative error of the plain sum's Cv at temperature T (infinite where it is not to be used). For each
-    /// probed R and acoustic branch b: the cone table's error at an effective step dy (a d-th of it: the calibration lattice
-    /// has d pairs alike) times that branch's long-wave Cv, (2 pi^2 / 15) kB (kT / hbar)^3 V / c^3 in 3D, (3 zeta(3) / pi)
-    /// kB (kT / hbar)^2 A / c^2 in 2D (Ashcroft and Mermin eq. 23.30; the 2D one derived the same way), with c^d taken as
-    /// c_min^(d-1) c_R (the slowest speed over every R and branch: a branch fast along R may be slow across it, as a simple
-    /// cubic crystal's x-polarised branch is across x) and at most the plain sum's Cv, over the plain sum's Cv.
-    /// <para>
-    /// The effective step (Round 30) is 2 pi q_R / kappa, kappa the distance of the poles from the real axis (a cone's
-    /// kappa = 2 pi kT / (hbar c) gives dy = hbar c q_R / kT). Two things set it, both derived here (common practice, no
-    /// source). The branch's curvature: omega^2 = a q^2 + b q^4 through omega(q_R) and omega(2 q_R) continued to
-    /// omega^2 = -(2 pi kT / hbar)^2 (a branch bending down, as a lattice's does, brings its poles nearer than its speed says;
-    /// Round 29's dy = hbar omega(q_R) / kT under-read a simple cubic 8^3 mesh 2-5 fold at 20-40 K, this reads within
-    /// 1.0-1.1 of the NumPy errors on 8^3-12^3). And the other directions: shifting q by i eta keeps tr c(D) analytic while
-    /// hbar c_b(eta) |eta| &lt; 2 pi kT, so kappa along R is (2 pi kT / hbar) max_u (u . R^) / c_b(u), not only 1 / c_R (for
-    /// omega^2 = q A q, sqrt(R A^-1 R) after q -> A^-1/2 q): dy is scaled by c_eff / c_R, 1 / c_eff = max over the probed
-    /// directions u of |u . R^| / c_b(u), which can only err high. Measured: a hexagonal 11^3 cell at 26.4 K, 2.7e-3
-    /// against an error of 3.6e-4 (Round 29: 9.3e-2); docs/outside-checks.md, Round 30 (low-temperature coarse meshes). The
-    /// cones only: an optical branch's poles are not seen (the same section).
-    /// </para>
+    /// probed R and acoustic branch b: the cone table's error at dy = hbar c_eff q_R / kT (a d-th of it: the calibration
+    /// lattice has d pairs alike) times the branch's long-wave Cv, (2 pi^2 / 15) kB (kT / hbar)^3 V &lt;c_b^-3&gt; in 3D,
+    /// (3 zeta(3) / pi) kB (kT / hbar)^2 A &lt;c_b^-2&gt; in 2D (Ashcroft and Mermin eq. 23.30 with the direction mean of
+    /// c^-d, here over the probed directions; the 2D one derived the same way), at most the plain sum's Cv, over the plain
+    /// sum's Cv. c_eff sets how far the poles lie from the real wave vectors along R: shifting q by i eta keeps tr c(D)
+    /// analytic while hbar c_b(eta) |eta| &lt; 2 pi kT in every direction of eta, so the Fourier term at R falls as
+    /// exp(-(2 pi kT / hbar) |R| max_u (u . R^) / c_b(u)) (common practice, no source; for omega^2 = q A q it is
+    /// exp(-(2 pi kT / hbar) sqrt(R A^-1 R)), the isotropic cone's after q -> A^-1/2 q), so 1 / c_eff = max over the probed
+    /// directions u of |u . R^| / c_b(u), which can only err high: a branch fast along R and slow in a direction with a part
+    /// along R has its term at R fall faster than its speed along R says. Measured: hexagonal 11^3 at 26.4 K, 3.9e-4 against
+    /// an error of 3.6e-4 (Round 29's c_min^(d-1) c_R weights read 9.3e-2; docs/outside-checks.md, Round 30 (low-temperature
+    /// coarse meshes)). The cones only: an optical branch's poles are not seen (the same Round 30 section).
     /// </summary>
     public static double EstimatedError(IReadOnlyList<LongWaveProbe>? probes, double cellMeasure, int dimension, double temperatureK, double plainHeatCapacityJPerK)
     {
@@ -160,74 +147,34 @@ internal static class PeriodicMeshSums
             return double.PositiveInfinity;
         }
 
-        var slowest = double.PositiveInfinity;
-        foreach (var probe in probes)
-        {
-            foreach (var omega in probe.OmegaRadPerS)
-            {
-                slowest = Math.Min(slowest, omega / probe.QPerM);
-            }
-        }
-
         var thermalOmega = Kb * temperatureK / Hbar;
         var prefactor = dimension == 3 ? 2 * Math.PI * Math.PI / 15 : 3 * 1.2020569031595942 / Math.PI;
+        var branches = probes[0].OmegaRadPerS.Length;
         var error = 0.0;
-        foreach (var probe in probes)
+        for (var b = 0; b < branches; b++)
         {
-            for (var b = 0; b < probe.OmegaRadPerS.Length; b++)
+            var inverseMean = 0.0;
+            foreach (var probe in probes)
             {
-                var omega = probe.OmegaRadPerS[b];
-                var speed = omega / probe.QPerM;
-                var kappa = PoleDistance(probe.QPerM, omega, probe.OmegaDoubleRadPerS[b], 2 * Math.PI * thermalOmega);
-                if (!(kappa > 0))
-                {
-                    return double.PositiveInfinity;
-                }
+                inverseMean += Math.Pow(probe.QPerM / probe.OmegaRadPerS[b], dimension);
+            }
 
-                var slowness = 1 / speed;
+            inverseMean /= probes.Count;
+            var branchHeatCapacity = Math.Min(prefactor * Kb * Math.Pow(thermalOmega, dimension) * inverseMean * cellMeasure, plainHeatCapacityJPerK);
+            foreach (var probe in probes)
+            {
+                var slowness = 0.0;
                 foreach (var other in probes)
                 {
                     slowness = Math.Max(slowness, Math.Abs(probe.Direction.Dot(other.Direction)) * other.QPerM / other.OmegaRadPerS[b]);
                 }
 
-                var stepY = 2 * Math.PI * probe.QPerM / kappa / (speed * slowness);
-                var scale = Math.Pow(thermalOmega / slowest, dimension - 1) * (thermalOmega / speed);
-                var coneHeatCapacity = Math.Min(prefactor * Kb * scale * cellMeasure, plainHeatCapacityJPerK);
-                error += ConeError(stepY) / dimension * coneHeatCapacity;
+                error += ConeError(probe.QPerM / slowness / thermalOmega) / dimension * branchHeatCapacity;
             }
         }
 
         var relative = error / plainHeatCapacityJPerK;
         return relative >= 0 ? relative : double.PositiveInfinity;
-    }
-
-    /// <summary>
-    /// The imaginary wave number (1/m) at which omega^2 = a q^2 + b q^4, through (q1, omega1) and (2 q1, omega2), reaches
-    /// -poleOmega^2: the nearer root of b s^2 + a s + poleOmega^2 = 0 in s = q^2, |Im sqrt(s)|. 0 where the fit has neither
-    /// a positive q^2 nor a positive q^4 term.
-    /// </summary>
-    internal static double PoleDistance(double q1, double omega1, double omega2, double poleOmega)
-    {
-        var q2 = q1 * q1;
-        var a = ((16 * omega1 * omega1) - (omega2 * omega2)) / (12 * q2);
-        var b = ((omega2 * omega2) - (4 * omega1 * omega1)) / (12 * q2 * q2);
-        var w2 = poleOmega * poleOmega;
-        System.Numerics.Complex s;
-        if (a > 0)
-        {
-            // The root that tends to -w^2 / a as b -> 0, in the form without cancellation.
-            s = -2 * w2 / (a + System.Numerics.Complex.Sqrt((a * a) - (4 * b * w2)));
-        }
-        else if (b > 0)
-        {
-            s = System.Numerics.Complex.ImaginaryOne * Math.Sqrt(w2 / b);
-        }
-        else
-        {
-            return 0;
-        }
-
-        return Math.Abs(System.Numerics.Complex.Sqrt(s).Imaginary);
     }
 
     /// <summary>
@@ -320,5 +267,5 @@ internal static class PeriodicMeshSums
 
 }
 
-/// <summary>The acoustic branches' angular frequencies (rad/s, ascending) at q_R, the mesh step 2 pi / |R| along a superlattice vector R (Direction: R's unit vector), and at 2 q_R.</summary>
-internal sealed record LongWaveProbe(double QPerM, Vec3 Direction, double[] OmegaRadPerS, double[] OmegaDoubleRadPerS);
+/// <summary>The acoustic branches' angular frequencies (rad/s, ascending) at q_R, the mesh step 2 pi / |R| along a superlattice vector R (Direction: R's unit vector).</summary>
+internal sealed record LongWaveProbe(double QPerM, Vec3 Direction, double[] OmegaRadPerS);
