@@ -135,10 +135,12 @@ internal static class PeriodicMeshSums
     /// analytic while hbar c_b(eta) |eta| &lt; 2 pi kT in every direction of eta, so the Fourier term at R falls as
     /// exp(-(2 pi kT / hbar) |R| max_u (u . R^) / c_b(u)) (common practice, no source; for omega^2 = q A q it is
     /// exp(-(2 pi kT / hbar) sqrt(R A^-1 R)), the isotropic cone's after q -> A^-1/2 q), so 1 / c_eff = max over the probed
-    /// directions u of |u . R^| / c_b(u), which can only err high: a branch fast along R and slow in a direction with a part
-    /// along R has its term at R fall faster than its speed along R says. Measured: hexagonal 11^3 at 26.4 K, 3.9e-4 against
-    /// an error of 3.6e-4 (Round 29's c_min^(d-1) c_R weights read 9.3e-2; docs/outside-checks.md, Round 30 (low-temperature
-    /// coarse meshes)). The cones only: an optical branch's poles are not seen (the same Round 30 section).
+    /// directions u of |u . R^| / c_b(u) (a maximum over fewer directions, so c_eff errs high): a branch fast along R and slow
+    /// in a direction with a part along R has its term at R fall faster than its speed along R says. Measured: hexagonal
+    /// 11^3 at 26.4 K, 3.9e-4 against an error of 3.6e-4 (Round 29's c_min^(d-1) c_R weights read 9.3e-2). It under-reads a
+    /// simple cubic crystal 2.4-13 fold (Round 29's: 1.5-5 fold; the sorted top branch's mean misses that the x-polarised
+    /// branch is slow across x, and neither sees the branch's bending), and it sees the cones only, not an optical branch's
+    /// poles: docs/outside-checks.md, Round 30 (low-temperature coarse meshes).
     /// </summary>
     public static double EstimatedError(IReadOnlyList<LongWaveProbe>? probes, double cellMeasure, int dimension, double temperatureK, double plainHeatCapacityJPerK)
     {
