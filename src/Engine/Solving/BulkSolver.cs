@@ -276,7 +276,7 @@ internal static class BulkSolver
         // nor sheets' zero valleys (floors the estimate does not see).
         if (dimension >= 2 && !gaussian && !unstable && zeroModes == rigid && valleys.Count == 0)
         {
-            BlendPlainSums(solver, sink, frequencies, n, grid, dimension);
+            BlendPlainSums(solver, sink, frequencies, n, grid);
         }
 
         var outGrid = new FrequencyGrid(fine.StartThz, fine.WidthThz * perOutput, options.DosBins);
@@ -333,10 +333,22 @@ internal static class BulkSolver
         };
     }
 
-    private static void BlendPlainSums(ModeSolver solver, ModeSink sink, double[] frequencies, int branches, PeriodicGrid grid, int dimension)
+    private static void BlendPlainSums(ModeSolver solver, ModeSink sink, double[] frequencies, int branches, PeriodicGrid grid)
     {
-        var probes = Thermal.PeriodicMeshSums.Probe(solver, grid);
-        if (probes is null)
+        var temperatures = sink.TemperaturesK;
+        var internalJ = new double[temperatures.Length];
+        var heatCapacity = new double[temperatures.Length];
+        for (var t = 0; t < temperatures.Length; t++)
+        {
+            if (temperatures[t] > 0)
+            {
+                (internalJ[t], heatCapacity[t]) = Thermal.PeriodicMeshSums.Sums(frequencies, branches, temperatures[t]);
+            }
+        }
+
+        // Null where the mesh is too small or a long-wave probe fails (a q^2 branch): the density of states' sums stay.
+        var weights = Thermal.PeriodicMeshSums.PlainWeights(solver, grid, temperatures, heatCapacity);
+        if (weights is null)
         {
             return;
         }
@@ -349,8 +361,6 @@ internal static class BulkSolver
             sink.ReplaceZeroPoint(gammaCell.ZeroPointJ(frequencies, grid, branches));
         }
 
-        var cellMeasure = solver.Matrix.Crystal.Lattice.CellMeasure;
-        var temperatures = sink.TemperaturesK;
         for (var t = 0; t < temperatures.Length; t++)
         {
             if (!(temperatures[t] > 0))
@@ -358,15 +368,11 @@ internal static class BulkSolver
                 continue;
             }
 
-            var (internalJ, heatCapacity) = Thermal.PeriodicMeshSums.Sums(frequencies, branches, temperatures[t]);
-            var error = Thermal.PeriodicMeshSums.EstimatedError(probes, cellMeasure, dimension, temperatures[t], heatCapacity);
-            var weight = Thermal.PeriodicMeshSums.Weight(error);
-
-            sink.BlendPlainSums(t, weight, internalJ, heatCapacity);
-            if (gammaCell is not null && weight > 0)
+            sink.BlendPlainSums(t, weights[t], internalJ[t], heatCapacity[t]);
+            if (gammaCell is not null && weights[t] > 0)
             {
-                var entropy = (internalJ - gammaCell.FreeJ(frequencies, grid, branches, temperatures[t])) / temperatures[t];
-                sink.BlendPlainEntropy(t, weight, entropy);
+                var entropy = (internalJ[t] - gammaCell.FreeJ(frequencies, grid, branches, temperatures[t])) / temperatures[t];
+                sink.BlendPlainEntropy(t, weights[t], entropy);
             }
         }
     }

@@ -7,7 +7,8 @@ namespace LatticeSweep.Engine.Thermal;
 
 /// <summary>
 /// Plain sums over a bulk point's Gamma-centred mesh of the thermal functions that are analytic in omega^2, for the
-/// temperatures where such a sum has converged: U and Cv (F = U - T S moves with U; S keeps the density of states').
+/// temperatures where such a sum has converged: U and Cv (S and F take the same weight through <see cref="GammaCellSums"/>,
+/// which gives the q = 0 point the lattice zeta values of the singular ln omega and omega; F = U - T S holds).
 /// <para>
 /// Why: Cv per mode, c(x) = x^2 e^x / (e^x - 1)^2, and U per mode, (kT) (x/2) coth(x/2), are even in x = hbar omega / kT,
 /// so sum_b c(x_b(q)) = tr c(D(q)) is an analytic periodic function of q, the cone at q = 0 and branch crossings
@@ -16,7 +17,8 @@ namespace LatticeSweep.Engine.Thermal;
 /// which the acoustic cones bring nearest to the real q at i 2 pi kT / (hbar c). Linear simplices converge as h^2 and
 /// left Cv 3e-4 low at 60 K on a simple cubic 8^3 mesh where the plain sum is within 5e-7 (docs/outside-checks.md,
 /// Round 29 (coarse meshes)). S and F contain ln x, singular at q = 0; splitting it off as the log moment put the
-/// simplices' error of ln omega of frozen modes into S (a sheet on 10 x 10: 2.6e-2 high at 500 K), so S stays.
+/// simplices' error of ln omega of frozen modes into S (a sheet on 10 x 10: 2.6e-2 high at 500 K), so S takes the plain
+/// sum of ln omega with the q = 0 point filled instead (Round 30).
 /// </para>
 /// </summary>
 internal static class PeriodicMeshSums
@@ -37,9 +39,7 @@ internal static class PeriodicMeshSums
     ];
 
     /// <summary>
-    /// Estimated relative error at or below which the plain sum is taken alone. The estimate is of the slowest cone's own Cv,
-    /// as if isotropic at each R's speed: on a hexagonal 11^3 cell it read 2e-3 at 26 K where the plain sum was 3.6e-4 off
-    /// and the simplices 1.1e-2 (docs/outside-checks.md, Round 29).
+    /// Estimated relative error at or below which the plain sum is taken alone.
     /// </summary>
     public const double PlainAloneError = 1e-4;
 
@@ -50,14 +50,18 @@ internal static class PeriodicMeshSums
     public const int MinimumMeshCount = 4;
 
     /// <summary>
-    /// The acoustic branches at the short vectors R = sum_i n_i M_i a_i (n_i in {-1, 0, 1}, one of each pair +-R) of the
-    /// mesh's superlattice, whose Fourier terms are the plain sum's error (Poisson summation): each branch's omega at
-    /// q_R = 2 pi R / |R|^2, the mesh step along R. Null where the mesh is too small, a branch is not positive there, or
-    /// one rises as q^2 (omega(2 q_R) above 3 omega(q_R): a sheet's flexural branch, whose poles the cone table does not
-    /// describe): such points keep the density of states' sums.
+    /// The weight of the plain sum at each temperature (<see cref="Weight"/> of <see cref="EstimatedError"/>; 0 where it is not
+    /// to be used), the estimate from the acoustic branches at the short vectors R = sum_i n_i M_i a_i (n_i in {-1, 0, 1}, one
+    /// of each pair +-R) of the mesh's superlattice, whose Fourier terms are the plain sum's error (Poisson summation): each
+    /// branch's omega at q_R = 2 pi R / |R|^2, the mesh step along R, and at 2 q_R. Null where the mesh is too small, a branch
+    /// is not positive there, or one rises as q^2 (omega(2 q_R) above 3 omega(q_R): a sheet's flexural branch, whose poles the
+    /// cone table does not describe): such points keep the density of states' sums, and their zero-point energy, S and F too
+    /// (<see cref="GammaCellSums"/> is used only where the probes succeed). The probes run also where no temperature is
+    /// positive, since the zero-point energy's plain sum depends on them.
     /// </summary>
-    public static LongWaveProbe[]? Probe(ModeSolver solver, PeriodicGrid grid)
+    public static double[]? PlainWeights(ModeSolver solver, PeriodicGrid grid, ReadOnlySpan<double> temperaturesK, double[] plainHeatCapacityJPerK)
     {
+        var weights = new double[temperaturesK.Length];
         var crystal = solver.Matrix.Crystal;
         var lattice = crystal.Lattice;
         var dimension = lattice.Dimension;
@@ -71,7 +75,7 @@ internal static class PeriodicMeshSums
             }
         }
 
-        var probes = new List<LongWaveProbe>();
+        var vectors = new List<Vec3>();
         var span = (int)Math.Pow(3, dimension);
         for (var code = (span / 2) + 1; code < span; code++)
         {
@@ -84,6 +88,12 @@ internal static class PeriodicMeshSums
                 c /= 3;
             }
 
+            vectors.Add(r);
+        }
+
+        var probes = new List<LongWaveProbe>(vectors.Count);
+        foreach (var r in vectors)
+        {
             var q = 2 * Math.PI / r.Dot(r) * r;
             var one = LowestOmegas(solver, q, acoustic);
             var two = LowestOmegas(solver, 2 * q, acoustic);
@@ -95,49 +105,65 @@ internal static class PeriodicMeshSums
                 }
             }
 
-            probes.Add(new LongWaveProbe(q.Length, one));
+            probes.Add(new LongWaveProbe(q.Length, r.Unit(), one));
         }
 
-        return [.. probes];
+        var cellMeasure = lattice.CellMeasure;
+        for (var t = 0; t < temperaturesK.Length; t++)
+        {
+            weights[t] = temperaturesK[t] > 0 ? Weight(EstimatedError(probes, cellMeasure, dimension, temperaturesK[t], plainHeatCapacityJPerK[t])) : 0;
+        }
+
+        return weights;
     }
 
     /// <summary>
-    /// The estimated relative error of the plain sum's Cv at temperature T (infinite where it is not to be used). The estimate:
-    /// for each R and acoustic branch, the cone table's error at dy = hbar omega(q_R) / kT (a d-th of it: the calibration
-    /// lattice has d pairs alike) times that branch's long-wave Cv, (2 pi^2 / 15) kB (kT / hbar)^3 V / c^3 in 3D,
-    /// (3 zeta(3) / pi) kB (kT / hbar)^2 A / c^2 in 2D (Ashcroft and Mermin eq. 23.30; the 2D one derived the same way),
-    /// with c^d taken as c_min^(d-1) c_R (the slowest speed over every R and branch: a branch fast along R may be slow
-    /// across it, as a simple cubic crystal's z-polarised branch is) and at most the plain sum's Cv, over the plain sum's Cv.
-    /// Measured: 1.3e-2 against 1.8e-2 on a simple cubic 8^3 mesh at 20 K; conservative where a slow direction is not the
-    /// branch's (a hexagonal 11^3 cell at 26 K: 1.2e-2 against 3.6e-4, so the simplices' sums stay there).
+    /// The estimated relative error of the plain sum's Cv at temperature T (infinite where it is not to be used). For each
+    /// probed R and acoustic branch b: the cone table's error at dy = hbar c_eff q_R / kT (a d-th of it: the calibration
+    /// lattice has d pairs alike) times the branch's long-wave Cv, (2 pi^2 / 15) kB (kT / hbar)^3 V &lt;c_b^-3&gt; in 3D,
+    /// (3 zeta(3) / pi) kB (kT / hbar)^2 A &lt;c_b^-2&gt; in 2D (Ashcroft and Mermin eq. 23.30 with the direction mean of
+    /// c^-d, here over the probed directions; the 2D one derived the same way), at most the plain sum's Cv, over the plain
+    /// sum's Cv. c_eff sets how far the poles lie from the real wave vectors along R: shifting q by i eta keeps tr c(D)
+    /// analytic while hbar c_b(eta) |eta| &lt; 2 pi kT in every direction of eta, so the Fourier term at R falls as
+    /// exp(-(2 pi kT / hbar) |R| max_u (u . R^) / c_b(u)) (common practice, no source; for omega^2 = q A q it is
+    /// exp(-(2 pi kT / hbar) sqrt(R A^-1 R)), the isotropic cone's after q -> A^-1/2 q), so 1 / c_eff = max over the probed
+    /// directions u of |u . R^| / c_b(u) (a maximum over fewer directions, so c_eff errs high): a branch fast along R and slow
+    /// in a direction with a part along R has its term at R fall faster than its speed along R says. Measured: hexagonal
+    /// 11^3 at 26.4 K, 3.9e-4 against an error of 3.6e-4 (Round 29's c_min^(d-1) c_R weights read 9.3e-2). It under-reads a
+    /// simple cubic crystal 2.4-13 fold (Round 29's: 1.5-5 fold; the sorted top branch's mean misses that the x-polarised
+    /// branch is slow across x, and neither sees the branch's bending), and it sees the cones only, not an optical branch's
+    /// poles: docs/outside-checks.md, Round 30 (low-temperature coarse meshes).
     /// </summary>
-    public static double EstimatedError(LongWaveProbe[]? probes, double cellMeasure, int dimension, double temperatureK, double plainHeatCapacityJPerK)
+    public static double EstimatedError(IReadOnlyList<LongWaveProbe>? probes, double cellMeasure, int dimension, double temperatureK, double plainHeatCapacityJPerK)
     {
-        if (probes is null || !(temperatureK > 0) || !(plainHeatCapacityJPerK > 0))
+        if (probes is null || probes.Count == 0 || !(temperatureK > 0) || !(plainHeatCapacityJPerK > 0))
         {
             return double.PositiveInfinity;
         }
 
-        var slowest = double.PositiveInfinity;
-        foreach (var probe in probes)
-        {
-            foreach (var omega in probe.OmegaRadPerS)
-            {
-                slowest = Math.Min(slowest, omega / probe.QPerM);
-            }
-        }
-
         var thermalOmega = Kb * temperatureK / Hbar;
         var prefactor = dimension == 3 ? 2 * Math.PI * Math.PI / 15 : 3 * 1.2020569031595942 / Math.PI;
+        var branches = probes[0].OmegaRadPerS.Length;
         var error = 0.0;
-        foreach (var probe in probes)
+        for (var b = 0; b < branches; b++)
         {
-            foreach (var omega in probe.OmegaRadPerS)
+            var inverseMean = 0.0;
+            foreach (var probe in probes)
             {
-                var speed = omega / probe.QPerM;
-                var scale = Math.Pow(thermalOmega / slowest, dimension - 1) * (thermalOmega / speed);
-                var coneHeatCapacity = Math.Min(prefactor * Kb * scale * cellMeasure, plainHeatCapacityJPerK);
-                error += ConeError(omega / thermalOmega) / dimension * coneHeatCapacity;
+                inverseMean += Math.Pow(probe.QPerM / probe.OmegaRadPerS[b], dimension);
+            }
+
+            inverseMean /= probes.Count;
+            var branchHeatCapacity = Math.Min(prefactor * Kb * Math.Pow(thermalOmega, dimension) * inverseMean * cellMeasure, plainHeatCapacityJPerK);
+            foreach (var probe in probes)
+            {
+                var slowness = 0.0;
+                foreach (var other in probes)
+                {
+                    slowness = Math.Max(slowness, Math.Abs(probe.Direction.Dot(other.Direction)) * other.QPerM / other.OmegaRadPerS[b]);
+                }
+
+                error += ConeError(probe.QPerM / slowness / thermalOmega) / dimension * branchHeatCapacity;
             }
         }
 
@@ -148,6 +174,9 @@ internal static class PeriodicMeshSums
     /// <summary>
     /// The weight of the plain sum (0: the density of states' sums alone, 1: the plain sum alone) for an estimated relative
     /// error (<see cref="EstimatedError"/>), log-linear in it between <see cref="PlainAloneError"/> and <see cref="PlainUnusedError"/>.
+    /// Not widened where the two sums disagree by far more than the estimate: the estimate sees the acoustic cones only, and
+    /// a hexagonal sheet on 15 x 15 at 9.4 K read 1.4e-3 with the two sums 1.5e-2 apart, where the plain sum was the one
+    /// 1.4e-2 off (docs/outside-checks.md, Round 30 (low-temperature coarse meshes)).
     /// </summary>
     public static double Weight(double error)
     {
@@ -232,5 +261,5 @@ internal static class PeriodicMeshSums
 
 }
 
-/// <summary>The acoustic branches' angular frequencies (rad/s, ascending) at q_R, the mesh step 2 pi / |R| along a superlattice vector R.</summary>
-internal sealed record LongWaveProbe(double QPerM, double[] OmegaRadPerS);
+/// <summary>The acoustic branches' angular frequencies (rad/s, ascending) at q_R, the mesh step 2 pi / |R| along a superlattice vector R (Direction: R's unit vector).</summary>
+internal sealed record LongWaveProbe(double QPerM, Vec3 Direction, double[] OmegaRadPerS);

@@ -39,4 +39,34 @@ public class CoarseMeshPlainSumTests
         var row = PhononSolver.Solve(Model(), BulkSample.Create(8, 8, 8), Options).Thermal[0];
         Assert.InRange(row.HeatCapacityJPerMolK / 0.7699364634239029, 0.98, 1.0);
     }
+
+    /// <summary>
+    /// Invented (the random audit kit's seed 2801 case 31, its parameters copied): a hexagonal two-site cell, a = 0.2759 nm,
+    /// c = 0.4011 nm, slow along one in-plane direction only, so its top acoustic branch is fast along the other two.
+    /// </summary>
+    private static CrystalModel SlowAcrossModel() => CrystalModel.Create(
+        Lattice.Hexagonal(0.2759, 0.4011),
+        [new Site("S0", "S0", Vec3.Zero, 3.216), new Site("S1", "S1", new Vec3(0.691, 0.045, 0.049), 21.8163)],
+        bondSprings:
+        [
+            new BondSpring("S0", "S1", new IntVec3(-1, 0, 1), 6.47, 2.5337),
+            new BondSpring("S1", "S1", new IntVec3(1, 0, 0), 2.5769, 0.6676),
+            new BondSpring("S0", "S0", new IntVec3(0, 1, 0), 3.9945, 1.7892),
+            new BondSpring("S0", "S0", new IntVec3(0, 0, 1), 10.3934, 1.1151),
+            new BondSpring("S0", "S1", new IntVec3(-1, 0, 0), 52.2707, 22.4839),
+            new BondSpring("S1", "S0", new IntVec3(-1, -1, 1), 2.8188, 1.064),
+            new BondSpring("S1", "S0", new IntVec3(0, -1, 0), 71.0944, 9.7758),
+        ]);
+
+    [Fact]
+    public void A_branch_fast_along_the_mesh_axes_and_slow_across_them_takes_part_of_the_plain_sum_at_26_K_on_11_cubed()
+    {
+        // Reference: the audit kit (docs/audit, no code shared with the engine): plain sums on shifted 16^3 and 24^3 meshes,
+        // agreeing within 4e-4, 0.5252524 J/(mol K). The tetrahedra read 0.5194605 (1.1e-2 low); the plain sum is 3.6e-4
+        // high (Round 29: the engine's exact sum over the 11^3 finite crystal plus the rigid modes' kB). Round 29's estimate (9.3e-2, c_min^(d-1) c_R weights) kept the tetrahedra alone; the poles' own speed
+        // puts it at 3.9e-4, weight 0.41, so Cv is 6.6e-3 low: nearer, and above main's reading.
+        var options = new SolveOptions { TemperaturesK = [26.401], MeanSquareDisplacement = false, PartialDos = false };
+        var row = PhononSolver.Solve(SlowAcrossModel(), BulkSample.Create(11, 11, 11), options).Thermal[0];
+        Assert.InRange(row.HeatCapacityJPerMolK / 0.5252523544051171, 1 - 8e-3, 1 - 4e-3);
+    }
 }
