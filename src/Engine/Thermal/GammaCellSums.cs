@@ -144,14 +144,16 @@ internal sealed class GammaCellSums
 
         var meanSpeed = directions.Select((x, p) => x.Weight * speedSums[p]).Sum();
         var meanLog = directions.Select((x, p) => x.Weight * logSums[p]).Sum();
-        var (zetaAtMinusOne, zetaSlopeAtZero) = LatticeZeta.Of(gram);
-        var cone = -zetaAtMinusOne * meanSpeed;
-        var log = meanLog + (acoustic * zetaSlopeAtZero);
-        cone -= LatticeZeta.AtMinusThree(gram) * directions.Select((x, p) => x.Weight * cubic[p]).Sum();
+        var harmonics = HarmonicsOf(d);
+        var zeta = MeshZetaValues.For(basis, gram, harmonics);
+        var cone = -zeta.AtMinusOne * meanSpeed;
+        var log = meanLog + (acoustic * zeta.SlopeAtZero);
+        cone -= zeta.AtMinusThree * directions.Select((x, p) => x.Weight * cubic[p]).Sum();
 
         // The anisotropy: for a harmonic Y of degree l, the sum of Y(x^) |x| needs Z_P at s = (l - 1) / 2, of Y(x^) at s = l / 2.
-        foreach (var (degree, harmonic) in Harmonics(d))
+        for (var h = 0; h < harmonics.Count; h++)
         {
+            var (degree, harmonic) = harmonics[h];
             double norm = 0, speedPart = 0, logPart = 0, cubicPart = 0, quadraticPart = 0;
             for (var p = 0; p < directions.Length; p++)
             {
@@ -166,14 +168,8 @@ internal sealed class GammaCellSums
 
             (speedPart, logPart, cubicPart, quadraticPart) = (speedPart / norm, logPart / norm, cubicPart / norm, quadraticPart / norm);
 
-            double Polynomial(double[] x)
-            {
-                var r = Math.Sqrt(x.Sum(c => c * c));
-                return Math.Pow(r, degree) * harmonic([.. x.Select(c => c / r)]);
-            }
-
             // Y |x|^2 sums to zero for degree 2 (a polynomial; Z_P(0) = 0), as the direction average's |x|^2 does (Z(-2) = 0).
-            var z = LatticeZeta.HarmonicSum(basis, Polynomial, degree, (degree - 1) / 2.0, degree / 2.0, (degree - 3) / 2.0, Math.Max(1, (degree - 2) / 2.0));
+            var z = zeta.Harmonic[h];
             cone -= (speedPart * z[0]) + (cubicPart * z[2]);
             log -= logPart * z[1];
             if (degree >= 4)
@@ -309,6 +305,13 @@ internal sealed class GammaCellSums
     /// 3D P_l^m(cos theta) cos(m phi), sin(m phi) (associated Legendre functions by their recurrence in l; Abramowitz and
     /// Stegun 8.5.3). Each times |x|^l is a harmonic polynomial.
     /// </summary>
+    private static IReadOnlyList<(int Degree, Func<double[], double> Harmonic)> HarmonicsOf(int dimension) =>
+        dimension == 2 ? Harmonics2 : Harmonics3;
+
+    private static readonly (int Degree, Func<double[], double> Harmonic)[] Harmonics2 = [.. Harmonics(2)];
+
+    private static readonly (int Degree, Func<double[], double> Harmonic)[] Harmonics3 = [.. Harmonics(3)];
+
     private static IEnumerable<(int Degree, Func<double[], double> Harmonic)> Harmonics(int dimension)
     {
         for (var l = 2; l <= MaxDegree; l += 2)
