@@ -338,11 +338,14 @@ internal static class BulkSolver
         var temperatures = sink.TemperaturesK;
         var internalJ = new double[temperatures.Length];
         var heatCapacity = new double[temperatures.Length];
+        var freeLogSum = new double[temperatures.Length];
+        var gammaStart = grid.Index(grid.N1 / 2, grid.N2 / 2, grid.N3 / 2) * branches;
+        var rigid = solver.Matrix.Crystal.Components;
         for (var t = 0; t < temperatures.Length; t++)
         {
             if (temperatures[t] > 0)
             {
-                (internalJ[t], heatCapacity[t]) = Thermal.PeriodicMeshSums.Sums(frequencies, branches, temperatures[t]);
+                (internalJ[t], heatCapacity[t], freeLogSum[t]) = Thermal.PeriodicMeshSums.SumsWithFree(frequencies, branches, temperatures[t], gammaStart, rigid);
             }
         }
 
@@ -371,7 +374,7 @@ internal static class BulkSolver
             sink.BlendPlainSums(t, weights[t], internalJ[t], heatCapacity[t]);
             if (gammaCell is not null && weights[t] > 0)
             {
-                var entropy = (internalJ[t] - gammaCell.FreeJ(frequencies, grid, branches, temperatures[t])) / temperatures[t];
+                var entropy = (internalJ[t] - gammaCell.FreeJ(freeLogSum[t], grid, temperatures[t])) / temperatures[t];
                 sink.BlendPlainEntropy(t, weights[t], entropy);
             }
         }

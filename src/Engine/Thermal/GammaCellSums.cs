@@ -194,21 +194,14 @@ internal sealed class GammaCellSums
     }
 
     /// <summary>
-    /// Free energy per cell (J) at T: the mesh mean of sum_b kT ln(2 sinh(x/2)), the q = 0 point's acoustic modes at
-    /// kT (<see cref="LogValue"/> + acoustic ln(hbar / kT)) (their ln(sinh(x/2) / (x/2)) is 0 at x = 0).
+    /// Free energy per cell (J) at T: the mesh mean of sum_b kT ln(2 sinh(x/2)), from the sum over every mode but q = 0's rigid
+    /// translations (<paramref name="freeLogSum"/>, <see cref="PeriodicMeshSums.SumsWithFree"/>), those at kT
+    /// (<see cref="LogValue"/> + acoustic ln(hbar / kT)) (their ln(sinh(x/2) / (x/2)) is 0 at x = 0).
     /// </summary>
-    public double FreeJ(double[] frequencyThz, PeriodicGrid grid, int branches, double temperatureK)
+    public double FreeJ(double freeLogSum, PeriodicGrid grid, double temperatureK)
     {
         var kt = Kb * temperatureK;
-        var sum = LogValue + (Acoustic * Math.Log(Hbar / kt));
-        foreach (var f in ModesBeyondRigid(frequencyThz, grid, branches))
-        {
-            var x = Hbar * RadPerThz * f / kt;
-            // ln(2 sinh(x/2)) = x/2 + ln(1 - e^-x).
-            sum += x > 40 ? x / 2 : (x / 2) + Math.Log(-SmallFunctions.ExpM1(-x));
-        }
-
-        return kt * sum / grid.Count;
+        return kt * (LogValue + (Acoustic * Math.Log(Hbar / kt)) + freeLogSum) / grid.Count;
     }
 
     /// <summary>Every mode's frequency (THz) but the rigid translations at q = 0 (the lowest <see cref="Acoustic"/> there).</summary>

@@ -218,6 +218,72 @@ internal static class PeriodicMeshSums
     }
 
     /// <summary>
+    /// <see cref="Sums"/> and, in the same pass, the sum of ln(2 sinh(x/2)) = x/2 + ln(1 - e^-x) over every mode but the
+    /// <paramref name="rigid"/> lowest at q = 0 (whose modes start at <paramref name="gammaStart"/>), for
+    /// <see cref="GammaCellSums.FreeJ"/>: ln(1 - e^-x) = -ln(1 + n) from the occupation n this pass has already, where a pass of
+    /// its own cost an exp and two logs a mode at every temperature (9.5 ms a temperature on a 40^3 two-site mesh,
+    /// bench/README.md Round 30 (lead)). U and Cv are summed as by <see cref="Sums"/>, to the bit.
+    /// </summary>
+    public static (double InternalJ, double HeatCapacityJPerK, double FreeLogSum) SumsWithFree(double[] frequencyThz, int branches, double temperatureK, long gammaStart, int rigid)
+    {
+        var kt = Kb * temperatureK;
+        double u = 0, cv = 0, free = 0;
+        for (long i = 0; i < frequencyThz.Length; i++)
+        {
+            var f = frequencyThz[i];
+            var atGamma = i >= gammaStart && i < gammaStart + branches;
+            var x = Hbar * 2 * Math.PI * 1e12 * Math.Max(0, f) / kt;
+            if (x < 1e-4)
+            {
+                // Series: (x/2) coth(x/2) = 1 + x^2/12, c = 1 - x^2/12 (x^4 terms below 1e-17).
+                u += 1 + (x * x / 12);
+                cv += 1 - (x * x / 12);
+                if (!atGamma)
+                {
+                    free += FreeTerm(Hbar * 2 * Math.PI * 1e12 * f / kt);
+                }
+
+                continue;
+            }
+
+            if (x > 700)
+            {
+                u += x / 2;
+                if (!atGamma)
+                {
+                    free += x / 2;
+                }
+
+                continue;
+            }
+
+            var em1 = Numerics.SmallFunctions.ExpM1(x);
+            var occupation = 1.0 / em1;
+            u += (x / 2) + (x * occupation);
+            cv += x * x * occupation * (1.0 + occupation); // n (n + 1) = e^x / (e^x - 1)^2, without e^x's overflow near x = 700
+            if (!atGamma)
+            {
+                // ln(1 - e^-x) = -ln(1 + n); below 1e-8, n itself (n^2 / 2 is under 1e-16 of it).
+                free += (x / 2) - (occupation < 1e-8 ? occupation : Math.Log(1 + occupation));
+            }
+        }
+
+        // q = 0's modes but its rigid translations, lowest first.
+        var at = frequencyThz.AsSpan((int)gammaStart, branches).ToArray();
+        Array.Sort(at);
+        for (var k = rigid; k < branches; k++)
+        {
+            free += FreeTerm(Hbar * 2 * Math.PI * 1e12 * at[k] / kt);
+        }
+
+        var points = (double)frequencyThz.Length / branches;
+        return (kt * u / points, Kb * cv / points, free);
+    }
+
+    /// <summary>ln(2 sinh(x/2)) = x/2 + ln(1 - e^-x), for the few modes the pass above does not reach by its occupation.</summary>
+    private static double FreeTerm(double x) => x > 40 ? x / 2 : (x / 2) + Math.Log(-Numerics.SmallFunctions.ExpM1(-x));
+
+    /// <summary>
     /// Per cell (J, J/K): the mesh mean of sum_b U and Cv at temperature T, every mode of the mesh once (q = 0's zero modes
     /// at their limits x -> 0: U = kT, Cv = kB).
     /// </summary>
