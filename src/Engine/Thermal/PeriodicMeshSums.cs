@@ -218,11 +218,12 @@ internal static class PeriodicMeshSums
     }
 
     /// <summary>
-    /// <see cref="Sums"/> and, in the same pass, the sum of ln(2 sinh(x/2)) = x/2 + ln(1 - e^-x) over every mode but the
+    /// The plain sums' U (J per cell) and Cv (J/K per cell) at T over every mode of the mesh (q = 0's rigid modes count
+    /// kT and kB, their limit), and, in the same pass, the sum of ln(2 sinh(x/2)) = x/2 + ln(1 - e^-x) over every mode but the
     /// <paramref name="rigid"/> lowest at q = 0 (whose modes start at <paramref name="gammaStart"/>), for
     /// <see cref="GammaCellSums.FreeJ"/>: ln(1 - e^-x) = -ln(1 + n) from the occupation n this pass has already, where a pass of
     /// its own cost an exp and two logs a mode at every temperature (9.5 ms a temperature on a 40^3 two-site mesh,
-    /// bench/README.md Round 30 (lead)). U and Cv are summed as by <see cref="Sums"/>, to the bit.
+    /// bench/README.md Round 30 (lead)).
     /// </summary>
     public static (double InternalJ, double HeatCapacityJPerK, double FreeLogSum) SumsWithFree(double[] frequencyThz, int branches, double temperatureK, long gammaStart, int rigid)
     {
@@ -282,41 +283,6 @@ internal static class PeriodicMeshSums
 
     /// <summary>ln(2 sinh(x/2)) = x/2 + ln(1 - e^-x), for the few modes the pass above does not reach by its occupation.</summary>
     private static double FreeTerm(double x) => x > 40 ? x / 2 : (x / 2) + Math.Log(-Numerics.SmallFunctions.ExpM1(-x));
-
-    /// <summary>
-    /// Per cell (J, J/K): the mesh mean of sum_b U and Cv at temperature T, every mode of the mesh once (q = 0's zero modes
-    /// at their limits x -> 0: U = kT, Cv = kB).
-    /// </summary>
-    public static (double InternalJ, double HeatCapacityJPerK) Sums(double[] frequencyThz, int branches, double temperatureK)
-    {
-        var kt = Kb * temperatureK;
-        double u = 0, cv = 0;
-        foreach (var f in frequencyThz)
-        {
-            var x = Hbar * 2 * Math.PI * 1e12 * Math.Max(0, f) / kt;
-            if (x < 1e-4)
-            {
-                // Series: (x/2) coth(x/2) = 1 + x^2/12, c = 1 - x^2/12 (x^4 terms below 1e-17).
-                u += 1 + (x * x / 12);
-                cv += 1 - (x * x / 12);
-                continue;
-            }
-
-            if (x > 700)
-            {
-                u += x / 2;
-                continue;
-            }
-
-            var em1 = Numerics.SmallFunctions.ExpM1(x);
-            var occupation = 1.0 / em1;
-            u += (x / 2) + (x * occupation);
-            cv += x * x * occupation * (1.0 + occupation); // n (n + 1) = e^x / (e^x - 1)^2, without e^x's overflow near x = 700
-        }
-
-        var points = (double)frequencyThz.Length / branches;
-        return (kt * u / points, Kb * cv / points);
-    }
 
     private static double[] LowestOmegas(ModeSolver solver, Vec3 qPerM, int count)
     {
